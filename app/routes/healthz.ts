@@ -1,0 +1,3 @@
+export async function loader() {
+  return Response.json({ ok: true });
+}
