@@ -1,0 +1,32 @@
+// `npm start`: everything a fresh machine needs to run Firmsand with its demo scenario.
+// Installs what is missing, brings up the private MariaDB and the fake SMTP server, migrates,
+// seeds the demo when the database is empty, builds and serves on http://127.0.0.1:3000.
+import { spawn } from "node:child_process";
+import { bin, ensureNpmPackages, localSecret, log, run } from "./lib.mjs";
+import { ensureMariaDb } from "./db.mjs";
+
+ensureNpmPackages();
+const { ensureMailServer } = await import("./services.mjs");
+const database = await ensureMariaDb("dev");
+const mail = await ensureMailServer("dev");
+
+const env = {
+  ...process.env,
+  ...database.env,
+  ...mail.env,
+  NODE_ENV: "production",
+  DEMO_MODE: process.env.DEMO_MODE ?? "1",
+  SESSION_SECRET: process.env.SESSION_SECRET ?? localSecret("session"),
+  PORT: process.env.PORT ?? "3000",
+  HOST: process.env.HOST ?? "127.0.0.1",
+};
+
+run(bin("tsx"), ["db/migrate.ts", "up"], { env });
+run(bin("tsx"), ["db/seed.ts", "demo"], { env });
+log("building the app");
+run(bin("react-router"), ["build"], { env });
+
+log(`serving Firmsand on http://${env.HOST}:${env.PORT} (Ctrl-C stops the app; npm run db:stop stops the database)`);
+const server = spawn(bin("react-router-serve"), ["build/server/index.js"], { stdio: "inherit", env });
+for (const signal of ["SIGINT", "SIGTERM"]) process.on(signal, () => server.kill(signal));
+server.on("exit", (code) => process.exit(code ?? 0));
