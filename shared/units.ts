@@ -1,0 +1,153 @@
+import { z } from "zod";
+
+/**
+ * Length units a Firmsand project can work in. A project's coordinates, depths, thicknesses and
+ * raster spacing all share one length unit; areas and volumes follow from it.
+ * - "us-ft": US survey foot, 1200/3937 m (NIST, 85 FR 62698 (2020); retired for new work after
+ *   2022 but still the unit of many state plane zones and existing surveys).
+ * - "ft": international foot, 0.3048 m exactly (NIST SP 811).
+ * - "m": metre.
+ */
+export type LengthUnit = "us-ft" | "ft" | "m";
+
+export const lengthUnitSchema = z.enum(["us-ft", "ft", "m"]);
+
+export type VolumeUnit = "yd3" | "m3";
+
+/** Metres in one unit, exactly as NIST defines them (NIST SP 811; 85 FR 62698). */
+export const METRES_PER_UNIT: Record<LengthUnit, number> = {
+  "us-ft": 1200 / 3937,
+  ft: 0.3048,
+  m: 1,
+};
+
+/** Feet-based projects report cubic yards (the unit of dredging contracts in the US); metre projects cubic metres. */
+export function volumeUnitFor(unit: LengthUnit): VolumeUnit {
+  return unit === "m" ? "m3" : "yd3";
+}
+
+/**
+ * Converts a volume measured in cubic project units (ft³ or m³) to the project's volume unit.
+ * A cubic yard is 27 cubic feet of the same foot: a yard is three feet by definition whichever
+ * foot the project uses, so a US-survey-foot project divides its (survey) ft³ by 27 and gets
+ * (survey) cubic yards. The two feet differ by 2 ppm, i.e. 6 ppm in volume — far below survey
+ * noise, and keeping the project's own foot means quantities never silently mix feet.
+ * Metre projects are already in m³.
+ */
+export function cubicToVolumeUnit(volumeCubicLength: number, unit: LengthUnit): number {
+  return unit === "m" ? volumeCubicLength : volumeCubicLength / 27;
+}
+
+export interface UnitDefaults {
+  /** Cell side of the progress grid. */
+  cellSize: number;
+  /** Raster spacing the surfaces are sampled at. */
+  resolution: number;
+  /** Remaining thickness still counted as "at firm sand". */
+  tolerance: number;
+  /** Longest triangle edge kept when building a surface (longer edges span data gaps). */
+  maxEdge: number;
+}
+
+/**
+ * Project defaults in the project's own unit. The tolerance of 0.25 ft matches the 95 % depth
+ * accuracy for mechanical (probe) dredging-support surveys in USACE EM 1110-2-1003 (2002) table
+ * 3-1; 0.08 m is its metric counterpart. Cell, raster and edge sizes are practice.
+ */
+export function defaultsFor(unit: LengthUnit): UnitDefaults {
+  if (unit === "m") return { cellSize: 5, resolution: 0.25, tolerance: 0.08, maxEdge: 15 };
+  return { cellSize: 20, resolution: 1, tolerance: 0.25, maxEdge: 50 };
+}
+
+export function convertLength(value: number, from: LengthUnit, to: LengthUnit): number {
+  if (from === to) return value;
+  return (value * METRES_PER_UNIT[from]) / METRES_PER_UNIT[to];
+}
+
+export function convertArea(value: number, from: LengthUnit, to: LengthUnit): number {
+  if (from === to) return value;
+  const ratio = METRES_PER_UNIT[from] / METRES_PER_UNIT[to];
+  return value * ratio * ratio;
+}
+
+/** Square metres in one square unit. */
+export function squareMetresPerSquareUnit(unit: LengthUnit): number {
+  return METRES_PER_UNIT[unit] * METRES_PER_UNIT[unit];
+}
+
+/** Cubic metres in one cubic yard: 0.9144³ exactly (NIST SP 811). */
+export const CUBIC_METRES_PER_CUBIC_YARD = 0.9144 ** 3;
+/** Litres in one US liquid gallon: 231 in³ = 3.785411784 L exactly (NIST SP 811). */
+export const LITRES_PER_US_GALLON = 3.785411784;
+/** Square feet in an acre (international foot; NIST). */
+export const SQUARE_FEET_PER_ACRE = 43_560;
+/** Square metres in an acre: 43,560 × 0.3048² = 4,046.8564224 (NIST). */
+export const SQUARE_METRES_PER_ACRE = SQUARE_FEET_PER_ACRE * 0.3048 * 0.3048;
+
+export function squareFeetToSquareMetres(areaFt2: number): number {
+  return areaFt2 * 0.3048 * 0.3048;
+}
+
+export function squareMetresToSquareFeet(areaM2: number): number {
+  return areaM2 / (0.3048 * 0.3048);
+}
+
+export function cubicYardsToCubicMetres(volumeYd3: number): number {
+  return volumeYd3 * CUBIC_METRES_PER_CUBIC_YARD;
+}
+
+export function cubicMetresToCubicYards(volumeM3: number): number {
+  return volumeM3 / CUBIC_METRES_PER_CUBIC_YARD;
+}
+
+export function usGallonsToLitres(volumeGal: number): number {
+  return volumeGal * LITRES_PER_US_GALLON;
+}
+
+export function litresToUsGallons(volumeL: number): number {
+  return volumeL / LITRES_PER_US_GALLON;
+}
+
+/** Acres from an area in square project units. */
+export function acresFromArea(area: number, unit: LengthUnit): number {
+  return (area * squareMetresPerSquareUnit(unit)) / SQUARE_METRES_PER_ACRE;
+}
+
+/** Area in square project units from acres. */
+export function areaFromAcres(acres: number, unit: LengthUnit): number {
+  return (acres * SQUARE_METRES_PER_ACRE) / squareMetresPerSquareUnit(unit);
+}
+
+/** Converts a volume in the project's volume unit (yd³ or m³) to cubic metres. */
+export function volumeToCubicMetres(volume: number, unit: LengthUnit): number {
+  if (unit === "m") return volume;
+  // A yard of the project's foot: 3 ft.
+  const metresPerYard = 3 * METRES_PER_UNIT[unit];
+  return volume * metresPerYard ** 3;
+}
+
+const LENGTH_LABELS: Record<LengthUnit, { short: string; long: string }> = {
+  "us-ft": { short: "ftUS", long: "US survey feet" },
+  ft: { short: "ft", long: "feet" },
+  m: { short: "m", long: "metres" },
+};
+
+const AREA_LABELS: Record<LengthUnit, string> = { "us-ft": "ft²", ft: "ft²", m: "m²" };
+const VOLUME_LABELS: Record<VolumeUnit, string> = { yd3: "yd³", m3: "m³" };
+
+/** Labels for display: `unitLabel("us-ft")` → "ftUS"; `unitLabel("m", "volume")` → "m³". */
+export function unitLabel(
+  unit: LengthUnit,
+  kind: "length" | "length-long" | "area" | "volume" = "length",
+): string {
+  switch (kind) {
+    case "length":
+      return LENGTH_LABELS[unit].short;
+    case "length-long":
+      return LENGTH_LABELS[unit].long;
+    case "area":
+      return AREA_LABELS[unit];
+    case "volume":
+      return VOLUME_LABELS[volumeUnitFor(unit)];
+  }
+}
