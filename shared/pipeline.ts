@@ -1,0 +1,218 @@
+import { createCellGrid, type CellGrid } from "./grid/cell-grid";
+import { workLimitBounds, type ProjectedMultiPolygon } from "./grid/work-limit";
+import { cellAreasInWorkLimit, nodeCells, workLimitMask } from "./grid/work-limit-mask";
+import { createRasterValues, rasterizeTinInto, type Raster, type RasterGrid, type RasterPrecision, type RasterValues } from "./surface/raster";
+import { hullRing, triangulate, triangulateLayers, type Tin } from "./surface/triangulate";
+import { computeCellStats, type CellStats, type CellStatusRules } from "./volumes/cell-stats";
+import { stackLatestBottom } from "./volumes/latest-bottom";
+import { rollUpCells, type VolumeTotals } from "./volumes/rollup";
+
+/**
+ * Soundings to cell quantities in one call: triangulate each survey, lay the cell grid and the
+ * raster over the work limit, sample every surface onto the raster, stack the latest bottom and
+ * integrate per cell. All lengths are in the project's length unit, volumes in its cube.
+ */
+
+/** One survey's points in project coordinates with one elevation per point. */
+export interface SurveyPoints {
+  easting: Float64Array;
+  northing: Float64Array;
+  elevation: Float64Array;
+}
+
+export interface EngineSurveys {
+  /** The baseline (pre-dredge) survey: the muck top, and what removal is measured from. */
+  baseline: SurveyPoints;
+  /** Progress and closeout surveys, oldest first; each covers what was surveyed on that pass. */
+  progress: ReadonlyArray<SurveyPoints>;
+  /**
+   * Refusal (firm-sand) elevations. When its easting/northing arrays are the baseline's own
+   * (the baseline's probe column), the baseline triangulation is reused.
+   */
+  firm: SurveyPoints;
+}
+
+export interface EngineSettings extends CellStatusRules {
+  cellSize: number;
+  /** Raster spacing (project length unit). */
+  resolution: number;
+  /** Longest triangle edge kept (project length unit). */
+  maxEdge: number;
+  originX?: number;
+  originY?: number;
+  rotationDegrees?: number;
+  /** float32 halves raster memory (about 7 significant digits: ample for elevations to 0.001 ft); default float64. */
+  rasterPrecision?: RasterPrecision;
+}
+
+export type ProgressCallback = (stage: string, fraction: number) => void;
+
+export interface EngineSurfaces {
+  baseline: Tin;
+  progress: Tin[];
+  firm: Tin;
+}
+
+export interface EngineResult {
+  workLimit: ProjectedMultiPolygon;
+  cellGrid: CellGrid;
+  rasterGrid: RasterGrid;
+  /** 1 for raster nodes inside the work limit. */
+  mask: Uint8Array;
+  /** Cell index of each raster node, −1 outside the limit. */
+  nodeCell: Int32Array;
+  rasters: {
+    muckTop: Raster;
+    firm: Raster;
+    latestBottom: Raster;
+    /** max(latest − firm, 0) where both have data: the surface the thickness bands are drawn from. */
+    remainingThickness: Raster;
+  };
+  /** Per node, which survey the latest bottom came from: 0 = newest progress survey … progress.length = baseline; 255 none. */
+  latestSource: Uint8Array;
+  cellAreaInLimit: Float64Array;
+  cells: CellStats;
+  totals: VolumeTotals;
+  surfaces: { duplicatesMerged: number; longTrianglesDropped: number; invalidSkipped: number };
+}
+
+/** Triangulate every survey (the part worth moving to worker threads). */
+export function triangulateSurveys(surveys: EngineSurveys, maxEdge: number, onProgress?: ProgressCallback): EngineSurfaces {
+  const { baseline, firm } = surveys;
+  const stages = 1 + surveys.progress.length + 1;
+  let done = 0;
+  const report = () => onProgress?.("triangulate", ++done / stages);
+  let baselineTin: Tin;
+  let firmTin: Tin;
+  const sharesPositions = firm.easting === baseline.easting && firm.northing === baseline.northing && everyFiniteWhere(baseline.elevation, firm.elevation);
+  if (sharesPositions) {
+    [baselineTin, firmTin] = triangulateLayers(baseline.easting, baseline.northing, [baseline.elevation, firm.elevation], { maxEdge });
+    report();
+    report();
+  } else {
+    baselineTin = triangulate(baseline.easting, baseline.northing, baseline.elevation, { maxEdge });
+    report();
+    firmTin = triangulate(firm.easting, firm.northing, firm.elevation, { maxEdge });
+    report();
+  }
+  const progress = surveys.progress.map((survey) => {
+    const tin = triangulate(survey.easting, survey.northing, survey.elevation, { maxEdge });
+    report();
+    return tin;
+  });
+  return { baseline: baselineTin, progress, firm: firmTin };
+}
+
+/** True when `other` is a finite number wherever `reference` is (so one triangulation serves both). */
+function everyFiniteWhere(reference: Float64Array, other: Float64Array): boolean {
+  if (reference.length !== other.length) return false;
+  for (let index = 0; index < reference.length; index++) {
+    if (Number.isFinite(reference[index]) !== Number.isFinite(other[index])) return false;
+  }
+  return true;
+}
+
+/** The raster grid over the limit, aligned with the cell grid when it is not rotated so pixels do not straddle cell lines. */
+export function rasterGridFor(workLimit: ProjectedMultiPolygon, cellGrid: CellGrid, resolution: number): RasterGrid {
+  const bounds = workLimitBounds(workLimit);
+  const anchorX = cellGrid.rotationDegrees === 0 ? cellGrid.originX : bounds.minX;
+  const anchorY = cellGrid.rotationDegrees === 0 ? cellGrid.originY : bounds.minY;
+  const firstCol = Math.floor((bounds.minX - anchorX) / resolution + 1e-9);
+  const firstRow = Math.floor((bounds.minY - anchorY) / resolution + 1e-9);
+  const lastCol = Math.ceil((bounds.maxX - anchorX) / resolution - 1e-9);
+  const lastRow = Math.ceil((bounds.maxY - anchorY) / resolution - 1e-9);
+  return {
+    originX: anchorX + firstCol * resolution,
+    originY: anchorY + firstRow * resolution,
+    spacing: resolution,
+    cols: Math.max(1, lastCol - firstCol),
+    rows: Math.max(1, lastRow - firstRow),
+  };
+}
+
+function sample(tin: Tin, grid: RasterGrid, mask: Uint8Array, precision: RasterPrecision): RasterValues {
+  const values = createRasterValues(grid, precision);
+  rasterizeTinInto(tin, grid, values, mask);
+  return values;
+}
+
+/** Everything after triangulation. `workLimit` null: the baseline survey's convex hull. */
+export function computeVolumesFromSurfaces(
+  surfaces: EngineSurfaces,
+  workLimit: ProjectedMultiPolygon | null,
+  settings: EngineSettings,
+  onProgress?: ProgressCallback,
+): EngineResult {
+  const precision = settings.rasterPrecision ?? "float64";
+  const limit = workLimit ?? [[hullRing(surfaces.baseline)]];
+  if (limit.length === 0 || limit[0].length === 0 || limit[0][0].length < 4) {
+    throw new Error("the work limit is empty (fewer than three distinct soundings give no hull)");
+  }
+  const cellGrid = createCellGrid(limit, {
+    cellSize: settings.cellSize,
+    originX: settings.originX,
+    originY: settings.originY,
+    rotationDegrees: settings.rotationDegrees,
+  });
+  const rasterGrid = rasterGridFor(limit, cellGrid, settings.resolution);
+  onProgress?.("work limit", 0);
+  const mask = workLimitMask(limit, rasterGrid);
+  const nodeCell = nodeCells(cellGrid, rasterGrid, mask);
+  const cellAreaInLimit = cellAreasInWorkLimit(cellGrid, rasterGrid, nodeCell);
+  onProgress?.("work limit", 1);
+
+  const toSample = [surfaces.baseline, surfaces.firm, ...surfaces.progress];
+  const sampled: RasterValues[] = [];
+  toSample.forEach((tin, index) => {
+    sampled.push(sample(tin, rasterGrid, mask, precision));
+    onProgress?.("raster", (index + 1) / toSample.length);
+  });
+  const [muckTop, firm, ...progress] = sampled;
+
+  const latest = stackLatestBottom(rasterGrid, [...progress].reverse().concat([muckTop]), precision);
+  onProgress?.("latest bottom", 1);
+
+  const cells = computeCellStats(cellGrid, rasterGrid, nodeCell, { muckTop, firm, before: muckTop, after: latest.values }, settings);
+  onProgress?.("cells", 1);
+
+  const remainingThickness = createRasterValues(rasterGrid, precision);
+  for (let node = 0; node < remainingThickness.length; node++) {
+    const left = latest.values[node] - firm[node]; // NaN propagates where either has no data
+    remainingThickness[node] = left > 0 ? left : left === left ? 0 : Number.NaN;
+  }
+  const all = [surfaces.baseline, surfaces.firm, ...surfaces.progress];
+  const unique = surfaces.firm.triangles === surfaces.baseline.triangles ? [surfaces.baseline, ...surfaces.progress] : all;
+  return {
+    workLimit: limit,
+    cellGrid,
+    rasterGrid,
+    mask,
+    nodeCell,
+    rasters: {
+      muckTop: { ...rasterGrid, values: muckTop },
+      firm: { ...rasterGrid, values: firm },
+      latestBottom: { ...rasterGrid, values: latest.values },
+      remainingThickness: { ...rasterGrid, values: remainingThickness },
+    },
+    latestSource: latest.source,
+    cellAreaInLimit,
+    cells,
+    totals: rollUpCells(cells),
+    surfaces: {
+      duplicatesMerged: unique.reduce((sum, tin) => sum + tin.duplicatesMerged, 0),
+      longTrianglesDropped: unique.reduce((sum, tin) => sum + tin.longTrianglesDropped, 0),
+      invalidSkipped: unique.reduce((sum, tin) => sum + tin.invalidSkipped, 0),
+    },
+  };
+}
+
+/** The whole computation in one call (single thread). */
+export function computeSurveyVolumes(
+  surveys: EngineSurveys,
+  workLimit: ProjectedMultiPolygon | null,
+  settings: EngineSettings,
+  onProgress?: ProgressCallback,
+): EngineResult {
+  const surfaces = triangulateSurveys(surveys, settings.maxEdge, onProgress);
+  return computeVolumesFromSurfaces(surfaces, workLimit, settings, onProgress);
+}

@@ -1,0 +1,323 @@
+import Papa from "papaparse";
+import { z } from "zod";
+import { Float64Builder } from "../typed/float64-builder";
+
+/**
+ * Sounding CSV → flat typed columns.
+ *
+ * A survey technician exports soundings from the field software as CSV with a header row. Columns
+ * are found by header name (case-insensitive), or by an explicit mapping when the export uses other
+ * names. Every data row is validated with zod; a bad row is left out of the columns and reported
+ * with its spreadsheet row number (header = row 1, first data row = row 2) and the column at fault,
+ * so the technician can find it in the file.
+ *
+ * Pure: text in, arrays out. `createSoundingCsvParser` takes the text chunk by chunk so a streamed
+ * upload never has to sit in memory as one string; `parseSoundingsCsv` is the one-string shortcut.
+ */
+
+export const soundingFields = ["easting", "northing", "depth", "probe", "elevation", "time", "id"] as const;
+export type SoundingField = (typeof soundingFields)[number];
+
+/** Header names recognised for each field, lower case. */
+export const soundingHeaderNames: Record<SoundingField, readonly string[]> = {
+  easting: ["easting", "x"],
+  northing: ["northing", "y"],
+  depth: ["depth", "water_depth"],
+  probe: ["probe", "probe_depth"],
+  elevation: ["elevation"],
+  time: ["time"],
+  id: ["id", "point_id"],
+};
+
+const fieldWords: Record<SoundingField, string> = {
+  easting: "easting",
+  northing: "northing",
+  depth: "water depth",
+  probe: "probe depth",
+  elevation: "elevation",
+  time: "time",
+  id: "point id",
+};
+
+export interface SoundingRowError {
+  /** Spreadsheet row: the header is row 1, the first data row is row 2. */
+  row: number;
+  /** The column's header as written in the file (or the field name when the column is missing). */
+  column: string;
+  value: string;
+  message: string;
+}
+
+export interface ParsedSoundings {
+  easting: Float64Array;
+  northing: Float64Array;
+  /** Water depth below the water surface, positive down; NaN where the file gives only elevation. */
+  depth: Float64Array;
+  /** Probe depth to refusal below the water surface; NaN where the cell is empty. Null without the column. */
+  probe: Float64Array | null;
+  /** Bottom elevation given directly by the file; NaN where empty. Null without the column. */
+  elevation: Float64Array | null;
+  time: string[] | null;
+  id: string[] | null;
+  /** Spreadsheet row of each accepted sounding, to point QA flags back into the file. */
+  sourceRow: Uint32Array;
+  errors: SoundingRowError[];
+  /** Data rows read (accepted and rejected; blank lines are not counted). */
+  rowCount: number;
+  delimiter: string;
+}
+
+export interface SoundingCsvOptions {
+  /** Header to use for a field, overriding the built-in names (matched case-insensitively). */
+  columns?: Partial<Record<SoundingField, string>>;
+  /** Force a delimiter instead of detecting it from the header row. */
+  delimiter?: "," | ";" | "\t";
+  /** Stop collecting errors after this many (rows are still counted). Default 1000. */
+  maxErrors?: number;
+}
+
+export const soundingCsvOptionsSchema = z.object({
+  columns: z.partialRecord(z.enum(soundingFields), z.string().min(1)).optional(),
+  delimiter: z.enum([",", ";", "\t"]).optional(),
+  maxErrors: z.number().int().positive().optional(),
+});
+
+const plainNumber = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+function numberCell(required: boolean, decimalComma: boolean) {
+  return z.string().transform((raw, context) => {
+    const text = raw.trim();
+    if (text === "") {
+      if (required) context.addIssue({ code: "custom", message: "is empty; a number is required here" });
+      return Number.NaN;
+    }
+    const normalised = decimalComma ? text.replace(",", ".") : text;
+    if (!plainNumber.test(normalised)) {
+      context.addIssue({ code: "custom", message: "is not a number" });
+      return Number.NaN;
+    }
+    return Number(normalised);
+  });
+}
+
+function rowSchema(present: Record<SoundingField, boolean>, decimalComma: boolean) {
+  const depthRequired = !present.elevation;
+  return z
+    .object({
+      easting: numberCell(true, decimalComma),
+      northing: numberCell(true, decimalComma),
+      depth: numberCell(depthRequired, decimalComma),
+      probe: numberCell(false, decimalComma),
+      elevation: numberCell(present.elevation && !present.depth, decimalComma),
+    })
+    .superRefine((row, context) => {
+      if (row.depth < 0) {
+        context.addIssue({ code: "custom", path: ["depth"], message: "is negative; water depth is measured downward from the water surface" });
+      }
+      if (row.probe < 0) {
+        context.addIssue({ code: "custom", path: ["probe"], message: "is negative; probe depth is measured downward from the water surface" });
+      }
+      if (row.probe < row.depth) {
+        context.addIssue({
+          code: "custom",
+          path: ["probe"],
+          message: `is shallower than the water depth (${row.depth}); the probe cannot stop above the bottom`,
+        });
+      }
+      if (present.depth && present.elevation && Number.isNaN(row.depth) && Number.isNaN(row.elevation)) {
+        context.addIssue({ code: "custom", path: ["depth"], message: "is empty and so is elevation; one of them is required" });
+      }
+    });
+}
+
+function detectDelimiter(headerLine: string): "," | ";" | "\t" {
+  const counts = { ",": 0, ";": 0, "\t": 0 };
+  let inQuotes = false;
+  for (const character of headerLine) {
+    if (character === '"') inQuotes = !inQuotes;
+    else if (!inQuotes && (character === "," || character === ";" || character === "\t")) counts[character]++;
+  }
+  if (counts["\t"] >= counts[","] && counts["\t"] >= counts[";"] && counts["\t"] > 0) return "\t";
+  return counts[";"] > counts[","] ? ";" : ",";
+}
+
+export interface SoundingCsvParser {
+  /** Feed the next piece of the file; pieces may split rows anywhere. */
+  push(chunk: string): void;
+  /** No more input: parse what is left and return the columns. */
+  end(): ParsedSoundings;
+}
+
+export function createSoundingCsvParser(options: SoundingCsvOptions = {}): SoundingCsvParser {
+  const settings = soundingCsvOptionsSchema.parse(options);
+  const maxErrors = settings.maxErrors ?? 1000;
+  const easting = new Float64Builder();
+  const northing = new Float64Builder();
+  const depth = new Float64Builder();
+  const probe = new Float64Builder();
+  const elevation = new Float64Builder();
+  const sourceRows: number[] = [];
+  const times: string[] = [];
+  const ids: string[] = [];
+  const errors: SoundingRowError[] = [];
+
+  let pending = "";
+  let scanFrom = 0;
+  let inQuotes = false;
+  let started = false;
+  let delimiter: "," | ";" | "\t" = settings.delimiter ?? ",";
+  let recordNumber = 0; // records seen so far, header included: the spreadsheet row of the last one
+  let rowCount = 0;
+  let headers: string[] | null = null;
+  let columnIndex: Record<SoundingField, number> | null = null;
+  let schema: ReturnType<typeof rowSchema> | null = null;
+  let fileError = false;
+
+  function addError(error: SoundingRowError) {
+    if (errors.length < maxErrors) errors.push(error);
+  }
+
+  function readHeader(cells: string[]) {
+    headers = cells.map((cell) => cell.trim());
+    const lower = headers.map((header) => header.toLowerCase());
+    const index = {} as Record<SoundingField, number>;
+    for (const field of soundingFields) {
+      const wanted = settings.columns?.[field];
+      const names = wanted ? [wanted.toLowerCase()] : soundingHeaderNames[field];
+      index[field] = lower.findIndex((header) => names.includes(header));
+      if (wanted && index[field] < 0) {
+        fileError = true;
+        addError({ row: 1, column: wanted, value: "", message: `the header row has no column named "${wanted}" (mapped to ${fieldWords[field]})` });
+      }
+    }
+    const missing = (field: SoundingField) =>
+      addError({
+        row: 1,
+        column: field,
+        value: "",
+        message: `the header row has no ${fieldWords[field]} column; name it ${soundingHeaderNames[field].map((name) => `"${name}"`).join(" or ")} or map it`,
+      });
+    for (const field of ["easting", "northing"] as const) {
+      if (index[field] < 0 && !settings.columns?.[field]) {
+        fileError = true;
+        missing(field);
+      }
+    }
+    if (index.depth < 0 && index.elevation < 0 && !settings.columns?.depth) {
+      fileError = true;
+      missing("depth");
+    }
+    columnIndex = index;
+    const present = Object.fromEntries(soundingFields.map((field) => [field, index[field] >= 0])) as Record<SoundingField, boolean>;
+    schema = rowSchema(present, delimiter === ";");
+  }
+
+  function readRecord(cells: string[]) {
+    recordNumber++;
+    if (cells.every((cell) => cell.trim() === "")) return; // blank line: keeps its row number, not a sounding
+    if (headers === null) {
+      readHeader(cells);
+      return;
+    }
+    rowCount++;
+    if (fileError || columnIndex === null || schema === null) return;
+    const index = columnIndex;
+    const cell = (field: SoundingField) => (index[field] >= 0 ? (cells[index[field]] ?? "") : "");
+    const raw = {
+      easting: cell("easting"),
+      northing: cell("northing"),
+      depth: cell("depth"),
+      probe: cell("probe"),
+      elevation: cell("elevation"),
+    };
+    const result = schema.safeParse(raw);
+    if (!result.success) {
+      for (const issue of result.error.issues) {
+        const field = (issue.path[0] ?? "depth") as SoundingField;
+        const header = index[field] >= 0 ? headers[index[field]] : field;
+        addError({ row: recordNumber, column: header, value: raw[field as keyof typeof raw] ?? "", message: `${fieldWords[field]} ${issue.message}` });
+      }
+      return;
+    }
+    const row = result.data;
+    easting.push(row.easting);
+    northing.push(row.northing);
+    depth.push(row.depth);
+    probe.push(row.probe);
+    elevation.push(row.elevation);
+    sourceRows.push(recordNumber);
+    if (index.time >= 0) times.push(cell("time").trim());
+    if (index.id >= 0) ids.push(cell("id").trim());
+  }
+
+  function parseComplete(text: string) {
+    if (text === "") return;
+    Papa.parse<string[]>(text, {
+      delimiter,
+      header: false,
+      skipEmptyLines: false,
+      step: (results) => readRecord(results.data),
+    });
+  }
+
+  function push(chunk: string) {
+    if (!started) {
+      if (chunk === "") return;
+      started = true;
+      if (chunk.charCodeAt(0) === 0xfeff) chunk = chunk.slice(1); // byte-order mark from spreadsheet exports
+    }
+    pending += chunk;
+    // Hand Papa Parse only whole records: cut after the last line break that is outside quotes.
+    let lastBreak = -1;
+    for (let position = scanFrom; position < pending.length; position++) {
+      const code = pending.charCodeAt(position);
+      if (code === 34) inQuotes = !inQuotes;
+      else if (code === 10 && !inQuotes) lastBreak = position;
+    }
+    scanFrom = pending.length;
+    if (lastBreak < 0) return;
+    let complete = pending.slice(0, lastBreak + 1);
+    pending = pending.slice(lastBreak + 1);
+    scanFrom = pending.length;
+    if (headers === null && settings.delimiter === undefined) {
+      delimiter = detectDelimiter(complete.slice(0, complete.indexOf("\n")));
+    }
+    // Drop the final line break so Papa Parse does not report a phantom empty record.
+    complete = complete.endsWith("\r\n") ? complete.slice(0, -2) : complete.slice(0, -1);
+    if (complete === "" || complete === "\r") recordNumber++; // a lone blank line still takes a row number
+    else parseComplete(complete);
+  }
+
+  function end(): ParsedSoundings {
+    if (pending !== "") {
+      if (headers === null && settings.delimiter === undefined) delimiter = detectDelimiter(pending.split("\n")[0]);
+      parseComplete(pending.replace(/\r?\n$/, ""));
+      pending = "";
+    }
+    if (headers === null) {
+      addError({ row: 1, column: "", value: "", message: "the file is empty; a header row is required" });
+    }
+    const index = columnIndex;
+    return {
+      easting: easting.toArray(),
+      northing: northing.toArray(),
+      depth: depth.toArray(),
+      probe: index && index.probe >= 0 ? probe.toArray() : null,
+      elevation: index && index.elevation >= 0 ? elevation.toArray() : null,
+      time: index && index.time >= 0 ? times : null,
+      id: index && index.id >= 0 ? ids : null,
+      sourceRow: Uint32Array.from(sourceRows),
+      errors,
+      rowCount,
+      delimiter,
+    };
+  }
+
+  return { push, end };
+}
+
+export function parseSoundingsCsv(text: string, options: SoundingCsvOptions = {}): ParsedSoundings {
+  const parser = createSoundingCsvParser(options);
+  parser.push(text);
+  return parser.end();
+}
