@@ -1,0 +1,71 @@
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import { join, resolve } from "node:path";
+import { randomBytes } from "node:crypto";
+import { z } from "zod";
+
+// Firmsand's environment, parsed once with zod at first use. Every server module reads
+// settings from here, never from process.env directly.
+
+const DATA_DIR = resolve(process.cwd(), ".data");
+
+/** Reads a per-machine secret from the git-ignored data directory (written by the bring-up). */
+function localSecret(name: string, create: boolean): string | undefined {
+  const file = join(DATA_DIR, `${name}.secret`);
+  if (!existsSync(file)) {
+    if (!create) return undefined;
+    mkdirSync(DATA_DIR, { recursive: true });
+    writeFileSync(file, randomBytes(32).toString("hex"), { mode: 0o600 });
+  }
+  return readFileSync(file, "utf8").trim();
+}
+
+const flag = z
+  .enum(["0", "1", "true", "false", ""])
+  .default("0")
+  .transform((value) => value === "1" || value === "true");
+
+const envSchema = z.object({
+  NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+  DB_HOST: z.string().min(1).default("127.0.0.1"),
+  DB_PORT: z.coerce.number().int().min(1).max(65535).default(3307),
+  DB_NAME: z.string().min(1).default("firmsand"),
+  DB_USER: z.string().min(1).default("firmsand"),
+  DB_PASSWORD: z.string().optional(),
+  SMTP_HOST: z.string().min(1).default("127.0.0.1"),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+  MAIL_FROM: z.string().min(3).default("Firmsand <no-reply@firmsand.localhost>"),
+  MAILBOX_DIR: z.string().min(1).default(join(DATA_DIR, "mail-dev")),
+  SESSION_SECRET: z.string().min(16, "SESSION_SECRET must be at least 16 characters").optional(),
+  DEMO_MODE: flag,
+  /** The public origin (scheme://host[:port]) when the app sits behind a proxy; else taken from the request. */
+  APP_ORIGIN: z.url().optional(),
+  /** Trust X-Forwarded-For for the client address (only behind a proxy you run). */
+  TRUST_PROXY: flag,
+});
+
+export type Env = z.infer<typeof envSchema> & { DB_PASSWORD: string; SESSION_SECRET: string };
+
+let parsed: Env | undefined;
+
+export function getEnv(): Env {
+  if (parsed) return parsed;
+  const result = envSchema.safeParse(process.env);
+  if (!result.success) {
+    const problems = result.error.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`).join("; ");
+    throw new Error(`Firmsand's environment is not valid: ${problems}`);
+  }
+  const value = result.data;
+  const production = value.NODE_ENV === "production";
+  // Outside production a generated secret under .data/ stands in (never committed).
+  const sessionSecret = value.SESSION_SECRET ?? (production ? undefined : localSecret("session", true));
+  if (!sessionSecret) throw new Error("Firmsand's environment is not valid: SESSION_SECRET is required in production");
+  const dbPassword = value.DB_PASSWORD ?? localSecret("mariadb-app-password", false) ?? "";
+  parsed = { ...value, SESSION_SECRET: sessionSecret, DB_PASSWORD: dbPassword };
+  return parsed;
+}
+
+/** The subset of settings the browser may see. */
+export function publicEnv() {
+  const env = getEnv();
+  return { demoMode: env.DEMO_MODE };
+}

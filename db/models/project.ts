@@ -1,0 +1,66 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+
+export const LENGTH_UNITS = ["us-ft", "ft", "m"] as const;
+export type LengthUnit = (typeof LENGTH_UNITS)[number];
+
+/**
+ * A restoration project: its coordinate reference system, length unit, work limit and the grid
+ * that cells and rasters are laid on. Lengths (cell size, raster resolution, max edge,
+ * tolerance) are in the project's length unit.
+ */
+export class Project extends Model<InferAttributes<Project>, InferCreationAttributes<Project>> {
+  declare id: CreationOptional<number>;
+  declare name: string;
+  declare slug: string;
+  declare description: CreationOptional<string>;
+  /** An EPSG code such as "EPSG:2237". */
+  declare crs: string;
+  declare lengthUnit: LengthUnit;
+  declare gridOriginE: number;
+  declare gridOriginN: number;
+  declare cellSize: number;
+  declare rasterResolution: number;
+  /** Longest triangle edge allowed when a survey becomes a surface (no invention across gaps). */
+  declare maxEdge: number;
+  declare rotationDeg: CreationOptional<number>;
+  /** Remaining thickness within which a cell counts as at firm sand. */
+  declare tolerance: number;
+  /** Share (0..1) of a cell's area that must be within tolerance. */
+  declare firmShare: number;
+  /** Share (0..1) of a cell's area that must be surveyed for a status. */
+  declare minCoverage: number;
+  /** The permitted work limit as a GeoJSON Polygon or MultiPolygon in lon/lat (RFC 7946). */
+  declare workLimitGeoJson: string | null;
+  declare minTeamSize: CreationOptional<number>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+export function initProject(sequelize: Sequelize) {
+  // A fresh definition per column: Sequelize writes into attribute definitions.
+  const measure = () => ({ type: DataTypes.DOUBLE, allowNull: false });
+  Project.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      name: { type: DataTypes.STRING(200), allowNull: false },
+      slug: { type: DataTypes.STRING(100), allowNull: false },
+      description: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
+      crs: { type: DataTypes.STRING(40), allowNull: false },
+      lengthUnit: { type: DataTypes.ENUM(...LENGTH_UNITS), allowNull: false },
+      gridOriginE: measure(),
+      gridOriginN: measure(),
+      cellSize: measure(),
+      rasterResolution: measure(),
+      maxEdge: measure(),
+      rotationDeg: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
+      tolerance: measure(),
+      firmShare: measure(),
+      minCoverage: measure(),
+      workLimitGeoJson: { type: DataTypes.TEXT("medium"), allowNull: true },
+      minTeamSize: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 2 },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: "projects", modelName: "Project", indexes: [{ name: "projects_slug_unique", unique: true, fields: ["slug"] }] },
+  );
+}

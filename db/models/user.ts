@@ -1,0 +1,27 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+
+/** A person who signs in. Access to projects comes through Membership; isSiteAdmin passes every check. */
+export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {
+  declare id: CreationOptional<number>;
+  declare email: string;
+  declare name: string;
+  declare passwordHash: string;
+  declare isSiteAdmin: CreationOptional<boolean>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+export function initUser(sequelize: Sequelize) {
+  User.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      email: { type: DataTypes.STRING(254), allowNull: false },
+      name: { type: DataTypes.STRING(120), allowNull: false },
+      passwordHash: { type: DataTypes.STRING(100), allowNull: false },
+      isSiteAdmin: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: "users", modelName: "User", indexes: [{ name: "users_email_unique", unique: true, fields: ["email"] }] },
+  );
+}
