@@ -172,13 +172,15 @@ export function triangulateLayers(
       const bc = (x[c] - x[b]) ** 2 + (y[c] - y[b]) ** 2;
       const ca = (x[a] - x[c]) ** 2 + (y[a] - y[c]) ** 2;
       if (ab <= maxEdgeSquared && bc <= maxEdgeSquared && ca <= maxEdgeSquared) {
+        // Delaunator winds counter-clockwise on screen (y down); with northing up that is clockwise,
+        // so b and c swap to give counter-clockwise triangles in the project's frame.
         keptTriangles[keptLength++] = a;
-        keptTriangles[keptLength++] = b;
         keptTriangles[keptLength++] = c;
+        keptTriangles[keptLength++] = b;
       }
     }
     triangles = keptTriangles.slice(0, keptLength);
-    hull = Uint32Array.from(delaunay.hull);
+    hull = Uint32Array.from(delaunay.hull).reverse(); // counter-clockwise with northing up, as above
     longTrianglesDropped = (all.length - keptLength) / 3;
   }
   return merged.layers.map((z) => ({

@@ -1,0 +1,99 @@
+import { describe, expect, it } from "vitest";
+import { createSoundingCsvParser, parseSoundingsCsv } from "./parse-csv";
+import { bottomElevations, refusalElevations } from "./elevations";
+
+// Row numbers are spreadsheet rows (practice: a technician opens the CSV in a spreadsheet, where
+// the header is row 1), so the first data row is row 2.
+
+describe("parseSoundingsCsv", () => {
+  it("reads comma-separated columns by header name, case-insensitively", () => {
+    const parsed = parseSoundingsCsv("Easting,NORTHING,Depth,Probe_Depth\n100.5,200,3.2,5.1\n101,201,3.4,\n");
+    expect(Array.from(parsed.easting)).toEqual([100.5, 101]);
+    expect(Array.from(parsed.northing)).toEqual([200, 201]);
+    expect(Array.from(parsed.depth)).toEqual([3.2, 3.4]);
+    expect(parsed.probe?.[0]).toBe(5.1);
+    expect(Number.isNaN(parsed.probe?.[1])).toBe(true); // empty probe cell → NaN, not an error
+    expect(parsed.errors).toEqual([]);
+    expect(parsed.rowCount).toBe(2);
+    expect(Array.from(parsed.sourceRow)).toEqual([2, 3]);
+  });
+
+  it("detects semicolons with decimal commas, tabs, and strips a byte-order mark", () => {
+    const semicolon = parseSoundingsCsv("\uFEFFx;y;water_depth\r\n1,5;2,25;3,75\r\n");
+    expect(semicolon.delimiter).toBe(";");
+    expect([semicolon.easting[0], semicolon.northing[0], semicolon.depth[0]]).toEqual([1.5, 2.25, 3.75]);
+    const tab = parseSoundingsCsv("x\ty\tdepth\n1\t2\t3\n");
+    expect(tab.delimiter).toBe("\t");
+    expect(tab.depth[0]).toBe(3);
+  });
+
+  it("accepts an explicit column mapping, and keeps time and point id text", () => {
+    const parsed = parseSoundingsCsv("E_ft,N_ft,Sounding,Point_ID,time\n1,2,3,P-7,2031-04-02T09:15\n", {
+      columns: { easting: "e_ft", northing: "N_FT", depth: "sounding" },
+    });
+    expect([parsed.easting[0], parsed.northing[0], parsed.depth[0]]).toEqual([1, 2, 3]);
+    expect(parsed.id).toEqual(["P-7"]);
+    expect(parsed.time).toEqual(["2031-04-02T09:15"]);
+  });
+
+  it("reports bad cells by spreadsheet row and column in plain words", () => {
+    const text = [
+      "easting,northing,depth,probe",
+      "1,2,3,4", // row 2 fine
+      "abc,2,3,4", // row 3 not a number
+      "", // row 4 blank line: skipped, keeps its number
+      "1,,3,4", // row 5 empty northing
+      "1,2,-3,4", // row 6 negative depth
+      "1,2,5,4.5", // row 7 probe above the bottom
+    ].join("\n");
+    const parsed = parseSoundingsCsv(text);
+    expect(parsed.rowCount).toBe(5);
+    expect(parsed.easting.length).toBe(1);
+    const byRow = Object.fromEntries(parsed.errors.map((error) => [error.row, error]));
+    expect(byRow[3]).toMatchObject({ column: "easting", value: "abc" });
+    expect(byRow[3].message).toMatch(/not a number/);
+    expect(byRow[5]).toMatchObject({ column: "northing", value: "" });
+    expect(byRow[5].message).toMatch(/empty/);
+    expect(byRow[6]).toMatchObject({ column: "depth", value: "-3" });
+    expect(byRow[6].message).toMatch(/negative/);
+    expect(byRow[7]).toMatchObject({ column: "probe", value: "4.5" });
+    expect(byRow[7].message).toMatch(/shallower than the water depth/);
+  });
+
+  it("names a missing required column against the header row", () => {
+    const parsed = parseSoundingsCsv("easting,northing,probe\n1,2,3\n");
+    expect(parsed.errors[0]).toMatchObject({ row: 1, column: "depth" });
+    expect(parsed.errors[0].message).toMatch(/water depth/);
+    expect(parsed.easting.length).toBe(0);
+  });
+
+  it("gives the same result fed in arbitrary chunks as in one string", () => {
+    const rows = ["x,y,depth,probe"];
+    for (let index = 0; index < 500; index++) rows.push(`${1000 + index * 0.5},${2000 - index},${(index % 17) / 3},${index % 5 === 0 ? "" : 9}`);
+    rows.push('"1,5",2,3,4'); // a quoted cell with the delimiter inside: one bad row, still one row
+    const text = rows.join("\r\n") + "\r\n";
+    const whole = parseSoundingsCsv(text);
+    const parser = createSoundingCsvParser();
+    for (let start = 0; start < text.length; start += 37) parser.push(text.slice(start, start + 37));
+    const chunked = parser.end();
+    expect(Array.from(chunked.easting)).toEqual(Array.from(whole.easting));
+    expect(Array.from(chunked.depth)).toEqual(Array.from(whole.depth));
+    expect(chunked.errors).toEqual(whole.errors);
+    expect(whole.errors).toHaveLength(1);
+    expect(whole.errors[0]).toMatchObject({ row: 502, column: "x", value: "1,5" });
+    expect(whole.rowCount).toBe(501);
+  });
+});
+
+describe("elevations", () => {
+  it("elevation = water-surface elevation − depth; refusal = water surface − probe; file elevations win", () => {
+    // practice: soundings and probe depths are read downward from the water surface (DESIGN.md, step 1).
+    const parsed = parseSoundingsCsv("x,y,depth,probe,elevation\n0,0,3,5,\n1,0,4,6,-10\n");
+    const bottom = bottomElevations(parsed, 12.5);
+    expect(bottom[0]).toBeCloseTo(12.5 - 3, 12);
+    expect(bottom[1]).toBe(-10);
+    const refusal = refusalElevations(parsed, 12.5);
+    expect(refusal?.[0]).toBeCloseTo(12.5 - 5, 12);
+    expect(refusalElevations(parseSoundingsCsv("x,y,depth\n0,0,1\n"), 0)).toBeNull();
+  });
+});
