@@ -1,0 +1,30 @@
+import { z } from "zod";
+import { convertLength, type LengthUnit } from "../units";
+
+/**
+ * Survey orders of IHO S-44 ed. 6.0.0 (2020), table 1, with the coefficients of the total
+ * vertical uncertainty allowed at the 95 % confidence level: TVU = √(a² + (b·d)²), d the depth in
+ * metres. a is the part that does not vary with depth, b·d the part that does.
+ */
+export const surveyOrderSchema = z.enum(["exclusive", "special", "1a", "1b", "2"]);
+export type SurveyOrder = z.infer<typeof surveyOrderSchema>;
+
+export const TVU_COEFFICIENTS: Record<SurveyOrder, { aM: number; b: number }> = {
+  exclusive: { aM: 0.15, b: 0.0075 },
+  special: { aM: 0.25, b: 0.0075 },
+  "1a": { aM: 0.5, b: 0.013 },
+  "1b": { aM: 0.5, b: 0.013 },
+  "2": { aM: 1.0, b: 0.023 },
+};
+
+/** Allowed TVU in metres at a depth in metres (IHO S-44 ed. 6.0.0, table 1). */
+export function allowedTvuM(order: SurveyOrder, depthM: number): number {
+  const { aM, b } = TVU_COEFFICIENTS[order];
+  return Math.sqrt(aM * aM + (b * depthM) ** 2);
+}
+
+/** Allowed TVU in project units at a depth in project units (converted to metres for the formula). */
+export function allowedTvu(order: SurveyOrder, depth: number, unit: LengthUnit): number {
+  const depthM = convertLength(Math.abs(depth), unit, "m");
+  return convertLength(allowedTvuM(order, depthM), "m", unit);
+}
