@@ -1,0 +1,248 @@
+import { readFileSync } from "node:fs";
+import { z } from "zod";
+import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/epsg.server";
+import { createCrs, type Crs } from "../../shared/crs";
+import type { ProjectedMultiPolygon, Ring } from "../../shared/grid/work-limit";
+import { computeSurveyVolumes, type SurveyPoints } from "../../shared/pipeline";
+import { bottomElevations, refusalElevations } from "../../shared/soundings/elevations";
+import { parseSoundingsCsv, type ParsedSoundings } from "../../shared/soundings/parse-csv";
+import { defaultsFor, lengthUnitSchema, type LengthUnit } from "../../shared/units";
+import { volumeReport } from "../../shared/volumes/report";
+
+/**
+ * Firmsand on the command line, for survey staff and for checking results from outside the app.
+ *
+ *   npm run --silent firmsand -- volumes --crs EPSG:2237 --units us-ft --before pre.csv --after post.csv
+ *
+ * Prints the volume report as JSON on stdout. Any problem goes to stderr, naming the file, row and
+ * column at fault, and the exit code is non-zero (1 bad input, 2 bad options).
+ */
+
+const usage = `usage: firmsand volumes --crs CODE|PROJ4 --units us-ft|ft|m --before FILE --after FILE [options]
+  --firm FILE          firm-sand soundings (its probe column, else its depth); default: the before file's probe column
+  --before-wse N       water-surface elevation of each survey (default 0)
+  --after-wse N
+  --firm-wse N
+  --limit FILE         work limit, GeoJSON Polygon or MultiPolygon in lon/lat (default: the before survey's hull)
+  --origin E,N         grid origin in the CRS (default: the limit's south-west corner)
+  --cell-size N        default 20 ft / 5 m
+  --resolution N       raster spacing, default 1 ft / 0.25 m
+  --max-edge N         longest triangle edge kept, default 50 ft / 15 m
+  --tolerance N        remaining thickness counted as firm sand, default 0.25 ft / 0.08 m
+  --firm-share F       share of a cell within tolerance for "at-firm-sand", default 0.95
+  --min-coverage F     share of a cell that must be surveyed, default 0.8
+  --survey-noise N     mean removed thickness still counted as untouched, default the tolerance
+  --rotation DEG       grid rotation, counter-clockwise from east, default 0`;
+
+class InputError extends Error {
+  constructor(message: string, readonly exitCode = 1) {
+    super(message);
+  }
+}
+
+const number = (name: string) =>
+  z
+    .string()
+    .trim()
+    .refine((text) => text !== "" && Number.isFinite(Number(text)), { message: `${name} must be a number` })
+    .transform(Number);
+const positive = (name: string) => number(name).refine((value) => value > 0, { message: `${name} must be greater than 0` });
+const share = (name: string) => number(name).refine((value) => value >= 0 && value <= 1, { message: `${name} must be between 0 and 1` });
+
+const volumesOptionsSchema = z.object({
+  crs: z.string({ error: "--crs is required (an EPSG code such as EPSG:2237, or a proj4 string)" }).min(1),
+  units: z.string({ error: "--units is required (us-ft, ft or m)" }).pipe(lengthUnitSchema),
+  before: z.string({ error: "--before is required (the baseline sounding CSV)" }).min(1),
+  after: z.string({ error: "--after is required (the progress or closeout sounding CSV)" }).min(1),
+  firm: z.string().min(1).optional(),
+  "before-wse": number("--before-wse").default(0),
+  "after-wse": number("--after-wse").default(0),
+  "firm-wse": number("--firm-wse").default(0),
+  limit: z.string().min(1).optional(),
+  origin: z
+    .string()
+    .regex(/^\s*[+-]?[\d.eE+-]+\s*,\s*[+-]?[\d.eE+-]+\s*$/, { message: "--origin must be E,N (two numbers separated by a comma)" })
+    .transform((text) => text.split(",").map(Number) as [number, number])
+    .refine((pair) => pair.every(Number.isFinite), { message: "--origin must be E,N (two numbers separated by a comma)" })
+    .optional(),
+  "cell-size": positive("--cell-size").optional(),
+  resolution: positive("--resolution").optional(),
+  "max-edge": positive("--max-edge").optional(),
+  tolerance: number("--tolerance").refine((value) => value >= 0, { message: "--tolerance must be 0 or more" }).optional(),
+  "firm-share": share("--firm-share").default(0.95),
+  "min-coverage": share("--min-coverage").default(0.8),
+  "survey-noise": number("--survey-noise").refine((value) => value >= 0, { message: "--survey-noise must be 0 or more" }).optional(),
+  rotation: number("--rotation").default(0),
+});
+
+type VolumesOptions = z.infer<typeof volumesOptionsSchema>;
+
+function readArguments(argv: string[]): Record<string, string> {
+  const options: Record<string, string> = {};
+  for (let index = 0; index < argv.length; index++) {
+    const argument = argv[index];
+    if (!argument.startsWith("--")) throw new InputError(`unexpected argument "${argument}"\n${usage}`, 2);
+    const equals = argument.indexOf("=");
+    const name = equals > 0 ? argument.slice(2, equals) : argument.slice(2);
+    if (!(name in volumesOptionsSchema.shape)) throw new InputError(`unknown option --${name}\n${usage}`, 2);
+    const value = equals > 0 ? argument.slice(equals + 1) : argv[++index];
+    if (value === undefined) throw new InputError(`--${name} needs a value`, 2);
+    options[name] = value;
+  }
+  return options;
+}
+
+function readText(file: string, what: string): string {
+  try {
+    return readFileSync(file, "utf8");
+  } catch (error) {
+    throw new InputError(`${file}: cannot read the ${what} (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`);
+  }
+}
+
+function readSoundings(file: string): ParsedSoundings {
+  const parsed = parseSoundingsCsv(readText(file, "sounding file"));
+  if (parsed.errors.length > 0) {
+    const lines = parsed.errors.map(
+      (error) => `${file}: row ${error.row}, column "${error.column}": ${error.message}${error.value === "" ? "" : ` (found "${error.value}")`}`,
+    );
+    const more = parsed.errors.length >= 1000 ? `\n${file}: further errors not listed` : "";
+    throw new InputError(lines.join("\n") + more);
+  }
+  if (parsed.easting.length < 3) throw new InputError(`${file}: has ${parsed.easting.length} soundings; at least 3 are needed for a surface`);
+  return parsed;
+}
+
+const positionSchema = z.tuple([z.number(), z.number()]).rest(z.number());
+const ringSchema = z.array(positionSchema).min(4, { message: "a ring needs at least 4 positions (closed)" });
+const polygonSchema = z.object({ type: z.literal("Polygon"), coordinates: z.array(ringSchema).min(1) });
+const multiPolygonSchema = z.object({ type: z.literal("MultiPolygon"), coordinates: z.array(z.array(ringSchema).min(1)).min(1) });
+const geometrySchema = z.discriminatedUnion("type", [polygonSchema, multiPolygonSchema]);
+const featureSchema = z.object({ type: z.literal("Feature"), geometry: geometrySchema });
+const limitFileSchema = z.union([
+  geometrySchema,
+  featureSchema,
+  z.object({ type: z.literal("FeatureCollection"), features: z.array(featureSchema).min(1) }),
+]);
+
+/** GeoJSON (RFC 7946: lon/lat, WGS 84) → the work limit in project coordinates. */
+function readWorkLimit(file: string, crs: Crs): ProjectedMultiPolygon {
+  let json: unknown;
+  try {
+    json = JSON.parse(readText(file, "work limit"));
+  } catch (error) {
+    if (error instanceof InputError) throw error;
+    throw new InputError(`${file}: is not valid JSON (${(error as Error).message})`);
+  }
+  const parsed = limitFileSchema.safeParse(json);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    throw new InputError(`${file}: not a GeoJSON Polygon or MultiPolygon (${issue.path.join(".") || "top level"}: ${issue.message})`);
+  }
+  const geometries =
+    parsed.data.type === "FeatureCollection" ? parsed.data.features.map((feature) => feature.geometry) : parsed.data.type === "Feature" ? [parsed.data.geometry] : [parsed.data];
+  const polygons: number[][][][] = geometries.flatMap((geometry) => (geometry.type === "Polygon" ? [geometry.coordinates] : geometry.coordinates));
+  return polygons.map((polygon) =>
+    polygon.map((ring): Ring =>
+      ring.map(([lon, lat]) => {
+        if (Math.abs(lon) > 180 || Math.abs(lat) > 90) {
+          throw new InputError(`${file}: position [${lon}, ${lat}] is not lon/lat; GeoJSON work limits are in degrees (RFC 7946)`);
+        }
+        const [easting, northing] = crs.fromLonLat(lon, lat);
+        if (!Number.isFinite(easting) || !Number.isFinite(northing)) throw new InputError(`${file}: position [${lon}, ${lat}] cannot be projected into the project CRS`);
+        return [easting, northing];
+      }),
+    ),
+  );
+}
+
+function surveyPoints(parsed: ParsedSoundings, elevation: Float64Array): SurveyPoints {
+  return { easting: parsed.easting, northing: parsed.northing, elevation };
+}
+
+function runVolumes(argv: string[]): string {
+  const parsedOptions = volumesOptionsSchema.safeParse(readArguments(argv));
+  if (!parsedOptions.success) {
+    throw new InputError(parsedOptions.error.issues.map((issue) => issue.message).join("\n") + `\n${usage}`, 2);
+  }
+  const options: VolumesOptions = parsedOptions.data;
+  const unit: LengthUnit = options.units;
+
+  let crs: Crs;
+  try {
+    const resolved = resolveCrsDefinition(options.crs);
+    const crsUnit = lengthUnitOfCrs(resolved);
+    crs = createCrs(resolved.definition);
+    if (crs.isGeographic) throw new InputError(`--crs ${options.crs} is a lon/lat system; volumes need a projected CRS (state plane, UTM, ...)`, 2);
+    if (crsUnit !== null && crsUnit !== unit) {
+      throw new InputError(`--units ${unit} does not match ${resolved.name}, whose coordinates are in ${crsUnit}; easting, northing and depth must share one unit`, 2);
+    }
+    for (const warning of resolved.warnings) process.stderr.write(`note: ${warning}\n`);
+  } catch (error) {
+    if (error instanceof InputError) throw error;
+    throw new InputError(`--crs: ${(error as Error).message}`, 2);
+  }
+
+  const defaults = defaultsFor(unit);
+  const before = readSoundings(options.before);
+  const after = readSoundings(options.after);
+  let firm: SurveyPoints;
+  if (options.firm !== undefined) {
+    const firmSoundings = readSoundings(options.firm);
+    const refusal = refusalElevations(firmSoundings, options["firm-wse"]);
+    firm = surveyPoints(firmSoundings, refusal ?? bottomElevations(firmSoundings, options["firm-wse"]));
+  } else {
+    const refusal = refusalElevations(before, options["before-wse"]);
+    if (refusal === null || refusal.every(Number.isNaN)) {
+      throw new InputError(`${options.before}: has no probe readings (column "probe" or "probe_depth"); give the firm-sand surface with --firm FILE`);
+    }
+    firm = surveyPoints(before, refusal);
+  }
+
+  const workLimit = options.limit === undefined ? null : readWorkLimit(options.limit, crs);
+  const tolerance = options.tolerance ?? defaults.tolerance;
+  const result = computeSurveyVolumes(
+    {
+      baseline: surveyPoints(before, bottomElevations(before, options["before-wse"])),
+      progress: [surveyPoints(after, bottomElevations(after, options["after-wse"]))],
+      firm,
+    },
+    workLimit,
+    {
+      cellSize: options["cell-size"] ?? defaults.cellSize,
+      resolution: options.resolution ?? defaults.resolution,
+      maxEdge: options["max-edge"] ?? defaults.maxEdge,
+      tolerance,
+      firmShare: options["firm-share"],
+      minCoverage: options["min-coverage"],
+      // EM 1110-2-1003 table 3-1 puts dredging-support depth accuracy at the same ±0.25 ft as the
+      // default tolerance, so a change smaller than the tolerance is not yet evidence of dredging.
+      surveyNoise: options["survey-noise"] ?? tolerance,
+      originX: options.origin?.[0],
+      originY: options.origin?.[1],
+      rotationDegrees: options.rotation,
+    },
+  );
+  return JSON.stringify(volumeReport(result, unit));
+}
+
+function main(argv: string[]): number {
+  const [command, ...rest] = argv;
+  try {
+    if (command === "volumes") {
+      process.stdout.write(runVolumes(rest) + "\n");
+      return 0;
+    }
+    process.stderr.write(command === undefined || command === "--help" ? `${usage}\n` : `unknown command "${command}"\n${usage}\n`);
+    return 2;
+  } catch (error) {
+    if (error instanceof InputError) {
+      process.stderr.write(`${error.message}\n`);
+      return error.exitCode;
+    }
+    process.stderr.write(`firmsand: ${(error as Error).message}\n`);
+    return 1;
+  }
+}
+
+process.exitCode = main(process.argv.slice(2));
