@@ -1,6 +1,46 @@
-import { Links, Meta, Outlet, Scripts, ScrollRestoration, isRouteErrorResponse } from "react-router";
+import { Form, Link, Links, Meta, Outlet, Scripts, ScrollRestoration, isRouteErrorResponse, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
+import { getOptionalUser } from "./lib/access.server";
+import { assertSameOrigin } from "./lib/origin.server";
 import "./app.css";
+
+// Every mutating request (any route, any form) passes this Origin check first.
+export const middleware: Route.MiddlewareFunction[] = [
+  async ({ request }, next) => {
+    assertSameOrigin(request);
+    return next();
+  },
+];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await getOptionalUser(request);
+  return { user: user ? { name: user.name, email: user.email, isSiteAdmin: user.isSiteAdmin } : null };
+}
+
+function SiteHeader() {
+  const data = useRouteLoaderData<typeof loader>("root");
+  const user = data?.user;
+  return (
+    <header className="border-b border-line bg-panel">
+      <div className="mx-auto flex max-w-5xl items-center gap-4 px-6 py-3">
+        <Link to={user ? "/projects" : "/"} className="font-semibold text-lagoon-dark focus-visible:outline-2 focus-visible:outline-lagoon">Firmsand</Link>
+        {user ? (
+          <nav aria-label="Account" className="ml-auto flex items-center gap-4 text-sm">
+            <Link className="underline-offset-2 hover:underline" to="/projects">Projects</Link>
+            <Link className="underline-offset-2 hover:underline" to="/account">{user.name}</Link>
+            <Form method="post" action="/logout">
+              <button type="submit" className="rounded border border-line px-3 py-1 hover:bg-paper focus-visible:outline-2 focus-visible:outline-lagoon">Sign out</button>
+            </Form>
+          </nav>
+        ) : (
+          <nav aria-label="Account" className="ml-auto text-sm">
+            <Link className="underline" to="/login">Sign in</Link>
+          </nav>
+        )}
+      </div>
+    </header>
+  );
+}
 
 export function Layout({ children }: { children: React.ReactNode }) {
   return (
@@ -13,6 +53,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <Links />
       </head>
       <body className="min-h-screen font-sans antialiased">
+        <SiteHeader />
         {children}
         <ScrollRestoration />
         <Scripts />

@@ -1,7 +1,7 @@
 import type { Sequelize } from "sequelize";
 import { hashPassword } from "../../app/lib/password.server";
 import { Membership, Project, User, Zone, initModels } from "../models";
-import { DEMO_PASSWORD, DEMO_PROJECT, DEMO_USERS, GRID_ORIGIN, WORK_LIMIT, ZONES } from "./demo-scenario";
+import { DEMO_PASSWORD, DEMO_PROJECT, DEMO_USERS, DEMO_WORK_LIMIT, DEMO_ZONES } from "./demo-scenario";
 
 /**
  * Seeds the demo scenario (one project, its zones, one account per role and a site admin) when
@@ -13,27 +13,10 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   await sequelize.transaction(async (transaction) => {
     const project = await Project.create(
-      {
-        name: DEMO_PROJECT.name,
-        slug: DEMO_PROJECT.slug,
-        description: DEMO_PROJECT.description,
-        crs: DEMO_PROJECT.crs,
-        lengthUnit: DEMO_PROJECT.lengthUnit,
-        gridOriginE: GRID_ORIGIN.eastingFt,
-        gridOriginN: GRID_ORIGIN.northingFt,
-        cellSize: DEMO_PROJECT.cellSizeFt,
-        rasterResolution: DEMO_PROJECT.rasterResolutionFt,
-        maxEdge: DEMO_PROJECT.maxEdgeFt,
-        rotationDeg: DEMO_PROJECT.rotationDeg,
-        tolerance: DEMO_PROJECT.toleranceFt,
-        firmShare: DEMO_PROJECT.firmShare,
-        minCoverage: DEMO_PROJECT.minCoverage,
-        workLimitGeoJson: JSON.stringify(WORK_LIMIT),
-        minTeamSize: DEMO_PROJECT.minTeamSize,
-      },
+      { ...DEMO_PROJECT, workLimitGeoJson: JSON.stringify(DEMO_WORK_LIMIT) },
       { transaction },
     );
-    for (const zone of ZONES) {
+    for (const zone of DEMO_ZONES) {
       await Zone.create(
         { projectId: project.id, name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.polygon) },
         { transaction },
@@ -41,7 +24,7 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
     }
     for (const demoUser of DEMO_USERS) {
       const user = await User.create(
-        { email: demoUser.email, name: demoUser.name, passwordHash, isSiteAdmin: demoUser.isSiteAdmin ?? false },
+        { email: demoUser.email, name: demoUser.name, passwordHash, isSiteAdmin: demoUser.isSiteAdmin },
         { transaction },
       );
       if (demoUser.role) await Membership.create({ userId: user.id, projectId: project.id, role: demoUser.role }, { transaction });

@@ -1,0 +1,68 @@
+import { redirect } from "react-router";
+import { z } from "zod";
+import { Membership, type Role } from "~/lib/db.server";
+import { findProject, presentProject, type ProjectView } from "~/models/project.server";
+import { getUserView, type UserView } from "~/models/user.server";
+import { getSession } from "./session.server";
+
+// The one place that decides access. Every loader and action calls requireUser or requireRole.
+
+function forbidden(message = "Your role on this project does not allow this page."): Response {
+  return new Response(message, { status: 403, statusText: "Forbidden" });
+}
+
+function notFound(message = "There is no such project."): Response {
+  return new Response(message, { status: 404, statusText: "Not Found" });
+}
+
+/** The signed-in user, or null (a session for a deleted account counts as signed out). */
+export async function getOptionalUser(request: Request): Promise<UserView | null> {
+  const session = await getSession(request);
+  const userId = session.get("userId");
+  if (typeof userId !== "number") return null;
+  return getUserView(userId);
+}
+
+/** The signed-in user; a signed-out request is redirected to /login?next=<this page>. */
+export async function requireUser(request: Request): Promise<UserView> {
+  const user = await getOptionalUser(request);
+  if (user) return user;
+  const url = new URL(request.url);
+  throw redirect(`/login?next=${encodeURIComponent(url.pathname + url.search)}`);
+}
+
+/** A site admin only (e.g. /dev/mail). */
+export async function requireSiteAdmin(request: Request): Promise<UserView> {
+  const user = await requireUser(request);
+  if (!user.isSiteAdmin) throw forbidden("Only a site administrator may open this page.");
+  return user;
+}
+
+const projectIdSchema = z.coerce.number().int().positive();
+
+export interface ProjectAccess {
+  user: UserView;
+  project: ProjectView;
+  /** The user's role on the project; null for a site admin who is not a member. */
+  role: Role | null;
+}
+
+/**
+ * The signed-in user's access to a project. Passes when the user holds one of `roles` on the
+ * project (any role when none are listed) or is a site admin. A signed-out request is
+ * redirected to sign in; an unknown project is a 404; a non-member or a wrong role a 403.
+ */
+export async function requireRole(request: Request, projectId: string | number | undefined, ...roles: Role[]): Promise<ProjectAccess> {
+  const user = await requireUser(request);
+  const parsedId = projectIdSchema.safeParse(projectId);
+  if (!parsedId.success) throw notFound();
+  const project = await findProject(parsedId.data);
+  if (!project) throw notFound();
+  const membership = await Membership.findOne({ where: { projectId: project.id, userId: user.id } });
+  const role = membership?.role ?? null;
+  const allowed = user.isSiteAdmin || (role !== null && (roles.length === 0 || roles.includes(role)));
+  if (!allowed) {
+    throw forbidden(role === null ? "You are not a member of this project." : "Your role on this project does not allow this page.");
+  }
+  return { user, project: presentProject(project), role };
+}

@@ -1,0 +1,23 @@
+import { getEnv } from "./env.server";
+
+const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
+
+/** The app's own origin: APP_ORIGIN when set (behind a proxy), else the request's. */
+export function appOrigin(request: Request): string {
+  return getEnv().APP_ORIGIN ?? new URL(request.url).origin;
+}
+
+/**
+ * Refuses a mutating request whose Origin header is missing or names another site: forms
+ * posted from elsewhere (cross-site request forgery) get a 403. Browsers send Origin on every
+ * POST, so a same-site form always passes. Called once, from the root route's middleware.
+ */
+export function assertSameOrigin(request: Request): void {
+  if (SAFE_METHODS.has(request.method.toUpperCase())) return;
+  const origin = request.headers.get("Origin");
+  if (origin && origin === appOrigin(request)) return;
+  throw new Response("This form was sent from another site, so Firmsand refused it. Reload the page and try again.", {
+    status: 403,
+    statusText: "Forbidden",
+  });
+}

@@ -1,0 +1,79 @@
+import { Membership, Project, Zone, type LengthUnit, type Role } from "~/lib/db.server";
+import type { UserView } from "./user.server";
+
+export interface ProjectView {
+  id: number;
+  name: string;
+  slug: string;
+  description: string;
+  crs: string;
+  lengthUnit: LengthUnit;
+  grid: {
+    originEasting: number;
+    originNorthing: number;
+    cellSize: number;
+    rasterResolution: number;
+    maxEdge: number;
+    rotationDeg: number;
+    tolerance: number;
+    firmShare: number;
+    minCoverage: number;
+  };
+  minTeamSize: number;
+  hasWorkLimit: boolean;
+}
+
+export function presentProject(project: Project): ProjectView {
+  return {
+    id: project.id,
+    name: project.name,
+    slug: project.slug,
+    description: project.description,
+    crs: project.crs,
+    lengthUnit: project.lengthUnit,
+    grid: {
+      originEasting: project.gridOriginE,
+      originNorthing: project.gridOriginN,
+      cellSize: project.cellSize,
+      rasterResolution: project.rasterResolution,
+      maxEdge: project.maxEdge,
+      rotationDeg: project.rotationDeg,
+      tolerance: project.tolerance,
+      firmShare: project.firmShare,
+      minCoverage: project.minCoverage,
+    },
+    minTeamSize: project.minTeamSize,
+    hasWorkLimit: Boolean(project.workLimitGeoJson),
+  };
+}
+
+export async function findProject(projectId: number): Promise<Project | null> {
+  return Project.findByPk(projectId);
+}
+
+/** The projects the user belongs to (a site admin sees every project), with their role. */
+export async function listProjectsForUser(user: UserView): Promise<Array<ProjectView & { role: Role | null }>> {
+  if (user.isSiteAdmin) {
+    const projects = await Project.findAll({ order: [["name", "ASC"]] });
+    const memberships = await Membership.findAll({ where: { userId: user.id } });
+    const roleByProject = new Map(memberships.map((m) => [m.projectId, m.role]));
+    return projects.map((project) => ({ ...presentProject(project), role: roleByProject.get(project.id) ?? null }));
+  }
+  const memberships = await Membership.findAll({
+    where: { userId: user.id },
+    include: [{ model: Project, as: "project", required: true }],
+    order: [[{ model: Project, as: "project" }, "name", "ASC"]],
+  });
+  return memberships.map((m) => ({ ...presentProject(m.project!), role: m.role }));
+}
+
+export interface ZoneView {
+  id: number;
+  name: string;
+  sortOrder: number;
+}
+
+export async function listZones(project: ProjectView): Promise<ZoneView[]> {
+  const zones = await Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]] });
+  return zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder }));
+}

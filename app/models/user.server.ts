@@ -1,0 +1,40 @@
+import { hashPassword, verifyPassword } from "~/lib/password.server";
+import { User } from "~/lib/db.server";
+
+export interface UserView {
+  id: number;
+  email: string;
+  name: string;
+  isSiteAdmin: boolean;
+}
+
+export function presentUser(user: User): UserView {
+  return { id: user.id, email: user.email, name: user.name, isSiteAdmin: user.isSiteAdmin };
+}
+
+export function normaliseEmail(email: string): string {
+  return email.trim().toLowerCase();
+}
+
+export async function findUserByEmail(email: string): Promise<User | null> {
+  return User.findOne({ where: { email: normaliseEmail(email) } });
+}
+
+export async function getUserView(userId: number): Promise<UserView | null> {
+  const user = await User.findByPk(userId);
+  return user ? presentUser(user) : null;
+}
+
+/** The acting user renames themself. */
+export async function updateOwnName(actingUser: UserView, name: string): Promise<void> {
+  await User.update({ name }, { where: { id: actingUser.id } });
+}
+
+/** The acting user changes their own password, proving they know the current one. */
+export async function changeOwnPassword(actingUser: UserView, currentPassword: string, newPassword: string): Promise<"changed" | "wrong-password"> {
+  const user = await User.findByPk(actingUser.id);
+  if (!user || !(await verifyPassword(currentPassword, user.passwordHash))) return "wrong-password";
+  user.passwordHash = await hashPassword(newPassword);
+  await user.save();
+  return "changed";
+}

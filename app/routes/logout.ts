@@ -1,0 +1,19 @@
+import { redirect } from "react-router";
+import { getOptionalUser } from "~/lib/access.server";
+import { auditForAccount } from "~/lib/auth.server";
+import { clientAddress } from "~/lib/client-address.server";
+import { AUDIT_ACTIONS } from "~/models/audit.server";
+import { destroySession, getSession } from "~/lib/session.server";
+import type { Route } from "./+types/logout";
+
+export async function loader() {
+  // Signing out changes state, so it takes a POST; a GET just goes home.
+  return redirect("/");
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await getOptionalUser(request);
+  if (user) await auditForAccount(user.id, AUDIT_ACTIONS.signOut, clientAddress(request), {});
+  const session = await getSession(request);
+  return redirect("/login", { headers: { "Set-Cookie": await destroySession(request, session) } });
+}

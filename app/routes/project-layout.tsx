@@ -1,0 +1,40 @@
+import { NavLink, Outlet } from "react-router";
+import { requireRole } from "~/lib/access.server";
+import { ROLE_LABELS } from "~/lib/db.server";
+import type { Route } from "./+types/project-layout";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { user, project, role } = await requireRole(request, params.projectId);
+  return {
+    project: { id: project.id, name: project.name },
+    roleLabel: role ? ROLE_LABELS[role] : "Site administrator",
+    canManage: role === "manager" || user.isSiteAdmin,
+  };
+}
+
+export function meta({ loaderData }: Route.MetaArgs) {
+  return [{ title: `${loaderData?.project.name ?? "Project"} · Firmsand` }];
+}
+
+const linkClass = ({ isActive }: { isActive: boolean }) =>
+  `rounded px-3 py-2 text-sm focus-visible:outline-2 focus-visible:outline-lagoon ${isActive ? "bg-lagoon text-white" : "hover:bg-paper"}`;
+
+export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
+  const base = `/projects/${loaderData.project.id}`;
+  return (
+    <div className="mx-auto max-w-5xl px-6 py-4">
+      <p className="text-sm text-muted">Project · your role: {loaderData.roleLabel}</p>
+      <h1 className="text-2xl font-semibold text-lagoon-dark">{loaderData.project.name}</h1>
+      <nav aria-label="Project" className="mt-3 flex flex-wrap gap-1 border-b border-line pb-2">
+        <NavLink end to={base} className={linkClass}>Overview</NavLink>
+        <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
+        <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
+        {loaderData.canManage ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
+        {loaderData.canManage ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}
+      </nav>
+      <div className="mt-6">
+        <Outlet />
+      </div>
+    </div>
+  );
+}

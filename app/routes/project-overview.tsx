@@ -1,0 +1,71 @@
+import { requireRole } from "~/lib/access.server";
+import { ROLE_LABELS } from "~/lib/db.server";
+import { listZones } from "~/models/project.server";
+import type { Route } from "./+types/project-overview";
+
+const UNIT_LABELS = { "us-ft": "US survey feet", ft: "international feet", m: "metres" } as const;
+const UNIT_SYMBOLS = { "us-ft": "ft", ft: "ft", m: "m" } as const;
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { project, role } = await requireRole(request, params.projectId);
+  const zones = await listZones(project);
+  return {
+    project,
+    unitLabel: UNIT_LABELS[project.lengthUnit],
+    unit: UNIT_SYMBOLS[project.lengthUnit],
+    roleLabel: role ? ROLE_LABELS[role] : "Site administrator (not a member)",
+    zones,
+  };
+}
+
+function Fact({ term, children }: { term: string; children: React.ReactNode }) {
+  return (
+    <div className="flex justify-between gap-4 border-t border-line py-2">
+      <dt className="text-muted">{term}</dt>
+      <dd className="figures text-right">{children}</dd>
+    </div>
+  );
+}
+
+export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
+  const { project, unit, zones } = loaderData;
+  const percent = (share: number) => `${Math.round(share * 100)} %`;
+  return (
+    <div className="grid gap-6 md:grid-cols-2">
+      <section aria-labelledby="facts" className="rounded border border-line bg-panel p-4">
+        <h2 id="facts" className="font-semibold">Project facts</h2>
+        {project.description ? <p className="mt-2 text-sm">{project.description}</p> : null}
+        <dl className="mt-3 text-sm">
+          <Fact term="Your role">{loaderData.roleLabel}</Fact>
+          <Fact term="Coordinate reference system">{project.crs}</Fact>
+          <Fact term="Length unit">{loaderData.unitLabel}</Fact>
+          <Fact term="Work limit">{project.hasWorkLimit ? "set" : "not set yet"}</Fact>
+          <Fact term="Minimum dive team">{project.minTeamSize} people</Fact>
+        </dl>
+      </section>
+      <section aria-labelledby="grid" className="rounded border border-line bg-panel p-4">
+        <h2 id="grid" className="font-semibold">Grid and surfaces</h2>
+        <dl className="mt-3 text-sm">
+          <Fact term="Grid origin (easting, northing)">{project.grid.originEasting.toFixed(2)}, {project.grid.originNorthing.toFixed(2)} {unit}</Fact>
+          <Fact term="Cell size">{project.grid.cellSize} {unit}</Fact>
+          <Fact term="Grid rotation">{project.grid.rotationDeg}°</Fact>
+          <Fact term="Raster resolution">{project.grid.rasterResolution} {unit}</Fact>
+          <Fact term="Longest triangle edge">{project.grid.maxEdge} {unit}</Fact>
+          <Fact term="Firm-sand tolerance">{project.grid.tolerance} {unit}</Fact>
+          <Fact term="Share of cell within tolerance">{percent(project.grid.firmShare)}</Fact>
+          <Fact term="Minimum surveyed coverage">{percent(project.grid.minCoverage)}</Fact>
+        </dl>
+      </section>
+      <section aria-labelledby="zones" className="rounded border border-line bg-panel p-4 md:col-span-2">
+        <h2 id="zones" className="font-semibold">Zones</h2>
+        {zones.length === 0 ? (
+          <p className="mt-2 text-sm text-muted">No zones yet: the whole work limit counts as one.</p>
+        ) : (
+          <ol className="mt-2 list-decimal pl-6 text-sm">
+            {zones.map((zone) => <li key={zone.id}>{zone.name}</li>)}
+          </ol>
+        )}
+      </section>
+    </div>
+  );
+}
