@@ -63,15 +63,16 @@ function unitNormal(distanceFt: number): [number, number] {
   return [-(y1 - y0) / length, (x1 - x0) / length];
 }
 
-function bankPoint(distanceFt: number, side: "left" | "right"): [number, number] {
+/** A point on a bank of the run, or `beyondFt` past it (outside the water). */
+export function bankPoint(distanceFt: number, side: "left" | "right", beyondFt = 0): [number, number] {
   const [x, y] = centerLinePoint(distanceFt);
   const [nx, ny] = unitNormal(distanceFt);
   const { leftFt, rightFt } = runHalfWidthsFt(distanceFt);
-  const offset = side === "left" ? leftFt : -rightFt;
+  const offset = side === "left" ? leftFt + beyondFt : -(rightFt + beyondFt);
   return [x + offset * nx, y + offset * ny];
 }
 
-const UPPER_RUN_STATIONS_FT = [RUN_JOIN_FT, 200, 275, 350, UPPER_RUN_END_FT];
+export const UPPER_RUN_STATIONS_FT = [RUN_JOIN_FT, 200, 275, 350, UPPER_RUN_END_FT];
 const LOWER_RUN_STATIONS_FT = [UPPER_RUN_END_FT, 500, 565, 630, 690];
 /** The basin's shore is left this far either side of the run's mouth (a flared junction). */
 const MOUTH_HALF_ANGLE_RADIANS = (26 * Math.PI) / 180;

@@ -2,9 +2,9 @@
  * Prints the work limit and zones of outline.ts as lon/lat literals for scenario.ts
  * (`npx tsx sample-data/print-geometry.ts`). Run it only when the outline's design changes.
  */
-import { designOutline } from "./outline.ts";
-import { demoProjection } from "./projection.ts";
-import { VENT_LON_LAT, PROJECT, ZONE_NAMES, type LonLat } from "./scenario.ts";
+import { designOutline } from "./outline";
+import { demoProjection } from "./projection";
+import { VENT_LON_LAT, PROJECT, ZONE_NAMES, type LonLat } from "./scenario";
 
 const LON_LAT_DECIMALS = 7; // about 1 cm at this latitude
 

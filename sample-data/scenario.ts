@@ -189,7 +189,7 @@ export const SURVEYS: DemoSurvey[] = [
     kind: "baseline",
     surveyedOn: "2026-09-08",
     utcOffset: "-04:00",
-    startTime: "07:10",
+    startTime: "06:50",
     waterSurfaceElevationFt: 32.4,
     zones: ["Vent basin", "Upper run", "Lower run"],
     fileName: "baseline-2026-09-08.csv",
