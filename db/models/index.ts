@@ -8,10 +8,22 @@ import { PasswordReset, initPasswordReset } from "./password-reset";
 import { Project, initProject } from "./project";
 import { User, initUser } from "./user";
 import { Zone, initZone } from "./zone";
+import { ApiToken, initApiToken } from "./api-token";
+import { CellResult, initCellResult } from "./cell-result";
+import { ColumnMapping, initColumnMapping } from "./column-mapping";
+import { ImportJob, initImportJob } from "./import-job";
+import { Sounding, initSounding } from "./sounding";
+import { Survey, initSurvey } from "./survey";
+import { SurveySnapshot, initSurveySnapshot } from "./survey-snapshot";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
 export { LENGTH_UNITS, type LengthUnit } from "./project";
+export { ApiToken, CellResult, ColumnMapping, ImportJob, Sounding, Survey, SurveySnapshot };
+export { SURVEY_KINDS, SURVEY_STATUSES, type SurveyKind, type SurveyStatus } from "./survey";
+export { CELL_RESULT_STATUSES, type CellResultStatus } from "./cell-result";
+export { IMPORT_JOB_STATES, type ImportJobState } from "./import-job";
+export type { SnapshotTotals } from "./survey-snapshot";
 
 let initialised: Sequelize | undefined;
 
@@ -30,6 +42,13 @@ export function initModels(): Sequelize {
   initPasswordReset(sequelize);
   initAuditEvent(sequelize);
   initLoginAttempt(sequelize);
+  initSurvey(sequelize);
+  initSounding(sequelize);
+  initCellResult(sequelize);
+  initSurveySnapshot(sequelize);
+  initColumnMapping(sequelize);
+  initImportJob(sequelize);
+  initApiToken(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -45,6 +64,29 @@ export function initModels(): Sequelize {
   PasswordReset.belongsTo(User, { foreignKey: "userId", as: "user" });
   AuditEvent.belongsTo(User, { foreignKey: "userId", as: "user" });
   AuditEvent.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  // Survey import (issue 4).
+  Project.hasMany(Survey, { foreignKey: "projectId", as: "surveys" });
+  Survey.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Survey.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
+  Survey.belongsTo(User, { foreignKey: "retractedById", as: "retractedBy" });
+  Survey.hasMany(Sounding, { foreignKey: "surveyId", as: "soundings" });
+  Sounding.belongsTo(Survey, { foreignKey: "surveyId", as: "survey" });
+  Project.hasMany(CellResult, { foreignKey: "projectId", as: "cellResults" });
+  CellResult.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  CellResult.belongsTo(Zone, { foreignKey: "zoneId", as: "zone" });
+  CellResult.belongsTo(Survey, { foreignKey: "latestSurveyId", as: "latestSurvey" });
+  Project.hasMany(SurveySnapshot, { foreignKey: "projectId", as: "snapshots" });
+  SurveySnapshot.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  SurveySnapshot.belongsTo(Survey, { foreignKey: "lastSurveyId", as: "lastSurvey" });
+  Project.hasOne(ColumnMapping, { foreignKey: "projectId", as: "columnMapping" });
+  ColumnMapping.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  ColumnMapping.belongsTo(User, { foreignKey: "updatedById", as: "updatedBy" });
+  Project.hasMany(ImportJob, { foreignKey: "projectId", as: "importJobs" });
+  ImportJob.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  ImportJob.belongsTo(User, { foreignKey: "userId", as: "user" });
+  ImportJob.belongsTo(Survey, { foreignKey: "surveyId", as: "survey" });
+  User.hasMany(ApiToken, { foreignKey: "userId", as: "apiTokens" });
+  ApiToken.belongsTo(User, { foreignKey: "userId", as: "user" });
 
   initialised = sequelize;
   return sequelize;

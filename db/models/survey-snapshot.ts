@@ -1,0 +1,63 @@
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import type { Project } from "./project";
+import type { Survey } from "./survey";
+
+/** Project and zone totals in the project's volume unit after one survey date. */
+export interface SnapshotTotals {
+  plannedVolume: number;
+  removedVolume: number;
+  depositedVolume: number;
+  remainingVolume: number;
+  cells: number;
+  cellsAtFirmSand: number;
+  cellsConfirmed: number;
+  cellsInWork: number;
+  cellsUntouched: number;
+  cellsNoData: number;
+}
+
+/**
+ * The state of the project after every survey of one date (all active surveys up to that date).
+ * Per-cell figures are kept compact: little-endian Float32Array bytes of remaining and removed
+ * volume and Uint8Array status codes, laid out row-major over the cell grid
+ * (index = (row − firstRow) · cellCols + (col − firstCol)).
+ */
+export class SurveySnapshot extends Model<InferAttributes<SurveySnapshot>, InferCreationAttributes<SurveySnapshot>> {
+  declare id: CreationOptional<number>;
+  declare projectId: ForeignKey<Project["id"]>;
+  declare surveyedOn: string;
+  declare lastSurveyId: ForeignKey<Survey["id"]>;
+  declare totals: SnapshotTotals;
+  declare zones: Array<{ zoneId: number; name: string; totals: SnapshotTotals }>;
+  declare cellCols: number;
+  declare cellRows: number;
+  declare firstCol: number;
+  declare firstRow: number;
+  declare remainingVolumes: Buffer;
+  declare removedVolumes: Buffer;
+  declare statuses: Buffer;
+  declare computedAt: Date;
+}
+
+export function initSurveySnapshot(sequelize: Sequelize) {
+  SurveySnapshot.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      surveyedOn: { type: DataTypes.DATEONLY, allowNull: false },
+      totals: { type: DataTypes.JSON, allowNull: false },
+      zones: { type: DataTypes.JSON, allowNull: false },
+      cellCols: { type: DataTypes.INTEGER, allowNull: false },
+      cellRows: { type: DataTypes.INTEGER, allowNull: false },
+      firstCol: { type: DataTypes.INTEGER, allowNull: false },
+      firstRow: { type: DataTypes.INTEGER, allowNull: false },
+      remainingVolumes: { type: DataTypes.BLOB("medium"), allowNull: false },
+      removedVolumes: { type: DataTypes.BLOB("medium"), allowNull: false },
+      statuses: { type: DataTypes.BLOB("medium"), allowNull: false },
+      computedAt: { type: DataTypes.DATE, allowNull: false },
+    },
+    {
+      sequelize, tableName: "survey_snapshots", modelName: "SurveySnapshot", timestamps: false,
+      indexes: [{ name: "survey_snapshots_project_date_unique", unique: true, fields: ["projectId", "surveyedOn"] }],
+    },
+  );
+}
