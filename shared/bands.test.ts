@@ -14,7 +14,7 @@ function rasterOf(
   const values = new Float64Array(cols * rows);
   for (let row = 0; row < rows; row++) {
     for (let col = 0; col < cols; col++) {
-      values[row * cols + col] = valueAt(originX + col * spacing, originY + row * spacing);
+      values[row * cols + col] = valueAt(originX + (col + 0.5) * spacing, originY + (row + 0.5) * spacing);
     }
   }
   return { values, cols, rows, originX, originY, spacing };
@@ -41,6 +41,7 @@ describe("bands of a plane reproduce strips exactly", () => {
   const bands = projectedBands(raster, [1010, 1020, 1047.5, 1080]);
 
   it("places the boundaries at the threshold eastings (no half-cell shift)", () => {
+    // nodes sit at pixel centres: easting 1001, 1003, …, 1101; the raster spans 1000 to 1102
     // computed: linear interpolation reproduces a plane, so the edges fall exactly on x = threshold
     const [minX, , maxX] = extent(bands[0].polygons);
     expect(minX).toBeCloseTo(1010, 9);

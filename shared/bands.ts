@@ -1,23 +1,17 @@
 import { contours } from "d3-contour";
 import type { Feature, FeatureCollection, MultiPolygon, Position } from "geojson";
 import type { Crs } from "./crs";
+import type { Raster } from "./surface/raster";
 import type { LengthUnit } from "./units";
 import { defaultsFor } from "./units";
 
 /**
- * A regular raster of node values. Node (col, row) sits at
- * (originX + col·spacing, originY + row·spacing) — row increases northwards — and its value is
- * `values[row·cols + col]`. NaN means no data. Each node stands for the square of side
- * `spacing` centred on it, so a band reaches half a spacing beyond the outermost nodes with data.
+ * The surfaces' raster (see ./surface/raster): node (col, row) is the centre of the pixel
+ * [originX + col·spacing, originX + (col + 1)·spacing] × [originY + row·spacing, …], row 0 in the
+ * south, value `values[row·cols + col]`, NaN for no data. Bands cover whole pixels at the raster's
+ * outer edge, like the volumes (midpoint rule), and stop half-way between a node with data and one without.
  */
-export interface BandRaster {
-  values: Float32Array | Float64Array;
-  cols: number;
-  rows: number;
-  originX: number;
-  originY: number;
-  spacing: number;
-}
+export type BandRaster = Pick<Raster, "values" | "cols" | "rows" | "originX" | "originY" | "spacing">;
 
 export interface BandProperties {
   /** Inclusive lower bound; null for −∞. */
@@ -111,8 +105,9 @@ function orient(ring: Position[], counterClockwise: boolean): Position[] {
  * across (lower or upper). Neighbouring bands therefore share their boundaries exactly.
  * A band narrower than the change between two neighbouring nodes can vanish there: it is a sliver.
  *
- * d3-contour works in grid-index space where node (i, j) is the pixel [i, i+1]×[j, j+1] with its
- * centre at (i + 0.5, j + 0.5); so x = originX + (gx − 0.5)·spacing, or (gx − 1.5) in the padded grid.
+ * d3-contour works in grid-index space where value (i, j) is the pixel [i, i+1]×[j, j+1] with its
+ * centre at (i + 0.5, j + 0.5) — the same layout as our raster, so x = originX + gx·spacing, or
+ * originX + (gx − 1)·spacing in the padded grid.
  */
 export function projectedBands(
   raster: BandRaster,
@@ -193,8 +188,8 @@ export function projectedBands(
         const clipped = clipToRectangle(gridRing, 1, 1, cols + 1, rows + 1);
         const ring: Position[] = [];
         for (const [gx, gy] of clipped) {
-          const x = originX + (gx - 1.5) * spacing;
-          const y = originY + (gy - 1.5) * spacing;
+          const x = originX + (gx - 1) * spacing;
+          const y = originY + (gy - 1) * spacing;
           const last = ring[ring.length - 1];
           if (!last || last[0] !== x || last[1] !== y) ring.push([x, y]);
         }

@@ -102,16 +102,18 @@ describe("sections across a raster pair", () => {
     const cols = 51;
     const rows = 21;
     const values = new Float64Array(cols * rows);
-    for (let row = 0; row < rows; row++) for (let col = 0; col < cols; col++) values[row * cols + col] = valueAt(col * 2, row * 2);
+    for (let row = 0; row < rows; row++) for (let col = 0; col < cols; col++) values[row * cols + col] = valueAt((col + 0.5) * 2, (row + 0.5) * 2);
     return { values, cols, rows, originX: 0, originY: 0, spacing: 2 };
   }
   const before = planeRaster(() => 10);
   const after = planeRaster((x) => 10 - (1 + 0.01 * x));
 
   it("reproduces planes by bilinear sampling", () => {
-    // computed: bilinear interpolation is exact for a plane
+    // computed: bilinear interpolation is exact for a plane, also in the outer half pixel
     expect(sampleRaster(after, 33.3, 17.1)).toBeCloseTo(10 - (1 + 0.333), 12);
+    expect(sampleRaster(after, 0.2, 41.9)).toBeCloseTo(10 - (1 + 0.002), 12);
     expect(Number.isNaN(sampleRaster(after, -0.1, 5))).toBe(true);
+    expect(Number.isNaN(sampleRaster(after, 5, 42.1))).toBe(true);
   });
 
   it("gives the exact volume of a linearly thickening cut", () => {

@@ -1,3 +1,5 @@
+import type { Raster } from "./surface/raster";
+
 /**
  * Cross-section (end-area) volumes, the check the trade keeps beside a surface volume.
  * Methods as in USACE EM 1110-2-1003 *Hydrographic Surveying* (2002), ch. 15: the average end
@@ -155,26 +157,22 @@ export function endAreaVolume(sampler: ThicknessSampler, layout: SectionLayout):
   };
 }
 
-/** A raster as produced for the surfaces: node (col, row) at (originX + col·spacing, originY + row·spacing). */
-export interface SampledRaster {
-  values: Float32Array | Float64Array;
-  cols: number;
-  rows: number;
-  originX: number;
-  originY: number;
-  spacing: number;
-}
+/** The surfaces' raster (see ./surface/raster): node (col, row) at the centre of its pixel. */
+export type SampledRaster = Pick<Raster, "values" | "cols" | "rows" | "originX" | "originY" | "spacing">;
 
-/** Bilinear value of a raster at a point; NaN outside it or next to a no-data node. */
+/**
+ * Bilinear value of a raster at a point; NaN outside its extent or next to a no-data node. In
+ * the outer half pixel the edge pair of nodes is extended linearly, which keeps planes exact.
+ */
 export function sampleRaster(raster: SampledRaster, x: number, y: number): number {
-  const gx = (x - raster.originX) / raster.spacing;
-  const gy = (y - raster.originY) / raster.spacing;
-  if (!(gx >= 0 && gy >= 0 && gx <= raster.cols - 1 && gy <= raster.rows - 1)) return Number.NaN;
+  const gx = (x - raster.originX) / raster.spacing - 0.5;
+  const gy = (y - raster.originY) / raster.spacing - 0.5;
+  if (!(gx >= -0.5 && gy >= -0.5 && gx <= raster.cols - 0.5 && gy <= raster.rows - 0.5)) return Number.NaN;
   const col = Math.max(0, Math.min(Math.floor(gx), raster.cols - 2));
   const row = Math.max(0, Math.min(Math.floor(gy), raster.rows - 2));
-  const fx = gx - col;
-  const fy = gy - row;
-  // A one-node-wide raster has no second node in that direction (and its fraction is 0).
+  // A one-node-wide raster has no second node in that direction: hold its value.
+  const fx = raster.cols === 1 ? 0 : gx - col;
+  const fy = raster.rows === 1 ? 0 : gy - row;
   const nextCol = Math.min(col + 1, raster.cols - 1);
   const nextRow = Math.min(row + 1, raster.rows - 1);
   const v00 = raster.values[row * raster.cols + col];

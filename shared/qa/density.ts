@@ -1,8 +1,13 @@
 /**
- * A progress grid as Firmsand lays it out: cells of side `cellSize` counted from the origin,
- * `col` eastwards and `row` northwards before rotation; the whole grid is then turned by
- * `rotationDeg` counter-clockwise (from east towards north) about the origin. Cell (row, col)
- * is stored at index row·cols + col.
+ * A progress grid as Firmsand lays it out (the same convention as ./grid/cell-grid): cells of side
+ * `cellSize` counted from the origin, `col` eastwards and `row` northwards before rotation; the
+ * whole grid is then turned by the rotation, in degrees counter-clockwise (from east towards
+ * north), about the origin. The grid keeps `cols` × `rows` cells starting at column `firstCol` and
+ * row `firstRow` (both 0 unless the origin lies inside the work limit); cell (row, col) is stored at
+ * index (row − firstRow)·cols + (col − firstCol).
+ *
+ * The rotation may be given as `rotationDeg` or, as the cell grid names it, `rotationDegrees`, so
+ * a CellGrid can be passed as it is.
  */
 export interface CellGridDefinition {
   originX: number;
@@ -10,23 +15,37 @@ export interface CellGridDefinition {
   cellSize: number;
   cols: number;
   rows: number;
-  rotationDeg: number;
+  rotationDeg?: number;
+  rotationDegrees?: number;
+  firstCol?: number;
+  firstRow?: number;
+}
+
+interface Frame {
+  cos: number;
+  sin: number;
+  firstCol: number;
+  firstRow: number;
+}
+
+function frameOf(grid: CellGridDefinition): Frame {
+  const angle = ((grid.rotationDeg ?? grid.rotationDegrees ?? 0) * Math.PI) / 180;
+  return { cos: Math.cos(angle), sin: Math.sin(angle), firstCol: grid.firstCol ?? 0, firstRow: grid.firstRow ?? 0 };
+}
+
+function indexIn(grid: CellGridDefinition, frame: Frame, x: number, y: number): number {
+  const dx = x - grid.originX;
+  const dy = y - grid.originY;
+  // Undo the rotation: columns run along (cos, sin), rows along (−sin, cos).
+  const col = Math.floor((dx * frame.cos + dy * frame.sin) / grid.cellSize) - frame.firstCol;
+  const row = Math.floor((-dx * frame.sin + dy * frame.cos) / grid.cellSize) - frame.firstRow;
+  if (col < 0 || row < 0 || col >= grid.cols || row >= grid.rows) return -1;
+  return row * grid.cols + col;
 }
 
 /** Cell index of a point, or −1 outside the grid. */
 export function cellIndexOf(grid: CellGridDefinition, x: number, y: number): number {
-  const angle = (grid.rotationDeg * Math.PI) / 180;
-  const cos = Math.cos(angle);
-  const sin = Math.sin(angle);
-  const dx = x - grid.originX;
-  const dy = y - grid.originY;
-  // Undo the rotation: grid axes are (cos, sin) for columns and (−sin, cos) for rows.
-  const along = (dx * cos + dy * sin) / grid.cellSize;
-  const across = (-dx * sin + dy * cos) / grid.cellSize;
-  const col = Math.floor(along);
-  const row = Math.floor(across);
-  if (col < 0 || row < 0 || col >= grid.cols || row >= grid.rows) return -1;
-  return row * grid.cols + col;
+  return indexIn(grid, frameOf(grid), x, y);
 }
 
 export interface DensityResult {
@@ -40,17 +59,12 @@ export interface DensityResult {
 
 export function soundingDensity(xs: Float64Array, ys: Float64Array, grid: CellGridDefinition): DensityResult {
   const counts = new Uint32Array(grid.cols * grid.rows);
-  const angle = (grid.rotationDeg * Math.PI) / 180;
-  const cos = Math.cos(angle);
-  const sin = Math.sin(angle);
+  const frame = frameOf(grid);
   let outsideGrid = 0;
   for (let i = 0; i < xs.length; i++) {
-    const dx = xs[i] - grid.originX;
-    const dy = ys[i] - grid.originY;
-    const col = Math.floor((dx * cos + dy * sin) / grid.cellSize);
-    const row = Math.floor((-dx * sin + dy * cos) / grid.cellSize);
-    if (col < 0 || row < 0 || col >= grid.cols || row >= grid.rows) outsideGrid++;
-    else counts[row * grid.cols + col]++;
+    const index = indexIn(grid, frame, xs[i], ys[i]);
+    if (index < 0) outsideGrid++;
+    else counts[index]++;
   }
   const cellArea = grid.cellSize * grid.cellSize;
   const perArea = new Float64Array(counts.length);

@@ -127,6 +127,10 @@ describe("sounding density per cell", () => {
     expect(cellIndexOf(grid, -5, 35)).toBe(0 * 4 + 3); // row 0, col 3
     expect(cellIndexOf(grid, -25, 5)).toBe(2 * 4 + 0); // row 2, col 0
     expect(cellIndexOf(grid, 5, 5)).toBe(-1);
+    // a grid that starts one column and one row before its origin, named as the cell grid names it
+    const widened = { originX: 0, originY: 0, cellSize: 10, cols: 5, rows: 4, rotationDegrees: 90, firstCol: -1, firstRow: -1 };
+    expect(cellIndexOf(widened, -5, 35)).toBe(1 * 5 + 4);
+    expect(cellIndexOf(widened, 5, -5)).toBe(0);
     // computed invariant: a point at the centre of every cell, placed by the forward rotation, lands in it
     const rotated = { ...grid, rotationDeg: 27.5 };
     const angle = (27.5 * Math.PI) / 180;
