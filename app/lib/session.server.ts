@@ -9,9 +9,8 @@ export interface SessionData {
   userId: number;
   signedInAt: string;
 }
-export interface SessionFlash {
-  notice: string;
-}
+// No flash messages: pages say what happened through their action data or the URL.
+type SessionFlash = Record<string, never>;
 type AppSession = Session<SessionData, SessionFlash>;
 
 const LOOPBACK = new Set(["127.0.0.1", "localhost", "[::1]", "::1"]);
@@ -57,11 +56,10 @@ export function destroySession(request: Request, session: AppSession): Promise<s
 }
 
 /** Starts a fresh session for the user and redirects to `to`. */
-export async function signIn(request: Request, userId: number, to: string, notice?: string) {
+export async function signIn(request: Request, userId: number, to: string) {
   const session = await storageFor(request).getSession();
   session.set("userId", userId);
   session.set("signedInAt", new Date().toISOString());
-  if (notice) session.flash("notice", notice);
   return redirect(to, { headers: { "Set-Cookie": await commitSession(request, session) } });
 }
 

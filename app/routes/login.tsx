@@ -43,6 +43,7 @@ export default function Login({ loaderData, actionData }: Route.ComponentProps) 
       <Form method="post" className="space-y-4" aria-describedby={error ? "sign-in-error" : undefined} noValidate>
         <input type="hidden" name="next" value={searchParams.get("next") ?? ""} />
         <FormMessage id="sign-in-error" tone="error">{error}</FormMessage>
+        {searchParams.get("reset") === "done" && !error ? <FormMessage tone="success">Your password was changed. Sign in with the new one.</FormMessage> : null}
         <TextField
           label="E-mail"
           name="email"

@@ -1,0 +1,27 @@
+import { z } from "zod";
+import { PASSWORD_MAX_BYTES, PASSWORD_MIN_LENGTH } from "./password.server";
+
+export type FieldErrors = Record<string, string>;
+
+/** Parses a submitted form with a zod schema; errors come back per field, first message each. */
+export function parseForm<Schema extends z.ZodType>(formData: FormData, schema: Schema):
+  | { ok: true; data: z.infer<Schema> }
+  | { ok: false; errors: FieldErrors } {
+  const result = schema.safeParse(Object.fromEntries(formData));
+  if (result.success) return { ok: true, data: result.data };
+  const errors: FieldErrors = {};
+  for (const issue of result.error.issues) {
+    const key = String(issue.path[0] ?? "form");
+    errors[key] ??= issue.message;
+  }
+  return { ok: false, errors };
+}
+
+export const newPasswordSchema = z
+  .string()
+  .min(PASSWORD_MIN_LENGTH, `Use at least ${PASSWORD_MIN_LENGTH} characters.`)
+  .refine((value) => new TextEncoder().encode(value).length <= PASSWORD_MAX_BYTES, `Use at most ${PASSWORD_MAX_BYTES} bytes.`);
+
+export const personNameSchema = z.string().trim().min(1, "Enter your name.").max(120, "Use at most 120 characters.");
+
+export const emailSchema = z.string().trim().min(1, "Enter an e-mail address.").max(254).email("Enter an e-mail address like name@example.org.");

@@ -1,0 +1,52 @@
+import { z } from "zod";
+import { surveyOrderSchema } from "../../../shared/qa/tvu";
+import { soundingFields } from "../../../shared/soundings/parse-csv";
+import { lengthUnitSchema } from "../../../shared/units";
+
+/** What the technician says about an upload (the upload form, the API's multipart fields). */
+function isTimeZone(value: string): boolean {
+  try {
+    new Intl.DateTimeFormat("en-US", { timeZone: value });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+export const columnsSchema = z.partialRecord(z.enum(soundingFields), z.string().trim().min(1).max(200));
+
+export const importOptionsSchema = z
+  .object({
+    kind: z.enum(["baseline", "progress", "closeout"]),
+    surveyedOn: z.iso.date({ message: "give the survey date as YYYY-MM-DD" }),
+    timeZone: z.string().trim().min(1).refine(isTimeZone, "is not a time zone name such as America/New_York"),
+    waterSurfaceElevation: z.number().finite().nullable(),
+    fileHasElevations: z.boolean(),
+    datum: z.string().trim().min(1).max(40),
+    /** The CRS of the file's coordinates (EPSG code); the project's by default. */
+    crs: z.string().trim().min(1).max(40),
+    /** The length unit of the file's depths and elevations; the project's by default. */
+    lengthUnit: lengthUnitSchema,
+    columns: columnsSchema.optional(),
+    /** IHO S-44 order the crossings and spikes are judged against. */
+    surveyOrder: surveyOrderSchema.default("1a"),
+  })
+  .superRefine((options, context) => {
+    if (!options.fileHasElevations && options.waterSurfaceElevation === null) {
+      context.addIssue({ code: "custom", path: ["waterSurfaceElevation"], message: "is required unless the file has elevations" });
+    }
+  });
+export type ImportOptions = z.infer<typeof importOptionsSchema>;
+
+/** Choices made on the preview before committing. */
+export const commitChoicesSchema = z.object({
+  /** Spreadsheet rows left out on purpose. */
+  excludeRows: z.array(z.number().int().positive()).default([]),
+  /** Leave out every row with an error (when there are too many to tick one by one). */
+  excludeErrorRows: z.boolean().default(false),
+  /** Soundings outside the work limit: kept or dropped; required when there are any (never silent). */
+  outside: z.enum(["keep", "drop"]).optional(),
+  /** Import even though the same file (same content hash) was imported before. */
+  acceptSameFile: z.boolean().default(false),
+});
+export type CommitChoices = z.infer<typeof commitChoicesSchema>;

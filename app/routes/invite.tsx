@@ -1,0 +1,86 @@
+import { Form, data } from "react-router";
+import { z } from "zod";
+import { FormMessage } from "~/components/form-message";
+import { Page } from "~/components/page";
+import { SubmitButton } from "~/components/submit-button";
+import { TextField } from "~/components/text-field";
+import { clientAddress } from "~/lib/client-address.server";
+import { ROLE_LABELS } from "~/lib/db.server";
+import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/form.server";
+import { signIn } from "~/lib/session.server";
+import { acceptInvitation, lookUpInvitation } from "~/models/invitation.server";
+import type { Route } from "./+types/invite";
+
+// Open to anyone holding the link: the token itself is the credential.
+const CLOSED_MESSAGES = {
+  expired: "This invitation has expired. Ask the project manager to send a new one.",
+  used: "This invitation has already been used or was withdrawn. Sign in, or ask the project manager for a new one.",
+  unknown: "This invitation link is not valid. Check that you copied the whole link.",
+} as const;
+
+export async function loader({ params }: Route.LoaderArgs) {
+  const lookup = await lookUpInvitation(params.token);
+  if (lookup.status !== "open") return { open: false as const, message: CLOSED_MESSAGES[lookup.status] };
+  const { invitation } = lookup;
+  return {
+    open: true as const,
+    email: invitation.email,
+    roleLabel: ROLE_LABELS[invitation.role],
+    projectName: invitation.projectName,
+    hasAccount: invitation.hasAccount,
+  };
+}
+
+const newAccountSchema = z.object({ name: personNameSchema, password: newPasswordSchema });
+const existingAccountSchema = z.object({ password: z.string().min(1, "Enter your password.") });
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const lookup = await lookUpInvitation(params.token);
+  if (lookup.status !== "open") return data({ errors: { form: CLOSED_MESSAGES[lookup.status] } as Record<string, string> }, { status: 410 });
+  const formData = await request.formData();
+  const parsed = lookup.invitation.hasAccount
+    ? parseForm(formData, existingAccountSchema.transform((value) => ({ ...value, name: "" })))
+    : parseForm(formData, newAccountSchema);
+  if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
+  const result = await acceptInvitation(params.token, parsed.data, clientAddress(request));
+  if (!result.ok) {
+    if (result.reason === "wrong-password") return data({ errors: { password: "That is not the password of this account." } as Record<string, string> }, { status: 400 });
+    return data({ errors: { form: CLOSED_MESSAGES[result.reason] } as Record<string, string> }, { status: 410 });
+  }
+  return signIn(request, result.user.id, `/projects/${result.projectId}`);
+}
+
+export function meta({}: Route.MetaArgs) {
+  return [{ title: "Invitation · Firmsand" }];
+}
+
+export default function Invite({ loaderData, actionData }: Route.ComponentProps) {
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  if (!loaderData.open) {
+    return (
+      <Page title="Invitation">
+        <FormMessage tone="error">{loaderData.message}</FormMessage>
+        <p className="mt-4"><a className="text-lagoon underline" href="/login">Go to sign in</a></p>
+      </Page>
+    );
+  }
+  return (
+    <Page title={`Join ${loaderData.projectName}`}>
+      <p>You are invited as <strong>{loaderData.roleLabel}</strong> with the address <span className="figures">{loaderData.email}</span>.</p>
+      <Form method="post" className="mt-6 space-y-4" noValidate>
+        <FormMessage tone="error">{errors.form}</FormMessage>
+        {loaderData.hasAccount ? (
+          <TextField label="Your current password" name="password" type="password" autoComplete="current-password" required error={errors.password}
+            hint="You already have a Firmsand account: confirm it with your password." />
+        ) : (
+          <>
+            <TextField label="Your name" name="name" autoComplete="name" required error={errors.name} />
+            <TextField label="Choose a password" name="password" type="password" autoComplete="new-password" required error={errors.password}
+              hint="At least 10 characters." />
+          </>
+        )}
+        <SubmitButton pendingLabel="Joining…">Join the project</SubmitButton>
+      </Form>
+    </Page>
+  );
+}
