@@ -1,5 +1,9 @@
+// Form parsing and the field rules shared by several forms (client-safe: no server imports).
 import { z } from "zod";
-import { PASSWORD_MAX_BYTES, PASSWORD_MIN_LENGTH } from "./password.server";
+
+// bcrypt reads at most 72 bytes of a password, so longer ones are refused rather than cut.
+export const PASSWORD_MIN_LENGTH = 10;
+export const PASSWORD_MAX_BYTES = 72;
 
 export type FieldErrors = Record<string, string>;
 

@@ -7,7 +7,7 @@ import { TextField } from "~/components/text-field";
 import { requireUser } from "~/lib/access.server";
 import { auditForAccount } from "~/lib/auth.server";
 import { clientAddress } from "~/lib/client-address.server";
-import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/form.server";
+import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/form";
 import { AUDIT_ACTIONS } from "~/models/audit.server";
 import { changeOwnPassword, updateOwnName } from "~/models/user.server";
 import type { Route } from "./+types/account";

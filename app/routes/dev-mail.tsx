@@ -1,15 +1,8 @@
 import { Link, Outlet } from "react-router";
 import { Page } from "~/components/page";
-import { requireSiteAdmin } from "~/lib/access.server";
-import { getEnv } from "~/lib/env.server";
+import { requireDemoMailbox } from "~/lib/demo-mailbox.server";
 import { listMailboxMessages } from "~/models/mailbox.server";
 import type { Route } from "./+types/dev-mail";
-
-/** The demo mailbox exists only in demo mode, and only site admins may read it. */
-export async function requireDemoMailbox(request: Request) {
-  if (!getEnv().DEMO_MODE) throw new Response("The demo mailbox is only available in demo mode.", { status: 404, statusText: "Not Found" });
-  return requireSiteAdmin(request);
-}
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireDemoMailbox(request);

@@ -5,7 +5,7 @@ import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { clientAddress } from "~/lib/client-address.server";
-import { emailSchema, parseForm } from "~/lib/form.server";
+import { emailSchema, parseForm } from "~/lib/form";
 import { appOrigin } from "~/lib/origin.server";
 import { requestPasswordReset } from "~/models/password-reset.server";
 import type { Route } from "./+types/forgot-password";

@@ -1,6 +1,6 @@
 import { NavLink, Outlet } from "react-router";
 import { requireRole } from "~/lib/access.server";
-import { ROLE_LABELS } from "~/lib/db.server";
+import { ROLE_LABELS } from "~/lib/roles";
 import type { Route } from "./+types/project-layout";
 
 export async function loader({ request, params }: Route.LoaderArgs) {

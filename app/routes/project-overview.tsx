@@ -1,5 +1,5 @@
 import { requireRole } from "~/lib/access.server";
-import { ROLE_LABELS } from "~/lib/db.server";
+import { ROLE_LABELS } from "~/lib/roles";
 import { listZones } from "~/models/project.server";
 import type { Route } from "./+types/project-overview";
 

@@ -5,7 +5,7 @@ import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { clientAddress } from "~/lib/client-address.server";
-import { newPasswordSchema, parseForm } from "~/lib/form.server";
+import { newPasswordSchema, parseForm } from "~/lib/form";
 import { lookUpPasswordReset, resetPassword } from "~/models/password-reset.server";
 import type { Route } from "./+types/reset-password";
 
