@@ -11,9 +11,9 @@ export interface Crs {
   toLonLat(easting: number, northing: number): [number, number];
   fromLonLat(lon: number, lat: number): [number, number];
   /** Interleaved [x0, y0, x1, y1, ...] → interleaved [lon0, lat0, ...]. */
-  toLonLatArray(xy: Float64Array): Float64Array;
+  toLonLatArray(xy: Float64Array): Float64Array<ArrayBuffer>;
   /** Interleaved [lon0, lat0, ...] → interleaved [x0, y0, ...]. */
-  fromLonLatArray(lonLat: Float64Array): Float64Array;
+  fromLonLatArray(lonLat: Float64Array): Float64Array<ArrayBuffer>;
 }
 
 const LON_LAT = "+proj=longlat +datum=WGS84 +no_defs";
@@ -51,7 +51,7 @@ export function createCrs(proj4Definition: string): Crs {
     return [result[0], result[1]];
   }
 
-  function mapArray(input: Float64Array, convert: (p: number[]) => unknown): Float64Array {
+  function mapArray(input: Float64Array, convert: (p: number[]) => unknown): Float64Array<ArrayBuffer> {
     if (input.length % 2 !== 0) throw new Error("Coordinate array must hold x,y pairs");
     const output = new Float64Array(input.length);
     const scratch = [0, 0];

@@ -91,9 +91,9 @@ export interface SectionLayout {
 
 export interface EndAreaResult {
   /** Distance of each section from the baseline start. */
-  stations: Float64Array;
+  stations: Float64Array<ArrayBuffer>;
   /** Section areas in square project units. */
-  areas: Float64Array;
+  areas: Float64Array<ArrayBuffer>;
   /** Average-end-area volume in cubic project units. */
   averageEndAreaVolume: number;
   /** Prismoidal volume when the sections allow it (odd count, equal spacing), else null. */

@@ -13,7 +13,7 @@ export interface LineDetectionOptions {
  * Line ids for soundings logged in order along survey lines, found from the heading: a new line
  * begins where the track turns sharply or jumps. Soundings on the same spot keep the line.
  */
-export function linesByHeading(xs: Float64Array, ys: Float64Array, options: LineDetectionOptions): Uint32Array {
+export function linesByHeading(xs: Float64Array, ys: Float64Array, options: LineDetectionOptions): Uint32Array<ArrayBuffer> {
   const maxTurn = ((options.maxTurnDeg ?? 30) * Math.PI) / 180;
   const lineIds = new Uint32Array(xs.length);
   let line = 0;
@@ -51,12 +51,12 @@ export interface CrossingOptions {
 
 export interface CrossingResult {
   /** Each comparison: sounding `first` against its nearest sounding `second` on another line. */
-  first: Uint32Array;
-  second: Uint32Array;
+  first: Uint32Array<ArrayBuffer>;
+  second: Uint32Array<ArrayBuffer>;
   /** depth[first] − depth[second], project units. */
-  differences: Float64Array;
+  differences: Float64Array<ArrayBuffer>;
   /** TVU allowance at the pair's mean depth, project units. */
-  allowances: Float64Array;
+  allowances: Float64Array<ArrayBuffer>;
   /** Share of comparisons with |difference| ≤ allowance (NaN when there are none). */
   withinAllowanceShare: number;
   meanDifference: number;

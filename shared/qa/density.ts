@@ -50,9 +50,9 @@ export function cellIndexOf(grid: CellGridDefinition, x: number, y: number): num
 
 export interface DensityResult {
   /** Soundings per cell, index row·cols + col. */
-  counts: Uint32Array;
+  counts: Uint32Array<ArrayBuffer>;
   /** Soundings per unit area (per square project unit) in each cell. */
-  perArea: Float64Array;
+  perArea: Float64Array<ArrayBuffer>;
   /** Soundings that fall in no cell. */
   outsideGrid: number;
 }
@@ -73,7 +73,7 @@ export function soundingDensity(xs: Float64Array, ys: Float64Array, grid: CellGr
 }
 
 /** Cells with fewer soundings than `minimum` (indices row·cols + col). */
-export function sparseCells(counts: Uint32Array, minimum: number): Uint32Array {
+export function sparseCells(counts: Uint32Array, minimum: number): Uint32Array<ArrayBuffer> {
   const sparse: number[] = [];
   for (let c = 0; c < counts.length; c++) if (counts[c] < minimum) sparse.push(c);
   return Uint32Array.from(sparse);

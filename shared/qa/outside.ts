@@ -88,7 +88,7 @@ export function isInsideWorkLimit(limit: PreparedWorkLimit, x: number, y: number
 }
 
 /** Indices of the soundings outside the work limit, in input order. */
-export function soundingsOutsideWorkLimit(xs: Float64Array, ys: Float64Array, limit: PreparedWorkLimit): Uint32Array {
+export function soundingsOutsideWorkLimit(xs: Float64Array, ys: Float64Array, limit: PreparedWorkLimit): Uint32Array<ArrayBuffer> {
   const outside: number[] = [];
   for (let i = 0; i < xs.length; i++) if (!isInsideWorkLimit(limit, xs[i], ys[i])) outside.push(i);
   return Uint32Array.from(outside);

@@ -11,9 +11,9 @@ export interface SpikeOptions {
 
 export interface SpikeResult {
   /** Indices of the flagged soundings, in input order. */
-  indices: Uint32Array;
+  indices: Uint32Array<ArrayBuffer>;
   /** value − median of neighbours, for each flagged sounding. */
-  differences: Float64Array;
+  differences: Float64Array<ArrayBuffer>;
   /** Soundings that had too few neighbours to judge. */
   unjudged: number;
 }
