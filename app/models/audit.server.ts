@@ -15,6 +15,9 @@ export const AUDIT_ACTIONS = {
   passwordResetRequested: "password-reset-requested",
   passwordReset: "password-reset",
   passwordChanged: "password-changed",
+  surveyImported: "survey-imported",
+  surveyRetracted: "survey-retracted",
+  surveyRestored: "survey-restored",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

@@ -251,7 +251,7 @@ export function computeProjectFigures(input: ProjectComputationInput, onProgress
   if (!state) return null;
   const { result } = state;
   const zoneOfCell = new Map<number, number>();
-  for (const { zone, cells } of zoneCellLists ?? []) for (const cell of cells) if (!zoneOfCell.has(cell)) zoneOfCell.set(cell, zone.id);
+  for (const { zone, cells } of (zoneCellLists as Array<{ zone: ComputationZone; cells: Uint32Array }> | null) ?? []) for (const cell of cells) if (!zoneOfCell.has(cell)) zoneOfCell.set(cell, zone.id);
   const cellFigures: CellFigures[] = [];
   const latestArea = new Map<number, number>();
   let areaInLimitTotal = 0;

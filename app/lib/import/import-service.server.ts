@@ -1,0 +1,139 @@
+import { ColumnMapping, ImportJob } from "../db.server";
+import { analyseStagedFile, type ImportPreview } from "./analyse.server";
+import { commitSurvey, type CommitSurveyInput, type CommittedSurvey } from "./commit.server";
+import type { CommitChoices, ImportOptions } from "./import-options";
+import { loadProjectGeometry } from "./project-geometry.server";
+import { discardStagedFile, type StagedFile } from "./stage-upload.server";
+
+/**
+ * The one import path (pages, API and the demo seed all use it): analyse the staged file with
+ * the technician's choices, refuse while anything blocks, else commit in one transaction and
+ * remember the column mapping for the project's next upload.
+ */
+export type ImportOutcome = { ok: true; committed: CommittedSurvey; preview: ImportPreview } | { ok: false; preview: ImportPreview };
+
+export interface ImportInput {
+  projectId: number;
+  userId: number | null;
+  ip?: string | null;
+  staged: StagedFile;
+  options: ImportOptions;
+  choices: CommitChoices;
+  onProgress?: (stage: string, fraction: number) => void;
+  afterSoundings?: CommitSurveyInput["afterSoundings"];
+}
+
+/** Overall progress: reading the file is the first 30 %, storing soundings the next 30 %, computing the rest. */
+const STAGE_SPANS: Array<[RegExp, number, number]> = [
+  [/^reading/, 0, 0.3],
+  [/^storing/, 0.3, 0.6],
+  [/^computing/, 0.6, 1],
+];
+
+export function overallFraction(stage: string, fraction: number): number {
+  const span = STAGE_SPANS.find(([pattern]) => pattern.test(stage));
+  if (!span) return fraction;
+  return span[1] + (span[2] - span[1]) * Math.min(1, Math.max(0, fraction));
+}
+
+export async function rememberColumnMapping(projectId: number, userId: number | null, mapping: Record<string, string>) {
+  const existing = await ColumnMapping.findOne({ where: { projectId } });
+  if (existing) await existing.update({ mapping, updatedById: userId });
+  else await ColumnMapping.create({ projectId, mapping, updatedById: userId });
+}
+
+export async function importSurveyFile(input: ImportInput): Promise<ImportOutcome> {
+  const geometry = await loadProjectGeometry(input.projectId);
+  const analysis = await analyseStagedFile({
+    path: input.staged.path,
+    sha256: input.staged.sha256,
+    options: input.options,
+    choices: input.choices,
+    geometry,
+    onProgress: (fraction) => input.onProgress?.("reading the file", fraction),
+  });
+  if (analysis.preview.blockers.length > 0 || !analysis.prepared) return { ok: false, preview: analysis.preview };
+  const committed = await commitSurvey({
+    projectId: input.projectId,
+    userId: input.userId,
+    ip: input.ip,
+    fileName: input.staged.fileName,
+    sha256: input.staged.sha256,
+    options: input.options,
+    prepared: analysis.prepared,
+    rowCount: analysis.preview.rowCount,
+    qa: analysis.preview.qa,
+    warnings: analysis.preview.warnings,
+    onProgress: input.onProgress,
+    afterSoundings: input.afterSoundings,
+  });
+  await rememberColumnMapping(input.projectId, input.userId, analysis.preview.mapping as Record<string, string>);
+  return { ok: true, committed, preview: analysis.preview };
+}
+
+// ——— Import jobs: the pages' path, where the upload, the preview and the commit are separate requests.
+
+export async function createImportJob(projectId: number, userId: number, staged: StagedFile, options: ImportOptions): Promise<ImportJob> {
+  return ImportJob.create({
+    projectId,
+    userId,
+    state: "staged",
+    stage: "uploaded",
+    fraction: 0,
+    surveyId: null,
+    fileName: staged.fileName,
+    filePath: staged.path,
+    fileSize: staged.size,
+    contentSha256: staged.sha256,
+    options: options as unknown as Record<string, unknown>,
+  });
+}
+
+function stagedOf(job: ImportJob): StagedFile {
+  return { path: job.filePath, fileName: job.fileName, size: Number(job.fileSize), sha256: job.contentSha256 };
+}
+
+/** Re-reads the staged file with the current options and choices and keeps the preview on the job. */
+export async function previewImportJob(job: ImportJob, options: ImportOptions, choices: CommitChoices): Promise<ImportPreview> {
+  await job.update({ state: "validating", stage: "reading the file", fraction: 0, options: options as unknown as Record<string, unknown> });
+  try {
+    const geometry = await loadProjectGeometry(job.projectId);
+    const analysis = await analyseStagedFile({ path: job.filePath, sha256: job.contentSha256, options, choices, geometry });
+    await job.update({ state: "ready", stage: "preview", fraction: 0, error: null, preview: { ...analysis.preview, choices } as unknown as Record<string, unknown> });
+    return analysis.preview;
+  } catch (error) {
+    await job.update({ state: "failed", stage: "preview", error: (error as Error).message });
+    throw error;
+  }
+}
+
+/**
+ * Starts the commit and returns at once: the import finishes on the server whether or not the
+ * page stays open; the page polls the job for stage and fraction and picks the result up.
+ */
+export function startImportJobCommit(job: ImportJob, options: ImportOptions, choices: CommitChoices, ip: string | null): Promise<void> {
+  let lastWrite = 0;
+  const progress = (stage: string, fraction: number) => {
+    const now = Date.now();
+    if (now - lastWrite < 250) return; // at most four progress writes a second
+    lastWrite = now;
+    void ImportJob.update({ stage: stage.slice(0, 40), fraction: overallFraction(stage, fraction) }, { where: { id: job.id } }).catch(() => undefined);
+  };
+  const run = async () => {
+    await job.update({ state: "committing", stage: "reading the file", fraction: 0, error: null });
+    try {
+      const outcome = await importSurveyFile({ projectId: job.projectId, userId: job.userId, ip, staged: stagedOf(job), options, choices, onProgress: progress });
+      if (!outcome.ok) {
+        await ImportJob.update({ state: "ready", stage: "preview", fraction: 0, preview: { ...outcome.preview, choices } as unknown as Record<string, unknown>, error: outcome.preview.blockers.join(" ") }, { where: { id: job.id } });
+        return;
+      }
+      lastWrite = Number.POSITIVE_INFINITY; // no late progress write after the final state
+      await ImportJob.update({ state: "done", stage: "done", fraction: 1, surveyId: outcome.committed.surveyId }, { where: { id: job.id } });
+      await discardStagedFile(job.filePath);
+    } catch (error) {
+      lastWrite = Number.POSITIVE_INFINITY;
+      await ImportJob.update({ state: "failed", stage: "failed", error: `Nothing was stored: ${(error as Error).message}` }, { where: { id: job.id } }).catch(() => undefined);
+    }
+  };
+  return run();
+}

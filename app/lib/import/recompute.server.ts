@@ -1,0 +1,99 @@
+import { QueryTypes, type Transaction } from "sequelize";
+import type { ProgressCallback } from "../../../shared/pipeline";
+import { CellResult, Survey, SurveySnapshot, getSequelize } from "../db.server";
+import { computeProjectFigures, type ComputationSurvey, type ProjectComputation } from "./project-computation";
+import { loadProjectGeometry } from "./project-geometry.server";
+
+/**
+ * Rewrites a project's statistics from its active surveys, inside the caller's transaction:
+ * every CellResult and SurveySnapshot of the project is replaced. `extra` carries soundings not
+ * yet readable from the database (the survey being committed, still in memory).
+ */
+export interface RecomputeOutcome {
+  computation: ProjectComputation | null;
+  /** Why there are no statistics, when there are none. */
+  reason: string | null;
+}
+
+async function loadSurveyPoints(surveyIds: number[], transaction: Transaction): Promise<Map<number, Omit<ComputationSurvey, "id" | "kind" | "surveyedOn">>> {
+  const result = new Map<number, Omit<ComputationSurvey, "id" | "kind" | "surveyedOn">>();
+  for (const surveyId of surveyIds) {
+    const rows = await getSequelize().query<{ easting: number; northing: number; elevation: number; refusalElevation: number | null }>(
+      "SELECT easting, northing, elevation, refusalElevation FROM soundings WHERE surveyId = ? ORDER BY id",
+      { replacements: [surveyId], type: QueryTypes.SELECT, transaction },
+    );
+    const count = rows.length;
+    const easting = new Float64Array(count);
+    const northing = new Float64Array(count);
+    const elevation = new Float64Array(count);
+    const refusal = new Float64Array(count);
+    let anyRefusal = false;
+    for (let index = 0; index < count; index++) {
+      const row = rows[index];
+      easting[index] = row.easting;
+      northing[index] = row.northing;
+      elevation[index] = row.elevation;
+      refusal[index] = row.refusalElevation ?? Number.NaN;
+      if (row.refusalElevation !== null) anyRefusal = true;
+    }
+    result.set(surveyId, { easting, northing, elevation, refusalElevation: anyRefusal ? refusal : null });
+  }
+  return result;
+}
+
+function toBlob(values: Float32Array | Uint8Array): Buffer {
+  return Buffer.from(values.buffer, values.byteOffset, values.byteLength);
+}
+
+export async function recomputeProjectStatistics(
+  projectId: number,
+  transaction: Transaction,
+  options: { extra?: ComputationSurvey; onProgress?: ProgressCallback } = {},
+): Promise<RecomputeOutcome> {
+  const geometry = await loadProjectGeometry(projectId, transaction);
+  const active = await Survey.findAll({ where: { projectId, status: "active" }, order: [["surveyedOn", "ASC"], ["id", "ASC"]], transaction });
+  const fromDatabase = active.filter((survey) => survey.id !== options.extra?.id).map((survey) => survey.id);
+  const points = await loadSurveyPoints(fromDatabase, transaction);
+  const surveys: ComputationSurvey[] = active.map((survey) => {
+    if (options.extra && survey.id === options.extra.id) return options.extra;
+    return { id: survey.id, kind: survey.kind, surveyedOn: survey.surveyedOn, ...points.get(survey.id)! };
+  });
+
+  await CellResult.destroy({ where: { projectId }, transaction });
+  await SurveySnapshot.destroy({ where: { projectId }, transaction });
+  if (!surveys.some((survey) => survey.kind === "baseline")) return { computation: null, reason: "There is no active baseline survey yet, so there are no cell statistics." };
+  if (!geometry.workLimit) return { computation: null, reason: "The project has no work limit yet, so there are no cell statistics." };
+
+  const computation = computeProjectFigures(
+    { surveys, workLimit: geometry.workLimit, zones: geometry.zones, settings: geometry.settings, lengthUnit: geometry.lengthUnit },
+    options.onProgress,
+  );
+  if (!computation) return { computation: null, reason: "There is no active baseline survey yet." };
+
+  const computedAt = new Date();
+  const cellRows = computation.cells.map((cell) => ({ projectId, ...cell, computedAt }));
+  for (let start = 0; start < cellRows.length; start += 2000) {
+    await CellResult.bulkCreate(cellRows.slice(start, start + 2000), { transaction });
+  }
+  for (const snapshot of computation.snapshots) {
+    await SurveySnapshot.create(
+      {
+        projectId,
+        surveyedOn: snapshot.surveyedOn,
+        lastSurveyId: snapshot.lastSurveyId,
+        totals: snapshot.totals,
+        zones: snapshot.zones,
+        cellCols: snapshot.cellCols,
+        cellRows: snapshot.cellRows,
+        firstCol: snapshot.firstCol,
+        firstRow: snapshot.firstRow,
+        remainingVolumes: toBlob(snapshot.remainingVolumes),
+        removedVolumes: toBlob(snapshot.removedVolumes),
+        statuses: toBlob(snapshot.statuses),
+        computedAt,
+      },
+      { transaction },
+    );
+  }
+  return { computation, reason: null };
+}
