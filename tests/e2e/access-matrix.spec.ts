@@ -1,0 +1,73 @@
+import { request as playwrightRequest } from "@playwright/test";
+import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, type DemoAccount } from "./fixtures";
+
+// Who may open which page. Later issues add their routes as rows here.
+// "all" = every project role and the site admin; otherwise the accounts listed.
+const PROJECT_ROLES: DemoAccount[] = ["manager", "surveyor", "dive-supervisor", "dewatering", "resource-monitor", "outreach", "viewer"];
+const EVERYONE: DemoAccount[] = [...PROJECT_ROLES, "admin"];
+
+const MATRIX: Array<{ path: string; allowed: DemoAccount[] }> = [
+  { path: "/projects", allowed: EVERYONE },
+  { path: "/account", allowed: EVERYONE },
+  { path: "/projects/{project}", allowed: EVERYONE },
+  { path: "/projects/{project}/map", allowed: EVERYONE },
+  { path: "/projects/{project}/surveys", allowed: EVERYONE },
+  { path: "/projects/{project}/members", allowed: ["manager", "admin"] },
+  { path: "/projects/{project}/audit", allowed: ["manager", "admin"] },
+  { path: "/dev/mail", allowed: ["admin"] },
+];
+
+test.describe("route × role matrix", () => {
+  let projectId: number;
+
+  test.beforeAll(async ({ baseURL }) => {
+    const context = await playwrightRequest.newContext({ baseURL });
+    projectId = await demoProjectId(context, baseURL!);
+    await context.dispose();
+  });
+
+  for (const account of EVERYONE) {
+    test(`${account}: allowed pages answer 200, the others 403`, async ({ baseURL }) => {
+      const context = await playwrightRequest.newContext({ baseURL });
+      await signInRequest(context, baseURL!, DEMO_ACCOUNTS[account]);
+      for (const { path, allowed } of MATRIX) {
+        const url = path.replace("{project}", String(projectId));
+        const response = await context.get(url, { maxRedirects: 0 });
+        expect(response.status(), `${account} GET ${url}`).toBe(allowed.includes(account) ? 200 : 403);
+      }
+      await context.dispose();
+    });
+  }
+
+  test("signed out: every page redirects to sign in and comes back after", async ({ baseURL }) => {
+    const context = await playwrightRequest.newContext({ baseURL });
+    for (const { path } of MATRIX) {
+      const url = path.replace("{project}", String(projectId));
+      const response = await context.get(url, { maxRedirects: 0 });
+      expect(response.status(), `signed-out GET ${url}`).toBe(302);
+      expect(response.headers().location, url).toBe(`/login?next=${encodeURIComponent(url)}`);
+    }
+    await context.dispose();
+  });
+
+  test("a form posted from another site is refused with 403", async ({ baseURL }) => {
+    const context = await playwrightRequest.newContext({ baseURL });
+    const foreign = await context.post("/login", {
+      form: { email: DEMO_ACCOUNTS.manager, password: "firmsand-demo" },
+      headers: { Origin: "http://elsewhere.example" },
+      maxRedirects: 0,
+    });
+    expect(foreign.status()).toBe(403);
+    const missing = await context.post("/login", { form: { email: DEMO_ACCOUNTS.manager, password: "firmsand-demo" }, maxRedirects: 0 });
+    expect(missing.status()).toBe(403);
+    await context.dispose();
+  });
+
+  test("health check reports the database", async ({ baseURL }) => {
+    const context = await playwrightRequest.newContext({ baseURL });
+    const response = await context.get("/healthz");
+    expect(response.status()).toBe(200);
+    expect(await response.json()).toEqual({ ok: true, db: "up" });
+    await context.dispose();
+  });
+});

@@ -1,0 +1,45 @@
+import { afterAll, describe, expect, it } from "vitest";
+import { QueryTypes } from "sequelize";
+import { closeSequelize, getSequelize } from "../../db/connection.server";
+import { createUmzug, migrationFiles } from "../../db/umzug";
+
+afterAll(async () => {
+  // Leave the database fully migrated for whatever runs next.
+  await createUmzug(getSequelize()).up();
+  await closeSequelize();
+});
+
+async function tables(): Promise<string[]> {
+  const rows = await getSequelize().query<{ name: string }>(
+    "SELECT table_name AS name FROM information_schema.tables WHERE table_schema = DATABASE() ORDER BY table_name",
+    { type: QueryTypes.SELECT },
+  );
+  return rows.map((row) => row.name);
+}
+
+const FOUNDATION_TABLES = ["audit_events", "invitations", "login_attempts", "memberships", "password_resets", "projects", "users", "zones"];
+
+describe("migrations", () => {
+  it("each migration file exports up and down", async () => {
+    for (const file of migrationFiles()) {
+      const module = await import(/* @vite-ignore */ new URL(`../../db/migrations/${file}`, import.meta.url).href);
+      expect(typeof module.up, file).toBe("function");
+      expect(typeof module.down, file).toBe("function");
+    }
+  });
+
+  it("go all the way down and back up, leaving the same tables", async () => {
+    const umzug = createUmzug(getSequelize());
+    await umzug.up();
+    const migrated = await tables();
+    for (const table of FOUNDATION_TABLES) expect(migrated).toContain(table);
+
+    await umzug.down({ to: 0 });
+    expect(await tables()).toEqual(["schema_migrations"]);
+    expect(await umzug.executed()).toEqual([]);
+
+    await umzug.up();
+    expect(await tables()).toEqual(migrated);
+    expect((await umzug.pending()).length).toBe(0);
+  });
+});
