@@ -5,7 +5,11 @@
 //   npm test -- --unit        Vitest only
 //   npm test -- --e2e         Playwright only (extra arguments go to Playwright)
 import { spawn } from "node:child_process";
-import { bin, ensureDebianPackage, ensureNpmPackages, isPortOpen, log, run, waitFor } from "./lib.mjs";
+import { closeSync, mkdirSync, openSync, rmSync, writeSync } from "node:fs";
+import { join } from "node:path";
+import {
+  DATA_DIR, bin, ensureDebianPackage, ensureNpmPackages, isPortOpen, isProcessAlive, log, readPid, run, sleep, waitFor,
+} from "./lib.mjs";
 import { ensureMariaDb, stopMariaDb } from "./db.mjs";
 
 const args = process.argv.slice(2);
@@ -13,9 +17,36 @@ const onlyUnit = args.includes("--unit");
 const onlyE2e = args.includes("--e2e");
 const passThrough = args.filter((arg) => arg !== "--unit" && arg !== "--e2e");
 
+await takeTestLock();
 ensureNpmPackages();
 const { ensureMailServer, stopMailServer } = await import("./services.mjs");
 const chromium = onlyUnit ? null : ensureDebianPackage("chromium", "chromium");
+
+// One `npm test` per checkout at a time: two runs would share the test MariaDB and ports.
+const lockFile = join(DATA_DIR, "test-run.lock");
+async function takeTestLock() {
+  mkdirSync(DATA_DIR, { recursive: true });
+  let announced = false;
+  for (;;) {
+    try {
+      const fd = openSync(lockFile, "wx");
+      writeSync(fd, String(process.pid));
+      closeSync(fd);
+      process.on("exit", () => rmSync(lockFile, { force: true }));
+      return;
+    } catch (error) {
+      if (error.code !== "EEXIST") throw error;
+      const holder = readPid(lockFile);
+      if (holder && !isProcessAlive(holder)) {
+        rmSync(lockFile, { force: true });
+        continue;
+      }
+      if (!announced) log(`another npm test (pid ${holder}) is running in this checkout; waiting for it`);
+      announced = true;
+      await sleep(1000);
+    }
+  }
+}
 
 const cleanups = [];
 let appServer = null;
