@@ -17,13 +17,13 @@ const onlyUnit = args.includes("--unit");
 const onlyE2e = args.includes("--e2e");
 const passThrough = args.filter((arg) => arg !== "--unit" && arg !== "--e2e");
 
+// One `npm test` per checkout at a time: two runs would share the test MariaDB and ports.
+const lockFile = join(DATA_DIR, "test-run.lock");
 await takeTestLock();
 ensureNpmPackages();
 const { ensureMailServer, stopMailServer } = await import("./services.mjs");
 const chromium = onlyUnit ? null : ensureDebianPackage("chromium", "chromium");
 
-// One `npm test` per checkout at a time: two runs would share the test MariaDB and ports.
-const lockFile = join(DATA_DIR, "test-run.lock");
 async function takeTestLock() {
   mkdirSync(DATA_DIR, { recursive: true });
   let announced = false;
