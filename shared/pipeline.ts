@@ -84,8 +84,7 @@ export function triangulateSurveys(surveys: EngineSurveys, maxEdge: number, onPr
   const report = () => onProgress?.("triangulate", ++done / stages);
   let baselineTin: Tin;
   let firmTin: Tin;
-  const sharesPositions = firm.easting === baseline.easting && firm.northing === baseline.northing && everyFiniteWhere(baseline.elevation, firm.elevation);
-  if (sharesPositions) {
+  if (firmSharesBaselinePositions(surveys)) {
     [baselineTin, firmTin] = triangulateLayers(baseline.easting, baseline.northing, [baseline.elevation, firm.elevation], { maxEdge });
     report();
     report();
@@ -103,7 +102,15 @@ export function triangulateSurveys(surveys: EngineSurveys, maxEdge: number, onPr
   return { baseline: baselineTin, progress, firm: firmTin };
 }
 
-/** True when `other` is a finite number wherever `reference` is (so one triangulation serves both). */
+/**
+ * True when the firm-sand values sit on the baseline's own soundings (its probe column) and are
+ * finite exactly where the baseline's are, so one triangulation serves both surfaces.
+ */
+export function firmSharesBaselinePositions(surveys: EngineSurveys): boolean {
+  const { baseline, firm } = surveys;
+  return firm.easting === baseline.easting && firm.northing === baseline.northing && everyFiniteWhere(baseline.elevation, firm.elevation);
+}
+
 function everyFiniteWhere(reference: Float64Array, other: Float64Array): boolean {
   if (reference.length !== other.length) return false;
   for (let index = 0; index < reference.length; index++) {

@@ -1,4 +1,5 @@
 import Delaunator from "delaunator";
+import { permute, spatialOrder } from "./spatial-order";
 
 /**
  * A survey's surface: the Delaunay triangulation (TIN) of its soundings.
@@ -83,9 +84,10 @@ function mergeDuplicates(x: Float64Array, y: Float64Array, layers: Float64Array[
     }
   }
   const duplicatesMerged = count - unique;
+  if (duplicatesMerged === 0) return { x, y, layers, duplicatesMerged };
   const merged = layers.map((layer) => {
     const mean = layer.slice(0, unique);
-    if (duplicatesMerged > 0) for (let index = 0; index < unique; index++) mean[index] /= hits[index];
+    for (let index = 0; index < unique; index++) mean[index] /= hits[index];
     return mean;
   });
   return { x: x.slice(0, unique), y: y.slice(0, unique), layers: merged, duplicatesMerged };
@@ -146,11 +148,18 @@ export function triangulateLayers(
       kept++;
     }
   }
-  const merged = mergeDuplicates(localX, localY, localLayers, valid);
+  const deduplicated = mergeDuplicates(localX, localY, localLayers, valid);
+  const order = spatialOrder(deduplicated.x, deduplicated.y);
+  const merged = {
+    x: permute(deduplicated.x, order),
+    y: permute(deduplicated.y, order),
+    layers: deduplicated.layers.map((layer) => permute(layer, order)),
+    duplicatesMerged: deduplicated.duplicatesMerged,
+  };
   const vertexCount = merged.x.length;
   const { x, y } = merged;
-  let triangles = new Uint32Array(0);
-  let hull = Uint32Array.from({ length: vertexCount }, (_, index) => index);
+  let triangles: Uint32Array = new Uint32Array(0);
+  let hull: Uint32Array = Uint32Array.from({ length: vertexCount }, (_, index) => index);
   let longTrianglesDropped = 0;
 
   if (vertexCount >= 3) {
@@ -162,7 +171,7 @@ export function triangulateLayers(
     const delaunay = new Delaunator(coords);
     const all = delaunay.triangles;
     const maxEdgeSquared = options.maxEdge * options.maxEdge;
-    const keptTriangles = new Uint32Array(all.length);
+    const keptTriangles = all; // filtered in place: kept triangles never overtake the one being read
     let keptLength = 0;
     for (let corner = 0; corner < all.length; corner += 3) {
       const a = all[corner];
@@ -179,7 +188,7 @@ export function triangulateLayers(
         keptTriangles[keptLength++] = b;
       }
     }
-    triangles = keptTriangles.slice(0, keptLength);
+    triangles = inSpatialOrder(keptTriangles.subarray(0, keptLength), vertexCount);
     hull = Uint32Array.from(delaunay.hull).reverse(); // counter-clockwise with northing up, as above
     longTrianglesDropped = (all.length - keptLength) / 3;
   }
@@ -195,6 +204,32 @@ export function triangulateLayers(
     invalidSkipped: total - valid,
     longTrianglesDropped,
   }));
+}
+
+/**
+ * Delaunator emits triangles in the order it built them, spiralling out from a seed. Ordering them
+ * by their lowest vertex (vertices are already in Z order) lets the raster fill write the raster
+ * row by row nearby instead of jumping across it. A counting sort: linear time.
+ */
+function inSpatialOrder(triangles: Uint32Array, vertexCount: number): Uint32Array {
+  const triangleCount = triangles.length / 3;
+  const starts = new Uint32Array(vertexCount + 1);
+  const lowest = new Uint32Array(triangleCount);
+  for (let triangle = 0; triangle < triangleCount; triangle++) {
+    const corner = 3 * triangle;
+    const vertex = Math.min(triangles[corner], triangles[corner + 1], triangles[corner + 2]);
+    lowest[triangle] = vertex;
+    starts[vertex + 1]++;
+  }
+  for (let vertex = 0; vertex < vertexCount; vertex++) starts[vertex + 1] += starts[vertex];
+  const sorted = new Uint32Array(triangles.length);
+  for (let triangle = 0; triangle < triangleCount; triangle++) {
+    const target = 3 * starts[lowest[triangle]]++;
+    sorted[target] = triangles[3 * triangle];
+    sorted[target + 1] = triangles[3 * triangle + 1];
+    sorted[target + 2] = triangles[3 * triangle + 2];
+  }
+  return sorted;
 }
 
 /** The hull as a closed ring in project coordinates (the default work limit when none is drawn). */

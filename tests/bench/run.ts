@@ -1,0 +1,147 @@
+import { Worker } from "node:worker_threads";
+import { computeVolumesFromSurfaces, triangulateSurveys, type EngineSettings, type EngineSurfaces } from "../../shared/pipeline";
+import { areaFromAcres } from "../../shared/units";
+import { volumeReport } from "../../shared/volumes/report";
+import { workLimitArea } from "../../shared/grid/work-limit";
+import { ellipseLimit, syntheticSurveys, type Basin } from "./synthetic";
+import { EngineWorkerPool } from "../../app/lib/engine-worker.server";
+
+/**
+ * npm run bench — the survey engine at spring-basin and bay scale on seeded synthetic surveys.
+ * Prints per-stage times, the total and peak resident memory, and the ratio to the targets set for
+ * a lean pipeline on this kind of machine (spring basin ≈ 0.5 s; bay ≈ 9 s under 450 MB).
+ * Options: --only basin|bay|degenerate, --single-thread (no worker threads), --runs N.
+ */
+
+interface Scenario {
+  name: string;
+  basin: Basin;
+  soundings: number;
+  settings: EngineSettings;
+  targetSeconds: number;
+  targetMemoryMb?: number;
+  degenerate?: { duplicateShare?: number; transects?: number };
+}
+
+const rules = { firmShare: 0.95, minCoverage: 0.8 };
+
+// Spring basin: about 2 acres (π · 200 · 140 ft² = 87,965 ft²), 15 ft cells → about 390 cells.
+const spring: Basin = { name: "spring basin", centreX: 640_000, centreY: 1_520_000, radiusX: 200, radiusY: 140, waterDepth: 8, muckThickness: 3 };
+// Large bay: about 600 acres (π · 1000 · 773 m² = 2.43 km²), 5 m cells → about 97,000 cells.
+const bay: Basin = { name: "large bay", centreX: 420_000, centreY: 3_150_000, radiusX: 1000, radiusY: 773, waterDepth: 3, muckThickness: 1 };
+
+const scenarios: Scenario[] = [
+  {
+    name: "a) spring basin",
+    basin: spring,
+    soundings: 20_000,
+    settings: { cellSize: 15, resolution: 1, maxEdge: 50, tolerance: 0.25, surveyNoise: 0.25, ...rules },
+    targetSeconds: 0.5,
+  },
+  {
+    name: "b) large bay",
+    basin: bay,
+    soundings: 1_000_000,
+    settings: { cellSize: 5, resolution: 1, maxEdge: 15, tolerance: 0.08, surveyNoise: 0.08, rasterPrecision: "float32", ...rules },
+    targetSeconds: 9,
+    targetMemoryMb: 450,
+  },
+  {
+    name: "c) degenerate: 20 % exact duplicates, soundings on 60 straight transects, empty cells",
+    basin: spring,
+    soundings: 20_000,
+    settings: { cellSize: 15, resolution: 1, maxEdge: 12, tolerance: 0.25, surveyNoise: 0.25, ...rules },
+    targetSeconds: 0.5,
+    degenerate: { duplicateShare: 0.2, transects: 60 },
+  },
+];
+
+const args = process.argv.slice(2);
+const only = args.includes("--only") ? args[args.indexOf("--only") + 1] : null;
+const singleThread = args.includes("--single-thread");
+const runs = args.includes("--runs") ? Number(args[args.indexOf("--runs") + 1]) : 1;
+
+// Resident memory is per process (worker threads included). The main thread is busy while the
+// engine runs, so a timer there would not fire: a tiny sampler thread reads RSS every 2 ms and
+// keeps the maximum in shared memory.
+const peakCell = new BigInt64Array(new SharedArrayBuffer(8));
+const sampler = new Worker(
+  `const { workerData } = require("node:worker_threads");
+   const peak = new BigInt64Array(workerData);
+   setInterval(() => { const rss = BigInt(process.memoryUsage.rss()); if (rss > Atomics.load(peak, 0)) Atomics.store(peak, 0, rss); }, 2);`,
+  { eval: true, workerData: peakCell.buffer, execArgv: [] },
+);
+sampler.unref();
+let peakRss = 0;
+const sampleMemory = () => {
+  const rss = Math.max(process.memoryUsage.rss(), Number(Atomics.load(peakCell, 0)));
+  if (rss > peakRss) peakRss = rss;
+};
+const resetMemory = () => {
+  Atomics.store(peakCell, 0, 0n);
+  peakRss = 0;
+};
+
+async function runScenario(scenario: Scenario, pool: EngineWorkerPool | null) {
+  const surveys = syntheticSurveys(scenario.basin, scenario.soundings, 20310402, scenario.degenerate);
+  const limit = ellipseLimit(scenario.basin);
+  const engineSurveys = { baseline: surveys.before, progress: [surveys.after], firm: surveys.firm };
+  const once = async () => {
+    const stageTimes = new Map<string, number>();
+    let last = performance.now();
+    const onProgress = (stage: string) => {
+      const now = performance.now();
+      stageTimes.set(stage, (stageTimes.get(stage) ?? 0) + now - last);
+      last = now;
+      sampleMemory();
+    };
+    const start = performance.now();
+    let surfaces: EngineSurfaces;
+    if (pool) {
+      surfaces = await pool.triangulateSurveys(engineSurveys, scenario.settings.maxEdge);
+      onProgress("triangulate (2 worker threads)");
+    } else {
+      surfaces = triangulateSurveys(engineSurveys, scenario.settings.maxEdge, onProgress);
+    }
+    const result = computeVolumesFromSurfaces(surfaces, limit, scenario.settings, onProgress);
+    const report = volumeReport(result, scenario.basin === bay ? "m" : "us-ft");
+    onProgress("report");
+    return { seconds: (performance.now() - start) / 1000, stageTimes, result, report };
+  };
+  await once(); // warm-up: JIT, worker start-up, page faults
+  let best: Awaited<ReturnType<typeof once>> | null = null;
+  for (let run = 0; run < runs; run++) {
+    const measured = await once();
+    if (best === null || measured.seconds < best.seconds) best = measured;
+  }
+  const { seconds, stageTimes, result, report } = best!;
+  const unit = scenario.basin === bay ? "m" : "us-ft";
+  const acres = workLimitArea(limit) / areaFromAcres(1, unit);
+  console.log(`\n${scenario.name}: ${scenario.soundings.toLocaleString("en-US")} soundings × 2 surveys, ${acres.toFixed(1)} acres, ` +
+    `${result.rasterGrid.cols}×${result.rasterGrid.rows} raster at ${scenario.settings.resolution} ${unit}, ${report.totals.cells.toLocaleString("en-US")} cells of ${scenario.settings.cellSize} ${unit}`);
+  for (const [stage, milliseconds] of stageTimes) console.log(`  ${stage.padEnd(32)} ${milliseconds.toFixed(1).padStart(9)} ms`);
+  console.log(`  ${"total".padEnd(32)} ${(seconds * 1000).toFixed(1).padStart(9)} ms   target ${scenario.targetSeconds} s → ratio ${(seconds / scenario.targetSeconds).toFixed(2)}`);
+  console.log(`  duplicates merged ${result.surfaces.duplicatesMerged}, long triangles dropped ${result.surfaces.longTrianglesDropped}; ` +
+    `removed ${report.totals.removedVolume.toFixed(0)} ${report.units.volume}, remaining ${report.totals.remainingVolume.toFixed(0)} ${report.units.volume}, ` +
+    `${report.totals.cellsAtFirmSand} cells at firm sand, ${result.totals.cellsNoData} without enough data`);
+}
+
+async function main() {
+  const pool = singleThread ? null : new EngineWorkerPool(2);
+  try {
+    for (const scenario of scenarios) {
+      if (only && !scenario.name.includes(only)) continue;
+      resetMemory();
+      await runScenario(scenario, pool);
+      sampleMemory();
+      const peakMb = peakRss / 2 ** 20;
+      const target = scenario.targetMemoryMb;
+      console.log(`  peak RSS (main process, 5 ms samples) ${peakMb.toFixed(0)} MB${target ? `   target < ${target} MB → ratio ${(peakMb / target).toFixed(2)}` : ""}`);
+    }
+  } finally {
+    await sampler.terminate();
+    await pool?.close();
+  }
+}
+
+await main();
