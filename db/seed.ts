@@ -2,12 +2,14 @@
 import { closeSequelize } from "./connection.server";
 import { initModels } from "./models";
 import { seedDemo } from "./seeders/demo";
+import { seedDemoDiveTeams } from "./seeders/demo-dive-teams";
 
 const [scenario = "demo"] = process.argv.slice(2);
 try {
   if (scenario !== "demo") throw new Error(`unknown scenario "${scenario}" (demo)`);
   const outcome = await seedDemo(initModels());
   console.error(outcome === "seeded" ? "[firmsand] demo scenario seeded" : "[firmsand] database already has users: demo seed skipped");
+  if ((await seedDemoDiveTeams()) === "seeded") console.error("[firmsand] demo dive teams seeded");
 } catch (error) {
   console.error(error);
   process.exitCode = 1;

@@ -15,6 +15,9 @@ import { ImportJob, initImportJob } from "./import-job";
 import { Sounding, initSounding } from "./sounding";
 import { Survey, initSurvey } from "./survey";
 import { SurveySnapshot, initSurveySnapshot } from "./survey-snapshot";
+import { Assignment, initAssignment } from "./assignment";
+import { DiveTeam, initDiveTeam } from "./dive-team";
+import { Shoreline, initShoreline } from "./shoreline";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -24,6 +27,8 @@ export { SURVEY_KINDS, SURVEY_STATUSES, type SurveyKind, type SurveyStatus } fro
 export { CELL_RESULT_STATUSES, type CellResultStatus } from "./cell-result";
 export { IMPORT_JOB_STATES, type ImportJobState } from "./import-job";
 export type { SnapshotTotals } from "./survey-snapshot";
+export { Assignment, DiveTeam, Shoreline };
+export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;
 
@@ -49,6 +54,9 @@ export function initModels(): Sequelize {
   initColumnMapping(sequelize);
   initImportJob(sequelize);
   initApiToken(sequelize);
+  initDiveTeam(sequelize);
+  initAssignment(sequelize);
+  initShoreline(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -87,6 +95,17 @@ export function initModels(): Sequelize {
   ImportJob.belongsTo(Survey, { foreignKey: "surveyId", as: "survey" });
   User.hasMany(ApiToken, { foreignKey: "userId", as: "apiTokens" });
   ApiToken.belongsTo(User, { foreignKey: "userId", as: "user" });
+  // Dive plans (issue 5).
+  Project.hasMany(DiveTeam, { foreignKey: "projectId", as: "diveTeams" });
+  DiveTeam.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Project.hasMany(Assignment, { foreignKey: "projectId", as: "assignments" });
+  Assignment.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  DiveTeam.hasMany(Assignment, { foreignKey: "teamId", as: "assignments" });
+  Assignment.belongsTo(DiveTeam, { foreignKey: "teamId", as: "team" });
+  Assignment.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
+  Project.hasOne(Shoreline, { foreignKey: "projectId", as: "shoreline" });
+  Shoreline.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Shoreline.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
 
   initialised = sequelize;
   return sequelize;

@@ -1,0 +1,42 @@
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import type { Project } from "./project";
+
+export interface DiveTeamMember {
+  name: string;
+  email: string;
+  /** What the person does on the team (diver, tender, standby diver...). */
+  duty: string;
+}
+
+/** A project's dive team: its people (who get the plan sheet by e-mail) and the hoses it runs. */
+export class DiveTeam extends Model<InferAttributes<DiveTeam>, InferCreationAttributes<DiveTeam>> {
+  declare id: CreationOptional<number>;
+  declare projectId: ForeignKey<Project["id"]>;
+  declare name: string;
+  declare station: CreationOptional<string>;
+  /** Hose or station names the team works. */
+  declare hoses: string[];
+  declare members: DiveTeamMember[];
+  declare sortOrder: CreationOptional<number>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+export function initDiveTeam(sequelize: Sequelize) {
+  DiveTeam.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      name: { type: DataTypes.STRING(120), allowNull: false },
+      station: { type: DataTypes.STRING(200), allowNull: false, defaultValue: "" },
+      hoses: { type: DataTypes.JSON, allowNull: false },
+      members: { type: DataTypes.JSON, allowNull: false },
+      sortOrder: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    {
+      sequelize, tableName: "dive_teams", modelName: "DiveTeam",
+      indexes: [{ name: "dive_teams_project_name_unique", unique: true, fields: ["projectId", "name"] }],
+    },
+  );
+}
