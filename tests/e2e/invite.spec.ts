@@ -4,6 +4,7 @@ test("a manager invites someone by e-mail; the link sets a password and lands on
   const email = uniqueEmail("invitee");
   await signIn("manager");
   await page.getByRole("link", { name: /Spring run restoration/ }).click();
+  await expect(page).toHaveURL(/\/projects\/\d+$/);
   const projectUrl = new URL(page.url()).pathname;
   await page.getByRole("link", { name: "Members" }).click();
   await page.getByLabel("E-mail").fill(email);

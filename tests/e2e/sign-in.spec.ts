@@ -37,6 +37,7 @@ test.describe("sign-in", () => {
   test("a viewer gets a 403 page on the members page", async ({ page, signIn }) => {
     await signIn("viewer");
     await page.getByRole("link", { name: /Spring run restoration/ }).click();
+    await expect(page).toHaveURL(/\/projects\/\d+$/);
     const projectUrl = page.url();
     await expect(page.getByRole("link", { name: "Members" })).toHaveCount(0);
     const response = await page.goto(`${projectUrl}/members`);
