@@ -14,10 +14,19 @@ export default [
   route("projects/:projectId", "routes/project-layout.tsx", [
     index("routes/project-overview.tsx"),
     route("map", "routes/project-map.tsx"),
-    route("surveys", "routes/project-surveys.tsx"),
+    route("surveys", "routes/projects.$projectId.surveys.tsx"),
+    route("surveys/new", "routes/projects.$projectId.surveys.new.tsx"),
+    route("surveys/imports/:jobId", "routes/projects.$projectId.surveys.imports.$jobId.tsx"),
+    route("surveys/:surveyId", "routes/projects.$projectId.surveys.$surveyId.tsx"),
     route("members", "routes/project-members.tsx"),
     route("audit", "routes/project-audit.tsx"),
   ]),
+  // Survey import: resource routes (JSON, CSV) outside the project layout.
+  route("projects/:projectId/surveys/upload", "routes/projects.$projectId.surveys.upload.ts"),
+  route("projects/:projectId/surveys/imports/:jobId/progress", "routes/projects.$projectId.surveys.imports.$jobId.progress.ts"),
+  route("projects/:projectId/surveys/imports/:jobId/problems.csv", "routes/projects.$projectId.surveys.imports.$jobId.problems[.]csv.ts"),
+  route("api/projects/:projectId/surveys", "routes/api.projects.$projectId.surveys.ts"),
+  route("api/projects/:projectId/surveys/:surveyId", "routes/api.projects.$projectId.surveys.$surveyId.ts"),
   route("dev/mail", "routes/dev-mail.tsx", [
     route(":messageId", "routes/dev-mail-message.tsx"),
   ]),

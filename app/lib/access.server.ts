@@ -3,6 +3,7 @@ import { z } from "zod";
 import { Membership, type Role } from "~/lib/db.server";
 import { findProject, presentProject, type ProjectView } from "~/models/project.server";
 import { getUserView, type UserView } from "~/models/user.server";
+import { hasBearer, userIdForBearer } from "./api-token.server";
 import { getSession } from "./session.server";
 
 // The one place that decides access. Every loader and action calls requireUser or requireRole.
@@ -15,8 +16,16 @@ function notFound(message = "There is no such project."): Response {
   return new Response(message, { status: 404, statusText: "Not Found" });
 }
 
-/** The signed-in user, or null (a session for a deleted account counts as signed out). */
+/**
+ * The signed-in user, or null (a session for a deleted account counts as signed out). A request
+ * with `Authorization: Bearer <personal API token>` is that token's user and nobody else: its
+ * cookie is ignored, which is what lets the Origin check pass bearer requests.
+ */
 export async function getOptionalUser(request: Request): Promise<UserView | null> {
+  if (hasBearer(request)) {
+    const tokenUserId = await userIdForBearer(request.headers.get("Authorization"));
+    return tokenUserId === null ? null : getUserView(tokenUserId);
+  }
   const session = await getSession(request);
   const userId = session.get("userId");
   if (typeof userId !== "number") return null;

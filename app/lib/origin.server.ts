@@ -14,6 +14,9 @@ export function appOrigin(request: Request): string {
  */
 export function assertSameOrigin(request: Request): void {
   if (SAFE_METHODS.has(request.method.toUpperCase())) return;
+  // A bearer-token request authenticates by its token alone (never the cookie, see
+  // getOptionalUser), and a browser cannot add that header to a cross-site form: no forgery risk.
+  if (/^Bearer\s/i.test(request.headers.get("Authorization") ?? "")) return;
   const origin = request.headers.get("Origin");
   if (origin && origin === appOrigin(request)) return;
   throw new Response("This form was sent from another site, so Firmsand refused it. Reload the page and try again.", {

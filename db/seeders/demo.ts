@@ -1,6 +1,7 @@
 import type { Sequelize } from "sequelize";
 import { hashPassword } from "../../app/lib/password.server";
 import { Membership, Project, User, Zone, initModels } from "../models";
+import { seedDemoSurveys } from "./demo-surveys";
 import { DEMO_PASSWORD, DEMO_PROJECT, DEMO_USERS, DEMO_WORK_LIMIT, DEMO_ZONES } from "./demo-scenario";
 
 /**
@@ -30,5 +31,7 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
       if (demoUser.role) await Membership.create({ userId: user.id, projectId: project.id, role: demoUser.role }, { transaction });
     }
   });
+  // The demo surveys, through the sounding import (issue 4).
+  await seedDemoSurveys((message) => console.error(message));
   return "seeded";
 }

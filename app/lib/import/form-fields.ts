@@ -1,0 +1,75 @@
+import { z } from "zod";
+import { commitChoicesSchema, importOptionsSchema, type CommitChoices, type ImportOptions } from "./import-options";
+
+/**
+ * Upload form fields (the pages' forms and the API's multipart fields, all strings) → import
+ * options and commit choices, validated with zod. Problems come back per field in plain words.
+ */
+export interface FieldProblem {
+  row: null;
+  column: string;
+  message: string;
+}
+
+const optionalText = (value: string | undefined) => (value === undefined || value.trim() === "" ? undefined : value.trim());
+const flag = (value: string | undefined) => value === "1" || value === "true" || value === "on" || value === "yes";
+
+function parseJsonField(name: string, value: string | undefined, problems: FieldProblem[]): unknown {
+  const text = optionalText(value);
+  if (text === undefined) return undefined;
+  try {
+    return JSON.parse(text);
+  } catch {
+    problems.push({ row: null, column: name, message: `${name} is not valid JSON` });
+    return undefined;
+  }
+}
+
+function issuesToProblems(error: z.ZodError, problems: FieldProblem[]) {
+  for (const issue of error.issues) {
+    const column = issue.path.map(String).join(".") || "form";
+    problems.push({ row: null, column, message: `${column} ${issue.message}` });
+  }
+}
+
+export interface ProjectDefaults {
+  crs: string;
+  lengthUnit: "us-ft" | "ft" | "m";
+  timeZone: string;
+}
+
+export function importOptionsFromFields(fields: Record<string, string>, defaults: ProjectDefaults): { options: ImportOptions | null; problems: FieldProblem[] } {
+  const problems: FieldProblem[] = [];
+  const fileHasElevations = flag(fields.fileHasElevations);
+  const wseText = optionalText(fields.waterSurfaceElevation);
+  const wse = wseText === undefined ? null : Number(wseText.replace(",", "."));
+  if (wseText !== undefined && !Number.isFinite(wse)) problems.push({ row: null, column: "waterSurfaceElevation", message: "waterSurfaceElevation is not a number" });
+  const columns = parseJsonField("columns", fields.columns, problems);
+  const parsed = importOptionsSchema.safeParse({
+    kind: optionalText(fields.kind),
+    surveyedOn: optionalText(fields.surveyedOn),
+    timeZone: optionalText(fields.timeZone) ?? defaults.timeZone,
+    waterSurfaceElevation: Number.isFinite(wse) ? wse : null,
+    fileHasElevations,
+    datum: optionalText(fields.datum) ?? "not stated",
+    crs: optionalText(fields.crs) ?? defaults.crs,
+    lengthUnit: optionalText(fields.lengthUnit) ?? defaults.lengthUnit,
+    columns: columns === undefined ? undefined : Object.fromEntries(Object.entries(columns as Record<string, string>).filter(([, header]) => typeof header === "string" && header.trim() !== "")),
+    surveyOrder: optionalText(fields.surveyOrder),
+  });
+  if (!parsed.success) issuesToProblems(parsed.error, problems);
+  return { options: parsed.success && problems.length === 0 ? parsed.data : null, problems };
+}
+
+export function commitChoicesFromFields(fields: Record<string, string>, excludeRows?: number[]): { choices: CommitChoices | null; problems: FieldProblem[] } {
+  const problems: FieldProblem[] = [];
+  const rows = excludeRows ?? parseJsonField("excludeRows", fields.excludeRows, problems);
+  const parsed = commitChoicesSchema.safeParse({
+    excludeRows: rows ?? [],
+    excludeErrorRows: flag(fields.excludeErrorRows),
+    outside: optionalText(fields.outside),
+    acceptSameFile: flag(fields.acceptSameFile),
+  });
+  if (!parsed.success) issuesToProblems(parsed.error, problems);
+  return { choices: parsed.success && problems.length === 0 ? parsed.data : null, problems };
+}

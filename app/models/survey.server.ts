@@ -1,0 +1,142 @@
+import { CellResult, Sounding, Survey, SurveySnapshot, User, type CellResultStatus, type SnapshotTotals, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
+import type { ProjectView } from "./project.server";
+
+/** Surveys of a project as the pages and the API show them; every query is scoped by the project. */
+export interface SurveyListItem {
+  id: number;
+  kind: SurveyKind;
+  surveyedOn: string;
+  uploadedBy: string | null;
+  uploadedAt: string;
+  rowCount: number;
+  soundingCount: number;
+  /** Share (0–1) of the work limit's cells with soundings of this survey. */
+  coverage: number | null;
+  status: SurveyStatus;
+  fileName: string;
+}
+
+export interface SurveyDetails extends SurveyListItem {
+  timeZone: string;
+  waterSurfaceElevation: number | null;
+  fileHasElevations: boolean;
+  datum: string;
+  crs: string;
+  lengthUnit: string;
+  contentSha256: string;
+  retractedReason: string | null;
+  retractedBy: string | null;
+  retractedAt: string | null;
+  qa: Record<string, unknown>;
+}
+
+const withUsers = [
+  { model: User, as: "uploadedBy", attributes: ["name"] },
+  { model: User, as: "retractedBy", attributes: ["name"] },
+];
+
+function parseJson(value: unknown): Record<string, unknown> {
+  if (typeof value === "string") return JSON.parse(value) as Record<string, unknown>;
+  return (value ?? {}) as Record<string, unknown>;
+}
+
+function presentListItem(survey: Survey): SurveyListItem {
+  return {
+    id: survey.id,
+    kind: survey.kind,
+    surveyedOn: survey.surveyedOn,
+    uploadedBy: survey.uploadedBy?.name ?? null,
+    uploadedAt: survey.createdAt.toISOString(),
+    rowCount: survey.rowCount,
+    soundingCount: survey.soundingCount,
+    coverage: survey.coverage,
+    status: survey.status,
+    fileName: survey.fileName,
+  };
+}
+
+function presentDetails(survey: Survey): SurveyDetails {
+  return {
+    ...presentListItem(survey),
+    timeZone: survey.timeZone,
+    waterSurfaceElevation: survey.waterSurfaceElevation,
+    fileHasElevations: survey.fileHasElevations,
+    datum: survey.datum,
+    crs: survey.crs,
+    lengthUnit: survey.lengthUnit,
+    contentSha256: survey.contentSha256,
+    retractedReason: survey.retractedReason ?? null,
+    retractedBy: survey.retractedBy?.name ?? null,
+    retractedAt: survey.retractedAt ? survey.retractedAt.toISOString() : null,
+    qa: parseJson(survey.qa),
+  };
+}
+
+export async function listSurveys(project: ProjectView): Promise<SurveyListItem[]> {
+  const surveys = await Survey.findAll({ where: { projectId: project.id }, include: withUsers, order: [["surveyedOn", "DESC"], ["id", "DESC"]] });
+  return surveys.map(presentListItem);
+}
+
+export async function getSurveyDetails(project: ProjectView, surveyId: number): Promise<SurveyDetails | null> {
+  const survey = await Survey.findOne({ where: { id: surveyId, projectId: project.id }, include: withUsers });
+  return survey ? presentDetails(survey) : null;
+}
+
+export interface SoundingRow {
+  sourceRow: number;
+  pointId: string | null;
+  easting: number;
+  northing: number;
+  depth: number | null;
+  probe: number | null;
+  elevation: number;
+  refusalElevation: number | null;
+  time: string | null;
+}
+
+export const SOUNDING_PAGE_SIZE = 100;
+
+export async function listSoundings(project: ProjectView, surveyId: number, page: number) {
+  const survey = await Survey.findOne({ where: { id: surveyId, projectId: project.id }, attributes: ["id", "soundingCount"] });
+  if (!survey) return null;
+  const rows = await Sounding.findAll({
+    where: { surveyId: survey.id },
+    order: [["sourceRow", "ASC"], ["id", "ASC"]],
+    limit: SOUNDING_PAGE_SIZE,
+    offset: (page - 1) * SOUNDING_PAGE_SIZE,
+    raw: true,
+  });
+  const soundings: SoundingRow[] = rows.map((row) => ({
+    sourceRow: row.sourceRow, pointId: row.pointId, easting: row.easting, northing: row.northing, depth: row.depth,
+    probe: row.probe, elevation: row.elevation, refusalElevation: row.refusalElevation, time: row.time,
+  }));
+  return { soundings, page, pageCount: Math.max(1, Math.ceil(survey.soundingCount / SOUNDING_PAGE_SIZE)), total: survey.soundingCount };
+}
+
+/** A thinned sample of a survey's soundings (every n-th, at most `limit`) for the small map. */
+export async function sampleSoundingPositions(project: ProjectView, surveyId: number, limit = 4000): Promise<Array<[number, number]>> {
+  const survey = await Survey.findOne({ where: { id: surveyId, projectId: project.id }, attributes: ["id", "soundingCount"] });
+  if (!survey) return [];
+  const step = Math.max(1, Math.ceil(survey.soundingCount / limit));
+  const rows = await Sounding.findAll({ where: { surveyId: survey.id }, attributes: ["id", "easting", "northing"], order: [["id", "ASC"]], raw: true });
+  const points: Array<[number, number]> = [];
+  for (let index = 0; index < rows.length; index += step) points.push([rows[index].easting, rows[index].northing]);
+  return points;
+}
+
+export interface ProjectStatistics {
+  totals: SnapshotTotals | null;
+  asOf: string | null;
+  statusCounts: Partial<Record<CellResultStatus, number>>;
+  history: Array<{ surveyedOn: string; totals: SnapshotTotals }>;
+}
+
+export async function getProjectStatistics(project: ProjectView): Promise<ProjectStatistics> {
+  const snapshots = await SurveySnapshot.findAll({ where: { projectId: project.id }, attributes: ["surveyedOn", "totals"], order: [["surveyedOn", "ASC"]] });
+  const history = snapshots.map((snapshot) => ({ surveyedOn: snapshot.surveyedOn, totals: parseJson(snapshot.totals) as unknown as SnapshotTotals }));
+  const cells = await CellResult.findAll({ where: { projectId: project.id }, attributes: ["status"], raw: true });
+  const statusCounts: Partial<Record<CellResultStatus, number>> = {};
+  for (const cell of cells) statusCounts[cell.status] = (statusCounts[cell.status] ?? 0) + 1;
+  const latest = history[history.length - 1] ?? null;
+  return { totals: latest?.totals ?? null, asOf: latest?.surveyedOn ?? null, statusCounts, history };
+}

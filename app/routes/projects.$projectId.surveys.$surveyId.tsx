@@ -1,0 +1,148 @@
+import { Form, Link, data } from "react-router";
+import { z } from "zod";
+import { FormMessage } from "~/components/form-message";
+import { SoundingPlot } from "~/components/sounding-plot";
+import { SubmitButton } from "~/components/submit-button";
+import { requireRole } from "~/lib/access.server";
+import { clientAddress } from "~/lib/client-address.server";
+import { setSurveyStatus } from "~/lib/import/commit.server";
+import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { getSurveyDetails, listSoundings, sampleSoundingPositions } from "~/models/survey.server";
+import type { Route } from "./+types/projects.$projectId.surveys.$surveyId";
+
+const idSchema = z.coerce.number().int().positive();
+const pageSchema = z.coerce.number().int().positive().catch(1);
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { project, role, user } = await requireRole(request, params.projectId);
+  const surveyId = idSchema.safeParse(params.surveyId);
+  const survey = surveyId.success ? await getSurveyDetails(project, surveyId.data) : null;
+  if (!survey) throw new Response("There is no such survey in this project.", { status: 404, statusText: "Not Found" });
+  const page = pageSchema.parse(new URL(request.url).searchParams.get("page") ?? 1);
+  const [soundings, points, geometry] = await Promise.all([listSoundings(project, survey.id, page), sampleSoundingPositions(project, survey.id), loadProjectGeometry(project.id)]);
+  const rings = (geometry.workLimit ?? []).flatMap((polygon) => polygon);
+  const all = [...points, ...rings.flat()];
+  const bounds = {
+    minX: Math.min(...all.map((point) => point[0])), minY: Math.min(...all.map((point) => point[1])),
+    maxX: Math.max(...all.map((point) => point[0])), maxY: Math.max(...all.map((point) => point[1])),
+  };
+  return {
+    projectId: project.id,
+    lengthUnit: project.lengthUnit,
+    canManage: role === "manager" || user.isSiteAdmin,
+    survey,
+    soundings,
+    plot: all.length > 0 ? { bounds, workLimit: rings as Array<Array<[number, number]>>, points } : null,
+  };
+}
+
+const statusSchema = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("retract"), reason: z.string().trim().min(3, "Give a reason (at least 3 characters).").max(2000) }),
+  z.object({ intent: z.literal("restore") }),
+]);
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { project, user } = await requireRole(request, params.projectId, "manager");
+  const surveyId = idSchema.safeParse(params.surveyId);
+  if (!surveyId.success) throw new Response("There is no such survey in this project.", { status: 404 });
+  const parsed = statusSchema.safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) return data({ error: parsed.error.issues[0]?.message ?? "Check the form." }, { status: 400 });
+  const survey = await setSurveyStatus({
+    projectId: project.id,
+    surveyId: surveyId.data,
+    userId: user.id,
+    ip: clientAddress(request),
+    status: parsed.data.intent === "retract" ? "retracted" : "active",
+    reason: parsed.data.intent === "retract" ? parsed.data.reason : undefined,
+  });
+  if (!survey) throw new Response("There is no such survey in this project.", { status: 404 });
+  return data({ error: null, done: parsed.data.intent === "retract" ? "The survey is retracted and the statistics are recomputed without it." : "The survey is restored and the statistics are recomputed." });
+}
+
+export function meta({ loaderData }: Route.MetaArgs) {
+  return [{ title: `Survey ${loaderData?.survey.surveyedOn ?? ""} · Firmsand` }];
+}
+
+const number = (value: number | null, digits = 2) => (value === null || value === undefined ? "—" : value.toFixed(digits));
+
+export default function SurveyPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { survey, soundings, plot, canManage, projectId } = loaderData;
+  const result = actionData as { error?: string | null; done?: string } | undefined;
+  const qa = survey.qa as { cellsWithSoundings?: number; cellsInLimit?: number; medianPerCell?: number | null; sparseCells?: number; spikes?: { count: number }; crossings?: { comparisons: number; withinAllowanceShare: number | null }; order?: string; warnings?: string[] };
+  const base = `/projects/${projectId}/surveys`;
+  return (
+    <section aria-labelledby="survey-heading" className="space-y-6">
+      <div>
+        <p className="text-sm"><Link className="text-lagoon underline" to={base}>All surveys</Link></p>
+        <h2 id="survey-heading" className="text-lg font-semibold">{survey.kind[0].toUpperCase() + survey.kind.slice(1)} survey of {survey.surveyedOn}</h2>
+        <p className="text-sm text-muted" data-testid="survey-status">
+          {survey.status === "active" ? "Active" : `Retracted${survey.retractedBy ? ` by ${survey.retractedBy}` : ""}: ${survey.retractedReason ?? ""}`} · {survey.fileName} · {survey.rowCount.toLocaleString("en-US")} rows, {survey.soundingCount.toLocaleString("en-US")} soundings · uploaded by {survey.uploadedBy ?? "—"}
+        </p>
+      </div>
+      {result?.error ? <FormMessage tone="error">{result.error}</FormMessage> : null}
+      {result?.done ? <FormMessage tone="success">{result.done}</FormMessage> : null}
+
+      <dl className="grid gap-2 text-sm sm:grid-cols-3">
+        <div><dt className="text-muted">Water surface</dt><dd>{survey.fileHasElevations ? "file has elevations" : `${number(survey.waterSurfaceElevation)} ${survey.datum}`}</dd></div>
+        <div><dt className="text-muted">Coordinates</dt><dd>{survey.crs}, depths in {survey.lengthUnit}</dd></div>
+        <div><dt className="text-muted">Time zone</dt><dd>{survey.timeZone}</dd></div>
+      </dl>
+
+      <div className="rounded border border-line bg-panel p-4 text-sm">
+        <h3 className="font-medium">QA summary</h3>
+        <ul className="mt-1 list-disc pl-5">
+          <li>Cells with soundings: {qa.cellsWithSoundings ?? "—"} of {qa.cellsInLimit ?? "—"}; median {qa.medianPerCell ?? "—"} per cell; {qa.sparseCells ?? 0} sparse cells.</li>
+          <li>Spikes: {qa.spikes?.count ?? 0}.</li>
+          <li>Crossing lines: {qa.crossings?.comparisons ?? 0} comparisons{qa.crossings?.withinAllowanceShare != null ? `, ${(qa.crossings.withinAllowanceShare * 100).toFixed(0)} % within the IHO S-44 order ${qa.order} allowance` : ""}.</li>
+          {(qa.warnings ?? []).map((warning) => <li key={warning}>{warning}</li>)}
+        </ul>
+      </div>
+
+      {plot ? <SoundingPlot title="Soundings of this survey and the work limit" data={plot} /> : null}
+
+      <div>
+        <h3 className="font-medium">Soundings</h3>
+        {soundings && soundings.total > 0 ? (
+          <>
+            <table className="mt-2 w-full border-collapse text-xs">
+              <caption className="sr-only">Soundings, page {soundings.page} of {soundings.pageCount}</caption>
+              <thead><tr className="text-left"><th scope="col" className="px-2">Row</th><th scope="col" className="px-2">Point</th><th scope="col" className="px-2 text-right">Easting</th><th scope="col" className="px-2 text-right">Northing</th><th scope="col" className="px-2 text-right">Depth</th><th scope="col" className="px-2 text-right">Probe</th><th scope="col" className="px-2 text-right">Elevation</th><th scope="col" className="px-2 text-right">Refusal elev.</th><th scope="col" className="px-2">Time</th></tr></thead>
+              <tbody>
+                {soundings.soundings.map((sounding) => (
+                  <tr key={sounding.sourceRow} className="border-t border-line">
+                    <td className="px-2">{sounding.sourceRow}</td><td className="px-2">{sounding.pointId ?? "—"}</td>
+                    <td className="px-2 text-right">{number(sounding.easting)}</td><td className="px-2 text-right">{number(sounding.northing)}</td>
+                    <td className="px-2 text-right">{number(sounding.depth)}</td><td className="px-2 text-right">{number(sounding.probe)}</td>
+                    <td className="px-2 text-right">{number(sounding.elevation)}</td><td className="px-2 text-right">{number(sounding.refusalElevation)}</td>
+                    <td className="px-2">{sounding.time ?? "—"}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+            <nav aria-label="Sounding pages" className="mt-2 flex items-center gap-3 text-sm">
+              {soundings.page > 1 ? <Link className="text-lagoon underline" to={`?page=${soundings.page - 1}`}>Previous page</Link> : null}
+              <span>Page {soundings.page} of {soundings.pageCount}</span>
+              {soundings.page < soundings.pageCount ? <Link className="text-lagoon underline" to={`?page=${soundings.page + 1}`}>Next page</Link> : null}
+            </nav>
+          </>
+        ) : <p className="text-sm text-muted">This survey has no soundings.</p>}
+      </div>
+
+      {canManage ? (
+        survey.status === "active" ? (
+          <Form method="post" className="space-y-2 rounded border border-line bg-panel p-4">
+            <h3 className="font-medium">Retract this survey</h3>
+            <p className="text-sm text-muted">The soundings are kept; the statistics are recomputed without them. It can be restored.</p>
+            <label htmlFor="reason" className="block text-sm font-medium">Reason</label>
+            <textarea id="reason" name="reason" required minLength={3} rows={2} className="block w-full rounded border border-line px-3 py-2" />
+            <SubmitButton intent="retract" tone="danger" pendingLabel="Retracting and recomputing…">Retract</SubmitButton>
+          </Form>
+        ) : (
+          <Form method="post" className="rounded border border-line bg-panel p-4">
+            <SubmitButton intent="restore" pendingLabel="Restoring and recomputing…">Restore this survey</SubmitButton>
+          </Form>
+        )
+      ) : null}
+    </section>
+  );
+}

@@ -1,0 +1,262 @@
+import { useEffect, useState } from "react";
+import { Form, Link, data, redirect, useNavigation } from "react-router";
+import { z } from "zod";
+import { FormMessage } from "~/components/form-message";
+import { SoundingPlot } from "~/components/sounding-plot";
+import { SubmitButton } from "~/components/submit-button";
+import { requireRole } from "~/lib/access.server";
+import { clientAddress } from "~/lib/client-address.server";
+import { commitChoicesFromFields } from "~/lib/import/form-fields";
+import { findImportJob, jobChoices, jobOptions, jobPreview, presentJobProgress } from "~/lib/import/import-job-view.server";
+import { previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
+import { discardStagedFile } from "~/lib/import/stage-upload.server";
+import { soundingFields } from "../../shared/soundings/parse-csv";
+import type { Route } from "./+types/projects.$projectId.surveys.imports.$jobId";
+
+const FIELD_LABELS: Record<(typeof soundingFields)[number], string> = {
+  easting: "Easting (or longitude)",
+  northing: "Northing (or latitude)",
+  depth: "Water depth",
+  probe: "Probe depth to refusal",
+  elevation: "Bottom elevation",
+  time: "Time",
+  id: "Point id",
+};
+
+async function loadJob(request: Request, params: Route.LoaderArgs["params"]) {
+  const { project, user, role } = await requireRole(request, params.projectId, "surveyor", "manager");
+  const jobId = z.coerce.number().int().positive().safeParse(params.jobId);
+  const job = jobId.success ? await findImportJob(project, user, role, jobId.data) : null;
+  if (!job) throw new Response("There is no such import.", { status: 404, statusText: "Not Found" });
+  return { project, user, job };
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { project, job } = await loadJob(request, params);
+  const preview = jobPreview(job);
+  return {
+    projectId: project.id,
+    lengthUnit: project.lengthUnit,
+    job: { ...presentJobProgress(job), fileName: job.fileName, fileSize: Number(job.fileSize) },
+    options: jobOptions(job),
+    choices: jobChoices(job),
+    preview,
+  };
+}
+
+function mappingFromForm(form: FormData): Record<string, string> {
+  const mapping: Record<string, string> = {};
+  for (const field of soundingFields) {
+    const header = form.get(`column.${field}`);
+    if (typeof header === "string" && header !== "") mapping[field] = header;
+  }
+  return mapping;
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { project, job } = await loadJob(request, params);
+  const form = await request.formData();
+  const intent = form.get("intent");
+  if (intent === "discard") {
+    await discardStagedFile(job.filePath);
+    await job.destroy();
+    throw redirect(`/projects/${project.id}/surveys`);
+  }
+  if (job.state === "committing" || job.state === "done") return data({ error: "This import is already running or finished." }, { status: 409 });
+  const excludeRows = form.getAll("excludeRow").map(Number).filter((row) => Number.isInteger(row) && row > 0);
+  const fields = Object.fromEntries([...form.entries()].filter(([, value]) => typeof value === "string")) as Record<string, string>;
+  const { choices, problems } = commitChoicesFromFields(fields, excludeRows);
+  if (!choices) return data({ error: problems.map((problem) => problem.message).join(" ") }, { status: 400 });
+  const options = { ...jobOptions(job), columns: mappingFromForm(form) };
+  if (intent === "commit") {
+    // The commit runs on in the server whether or not this page stays open.
+    void startImportJobCommit(job, options, choices, clientAddress(request));
+    throw redirect(`/projects/${project.id}/surveys/imports/${job.id}`);
+  }
+  await previewImportJob(job, options, choices);
+  return data({ error: null });
+}
+
+export function meta({ loaderData }: Route.MetaArgs) {
+  return [{ title: `Import ${loaderData?.job.fileName ?? ""} · Firmsand` }];
+}
+
+function ImportProgress({ projectId, jobId, initial }: { projectId: number; jobId: number; initial: { state: string; stage: string; fraction: number; error: string | null; surveyId: number | null } }) {
+  const [progress, setProgress] = useState(initial);
+  useEffect(() => {
+    if (progress.state !== "committing") return;
+    const timer = setInterval(async () => {
+      const response = await fetch(`/projects/${projectId}/surveys/imports/${jobId}/progress`, { headers: { Accept: "application/json" } });
+      if (!response.ok) return;
+      const next = (await response.json()) as typeof initial;
+      setProgress(next);
+      if (next.state !== "committing") {
+        clearInterval(timer);
+        window.location.assign(next.state === "done" && next.surveyId ? `/projects/${projectId}/surveys/${next.surveyId}` : window.location.pathname);
+      }
+    }, 700);
+    return () => clearInterval(timer);
+  }, [progress.state, projectId, jobId]);
+  return (
+    <div className="rounded border border-line bg-panel p-4" role="status" aria-live="polite">
+      <label htmlFor="commit-progress" className="block font-medium">Importing: {progress.stage}</label>
+      <progress id="commit-progress" max={1} value={progress.fraction} className="mt-2 block w-full">{Math.round(progress.fraction * 100)} %</progress>
+      <p className="mt-2 text-sm text-muted">You can leave this page: the import finishes on the server, and this page picks it up when you come back.</p>
+    </div>
+  );
+}
+
+export default function ImportJobPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { job, preview, choices, projectId, options } = loaderData;
+  const navigation = useNavigation();
+  const base = `/projects/${projectId}/surveys`;
+  const actionError = (actionData as { error?: string | null } | undefined)?.error ?? null;
+
+  if (job.state === "committing") return <section className="space-y-4"><h2 className="text-lg font-semibold">Import {job.fileName}</h2><ImportProgress projectId={projectId} jobId={job.id} initial={job} /></section>;
+  if (job.state === "done" && job.surveyId) {
+    return (
+      <section className="space-y-3">
+        <h2 className="text-lg font-semibold">Imported {job.fileName}</h2>
+        <FormMessage tone="success">The survey is stored and the cell statistics are updated.</FormMessage>
+        <Link className="text-lagoon underline" to={`${base}/${job.surveyId}`}>Open the survey</Link>
+      </section>
+    );
+  }
+  if (!preview) return <section><h2 className="text-lg font-semibold">Import {job.fileName}</h2><p className="mt-2 text-muted">The file has not been checked yet.</p></section>;
+
+  const excluded = new Set(choices.excludeRows);
+  // One "leave out" box per row, on the row's first problem.
+  const firstOfRow = new Map<number, number>();
+  preview.problems.forEach((problem, index) => { if (!firstOfRow.has(problem.row)) firstOfRow.set(problem.row, index); });
+  const busy = navigation.state !== "idle";
+  return (
+    <section aria-labelledby="import-heading" className="space-y-6">
+      <div>
+        <h2 id="import-heading" className="text-lg font-semibold">Check {job.fileName}</h2>
+        <p className="text-sm text-muted">
+          {options.kind} survey of {options.surveyedOn} · {preview.rowCount.toLocaleString("en-US")} rows · delimiter {preview.shape.delimiter === "\t" ? "tab" : `“${preview.shape.delimiter}”`}
+          {preview.shape.decimalComma ? " · decimal comma" : ""}{preview.shape.hasBom ? " · byte-order mark" : ""}{preview.shape.hasHeader ? "" : " · no header row"}
+        </p>
+      </div>
+      {job.state === "failed" && job.error ? <FormMessage tone="error">{job.error}</FormMessage> : null}
+      {actionError ? <FormMessage tone="error">{actionError}</FormMessage> : null}
+
+      <Form method="post" className="space-y-6" aria-busy={busy}>
+        <fieldset className="rounded border border-line bg-panel p-4">
+          <legend className="px-1 font-medium">Columns</legend>
+          <p className="text-sm text-muted">Guessed from the header names{preview.lonLatHeaders ? " (longitude/latitude recognised: choose EPSG:4326 as the file's CRS on upload)" : ""}; change any of them. The mapping is remembered for this project's next upload.</p>
+          <div className="mt-3 grid gap-3 sm:grid-cols-2">
+            {soundingFields.map((field) => (
+              <div key={field}>
+                <label htmlFor={`column-${field}`} className="block text-sm font-medium">{FIELD_LABELS[field]}</label>
+                <select id={`column-${field}`} name={`column.${field}`} defaultValue={preview.mapping[field] ?? ""} className="mt-1 block w-full rounded border border-line bg-panel px-2 py-1">
+                  <option value="">— not in the file —</option>
+                  {preview.shape.headers.map((header) => <option key={header} value={header}>{header}</option>)}
+                </select>
+              </div>
+            ))}
+          </div>
+          <div className="mt-4 overflow-x-auto">
+            <table className="w-full border-collapse text-xs">
+              <caption className="text-left text-sm text-muted">First rows of the file</caption>
+              <thead><tr>{preview.shape.headers.map((header) => <th key={header} scope="col" className="border-b border-line px-2 py-1 text-left">{header}</th>)}</tr></thead>
+              <tbody>{preview.shape.firstRows.map((row, index) => <tr key={index}>{row.map((cell, cellIndex) => <td key={cellIndex} className="border-b border-line px-2 py-1">{cell}</td>)}</tr>)}</tbody>
+            </table>
+          </div>
+        </fieldset>
+
+        {preview.fileProblems.length > 0 ? (
+          <div role="alert" className="rounded border border-danger bg-panel p-4">
+            <h3 className="font-medium text-danger">Problems with the file as a whole</h3>
+            <ul className="mt-2 list-disc pl-5 text-sm">{preview.fileProblems.map((message) => <li key={message}>{message}</li>)}</ul>
+          </div>
+        ) : null}
+
+        <div className="rounded border border-line bg-panel p-4">
+          <h3 className="font-medium">Row problems: {preview.problemCount.toLocaleString("en-US")} in {preview.problemRows.toLocaleString("en-US")} rows</h3>
+          {preview.problemCount === 0 ? (
+            <p className="mt-1 text-sm text-ok">Every row passes the rules.</p>
+          ) : (
+            <>
+              <p className="mt-1 text-sm"><a className="text-lagoon underline" href={`${base}/imports/${job.id}/problems.csv`} download>Download the problems as CSV</a>{preview.problemCount > preview.problems.length ? ` (the first ${preview.problems.length} are listed here)` : ""}</p>
+              <label className="mt-2 flex items-center gap-2 text-sm">
+                <input type="checkbox" name="excludeErrorRows" value="1" defaultChecked={choices.excludeErrorRows} />
+                Leave out every row with a problem
+              </label>
+              <div className="mt-2 max-h-96 overflow-y-auto">
+                <table className="w-full border-collapse text-sm" data-testid="problems-table">
+                  <caption className="sr-only">Row problems</caption>
+                  <thead><tr className="text-left"><th scope="col" className="px-2">Leave out</th><th scope="col" className="px-2">Row</th><th scope="col" className="px-2">Column</th><th scope="col" className="px-2">Value</th><th scope="col" className="px-2">Rule</th><th scope="col" className="px-2">Problem</th></tr></thead>
+                  <tbody>
+                    {preview.problems.map((problem, index) => (
+                      <tr key={index} className="border-t border-line">
+                        <td className="px-2">{firstOfRow.get(problem.row) === index ? <input type="checkbox" name="excludeRow" value={problem.row} defaultChecked={excluded.has(problem.row)} aria-label={`Leave out row ${problem.row}`} /> : null}</td>
+                        <td className="px-2">{problem.row}</td>
+                        <td className="px-2">{problem.column || "—"}</td>
+                        <td className="px-2">{problem.value || "—"}</td>
+                        <td className="px-2">{problem.rule}</td>
+                        <td className="px-2">{problem.message}</td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            </>
+          )}
+        </div>
+
+        {preview.outside.count > 0 ? (
+          <fieldset className="rounded border border-caution bg-panel p-4">
+            <legend className="px-1 font-medium">{preview.outside.count} soundings outside the work limit</legend>
+            <p className="text-sm">Rows {preview.outside.rows.slice(0, 30).join(", ")}{preview.outside.count > 30 ? " …" : ""}.</p>
+            <div className="mt-2 flex gap-6 text-sm">
+              <label className="flex items-center gap-2"><input type="radio" name="outside" value="keep" defaultChecked={choices.outside === "keep"} /> Keep them</label>
+              <label className="flex items-center gap-2"><input type="radio" name="outside" value="drop" defaultChecked={choices.outside === "drop"} /> Drop them</label>
+            </div>
+          </fieldset>
+        ) : null}
+
+        {preview.sameFile.length > 0 ? (
+          <label className="flex items-center gap-2 rounded border border-caution bg-panel p-4 text-sm">
+            <input type="checkbox" name="acceptSameFile" value="1" defaultChecked={choices.acceptSameFile} />
+            This same file was imported before (survey {preview.sameFile.map((survey) => `#${survey.surveyId} ${survey.kind} ${survey.surveyedOn}`).join(", ")}). Import it again anyway.
+          </label>
+        ) : null}
+
+        {preview.warnings.length > 0 ? (
+          <div className="rounded border border-line bg-panel p-4">
+            <h3 className="font-medium">Notes</h3>
+            <ul className="mt-1 list-disc pl-5 text-sm">{preview.warnings.map((warning) => <li key={warning}>{warning}</li>)}</ul>
+          </div>
+        ) : null}
+
+        {preview.qa ? (
+          <div className="rounded border border-line bg-panel p-4 text-sm">
+            <h3 className="font-medium">Survey QA</h3>
+            <ul className="mt-1 list-disc pl-5">
+              <li>Cells with soundings: {preview.qa.cellsWithSoundings} of {preview.qa.cellsInLimit} in the work limit; median {preview.qa.medianPerCell ?? "—"} soundings per cell; {preview.qa.sparseCells} cells with fewer than {preview.qa.minimumPerCell}.</li>
+              <li>Spikes: {preview.qa.spikes.count} (more than {Number.isFinite(preview.qa.spikes.threshold) ? preview.qa.spikes.threshold.toFixed(2) : "—"} from neighbours' median).</li>
+              <li>Crossing lines: {preview.qa.crossings.comparisons} comparisons{preview.qa.crossings.withinAllowanceShare !== null ? `, ${(preview.qa.crossings.withinAllowanceShare * 100).toFixed(0)} % within the IHO S-44 order ${preview.qa.order} allowance` : ""}.</li>
+            </ul>
+          </div>
+        ) : null}
+
+        {preview.plot ? <SoundingPlot title="Soundings of this file and the work limit" data={{ ...preview.plot, highlighted: preview.outside.points }} /> : null}
+
+        <p className="text-sm">{preview.storedCount.toLocaleString("en-US")} soundings would be stored.</p>
+        {preview.blockers.length > 0 ? (
+          <div className="rounded border border-danger bg-panel p-3 text-sm" data-testid="blockers">
+            <p className="font-medium">Not ready to import:</p>
+            <ul className="list-disc pl-5">{preview.blockers.map((blocker) => <li key={blocker}>{blocker}</li>)}</ul>
+          </div>
+        ) : null}
+        <div className="flex flex-wrap gap-3">
+          <SubmitButton intent="recheck" tone="plain" pendingLabel="Checking…">Check again with these choices</SubmitButton>
+          <SubmitButton intent="commit" pendingLabel="Starting the import…" disabled={preview.blockers.length > 0 || busy}>Import the survey</SubmitButton>
+          <SubmitButton intent="discard" tone="plain" pendingLabel="Discarding…" formNoValidate>Discard this upload</SubmitButton>
+        </div>
+        {preview.blockers.length > 0 ? <p className="text-sm text-muted">Change the choices above and check again; the import button unlocks when nothing blocks it.</p> : null}
+      </Form>
+    </section>
+  );
+}
