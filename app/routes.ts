@@ -20,6 +20,7 @@ export default [
     route("surveys/:surveyId", "routes/projects.$projectId.surveys.$surveyId.tsx"),
     route("members", "routes/project-members.tsx"),
     route("audit", "routes/project-audit.tsx"),
+    route("plans/:date", "routes/project-plan.tsx"),
   ]),
   // Survey import: resource routes (JSON, CSV) outside the project layout.
   route("projects/:projectId/surveys/upload", "routes/projects.$projectId.surveys.upload.ts"),
@@ -27,6 +28,12 @@ export default [
   route("projects/:projectId/surveys/imports/:jobId/problems.csv", "routes/projects.$projectId.surveys.imports.$jobId.problems[.]csv.ts"),
   route("api/projects/:projectId/surveys", "routes/api.projects.$projectId.surveys.ts"),
   route("api/projects/:projectId/surveys/:surveyId", "routes/api.projects.$projectId.surveys.$surveyId.ts"),
+  // Coverage map and dive plans (issue 5): the offline map style and the map's JSON API.
+  route("projects/:projectId/map/style.json", "routes/project-map-style[.]json.ts"),
+  route("api/projects/:projectId/cells", "routes/api.projects.$projectId.cells.ts"),
+  route("api/projects/:projectId/cells/:label", "routes/api.projects.$projectId.cells.$label.ts"),
+  route("api/projects/:projectId/bands", "routes/api.projects.$projectId.bands.ts"),
+  route("api/projects/:projectId/assignments", "routes/api.projects.$projectId.assignments.ts"),
   route("dev/mail", "routes/dev-mail.tsx", [
     route(":messageId", "routes/dev-mail-message.tsx"),
   ]),

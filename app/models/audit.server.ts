@@ -18,6 +18,8 @@ export const AUDIT_ACTIONS = {
   surveyImported: "survey-imported",
   surveyRetracted: "survey-retracted",
   surveyRestored: "survey-restored",
+  assignmentCreated: "assignment-created",
+  planEmailed: "plan-emailed",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

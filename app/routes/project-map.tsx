@@ -1,20 +1,247 @@
+import type { FeatureCollection } from "geojson";
+import { useCallback, useEffect, useMemo, useState } from "react";
+import { createCrs } from "../../shared/crs";
+import { MAP_STATUSES } from "../../shared/palette";
+import { AssignPanel } from "~/components/map/assign-panel";
+import { CellInspector } from "~/components/map/cell-inspector";
+import { cellCentreLonLat, labelIndex, type CellsData } from "~/components/map/cell-features";
+import { CoverageMap, type LayerKey } from "~/components/map/coverage-map";
+import { MapLegend } from "~/components/map/legend";
+import { NorthArrow } from "~/components/map/north-arrow";
+import { legendFor, type MapView } from "~/components/map/paint";
 import { requireRole } from "~/lib/access.server";
+import { listDiveTeams } from "~/models/assignments.server";
 import type { Route } from "./+types/project-map";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireRole(request, params.projectId);
-  return { hasWorkLimit: project.hasWorkLimit };
+  const { user, project, role } = await requireRole(request, params.projectId);
+  const canAssign = role === "dive-supervisor" || role === "manager" || (role === null && user.isSiteAdmin);
+  const teams = await listDiveTeams(project);
+  return {
+    projectId: project.id,
+    hasWorkLimit: project.hasWorkLimit,
+    lengthUnit: project.lengthUnit,
+    crsCode: project.crs,
+    minTeamSize: project.minTeamSize,
+    canAssign,
+    teams: teams.map((team) => ({ id: team.id, name: team.name, hoses: team.hoses, size: team.members.length, belowMinimum: team.belowMinimum })),
+  };
 }
 
+export function meta() {
+  return [{ title: "Coverage map · Firmsand" }];
+}
+
+const VIEW_TITLES: Record<MapView, string> = { status: "Cell status", thickness: "Remaining sediment thickness", removed: "Removed volume per cell" };
+
 export default function ProjectMap({ loaderData }: Route.ComponentProps) {
+  const { projectId } = loaderData;
+  const [data, setData] = useState<CellsData | null>(null);
+  const [loadError, setLoadError] = useState<string | null>(null);
+  const [view, setView] = useState<MapView>("status");
+  const [layers, setLayers] = useState<Record<LayerKey, boolean>>({ cells: true, bands: false, zones: true, workLimit: true, shoreline: true, labels: true });
+  const [bandSurface, setBandSurface] = useState<"remaining" | "depth">("remaining");
+  const [bands, setBands] = useState<{ surface: "remaining" | "depth"; collection: FeatureCollection } | null>(null);
+  const [zoneFilter, setZoneFilter] = useState<number | null>(null);
+  const [selected, setSelected] = useState<ReadonlySet<number>>(new Set());
+  const [focus, setFocus] = useState<number | null>(null);
+  const [assigned, setAssigned] = useState<ReadonlySet<number>>(new Set());
+  const [planDate, setPlanDate] = useState(() => new Date(Date.now() + 86_400_000).toISOString().slice(0, 10));
+  const [pointer, setPointer] = useState<[number, number] | null>(null);
+  const [bearing, setBearing] = useState(0);
+  const [flyTo, setFlyTo] = useState<{ lonLat: [number, number]; serial: number } | null>(null);
+  const [search, setSearch] = useState("");
+  const [searchMessage, setSearchMessage] = useState<string | null>(null);
+  const [refresh, setRefresh] = useState(0);
+
+  const loadCells = useCallback(async () => {
+    const response = await fetch(`/api/projects/${projectId}/cells`);
+    if (!response.ok) throw new Error(`the cells could not be read (${response.status})`);
+    setData(await response.json());
+  }, [projectId]);
+
+  useEffect(() => {
+    loadCells().catch((error: Error) => setLoadError(error.message));
+  }, [loadCells]);
+
+  const labels = useMemo(() => (data ? labelIndex(data) : new Map<string, number>()), [data]);
+  const labelOf = useMemo(() => new Map([...labels].map(([label, index]) => [index, label])), [labels]);
+  const crs = useMemo(() => (data ? createCrs(data.crs.definition) : null), [data]);
+
+  const loadAssigned = useCallback(async (date: string) => {
+    const response = await fetch(`/api/projects/${projectId}/assignments?date=${date}`);
+    if (!response.ok) return;
+    const plan = (await response.json()) as { teams: Array<{ cells: Array<{ label: string }> }> };
+    setAssigned(new Set(plan.teams.flatMap((team) => team.cells.map((cell) => labels.get(cell.label)).filter((index): index is number => index !== undefined))));
+  }, [projectId, labels]);
+
+  useEffect(() => {
+    if (data) loadAssigned(planDate).catch(() => undefined);
+  }, [data, planDate, loadAssigned]);
+
+  useEffect(() => {
+    if (!layers.bands) return;
+    let cancelled = false;
+    fetch(`/api/projects/${projectId}/bands?surface=${bandSurface}`)
+      .then((response) => response.json())
+      .then((collection: FeatureCollection) => !cancelled && setBands({ surface: bandSurface, collection }))
+      .catch(() => undefined);
+    return () => {
+      cancelled = true;
+    };
+  }, [projectId, layers.bands, bandSurface]);
+
+  const selectOne = useCallback((index: number, extend: boolean) => {
+    setSelected((current) => {
+      if (!extend) return new Set([index]);
+      const next = new Set(current);
+      if (next.has(index)) next.delete(index);
+      else next.add(index);
+      return next;
+    });
+    setFocus(index);
+  }, []);
+
+  const onBoxSelect = useCallback((indices: number[]) => {
+    setSelected((current) => new Set([...current, ...indices]));
+    if (indices.length > 0) setFocus(indices[indices.length - 1]);
+  }, []);
+
+  function moveFocus(event: React.KeyboardEvent) {
+    if (!data?.grid || focus === null) return;
+    const moves: Record<string, [number, number]> = { ArrowUp: [1, 0], ArrowDown: [-1, 0], ArrowLeft: [0, -1], ArrowRight: [0, 1] };
+    const move = moves[event.key];
+    if (!move) return;
+    event.preventDefault();
+    const grid = data.grid;
+    const row = Math.floor(focus / grid.cols) + move[0];
+    const col = (focus % grid.cols) + move[1];
+    if (row < 0 || row >= grid.rows || col < 0 || col >= grid.cols) return;
+    const next = row * grid.cols + col;
+    if (data.status[next] < 0) return;
+    selectOne(next, event.shiftKey);
+    setFlyTo({ lonLat: cellCentreLonLat(data, next), serial: Date.now() });
+  }
+
+  function runSearch(event: React.FormEvent) {
+    event.preventDefault();
+    const index = labels.get(search.trim().toUpperCase());
+    if (index === undefined || !data) {
+      setSearchMessage(`No cell "${search.trim()}" inside the work limit.`);
+      return;
+    }
+    setSearchMessage(null);
+    selectOne(index, false);
+    setFlyTo({ lonLat: cellCentreLonLat(data, index), serial: Date.now() });
+  }
+
+  const selectedLabels = [...selected].map((index) => labelOf.get(index)).filter((label): label is string => Boolean(label)).sort();
+  const confirmedCode = MAP_STATUSES.indexOf("confirmed");
+  const confirmedLabels = data ? [...selected].filter((index) => data.status[index] === confirmedCode).map((index) => labelOf.get(index)!).sort() : [];
+  const focusLabel = focus === null ? null : labelOf.get(focus) ?? null;
+  const projected = pointer && crs ? crs.fromLonLat(pointer[0], pointer[1]) : null;
+  const cellCount = useMemo(() => (data ? buildCellCount(data) : 0), [data]);
+
+  if (!loaderData.hasWorkLimit) {
+    return <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">Set the project's work limit to see it on the map.</p>;
+  }
   return (
-    <section aria-labelledby="map">
-      <h2 id="map" className="text-lg font-semibold">Map</h2>
-      <p className="mt-2 rounded border border-dashed border-line bg-panel p-6 text-muted">
-        {loaderData.hasWorkLimit
-          ? "The cell map appears here once the first survey has been processed."
-          : "Set the project's work limit to see it on the map."}
-      </p>
+    <section aria-labelledby="map-title" className="space-y-3">
+      <div className="flex flex-wrap items-end gap-3">
+        <h2 id="map-title" className="text-lg font-semibold">Coverage map</h2>
+        <label className="text-sm">View
+          <select aria-label="View" value={view} onChange={(event) => setView(event.target.value as MapView)} className="ml-2 rounded border border-line px-2 py-1">
+            <option value="status">Status</option>
+            <option value="thickness">Remaining thickness</option>
+            <option value="removed">Removed volume</option>
+          </select>
+        </label>
+        <label className="text-sm">Zone
+          <select aria-label="Zone filter" value={zoneFilter ?? ""} onChange={(event) => setZoneFilter(event.target.value === "" ? null : Number(event.target.value))} className="ml-2 rounded border border-line px-2 py-1">
+            <option value="">All zones</option>
+            {data?.zones.map((zone, index) => <option key={zone.id} value={index}>{zone.name}</option>)}
+          </select>
+        </label>
+        <form onSubmit={runSearch} role="search" className="text-sm">
+          <label>Cell <input aria-label="Search cell label" value={search} onChange={(event) => setSearch(event.target.value)} placeholder="e.g. C7" className="ml-2 w-24 rounded border border-line px-2 py-1" /></label>
+          <button type="submit" className="ml-1 rounded border border-line px-2 py-1">Find</button>
+        </form>
+        <label className="text-sm">Plan date shown
+          <input aria-label="Plan date shown" type="date" value={planDate} onChange={(event) => setPlanDate(event.target.value)} className="ml-2 rounded border border-line px-2 py-1" />
+        </label>
+      </div>
+      {searchMessage ? <p role="alert" className="text-sm text-danger">{searchMessage}</p> : null}
+      {loadError ? <p role="alert" className="text-danger">{loadError}</p> : null}
+      <fieldset className="flex flex-wrap gap-3 text-sm">
+        <legend className="sr-only">Layers</legend>
+        {(Object.keys(layers) as LayerKey[]).map((key) => (
+          <label key={key} className="flex items-center gap-1">
+            <input type="checkbox" checked={layers[key]} onChange={(event) => setLayers((current) => ({ ...current, [key]: event.target.checked }))} />
+            {{ cells: "Cells", bands: "Bands", zones: "Zones", workLimit: "Work limit", shoreline: "Shoreline", labels: "Labels" }[key]}
+          </label>
+        ))}
+        {layers.bands ? (
+          <select aria-label="Band surface" value={bandSurface} onChange={(event) => setBandSurface(event.target.value as "remaining" | "depth")} className="rounded border border-line px-2 py-1">
+            <option value="remaining">Remaining thickness bands</option>
+            <option value="depth">Bottom depth bands</option>
+          </select>
+        ) : null}
+      </fieldset>
+      <div className="grid gap-4 lg:grid-cols-[1fr_18rem]">
+        <div tabIndex={0} onKeyDown={moveFocus} aria-label="Cell map: arrow keys move the selected cell" className="relative focus-visible:outline-2 focus-visible:outline-lagoon">
+          <CoverageMap
+            projectId={projectId}
+            lengthUnit={loaderData.lengthUnit}
+            data={data}
+            view={view}
+            layers={layers}
+            zoneFilter={zoneFilter}
+            selected={selected}
+            assigned={assigned}
+            bands={bands}
+            flyTo={flyTo}
+            onCellClick={selectOne}
+            onBoxSelect={onBoxSelect}
+            onPointer={setPointer}
+            onBearing={setBearing}
+          />
+          <div className="pointer-events-none absolute left-2 top-2 rounded bg-panel/90 p-1"><NorthArrow bearing={bearing} /></div>
+          <p className="figures mt-1 text-xs text-muted" data-testid="coordinates">
+            {projected && pointer
+              ? `${loaderData.crsCode}: E ${projected[0].toFixed(1)} N ${projected[1].toFixed(1)} ${data?.labels.length ?? ""} · lon ${pointer[0].toFixed(6)} lat ${pointer[1].toFixed(6)}`
+              : "Move the pointer over the map for coordinates."}
+            {data ? ` · ${cellCount} cells` : ""}
+          </p>
+        </div>
+        <aside className="space-y-4">
+          {data ? <MapLegend title={VIEW_TITLES[view]} entries={legendFor(view, data)} /> : null}
+          <CellInspector projectId={projectId} label={focusLabel} labels={data?.labels ?? { length: "", volume: "" }} refresh={refresh} />
+          {loaderData.canAssign ? (
+            <AssignPanel
+              projectId={projectId}
+              selectedLabels={selectedLabels}
+              confirmedLabels={confirmedLabels}
+              teams={loaderData.teams}
+              minTeamSize={loaderData.minTeamSize}
+              onAssigned={(date) => {
+                setPlanDate(date);
+                loadAssigned(date).catch(() => undefined);
+                loadCells().catch(() => undefined);
+                setRefresh((value) => value + 1);
+              }}
+            />
+          ) : (
+            <p className="text-sm text-muted">Your role can read the map; dive supervisors and managers assign cells.</p>
+          )}
+        </aside>
+      </div>
     </section>
   );
 }
+
+function buildCellCount(data: CellsData): number {
+  let count = 0;
+  for (const code of data.status) if (code >= 0) count++;
+  return count;
+}
+

@@ -107,7 +107,7 @@ function byDateThenId(a: ComputationSurvey, b: ComputationSurvey): number {
 }
 
 /** Firm-sand points from the baseline's probe: the baseline's own arrays when every row has a probe (one triangulation serves both). */
-function firmPoints(baseline: ComputationSurvey): SurveyPoints {
+export function firmPoints(baseline: ComputationSurvey): SurveyPoints {
   const refusal = baseline.refusalElevation;
   if (refusal === null) throw new Error("the active baseline has no probe column, so there is no firm-sand surface to measure to");
   let finite = 0;

@@ -15,7 +15,7 @@ export interface RecomputeOutcome {
   reason: string | null;
 }
 
-async function loadSurveyPoints(surveyIds: number[], transaction: Transaction): Promise<Map<number, Omit<ComputationSurvey, "id" | "kind" | "surveyedOn">>> {
+export async function loadSurveyPoints(surveyIds: number[], transaction: Transaction): Promise<Map<number, Omit<ComputationSurvey, "id" | "kind" | "surveyedOn">>> {
   const result = new Map<number, Omit<ComputationSurvey, "id" | "kind" | "surveyedOn">>();
   for (const surveyId of surveyIds) {
     const rows = await getSequelize().query<{ easting: number; northing: number; elevation: number; refusalElevation: number | null }>(

@@ -1,0 +1,67 @@
+import { useEffect, useState } from "react";
+import { STATUS_LABELS, type MapStatus } from "../../../shared/palette";
+import { HistoryChart } from "./history-chart";
+
+interface CellDetail {
+  label: string;
+  zone: string | null;
+  status: MapStatus;
+  plannedVolume: number;
+  removedVolume: number;
+  depositedVolume: number;
+  remainingVolume: number;
+  meanRemainingThickness: number | null;
+  coverage: number;
+  soundings: number | null;
+  workingDepth: number | null;
+  history: Array<{ date: string; remainingVolume: number; removedVolume: number; status: string | null }>;
+  assignments: Array<{ date: string; team: string; hose: string; notes: string }>;
+}
+
+/** The clicked cell's figures, soundings, history and assignments (fetched on selection). */
+export function CellInspector({ projectId, label, labels, refresh }: { projectId: number; label: string | null; labels: { length: string; volume: string }; refresh: number }) {
+  const [detail, setDetail] = useState<CellDetail | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  useEffect(() => {
+    if (!label) return;
+    let cancelled = false;
+    setError(null);
+    fetch(`/api/projects/${projectId}/cells/${encodeURIComponent(label)}`)
+      .then(async (response) => {
+        const body = await response.json();
+        if (cancelled) return;
+        if (!response.ok) {
+          setDetail(null);
+          setError(body.error ?? "The cell could not be read.");
+        } else setDetail(body);
+      })
+      .catch(() => !cancelled && setError("The cell could not be read."));
+    return () => {
+      cancelled = true;
+    };
+  }, [projectId, label, refresh]);
+  if (!label) return <p className="text-sm text-muted">Click a cell (or search for its label) to see its figures.</p>;
+  if (error) return <p className="text-sm text-danger">{error}</p>;
+  if (!detail || detail.label !== label) return <p className="text-sm text-muted">Reading cell {label}…</p>;
+  const volume = (value: number) => `${value.toFixed(1)} ${labels.volume}`;
+  return (
+    <section aria-label={`Cell ${detail.label}`} className="space-y-2 text-sm">
+      <h3 className="text-base font-semibold">Cell {detail.label}{detail.zone ? ` · ${detail.zone}` : ""}</h3>
+      <dl className="figures grid grid-cols-2 gap-x-3 gap-y-1">
+        <dt>Status</dt><dd data-testid="inspector-status">{STATUS_LABELS[detail.status]}</dd>
+        <dt>Planned</dt><dd>{volume(detail.plannedVolume)}</dd>
+        <dt>Removed</dt><dd>{volume(detail.removedVolume)}</dd>
+        <dt>Remaining</dt><dd>{volume(detail.remainingVolume)}</dd>
+        <dt>Mean thickness left</dt><dd>{detail.meanRemainingThickness === null ? "not surveyed" : `${detail.meanRemainingThickness.toFixed(2)} ${labels.length}`}</dd>
+        <dt>Coverage</dt><dd>{(detail.coverage * 100).toFixed(0)} %</dd>
+        <dt>Soundings</dt><dd data-testid="inspector-soundings">{detail.soundings ?? "—"}</dd>
+        <dt>Deepest latest bottom</dt><dd>{detail.workingDepth === null ? "—" : `${detail.workingDepth.toFixed(1)} ${labels.length}`}</dd>
+      </dl>
+      <HistoryChart history={detail.history} volumeLabel={labels.volume} />
+      <h4 className="font-semibold">Assignments</h4>
+      {detail.assignments.length === 0 ? <p className="text-muted">None yet.</p> : (
+        <ul>{detail.assignments.map((assignment) => <li key={assignment.date}>{assignment.date}: {assignment.team}, {assignment.hose}{assignment.notes ? ` — ${assignment.notes}` : ""}</li>)}</ul>
+      )}
+    </section>
+  );
+}

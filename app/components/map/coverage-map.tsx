@@ -1,0 +1,201 @@
+import type { FeatureCollection } from "geojson";
+import type { GeoJSONSource, Map as MapLibreMap } from "maplibre-gl";
+import { useEffect, useRef, useState } from "react";
+import "maplibre-gl/dist/maplibre-gl.css";
+import { buildCellFeatures, type CellsData } from "./cell-features";
+import { bandColour, fillColour, type MapView } from "./paint";
+
+export type LayerKey = "cells" | "bands" | "zones" | "workLimit" | "shoreline" | "labels";
+export const LAYER_GROUPS: Record<LayerKey, string[]> = {
+  cells: ["cells-fill", "cells-grid", "cells-assigned", "cells-selected"],
+  bands: ["bands-fill"],
+  zones: ["zones-outline"],
+  workLimit: ["work-limit-outline", "work-limit-water"],
+  shoreline: ["shoreline-water", "shoreline-edge"],
+  labels: ["zone-labels", "cell-labels"],
+};
+
+interface Props {
+  projectId: number;
+  lengthUnit: CellsData["lengthUnit"];
+  data: CellsData | null;
+  view: MapView;
+  layers: Record<LayerKey, boolean>;
+  zoneFilter: number | null;
+  selected: ReadonlySet<number>;
+  assigned: ReadonlySet<number>;
+  bands: { surface: "remaining" | "depth"; collection: FeatureCollection } | null;
+  flyTo: { lonLat: [number, number]; serial: number } | null;
+  onCellClick: (index: number, extend: boolean) => void;
+  onBoxSelect: (indices: number[]) => void;
+  onPointer: (lonLat: [number, number] | null) => void;
+  onBearing: (bearing: number) => void;
+}
+
+function setFeatureStates(map: MapLibreMap, key: "selected" | "assigned", next: ReadonlySet<number>, previous: Set<number>) {
+  for (const id of previous) if (!next.has(id)) map.setFeatureState({ source: "cells", id }, { [key]: false });
+  for (const id of next) if (!previous.has(id)) map.setFeatureState({ source: "cells", id }, { [key]: true });
+  previous.clear();
+  for (const id of next) previous.add(id);
+}
+
+/**
+ * The MapLibre map over the offline style. MapLibre is loaded with a dynamic import inside the
+ * effect (it never runs on the server) and its worker from the bundled worker file's URL.
+ */
+export function CoverageMap(props: Props) {
+  const container = useRef<HTMLDivElement>(null);
+  const mapRef = useRef<MapLibreMap | null>(null);
+  const [ready, setReady] = useState(false);
+  const selectedState = useRef(new Set<number>());
+  const assignedState = useRef(new Set<number>());
+  const fitted = useRef(false);
+  const callbacks = useRef(props);
+  callbacks.current = props;
+  const box = useRef<HTMLDivElement>(null);
+
+  useEffect(() => {
+    let cancelled = false;
+    let map: MapLibreMap | null = null;
+    (async () => {
+      const [maplibre, worker] = await Promise.all([import("maplibre-gl"), import("maplibre-gl/dist/maplibre-gl-worker.mjs?url")]);
+      maplibre.setWorkerUrl(worker.default);
+      // Labels are drawn from the page's Roboto Mono (no glyphs URL): load it before the first label.
+      await Promise.all([document.fonts.load('13px "Roboto Mono"'), document.fonts.load('500 13px "Roboto Mono"')]).catch(() => undefined);
+      if (cancelled || !container.current) return;
+      map = new maplibre.Map({
+        container: container.current,
+        style: `${window.location.origin}/projects/${props.projectId}/map/style.json`,
+        center: [0, 0],
+        zoom: 1,
+        attributionControl: false,
+        boxZoom: false,
+        canvasContextAttributes: { preserveDrawingBuffer: true },
+      });
+      map.addControl(new maplibre.NavigationControl({ showCompass: true }), "top-right");
+      map.addControl(new maplibre.ScaleControl({ unit: props.lengthUnit === "m" ? "metric" : "imperial", maxWidth: 120 }), "bottom-left");
+      mapRef.current = map;
+      // For the browser tests and for debugging from the console.
+      (window as unknown as { firmsandMap?: MapLibreMap }).firmsandMap = map;
+      map.on("load", () => !cancelled && setReady(true));
+      map.on("click", "cells-fill", (event) => {
+        const id = event.features?.[0]?.id;
+        if (typeof id === "number") callbacks.current.onCellClick(id, event.originalEvent.shiftKey);
+      });
+      map.on("mouseenter", "cells-fill", () => map && (map.getCanvas().style.cursor = "pointer"));
+      map.on("mouseleave", "cells-fill", () => map && (map.getCanvas().style.cursor = ""));
+      map.on("mousemove", (event) => callbacks.current.onPointer([event.lngLat.lng, event.lngLat.lat]));
+      map.on("mouseout", () => callbacks.current.onPointer(null));
+      map.on("rotate", () => map && callbacks.current.onBearing(map.getBearing()));
+
+      // Shift + drag draws a selection box (box zoom is off for that reason).
+      const canvas = map.getCanvasContainer();
+      let start: { x: number; y: number } | null = null;
+      const local = (event: MouseEvent) => {
+        const rect = canvas.getBoundingClientRect();
+        return { x: event.clientX - rect.left, y: event.clientY - rect.top };
+      };
+      canvas.addEventListener("mousedown", (event) => {
+        if (!event.shiftKey || event.button !== 0 || !map) return;
+        start = local(event);
+        map.dragPan.disable();
+      });
+      window.addEventListener("mousemove", (event) => {
+        if (!start || !box.current) return;
+        const point = local(event);
+        Object.assign(box.current.style, {
+          display: "block",
+          left: `${Math.min(start.x, point.x)}px`, top: `${Math.min(start.y, point.y)}px`,
+          width: `${Math.abs(point.x - start.x)}px`, height: `${Math.abs(point.y - start.y)}px`,
+        });
+      });
+      window.addEventListener("mouseup", (event) => {
+        if (!start || !map) return;
+        const end = local(event);
+        const from = start;
+        start = null;
+        map.dragPan.enable();
+        if (box.current) box.current.style.display = "none";
+        if (Math.abs(end.x - from.x) < 4 && Math.abs(end.y - from.y) < 4) return; // a shift-click, handled by the click event
+        const features = map.queryRenderedFeatures([[Math.min(from.x, end.x), Math.min(from.y, end.y)], [Math.max(from.x, end.x), Math.max(from.y, end.y)]], { layers: ["cells-fill"] });
+        callbacks.current.onBoxSelect([...new Set(features.map((feature) => feature.id).filter((id): id is number => typeof id === "number"))]);
+      });
+    })();
+    return () => {
+      cancelled = true;
+      map?.remove();
+      mapRef.current = null;
+    };
+    // The map is made once per project.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [props.projectId]);
+
+  const { data, view, layers, zoneFilter, selected, assigned, bands, flyTo } = props;
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !data) return;
+    const collection = buildCellFeatures(data);
+    (map.getSource("cells") as GeoJSONSource).setData(collection);
+    selectedState.current.clear();
+    assignedState.current.clear();
+    if (!fitted.current && collection.features.length > 0) {
+      let west = Infinity, south = Infinity, east = -Infinity, north = -Infinity;
+      for (const feature of collection.features) for (const [lon, lat] of feature.geometry.coordinates[0]) {
+        west = Math.min(west, lon); east = Math.max(east, lon); south = Math.min(south, lat); north = Math.max(north, lat);
+      }
+      map.fitBounds([[west, south], [east, north]], { padding: 30, animate: false });
+      fitted.current = true;
+    }
+    map.once("idle", () => container.current?.setAttribute("data-cells-drawn", String(collection.features.length)));
+  }, [ready, data]);
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !data) return;
+    map.setPaintProperty("cells-fill", "fill-color", fillColour(view, data) as never);
+  }, [ready, data, view]);
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map) return;
+    for (const [key, ids] of Object.entries(LAYER_GROUPS) as Array<[LayerKey, string[]]>) {
+      for (const id of ids) map.setLayoutProperty(id, "visibility", layers[key] ? "visible" : "none");
+    }
+  }, [ready, layers]);
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map) return;
+    const filter = zoneFilter === null ? null : ["==", ["get", "z"], zoneFilter];
+    for (const id of LAYER_GROUPS.cells.concat("cell-labels")) map.setFilter(id, filter as never);
+  }, [ready, zoneFilter]);
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !data) return;
+    setFeatureStates(map, "selected", selected, selectedState.current);
+    setFeatureStates(map, "assigned", assigned, assignedState.current);
+  }, [ready, data, selected, assigned]);
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !bands) return;
+    (map.getSource("bands") as GeoJSONSource).setData(bands.collection as never);
+    const lowers = bands.collection.features.map((feature) => Number(feature.properties?.lower ?? -1e9));
+    map.setPaintProperty("bands-fill", "fill-color", bandColour(bands.surface, lowers) as never);
+  }, [ready, bands]);
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !flyTo) return;
+    map.easeTo({ center: flyTo.lonLat, zoom: Math.max(map.getZoom(), 19), duration: 300 });
+  }, [ready, flyTo]);
+
+  return (
+    <div className="relative h-[560px] w-full overflow-hidden rounded border border-line">
+      <div ref={container} className="absolute inset-0" data-testid="coverage-map" data-map-ready={ready ? "yes" : "no"} />
+      <div ref={box} className="pointer-events-none absolute hidden border-2 border-dashed border-[#d4145a] bg-[#d4145a]/10" />
+    </div>
+  );
+}

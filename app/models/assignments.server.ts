@@ -1,0 +1,335 @@
+import { Op, UniqueConstraintError } from "sequelize";
+import { z } from "zod";
+import { cellIndex, cellLabel as cellLabelOf } from "../../shared/grid/cell-grid";
+import { exceedsNoDecompressionLimit, noDecompressionLimit, NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE, type NoDecompressionLookup } from "../../shared/no-decompression";
+import { MAP_STATUSES } from "../../shared/palette";
+import { convertLength } from "../../shared/units";
+import { Assignment, DiveTeam, getSequelize, type DiveTeamMember } from "~/lib/db.server";
+import { getProjectSurfaces } from "~/lib/map/project-surfaces.server";
+import { sendMail } from "~/lib/mail.server";
+import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
+import { getCellsPayload, type CellsPayload } from "./cells.server";
+import type { ProjectView } from "./project.server";
+import type { UserView } from "./user.server";
+
+/** Dive plans: the day's cells per team, refused when a cell would go to two teams on one day. */
+
+export const workDateSchema = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, "a work date is written YYYY-MM-DD")
+  .refine((value) => !Number.isNaN(Date.parse(`${value}T00:00:00Z`)) && new Date(`${value}T00:00:00Z`).toISOString().startsWith(value), "that date does not exist");
+
+export const assignmentInputSchema = z.object({
+  date: workDateSchema,
+  /** The team's name or id. */
+  team: z.union([z.string().trim().min(1).max(120), z.number().int().positive()]),
+  cells: z.array(z.string().trim().min(1).max(16)).min(1, "choose at least one cell").max(5000),
+  hose: z.string().trim().min(1, "name the hose or station").max(120),
+  notes: z.string().max(4000).default(""),
+  /** Planned bottom time per dive, minutes (checked against the no-decompression figure). */
+  bottomTimeMinutes: z.number().int().min(1).max(600).nullish(),
+  /** Required when a cell is already confirmed by the closeout survey. */
+  reason: z.string().trim().max(2000).nullish(),
+});
+export type AssignmentInput = z.infer<typeof assignmentInputSchema>;
+
+export interface DiveTeamView {
+  id: number;
+  name: string;
+  station: string;
+  hoses: string[];
+  members: DiveTeamMember[];
+  belowMinimum: boolean;
+}
+
+export async function listDiveTeams(project: ProjectView): Promise<DiveTeamView[]> {
+  const teams = await DiveTeam.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["id", "ASC"]] });
+  return teams.map((team) => presentTeam(team, project));
+}
+
+function presentTeam(team: DiveTeam, project: ProjectView): DiveTeamView {
+  const members = parseJson<DiveTeamMember[]>(team.members);
+  return { id: team.id, name: team.name, station: team.station, hoses: parseJson<string[]>(team.hoses), members, belowMinimum: members.length < project.minTeamSize };
+}
+
+function parseJson<T>(value: unknown): T {
+  return (typeof value === "string" ? JSON.parse(value) : value) as T;
+}
+
+export interface NoDecompressionInfo {
+  depthFt: number;
+  lookup: NoDecompressionLookup;
+  exceeds: boolean | null;
+}
+
+/** Table figures for a working depth (project unit); the depth enters as measured in feet (fresh water read as sea water). */
+export function noDecompressionInfo(workingDepth: number | null, unit: ProjectView["lengthUnit"], bottomTimeMinutes: number | null): NoDecompressionInfo | null {
+  if (workingDepth === null || !Number.isFinite(workingDepth)) return null;
+  const depthFt = Math.max(0, convertLength(workingDepth, unit, "ft"));
+  return { depthFt, lookup: noDecompressionLimit(depthFt), exceeds: bottomTimeMinutes === null ? null : exceedsNoDecompressionLimit(depthFt, bottomTimeMinutes) };
+}
+
+export type CreateOutcome =
+  | { status: 201; body: { date: string; team: string; cells: string[]; teamBelowMinimum: { size: number; minimum: number } | null; workingDepths: Record<string, number | null>; noDecompression: Record<string, NoDecompressionInfo | null>; caution: string; source: string } }
+  | { status: 404; body: { error: string } }
+  | { status: 409; body: { error: string; team: string; conflicts: Array<{ cell: string; team: string }> } }
+  | { status: 422; body: { error: string; code: "unknown-cells" | "reason-required" | "unknown-hose"; cells?: string[] } };
+
+function cellLookup(payload: CellsPayload) {
+  const { grid } = payload;
+  return (label: string) => {
+    if (!grid) return null;
+    const index = labelIndex(payload).get(label.toUpperCase());
+    return index === undefined ? null : index;
+  };
+}
+
+const labelIndexCache = new WeakMap<CellsPayload, Map<string, number>>();
+function labelIndex(payload: CellsPayload): Map<string, number> {
+  let map = labelIndexCache.get(payload);
+  if (map) return map;
+  map = new Map();
+  const grid = payload.grid;
+  if (grid) {
+    for (let index = 0; index < payload.status.length; index++) {
+      if (payload.status[index] < 0) continue;
+      const row = Math.floor(index / grid.cols) + grid.firstRow;
+      const col = (index % grid.cols) + grid.firstCol;
+      map.set(cellLabelOf(row, col), index);
+    }
+  }
+  labelIndexCache.set(payload, map);
+  return map;
+}
+
+async function conflictsFor(projectId: number, date: string, cells: Array<{ row: number; col: number }>) {
+  const existing = await Assignment.findAll({
+    where: { projectId, workDate: date, [Op.or]: cells.map(({ row, col }) => ({ row, col })) },
+    include: [{ model: DiveTeam, as: "team", attributes: ["name"] }],
+    order: [["label", "ASC"]],
+  });
+  return existing.map((assignment) => ({ cell: assignment.label, team: assignment.team?.name ?? "another team" }));
+}
+
+/** Working depth per grid index from the latest bottom (deepest point in the cell), project unit. */
+async function workingDepths(projectId: number): Promise<Float64Array | null> {
+  const surfaces = await getProjectSurfaces(projectId);
+  return surfaces ? surfaces.cellMaxDepth : null;
+}
+
+export async function createAssignments(project: ProjectView, user: UserView, input: AssignmentInput, ip: string | null = null): Promise<CreateOutcome> {
+  const teams = await DiveTeam.findAll({ where: { projectId: project.id } });
+  const team = teams.find((candidate) => (typeof input.team === "number" ? candidate.id === input.team : candidate.name.toLowerCase() === input.team.toLowerCase()));
+  if (!team) return { status: 404, body: { error: `There is no dive team "${input.team}" on this project.` } };
+  const teamView = presentTeam(team, project);
+  if (teamView.hoses.length > 0 && !teamView.hoses.includes(input.hose)) {
+    return { status: 422, body: { error: `${team.name} has no hose or station "${input.hose}" (it has ${teamView.hoses.join(", ")}).`, code: "unknown-hose" } };
+  }
+  const payload = await getCellsPayload(project);
+  const lookup = cellLookup(payload);
+  const labels = [...new Set(input.cells.map((label) => label.toUpperCase()))];
+  const unknown = labels.filter((label) => lookup(label) === null);
+  if (unknown.length > 0) return { status: 422, body: { error: `These cells are not inside the work limit: ${unknown.join(", ")}.`, code: "unknown-cells", cells: unknown } };
+  const grid = payload.grid!;
+  const cells = labels.map((label) => {
+    const index = lookup(label)!;
+    return { label, index, row: Math.floor(index / grid.cols) + grid.firstRow, col: (index % grid.cols) + grid.firstCol };
+  });
+  const confirmedCode = MAP_STATUSES.indexOf("confirmed");
+  const confirmed = cells.filter((cell) => payload.status[cell.index] === confirmedCode).map((cell) => cell.label);
+  const reason = input.reason?.trim() || null;
+  if (confirmed.length > 0 && !reason) {
+    return { status: 422, body: { error: `Cells ${confirmed.join(", ")} are confirmed by the closeout survey. Say why they go back into work.`, code: "reason-required", cells: confirmed } };
+  }
+  const refused = (conflicts: Array<{ cell: string; team: string }>): CreateOutcome => {
+    const others = [...new Set(conflicts.map((conflict) => conflict.team))].join(" and ");
+    return {
+      status: 409,
+      body: {
+        error: `Cells ${conflicts.map((conflict) => conflict.cell).join(", ")} are already assigned to ${others} on ${input.date}; a cell goes to one team per day, so they cannot also go to ${team.name}.`,
+        team: team.name,
+        conflicts,
+      },
+    };
+  };
+  const depths = await workingDepths(project.id);
+  const depthOf = (index: number) => {
+    const value = depths?.[index];
+    return value === undefined || !Number.isFinite(value) ? null : Math.round(value * 100) / 100;
+  };
+  try {
+    await getSequelize().transaction(async (transaction) => {
+      const conflicts = await conflictsFor(project.id, input.date, cells);
+      if (conflicts.length > 0) throw new ConflictError(conflicts);
+      await Assignment.bulkCreate(
+        cells.map((cell) => ({
+          projectId: project.id,
+          workDate: input.date,
+          teamId: team.id,
+          row: cell.row,
+          col: cell.col,
+          label: cell.label,
+          hose: input.hose,
+          notes: input.notes ?? "",
+          workingDepth: depthOf(cell.index),
+          plannedBottomMinutes: input.bottomTimeMinutes ?? null,
+          confirmedReason: confirmed.includes(cell.label) ? reason : null,
+          createdById: user.id,
+        })),
+        { transaction },
+      );
+      await recordAudit({ action: AUDIT_ACTIONS.assignmentCreated, projectId: project.id, userId: user.id, ip, detail: { date: input.date, team: team.name, hose: input.hose, cells: labels, confirmedReason: confirmed.length > 0 ? reason : undefined } }, transaction);
+    });
+  } catch (error) {
+    if (error instanceof ConflictError) return refused(error.conflicts);
+    if (error instanceof UniqueConstraintError) return refused(await conflictsFor(project.id, input.date, cells));
+    throw error;
+  }
+  const workingDepthsByCell: Record<string, number | null> = {};
+  const noDecompression: Record<string, NoDecompressionInfo | null> = {};
+  for (const cell of cells) {
+    workingDepthsByCell[cell.label] = depthOf(cell.index);
+    noDecompression[cell.label] = noDecompressionInfo(depthOf(cell.index), project.lengthUnit, input.bottomTimeMinutes ?? null);
+  }
+  return {
+    status: 201,
+    body: {
+      date: input.date,
+      team: team.name,
+      cells: labels,
+      teamBelowMinimum: teamView.belowMinimum ? { size: teamView.members.length, minimum: project.minTeamSize } : null,
+      workingDepths: workingDepthsByCell,
+      noDecompression,
+      caution: NO_DECOMPRESSION_CAUTION,
+      source: NO_DECOMPRESSION_SOURCE,
+    },
+  };
+}
+
+class ConflictError extends Error {
+  constructor(readonly conflicts: Array<{ cell: string; team: string }>) {
+    super("cells already assigned");
+  }
+}
+
+export interface PlanCellView {
+  label: string;
+  zone: string | null;
+  hose: string;
+  notes: string;
+  workingDepth: number | null;
+  plannedBottomMinutes: number | null;
+  noDecompression: NoDecompressionInfo | null;
+  remainingThickness: number | null;
+  remainingVolume: number | null;
+  status: string | null;
+  confirmedReason: string | null;
+}
+
+export interface DayPlanView {
+  date: string;
+  lengthLabel: string;
+  volumeLabel: string;
+  minTeamSize: number;
+  teams: Array<{ team: DiveTeamView; cells: PlanCellView[]; remainingVolume: number }>;
+  caution: string;
+  source: string;
+}
+
+/** The day's plan: every team with its cells (teams without cells that day are left out). */
+export async function getDayPlan(project: ProjectView, date: string): Promise<DayPlanView> {
+  const [assignments, teams, payload] = await Promise.all([
+    Assignment.findAll({ where: { projectId: project.id, workDate: date }, order: [["label", "ASC"]] }),
+    listDiveTeams(project),
+    getCellsPayload(project),
+  ]);
+  const grid = payload.grid;
+  const byTeam = new Map<number, PlanCellView[]>();
+  for (const assignment of assignments) {
+    const index = grid ? cellIndex(grid, assignment.row, assignment.col) : -1;
+    const zoneIndex = index >= 0 ? payload.zone[index] : -1;
+    const cells = byTeam.get(assignment.teamId) ?? [];
+    cells.push({
+      label: assignment.label,
+      zone: zoneIndex >= 0 ? payload.zones[zoneIndex].name : null,
+      hose: assignment.hose,
+      notes: assignment.notes,
+      workingDepth: assignment.workingDepth,
+      plannedBottomMinutes: assignment.plannedBottomMinutes,
+      noDecompression: noDecompressionInfo(assignment.workingDepth, project.lengthUnit, assignment.plannedBottomMinutes),
+      remainingThickness: index >= 0 ? payload.remainingThickness[index] : null,
+      remainingVolume: index >= 0 ? payload.remainingVolume[index] : null,
+      status: index >= 0 && payload.status[index] >= 0 ? MAP_STATUSES[payload.status[index]] : null,
+      confirmedReason: assignment.confirmedReason,
+    });
+    byTeam.set(assignment.teamId, cells);
+  }
+  return {
+    date,
+    lengthLabel: payload.labels.length,
+    volumeLabel: payload.labels.volume,
+    minTeamSize: project.minTeamSize,
+    teams: teams
+      .filter((team) => byTeam.has(team.id))
+      .map((team) => {
+        const cells = byTeam.get(team.id)!;
+        return { team, cells, remainingVolume: Math.round(cells.reduce((sum, cell) => sum + (cell.remainingVolume ?? 0), 0) * 10) / 10 };
+      }),
+    caution: NO_DECOMPRESSION_CAUTION,
+    source: NO_DECOMPRESSION_SOURCE,
+  };
+}
+
+function formatNoDecompression(info: NoDecompressionInfo | null): string {
+  if (!info) return "depth unknown";
+  const { lookup } = info;
+  if (lookup.kind === "unlimited") return `${lookup.tableDepthFsw} fsw row: no limit listed`;
+  if (lookup.kind === "beyond-table") return "deeper than the rows held: see the full table and the dive plan";
+  return `${lookup.tableDepthFsw} fsw row: ${lookup.limitMinutes} min${info.exceeds ? " (PLANNED BOTTOM TIME EXCEEDS IT)" : ""}`;
+}
+
+/** The plan sheet as plain text, one team. */
+export function planSheetText(project: ProjectView, plan: DayPlanView, teamIndex: number, planUrl: string): string {
+  const { team, cells } = plan.teams[teamIndex];
+  const lines = [
+    `${project.name}: dive plan for ${plan.date}, ${team.name}${team.station ? ` (${team.station})` : ""}`,
+    "",
+    `CAUTION: ${plan.caution}`,
+    team.belowMinimum ? `FLAG: ${team.name} lists ${team.members.length} people; the project's minimum team size is ${plan.minTeamSize}.` : "",
+    "",
+    `Cell | zone | hose | working depth (${plan.lengthLabel}) | no-decompression figure | remaining thickness (${plan.lengthLabel}) | remaining (${plan.volumeLabel}) | notes`,
+    ...cells.map((cell) =>
+      [cell.label, cell.zone ?? "-", cell.hose, cell.workingDepth ?? "-", formatNoDecompression(cell.noDecompression), cell.remainingThickness ?? "-", cell.remainingVolume ?? "-", cell.notes || "-"].join(" | "),
+    ),
+    "",
+    `No-decompression figures: ${plan.source}.`,
+    `The plan on Firmsand: ${planUrl}`,
+  ];
+  return lines.filter((line, index) => line !== "" || lines[index - 1] !== "").join("\n");
+}
+
+/** E-mails each team's part of the day's plan to its members; returns the addresses written to. */
+export async function emailDayPlan(project: ProjectView, user: UserView, date: string, planUrl: string, ip: string | null = null): Promise<string[]> {
+  const plan = await getDayPlan(project, date);
+  const sentTo: string[] = [];
+  for (const [index, { team }] of plan.teams.entries()) {
+    const text = planSheetText(project, plan, index, planUrl);
+    for (const member of team.members) {
+      await sendMail({ to: member.email, subject: `Dive plan ${date}: ${team.name} (${project.name})`, text });
+      sentTo.push(member.email);
+    }
+  }
+  await recordAudit({ action: AUDIT_ACTIONS.planEmailed, projectId: project.id, userId: user.id, ip, detail: { date, to: sentTo } });
+  return sentTo;
+}
+
+/** One cell's assignments, newest first, for the inspector. */
+export async function cellAssignments(project: ProjectView, row: number, col: number) {
+  const rows = await Assignment.findAll({
+    where: { projectId: project.id, row, col },
+    include: [{ model: DiveTeam, as: "team", attributes: ["name"] }],
+    order: [["workDate", "DESC"]],
+    limit: 20,
+  });
+  return rows.map((assignment) => ({ date: assignment.workDate, team: assignment.team?.name ?? "", hose: assignment.hose, notes: assignment.notes }));
+}

@@ -1,0 +1,188 @@
+import { cellCentroid, cellIndex, createCellGrid, type CellGrid } from "../../shared/grid/cell-grid";
+import { isInsideWorkLimit } from "../../shared/grid/work-limit";
+import { MAP_STATUSES, OUTSIDE_WORK_LIMIT, type MapStatus } from "../../shared/palette";
+import { unitLabel, type LengthUnit } from "../../shared/units";
+import { CellResult, SurveySnapshot, Zone } from "~/lib/db.server";
+import { getProjectSurfaces } from "~/lib/map/project-surfaces.server";
+import { resolveCrsDefinition } from "~/lib/epsg.server";
+import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import type { ProjectView } from "./project.server";
+
+/**
+ * The map's cell data: the grid definition and compact per-cell arrays laid row-major over the
+ * grid (index = (row − firstRow) · cols + (col − firstCol)). The browser builds the cell outlines
+ * from the definition, so the payload grows by a few bytes per cell, never by a polygon per cell.
+ */
+export interface CellsPayload {
+  projectId: number;
+  crs: { code: string; definition: string };
+  lengthUnit: LengthUnit;
+  labels: { length: string; volume: string };
+  grid: CellGrid | null;
+  statuses: readonly MapStatus[];
+  zones: Array<{ id: number; name: string }>;
+  computedAt: string | null;
+  /** Status codes into `statuses`; −1 outside the work limit. */
+  status: number[];
+  /** Mean remaining thickness (length unit), 0.01; null where nothing was surveyed. */
+  remainingThickness: Array<number | null>;
+  /** Volumes in the project volume unit, 0.1. */
+  removedVolume: number[];
+  remainingVolume: number[];
+  plannedVolume: number[];
+  /** Surveyed share of the cell, 0.001. */
+  coverage: number[];
+  /** Index into `zones`; −1 for none. */
+  zone: number[];
+}
+
+const roundTo = (digits: number) => (value: number) => Number(value.toFixed(digits));
+
+export async function projectCellGrid(project: ProjectView): Promise<CellGrid | null> {
+  const geometry = await loadProjectGeometry(project.id);
+  if (!geometry.workLimit) return null;
+  const { settings } = geometry;
+  return createCellGrid(geometry.workLimit, {
+    cellSize: settings.cellSize,
+    originX: settings.originX,
+    originY: settings.originY,
+    rotationDegrees: settings.rotationDegrees,
+  });
+}
+
+export async function getCellsPayload(project: ProjectView): Promise<CellsPayload> {
+  const grid = await projectCellGrid(project);
+  const zones = await Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["id", "ASC"]], attributes: ["id", "name"] });
+  const zoneIndex = new Map(zones.map((zone, index) => [zone.id, index]));
+  const count = grid ? grid.cols * grid.rows : 0;
+  const status = new Array<number>(count).fill(OUTSIDE_WORK_LIMIT);
+  const remainingThickness = new Array<number | null>(count).fill(null);
+  const removedVolume = new Array<number>(count).fill(0);
+  const remainingVolume = new Array<number>(count).fill(0);
+  const plannedVolume = new Array<number>(count).fill(0);
+  const coverage = new Array<number>(count).fill(0);
+  const zone = new Array<number>(count).fill(-1);
+  let computedAt: Date | null = null;
+  if (grid) {
+    const rows = await CellResult.findAll({
+      where: { projectId: project.id },
+      attributes: ["row", "col", "status", "meanRemainingThickness", "removedVolume", "remainingVolume", "plannedVolume", "coverage", "zoneId", "computedAt"],
+      raw: true,
+    });
+    const two = roundTo(2), one = roundTo(1), three = roundTo(3);
+    for (const cell of rows) {
+      const index = cellIndex(grid, cell.row, cell.col);
+      if (index < 0) continue;
+      status[index] = MAP_STATUSES.indexOf(cell.status);
+      remainingThickness[index] = cell.meanRemainingThickness === null ? null : two(cell.meanRemainingThickness);
+      removedVolume[index] = one(cell.removedVolume);
+      remainingVolume[index] = one(cell.remainingVolume);
+      plannedVolume[index] = one(cell.plannedVolume);
+      coverage[index] = three(cell.coverage);
+      zone[index] = cell.zoneId === null ? -1 : zoneIndex.get(cell.zoneId) ?? -1;
+      if (!computedAt || cell.computedAt > computedAt) computedAt = new Date(cell.computedAt);
+    }
+    if (rows.length === 0) await markCellsInLimit(project, grid, status);
+  }
+  return {
+    projectId: project.id,
+    crs: { code: project.crs, definition: resolveCrsDefinition(project.crs).definition },
+    lengthUnit: project.lengthUnit,
+    labels: { length: unitLabel(project.lengthUnit), volume: unitLabel(project.lengthUnit, "volume") },
+    grid,
+    statuses: MAP_STATUSES,
+    zones: zones.map((row) => ({ id: row.id, name: row.name })),
+    computedAt: computedAt ? computedAt.toISOString() : null,
+    status,
+    remainingThickness,
+    removedVolume,
+    remainingVolume,
+    plannedVolume,
+    coverage,
+    zone,
+  };
+}
+
+/** Before the first computation, every cell whose centre lies inside the work limit is `no-data`. */
+async function markCellsInLimit(project: ProjectView, grid: CellGrid, status: number[]) {
+  const geometry = await loadProjectGeometry(project.id);
+  if (!geometry.workLimit) return;
+  const noData = MAP_STATUSES.indexOf("no-data");
+  for (let localRow = 0; localRow < grid.rows; localRow++) {
+    for (let localCol = 0; localCol < grid.cols; localCol++) {
+      const [easting, northing] = cellCentroid(grid, grid.firstRow + localRow, grid.firstCol + localCol);
+      if (isInsideWorkLimit(geometry.workLimit, easting, northing)) status[localRow * grid.cols + localCol] = noData;
+    }
+  }
+}
+
+/** The inverse of cellLabel ("B12" → row 11, col 1; "-A-2" → row −2, col −1); null for anything else. */
+export function parseCellLabel(label: string): { row: number; col: number } | null {
+  const match = /^(-?)([A-Z]{1,4})(-?)(\d{1,7})$/.exec(label.trim().toUpperCase());
+  if (!match) return null;
+  let letters = 0;
+  for (const letter of match[2]) letters = letters * 26 + (letter.charCodeAt(0) - 64);
+  const number = Number(match[4]);
+  if (number === 0) return null;
+  const col = match[1] ? -letters : letters - 1;
+  const row = match[3] ? -number : number - 1;
+  return { row, col };
+}
+
+export interface CellDetail {
+  label: string;
+  row: number;
+  col: number;
+  zone: string | null;
+  status: MapStatus;
+  plannedVolume: number;
+  removedVolume: number;
+  depositedVolume: number;
+  remainingVolume: number;
+  meanRemainingThickness: number | null;
+  coverage: number;
+  areaInLimit: number;
+  soundings: number | null;
+  workingDepth: number | null;
+  history: Array<{ date: string; remainingVolume: number; removedVolume: number; status: MapStatus | null }>;
+  assignments: Array<{ date: string; team: string; hose: string; notes: string }>;
+}
+
+/** One cell's figures, soundings, history across survey dates and its assignments; null when the cell has no figures. */
+export async function getCellDetail(project: ProjectView, label: string): Promise<CellDetail | null> {
+  const position = parseCellLabel(label);
+  if (!position) return null;
+  const cell = await CellResult.findOne({ where: { projectId: project.id, row: position.row, col: position.col }, include: [{ model: Zone, as: "zone", attributes: ["name"] }] });
+  if (!cell) return null;
+  const snapshots = await SurveySnapshot.findAll({ where: { projectId: project.id }, order: [["surveyedOn", "ASC"]] });
+  const history = snapshots.map((snapshot) => {
+    const localRow = position.row - snapshot.firstRow, localCol = position.col - snapshot.firstCol;
+    const inside = localRow >= 0 && localRow < snapshot.cellRows && localCol >= 0 && localCol < snapshot.cellCols;
+    const index = localRow * snapshot.cellCols + localCol;
+    const float = (blob: Buffer) => (inside ? Number(blob.readFloatLE(index * 4).toFixed(1)) : 0);
+    const code = inside ? snapshot.statuses[index] : 255;
+    return { date: snapshot.surveyedOn, remainingVolume: float(snapshot.remainingVolumes), removedVolume: float(snapshot.removedVolumes), status: MAP_STATUSES[code] ?? null };
+  });
+  const surfaces = await getProjectSurfaces(project.id);
+  const engineIndex = surfaces ? cellIndex(surfaces.result.cellGrid, position.row, position.col) : -1;
+  const depth = engineIndex >= 0 ? surfaces!.cellMaxDepth[engineIndex] : Number.NaN;
+  const { cellAssignments } = await import("./assignments.server");
+  return {
+    label: cell.label,
+    row: cell.row,
+    col: cell.col,
+    zone: (cell as CellResult & { zone?: Zone | null }).zone?.name ?? null,
+    status: cell.status,
+    plannedVolume: cell.plannedVolume,
+    removedVolume: cell.removedVolume,
+    depositedVolume: cell.depositedVolume,
+    remainingVolume: cell.remainingVolume,
+    meanRemainingThickness: cell.meanRemainingThickness,
+    coverage: cell.coverage,
+    areaInLimit: cell.areaInLimit,
+    soundings: engineIndex >= 0 ? surfaces!.soundingsPerCell[engineIndex] : null,
+    workingDepth: Number.isFinite(depth) ? Math.round(depth * 100) / 100 : null,
+    history,
+    assignments: await cellAssignments(project, cell.row, cell.col),
+  };
+}

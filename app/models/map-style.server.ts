@@ -1,0 +1,73 @@
+import { Shoreline, Zone } from "~/lib/db.server";
+import { STATUS_COLOURS } from "../../shared/palette";
+import { findProject } from "./project.server";
+import type { ProjectView } from "./project.server";
+
+/**
+ * The map's offline style: no tiles, no CDN, no glyphs URL. Everything drawn comes from the
+ * project's own data (work limit, zones, optional shoreline) and from layers the page fills
+ * (cells, bands). Labels use the shipped Roboto Mono through the page's CSS font: MapLibre 5.11+
+ * draws text locally from the family named in `text-font` when the style has no `glyphs`.
+ */
+export const MAP_FONT = "Roboto Mono";
+export const LAND_COLOUR = "#eeede6";
+export const WATER_COLOUR = "#cfe2e8";
+
+const emptyCollection = { type: "FeatureCollection", features: [] } as const;
+
+function parse(json: string | null | undefined): unknown {
+  return json ? JSON.parse(json) : null;
+}
+
+export async function buildMapStyle(project: ProjectView) {
+  const row = await findProject(project.id);
+  const workLimit = parse(row?.workLimitGeoJson);
+  const zones = await Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["id", "ASC"]] });
+  const shoreline = await Shoreline.findOne({ where: { projectId: project.id } });
+  const zoneFeatures = zones.map((zone, index) => ({ type: "Feature", id: index, properties: { name: zone.name, zone: index }, geometry: JSON.parse(zone.polygonGeoJson) }));
+  const textFont = [MAP_FONT];
+  return {
+    version: 8,
+    name: `Firmsand offline map: ${project.name}`,
+    metadata: { "firmsand:offline": true },
+    sources: {
+      "work-limit": { type: "geojson", data: workLimit ? { type: "Feature", properties: {}, geometry: workLimit } : emptyCollection },
+      zones: { type: "geojson", data: { type: "FeatureCollection", features: zoneFeatures } },
+      shoreline: { type: "geojson", data: shoreline ? JSON.parse(shoreline.geoJson) : emptyCollection },
+      cells: { type: "geojson", data: emptyCollection },
+      bands: { type: "geojson", data: emptyCollection },
+    },
+    layers: [
+      { id: "background", type: "background", paint: { "background-color": LAND_COLOUR } },
+      { id: "shoreline-water", type: "fill", source: "shoreline", paint: { "fill-color": WATER_COLOUR } },
+      { id: "shoreline-edge", type: "line", source: "shoreline", paint: { "line-color": "#7d9ba5", "line-width": 1 } },
+      { id: "work-limit-water", type: "fill", source: "work-limit", paint: { "fill-color": WATER_COLOUR } },
+      {
+        id: "cells-fill", type: "fill", source: "cells",
+        paint: { "fill-color": STATUS_COLOURS["no-data"], "fill-opacity": 1 },
+      },
+      { id: "cells-grid", type: "line", source: "cells", minzoom: 17, paint: { "line-color": "#ffffff", "line-width": 0.5, "line-opacity": 0.6 } },
+      { id: "bands-fill", type: "fill", source: "bands", layout: { visibility: "none" }, paint: { "fill-color": "#999999", "fill-opacity": 0.75 } },
+      { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": "#3d4a50", "line-width": 1.5, "line-dasharray": [3, 2] } },
+      { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": "#a3242a", "line-width": 2 } },
+      {
+        id: "cells-assigned", type: "line", source: "cells",
+        paint: { "line-color": "#1d2528", "line-width": ["case", ["boolean", ["feature-state", "assigned"], false], 2, 0], "line-dasharray": [1, 1] },
+      },
+      {
+        id: "cells-selected", type: "line", source: "cells",
+        paint: { "line-color": "#d4145a", "line-width": ["case", ["boolean", ["feature-state", "selected"], false], 3, 0] },
+      },
+      {
+        id: "cell-labels", type: "symbol", source: "cells", minzoom: 19,
+        layout: { "text-field": ["get", "label"], "text-font": textFont, "text-size": 10, "text-allow-overlap": false },
+        paint: { "text-color": "#1d2528", "text-halo-color": "#ffffff", "text-halo-width": 1.2 },
+      },
+      {
+        id: "zone-labels", type: "symbol", source: "zones",
+        layout: { "text-field": ["get", "name"], "text-font": textFont, "text-size": 13, "text-allow-overlap": true, "text-ignore-placement": true },
+        paint: { "text-color": "#0d4650", "text-halo-color": "#ffffff", "text-halo-width": 1.5 },
+      },
+    ],
+  };
+}

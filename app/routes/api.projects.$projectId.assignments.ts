@@ -1,0 +1,33 @@
+import { z } from "zod";
+import { requireRole } from "~/lib/access.server";
+import { clientAddress } from "~/lib/client-address.server";
+import { assignmentInputSchema, createAssignments, getDayPlan, workDateSchema } from "~/models/assignments.server";
+import type { Route } from "./+types/api.projects.$projectId.assignments";
+
+const querySchema = z.object({ date: workDateSchema });
+
+// GET /api/projects/<id>/assignments?date=YYYY-MM-DD — the day's plan (any member).
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { project } = await requireRole(request, params.projectId);
+  const query = querySchema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
+  if (!query.success) return Response.json({ error: query.error.issues.map((issue) => issue.message).join("; ") }, { status: 400 });
+  return Response.json(await getDayPlan(project, query.data.date));
+}
+
+// POST /api/projects/<id>/assignments — {date, team, cells, hose, notes}: dive supervisors and managers only.
+export async function action({ request, params }: Route.ActionArgs) {
+  if (request.method !== "POST") return Response.json({ error: "Use POST." }, { status: 405 });
+  const { user, project } = await requireRole(request, params.projectId, "dive-supervisor", "manager");
+  let body: unknown;
+  try {
+    body = await request.json();
+  } catch {
+    return Response.json({ error: "The request body must be JSON." }, { status: 400 });
+  }
+  const input = assignmentInputSchema.safeParse(body);
+  if (!input.success) {
+    return Response.json({ error: input.error.issues.map((issue) => `${issue.path.join(".") || "body"}: ${issue.message}`).join("; ") }, { status: 400 });
+  }
+  const outcome = await createAssignments(project, user, input.data, clientAddress(request));
+  return Response.json(outcome.body, { status: outcome.status });
+}

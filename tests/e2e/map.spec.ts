@@ -1,0 +1,149 @@
+import { request as playwrightRequest, type Page } from "@playwright/test";
+import { STATUS_COLOURS, MAP_STATUSES, hexToRgb } from "../../shared/palette";
+import { cellCentreLonLat, labelIndex, type CellsData } from "../../app/components/map/cell-features";
+import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, waitForMail } from "./fixtures";
+
+let projectId: number;
+
+test.beforeAll(async ({ baseURL }) => {
+  const context = await playwrightRequest.newContext({ baseURL });
+  projectId = await demoProjectId(context, baseURL!);
+  await context.dispose();
+});
+
+async function openMap(page: Page): Promise<CellsData> {
+  const cellsResponse = page.waitForResponse((response) => response.url().endsWith(`/api/projects/${projectId}/cells`));
+  await page.goto(`/projects/${projectId}/map`);
+  const data = (await (await cellsResponse).json()) as CellsData;
+  await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-cells-drawn", /\d+/, { timeout: 20_000 });
+  return data;
+}
+
+/** The canvas pixel at a cell's centre, read back through the preserved drawing buffer. */
+async function pixelAt(page: Page, lonLat: [number, number]): Promise<[number, number, number]> {
+  return page.evaluate(([lon, lat]) => {
+    const map = (window as unknown as { firmsandMap: { project(lngLat: [number, number]): { x: number; y: number }; getCanvas(): HTMLCanvasElement } }).firmsandMap;
+    const point = map.project([lon, lat]);
+    const canvas = map.getCanvas();
+    const copy = document.createElement("canvas");
+    copy.width = canvas.width;
+    copy.height = canvas.height;
+    const context = copy.getContext("2d")!;
+    context.drawImage(canvas, 0, 0);
+    const ratio = canvas.width / canvas.clientWidth;
+    const data = context.getImageData(Math.round(point.x * ratio), Math.round(point.y * ratio), 1, 1).data;
+    return [data[0], data[1], data[2]] as [number, number, number];
+  }, lonLat);
+}
+
+test("the map draws the demo's cells in their status colours, with labels, from the app alone", async ({ page, signIn }) => {
+  await signIn("viewer");
+  const data = await openMap(page);
+  await expect(page.getByRole("figure", { name: "Legend" })).toContainText("At firm sand");
+  // Zone labels are placed with the shipped font and no glyphs URL (the offline guard fails any outside request).
+  await expect.poll(() => page.evaluate(() => (window as unknown as { firmsandMap: { queryRenderedFeatures(o: object): unknown[] } }).firmsandMap.queryRenderedFeatures({ layers: ["zone-labels"] }).length)).toBeGreaterThan(0);
+  // Hide labels and outlines so cell centres show the bare fill colour.
+  for (const name of ["Labels", "Zones", "Work limit"]) await page.getByLabel(name, { exact: true }).uncheck();
+  await page.waitForTimeout(500);
+  const checked: string[] = [];
+  for (const [code, status] of MAP_STATUSES.entries()) {
+    const index = data.status.findIndex((value, cell) => value === code && neighboursShare(data, cell, code));
+    if (index < 0) continue;
+    const [red, green, blue] = await pixelAt(page, cellCentreLonLat(data, index));
+    const [expectedRed, expectedGreen, expectedBlue] = hexToRgb(STATUS_COLOURS[status]);
+    const off = Math.max(Math.abs(red - expectedRed), Math.abs(green - expectedGreen), Math.abs(blue - expectedBlue));
+    expect(off, `${status} cell at grid index ${index}: got rgb(${red}, ${green}, ${blue}), palette ${STATUS_COLOURS[status]}`).toBeLessThanOrEqual(6);
+    checked.push(status);
+  }
+  expect(checked.length).toBeGreaterThan(0);
+});
+
+/** A cell whose four neighbours share its status, so the centre pixel is well inside one colour. */
+function neighboursShare(data: CellsData, index: number, code: number): boolean {
+  const cols = data.grid!.cols;
+  return [index - 1, index + 1, index - cols, index + cols].every((neighbour) => data.status[neighbour] === code);
+}
+
+test("the supervisor selects cells, assigns them, opens and prints the plan, and the team gets it by e-mail", async ({ page, signIn, baseURL }) => {
+  await signIn("dive-supervisor");
+  const data = await openMap(page);
+  const labels = [...labelIndex(data).keys()];
+  const date = "2030-05-14";
+  await page.getByLabel("Search cell label").fill(labels[5]);
+  await page.getByRole("button", { name: "Find" }).click();
+  await expect(page.getByRole("region", { name: `Cell ${labels[5]}` })).toBeVisible();
+  // Arrow keys move the selection to the next cell.
+  await page.getByLabel("Cell map: arrow keys move the selected cell").focus();
+  await page.keyboard.press("ArrowRight");
+  await expect(page.getByTestId("selected-cells")).not.toHaveText(labels[5]);
+  // Shift-click adds the first cell to the selection.
+  const index = labelIndex(data).get(labels[5])!;
+  const point = await page.evaluate(([lon, lat]) => (window as unknown as { firmsandMap: { project(l: [number, number]): { x: number; y: number } } }).firmsandMap.project([lon, lat]), cellCentreLonLat(data, index));
+  const box = (await page.getByTestId("coverage-map").boundingBox())!;
+  await page.keyboard.down("Shift");
+  await page.mouse.click(box.x + point.x, box.y + point.y);
+  await page.keyboard.up("Shift");
+  await expect(page.getByTestId("selected-cells")).toContainText(labels[5]);
+  const chosen = (await page.getByTestId("selected-cells").innerText()).split(", ");
+  expect(chosen.length).toBe(2);
+
+  await page.getByLabel("Work date").fill(date);
+  await page.getByLabel("Dive team").selectOption({ label: "Team Limpkin (3 people)" });
+  await page.getByLabel("Notes").fill("Work the vent edge first");
+  if (await page.getByLabel(/Reason for working confirmed cells/).isVisible()) await page.getByLabel(/Reason for working confirmed cells/).fill("divers report new muck");
+  await page.getByRole("button", { name: "Assign" }).click();
+  await expect(page.getByRole("status")).toContainText("Assigned 2 cell(s) to Team Limpkin");
+  await expect(page.getByRole("note").first()).toContainText("verify against the current US Navy Diving Manual");
+
+  await page.getByRole("link", { name: `Open the day plan for ${date}` }).click();
+  await expect(page.getByRole("heading", { name: new RegExp(`Dive plan · ${date}`) })).toBeVisible();
+  const team = page.getByRole("region", { name: "Team Limpkin" });
+  for (const label of chosen) await expect(team.getByRole("cell", { name: label, exact: true })).toBeVisible();
+  await expect(page.getByTestId("plan-caution")).toContainText("dive safety plan");
+
+  await page.emulateMedia({ media: "print" });
+  await expect(page.getByRole("navigation", { name: "Project" })).toBeHidden();
+  await expect(page.getByRole("button", { name: "E-mail to team" })).toBeHidden();
+  await expect(page.getByTestId("plan-caution")).toBeVisible();
+  const pdf = await page.pdf({ format: "Letter", landscape: true, margin: { top: "10mm", bottom: "10mm", left: "10mm", right: "10mm" } });
+  const pages = (pdf.toString("latin1").match(/\/Type\s*\/Page[^s]/g) ?? []).length;
+  expect(pages, "the plan prints on one page").toBe(1);
+  await page.emulateMedia({ media: "screen" });
+
+  const since = new Date().toISOString();
+  await page.getByRole("button", { name: "E-mail to team" }).click();
+  await expect(page.getByRole("status")).toContainText("limpkin.diver@example.org");
+  const mail = await waitForMail("limpkin.diver@example.org", since);
+  expect(mail.subject).toContain(`Dive plan ${date}: Team Limpkin`);
+  for (const label of chosen) expect(mail.text).toContain(label);
+  expect(mail.text).toContain("CAUTION");
+
+  // The same cells for the other team on the same day are refused, naming both teams.
+  const api = await playwrightRequest.newContext({ baseURL });
+  await signInRequest(api, baseURL!, DEMO_ACCOUNTS.manager);
+  const refused = await api.post(`/api/projects/${projectId}/assignments`, {
+    data: { date, team: "Team Gar", cells: chosen, hose: "Hose C", notes: "", reason: "divers report new muck" },
+    headers: { Origin: new URL(baseURL!).origin },
+  });
+  expect(refused.status()).toBe(409);
+  const body = await refused.json();
+  expect(body.error).toContain("Team Limpkin");
+  expect(body.error).toContain("Team Gar");
+  expect(body.conflicts.map((conflict: { cell: string }) => conflict.cell).sort()).toEqual([...chosen].sort());
+  await api.dispose();
+});
+
+test("a viewer sees the map but cannot assign", async ({ page, signIn, baseURL }) => {
+  await signIn("viewer");
+  await openMap(page);
+  await expect(page.getByRole("form", { name: "Assign cells" })).toHaveCount(0);
+  await expect(page.getByText("dive supervisors and managers assign cells")).toBeVisible();
+  const api = await playwrightRequest.newContext({ baseURL });
+  await signInRequest(api, baseURL!, DEMO_ACCOUNTS.viewer);
+  const refused = await api.post(`/api/projects/${projectId}/assignments`, {
+    data: { date: "2030-05-15", team: "Team Gar", cells: ["A1"], hose: "Hose C", notes: "" },
+    headers: { Origin: new URL(baseURL!).origin },
+  });
+  expect(refused.status()).toBe(403);
+  await api.dispose();
+});
