@@ -79,7 +79,7 @@ export async function postSurvey(
   const form = new FormData();
   for (const [name, value] of Object.entries(fields)) form.set(name, value);
   if ("path" in file) form.set("file", new Blob([readFileSync(file.path)], { type: "text/csv" }), file.path.split("/").pop());
-  else form.set("file", new Blob([file.content], { type: "text/csv" }), file.name);
+  else form.set("file", new Blob([file.content as BlobPart], { type: "text/csv" }), file.name);
   const headers = new Headers();
   if (token) headers.set("Authorization", `Bearer ${token}`);
   const request = new Request(`${ORIGIN}/api/projects/${projectId}/surveys`, { method: "POST", body: form, headers });
