@@ -1,0 +1,68 @@
+import { describe, expect, it } from "vitest";
+import { computeProjectFigures, type ComputationSurvey } from "./project-computation";
+
+// A closed-form site: a 40 ft × 40 ft work limit, a flat muck top at 10 ft, firm sand at 8 ft
+// (2 ft of muck), a progress pass down to 8.1 ft everywhere (inside the 0.25 ft tolerance) and a
+// closeout over the western half at 8.05 ft.
+
+function flatSurvey(id: number, kind: ComputationSurvey["kind"], surveyedOn: string, elevation: number, maxX: number, refusal?: number): ComputationSurvey {
+  const easting: number[] = [];
+  const northing: number[] = [];
+  for (let x = -4; x <= maxX; x += 2) for (let y = -4; y <= 44; y += 2) { easting.push(x); northing.push(y); }
+  const count = easting.length;
+  return {
+    id, kind, surveyedOn,
+    easting: Float64Array.from(easting), northing: Float64Array.from(northing),
+    elevation: new Float64Array(count).fill(elevation),
+    refusalElevation: refusal === undefined ? null : new Float64Array(count).fill(refusal),
+  };
+}
+
+const settings = { cellSize: 10, resolution: 1, maxEdge: 5, originX: 0, originY: 0, rotationDegrees: 0, tolerance: 0.25, firmShare: 0.95, minCoverage: 0.8, surveyNoise: 0.25 };
+const workLimit = [[[[0, 0], [40, 0], [40, 40], [0, 40], [0, 0]] as Array<[number, number]>]];
+
+describe("computeProjectFigures", () => {
+  const surveys = [
+    flatSurvey(1, "baseline", "2026-01-01", 10, 44, 8),
+    flatSurvey(2, "progress", "2026-02-01", 8.1, 44),
+    flatSurvey(3, "closeout", "2026-03-01", 8.05, 19),
+  ];
+  const figures = computeProjectFigures({ surveys, workLimit, zones: [{ id: 7, name: "West", polygon: [[[[0, 0], [20, 0], [20, 40], [0, 40], [0, 0]]]] }], settings, lengthUnit: "ft" })!;
+
+  it("plans the closed-form muck volume: 2 ft over 1,600 ft², in cubic yards", () => {
+    // computed: 1600 ft² × 2 ft = 3200 ft³ = 3200 / 27 yd³ (27 ft³ per yd³, NIST SP 811)
+    expect(figures.totals.plannedVolume).toBeCloseTo(3200 / 27, 6);
+    expect(figures.cells).toHaveLength(16);
+  });
+
+  it("keeps one snapshot per survey date, each the state after that date", () => {
+    expect(figures.snapshots.map((snapshot) => snapshot.surveyedOn)).toEqual(["2026-01-01", "2026-02-01", "2026-03-01"]);
+    // computed: nothing removed at the baseline; 1.9 ft removed over 1,600 ft² after the progress pass
+    expect(figures.snapshots[0].totals.removedVolume).toBeCloseTo(0, 9);
+    expect(figures.snapshots[1].totals.removedVolume).toBeCloseTo((1600 * 1.9) / 27, 6);
+    expect(figures.snapshots[1].totals.cellsConfirmed).toBe(0);
+  });
+
+  it("confirms the at-firm-sand cells whose latest bottom comes from the closeout, and only those", () => {
+    const confirmed = figures.cells.filter((cell) => cell.status === "confirmed").map((cell) => cell.col).sort();
+    const atFirm = figures.cells.filter((cell) => cell.status === "at-firm-sand").map((cell) => cell.col);
+    // The closeout's points reach x = 18 (plus one 2 ft triangle): columns 0 and 1 (x 0–20) are its.
+    expect(new Set(confirmed)).toEqual(new Set([0, 1]));
+    expect(confirmed).toHaveLength(8);
+    expect(new Set(atFirm)).toEqual(new Set([2, 3]));
+    expect(figures.totals.cellsConfirmed).toBe(8);
+    expect(figures.totals.cellsAtFirmSand).toBe(16); // a confirmed cell is also at firm sand
+    expect(figures.cells.filter((cell) => cell.col < 2).every((cell) => cell.latestSurveyId === 3)).toBe(true);
+  });
+
+  it("rolls the western zone up from its cells", () => {
+    const west = figures.snapshots[2].zones[0];
+    expect(west.zoneId).toBe(7);
+    expect(west.totals.cells).toBe(8);
+    expect(west.totals.plannedVolume).toBeCloseTo(1600 / 27, 6); // computed: half the site
+  });
+
+  it("has no figures without a baseline", () => {
+    expect(computeProjectFigures({ surveys: surveys.slice(1), workLimit, zones: [], settings, lengthUnit: "ft" })).toBeNull();
+  });
+});
