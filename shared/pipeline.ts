@@ -53,14 +53,7 @@ export interface EngineSurfaces {
   firm: Tin;
 }
 
-export interface EngineResult {
-  workLimit: ProjectedMultiPolygon;
-  cellGrid: CellGrid;
-  rasterGrid: RasterGrid;
-  /** 1 for raster nodes inside the work limit. */
-  mask: Uint8Array;
-  /** Cell index of each raster node, −1 outside the limit. */
-  nodeCell: Int32Array;
+export interface EngineResult extends EngineGrids {
   rasters: {
     muckTop: Raster;
     firm: Raster;
@@ -70,10 +63,9 @@ export interface EngineResult {
   };
   /** Per node, which survey the latest bottom came from: 0 = newest progress survey … progress.length = baseline; 255 none. */
   latestSource: Uint8Array;
-  cellAreaInLimit: Float64Array;
   cells: CellStats;
   totals: VolumeTotals;
-  surfaces: { duplicatesMerged: number; longTrianglesDropped: number; invalidSkipped: number };
+  surfaces: SurfaceSummary;
 }
 
 /** Triangulate every survey (the part worth moving to worker threads). */
@@ -137,45 +129,71 @@ export function rasterGridFor(workLimit: ProjectedMultiPolygon, cellGrid: CellGr
   };
 }
 
-function sample(tin: Tin, grid: RasterGrid, mask: Uint8Array, precision: RasterPrecision): RasterValues {
+/** One TIN onto the shared raster, clipped to the work limit. */
+export function sample(tin: Tin, grid: RasterGrid, mask: Uint8Array, precision: RasterPrecision): RasterValues {
   const values = createRasterValues(grid, precision);
   rasterizeTinInto(tin, grid, values, mask);
   return values;
 }
 
-/** Everything after triangulation. `workLimit` null: the baseline survey's convex hull. */
-export function computeVolumesFromSurfaces(
-  surfaces: EngineSurfaces,
-  workLimit: ProjectedMultiPolygon | null,
-  settings: EngineSettings,
-  onProgress?: ProgressCallback,
-): EngineResult {
-  const precision = settings.rasterPrecision ?? "float64";
-  const limit = workLimit ?? [[hullRing(surfaces.baseline)]];
-  if (limit.length === 0 || limit[0].length === 0 || limit[0][0].length < 4) {
+/** The grids every surface shares: laid once per computation. */
+export interface EngineGrids {
+  workLimit: ProjectedMultiPolygon;
+  cellGrid: CellGrid;
+  rasterGrid: RasterGrid;
+  mask: Uint8Array;
+  nodeCell: Int32Array;
+  cellAreaInLimit: Float64Array;
+}
+
+export function prepareGrids(workLimit: ProjectedMultiPolygon, settings: EngineSettings, onProgress?: ProgressCallback): EngineGrids {
+  if (workLimit.length === 0 || workLimit[0].length === 0 || workLimit[0][0].length < 4) {
     throw new Error("the work limit is empty (fewer than three distinct soundings give no hull)");
   }
-  const cellGrid = createCellGrid(limit, {
+  const cellGrid = createCellGrid(workLimit, {
     cellSize: settings.cellSize,
     originX: settings.originX,
     originY: settings.originY,
     rotationDegrees: settings.rotationDegrees,
   });
-  const rasterGrid = rasterGridFor(limit, cellGrid, settings.resolution);
-  onProgress?.("work limit", 0);
-  const mask = workLimitMask(limit, rasterGrid);
+  const rasterGrid = rasterGridFor(workLimit, cellGrid, settings.resolution);
+  const mask = workLimitMask(workLimit, rasterGrid);
   const nodeCell = nodeCells(cellGrid, rasterGrid, mask);
   const cellAreaInLimit = cellAreasInWorkLimit(cellGrid, rasterGrid, nodeCell);
   onProgress?.("work limit", 1);
+  return { workLimit, cellGrid, rasterGrid, mask, nodeCell, cellAreaInLimit };
+}
 
-  const toSample = [surfaces.baseline, surfaces.firm, ...surfaces.progress];
-  const sampled: RasterValues[] = [];
-  toSample.forEach((tin, index) => {
-    sampled.push(sample(tin, rasterGrid, mask, precision));
-    onProgress?.("raster", (index + 1) / toSample.length);
-  });
-  const [muckTop, firm, ...progress] = sampled;
+export interface SurfaceSummary {
+  duplicatesMerged: number;
+  longTrianglesDropped: number;
+  invalidSkipped: number;
+}
 
+export function summariseSurfaces(tins: ReadonlyArray<Tin>): SurfaceSummary {
+  // Layers sharing one triangulation are counted once.
+  const unique = tins.filter((tin, index) => tins.findIndex((other) => other.triangles === tin.triangles) === index);
+  return {
+    duplicatesMerged: unique.reduce((sum, tin) => sum + tin.duplicatesMerged, 0),
+    longTrianglesDropped: unique.reduce((sum, tin) => sum + tin.longTrianglesDropped, 0),
+    invalidSkipped: unique.reduce((sum, tin) => sum + tin.invalidSkipped, 0),
+  };
+}
+
+/** Every survey sampled on the shared raster grid. */
+export interface SampledSurveys {
+  muckTop: RasterValues;
+  firm: RasterValues;
+  /** Oldest first, as in `EngineSurveys.progress`. */
+  progress: RasterValues[];
+  surfaces: SurfaceSummary;
+}
+
+/** Latest bottom, cell integrals and roll-up from rasters already sampled on `grids`. */
+export function computeVolumesFromRasters(grids: EngineGrids, sampled: SampledSurveys, settings: EngineSettings, onProgress?: ProgressCallback): EngineResult {
+  const precision = settings.rasterPrecision ?? "float64";
+  const { rasterGrid, cellGrid, nodeCell } = grids;
+  const { muckTop, firm, progress } = sampled;
   const latest = stackLatestBottom(rasterGrid, [...progress].reverse().concat([muckTop]), precision);
   onProgress?.("latest bottom", 1);
 
@@ -187,14 +205,8 @@ export function computeVolumesFromSurfaces(
     const left = latest.values[node] - firm[node]; // NaN propagates where either has no data
     remainingThickness[node] = left > 0 ? left : left === left ? 0 : Number.NaN;
   }
-  const all = [surfaces.baseline, surfaces.firm, ...surfaces.progress];
-  const unique = surfaces.firm.triangles === surfaces.baseline.triangles ? [surfaces.baseline, ...surfaces.progress] : all;
   return {
-    workLimit: limit,
-    cellGrid,
-    rasterGrid,
-    mask,
-    nodeCell,
+    ...grids,
     rasters: {
       muckTop: { ...rasterGrid, values: muckTop },
       firm: { ...rasterGrid, values: firm },
@@ -202,15 +214,29 @@ export function computeVolumesFromSurfaces(
       remainingThickness: { ...rasterGrid, values: remainingThickness },
     },
     latestSource: latest.source,
-    cellAreaInLimit,
     cells,
     totals: rollUpCells(cells),
-    surfaces: {
-      duplicatesMerged: unique.reduce((sum, tin) => sum + tin.duplicatesMerged, 0),
-      longTrianglesDropped: unique.reduce((sum, tin) => sum + tin.longTrianglesDropped, 0),
-      invalidSkipped: unique.reduce((sum, tin) => sum + tin.invalidSkipped, 0),
-    },
+    surfaces: sampled.surfaces,
   };
+}
+
+/** Everything after triangulation. `workLimit` null: the baseline survey's convex hull. */
+export function computeVolumesFromSurfaces(
+  surfaces: EngineSurfaces,
+  workLimit: ProjectedMultiPolygon | null,
+  settings: EngineSettings,
+  onProgress?: ProgressCallback,
+): EngineResult {
+  const precision = settings.rasterPrecision ?? "float64";
+  const grids = prepareGrids(workLimit ?? [[hullRing(surfaces.baseline)]], settings, onProgress);
+  const toSample = [surfaces.baseline, surfaces.firm, ...surfaces.progress];
+  const sampled: RasterValues[] = [];
+  toSample.forEach((tin, index) => {
+    sampled.push(sample(tin, grids.rasterGrid, grids.mask, precision));
+    onProgress?.("raster", (index + 1) / toSample.length);
+  });
+  const [muckTop, firm, ...progress] = sampled;
+  return computeVolumesFromRasters(grids, { muckTop, firm, progress, surfaces: summariseSurfaces(toSample) }, settings, onProgress);
 }
 
 /** The whole computation in one call (single thread). */

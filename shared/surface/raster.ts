@@ -60,7 +60,7 @@ export function rasterizeTin(tin: Tin, grid: RasterGrid, options: RasterizeOptio
 }
 
 export function rasterizeTinInto(tin: Tin, grid: RasterGrid, values: RasterValues, mask: Uint8Array | null): void {
-  const { x, y, z, triangles } = tin;
+  const { xy, z, triangles } = tin;
   const { spacing, cols, rows } = grid;
   // Node positions in the TIN's local frame: node (c, r) is at (baseX + c·spacing, baseY + r·spacing).
   const baseX = grid.originX - tin.offsetX + 0.5 * spacing;
@@ -71,9 +71,9 @@ export function rasterizeTinInto(tin: Tin, grid: RasterGrid, values: RasterValue
     const a = triangles[corner];
     const b = triangles[corner + 1];
     const c = triangles[corner + 2];
-    const ax = x[a], ay = y[a], az = z[a];
-    const bx = x[b], by = y[b], bz = z[b];
-    const cx = x[c], cy = y[c], cz = z[c];
+    const ax = xy[2 * a], ay = xy[2 * a + 1], az = z[a];
+    const bx = xy[2 * b], by = xy[2 * b + 1], bz = z[b];
+    const cx = xy[2 * c], cy = xy[2 * c + 1], cz = z[c];
     const determinant = (bx - ax) * (cy - ay) - (cx - ax) * (by - ay);
     if (determinant === 0) continue; // zero-area triangle: no plane and no area
     const slopeX = ((bz - az) * (cy - ay) - (cz - az) * (by - ay)) / determinant;

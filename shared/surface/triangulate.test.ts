@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { hullRing, tinArea, triangulate } from "./triangulate";
+import { hullRing, tinArea, triangulate, vertexCount } from "./triangulate";
 import { rasterizeTin } from "./raster";
 
 function seeded(seed: number) {
@@ -39,10 +39,10 @@ describe("triangulate", () => {
     const northing = Float64Array.of(0, 0, 10, 10, 0, 0);
     const elevation = Float64Array.of(1, 2, 3, 4, 5, 8);
     const tin = triangulate(easting, northing, elevation, { maxEdge: Infinity });
-    expect(tin.x.length).toBe(4);
+    expect(vertexCount(tin)).toBe(4);
     expect(tin.duplicatesMerged).toBe(2);
     const at = (x: number, y: number) => {
-      for (let vertex = 0; vertex < tin.x.length; vertex++) if (tin.x[vertex] + tin.offsetX === x && tin.y[vertex] + tin.offsetY === y) return tin.z[vertex];
+      for (let vertex = 0; vertex < vertexCount(tin); vertex++) if (tin.xy[2 * vertex] + tin.offsetX === x && tin.xy[2 * vertex + 1] + tin.offsetY === y) return tin.z[vertex];
       return Number.NaN;
     };
     expect(at(0, 0)).toBe(3); // computed: (1 + 5) / 2

@@ -1,5 +1,5 @@
 import Delaunator from "delaunator";
-import { permute, spatialOrder } from "./spatial-order";
+import { spatialOrder } from "./spatial-order";
 
 /**
  * A survey's surface: the Delaunay triangulation (TIN) of its soundings.
@@ -8,11 +8,14 @@ import { permute, spatialOrder } from "./spatial-order";
  * northings run to millions of feet; subtracting them in the geometric predicates and plane
  * equations near the origin keeps about six more significant digits, so a survey gives the same
  * triangles and the same interpolated values wherever it sits on the map.
+ *
+ * Vertices are stored in Z order (neighbours on the ground are neighbours in memory) and their
+ * coordinates interleaved [x0, y0, x1, y1, …], the layout Delaunator itself works on, so the
+ * positions are held once.
  */
 export interface Tin {
-  /** Vertex coordinates relative to (offsetX, offsetY), project length unit. */
-  x: Float64Array;
-  y: Float64Array;
+  /** Interleaved vertex coordinates relative to (offsetX, offsetY), project length unit. */
+  xy: Float64Array;
   /** Vertex elevation (duplicates averaged). */
   z: Float64Array;
   offsetX: number;
@@ -34,6 +37,11 @@ export interface TriangulateOptions {
   maxEdge: number;
 }
 
+/** Number of vertices of a TIN. */
+export function vertexCount(tin: Tin): number {
+  return tin.xy.length / 2;
+}
+
 const hashScratch = new Float64Array(2);
 const hashWords = new Uint32Array(hashScratch.buffer);
 
@@ -51,31 +59,35 @@ function hashPosition(x: number, y: number): number {
 /**
  * Soundings at exactly the same position (a repeated fix, a file appended to itself) cannot both be
  * triangle corners; they become one vertex with the mean of each value layer. An open-addressing
- * hash keeps this O(n) for a million soundings.
+ * hash keeps this O(n) for a million soundings. Works in place on the interleaved coordinates and
+ * keeps the first occurrence's place, so the Z order survives.
  */
-function mergeDuplicates(x: Float64Array, y: Float64Array, layers: Float64Array[], count: number) {
+function mergeDuplicates(xy: Float64Array, layers: Float64Array[], count: number) {
   let tableSize = 16;
   while (tableSize < count * 2) tableSize *= 2;
   const mask = tableSize - 1;
   const table = new Int32Array(tableSize).fill(-1);
-  const hits = new Uint32Array(count);
+  let hits: Uint32Array | null = null; // allocated at the first duplicate: most surveys have none
   let unique = 0;
   for (let index = 0; index < count; index++) {
-    const px = x[index] + 0; // +0 folds −0 into 0 so both hash alike
-    const py = y[index] + 0;
+    const px = xy[2 * index] + 0; // +0 folds −0 into 0 so both hash alike
+    const py = xy[2 * index + 1] + 0;
     let slot = hashPosition(px, py) & mask;
     for (;;) {
       const found = table[slot];
       if (found < 0) {
         table[slot] = unique;
-        x[unique] = px;
-        y[unique] = py;
+        xy[2 * unique] = px;
+        xy[2 * unique + 1] = py;
         for (const layer of layers) layer[unique] = layer[index];
-        hits[unique] = 1;
+        if (hits !== null) hits[unique] = 1;
         unique++;
         break;
       }
-      if (x[found] === px && y[found] === py) {
+      if (xy[2 * found] === px && xy[2 * found + 1] === py) {
+        if (hits === null) {
+          hits = new Uint32Array(count).fill(1);
+        }
         for (const layer of layers) layer[found] += layer[index];
         hits[found]++;
         break;
@@ -84,13 +96,14 @@ function mergeDuplicates(x: Float64Array, y: Float64Array, layers: Float64Array[
     }
   }
   const duplicatesMerged = count - unique;
-  if (duplicatesMerged === 0) return { x, y, layers, duplicatesMerged };
+  if (duplicatesMerged === 0 || hits === null) return { xy, layers, duplicatesMerged };
+  const counts = hits;
   const merged = layers.map((layer) => {
     const mean = layer.slice(0, unique);
-    for (let index = 0; index < unique; index++) mean[index] /= hits[index];
+    for (let index = 0; index < unique; index++) mean[index] /= counts[index];
     return mean;
   });
-  return { x: x.slice(0, unique), y: y.slice(0, unique), layers: merged, duplicatesMerged };
+  return { xy: xy.slice(0, 2 * unique), layers: merged, duplicatesMerged };
 }
 
 function isUsable(easting: ArrayLike<number>, northing: ArrayLike<number>, layers: ReadonlyArray<ArrayLike<number>>, index: number) {
@@ -120,122 +133,137 @@ export function triangulateLayers(
   layers: ReadonlyArray<ArrayLike<number>>,
   options: TriangulateOptions,
 ): Tin[] {
+  return triangulateVertices(prepareVertices(easting, northing, layers), options);
+}
+
+/**
+ * The soundings made ready for triangulation: usable ones only, offset to their centroid, in Z
+ * order, duplicates merged. Split from `triangulateVertices` so a caller short of memory (a worker
+ * thread holding a million soundings) can let the input columns go before Delaunator allocates.
+ */
+export interface PreparedVertices {
+  xy: Float64Array;
+  layers: Float64Array[];
+  offsetX: number;
+  offsetY: number;
+  duplicatesMerged: number;
+  invalidSkipped: number;
+}
+
+export function prepareVertices(
+  easting: ArrayLike<number>,
+  northing: ArrayLike<number>,
+  layers: ReadonlyArray<ArrayLike<number>>,
+): PreparedVertices {
   const total = easting.length;
   if (northing.length !== total || layers.some((layer) => layer.length !== total)) {
     throw new Error("easting, northing and every value layer must have the same length");
   }
   let sumX = 0;
   let sumY = 0;
+  const usable = new Uint32Array(total);
   let valid = 0;
   for (let index = 0; index < total; index++) {
     if (isUsable(easting, northing, layers, index)) {
       sumX += easting[index];
       sumY += northing[index];
-      valid++;
+      usable[valid++] = index;
     }
   }
   const offsetX = valid > 0 ? sumX / valid : 0;
   const offsetY = valid > 0 ? sumY / valid : 0;
-  const localX = new Float64Array(valid);
-  const localY = new Float64Array(valid);
+  // Copy the usable soundings straight into Z order (merging duplicates keeps that order).
+  const order = spatialOrder(easting, northing, usable.subarray(0, valid));
+  const localXY = new Float64Array(2 * valid);
   const localLayers = layers.map(() => new Float64Array(valid));
-  let kept = 0;
-  for (let index = 0; index < total; index++) {
-    if (isUsable(easting, northing, layers, index)) {
-      localX[kept] = easting[index] - offsetX;
-      localY[kept] = northing[index] - offsetY;
-      for (let layer = 0; layer < layers.length; layer++) localLayers[layer][kept] = layers[layer][index];
-      kept++;
-    }
+  for (let kept = 0; kept < valid; kept++) {
+    const index = order[kept];
+    localXY[2 * kept] = easting[index] - offsetX;
+    localXY[2 * kept + 1] = northing[index] - offsetY;
+    for (let layer = 0; layer < layers.length; layer++) localLayers[layer][kept] = layers[layer][index];
   }
-  const deduplicated = mergeDuplicates(localX, localY, localLayers, valid);
-  const order = spatialOrder(deduplicated.x, deduplicated.y);
-  const merged = {
-    x: permute(deduplicated.x, order),
-    y: permute(deduplicated.y, order),
-    layers: deduplicated.layers.map((layer) => permute(layer, order)),
-    duplicatesMerged: deduplicated.duplicatesMerged,
-  };
-  const vertexCount = merged.x.length;
-  const { x, y } = merged;
+  const merged = mergeDuplicates(localXY, localLayers, valid);
+  return { xy: merged.xy, layers: merged.layers, offsetX, offsetY, duplicatesMerged: merged.duplicatesMerged, invalidSkipped: total - valid };
+}
+
+export function triangulateVertices(prepared: PreparedVertices, options: TriangulateOptions): Tin[] {
+  const { xy, offsetX, offsetY } = prepared;
+  const count = xy.length / 2;
   let triangles: Uint32Array = new Uint32Array(0);
-  let hull: Uint32Array = Uint32Array.from({ length: vertexCount }, (_, index) => index);
+  let hull: Uint32Array = Uint32Array.from({ length: count }, (_, index) => index);
   let longTrianglesDropped = 0;
 
-  if (vertexCount >= 3) {
-    const coords = new Float64Array(vertexCount * 2);
-    for (let index = 0; index < vertexCount; index++) {
-      coords[2 * index] = x[index];
-      coords[2 * index + 1] = y[index];
-    }
-    const delaunay = new Delaunator(coords);
+  if (count >= 3) {
+    const delaunay = new Delaunator(xy);
     const all = delaunay.triangles;
     const maxEdgeSquared = options.maxEdge * options.maxEdge;
-    const keptTriangles = all; // filtered in place: kept triangles never overtake the one being read
     let keptLength = 0;
     for (let corner = 0; corner < all.length; corner += 3) {
       const a = all[corner];
       const b = all[corner + 1];
       const c = all[corner + 2];
-      const ab = (x[b] - x[a]) ** 2 + (y[b] - y[a]) ** 2;
-      const bc = (x[c] - x[b]) ** 2 + (y[c] - y[b]) ** 2;
-      const ca = (x[a] - x[c]) ** 2 + (y[a] - y[c]) ** 2;
+      const ax = xy[2 * a], ay = xy[2 * a + 1];
+      const bx = xy[2 * b], by = xy[2 * b + 1];
+      const cx = xy[2 * c], cy = xy[2 * c + 1];
+      const ab = (bx - ax) ** 2 + (by - ay) ** 2;
+      const bc = (cx - bx) ** 2 + (cy - by) ** 2;
+      const ca = (ax - cx) ** 2 + (ay - cy) ** 2;
       if (ab <= maxEdgeSquared && bc <= maxEdgeSquared && ca <= maxEdgeSquared) {
-        // Delaunator winds counter-clockwise on screen (y down); with northing up that is clockwise,
-        // so b and c swap to give counter-clockwise triangles in the project's frame.
-        keptTriangles[keptLength++] = a;
-        keptTriangles[keptLength++] = c;
-        keptTriangles[keptLength++] = b;
+        // Filtered in place (the write position never passes the read position). Delaunator winds
+        // counter-clockwise on screen (y down); with northing up that is clockwise, so b and c
+        // swap to give counter-clockwise triangles in the project's frame.
+        all[keptLength++] = a;
+        all[keptLength++] = c;
+        all[keptLength++] = b;
       }
     }
-    triangles = inSpatialOrder(keptTriangles.subarray(0, keptLength), vertexCount);
+    // Delaunator's half-edge array is not needed; its buffer (as large as the triangles) receives the sorted copy.
+    const spare = new Uint32Array(delaunay.halfedges.buffer, delaunay.halfedges.byteOffset, keptLength);
+    triangles = inSpatialOrder(all.subarray(0, keptLength), count, spare);
     hull = Uint32Array.from(delaunay.hull).reverse(); // counter-clockwise with northing up, as above
     longTrianglesDropped = (all.length - keptLength) / 3;
   }
-  return merged.layers.map((z) => ({
-    x,
-    y,
+  return prepared.layers.map((z) => ({
+    xy,
     z,
     offsetX,
     offsetY,
     triangles,
     hull,
-    duplicatesMerged: merged.duplicatesMerged,
-    invalidSkipped: total - valid,
+    duplicatesMerged: prepared.duplicatesMerged,
+    invalidSkipped: prepared.invalidSkipped,
     longTrianglesDropped,
   }));
 }
 
 /**
  * Delaunator emits triangles in the order it built them, spiralling out from a seed. Ordering them
- * by their lowest vertex (vertices are already in Z order) lets the raster fill write the raster
- * row by row nearby instead of jumping across it. A counting sort: linear time.
+ * by their lowest vertex (vertices are already in Z order) lets the raster fill write nearby
+ * raster rows instead of jumping across the raster. A counting sort: linear time, written into
+ * `output` (same length), which is returned.
  */
-function inSpatialOrder(triangles: Uint32Array, vertexCount: number): Uint32Array {
+function inSpatialOrder(triangles: Uint32Array, vertexTotal: number, output: Uint32Array): Uint32Array {
   const triangleCount = triangles.length / 3;
-  const starts = new Uint32Array(vertexCount + 1);
-  const lowest = new Uint32Array(triangleCount);
+  const starts = new Uint32Array(vertexTotal + 1);
+  for (let corner = 0; corner < triangles.length; corner += 3) {
+    starts[Math.min(triangles[corner], triangles[corner + 1], triangles[corner + 2]) + 1]++;
+  }
+  for (let vertex = 0; vertex < vertexTotal; vertex++) starts[vertex + 1] += starts[vertex];
   for (let triangle = 0; triangle < triangleCount; triangle++) {
     const corner = 3 * triangle;
-    const vertex = Math.min(triangles[corner], triangles[corner + 1], triangles[corner + 2]);
-    lowest[triangle] = vertex;
-    starts[vertex + 1]++;
+    const a = triangles[corner], b = triangles[corner + 1], c = triangles[corner + 2];
+    const target = 3 * starts[Math.min(a, b, c)]++;
+    output[target] = a;
+    output[target + 1] = b;
+    output[target + 2] = c;
   }
-  for (let vertex = 0; vertex < vertexCount; vertex++) starts[vertex + 1] += starts[vertex];
-  const sorted = new Uint32Array(triangles.length);
-  for (let triangle = 0; triangle < triangleCount; triangle++) {
-    const target = 3 * starts[lowest[triangle]]++;
-    sorted[target] = triangles[3 * triangle];
-    sorted[target + 1] = triangles[3 * triangle + 1];
-    sorted[target + 2] = triangles[3 * triangle + 2];
-  }
-  return sorted;
+  return output;
 }
 
 /** The hull as a closed ring in project coordinates (the default work limit when none is drawn). */
 export function hullRing(tin: Tin): Array<[number, number]> {
   const ring: Array<[number, number]> = [];
-  for (const vertex of tin.hull) ring.push([tin.x[vertex] + tin.offsetX, tin.y[vertex] + tin.offsetY]);
+  for (const vertex of tin.hull) ring.push([tin.xy[2 * vertex] + tin.offsetX, tin.xy[2 * vertex + 1] + tin.offsetY]);
   if (ring.length > 0) ring.push([ring[0][0], ring[0][1]]);
   return ring;
 }
@@ -243,12 +271,12 @@ export function hullRing(tin: Tin): Array<[number, number]> {
 /** Plan area of the kept triangles (project length unit squared). */
 export function tinArea(tin: Tin): number {
   let twiceArea = 0;
-  const { x, y, triangles } = tin;
+  const { xy, triangles } = tin;
   for (let corner = 0; corner < triangles.length; corner += 3) {
-    const a = triangles[corner];
-    const b = triangles[corner + 1];
-    const c = triangles[corner + 2];
-    twiceArea += (x[b] - x[a]) * (y[c] - y[a]) - (x[c] - x[a]) * (y[b] - y[a]);
+    const a = 2 * triangles[corner];
+    const b = 2 * triangles[corner + 1];
+    const c = 2 * triangles[corner + 2];
+    twiceArea += (xy[b] - xy[a]) * (xy[c + 1] - xy[a + 1]) - (xy[c] - xy[a]) * (xy[b + 1] - xy[a + 1]);
   }
   return twiceArea / 2;
 }
