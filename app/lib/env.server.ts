@@ -41,6 +41,8 @@ const envSchema = z.object({
   APP_ORIGIN: z.url().optional(),
   /** Trust X-Forwarded-For for the client address (only behind a proxy you run). */
   TRUST_PROXY: flag,
+  /** Set by app/serve.mjs for itself: its x-firmsand-client-address header carries the socket address. */
+  FIRMSAND_CLIENT_ADDRESS_HEADER: flag,
 });
 
 export type Env = z.infer<typeof envSchema> & { DB_PASSWORD: string; SESSION_SECRET: string };

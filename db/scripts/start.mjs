@@ -27,6 +27,6 @@ log("building the app");
 run(bin("react-router"), ["build"], { env });
 
 log(`serving Firmsand on http://${env.HOST}:${env.PORT} (Ctrl-C stops the app; npm run db:stop stops the database)`);
-const server = spawn(bin("react-router-serve"), ["build/server/index.js"], { stdio: "inherit", env });
+const server = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: "inherit", env });
 for (const signal of ["SIGINT", "SIGTERM"]) process.on(signal, () => server.kill(signal));
 server.on("exit", (code) => process.exit(code ?? 0));

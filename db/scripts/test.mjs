@@ -106,7 +106,7 @@ try {
     run(bin("tsx"), ["db/seed.ts", "demo"], { env: e2eEnv });
     log("building the app for the browser tests");
     run(bin("react-router"), ["build"], { env: e2eEnv });
-    appServer = spawn(bin("react-router-serve"), ["build/server/index.js"], { stdio: ["ignore", "inherit", "inherit"], env: e2eEnv });
+    appServer = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "inherit", "inherit"], env: e2eEnv });
     await waitFor(() => isPortOpen(port), { timeoutMs: 30_000, what: `the app on port ${port}` });
     const code = await runStep(bin("playwright"), ["test", "-c", "tests/e2e/playwright.config.ts", ...(onlyE2e ? passThrough : [])], e2eEnv);
     if (code !== 0) failed = true;

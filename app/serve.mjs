@@ -1,0 +1,38 @@
+// Firmsand's production HTTP server for the built app (`npm start`, the browser tests).
+// It does what react-router-serve does (compression, immutable hashed assets, public files) and
+// one thing more: it hands the client's socket address to the app in a header of its own,
+// overwriting whatever a client sent, so the sign-in rate limit can count per address.
+import { createRequestHandler } from "@react-router/express";
+import compression from "compression";
+import express from "express";
+import { join, resolve } from "node:path";
+import { pathToFileURL } from "node:url";
+
+export const CLIENT_ADDRESS_HEADER = "x-firmsand-client-address";
+
+// Tells the app that the address header comes from this server, not from a client (read once
+// when the app parses its environment, so it is set before the build is loaded).
+process.env.FIRMSAND_CLIENT_ADDRESS_HEADER = "1";
+const buildPath = resolve(process.argv[2] ?? "build/server/index.js");
+const build = await import(pathToFileURL(buildPath).href);
+const port = Number(process.env.PORT ?? 3000);
+const host = process.env.HOST ?? "127.0.0.1";
+
+const app = express();
+app.disable("x-powered-by");
+app.use(compression());
+app.use(join(build.publicPath, "assets"), express.static(join(build.assetsBuildDirectory, "assets"), { immutable: true, maxAge: "1y" }));
+app.use(build.publicPath, express.static(build.assetsBuildDirectory));
+app.use(express.static("public", { maxAge: "1h" }));
+app.use((request, _response, next) => {
+  request.headers[CLIENT_ADDRESS_HEADER] = request.socket.remoteAddress ?? "unknown";
+  next();
+});
+app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV }));
+
+const server = app.listen(port, host, () => {
+  process.stdout.write(`Firmsand listening on http://${host}:${port}\n`);
+});
+for (const signal of ["SIGTERM", "SIGINT"]) {
+  process.once(signal, () => server.close(() => process.exit(0)));
+}
