@@ -43,6 +43,8 @@ export interface SurveyQaInput {
 }
 
 export const MINIMUM_SOUNDINGS_PER_CELL = 4;
+/** Neighbours a spike is judged against (practice). */
+export const SPIKE_NEIGHBOURS = 12;
 
 function medianOf(values: ArrayLike<number>): number | null {
   const finite: number[] = [];
@@ -86,8 +88,12 @@ export function surveyQa(input: SurveyQaInput): SurveyQa {
     medianPerCell = medianOf(perCell);
   }
 
-  // Spikes: a sounding more than the TVU allowance from the median of its neighbours within half a cell.
-  const spikeRadius = input.grid.cellSize / 2;
+  // Spikes: a sounding more than the TVU allowance from the median of its neighbours. The radius
+  // takes about a dozen neighbours at the survey's own density (never more than half a cell), so
+  // dense echo-sounder files cost no more per sounding than sparse rod surveys.
+  const sounded = cellsWithSoundings * input.grid.cellSize * input.grid.cellSize;
+  const density = sounded > 0 ? easting.length / sounded : 0;
+  const spikeRadius = density > 0 ? Math.min(input.grid.cellSize / 2, Math.sqrt(SPIKE_NEIGHBOURS / (Math.PI * density))) : input.grid.cellSize / 2;
   const spikeThreshold = allowance ?? Number.POSITIVE_INFINITY;
   const spikes = easting.length > 0 && Number.isFinite(spikeThreshold)
     ? findSpikes(easting, northing, input.elevation, { radius: spikeRadius, threshold: spikeThreshold })
