@@ -1,3 +1,4 @@
+import { z } from "zod";
 import { createCellGrid, type CellGrid } from "./grid/cell-grid";
 import { workLimitBounds, type ProjectedMultiPolygon } from "./grid/work-limit";
 import { cellAreasInWorkLimit, nodeCells, workLimitMask } from "./grid/work-limit-mask";
@@ -44,6 +45,21 @@ export interface EngineSettings extends CellStatusRules {
   /** float32 halves raster memory (about 7 significant digits: ample for elevations to 0.001 ft); default float64. */
   rasterPrecision?: RasterPrecision;
 }
+
+/** The settings as they cross into the engine (from a form, the database or the command line). */
+export const engineSettingsSchema = z.object({
+  cellSize: z.number().positive(),
+  resolution: z.number().positive(),
+  maxEdge: z.number().positive(),
+  tolerance: z.number().nonnegative(),
+  firmShare: z.number().min(0).max(1),
+  minCoverage: z.number().min(0).max(1),
+  surveyNoise: z.number().nonnegative(),
+  originX: z.number().finite().optional(),
+  originY: z.number().finite().optional(),
+  rotationDegrees: z.number().finite().optional(),
+  rasterPrecision: z.enum(["float32", "float64"]).optional(),
+});
 
 export type ProgressCallback = (stage: string, fraction: number) => void;
 
@@ -147,6 +163,11 @@ export interface EngineGrids {
 }
 
 export function prepareGrids(workLimit: ProjectedMultiPolygon, settings: EngineSettings, onProgress?: ProgressCallback): EngineGrids {
+  engineSettingsSchema.parse(settings);
+  const nodesAcross = workLimitBounds(workLimit);
+  const rasterNodes = ((nodesAcross.maxX - nodesAcross.minX) / settings.resolution) * ((nodesAcross.maxY - nodesAcross.minY) / settings.resolution);
+  // A typo in the resolution (0.001 for 1) would ask for billions of nodes; stop before allocating.
+  if (rasterNodes > 400_000_000) throw new Error(`a raster of ${Math.round(rasterNodes).toLocaleString("en-US")} nodes is too large; use a coarser resolution`);
   if (workLimit.length === 0 || workLimit[0].length === 0 || workLimit[0][0].length < 4) {
     throw new Error("the work limit is empty (fewer than three distinct soundings give no hull)");
   }

@@ -1,9 +1,10 @@
 import { readFileSync } from "node:fs";
 import { z } from "zod";
+import { EngineWorkerPool } from "../lib/engine-worker.server";
 import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/epsg.server";
 import { createCrs, type Crs } from "../../shared/crs";
 import type { ProjectedMultiPolygon, Ring } from "../../shared/grid/work-limit";
-import { computeSurveyVolumes, type SurveyPoints } from "../../shared/pipeline";
+import { computeSurveyVolumes, type EngineResult, type EngineSettings, type SurveyPoints } from "../../shared/pipeline";
 import { bottomElevations, refusalElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv, type ParsedSoundings } from "../../shared/soundings/parse-csv";
 import { defaultsFor, lengthUnitSchema, type LengthUnit } from "../../shared/units";
@@ -160,7 +161,10 @@ function surveyPoints(parsed: ParsedSoundings, elevation: Float64Array): SurveyP
   return { easting: parsed.easting, northing: parsed.northing, elevation };
 }
 
-function runVolumes(argv: string[]): string {
+/** From this many soundings in all, the surveys are triangulated in two worker threads. */
+const threadedFromSoundings = 200_000;
+
+async function runVolumes(argv: string[]): Promise<string> {
   const parsedOptions = volumesOptionsSchema.safeParse(readArguments(argv));
   if (!parsedOptions.success) {
     throw new InputError(parsedOptions.error.issues.map((issue) => issue.message).join("\n") + `\n${usage}`, 2);
@@ -201,36 +205,45 @@ function runVolumes(argv: string[]): string {
 
   const workLimit = options.limit === undefined ? null : readWorkLimit(options.limit, crs);
   const tolerance = options.tolerance ?? defaults.tolerance;
-  const result = computeSurveyVolumes(
-    {
-      baseline: surveyPoints(before, bottomElevations(before, options["before-wse"])),
-      progress: [surveyPoints(after, bottomElevations(after, options["after-wse"]))],
-      firm,
-    },
-    workLimit,
-    {
-      cellSize: options["cell-size"] ?? defaults.cellSize,
-      resolution: options.resolution ?? defaults.resolution,
-      maxEdge: options["max-edge"] ?? defaults.maxEdge,
-      tolerance,
-      firmShare: options["firm-share"],
-      minCoverage: options["min-coverage"],
-      // EM 1110-2-1003 table 3-1 puts dredging-support depth accuracy at the same ±0.25 ft as the
-      // default tolerance, so a change smaller than the tolerance is not yet evidence of dredging.
-      surveyNoise: options["survey-noise"] ?? tolerance,
-      originX: options.origin?.[0],
-      originY: options.origin?.[1],
-      rotationDegrees: options.rotation,
-    },
-  );
+  const surveys = {
+    baseline: surveyPoints(before, bottomElevations(before, options["before-wse"])),
+    progress: [surveyPoints(after, bottomElevations(after, options["after-wse"]))],
+    firm,
+  };
+  const settings: EngineSettings = {
+    cellSize: options["cell-size"] ?? defaults.cellSize,
+    resolution: options.resolution ?? defaults.resolution,
+    maxEdge: options["max-edge"] ?? defaults.maxEdge,
+    tolerance,
+    firmShare: options["firm-share"],
+    minCoverage: options["min-coverage"],
+    // EM 1110-2-1003 table 3-1 puts dredging-support depth accuracy at the same ±0.25 ft as the
+    // default tolerance, so a change smaller than the tolerance is not yet evidence of dredging.
+    surveyNoise: options["survey-noise"] ?? tolerance,
+    originX: options.origin?.[0],
+    originY: options.origin?.[1],
+    rotationDegrees: options.rotation,
+  };
+  const soundings = before.easting.length + after.easting.length;
+  let result: EngineResult;
+  if (soundings >= threadedFromSoundings) {
+    const pool = new EngineWorkerPool(2);
+    try {
+      result = await pool.computeSurveyVolumes(surveys, workLimit, settings);
+    } finally {
+      await pool.close();
+    }
+  } else {
+    result = computeSurveyVolumes(surveys, workLimit, settings);
+  }
   return JSON.stringify(volumeReport(result, unit));
 }
 
-function main(argv: string[]): number {
+async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
   try {
     if (command === "volumes") {
-      process.stdout.write(runVolumes(rest) + "\n");
+      process.stdout.write((await runVolumes(rest)) + "\n");
       return 0;
     }
     process.stderr.write(command === undefined || command === "--help" ? `${usage}\n` : `unknown command "${command}"\n${usage}\n`);
@@ -245,4 +258,4 @@ function main(argv: string[]): number {
   }
 }
 
-process.exitCode = main(process.argv.slice(2));
+process.exitCode = await main(process.argv.slice(2));
