@@ -15,43 +15,41 @@ function spreadBits(value: number): number {
   return spread >>> 0;
 }
 
-/** Indices 0…n−1 ordered along the Z curve over the points' bounding box. */
-export function spatialOrder(x: Float64Array, y: Float64Array): Uint32Array {
-  const count = x.length;
+/** The given point indices (all points when omitted) ordered along the Z curve over their bounding box. */
+export function spatialOrder(x: ArrayLike<number>, y: ArrayLike<number>, indices?: Uint32Array): Uint32Array {
+  const count = indices ? indices.length : x.length;
+  const pointAt = (position: number) => (indices ? indices[position] : position);
   let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
-  for (let index = 0; index < count; index++) {
-    if (x[index] < minX) minX = x[index];
-    if (x[index] > maxX) maxX = x[index];
-    if (y[index] < minY) minY = y[index];
-    if (y[index] > maxY) maxY = y[index];
+  for (let position = 0; position < count; position++) {
+    const point = pointAt(position);
+    if (x[point] < minX) minX = x[point];
+    if (x[point] > maxX) maxX = x[point];
+    if (y[point] < minY) minY = y[point];
+    if (y[point] > maxY) maxY = y[point];
   }
   const scaleX = maxX > minX ? 65535 / (maxX - minX) : 0;
   const scaleY = maxY > minY ? 65535 / (maxY - minY) : 0;
+  // keys[position] belongs to the point at `position` of the input list.
   const keys = new Uint32Array(count);
-  for (let index = 0; index < count; index++) {
-    keys[index] = (spreadBits((x[index] - minX) * scaleX) | (spreadBits((y[index] - minY) * scaleY) << 1)) >>> 0;
+  for (let position = 0; position < count; position++) {
+    const point = pointAt(position);
+    keys[position] = (spreadBits((x[point] - minX) * scaleX) | (spreadBits((y[point] - minY) * scaleY) << 1)) >>> 0;
   }
-  // Least-significant-digit radix sort on two 16-bit digits.
+  // Least-significant-digit radix sort of positions on two 16-bit digits.
   let order = new Uint32Array(count);
   let scratch = new Uint32Array(count);
-  for (let index = 0; index < count; index++) order[index] = index;
+  for (let position = 0; position < count; position++) order[position] = position;
   const buckets = new Uint32Array(65537);
   for (const shift of [0, 16]) {
     buckets.fill(0);
-    for (let index = 0; index < count; index++) buckets[((keys[order[index]] >>> shift) & 0xffff) + 1]++;
+    for (let rank = 0; rank < count; rank++) buckets[((keys[order[rank]] >>> shift) & 0xffff) + 1]++;
     for (let bucket = 1; bucket < buckets.length; bucket++) buckets[bucket] += buckets[bucket - 1];
-    for (let index = 0; index < count; index++) {
-      const point = order[index];
-      scratch[buckets[(keys[point] >>> shift) & 0xffff]++] = point;
+    for (let rank = 0; rank < count; rank++) {
+      const position = order[rank];
+      scratch[buckets[(keys[position] >>> shift) & 0xffff]++] = position;
     }
     [order, scratch] = [scratch, order];
   }
+  if (indices) for (let rank = 0; rank < count; rank++) order[rank] = indices[order[rank]];
   return order;
-}
-
-/** Reorder a column by `order` (returns a new array). */
-export function permute(values: Float64Array, order: Uint32Array): Float64Array {
-  const result = new Float64Array(order.length);
-  for (let index = 0; index < order.length; index++) result[index] = values[order[index]];
-  return result;
 }
