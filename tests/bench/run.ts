@@ -13,7 +13,8 @@ import { EngineWorkerPool } from "../../app/lib/engine-worker.server";
  * npm run bench — the survey engine at spring-basin and bay scale on seeded synthetic surveys.
  * Prints per-stage times, the total and peak resident memory, and the ratio to the targets set for
  * a lean pipeline on this kind of machine (spring basin ≈ 0.5 s; bay ≈ 9 s under 450 MB).
- * Options: --only basin|bay|degenerate, --single-thread (no worker threads), --runs N,
+ * Options: --only basin|bay|degenerate, --single-thread (no worker threads), --threads (threads
+ * for small surveys too; by default only from 100,000 soundings a survey), --runs N,
  * --default-malloc (measure with glibc's default mmap threshold).
  */
 
@@ -82,6 +83,8 @@ if (process.platform === "linux" && process.env.MALLOC_MMAP_THRESHOLD_ === undef
 console.log(`malloc: ${process.env.MALLOC_MMAP_THRESHOLD_ ? `MALLOC_MMAP_THRESHOLD_=${process.env.MALLOC_MMAP_THRESHOLD_}` : "glibc defaults"}`);
 const only = args.includes("--only") ? args[args.indexOf("--only") + 1] : null;
 const singleThread = args.includes("--single-thread");
+// As in the CLI: below this many soundings per survey, handing work to threads costs more than it saves.
+const threadedFromSoundings = args.includes("--threads") ? 0 : 100_000;
 const runs = args.includes("--runs") ? Number(args[args.indexOf("--runs") + 1]) : null;
 
 // Resident memory is per process (worker threads included). The main thread is busy while the
@@ -134,7 +137,7 @@ async function runScenario(scenario: Scenario, pool: EngineWorkerPool | null, ru
     const start = last;
     const cpuStart = process.cpuUsage();
     let result: EngineResult;
-    if (pool) {
+    if (pool && scenario.soundings >= threadedFromSoundings) {
       result = await pool.computeSurveyVolumes(engineSurveys, limit, scenario.settings, onProgress, { transferInputs: true });
     } else {
       const surfaces = triangulateSurveys(engineSurveys, scenario.settings.maxEdge, onProgress);
@@ -180,7 +183,8 @@ async function runScenario(scenario: Scenario, pool: EngineWorkerPool | null, ru
   console.log(`  peak RSS over the measured run${runs > 1 ? "s" : ""} (whole process incl. threads, 2 ms samples) ${peakMb.toFixed(0)} MB` +
     (target ? `   target < ${target} MB → ratio ${(peakMb / target).toFixed(2)}` : "") +
     `   (reached ${peakStages[peaks.indexOf(Math.max(...peaks))]})`);
-  console.log(`  best of ${runs} run${runs > 1 ? "s" : ""} after one warm-up; ${pool ? "2 worker threads" : "single thread"}`);
+  const threaded = pool !== null && scenario.soundings >= threadedFromSoundings;
+  console.log(`  best of ${runs} run${runs > 1 ? "s" : ""} after one warm-up; ${threaded ? "2 worker threads" : "single thread"}`);
 }
 
 async function main() {
