@@ -15,6 +15,7 @@ import { ImportJob, initImportJob } from "./import-job";
 import { Sounding, initSounding } from "./sounding";
 import { Survey, initSurvey } from "./survey";
 import { SurveySnapshot, initSurveySnapshot } from "./survey-snapshot";
+import { ShareLink, initShareLink } from "./share-link";
 import { Assignment, initAssignment } from "./assignment";
 import { DiveTeam, initDiveTeam } from "./dive-team";
 import { Shoreline, initShoreline } from "./shoreline";
@@ -27,6 +28,7 @@ export { SURVEY_KINDS, SURVEY_STATUSES, type SurveyKind, type SurveyStatus } fro
 export { CELL_RESULT_STATUSES, type CellResultStatus } from "./cell-result";
 export { IMPORT_JOB_STATES, type ImportJobState } from "./import-job";
 export type { SnapshotTotals } from "./survey-snapshot";
+export { ShareLink };
 export { Assignment, DiveTeam, Shoreline };
 export type { DiveTeamMember } from "./dive-team";
 
@@ -54,6 +56,7 @@ export function initModels(): Sequelize {
   initColumnMapping(sequelize);
   initImportJob(sequelize);
   initApiToken(sequelize);
+  initShareLink(sequelize);
   initDiveTeam(sequelize);
   initAssignment(sequelize);
   initShoreline(sequelize);
@@ -106,6 +109,11 @@ export function initModels(): Sequelize {
   Project.hasOne(Shoreline, { foreignKey: "projectId", as: "shoreline" });
   Shoreline.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   Shoreline.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
+  // Public share links (issue 6).
+  Project.hasMany(ShareLink, { foreignKey: "projectId", as: "shareLinks" });
+  ShareLink.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  ShareLink.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
+  ShareLink.belongsTo(User, { foreignKey: "revokedById", as: "revokedBy" });
 
   initialised = sequelize;
   return sequelize;
