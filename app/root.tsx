@@ -1,14 +1,16 @@
 import { Form, Link, Links, Meta, Outlet, Scripts, ScrollRestoration, isRouteErrorResponse, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
 import { getOptionalUser } from "./lib/access.server";
+import { applyFramePolicy } from "./lib/frame-policy.server";
 import { assertSameOrigin } from "./lib/origin.server";
 import "./app.css";
 
-// Every mutating request (any route, any form) passes this Origin check first.
+// Every mutating request (any route, any form) passes this Origin check first; every response
+// leaves with the framing policy (only the public share page may be framed).
 export const middleware: Route.MiddlewareFunction[] = [
   async ({ request }, next) => {
     assertSameOrigin(request);
-    return next();
+    return applyFramePolicy(await next());
   },
 ];
 

@@ -21,6 +21,9 @@ export default [
     route("members", "routes/project-members.tsx"),
     route("audit", "routes/project-audit.tsx"),
     route("plans/:date", "routes/project-plan.tsx"),
+    // Progress exports and public share links (issue 6).
+    route("quantities", "routes/projects.$projectId.quantities.tsx"),
+    route("share", "routes/projects.$projectId.share.tsx"),
   ]),
   // Survey import: resource routes (JSON, CSV) outside the project layout.
   route("projects/:projectId/surveys/upload", "routes/projects.$projectId.surveys.upload.ts"),
@@ -28,6 +31,14 @@ export default [
   route("projects/:projectId/surveys/imports/:jobId/problems.csv", "routes/projects.$projectId.surveys.imports.$jobId.problems[.]csv.ts"),
   route("api/projects/:projectId/surveys", "routes/api.projects.$projectId.surveys.ts"),
   route("api/projects/:projectId/surveys/:surveyId", "routes/api.projects.$projectId.surveys.$surveyId.ts"),
+  // Progress: JSON, CSV, GeoJSON, the printable report and the public share page (issue 6).
+  route("api/projects/:projectId/progress", "routes/api.projects.$projectId.progress.ts"),
+  route("api/projects/:projectId/quantities.csv", "routes/api.projects.$projectId.quantities[.]csv.ts"),
+  route("api/projects/:projectId/quantities.geojson", "routes/api.projects.$projectId.quantities[.]geojson.ts"),
+  route("api/projects/:projectId/share-links", "routes/api.projects.$projectId.share-links.ts"),
+  route("api/projects/:projectId/share-links/:token", "routes/api.projects.$projectId.share-links.$token.ts"),
+  route("projects/:projectId/quantities/report", "routes/projects.$projectId.quantities.report.tsx"),
+  route("share/:token", "routes/share.$token.tsx"),
   // Coverage map and dive plans (issue 5): the offline map style and the map's JSON API.
   route("projects/:projectId/map/style.json", "routes/project-map-style[.]json.ts"),
   route("api/projects/:projectId/cells", "routes/api.projects.$projectId.cells.ts"),

@@ -20,6 +20,9 @@ export const AUDIT_ACTIONS = {
   surveyRestored: "survey-restored",
   assignmentCreated: "assignment-created",
   planEmailed: "plan-emailed",
+  shareLinkCreated: "share-link-created",
+  shareLinkUpdated: "share-link-updated",
+  shareLinkRevoked: "share-link-revoked",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

@@ -1,5 +1,7 @@
 import { requireRole } from "~/lib/access.server";
 import { ROLE_LABELS } from "~/lib/roles";
+import { ProgressOverview } from "~/components/progress-overview";
+import { loadProgress } from "~/models/progress.server";
 import { listZones } from "~/models/project.server";
 import type { Route } from "./+types/project-overview";
 
@@ -7,14 +9,24 @@ const UNIT_LABELS = { "us-ft": "US survey feet", ft: "international feet", m: "m
 const UNIT_SYMBOLS = { "us-ft": "ft", ft: "ft", m: "m" } as const;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project, role } = await requireRole(request, params.projectId);
-  const zones = await listZones(project);
+  const { project, role, user } = await requireRole(request, params.projectId);
+  const [zones, progress] = await Promise.all([listZones(project), loadProgress(project)]);
+  // Exports for the manager and viewers; the public share page for outreach and the manager.
+  const exports = user.isSiteAdmin || role === "manager" || role === "viewer";
+  const sharing = user.isSiteAdmin || role === "manager" || role === "outreach";
+  const base = `/projects/${project.id}`;
+  const progressLinks = [
+    ...(exports ? [{ href: `${base}/quantities`, label: "Quantities and exports" }, { href: `/api/projects/${project.id}/quantities.csv`, label: "CSV" }] : []),
+    ...(sharing ? [{ href: `${base}/share`, label: "Public share links" }] : []),
+  ];
   return {
     project,
     unitLabel: UNIT_LABELS[project.lengthUnit],
     unit: UNIT_SYMBOLS[project.lengthUnit],
     roleLabel: role ? ROLE_LABELS[role] : "Site administrator (not a member)",
     zones,
+    progress,
+    progressLinks,
   };
 }
 
@@ -31,6 +43,8 @@ export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
   const { project, unit, zones } = loaderData;
   const percent = (share: number) => `${Math.round(share * 100)} %`;
   return (
+    <div className="space-y-6">
+    <ProgressOverview progress={loaderData.progress} links={loaderData.progressLinks} />
     <div className="grid gap-6 md:grid-cols-2">
       <section aria-labelledby="facts" className="rounded border border-line bg-panel p-4">
         <h2 id="facts" className="font-semibold">Project facts</h2>
@@ -66,6 +80,7 @@ export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
           </ol>
         )}
       </section>
+    </div>
     </div>
   );
 }

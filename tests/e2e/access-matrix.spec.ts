@@ -19,6 +19,14 @@ const MATRIX: Array<{ path: string; allowed: DemoAccount[] }> = [
   { path: "/projects/{project}/surveys", allowed: EVERYONE },
   { path: "/projects/{project}/members", allowed: ["manager", "admin"] },
   { path: "/projects/{project}/audit", allowed: ["manager", "admin"] },
+  // Progress exports and share links (issue 6): figures for every member, quantities for the
+  // manager and viewers, the public-link page for outreach and the manager.
+  { path: "/api/projects/{project}/progress", allowed: EVERYONE },
+  { path: "/projects/{project}/quantities", allowed: ["manager", "viewer", "admin"] },
+  { path: "/projects/{project}/quantities/report", allowed: ["manager", "viewer", "admin"] },
+  { path: "/api/projects/{project}/quantities.csv", allowed: ["manager", "viewer", "admin"] },
+  { path: "/api/projects/{project}/quantities.geojson", allowed: ["manager", "viewer", "admin"] },
+  { path: "/projects/{project}/share", allowed: ["manager", "outreach", "admin"] },
   { path: "/dev/mail", allowed: ["admin"] },
 ];
 

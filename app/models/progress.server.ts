@@ -1,0 +1,180 @@
+import { Op } from "sequelize";
+import { forecastFinish, type ZoneForecast } from "../../shared/progress/forecast";
+import { percentCellsAtFirmSand, percentCompleteByVolume } from "../../shared/progress/percent-complete";
+import { productionIntervals, type ProductionInterval } from "../../shared/progress/production";
+import { progressSeries } from "../../shared/progress/time-series";
+import { workingCalendar, type WorkingDayBasis } from "../../shared/progress/working-days";
+import { unitLabel, volumeUnitFor, type VolumeUnit } from "../../shared/units";
+import { Assignment, CellResult, Survey, SurveySnapshot, Zone, getSequelize } from "~/lib/db.server";
+import type { ProjectView } from "./project.server";
+
+/**
+ * The project's progress as the manager reads it: per zone and for the project, the latest
+ * figures (from the cell results), the cumulative series (from the snapshots), production per
+ * working day and a forecast finish per zone. Plain objects only.
+ */
+
+export interface ProgressFigures {
+  /** Project volume unit. */
+  plannedVolume: number;
+  removedVolume: number;
+  remainingVolume: number;
+  /** 0–100; null without a planned volume. */
+  percentCompleteByVolume: number | null;
+  /** 0–100; null without cells. */
+  percentCellsAtFirmSand: number | null;
+  cells: number;
+  cellsAtFirmSand: number;
+  cellsConfirmed: number;
+  cellsInWork: number;
+  cellsUntouched: number;
+  cellsNoData: number;
+  /** Date of the newest survey that supplies any of these cells' latest bottom. */
+  lastSurveyOn: string | null;
+}
+
+export interface ZoneProgress extends ProgressFigures {
+  zoneId: number;
+  name: string;
+  forecast: ZoneForecast;
+}
+
+export interface ProgressView {
+  projectId: number;
+  volumeUnit: VolumeUnit;
+  /** "yd³" or "m³", for every volume in this object. */
+  volumeLabel: string;
+  hasFigures: boolean;
+  /** Why there are no figures, when there are none. */
+  reason: string | null;
+  total: ProgressFigures;
+  zones: ZoneProgress[];
+  series: {
+    dates: string[];
+    totalRemovedVolume: number[];
+    zones: Array<{ zoneId: number; name: string; removedVolume: Array<number | null> }>;
+  };
+  production: ProductionInterval[];
+  workingDayBasis: WorkingDayBasis;
+  /** The forecast's assumptions, in words, for the screen and the JSON alike. */
+  assumptions: string[];
+}
+
+/** Half a cubic unit: below what a survey can resolve over a 20 ft cell, so a zone with less left is done. */
+const NEGLIGIBLE_VOLUME = 0.5;
+
+function emptyFigures(): ProgressFigures {
+  return {
+    plannedVolume: 0, removedVolume: 0, remainingVolume: 0, percentCompleteByVolume: null, percentCellsAtFirmSand: null,
+    cells: 0, cellsAtFirmSand: 0, cellsConfirmed: 0, cellsInWork: 0, cellsUntouched: 0, cellsNoData: 0, lastSurveyOn: null,
+  };
+}
+
+type CellRow = Pick<CellResult, "zoneId" | "plannedVolume" | "removedVolume" | "remainingVolume" | "status" | "latestSurveyId">;
+
+function addCell(figures: ProgressFigures, cell: CellRow, surveyDate: string | null) {
+  figures.plannedVolume += cell.plannedVolume;
+  figures.removedVolume += cell.removedVolume;
+  figures.remainingVolume += cell.remainingVolume;
+  figures.cells++;
+  if (cell.status === "confirmed") {
+    figures.cellsConfirmed++;
+    figures.cellsAtFirmSand++; // confirmed cells are at firm sand, proven by a closeout survey
+  } else if (cell.status === "at-firm-sand") figures.cellsAtFirmSand++;
+  else if (cell.status === "in-work") figures.cellsInWork++;
+  else if (cell.status === "untouched") figures.cellsUntouched++;
+  else figures.cellsNoData++;
+  if (surveyDate && (figures.lastSurveyOn === null || surveyDate > figures.lastSurveyOn)) figures.lastSurveyOn = surveyDate;
+}
+
+function finish(figures: ProgressFigures): ProgressFigures {
+  figures.percentCompleteByVolume = percentCompleteByVolume(figures.plannedVolume, figures.remainingVolume);
+  figures.percentCellsAtFirmSand = percentCellsAtFirmSand(figures.cellsAtFirmSand, figures.cells);
+  return figures;
+}
+
+/** Distinct dive-plan dates of the project (the days crews were planned to work). */
+export async function divePlanDates(projectId: number): Promise<string[]> {
+  const rows = await Assignment.findAll({
+    where: { projectId },
+    attributes: [[getSequelize().fn("DISTINCT", getSequelize().col("workDate")), "workDate"]],
+    raw: true,
+  });
+  return rows.map((row) => String((row as unknown as { workDate: string }).workDate).slice(0, 10));
+}
+
+export async function loadProgress(project: ProjectView): Promise<ProgressView> {
+  const volumeUnit = volumeUnitFor(project.lengthUnit);
+  const volumeLabel = unitLabel(project.lengthUnit, "volume");
+  const [zones, cells, snapshots, surveys, planDates] = await Promise.all([
+    Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]], attributes: ["id", "name"] }),
+    CellResult.findAll({
+      where: { projectId: project.id, areaInLimit: { [Op.gt]: 0 } },
+      attributes: ["zoneId", "plannedVolume", "removedVolume", "remainingVolume", "status", "latestSurveyId"],
+      raw: true,
+    }),
+    SurveySnapshot.findAll({ where: { projectId: project.id }, attributes: ["surveyedOn", "totals", "zones"], order: [["surveyedOn", "ASC"]] }),
+    Survey.findAll({ where: { projectId: project.id, status: "active" }, attributes: ["id", "surveyedOn"], raw: true }),
+    divePlanDates(project.id),
+  ]);
+  const surveyDate = new Map(surveys.map((survey) => [survey.id, String(survey.surveyedOn)]));
+
+  const total = emptyFigures();
+  const byZone = new Map(zones.map((zone) => [zone.id, emptyFigures()]));
+  for (const cell of cells as unknown as CellRow[]) {
+    const date = cell.latestSurveyId === null ? null : surveyDate.get(Number(cell.latestSurveyId)) ?? null;
+    addCell(total, cell, date);
+    if (cell.zoneId !== null) {
+      const figures = byZone.get(Number(cell.zoneId));
+      if (figures) addCell(figures, cell, date);
+    }
+  }
+
+  const series = progressSeries(
+    snapshots.map((snapshot) => ({
+      surveyedOn: String(snapshot.surveyedOn),
+      removedVolume: snapshot.totals.removedVolume,
+      remainingVolume: snapshot.totals.remainingVolume,
+      zones: snapshot.zones.map((zone) => ({ zoneId: zone.zoneId, removedVolume: zone.totals.removedVolume, remainingVolume: zone.totals.remainingVolume })),
+    })),
+    zones.map((zone) => zone.id),
+  );
+  const calendar = workingCalendar(planDates);
+  const forecastOptions = { finishedBelowVolume: NEGLIGIBLE_VOLUME, changeThresholdVolume: NEGLIGIBLE_VOLUME };
+
+  const zoneProgress: ZoneProgress[] = zones.map((zone, index) => {
+    const figures = finish(byZone.get(zone.id)!);
+    const zoneSeries = series.zones[index];
+    return { zoneId: zone.id, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, calendar, forecastOptions) };
+  });
+  const basisWords = calendar.basis === "dive-plans"
+    ? "Working days are the days with a dive plan between two survey dates."
+    : "There are no dive plans yet, so working days are weekdays (Monday to Friday) between two survey dates.";
+  return {
+    projectId: project.id,
+    volumeUnit,
+    volumeLabel,
+    hasFigures: cells.length > 0,
+    reason: cells.length > 0 ? null : "No figures yet: they appear once a baseline survey with a probe column is imported for a project with a work limit.",
+    total: finish(total),
+    zones: zoneProgress,
+    series: {
+      dates: series.dates,
+      totalRemovedVolume: [...series.totalRemovedVolume],
+      zones: series.zones.map((zoneSeries, index) => ({
+        zoneId: zoneSeries.zoneId,
+        name: zones[index].name,
+        removedVolume: [...zoneSeries.removedVolume].map((value) => (Number.isFinite(value) ? value : null)),
+      })),
+    },
+    production: productionIntervals(series.dates, series.totalRemovedVolume, calendar),
+    workingDayBasis: calendar.basis,
+    assumptions: [
+      "Removed volume is measured against the baseline survey; each survey date's figures include every survey up to that date.",
+      "Production per working day is the removed volume between two survey dates divided by the working days between them.",
+      basisWords,
+      `A zone's forecast uses its removal between its last two surveys that showed a change, and assumes the crews keep that rate on weekdays from the latest of them until the remaining volume is gone; a zone with less than ${NEGLIGIBLE_VOLUME} ${volumeLabel} left counts as finished.`,
+      "A forecast is an estimate, not a schedule: crews, weather, wildlife stand-downs and water-quality holds change it.",
+    ],
+  };
+}

@@ -1,0 +1,170 @@
+import { createCrs } from "../../shared/crs";
+import { cellPolygon, createCellGrid } from "../../shared/grid/cell-grid";
+import { csvLine, type CsvValue } from "../../shared/csv-safe";
+import { unitLabel } from "../../shared/units";
+import { CellResult, Survey, Zone } from "~/lib/db.server";
+import { resolveCrsDefinition } from "~/lib/epsg.server";
+import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { loadProgress, type ProgressFigures, type ProgressView } from "./progress.server";
+import type { ProjectView } from "./project.server";
+
+/**
+ * Quantities for pay applications: the survey pair they rest on, the method in words, zone
+ * totals and per-cell figures, as plain data for the CSV, the GeoJSON and the printable report.
+ */
+
+export interface SurveyRef {
+  id: number;
+  kind: string;
+  surveyedOn: string;
+  datum: string;
+}
+
+export interface QuantitiesView {
+  project: { id: number; name: string; crs: string; lengthLabel: string; lengthLabelLong: string; volumeLabel: string; cellSize: number; rasterResolution: number };
+  baseline: SurveyRef | null;
+  latest: SurveyRef | null;
+  method: string;
+  progress: ProgressView;
+  cells: Array<{
+    label: string;
+    row: number;
+    col: number;
+    zone: string | null;
+    status: string;
+    plannedVolume: number;
+    removedVolume: number;
+    depositedVolume: number;
+    remainingVolume: number;
+    meanRemainingThickness: number | null;
+    coverage: number;
+    areaInLimit: number;
+    latestSurveyOn: string | null;
+  }>;
+}
+
+export async function loadQuantities(project: ProjectView): Promise<QuantitiesView> {
+  const [progress, surveys, zones, cells] = await Promise.all([
+    loadProgress(project),
+    Survey.findAll({ where: { projectId: project.id, status: "active" }, order: [["surveyedOn", "ASC"], ["id", "ASC"]], attributes: ["id", "kind", "surveyedOn", "datum"] }),
+    Zone.findAll({ where: { projectId: project.id }, attributes: ["id", "name"] }),
+    CellResult.findAll({ where: { projectId: project.id }, order: [["row", "ASC"], ["col", "ASC"]] }),
+  ]);
+  const ref = (survey: Survey | undefined): SurveyRef | null =>
+    survey ? { id: survey.id, kind: survey.kind, surveyedOn: String(survey.surveyedOn), datum: survey.datum } : null;
+  const baselines = surveys.filter((survey) => survey.kind === "baseline");
+  const baseline = baselines[baselines.length - 1];
+  const later = surveys.filter((survey) => survey.kind !== "baseline");
+  const zoneName = new Map(zones.map((zone) => [zone.id, zone.name]));
+  const surveyDate = new Map(surveys.map((survey) => [survey.id, String(survey.surveyedOn)]));
+  const length = unitLabel(project.lengthUnit);
+  const volumeLabel = unitLabel(project.lengthUnit, "volume");
+  return {
+    project: {
+      id: project.id,
+      name: project.name,
+      crs: project.crs,
+      lengthLabel: length,
+      lengthLabelLong: unitLabel(project.lengthUnit, "length-long"),
+      volumeLabel,
+      cellSize: project.grid.cellSize,
+      rasterResolution: project.grid.rasterResolution,
+    },
+    baseline: ref(baseline),
+    latest: ref(later[later.length - 1] ?? baseline),
+    method:
+      `Surface to surface: each survey is a Delaunay triangulation of its soundings (no triangle edge longer than ${project.grid.maxEdge} ${length}), ` +
+      `sampled on a ${project.grid.rasterResolution} ${length} raster inside the work limit and integrated over ${project.grid.cellSize} ${length} cells. ` +
+      "Planned = baseline muck top down to firm sand (probe refusal); removed = baseline down to the latest bottom; remaining = latest bottom down to firm sand. " +
+      `Volumes in ${volumeLabel}.`,
+    progress,
+    cells: cells
+      .filter((cell) => cell.areaInLimit > 0)
+      .map((cell) => ({
+        label: cell.label,
+        row: cell.row,
+        col: cell.col,
+        zone: cell.zoneId === null ? null : zoneName.get(Number(cell.zoneId)) ?? null,
+        status: cell.status,
+        plannedVolume: cell.plannedVolume,
+        removedVolume: cell.removedVolume,
+        depositedVolume: cell.depositedVolume,
+        remainingVolume: cell.remainingVolume,
+        meanRemainingThickness: cell.meanRemainingThickness,
+        coverage: cell.coverage,
+        areaInLimit: cell.areaInLimit,
+        latestSurveyOn: cell.latestSurveyId === null ? null : surveyDate.get(Number(cell.latestSurveyId)) ?? null,
+      })),
+  };
+}
+
+function surveyWords(survey: SurveyRef | null): string {
+  return survey ? `${survey.kind} survey of ${survey.surveyedOn} (#${survey.id}, ${survey.datum})` : "none";
+}
+
+function zoneRow(name: string, figures: ProgressFigures): CsvValue[] {
+  return [
+    name, figures.plannedVolume, figures.removedVolume, figures.remainingVolume,
+    figures.percentCompleteByVolume, figures.cells, figures.cellsAtFirmSand, figures.cellsConfirmed,
+    figures.percentCellsAtFirmSand, figures.lastSurveyOn ?? "",
+  ];
+}
+
+/** The quantities CSV: a header block, zone totals, then one row per cell. Every text field is formula-safe. */
+export function quantitiesCsv(view: QuantitiesView, generatedAt: Date): string {
+  const { project, progress } = view;
+  const volume = project.volumeLabel;
+  const lines: string[] = [];
+  lines.push(csvLine(["Firmsand quantities"]));
+  lines.push(csvLine(["Project", project.name]));
+  lines.push(csvLine(["Baseline survey", surveyWords(view.baseline)]));
+  lines.push(csvLine(["Latest survey", surveyWords(view.latest)]));
+  lines.push(csvLine(["Coordinate reference system", project.crs]));
+  lines.push(csvLine(["Units", `volumes in ${volume}; lengths in ${project.lengthLabelLong} (${project.lengthLabel}); areas in ${project.lengthLabel}²`]));
+  lines.push(csvLine(["Method", view.method]));
+  lines.push(csvLine(["Generated", generatedAt.toISOString()]));
+  lines.push("\r\n");
+  lines.push(csvLine(["Zone totals"]));
+  lines.push(csvLine([
+    "zone", `planned (${volume})`, `removed (${volume})`, `remaining (${volume})`, "complete by volume (%)",
+    "cells", "cells at firm sand", "cells confirmed", "cells at firm sand (%)", "last survey",
+  ]));
+  for (const zone of progress.zones) lines.push(csvLine(zoneRow(zone.name, zone), 2));
+  lines.push(csvLine(zoneRow("Project total", progress.total), 2));
+  lines.push("\r\n");
+  lines.push(csvLine(["Cells"]));
+  lines.push(csvLine([
+    "cell", "row", "col", "zone", "status", `planned (${volume})`, `removed (${volume})`, `deposited (${volume})`, `remaining (${volume})`,
+    `mean remaining thickness (${project.lengthLabel})`, "surveyed coverage (0-1)", `area in work limit (${project.lengthLabel}²)`, "latest survey",
+  ]));
+  for (const cell of view.cells) {
+    lines.push(
+      csvLine([
+        cell.label, cell.row, cell.col, cell.zone ?? "", cell.status, cell.plannedVolume, cell.removedVolume, cell.depositedVolume, cell.remainingVolume,
+        cell.meanRemainingThickness, cell.coverage, cell.areaInLimit, cell.latestSurveyOn ?? "",
+      ]),
+    );
+  }
+  return lines.join("");
+}
+
+/** The cells as a GeoJSON FeatureCollection in lon/lat (RFC 7946) with their figures. */
+export async function quantitiesGeoJson(view: QuantitiesView): Promise<GeoJSON.FeatureCollection<GeoJSON.Polygon>> {
+  const geometry = await loadProjectGeometry(view.project.id);
+  if (!geometry.workLimit) return { type: "FeatureCollection", features: [] };
+  const grid = createCellGrid(geometry.workLimit, {
+    cellSize: geometry.settings.cellSize,
+    originX: geometry.settings.originX,
+    originY: geometry.settings.originY,
+    rotationDegrees: geometry.settings.rotationDegrees,
+  });
+  const crs = createCrs(resolveCrsDefinition(view.project.crs).definition);
+  return {
+    type: "FeatureCollection",
+    features: view.cells.map((cell) => ({
+      type: "Feature",
+      geometry: { type: "Polygon", coordinates: [cellPolygon(grid, cell.row, cell.col).map(([x, y]) => crs.toLonLat(x, y))] },
+      properties: { ...cell, volumeUnit: view.project.volumeLabel, lengthUnit: view.project.lengthLabel },
+    })),
+  };
+}

@@ -1,0 +1,169 @@
+import { z } from "zod";
+import { Project, ShareLink, User, Zone } from "~/lib/db.server";
+import { createLinkToken, hashLinkToken } from "~/lib/tokens.server";
+import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
+import { loadProgress } from "./progress.server";
+import { presentProject, type ProjectView } from "./project.server";
+import type { UserView } from "./user.server";
+
+/**
+ * Public progress share links. A link is a random 256-bit token (only its SHA-256 is stored) that
+ * opens a read-only page of zone-level progress. What that page may show is the explicit
+ * allow-list in `presentPublicProgress`: nothing else of the project ever reaches it.
+ */
+
+export const shareLinkFormSchema = z.object({
+  name: z.string().trim().min(1, "give the link a name, such as the web page it is for").max(120, "keep the name under 120 characters"),
+  publicText: z.string().trim().max(600, "keep the public text under 600 characters").default(""),
+});
+export type ShareLinkForm = z.infer<typeof shareLinkFormSchema>;
+
+export interface ShareLinkView {
+  id: number;
+  name: string;
+  publicText: string;
+  createdAt: string;
+  createdBy: string | null;
+  revokedAt: string | null;
+}
+
+function presentShareLink(link: ShareLink & { createdBy?: User | null }): ShareLinkView {
+  return {
+    id: link.id,
+    name: link.name,
+    publicText: link.publicText,
+    createdAt: link.createdAt.toISOString(),
+    createdBy: link.createdBy?.name ?? null,
+    revokedAt: link.revokedAt ? link.revokedAt.toISOString() : null,
+  };
+}
+
+export function shareUrl(origin: string, token: string): string {
+  return `${origin}/share/${token}`;
+}
+
+export async function listShareLinks(project: ProjectView): Promise<ShareLinkView[]> {
+  const links = await ShareLink.findAll({
+    where: { projectId: project.id },
+    include: [{ model: User, as: "createdBy", attributes: ["name"] }],
+    order: [["createdAt", "DESC"], ["id", "DESC"]],
+  });
+  return links.map(presentShareLink);
+}
+
+export async function createShareLink(project: ProjectView, user: UserView, form: ShareLinkForm, origin: string, ip: string | null) {
+  const { token, tokenHash } = createLinkToken();
+  const link = await ShareLink.create({ projectId: project.id, name: form.name, publicText: form.publicText, tokenHash, createdById: user.id, revokedAt: null, revokedById: null });
+  await recordAudit({ action: AUDIT_ACTIONS.shareLinkCreated, projectId: project.id, userId: user.id, ip, detail: { shareLinkId: link.id, name: form.name } });
+  return { token, url: shareUrl(origin, token), link: presentShareLink(link) };
+}
+
+export async function updateShareLink(project: ProjectView, user: UserView, id: number, form: ShareLinkForm, ip: string | null): Promise<boolean> {
+  const link = await ShareLink.findOne({ where: { id, projectId: project.id, revokedAt: null } });
+  if (!link) return false;
+  await link.update({ name: form.name, publicText: form.publicText });
+  publicViewCache.delete(link.tokenHash);
+  await recordAudit({ action: AUDIT_ACTIONS.shareLinkUpdated, projectId: project.id, userId: user.id, ip, detail: { shareLinkId: link.id, name: form.name } });
+  return true;
+}
+
+/** Revokes a link of this project, found by its id or by its token; false when there is no such live link. */
+export async function revokeShareLink(project: ProjectView, user: UserView, which: { id: number } | { token: string }, ip: string | null): Promise<boolean> {
+  const where = "id" in which ? { id: which.id } : { tokenHash: hashLinkToken(which.token) };
+  const link = await ShareLink.findOne({ where: { ...where, projectId: project.id, revokedAt: null } });
+  if (!link) return false;
+  await link.update({ revokedAt: new Date(), revokedById: user.id });
+  publicViewCache.delete(link.tokenHash);
+  await recordAudit({ action: AUDIT_ACTIONS.shareLinkRevoked, projectId: project.id, userId: user.id, ip, detail: { shareLinkId: link.id, name: link.name } });
+  return true;
+}
+
+// ——— The public side.
+
+type LonLatRing = Array<[number, number]>;
+
+/** Everything the public page may show. Adding a field here is a decision: keep the walk test in step. */
+export interface PublicProgressView {
+  projectName: string;
+  publicText: string;
+  /** Date of the newest survey behind the figures. */
+  lastUpdated: string | null;
+  /** 0–100, whole percent. */
+  percentComplete: number | null;
+  /** Whole volume units. */
+  removedVolume: number;
+  volumeLabel: string;
+  workLimit: LonLatRing[][];
+  zones: Array<{ name: string; percentComplete: number | null; polygons: LonLatRing[][] }>;
+}
+
+/** Polygon or MultiPolygon GeoJSON → polygons of rings of [lon, lat]; nothing else of the object is read. */
+function lonLatPolygons(geoJson: string | null): LonLatRing[][] {
+  if (!geoJson) return [];
+  const geometry = JSON.parse(geoJson) as { type: string; coordinates: unknown };
+  const polygons = (geometry.type === "Polygon" ? [geometry.coordinates] : geometry.type === "MultiPolygon" ? geometry.coordinates : []) as number[][][][];
+  return polygons.map((polygon) => polygon.map((ring) => ring.map(([lon, lat]) => [Number(lon), Number(lat)] as [number, number])));
+}
+
+const wholePercent = (value: number | null) => (value === null ? null : Math.round(value));
+
+export async function presentPublicProgress(projectId: number, link: Pick<ShareLink, "publicText">): Promise<PublicProgressView | null> {
+  const project = await Project.findByPk(projectId);
+  if (!project) return null;
+  const progress = await loadProgress(presentProject(project));
+  const zonePolygons = new Map<number, string>();
+  for (const zone of await Zone.findAll({ where: { projectId }, attributes: ["id", "polygonGeoJson"] })) zonePolygons.set(zone.id, zone.polygonGeoJson);
+  return {
+    projectName: project.name,
+    publicText: link.publicText,
+    lastUpdated: progress.total.lastSurveyOn,
+    percentComplete: wholePercent(progress.total.percentCompleteByVolume),
+    removedVolume: Math.round(progress.total.removedVolume),
+    volumeLabel: progress.volumeLabel,
+    workLimit: lonLatPolygons(project.workLimitGeoJson),
+    zones: progress.zones.map((zone) => ({
+      name: zone.name,
+      percentComplete: wholePercent(zone.percentCompleteByVolume),
+      polygons: lonLatPolygons(zonePolygons.get(zone.zoneId) ?? null),
+    })),
+  };
+}
+
+/** Public views by token hash, kept briefly so a busy embed does not recompute on every view. */
+export const PUBLIC_CACHE_SECONDS = 60;
+const publicViewCache = new Map<string, { view: PublicProgressView; until: number }>();
+
+/** The public view behind a token, or null for an unknown or revoked link. */
+export async function publicProgressForToken(token: string, now = Date.now()): Promise<PublicProgressView | null> {
+  if (!/^[A-Za-z0-9_-]{20,100}$/.test(token)) return null;
+  const tokenHash = hashLinkToken(token);
+  const link = await ShareLink.findOne({ where: { tokenHash, revokedAt: null }, attributes: ["id", "projectId", "publicText", "tokenHash"] });
+  if (!link) {
+    publicViewCache.delete(tokenHash);
+    return null;
+  }
+  const cached = publicViewCache.get(tokenHash);
+  if (cached && cached.until > now) return cached.view;
+  const view = await presentPublicProgress(link.projectId, link);
+  if (view) publicViewCache.set(tokenHash, { view, until: now + PUBLIC_CACHE_SECONDS * 1000 });
+  return view;
+}
+
+// ——— Rate limit for the public page: a fixed window per client address, in this process. Without
+// a trusted proxy every client shares one address (see clientAddress), so the limit is generous.
+
+export const PUBLIC_REQUESTS_PER_MINUTE = 600;
+const windows = new Map<string, { start: number; count: number }>();
+
+/** Seconds to wait when the address has used up its window, else null (and the request is counted). */
+export function publicRateLimit(address: string, now = Date.now()): number | null {
+  const window = windows.get(address);
+  if (!window || now - window.start >= 60_000) {
+    if (windows.size > 10_000) windows.clear(); // bounded memory under a flood of addresses
+    windows.set(address, { start: now, count: 1 });
+    return null;
+  }
+  window.count++;
+  if (window.count <= PUBLIC_REQUESTS_PER_MINUTE) return null;
+  return Math.max(1, Math.ceil((window.start + 60_000 - now) / 1000));
+}

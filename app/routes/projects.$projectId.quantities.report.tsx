@@ -1,0 +1,88 @@
+import { Percent, Volume } from "~/components/progress-figures";
+import { requireRole } from "~/lib/access.server";
+import { loadQuantities } from "~/models/quantities.server";
+import type { Route } from "./+types/projects.$projectId.quantities.report";
+
+// The printable quantities report (outside the project layout, so it prints without navigation):
+// project, survey pair, method, totals per zone and a signature block for the reviewer.
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { project, user } = await requireRole(request, params.projectId, "manager", "viewer");
+  const view = await loadQuantities(project);
+  return {
+    project: view.project, baseline: view.baseline, latest: view.latest, method: view.method,
+    total: view.progress.total, zones: view.progress.zones, preparedBy: user.name, preparedOn: new Date().toISOString().slice(0, 10),
+  };
+}
+
+export function meta({ data: report }: Route.MetaArgs) {
+  return [{ title: `Quantities report · ${report?.project.name ?? "Firmsand"}` }];
+}
+
+const printCss = `
+@media print {
+  body > header, .no-print { display: none !important; }
+  body { background: #fff; }
+  @page { size: letter portrait; margin: 18mm; }
+  table { page-break-inside: avoid; }
+}`;
+
+function SignatureLine({ label }: { label: string }) {
+  return (
+    <div className="flex flex-col gap-1">
+      <div className="h-10 border-b border-ink" />
+      <span className="text-xs text-muted">{label}</span>
+    </div>
+  );
+}
+
+export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
+  const { project, total, zones } = loaderData;
+  const unit = project.volumeLabel;
+  return (
+    <main className="mx-auto max-w-4xl bg-panel px-8 py-6 print:px-0">
+      <style>{printCss}</style>
+      <p className="no-print mb-4 text-sm"><button type="button" className="rounded border border-line px-3 py-1" onClick={() => window.print()}>Print</button> or use the browser's print command.</p>
+      <h1 className="text-2xl font-semibold">Quantities report</h1>
+      <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-6 gap-y-1 text-sm">
+        <dt className="text-muted">Project</dt><dd>{project.name}</dd>
+        <dt className="text-muted">Baseline survey</dt><dd className="figures">{loaderData.baseline ? `${loaderData.baseline.surveyedOn} (#${loaderData.baseline.id}, ${loaderData.baseline.datum})` : "none"}</dd>
+        <dt className="text-muted">Compared with</dt><dd className="figures">{loaderData.latest ? `${loaderData.latest.surveyedOn} ${loaderData.latest.kind} (#${loaderData.latest.id})` : "none"}</dd>
+        <dt className="text-muted">Coordinate system</dt><dd className="figures">{project.crs}, {project.lengthLabelLong}</dd>
+        <dt className="text-muted">Method</dt><dd>{loaderData.method}</dd>
+        <dt className="text-muted">Prepared</dt><dd><span className="figures">{loaderData.preparedOn}</span> by {loaderData.preparedBy}</dd>
+      </dl>
+      <table className="mt-6 w-full border-collapse text-right text-sm" aria-label="Totals per zone">
+        <thead>
+          <tr className="border-b-2 border-ink">
+            <th className="py-1 text-left font-sans">Zone</th><th>Planned ({unit})</th><th>Removed ({unit})</th><th>Remaining ({unit})</th><th>Complete by volume</th><th>Cells at firm sand</th><th>Confirmed</th><th>Last survey</th>
+          </tr>
+        </thead>
+        <tbody>
+          {zones.map((zone) => (
+            <tr key={zone.zoneId} className="border-b border-line">
+              <th scope="row" className="py-1 text-left font-sans font-normal">{zone.name}</th>
+              <td><Volume value={zone.plannedVolume} unit={unit} digits={1} /></td><td><Volume value={zone.removedVolume} unit={unit} digits={1} /></td>
+              <td><Volume value={zone.remainingVolume} unit={unit} digits={1} /></td><td><Percent value={zone.percentCompleteByVolume} digits={1} /></td>
+              <td className="figures">{zone.cellsAtFirmSand} / {zone.cells}</td><td className="figures">{zone.cellsConfirmed}</td><td className="figures">{zone.lastSurveyOn ?? "–"}</td>
+            </tr>
+          ))}
+          <tr className="border-t-2 border-ink font-semibold">
+            <th scope="row" className="py-1 text-left font-sans">Project total</th>
+            <td><Volume value={total.plannedVolume} unit={unit} digits={1} /></td><td><Volume value={total.removedVolume} unit={unit} digits={1} /></td>
+            <td><Volume value={total.remainingVolume} unit={unit} digits={1} /></td><td><Percent value={total.percentCompleteByVolume} digits={1} /></td>
+            <td className="figures">{total.cellsAtFirmSand} / {total.cells}</td><td className="figures">{total.cellsConfirmed}</td><td className="figures">{total.lastSurveyOn ?? "–"}</td>
+          </tr>
+        </tbody>
+      </table>
+      <section aria-labelledby="signatures" className="mt-10 break-inside-avoid">
+        <h2 id="signatures" className="font-semibold">Review</h2>
+        <p className="mt-1 text-sm">I have reviewed the quantities above against the surveys named in this report.</p>
+        <div className="mt-4 grid grid-cols-2 gap-8">
+          <SignatureLine label="Reviewer's signature" /><SignatureLine label="Date" />
+          <SignatureLine label="Name and title" /><SignatureLine label="Organisation" />
+        </div>
+      </section>
+    </main>
+  );
+}

