@@ -26,15 +26,16 @@ describe("formula-injection escaping", () => {
 
   it("keeps a separator inside text in one cell", () => {
     // published: RFC 4180 §2 (fields containing commas, quotes or line breaks are quoted)
-    const line = csvLine(["x,=1", 2.5, null, "-1"]);
+    const line = csvLine(["x,=1", 2.5, null, "-1", 4]);
     const rows = Papa.parse<string[]>(line.trimEnd()).data;
-    expect(rows).toEqual([["x,=1", "2.500", "", "'-1"]]);
+    expect(rows).toEqual([["x,=1", "2.500", "", "'-1", "4"]]);
   });
 
   it("writes numbers as numbers, negative ones included, and no data as empty", () => {
     // practice: computed figures are numbers, not text, so they are not prefixed
     expect(csvNumber(-3.25, 2)).toBe("-3.25");
     expect(csvField(12.3456, 1)).toBe("12.3");
+    expect(csvNumber(-7)).toBe("-7");
     expect(csvNumber(Number.NaN)).toBe("");
     expect(csvNumber(Number.POSITIVE_INFINITY)).toBe("");
     expect(csvLine([1, "a"]).endsWith("\r\n")).toBe(true);

@@ -20,9 +20,10 @@ export function csvText(text: string): string {
   return `"${neutralised.replaceAll('"', '""')}"`;
 }
 
-/** One number field; NaN and infinities (no data) become an empty field. */
+/** One number field: integers (counts, rows) as they are, others to `fractionDigits`; NaN and infinities (no data) empty. */
 export function csvNumber(value: number, fractionDigits = 3): string {
   if (!Number.isFinite(value)) return "";
+  if (Number.isInteger(value)) return String(value);
   return value.toFixed(fractionDigits);
 }
 
