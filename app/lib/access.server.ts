@@ -36,6 +36,13 @@ export async function getOptionalUser(request: Request): Promise<UserView | null
 export async function requireUser(request: Request): Promise<UserView> {
   const user = await getOptionalUser(request);
   if (user) return user;
+  if (hasBearer(request)) {
+    // A program, not a person: say so plainly instead of redirecting to the sign-in page.
+    throw Response.json(
+      { error: "The API token is unknown or has been revoked." },
+      { status: 401, headers: { "WWW-Authenticate": 'Bearer realm="Firmsand"' } },
+    );
+  }
   const url = new URL(request.url);
   throw redirect(`/login?next=${encodeURIComponent(url.pathname + url.search)}`);
 }

@@ -15,6 +15,8 @@ export const AUDIT_ACTIONS = {
   passwordResetRequested: "password-reset-requested",
   passwordReset: "password-reset",
   passwordChanged: "password-changed",
+  apiTokenCreated: "api-token-created",
+  apiTokenRevoked: "api-token-revoked",
   surveyImported: "survey-imported",
   surveyRetracted: "survey-retracted",
   surveyRestored: "survey-restored",

@@ -10,11 +10,12 @@ import { clientAddress } from "~/lib/client-address.server";
 import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/form";
 import { AUDIT_ACTIONS } from "~/models/audit.server";
 import { changeOwnPassword, updateOwnName } from "~/models/user.server";
+import { createApiToken, listApiTokens, revokeApiToken } from "~/lib/api-token.server";
 import type { Route } from "./+types/account";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { name: user.name, email: user.email };
+  return { name: user.name, email: user.email, tokens: await listApiTokens(user) };
 }
 
 const schema = z.discriminatedUnion("intent", [
@@ -22,7 +23,11 @@ const schema = z.discriminatedUnion("intent", [
   z
     .object({ intent: z.literal("password"), currentPassword: z.string().min(1, "Enter your current password."), newPassword: newPasswordSchema, confirm: z.string() })
     .refine((value) => value.newPassword === value.confirm, { path: ["confirm"], message: "The two passwords differ." }),
+  z.object({ intent: z.literal("create-token"), tokenName: z.string().trim().min(1, "Name the token after what will use it.").max(120, "At most 120 characters.") }),
+  z.object({ intent: z.literal("revoke-token"), tokenId: z.coerce.number().int().positive() }),
 ]);
+
+type ActionResult = { intent: string; errors: Record<string, string>; notice: string | null; newToken?: string };
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
@@ -33,6 +38,17 @@ export async function action({ request }: Route.ActionArgs) {
   if (parsed.data.intent === "name") {
     await updateOwnName(user, parsed.data.name);
     return { intent, errors: {} as Record<string, string>, notice: "Name saved." };
+  }
+  if (parsed.data.intent === "create-token") {
+    const { token, view } = await createApiToken(user, parsed.data.tokenName);
+    await auditForAccount(user.id, AUDIT_ACTIONS.apiTokenCreated, clientAddress(request), { tokenId: view.id, name: view.name });
+    return { intent, errors: {}, notice: `Token "${view.name}" created. Copy it now: it is shown only once.`, newToken: token } satisfies ActionResult;
+  }
+  if (parsed.data.intent === "revoke-token") {
+    const revoked = await revokeApiToken(user, parsed.data.tokenId);
+    if (!revoked) return data({ intent, errors: { tokenId: "That token is not yours or was already revoked." }, notice: null } satisfies ActionResult, { status: 404 });
+    await auditForAccount(user.id, AUDIT_ACTIONS.apiTokenRevoked, clientAddress(request), { tokenId: parsed.data.tokenId });
+    return { intent, errors: {}, notice: "Token revoked: programs using it are refused from now on." } satisfies ActionResult;
   }
   const outcome = await changeOwnPassword(user, parsed.data.currentPassword, parsed.data.newPassword);
   if (outcome === "wrong-password") return data({ intent, errors: { currentPassword: "That is not your current password." } as Record<string, string>, notice: null }, { status: 400 });
@@ -45,6 +61,7 @@ export function meta({}: Route.MetaArgs) {
 }
 
 export default function Account({ loaderData, actionData }: Route.ComponentProps) {
+  const result = actionData as ActionResult | undefined;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const nameErrors = actionData?.intent === "name" ? errors : {};
   const passwordErrors = actionData?.intent === "password" ? errors : {};
@@ -64,6 +81,58 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
         <TextField label="New password again" name="confirm" type="password" autoComplete="new-password" required error={passwordErrors.confirm} />
         <SubmitButton intent="password" pendingLabel="Changing…">Change password</SubmitButton>
       </Form>
+      <ApiTokens tokens={loaderData.tokens} newToken={result?.newToken} errors={result?.intent === "create-token" || result?.intent === "revoke-token" ? errors : {}} />
     </Page>
+  );
+}
+
+type TokenRow = Route.ComponentProps["loaderData"]["tokens"][number];
+
+/** Personal API tokens for scripts that upload surveys (`Authorization: Bearer <token>`). */
+function ApiTokens({ tokens, newToken, errors }: { tokens: TokenRow[]; newToken?: string; errors: Record<string, string> }) {
+  const active = tokens.filter((token) => !token.revokedAt);
+  return (
+    <section className="mt-10" aria-labelledby="api-tokens">
+      <h2 id="api-tokens" className="text-lg font-semibold">API tokens</h2>
+      <p className="mt-1 text-sm text-muted">
+        A token lets a program act as you on the API (for example an upload script in the survey office), with your roles.
+        Send it as <code>Authorization: Bearer &lt;token&gt;</code>. Revoke a token you no longer use.
+      </p>
+      {newToken ? (
+        <div className="mt-4 rounded border border-ok bg-panel p-3" role="status">
+          <p className="text-sm font-medium">Your new token (shown only this once):</p>
+          <code data-testid="new-api-token" className="mt-1 block break-all text-sm">{newToken}</code>
+        </div>
+      ) : null}
+      <Form method="post" className="mt-4 flex flex-wrap items-end gap-3" noValidate>
+        <div className="grow"><TextField label="Token name" name="tokenName" required error={errors.tokenName} hint="What will use it, e.g. “office upload script”." /></div>
+        <SubmitButton intent="create-token" pendingLabel="Creating…">Create token</SubmitButton>
+      </Form>
+      {errors.tokenId ? <p className="mt-2 text-sm text-danger" role="alert">{errors.tokenId}</p> : null}
+      {active.length === 0 ? (
+        <p className="mt-4 text-sm text-muted">You have no active tokens.</p>
+      ) : (
+        <table className="mt-4 w-full text-sm">
+          <thead><tr className="text-left text-muted"><th className="py-1">Name</th><th>Created</th><th>Last used</th><th><span className="sr-only">Revoke</span></th></tr></thead>
+          <tbody>
+            {active.map((token) => (
+              <tr key={token.id} className="border-t border-line">
+                <td className="py-2 font-sans">{token.name}</td>
+                <td>{token.createdAt.slice(0, 10)}</td>
+                <td>{token.lastUsedAt ? token.lastUsedAt.slice(0, 16).replace("T", " ") : "never"}</td>
+                <td className="text-right">
+                  <Form method="post" onSubmit={(event) => {
+                    if (!window.confirm(`Revoke "${token.name}"? Programs using it will be refused. This cannot be undone.`)) event.preventDefault();
+                  }}>
+                    <input type="hidden" name="tokenId" value={token.id} />
+                    <SubmitButton intent="revoke-token" tone="plain" pendingLabel="Revoking…" aria-label={`Revoke ${token.name}`}>Revoke</SubmitButton>
+                  </Form>
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      )}
+    </section>
   );
 }
