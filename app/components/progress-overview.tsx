@@ -102,19 +102,38 @@ function ForecastList({ progress }: { progress: ProgressView }) {
         return (
           <li key={zone.zoneId}>
             <span className="font-medium">{zone.name}:</span>{" "}
-            {forecast.state === "finished" ? "finished (nothing left above firm sand beyond the tolerance)." : null}
+            {forecast.state === "finished" ? "finished: every cell is at firm sand (what remains is within the tolerance)." : null}
             {forecast.state === "no-rate" ? "no forecast yet: no removal measured between two surveys of this zone." : null}
             {forecast.state === "forecast" ? (
               <>
                 finish about <span className="figures">{forecast.finishDate}</span> ({forecast.workingDaysLeft} working days at{" "}
                 <span className="figures">{formatNumber(forecast.volumePerWorkingDay, 1)} {unit}/day</span>, the rate from{" "}
                 <span className="figures">{forecast.rateFromDate}</span> to <span className="figures">{forecast.rateToDate}</span>).
+                {progress.total.lastSurveyOn && forecast.finishDate! < progress.total.lastSurveyOn
+                  ? " At that rate the zone would be finished before the latest survey date: a fresh survey of it will tell."
+                  : null}
               </>
             ) : null}
           </li>
         );
       })}
     </ul>
+  );
+}
+
+function CrossCheck({ progress }: { progress: ProgressView }) {
+  const check = progress.crossCheck;
+  const unit = progress.volumeLabel;
+  if (!check) return <p className="mt-2 text-sm text-muted">No end-area check yet: it needs a baseline with a probe column and a work limit.</p>;
+  return (
+    <>
+      <dl className="mt-2 grid gap-2 text-sm sm:grid-cols-3" data-testid="cross-check">
+        <div><dt className="text-muted">Removed, surface to surface</dt><dd><Volume value={check.surfaceRemovedVolume} unit={unit} digits={1} /></dd></div>
+        <div><dt className="text-muted">Removed, average end area</dt><dd><Volume value={check.endAreaRemovedVolume} unit={unit} digits={1} /></dd></div>
+        <div><dt className="text-muted">Difference</dt><dd><span className="figures">{check.differencePercent === null ? "–" : `${check.differencePercent >= 0 ? "+" : "−"}${formatNumber(Math.abs(check.differencePercent), 2)} %`}</span></dd></div>
+      </dl>
+      <p className="mt-2 text-xs text-muted">{check.method} The surface figure is the one the quantities rest on; the sections are the reviewer's check of it.</p>
+    </>
   );
 }
 
@@ -150,6 +169,10 @@ export function ProgressOverview({ progress, links }: { progress: ProgressView; 
             <p className="mt-1 text-xs text-muted">
               {progress.workingDayBasis === "dive-plans" ? "Working days: days with a dive plan." : "Working days: weekdays (no dive plans recorded yet)."}
             </p>
+          </section>
+          <section aria-labelledby="cross-check-heading" className="rounded border border-line bg-panel p-4 lg:col-span-2">
+            <h2 id="cross-check-heading" className="font-semibold">Surface volume and the end-area check</h2>
+            <CrossCheck progress={progress} />
           </section>
           <section aria-labelledby="forecast-heading" className="rounded border border-line bg-panel p-4 lg:col-span-2">
             <h2 id="forecast-heading" className="font-semibold">Forecast finish per zone</h2>

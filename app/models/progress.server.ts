@@ -6,6 +6,7 @@ import { progressSeries } from "../../shared/progress/time-series";
 import { workingCalendar, type WorkingDayBasis } from "../../shared/progress/working-days";
 import { unitLabel, volumeUnitFor, type VolumeUnit } from "../../shared/units";
 import { Assignment, CellResult, Survey, SurveySnapshot, Zone, getSequelize } from "~/lib/db.server";
+import { loadEndAreaCrossCheck, type EndAreaCrossCheck } from "./end-area-check.server";
 import type { ProjectView } from "./project.server";
 
 /**
@@ -58,10 +59,13 @@ export interface ProgressView {
   workingDayBasis: WorkingDayBasis;
   /** The forecast's assumptions, in words, for the screen and the JSON alike. */
   assumptions: string[];
+  /** The end-area check of the removed volume, when asked for and there are figures. */
+  crossCheck: EndAreaCrossCheck | null;
 }
 
 /** Half a cubic unit: below what a survey can resolve over a 20 ft cell, so a zone with less left is done. */
 const NEGLIGIBLE_VOLUME = 0.5;
+const CHANGE_SHARE = 0.05;
 
 function emptyFigures(): ProgressFigures {
   return {
@@ -103,7 +107,7 @@ export async function divePlanDates(projectId: number): Promise<string[]> {
   return rows.map((row) => String((row as unknown as { workDate: string }).workDate).slice(0, 10));
 }
 
-export async function loadProgress(project: ProjectView): Promise<ProgressView> {
+export async function loadProgress(project: ProjectView, options: { crossCheck?: boolean } = {}): Promise<ProgressView> {
   const volumeUnit = volumeUnitFor(project.lengthUnit);
   const volumeLabel = unitLabel(project.lengthUnit, "volume");
   const [zones, cells, snapshots, surveys, planDates] = await Promise.all([
@@ -117,6 +121,7 @@ export async function loadProgress(project: ProjectView): Promise<ProgressView> 
     Survey.findAll({ where: { projectId: project.id, status: "active" }, attributes: ["id", "surveyedOn"], raw: true }),
     divePlanDates(project.id),
   ]);
+  const crossCheck = options.crossCheck && cells.length > 0 ? await loadEndAreaCrossCheck(project) : null;
   const surveyDate = new Map(surveys.map((survey) => [survey.id, String(survey.surveyedOn)]));
 
   const total = emptyFigures();
@@ -140,11 +145,15 @@ export async function loadProgress(project: ProjectView): Promise<ProgressView> 
     zones.map((zone) => zone.id),
   );
   const calendar = workingCalendar(planDates);
-  const forecastOptions = { finishedBelowVolume: NEGLIGIBLE_VOLUME, changeThresholdVolume: NEGLIGIBLE_VOLUME };
 
   const zoneProgress: ZoneProgress[] = zones.map((zone, index) => {
     const figures = finish(byZone.get(zone.id)!);
     const zoneSeries = series.zones[index];
+    // A change smaller than 5 % of the zone's planned volume is survey noise (edge lines of passes over
+    // a neighbouring zone), not a day's work: it must not set the zone's rate.
+    const forecastOptions = { finishedBelowVolume: NEGLIGIBLE_VOLUME, changeThresholdVolume: Math.max(NEGLIGIBLE_VOLUME, CHANGE_SHARE * figures.plannedVolume),
+      everyCellAtFirmSand: figures.cells > 0 && figures.cellsAtFirmSand === figures.cells,
+    };
     return { zoneId: zone.id, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, calendar, forecastOptions) };
   });
   const basisWords = calendar.basis === "dive-plans"
@@ -173,8 +182,9 @@ export async function loadProgress(project: ProjectView): Promise<ProgressView> 
       "Removed volume is measured against the baseline survey; each survey date's figures include every survey up to that date.",
       "Production per working day is the removed volume between two survey dates divided by the working days between them.",
       basisWords,
-      `A zone's forecast uses its removal between its last two surveys that showed a change, and assumes the crews keep that rate on weekdays from the latest of them until the remaining volume is gone; a zone with less than ${NEGLIGIBLE_VOLUME} ${volumeLabel} left counts as finished.`,
+      `A zone's forecast uses its removal between its last two surveys that showed a change (of at least 5 % of its planned volume, so edge soundings of a pass over a neighbouring zone do not count), and assumes the crews keep that rate on weekdays from the latest of them until the remaining volume is gone; a zone with every cell at firm sand, or less than ${NEGLIGIBLE_VOLUME} ${volumeLabel} left, counts as finished.`,
       "A forecast is an estimate, not a schedule: crews, weather, wildlife stand-downs and water-quality holds change it.",
     ],
+    crossCheck,
   };
 }

@@ -8,5 +8,5 @@ import type { Route } from "./+types/api.projects.$projectId.progress";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = await requireRole(request, params.projectId);
-  return Response.json(await loadProgress(project), { headers: { "Cache-Control": "private, no-store" } });
+  return Response.json(await loadProgress(project, { crossCheck: true }), { headers: { "Cache-Control": "private, no-store" } });
 }

@@ -10,7 +10,7 @@ const UNIT_SYMBOLS = { "us-ft": "ft", ft: "ft", m: "m" } as const;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, role, user } = await requireRole(request, params.projectId);
-  const [zones, progress] = await Promise.all([listZones(project), loadProgress(project)]);
+  const [zones, progress] = await Promise.all([listZones(project), loadProgress(project, { crossCheck: true })]);
   // Exports for the manager and viewers; the public share page for outreach and the manager.
   const exports = user.isSiteAdmin || role === "manager" || role === "viewer";
   const sharing = user.isSiteAdmin || role === "manager" || role === "outreach";

@@ -26,6 +26,8 @@ export interface ForecastOptions {
   finishedBelowVolume: number;
   /** A change in cumulative removal smaller than this is survey noise, not work (volume unit). */
   changeThresholdVolume: number;
+  /** Every cell of the zone is at firm sand: what remains lies within the tolerance, so the zone is done. */
+  everyCellAtFirmSand?: boolean;
 }
 
 export function forecastFinish(
@@ -36,7 +38,7 @@ export function forecastFinish(
   options: ForecastOptions,
 ): ZoneForecast {
   const none: ZoneForecast = { state: "no-rate", rateFromDate: null, rateToDate: null, volumePerWorkingDay: null, workingDaysLeft: null, finishDate: null };
-  if (remainingVolume <= options.finishedBelowVolume) return { ...none, state: "finished", workingDaysLeft: 0 };
+  if (options.everyCellAtFirmSand || remainingVolume <= options.finishedBelowVolume) return { ...none, state: "finished", workingDaysLeft: 0 };
   // Measured states: the first date, then every date whose removal changed beyond the threshold.
   const measured: number[] = [];
   for (let index = 0; index < dates.length; index++) {

@@ -113,6 +113,8 @@ describe("series, production and forecast", () => {
     const options = { finishedBelowVolume: 0.5, changeThresholdVolume: 0.5 };
     expect(forecastFinish(["2026-09-08"], [0], 0.2, weekdays, options).state).toBe("finished");
     expect(forecastFinish(["2026-09-08"], [0], 500, weekdays, options).state).toBe("no-rate");
+    // practice: a zone whose every cell is at firm sand is done, whatever thin layer within tolerance remains
+    expect(forecastFinish(["2026-09-08", "2026-09-29"], [0, 300], 40, weekdays, { ...options, everyCellAtFirmSand: true }).state).toBe("finished");
     expect(forecastFinish(["2026-09-08", "2026-09-29"], [0, 0.1], 500, weekdays, options).state).toBe("no-rate");
   });
 });

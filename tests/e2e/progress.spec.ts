@@ -37,6 +37,8 @@ test("the manager sees the zone table and the charts, and can sort the table", a
   await expect(page.getByTestId("production-chart")).toBeVisible();
   await expect(page.getByTestId("forecast")).toContainText("Lower run");
   await expect(page.getByText(/working days are weekdays|days with a dive plan/i).first()).toBeVisible();
+  await expect(page.getByTestId("cross-check")).toContainText("average end area");
+  await expect(page.getByTestId("cross-check")).toContainText("%");
   // Sorting needs the page's script: click until the heading reports the order, then compare with the API's figures.
   const progress = await (await page.request.get(`/api/projects/${projectId}/progress`)).json();
   const byRemaining = [...progress.zones].sort((a: { remainingVolume: number }, b: { remainingVolume: number }) => b.remainingVolume - a.remainingVolume).map((zone: { name: string }) => zone.name);

@@ -98,6 +98,7 @@ beforeAll(async () => {
     if (!outcome.ok) throw new Error(`${survey.fileName} refused: ${outcome.preview.blockers.join(" ")}`);
   }
   progress = await loadProgress(project);
+  console.log(`[progress] ${JSON.stringify({ total: progress.total, zones: progress.zones.map(({ name, removedVolume, remainingVolume, percentCompleteByVolume, forecast }) => ({ name, removedVolume, remainingVolume, percentCompleteByVolume, forecast })), production: progress.production })}`);
 }, 600_000);
 
 describe("progress figures equal the engine on the same surveys", () => {
@@ -159,6 +160,19 @@ describe("progress figures equal the engine on the same surveys", () => {
     expect(progress.zones.find((zone) => zone.name === "Lower run")!.forecast.state).toBe("forecast"); // part way done on 2026-11-17
     expect(progress.assumptions.join(" ")).toMatch(/weekdays/);
   });
+
+  it("the end-area check sits beside the surface volume it checks", async () => {
+    const withCheck = await loadProgress(project, { crossCheck: true });
+    const check = withCheck.crossCheck!;
+    expect(check).not.toBeNull();
+    expectClose(check.surfaceRemovedVolume, progress.total.removedVolume, 1e-9, "surface"); // computed: the same surfaces
+    expect(check.sections).toBeGreaterThan(10);
+    expect(check.differencePercent).toBeCloseTo(((check.endAreaRemovedVolume - check.surfaceRemovedVolume) / check.surfaceRemovedVolume) * 100, 9);
+    // practice: on a densely sounded site, sections one cell apart agree with the surface volume within a few percent
+    expect(Math.abs(check.differencePercent!)).toBeLessThan(5);
+    console.log(`[progress] removed ${check.surfaceRemovedVolume.toFixed(1)} yd³ surface, ${check.endAreaRemovedVolume.toFixed(1)} yd³ end area (${check.differencePercent!.toFixed(2)} %, ${check.sections} sections)`);
+    expect((await loadProgress(project, { crossCheck: true })).crossCheck).toEqual(check); // kept until the next recompute
+  }, 120_000);
 
   it("the JSON API gives the same figures to a viewer and refuses a non-member", async () => {
     const response = (await progressApi.loader({ request: await requestAs(site.users.viewer, `/api/projects/${project.id}/progress`), params: { projectId: String(project.id) }, context: {} } as never)) as Response;
