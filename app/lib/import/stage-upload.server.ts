@@ -2,9 +2,9 @@ import { createHash, randomBytes } from "node:crypto";
 import { createWriteStream } from "node:fs";
 import { mkdir, rm, stat } from "node:fs/promises";
 import { join } from "node:path";
-import { Writable } from "node:stream";
+import { Readable, Writable } from "node:stream";
 import { pipeline } from "node:stream/promises";
-import { FormDataParseError, MaxFileSizeExceededError, MaxTotalSizeExceededError, parseFormData, type FileUpload } from "@remix-run/form-data-parser";
+import busboy from "busboy";
 import { uploadSettings } from "./settings.server";
 
 /**
@@ -56,27 +56,59 @@ export async function writeStagedFile(source: ReadableStream<Uint8Array>, fileNa
   return { path, fileName: fileName.slice(0, 255) || "soundings.csv", size, sha256: hash.digest("hex") };
 }
 
+/**
+ * Streams the multipart body straight to the staging file with busboy: the file part is never
+ * held whole in memory (the form-data parser we used first buffers each part before handing it
+ * over, which a 200 MB survey must not do).
+ */
 export async function stageUpload(request: Request): Promise<StagedUpload> {
   const maxFileSize = uploadSettings().UPLOAD_MAX_BYTES;
-  let file: StagedFile | null = null;
-  const fields: Record<string, string> = {};
+  const contentType = request.headers.get("Content-Type") ?? "";
+  const unreadable = () => new UploadRefused(400, "The upload could not be read as a form with a file.");
+  if (!/^multipart\/form-data/i.test(contentType) || !request.body) throw unreadable();
+  const declaredLength = Number(request.headers.get("Content-Length") ?? Number.NaN);
+  const tooLarge = () =>
+    new UploadRefused(413, `The file is larger than ${Math.round(maxFileSize / 1024 / 1024)} MB, the most Firmsand accepts in one upload. Split it into several surveys.`);
+  if (declaredLength > maxFileSize + 1024 * 1024) throw tooLarge();
+
+  let parser: busboy.Busboy;
   try {
-    const form = await parseFormData(request, { maxFileSize, maxFiles: 1, maxTotalSize: maxFileSize + 1024 * 1024 }, async (upload: FileUpload) => {
-      if (upload.fieldName !== "file" || file) return null;
-      if (upload.size === 0) return null;
-      file = await writeStagedFile(upload.stream(), upload.name);
-      return null;
+    parser = busboy({ headers: { "content-type": contentType }, limits: { files: 1, fileSize: maxFileSize, fields: 100, fieldSize: 1024 * 1024 } });
+  } catch {
+    throw unreadable();
+  }
+  const fields: Record<string, string> = {};
+  let staging = null as Promise<StagedFile> | null; // set inside the "file" callback
+  let overLimit = false as boolean;
+  parser.on("field", (name, value) => {
+    fields[name] = value;
+  });
+  parser.on("file", (name, stream, info) => {
+    if (name !== "file" || staging) {
+      stream.resume();
+      return;
+    }
+    stream.once("limit", () => {
+      overLimit = true;
     });
-    for (const [name, value] of form.entries()) if (typeof value === "string") fields[name] = value;
-  } catch (error) {
-    if (file) await rm((file as StagedFile).path, { force: true });
-    if (error instanceof MaxFileSizeExceededError || error instanceof MaxTotalSizeExceededError) {
-      throw new UploadRefused(413, `The file is larger than ${Math.round(maxFileSize / 1024 / 1024)} MB, the most Firmsand accepts in one upload. Split it into several surveys.`);
-    }
-    if (error instanceof FormDataParseError || (error instanceof Error && error.name.endsWith("Error") && /multipart|form data/i.test(error.message))) {
-      throw new UploadRefused(400, "The upload could not be read as a form with a file.");
-    }
-    throw error;
+    staging = writeStagedFile(Readable.toWeb(stream) as ReadableStream<Uint8Array>, info.filename ?? "soundings.csv");
+    // Keep a rejection from going unhandled while the rest of the body is still arriving.
+    staging.catch(() => undefined);
+  });
+
+  let file: StagedFile | null = null;
+  try {
+    await pipeline(Readable.fromWeb(request.body as import("node:stream/web").ReadableStream<Uint8Array>), parser);
+    file = staging ? await staging : null;
+  } catch {
+    const partial = await staging?.catch(() => null);
+    if (partial) await rm(partial.path, { force: true });
+    throw overLimit ? tooLarge() : unreadable();
+  }
+  if (file && (overLimit || file.size === 0)) {
+    await rm(file.path, { force: true });
+    if (overLimit) throw tooLarge();
+    file = null;
   }
   return { fields, file };
 }
