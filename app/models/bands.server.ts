@@ -2,15 +2,30 @@ import type { FeatureCollection, MultiPolygon } from "geojson";
 import { contourBands, depthThresholds, remainingThicknessThresholds, type BandProperties } from "../../shared/bands";
 import { createCrs } from "../../shared/crs";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
-import { getProjectSurfaces } from "~/lib/map/project-surfaces.server";
+import { BoundedCache } from "~/lib/map/bounded-cache";
+import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/map/project-surfaces.server";
 import type { ProjectView } from "./project.server";
 
 export type BandSurface = "remaining" | "depth";
 
+type Bands = FeatureCollection<MultiPolygon, BandProperties>;
+
+// Contouring a surface and converting every ring to lon/lat costs most of a second for the demo;
+// the result only changes with a recompute, so it is kept per project, stamp and surface.
+const BAND_SETS_HELD = 16;
+const cache = new BoundedCache<Bands>(BAND_SETS_HELD);
+
 /** Filled contour bands of remaining thickness or bottom depth, lon/lat GeoJSON; empty before the first computation. */
-export async function getProjectBands(project: ProjectView, surface: BandSurface): Promise<FeatureCollection<MultiPolygon, BandProperties>> {
-  const surfaces = await getProjectSurfaces(project.id);
-  const empty: FeatureCollection<MultiPolygon, BandProperties> = { type: "FeatureCollection", features: [] };
+export async function getProjectBands(project: ProjectView, surface: BandSurface): Promise<Bands> {
+  const stamp = await projectRecomputeStamp(project.id);
+  // The unit and CRS are in the key: changing either changes the thresholds or the coordinates.
+  const key = `${project.id}:${stamp}:${surface}:${project.lengthUnit}:${project.crs}`;
+  return cache.getOrCompute(key, () => computeBands(project, surface, stamp));
+}
+
+async function computeBands(project: ProjectView, surface: BandSurface, stamp: string): Promise<Bands> {
+  const surfaces = await getProjectSurfaces(project.id, stamp);
+  const empty: Bands = { type: "FeatureCollection", features: [] };
   if (!surfaces) return empty;
   const raster = surface === "remaining" ? surfaces.result.rasters.remainingThickness : surfaces.depth;
   if (!raster) return empty;

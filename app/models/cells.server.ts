@@ -2,8 +2,9 @@ import { cellCentroid, cellIndex, createCellGrid, type CellGrid } from "../../sh
 import { isInsideWorkLimit } from "../../shared/grid/work-limit";
 import { MAP_STATUSES, OUTSIDE_WORK_LIMIT, type MapStatus } from "../../shared/palette";
 import { unitLabel, type LengthUnit } from "../../shared/units";
-import { CellResult, SurveySnapshot, Zone } from "~/lib/db.server";
-import { getProjectSurfaces } from "~/lib/map/project-surfaces.server";
+import { CellResult, Project, SurveySnapshot, Zone } from "~/lib/db.server";
+import { createHash } from "node:crypto";
+import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/map/project-surfaces.server";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
 import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
 import type { ProjectView } from "./project.server";
@@ -34,6 +35,22 @@ export interface CellsPayload {
   coverage: number[];
   /** Index into `zones`; −1 for none. */
   zone: number[];
+}
+
+/**
+ * What the cells payload depends on, hashed: the recompute stamp, the zones (names, order) and the
+ * project settings that shape the grid. Cheap (four small queries), so the map can poll it.
+ */
+export async function cellsVersion(project: ProjectView): Promise<string> {
+  const [stamp, row, zones] = await Promise.all([
+    projectRecomputeStamp(project.id),
+    // The work limit is not in the view; its edits touch the project row.
+    Project.findByPk(project.id, { attributes: ["updatedAt"], raw: true }),
+    Zone.findAll({ where: { projectId: project.id }, attributes: ["id", "name", "sortOrder", "updatedAt"], order: [["id", "ASC"]], raw: true }),
+  ]);
+  const zoneText = zones.map((zone) => `${zone.id}/${zone.name}/${zone.sortOrder}/${new Date(zone.updatedAt).getTime()}`).join(",");
+  const settings = `${JSON.stringify(project)}|${row ? new Date(row.updatedAt).getTime() : 0}`;
+  return createHash("sha256").update(`${stamp}|${zoneText}|${settings}`).digest("base64url").slice(0, 22);
 }
 
 const roundTo = (digits: number) => (value: number) => Number(value.toFixed(digits));

@@ -1,9 +1,15 @@
 import { requireRole } from "~/lib/access.server";
-import { getCellsPayload } from "~/models/cells.server";
+import { cellsVersion, getCellsPayload } from "~/models/cells.server";
 import type { Route } from "./+types/api.projects.$projectId.cells";
 
 // GET /api/projects/<id>/cells — the grid definition plus compact per-cell arrays (any member).
+// The ETag is the project's cells version (recompute stamp, zones, settings): the map polls with
+// If-None-Match and gets a bodiless 304 until an import, a retract or a settings change.
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = await requireRole(request, params.projectId);
-  return Response.json(await getCellsPayload(project), { headers: { "Cache-Control": "private, no-cache" } });
+  const etag = `"${await cellsVersion(project)}"`;
+  const headers = { "Cache-Control": "private, no-cache", ETag: etag };
+  const ifNoneMatch = request.headers.get("If-None-Match");
+  if (ifNoneMatch && ifNoneMatch.split(",").some((tag) => tag.trim().replace(/^W\//, "") === etag)) return new Response(null, { status: 304, headers });
+  return Response.json(await getCellsPayload(project), { headers });
 }

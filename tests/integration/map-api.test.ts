@@ -7,7 +7,9 @@ import { workLimitArea } from "../../shared/grid/work-limit";
 import { GRID, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { CellResult, DiveTeam, Project, Zone, type Role } from "~/lib/db.server";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
+import { getProjectBands } from "~/models/bands.server";
 import { parseCellLabel } from "~/models/cells.server";
+import { findProject, presentProject } from "~/models/project.server";
 import { loader as cellsLoader } from "~/routes/api.projects.$projectId.cells";
 import { loader as bandsLoader } from "~/routes/api.projects.$projectId.bands";
 import { action as assignAction, loader as planLoader } from "~/routes/api.projects.$projectId.assignments";
@@ -167,5 +169,44 @@ describe("map style and bands", () => {
     expect(await ok.json()).toEqual({ type: "FeatureCollection", features: [] });
     const bad = await get(bandsLoader as never, "viewer", `/api/projects/${projectId}/bands?surface=volume`, { projectId: String(projectId) });
     expect(bad.status).toBe(400);
+  });
+});
+
+describe("caching and polling", () => {
+  async function recompute(minutesLater: number): Promise<Date> {
+    const computedAt = new Date(Math.floor(Date.now() / 1000) * 1000 + 60_000 * minutesLater);
+    const { grid } = await cells();
+    const position = { row: grid.firstRow + minutesLater, col: grid.firstCol };
+    // A recompute writes the cells again with a later computation time.
+    await CellResult.create({ projectId, row: position.row, col: position.col, label: cellLabel(position.row, position.col), zoneId: null, plannedVolume: 5, removedVolume: 1, depositedVolume: 0, remainingVolume: 4, meanRemainingThickness: 0.5, coverage: 1, areaInLimit: 400, status: "in-work", latestSurveyId: null, computedAt });
+    return computedAt;
+  }
+
+  it("answers 304 to a poll with the current ETag and 200 with a new ETag after a recompute", async () => {
+    const path = `/api/projects/${projectId}/cells`;
+    const first = await get(cellsLoader as never, "viewer", path, { projectId: String(projectId) });
+    const etag = first.headers.get("ETag");
+    expect(etag).toMatch(/^"[\w-]+"$/);
+    const poll = await cellsLoader({ request: await requestAs(users.get("viewer")!, path, { headers: { "If-None-Match": etag! } }), params: { projectId: String(projectId) }, context: {} } as never);
+    expect(poll.status).toBe(304);
+    expect(await poll.text()).toBe("");
+    const written = await recompute(1);
+    const after = await cellsLoader({ request: await requestAs(users.get("viewer")!, path, { headers: { "If-None-Match": etag! } }), params: { projectId: String(projectId) }, context: {} } as never);
+    expect(after.status).toBe(200);
+    expect(after.headers.get("ETag")).not.toBe(etag);
+    // The body is the recomputed payload: its computation time is the newest one written.
+    expect((await after.json()).computedAt).toBe(written.toISOString());
+  });
+
+  it("computes the bands once per recompute stamp and surface, and again after a recompute", async () => {
+    const project = presentProject((await findProject(projectId))!);
+    const first = await getProjectBands(project, "remaining");
+    // The same object back means the contouring did not run again.
+    expect(await getProjectBands(project, "remaining")).toBe(first);
+    expect(await getProjectBands(project, "depth")).not.toBe(first);
+    await recompute(2);
+    const after = await getProjectBands(project, "remaining");
+    expect(after).not.toBe(first);
+    expect(await getProjectBands(project, "remaining")).toBe(after);
   });
 });

@@ -5,6 +5,7 @@ import { CellResult, Survey, getSequelize } from "../db.server";
 import { firmPoints, type ComputationSurvey } from "../import/project-computation";
 import { loadProjectGeometry } from "../import/project-geometry.server";
 import { loadSurveyPoints } from "../import/recompute.server";
+import { BoundedCache } from "./bounded-cache";
 
 /**
  * The project's latest surfaces for the map: the engine's final state (every active survey), the
@@ -23,22 +24,30 @@ export interface ProjectSurfaces {
   soundingsPerCell: Uint32Array;
 }
 
-const cache = new Map<number, { key: string; surfaces: Promise<ProjectSurfaces | null> }>();
+// A project's surfaces hold several rasters (megabytes for a large bay): a few projects at a time.
+const SURFACE_PROJECTS_HELD = 4;
+const cache = new BoundedCache<ProjectSurfaces | null>(SURFACE_PROJECTS_HELD);
 
-async function cacheKey(projectId: number): Promise<string> {
-  const latest = await CellResult.max<Date | null, CellResult>("computedAt", { where: { projectId } });
-  const surveys = await Survey.count({ where: { projectId, status: "active" } });
+/**
+ * The project's recompute stamp: the time of the latest cell computation and the number of active
+ * surveys (a retract or restore recomputes; a project with no baseline has no cells but can still
+ * change its surveys). Two small indexed queries, cheap enough to read on every map request.
+ */
+export async function projectRecomputeStamp(projectId: number): Promise<string> {
+  const [latest, surveys] = await Promise.all([
+    CellResult.max<Date | string | null, CellResult>("computedAt", { where: { projectId } }),
+    Survey.count({ where: { projectId, status: "active" } }),
+  ]);
   return `${latest ? new Date(latest).toISOString() : "none"}:${surveys}`;
 }
 
-export async function getProjectSurfaces(projectId: number): Promise<ProjectSurfaces | null> {
-  const key = await cacheKey(projectId);
-  const cached = cache.get(projectId);
-  if (cached && cached.key === key) return cached.surfaces;
-  const surfaces = computeSurfaces(projectId);
-  cache.set(projectId, { key, surfaces });
-  surfaces.catch(() => cache.delete(projectId));
-  return surfaces;
+/** The surfaces for the project's current stamp, computed once per stamp. */
+export async function getProjectSurfaces(projectId: number, stamp?: string): Promise<ProjectSurfaces | null> {
+  const current = stamp ?? (await projectRecomputeStamp(projectId));
+  const key = `${projectId}:${current}`;
+  // An older stamp's surfaces are never read again: let them go now rather than when they age out.
+  if (!cache.has(key)) cache.dropPrefix(`${projectId}:`);
+  return cache.getOrCompute(key, () => computeSurfaces(projectId));
 }
 
 async function computeSurfaces(projectId: number): Promise<ProjectSurfaces | null> {
