@@ -17,9 +17,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   }
   const view = await publicProgressForToken(params.token);
   if (!view) throw data("This progress link does not exist or was withdrawn.", { status: 404, headers: noStore });
+  // The root layout still reads the session: a signed-in visitor's copy names them, so only a
+  // cookie-less request may be stored by shared caches (proxies, CDNs).
+  const shared = !request.headers.get("Cookie");
   return data(view, {
     headers: {
-      "Cache-Control": `public, max-age=${PUBLIC_CACHE_SECONDS}`,
+      "Cache-Control": `${shared ? "public" : "private"}, max-age=${PUBLIC_CACHE_SECONDS}`,
+      Vary: "Cookie",
       "Content-Security-Policy": "frame-ancestors *",
       "Referrer-Policy": "no-referrer",
       "X-Robots-Tag": "noindex",

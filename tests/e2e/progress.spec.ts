@@ -102,7 +102,7 @@ test("outreach creates a link, a signed-out browser sees the zones, outreach rev
   const response = await publicPage.goto(url!);
   expect(response!.status()).toBe(200);
   const headers = response!.headers();
-  expect(headers["cache-control"]).toMatch(/public, max-age=\d+/);
+  expect(headers["cache-control"]).toMatch(/^public, max-age=\d+/);
   expect(headers["content-security-policy"]).toContain("frame-ancestors *");
   expect(headers["x-frame-options"]).toBeUndefined();
   for (const zone of ZONE_NAMES) await expect(publicPage.locator(`[data-zone="${zone}"]`)).toBeAttached();
@@ -117,6 +117,10 @@ test("outreach creates a link, a signed-out browser sees the zones, outreach rev
   const login = await visitor.request.get("/login");
   expect(login.headers()["x-frame-options"]).toBe("DENY");
   await visitor.close();
+
+  // Signed in, the layout names the visitor: that copy must stay out of shared caches.
+  const signedIn = await page.request.get(new URL(url!).pathname);
+  expect(signedIn.headers()["cache-control"]).toMatch(/^private, max-age=\d+/);
 
   const item = page.getByTestId("share-link").filter({ hasText: name });
   await item.getByRole("button", { name: `Revoke ${name}` }).click();
