@@ -167,7 +167,9 @@ export function ProgressOverview({ progress, links }: { progress: ProgressView; 
             <h2 id="production-heading" className="font-semibold">Production per working day</h2>
             <ProductionChart intervals={progress.production} unit={unit} />
             <p className="mt-1 text-xs text-muted">
-              {progress.workingDayBasis === "dive-plans" ? "Working days: days with a dive plan." : "Working days: weekdays (no dive plans recorded yet)."}
+              {progress.workingDayBasis === "dive-plans"
+                ? `Working days: days with a dive plan; weekdays for intervals without one (${progress.production.filter((interval) => interval.basis === "weekdays").length} of ${progress.production.length}).`
+                : "Working days: weekdays (no dive plans recorded yet)."}
             </p>
           </section>
           <section aria-labelledby="cross-check-heading" className="rounded border border-line bg-panel p-4 lg:col-span-2">

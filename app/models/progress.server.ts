@@ -157,7 +157,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     return { zoneId: zone.id, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, calendar, forecastOptions) };
   });
   const basisWords = calendar.basis === "dive-plans"
-    ? "Working days are the days with a dive plan between two survey dates."
+    ? "Working days are the days with a dive plan between two survey dates; where an interval has no dive plan, its weekdays (Monday to Friday)."
     : "There are no dive plans yet, so working days are weekdays (Monday to Friday) between two survey dates.";
   return {
     projectId: project.id,

@@ -1,4 +1,4 @@
-import { workingDaysBetween, type WorkingCalendar } from "./working-days";
+import { intervalBasis, workingDaysBetween, type WorkingCalendar, type WorkingDayBasis } from "./working-days";
 
 /**
  * Production between consecutive surveys: the change in cumulative removed volume divided by the
@@ -9,6 +9,8 @@ export interface ProductionInterval {
   fromDate: string;
   toDate: string;
   workingDays: number;
+  /** Dive-plan days where the interval has any, else weekdays. */
+  basis: WorkingDayBasis;
   /** Project volume unit. */
   removedVolume: number;
   /** Volume unit per working day; null when the interval holds no working day. */
@@ -25,6 +27,7 @@ export function productionIntervals(dates: readonly string[], cumulativeRemoved:
       fromDate: dates[index - 1],
       toDate: dates[index],
       workingDays,
+      basis: intervalBasis(calendar, dates[index - 1], dates[index]),
       removedVolume,
       volumePerWorkingDay: workingDays > 0 ? removedVolume / workingDays : null,
     });

@@ -4,7 +4,7 @@ import { forecastFinish } from "./forecast";
 import { percentCellsAtFirmSand, percentCompleteByVolume, percentDifference } from "./percent-complete";
 import { productionIntervals } from "./production";
 import { progressSeries } from "./time-series";
-import { addWeekdays, workingCalendar, workingDaysBetween } from "./working-days";
+import { addWeekdays, intervalBasis, workingCalendar, workingDaysBetween } from "./working-days";
 
 const weekdays = workingCalendar([]);
 
@@ -55,6 +55,10 @@ describe("working days between surveys", () => {
     expect(plans.basis).toBe("dive-plans");
     expect(workingDaysBetween(plans, "2026-09-08", "2026-09-12")).toBe(2);
     expect(workingDaysBetween(plans, "2026-09-12", "2026-09-30")).toBe(1);
+    // practice: an interval without any plan (before plans were kept) falls back to weekdays
+    expect(workingDaysBetween(plans, "2026-10-01", "2026-10-08")).toBe(bruteWeekdays("2026-10-01", "2026-10-08"));
+    expect(intervalBasis(plans, "2026-10-01", "2026-10-08")).toBe("weekdays");
+    expect(intervalBasis(plans, "2026-09-08", "2026-09-12")).toBe("dive-plans");
   });
 
   it("adds weekdays so that counting them back gives the same number (invariant)", () => {

@@ -3,7 +3,8 @@ import { dayNumber, isWeekday, isoDateOf } from "./calendar-days";
 /**
  * Working days between two survey dates: the days after `fromDate` up to and including `toDate`
  * (the work a survey on `toDate` measures happened after the previous survey). Dive-plan dates
- * are the record of the days crews actually worked; without them, Monday to Friday is assumed.
+ * are the record of the days crews actually worked; an interval with none (before plans were kept
+ * in Firmsand, or a project without them) counts Monday to Friday instead.
  */
 export type WorkingDayBasis = "dive-plans" | "weekdays";
 
@@ -36,13 +37,23 @@ export function workingDaysBetween(calendar: WorkingCalendar, fromDate: string, 
   const from = dayNumber(fromDate);
   const to = dayNumber(toDate);
   if (to <= from) return 0;
-  if (calendar.basis === "dive-plans") return upperBound(calendar.plannedDays, to) - upperBound(calendar.plannedDays, from);
+  if (calendar.basis === "dive-plans") {
+    const planned = upperBound(calendar.plannedDays, to) - upperBound(calendar.plannedDays, from);
+    if (planned > 0) return planned;
+  }
   // Whole weeks hold five weekdays each; walk only the remainder.
   const span = to - from;
   const weeks = Math.floor(span / 7);
   let count = weeks * 5;
   for (let day = from + weeks * 7 + 1; day <= to; day++) if (isWeekday(day)) count++;
   return count;
+}
+
+/** What an interval's working days were counted from. */
+export function intervalBasis(calendar: WorkingCalendar, fromDate: string, toDate: string): WorkingDayBasis {
+  if (calendar.basis === "weekdays") return "weekdays";
+  const planned = upperBound(calendar.plannedDays, dayNumber(toDate)) - upperBound(calendar.plannedDays, dayNumber(fromDate));
+  return planned > 0 ? "dive-plans" : "weekdays";
 }
 
 /**

@@ -13,7 +13,7 @@ import { bottomElevations, refusalElevations } from "../../shared/soundings/elev
 import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
 import { rollUpZones } from "../../shared/volumes/rollup";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
-import { Project, ShareLink, Survey, User, Zone } from "~/lib/db.server";
+import { Assignment, DiveTeam, Project, ShareLink, Survey, User, Zone } from "~/lib/db.server";
 import { importSurveyFile } from "~/lib/import/import-service.server";
 import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { loadProgress, type ProgressView } from "~/models/progress.server";
@@ -159,6 +159,29 @@ describe("progress figures equal the engine on the same surveys", () => {
     }
     expect(progress.zones.find((zone) => zone.name === "Lower run")!.forecast.state).toBe("forecast"); // part way done on 2026-11-17
     expect(progress.assumptions.join(" ")).toMatch(/weekdays/);
+  });
+
+  it("counts dive-plan days where an interval has them, weekdays where it has none", async () => {
+    const team = await DiveTeam.create({ projectId: project.id, name: "Test team", hoses: ["Hose A"], members: [] } as never);
+    const planned = ["2026-09-10", "2026-09-11", "2026-09-15", "2026-09-22"];
+    for (const [index, workDate] of planned.entries()) {
+      await Assignment.create({ projectId: project.id, workDate, teamId: team.id, row: index, col: 0, label: `A${index + 1}`, hose: "Hose A", notes: "", workingDepth: null, plannedBottomMinutes: null, confirmedReason: null, createdById: null } as never);
+    }
+    try {
+      const withPlans = await loadProgress(project);
+      expect(withPlans.workingDayBasis).toBe("dive-plans");
+      const [first, second] = withPlans.production;
+      // practice: the first interval (2026-09-08 → 09-29) holds four planned dive days
+      expect(first.basis).toBe("dive-plans");
+      expect(first.workingDays).toBe(planned.length);
+      expectClose(first.volumePerWorkingDay!, first.removedVolume / planned.length, 1e-12);
+      // the next interval has no plan: weekdays
+      expect(second.basis).toBe("weekdays");
+      expect(second.workingDays).toBe(workingDaysBetween(workingCalendar([]), second.fromDate, second.toDate));
+    } finally {
+      await Assignment.destroy({ where: { projectId: project.id } });
+      await team.destroy();
+    }
   });
 
   it("the end-area check sits beside the surface volume it checks", async () => {
