@@ -1,20 +1,10 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import type { Project } from "./project";
 import type { Survey } from "./survey";
+import type { FigureTotals } from "../../app/lib/import/project-computation";
 
 /** Project and zone totals in the project's volume unit after one survey date. */
-export interface SnapshotTotals {
-  plannedVolume: number;
-  removedVolume: number;
-  depositedVolume: number;
-  remainingVolume: number;
-  cells: number;
-  cellsAtFirmSand: number;
-  cellsConfirmed: number;
-  cellsInWork: number;
-  cellsUntouched: number;
-  cellsNoData: number;
-}
+export type SnapshotTotals = FigureTotals;
 
 /**
  * The state of the project after every survey of one date (all active surveys up to that date).
