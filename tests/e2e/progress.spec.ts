@@ -83,6 +83,19 @@ test("the quantities CSV has the right totals and no cell a spreadsheet could ru
   expect(cells.reduce((sum, row) => sum + Number(row[6]), 0)).toBeCloseTo(progress.total.removedVolume, 0);
   // published: OWASP CSV injection — no text field begins with = + - @ tab or CR
   expect(rows.flat().filter((field) => startsLikeFormula(field) && !Number.isFinite(Number(field)))).toEqual([]);
+  // The GeoJSON of the cells (RFC 7946): one closed ring per cell, in lon/lat near the site, same totals.
+  const geojson = await (await context.get(`/api/projects/${projectId}/quantities.geojson`)).json();
+  expect(geojson.type).toBe("FeatureCollection");
+  expect(geojson.features.length).toBe(progress.total.cells);
+  for (const feature of geojson.features) {
+    const ring = feature.geometry.coordinates[0];
+    expect(ring.length).toBe(5);
+    expect(ring[0]).toEqual(ring[4]);
+    expect(Math.abs(ring[0][0] - WORK_LIMIT.coordinates[0][0][0])).toBeLessThan(0.05);
+    expect(Math.abs(ring[0][1] - WORK_LIMIT.coordinates[0][0][1])).toBeLessThan(0.05);
+  }
+  const geoRemoved = geojson.features.reduce((sum: number, feature: { properties: { removedVolume: number } }) => sum + feature.properties.removedVolume, 0);
+  expect(geoRemoved).toBeCloseTo(progress.total.removedVolume, 6);
   await context.dispose();
 });
 
@@ -113,6 +126,13 @@ test("outreach creates a link, a signed-out browser sees the zones, outreach rev
   expect(walkPublicText(await response!.text(), RULES, "html")).toEqual([]);
   const dataResponse = await visitor.request.get(`${new URL(url!).pathname}.data`);
   expect(walkPublicText(await dataResponse.text(), RULES, "data")).toEqual([]);
+  // On a phone: nothing wider than the screen.
+  const phone = await browser.newContext({ baseURL, viewport: { width: 360, height: 740 }, isMobile: true });
+  const phonePage = await phone.newPage();
+  await phonePage.goto(url!);
+  await expect(phonePage.getByTestId("progress-map")).toBeVisible();
+  expect(await phonePage.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360);
+  await phone.close();
   // Framing is refused everywhere else.
   const login = await visitor.request.get("/login");
   expect(login.headers()["x-frame-options"]).toBe("DENY");
