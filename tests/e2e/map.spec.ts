@@ -24,6 +24,12 @@ async function openMap(page: Page): Promise<CellsData> {
   await page.goto(`/projects/${projectId}/map`);
   const data = (await (await cellsResponse).json()) as CellsData;
   await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-cells-drawn", /\d+/, { timeout: 20_000 });
+  // The canvas fills the map box and is what the pointer meets (MapLibre's own stylesheet once
+  // collapsed the container to no height, so the map took no clicks while its buffer still drew).
+  const box = (await page.getByTestId("coverage-map").boundingBox())!;
+  expect(box.height).toBeGreaterThan(400);
+  const hit = await page.evaluate(([x, y]) => document.elementFromPoint(x, y)?.tagName, [box.x + box.width / 2, box.y + box.height / 2]);
+  expect(hit).toBe("CANVAS");
   return data;
 }
 
@@ -66,6 +72,13 @@ test("the map draws the demo's cells in their status colours, with labels, from 
   expect(checked.length).toBeGreaterThan(0);
 });
 
+/** Page coordinates of a lon/lat on the map. */
+async function screenPoint(page: Page, lonLat: [number, number]): Promise<{ x: number; y: number }> {
+  const point = await page.evaluate(([lon, lat]) => (window as unknown as { firmsandMap: { project(l: [number, number]): { x: number; y: number } } }).firmsandMap.project([lon, lat]), lonLat);
+  const box = (await page.getByTestId("coverage-map").boundingBox())!;
+  return { x: box.x + point.x, y: box.y + point.y };
+}
+
 /** A cell whose four neighbours share its status, so the centre pixel is well inside one colour. */
 function neighboursShare(data: CellsData, index: number, code: number): boolean {
   const cols = data.grid!.cols;
@@ -73,6 +86,10 @@ function neighboursShare(data: CellsData, index: number, code: number): boolean 
 }
 
 test("the supervisor selects cells, assigns them, opens and prints the plan, and the team gets it by e-mail", async ({ page, signIn, baseURL }) => {
+  // An uncaught error (a failed hydration, a map torn down badly on leaving the page) fails the test.
+  const pageErrors: string[] = [];
+  page.on("pageerror", (error) => pageErrors.push(error.message));
+  page.on("console", (message) => message.type() === "error" && console.log(`browser console: ${message.text()}`));
   await signIn("dive-supervisor");
   const data = await openMap(page);
   const labels = [...labelIndex(data).keys()];
@@ -85,8 +102,11 @@ test("the supervisor selects cells, assigns them, opens and prints the plan, and
   await page.keyboard.press("ArrowRight");
   await expect(page.getByTestId("selected-cells")).not.toHaveText(labels[5]);
   await mapSettled(page);
-  // Shift + arrow adds the cell it moves to (back onto the first one).
-  await page.keyboard.press("Shift+ArrowLeft");
+  // Shift-click adds the first cell back to the selection.
+  const screen = await screenPoint(page, cellCentreLonLat(data, labelIndex(data).get(labels[5])!));
+  await page.keyboard.down("Shift");
+  await page.mouse.click(screen.x, screen.y);
+  await page.keyboard.up("Shift");
   await expect(page.getByTestId("selected-cells")).toContainText(labels[5]);
   const chosen = (await page.getByTestId("selected-cells").innerText()).split(", ");
   expect(chosen.length).toBe(2);
@@ -101,11 +121,14 @@ test("the supervisor selects cells, assigns them, opens and prints the plan, and
 
   const planLink = page.getByRole("link", { name: `Open the day plan for ${date}` });
   await expect(planLink).toHaveAttribute("href", `/projects/${projectId}/plans/${date}`);
-  await page.goto(`/projects/${projectId}/plans/${date}`);
+  // A client-side navigation (no full reload), as the supervisor clicks it.
+  await planLink.click();
+  await expect(page).toHaveURL(new RegExp(`/projects/${projectId}/plans/${date}$`));
   await expect(page.getByRole("heading", { name: new RegExp(`Dive plan · ${date}`) })).toBeVisible();
   const team = page.getByRole("region", { name: "Team Limpkin" });
   for (const label of chosen) await expect(team.getByRole("cell", { name: label, exact: true })).toBeVisible();
   await expect(page.getByTestId("plan-caution")).toContainText("dive safety plan");
+  expect(pageErrors, "uncaught errors in the page").toEqual([]);
 
   await page.emulateMedia({ media: "print" });
   await expect(page.getByRole("navigation", { name: "Project" })).toBeHidden();
@@ -137,6 +160,36 @@ test("the supervisor selects cells, assigns them, opens and prints the plan, and
   expect(body.error).toContain("Team Gar");
   expect(body.conflicts.map((conflict: { cell: string }) => conflict.cell).sort()).toEqual([...chosen].sort());
   await api.dispose();
+});
+
+test("the supervisor drags a box with Shift to select the cells it touches", async ({ page, signIn }) => {
+  await signIn("dive-supervisor");
+  const data = await openMap(page);
+  const cols = data.grid!.cols;
+  const labelOf = new Map([...labelIndex(data)].map(([label, index]) => [index, label]));
+  // Two rows by three columns of cells inside the work limit, from the middle of the list.
+  const inLimit = [...labelOf.keys()];
+  const block = (corner: number) => [0, 1, 2, cols, cols + 1, cols + 2].map((offset) => corner + offset);
+  const corner = inLimit.slice(Math.floor(inLimit.length / 3)).find((index) => index % cols < cols - 2 && block(index).every((cell) => labelOf.has(cell)))!;
+  const expected = block(corner).map((index) => labelOf.get(index)!).sort();
+  await page.getByLabel("Search cell label").fill(labelOf.get(corner + cols + 1)!);
+  await page.getByRole("button", { name: "Find" }).click();
+  await expect(page.getByTestId("selected-cells")).toHaveText(labelOf.get(corner + cols + 1)!);
+  await mapSettled(page);
+  // From the centre of the first cell to the centre of the last: the box touches all six.
+  const from = await screenPoint(page, cellCentreLonLat(data, corner));
+  const to = await screenPoint(page, cellCentreLonLat(data, corner + cols + 2));
+  await page.mouse.move(from.x, from.y);
+  await page.keyboard.down("Shift");
+  await page.mouse.down();
+  await page.mouse.move(to.x, to.y, { steps: 8 });
+  await page.mouse.up();
+  await page.keyboard.up("Shift");
+  await expect.poll(async () => (await page.getByTestId("selected-cells").innerText()).split(", ").sort()).toEqual(expected);
+  // The box selects; it neither pans nor zooms the map.
+  const centre = await screenPoint(page, cellCentreLonLat(data, corner));
+  expect(Math.abs(centre.x - from.x) + Math.abs(centre.y - from.y)).toBeLessThan(2);
+
 });
 
 test("a viewer sees the map but cannot assign", async ({ page, signIn, baseURL }) => {

@@ -57,6 +57,7 @@ export function CoverageMap(props: Props) {
   useEffect(() => {
     let cancelled = false;
     let map: MapLibreMap | null = null;
+    let removeWindowListeners = () => undefined as void;
     (async () => {
       const [maplibre, worker] = await Promise.all([import("maplibre-gl"), import("maplibre-gl/dist/maplibre-gl-worker.mjs?url")]);
       maplibre.setWorkerUrl(worker.default);
@@ -100,7 +101,7 @@ export function CoverageMap(props: Props) {
         start = local(event);
         map.dragPan.disable();
       });
-      window.addEventListener("mousemove", (event) => {
+      const onWindowMove = (event: MouseEvent) => {
         if (!start || !box.current) return;
         const point = local(event);
         Object.assign(box.current.style, {
@@ -108,8 +109,8 @@ export function CoverageMap(props: Props) {
           left: `${Math.min(start.x, point.x)}px`, top: `${Math.min(start.y, point.y)}px`,
           width: `${Math.abs(point.x - start.x)}px`, height: `${Math.abs(point.y - start.y)}px`,
         });
-      });
-      window.addEventListener("mouseup", (event) => {
+      };
+      const onWindowUp = (event: MouseEvent) => {
         if (!start || !map) return;
         const end = local(event);
         const from = start;
@@ -119,10 +120,17 @@ export function CoverageMap(props: Props) {
         if (Math.abs(end.x - from.x) < 4 && Math.abs(end.y - from.y) < 4) return; // a shift-click, handled by the click event
         const features = map.queryRenderedFeatures([[Math.min(from.x, end.x), Math.min(from.y, end.y)], [Math.max(from.x, end.x), Math.max(from.y, end.y)]], { layers: ["cells-fill"] });
         callbacks.current.onBoxSelect([...new Set(features.map((feature) => feature.id).filter((id): id is number => typeof id === "number"))]);
-      });
+      };
+      window.addEventListener("mousemove", onWindowMove);
+      window.addEventListener("mouseup", onWindowUp);
+      removeWindowListeners = () => {
+        window.removeEventListener("mousemove", onWindowMove);
+        window.removeEventListener("mouseup", onWindowUp);
+      };
     })();
     return () => {
       cancelled = true;
+      removeWindowListeners();
       map?.remove();
       mapRef.current = null;
     };
@@ -194,7 +202,9 @@ export function CoverageMap(props: Props) {
 
   return (
     <div className="relative h-[560px] w-full overflow-hidden rounded border border-line">
-      <div ref={container} className="absolute inset-0" data-testid="coverage-map" data-map-ready={ready ? "yes" : "no"} />
+      {/* MapLibre's stylesheet sets its container to position: relative, overriding a Tailwind
+          "absolute inset-0" and collapsing it to no height: size it by the parent instead. */}
+      <div ref={container} className="h-full w-full" data-testid="coverage-map" data-map-ready={ready ? "yes" : "no"} />
       <div ref={box} className="pointer-events-none absolute hidden border-2 border-dashed border-[#d4145a] bg-[#d4145a]/10" />
     </div>
   );
