@@ -1,5 +1,5 @@
 import type { FeatureCollection } from "geojson";
-import { useCallback, useEffect, useMemo, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { createCrs } from "../../shared/crs";
 import { MAP_STATUSES } from "../../shared/palette";
 import { AssignPanel } from "~/components/map/assign-panel";
@@ -32,6 +32,9 @@ export function meta() {
   return [{ title: "Coverage map · Firmsand" }];
 }
 
+/** How often a visible map asks whether the cells changed (a 304 when they did not). */
+const POLL_MS = 30_000;
+
 const VIEW_TITLES: Record<MapView, string> = { status: "Cell status", thickness: "Remaining sediment thickness", removed: "Removed volume per cell" };
 
 export default function ProjectMap({ loaderData }: Route.ComponentProps) {
@@ -54,10 +57,19 @@ export default function ProjectMap({ loaderData }: Route.ComponentProps) {
   const [searchMessage, setSearchMessage] = useState<string | null>(null);
   const [refresh, setRefresh] = useState(0);
 
+  // The cells' ETag is the project's cells version: a conditional re-read costs a 304 and no
+  // redraw until an import, a retract or a settings change makes a new version.
+  const cellsVersion = useRef<string | null>(null);
   const loadCells = useCallback(async () => {
-    const response = await fetch(`/api/projects/${projectId}/cells`);
+    const headers: HeadersInit = cellsVersion.current ? { "If-None-Match": cellsVersion.current } : {};
+    const response = await fetch(`/api/projects/${projectId}/cells`, { headers, cache: "no-store" });
+    if (response.status === 304) return false;
     if (!response.ok) throw new Error(`the cells could not be read (${response.status})`);
-    setData(await response.json());
+    const next = (await response.json()) as CellsData;
+    cellsVersion.current = response.headers.get("ETag");
+    setData(next);
+    setLoadError(null);
+    return true;
   }, [projectId]);
 
   useEffect(() => {
@@ -78,6 +90,24 @@ export default function ProjectMap({ loaderData }: Route.ComponentProps) {
   useEffect(() => {
     if (data) loadAssigned(planDate).catch(() => undefined);
   }, [data, planDate, loadAssigned]);
+
+  // Another person's import or plan shows up without a reload: when the page comes back into view
+  // or regains focus, and every POLL_MS while it is visible.
+  useEffect(() => {
+    const refreshNow = () => {
+      if (document.visibilityState !== "visible") return;
+      loadCells().catch(() => undefined);
+      loadAssigned(planDate).catch(() => undefined);
+    };
+    const timer = window.setInterval(refreshNow, POLL_MS);
+    document.addEventListener("visibilitychange", refreshNow);
+    window.addEventListener("focus", refreshNow);
+    return () => {
+      window.clearInterval(timer);
+      document.removeEventListener("visibilitychange", refreshNow);
+      window.removeEventListener("focus", refreshNow);
+    };
+  }, [loadCells, loadAssigned, planDate]);
 
   useEffect(() => {
     if (!layers.bands) return;
