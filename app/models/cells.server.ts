@@ -1,7 +1,7 @@
 import { cellCentroid, cellIndex, createCellGrid, type CellGrid } from "../../shared/grid/cell-grid";
 import { isInsideWorkLimit } from "../../shared/grid/work-limit";
-import { MAP_STATUSES, OUTSIDE_WORK_LIMIT, type MapStatus } from "../../shared/palette";
-import { unitLabel, type LengthUnit } from "../../shared/units";
+import { MAP_STATUSES, type MapStatus } from "../../shared/palette";
+import { presentCellsPayload, type CellsPayload } from "./cells-presenter";
 import { CellResult, Project, SurveySnapshot, Zone } from "~/lib/db.server";
 import { createHash } from "node:crypto";
 import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/map/project-surfaces.server";
@@ -9,33 +9,7 @@ import { resolveCrsDefinition } from "~/lib/epsg.server";
 import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
 import type { ProjectView } from "./project.server";
 
-/**
- * The map's cell data: the grid definition and compact per-cell arrays laid row-major over the
- * grid (index = (row − firstRow) · cols + (col − firstCol)). The browser builds the cell outlines
- * from the definition, so the payload grows by a few bytes per cell, never by a polygon per cell.
- */
-export interface CellsPayload {
-  projectId: number;
-  crs: { code: string; definition: string };
-  lengthUnit: LengthUnit;
-  labels: { length: string; volume: string };
-  grid: CellGrid | null;
-  statuses: readonly MapStatus[];
-  zones: Array<{ id: number; name: string }>;
-  computedAt: string | null;
-  /** Status codes into `statuses`; −1 outside the work limit. */
-  status: number[];
-  /** Mean remaining thickness (length unit), 0.01; null where nothing was surveyed. */
-  remainingThickness: Array<number | null>;
-  /** Volumes in the project volume unit, 0.1. */
-  removedVolume: number[];
-  remainingVolume: number[];
-  plannedVolume: number[];
-  /** Surveyed share of the cell, 0.001. */
-  coverage: number[];
-  /** Index into `zones`; −1 for none. */
-  zone: number[];
-}
+export type { CellsPayload } from "./cells-presenter";
 
 /**
  * What the cells payload depends on, hashed: the recompute stamp, the zones (names, order) and the
@@ -53,8 +27,6 @@ export async function cellsVersion(project: ProjectView): Promise<string> {
   return createHash("sha256").update(`${stamp}|${zoneText}|${settings}`).digest("base64url").slice(0, 22);
 }
 
-const roundTo = (digits: number) => (value: number) => Number(value.toFixed(digits));
-
 export async function projectCellGrid(project: ProjectView): Promise<CellGrid | null> {
   const geometry = await loadProjectGeometry(project.id);
   if (!geometry.workLimit) return null;
@@ -70,54 +42,23 @@ export async function projectCellGrid(project: ProjectView): Promise<CellGrid | 
 export async function getCellsPayload(project: ProjectView): Promise<CellsPayload> {
   const grid = await projectCellGrid(project);
   const zones = await Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["id", "ASC"]], attributes: ["id", "name"] });
-  const zoneIndex = new Map(zones.map((zone, index) => [zone.id, index]));
-  const count = grid ? grid.cols * grid.rows : 0;
-  const status = new Array<number>(count).fill(OUTSIDE_WORK_LIMIT);
-  const remainingThickness = new Array<number | null>(count).fill(null);
-  const removedVolume = new Array<number>(count).fill(0);
-  const remainingVolume = new Array<number>(count).fill(0);
-  const plannedVolume = new Array<number>(count).fill(0);
-  const coverage = new Array<number>(count).fill(0);
-  const zone = new Array<number>(count).fill(-1);
-  let computedAt: Date | null = null;
-  if (grid) {
-    const rows = await CellResult.findAll({
-      where: { projectId: project.id },
-      attributes: ["row", "col", "status", "meanRemainingThickness", "removedVolume", "remainingVolume", "plannedVolume", "coverage", "zoneId", "computedAt"],
-      raw: true,
-    });
-    const two = roundTo(2), one = roundTo(1), three = roundTo(3);
-    for (const cell of rows) {
-      const index = cellIndex(grid, cell.row, cell.col);
-      if (index < 0) continue;
-      status[index] = MAP_STATUSES.indexOf(cell.status);
-      remainingThickness[index] = cell.meanRemainingThickness === null ? null : two(cell.meanRemainingThickness);
-      removedVolume[index] = one(cell.removedVolume);
-      remainingVolume[index] = one(cell.remainingVolume);
-      plannedVolume[index] = one(cell.plannedVolume);
-      coverage[index] = three(cell.coverage);
-      zone[index] = cell.zoneId === null ? -1 : zoneIndex.get(cell.zoneId) ?? -1;
-      if (!computedAt || cell.computedAt > computedAt) computedAt = new Date(cell.computedAt);
-    }
-    if (rows.length === 0) await markCellsInLimit(project, grid, status);
-  }
-  return {
+  const cells = grid
+    ? await CellResult.findAll({
+        where: { projectId: project.id },
+        attributes: ["row", "col", "status", "meanRemainingThickness", "removedVolume", "remainingVolume", "plannedVolume", "coverage", "zoneId", "computedAt"],
+        raw: true,
+      })
+    : [];
+  const payload = presentCellsPayload({
     projectId: project.id,
     crs: { code: project.crs, definition: resolveCrsDefinition(project.crs).definition },
     lengthUnit: project.lengthUnit,
-    labels: { length: unitLabel(project.lengthUnit), volume: unitLabel(project.lengthUnit, "volume") },
     grid,
-    statuses: MAP_STATUSES,
     zones: zones.map((row) => ({ id: row.id, name: row.name })),
-    computedAt: computedAt ? computedAt.toISOString() : null,
-    status,
-    remainingThickness,
-    removedVolume,
-    remainingVolume,
-    plannedVolume,
-    coverage,
-    zone,
-  };
+    cells,
+  });
+  if (grid && cells.length === 0) await markCellsInLimit(project, grid, payload.status);
+  return payload;
 }
 
 /** Before the first computation, every cell whose centre lies inside the work limit is `no-data`. */

@@ -1,0 +1,104 @@
+import { cellIndex, type CellGrid } from "../../shared/grid/cell-grid";
+import { MAP_STATUSES, OUTSIDE_WORK_LIMIT, type MapStatus } from "../../shared/palette";
+import { unitLabel, type LengthUnit } from "../../shared/units";
+
+/**
+ * The map's cell data: the grid definition and compact per-cell arrays laid row-major over the
+ * grid (index = (row − firstRow) · cols + (col − firstCol)). The browser builds the cell outlines
+ * from the definition, so the payload grows by a few bytes per cell, never by a polygon per cell.
+ */
+export interface CellsPayload {
+  projectId: number;
+  crs: { code: string; definition: string };
+  lengthUnit: LengthUnit;
+  labels: { length: string; volume: string };
+  grid: CellGrid | null;
+  statuses: readonly MapStatus[];
+  zones: Array<{ id: number; name: string }>;
+  computedAt: string | null;
+  /** Status codes into `statuses`; −1 outside the work limit. */
+  status: number[];
+  /** Mean remaining thickness (length unit), 0.01; null where nothing was surveyed. */
+  remainingThickness: Array<number | null>;
+  /** Volumes in the project volume unit, 0.1. */
+  removedVolume: number[];
+  remainingVolume: number[];
+  plannedVolume: number[];
+  /** Surveyed share of the cell, 0.001. */
+  coverage: number[];
+  /** Index into `zones`; −1 for none. */
+  zone: number[];
+}
+
+/** One stored cell's figures, as the database gives them. */
+export interface CellFigures {
+  row: number;
+  col: number;
+  status: MapStatus;
+  meanRemainingThickness: number | null;
+  removedVolume: number;
+  remainingVolume: number;
+  plannedVolume: number;
+  coverage: number;
+  zoneId: number | null;
+  computedAt: Date | string;
+}
+
+export interface CellsPresenterInput {
+  projectId: number;
+  crs: { code: string; definition: string };
+  lengthUnit: LengthUnit;
+  grid: CellGrid | null;
+  zones: Array<{ id: number; name: string }>;
+  cells: readonly CellFigures[];
+}
+
+const roundTo = (digits: number) => (value: number) => Number(value.toFixed(digits));
+
+/** The payload from the stored figures: pure, so the benchmark runs it on a synthetic bay. */
+export function presentCellsPayload(input: CellsPresenterInput): CellsPayload {
+  const { grid } = input;
+  const zoneIndex = new Map(input.zones.map((zone, index) => [zone.id, index]));
+  const count = grid ? grid.cols * grid.rows : 0;
+  const status = new Array<number>(count).fill(OUTSIDE_WORK_LIMIT);
+  const remainingThickness = new Array<number | null>(count).fill(null);
+  const removedVolume = new Array<number>(count).fill(0);
+  const remainingVolume = new Array<number>(count).fill(0);
+  const plannedVolume = new Array<number>(count).fill(0);
+  const coverage = new Array<number>(count).fill(0);
+  const zone = new Array<number>(count).fill(-1);
+  let computedAt: Date | null = null;
+  if (grid) {
+    const two = roundTo(2), one = roundTo(1), three = roundTo(3);
+    for (const cell of input.cells) {
+      const index = cellIndex(grid, cell.row, cell.col);
+      if (index < 0) continue;
+      status[index] = MAP_STATUSES.indexOf(cell.status);
+      remainingThickness[index] = cell.meanRemainingThickness === null ? null : two(cell.meanRemainingThickness);
+      removedVolume[index] = one(cell.removedVolume);
+      remainingVolume[index] = one(cell.remainingVolume);
+      plannedVolume[index] = one(cell.plannedVolume);
+      coverage[index] = three(cell.coverage);
+      zone[index] = cell.zoneId === null ? -1 : zoneIndex.get(cell.zoneId) ?? -1;
+      const at = new Date(cell.computedAt);
+      if (!computedAt || at > computedAt) computedAt = at;
+    }
+  }
+  return {
+    projectId: input.projectId,
+    crs: input.crs,
+    lengthUnit: input.lengthUnit,
+    labels: { length: unitLabel(input.lengthUnit), volume: unitLabel(input.lengthUnit, "volume") },
+    grid,
+    statuses: MAP_STATUSES,
+    zones: input.zones,
+    computedAt: computedAt ? computedAt.toISOString() : null,
+    status,
+    remainingThickness,
+    removedVolume,
+    remainingVolume,
+    plannedVolume,
+    coverage,
+    zone,
+  };
+}
