@@ -53,7 +53,12 @@ export interface CellsPresenterInput {
   cells: readonly CellFigures[];
 }
 
-const roundTo = (digits: number) => (value: number) => Number(value.toFixed(digits));
+// Math.round over a power of ten, not Number(toFixed()): a tenth of the time at 100,000 cells, and
+// the quotient of an integer by 10ⁿ is the double nearest the decimal, so JSON prints it short.
+const roundTo = (digits: number) => {
+  const scale = 10 ** digits;
+  return (value: number) => Math.round(value * scale) / scale;
+};
 
 /** The payload from the stored figures: pure, so the benchmark runs it on a synthetic bay. */
 export function presentCellsPayload(input: CellsPresenterInput): CellsPayload {
