@@ -34,5 +34,10 @@ const server = app.listen(port, host, () => {
   process.stdout.write(`Firmsand listening on http://${host}:${port}\n`);
 });
 for (const signal of ["SIGTERM", "SIGINT"]) {
-  process.once(signal, () => server.close(() => process.exit(0)));
+  process.once(signal, () => {
+    server.close(() => process.exit(0));
+    server.closeIdleConnections();
+    // Keep-alive clients must not hold a shutdown open.
+    setTimeout(() => process.exit(0), 3000).unref();
+  });
 }
