@@ -37,6 +37,7 @@ const server = new SMTPServer({
           text: parsed.text ?? "",
           html: typeof parsed.html === "string" ? parsed.html : null,
         };
+        mkdirSync(mailbox, { recursive: true }); // someone may have emptied it meanwhile
         writeFileSync(join(mailbox, `${id}.json`), JSON.stringify(message, null, 2));
         callback();
       })

@@ -1,5 +1,5 @@
 // The services Firmsand's commands bring up besides MariaDB: the local fake SMTP server.
-import { existsSync, rmSync, writeFileSync } from "node:fs";
+import { existsSync, readdirSync, rmSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import {
   DATA_DIR, isPortOpen, isProcessAlive, log, readPid, spawnDetached, stopByPidFile, waitFor,
@@ -22,7 +22,10 @@ function mailPaths(instance) {
 export async function ensureMailServer(instance, { emptyMailbox = false } = {}) {
   const port = MAIL_PORTS[instance];
   const { mailbox, pidFile, logFile } = mailPaths(instance);
-  if (emptyMailbox && existsSync(mailbox)) rmSync(mailbox, { recursive: true, force: true });
+  // Empty the mailbox but keep its folder: a server that is already running writes into it.
+  if (emptyMailbox && existsSync(mailbox)) {
+    for (const entry of readdirSync(mailbox)) rmSync(join(mailbox, entry), { recursive: true, force: true });
+  }
   const env = { SMTP_HOST: "127.0.0.1", SMTP_PORT: String(port), MAILBOX_DIR: mailbox };
   const running = isProcessAlive(readPid(pidFile));
   if (running) return { startedHere: false, env };
