@@ -1,25 +1,10 @@
 import type { FeatureCollection, Polygon } from "geojson";
 import { cellLabel, fromGridFrame, type CellGrid } from "../../../shared/grid/cell-grid";
 import { createCrs } from "../../../shared/crs";
+import type { CellsPayload } from "~/models/cells-presenter";
 
-/** What the browser receives from GET /api/projects/<id>/cells (see app/models/cells.server.ts). */
-export interface CellsData {
-  projectId: number;
-  crs: { code: string; definition: string };
-  lengthUnit: "us-ft" | "ft" | "m";
-  labels: { length: string; volume: string };
-  grid: CellGrid | null;
-  statuses: readonly string[];
-  zones: Array<{ id: number; name: string }>;
-  computedAt: string | null;
-  status: number[];
-  remainingThickness: Array<number | null>;
-  removedVolume: number[];
-  remainingVolume: number[];
-  plannedVolume: number[];
-  coverage: number[];
-  zone: number[];
-}
+/** What the browser receives from GET /api/projects/<id>/cells (shaped by app/models/cells-presenter.ts). */
+export type CellsData = CellsPayload;
 
 export interface CellProperties {
   label: string;
