@@ -1,4 +1,4 @@
-import { linearScale, niceTicks } from "../../shared/progress/chart-scale";
+import { linearScale, niceTicks, spreadLabels } from "../../shared/progress/chart-scale";
 import { dayNumber } from "../../shared/progress/calendar-days";
 import type { ProductionInterval } from "../../shared/progress/production";
 import { formatNumber } from "./progress-figures";
@@ -7,7 +7,7 @@ import { formatNumber } from "./progress-figures";
 
 const WIDTH = 640;
 const HEIGHT = 260;
-const MARGIN = { top: 12, right: 120, bottom: 36, left: 64 };
+const MARGIN = { top: 24, right: 120, bottom: 36, left: 64 };
 const LINE_COLOURS = ["#14606e", "#9a5b00", "#6b4c9a", "#2f6f3e", "#a3242a", "#3c6e9f"];
 
 export interface RemovedSeries {
@@ -25,7 +25,7 @@ function ValueAxis({ ticks, y, unit }: { ticks: number[]; y: (value: number) => 
           <text x={MARGIN.left - 6} y={y(tick) + 4} textAnchor="end">{formatNumber(tick)}</text>
         </g>
       ))}
-      <text x={12} y={MARGIN.top + 4} fontSize={11}>{unit}</text>
+      <text x={MARGIN.left - 6} y={MARGIN.top - 12} fontSize={11} textAnchor="end">{unit}</text>
     </g>
   );
 }
@@ -38,6 +38,9 @@ export function CumulativeRemovedChart({ dates, series, unit }: { dates: string[
   const max = Math.max(0, ...series.flatMap((line) => line.values.filter((value): value is number => value !== null)));
   const ticks = niceTicks(max);
   const y = linearScale([0, ticks[ticks.length - 1]], [HEIGHT - MARGIN.bottom, MARGIN.top]);
+  // End labels sit beside each line's last value, pushed apart where lines end close together.
+  const lastValues = series.map((line) => [...line.values].reverse().find((value): value is number => value !== null) ?? 0);
+  const labelY = spreadLabels(lastValues.map((value) => y(value) + 4), 12, MARGIN.top, HEIGHT - MARGIN.bottom + 4);
   return (
     <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-labelledby="cumulative-title" className="h-auto w-full" data-testid="cumulative-chart">
       <title id="cumulative-title">Cumulative removed volume by survey date, per zone and for the project ({unit})</title>
@@ -59,12 +62,11 @@ export function CumulativeRemovedChart({ dates, series, unit }: { dates: string[
           path += `${pen ? "L" : "M"}${x(days[index]).toFixed(1)} ${y(value).toFixed(1)}`;
           pen = true;
         });
-        const last = [...line.values].reverse().find((value): value is number => value !== null) ?? 0;
         return (
           <g key={line.name} data-series={line.name}>
             <path d={path} fill="none" stroke={colour} strokeWidth={line.total ? 3 : 2} strokeDasharray={line.total ? undefined : lineIndex % 2 ? "6 3" : undefined} />
             {line.values.map((value, index) => value === null ? null : <circle key={index} cx={x(days[index])} cy={y(value)} r={3} fill={colour}><title>{`${line.name}, ${dates[index]}: ${formatNumber(value)} ${unit}`}</title></circle>)}
-            <text x={WIDTH - MARGIN.right + 8} y={y(last) + 4} fontSize={11} fill={colour}>{line.name}</text>
+            <text x={WIDTH - MARGIN.right + 8} y={labelY[lineIndex]} fontSize={11} fill={colour}>{line.name}</text>
           </g>
         );
       })}

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { linearScale, niceStep, niceTicks } from "./chart-scale";
+import { linearScale, niceStep, niceTicks, spreadLabels } from "./chart-scale";
 
 describe("chart scales", () => {
   it("maps the domain's ends onto the range's ends and is linear between", () => {
@@ -41,5 +41,25 @@ describe("outline paths", () => {
     // computed: at 60° latitude a degree of longitude is cos 60° = half a degree of latitude wide
     const wide = fitOutlineFrame([[[0, 60], [0.02, 60], [0.02, 60.01], [0, 60.01]]], 1000, 0);
     expect(Math.abs(wide.height - 1000 * (0.01 / (0.02 * Math.cos(((60 + 60.01) / 2) * Math.PI / 180))))).toBeLessThanOrEqual(0.5); // whole units, rounded
+  });
+});
+
+describe("spreadLabels", () => {
+  // Invariants (no external source needed): order kept, gaps at least minGap, untouched when already apart.
+  it("leaves labels that are already apart where they are", () => {
+    expect(spreadLabels([10, 40, 80], 12)).toEqual([10, 40, 80]);
+  });
+  it("pushes overlapping labels apart, keeping their order", () => {
+    const placed = spreadLabels([100, 98, 30], 12);
+    expect(placed[2]).toBe(30);
+    expect(placed[1]).toBe(98);
+    expect(placed[0]).toBe(110);
+  });
+  it("moves the block back inside the upper bound when there is room below", () => {
+    const placed = spreadLabels([195, 196, 197], 12, 0, 200);
+    const sorted = [...placed].sort((a, b) => a - b);
+    expect(sorted[2]).toBeLessThanOrEqual(200);
+    expect(sorted[1] - sorted[0]).toBeGreaterThanOrEqual(12);
+    expect(sorted[2] - sorted[1]).toBeGreaterThanOrEqual(12);
   });
 });

@@ -36,3 +36,27 @@ export function niceTicks(max: number, count = 5): number[] {
   for (let value = 0; value <= top + step * 1e-9; value += step) ticks.push(Number(value.toPrecision(12)));
   return ticks;
 }
+
+/**
+ * Positions for end-of-line labels so that none sits closer than `minGap` to the next: labels
+ * keep their order by wanted position and are pushed apart, then the block is moved back inside
+ * [low, high] where it can be. Returns the positions in the input's order.
+ */
+export function spreadLabels(wanted: readonly number[], minGap: number, low = -Infinity, high = Infinity): number[] {
+  const order = wanted.map((_, index) => index).sort((a, b) => wanted[a] - wanted[b]);
+  const placed = new Array<number>(wanted.length);
+  let previous = -Infinity;
+  for (const index of order) {
+    placed[index] = Math.max(wanted[index], previous + minGap);
+    previous = placed[index];
+  }
+  if (order.length > 0) {
+    const overflow = placed[order[order.length - 1]] - high;
+    if (overflow > 0) {
+      const room = placed[order[0]] - low;
+      const shift = Math.min(overflow, Math.max(0, room));
+      for (const index of order) placed[index] -= shift;
+    }
+  }
+  return placed;
+}
