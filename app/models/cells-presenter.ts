@@ -107,3 +107,44 @@ export function presentCellsPayload(input: CellsPresenterInput): CellsPayload {
     zone,
   };
 }
+
+/** A stored cell's figures as every cell view shows them (inspector, quantities export). */
+export interface StoredCellFigures<Status extends string = string> {
+  label: string;
+  row: number;
+  col: number;
+  status: Status;
+  plannedVolume: number;
+  removedVolume: number;
+  depositedVolume: number;
+  remainingVolume: number;
+  meanRemainingThickness: number | null;
+  coverage: number;
+  areaInLimit: number;
+}
+
+/** Picks the figures out of a stored cell row (a plain object, never the model instance). */
+export function presentStoredCellFigures<Status extends string>(cell: StoredCellFigures<Status>): StoredCellFigures<Status> {
+  return {
+    label: cell.label,
+    row: cell.row,
+    col: cell.col,
+    status: cell.status,
+    plannedVolume: cell.plannedVolume,
+    removedVolume: cell.removedVolume,
+    depositedVolume: cell.depositedVolume,
+    remainingVolume: cell.remainingVolume,
+    meanRemainingThickness: cell.meanRemainingThickness,
+    coverage: cell.coverage,
+    areaInLimit: cell.areaInLimit,
+  };
+}
+
+/** GET /api/projects/<id>/cells/<label>: one cell's figures, soundings, history and assignments. */
+export interface CellDetail extends StoredCellFigures<MapStatus> {
+  zone: string | null;
+  soundings: number | null;
+  workingDepth: number | null;
+  history: Array<{ date: string; remainingVolume: number; removedVolume: number; status: MapStatus | null }>;
+  assignments: Array<{ date: string; team: string; hose: string; notes: string }>;
+}

@@ -1,7 +1,8 @@
 import { cellCentroid, cellIndex, createCellGrid, type CellGrid } from "../../shared/grid/cell-grid";
 import { isInsideWorkLimit } from "../../shared/grid/work-limit";
 import { MAP_STATUSES, type MapStatus } from "../../shared/palette";
-import { presentCellsPayload, type CellsPayload } from "./cells-presenter";
+import { presentCellsPayload, presentStoredCellFigures, type CellDetail, type CellsPayload } from "./cells-presenter";
+export type { CellDetail } from "./cells-presenter";
 import { CellResult, Project, SurveySnapshot, Zone } from "~/lib/db.server";
 import { createHash } from "node:crypto";
 import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/map/project-surfaces.server";
@@ -87,24 +88,6 @@ export function parseCellLabel(label: string): { row: number; col: number } | nu
   return { row, col };
 }
 
-export interface CellDetail {
-  label: string;
-  row: number;
-  col: number;
-  zone: string | null;
-  status: MapStatus;
-  plannedVolume: number;
-  removedVolume: number;
-  depositedVolume: number;
-  remainingVolume: number;
-  meanRemainingThickness: number | null;
-  coverage: number;
-  areaInLimit: number;
-  soundings: number | null;
-  workingDepth: number | null;
-  history: Array<{ date: string; remainingVolume: number; removedVolume: number; status: MapStatus | null }>;
-  assignments: Array<{ date: string; team: string; hose: string; notes: string }>;
-}
 
 /** One cell's figures, soundings, history across survey dates and its assignments; null when the cell has no figures. */
 export async function getCellDetail(project: ProjectView, label: string): Promise<CellDetail | null> {
@@ -126,18 +109,8 @@ export async function getCellDetail(project: ProjectView, label: string): Promis
   const depth = engineIndex >= 0 ? surfaces!.cellMaxDepth[engineIndex] : Number.NaN;
   const { cellAssignments } = await import("./assignments.server");
   return {
-    label: cell.label,
-    row: cell.row,
-    col: cell.col,
+    ...presentStoredCellFigures(cell),
     zone: (cell as CellResult & { zone?: Zone | null }).zone?.name ?? null,
-    status: cell.status,
-    plannedVolume: cell.plannedVolume,
-    removedVolume: cell.removedVolume,
-    depositedVolume: cell.depositedVolume,
-    remainingVolume: cell.remainingVolume,
-    meanRemainingThickness: cell.meanRemainingThickness,
-    coverage: cell.coverage,
-    areaInLimit: cell.areaInLimit,
     soundings: engineIndex >= 0 ? surfaces!.soundingsPerCell[engineIndex] : null,
     workingDepth: Number.isFinite(depth) ? Math.round(depth * 100) / 100 : null,
     history,

@@ -7,6 +7,7 @@ import { resolveCrsDefinition } from "~/lib/epsg.server";
 import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
 import { loadProgress, type ProgressFigures, type ProgressView } from "./progress.server";
 import type { ProjectView } from "./project.server";
+import { presentStoredCellFigures } from "./cells-presenter";
 
 /**
  * Quantities for pay applications: the survey pair they rest on, the method in words, zone
@@ -81,18 +82,8 @@ export async function loadQuantities(project: ProjectView): Promise<QuantitiesVi
     cells: cells
       .filter((cell) => cell.areaInLimit > 0)
       .map((cell) => ({
-        label: cell.label,
-        row: cell.row,
-        col: cell.col,
+        ...presentStoredCellFigures(cell),
         zone: cell.zoneId === null ? null : zoneName.get(Number(cell.zoneId)) ?? null,
-        status: cell.status,
-        plannedVolume: cell.plannedVolume,
-        removedVolume: cell.removedVolume,
-        depositedVolume: cell.depositedVolume,
-        remainingVolume: cell.remainingVolume,
-        meanRemainingThickness: cell.meanRemainingThickness,
-        coverage: cell.coverage,
-        areaInLimit: cell.areaInLimit,
         latestSurveyOn: cell.latestSurveyId === null ? null : surveyDate.get(Number(cell.latestSurveyId)) ?? null,
       })),
   };

@@ -1,22 +1,8 @@
 import { useEffect, useState } from "react";
 import { STATUS_LABELS, type MapStatus } from "../../../shared/palette";
 import { HistoryChart } from "./history-chart";
+import type { CellDetail } from "~/models/cells-presenter";
 
-interface CellDetail {
-  label: string;
-  zone: string | null;
-  status: MapStatus;
-  plannedVolume: number;
-  removedVolume: number;
-  depositedVolume: number;
-  remainingVolume: number;
-  meanRemainingThickness: number | null;
-  coverage: number;
-  soundings: number | null;
-  workingDepth: number | null;
-  history: Array<{ date: string; remainingVolume: number; removedVolume: number; status: string | null }>;
-  assignments: Array<{ date: string; team: string; hose: string; notes: string }>;
-}
 
 /** The clicked cell's figures, soundings, history and assignments (fetched on selection). */
 export function CellInspector({ projectId, label, labels, refresh }: { projectId: number; label: string | null; labels: { length: string; volume: string }; refresh: number }) {
