@@ -17,7 +17,7 @@ import { stopMailServer } from "./services.mjs";
 
 export const INSTANCES = {
   dev: { port: Number(process.env.DB_PORT ?? 3307), databases: [process.env.DB_NAME ?? "firmsand"] },
-  test: { port: Number(process.env.DB_TEST_PORT ?? 3308), databases: ["firmsand_test", "firmsand_e2e"] },
+  test: { port: Number(process.env.DB_TEST_PORT ?? 3308), databases: ["firmsand_test", "firmsand_e2e", "firmsand_bench"] },
 };
 
 function paths(instance) {

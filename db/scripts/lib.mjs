@@ -1,7 +1,7 @@
 // Bring-up helpers shared by `npm start`, `npm test` and `npm run db:*`.
 // Only Node's built-ins here: these run before the npm packages are installed.
 import { spawn, spawnSync } from "node:child_process";
-import { existsSync, mkdirSync, openSync, readFileSync, statSync, writeFileSync } from "node:fs";
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, statSync, writeFileSync, writeSync } from "node:fs";
 import { connect } from "node:net";
 import { dirname, join, resolve } from "node:path";
 import { randomBytes } from "node:crypto";
@@ -151,4 +151,38 @@ export function isMainModule(moduleUrl) {
 /** The path of an installed npm package's command (no npx layer, so signals reach it). */
 export function bin(name) {
   return join(ROOT, "node_modules", ".bin", name);
+}
+
+/** Builds the production app (client and server bundles) into build/. */
+export function buildApp(env = process.env) {
+  run(bin("react-router"), ["build"], { env });
+}
+
+/**
+ * Waits until this process holds `.data/<name>.lock` (one `npm test` or `npm run bench` per
+ * checkout: they share the test MariaDB and its ports). A lock left by a dead process is taken over.
+ */
+export async function takeCheckoutLock(name, what) {
+  mkdirSync(DATA_DIR, { recursive: true });
+  const lockFile = join(DATA_DIR, `${name}.lock`);
+  let announced = false;
+  for (;;) {
+    try {
+      const fd = openSync(lockFile, "wx");
+      writeSync(fd, String(process.pid));
+      closeSync(fd);
+      process.on("exit", () => rmSync(lockFile, { force: true }));
+      return;
+    } catch (error) {
+      if (error.code !== "EEXIST") throw error;
+      const holder = readPid(lockFile);
+      if (holder && !isProcessAlive(holder)) {
+        rmSync(lockFile, { force: true });
+        continue;
+      }
+      if (!announced) log(`another ${what} (pid ${holder}) is running in this checkout; waiting for it`);
+      announced = true;
+      await sleep(1000);
+    }
+  }
 }

@@ -2,7 +2,7 @@
 // Installs what is missing, brings up the private MariaDB and the fake SMTP server, migrates,
 // seeds the demo when the database is empty, builds and serves on http://127.0.0.1:3000.
 import { spawn } from "node:child_process";
-import { bin, ensureNpmPackages, localSecret, log, run } from "./lib.mjs";
+import { bin, buildApp, ensureNpmPackages, localSecret, log, run } from "./lib.mjs";
 import { ensureMariaDb } from "./db.mjs";
 
 ensureNpmPackages();
@@ -24,7 +24,7 @@ const env = {
 run(bin("tsx"), ["db/migrate.ts", "up"], { env });
 run(bin("tsx"), ["db/seed.ts", "demo"], { env });
 log("building the app");
-run(bin("react-router"), ["build"], { env });
+buildApp(env);
 
 log(`serving Firmsand on http://${env.HOST}:${env.PORT} (Ctrl-C stops the app; npm run db:stop stops the database)`);
 const server = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: "inherit", env });

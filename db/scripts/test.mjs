@@ -5,10 +5,8 @@
 //   npm test -- --unit        Vitest only
 //   npm test -- --e2e         Playwright only (extra arguments go to Playwright)
 import { spawn } from "node:child_process";
-import { closeSync, mkdirSync, openSync, rmSync, writeSync } from "node:fs";
-import { join } from "node:path";
 import {
-  DATA_DIR, bin, ensureDebianPackage, ensureNpmPackages, isPortOpen, isProcessAlive, log, readPid, run, sleep, waitFor,
+  bin, buildApp, ensureDebianPackage, ensureNpmPackages, isPortOpen, log, run, takeCheckoutLock, waitFor,
 } from "./lib.mjs";
 import { ensureMariaDb, stopMariaDb } from "./db.mjs";
 
@@ -17,36 +15,11 @@ const onlyUnit = args.includes("--unit");
 const onlyE2e = args.includes("--e2e");
 const passThrough = args.filter((arg) => arg !== "--unit" && arg !== "--e2e");
 
-// One `npm test` per checkout at a time: two runs would share the test MariaDB and ports.
-const lockFile = join(DATA_DIR, "test-run.lock");
-await takeTestLock();
+// One `npm test` (or `npm run bench`) per checkout at a time: they share the test MariaDB and ports.
+await takeCheckoutLock("test-run", "npm test or npm run bench");
 ensureNpmPackages();
 const { ensureMailServer, stopMailServer } = await import("./services.mjs");
 const chromium = onlyUnit ? null : ensureDebianPackage("chromium", "chromium");
-
-async function takeTestLock() {
-  mkdirSync(DATA_DIR, { recursive: true });
-  let announced = false;
-  for (;;) {
-    try {
-      const fd = openSync(lockFile, "wx");
-      writeSync(fd, String(process.pid));
-      closeSync(fd);
-      process.on("exit", () => rmSync(lockFile, { force: true }));
-      return;
-    } catch (error) {
-      if (error.code !== "EEXIST") throw error;
-      const holder = readPid(lockFile);
-      if (holder && !isProcessAlive(holder)) {
-        rmSync(lockFile, { force: true });
-        continue;
-      }
-      if (!announced) log(`another npm test (pid ${holder}) is running in this checkout; waiting for it`);
-      announced = true;
-      await sleep(1000);
-    }
-  }
-}
 
 const cleanups = [];
 let appServer = null;
@@ -105,7 +78,7 @@ try {
     run(bin("tsx"), ["db/migrate.ts", "reset"], { env: e2eEnv });
     run(bin("tsx"), ["db/seed.ts", "demo"], { env: e2eEnv });
     log("building the app for the browser tests");
-    run(bin("react-router"), ["build"], { env: e2eEnv });
+    buildApp(e2eEnv);
     appServer = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "inherit", "inherit"], env: e2eEnv });
     await waitFor(() => isPortOpen(port), { timeoutMs: 30_000, what: `the app on port ${port}` });
     const code = await runStep(bin("playwright"), ["test", "-c", "tests/e2e/playwright.config.ts", ...(onlyE2e ? passThrough : [])], e2eEnv);

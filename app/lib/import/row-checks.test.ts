@@ -32,3 +32,24 @@ describe("checkRows", () => {
     expect(checkRows(base([5, 6], [1, 1])).duplicateRows).toBe(0);
   });
 });
+
+describe("checkRows duplicates (hashed)", () => {
+  it("finds every repeat in a large file and names the first row each repeats", () => {
+    const count = 50_000;
+    const easting = Array.from({ length: count }, (_, index) => 1000 + (index % 20_000) * 0.01);
+    const depth = Array.from({ length: count }, (_, index) => 5 + (index % 20_000) * 0.001);
+    const { problems, duplicateRows } = checkRows(base(depth, easting));
+    expect(duplicateRows).toBe(30_000);
+    expect(problems[0]).toMatchObject({ row: 20_002, message: "repeats row 2 exactly; leave one of them out" });
+    expect(problems.at(-1)).toMatchObject({ row: count + 1, message: `repeats row ${(count - 1) % 20_000 + 2} exactly; leave one of them out` });
+  });
+
+  it("tells rows apart by point id and time, treats empty probes as equal and −0 as 0", () => {
+    const input = { ...base([5, 5, 5, 5], [0, 0, 0, -0]), id: ["a", "b", "a", "a"], time: ["t", "t", "t", "t"] };
+    const { problems } = checkRows(input);
+    expect(problems.map((problem) => [problem.row, problem.message])).toEqual([
+      [4, "repeats row 2 exactly; leave one of them out"],
+      [5, "repeats row 2 exactly; leave one of them out"],
+    ]);
+  });
+});
