@@ -2,10 +2,13 @@ import { QueryTypes, type Sequelize, type Transaction } from "sequelize";
 import type { PreparedSoundings } from "./analyse.server";
 
 /**
- * Writes a survey's soundings with multi-row INSERTs of a few thousand rows each (one round trip
- * per chunk instead of per row), inside the caller's transaction.
+ * Writes a survey's soundings with multi-row INSERTs of 1,500 rows each (one round trip per chunk
+ * instead of per row), inside the caller's transaction. A chunk's statement stays near 100 KB, under
+ * V8's large-object size: bigger statements go to the large-object space, which only a full
+ * collection frees, and a 1,000,000-row import piled up ~150 MB of them (measured with
+ * BENCH_TRACE=1 npm run bench -- --only import).
  */
-export const SOUNDING_CHUNK_ROWS = 10_000;
+export const SOUNDING_CHUNK_ROWS = 1_500;
 
 /** A finite number as SQL text (numbers need no escaping), or NULL. */
 function sqlNumber(value: number): string {
