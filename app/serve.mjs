@@ -32,6 +32,8 @@ app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV }));
 
 const server = app.listen(port, host, () => {
   process.stdout.write(`Firmsand listening on http://${host}:${port}\n`);
+  // Background work the app's modules registered on load (the sweep of abandoned uploads).
+  for (const start of globalThis.firmsandBackgroundTasks ?? []) start();
 });
 for (const signal of ["SIGTERM", "SIGINT"]) {
   process.once(signal, () => {

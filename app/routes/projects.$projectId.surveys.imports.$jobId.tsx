@@ -6,9 +6,10 @@ import { SoundingPlot } from "~/components/sounding-plot";
 import { SubmitButton } from "~/components/submit-button";
 import { requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
+import { isExpiredJob } from "~/lib/import/abandoned-uploads.server";
 import { commitChoicesFromFields } from "~/lib/import/form-fields";
 import { findImportJob, jobChoices, jobOptions, jobPreview, presentJobProgress } from "~/lib/import/import-job-view.server";
-import { previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
+import { ImportJobClosed, previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
 import { discardStagedFile } from "~/lib/import/stage-upload.server";
 import { soundingFields } from "../../shared/soundings/parse-csv";
 import type { Route } from "./+types/projects.$projectId.surveys.imports.$jobId";
@@ -37,7 +38,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     projectId: project.id,
     lengthUnit: project.lengthUnit,
-    job: { ...presentJobProgress(job), fileName: job.fileName, fileSize: Number(job.fileSize) },
+    job: { ...presentJobProgress(job), fileName: job.fileName, fileSize: Number(job.fileSize), expired: isExpiredJob(job) },
     options: jobOptions(job),
     choices: jobChoices(job),
     preview,
@@ -62,6 +63,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     await job.destroy();
     throw redirect(`/projects/${project.id}/surveys`);
   }
+  if (isExpiredJob(job)) return data({ error: job.error ?? "This upload has expired. Upload the file again." }, { status: 410 });
   if (job.state === "committing" || job.state === "done") return data({ error: "This import is already running or finished." }, { status: 409 });
   const excludeRows = form.getAll("excludeRow").map(Number).filter((row) => Number.isInteger(row) && row > 0);
   const fields = Object.fromEntries([...form.entries()].filter(([, value]) => typeof value === "string")) as Record<string, string>;
@@ -73,7 +75,12 @@ export async function action({ request, params }: Route.ActionArgs) {
     void startImportJobCommit(job, options, choices, clientAddress(request));
     throw redirect(`/projects/${project.id}/surveys/imports/${job.id}`);
   }
-  await previewImportJob(job, options, choices);
+  try {
+    await previewImportJob(job, options, choices);
+  } catch (error) {
+    if (error instanceof ImportJobClosed) return data({ error: error.message }, { status: 409 });
+    throw error;
+  }
   return data({ error: null });
 }
 
@@ -112,6 +119,15 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
   const base = `/projects/${projectId}/surveys`;
   const actionError = (actionData as { error?: string | null } | undefined)?.error ?? null;
 
+  if (job.expired) {
+    return (
+      <section className="space-y-3">
+        <h2 className="text-lg font-semibold">Upload {job.fileName} expired</h2>
+        <FormMessage tone="error">{job.error ?? "This upload waited too long without being imported, so its staged file was removed. Nothing was stored."}</FormMessage>
+        <Link className="text-lagoon underline" to={`${base}/new`}>Upload the file again</Link>
+      </section>
+    );
+  }
   if (job.state === "committing") return <section className="space-y-4"><h2 className="text-lg font-semibold">Import {job.fileName}</h2><ImportProgress projectId={projectId} jobId={job.id} initial={job} /></section>;
   if (job.state === "done" && job.surveyId) {
     return (

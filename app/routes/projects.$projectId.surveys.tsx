@@ -1,6 +1,8 @@
 import { Link } from "react-router";
 import { requireRole } from "~/lib/access.server";
+import { Op } from "sequelize";
 import { ImportJob } from "~/lib/db.server";
+import { EXPIRED_STAGE } from "~/lib/import/abandoned-uploads.server";
 import { getProjectStatistics, listSurveys } from "~/models/survey.server";
 import type { Route } from "./+types/projects.$projectId.surveys";
 
@@ -9,7 +11,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const canUpload = user.isSiteAdmin || role === "surveyor" || role === "manager";
   const [surveys, statistics] = await Promise.all([listSurveys(project), getProjectStatistics(project)]);
   const pending = canUpload
-    ? await ImportJob.findAll({ where: { projectId: project.id, userId: user.id, state: ["staged", "ready", "committing", "validating", "failed"] }, order: [["createdAt", "DESC"]], limit: 10 })
+    ? await ImportJob.findAll({ where: { projectId: project.id, userId: user.id, state: ["staged", "ready", "committing", "validating", "failed"], stage: { [Op.ne]: EXPIRED_STAGE } }, order: [["createdAt", "DESC"]], limit: 10 })
     : [];
   return {
     projectId: project.id,

@@ -1,4 +1,6 @@
+import { Op } from "sequelize";
 import { ColumnMapping, ImportJob } from "../db.server";
+import { EXPIRED_STAGE } from "./abandoned-uploads.server";
 import { analyseStagedFile, type ImportPreview } from "./analyse.server";
 import { commitSurvey, type CommitSurveyInput, type CommittedSurvey } from "./commit.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
@@ -93,9 +95,28 @@ function stagedOf(job: ImportJob): StagedFile {
   return { path: job.filePath, fileName: job.fileName, size: Number(job.fileSize), sha256: job.contentSha256 };
 }
 
+/** A job that may still be previewed or committed: not importing, not done, not expired. */
+const OPEN_JOB = { state: { [Op.notIn]: ["committing", "done"] }, stage: { [Op.ne]: EXPIRED_STAGE } };
+
+export class ImportJobClosed extends Error {
+  constructor() {
+    super("This upload is no longer open: it is importing, imported, or expired.");
+  }
+}
+
+/**
+ * Moves an open job into a new state in one conditional UPDATE, so it cannot race the sweep of
+ * abandoned uploads (which expires only jobs in their old state). False when the job was not open.
+ */
+async function claimOpenJob(job: ImportJob, values: Partial<Pick<ImportJob, "state" | "stage" | "fraction" | "error" | "options">>): Promise<boolean> {
+  const [changed] = await ImportJob.update(values, { where: { id: job.id, ...OPEN_JOB } });
+  if (changed === 1) job.set(values);
+  return changed === 1;
+}
+
 /** Re-reads the staged file with the current options and choices and keeps the preview on the job. */
 export async function previewImportJob(job: ImportJob, options: ImportOptions, choices: CommitChoices): Promise<ImportPreview> {
-  await job.update({ state: "validating", stage: "reading the file", fraction: 0, options: options as unknown as Record<string, unknown> });
+  if (!(await claimOpenJob(job, { state: "validating", stage: "reading the file", fraction: 0, options: options as unknown as Record<string, unknown> }))) throw new ImportJobClosed();
   try {
     const geometry = await loadProjectGeometry(job.projectId);
     const analysis = await analyseStagedFile({ path: job.filePath, sha256: job.contentSha256, options, choices, geometry });
@@ -120,7 +141,7 @@ export function startImportJobCommit(job: ImportJob, options: ImportOptions, cho
     void ImportJob.update({ stage: stage.slice(0, 40), fraction: overallFraction(stage, fraction) }, { where: { id: job.id } }).catch(() => undefined);
   };
   const run = async () => {
-    await job.update({ state: "committing", stage: "reading the file", fraction: 0, error: null });
+    if (!(await claimOpenJob(job, { state: "committing", stage: "reading the file", fraction: 0, error: null }))) return;
     try {
       const outcome = await importSurveyFile({ projectId: job.projectId, userId: job.userId, ip, staged: stagedOf(job), options, choices, onProgress: progress });
       if (!outcome.ok) {

@@ -1,0 +1,153 @@
+import { lstat, readdir, rm } from "node:fs/promises";
+import { join, resolve } from "node:path";
+import { Op } from "sequelize";
+import { ImportJob } from "../db.server";
+import { uploadSettings } from "./settings.server";
+import { stagingDirectory } from "./stage-upload.server";
+
+/**
+ * Abandoned uploads: a file staged for review but never imported (the technician closed the tab)
+ * would otherwise sit in UPLOAD_DIR, and its import job wait, forever.
+ *
+ * The sweep expires every job that is not done and not importing and has been untouched for longer
+ * than the retention (UPLOAD_RETENTION_HOURS, 24 by default): its staged file is deleted and the job
+ * is kept as a small marker (state "failed", stage "expired", preview dropped) so its page can say
+ * plainly what happened instead of "no such import". Markers go after a further 30 days. Staging
+ * files that no unfinished job refers to and that are older than the retention are deleted too.
+ *
+ * A job that is committing is never touched: each expiry is one conditional UPDATE whose WHERE
+ * repeats the state and age test, and the commit's start is conditional the other way round, so
+ * the two cannot both win.
+ */
+export const EXPIRED_STAGE = "expired";
+export const SWEPT_STATES = ["staged", "validating", "ready", "failed"] as const;
+/** Expired markers are removed this long after they expired. */
+export const EXPIRED_MARKER_KEEP_MS = 30 * 24 * 3600 * 1000;
+/** The names stageUpload gives staged files (`<ms>-<16 hex>.csv`); nothing else in UPLOAD_DIR is ever deleted. */
+const STAGED_NAME = /^\d+-[0-9a-f]{16}\.csv$/;
+
+export function retentionHours(): number {
+  return uploadSettings().UPLOAD_RETENTION_HOURS;
+}
+
+export function expiredMessage(hours: number): string {
+  const span = hours % 24 === 0 ? `${hours / 24} day${hours === 24 ? "" : "s"}` : `${hours} hour${hours === 1 ? "" : "s"}`;
+  return `This upload waited more than ${span} without being imported, so Firmsand removed the staged file. Nothing was stored. Upload the file again to import it.`;
+}
+
+export function isExpiredJob(job: Pick<ImportJob, "state" | "stage">): boolean {
+  return job.state === "failed" && job.stage === EXPIRED_STAGE;
+}
+
+export interface SweepOptions {
+  /** Defaults to UPLOAD_RETENTION_HOURS. */
+  retentionMs?: number;
+  now?: Date;
+  /** The directory of staged files; defaults to UPLOAD_DIR/staging. */
+  stagingDir?: string;
+}
+
+export interface SweepResult {
+  expiredJobs: number;
+  removedMarkers: number;
+  orphanFiles: number;
+}
+
+export async function sweepAbandonedUploads(options: SweepOptions = {}): Promise<SweepResult> {
+  const retentionMs = options.retentionMs ?? retentionHours() * 3600 * 1000;
+  if (!(retentionMs > 0)) throw new Error("The upload retention must be a positive duration.");
+  const now = options.now ?? new Date();
+  const cutoff = new Date(now.getTime() - retentionMs);
+  const message = expiredMessage(Math.max(1, Math.round(retentionMs / 3600_000)));
+  const stale = { state: [...SWEPT_STATES], stage: { [Op.ne]: EXPIRED_STAGE }, updatedAt: { [Op.lt]: cutoff } };
+
+  let expiredJobs = 0;
+  const candidates = await ImportJob.findAll({ where: stale, attributes: ["id", "filePath"] });
+  for (const job of candidates) {
+    const [changed] = await ImportJob.update(
+      { state: "failed", stage: EXPIRED_STAGE, fraction: 0, error: message, preview: null },
+      { where: { id: job.id, ...stale } },
+    );
+    if (changed !== 1) continue; // touched or started meanwhile
+    await rm(job.filePath, { force: true });
+    expiredJobs++;
+  }
+
+  const removedMarkers = await ImportJob.destroy({
+    where: { state: "failed", stage: EXPIRED_STAGE, updatedAt: { [Op.lt]: new Date(now.getTime() - EXPIRED_MARKER_KEEP_MS) } },
+  });
+
+  const orphanFiles = await removeOrphanFiles(options.stagingDir ?? stagingDirectory(), cutoff);
+  return { expiredJobs, removedMarkers, orphanFiles };
+}
+
+async function removeOrphanFiles(directory: string, cutoff: Date): Promise<number> {
+  let names: string[];
+  try {
+    names = await readdir(directory);
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code === "ENOENT") return 0;
+    throw error;
+  }
+  const candidates: string[] = [];
+  for (const name of names) {
+    if (!STAGED_NAME.test(name)) continue;
+    const path = resolve(join(directory, name));
+    const info = await lstat(path).catch(() => null);
+    if (info?.isFile() && info.mtime < cutoff) candidates.push(path);
+  }
+  if (candidates.length === 0) return 0;
+  // Read the references after the listing: a job created meanwhile for an old file still counts.
+  const referenced = await ImportJob.findAll({
+    where: { state: { [Op.ne]: "done" }, stage: { [Op.ne]: EXPIRED_STAGE } },
+    attributes: ["filePath"],
+  });
+  const kept = new Set(referenced.map((job) => resolve(job.filePath)));
+  let removed = 0;
+  for (const path of candidates) {
+    if (kept.has(path)) continue;
+    await rm(path, { force: true });
+    removed++;
+  }
+  return removed;
+}
+
+let timer: NodeJS.Timeout | null = null;
+let running = false;
+
+async function sweepAndLog() {
+  if (running) return;
+  running = true;
+  try {
+    const result = await sweepAbandonedUploads();
+    if (result.expiredJobs + result.orphanFiles + result.removedMarkers > 0) {
+      process.stdout.write(`Firmsand: abandoned uploads swept (${result.expiredJobs} expired, ${result.orphanFiles} stray files, ${result.removedMarkers} old markers)\n`);
+    }
+  } catch (error) {
+    process.stderr.write(`Firmsand: the sweep of abandoned uploads failed: ${(error as Error).message}\n`);
+  } finally {
+    running = false;
+  }
+}
+
+/**
+ * Sweeps now and then every hour (or every quarter of the retention when that is shorter). The
+ * timer is unref'd so it never keeps a process alive. Started by the production server.
+ */
+export function startAbandonedUploadSweeper(): void {
+  if (timer) return;
+  const every = Math.min(3600_000, (retentionHours() * 3600_000) / 4);
+  void sweepAndLog();
+  timer = setInterval(() => void sweepAndLog(), every);
+  timer.unref();
+}
+
+export function stopAbandonedUploadSweeper(): void {
+  if (timer) clearInterval(timer);
+  timer = null;
+}
+
+// The production server (app/serve.mjs) starts the background tasks the app registers on load,
+// once it listens; tests and scripts that import this module start nothing.
+const registry = globalThis as typeof globalThis & { firmsandBackgroundTasks?: Array<() => void> };
+(registry.firmsandBackgroundTasks ??= []).push(startAbandonedUploadSweeper);
