@@ -1,16 +1,21 @@
 // `npm run bench`: every benchmark figure of Firmsand, each in its own process so each peak
 // memory is its own.
 //   engine  the survey engine on seeded synthetic surveys (tests/bench/run.ts; no database)
-//   import  a 1,000,000-row file from upload to committed statistics (tests/bench/import.ts),
-//           against the test MariaDB's `firmsand_bench` database
-// Options: --only engine|import (repeatable); anything else goes to the engine bench
+//   import  a 1,000,000-row file from upload to committed statistics: in process from a staged
+//           file (tests/bench/import.ts, with stages), then POSTed to the production build's API
+//           (tests/bench/import-http.ts, the server's own peak memory); the test MariaDB's
+//           `firmsand_bench` database
+//   map     navigation to the cells drawn for a 100,000-cell bay in headless Chromium, and the
+//           bytes sent (tests/bench/map.ts), against the production build served on BENCH_PORT
+//           (default 3200)
+// Options: --only engine|import|map (repeatable); anything else goes to the engine bench
 // (for example --only engine --runs 1). Leaves no process behind: what it started, it stops.
 import { spawn } from "node:child_process";
-import { bin, ensureNpmPackages, log, run, takeCheckoutLock } from "./lib.mjs";
+import { bin, buildApp, ensureDebianPackage, ensureNpmPackages, isPortOpen, log, run, takeCheckoutLock, waitFor } from "./lib.mjs";
 import { ensureMariaDb, stopMariaDb } from "./db.mjs";
 
 const args = process.argv.slice(2);
-const parts = ["engine", "import"];
+const parts = ["engine", "import", "map"];
 const chosen = [];
 const passThrough = [];
 for (let index = 0; index < args.length; index++) {
@@ -47,8 +52,32 @@ if (needsDatabase) {
     const env = { ...process.env, ...database.env, DB_NAME: "firmsand_bench", NODE_ENV: "production", SESSION_SECRET: "firmsand-bench-session-secret-not-for-production" };
     run(bin("tsx"), ["db/migrate.ts", "reset"], { env });
     if (selected.includes("import")) {
-      log("bench: sounding import");
+      log("bench: sounding import, in process");
       if ((await runStep(bin("tsx"), ["tests/bench/import.ts"], env)) !== 0) failed = true;
+    }
+    // The production build, served fresh: the import over HTTP runs first so the server's peak
+    // memory (VmHWM) is the import's.
+    const port = Number(process.env.BENCH_PORT ?? 3200);
+    if (await isPortOpen(port)) throw new Error(`port ${port} is taken; set BENCH_PORT to a free port`);
+    const appEnv = { ...env, PORT: String(port), HOST: "127.0.0.1", BENCH_BASE_URL: `http://127.0.0.1:${port}` };
+    log("bench: building the app");
+    buildApp(appEnv);
+    const app = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "ignore", "inherit"], env: appEnv });
+    cleanups.push(async () => {
+      if (app.exitCode !== null) return;
+      app.kill("SIGTERM");
+      await new Promise((done) => app.once("exit", done));
+    });
+    await waitFor(() => isPortOpen(port), { timeoutMs: 30_000, what: `the app on port ${port}` });
+    const benchEnv = { ...appEnv, BENCH_APP_PID: String(app.pid) };
+    if (selected.includes("import")) {
+      log("bench: sounding import, over HTTP");
+      if ((await runStep(bin("tsx"), ["tests/bench/import-http.ts"], benchEnv)) !== 0) failed = true;
+    }
+    if (selected.includes("map")) {
+      log("bench: coverage map in Chromium");
+      const chromium = ensureDebianPackage("chromium", "chromium");
+      if ((await runStep(bin("tsx"), ["tests/bench/map.ts"], { ...benchEnv, CHROMIUM_PATH: chromium })) !== 0) failed = true;
     }
   } catch (error) {
     log(error.stack ?? String(error));
