@@ -9,14 +9,19 @@ import { CoverageMap, type LayerKey } from "~/components/map/coverage-map";
 import { MapLegend } from "~/components/map/legend";
 import { NorthArrow } from "~/components/map/north-arrow";
 import { legendFor, type MapView } from "~/components/map/paint";
+import { MapSettings } from "~/components/map/map-settings";
 import { requireRole } from "~/lib/access.server";
+import { clientAddress } from "~/lib/client-address.server";
 import { listDiveTeams } from "~/models/assignments.server";
+import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
+import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline.server";
 import type { Route } from "./+types/project-map";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, project, role } = await requireRole(request, params.projectId);
   const canAssign = role === "dive-supervisor" || role === "manager" || (role === null && user.isSiteAdmin);
-  const teams = await listDiveTeams(project);
+  const canManage = role === "manager" || (role === null && user.isSiteAdmin);
+  const [teams, shoreline] = await Promise.all([listDiveTeams(project), getShoreline(project)]);
   return {
     projectId: project.id,
     hasWorkLimit: project.hasWorkLimit,
@@ -24,8 +29,36 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     crsCode: project.crs,
     minTeamSize: project.minTeamSize,
     canAssign,
+    canManage,
+    shoreline,
+    shorelineMaxBytes: SHORELINE_MAX_BYTES,
     teams: teams.map((team) => ({ id: team.id, name: team.name, hoses: team.hoses, size: team.members.length, belowMinimum: team.belowMinimum })),
   };
+}
+
+export type MapSettingsResult = { intent: "upload" | "remove"; ok: boolean; message: string };
+
+// POST /projects/<id>/map — the manager's map settings: upload, replace or remove the shoreline.
+export async function action({ request, params }: Route.ActionArgs): Promise<MapSettingsResult> {
+  const { user, project } = await requireRole(request, params.projectId, "manager");
+  const length = Number(request.headers.get("Content-Length") ?? 0);
+  if (length > SHORELINE_MAX_BYTES + 64 * 1024) {
+    return { intent: "upload", ok: false, message: `The file is larger than ${SHORELINE_MAX_BYTES / 1024 / 1024} MB; simplify the shoreline first.` };
+  }
+  const form = await request.formData();
+  const intent = form.get("intent");
+  if (intent === "remove") {
+    const removed = await removeShoreline(project, user, clientAddress(request));
+    return { intent: "remove", ok: removed, message: removed ? "Shoreline removed; the map's water now follows the work limit alone." : "There was no shoreline to remove." };
+  }
+  if (intent !== "upload") return { intent: "upload", ok: false, message: "Unknown request." };
+  const file = form.get("shoreline");
+  if (!(file instanceof File) || file.size === 0) return { intent: "upload", ok: false, message: "Choose a GeoJSON file to upload." };
+  if (file.size > SHORELINE_MAX_BYTES) return { intent: "upload", ok: false, message: `The file is larger than ${SHORELINE_MAX_BYTES / 1024 / 1024} MB; simplify the shoreline first.` };
+  const saved = await saveShoreline(project, user, file.name, await file.text(), clientAddress(request));
+  if (!saved.ok) return { intent: "upload", ok: false, message: saved.error };
+  const what = `${saved.fileName} (${saved.polygons} polygon${saved.polygons === 1 ? "" : "s"}, ${saved.vertices.toLocaleString("en-US")} vertices)`;
+  return { intent: "upload", ok: true, message: saved.replaced ? `Shoreline replaced by ${what}.` : `Shoreline ${what} uploaded.` };
 }
 
 export function meta() {
@@ -37,7 +70,7 @@ const POLL_MS = 30_000;
 
 const VIEW_TITLES: Record<MapView, string> = { status: "Cell status", thickness: "Remaining sediment thickness", removed: "Removed volume per cell" };
 
-export default function ProjectMap({ loaderData }: Route.ComponentProps) {
+export default function ProjectMap({ loaderData, actionData }: Route.ComponentProps) {
   const { projectId } = loaderData;
   const [data, setData] = useState<CellsData | null>(null);
   const [loadError, setLoadError] = useState<string | null>(null);
@@ -234,6 +267,7 @@ export default function ProjectMap({ loaderData }: Route.ComponentProps) {
             onBoxSelect={onBoxSelect}
             onPointer={setPointer}
             onBearing={setBearing}
+            shorelineStamp={loaderData.shoreline?.uploadedAt ?? "none"}
           />
           <div className="pointer-events-none absolute left-2 top-2 rounded bg-panel/90 p-1"><NorthArrow bearing={bearing} /></div>
           <p className="figures mt-1 text-xs text-muted" data-testid="coordinates">
@@ -263,6 +297,7 @@ export default function ProjectMap({ loaderData }: Route.ComponentProps) {
           ) : (
             <p className="text-sm text-muted">Your role can read the map; dive supervisors and managers assign cells.</p>
           )}
+          {loaderData.canManage ? <MapSettings shoreline={loaderData.shoreline} result={actionData ?? null} maxBytes={loaderData.shorelineMaxBytes} /> : null}
         </aside>
       </div>
     </section>

@@ -206,3 +206,57 @@ test("a viewer sees the map but cannot assign", async ({ page, signIn, baseURL }
   expect(refused.status()).toBe(403);
   await api.dispose();
 });
+
+type StyleJson = { sources: Record<string, { data: { type: string; geometry?: { coordinates: number[][][] | number[][][][] }; features?: Array<{ geometry: unknown }> } }> };
+
+test("the manager uploads a shoreline, the offline style draws it, and removing it asks first", async ({ page, signIn }) => {
+  await signIn("manager");
+  await openMap(page);
+  const styleUrl = `/projects/${projectId}/map/style.json`;
+  const style = (await (await page.request.get(styleUrl)).json()) as StyleJson;
+  // A shoreline 100 m or so around the demo's work limit (its bounding box, grown).
+  const limit = style.sources["work-limit"].data.geometry!.coordinates.flat(3) as number[];
+  const lons = limit.filter((_, index) => index % 2 === 0), lats = limit.filter((_, index) => index % 2 === 1);
+  const [west, east, south, north] = [Math.min(...lons) - 0.001, Math.max(...lons) + 0.001, Math.min(...lats) - 0.001, Math.max(...lats) + 0.001];
+  const shoreline = { type: "Polygon", coordinates: [[[west, south], [east, south], [east, north], [west, north], [west, south]]] };
+  const settings = page.getByRole("region", { name: "Map settings" });
+  await expect(settings.getByTestId("shoreline-current")).toContainText("None");
+  await settings.getByLabel("GeoJSON file").setInputFiles({ name: "demo-shore.geojson", mimeType: "application/geo+json", buffer: Buffer.from(JSON.stringify(shoreline)) });
+  await settings.getByRole("button", { name: "Upload shoreline" }).click();
+  await expect(settings.getByTestId("shoreline-result")).toContainText("demo-shore.geojson (1 polygon, 5 vertices) uploaded");
+  await expect(settings.getByTestId("shoreline-current")).toContainText("demo-shore.geojson");
+  const after = (await (await page.request.get(styleUrl)).json()) as StyleJson;
+  expect(after.sources.shoreline.data.features?.[0].geometry).toEqual(shoreline);
+  // The open map swapped in the new water without a reload.
+  await expect.poll(() => page.evaluate(async () => ((await (window as unknown as { firmsandMap: { getSource(id: string): { getData(): Promise<{ features: unknown[] }> } } }).firmsandMap.getSource("shoreline").getData()).features.length))).toBe(1);
+
+  // A bad file is refused with the reason.
+  await settings.getByLabel("Replace with a GeoJSON file").setInputFiles({ name: "bad.geojson", mimeType: "application/geo+json", buffer: Buffer.from(JSON.stringify({ type: "Polygon", coordinates: [[[west, south], [east, south], [east, north]]] })) });
+  await settings.getByRole("button", { name: "Replace shoreline" }).click();
+  await expect(settings.getByRole("alert")).toContainText("at least 4 positions");
+
+  // Removing asks to confirm; keeping it changes nothing, confirming removes it.
+  await settings.getByRole("button", { name: "Remove shoreline…" }).click();
+  await expect(settings.getByRole("button", { name: "Keep it" })).toBeFocused();
+  await settings.getByRole("button", { name: "Keep it" }).click();
+  await expect(settings.getByTestId("shoreline-current")).toContainText("demo-shore.geojson");
+  await settings.getByRole("button", { name: "Remove shoreline…" }).click();
+  await settings.getByRole("button", { name: "Remove the shoreline" }).click();
+  await expect(settings.getByTestId("shoreline-result")).toContainText("Shoreline removed");
+  await expect(settings.getByTestId("shoreline-current")).toContainText("None");
+  const removed = (await (await page.request.get(styleUrl)).json()) as StyleJson;
+  expect(removed.sources.shoreline.data.features).toEqual([]);
+});
+
+test("a viewer has no map settings and cannot upload a shoreline", async ({ page, signIn, baseURL }) => {
+  await signIn("viewer");
+  await openMap(page);
+  await expect(page.getByRole("region", { name: "Map settings" })).toHaveCount(0);
+  const refused = await page.request.post(`/projects/${projectId}/map`, {
+    multipart: { intent: "upload", shoreline: { name: "x.geojson", mimeType: "application/geo+json", buffer: Buffer.from("{}") } },
+    headers: { Origin: new URL(baseURL!).origin },
+  });
+  expect(refused.status()).toBe(403);
+  const style = (await (await page.request.get(`/projects/${projectId}/map/style.json`)).json()) as StyleJson;
+  expect(style.sources.shoreline.data.features).toEqual([]);
+});

@@ -30,6 +30,8 @@ interface Props {
   onBoxSelect: (indices: number[]) => void;
   onPointer: (lonLat: [number, number] | null) => void;
   onBearing: (bearing: number) => void;
+  /** Changes when the manager uploads, replaces or removes the shoreline: the map re-reads it. */
+  shorelineStamp?: string;
 }
 
 function setFeatureStates(map: MapLibreMap, key: "selected" | "assigned", next: ReadonlySet<number>, previous: Set<number>) {
@@ -138,7 +140,25 @@ export function CoverageMap(props: Props) {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [props.projectId]);
 
-  const { data, view, layers, zoneFilter, selected, assigned, bands, flyTo } = props;
+  const { data, view, layers, zoneFilter, selected, assigned, bands, flyTo, shorelineStamp } = props;
+
+  // The style is read once; a new shoreline only swaps that source's data.
+  const drawnShoreline = useRef(shorelineStamp);
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || drawnShoreline.current === shorelineStamp) return;
+    drawnShoreline.current = shorelineStamp;
+    let cancelled = false;
+    fetch(`/projects/${props.projectId}/map/style.json`, { cache: "no-store" })
+      .then((response) => response.json())
+      .then((style: { sources: { shoreline: { data: FeatureCollection } } }) => {
+        if (!cancelled) (map.getSource("shoreline") as GeoJSONSource | undefined)?.setData(style.sources.shoreline.data);
+      })
+      .catch(() => undefined);
+    return () => {
+      cancelled = true;
+    };
+  }, [ready, shorelineStamp, props.projectId]);
 
   useEffect(() => {
     const map = mapRef.current;
