@@ -1,13 +1,37 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { computeSurveyVolumes } from "../../shared/pipeline";
 import { ellipseLimit, syntheticSurveys } from "../../tests/bench/synthetic";
-import { EngineWorkerPool } from "./engine-worker.server";
+import { EngineWorkerPool, workerEntry } from "./engine-worker.server";
+import { computeProjectFigures, type ComputationSurvey, type ProjectComputationInput } from "./import/project-computation";
+import { computeLatestSurfaces } from "./map/latest-surfaces";
+
+const basin = { name: "test pond", centreX: 512_000, centreY: 1_234_000, radiusX: 120, radiusY: 80, waterDepth: 6, muckThickness: 2 };
+const settings = { cellSize: 20, resolution: 1, maxEdge: 30, tolerance: 0.25, firmShare: 0.95, minCoverage: 0.8, surveyNoise: 0.25 };
+
+/** A baseline with its probe, a progress pass and a closeout over part of it (synthetic, seeded). */
+function projectSurveys(): ComputationSurvey[] {
+  const first = syntheticSurveys(basin, 5000, 7, { duplicateShare: 0.05 });
+  const second = syntheticSurveys(basin, 3000, 11);
+  const west = [...second.after.easting.keys()].filter((index) => second.after.easting[index] < basin.centreX);
+  const pick = (values: Float64Array) => Float64Array.from(west, (index) => values[index]);
+  return [
+    { id: 1, kind: "baseline", surveyedOn: "2026-05-01", ...first.before, refusalElevation: first.firm.elevation },
+    { id: 2, kind: "progress", surveyedOn: "2026-06-01", ...first.after, refusalElevation: null },
+    { id: 3, kind: "closeout", surveyedOn: "2026-07-01", easting: pick(second.after.easting), northing: pick(second.after.northing), elevation: pick(second.after.elevation), refusalElevation: null },
+  ];
+}
+
+function figuresInput(surveys = projectSurveys()): ProjectComputationInput {
+  const limit = ellipseLimit(basin);
+  const [[ring]] = limit;
+  const eastHalf = [[ring.filter(([x]) => x >= basin.centreX).concat([[basin.centreX, basin.centreY + basin.radiusY]])]];
+  eastHalf[0][0].push(eastHalf[0][0][0]);
+  return { surveys, workLimit: limit, zones: [{ id: 4, name: "East", polygon: eastHalf as typeof limit }], settings: { ...settings, rasterPrecision: "float32" }, lengthUnit: "us-ft" };
+}
 
 describe("EngineWorkerPool", () => {
   const pool = new EngineWorkerPool(2);
   afterAll(() => pool.close());
-  const basin = { name: "test pond", centreX: 512_000, centreY: 1_234_000, radiusX: 120, radiusY: 80, waterDepth: 6, muckThickness: 2 };
-  const settings = { cellSize: 20, resolution: 1, maxEdge: 30, tolerance: 0.25, firmShare: 0.95, minCoverage: 0.8, surveyNoise: 0.25 };
 
   it("gives the single-thread result, with and without a work limit", async () => {
     const surveys = syntheticSurveys(basin, 5000, 7, { duplicateShare: 0.05 });
@@ -22,5 +46,88 @@ describe("EngineWorkerPool", () => {
     }
     // The caller's arrays are copied, not taken, unless it asks for transfer.
     expect(surveys.before.easting.length).toBe(5000);
+  });
+
+  it("computes a project's figures in a thread exactly as on this one", async () => {
+    const alone = computeProjectFigures(figuresInput())!;
+    const stages: string[] = [];
+    const threaded = await pool.computeProjectFigures(figuresInput(), { onProgress: (stage) => stages.push(stage) });
+    // invariant: the same pure function on a structured-cloned copy of the input; every figure,
+    // snapshot array and status is bit for bit the same.
+    expect(threaded).toEqual(alone);
+    expect(alone.snapshots).toHaveLength(3);
+    expect(alone.totals.cellsConfirmed).toBeGreaterThan(0);
+    expect(alone.snapshots[2].zones[0].totals.cells).toBeGreaterThan(0);
+    expect(threaded!.snapshots[2].remainingVolumes).toBeInstanceOf(Float32Array);
+    // The thread's progress reaches the caller.
+    expect(stages).toContain("triangulate");
+  });
+
+  it("takes the arrays of the surveys the caller hands over and copies the others", async () => {
+    const surveys = projectSurveys();
+    await pool.computeProjectFigures(figuresInput(surveys), { transferSurveys: new Set([1]) });
+    expect(surveys[0].easting.length).toBe(0); // moved to the thread: detached here
+    expect(surveys[0].refusalElevation!.length).toBe(0);
+    expect(surveys[1].easting.length).toBe(5000);
+  });
+
+  it("copies a survey column that is a view into a larger buffer instead of moving the whole buffer", async () => {
+    const surveys = projectSurveys();
+    const backing = new Float64Array(surveys[1].easting.length * 2);
+    backing.set(surveys[1].easting, 10);
+    surveys[1].easting = backing.subarray(10, 10 + surveys[1].elevation.length);
+    const alone = computeProjectFigures(figuresInput(projectSurveys()))!;
+    const threaded = await pool.computeProjectFigures(figuresInput(surveys), { transferSurveys: new Set([2]) });
+    expect(threaded!.totals).toEqual(alone.totals);
+    expect(backing.length).toBe(10_000); // the larger buffer stays with the caller
+  });
+
+  it("computes the map's latest surfaces in a thread exactly as on this one", async () => {
+    const input = { surveys: projectSurveys(), workLimit: ellipseLimit(basin), settings, waterSurfaceElevation: 1.5 };
+    const alone = computeLatestSurfaces(input)!;
+    const threaded = await pool.computeLatestSurfaces({ ...input, surveys: projectSurveys() }, { transferSurveys: new Set([1, 2, 3]) });
+    expect(threaded).toEqual(alone);
+    expect(alone.depth).not.toBeNull();
+    expect(alone.soundingsPerCell.reduce((sum, count) => sum + count, 0)).toBeGreaterThan(0);
+  });
+
+  it("rejects with the engine's own message when a job fails, and keeps working", async () => {
+    const surveys = projectSurveys();
+    surveys[0].refusalElevation = null;
+    await expect(pool.computeProjectFigures(figuresInput(surveys))).rejects.toThrow(/no probe column/);
+    expect(await pool.computeProjectFigures(figuresInput(projectSurveys().slice(1)))).toBeNull(); // no baseline: no figures
+  });
+
+  it("replaces a thread that dies, failing only the job it had", async () => {
+    const small = new EngineWorkerPool(1);
+    try {
+      expect(await small.computeProjectFigures(figuresInput(projectSurveys().slice(1)))).toBeNull(); // the thread is up
+      const worker = (small as unknown as { workers: Array<{ terminate(): Promise<number> }> }).workers[0];
+      const job = small.computeProjectFigures(figuresInput());
+      await worker.terminate();
+      await expect(job).rejects.toThrow(/engine thread stopped/);
+      const figures = await small.computeProjectFigures(figuresInput());
+      expect(figures!.totals).toEqual(computeProjectFigures(figuresInput())!.totals);
+    } finally {
+      await small.close();
+    }
+  });
+
+  it("fails every job, with a reason, when its threads cannot start at all", async () => {
+    const broken = new EngineWorkerPool(1);
+    try {
+      // A thread ended before its entry has loaded stands for an entry that throws on load.
+      await (broken as unknown as { workers: Array<{ terminate(): Promise<number> }> }).workers[0].terminate();
+      await expect(broken.computeProjectFigures(figuresInput())).rejects.toThrow(/engine threads could not start/);
+    } finally {
+      await broken.close();
+    }
+  });
+});
+
+describe("workerEntry", () => {
+  it("is the TypeScript thread beside the sources and the built .mjs beside a bundle", () => {
+    expect(workerEntry("file:///repo/app/lib/engine-worker.server.ts").url.href).toBe("file:///repo/app/lib/engine-worker.thread.ts");
+    expect(workerEntry("file:///srv/firmsand/build/server/index.js")).toEqual({ url: new URL("file:///srv/firmsand/build/server/engine-worker.thread.mjs"), fromSources: false });
   });
 });

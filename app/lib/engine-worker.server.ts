@@ -1,3 +1,5 @@
+import { existsSync } from "node:fs";
+import { fileURLToPath } from "node:url";
 import { Worker } from "node:worker_threads";
 import { createCellGrid } from "../../shared/grid/cell-grid";
 import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
@@ -16,18 +18,23 @@ import {
 } from "../../shared/pipeline";
 import type { RasterGrid, RasterPrecision, RasterValues } from "../../shared/surface/raster";
 import type { Tin } from "../../shared/surface/triangulate";
+import type { ComputationSurvey, ProjectComputation, ProjectComputationInput } from "./import/project-computation";
+import type { LatestSurfacesInput, ProjectSurfaces } from "./map/latest-surfaces";
 
 /**
- * A small pool of worker threads for the engine's heaviest independent steps: each survey's
- * triangulation and, when the work limit is known up front, its rasterisation. Survey arrays are
- * copied in (or transferred, if the caller says it is done with them) and results come back as
- * transferred buffers. The pool is long-lived: start it once with the server (a thread takes tens
- * of milliseconds to start) and `close()` it on shutdown.
+ * A small pool of worker threads for the engine's heavy work, so it never blocks the web
+ * server's event loop: each survey's triangulation and rasterisation (the CLI, the benchmark), a
+ * project's whole figures computation (an import commit or retraction) and the map's latest
+ * surfaces. Inputs are copied in, or transferred when the caller says it is done with them;
+ * results come back as transferred buffers. The pool is long-lived: a thread takes tens of
+ * milliseconds to start. Idle threads do not hold the process open; `close()` ends them.
  *
- * The worker entry is a TypeScript file when running from sources (tsx: development, the CLI, the
- * benchmark) and its compiled .js sibling otherwise.
+ * The worker entry is engine-worker.thread.ts when running from sources (tsx: development, the
+ * CLI, the benchmark, Vitest) and engine-worker.thread.mjs beside the server bundle in the
+ * production build (emitted by the build: see vite.config.ts).
  */
 export interface SurfaceJob {
+  kind?: undefined;
   id: number;
   easting: Float64Array;
   northing: Float64Array;
@@ -37,16 +44,51 @@ export interface SurfaceJob {
   raster?: { grid: RasterGrid; precision: RasterPrecision };
 }
 
+/** A project's figures (computeProjectFigures), progress reported back as it goes. */
+export interface FiguresJob {
+  kind: "figures";
+  id: number;
+  input: ProjectComputationInput;
+}
+
+/** The map's latest surfaces (computeLatestSurfaces). */
+export interface LatestSurfacesJob {
+  kind: "surfaces";
+  id: number;
+  input: LatestSurfacesInput;
+}
+
+export type EngineJob = SurfaceJob | FiguresJob | LatestSurfacesJob;
+type NewJob = SurfaceJobWithoutId | Omit<FiguresJob, "id"> | Omit<LatestSurfacesJob, "id">;
+type SurfaceJobWithoutId = Omit<SurfaceJob, "id">;
+
 export type SurfaceReply =
   | { id: number; tins: Tin[]; rasters?: undefined; summary?: undefined; error?: undefined }
-  | { id: number; rasters: RasterValues[]; summary: SurfaceSummary; tins?: undefined; error?: undefined }
-  | { id: number; error: string; tins?: undefined; rasters?: undefined; summary?: undefined };
+  | { id: number; rasters: RasterValues[]; summary: SurfaceSummary; tins?: undefined; error?: undefined };
+
+export type EngineReply =
+  | { id: number; done: SurfaceReply | { figures: ProjectComputation | null } | { surfaces: ProjectSurfaces | null } }
+  | { id: number; progress: { stage: string; fraction: number } }
+  | { id: number; error: string };
+
+/** What the thread posts: a job's reply, the answer to a garbage-collection request, or that it has loaded. */
+export type ThreadMessage = EngineReply | { collected: true } | { ready: true };
 
 interface PendingJob {
-  job: SurfaceJob;
+  job: EngineJob;
   transfer: ArrayBuffer[];
-  resolve: (reply: SurfaceReply) => void;
+  onProgress?: ProgressCallback;
+  resolve: (reply: unknown) => void;
   reject: (error: Error) => void;
+}
+
+/** The built worker's file name, beside the server bundle (vite.config.ts emits it under this name). */
+export const BUILT_WORKER_FILE = "engine-worker.thread.mjs";
+
+/** Where this module's worker entry is: the TypeScript source, or the built file beside the bundle. */
+export function workerEntry(moduleUrl: string = import.meta.url): { url: URL; fromSources: boolean } {
+  const fromSources = moduleUrl.endsWith(".ts");
+  return { url: new URL(fromSources ? "./engine-worker.thread.ts" : `./${BUILT_WORKER_FILE}`, moduleUrl), fromSources };
 }
 
 /**
@@ -55,11 +97,15 @@ interface PendingJob {
  * imports the TypeScript entry through tsx's own API.
  */
 function startWorker(): Worker {
-  const fromSources = import.meta.url.endsWith(".ts");
-  if (!fromSources) return new Worker(new URL("./engine-worker.thread.js", import.meta.url));
-  const entry = new URL("./engine-worker.thread.ts", import.meta.url).href;
+  const entry = workerEntry();
+  if (!existsSync(fileURLToPath(entry.url))) {
+    throw new Error(
+      `Firmsand's engine worker is missing: ${fileURLToPath(entry.url)}. The production build emits it beside the server bundle; rebuild the app (npm start or react-router build).`,
+    );
+  }
+  if (!entry.fromSources) return new Worker(entry.url);
   const tsxApi = import.meta.resolve("tsx/esm/api");
-  const bootstrap = `import { tsImport } from ${JSON.stringify(tsxApi)}; await tsImport(${JSON.stringify(entry)}, ${JSON.stringify(import.meta.url)});`;
+  const bootstrap = `import { tsImport } from ${JSON.stringify(tsxApi)}; await tsImport(${JSON.stringify(entry.url.href)}, ${JSON.stringify(import.meta.url)});`;
   return new Worker(new URL(`data:text/javascript,${encodeURIComponent(bootstrap)}`), { execArgv: [] });
 }
 
@@ -68,9 +114,26 @@ function clipToMask(values: RasterValues, mask: Uint8Array): RasterValues {
   return values;
 }
 
+/**
+ * An array that owns its whole buffer, so the buffer can cross to a thread without carrying (or
+ * detaching) anything else: a view into a larger buffer is copied first.
+ */
+function ownBuffer<T extends Float64Array>(array: T): T {
+  return array.byteOffset === 0 && array.byteLength === array.buffer.byteLength ? array : (array.slice() as T);
+}
+
 export interface PoolRunOptions {
   /** Hand the survey buffers to the workers instead of copying them; the caller's arrays become unusable. */
   transferInputs?: boolean;
+}
+
+export interface FiguresRunOptions {
+  onProgress?: ProgressCallback;
+  /**
+   * Ids of the surveys whose arrays the caller is done with: their buffers move to the thread
+   * (no copy) and become unusable here. The others are copied.
+   */
+  transferSurveys?: ReadonlySet<number>;
 }
 
 export class EngineWorkerPool {
@@ -80,33 +143,109 @@ export class EngineWorkerPool {
   private readonly running = new Map<number, PendingJob & { worker: Worker }>();
   private nextId = 1;
   private readonly collected = new Map<Worker, () => void>();
+  private closing = false;
+  /** Threads whose entry module has loaded; one that exits before that is not replaced (it would fail again). */
+  private readonly ready = new Set<Worker>();
+  private startError: Error | null = null;
 
-  constructor(size = 2) {
-    for (let index = 0; index < size; index++) {
-      const worker = startWorker();
-      worker.on("message", (reply: SurfaceReply | { collected: true }) => {
-        if ("collected" in reply) this.collected.get(worker)?.();
-        else this.finish(worker, reply);
-      });
-      worker.on("error", (error) => {
-        for (const [id, task] of this.running) {
-          if (task.worker === worker) {
-            this.running.delete(id);
-            task.reject(error);
-          }
-        }
-      });
-      this.workers.push(worker);
-      this.idle.push(worker);
+  /**
+   * @param size threads to start
+   * @param options.unrefIdle let idle threads not hold the process open (a long-lived pool in the
+   *   server or a script); a thread with a job holds it open until the job ends.
+   */
+  constructor(
+    size = 2,
+    private readonly options: { unrefIdle?: boolean } = {},
+  ) {
+    if (!Number.isInteger(size) || size < 1) throw new Error(`an engine pool needs at least one thread (asked for ${size})`);
+    for (let index = 0; index < size; index++) this.addWorker();
+  }
+
+  get size(): number {
+    return this.workers.length;
+  }
+
+  private addWorker() {
+    const worker = startWorker();
+    worker.on("message", (message: ThreadMessage) => {
+      if ("ready" in message) this.ready.add(worker);
+      else if ("collected" in message) this.collected.get(worker)?.();
+      else if ("progress" in message) this.running.get(message.id)?.onProgress?.(message.progress.stage, message.progress.fraction);
+      else this.finish(worker, message);
+    });
+    let lastError: Error | null = null;
+    worker.on("error", (error) => {
+      lastError = error;
+      this.failJobsOf(worker, error);
+    });
+    // A thread that dies (out of memory, a crash) fails its job and is replaced, so the pool keeps
+    // its size; one that could not even load its entry is not, and once none is left every job fails.
+    worker.on("exit", (code) => {
+      this.failJobsOf(worker, lastError ?? new Error(`an engine thread stopped (exit code ${code})`));
+      this.workers.splice(this.workers.indexOf(worker), 1);
+      const idleAt = this.idle.indexOf(worker);
+      if (idleAt >= 0) this.idle.splice(idleAt, 1);
+      this.collected.get(worker)?.();
+      if (this.closing) return;
+      if (this.ready.delete(worker)) {
+        this.addWorker();
+        this.dispatch();
+      } else if (this.workers.length === 0) {
+        this.startError = new Error(`the engine threads could not start: ${lastError?.message ?? `exit code ${code}`}`);
+        for (const task of this.queue.splice(0)) task.reject(this.startError);
+      }
+    });
+    if (this.options.unrefIdle) worker.unref();
+    this.workers.push(worker);
+    this.idle.push(worker);
+  }
+
+  private failJobsOf(worker: Worker, error: Error) {
+    for (const [id, task] of this.running) {
+      if (task.worker === worker) {
+        this.running.delete(id);
+        task.reject(error);
+      }
     }
+  }
+
+  private submit<T>(job: NewJob, transfer: ArrayBuffer[], onProgress?: ProgressCallback): Promise<T> {
+    if (this.closing) return Promise.reject(new Error("the engine pool is closed"));
+    if (this.startError) return Promise.reject(this.startError);
+    return new Promise((resolve, reject) => {
+      this.queue.push({ job: { ...job, id: this.nextId++ } as EngineJob, transfer, onProgress, resolve: resolve as (reply: unknown) => void, reject });
+      this.dispatch();
+    });
   }
 
   private run(job: Omit<SurfaceJob, "id">, transferInputs: boolean): Promise<SurfaceReply> {
     const transfer = transferInputs ? [...new Set([job.easting, job.northing, ...job.layers].map((array) => array.buffer as ArrayBuffer))] : [];
-    return new Promise((resolve, reject) => {
-      this.queue.push({ job: { ...job, id: this.nextId++ }, transfer, resolve, reject });
-      this.dispatch();
+    return this.submit<SurfaceReply>(job, transfer);
+  }
+
+  /**
+   * `computeProjectFigures` in a thread: the same figures, without blocking this thread. Survey
+   * arrays are copied unless listed in `transferSurveys`.
+   */
+  computeProjectFigures(input: ProjectComputationInput, options: FiguresRunOptions = {}): Promise<ProjectComputation | null> {
+    const { surveys, transfer } = this.prepareSurveys(input.surveys, options.transferSurveys);
+    return this.submit<{ figures: ProjectComputation | null }>({ kind: "figures", input: { ...input, surveys } }, transfer, options.onProgress).then((done) => done.figures);
+  }
+
+  /** `computeLatestSurfaces` in a thread (the map's surfaces); surveys as in `computeProjectFigures`. */
+  computeLatestSurfaces(input: LatestSurfacesInput, options: { transferSurveys?: ReadonlySet<number> } = {}): Promise<ProjectSurfaces | null> {
+    const { surveys, transfer } = this.prepareSurveys(input.surveys, options.transferSurveys);
+    return this.submit<{ surfaces: ProjectSurfaces | null }>({ kind: "surfaces", input: { ...input, surveys } }, transfer).then((done) => done.surfaces);
+  }
+
+  private prepareSurveys(surveys: ComputationSurvey[], transferIds: ReadonlySet<number> = new Set()) {
+    const transfer = new Set<ArrayBuffer>();
+    const prepared = surveys.map((survey) => {
+      const columns = { easting: ownBuffer(survey.easting), northing: ownBuffer(survey.northing), elevation: ownBuffer(survey.elevation), refusalElevation: survey.refusalElevation && ownBuffer(survey.refusalElevation) };
+      if (transferIds.has(survey.id)) for (const array of Object.values(columns)) if (array) transfer.add(array.buffer as ArrayBuffer);
+      return { ...survey, ...columns };
     });
+    return { surveys: prepared, transfer: [...transfer] };
   }
 
   private jobsFor(surveys: EngineSurveys): Array<{ easting: Float64Array; northing: Float64Array; layers: Float64Array[] }> {
@@ -182,6 +321,8 @@ export class EngineWorkerPool {
   }
 
   async close(): Promise<void> {
+    this.closing = true;
+    for (const task of this.queue.splice(0)) task.reject(new Error("the engine pool was closed before the job started"));
     await Promise.all(this.workers.map((worker) => worker.terminate()));
   }
 
@@ -190,18 +331,44 @@ export class EngineWorkerPool {
       const worker = this.idle.pop()!;
       const task = this.queue.shift()!;
       this.running.set(task.job.id, { ...task, worker });
+      if (this.options.unrefIdle) worker.ref();
       worker.postMessage(task.job, task.transfer);
     }
   }
 
-  private finish(worker: Worker, reply: SurfaceReply) {
+  private finish(worker: Worker, reply: Exclude<EngineReply, { progress: unknown }>) {
     const task = this.running.get(reply.id);
     this.running.delete(reply.id);
     this.idle.push(worker);
+    if (this.options.unrefIdle) worker.unref();
     if (task) {
-      if (reply.error !== undefined) task.reject(new Error(reply.error));
-      else task.resolve(reply);
+      if ("error" in reply) task.reject(new Error(reply.error));
+      else task.resolve(reply.done);
     }
     this.dispatch();
   }
+}
+
+let appPool: EngineWorkerPool | null | undefined;
+
+/**
+ * The server's engine pool, started on first use and kept for the life of the process; its idle
+ * threads do not hold the process open, so a graceful shutdown (app/serve.mjs) or the end of a
+ * script needs no call to close it. `threads` comes from ENGINE_THREADS (see env.server.ts); 0
+ * turns the pool off and the caller computes on its own thread, blocking it: meant for
+ * debugging with a profiler, never the default.
+ */
+export function appEnginePool(threads: number): EngineWorkerPool | null {
+  if (appPool === undefined) {
+    appPool = threads > 0 ? new EngineWorkerPool(threads, { unrefIdle: true }) : null;
+    if (appPool === null) process.stderr.write("[firmsand] ENGINE_THREADS=0: engine computations run on the request thread\n");
+  }
+  return appPool;
+}
+
+/** Ends the server's pool (tests, or a shutdown that wants to stop work in progress). */
+export async function closeAppEnginePool(): Promise<void> {
+  const pool = appPool;
+  appPool = undefined;
+  await pool?.close();
 }

@@ -3,12 +3,18 @@ import { runInNewContext } from "node:vm";
 import { parentPort } from "node:worker_threads";
 import { createRasterValues, rasterizeTinInto } from "../../shared/surface/raster";
 import { prepareVertices, triangulateVertices } from "../../shared/surface/triangulate";
-import type { SurfaceJob, SurfaceReply } from "./engine-worker.server";
+import type { EngineJob, EngineReply, SurfaceJob, SurfaceReply } from "./engine-worker.server";
+import { computeProjectFigures } from "./import/project-computation";
+import { computeLatestSurfaces } from "./map/latest-surfaces";
 
 /**
- * Worker-thread side of the engine pool: triangulates one survey (one or more value layers on the
- * same soundings) and either sends the TINs back or, when the raster grid is known, samples them
- * there and sends only the rasters. Buffers are transferred, not copied.
+ * Worker-thread side of the engine pool. Three kinds of job: one survey's triangulation (one or
+ * more value layers on the same soundings), sending back the TINs or, when the raster grid is
+ * known, only the rasters sampled here; a project's whole figures computation; the map's latest
+ * surfaces. Result buffers are transferred, not copied.
+ *
+ * This file is the entry of its own bundle in the production build (vite.config.ts): it imports
+ * only pure modules, and only types from the pool.
  */
 /** Below this many soundings the arrays are small and a full collection would cost more than it saves. */
 const largeJobSoundings = 250_000;
@@ -16,7 +22,43 @@ const largeJobSoundings = 250_000;
 // A full collection, once the pool has asked for one (see `collectGarbage` in the pool); until then null.
 let collect: (() => void) | null = null;
 
-parentPort?.on("message", (message: SurfaceJob | { collectGarbage: true }) => {
+/** The buffers of every typed array reachable in a result (each once), for transferring it. */
+function buffersOf(value: unknown, found = new Set<ArrayBuffer>(), seen = new Set<object>()): ArrayBuffer[] {
+  if (ArrayBuffer.isView(value)) {
+    if (value.buffer instanceof ArrayBuffer) found.add(value.buffer);
+  } else if (value !== null && typeof value === "object" && !seen.has(value)) {
+    seen.add(value);
+    for (const child of Array.isArray(value) ? value : Object.values(value)) buffersOf(child, found, seen);
+  }
+  return [...found];
+}
+
+function reply(message: EngineReply, transfer: ArrayBuffer[] = []) {
+  parentPort?.postMessage(message, transfer);
+}
+
+function surfaceJob(message: SurfaceJob): SurfaceReply {
+  const job: Partial<SurfaceJob> & Pick<SurfaceJob, "id" | "maxEdge"> = message;
+  const prepared = prepareVertices(job.easting!, job.northing!, job.layers!);
+  // The input columns are copied into `prepared`; drop them (and collect, when allowed) before
+  // Delaunator allocates its own arrays, so a million-sounding job does not hold both.
+  job.easting = job.northing = job.layers = undefined;
+  if (prepared.xy.length >= 2 * largeJobSoundings) collect?.();
+  const tins = triangulateVertices(prepared, { maxEdge: job.maxEdge });
+  if (message.raster) {
+    const { grid, precision } = message.raster;
+    const rasters = tins.map((tin) => {
+      const values = createRasterValues(grid, precision);
+      rasterizeTinInto(tin, grid, values, null);
+      return values;
+    });
+    const { duplicatesMerged, longTrianglesDropped, invalidSkipped } = tins[0];
+    return { id: job.id, rasters, summary: { duplicatesMerged, longTrianglesDropped, invalidSkipped } };
+  }
+  return { id: job.id, tins };
+}
+
+parentPort?.on("message", (message: EngineJob | { collectGarbage: true }) => {
   if ("collectGarbage" in message) {
     if (collect === null) {
       setFlagsFromString("--expose-gc");
@@ -26,34 +68,25 @@ parentPort?.on("message", (message: SurfaceJob | { collectGarbage: true }) => {
     parentPort?.postMessage({ collected: true });
     return;
   }
-  const job: Partial<SurfaceJob> & Pick<SurfaceJob, "id" | "maxEdge"> = message;
+  const { id } = message;
   try {
-    const prepared = prepareVertices(job.easting!, job.northing!, job.layers!);
-    // The input columns are copied into `prepared`; drop them (and collect, when allowed) before
-    // Delaunator allocates its own arrays, so a million-sounding job does not hold both.
-    job.easting = job.northing = job.layers = undefined;
-    if (prepared.xy.length >= 2 * largeJobSoundings) collect?.();
-    const tins = triangulateVertices(prepared, { maxEdge: job.maxEdge });
-    const buffers = new Set<ArrayBuffer>();
-    let reply: SurfaceReply;
-    if (message.raster) {
-      const { grid, precision } = message.raster;
-      const rasters = tins.map((tin) => {
-        const values = createRasterValues(grid, precision);
-        rasterizeTinInto(tin, grid, values, null);
-        buffers.add(values.buffer as ArrayBuffer);
-        return values;
-      });
-      const { duplicatesMerged, longTrianglesDropped, invalidSkipped } = tins[0];
-      reply = { id: job.id, rasters, summary: { duplicatesMerged, longTrianglesDropped, invalidSkipped } };
+    let done: Extract<EngineReply, { done: unknown }>["done"];
+    if (message.kind === "figures") {
+      done = { figures: computeProjectFigures(message.input, (stage, fraction) => reply({ id, progress: { stage, fraction } })) };
+    } else if (message.kind === "surfaces") {
+      done = { surfaces: computeLatestSurfaces(message.input) };
     } else {
-      for (const tin of tins) for (const array of [tin.xy, tin.z, tin.triangles, tin.hull]) buffers.add(array.buffer as ArrayBuffer);
-      reply = { id: job.id, tins };
+      const large = message.easting.length >= largeJobSoundings;
+      done = surfaceJob(message);
+      reply({ id, done }, buffersOf(done));
+      // The TIN and Delaunator's arrays are garbage now; free them while the main thread carries on.
+      if (large) collect?.();
+      return;
     }
-    parentPort?.postMessage(reply, [...buffers]);
-    // The TIN and Delaunator's arrays are garbage now; free them while the main thread carries on.
-    if (prepared.xy.length >= 2 * largeJobSoundings) collect?.();
+    reply({ id, done }, buffersOf(done));
   } catch (error) {
-    parentPort?.postMessage({ id: job.id, error: (error as Error).message } satisfies SurfaceReply);
+    reply({ id, error: (error as Error).message });
   }
 });
+
+parentPort?.postMessage({ ready: true });
