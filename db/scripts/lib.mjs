@@ -153,9 +153,43 @@ export function bin(name) {
   return join(ROOT, "node_modules", ".bin", name);
 }
 
-/** Builds the production app (client and server bundles) into build/. */
+// Run against the built engine worker: a 10 ft square of muck 2 ft thick on firm sand must plan
+// 200 ft³ = 200 / 27 yd³ (27 ft³ per yd³, NIST SP 811). Proves the bundle loads and computes.
+const WORKER_CHECK = `
+import { Worker } from "node:worker_threads";
+const fail = (message) => { process.stderr.write("[firmsand] built engine worker: " + message + "\\n"); process.exit(1); };
+const worker = new Worker(process.argv[1], { execArgv: [] });
+const timer = setTimeout(() => fail("no answer within 30 s"), 30000);
+worker.on("error", (error) => fail(error.message));
+const easting = [], northing = [];
+for (let x = -1; x <= 11; x++) for (let y = -1; y <= 11; y++) { easting.push(x); northing.push(y); }
+const count = easting.length;
+const baseline = { id: 1, kind: "baseline", surveyedOn: "2026-01-01", easting: Float64Array.from(easting), northing: Float64Array.from(northing),
+  elevation: new Float64Array(count).fill(10), refusalElevation: new Float64Array(count).fill(8) };
+const settings = { cellSize: 5, resolution: 1, maxEdge: 5, originX: 0, originY: 0, rotationDegrees: 0, tolerance: 0.25, firmShare: 0.95, minCoverage: 0.8, surveyNoise: 0.25 };
+const input = { surveys: [baseline], workLimit: [[[[0, 0], [10, 0], [10, 10], [0, 10], [0, 0]]]], zones: [], settings, lengthUnit: "ft" };
+worker.on("message", (message) => {
+  if (message.ready) return worker.postMessage({ kind: "figures", id: 1, input });
+  if (message.progress) return;
+  if (message.error) fail(message.error);
+  const planned = message.done?.figures?.totals?.plannedVolume;
+  if (!(Math.abs(planned - 200 / 27) < 1e-9)) fail("planned " + planned + " yd³, expected " + 200 / 27);
+  clearTimeout(timer);
+  worker.terminate();
+});
+`;
+
+/**
+ * Builds the production app (client and server bundles, and the engine worker beside the server
+ * bundle: see engineWorkerBuild in vite.config.ts) into build/, then runs the built worker once.
+ */
 export function buildApp(env = process.env) {
   run(bin("react-router"), ["build"], { env });
+  const worker = join(ROOT, "build", "server", "engine-worker.thread.mjs");
+  if (!existsSync(worker)) throw new Error(`the build has no engine worker at ${worker} (emitted by engineWorkerBuild in vite.config.ts)`);
+  const check = spawnSync(process.execPath, ["--input-type=module", "-e", WORKER_CHECK, worker], { stdio: "inherit", cwd: ROOT, env });
+  if (check.status !== 0) throw new Error(`the built engine worker (${worker}) failed its check`);
+  log("built engine worker checked");
 }
 
 /**
