@@ -41,6 +41,8 @@ const envSchema = z.object({
   APP_ORIGIN: z.url().optional(),
   /** Trust X-Forwarded-For for the client address (only behind a proxy you run). */
   TRUST_PROXY: flag,
+  /** Engine worker threads for imports and the map (0: compute on the request thread, for debugging only). */
+  ENGINE_THREADS: z.string().regex(/^\d+$/, "ENGINE_THREADS must be a whole number (0–4)").default("1").transform(Number).pipe(z.number().int().max(4)),
   /** Set by app/serve.mjs for itself: its x-firmsand-client-address header carries the socket address. */
   FIRMSAND_CLIENT_ADDRESS_HEADER: flag,
 });

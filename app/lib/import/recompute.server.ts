@@ -1,13 +1,16 @@
 import { QueryTypes, type Transaction } from "sequelize";
 import type { ProgressCallback } from "../../../shared/pipeline";
 import { CellResult, Survey, SurveySnapshot, getSequelize } from "../db.server";
-import { computeProjectFigures, type ComputationSurvey, type ProjectComputation } from "./project-computation";
+import { appEnginePool, type EngineWorkerPool } from "../engine-worker.server";
+import { getEnv } from "../env.server";
+import { computeProjectFigures, type ComputationSurvey, type ProjectComputation, type ProjectComputationInput } from "./project-computation";
 import { loadProjectGeometry } from "./project-geometry.server";
 
 /**
  * Rewrites a project's statistics from its active surveys, inside the caller's transaction:
  * every CellResult and SurveySnapshot of the project is replaced. `extra` carries soundings not
- * yet readable from the database (the survey being committed, still in memory).
+ * yet readable from the database (the survey being committed, still in memory). The computation
+ * runs in the server's engine pool so other requests are served meanwhile.
  */
 export interface RecomputeOutcome {
   computation: ProjectComputation | null;
@@ -45,10 +48,29 @@ function toBlob(values: Float32Array | Uint8Array): Buffer {
   return Buffer.from(values.buffer, values.byteOffset, values.byteLength);
 }
 
+/** The server's engine pool, or null when ENGINE_THREADS=0 turns it off. */
+export function serverEnginePool(): EngineWorkerPool | null {
+  return appEnginePool(getEnv().ENGINE_THREADS);
+}
+
+/**
+ * The figures in `pool`'s thread (the surveys read from the database are handed over, not copied;
+ * the caller's `extra` is copied), or on this thread when `pool` is null.
+ */
+export function computeFigures(input: ProjectComputationInput, pool: EngineWorkerPool | null, options: { onProgress?: ProgressCallback; transferSurveys?: ReadonlySet<number> } = {}) {
+  if (pool === null) return Promise.resolve(computeProjectFigures(input, options.onProgress));
+  return pool.computeProjectFigures(input, options);
+}
+
 export async function recomputeProjectStatistics(
   projectId: number,
   transaction: Transaction,
-  options: { extra?: ComputationSurvey; onProgress?: ProgressCallback } = {},
+  options: {
+    extra?: ComputationSurvey;
+    onProgress?: ProgressCallback;
+    /** Where to compute: the server's pool by default; null computes on this thread (see ENGINE_THREADS). */
+    pool?: EngineWorkerPool | null;
+  } = {},
 ): Promise<RecomputeOutcome> {
   const geometry = await loadProjectGeometry(projectId, transaction);
   const active = await Survey.findAll({ where: { projectId, status: "active" }, order: [["surveyedOn", "ASC"], ["id", "ASC"]], transaction });
@@ -64,9 +86,10 @@ export async function recomputeProjectStatistics(
   if (!surveys.some((survey) => survey.kind === "baseline")) return { computation: null, reason: "There is no active baseline survey yet, so there are no cell statistics." };
   if (!geometry.workLimit) return { computation: null, reason: "The project has no work limit yet, so there are no cell statistics." };
 
-  const computation = computeProjectFigures(
+  const computation = await computeFigures(
     { surveys, workLimit: geometry.workLimit, zones: geometry.zones, settings: geometry.settings, lengthUnit: geometry.lengthUnit },
-    options.onProgress,
+    options.pool === undefined ? serverEnginePool() : options.pool,
+    { onProgress: options.onProgress, transferSurveys: new Set(fromDatabase) },
   );
   if (!computation) return { computation: null, reason: "There is no active baseline survey yet." };
 
