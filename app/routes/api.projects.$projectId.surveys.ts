@@ -44,6 +44,9 @@ export async function action({ request, params }: Route.ActionArgs) {
       if (preview.sameFile.length > 0 && !choices.acceptSameFile) {
         errors.push({ row: null, column: "file", value: file.sha256, message: `the same file was imported before as survey ${preview.sameFile.map((survey) => `#${survey.surveyId}`).join(", ")}; send acceptSameFile=true to import it again` });
       }
+      if (preview.depthUnit && !choices.acceptDepthUnit) {
+        errors.push({ row: null, column: "depth", value: "", message: `${preview.depthUnit.message} Send acceptDepthUnit=true to import the values as declared.` });
+      }
       return Response.json({ errors, blockers: preview.blockers, problemCount: preview.problemCount, warnings: preview.warnings }, { status: 422 });
     }
     const { committed } = outcome;

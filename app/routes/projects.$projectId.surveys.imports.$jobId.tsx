@@ -24,6 +24,8 @@ const FIELD_LABELS: Record<(typeof soundingFields)[number], string> = {
   id: "Point id",
 };
 
+const UNIT_WORDS = { "us-ft": "US survey feet", ft: "feet", m: "metres" } as const;
+
 async function loadJob(request: Request, params: Route.LoaderArgs["params"]) {
   const { project, user, role } = await requireRole(request, params.projectId, "surveyor", "manager");
   const jobId = z.coerce.number().int().positive().safeParse(params.jobId);
@@ -230,6 +232,17 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
               <label className="flex items-center gap-2"><input type="radio" name="outside" value="drop" defaultChecked={choices.outside === "drop"} /> Drop them</label>
             </div>
           </fieldset>
+        ) : null}
+
+        {preview.depthUnit ? (
+          <div className="rounded border border-caution bg-panel p-4 text-sm" data-testid="depth-unit">
+            <h3 className="font-medium">Depth unit: check before importing</h3>
+            <p className="mt-1">{preview.depthUnit.message}</p>
+            <label className="mt-2 flex items-center gap-2">
+              <input type="checkbox" name="acceptDepthUnit" value="1" defaultChecked={choices.acceptDepthUnit} />
+              The {options.fileHasElevations ? "elevations" : "depths"} are right as given; import them as {UNIT_WORDS[options.lengthUnit]}.
+            </label>
+          </div>
         ) : null}
 
         {preview.sameFile.length > 0 ? (

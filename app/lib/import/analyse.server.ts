@@ -10,6 +10,8 @@ import { ColumnMapping, Survey } from "../db.server";
 import { resolveCrsDefinition } from "../epsg.server";
 import { guessColumns, type ColumnMappingChoice } from "./column-guess";
 import { findCoordinateMistake } from "./coordinate-mistakes";
+import { binMedians, findDepthUnitMistake, type DepthUnitMistake } from "./depth-unit-mistakes";
+import { previousBottomBins } from "./previous-bottom.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
 import type { ProjectGeometry } from "./project-geometry.server";
 import { checkRows, ruleOf } from "./row-checks";
@@ -52,6 +54,8 @@ export interface ImportPreview {
   duplicates: number;
   sameFile: Array<{ surveyId: number; surveyedOn: string; kind: string; status: string }>;
   qa: SurveyQa | null;
+  /** The depths look like another unit than declared, against the project's earlier surveys; the technician must confirm or fix. */
+  depthUnit: Pick<DepthUnitMistake, "kind" | "factor" | "typicalRatio" | "cellsCompared" | "message"> | null;
   /** What stops the commit right now, in plain words; empty when it may go ahead. */
   blockers: string[];
   plot: SoundingPlot | null;
@@ -243,6 +247,8 @@ export async function analyseStagedFile(input: AnalyseInput): Promise<Analysis> 
   }
   const outsideSet = new Set<number>(outsideIndices);
 
+  const depthUnit = fileProblems.length === 0 && count > 0 ? await checkDepthUnit(geometry, options, easting, northing, depth, elevation, fileElevation !== null) : null;
+
   const sameFile = await Survey.findAll({
     where: { projectId: geometry.projectId, contentSha256: input.sha256, id: { [Op.gt]: 0 } },
     order: [["id", "ASC"]],
@@ -269,10 +275,12 @@ export async function analyseStagedFile(input: AnalyseInput): Promise<Analysis> 
   if (unexcludedProblemRows.length > 0) blockers.push(`${unexcludedProblemRows.length} row${unexcludedProblemRows.length === 1 ? " has" : "s have"} problems: fix the file, or leave those rows out.`);
   if (outsideIndices.length > 0 && choices.outside === undefined) blockers.push(`${outsideIndices.length} sounding${outsideIndices.length === 1 ? " lies" : "s lie"} outside the work limit: choose to keep or drop them.`);
   if (sameFile.length > 0 && !choices.acceptSameFile) blockers.push(`This same file was imported before (survey ${sameFile.map((survey) => `#${survey.id}`).join(", ")}): confirm that it should be imported again.`);
+  if (depthUnit && !choices.acceptDepthUnit) blockers.push("The depths may be in another unit than declared (see the note on depth units): fix the unit and check again, or confirm that they are right.");
   if (stored === 0 && fileProblems.length === 0) blockers.push("No soundings would be stored.");
 
   if (outsideIndices.length > 0) warnings.push(`${outsideIndices.length} sounding${outsideIndices.length === 1 ? " lies" : "s lie"} outside the work limit${choices.outside ? ` and will be ${choices.outside === "keep" ? "kept" : "dropped"}` : ""}.`);
   if (sameFile.length > 0) warnings.push(`The same file (identical content) was imported before as survey ${sameFile.map((survey) => `#${survey.id} (${survey.kind}, ${survey.surveyedOn}, ${survey.status})`).join(", ")}.`);
+  if (depthUnit) warnings.push(depthUnit.message);
   if (lengthFactor !== 1) warnings.push(`Depths are converted from ${UNIT_WORDS[options.lengthUnit]} to the project's ${UNIT_WORDS[geometry.lengthUnit]}.`);
 
   // When every sounding is kept (the usual case) the columns are used as they are: a copy of a
@@ -334,10 +342,30 @@ export async function analyseStagedFile(input: AnalyseInput): Promise<Analysis> 
     duplicates: rowChecks.duplicateRows,
     sameFile: sameFile.map((survey) => ({ surveyId: survey.id, surveyedOn: survey.surveyedOn, kind: survey.kind, status: survey.status })),
     qa,
+    depthUnit: depthUnit ? { kind: depthUnit.kind, factor: depthUnit.factor, typicalRatio: depthUnit.typicalRatio, cellsCompared: depthUnit.cellsCompared, message: depthUnit.message } : null,
     blockers,
     plot: fileProblems.length === 0 ? soundingPlot(geometry, easting, northing) : null,
   };
   return { preview, prepared: fileProblems.length === 0 ? prepared : null };
+}
+
+/**
+ * Depths (or the file's bottom elevations) against the project's earlier surveys over the same
+ * ground, binned by the project's cell size: a unit mistake scales every bin alike.
+ */
+async function checkDepthUnit(
+  geometry: ProjectGeometry, options: ImportOptions, easting: Float64Array, northing: Float64Array, depth: Float64Array, elevation: Float64Array, fileHasElevations: boolean,
+): Promise<DepthUnitMistake | null> {
+  const wse = options.waterSurfaceElevation;
+  if (!fileHasElevations && wse === null) return null;
+  const size = geometry.settings.cellSize;
+  const origin = { x: geometry.settings.originX ?? 0, y: geometry.settings.originY ?? 0 };
+  const previous = await previousBottomBins(geometry.projectId, size, origin);
+  if (previous.size === 0) return null;
+  const measure = fileHasElevations ? "elevation" : "depth";
+  const given = binMedians(easting, northing, fileHasElevations ? elevation : depth, size, origin);
+  const expected = fileHasElevations ? previous : new Map([...previous].map(([key, bottom]) => [key, (wse as number) - bottom]));
+  return findDepthUnitMistake({ measure, given, expected, declaredUnit: options.lengthUnit, projectUnit: geometry.lengthUnit });
 }
 
 export function soundingPlot(geometry: ProjectGeometry, easting: Float64Array, northing: Float64Array): SoundingPlot {

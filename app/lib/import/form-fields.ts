@@ -69,6 +69,7 @@ export function commitChoicesFromFields(fields: Record<string, string>, excludeR
     excludeErrorRows: flag(fields.excludeErrorRows),
     outside: optionalText(fields.outside),
     acceptSameFile: flag(fields.acceptSameFile),
+    acceptDepthUnit: flag(fields.acceptDepthUnit),
   });
   if (!parsed.success) issuesToProblems(parsed.error, problems);
   return { choices: parsed.success && problems.length === 0 ? parsed.data : null, problems };

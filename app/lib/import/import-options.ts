@@ -48,5 +48,7 @@ export const commitChoicesSchema = z.object({
   outside: z.enum(["keep", "drop"]).optional(),
   /** Import even though the same file (same content hash) was imported before. */
   acceptSameFile: z.boolean().default(false),
+  /** Import even though the depths look like they are in another unit than declared (checked against earlier surveys). */
+  acceptDepthUnit: z.boolean().optional(),
 });
 export type CommitChoices = z.infer<typeof commitChoicesSchema>;

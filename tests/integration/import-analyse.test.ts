@@ -1,0 +1,95 @@
+import { mkdtempSync, readFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeSequelize } from "../../db/connection.server";
+import { PROJECT, SURVEYS } from "../../sample-data/scenario";
+import { analyseStagedFile } from "~/lib/import/analyse.server";
+import { commitChoicesSchema, importOptionsSchema, type ImportOptions } from "~/lib/import/import-options";
+import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { writeStagedFile } from "~/lib/import/stage-upload.server";
+import { DEMO_DIR, FIXTURES, counts, makeDemoSiteProject, postSurvey } from "./import-helpers";
+
+// The analysis of a staged file against a real project in MariaDB: the depth-unit check against
+// the project's earlier surveys. Staged files go to a temporary directory.
+process.env.UPLOAD_DIR = mkdtempSync(join(tmpdir(), "firmsand-analyse-test-"));
+
+afterAll(closeSequelize);
+
+const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
+const progress1 = SURVEYS.find((survey) => survey.key === "progress-1")!;
+
+function optionsFor(survey: (typeof SURVEYS)[number], extra: Partial<ImportOptions> = {}): ImportOptions {
+  return importOptionsSchema.parse({
+    kind: survey.kind,
+    surveyedOn: survey.surveyedOn,
+    timeZone: PROJECT.timeZone,
+    waterSurfaceElevation: survey.waterSurfaceElevationFt,
+    fileHasElevations: false,
+    datum: PROJECT.verticalDatum,
+    crs: PROJECT.crs,
+    lengthUnit: PROJECT.lengthUnit,
+    ...extra,
+  });
+}
+
+async function analyse(projectId: number, path: string, options: ImportOptions, choices = {}) {
+  const staged = await writeStagedFile(new Blob([readFileSync(path)]).stream(), path.split("/").pop()!);
+  return analyseStagedFile({ path: staged.path, sha256: staged.sha256, options, choices: commitChoicesSchema.parse(choices), geometry: await loadProjectGeometry(projectId) });
+}
+
+describe("depth-unit check against the project's earlier surveys", () => {
+  let site: Awaited<ReturnType<typeof makeDemoSiteProject>>;
+  const metresFile = join(FIXTURES, "progress-depths-in-metres.csv");
+
+  beforeAll(async () => {
+    site = await makeDemoSiteProject("depth-unit");
+  });
+
+  it("has nothing to compare before the first survey", async () => {
+    const { preview } = await analyse(site.project.id, metresFile, optionsFor(progress1));
+    expect(preview.depthUnit).toBeNull();
+  });
+
+  it("says nothing about a good progress pass after the baseline", async () => {
+    const stored = await postSurvey(site.project.id, site.tokens.surveyor, { path: join(DEMO_DIR, baseline.fileName) }, {
+      kind: baseline.kind, surveyedOn: baseline.surveyedOn, waterSurfaceElevation: String(baseline.waterSurfaceElevationFt), timeZone: PROJECT.timeZone, datum: PROJECT.verticalDatum,
+    });
+    expect(stored.status).toBe(201);
+    const { preview } = await analyse(site.project.id, join(DEMO_DIR, progress1.fileName), optionsFor(progress1), { outside: "keep" });
+    expect(preview.depthUnit).toBeNull();
+    expect(preview.blockers).toEqual([]);
+  });
+
+  it("finds depths in metres declared as feet, blocks until confirmed, and is quiet once the unit is metres", async () => {
+    const { preview } = await analyse(site.project.id, metresFile, optionsFor(progress1), { outside: "keep" });
+    expect(preview.depthUnit?.kind).toBe("metres-as-feet");
+    expect(preview.depthUnit!.cellsCompared).toBeGreaterThanOrEqual(20);
+    // The fixture's depths are the demo's × 0.3048, and a dredge pass deepens them somewhat: about 1/3.28 or a bit more.
+    expect(preview.depthUnit!.typicalRatio).toBeGreaterThan(0.25);
+    expect(preview.depthUnit!.typicalRatio).toBeLessThan(0.45);
+    expect(preview.depthUnit!.message).toMatch(/depths look like metres, not US survey feet as declared/);
+    expect(preview.warnings).toContain(preview.depthUnit!.message);
+    expect(preview.blockers.join(" ")).toMatch(/another unit than declared/);
+
+    const confirmed = await analyse(site.project.id, metresFile, optionsFor(progress1), { outside: "keep", acceptDepthUnit: true });
+    expect(confirmed.preview.depthUnit?.kind).toBe("metres-as-feet");
+    expect(confirmed.preview.blockers).toEqual([]);
+
+    const asMetres = await analyse(site.project.id, metresFile, optionsFor(progress1, { lengthUnit: "m" }), { outside: "keep" });
+    expect(asMetres.preview.depthUnit).toBeNull();
+    expect(asMetres.preview.blockers).toEqual([]);
+  });
+
+  it("the API answers 422 with the depth-unit note and stores nothing until acceptDepthUnit=true", async () => {
+    const fields = { kind: progress1.kind, surveyedOn: progress1.surveyedOn, waterSurfaceElevation: String(progress1.waterSurfaceElevationFt), timeZone: PROJECT.timeZone, datum: PROJECT.verticalDatum };
+    const before = await counts(site.project.id);
+    const refused = await postSurvey(site.project.id, site.tokens.surveyor, { path: metresFile }, fields);
+    expect(refused.status).toBe(422);
+    expect(await counts(site.project.id)).toEqual(before);
+    const body = (await refused.json()) as { errors: Array<{ column: string; message: string }> };
+    expect(body.errors.find((error) => error.column === "depth")?.message).toMatch(/look like metres.*acceptDepthUnit=true/);
+    const accepted = await postSurvey(site.project.id, site.tokens.surveyor, { path: metresFile }, { ...fields, acceptDepthUnit: "true" });
+    expect(accepted.status).toBe(201);
+  });
+});
