@@ -1,0 +1,344 @@
+/**
+ * Coverage map benchmark: in headless Chromium, the time from navigation to the cells drawn on the
+ * map of a synthetic 100,000-cell bay, and the bytes sent for it over the network (compressed, as
+ * on the wire). Goal on this machine kind: under 3 s and under 2 MB.
+ *
+ * It needs the app running on a migrated database (the DB_* environment, as for the app) and
+ * seeds what it measures into that database through the app's models and the real sounding
+ * import (a manager, the bay project with its work limit and two zones, a baseline and a
+ * progress survey). `npm run bench` does all of it; by hand:
+ *   BENCH_BASE_URL=http://127.0.0.1:3210 CHROMIUM_PATH=/usr/bin/chromium \
+ *   DB_PORT=3308 DB_NAME=firmsand_bench DB_PASSWORD=… npx tsx tests/bench/map.ts [--soundings N] [--keep]
+ * What it seeds is removed at the end unless --keep is given (then a second run reuses it).
+ *
+ * "Drawn" is the map element's data-cells-drawn attribute (set once MapLibre is idle after the
+ * cells' setData); the time is read in the page (performance.now(), whose origin is the start of
+ * the navigation), and the bench checks that the cells layer really has rendered features then.
+ * Bytes are Chromium's own count (DevTools protocol, Network.loadingFinished encodedDataLength:
+ * headers plus the body as received) for every request of a cold load in a fresh browser context.
+ */
+import { closeSync, createReadStream, mkdtempSync, openSync, rmSync, statSync, writeSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { Readable } from "node:stream";
+import { chromium, type Browser, type BrowserContext, type CDPSession, type Page } from "@playwright/test";
+import { createCrs } from "../../shared/crs";
+import type { SurveyPoints } from "../../shared/pipeline";
+import { resolveCrsDefinition } from "../../app/lib/epsg.server";
+import { Membership, Project, Survey, User, Zone } from "../../app/lib/db.server";
+import { hashPassword } from "../../app/lib/password.server";
+import { importSurveyFile } from "../../app/lib/import/import-service.server";
+import { writeStagedFile } from "../../app/lib/import/stage-upload.server";
+import { closeSequelize } from "../../db/connection.server";
+import { ellipseLimit, syntheticSurveys, type Basin } from "./synthetic";
+
+const GOAL_SECONDS = 3;
+const GOAL_BYTES = 2_000_000;
+
+const argument = (name: string) => {
+  const at = process.argv.indexOf(name);
+  return at > 0 ? process.argv[at + 1] : undefined;
+};
+const soundings = Number(argument("--soundings") ?? 150_000);
+const keep = process.argv.includes("--keep");
+const baseUrl = process.env.BENCH_BASE_URL;
+if (!baseUrl) throw new Error("BENCH_BASE_URL is not set (the running app, e.g. http://127.0.0.1:3210)");
+const base = new URL(baseUrl);
+if (base.hostname !== "127.0.0.1") throw new Error(`BENCH_BASE_URL must be on 127.0.0.1, not ${base.hostname}`);
+const chromiumPath = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
+
+// The bay of tests/bench/cells-payload.ts: 5 m cells over an ellipse of 1,020 m × 788 m in
+// EPSG:32617 hold just over 100,000 cells (invented site).
+const bay: Basin = { name: "100,000-cell bay", centreX: 420_000, centreY: 3_150_000, radiusX: 1020, radiusY: 788, waterDepth: 3, muckThickness: 1 };
+const CRS = "EPSG:32617";
+const SLUG = "bench-map-bay";
+const EMAIL = "bench-map-manager@example.org";
+const PASSWORD = "bench-map-password-not-secret";
+
+const crs = createCrs(resolveCrsDefinition(CRS).definition);
+const lonLatRing = (ring: Array<[number, number]>) => ring.map(([x, y]) => crs.toLonLat(x, y));
+
+/** Soundings as the CSV a surveyor uploads: depths below a water surface at elevation 0. */
+function writeSurveyCsv(path: string, points: SurveyPoints, firm: SurveyPoints | null) {
+  const descriptor = openSync(path, "w");
+  let parts: string[] = [firm ? "point_id,easting,northing,depth,probe" : "point_id,easting,northing,depth"];
+  for (let index = 0; index < points.easting.length; index++) {
+    const head = `P${index + 1},${points.easting[index].toFixed(2)},${points.northing[index].toFixed(2)},${(-points.elevation[index]).toFixed(2)}`;
+    parts.push(firm ? `${head},${(-firm.elevation[index]).toFixed(2)}` : head);
+    if (parts.length >= 10_000) {
+      writeSync(descriptor, `${parts.join("\n")}\n`);
+      parts = [];
+    }
+  }
+  if (parts.length > 0) writeSync(descriptor, `${parts.join("\n")}\n`);
+  closeSync(descriptor);
+}
+
+async function seed(): Promise<{ projectId: number; userId: number; seconds: number; reused: boolean }> {
+  const started = performance.now();
+  const existing = await Project.findOne({ where: { slug: SLUG } });
+  const existingUser = await User.findOne({ where: { email: EMAIL } });
+  if (existing && existingUser && (await Survey.count({ where: { projectId: existing.id } })) === 2) {
+    return { projectId: existing.id, userId: existingUser.id, seconds: (performance.now() - started) / 1000, reused: true };
+  }
+  if (existing || existingUser) await cleanUp(existing?.id ?? null, existingUser?.id ?? null);
+  const user = await User.create({ email: EMAIL, name: "Map benchmark manager", passwordHash: await hashPassword(PASSWORD), isSiteAdmin: false });
+  const limit = ellipseLimit(bay)[0][0];
+  const project = await Project.create({
+    name: "Map benchmark bay (synthetic)",
+    slug: SLUG,
+    crs: CRS,
+    lengthUnit: "m",
+    gridOriginE: bay.centreX - 2000,
+    gridOriginN: bay.centreY - 2000,
+    cellSize: 5,
+    rasterResolution: 1,
+    maxEdge: 15,
+    tolerance: 0.08,
+    firmShare: 0.95,
+    minCoverage: 0.8,
+    workLimitGeoJson: JSON.stringify({ type: "Polygon", coordinates: [lonLatRing(limit)] }),
+  });
+  await Membership.create({ userId: user.id, projectId: project.id, role: "manager" });
+  // Two zones: the bay's north and south halves (a little past the limit, as drawn by hand).
+  const half = (north: boolean): Array<[number, number]> => {
+    const edge = north ? bay.centreY + 1.1 * bay.radiusY : bay.centreY - 1.1 * bay.radiusY;
+    const west = bay.centreX - 1.1 * bay.radiusX, east = bay.centreX + 1.1 * bay.radiusX;
+    return [[west, bay.centreY], [east, bay.centreY], [east, edge], [west, edge], [west, bay.centreY]];
+  };
+  await Zone.create({ projectId: project.id, name: "North reach", sortOrder: 1, polygonGeoJson: JSON.stringify({ type: "Polygon", coordinates: [lonLatRing(half(true))] }) });
+  await Zone.create({ projectId: project.id, name: "South reach", sortOrder: 2, polygonGeoJson: JSON.stringify({ type: "Polygon", coordinates: [lonLatRing(half(false))] }) });
+
+  const directory = mkdtempSync(join(tmpdir(), "firmsand-bench-map-"));
+  process.env.UPLOAD_DIR = directory;
+  try {
+    const surveys = syntheticSurveys(bay, soundings, 20261202);
+    const files = [
+      { kind: "baseline" as const, surveyedOn: "2026-10-01", name: "bay-baseline.csv", points: surveys.before, firm: surveys.firm },
+      { kind: "progress" as const, surveyedOn: "2026-11-15", name: "bay-progress.csv", points: surveys.after, firm: null },
+    ];
+    for (const file of files) {
+      const path = join(directory, file.name);
+      writeSurveyCsv(path, file.points, file.firm);
+      const importStarted = performance.now();
+      const staged = await writeStagedFile(Readable.toWeb(createReadStream(path)) as ReadableStream<Uint8Array>, file.name);
+      const outcome = await importSurveyFile({
+        projectId: project.id,
+        userId: user.id,
+        staged,
+        options: { kind: file.kind, surveyedOn: file.surveyedOn, timeZone: "UTC", waterSurfaceElevation: 0, fileHasElevations: false, datum: "NAVD88", crs: CRS, lengthUnit: "m", surveyOrder: "1a" },
+        choices: { excludeRows: [], excludeErrorRows: false, outside: "keep", acceptSameFile: true },
+      });
+      if (!outcome.ok) throw new Error(`the ${file.kind} survey was refused: ${outcome.preview.blockers.join(" ")} ${outcome.preview.fileProblems.join(" ")}`);
+      console.log(`  seeded ${file.kind} survey: ${outcome.committed.soundingCount.toLocaleString("en-US")} soundings (${(statSync(path).size / 1e6).toFixed(1)} MB) in ${((performance.now() - importStarted) / 1000).toFixed(1)} s`);
+    }
+  } finally {
+    rmSync(directory, { recursive: true, force: true });
+  }
+  return { projectId: project.id, userId: user.id, seconds: (performance.now() - started) / 1000, reused: false };
+}
+
+async function cleanUp(projectId: number | null, userId: number | null) {
+  if (projectId !== null) {
+    await Survey.destroy({ where: { projectId } });
+    await Zone.destroy({ where: { projectId } });
+    await Membership.destroy({ where: { projectId } });
+    await Project.destroy({ where: { id: projectId } });
+  }
+  if (userId !== null) {
+    await Membership.destroy({ where: { userId } });
+    await User.destroy({ where: { id: userId } });
+  }
+}
+
+/** Every request must stay on this machine: anything else fails the bench. */
+const outside: string[] = [];
+function isLocal(url: string): boolean {
+  const { protocol, hostname } = new URL(url);
+  if (protocol === "data:" || protocol === "blob:" || protocol === "about:") return true;
+  return hostname === "127.0.0.1";
+}
+
+async function signedInContext(browser: Browser): Promise<BrowserContext> {
+  const context = await browser.newContext({ baseURL: base.origin, viewport: { width: 1280, height: 900 } });
+  // Watched, not intercepted: Playwright's request interception turns the HTTP cache off, and the
+  // warm load is about the cache. Other hosts do not resolve (the launch's host rules) and fail the bench.
+  context.on("request", (request) => {
+    if (!isLocal(request.url())) outside.push(request.url());
+  });
+  // Signed in with the login form's POST through the context's own cookie jar, so the browser's
+  // cache is still empty when the map is opened.
+  const response = await context.request.post("/login", { form: { email: EMAIL, password: PASSWORD, next: "" }, headers: { Origin: base.origin }, maxRedirects: 0 });
+  if (response.status() !== 302) throw new Error(`sign-in answered ${response.status()}, not a redirect`);
+  return context;
+}
+
+interface RequestFigures {
+  url: string;
+  status: number;
+  encoded: number;
+  decoded: number;
+  fromCache: boolean;
+  done: boolean;
+}
+
+/** Records every network request of the page through the DevTools protocol. */
+async function recordNetwork(page: Page): Promise<{ requests: Map<string, RequestFigures>; session: CDPSession }> {
+  const session = await page.context().newCDPSession(page);
+  const requests = new Map<string, RequestFigures>();
+  session.on("Network.requestWillBeSent", (event) => {
+    if (!isLocal(event.request.url)) outside.push(event.request.url);
+    requests.set(event.requestId, { url: event.request.url, status: 0, encoded: 0, decoded: 0, fromCache: false, done: false });
+  });
+  session.on("Network.responseReceived", (event) => {
+    const request = requests.get(event.requestId);
+    if (request) {
+      request.status = event.response.status;
+      request.fromCache = Boolean(event.response.fromDiskCache || event.response.fromPrefetchCache);
+    }
+  });
+  session.on("Network.requestServedFromCache", (event) => {
+    const request = requests.get(event.requestId);
+    if (request) request.fromCache = true;
+  });
+  session.on("Network.dataReceived", (event) => {
+    const request = requests.get(event.requestId);
+    if (request) request.decoded += event.dataLength;
+  });
+  session.on("Network.loadingFinished", (event) => {
+    const request = requests.get(event.requestId);
+    if (request) {
+      request.encoded = event.encodedDataLength;
+      request.done = true;
+    }
+  });
+  session.on("Network.loadingFailed", (event) => {
+    const request = requests.get(event.requestId);
+    if (request) request.done = true;
+  });
+  await session.send("Network.enable");
+  return { requests, session };
+}
+
+// Installed before any page script: notes when (performance.now()) the map element gets
+// data-cells-drawn, and how many cell features MapLibre has rendered at that moment.
+function watchDrawn() {
+  const record = window as unknown as { benchDrawn?: { at: number; count: string; rendered: number } };
+  const observer = new MutationObserver((mutations) => {
+    for (const mutation of mutations) {
+      const element = mutation.target as Element;
+      const count = element.getAttribute("data-cells-drawn");
+      if (count === null || record.benchDrawn) continue;
+      const at = performance.now();
+      const map = (window as unknown as { firmsandMap?: { queryRenderedFeatures: (options: { layers: string[] }) => unknown[] } }).firmsandMap;
+      record.benchDrawn = { at, count, rendered: map ? map.queryRenderedFeatures({ layers: ["cells-fill"] }).length : -1 };
+      observer.disconnect();
+    }
+  });
+  observer.observe(document, { subtree: true, attributes: true, attributeFilter: ["data-cells-drawn"] });
+}
+
+interface LoadFigures {
+  seconds: number;
+  wallSeconds: number;
+  drawnCount: number;
+  rendered: number;
+  requests: RequestFigures[];
+  marks: Record<string, number>;
+}
+
+async function measureLoad(page: Page, projectId: number): Promise<LoadFigures> {
+  const { requests, session } = await recordNetwork(page);
+  const started = performance.now();
+  await page.goto(`/projects/${projectId}/map`, { waitUntil: "commit" });
+  await page.waitForFunction(() => Boolean((window as unknown as { benchDrawn?: unknown }).benchDrawn), undefined, { timeout: 60_000, polling: 50 });
+  const wallSeconds = (performance.now() - started) / 1000;
+  const drawn = await page.evaluate(() => (window as unknown as { benchDrawn: { at: number; count: string; rendered: number } }).benchDrawn);
+  // Stages of the load, from the page's resource timings (ms since the navigation started).
+  const marks = await page.evaluate(() => {
+    const out: Record<string, number> = {};
+    const navigation = performance.getEntriesByType("navigation")[0] as PerformanceNavigationTiming | undefined;
+    if (navigation) {
+      out["document received"] = navigation.responseEnd;
+      out["DOMContentLoaded"] = navigation.domContentLoadedEventEnd;
+    }
+    for (const entry of performance.getEntriesByType("resource") as PerformanceResourceTiming[]) {
+      const path = new URL(entry.name).pathname;
+      if (/\/api\/projects\/\d+\/cells$/.test(path)) out["cells response received"] = entry.responseEnd;
+      if (/\/map\/style\.json$/.test(path)) out["style received"] = entry.responseEnd;
+      if (/maplibre-gl-worker/.test(path)) out["map worker script received"] = entry.responseEnd;
+    }
+    return out;
+  });
+  // Let the requests still under way finish (the assignments, say) so the byte count is whole.
+  const settle = performance.now();
+  while ([...requests.values()].some((request) => !request.done) && performance.now() - settle < 5_000) await page.waitForTimeout(50);
+  await session.detach();
+  return { seconds: drawn.at / 1000, wallSeconds, drawnCount: Number(drawn.count), rendered: drawn.rendered, requests: [...requests.values()], marks };
+}
+
+function printLoad(name: string, load: LoadFigures) {
+  const total = load.requests.reduce((sum, request) => sum + request.encoded, 0);
+  const decoded = load.requests.reduce((sum, request) => sum + request.decoded, 0);
+  console.log(`${name}: ${load.seconds.toFixed(2)} s from navigation to ${load.drawnCount.toLocaleString("en-US")} cells drawn (${load.wallSeconds.toFixed(2)} s as seen by the driver); ${load.requests.length} requests, ${total.toLocaleString("en-US")} bytes on the wire (${(total / 1e6).toFixed(2)} MB; ${(decoded / 1e6).toFixed(2)} MB decoded)`);
+  for (const [mark, at] of Object.entries(load.marks).sort((a, b) => a[1] - b[1])) console.log(`  ${(at / 1000).toFixed(2).padStart(6)} s  ${mark}`);
+  console.log(`  ${load.seconds.toFixed(2).padStart(6)} s  cells drawn (${load.rendered.toLocaleString("en-US")} cell features rendered in view)`);
+}
+
+function printLargest(load: LoadFigures, count = 12) {
+  console.log(`  largest responses (encoded bytes on the wire, decoded bytes):`);
+  for (const request of [...load.requests].sort((a, b) => b.encoded - a.encoded).slice(0, count)) {
+    const path = new URL(request.url).pathname;
+    console.log(`  ${request.encoded.toLocaleString("en-US").padStart(11)}  ${request.decoded.toLocaleString("en-US").padStart(11)}  ${request.status || "—"}${request.fromCache ? " (cache)" : ""}  ${path}`);
+  }
+}
+
+let browser: Browser | null = null;
+let seeded: { projectId: number; userId: number } | null = null;
+let failed = false;
+try {
+  const seeding = await seed();
+  seeded = seeding;
+  console.log(`seeding: ${seeding.seconds.toFixed(1)} s${seeding.reused ? " (reused the data of a --keep run)" : ""} (not part of the figures)`);
+  browser = await chromium.launch({
+    executablePath: chromiumPath,
+    headless: true,
+    args: [
+      // Nothing but 127.0.0.1 resolves, so a request elsewhere fails instead of leaving the machine.
+      "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1",
+      "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync",
+    ],
+  });
+  const context = await signedInContext(browser);
+  await context.addInitScript(watchDrawn);
+  const page = await context.newPage();
+  const cold = await measureLoad(page, seeding.projectId);
+  const warm = await measureLoad(page, seeding.projectId);
+  await context.close();
+
+  if (cold.rendered <= 0 || warm.rendered <= 0) {
+    failed = true;
+    console.error(`data-cells-drawn was set while the cells layer had rendered ${cold.rendered} (cold) / ${warm.rendered} (warm) features: the "drawn" signal came too early`);
+  }
+  if (cold.drawnCount < 100_000) {
+    failed = true;
+    console.error(`only ${cold.drawnCount} cells were drawn; the bench wants at least 100,000`);
+  }
+  const bytes = cold.requests.reduce((sum, request) => sum + request.encoded, 0);
+  printLoad("cold load (fresh context, empty cache)", cold);
+  printLargest(cold);
+  printLoad("warm load (same context, cached assets; cells read again)", warm);
+  console.log(`coverage map of ${cold.drawnCount.toLocaleString("en-US")} cells: cold ${cold.seconds.toFixed(2)} s, warm ${warm.seconds.toFixed(2)} s, ${(bytes / 1e6).toFixed(2)} MB on the wire; ratio to the goal (3 s, 2 MB): time ${(cold.seconds / GOAL_SECONDS).toFixed(2)}, bytes ${(bytes / GOAL_BYTES).toFixed(2)}`);
+} catch (error) {
+  failed = true;
+  console.error(error);
+} finally {
+  await browser?.close();
+  if (seeded && !keep) await cleanUp(seeded.projectId, seeded.userId);
+  await closeSequelize();
+}
+if (outside.length > 0) {
+  failed = true;
+  console.error(`requests to hosts other than 127.0.0.1 (refused):\n  ${[...new Set(outside)].join("\n  ")}`);
+}
+process.exit(failed ? 1 : 0);
