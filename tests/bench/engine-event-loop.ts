@@ -1,0 +1,147 @@
+/**
+ * Event-loop benchmark: how long the server's event loop stalls while the two heaviest engine
+ * computations run, on the request thread (ENGINE_THREADS=0) and in the engine pool (the
+ * default). (a) the recompute inside a sounding import's commit, for a 1,000,000-sounding
+ * baseline (the import benchmark's basin and pattern, held in memory as the commit holds it);
+ * (b) the map's latest surfaces for the same survey (triangulation, rasters, depths). Reports
+ * the longest stall (perf_hooks.monitorEventLoopDelay, 10 ms resolution) and the wall time.
+ * Needs a migrated database (the DB_* environment, as for the app):
+ *   DB_PORT=3308 DB_NAME=firmsand_bench NODE_OPTIONS=--expose-gc npx tsx tests/bench/engine-event-loop.ts [--rows N]
+ */
+import { monitorEventLoopDelay } from "node:perf_hooks";
+import { createCrs } from "../../shared/crs";
+import { resolveCrsDefinition } from "../../app/lib/epsg.server";
+import { Project, Survey, getSequelize } from "../../app/lib/db.server";
+import { closeAppEnginePool, type EngineWorkerPool } from "../../app/lib/engine-worker.server";
+import { loadProjectGeometry } from "../../app/lib/import/project-geometry.server";
+import type { ComputationSurvey } from "../../app/lib/import/project-computation";
+import { recomputeProjectStatistics, serverEnginePool } from "../../app/lib/import/recompute.server";
+import { computeSurfacesIn } from "../../app/lib/map/project-surfaces.server";
+import { closeSequelize } from "../../db/connection.server";
+
+const rowsIndex = process.argv.indexOf("--rows");
+const rows = rowsIndex > 0 ? Number(process.argv[rowsIndex + 1]) : 1_000_000;
+if (!Number.isInteger(rows) || rows < 1000) throw new Error(`--rows wants a whole number of at least 1000, not ${process.argv[rowsIndex + 1]}`);
+
+// Seeded generator (mulberry32) so every run computes the same survey.
+function random(seed: number) {
+  let state = seed >>> 0;
+  return () => {
+    state = (state + 0x6d2b79f5) >>> 0;
+    let mixed = Math.imul(state ^ (state >>> 15), 1 | state);
+    mixed ^= mixed + Math.imul(mixed ^ (mixed >>> 7), 61 | mixed);
+    return ((mixed ^ (mixed >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+// An elliptical basin 1,200 ft × 800 ft in EPSG:2237 (fictional place), water surface at 30 ft.
+const centre = { x: 640_000, y: 1_520_000 };
+const radius = { x: 600, y: 400 };
+const waterSurface = 30;
+
+function baselineSoundings(id: number): ComputationSurvey {
+  const next = random(20261201);
+  const spacing = Math.sqrt((Math.PI * radius.x * radius.y) / rows);
+  const easting = new Float64Array(rows);
+  const northing = new Float64Array(rows);
+  const elevation = new Float64Array(rows);
+  const refusal = new Float64Array(rows);
+  let written = 0;
+  for (let y = centre.y - radius.y; y <= centre.y + radius.y && written < rows; y += spacing) {
+    for (let x = centre.x - radius.x; x <= centre.x + radius.x && written < rows; x += spacing) {
+      const u = (x - centre.x) / radius.x;
+      const v = (y - centre.y) / radius.y;
+      if (u * u + v * v > 1) continue;
+      const depth = 6 + 2 * (1 - u * u - v * v) + (next() - 0.5) * 0.1;
+      const probe = depth + 1 + 2 * (1 - u * u) + (next() - 0.5) * 0.1;
+      easting[written] = x + (next() - 0.5) * 0.2;
+      northing[written] = y + (next() - 0.5) * 0.2;
+      elevation[written] = waterSurface - depth;
+      refusal[written] = waterSurface - probe;
+      written++;
+    }
+  }
+  const cut = (values: Float64Array) => values.slice(0, written);
+  return { id, kind: "baseline", surveyedOn: "2026-12-01", easting: cut(easting), northing: cut(northing), elevation: cut(elevation), refusalElevation: cut(refusal) };
+}
+
+async function createProject() {
+  const crs = createCrs(resolveCrsDefinition("EPSG:2237").definition);
+  const ring: Array<[number, number]> = [];
+  for (let step = 0; step <= 128; step++) {
+    const angle = (step / 128) * 2 * Math.PI;
+    ring.push(crs.toLonLat(centre.x + radius.x * Math.cos(angle), centre.y + radius.y * Math.sin(angle)));
+  }
+  ring[ring.length - 1] = ring[0];
+  const project = await Project.create({
+    name: "Event-loop benchmark basin (synthetic)",
+    slug: `bench-event-loop-${Date.now()}`,
+    crs: "EPSG:2237",
+    lengthUnit: "us-ft",
+    gridOriginE: centre.x - radius.x,
+    gridOriginN: centre.y - radius.y,
+    cellSize: 20,
+    rasterResolution: 1,
+    maxEdge: 30,
+    tolerance: 0.25,
+    firmShare: 0.95,
+    minCoverage: 0.8,
+    workLimitGeoJson: JSON.stringify({ type: "Polygon", coordinates: [ring] }),
+  });
+  // The survey row only: its soundings stay in memory, as the commit's do when it recomputes.
+  const survey = await Survey.create({
+    projectId: project.id, kind: "baseline", surveyedOn: "2026-12-01", timeZone: "UTC", waterSurfaceElevation: waterSurface, fileHasElevations: false,
+    datum: "NAVD88", crs: "EPSG:2237", lengthUnit: "us-ft", fileName: "bench.csv", contentSha256: "0".repeat(64), rowCount: rows, soundingCount: rows,
+    uploadedById: null, retractedById: null, qa: { warnings: [], columns: {}, surveyOrder: "1a" }, coverage: null,
+  });
+  return { project, survey };
+}
+
+const pause = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+// With --expose-gc (NODE_OPTIONS=--expose-gc) each case starts from a collected heap, so one
+// case's garbage is not collected during the next.
+const collect = (globalThis as { gc?: () => void }).gc;
+
+/**
+ * The longest event-loop stall and the wall time while `work` runs. The histogram's timer must
+ * fire after the work for a stall to be recorded, hence the pause on either side.
+ */
+async function measure(work: () => Promise<unknown>) {
+  collect?.();
+  await pause(100);
+  const histogram = monitorEventLoopDelay({ resolution: 10 });
+  histogram.enable();
+  await pause(20);
+  const started = performance.now();
+  await work();
+  const seconds = (performance.now() - started) / 1000;
+  await pause(50);
+  histogram.disable();
+  return { seconds, maxDelayMs: histogram.max / 1e6, p99DelayMs: histogram.percentile(99) / 1e6 };
+}
+
+const { project, survey } = await createProject();
+const line = (label: string, figures: { seconds: number; maxDelayMs: number; p99DelayMs: number }) =>
+  console.log(`  ${label.padEnd(44)} ${figures.seconds.toFixed(2).padStart(6)} s   event loop max delay ${figures.maxDelayMs.toFixed(0).padStart(5)} ms (p99 ${figures.p99DelayMs.toFixed(0)} ms)`);
+try {
+  const pool = serverEnginePool();
+  if (pool === null) throw new Error("ENGINE_THREADS=0: this benchmark compares the pool with the request thread; unset it");
+  const geometry = await loadProjectGeometry(project.id);
+  const extra = baselineSoundings(survey.id);
+  console.log(`engine event-loop benchmark: ${extra.easting.length.toLocaleString("en-US")} soundings, ${pool.size} engine thread(s)${collect ? "" : " (without --expose-gc: one case's garbage may be collected during the next)"}`);
+  // A first pool job starts the thread (and, from sources, compiles its modules): not what a running server pays.
+  await computeSurfacesIn({ surveys: [baselineSoundings(survey.id)].map((s) => ({ ...s, easting: s.easting.slice(0, 2000), northing: s.northing.slice(0, 2000), elevation: s.elevation.slice(0, 2000), refusalElevation: s.refusalElevation!.slice(0, 2000) })), workLimit: geometry.workLimit!, settings: geometry.settings, waterSurfaceElevation: waterSurface }, pool);
+  const places: Array<[string, EngineWorkerPool | null]> = [["on the request thread (ENGINE_THREADS=0)", null], ["in the engine pool", pool]];
+  for (const [where, chosen] of places) {
+    line(`(a) import commit recompute, ${where}`, await measure(() => getSequelize().transaction((transaction) => recomputeProjectStatistics(project.id, transaction, { extra, pool: chosen }))));
+  }
+  for (const [where, chosen] of places) {
+    const input = { surveys: [baselineSoundings(survey.id)], workLimit: geometry.workLimit!, settings: geometry.settings, waterSurfaceElevation: waterSurface };
+    line(`(b) map surfaces, ${where}`, await measure(() => computeSurfacesIn(input, chosen)));
+  }
+} finally {
+  await Survey.destroy({ where: { projectId: project.id } });
+  await project.destroy();
+  await closeAppEnginePool();
+  await closeSequelize();
+}
