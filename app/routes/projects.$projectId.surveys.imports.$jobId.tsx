@@ -47,11 +47,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-function mappingFromForm(form: FormData): Record<string, string> {
-  const mapping: Record<string, string> = {};
+/** The form's mapping; "— not in the file —" (an empty value) is null, so no same-named column is used for the field. */
+function mappingFromForm(form: FormData): Record<string, string | null> {
+  const mapping: Record<string, string | null> = {};
   for (const field of soundingFields) {
     const header = form.get(`column.${field}`);
-    if (typeof header === "string" && header !== "") mapping[field] = header;
+    if (typeof header === "string") mapping[field] = header === "" ? null : header;
   }
   return mapping;
 }

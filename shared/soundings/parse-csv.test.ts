@@ -27,6 +27,34 @@ describe("parseSoundingsCsv", () => {
     expect(tab.depth[0]).toBe(3);
   });
 
+  it("leaves out a field mapped to null (not in the file), even when a column has its built-in name", () => {
+    // The technician said the "probe" column is not a probe depth: it must not be read as one,
+    // nor checked against the depth (its 1.0 would otherwise be "shallower than the water depth").
+    const text = "easting,northing,depth,probe,time\n100,200,3.2,1.0,t1\n101,201,3.4,junk,t2\n";
+    const ignored = parseSoundingsCsv(text, { columns: { probe: null, time: null } });
+    expect(ignored.probe).toBeNull();
+    expect(ignored.time).toBeNull();
+    expect(ignored.errors).toEqual([]);
+    expect(Array.from(ignored.depth)).toEqual([3.2, 3.4]);
+    // Without the mapping the same column is read, and its values fail the rules.
+    const read = parseSoundingsCsv(text);
+    expect(read.probe).not.toBeNull();
+    expect(read.errors.map((error) => error.row)).toEqual([2, 3]);
+  });
+
+  it("a required field marked as not in the file is a file problem, not a fallback to its built-in name", () => {
+    const parsed = parseSoundingsCsv("easting,northing,depth\n100,200,3.2\n", { columns: { easting: null } });
+    expect(parsed.errors).toEqual([{ row: 1, column: "easting", value: "", message: expect.stringMatching(/easting is required, but it was marked as not in the file/) }]);
+    expect(parsed.easting.length).toBe(0);
+    // Depth marked absent is fine when the file has elevations, and an error when it has not.
+    const elevations = parseSoundingsCsv("x,y,depth,elevation\n1,2,3,40.5\n", { columns: { depth: null } });
+    expect(elevations.errors).toEqual([]);
+    expect(Array.from(elevations.elevation!)).toEqual([40.5]);
+    expect(Number.isNaN(elevations.depth[0])).toBe(true);
+    const neither = parseSoundingsCsv("x,y,depth\n1,2,3\n", { columns: { depth: null } });
+    expect(neither.errors[0].message).toMatch(/water depth is required, but it was marked as not in the file/);
+  });
+
   it("accepts an explicit column mapping, and keeps time and point id text", () => {
     const parsed = parseSoundingsCsv("E_ft,N_ft,Sounding,Point_ID,time\n1,2,3,P-7,2031-04-02T09:15\n", {
       columns: { easting: "e_ft", northing: "N_FT", depth: "sounding" },

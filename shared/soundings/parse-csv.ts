@@ -68,8 +68,11 @@ export interface ParsedSoundings {
 }
 
 export interface SoundingCsvOptions {
-  /** Header to use for a field, overriding the built-in names (matched case-insensitively). */
-  columns?: Partial<Record<SoundingField, string>>;
+  /**
+   * Header to use for a field, overriding the built-in names (matched case-insensitively). `null`
+   * says the field is not in the file: no column is used for it, even one with a built-in name.
+   */
+  columns?: Partial<Record<SoundingField, string | null>>;
   /** Force a delimiter instead of detecting it from the header row. */
   delimiter?: "," | ";" | "\t";
   /** Stop collecting errors after this many (rows are still counted). Default 1000. */
@@ -77,7 +80,7 @@ export interface SoundingCsvOptions {
 }
 
 export const soundingCsvOptionsSchema = z.object({
-  columns: z.partialRecord(z.enum(soundingFields), z.string().min(1)).optional(),
+  columns: z.partialRecord(z.enum(soundingFields), z.string().min(1).nullable()).optional(),
   delimiter: z.enum([",", ";", "\t"]).optional(),
   maxErrors: z.number().int().positive().optional(),
 });
@@ -181,8 +184,14 @@ export function createSoundingCsvParser(options: SoundingCsvOptions = {}): Sound
     headers = cells.map((cell) => cell.trim());
     const lower = headers.map((header) => header.toLowerCase());
     const index = {} as Record<SoundingField, number>;
+    // Fields the caller marked as not in the file (null): no column, not even a same-named one.
+    const absent = (field: SoundingField) => settings.columns?.[field] === null;
     for (const field of soundingFields) {
       const wanted = settings.columns?.[field];
+      if (wanted === null) {
+        index[field] = -1;
+        continue;
+      }
       const names = wanted ? [wanted.toLowerCase()] : soundingHeaderNames[field];
       index[field] = lower.findIndex((header) => names.includes(header));
       if (wanted && index[field] < 0) {
@@ -195,7 +204,9 @@ export function createSoundingCsvParser(options: SoundingCsvOptions = {}): Sound
         row: 1,
         column: field,
         value: "",
-        message: `the header row has no ${fieldWords[field]} column; name it ${soundingHeaderNames[field].map((name) => `"${name}"`).join(" or ")} or map it`,
+        message: absent(field)
+          ? `the ${fieldWords[field]} is required, but it was marked as not in the file; map it to one of the file's columns`
+          : `the header row has no ${fieldWords[field]} column; name it ${soundingHeaderNames[field].map((name) => `"${name}"`).join(" or ")} or map it`,
       });
     for (const field of ["easting", "northing"] as const) {
       if (index[field] < 0 && !settings.columns?.[field]) {

@@ -4,6 +4,7 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
+import { ColumnMapping } from "~/lib/db.server";
 import { analyseStagedFile } from "~/lib/import/analyse.server";
 import { commitChoicesSchema, importOptionsSchema, type ImportOptions } from "~/lib/import/import-options";
 import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
@@ -11,7 +12,8 @@ import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { DEMO_DIR, FIXTURES, counts, makeDemoSiteProject, postSurvey } from "./import-helpers";
 
 // The analysis of a staged file against a real project in MariaDB: the depth-unit check against
-// the project's earlier surveys. Staged files go to a temporary directory.
+// the project's earlier surveys, and fields the technician marked as not in the file. Staged
+// files go to a temporary directory.
 process.env.UPLOAD_DIR = mkdtempSync(join(tmpdir(), "firmsand-analyse-test-"));
 
 afterAll(closeSequelize);
@@ -33,8 +35,10 @@ function optionsFor(survey: (typeof SURVEYS)[number], extra: Partial<ImportOptio
   });
 }
 
-async function analyse(projectId: number, path: string, options: ImportOptions, choices = {}) {
-  const staged = await writeStagedFile(new Blob([readFileSync(path)]).stream(), path.split("/").pop()!);
+async function analyse(projectId: number, path: string | { name: string; text: string }, options: ImportOptions, choices = {}) {
+  const staged = typeof path === "string"
+    ? await writeStagedFile(new Blob([readFileSync(path)]).stream(), path.split("/").pop()!)
+    : await writeStagedFile(new Blob([path.text]).stream(), path.name);
   return analyseStagedFile({ path: staged.path, sha256: staged.sha256, options, choices: commitChoicesSchema.parse(choices), geometry: await loadProjectGeometry(projectId) });
 }
 
@@ -91,5 +95,50 @@ describe("depth-unit check against the project's earlier surveys", () => {
     expect(body.errors.find((error) => error.column === "depth")?.message).toMatch(/look like metres.*acceptDepthUnit=true/);
     const accepted = await postSurvey(site.project.id, site.tokens.surveyor, { path: metresFile }, { ...fields, acceptDepthUnit: "true" });
     expect(accepted.status).toBe(201);
+  });
+});
+
+describe("a field marked as not in the file", () => {
+  let site: Awaited<ReturnType<typeof makeDemoSiteProject>>;
+  // The first 40 rows of the demo's progress 1 with a "probe" column the crew's software fills
+  // with its battery voltage: not a probe depth, and shallower than every depth.
+  const lines = readFileSync(join(DEMO_DIR, progress1.fileName), "utf8").trim().split("\n").slice(0, 41);
+  const file = {
+    name: "with-voltage-column.csv",
+    text: `${[`${lines[0]},probe`, ...lines.slice(1).map((line) => `${line},1.2`)].join("\n")}\n`,
+  };
+
+  beforeAll(async () => {
+    site = await makeDemoSiteProject("not-in-file");
+  });
+
+  it("reads a same-named column when nothing is said, and leaves it out when marked", async () => {
+    const guessed = await analyse(site.project.id, file, optionsFor(progress1), { outside: "keep" });
+    expect(guessed.preview.mapping.probe).toBe("probe");
+    expect(guessed.preview.problemRows).toBe(40);
+    expect(guessed.preview.problems[0].message).toMatch(/probe depth is shallower than the water depth/);
+
+    const marked = await analyse(site.project.id, file, optionsFor(progress1, { columns: { probe: null } }), { outside: "keep" });
+    expect(marked.preview.mapping.probe).toBeNull();
+    expect(marked.preview.problemCount).toBe(0);
+    expect(marked.preview.blockers).toEqual([]);
+    expect(marked.prepared?.probe).toBeNull();
+    expect(marked.prepared?.refusalElevation).toBeNull();
+  });
+
+  it("the API takes null or an empty header as not in the file", async () => {
+    const fields = { kind: progress1.kind, surveyedOn: progress1.surveyedOn, waterSurfaceElevation: String(progress1.waterSurfaceElevationFt), timeZone: PROJECT.timeZone, datum: PROJECT.verticalDatum };
+    const refused = await postSurvey(site.project.id, site.tokens.surveyor, { name: file.name, content: file.text }, fields);
+    expect(refused.status).toBe(422);
+    for (const columns of ['{"probe":null}', '{"probe":""}']) {
+      const stored = await postSurvey(site.project.id, site.tokens.surveyor, { name: file.name, content: file.text }, { ...fields, columns, acceptSameFile: "true" });
+      expect(stored.status, columns).toBe(201);
+    }
+    // "Not in the file" is not remembered for the next upload: the next file's probe column is read again.
+    const remembered = await ColumnMapping.findOne({ where: { projectId: site.project.id } });
+    expect(remembered!.mapping).not.toHaveProperty("probe");
+    expect(remembered!.mapping).toMatchObject({ easting: "easting", depth: "depth" });
+    const next = await analyse(site.project.id, file, optionsFor(progress1), { outside: "keep" });
+    expect(next.preview.mapping.probe).toBe("probe");
   });
 });

@@ -5,7 +5,8 @@ import type { SoundingField } from "../../../shared/soundings/parse-csv";
  * Longitude/latitude headers map to easting/northing and say so (`lonLat`), so the upload page can
  * offer EPSG:4326 as the file's CRS. Pure: header names in, mapping out.
  */
-export type ColumnMappingChoice = Partial<Record<SoundingField, string>>;
+/** Field → header in the file; `null` says the technician marked the field as not in the file (nothing is guessed for it). */
+export type ColumnMappingChoice = Partial<Record<SoundingField, string | null>>;
 
 const SYNONYMS: Record<SoundingField, readonly string[]> = {
   easting: ["easting", "east", "x", "e", "x_ft", "x_m", "easting_ft", "easting_m"],
@@ -40,7 +41,7 @@ export function guessColumns(headers: readonly string[], remembered?: ColumnMapp
   const mapping: ColumnMappingChoice = {};
   const taken = new Set<number>();
   const take = (field: SoundingField, names: readonly string[]) => {
-    if (mapping[field]) return;
+    if (mapping[field] !== undefined) return;
     const index = normalised.findIndex((header, position) => !taken.has(position) && names.includes(header));
     if (index >= 0) {
       mapping[field] = headers[index];
@@ -49,7 +50,8 @@ export function guessColumns(headers: readonly string[], remembered?: ColumnMapp
   };
   // A remembered mapping wins where its header is still in the file.
   if (remembered) {
-    for (const [field, header] of Object.entries(remembered) as Array<[SoundingField, string]>) {
+    for (const [field, header] of Object.entries(remembered) as Array<[SoundingField, string | null]>) {
+      if (typeof header !== "string") continue;
       const index = headers.findIndex((candidate, position) => !taken.has(position) && candidate.trim().toLowerCase() === header.trim().toLowerCase());
       if (index >= 0) {
         mapping[field] = headers[index];
@@ -59,7 +61,7 @@ export function guessColumns(headers: readonly string[], remembered?: ColumnMapp
   }
   for (const field of Object.keys(SYNONYMS) as SoundingField[]) take(field, SYNONYMS[field]);
   let lonLat = false;
-  if (!mapping.easting && !mapping.northing) {
+  if (mapping.easting === undefined && mapping.northing === undefined) {
     take("easting", LONGITUDE);
     take("northing", LATITUDE);
     lonLat = Boolean(mapping.easting && mapping.northing);

@@ -54,7 +54,10 @@ export function importOptionsFromFields(fields: Record<string, string>, defaults
     datum: optionalText(fields.datum) ?? "not stated",
     crs: optionalText(fields.crs) ?? defaults.crs,
     lengthUnit: optionalText(fields.lengthUnit) ?? defaults.lengthUnit,
-    columns: columns === undefined ? undefined : Object.fromEntries(Object.entries(columns as Record<string, string>).filter(([, header]) => typeof header === "string" && header.trim() !== "")),
+    // An empty header or null marks the field as not in the file.
+    columns: columns === undefined || columns === null || typeof columns !== "object"
+      ? columns
+      : Object.fromEntries(Object.entries(columns as Record<string, unknown>).map(([field, header]) => [field, typeof header === "string" && header.trim() === "" ? null : header])),
     surveyOrder: optionalText(fields.surveyOrder),
   });
   if (!parsed.success) issuesToProblems(parsed.error, problems);

@@ -13,7 +13,8 @@ function isTimeZone(value: string): boolean {
   }
 }
 
-export const columnsSchema = z.partialRecord(z.enum(soundingFields), z.string().trim().min(1).max(200));
+/** Field → header in the file; null marks a field as not in the file (no column is used for it, not even a same-named one). */
+export const columnsSchema = z.partialRecord(z.enum(soundingFields), z.string().trim().min(1).max(200).nullable());
 
 export const importOptionsSchema = z
   .object({

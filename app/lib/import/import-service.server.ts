@@ -38,7 +38,11 @@ export function overallFraction(stage: string, fraction: number): number {
   return span[1] + (span[2] - span[1]) * Math.min(1, Math.max(0, fraction));
 }
 
-export async function rememberColumnMapping(projectId: number, userId: number | null, mapping: Record<string, string>) {
+export async function rememberColumnMapping(projectId: number, userId: number | null, choice: Record<string, string | null>) {
+  // Only headers are remembered. "Not in the file" is this file's answer: the form sends it for
+  // every field the file lacks (a progress file has no probe), and a remembered one would make the
+  // next baseline's probe column unread.
+  const mapping = Object.fromEntries(Object.entries(choice).filter((entry): entry is [string, string] => typeof entry[1] === "string"));
   const existing = await ColumnMapping.findOne({ where: { projectId } });
   if (existing) await existing.update({ mapping, updatedById: userId });
   else await ColumnMapping.create({ projectId, mapping, updatedById: userId });
@@ -69,7 +73,7 @@ export async function importSurveyFile(input: ImportInput): Promise<ImportOutcom
     onProgress: input.onProgress,
     afterSoundings: input.afterSoundings,
   });
-  await rememberColumnMapping(input.projectId, input.userId, analysis.preview.mapping as Record<string, string>);
+  await rememberColumnMapping(input.projectId, input.userId, analysis.preview.mapping as Record<string, string | null>);
   return { ok: true, committed, preview: analysis.preview };
 }
 

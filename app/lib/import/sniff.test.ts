@@ -41,4 +41,8 @@ describe("guessColumns", () => {
   it("prefers the project's remembered mapping where the file still has that header", () => {
     expect(guessColumns(["E", "N", "WD"], { depth: "WD", probe: "PR" }).mapping).toEqual({ depth: "WD", easting: "E", northing: "N" });
   });
+
+  it("a remembered mapping without a header for a field guesses that field afresh", () => {
+    expect(guessColumns(["x", "y", "depth", "probe"], { probe: null }).mapping).toEqual({ easting: "x", northing: "y", depth: "depth", probe: "probe" });
+  });
 });
