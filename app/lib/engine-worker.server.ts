@@ -1,5 +1,6 @@
 import { existsSync } from "node:fs";
-import { fileURLToPath } from "node:url";
+import { createRequire } from "node:module";
+import { fileURLToPath, pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
 import { createCellGrid } from "../../shared/grid/cell-grid";
 import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
@@ -104,9 +105,18 @@ function startWorker(): Worker {
     );
   }
   if (!entry.fromSources) return new Worker(entry.url);
-  const tsxApi = import.meta.resolve("tsx/esm/api");
+  const tsxApi = tsxApiUrl();
   const bootstrap = `import { tsImport } from ${JSON.stringify(tsxApi)}; await tsImport(${JSON.stringify(entry.url.href)}, ${JSON.stringify(import.meta.url)});`;
   return new Worker(new URL(`data:text/javascript,${encodeURIComponent(bootstrap)}`), { execArgv: [] });
+}
+
+/** tsx's loader API; Vite's dev-server module runner may not offer import.meta.resolve, hence the fallback. */
+function tsxApiUrl(): string {
+  try {
+    return import.meta.resolve("tsx/esm/api");
+  } catch {
+    return pathToFileURL(createRequire(import.meta.url).resolve("tsx/esm/api")).href;
+  }
 }
 
 function clipToMask(values: RasterValues, mask: Uint8Array): RasterValues {
