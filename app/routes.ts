@@ -45,6 +45,7 @@ export default [
   route("api/projects/:projectId/cells/:label", "routes/api.projects.$projectId.cells.$label.ts"),
   route("api/projects/:projectId/bands", "routes/api.projects.$projectId.bands.ts"),
   route("api/projects/:projectId/assignments", "routes/api.projects.$projectId.assignments.ts"),
+  route("api/projects/:projectId/dives", "routes/api.projects.$projectId.dives.ts"),
   route("dev/mail", "routes/dev-mail.tsx", [
     route(":messageId", "routes/dev-mail-message.tsx"),
   ]),

@@ -1,8 +1,10 @@
-import { Form, Link } from "react-router";
+import { useEffect, useRef } from "react";
+import { Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
 import { emailDayPlan, getDayPlan, workDateSchema } from "~/models/assignments.server";
+import { diveInputSchema, listDivesOn, recordDive, type DiveView } from "~/models/dives.server";
 import type { Route } from "./+types/project-plan";
 
 function parseDate(value: string | undefined): string {
@@ -14,20 +16,50 @@ function parseDate(value: string | undefined): string {
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, project, role } = await requireRole(request, params.projectId);
   const date = parseDate(params.date);
-  const plan = await getDayPlan(project, date);
-  return { project: { id: project.id, name: project.name }, plan, canSend: role === "dive-supervisor" || role === "manager" || (role === null && user.isSiteAdmin) };
+  const [plan, dives] = await Promise.all([getDayPlan(project, date), listDivesOn(project, date)]);
+  return { project: { id: project.id, name: project.name }, plan, dives, canSend: role === "dive-supervisor" || role === "manager" || (role === null && user.isSiteAdmin) };
 }
 
-const actionSchema = z.object({ intent: z.literal("email") });
+const actionSchema = z.object({ intent: z.enum(["email", "dive"]) });
 
-export async function action({ request, params }: Route.ActionArgs) {
+type ActionResult =
+  | { intent: "email"; sentTo: string[]; error: string | null }
+  | { intent: "dive"; teamId: number; ok: boolean; message: string };
+
+const optionalText = (value: FormDataEntryValue | null) => (typeof value === "string" && value.trim() !== "" ? value.trim() : null);
+const optionalNumber = (value: FormDataEntryValue | null) => (optionalText(value) === null ? null : Number(optionalText(value)));
+
+export async function action({ request, params }: Route.ActionArgs): Promise<ActionResult> {
   const { user, project } = await requireRole(request, params.projectId, "dive-supervisor", "manager");
   const date = parseDate(params.date);
-  const form = actionSchema.safeParse(Object.fromEntries(await request.formData()));
-  if (!form.success) return { sentTo: [] as string[], error: "Unknown request." };
+  const formData = await request.formData();
+  const form = actionSchema.safeParse({ intent: formData.get("intent") });
+  if (!form.success) return { intent: "email", sentTo: [], error: "Unknown request." };
+  if (form.data.intent === "dive") {
+    const teamId = Number(formData.get("team"));
+    const input = diveInputSchema.safeParse({
+      date,
+      team: teamId,
+      diver: formData.get("diver") ?? "",
+      leftSurface: optionalText(formData.get("leftSurface")),
+      leftBottom: optionalText(formData.get("leftBottom")),
+      bottomMinutes: optionalNumber(formData.get("bottomMinutes")),
+      maxDepth: optionalNumber(formData.get("maxDepth")) ?? Number.NaN,
+      cells: formData.getAll("cells").filter((value): value is string => typeof value === "string"),
+      notes: optionalText(formData.get("notes")) ?? "",
+    });
+    if (!input.success) {
+      const names: Record<string, string> = { diver: "Diver", leftSurface: "Left surface", leftBottom: "Left bottom", bottomMinutes: "Bottom time", maxDepth: "Maximum depth", cells: "Cells worked", notes: "Notes", team: "Team" };
+      return { intent: "dive", teamId, ok: false, message: input.error.issues.map((issue) => `${names[String(issue.path[0])] ?? "Dive"}: ${issue.message}`).join("; ") + "." };
+    }
+    const outcome = await recordDive(project, user, input.data, clientAddress(request));
+    if (outcome.status !== 201) return { intent: "dive", teamId, ok: false, message: outcome.body.error };
+    const { dive } = outcome.body;
+    return { intent: "dive", teamId, ok: true, message: `Logged ${dive.diver}'s dive: ${dive.bottomMinutes} min bottom time, ${dive.maxDepth} maximum depth, cells ${dive.cells.join(", ")}.` };
+  }
   const planUrl = new URL(`/projects/${project.id}/plans/${date}`, request.url).href;
   const sentTo = await emailDayPlan(project, user, date, planUrl, clientAddress(request));
-  return { sentTo, error: sentTo.length === 0 ? "Nobody to e-mail: no team has cells on this date, or the teams list no members." : null };
+  return { intent: "email", sentTo, error: sentTo.length === 0 ? "Nobody to e-mail: no team has cells on this date, or the teams list no members." : null };
 }
 
 // Print: one page, the plan only (site header, project nav and buttons hidden).
@@ -67,7 +99,7 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
           </Form>
         ) : null}
       </div>
-      {actionData ? (
+      {actionData?.intent === "email" ? (
         <p role="status" className={`no-print text-sm ${actionData.error ? "text-danger" : "text-ok"}`}>
           {actionData.error ?? `Sent to ${actionData.sentTo.join(", ")}.`}
         </p>
@@ -112,8 +144,89 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
               <tr><td colSpan={7} className="py-1 pr-2 text-right">Remaining in {team.name}'s cells</td><td>{remainingVolume.toFixed(1)}</td><td /></tr>
             </tfoot>
           </table>
+          <DiveLog teamName={team.name} dives={loaderData.dives.filter((dive) => dive.team === team.name)} lengthLabel={plan.lengthLabel} />
+          {loaderData.canSend ? (
+            <DiveForm teamId={team.id} teamName={team.name} cells={cells.map((cell) => cell.label)} lengthLabel={plan.lengthLabel} result={actionData?.intent === "dive" && actionData.teamId === team.id ? actionData : null} />
+          ) : null}
         </section>
       ))}
     </article>
+  );
+}
+
+/** Table figure and flag for a logged dive (information only, as on the plan). */
+function diveFigure(dive: DiveView): { text: string; beyond: boolean } {
+  const info = dive.noDecompression;
+  if (!info) return { text: "—", beyond: false };
+  const { lookup } = info;
+  if (lookup.kind === "unlimited") return { text: `no limit listed (${lookup.tableDepthFsw} fsw row)`, beyond: false };
+  if (lookup.kind === "beyond-table") return { text: "deeper than the rows held", beyond: true };
+  return { text: `${lookup.limitMinutes} min (${lookup.tableDepthFsw} fsw row)`, beyond: info.exceeds === true };
+}
+
+function DiveLog({ teamName, dives, lengthLabel }: { teamName: string; dives: DiveView[]; lengthLabel: string }) {
+  if (dives.length === 0) return <p className="text-sm text-muted">No dives logged for {teamName} on this date.</p>;
+  return (
+    <table className="w-full border-collapse text-sm" aria-label={`Dives logged for ${teamName}`}>
+      <thead>
+        <tr className="border-b border-line text-left">
+          <th className="py-1 pr-2">Diver</th><th className="pr-2">Left surface</th><th className="pr-2">Left bottom</th><th className="pr-2">Bottom time</th>
+          <th className="pr-2">Max depth ({lengthLabel})</th><th className="pr-2">No-decompression figure</th><th className="pr-2">Cells</th><th>Notes</th>
+        </tr>
+      </thead>
+      <tbody>
+        {dives.map((dive) => {
+          const figure = diveFigure(dive);
+          return (
+            <tr key={dive.id} className="border-b border-line">
+              <td className="py-1 pr-2">{dive.diver}</td>
+              <td className="pr-2">{dive.leftSurface ?? "—"}</td>
+              <td className="pr-2">{dive.leftBottom ?? "—"}</td>
+              <td className={`pr-2 ${figure.beyond ? "font-semibold text-danger" : ""}`} data-testid={figure.beyond ? "dive-flag" : undefined}>
+                {dive.bottomMinutes} min{figure.beyond ? " — beyond the table's figure (information only: the dive plan, safety manual and diving standard decide)" : ""}
+              </td>
+              <td className="pr-2">{dive.maxDepth.toFixed(1)}</td>
+              <td className="pr-2">{figure.text}</td>
+              <td className="pr-2">{dive.cells.join(", ")}</td>
+              <td>{dive.notes || "—"}</td>
+            </tr>
+          );
+        })}
+      </tbody>
+    </table>
+  );
+}
+
+function DiveForm({ teamId, teamName, cells, lengthLabel, result }: { teamId: number; teamName: string; cells: string[]; lengthLabel: string; result: { ok: boolean; message: string } | null }) {
+  const navigation = useNavigation();
+  const formRef = useRef<HTMLFormElement>(null);
+  useEffect(() => {
+    if (result?.ok) formRef.current?.reset();
+  }, [result]);
+  const field = "rounded border border-line px-2 py-1";
+  return (
+    <Form ref={formRef} method="post" aria-label={`Log a dive for ${teamName}`} className="no-print space-y-2 rounded border border-line p-2 text-sm">
+      <h4 className="font-semibold">Log a dive for {teamName}</h4>
+      <input type="hidden" name="team" value={teamId} />
+      <div className="flex flex-wrap gap-3">
+        <label>Diver <input name="diver" required maxLength={120} className={field} /></label>
+        <label>Left surface <input name="leftSurface" type="time" className={field} /></label>
+        <label>Left bottom <input name="leftBottom" type="time" className={field} /></label>
+        <label>or bottom time (min) <input name="bottomMinutes" type="number" min={1} max={600} step={1} className={`${field} w-20`} /></label>
+        <label>Maximum depth ({lengthLabel}) <input name="maxDepth" type="number" min={0.1} max={400} step={0.1} required className={`${field} w-24`} /></label>
+      </div>
+      <fieldset className="flex flex-wrap gap-2">
+        <legend>Cells worked</legend>
+        {cells.map((label) => (
+          <label key={label} className="flex items-center gap-1"><input type="checkbox" name="cells" value={label} />{label}</label>
+        ))}
+      </fieldset>
+      <label className="block">Notes <textarea name="notes" rows={2} maxLength={4000} className={`${field} block w-full`} /></label>
+      <p className="text-xs text-muted">
+        Bottom time runs from leaving the surface to leaving the bottom. A bottom time beyond the table's no-decompression figure for the maximum depth is flagged as information only; the dive supervisor's dive plan, the project's safety manual and the governing diving standard decide.
+      </p>
+      <button type="submit" name="intent" value="dive" disabled={navigation.state === "submitting"} className="rounded bg-lagoon px-3 py-1 text-white disabled:opacity-60">Log dive</button>
+      {result ? <p role={result.ok ? "status" : "alert"} className={result.ok ? "text-ok" : "text-danger"} data-testid="dive-result">{result.message}</p> : null}
+    </Form>
   );
 }

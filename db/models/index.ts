@@ -19,6 +19,8 @@ import { ShareLink, initShareLink } from "./share-link";
 import { Assignment, initAssignment } from "./assignment";
 import { DiveTeam, initDiveTeam } from "./dive-team";
 import { Shoreline, initShoreline } from "./shoreline";
+import { Dive, initDive } from "./dive";
+import { DiveCell, initDiveCell } from "./dive-cell";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -30,6 +32,7 @@ export { IMPORT_JOB_STATES, type ImportJobState } from "./import-job";
 export type { SnapshotTotals } from "./survey-snapshot";
 export { ShareLink };
 export { Assignment, DiveTeam, Shoreline };
+export { Dive, DiveCell };
 export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;
@@ -60,6 +63,8 @@ export function initModels(): Sequelize {
   initDiveTeam(sequelize);
   initAssignment(sequelize);
   initShoreline(sequelize);
+  initDive(sequelize);
+  initDiveCell(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -109,6 +114,15 @@ export function initModels(): Sequelize {
   Project.hasOne(Shoreline, { foreignKey: "projectId", as: "shoreline" });
   Shoreline.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   Shoreline.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
+  // The dive log (issue 5): dives made on assigned cells.
+  Project.hasMany(Dive, { foreignKey: "projectId", as: "dives" });
+  Dive.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  DiveTeam.hasMany(Dive, { foreignKey: "teamId", as: "dives" });
+  Dive.belongsTo(DiveTeam, { foreignKey: "teamId", as: "team" });
+  Dive.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  Dive.hasMany(DiveCell, { foreignKey: "diveId", as: "cells" });
+  DiveCell.belongsTo(Dive, { foreignKey: "diveId", as: "dive" });
+  DiveCell.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   // Public share links (issue 6).
   Project.hasMany(ShareLink, { foreignKey: "projectId", as: "shareLinks" });
   ShareLink.belongsTo(Project, { foreignKey: "projectId", as: "project" });

@@ -2,12 +2,53 @@ import { useEffect, useState } from "react";
 import { STATUS_LABELS, type MapStatus } from "../../../shared/palette";
 import { HistoryChart } from "./history-chart";
 import type { CellDetail } from "~/models/cells-presenter";
+import type { DiveView } from "~/models/dives.server";
 
 
-/** The clicked cell's figures, soundings, history and assignments (fetched on selection). */
+/** The cell's logged dives (GET /api/projects/<id>/dives?cell=), read beside its figures. */
+function useCellDives(projectId: number, label: string | null, refresh: number) {
+  const [dives, setDives] = useState<{ label: string; dives: DiveView[]; caution: string } | null>(null);
+  useEffect(() => {
+    if (!label) return;
+    let cancelled = false;
+    fetch(`/api/projects/${projectId}/dives?cell=${encodeURIComponent(label)}`)
+      .then(async (response) => (response.ok ? ((await response.json()) as { dives: DiveView[]; caution: string }) : null))
+      .then((body) => !cancelled && setDives(body ? { label, ...body } : null))
+      .catch(() => !cancelled && setDives(null));
+    return () => {
+      cancelled = true;
+    };
+  }, [projectId, label, refresh]);
+  return dives && dives.label === label ? dives : null;
+}
+
+function CellDives({ dives, lengthLabel }: { dives: { dives: DiveView[]; caution: string } | null; lengthLabel: string }) {
+  if (!dives) return <p className="text-muted">Reading the dive log…</p>;
+  if (dives.dives.length === 0) return <p className="text-muted">No dives logged.</p>;
+  const flagged = dives.dives.some((dive) => dive.noDecompression?.exceeds);
+  return (
+    <>
+      <ul data-testid="inspector-dives">
+        {dives.dives.map((dive) => {
+          const beyond = dive.noDecompression?.exceeds === true;
+          return (
+            <li key={dive.id} className={beyond ? "text-danger" : ""}>
+              {dive.date}: {dive.team}, {dive.diver}, {dive.bottomMinutes} min bottom time, {dive.maxDepth.toFixed(1)} {lengthLabel} max depth
+              {beyond ? <strong> — beyond the table's no-decompression figure</strong> : null}
+            </li>
+          );
+        })}
+      </ul>
+      {flagged ? <p role="note" className="text-xs text-caution">{dives.caution}</p> : null}
+    </>
+  );
+}
+
+/** The clicked cell's figures, soundings, history, assignments and dives (fetched on selection). */
 export function CellInspector({ projectId, label, labels, refresh }: { projectId: number; label: string | null; labels: { length: string; volume: string }; refresh: number }) {
   const [detail, setDetail] = useState<CellDetail | null>(null);
   const [error, setError] = useState<string | null>(null);
+  const dives = useCellDives(projectId, label, refresh);
   useEffect(() => {
     if (!label) return;
     let cancelled = false;
@@ -48,6 +89,8 @@ export function CellInspector({ projectId, label, labels, refresh }: { projectId
       {detail.assignments.length === 0 ? <p className="text-muted">None yet.</p> : (
         <ul>{detail.assignments.map((assignment) => <li key={assignment.date}>{assignment.date}: {assignment.team}, {assignment.hose}{assignment.notes ? ` — ${assignment.notes}` : ""}</li>)}</ul>
       )}
+      <h4 className="font-semibold">Dives</h4>
+      <CellDives dives={dives} lengthLabel={labels.length} />
     </section>
   );
 }

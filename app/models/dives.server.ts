@@ -1,0 +1,170 @@
+import { Op } from "sequelize";
+import { z } from "zod";
+import { NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE } from "../../shared/no-decompression";
+import { Assignment, Dive, DiveCell, DiveTeam, getSequelize } from "~/lib/db.server";
+import { noDecompressionInfo, workDateSchema, type NoDecompressionInfo } from "./assignments.server";
+import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
+import { parseCellLabel } from "./cells.server";
+import type { ProjectView } from "./project.server";
+import type { UserView } from "./user.server";
+
+/**
+ * The dive log: dives actually made on the day's assigned cells. A logged bottom time beyond the
+ * no-decompression figure for the logged maximum depth is flagged, as information only.
+ */
+
+const clock = z
+  .string()
+  .trim()
+  .regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
+
+/** Minutes from 00:00. */
+const minutesOf = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
+
+export const diveInputSchema = z
+  .object({
+    date: workDateSchema,
+    /** The team's name or id. */
+    team: z.union([z.string().trim().min(1).max(120), z.number().int().positive()]),
+    diver: z.string().trim().min(1, "name the diver").max(120),
+    /** When the diver left the surface and left the bottom, HH:MM; or the bottom time alone. */
+    leftSurface: clock.nullish(),
+    leftBottom: clock.nullish(),
+    bottomMinutes: z.number().int().min(1, "a bottom time is at least 1 minute").max(600, "a bottom time over 600 minutes is not a dive this log takes").nullish(),
+    /** Maximum depth reached, project length unit. */
+    maxDepth: z.number().finite().positive("the maximum depth is below the surface, so more than 0").max(400),
+    cells: z.array(z.string().trim().min(1).max(16)).min(1, "name at least one cell the dive worked").max(500),
+    notes: z.string().max(4000).default(""),
+  })
+  .superRefine((input, context) => {
+    const hasTimes = Boolean(input.leftSurface) || Boolean(input.leftBottom);
+    if (hasTimes && !(input.leftSurface && input.leftBottom)) {
+      context.addIssue({ code: "custom", path: [input.leftSurface ? "leftBottom" : "leftSurface"], message: "give both times (left surface and left bottom), or the bottom time alone" });
+      return;
+    }
+    if (input.leftSurface && input.leftBottom) {
+      const span = minutesOf(input.leftBottom) - minutesOf(input.leftSurface);
+      if (span <= 0) context.addIssue({ code: "custom", path: ["leftBottom"], message: "the diver leaves the bottom after leaving the surface, on the same day" });
+      else if (input.bottomMinutes != null && input.bottomMinutes !== span) {
+        context.addIssue({ code: "custom", path: ["bottomMinutes"], message: `the times give ${span} minutes, not ${input.bottomMinutes}; give one or the other` });
+      }
+    } else if (input.bottomMinutes == null) {
+      context.addIssue({ code: "custom", path: ["bottomMinutes"], message: "give the bottom time in minutes, or the times the diver left the surface and the bottom" });
+    }
+  });
+export type DiveInput = z.infer<typeof diveInputSchema>;
+
+/**
+ * Bottom time from the two times: from leaving the surface to leaving the bottom (the US Navy
+ * Diving Manual's definition of bottom time, recalled from memory).
+ */
+export function bottomMinutesOf(input: Pick<DiveInput, "leftSurface" | "leftBottom" | "bottomMinutes">): number {
+  if (input.leftSurface && input.leftBottom) return minutesOf(input.leftBottom) - minutesOf(input.leftSurface);
+  return input.bottomMinutes!;
+}
+
+export interface DiveView {
+  id: number;
+  date: string;
+  team: string;
+  diver: string;
+  leftSurface: string | null;
+  leftBottom: string | null;
+  bottomMinutes: number;
+  maxDepth: number;
+  cells: string[];
+  notes: string;
+  /** The table figure for the maximum depth and whether the bottom time goes beyond it. */
+  noDecompression: NoDecompressionInfo | null;
+}
+
+export type RecordOutcome =
+  | { status: 201; body: { dive: DiveView; caution: string; source: string } }
+  | { status: 404; body: { error: string } }
+  | { status: 422; body: { error: string; code: "unknown-cells" | "not-assigned"; cells: string[] } };
+
+function present(dive: Dive, project: ProjectView): DiveView {
+  return {
+    id: dive.id,
+    date: dive.diveDate,
+    team: dive.team?.name ?? "",
+    diver: dive.diverName,
+    leftSurface: dive.leftSurfaceAt,
+    leftBottom: dive.leftBottomAt,
+    bottomMinutes: dive.bottomMinutes,
+    maxDepth: dive.maxDepth,
+    cells: (dive.cells ?? []).map((cell) => cell.label).sort(),
+    notes: dive.notes,
+    noDecompression: noDecompressionInfo(dive.maxDepth, project.lengthUnit, dive.bottomMinutes),
+  };
+}
+
+/** Logs a dive: the cells must be the team's assigned cells on that date. */
+export async function recordDive(project: ProjectView, user: UserView, input: DiveInput, ip: string | null = null): Promise<RecordOutcome> {
+  const teams = await DiveTeam.findAll({ where: { projectId: project.id } });
+  const team = teams.find((candidate) => (typeof input.team === "number" ? candidate.id === input.team : candidate.name.toLowerCase() === input.team.toLowerCase()));
+  if (!team) return { status: 404, body: { error: `There is no dive team "${input.team}" on this project.` } };
+  const labels = [...new Set(input.cells.map((label) => label.trim().toUpperCase()))];
+  const positions = labels.map((label) => ({ label, position: parseCellLabel(label) }));
+  const unknown = positions.filter((cell) => !cell.position).map((cell) => cell.label);
+  if (unknown.length > 0) return { status: 422, body: { error: `These are not cell labels: ${unknown.join(", ")}.`, code: "unknown-cells", cells: unknown } };
+  const assigned = await Assignment.findAll({
+    where: { projectId: project.id, workDate: input.date, teamId: team.id, [Op.or]: positions.map(({ position }) => ({ row: position!.row, col: position!.col })) },
+    attributes: ["row", "col", "label"],
+  });
+  const assignedKeys = new Set(assigned.map((row) => `${row.row}/${row.col}`));
+  const notAssigned = positions.filter(({ position }) => !assignedKeys.has(`${position!.row}/${position!.col}`)).map((cell) => cell.label);
+  if (notAssigned.length > 0) {
+    return {
+      status: 422,
+      body: { error: `Cells ${notAssigned.join(", ")} are not assigned to ${team.name} on ${input.date}; the log takes dives on the team's assigned cells only (assign them on the map first).`, code: "not-assigned", cells: notAssigned },
+    };
+  }
+  const bottomMinutes = bottomMinutesOf(input);
+  const id = await getSequelize().transaction(async (transaction) => {
+    const dive = await Dive.create(
+      {
+        projectId: project.id, diveDate: input.date, teamId: team.id, diverName: input.diver,
+        leftSurfaceAt: input.leftSurface ?? null, leftBottomAt: input.leftBottom ?? null, bottomMinutes,
+        maxDepth: Math.round(input.maxDepth * 100) / 100, notes: input.notes ?? "", recordedById: user.id,
+      },
+      { transaction },
+    );
+    await DiveCell.bulkCreate(positions.map(({ label, position }) => ({ diveId: dive.id, projectId: project.id, row: position!.row, col: position!.col, label })), { transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.diveRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, team: team.name, diver: input.diver, bottomMinutes, maxDepth: input.maxDepth, cells: labels } }, transaction);
+    return dive.id;
+  });
+  const [dive] = await findDives(project, { id });
+  return { status: 201, body: { dive, caution: NO_DECOMPRESSION_CAUTION, source: NO_DECOMPRESSION_SOURCE } };
+}
+
+async function findDives(project: ProjectView, where: { id?: number; date?: string; diveIds?: number[] }): Promise<DiveView[]> {
+  const dives = await Dive.findAll({
+    where: {
+      projectId: project.id,
+      ...(where.id !== undefined ? { id: where.id } : {}),
+      ...(where.date !== undefined ? { diveDate: where.date } : {}),
+      ...(where.diveIds !== undefined ? { id: where.diveIds } : {}),
+    },
+    include: [
+      { model: DiveTeam, as: "team", attributes: ["name"] },
+      { model: DiveCell, as: "cells", attributes: ["label"] },
+    ],
+    order: [["diveDate", "DESC"], ["leftSurfaceAt", "ASC"], ["id", "ASC"]],
+  });
+  return dives.map((dive) => present(dive, project));
+}
+
+/** The day's dives, every team. */
+export function listDivesOn(project: ProjectView, date: string): Promise<DiveView[]> {
+  return findDives(project, { date });
+}
+
+/** A cell's dives, newest first (at most 50). */
+export async function listCellDives(project: ProjectView, label: string): Promise<DiveView[] | null> {
+  const position = parseCellLabel(label);
+  if (!position) return null;
+  const rows = await DiveCell.findAll({ where: { projectId: project.id, row: position.row, col: position.col }, attributes: ["diveId"], order: [["diveId", "DESC"]], limit: 50 });
+  if (rows.length === 0) return [];
+  return findDives(project, { diveIds: rows.map((row) => row.diveId) });
+}
