@@ -47,6 +47,40 @@ const envSchema = z.object({
   FIRMSAND_CLIENT_ADDRESS_HEADER: flag,
 });
 
+/**
+ * The sounding uploads' settings. Parsed on their own, at the first upload rather than at the
+ * first database connection, so a test or script that sets them after loading the models still
+ * has them taken.
+ */
+const uploadEnvSchema = z.object({
+  /** Where staged sounding files wait between upload and commit (git-ignored by default). */
+  UPLOAD_DIR: z.string().min(1).default(join(DATA_DIR, "uploads")),
+  /** Largest sounding file accepted, bytes (200 MB). */
+  UPLOAD_MAX_BYTES: z.coerce.number().int().positive().default(200 * 1024 * 1024),
+  /** Hours an upload may wait unimported and untouched before its staged file is removed: 1 hour to 90 days. */
+  UPLOAD_RETENTION_HOURS: z.coerce
+    .number({ message: "UPLOAD_RETENTION_HOURS must be a number of hours" })
+    .min(1, "UPLOAD_RETENTION_HOURS must be at least 1 hour")
+    .max(90 * 24, "UPLOAD_RETENTION_HOURS must be at most 2160 hours (90 days)")
+    .default(24),
+});
+export type UploadEnv = z.infer<typeof uploadEnvSchema>;
+let parsedUploads: UploadEnv | undefined;
+
+export function getUploadEnv(): UploadEnv {
+  parsedUploads ??= parseOrExplain(uploadEnvSchema);
+  return parsedUploads;
+}
+
+function parseOrExplain<T extends z.ZodType>(schema: T): z.infer<T> {
+  const result = schema.safeParse(process.env);
+  if (!result.success) {
+    const problems = result.error.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`).join("; ");
+    throw new Error(`Firmsand's environment is not valid: ${problems}`);
+  }
+  return result.data;
+}
+
 export type Env = z.infer<typeof envSchema> & { DB_PASSWORD: string; SESSION_SECRET: string };
 
 let parsed: Env | undefined;

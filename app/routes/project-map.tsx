@@ -5,6 +5,7 @@ import { MAP_STATUSES } from "../../shared/palette";
 import { AssignPanel } from "~/components/map/assign-panel";
 import { CellInspector } from "~/components/map/cell-inspector";
 import { cellCentreLonLat, labelIndex, type CellsData } from "~/components/map/cell-features";
+import type { LonLatWorkLimit } from "~/components/map/clip-cells";
 import { CoverageMap, type LayerKey } from "~/components/map/coverage-map";
 import { MapLegend } from "~/components/map/legend";
 import { NorthArrow } from "~/components/map/north-arrow";
@@ -13,6 +14,7 @@ import { MapSettings } from "~/components/map/map-settings";
 import { requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
 import { listDiveTeams } from "~/models/assignments.server";
+import { findProject } from "~/models/project.server";
 import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
 import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline.server";
 import type { Route } from "./+types/project-map";
@@ -21,7 +23,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, project, role } = await requireRole(request, params.projectId);
   const canAssign = role === "dive-supervisor" || role === "manager" || (role === null && user.isSiteAdmin);
   const canManage = role === "manager" || (role === null && user.isSiteAdmin);
-  const [teams, shoreline] = await Promise.all([listDiveTeams(project), getShoreline(project)]);
+  const [teams, shoreline, row] = await Promise.all([listDiveTeams(project), getShoreline(project), findProject(project.id)]);
   return {
     projectId: project.id,
     hasWorkLimit: project.hasWorkLimit,
@@ -32,6 +34,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     canManage,
     shoreline,
     shorelineMaxBytes: SHORELINE_MAX_BYTES,
+    // Lon/lat, as stored: the browser clips the cells along it.
+    workLimit: row?.workLimitGeoJson ? (JSON.parse(row.workLimitGeoJson) as LonLatWorkLimit) : null,
     teams: teams.map((team) => ({ id: team.id, name: team.name, hoses: team.hoses, size: team.members.length, belowMinimum: team.belowMinimum })),
   };
 }
@@ -268,6 +272,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
             onPointer={setPointer}
             onBearing={setBearing}
             shorelineStamp={loaderData.shoreline?.uploadedAt ?? "none"}
+            workLimit={loaderData.workLimit}
           />
           <div className="pointer-events-none absolute left-2 top-2 rounded bg-panel/90 p-1"><NorthArrow bearing={bearing} /></div>
           <p className="figures mt-1 text-xs text-muted" data-testid="coordinates">

@@ -1,4 +1,5 @@
-import type { FeatureCollection, Polygon } from "geojson";
+import type { FeatureCollection, MultiPolygon, Polygon } from "geojson";
+import { clipEdgeCells, type LonLatWorkLimit } from "./clip-cells";
 import { cellLabel, fromGridFrame, type CellGrid } from "../../../shared/grid/cell-grid";
 import { createCrs } from "../../../shared/crs";
 import type { CellsPayload } from "~/models/cells-presenter";
@@ -19,8 +20,9 @@ export interface CellProperties {
  * Cell outlines built in the browser from the grid definition: the (cols + 1) × (rows + 1) grid
  * corners are converted to lon/lat once (shared corners, one proj4 call per corner), then each
  * in-limit cell becomes a quadrilateral. Feature ids are the grid indices, for feature-state.
+ * Given the work limit (lon/lat), cells along it are clipped to the part inside (clip-cells.ts).
  */
-export function buildCellFeatures(data: CellsData): FeatureCollection<Polygon, CellProperties> {
+export function buildCellFeatures(data: CellsData, workLimit?: LonLatWorkLimit | null): FeatureCollection<Polygon | MultiPolygon, CellProperties> {
   const grid = data.grid;
   if (!grid) return { type: "FeatureCollection", features: [] };
   const crs = createCrs(data.crs.definition);
@@ -40,7 +42,7 @@ export function buildCellFeatures(data: CellsData): FeatureCollection<Polygon, C
     const offset = (cornerRow * cornerCols + cornerCol) * 2;
     return [lonLat[offset], lonLat[offset + 1]];
   };
-  const features: FeatureCollection<Polygon, CellProperties>["features"] = [];
+  const features: FeatureCollection<Polygon | MultiPolygon, CellProperties>["features"] = [];
   for (let index = 0; index < data.status.length; index++) {
     if (data.status[index] < 0) continue;
     const localRow = Math.floor(index / grid.cols);
@@ -59,6 +61,7 @@ export function buildCellFeatures(data: CellsData): FeatureCollection<Polygon, C
       geometry: { type: "Polygon", coordinates: [[first, corner(localRow, localCol + 1), corner(localRow + 1, localCol + 1), corner(localRow + 1, localCol), first]] },
     });
   }
+  if (workLimit) clipEdgeCells(features, grid, crs, workLimit);
   return { type: "FeatureCollection", features };
 }
 

@@ -3,6 +3,7 @@ import type { GeoJSONSource, Map as MapLibreMap } from "maplibre-gl";
 import { useEffect, useRef, useState } from "react";
 import "maplibre-gl/dist/maplibre-gl.css";
 import { buildCellFeatures, type CellsData } from "./cell-features";
+import type { LonLatWorkLimit } from "./clip-cells";
 import { bandColour, fillColour, type MapView } from "./paint";
 
 export type LayerKey = "cells" | "bands" | "zones" | "workLimit" | "shoreline" | "labels";
@@ -32,6 +33,8 @@ interface Props {
   onBearing: (bearing: number) => void;
   /** Changes when the manager uploads, replaces or removes the shoreline: the map re-reads it. */
   shorelineStamp?: string;
+  /** The work limit (lon/lat): cells along it are drawn clipped to it. */
+  workLimit?: LonLatWorkLimit | null;
 }
 
 function setFeatureStates(map: MapLibreMap, key: "selected" | "assigned", next: ReadonlySet<number>, previous: Set<number>) {
@@ -163,13 +166,13 @@ export function CoverageMap(props: Props) {
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map || !data) return;
-    const collection = buildCellFeatures(data);
+    const collection = buildCellFeatures(data, props.workLimit);
     (map.getSource("cells") as GeoJSONSource).setData(collection);
     selectedState.current.clear();
     assignedState.current.clear();
     if (!fitted.current && collection.features.length > 0) {
       let west = Infinity, south = Infinity, east = -Infinity, north = -Infinity;
-      for (const feature of collection.features) for (const [lon, lat] of feature.geometry.coordinates[0]) {
+      for (const feature of collection.features) for (const [lon, lat] of feature.geometry.type === "Polygon" ? feature.geometry.coordinates[0] : feature.geometry.coordinates.flatMap((polygon) => polygon[0])) {
         west = Math.min(west, lon); east = Math.max(east, lon); south = Math.min(south, lat); north = Math.max(north, lat);
       }
       map.fitBounds([[west, south], [east, north]], { padding: 30, animate: false });
