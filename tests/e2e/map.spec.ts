@@ -79,6 +79,12 @@ async function screenPoint(page: Page, lonLat: [number, number]): Promise<{ x: n
   return { x: box.x + point.x, y: box.y + point.y };
 }
 
+/** A cell whose eight neighbours are all inside the work limit (so it is drawn as a whole square). */
+function interior(data: CellsData, index: number): boolean {
+  const cols = data.grid!.cols;
+  return [-cols - 1, -cols, -cols + 1, -1, 1, cols - 1, cols, cols + 1].every((offset) => (data.status[index + offset] ?? -1) >= 0);
+}
+
 /** A cell whose four neighbours share its status, so the centre pixel is well inside one colour. */
 function neighboursShare(data: CellsData, index: number, code: number): boolean {
   const cols = data.grid!.cols;
@@ -92,7 +98,8 @@ test("the supervisor selects cells, assigns them, opens and prints the plan, and
   page.on("console", (message) => message.type() === "error" && console.log(`browser console: ${message.text()}`));
   await signIn("dive-supervisor");
   const data = await openMap(page);
-  const labels = [...labelIndex(data).keys()];
+  // Cells away from the work limit: cells along it are drawn clipped, so their centre may lie outside what is drawn.
+  const labels = [...labelIndex(data)].filter(([, index]) => interior(data, index)).map(([label]) => label);
   const date = "2030-05-14";
   await page.getByLabel("Search cell label").fill(labels[5]);
   await page.getByRole("button", { name: "Find" }).click();
@@ -257,13 +264,14 @@ test("a viewer has no map settings and cannot upload a shoreline", async ({ page
   await signIn("viewer");
   await openMap(page);
   await expect(page.getByRole("region", { name: "Map settings" })).toHaveCount(0);
+  const before = (await (await page.request.get(`/projects/${projectId}/map/style.json`)).json()) as StyleJson;
   const refused = await page.request.post(`/projects/${projectId}/map`, {
     multipart: { intent: "upload", shoreline: { name: "x.geojson", mimeType: "application/geo+json", buffer: Buffer.from("{}") } },
     headers: { Origin: new URL(baseURL!).origin },
   });
   expect(refused.status()).toBe(403);
   const style = (await (await page.request.get(`/projects/${projectId}/map/style.json`)).json()) as StyleJson;
-  expect(style.sources.shoreline.data.features).toEqual([]);
+  expect(style.sources.shoreline.data).toEqual(before.sources.shoreline.data);
 });
 
 test("the supervisor logs the day's dives on the plan page and the cell inspector lists them, flagging a long bottom time", async ({ page, signIn, baseURL }) => {
