@@ -1,6 +1,8 @@
 import { request as playwrightRequest, type Page } from "@playwright/test";
 import { STATUS_COLOURS, MAP_STATUSES, hexToRgb } from "../../shared/palette";
 import { cellCentreLonLat, labelIndex, type CellsData } from "../../app/components/map/cell-features";
+import { fromGridFrame } from "../../shared/grid/cell-grid";
+import { createCrs } from "../../shared/crs";
 import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, waitForMail } from "./fixtures";
 
 let projectId: number;
@@ -325,4 +327,78 @@ test("the supervisor logs the day's dives on the plan page and the cell inspecto
   // The demo seed's invented dives are there too.
   const seeded = await (await page.request.get(`/api/projects/${projectId}/dives?date=2026-11-10`)).json();
   expect(seeded.dives.map((dive: { diver: string }) => dive.diver).sort()).toEqual(["Juniper Adeyemi", "Odessa Marchetti"]);
+});
+
+test("the open map picks up a new survey without a reload, and its retraction too", async ({ page, signIn, baseURL }) => {
+  await signIn("dive-supervisor");
+  const data = await openMap(page);
+  const grid = data.grid!;
+  const untouched = MAP_STATUSES.indexOf("untouched");
+  // An untouched cell with in-limit neighbours on all sides, so a small survey covers it whole.
+  const index = data.status.findIndex((code, cell) => code === untouched && [cell - 1, cell + 1, cell - grid.cols, cell + grid.cols, cell - grid.cols - 1, cell + grid.cols + 1].every((other) => (data.status[other] ?? -1) >= 0));
+  expect(index, "the demo has an untouched cell").toBeGreaterThanOrEqual(0);
+  const label = [...labelIndex(data)].find(([, cell]) => cell === index)![0];
+  const detail = await (await page.request.get(`/api/projects/${projectId}/cells/${label}`)).json();
+  expect(detail.workingDepth).not.toBeNull();
+  // Soundings every 4 ft over the cell and its neighbours, 3 ft deeper than its deepest latest bottom:
+  // the divers took sediment out of it.
+  const crs = createCrs(data.crs.definition);
+  const row = Math.floor(index / grid.cols) + grid.firstRow, col = (index % grid.cols) + grid.firstCol;
+  const lines = ["easting,northing,depth"];
+  for (let u = (col - 1) * grid.cellSize; u <= (col + 2) * grid.cellSize; u += 4) {
+    for (let v = (row - 1) * grid.cellSize; v <= (row + 2) * grid.cellSize; v += 4) {
+      const [easting, northing] = fromGridFrame(grid, u, v);
+      lines.push(`${easting.toFixed(2)},${northing.toFixed(2)},${(detail.workingDepth + 3).toFixed(2)}`);
+    }
+  }
+  expect(crs.isGeographic).toBe(false);
+
+  // The page stays the same document throughout: a marker set now must survive.
+  await page.evaluate(() => ((window as unknown as { firmsandMarker: number }).firmsandMarker = 1));
+  const featureStatus = () =>
+    page.evaluate((cell) => {
+      const map = (window as unknown as { firmsandMap: { querySourceFeatures(source: string, options: object): Array<{ id?: number | string; properties: { s: number } }> } }).firmsandMap;
+      return map.querySourceFeatures("cells", { filter: ["==", ["id"], cell] })[0]?.properties.s ?? null;
+    }, index);
+  expect(await featureStatus()).toBe(untouched);
+
+  const origin = new URL(baseURL!).origin;
+  const surveyor = await playwrightRequest.newContext({ baseURL });
+  const manager = await playwrightRequest.newContext({ baseURL });
+  let surveyId: number | null = null;
+  try {
+    await signInRequest(surveyor, baseURL!, DEMO_ACCOUNTS.surveyor);
+    const imported = await surveyor.post(`/api/projects/${projectId}/surveys`, {
+      multipart: { kind: "progress", surveyedOn: "2026-12-02", waterSurfaceElevation: "31.7", file: { name: `map-refresh-${label}.csv`, mimeType: "text/csv", buffer: Buffer.from(lines.join("\n") + "\n") } },
+      headers: { Origin: origin },
+    });
+    expect(imported.status(), await imported.text()).toBe(201);
+    surveyId = (await imported.json()).id;
+
+    // The map re-reads the cells when the window regains focus (and every 30 s while visible).
+    const changed = page.waitForResponse((response) => response.url().endsWith(`/api/projects/${projectId}/cells`) && response.status() === 200);
+    await page.evaluate(() => window.dispatchEvent(new Event("focus")));
+    await changed;
+    await expect.poll(featureStatus, { timeout: 15_000 }).not.toBe(untouched);
+    expect(await page.evaluate(() => (window as unknown as { firmsandMarker?: number }).firmsandMarker)).toBe(1);
+
+    // Retracting the survey puts the cell back, on the same open map.
+    await signInRequest(manager, baseURL!, DEMO_ACCOUNTS.manager);
+    const retracted = await manager.delete(`/api/projects/${projectId}/surveys/${surveyId}`, { data: { reason: "map refresh test survey" }, headers: { Origin: origin } });
+    expect(retracted.status(), await retracted.text()).toBeLessThan(300);
+    surveyId = null;
+    await expect.poll(async () => {
+      await page.evaluate(() => window.dispatchEvent(new Event("focus")));
+      return featureStatus();
+    }, { timeout: 15_000 }).toBe(untouched);
+    expect(await page.evaluate(() => (window as unknown as { firmsandMarker?: number }).firmsandMarker)).toBe(1);
+  } finally {
+    // Leave the shared demo database as it was, even when an assertion failed.
+    if (surveyId !== null) {
+      await signInRequest(manager, baseURL!, DEMO_ACCOUNTS.manager).catch(() => undefined);
+      await manager.delete(`/api/projects/${projectId}/surveys/${surveyId}`, { data: { reason: "map refresh test survey" }, headers: { Origin: origin } });
+    }
+    await surveyor.dispose();
+    await manager.dispose();
+  }
 });
