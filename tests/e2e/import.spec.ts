@@ -80,6 +80,31 @@ test("a bad file shows its row errors and cannot be committed", async ({ page, s
   expect(await page.getByRole("row").count()).toBe(rowsBefore);
 });
 
+test("depths in metres uploaded as feet: the preview names the likely mistake and holds the import until confirmed", async ({ page, signIn }) => {
+  await signIn("surveyor");
+  await openSurveys(page);
+  await page.getByRole("link", { name: "Upload a survey" }).click();
+  await page.getByLabel("Sounding file (CSV, up to 200 MB)").setInputFiles(join(FIXTURES, "progress-depths-in-metres.csv"));
+  await page.getByLabel("Survey kind").selectOption("progress");
+  await page.getByLabel("Survey date").fill("2026-12-04");
+  await page.getByLabel(/Water-surface elevation/).fill("32.1");
+  await page.getByRole("button", { name: "Upload and check" }).click();
+  await expect(page).toHaveURL(/\/surveys\/imports\/\d+$/);
+  const note = page.getByTestId("depth-unit");
+  await expect(note).toContainText("The depths look like metres, not US survey feet as declared");
+  await expect(page.getByTestId("blockers")).toContainText("another unit than declared");
+  await expect(page.getByRole("button", { name: "Import the survey" })).toBeDisabled();
+  // The technician may confirm (a real change of the bottom can look like this, rarely).
+  await note.getByLabel(/The depths are right as given/).check();
+  await page.getByRole("button", { name: "Check again with these choices" }).click();
+  await expect(page.getByTestId("depth-unit").getByLabel(/The depths are right as given/)).toBeChecked();
+  // Nothing else holds this file back, so the confirmation unlocks the import.
+  await expect(page.getByTestId("blockers")).toHaveCount(0);
+  await expect(page.getByRole("button", { name: "Import the survey" })).toBeEnabled();
+  await page.getByRole("button", { name: "Discard this upload" }).click();
+  await expect(page.getByRole("heading", { name: "Surveys" })).toBeVisible();
+});
+
 test("a viewer cannot reach the upload page or the API", async ({ page, signIn, request, baseURL }) => {
   const projectId = await demoProjectId(request, baseURL!);
   await signIn("viewer");

@@ -60,7 +60,6 @@ interface Candidate {
 }
 
 const UNIT_WORDS: Record<LengthUnit, string> = { "us-ft": "US survey feet", ft: "feet", m: "metres" };
-const UNIT_SHORT: Record<LengthUnit, string> = { "us-ft": "ft", ft: "ft", m: "m" };
 
 /** The mistakes a file declared in `declared` can plausibly carry. */
 function candidatesFor(declared: LengthUnit): Candidate[] {
@@ -161,7 +160,7 @@ export function findDepthUnitMistake(input: DepthUnitCheckInput): DepthUnitMista
   const message =
     `The ${what} look like ${candidate.looksLike}, not ${UNIT_WORDS[input.declaredUnit]} as declared: over the ${ratios.length} cells surveyed before, they are ${times} ${compared}, ` +
     `and ${candidate.factor < 1 ? `multiplied by ${formatFactor(1 / candidate.factor)}` : `divided by ${formatFactor(candidate.factor)}`} they agree with the earlier surveys in ${Math.round(best.share * 100)} % of those cells, as far as a dredge pass can change them (as given, in ${Math.round(asGiven * 100)} %).${relation} ` +
-    `${candidate.fix} and check again, or confirm that the ${what} are right as given (values in ${UNIT_SHORT[input.projectUnit]} after conversion).`;
+    `${candidate.fix} and check again, or confirm that the ${what} are right as given.`;
   return { kind: candidate.kind, factor: candidate.factor, typicalRatio, cellsCompared: ratios.length, agreeingAsGiven: asGiven, agreeingCorrected: best.share, message };
 }
 
