@@ -5,17 +5,19 @@
 //           file (tests/bench/import.ts, with stages), then POSTed to the production build's API
 //           (tests/bench/import-http.ts, the server's own peak memory); the test MariaDB's
 //           `firmsand_bench` database
+//   event-loop  the longest event-loop stall while a 1,000,000-sounding recompute and the map's
+//           surfaces run on the request thread and in the engine pool (tests/bench/engine-event-loop.ts)
 //   map     navigation to the cells drawn for a 100,000-cell bay in headless Chromium, and the
 //           bytes sent (tests/bench/map.ts), against the production build served on BENCH_PORT
 //           (default 3200)
-// Options: --only engine|import|map (repeatable); anything else goes to the engine bench
+// Options: --only engine|import|event-loop|map (repeatable); anything else goes to the engine bench
 // (for example --only engine --runs 1). Leaves no process behind: what it started, it stops.
 import { spawn } from "node:child_process";
 import { bin, buildApp, ensureDebianPackage, ensureNpmPackages, isPortOpen, log, run, takeCheckoutLock, waitFor } from "./lib.mjs";
 import { ensureMariaDb, stopMariaDb } from "./db.mjs";
 
 const args = process.argv.slice(2);
-const parts = ["engine", "import", "map"];
+const parts = ["engine", "import", "event-loop", "map"];
 const chosen = [];
 const passThrough = [];
 for (let index = 0; index < args.length; index++) {
@@ -55,29 +57,36 @@ if (needsDatabase) {
       log("bench: sounding import, in process");
       if ((await runStep(bin("tsx"), ["tests/bench/import.ts"], env)) !== 0) failed = true;
     }
-    // The production build, served fresh: the import over HTTP runs first so the server's peak
-    // memory (VmHWM) is the import's.
-    const port = Number(process.env.BENCH_PORT ?? 3200);
-    if (await isPortOpen(port)) throw new Error(`port ${port} is taken; set BENCH_PORT to a free port`);
-    const appEnv = { ...env, PORT: String(port), HOST: "127.0.0.1", BENCH_BASE_URL: `http://127.0.0.1:${port}` };
-    log("bench: building the app");
-    buildApp(appEnv);
-    const app = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "ignore", "inherit"], env: appEnv });
-    cleanups.push(async () => {
-      if (app.exitCode !== null) return;
-      app.kill("SIGTERM");
-      await new Promise((done) => app.once("exit", done));
-    });
-    await waitFor(() => isPortOpen(port), { timeoutMs: 30_000, what: `the app on port ${port}` });
-    const benchEnv = { ...appEnv, BENCH_APP_PID: String(app.pid) };
-    if (selected.includes("import")) {
-      log("bench: sounding import, over HTTP");
-      if ((await runStep(bin("tsx"), ["tests/bench/import-http.ts"], benchEnv)) !== 0) failed = true;
+    if (selected.includes("event-loop")) {
+      log("bench: event loop while the engine works");
+      const loopEnv = { ...env, NODE_OPTIONS: [env.NODE_OPTIONS, "--expose-gc"].filter(Boolean).join(" ") };
+      if ((await runStep(bin("tsx"), ["tests/bench/engine-event-loop.ts"], loopEnv)) !== 0) failed = true;
     }
-    if (selected.includes("map")) {
-      log("bench: coverage map in Chromium");
-      const chromium = ensureDebianPackage("chromium", "chromium");
-      if ((await runStep(bin("tsx"), ["tests/bench/map.ts"], { ...benchEnv, CHROMIUM_PATH: chromium })) !== 0) failed = true;
+    if (selected.includes("import") || selected.includes("map")) {
+      // The production build, served fresh: the import over HTTP runs first so the server's peak
+      // memory (VmHWM) is the import's.
+      const port = Number(process.env.BENCH_PORT ?? 3200);
+      if (await isPortOpen(port)) throw new Error(`port ${port} is taken; set BENCH_PORT to a free port`);
+      const appEnv = { ...env, PORT: String(port), HOST: "127.0.0.1", BENCH_BASE_URL: `http://127.0.0.1:${port}` };
+      log("bench: building the app");
+      buildApp(appEnv);
+      const app = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "ignore", "inherit"], env: appEnv });
+      cleanups.push(async () => {
+        if (app.exitCode !== null) return;
+        app.kill("SIGTERM");
+        await new Promise((done) => app.once("exit", done));
+      });
+      await waitFor(() => isPortOpen(port), { timeoutMs: 30_000, what: `the app on port ${port}` });
+      const benchEnv = { ...appEnv, BENCH_APP_PID: String(app.pid) };
+      if (selected.includes("import")) {
+        log("bench: sounding import, over HTTP");
+        if ((await runStep(bin("tsx"), ["tests/bench/import-http.ts"], benchEnv)) !== 0) failed = true;
+      }
+      if (selected.includes("map")) {
+        log("bench: coverage map in Chromium");
+        const chromium = ensureDebianPackage("chromium", "chromium");
+        if ((await runStep(bin("tsx"), ["tests/bench/map.ts"], { ...benchEnv, CHROMIUM_PATH: chromium })) !== 0) failed = true;
+      }
     }
   } catch (error) {
     log(error.stack ?? String(error));

@@ -9,85 +9,40 @@
  *   DB_PORT=3308 DB_NAME=firmsand_bench NODE_OPTIONS=--expose-gc npx tsx tests/bench/engine-event-loop.ts [--rows N]
  */
 import { monitorEventLoopDelay } from "node:perf_hooks";
-import { createCrs } from "../../shared/crs";
-import { resolveCrsDefinition } from "../../app/lib/epsg.server";
-import { Project, Survey, getSequelize } from "../../app/lib/db.server";
+import { Survey, getSequelize } from "../../app/lib/db.server";
 import { closeAppEnginePool, type EngineWorkerPool } from "../../app/lib/engine-worker.server";
 import { loadProjectGeometry } from "../../app/lib/import/project-geometry.server";
 import type { ComputationSurvey } from "../../app/lib/import/project-computation";
 import { recomputeProjectStatistics, serverEnginePool } from "../../app/lib/import/recompute.server";
 import { computeSurfacesIn } from "../../app/lib/map/project-surfaces.server";
 import { closeSequelize } from "../../db/connection.server";
+import { baselinePoints, createBenchProject } from "./import-fixture";
 
 const rowsIndex = process.argv.indexOf("--rows");
 const rows = rowsIndex > 0 ? Number(process.argv[rowsIndex + 1]) : 1_000_000;
 if (!Number.isInteger(rows) || rows < 1000) throw new Error(`--rows wants a whole number of at least 1000, not ${process.argv[rowsIndex + 1]}`);
 
-// Seeded generator (mulberry32) so every run computes the same survey.
-function random(seed: number) {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let mixed = Math.imul(state ^ (state >>> 15), 1 | state);
-    mixed ^= mixed + Math.imul(mixed ^ (mixed >>> 7), 61 | mixed);
-    return ((mixed ^ (mixed >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-// An elliptical basin 1,200 ft × 800 ft in EPSG:2237 (fictional place), water surface at 30 ft.
-const centre = { x: 640_000, y: 1_520_000 };
-const radius = { x: 600, y: 400 };
 const waterSurface = 30;
 
 function baselineSoundings(id: number): ComputationSurvey {
-  const next = random(20261201);
-  const spacing = Math.sqrt((Math.PI * radius.x * radius.y) / rows);
   const easting = new Float64Array(rows);
   const northing = new Float64Array(rows);
   const elevation = new Float64Array(rows);
   const refusal = new Float64Array(rows);
-  let written = 0;
-  for (let y = centre.y - radius.y; y <= centre.y + radius.y && written < rows; y += spacing) {
-    for (let x = centre.x - radius.x; x <= centre.x + radius.x && written < rows; x += spacing) {
-      const u = (x - centre.x) / radius.x;
-      const v = (y - centre.y) / radius.y;
-      if (u * u + v * v > 1) continue;
-      const depth = 6 + 2 * (1 - u * u - v * v) + (next() - 0.5) * 0.1;
-      const probe = depth + 1 + 2 * (1 - u * u) + (next() - 0.5) * 0.1;
-      easting[written] = x + (next() - 0.5) * 0.2;
-      northing[written] = y + (next() - 0.5) * 0.2;
-      elevation[written] = waterSurface - depth;
-      refusal[written] = waterSurface - probe;
-      written++;
-    }
-  }
+  let index = 0;
+  const written = baselinePoints(rows, (x, y, depth, probe) => {
+    easting[index] = x;
+    northing[index] = y;
+    elevation[index] = waterSurface - depth;
+    refusal[index] = waterSurface - probe;
+    index++;
+  });
   const cut = (values: Float64Array) => values.slice(0, written);
   return { id, kind: "baseline", surveyedOn: "2026-12-01", easting: cut(easting), northing: cut(northing), elevation: cut(elevation), refusalElevation: cut(refusal) };
 }
 
 async function createProject() {
-  const crs = createCrs(resolveCrsDefinition("EPSG:2237").definition);
-  const ring: Array<[number, number]> = [];
-  for (let step = 0; step <= 128; step++) {
-    const angle = (step / 128) * 2 * Math.PI;
-    ring.push(crs.toLonLat(centre.x + radius.x * Math.cos(angle), centre.y + radius.y * Math.sin(angle)));
-  }
-  ring[ring.length - 1] = ring[0];
-  const project = await Project.create({
-    name: "Event-loop benchmark basin (synthetic)",
-    slug: `bench-event-loop-${Date.now()}`,
-    crs: "EPSG:2237",
-    lengthUnit: "us-ft",
-    gridOriginE: centre.x - radius.x,
-    gridOriginN: centre.y - radius.y,
-    cellSize: 20,
-    rasterResolution: 1,
-    maxEdge: 30,
-    tolerance: 0.25,
-    firmShare: 0.95,
-    minCoverage: 0.8,
-    workLimitGeoJson: JSON.stringify({ type: "Polygon", coordinates: [ring] }),
-  });
+  const project = await createBenchProject("Event-loop benchmark basin (synthetic)", "bench-event-loop");
   // The survey row only: its soundings stay in memory, as the commit's do when it recomputes.
   const survey = await Survey.create({
     projectId: project.id, kind: "baseline", surveyedOn: "2026-12-01", timeZone: "UTC", waterSurfaceElevation: waterSurface, fileHasElevations: false,

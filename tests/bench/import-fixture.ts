@@ -9,7 +9,7 @@ import { resolveCrsDefinition } from "../../app/lib/epsg.server";
 import { Project } from "../../app/lib/db.server";
 
 // Seeded generator (mulberry32) so every run reads the same file.
-function random(seed: number) {
+export function random(seed: number) {
   let state = seed >>> 0;
   return () => {
     state = (state + 0x6d2b79f5) >>> 0;
@@ -29,12 +29,13 @@ export function rowsArgument(fallback = 1_000_000): number {
   return rows;
 }
 
-/** Writes the baseline CSV in batches (the generator itself holds little) and returns its row count. */
-export function writeBaselineCsv(path: string, rows: number): number {
+/** One synthetic baseline sounding: position in EPSG:2237 us-ft, water depth and probe depth below the surface. */
+export type BaselinePoint = (easting: number, northing: number, depth: number, probe: number) => void;
+
+/** Visits about `rows` seeded soundings of the baseline (always the same ones) and returns how many. */
+export function baselinePoints(rows: number, visit: BaselinePoint): number {
   const next = random(20261201);
   const spacing = Math.sqrt((Math.PI * radius.x * radius.y) / rows);
-  const descriptor = openSync(path, "w");
-  let parts: string[] = ["point_id,easting,northing,depth,probe"];
   let written = 0;
   for (let y = centre.y - radius.y; y <= centre.y + radius.y && written < rows; y += spacing) {
     for (let x = centre.x - radius.x; x <= centre.x + radius.x && written < rows; x += spacing) {
@@ -43,20 +44,31 @@ export function writeBaselineCsv(path: string, rows: number): number {
       if (u * u + v * v > 1) continue;
       const depth = 6 + 2 * (1 - u * u - v * v) + (next() - 0.5) * 0.1;
       const probe = depth + 1 + 2 * (1 - u * u) + (next() - 0.5) * 0.1;
-      parts.push(`P${written + 1},${(x + (next() - 0.5) * 0.2).toFixed(2)},${(y + (next() - 0.5) * 0.2).toFixed(2)},${depth.toFixed(2)},${probe.toFixed(2)}`);
+      visit(x + (next() - 0.5) * 0.2, y + (next() - 0.5) * 0.2, depth, probe);
       written++;
-      if (parts.length >= 10_000) {
-        writeSync(descriptor, `${parts.join("\n")}\n`);
-        parts = [];
-      }
     }
   }
+  return written;
+}
+
+/** Writes the baseline CSV in batches (the generator itself holds little) and returns its row count. */
+export function writeBaselineCsv(path: string, rows: number): number {
+  const descriptor = openSync(path, "w");
+  let parts: string[] = ["point_id,easting,northing,depth,probe"];
+  let pointId = 0;
+  const written = baselinePoints(rows, (easting, northing, depth, probe) => {
+    parts.push(`P${++pointId},${easting.toFixed(2)},${northing.toFixed(2)},${depth.toFixed(2)},${probe.toFixed(2)}`);
+    if (parts.length >= 10_000) {
+      writeSync(descriptor, `${parts.join("\n")}\n`);
+      parts = [];
+    }
+  });
   if (parts.length > 0) writeSync(descriptor, `${parts.join("\n")}\n`);
   closeSync(descriptor);
   return written;
 }
 
-export function createBenchProject(): Promise<Project> {
+export function createBenchProject(name = "Import benchmark basin (synthetic)", slugPrefix = "bench-import"): Promise<Project> {
   const crs = createCrs(resolveCrsDefinition("EPSG:2237").definition);
   const ring: Array<[number, number]> = [];
   for (let step = 0; step <= 128; step++) {
@@ -65,8 +77,8 @@ export function createBenchProject(): Promise<Project> {
   }
   ring[ring.length - 1] = ring[0];
   return Project.create({
-    name: "Import benchmark basin (synthetic)",
-    slug: `bench-import-${Date.now()}`,
+    name,
+    slug: `${slugPrefix}-${Date.now()}`,
     crs: "EPSG:2237",
     lengthUnit: "us-ft",
     gridOriginE: centre.x - radius.x,
