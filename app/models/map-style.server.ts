@@ -34,7 +34,12 @@ export async function buildMapStyle(project: ProjectView) {
       "work-limit": { type: "geojson", data: workLimit ? { type: "Feature", properties: {}, geometry: workLimit } : emptyCollection },
       zones: { type: "geojson", data: { type: "FeatureCollection", features: zoneFeatures } },
       shoreline: { type: "geojson", data: shoreline ? JSON.parse(shoreline.geoJson) : emptyCollection },
-      cells: { type: "geojson", data: emptyCollection },
+      // No tile buffer: cells are filled squares, nothing drawn reaches over a tile's edge.
+      cells: { type: "geojson", data: emptyCollection, buffer: 0 },
+      // The few selected and assigned cells, outlined from sources of their own: an outline layer
+      // over all 100,000 cells of a bay (even at width 0) doubled each frame and the tiling work.
+      "cells-selected": { type: "geojson", data: emptyCollection },
+      "cells-assigned": { type: "geojson", data: emptyCollection },
       bands: { type: "geojson", data: emptyCollection },
     },
     layers: [
@@ -44,19 +49,20 @@ export async function buildMapStyle(project: ProjectView) {
       { id: "work-limit-water", type: "fill", source: "work-limit", paint: { "fill-color": WATER_COLOUR } },
       {
         id: "cells-fill", type: "fill", source: "cells",
-        paint: { "fill-color": STATUS_COLOURS["no-data"], "fill-opacity": 1 },
+        // Without antialiasing: adjoining squares need no smoothed edges, and it costs the most per frame.
+        paint: { "fill-color": STATUS_COLOURS["no-data"], "fill-opacity": 1, "fill-antialias": false },
       },
       { id: "cells-grid", type: "line", source: "cells", minzoom: 17, paint: { "line-color": "#ffffff", "line-width": 0.5, "line-opacity": 0.6 } },
       { id: "bands-fill", type: "fill", source: "bands", layout: { visibility: "none" }, paint: { "fill-color": "#999999", "fill-opacity": 0.75 } },
       { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": "#3d4a50", "line-width": 1.5, "line-dasharray": [3, 2] } },
       { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": "#a3242a", "line-width": 2 } },
       {
-        id: "cells-assigned", type: "line", source: "cells",
-        paint: { "line-color": "#1d2528", "line-width": ["case", ["boolean", ["feature-state", "assigned"], false], 2, 0], "line-dasharray": [1, 1] },
+        id: "cells-assigned", type: "line", source: "cells-assigned",
+        paint: { "line-color": "#1d2528", "line-width": 2, "line-dasharray": [1, 1] },
       },
       {
-        id: "cells-selected", type: "line", source: "cells",
-        paint: { "line-color": "#d4145a", "line-width": ["case", ["boolean", ["feature-state", "selected"], false], 3, 0] },
+        id: "cells-selected", type: "line", source: "cells-selected",
+        paint: { "line-color": "#d4145a", "line-width": 3 },
       },
       {
         id: "cell-labels", type: "symbol", source: "cells", minzoom: 19,

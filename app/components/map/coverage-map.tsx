@@ -1,10 +1,11 @@
 import type { FeatureCollection } from "geojson";
-import type { GeoJSONSource, Map as MapLibreMap } from "maplibre-gl";
+import type { GeoJSONSource, ImageSource, Map as MapLibreMap } from "maplibre-gl";
 import { useEffect, useRef, useState } from "react";
 import "maplibre-gl/dist/maplibre-gl.css";
 import { buildCellFeatures, type CellsData } from "./cell-features";
+import { QUICK_LOOK_FROM_CELLS, cellImageCorners, cellIndexAtLonLat, inLimitCellCount, paintCellImage } from "./cell-image";
 import type { LonLatWorkLimit } from "./clip-cells";
-import { bandColour, fillColour, type MapView } from "./paint";
+import { bandColour, cellColour, fillColour, type MapView } from "./paint";
 
 export type LayerKey = "cells" | "bands" | "zones" | "workLimit" | "shoreline" | "labels";
 export const LAYER_GROUPS: Record<LayerKey, string[]> = {
@@ -37,11 +38,55 @@ interface Props {
   workLimit?: LonLatWorkLimit | null;
 }
 
-function setFeatureStates(map: MapLibreMap, key: "selected" | "assigned", next: ReadonlySet<number>, previous: Set<number>) {
-  for (const id of previous) if (!next.has(id)) map.setFeatureState({ source: "cells", id }, { [key]: false });
-  for (const id of next) if (!previous.has(id)) map.setFeatureState({ source: "cells", id }, { [key]: true });
-  previous.clear();
-  for (const id of next) previous.add(id);
+type CellFeature = ReturnType<typeof buildCellFeatures>["features"][number];
+
+/** The outlined cells' own source: only their features, so outlines cost nothing for the rest. */
+function setMarkedCells(map: MapLibreMap, source: "cells-selected" | "cells-assigned", ids: ReadonlySet<number>, byId: ReadonlyMap<number, CellFeature>) {
+  const features: CellFeature[] = [];
+  for (const id of ids) {
+    const feature = byId.get(id);
+    if (feature) features.push(feature);
+  }
+  (map.getSource(source) as GeoJSONSource | undefined)?.setData({ type: "FeatureCollection", features } as never);
+}
+
+const QUICK_LOOK = "cells-quick-look";
+
+/** Shows (or repaints) a large grid's cells as one image, a pixel per cell, under the cell shapes. */
+function showQuickLook(map: MapLibreMap, data: CellsData, view: MapView) {
+  const image = paintCellImage(data, cellColour(view, data));
+  const canvas = document.createElement("canvas");
+  canvas.width = image.width;
+  canvas.height = image.height;
+  canvas.getContext("2d")!.putImageData(new ImageData(image.pixels as Uint8ClampedArray<ArrayBuffer>, image.width, image.height), 0, 0);
+  const url = canvas.toDataURL("image/png");
+  const coordinates = cellImageCorners(data) as [[number, number], [number, number], [number, number], [number, number]];
+  const source = map.getSource(QUICK_LOOK) as ImageSource | undefined;
+  if (source) {
+    source.updateImage({ url, coordinates });
+    return;
+  }
+  map.addSource(QUICK_LOOK, { type: "image", url, coordinates });
+  map.addLayer({ id: QUICK_LOOK, type: "raster", source: QUICK_LOOK, paint: { "raster-resampling": "nearest", "raster-fade-duration": 0 } }, "cells-fill");
+}
+
+function removeQuickLook(map: MapLibreMap) {
+  if (map.getLayer(QUICK_LOOK)) map.removeLayer(QUICK_LOOK);
+  if (map.getSource(QUICK_LOOK)) map.removeSource(QUICK_LOOK);
+}
+
+/** Calls `drawn` once a frame with the loaded quick look has been rendered. */
+function afterQuickLookDrawn(map: MapLibreMap, drawn: () => void) {
+  const check = () => {
+    if (!map.getSource(QUICK_LOOK)) return;
+    if (!map.isSourceLoaded(QUICK_LOOK)) {
+      map.once("sourcedata", check);
+      return;
+    }
+    map.once("render", drawn);
+    map.triggerRepaint();
+  };
+  check();
 }
 
 /**
@@ -52,8 +97,11 @@ export function CoverageMap(props: Props) {
   const container = useRef<HTMLDivElement>(null);
   const mapRef = useRef<MapLibreMap | null>(null);
   const [ready, setReady] = useState(false);
-  const selectedState = useRef(new Set<number>());
-  const assignedState = useRef(new Set<number>());
+  const cellsById = useRef<ReadonlyMap<number, CellFeature>>(new Map());
+  // A large grid shows the quick look until MapLibre has tiled and drawn the cell shapes once.
+  const quickLook = useRef(false);
+  const quickLookView = useRef<MapView | null>(null);
+  const shapesDrawn = useRef(false);
   const fitted = useRef(false);
   const callbacks = useRef(props);
   callbacks.current = props;
@@ -87,6 +135,13 @@ export function CoverageMap(props: Props) {
       map.on("click", "cells-fill", (event) => {
         const id = event.features?.[0]?.id;
         if (typeof id === "number") callbacks.current.onCellClick(id, event.originalEvent.shiftKey);
+      });
+      // While the quick look stands in for the shapes, a click finds its cell from the grid.
+      map.on("click", (event) => {
+        const data = callbacks.current.data;
+        if (!quickLook.current || !data || !map || map.queryRenderedFeatures(event.point, { layers: ["cells-fill"] }).length > 0) return;
+        const index = cellIndexAtLonLat(data, event.lngLat.lng, event.lngLat.lat);
+        if (index >= 0) callbacks.current.onCellClick(index, event.originalEvent.shiftKey);
       });
       map.on("mouseenter", "cells-fill", () => map && (map.getCanvas().style.cursor = "pointer"));
       map.on("mouseleave", "cells-fill", () => map && (map.getCanvas().style.cursor = ""));
@@ -166,35 +221,75 @@ export function CoverageMap(props: Props) {
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map || !data) return;
-    const collection = buildCellFeatures(data, props.workLimit);
-    // Handed over as JSON text behind a blob URL, parsed in the map's worker: posting 100,000
-    // features as objects cost seconds of cloning on both threads.
-    const cellsUrl = URL.createObjectURL(new Blob([JSON.stringify(collection)], { type: "application/json" }));
-    (map.getSource("cells") as GeoJSONSource).setData(cellsUrl).finally(() => URL.revokeObjectURL(cellsUrl));
-    selectedState.current.clear();
-    assignedState.current.clear();
-    if (!fitted.current && collection.features.length > 0) {
+    const element = container.current;
+    let cancelled = false;
+    const fit = (points: Iterable<number[]>) => {
+      if (fitted.current) return;
       let west = Infinity, south = Infinity, east = -Infinity, north = -Infinity;
-      for (const feature of collection.features) for (const [lon, lat] of feature.geometry.type === "Polygon" ? feature.geometry.coordinates[0] : feature.geometry.coordinates.flatMap((polygon) => polygon[0])) {
+      for (const [lon, lat] of points) {
         west = Math.min(west, lon); east = Math.max(east, lon); south = Math.min(south, lat); north = Math.max(north, lat);
       }
+      if (!Number.isFinite(west)) return;
       map.fitBounds([[west, south], [east, north]], { padding: 30, animate: false });
       fitted.current = true;
-    }
-    map.once("idle", () => container.current?.setAttribute("data-cells-drawn", String(collection.features.length)));
+    };
+    const drawShapes = () => {
+      if (cancelled) return;
+      const collection = buildCellFeatures(data, callbacks.current.workLimit);
+      // Handed over as JSON text behind a blob URL, parsed in the map's worker: posting 100,000
+      // features as objects cost seconds of cloning on both threads.
+      const cellsUrl = URL.createObjectURL(new Blob([JSON.stringify(collection)], { type: "application/json" }));
+      (map.getSource("cells") as GeoJSONSource).setData(cellsUrl).finally(() => URL.revokeObjectURL(cellsUrl));
+      cellsById.current = new Map(collection.features.map((feature) => [feature.id as number, feature]));
+      setMarkedCells(map, "cells-selected", callbacks.current.selected, cellsById.current);
+      setMarkedCells(map, "cells-assigned", callbacks.current.assigned, cellsById.current);
+      fit((function* () {
+        for (const feature of collection.features) yield* feature.geometry.type === "Polygon" ? feature.geometry.coordinates[0] : feature.geometry.coordinates.flatMap((polygon) => polygon[0]);
+      })());
+      map.once("idle", () => {
+        shapesDrawn.current = true;
+        if (quickLook.current) {
+          quickLook.current = false;
+          removeQuickLook(map);
+        }
+        element?.setAttribute("data-cells-drawn", String(collection.features.length));
+        element?.setAttribute("data-cells-drawn-as", "shapes");
+      });
+    };
+    if (!shapesDrawn.current && inLimitCellCount(data) >= QUICK_LOOK_FROM_CELLS) {
+      // A large grid: the quick look first, and the shapes (seconds of tiling in MapLibre's
+      // worker) only once it is on screen, so building them does not hold up its first frame.
+      quickLook.current = true;
+      quickLookView.current = callbacks.current.view;
+      showQuickLook(map, data, callbacks.current.view);
+      fit(cellImageCorners(data));
+      afterQuickLookDrawn(map, () => {
+        if (cancelled) return;
+        element?.setAttribute("data-cells-drawn", String(inLimitCellCount(data)));
+        element?.setAttribute("data-cells-drawn-as", "quick look");
+        setTimeout(drawShapes, 0);
+      });
+    } else drawShapes();
+    return () => {
+      cancelled = true;
+    };
   }, [ready, data]);
 
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map || !data) return;
     map.setPaintProperty("cells-fill", "fill-color", fillColour(view, data) as never);
+    if (quickLook.current && quickLookView.current !== view) {
+      quickLookView.current = view;
+      showQuickLook(map, data, view);
+    }
   }, [ready, data, view]);
 
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map) return;
     for (const [key, ids] of Object.entries(LAYER_GROUPS) as Array<[LayerKey, string[]]>) {
-      for (const id of ids) map.setLayoutProperty(id, "visibility", layers[key] ? "visible" : "none");
+      for (const id of key === "cells" && map.getLayer(QUICK_LOOK) ? [...ids, QUICK_LOOK] : ids) map.setLayoutProperty(id, "visibility", layers[key] ? "visible" : "none");
     }
   }, [ready, layers]);
 
@@ -208,9 +303,14 @@ export function CoverageMap(props: Props) {
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map || !data) return;
-    setFeatureStates(map, "selected", selected, selectedState.current);
-    setFeatureStates(map, "assigned", assigned, assignedState.current);
-  }, [ready, data, selected, assigned]);
+    setMarkedCells(map, "cells-selected", selected, cellsById.current);
+  }, [ready, data, selected]);
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !data) return;
+    setMarkedCells(map, "cells-assigned", assigned, cellsById.current);
+  }, [ready, data, assigned]);
 
   useEffect(() => {
     const map = mapRef.current;
