@@ -21,16 +21,44 @@ function removedSteps(data: CellsData): number[] {
   return [0.5, step, step * 2, step * 3, step * 4];
 }
 
-export function fillColour(view: MapView, data: CellsData): unknown {
-  if (view === "status") {
-    return ["match", ["get", "s"], ...MAP_STATUSES.flatMap((status, code) => [code, STATUS_COLOURS[status]]), STATUS_COLOURS["no-data"]];
-  }
+/** How a view colours a cell: by status code, or by steps of thickness ("t") or removed volume ("r"). */
+type ColourRule = { property: "s" } | { property: "t" | "r"; steps: number[]; colours: string[] };
+
+function colourRule(view: MapView, data: CellsData): ColourRule {
+  if (view === "status") return { property: "s" };
   const steps = view === "thickness" ? thicknessSteps(data) : removedSteps(data);
   const colours = view === "thickness" ? sedimentRamp(steps.length + 1) : coolRamp(steps.length + 1);
-  const property = view === "thickness" ? "t" : "r";
-  const stepExpression: unknown[] = ["step", ["get", property], colours[0]];
-  steps.forEach((step, index) => stepExpression.push(step, colours[index + 1]));
-  return ["case", ["==", ["get", "s"], 0], STATUS_COLOURS["no-data"], view === "thickness" ? ["<", ["get", "t"], 0] : false, STATUS_COLOURS["no-data"], stepExpression];
+  return { property: view === "thickness" ? "t" : "r", steps, colours };
+}
+
+/** The cells layer's fill colour as a MapLibre expression over the cell properties (cell-features.ts). */
+export function fillColour(view: MapView, data: CellsData): unknown {
+  const rule = colourRule(view, data);
+  if (rule.property === "s") {
+    return ["match", ["get", "s"], ...MAP_STATUSES.flatMap((status, code) => [code, STATUS_COLOURS[status]]), STATUS_COLOURS["no-data"]];
+  }
+  const stepExpression: unknown[] = ["step", ["get", rule.property], rule.colours[0]];
+  rule.steps.forEach((step, index) => stepExpression.push(step, rule.colours[index + 1]));
+  return ["case", ["==", ["get", "s"], 0], STATUS_COLOURS["no-data"], rule.property === "t" ? ["<", ["get", "t"], 0] : false, STATUS_COLOURS["no-data"], stepExpression];
+}
+
+/**
+ * The same colours as `fillColour`, per grid index straight from the payload's arrays: for the
+ * quick-look image drawn before MapLibre has tiled the cells (cell-image.ts).
+ */
+export function cellColour(view: MapView, data: CellsData): (index: number) => string {
+  const rule = colourRule(view, data);
+  const noData = STATUS_COLOURS["no-data"];
+  if (rule.property === "s") return (index) => STATUS_COLOURS[MAP_STATUSES[data.status[index]]] ?? noData;
+  const { steps, colours } = rule;
+  return (index) => {
+    if (data.status[index] === 0) return noData;
+    const value = rule.property === "t" ? (data.remainingThickness[index] ?? -1) : data.removedVolume[index];
+    if (rule.property === "t" && value < 0) return noData;
+    let colour = colours[0];
+    for (let step = 0; step < steps.length && value >= steps[step]; step++) colour = colours[step + 1];
+    return colour;
+  };
 }
 
 export function legendFor(view: MapView, data: CellsData): LegendEntry[] {
