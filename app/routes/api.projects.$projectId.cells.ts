@@ -1,5 +1,5 @@
 import { requireRole } from "~/lib/access.server";
-import { cellsVersion, getCellsPayload } from "~/models/cells.server";
+import { cellsVersion, getCellsPayloadJson } from "~/models/cells.server";
 import type { Route } from "./+types/api.projects.$projectId.cells";
 
 // GET /api/projects/<id>/cells — the grid definition plus compact per-cell arrays (any member).
@@ -7,9 +7,10 @@ import type { Route } from "./+types/api.projects.$projectId.cells";
 // If-None-Match and gets a bodiless 304 until an import, a retract or a settings change.
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = await requireRole(request, params.projectId);
-  const etag = `"${await cellsVersion(project)}"`;
+  const version = await cellsVersion(project);
+  const etag = `"${version}"`;
   const headers = { "Cache-Control": "private, no-cache", ETag: etag };
   const ifNoneMatch = request.headers.get("If-None-Match");
   if (ifNoneMatch && ifNoneMatch.split(",").some((tag) => tag.trim().replace(/^W\//, "") === etag)) return new Response(null, { status: 304, headers });
-  return Response.json(await getCellsPayload(project), { headers });
+  return new Response(await getCellsPayloadJson(project, version), { headers: { ...headers, "Content-Type": "application/json; charset=utf-8" } });
 }

@@ -78,6 +78,9 @@ export function commitSurvey(input: CommitSurveyInput): Promise<CommittedSurvey>
           elevation: prepared.elevation,
           refusalElevation: prepared.refusalElevation,
         },
+        // The soundings are stored; their arrays go to the engine thread rather than being copied
+        // (a 1,000,000-row file: 32 MB less at the commit's peak).
+        transferExtra: true,
         onProgress: (stage, fraction) => input.onProgress?.(`computing: ${stage}`, fraction),
       });
       await recordAudit(

@@ -69,6 +69,8 @@ export async function recomputeProjectStatistics(
   transaction: Transaction,
   options: {
     extra?: ComputationSurvey;
+    /** The caller is done with `extra`'s arrays: hand them to the engine thread instead of copying. */
+    transferExtra?: boolean;
     onProgress?: ProgressCallback;
     /** Where to compute: the server's pool by default; null computes on this thread (see ENGINE_THREADS). */
     pool?: EngineWorkerPool | null;
@@ -91,7 +93,7 @@ export async function recomputeProjectStatistics(
   const computation = await computeFigures(
     { surveys, workLimit: geometry.workLimit, zones: geometry.zones, settings: geometry.settings, lengthUnit: geometry.lengthUnit },
     options.pool === undefined ? serverEnginePool() : options.pool,
-    { onProgress: options.onProgress, transferSurveys: new Set(fromDatabase) },
+    { onProgress: options.onProgress, transferSurveys: new Set(options.extra && options.transferExtra ? [...fromDatabase, options.extra.id] : fromDatabase) },
   );
   if (!computation) return { computation: null, reason: "There is no active baseline survey yet." };
 
