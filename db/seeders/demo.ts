@@ -1,6 +1,6 @@
 import type { Sequelize } from "sequelize";
 import { hashPassword } from "../../app/lib/password.server";
-import { Assignment, CellResult, Dive, DiveCell, DiveTeam, Membership, Project, Survey, User, Zone, initModels } from "../models";
+import { CellResult, Dive, DiveTeam, Membership, Project, Survey, User, Zone, initModels } from "../models";
 import { seedDemoDiveTeams } from "./demo-dive-teams";
 import { seedDemoSurveys } from "./demo-surveys";
 import { DEMO_PASSWORD, DEMO_PROJECT, DEMO_USERS, DEMO_WORK_LIMIT, DEMO_ZONES } from "./demo-scenario";
@@ -45,53 +45,53 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
 
 /**
  * Invented dives for the demo's dive log: two November days in the lower run, each on cells
- * assigned to the team that day (the log takes dives on assigned cells only). Depths are those
- * of a shallow spring run; no dive comes near the table's no-decompression figure.
+ * assigned to the team that day (the log takes dives on assigned cells only). The lower run has
+ * about 7 ft of water over the muck, so a diver's maximum depth is a foot or so more; no dive
+ * comes near the table's no-decompression figure.
  */
 const DEMO_DIVES = [
   { date: "2026-11-10", team: "Team Limpkin", hose: "Hose A", cells: [0, 1], dives: [
-    { diver: "Odessa Marchetti", leftSurface: "08:10", leftBottom: "09:25", maxDepth: 18.5, cells: [0], notes: "Muck softer than the probe suggested near the bank." },
-    { diver: "Juniper Adeyemi", leftSurface: "10:05", leftBottom: "11:20", maxDepth: 19.2, cells: [0, 1], notes: "" },
+    { diver: "Odessa Marchetti", leftSurface: "08:10", leftBottom: "09:25", maxDepth: 8.2, cells: [0], notes: "Muck softer than the probe suggested near the bank." },
+    { diver: "Juniper Adeyemi", leftSurface: "10:05", leftBottom: "11:20", maxDepth: 8.5, cells: [0, 1], notes: "" },
   ] },
   { date: "2026-11-12", team: "Team Gar", hose: "Hose C", cells: [2, 3], dives: [
-    { diver: "Florian Bexley", leftSurface: null, leftBottom: null, bottomMinutes: 95, maxDepth: 21.0, cells: [2, 3], notes: "Visibility under a foot after 10:00; suction slowed." },
+    { diver: "Florian Bexley", leftSurface: null, leftBottom: null, bottomMinutes: 95, maxDepth: 8.4, cells: [2, 3], notes: "Visibility under a foot after 10:00; suction slowed." },
   ] },
 ] as const;
 
-/** Adds the demo dives (and the assignments they were made on) when the demo project has none. */
+/**
+ * Adds the demo dives (and the assignments they were made on) when the demo project has none,
+ * through the same services as the plan page and the dive log, so assignments get their working
+ * depths from the surfaces and dives their no-decompression flags.
+ */
 async function seedDemoDives(): Promise<boolean> {
   const project = await Project.findOne({ where: { slug: DEMO_PROJECT.slug } });
   if (!project || (await Dive.count({ where: { projectId: project.id } })) > 0) return false;
+  // Imported lazily, as the import service is: they pull in the app's modules.
+  const { createAssignments } = await import("../../app/models/assignments.server");
+  const { diveInputSchema, recordDive } = await import("../../app/models/dives.server");
+  const { presentProject } = await import("../../app/models/project.server");
+  const { presentUser } = await import("../../app/models/user.server");
   await seedDemoDiveTeams();
   const teams = new Map((await DiveTeam.findAll({ where: { projectId: project.id } })).map((team) => [team.name, team]));
   const lowerRun = await Zone.findOne({ where: { projectId: project.id, name: "Lower run" } });
   const cells = await CellResult.findAll({ where: { projectId: project.id, status: "in-work", ...(lowerRun ? { zoneId: lowerRun.id } : {}) }, order: [["row", "ASC"], ["col", "ASC"]], limit: 4 });
-  if (cells.length < 4 || DEMO_DIVES.some((day) => !teams.has(day.team))) return false;
   const supervisor = await User.findOne({ where: { email: "divesup@example.org" } });
+  if (cells.length < 4 || !supervisor || DEMO_DIVES.some((day) => !teams.has(day.team))) return false;
+  const projectView = presentProject(project);
+  const supervisorView = presentUser(supervisor);
   for (const day of DEMO_DIVES) {
-    const team = teams.get(day.team)!;
-    for (const index of day.cells) {
-      const cell = cells[index];
-      await Assignment.findOrCreate({
-        where: { projectId: project.id, workDate: day.date, row: cell.row, col: cell.col },
-        defaults: { projectId: project.id, workDate: day.date, teamId: team.id, row: cell.row, col: cell.col, label: cell.label, hose: day.hose, notes: "", workingDepth: null, plannedBottomMinutes: 90, confirmedReason: null, createdById: supervisor?.id ?? null },
-      });
-    }
+    const planned = await createAssignments(projectView, supervisorView, {
+      date: day.date, team: day.team, hose: day.hose, cells: day.cells.map((index) => cells[index].label), notes: "", bottomTimeMinutes: 90,
+    });
+    if (planned.status !== 201) throw new Error(`the demo plan for ${day.date} was refused: ${JSON.stringify(planned.body)}`);
     for (const entry of day.dives) {
-      const bottomMinutes = "bottomMinutes" in entry ? entry.bottomMinutes : minutesBetween(entry.leftSurface!, entry.leftBottom!);
-      const dive = await Dive.create({
-        projectId: project.id, diveDate: day.date, teamId: team.id, diverName: entry.diver,
-        leftSurfaceAt: entry.leftSurface, leftBottomAt: entry.leftBottom, bottomMinutes, maxDepth: entry.maxDepth, notes: entry.notes, recordedById: supervisor?.id ?? null,
-      });
-      await DiveCell.bulkCreate(entry.cells.map((index) => ({ diveId: dive.id, projectId: project.id, row: cells[index].row, col: cells[index].col, label: cells[index].label })));
+      const input = diveInputSchema.parse({ date: day.date, team: day.team, ...entry, cells: entry.cells.map((index) => cells[index].label) });
+      const logged = await recordDive(projectView, supervisorView, input, null);
+      if (logged.status !== 201) throw new Error(`the demo dive of ${entry.diver} on ${day.date} was refused: ${JSON.stringify(logged.body)}`);
     }
   }
   return true;
-}
-
-function minutesBetween(from: string, to: string): number {
-  const minutes = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
-  return minutes(to) - minutes(from);
 }
 
 /** Imports the demo surveys into an existing demo project that has no surveys yet. */
