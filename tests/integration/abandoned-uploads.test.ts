@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { ImportJob, getSequelize } from "~/lib/db.server";
-import { EXPIRED_MARKER_KEEP_MS, isExpiredJob, sweepAbandonedUploads } from "~/lib/import/abandoned-uploads.server";
+import { CUT_OFF_MESSAGE, EXPIRED_MARKER_KEEP_MS, isExpiredJob, sweepAbandonedUploads } from "~/lib/import/abandoned-uploads.server";
 import { commitChoicesSchema, importOptionsSchema } from "~/lib/import/import-options";
 import { createImportJob, ImportJobClosed, previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
 import { stagingDirectory, writeStagedFile } from "~/lib/import/stage-upload.server";
@@ -61,6 +61,7 @@ describe("sweep of abandoned uploads", () => {
       ["oldValidating", "validating", 72],
       ["freshReady", "ready", 2],
       ["oldCommitting", "committing", 96],
+      ["liveCommitting", "committing", 0.1],
     ] as const) {
       const staged = await stagedCsv(csv, updated);
       const job = await createImportJob(site.project.id, userId, staged, options);
@@ -98,8 +99,14 @@ describe("sweep of abandoned uploads", () => {
     expect(result.expiredJobs).toBeGreaterThanOrEqual(4);
     expect(reloaded.freshReady!.state).toBe("ready");
     expect(existsSync(files.freshReady)).toBe(true);
-    // Never a job that is committing, however old.
-    expect(reloaded.oldCommitting!.state).toBe("committing");
+    // A commit is never expired. One that wrote nothing for an hour was cut off (the server
+    // stopped): it is marked failed, saying so, and keeps its file to be committed again.
+    expect(reloaded.liveCommitting!.state).toBe("committing");
+    expect(existsSync(files.liveCommitting)).toBe(true);
+    expect(reloaded.oldCommitting!.state).toBe("failed");
+    expect(isExpiredJob(reloaded.oldCommitting!)).toBe(false);
+    expect(reloaded.oldCommitting!.error).toBe(CUT_OFF_MESSAGE);
+    expect(result.cutOffCommits).toBeGreaterThanOrEqual(1);
     expect(existsSync(files.oldCommitting)).toBe(true);
     expect(reloaded.oldDone!.state).toBe("done");
 

@@ -15,12 +15,19 @@ import { stagingDirectory } from "./stage-upload.server";
  * plainly what happened instead of "no such import". Markers go after a further 30 days. Staging
  * files that no unfinished job refers to and that are older than the retention are deleted too.
  *
- * A job that is committing is never touched: each expiry is one conditional UPDATE whose WHERE
+ * A job that is committing is never expired: each expiry is one conditional UPDATE whose WHERE
  * repeats the state and age test, and the commit's start is conditional the other way round, so
- * the two cannot both win.
+ * the two cannot both win. A commit writes its progress several times a second, so a job still
+ * "committing" with nothing written for an hour was cut off (the server stopped mid-import): it is
+ * marked failed with that said plainly, keeping its file, so the technician can commit it again
+ * (a commit is one transaction, so nothing of the cut-off one was stored); the expiry above then
+ * applies to it like any other failed job.
  */
 export const EXPIRED_STAGE = "expired";
 export const SWEPT_STATES = ["staged", "validating", "ready", "failed"] as const;
+/** A "committing" job untouched this long was cut off: a live commit writes progress several times a second. */
+export const CUT_OFF_COMMIT_MS = 3600 * 1000;
+export const CUT_OFF_MESSAGE = "Nothing was stored: the server stopped while this import was being committed (a commit is one transaction, so none of it was kept). Commit it again, or upload the file again.";
 /** Expired markers are removed this long after they expired. */
 export const EXPIRED_MARKER_KEEP_MS = 30 * 24 * 3600 * 1000;
 /** The names stageUpload gives staged files (`<ms>-<16 hex>.csv`); nothing else in UPLOAD_DIR is ever deleted. */
@@ -48,6 +55,8 @@ export interface SweepOptions {
 }
 
 export interface SweepResult {
+  /** Jobs left "committing" by a server that stopped, now marked failed. */
+  cutOffCommits: number;
   expiredJobs: number;
   removedMarkers: number;
   orphanFiles: number;
@@ -60,6 +69,11 @@ export async function sweepAbandonedUploads(options: SweepOptions = {}): Promise
   const cutoff = new Date(now.getTime() - retentionMs);
   const message = expiredMessage(Math.max(1, Math.round(retentionMs / 3600_000)));
   const stale = { state: [...SWEPT_STATES], stage: { [Op.ne]: EXPIRED_STAGE }, updatedAt: { [Op.lt]: cutoff } };
+
+  const [cutOffCommits] = await ImportJob.update(
+    { state: "failed", stage: "failed", fraction: 0, error: CUT_OFF_MESSAGE },
+    { where: { state: "committing", updatedAt: { [Op.lt]: new Date(now.getTime() - CUT_OFF_COMMIT_MS) } } },
+  );
 
   let expiredJobs = 0;
   const candidates = await ImportJob.findAll({ where: stale, attributes: ["id", "filePath"] });
@@ -78,7 +92,7 @@ export async function sweepAbandonedUploads(options: SweepOptions = {}): Promise
   });
 
   const orphanFiles = await removeOrphanFiles(options.stagingDir ?? stagingDirectory(), cutoff);
-  return { expiredJobs, removedMarkers, orphanFiles };
+  return { cutOffCommits, expiredJobs, removedMarkers, orphanFiles };
 }
 
 async function removeOrphanFiles(directory: string, cutoff: Date): Promise<number> {
@@ -120,8 +134,8 @@ async function sweepAndLog() {
   running = true;
   try {
     const result = await sweepAbandonedUploads();
-    if (result.expiredJobs + result.orphanFiles + result.removedMarkers > 0) {
-      process.stdout.write(`Firmsand: abandoned uploads swept (${result.expiredJobs} expired, ${result.orphanFiles} stray files, ${result.removedMarkers} old markers)\n`);
+    if (result.cutOffCommits + result.expiredJobs + result.orphanFiles + result.removedMarkers > 0) {
+      process.stdout.write(`Firmsand: abandoned uploads swept (${result.cutOffCommits} cut-off commits marked failed, ${result.expiredJobs} expired, ${result.orphanFiles} stray files, ${result.removedMarkers} old markers)\n`);
     }
   } catch (error) {
     process.stderr.write(`Firmsand: the sweep of abandoned uploads failed: ${(error as Error).message}\n`);
