@@ -54,6 +54,18 @@ describe("the quick-look image of the cells", () => {
     expect(Array.from(image.pixels.slice(((grid.rows - 1) * grid.cols) * 4, ((grid.rows - 1) * grid.cols) * 4 + 4))).toEqual([16, 32, 48, 255]);
   });
 
+  it("leaves the cells of other zones transparent when a zone is chosen (as the shapes' zone filter does)", () => {
+    const data = basin();
+    const zone = data.zone.map((_, index) => (index % 3 === 0 ? 0 : 1));
+    const zoned = { ...data, zone } as CellsData;
+    const grid = data.grid!;
+    const image = paintCellImage(zoned, () => "#102030", 1);
+    for (let index = 0; index < zone.length; index++) {
+      const alpha = image.pixels[((grid.rows - 1 - Math.floor(index / grid.cols)) * grid.cols + (index % grid.cols)) * 4 + 3];
+      expect(alpha, `cell ${index}`).toBe(data.status[index] >= 0 && zone[index] === 1 ? 255 : 0);
+    }
+  });
+
   it("lays the image on the grid's outer corners and finds the cell under a point (round trip through proj4)", () => {
     const data = basin();
     const grid = data.grid!;

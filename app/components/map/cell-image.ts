@@ -25,15 +25,15 @@ function rgb(hex: string): [number, number, number] {
 
 /**
  * RGBA pixels, `cols` wide and `rows` high, the northmost grid row (in the grid's frame) on top;
- * cells outside the limit are transparent.
+ * cells outside the limit, and outside the zone when one is chosen, are transparent.
  */
-export function paintCellImage(data: CellsData, colourOf: (index: number) => string): { width: number; height: number; pixels: Uint8ClampedArray } {
+export function paintCellImage(data: CellsData, colourOf: (index: number) => string, zone: number | null = null): { width: number; height: number; pixels: Uint8ClampedArray } {
   const grid = data.grid;
   if (!grid) return { width: 0, height: 0, pixels: new Uint8ClampedArray(0) };
   const pixels = new Uint8ClampedArray(grid.cols * grid.rows * 4);
   const cache = new Map<string, [number, number, number]>();
   for (let index = 0; index < data.status.length; index++) {
-    if (data.status[index] < 0) continue;
+    if (data.status[index] < 0 || (zone !== null && data.zone[index] !== zone)) continue;
     const hex = colourOf(index);
     let colour = cache.get(hex);
     if (!colour) cache.set(hex, (colour = rgb(hex)));

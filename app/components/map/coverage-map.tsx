@@ -53,8 +53,8 @@ function setMarkedCells(map: MapLibreMap, source: "cells-selected" | "cells-assi
 const QUICK_LOOK = "cells-quick-look";
 
 /** Shows (or repaints) a large grid's cells as one image, a pixel per cell, under the cell shapes. */
-function showQuickLook(map: MapLibreMap, data: CellsData, view: MapView) {
-  const image = paintCellImage(data, cellColour(view, data));
+function showQuickLook(map: MapLibreMap, data: CellsData, view: MapView, zone: number | null) {
+  const image = paintCellImage(data, cellColour(view, data), zone);
   const canvas = document.createElement("canvas");
   canvas.width = image.width;
   canvas.height = image.height;
@@ -100,7 +100,8 @@ export function CoverageMap(props: Props) {
   const cellsById = useRef<ReadonlyMap<number, CellFeature>>(new Map());
   // A large grid shows the quick look until MapLibre has tiled and drawn the cell shapes once.
   const quickLook = useRef(false);
-  const quickLookView = useRef<MapView | null>(null);
+  // What the quick look shows now: view and zone filter, so it is repainted only when they change.
+  const quickLookShows = useRef("");
   const shapesDrawn = useRef(false);
   const fitted = useRef(false);
   const callbacks = useRef(props);
@@ -260,8 +261,9 @@ export function CoverageMap(props: Props) {
       // A large grid: the quick look first, and the shapes (seconds of tiling in MapLibre's
       // worker) only once it is on screen, so building them does not hold up its first frame.
       quickLook.current = true;
-      quickLookView.current = callbacks.current.view;
-      showQuickLook(map, data, callbacks.current.view);
+      const { view: shownView, zoneFilter: shownZone } = callbacks.current;
+      quickLookShows.current = `${shownView}|${shownZone}`;
+      showQuickLook(map, data, shownView, shownZone);
       fit(cellImageCorners(data));
       afterQuickLookDrawn(map, () => {
         if (cancelled) return;
@@ -279,11 +281,14 @@ export function CoverageMap(props: Props) {
     const map = mapRef.current;
     if (!ready || !map || !data) return;
     map.setPaintProperty("cells-fill", "fill-color", fillColour(view, data) as never);
-    if (quickLook.current && quickLookView.current !== view) {
-      quickLookView.current = view;
-      showQuickLook(map, data, view);
-    }
   }, [ready, data, view]);
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !data || !quickLook.current || quickLookShows.current === `${view}|${zoneFilter}`) return;
+    quickLookShows.current = `${view}|${zoneFilter}`;
+    showQuickLook(map, data, view, zoneFilter);
+  }, [ready, data, view, zoneFilter]);
 
   useEffect(() => {
     const map = mapRef.current;
