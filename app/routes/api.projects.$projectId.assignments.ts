@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { requireRole } from "~/lib/access.server";
+import { readJsonInput } from "~/lib/json-body.server";
 import { clientAddress } from "~/lib/client-address.server";
 import { assignmentInputSchema, createAssignments, getDayPlan, workDateSchema } from "~/models/assignments.server";
 import type { Route } from "./+types/api.projects.$projectId.assignments";
@@ -18,16 +19,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "POST") return Response.json({ error: "Use POST." }, { status: 405 });
   const { user, project } = await requireRole(request, params.projectId, "dive-supervisor", "manager");
-  let body: unknown;
-  try {
-    body = await request.json();
-  } catch {
-    return Response.json({ error: "The request body must be JSON." }, { status: 400 });
-  }
-  const input = assignmentInputSchema.safeParse(body);
-  if (!input.success) {
-    return Response.json({ error: input.error.issues.map((issue) => `${issue.path.join(".") || "body"}: ${issue.message}`).join("; ") }, { status: 400 });
-  }
+  const input = await readJsonInput(request, assignmentInputSchema);
+  if ("response" in input) return input.response;
   const outcome = await createAssignments(project, user, input.data, clientAddress(request));
   return Response.json(outcome.body, { status: outcome.status });
 }

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE } from "../../shared/no-decompression";
 import { requireRole } from "~/lib/access.server";
+import { readJsonInput } from "~/lib/json-body.server";
 import { clientAddress } from "~/lib/client-address.server";
 import { workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listCellDives, listDivesOn, recordDive } from "~/models/dives.server";
@@ -25,16 +26,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "POST") return Response.json({ error: "Use POST." }, { status: 405 });
   const { user, project } = await requireRole(request, params.projectId, "dive-supervisor", "manager");
-  let body: unknown;
-  try {
-    body = await request.json();
-  } catch {
-    return Response.json({ error: "The request body must be JSON." }, { status: 400 });
-  }
-  const input = diveInputSchema.safeParse(body);
-  if (!input.success) {
-    return Response.json({ error: input.error.issues.map((issue) => `${issue.path.join(".") || "body"}: ${issue.message}`).join("; ") }, { status: 400 });
-  }
+  const input = await readJsonInput(request, diveInputSchema);
+  if ("response" in input) return input.response;
   const outcome = await recordDive(project, user, input.data, clientAddress(request));
   return Response.json(outcome.body, { status: outcome.status });
 }
