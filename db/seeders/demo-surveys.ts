@@ -6,6 +6,7 @@ import { dirname, join } from "node:path";
 import { Readable } from "node:stream";
 import { fileURLToPath } from "node:url";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
+import type { ImportOptions } from "../../app/lib/import/import-options";
 import { Project, User } from "../models";
 
 const DEMO_DIR = join(dirname(fileURLToPath(import.meta.url)), "..", "..", "sample-data", "demo");
@@ -15,6 +16,22 @@ export interface SeededSurvey {
   surveyId: number;
   soundings: number;
   seconds: number;
+}
+
+/** The import options a demo survey is uploaded with (the seed's, and the tests' that import demo files). */
+export function demoImportOptions(survey: (typeof SURVEYS)[number], extra: Partial<ImportOptions> = {}): ImportOptions {
+  return {
+    kind: survey.kind,
+    surveyedOn: survey.surveyedOn,
+    timeZone: PROJECT.timeZone,
+    waterSurfaceElevation: survey.waterSurfaceElevationFt,
+    fileHasElevations: false,
+    datum: PROJECT.verticalDatum,
+    crs: PROJECT.crs,
+    lengthUnit: PROJECT.lengthUnit,
+    surveyOrder: "1a",
+    ...extra,
+  };
 }
 
 export async function seedDemoSurveys(log: (message: string) => void = () => undefined): Promise<SeededSurvey[]> {
@@ -33,17 +50,7 @@ export async function seedDemoSurveys(log: (message: string) => void = () => und
       projectId: project.id,
       userId: surveyor?.id ?? null,
       staged,
-      options: {
-        kind: survey.kind,
-        surveyedOn: survey.surveyedOn,
-        timeZone: PROJECT.timeZone,
-        waterSurfaceElevation: survey.waterSurfaceElevationFt,
-        fileHasElevations: false,
-        datum: PROJECT.verticalDatum,
-        crs: PROJECT.crs,
-        lengthUnit: PROJECT.lengthUnit,
-        surveyOrder: "1a",
-      },
+      options: demoImportOptions(survey),
       // The scenario puts three progress-2 soundings just outside the limit on purpose; the demo keeps them, as a technician may.
       choices: { excludeRows: [], excludeErrorRows: false, outside: "keep", acceptSameFile: false },
     });

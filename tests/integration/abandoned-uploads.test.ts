@@ -3,12 +3,13 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
-import { PROJECT, SURVEYS } from "../../sample-data/scenario";
+import { SURVEYS } from "../../sample-data/scenario";
 import { ImportJob, getSequelize } from "~/lib/db.server";
 import { CUT_OFF_MESSAGE, EXPIRED_MARKER_KEEP_MS, isExpiredJob, sweepAbandonedUploads } from "~/lib/import/abandoned-uploads.server";
 import { commitChoicesSchema, importOptionsSchema } from "~/lib/import/import-options";
 import { createImportJob, ImportJobClosed, previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
 import { stagingDirectory, writeStagedFile } from "~/lib/import/stage-upload.server";
+import { demoImportOptions } from "../../db/seeders/demo-surveys";
 import { DEMO_DIR, makeDemoSiteProject } from "./import-helpers";
 import { requestAs } from "./helpers";
 
@@ -23,16 +24,7 @@ const RETENTION = 24 * HOUR;
 const now = new Date();
 const hoursAgo = (hours: number) => new Date(now.getTime() - hours * HOUR);
 const progress1 = SURVEYS.find((survey) => survey.key === "progress-1")!;
-const options = importOptionsSchema.parse({
-  kind: progress1.kind,
-  surveyedOn: progress1.surveyedOn,
-  timeZone: PROJECT.timeZone,
-  waterSurfaceElevation: progress1.waterSurfaceElevationFt,
-  fileHasElevations: false,
-  datum: PROJECT.verticalDatum,
-  crs: PROJECT.crs,
-  lengthUnit: PROJECT.lengthUnit,
-});
+const options = importOptionsSchema.parse(demoImportOptions(progress1));
 
 async function stagedCsv(text: string, modifiedHoursAgo: number) {
   const staged = await writeStagedFile(new Blob([text]).stream(), "soundings.csv");

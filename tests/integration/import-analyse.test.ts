@@ -9,6 +9,7 @@ import { analyseStagedFile } from "~/lib/import/analyse.server";
 import { commitChoicesSchema, importOptionsSchema, type ImportOptions } from "~/lib/import/import-options";
 import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
 import { writeStagedFile } from "~/lib/import/stage-upload.server";
+import { demoImportOptions } from "../../db/seeders/demo-surveys";
 import { DEMO_DIR, FIXTURES, counts, makeDemoSiteProject, postSurvey } from "./import-helpers";
 
 // The analysis of a staged file against a real project in MariaDB: the depth-unit check against
@@ -22,17 +23,7 @@ const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
 const progress1 = SURVEYS.find((survey) => survey.key === "progress-1")!;
 
 function optionsFor(survey: (typeof SURVEYS)[number], extra: Partial<ImportOptions> = {}): ImportOptions {
-  return importOptionsSchema.parse({
-    kind: survey.kind,
-    surveyedOn: survey.surveyedOn,
-    timeZone: PROJECT.timeZone,
-    waterSurfaceElevation: survey.waterSurfaceElevationFt,
-    fileHasElevations: false,
-    datum: PROJECT.verticalDatum,
-    crs: PROJECT.crs,
-    lengthUnit: PROJECT.lengthUnit,
-    ...extra,
-  });
+  return importOptionsSchema.parse(demoImportOptions(survey, extra));
 }
 
 async function analyse(projectId: number, path: string | { name: string; text: string }, options: ImportOptions, choices = {}) {
