@@ -257,7 +257,8 @@ export function CoverageMap(props: Props) {
         element?.setAttribute("data-cells-drawn-as", "shapes");
       });
     };
-    if (!shapesDrawn.current && inLimitCellCount(data) >= QUICK_LOOK_FROM_CELLS) {
+    const cellCount = inLimitCellCount(data);
+    if (!shapesDrawn.current && cellCount >= QUICK_LOOK_FROM_CELLS) {
       // A large grid: the quick look first, and the shapes (seconds of tiling in MapLibre's
       // worker) only once it is on screen, so building them does not hold up its first frame.
       quickLook.current = true;
@@ -267,7 +268,7 @@ export function CoverageMap(props: Props) {
       fit(cellImageCorners(data));
       afterQuickLookDrawn(map, () => {
         if (cancelled) return;
-        element?.setAttribute("data-cells-drawn", String(inLimitCellCount(data)));
+        element?.setAttribute("data-cells-drawn", String(cellCount));
         element?.setAttribute("data-cells-drawn-as", "quick look");
         setTimeout(drawShapes, 0);
       });
