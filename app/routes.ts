@@ -1,52 +1,56 @@
 import { type RouteConfig, index, route } from "@react-router/dev/routes";
 
-// Every route is listed here explicitly.
+// Every route, listed explicitly and ordered by URL. Each file is named after its URL in the
+// flat file-route notation (`.` for `/`, `$param`, `_index` for an index route, `[.]` for a
+// literal dot); nesting under a layout is decided here, not by the file name.
 export default [
-  index("routes/home.tsx"),
-  route("healthz", "routes/healthz.ts"),
-  route("login", "routes/login.tsx"),
-  route("logout", "routes/logout.ts"),
-  route("forgot-password", "routes/forgot-password.tsx"),
-  route("reset-password/:token", "routes/reset-password.tsx"),
-  route("invite/:token", "routes/invite.tsx"),
+  index("routes/_index.tsx"),
   route("account", "routes/account.tsx"),
-  route("projects", "routes/projects.tsx"),
-  route("projects/:projectId", "routes/project-layout.tsx", [
-    index("routes/project-overview.tsx"),
-    route("map", "routes/project-map.tsx"),
-    route("surveys", "routes/projects.$projectId.surveys.tsx"),
-    route("surveys/new", "routes/projects.$projectId.surveys.new.tsx"),
-    route("surveys/imports/:jobId", "routes/projects.$projectId.surveys.imports.$jobId.tsx"),
-    route("surveys/:surveyId", "routes/projects.$projectId.surveys.$surveyId.tsx"),
-    route("members", "routes/project-members.tsx"),
-    route("audit", "routes/project-audit.tsx"),
-    route("plans/:date", "routes/project-plan.tsx"),
-    // Progress exports and public share links (issue 6).
-    route("quantities", "routes/projects.$projectId.quantities.tsx"),
-    route("share", "routes/projects.$projectId.share.tsx"),
-  ]),
-  // Survey import: resource routes (JSON, CSV) outside the project layout.
-  route("projects/:projectId/surveys/upload", "routes/projects.$projectId.surveys.upload.ts"),
-  route("projects/:projectId/surveys/imports/:jobId/progress", "routes/projects.$projectId.surveys.imports.$jobId.progress.ts"),
-  route("projects/:projectId/surveys/imports/:jobId/problems.csv", "routes/projects.$projectId.surveys.imports.$jobId.problems[.]csv.ts"),
-  route("api/projects/:projectId/surveys", "routes/api.projects.$projectId.surveys.ts"),
-  route("api/projects/:projectId/surveys/:surveyId", "routes/api.projects.$projectId.surveys.$surveyId.ts"),
-  // Progress: JSON, CSV, GeoJSON, the printable report and the public share page (issue 6).
+
+  // The JSON, CSV and GeoJSON API (one access helper, one body reader, one error shape).
+  route("api/projects/:projectId/assignments", "routes/api.projects.$projectId.assignments.ts"),
+  route("api/projects/:projectId/bands", "routes/api.projects.$projectId.bands.ts"),
+  route("api/projects/:projectId/cells", "routes/api.projects.$projectId.cells.ts"),
+  route("api/projects/:projectId/cells/:label", "routes/api.projects.$projectId.cells.$label.ts"),
+  route("api/projects/:projectId/dives", "routes/api.projects.$projectId.dives.ts"),
   route("api/projects/:projectId/progress", "routes/api.projects.$projectId.progress.ts"),
   route("api/projects/:projectId/quantities.csv", "routes/api.projects.$projectId.quantities[.]csv.ts"),
   route("api/projects/:projectId/quantities.geojson", "routes/api.projects.$projectId.quantities[.]geojson.ts"),
   route("api/projects/:projectId/share-links", "routes/api.projects.$projectId.share-links.ts"),
   route("api/projects/:projectId/share-links/:token", "routes/api.projects.$projectId.share-links.$token.ts"),
-  route("projects/:projectId/quantities/report", "routes/projects.$projectId.quantities.report.tsx"),
-  route("share/:token", "routes/share.$token.tsx"),
-  // Coverage map and dive plans (issue 5): the offline map style and the map's JSON API.
-  route("projects/:projectId/map/style.json", "routes/project-map-style[.]json.ts"),
-  route("api/projects/:projectId/cells", "routes/api.projects.$projectId.cells.ts"),
-  route("api/projects/:projectId/cells/:label", "routes/api.projects.$projectId.cells.$label.ts"),
-  route("api/projects/:projectId/bands", "routes/api.projects.$projectId.bands.ts"),
-  route("api/projects/:projectId/assignments", "routes/api.projects.$projectId.assignments.ts"),
-  route("api/projects/:projectId/dives", "routes/api.projects.$projectId.dives.ts"),
-  route("dev/mail", "routes/dev-mail.tsx", [
-    route(":messageId", "routes/dev-mail-message.tsx"),
+  route("api/projects/:projectId/surveys", "routes/api.projects.$projectId.surveys.ts"),
+  route("api/projects/:projectId/surveys/:surveyId", "routes/api.projects.$projectId.surveys.$surveyId.ts"),
+
+  route("dev/mail", "routes/dev.mail.tsx", [
+    route(":messageId", "routes/dev.mail.$messageId.tsx"),
   ]),
+  route("forgot-password", "routes/forgot-password.tsx"),
+  route("healthz", "routes/healthz.ts"),
+  route("invite/:token", "routes/invite.$token.tsx"),
+  route("login", "routes/login.tsx"),
+  route("logout", "routes/logout.ts"),
+  route("projects", "routes/projects.tsx"),
+
+  // A project's pages share its layout (name, navigation); resource routes (JSON, CSV, the
+  // printable report, the map style) sit outside it.
+  route("projects/:projectId", "routes/projects.$projectId.tsx", [
+    index("routes/projects.$projectId._index.tsx"),
+    route("audit", "routes/projects.$projectId.audit.tsx"),
+    route("map", "routes/projects.$projectId.map.tsx"),
+    route("members", "routes/projects.$projectId.members.tsx"),
+    route("plans/:date", "routes/projects.$projectId.plans.$date.tsx"),
+    route("quantities", "routes/projects.$projectId.quantities.tsx"),
+    route("share", "routes/projects.$projectId.share.tsx"),
+    route("surveys", "routes/projects.$projectId.surveys.tsx"),
+    route("surveys/:surveyId", "routes/projects.$projectId.surveys.$surveyId.tsx"),
+    route("surveys/imports/:jobId", "routes/projects.$projectId.surveys.imports.$jobId.tsx"),
+    route("surveys/new", "routes/projects.$projectId.surveys.new.tsx"),
+  ]),
+  route("projects/:projectId/map/style.json", "routes/projects.$projectId.map.style[.]json.ts"),
+  route("projects/:projectId/quantities/report", "routes/projects.$projectId.quantities.report.tsx"),
+  route("projects/:projectId/surveys/imports/:jobId/problems.csv", "routes/projects.$projectId.surveys.imports.$jobId.problems[.]csv.ts"),
+  route("projects/:projectId/surveys/imports/:jobId/progress", "routes/projects.$projectId.surveys.imports.$jobId.progress.ts"),
+  route("projects/:projectId/surveys/upload", "routes/projects.$projectId.surveys.upload.ts"),
+  route("reset-password/:token", "routes/reset-password.$token.tsx"),
+  route("share/:token", "routes/share.$token.tsx"),
 ] satisfies RouteConfig;

@@ -13,7 +13,7 @@ import { findProject, presentProject } from "~/models/project.server";
 import { loader as cellsLoader } from "~/routes/api.projects.$projectId.cells";
 import { loader as bandsLoader } from "~/routes/api.projects.$projectId.bands";
 import { action as assignAction, loader as planLoader } from "~/routes/api.projects.$projectId.assignments";
-import { loader as styleLoader } from "~/routes/project-map-style[.]json";
+import { loader as styleLoader } from "~/routes/projects.$projectId.map.style[.]json";
 import { addMember, makeUser, requestAs, thrown } from "./helpers";
 
 afterAll(closeSequelize);

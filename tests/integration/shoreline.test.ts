@@ -3,8 +3,8 @@ import { randomBytes } from "node:crypto";
 import { closeSequelize } from "../../db/connection.server";
 import { GRID, WORK_LIMIT } from "../../sample-data/scenario";
 import { AuditEvent, Project, Shoreline, type Role } from "~/lib/db.server";
-import { action as mapAction } from "~/routes/project-map";
-import { loader as styleLoader } from "~/routes/project-map-style[.]json";
+import { action as mapAction } from "~/routes/projects.$projectId.map";
+import { loader as styleLoader } from "~/routes/projects.$projectId.map.style[.]json";
 import { addMember, makeUser, requestAs, thrown } from "./helpers";
 
 afterAll(closeSequelize);

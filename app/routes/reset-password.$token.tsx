@@ -7,7 +7,7 @@ import { TextField } from "~/components/text-field";
 import { clientAddress } from "~/lib/client-address.server";
 import { newPasswordSchema, parseForm } from "~/lib/form";
 import { lookUpPasswordReset, resetPassword } from "~/models/password-reset.server";
-import type { Route } from "./+types/reset-password";
+import type { Route } from "./+types/reset-password.$token";
 
 // Open to anyone holding the link: the token itself is the credential.
 const CLOSED_MESSAGES = {

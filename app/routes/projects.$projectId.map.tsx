@@ -17,7 +17,7 @@ import { listDiveTeams } from "~/models/assignments.server";
 import { findProject } from "~/models/project.server";
 import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
 import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline.server";
-import type { Route } from "./+types/project-map";
+import type { Route } from "./+types/projects.$projectId.map";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, project, role } = await requireRole(request, params.projectId);

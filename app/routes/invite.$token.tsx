@@ -9,7 +9,7 @@ import { ROLE_LABELS } from "~/lib/roles";
 import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/form";
 import { signIn } from "~/lib/session.server";
 import { acceptInvitation, lookUpInvitation } from "~/models/invitation.server";
-import type { Route } from "./+types/invite";
+import type { Route } from "./+types/invite.$token";
 
 // Open to anyone holding the link: the token itself is the credential.
 const CLOSED_MESSAGES = {

@@ -10,7 +10,7 @@ import { emailSchema, parseForm } from "~/lib/form";
 import { appOrigin } from "~/lib/origin.server";
 import { createInvitation, listOpenInvitations, revokeInvitation } from "~/models/invitation.server";
 import { changeMemberRole, listMembers, removeMember } from "~/models/membership.server";
-import type { Route } from "./+types/project-members";
+import type { Route } from "./+types/projects.$projectId.members";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, user } = await requireRole(request, params.projectId, "manager");

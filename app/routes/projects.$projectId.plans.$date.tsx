@@ -5,7 +5,7 @@ import { requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
 import { emailDayPlan, getDayPlan, workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listDivesOn, recordDive, type DiveView } from "~/models/dives.server";
-import type { Route } from "./+types/project-plan";
+import type { Route } from "./+types/projects.$projectId.plans.$date";
 
 function parseDate(value: string | undefined): string {
   const parsed = workDateSchema.safeParse(value);

@@ -3,7 +3,7 @@ import { ROLE_LABELS } from "~/lib/roles";
 import { ProgressOverview } from "~/components/progress-overview";
 import { loadProgress } from "~/models/progress.server";
 import { listZones } from "~/models/project.server";
-import type { Route } from "./+types/project-overview";
+import type { Route } from "./+types/projects.$projectId._index";
 
 const UNIT_LABELS = { "us-ft": "US survey feet", ft: "international feet", m: "metres" } as const;
 const UNIT_SYMBOLS = { "us-ft": "ft", ft: "ft", m: "m" } as const;

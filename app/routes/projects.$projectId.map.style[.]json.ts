@@ -1,6 +1,6 @@
 import { requireRole } from "~/lib/access.server";
 import { buildMapStyle } from "~/models/map-style.server";
-import type { Route } from "./+types/project-map-style[.]json";
+import type { Route } from "./+types/projects.$projectId.map.style[.]json";
 
 // GET /projects/<id>/map/style.json — the offline MapLibre style built from the project's own data.
 export async function loader({ request, params }: Route.LoaderArgs) {

@@ -2,7 +2,7 @@ import { Link, Outlet } from "react-router";
 import { Page } from "~/components/page";
 import { requireDemoMailbox } from "~/lib/demo-mailbox.server";
 import { listMailboxMessages } from "~/models/mailbox.server";
-import type { Route } from "./+types/dev-mail";
+import type { Route } from "./+types/dev.mail";
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireDemoMailbox(request);

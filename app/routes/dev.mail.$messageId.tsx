@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { requireDemoMailbox } from "~/lib/demo-mailbox.server";
 import { getMailboxMessage } from "~/models/mailbox.server";
-import type { Route } from "./+types/dev-mail-message";
+import type { Route } from "./+types/dev.mail.$messageId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireDemoMailbox(request);

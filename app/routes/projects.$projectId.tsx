@@ -1,7 +1,7 @@
 import { NavLink, Outlet } from "react-router";
 import { requireRole } from "~/lib/access.server";
 import { ROLE_LABELS } from "~/lib/roles";
-import type { Route } from "./+types/project-layout";
+import type { Route } from "./+types/projects.$projectId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, project, role } = await requireRole(request, params.projectId);
