@@ -1,6 +1,7 @@
 import { redirect } from "react-router";
 import { z } from "zod";
 import { Membership, type Role } from "~/lib/db.server";
+import { can, type Access, type Action } from "~/lib/permissions";
 import { findProject, presentProject, type ProjectView } from "~/models/project.server";
 import { getUserView, type UserView } from "~/models/user.server";
 import { hasBearer, userIdForBearer } from "./api-token.server";
@@ -56,7 +57,7 @@ export async function requireSiteAdmin(request: Request): Promise<UserView> {
 
 const projectIdSchema = z.coerce.number().int().positive();
 
-export interface ProjectAccess {
+export interface ProjectAccess extends Access {
   user: UserView;
   project: ProjectView;
   /** The user's role on the project; null for a site admin who is not a member. */
@@ -64,21 +65,28 @@ export interface ProjectAccess {
 }
 
 /**
- * The signed-in user's access to a project. Passes when the user holds one of `roles` on the
- * project (any role when none are listed) or is a site admin. A signed-out request is
- * redirected to sign in; an unknown project is a 404; a non-member or a wrong role a 403.
+ * The signed-in user's access to a project for `action`, as the permission table (permissions.ts)
+ * allows it; by default reading the project, which every member and a site admin may. A
+ * signed-out request is redirected to sign in; an unknown project is a 404; a non-member or a
+ * role the table does not allow a 403.
  */
-export async function requireRole(request: Request, projectId: string | number | undefined, ...roles: Role[]): Promise<ProjectAccess> {
+export async function requireRole(request: Request, projectId: string | number | undefined, action: Action = "project.read"): Promise<ProjectAccess> {
   const user = await requireUser(request);
   const parsedId = projectIdSchema.safeParse(projectId);
   if (!parsedId.success) throw notFound();
   const project = await findProject(parsedId.data);
   if (!project) throw notFound();
   const membership = await Membership.findOne({ where: { projectId: project.id, userId: user.id } });
-  const role = membership?.role ?? null;
-  const allowed = user.isSiteAdmin || (role !== null && (roles.length === 0 || roles.includes(role)));
-  if (!allowed) {
-    throw forbidden(role === null ? "You are not a member of this project." : "Your role on this project does not allow this page.");
-  }
-  return { user, project: presentProject(project), role };
+  const access: ProjectAccess = { role: membership?.role ?? null, isSiteAdmin: user.isSiteAdmin, user, project: presentProject(project) };
+  requireAllowed(access, action);
+  return access;
+}
+
+/**
+ * For an action whose permission depends on what the request asks (a form with several intents):
+ * a 403 unless the table allows `action`.
+ */
+export function requireAllowed(access: ProjectAccess, action: Action): void {
+  if (can(access, action)) return;
+  throw forbidden(access.role === null && !access.isSiteAdmin ? "You are not a member of this project." : "Your role on this project does not allow this page.");
 }

@@ -18,7 +18,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 // POST /api/projects/<id>/assignments — {date, team, cells, hose, notes}: dive supervisors and managers only.
 export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "POST") return Response.json({ error: "Use POST." }, { status: 405 });
-  const { user, project } = await requireRole(request, params.projectId, "dive-supervisor", "manager");
+  const { user, project } = await requireRole(request, params.projectId, "plans.assign");
   const input = await readJsonInput(request, assignmentInputSchema);
   if ("response" in input) return input.response;
   const outcome = await createAssignments(project, user, input.data, clientAddress(request));

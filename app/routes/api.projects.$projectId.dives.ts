@@ -25,7 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 // POST /api/projects/<id>/dives — {date, team, diver, leftSurface?, leftBottom?, bottomMinutes?, maxDepth, cells, notes}: dive supervisors and managers only.
 export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "POST") return Response.json({ error: "Use POST." }, { status: 405 });
-  const { user, project } = await requireRole(request, params.projectId, "dive-supervisor", "manager");
+  const { user, project } = await requireRole(request, params.projectId, "dives.log");
   const input = await readJsonInput(request, diveInputSchema);
   if ("response" in input) return input.response;
   const outcome = await recordDive(project, user, input.data, clientAddress(request));

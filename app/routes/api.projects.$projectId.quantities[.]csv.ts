@@ -6,7 +6,7 @@ import type { Route } from "./+types/api.projects.$projectId.quantities[.]csv";
 // prepare and review pay applications. Text fields are formula-safe (shared/csv-safe).
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireRole(request, params.projectId, "manager", "viewer");
+  const { project } = await requireRole(request, params.projectId, "quantities.read");
   const view = await loadQuantities(project);
   const body = `\uFEFF${quantitiesCsv(view, new Date())}`; // BOM: spreadsheets then read yd³ and m³ as UTF-8
   return new Response(body, {

@@ -5,7 +5,7 @@ import type { Route } from "./+types/api.projects.$projectId.quantities[.]geojso
 // GET: the cells with their figures as GeoJSON in lon/lat (RFC 7946), for the manager and viewers.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireRole(request, params.projectId, "manager", "viewer");
+  const { project } = await requireRole(request, params.projectId, "quantities.read");
   const collection = await quantitiesGeoJson(await loadQuantities(project));
   return new Response(JSON.stringify(collection), {
     headers: {

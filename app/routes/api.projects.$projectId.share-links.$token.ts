@@ -11,7 +11,7 @@ export async function loader() {
 
 export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "DELETE") return jsonError(405, "Use DELETE to revoke a share link.");
-  const { project, user } = await requireApiRole(request, params.projectId, "outreach", "manager");
+  const { project, user } = await requireApiRole(request, params.projectId, "share-links.manage");
   const revoked = await revokeShareLink(project, user, { token: params.token }, clientAddress(request));
   if (!revoked) return jsonError(404, "There is no live share link with this token on this project.");
   return new Response(null, { status: 204 });

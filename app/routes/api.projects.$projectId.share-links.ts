@@ -8,7 +8,7 @@ import type { Route } from "./+types/api.projects.$projectId.share-links";
 // 201 {"token","url"}; the token is shown this once. Outreach staff and the manager only.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireApiRole(request, params.projectId, "outreach", "manager");
+  const { project } = await requireApiRole(request, params.projectId, "share-links.manage");
   return Response.json({ shareLinks: await listShareLinks(project) }, { headers: { "Cache-Control": "no-store" } });
 }
 
@@ -20,7 +20,7 @@ async function readBody(request: Request): Promise<Record<string, unknown>> {
 
 export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "POST") return jsonError(405, "Use POST to create a share link.");
-  const { project, user } = await requireApiRole(request, params.projectId, "outreach", "manager");
+  const { project, user } = await requireApiRole(request, params.projectId, "share-links.manage");
   const parsed = shareLinkFormSchema.safeParse(await readBody(request));
   if (!parsed.success) {
     return Response.json({ errors: parsed.error.issues.map((issue) => ({ field: issue.path.join("."), message: issue.message })) }, { status: 422 });

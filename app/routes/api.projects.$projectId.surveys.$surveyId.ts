@@ -32,7 +32,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "DELETE" && request.method !== "PATCH") return jsonError(405, "Use DELETE to retract or PATCH to restore.");
-  const { project, user } = await requireApiRole(request, params.projectId, "manager");
+  const { project, user } = await requireApiRole(request, params.projectId, "surveys.retract");
   const surveyId = surveyIdSchema.safeParse(params.surveyId);
   if (!surveyId.success) return jsonError(404, "There is no such survey in this project.");
   const body = await readJson(request);

@@ -20,7 +20,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "POST") return jsonError(405, "Use POST to upload a survey.");
   // The role is checked before the body is read, so a refused upload never reaches the disk.
-  const { project, user } = await requireApiRole(request, params.projectId, "surveyor", "manager");
+  const { project, user } = await requireApiRole(request, params.projectId, "surveys.import");
   let staged;
   try {
     staged = await stageUpload(request);

@@ -1,3 +1,4 @@
+import { can } from "~/lib/permissions";
 import { requireRole } from "~/lib/access.server";
 import { ROLE_LABELS } from "~/lib/roles";
 import { ProgressOverview } from "~/components/progress-overview";
@@ -9,11 +10,12 @@ const UNIT_LABELS = { "us-ft": "US survey feet", ft: "international feet", m: "m
 const UNIT_SYMBOLS = { "us-ft": "ft", ft: "ft", m: "m" } as const;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project, role, user } = await requireRole(request, params.projectId);
+  const access = await requireRole(request, params.projectId);
+  const { project, role } = access;
   const [zones, progress] = await Promise.all([listZones(project), loadProgress(project, { crossCheck: true })]);
   // Exports for the manager and viewers; the public share page for outreach and the manager.
-  const exports = user.isSiteAdmin || role === "manager" || role === "viewer";
-  const sharing = user.isSiteAdmin || role === "manager" || role === "outreach";
+  const exports = can(access, "quantities.read");
+  const sharing = can(access, "share-links.manage");
   const base = `/projects/${project.id}`;
   const progressLinks = [
     ...(exports ? [{ href: `${base}/quantities`, label: "Quantities and exports" }, { href: `/api/projects/${project.id}/quantities.csv`, label: "CSV" }] : []),

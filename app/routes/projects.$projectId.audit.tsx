@@ -7,7 +7,7 @@ import type { Route } from "./+types/projects.$projectId.audit";
 const querySchema = z.object({ page: z.coerce.number().int().min(1).max(100_000).catch(1) });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireRole(request, params.projectId, "manager");
+  const { project } = await requireRole(request, params.projectId, "audit.read");
   const { page } = querySchema.parse(Object.fromEntries(new URL(request.url).searchParams));
   return { projectId: project.id, ...(await listProjectAuditEvents(project, page)) };
 }

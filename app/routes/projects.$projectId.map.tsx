@@ -11,6 +11,7 @@ import { MapLegend } from "~/components/map/legend";
 import { NorthArrow } from "~/components/map/north-arrow";
 import { legendFor, type MapView } from "~/components/map/paint";
 import { MapSettings } from "~/components/map/map-settings";
+import { can } from "~/lib/permissions";
 import { requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
 import { listDiveTeams } from "~/models/assignments.server";
@@ -20,9 +21,8 @@ import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline
 import type { Route } from "./+types/projects.$projectId.map";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { user, project, role } = await requireRole(request, params.projectId);
-  const canAssign = role === "dive-supervisor" || role === "manager" || (role === null && user.isSiteAdmin);
-  const canManage = role === "manager" || (role === null && user.isSiteAdmin);
+  const access = await requireRole(request, params.projectId);
+  const { project } = access;
   const [teams, shoreline, row] = await Promise.all([listDiveTeams(project), getShoreline(project), findProject(project.id)]);
   return {
     projectId: project.id,
@@ -30,8 +30,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     lengthUnit: project.lengthUnit,
     crsCode: project.crs,
     minTeamSize: project.minTeamSize,
-    canAssign,
-    canManage,
+    canAssign: can(access, "plans.assign"),
+    canConfigure: can(access, "map.configure"),
     shoreline,
     shorelineMaxBytes: SHORELINE_MAX_BYTES,
     // Lon/lat, as stored: the browser clips the cells along it.
@@ -44,7 +44,7 @@ export type MapSettingsResult = { intent: "upload" | "remove"; ok: boolean; mess
 
 // POST /projects/<id>/map — the manager's map settings: upload, replace or remove the shoreline.
 export async function action({ request, params }: Route.ActionArgs): Promise<MapSettingsResult> {
-  const { user, project } = await requireRole(request, params.projectId, "manager");
+  const { user, project } = await requireRole(request, params.projectId, "map.configure");
   const length = Number(request.headers.get("Content-Length") ?? 0);
   if (length > SHORELINE_MAX_BYTES + 64 * 1024) {
     return { intent: "upload", ok: false, message: `The file is larger than ${SHORELINE_MAX_BYTES / 1024 / 1024} MB; simplify the shoreline first.` };
@@ -302,7 +302,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
           ) : (
             <p className="text-sm text-muted">Your role can read the map; dive supervisors and managers assign cells.</p>
           )}
-          {loaderData.canManage ? <MapSettings shoreline={loaderData.shoreline} result={actionData ?? null} maxBytes={loaderData.shorelineMaxBytes} /> : null}
+          {loaderData.canConfigure ? <MapSettings shoreline={loaderData.shoreline} result={actionData ?? null} maxBytes={loaderData.shorelineMaxBytes} /> : null}
         </aside>
       </div>
     </section>

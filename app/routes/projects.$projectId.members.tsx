@@ -13,7 +13,7 @@ import { changeMemberRole, listMembers, removeMember } from "~/models/membership
 import type { Route } from "./+types/projects.$projectId.members";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project, user } = await requireRole(request, params.projectId, "manager");
+  const { project, user } = await requireRole(request, params.projectId, "members.manage");
   const [members, invitations] = await Promise.all([listMembers(project), listOpenInvitations(project)]);
   return { members, invitations, currentUserId: user.id, roles: ROLES.map((role) => ({ value: role, label: ROLE_LABELS[role] })) };
 }
@@ -27,7 +27,7 @@ const actionSchema = z.discriminatedUnion("intent", [
 ]);
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const { project, user } = await requireRole(request, params.projectId, "manager");
+  const { project, user } = await requireRole(request, params.projectId, "members.manage");
   const parsed = parseForm(await request.formData(), actionSchema);
   if (!parsed.ok) return data({ intent: "invalid", errors: parsed.errors, notice: null }, { status: 400 });
   const ip = clientAddress(request);

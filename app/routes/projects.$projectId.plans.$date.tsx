@@ -1,7 +1,8 @@
 import { useEffect, useRef } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
-import { requireRole } from "~/lib/access.server";
+import { can } from "~/lib/permissions";
+import { requireAllowed, requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
 import { emailDayPlan, getDayPlan, workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listDivesOn, recordDive, type DiveView } from "~/models/dives.server";
@@ -14,10 +15,11 @@ function parseDate(value: string | undefined): string {
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { user, project, role } = await requireRole(request, params.projectId);
+  const access = await requireRole(request, params.projectId);
+  const { project } = access;
   const date = parseDate(params.date);
   const [plan, dives] = await Promise.all([getDayPlan(project, date), listDivesOn(project, date)]);
-  return { project: { id: project.id, name: project.name }, plan, dives, canSend: role === "dive-supervisor" || role === "manager" || (role === null && user.isSiteAdmin) };
+  return { project: { id: project.id, name: project.name }, plan, dives, canSend: can(access, "plans.assign"), canLogDives: can(access, "dives.log") };
 }
 
 const actionSchema = z.object({ intent: z.enum(["email", "dive"]) });
@@ -30,11 +32,13 @@ const optionalText = (value: FormDataEntryValue | null) => (typeof value === "st
 const optionalNumber = (value: FormDataEntryValue | null) => (optionalText(value) === null ? null : Number(optionalText(value)));
 
 export async function action({ request, params }: Route.ActionArgs): Promise<ActionResult> {
-  const { user, project } = await requireRole(request, params.projectId, "dive-supervisor", "manager");
+  const access = await requireRole(request, params.projectId, "plans.assign");
+  const { user, project } = access;
   const date = parseDate(params.date);
   const formData = await request.formData();
   const form = actionSchema.safeParse({ intent: formData.get("intent") });
   if (!form.success) return { intent: "email", sentTo: [], error: "Unknown request." };
+  requireAllowed(access, form.data.intent === "dive" ? "dives.log" : "plans.assign");
   if (form.data.intent === "dive") {
     const teamId = Number(formData.get("team"));
     const input = diveInputSchema.safeParse({
@@ -145,7 +149,7 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
             </tfoot>
           </table>
           <DiveLog teamName={team.name} dives={loaderData.dives.filter((dive) => dive.team === team.name)} lengthLabel={plan.lengthLabel} />
-          {loaderData.canSend ? (
+          {loaderData.canLogDives ? (
             <DiveForm teamId={team.id} teamName={team.name} cells={cells.map((cell) => cell.label)} lengthLabel={plan.lengthLabel} result={actionData?.intent === "dive" && actionData.teamId === team.id ? actionData : null} />
           ) : null}
         </section>

@@ -7,7 +7,7 @@ import type { Route } from "./+types/projects.$projectId.quantities.report";
 // project, survey pair, method, totals per zone and a signature block for the reviewer.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project, user } = await requireRole(request, params.projectId, "manager", "viewer");
+  const { project, user } = await requireRole(request, params.projectId, "quantities.read");
   const view = await loadQuantities(project);
   return {
     project: view.project, baseline: view.baseline, latest: view.latest, method: view.method,

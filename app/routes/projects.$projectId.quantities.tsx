@@ -8,7 +8,7 @@ import type { Route } from "./+types/projects.$projectId.quantities";
 // CSV, GeoJSON and printable report downloads.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireRole(request, params.projectId, "manager", "viewer");
+  const { project } = await requireRole(request, params.projectId, "quantities.read");
   const view = await loadQuantities(project);
   return { project: view.project, baseline: view.baseline, latest: view.latest, method: view.method, total: view.progress.total, zones: view.progress.zones, cellCount: view.cells.length };
 }

@@ -14,7 +14,7 @@ import type { Route } from "./+types/projects.$projectId.share";
 // short public text, edit the text, revoke the link. The token is shown once, right after creation.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireRole(request, params.projectId, "outreach", "manager");
+  const { project } = await requireRole(request, params.projectId, "share-links.manage");
   return { projectId: project.id, links: await listShareLinks(project) };
 }
 
@@ -26,7 +26,7 @@ const actionSchema = z.discriminatedUnion("intent", [
 ]);
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const { project, user } = await requireRole(request, params.projectId, "outreach", "manager");
+  const { project, user } = await requireRole(request, params.projectId, "share-links.manage");
   const parsed = parseForm(await request.formData(), actionSchema);
   if (!parsed.ok) return data({ intent: "invalid", errors: parsed.errors, notice: null, created: null }, { status: 400 });
   const input = parsed.data;

@@ -3,6 +3,7 @@ import { z } from "zod";
 import { FormMessage } from "~/components/form-message";
 import { SoundingPlot } from "~/components/sounding-plot";
 import { SubmitButton } from "~/components/submit-button";
+import { can } from "~/lib/permissions";
 import { requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
 import { setSurveyStatus } from "~/lib/import/commit.server";
@@ -14,7 +15,8 @@ const idSchema = z.coerce.number().int().positive();
 const pageSchema = z.coerce.number().int().positive().catch(1);
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project, role, user } = await requireRole(request, params.projectId);
+  const access = await requireRole(request, params.projectId);
+  const { project } = access;
   const surveyId = idSchema.safeParse(params.surveyId);
   const survey = surveyId.success ? await getSurveyDetails(project, surveyId.data) : null;
   if (!survey) throw new Response("There is no such survey in this project.", { status: 404, statusText: "Not Found" });
@@ -29,7 +31,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     projectId: project.id,
     lengthUnit: project.lengthUnit,
-    canManage: role === "manager" || user.isSiteAdmin,
+    canRetract: can(access, "surveys.retract"),
     survey,
     soundings,
     plot: all.length > 0 ? { bounds, workLimit: rings as Array<Array<[number, number]>>, points } : null,
@@ -42,7 +44,7 @@ const statusSchema = z.discriminatedUnion("intent", [
 ]);
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const { project, user } = await requireRole(request, params.projectId, "manager");
+  const { project, user } = await requireRole(request, params.projectId, "surveys.retract");
   const surveyId = idSchema.safeParse(params.surveyId);
   if (!surveyId.success) throw new Response("There is no such survey in this project.", { status: 404 });
   const parsed = statusSchema.safeParse(Object.fromEntries(await request.formData()));
@@ -66,7 +68,7 @@ export function meta({ loaderData }: Route.MetaArgs) {
 const number = (value: number | null, digits = 2) => (value === null || value === undefined ? "—" : value.toFixed(digits));
 
 export default function SurveyPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { survey, soundings, plot, canManage, projectId } = loaderData;
+  const { survey, soundings, plot, canRetract, projectId } = loaderData;
   const result = actionData as { error?: string | null; done?: string } | undefined;
   const qa = survey.qa as { cellsWithSoundings?: number; cellsInLimit?: number; medianPerCell?: number | null; sparseCells?: number; spikes?: { count: number }; crossings?: { comparisons: number; withinAllowanceShare: number | null }; order?: string; warnings?: string[] };
   const base = `/projects/${projectId}/surveys`;
@@ -128,7 +130,7 @@ export default function SurveyPage({ loaderData, actionData }: Route.ComponentPr
         ) : <p className="text-sm text-muted">This survey has no soundings.</p>}
       </div>
 
-      {canManage ? (
+      {canRetract ? (
         survey.status === "active" ? (
           <Form method="post" className="space-y-2 rounded border border-line bg-panel p-4">
             <h3 className="font-medium">Retract this survey</h3>

@@ -10,9 +10,10 @@ function csvCell(value: string | number): string {
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project, user, role } = await requireRole(request, params.projectId, "surveyor", "manager");
+  const access = await requireRole(request, params.projectId, "surveys.import");
+  const { project, user } = access;
   const jobId = z.coerce.number().int().positive().safeParse(params.jobId);
-  const job = jobId.success ? await findImportJob(project, user, role, jobId.data) : null;
+  const job = jobId.success ? await findImportJob(access, jobId.data) : null;
   const preview = job ? jobPreview(job) : null;
   if (!job || !preview) throw new Response("There is no such import.", { status: 404 });
   const lines = ["row,column,value,rule,message"];

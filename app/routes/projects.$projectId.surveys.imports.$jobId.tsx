@@ -27,9 +27,10 @@ const FIELD_LABELS: Record<(typeof soundingFields)[number], string> = {
 const UNIT_WORDS = { "us-ft": "US survey feet", ft: "feet", m: "metres" } as const;
 
 async function loadJob(request: Request, params: Route.LoaderArgs["params"]) {
-  const { project, user, role } = await requireRole(request, params.projectId, "surveyor", "manager");
+  const access = await requireRole(request, params.projectId, "surveys.import");
+  const { project, user } = access;
   const jobId = z.coerce.number().int().positive().safeParse(params.jobId);
-  const job = jobId.success ? await findImportJob(project, user, role, jobId.data) : null;
+  const job = jobId.success ? await findImportJob(access, jobId.data) : null;
   if (!job) throw new Response("There is no such import.", { status: 404, statusText: "Not Found" });
   return { project, user, job };
 }

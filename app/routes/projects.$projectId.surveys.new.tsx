@@ -5,16 +5,14 @@ import { requireRole } from "~/lib/access.server";
 import { DEFAULT_TIME_ZONE, receivePageUpload } from "~/lib/import/page-upload.server";
 import type { Route } from "./+types/projects.$projectId.surveys.new";
 
-const UPLOADERS = ["surveyor", "manager"] as const;
-
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireRole(request, params.projectId, ...UPLOADERS);
+  const { project } = await requireRole(request, params.projectId, "surveys.import");
   return { projectId: project.id, crs: project.crs, lengthUnit: project.lengthUnit, timeZone: DEFAULT_TIME_ZONE };
 }
 
 // Without JavaScript the form posts here; with it, the page's script posts to ./upload instead.
 export async function action({ request, params }: Route.ActionArgs) {
-  const { project, user } = await requireRole(request, params.projectId, ...UPLOADERS);
+  const { project, user } = await requireRole(request, params.projectId, "surveys.import");
   const result = await receivePageUpload(request, project, user);
   if (result.ok) throw redirect(result.location);
   return data({ errors: result.errors }, { status: result.status });

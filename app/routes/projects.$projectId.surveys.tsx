@@ -1,4 +1,5 @@
 import { Link } from "react-router";
+import { can } from "~/lib/permissions";
 import { requireRole } from "~/lib/access.server";
 import { Op } from "sequelize";
 import { ImportJob } from "~/lib/db.server";
@@ -7,8 +8,9 @@ import { getProjectStatistics, listSurveys } from "~/models/survey.server";
 import type { Route } from "./+types/projects.$projectId.surveys";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project, role, user } = await requireRole(request, params.projectId);
-  const canUpload = user.isSiteAdmin || role === "surveyor" || role === "manager";
+  const access = await requireRole(request, params.projectId);
+  const { project, user } = access;
+  const canUpload = can(access, "surveys.import");
   const [surveys, statistics] = await Promise.all([listSurveys(project), getProjectStatistics(project)]);
   const pending = canUpload
     ? await ImportJob.findAll({ where: { projectId: project.id, userId: user.id, state: ["staged", "ready", "committing", "validating", "failed"], stage: { [Op.ne]: EXPIRED_STAGE } }, order: [["createdAt", "DESC"]], limit: 10 })

@@ -1,14 +1,17 @@
 import { NavLink, Outlet } from "react-router";
+import { can } from "~/lib/permissions";
 import { requireRole } from "~/lib/access.server";
 import { ROLE_LABELS } from "~/lib/roles";
 import type { Route } from "./+types/projects.$projectId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { user, project, role } = await requireRole(request, params.projectId);
+  const access = await requireRole(request, params.projectId);
+  const { project, role } = access;
   return {
     project: { id: project.id, name: project.name },
     roleLabel: role ? ROLE_LABELS[role] : "Site administrator",
-    canManage: role === "manager" || user.isSiteAdmin,
+    canManageMembers: can(access, "members.manage"),
+    canReadAudit: can(access, "audit.read"),
   };
 }
 
@@ -29,8 +32,8 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
         <NavLink end to={base} className={linkClass}>Overview</NavLink>
         <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
-        {loaderData.canManage ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
-        {loaderData.canManage ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}
+        {loaderData.canManageMembers ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
+        {loaderData.canReadAudit ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}
       </nav>
       <div className="mt-6">
         <Outlet />

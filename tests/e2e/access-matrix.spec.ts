@@ -5,6 +5,7 @@ import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, type DemoAcc
 // "all" = every project role and the site admin; otherwise the accounts listed.
 const PROJECT_ROLES: DemoAccount[] = ["manager", "surveyor", "dive-supervisor", "dewatering", "resource-monitor", "outreach", "viewer"];
 const EVERYONE: DemoAccount[] = [...PROJECT_ROLES, "admin"];
+const QUANTITY_READERS: DemoAccount[] = ["manager", "surveyor", "dive-supervisor", "viewer", "admin"];
 
 const MATRIX: Array<{ path: string; allowed: DemoAccount[] }> = [
   { path: "/projects", allowed: EVERYONE },
@@ -19,13 +20,13 @@ const MATRIX: Array<{ path: string; allowed: DemoAccount[] }> = [
   { path: "/projects/{project}/surveys", allowed: EVERYONE },
   { path: "/projects/{project}/members", allowed: ["manager", "admin"] },
   { path: "/projects/{project}/audit", allowed: ["manager", "admin"] },
-  // Progress exports and share links (issue 6): figures for every member, quantities for the
-  // manager and viewers, the public-link page for outreach and the manager.
+  // Progress for every member; quantities for those who sign, produce, plan from or fund them
+  // (manager, survey technician, dive supervisor, viewer); the public-link page for outreach and the manager.
   { path: "/api/projects/{project}/progress", allowed: EVERYONE },
-  { path: "/projects/{project}/quantities", allowed: ["manager", "viewer", "admin"] },
-  { path: "/projects/{project}/quantities/report", allowed: ["manager", "viewer", "admin"] },
-  { path: "/api/projects/{project}/quantities.csv", allowed: ["manager", "viewer", "admin"] },
-  { path: "/api/projects/{project}/quantities.geojson", allowed: ["manager", "viewer", "admin"] },
+  { path: "/projects/{project}/quantities", allowed: QUANTITY_READERS },
+  { path: "/projects/{project}/quantities/report", allowed: QUANTITY_READERS },
+  { path: "/api/projects/{project}/quantities.csv", allowed: QUANTITY_READERS },
+  { path: "/api/projects/{project}/quantities.geojson", allowed: QUANTITY_READERS },
   { path: "/projects/{project}/share", allowed: ["manager", "outreach", "admin"] },
   { path: "/dev/mail", allowed: ["admin"] },
 ];

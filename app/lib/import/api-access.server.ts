@@ -1,4 +1,4 @@
-import type { Role } from "~/lib/db.server";
+import type { Action } from "~/lib/permissions";
 import { requireRole, type ProjectAccess } from "~/lib/access.server";
 
 /**
@@ -10,9 +10,9 @@ export function jsonError(status: number, message: string, extra: Record<string,
   return Response.json({ error: message, ...extra }, { status, headers: { "Cache-Control": "no-store" } });
 }
 
-export async function requireApiRole(request: Request, projectId: string | undefined, ...roles: Role[]): Promise<ProjectAccess> {
+export async function requireApiRole(request: Request, projectId: string | undefined, action?: Action): Promise<ProjectAccess> {
   try {
-    return await requireRole(request, projectId, ...roles);
+    return await requireRole(request, projectId, action);
   } catch (thrown) {
     if (thrown instanceof Response) {
       if (thrown.status >= 300 && thrown.status < 400) throw jsonError(401, "Sign in, or send a personal API token as Authorization: Bearer <token>.");

@@ -1,14 +1,14 @@
-import type { UserView } from "~/models/user.server";
-import type { ProjectView } from "~/models/project.server";
-import { ImportJob, type Role } from "~/lib/db.server";
+import type { ProjectAccess } from "~/lib/access.server";
+import { ImportJob } from "~/lib/db.server";
+import { can } from "~/lib/permissions";
 import type { ImportPreview } from "./analyse.server";
 import { commitChoicesSchema, importOptionsSchema, type CommitChoices, type ImportOptions } from "./import-options";
 
-/** An import job as its page and its progress poll see it; only its uploader or a manager may open it. */
-export async function findImportJob(project: ProjectView, user: UserView, role: Role | null, jobId: number): Promise<ImportJob | null> {
-  const job = await ImportJob.findOne({ where: { id: jobId, projectId: project.id } });
+/** An import job as its page and its progress poll see it: its uploader's, or anyone's to those the table allows. */
+export async function findImportJob(access: ProjectAccess, jobId: number): Promise<ImportJob | null> {
+  const job = await ImportJob.findOne({ where: { id: jobId, projectId: access.project.id } });
   if (!job) return null;
-  if (job.userId !== user.id && role !== "manager" && !user.isSiteAdmin) return null;
+  if (job.userId !== access.user.id && !can(access, "surveys.import.others")) return null;
   return job;
 }
 

@@ -1,0 +1,32 @@
+import { describe, expect, it } from "vitest";
+import { ACTIONS, allowedActions, can, type Action } from "./permissions";
+import { ROLES, type Role } from "./roles";
+
+// The expected table, written out by hand from the product's roles (DESIGN.md, "Who uses it"), not
+// generated from PERMISSIONS: a wrong entry in the table fails here.
+const EXPECTED: Record<Role, Action[]> = {
+  manager: ["project.read", "quantities.read", "members.manage", "audit.read", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "share-links.manage"],
+  surveyor: ["project.read", "quantities.read", "surveys.import"],
+  "dive-supervisor": ["project.read", "quantities.read", "plans.assign", "dives.log"],
+  dewatering: ["project.read"],
+  "resource-monitor": ["project.read"],
+  outreach: ["project.read", "share-links.manage"],
+  viewer: ["project.read", "quantities.read"],
+};
+
+describe("the permission table", () => {
+  it("allows each role exactly the actions written out above", () => {
+    for (const role of ROLES) {
+      expect(allowedActions({ role, isSiteAdmin: false }).sort(), role).toEqual([...EXPECTED[role]].sort());
+    }
+  });
+
+  it("lets a site admin do everything, member or not", () => {
+    expect(allowedActions({ role: null, isSiteAdmin: true })).toEqual(ACTIONS);
+    expect(can({ role: "viewer", isSiteAdmin: true }, "map.configure")).toBe(true);
+  });
+
+  it("allows nothing to someone who is neither a member nor a site admin", () => {
+    expect(allowedActions({ role: null, isSiteAdmin: false })).toEqual([]);
+  });
+});

@@ -1,0 +1,58 @@
+import { ROLES, type Role } from "./roles";
+
+/**
+ * The one permission table: what each project role may do. `requireRole` enforces it on the
+ * server and loaders ask `can` to decide what a page offers, so a button is shown exactly when the
+ * server would accept its request. Safe for browser code (no server imports).
+ *
+ * A site admin may do everything on every project, member or not: they set projects up and
+ * support their people. Later features add their actions here, never a role check of their own.
+ *
+ * Who reads quantities, from practice: the manager signs them and exports them for payment; the
+ * survey technician produced them and checks them before they go out; the dive supervisor plans
+ * tomorrow's cells from what remains; viewers (funders, partner agencies) read the dashboards.
+ * Outreach staff publish only the zone-level figures of the share page; the dewatering operator
+ * and the resource monitor have no need of pay quantities.
+ */
+export const PERMISSIONS = {
+  /** Overview, map, surveys, plans, the cells, bands and progress figures. */
+  "project.read": ROLES,
+  /** The quantities page, its printable report and the CSV/GeoJSON exports. */
+  "quantities.read": ["manager", "surveyor", "dive-supervisor", "viewer"],
+  /** Invite members, change their roles, remove them. */
+  "members.manage": ["manager"],
+  "audit.read": ["manager"],
+  /** The map's settings (the shoreline). */
+  "map.configure": ["manager"],
+  /** Upload and import sounding files, see the import's progress and problems. */
+  "surveys.import": ["manager", "surveyor"],
+  /** Every member's imports, not only one's own. */
+  "surveys.import.others": ["manager"],
+  /** Retract a survey (its soundings stop counting) or restore it. */
+  "surveys.retract": ["manager"],
+  /** Assign cells to dive teams, send the day's plan sheet. */
+  "plans.assign": ["manager", "dive-supervisor"],
+  "dives.log": ["manager", "dive-supervisor"],
+  /** Public progress links. */
+  "share-links.manage": ["manager", "outreach"],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Action = keyof typeof PERMISSIONS;
+
+export const ACTIONS = Object.keys(PERMISSIONS) as Action[];
+
+/** Who is asking: their role on the project (null when not a member) and whether they are a site admin. */
+export interface Access {
+  role: Role | null;
+  isSiteAdmin: boolean;
+}
+
+export function can(access: Access, action: Action): boolean {
+  if (access.isSiteAdmin) return true;
+  return access.role !== null && (PERMISSIONS[action] as readonly Role[]).includes(access.role);
+}
+
+/** The actions `access` allows, for a loader to hand to its page. */
+export function allowedActions(access: Access): Action[] {
+  return ACTIONS.filter((action) => can(access, action));
+}
