@@ -190,7 +190,9 @@ describe("progress figures equal the engine on the same surveys", () => {
     expect(check).not.toBeNull();
     expectClose(check.surfaceRemovedVolume, progress.total.removedVolume, 1e-9, "surface"); // computed: the same surfaces
     expect(check.sections).toBeGreaterThan(10);
-    expect(check.differencePercent).toBeCloseTo(((check.endAreaRemovedVolume - check.surfaceRemovedVolume) / check.surfaceRemovedVolume) * 100, 9);
+    // The method as documented: sections one grid cell apart (the scenario's 20 ft cells), so a
+    // work limit some 700 ft long gives dozens of them.
+    expect(check.sectionSpacing).toBe(GRID.cellSizeFt);
     // practice: on a densely sounded site, sections one cell apart agree with the surface volume within a few percent
     expect(Math.abs(check.differencePercent!)).toBeLessThan(5);
     console.log(`[progress] removed ${check.surfaceRemovedVolume.toFixed(1)} yd³ surface, ${check.endAreaRemovedVolume.toFixed(1)} yd³ end area (${check.differencePercent!.toFixed(2)} %, ${check.sections} sections)`);
