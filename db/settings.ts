@@ -23,14 +23,20 @@ let parsed: DatabaseSettings | undefined;
 
 export function getDatabaseSettings(): DatabaseSettings {
   if (parsed) return parsed;
-  const result = databaseSchema.safeParse(process.env);
+  const settings = parseEnvironment(databaseSchema);
+  // Without DB_PASSWORD, the password the bring-up generated for this checkout's private MariaDB.
+  const generated = join(DATA_DIR, "mariadb-app-password.secret");
+  const password = settings.DB_PASSWORD ?? (existsSync(generated) ? readFileSync(generated, "utf8").trim() : "");
+  parsed = { ...settings, DB_PASSWORD: password };
+  return parsed;
+}
+
+/** `process.env` read through `schema`; an invalid setting stops the start with every problem named. */
+export function parseEnvironment<Schema extends z.ZodType>(schema: Schema): z.output<Schema> {
+  const result = schema.safeParse(process.env);
   if (!result.success) {
     const problems = result.error.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`).join("; ");
     throw new Error(`Firmsand's environment is not valid: ${problems}`);
   }
-  // Without DB_PASSWORD, the password the bring-up generated for this checkout's private MariaDB.
-  const generated = join(DATA_DIR, "mariadb-app-password.secret");
-  const password = result.data.DB_PASSWORD ?? (existsSync(generated) ? readFileSync(generated, "utf8").trim() : "");
-  parsed = { ...result.data, DB_PASSWORD: password };
-  return parsed;
+  return result.data;
 }

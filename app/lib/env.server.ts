@@ -2,7 +2,7 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { randomBytes } from "node:crypto";
 import { z } from "zod";
-import { DATA_DIR } from "../../db/settings";
+import { DATA_DIR, parseEnvironment } from "../../db/settings";
 
 // Firmsand's environment, parsed once with zod at first use. Every server module reads
 // settings from here (the database connection's from db/settings.ts), never from process.env directly.
@@ -61,17 +61,8 @@ export type UploadEnv = z.infer<typeof uploadEnvSchema>;
 let parsedUploads: UploadEnv | undefined;
 
 export function getUploadEnv(): UploadEnv {
-  parsedUploads ??= parseOrExplain(uploadEnvSchema);
+  parsedUploads ??= parseEnvironment(uploadEnvSchema);
   return parsedUploads;
-}
-
-function parseOrExplain<T extends z.ZodType>(schema: T): z.infer<T> {
-  const result = schema.safeParse(process.env);
-  if (!result.success) {
-    const problems = result.error.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`).join("; ");
-    throw new Error(`Firmsand's environment is not valid: ${problems}`);
-  }
-  return result.data;
 }
 
 /** The app's settings; the database's are db/settings.ts (read by the connection). */
@@ -81,12 +72,7 @@ let parsed: Env | undefined;
 
 export function getEnv(): Env {
   if (parsed) return parsed;
-  const result = envSchema.safeParse(process.env);
-  if (!result.success) {
-    const problems = result.error.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`).join("; ");
-    throw new Error(`Firmsand's environment is not valid: ${problems}`);
-  }
-  const value = result.data;
+  const value = parseEnvironment(envSchema);
   const production = value.NODE_ENV === "production";
   // Outside production a generated secret under .data/ stands in (never committed).
   const sessionSecret = value.SESSION_SECRET ?? (production ? undefined : localSecret("session"));
