@@ -1,7 +1,8 @@
 import { Op } from "sequelize";
+import type { ImportPreview } from "../../../shared/soundings/prepare";
 import { ColumnMapping, ImportJob } from "../db.server";
 import { EXPIRED_STAGE } from "./abandoned-uploads.server";
-import { analyseStagedFile, type ImportPreview } from "./analyse.server";
+import { analyseStagedFile } from "./analyse.server";
 import { commitSurvey, type CommitSurveyInput, type CommittedSurvey } from "./commit.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
 import { loadProjectGeometry } from "./project-geometry.server";

@@ -1,4 +1,4 @@
-import { convertLength, type LengthUnit } from "../../../shared/units";
+import { convertLength, type LengthUnit } from "../units";
 
 /**
  * Row checks beyond the engine's CSV rules: depths out of range and exact duplicate rows. Pure:
