@@ -9,7 +9,7 @@ import { closeSequelize } from "../../db/connection.server";
 import { startsLikeFormula } from "../../shared/csv-safe";
 import { computeSurveyVolumes, type EngineSettings } from "../../shared/pipeline";
 import { workingDaysBetween, workingCalendar } from "../../shared/progress/working-days";
-import { bottomElevations, refusalElevations } from "../../shared/soundings/elevations";
+import { soundingElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
 import { rollUpZones } from "../../shared/volumes/rollup";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
@@ -49,7 +49,8 @@ function engineOn(surveys: DemoSurvey[]) {
   const project = (coordinates: number[][][]) => coordinates.map((ring) => ring.map(([lon, lat]) => crs.fromLonLat(lon, lat)));
   const points = surveys.map((survey) => {
     const parsed = parseSoundingsCsv(readFileSync(join(DEMO_DIR, survey.fileName), "utf8"));
-    return { parsed, elevation: bottomElevations(parsed, survey.waterSurfaceElevationFt), refusal: refusalElevations(parsed, survey.waterSurfaceElevationFt) };
+    const { elevation, refusalElevation } = soundingElevations(parsed, survey.waterSurfaceElevationFt);
+    return { parsed, elevation, refusal: refusalElevation };
   });
   const [base, ...later] = points;
   const result = computeSurveyVolumes(
