@@ -1,6 +1,6 @@
 import mariadb from "mariadb";
 import { Sequelize } from "sequelize";
-import { getEnv } from "../app/lib/env.server";
+import { getDatabaseSettings } from "./settings";
 
 // One Sequelize instance per process, talking to MariaDB through the `mariadb` connector.
 // Times are stored and read in UTC ("+00:00") so a server's local zone never shifts them.
@@ -9,7 +9,7 @@ let instance: Sequelize | undefined;
 
 export function getSequelize(): Sequelize {
   if (instance) return instance;
-  const env = getEnv();
+  const env = getDatabaseSettings();
   instance = new Sequelize(env.DB_NAME, env.DB_USER, env.DB_PASSWORD, {
     dialect: "mariadb",
     dialectModule: mariadb,

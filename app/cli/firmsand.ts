@@ -5,7 +5,7 @@ import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/epsg.server";
 import { createCrs, type Crs } from "../../shared/crs";
 import type { ProjectedMultiPolygon, Ring } from "../../shared/grid/work-limit";
 import { computeSurveyVolumes, type EngineResult, type EngineSettings, type SurveyPoints } from "../../shared/pipeline";
-import { bottomElevations, refusalElevations } from "../../shared/soundings/elevations";
+import { soundingElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv, type ParsedSoundings } from "../../shared/soundings/parse-csv";
 import { defaultsFor, lengthUnitSchema, type LengthUnit } from "../../shared/units";
 import { volumeReport } from "../../shared/volumes/report";
@@ -193,10 +193,10 @@ async function runVolumes(argv: string[]): Promise<string> {
   let firm: SurveyPoints;
   if (options.firm !== undefined) {
     const firmSoundings = readSoundings(options.firm);
-    const refusal = refusalElevations(firmSoundings, options["firm-wse"]);
-    firm = surveyPoints(firmSoundings, refusal ?? bottomElevations(firmSoundings, options["firm-wse"]));
+    const { elevation, refusalElevation } = soundingElevations(firmSoundings, options["firm-wse"]);
+    firm = surveyPoints(firmSoundings, refusalElevation ?? elevation);
   } else {
-    const refusal = refusalElevations(before, options["before-wse"]);
+    const refusal = soundingElevations(before, options["before-wse"]).refusalElevation;
     if (refusal === null || refusal.every(Number.isNaN)) {
       throw new InputError(`${options.before}: has no probe readings (column "probe" or "probe_depth"); give the firm-sand surface with --firm FILE`);
     }
@@ -206,8 +206,8 @@ async function runVolumes(argv: string[]): Promise<string> {
   const workLimit = options.limit === undefined ? null : readWorkLimit(options.limit, crs);
   const tolerance = options.tolerance ?? defaults.tolerance;
   const surveys = {
-    baseline: surveyPoints(before, bottomElevations(before, options["before-wse"])),
-    progress: [surveyPoints(after, bottomElevations(after, options["after-wse"]))],
+    baseline: surveyPoints(before, soundingElevations(before, options["before-wse"]).elevation),
+    progress: [surveyPoints(after, soundingElevations(after, options["after-wse"]).elevation)],
     firm,
   };
   const settings: EngineSettings = {

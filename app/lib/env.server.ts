@@ -1,18 +1,16 @@
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
-import { join, resolve } from "node:path";
+import { join } from "node:path";
 import { randomBytes } from "node:crypto";
 import { z } from "zod";
+import { DATA_DIR, parseEnvironment } from "../../db/settings";
 
 // Firmsand's environment, parsed once with zod at first use. Every server module reads
-// settings from here, never from process.env directly.
+// settings from here (the database connection's from db/settings.ts), never from process.env directly.
 
-const DATA_DIR = resolve(process.cwd(), ".data");
-
-/** Reads a per-machine secret from the git-ignored data directory (written by the bring-up). */
-function localSecret(name: string, create: boolean): string | undefined {
+/** Reads a per-machine secret from the git-ignored data directory, creating it the first time. */
+function localSecret(name: string): string {
   const file = join(DATA_DIR, `${name}.secret`);
   if (!existsSync(file)) {
-    if (!create) return undefined;
     mkdirSync(DATA_DIR, { recursive: true });
     writeFileSync(file, randomBytes(32).toString("hex"), { mode: 0o600 });
   }
@@ -26,11 +24,6 @@ const flag = z
 
 const envSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
-  DB_HOST: z.string().min(1).default("127.0.0.1"),
-  DB_PORT: z.coerce.number().int().min(1).max(65535).default(3307),
-  DB_NAME: z.string().min(1).default("firmsand"),
-  DB_USER: z.string().min(1).default("firmsand"),
-  DB_PASSWORD: z.string().optional(),
   SMTP_HOST: z.string().min(1).default("127.0.0.1"),
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
   MAIL_FROM: z.string().min(3).default("Firmsand <no-reply@firmsand.localhost>"),
@@ -68,42 +61,22 @@ export type UploadEnv = z.infer<typeof uploadEnvSchema>;
 let parsedUploads: UploadEnv | undefined;
 
 export function getUploadEnv(): UploadEnv {
-  parsedUploads ??= parseOrExplain(uploadEnvSchema);
+  parsedUploads ??= parseEnvironment(uploadEnvSchema);
   return parsedUploads;
 }
 
-function parseOrExplain<T extends z.ZodType>(schema: T): z.infer<T> {
-  const result = schema.safeParse(process.env);
-  if (!result.success) {
-    const problems = result.error.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`).join("; ");
-    throw new Error(`Firmsand's environment is not valid: ${problems}`);
-  }
-  return result.data;
-}
-
-export type Env = z.infer<typeof envSchema> & { DB_PASSWORD: string; SESSION_SECRET: string };
+/** The app's settings; the database's are db/settings.ts (read by the connection). */
+export type Env = z.infer<typeof envSchema> & { SESSION_SECRET: string };
 
 let parsed: Env | undefined;
 
 export function getEnv(): Env {
   if (parsed) return parsed;
-  const result = envSchema.safeParse(process.env);
-  if (!result.success) {
-    const problems = result.error.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`).join("; ");
-    throw new Error(`Firmsand's environment is not valid: ${problems}`);
-  }
-  const value = result.data;
+  const value = parseEnvironment(envSchema);
   const production = value.NODE_ENV === "production";
   // Outside production a generated secret under .data/ stands in (never committed).
-  const sessionSecret = value.SESSION_SECRET ?? (production ? undefined : localSecret("session", true));
+  const sessionSecret = value.SESSION_SECRET ?? (production ? undefined : localSecret("session"));
   if (!sessionSecret) throw new Error("Firmsand's environment is not valid: SESSION_SECRET is required in production");
-  const dbPassword = value.DB_PASSWORD ?? localSecret("mariadb-app-password", false) ?? "";
-  parsed = { ...value, SESSION_SECRET: sessionSecret, DB_PASSWORD: dbPassword };
+  parsed = { ...value, SESSION_SECRET: sessionSecret };
   return parsed;
-}
-
-/** The subset of settings the browser may see. */
-export function publicEnv() {
-  const env = getEnv();
-  return { demoMode: env.DEMO_MODE };
 }

@@ -49,12 +49,8 @@ export async function listDiveTeams(project: ProjectView): Promise<DiveTeamView[
 }
 
 function presentTeam(team: DiveTeam, project: ProjectView): DiveTeamView {
-  const members = parseJson<DiveTeamMember[]>(team.members);
-  return { id: team.id, name: team.name, station: team.station, hoses: parseJson<string[]>(team.hoses), members, belowMinimum: members.length < project.minTeamSize };
-}
-
-function parseJson<T>(value: unknown): T {
-  return (typeof value === "string" ? JSON.parse(value) : value) as T;
+  const { members } = team;
+  return { id: team.id, name: team.name, station: team.station, hoses: team.hoses, members, belowMinimum: members.length < project.minTeamSize };
 }
 
 export interface NoDecompressionInfo {

@@ -72,7 +72,7 @@ export async function listProjectAuditEvents(project: ProjectView, page: number)
     at: event.createdAt.toISOString(),
     action: event.action,
     actor: event.user ? `${event.user.name} <${event.user.email}>` : null,
-    detail: typeof event.detail === "string" ? JSON.parse(event.detail) : event.detail ?? {},
+    detail: event.detail,
     ip: event.ip,
   }));
   return { events, page, pageCount: Math.max(1, Math.ceil(count / AUDIT_PAGE_SIZE)), total: count };

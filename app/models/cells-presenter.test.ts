@@ -33,8 +33,8 @@ describe("presentCellsPayload", () => {
     expect(JSON.stringify(payload.coverage)).toBe("[0.123,0,0,0,0,1]");
   });
 
-  it("reports the newest computation time and the unit labels", () => {
+  it("reports the newest computation time and the project's unit labels (US survey feet → ftUS and yd³)", () => {
     expect(payload.computedAt).toBe("2026-11-25T08:00:00.000Z");
-    expect(payload.labels.volume).not.toBe("");
+    expect(payload.labels).toEqual({ length: "ftUS", volume: "yd³" });
   });
 });

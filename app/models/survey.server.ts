@@ -35,11 +35,6 @@ const withUsers = [
   { model: User, as: "retractedBy", attributes: ["name"] },
 ];
 
-function parseJson(value: unknown): Record<string, unknown> {
-  if (typeof value === "string") return JSON.parse(value) as Record<string, unknown>;
-  return (value ?? {}) as Record<string, unknown>;
-}
-
 function presentListItem(survey: Survey): SurveyListItem {
   return {
     id: survey.id,
@@ -68,7 +63,7 @@ function presentDetails(survey: Survey): SurveyDetails {
     retractedReason: survey.retractedReason ?? null,
     retractedBy: survey.retractedBy?.name ?? null,
     retractedAt: survey.retractedAt ? survey.retractedAt.toISOString() : null,
-    qa: parseJson(survey.qa),
+    qa: survey.qa,
   };
 }
 
@@ -133,7 +128,7 @@ export interface ProjectStatistics {
 
 export async function getProjectStatistics(project: ProjectView): Promise<ProjectStatistics> {
   const snapshots = await SurveySnapshot.findAll({ where: { projectId: project.id }, attributes: ["surveyedOn", "totals"], order: [["surveyedOn", "ASC"]] });
-  const history = snapshots.map((snapshot) => ({ surveyedOn: snapshot.surveyedOn, totals: parseJson(snapshot.totals) as unknown as SnapshotTotals }));
+  const history = snapshots.map((snapshot) => ({ surveyedOn: snapshot.surveyedOn, totals: snapshot.totals }));
   const cells = await CellResult.findAll({ where: { projectId: project.id }, attributes: ["status"], raw: true });
   const statusCounts: Partial<Record<CellResultStatus, number>> = {};
   for (const cell of cells) statusCounts[cell.status] = (statusCounts[cell.status] ?? 0) + 1;

@@ -1,6 +1,7 @@
 import { Form, data } from "react-router";
 import { z } from "zod";
 import { FormMessage } from "~/components/form-message";
+import { ConfirmedActionForm } from "~/components/confirmed-action-form";
 import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
@@ -121,12 +122,11 @@ function ApiTokens({ tokens, newToken, errors }: { tokens: TokenRow[]; newToken?
                 <td>{token.createdAt.slice(0, 10)}</td>
                 <td>{token.lastUsedAt ? token.lastUsedAt.slice(0, 16).replace("T", " ") : "never"}</td>
                 <td className="text-right">
-                  <Form method="post" onSubmit={(event) => {
-                    if (!window.confirm(`Revoke "${token.name}"? Programs using it will be refused. This cannot be undone.`)) event.preventDefault();
-                  }}>
-                    <input type="hidden" name="tokenId" value={token.id} />
-                    <SubmitButton intent="revoke-token" tone="plain" pendingLabel="Revoking…" aria-label={`Revoke ${token.name}`}>Revoke</SubmitButton>
-                  </Form>
+                  <ConfirmedActionForm
+                    question={`Revoke "${token.name}"? Programs using it will be refused. This cannot be undone.`}
+                    intent="revoke-token" fields={{ tokenId: token.id }} tone="plain"
+                    label="Revoke" pendingLabel="Revoking…" accessibleName={`Revoke ${token.name}`}
+                  />
                 </td>
               </tr>
             ))}

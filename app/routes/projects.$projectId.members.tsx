@@ -1,6 +1,7 @@
-import { Form, data, useNavigation } from "react-router";
+import { Form, data } from "react-router";
 import { z } from "zod";
-import { FormMessage } from "~/components/form-message";
+import { ActionMessages } from "~/components/form-message";
+import { ConfirmedActionForm } from "~/components/confirmed-action-form";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { requireRole } from "~/lib/access.server";
@@ -60,15 +61,11 @@ export function meta({}: Route.MetaArgs) {
 const selectClass = "rounded border border-line bg-panel px-2 py-1 focus:outline-2 focus:outline-lagoon";
 
 export default function ProjectMembers({ loaderData, actionData }: Route.ComponentProps) {
-  const navigation = useNavigation();
   const errors: Record<string, string> = actionData?.errors ?? {};
   const inviteErrors = actionData?.intent === "invite" || actionData?.intent === "invalid" ? errors : {};
   return (
     <div className="space-y-8">
-      <div aria-live="polite">
-        <FormMessage tone="error">{errors.form}</FormMessage>
-        <FormMessage tone="success">{navigation.state === "idle" ? actionData?.notice : null}</FormMessage>
-      </div>
+      <ActionMessages error={errors.form} notice={actionData?.notice} />
 
       <section aria-labelledby="members-heading">
         <h2 id="members-heading" className="text-lg font-semibold">Members</h2>
@@ -92,15 +89,11 @@ export default function ProjectMembers({ loaderData, actionData }: Route.Compone
                   </Form>
                 </td>
                 <td>
-                  <Form
-                    method="post"
-                    onSubmit={(event) => {
-                      if (!confirm(`Remove ${member.name} from this project?`)) event.preventDefault();
-                    }}
-                  >
-                    <input type="hidden" name="membershipId" value={member.membershipId} />
-                    <SubmitButton tone="danger" intent="remove" pendingLabel="Removing…" className="px-2 py-1 text-sm" aria-label={`Remove ${member.name}`}>Remove</SubmitButton>
-                  </Form>
+                  <ConfirmedActionForm
+                    question={`Remove ${member.name} from this project?`}
+                    intent="remove" fields={{ membershipId: member.membershipId }}
+                    label="Remove" pendingLabel="Removing…" accessibleName={`Remove ${member.name}`} className="px-2 py-1 text-sm"
+                  />
                 </td>
               </tr>
             ))}

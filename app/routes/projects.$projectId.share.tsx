@@ -1,6 +1,7 @@
-import { Form, data, useNavigation } from "react-router";
+import { Form, data } from "react-router";
 import { z } from "zod";
-import { FormMessage } from "~/components/form-message";
+import { ActionMessages } from "~/components/form-message";
+import { ConfirmedActionForm } from "~/components/confirmed-action-form";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { requireRole } from "~/lib/access.server";
@@ -53,15 +54,11 @@ function embedSnippet(url: string): string {
 const areaClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py-2 focus:outline-2 focus:outline-offset-1 focus:outline-lagoon";
 
 export default function ProjectShare({ loaderData, actionData }: Route.ComponentProps) {
-  const navigation = useNavigation();
   const errors: Record<string, string> = actionData?.errors ?? {};
   const created = actionData?.created ?? null;
   return (
     <div className="space-y-8">
-      <div aria-live="polite">
-        <FormMessage tone="error">{errors.form}</FormMessage>
-        <FormMessage tone="success">{navigation.state === "idle" ? actionData?.notice : null}</FormMessage>
-      </div>
+      <ActionMessages error={errors.form} notice={actionData?.notice} />
       {created ? (
         <section aria-labelledby="new-link" className="rounded border border-lagoon bg-panel p-4">
           <h2 id="new-link" className="font-semibold">New link: {created.name}</h2>
@@ -107,10 +104,11 @@ export default function ProjectShare({ loaderData, actionData }: Route.Component
                     </div>
                     <SubmitButton intent="update" tone="plain" pendingLabel="Saving…">Save text</SubmitButton>
                   </Form>
-                  <Form method="post">
-                    <input type="hidden" name="shareLinkId" value={link.id} />
-                    <SubmitButton intent="revoke" tone="danger" pendingLabel="Revoking…" aria-label={`Revoke ${link.name}`}>Revoke</SubmitButton>
-                  </Form>
+                  <ConfirmedActionForm
+                    question={`Revoke "${link.name}"? Its public address stops working at once, including where a page embeds it. This cannot be undone.`}
+                    intent="revoke" fields={{ shareLinkId: link.id }}
+                    label="Revoke" pendingLabel="Revoking…" accessibleName={`Revoke ${link.name}`}
+                  />
                 </div>
               )}
             </li>

@@ -9,8 +9,7 @@ import { clientAddress } from "~/lib/client-address.server";
 import { isExpiredJob } from "~/lib/import/abandoned-uploads.server";
 import { commitChoicesFromFields } from "~/lib/import/form-fields";
 import { findImportJob, jobChoices, jobOptions, jobPreview, presentJobProgress } from "~/lib/import/import-job-view.server";
-import { ImportJobClosed, previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
-import { discardStagedFile } from "~/lib/import/stage-upload.server";
+import { discardImportJob, ImportJobClosed, previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
 import { soundingFields } from "../../shared/soundings/parse-csv";
 import type { Route } from "./+types/projects.$projectId.surveys.imports.$jobId";
 
@@ -63,8 +62,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const form = await request.formData();
   const intent = form.get("intent");
   if (intent === "discard") {
-    await discardStagedFile(job.filePath);
-    await job.destroy();
+    if ((await discardImportJob(job)) === "in use") return data({ error: "This upload is being checked or imported right now, so it cannot be discarded." }, { status: 409 });
     throw redirect(`/projects/${project.id}/surveys`);
   }
   if (isExpiredJob(job)) return data({ error: job.error ?? "This upload has expired. Upload the file again." }, { status: 410 });

@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
+import { jsonColumn, jsonObject } from "./json-column";
 import type { Project } from "./project";
 import type { User } from "./user";
 
@@ -19,7 +20,7 @@ export function initAuditEvent(sequelize: Sequelize) {
     {
       id: { type: DataTypes.BIGINT.UNSIGNED, autoIncrement: true, primaryKey: true },
       action: { type: DataTypes.STRING(60), allowNull: false },
-      detail: { type: DataTypes.JSON, allowNull: false, defaultValue: {} },
+      detail: jsonColumn("audit_events", "detail", jsonObject, { defaultValue: {} }),
       ip: { type: DataTypes.STRING(64), allowNull: true },
       createdAt: DataTypes.DATE,
     },

@@ -1,4 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { z } from "zod";
+import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
 import type { User } from "./user";
 
@@ -16,7 +18,7 @@ export function initColumnMapping(sequelize: Sequelize) {
   ColumnMapping.init(
     {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
-      mapping: { type: DataTypes.JSON, allowNull: false },
+      mapping: jsonColumn("column_mappings", "mapping", z.record(z.string(), z.string())),
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -1,4 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { z } from "zod";
+import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
 
 export interface DiveTeamMember {
@@ -28,8 +30,8 @@ export function initDiveTeam(sequelize: Sequelize) {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       name: { type: DataTypes.STRING(120), allowNull: false },
       station: { type: DataTypes.STRING(200), allowNull: false, defaultValue: "" },
-      hoses: { type: DataTypes.JSON, allowNull: false },
-      members: { type: DataTypes.JSON, allowNull: false },
+      hoses: jsonColumn("dive_teams", "hoses", z.array(z.string())),
+      members: jsonColumn("dive_teams", "members", z.array(z.object({ name: z.string(), email: z.string(), duty: z.string() }))),
       sortOrder: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

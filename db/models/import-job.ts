@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { jsonColumn, jsonObject } from "./json-column";
 import type { Project } from "./project";
 import type { Survey } from "./survey";
 import type { User } from "./user";
@@ -42,8 +43,8 @@ export function initImportJob(sequelize: Sequelize) {
       filePath: { type: DataTypes.STRING(1024), allowNull: false },
       fileSize: { type: DataTypes.BIGINT.UNSIGNED, allowNull: false },
       contentSha256: { type: DataTypes.CHAR(64), allowNull: false },
-      options: { type: DataTypes.JSON, allowNull: false },
-      preview: { type: DataTypes.JSON, allowNull: true },
+      options: jsonColumn("import_jobs", "options", jsonObject),
+      preview: jsonColumn("import_jobs", "preview", jsonObject, { allowNull: true }),
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -1,7 +1,12 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { z } from "zod";
+import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
 import type { Survey } from "./survey";
 import type { FigureTotals } from "../../app/lib/import/project-computation";
+
+/** Totals are counts and volumes: numbers only. */
+const totalsSchema = z.record(z.string(), z.number());
 
 /** Project and zone totals in the project's volume unit after one survey date. */
 export type SnapshotTotals = FigureTotals;
@@ -34,8 +39,8 @@ export function initSurveySnapshot(sequelize: Sequelize) {
     {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       surveyedOn: { type: DataTypes.DATEONLY, allowNull: false },
-      totals: { type: DataTypes.JSON, allowNull: false },
-      zones: { type: DataTypes.JSON, allowNull: false },
+      totals: jsonColumn("survey_snapshots", "totals", totalsSchema),
+      zones: jsonColumn("survey_snapshots", "zones", z.array(z.object({ zoneId: z.number(), name: z.string(), totals: totalsSchema }))),
       cellCols: { type: DataTypes.INTEGER, allowNull: false },
       cellRows: { type: DataTypes.INTEGER, allowNull: false },
       firstCol: { type: DataTypes.INTEGER, allowNull: false },

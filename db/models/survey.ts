@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
+import { jsonColumn, jsonObject } from "./json-column";
 import type { Project } from "./project";
 import type { User } from "./user";
 
@@ -67,7 +68,7 @@ export function initSurvey(sequelize: Sequelize) {
       status: { type: DataTypes.ENUM(...SURVEY_STATUSES), allowNull: false, defaultValue: "active" },
       retractedReason: { type: DataTypes.TEXT, allowNull: true },
       retractedAt: { type: DataTypes.DATE, allowNull: true },
-      qa: { type: DataTypes.JSON, allowNull: false },
+      qa: jsonColumn("surveys", "qa", jsonObject),
       coverage: { type: DataTypes.DOUBLE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

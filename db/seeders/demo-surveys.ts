@@ -62,8 +62,3 @@ export async function seedDemoSurveys(log: (message: string) => void = () => und
   }
   return seeded;
 }
-
-/** Where a demo survey file lives (tests upload the same files). */
-export function demoSurveyPath(fileName: string): string {
-  return join(DEMO_DIR, fileName);
-}

@@ -1,6 +1,5 @@
 import { describe, expect, it } from "vitest";
 import { createSoundingCsvParser, parseSoundingsCsv } from "./parse-csv";
-import { bottomElevations, refusalElevations } from "./elevations";
 
 // Row numbers are spreadsheet rows (practice: a technician opens the CSV in a spreadsheet, where
 // the header is row 1), so the first data row is row 2.
@@ -110,18 +109,5 @@ describe("parseSoundingsCsv", () => {
     expect(whole.errors).toHaveLength(1);
     expect(whole.errors[0]).toMatchObject({ row: 502, column: "x", value: "1,5" });
     expect(whole.rowCount).toBe(501);
-  });
-});
-
-describe("elevations", () => {
-  it("elevation = water-surface elevation − depth; refusal = water surface − probe; file elevations win", () => {
-    // practice: soundings and probe depths are read downward from the water surface (DESIGN.md, step 1).
-    const parsed = parseSoundingsCsv("x,y,depth,probe,elevation\n0,0,3,5,\n1,0,4,6,-10\n");
-    const bottom = bottomElevations(parsed, 12.5);
-    expect(bottom[0]).toBeCloseTo(12.5 - 3, 12);
-    expect(bottom[1]).toBe(-10);
-    const refusal = refusalElevations(parsed, 12.5);
-    expect(refusal?.[0]).toBeCloseTo(12.5 - 5, 12);
-    expect(refusalElevations(parseSoundingsCsv("x,y,depth\n0,0,1\n"), 0)).toBeNull();
   });
 });

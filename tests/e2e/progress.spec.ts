@@ -143,6 +143,12 @@ test("outreach creates a link, a signed-out browser sees the zones, outreach rev
   expect(signedIn.headers()["cache-control"]).toMatch(/^private, max-age=\d+/);
 
   const item = page.getByTestId("share-link").filter({ hasText: name });
+  // Revoking asks first: declining keeps the link, accepting revokes it.
+  page.once("dialog", (dialog) => dialog.dismiss());
+  await item.getByRole("button", { name: `Revoke ${name}` }).click();
+  await expect(item).toBeVisible();
+  expect((await page.request.get(new URL(url!).pathname)).status()).toBe(200);
+  page.once("dialog", (dialog) => { expect(dialog.message()).toContain("cannot be undone"); void dialog.accept(); });
   await item.getByRole("button", { name: `Revoke ${name}` }).click();
   await expect(page.getByText("Link revoked")).toBeVisible();
   const later = await browser.newContext({ baseURL });

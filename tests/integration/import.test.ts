@@ -4,7 +4,7 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { computeSurveyVolumes, type EngineSettings } from "../../shared/pipeline";
-import { bottomElevations, refusalElevations } from "../../shared/soundings/elevations";
+import { soundingElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT } from "../../sample-data/scenario";
 import { AuditEvent, Sounding, Survey, getSequelize } from "~/lib/db.server";
@@ -42,7 +42,8 @@ function directTotals(surveys: Array<(typeof SURVEYS)[number]>) {
   const workLimit = [WORK_LIMIT.coordinates.map((ring) => ring.map(([lon, lat]) => crs.fromLonLat(lon, lat)))];
   const points = surveys.map((survey) => {
     const parsed = parseSoundingsCsv(readFileSync(join(DEMO_DIR, survey.fileName), "utf8"));
-    return { parsed, elevation: bottomElevations(parsed, survey.waterSurfaceElevationFt), refusal: refusalElevations(parsed, survey.waterSurfaceElevationFt) };
+    const { elevation, refusalElevation } = soundingElevations(parsed, survey.waterSurfaceElevationFt);
+    return { parsed, elevation, refusal: refusalElevation };
   });
   const [base, ...later] = points;
   const settings: EngineSettings = {

@@ -156,11 +156,6 @@ export function startAbandonedUploadSweeper(): void {
   timer.unref();
 }
 
-export function stopAbandonedUploadSweeper(): void {
-  if (timer) clearInterval(timer);
-  timer = null;
-}
-
 // The production server (app/serve.mjs) starts the background tasks the app registers on load,
 // once it listens; tests and scripts that import this module start nothing.
 const registry = globalThis as typeof globalThis & { firmsandBackgroundTasks?: Array<() => void> };

@@ -1,12 +1,12 @@
 import type { Transaction } from "sequelize";
+import type { SurveyQa } from "../../../shared/qa/survey-qa";
+import type { PreparedSoundings } from "../../../shared/soundings/prepare";
 import { AUDIT_ACTIONS, recordAudit } from "../../models/audit.server";
 import { Project, Survey, getSequelize } from "../db.server";
-import type { PreparedSoundings } from "./analyse.server";
 import type { ImportOptions } from "./import-options";
 import { insertSoundings } from "./insert-soundings.server";
 import { withProjectLock } from "./project-lock.server";
 import { recomputeProjectStatistics } from "./recompute.server";
-import type { SurveyQa } from "./survey-qa";
 
 /**
  * Stores a survey in ONE transaction: the survey row, its soundings (bulk), the recomputed cell

@@ -1,7 +1,7 @@
+import type { ImportPreview } from "../../../shared/soundings/prepare";
 import type { ProjectAccess } from "~/lib/access.server";
 import { ImportJob } from "~/lib/db.server";
 import { can } from "~/lib/permissions";
-import type { ImportPreview } from "./analyse.server";
 import { commitChoicesSchema, importOptionsSchema, type CommitChoices, type ImportOptions } from "./import-options";
 
 /** An import job as its page and its progress poll see it: its uploader's, or anyone's to those the table allows. */
@@ -12,17 +12,12 @@ export async function findImportJob(access: ProjectAccess, jobId: number): Promi
   return job;
 }
 
-function parseJson<T>(value: unknown): T | null {
-  if (value === null || value === undefined) return null;
-  return (typeof value === "string" ? JSON.parse(value) : value) as T;
-}
-
 export function jobOptions(job: ImportJob): ImportOptions {
-  return importOptionsSchema.parse(parseJson(job.options));
+  return importOptionsSchema.parse(job.options);
 }
 
 export function jobPreview(job: ImportJob): (ImportPreview & { choices?: CommitChoices }) | null {
-  return parseJson(job.preview);
+  return job.preview as (ImportPreview & { choices?: CommitChoices }) | null;
 }
 
 export function jobChoices(job: ImportJob): CommitChoices {

@@ -1,7 +1,8 @@
 import { Op } from "sequelize";
+import type { ImportPreview } from "../../../shared/soundings/prepare";
 import { ColumnMapping, ImportJob } from "../db.server";
 import { EXPIRED_STAGE } from "./abandoned-uploads.server";
-import { analyseStagedFile, type ImportPreview } from "./analyse.server";
+import { analyseStagedFile } from "./analyse.server";
 import { commitSurvey, type CommitSurveyInput, type CommittedSurvey } from "./commit.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
 import { loadProjectGeometry } from "./project-geometry.server";
@@ -116,6 +117,25 @@ async function claimOpenJob(job: ImportJob, values: Partial<Pick<ImportJob, "sta
   const [changed] = await ImportJob.update(values, { where: { id: job.id, ...OPEN_JOB } });
   if (changed === 1) job.set(values);
   return changed === 1;
+}
+
+/** States a job may be discarded from: no commit and no preview is reading its staged file. */
+const DISCARDABLE_STATES = ["staged", "ready", "failed", "done"] as const;
+
+/** "in use": a commit or a preview holds the job, so its file stays; the job is unchanged. */
+export type DiscardOutcome = "discarded" | "in use";
+
+/**
+ * Throws an upload away: the job row goes in one conditional DELETE that repeats the state test,
+ * so a discard cannot race a commit (whose start is conditional the other way round, see
+ * claimOpenJob) or a preview; only once the row is gone is the staged file removed. A file left
+ * behind by a failed removal is no job's any more, and the sweep of abandoned uploads takes it.
+ */
+export async function discardImportJob(job: ImportJob): Promise<DiscardOutcome> {
+  const removed = await ImportJob.destroy({ where: { id: job.id, state: [...DISCARDABLE_STATES] } });
+  if (removed === 0) return (await ImportJob.count({ where: { id: job.id } })) > 0 ? "in use" : "discarded";
+  await discardStagedFile(job.filePath);
+  return "discarded";
 }
 
 /** Re-reads the staged file with the current options and choices and keeps the preview on the job. */

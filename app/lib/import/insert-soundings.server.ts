@@ -1,5 +1,5 @@
 import { QueryTypes, type Sequelize, type Transaction } from "sequelize";
-import type { PreparedSoundings } from "./analyse.server";
+import type { PreparedSoundings } from "../../../shared/soundings/prepare";
 
 /**
  * Writes a survey's soundings with multi-row INSERTs of 1,500 rows each (one round trip per chunk

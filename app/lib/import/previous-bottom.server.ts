@@ -1,6 +1,6 @@
 import { QueryTypes } from "sequelize";
 import { Survey, getSequelize } from "../db.server";
-import { binMedians } from "./depth-unit-mistakes";
+import { binMedians } from "../../../shared/soundings/depth-unit-mistakes";
 
 /**
  * What the project already knows of its bottom, for the depth-unit check: the median bottom

@@ -1,6 +1,6 @@
 import { createHash, randomBytes } from "node:crypto";
 import { createWriteStream } from "node:fs";
-import { mkdir, rm, stat } from "node:fs/promises";
+import { mkdir, rm } from "node:fs/promises";
 import { join } from "node:path";
 import { Readable, Writable } from "node:stream";
 import { pipeline } from "node:stream/promises";
@@ -115,8 +115,4 @@ export async function stageUpload(request: Request): Promise<StagedUpload> {
 
 export async function discardStagedFile(path: string): Promise<void> {
   await rm(path, { force: true });
-}
-
-export async function stagedFileExists(path: string): Promise<boolean> {
-  return stat(path).then(() => true, () => false);
 }

@@ -1,10 +1,10 @@
-import { createCellGrid, fromGridFrame } from "../../../shared/grid/cell-grid";
-import { isInsideWorkLimit, type ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
-import { crossingDifferences, linesByHeading } from "../../../shared/qa/crossings";
-import { soundingDensity } from "../../../shared/qa/density";
-import { findSpikes } from "../../../shared/qa/spikes";
-import { allowedTvu, type SurveyOrder } from "../../../shared/qa/tvu";
-import type { LengthUnit } from "../../../shared/units";
+import { createCellGrid, fromGridFrame } from "../grid/cell-grid";
+import { isInsideWorkLimit, type ProjectedMultiPolygon } from "../grid/work-limit";
+import { crossingDifferences, linesByHeading } from "./crossings";
+import { soundingDensity } from "./density";
+import { findSpikes } from "./spikes";
+import { allowedTvu, type SurveyOrder } from "./tvu";
+import type { LengthUnit } from "../units";
 
 /**
  * The QA figures shown before a commit and kept with the survey: soundings per cell over the work

@@ -1,4 +1,4 @@
-import { convertLength, type LengthUnit } from "../../../shared/units";
+import { convertLength, type LengthUnit } from "../units";
 
 /**
  * Finds the usual depth-unit mistakes before anything is stored, by comparing the file with what

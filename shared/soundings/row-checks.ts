@@ -1,4 +1,5 @@
-import { convertLength, type LengthUnit } from "../../../shared/units";
+import { convertLength, type LengthUnit } from "../units";
+import type { ParsedSoundings } from "./parse-csv";
 
 /**
  * Row checks beyond the engine's CSV rules: depths out of range and exact duplicate rows. Pure:
@@ -15,15 +16,8 @@ export interface RowProblem {
 /** Deeper than 100 m is beyond any diver-worked spring or lake bottom: most likely a wrong unit or column. */
 export const MAX_DEPTH_M = 100;
 
-export interface RowCheckInput {
-  sourceRow: Uint32Array;
-  easting: Float64Array;
-  northing: Float64Array;
-  depth: Float64Array;
-  probe: Float64Array | null;
-  elevation: Float64Array | null;
-  time: string[] | null;
-  id: string[] | null;
+/** The parser's columns, depths and elevations already in the project's length unit. */
+export interface RowCheckInput extends Pick<ParsedSoundings, "sourceRow" | "easting" | "northing" | "depth" | "probe" | "elevation" | "time" | "id"> {
   depthHeader: string;
   probeHeader: string;
   unit: LengthUnit;

@@ -1,4 +1,4 @@
-import type { SoundingField } from "../../../shared/soundings/parse-csv";
+import type { SoundingField } from "./parse-csv";
 
 /**
  * Guesses which header holds which sounding field from the names crews' field software writes.

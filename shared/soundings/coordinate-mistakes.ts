@@ -1,4 +1,4 @@
-import type { Bounds } from "../../../shared/grid/work-limit";
+import type { Bounds } from "../grid/work-limit";
 
 /**
  * Finds the usual coordinate mistakes before anything is stored: a longitude/latitude file
