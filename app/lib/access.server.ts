@@ -1,21 +1,17 @@
 import { redirect } from "react-router";
 import { z } from "zod";
 import { Membership, type Role } from "~/lib/db.server";
+import { ForbiddenError, NotFoundError, NotSignedInError } from "~/lib/errors";
 import { can, type Access, type Action } from "~/lib/permissions";
 import { findProject, presentProject, type ProjectView } from "~/models/project.server";
 import { getUserView, type UserView } from "~/models/user.server";
+import { apiErrorResponse } from "./api/errors.server";
 import { hasBearer, userIdForBearer } from "./api-token.server";
 import { getSession } from "./session.server";
 
-// The one place that decides access. Every loader and action calls requireUser or requireRole.
-
-function forbidden(message = "Your role on this project does not allow this page."): Response {
-  return new Response(message, { status: 403, statusText: "Forbidden" });
-}
-
-function notFound(message = "There is no such project."): Response {
-  return new Response(message, { status: 404, statusText: "Not Found" });
-}
+// The one place that decides access. The core (signedInUser, projectAccess) throws typed errors;
+// pages call requireUser / requireRole, which answer as pages do (a redirect to sign in, a 403 or
+// 404 page), and the API calls requireApiAccess (app/lib/api), which answers in JSON.
 
 /**
  * The signed-in user, or null (a session for a deleted account counts as signed out). A request
@@ -33,26 +29,13 @@ export async function getOptionalUser(request: Request): Promise<UserView | null
   return getUserView(userId);
 }
 
-/** The signed-in user; a signed-out request is redirected to /login?next=<this page>. */
-export async function requireUser(request: Request): Promise<UserView> {
+/** The signed-in user, or a NotSignedInError saying what to send. */
+export async function signedInUser(request: Request): Promise<UserView> {
   const user = await getOptionalUser(request);
   if (user) return user;
-  if (hasBearer(request)) {
-    // A program, not a person: say so plainly instead of redirecting to the sign-in page.
-    throw Response.json(
-      { error: "The API token is unknown or has been revoked." },
-      { status: 401, headers: { "WWW-Authenticate": 'Bearer realm="Firmsand"' } },
-    );
-  }
-  const url = new URL(request.url);
-  throw redirect(`/login?next=${encodeURIComponent(url.pathname + url.search)}`);
-}
-
-/** A site admin only (e.g. /dev/mail). */
-export async function requireSiteAdmin(request: Request): Promise<UserView> {
-  const user = await requireUser(request);
-  if (!user.isSiteAdmin) throw forbidden("Only a site administrator may open this page.");
-  return user;
+  throw new NotSignedInError(
+    hasBearer(request) ? "The API token is unknown or has been revoked." : "Sign in, or send a personal API token as Authorization: Bearer <token>.",
+  );
 }
 
 const projectIdSchema = z.coerce.number().int().positive();
@@ -66,27 +49,80 @@ export interface ProjectAccess extends Access {
 
 /**
  * The signed-in user's access to a project for `action`, as the permission table (permissions.ts)
- * allows it; by default reading the project, which every member and a site admin may. A
- * signed-out request is redirected to sign in; an unknown project is a 404; a non-member or a
- * role the table does not allow a 403.
+ * allows it; by default reading the project, which every member and a site admin may. Signed out:
+ * NotSignedInError; an unknown project: NotFoundError; a non-member or a role the table does not
+ * allow: ForbiddenError (`refused` names what is refused: "page" or "request").
  */
-export async function requireRole(request: Request, projectId: string | number | undefined, action: Action = "project.read"): Promise<ProjectAccess> {
-  const user = await requireUser(request);
+export async function projectAccess(request: Request, projectId: string | number | undefined, action: Action = "project.read", refused = "page"): Promise<ProjectAccess> {
+  const user = await signedInUser(request);
   const parsedId = projectIdSchema.safeParse(projectId);
-  if (!parsedId.success) throw notFound();
+  if (!parsedId.success) throw new NotFoundError("There is no such project.");
   const project = await findProject(parsedId.data);
-  if (!project) throw notFound();
+  if (!project) throw new NotFoundError("There is no such project.");
   const membership = await Membership.findOne({ where: { projectId: project.id, userId: user.id } });
   const access: ProjectAccess = { role: membership?.role ?? null, isSiteAdmin: user.isSiteAdmin, user, project: presentProject(project) };
-  requireAllowed(access, action);
+  assertAllowed(access, action, refused);
   return access;
 }
 
-/**
- * For an action whose permission depends on what the request asks (a form with several intents):
- * a 403 unless the table allows `action`.
- */
-export function requireAllowed(access: ProjectAccess, action: Action): void {
+/** A ForbiddenError unless the table allows `action` (for a request whose permission depends on what it asks). */
+export function assertAllowed(access: ProjectAccess, action: Action, refused = "page"): void {
   if (can(access, action)) return;
-  throw forbidden(access.role === null && !access.isSiteAdmin ? "You are not a member of this project." : "Your role on this project does not allow this page.");
+  throw new ForbiddenError(access.role === null && !access.isSiteAdmin ? "You are not a member of this project." : `Your role on this project does not allow this ${refused}.`);
+}
+
+// ——— Pages.
+
+/**
+ * A page's answer to a refusal: signed out → redirect to /login?next=<this page> (or, for a
+ * program sending a bearer token, the API's JSON 401 rather than a sign-in page); refused → 403;
+ * unknown → 404. Anything else is rethrown as it is.
+ */
+function pageRefusal(request: Request, error: unknown): unknown {
+  if (error instanceof NotSignedInError) {
+    if (hasBearer(request)) return apiErrorResponse(error);
+    const url = new URL(request.url);
+    return redirect(`/login?next=${encodeURIComponent(url.pathname + url.search)}`);
+  }
+  return refusedPage(error);
+}
+
+function refusedPage(error: unknown): unknown {
+  if (error instanceof ForbiddenError) return new Response(error.message, { status: 403, statusText: "Forbidden" });
+  if (error instanceof NotFoundError) return new Response(error.message, { status: 404, statusText: "Not Found" });
+  return error;
+}
+
+/** The signed-in user; a signed-out request is redirected to /login?next=<this page>. */
+export async function requireUser(request: Request): Promise<UserView> {
+  try {
+    return await signedInUser(request);
+  } catch (error) {
+    throw pageRefusal(request, error);
+  }
+}
+
+/** A site admin only (e.g. /dev/mail). */
+export async function requireSiteAdmin(request: Request): Promise<UserView> {
+  const user = await requireUser(request);
+  if (!user.isSiteAdmin) throw new Response("Only a site administrator may open this page.", { status: 403, statusText: "Forbidden" });
+  return user;
+}
+
+/** projectAccess for a page: signed out → sign in, unknown project → 404, refused → 403. */
+export async function requireRole(request: Request, projectId: string | number | undefined, action: Action = "project.read"): Promise<ProjectAccess> {
+  try {
+    return await projectAccess(request, projectId, action);
+  } catch (error) {
+    throw pageRefusal(request, error);
+  }
+}
+
+/** assertAllowed for a page: a 403 unless the table allows `action`. */
+export function requireAllowed(access: ProjectAccess, action: Action): void {
+  try {
+    assertAllowed(access, action);
+  } catch (error) {
+    throw refusedPage(error);
+  }
 }

@@ -1,3 +1,5 @@
+import { ForbiddenError } from "./errors";
+import { apiErrorResponse } from "./api/errors.server";
 import { getEnv } from "./env.server";
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
@@ -9,8 +11,9 @@ export function appOrigin(request: Request): string {
 
 /**
  * Refuses a mutating request whose Origin header is missing or names another site: forms
- * posted from elsewhere (cross-site request forgery) get a 403. Browsers send Origin on every
- * POST, so a same-site form always passes. Called once, from the root route's middleware.
+ * posted from elsewhere (cross-site request forgery) get a 403, in the API's JSON shape under
+ * /api. Browsers send Origin on every POST, so a same-site form always passes. Called once, from
+ * the root route's middleware.
  */
 export function assertSameOrigin(request: Request): void {
   if (SAFE_METHODS.has(request.method.toUpperCase())) return;
@@ -19,6 +22,11 @@ export function assertSameOrigin(request: Request): void {
   if (/^Bearer\s/i.test(request.headers.get("Authorization") ?? "")) return;
   const origin = request.headers.get("Origin");
   if (origin && origin === appOrigin(request)) return;
+  if (new URL(request.url).pathname.startsWith("/api/")) {
+    throw apiErrorResponse(
+      new ForbiddenError("This request came from another site (its Origin header is missing or not Firmsand's), so Firmsand refused it. A program sends a personal API token as Authorization: Bearer <token> instead of a session cookie."),
+    );
+  }
   throw new Response("This form was sent from another site, so Firmsand refused it. Reload the page and try again.", {
     status: 403,
     statusText: "Forbidden",

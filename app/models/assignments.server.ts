@@ -5,6 +5,7 @@ import { exceedsNoDecompressionLimit, noDecompressionLimit, NO_DECOMPRESSION_CAU
 import { MAP_STATUSES } from "../../shared/palette";
 import { convertLength } from "../../shared/units";
 import { Assignment, DiveTeam, getSequelize, type DiveTeamMember } from "~/lib/db.server";
+import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { getProjectSurfaces } from "~/lib/map/project-surfaces.server";
 import { sendMail } from "~/lib/mail.server";
 import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
@@ -65,11 +66,17 @@ export function noDecompressionInfo(workingDepth: number | null, unit: ProjectVi
   return { depthFt, lookup: noDecompressionLimit(depthFt), exceeds: bottomTimeMinutes === null ? null : exceedsNoDecompressionLimit(depthFt, bottomTimeMinutes) };
 }
 
-export type CreateOutcome =
-  | { status: 201; body: { date: string; team: string; cells: string[]; teamBelowMinimum: { size: number; minimum: number } | null; workingDepths: Record<string, number | null>; noDecompression: Record<string, NoDecompressionInfo | null>; caution: string; source: string } }
-  | { status: 404; body: { error: string } }
-  | { status: 409; body: { error: string; team: string; conflicts: Array<{ cell: string; team: string }> } }
-  | { status: 422; body: { error: string; code: "unknown-cells" | "reason-required" | "unknown-hose"; cells?: string[] } };
+/** What an assignment stored: the cells, each with its working depth and no-decompression figure. */
+export interface AssignmentsCreated {
+  date: string;
+  team: string;
+  cells: string[];
+  teamBelowMinimum: { size: number; minimum: number } | null;
+  workingDepths: Record<string, number | null>;
+  noDecompression: Record<string, NoDecompressionInfo | null>;
+  caution: string;
+  source: string;
+}
 
 function cellLookup(payload: CellsPayload) {
   const { grid } = payload;
@@ -113,19 +120,24 @@ async function workingDepths(projectId: number): Promise<Float64Array | null> {
   return surfaces ? surfaces.cellMaxDepth : null;
 }
 
-export async function createAssignments(project: ProjectView, user: UserView, input: AssignmentInput, ip: string | null = null): Promise<CreateOutcome> {
+/**
+ * Assigns cells to a team on a day. Throws NotFoundError (no such team), ValidationError (a hose
+ * the team lacks, cells outside the work limit, confirmed cells without a reason: `code` says
+ * which) or ConflictError (cells already another team's that day, listed in `conflicts`).
+ */
+export async function createAssignments(project: ProjectView, user: UserView, input: AssignmentInput, ip: string | null = null): Promise<AssignmentsCreated> {
   const teams = await DiveTeam.findAll({ where: { projectId: project.id } });
   const team = teams.find((candidate) => (typeof input.team === "number" ? candidate.id === input.team : candidate.name.toLowerCase() === input.team.toLowerCase()));
-  if (!team) return { status: 404, body: { error: `There is no dive team "${input.team}" on this project.` } };
+  if (!team) throw new NotFoundError({ field: "team", message: `There is no dive team "${input.team}" on this project.` });
   const teamView = presentTeam(team, project);
   if (teamView.hoses.length > 0 && !teamView.hoses.includes(input.hose)) {
-    return { status: 422, body: { error: `${team.name} has no hose or station "${input.hose}" (it has ${teamView.hoses.join(", ")}).`, code: "unknown-hose" } };
+    throw new ValidationError({ field: "hose", message: `${team.name} has no hose or station "${input.hose}" (it has ${teamView.hoses.join(", ")}).` }, { code: "unknown-hose" });
   }
   const payload = await getCellsPayload(project);
   const lookup = cellLookup(payload);
   const labels = [...new Set(input.cells.map((label) => label.toUpperCase()))];
   const unknown = labels.filter((label) => lookup(label) === null);
-  if (unknown.length > 0) return { status: 422, body: { error: `These cells are not inside the work limit: ${unknown.join(", ")}.`, code: "unknown-cells", cells: unknown } };
+  if (unknown.length > 0) throw new ValidationError({ field: "cells", message: `These cells are not inside the work limit: ${unknown.join(", ")}.` }, { code: "unknown-cells", cells: unknown });
   const grid = payload.grid!;
   const cells = labels.map((label) => {
     const index = lookup(label)!;
@@ -135,18 +147,14 @@ export async function createAssignments(project: ProjectView, user: UserView, in
   const confirmed = cells.filter((cell) => payload.status[cell.index] === confirmedCode).map((cell) => cell.label);
   const reason = input.reason?.trim() || null;
   if (confirmed.length > 0 && !reason) {
-    return { status: 422, body: { error: `Cells ${confirmed.join(", ")} are confirmed by the closeout survey. Say why they go back into work.`, code: "reason-required", cells: confirmed } };
+    throw new ValidationError({ field: "reason", message: `Cells ${confirmed.join(", ")} are confirmed by the closeout survey. Say why they go back into work.` }, { code: "reason-required", cells: confirmed });
   }
-  const refused = (conflicts: Array<{ cell: string; team: string }>): CreateOutcome => {
+  const refused = (conflicts: Array<{ cell: string; team: string }>): ConflictError => {
     const others = [...new Set(conflicts.map((conflict) => conflict.team))].join(" and ");
-    return {
-      status: 409,
-      body: {
-        error: `Cells ${conflicts.map((conflict) => conflict.cell).join(", ")} are already assigned to ${others} on ${input.date}; a cell goes to one team per day, so they cannot also go to ${team.name}.`,
-        team: team.name,
-        conflicts,
-      },
-    };
+    return new ConflictError(
+      { field: "cells", message: `Cells ${conflicts.map((conflict) => conflict.cell).join(", ")} are already assigned to ${others} on ${input.date}; a cell goes to one team per day, so they cannot also go to ${team.name}.` },
+      { team: team.name, conflicts },
+    );
   };
   const depths = await workingDepths(project.id);
   const depthOf = (index: number) => {
@@ -156,7 +164,7 @@ export async function createAssignments(project: ProjectView, user: UserView, in
   try {
     await getSequelize().transaction(async (transaction) => {
       const conflicts = await conflictsFor(project.id, input.date, cells);
-      if (conflicts.length > 0) throw new ConflictError(conflicts);
+      if (conflicts.length > 0) throw refused(conflicts);
       await Assignment.bulkCreate(
         cells.map((cell) => ({
           projectId: project.id,
@@ -177,8 +185,8 @@ export async function createAssignments(project: ProjectView, user: UserView, in
       await recordAudit({ action: AUDIT_ACTIONS.assignmentCreated, projectId: project.id, userId: user.id, ip, detail: { date: input.date, team: team.name, hose: input.hose, cells: labels, confirmedReason: confirmed.length > 0 ? reason : undefined } }, transaction);
     });
   } catch (error) {
-    if (error instanceof ConflictError) return refused(error.conflicts);
-    if (error instanceof UniqueConstraintError) return refused(await conflictsFor(project.id, input.date, cells));
+    // Another request took a cell between the check and the insert: the unique index refuses it.
+    if (error instanceof UniqueConstraintError) throw refused(await conflictsFor(project.id, input.date, cells));
     throw error;
   }
   const workingDepthsByCell: Record<string, number | null> = {};
@@ -188,24 +196,15 @@ export async function createAssignments(project: ProjectView, user: UserView, in
     noDecompression[cell.label] = noDecompressionInfo(depthOf(cell.index), project.lengthUnit, input.bottomTimeMinutes ?? null);
   }
   return {
-    status: 201,
-    body: {
-      date: input.date,
-      team: team.name,
-      cells: labels,
-      teamBelowMinimum: teamView.belowMinimum ? { size: teamView.members.length, minimum: project.minTeamSize } : null,
-      workingDepths: workingDepthsByCell,
-      noDecompression,
-      caution: NO_DECOMPRESSION_CAUTION,
-      source: NO_DECOMPRESSION_SOURCE,
-    },
+    date: input.date,
+    team: team.name,
+    cells: labels,
+    teamBelowMinimum: teamView.belowMinimum ? { size: teamView.members.length, minimum: project.minTeamSize } : null,
+    workingDepths: workingDepthsByCell,
+    noDecompression,
+    caution: NO_DECOMPRESSION_CAUTION,
+    source: NO_DECOMPRESSION_SOURCE,
   };
-}
-
-class ConflictError extends Error {
-  constructor(readonly conflicts: Array<{ cell: string; team: string }>) {
-    super("cells already assigned");
-  }
 }
 
 export interface PlanCellView {

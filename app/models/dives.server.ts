@@ -2,6 +2,7 @@ import { Op } from "sequelize";
 import { z } from "zod";
 import { NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE } from "../../shared/no-decompression";
 import { Assignment, Dive, DiveCell, DiveTeam, getSequelize } from "~/lib/db.server";
+import { NotFoundError, ValidationError } from "~/lib/errors";
 import { noDecompressionInfo, workDateSchema, type NoDecompressionInfo } from "./assignments.server";
 import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
 import { parseCellLabel } from "./cells.server";
@@ -78,10 +79,12 @@ export interface DiveView {
   noDecompression: NoDecompressionInfo | null;
 }
 
-export type RecordOutcome =
-  | { status: 201; body: { dive: DiveView; caution: string; source: string } }
-  | { status: 404; body: { error: string } }
-  | { status: 422; body: { error: string; code: "unknown-cells" | "not-assigned"; cells: string[] } };
+/** A logged dive with the table's caution and source, as the log shows them. */
+export interface DiveRecorded {
+  dive: DiveView;
+  caution: string;
+  source: string;
+}
 
 function present(dive: Dive, project: ProjectView): DiveView {
   return {
@@ -99,15 +102,19 @@ function present(dive: Dive, project: ProjectView): DiveView {
   };
 }
 
-/** Logs a dive: the cells must be the team's assigned cells on that date. */
-export async function recordDive(project: ProjectView, user: UserView, input: DiveInput, ip: string | null = null): Promise<RecordOutcome> {
+/**
+ * Logs a dive: the cells must be the team's assigned cells on that date. Throws NotFoundError (no
+ * such team) or ValidationError (labels that are not cells, or cells not assigned to the team that
+ * day: `code` says which, `cells` lists them).
+ */
+export async function recordDive(project: ProjectView, user: UserView, input: DiveInput, ip: string | null = null): Promise<DiveRecorded> {
   const teams = await DiveTeam.findAll({ where: { projectId: project.id } });
   const team = teams.find((candidate) => (typeof input.team === "number" ? candidate.id === input.team : candidate.name.toLowerCase() === input.team.toLowerCase()));
-  if (!team) return { status: 404, body: { error: `There is no dive team "${input.team}" on this project.` } };
+  if (!team) throw new NotFoundError({ field: "team", message: `There is no dive team "${input.team}" on this project.` });
   const labels = [...new Set(input.cells.map((label) => label.trim().toUpperCase()))];
   const positions = labels.map((label) => ({ label, position: parseCellLabel(label) }));
   const unknown = positions.filter((cell) => !cell.position).map((cell) => cell.label);
-  if (unknown.length > 0) return { status: 422, body: { error: `These are not cell labels: ${unknown.join(", ")}.`, code: "unknown-cells", cells: unknown } };
+  if (unknown.length > 0) throw new ValidationError({ field: "cells", message: `These are not cell labels: ${unknown.join(", ")}.` }, { code: "unknown-cells", cells: unknown });
   const assigned = await Assignment.findAll({
     where: { projectId: project.id, workDate: input.date, teamId: team.id, [Op.or]: positions.map(({ position }) => ({ row: position!.row, col: position!.col })) },
     attributes: ["row", "col", "label"],
@@ -115,10 +122,10 @@ export async function recordDive(project: ProjectView, user: UserView, input: Di
   const assignedKeys = new Set(assigned.map((row) => `${row.row}/${row.col}`));
   const notAssigned = positions.filter(({ position }) => !assignedKeys.has(`${position!.row}/${position!.col}`)).map((cell) => cell.label);
   if (notAssigned.length > 0) {
-    return {
-      status: 422,
-      body: { error: `Cells ${notAssigned.join(", ")} are not assigned to ${team.name} on ${input.date}; the log takes dives on the team's assigned cells only (assign them on the map first).`, code: "not-assigned", cells: notAssigned },
-    };
+    throw new ValidationError(
+      { field: "cells", message: `Cells ${notAssigned.join(", ")} are not assigned to ${team.name} on ${input.date}; the log takes dives on the team's assigned cells only (assign them on the map first).` },
+      { code: "not-assigned", cells: notAssigned },
+    );
   }
   const bottomMinutes = bottomMinutesOf(input);
   const id = await getSequelize().transaction(async (transaction) => {
@@ -135,7 +142,7 @@ export async function recordDive(project: ProjectView, user: UserView, input: Di
     return dive.id;
   });
   const [dive] = await findDives(project, { id });
-  return { status: 201, body: { dive, caution: NO_DECOMPRESSION_CAUTION, source: NO_DECOMPRESSION_SOURCE } };
+  return { dive, caution: NO_DECOMPRESSION_CAUTION, source: NO_DECOMPRESSION_SOURCE };
 }
 
 async function findDives(project: ProjectView, where: { id?: number; date?: string; diveIds?: number[] }): Promise<DiveView[]> {

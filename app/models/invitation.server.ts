@@ -1,5 +1,6 @@
 import { Op, type Transaction } from "sequelize";
 import { Invitation, Membership, Project, User, getSequelize, type Role } from "~/lib/db.server";
+import { ConflictError } from "~/lib/errors";
 import { sendMail } from "~/lib/mail.server";
 import { hashPassword, verifyPassword } from "~/lib/password.server";
 import { createLinkToken, hashLinkToken } from "~/lib/tokens.server";
@@ -28,17 +29,16 @@ export async function listOpenInvitations(project: ProjectView, now = new Date()
   return invitations.map((i) => ({ id: i.id, email: i.email, role: i.role, expiresAt: i.expiresAt.toISOString(), invitedBy: i.invitedBy?.name ?? null }));
 }
 
-export type CreateInvitationResult = { ok: true; token: string } | { ok: false; error: string };
-
 /**
  * A manager invites someone by e-mail with a role. Any earlier open invitation for the same
- * address is revoked, so only the newest link works. The link goes out by mail.
+ * address is revoked, so only the newest link works. The link goes out by mail. Inviting someone
+ * who is already a member is a ConflictError.
  */
 export async function createInvitation(
   project: ProjectView, actingUser: UserView, input: { email: string; role: Role }, origin: string, ip: string, now = new Date(),
-): Promise<CreateInvitationResult> {
+): Promise<{ token: string }> {
   const email = normaliseEmail(input.email);
-  if (await isMemberByEmail(project, email)) return { ok: false, error: `${email} is already a member of this project.` };
+  if (await isMemberByEmail(project, email)) throw new ConflictError({ field: "email", message: `${email} is already a member of this project.` });
   const { token, tokenHash } = createLinkToken();
   const expiresAt = new Date(now.getTime() + INVITATION_LIFETIME_MS);
   await getSequelize().transaction(async (transaction) => {
@@ -61,7 +61,7 @@ export async function createInvitation(
       `The link works once and expires on ${expiresAt.toUTCString()}.`,
     ].join("\n"),
   });
-  return { ok: true, token };
+  return { token };
 }
 
 export async function revokeInvitation(project: ProjectView, actingUser: UserView, invitationId: number, ip: string): Promise<boolean> {

@@ -1,4 +1,5 @@
 import { Membership, User, getSequelize, type Role } from "~/lib/db.server";
+import { ConflictError, NotFoundError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
 import type { ProjectView } from "./project.server";
 import type { UserView } from "./user.server";
@@ -20,20 +21,20 @@ export async function listMembers(project: ProjectView): Promise<MemberView[]> {
   return memberships.map((m) => ({ membershipId: m.id, userId: m.userId, name: m.user!.name, email: m.user!.email, role: m.role }));
 }
 
-export type MemberChangeResult = { ok: true } | { ok: false; error: string };
-
 async function otherManagerCount(project: ProjectView, exceptMembershipId: number): Promise<number> {
   const managers = await Membership.findAll({ where: { projectId: project.id, role: "manager" }, attributes: ["id"] });
   return managers.filter((m) => m.id !== exceptMembershipId).length;
 }
 
-/** A manager changes a member's role; the project always keeps at least one manager. */
-export async function changeMemberRole(project: ProjectView, actingUser: UserView, membershipId: number, role: Role, ip: string): Promise<MemberChangeResult> {
+const noLongerMember = () => new NotFoundError("That person is no longer a member of this project.");
+
+/** A manager changes a member's role; the project always keeps at least one manager (else ConflictError). */
+export async function changeMemberRole(project: ProjectView, actingUser: UserView, membershipId: number, role: Role, ip: string): Promise<void> {
   const membership = await Membership.findOne({ where: { id: membershipId, projectId: project.id }, include: [{ model: User, as: "user" }] });
-  if (!membership) return { ok: false, error: "That person is no longer a member of this project." };
-  if (membership.role === role) return { ok: true };
+  if (!membership) throw noLongerMember();
+  if (membership.role === role) return;
   if (membership.role === "manager" && (await otherManagerCount(project, membership.id)) === 0) {
-    return { ok: false, error: "A project needs at least one manager: make someone else manager first." };
+    throw new ConflictError("A project needs at least one manager: make someone else manager first.");
   }
   const previousRole = membership.role;
   await getSequelize().transaction(async (transaction) => {
@@ -44,15 +45,14 @@ export async function changeMemberRole(project: ProjectView, actingUser: UserVie
       transaction,
     );
   });
-  return { ok: true };
 }
 
-/** A manager removes a member; the last manager cannot be removed. */
-export async function removeMember(project: ProjectView, actingUser: UserView, membershipId: number, ip: string): Promise<MemberChangeResult> {
+/** A manager removes a member; the last manager cannot be removed (ConflictError). */
+export async function removeMember(project: ProjectView, actingUser: UserView, membershipId: number, ip: string): Promise<void> {
   const membership = await Membership.findOne({ where: { id: membershipId, projectId: project.id }, include: [{ model: User, as: "user" }] });
-  if (!membership) return { ok: false, error: "That person is no longer a member of this project." };
+  if (!membership) throw noLongerMember();
   if (membership.role === "manager" && (await otherManagerCount(project, membership.id)) === 0) {
-    return { ok: false, error: "A project needs at least one manager: the last manager cannot be removed." };
+    throw new ConflictError("A project needs at least one manager: the last manager cannot be removed.");
   }
   await getSequelize().transaction(async (transaction) => {
     await membership.destroy({ transaction });
@@ -61,7 +61,6 @@ export async function removeMember(project: ProjectView, actingUser: UserView, m
       transaction,
     );
   });
-  return { ok: true };
 }
 
 export async function isMemberByEmail(project: ProjectView, email: string): Promise<boolean> {

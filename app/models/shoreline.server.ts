@@ -1,4 +1,5 @@
 import { Shoreline, getSequelize } from "~/lib/db.server";
+import { ValidationError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
 import { findProject, type ProjectView } from "./project.server";
 import { checkShoreline, type LonLatLimit } from "./shoreline-geojson";
@@ -37,10 +38,10 @@ async function workLimitOf(project: ProjectView): Promise<LonLatLimit | null> {
 
 const fileNameOf = (name: string) => name.replace(/[\\/]/g, "_").replace(/[^\x20-\x7e]/g, "_").slice(0, 255) || "shoreline.geojson";
 
-/** Checks and stores a shoreline, replacing any earlier one; an audit entry records which. */
+/** Checks and stores a shoreline, replacing any earlier one; an audit entry records which. A shoreline that fails the check is a ValidationError. */
 export async function saveShoreline(project: ProjectView, user: UserView, fileName: string, text: string, ip: string | null = null) {
   const check = checkShoreline(text, await workLimitOf(project));
-  if (!check.ok) return check;
+  if (!check.ok) throw new ValidationError({ field: "shoreline", message: check.error });
   const name = fileNameOf(fileName);
   const geoJson = JSON.stringify(check.collection);
   let replaced: string | null = null;
@@ -58,7 +59,7 @@ export async function saveShoreline(project: ProjectView, user: UserView, fileNa
       transaction,
     );
   });
-  return { ok: true as const, replaced, polygons: check.polygons, vertices: check.vertices, fileName: name };
+  return { replaced, polygons: check.polygons, vertices: check.vertices, fileName: name };
 }
 
 /** Removes the shoreline; false when there was none. */

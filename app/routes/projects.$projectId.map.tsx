@@ -1,5 +1,6 @@
 import type { FeatureCollection } from "geojson";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { data } from "react-router";
 import { createCrs } from "../../shared/crs";
 import { MAP_STATUSES } from "../../shared/palette";
 import { AssignPanel } from "~/components/map/assign-panel";
@@ -14,6 +15,7 @@ import { MapSettings } from "~/components/map/map-settings";
 import { can } from "~/lib/permissions";
 import { requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
+import { DomainError } from "~/lib/errors";
 import { listDiveTeams } from "~/models/assignments.server";
 import { findProject } from "~/models/project.server";
 import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
@@ -42,27 +44,33 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export type MapSettingsResult = { intent: "upload" | "remove"; ok: boolean; message: string };
 
+// A refused settings change answers 4xx with the reason; the settings panel shows it.
+const refused = (message: string, status = 400) => data<MapSettingsResult>({ intent: "upload", ok: false, message }, { status });
+
 // POST /projects/<id>/map — the manager's map settings: upload, replace or remove the shoreline.
-export async function action({ request, params }: Route.ActionArgs): Promise<MapSettingsResult> {
+export async function action({ request, params }: Route.ActionArgs) {
   const { user, project } = await requireRole(request, params.projectId, "map.configure");
+  const tooLarge = `The file is larger than ${SHORELINE_MAX_BYTES / 1024 / 1024} MB; simplify the shoreline first.`;
   const length = Number(request.headers.get("Content-Length") ?? 0);
-  if (length > SHORELINE_MAX_BYTES + 64 * 1024) {
-    return { intent: "upload", ok: false, message: `The file is larger than ${SHORELINE_MAX_BYTES / 1024 / 1024} MB; simplify the shoreline first.` };
-  }
+  if (length > SHORELINE_MAX_BYTES + 64 * 1024) return refused(tooLarge, 413);
   const form = await request.formData();
   const intent = form.get("intent");
   if (intent === "remove") {
     const removed = await removeShoreline(project, user, clientAddress(request));
-    return { intent: "remove", ok: removed, message: removed ? "Shoreline removed; the map's water now follows the work limit alone." : "There was no shoreline to remove." };
+    return { intent: "remove", ok: removed, message: removed ? "Shoreline removed; the map's water now follows the work limit alone." : "There was no shoreline to remove." } satisfies MapSettingsResult;
   }
-  if (intent !== "upload") return { intent: "upload", ok: false, message: "Unknown request." };
+  if (intent !== "upload") return refused("Unknown request.");
   const file = form.get("shoreline");
-  if (!(file instanceof File) || file.size === 0) return { intent: "upload", ok: false, message: "Choose a GeoJSON file to upload." };
-  if (file.size > SHORELINE_MAX_BYTES) return { intent: "upload", ok: false, message: `The file is larger than ${SHORELINE_MAX_BYTES / 1024 / 1024} MB; simplify the shoreline first.` };
-  const saved = await saveShoreline(project, user, file.name, await file.text(), clientAddress(request));
-  if (!saved.ok) return { intent: "upload", ok: false, message: saved.error };
-  const what = `${saved.fileName} (${saved.polygons} polygon${saved.polygons === 1 ? "" : "s"}, ${saved.vertices.toLocaleString("en-US")} vertices)`;
-  return { intent: "upload", ok: true, message: saved.replaced ? `Shoreline replaced by ${what}.` : `Shoreline ${what} uploaded.` };
+  if (!(file instanceof File) || file.size === 0) return refused("Choose a GeoJSON file to upload.");
+  if (file.size > SHORELINE_MAX_BYTES) return refused(tooLarge, 413);
+  try {
+    const saved = await saveShoreline(project, user, file.name, await file.text(), clientAddress(request));
+    const what = `${saved.fileName} (${saved.polygons} polygon${saved.polygons === 1 ? "" : "s"}, ${saved.vertices.toLocaleString("en-US")} vertices)`;
+    return { intent: "upload", ok: true, message: saved.replaced ? `Shoreline replaced by ${what}.` : `Shoreline ${what} uploaded.` } satisfies MapSettingsResult;
+  } catch (error) {
+    if (error instanceof DomainError) return refused(error.message);
+    throw error;
+  }
 }
 
 export function meta() {

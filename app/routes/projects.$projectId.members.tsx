@@ -6,6 +6,7 @@ import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
+import { DomainError } from "~/lib/errors";
 import { ROLES, ROLE_LABELS } from "~/lib/roles";
 import { emailSchema, parseForm } from "~/lib/form";
 import { appOrigin } from "~/lib/origin.server";
@@ -33,21 +34,24 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!parsed.ok) return data({ intent: "invalid", errors: parsed.errors, notice: null }, { status: 400 });
   const ip = clientAddress(request);
   const input = parsed.data;
-  if (input.intent === "invite") {
-    const result = await createInvitation(project, user, { email: input.email, role: input.role }, appOrigin(request), ip);
-    if (!result.ok) return data({ intent: input.intent, errors: { email: result.error }, notice: null }, { status: 400 });
-    return { intent: input.intent, errors: {}, notice: `Invitation sent to ${input.email.trim().toLowerCase()}.` };
+  try {
+    if (input.intent === "invite") {
+      await createInvitation(project, user, { email: input.email, role: input.role }, appOrigin(request), ip);
+      return { intent: input.intent, errors: {}, notice: `Invitation sent to ${input.email.trim().toLowerCase()}.` };
+    }
+    if (input.intent === "revoke") {
+      const revoked = await revokeInvitation(project, user, input.invitationId, ip);
+      const errors: Record<string, string> = revoked ? {} : { form: "That invitation is no longer open." };
+      return { intent: input.intent, errors, notice: revoked ? "Invitation withdrawn." : null };
+    }
+    if (input.intent === "change-role") await changeMemberRole(project, user, input.membershipId, input.role, ip);
+    else await removeMember(project, user, input.membershipId, ip);
+    return { intent: input.intent, errors: {}, notice: input.intent === "remove" ? "Member removed." : "Role changed." };
+  } catch (error) {
+    // The model's refusal, shown beside the field it concerns (the e-mail of an invitation) or above the list.
+    if (error instanceof DomainError) return data({ intent: input.intent, errors: { [input.intent === "invite" ? "email" : "form"]: error.message } as Record<string, string>, notice: null }, { status: 400 });
+    throw error;
   }
-  if (input.intent === "revoke") {
-    const revoked = await revokeInvitation(project, user, input.invitationId, ip);
-    const errors: Record<string, string> = revoked ? {} : { form: "That invitation is no longer open." };
-    return { intent: input.intent, errors, notice: revoked ? "Invitation withdrawn." : null };
-  }
-  const result = input.intent === "change-role"
-    ? await changeMemberRole(project, user, input.membershipId, input.role, ip)
-    : await removeMember(project, user, input.membershipId, ip);
-  if (!result.ok) return data({ intent: input.intent, errors: { form: result.error }, notice: null }, { status: 400 });
-  return { intent: input.intent, errors: {}, notice: input.intent === "remove" ? "Member removed." : "Role changed." };
 }
 
 export function meta({}: Route.MetaArgs) {

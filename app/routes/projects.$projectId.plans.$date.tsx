@@ -1,9 +1,10 @@
 import { useEffect, useRef } from "react";
-import { Form, Link, useNavigation } from "react-router";
+import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import { can } from "~/lib/permissions";
 import { requireAllowed, requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
+import { DomainError } from "~/lib/errors";
 import { emailDayPlan, getDayPlan, workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listDivesOn, recordDive, type DiveView } from "~/models/dives.server";
 import type { Route } from "./+types/projects.$projectId.plans.$date";
@@ -31,13 +32,16 @@ type ActionResult =
 const optionalText = (value: FormDataEntryValue | null) => (typeof value === "string" && value.trim() !== "" ? value.trim() : null);
 const optionalNumber = (value: FormDataEntryValue | null) => (optionalText(value) === null ? null : Number(optionalText(value)));
 
-export async function action({ request, params }: Route.ActionArgs): Promise<ActionResult> {
+// A refused request answers 400 with what to fix; the page shows it beside the form it came from.
+const refused = (result: ActionResult) => data(result, { status: 400 });
+
+export async function action({ request, params }: Route.ActionArgs) {
   const access = await requireRole(request, params.projectId, "plans.assign");
   const { user, project } = access;
   const date = parseDate(params.date);
   const formData = await request.formData();
   const form = actionSchema.safeParse({ intent: formData.get("intent") });
-  if (!form.success) return { intent: "email", sentTo: [], error: "Unknown request." };
+  if (!form.success) return refused({ intent: "email", sentTo: [], error: "Unknown request." });
   requireAllowed(access, form.data.intent === "dive" ? "dives.log" : "plans.assign");
   if (form.data.intent === "dive") {
     const teamId = Number(formData.get("team"));
@@ -54,16 +58,19 @@ export async function action({ request, params }: Route.ActionArgs): Promise<Act
     });
     if (!input.success) {
       const names: Record<string, string> = { diver: "Diver", leftSurface: "Left surface", leftBottom: "Left bottom", bottomMinutes: "Bottom time", maxDepth: "Maximum depth", cells: "Cells worked", notes: "Notes", team: "Team" };
-      return { intent: "dive", teamId, ok: false, message: input.error.issues.map((issue) => `${names[String(issue.path[0])] ?? "Dive"}: ${issue.message}`).join("; ") + "." };
+      return refused({ intent: "dive", teamId, ok: false, message: input.error.issues.map((issue) => `${names[String(issue.path[0])] ?? "Dive"}: ${issue.message}`).join("; ") + "." });
     }
-    const outcome = await recordDive(project, user, input.data, clientAddress(request));
-    if (outcome.status !== 201) return { intent: "dive", teamId, ok: false, message: outcome.body.error };
-    const { dive } = outcome.body;
-    return { intent: "dive", teamId, ok: true, message: `Logged ${dive.diver}'s dive: ${dive.bottomMinutes} min bottom time, ${dive.maxDepth} maximum depth, cells ${dive.cells.join(", ")}.` };
+    try {
+      const { dive } = await recordDive(project, user, input.data, clientAddress(request));
+      return { intent: "dive", teamId, ok: true, message: `Logged ${dive.diver}'s dive: ${dive.bottomMinutes} min bottom time, ${dive.maxDepth} maximum depth, cells ${dive.cells.join(", ")}.` } satisfies ActionResult;
+    } catch (error) {
+      if (error instanceof DomainError) return refused({ intent: "dive", teamId, ok: false, message: error.message });
+      throw error;
+    }
   }
   const planUrl = new URL(`/projects/${project.id}/plans/${date}`, request.url).href;
   const sentTo = await emailDayPlan(project, user, date, planUrl, clientAddress(request));
-  return { intent: "email", sentTo, error: sentTo.length === 0 ? "Nobody to e-mail: no team has cells on this date, or the teams list no members." : null };
+  return { intent: "email", sentTo, error: sentTo.length === 0 ? "Nobody to e-mail: no team has cells on this date, or the teams list no members." : null } satisfies ActionResult;
 }
 
 // Print: one page, the plan only (site header, project nav and buttons hidden).

@@ -31,9 +31,9 @@ export default function UploadSurvey({ loaderData, actionData }: Route.Component
   const [fileName, setFileName] = useState<string | null>(null);
   const [dragging, setDragging] = useState(false);
   const [uploadFraction, setUploadFraction] = useState<number | null>(null);
-  const [clientErrors, setClientErrors] = useState<Array<{ column: string; message: string }> | null>(null);
+  const [clientErrors, setClientErrors] = useState<Array<{ field: string; message: string }> | null>(null);
   const [hasElevations, setHasElevations] = useState(false);
-  const errors = clientErrors ?? (actionData as { errors?: Array<{ column: string; message: string }> } | undefined)?.errors ?? [];
+  const errors = clientErrors ?? (actionData as { errors?: Array<{ field: string; message: string }> } | undefined)?.errors ?? [];
   const busy = navigation.state === "submitting" || uploadFraction !== null;
 
   // With JavaScript the upload goes through XMLHttpRequest so the bar can show bytes sent;
@@ -48,16 +48,16 @@ export default function UploadSurvey({ loaderData, actionData }: Route.Component
     request.onload = () => {
       setUploadFraction(null);
       try {
-        const body = JSON.parse(request.responseText) as { location?: string; errors?: Array<{ column: string; message: string }> };
+        const body = JSON.parse(request.responseText) as { location?: string; errors?: Array<{ field: string; message: string }> };
         if (body.location) window.location.assign(body.location);
-        else setClientErrors(body.errors ?? [{ column: "form", message: `The upload was refused (${request.status}).` }]);
+        else setClientErrors(body.errors ?? [{ field: "form", message: `The upload was refused (${request.status}).` }]);
       } catch {
-        setClientErrors([{ column: "form", message: `The upload was refused (${request.status}).` }]);
+        setClientErrors([{ field: "form", message: `The upload was refused (${request.status}).` }]);
       }
     };
     request.onerror = () => {
       setUploadFraction(null);
-      setClientErrors([{ column: "form", message: "The connection dropped during the upload. Try again." }]);
+      setClientErrors([{ field: "form", message: "The connection dropped during the upload. Try again." }]);
     };
     setClientErrors(null);
     setUploadFraction(0);

@@ -1,66 +1,231 @@
-import { request as playwrightRequest } from "@playwright/test";
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
+import { request as playwrightRequest, type APIRequestContext, type APIResponse } from "@playwright/test";
+import routeConfig from "../../app/routes";
+import { cellLabel } from "../../shared/grid/cell-grid";
 import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, type DemoAccount } from "./fixtures";
 
-// Who may open which page. Later issues add their routes as rows here.
-// "all" = every project role and the site admin; otherwise the accounts listed.
-const PROJECT_ROLES: DemoAccount[] = ["manager", "surveyor", "dive-supervisor", "dewatering", "resource-monitor", "outreach", "viewer"];
-const EVERYONE: DemoAccount[] = [...PROJECT_ROLES, "admin"];
-const QUANTITY_READERS: DemoAccount[] = ["manager", "surveyor", "dive-supervisor", "viewer", "admin"];
+// Who may do what, route by route: every route in app/routes.ts, each method it answers, for each
+// demo account and signed out, against the matrix below. The matrix is written out by hand (not
+// derived from app/lib/permissions.ts), so a wrong entry in the permission table fails here.
+//
+// Mutating requests carry a body that is invalid or name an id that does not exist: a role that
+// is allowed gets the 4xx of that body (or a 404), never 401/403, and nothing changes; a refused
+// role gets 403 before its body is looked at. Later issues add their routes as rows here.
+//
+// Cells: a status code, "login" (a 302 to /login?next=<this URL>, pages when signed out) or
+// "302 <path>" (any other redirect). Columns, in order:
+const COLUMNS = ["manager", "surveyor", "dive-supervisor", "dewatering", "resource-monitor", "outreach", "viewer", "admin", "signed-out"] as const;
+type Column = (typeof COLUMNS)[number];
 
-const MATRIX: Array<{ path: string; allowed: DemoAccount[] }> = [
-  { path: "/projects", allowed: EVERYONE },
-  { path: "/account", allowed: EVERYONE },
-  { path: "/projects/{project}", allowed: EVERYONE },
-  { path: "/projects/{project}/map", allowed: EVERYONE },
-  { path: "/projects/{project}/map/style.json", allowed: EVERYONE },
-  { path: "/projects/{project}/plans/2030-01-02", allowed: EVERYONE },
-  { path: "/api/projects/{project}/cells", allowed: EVERYONE },
-  { path: "/api/projects/{project}/bands?surface=remaining", allowed: EVERYONE },
-  { path: "/api/projects/{project}/assignments?date=2030-01-02", allowed: EVERYONE },
-  { path: "/projects/{project}/surveys", allowed: EVERYONE },
-  { path: "/projects/{project}/members", allowed: ["manager", "admin"] },
-  { path: "/projects/{project}/audit", allowed: ["manager", "admin"] },
-  // Progress for every member; quantities for those who sign, produce, plan from or fund them
-  // (manager, survey technician, dive supervisor, viewer); the public-link page for outreach and the manager.
-  { path: "/api/projects/{project}/progress", allowed: EVERYONE },
-  { path: "/projects/{project}/quantities", allowed: QUANTITY_READERS },
-  { path: "/projects/{project}/quantities/report", allowed: QUANTITY_READERS },
-  { path: "/api/projects/{project}/quantities.csv", allowed: QUANTITY_READERS },
-  { path: "/api/projects/{project}/quantities.geojson", allowed: QUANTITY_READERS },
-  { path: "/projects/{project}/share", allowed: ["manager", "outreach", "admin"] },
-  { path: "/dev/mail", allowed: ["admin"] },
+type Body = { form: Record<string, string> } | { json: unknown };
+interface Row {
+  method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
+  /** The route's path exactly as app/routes.ts has it (nested paths joined, "" for the home page). */
+  route: string;
+  /** The URL asked for: {project}, {survey} and {cell} are the demo project's. */
+  url: string;
+  expected: string;
+  body?: Body;
+}
+const row = (method: Row["method"], route: string, url: string, expected: string, body?: Body): Row => ({ method, route, url, expected, body });
+
+// A JSON body every API route refuses (required fields missing) and form bodies no page accepts.
+const EMPTY_JSON: Body = { json: {} };
+const BOGUS_INTENT: Body = { form: { intent: "no-such-intent" } };
+const PLAN_DATE = "2030-01-02";
+
+const MATRIX: Row[] = [
+  //                                                                                              manager surveyor dive-sup dewater monitor outreach viewer admin signed-out
+  row("GET", "", "/", "200 200 200 200 200 200 200 200 200"),
+  row("GET", "account", "/account", "200 200 200 200 200 200 200 200 login"),
+  row("POST", "account", "/account", "400 400 400 400 400 400 400 400 login", BOGUS_INTENT),
+
+  // The API: JSON 401 when signed out, never a redirect.
+  row("GET", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401"),
+  row("POST", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401", EMPTY_JSON),
+  row("PUT", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401", EMPTY_JSON),
+  row("PATCH", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401", EMPTY_JSON),
+  row("DELETE", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401"),
+  row("GET", "api/projects/:projectId/assignments", `/api/projects/{project}/assignments?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/assignments", "/api/projects/{project}/assignments", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/bands", "/api/projects/{project}/bands?surface=remaining", "200 200 200 200 200 200 200 200 401"),
+  row("GET", "api/projects/:projectId/cells", "/api/projects/{project}/cells", "200 200 200 200 200 200 200 200 401"),
+  row("GET", "api/projects/:projectId/cells/:label", "/api/projects/{project}/cells/{cell}", "200 200 200 200 200 200 200 200 401"),
+  row("GET", "api/projects/:projectId/dives", `/api/projects/{project}/dives?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/dives", "/api/projects/{project}/dives", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/progress", "/api/projects/{project}/progress", "200 200 200 200 200 200 200 200 401"),
+  row("GET", "api/projects/:projectId/quantities.csv", "/api/projects/{project}/quantities.csv", "200 200 200 403 403 403 200 200 401"),
+  row("GET", "api/projects/:projectId/quantities.geojson", "/api/projects/{project}/quantities.geojson", "200 200 200 403 403 403 200 200 401"),
+  row("GET", "api/projects/:projectId/share-links", "/api/projects/{project}/share-links", "200 403 403 403 403 200 403 200 401"),
+  row("POST", "api/projects/:projectId/share-links", "/api/projects/{project}/share-links", "422 403 403 403 403 422 403 422 401", EMPTY_JSON),
+  row("DELETE", "api/projects/:projectId/share-links/:token", "/api/projects/{project}/share-links/no-such-token-0123456789", "404 403 403 403 403 404 403 404 401"),
+  row("GET", "api/projects/:projectId/surveys", "/api/projects/{project}/surveys", "200 200 200 200 200 200 200 200 401"),
+  // A JSON body where the upload takes multipart: 415 for those who may upload.
+  row("POST", "api/projects/:projectId/surveys", "/api/projects/{project}/surveys", "415 415 403 403 403 403 403 415 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "200 200 200 200 200 200 200 200 401"),
+  row("DELETE", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  row("PATCH", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+
+  row("GET", "dev/mail", "/dev/mail", "403 403 403 403 403 403 403 200 login"),
+  row("GET", "dev/mail/:messageId", "/dev/mail/no-such-message", "403 403 403 403 403 403 403 404 login"),
+  row("GET", "forgot-password", "/forgot-password", "200 200 200 200 200 200 200 200 200"),
+  row("POST", "forgot-password", "/forgot-password", "400 400 400 400 400 400 400 400 400", { form: { email: "" } }),
+  row("GET", "healthz", "/healthz", "200 200 200 200 200 200 200 200 200"),
+  row("GET", "invite/:token", "/invite/no-such-token", "200 200 200 200 200 200 200 200 200"),
+  row("POST", "invite/:token", "/invite/no-such-token", "410 410 410 410 410 410 410 410 410", { form: { name: "Nobody", password: "" } }),
+  row("GET", "login", "/login", "302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|200"),
+  // No e-mail at all: refused by the form's schema, before the sign-in rate limit counts it. Signed
+  // in, the page's loader (which runs after the action) sends the person on to their projects.
+  row("POST", "login", "/login", "302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|400", { form: { email: "", password: "" } }),
+  row("GET", "logout", "/logout", "302 /|302 /|302 /|302 /|302 /|302 /|302 /|302 /|302 /"),
+  row("GET", "projects", "/projects", "200 200 200 200 200 200 200 200 login"),
+
+  // A project's pages (the layout and its index share the project's URL).
+  row("GET", "projects/:projectId", "/projects/{project}", "200 200 200 200 200 200 200 200 login"),
+  row("GET", "projects/:projectId/audit", "/projects/{project}/audit", "200 403 403 403 403 403 403 200 login"),
+  row("GET", "projects/:projectId/map", "/projects/{project}/map", "200 200 200 200 200 200 200 200 login"),
+  row("POST", "projects/:projectId/map", "/projects/{project}/map", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/members", "/projects/{project}/members", "200 403 403 403 403 403 403 200 login"),
+  row("POST", "projects/:projectId/members", "/projects/{project}/members", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "200 200 200 200 200 200 200 200 login"),
+  row("POST", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "400 403 400 403 403 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/quantities", "/projects/{project}/quantities", "200 200 200 403 403 403 200 200 login"),
+  row("GET", "projects/:projectId/share", "/projects/{project}/share", "200 403 403 403 403 200 403 200 login"),
+  row("POST", "projects/:projectId/share", "/projects/{project}/share", "400 403 403 403 403 400 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/surveys", "/projects/{project}/surveys", "200 200 200 200 200 200 200 200 login"),
+  row("GET", "projects/:projectId/surveys/:surveyId", "/projects/{project}/surveys/{survey}", "200 200 200 200 200 200 200 200 login"),
+  row("POST", "projects/:projectId/surveys/:surveyId", "/projects/{project}/surveys/{survey}", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/surveys/imports/:jobId", "/projects/{project}/surveys/imports/999999999", "404 404 403 403 403 403 403 404 login"),
+  row("POST", "projects/:projectId/surveys/imports/:jobId", "/projects/{project}/surveys/imports/999999999", "404 404 403 403 403 403 403 404 login", { form: { intent: "discard" } }),
+  row("GET", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "200 200 403 403 403 403 403 200 login"),
+  // A form that is not multipart, so no file: refused with 400 for those who may upload.
+  row("POST", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
+
+  // A project's resource routes.
+  row("GET", "projects/:projectId/map/style.json", "/projects/{project}/map/style.json", "200 200 200 200 200 200 200 200 login"),
+  row("GET", "projects/:projectId/quantities/report", "/projects/{project}/quantities/report", "200 200 200 403 403 403 200 200 login"),
+  row("GET", "projects/:projectId/surveys/imports/:jobId/problems.csv", "/projects/{project}/surveys/imports/999999999/problems.csv", "404 404 403 403 403 403 403 404 login"),
+  row("GET", "projects/:projectId/surveys/imports/:jobId/progress", "/projects/{project}/surveys/imports/999999999/progress", "404 404 403 403 403 403 403 404 login"),
+  row("POST", "projects/:projectId/surveys/upload", "/projects/{project}/surveys/upload", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
+
+  row("GET", "reset-password/:token", "/reset-password/no-such-token", "200 200 200 200 200 200 200 200 200"),
+  row("POST", "reset-password/:token", "/reset-password/no-such-token", "400 400 400 400 400 400 400 400 400", { form: { password: "", confirm: "" } }),
+  row("GET", "share/:token", "/share/no-such-token-0123456789", "404 404 404 404 404 404 404 404 404"),
+  // Last: signing out ends the session the rows above used.
+  row("POST", "logout", "/logout", "302 /login|302 /login|302 /login|302 /login|302 /login|302 /login|302 /login|302 /login|302 /login"),
 ];
 
+/** The expected answer in `column` of a row: cells are split on "|" when they hold a space, else on spaces. */
+function expectedFor(entry: Row, column: Column): string {
+  const cells = entry.expected.includes("|") ? entry.expected.split("|") : entry.expected.split(" ");
+  expect(cells, `${entry.method} ${entry.url}: one cell per column`).toHaveLength(COLUMNS.length);
+  return cells[COLUMNS.indexOf(column)].trim();
+}
+
+interface DemoIds {
+  project: number;
+  survey: number;
+  cell: string;
+}
+
+function urlOf(entry: Row, ids: DemoIds): string {
+  return entry.url.replace("{project}", String(ids.project)).replace("{survey}", String(ids.survey)).replace("{cell}", ids.cell);
+}
+
+async function send(context: APIRequestContext, entry: Row, url: string, origin: string): Promise<APIResponse> {
+  const body = entry.body === undefined ? {} : "json" in entry.body ? { data: entry.body.json } : { form: entry.body.form };
+  return context.fetch(url, { method: entry.method, maxRedirects: 0, headers: entry.method === "GET" ? {} : { Origin: origin }, ...body });
+}
+
+async function checkRow(context: APIRequestContext, entry: Row, column: Column, ids: DemoIds, origin: string) {
+  const url = urlOf(entry, ids);
+  const expected = expectedFor(entry, column);
+  const response = await send(context, entry, url, origin);
+  const what = `${column} ${entry.method} ${url}`;
+  if (expected === "login") {
+    expect(response.status(), what).toBe(302);
+    expect(response.headers().location, what).toBe(`/login?next=${encodeURIComponent(url)}`);
+  } else if (expected.startsWith("302 ")) {
+    expect(response.status(), what).toBe(302);
+    expect(response.headers().location, what).toBe(expected.slice(4));
+  } else {
+    expect(response.status(), what).toBe(Number(expected));
+  }
+  // The API answers every refusal in its one JSON error shape.
+  if (url.startsWith("/api/") && response.status() >= 400) {
+    expect(response.headers()["content-type"], what).toMatch(/^application\/json/);
+    const answer = (await response.json()) as { errors?: Array<{ message?: unknown }> };
+    expect(typeof answer.errors?.[0]?.message, what).toBe("string");
+  }
+}
+
+/** Every route in app/routes.ts: its full path and file (nested paths joined; an index route has its parent's path). */
+function configuredRoutes(): Array<{ path: string; file: string }> {
+  type Entry = { path?: string; index?: boolean; file: string; children?: Entry[] };
+  const walk = (entries: Entry[], parent: string): Array<{ path: string; file: string }> =>
+    entries.flatMap((entry) => {
+      const path = entry.index ? parent : [parent, entry.path].filter(Boolean).join("/");
+      return [{ path, file: entry.file }, ...walk(entry.children ?? [], path)];
+    });
+  return walk(routeConfig as Entry[], "");
+}
+
+/** The methods a route file answers, read from its source: apiRoute's handlers, or GET for a loader or page and POST for an action. */
+function methodsOf(file: string): string[] {
+  const source = readFileSync(join(import.meta.dirname, "..", "..", "app", file), "utf8");
+  if (source.includes("apiRoute")) {
+    const handlers = source.slice(source.indexOf("apiRoute<"));
+    return [...new Set([...handlers.matchAll(/\b(GET|POST|PUT|PATCH|DELETE)\b\s*[(:]/g)].map((match) => match[1]))];
+  }
+  const methods: string[] = [];
+  if (/export (async function|const|function) loader\b/.test(source) || /export default function/.test(source)) methods.push("GET");
+  if (/export (async function|const|function) action\b/.test(source)) methods.push("POST");
+  return methods;
+}
+
 test.describe("route × role matrix", () => {
-  let projectId: number;
+  let ids: DemoIds;
 
   test.beforeAll(async ({ baseURL }) => {
     const context = await playwrightRequest.newContext({ baseURL });
-    projectId = await demoProjectId(context, baseURL!);
+    const project = await demoProjectId(context, baseURL!);
+    const surveys = (await (await context.get(`/api/projects/${project}/surveys`)).json()) as { surveys: Array<{ id: number }> };
+    const cells = (await (await context.get(`/api/projects/${project}/cells`)).json()) as { grid: { cols: number; firstRow: number; firstCol: number }; status: number[] };
+    // A cell with figures (status above "no-data"), so its detail exists.
+    const index = cells.status.findIndex((code) => code > 0);
+    ids = { project, survey: surveys.surveys[0].id, cell: cellLabel(Math.floor(index / cells.grid.cols) + cells.grid.firstRow, (index % cells.grid.cols) + cells.grid.firstCol) };
     await context.dispose();
   });
 
-  for (const account of EVERYONE) {
-    test(`${account}: allowed pages answer 200, the others 403`, async ({ baseURL }) => {
+  test("the matrix has a row for every route in app/routes.ts and every method it answers", () => {
+    const routes = configuredRoutes();
+    const missing: string[] = [];
+    for (const { path, file } of routes) {
+      for (const method of methodsOf(file)) {
+        const rows = MATRIX.filter((entry) => entry.route === path && (method === "POST" && !file.includes("api.") ? entry.method !== "GET" : entry.method === method));
+        if (rows.length === 0) missing.push(`${method} ${path || "/"} (${file})`);
+      }
+    }
+    expect(missing, "routes without a row in MATRIX").toEqual([]);
+    const known = new Set(routes.map((route) => route.path));
+    expect(MATRIX.filter((entry) => !known.has(entry.route)).map((entry) => entry.route), "rows naming no route").toEqual([]);
+  });
+
+  for (const account of Object.keys(DEMO_ACCOUNTS) as DemoAccount[]) {
+    test(`${account}: every route answers as the matrix says`, async ({ baseURL }) => {
+      test.setTimeout(180_000);
       const context = await playwrightRequest.newContext({ baseURL });
       await signInRequest(context, baseURL!, DEMO_ACCOUNTS[account]);
-      for (const { path, allowed } of MATRIX) {
-        const url = path.replace("{project}", String(projectId));
-        const response = await context.get(url, { maxRedirects: 0 });
-        expect(response.status(), `${account} GET ${url}`).toBe(allowed.includes(account) ? 200 : 403);
-      }
+      for (const entry of MATRIX) await checkRow(context, entry, account, ids, new URL(baseURL!).origin);
       await context.dispose();
     });
   }
 
-  test("signed out: every page redirects to sign in and comes back after", async ({ baseURL }) => {
+  test("signed out: pages send to sign in and come back after, the API answers JSON 401", async ({ baseURL }) => {
+    test.setTimeout(180_000);
     const context = await playwrightRequest.newContext({ baseURL });
-    for (const { path } of MATRIX) {
-      const url = path.replace("{project}", String(projectId));
-      const response = await context.get(url, { maxRedirects: 0 });
-      expect(response.status(), `signed-out GET ${url}`).toBe(302);
-      expect(response.headers().location, url).toBe(`/login?next=${encodeURIComponent(url)}`);
-    }
+    for (const entry of MATRIX) await checkRow(context, entry, "signed-out", ids, new URL(baseURL!).origin);
     await context.dispose();
   });
 

@@ -165,8 +165,8 @@ test("the supervisor selects cells, assigns them, opens and prints the plan, and
   });
   expect(refused.status()).toBe(409);
   const body = await refused.json();
-  expect(body.error).toContain("Team Limpkin");
-  expect(body.error).toContain("Team Gar");
+  expect(body.errors[0].message).toContain("Team Limpkin");
+  expect(body.errors[0].message).toContain("Team Gar");
   expect(body.conflicts.map((conflict: { cell: string }) => conflict.cell).sort()).toEqual([...chosen].sort());
   await api.dispose();
 });

@@ -8,7 +8,7 @@ import { AuditEvent, DiveTeam, Project, Zone, type Role } from "~/lib/db.server"
 import { action as assignAction } from "~/routes/api.projects.$projectId.assignments";
 import { action as diveAction, loader as diveLoader } from "~/routes/api.projects.$projectId.dives";
 import { loader as cellsLoader } from "~/routes/api.projects.$projectId.cells";
-import { addMember, makeUser, requestAs, thrown } from "./helpers";
+import { addMember, makeUser, requestAs } from "./helpers";
 
 afterAll(closeSequelize);
 
@@ -24,6 +24,8 @@ const call = async (handler: (args: never) => Promise<Response>, role: Role, pat
 const postJson = (handler: (args: never) => Promise<Response>, role: Role, path: string, body: unknown) =>
   call(handler, role, path, { method: "POST", body: JSON.stringify(body), headers: { "Content-Type": "application/json" } });
 const logDive = (role: Role, body: unknown) => postJson(diveAction as never, role, `/api/projects/${projectId}/dives`, body);
+/** The API's error shape, {errors: [{field?, message}]}, as one line of "field: message". */
+const errorText = async (response: Response) => ((await response.json()) as { errors: Array<{ field?: string; message: string }> }).errors.map((error) => (error.field ? `${error.field}: ${error.message}` : error.message)).join("; ");
 
 beforeAll(async () => {
   const project = await Project.create({
@@ -76,13 +78,13 @@ describe("POST /api/projects/<id>/dives", () => {
   it("refuses cells not assigned to that team on that day, naming them", async () => {
     const response = await logDive("dive-supervisor", { date: DATE, team: "Team Otter", diver: "X", bottomMinutes: 30, maxDepth: 10, cells: [labels[0]] });
     expect(response.status).toBe(422);
-    expect((await response.json()).error).toContain(`Cells ${labels[0]} are not assigned to Team Otter on ${DATE}`);
+    expect(await errorText(response)).toContain(`Cells ${labels[0]} are not assigned to Team Otter on ${DATE}`);
     const unassigned = await logDive("dive-supervisor", { date: DATE, team: "Team Heron", diver: "X", bottomMinutes: 30, maxDepth: 10, cells: [labels[3]] });
     expect(unassigned.status).toBe(422);
     expect((await logDive("dive-supervisor", { date: DATE, team: "Team Nobody", diver: "X", bottomMinutes: 30, maxDepth: 10, cells: [labels[0]] })).status).toBe(404);
   });
 
-  it("validates the times, the bottom time and the depth with clear messages (400)", async () => {
+  it("validates the times, the bottom time and the depth with clear messages (422)", async () => {
     const base = { date: DATE, team: "Team Heron", diver: "X", maxDepth: 10, cells: [labels[0]] };
     const cases: Array<[unknown, string]> = [
       [{ ...base, leftSurface: "09:00", leftBottom: "08:30" }, "leftBottom: the diver leaves the bottom after leaving the surface"],
@@ -96,15 +98,15 @@ describe("POST /api/projects/<id>/dives", () => {
     ];
     for (const [body, message] of cases) {
       const response = await logDive("dive-supervisor", body);
-      expect(response.status, JSON.stringify(body)).toBe(400);
-      expect((await response.json()).error).toContain(message);
+      expect(response.status, JSON.stringify(body)).toBe(422);
+      expect(await errorText(response)).toContain(message);
     }
   });
 
   it("is refused (403) for roles other than dive supervisor and manager", async () => {
     for (const role of ["surveyor", "viewer"] as Role[]) {
-      const error = (await thrown(() => logDive(role, { date: DATE, team: "Team Heron", diver: "X", bottomMinutes: 20, maxDepth: 10, cells: [labels[0]] }))) as Response;
-      expect(error.status, role).toBe(403);
+      const refused = await logDive(role, { date: DATE, team: "Team Heron", diver: "X", bottomMinutes: 20, maxDepth: 10, cells: [labels[0]] });
+      expect(refused.status, role).toBe(403);
     }
   });
 });

@@ -307,7 +307,7 @@ describe("API access", () => {
   it("rejects form fields that do not validate, naming the field", async () => {
     const response = await postSurvey(site.project.id, site.tokens.surveyor, fixture("duplicate-rows.csv"), { kind: "baseline", surveyedOn: "08/09/2026", waterSurfaceElevation: "32.4" });
     expect(response.status).toBe(422);
-    const { errors } = (await response.json()) as { errors: Array<{ column: string }> };
-    expect(errors.map((error) => error.column)).toContain("surveyedOn");
+    const { errors } = (await response.json()) as { errors: Array<{ field?: string }> };
+    expect(errors.map((error) => error.field)).toContain("surveyedOn");
   });
 });

@@ -38,7 +38,9 @@ async function post(role: Role, fields: Record<string, string | File>) {
   const body = new FormData();
   for (const [key, value] of Object.entries(fields)) body.set(key, value);
   const request = await requestAs(users.get(role)!, `/projects/${projectId}/map`, { method: "POST", body });
-  return mapAction({ request, params: { projectId: String(projectId) }, context: {} } as never);
+  const result = await mapAction({ request, params: { projectId: String(projectId) }, context: {} } as never);
+  // A refusal comes as data(result, { status: 4xx }); the page reads the same result from it.
+  return "init" in result ? result.data : result;
 }
 
 async function style() {

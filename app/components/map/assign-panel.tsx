@@ -59,10 +59,10 @@ export function AssignPanel({ projectId, selectedLabels, confirmedLabels, teams,
         }
         setOutcome({ kind: "ok", message: `Assigned ${body.cells.length} cell(s) to ${body.team} on ${body.date}.`, details });
         onAssigned(body.date);
-      } else if (response.status === 422 && body.code === "reason-required") {
-        setOutcome({ kind: "reason", message: body.error });
       } else {
-        setOutcome({ kind: "error", message: body.error ?? `The plan was not saved (${response.status}).` });
+        // The API's error shape: {errors: [{field?, message}], code?, …}.
+        const message = (body.errors as Array<{ message: string }> | undefined)?.map((error) => error.message).join(" ") || `The plan was not saved (${response.status}).`;
+        setOutcome({ kind: response.status === 422 && body.code === "reason-required" ? "reason" : "error", message });
       }
     } catch {
       setOutcome({ kind: "error", message: "The plan was not saved: the server did not answer." });

@@ -59,7 +59,7 @@ export function CellInspector({ projectId, label, labels, refresh }: { projectId
         if (cancelled) return;
         if (!response.ok) {
           setDetail(null);
-          setError(body.error ?? "The cell could not be read.");
+          setError((body.errors as Array<{ message: string }> | undefined)?.[0]?.message ?? "The cell could not be read.");
         } else setDetail(body);
       })
       .catch(() => !cancelled && setError("The cell could not be read."));

@@ -6,8 +6,7 @@ import { commitChoicesSchema, importOptionsSchema, type CommitChoices, type Impo
  * options and commit choices, validated with zod. Problems come back per field in plain words.
  */
 export interface FieldProblem {
-  row: null;
-  column: string;
+  field: string;
   message: string;
 }
 
@@ -20,15 +19,15 @@ function parseJsonField(name: string, value: string | undefined, problems: Field
   try {
     return JSON.parse(text);
   } catch {
-    problems.push({ row: null, column: name, message: `${name} is not valid JSON` });
+    problems.push({ field: name, message: `${name} is not valid JSON` });
     return undefined;
   }
 }
 
 function issuesToProblems(error: z.ZodError, problems: FieldProblem[]) {
   for (const issue of error.issues) {
-    const column = issue.path.map(String).join(".") || "form";
-    problems.push({ row: null, column, message: `${column} ${issue.message}` });
+    const field = issue.path.map(String).join(".") || "form";
+    problems.push({ field, message: `${field} ${issue.message}` });
   }
 }
 
@@ -43,7 +42,7 @@ export function importOptionsFromFields(fields: Record<string, string>, defaults
   const fileHasElevations = flag(fields.fileHasElevations);
   const wseText = optionalText(fields.waterSurfaceElevation);
   const wse = wseText === undefined ? null : Number(wseText.replace(",", "."));
-  if (wseText !== undefined && !Number.isFinite(wse)) problems.push({ row: null, column: "waterSurfaceElevation", message: "waterSurfaceElevation is not a number" });
+  if (wseText !== undefined && !Number.isFinite(wse)) problems.push({ field: "waterSurfaceElevation", message: "waterSurfaceElevation is not a number" });
   const columns = parseJsonField("columns", fields.columns, problems);
   const parsed = importOptionsSchema.safeParse({
     kind: optionalText(fields.kind),

@@ -1,25 +1,25 @@
 import type { ProjectView } from "~/models/project.server";
 import type { UserView } from "~/models/user.server";
 import { commitChoicesSchema } from "./import-options";
-import { importOptionsFromFields } from "./form-fields";
+import { importOptionsFromFields, type FieldProblem } from "./form-fields";
 import { createImportJob, previewImportJob } from "./import-service.server";
 import { discardStagedFile, stageUpload, UploadRefused } from "./stage-upload.server";
 
 /** The upload page's work: stage the file, read the choices, open an import job and its first preview. */
 export const DEFAULT_TIME_ZONE = "America/New_York";
 
-export type PageUploadResult = { ok: true; location: string } | { ok: false; status: number; errors: Array<{ column: string; message: string }> };
+export type PageUploadResult = { ok: true; location: string } | { ok: false; status: number; errors: FieldProblem[] };
 
 export async function receivePageUpload(request: Request, project: ProjectView, user: UserView): Promise<PageUploadResult> {
   let staged;
   try {
     staged = await stageUpload(request);
   } catch (error) {
-    if (error instanceof UploadRefused) return { ok: false, status: error.status, errors: [{ column: "file", message: error.message }] };
+    if (error instanceof UploadRefused) return { ok: false, status: error.status, errors: [{ field: "file", message: error.message }] };
     throw error;
   }
   const { fields, file } = staged;
-  if (!file) return { ok: false, status: 400, errors: [{ column: "file", message: "Choose a CSV file to upload." }] };
+  if (!file) return { ok: false, status: 400, errors: [{ field: "file", message: "Choose a CSV file to upload." }] };
   const { options, problems } = importOptionsFromFields(fields, { crs: project.crs, lengthUnit: project.lengthUnit, timeZone: DEFAULT_TIME_ZONE });
   if (!options) {
     await discardStagedFile(file.path);

@@ -1,0 +1,224 @@
+import { mkdtempSync, readdirSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { Op } from "sequelize";
+import { closeSequelize } from "../../db/connection.server";
+import { PROJECT, SURVEYS } from "../../sample-data/scenario";
+import routeConfig from "../../app/routes";
+import { Assignment, AuditEvent, CellResult, ColumnMapping, Dive, DiveCell, DiveTeam, ImportJob, ShareLink, Sounding, Survey, SurveySnapshot } from "~/lib/db.server";
+import { stagingDirectory } from "~/lib/import/stage-upload.server";
+import { presentProject } from "~/models/project.server";
+import { createShareLink } from "~/models/share-links.server";
+import { DEMO_DIR, makeDemoSiteProject, postSurvey } from "./import-helpers";
+import { ORIGIN } from "./helpers";
+
+// Whatever a client sends, no /api route answers 5xx, and a refused request changes nothing: every
+// mutating API route gets empty, non-JSON, wrong-type, deeply nested and oversized bodies and must
+// answer 4xx (not 401/403: the caller is the manager, so the body itself is what is refused) with
+// every table those routes write holding the same rows as before.
+
+process.env.UPLOAD_DIR = mkdtempSync(join(tmpdir(), "firmsand-bad-bodies-"));
+
+afterAll(closeSequelize);
+
+type Handler = (args: never) => Promise<Response>;
+interface MutatingRoute {
+  /** The route's path in app/routes.ts. */
+  route: string;
+  method: string;
+  /** The URL with this test's ids. */
+  url: () => string;
+  params: () => Record<string, string>;
+  /** For a route whose valid request has no body (revoking a link): where the empty bodies go, so they cannot succeed. */
+  urlForEmptyBody?: () => string;
+  paramsForEmptyBody?: () => Record<string, string>;
+}
+
+let site: Awaited<ReturnType<typeof makeDemoSiteProject>>;
+let surveyId: number;
+let liveToken: string;
+const projectParams = () => ({ projectId: String(site.project.id) });
+const base = () => `/api/projects/${site.project.id}`;
+
+// Written out by hand, one row per method of every /api route file that has an action; the last
+// test checks this list against app/routes.ts. Tables written: assignments → Assignment,
+// AuditEvent; dives → Dive, DiveCell, AuditEvent; share-links → ShareLink, AuditEvent; surveys →
+// Survey, Sounding, CellResult, SurveySnapshot, ImportJob, ColumnMapping, AuditEvent and the
+// staging directory; the GET-only routes' actions (405) and api/* (404) write nothing.
+const ROUTES: MutatingRoute[] = [
+  { route: "api/projects/:projectId/assignments", method: "POST", url: () => `${base()}/assignments`, params: projectParams },
+  { route: "api/projects/:projectId/dives", method: "POST", url: () => `${base()}/dives`, params: projectParams },
+  { route: "api/projects/:projectId/share-links", method: "POST", url: () => `${base()}/share-links`, params: projectParams },
+  {
+    route: "api/projects/:projectId/share-links/:token", method: "DELETE",
+    url: () => `${base()}/share-links/${liveToken}`, params: () => ({ ...projectParams(), token: liveToken }),
+    urlForEmptyBody: () => `${base()}/share-links/no-such-token-0123456789`, paramsForEmptyBody: () => ({ ...projectParams(), token: "no-such-token-0123456789" }),
+  },
+  { route: "api/projects/:projectId/surveys", method: "POST", url: () => `${base()}/surveys`, params: projectParams },
+  { route: "api/projects/:projectId/surveys/:surveyId", method: "DELETE", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
+  { route: "api/projects/:projectId/surveys/:surveyId", method: "PATCH", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
+  // GET-only routes: their action answers 405 to every body.
+  { route: "api/projects/:projectId/bands", method: "POST", url: () => `${base()}/bands`, params: projectParams },
+  { route: "api/projects/:projectId/cells", method: "POST", url: () => `${base()}/cells`, params: projectParams },
+  { route: "api/projects/:projectId/cells/:label", method: "POST", url: () => `${base()}/cells/B7`, params: () => ({ ...projectParams(), label: "B7" }) },
+  { route: "api/projects/:projectId/progress", method: "POST", url: () => `${base()}/progress`, params: projectParams },
+  { route: "api/projects/:projectId/quantities.csv", method: "POST", url: () => `${base()}/quantities.csv`, params: projectParams },
+  { route: "api/projects/:projectId/quantities.geojson", method: "POST", url: () => `${base()}/quantities.geojson`, params: projectParams },
+  { route: "api/*", method: "POST", url: () => "/api/no-such-thing", params: () => ({ "*": "no-such-thing" }) },
+];
+
+const TWO_MB = 2 * 1024 * 1024;
+const DEPTH = 10_000;
+const nestedObject = `${'{"name":'.repeat(DEPTH)}"x"${"}".repeat(DEPTH)}`;
+const nestedArray = `${"[".repeat(DEPTH)}${"]".repeat(DEPTH)}`;
+const nestedInFields = `{"date":"2031-05-06","team":"Team Heron","hose":"Hose A","cells":${nestedArray},"name":${nestedObject},"reason":${nestedArray},"status":${nestedObject}}`;
+const oversizedJson = JSON.stringify({ name: "Embed", publicText: "x".repeat(TWO_MB), notes: "y", reason: "z".repeat(TWO_MB) });
+
+/** A 2 MB body sent in chunks with no Content-Length, as a streaming client would. */
+function chunkedBody(totalBytes: number): ReadableStream<Uint8Array> {
+  let sent = 0;
+  const chunk = new TextEncoder().encode(`{"pad":"${"x".repeat(64 * 1024)}",`);
+  return new ReadableStream({
+    pull(controller) {
+      if (sent >= totalBytes) return controller.close();
+      controller.enqueue(chunk);
+      sent += chunk.byteLength;
+    },
+  });
+}
+
+function multipart(fields: Record<string, string>, file?: string): FormData {
+  const form = new FormData();
+  for (const [name, value] of Object.entries(fields)) form.set(name, value);
+  if (file !== undefined) form.set("file", new Blob([file], { type: "text/csv" }), "soundings.csv");
+  return form;
+}
+
+interface BadBody {
+  name: string;
+  /** An empty body: for a route whose valid request has none, it goes to urlForEmptyBody. */
+  empty?: boolean;
+  init: () => { body?: BodyInit; headers?: Record<string, string>; duplex?: "half" };
+}
+
+const json = (body: string) => () => ({ body, headers: { "Content-Type": "application/json" } });
+const BAD_BODIES: BadBody[] = [
+  { name: "no body, no Content-Type", empty: true, init: () => ({}) },
+  { name: "empty JSON body", empty: true, init: json("") },
+  { name: "JSON type, not JSON", init: json("this is not json {") },
+  { name: "JSON type, truncated", init: json('{"date":"2031-05-06","cells":["B7"') },
+  { name: "text/plain", init: () => ({ body: "date=2031-05-06", headers: { "Content-Type": "text/plain" } }) },
+  { name: "XML", init: () => ({ body: "<assignment/>", headers: { "Content-Type": "application/xml" } }) },
+  { name: "no Content-Type with a body", init: () => ({ body: new Blob(['{"name":"x"}']) }) },
+  { name: "JSON array", init: json("[1,2,3]") },
+  { name: "JSON string", init: json('"a string"') },
+  { name: "JSON null", init: json("null") },
+  { name: "JSON number", init: json("42") },
+  { name: "JSON with wrong field types", init: json('{"date":5,"team":[],"cells":"B7","hose":{},"diver":false,"maxDepth":"deep","name":7,"publicText":[],"reason":false,"status":1}') },
+  { name: "JSON with unknown fields only", init: json('{"__proto__":{"admin":true},"constructor":{"prototype":{}}}') },
+  { name: `object nested ${DEPTH} levels`, init: json(nestedObject) },
+  { name: `array nested ${DEPTH} levels`, init: json(nestedArray) },
+  { name: "deep nesting inside known fields", init: json(nestedInFields) },
+  { name: "2 MB JSON with Content-Length", init: () => ({ body: oversizedJson, headers: { "Content-Type": "application/json", "Content-Length": String(Buffer.byteLength(oversizedJson)) } }) },
+  { name: "2 MB JSON chunked", init: () => ({ body: chunkedBody(TWO_MB), headers: { "Content-Type": "application/json" }, duplex: "half" }) },
+  { name: "invalid UTF-8 JSON", init: () => ({ body: new Uint8Array([0x7b, 0x22, 0xff, 0xfe, 0x22, 0x7d]), headers: { "Content-Type": "application/json" } }) },
+  // Broken %-escapes decode leniently (as browsers do), so only the fields' names decide here: none is one a route asks for.
+  { name: "form with broken escapes", init: () => ({ body: "%zz=%&na%me=%E0%A4%A&=&&", headers: { "Content-Type": "application/x-www-form-urlencoded" } }) },
+  { name: "multipart with a wrong boundary", init: () => ({ body: "--other\r\nContent-Disposition: form-data; name=\"name\"\r\n\r\nx\r\n--other--\r\n", headers: { "Content-Type": "multipart/form-data; boundary=expected" } }) },
+  { name: "multipart without a file, fields of the wrong kind", init: () => ({ body: multipart({ kind: "sideways", surveyedOn: "yesterday", waterSurfaceElevation: "high", name: "" }) }) },
+  { name: "multipart with a nested columns field", init: () => ({ body: multipart({ kind: "baseline", surveyedOn: "2026-09-08", waterSurfaceElevation: "32.4", columns: nestedObject }, "easting,northing,depth\n600100,1679950,4\n") }) },
+];
+
+/** Row counts of every table a mutating API route writes, for this project. */
+async function snapshot() {
+  const projectId = site.project.id;
+  const surveyIds = (await Survey.findAll({ where: { projectId }, attributes: ["id"] })).map((survey) => survey.id);
+  return {
+    assignments: await Assignment.count({ where: { projectId } }),
+    dives: await Dive.count({ where: { projectId } }),
+    diveCells: await DiveCell.count({ where: { projectId } }),
+    shareLinks: await ShareLink.count({ where: { projectId } }),
+    revokedShareLinks: await ShareLink.count({ where: { projectId, revokedAt: { [Op.ne]: null } } }),
+    surveys: surveyIds.length,
+    retractedSurveys: await Survey.count({ where: { projectId, status: "retracted" } }),
+    soundings: await Sounding.count({ where: { surveyId: surveyIds } }),
+    cellResults: await CellResult.count({ where: { projectId } }),
+    snapshots: await SurveySnapshot.count({ where: { projectId } }),
+    importJobs: await ImportJob.count({ where: { projectId } }),
+    columnMappings: await ColumnMapping.count({ where: { projectId } }),
+    auditEvents: await AuditEvent.count({ where: { projectId } }),
+    stagedFiles: readdirSync(stagingDirectory(), { withFileTypes: true }).length,
+  };
+}
+
+async function moduleOf(file: string): Promise<{ action?: Handler }> {
+  return import(/* @vite-ignore */ `../../app/${file}`);
+}
+
+/** Every route in app/routes.ts with its full path (nested paths joined). */
+function allRoutes(): Array<{ path: string; file: string }> {
+  type Entry = { path?: string; index?: boolean; file: string; children?: Entry[] };
+  const walk = (entries: Entry[], parent: string): Array<{ path: string; file: string }> =>
+    entries.flatMap((entry) => {
+      const path = entry.index ? parent : [parent, entry.path].filter(Boolean).join("/");
+      return [{ path, file: entry.file }, ...walk(entry.children ?? [], path)];
+    });
+  return walk(routeConfig as Entry[], "");
+}
+
+beforeAll(async () => {
+  site = await makeDemoSiteProject("bad-bodies");
+  await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] });
+  const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
+  const stored = await postSurvey(site.project.id, site.tokens.manager, { path: join(DEMO_DIR, baseline.fileName) }, {
+    kind: baseline.kind, surveyedOn: baseline.surveyedOn, waterSurfaceElevation: String(baseline.waterSurfaceElevationFt), timeZone: PROJECT.timeZone, datum: PROJECT.verticalDatum,
+  });
+  expect(stored.status).toBe(201);
+  surveyId = ((await stored.json()) as { id: number }).id;
+  const manager = { id: site.users.manager } as never;
+  liveToken = (await createShareLink(presentProject(site.project), manager, { name: "Live link", publicText: "" }, ORIGIN, null)).token;
+}, 60_000);
+
+describe("bad bodies to every mutating API route", () => {
+  for (const route of ROUTES) {
+    it(`${route.method} /${route.route}: 4xx for every bad body, nothing written`, async () => {
+      const { action } = await moduleOf(allRoutes().find((entry) => entry.path === route.route)!.file);
+      const before = await snapshot();
+      const answers: string[] = [];
+      for (const bad of BAD_BODIES) {
+        const emptyElsewhere = bad.empty && route.urlForEmptyBody;
+        const url = emptyElsewhere ? route.urlForEmptyBody!() : route.url();
+        const params = emptyElsewhere ? route.paramsForEmptyBody!() : route.params();
+        const { body, headers = {}, duplex } = bad.init();
+        const request = new Request(`${ORIGIN}${url}`, {
+          method: route.method, body, duplex, headers: { ...headers, Authorization: `Bearer ${site.tokens.manager}` },
+        } as RequestInit);
+        const response = await action!({ request, params, context: {} } as never);
+        answers.push(`${bad.name}: ${response.status}`);
+        expect(response.status, `${bad.name} → ${response.status}`).toBeGreaterThanOrEqual(400);
+        expect(response.status, bad.name).toBeLessThan(500);
+        expect([401, 403], bad.name).not.toContain(response.status);
+        // Every refusal speaks the one error shape.
+        const answer = (await response.json()) as { errors?: Array<{ message?: unknown }> };
+        expect(answer.errors?.length, bad.name).toBeGreaterThan(0);
+        expect(answer.errors!.every((error) => typeof error.message === "string" && error.message.length > 0), bad.name).toBe(true);
+      }
+      expect(await snapshot(), answers.join("\n")).toEqual(before);
+    }, 60_000);
+  }
+
+  it("the list covers every /api route file with an action, and only those", async () => {
+    const withAction: string[] = [];
+    for (const { path, file } of allRoutes().filter((entry) => entry.path.startsWith("api/"))) {
+      if (typeof (await moduleOf(file)).action === "function") withAction.push(path);
+    }
+    expect([...new Set(ROUTES.map((route) => route.route))].sort()).toEqual(withAction.sort());
+  });
+
+  it("the bodies did reach the routes: a valid request on the same URLs still works (negative control)", async () => {
+    const { action } = await moduleOf("routes/api.projects.$projectId.share-links.$token.ts");
+    const request = new Request(`${ORIGIN}${base()}/share-links/${liveToken}`, { method: "DELETE", headers: { Authorization: `Bearer ${site.tokens.manager}` } });
+    expect((await action!({ request, params: { ...projectParams(), token: liveToken }, context: {} } as never)).status).toBe(204);
+  });
+});
