@@ -1,4 +1,5 @@
-import { CellResult, Sounding, Survey, SurveySnapshot, User, type CellResultStatus, type SnapshotTotals, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
+import type { CellStatus } from "../../shared/cell-status";
+import { CellResult, Sounding, Survey, SurveySnapshot, User, type SnapshotTotals, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
 import type { ProjectView } from "./project.server";
 
 /** Surveys of a project as the pages and the API show them; every query is scoped by the project. */
@@ -127,7 +128,7 @@ export async function sampleSoundingPositions(project: ProjectView, surveyId: nu
 export interface ProjectStatistics {
   totals: SnapshotTotals | null;
   asOf: string | null;
-  statusCounts: Partial<Record<CellResultStatus, number>>;
+  statusCounts: Partial<Record<CellStatus, number>>;
   history: Array<{ surveyedOn: string; totals: SnapshotTotals }>;
 }
 
@@ -135,7 +136,7 @@ export async function getProjectStatistics(project: ProjectView): Promise<Projec
   const snapshots = await SurveySnapshot.findAll({ where: { projectId: project.id }, attributes: ["surveyedOn", "totals"], order: [["surveyedOn", "ASC"]] });
   const history = snapshots.map((snapshot) => ({ surveyedOn: snapshot.surveyedOn, totals: parseJson(snapshot.totals) as unknown as SnapshotTotals }));
   const cells = await CellResult.findAll({ where: { projectId: project.id }, attributes: ["status"], raw: true });
-  const statusCounts: Partial<Record<CellResultStatus, number>> = {};
+  const statusCounts: Partial<Record<CellStatus, number>> = {};
   for (const cell of cells) statusCounts[cell.status] = (statusCounts[cell.status] ?? 0) + 1;
   const latest = history[history.length - 1] ?? null;
   return { totals: latest?.totals ?? null, asOf: latest?.surveyedOn ?? null, statusCounts, history };

@@ -27,7 +27,6 @@ export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
 export { LENGTH_UNITS, type LengthUnit } from "./project";
 export { ApiToken, CellResult, ColumnMapping, ImportJob, Sounding, Survey, SurveySnapshot };
 export { SURVEY_KINDS, SURVEY_STATUSES, type SurveyKind, type SurveyStatus } from "./survey";
-export { CELL_RESULT_STATUSES, type CellResultStatus } from "./cell-result";
 export { IMPORT_JOB_STATES, type ImportJobState } from "./import-job";
 export type { SnapshotTotals } from "./survey-snapshot";
 export { ShareLink };

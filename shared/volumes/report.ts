@@ -1,7 +1,7 @@
 import { cellLabel, cellRowCol } from "../grid/cell-grid";
 import { cubicToVolumeUnit, volumeUnitFor, type LengthUnit, type VolumeUnit } from "../units";
 import type { EngineResult } from "../pipeline";
-import { cellStatuses, type CellStatus } from "./cell-stats";
+import { CELL_STATUSES, type MeasuredCellStatus } from "../cell-status";
 
 /**
  * The plain-object shape of a volume computation, as the command line prints it and the app
@@ -20,7 +20,7 @@ export interface CellReport {
   meanRemainingThickness: number | null;
   /** 0–1 share of the cell's in-limit area with data. */
   coverage: number;
-  status: CellStatus;
+  status: MeasuredCellStatus;
 }
 
 export interface VolumeReport {
@@ -54,7 +54,7 @@ export function volumeReport(result: EngineResult, unit: LengthUnit): VolumeRepo
       remainingVolume: volume(cells.remainingVolume[cell]),
       meanRemainingThickness: Number.isNaN(thickness) ? null : thickness,
       coverage: cells.coverage[cell],
-      status: cellStatuses[cells.status[cell]],
+      status: CELL_STATUSES[cells.status[cell]] as MeasuredCellStatus,
     });
   }
   return {

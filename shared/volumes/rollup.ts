@@ -1,6 +1,7 @@
 import { cellCentroid, cellIndex, cellRowCol, type CellGrid } from "../grid/cell-grid";
 import { isInsideWorkLimit, type ProjectedMultiPolygon } from "../grid/work-limit";
-import { cellStatusCode, type CellStats } from "./cell-stats";
+import { cellStatusCode } from "../cell-status";
+import type { CellStats } from "./cell-stats";
 
 /** Sums over a set of cells (a zone, or the whole project). Volumes in the project's cubic length unit. */
 export interface VolumeTotals {

@@ -2,7 +2,7 @@ import { cellLabel, cellRowCol } from "../../../shared/grid/cell-grid";
 import type { ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
 import { computeVolumesFromSurfaces, triangulateSurveys, type EngineResult, type EngineSettings, type ProgressCallback, type SurveyPoints } from "../../../shared/pipeline";
 import { cubicToVolumeUnit, type LengthUnit } from "../../../shared/units";
-import { cellStatusCode, cellStatuses } from "../../../shared/volumes/cell-stats";
+import { CELL_STATUSES, cellStatusCode, type CellStatus } from "../../../shared/cell-status";
 import { noSurvey } from "../../../shared/volumes/latest-bottom";
 import { zoneCells } from "../../../shared/volumes/rollup";
 
@@ -41,9 +41,6 @@ export interface ProjectComputationInput {
   lengthUnit: LengthUnit;
 }
 
-export const RESULT_STATUSES = [...cellStatuses, "confirmed"] as const;
-export type ResultStatus = (typeof RESULT_STATUSES)[number];
-
 export interface CellFigures {
   row: number;
   col: number;
@@ -58,7 +55,7 @@ export interface CellFigures {
   meanRemainingThickness: number | null;
   coverage: number;
   areaInLimit: number;
-  status: ResultStatus;
+  status: CellStatus;
   latestSurveyId: number | null;
 }
 
@@ -87,7 +84,7 @@ export interface SnapshotFigures {
   /** Row-major over the cell grid, project volume unit. */
   remainingVolumes: Float32Array;
   removedVolumes: Float32Array;
-  /** Codes into RESULT_STATUSES. */
+  /** Codes into CELL_STATUSES. */
   statuses: Uint8Array;
 }
 
@@ -99,8 +96,6 @@ export interface ProjectComputation {
   /** Share (0–1) of the in-limit cell area each survey's soundings were the latest bottom of, in the final state. */
   latestShareBySurvey: Record<number, number>;
 }
-
-const CONFIRMED = RESULT_STATUSES.indexOf("confirmed");
 
 function byDateThenId(a: ComputationSurvey, b: ComputationSurvey): number {
   return a.surveyedOn < b.surveyedOn ? -1 : a.surveyedOn > b.surveyedOn ? 1 : a.id - b.id;
@@ -137,7 +132,7 @@ function addCell(totals: FigureTotals, cell: { plannedVolume: number; removedVol
   totals.depositedVolume += cell.depositedVolume;
   totals.remainingVolume += cell.remainingVolume;
   totals.cells++;
-  if (status === CONFIRMED) {
+  if (status === cellStatusCode.confirmed) {
     totals.cellsConfirmed++;
     totals.cellsAtFirmSand++; // a confirmed cell is at firm sand, proven by the closeout
   } else if (status === cellStatusCode["at-firm-sand"]) totals.cellsAtFirmSand++;
@@ -148,7 +143,7 @@ function addCell(totals: FigureTotals, cell: { plannedVolume: number; removedVol
 
 interface StateFigures {
   result: EngineResult;
-  /** Per cell: RESULT_STATUSES code. */
+  /** Per cell: CELL_STATUSES code. */
   status: Uint8Array;
   /** Per cell: id of the survey supplying most of the latest bottom, or -1. */
   latestSurvey: Int32Array;
@@ -182,7 +177,7 @@ function stateFigures(result: EngineResult, newestFirst: ComputationSurvey[]): S
     const engineStatus = result.cells.status[cell];
     const supplier = bestSource >= 0 ? newestFirst[bestSource] : null;
     latestSurvey[cell] = supplier ? supplier.id : -1;
-    status[cell] = engineStatus === cellStatusCode["at-firm-sand"] && supplier?.kind === "closeout" ? CONFIRMED : engineStatus;
+    status[cell] = engineStatus === cellStatusCode["at-firm-sand"] && supplier?.kind === "closeout" ? cellStatusCode.confirmed : engineStatus;
   }
   return { result, status, latestSurvey };
 }
@@ -272,7 +267,7 @@ export function computeProjectFigures(input: ProjectComputationInput, onProgress
       meanRemainingThickness: Number.isNaN(thickness) ? null : thickness,
       coverage: result.cells.coverage[cell],
       areaInLimit: area,
-      status: RESULT_STATUSES[state.status[cell]],
+      status: CELL_STATUSES[state.status[cell]],
       latestSurveyId,
     });
   }
