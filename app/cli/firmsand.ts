@@ -1,6 +1,6 @@
 import { readFileSync } from "node:fs";
 import { z } from "zod";
-import { EngineWorkerPool } from "../lib/engine-worker.server";
+import { EngineWorkerPool } from "../lib/engine/engine-worker.server";
 import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/epsg.server";
 import { createCrs, type Crs } from "../../shared/crs";
 import type { ProjectedMultiPolygon, Ring } from "../../shared/grid/work-limit";

@@ -2,8 +2,8 @@ import type { FeatureCollection, MultiPolygon } from "geojson";
 import { contourBands, depthThresholds, remainingThicknessThresholds, type BandProperties } from "../../shared/bands";
 import { createCrs } from "../../shared/crs";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
-import { BoundedCache } from "~/lib/map/bounded-cache";
-import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/map/project-surfaces.server";
+import { BoundedCache } from "~/lib/bounded-cache";
+import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/engine/project-surfaces.server";
 import type { ProjectView } from "./project.server";
 
 export type BandSurface = "remaining" | "depth";

@@ -5,10 +5,10 @@ import { presentCellsPayload, presentStoredCellFigures, type CellDetail, type Ce
 export type { CellDetail } from "./cells-presenter";
 import { CellResult, Project, SurveySnapshot, Zone } from "~/lib/db.server";
 import { createHash } from "node:crypto";
-import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/map/project-surfaces.server";
-import { BoundedCache } from "~/lib/map/bounded-cache";
+import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/engine/project-surfaces.server";
+import { BoundedCache } from "~/lib/bounded-cache";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
-import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import type { ProjectView } from "./project.server";
 
 export type { CellsPayload } from "./cells-presenter";

@@ -3,7 +3,7 @@ import { computeSurveyVolumes, type SurveyPoints } from "../../shared/pipeline";
 import { endAreaCheck, principalAxisLayout } from "../../shared/progress/end-area-check";
 import { cubicToVolumeUnit } from "../../shared/units";
 import { Survey, SurveySnapshot, getSequelize } from "~/lib/db.server";
-import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import type { ProjectView } from "./project.server";
 
 /**

@@ -4,7 +4,7 @@ import { csvLine, type CsvValue } from "../../shared/csv-safe";
 import { unitLabel } from "../../shared/units";
 import { CellResult, Survey, Zone } from "~/lib/db.server";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
-import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { loadProgress, type ProgressFigures, type ProgressView } from "./progress.server";
 import type { ProjectView } from "./project.server";
 import { presentStoredCellFigures } from "./cells-presenter";

@@ -10,11 +10,11 @@
  */
 import { monitorEventLoopDelay } from "node:perf_hooks";
 import { Survey, getSequelize } from "../../app/lib/db.server";
-import { closeAppEnginePool, type EngineWorkerPool } from "../../app/lib/engine-worker.server";
-import { loadProjectGeometry } from "../../app/lib/import/project-geometry.server";
-import type { ComputationSurvey } from "../../app/lib/import/project-computation";
-import { recomputeProjectStatistics, serverEnginePool } from "../../app/lib/import/recompute.server";
-import { computeSurfacesIn } from "../../app/lib/map/project-surfaces.server";
+import { closeAppEnginePool, type EngineWorkerPool } from "../../app/lib/engine/engine-worker.server";
+import { loadProjectGeometry } from "../../app/lib/engine/project-geometry.server";
+import type { ComputationSurvey } from "../../app/lib/engine/project-figures";
+import { recomputeProjectStatistics, serverEnginePool } from "../../app/lib/engine/recompute.server";
+import { computeSurfacesIn } from "../../app/lib/engine/project-surfaces.server";
 import { closeSequelize } from "../../db/connection.server";
 import { baselinePoints, createBenchProject } from "./import-fixture";
 

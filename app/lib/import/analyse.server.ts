@@ -13,7 +13,7 @@ import { findCoordinateMistake } from "./coordinate-mistakes";
 import { binMedians, findDepthUnitMistake, type DepthUnitMistake } from "./depth-unit-mistakes";
 import { previousBottomBins } from "./previous-bottom.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
-import type { ProjectGeometry } from "./project-geometry.server";
+import type { ProjectGeometry } from "../engine/project-geometry.server";
 import { checkRows, ruleOf } from "./row-checks";
 import { sniffFileShape, type FileShape } from "./sniff";
 import { surveyQa, type SurveyQa } from "./survey-qa";

@@ -5,7 +5,7 @@ import type { PreparedSoundings } from "./analyse.server";
 import type { ImportOptions } from "./import-options";
 import { insertSoundings } from "./insert-soundings.server";
 import { withProjectLock } from "./project-lock.server";
-import { recomputeProjectStatistics } from "./recompute.server";
+import { recomputeProjectStatistics } from "../engine/recompute.server";
 import type { SurveyQa } from "./survey-qa";
 
 /**

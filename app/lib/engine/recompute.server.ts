@@ -1,9 +1,9 @@
 import { QueryTypes, type Transaction } from "sequelize";
 import type { ProgressCallback } from "../../../shared/pipeline";
 import { CellResult, Survey, SurveySnapshot, getSequelize } from "../db.server";
-import { appEnginePool, type EngineWorkerPool } from "../engine-worker.server";
+import { appEnginePool, type EngineWorkerPool } from "./engine-worker.server";
 import { getEnv } from "../env.server";
-import { computeProjectFigures, type ComputationSurvey, type ProjectComputation, type ProjectComputationInput } from "./project-computation";
+import { computeProjectFigures, type ComputationSurvey, type ProjectComputation, type ProjectComputationInput } from "./project-figures";
 import { loadProjectGeometry } from "./project-geometry.server";
 
 /**

@@ -1,13 +1,13 @@
 import { setFlagsFromString } from "node:v8";
 import { runInNewContext } from "node:vm";
 import { parentPort } from "node:worker_threads";
-import { createRasterValues, rasterizeTinInto } from "../../shared/surface/raster";
-import { prepareVertices, triangulateVertices } from "../../shared/surface/triangulate";
+import { createRasterValues, rasterizeTinInto } from "../../../shared/surface/raster";
+import { prepareVertices, triangulateVertices } from "../../../shared/surface/triangulate";
 import type { EngineJob, EngineReply, SurfaceJob, SurfaceReply } from "./engine-worker.server";
 // The project-figures and map-surfaces jobs load their modules (the whole pipeline) on first use:
 // a thread that only triangulates and rasterises stays lean (measured: 2 bay threads 481 → 460 MB).
-const projectComputation = () => import("./import/project-computation");
-const latestSurfaces = () => import("./map/latest-surfaces");
+const projectComputation = () => import("./project-figures");
+const latestSurfaces = () => import("./latest-surfaces");
 
 /**
  * Worker-thread side of the engine pool. Three kinds of job: one survey's triangulation (one or

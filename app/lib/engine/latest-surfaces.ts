@@ -2,7 +2,7 @@ import { cellIndexAt } from "../../../shared/grid/cell-grid";
 import type { ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
 import { computeVolumesFromSurfaces, triangulateSurveys, type EngineResult, type EngineSettings } from "../../../shared/pipeline";
 import { createRasterValues, type Raster } from "../../../shared/surface/raster";
-import { firmPoints, type ComputationSurvey } from "../import/project-computation";
+import { firmPoints, type ComputationSurvey } from "./project-figures";
 
 /**
  * The project's latest surfaces for the map, from its active surveys: the engine's final state,

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { computeProjectFigures, type ComputationSurvey } from "./project-computation";
+import { computeProjectFigures, type ComputationSurvey } from "./project-figures";
 
 // A closed-form site: a 40 ft × 40 ft work limit, a flat muck top at 10 ft, firm sand at 8 ft
 // (2 ft of muck), a progress pass down to 8.1 ft everywhere (inside the 0.25 ft tolerance) and a

@@ -2,8 +2,8 @@ import { existsSync } from "node:fs";
 import { createRequire } from "node:module";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
-import { createCellGrid } from "../../shared/grid/cell-grid";
-import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
+import { createCellGrid } from "../../../shared/grid/cell-grid";
+import type { ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
 import {
   computeVolumesFromRasters,
   computeVolumesFromSurfaces,
@@ -16,11 +16,11 @@ import {
   type EngineSurveys,
   type ProgressCallback,
   type SurfaceSummary,
-} from "../../shared/pipeline";
-import type { RasterGrid, RasterPrecision, RasterValues } from "../../shared/surface/raster";
-import type { Tin } from "../../shared/surface/triangulate";
-import type { ComputationSurvey, ProjectComputation, ProjectComputationInput } from "./import/project-computation";
-import type { LatestSurfacesInput, ProjectSurfaces } from "./map/latest-surfaces";
+} from "../../../shared/pipeline";
+import type { RasterGrid, RasterPrecision, RasterValues } from "../../../shared/surface/raster";
+import type { Tin } from "../../../shared/surface/triangulate";
+import type { ComputationSurvey, ProjectComputation, ProjectComputationInput } from "./project-figures";
+import type { LatestSurfacesInput, ProjectSurfaces } from "./latest-surfaces";
 
 /**
  * A small pool of worker threads for the engine's heavy work, so it never blocks the web

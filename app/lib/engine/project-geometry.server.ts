@@ -5,7 +5,7 @@ import type { EngineSettings } from "../../../shared/pipeline";
 import type { LengthUnit } from "../../../shared/units";
 import { Project, Zone } from "../db.server";
 import { resolveCrsDefinition } from "../epsg.server";
-import type { ComputationZone } from "./project-computation";
+import type { ComputationZone } from "./project-figures";
 
 /**
  * A project's geometry in its own projected CRS: the work limit and zones (stored as lon/lat

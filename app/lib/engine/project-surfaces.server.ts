@@ -1,9 +1,9 @@
 import { CellResult, Survey, getSequelize } from "../db.server";
-import type { EngineWorkerPool } from "../engine-worker.server";
-import type { ComputationSurvey } from "../import/project-computation";
-import { loadProjectGeometry } from "../import/project-geometry.server";
-import { loadSurveyPoints, serverEnginePool } from "../import/recompute.server";
-import { BoundedCache } from "./bounded-cache";
+import type { EngineWorkerPool } from "./engine-worker.server";
+import type { ComputationSurvey } from "./project-figures";
+import { loadProjectGeometry } from "./project-geometry.server";
+import { loadSurveyPoints, serverEnginePool } from "./recompute.server";
+import { BoundedCache } from "../bounded-cache";
 import { computeLatestSurfaces, type LatestSurfacesInput, type ProjectSurfaces } from "./latest-surfaces";
 
 export type { ProjectSurfaces } from "./latest-surfaces";

@@ -1,9 +1,9 @@
 import { afterAll, describe, expect, it } from "vitest";
-import { computeSurveyVolumes } from "../../shared/pipeline";
-import { ellipseLimit, syntheticSurveys } from "../../tests/bench/synthetic";
+import { computeSurveyVolumes } from "../../../shared/pipeline";
+import { ellipseLimit, syntheticSurveys } from "../../../tests/bench/synthetic";
 import { EngineWorkerPool, workerEntry } from "./engine-worker.server";
-import { computeProjectFigures, type ComputationSurvey, type ProjectComputationInput } from "./import/project-computation";
-import { computeLatestSurfaces } from "./map/latest-surfaces";
+import { computeProjectFigures, type ComputationSurvey, type ProjectComputationInput } from "./project-figures";
+import { computeLatestSurfaces } from "./latest-surfaces";
 
 const basin = { name: "test pond", centreX: 512_000, centreY: 1_234_000, radiusX: 120, radiusY: 80, waterDepth: 6, muckThickness: 2 };
 const settings = { cellSize: 20, resolution: 1, maxEdge: 30, tolerance: 0.25, firmShare: 0.95, minCoverage: 0.8, surveyNoise: 0.25 };
@@ -127,7 +127,7 @@ describe("EngineWorkerPool", () => {
 
 describe("workerEntry", () => {
   it("is the TypeScript thread beside the sources and the built .mjs beside a bundle", () => {
-    expect(workerEntry("file:///repo/app/lib/engine-worker.server.ts").url.href).toBe("file:///repo/app/lib/engine-worker.thread.ts");
+    expect(workerEntry("file:///repo/app/lib/engine/engine-worker.server.ts").url.href).toBe("file:///repo/app/lib/engine/engine-worker.thread.ts");
     expect(workerEntry("file:///srv/firmsand/build/server/index.js")).toEqual({ url: new URL("file:///srv/firmsand/build/server/engine-worker.thread.mjs"), fromSources: false });
   });
 });
