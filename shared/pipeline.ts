@@ -152,7 +152,7 @@ export function sample(tin: Tin, grid: RasterGrid, mask: Uint8Array, precision: 
   return values;
 }
 
-/** The grids every surface shares: laid once per computation. */
+/** The grids every surface shares. */
 export interface EngineGrids {
   workLimit: ProjectedMultiPolygon;
   cellGrid: CellGrid;
@@ -162,7 +162,13 @@ export interface EngineGrids {
   cellAreaInLimit: Float64Array;
 }
 
-export function prepareGrids(workLimit: ProjectedMultiPolygon, settings: EngineSettings, onProgress?: ProgressCallback): EngineGrids {
+/** The cell grid and the raster grid over the limit: a few arithmetic steps, so a caller can lay them before it hands work to threads. */
+export interface GridLines {
+  cellGrid: CellGrid;
+  rasterGrid: RasterGrid;
+}
+
+export function layGridLines(workLimit: ProjectedMultiPolygon, settings: EngineSettings): GridLines {
   engineSettingsSchema.parse(settings);
   const nodesAcross = workLimitBounds(workLimit);
   const rasterNodes = ((nodesAcross.maxX - nodesAcross.minX) / settings.resolution) * ((nodesAcross.maxY - nodesAcross.minY) / settings.resolution);
@@ -177,12 +183,23 @@ export function prepareGrids(workLimit: ProjectedMultiPolygon, settings: EngineS
     originY: settings.originY,
     rotationDegrees: settings.rotationDegrees,
   });
-  const rasterGrid = rasterGridFor(workLimit, cellGrid, settings.resolution);
+  return { cellGrid, rasterGrid: rasterGridFor(workLimit, cellGrid, settings.resolution) };
+}
+
+/** The grids every surface shares, laid once per computation: `lines` when the caller has laid them already. */
+export function prepareGrids(workLimit: ProjectedMultiPolygon, settings: EngineSettings, onProgress?: ProgressCallback, lines: GridLines = layGridLines(workLimit, settings)): EngineGrids {
+  const { cellGrid, rasterGrid } = lines;
   const mask = workLimitMask(workLimit, rasterGrid);
   const nodeCell = nodeCells(cellGrid, rasterGrid, mask);
   const cellAreaInLimit = cellAreasInWorkLimit(cellGrid, rasterGrid, nodeCell);
   onProgress?.("work limit", 1);
   return { workLimit, cellGrid, rasterGrid, mask, nodeCell, cellAreaInLimit };
+}
+
+/** A raster sampled without the mask, clipped to the work limit afterwards (in place): the same values as sampling with it. */
+export function clipToMask(values: RasterValues, mask: Uint8Array): RasterValues {
+  for (let node = 0; node < mask.length; node++) if (mask[node] === 0) values[node] = Number.NaN;
+  return values;
 }
 
 export interface SurfaceSummary {

@@ -1,5 +1,6 @@
 import { readFileSync } from "node:fs";
 import { z } from "zod";
+import { firmPoints, type ComputationSurvey } from "../lib/engine/engine-surveys";
 import { EngineWorkerPool } from "../lib/engine/engine-worker.server";
 import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/epsg.server";
 import { createCrs, type Crs } from "../../shared/crs";
@@ -7,6 +8,7 @@ import type { ProjectedMultiPolygon, Ring } from "../../shared/grid/work-limit";
 import { computeSurveyVolumes, type EngineResult, type EngineSettings, type SurveyPoints } from "../../shared/pipeline";
 import { bottomElevations, refusalElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv, type ParsedSoundings } from "../../shared/soundings/parse-csv";
+import { selectSurveysInForce } from "../../shared/surveys-in-force";
 import { defaultsFor, lengthUnitSchema, type LengthUnit } from "../../shared/units";
 import { volumeReport } from "../../shared/volumes/report";
 
@@ -190,26 +192,28 @@ async function runVolumes(argv: string[]): Promise<string> {
   const defaults = defaultsFor(unit);
   const before = readSoundings(options.before);
   const after = readSoundings(options.after);
+  // The two files are the surveys in force, as the app would choose them: the before file the
+  // baseline, the after file the one progress survey on it (the files carry no dates).
+  const surveyOf = (id: number, kind: ComputationSurvey["kind"], parsed: ParsedSoundings, waterSurface: number): ComputationSurvey => ({
+    id, kind, surveyedOn: "", ...surveyPoints(parsed, bottomElevations(parsed, waterSurface)), refusalElevation: refusalElevations(parsed, waterSurface),
+  });
+  const inForce = selectSurveysInForce([surveyOf(1, "baseline", before, options["before-wse"]), surveyOf(2, "progress", after, options["after-wse"])])!;
   let firm: SurveyPoints;
   if (options.firm !== undefined) {
     const firmSoundings = readSoundings(options.firm);
     const refusal = refusalElevations(firmSoundings, options["firm-wse"]);
     firm = surveyPoints(firmSoundings, refusal ?? bottomElevations(firmSoundings, options["firm-wse"]));
   } else {
-    const refusal = refusalElevations(before, options["before-wse"]);
+    const refusal = inForce.baseline.refusalElevation;
     if (refusal === null || refusal.every(Number.isNaN)) {
       throw new InputError(`${options.before}: has no probe readings (column "probe" or "probe_depth"); give the firm-sand surface with --firm FILE`);
     }
-    firm = surveyPoints(before, refusal);
+    firm = firmPoints(inForce.baseline);
   }
 
   const workLimit = options.limit === undefined ? null : readWorkLimit(options.limit, crs);
   const tolerance = options.tolerance ?? defaults.tolerance;
-  const surveys = {
-    baseline: surveyPoints(before, bottomElevations(before, options["before-wse"])),
-    progress: [surveyPoints(after, bottomElevations(after, options["after-wse"]))],
-    firm,
-  };
+  const surveys = { baseline: inForce.baseline, progress: inForce.later, firm };
   const settings: EngineSettings = {
     cellSize: options["cell-size"] ?? defaults.cellSize,
     resolution: options.resolution ?? defaults.resolution,

@@ -5,7 +5,7 @@ import { exceedsNoDecompressionLimit, noDecompressionLimit, NO_DECOMPRESSION_CAU
 import { CELL_STATUSES } from "../../shared/cell-status";
 import { convertLength } from "../../shared/units";
 import { Assignment, DiveTeam, getSequelize, type DiveTeamMember } from "~/lib/db.server";
-import { getProjectSurfaces } from "~/lib/engine/project-surfaces.server";
+import { getProjectSurfaces } from "~/lib/engine/engine-state.server";
 import { sendMail } from "~/lib/mail.server";
 import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
 import { getCellsPayload, type CellsPayload } from "./cells.server";

@@ -3,7 +3,7 @@ import { contourBands, depthThresholds, remainingThicknessThresholds, type BandP
 import { createCrs } from "../../shared/crs";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
 import { BoundedCache } from "~/lib/bounded-cache";
-import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/engine/project-surfaces.server";
+import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/engine/engine-state.server";
 import type { ProjectView } from "./project.server";
 
 export type BandSurface = "remaining" | "depth";

@@ -5,7 +5,7 @@ import { presentCellsPayload, presentStoredCellFigures, type CellDetail, type Ce
 export type { CellDetail } from "./cells-presenter";
 import { CellResult, Project, SurveySnapshot, Zone } from "~/lib/db.server";
 import { createHash } from "node:crypto";
-import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/engine/project-surfaces.server";
+import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/engine/engine-state.server";
 import { BoundedCache } from "~/lib/bounded-cache";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";

@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import type { Project } from "./project";
 import type { Survey } from "./survey";
-import type { FigureTotals } from "../../app/lib/engine/project-figures";
+import type { FigureTotals } from "../../shared/volumes/figure-totals";
 
 /** Project and zone totals in the project's volume unit after one survey date. */
 export type SnapshotTotals = FigureTotals;

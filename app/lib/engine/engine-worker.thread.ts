@@ -1,19 +1,18 @@
 import { setFlagsFromString } from "node:v8";
 import { runInNewContext } from "node:vm";
 import { parentPort } from "node:worker_threads";
-import { createRasterValues, rasterizeTinInto } from "../../../shared/surface/raster";
 import { prepareVertices, triangulateVertices } from "../../../shared/surface/triangulate";
-import type { EngineJob, EngineReply, SurfaceJob, SurfaceReply } from "./engine-worker.server";
-// The project-figures and map-surfaces jobs load their modules (the whole pipeline) on first use:
-// a thread that only triangulates and rasterises stays lean (measured: 2 bay threads 481 → 460 MB).
-const projectComputation = () => import("./project-figures");
-const latestSurfaces = () => import("./latest-surfaces");
+import { doSurveyWork } from "./survey-work";
+import type { EngineJob, EngineReply, SurveyWorkJob, TinJob } from "./engine-worker.server";
+// The state job loads its modules (the figures, the end-area check) on first use: a thread that
+// only triangulates and samples stays lean (measured: 2 bay threads 481 → 460 MB).
+const projectState = () => import("./project-state");
 
 /**
- * Worker-thread side of the engine pool. Three kinds of job: one survey's triangulation (one or
- * more value layers on the same soundings), sending back the TINs or, when the raster grid is
- * known, only the rasters sampled here; a project's whole figures computation; the map's latest
- * surfaces. Result buffers are transferred, not copied.
+ * Worker-thread side of the engine pool. Three kinds of job: one survey's work (triangulated and
+ * sampled onto the project's raster, and/or counted per cell: engine-surveys.ts), one survey's
+ * TINs (the command line without a work limit), and a project's state from its sampled surveys
+ * (project-state.ts). Result buffers are transferred, not copied.
  *
  * This file is the entry of its own bundle in the production build (vite.config.ts): it imports
  * only pure modules, and only types from the pool.
@@ -39,25 +38,22 @@ function reply(message: EngineReply, transfer: ArrayBuffer[] = []) {
   parentPort?.postMessage(message, transfer);
 }
 
-function surfaceJob(message: SurfaceJob): SurfaceReply {
-  const job: Partial<SurfaceJob> & Pick<SurfaceJob, "id" | "maxEdge"> = message;
+function surveyJob(message: SurveyWorkJob) {
+  const work: Partial<SurveyWorkJob["work"]> & Pick<SurveyWorkJob["work"], "count"> = message.work;
+  // Once the soundings are copied into the triangulation's arrays, drop the input columns (and
+  // collect, when allowed) before Delaunator allocates its own, so a million-sounding job does not hold both.
+  return doSurveyWork(message.work, message.settings, (vertices) => {
+    work.easting = work.northing = work.layers = undefined;
+    if (vertices >= largeJobSoundings) collect?.();
+  });
+}
+
+function tinJob(message: TinJob) {
+  const job: Partial<TinJob> & Pick<TinJob, "maxEdge"> = message;
   const prepared = prepareVertices(job.easting!, job.northing!, job.layers!);
-  // The input columns are copied into `prepared`; drop them (and collect, when allowed) before
-  // Delaunator allocates its own arrays, so a million-sounding job does not hold both.
-  job.easting = job.northing = job.layers = undefined;
-  if (prepared.xy.length >= 2 * largeJobSoundings) collect?.();
-  const tins = triangulateVertices(prepared, { maxEdge: job.maxEdge });
-  if (message.raster) {
-    const { grid, precision } = message.raster;
-    const rasters = tins.map((tin) => {
-      const values = createRasterValues(grid, precision);
-      rasterizeTinInto(tin, grid, values, null);
-      return values;
-    });
-    const { duplicatesMerged, longTrianglesDropped, invalidSkipped } = tins[0];
-    return { id: job.id, rasters, summary: { duplicatesMerged, longTrianglesDropped, invalidSkipped } };
-  }
-  return { id: job.id, tins };
+  job.easting = job.northing = job.layers = undefined; // as in surveyJob
+  if (prepared.xy.length / 2 >= largeJobSoundings) collect?.();
+  return triangulateVertices(prepared, { maxEdge: job.maxEdge });
 }
 
 parentPort?.on("message", async (message: EngineJob | { collectGarbage: true }) => {
@@ -72,22 +68,17 @@ parentPort?.on("message", async (message: EngineJob | { collectGarbage: true }) 
   }
   const { id } = message;
   try {
-    let done: Extract<EngineReply, { done: unknown }>["done"];
-    if (message.kind === "figures") {
-      const { computeProjectFigures } = await projectComputation();
-      done = { figures: computeProjectFigures(message.input, (stage, fraction) => reply({ id, progress: { stage, fraction } })) };
-    } else if (message.kind === "surfaces") {
-      const { computeLatestSurfaces } = await latestSurfaces();
-      done = { surfaces: computeLatestSurfaces(message.input) };
-    } else {
-      const large = message.easting.length >= largeJobSoundings;
-      done = surfaceJob(message);
+    if (message.kind === "state") {
+      const { computeStateFromRasters } = await projectState();
+      const done = { state: computeStateFromRasters(message.input, (stage, fraction) => reply({ id, progress: { stage, fraction } })) };
       reply({ id, done }, buffersOf(done));
-      // The TIN and Delaunator's arrays are garbage now; free them while the main thread carries on.
-      if (large) collect?.();
       return;
     }
+    const large = (message.kind === "survey" ? message.work.easting : message.easting).length >= largeJobSoundings;
+    const done = message.kind === "survey" ? { survey: surveyJob(message) } : { tins: tinJob(message) };
     reply({ id, done }, buffersOf(done));
+    // The TIN and Delaunator's arrays are garbage now; free them while the main thread carries on.
+    if (large) collect?.();
   } catch (error) {
     reply({ id, error: (error as Error).message });
   }

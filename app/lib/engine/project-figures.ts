@@ -1,75 +1,38 @@
+import { CELL_STATUSES, cellStatusCode, type CellStatus } from "../../../shared/cell-status";
 import { cellLabel, cellRowCol } from "../../../shared/grid/cell-grid";
 import type { ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
-import { computeVolumesFromSurfaces, triangulateSurveys, type EngineResult, type EngineSettings, type ProgressCallback, type SurveyPoints } from "../../../shared/pipeline";
+import { computeVolumesFromRasters, type EngineGrids, type EngineResult, type EngineSettings, type ProgressCallback, type SampledSurveys } from "../../../shared/pipeline";
+import type { DatedSurvey, SurveysInForce } from "../../../shared/surveys-in-force";
 import { cubicToVolumeUnit, type LengthUnit } from "../../../shared/units";
-import { CELL_STATUSES, cellStatusCode, type CellStatus } from "../../../shared/cell-status";
+import { addCellToTotals, emptyFigureTotals, type CellVolumes, type FigureTotals } from "../../../shared/volumes/figure-totals";
 import { noSurvey } from "../../../shared/volumes/latest-bottom";
 import { zoneCells } from "../../../shared/volumes/rollup";
 
 /**
- * A project's figures from its active surveys: the engine run on the active baseline (muck top,
- * and firm sand from its probe), then progress and closeout surveys oldest first. Gives the latest
- * per-cell figures and one snapshot per survey date (the state after every survey of that date).
- * A cell is `confirmed` when it is at firm sand and a closeout survey supplies most of its latest
- * bottom. Pure: typed arrays in, plain figures out, so it can run in a worker thread unchanged.
+ * A project's figures from the surveys in force, already sampled on the project's raster: the
+ * latest per-cell figures and one snapshot per survey date (the state after every survey of that
+ * date). A cell is `confirmed` when it is at firm sand and a closeout survey supplies most of its
+ * latest bottom. The grids are laid once; each date stacks the bottoms of the surveys up to it.
+ * Pure: typed arrays in, plain figures out, so it runs in an engine thread unchanged.
  */
-export type ComputationSurveyKind = "baseline" | "progress" | "closeout";
-
-export interface ComputationSurvey {
-  id: number;
-  kind: ComputationSurveyKind;
-  surveyedOn: string;
-  easting: Float64Array;
-  northing: Float64Array;
-  /** Bottom elevation (project length unit and datum). */
-  elevation: Float64Array;
-  /** Refusal elevation from the probe; NaN where a row has none; null without a probe column. */
-  refusalElevation: Float64Array | null;
-}
-
 export interface ComputationZone {
   id: number;
   name: string;
   polygon: ProjectedMultiPolygon;
 }
 
-export interface ProjectComputationInput {
-  surveys: ComputationSurvey[];
-  workLimit: ProjectedMultiPolygon | null;
-  zones: ComputationZone[];
-  settings: EngineSettings;
-  lengthUnit: LengthUnit;
-}
-
-export interface CellFigures {
+/** One cell's figures as a recompute stores them (a cell_results row): volumes in the project's volume unit. */
+export interface CellResultFigures extends CellVolumes {
   row: number;
   col: number;
   label: string;
   zoneId: number | null;
-  /** Project volume unit (yd³ or m³). */
-  plannedVolume: number;
-  removedVolume: number;
-  depositedVolume: number;
-  remainingVolume: number;
   /** Project length unit; null when nothing in the cell was surveyed. */
   meanRemainingThickness: number | null;
   coverage: number;
   areaInLimit: number;
   status: CellStatus;
   latestSurveyId: number | null;
-}
-
-export interface FigureTotals {
-  plannedVolume: number;
-  removedVolume: number;
-  depositedVolume: number;
-  remainingVolume: number;
-  cells: number;
-  cellsAtFirmSand: number;
-  cellsConfirmed: number;
-  cellsInWork: number;
-  cellsUntouched: number;
-  cellsNoData: number;
 }
 
 export interface SnapshotFigures {
@@ -88,57 +51,20 @@ export interface SnapshotFigures {
   statuses: Uint8Array;
 }
 
-export interface ProjectComputation {
-  baselineSurveyId: number;
-  cells: CellFigures[];
+export interface ProjectFigures {
+  cells: CellResultFigures[];
   totals: FigureTotals;
   snapshots: SnapshotFigures[];
-  /** Share (0–1) of the in-limit cell area each survey's soundings were the latest bottom of, in the final state. */
-  latestShareBySurvey: Record<number, number>;
 }
 
-function byDateThenId(a: ComputationSurvey, b: ComputationSurvey): number {
-  return a.surveyedOn < b.surveyedOn ? -1 : a.surveyedOn > b.surveyedOn ? 1 : a.id - b.id;
-}
-
-/** Firm-sand points from the baseline's probe: the baseline's own arrays when every row has a probe (one triangulation serves both). */
-export function firmPoints(baseline: ComputationSurvey): SurveyPoints {
-  const refusal = baseline.refusalElevation;
-  if (refusal === null) throw new Error("the active baseline has no probe column, so there is no firm-sand surface to measure to");
-  let finite = 0;
-  for (let index = 0; index < refusal.length; index++) if (Number.isFinite(refusal[index])) finite++;
-  if (finite === refusal.length) return { easting: baseline.easting, northing: baseline.northing, elevation: refusal };
-  const easting = new Float64Array(finite);
-  const northing = new Float64Array(finite);
-  const elevation = new Float64Array(finite);
-  let next = 0;
-  for (let index = 0; index < refusal.length; index++) {
-    if (!Number.isFinite(refusal[index])) continue;
-    easting[next] = baseline.easting[index];
-    northing[next] = baseline.northing[index];
-    elevation[next] = refusal[index];
-    next++;
-  }
-  return { easting, northing, elevation };
-}
-
-function emptyTotals(): FigureTotals {
-  return { plannedVolume: 0, removedVolume: 0, depositedVolume: 0, remainingVolume: 0, cells: 0, cellsAtFirmSand: 0, cellsConfirmed: 0, cellsInWork: 0, cellsUntouched: 0, cellsNoData: 0 };
-}
-
-function addCell(totals: FigureTotals, cell: { plannedVolume: number; removedVolume: number; depositedVolume: number; remainingVolume: number }, status: number) {
-  totals.plannedVolume += cell.plannedVolume;
-  totals.removedVolume += cell.removedVolume;
-  totals.depositedVolume += cell.depositedVolume;
-  totals.remainingVolume += cell.remainingVolume;
-  totals.cells++;
-  if (status === cellStatusCode.confirmed) {
-    totals.cellsConfirmed++;
-    totals.cellsAtFirmSand++; // a confirmed cell is at firm sand, proven by the closeout
-  } else if (status === cellStatusCode["at-firm-sand"]) totals.cellsAtFirmSand++;
-  else if (status === cellStatusCode["in-work"]) totals.cellsInWork++;
-  else if (status === cellStatusCode.untouched) totals.cellsUntouched++;
-  else totals.cellsNoData++;
+export interface FiguresInput {
+  inForce: SurveysInForce<DatedSurvey>;
+  grids: EngineGrids;
+  /** Every survey in force sampled and clipped on `grids`; `progress` in the order of `inForce.later`. */
+  sampled: SampledSurveys;
+  zones: ComputationZone[];
+  settings: EngineSettings;
+  lengthUnit: LengthUnit;
 }
 
 interface StateFigures {
@@ -150,7 +76,7 @@ interface StateFigures {
 }
 
 /** Statuses with `confirmed`, and which survey supplies each cell's latest bottom. */
-function stateFigures(result: EngineResult, newestFirst: ComputationSurvey[]): StateFigures {
+function stateFigures(result: EngineResult, newestFirst: DatedSurvey[]): StateFigures {
   const cellCount = result.cells.count;
   const surveysCount = newestFirst.length;
   // Node counts per (cell, source survey), source = index into the newest-first list.
@@ -182,47 +108,35 @@ function stateFigures(result: EngineResult, newestFirst: ComputationSurvey[]): S
   return { result, status, latestSurvey };
 }
 
-export function computeProjectFigures(input: ProjectComputationInput, onProgress?: ProgressCallback): ProjectComputation | null {
-  const baselines = input.surveys.filter((survey) => survey.kind === "baseline").sort(byDateThenId);
-  if (baselines.length === 0) return null;
-  const baseline = baselines[baselines.length - 1]; // the newest active baseline is the one in force
-  const later = input.surveys.filter((survey) => survey.kind !== "baseline").sort(byDateThenId);
-  const surfaces = triangulateSurveys(
-    { baseline, progress: later, firm: firmPoints(baseline) },
-    input.settings.maxEdge,
-    onProgress,
-  );
+/** The figures of every survey date, and the engine's latest state (the last date's). */
+export function computeProjectFigures(input: FiguresInput, onProgress?: ProgressCallback): { figures: ProjectFigures; latest: EngineResult } {
+  const { inForce, grids, sampled, settings } = input;
+  const { baseline, later } = inForce;
   const volume = (cubic: number) => cubicToVolumeUnit(cubic, input.lengthUnit);
 
   // Snapshot dates: the baseline's, then each later survey date; each state includes every survey up to it.
   const dates = [...new Set([baseline.surveyedOn, ...later.map((survey) => survey.surveyedOn)])].sort();
   const snapshots: SnapshotFigures[] = [];
+  const zoneCellLists = input.zones.map((zone) => ({ zone, cells: zoneCells(grids.cellGrid, { id: String(zone.id), polygon: zone.polygon }) }));
   let finalState: StateFigures | null = null;
-  let zoneCellLists: Array<{ zone: ComputationZone; cells: Uint32Array }> | null = null;
   dates.forEach((date, dateIndex) => {
+    // `later` is in date order, so the surveys up to a date are a prefix of it.
     const included = later.filter((survey) => survey.surveyedOn <= date);
-    const result = computeVolumesFromSurfaces(
-      { baseline: surfaces.baseline, firm: surfaces.firm, progress: surfaces.progress.slice(0, included.length) },
-      input.workLimit,
-      input.settings,
-      (stage, fraction) => onProgress?.(`${stage} (${date})`, (dateIndex + fraction) / dates.length),
-    );
-    const newestFirst = [...included].reverse().concat([baseline]);
-    const state = stateFigures(result, newestFirst);
-    zoneCellLists ??= input.zones.map((zone) => ({ zone, cells: zoneCells(result.cellGrid, { id: String(zone.id), polygon: zone.polygon }) }));
+    const result = computeVolumesFromRasters(grids, { ...sampled, progress: sampled.progress.slice(0, included.length) }, settings);
+    const state = stateFigures(result, [...included].reverse().concat([baseline]));
     const { cells } = result;
-    const totals = emptyTotals();
+    const totals = emptyFigureTotals();
     const remainingVolumes = new Float32Array(cells.count);
     const removedVolumes = new Float32Array(cells.count);
     for (let cell = 0; cell < cells.count; cell++) {
       remainingVolumes[cell] = volume(cells.remainingVolume[cell]);
       removedVolumes[cell] = volume(cells.removedVolume[cell]);
       if (!(cells.areaInLimit[cell] > 0)) continue;
-      addCell(totals, cellVolumes(cells, cell, volume), state.status[cell]);
+      addCellToTotals(totals, cellVolumes(cells, cell, volume), state.status[cell]);
     }
     const zones = zoneCellLists.map(({ zone, cells: members }) => {
-      const zoneTotals = emptyTotals();
-      for (const cell of members) if (cells.areaInLimit[cell] > 0) addCell(zoneTotals, cellVolumes(cells, cell, volume), state.status[cell]);
+      const zoneTotals = emptyFigureTotals();
+      for (const cell of members) if (cells.areaInLimit[cell] > 0) addCellToTotals(zoneTotals, cellVolumes(cells, cell, volume), state.status[cell]);
       return { zoneId: zone.id, name: zone.name, totals: zoneTotals };
     });
     const lastSurvey = included.length > 0 ? included[included.length - 1] : baseline;
@@ -240,24 +154,19 @@ export function computeProjectFigures(input: ProjectComputationInput, onProgress
       statuses: state.status,
     });
     finalState = state;
+    onProgress?.(`figures (${date})`, (dateIndex + 1) / dates.length);
   });
 
-  const state = finalState as StateFigures | null;
-  if (!state) return null;
+  const state = finalState as unknown as StateFigures; // there is always the baseline's date
   const { result } = state;
   const zoneOfCell = new Map<number, number>();
-  for (const { zone, cells } of (zoneCellLists as Array<{ zone: ComputationZone; cells: Uint32Array }> | null) ?? []) for (const cell of cells) if (!zoneOfCell.has(cell)) zoneOfCell.set(cell, zone.id);
-  const cellFigures: CellFigures[] = [];
-  const latestArea = new Map<number, number>();
-  let areaInLimitTotal = 0;
+  for (const { zone, cells } of zoneCellLists) for (const cell of cells) if (!zoneOfCell.has(cell)) zoneOfCell.set(cell, zone.id);
+  const cellFigures: CellResultFigures[] = [];
   for (let cell = 0; cell < result.cells.count; cell++) {
     const area = result.cells.areaInLimit[cell];
     if (!(area > 0)) continue;
     const { row, col } = cellRowCol(result.cellGrid, cell);
     const thickness = result.cells.meanRemainingThickness[cell];
-    const latestSurveyId = state.latestSurvey[cell] >= 0 ? state.latestSurvey[cell] : null;
-    areaInLimitTotal += area;
-    if (latestSurveyId !== null) latestArea.set(latestSurveyId, (latestArea.get(latestSurveyId) ?? 0) + area);
     cellFigures.push({
       row,
       col,
@@ -268,15 +177,13 @@ export function computeProjectFigures(input: ProjectComputationInput, onProgress
       coverage: result.cells.coverage[cell],
       areaInLimit: area,
       status: CELL_STATUSES[state.status[cell]],
-      latestSurveyId,
+      latestSurveyId: state.latestSurvey[cell] >= 0 ? state.latestSurvey[cell] : null,
     });
   }
-  const latestShareBySurvey: Record<number, number> = {};
-  for (const [surveyId, area] of latestArea) latestShareBySurvey[surveyId] = areaInLimitTotal > 0 ? area / areaInLimitTotal : 0;
-  return { baselineSurveyId: baseline.id, cells: cellFigures, totals: snapshots[snapshots.length - 1].totals, snapshots, latestShareBySurvey };
+  return { figures: { cells: cellFigures, totals: snapshots[snapshots.length - 1].totals, snapshots }, latest: result };
 }
 
-function cellVolumes(cells: EngineResult["cells"], cell: number, volume: (cubic: number) => number) {
+function cellVolumes(cells: EngineResult["cells"], cell: number, volume: (cubic: number) => number): CellVolumes {
   return {
     plannedVolume: volume(cells.plannedVolume[cell]),
     removedVolume: volume(cells.removedVolume[cell]),
