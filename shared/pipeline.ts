@@ -3,7 +3,7 @@ import { createCellGrid, type CellGrid } from "./grid/cell-grid";
 import { workLimitBounds, type ProjectedMultiPolygon } from "./grid/work-limit";
 import { cellAreasInWorkLimit, nodeCells, workLimitMask } from "./grid/work-limit-mask";
 import { createRasterValues, rasterizeTinInto, type Raster, type RasterGrid, type RasterPrecision, type RasterValues } from "./surface/raster";
-import { hullRing, triangulate, triangulateLayers, type Tin } from "./surface/triangulate";
+import { finiteAlike, hullRing, triangulate, triangulateLayers, type Tin } from "./surface/triangulate";
 import { computeCellStats, type CellStats, type CellStatusRules } from "./volumes/cell-stats";
 import { stackLatestBottom } from "./volumes/latest-bottom";
 import { rollUpCells, type VolumeTotals } from "./volumes/rollup";
@@ -116,15 +116,7 @@ export function triangulateSurveys(surveys: EngineSurveys, maxEdge: number, onPr
  */
 export function firmSharesBaselinePositions(surveys: EngineSurveys): boolean {
   const { baseline, firm } = surveys;
-  return firm.easting === baseline.easting && firm.northing === baseline.northing && everyFiniteWhere(baseline.elevation, firm.elevation);
-}
-
-function everyFiniteWhere(reference: Float64Array, other: Float64Array): boolean {
-  if (reference.length !== other.length) return false;
-  for (let index = 0; index < reference.length; index++) {
-    if (Number.isFinite(reference[index]) !== Number.isFinite(other[index])) return false;
-  }
-  return true;
+  return firm.easting === baseline.easting && firm.northing === baseline.northing && finiteAlike(baseline.elevation, firm.elevation);
 }
 
 /** The raster grid over the limit, aligned with the cell grid when it is not rotated so pixels do not straddle cell lines. */

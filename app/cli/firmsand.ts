@@ -1,6 +1,7 @@
 import { readFileSync } from "node:fs";
 import { z } from "zod";
-import { firmPoints, type ComputationSurvey } from "../lib/engine/engine-surveys";
+import type { ComputationSurvey } from "../lib/engine/engine-surveys";
+import { firmPoints } from "../lib/engine/survey-work";
 import { EngineWorkerPool } from "../lib/engine/engine-worker.server";
 import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/epsg.server";
 import { createCrs, type Crs } from "../../shared/crs";

@@ -135,18 +135,22 @@ function movableWork(surveys: readonly ComputationSurvey[], work: readonly Surve
   for (const survey of surveys) {
     for (const column of [survey.easting, survey.northing, survey.elevation, survey.refusalElevation]) if (column) ownerOf.set(column.buffer, survey.id);
   }
+  const columnsOf = (item: SurveyWork) => [item.easting, item.northing, item.elevation, item.refusalElevation].filter((column): column is Float64Array => Boolean(column));
   const readers = new Map<ArrayBufferLike, number>();
-  for (const item of work) for (const array of new Set([item.easting, item.northing, ...item.layers])) readers.set(array.buffer, (readers.get(array.buffer) ?? 0) + 1);
+  for (const item of work) for (const buffer of new Set(columnsOf(item).map((column) => column.buffer))) readers.set(buffer, (readers.get(buffer) ?? 0) + 1);
   return work.map((item) => {
     const transfer = new Set<ArrayBuffer>();
-    const prepare = (array: Float64Array) => {
-      const owner = ownerOf.get(array.buffer);
-      const movable = (owner === undefined || transferIds.has(owner)) && readers.get(array.buffer) === 1;
-      const own = ownBuffer(array);
-      if (movable || own !== array) transfer.add(own.buffer as ArrayBuffer);
-      return own;
+    const prepare = <Column extends Float64Array | null | undefined>(column: Column): Column => {
+      if (!column) return column;
+      const owner = ownerOf.get(column.buffer);
+      const movable = (owner === undefined || transferIds.has(owner)) && readers.get(column.buffer) === 1;
+      const own = ownBuffer(column);
+      if (movable || own !== column) transfer.add(own.buffer as ArrayBuffer);
+      return own as Column;
     };
-    return { work: { ...item, easting: prepare(item.easting), northing: prepare(item.northing), layers: item.layers.map(prepare) }, transfer: [...transfer] };
+    const prepared: SurveyWork = { ...item, easting: prepare(item.easting), northing: prepare(item.northing), elevation: prepare(item.elevation) };
+    if (item.refusalElevation !== undefined) prepared.refusalElevation = prepare(item.refusalElevation);
+    return { work: prepared, transfer: [...transfer] };
   });
 }
 
@@ -324,11 +328,19 @@ export class EngineWorkerPool {
     }
     const lines = layGridLines(workLimit, settings);
     const workSettings: SurveyWorkSettings = { maxEdge: settings.maxEdge, rasterGrid: lines.rasterGrid, precision: settings.rasterPrecision ?? "float64", cellGrid: lines.cellGrid };
+    const { baseline, firm } = surveys;
+    // The baseline's work samples firm sand too when the probe sits on its soundings; firm points of their own are a job of their own.
+    const shared = firmSharesBaselinePositions(surveys);
+    const work: SurveyWork[] = [
+      { easting: baseline.easting, northing: baseline.northing, elevation: baseline.elevation, ...(shared ? { refusalElevation: firm.elevation } : {}), count: false },
+      ...(shared ? [] : [{ easting: firm.easting, northing: firm.northing, elevation: firm.elevation, count: false }]),
+      ...surveys.progress.map((survey) => ({ easting: survey.easting, northing: survey.northing, elevation: survey.elevation, count: false })),
+    ];
     const pending = Promise.all(
-      this.tinJobs(surveys).map(({ easting, northing, layers }) =>
+      work.map((item) =>
         this.submit<{ survey: SurveyWorkDone }>(
-          { kind: "survey", work: { easting, northing, layers, count: false }, settings: workSettings },
-          EngineWorkerPool.inputTransfer({ easting, northing, layers }, options.transferInputs ?? false),
+          { kind: "survey", work: item, settings: workSettings },
+          EngineWorkerPool.inputTransfer({ easting: item.easting, northing: item.northing, layers: [item.elevation!, ...(item.refusalElevation ? [item.refusalElevation] : [])] }, options.transferInputs ?? false),
         ),
       ),
     );
@@ -336,7 +348,7 @@ export class EngineWorkerPool {
     const replies = (await pending).map((reply) => reply.survey);
     onProgress?.("triangulate + raster (threads)", 1);
     const rasters = replies.flatMap((reply) => reply.rasters).map((values) => clipToMask(values, grids.mask));
-    const [muckTop, firm, ...progress] = rasters;
+    const [muckTop, firmSand, ...progress] = rasters;
     const summaries = replies.map((reply) => reply.summary!);
     const surfaces = {
       duplicatesMerged: summaries.reduce((sum, summary) => sum + summary.duplicatesMerged, 0),
@@ -344,7 +356,7 @@ export class EngineWorkerPool {
       invalidSkipped: summaries.reduce((sum, summary) => sum + summary.invalidSkipped, 0),
     };
     onProgress?.("clip", 1);
-    return computeVolumesFromRasters(grids, { muckTop, firm, progress, surfaces }, settings, onProgress);
+    return computeVolumesFromRasters(grids, { muckTop, firm: firmSand, progress, surfaces }, settings, onProgress);
   }
 
   /** Run a full garbage collection in every idle thread (benchmarks call this between runs). */

@@ -39,11 +39,11 @@ function reply(message: EngineReply, transfer: ArrayBuffer[] = []) {
 }
 
 function surveyJob(message: SurveyWorkJob) {
-  const work: Partial<SurveyWorkJob["work"]> & Pick<SurveyWorkJob["work"], "count"> = message.work;
+  const work: Partial<SurveyWorkJob["work"]> = message.work;
   // Once the soundings are copied into the triangulation's arrays, drop the input columns (and
   // collect, when allowed) before Delaunator allocates its own, so a million-sounding job does not hold both.
   return doSurveyWork(message.work, message.settings, (vertices) => {
-    work.easting = work.northing = work.layers = undefined;
+    work.easting = work.northing = work.elevation = work.refusalElevation = undefined;
     if (vertices >= largeJobSoundings) collect?.();
   });
 }

@@ -11,7 +11,6 @@ import {
   type SurfaceSummary,
 } from "../../../shared/pipeline";
 import { endAreaCheck, principalAxisLayout, type EndAreaCheck } from "../../../shared/progress/end-area-check";
-import type { RasterValues } from "../../../shared/surface/raster";
 import { selectSurveysInForce, type DatedSurvey, type SurveysInForce } from "../../../shared/surveys-in-force";
 import type { LengthUnit } from "../../../shared/units";
 import { planSurveyWork, type ComputationSurvey, type SurveyWorkPlan } from "./engine-surveys";
@@ -76,15 +75,15 @@ export interface SampledProjectInput extends Omit<ProjectStateInput, "surveys"> 
 
 /** The sampled surfaces and counts out of step (1)'s results, in the plan's order. */
 export function gatherSurveyWork(plan: SurveyWorkPlan, done: readonly SurveyWorkDone[]): Pick<SampledProjectInput, "sampled" | "soundingsPerCell"> {
-  const raster = ({ work, layer }: { work: number; layer: number }): RasterValues => done[work].rasters[layer];
   const summaries = done.flatMap((result) => (result.summary ? [result.summary] : []));
   const surfaces: SurfaceSummary = {
     duplicatesMerged: summaries.reduce((sum, summary) => sum + summary.duplicatesMerged, 0),
     longTrianglesDropped: summaries.reduce((sum, summary) => sum + summary.longTrianglesDropped, 0),
     invalidSkipped: summaries.reduce((sum, summary) => sum + summary.invalidSkipped, 0),
   };
+  const [muckTop, firm] = done[0].rasters; // the baseline's work: its bottom, then firm sand
   return {
-    sampled: { muckTop: raster(plan.muckTop), firm: raster(plan.firm), progress: plan.progress.map((work) => done[work].rasters[0]), surfaces },
+    sampled: { muckTop, firm, progress: plan.progress.map((work) => done[work].rasters[0]), surfaces },
     soundingsPerCell: done.flatMap((result) => (result.soundingsPerCell ? [result.soundingsPerCell] : [])),
   };
 }
