@@ -3,7 +3,10 @@ import { computeSurveyVolumes } from "../../../shared/pipeline";
 import { ellipseLimit, syntheticSurveys } from "../../../tests/bench/synthetic";
 import { EngineWorkerPool, workerEntry } from "./engine-worker.server";
 import type { ComputationSurvey } from "./engine-surveys";
+import { computeProjectBands } from "./project-bands";
 import { computeProjectState, type ProjectStateInput } from "./project-state";
+
+const FLORIDA_WEST = "+proj=tmerc +lat_0=24.3333333333333 +lon_0=-82 +k=0.999941177 +x_0=200000.0001016 +y_0=0 +ellps=GRS80 +towgs84=0,0,0,0,0,0,0 +units=us-ft +no_defs";
 
 const basin = { name: "test pond", centreX: 512_000, centreY: 1_234_000, radiusX: 120, radiusY: 80, waterDepth: 6, muckThickness: 2 };
 const settings = { cellSize: 20, resolution: 1, maxEdge: 30, tolerance: 0.25, firmShare: 0.95, minCoverage: 0.8, surveyNoise: 0.25 };
@@ -81,6 +84,15 @@ describe("EngineWorkerPool", () => {
     } finally {
       await single.close();
     }
+  });
+
+  it("draws a surface's contour bands in a thread exactly as on this one", async () => {
+    const { surfaces } = computeProjectState(stateInput())!;
+    // EPSG:2237 (NAD83 / Florida West, ftUS) as proj4 gives it: the basin's coordinates are in its range.
+    const input = { raster: surfaces.result.rasters.remainingThickness, thresholds: [-Infinity, 0.25, 1, 2, Infinity], crsDefinition: FLORIDA_WEST, minArea: 100 };
+    const alone = computeProjectBands(input);
+    expect(await pool.computeProjectBands(input)).toEqual(alone);
+    expect(alone.features.length).toBeGreaterThan(1); // the synthetic basin is dredged in its west: more than one band
   });
 
   it("takes the arrays of the surveys the caller hands over and copies the others", async () => {

@@ -19,6 +19,7 @@ import {
 import type { Tin } from "../../../shared/surface/triangulate";
 import type { SurveyKind } from "../../../shared/surveys-in-force";
 import type { ComputationSurvey } from "./engine-surveys";
+import type { Bands, BandsInput } from "./project-bands";
 import type { SurveyWork, SurveyWorkDone, SurveyWorkSettings } from "./survey-work";
 import { gatherSurveyWork, planProjectWork, type ProjectState, type ProjectStateInput, type SampledProjectInput } from "./project-state";
 
@@ -61,11 +62,18 @@ export interface StateJob {
   input: SampledProjectInput;
 }
 
-export type EngineJob = TinJob | SurveyWorkJob | StateJob;
-type NewJob = Omit<TinJob, "id"> | Omit<SurveyWorkJob, "id"> | Omit<StateJob, "id">;
+/** Filled contour bands of one surface of the state, in lon/lat (shared/bands.ts). */
+export interface BandsJob {
+  kind: "bands";
+  id: number;
+  input: BandsInput;
+}
+
+export type EngineJob = TinJob | SurveyWorkJob | StateJob | BandsJob;
+type NewJob = Omit<TinJob, "id"> | Omit<SurveyWorkJob, "id"> | Omit<StateJob, "id"> | Omit<BandsJob, "id">;
 
 export type EngineReply =
-  | { id: number; done: { tins: Tin[] } | { survey: SurveyWorkDone } | { state: ProjectState } }
+  | { id: number; done: { tins: Tin[] } | { survey: SurveyWorkDone } | { state: ProjectState } | { bands: Bands } }
   | { id: number; progress: { stage: string; fraction: number } }
   | { id: number; error: string };
 
@@ -280,6 +288,11 @@ export class EngineWorkerPool {
     const transfer = [...new Set([gathered.sampled.muckTop, gathered.sampled.firm, ...gathered.sampled.progress, ...gathered.soundingsPerCell].map((array) => array.buffer as ArrayBuffer))];
     const reply = await this.submit<{ state: ProjectState }>({ kind: "state", input: stateInput }, transfer, options.onProgress);
     return reply.state;
+  }
+
+  /** Contour bands (`computeProjectBands`) in a thread; the raster is copied, the bands come back. */
+  async computeProjectBands(input: BandsInput): Promise<Bands> {
+    return (await this.submit<{ bands: Bands }>({ kind: "bands", input }, [])).bands;
   }
 
   private tinJobs(surveys: EngineSurveys): Array<Omit<TinJob, "id" | "maxEdge">> {

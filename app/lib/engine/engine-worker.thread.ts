@@ -7,12 +7,14 @@ import type { EngineJob, EngineReply, SurveyWorkJob, TinJob } from "./engine-wor
 // The state job loads its modules (the figures, the end-area check) on first use: a thread that
 // only triangulates and samples stays lean (measured: 2 bay threads 481 → 460 MB).
 const projectState = () => import("./project-state");
+const projectBands = () => import("./project-bands");
 
 /**
- * Worker-thread side of the engine pool. Three kinds of job: one survey's work (triangulated and
- * sampled onto the project's raster, and/or counted per cell: engine-surveys.ts), one survey's
- * TINs (the command line without a work limit), and a project's state from its sampled surveys
- * (project-state.ts). Result buffers are transferred, not copied.
+ * Worker-thread side of the engine pool. Four kinds of job: one survey's work (triangulated and
+ * sampled onto the project's raster, and/or counted per cell: survey-work.ts), one survey's TINs
+ * (the command line without a work limit), a project's state from its sampled surveys
+ * (project-state.ts), and the contour bands of one of its surfaces (project-bands.ts). Result
+ * buffers are transferred, not copied.
  *
  * This file is the entry of its own bundle in the production build (vite.config.ts): it imports
  * only pure modules, and only types from the pool.
@@ -72,6 +74,11 @@ parentPort?.on("message", async (message: EngineJob | { collectGarbage: true }) 
       const { computeStateFromRasters } = await projectState();
       const done = { state: computeStateFromRasters(message.input, (stage, fraction) => reply({ id, progress: { stage, fraction } })) };
       reply({ id, done }, buffersOf(done));
+      return;
+    }
+    if (message.kind === "bands") {
+      const { computeProjectBands } = await projectBands();
+      reply({ id, done: { bands: computeProjectBands(message.input) } });
       return;
     }
     const large = (message.kind === "survey" ? message.work.easting : message.easting).length >= largeJobSoundings;
