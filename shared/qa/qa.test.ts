@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { convertLength } from "../units";
 import { crossingDifferences, linesByHeading } from "./crossings";
 import { cellIndexOf, soundingDensity, sparseCells } from "./density";
-import { isInsideWorkLimit, prepareWorkLimit, soundingsOutsideWorkLimit } from "./outside";
+import { isInsidePreparedWorkLimit, prepareWorkLimit, soundingsOutsideWorkLimit } from "./outside";
 import { buildPointGrid, forEachWithin } from "./point-grid";
 import { findSpikes } from "./spikes";
 import { allowedTvuM } from "./tvu";
@@ -77,11 +77,11 @@ describe("outside the work limit", () => {
   ]);
 
   it("tells inside, hole and second polygon apart", () => {
-    expect(isInsideWorkLimit(limit, 10, 10)).toBe(true);
-    expect(isInsideWorkLimit(limit, 50, 50)).toBe(false); // on the island
-    expect(isInsideWorkLimit(limit, 205, 5)).toBe(true);
-    expect(isInsideWorkLimit(limit, 150, 5)).toBe(false);
-    expect(isInsideWorkLimit(limit, -1, 50)).toBe(false);
+    expect(isInsidePreparedWorkLimit(limit, 10, 10)).toBe(true);
+    expect(isInsidePreparedWorkLimit(limit, 50, 50)).toBe(false); // on the island
+    expect(isInsidePreparedWorkLimit(limit, 205, 5)).toBe(true);
+    expect(isInsidePreparedWorkLimit(limit, 150, 5)).toBe(false);
+    expect(isInsidePreparedWorkLimit(limit, -1, 50)).toBe(false);
   });
 
   it("agrees with the closed-form area share for random soundings", () => {
@@ -104,8 +104,8 @@ describe("outside the work limit", () => {
 
   it("accepts a single Polygon's coordinates", () => {
     const triangle = prepareWorkLimit([[[0, 0], [10, 0], [0, 10], [0, 0]]]);
-    expect(isInsideWorkLimit(triangle, 2, 2)).toBe(true);
-    expect(isInsideWorkLimit(triangle, 6, 6)).toBe(false);
+    expect(isInsidePreparedWorkLimit(triangle, 2, 2)).toBe(true);
+    expect(isInsidePreparedWorkLimit(triangle, 6, 6)).toBe(false);
   });
 });
 

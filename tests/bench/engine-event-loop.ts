@@ -4,7 +4,8 @@
  * default). (a) the recompute inside a sounding import's commit, for a 1,000,000-sounding
  * baseline (the import benchmark's basin and pattern, held in memory as the commit holds it),
  * which also gives the project's engine state; (b) the engine state as the map computes it
- * after a restart for the same survey (triangulation, rasters, depths, end-area check). Reports
+ * after a restart for the same survey (triangulation, rasters, depths, end-area check); (c) the
+ * map's remaining-thickness bands from that state (contours turned to lon/lat). Reports
  * the longest stall (perf_hooks.monitorEventLoopDelay, 10 ms resolution) and the wall time.
  * Needs a migrated database (the DB_* environment, as for the app):
  *   DB_PORT=3308 DB_NAME=firmsand_bench NODE_OPTIONS=--expose-gc npx tsx tests/bench/engine-event-loop.ts [--rows N]
@@ -15,7 +16,10 @@ import { computeState, serverEnginePool } from "../../app/lib/engine/engine-stat
 import type { ComputationSurvey } from "../../app/lib/engine/engine-surveys";
 import { closeAppEnginePool, type EngineWorkerPool } from "../../app/lib/engine/engine-worker.server";
 import { loadProjectGeometry } from "../../app/lib/engine/project-geometry.server";
+import { computeProjectBands, type BandsInput } from "../../app/lib/engine/project-bands";
 import type { ProjectStateInput } from "../../app/lib/engine/project-state";
+import { resolveCrsDefinition } from "../../app/lib/epsg.server";
+import { remainingThicknessThresholds } from "../../shared/bands";
 import { recomputeProjectStatistics } from "../../app/lib/engine/recompute.server";
 import { closeSequelize } from "../../db/connection.server";
 import { baselinePoints, createBenchProject } from "./import-fixture";
@@ -102,6 +106,14 @@ try {
   for (const [where, chosen] of places) {
     const input = mapInput(baselineSoundings(survey.id));
     line(`(b) map surfaces, ${where}`, await measure(() => asTheMapDoes(input, chosen)));
+  }
+  const state = await asTheMapDoes(mapInput(baselineSoundings(survey.id)), pool);
+  const bands: BandsInput = {
+    raster: state!.surfaces.result.rasters.remainingThickness, thresholds: remainingThicknessThresholds(geometry.lengthUnit),
+    crsDefinition: resolveCrsDefinition(geometry.crsCode).definition, minArea: geometry.settings.cellSize ** 2 / 4,
+  };
+  for (const [where, chosen] of places) {
+    line(`(c) map bands, ${where}`, await measure(async () => (chosen ? chosen.computeProjectBands(bands) : computeProjectBands(bands))));
   }
 } finally {
   await Survey.destroy({ where: { projectId: project.id } });
