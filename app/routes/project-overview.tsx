@@ -60,9 +60,9 @@ export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
       <section aria-labelledby="grid" className="rounded border border-line bg-panel p-4">
         <h2 id="grid" className="font-semibold">Grid and surfaces</h2>
         <dl className="mt-3 text-sm">
-          <Fact term="Grid origin (easting, northing)">{project.grid.originEasting.toFixed(2)}, {project.grid.originNorthing.toFixed(2)} {unit}</Fact>
+          <Fact term="Grid origin (easting, northing)">{project.grid.originX.toFixed(2)}, {project.grid.originY.toFixed(2)} {unit}</Fact>
           <Fact term="Cell size">{project.grid.cellSize} {unit}</Fact>
-          <Fact term="Grid rotation">{project.grid.rotationDeg}°</Fact>
+          <Fact term="Grid rotation">{project.grid.rotationDegrees}°</Fact>
           <Fact term="Raster resolution">{project.grid.rasterResolution} {unit}</Fact>
           <Fact term="Longest triangle edge">{project.grid.maxEdge} {unit}</Fact>
           <Fact term="Firm-sand tolerance">{project.grid.tolerance} {unit}</Fact>
