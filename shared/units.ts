@@ -27,6 +27,11 @@ export function volumeUnitFor(unit: LengthUnit): VolumeUnit {
 }
 
 /**
+ * Volumes come in two units, told apart by name: the engine integrates in the cube of the
+ * project's length unit (ft³ of the project's foot, or m³), and those names end in `CubicLength`
+ * (`removedVolumeCubicLength`); what is stored, reported and shown is in the project's volume unit
+ * (yd³ or m³), under the plain name (`removedVolume`). This function is the one step between them.
+ *
  * Converts a volume measured in cubic project units (ft³ or m³) to the project's volume unit.
  * A cubic yard is 27 cubic feet of the same foot: a yard is three feet by definition whichever
  * foot the project uses, so a US-survey-foot project divides its (survey) ft³ by 27 and gets

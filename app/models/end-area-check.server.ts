@@ -33,8 +33,8 @@ export async function loadEndAreaCrossCheck(project: ProjectView): Promise<EndAr
     const check = state.endArea;
     const volume = (cubic: number) => cubicToVolumeUnit(cubic, project.lengthUnit);
     return {
-      surfaceRemovedVolume: volume(check.surfaceVolume),
-      endAreaRemovedVolume: volume(check.endAreaVolume),
+      surfaceRemovedVolume: volume(check.surfaceVolumeCubicLength),
+      endAreaRemovedVolume: volume(check.endAreaVolumeCubicLength),
       differencePercent: check.differencePercent,
       sections: check.sections,
       sectionSpacing: check.sectionSpacing,

@@ -38,11 +38,12 @@ export interface CellStats {
   /** Area inside the work limit (length²); 0 for grid cells outside it. */
   areaInLimit: Float64Array;
   surveyedArea: Float64Array;
-  plannedVolume: Float64Array;
-  removedVolume: Float64Array;
-  depositedVolume: Float64Array;
-  remainingVolume: Float64Array;
-  /** remainingVolume ÷ surveyedArea (length); NaN where nothing is surveyed. */
+  /** Volumes in the project's cubic length unit (ft³ or m³, see shared/units): the engine's own unit. */
+  plannedVolumeCubicLength: Float64Array;
+  removedVolumeCubicLength: Float64Array;
+  depositedVolumeCubicLength: Float64Array;
+  remainingVolumeCubicLength: Float64Array;
+  /** remainingVolumeCubicLength ÷ surveyedArea (length); NaN where nothing is surveyed. */
   meanRemainingThickness: Float64Array;
   /** surveyedArea ÷ areaInLimit (0–1); NaN outside the limit. */
   coverage: Float64Array;
@@ -94,10 +95,10 @@ export function computeCellStats(
     count,
     areaInLimit: new Float64Array(count),
     surveyedArea: new Float64Array(count),
-    plannedVolume: planned,
-    removedVolume: removed,
-    depositedVolume: deposited,
-    remainingVolume: remaining,
+    plannedVolumeCubicLength: planned,
+    removedVolumeCubicLength: removed,
+    depositedVolumeCubicLength: deposited,
+    remainingVolumeCubicLength: remaining,
     meanRemainingThickness: new Float64Array(count),
     coverage: new Float64Array(count),
     firmShare: new Float64Array(count),

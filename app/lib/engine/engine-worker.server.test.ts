@@ -47,7 +47,7 @@ describe("EngineWorkerPool", () => {
       const threaded = await pool.computeSurveyVolumes(input, limit, settings);
       // invariant: moving the same arithmetic into threads changes nothing.
       expect(threaded.totals).toEqual(alone.totals);
-      expect(Array.from(threaded.cells.remainingVolume)).toEqual(Array.from(alone.cells.remainingVolume));
+      expect(Array.from(threaded.cells.remainingVolumeCubicLength)).toEqual(Array.from(alone.cells.remainingVolumeCubicLength));
       expect(threaded.surfaces).toEqual(alone.surfaces);
     }
     // The caller's arrays are copied, not taken, unless it asks for transfer.

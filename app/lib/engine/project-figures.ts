@@ -129,8 +129,8 @@ export function computeProjectFigures(input: FiguresInput, onProgress?: Progress
     const remainingVolumes = new Float32Array(cells.count);
     const removedVolumes = new Float32Array(cells.count);
     for (let cell = 0; cell < cells.count; cell++) {
-      remainingVolumes[cell] = volume(cells.remainingVolume[cell]);
-      removedVolumes[cell] = volume(cells.removedVolume[cell]);
+      remainingVolumes[cell] = volume(cells.remainingVolumeCubicLength[cell]);
+      removedVolumes[cell] = volume(cells.removedVolumeCubicLength[cell]);
       if (!(cells.areaInLimit[cell] > 0)) continue;
       addCellToTotals(totals, cellVolumes(cells, cell, volume), state.status[cell]);
     }
@@ -185,9 +185,9 @@ export function computeProjectFigures(input: FiguresInput, onProgress?: Progress
 
 function cellVolumes(cells: EngineResult["cells"], cell: number, volume: (cubic: number) => number): CellVolumes {
   return {
-    plannedVolume: volume(cells.plannedVolume[cell]),
-    removedVolume: volume(cells.removedVolume[cell]),
-    depositedVolume: volume(cells.depositedVolume[cell]),
-    remainingVolume: volume(cells.remainingVolume[cell]),
+    plannedVolume: volume(cells.plannedVolumeCubicLength[cell]),
+    removedVolume: volume(cells.removedVolumeCubicLength[cell]),
+    depositedVolume: volume(cells.depositedVolumeCubicLength[cell]),
+    remainingVolume: volume(cells.remainingVolumeCubicLength[cell]),
   };
 }

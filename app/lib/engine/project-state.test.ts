@@ -99,8 +99,8 @@ describe("computeProjectState: the latest surfaces and the end-area check", () =
   it("checks the removed volume by end areas against the surface figure", () => {
     // computed: raster nodes every 1 ft from x = 0.5; the closeout (8.05 ft) covers the 18 node
     // columns up to x = 17.5, the progress pass (8.1 ft) the other 22: 40 ft × (18 × 1.95 + 22 × 1.9) ft².
-    expect(state.endArea.surfaceVolume).toBeCloseTo(40 * (18 * 1.95 + 22 * 1.9), 6);
-    expect(state.figures!.totals.removedVolume).toBeCloseTo(state.endArea.surfaceVolume / 27, 9); // 27 ft³ a cubic yard (NIST SP 811)
+    expect(state.endArea.surfaceVolumeCubicLength).toBeCloseTo(40 * (18 * 1.95 + 22 * 1.9), 6);
+    expect(state.figures!.totals.removedVolume).toBeCloseTo(state.endArea.surfaceVolumeCubicLength / 27, 9); // 27 ft³ a cubic yard (NIST SP 811)
     // Five sections 10 ft apart, each sampled at 1 ft steps a step past the limit's edges (where the
     // edge nodes still read), so a 40 ft section reads about 41 ft wide: a few per cent over.
     expect(state.endArea.sections).toBe(5);

@@ -102,7 +102,7 @@ export function computeStateFromRasters(input: SampledProjectInput, onProgress?:
   }
   // Sections one cell apart, sampled at the raster spacing: as fine as the surfaces themselves.
   const layout = principalAxisLayout(input.workLimit, input.settings.cellSize, input.settings.resolution);
-  const endArea = endAreaCheck(latest.rasters.muckTop, latest.rasters.latestBottom, latest.totals.removedVolume, layout);
+  const endArea = endAreaCheck(latest.rasters.muckTop, latest.rasters.latestBottom, latest.totals.removedVolumeCubicLength, layout);
   return { figures, surfaces: latestSurfaces(latest, input.waterSurfaceElevation, input.soundingsPerCell), endArea };
 }
 
