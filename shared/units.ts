@@ -69,66 +69,19 @@ export function convertLength(value: number, from: LengthUnit, to: LengthUnit): 
   return (value * METRES_PER_UNIT[from]) / METRES_PER_UNIT[to];
 }
 
-export function convertArea(value: number, from: LengthUnit, to: LengthUnit): number {
-  if (from === to) return value;
-  const ratio = METRES_PER_UNIT[from] / METRES_PER_UNIT[to];
-  return value * ratio * ratio;
-}
-
 /** Square metres in one square unit. */
-export function squareMetresPerSquareUnit(unit: LengthUnit): number {
+function squareMetresPerSquareUnit(unit: LengthUnit): number {
   return METRES_PER_UNIT[unit] * METRES_PER_UNIT[unit];
 }
 
-/** Cubic metres in one cubic yard: 0.9144³ exactly (NIST SP 811). */
-export const CUBIC_METRES_PER_CUBIC_YARD = 0.9144 ** 3;
-/** Litres in one US liquid gallon: 231 in³ = 3.785411784 L exactly (NIST SP 811). */
-export const LITRES_PER_US_GALLON = 3.785411784;
 /** Square feet in an acre (international foot; NIST). */
-export const SQUARE_FEET_PER_ACRE = 43_560;
+const SQUARE_FEET_PER_ACRE = 43_560;
 /** Square metres in an acre: 43,560 × 0.3048² = 4,046.8564224 (NIST). */
 export const SQUARE_METRES_PER_ACRE = SQUARE_FEET_PER_ACRE * 0.3048 * 0.3048;
-
-export function squareFeetToSquareMetres(areaFt2: number): number {
-  return areaFt2 * 0.3048 * 0.3048;
-}
-
-export function squareMetresToSquareFeet(areaM2: number): number {
-  return areaM2 / (0.3048 * 0.3048);
-}
-
-export function cubicYardsToCubicMetres(volumeYd3: number): number {
-  return volumeYd3 * CUBIC_METRES_PER_CUBIC_YARD;
-}
-
-export function cubicMetresToCubicYards(volumeM3: number): number {
-  return volumeM3 / CUBIC_METRES_PER_CUBIC_YARD;
-}
-
-export function usGallonsToLitres(volumeGal: number): number {
-  return volumeGal * LITRES_PER_US_GALLON;
-}
-
-export function litresToUsGallons(volumeL: number): number {
-  return volumeL / LITRES_PER_US_GALLON;
-}
-
-/** Acres from an area in square project units. */
-export function acresFromArea(area: number, unit: LengthUnit): number {
-  return (area * squareMetresPerSquareUnit(unit)) / SQUARE_METRES_PER_ACRE;
-}
 
 /** Area in square project units from acres. */
 export function areaFromAcres(acres: number, unit: LengthUnit): number {
   return (acres * SQUARE_METRES_PER_ACRE) / squareMetresPerSquareUnit(unit);
-}
-
-/** Converts a volume in the project's volume unit (yd³ or m³) to cubic metres. */
-export function volumeToCubicMetres(volume: number, unit: LengthUnit): number {
-  if (unit === "m") return volume;
-  // A yard of the project's foot: 3 ft.
-  const metresPerYard = 3 * METRES_PER_UNIT[unit];
-  return volume * metresPerYard ** 3;
 }
 
 const LENGTH_LABELS: Record<LengthUnit, { short: string; long: string }> = {

@@ -3,10 +3,8 @@ import { ROLE_LABELS } from "~/lib/roles";
 import { ProgressOverview } from "~/components/progress-overview";
 import { loadProgress } from "~/models/progress.server";
 import { listZones } from "~/models/project.server";
+import { unitLabel } from "../../shared/units";
 import type { Route } from "./+types/project-overview";
-
-const UNIT_LABELS = { "us-ft": "US survey feet", ft: "international feet", m: "metres" } as const;
-const UNIT_SYMBOLS = { "us-ft": "ft", ft: "ft", m: "m" } as const;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, role, user } = await requireRole(request, params.projectId);
@@ -21,8 +19,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   ];
   return {
     project,
-    unitLabel: UNIT_LABELS[project.lengthUnit],
-    unit: UNIT_SYMBOLS[project.lengthUnit],
+    unitLabel: unitLabel(project.lengthUnit, "length-long"),
+    unit: unitLabel(project.lengthUnit),
     roleLabel: role ? ROLE_LABELS[role] : "Site administrator (not a member)",
     zones,
     progress,

@@ -12,6 +12,7 @@ import { findImportJob, jobChoices, jobOptions, jobPreview, presentJobProgress }
 import { ImportJobClosed, previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
 import { discardStagedFile } from "~/lib/import/stage-upload.server";
 import { soundingFields } from "../../shared/soundings/parse-csv";
+import { unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.surveys.imports.$jobId";
 
 const FIELD_LABELS: Record<(typeof soundingFields)[number], string> = {
@@ -24,7 +25,6 @@ const FIELD_LABELS: Record<(typeof soundingFields)[number], string> = {
   id: "Point id",
 };
 
-const UNIT_WORDS = { "us-ft": "US survey feet", ft: "feet", m: "metres" } as const;
 
 async function loadJob(request: Request, params: Route.LoaderArgs["params"]) {
   const { project, user, role } = await requireRole(request, params.projectId, "surveyor", "manager");
@@ -241,7 +241,7 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
             <p className="mt-1">{preview.depthUnit.message}</p>
             <label className="mt-2 flex items-center gap-2">
               <input type="checkbox" name="acceptDepthUnit" value="1" defaultChecked={choices.acceptDepthUnit} />
-              The {options.fileHasElevations ? "elevations" : "depths"} are right as given; import them as {UNIT_WORDS[options.lengthUnit]}.
+              The {options.fileHasElevations ? "elevations" : "depths"} are right as given; import them as {unitLabel(options.lengthUnit, "length-long")}.
             </label>
           </div>
         ) : null}

@@ -5,7 +5,7 @@ import { createCrs } from "../../../shared/crs";
 import { workLimitBounds } from "../../../shared/grid/work-limit";
 import { prepareWorkLimit, soundingsOutsideWorkLimit } from "../../../shared/qa/outside";
 import { createSoundingCsvParser, type ParsedSoundings, type SoundingField } from "../../../shared/soundings/parse-csv";
-import { convertLength, type LengthUnit } from "../../../shared/units";
+import { convertLength, unitLabel, type LengthUnit } from "../../../shared/units";
 import { ColumnMapping, Survey } from "../db.server";
 import { resolveCrsDefinition } from "../epsg.server";
 import { guessColumns, type ColumnMappingChoice } from "./column-guess";
@@ -149,7 +149,6 @@ function scaled(values: Float64Array, factor: number): Float64Array {
   return out;
 }
 
-const UNIT_WORDS: Record<LengthUnit, string> = { "us-ft": "US survey feet", ft: "feet", m: "metres" };
 
 export async function analyseStagedFile(input: AnalyseInput): Promise<Analysis> {
   const { options, choices, geometry } = input;
@@ -204,7 +203,7 @@ export async function analyseStagedFile(input: AnalyseInput): Promise<Analysis> 
       declaredCrs: options.crs,
       declaredIsGeographic,
       workLimit: limitBounds,
-      projectUnitWord: UNIT_WORDS[geometry.lengthUnit],
+      projectUnitWord: unitLabel(geometry.lengthUnit, "length-long"),
     });
     if (mistake) fileProblems.push(mistake.message);
   }
@@ -281,7 +280,7 @@ export async function analyseStagedFile(input: AnalyseInput): Promise<Analysis> 
   if (outsideIndices.length > 0) warnings.push(`${outsideIndices.length} sounding${outsideIndices.length === 1 ? " lies" : "s lie"} outside the work limit${choices.outside ? ` and will be ${choices.outside === "keep" ? "kept" : "dropped"}` : ""}.`);
   if (sameFile.length > 0) warnings.push(`The same file (identical content) was imported before as survey ${sameFile.map((survey) => `#${survey.id} (${survey.kind}, ${survey.surveyedOn}, ${survey.status})`).join(", ")}.`);
   if (depthUnit) warnings.push(depthUnit.message);
-  if (lengthFactor !== 1) warnings.push(`Depths are converted from ${UNIT_WORDS[options.lengthUnit]} to the project's ${UNIT_WORDS[geometry.lengthUnit]}.`);
+  if (lengthFactor !== 1) warnings.push(`Depths are converted from ${unitLabel(options.lengthUnit, "length-long")} to the project's ${unitLabel(geometry.lengthUnit, "length-long")}.`);
 
   // When every sounding is kept (the usual case) the columns are used as they are: a copy of a
   // 1,000,000-row file's seven columns would hold another 50 MB through the commit.

@@ -1,4 +1,4 @@
-import { convertLength, type LengthUnit } from "../../../shared/units";
+import { convertLength, unitLabel, type LengthUnit } from "../../../shared/units";
 
 /**
  * Finds the usual depth-unit mistakes before anything is stored, by comparing the file with what
@@ -59,7 +59,6 @@ interface Candidate {
   fix: string;
 }
 
-const UNIT_WORDS: Record<LengthUnit, string> = { "us-ft": "US survey feet", ft: "feet", m: "metres" };
 
 /** The mistakes a file declared in `declared` can plausibly carry. */
 function candidatesFor(declared: LengthUnit): Candidate[] {
@@ -158,7 +157,7 @@ export function findDepthUnitMistake(input: DepthUnitCheckInput): DepthUnitMista
   const relation =
     candidate.kind === "metres-as-feet" || candidate.kind === "feet-as-metres" ? " A metre is 3.2808 feet (1 ft = 0.3048 m exactly)." : "";
   const message =
-    `The ${what} look like ${candidate.looksLike}, not ${UNIT_WORDS[input.declaredUnit]} as declared: over the ${ratios.length} cells surveyed before, they are ${times} ${compared}, ` +
+    `The ${what} look like ${candidate.looksLike}, not ${unitLabel(input.declaredUnit, "length-long")} as declared: over the ${ratios.length} cells surveyed before, they are ${times} ${compared}, ` +
     `and ${candidate.factor < 1 ? `multiplied by ${formatFactor(1 / candidate.factor)}` : `divided by ${formatFactor(candidate.factor)}`} they agree with the earlier surveys in ${Math.round(best.share * 100)} % of those cells, as far as a dredge pass can change them (as given, in ${Math.round(asGiven * 100)} %).${relation} ` +
     `${candidate.fix} and check again, or confirm that the ${what} are right as given.`;
   return { kind: candidate.kind, factor: candidate.factor, typicalRatio, cellsCompared: ratios.length, agreeingAsGiven: asGiven, agreeingCorrected: best.share, message };
