@@ -1,5 +1,6 @@
 import type { CellStatus } from "../../shared/cell-status";
-import { CellResult, Sounding, Survey, SurveySnapshot, User, type SnapshotTotals, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
+import type { FigureTotals } from "../../shared/volumes/figure-totals";
+import { CellResult, Sounding, Survey, SurveySnapshot, User, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
 import type { ProjectView } from "./project.server";
 
 /** Surveys of a project as the pages and the API show them; every query is scoped by the project. */
@@ -126,15 +127,15 @@ export async function sampleSoundingPositions(project: ProjectView, surveyId: nu
 }
 
 export interface ProjectStatistics {
-  totals: SnapshotTotals | null;
+  totals: FigureTotals | null;
   asOf: string | null;
   statusCounts: Partial<Record<CellStatus, number>>;
-  history: Array<{ surveyedOn: string; totals: SnapshotTotals }>;
+  history: Array<{ surveyedOn: string; totals: FigureTotals }>;
 }
 
 export async function getProjectStatistics(project: ProjectView): Promise<ProjectStatistics> {
   const snapshots = await SurveySnapshot.findAll({ where: { projectId: project.id }, attributes: ["surveyedOn", "totals"], order: [["surveyedOn", "ASC"]] });
-  const history = snapshots.map((snapshot) => ({ surveyedOn: snapshot.surveyedOn, totals: parseJson(snapshot.totals) as unknown as SnapshotTotals }));
+  const history = snapshots.map((snapshot) => ({ surveyedOn: snapshot.surveyedOn, totals: parseJson(snapshot.totals) as unknown as FigureTotals }));
   const cells = await CellResult.findAll({ where: { projectId: project.id }, attributes: ["status"], raw: true });
   const statusCounts: Partial<Record<CellStatus, number>> = {};
   for (const cell of cells) statusCounts[cell.status] = (statusCounts[cell.status] ?? 0) + 1;

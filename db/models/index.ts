@@ -28,7 +28,6 @@ export { LENGTH_UNITS, type LengthUnit } from "./project";
 export { ApiToken, CellResult, ColumnMapping, ImportJob, Sounding, Survey, SurveySnapshot };
 export { SURVEY_KINDS, SURVEY_STATUSES, type SurveyKind, type SurveyStatus } from "./survey";
 export { IMPORT_JOB_STATES, type ImportJobState } from "./import-job";
-export type { SnapshotTotals } from "./survey-snapshot";
 export { ShareLink };
 export { Assignment, DiveTeam, Shoreline };
 export { Dive, DiveCell };

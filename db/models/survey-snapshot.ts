@@ -3,11 +3,9 @@ import type { Project } from "./project";
 import type { Survey } from "./survey";
 import type { FigureTotals } from "../../shared/volumes/figure-totals";
 
-/** Project and zone totals in the project's volume unit after one survey date. */
-export type SnapshotTotals = FigureTotals;
-
 /**
- * The state of the project after every survey of one date (all active surveys up to that date).
+ * The state of the project after every survey of one date (all active surveys up to that date):
+ * project and zone totals in the project's volume unit.
  * Per-cell figures are kept compact: little-endian Float32Array bytes of remaining and removed
  * volume and Uint8Array status codes, laid out row-major over the cell grid
  * (index = (row − firstRow) · cellCols + (col − firstCol)).
@@ -17,8 +15,8 @@ export class SurveySnapshot extends Model<InferAttributes<SurveySnapshot>, Infer
   declare projectId: ForeignKey<Project["id"]>;
   declare surveyedOn: string;
   declare lastSurveyId: ForeignKey<Survey["id"]>;
-  declare totals: SnapshotTotals;
-  declare zones: Array<{ zoneId: number; name: string; totals: SnapshotTotals }>;
+  declare totals: FigureTotals;
+  declare zones: Array<{ zoneId: number; name: string; totals: FigureTotals }>;
   declare cellCols: number;
   declare cellRows: number;
   declare firstCol: number;
