@@ -1,5 +1,6 @@
 import type { Transaction } from "sequelize";
 import type { ProgressCallback } from "../../../shared/pipeline";
+import { selectSurveysInForce } from "../../../shared/surveys-in-force";
 import { BoundedCache } from "../bounded-cache";
 import { CellResult, Survey, getSequelize } from "../db.server";
 import { appEnginePool, type EngineWorkerPool } from "./engine-worker.server";
@@ -55,7 +56,7 @@ export async function loadStateInput(
     attributes: ["id", "kind", "surveyedOn", "waterSurfaceElevation"],
     transaction,
   });
-  if (!active.some((survey) => survey.kind === "baseline")) return { reason: "There is no active baseline survey yet, so there are no cell statistics." };
+  if (selectSurveysInForce(active) === null) return { reason: "There is no active baseline survey yet, so there are no cell statistics." };
   if (!geometry.workLimit) return { reason: "The project has no work limit yet, so there are no cell statistics." };
   const stored = active.filter((survey) => survey.id !== extra?.id).map((survey) => survey.id);
   // One transaction for every survey's read, so they come from one consistent state of the database.
