@@ -202,11 +202,15 @@ export interface SurfaceSummary {
 
 export function summariseSurfaces(tins: ReadonlyArray<Tin>): SurfaceSummary {
   // Layers sharing one triangulation are counted once.
-  const unique = tins.filter((tin, index) => tins.findIndex((other) => other.triangles === tin.triangles) === index);
+  return addSurfaceSummaries(tins.filter((tin, index) => tins.findIndex((other) => other.triangles === tin.triangles) === index));
+}
+
+/** The summaries of separate triangulations (each survey's, done in different threads) added up. */
+export function addSurfaceSummaries(summaries: ReadonlyArray<SurfaceSummary>): SurfaceSummary {
   return {
-    duplicatesMerged: unique.reduce((sum, tin) => sum + tin.duplicatesMerged, 0),
-    longTrianglesDropped: unique.reduce((sum, tin) => sum + tin.longTrianglesDropped, 0),
-    invalidSkipped: unique.reduce((sum, tin) => sum + tin.invalidSkipped, 0),
+    duplicatesMerged: summaries.reduce((sum, summary) => sum + summary.duplicatesMerged, 0),
+    longTrianglesDropped: summaries.reduce((sum, summary) => sum + summary.longTrianglesDropped, 0),
+    invalidSkipped: summaries.reduce((sum, summary) => sum + summary.invalidSkipped, 0),
   };
 }
 

@@ -4,6 +4,7 @@ import { fileURLToPath, pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
 import type { ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
 import {
+  addSurfaceSummaries,
   computeVolumesFromRasters,
   computeVolumesFromSurfaces,
   firmSharesBaselinePositions,
@@ -47,7 +48,7 @@ export interface TinJob {
   maxEdge: number;
 }
 
-/** One survey's work: triangulated and sampled, and/or counted per cell (engine-surveys.ts). */
+/** One survey's work: triangulated and sampled, and/or counted per cell (survey-work.ts). */
 export interface SurveyWorkJob {
   kind: "survey";
   id: number;
@@ -362,12 +363,7 @@ export class EngineWorkerPool {
     onProgress?.("triangulate + raster (threads)", 1);
     const rasters = replies.flatMap((reply) => reply.rasters).map((values) => clipToMask(values, grids.mask));
     const [muckTop, firmSand, ...progress] = rasters;
-    const summaries = replies.map((reply) => reply.summary!);
-    const surfaces = {
-      duplicatesMerged: summaries.reduce((sum, summary) => sum + summary.duplicatesMerged, 0),
-      longTrianglesDropped: summaries.reduce((sum, summary) => sum + summary.longTrianglesDropped, 0),
-      invalidSkipped: summaries.reduce((sum, summary) => sum + summary.invalidSkipped, 0),
-    };
+    const surfaces = addSurfaceSummaries(replies.map((reply) => reply.summary!));
     onProgress?.("clip", 1);
     return computeVolumesFromRasters(grids, { muckTop, firm: firmSand, progress, surfaces }, settings, onProgress);
   }

@@ -1,5 +1,6 @@
 import type { ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
 import {
+  addSurfaceSummaries,
   clipToMask,
   computeVolumesFromRasters,
   layGridLines,
@@ -8,7 +9,6 @@ import {
   type GridLines,
   type ProgressCallback,
   type SampledSurveys,
-  type SurfaceSummary,
 } from "../../../shared/pipeline";
 import { endAreaCheck, principalAxisLayout, type EndAreaCheck } from "../../../shared/progress/end-area-check";
 import { selectSurveysInForce, type DatedSurvey, type SurveysInForce } from "../../../shared/surveys-in-force";
@@ -75,12 +75,7 @@ export interface SampledProjectInput extends Omit<ProjectStateInput, "surveys"> 
 
 /** The sampled surfaces and counts out of step (1)'s results, in the plan's order. */
 export function gatherSurveyWork(plan: SurveyWorkPlan, done: readonly SurveyWorkDone[]): Pick<SampledProjectInput, "sampled" | "soundingsPerCell"> {
-  const summaries = done.flatMap((result) => (result.summary ? [result.summary] : []));
-  const surfaces: SurfaceSummary = {
-    duplicatesMerged: summaries.reduce((sum, summary) => sum + summary.duplicatesMerged, 0),
-    longTrianglesDropped: summaries.reduce((sum, summary) => sum + summary.longTrianglesDropped, 0),
-    invalidSkipped: summaries.reduce((sum, summary) => sum + summary.invalidSkipped, 0),
-  };
+  const surfaces = addSurfaceSummaries(done.flatMap((result) => (result.summary ? [result.summary] : [])));
   const [muckTop, firm] = done[0].rasters; // the baseline's work: its bottom, then firm sand
   return {
     sampled: { muckTop, firm, progress: plan.progress.map((work) => done[work].rasters[0]), surfaces },
