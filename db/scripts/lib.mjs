@@ -172,7 +172,7 @@ const lines = {
   cellGrid: { originX: 0, originY: 0, cellSize: 5, rotationDegrees: 0, firstCol: 0, firstRow: 0, cols: 2, rows: 2 },
   rasterGrid: { originX: 0, originY: 0, spacing: 1, cols: 10, rows: 10 },
 };
-const work = { easting: Float64Array.from(easting), northing: Float64Array.from(northing), layers: [new Float64Array(count).fill(10), new Float64Array(count).fill(8)], count: true };
+const work = { easting: Float64Array.from(easting), northing: Float64Array.from(northing), elevation: new Float64Array(count).fill(10), refusalElevation: new Float64Array(count).fill(8), count: true };
 worker.on("message", (message) => {
   if (message.ready) return worker.postMessage({ kind: "survey", id: 1, work, settings: { maxEdge: 5, rasterGrid: lines.rasterGrid, precision: "float64", cellGrid: lines.cellGrid } });
   if (message.progress) return;

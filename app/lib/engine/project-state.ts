@@ -22,7 +22,7 @@ import { computeProjectFigures, type ComputationZone, type ProjectFigures } from
  * A project's engine state, computed once per version of its surveys and read by everything that
  * needs the engine: the stored figures (a recompute), the map's surfaces and bands, the cell
  * inspector's depths and counts, and the end-area check. In two steps, so the surveys can be
- * triangulated in parallel threads: (1) each survey's work (engine-surveys.ts), (2) the state from
+ * triangulated in parallel threads: (1) each survey's work (survey-work.ts), (2) the state from
  * the sampled rasters, on grids laid once. Pure: typed arrays in, typed arrays out.
  */
 export interface ProjectStateInput {
