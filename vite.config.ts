@@ -7,11 +7,11 @@ import { defineConfig, type Plugin } from "vite";
 const underVitest = Boolean(process.env.VITEST);
 
 /** The engine pool's worker entry and the name the pool looks for beside the server bundle (BUILT_WORKER_FILE). */
-const ENGINE_WORKER_SOURCE = "app/lib/engine-worker.thread.ts";
+const ENGINE_WORKER_SOURCE = "app/lib/engine/engine-worker.thread.ts";
 const ENGINE_WORKER_FILE = "engine-worker.thread.mjs";
 
 /**
- * The server build's second output: the engine worker thread (app/lib/engine-worker.server.ts) as
+ * The server build's second output: the engine worker thread (app/lib/engine/engine-worker.server.ts) as
  * one self-contained ES module written beside every server chunk that starts it, so
  * `new URL("./engine-worker.thread.mjs", import.meta.url)` finds it. A worker's entry must be a
  * file of its own, and Rollup would split the code it shares with the server bundle into chunks;

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { MAP_STATUSES, STATUS_COLOURS, coolRamp, hexToRgb, sedimentRamp } from "./palette";
+import { CELL_STATUSES } from "./cell-status";
+import { STATUS_COLOURS, coolRamp, hexToRgb, sedimentRamp } from "./palette";
 
 // Colour-vision deficiency simulation: the full-severity (1.0) matrices of Machado, Oliveira &
 // Fernandes (2009), "A physiologically-based model for simulation of color vision deficiency",
@@ -44,9 +45,9 @@ const MIN_DELTA_E = 20;
 describe("status palette under colour-vision deficiency simulation (Machado 2009)", () => {
   for (const [name, matrix] of Object.entries(SIMULATIONS)) {
     it(`keeps every pair of status colours at least ΔE76 ${MIN_DELTA_E} apart: ${name}`, () => {
-      for (let first = 0; first < MAP_STATUSES.length; first++) {
-        for (let second = first + 1; second < MAP_STATUSES.length; second++) {
-          const a = MAP_STATUSES[first], b = MAP_STATUSES[second];
+      for (let first = 0; first < CELL_STATUSES.length; first++) {
+        for (let second = first + 1; second < CELL_STATUSES.length; second++) {
+          const a = CELL_STATUSES[first], b = CELL_STATUSES[second];
           const distance = deltaE76(simulatedLab(STATUS_COLOURS[a], matrix), simulatedLab(STATUS_COLOURS[b], matrix));
           expect(distance, `${a} vs ${b} (${name})`).toBeGreaterThanOrEqual(MIN_DELTA_E);
         }

@@ -4,10 +4,9 @@
  * tell the five states apart (checked by simulation in palette.test.ts). The order runs from
  * "nothing known" to "proven done": pale grey, dark umber, amber, light blue, deep navy.
  */
-export const MAP_STATUSES = ["no-data", "untouched", "in-work", "at-firm-sand", "confirmed"] as const;
-export type MapStatus = (typeof MAP_STATUSES)[number];
+import type { CellStatus } from "./cell-status";
 
-export const STATUS_COLOURS: Record<MapStatus, string> = {
+export const STATUS_COLOURS: Record<CellStatus, string> = {
   "no-data": "#e3e1dc",
   untouched: "#6e4420",
   "in-work": "#f2a93b",
@@ -15,7 +14,7 @@ export const STATUS_COLOURS: Record<MapStatus, string> = {
   confirmed: "#173a6b",
 };
 
-export const STATUS_LABELS: Record<MapStatus, string> = {
+export const STATUS_LABELS: Record<CellStatus, string> = {
   "no-data": "No data",
   untouched: "Untouched",
   "in-work": "In work",
@@ -23,12 +22,8 @@ export const STATUS_LABELS: Record<MapStatus, string> = {
   confirmed: "Confirmed (closeout)",
 };
 
-/** Code in the /api cells arrays (index into MAP_STATUSES); −1 marks a grid cell outside the work limit. */
+/** Code in the /api cells arrays (index into CELL_STATUSES); −1 marks a grid cell outside the work limit. */
 export const OUTSIDE_WORK_LIMIT = -1;
-
-export function statusCode(status: MapStatus): number {
-  return MAP_STATUSES.indexOf(status);
-}
 
 /**
  * A sequential ramp for bands (remaining thickness, removed volume, depth): light to dark in one

@@ -31,10 +31,10 @@ describe("computeSurveyVolumes", () => {
     const stages: Array<[string, number]> = [];
     const result = computeSurveyVolumes({ baseline, progress: [progress], firm }, square, settings, (stage, fraction) => stages.push([stage, fraction]));
     // computed: removed = 3 × (40 × 100) = 12,000 (the strip x ≤ 40 is covered by the progress TIN)
-    expect(result.totals.removedVolume).toBeCloseTo(12_000, 6);
+    expect(result.totals.removedVolumeCubicLength).toBeCloseTo(12_000, 6);
     // computed: remaining = 1 × 4,000 + 4 × 6,000 = 28,000
-    expect(result.totals.remainingVolume).toBeCloseTo(28_000, 6);
-    expect(result.totals.plannedVolume).toBeCloseTo(40_000, 6); // computed: 4 × 10,000
+    expect(result.totals.remainingVolumeCubicLength).toBeCloseTo(28_000, 6);
+    expect(result.totals.plannedVolumeCubicLength).toBeCloseTo(40_000, 6); // computed: 4 × 10,000
     const westNode = 10 * result.rasterGrid.cols + 10;
     const eastNode = 10 * result.rasterGrid.cols + 150;
     expect([result.latestSource[westNode], result.latestSource[eastNode]]).toEqual([0, 1]); // newest survey, then the baseline
@@ -51,7 +51,7 @@ describe("computeSurveyVolumes", () => {
     for (let cell = 0; cell < result.cells.count; cell++) if (result.cells.coverage[cell] < 0.8) statuses.add(result.cells.status[cell]);
     expect([...statuses]).toEqual([0]); // code 0 is "no-data"
     // computed: the data covers x ≤ 30 and x ≥ 90 (30 + 10 wide) × 100, 4 units thick
-    expect(result.totals.plannedVolume).toBeCloseTo(4 * 40 * 100, 6);
+    expect(result.totals.plannedVolumeCubicLength).toBeCloseTo(4 * 40 * 100, 6);
   });
 
   it("total volume does not depend on the grid's rotation or origin", () => {
@@ -59,9 +59,9 @@ describe("computeSurveyVolumes", () => {
     const straight = computeSurveyVolumes({ baseline: sloping, progress: [], firm }, square, settings);
     const rotated = computeSurveyVolumes({ baseline: sloping, progress: [], firm }, square, { ...settings, rotationDegrees: 27, originX: 3, originY: -4 });
     // invariant: cells only partition the same raster nodes; the sum over all cells is the same integral.
-    expect(Math.abs(rotated.totals.plannedVolume - straight.totals.plannedVolume) / straight.totals.plannedVolume).toBeLessThan(1e-9);
+    expect(Math.abs(rotated.totals.plannedVolumeCubicLength - straight.totals.plannedVolumeCubicLength) / straight.totals.plannedVolumeCubicLength).toBeLessThan(1e-9);
     // computed: mean thickness 4 + 0.01 · 50 − 0.02 · 50 = 3.5 over 10,000
-    expect(straight.totals.plannedVolume).toBeCloseTo(35_000, 6);
+    expect(straight.totals.plannedVolumeCubicLength).toBeCloseTo(35_000, 6);
   });
 
   it("rejects settings that cannot be right", () => {

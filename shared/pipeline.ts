@@ -3,7 +3,7 @@ import { createCellGrid, type CellGrid } from "./grid/cell-grid";
 import { workLimitBounds, type ProjectedMultiPolygon } from "./grid/work-limit";
 import { cellAreasInWorkLimit, nodeCells, workLimitMask } from "./grid/work-limit-mask";
 import { createRasterValues, rasterizeTinInto, type Raster, type RasterGrid, type RasterPrecision, type RasterValues } from "./surface/raster";
-import { hullRing, triangulate, triangulateLayers, type Tin } from "./surface/triangulate";
+import { finiteAlike, hullRing, triangulate, triangulateLayers, type Tin } from "./surface/triangulate";
 import { computeCellStats, type CellStats, type CellStatusRules } from "./volumes/cell-stats";
 import { stackLatestBottom } from "./volumes/latest-bottom";
 import { rollUpCells, type VolumeTotals } from "./volumes/rollup";
@@ -116,15 +116,7 @@ export function triangulateSurveys(surveys: EngineSurveys, maxEdge: number, onPr
  */
 export function firmSharesBaselinePositions(surveys: EngineSurveys): boolean {
   const { baseline, firm } = surveys;
-  return firm.easting === baseline.easting && firm.northing === baseline.northing && everyFiniteWhere(baseline.elevation, firm.elevation);
-}
-
-function everyFiniteWhere(reference: Float64Array, other: Float64Array): boolean {
-  if (reference.length !== other.length) return false;
-  for (let index = 0; index < reference.length; index++) {
-    if (Number.isFinite(reference[index]) !== Number.isFinite(other[index])) return false;
-  }
-  return true;
+  return firm.easting === baseline.easting && firm.northing === baseline.northing && finiteAlike(baseline.elevation, firm.elevation);
 }
 
 /** The raster grid over the limit, aligned with the cell grid when it is not rotated so pixels do not straddle cell lines. */
@@ -152,7 +144,7 @@ export function sample(tin: Tin, grid: RasterGrid, mask: Uint8Array, precision: 
   return values;
 }
 
-/** The grids every surface shares: laid once per computation. */
+/** The grids every surface shares. */
 export interface EngineGrids {
   workLimit: ProjectedMultiPolygon;
   cellGrid: CellGrid;
@@ -162,7 +154,13 @@ export interface EngineGrids {
   cellAreaInLimit: Float64Array;
 }
 
-export function prepareGrids(workLimit: ProjectedMultiPolygon, settings: EngineSettings, onProgress?: ProgressCallback): EngineGrids {
+/** The cell grid and the raster grid over the limit: a few arithmetic steps, so a caller can lay them before it hands work to threads. */
+export interface GridLines {
+  cellGrid: CellGrid;
+  rasterGrid: RasterGrid;
+}
+
+export function layGridLines(workLimit: ProjectedMultiPolygon, settings: EngineSettings): GridLines {
   engineSettingsSchema.parse(settings);
   const nodesAcross = workLimitBounds(workLimit);
   const rasterNodes = ((nodesAcross.maxX - nodesAcross.minX) / settings.resolution) * ((nodesAcross.maxY - nodesAcross.minY) / settings.resolution);
@@ -177,12 +175,23 @@ export function prepareGrids(workLimit: ProjectedMultiPolygon, settings: EngineS
     originY: settings.originY,
     rotationDegrees: settings.rotationDegrees,
   });
-  const rasterGrid = rasterGridFor(workLimit, cellGrid, settings.resolution);
+  return { cellGrid, rasterGrid: rasterGridFor(workLimit, cellGrid, settings.resolution) };
+}
+
+/** The grids every surface shares, laid once per computation: `lines` when the caller has laid them already. */
+export function prepareGrids(workLimit: ProjectedMultiPolygon, settings: EngineSettings, onProgress?: ProgressCallback, lines: GridLines = layGridLines(workLimit, settings)): EngineGrids {
+  const { cellGrid, rasterGrid } = lines;
   const mask = workLimitMask(workLimit, rasterGrid);
   const nodeCell = nodeCells(cellGrid, rasterGrid, mask);
   const cellAreaInLimit = cellAreasInWorkLimit(cellGrid, rasterGrid, nodeCell);
   onProgress?.("work limit", 1);
   return { workLimit, cellGrid, rasterGrid, mask, nodeCell, cellAreaInLimit };
+}
+
+/** A raster sampled without the mask, clipped to the work limit afterwards (in place): the same values as sampling with it. */
+export function clipToMask(values: RasterValues, mask: Uint8Array): RasterValues {
+  for (let node = 0; node < mask.length; node++) if (mask[node] === 0) values[node] = Number.NaN;
+  return values;
 }
 
 export interface SurfaceSummary {
@@ -193,11 +202,15 @@ export interface SurfaceSummary {
 
 export function summariseSurfaces(tins: ReadonlyArray<Tin>): SurfaceSummary {
   // Layers sharing one triangulation are counted once.
-  const unique = tins.filter((tin, index) => tins.findIndex((other) => other.triangles === tin.triangles) === index);
+  return addSurfaceSummaries(tins.filter((tin, index) => tins.findIndex((other) => other.triangles === tin.triangles) === index));
+}
+
+/** The summaries of separate triangulations (each survey's, done in different threads) added up. */
+export function addSurfaceSummaries(summaries: ReadonlyArray<SurfaceSummary>): SurfaceSummary {
   return {
-    duplicatesMerged: unique.reduce((sum, tin) => sum + tin.duplicatesMerged, 0),
-    longTrianglesDropped: unique.reduce((sum, tin) => sum + tin.longTrianglesDropped, 0),
-    invalidSkipped: unique.reduce((sum, tin) => sum + tin.invalidSkipped, 0),
+    duplicatesMerged: summaries.reduce((sum, summary) => sum + summary.duplicatesMerged, 0),
+    longTrianglesDropped: summaries.reduce((sum, summary) => sum + summary.longTrianglesDropped, 0),
+    invalidSkipped: summaries.reduce((sum, summary) => sum + summary.invalidSkipped, 0),
   };
 }
 

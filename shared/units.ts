@@ -14,10 +14,17 @@ export const lengthUnitSchema = z.enum(["us-ft", "ft", "m"]);
 
 export type VolumeUnit = "yd3" | "m3";
 
+/** One international foot in metres, exact: NIST SP 811 (2008) appendix B; the 1959 international yard and pound agreement. */
+export const METRES_PER_FOOT = 0.3048;
+/** One US survey foot in metres, exact: 1200/3937 m (NIST, 85 FR 62698 (2020), which retired it for new work after 2022). */
+export const METRES_PER_US_SURVEY_FOOT = 1200 / 3937;
+/** International feet in a metre, 3.280 839 9… */
+export const FEET_PER_METRE = 1 / METRES_PER_FOOT;
+
 /** Metres in one unit, exactly as NIST defines them (NIST SP 811; 85 FR 62698). */
 export const METRES_PER_UNIT: Record<LengthUnit, number> = {
-  "us-ft": 1200 / 3937,
-  ft: 0.3048,
+  "us-ft": METRES_PER_US_SURVEY_FOOT,
+  ft: METRES_PER_FOOT,
   m: 1,
 };
 
@@ -27,6 +34,11 @@ export function volumeUnitFor(unit: LengthUnit): VolumeUnit {
 }
 
 /**
+ * Volumes come in two units, told apart by name: the engine integrates in the cube of the
+ * project's length unit (ft³ of the project's foot, or m³), and those names end in `CubicLength`
+ * (`removedVolumeCubicLength`); what is stored, reported and shown is in the project's volume unit
+ * (yd³ or m³), under the plain name (`removedVolume`). This function is the one step between them.
+ *
  * Converts a volume measured in cubic project units (ft³ or m³) to the project's volume unit.
  * A cubic yard is 27 cubic feet of the same foot: a yard is three feet by definition whichever
  * foot the project uses, so a US-survey-foot project divides its (survey) ft³ by 27 and gets
@@ -64,66 +76,19 @@ export function convertLength(value: number, from: LengthUnit, to: LengthUnit): 
   return (value * METRES_PER_UNIT[from]) / METRES_PER_UNIT[to];
 }
 
-export function convertArea(value: number, from: LengthUnit, to: LengthUnit): number {
-  if (from === to) return value;
-  const ratio = METRES_PER_UNIT[from] / METRES_PER_UNIT[to];
-  return value * ratio * ratio;
-}
-
 /** Square metres in one square unit. */
-export function squareMetresPerSquareUnit(unit: LengthUnit): number {
+function squareMetresPerSquareUnit(unit: LengthUnit): number {
   return METRES_PER_UNIT[unit] * METRES_PER_UNIT[unit];
 }
 
-/** Cubic metres in one cubic yard: 0.9144³ exactly (NIST SP 811). */
-export const CUBIC_METRES_PER_CUBIC_YARD = 0.9144 ** 3;
-/** Litres in one US liquid gallon: 231 in³ = 3.785411784 L exactly (NIST SP 811). */
-export const LITRES_PER_US_GALLON = 3.785411784;
 /** Square feet in an acre (international foot; NIST). */
-export const SQUARE_FEET_PER_ACRE = 43_560;
+const SQUARE_FEET_PER_ACRE = 43_560;
 /** Square metres in an acre: 43,560 × 0.3048² = 4,046.8564224 (NIST). */
 export const SQUARE_METRES_PER_ACRE = SQUARE_FEET_PER_ACRE * 0.3048 * 0.3048;
-
-export function squareFeetToSquareMetres(areaFt2: number): number {
-  return areaFt2 * 0.3048 * 0.3048;
-}
-
-export function squareMetresToSquareFeet(areaM2: number): number {
-  return areaM2 / (0.3048 * 0.3048);
-}
-
-export function cubicYardsToCubicMetres(volumeYd3: number): number {
-  return volumeYd3 * CUBIC_METRES_PER_CUBIC_YARD;
-}
-
-export function cubicMetresToCubicYards(volumeM3: number): number {
-  return volumeM3 / CUBIC_METRES_PER_CUBIC_YARD;
-}
-
-export function usGallonsToLitres(volumeGal: number): number {
-  return volumeGal * LITRES_PER_US_GALLON;
-}
-
-export function litresToUsGallons(volumeL: number): number {
-  return volumeL / LITRES_PER_US_GALLON;
-}
-
-/** Acres from an area in square project units. */
-export function acresFromArea(area: number, unit: LengthUnit): number {
-  return (area * squareMetresPerSquareUnit(unit)) / SQUARE_METRES_PER_ACRE;
-}
 
 /** Area in square project units from acres. */
 export function areaFromAcres(acres: number, unit: LengthUnit): number {
   return (acres * SQUARE_METRES_PER_ACRE) / squareMetresPerSquareUnit(unit);
-}
-
-/** Converts a volume in the project's volume unit (yd³ or m³) to cubic metres. */
-export function volumeToCubicMetres(volume: number, unit: LengthUnit): number {
-  if (unit === "m") return volume;
-  // A yard of the project's foot: 3 ft.
-  const metresPerYard = 3 * METRES_PER_UNIT[unit];
-  return volume * metresPerYard ** 3;
 }
 
 const LENGTH_LABELS: Record<LengthUnit, { short: string; long: string }> = {

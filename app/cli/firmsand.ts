@@ -1,12 +1,15 @@
 import { readFileSync } from "node:fs";
 import { z } from "zod";
-import { EngineWorkerPool } from "../lib/engine-worker.server";
+import type { ComputationSurvey } from "../lib/engine/engine-surveys";
+import { firmPoints } from "../lib/engine/survey-work";
+import { EngineWorkerPool } from "../lib/engine/engine-worker.server";
 import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/epsg.server";
 import { createCrs, type Crs } from "../../shared/crs";
 import type { ProjectedMultiPolygon, Ring } from "../../shared/grid/work-limit";
 import { computeSurveyVolumes, type EngineResult, type EngineSettings, type SurveyPoints } from "../../shared/pipeline";
 import { soundingElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv, type ParsedSoundings } from "../../shared/soundings/parse-csv";
+import { selectSurveysInForce } from "../../shared/surveys-in-force";
 import { defaultsFor, lengthUnitSchema, type LengthUnit } from "../../shared/units";
 import { volumeReport } from "../../shared/volumes/report";
 
@@ -190,26 +193,29 @@ async function runVolumes(argv: string[]): Promise<string> {
   const defaults = defaultsFor(unit);
   const before = readSoundings(options.before);
   const after = readSoundings(options.after);
+  // The two files are the surveys in force, as the app would choose them: the before file the
+  // baseline, the after file the one progress survey on it (the files carry no dates).
+  const surveyOf = (id: number, kind: ComputationSurvey["kind"], parsed: ParsedSoundings, waterSurface: number): ComputationSurvey => {
+    const { elevation, refusalElevation } = soundingElevations(parsed, waterSurface);
+    return { id, kind, surveyedOn: "", ...surveyPoints(parsed, elevation), refusalElevation };
+  };
+  const inForce = selectSurveysInForce([surveyOf(1, "baseline", before, options["before-wse"]), surveyOf(2, "progress", after, options["after-wse"])])!;
   let firm: SurveyPoints;
   if (options.firm !== undefined) {
     const firmSoundings = readSoundings(options.firm);
     const { elevation, refusalElevation } = soundingElevations(firmSoundings, options["firm-wse"]);
     firm = surveyPoints(firmSoundings, refusalElevation ?? elevation);
   } else {
-    const refusal = soundingElevations(before, options["before-wse"]).refusalElevation;
+    const refusal = inForce.baseline.refusalElevation;
     if (refusal === null || refusal.every(Number.isNaN)) {
       throw new InputError(`${options.before}: has no probe readings (column "probe" or "probe_depth"); give the firm-sand surface with --firm FILE`);
     }
-    firm = surveyPoints(before, refusal);
+    firm = firmPoints(inForce.baseline);
   }
 
   const workLimit = options.limit === undefined ? null : readWorkLimit(options.limit, crs);
   const tolerance = options.tolerance ?? defaults.tolerance;
-  const surveys = {
-    baseline: surveyPoints(before, soundingElevations(before, options["before-wse"]).elevation),
-    progress: [surveyPoints(after, soundingElevations(after, options["after-wse"]).elevation)],
-    firm,
-  };
+  const surveys = { baseline: inForce.baseline, progress: inForce.later, firm };
   const settings: EngineSettings = {
     cellSize: options["cell-size"] ?? defaults.cellSize,
     resolution: options.resolution ?? defaults.resolution,

@@ -2,11 +2,11 @@ import { Op, UniqueConstraintError } from "sequelize";
 import { z } from "zod";
 import { cellIndex, cellLabel as cellLabelOf } from "../../shared/grid/cell-grid";
 import { exceedsNoDecompressionLimit, noDecompressionLimit, NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE, type NoDecompressionLookup } from "../../shared/no-decompression";
-import { MAP_STATUSES } from "../../shared/palette";
+import { CELL_STATUSES } from "../../shared/cell-status";
 import { convertLength } from "../../shared/units";
 import { Assignment, DiveTeam, getSequelize, type DiveTeamMember } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
-import { getProjectSurfaces } from "~/lib/map/project-surfaces.server";
+import { getProjectSurfaces } from "~/lib/engine/engine-state.server";
 import { sendMail } from "~/lib/mail.server";
 import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
 import { getCellsPayload, type CellsPayload } from "./cells.server";
@@ -143,7 +143,7 @@ export async function createAssignments(project: ProjectView, user: UserView, in
     const index = lookup(label)!;
     return { label, index, row: Math.floor(index / grid.cols) + grid.firstRow, col: (index % grid.cols) + grid.firstCol };
   });
-  const confirmedCode = MAP_STATUSES.indexOf("confirmed");
+  const confirmedCode = CELL_STATUSES.indexOf("confirmed");
   const confirmed = cells.filter((cell) => payload.status[cell.index] === confirmedCode).map((cell) => cell.label);
   const reason = input.reason?.trim() || null;
   if (confirmed.length > 0 && !reason) {
@@ -254,7 +254,7 @@ export async function getDayPlan(project: ProjectView, date: string): Promise<Da
       noDecompression: noDecompressionInfo(assignment.workingDepth, project.lengthUnit, assignment.plannedBottomMinutes),
       remainingThickness: index >= 0 ? payload.remainingThickness[index] : null,
       remainingVolume: index >= 0 ? payload.remainingVolume[index] : null,
-      status: index >= 0 && payload.status[index] >= 0 ? MAP_STATUSES[payload.status[index]] : null,
+      status: index >= 0 && payload.status[index] >= 0 ? CELL_STATUSES[payload.status[index]] : null,
       confirmedReason: assignment.confirmedReason,
     });
     byTeam.set(assignment.teamId, cells);

@@ -1,17 +1,15 @@
-import type { FeatureCollection, MultiPolygon } from "geojson";
-import { contourBands, depthThresholds, remainingThicknessThresholds, type BandProperties } from "../../shared/bands";
-import { createCrs } from "../../shared/crs";
+import { depthThresholds, remainingThicknessThresholds } from "../../shared/bands";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
-import { BoundedCache } from "~/lib/map/bounded-cache";
-import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/map/project-surfaces.server";
+import { BoundedCache } from "~/lib/bounded-cache";
+import { getProjectSurfaces, projectRecomputeStamp, serverEnginePool } from "~/lib/engine/engine-state.server";
+import { computeProjectBands, type Bands, type BandsInput } from "~/lib/engine/project-bands";
 import type { ProjectView } from "./project.server";
 
 export type BandSurface = "remaining" | "depth";
 
-type Bands = FeatureCollection<MultiPolygon, BandProperties>;
-
-// Contouring a surface and converting every ring to lon/lat costs most of a second for the demo;
-// the result only changes with a recompute, so it is kept per project, stamp and surface.
+// Contouring a surface and converting every ring to lon/lat costs most of a second for the demo
+// (seconds for a large bay, in an engine thread); the result only changes with a recompute, so it
+// is kept per project, stamp and surface.
 const BAND_SETS_HELD = 16;
 const cache = new BoundedCache<Bands>(BAND_SETS_HELD);
 
@@ -29,8 +27,13 @@ async function computeBands(project: ProjectView, surface: BandSurface, stamp: s
   if (!surfaces) return empty;
   const raster = surface === "remaining" ? surfaces.result.rasters.remainingThickness : surfaces.depth;
   if (!raster) return empty;
-  const thresholds = surface === "remaining" ? remainingThicknessThresholds(project.lengthUnit) : depthThresholds(project.lengthUnit);
-  const crs = createCrs(resolveCrsDefinition(project.crs).definition);
-  // Slivers under a quarter of a cell are noise at map scale.
-  return contourBands(raster, thresholds, { crs, minArea: (surfaces.result.cellGrid.cellSize ** 2) / 4 });
+  const input: BandsInput = {
+    raster,
+    thresholds: surface === "remaining" ? remainingThicknessThresholds(project.lengthUnit) : depthThresholds(project.lengthUnit),
+    crsDefinition: resolveCrsDefinition(project.crs).definition,
+    // Slivers under a quarter of a cell are noise at map scale.
+    minArea: surfaces.result.cellGrid.cellSize ** 2 / 4,
+  };
+  const pool = serverEnginePool();
+  return pool ? pool.computeProjectBands(input) : computeProjectBands(input);
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { CellGrid } from "../../shared/grid/cell-grid";
-import { MAP_STATUSES } from "../../shared/palette";
+import { CELL_STATUSES } from "../../shared/cell-status";
 import { presentCellsPayload, type CellFigures } from "./cells-presenter";
 
 const grid: CellGrid = { originX: 0, originY: 0, cellSize: 20, rotationDegrees: 0, firstCol: -1, firstRow: 2, cols: 3, rows: 2 };
@@ -21,7 +21,7 @@ describe("presentCellsPayload", () => {
 
   it("lays the cells row-major from the grid's first row and column (invariant: index = (row − firstRow) · cols + (col − firstCol))", () => {
     expect(payload.status).toHaveLength(6);
-    expect(payload.status).toEqual([MAP_STATUSES.indexOf("confirmed"), -1, -1, -1, -1, MAP_STATUSES.indexOf("no-data")]);
+    expect(payload.status).toEqual([CELL_STATUSES.indexOf("confirmed"), -1, -1, -1, -1, CELL_STATUSES.indexOf("no-data")]);
     expect(payload.zone).toEqual([1, -1, -1, -1, -1, -1]);
   });
 

@@ -1,5 +1,6 @@
 import { cellIndex, type CellGrid } from "../../shared/grid/cell-grid";
-import { MAP_STATUSES, OUTSIDE_WORK_LIMIT, type MapStatus } from "../../shared/palette";
+import { CELL_STATUSES, type CellStatus } from "../../shared/cell-status";
+import { OUTSIDE_WORK_LIMIT } from "../../shared/palette";
 import { unitLabel, type LengthUnit } from "../../shared/units";
 
 /**
@@ -13,7 +14,7 @@ export interface CellsPayload {
   lengthUnit: LengthUnit;
   labels: { length: string; volume: string };
   grid: CellGrid | null;
-  statuses: readonly MapStatus[];
+  statuses: readonly CellStatus[];
   zones: Array<{ id: number; name: string }>;
   computedAt: string | null;
   /** Status codes into `statuses`; −1 outside the work limit. */
@@ -34,7 +35,7 @@ export interface CellsPayload {
 export interface CellFigures {
   row: number;
   col: number;
-  status: MapStatus;
+  status: CellStatus;
   meanRemainingThickness: number | null;
   removedVolume: number;
   remainingVolume: number;
@@ -78,7 +79,7 @@ export function presentCellsPayload(input: CellsPresenterInput): CellsPayload {
     for (const cell of input.cells) {
       const index = cellIndex(grid, cell.row, cell.col);
       if (index < 0) continue;
-      status[index] = MAP_STATUSES.indexOf(cell.status);
+      status[index] = CELL_STATUSES.indexOf(cell.status);
       remainingThickness[index] = cell.meanRemainingThickness === null ? null : two(cell.meanRemainingThickness);
       removedVolume[index] = one(cell.removedVolume);
       remainingVolume[index] = one(cell.remainingVolume);
@@ -95,7 +96,7 @@ export function presentCellsPayload(input: CellsPresenterInput): CellsPayload {
     lengthUnit: input.lengthUnit,
     labels: { length: unitLabel(input.lengthUnit), volume: unitLabel(input.lengthUnit, "volume") },
     grid,
-    statuses: MAP_STATUSES,
+    statuses: CELL_STATUSES,
     zones: input.zones,
     computedAt: computedAt ? computedAt.toISOString() : null,
     status,
@@ -141,10 +142,10 @@ export function presentStoredCellFigures<Status extends string>(cell: StoredCell
 }
 
 /** GET /api/projects/<id>/cells/<label>: one cell's figures, soundings, history and assignments. */
-export interface CellDetail extends StoredCellFigures<MapStatus> {
+export interface CellDetail extends StoredCellFigures<CellStatus> {
   zone: string | null;
   soundings: number | null;
   workingDepth: number | null;
-  history: Array<{ date: string; remainingVolume: number; removedVolume: number; status: MapStatus | null }>;
+  history: Array<{ date: string; remainingVolume: number; removedVolume: number; status: CellStatus | null }>;
   assignments: Array<{ date: string; team: string; hose: string; notes: string }>;
 }

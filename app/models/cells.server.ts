@@ -1,14 +1,14 @@
 import { cellCentroid, cellIndex, createCellGrid, type CellGrid } from "../../shared/grid/cell-grid";
 import { isInsideWorkLimit } from "../../shared/grid/work-limit";
-import { MAP_STATUSES, type MapStatus } from "../../shared/palette";
+import { CELL_STATUSES, type CellStatus } from "../../shared/cell-status";
 import { presentCellsPayload, presentStoredCellFigures, type CellDetail, type CellsPayload } from "./cells-presenter";
 export type { CellDetail } from "./cells-presenter";
 import { CellResult, Project, SurveySnapshot, Zone } from "~/lib/db.server";
 import { createHash } from "node:crypto";
-import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/map/project-surfaces.server";
-import { BoundedCache } from "~/lib/map/bounded-cache";
+import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/engine/engine-state.server";
+import { BoundedCache } from "~/lib/bounded-cache";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
-import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import type { ProjectView } from "./project.server";
 
 export type { CellsPayload } from "./cells-presenter";
@@ -77,7 +77,7 @@ export async function getCellsPayload(project: ProjectView): Promise<CellsPayloa
 async function markCellsInLimit(project: ProjectView, grid: CellGrid, status: number[]) {
   const geometry = await loadProjectGeometry(project.id);
   if (!geometry.workLimit) return;
-  const noData = MAP_STATUSES.indexOf("no-data");
+  const noData = CELL_STATUSES.indexOf("no-data");
   for (let localRow = 0; localRow < grid.rows; localRow++) {
     for (let localCol = 0; localCol < grid.cols; localCol++) {
       const [easting, northing] = cellCentroid(grid, grid.firstRow + localRow, grid.firstCol + localCol);
@@ -113,7 +113,7 @@ export async function getCellDetail(project: ProjectView, label: string): Promis
     const index = localRow * snapshot.cellCols + localCol;
     const float = (blob: Buffer) => (inside ? Number(blob.readFloatLE(index * 4).toFixed(1)) : 0);
     const code = inside ? snapshot.statuses[index] : 255;
-    return { date: snapshot.surveyedOn, remainingVolume: float(snapshot.remainingVolumes), removedVolume: float(snapshot.removedVolumes), status: MAP_STATUSES[code] ?? null };
+    return { date: snapshot.surveyedOn, remainingVolume: float(snapshot.remainingVolumes), removedVolume: float(snapshot.removedVolumes), status: CELL_STATUSES[code] ?? null };
   });
   const surfaces = await getProjectSurfaces(project.id);
   const engineIndex = surfaces ? cellIndex(surfaces.result.cellGrid, position.row, position.col) : -1;

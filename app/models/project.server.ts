@@ -1,4 +1,5 @@
 import { Membership, Project, Zone, type LengthUnit, type Role } from "~/lib/db.server";
+import { projectGrid, type ProjectGrid } from "~/lib/engine/project-geometry.server";
 import type { UserView } from "./user.server";
 
 export interface ProjectView {
@@ -8,17 +9,7 @@ export interface ProjectView {
   description: string;
   crs: string;
   lengthUnit: LengthUnit;
-  grid: {
-    originEasting: number;
-    originNorthing: number;
-    cellSize: number;
-    rasterResolution: number;
-    maxEdge: number;
-    rotationDeg: number;
-    tolerance: number;
-    firmShare: number;
-    minCoverage: number;
-  };
+  grid: ProjectGrid;
   minTeamSize: number;
   hasWorkLimit: boolean;
 }
@@ -31,17 +22,7 @@ export function presentProject(project: Project): ProjectView {
     description: project.description,
     crs: project.crs,
     lengthUnit: project.lengthUnit,
-    grid: {
-      originEasting: project.gridOriginE,
-      originNorthing: project.gridOriginN,
-      cellSize: project.cellSize,
-      rasterResolution: project.rasterResolution,
-      maxEdge: project.maxEdge,
-      rotationDeg: project.rotationDeg,
-      tolerance: project.tolerance,
-      firmShare: project.firmShare,
-      minCoverage: project.minCoverage,
-    },
+    grid: projectGrid(project),
     minTeamSize: project.minTeamSize,
     hasWorkLimit: Boolean(project.workLimitGeoJson),
   };

@@ -1,10 +1,11 @@
 import { createCrs } from "../../shared/crs";
 import { cellPolygon, createCellGrid } from "../../shared/grid/cell-grid";
 import { csvLine, type CsvValue } from "../../shared/csv-safe";
+import { selectSurveysInForce } from "../../shared/surveys-in-force";
 import { unitLabel } from "../../shared/units";
 import { CellResult, Survey, Zone } from "~/lib/db.server";
 import { resolveCrsDefinition } from "~/lib/epsg.server";
-import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { loadProgress, type ProgressFigures, type ProgressView } from "./progress.server";
 import type { ProjectView } from "./project.server";
 import { presentStoredCellFigures } from "./cells-presenter";
@@ -47,15 +48,14 @@ export interface QuantitiesView {
 export async function loadQuantities(project: ProjectView): Promise<QuantitiesView> {
   const [progress, surveys, zones, cells] = await Promise.all([
     loadProgress(project),
-    Survey.findAll({ where: { projectId: project.id, status: "active" }, order: [["surveyedOn", "ASC"], ["id", "ASC"]], attributes: ["id", "kind", "surveyedOn", "datum"] }),
+    Survey.findAll({ where: { projectId: project.id, status: "active" }, attributes: ["id", "kind", "surveyedOn", "datum"] }),
     Zone.findAll({ where: { projectId: project.id }, attributes: ["id", "name"] }),
     CellResult.findAll({ where: { projectId: project.id }, order: [["row", "ASC"], ["col", "ASC"]] }),
   ]);
   const ref = (survey: Survey | undefined): SurveyRef | null =>
     survey ? { id: survey.id, kind: survey.kind, surveyedOn: String(survey.surveyedOn), datum: survey.datum } : null;
-  const baselines = surveys.filter((survey) => survey.kind === "baseline");
-  const baseline = baselines[baselines.length - 1];
-  const later = surveys.filter((survey) => survey.kind !== "baseline");
+  // The quantities rest on the surveys the figures were computed from.
+  const inForce = selectSurveysInForce(surveys);
   const zoneName = new Map(zones.map((zone) => [zone.id, zone.name]));
   const surveyDate = new Map(surveys.map((survey) => [survey.id, String(survey.surveyedOn)]));
   const length = unitLabel(project.lengthUnit);
@@ -71,8 +71,8 @@ export async function loadQuantities(project: ProjectView): Promise<QuantitiesVi
       cellSize: project.grid.cellSize,
       rasterResolution: project.grid.rasterResolution,
     },
-    baseline: ref(baseline),
-    latest: ref(later[later.length - 1] ?? baseline),
+    baseline: ref(inForce?.baseline),
+    latest: ref(inForce?.later.at(-1) ?? inForce?.baseline),
     method:
       `Surface to surface: each survey is a Delaunay triangulation of its soundings (no triangle edge longer than ${project.grid.maxEdge} ${length}), ` +
       `sampled on a ${project.grid.rasterResolution} ${length} raster inside the work limit and integrated over ${project.grid.cellSize} ${length} cells. ` +

@@ -1,4 +1,6 @@
-import { CellResult, Sounding, Survey, SurveySnapshot, User, type CellResultStatus, type SnapshotTotals, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
+import type { CellStatus } from "../../shared/cell-status";
+import type { FigureTotals } from "../../shared/volumes/figure-totals";
+import { CellResult, Sounding, Survey, SurveySnapshot, User, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
 import type { ProjectView } from "./project.server";
 
 /** Surveys of a project as the pages and the API show them; every query is scoped by the project. */
@@ -120,17 +122,17 @@ export async function sampleSoundingPositions(project: ProjectView, surveyId: nu
 }
 
 export interface ProjectStatistics {
-  totals: SnapshotTotals | null;
+  totals: FigureTotals | null;
   asOf: string | null;
-  statusCounts: Partial<Record<CellResultStatus, number>>;
-  history: Array<{ surveyedOn: string; totals: SnapshotTotals }>;
+  statusCounts: Partial<Record<CellStatus, number>>;
+  history: Array<{ surveyedOn: string; totals: FigureTotals }>;
 }
 
 export async function getProjectStatistics(project: ProjectView): Promise<ProjectStatistics> {
   const snapshots = await SurveySnapshot.findAll({ where: { projectId: project.id }, attributes: ["surveyedOn", "totals"], order: [["surveyedOn", "ASC"]] });
   const history = snapshots.map((snapshot) => ({ surveyedOn: snapshot.surveyedOn, totals: snapshot.totals }));
   const cells = await CellResult.findAll({ where: { projectId: project.id }, attributes: ["status"], raw: true });
-  const statusCounts: Partial<Record<CellResultStatus, number>> = {};
+  const statusCounts: Partial<Record<CellStatus, number>> = {};
   for (const cell of cells) statusCounts[cell.status] = (statusCounts[cell.status] ?? 0) + 1;
   const latest = history[history.length - 1] ?? null;
   return { totals: latest?.totals ?? null, asOf: latest?.surveyedOn ?? null, statusCounts, history };

@@ -4,10 +4,8 @@ import { ROLE_LABELS } from "~/lib/roles";
 import { ProgressOverview } from "~/components/progress-overview";
 import { loadProgress } from "~/models/progress.server";
 import { listZones } from "~/models/project.server";
+import { unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId._index";
-
-const UNIT_LABELS = { "us-ft": "US survey feet", ft: "international feet", m: "metres" } as const;
-const UNIT_SYMBOLS = { "us-ft": "ft", ft: "ft", m: "m" } as const;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
@@ -23,8 +21,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   ];
   return {
     project,
-    unitLabel: UNIT_LABELS[project.lengthUnit],
-    unit: UNIT_SYMBOLS[project.lengthUnit],
+    unitLabel: unitLabel(project.lengthUnit, "length-long"),
+    unit: unitLabel(project.lengthUnit),
     roleLabel: role ? ROLE_LABELS[role] : "Site administrator (not a member)",
     zones,
     progress,
@@ -62,9 +60,9 @@ export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
       <section aria-labelledby="grid" className="rounded border border-line bg-panel p-4">
         <h2 id="grid" className="font-semibold">Grid and surfaces</h2>
         <dl className="mt-3 text-sm">
-          <Fact term="Grid origin (easting, northing)">{project.grid.originEasting.toFixed(2)}, {project.grid.originNorthing.toFixed(2)} {unit}</Fact>
+          <Fact term="Grid origin (easting, northing)">{project.grid.originX.toFixed(2)}, {project.grid.originY.toFixed(2)} {unit}</Fact>
           <Fact term="Cell size">{project.grid.cellSize} {unit}</Fact>
-          <Fact term="Grid rotation">{project.grid.rotationDeg}°</Fact>
+          <Fact term="Grid rotation">{project.grid.rotationDegrees}°</Fact>
           <Fact term="Raster resolution">{project.grid.rasterResolution} {unit}</Fact>
           <Fact term="Longest triangle edge">{project.grid.maxEdge} {unit}</Fact>
           <Fact term="Firm-sand tolerance">{project.grid.tolerance} {unit}</Fact>

@@ -2,7 +2,7 @@ import type { FeatureCollection } from "geojson";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { data } from "react-router";
 import { createCrs } from "../../shared/crs";
-import { MAP_STATUSES } from "../../shared/palette";
+import { CELL_STATUSES } from "../../shared/cell-status";
 import { AssignPanel } from "~/components/map/assign-panel";
 import { CellInspector } from "~/components/map/cell-inspector";
 import { cellCentreLonLat, labelIndex, type CellsData } from "~/components/map/cell-features";
@@ -211,7 +211,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
   }
 
   const selectedLabels = [...selected].map((index) => labelOf.get(index)).filter((label): label is string => Boolean(label)).sort();
-  const confirmedCode = MAP_STATUSES.indexOf("confirmed");
+  const confirmedCode = CELL_STATUSES.indexOf("confirmed");
   const confirmedLabels = data ? [...selected].filter((index) => data.status[index] === confirmedCode).map((index) => labelOf.get(index)!).sort() : [];
   const focusLabel = focus === null ? null : labelOf.get(focus) ?? null;
   const projected = pointer && crs ? crs.fromLonLat(pointer[0], pointer[1]) : null;

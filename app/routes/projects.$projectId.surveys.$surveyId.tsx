@@ -7,7 +7,7 @@ import { can } from "~/lib/permissions";
 import { requireRole } from "~/lib/access.server";
 import { clientAddress } from "~/lib/client-address.server";
 import { setSurveyStatus } from "~/lib/import/commit.server";
-import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { getSurveyDetails, listSoundings, sampleSoundingPositions } from "~/models/survey.server";
 import type { Route } from "./+types/projects.$projectId.surveys.$surveyId";
 

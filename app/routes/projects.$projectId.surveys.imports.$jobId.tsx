@@ -11,6 +11,7 @@ import { commitChoicesFromFields } from "~/lib/import/form-fields";
 import { findImportJob, jobChoices, jobOptions, jobPreview, presentJobProgress } from "~/lib/import/import-job-view.server";
 import { discardImportJob, ImportJobClosed, previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
 import { soundingFields } from "../../shared/soundings/parse-csv";
+import { unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.surveys.imports.$jobId";
 
 const FIELD_LABELS: Record<(typeof soundingFields)[number], string> = {
@@ -23,7 +24,6 @@ const FIELD_LABELS: Record<(typeof soundingFields)[number], string> = {
   id: "Point id",
 };
 
-const UNIT_WORDS = { "us-ft": "US survey feet", ft: "feet", m: "metres" } as const;
 
 async function loadJob(request: Request, params: Route.LoaderArgs["params"]) {
   const access = await requireRole(request, params.projectId, "surveys.import");
@@ -240,7 +240,7 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
             <p className="mt-1">{preview.depthUnit.message}</p>
             <label className="mt-2 flex items-center gap-2">
               <input type="checkbox" name="acceptDepthUnit" value="1" defaultChecked={choices.acceptDepthUnit} />
-              The {options.fileHasElevations ? "elevations" : "depths"} are right as given; import them as {UNIT_WORDS[options.lengthUnit]}.
+              The {options.fileHasElevations ? "elevations" : "depths"} are right as given; import them as {unitLabel(options.lengthUnit, "length-long")}.
             </label>
           </div>
         ) : null}

@@ -2,9 +2,7 @@ import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAtt
 import type { Project } from "./project";
 import type { Survey } from "./survey";
 import type { Zone } from "./zone";
-
-export const CELL_RESULT_STATUSES = ["no-data", "untouched", "in-work", "at-firm-sand", "confirmed"] as const;
-export type CellResultStatus = (typeof CELL_RESULT_STATUSES)[number];
+import { CELL_STATUSES, type CellStatus } from "../../shared/cell-status";
 
 /**
  * The latest figures of one cell of a project, rewritten whole after every import, retraction
@@ -26,7 +24,7 @@ export class CellResult extends Model<InferAttributes<CellResult>, InferCreation
   declare coverage: number;
   /** Area inside the work limit, project length unit squared. */
   declare areaInLimit: number;
-  declare status: CellResultStatus;
+  declare status: CellStatus;
   /** The survey that supplied most of the cell's latest bottom. */
   declare latestSurveyId: ForeignKey<Survey["id"]> | null;
   declare computedAt: Date;
@@ -47,7 +45,7 @@ export function initCellResult(sequelize: Sequelize) {
       meanRemainingThickness: { type: DataTypes.DOUBLE, allowNull: true },
       coverage: measure(),
       areaInLimit: measure(),
-      status: { type: DataTypes.ENUM(...CELL_RESULT_STATUSES), allowNull: false },
+      status: { type: DataTypes.ENUM(...CELL_STATUSES), allowNull: false },
       computedAt: { type: DataTypes.DATE, allowNull: false },
     },
     {

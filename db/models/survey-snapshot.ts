@@ -3,16 +3,14 @@ import { z } from "zod";
 import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
 import type { Survey } from "./survey";
-import type { FigureTotals } from "../../app/lib/import/project-computation";
+import type { FigureTotals } from "../../shared/volumes/figure-totals";
 
 /** Totals are counts and volumes: numbers only. */
 const totalsSchema = z.record(z.string(), z.number());
 
-/** Project and zone totals in the project's volume unit after one survey date. */
-export type SnapshotTotals = FigureTotals;
-
 /**
- * The state of the project after every survey of one date (all active surveys up to that date).
+ * The state of the project after every survey of one date (all active surveys up to that date):
+ * project and zone totals in the project's volume unit.
  * Per-cell figures are kept compact: little-endian Float32Array bytes of remaining and removed
  * volume and Uint8Array status codes, laid out row-major over the cell grid
  * (index = (row − firstRow) · cellCols + (col − firstCol)).
@@ -22,8 +20,8 @@ export class SurveySnapshot extends Model<InferAttributes<SurveySnapshot>, Infer
   declare projectId: ForeignKey<Project["id"]>;
   declare surveyedOn: string;
   declare lastSurveyId: ForeignKey<Survey["id"]>;
-  declare totals: SnapshotTotals;
-  declare zones: Array<{ zoneId: number; name: string; totals: SnapshotTotals }>;
+  declare totals: FigureTotals;
+  declare zones: Array<{ zoneId: number; name: string; totals: FigureTotals }>;
   declare cellCols: number;
   declare cellRows: number;
   declare firstCol: number;

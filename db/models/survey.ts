@@ -2,9 +2,9 @@ import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAtt
 import { jsonColumn, jsonObject } from "./json-column";
 import type { Project } from "./project";
 import type { User } from "./user";
+import { SURVEY_KINDS, type SurveyKind } from "../../shared/surveys-in-force";
 
-export const SURVEY_KINDS = ["baseline", "progress", "closeout"] as const;
-export type SurveyKind = (typeof SURVEY_KINDS)[number];
+export { SURVEY_KINDS, type SurveyKind };
 export const SURVEY_STATUSES = ["active", "retracted"] as const;
 export type SurveyStatus = (typeof SURVEY_STATUSES)[number];
 

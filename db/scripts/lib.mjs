@@ -161,18 +161,32 @@ const fail = (message) => { process.stderr.write("[firmsand] built engine worker
 const worker = new Worker(process.argv[1], { execArgv: [] });
 const timer = setTimeout(() => fail("no answer within 30 s"), 30000);
 worker.on("error", (error) => fail(error.message));
+// A 10 × 10 ft square, muck top 10 ft over firm sand at 8 ft, sounded every foot: the two jobs of a
+// project's engine state (one survey's work, then the state from its rasters) must plan 200 ft³.
 const easting = [], northing = [];
 for (let x = -1; x <= 11; x++) for (let y = -1; y <= 11; y++) { easting.push(x); northing.push(y); }
 const count = easting.length;
-const baseline = { id: 1, kind: "baseline", surveyedOn: "2026-01-01", easting: Float64Array.from(easting), northing: Float64Array.from(northing),
-  elevation: new Float64Array(count).fill(10), refusalElevation: new Float64Array(count).fill(8) };
+const workLimit = [[[[0, 0], [10, 0], [10, 10], [0, 10], [0, 0]]]];
 const settings = { cellSize: 5, resolution: 1, maxEdge: 5, originX: 0, originY: 0, rotationDegrees: 0, tolerance: 0.25, firmShare: 0.95, minCoverage: 0.8, surveyNoise: 0.25 };
-const input = { surveys: [baseline], workLimit: [[[[0, 0], [10, 0], [10, 10], [0, 10], [0, 0]]]], zones: [], settings, lengthUnit: "ft" };
+const lines = {
+  cellGrid: { originX: 0, originY: 0, cellSize: 5, rotationDegrees: 0, firstCol: 0, firstRow: 0, cols: 2, rows: 2 },
+  rasterGrid: { originX: 0, originY: 0, spacing: 1, cols: 10, rows: 10 },
+};
+const work = { easting: Float64Array.from(easting), northing: Float64Array.from(northing), elevation: new Float64Array(count).fill(10), refusalElevation: new Float64Array(count).fill(8), count: true };
 worker.on("message", (message) => {
-  if (message.ready) return worker.postMessage({ kind: "figures", id: 1, input });
+  if (message.ready) return worker.postMessage({ kind: "survey", id: 1, work, settings: { maxEdge: 5, rasterGrid: lines.rasterGrid, precision: "float64", cellGrid: lines.cellGrid } });
   if (message.progress) return;
   if (message.error) fail(message.error);
-  const planned = message.done?.figures?.totals?.plannedVolume;
+  if (message.id === 1) {
+    const { rasters, summary, soundingsPerCell } = message.done.survey;
+    const input = {
+      inForce: { baseline: { id: 1, kind: "baseline", surveyedOn: "2026-01-01" }, later: [] }, lines,
+      sampled: { muckTop: rasters[0], firm: rasters[1], progress: [], surfaces: summary }, soundingsPerCell: [soundingsPerCell],
+      workLimit, zones: [], settings, lengthUnit: "ft", waterSurfaceElevation: null, withFigures: true,
+    };
+    return worker.postMessage({ kind: "state", id: 2, input });
+  }
+  const planned = message.done?.state?.figures?.totals?.plannedVolume;
   if (!(Math.abs(planned - 200 / 27) < 1e-9)) fail("planned " + planned + " yd³, expected " + 200 / 27);
   clearTimeout(timer);
   worker.terminate();

@@ -48,14 +48,21 @@ export function isInsideWorkLimit(limit: ProjectedMultiPolygon, easting: number,
   return inside;
 }
 
-/** Plan area (shoelace; outer rings minus holes, whatever their winding). */
+/**
+ * Plan area in square project units (shoelace; outer rings minus holes, whatever their winding;
+ * rings closed or not). In a conformal projection near its origin (state plane, UTM) this is the
+ * ground area to the square of the scale factor: within 0.02 % over a state plane zone's usual extent.
+ */
 export function workLimitArea(limit: ProjectedMultiPolygon): number {
   let total = 0;
   for (const polygon of limit) {
     polygon.forEach((ring, ringIndex) => {
+      // Relative to the ring's first vertex: state plane coordinates run to millions of feet,
+      // and their products would swamp a small ring's area.
+      const [originX, originY] = ring[0] ?? [0, 0];
       let twiceArea = 0;
       for (let current = 0, previous = ring.length - 1; current < ring.length; previous = current++) {
-        twiceArea += ring[previous][0] * ring[current][1] - ring[current][0] * ring[previous][1];
+        twiceArea += (ring[previous][0] - originX) * (ring[current][1] - originY) - (ring[current][0] - originX) * (ring[previous][1] - originY);
       }
       total += ringIndex === 0 ? Math.abs(twiceArea) / 2 : -Math.abs(twiceArea) / 2;
     });

@@ -26,7 +26,7 @@ describe("end-area check", () => {
     const layout = { baselineStartX: 0.5, baselineStartY: 30, baselineEndX: 199.5, baselineEndY: 30, sectionSpacing: 19.9, halfWidth: 29.5, sampleStep: 1 };
     const check = endAreaCheck(upper, lower, 24_000, layout);
     // sections span 199 × 59 between the outermost pixel centres (sampling stays on data): 2 × 199 × 59
-    expect(check.endAreaVolume).toBeCloseTo(2 * 199 * 59, 6);
+    expect(check.endAreaVolumeCubicLength).toBeCloseTo(2 * 199 * 59, 6);
     expect(check.differencePercent).toBeCloseTo(((2 * 199 * 59 - 24_000) / 24_000) * 100, 9);
     expect(check.sections).toBe(11);
   });
@@ -38,7 +38,7 @@ describe("end-area check", () => {
     const lower = raster(200, 60, 1, () => 0);
     const layout = { baselineStartX: 0.5, baselineStartY: 30, baselineEndX: 199.5, baselineEndY: 30, sectionSpacing: 19.9, halfWidth: 29.5, sampleStep: 1 };
     const check = endAreaCheck(upper, lower, 12_000, layout);
-    expect(check.endAreaVolume).toBeCloseTo(59 * 199, 6);
+    expect(check.endAreaVolumeCubicLength).toBeCloseTo(59 * 199, 6);
     expect(check.differencePercent).toBeCloseTo(((59 * 199 - 12_000) / 12_000) * 100, 9);
   });
 });

@@ -67,8 +67,8 @@ export function principalAxisLayout(workLimit: ProjectedMultiPolygon, sectionSpa
 
 export interface EndAreaCheck {
   /** Cubic project length units. */
-  surfaceVolume: number;
-  endAreaVolume: number;
+  surfaceVolumeCubicLength: number;
+  endAreaVolumeCubicLength: number;
   /** (end area − surface) ÷ surface, percent; null when the surface volume is zero. */
   differencePercent: number | null;
   sections: number;
@@ -76,12 +76,12 @@ export interface EndAreaCheck {
 }
 
 /** Removed volume (upper = baseline muck top, lower = latest bottom) by sections, beside the surface figure. */
-export function endAreaCheck(upper: SampledRaster, lower: SampledRaster, surfaceVolume: number, layout: SectionLayout): EndAreaCheck {
+export function endAreaCheck(upper: SampledRaster, lower: SampledRaster, surfaceVolumeCubicLength: number, layout: SectionLayout): EndAreaCheck {
   const result = endAreaVolume(thicknessBetween(upper, lower), layout);
   return {
-    surfaceVolume,
-    endAreaVolume: result.averageEndAreaVolume,
-    differencePercent: percentDifference(surfaceVolume, result.averageEndAreaVolume),
+    surfaceVolumeCubicLength,
+    endAreaVolumeCubicLength: result.averageEndAreaVolume,
+    differencePercent: percentDifference(surfaceVolumeCubicLength, result.averageEndAreaVolume),
     sections: result.stations.length,
     sectionSpacing: layout.sectionSpacing,
   };

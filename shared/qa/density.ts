@@ -5,9 +5,7 @@
  * north), about the origin. The grid keeps `cols` × `rows` cells starting at column `firstCol` and
  * row `firstRow` (both 0 unless the origin lies inside the work limit); cell (row, col) is stored at
  * index (row − firstRow)·cols + (col − firstCol).
- *
- * The rotation may be given as `rotationDeg` or, as the cell grid names it, `rotationDegrees`, so
- * a CellGrid can be passed as it is.
+ * The rotation is named as in the cell grid (`rotationDegrees`), so a CellGrid can be passed as it is.
  */
 export interface CellGridDefinition {
   originX: number;
@@ -15,7 +13,6 @@ export interface CellGridDefinition {
   cellSize: number;
   cols: number;
   rows: number;
-  rotationDeg?: number;
   rotationDegrees?: number;
   firstCol?: number;
   firstRow?: number;
@@ -29,7 +26,7 @@ interface Frame {
 }
 
 function frameOf(grid: CellGridDefinition): Frame {
-  const angle = ((grid.rotationDeg ?? grid.rotationDegrees ?? 0) * Math.PI) / 180;
+  const angle = ((grid.rotationDegrees ?? 0) * Math.PI) / 180;
   return { cos: Math.cos(angle), sin: Math.sin(angle), firstCol: grid.firstCol ?? 0, firstRow: grid.firstRow ?? 0 };
 }
 

@@ -71,7 +71,8 @@ export function prepareWorkLimit(coordinates: Position[][] | Position[][][]): Pr
   return { minX, minY, maxX, maxY, x0, y0, x1, y1, slabHeight, slabCount, slabStart, slabEdges };
 }
 
-export function isInsideWorkLimit(limit: PreparedWorkLimit, x: number, y: number): boolean {
+/** `isInsideWorkLimit` (../grid/work-limit) for a prepared limit: the same even–odd rule, fast over many soundings. */
+export function isInsidePreparedWorkLimit(limit: PreparedWorkLimit, x: number, y: number): boolean {
   if (!(x >= limit.minX && x <= limit.maxX && y >= limit.minY && y <= limit.maxY)) return false;
   const slab = Math.min(limit.slabCount - 1, Math.max(0, Math.floor((y - limit.minY) / limit.slabHeight)));
   const { x0, y0, x1, y1, slabEdges } = limit;
@@ -90,6 +91,6 @@ export function isInsideWorkLimit(limit: PreparedWorkLimit, x: number, y: number
 /** Indices of the soundings outside the work limit, in input order. */
 export function soundingsOutsideWorkLimit(xs: Float64Array, ys: Float64Array, limit: PreparedWorkLimit): Uint32Array<ArrayBuffer> {
   const outside: number[] = [];
-  for (let i = 0; i < xs.length; i++) if (!isInsideWorkLimit(limit, xs[i], ys[i])) outside.push(i);
+  for (let i = 0; i < xs.length; i++) if (!isInsidePreparedWorkLimit(limit, xs[i], ys[i])) outside.push(i);
   return Uint32Array.from(outside);
 }

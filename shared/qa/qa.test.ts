@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { convertLength } from "../units";
 import { crossingDifferences, linesByHeading } from "./crossings";
 import { cellIndexOf, soundingDensity, sparseCells } from "./density";
-import { isInsideWorkLimit, prepareWorkLimit, soundingsOutsideWorkLimit } from "./outside";
+import { isInsidePreparedWorkLimit, prepareWorkLimit, soundingsOutsideWorkLimit } from "./outside";
 import { buildPointGrid, forEachWithin } from "./point-grid";
 import { findSpikes } from "./spikes";
 import { allowedTvuM } from "./tvu";
@@ -77,11 +77,11 @@ describe("outside the work limit", () => {
   ]);
 
   it("tells inside, hole and second polygon apart", () => {
-    expect(isInsideWorkLimit(limit, 10, 10)).toBe(true);
-    expect(isInsideWorkLimit(limit, 50, 50)).toBe(false); // on the island
-    expect(isInsideWorkLimit(limit, 205, 5)).toBe(true);
-    expect(isInsideWorkLimit(limit, 150, 5)).toBe(false);
-    expect(isInsideWorkLimit(limit, -1, 50)).toBe(false);
+    expect(isInsidePreparedWorkLimit(limit, 10, 10)).toBe(true);
+    expect(isInsidePreparedWorkLimit(limit, 50, 50)).toBe(false); // on the island
+    expect(isInsidePreparedWorkLimit(limit, 205, 5)).toBe(true);
+    expect(isInsidePreparedWorkLimit(limit, 150, 5)).toBe(false);
+    expect(isInsidePreparedWorkLimit(limit, -1, 50)).toBe(false);
   });
 
   it("agrees with the closed-form area share for random soundings", () => {
@@ -104,14 +104,14 @@ describe("outside the work limit", () => {
 
   it("accepts a single Polygon's coordinates", () => {
     const triangle = prepareWorkLimit([[[0, 0], [10, 0], [0, 10], [0, 0]]]);
-    expect(isInsideWorkLimit(triangle, 2, 2)).toBe(true);
-    expect(isInsideWorkLimit(triangle, 6, 6)).toBe(false);
+    expect(isInsidePreparedWorkLimit(triangle, 2, 2)).toBe(true);
+    expect(isInsidePreparedWorkLimit(triangle, 6, 6)).toBe(false);
   });
 });
 
 describe("sounding density per cell", () => {
   it("counts soundings in an unrotated grid", () => {
-    const grid = { originX: 1000, originY: 2000, cellSize: 20, cols: 3, rows: 2, rotationDeg: 0 };
+    const grid = { originX: 1000, originY: 2000, cellSize: 20, cols: 3, rows: 2, rotationDegrees: 0 };
     const xs = new Float64Array([1005, 1015, 1025, 1059, 1005, 990]);
     const ys = new Float64Array([2005, 2019, 2005, 2039, 2025, 2005]);
     const result = soundingDensity(xs, ys, grid);
@@ -123,7 +123,7 @@ describe("sounding density per cell", () => {
 
   it("turns the grid counter-clockwise about its origin", () => {
     // computed: with the grid turned 90°, columns run north and rows run west of the origin
-    const grid = { originX: 0, originY: 0, cellSize: 10, cols: 4, rows: 3, rotationDeg: 90 };
+    const grid = { originX: 0, originY: 0, cellSize: 10, cols: 4, rows: 3, rotationDegrees: 90 };
     expect(cellIndexOf(grid, -5, 35)).toBe(0 * 4 + 3); // row 0, col 3
     expect(cellIndexOf(grid, -25, 5)).toBe(2 * 4 + 0); // row 2, col 0
     expect(cellIndexOf(grid, 5, 5)).toBe(-1);
@@ -132,7 +132,7 @@ describe("sounding density per cell", () => {
     expect(cellIndexOf(widened, -5, 35)).toBe(1 * 5 + 4);
     expect(cellIndexOf(widened, 5, -5)).toBe(0);
     // computed invariant: a point at the centre of every cell, placed by the forward rotation, lands in it
-    const rotated = { ...grid, rotationDeg: 27.5 };
+    const rotated = { ...grid, rotationDegrees: 27.5 };
     const angle = (27.5 * Math.PI) / 180;
     for (let row = 0; row < 3; row++) for (let col = 0; col < 4; col++) {
       const along = (col + 0.5) * 10, across = (row + 0.5) * 10;

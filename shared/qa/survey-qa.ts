@@ -69,7 +69,7 @@ export function surveyQa(input: SurveyQaInput): SurveyQa {
     const cellGrid = createCellGrid(input.workLimit, input.grid);
     const [originX, originY] = fromGridFrame(cellGrid, cellGrid.firstCol * cellGrid.cellSize, cellGrid.firstRow * cellGrid.cellSize);
     const density = soundingDensity(easting, northing, {
-      originX, originY, cellSize: cellGrid.cellSize, cols: cellGrid.cols, rows: cellGrid.rows, rotationDeg: cellGrid.rotationDegrees,
+      originX, originY, cellSize: cellGrid.cellSize, cols: cellGrid.cols, rows: cellGrid.rows, rotationDegrees: cellGrid.rotationDegrees,
     });
     const perCell: number[] = [];
     for (let row = 0; row < cellGrid.rows; row++) {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { FEET_PER_METRE, findCoordinateMistake } from "./coordinate-mistakes";
+import { FEET_PER_METRE } from "../units";
+import { findCoordinateMistake } from "./coordinate-mistakes";
 
 // A work limit near easting 600,000 ft, northing 1,680,000 ft (state plane feet, like the demo).
 const workLimit = { minX: 600_000, minY: 1_679_700, maxX: 600_900, maxY: 1_680_100 };

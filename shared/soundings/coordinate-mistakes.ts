@@ -1,4 +1,5 @@
 import type { Bounds } from "../grid/work-limit";
+import { FEET_PER_METRE } from "../units";
 
 /**
  * Finds the usual coordinate mistakes before anything is stored: a longitude/latitude file
@@ -6,7 +7,6 @@ import type { Bounds } from "../grid/work-limit";
  * 3.2808, the feet in a metre), and soundings nowhere near the work limit. Pure: medians of the
  * coordinates and the work limit's bounds (both in project coordinates) in, a plain message out.
  */
-export const FEET_PER_METRE = 1 / 0.3048;
 
 export interface CoordinateCheckInput {
   /** Coordinates as written in the file. */

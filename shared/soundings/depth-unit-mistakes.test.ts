@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { binKey, binMedians, FEET_PER_METRE, findDepthUnitMistake, METRES_PER_FOOT, METRES_PER_US_SURVEY_FOOT, type DepthUnitCheckInput } from "./depth-unit-mistakes";
+import { FEET_PER_METRE, METRES_PER_FOOT, METRES_PER_US_SURVEY_FOOT } from "../units";
+import { binKey, binMedians, findDepthUnitMistake, type DepthUnitCheckInput } from "./depth-unit-mistakes";
 
 // Synthetic bins: the expectation is what earlier surveys leave there; the file's values are built
 // from it with the factor of the mistake under test. Source of the factors: NIST SP 811 (2008)

@@ -1,4 +1,4 @@
-import { convertLength, type LengthUnit } from "../units";
+import { convertLength, FEET_PER_METRE, METRES_PER_FOOT, unitLabel, type LengthUnit } from "../units";
 
 /**
  * Finds the usual depth-unit mistakes before anything is stored, by comparing the file with what
@@ -18,16 +18,8 @@ import { convertLength, type LengthUnit } from "../units";
  * Pure: binned values in, a plain message out.
  */
 
-/** One international foot in metres, exact: NIST SP 811 (2008) appendix B; the 1959 international yard and pound agreement. */
-export const METRES_PER_FOOT = 0.3048;
-/**
- * One US survey foot in metres, exact: 1200/3937 m (NIST, 85 FR 62698 (2020), which retired it for
- * new work after 2022). It differs from the international foot by 2 parts per million, far below
- * anything this check can see, so both feet are "feet" here.
- */
-export const METRES_PER_US_SURVEY_FOOT = 1200 / 3937;
-/** Feet in a metre, 3.280 839 9… */
-export const FEET_PER_METRE = 1 / METRES_PER_FOOT;
+// The US survey foot differs from the international foot by 2 parts per million, far below
+// anything this check can see, so both feet are "feet" here.
 
 export type DepthUnitMistakeKind = "metres-as-feet" | "feet-as-metres" | "tenths" | "hundredths";
 
@@ -59,7 +51,6 @@ interface Candidate {
   fix: string;
 }
 
-const UNIT_WORDS: Record<LengthUnit, string> = { "us-ft": "US survey feet", ft: "feet", m: "metres" };
 
 /** The mistakes a file declared in `declared` can plausibly carry. */
 function candidatesFor(declared: LengthUnit): Candidate[] {
@@ -158,7 +149,7 @@ export function findDepthUnitMistake(input: DepthUnitCheckInput): DepthUnitMista
   const relation =
     candidate.kind === "metres-as-feet" || candidate.kind === "feet-as-metres" ? " A metre is 3.2808 feet (1 ft = 0.3048 m exactly)." : "";
   const message =
-    `The ${what} look like ${candidate.looksLike}, not ${UNIT_WORDS[input.declaredUnit]} as declared: over the ${ratios.length} cells surveyed before, they are ${times} ${compared}, ` +
+    `The ${what} look like ${candidate.looksLike}, not ${unitLabel(input.declaredUnit, "length-long")} as declared: over the ${ratios.length} cells surveyed before, they are ${times} ${compared}, ` +
     `and ${candidate.factor < 1 ? `multiplied by ${formatFactor(1 / candidate.factor)}` : `divided by ${formatFactor(candidate.factor)}`} they agree with the earlier surveys in ${Math.round(best.share * 100)} % of those cells, as far as a dredge pass can change them (as given, in ${Math.round(asGiven * 100)} %).${relation} ` +
     `${candidate.fix} and check again, or confirm that the ${what} are right as given.`;
   return { kind: candidate.kind, factor: candidate.factor, typicalRatio, cellsCompared: ratios.length, agreeingAsGiven: asGiven, agreeingCorrected: best.share, message };

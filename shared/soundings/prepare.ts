@@ -4,7 +4,7 @@ import type { EngineSettings } from "../pipeline";
 import { prepareWorkLimit, soundingsOutsideWorkLimit } from "../qa/outside";
 import { surveyQa, type SurveyQa } from "../qa/survey-qa";
 import type { SurveyOrder } from "../qa/tvu";
-import { convertLength, type LengthUnit } from "../units";
+import { convertLength, unitLabel, type LengthUnit } from "../units";
 import type { ColumnMappingChoice } from "./column-guess";
 import { findCoordinateMistake } from "./coordinate-mistakes";
 import { binMedians, findDepthUnitMistake, type DepthUnitMistake } from "./depth-unit-mistakes";
@@ -138,7 +138,6 @@ export interface Analysis {
 
 const PREVIEW_PROBLEMS = 1000;
 
-const UNIT_WORDS: Record<LengthUnit, string> = { "us-ft": "US survey feet", ft: "feet", m: "metres" };
 
 /** The file is declared in the project's own CRS: its coordinates are used as they are. */
 export function sameCrsCode(declared: string, project: string): boolean {
@@ -202,7 +201,7 @@ export function prepareSoundings(parsed: ParsedSoundings, options: PrepareOption
       declaredCrs: options.crs,
       declaredIsGeographic,
       workLimit: limitBounds,
-      projectUnitWord: UNIT_WORDS[geometry.lengthUnit],
+      projectUnitWord: unitLabel(geometry.lengthUnit, "length-long"),
     });
     if (mistake) fileProblems.push(mistake.message);
   }
@@ -264,7 +263,7 @@ export function prepareSoundings(parsed: ParsedSoundings, options: PrepareOption
   if (outsideIndices.length > 0) warnings.push(`${outsideIndices.length} sounding${outsideIndices.length === 1 ? " lies" : "s lie"} outside the work limit${choices.outside ? ` and will be ${choices.outside === "keep" ? "kept" : "dropped"}` : ""}.`);
   if (sameFile.length > 0) warnings.push(`The same file (identical content) was imported before as survey ${sameFile.map((survey) => `#${survey.surveyId} (${survey.kind}, ${survey.surveyedOn}, ${survey.status})`).join(", ")}.`);
   if (depthUnit) warnings.push(depthUnit.message);
-  if (lengthFactor !== 1) warnings.push(`Depths are converted from ${UNIT_WORDS[options.lengthUnit]} to the project's ${UNIT_WORDS[geometry.lengthUnit]}.`);
+  if (lengthFactor !== 1) warnings.push(`Depths are converted from ${unitLabel(options.lengthUnit, "length-long")} to the project's ${unitLabel(geometry.lengthUnit, "length-long")}.`);
 
   // When every sounding is kept (the usual case) the columns are used as they are: a copy of a
   // 1,000,000-row file's seven columns would hold another 50 MB through the commit.

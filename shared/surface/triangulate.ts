@@ -112,6 +112,18 @@ function isUsable(easting: ArrayLike<number>, northing: ArrayLike<number>, layer
   return true;
 }
 
+/**
+ * True when `layer` is a finite number exactly where `reference` is: the two can then share one
+ * `triangulateLayers` call without either losing soundings to the other's gaps.
+ */
+export function finiteAlike(reference: ArrayLike<number>, layer: ArrayLike<number>): boolean {
+  if (reference.length !== layer.length) return false;
+  for (let index = 0; index < reference.length; index++) {
+    if (Number.isFinite(reference[index]) !== Number.isFinite(layer[index])) return false;
+  }
+  return true;
+}
+
 /** One survey, one elevation per sounding. */
 export function triangulate(
   easting: ArrayLike<number>,

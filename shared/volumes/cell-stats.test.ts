@@ -34,11 +34,11 @@ describe("cell stats", () => {
     });
     const stats = computeCellStats(cellGrid, grid, nodeCell, { muckTop, firm, before: muckTop, after }, rules);
     // computed: 100 nodes × 1 × 4 = 400 planned in each fully surveyed cell
-    expect(stats.plannedVolume[0]).toBeCloseTo(400, 9);
-    expect(stats.removedVolume[1]).toBeCloseTo(200, 9); // computed: 100 × (−2 − −4)
-    expect(stats.remainingVolume[1]).toBeCloseTo(200, 9); // computed: 100 × (−4 − −6)
+    expect(stats.plannedVolumeCubicLength[0]).toBeCloseTo(400, 9);
+    expect(stats.removedVolumeCubicLength[1]).toBeCloseTo(200, 9); // computed: 100 × (−2 − −4)
+    expect(stats.remainingVolumeCubicLength[1]).toBeCloseTo(200, 9); // computed: 100 × (−4 − −6)
     expect(stats.meanRemainingThickness[1]).toBeCloseTo(2, 12);
-    expect(stats.remainingVolume[2]).toBeCloseTo(99 * 0.1 + 1, 9); // computed: 99 nodes × 0.1 + one node × 1
+    expect(stats.remainingVolumeCubicLength[2]).toBeCloseTo(99 * 0.1 + 1, 9); // computed: 99 nodes × 0.1 + one node × 1
     expect(stats.coverage[3]).toBeCloseTo(0.3, 12); // computed: 30 of 100 nodes surveyed
     expect([0, 1, 2, 3].map((cell) => cellStatusAt(stats, cell))).toEqual(["untouched", "in-work", "at-firm-sand", "no-data"]);
   });
@@ -46,8 +46,8 @@ describe("cell stats", () => {
   it("counts deposition separately and keeps removed volume non-negative", () => {
     const { cellGrid, grid, nodeCell, surface } = setup();
     const stats = computeCellStats(cellGrid, grid, nodeCell, { muckTop: surface(() => -2), firm: surface(() => -6), before: surface(() => -2), after: surface(() => -1.5) }, rules);
-    expect(stats.depositedVolume[0]).toBeCloseTo(50, 9); // computed: 100 × 0.5
-    expect(stats.removedVolume[0]).toBe(0);
+    expect(stats.depositedVolumeCubicLength[0]).toBeCloseTo(50, 9); // computed: 100 × 0.5
+    expect(stats.removedVolumeCubicLength[0]).toBe(0);
   });
 
   it("status rule order: no data, then firm sand, then untouched, else in work", () => {
@@ -64,14 +64,14 @@ describe("cell stats", () => {
     const stats = computeCellStats(cellGrid, grid, nodeCell, { muckTop: surface(() => -2), firm: surface(() => -6), before: surface(() => -2), after: surface((col) => (col < 20 ? -3 : -2)) }, rules);
     const project = rollUpCells(stats);
     expect(project.cells).toBe(4);
-    expect(project.removedVolume).toBeCloseTo(200, 9); // computed: 200 nodes × 1
+    expect(project.removedVolumeCubicLength).toBeCloseTo(200, 9); // computed: 200 nodes × 1
     const [west, east] = rollUpZones(cellGrid, stats, [
       { id: "west", cells: [{ row: 0, col: 0 }, { row: 0, col: 1 }, { row: 0, col: 1 }] },
       { id: "east", polygon: [[[[19, -1], [41, -1], [41, 11], [19, 11], [19, -1]]]] },
     ]);
-    expect(west.totals.removedVolume).toBeCloseTo(200, 9); // a repeated cell counts once
+    expect(west.totals.removedVolumeCubicLength).toBeCloseTo(200, 9); // a repeated cell counts once
     expect(east.totals.cells).toBe(2); // centroids (25, 5) and (35, 5)
-    expect(east.totals.removedVolume).toBe(0);
-    expect(west.totals.plannedVolume + east.totals.plannedVolume).toBeCloseTo(project.plannedVolume, 9); // invariant: zones partition the project
+    expect(east.totals.removedVolumeCubicLength).toBe(0);
+    expect(west.totals.plannedVolumeCubicLength + east.totals.plannedVolumeCubicLength).toBeCloseTo(project.plannedVolumeCubicLength, 9); // invariant: zones partition the project
   });
 });

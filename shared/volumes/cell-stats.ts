@@ -1,4 +1,5 @@
 import type { CellGrid } from "../grid/cell-grid";
+import { CELL_STATUSES, cellStatusCode, type MeasuredCellStatus } from "../cell-status";
 import type { RasterGrid, RasterValues } from "../surface/raster";
 
 /**
@@ -9,10 +10,6 @@ import type { RasterGrid, RasterValues } from "../surface/raster";
  * A node counts as surveyed when the muck top, the firm-sand surface, the before surface and the
  * latest bottom all have data there; the volumes and thickness shares use surveyed nodes only.
  */
-export const cellStatuses = ["no-data", "untouched", "in-work", "at-firm-sand"] as const;
-export type CellStatus = (typeof cellStatuses)[number];
-export const cellStatusCode: Record<CellStatus, number> = { "no-data": 0, untouched: 1, "in-work": 2, "at-firm-sand": 3 };
-
 export interface CellStatusRules {
   /** Remaining muck at most this thick (project length unit) counts as down to firm sand. */
   tolerance: number;
@@ -41,17 +38,18 @@ export interface CellStats {
   /** Area inside the work limit (length²); 0 for grid cells outside it. */
   areaInLimit: Float64Array;
   surveyedArea: Float64Array;
-  plannedVolume: Float64Array;
-  removedVolume: Float64Array;
-  depositedVolume: Float64Array;
-  remainingVolume: Float64Array;
-  /** remainingVolume ÷ surveyedArea (length); NaN where nothing is surveyed. */
+  /** Volumes in the project's cubic length unit (ft³ or m³, see shared/units): the engine's own unit. */
+  plannedVolumeCubicLength: Float64Array;
+  removedVolumeCubicLength: Float64Array;
+  depositedVolumeCubicLength: Float64Array;
+  remainingVolumeCubicLength: Float64Array;
+  /** remainingVolumeCubicLength ÷ surveyedArea (length); NaN where nothing is surveyed. */
   meanRemainingThickness: Float64Array;
   /** surveyedArea ÷ areaInLimit (0–1); NaN outside the limit. */
   coverage: Float64Array;
   /** Share of surveyed area within the firm-sand tolerance (0–1); NaN where nothing is surveyed. */
   firmShare: Float64Array;
-  /** Codes of `cellStatuses`. */
+  /** Codes of `CELL_STATUSES` (shared/cell-status), never `confirmed`. */
   status: Uint8Array;
 }
 
@@ -97,10 +95,10 @@ export function computeCellStats(
     count,
     areaInLimit: new Float64Array(count),
     surveyedArea: new Float64Array(count),
-    plannedVolume: planned,
-    removedVolume: removed,
-    depositedVolume: deposited,
-    remainingVolume: remaining,
+    plannedVolumeCubicLength: planned,
+    removedVolumeCubicLength: removed,
+    depositedVolumeCubicLength: deposited,
+    remainingVolumeCubicLength: remaining,
     meanRemainingThickness: new Float64Array(count),
     coverage: new Float64Array(count),
     firmShare: new Float64Array(count),
@@ -130,13 +128,13 @@ export function computeCellStats(
  * otherwise `in-work`. The surveyed-area share is used for the firm test because the coverage rule
  * already decides whether a cell has enough data to be judged at all.
  */
-export function classifyCell(coverage: number, firmShare: number, meanRemovedThickness: number, rules: CellStatusRules): CellStatus {
+export function classifyCell(coverage: number, firmShare: number, meanRemovedThickness: number, rules: CellStatusRules): MeasuredCellStatus {
   if (!(coverage >= rules.minCoverage) || coverage === 0) return "no-data";
   if (firmShare >= rules.firmShare) return "at-firm-sand";
   if (meanRemovedThickness <= rules.surveyNoise) return "untouched";
   return "in-work";
 }
 
-export function cellStatusAt(stats: CellStats, cell: number): CellStatus {
-  return cellStatuses[stats.status[cell]];
+export function cellStatusAt(stats: CellStats, cell: number): MeasuredCellStatus {
+  return CELL_STATUSES[stats.status[cell]] as MeasuredCellStatus;
 }

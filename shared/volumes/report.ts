@@ -1,7 +1,7 @@
 import { cellLabel, cellRowCol } from "../grid/cell-grid";
 import { cubicToVolumeUnit, volumeUnitFor, type LengthUnit, type VolumeUnit } from "../units";
 import type { EngineResult } from "../pipeline";
-import { cellStatuses, type CellStatus } from "./cell-stats";
+import { CELL_STATUSES, type MeasuredCellStatus } from "../cell-status";
 
 /**
  * The plain-object shape of a volume computation, as the command line prints it and the app
@@ -20,7 +20,7 @@ export interface CellReport {
   meanRemainingThickness: number | null;
   /** 0–1 share of the cell's in-limit area with data. */
   coverage: number;
-  status: CellStatus;
+  status: MeasuredCellStatus;
 }
 
 export interface VolumeReport {
@@ -48,22 +48,22 @@ export function volumeReport(result: EngineResult, unit: LengthUnit): VolumeRepo
       row,
       col,
       label: cellLabel(row, col),
-      plannedVolume: volume(cells.plannedVolume[cell]),
-      removedVolume: volume(cells.removedVolume[cell]),
-      depositedVolume: volume(cells.depositedVolume[cell]),
-      remainingVolume: volume(cells.remainingVolume[cell]),
+      plannedVolume: volume(cells.plannedVolumeCubicLength[cell]),
+      removedVolume: volume(cells.removedVolumeCubicLength[cell]),
+      depositedVolume: volume(cells.depositedVolumeCubicLength[cell]),
+      remainingVolume: volume(cells.remainingVolumeCubicLength[cell]),
       meanRemainingThickness: Number.isNaN(thickness) ? null : thickness,
       coverage: cells.coverage[cell],
-      status: cellStatuses[cells.status[cell]],
+      status: CELL_STATUSES[cells.status[cell]] as MeasuredCellStatus,
     });
   }
   return {
     units: { length: unit, volume: volumeUnitFor(unit) },
     totals: {
-      plannedVolume: volume(totals.plannedVolume),
-      removedVolume: volume(totals.removedVolume),
-      depositedVolume: volume(totals.depositedVolume),
-      remainingVolume: volume(totals.remainingVolume),
+      plannedVolume: volume(totals.plannedVolumeCubicLength),
+      removedVolume: volume(totals.removedVolumeCubicLength),
+      depositedVolume: volume(totals.depositedVolumeCubicLength),
+      remainingVolume: volume(totals.remainingVolumeCubicLength),
       cells: totals.cells,
       cellsAtFirmSand: totals.cellsAtFirmSand,
     },

@@ -1,13 +1,14 @@
 import { cellCentroid, cellIndex, cellRowCol, type CellGrid } from "../grid/cell-grid";
 import { isInsideWorkLimit, type ProjectedMultiPolygon } from "../grid/work-limit";
-import { cellStatusCode, type CellStats } from "./cell-stats";
+import { cellStatusCode } from "../cell-status";
+import type { CellStats } from "./cell-stats";
 
 /** Sums over a set of cells (a zone, or the whole project). Volumes in the project's cubic length unit. */
 export interface VolumeTotals {
-  plannedVolume: number;
-  removedVolume: number;
-  depositedVolume: number;
-  remainingVolume: number;
+  plannedVolumeCubicLength: number;
+  removedVolumeCubicLength: number;
+  depositedVolumeCubicLength: number;
+  remainingVolumeCubicLength: number;
   areaInLimit: number;
   surveyedArea: number;
   /** Cells with any area inside the work limit. */
@@ -21,16 +22,16 @@ export interface VolumeTotals {
 /** Roll cells up; without `cells`, every cell of the grid that touches the work limit. */
 export function rollUpCells(stats: CellStats, cells?: ArrayLike<number>): VolumeTotals {
   const totals: VolumeTotals = {
-    plannedVolume: 0, removedVolume: 0, depositedVolume: 0, remainingVolume: 0,
+    plannedVolumeCubicLength: 0, removedVolumeCubicLength: 0, depositedVolumeCubicLength: 0, remainingVolumeCubicLength: 0,
     areaInLimit: 0, surveyedArea: 0,
     cells: 0, cellsAtFirmSand: 0, cellsInWork: 0, cellsUntouched: 0, cellsNoData: 0,
   };
   const visit = (cell: number) => {
     if (!(stats.areaInLimit[cell] > 0)) return;
-    totals.plannedVolume += stats.plannedVolume[cell];
-    totals.removedVolume += stats.removedVolume[cell];
-    totals.depositedVolume += stats.depositedVolume[cell];
-    totals.remainingVolume += stats.remainingVolume[cell];
+    totals.plannedVolumeCubicLength += stats.plannedVolumeCubicLength[cell];
+    totals.removedVolumeCubicLength += stats.removedVolumeCubicLength[cell];
+    totals.depositedVolumeCubicLength += stats.depositedVolumeCubicLength[cell];
+    totals.remainingVolumeCubicLength += stats.remainingVolumeCubicLength[cell];
     totals.areaInLimit += stats.areaInLimit[cell];
     totals.surveyedArea += stats.surveyedArea[cell];
     totals.cells++;

@@ -42,7 +42,7 @@ function settings(resolution: number, cellSize: number, extra: Partial<EngineSet
 
 /** Planned volume (muck top over firm) through the whole engine. */
 function plannedVolume(top: SurveyPoints, firm: SurveyPoints, limit: ProjectedMultiPolygon, engineSettings: EngineSettings) {
-  return computeSurveyVolumes({ baseline: top, progress: [], firm }, limit, engineSettings).totals.plannedVolume;
+  return computeSurveyVolumes({ baseline: top, progress: [], firm }, limit, engineSettings).totals.plannedVolumeCubicLength;
 }
 
 const flatCorners = (minX: number, minY: number, maxX: number, maxY: number, z: number): Array<[number, number, number]> => [
@@ -124,7 +124,7 @@ describe("closed-form solids through triangulate → raster → cells", () => {
       const row = Math.floor(cell / result.cellGrid.cols);
       const [cx, cy] = [col * 20 + 10, row * 20 + 10];
       const exact = 400 * (muck(cx, cy) - sand(cx, cy));
-      expect(Math.abs(result.cells.plannedVolume[cell] - exact) / exact).toBeLessThan(1e-9);
+      expect(Math.abs(result.cells.plannedVolumeCubicLength[cell] - exact) / exact).toBeLessThan(1e-9);
     }
     expect(result.cells.count).toBe(4); // computed: 40 × 40 limit in 20-unit cells
   });

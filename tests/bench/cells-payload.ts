@@ -8,7 +8,7 @@ import { performance } from "node:perf_hooks";
 import { gzipSync } from "node:zlib";
 import { cellCentroid, createCellGrid } from "../../shared/grid/cell-grid";
 import { isInsideWorkLimit } from "../../shared/grid/work-limit";
-import { MAP_STATUSES } from "../../shared/palette";
+import { CELL_STATUSES } from "../../shared/cell-status";
 import { presentCellsPayload, type CellFigures } from "../../app/models/cells-presenter";
 import { ellipseLimit, seededRandom, type Basin } from "./synthetic";
 
@@ -33,7 +33,7 @@ for (let localRow = 0; localRow < grid.rows; localRow++) {
     const removedShare = random() < 0.4 ? random() : 0;
     cells.push({
       row, col,
-      status: MAP_STATUSES[Math.floor(random() * MAP_STATUSES.length)],
+      status: CELL_STATUSES[Math.floor(random() * CELL_STATUSES.length)],
       meanRemainingThickness: random() < 0.05 ? null : random() * 1.4,
       removedVolume: plannedVolume * removedShare,
       remainingVolume: plannedVolume * (1 - removedShare),

@@ -2,19 +2,25 @@
  * Event-loop benchmark: how long the server's event loop stalls while the two heaviest engine
  * computations run, on the request thread (ENGINE_THREADS=0) and in the engine pool (the
  * default). (a) the recompute inside a sounding import's commit, for a 1,000,000-sounding
- * baseline (the import benchmark's basin and pattern, held in memory as the commit holds it);
- * (b) the map's latest surfaces for the same survey (triangulation, rasters, depths). Reports
+ * baseline (the import benchmark's basin and pattern, held in memory as the commit holds it),
+ * which also gives the project's engine state; (b) the engine state as the map computes it
+ * after a restart for the same survey (triangulation, rasters, depths, end-area check); (c) the
+ * map's remaining-thickness bands from that state (contours turned to lon/lat). Reports
  * the longest stall (perf_hooks.monitorEventLoopDelay, 10 ms resolution) and the wall time.
  * Needs a migrated database (the DB_* environment, as for the app):
  *   DB_PORT=3308 DB_NAME=firmsand_bench NODE_OPTIONS=--expose-gc npx tsx tests/bench/engine-event-loop.ts [--rows N]
  */
 import { monitorEventLoopDelay } from "node:perf_hooks";
 import { Survey, getSequelize } from "../../app/lib/db.server";
-import { closeAppEnginePool, type EngineWorkerPool } from "../../app/lib/engine-worker.server";
-import { loadProjectGeometry } from "../../app/lib/import/project-geometry.server";
-import type { ComputationSurvey } from "../../app/lib/import/project-computation";
-import { recomputeProjectStatistics, serverEnginePool } from "../../app/lib/import/recompute.server";
-import { computeSurfacesIn } from "../../app/lib/map/project-surfaces.server";
+import { computeState, serverEnginePool } from "../../app/lib/engine/engine-state.server";
+import type { ComputationSurvey } from "../../app/lib/engine/engine-surveys";
+import { closeAppEnginePool, type EngineWorkerPool } from "../../app/lib/engine/engine-worker.server";
+import { loadProjectGeometry } from "../../app/lib/engine/project-geometry.server";
+import { computeProjectBands, type BandsInput } from "../../app/lib/engine/project-bands";
+import type { ProjectStateInput } from "../../app/lib/engine/project-state";
+import { resolveCrsDefinition } from "../../app/lib/epsg.server";
+import { remainingThicknessThresholds } from "../../shared/bands";
+import { recomputeProjectStatistics } from "../../app/lib/engine/recompute.server";
 import { closeSequelize } from "../../db/connection.server";
 import { baselinePoints, createBenchProject } from "./import-fixture";
 
@@ -84,15 +90,30 @@ try {
   const geometry = await loadProjectGeometry(project.id);
   const extra = baselineSoundings(survey.id);
   console.log(`engine event-loop benchmark: ${extra.easting.length.toLocaleString("en-US")} soundings, ${pool.size} engine thread(s)${collect ? "" : " (without --expose-gc: one case's garbage may be collected during the next)"}`);
+  const mapInput = (survey: ComputationSurvey): ProjectStateInput => ({
+    surveys: [survey], workLimit: geometry.workLimit!, zones: geometry.zones, settings: geometry.settings, lengthUnit: geometry.lengthUnit, waterSurfaceElevation: waterSurface, withFigures: false,
+  });
+  // The map reads soundings loaded for it alone, which move to the threads.
+  const asTheMapDoes = (input: ProjectStateInput, pool: EngineWorkerPool | null) => computeState(input, pool, { transferSurveys: new Set(input.surveys.map((entry) => entry.id)) });
   // A first pool job starts the thread (and, from sources, compiles its modules): not what a running server pays.
-  await computeSurfacesIn({ surveys: [baselineSoundings(survey.id)].map((s) => ({ ...s, easting: s.easting.slice(0, 2000), northing: s.northing.slice(0, 2000), elevation: s.elevation.slice(0, 2000), refusalElevation: s.refusalElevation!.slice(0, 2000) })), workLimit: geometry.workLimit!, settings: geometry.settings, waterSurfaceElevation: waterSurface }, pool);
+  const small = baselineSoundings(survey.id);
+  const warmUp = { ...small, easting: small.easting.slice(0, 2000), northing: small.northing.slice(0, 2000), elevation: small.elevation.slice(0, 2000), refusalElevation: small.refusalElevation!.slice(0, 2000) };
+  await asTheMapDoes(mapInput(warmUp), pool);
   const places: Array<[string, EngineWorkerPool | null]> = [["on the request thread (ENGINE_THREADS=0)", null], ["in the engine pool", pool]];
   for (const [where, chosen] of places) {
     line(`(a) import commit recompute, ${where}`, await measure(() => getSequelize().transaction((transaction) => recomputeProjectStatistics(project.id, transaction, { extra, pool: chosen }))));
   }
   for (const [where, chosen] of places) {
-    const input = { surveys: [baselineSoundings(survey.id)], workLimit: geometry.workLimit!, settings: geometry.settings, waterSurfaceElevation: waterSurface };
-    line(`(b) map surfaces, ${where}`, await measure(() => computeSurfacesIn(input, chosen)));
+    const input = mapInput(baselineSoundings(survey.id));
+    line(`(b) map surfaces, ${where}`, await measure(() => asTheMapDoes(input, chosen)));
+  }
+  const state = await asTheMapDoes(mapInput(baselineSoundings(survey.id)), pool);
+  const bands: BandsInput = {
+    raster: state!.surfaces.result.rasters.remainingThickness, thresholds: remainingThicknessThresholds(geometry.lengthUnit),
+    crsDefinition: resolveCrsDefinition(geometry.crsCode).definition, minArea: geometry.settings.cellSize ** 2 / 4,
+  };
+  for (const [where, chosen] of places) {
+    line(`(c) map bands, ${where}`, await measure(async () => (chosen ? chosen.computeProjectBands(bands) : computeProjectBands(bands))));
   }
 } finally {
   await Survey.destroy({ where: { projectId: project.id } });

@@ -7,7 +7,7 @@ import { areaFromAcres } from "../../shared/units";
 import { volumeReport } from "../../shared/volumes/report";
 import { workLimitArea } from "../../shared/grid/work-limit";
 import { ellipseLimit, syntheticSurveys, type Basin } from "./synthetic";
-import { EngineWorkerPool } from "../../app/lib/engine-worker.server";
+import { EngineWorkerPool } from "../../app/lib/engine/engine-worker.server";
 
 /**
  * npm run bench — the survey engine at spring-basin and bay scale on seeded synthetic surveys.

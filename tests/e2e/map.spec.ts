@@ -1,5 +1,6 @@
 import { request as playwrightRequest, type Page } from "@playwright/test";
-import { STATUS_COLOURS, MAP_STATUSES, hexToRgb } from "../../shared/palette";
+import { CELL_STATUSES } from "../../shared/cell-status";
+import { STATUS_COLOURS, hexToRgb } from "../../shared/palette";
 import { cellCentreLonLat, labelIndex, type CellsData } from "../../app/components/map/cell-features";
 import { fromGridFrame } from "../../shared/grid/cell-grid";
 import { createCrs } from "../../shared/crs";
@@ -62,7 +63,7 @@ test("the map draws the demo's cells in their status colours, with labels, from 
   for (const name of ["Labels", "Zones", "Work limit"]) await page.getByLabel(name, { exact: true }).uncheck();
   await mapSettled(page);
   const checked: string[] = [];
-  for (const [code, status] of MAP_STATUSES.entries()) {
+  for (const [code, status] of CELL_STATUSES.entries()) {
     const index = data.status.findIndex((value, cell) => value === code && neighboursShare(data, cell, code));
     if (index < 0) continue;
     const [red, green, blue] = await pixelAt(page, cellCentreLonLat(data, index));
@@ -333,7 +334,7 @@ test("the open map picks up a new survey without a reload, and its retraction to
   await signIn("dive-supervisor");
   const data = await openMap(page);
   const grid = data.grid!;
-  const untouched = MAP_STATUSES.indexOf("untouched");
+  const untouched = CELL_STATUSES.indexOf("untouched");
   // An untouched cell with in-limit neighbours on all sides, so a small survey covers it whole.
   const index = data.status.findIndex((code, cell) => code === untouched && [cell - 1, cell + 1, cell - grid.cols, cell + grid.cols, cell - grid.cols - 1, cell + grid.cols + 1].every((other) => (data.status[other] ?? -1) >= 0));
   expect(index, "the demo has an untouched cell").toBeGreaterThanOrEqual(0);

@@ -5,9 +5,9 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { SURVEYS, PROJECT } from "../../sample-data/scenario";
 import { CellResult, SurveySnapshot, getSequelize } from "~/lib/db.server";
-import { closeAppEnginePool } from "~/lib/engine-worker.server";
-import { recomputeProjectStatistics, serverEnginePool } from "~/lib/import/recompute.server";
-import { computeProjectSurfaces } from "~/lib/map/project-surfaces.server";
+import { closeAppEnginePool } from "~/lib/engine/engine-worker.server";
+import { computeProjectSurfaces, serverEnginePool } from "~/lib/engine/engine-state.server";
+import { recomputeProjectStatistics } from "~/lib/engine/recompute.server";
 import { DEMO_DIR, makeDemoSiteProject, postSurvey } from "./import-helpers";
 
 // The server computes an import's figures and the map's surfaces in its engine pool (worker

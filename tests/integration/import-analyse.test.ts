@@ -7,7 +7,7 @@ import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { ColumnMapping } from "~/lib/db.server";
 import { analyseStagedFile } from "~/lib/import/analyse.server";
 import { commitChoicesSchema, importOptionsSchema, type ImportOptions } from "~/lib/import/import-options";
-import { loadProjectGeometry } from "~/lib/import/project-geometry.server";
+import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { demoImportOptions } from "../../db/seeders/demo-surveys";
 import { DEMO_DIR, FIXTURES, counts, makeDemoSiteProject, postSurvey } from "./import-helpers";

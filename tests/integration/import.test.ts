@@ -62,7 +62,7 @@ function directTotals(surveys: Array<(typeof SURVEYS)[number]>) {
     settings,
   );
   // ft³ → yd³: 27 ft³ in a cubic yard (NIST SP 811).
-  return { plannedVolume: result.totals.plannedVolume / 27, removedVolume: result.totals.removedVolume / 27, remainingVolume: result.totals.remainingVolume / 27, cells: result.totals.cells };
+  return { plannedVolume: result.totals.plannedVolumeCubicLength / 27, removedVolume: result.totals.removedVolumeCubicLength / 27, remainingVolume: result.totals.remainingVolumeCubicLength / 27, cells: result.totals.cells };
 }
 
 function expectClose(actual: number, expected: number, relative = 1e-9) {

@@ -63,8 +63,8 @@ function engineOn(surveys: DemoSurvey[]) {
     settings,
   );
   const zones = rollUpZones(result.cellGrid, result.cells, ZONES.map((zone) => ({ id: zone.name, polygon: [project(zone.polygon.coordinates)] })));
-  const yd3 = (totals: { plannedVolume: number; removedVolume: number; remainingVolume: number; cells: number; cellsAtFirmSand: number }) => ({
-    plannedVolume: totals.plannedVolume / 27, removedVolume: totals.removedVolume / 27, remainingVolume: totals.remainingVolume / 27,
+  const yd3 = (totals: { plannedVolumeCubicLength: number; removedVolumeCubicLength: number; remainingVolumeCubicLength: number; cells: number; cellsAtFirmSand: number }) => ({
+    plannedVolume: totals.plannedVolumeCubicLength / 27, removedVolume: totals.removedVolumeCubicLength / 27, remainingVolume: totals.remainingVolumeCubicLength / 27,
     cells: totals.cells, cellsAtFirmSand: totals.cellsAtFirmSand,
   });
   return { total: yd3(result.totals), zones: new Map(zones.map((zone) => [zone.id, yd3(zone.totals)])) };

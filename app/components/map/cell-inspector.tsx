@@ -1,5 +1,6 @@
 import { useEffect, useState } from "react";
-import { STATUS_LABELS, type MapStatus } from "../../../shared/palette";
+import type { CellStatus } from "../../../shared/cell-status";
+import { STATUS_LABELS } from "../../../shared/palette";
 import { HistoryChart } from "./history-chart";
 import type { CellDetail } from "~/models/cells-presenter";
 import type { DiveView } from "~/models/dives.server";

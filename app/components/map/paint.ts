@@ -1,4 +1,5 @@
-import { MAP_STATUSES, STATUS_COLOURS, STATUS_LABELS, coolRamp, sedimentRamp } from "../../../shared/palette";
+import { CELL_STATUSES } from "../../../shared/cell-status";
+import { STATUS_COLOURS, STATUS_LABELS, coolRamp, sedimentRamp } from "../../../shared/palette";
 import type { CellsData } from "./cell-features";
 
 export type MapView = "status" | "thickness" | "removed";
@@ -35,7 +36,7 @@ function colourRule(view: MapView, data: CellsData): ColourRule {
 export function fillColour(view: MapView, data: CellsData): unknown {
   const rule = colourRule(view, data);
   if (rule.property === "s") {
-    return ["match", ["get", "s"], ...MAP_STATUSES.flatMap((status, code) => [code, STATUS_COLOURS[status]]), STATUS_COLOURS["no-data"]];
+    return ["match", ["get", "s"], ...CELL_STATUSES.flatMap((status, code) => [code, STATUS_COLOURS[status]]), STATUS_COLOURS["no-data"]];
   }
   const stepExpression: unknown[] = ["step", ["get", rule.property], rule.colours[0]];
   rule.steps.forEach((step, index) => stepExpression.push(step, rule.colours[index + 1]));
@@ -49,7 +50,7 @@ export function fillColour(view: MapView, data: CellsData): unknown {
 export function cellColour(view: MapView, data: CellsData): (index: number) => string {
   const rule = colourRule(view, data);
   const noData = STATUS_COLOURS["no-data"];
-  if (rule.property === "s") return (index) => STATUS_COLOURS[MAP_STATUSES[data.status[index]]] ?? noData;
+  if (rule.property === "s") return (index) => STATUS_COLOURS[CELL_STATUSES[data.status[index]]] ?? noData;
   const { steps, colours } = rule;
   return (index) => {
     if (data.status[index] === 0) return noData;
@@ -62,7 +63,7 @@ export function cellColour(view: MapView, data: CellsData): (index: number) => s
 }
 
 export function legendFor(view: MapView, data: CellsData): LegendEntry[] {
-  if (view === "status") return MAP_STATUSES.map((status) => ({ colour: STATUS_COLOURS[status], label: STATUS_LABELS[status] }));
+  if (view === "status") return CELL_STATUSES.map((status) => ({ colour: STATUS_COLOURS[status], label: STATUS_LABELS[status] }));
   const steps = view === "thickness" ? thicknessSteps(data) : removedSteps(data);
   const colours = view === "thickness" ? sedimentRamp(steps.length + 1) : coolRamp(steps.length + 1);
   const unit = view === "thickness" ? data.labels.length : data.labels.volume;

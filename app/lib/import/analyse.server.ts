@@ -10,7 +10,7 @@ import { ColumnMapping, Survey } from "../db.server";
 import { resolveCrsDefinition } from "../epsg.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
 import { previousBottomBins } from "./previous-bottom.server";
-import type { ProjectGeometry } from "./project-geometry.server";
+import type { ProjectGeometry } from "../engine/project-geometry.server";
 
 /**
  * The import's analysis on the server: reads the staged file (streamed) and what the project

@@ -6,7 +6,7 @@ import { Project, Survey, getSequelize } from "../db.server";
 import type { ImportOptions } from "./import-options";
 import { insertSoundings } from "./insert-soundings.server";
 import { withProjectLock } from "./project-lock.server";
-import { recomputeProjectStatistics } from "./recompute.server";
+import { recomputeProjectStatistics } from "../engine/recompute.server";
 
 /**
  * Stores a survey in ONE transaction: the survey row, its soundings (bulk), the recomputed cell

@@ -5,7 +5,7 @@ import { EXPIRED_STAGE } from "./abandoned-uploads.server";
 import { analyseStagedFile } from "./analyse.server";
 import { commitSurvey, type CommitSurveyInput, type CommittedSurvey } from "./commit.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
-import { loadProjectGeometry } from "./project-geometry.server";
+import { loadProjectGeometry } from "../engine/project-geometry.server";
 import { discardStagedFile, type StagedFile } from "./stage-upload.server";
 
 /**

@@ -2,73 +2,79 @@ import { existsSync } from "node:fs";
 import { createRequire } from "node:module";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
-import { createCellGrid } from "../../shared/grid/cell-grid";
-import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
+import type { ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
 import {
+  addSurfaceSummaries,
   computeVolumesFromRasters,
   computeVolumesFromSurfaces,
   firmSharesBaselinePositions,
+  layGridLines,
   prepareGrids,
-  rasterGridFor,
+  clipToMask,
   type EngineResult,
   type EngineSettings,
   type EngineSurfaces,
   type EngineSurveys,
   type ProgressCallback,
-  type SurfaceSummary,
-} from "../../shared/pipeline";
-import type { RasterGrid, RasterPrecision, RasterValues } from "../../shared/surface/raster";
-import type { Tin } from "../../shared/surface/triangulate";
-import type { ComputationSurvey, ProjectComputation, ProjectComputationInput } from "./import/project-computation";
-import type { LatestSurfacesInput, ProjectSurfaces } from "./map/latest-surfaces";
+} from "../../../shared/pipeline";
+import type { Tin } from "../../../shared/surface/triangulate";
+import type { SurveyKind } from "../../../shared/surveys-in-force";
+import type { ComputationSurvey } from "./engine-surveys";
+import type { Bands, BandsInput } from "./project-bands";
+import type { SurveyWork, SurveyWorkDone, SurveyWorkSettings } from "./survey-work";
+import { gatherSurveyWork, planProjectWork, type ProjectState, type ProjectStateInput, type SampledProjectInput } from "./project-state";
 
 /**
  * A small pool of worker threads for the engine's heavy work, so it never blocks the web
- * server's event loop: each survey's triangulation and rasterisation (the CLI, the benchmark), a
- * project's whole figures computation (an import commit or retraction) and the map's latest
- * surfaces. Inputs are copied in, or transferred when the caller says it is done with them;
- * results come back as transferred buffers. The pool is long-lived: a thread takes tens of
- * milliseconds to start. Idle threads do not hold the process open; `close()` ends them.
+ * server's event loop. A project's engine state (project-state.ts) runs as one job per survey
+ * (triangulated and sampled in parallel when there are several threads) and then one job that
+ * lays the grids and computes the state from the rasters; the command line and the benchmark
+ * triangulate surveys the same way. Inputs are copied in, or transferred when the caller says it
+ * is done with them; results come back as transferred buffers. The pool is long-lived: a thread
+ * takes tens of milliseconds to start. Idle threads do not hold the process open; `close()` ends them.
  *
  * The worker entry is engine-worker.thread.ts when running from sources (tsx: development, the
  * CLI, the benchmark, Vitest) and engine-worker.thread.mjs beside the server bundle in the
  * production build (emitted by the build: see vite.config.ts).
  */
-export interface SurfaceJob {
-  kind?: undefined;
+
+/** One survey's TINs (one per value layer), without a raster: the command line without a work limit. */
+export interface TinJob {
+  kind: "tins";
   id: number;
   easting: Float64Array;
   northing: Float64Array;
   layers: Float64Array[];
   maxEdge: number;
-  /** Sample in the worker and return rasters (not clipped: the main thread applies the mask). */
-  raster?: { grid: RasterGrid; precision: RasterPrecision };
 }
 
-/** A project's figures (computeProjectFigures), progress reported back as it goes. */
-export interface FiguresJob {
-  kind: "figures";
+/** One survey's work: triangulated and sampled, and/or counted per cell (survey-work.ts). */
+export interface SurveyWorkJob {
+  kind: "survey";
   id: number;
-  input: ProjectComputationInput;
+  work: SurveyWork;
+  settings: SurveyWorkSettings;
 }
 
-/** The map's latest surfaces (computeLatestSurfaces). */
-export interface LatestSurfacesJob {
-  kind: "surfaces";
+/** A project's engine state from its sampled surveys (project-state.ts, step 2), progress reported back as it goes. */
+export interface StateJob {
+  kind: "state";
   id: number;
-  input: LatestSurfacesInput;
+  input: SampledProjectInput;
 }
 
-export type EngineJob = SurfaceJob | FiguresJob | LatestSurfacesJob;
-type NewJob = SurfaceJobWithoutId | Omit<FiguresJob, "id"> | Omit<LatestSurfacesJob, "id">;
-type SurfaceJobWithoutId = Omit<SurfaceJob, "id">;
+/** Filled contour bands of one surface of the state, in lon/lat (shared/bands.ts). */
+export interface BandsJob {
+  kind: "bands";
+  id: number;
+  input: BandsInput;
+}
 
-export type SurfaceReply =
-  | { id: number; tins: Tin[]; rasters?: undefined; summary?: undefined; error?: undefined }
-  | { id: number; rasters: RasterValues[]; summary: SurfaceSummary; tins?: undefined; error?: undefined };
+export type EngineJob = TinJob | SurveyWorkJob | StateJob | BandsJob;
+type NewJob = Omit<TinJob, "id"> | Omit<SurveyWorkJob, "id"> | Omit<StateJob, "id"> | Omit<BandsJob, "id">;
 
 export type EngineReply =
-  | { id: number; done: SurfaceReply | { figures: ProjectComputation | null } | { surfaces: ProjectSurfaces | null } }
+  | { id: number; done: { tins: Tin[] } | { survey: SurveyWorkDone } | { state: ProjectState } | { bands: Bands } }
   | { id: number; progress: { stage: string; fraction: number } }
   | { id: number; error: string };
 
@@ -119,11 +125,6 @@ function tsxApiUrl(): string {
   }
 }
 
-function clipToMask(values: RasterValues, mask: Uint8Array): RasterValues {
-  for (let node = 0; node < mask.length; node++) if (mask[node] === 0) values[node] = Number.NaN;
-  return values;
-}
-
 /**
  * An array that owns its whole buffer, so the buffer can cross to a thread without carrying (or
  * detaching) anything else: a view into a larger buffer is copied first.
@@ -132,15 +133,45 @@ function ownBuffer<T extends Float64Array>(array: T): T {
   return array.byteOffset === 0 && array.byteLength === array.buffer.byteLength ? array : (array.slice() as T);
 }
 
+/**
+ * The survey work items as they go to the threads, each with the buffers it may take: a buffer
+ * of a survey the caller hands over (`transferIds`), or one the plan made itself (the firm-sand
+ * points), and that no other item reads. Everything else is copied; a column that is a view into
+ * a larger buffer is copied first, so neither the whole buffer crosses nor is taken.
+ */
+function movableWork(surveys: readonly ComputationSurvey[], work: readonly SurveyWork[], transferIds: ReadonlySet<number>) {
+  const ownerOf = new Map<ArrayBufferLike, number>();
+  for (const survey of surveys) {
+    for (const column of [survey.easting, survey.northing, survey.elevation, survey.refusalElevation]) if (column) ownerOf.set(column.buffer, survey.id);
+  }
+  const columnsOf = (item: SurveyWork) => [item.easting, item.northing, item.elevation, item.refusalElevation].filter((column): column is Float64Array => Boolean(column));
+  const readers = new Map<ArrayBufferLike, number>();
+  for (const item of work) for (const buffer of new Set(columnsOf(item).map((column) => column.buffer))) readers.set(buffer, (readers.get(buffer) ?? 0) + 1);
+  return work.map((item) => {
+    const transfer = new Set<ArrayBuffer>();
+    const prepare = <Column extends Float64Array | null | undefined>(column: Column): Column => {
+      if (!column) return column;
+      const owner = ownerOf.get(column.buffer);
+      const movable = (owner === undefined || transferIds.has(owner)) && readers.get(column.buffer) === 1;
+      const own = ownBuffer(column);
+      if (movable || own !== column) transfer.add(own.buffer as ArrayBuffer);
+      return own as Column;
+    };
+    const prepared: SurveyWork = { ...item, easting: prepare(item.easting), northing: prepare(item.northing), elevation: prepare(item.elevation) };
+    if (item.refusalElevation !== undefined) prepared.refusalElevation = prepare(item.refusalElevation);
+    return { work: prepared, transfer: [...transfer] };
+  });
+}
+
 export interface PoolRunOptions {
   /** Hand the survey buffers to the workers instead of copying them; the caller's arrays become unusable. */
   transferInputs?: boolean;
 }
 
-export interface FiguresRunOptions {
+export interface StateRunOptions {
   onProgress?: ProgressCallback;
   /**
-   * Ids of the surveys whose arrays the caller is done with: their buffers move to the thread
+   * Ids of the surveys whose arrays the caller is done with: their buffers move to the threads
    * (no copy) and become unusable here. The others are copied.
    */
   transferSurveys?: ReadonlySet<number>;
@@ -228,60 +259,74 @@ export class EngineWorkerPool {
     });
   }
 
-  private run(job: Omit<SurfaceJob, "id">, transferInputs: boolean): Promise<SurfaceReply> {
-    const transfer = transferInputs ? [...new Set([job.easting, job.northing, ...job.layers].map((array) => array.buffer as ArrayBuffer))] : [];
-    return this.submit<SurfaceReply>(job, transfer);
-  }
-
   /**
-   * `computeProjectFigures` in a thread: the same figures, without blocking this thread. Survey
-   * arrays are copied unless listed in `transferSurveys`.
+   * A project's engine state (`computeProjectState` in project-state.ts) without blocking this
+   * thread: one job per survey, spread over the threads, then one job for the state. Survey
+   * arrays are copied unless listed in `transferSurveys`. Null when no baseline is in force.
    */
-  computeProjectFigures(input: ProjectComputationInput, options: FiguresRunOptions = {}): Promise<ProjectComputation | null> {
-    const { surveys, transfer } = this.prepareSurveys(input.surveys, options.transferSurveys);
-    return this.submit<{ figures: ProjectComputation | null }>({ kind: "figures", input: { ...input, surveys } }, transfer, options.onProgress).then((done) => done.figures);
+  async computeProjectState(input: ProjectStateInput, options: StateRunOptions = {}): Promise<ProjectState | null> {
+    const work = planProjectWork(input);
+    if (work === null) return null;
+    const items = movableWork(input.surveys, work.plan.work, options.transferSurveys ?? new Set());
+    let finished = 0;
+    const done = await Promise.all(
+      items.map(({ work: item, transfer }) =>
+        this.submit<{ survey: SurveyWorkDone }>({ kind: "survey", work: item, settings: work.settings }, transfer).then((reply) => {
+          options.onProgress?.("triangulate", ++finished / items.length);
+          return reply.survey;
+        }),
+      ),
+    );
+    const { surveys: _surveys, ...rest } = input;
+    const dated = (survey: { id: number; kind: SurveyKind; surveyedOn: string }) => ({ id: survey.id, kind: survey.kind, surveyedOn: survey.surveyedOn });
+    const gathered = gatherSurveyWork(work.plan, done);
+    const stateInput: SampledProjectInput = {
+      ...rest,
+      inForce: { baseline: dated(work.inForce.baseline), later: work.inForce.later.map(dated) },
+      lines: work.lines,
+      ...gathered,
+    };
+    const transfer = [...new Set([gathered.sampled.muckTop, gathered.sampled.firm, ...gathered.sampled.progress, ...gathered.soundingsPerCell].map((array) => array.buffer as ArrayBuffer))];
+    const reply = await this.submit<{ state: ProjectState }>({ kind: "state", input: stateInput }, transfer, options.onProgress);
+    return reply.state;
   }
 
-  /** `computeLatestSurfaces` in a thread (the map's surfaces); surveys as in `computeProjectFigures`. */
-  computeLatestSurfaces(input: LatestSurfacesInput, options: { transferSurveys?: ReadonlySet<number> } = {}): Promise<ProjectSurfaces | null> {
-    const { surveys, transfer } = this.prepareSurveys(input.surveys, options.transferSurveys);
-    return this.submit<{ surfaces: ProjectSurfaces | null }>({ kind: "surfaces", input: { ...input, surveys } }, transfer).then((done) => done.surfaces);
+  /** Contour bands (`computeProjectBands`) in a thread; the raster is copied, the bands come back. */
+  async computeProjectBands(input: BandsInput): Promise<Bands> {
+    return (await this.submit<{ bands: Bands }>({ kind: "bands", input }, [])).bands;
   }
 
-  private prepareSurveys(surveys: ComputationSurvey[], transferIds: ReadonlySet<number> = new Set()) {
-    const transfer = new Set<ArrayBuffer>();
-    const prepared = surveys.map((survey) => {
-      const columns = { easting: ownBuffer(survey.easting), northing: ownBuffer(survey.northing), elevation: ownBuffer(survey.elevation), refusalElevation: survey.refusalElevation && ownBuffer(survey.refusalElevation) };
-      if (transferIds.has(survey.id)) for (const array of Object.values(columns)) if (array) transfer.add(array.buffer as ArrayBuffer);
-      return { ...survey, ...columns };
-    });
-    return { surveys: prepared, transfer: [...transfer] };
-  }
-
-  private jobsFor(surveys: EngineSurveys): Array<{ easting: Float64Array; northing: Float64Array; layers: Float64Array[] }> {
+  private tinJobs(surveys: EngineSurveys): Array<Omit<TinJob, "id" | "maxEdge">> {
     const { baseline, firm } = surveys;
     const shared = firmSharesBaselinePositions(surveys);
     return [
-      { easting: baseline.easting, northing: baseline.northing, layers: shared ? [baseline.elevation, firm.elevation] : [baseline.elevation] },
-      ...(shared ? [] : [{ easting: firm.easting, northing: firm.northing, layers: [firm.elevation] }]),
-      ...surveys.progress.map((survey) => ({ easting: survey.easting, northing: survey.northing, layers: [survey.elevation] })),
+      { kind: "tins", easting: baseline.easting, northing: baseline.northing, layers: shared ? [baseline.elevation, firm.elevation] : [baseline.elevation] },
+      ...(shared ? [] : [{ kind: "tins" as const, easting: firm.easting, northing: firm.northing, layers: [firm.elevation] }]),
+      ...surveys.progress.map((survey) => ({ kind: "tins" as const, easting: survey.easting, northing: survey.northing, layers: [survey.elevation] })),
     ];
+  }
+
+  private static inputTransfer(job: { easting: Float64Array; northing: Float64Array; layers: Float64Array[] }, transferInputs: boolean): ArrayBuffer[] {
+    return transferInputs ? [...new Set([job.easting, job.northing, ...job.layers].map((array) => array.buffer as ArrayBuffer))] : [];
   }
 
   /** Every survey's TIN, in parallel; the same result as `triangulateSurveys` in shared/pipeline. */
   async triangulateSurveys(surveys: EngineSurveys, maxEdge: number, options: PoolRunOptions = {}): Promise<EngineSurfaces> {
-    const replies = await Promise.all(this.jobsFor(surveys).map((job) => this.run({ ...job, maxEdge }, options.transferInputs ?? false)));
-    const tins = replies.flatMap((reply) => reply.tins ?? []);
+    const replies = await Promise.all(
+      this.tinJobs(surveys).map((job) => this.submit<{ tins: Tin[] }>({ ...job, maxEdge }, EngineWorkerPool.inputTransfer(job, options.transferInputs ?? false))),
+    );
+    const tins = replies.flatMap((reply) => reply.tins);
     // Layers on the same soundings share their coordinate and triangle buffers; structured cloning keeps that sharing.
     const [baseline, firm, ...progress] = tins;
     return { baseline, firm, progress };
   }
 
   /**
-   * The whole computation with the surveys triangulated and sampled in parallel. With a work limit
-   * the raster grid is known before any triangulation, so each thread samples its own surfaces and
-   * only rasters cross back; the main thread lays the mask meanwhile. Without one the limit is the
-   * baseline's hull, which needs the baseline TIN first.
+   * The whole computation of two surveys' volumes (the command line, the benchmark) with the
+   * surveys triangulated and sampled in parallel. With a work limit the raster grid is known
+   * before any triangulation, so each thread samples its own surfaces and only rasters cross
+   * back; this thread lays the mask meanwhile. Without one the limit is the baseline's hull, which
+   * needs the baseline TIN first.
    */
   async computeSurveyVolumes(
     surveys: EngineSurveys,
@@ -295,25 +340,32 @@ export class EngineWorkerPool {
       onProgress?.("triangulate", 1);
       return computeVolumesFromSurfaces(surfaces, null, settings, onProgress);
     }
-    const precision = settings.rasterPrecision ?? "float64";
-    const cellGrid = createCellGrid(workLimit, { cellSize: settings.cellSize, originX: settings.originX, originY: settings.originY, rotationDegrees: settings.rotationDegrees });
-    const grid = rasterGridFor(workLimit, cellGrid, settings.resolution);
+    const lines = layGridLines(workLimit, settings);
+    const workSettings: SurveyWorkSettings = { maxEdge: settings.maxEdge, rasterGrid: lines.rasterGrid, precision: settings.rasterPrecision ?? "float64", cellGrid: lines.cellGrid };
+    const { baseline, firm } = surveys;
+    // The baseline's work samples firm sand too when the probe sits on its soundings; firm points of their own are a job of their own.
+    const shared = firmSharesBaselinePositions(surveys);
+    const work: SurveyWork[] = [
+      { easting: baseline.easting, northing: baseline.northing, elevation: baseline.elevation, ...(shared ? { refusalElevation: firm.elevation } : {}), count: false },
+      ...(shared ? [] : [{ easting: firm.easting, northing: firm.northing, elevation: firm.elevation, count: false }]),
+      ...surveys.progress.map((survey) => ({ easting: survey.easting, northing: survey.northing, elevation: survey.elevation, count: false })),
+    ];
     const pending = Promise.all(
-      this.jobsFor(surveys).map((job) => this.run({ ...job, maxEdge: settings.maxEdge, raster: { grid, precision } }, options.transferInputs ?? false)),
+      work.map((item) =>
+        this.submit<{ survey: SurveyWorkDone }>(
+          { kind: "survey", work: item, settings: workSettings },
+          EngineWorkerPool.inputTransfer({ easting: item.easting, northing: item.northing, layers: [item.elevation!, ...(item.refusalElevation ? [item.refusalElevation] : [])] }, options.transferInputs ?? false),
+        ),
+      ),
     );
-    const grids = prepareGrids(workLimit, settings, onProgress);
-    const replies = await pending;
+    const grids = prepareGrids(workLimit, settings, onProgress, lines);
+    const replies = (await pending).map((reply) => reply.survey);
     onProgress?.("triangulate + raster (threads)", 1);
-    const rasters = replies.flatMap((reply) => reply.rasters ?? []).map((values) => clipToMask(values, grids.mask));
-    const [muckTop, firm, ...progress] = rasters;
-    const summaries = replies.map((reply) => reply.summary!);
-    const surfaces: SurfaceSummary = {
-      duplicatesMerged: summaries.reduce((sum, summary) => sum + summary.duplicatesMerged, 0),
-      longTrianglesDropped: summaries.reduce((sum, summary) => sum + summary.longTrianglesDropped, 0),
-      invalidSkipped: summaries.reduce((sum, summary) => sum + summary.invalidSkipped, 0),
-    };
+    const rasters = replies.flatMap((reply) => reply.rasters).map((values) => clipToMask(values, grids.mask));
+    const [muckTop, firmSand, ...progress] = rasters;
+    const surfaces = addSurfaceSummaries(replies.map((reply) => reply.summary!));
     onProgress?.("clip", 1);
-    return computeVolumesFromRasters(grids, { muckTop, firm, progress, surfaces }, settings, onProgress);
+    return computeVolumesFromRasters(grids, { muckTop, firm: firmSand, progress, surfaces }, settings, onProgress);
   }
 
   /** Run a full garbage collection in every idle thread (benchmarks call this between runs). */

@@ -5,7 +5,7 @@ import type { EngineSettings } from "../../../shared/pipeline";
 import type { LengthUnit } from "../../../shared/units";
 import { Project, Zone } from "../db.server";
 import { resolveCrsDefinition } from "../epsg.server";
-import type { ComputationZone } from "./project-computation";
+import type { ComputationZone } from "./project-figures";
 
 /**
  * A project's geometry in its own projected CRS: the work limit and zones (stored as lon/lat
@@ -38,6 +38,57 @@ export function surveyNoiseFor(tolerance: number): number {
   return tolerance;
 }
 
+/**
+ * A project's grid and engine rules in the words the engine and the map use (`originX`,
+ * `originY`, `rotationDegrees`, as in shared/grid/cell-grid). The database columns keep their
+ * first names (gridOriginE, gridOriginN, rotationDeg): they are read here and nowhere else, so
+ * renaming them would need a migration and nothing more.
+ */
+export interface ProjectGrid {
+  /** Grid origin, project coordinates. */
+  originX: number;
+  originY: number;
+  /** Counter-clockwise from east. */
+  rotationDegrees: number;
+  cellSize: number;
+  rasterResolution: number;
+  maxEdge: number;
+  tolerance: number;
+  firmShare: number;
+  minCoverage: number;
+}
+
+export function projectGrid(project: Project): ProjectGrid {
+  return {
+    originX: project.gridOriginE,
+    originY: project.gridOriginN,
+    rotationDegrees: project.rotationDeg,
+    cellSize: project.cellSize,
+    rasterResolution: project.rasterResolution,
+    maxEdge: project.maxEdge,
+    tolerance: project.tolerance,
+    firmShare: project.firmShare,
+    minCoverage: project.minCoverage,
+  };
+}
+
+/** The engine's settings for a project's grid. */
+export function engineSettingsFor(grid: ProjectGrid): EngineSettings {
+  return {
+    cellSize: grid.cellSize,
+    resolution: grid.rasterResolution,
+    maxEdge: grid.maxEdge,
+    originX: grid.originX,
+    originY: grid.originY,
+    rotationDegrees: grid.rotationDegrees,
+    tolerance: grid.tolerance,
+    firmShare: grid.firmShare,
+    minCoverage: grid.minCoverage,
+    surveyNoise: surveyNoiseFor(grid.tolerance),
+    rasterPrecision: "float32",
+  };
+}
+
 export async function loadProjectGeometry(projectId: number, transaction?: Transaction): Promise<ProjectGeometry> {
   const project = await Project.findByPk(projectId, { transaction });
   if (!project) throw new Error(`project ${projectId} does not exist`);
@@ -50,18 +101,6 @@ export async function loadProjectGeometry(projectId: number, transaction?: Trans
     lengthUnit: project.lengthUnit,
     workLimit: project.workLimitGeoJson ? projectGeoJson(crs, project.workLimitGeoJson) : null,
     zones: zones.map((zone) => ({ id: zone.id, name: zone.name, polygon: projectGeoJson(crs, zone.polygonGeoJson) })),
-    settings: {
-      cellSize: project.cellSize,
-      resolution: project.rasterResolution,
-      maxEdge: project.maxEdge,
-      originX: project.gridOriginE,
-      originY: project.gridOriginN,
-      rotationDegrees: project.rotationDeg,
-      tolerance: project.tolerance,
-      firmShare: project.firmShare,
-      minCoverage: project.minCoverage,
-      surveyNoise: surveyNoiseFor(project.tolerance),
-      rasterPrecision: "float32",
-    },
+    settings: engineSettingsFor(projectGrid(project)),
   };
 }
