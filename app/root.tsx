@@ -1,8 +1,8 @@
 import { Form, Link, Links, Meta, Outlet, Scripts, ScrollRestoration, isRouteErrorResponse, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
-import { getOptionalUser } from "./lib/access.server";
-import { applyFramePolicy } from "./lib/frame-policy.server";
-import { assertSameOrigin } from "./lib/origin.server";
+import { getOptionalUser } from "./lib/auth/access.server";
+import { applyFramePolicy } from "./lib/http/frame-policy.server";
+import { assertSameOrigin } from "./lib/http/origin.server";
 import "./app.css";
 
 // Every mutating request (any route, any form) passes this Origin check first; every response

@@ -4,7 +4,7 @@ import { z } from "zod";
 
 // The database connection's settings, parsed once with zod at first use. They live beside the
 // connection so that nothing under db/ reads the app's modules (the app's own environment is
-// app/lib/env.server.ts).
+// app/lib/settings/env.server.ts).
 
 /** Where the bring-up scripts keep per-machine secrets (git-ignored). */
 export const DATA_DIR = resolve(process.cwd(), ".data");

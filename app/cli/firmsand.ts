@@ -3,7 +3,7 @@ import { z } from "zod";
 import type { ComputationSurvey } from "../lib/engine/engine-surveys";
 import { firmPoints } from "../lib/engine/survey-work";
 import { EngineWorkerPool } from "../lib/engine/engine-worker.server";
-import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/epsg.server";
+import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/geo/epsg.server";
 import { createCrs, type Crs } from "../../shared/crs";
 import type { ProjectedMultiPolygon, Ring } from "../../shared/grid/work-limit";
 import { computeSurveyVolumes, type EngineResult, type EngineSettings, type SurveyPoints } from "../../shared/pipeline";

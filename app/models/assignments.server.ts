@@ -7,11 +7,11 @@ import { convertLength } from "../../shared/units";
 import { Assignment, DiveTeam, getSequelize, type DiveTeamMember } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { getProjectSurfaces } from "~/lib/engine/engine-state.server";
-import { sendMail } from "~/lib/mail.server";
-import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
+import { sendMail } from "~/lib/mail/mail.server";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { getCellsPayload, type CellsPayload } from "./cells.server";
-import type { ProjectView } from "./project.server";
-import type { UserView } from "./user.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
 
 /** Dive plans: the day's cells per team, refused when a cell would go to two teams on one day. */
 

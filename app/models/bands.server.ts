@@ -1,9 +1,9 @@
 import { depthThresholds, remainingThicknessThresholds } from "../../shared/bands";
-import { resolveCrsDefinition } from "~/lib/epsg.server";
-import { BoundedCache } from "~/lib/bounded-cache";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
+import { BoundedCache } from "~/lib/cache/bounded-cache";
 import { getProjectSurfaces, projectRecomputeStamp, serverEnginePool } from "~/lib/engine/engine-state.server";
 import { computeProjectBands, type Bands, type BandsInput } from "~/lib/engine/project-bands";
-import type { ProjectView } from "./project.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
 
 export type BandSurface = "remaining" | "depth";
 

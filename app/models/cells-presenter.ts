@@ -1,3 +1,4 @@
+import type { CellVolumes } from "../../shared/volumes/figure-totals";
 import { cellIndex, type CellGrid } from "../../shared/grid/cell-grid";
 import { CELL_STATUSES, type CellStatus } from "../../shared/cell-status";
 import { OUTSIDE_WORK_LIMIT } from "../../shared/palette";
@@ -110,15 +111,11 @@ export function presentCellsPayload(input: CellsPresenterInput): CellsPayload {
 }
 
 /** A stored cell's figures as every cell view shows them (inspector, quantities export). */
-export interface StoredCellFigures<Status extends string = string> {
+export interface StoredCellFigures<Status extends string = string> extends CellVolumes {
   label: string;
   row: number;
   col: number;
   status: Status;
-  plannedVolume: number;
-  removedVolume: number;
-  depositedVolume: number;
-  remainingVolume: number;
   meanRemainingThickness: number | null;
   coverage: number;
   areaInLimit: number;

@@ -6,10 +6,10 @@ export type { CellDetail } from "./cells-presenter";
 import { CellResult, Project, SurveySnapshot, Zone } from "~/lib/db.server";
 import { createHash } from "node:crypto";
 import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/engine/engine-state.server";
-import { BoundedCache } from "~/lib/bounded-cache";
-import { resolveCrsDefinition } from "~/lib/epsg.server";
+import { BoundedCache } from "~/lib/cache/bounded-cache";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
-import type { ProjectView } from "./project.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
 
 export type { CellsPayload } from "./cells-presenter";
 
@@ -84,47 +84,4 @@ async function markCellsInLimit(project: ProjectView, grid: CellGrid, status: nu
       if (isInsideWorkLimit(geometry.workLimit, easting, northing)) status[localRow * grid.cols + localCol] = noData;
     }
   }
-}
-
-/** The inverse of cellLabel ("B12" → row 11, col 1; "-A-2" → row −2, col −1); null for anything else. */
-export function parseCellLabel(label: string): { row: number; col: number } | null {
-  const match = /^(-?)([A-Z]{1,4})(-?)(\d{1,7})$/.exec(label.trim().toUpperCase());
-  if (!match) return null;
-  let letters = 0;
-  for (const letter of match[2]) letters = letters * 26 + (letter.charCodeAt(0) - 64);
-  const number = Number(match[4]);
-  if (number === 0) return null;
-  const col = match[1] ? -letters : letters - 1;
-  const row = match[3] ? -number : number - 1;
-  return { row, col };
-}
-
-
-/** One cell's figures, soundings, history across survey dates and its assignments; null when the cell has no figures. */
-export async function getCellDetail(project: ProjectView, label: string): Promise<CellDetail | null> {
-  const position = parseCellLabel(label);
-  if (!position) return null;
-  const cell = await CellResult.findOne({ where: { projectId: project.id, row: position.row, col: position.col }, include: [{ model: Zone, as: "zone", attributes: ["name"] }] });
-  if (!cell) return null;
-  const snapshots = await SurveySnapshot.findAll({ where: { projectId: project.id }, order: [["surveyedOn", "ASC"]] });
-  const history = snapshots.map((snapshot) => {
-    const localRow = position.row - snapshot.firstRow, localCol = position.col - snapshot.firstCol;
-    const inside = localRow >= 0 && localRow < snapshot.cellRows && localCol >= 0 && localCol < snapshot.cellCols;
-    const index = localRow * snapshot.cellCols + localCol;
-    const float = (blob: Buffer) => (inside ? Number(blob.readFloatLE(index * 4).toFixed(1)) : 0);
-    const code = inside ? snapshot.statuses[index] : 255;
-    return { date: snapshot.surveyedOn, remainingVolume: float(snapshot.remainingVolumes), removedVolume: float(snapshot.removedVolumes), status: CELL_STATUSES[code] ?? null };
-  });
-  const surfaces = await getProjectSurfaces(project.id);
-  const engineIndex = surfaces ? cellIndex(surfaces.result.cellGrid, position.row, position.col) : -1;
-  const depth = engineIndex >= 0 ? surfaces!.cellMaxDepth[engineIndex] : Number.NaN;
-  const { cellAssignments } = await import("./assignments.server");
-  return {
-    ...presentStoredCellFigures(cell),
-    zone: (cell as CellResult & { zone?: Zone | null }).zone?.name ?? null,
-    soundings: engineIndex >= 0 ? surfaces!.soundingsPerCell[engineIndex] : null,
-    workingDepth: Number.isFinite(depth) ? Math.round(depth * 100) / 100 : null,
-    history,
-    assignments: await cellAssignments(project, cell.row, cell.col),
-  };
 }

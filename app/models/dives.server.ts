@@ -1,13 +1,13 @@
 import { Op } from "sequelize";
+import { parseCellLabel } from "../../shared/grid/cell-grid";
 import { z } from "zod";
 import { NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE } from "../../shared/no-decompression";
 import { Assignment, Dive, DiveCell, DiveTeam, getSequelize } from "~/lib/db.server";
 import { NotFoundError, ValidationError } from "~/lib/errors";
 import { noDecompressionInfo, workDateSchema, type NoDecompressionInfo } from "./assignments.server";
-import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
-import { parseCellLabel } from "./cells.server";
-import type { ProjectView } from "./project.server";
-import type { UserView } from "./user.server";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
 
 /**
  * The dive log: dives actually made on the day's assigned cells. A logged bottom time beyond the

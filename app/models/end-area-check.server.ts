@@ -1,7 +1,7 @@
 import { cubicToVolumeUnit } from "../../shared/units";
-import { BoundedCache } from "~/lib/bounded-cache";
+import { BoundedCache } from "~/lib/cache/bounded-cache";
 import { getEngineState, projectRecomputeStamp } from "~/lib/engine/engine-state.server";
-import type { ProjectView } from "./project.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
 
 /**
  * The end-area cross-check of the removed volume for a project, as the progress page shows it:

@@ -1,13 +1,13 @@
 import { Op, type Transaction } from "sequelize";
 import { Invitation, Membership, Project, User, getSequelize, type Role } from "~/lib/db.server";
 import { ConflictError } from "~/lib/errors";
-import { sendMail } from "~/lib/mail.server";
-import { hashPassword, verifyPassword } from "~/lib/password.server";
-import { createLinkToken, hashLinkToken } from "~/lib/tokens.server";
-import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
+import { sendMail } from "~/lib/mail/mail.server";
+import { hashPassword, verifyPassword } from "~/lib/auth/password.server";
+import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { isMemberByEmail } from "./membership.server";
-import type { ProjectView } from "./project.server";
-import { normaliseEmail, presentUser, type UserView } from "./user.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import { normaliseEmail, presentUser, type UserView } from "~/lib/auth/users.server";
 
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
 

@@ -1,7 +1,7 @@
 import { Shoreline, Zone } from "~/lib/db.server";
 import { STATUS_COLOURS } from "../../shared/palette";
-import { findProject } from "./project.server";
-import type { ProjectView } from "./project.server";
+import { findProject } from "~/lib/auth/project-view.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
 
 /**
  * The map's offline style: no tiles, no CDN, no glyphs URL. Everything drawn comes from the

@@ -1,8 +1,8 @@
 import { Membership, User, getSequelize, type Role } from "~/lib/db.server";
 import { ConflictError, NotFoundError } from "~/lib/errors";
-import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
-import type { ProjectView } from "./project.server";
-import type { UserView } from "./user.server";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
 
 export interface MemberView {
   membershipId: number;

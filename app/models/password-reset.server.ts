@@ -1,10 +1,10 @@
 import type { Transaction } from "sequelize";
 import { Membership, PasswordReset, User, getSequelize } from "~/lib/db.server";
-import { sendMail } from "~/lib/mail.server";
-import { hashPassword } from "~/lib/password.server";
-import { createLinkToken, hashLinkToken } from "~/lib/tokens.server";
-import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
-import { normaliseEmail } from "./user.server";
+import { sendMail } from "~/lib/mail/mail.server";
+import { hashPassword } from "~/lib/auth/password.server";
+import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import { normaliseEmail } from "~/lib/auth/users.server";
 
 export const PASSWORD_RESET_LIFETIME_MS = 60 * 60 * 1000;
 

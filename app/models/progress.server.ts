@@ -1,3 +1,4 @@
+import type { CellCounts, CellVolumes } from "../../shared/volumes/figure-totals";
 import { Op } from "sequelize";
 import { forecastFinish, type ZoneForecast } from "../../shared/progress/forecast";
 import { percentCellsAtFirmSand, percentCompleteByVolume } from "../../shared/progress/percent-complete";
@@ -7,7 +8,7 @@ import { workingCalendar, type WorkingDayBasis } from "../../shared/progress/wor
 import { unitLabel, volumeUnitFor, type VolumeUnit } from "../../shared/units";
 import { Assignment, CellResult, Survey, SurveySnapshot, Zone, getSequelize } from "~/lib/db.server";
 import { loadEndAreaCrossCheck, type EndAreaCrossCheck } from "./end-area-check.server";
-import type { ProjectView } from "./project.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
 
 /**
  * The project's progress as the manager reads it: per zone and for the project, the latest
@@ -15,21 +16,12 @@ import type { ProjectView } from "./project.server";
  * working day and a forecast finish per zone. Plain objects only.
  */
 
-export interface ProgressFigures {
-  /** Project volume unit. */
-  plannedVolume: number;
-  removedVolume: number;
-  remainingVolume: number;
+/** Volumes in the project's volume unit. */
+export interface ProgressFigures extends Omit<CellVolumes, "depositedVolume">, CellCounts {
   /** 0–100; null without a planned volume. */
   percentCompleteByVolume: number | null;
   /** 0–100; null without cells. */
   percentCellsAtFirmSand: number | null;
-  cells: number;
-  cellsAtFirmSand: number;
-  cellsConfirmed: number;
-  cellsInWork: number;
-  cellsUntouched: number;
-  cellsNoData: number;
   /** Date of the newest survey that supplies any of these cells' latest bottom. */
   lastSurveyOn: string | null;
 }

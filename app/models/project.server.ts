@@ -1,36 +1,6 @@
 import { Membership, Project, Zone, type LengthUnit, type Role } from "~/lib/db.server";
-import { projectGrid, type ProjectGrid } from "~/lib/engine/project-geometry.server";
-import type { UserView } from "./user.server";
-
-export interface ProjectView {
-  id: number;
-  name: string;
-  slug: string;
-  description: string;
-  crs: string;
-  lengthUnit: LengthUnit;
-  grid: ProjectGrid;
-  minTeamSize: number;
-  hasWorkLimit: boolean;
-}
-
-export function presentProject(project: Project): ProjectView {
-  return {
-    id: project.id,
-    name: project.name,
-    slug: project.slug,
-    description: project.description,
-    crs: project.crs,
-    lengthUnit: project.lengthUnit,
-    grid: projectGrid(project),
-    minTeamSize: project.minTeamSize,
-    hasWorkLimit: Boolean(project.workLimitGeoJson),
-  };
-}
-
-export async function findProject(projectId: number): Promise<Project | null> {
-  return Project.findByPk(projectId);
-}
+import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
 
 /** The projects the user belongs to (a site admin sees every project), with their role. */
 export async function listProjectsForUser(user: UserView): Promise<Array<ProjectView & { role: Role | null }>> {

@@ -4,10 +4,11 @@ import { csvLine, type CsvValue } from "../../shared/csv-safe";
 import { selectSurveysInForce } from "../../shared/surveys-in-force";
 import { unitLabel } from "../../shared/units";
 import { CellResult, Survey, Zone } from "~/lib/db.server";
-import { resolveCrsDefinition } from "~/lib/epsg.server";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { loadProgress, type ProgressFigures, type ProgressView } from "./progress.server";
-import type { ProjectView } from "./project.server";
+import type { StoredCellFigures } from "./cells-presenter";
+import type { ProjectView } from "~/lib/auth/project-view.server";
 import { presentStoredCellFigures } from "./cells-presenter";
 
 /**
@@ -28,21 +29,7 @@ export interface QuantitiesView {
   latest: SurveyRef | null;
   method: string;
   progress: ProgressView;
-  cells: Array<{
-    label: string;
-    row: number;
-    col: number;
-    zone: string | null;
-    status: string;
-    plannedVolume: number;
-    removedVolume: number;
-    depositedVolume: number;
-    remainingVolume: number;
-    meanRemainingThickness: number | null;
-    coverage: number;
-    areaInLimit: number;
-    latestSurveyOn: string | null;
-  }>;
+  cells: Array<StoredCellFigures & { zone: string | null; latestSurveyOn: string | null }>;
 }
 
 export async function loadQuantities(project: ProjectView): Promise<QuantitiesView> {

@@ -1,10 +1,10 @@
 import { z } from "zod";
 import { Project, ShareLink, User, Zone } from "~/lib/db.server";
-import { createLinkToken, hashLinkToken } from "~/lib/tokens.server";
-import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
+import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { loadProgress } from "./progress.server";
-import { presentProject, type ProjectView } from "./project.server";
-import type { UserView } from "./user.server";
+import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
 
 /**
  * Public progress share links. A link is a random 256-bit token (only its SHA-256 is stored) that

@@ -1,9 +1,9 @@
 import { Shoreline, getSequelize } from "~/lib/db.server";
 import { ValidationError } from "~/lib/errors";
-import { AUDIT_ACTIONS, recordAudit } from "./audit.server";
-import { findProject, type ProjectView } from "./project.server";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import { findProject, type ProjectView } from "~/lib/auth/project-view.server";
 import { checkShoreline, type LonLatLimit } from "./shoreline-geojson";
-import type { UserView } from "./user.server";
+import type { UserView } from "~/lib/auth/users.server";
 
 /** The project's optional shoreline (the map's water base layer): read, upload or replace, remove. */
 

@@ -1,7 +1,7 @@
 import type { CellStatus } from "../../shared/cell-status";
 import type { FigureTotals } from "../../shared/volumes/figure-totals";
 import { CellResult, Sounding, Survey, SurveySnapshot, User, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
-import type { ProjectView } from "./project.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
 
 /** Surveys of a project as the pages and the API show them; every query is scoped by the project. */
 export interface SurveyListItem {

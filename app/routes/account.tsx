@@ -5,13 +5,13 @@ import { ConfirmedActionForm } from "~/components/confirmed-action-form";
 import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
-import { requireUser } from "~/lib/access.server";
-import { auditForAccount } from "~/lib/auth.server";
-import { clientAddress } from "~/lib/client-address.server";
-import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/form";
-import { AUDIT_ACTIONS } from "~/models/audit.server";
-import { changeOwnPassword, updateOwnName } from "~/models/user.server";
-import { createApiToken, listApiTokens, revokeApiToken } from "~/lib/api-token.server";
+import { requireUser } from "~/lib/auth/access.server";
+import { auditForAccount } from "~/lib/auth/sign-in.server";
+import { clientAddress } from "~/lib/http/client-address.server";
+import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/http/form";
+import { AUDIT_ACTIONS } from "~/lib/audit/audit.server";
+import { changeOwnPassword, updateOwnName } from "~/lib/auth/users.server";
+import { createApiToken, listApiTokens, revokeApiToken } from "~/lib/auth/api-token.server";
 import type { Route } from "./+types/account";
 
 export async function loader({ request }: Route.LoaderArgs) {

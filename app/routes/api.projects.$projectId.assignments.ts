@@ -2,7 +2,7 @@ import { z } from "zod";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody, readApiQuery } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
-import { clientAddress } from "~/lib/client-address.server";
+import { clientAddress } from "~/lib/http/client-address.server";
 import { assignmentInputSchema, createAssignments, getDayPlan, workDateSchema } from "~/models/assignments.server";
 import type { Route } from "./+types/api.projects.$projectId.assignments";
 

@@ -2,7 +2,7 @@ import { z } from "zod";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { apiRoute } from "~/lib/api/route.server";
 import { NotFoundError } from "~/lib/errors";
-import { getCellDetail } from "~/models/cells.server";
+import { getCellDetail } from "~/models/cell-detail.server";
 import type { Route } from "./+types/api.projects.$projectId.cells.$label";
 
 const labelSchema = z.string().trim().min(1).max(16);

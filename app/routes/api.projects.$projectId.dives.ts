@@ -4,7 +4,7 @@ import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { BadRequestError } from "~/lib/api/errors.server";
 import { apiRoute } from "~/lib/api/route.server";
-import { clientAddress } from "~/lib/client-address.server";
+import { clientAddress } from "~/lib/http/client-address.server";
 import { workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listCellDives, listDivesOn, recordDive } from "~/models/dives.server";
 import type { Route } from "./+types/api.projects.$projectId.dives";

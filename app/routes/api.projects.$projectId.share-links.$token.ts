@@ -2,7 +2,7 @@ import { z } from "zod";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
-import { clientAddress } from "~/lib/client-address.server";
+import { clientAddress } from "~/lib/http/client-address.server";
 import { NotFoundError } from "~/lib/errors";
 import { revokeShareLink } from "~/models/share-links.server";
 import type { Route } from "./+types/api.projects.$projectId.share-links.$token";

@@ -1,8 +1,8 @@
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
-import { clientAddress } from "~/lib/client-address.server";
-import { appOrigin } from "~/lib/origin.server";
+import { clientAddress } from "~/lib/http/client-address.server";
+import { appOrigin } from "~/lib/http/origin.server";
 import { createShareLink, listShareLinks, shareLinkFormSchema } from "~/models/share-links.server";
 import type { Route } from "./+types/api.projects.$projectId.share-links";
 

@@ -2,12 +2,12 @@ import { z } from "zod";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
-import { clientAddress } from "~/lib/client-address.server";
+import { clientAddress } from "~/lib/http/client-address.server";
 import { NotFoundError } from "~/lib/errors";
 import { setSurveyStatus } from "~/lib/import/commit.server";
 import { getSurveyDetails } from "~/models/survey.server";
-import type { ProjectView } from "~/models/project.server";
-import type { UserView } from "~/models/user.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
 import type { Route } from "./+types/api.projects.$projectId.surveys.$surveyId";
 
 const surveyIdSchema = z.coerce.number().int().positive();

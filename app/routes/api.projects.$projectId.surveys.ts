@@ -2,7 +2,7 @@ import { requireApiAccess } from "~/lib/api/access.server";
 import { assertMediaType } from "~/lib/api/body.server";
 import { BadRequestError, PayloadTooLargeError } from "~/lib/api/errors.server";
 import { apiRoute } from "~/lib/api/route.server";
-import { clientAddress } from "~/lib/client-address.server";
+import { clientAddress } from "~/lib/http/client-address.server";
 import { ValidationError, type ErrorDetail } from "~/lib/errors";
 import { commitChoicesFromFields, importOptionsFromFields } from "~/lib/import/form-fields";
 import { importSurveyFile } from "~/lib/import/import-service.server";

@@ -1,6 +1,6 @@
 import { Link } from "react-router";
-import { requireDemoMailbox } from "~/lib/demo-mailbox.server";
-import { getMailboxMessage } from "~/models/mailbox.server";
+import { requireDemoMailbox } from "~/lib/mail/demo-mailbox.server";
+import { getMailboxMessage } from "~/lib/mail/mailbox.server";
 import type { Route } from "./+types/dev.mail.$messageId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {

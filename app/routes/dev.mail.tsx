@@ -1,7 +1,7 @@
 import { Link, Outlet } from "react-router";
 import { Page } from "~/components/page";
-import { requireDemoMailbox } from "~/lib/demo-mailbox.server";
-import { listMailboxMessages } from "~/models/mailbox.server";
+import { requireDemoMailbox } from "~/lib/mail/demo-mailbox.server";
+import { listMailboxMessages } from "~/lib/mail/mailbox.server";
 import type { Route } from "./+types/dev.mail";
 
 export async function loader({ request }: Route.LoaderArgs) {

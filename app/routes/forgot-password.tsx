@@ -4,9 +4,9 @@ import { FormMessage } from "~/components/form-message";
 import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
-import { clientAddress } from "~/lib/client-address.server";
-import { emailSchema, parseForm } from "~/lib/form";
-import { appOrigin } from "~/lib/origin.server";
+import { clientAddress } from "~/lib/http/client-address.server";
+import { emailSchema, parseForm } from "~/lib/http/form";
+import { appOrigin } from "~/lib/http/origin.server";
 import { requestPasswordReset } from "~/models/password-reset.server";
 import type { Route } from "./+types/forgot-password";
 

@@ -4,10 +4,10 @@ import { FormMessage } from "~/components/form-message";
 import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
-import { clientAddress } from "~/lib/client-address.server";
-import { ROLE_LABELS } from "~/lib/roles";
-import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/form";
-import { signIn } from "~/lib/session.server";
+import { clientAddress } from "~/lib/http/client-address.server";
+import { ROLE_LABELS } from "~/lib/auth/roles";
+import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/http/form";
+import { signIn } from "~/lib/auth/session.server";
 import { acceptInvitation, lookUpInvitation } from "~/models/invitation.server";
 import type { Route } from "./+types/invite.$token";
 

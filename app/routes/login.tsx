@@ -3,11 +3,11 @@ import { FormMessage } from "~/components/form-message";
 import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
-import { getOptionalUser } from "~/lib/access.server";
-import { SignInError, authenticator } from "~/lib/auth.server";
-import { demoAccounts } from "~/lib/demo-accounts.server";
-import { getEnv } from "~/lib/env.server";
-import { safeNext, signIn } from "~/lib/session.server";
+import { getOptionalUser } from "~/lib/auth/access.server";
+import { SignInError, authenticator } from "~/lib/auth/sign-in.server";
+import { demoAccounts } from "~/lib/auth/demo-accounts.server";
+import { getEnv } from "~/lib/settings/env.server";
+import { safeNext, signIn } from "~/lib/auth/session.server";
 import type { Route } from "./+types/login";
 
 export async function loader({ request }: Route.LoaderArgs) {

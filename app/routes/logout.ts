@@ -1,9 +1,9 @@
 import { redirect } from "react-router";
-import { getOptionalUser } from "~/lib/access.server";
-import { auditForAccount } from "~/lib/auth.server";
-import { clientAddress } from "~/lib/client-address.server";
-import { AUDIT_ACTIONS } from "~/models/audit.server";
-import { destroySession, getSession } from "~/lib/session.server";
+import { getOptionalUser } from "~/lib/auth/access.server";
+import { auditForAccount } from "~/lib/auth/sign-in.server";
+import { clientAddress } from "~/lib/http/client-address.server";
+import { AUDIT_ACTIONS } from "~/lib/audit/audit.server";
+import { destroySession, getSession } from "~/lib/auth/session.server";
 import type { Route } from "./+types/logout";
 
 export async function loader() {

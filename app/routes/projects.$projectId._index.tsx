@@ -1,6 +1,6 @@
-import { can } from "~/lib/permissions";
-import { requireRole } from "~/lib/access.server";
-import { ROLE_LABELS } from "~/lib/roles";
+import { can } from "~/lib/auth/permissions";
+import { requireRole } from "~/lib/auth/access.server";
+import { ROLE_LABELS } from "~/lib/auth/roles";
 import { ProgressOverview } from "~/components/progress-overview";
 import { loadProgress } from "~/models/progress.server";
 import { listZones } from "~/models/project.server";

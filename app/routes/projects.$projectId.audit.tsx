@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { z } from "zod";
-import { requireRole } from "~/lib/access.server";
-import { listProjectAuditEvents } from "~/models/audit.server";
+import { requireRole } from "~/lib/auth/access.server";
+import { listProjectAuditEvents } from "~/lib/audit/audit.server";
 import type { Route } from "./+types/projects.$projectId.audit";
 
 const querySchema = z.object({ page: z.coerce.number().int().min(1).max(100_000).catch(1) });

@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/access.server";
+import { requireRole } from "~/lib/auth/access.server";
 import { buildMapStyle } from "~/models/map-style.server";
 import type { Route } from "./+types/projects.$projectId.map.style[.]json";
 

@@ -1,9 +1,9 @@
 import { useEffect, useRef } from "react";
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
-import { can } from "~/lib/permissions";
-import { requireAllowed, requireRole } from "~/lib/access.server";
-import { clientAddress } from "~/lib/client-address.server";
+import { can } from "~/lib/auth/permissions";
+import { requireAllowed, requireRole } from "~/lib/auth/access.server";
+import { clientAddress } from "~/lib/http/client-address.server";
 import { DomainError } from "~/lib/errors";
 import { emailDayPlan, getDayPlan, workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listDivesOn, recordDive, type DiveView } from "~/models/dives.server";

@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import { Percent, Volume } from "~/components/progress-figures";
-import { requireRole } from "~/lib/access.server";
+import { requireRole } from "~/lib/auth/access.server";
 import { loadQuantities } from "~/models/quantities.server";
 import type { Route } from "./+types/projects.$projectId.quantities";
 

@@ -4,10 +4,10 @@ import { ActionMessages } from "~/components/form-message";
 import { ConfirmedActionForm } from "~/components/confirmed-action-form";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
-import { requireRole } from "~/lib/access.server";
-import { clientAddress } from "~/lib/client-address.server";
-import { parseForm } from "~/lib/form";
-import { appOrigin } from "~/lib/origin.server";
+import { requireRole } from "~/lib/auth/access.server";
+import { clientAddress } from "~/lib/http/client-address.server";
+import { parseForm } from "~/lib/http/form";
+import { appOrigin } from "~/lib/http/origin.server";
 import { createShareLink, listShareLinks, revokeShareLink, shareLinkFormSchema, updateShareLink } from "~/models/share-links.server";
 import type { Route } from "./+types/projects.$projectId.share";
 

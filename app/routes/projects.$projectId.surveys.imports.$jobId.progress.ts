@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { requireRole } from "~/lib/access.server";
+import { requireRole } from "~/lib/auth/access.server";
 import { findImportJob, presentJobProgress } from "~/lib/import/import-job-view.server";
 import type { Route } from "./+types/projects.$projectId.surveys.imports.$jobId.progress";
 

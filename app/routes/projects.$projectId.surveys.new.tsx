@@ -1,7 +1,7 @@
 import { useRef, useState } from "react";
 import { Form, data, redirect, useNavigation } from "react-router";
 import { FormMessage } from "~/components/form-message";
-import { requireRole } from "~/lib/access.server";
+import { requireRole } from "~/lib/auth/access.server";
 import { DEFAULT_TIME_ZONE, receivePageUpload } from "~/lib/import/page-upload.server";
 import type { Route } from "./+types/projects.$projectId.surveys.new";
 

@@ -1,6 +1,6 @@
 import { Link } from "react-router";
-import { can } from "~/lib/permissions";
-import { requireRole } from "~/lib/access.server";
+import { can } from "~/lib/auth/permissions";
+import { requireRole } from "~/lib/auth/access.server";
 import { Op } from "sequelize";
 import { ImportJob } from "~/lib/db.server";
 import { EXPIRED_STAGE } from "~/lib/import/abandoned-uploads.server";

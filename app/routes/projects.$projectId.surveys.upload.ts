@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/access.server";
+import { requireRole } from "~/lib/auth/access.server";
 import { receivePageUpload } from "~/lib/import/page-upload.server";
 import type { Route } from "./+types/projects.$projectId.surveys.upload";
 

@@ -1,7 +1,7 @@
 import { NavLink, Outlet } from "react-router";
-import { can } from "~/lib/permissions";
-import { requireRole } from "~/lib/access.server";
-import { ROLE_LABELS } from "~/lib/roles";
+import { can } from "~/lib/auth/permissions";
+import { requireRole } from "~/lib/auth/access.server";
+import { ROLE_LABELS } from "~/lib/auth/roles";
 import type { Route } from "./+types/projects.$projectId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {

@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { Page } from "~/components/page";
-import { requireUser } from "~/lib/access.server";
-import { ROLE_LABELS } from "~/lib/roles";
+import { requireUser } from "~/lib/auth/access.server";
+import { ROLE_LABELS } from "~/lib/auth/roles";
 import { listProjectsForUser } from "~/models/project.server";
 import type { Route } from "./+types/projects";
 

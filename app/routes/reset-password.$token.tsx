@@ -4,8 +4,8 @@ import { FormMessage } from "~/components/form-message";
 import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
-import { clientAddress } from "~/lib/client-address.server";
-import { newPasswordSchema, parseForm } from "~/lib/form";
+import { clientAddress } from "~/lib/http/client-address.server";
+import { newPasswordSchema, parseForm } from "~/lib/http/form";
 import { lookUpPasswordReset, resetPassword } from "~/models/password-reset.server";
 import type { Route } from "./+types/reset-password.$token";
 

@@ -1,6 +1,6 @@
 import { data, isRouteErrorResponse } from "react-router";
 import { PercentLegend, ProgressOutlineMap } from "~/components/progress-outline-map";
-import { clientAddress } from "~/lib/client-address.server";
+import { clientAddress } from "~/lib/http/client-address.server";
 import { PUBLIC_CACHE_SECONDS, publicProgressForToken, publicRateLimit } from "~/models/share-links.server";
 import type { Route } from "./+types/share.$token";
 

@@ -1,16 +1,15 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
-import type { Dive } from "./dive";
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import type { Project } from "./project";
 
 /** A cell one logged dive worked (grid row and column, and its label as shown). */
 export class DiveCell extends Model<InferAttributes<DiveCell>, InferCreationAttributes<DiveCell>> {
   declare id: CreationOptional<number>;
-  declare diveId: ForeignKey<Dive["id"]>;
+  /** The dive (a row of dives); Dive declares the association's other side, so this file need not import it. */
+  declare diveId: ForeignKey<number>;
   declare projectId: ForeignKey<Project["id"]>;
   declare row: number;
   declare col: number;
   declare label: string;
-  declare dive?: NonAttribute<Dive>;
 }
 
 export function initDiveCell(sequelize: Sequelize) {

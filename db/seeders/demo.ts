@@ -1,5 +1,5 @@
 import type { Sequelize } from "sequelize";
-import { hashPassword } from "../../app/lib/password.server";
+import { hashPassword } from "../../app/lib/auth/password.server";
 import { CellResult, Dive, DiveTeam, Membership, Project, Survey, User, Zone, initModels } from "../models";
 import { seedDemoDiveTeams } from "./demo-dive-teams";
 import { seedDemoSurveys } from "./demo-surveys";
@@ -70,8 +70,8 @@ async function seedDemoDives(): Promise<boolean> {
   // Imported lazily, as the import service is: they pull in the app's modules.
   const { createAssignments } = await import("../../app/models/assignments.server");
   const { diveInputSchema, recordDive } = await import("../../app/models/dives.server");
-  const { presentProject } = await import("../../app/models/project.server");
-  const { presentUser } = await import("../../app/models/user.server");
+  const { presentProject } = await import("../../app/lib/auth/project-view.server");
+  const { presentUser } = await import("../../app/lib/auth/users.server");
   await seedDemoDiveTeams();
   const teams = new Map((await DiveTeam.findAll({ where: { projectId: project.id } })).map((team) => [team.name, team]));
   const lowerRun = await Zone.findOne({ where: { projectId: project.id, name: "Lower run" } });

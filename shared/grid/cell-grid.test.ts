@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { cellCentroid, cellIndexAt, cellLabel, cellPolygon, cellRowCol, createCellGrid } from "./cell-grid";
+import { cellCentroid, cellIndexAt, cellLabel, cellPolygon, cellRowCol, createCellGrid, parseCellLabel } from "./cell-grid";
 import { workLimitArea } from "./work-limit";
 
 describe("cell grid", () => {
@@ -33,5 +33,13 @@ describe("cell grid", () => {
     expect(workLimitArea([[cellPolygon(grid, 2, 3)]])).toBeCloseTo(100, 9);
     // The first row/col are negative when the limit extends west/south of the origin in the rotated frame.
     expect(grid.firstRow).toBeLessThan(0);
+  });
+});
+
+describe("parseCellLabel", () => {
+  it("inverts cellLabel, negative rows and columns included (invariant)", () => {
+    for (const row of [-30, -2, -1, 0, 1, 9, 99]) for (const col of [-28, -1, 0, 25, 26, 701, 702]) expect(parseCellLabel(cellLabel(row, col))).toEqual({ row, col });
+    expect(parseCellLabel("A0")).toBeNull();
+    expect(parseCellLabel("1A")).toBeNull();
   });
 });

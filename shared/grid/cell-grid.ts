@@ -124,6 +124,19 @@ export function cellLabel(row: number, col: number): string {
   return columnPart + rowPart;
 }
 
+/** The inverse of cellLabel ("B12" → row 11, col 1; "-A-2" → row −2, col −1); null for anything else. */
+export function parseCellLabel(label: string): { row: number; col: number } | null {
+  const match = /^(-?)([A-Z]{1,4})(-?)(\d{1,7})$/.exec(label.trim().toUpperCase());
+  if (!match) return null;
+  let letters = 0;
+  for (const letter of match[2]) letters = letters * 26 + (letter.charCodeAt(0) - 64);
+  const number = Number(match[4]);
+  if (number === 0) return null;
+  const col = match[1] ? -letters : letters - 1;
+  const row = match[3] ? -number : number - 1;
+  return { row, col };
+}
+
 /** The cell's outline as a closed counter-clockwise ring in project coordinates. */
 export function cellPolygon(grid: CellGrid, row: number, col: number): Position[] {
   const size = grid.cellSize;

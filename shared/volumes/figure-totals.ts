@@ -5,25 +5,24 @@ import { cellStatusCode } from "../cell-status";
  * project's volume unit (yd³ or m³), cell counts by status. A confirmed cell is also counted at
  * firm sand: the closeout proves what the surfaces already showed.
  */
-export interface FigureTotals {
+export interface FigureTotals extends CellVolumes, CellCounts {}
+
+/** Volumes of a cell or a set of cells in the project's volume unit: the one list of them. */
+export interface CellVolumes {
   plannedVolume: number;
   removedVolume: number;
   depositedVolume: number;
   remainingVolume: number;
+}
+
+/** Cells of a set, by status (a confirmed cell is also at firm sand). */
+export interface CellCounts {
   cells: number;
   cellsAtFirmSand: number;
   cellsConfirmed: number;
   cellsInWork: number;
   cellsUntouched: number;
   cellsNoData: number;
-}
-
-/** One cell's volumes in the project's volume unit. */
-export interface CellVolumes {
-  plannedVolume: number;
-  removedVolume: number;
-  depositedVolume: number;
-  remainingVolume: number;
 }
 
 export function emptyFigureTotals(): FigureTotals {

@@ -2,20 +2,17 @@ import { cellLabel, cellRowCol } from "../grid/cell-grid";
 import { cubicToVolumeUnit, volumeUnitFor, type LengthUnit, type VolumeUnit } from "../units";
 import type { EngineResult } from "../pipeline";
 import { CELL_STATUSES, type MeasuredCellStatus } from "../cell-status";
+import type { CellCounts, CellVolumes } from "./figure-totals";
 
 /**
  * The plain-object shape of a volume computation, as the command line prints it and the app
  * shows it. Volumes are converted from the engine's cubic length unit to the project's volume
  * unit (cubic yards for feet projects, cubic metres for metre projects) here and only here.
  */
-export interface CellReport {
+export interface CellReport extends CellVolumes {
   row: number;
   col: number;
   label: string;
-  plannedVolume: number;
-  removedVolume: number;
-  depositedVolume: number;
-  remainingVolume: number;
   /** Project length unit; null when nothing in the cell was surveyed. */
   meanRemainingThickness: number | null;
   /** 0–1 share of the cell's in-limit area with data. */
@@ -25,14 +22,7 @@ export interface CellReport {
 
 export interface VolumeReport {
   units: { length: LengthUnit; volume: VolumeUnit };
-  totals: {
-    plannedVolume: number;
-    removedVolume: number;
-    depositedVolume: number;
-    remainingVolume: number;
-    cells: number;
-    cellsAtFirmSand: number;
-  };
+  totals: CellVolumes & Pick<CellCounts, "cells" | "cellsAtFirmSand">;
   cells: CellReport[];
 }
 

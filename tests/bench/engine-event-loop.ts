@@ -18,7 +18,7 @@ import { closeAppEnginePool, type EngineWorkerPool } from "../../app/lib/engine/
 import { loadProjectGeometry } from "../../app/lib/engine/project-geometry.server";
 import { computeProjectBands, type BandsInput } from "../../app/lib/engine/project-bands";
 import type { ProjectStateInput } from "../../app/lib/engine/project-state";
-import { resolveCrsDefinition } from "../../app/lib/epsg.server";
+import { resolveCrsDefinition } from "../../app/lib/geo/epsg.server";
 import { remainingThicknessThresholds } from "../../shared/bands";
 import { recomputeProjectStatistics } from "../../app/lib/engine/recompute.server";
 import { closeSequelize } from "../../db/connection.server";

@@ -5,7 +5,7 @@
  */
 import { closeSync, openSync, writeSync } from "node:fs";
 import { createCrs } from "../../shared/crs";
-import { resolveCrsDefinition } from "../../app/lib/epsg.server";
+import { resolveCrsDefinition } from "../../app/lib/geo/epsg.server";
 import { Project } from "../../app/lib/db.server";
 
 // Seeded generator (mulberry32) so every run reads the same file.

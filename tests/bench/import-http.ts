@@ -11,8 +11,8 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { z } from "zod";
 import { Membership, Survey, User } from "../../app/lib/db.server";
-import { createApiToken } from "../../app/lib/api-token.server";
-import { hashPassword } from "../../app/lib/password.server";
+import { createApiToken } from "../../app/lib/auth/api-token.server";
+import { hashPassword } from "../../app/lib/auth/password.server";
 import { closeSequelize } from "../../db/connection.server";
 import { createBenchProject, mb, rowsArgument, writeBaselineCsv } from "./import-fixture";
 

@@ -1,10 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
-import { requireRole, requireUser } from "~/lib/access.server";
+import { requireRole, requireUser } from "~/lib/auth/access.server";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { ForbiddenError, NotFoundError, NotSignedInError } from "~/lib/errors";
-import { assertSameOrigin } from "~/lib/origin.server";
-import { ROLES, type Role } from "~/lib/roles";
+import { assertSameOrigin } from "~/lib/http/origin.server";
+import { ROLES, type Role } from "~/lib/auth/roles";
 import { addMember, makeProject, makeUser, requestAs, thrown, ORIGIN } from "./helpers";
 
 afterAll(closeSequelize);

@@ -8,7 +8,7 @@ import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import routeConfig from "../../app/routes";
 import { Assignment, AuditEvent, CellResult, ColumnMapping, Dive, DiveCell, DiveTeam, ImportJob, ShareLink, Sounding, Survey, SurveySnapshot } from "~/lib/db.server";
 import { stagingDirectory } from "~/lib/import/stage-upload.server";
-import { presentProject } from "~/models/project.server";
+import { presentProject } from "~/lib/auth/project-view.server";
 import { createShareLink } from "~/models/share-links.server";
 import { DEMO_DIR, makeDemoSiteProject, postSurvey } from "./import-helpers";
 import { ORIGIN } from "./helpers";

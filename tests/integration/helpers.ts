@@ -1,9 +1,9 @@
 import { randomBytes } from "node:crypto";
-import { hashPassword } from "~/lib/password.server";
+import { hashPassword } from "~/lib/auth/password.server";
 import { Membership, Project, User, type Role } from "~/lib/db.server";
-import { signIn } from "~/lib/session.server";
-import { presentProject } from "~/models/project.server";
-import { presentUser } from "~/models/user.server";
+import { signIn } from "~/lib/auth/session.server";
+import { presentProject } from "~/lib/auth/project-view.server";
+import { presentUser } from "~/lib/auth/users.server";
 
 // Test data for integration tests against the real MariaDB (firmsand_test, migrated by npm test).
 // Every helper makes rows with unique names, so test files do not depend on each other.

@@ -1,8 +1,8 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { createCrs } from "../../shared/crs";
-import { resolveCrsDefinition } from "~/lib/epsg.server";
-import { createApiToken } from "~/lib/api-token.server";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
+import { createApiToken } from "~/lib/auth/api-token.server";
 import { CellResult, Project, Sounding, Survey, SurveySnapshot, Zone } from "~/lib/db.server";
 import { GRID, PROJECT, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { addMember, makeUser, ORIGIN } from "./helpers";

@@ -1,15 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { randomBytes } from "node:crypto";
 import { closeSequelize } from "../../db/connection.server";
-import { cellLabel } from "../../shared/grid/cell-grid";
+import { cellLabel, parseCellLabel } from "../../shared/grid/cell-grid";
 import { createCrs } from "../../shared/crs";
 import { workLimitArea } from "../../shared/grid/work-limit";
 import { GRID, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { CellResult, DiveTeam, Project, Zone, type Role } from "~/lib/db.server";
-import { resolveCrsDefinition } from "~/lib/epsg.server";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { getProjectBands } from "~/models/bands.server";
-import { parseCellLabel } from "~/models/cells.server";
-import { findProject, presentProject } from "~/models/project.server";
+import { findProject, presentProject } from "~/lib/auth/project-view.server";
 import { loader as cellsLoader } from "~/routes/api.projects.$projectId.cells";
 import { loader as bandsLoader } from "~/routes/api.projects.$projectId.bands";
 import { action as assignAction, loader as planLoader } from "~/routes/api.projects.$projectId.assignments";
@@ -81,14 +80,6 @@ describe("GET /api/projects/<id>/cells", () => {
     expect(inLimit * cellAreaFt2).toBeGreaterThan(areaFt2 * 0.8);
     expect(inLimit * cellAreaFt2).toBeLessThan(areaFt2 * 1.2);
     expect(payload.status.every((code) => code === -1 || code === 0)).toBe(true); // no surveys yet: every in-limit cell says no-data
-  });
-});
-
-describe("cell labels", () => {
-  it("parseCellLabel inverts cellLabel, negative rows and columns included (invariant)", () => {
-    for (const row of [-30, -2, -1, 0, 1, 9, 99]) for (const col of [-28, -1, 0, 25, 26, 701, 702]) expect(parseCellLabel(cellLabel(row, col))).toEqual({ row, col });
-    expect(parseCellLabel("A0")).toBeNull();
-    expect(parseCellLabel("1A")).toBeNull();
   });
 });
 

@@ -2,7 +2,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { UniqueConstraintError } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { AuditEvent, Membership, Project, User, Zone } from "~/lib/db.server";
-import { recordAudit, AUDIT_ACTIONS } from "~/models/audit.server";
+import { recordAudit, AUDIT_ACTIONS } from "~/lib/audit/audit.server";
 import { addMember, makeProject, makeUser } from "./helpers";
 
 afterAll(closeSequelize);

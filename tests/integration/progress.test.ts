@@ -17,10 +17,10 @@ import { Assignment, DiveTeam, Project, ShareLink, Survey, User, Zone } from "~/
 import { importSurveyFile } from "~/lib/import/import-service.server";
 import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { loadProgress, type ProgressView } from "~/models/progress.server";
-import { presentProject, type ProjectView } from "~/models/project.server";
+import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
 import { loadQuantities, quantitiesCsv } from "~/models/quantities.server";
 import { PUBLIC_REQUESTS_PER_MINUTE, createShareLink, publicProgressForToken, publicRateLimit, revokeShareLink } from "~/models/share-links.server";
-import { hashLinkToken } from "~/lib/tokens.server";
+import { hashLinkToken } from "~/lib/auth/tokens.server";
 import * as shareLinksApi from "~/routes/api.projects.$projectId.share-links";
 import * as shareLinkApi from "~/routes/api.projects.$projectId.share-links.$token";
 import * as progressApi from "~/routes/api.projects.$projectId.progress";

@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
-import { MAX_FAILURES_PER_ACCOUNT, MAX_FAILURES_PER_ADDRESS, recordLoginAttempt, signInLockout } from "~/models/login-attempt.server";
+import { MAX_FAILURES_PER_ACCOUNT, MAX_FAILURES_PER_ADDRESS, recordLoginAttempt, signInLockout } from "~/lib/auth/sign-in-throttle.server";
 import { uniqueEmail } from "./helpers";
 
 afterAll(closeSequelize);

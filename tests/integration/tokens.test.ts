@@ -1,13 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { Invitation, Membership, PasswordReset, User } from "~/lib/db.server";
-import { verifyPassword } from "~/lib/password.server";
-import { hashLinkToken } from "~/lib/tokens.server";
+import { verifyPassword } from "~/lib/auth/password.server";
+import { hashLinkToken } from "~/lib/auth/tokens.server";
 import { ConflictError } from "~/lib/errors";
 import { INVITATION_LIFETIME_MS, acceptInvitation, createInvitation, lookUpInvitation } from "~/models/invitation.server";
 import { PASSWORD_RESET_LIFETIME_MS, lookUpPasswordReset, requestPasswordReset, resetPassword } from "~/models/password-reset.server";
-import type { ProjectView } from "~/models/project.server";
-import type { UserView } from "~/models/user.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
 import { ORIGIN, TEST_PASSWORD, addMember, makeProject, makeUser, uniqueEmail } from "./helpers";
 
 afterAll(closeSequelize);

@@ -1,6 +1,6 @@
-import { projectAccess, signedInUser, type ProjectAccess } from "~/lib/access.server";
-import type { Action } from "~/lib/permissions";
-import type { UserView } from "~/models/user.server";
+import { projectAccess, signedInUser, type ProjectAccess } from "~/lib/auth/access.server";
+import type { Action } from "~/lib/auth/permissions";
+import type { UserView } from "~/lib/auth/users.server";
 
 /**
  * The API's access check, for every `/api` route: the session cookie or a personal bearer token,

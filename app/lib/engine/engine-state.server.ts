@@ -1,11 +1,11 @@
 import type { Transaction } from "sequelize";
 import type { ProgressCallback } from "../../../shared/pipeline";
 import { selectSurveysInForce } from "../../../shared/surveys-in-force";
-import { BoundedCache } from "../bounded-cache";
+import { BoundedCache } from "../cache/bounded-cache";
 import { CellResult, Survey, getSequelize } from "../db.server";
 import { appEnginePool, type EngineWorkerPool } from "./engine-worker.server";
 import type { ComputationSurvey } from "./engine-surveys";
-import { getEnv } from "../env.server";
+import { getEnv } from "../settings/env.server";
 import type { ProjectSurfaces } from "./latest-surfaces";
 import { loadProjectGeometry } from "./project-geometry.server";
 import { computeProjectState, type ProjectState, type ProjectStateInput } from "./project-state";

@@ -4,7 +4,7 @@ import type { ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
 import type { EngineSettings } from "../../../shared/pipeline";
 import type { LengthUnit } from "../../../shared/units";
 import { Project, Zone } from "../db.server";
-import { resolveCrsDefinition } from "../epsg.server";
+import { resolveCrsDefinition } from "../geo/epsg.server";
 import type { ComputationZone } from "./project-figures";
 
 /**

@@ -7,7 +7,7 @@ import { createSoundingCsvParser, type ParsedSoundings } from "../../../shared/s
 import { prepareSoundings, sameCrsCode, type Analysis, type EarlierSurveys, type PrepareOptions } from "../../../shared/soundings/prepare";
 import { sniffFileShape, type FileShape } from "../../../shared/soundings/sniff";
 import { ColumnMapping, Survey } from "../db.server";
-import { resolveCrsDefinition } from "../epsg.server";
+import { resolveCrsDefinition } from "../geo/epsg.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
 import { previousBottomBins } from "./previous-bottom.server";
 import type { ProjectGeometry } from "../engine/project-geometry.server";

@@ -1,7 +1,7 @@
 import type { Transaction } from "sequelize";
 import type { SurveyQa } from "../../../shared/qa/survey-qa";
 import type { PreparedSoundings } from "../../../shared/soundings/prepare";
-import { AUDIT_ACTIONS, recordAudit } from "../../models/audit.server";
+import { AUDIT_ACTIONS, recordAudit } from "../audit/audit.server";
 import { Project, Survey, getSequelize } from "../db.server";
 import type { ImportOptions } from "./import-options";
 import { insertSoundings } from "./insert-soundings.server";

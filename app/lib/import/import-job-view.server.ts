@@ -1,7 +1,7 @@
 import type { ImportPreview } from "../../../shared/soundings/prepare";
-import type { ProjectAccess } from "~/lib/access.server";
+import type { ProjectAccess } from "~/lib/auth/access.server";
 import { ImportJob } from "~/lib/db.server";
-import { can } from "~/lib/permissions";
+import { can } from "~/lib/auth/permissions";
 import { commitChoicesSchema, importOptionsSchema, type CommitChoices, type ImportOptions } from "./import-options";
 
 /** An import job as its page and its progress poll see it: its uploader's, or anyone's to those the table allows. */

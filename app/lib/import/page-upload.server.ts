@@ -1,5 +1,5 @@
-import type { ProjectView } from "~/models/project.server";
-import type { UserView } from "~/models/user.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
 import { commitChoicesSchema } from "./import-options";
 import { importOptionsFromFields, type FieldProblem } from "./form-fields";
 import { createImportJob, previewImportJob } from "./import-service.server";

@@ -1,4 +1,4 @@
-import { getUploadEnv } from "../env.server";
+import { getUploadEnv } from "../settings/env.server";
 
 /**
  * The upload settings, parsed with the rest of Firmsand's environment (app/lib/env.server.ts):

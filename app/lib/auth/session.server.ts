@@ -1,5 +1,5 @@
 import { createCookieSessionStorage, redirect, type Session } from "react-router";
-import { getEnv } from "./env.server";
+import { getEnv } from "../settings/env.server";
 
 // One cookie session for the whole app. The cookie is HttpOnly and SameSite=Lax always, and
 // Secure except on plain http to a loopback address or outside production (browsers drop

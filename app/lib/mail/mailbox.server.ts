@@ -1,7 +1,7 @@
 import { readFile, readdir } from "node:fs/promises";
 import { join } from "node:path";
 import { z } from "zod";
-import { getEnv } from "~/lib/env.server";
+import { getEnv } from "~/lib/settings/env.server";
 
 // The fake SMTP server's mailbox (demo and tests only): one JSON file per received message.
 const messageSchema = z.object({

@@ -1,11 +1,11 @@
 import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
 import { z } from "zod";
-import { AUDIT_ACTIONS, recordAudit } from "~/models/audit.server";
-import { recordLoginAttempt, signInLockout } from "~/models/login-attempt.server";
-import { findUserByEmail, normaliseEmail, presentUser, type UserView } from "~/models/user.server";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import { recordLoginAttempt, signInLockout } from "~/lib/auth/sign-in-throttle.server";
+import { findUserByEmail, normaliseEmail, presentUser, type UserView } from "~/lib/auth/users.server";
 import { Membership } from "~/lib/db.server";
-import { clientAddress } from "./client-address.server";
+import { clientAddress } from "../http/client-address.server";
 import { verifyPassword } from "./password.server";
 
 /** A sign-in refused for a reason the person can act on; `field` ties it to a form input. */

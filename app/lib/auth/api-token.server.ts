@@ -1,6 +1,6 @@
 import { ApiToken } from "~/lib/db.server";
-import { createLinkToken, hashLinkToken } from "~/lib/tokens.server";
-import type { UserView } from "~/models/user.server";
+import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
+import type { UserView } from "~/lib/auth/users.server";
 
 /**
  * Personal API tokens: created and revoked by their owner; sent as `Authorization: Bearer

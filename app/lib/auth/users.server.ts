@@ -1,4 +1,4 @@
-import { hashPassword, verifyPassword } from "~/lib/password.server";
+import { hashPassword, verifyPassword } from "~/lib/auth/password.server";
 import { User } from "~/lib/db.server";
 
 export interface UserView {

@@ -1,4 +1,4 @@
-import { DEMO_USERS } from "../../db/seeders/demo-scenario";
+import { DEMO_USERS } from "../../../db/seeders/demo-scenario";
 import { ROLE_LABELS } from "~/lib/db.server";
 
 /** The demo sign-ins listed on the sign-in page (demo mode only). */

@@ -1,5 +1,5 @@
 import nodemailer, { type Transporter } from "nodemailer";
-import { getEnv } from "./env.server";
+import { getEnv } from "../settings/env.server";
 
 // The one way Firmsand sends mail: SMTP to SMTP_HOST:SMTP_PORT (in demo and tests, the local
 // fake SMTP server that stores each message for /dev/mail and the tests).

@@ -2,10 +2,10 @@ import { redirect } from "react-router";
 import { z } from "zod";
 import { Membership, type Role } from "~/lib/db.server";
 import { ForbiddenError, NotFoundError, NotSignedInError } from "~/lib/errors";
-import { can, type Access, type Action } from "~/lib/permissions";
-import { findProject, presentProject, type ProjectView } from "~/models/project.server";
-import { getUserView, type UserView } from "~/models/user.server";
-import { apiErrorResponse } from "./api/errors.server";
+import { can, type Access, type Action } from "~/lib/auth/permissions";
+import { findProject, presentProject, type ProjectView } from "~/lib/auth/project-view.server";
+import { getUserView, type UserView } from "~/lib/auth/users.server";
+import { apiErrorResponse } from "../api/errors.server";
 import { hasBearer, userIdForBearer } from "./api-token.server";
 import { getSession } from "./session.server";
 

@@ -2,7 +2,7 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { randomBytes } from "node:crypto";
 import { z } from "zod";
-import { DATA_DIR, parseEnvironment } from "../../db/settings";
+import { DATA_DIR, parseEnvironment } from "../../../db/settings";
 
 // Firmsand's environment, parsed once with zod at first use. Every server module reads
 // settings from here (the database connection's from db/settings.ts), never from process.env directly.

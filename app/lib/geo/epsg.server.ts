@@ -2,7 +2,7 @@ import { existsSync, readFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import { dirname, join } from "node:path";
 import { z } from "zod";
-import type { LengthUnit } from "../../shared/units";
+import type { LengthUnit } from "../../../shared/units";
 
 /**
  * Resolves a project's CRS from an EPSG code or a proj4 string. Definitions come from the

@@ -1,6 +1,6 @@
-import { ForbiddenError } from "./errors";
-import { apiErrorResponse } from "./api/errors.server";
-import { getEnv } from "./env.server";
+import { ForbiddenError } from "../errors";
+import { apiErrorResponse } from "../api/errors.server";
+import { getEnv } from "../settings/env.server";
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 

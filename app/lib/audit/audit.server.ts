@@ -1,6 +1,6 @@
 import type { Transaction } from "sequelize";
 import { AuditEvent, User } from "~/lib/db.server";
-import type { ProjectView } from "./project.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
 
 /** Every action Firmsand records; later issues add imports, assignments and the like. */
 export const AUDIT_ACTIONS = {

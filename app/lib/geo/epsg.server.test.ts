@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { createCrs } from "../../shared/crs";
-import { METRES_PER_UNIT } from "../../shared/units";
+import { createCrs } from "../../../shared/crs";
+import { METRES_PER_UNIT } from "../../../shared/units";
 import { lengthUnitOfCrs, resolveCrsDefinition } from "./epsg.server";
 
 function parameter(definition: string, name: string): number {

@@ -1,5 +1,5 @@
-import { requireSiteAdmin } from "./access.server";
-import { getEnv } from "./env.server";
+import { requireSiteAdmin } from "../auth/access.server";
+import { getEnv } from "../settings/env.server";
 
 /** The demo mailbox exists only in demo mode, and only site admins may read it. */
 export async function requireDemoMailbox(request: Request) {

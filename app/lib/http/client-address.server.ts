@@ -1,4 +1,4 @@
-import { getEnv } from "./env.server";
+import { getEnv } from "../settings/env.server";
 
 /**
  * The client's network address, for the sign-in rate limit and the audit log.

@@ -1,2 +1,0 @@
-// Role names and labels, safe for both server and browser code.
-export { ROLES, ROLE_LABELS, isRole, type Role } from "../../db/models/roles";
