@@ -16,10 +16,13 @@ import { getSession } from "./session.server";
 /**
  * The signed-in user, or null (a session for a deleted account counts as signed out). A request
  * with `Authorization: Bearer <personal API token>` is that token's user and nobody else: its
- * cookie is ignored, which is what lets the Origin check pass bearer requests.
+ * cookie is ignored, which is what lets the Origin check pass bearer requests. A token reaches the
+ * `/api` routes only: on any other route (the account page, where tokens are made and revoked) it
+ * signs nobody in, so a leaked token cannot mint another and revoking it ends its holder's access.
  */
 export async function getOptionalUser(request: Request): Promise<UserView | null> {
   if (hasBearer(request)) {
+    if (!isApiPath(new URL(request.url).pathname)) return null;
     const tokenUserId = await userIdForBearer(request.headers.get("Authorization"));
     return tokenUserId === null ? null : getUserView(tokenUserId);
   }
@@ -29,12 +32,20 @@ export async function getOptionalUser(request: Request): Promise<UserView | null
   return getUserView(userId);
 }
 
+function isApiPath(pathname: string): boolean {
+  return pathname === "/api" || pathname.startsWith("/api/");
+}
+
 /** The signed-in user, or a NotSignedInError saying what to send. */
 export async function signedInUser(request: Request): Promise<UserView> {
   const user = await getOptionalUser(request);
   if (user) return user;
   throw new NotSignedInError(
-    hasBearer(request) ? "The API token is unknown or has been revoked." : "Sign in, or send a personal API token as Authorization: Bearer <token>.",
+    !hasBearer(request)
+      ? "Sign in, or send a personal API token as Authorization: Bearer <token>."
+      : isApiPath(new URL(request.url).pathname)
+        ? "The API token is unknown or has been revoked."
+        : "Personal API tokens open the /api routes only; this page needs a signed-in session.",
   );
 }
 
