@@ -53,7 +53,7 @@ describe("sweep of abandoned uploads", () => {
       ["oldValidating", "validating", 72],
       ["freshReady", "ready", 2],
       ["oldCommitting", "committing", 96],
-      ["liveCommitting", "committing", 0.1],
+      ["liveCommitting", "committing", 0.005], // 18 s: within the heartbeat's cut-off
     ] as const) {
       const staged = await stagedCsv(csv, updated);
       const job = await createImportJob(site.project.id, userId, staged, options);

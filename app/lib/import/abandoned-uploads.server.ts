@@ -1,7 +1,7 @@
 import { lstat, readdir, rm } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import { Op } from "sequelize";
-import { ImportJob } from "../db.server";
+import { ImportJob, getSequelize } from "../db.server";
 import { uploadSettings } from "./settings.server";
 import { stagingDirectory } from "./stage-upload.server";
 
@@ -17,16 +17,19 @@ import { stagingDirectory } from "./stage-upload.server";
  *
  * A job that is committing is never expired: each expiry is one conditional UPDATE whose WHERE
  * repeats the state and age test, and the commit's start is conditional the other way round, so
- * the two cannot both win. A commit writes its progress several times a second, so a job still
- * "committing" with nothing written for an hour was cut off (the server stopped mid-import): it is
- * marked failed with that said plainly, keeping its file, so the technician can commit it again
- * (a commit is one transaction, so nothing of the cut-off one was stored); the expiry above then
- * applies to it like any other failed job.
+ * the two cannot both win. A live commit touches its job at least every COMMIT_HEARTBEAT_MS (its
+ * progress, or a heartbeat while a step runs long), so a job still "committing" with nothing
+ * written for CUT_OFF_COMMIT_MS was cut off (the server stopped or lost its database mid-import):
+ * the next request that looks at it (or the sweep) marks it failed with that said plainly, keeping
+ * its file, so the technician can commit it again at once (a commit is one transaction, so nothing
+ * of the cut-off one was stored); the expiry above then applies to it like any other failed job.
  */
 export const EXPIRED_STAGE = "expired";
 export const SWEPT_STATES = ["staged", "validating", "ready", "failed"] as const;
-/** A "committing" job untouched this long was cut off: a live commit writes progress several times a second. */
-export const CUT_OFF_COMMIT_MS = 3600 * 1000;
+/** How often a live commit touches its job, at the least. */
+export const COMMIT_HEARTBEAT_MS = 10_000;
+/** A "committing" job untouched this long (six missed heartbeats) was cut off. */
+export const CUT_OFF_COMMIT_MS = 60_000;
 export const CUT_OFF_MESSAGE = "Nothing was stored: the server stopped while this import was being committed (a commit is one transaction, so none of it was kept). Commit it again, or upload the file again.";
 /** Expired markers are removed this long after they expired. */
 export const EXPIRED_MARKER_KEEP_MS = 30 * 24 * 3600 * 1000;
@@ -70,10 +73,7 @@ export async function sweepAbandonedUploads(options: SweepOptions = {}): Promise
   const message = expiredMessage(Math.max(1, Math.round(retentionMs / 3600_000)));
   const stale = { state: [...SWEPT_STATES], stage: { [Op.ne]: EXPIRED_STAGE }, updatedAt: { [Op.lt]: cutoff } };
 
-  const [cutOffCommits] = await ImportJob.update(
-    { state: "failed", stage: "failed", fraction: 0, error: CUT_OFF_MESSAGE },
-    { where: { state: "committing", updatedAt: { [Op.lt]: new Date(now.getTime() - CUT_OFF_COMMIT_MS) } } },
-  );
+  const cutOffCommits = await markCutOffCommits({}, now);
 
   let expiredJobs = 0;
   const candidates = await ImportJob.findAll({ where: stale, attributes: ["id", "filePath"] });
@@ -93,6 +93,32 @@ export async function sweepAbandonedUploads(options: SweepOptions = {}): Promise
 
   const orphanFiles = await removeOrphanFiles(options.stagingDir ?? stagingDirectory(), cutoff);
   return { cutOffCommits, expiredJobs, removedMarkers, orphanFiles };
+}
+
+/**
+ * Marks failed every "committing" job among `where` whose heartbeat is older than the cut-off, in
+ * one conditional UPDATE (a live commit that touches its job meanwhile is left alone).
+ */
+export async function markCutOffCommits(where: { id?: number }, now = new Date()): Promise<number> {
+  const [changed] = await ImportJob.update(
+    { state: "failed", stage: "failed", fraction: 0, error: CUT_OFF_MESSAGE },
+    { where: { ...where, state: "committing", updatedAt: { [Op.lt]: new Date(now.getTime() - CUT_OFF_COMMIT_MS) } } },
+  );
+  return changed;
+}
+
+/**
+ * Touches a committing job every `intervalMs` until stopped, so a commit whose step runs long
+ * (a large recompute) is not taken for a cut-off one. Only a job still "committing" is touched:
+ * a heartbeat never overwrites the commit's final state.
+ */
+export function startCommitHeartbeat(jobId: number, intervalMs = COMMIT_HEARTBEAT_MS): () => void {
+  const timer = setInterval(() => {
+    // Sequelize will not write updatedAt alone; writing fraction as it is lets it stamp updatedAt.
+    void ImportJob.update({ fraction: getSequelize().literal("fraction") as unknown as number }, { where: { id: jobId, state: "committing" } }).catch(() => undefined);
+  }, intervalMs);
+  timer.unref();
+  return () => clearInterval(timer);
 }
 
 async function removeOrphanFiles(directory: string, cutoff: Date): Promise<number> {

@@ -2,13 +2,19 @@ import type { ImportPreview } from "../../../shared/soundings/prepare";
 import type { ProjectAccess } from "~/lib/auth/access.server";
 import { ImportJob } from "~/lib/db.server";
 import { can } from "~/lib/auth/permissions";
+import { markCutOffCommits } from "./abandoned-uploads.server";
 import { commitChoicesSchema, importOptionsSchema, type CommitChoices, type ImportOptions } from "./import-options";
 
-/** An import job as its page and its progress poll see it: its uploader's, or anyone's to those the table allows. */
+/**
+ * An import job as its page and its progress poll see it: its uploader's, or anyone's to those the
+ * table allows. A commit whose heartbeat stopped (the server or its database went away mid-import)
+ * is marked failed here, at once, so the page says so and the commit can be tried again.
+ */
 export async function findImportJob(access: ProjectAccess, jobId: number): Promise<ImportJob | null> {
   const job = await ImportJob.findOne({ where: { id: jobId, projectId: access.project.id } });
   if (!job) return null;
   if (job.userId !== access.user.id && !can(access, "surveys.import.others")) return null;
+  if (job.state === "committing" && (await markCutOffCommits({ id: job.id })) === 1) await job.reload();
   return job;
 }
 

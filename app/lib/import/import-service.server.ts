@@ -1,7 +1,7 @@
 import { Op } from "sequelize";
 import type { ImportPreview } from "../../../shared/soundings/prepare";
 import { ColumnMapping, ImportJob } from "../db.server";
-import { EXPIRED_STAGE } from "./abandoned-uploads.server";
+import { EXPIRED_STAGE, startCommitHeartbeat } from "./abandoned-uploads.server";
 import { analyseStagedFile } from "./analyse.server";
 import { commitSurvey, type CommitSurveyInput, type CommittedSurvey } from "./commit.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
@@ -166,6 +166,7 @@ export function startImportJobCommit(job: ImportJob, options: ImportOptions, cho
   };
   const run = async () => {
     if (!(await claimOpenJob(job, { state: "committing", stage: "reading the file", fraction: 0, error: null }))) return;
+    const stopHeartbeat = startCommitHeartbeat(job.id);
     try {
       const outcome = await importSurveyFile({ projectId: job.projectId, userId: job.userId, ip, staged: stagedOf(job), options, choices, onProgress: progress });
       if (!outcome.ok) {
@@ -178,6 +179,8 @@ export function startImportJobCommit(job: ImportJob, options: ImportOptions, cho
     } catch (error) {
       lastWrite = Number.POSITIVE_INFINITY;
       await ImportJob.update({ state: "failed", stage: "failed", error: `Nothing was stored: ${(error as Error).message}` }, { where: { id: job.id } }).catch(() => undefined);
+    } finally {
+      stopHeartbeat();
     }
   };
   return run();
