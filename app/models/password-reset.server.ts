@@ -1,4 +1,5 @@
 import type { Transaction } from "sequelize";
+import { endSessions } from "~/lib/auth/session.server";
 import { Membership, PasswordReset, User, getSequelize } from "~/lib/db.server";
 import { sendMail } from "~/lib/mail/mail.server";
 import { hashPassword } from "~/lib/auth/password.server";
@@ -59,6 +60,8 @@ export async function resetPassword(token: string, newPassword: string, ip: stri
     if (status !== "open" || !reset) return { ok: false, reason: status === "open" ? "unknown" : status };
     await User.update({ passwordHash: await hashPassword(newPassword) }, { where: { id: reset.userId }, transaction });
     await PasswordReset.update({ usedAt: now }, { where: { userId: reset.userId, usedAt: null }, transaction });
+    // Whoever knew the old password may be signed in somewhere: every session ends.
+    await endSessions(reset.userId, "password-reset", { transaction });
     const memberships = await Membership.findAll({ where: { userId: reset.userId }, attributes: ["projectId"], transaction });
     await recordAudit({ action: AUDIT_ACTIONS.passwordReset, userId: reset.userId, ip, detail: {} }, transaction);
     for (const { projectId } of memberships) {

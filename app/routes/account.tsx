@@ -11,12 +11,13 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/http/form";
 import { AUDIT_ACTIONS } from "~/lib/audit/audit.server";
 import { changeOwnPassword, updateOwnName } from "~/lib/auth/users.server";
+import { currentSignInSession, endSessions, listSessions } from "~/lib/auth/session.server";
 import { createApiToken, listApiTokens, revokeApiToken } from "~/lib/auth/api-token.server";
 import type { Route } from "./+types/account";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { name: user.name, email: user.email, tokens: await listApiTokens(user) };
+  return { name: user.name, email: user.email, tokens: await listApiTokens(user), sessions: await listSessions(user.id, request) };
 }
 
 const schema = z.discriminatedUnion("intent", [
@@ -26,6 +27,7 @@ const schema = z.discriminatedUnion("intent", [
     .refine((value) => value.newPassword === value.confirm, { path: ["confirm"], message: "The two passwords differ." }),
   z.object({ intent: z.literal("create-token"), tokenName: z.string().trim().min(1, "Name the token after what will use it.").max(120, "At most 120 characters.") }),
   z.object({ intent: z.literal("revoke-token"), tokenId: z.coerce.number().int().positive() }),
+  z.object({ intent: z.literal("sign-out-elsewhere") }),
 ]);
 
 type ActionResult = { intent: string; errors: Record<string, string>; notice: string | null; newToken?: string };
@@ -51,10 +53,16 @@ export async function action({ request }: Route.ActionArgs) {
     await auditForAccount(user.id, AUDIT_ACTIONS.apiTokenRevoked, clientAddress(request), { tokenId: parsed.data.tokenId });
     return { intent, errors: {}, notice: "Token revoked: programs using it are refused from now on." } satisfies ActionResult;
   }
-  const outcome = await changeOwnPassword(user, parsed.data.currentPassword, parsed.data.newPassword);
+  const current = await currentSignInSession(request);
+  if (parsed.data.intent === "sign-out-elsewhere") {
+    const ended = await endSessions(user.id, "signed-out-elsewhere", { except: current?.id ?? null });
+    await auditForAccount(user.id, AUDIT_ACTIONS.signOut, clientAddress(request), { elsewhere: ended });
+    return { intent, errors: {}, notice: ended === 0 ? "You were signed in nowhere else." : `Signed out of ${ended} other browser${ended === 1 ? "" : "s"}.` } satisfies ActionResult;
+  }
+  const outcome = await changeOwnPassword(user, parsed.data.currentPassword, parsed.data.newPassword, current?.id ?? null);
   if (outcome === "wrong-password") return data({ intent, errors: { currentPassword: "That is not your current password." } as Record<string, string>, notice: null }, { status: 400 });
   await auditForAccount(user.id, AUDIT_ACTIONS.passwordChanged, clientAddress(request), {});
-  return { intent, errors: {} as Record<string, string>, notice: "Password changed." };
+  return { intent, errors: {} as Record<string, string>, notice: "Password changed. Any other browser signed in as you has been signed out." };
 }
 
 export function meta({}: Route.MetaArgs) {
@@ -83,7 +91,42 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
         <SubmitButton intent="password" pendingLabel="Changing…">Change password</SubmitButton>
       </Form>
       <ApiTokens tokens={loaderData.tokens} newToken={result?.newToken} errors={result?.intent === "create-token" || result?.intent === "revoke-token" ? errors : {}} />
+      <SignedInBrowsers sessions={loaderData.sessions} />
     </Page>
+  );
+}
+
+type SessionRow = Route.ComponentProps["loaderData"]["sessions"][number];
+
+/** Where the user is signed in, with a way to end every session but this one. */
+function SignedInBrowsers({ sessions }: { sessions: SessionRow[] }) {
+  const others = sessions.filter((session) => !session.current).length;
+  return (
+    <section className="mt-10" aria-labelledby="sessions-heading">
+      <h2 id="sessions-heading" className="text-lg font-semibold">Signed-in browsers</h2>
+      <p className="mt-1 text-sm text-muted">Each browser where you signed in. Signing out, changing your password or resetting it ends sessions; a lost phone or a shared computer is ended here.</p>
+      <table className="mt-4 w-full text-sm" data-testid="sessions">
+        <thead><tr className="text-left text-muted"><th className="py-1">Browser</th><th>Signed in</th><th>Last used</th></tr></thead>
+        <tbody>
+          {sessions.map((session) => (
+            <tr key={session.id} className="border-t border-line">
+              <td className="py-2 font-sans">{session.userAgent || "unknown browser"}{session.current ? <strong className="ml-2">(this browser)</strong> : null}</td>
+              <td>{session.startedAt.slice(0, 16).replace("T", " ")}</td>
+              <td>{session.lastSeenAt.slice(0, 16).replace("T", " ")}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      {others > 0 ? (
+        <div className="mt-3">
+          <ConfirmedActionForm
+            question={`Sign out the ${others} other browser${others === 1 ? "" : "s"}? They will need your password again.`}
+            intent="sign-out-elsewhere" fields={{}} tone="plain"
+            label="Sign out everywhere else" pendingLabel="Signing out…"
+          />
+        </div>
+      ) : null}
+    </section>
   );
 }
 

@@ -3,7 +3,7 @@ import { getOptionalUser } from "~/lib/auth/access.server";
 import { auditForAccount } from "~/lib/auth/sign-in.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { AUDIT_ACTIONS } from "~/lib/audit/audit.server";
-import { destroySession, getSession } from "~/lib/auth/session.server";
+import { signOut } from "~/lib/auth/session.server";
 import type { Route } from "./+types/logout";
 
 export async function loader() {
@@ -14,6 +14,5 @@ export async function loader() {
 export async function action({ request }: Route.ActionArgs) {
   const user = await getOptionalUser(request);
   if (user) await auditForAccount(user.id, AUDIT_ACTIONS.signOut, clientAddress(request), {});
-  const session = await getSession(request);
-  return redirect("/login", { headers: { "Set-Cookie": await destroySession(request, session) } });
+  return redirect("/login", { headers: { "Set-Cookie": await signOut(request) } });
 }

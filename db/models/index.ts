@@ -21,6 +21,7 @@ import { DiveTeam, initDiveTeam } from "./dive-team";
 import { Shoreline, initShoreline } from "./shoreline";
 import { Dive, initDive } from "./dive";
 import { DiveCell, initDiveCell } from "./dive-cell";
+import { SignInSession, initSignInSession } from "./sign-in-session";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -31,6 +32,7 @@ export { IMPORT_JOB_STATES, type ImportJobState } from "./import-job";
 export { ShareLink };
 export { Assignment, DiveTeam, Shoreline };
 export { Dive, DiveCell };
+export { SignInSession };
 export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;
@@ -63,6 +65,7 @@ export function initModels(): Sequelize {
   initShoreline(sequelize);
   initDive(sequelize);
   initDiveCell(sequelize);
+  initSignInSession(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -76,6 +79,7 @@ export function initModels(): Sequelize {
   Invitation.belongsTo(User, { foreignKey: "invitedById", as: "invitedBy" });
   User.hasMany(PasswordReset, { foreignKey: "userId", as: "passwordResets" });
   PasswordReset.belongsTo(User, { foreignKey: "userId", as: "user" });
+  User.hasMany(SignInSession, { foreignKey: "userId", as: "sessions" });
   AuditEvent.belongsTo(User, { foreignKey: "userId", as: "user" });
   AuditEvent.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   // Survey import (issue 4).

@@ -7,7 +7,7 @@ import { findProject, presentProject, type ProjectView } from "~/lib/auth/projec
 import { getUserView, type UserView } from "~/lib/auth/users.server";
 import { apiErrorResponse } from "../api/errors.server";
 import { hasBearer, userIdForBearer } from "./api-token.server";
-import { getSession } from "./session.server";
+import { currentSignInSession } from "./session.server";
 
 // The one place that decides access. The core (signedInUser, projectAccess) throws typed errors;
 // pages call requireUser / requireRole, which answer as pages do (a redirect to sign in, a 403 or
@@ -26,10 +26,8 @@ export async function getOptionalUser(request: Request): Promise<UserView | null
     const tokenUserId = await userIdForBearer(request.headers.get("Authorization"));
     return tokenUserId === null ? null : getUserView(tokenUserId);
   }
-  const session = await getSession(request);
-  const userId = session.get("userId");
-  if (typeof userId !== "number") return null;
-  return getUserView(userId);
+  const session = await currentSignInSession(request);
+  return session ? getUserView(session.userId) : null;
 }
 
 function isApiPath(pathname: string): boolean {

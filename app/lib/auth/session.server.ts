@@ -1,13 +1,20 @@
+import { createHash, randomBytes } from "node:crypto";
 import { createCookieSessionStorage, redirect, type Session } from "react-router";
+import { Op, type Transaction } from "sequelize";
+import { SignInSession } from "~/lib/db.server";
+import { clientAddress } from "../http/client-address.server";
 import { getEnv } from "../settings/env.server";
 
 // One cookie session for the whole app. The cookie is HttpOnly and SameSite=Lax always, and
 // Secure except on plain http to a loopback address or outside production (browsers drop
 // Secure cookies sent over http, which would make sign-in impossible in local runs).
+//
+// The cookie carries only a random session token; the session itself is a row of
+// sign_in_sessions (the token's SHA-256, when it was last used, when it ends), so Firmsand can end
+// it: signing out ends this one, a password change the user's others, a reset all of them.
 
 export interface SessionData {
-  userId: number;
-  signedInAt: string;
+  sessionToken: string;
 }
 // No flash messages: pages say what happened through their action data or the URL.
 type SessionFlash = Record<string, never>;
@@ -15,6 +22,8 @@ type AppSession = Session<SessionData, SessionFlash>;
 
 const LOOPBACK = new Set(["127.0.0.1", "localhost", "[::1]", "::1"]);
 const storages = new Map<boolean, ReturnType<typeof createCookieSessionStorage<SessionData, SessionFlash>>>();
+/** lastSeenAt is written at most this often per session, so reading a page does not write each time. */
+const TOUCH_EVERY_MS = 60_000;
 
 function isSecureRequest(request: Request): boolean {
   const url = new URL(request.url);
@@ -34,7 +43,7 @@ function storageFor(request: Request) {
         sameSite: "lax",
         secure,
         path: "/",
-        maxAge: 60 * 60 * 24 * 14,
+        maxAge: 60 * 60 * 24 * getEnv().SESSION_MAX_DAYS,
         secrets: [getEnv().SESSION_SECRET],
       },
     });
@@ -55,12 +64,87 @@ export function destroySession(request: Request, session: AppSession): Promise<s
   return storageFor(request).destroySession(session);
 }
 
-/** Starts a fresh session for the user and redirects to `to`. */
+function hashSessionToken(token: string): string {
+  return createHash("sha256").update(token).digest("hex");
+}
+
+export type SessionEndReason = "signed-out" | "password-changed" | "password-reset" | "signed-out-elsewhere" | "account-disabled";
+
+/** The request's live session row: not ended, used within the idle limit, before its absolute end. */
+export async function currentSignInSession(request: Request, now = new Date()): Promise<SignInSession | null> {
+  const token = (await getSession(request)).get("sessionToken");
+  if (typeof token !== "string" || token.length === 0) return null;
+  const row = await SignInSession.findOne({ where: { tokenHash: hashSessionToken(token), endedAt: null } });
+  if (!row) return null;
+  const idleSince = now.getTime() - getEnv().SESSION_IDLE_HOURS * 3600_000;
+  if (row.expiresAt.getTime() <= now.getTime() || row.lastSeenAt.getTime() <= idleSince) return null;
+  if (now.getTime() - row.lastSeenAt.getTime() >= TOUCH_EVERY_MS) {
+    await SignInSession.update({ lastSeenAt: now }, { where: { id: row.id, endedAt: null } });
+    row.lastSeenAt = now;
+  }
+  return row;
+}
+
+/** Starts a fresh session for the user (a new server-side row) and redirects to `to`. */
 export async function signIn(request: Request, userId: number, to: string) {
+  const token = randomBytes(32).toString("base64url");
+  const now = new Date();
+  await SignInSession.create({
+    userId,
+    tokenHash: hashSessionToken(token),
+    userAgent: (request.headers.get("User-Agent") ?? "").slice(0, 300),
+    ip: clientAddress(request),
+    lastSeenAt: now,
+    expiresAt: new Date(now.getTime() + getEnv().SESSION_MAX_DAYS * 24 * 3600_000),
+  });
   const session = await storageFor(request).getSession();
-  session.set("userId", userId);
-  session.set("signedInAt", new Date().toISOString());
+  session.set("sessionToken", token);
   return redirect(to, { headers: { "Set-Cookie": await commitSession(request, session) } });
+}
+
+/** Ends the request's own session (signing out) and returns the cookie that clears it. */
+export async function signOut(request: Request): Promise<string> {
+  const current = await currentSignInSession(request);
+  if (current) await endSessions(current.userId, "signed-out", { only: current.id });
+  return destroySession(request, await getSession(request));
+}
+
+/**
+ * Ends a user's open sessions: all of them, all but `except` (a password change keeps the
+ * browser that made it), or `only` one. Returns how many ended.
+ */
+export async function endSessions(userId: number, reason: SessionEndReason, options: { except?: number | null; only?: number; transaction?: Transaction } = {}): Promise<number> {
+  const where = {
+    userId,
+    endedAt: null,
+    ...(options.only !== undefined ? { id: options.only } : options.except ? { id: { [Op.ne]: options.except } } : {}),
+  };
+  const [ended] = await SignInSession.update({ endedAt: new Date(), endedReason: reason }, { where, transaction: options.transaction });
+  return ended;
+}
+
+export interface SessionView {
+  id: number;
+  startedAt: string;
+  lastSeenAt: string;
+  userAgent: string;
+  current: boolean;
+}
+
+/** The user's live sessions, newest use first, the request's own marked. */
+export async function listSessions(userId: number, request: Request): Promise<SessionView[]> {
+  const now = new Date();
+  const current = await currentSignInSession(request, now);
+  const rows = await SignInSession.findAll({
+    where: {
+      userId,
+      endedAt: null,
+      expiresAt: { [Op.gt]: now },
+      lastSeenAt: { [Op.gt]: new Date(now.getTime() - getEnv().SESSION_IDLE_HOURS * 3600_000) },
+    },
+    order: [["lastSeenAt", "DESC"]],
+  });
+  return rows.map((row) => ({ id: row.id, startedAt: row.createdAt.toISOString(), lastSeenAt: row.lastSeenAt.toISOString(), userAgent: row.userAgent, current: row.id === current?.id }));
 }
 
 /** Only same-site paths are followed after sign-in (no open redirects). */

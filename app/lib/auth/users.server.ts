@@ -1,3 +1,4 @@
+import { endSessions } from "./session.server";
 import { hashPassword, verifyPassword } from "~/lib/auth/password.server";
 import { User } from "~/lib/db.server";
 
@@ -30,11 +31,16 @@ export async function updateOwnName(actingUser: UserView, name: string): Promise
   await User.update({ name }, { where: { id: actingUser.id } });
 }
 
-/** The acting user changes their own password, proving they know the current one. */
-export async function changeOwnPassword(actingUser: UserView, currentPassword: string, newPassword: string): Promise<"changed" | "wrong-password"> {
+/**
+ * The acting user changes their own password, proving they know the current one. Every other
+ * session of theirs ends (someone who knew the old password may be signed in elsewhere); the
+ * session `keepSessionId` that made the change stays.
+ */
+export async function changeOwnPassword(actingUser: UserView, currentPassword: string, newPassword: string, keepSessionId: number | null): Promise<"changed" | "wrong-password"> {
   const user = await User.findByPk(actingUser.id);
   if (!user || !(await verifyPassword(currentPassword, user.passwordHash))) return "wrong-password";
   user.passwordHash = await hashPassword(newPassword);
   await user.save();
+  await endSessions(user.id, "password-changed", { except: keepSessionId });
   return "changed";
 }

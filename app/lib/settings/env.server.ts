@@ -29,6 +29,10 @@ const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default("Firmsand <no-reply@firmsand.localhost>"),
   MAILBOX_DIR: z.string().min(1).default(join(DATA_DIR, "mail-dev")),
   SESSION_SECRET: z.string().min(16, "SESSION_SECRET must be at least 16 characters").optional(),
+  /** A sign-in session unused this long ends (hours; 1 hour to 30 days). */
+  SESSION_IDLE_HOURS: z.coerce.number({ message: "SESSION_IDLE_HOURS must be a number of hours" }).min(1, "SESSION_IDLE_HOURS must be at least 1").max(720, "SESSION_IDLE_HOURS must be at most 720 (30 days)").default(12),
+  /** A sign-in session ends this long after it began, however much it is used (days; 1 to 90). */
+  SESSION_MAX_DAYS: z.coerce.number({ message: "SESSION_MAX_DAYS must be a number of days" }).min(1, "SESSION_MAX_DAYS must be at least 1").max(90, "SESSION_MAX_DAYS must be at most 90").default(14),
   DEMO_MODE: flag,
   /** The public origin (scheme://host[:port]) when the app sits behind a proxy; else taken from the request. */
   APP_ORIGIN: z.url().optional(),
