@@ -45,7 +45,7 @@ export interface ProgressView {
   series: {
     dates: string[];
     totalRemovedVolume: number[];
-    zones: Array<{ zoneId: number; name: string; removedVolume: Array<number | null> }>;
+    zones: Array<{ zoneId: number | null; name: string; removedVolume: Array<number | null> }>;
   };
   production: ProductionInterval[];
   workingDayBasis: WorkingDayBasis;
