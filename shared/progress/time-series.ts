@@ -8,6 +8,7 @@ export interface SnapshotFiguresInput {
   surveyedOn: string;
   removedVolume: number;
   remainingVolume: number;
+  /** zoneId null: the Unzoned row (cells inside the work limit in no zone). */
   zones: ReadonlyArray<{ zoneId: number | null; removedVolume: number; remainingVolume: number }>;
 }
 
