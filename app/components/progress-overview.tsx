@@ -1,7 +1,8 @@
 import { useState } from "react";
 import type { ProgressFigures, ProgressView, ZoneProgress } from "~/models/progress.server";
 import { CumulativeRemovedChart, ProductionChart } from "./progress-charts";
-import { Percent, Volume, formatNumber } from "./progress-figures";
+import { UNZONED_NOTE } from "../../shared/volumes/rollup";
+import { Percent, Volume, ZoneName, formatNumber, zoneKey } from "./progress-figures";
 
 /** The manager's progress overview: zone table with bars, charts, forecast, and their assumptions. */
 
@@ -76,8 +77,8 @@ export function ZoneTable({ progress }: { progress: ProgressView }) {
         </thead>
         <tbody>
           {zones.map((zone) => (
-            <tr key={zone.zoneId} className="border-b border-line" data-zone={zone.name}>
-              <th scope="row" className="px-2 py-1 text-left font-sans font-normal">{zone.name}</th>
+            <tr key={zoneKey(zone)} className="border-b border-line" data-zone={zone.name} data-unzoned={zone.zoneId === null ? "" : undefined}>
+              <th scope="row" className="px-2 py-1 text-left font-sans font-normal"><ZoneName zone={zone} /></th>
               <FigureCells figures={zone} unit={unit} />
             </tr>
           ))}
@@ -100,8 +101,8 @@ function ForecastList({ progress }: { progress: ProgressView }) {
       {progress.zones.map((zone) => {
         const { forecast } = zone;
         return (
-          <li key={zone.zoneId}>
-            <span className="font-medium">{zone.name}:</span>{" "}
+          <li key={zoneKey(zone)}>
+            <span className="font-medium"><ZoneName zone={zone} />:</span>{" "}
             {forecast.state === "finished" ? "finished: every cell is at firm sand (what remains is within the tolerance)." : null}
             {forecast.state === "no-rate" ? "no forecast yet: no removal measured between two surveys of this zone." : null}
             {forecast.state === "forecast" ? (
@@ -155,6 +156,7 @@ export function ProgressOverview({ progress, links }: { progress: ProgressView; 
         {progress.hasFigures ? <ZoneTable progress={progress} /> : <p className="mt-2 text-sm text-muted">{progress.reason}</p>}
         <p className="mt-2 text-xs text-muted">
           Volumes in {unit}. Complete by volume = (planned − remaining) ÷ planned, held within 0–100 %. Cells at firm sand include confirmed cells.
+          {progress.zones.some((zone) => zone.zoneId === null) ? ` ${UNZONED_NOTE}` : null}
         </p>
       </section>
       {progress.hasFigures ? (

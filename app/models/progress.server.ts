@@ -5,6 +5,7 @@ import { percentCellsAtFirmSand, percentCompleteByVolume } from "../../shared/pr
 import { productionIntervals, type ProductionInterval } from "../../shared/progress/production";
 import { progressSeries } from "../../shared/progress/time-series";
 import { workingCalendar, type WorkingDayBasis } from "../../shared/progress/working-days";
+import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { unitLabel, volumeUnitFor, type VolumeUnit } from "../../shared/units";
 import { Assignment, CellResult, Survey, SurveySnapshot, Zone, getSequelize } from "~/lib/db.server";
 import { loadEndAreaCrossCheck, type EndAreaCrossCheck } from "./end-area-check.server";
@@ -27,7 +28,8 @@ export interface ProgressFigures extends Omit<CellVolumes, "depositedVolume">, C
 }
 
 export interface ZoneProgress extends ProgressFigures {
-  zoneId: number;
+  /** null for the Unzoned row: the cells inside the work limit that no zone holds. */
+  zoneId: number | null;
   name: string;
   forecast: ZoneForecast;
 }
@@ -41,11 +43,12 @@ export interface ProgressView {
   /** Why there are no figures, when there are none. */
   reason: string | null;
   total: ProgressFigures;
+  /** Every zone, then the Unzoned row when any cell lies in no zone: they add up to `total`. */
   zones: ZoneProgress[];
   series: {
     dates: string[];
     totalRemovedVolume: number[];
-    zones: Array<{ zoneId: number; name: string; removedVolume: Array<number | null> }>;
+    zones: Array<{ zoneId: number | null; name: string; removedVolume: Array<number | null> }>;
   };
   production: ProductionInterval[];
   workingDayBasis: WorkingDayBasis;
@@ -118,14 +121,15 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
 
   const total = emptyFigures();
   const byZone = new Map(zones.map((zone) => [zone.id, emptyFigures()]));
+  const unzoned = emptyFigures();
   for (const cell of cells as unknown as CellRow[]) {
     const date = cell.latestSurveyId === null ? null : surveyDate.get(Number(cell.latestSurveyId)) ?? null;
     addCell(total, cell, date);
-    if (cell.zoneId !== null) {
-      const figures = byZone.get(Number(cell.zoneId));
-      if (figures) addCell(figures, cell, date);
-    }
+    // The engine gave each cell its one zone (shared/volumes/rollup.ts); a cell in none is Unzoned.
+    addCell((cell.zoneId === null ? undefined : byZone.get(Number(cell.zoneId))) ?? unzoned, cell, date);
   }
+  const rows: Array<{ zoneId: number | null; name: string; figures: ProgressFigures }> = zones.map((zone) => ({ zoneId: zone.id, name: zone.name, figures: byZone.get(zone.id)! }));
+  if (unzoned.cells > 0) rows.push({ zoneId: null, name: UNZONED_NAME, figures: unzoned });
 
   const series = progressSeries(
     snapshots.map((snapshot) => ({
@@ -134,19 +138,19 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
       remainingVolume: snapshot.totals.remainingVolume,
       zones: snapshot.zones.map((zone) => ({ zoneId: zone.zoneId, removedVolume: zone.totals.removedVolume, remainingVolume: zone.totals.remainingVolume })),
     })),
-    zones.map((zone) => zone.id),
+    rows.map((row) => row.zoneId),
   );
   const calendar = workingCalendar(planDates);
 
-  const zoneProgress: ZoneProgress[] = zones.map((zone, index) => {
-    const figures = finish(byZone.get(zone.id)!);
+  const zoneProgress: ZoneProgress[] = rows.map((zone, index) => {
+    const figures = finish(zone.figures);
     const zoneSeries = series.zones[index];
     // A change smaller than 5 % of the zone's planned volume is survey noise (edge lines of passes over
     // a neighbouring zone), not a day's work: it must not set the zone's rate.
     const forecastOptions = { finishedBelowVolume: NEGLIGIBLE_VOLUME, changeThresholdVolume: Math.max(NEGLIGIBLE_VOLUME, CHANGE_SHARE * figures.plannedVolume),
       everyCellAtFirmSand: figures.cells > 0 && figures.cellsAtFirmSand === figures.cells,
     };
-    return { zoneId: zone.id, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, calendar, forecastOptions) };
+    return { zoneId: zone.zoneId, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, calendar, forecastOptions) };
   });
   const basisWords = calendar.basis === "dive-plans"
     ? "Working days are the days with a dive plan between two survey dates; where an interval has no dive plan, its weekdays (Monday to Friday)."
@@ -164,7 +168,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
       totalRemovedVolume: [...series.totalRemovedVolume],
       zones: series.zones.map((zoneSeries, index) => ({
         zoneId: zoneSeries.zoneId,
-        name: zones[index].name,
+        name: rows[index].name,
         removedVolume: [...zoneSeries.removedVolume].map((value) => (Number.isFinite(value) ? value : null)),
       })),
     },

@@ -3,6 +3,7 @@ import { cellPolygon, createCellGrid } from "../../shared/grid/cell-grid";
 import { csvLine, type CsvValue } from "../../shared/csv-safe";
 import { selectSurveysInForce } from "../../shared/surveys-in-force";
 import { unitLabel } from "../../shared/units";
+import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 import { CellResult, Survey, Zone } from "~/lib/db.server";
 import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
@@ -101,6 +102,7 @@ export function quantitiesCsv(view: QuantitiesView, generatedAt: Date): string {
   lines.push(csvLine(["Units", `volumes in ${volume}; lengths in ${project.lengthLabelLong} (${project.lengthLabel}); areas in ${project.lengthLabel}²`]));
   lines.push(csvLine(["Method", view.method]));
   lines.push(csvLine(["Generated", generatedAt.toISOString()]));
+  if (progress.zones.some((zone) => zone.zoneId === null)) lines.push(csvLine(["Zone rows", UNZONED_NOTE]));
   lines.push("\r\n");
   lines.push(csvLine(["Zone totals"]));
   lines.push(csvLine([

@@ -94,7 +94,8 @@ export interface PublicProgressView {
   removedVolume: number;
   volumeLabel: string;
   workLimit: LonLatRing[][];
-  zones: Array<{ name: string; percentComplete: number | null; polygons: LonLatRing[][] }>;
+  /** Every zone, then the Unzoned row (`unzoned`, no outline) when part of the work limit lies in no zone. */
+  zones: Array<{ name: string; percentComplete: number | null; polygons: LonLatRing[][]; unzoned: boolean }>;
 }
 
 /** Polygon or MultiPolygon GeoJSON → polygons of rings of [lon, lat]; nothing else of the object is read. */
@@ -124,7 +125,8 @@ export async function presentPublicProgress(projectId: number, link: Pick<ShareL
     zones: progress.zones.map((zone) => ({
       name: zone.name,
       percentComplete: wholePercent(zone.percentCompleteByVolume),
-      polygons: lonLatPolygons(zonePolygons.get(zone.zoneId) ?? null),
+      polygons: zone.zoneId === null ? [] : lonLatPolygons(zonePolygons.get(zone.zoneId) ?? null),
+      unzoned: zone.zoneId === null,
     })),
   };
 }

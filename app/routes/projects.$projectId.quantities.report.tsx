@@ -1,4 +1,5 @@
-import { Percent, Volume } from "~/components/progress-figures";
+import { Percent, Volume, ZoneName, zoneKey } from "~/components/progress-figures";
+import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 import { requireRole } from "~/lib/auth/access.server";
 import { loadQuantities } from "~/models/quantities.server";
 import type { Route } from "./+types/projects.$projectId.quantities.report";
@@ -60,8 +61,8 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
         </thead>
         <tbody>
           {zones.map((zone) => (
-            <tr key={zone.zoneId} className="border-b border-line">
-              <th scope="row" className="py-1 text-left font-sans font-normal">{zone.name}</th>
+            <tr key={zoneKey(zone)} className="border-b border-line">
+              <th scope="row" className="py-1 text-left font-sans font-normal"><ZoneName zone={zone} /></th>
               <td><Volume value={zone.plannedVolume} unit={unit} digits={1} /></td><td><Volume value={zone.removedVolume} unit={unit} digits={1} /></td>
               <td><Volume value={zone.remainingVolume} unit={unit} digits={1} /></td><td><Percent value={zone.percentCompleteByVolume} digits={1} /></td>
               <td className="figures">{zone.cellsAtFirmSand} / {zone.cells}</td><td className="figures">{zone.cellsConfirmed}</td><td className="figures">{zone.lastSurveyOn ?? "–"}</td>
@@ -75,6 +76,7 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
           </tr>
         </tbody>
       </table>
+      {zones.some((zone) => zone.zoneId === null) ? <p className="mt-2 text-xs text-muted">{UNZONED_NOTE}</p> : null}
       <section aria-labelledby="signatures" className="mt-10 break-inside-avoid">
         <h2 id="signatures" className="font-semibold">Review</h2>
         <p className="mt-1 text-sm">I have reviewed the quantities above against the surveys named in this report.</p>

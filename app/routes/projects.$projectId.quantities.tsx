@@ -1,5 +1,6 @@
 import { Link } from "react-router";
-import { Percent, Volume } from "~/components/progress-figures";
+import { Percent, Volume, ZoneName, zoneKey } from "~/components/progress-figures";
+import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 import { requireRole } from "~/lib/auth/access.server";
 import { loadQuantities } from "~/models/quantities.server";
 import type { Route } from "./+types/projects.$projectId.quantities";
@@ -44,8 +45,8 @@ export default function Quantities({ loaderData }: Route.ComponentProps) {
           <thead><tr className="border-b border-line"><th className="py-1 text-left font-sans">Zone</th><th>Planned</th><th>Removed</th><th>Remaining</th><th>Complete</th></tr></thead>
           <tbody>
             {zones.map((zone) => (
-              <tr key={zone.zoneId} className="border-b border-line">
-                <th scope="row" className="py-1 text-left font-sans font-normal">{zone.name}</th>
+              <tr key={zoneKey(zone)} className="border-b border-line">
+                <th scope="row" className="py-1 text-left font-sans font-normal"><ZoneName zone={zone} /></th>
                 <td><Volume value={zone.plannedVolume} unit={unit} /></td><td><Volume value={zone.removedVolume} unit={unit} /></td>
                 <td><Volume value={zone.remainingVolume} unit={unit} /></td><td><Percent value={zone.percentCompleteByVolume} /></td>
               </tr>
@@ -57,6 +58,7 @@ export default function Quantities({ loaderData }: Route.ComponentProps) {
             </tr>
           </tbody>
         </table>
+        {zones.some((zone) => zone.zoneId === null) ? <p className="mt-2 text-xs text-muted">{UNZONED_NOTE}</p> : null}
       </section>
     </div>
   );

@@ -60,14 +60,16 @@ export default function SharePage({ loaderData: view }: Route.ComponentProps) {
       </dl>
       {view.publicText ? <p className="mt-4 whitespace-pre-line">{view.publicText}</p> : null}
       <figure className="mt-4 rounded border border-line bg-panel p-2">
-        <ProgressOutlineMap workLimit={view.workLimit} zones={view.zones} title={`Zones of ${view.projectName} coloured by percent complete`} />
+        <ProgressOutlineMap workLimit={view.workLimit} zones={view.zones.filter((zone) => !zone.unzoned)} title={`Zones of ${view.projectName} coloured by percent complete`} />
         <figcaption className="mt-2"><PercentLegend /></figcaption>
       </figure>
       <h2 className="mt-4 font-semibold">Zones</h2>
       <ul className="mt-2 grid gap-2" aria-label="Zones">
         {view.zones.map((zone) => (
-          <li key={zone.name} className="rounded border border-line bg-panel p-2">
-            <div className="flex justify-between gap-2"><span>{zone.name}</span><span className="figures">{zone.percentComplete === null ? "–" : `${zone.percentComplete} %`}</span></div>
+          <li key={zone.unzoned ? "unzoned" : zone.name} className="rounded border border-line bg-panel p-2" data-unzoned={zone.unzoned ? "" : undefined}>
+            <div className="flex justify-between gap-2">
+              {zone.unzoned ? <span className="italic">{zone.name} <span className="text-xs not-italic text-muted">(parts of the work area in no zone)</span></span> : <span>{zone.name}</span>}
+              <span className="figures">{zone.percentComplete === null ? "–" : `${zone.percentComplete} %`}</span></div>
             <div className="mt-1 h-2 rounded bg-paper" aria-hidden="true"><div className="h-2 rounded bg-lagoon" style={{ width: `${zone.percentComplete ?? 0}%` }} /></div>
           </li>
         ))}

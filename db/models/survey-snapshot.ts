@@ -21,7 +21,7 @@ export class SurveySnapshot extends Model<InferAttributes<SurveySnapshot>, Infer
   declare surveyedOn: string;
   declare lastSurveyId: ForeignKey<Survey["id"]>;
   declare totals: FigureTotals;
-  declare zones: Array<{ zoneId: number; name: string; totals: FigureTotals }>;
+  declare zones: Array<{ zoneId: number | null; name: string; totals: FigureTotals }>;
   declare cellCols: number;
   declare cellRows: number;
   declare firstCol: number;
@@ -38,7 +38,7 @@ export function initSurveySnapshot(sequelize: Sequelize) {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       surveyedOn: { type: DataTypes.DATEONLY, allowNull: false },
       totals: jsonColumn("survey_snapshots", "totals", totalsSchema),
-      zones: jsonColumn("survey_snapshots", "zones", z.array(z.object({ zoneId: z.number(), name: z.string(), totals: totalsSchema }))),
+      zones: jsonColumn("survey_snapshots", "zones", z.array(z.object({ zoneId: z.number().nullable(), name: z.string(), totals: totalsSchema }))),
       cellCols: { type: DataTypes.INTEGER, allowNull: false },
       cellRows: { type: DataTypes.INTEGER, allowNull: false },
       firstCol: { type: DataTypes.INTEGER, allowNull: false },

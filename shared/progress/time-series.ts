@@ -8,7 +8,8 @@ export interface SnapshotFiguresInput {
   surveyedOn: string;
   removedVolume: number;
   remainingVolume: number;
-  zones: ReadonlyArray<{ zoneId: number; removedVolume: number; remainingVolume: number }>;
+  /** zoneId null: the Unzoned row (cells inside the work limit in no zone). */
+  zones: ReadonlyArray<{ zoneId: number | null; removedVolume: number; remainingVolume: number }>;
 }
 
 export interface ProgressSeries {
@@ -17,10 +18,10 @@ export interface ProgressSeries {
   /** Project volume unit, one value per date. */
   totalRemovedVolume: Float64Array;
   totalRemainingVolume: Float64Array;
-  zones: Array<{ zoneId: number; removedVolume: Float64Array; remainingVolume: Float64Array }>;
+  zones: Array<{ zoneId: number | null; removedVolume: Float64Array; remainingVolume: Float64Array }>;
 }
 
-export function progressSeries(snapshots: readonly SnapshotFiguresInput[], zoneIds: readonly number[]): ProgressSeries {
+export function progressSeries(snapshots: readonly SnapshotFiguresInput[], zoneIds: ReadonlyArray<number | null>): ProgressSeries {
   const ordered = [...snapshots].sort((a, b) => (a.surveyedOn < b.surveyedOn ? -1 : a.surveyedOn > b.surveyedOn ? 1 : 0));
   const count = ordered.length;
   const series: ProgressSeries = {

@@ -2,6 +2,7 @@ import Papa from "papaparse";
 import { request as playwrightRequest } from "@playwright/test";
 import { GRID, PEOPLE, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { startsLikeFormula } from "../../shared/csv-safe";
+import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { walkPublicText, type PublicWalkRules } from "../integration/progress-public-walk";
 import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, signInWithPassword, DEMO_PASSWORD, test } from "./fixtures";
 
@@ -32,6 +33,12 @@ test("the manager sees the zone table and the charts, and can sort the table", a
   const table = page.getByTestId("zone-table");
   await expect(table).toBeVisible();
   for (const name of ZONE_NAMES) await expect(table.locator(`tr[data-zone="${name}"]`)).toBeVisible();
+  // The demo's edge cells lie in no zone: their row is there, set apart from the drawn zones, and explained.
+  const unzoned = table.locator(`tr[data-zone="${UNZONED_NAME}"]`);
+  await expect(unzoned).toBeVisible();
+  await expect(unzoned).toHaveAttribute("data-unzoned", "");
+  await expect(unzoned.getByRole("rowheader")).toContainText("cells in no zone");
+  await expect(page.getByText(/Unzoned: the cells inside the work limit that no zone holds/)).toBeVisible();
   await expect(table.locator('tr[data-zone="Project"]')).toContainText("yd³");
   await expect(page.getByTestId("cumulative-chart")).toBeVisible();
   await expect(page.getByTestId("production-chart")).toBeVisible();
@@ -72,8 +79,8 @@ test("the quantities CSV has the right totals and no cell a spreadsheet could ru
   expect(rows.find((row) => row[0] === "Units")![1]).toContain("yd³");
   expect(rows.find((row) => row[0] === "Method")![1]).toMatch(/Delaunay/);
   const header = rows.findIndex((row) => row[0] === "zone");
-  const zoneRows = rows.slice(header + 1, header + 1 + ZONE_NAMES.length);
-  expect(zoneRows.map((row) => row[0])).toEqual(ZONE_NAMES);
+  const zoneRows = rows.slice(header + 1, header + 1 + ZONE_NAMES.length + 1);
+  expect(zoneRows.map((row) => row[0])).toEqual([...ZONE_NAMES, UNZONED_NAME]); // the zones, then the cells in no zone
   const total = rows.find((row) => row[0] === "Project total")!;
   // computed: the CSV's project total is the progress API's, and the cells add up to it
   expect(Number(total[2])).toBeCloseTo(progress.total.removedVolume, 1);
@@ -122,6 +129,7 @@ test("outreach creates a link, a signed-out browser sees the zones, outreach rev
   await expect(publicPage.getByTestId("progress-map")).toBeVisible();
   await expect(publicPage.getByText("Crews are removing muck")).toBeVisible();
   await expect(publicPage.getByRole("list", { name: "Zones" })).toContainText("Vent basin");
+  await expect(publicPage.getByRole("list", { name: "Zones" }).locator("li[data-unzoned]")).toContainText(UNZONED_NAME);
   // The whole public response: the HTML (with the data it embeds) and the data the page loads.
   expect(walkPublicText(await response!.text(), RULES, "html")).toEqual([]);
   const dataResponse = await visitor.request.get(`${new URL(url!).pathname}.data`);

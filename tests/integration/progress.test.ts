@@ -11,9 +11,9 @@ import { computeSurveyVolumes, type EngineSettings } from "../../shared/pipeline
 import { workingDaysBetween, workingCalendar } from "../../shared/progress/working-days";
 import { soundingElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
-import { rollUpZones } from "../../shared/volumes/rollup";
+import { UNZONED_NAME, rollUpZones } from "../../shared/volumes/rollup";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
-import { Assignment, DiveTeam, Project, ShareLink, Survey, User, Zone } from "~/lib/db.server";
+import { Assignment, DiveTeam, Project, ShareLink, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
 import { importSurveyFile } from "~/lib/import/import-service.server";
 import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { loadProgress, type ProgressView } from "~/models/progress.server";
@@ -24,6 +24,7 @@ import { hashLinkToken } from "~/lib/auth/tokens.server";
 import * as shareLinksApi from "~/routes/api.projects.$projectId.share-links";
 import * as shareLinkApi from "~/routes/api.projects.$projectId.share-links.$token";
 import * as progressApi from "~/routes/api.projects.$projectId.progress";
+import * as quantitiesReport from "~/routes/projects.$projectId.quantities.report";
 import { ORIGIN, addMember, makeUser, requestAs } from "./helpers";
 import { DEMO_DIR, makeDemoSiteProject, projectCrs } from "./import-helpers";
 import { polygonVertices, walkPublicValue, type PublicWalkRules } from "./progress-public-walk";
@@ -67,7 +68,8 @@ function engineOn(surveys: DemoSurvey[]) {
     plannedVolume: totals.plannedVolumeCubicLength / 27, removedVolume: totals.removedVolumeCubicLength / 27, remainingVolume: totals.remainingVolumeCubicLength / 27,
     cells: totals.cells, cellsAtFirmSand: totals.cellsAtFirmSand,
   });
-  return { total: yd3(result.totals), zones: new Map(zones.map((zone) => [zone.id, yd3(zone.totals)])) };
+  // Keyed by zone name; the Unzoned row (id null) by UNZONED_NAME, as the app names it.
+  return { total: yd3(result.totals), zones: new Map(zones.map((zone) => [zone.id ?? UNZONED_NAME, yd3(zone.totals)])) };
 }
 
 function expectClose(actual: number, expected: number, relative = 1e-9, label = "") {
@@ -118,7 +120,9 @@ describe("progress figures equal the engine on the same surveys", () => {
 
   it("zone totals", () => {
     const direct = engineOn(SURVEYS);
-    expect(progress.zones.map((zone) => zone.name)).toEqual(ZONES.map((zone) => zone.name));
+    // The demo's edge cells lie in no zone: an Unzoned row (zone id null) follows the zones.
+    expect(progress.zones.map((zone) => zone.name)).toEqual([...ZONES.map((zone) => zone.name), UNZONED_NAME]);
+    expect(progress.zones.map((zone) => zone.zoneId === null)).toEqual([...ZONES.map(() => false), true]);
     for (const zone of progress.zones) {
       const engine = direct.zones.get(zone.name)!;
       expectClose(zone.plannedVolume, engine.plannedVolume, 1e-9, `${zone.name} planned`); // computed
@@ -211,6 +215,76 @@ describe("progress figures equal the engine on the same surveys", () => {
   });
 });
 
+describe("zone rows add up to the project for every figure", () => {
+  const VOLUMES = ["plannedVolume", "removedVolume", "remainingVolume"] as const;
+  const COUNTS = ["cells", "cellsAtFirmSand", "cellsConfirmed", "cellsInWork", "cellsUntouched", "cellsNoData"] as const;
+  type Row = Record<(typeof VOLUMES)[number] | (typeof COUNTS)[number], number>;
+
+  /** invariant: every cell inside the work limit is in exactly one row, so the rows sum to the project. */
+  function expectRowsAddUp(rows: readonly Row[], total: Row, volumeTolerance: number, where: string) {
+    for (const key of VOLUMES) {
+      const sum = rows.reduce((running, row) => running + row[key], 0);
+      expect(Math.abs(sum - total[key]), `${where} ${key}: rows ${sum} vs project ${total[key]}`).toBeLessThanOrEqual(volumeTolerance);
+    }
+    for (const key of COUNTS) expect(rows.reduce((running, row) => running + row[key], 0), `${where} ${key}`).toBe(total[key]);
+  }
+
+  it("the demo has an Unzoned row holding its edge cells, as the direct engine finds them", () => {
+    const unzoned = progress.zones.find((zone) => zone.zoneId === null)!;
+    const direct = engineOn(SURVEYS).zones.get(UNZONED_NAME)!;
+    expect(unzoned.cells).toBe(direct.cells); // computed: cells whose centroid no zone polygon holds
+    expectClose(unzoned.plannedVolume, direct.plannedVolume, 1e-9, "Unzoned planned"); // computed
+    console.log(`[progress] Unzoned: ${unzoned.cells} cells, ${unzoned.plannedVolume.toFixed(2)} of ${progress.total.plannedVolume.toFixed(2)} yd³ planned`);
+  }, 120_000);
+
+  it("in the progress API's JSON", async () => {
+    const response = (await progressApi.loader({ request: await requestAs(site.users.viewer, `/api/projects/${project.id}/progress`), params: { projectId: String(project.id) }, context: {} } as never)) as Response;
+    const body = (await response.json()) as ProgressView;
+    expectRowsAddUp(body.zones, body.total, 0.01, "API");
+    // and every survey date of the series: zones' removed volumes sum to the project's
+    body.series.dates.forEach((date, index) => {
+      const sum = body.series.zones.reduce((running, zone) => running + zone.removedVolume[index]!, 0);
+      expect(Math.abs(sum - body.series.totalRemovedVolume[index]), date).toBeLessThanOrEqual(0.01);
+    });
+  });
+
+  it("in every stored snapshot, deposited volume included", async () => {
+    const snapshots = await SurveySnapshot.findAll({ where: { projectId: project.id } });
+    expect(snapshots).toHaveLength(SURVEYS.length);
+    for (const snapshot of snapshots) {
+      expect(snapshot.zones.at(-1)!.zoneId).toBeNull();
+      expectRowsAddUp(snapshot.zones.map((zone) => zone.totals as Row), snapshot.totals, 0.01, String(snapshot.surveyedOn));
+      const deposited = snapshot.zones.reduce((running, zone) => running + zone.totals.depositedVolume, 0);
+      expect(Math.abs(deposited - snapshot.totals.depositedVolume), `${snapshot.surveyedOn} depositedVolume`).toBeLessThanOrEqual(0.01);
+    }
+  });
+
+  it("in the quantities CSV", async () => {
+    const rows = Papa.parse<string[]>(quantitiesCsv(await loadQuantities(project), new Date("2026-12-01T00:00:00Z")), { skipEmptyLines: true }).data;
+    expect(rows.find((row) => row[0] === "Zone rows")?.[1]).toMatch(/^Unzoned: /);
+    const header = rows.findIndex((row) => row[0] === "zone");
+    const totalAt = rows.findIndex((row) => row[0] === "Project total");
+    const parse = (row: string[]): Row => ({
+      plannedVolume: Number(row[1]), removedVolume: Number(row[2]), remainingVolume: Number(row[3]),
+      cells: Number(row[5]), cellsAtFirmSand: Number(row[6]), cellsConfirmed: Number(row[7]),
+      // the CSV prints no in-work, untouched or no-data counts
+      cellsInWork: 0, cellsUntouched: 0, cellsNoData: 0,
+    });
+    const zoneRows = rows.slice(header + 1, totalAt);
+    expect(zoneRows.map((row) => row[0])).toEqual([...ZONES.map((zone) => zone.name), UNZONED_NAME]);
+    // computed: each volume is printed to 0.01, so within 0.005 of the true one; the rows' sum and the
+    // printed total may then differ by up to 0.005 × (rows + 1)
+    expectRowsAddUp(zoneRows.map(parse), parse(rows[totalAt]), 0.005 * (zoneRows.length + 1) + 1e-9, "CSV");
+  });
+
+  it("in the printable report's data", async () => {
+    const path = `/projects/${project.id}/quantities/report`;
+    const report = await quantitiesReport.loader({ request: await requestAs(site.users.viewer, path), params: { projectId: String(project.id) }, context: {} } as never);
+    expect(report.zones.map((zone) => zone.name)).toEqual([...ZONES.map((zone) => zone.name), UNZONED_NAME]);
+    expectRowsAddUp(report.zones, report.total, 0.01, "report");
+  });
+});
+
 describe("quantities CSV", () => {
   it("zone and project totals match the figures and the cells add up to them", async () => {
     const csv = quantitiesCsv(await loadQuantities(project), new Date("2026-12-01T00:00:00Z"));
@@ -273,7 +347,10 @@ describe("public share links", () => {
     expect(view).not.toBeNull();
     expect(Object.keys(view!).sort()).toEqual(["lastUpdated", "percentComplete", "projectName", "publicText", "removedVolume", "volumeLabel", "workLimit", "zones"]);
     expect(view!.percentComplete).toBe(Math.round(progress.total.percentCompleteByVolume!));
-    expect(view!.zones.map((zone) => zone.name)).toEqual(ZONES.map((zone) => zone.name));
+    // The Unzoned row joins the zones, flagged and without an outline of its own.
+    expect(view!.zones.map((zone) => zone.name)).toEqual([...ZONES.map((zone) => zone.name), UNZONED_NAME]);
+    expect(view!.zones.map((zone) => zone.unzoned)).toEqual([...ZONES.map(() => false), true]);
+    expect(view!.zones.at(-1)!.polygons).toEqual([]);
     expect(walkPublicValue(view, await walkRules())).toEqual([]);
 
     expect(await revokeShareLink(project, { id: outreach.id } as never, { token: created.token }, null)).toBe(true);

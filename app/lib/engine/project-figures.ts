@@ -6,7 +6,7 @@ import type { DatedSurvey, SurveysInForce } from "../../../shared/surveys-in-for
 import { cubicToVolumeUnit, type LengthUnit } from "../../../shared/units";
 import { addCellToTotals, emptyFigureTotals, type CellVolumes, type FigureTotals } from "../../../shared/volumes/figure-totals";
 import { noSurvey } from "../../../shared/volumes/latest-bottom";
-import { zoneCells } from "../../../shared/volumes/rollup";
+import { NO_ZONE, UNZONED_NAME, rollUpByZone, zoneOfEachCell } from "../../../shared/volumes/rollup";
 
 /**
  * A project's figures from the surveys in force, already sampled on the project's raster: the
@@ -39,7 +39,8 @@ export interface SnapshotFigures {
   surveyedOn: string;
   lastSurveyId: number;
   totals: FigureTotals;
-  zones: Array<{ zoneId: number; name: string; totals: FigureTotals }>;
+  /** Every zone in the zones' order, then the Unzoned row (zoneId null) when any cell inside the work limit lies in no zone: they sum to `totals`. */
+  zones: Array<{ zoneId: number | null; name: string; totals: FigureTotals }>;
   cellCols: number;
   cellRows: number;
   firstCol: number;
@@ -117,7 +118,7 @@ export function computeProjectFigures(input: FiguresInput, onProgress?: Progress
   // Snapshot dates: the baseline's, then each later survey date; each state includes every survey up to it.
   const dates = [...new Set([baseline.surveyedOn, ...later.map((survey) => survey.surveyedOn)])].sort();
   const snapshots: SnapshotFigures[] = [];
-  const zoneCellLists = input.zones.map((zone) => ({ zone, cells: zoneCells(grids.cellGrid, { id: String(zone.id), polygon: zone.polygon }) }));
+  const zoneOfCell = zoneOfEachCell(grids.cellGrid, input.zones.map((zone) => ({ id: String(zone.id), polygon: zone.polygon })));
   let finalState: StateFigures | null = null;
   dates.forEach((date, dateIndex) => {
     // `later` is in date order, so the surveys up to a date are a prefix of it.
@@ -125,20 +126,17 @@ export function computeProjectFigures(input: FiguresInput, onProgress?: Progress
     const result = computeVolumesFromRasters(grids, { ...sampled, progress: sampled.progress.slice(0, included.length) }, settings);
     const state = stateFigures(result, [...included].reverse().concat([baseline]));
     const { cells } = result;
-    const totals = emptyFigureTotals();
     const remainingVolumes = new Float32Array(cells.count);
     const removedVolumes = new Float32Array(cells.count);
     for (let cell = 0; cell < cells.count; cell++) {
       remainingVolumes[cell] = volume(cells.remainingVolumeCubicLength[cell]);
       removedVolumes[cell] = volume(cells.removedVolumeCubicLength[cell]);
-      if (!(cells.areaInLimit[cell] > 0)) continue;
-      addCellToTotals(totals, cellVolumes(cells, cell, volume), state.status[cell]);
     }
-    const zones = zoneCellLists.map(({ zone, cells: members }) => {
-      const zoneTotals = emptyFigureTotals();
-      for (const cell of members) if (cells.areaInLimit[cell] > 0) addCellToTotals(zoneTotals, cellVolumes(cells, cell, volume), state.status[cell]);
-      return { zoneId: zone.id, name: zone.name, totals: zoneTotals };
-    });
+    const rows = rollUpByZone(zoneOfCell, input.zones.length, (cell) => cells.areaInLimit[cell] > 0, emptyFigureTotals,
+      (totals, cell) => addCellToTotals(totals, cellVolumes(cells, cell, volume), state.status[cell]));
+    const totals = rows.project;
+    const zones: SnapshotFigures["zones"] = input.zones.map((zone, position) => ({ zoneId: zone.id, name: zone.name, totals: rows.zones[position] }));
+    if (rows.unzoned) zones.push({ zoneId: null, name: UNZONED_NAME, totals: rows.unzoned });
     const lastSurvey = included.length > 0 ? included[included.length - 1] : baseline;
     snapshots.push({
       surveyedOn: date,
@@ -159,8 +157,6 @@ export function computeProjectFigures(input: FiguresInput, onProgress?: Progress
 
   const state = finalState as unknown as StateFigures; // there is always the baseline's date
   const { result } = state;
-  const zoneOfCell = new Map<number, number>();
-  for (const { zone, cells } of zoneCellLists) for (const cell of cells) if (!zoneOfCell.has(cell)) zoneOfCell.set(cell, zone.id);
   const cellFigures: CellResultFigures[] = [];
   for (let cell = 0; cell < result.cells.count; cell++) {
     const area = result.cells.areaInLimit[cell];
@@ -171,7 +167,7 @@ export function computeProjectFigures(input: FiguresInput, onProgress?: Progress
       row,
       col,
       label: cellLabel(row, col),
-      zoneId: zoneOfCell.get(cell) ?? null,
+      zoneId: zoneOfCell[cell] === NO_ZONE ? null : input.zones[zoneOfCell[cell]].id,
       ...cellVolumes(result.cells, cell, volume),
       meanRemainingThickness: Number.isNaN(thickness) ? null : thickness,
       coverage: result.cells.coverage[cell],

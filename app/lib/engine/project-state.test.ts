@@ -69,6 +69,20 @@ describe("computeProjectState: the figures", () => {
     expect(west.totals.plannedVolume).toBeCloseTo(1600 / 27, 6); // computed: half the site
   });
 
+  it("puts the eastern half, in no zone, in an Unzoned row, so every date's rows add up to the project", () => {
+    for (const snapshot of figures.snapshots) {
+      expect(snapshot.zones.map((zone) => [zone.zoneId, zone.name])).toEqual([[7, "West"], [null, "Unzoned"]]);
+      const unzoned = snapshot.zones[1].totals;
+      expect(unzoned.cells).toBe(8); // computed: columns 2 and 3, x 20–40
+      expect(unzoned.plannedVolume).toBeCloseTo(1600 / 27, 6); // computed: the other half
+      // invariant: zone rows sum to the project for every figure
+      for (const key of Object.keys(snapshot.totals) as Array<keyof typeof snapshot.totals>) {
+        expect(snapshot.zones.reduce((sum, zone) => sum + zone.totals[key], 0), `${snapshot.surveyedOn} ${key}`).toBeCloseTo(snapshot.totals[key], 9);
+      }
+    }
+    expect(figures.cells.filter((cell) => cell.zoneId === null).map((cell) => cell.col).sort()).toEqual([2, 2, 2, 2, 3, 3, 3, 3]);
+  });
+
   it("has no state without a baseline", () => {
     expect(computeProjectState(input(surveys.slice(1)))).toBeNull();
   });
