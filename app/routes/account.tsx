@@ -8,6 +8,7 @@ import { TextField } from "~/components/text-field";
 import { requireUser } from "~/lib/auth/access.server";
 import { auditForAccount } from "~/lib/auth/sign-in.server";
 import { clientAddress } from "~/lib/http/client-address.server";
+import { describeUserAgent } from "~/lib/http/user-agent";
 import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/http/form";
 import { AUDIT_ACTIONS } from "~/lib/audit/audit.server";
 import { changeOwnPassword, updateOwnName } from "~/lib/auth/users.server";
@@ -106,13 +107,13 @@ function SignedInBrowsers({ sessions }: { sessions: SessionRow[] }) {
       <h2 id="sessions-heading" className="text-lg font-semibold">Signed-in browsers</h2>
       <p className="mt-1 text-sm text-muted">Each browser where you signed in. Signing out, changing your password or resetting it ends sessions; a lost phone or a shared computer is ended here.</p>
       <table className="mt-4 w-full text-sm" data-testid="sessions">
-        <thead><tr className="text-left text-muted"><th className="py-1">Browser</th><th>Signed in</th><th>Last used</th></tr></thead>
+        <thead><tr className="text-left text-muted"><th className="py-1">Browser</th><th className="pl-2">Signed in (UTC)</th><th className="pl-2">Last used (UTC)</th></tr></thead>
         <tbody>
           {sessions.map((session) => (
             <tr key={session.id} className="border-t border-line">
-              <td className="py-2 font-sans">{session.userAgent || "unknown browser"}{session.current ? <strong className="ml-2">(this browser)</strong> : null}</td>
-              <td>{session.startedAt.slice(0, 16).replace("T", " ")}</td>
-              <td>{session.lastSeenAt.slice(0, 16).replace("T", " ")}</td>
+              <td className="py-2 font-sans" title={session.userAgent}>{describeUserAgent(session.userAgent)}{session.current ? <strong className="ml-2">(this browser)</strong> : null}</td>
+              <td className="whitespace-nowrap pl-2">{session.startedAt.slice(0, 16).replace("T", " ")}</td>
+              <td className="whitespace-nowrap pl-2">{session.lastSeenAt.slice(0, 16).replace("T", " ")}</td>
             </tr>
           ))}
         </tbody>
