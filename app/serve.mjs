@@ -10,6 +10,15 @@ import { pathToFileURL } from "node:url";
 
 export const CLIENT_ADDRESS_HEADER = "x-firmsand-client-address";
 
+// E-mailed links and the Origin check use the configured origin, never a request's Host header:
+// production refuses to start without one (app/lib/settings/env.server.ts holds the same rule).
+if (process.env.NODE_ENV === "production" && !process.env.APP_ORIGIN) {
+  process.stderr.write(
+    "Firmsand's environment is not valid: APP_ORIGIN is required in production (the public origin of e-mailed links, e.g. https://firmsand.example.org)\n",
+  );
+  process.exit(1);
+}
+
 // Tells the app that the address header comes from this server, not from a client (read once
 // when the app parses its environment, so it is set before the build is loaded).
 process.env.FIRMSAND_CLIENT_ADDRESS_HEADER = "1";

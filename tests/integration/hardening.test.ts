@@ -1,0 +1,40 @@
+import { spawnSync } from "node:child_process";
+import { afterAll, describe, expect, it } from "vitest";
+import { closeSequelize } from "../../db/connection.server";
+import { assertSameOrigin } from "~/lib/http/origin.server";
+import { listMailboxMessages } from "~/lib/mail/mailbox.server";
+import { action as forgotPasswordAction } from "~/routes/forgot-password";
+import { makeUser, thrown, ORIGIN } from "./helpers";
+
+// Issue 12 ("Hardening"): each item's test is named after the item.
+
+afterAll(closeSequelize);
+
+const ATTACKER = "http://attacker.example";
+
+describe("hardening 1: links in e-mail come only from configured origins", () => {
+  it("builds a password-reset link on the configured origin whatever the request's Host", async () => {
+    const user = await makeUser("reset-host");
+    const body = new URLSearchParams({ email: user.email });
+    const request = new Request(`${ATTACKER}/forgot-password`, { method: "POST", body, headers: { Origin: ATTACKER, Host: "attacker.example" } });
+    await forgotPasswordAction({ request, params: {}, context: {} } as never);
+    const mail = (await listMailboxMessages()).find((message) => message.envelopeTo.includes(user.email));
+    const link = mail?.text.match(/https?:\/\/\S+\/reset-password\/\S+/)?.[0];
+    expect(link, "the reset mail's link").toBeDefined();
+    expect(new URL(link!).origin).toBe(ORIGIN);
+  });
+
+  it("refuses a form whose Origin matches only the request's own Host", async () => {
+    const error = await thrown(async () => assertSameOrigin(new Request(`${ATTACKER}/forgot-password`, { method: "POST", headers: { Origin: ATTACKER } })));
+    expect((error as Response).status).toBe(403);
+  });
+
+  it("refuses to start the production server without APP_ORIGIN", () => {
+    const env: Record<string, string | undefined> = { ...process.env, NODE_ENV: "production" };
+    delete env.APP_ORIGIN;
+    // The build is never reached: the check comes first, so a missing build does not matter.
+    const run = spawnSync(process.execPath, ["app/serve.mjs", "no-such-build/index.js"], { env, encoding: "utf8", timeout: 20_000 });
+    expect(run.status).toBe(1);
+    expect(run.stderr).toMatch(/APP_ORIGIN is required in production/);
+  });
+});
