@@ -4,7 +4,8 @@ import { closeSequelize } from "../../db/connection.server";
 import { assertSameOrigin } from "~/lib/http/origin.server";
 import { listMailboxMessages } from "~/lib/mail/mailbox.server";
 import { action as forgotPasswordAction } from "~/routes/forgot-password";
-import { makeUser, thrown, ORIGIN } from "./helpers";
+import { loader as loginLoader } from "~/routes/login";
+import { makeUser, requestAs, thrown, ORIGIN } from "./helpers";
 
 // Issue 12 ("Hardening"): each item's test is named after the item.
 
@@ -36,5 +37,30 @@ describe("hardening 1: links in e-mail come only from configured origins", () =>
     const run = spawnSync(process.execPath, ["app/serve.mjs", "no-such-build/index.js"], { env, encoding: "utf8", timeout: 20_000 });
     expect(run.status).toBe(1);
     expect(run.stderr).toMatch(/APP_ORIGIN is required in production/);
+  });
+});
+
+describe("hardening 4: open redirect", () => {
+  async function loginRedirect(next: string): Promise<string | null> {
+    const user = await makeUser("next");
+    // The raw query as a browser sends it: the test names the percent-encoded form.
+    const request = await requestAs(user.id, `/login?next=${next}`);
+    const answer = await thrown(() => loginLoader({ request, params: {}, context: {} } as never));
+    expect(answer, `the answer to next=${next}`).toBeInstanceOf(Response);
+    expect((answer as Response).status).toBe(302);
+    return (answer as Response).headers.get("Location");
+  }
+
+  it("follows a path of the app's own", async () => {
+    expect(await loginRedirect(encodeURIComponent("/projects/7/map?layer=remaining#cell"))).toBe("/projects/7/map?layer=remaining#cell");
+  });
+
+  it("sends anything that is not a same-origin path to /projects, never an error", async () => {
+    for (const next of [
+      "/%09/other.host/x", "//other.host", "%2F%2Fother.host", "%5Cother.host", "/%5Cother.host", "%5C%5Cother.host", "http://other.host/",
+      `${encodeURIComponent(ATTACKER)}%2Fprojects`, "/%0A/other.host", "/x%0D%0ASet-Cookie:a=b", "/%E3%80%82other.host", "/%00", "javascript:alert(1)", "",
+    ]) {
+      expect(await loginRedirect(next), `next=${next}`).toBe("/projects");
+    }
   });
 });
