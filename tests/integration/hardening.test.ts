@@ -1,15 +1,30 @@
 import { spawnSync } from "node:child_process";
+import { mkdtempSync, readFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import Papa from "papaparse";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { assertSameOrigin } from "~/lib/http/origin.server";
 import { listMailboxMessages } from "~/lib/mail/mailbox.server";
 import { action as forgotPasswordAction } from "~/routes/forgot-password";
 import { loader as loginLoader } from "~/routes/login";
+import { loader as problemsCsvLoader } from "~/routes/projects.$projectId.surveys.imports.$jobId.problems[.]csv";
+import { ImportJob } from "~/lib/db.server";
+import { analyseStagedFile } from "~/lib/import/analyse.server";
+import { commitChoicesSchema, importOptionsSchema } from "~/lib/import/import-options";
+import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
+import { writeStagedFile } from "~/lib/import/stage-upload.server";
+import { startsLikeFormula } from "../../shared/csv-safe";
+import { SURVEYS } from "../../sample-data/scenario";
+import { demoImportOptions } from "../../db/seeders/demo-surveys";
 import { makeUser, requestAs, thrown, ORIGIN } from "./helpers";
+import { DEMO_DIR, makeDemoSiteProject } from "./import-helpers";
 
 // Issue 12 ("Hardening"): each item's test is named after the item.
 
 afterAll(closeSequelize);
+process.env.UPLOAD_DIR = mkdtempSync(join(tmpdir(), "firmsand-hardening-test-"));
 
 const ATTACKER = "http://attacker.example";
 
@@ -62,5 +77,35 @@ describe("hardening 4: open redirect", () => {
     ]) {
       expect(await loginRedirect(next), `next=${next}`).toBe("/projects");
     }
+  });
+});
+
+describe("hardening 8: every CSV the product writes is formula-safe", () => {
+  it("writes the import problems CSV's values from the file so no spreadsheet runs them", async () => {
+    const site = await makeDemoSiteProject("problems-csv");
+    const survey = SURVEYS.find((candidate) => candidate.key === "progress-1")!;
+    const [header, ...rows] = readFileSync(join(DEMO_DIR, survey.fileName), "utf8").trim().split("\n").slice(0, 21);
+    const hostile = ['=HYPERLINK(""http://attacker.example"",""open"")', "@SUM(1)", "+1+1", "-2-2"];
+    // Each hostile value replaces a depth, so the row rules report it as the problem's value.
+    const text = [header, ...rows.map((row, index) => {
+      const fields = row.split(",");
+      if (index < hostile.length) fields[3] = `"${hostile[index]}"`;
+      return fields.join(",");
+    })].join("\n");
+    const staged = await writeStagedFile(new Blob([text]).stream(), "hostile.csv");
+    const options = importOptionsSchema.parse(demoImportOptions(survey, {}));
+    const { preview } = await analyseStagedFile({ path: staged.path, sha256: staged.sha256, options, choices: commitChoicesSchema.parse({ outside: "keep" }), geometry: await loadProjectGeometry(site.project.id) });
+    const job = await ImportJob.create({
+      projectId: site.project.id, userId: site.users.surveyor, state: "ready", stage: "ready", fileName: "hostile.csv",
+      filePath: staged.path, fileSize: text.length, contentSha256: staged.sha256, options, preview: preview as never,
+    });
+    const request = await requestAs(site.users.surveyor, `/projects/${site.project.id}/surveys/imports/${job.id}/problems.csv`);
+    const response = (await problemsCsvLoader({ request, params: { projectId: String(site.project.id), jobId: String(job.id) }, context: {} } as never)) as Response;
+    expect(response.status).toBe(200);
+    const cells = Papa.parse<string[]>(await response.text(), { skipEmptyLines: true }).data;
+    const values = cells.slice(1).map((cells) => cells[2]);
+    // The file's values are all there, each shown as text.
+    for (const value of hostile.map((raw) => raw.replaceAll('""', '"'))) expect(values).toContain(`'${value}`);
+    for (const cell of cells.flat()) expect(startsLikeFormula(cell), cell).toBe(false);
   });
 });
