@@ -18,7 +18,8 @@ import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { startsLikeFormula } from "../../shared/csv-safe";
 import { SURVEYS } from "../../sample-data/scenario";
 import { demoImportOptions } from "../../db/seeders/demo-surveys";
-import { makeUser, requestAs, thrown, ORIGIN } from "./helpers";
+import { requireRole } from "~/lib/auth/access.server";
+import { addMember, makeProject, makeUser, requestAs, thrown, ORIGIN } from "./helpers";
 import { DEMO_DIR, makeDemoSiteProject } from "./import-helpers";
 
 // Issue 12 ("Hardening"): each item's test is named after the item.
@@ -107,5 +108,20 @@ describe("hardening 8: every CSV the product writes is formula-safe", () => {
     // The file's values are all there, each shown as text.
     for (const value of hostile.map((raw) => raw.replaceAll('""', '"'))) expect(values).toContain(`'${value}`);
     for (const cell of cells.flat()) expect(startsLikeFormula(cell), cell).toBe(false);
+  });
+});
+
+describe("hardening 12: project ids are plain decimal numbers", () => {
+  it("answers 404 for 0x1, 1.0, ' 1' and the like, and serves the plain id", async () => {
+    const project = await makeProject("plain-id");
+    const user = await makeUser("plain-id");
+    await addMember(user.id, project.id, "viewer");
+    const request = await requestAs(user.id, `/projects/${project.id}`);
+    await expect(requireRole(request, String(project.id))).resolves.toMatchObject({ project: { id: project.id } });
+    for (const id of [`0x${project.id.toString(16)}`, `${project.id}.0`, ` ${project.id}`, `${project.id} `, `+${project.id}`, `0${project.id}`, `${project.id}e0`, "", "0", "-1"]) {
+      const error = await thrown(() => requireRole(request, id));
+      expect(error, `project id "${id}"`).toBeInstanceOf(Response);
+      expect((error as Response).status, `project id "${id}"`).toBe(404);
+    }
   });
 });
