@@ -3,14 +3,17 @@ import { mkdtempSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import Papa from "papaparse";
-import { afterAll, describe, expect, it } from "vitest";
+import { ConnectionRefusedError } from "sequelize";
+import { afterAll, describe, expect, it, vi } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { assertSameOrigin } from "~/lib/http/origin.server";
 import { listMailboxMessages } from "~/lib/mail/mailbox.server";
 import { action as forgotPasswordAction } from "~/routes/forgot-password";
 import { loader as loginLoader } from "~/routes/login";
 import { loader as problemsCsvLoader } from "~/routes/projects.$projectId.surveys.imports.$jobId.problems[.]csv";
-import { ImportJob } from "~/lib/db.server";
+import { ImportJob, getSequelize } from "~/lib/db.server";
+import { createApiToken } from "~/lib/auth/api-token.server";
+import * as progressApi from "~/routes/api.projects.$projectId.progress";
 import { analyseStagedFile } from "~/lib/import/analyse.server";
 import { commitChoicesSchema, importOptionsSchema } from "~/lib/import/import-options";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
@@ -122,6 +125,34 @@ describe("hardening 12: project ids are plain decimal numbers", () => {
       const error = await thrown(() => requireRole(request, id));
       expect(error, `project id "${id}"`).toBeInstanceOf(Response);
       expect((error as Response).status, `project id "${id}"`).toBe(404);
+    }
+  });
+});
+
+describe("hardening 12: with the database down the API answers JSON 503", () => {
+  it("answers 503 in the API's error shape, not a text/plain 500", async () => {
+    const project = await makeProject("db-down");
+    const user = await makeUser("db-down");
+    await addMember(user.id, project.id, "viewer");
+    const { token } = await createApiToken(user, "db-down");
+    const request = new Request(`${ORIGIN}/api/projects/${project.id}/progress`, { headers: { Authorization: `Bearer ${token}` } });
+    const args = { request, params: { projectId: String(project.id) }, context: {} } as never;
+    expect((await progressApi.loader(args)).status, "with the database up").toBe(200);
+
+    // What Sequelize throws when MariaDB refuses the connection (stopped server).
+    const refused = Object.assign(new Error("connect ECONNREFUSED 127.0.0.1:1"), { code: "ECONNREFUSED" });
+    const down = vi.spyOn(getSequelize().connectionManager, "getConnection").mockRejectedValue(new ConnectionRefusedError(refused));
+    const quiet = vi.spyOn(console, "error").mockImplementation(() => {});
+    try {
+      const answer = await progressApi.loader(args);
+      expect(answer.status).toBe(503);
+      expect(answer.headers.get("Content-Type")).toMatch(/^application\/json/);
+      expect(Number(answer.headers.get("Retry-After"))).toBeGreaterThan(0);
+      const body = (await answer.json()) as { errors: Array<{ message: string }> };
+      expect(body.errors[0].message).toMatch(/database/);
+    } finally {
+      down.mockRestore();
+      quiet.mockRestore();
     }
   });
 });
