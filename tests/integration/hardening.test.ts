@@ -1,11 +1,13 @@
 import { spawnSync } from "node:child_process";
-import { mkdtempSync, readFileSync } from "node:fs";
+import { cpSync, mkdtempSync, readFileSync, rmSync, symlinkSync } from "node:fs";
+import { connect, createServer, type AddressInfo } from "node:net";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import Papa from "papaparse";
 import { ConnectionRefusedError } from "sequelize";
 import { afterAll, describe, expect, it, vi } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
+import { getDatabaseSettings } from "../../db/settings";
 import { assertSameOrigin } from "~/lib/http/origin.server";
 import { listMailboxMessages } from "~/lib/mail/mailbox.server";
 import { action as forgotPasswordAction } from "~/routes/forgot-password";
@@ -156,3 +158,51 @@ describe("hardening 12: with the database down the API answers JSON 503", () => 
     }
   });
 });
+
+describe("hardening 12: npm run db:start also restarts the fake SMTP server", () => {
+  it("brings the fake SMTP server back after db:stop stopped it", async () => {
+    // The scripts in a checkout of their own (their .data/ is beside them), so this test cannot
+    // stop the servers the test run uses. The database port is the test MariaDB's: reachable, so
+    // start uses it as it is and stop leaves it alone (it is not this checkout's).
+    const root = mkdtempSync(join(tmpdir(), "firmsand-db-start-"));
+    cpSync(join(REPO, "db", "scripts"), join(root, "db", "scripts"), { recursive: true });
+    cpSync(join(REPO, "package-lock.json"), join(root, "package-lock.json"), { preserveTimestamps: true });
+    symlinkSync(join(REPO, "node_modules"), join(root, "node_modules"));
+    const smtpPort = await freePort();
+    const env = { ...process.env, DB_PORT: String(getDatabaseSettings().DB_PORT), SMTP_PORT: String(smtpPort) };
+    const db = (command: string) => {
+      const run = spawnSync(process.execPath, ["db/scripts/db.mjs", command, "dev"], { cwd: root, env, encoding: "utf8", timeout: 60_000 });
+      expect(run.status, `db.mjs ${command}: ${run.stderr}`).toBe(0);
+    };
+    try {
+      db("start");
+      expect(await portOpen(smtpPort), "fake SMTP after the first start").toBe(true);
+      db("stop");
+      expect(await portOpen(smtpPort), "fake SMTP after stop").toBe(false);
+      db("start");
+      expect(await portOpen(smtpPort), "fake SMTP after start again").toBe(true);
+    } finally {
+      db("stop");
+      rmSync(root, { recursive: true, force: true });
+    }
+  });
+});
+
+const REPO = join(import.meta.dirname, "..", "..");
+
+function freePort(): Promise<number> {
+  return new Promise((done, fail) => {
+    const server = createServer().listen(0, "127.0.0.1", () => {
+      const { port } = server.address() as AddressInfo;
+      server.close(() => done(port));
+    }).on("error", fail);
+  });
+}
+
+function portOpen(port: number): Promise<boolean> {
+  return new Promise((done) => {
+    const socket = connect(port, "127.0.0.1");
+    socket.once("connect", () => { socket.destroy(); done(true); });
+    socket.once("error", () => done(false));
+  });
+}
