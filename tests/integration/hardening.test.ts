@@ -206,3 +206,35 @@ function portOpen(port: number): Promise<boolean> {
     socket.once("error", () => done(false));
   });
 }
+
+describe("hardening 10: impossible coordinates and depths are row errors", () => {
+  it("refuses non-finite values, values beyond ±1e7 and points far outside the project CRS's area of use", async () => {
+    const site = await makeDemoSiteProject("impossible");
+    const survey = SURVEYS.find((candidate) => candidate.key === "progress-1")!;
+    const [header, ...rows] = readFileSync(join(DEMO_DIR, survey.fileName), "utf8").trim().split("\n").slice(0, 141);
+    expect(header.split(",").slice(1, 4)).toEqual(["easting", "northing", "depth"]);
+    // Rows 2–101: easting 1e308 (a hundred of them); then an infinity, a northing beyond −1e7,
+    // and a point 3,000 km north of the CRS's area (Florida West, US survey feet).
+    const edits: Array<[number, number, string]> = [
+      ...Array.from({ length: 100 }, (_, index): [number, number, string] => [index, 1, "1e308"]),
+      [100, 2, "1e400"],
+      [101, 2, "-2e7"],
+      [102, 2, String(1_680_000 + 3_000_000 / 0.3048006)],
+    ];
+    const edited = rows.map((row) => row.split(","));
+    for (const [index, column, value] of edits) edited[index][column] = value;
+    const text = [header, ...edited.map((fields) => fields.join(","))].join("\n");
+    const staged = await writeStagedFile(new Blob([text]).stream(), "impossible.csv");
+    const options = importOptionsSchema.parse(demoImportOptions(survey, {}));
+    const { preview } = await analyseStagedFile({ path: staged.path, sha256: staged.sha256, options, choices: commitChoicesSchema.parse({ outside: "keep" }), geometry: await loadProjectGeometry(site.project.id) });
+
+    const rangeRows = new Set(preview.problems.filter((problem) => problem.rule === "coordinate range").map((problem) => problem.row));
+    // Spreadsheet rows: the header is row 1, so data row index i is row i + 2.
+    expect([...rangeRows].sort((a, b) => a - b)).toEqual(edits.map(([index]) => index + 2));
+    expect(preview.problemRows).toBeGreaterThanOrEqual(edits.length);
+    expect(preview.blockers.join(" ")).toMatch(/rows have problems/);
+    // Leaving those rows out stores the plausible rest.
+    const withoutThem = await analyseStagedFile({ path: staged.path, sha256: staged.sha256, options, choices: commitChoicesSchema.parse({ outside: "keep", excludeErrorRows: true }), geometry: await loadProjectGeometry(site.project.id) });
+    expect(withoutThem.preview.storedCount).toBe(rows.length - edits.length);
+  });
+});
