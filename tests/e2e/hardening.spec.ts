@@ -24,5 +24,7 @@ test.describe("hardening 12: standard response headers", () => {
     expect(share.headers()["x-content-type-options"]).toBe("nosniff");
     expect(share.headers()["x-frame-options"]).toBeUndefined();
     expect(share.headers()["content-security-policy"]).toBe("frame-ancestors *");
+    // The share page's own stricter policy comes last, and the last policy a browser knows wins.
+    expect(share.headers()["referrer-policy"]?.split(/\s*,\s*/).at(-1)).toBe("no-referrer");
   });
 });
