@@ -47,7 +47,8 @@ export default defineConfig({
   // The React Router plugin builds the app; Vitest runs plain modules and does not need it.
   plugins: [tailwindcss(), !underVitest && reactRouter(), !underVitest && engineWorkerBuild()],
   resolve: { tsconfigPaths: true },
-  server: { host: "127.0.0.1" },
+  // The dev server serves where the app's settings say it does (HOST and PORT make its origin).
+  server: { host: process.env.HOST ?? "127.0.0.1", port: Number(process.env.PORT ?? 3000), strictPort: true },
   test: {
     // Unit tests sit beside the code; integration tests against the real MariaDB sit in
     // tests/integration. Browser tests run under Playwright (tests/e2e), not here.
@@ -59,6 +60,8 @@ export default defineConfig({
       "tests/integration/**/*.test.ts",
     ],
     environment: "node",
+    // The origin the app's settings derive from HOST and PORT: tests/integration/helpers.ts's ORIGIN.
+    env: { APP_ORIGIN: "", HOST: "127.0.0.1", PORT: "3999" },
     testTimeout: 30_000,
     hookTimeout: 60_000,
     fileParallelism: false,

@@ -1,14 +1,24 @@
 // Firmsand's production HTTP server for the built app (`npm start`, the browser tests).
-// It does what react-router-serve does (compression, immutable hashed assets, public files) and
-// one thing more: it hands the client's socket address to the app in a header of its own,
+// It does what react-router-serve does (compression, immutable hashed assets, public files), sends
+// the standard security headers (helmet), and one thing more: it hands the client's socket address to the app in a header of its own,
 // overwriting whatever a client sent, so the sign-in rate limit can count per address.
 import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
+import helmet from "helmet";
 import { join, resolve } from "node:path";
 import { pathToFileURL } from "node:url";
 
 export const CLIENT_ADDRESS_HEADER = "x-firmsand-client-address";
+
+// E-mailed links and the Origin check use the configured origin, never a request's Host header:
+// production refuses to start without one (app/lib/settings/env.server.ts holds the same rule).
+if (process.env.NODE_ENV === "production" && !process.env.APP_ORIGIN) {
+  process.stderr.write(
+    "Firmsand's environment is not valid: APP_ORIGIN is required in production (the public origin of e-mailed links, e.g. https://firmsand.example.org)\n",
+  );
+  process.exit(1);
+}
 
 // Tells the app that the address header comes from this server, not from a client (read once
 // when the app parses its environment, so it is set before the build is loaded).
@@ -20,6 +30,14 @@ const host = process.env.HOST ?? "127.0.0.1";
 
 const app = express();
 app.disable("x-powered-by");
+// The standard response headers (nosniff, opener and resource policies...) on every answer,
+// static files included. Three of helmet's defaults are left to the app or changed:
+// - framing is the app's rule (app/lib/http/frame-policy.server.ts: no framing, except the share
+//   page's `frame-ancestors *`), so helmet's X-Frame-Options and Content-Security-Policy are off;
+// - Referrer-Policy is same-origin, not no-referrer: under no-referrer a browser sends
+//   `Origin: null` on a same-site POST, which the Origin check refuses; same-origin still keeps
+//   a share link's token from reaching other sites in a Referer.
+app.use(helmet({ contentSecurityPolicy: false, xFrameOptions: false, referrerPolicy: { policy: "same-origin" } }));
 app.use(compression());
 app.use(join(build.publicPath, "assets"), express.static(join(build.assetsBuildDirectory, "assets"), { immutable: true, maxAge: "1y" }));
 app.use(build.publicPath, express.static(build.assetsBuildDirectory));

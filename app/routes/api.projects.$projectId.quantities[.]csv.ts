@@ -15,7 +15,6 @@ const route = apiRoute<Route.LoaderArgs>({
         "Content-Type": "text/csv; charset=utf-8",
         "Content-Disposition": `attachment; filename="quantities-project-${project.id}-${view.latest?.surveyedOn ?? "no-survey"}.csv"`,
         "Cache-Control": "private, no-store",
-        "X-Content-Type-Options": "nosniff",
       },
     });
   },

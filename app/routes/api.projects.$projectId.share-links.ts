@@ -17,7 +17,7 @@ const route = apiRoute<Route.LoaderArgs>({
   async POST({ request, params }) {
     const { project, user } = await requireApiAccess(request, params.projectId, "share-links.manage");
     const input = await readApiBody(request, shareLinkFormSchema);
-    const created = await createShareLink(project, user, input, appOrigin(request), clientAddress(request));
+    const created = await createShareLink(project, user, input, appOrigin(), clientAddress(request));
     return Response.json({ token: created.token, url: created.url }, { status: 201, headers: { "Cache-Control": "no-store" } });
   },
 });

@@ -20,7 +20,7 @@ const schema = z.object({ email: emailSchema });
 export async function action({ request }: Route.ActionArgs) {
   const parsed = parseForm(await request.formData(), schema);
   if (!parsed.ok) return data({ errors: parsed.errors, sent: false }, { status: 400 });
-  await requestPasswordReset(parsed.data.email, appOrigin(request), clientAddress(request));
+  await requestPasswordReset(parsed.data.email, appOrigin(), clientAddress(request));
   return { errors: {} as Record<string, string>, sent: true };
 }
 

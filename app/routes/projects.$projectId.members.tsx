@@ -36,7 +36,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const input = parsed.data;
   try {
     if (input.intent === "invite") {
-      await createInvitation(project, user, { email: input.email, role: input.role }, appOrigin(request), ip);
+      await createInvitation(project, user, { email: input.email, role: input.role }, appOrigin(), ip);
       return { intent: input.intent, errors: {}, notice: `Invitation sent to ${input.email.trim().toLowerCase()}.` };
     }
     if (input.intent === "revoke") {

@@ -4,6 +4,7 @@ import { z } from "zod";
 import { can } from "~/lib/auth/permissions";
 import { requireAllowed, requireRole } from "~/lib/auth/access.server";
 import { clientAddress } from "~/lib/http/client-address.server";
+import { appOrigin } from "~/lib/http/origin.server";
 import { DomainError } from "~/lib/errors";
 import { emailDayPlan, getDayPlan, workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listDivesOn, recordDive, type DiveView } from "~/models/dives.server";
@@ -68,7 +69,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       throw error;
     }
   }
-  const planUrl = new URL(`/projects/${project.id}/plans/${date}`, request.url).href;
+  const planUrl = new URL(`/projects/${project.id}/plans/${date}`, appOrigin()).href;
   const sentTo = await emailDayPlan(project, user, date, planUrl, clientAddress(request));
   return { intent: "email", sentTo, error: sentTo.length === 0 ? "Nobody to e-mail: no team has cells on this date, or the teams list no members." : null } satisfies ActionResult;
 }

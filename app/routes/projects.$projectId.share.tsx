@@ -33,7 +33,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const input = parsed.data;
   const ip = clientAddress(request);
   if (input.intent === "create") {
-    const created = await createShareLink(project, user, { name: input.name, publicText: input.publicText }, appOrigin(request), ip);
+    const created = await createShareLink(project, user, { name: input.name, publicText: input.publicText }, appOrigin(), ip);
     return { intent: input.intent, errors: {}, notice: `Link “${input.name}” created. Copy it now: it is shown only once.`, created: { url: created.url, name: input.name } };
   }
   const done = input.intent === "update"

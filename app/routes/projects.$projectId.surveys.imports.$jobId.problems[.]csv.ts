@@ -1,13 +1,11 @@
 import { z } from "zod";
 import { requireRole } from "~/lib/auth/access.server";
 import { findImportJob, jobPreview } from "~/lib/import/import-job-view.server";
+import { csvLine } from "../../shared/csv-safe";
 import type { Route } from "./+types/projects.$projectId.surveys.imports.$jobId.problems[.]csv";
 
-// Every problem of the last preview as CSV (row, column, value, rule, message), to fix the file in a spreadsheet.
-function csvCell(value: string | number): string {
-  const text = String(value);
-  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
+// Every problem of the last preview as CSV (row, column, value, rule, message), to fix the file in
+// a spreadsheet. The values come from the uploaded file, so they go through the formula-safe writer.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId, "surveys.import");
@@ -16,11 +14,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const job = jobId.success ? await findImportJob(access, jobId.data) : null;
   const preview = job ? jobPreview(job) : null;
   if (!job || !preview) throw new Response("There is no such import.", { status: 404 });
-  const lines = ["row,column,value,rule,message"];
-  for (const message of preview.fileProblems) lines.push(["", "file", "", "file", message].map(csvCell).join(","));
-  for (const problem of preview.problems) lines.push([problem.row, problem.column, problem.value, problem.rule, problem.message].map(csvCell).join(","));
+  const lines = [csvLine(["row", "column", "value", "rule", "message"])];
+  for (const message of preview.fileProblems) lines.push(csvLine([null, "file", null, "file", message]));
+  for (const problem of preview.problems) lines.push(csvLine([problem.row, problem.column, problem.value, problem.rule, problem.message]));
   const name = job.fileName.replace(/\.[^.]+$/, "").replace(/[^A-Za-z0-9_-]+/g, "-");
-  return new Response(`${lines.join("\r\n")}\r\n`, {
+  return new Response(lines.join(""), {
     headers: { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${name}-problems.csv"`, "Cache-Control": "no-store" },
   });
 }

@@ -51,7 +51,11 @@ if (needsDatabase) {
   try {
     const database = await ensureMariaDb("test");
     if (database.startedHere) cleanups.push(() => stopMariaDb("test"));
-    const env = { ...process.env, ...database.env, DB_NAME: "firmsand_bench", NODE_ENV: "production", SESSION_SECRET: "firmsand-bench-session-secret-not-for-production" };
+    const port = Number(process.env.BENCH_PORT ?? 3200);
+    const env = {
+      ...process.env, ...database.env, DB_NAME: "firmsand_bench", NODE_ENV: "production", SESSION_SECRET: "firmsand-bench-session-secret-not-for-production",
+      APP_ORIGIN: `http://127.0.0.1:${port}`,
+    };
     run(bin("tsx"), ["db/migrate.ts", "reset"], { env });
     if (selected.includes("import")) {
       log("bench: sounding import, in process");
@@ -65,7 +69,6 @@ if (needsDatabase) {
     if (selected.includes("import") || selected.includes("map")) {
       // The production build, served fresh: the import over HTTP runs first so the server's peak
       // memory (VmHWM) is the import's.
-      const port = Number(process.env.BENCH_PORT ?? 3200);
       if (await isPortOpen(port)) throw new Error(`port ${port} is taken; set BENCH_PORT to a free port`);
       const appEnv = { ...env, PORT: String(port), HOST: "127.0.0.1", BENCH_BASE_URL: `http://127.0.0.1:${port}` };
       log("bench: building the app");

@@ -1,19 +1,19 @@
 // A private MariaDB for Firmsand: data directory inside the repo (.data/, git-ignored), listening
 // on 127.0.0.1 only. `npm start` uses the "dev" instance, `npm test` the "test" instance.
-//   node db/scripts/db.mjs start [dev|test]   start (installing mariadb-server if missing)
-//   node db/scripts/db.mjs stop [dev|test|all] stop the instance(s) this repo started
+//   node db/scripts/db.mjs start [dev|test]   start MariaDB (installing mariadb-server if missing) and the fake SMTP server
+//   node db/scripts/db.mjs stop [dev|test|all] stop the instance(s) and fake SMTP servers this repo started
 //   node db/scripts/db.mjs status
-// Only Node's built-ins: this runs before `npm ci`.
+// Only Node's built-ins: this runs before `npm ci` (`start` installs the packages for the mail server).
 import { spawnSync } from "node:child_process";
 import { existsSync, mkdirSync, rmSync } from "node:fs";
 import { join } from "node:path";
 import { tmpdir, userInfo } from "node:os";
 import { createHash } from "node:crypto";
 import {
-  DATA_DIR, ROOT, ensureDebianPackage, findExecutable, isMainModule, isPortOpen, isProcessAlive, localSecret, log,
+  DATA_DIR, ROOT, ensureDebianPackage, ensureNpmPackages, findExecutable, isMainModule, isPortOpen, isProcessAlive, localSecret, log,
   readPid, spawnDetached, stopByPidFile, waitFor,
 } from "./lib.mjs";
-import { stopMailServer } from "./services.mjs";
+import { ensureMailServer, stopMailServer } from "./services.mjs";
 
 export const INSTANCES = {
   dev: { port: Number(process.env.DB_PORT ?? 3307), databases: [process.env.DB_NAME ?? "firmsand"] },
@@ -133,6 +133,10 @@ async function main() {
   if (command === "start") {
     const { env } = await ensureMariaDb(which);
     log(`MariaDB (${which}) ready: mysql://${env.DB_USER}@${env.DB_HOST}:${env.DB_PORT}/${env.DB_NAME}`);
+    // `stop` stops both, so `start` brings both back (the mail server needs the npm packages).
+    ensureNpmPackages();
+    const mail = await ensureMailServer(which);
+    log(`fake SMTP (${which}) ready on ${mail.env.SMTP_HOST}:${mail.env.SMTP_PORT}`);
   } else if (command === "stop") {
     const targets = which === "all" || process.argv.length <= 3 ? Object.keys(INSTANCES) : [which];
     let any = false;

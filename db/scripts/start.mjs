@@ -20,6 +20,8 @@ const env = {
   PORT: process.env.PORT ?? "3000",
   HOST: process.env.HOST ?? "127.0.0.1",
 };
+// Behind a proxy the caller sets APP_ORIGIN; else the links in e-mail name where the app serves.
+env.APP_ORIGIN = process.env.APP_ORIGIN || `http://${env.HOST}:${env.PORT}`;
 
 run(bin("tsx"), ["db/migrate.ts", "up"], { env });
 run(bin("tsx"), ["db/seed.ts", "demo"], { env });

@@ -73,6 +73,7 @@ try {
       PORT: String(port),
       HOST: "127.0.0.1",
       BASE_URL: `http://127.0.0.1:${port}`,
+      APP_ORIGIN: `http://127.0.0.1:${port}`,
       CHROMIUM_PATH: chromium,
     };
     run(bin("tsx"), ["db/migrate.ts", "reset"], { env: e2eEnv });

@@ -10,7 +10,7 @@ import { findCoordinateMistake } from "./coordinate-mistakes";
 import { binMedians, findDepthUnitMistake, type DepthUnitMistake } from "./depth-unit-mistakes";
 import { soundingElevations } from "./elevations";
 import type { ParsedSoundings, SoundingField } from "./parse-csv";
-import { checkRows, ruleOf, type RowProblem } from "./row-checks";
+import { checkPlausibleRanges, checkRows, plausibleProjectBounds, ruleOf, type LonLatBounds, type RowProblem } from "./row-checks";
 import type { FileShape } from "./sniff";
 
 /**
@@ -67,6 +67,8 @@ export interface PrepareOptions extends SoundingImportOptions {
 export interface SoundingGeometry {
   crsCode: string;
   crs: Crs;
+  /** The project CRS's area of use (degrees); a sounding far outside it is a row error. Unknown: null or absent. */
+  areaOfUse?: LonLatBounds | null;
   lengthUnit: LengthUnit;
   workLimit: ProjectedMultiPolygon | null;
   settings: Pick<EngineSettings, "cellSize" | "originX" | "originY" | "rotationDegrees">;
@@ -212,6 +214,13 @@ export function prepareSoundings(parsed: ParsedSoundings, options: PrepareOption
     depthHeader: header("depth", "depth"), probeHeader: header("probe", "probe"), unit: geometry.lengthUnit,
   });
   problems.push(...rowChecks.problems);
+  problems.push(...checkPlausibleRanges({
+    sourceRow: parsed.sourceRow, fileEasting: parsed.easting, fileNorthing: parsed.northing, projectEasting: easting, projectNorthing: northing,
+    depth, probe, elevation: fileElevation,
+    eastingHeader: header("easting", "easting"), northingHeader: header("northing", "northing"), depthHeader: header("depth", "depth"),
+    probeHeader: header("probe", "probe"), elevationHeader: header("elevation", "elevation"),
+    projectBounds: plausibleProjectBounds(geometry.areaOfUse, (lon, lat) => geometry.crs.fromLonLat(lon, lat)), projectCrs: geometry.crsCode,
+  }));
   problems.sort((a, b) => a.row - b.row);
   const problemRowSet = new Set(problems.map((problem) => problem.row));
 

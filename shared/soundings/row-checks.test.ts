@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { checkRows } from "./row-checks";
+import { checkPlausibleRanges, checkRows, plausibleProjectBounds } from "./row-checks";
 
 const base = (depth: number[], easting = depth.map((_, index) => index)) => ({
   sourceRow: Uint32Array.from(depth.map((_, index) => index + 2)),
@@ -50,6 +50,39 @@ describe("checkRows duplicates (hashed)", () => {
     expect(problems.map((problem) => [problem.row, problem.message])).toEqual([
       [4, "repeats row 2 exactly; leave one of them out"],
       [5, "repeats row 2 exactly; leave one of them out"],
+    ]);
+  });
+});
+
+describe("plausible ranges", () => {
+  // An equirectangular stand-in for a projection: 1 unit per degree, so the bounds are closed-form.
+  const plateCarree = (lon: number, lat: number): [number, number] => [lon, lat];
+  const area = { west: -83, south: 26, east: -81, north: 30 };
+
+  it("widens the area of use by its own width and height on every side", () => {
+    expect(plausibleProjectBounds(area, plateCarree)).toEqual({ minX: -85, minY: 22, maxX: -79, maxY: 34 });
+    expect(plausibleProjectBounds({ west: 170, south: -50, east: -170, north: -30 }, plateCarree), "across the antimeridian").toBeNull();
+    expect(plausibleProjectBounds(null, plateCarree)).toBeNull();
+  });
+
+  it("flags infinities, values beyond ±1e7 and points outside the widened area; an empty cell is the parser's", () => {
+    const easting = [-82, 1e308, Infinity, -82, -78.9, -84.9, Number.NaN];
+    const northing = [28, 28, 28, -1.0000001e7, 28, 33.9, 28];
+    const depth = [1, 1, 1, 1, 1, 1, 1];
+    const problems = checkPlausibleRanges({
+      sourceRow: Uint32Array.from(easting.map((_, index) => index + 2)),
+      fileEasting: Float64Array.from(easting), fileNorthing: Float64Array.from(northing),
+      projectEasting: Float64Array.from(easting), projectNorthing: Float64Array.from(northing),
+      depth: Float64Array.from(depth), probe: Float64Array.from([1, 1, 1, 1, 1, 1, -Infinity]), elevation: null,
+      eastingHeader: "x", northingHeader: "y", depthHeader: "depth", probeHeader: "probe", elevationHeader: "z",
+      projectBounds: plausibleProjectBounds(area, plateCarree), projectCrs: "EPSG:test",
+    });
+    expect(problems.map((problem) => [problem.row, problem.column, problem.rule])).toEqual([
+      [3, "x", "coordinate range"],
+      [4, "x", "coordinate range"],
+      [5, "y", "coordinate range"],
+      [6, "x", "coordinate range"],
+      [8, "probe", "depth range"],
     ]);
   });
 });

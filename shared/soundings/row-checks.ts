@@ -103,6 +103,110 @@ export function checkRows(input: RowCheckInput): { problems: RowProblem[]; dupli
   return { problems, duplicateRows };
 }
 
+// ——— Plausible ranges: a value no survey can hold (1e308, an infinity, a point on another
+// continent) is a row error, never stored.
+
+/** Beyond ±10,000 km (or ft) from the CRS's origin no projected survey coordinate, depth or elevation lies. */
+export const MAX_ABS_VALUE = 1e7;
+
+/** A CRS's area of use in degrees (EPSG registry). */
+export interface LonLatBounds {
+  west: number;
+  south: number;
+  east: number;
+  north: number;
+}
+
+/** A rectangle in the project's CRS. */
+export interface ProjectedBounds {
+  minX: number;
+  minY: number;
+  maxX: number;
+  maxY: number;
+}
+
+/**
+ * The project CRS's area of use as a rectangle in its own coordinates, widened on every side by
+ * its own width and height: a sounding beyond it is not near the place the CRS is made for.
+ * Sampled along the area's edges, since a projection bends them. Null when the area is unknown,
+ * crosses the antimeridian, or does not project.
+ */
+export function plausibleProjectBounds(area: LonLatBounds | null | undefined, fromLonLat: (lon: number, lat: number) => [number, number]): ProjectedBounds | null {
+  if (!area || !(area.west < area.east) || !(area.south < area.north)) return null;
+  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+  const steps = 16;
+  for (let step = 0; step <= steps; step++) {
+    const lon = area.west + ((area.east - area.west) * step) / steps;
+    const lat = area.south + ((area.north - area.south) * step) / steps;
+    for (const [x, y] of [fromLonLat(lon, area.south), fromLonLat(lon, area.north), fromLonLat(area.west, lat), fromLonLat(area.east, lat)]) {
+      if (!Number.isFinite(x) || !Number.isFinite(y)) return null;
+      minX = Math.min(minX, x); maxX = Math.max(maxX, x); minY = Math.min(minY, y); maxY = Math.max(maxY, y);
+    }
+  }
+  const width = maxX - minX;
+  const height = maxY - minY;
+  return { minX: minX - width, minY: minY - height, maxX: maxX + width, maxY: maxY + height };
+}
+
+export interface RangeCheckInput {
+  sourceRow: Uint32Array;
+  /** The file's coordinates, in the CRS the file was declared in. */
+  fileEasting: Float64Array;
+  fileNorthing: Float64Array;
+  /** The same in the project's CRS. */
+  projectEasting: Float64Array;
+  projectNorthing: Float64Array;
+  depth: Float64Array;
+  probe: Float64Array | null;
+  elevation: Float64Array | null;
+  eastingHeader: string;
+  northingHeader: string;
+  depthHeader: string;
+  probeHeader: string;
+  elevationHeader: string;
+  /** From plausibleProjectBounds; null skips the area-of-use check. */
+  projectBounds: ProjectedBounds | null;
+  projectCrs: string;
+}
+
+/** Out of range: infinite, or beyond ±MAX_ABS_VALUE (NaN is an empty cell, the parser's to report). */
+function outOfRange(value: number): boolean {
+  return Math.abs(value) > MAX_ABS_VALUE;
+}
+
+/** Row errors for coordinates and depths outside any plausible range. */
+export function checkPlausibleRanges(input: RangeCheckInput): RowProblem[] {
+  const problems: RowProblem[] = [];
+  const bounds = input.projectBounds;
+  const columns: Array<[Float64Array | null, string, string]> = [
+    [input.fileEasting, input.eastingHeader, "coordinate range"],
+    [input.fileNorthing, input.northingHeader, "coordinate range"],
+    [input.depth, input.depthHeader, "depth range"],
+    [input.probe, input.probeHeader, "depth range"],
+    [input.elevation, input.elevationHeader, "depth range"],
+  ];
+  for (let index = 0; index < input.sourceRow.length; index++) {
+    const row = input.sourceRow[index];
+    let fileCoordinateBad = false;
+    for (const [column, header, rule] of columns) {
+      if (!column || !outOfRange(column[index])) continue;
+      if (rule === "coordinate range") fileCoordinateBad = true;
+      problems.push({ row, column: header, value: String(column[index]), rule, message: `${column[index]} is beyond any plausible ${rule === "coordinate range" ? "coordinate" : "depth or elevation"} (±${MAX_ABS_VALUE.toExponential(0)}); check the column mapping and the file` });
+    }
+    if (fileCoordinateBad || !bounds) continue;
+    const x = input.projectEasting[index];
+    const y = input.projectNorthing[index];
+    if (Number.isNaN(input.fileEasting[index]) || Number.isNaN(input.fileNorthing[index])) continue;
+    if (!(x >= bounds.minX && x <= bounds.maxX && y >= bounds.minY && y <= bounds.maxY)) {
+      problems.push({
+        row, column: input.eastingHeader, value: `${input.fileEasting[index]}, ${input.fileNorthing[index]}`, rule: "coordinate range",
+        message: `lies far outside the area where ${input.projectCrs} is used; check the coordinates and the coordinate system chosen for the file`,
+      });
+    }
+  }
+  return problems;
+}
+
 /** A plain rule name for an engine CSV error message. */
 export function ruleOf(message: string): string {
   if (/is empty/.test(message)) return "required";

@@ -1,3 +1,4 @@
+import { isDatabaseUnreachable } from "~/lib/db.server";
 import { ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInError, ValidationError } from "~/lib/errors";
 
 /**
@@ -26,6 +27,9 @@ export class MethodNotAllowedError extends DomainError {
   }
 }
 
+/** Firmsand cannot answer right now (its database is unreachable); the client may try again later. */
+export class ServiceUnavailableError extends DomainError {}
+
 // Subclasses before their parents would matter here; these classes are all siblings.
 const STATUS_BY_CLASS: ReadonlyArray<readonly [abstract new (...args: never[]) => DomainError, number]> = [
   [BadRequestError, 400],
@@ -37,7 +41,11 @@ const STATUS_BY_CLASS: ReadonlyArray<readonly [abstract new (...args: never[]) =
   [PayloadTooLargeError, 413],
   [UnsupportedMediaTypeError, 415],
   [ValidationError, 422],
+  [ServiceUnavailableError, 503],
 ];
+
+/** Seconds a client waits before trying again after a 503. */
+const RETRY_AFTER_SECONDS = 30;
 
 /** The status for a typed error; a DomainError of no listed class is a plain 400. */
 export function statusOf(error: DomainError): number {
@@ -51,12 +59,21 @@ export function apiErrorResponse(error: DomainError): Response {
   const headers = new Headers({ "Cache-Control": "no-store" });
   if (status === 401) headers.set("WWW-Authenticate", 'Bearer realm="Firmsand"');
   if (error instanceof MethodNotAllowedError) headers.set("Allow", error.allowed.join(", "));
+  if (status === 503) headers.set("Retry-After", String(RETRY_AFTER_SECONDS));
   return Response.json({ errors: error.details, ...error.extra }, { status, headers });
 }
 
-/** A thrown value as the API's answer: typed errors in the error shape, Responses as they are; anything else is a fault and is rethrown (500). */
+/**
+ * A thrown value as the API's answer: typed errors in the error shape, Responses as they are, an
+ * unreachable database as 503 in the same shape (logged: it is ours to fix, not the client's);
+ * anything else is a fault and is rethrown (500).
+ */
 export function apiAnswerFor(thrown: unknown): Response {
   if (thrown instanceof DomainError) return apiErrorResponse(thrown);
   if (thrown instanceof Response) return thrown;
+  if (isDatabaseUnreachable(thrown)) {
+    console.error("Firmsand's database is unreachable:", thrown);
+    return apiErrorResponse(new ServiceUnavailableError("Firmsand's database cannot be reached right now. Nothing was changed; try again in a minute."));
+  }
   throw thrown;
 }

@@ -47,7 +47,14 @@ export async function signedInUser(request: Request): Promise<UserView> {
   );
 }
 
-const projectIdSchema = z.coerce.number().int().positive();
+/**
+ * A project id as a URL carries it: decimal digits only, no sign, point, space, leading zero or
+ * `0x` (Number() would read `0x1`, `1.0` and ` 1` as 1, so one project would answer at many URLs).
+ */
+export const projectIdSchema = z.union([
+  z.number().int().positive().max(Number.MAX_SAFE_INTEGER),
+  z.string().regex(/^[1-9][0-9]{0,14}$/).transform(Number),
+]);
 
 export interface ProjectAccess extends Access {
   user: UserView;

@@ -4,6 +4,7 @@ import { Op, type Transaction } from "sequelize";
 import { SignInSession } from "~/lib/db.server";
 import { clientAddress } from "../http/client-address.server";
 import { getEnv } from "../settings/env.server";
+import { appOrigin } from "../http/origin.server";
 
 // One cookie session for the whole app. The cookie is HttpOnly and SameSite=Lax always, and
 // Secure except on plain http to a loopback address or outside production (browsers drop
@@ -147,8 +148,21 @@ export async function listSessions(userId: number, request: Request): Promise<Se
   return rows.map((row) => ({ id: row.id, startedAt: row.createdAt.toISOString(), lastSeenAt: row.lastSeenAt.toISOString(), userAgent: row.userAgent, current: row.id === current?.id }));
 }
 
-/** Only same-site paths are followed after sign-in (no open redirects). */
+/**
+ * Only a path of Firmsand's own is followed after sign-in (no open redirect): `next` must be
+ * printable ASCII (a browser drops tabs and line breaks from a Location, and a header cannot carry
+ * them at all), start with a single `/`, and still be on the app's origin once parsed as a URL
+ * against it. Anything else goes to `fallback`.
+ */
 export function safeNext(next: unknown, fallback = "/projects"): string {
-  if (typeof next !== "string" || !next.startsWith("/") || next.startsWith("//") || next.startsWith("/\\")) return fallback;
-  return next;
+  if (typeof next !== "string" || !/^\/(?![/\\])[\x21-\x7e]*$/.test(next)) return fallback;
+  let url: URL;
+  try {
+    url = new URL(next, appOrigin());
+  } catch {
+    return fallback;
+  }
+  const path = url.pathname + url.search + url.hash;
+  if (url.origin !== appOrigin() || !/^\/(?![/\\])/.test(path)) return fallback;
+  return path;
 }

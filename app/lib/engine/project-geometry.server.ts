@@ -1,5 +1,6 @@
 import type { Transaction } from "sequelize";
 import { createCrs, type Crs } from "../../../shared/crs";
+import type { LonLatBounds } from "../../../shared/soundings/row-checks";
 import type { ProjectedMultiPolygon } from "../../../shared/grid/work-limit";
 import type { EngineSettings } from "../../../shared/pipeline";
 import type { LengthUnit } from "../../../shared/units";
@@ -15,6 +16,8 @@ export interface ProjectGeometry {
   projectId: number;
   crsCode: string;
   crs: Crs;
+  /** The CRS's area of use (degrees), from the EPSG registry; null for a proj4 string. */
+  areaOfUse: LonLatBounds | null;
   lengthUnit: LengthUnit;
   workLimit: ProjectedMultiPolygon | null;
   zones: ComputationZone[];
@@ -92,12 +95,14 @@ export function engineSettingsFor(grid: ProjectGrid): EngineSettings {
 export async function loadProjectGeometry(projectId: number, transaction?: Transaction): Promise<ProjectGeometry> {
   const project = await Project.findByPk(projectId, { transaction });
   if (!project) throw new Error(`project ${projectId} does not exist`);
-  const crs = createCrs(resolveCrsDefinition(project.crs).definition);
+  const resolved = resolveCrsDefinition(project.crs);
+  const crs = createCrs(resolved.definition);
   const zones = await Zone.findAll({ where: { projectId }, order: [["sortOrder", "ASC"], ["id", "ASC"]], transaction });
   return {
     projectId,
     crsCode: project.crs,
     crs,
+    areaOfUse: resolved.areaOfUse,
     lengthUnit: project.lengthUnit,
     workLimit: project.workLimitGeoJson ? projectGeoJson(crs, project.workLimitGeoJson) : null,
     zones: zones.map((zone) => ({ id: zone.id, name: zone.name, polygon: projectGeoJson(crs, zone.polygonGeoJson) })),

@@ -3,6 +3,7 @@ import { createRequire } from "node:module";
 import { dirname, join } from "node:path";
 import { z } from "zod";
 import type { LengthUnit } from "../../../shared/units";
+import type { LonLatBounds } from "../../../shared/soundings/row-checks";
 
 /**
  * Resolves a project's CRS from an EPSG code or a proj4 string. Definitions come from the
@@ -17,6 +18,8 @@ export interface ResolvedCrs {
   unit: string | null;
   /** Things the user should know, e.g. a datum grid that is not available here. */
   warnings: string[];
+  /** Where the CRS may be used, as the EPSG registry says (degrees); null when unknown. */
+  areaOfUse: LonLatBounds | null;
 }
 
 const epsgEntrySchema = z.object({
@@ -24,6 +27,8 @@ const epsgEntrySchema = z.object({
   name: z.string(),
   proj4: z.string().min(1),
   unit: z.string().nullable().optional(),
+  /** The area of use: north, west, south, east (degrees). */
+  bbox: z.tuple([z.number(), z.number(), z.number(), z.number()]).nullable().optional(),
 });
 
 const require = createRequire(import.meta.url);
@@ -48,6 +53,7 @@ export function resolveCrsDefinition(codeOrProj4: string): ResolvedCrs {
       name: "Custom proj4 definition",
       unit: unitMatch ? unitMatch[1] : /\+to_meter=/.test(input) ? null : input.includes("+proj=longlat") ? "degree" : "metre",
       warnings: [],
+      areaOfUse: null,
     };
   }
   const codeMatch = /^(?:EPSG\s*:\s*)?(\d{1,6})$/i.exec(input);
@@ -88,6 +94,7 @@ export function resolveCrsDefinition(codeOrProj4: string): ResolvedCrs {
     name: entry.name,
     unit: entry.unit ? entry.unit : null,
     warnings,
+    areaOfUse: entry.bbox ? { north: entry.bbox[0], west: entry.bbox[1], south: entry.bbox[2], east: entry.bbox[3] } : null,
   };
   cache.set(code, resolved);
   return resolved;

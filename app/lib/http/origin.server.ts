@@ -4,9 +4,13 @@ import { getEnv } from "../settings/env.server";
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
-/** The app's own origin: APP_ORIGIN when set (behind a proxy), else the request's. */
-export function appOrigin(request: Request): string {
-  return getEnv().APP_ORIGIN ?? new URL(request.url).origin;
+/**
+ * The app's own origin, as configured (APP_ORIGIN, or HOST and PORT outside production). Never
+ * the request's: its Host header is the client's to choose, and e-mailed links built from it
+ * would point wherever the client wished.
+ */
+export function appOrigin(): string {
+  return getEnv().APP_ORIGIN;
 }
 
 /**
@@ -21,7 +25,7 @@ export function assertSameOrigin(request: Request): void {
   // getOptionalUser), and a browser cannot add that header to a cross-site form: no forgery risk.
   if (/^Bearer\s/i.test(request.headers.get("Authorization") ?? "")) return;
   const origin = request.headers.get("Origin");
-  if (origin && origin === appOrigin(request)) return;
+  if (origin && origin === appOrigin()) return;
   if (new URL(request.url).pathname.startsWith("/api/")) {
     throw apiErrorResponse(
       new ForbiddenError("This request came from another site (its Origin header is missing or not Firmsand's), so Firmsand refused it. A program sends a personal API token as Authorization: Bearer <token> instead of a session cookie."),

@@ -34,8 +34,18 @@ const envSchema = z.object({
   /** A sign-in session ends this long after it began, however much it is used (days; 1 to 90). */
   SESSION_MAX_DAYS: z.coerce.number({ message: "SESSION_MAX_DAYS must be a number of days" }).min(1, "SESSION_MAX_DAYS must be at least 1").max(90, "SESSION_MAX_DAYS must be at most 90").default(14),
   DEMO_MODE: flag,
-  /** The public origin (scheme://host[:port]) when the app sits behind a proxy; else taken from the request. */
-  APP_ORIGIN: z.url().optional(),
+  /**
+   * The public origin (scheme://host[:port]) of e-mailed links and the Origin check. Required in
+   * production; elsewhere derived from HOST and PORT. Never taken from a request, whose Host
+   * header a client chooses.
+   */
+  APP_ORIGIN: z.preprocess((value) => (value === "" ? undefined : value), z.url().optional())
+    .refine((value) => value === undefined || /^https?:$/.test(new URL(value).protocol), "APP_ORIGIN must be an http or https origin")
+    .refine((value) => value === undefined || new URL(value).pathname === "/", "APP_ORIGIN must be an origin only (scheme://host[:port]), without a path")
+    .transform((value) => (value === undefined ? undefined : new URL(value).origin)),
+  /** Where the app serves (`npm start`, `npm run dev`); outside production they make APP_ORIGIN. */
+  HOST: z.string().min(1).default("127.0.0.1"),
+  PORT: z.coerce.number().int().min(1).max(65535).default(3000),
   /** Trust X-Forwarded-For for the client address (only behind a proxy you run). */
   TRUST_PROXY: flag,
   /** Engine worker threads for imports and the map (0: compute on the request thread, for debugging only). */
@@ -70,9 +80,13 @@ export function getUploadEnv(): UploadEnv {
 }
 
 /** The app's settings; the database's are db/settings.ts (read by the connection). */
-export type Env = z.infer<typeof envSchema> & { SESSION_SECRET: string };
+export type Env = z.infer<typeof envSchema> & { SESSION_SECRET: string; APP_ORIGIN: string };
 
 let parsed: Env | undefined;
+
+/** The same words as app/serve.mjs's refusal to start. */
+const APP_ORIGIN_REQUIRED =
+  "Firmsand's environment is not valid: APP_ORIGIN is required in production (the public origin of e-mailed links, e.g. https://firmsand.example.org)";
 
 export function getEnv(): Env {
   if (parsed) return parsed;
@@ -81,6 +95,8 @@ export function getEnv(): Env {
   // Outside production a generated secret under .data/ stands in (never committed).
   const sessionSecret = value.SESSION_SECRET ?? (production ? undefined : localSecret("session"));
   if (!sessionSecret) throw new Error("Firmsand's environment is not valid: SESSION_SECRET is required in production");
-  parsed = { ...value, SESSION_SECRET: sessionSecret };
+  const appOrigin = value.APP_ORIGIN ?? (production ? undefined : new URL(`http://${value.HOST}:${value.PORT}`).origin);
+  if (!appOrigin) throw new Error(APP_ORIGIN_REQUIRED);
+  parsed = { ...value, SESSION_SECRET: sessionSecret, APP_ORIGIN: appOrigin };
   return parsed;
 }
