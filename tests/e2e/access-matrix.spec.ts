@@ -47,6 +47,10 @@ const MATRIX: Row[] = [
   row("PUT", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401", EMPTY_JSON),
   row("PATCH", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401", EMPTY_JSON),
   row("DELETE", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401"),
+  // Creating a project: a site admin (or a user allowed to); none of the demo's other accounts is.
+  row("POST", "api/projects", "/api/projects", "403 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId", "/api/projects/{project}", "200 403 403 403 403 403 403 200 401"),
+  row("PATCH", "api/projects/:projectId", "/api/projects/{project}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/assignments", `/api/projects/{project}/assignments?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/assignments", "/api/projects/{project}/assignments", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/bands", "/api/projects/{project}/bands?surface=remaining", "200 200 200 200 200 200 200 200 401"),
