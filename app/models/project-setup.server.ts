@@ -104,7 +104,12 @@ export interface ProjectSettings {
   zones: Array<{ id: number; name: string; sortOrder: number; geometry: unknown }>;
   /** Cells of the grid over the work limit's extent. */
   cellCount: number | null;
+  /** Surveys stored (active or retracted): a change to the figures' settings recomputes them. */
+  surveyCount: number;
 }
+
+/** Above this many cells the settings page asks before saving a grid: the map and every recompute slow down with the count. */
+export const LARGE_GRID_CELLS = 200_000;
 
 // ——— Checks shared by creating and changing.
 
@@ -281,6 +286,7 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
     tolerances: { firmSand: project.tolerance, firmShare: project.firmShare, minCoverage: project.minCoverage },
     zones: zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, geometry: JSON.parse(zone.polygonGeoJson) })),
     cellCount: limit ? cellCount(createCellGrid(limit, { cellSize: project.cellSize, rotationDegrees: project.rotationDeg, originX: project.gridOriginE, originY: project.gridOriginN })) : null,
+    surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
   };
 }
 
@@ -294,6 +300,32 @@ export async function getProjectSettings(project: ProjectView): Promise<ProjectS
   const row = await Project.findByPk(project.id);
   if (!row) throw new NotFoundError("There is no such project.");
   return settingsOf(row);
+}
+
+/**
+ * What a work limit would be before it is saved, for the settings page's preview: read and checked
+ * as a PATCH would (a ValidationError naming each problem), nothing stored.
+ */
+export async function previewWorkLimit(project: ProjectView, geoJson: unknown) {
+  const row = await Project.findByPk(project.id);
+  if (!row) throw new NotFoundError("There is no such project.");
+  const problems: ErrorDetail[] = [];
+  const checked = checkCrs(row.crs, row.lengthUnit, problems);
+  const limit = checked && checkGeometry("workLimit", "The work limit", geoJson, checked.crs, problems);
+  if (!limit) throw new ValidationError(problems);
+  const grid = { cellSize: row.cellSize, rotationDegrees: row.rotationDeg, originX: row.gridOriginE, originY: row.gridOriginN };
+  return { lonLat: limit.lonLat, coordinates: limit.coordinates, area: limit.area, cellCount: cellCount(createCellGrid(limit.projected, grid)) };
+}
+
+/** The cell count a grid change would give over the stored work limit (null without one). */
+export async function prospectiveCellCount(project: ProjectView, grid: NonNullable<ProjectPatch["grid"]>): Promise<number | null> {
+  const row = await Project.findByPk(project.id);
+  if (!row) throw new NotFoundError("There is no such project.");
+  const limit = projectedLimit(createCrs(resolveCrsDefinition(row.crs).definition), row.workLimitGeoJson);
+  if (!limit) return null;
+  const cellSize = grid.cellSize ?? row.cellSize;
+  if (!(cellSize > 0)) return null;
+  return cellCount(createCellGrid(limit, { cellSize, rotationDegrees: grid.rotationDegrees ?? row.rotationDeg, originX: grid.originX ?? row.gridOriginE, originY: grid.originY ?? row.gridOriginN }));
 }
 
 // ——— Changing.

@@ -95,6 +95,8 @@ const MATRIX: Row[] = [
   row("GET", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "400 403 400 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/quantities", "/projects/{project}/quantities", "200 200 200 403 403 403 200 200 login"),
+  row("GET", "projects/:projectId/settings", "/projects/{project}/settings", "200 403 403 403 403 403 403 200 login"),
+  row("POST", "projects/:projectId/settings", "/projects/{project}/settings", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/share", "/projects/{project}/share", "200 403 403 403 403 200 403 200 login"),
   row("POST", "projects/:projectId/share", "/projects/{project}/share", "400 403 403 403 403 400 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/surveys", "/projects/{project}/surveys", "200 200 200 200 200 200 200 200 login"),

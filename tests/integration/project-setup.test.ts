@@ -13,7 +13,8 @@ import { createProject, newProjectSchema } from "~/models/project-setup.server";
 import * as projectsApi from "~/routes/api.projects";
 import * as projectApi from "~/routes/api.projects.$projectId";
 import { DEMO_DIR, postSurvey, projectCrs } from "./import-helpers";
-import { addMember, makeUser, ORIGIN } from "./helpers";
+import { addMember, makeUser, ORIGIN, requestAs } from "./helpers";
+import * as settingsPage from "~/routes/projects.$projectId.settings";
 
 // Setting a project up through the API: POST /api/projects, GET/PATCH /api/projects/<id>, with
 // personal API tokens, against the real database.
@@ -194,4 +195,55 @@ describe("GET/PATCH /api/projects/<id>", () => {
     expect((audit?.detail as { before: { grid: { cellSize: number } }; after: { grid: { cellSize: number } } }).before.grid.cellSize).toBe(20);
     expect((audit?.detail as { after: { grid: { cellSize: number } } }).after.grid.cellSize).toBe(40);
   }, 90_000);
+});
+
+describe("the settings page /projects/<id>/settings", () => {
+  async function post(userId: number, projectId: number, fields: Record<string, string | Blob>) {
+    const form = new FormData();
+    for (const [name, value] of Object.entries(fields)) form.set(name, value as string);
+    const request = await requestAs(userId, `/projects/${projectId}/settings`, { method: "POST", body: form });
+    const result = await settingsPage.action({ request, params: { projectId: String(projectId) }, context: {} } as never);
+    return result as unknown as { data: { errors: Record<string, string>; notice: string | null; largeGrid?: number; preview?: { coordinates: string; area: number; geoJson: string } }; init: { status?: number } | null };
+  }
+
+  it("saves the grid, printing the new cell count; over 200,000 cells asks first; the audit log keeps before and after", async () => {
+    const projectId = await created(await send("POST", adminToken, springInput({ name: "Settings page grid", zones: [] })));
+    const manager = (await User.findOne({ where: { email: managerEmail } }))!;
+    const before = await settingsOf(projectId);
+    const tooFine = await post(manager.id, projectId, { intent: "grid", cellSize: "0.5" });
+    expect(tooFine.init?.status).toBe(400);
+    // computed: a 0.5 ft cell is 1/1600 of a 20 ft one, so the count grows about 1600 times
+    expect(tooFine.data.largeGrid).toBeGreaterThan(200_000);
+    expect(tooFine.data.errors.cellSize).toMatch(/more than 200,000/);
+    expect((await settingsOf(projectId)).grid.cellSize).toBe(20);
+
+    const saved = await post(manager.id, projectId, { intent: "grid", cellSize: "10", originX: String(before.grid.originX), originY: String(before.grid.originY), rotationDegrees: "0", rasterResolution: "1", maxEdge: "50" });
+    const after = await settingsOf(projectId);
+    expect(after.grid.cellSize).toBe(10);
+    expect(saved.data.notice).toBe(`Saved. The grid has ${after.cellCount.toLocaleString("en-US")} cells.`);
+    // invariant: from the same origin, halving the cell size gives between 2 and 4 times the cells over the same extent
+    expect(after.cellCount).toBeGreaterThanOrEqual(before.cellCount * 2);
+    expect(after.cellCount).toBeLessThanOrEqual(before.cellCount * 4);
+    const audit = await AuditEvent.findOne({ where: { projectId, action: "project-settings-changed" } });
+    const detail = audit?.detail as { before: { grid: { cellSize: number } }; after: { grid: { cellSize: number } } };
+    expect([detail.before.grid.cellSize, detail.after.grid.cellSize]).toEqual([20, 10]);
+  });
+
+  it("previews an uploaded work limit (saying it was read in the CRS) before replacing it; a bad one is named next to the field", async () => {
+    const projectId = await created(await send("POST", adminToken, springInput({ name: "Settings page limit", zones: [] })));
+    const manager = (await User.findOne({ where: { email: managerEmail } }))!;
+    const crs = projectCrs();
+    const inCrs = { type: "Polygon", coordinates: WORK_LIMIT.coordinates.map((ring) => ring.map(([lon, lat]) => crs.fromLonLat(lon, lat))) };
+    const preview = await post(manager.id, projectId, { intent: "work-limit-preview", file: new File([JSON.stringify(inCrs)], "limit.geojson") });
+    expect(preview.data.preview?.coordinates).toBe("project-crs");
+    const stored = await settingsOf(projectId);
+    // invariant: the same outline in another coordinate system has the same area
+    expect(Math.abs(preview.data.preview!.area / stored.workLimitArea - 1)).toBeLessThan(1e-6);
+    const saved = await post(manager.id, projectId, { intent: "work-limit-save", geoJson: preview.data.preview!.geoJson });
+    expect(saved.data.notice).toMatch(/^Saved\./);
+
+    const broken = await post(manager.id, projectId, { intent: "work-limit-preview", file: new File(['{"type":"FeatureCollection","features":[]}'], "empty.geojson") });
+    expect(broken.init?.status).toBe(400);
+    expect(broken.data.errors.workLimit).toBe("The work limit is empty: it holds no polygon.");
+  });
 });
