@@ -84,6 +84,8 @@ const MATRIX: Row[] = [
   row("POST", "login", "/login", "302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|400", { form: { email: "", password: "" } }),
   row("GET", "logout", "/logout", "302 /|302 /|302 /|302 /|302 /|302 /|302 /|302 /|302 /"),
   row("GET", "projects", "/projects", "200 200 200 200 200 200 200 200 login"),
+  // The new-project form: the site admin only among the demo's accounts (a bogus form: 400).
+  row("POST", "projects", "/projects", "403 403 403 403 403 403 403 400 login", BOGUS_INTENT),
 
   // A project's pages (the layout and its index share the project's URL).
   row("GET", "projects/:projectId", "/projects/{project}", "200 200 200 200 200 200 200 200 login"),
