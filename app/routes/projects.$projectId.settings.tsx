@@ -10,6 +10,7 @@ import { DomainError, validationErrorFrom } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { parseForm, type FieldErrors } from "~/lib/http/form";
 import { getProjectSettings, LARGE_GRID_CELLS, previewWorkLimit, projectPatchSchema, prospectiveCellCount, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
+import { WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
 import type { Route } from "./+types/projects.$projectId.settings";
 
 // The manager's settings page: one form per section, each saved on its own through the project
@@ -75,6 +76,10 @@ function fieldErrorsOf(error: DomainError): FieldErrors {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "project.configure");
+  // Refused on its declared size before the form is read: a work limit is a small file.
+  if (Number(request.headers.get("Content-Length") ?? 0) > WORK_LIMIT_MAX_BYTES + 64 * 1024) {
+    return answered({ intent: "work-limit-preview", errors: { workLimit: `The file is larger than ${WORK_LIMIT_MAX_BYTES / 1024 / 1024} MB; simplify the outline first.` }, notice: null }, 413);
+  }
   const parsed = parseForm(await request.formData(), actionSchema);
   if (!parsed.ok) return failed("invalid", parsed.errors);
   const input = parsed.data;

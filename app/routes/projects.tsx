@@ -13,6 +13,7 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { parseForm, type FieldErrors } from "~/lib/http/form";
 import { listProjectsForUser } from "~/models/project.server";
 import { assertMayCreateProjects, createProject, newProjectSchema } from "~/models/project-setup.server";
+import { WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
 import type { Route } from "./+types/projects";
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -55,6 +56,10 @@ export async function action({ request }: Route.ActionArgs) {
     assertMayCreateProjects(user);
   } catch (error) {
     throw new Response((error as Error).message, { status: 403, statusText: "Forbidden" });
+  }
+  // Refused on its declared size before the form is read: a work limit is a small file.
+  if (Number(request.headers.get("Content-Length") ?? 0) > WORK_LIMIT_MAX_BYTES + 64 * 1024) {
+    return data({ errors: { file: `The file is larger than ${WORK_LIMIT_MAX_BYTES / 1024 / 1024} MB; simplify the outline first.` } as FieldErrors }, { status: 413 });
   }
   const parsed = parseForm(await request.formData(), newProjectFormSchema);
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });

@@ -14,6 +14,8 @@ import { workLimitArea, type Position, type ProjectedMultiPolygon } from "./work
  * pass as degrees (a local grid within 180 units of its origin) would be misread, which no state
  * plane or UTM zone allows.
  */
+/** Largest work-limit file the pages read (bytes): 10,000 vertices of GeoJSON fit well within it. */
+export const WORK_LIMIT_MAX_BYTES = 2 * 1024 * 1024;
 /** Most vertices accepted over all rings (the crossing check grows with their square). */
 export const WORK_LIMIT_MAX_VERTICES = 10_000;
 

@@ -247,3 +247,19 @@ describe("the settings page /projects/<id>/settings", () => {
     expect(broken.data.errors.workLimit).toBe("The work limit is empty: it holds no polygon.");
   });
 });
+
+describe("work-limit files over the size limit", () => {
+  it("are refused with 413 on their declared size, before the form is read", async () => {
+    const admin = await makeUser("setup-large-file", { isSiteAdmin: true });
+    const projectId = await created(await send("POST", adminToken, springInput({ name: "Large file refused", zones: [] })));
+    const form = new FormData();
+    form.set("intent", "work-limit-preview");
+    form.set("file", new File(["x".repeat(3 * 1024 * 1024)], "huge.geojson"));
+    const request = await requestAs(admin.id, `/projects/${projectId}/settings`, { method: "POST", body: form });
+    const body = new Uint8Array(await request.clone().arrayBuffer());
+    const sized = new Request(request, { headers: { ...Object.fromEntries(request.headers), "Content-Length": String(body.byteLength) } });
+    const result = (await settingsPage.action({ request: sized, params: { projectId: String(projectId) }, context: {} } as never)) as unknown as { data: { errors: Record<string, string> }; init: { status: number } };
+    expect(result.init.status).toBe(413);
+    expect(result.data.errors.workLimit).toMatch(/larger than 2 MB/);
+  });
+});
