@@ -10,6 +10,8 @@ export default [
   // The JSON, CSV and GeoJSON API (one access helper, one body reader, one error shape:
   // app/lib/api); any other /api address answers the API's JSON 404.
   route("api/*", "routes/api.$.ts"),
+  route("api/projects", "routes/api.projects.ts"),
+  route("api/projects/:projectId", "routes/api.projects.$projectId.ts"),
   route("api/projects/:projectId/assignments", "routes/api.projects.$projectId.assignments.ts"),
   route("api/projects/:projectId/bands", "routes/api.projects.$projectId.bands.ts"),
   route("api/projects/:projectId/cells", "routes/api.projects.$projectId.cells.ts"),
@@ -42,6 +44,7 @@ export default [
     route("members", "routes/projects.$projectId.members.tsx"),
     route("plans/:date", "routes/projects.$projectId.plans.$date.tsx"),
     route("quantities", "routes/projects.$projectId.quantities.tsx"),
+    route("settings", "routes/projects.$projectId.settings.tsx"),
     route("share", "routes/projects.$projectId.share.tsx"),
     route("surveys", "routes/projects.$projectId.surveys.tsx"),
     route("surveys/:surveyId", "routes/projects.$projectId.surveys.$surveyId.tsx"),

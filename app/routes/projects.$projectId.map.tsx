@@ -1,6 +1,6 @@
 import type { FeatureCollection } from "geojson";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
-import { data } from "react-router";
+import { data, Link } from "react-router";
 import { createCrs } from "../../shared/crs";
 import { CELL_STATUSES } from "../../shared/cell-status";
 import { AssignPanel } from "~/components/map/assign-panel";
@@ -17,6 +17,7 @@ import { requireRole } from "~/lib/auth/access.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { DomainError } from "~/lib/errors";
 import { listDiveTeams } from "~/models/assignments.server";
+import { listSurveys } from "~/models/survey.server";
 import { findProject } from "~/lib/auth/project-view.server";
 import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
 import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline.server";
@@ -25,7 +26,7 @@ import type { Route } from "./+types/projects.$projectId.map";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project } = access;
-  const [teams, shoreline, row] = await Promise.all([listDiveTeams(project), getShoreline(project), findProject(project.id)]);
+  const [teams, shoreline, row, surveys] = await Promise.all([listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project)]);
   return {
     projectId: project.id,
     hasWorkLimit: project.hasWorkLimit,
@@ -33,6 +34,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     crsCode: project.crs,
     minTeamSize: project.minTeamSize,
     canAssign: can(access, "plans.assign"),
+    // A new project's empty grid says what comes next.
+    hasSurveys: surveys.length > 0,
+    canImport: can(access, "surveys.import"),
     canConfigure: can(access, "map.configure"),
     shoreline,
     shorelineMaxBytes: SHORELINE_MAX_BYTES,
@@ -222,6 +226,11 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
   }
   return (
     <section aria-labelledby="map-title" className="space-y-3">
+      {loaderData.hasSurveys ? null : (
+        <p className="rounded border border-lagoon bg-panel px-3 py-2 text-sm" data-testid="next-step">
+          The grid is empty. Next: import the baseline survey{loaderData.canImport ? <> — <Link to={`/projects/${projectId}/surveys/new`} className="text-lagoon underline">import it now</Link></> : " (a survey technician or the manager does this)"}.
+        </p>
+      )}
       <div className="flex flex-wrap items-end gap-3">
         <h2 id="map-title" className="text-lg font-semibold">Coverage map</h2>
         <label className="text-sm">View

@@ -12,6 +12,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     roleLabel: role ? ROLE_LABELS[role] : "Site administrator",
     canManageMembers: can(access, "members.manage"),
     canReadAudit: can(access, "audit.read"),
+    canConfigure: can(access, "project.configure"),
   };
 }
 
@@ -33,6 +34,7 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
         <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
         {loaderData.canManageMembers ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
+        {loaderData.canConfigure ? <NavLink to={`${base}/settings`} className={linkClass}>Settings</NavLink> : null}
         {loaderData.canReadAudit ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}
       </nav>
       <div className="mt-6">

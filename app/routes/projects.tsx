@@ -1,8 +1,19 @@
-import { Link } from "react-router";
+import { Form, Link, data, redirect } from "react-router";
+import { z } from "zod";
+import { defaultsFor, lengthUnitSchema } from "../../shared/units";
+import { ActionMessages } from "~/components/form-message";
 import { Page } from "~/components/page";
+import { SubmitButton } from "~/components/submit-button";
+import { TextField } from "~/components/text-field";
 import { requireUser } from "~/lib/auth/access.server";
+import { canCreateProjects } from "~/lib/auth/permissions";
 import { ROLE_LABELS } from "~/lib/auth/roles";
+import { DomainError, validationErrorFrom } from "~/lib/errors";
+import { clientAddress } from "~/lib/http/client-address.server";
+import { parseForm, type FieldErrors } from "~/lib/http/form";
 import { listProjectsForUser } from "~/models/project.server";
+import { assertMayCreateProjects, createProject, newProjectSchema } from "~/models/project-setup.server";
+import { WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
 import type { Route } from "./+types/projects";
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -15,14 +26,100 @@ export async function loader({ request }: Route.LoaderArgs) {
       description: project.description,
       role: project.role ? ROLE_LABELS[project.role] : "Site administrator",
     })),
+    canCreate: canCreateProjects(user),
   };
+}
+
+// The new-project form: the least a project needs to show its grid (the rest is on its settings page).
+const newProjectFormSchema = z.object({
+  name: z.string(),
+  crs: z.string(),
+  lengthUnit: z.enum(lengthUnitSchema.options, { error: "Choose a length unit" }),
+  timeZone: z.string(),
+  manager: z.string().trim().transform((value) => value || undefined),
+  file: z.instanceof(File, { error: "Choose the work limit's GeoJSON file" }).refine((file) => file.size > 0, "Choose the work limit's GeoJSON file"),
+});
+
+/** A service refusal's details as the form's field errors (the detail's first path segment is the input's name). */
+function fieldErrorsOf(error: DomainError): FieldErrors {
+  const errors: FieldErrors = {};
+  for (const detail of error.details) {
+    const key = detail.field === "workLimit" ? "file" : (detail.field?.split(".")[0] ?? "form");
+    errors[key] = errors[key] ? `${errors[key]} ${detail.message}` : detail.message;
+  }
+  return errors;
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  try {
+    assertMayCreateProjects(user);
+  } catch (error) {
+    throw new Response((error as Error).message, { status: 403, statusText: "Forbidden" });
+  }
+  // Refused on its declared size before the form is read: a work limit is a small file.
+  if (Number(request.headers.get("Content-Length") ?? 0) > WORK_LIMIT_MAX_BYTES + 64 * 1024) {
+    return data({ errors: { file: `The file is larger than ${WORK_LIMIT_MAX_BYTES / 1024 / 1024} MB; simplify the outline first.` } as FieldErrors }, { status: 413 });
+  }
+  const parsed = parseForm(await request.formData(), newProjectFormSchema);
+  if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
+  const { file, ...fields } = parsed.data;
+  let workLimit: unknown;
+  try {
+    workLimit = JSON.parse(await file.text());
+  } catch {
+    return data({ errors: { file: `${file.name} is not a GeoJSON file (it does not read as JSON).` } as FieldErrors }, { status: 400 });
+  }
+  // The grid starts from the unit's usual cell size; the settings page changes it.
+  const input = newProjectSchema.safeParse({ ...fields, workLimit, grid: { cellSize: defaultsFor(fields.lengthUnit).cellSize } });
+  try {
+    if (!input.success) throw validationErrorFrom(input.error);
+    const { id } = await createProject(user, input.data, { ip: clientAddress(request) });
+    return redirect(`/projects/${id}/map`);
+  } catch (error) {
+    if (error instanceof DomainError) return data({ errors: fieldErrorsOf(error) }, { status: 400 });
+    throw error;
+  }
 }
 
 export function meta({}: Route.MetaArgs) {
   return [{ title: "Projects · Firmsand" }];
 }
 
-export default function Projects({ loaderData }: Route.ComponentProps) {
+const inputClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py-2 focus:outline-2 focus:outline-offset-1 focus:outline-lagoon aria-invalid:border-danger";
+
+function NewProjectForm({ errors }: { errors: FieldErrors }) {
+  return (
+    <section aria-labelledby="new-project" className="mt-8 rounded border border-line bg-panel p-4">
+      <h2 id="new-project" className="text-lg font-semibold">New project</h2>
+      <p className="mt-1 text-sm text-muted">The work limit decides the grid; the rest (zones, tolerances, description) is on the project's settings page.</p>
+      <ActionMessages error={errors.form} />
+      <Form method="post" encType="multipart/form-data" className="mt-3 grid gap-3 sm:grid-cols-2">
+        <TextField label="Project name" name="name" required maxLength={200} error={errors.name} />
+        <TextField label="Coordinate reference system (EPSG code)" name="crs" required placeholder="EPSG:2237" error={errors.crs} />
+        <div>
+          <label htmlFor="new-length-unit" className="block text-sm font-medium">Length unit</label>
+          <select id="new-length-unit" name="lengthUnit" className={inputClass} aria-invalid={errors.lengthUnit ? true : undefined}>
+            <option value="us-ft">US survey feet</option>
+            <option value="ft">international feet</option>
+            <option value="m">metres</option>
+          </select>
+          {errors.lengthUnit ? <p className="mt-1 text-sm text-danger">{errors.lengthUnit}</p> : null}
+        </div>
+        <TextField label="Time zone" name="timeZone" required defaultValue="America/New_York" error={errors.timeZone} hint="IANA name: work days are counted in it." />
+        <TextField label="First manager's e-mail" name="manager" type="email" error={errors.manager} hint="An existing account; leave empty to manage it yourself." />
+        <div>
+          <label htmlFor="new-work-limit" className="block text-sm font-medium">Work limit (GeoJSON, in the CRS or lon/lat)</label>
+          <input id="new-work-limit" name="file" type="file" required accept=".geojson,.json,application/geo+json,application/json" className="mt-1 block w-full text-sm" aria-invalid={errors.file ? true : undefined} aria-describedby="new-work-limit-error" />
+          <p id="new-work-limit-error" className="mt-1 text-sm text-danger">{errors.file ?? ""}</p>
+        </div>
+        <div className="sm:col-span-2"><SubmitButton pendingLabel="Creating…">Create project</SubmitButton></div>
+      </Form>
+    </section>
+  );
+}
+
+export default function Projects({ loaderData, actionData }: Route.ComponentProps) {
   return (
     <Page title="Your projects" wide>
       {loaderData.projects.length === 0 ? (
@@ -42,6 +139,7 @@ export default function Projects({ loaderData }: Route.ComponentProps) {
           ))}
         </ul>
       )}
+      {loaderData.canCreate ? <NewProjectForm errors={actionData?.errors ?? {}} /> : null}
     </Page>
   );
 }

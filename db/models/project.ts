@@ -13,6 +13,14 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   declare name: string;
   declare slug: string;
   declare description: CreationOptional<string>;
+  /** The agency or client the work is done for. */
+  declare agency: CreationOptional<string>;
+  /** Permit numbers as the permits write them, comma-separated. */
+  declare permitNumbers: CreationOptional<string>;
+  /** IANA time zone the project's work days are counted in. */
+  declare timeZone: CreationOptional<string>;
+  /** The vertical datum's name, for labels (e.g. NAVD88). */
+  declare verticalDatum: CreationOptional<string>;
   /** An EPSG code such as "EPSG:2237". */
   declare crs: string;
   declare lengthUnit: LengthUnit;
@@ -45,6 +53,10 @@ export function initProject(sequelize: Sequelize) {
       name: { type: DataTypes.STRING(200), allowNull: false },
       slug: { type: DataTypes.STRING(100), allowNull: false },
       description: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
+      agency: { type: DataTypes.STRING(200), allowNull: false, defaultValue: "" },
+      permitNumbers: { type: DataTypes.STRING(500), allowNull: false, defaultValue: "" },
+      timeZone: { type: DataTypes.STRING(64), allowNull: false, defaultValue: "UTC" },
+      verticalDatum: { type: DataTypes.STRING(60), allowNull: false, defaultValue: "" },
       crs: { type: DataTypes.STRING(40), allowNull: false },
       lengthUnit: { type: DataTypes.ENUM(...LENGTH_UNITS), allowNull: false },
       gridOriginE: measure(),

@@ -7,6 +7,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare name: string;
   declare passwordHash: string;
   declare isSiteAdmin: CreationOptional<boolean>;
+  /** A site admin allowed this user to create projects (they become the new project's manager). */
+  declare mayCreateProjects: CreationOptional<boolean>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -19,6 +21,7 @@ export function initUser(sequelize: Sequelize) {
       name: { type: DataTypes.STRING(120), allowNull: false },
       passwordHash: { type: DataTypes.STRING(100), allowNull: false },
       isSiteAdmin: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      mayCreateProjects: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -12,22 +12,36 @@ export const DEMO_PROJECT = {
   description: `${PROJECT.owner}. ${PROJECT.description}`,
   crs: PROJECT.crs,
   lengthUnit: PROJECT.lengthUnit,
-  gridOriginE: GRID.originEastingFt,
-  gridOriginN: GRID.originNorthingFt,
-  cellSize: GRID.cellSizeFt,
-  rasterResolution: GRID.rasterResolutionFt,
-  maxEdge: GRID.maxTriangleEdgeFt,
-  rotationDeg: GRID.rotationDegrees,
-  tolerance: GRID.toleranceFt,
-  firmShare: GRID.firmShare,
-  minCoverage: GRID.minCoverage,
   /** A diver, a tender and a standby diver: the smallest crew the demo's dive plan allows. */
   minTeamSize: 3,
 };
 
-export const DEMO_WORK_LIMIT = WORK_LIMIT;
-
-export const DEMO_ZONES = ZONES.map((zone, index) => ({ name: zone.name, sortOrder: index + 1, polygon: zone.polygon }));
+/** The demo project as the project-setup service takes it (lon/lat GeoJSON, lengths in us-ft). */
+export function demoProjectInput(managerEmail: string) {
+  return {
+    name: DEMO_PROJECT.name,
+    slug: DEMO_PROJECT.slug,
+    description: DEMO_PROJECT.description,
+    agency: PROJECT.owner,
+    timeZone: PROJECT.timeZone,
+    verticalDatum: PROJECT.verticalDatum,
+    crs: DEMO_PROJECT.crs,
+    lengthUnit: DEMO_PROJECT.lengthUnit,
+    workLimit: WORK_LIMIT,
+    grid: {
+      cellSize: GRID.cellSizeFt,
+      rotationDegrees: GRID.rotationDegrees,
+      originX: GRID.originEastingFt,
+      originY: GRID.originNorthingFt,
+      rasterResolution: GRID.rasterResolutionFt,
+      maxEdge: GRID.maxTriangleEdgeFt,
+    },
+    tolerances: { firmSand: GRID.toleranceFt, firmShare: GRID.firmShare, minCoverage: GRID.minCoverage },
+    zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })),
+    minTeamSize: DEMO_PROJECT.minTeamSize,
+    manager: managerEmail,
+  };
+}
 
 export const DEMO_USERS: Array<{ email: string; name: string; role: Role | null; isSiteAdmin: boolean }> = PEOPLE.map((person) => ({
   email: person.email,

@@ -3,7 +3,7 @@ import { hashPassword } from "../../app/lib/auth/password.server";
 import { CellResult, Dive, DiveTeam, Membership, Project, Survey, User, Zone, initModels } from "../models";
 import { seedDemoDiveTeams } from "./demo-dive-teams";
 import { seedDemoSurveys } from "./demo-surveys";
-import { DEMO_PASSWORD, DEMO_PROJECT, DEMO_USERS, DEMO_WORK_LIMIT, DEMO_ZONES } from "./demo-scenario";
+import { DEMO_PASSWORD, DEMO_PROJECT, DEMO_USERS, demoProjectInput } from "./demo-scenario";
 
 /**
  * Seeds the demo scenario (one project, its zones, one account per role and a site admin) when
@@ -19,22 +19,22 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
   }
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   await sequelize.transaction(async (transaction) => {
-    const project = await Project.create(
-      { ...DEMO_PROJECT, workLimitGeoJson: JSON.stringify(DEMO_WORK_LIMIT) },
-      { transaction },
-    );
-    for (const zone of DEMO_ZONES) {
-      await Zone.create(
-        { projectId: project.id, name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.polygon) },
-        { transaction },
-      );
-    }
+    const users = new Map<string, User>();
     for (const demoUser of DEMO_USERS) {
-      const user = await User.create(
+      users.set(demoUser.email, await User.create(
         { email: demoUser.email, name: demoUser.name, passwordHash, isSiteAdmin: demoUser.isSiteAdmin },
         { transaction },
-      );
-      if (demoUser.role) await Membership.create({ userId: user.id, projectId: project.id, role: demoUser.role }, { transaction });
+      ));
+    }
+    // The project through the same service as the API and the new-project form, by the site admin,
+    // naming the demo's manager.
+    const { createProject, newProjectSchema } = await import("../../app/models/project-setup.server");
+    const { presentUser } = await import("../../app/lib/auth/users.server");
+    const admin = DEMO_USERS.find((demoUser) => demoUser.isSiteAdmin)!;
+    const manager = DEMO_USERS.find((demoUser) => demoUser.role === "manager")!;
+    const { id: projectId } = await createProject(presentUser(users.get(admin.email)!), newProjectSchema.parse(demoProjectInput(manager.email)), { transaction });
+    for (const demoUser of DEMO_USERS) {
+      if (demoUser.role && demoUser.role !== "manager") await Membership.create({ userId: users.get(demoUser.email)!.id, projectId, role: demoUser.role }, { transaction });
     }
   });
   // The demo surveys, through the sounding import (issue 4).

@@ -155,3 +155,15 @@ export function cellPolygon(grid: CellGrid, row: number, col: number): Position[
 export function cellCentroid(grid: CellGrid, row: number, col: number): Position {
   return fromGridFrame(grid, (col + 0.5) * grid.cellSize, (row + 0.5) * grid.cellSize);
 }
+
+/**
+ * The grid origin a project gets when none is given: the work limit's south-west corner in the
+ * grid's (rotated) frame, moved down and left onto a multiple of the cell size, so cell lines fall
+ * on round coordinates and every cell of the limit lies at or above and right of the origin.
+ */
+export function defaultGridOrigin(workLimit: ProjectedMultiPolygon, cellSize: number, rotationDegrees = 0): Position {
+  const corner = createCellGrid(workLimit, { cellSize, rotationDegrees });
+  const unrotated = { originX: 0, originY: 0, rotationDegrees };
+  const [u, v] = toGridFrame(unrotated, corner.originX, corner.originY);
+  return fromGridFrame(unrotated, Math.floor(u / cellSize) * cellSize, Math.floor(v / cellSize) * cellSize);
+}

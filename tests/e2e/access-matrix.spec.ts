@@ -47,6 +47,10 @@ const MATRIX: Row[] = [
   row("PUT", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401", EMPTY_JSON),
   row("PATCH", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401", EMPTY_JSON),
   row("DELETE", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401"),
+  // Creating a project: a site admin (or a user allowed to); none of the demo's other accounts is.
+  row("POST", "api/projects", "/api/projects", "403 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId", "/api/projects/{project}", "200 403 403 403 403 403 403 200 401"),
+  row("PATCH", "api/projects/:projectId", "/api/projects/{project}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/assignments", `/api/projects/{project}/assignments?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/assignments", "/api/projects/{project}/assignments", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/bands", "/api/projects/{project}/bands?surface=remaining", "200 200 200 200 200 200 200 200 401"),
@@ -80,6 +84,8 @@ const MATRIX: Row[] = [
   row("POST", "login", "/login", "302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|302 /projects|400", { form: { email: "", password: "" } }),
   row("GET", "logout", "/logout", "302 /|302 /|302 /|302 /|302 /|302 /|302 /|302 /|302 /"),
   row("GET", "projects", "/projects", "200 200 200 200 200 200 200 200 login"),
+  // The new-project form: the site admin only among the demo's accounts (a bogus form: 400).
+  row("POST", "projects", "/projects", "403 403 403 403 403 403 403 400 login", BOGUS_INTENT),
 
   // A project's pages (the layout and its index share the project's URL).
   row("GET", "projects/:projectId", "/projects/{project}", "200 200 200 200 200 200 200 200 login"),
@@ -91,6 +97,8 @@ const MATRIX: Row[] = [
   row("GET", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "400 403 400 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/quantities", "/projects/{project}/quantities", "200 200 200 403 403 403 200 200 login"),
+  row("GET", "projects/:projectId/settings", "/projects/{project}/settings", "200 403 403 403 403 403 403 200 login"),
+  row("POST", "projects/:projectId/settings", "/projects/{project}/settings", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/share", "/projects/{project}/share", "200 403 403 403 403 200 403 200 login"),
   row("POST", "projects/:projectId/share", "/projects/{project}/share", "400 403 403 403 403 400 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/surveys", "/projects/{project}/surveys", "200 200 200 200 200 200 200 200 login"),

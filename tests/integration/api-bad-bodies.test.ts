@@ -6,7 +6,7 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import routeConfig from "../../app/routes";
-import { Assignment, AuditEvent, CellResult, ColumnMapping, Dive, DiveCell, DiveTeam, ImportJob, ShareLink, Sounding, Survey, SurveySnapshot } from "~/lib/db.server";
+import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, Dive, DiveCell, DiveTeam, ImportJob, ShareLink, Sounding, Survey, SurveySnapshot } from "~/lib/db.server";
 import { stagingDirectory } from "~/lib/import/stage-upload.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { createShareLink } from "~/models/share-links.server";
@@ -45,8 +45,11 @@ const base = () => `/api/projects/${site.project.id}`;
 // test checks this list against app/routes.ts. Tables written: assignments → Assignment,
 // AuditEvent; dives → Dive, DiveCell, AuditEvent; share-links → ShareLink, AuditEvent; surveys →
 // Survey, Sounding, CellResult, SurveySnapshot, ImportJob, ColumnMapping, AuditEvent and the
-// staging directory; the GET-only routes' actions (405) and api/* (404) write nothing.
+// staging directory; projects → Project, Zone, Membership, AuditEvent; a project's settings →
+// Project, Zone, CellResult, SurveySnapshot, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
+  { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
+  { route: "api/projects/:projectId", method: "PATCH", url: () => base(), params: projectParams },
   { route: "api/projects/:projectId/assignments", method: "POST", url: () => `${base()}/assignments`, params: projectParams },
   { route: "api/projects/:projectId/dives", method: "POST", url: () => `${base()}/dives`, params: projectParams },
   { route: "api/projects/:projectId/share-links", method: "POST", url: () => `${base()}/share-links`, params: projectParams },
@@ -148,6 +151,10 @@ async function snapshot() {
     importJobs: await ImportJob.count({ where: { projectId } }),
     columnMappings: await ColumnMapping.count({ where: { projectId } }),
     auditEvents: await AuditEvent.count({ where: { projectId } }),
+    projects: await Project.count(),
+    projectRow: JSON.stringify((await Project.findByPk(projectId, { raw: true }))!),
+    zones: await Zone.count(),
+    memberships: await Membership.count(),
     stagedFiles: readdirSync(stagingDirectory(), { withFileTypes: true }).length,
   };
 }
@@ -169,6 +176,8 @@ function allRoutes(): Array<{ path: string; file: string }> {
 
 beforeAll(async () => {
   site = await makeDemoSiteProject("bad-bodies");
+  // So that POST /api/projects reads the bodies rather than refusing the caller.
+  await User.update({ mayCreateProjects: true }, { where: { id: site.users.manager } });
   await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] });
   const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
   const stored = await postSurvey(site.project.id, site.tokens.manager, { path: join(DEMO_DIR, baseline.fileName) }, {

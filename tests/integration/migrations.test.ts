@@ -17,6 +17,15 @@ async function tables(): Promise<string[]> {
   return rows.map((row) => row.name);
 }
 
+/** Every column as "table.column type", so a down that forgets one shows after the round trip. */
+async function columns(): Promise<string[]> {
+  const rows = await getSequelize().query<{ name: string }>(
+    "SELECT CONCAT(table_name, '.', column_name, ' ', column_type) AS name FROM information_schema.columns WHERE table_schema = DATABASE() ORDER BY table_name, column_name",
+    { type: QueryTypes.SELECT },
+  );
+  return rows.map((row) => row.name);
+}
+
 const FOUNDATION_TABLES = ["audit_events", "invitations", "login_attempts", "memberships", "password_resets", "projects", "users", "zones"];
 
 describe("migrations", () => {
@@ -32,7 +41,12 @@ describe("migrations", () => {
     const umzug = createUmzug(getSequelize());
     await umzug.up();
     const migrated = await tables();
+    const migratedColumns = await columns();
     for (const table of FOUNDATION_TABLES) expect(migrated).toContain(table);
+    // Project setup (0006): identity, time zone, datum; who may create projects.
+    for (const column of ["projects.agency", "projects.permitNumbers", "projects.timeZone", "projects.verticalDatum", "users.mayCreateProjects"]) {
+      expect(migratedColumns.some((entry) => entry.startsWith(`${column} `)), column).toBe(true);
+    }
 
     await umzug.down({ to: 0 });
     expect(await tables()).toEqual(["schema_migrations"]);
@@ -40,6 +54,7 @@ describe("migrations", () => {
 
     await umzug.up();
     expect(await tables()).toEqual(migrated);
+    expect(await columns()).toEqual(migratedColumns);
     expect((await umzug.pending()).length).toBe(0);
   });
 });

@@ -29,6 +29,8 @@ export const AUDIT_ACTIONS = {
   shareLinkCreated: "share-link-created",
   shareLinkUpdated: "share-link-updated",
   shareLinkRevoked: "share-link-revoked",
+  projectCreated: "project-created",
+  projectSettingsChanged: "project-settings-changed",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

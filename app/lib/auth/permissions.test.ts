@@ -1,11 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { ACTIONS, allowedActions, can, type Action } from "./permissions";
+import { ACTIONS, allowedActions, can, canCreateProjects, type Action } from "./permissions";
 import { ROLES, type Role } from "./roles";
 
 // The expected table, written out by hand from the product's roles (DESIGN.md, "Who uses it"), not
 // generated from PERMISSIONS: a wrong entry in the table fails here.
 const EXPECTED: Record<Role, Action[]> = {
-  manager: ["project.read", "quantities.read", "members.manage", "audit.read", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "share-links.manage"],
+  manager: ["project.read", "quantities.read", "members.manage", "audit.read", "project.configure", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "share-links.manage"],
   surveyor: ["project.read", "quantities.read", "surveys.import"],
   "dive-supervisor": ["project.read", "quantities.read", "plans.assign", "dives.log"],
   dewatering: ["project.read"],
@@ -28,5 +28,13 @@ describe("the permission table", () => {
 
   it("allows nothing to someone who is neither a member nor a site admin", () => {
     expect(allowedActions({ role: null, isSiteAdmin: false })).toEqual([]);
+  });
+});
+
+describe("who may create projects", () => {
+  it("a site admin, or a user a site admin allowed; nobody else, whatever their project roles", () => {
+    expect(canCreateProjects({ isSiteAdmin: true, mayCreateProjects: false })).toBe(true);
+    expect(canCreateProjects({ isSiteAdmin: false, mayCreateProjects: true })).toBe(true);
+    expect(canCreateProjects({ isSiteAdmin: false, mayCreateProjects: false })).toBe(false);
   });
 });

@@ -22,6 +22,8 @@ export const PERMISSIONS = {
   /** Invite members, change their roles, remove them. */
   "members.manage": ["manager"],
   "audit.read": ["manager"],
+  /** The project's settings: identity, coordinates, work limit, grid, zones, tolerances. */
+  "project.configure": ["manager"],
   /** The map's settings (the shoreline). */
   "map.configure": ["manager"],
   /** Upload and import sounding files, see the import's progress and problems. */
@@ -55,4 +57,12 @@ export function can(access: Access, action: Action): boolean {
 /** The actions `access` allows, for a loader to hand to its page. */
 export function allowedActions(access: Access): Action[] {
   return ACTIONS.filter((action) => can(access, action));
+}
+
+/**
+ * Creating a project concerns no project yet, so no project role can allow it: a site admin may,
+ * and so may a user a site admin has allowed to (who then becomes the new project's manager).
+ */
+export function canCreateProjects(user: { isSiteAdmin: boolean; mayCreateProjects: boolean }): boolean {
+  return user.isSiteAdmin || user.mayCreateProjects;
 }

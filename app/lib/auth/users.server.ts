@@ -7,10 +7,11 @@ export interface UserView {
   email: string;
   name: string;
   isSiteAdmin: boolean;
+  mayCreateProjects: boolean;
 }
 
 export function presentUser(user: User): UserView {
-  return { id: user.id, email: user.email, name: user.name, isSiteAdmin: user.isSiteAdmin };
+  return { id: user.id, email: user.email, name: user.name, isSiteAdmin: user.isSiteAdmin, mayCreateProjects: user.mayCreateProjects };
 }
 
 export function normaliseEmail(email: string): string {

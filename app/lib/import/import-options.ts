@@ -4,7 +4,7 @@ import { soundingFields } from "../../../shared/soundings/parse-csv";
 import { lengthUnitSchema } from "../../../shared/units";
 
 /** What the technician says about an upload (the upload form, the API's multipart fields). */
-function isTimeZone(value: string): boolean {
+export function isTimeZone(value: string): boolean {
   try {
     new Intl.DateTimeFormat("en-US", { timeZone: value });
     return true;

@@ -1,0 +1,405 @@
+import { Op, type Transaction } from "sequelize";
+import { z } from "zod";
+import { createCrs, type Crs } from "../../shared/crs";
+import { cellCount, createCellGrid, defaultGridOrigin } from "../../shared/grid/cell-grid";
+import { parseWorkLimitGeoJson } from "../../shared/grid/work-limit-geojson";
+import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
+import { defaultsFor } from "../../shared/units";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import { canCreateProjects } from "~/lib/auth/permissions";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import { normaliseEmail, type UserView } from "~/lib/auth/users.server";
+import { getSequelize, LENGTH_UNITS, Membership, Project, Survey, User, Zone, type LengthUnit } from "~/lib/db.server";
+import { recomputeProjectStatistics } from "~/lib/engine/recompute.server";
+import { lengthUnitOfCrs, resolveCrsDefinition } from "~/lib/geo/epsg.server";
+import { isTimeZone } from "~/lib/import/import-options";
+import { withProjectLock } from "~/lib/import/project-lock.server";
+import { ConflictError, ForbiddenError, NotFoundError, ValidationError, type ErrorDetail } from "~/lib/errors";
+
+/**
+ * Setting a project up and changing its settings: the one service the API, the settings page,
+ * the new-project form and the demo seeder all go through. Settings are checked as a whole (the
+ * CRS decides how the work limit is read, the work limit where the grid starts) and every problem
+ * is named by its field; a change to what the figures rest on (work limit, zones, grid,
+ * tolerances) recomputes the project's statistics in the same transaction.
+ */
+
+const positive = (what: string) => z.number({ error: `${what} must be a number` }).finite().positive(`${what} must be more than 0`);
+const share = (what: string) => z.number({ error: `${what} must be a number` }).finite().gt(0, `${what} must be more than 0`).max(1, `${what} is a share from 0 to 1`);
+const text = (max: number) => z.string().trim().max(max, `at most ${max} characters`);
+
+const gridSchema = z.object({
+  cellSize: positive("The cell size"),
+  rotationDegrees: z.number().finite().min(-360).max(360).optional(),
+  originX: z.number().finite().optional(),
+  originY: z.number().finite().optional(),
+  rasterResolution: positive("The raster resolution").optional(),
+  maxEdge: positive("The longest triangle edge").optional(),
+});
+const tolerancesSchema = z.object({
+  firmSand: z.number().finite().min(0, "The firm-sand tolerance cannot be negative").optional(),
+  firmShare: share("The firm share").optional(),
+  minCoverage: share("The minimum coverage").optional(),
+});
+const zoneSchema = z.object({ name: z.string().trim().min(1, "A zone needs a name").max(120), geometry: z.unknown() });
+
+const identityFields = {
+  description: text(5000).optional(),
+  agency: text(200).optional(),
+  permitNumbers: text(500).optional(),
+  timeZone: z.string().trim().refine(isTimeZone, "is not a time zone name such as America/New_York").optional(),
+  verticalDatum: text(60).optional(),
+  minTeamSize: z.number().int().min(1).max(20).optional(),
+};
+
+export const newProjectSchema = z.object({
+  name: z.string({ error: "The project needs a name" }).trim().min(1, "The project needs a name").max(200),
+  slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, "lower-case letters, digits and single hyphens").max(100).optional(),
+  ...identityFields,
+  crs: z.string({ error: "Give the CRS as an EPSG code, e.g. EPSG:2237" }).trim().regex(/^EPSG:\d{1,6}$/i, "Give the CRS as an EPSG code, e.g. EPSG:2237"),
+  lengthUnit: z.enum(LENGTH_UNITS, { error: `The length unit is one of ${LENGTH_UNITS.join(", ")}` }),
+  workLimit: z.unknown().refine((value) => value !== undefined, "The work limit is missing: send it as GeoJSON"),
+  grid: gridSchema,
+  tolerances: tolerancesSchema.optional(),
+  zones: z.array(zoneSchema).max(100).optional(),
+  /** The first manager's e-mail (an existing account); the creator when none is named. */
+  manager: z.email("is not an e-mail address").optional(),
+});
+export type NewProjectInput = z.infer<typeof newProjectSchema>;
+
+export const projectPatchSchema = z
+  .object({
+    name: newProjectSchema.shape.name.optional(),
+    ...identityFields,
+    crs: newProjectSchema.shape.crs.optional(),
+    lengthUnit: newProjectSchema.shape.lengthUnit.optional(),
+    workLimit: z.unknown().optional(),
+    grid: gridSchema.partial().optional(),
+    tolerances: tolerancesSchema.optional(),
+    zones: z.array(zoneSchema).max(100).optional(),
+  })
+  .refine((patch) => Object.values(patch).some((value) => value !== undefined), "Send at least one setting to change");
+export type ProjectPatch = z.infer<typeof projectPatchSchema>;
+
+/** The settings as the API and the settings page show them. */
+export interface ProjectSettings {
+  id: number;
+  name: string;
+  slug: string;
+  description: string;
+  agency: string;
+  permitNumbers: string;
+  timeZone: string;
+  crs: string;
+  crsName: string;
+  lengthUnit: LengthUnit;
+  verticalDatum: string;
+  minTeamSize: number;
+  /** Lon/lat GeoJSON (RFC 7946). */
+  workLimit: unknown;
+  /** Plan area of the work limit, square project units. */
+  workLimitArea: number | null;
+  grid: { cellSize: number; rotationDegrees: number; originX: number; originY: number; rasterResolution: number; maxEdge: number };
+  tolerances: { firmSand: number; firmShare: number; minCoverage: number };
+  zones: Array<{ id: number; name: string; sortOrder: number; geometry: unknown }>;
+  /** Cells of the grid over the work limit's extent. */
+  cellCount: number | null;
+  /** Surveys stored (active or retracted): a change to the figures' settings recomputes them. */
+  surveyCount: number;
+}
+
+/** Above this many cells the settings page asks before saving a grid: the map and every recompute slow down with the count. */
+export const LARGE_GRID_CELLS = 200_000;
+
+// ——— Checks shared by creating and changing.
+
+interface CheckedCrs {
+  crs: Crs;
+  name: string;
+}
+
+function checkCrs(code: string, lengthUnit: LengthUnit, problems: ErrorDetail[]): CheckedCrs | null {
+  let resolved;
+  try {
+    resolved = resolveCrsDefinition(code);
+  } catch (error) {
+    problems.push({ field: "crs", message: (error as Error).message });
+    return null;
+  }
+  const unit = lengthUnitOfCrs(resolved);
+  if (unit === null) {
+    problems.push({ field: "crs", message: `EPSG:${resolved.code} (${resolved.name}) is not in feet or metres; choose a projected CRS such as a state plane or UTM zone` });
+    return null;
+  }
+  if (unit !== lengthUnit) {
+    problems.push({ field: "lengthUnit", message: `EPSG:${resolved.code} (${resolved.name}) works in ${resolved.unit}; the length unit must be ${unit}` });
+    return null;
+  }
+  return { crs: createCrs(resolved.definition), name: resolved.name };
+}
+
+/** A GeoJSON geometry read and checked; each problem goes to `field`. */
+function checkGeometry(field: string, label: string, geoJson: unknown, crs: Crs, problems: ErrorDetail[]) {
+  const parsed = parseWorkLimitGeoJson(geoJson, crs);
+  if (!parsed.ok) {
+    for (const problem of parsed.problems) problems.push({ field, message: `${label} ${problem.message}.` });
+    return null;
+  }
+  return parsed;
+}
+
+function checkZones(zones: Array<{ name: string; geometry: unknown }>, crs: Crs, problems: ErrorDetail[]) {
+  const seen = new Set<string>();
+  return zones.map((zone, index) => {
+    const key = zone.name.toLowerCase();
+    if (seen.has(key)) problems.push({ field: `zones.${index}.name`, message: `Zone "${zone.name}" is named twice.` });
+    seen.add(key);
+    const parsed = checkGeometry(`zones.${index}.geometry`, `Zone "${zone.name}"`, zone.geometry, crs, problems);
+    return parsed && { name: zone.name, sortOrder: index + 1, lonLat: parsed.lonLat };
+  });
+}
+
+interface GridColumns {
+  gridOriginE: number;
+  gridOriginN: number;
+  cellSize: number;
+  rotationDeg: number;
+  rasterResolution: number;
+  maxEdge: number;
+}
+
+function checkGrid(grid: GridColumns, problems: ErrorDetail[]) {
+  if (grid.rasterResolution > grid.cellSize) problems.push({ field: "grid.rasterResolution", message: "The raster resolution must not be coarser than the cell size." });
+  if (grid.maxEdge < grid.rasterResolution) problems.push({ field: "grid.maxEdge", message: "The longest triangle edge must be at least the raster resolution." });
+}
+
+function projectedLimit(crs: Crs, lonLatGeoJson: string | null): ProjectedMultiPolygon | null {
+  if (!lonLatGeoJson) return null;
+  const parsed = parseWorkLimitGeoJson(JSON.parse(lonLatGeoJson), crs);
+  return parsed.ok ? parsed.projected : null;
+}
+
+async function freeSlug(name: string, transaction: Transaction): Promise<string> {
+  const base = name.normalize("NFKD").toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-+|-+$/g, "").slice(0, 90) || "project";
+  const taken = new Set((await Project.findAll({ where: { slug: { [Op.like]: `${base}%` } }, attributes: ["slug"], transaction })).map((project) => project.slug));
+  let slug = base;
+  for (let suffix = 2; taken.has(slug); suffix++) slug = `${base}-${suffix}`;
+  return slug;
+}
+
+// ——— Creating.
+
+/** A ForbiddenError unless the permission table lets `user` create projects (routes ask before reading a body). */
+export function assertMayCreateProjects(user: UserView): void {
+  if (!canCreateProjects(user)) throw new ForbiddenError("Only a site admin, or a user a site admin has allowed, may create projects.");
+}
+
+/**
+ * Creates a project from `input` with its zones and first manager (the named account, else the
+ * creator), in one transaction (the caller's, when given, as the seeder's). Throws ForbiddenError
+ * when `actor` may not create projects, ValidationError naming each bad field.
+ */
+export async function createProject(actor: UserView, input: NewProjectInput, options: { ip?: string | null; transaction?: Transaction } = {}): Promise<{ id: number }> {
+  assertMayCreateProjects(actor);
+  const problems: ErrorDetail[] = [];
+  const checked = checkCrs(input.crs, input.lengthUnit, problems);
+  const limit = checked && checkGeometry("workLimit", "The work limit", input.workLimit, checked.crs, problems);
+  const zones = checked ? checkZones(input.zones ?? [], checked.crs, problems) : [];
+  // Read in the caller's transaction: the seeder creates the manager's account in it.
+  const manager = input.manager ? await User.findOne({ where: { email: normaliseEmail(input.manager) }, transaction: options.transaction }) : null;
+  if (input.manager && !manager) problems.push({ field: "manager", message: `No account has the e-mail ${input.manager}; create it first or name an existing one.` });
+  const defaults = defaultsFor(input.lengthUnit);
+  const cellSize = input.grid.cellSize;
+  const rotationDeg = input.grid.rotationDegrees ?? 0;
+  const [defaultX, defaultY] = limit ? defaultGridOrigin(limit.projected, cellSize, rotationDeg) : [0, 0];
+  const grid: GridColumns = {
+    cellSize,
+    rotationDeg,
+    gridOriginE: input.grid.originX ?? defaultX,
+    gridOriginN: input.grid.originY ?? defaultY,
+    rasterResolution: input.grid.rasterResolution ?? Math.min(defaults.resolution, cellSize),
+    maxEdge: input.grid.maxEdge ?? Math.max(defaults.maxEdge, 2 * cellSize),
+  };
+  checkGrid(grid, problems);
+  if (problems.length > 0 || !checked || !limit) throw new ValidationError(problems);
+
+  const create = async (transaction: Transaction) => {
+    const project = await Project.create(
+      {
+        name: input.name,
+        slug: input.slug ?? (await freeSlug(input.name, transaction)),
+        description: input.description ?? "",
+        agency: input.agency ?? "",
+        permitNumbers: input.permitNumbers ?? "",
+        timeZone: input.timeZone ?? "UTC",
+        verticalDatum: input.verticalDatum ?? "",
+        crs: input.crs.toUpperCase(),
+        lengthUnit: input.lengthUnit,
+        ...grid,
+        tolerance: input.tolerances?.firmSand ?? defaults.tolerance,
+        firmShare: input.tolerances?.firmShare ?? 0.95,
+        minCoverage: input.tolerances?.minCoverage ?? 0.8,
+        workLimitGeoJson: JSON.stringify(limit.lonLat),
+        // A diver, a tender and a standby diver (practice; the dive plan refuses smaller teams).
+        minTeamSize: input.minTeamSize ?? 3,
+      },
+      { transaction },
+    );
+    for (const zone of zones) {
+      if (zone) await Zone.create({ projectId: project.id, name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
+    }
+    await Membership.create({ projectId: project.id, userId: manager?.id ?? actor.id, role: "manager" }, { transaction });
+    const settings = await settingsOf(project, transaction);
+    await recordAudit(
+      { action: AUDIT_ACTIONS.projectCreated, projectId: project.id, userId: actor.id, ip: options.ip ?? null, detail: { after: auditable(settings), workLimitCoordinates: limit.coordinates, manager: manager?.email ?? actor.email } },
+      transaction,
+    );
+    return { id: project.id };
+  };
+  return options.transaction ? create(options.transaction) : getSequelize().transaction(create);
+}
+
+// ——— Reading.
+
+async function settingsOf(project: Project, transaction?: Transaction): Promise<ProjectSettings> {
+  const resolved = resolveCrsDefinition(project.crs);
+  const crs = createCrs(resolved.definition);
+  const limit = projectedLimit(crs, project.workLimitGeoJson);
+  const zones = await Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]], transaction });
+  const parsedLimit = limit && parseWorkLimitGeoJson(JSON.parse(project.workLimitGeoJson!), crs);
+  return {
+    id: project.id,
+    name: project.name,
+    slug: project.slug,
+    description: project.description,
+    agency: project.agency,
+    permitNumbers: project.permitNumbers,
+    timeZone: project.timeZone,
+    crs: project.crs,
+    crsName: resolved.name,
+    lengthUnit: project.lengthUnit,
+    verticalDatum: project.verticalDatum,
+    minTeamSize: project.minTeamSize,
+    workLimit: project.workLimitGeoJson ? JSON.parse(project.workLimitGeoJson) : null,
+    workLimitArea: parsedLimit && parsedLimit.ok ? parsedLimit.area : null,
+    grid: { cellSize: project.cellSize, rotationDegrees: project.rotationDeg, originX: project.gridOriginE, originY: project.gridOriginN, rasterResolution: project.rasterResolution, maxEdge: project.maxEdge },
+    tolerances: { firmSand: project.tolerance, firmShare: project.firmShare, minCoverage: project.minCoverage },
+    zones: zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, geometry: JSON.parse(zone.polygonGeoJson) })),
+    cellCount: limit ? cellCount(createCellGrid(limit, { cellSize: project.cellSize, rotationDegrees: project.rotationDeg, originX: project.gridOriginE, originY: project.gridOriginN })) : null,
+    surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
+  };
+}
+
+/** The settings without the geometries' coordinates (the audit log keeps their areas and zone names instead). */
+function auditable(settings: ProjectSettings) {
+  const { workLimit: _limit, zones, ...rest } = settings;
+  return { ...rest, zones: zones.map((zone) => zone.name) };
+}
+
+export async function getProjectSettings(project: ProjectView): Promise<ProjectSettings> {
+  const row = await Project.findByPk(project.id);
+  if (!row) throw new NotFoundError("There is no such project.");
+  return settingsOf(row);
+}
+
+/**
+ * What a work limit would be before it is saved, for the settings page's preview: read and checked
+ * as a PATCH would (a ValidationError naming each problem), nothing stored.
+ */
+export async function previewWorkLimit(project: ProjectView, geoJson: unknown) {
+  const row = await Project.findByPk(project.id);
+  if (!row) throw new NotFoundError("There is no such project.");
+  const problems: ErrorDetail[] = [];
+  const checked = checkCrs(row.crs, row.lengthUnit, problems);
+  const limit = checked && checkGeometry("workLimit", "The work limit", geoJson, checked.crs, problems);
+  if (!limit) throw new ValidationError(problems);
+  const grid = { cellSize: row.cellSize, rotationDegrees: row.rotationDeg, originX: row.gridOriginE, originY: row.gridOriginN };
+  return { lonLat: limit.lonLat, coordinates: limit.coordinates, area: limit.area, cellCount: cellCount(createCellGrid(limit.projected, grid)) };
+}
+
+/** The cell count a grid change would give over the stored work limit (null without one). */
+export async function prospectiveCellCount(project: ProjectView, grid: NonNullable<ProjectPatch["grid"]>): Promise<number | null> {
+  const row = await Project.findByPk(project.id);
+  if (!row) throw new NotFoundError("There is no such project.");
+  const limit = projectedLimit(createCrs(resolveCrsDefinition(row.crs).definition), row.workLimitGeoJson);
+  if (!limit) return null;
+  const cellSize = grid.cellSize ?? row.cellSize;
+  if (!(cellSize > 0)) return null;
+  return cellCount(createCellGrid(limit, { cellSize, rotationDegrees: grid.rotationDegrees ?? row.rotationDeg, originX: grid.originX ?? row.gridOriginE, originY: grid.originY ?? row.gridOriginN }));
+}
+
+// ——— Changing.
+
+/**
+ * Applies `patch` to the project's settings. A change to the work limit, zones, grid or tolerances
+ * of a project with surveys recomputes every survey's figures in the same transaction, under the
+ * project's lock (as an import does); the CRS and length unit may change only before the first
+ * survey. The audit log gets the settings before and after.
+ */
+export function updateProjectSettings(project: ProjectView, actor: UserView, patch: ProjectPatch, options: { ip?: string | null } = {}): Promise<{ settings: ProjectSettings; recomputed: boolean }> {
+  return withProjectLock(project.id, () =>
+    getSequelize().transaction(async (transaction) => {
+      const row = await Project.findByPk(project.id, { transaction, lock: transaction.LOCK.UPDATE });
+      if (!row) throw new NotFoundError("There is no such project.");
+      const before = await settingsOf(row, transaction);
+      const surveys = await Survey.count({ where: { projectId: project.id }, transaction });
+      const problems: ErrorDetail[] = [];
+      const crsCode = patch.crs?.toUpperCase() ?? row.crs;
+      const lengthUnit = patch.lengthUnit ?? row.lengthUnit;
+      const coordinatesChange = crsCode !== row.crs || lengthUnit !== row.lengthUnit;
+      if (coordinatesChange && surveys > 0) {
+        throw new ConflictError({ field: patch.crs ? "crs" : "lengthUnit", message: "The coordinate system and length unit cannot change once surveys are stored: their soundings are in the old ones." });
+      }
+      const checked = checkCrs(crsCode, lengthUnit, problems);
+      const limit = checked && patch.workLimit !== undefined ? checkGeometry("workLimit", "The work limit", patch.workLimit, checked.crs, problems) : null;
+      const zones = checked && patch.zones ? checkZones(patch.zones, checked.crs, problems) : null;
+      if (!checked) throw new ValidationError(problems);
+
+      const projected = limit?.projected ?? projectedLimit(checked.crs, row.workLimitGeoJson);
+      const cellSize = patch.grid?.cellSize ?? row.cellSize;
+      const rotationDeg = patch.grid?.rotationDegrees ?? row.rotationDeg;
+      // A new CRS moves every coordinate: the origin starts again from the work limit unless given.
+      const [defaultX, defaultY] = coordinatesChange && projected ? defaultGridOrigin(projected, cellSize, rotationDeg) : [row.gridOriginE, row.gridOriginN];
+      const grid: GridColumns = {
+        cellSize,
+        rotationDeg,
+        gridOriginE: patch.grid?.originX ?? defaultX,
+        gridOriginN: patch.grid?.originY ?? defaultY,
+        rasterResolution: patch.grid?.rasterResolution ?? row.rasterResolution,
+        maxEdge: patch.grid?.maxEdge ?? row.maxEdge,
+      };
+      checkGrid(grid, problems);
+      if (problems.length > 0) throw new ValidationError(problems);
+
+      const identity = { name: patch.name, description: patch.description, agency: patch.agency, permitNumbers: patch.permitNumbers, timeZone: patch.timeZone, verticalDatum: patch.verticalDatum, minTeamSize: patch.minTeamSize };
+      for (const [key, value] of Object.entries(identity)) if (value !== undefined) row.set(key as keyof typeof identity, value as never);
+      row.set({ crs: crsCode, lengthUnit, ...grid });
+      if (patch.tolerances?.firmSand !== undefined) row.tolerance = patch.tolerances.firmSand;
+      if (patch.tolerances?.firmShare !== undefined) row.firmShare = patch.tolerances.firmShare;
+      if (patch.tolerances?.minCoverage !== undefined) row.minCoverage = patch.tolerances.minCoverage;
+      if (limit) row.workLimitGeoJson = JSON.stringify(limit.lonLat);
+      const figuresChange = (["workLimitGeoJson", "cellSize", "rotationDeg", "gridOriginE", "gridOriginN", "rasterResolution", "maxEdge", "tolerance", "firmShare", "minCoverage"] as const).some((key) => row.changed(key));
+      await row.save({ transaction });
+      if (zones) {
+        await Zone.destroy({ where: { projectId: project.id }, transaction });
+        for (const zone of zones) {
+          if (zone) await Zone.create({ projectId: project.id, name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
+        }
+      }
+      const recomputed = surveys > 0 && (figuresChange || zones !== null);
+      if (recomputed) await recomputeProjectStatistics(project.id, transaction);
+      const after = await settingsOf(row, transaction);
+      await recordAudit(
+        {
+          action: AUDIT_ACTIONS.projectSettingsChanged,
+          projectId: project.id,
+          userId: actor.id,
+          ip: options.ip ?? null,
+          detail: { before: auditable(before), after: auditable(after), ...(limit ? { workLimitCoordinates: limit.coordinates } : {}), recomputed },
+        },
+        transaction,
+      );
+      return { settings: after, recomputed };
+    }),
+  );
+}

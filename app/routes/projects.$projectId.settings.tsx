@@ -1,0 +1,260 @@
+import { Form, data } from "react-router";
+import { z } from "zod";
+import { lengthUnitSchema } from "../../shared/units";
+import { ActionMessages } from "~/components/form-message";
+import { SubmitButton } from "~/components/submit-button";
+import { TextField } from "~/components/text-field";
+import { WorkLimitOutline, type LonLatPolygons } from "~/components/work-limit-outline";
+import { requireRole } from "~/lib/auth/access.server";
+import { DomainError, validationErrorFrom } from "~/lib/errors";
+import { clientAddress } from "~/lib/http/client-address.server";
+import { parseForm, type FieldErrors } from "~/lib/http/form";
+import { getProjectSettings, LARGE_GRID_CELLS, previewWorkLimit, projectPatchSchema, prospectiveCellCount, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
+import { WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
+import type { Route } from "./+types/projects.$projectId.settings";
+
+// The manager's settings page: one form per section, each saved on its own through the project
+// setup service (which checks, recomputes when surveys exist and writes the audit log).
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { project } = await requireRole(request, params.projectId, "project.configure");
+  return { settings: await getProjectSettings(project) };
+}
+
+const blankToUndefined = (value: unknown) => (value === "" || value === null ? undefined : value);
+const number = z.coerce.number({ error: "Enter a number" }).finite("Enter a number");
+const optionalNumber = z.preprocess(blankToUndefined, number.optional());
+
+const actionSchema = z.discriminatedUnion("intent", [
+  z.object({
+    intent: z.literal("identity"),
+    name: z.string(),
+    description: z.string(),
+    agency: z.string(),
+    permitNumbers: z.string(),
+    timeZone: z.string(),
+    verticalDatum: z.string(),
+  }),
+  z.object({ intent: z.literal("coordinates"), crs: z.string(), lengthUnit: z.enum(lengthUnitSchema.options, { error: "Choose a length unit" }) }),
+  z.object({ intent: z.literal("work-limit-preview"), file: z.instanceof(File, { error: "Choose a GeoJSON file" }) }),
+  z.object({ intent: z.literal("work-limit-save"), geoJson: z.string().min(1) }),
+  z.object({
+    intent: z.literal("grid"),
+    cellSize: number,
+    rotationDegrees: optionalNumber,
+    originX: optionalNumber,
+    originY: optionalNumber,
+    rasterResolution: optionalNumber,
+    maxEdge: optionalNumber,
+    confirmLargeGrid: z.literal("yes").optional(),
+  }),
+  z.object({ intent: z.literal("tolerances"), firmSand: number, firmShare: number, minCoverage: number }),
+]);
+
+interface WorkLimitPreview {
+  geoJson: string;
+  lonLat: LonLatPolygons;
+  coordinates: "lon-lat" | "project-crs";
+  area: number;
+  cellCount: number;
+}
+
+type ActionResult = { intent: string; errors: FieldErrors; notice: string | null; preview?: WorkLimitPreview; largeGrid?: number };
+
+const answered = (result: ActionResult, status = 200) => data<ActionResult>(result, { status });
+const failed = (intent: string, errors: FieldErrors, extra: Partial<ActionResult> = {}) => answered({ intent, errors, notice: null, ...extra }, 400);
+
+/** A service refusal's details as the page's field errors (a detail's last path segment is the input's name). */
+function fieldErrorsOf(error: DomainError): FieldErrors {
+  const errors: FieldErrors = {};
+  for (const detail of error.details) {
+    const key = detail.field?.split(".").pop() ?? "form";
+    errors[key] = errors[key] ? `${errors[key]} ${detail.message}` : detail.message;
+  }
+  return errors;
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { project, user } = await requireRole(request, params.projectId, "project.configure");
+  // Refused on its declared size before the form is read: a work limit is a small file.
+  if (Number(request.headers.get("Content-Length") ?? 0) > WORK_LIMIT_MAX_BYTES + 64 * 1024) {
+    return answered({ intent: "work-limit-preview", errors: { workLimit: `The file is larger than ${WORK_LIMIT_MAX_BYTES / 1024 / 1024} MB; simplify the outline first.` }, notice: null }, 413);
+  }
+  const parsed = parseForm(await request.formData(), actionSchema);
+  if (!parsed.ok) return failed("invalid", parsed.errors);
+  const input = parsed.data;
+  const ip = clientAddress(request);
+  try {
+    let patch: ProjectPatch;
+    switch (input.intent) {
+      case "identity":
+      case "coordinates": {
+        const { intent: _intent, ...fields } = input;
+        patch = fields;
+        break;
+      }
+      case "tolerances":
+        patch = { tolerances: { firmSand: input.firmSand, firmShare: input.firmShare, minCoverage: input.minCoverage } };
+        break;
+      case "work-limit-preview": {
+        let geoJson: unknown;
+        try {
+          geoJson = JSON.parse(await input.file.text());
+        } catch {
+          return failed(input.intent, { workLimit: `${input.file.name} is not a GeoJSON file (it does not read as JSON).` });
+        }
+        const preview = await previewWorkLimit(project, geoJson);
+        return answered({ intent: input.intent, errors: {}, notice: null, preview: { ...preview, geoJson: JSON.stringify(preview.lonLat) } });
+      }
+      case "work-limit-save":
+        patch = { workLimit: JSON.parse(input.geoJson) };
+        break;
+      case "grid": {
+        const { intent: _intent, confirmLargeGrid, ...grid } = input;
+        const cells = await prospectiveCellCount(project, grid);
+        if (cells !== null && cells > LARGE_GRID_CELLS && confirmLargeGrid !== "yes") {
+          return failed(input.intent, {
+            cellSize: `This grid has ${cells.toLocaleString("en-US")} cells, more than ${LARGE_GRID_CELLS.toLocaleString("en-US")}: the map and every recompute slow down with the count. Tick the box below to save it anyway.`,
+          }, { largeGrid: cells });
+        }
+        patch = { grid };
+        break;
+      }
+    }
+    const checked = projectPatchSchema.safeParse(patch);
+    if (!checked.success) return failed(input.intent, fieldErrorsOf(validationErrorFrom(checked.error)));
+    const { settings, recomputed } = await updateProjectSettings(project, user, checked.data, { ip });
+    const cells = settings.cellCount === null ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
+    return answered({ intent: input.intent, errors: {}, notice: `Saved.${cells}${recomputed ? " Every survey's figures were recomputed." : ""}` });
+  } catch (error) {
+    if (error instanceof DomainError) return failed(input.intent, fieldErrorsOf(error));
+    throw error;
+  }
+}
+
+export function meta({}: Route.MetaArgs) {
+  return [{ title: "Project settings · Firmsand" }];
+}
+
+const inputClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py-2 focus:outline-2 focus:outline-offset-1 focus:outline-lagoon aria-invalid:border-danger";
+const UNIT_LABELS: Record<(typeof lengthUnitSchema.options)[number], string> = { "us-ft": "US survey feet (volumes in cubic yards)", ft: "international feet (volumes in cubic yards)", m: "metres (volumes in cubic metres)" };
+
+function Section({ id, title, children }: { id: string; title: string; children: React.ReactNode }) {
+  return (
+    <section aria-labelledby={id} className="rounded border border-line bg-panel p-4">
+      <h2 id={id} className="text-lg font-semibold">{title}</h2>
+      <div className="mt-3">{children}</div>
+    </section>
+  );
+}
+
+export default function ProjectSettingsPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { settings } = loaderData;
+  const unit = settings.lengthUnit;
+  // Each section shows only its own errors and notice.
+  const errorsFor = (...intents: string[]): FieldErrors => (actionData && intents.includes(actionData.intent) ? actionData.errors : {});
+  const noticeFor = (...intents: string[]) => (actionData && intents.includes(actionData.intent) ? actionData.notice : null);
+  const identityErrors = errorsFor("identity");
+  const coordinateErrors = errorsFor("coordinates");
+  const limitErrors = errorsFor("work-limit-preview", "work-limit-save");
+  const gridErrors = errorsFor("grid");
+  const toleranceErrors = errorsFor("tolerances");
+  const preview = actionData?.preview ?? null;
+  const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures.` : "";
+
+  return (
+    <div className="space-y-6">
+      <ActionMessages error={actionData?.errors.form} />
+
+      <Section id="identity-heading" title="Identity">
+        <ActionMessages notice={noticeFor("identity")} />
+        <Form method="post" className="grid gap-3 sm:grid-cols-2">
+          <TextField label="Project name" name="name" defaultValue={settings.name} required maxLength={200} error={identityErrors.name} />
+          <TextField label="Agency or client" name="agency" defaultValue={settings.agency} maxLength={200} error={identityErrors.agency} />
+          <TextField label="Permit numbers" name="permitNumbers" defaultValue={settings.permitNumbers} maxLength={500} error={identityErrors.permitNumbers} hint="As the permits write them, separated by commas." />
+          <TextField label="Time zone" name="timeZone" defaultValue={settings.timeZone} required error={identityErrors.timeZone} hint="IANA name, e.g. America/New_York: work days are counted in it." />
+          <TextField label="Vertical datum" name="verticalDatum" defaultValue={settings.verticalDatum} maxLength={60} error={identityErrors.verticalDatum} hint="For labels, e.g. NAVD88." />
+          <div className="sm:col-span-2">
+            <label htmlFor="description" className="block text-sm font-medium">Description</label>
+            <textarea id="description" name="description" rows={3} maxLength={5000} defaultValue={settings.description} className={inputClass} />
+            {identityErrors.description ? <p className="mt-1 text-sm text-danger">{identityErrors.description}</p> : null}
+          </div>
+          <div className="sm:col-span-2"><SubmitButton intent="identity" pendingLabel="Saving…">Save identity</SubmitButton></div>
+        </Form>
+      </Section>
+
+      <Section id="coordinates-heading" title="Coordinates">
+        <ActionMessages notice={noticeFor("coordinates")} />
+        <p className="text-sm">Now: <span className="figures">{settings.crs}</span> — {settings.crsName}</p>
+        <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-2">
+          <TextField label="Coordinate reference system (EPSG code)" name="crs" defaultValue={settings.crs} required error={coordinateErrors.crs} hint={settings.surveyCount > 0 ? "Fixed once surveys are stored." : "e.g. EPSG:2237; its name is shown once saved."} />
+          <div>
+            <label htmlFor="length-unit" className="block text-sm font-medium">Length unit</label>
+            <select id="length-unit" name="lengthUnit" defaultValue={settings.lengthUnit} className={inputClass} aria-invalid={coordinateErrors.lengthUnit ? true : undefined}>
+              {lengthUnitSchema.options.map((value) => <option key={value} value={value}>{UNIT_LABELS[value]}</option>)}
+            </select>
+            {coordinateErrors.lengthUnit ? <p className="mt-1 text-sm text-danger">{coordinateErrors.lengthUnit}</p> : null}
+          </div>
+          <div className="sm:col-span-2"><SubmitButton intent="coordinates" pendingLabel="Saving…">Save coordinates</SubmitButton></div>
+        </Form>
+      </Section>
+
+      <Section id="work-limit-heading" title="Work limit">
+        <ActionMessages notice={noticeFor("work-limit-save")} />
+        {settings.workLimit ? (
+          <>
+            <WorkLimitOutline workLimit={settings.workLimit as unknown as LonLatPolygons} zones={settings.zones as unknown as Array<{ name: string; geometry: LonLatPolygons }>} title="The saved work limit and its zones" testId="work-limit-outline" />
+            <p className="mt-1 text-sm text-muted">Area <span className="figures">{Math.round(settings.workLimitArea ?? 0).toLocaleString("en-US")}</span> sq {unit === "m" ? "m" : "ft"}.</p>
+          </>
+        ) : <p className="text-sm text-muted">No work limit yet.</p>}
+        <Form method="post" encType="multipart/form-data" className="mt-3 space-y-2">
+          <label htmlFor="work-limit-file" className="block text-sm font-medium">New work limit (GeoJSON, in {settings.crs} or lon/lat)</label>
+          <input id="work-limit-file" name="file" type="file" accept=".geojson,.json,application/geo+json,application/json" required className="block w-full text-sm" aria-invalid={limitErrors.workLimit || limitErrors.file ? true : undefined} aria-describedby="work-limit-error" />
+          <p id="work-limit-error" className="text-sm text-danger">{limitErrors.workLimit ?? limitErrors.file ?? ""}</p>
+          <SubmitButton intent="work-limit-preview" tone="plain" pendingLabel="Reading…">Preview</SubmitButton>
+        </Form>
+        {preview ? (
+          <div className="mt-4 space-y-2" data-testid="work-limit-preview">
+            <p className="text-sm">Read as {preview.coordinates === "lon-lat" ? "lon/lat (WGS 84)" : `${settings.crs} coordinates`}; area <span className="figures">{Math.round(preview.area).toLocaleString("en-US")}</span> sq {unit === "m" ? "m" : "ft"}; <span className="figures">{preview.cellCount.toLocaleString("en-US")}</span> cells with the present grid.</p>
+            <WorkLimitOutline workLimit={preview.lonLat} title="The new work limit, not yet saved" />
+            <Form method="post" onSubmit={(event) => { if (settings.surveyCount > 0 && !window.confirm(`Replace the work limit?${surveysNote}`)) event.preventDefault(); }}>
+              <input type="hidden" name="geoJson" value={preview.geoJson} />
+              <SubmitButton intent="work-limit-save" pendingLabel="Saving…">Replace the work limit</SubmitButton>
+            </Form>
+          </div>
+        ) : null}
+      </Section>
+
+      <Section id="grid-heading" title="Grid">
+        <ActionMessages notice={noticeFor("grid")} />
+        <p className="text-sm" data-testid="cell-count">{settings.cellCount === null ? "No grid until a work limit is set." : <>The grid has <span className="figures">{settings.cellCount.toLocaleString("en-US")}</span> cells.</>}</p>
+        <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-3">
+          <TextField label={`Cell size (${unit})`} name="cellSize" type="number" step="any" min="0" defaultValue={settings.grid.cellSize} required error={gridErrors.cellSize} />
+          <TextField label="Rotation (degrees counter-clockwise from east)" name="rotationDegrees" type="number" step="any" defaultValue={settings.grid.rotationDegrees} error={gridErrors.rotationDegrees} />
+          <TextField label={`Raster resolution (${unit})`} name="rasterResolution" type="number" step="any" min="0" defaultValue={settings.grid.rasterResolution} error={gridErrors.rasterResolution} />
+          <TextField label={`Origin easting (${unit})`} name="originX" type="number" step="any" defaultValue={settings.grid.originX} error={gridErrors.originX} />
+          <TextField label={`Origin northing (${unit})`} name="originY" type="number" step="any" defaultValue={settings.grid.originY} error={gridErrors.originY} />
+          <TextField label={`Longest triangle edge (${unit})`} name="maxEdge" type="number" step="any" min="0" defaultValue={settings.grid.maxEdge} error={gridErrors.maxEdge} />
+          {actionData?.intent === "grid" && actionData.largeGrid ? (
+            <label className="flex items-center gap-2 text-sm sm:col-span-3">
+              <input type="checkbox" name="confirmLargeGrid" value="yes" /> Save the grid of {actionData.largeGrid.toLocaleString("en-US")} cells anyway
+            </label>
+          ) : null}
+          <p className="text-sm text-muted sm:col-span-3">{surveysNote.trim()}</p>
+          <div className="sm:col-span-3"><SubmitButton intent="grid" pendingLabel="Saving…">Save grid</SubmitButton></div>
+        </Form>
+      </Section>
+
+      <Section id="tolerances-heading" title="Targets and tolerances">
+        <ActionMessages notice={noticeFor("tolerances")} />
+        <Form method="post" className="grid gap-3 sm:grid-cols-3">
+          <TextField label={`Firm-sand tolerance (${unit})`} name="firmSand" type="number" step="any" min="0" defaultValue={settings.tolerances.firmSand} required error={toleranceErrors.firmSand} />
+          <TextField label="Share of a cell within tolerance (0–1)" name="firmShare" type="number" step="any" min="0" max="1" defaultValue={settings.tolerances.firmShare} required error={toleranceErrors.firmShare} />
+          <TextField label="Minimum surveyed coverage (0–1)" name="minCoverage" type="number" step="any" min="0" max="1" defaultValue={settings.tolerances.minCoverage} required error={toleranceErrors.minCoverage} />
+          <p className="text-sm text-muted sm:col-span-3">{surveysNote.trim()}</p>
+          <div className="sm:col-span-3"><SubmitButton intent="tolerances" pendingLabel="Saving…">Save tolerances</SubmitButton></div>
+        </Form>
+      </Section>
+    </div>
+  );
+}

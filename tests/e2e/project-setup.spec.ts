@@ -1,0 +1,54 @@
+import { join } from "node:path";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, expect, signInWithPassword, test } from "./fixtures";
+
+// The first morning: the site admin creates a project from nothing with a GeoJSON work limit (an
+// invented lake), lands on its map with the empty grid and the next step; the manager named on
+// the form changes the cell size on the settings page and sees the new cell count.
+
+const WORK_LIMIT_FILE = join(import.meta.dirname, "..", "fixtures", "project-setup", "yellowmarsh-lake.geojson");
+// Sorts after the demo project, so the demo stays first in the manager's list (other specs find it so).
+const PROJECT_NAME = `Yellowmarsh Lake muck removal ${Date.now().toString(36)}`;
+
+const cellCountOf = (text: string | null) => Number((/has ([\d,]+) cells/.exec(text ?? "")?.[1] ?? "NaN").replaceAll(",", ""));
+
+test("the site admin creates a project; its manager changes the cell size and sees the new cell count", async ({ page, signIn, browser, baseURL }) => {
+  test.setTimeout(90_000);
+  await signIn("admin");
+  const form = page.getByRole("region", { name: "New project" });
+  await form.getByLabel("Project name").fill(PROJECT_NAME);
+  await form.getByLabel("Coordinate reference system (EPSG code)").fill("EPSG:2237");
+  await form.getByLabel("Length unit").selectOption("us-ft");
+  await form.getByLabel("Time zone").fill("America/New_York");
+  await form.getByLabel("First manager's e-mail").fill(DEMO_ACCOUNTS.manager);
+  await form.getByLabel(/Work limit \(GeoJSON/).setInputFiles(WORK_LIMIT_FILE);
+  await form.getByRole("button", { name: "Create project" }).click();
+
+  await expect(page).toHaveURL(/\/projects\/\d+\/map$/);
+  const projectId = Number(/\/projects\/(\d+)\/map/.exec(page.url())![1]);
+  await expect(page.getByRole("heading", { name: PROJECT_NAME })).toBeVisible();
+  await expect(page.getByTestId("next-step")).toContainText("Next: import the baseline survey");
+  await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-cells-drawn", /\d+/, { timeout: 30_000 });
+
+  // The manager named on the form runs it: Settings is among their tabs.
+  const managerContext = await browser.newContext({ baseURL });
+  const managerPage = await managerContext.newPage();
+  await signInWithPassword(managerPage, DEMO_ACCOUNTS.manager, DEMO_PASSWORD);
+  await expect(managerPage).toHaveURL(/\/projects$/);
+  await managerPage.getByRole("link", { name: PROJECT_NAME }).click();
+  await managerPage.getByRole("navigation", { name: "Project" }).getByRole("link", { name: "Settings" }).click();
+  await expect(managerPage).toHaveURL(`/projects/${projectId}/settings`);
+
+  const grid = managerPage.getByRole("region", { name: "Grid" });
+  const before = cellCountOf(await grid.getByTestId("cell-count").textContent());
+  expect(before).toBeGreaterThan(0);
+  await grid.getByLabel("Cell size (us-ft)").fill("40");
+  await grid.getByRole("button", { name: "Save grid" }).click();
+  await expect(grid.getByRole("status")).toContainText("Saved.");
+  await expect(grid.getByLabel("Cell size (us-ft)")).toHaveValue("40");
+  const after = cellCountOf(await grid.getByTestId("cell-count").textContent());
+  // invariant: from the same origin each 40 ft cell is a block of four 20 ft cells over the same extent
+  expect(after).toBeGreaterThanOrEqual(before / 4);
+  expect(after).toBeLessThan(before / 2);
+  await expect(grid.getByRole("status")).toContainText(`The grid has ${after.toLocaleString("en-US")} cells.`);
+  await managerContext.close();
+});
