@@ -1,6 +1,6 @@
 import { Form, data } from "react-router";
 import { z } from "zod";
-import { lengthUnitSchema } from "../../shared/units";
+import { lengthUnitSchema, unitLabel } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
@@ -150,7 +150,8 @@ function Section({ id, title, children }: { id: string; title: string; children:
 
 export default function ProjectSettingsPage({ loaderData, actionData }: Route.ComponentProps) {
   const { settings } = loaderData;
-  const unit = settings.lengthUnit;
+  const unit = unitLabel(settings.lengthUnit);
+  const areaUnit = unitLabel(settings.lengthUnit, "area");
   // Each section shows only its own errors and notice.
   const errorsFor = (...intents: string[]): FieldErrors => (actionData && intents.includes(actionData.intent) ? actionData.errors : {});
   const noticeFor = (...intents: string[]) => (actionData && intents.includes(actionData.intent) ? actionData.notice : null);
@@ -204,7 +205,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
         {settings.workLimit ? (
           <>
             <WorkLimitOutline workLimit={settings.workLimit as unknown as LonLatPolygons} zones={settings.zones as unknown as Array<{ name: string; geometry: LonLatPolygons }>} title="The saved work limit and its zones" testId="work-limit-outline" />
-            <p className="mt-1 text-sm text-muted">Area <span className="figures">{Math.round(settings.workLimitArea ?? 0).toLocaleString("en-US")}</span> sq {unit === "m" ? "m" : "ft"}.</p>
+            <p className="mt-1 text-sm text-muted">Area <span className="figures">{Math.round(settings.workLimitArea ?? 0).toLocaleString("en-US")}</span> {areaUnit}.</p>
           </>
         ) : <p className="text-sm text-muted">No work limit yet.</p>}
         <Form method="post" encType="multipart/form-data" className="mt-3 space-y-2">
@@ -215,7 +216,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
         </Form>
         {preview ? (
           <div className="mt-4 space-y-2" data-testid="work-limit-preview">
-            <p className="text-sm">Read as {preview.coordinates === "lon-lat" ? "lon/lat (WGS 84)" : `${settings.crs} coordinates`}; area <span className="figures">{Math.round(preview.area).toLocaleString("en-US")}</span> sq {unit === "m" ? "m" : "ft"}; <span className="figures">{preview.cellCount.toLocaleString("en-US")}</span> cells with the present grid.</p>
+            <p className="text-sm">Read as {preview.coordinates === "lon-lat" ? "lon/lat (WGS 84)" : `${settings.crs} coordinates`}; area <span className="figures">{Math.round(preview.area).toLocaleString("en-US")}</span> {areaUnit}; <span className="figures">{preview.cellCount.toLocaleString("en-US")}</span> cells with the present grid.</p>
             <WorkLimitOutline workLimit={preview.lonLat} title="The new work limit, not yet saved" />
             <Form method="post" onSubmit={(event) => { if (settings.surveyCount > 0 && !window.confirm(`Replace the work limit?${surveysNote}`)) event.preventDefault(); }}>
               <input type="hidden" name="geoJson" value={preview.geoJson} />

@@ -41,10 +41,10 @@ test("the site admin creates a project; its manager changes the cell size and se
   const grid = managerPage.getByRole("region", { name: "Grid" });
   const before = cellCountOf(await grid.getByTestId("cell-count").textContent());
   expect(before).toBeGreaterThan(0);
-  await grid.getByLabel("Cell size (us-ft)").fill("40");
+  await grid.getByLabel("Cell size (ftUS)").fill("40");
   await grid.getByRole("button", { name: "Save grid" }).click();
   await expect(grid.getByRole("status")).toContainText("Saved.");
-  await expect(grid.getByLabel("Cell size (us-ft)")).toHaveValue("40");
+  await expect(grid.getByLabel("Cell size (ftUS)")).toHaveValue("40");
   const after = cellCountOf(await grid.getByTestId("cell-count").textContent());
   // invariant: from the same origin each 40 ft cell is a block of four 20 ft cells over the same extent
   expect(after).toBeGreaterThanOrEqual(before / 4);
