@@ -141,7 +141,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     const forecastOptions = { finishedBelowVolume: NEGLIGIBLE_VOLUME, changeThresholdVolume: Math.max(NEGLIGIBLE_VOLUME, CHANGE_SHARE * figures.plannedVolume),
       everyCellAtFirmSand: figures.cells > 0 && figures.cellsAtFirmSand === figures.cells,
     };
-    return { zoneId: zone.zoneId, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, calendar, forecastOptions) };
+    return { zoneId: zone.zoneId, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, forecastOptions) };
   });
   const basisWords = calendar.basis === "dives-logged"
     ? "Working days are the days on which dives were logged between two survey dates; where an interval has no logged dive, its weekdays (Monday to Friday). Each interval says which it rests on."
@@ -170,7 +170,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
       "Production per working day is the removed volume between two survey dates divided by the working days between them.",
       basisWords,
       `An interval resting on fewer than ${THIN_INTERVAL_WORKING_DAYS} working days is thin: its rate is drawn lighter, since one good or bad day swings it.`,
-      `A zone's rate is taken over a window of ${RATE_WINDOW_CALENDAR_DAYS} calendar days before the latest survey date: its intervals between surveys that showed a change (of at least 5 % of its planned volume, so edge soundings of a pass over a neighbouring zone do not count) and that end in the window. The mean rate is their removal divided by their working days; the range runs from the slowest to the fastest of them.`,
+      `A zone's rate is taken over a window of ${RATE_WINDOW_CALENDAR_DAYS} calendar days before the latest survey date: its intervals between surveys that showed a change (of at least 5 % of its planned volume, so edge soundings of a pass over a neighbouring zone do not count) and that end in the window. The mean rate is their removal divided by their weekdays (not the days dives were logged: the finish is counted on weekdays, and a dive log begun part way through an interval would make its rate many times too fast); the range runs from the slowest to the fastest of them.`,
       `The forecast counts weekdays from the latest survey date of the project (never before it) until the remaining volume is gone: the finish at the mean rate, the earliest at the fastest, the latest at the slowest. A zone with no removal measured in the window has no recent rate and no date; a zone with every cell at firm sand, or less than ${NEGLIGIBLE_VOLUME} ${volumeLabel} left, counts as finished.`,
       "A forecast is an estimate, not a schedule: crews, weather, wildlife stand-downs and water-quality holds change it.",
     ],

@@ -1,5 +1,5 @@
 import { dayNumber, isoDateOf } from "./calendar-days";
-import { addWeekdays, workingDaysBetween, type WorkingCalendar } from "./working-days";
+import { addWeekdays, workingCalendar, workingDaysBetween } from "./working-days";
 
 /**
  * A zone's forecast finish from its recent rate. The zone's measured states are the first survey
@@ -9,13 +9,18 @@ import { addWeekdays, workingDaysBetween, type WorkingCalendar } from "./working
  * survey date give the rate. The mean rate is their removal over their working days, so it lies
  * between the slowest and the fastest interval's rate, which give the range. The remaining volume
  * is worked off on weekdays from the latest survey date of the project: nothing is known of the
- * days before it that a survey could have shown, so a finish is never dated before it. It is an
- * estimate: crews, weather and stand-downs change it.
+ * days before it that a survey could have shown, so a finish is never dated before it. The rate is
+ * per weekday too, whatever days dives were logged on: a rate per dive day counted forward on every
+ * weekday would assume crews dive daily, and an interval whose log began part way through (two
+ * logged days in ten weeks of work) would give a rate many times too fast. It is an estimate:
+ * crews, weather and stand-downs change it.
  */
 export type ForecastState = "finished" | "forecast" | "no-recent-rate" | "no-rate";
 
 /** Calendar days before the latest survey date in which a measured interval must end to set the rate. */
 export const RATE_WINDOW_CALENDAR_DAYS = 42;
+
+const WEEKDAYS = workingCalendar([]);
 
 export interface RateInterval {
   fromDate: string;
@@ -35,7 +40,7 @@ export interface ZoneForecast {
   /** The first and last date of those intervals. */
   rateFromDate: string | null;
   rateToDate: string | null;
-  /** Mean rate: the intervals' removal over their working days (volume unit per working day). */
+  /** Mean rate: the intervals' removal over their weekdays (volume unit per weekday). */
   volumePerWorkingDay: number | null;
   slowestVolumePerWorkingDay: number | null;
   fastestVolumePerWorkingDay: number | null;
@@ -67,7 +72,6 @@ export function forecastFinish(
   dates: readonly string[],
   cumulativeRemoved: ArrayLike<number>,
   remainingVolume: number,
-  calendar: WorkingCalendar,
   options: ForecastOptions,
 ): ZoneForecast {
   const latest = dates.length > 0 ? dates[dates.length - 1] : null;
@@ -92,7 +96,7 @@ export function forecastFinish(
     const fromDate = dates[measured[k - 1]];
     const toDate = dates[measured[k]];
     if (toDate < windowFrom) continue;
-    const workingDays = workingDaysBetween(calendar, fromDate, toDate);
+    const workingDays = workingDaysBetween(WEEKDAYS, fromDate, toDate);
     if (workingDays <= 0) continue; // no working day to divide by (e.g. surveys a weekend apart)
     const removedVolume = cumulativeRemoved[measured[k]] - cumulativeRemoved[measured[k - 1]];
     intervals.push({ fromDate, toDate, workingDays, removedVolume, volumePerWorkingDay: removedVolume / workingDays });

@@ -123,7 +123,7 @@ describe("series, production and forecast", () => {
     // computed: the zone changed only between Tue 09-08 and Tue 09-29 (15 weekdays, 300) → 20 per day; it ends on
     // 09-29, within the 42 days before the latest survey (10-27 − 42 d = 09-15). 100 left → 5 weekdays counted from
     // Tue 10-27 (not from 09-29, which would give 10-06, before the latest survey): Wed 28, Thu 29, Fri 30, Mon 11-02, Tue 11-03
-    const forecast = forecastFinish(["2026-09-08", "2026-09-29", "2026-10-27"], [0, 300, 300], 100, weekdays, options);
+    const forecast = forecastFinish(["2026-09-08", "2026-09-29", "2026-10-27"], [0, 300, 300], 100, options);
     expect(forecast.state).toBe("forecast");
     expect([forecast.windowFromDate, forecast.windowToDate]).toEqual(["2026-09-15", "2026-10-27"]);
     expect([forecast.rateFromDate, forecast.rateToDate]).toEqual(["2026-09-08", "2026-09-29"]);
@@ -143,7 +143,7 @@ describe("series, production and forecast", () => {
     //   11-03 → 11-24: 15 weekdays,  600 → 40/day (fastest)
     // mean 1100 / 35 = 31.43/day; 510 left → 16.2 → 17 weekdays from Tue 11-24: 15 to Tue 12-15, then Wed, Thu → 12-17;
     // fastest 510 / 40 = 12.75 → 13: 10 to Tue 12-08, then Wed, Thu, Fri → 12-11; slowest 510 / 20 = 25.5 → 26: 25 to Tue 12-29, then Wed → 12-30
-    const forecast = forecastFinish(["2026-09-08", "2026-10-06", "2026-10-20", "2026-11-03", "2026-11-24"], [0, 1200, 1400, 1700, 2300], 510, weekdays, options);
+    const forecast = forecastFinish(["2026-09-08", "2026-10-06", "2026-10-20", "2026-11-03", "2026-11-24"], [0, 1200, 1400, 1700, 2300], 510, options);
     expect(RATE_WINDOW_CALENDAR_DAYS).toBe(42);
     expect(forecast.state).toBe("forecast");
     expect(forecast.windowFromDate).toBe("2026-10-13");
@@ -168,7 +168,7 @@ describe("series, production and forecast", () => {
     for (let lastChange = 1; lastChange < dates.length; lastChange++) {
       const removed = dates.map((_, index) => 70 * Math.min(index, lastChange) + 55 * (Math.min(index, lastChange) % 2));
       for (const remaining of [1, 40, 333, 5000]) {
-        const forecast = forecastFinish(dates, removed, remaining, weekdays, options);
+        const forecast = forecastFinish(dates, removed, remaining, options);
         if (forecast.state !== "forecast") continue;
         forecasts++;
         expect(forecast.finishDate! > "2026-11-24", `${lastChange} ${remaining}`).toBe(true);
@@ -181,7 +181,7 @@ describe("series, production and forecast", () => {
 
   it("says no recent rate when the zone's last change is older than the window", () => {
     // computed: the only change (09-08 → 09-29) ends 56 days before the latest survey of Tue 11-24: outside 42 days
-    const forecast = forecastFinish(["2026-09-08", "2026-09-29", "2026-11-24"], [0, 300, 300], 100, weekdays, options);
+    const forecast = forecastFinish(["2026-09-08", "2026-09-29", "2026-11-24"], [0, 300, 300], 100, options);
     expect(forecast.state).toBe("no-recent-rate");
     expect(forecast.finishDate).toBeNull();
     expect(forecast.volumePerWorkingDay).toBeNull();
@@ -191,17 +191,25 @@ describe("series, production and forecast", () => {
   it("gives no latest date when an interval in the window lost volume", () => {
     // computed: 10-20 → 11-03 10 weekdays, +300 → 30/day; 11-03 → 11-24 15 weekdays, −100 (deposited) → −6.7/day;
     // mean 200 / 25 = 8/day: 100 left → 12.5 → 13 weekdays from Tue 11-24 → Fri 12-11; fastest 100 / 30 → 4 → Mon 11-30
-    const forecast = forecastFinish(["2026-10-20", "2026-11-03", "2026-11-24"], [0, 300, 200], 100, weekdays, options);
+    const forecast = forecastFinish(["2026-10-20", "2026-11-03", "2026-11-24"], [0, 300, 200], 100, options);
     expect(forecast.volumePerWorkingDay).toBeCloseTo(8, 12);
     expect([forecast.earliestFinishDate, forecast.finishDate, forecast.latestFinishDate]).toEqual(["2026-11-30", "2026-12-11", null]);
   });
 
+  it("takes the rate per weekday whatever days dives were logged on", () => {
+    // computed: the forecast has no calendar argument: Tue 09-08 → Tue 09-29 is 15 weekdays even if dives were
+    // logged on two of them only, so 300 → 20 per weekday (not 150 per logged day)
+    const forecast = forecastFinish(["2026-09-08", "2026-09-29", "2026-10-27"], [0, 300, 300], 100, options);
+    expect(forecast.intervals[0].workingDays).toBe(15);
+    expect(workingDaysBetween(workingCalendar(["2026-09-10", "2026-09-11"]), "2026-09-08", "2026-09-29")).toBe(2); // what production per working day counts
+  });
+
   it("says finished, or that there is no rate yet", () => {
-    expect(forecastFinish(["2026-09-08"], [0], 0.2, weekdays, options).state).toBe("finished");
-    expect(forecastFinish(["2026-09-08"], [0], 500, weekdays, options).state).toBe("no-rate");
+    expect(forecastFinish(["2026-09-08"], [0], 0.2, options).state).toBe("finished");
+    expect(forecastFinish(["2026-09-08"], [0], 500, options).state).toBe("no-rate");
     // practice: a zone whose every cell is at firm sand is done, whatever thin layer within tolerance remains
-    expect(forecastFinish(["2026-09-08", "2026-09-29"], [0, 300], 40, weekdays, { ...options, everyCellAtFirmSand: true }).state).toBe("finished");
-    expect(forecastFinish(["2026-09-08", "2026-09-29"], [0, 0.1], 500, weekdays, options).state).toBe("no-rate");
+    expect(forecastFinish(["2026-09-08", "2026-09-29"], [0, 300], 40, { ...options, everyCellAtFirmSand: true }).state).toBe("finished");
+    expect(forecastFinish(["2026-09-08", "2026-09-29"], [0, 0.1], 500, options).state).toBe("no-rate");
   });
 });
 

@@ -205,6 +205,8 @@ describe("progress figures equal the engine on the same surveys", () => {
       expect(second.basis).toBe("weekdays");
       expect(second.workingDays).toBe(workingDaysBetween(workingCalendar([]), second.fromDate, second.toDate));
       expect(withDives.assumptions.join(" ")).toMatch(/dives were logged/);
+      // computed: the forecast's rate is per weekday, so logging dives leaves every zone's forecast as it was
+      expect(withDives.zones.map((zone) => zone.forecast)).toEqual(progress.zones.map((zone) => zone.forecast));
     } finally {
       await Dive.destroy({ where: { projectId: project.id } });
       await Assignment.destroy({ where: { projectId: project.id } });
