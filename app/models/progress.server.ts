@@ -145,7 +145,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
   });
   const basisWords = calendar.basis === "dives-logged"
     ? "Working days are the days on which dives were logged between two survey dates; where an interval has no logged dive, its weekdays (Monday to Friday). Each interval says which it rests on."
-    : "No dives are logged yet, so working days are weekdays (Monday to Friday) between two survey dates."
+    : "No dives are logged yet, so working days are weekdays (Monday to Friday) between two survey dates.";
   return {
     projectId: project.id,
     volumeUnit,
