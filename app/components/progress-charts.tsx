@@ -74,28 +74,44 @@ export function CumulativeRemovedChart({ dates, series, unit }: { dates: string[
   );
 }
 
-/** Production per working day for each interval between survey dates, as bars. */
+/**
+ * Production per working day for each interval between survey dates, as bars; under each, its
+ * working days and what they were counted from. A thin interval (too few working days for its rate
+ * to compare) is drawn hatched and pale with "thin" over it, not as a bar of the same weight.
+ */
 export function ProductionChart({ intervals, unit }: { intervals: ProductionInterval[]; unit: string }) {
   if (intervals.length === 0) return <p className="text-sm text-muted">Production needs two survey dates.</p>;
   const rates = intervals.map((interval) => interval.volumePerWorkingDay ?? 0);
   const ticks = niceTicks(Math.max(0, ...rates));
-  const y = linearScale([0, ticks[ticks.length - 1]], [HEIGHT - MARGIN.bottom, MARGIN.top]);
+  const bottom = HEIGHT - MARGIN.bottom - 12; // room for a third label line: the basis
+  const y = linearScale([0, ticks[ticks.length - 1]], [bottom, MARGIN.top]);
   const slot = (WIDTH - MARGIN.left - MARGIN.right) / intervals.length;
   return (
     <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-labelledby="production-title" className="h-auto w-full" data-testid="production-chart">
       <title id="production-title">Production per working day between survey dates ({unit} per working day)</title>
+      <defs>
+        <pattern id="thin-interval-hatch" width={6} height={6} patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
+          <rect width={6} height={6} fill="#e3eef0" />
+          <line x1={0} y1={0} x2={0} y2={6} stroke="#14606e" strokeWidth={1.5} strokeOpacity={0.5} />
+        </pattern>
+      </defs>
       <ValueAxis ticks={ticks} y={y} unit={`${unit}/day`} />
       {intervals.map((interval, index) => {
         const rate = Math.max(0, interval.volumePerWorkingDay ?? 0);
         const left = MARGIN.left + index * slot + slot * 0.15;
+        const centre = left + slot * 0.35;
+        const basis = interval.basis === "dives-logged" ? "dives logged" : "weekdays";
         return (
-          <g key={interval.toDate}>
-            <rect x={left} width={slot * 0.7} y={y(rate)} height={y(0) - y(rate)} fill="#14606e">
-              <title>{`${interval.fromDate} → ${interval.toDate}: ${formatNumber(interval.removedVolume)} ${unit} over ${interval.workingDays} working days = ${formatNumber(interval.volumePerWorkingDay, 1)} ${unit}/day`}</title>
+          <g key={interval.toDate} data-thin={interval.thin ? "" : undefined}>
+            <rect x={left} width={slot * 0.7} y={y(rate)} height={y(0) - y(rate)} fill={interval.thin ? "url(#thin-interval-hatch)" : "#14606e"} stroke={interval.thin ? "#14606e" : undefined} strokeDasharray={interval.thin ? "3 2" : undefined}>
+              <title>{`${interval.fromDate} → ${interval.toDate}: ${formatNumber(interval.removedVolume)} ${unit} over ${interval.workingDays} working days (${basis}) = ${formatNumber(interval.volumePerWorkingDay, 1)} ${unit}/day${interval.thin ? "; thin: too few working days for this rate to compare with the others" : ""}`}</title>
             </rect>
-            <text className="figures" x={left + slot * 0.35} y={y(rate) - 4} textAnchor="middle" fontSize={11} fill="#1d2528">{formatNumber(interval.volumePerWorkingDay, 0)}</text>
-            <text className="figures" x={left + slot * 0.35} y={HEIGHT - MARGIN.bottom + 14} textAnchor="middle" fontSize={10} fill="#5b6870">{`${interval.fromDate.slice(5)}→${interval.toDate.slice(5)}`}</text>
-            <text className="figures" x={left + slot * 0.35} y={HEIGHT - MARGIN.bottom + 26} textAnchor="middle" fontSize={10} fill="#5b6870">{`${interval.workingDays} d`}</text>
+            <text className="figures" x={centre} y={y(rate) - 4} textAnchor="middle" fontSize={11} fill={interval.thin ? "#5b6870" : "#1d2528"}>
+              {`${formatNumber(interval.volumePerWorkingDay, 0)}${interval.thin ? " thin" : ""}`}
+            </text>
+            <text className="figures" x={centre} y={bottom + 14} textAnchor="middle" fontSize={10} fill="#5b6870">{`${interval.fromDate.slice(5)}→${interval.toDate.slice(5)}`}</text>
+            <text className="figures" x={centre} y={bottom + 26} textAnchor="middle" fontSize={10} fill="#5b6870">{`${interval.workingDays} d`}</text>
+            <text className="figures" x={centre} y={bottom + 38} textAnchor="middle" fontSize={10} fill="#5b6870">{basis}</text>
           </g>
         );
       })}

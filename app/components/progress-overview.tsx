@@ -1,6 +1,8 @@
 import { useState } from "react";
 import type { ProgressFigures, ProgressView, ZoneProgress } from "~/models/progress.server";
 import { CumulativeRemovedChart, ProductionChart } from "./progress-charts";
+import { RATE_WINDOW_CALENDAR_DAYS } from "../../shared/progress/forecast";
+import { THIN_INTERVAL_WORKING_DAYS } from "../../shared/progress/working-days";
 import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 import { Percent, Volume, ZoneName, formatNumber, zoneKey } from "./progress-figures";
 
@@ -101,18 +103,30 @@ function ForecastList({ progress }: { progress: ProgressView }) {
       {progress.zones.map((zone) => {
         const { forecast } = zone;
         return (
-          <li key={zoneKey(zone)}>
+          <li key={zoneKey(zone)} data-zone={zone.name} data-state={forecast.state}>
             <span className="font-medium"><ZoneName zone={zone} />:</span>{" "}
             {forecast.state === "finished" ? "finished: every cell is at firm sand (what remains is within the tolerance)." : null}
             {forecast.state === "no-rate" ? "no forecast yet: no removal measured between two surveys of this zone." : null}
+            {forecast.state === "no-recent-rate" ? (
+              <>
+                no recent rate: no removal measured in this zone in the {RATE_WINDOW_CALENDAR_DAYS} days{" "}
+                <span className="figures">{forecast.windowFromDate}</span> to <span className="figures">{forecast.windowToDate}</span>, so no date.
+              </>
+            ) : null}
             {forecast.state === "forecast" ? (
               <>
-                finish about <span className="figures">{forecast.finishDate}</span> ({forecast.workingDaysLeft} working days at{" "}
-                <span className="figures">{formatNumber(forecast.volumePerWorkingDay, 1)} {unit}/day</span>, the rate from{" "}
-                <span className="figures">{forecast.rateFromDate}</span> to <span className="figures">{forecast.rateToDate}</span>).
-                {progress.total.lastSurveyOn && forecast.finishDate! < progress.total.lastSurveyOn
-                  ? " At that rate the zone would be finished before the latest survey date: a fresh survey of it will tell."
-                  : null}
+                finish about <span className="figures">{forecast.finishDate}</span>{" "}
+                {forecast.latestFinishDate === null ? (
+                  <>(not before <span className="figures">{forecast.earliestFinishDate}</span>; no latest date, as an interval in the window removed nothing)</>
+                ) : (
+                  <>(between <span className="figures">{forecast.earliestFinishDate}</span> and <span className="figures">{forecast.latestFinishDate}</span>)</>
+                )}
+                : {forecast.workingDaysLeft} weekdays from{" "}
+                <span className="figures">{forecast.windowToDate}</span> at{" "}
+                <span className="figures">{formatNumber(forecast.volumePerWorkingDay, 1)} {unit}/day</span>, the mean rate of the{" "}
+                {RATE_WINDOW_CALENDAR_DAYS}-day window <span className="figures">{forecast.windowFromDate}</span> to{" "}
+                <span className="figures">{forecast.windowToDate}</span> ({forecast.intervals.length === 1 ? "1 interval" : `${forecast.intervals.length} intervals`}, rates{" "}
+                <span className="figures">{formatNumber(forecast.slowestVolumePerWorkingDay, 1)}–{formatNumber(forecast.fastestVolumePerWorkingDay, 1)} {unit}/day</span>).
               </>
             ) : null}
           </li>
@@ -169,9 +183,12 @@ export function ProgressOverview({ progress, links }: { progress: ProgressView; 
             <h2 id="production-heading" className="font-semibold">Production per working day</h2>
             <ProductionChart intervals={progress.production} unit={unit} />
             <p className="mt-1 text-xs text-muted">
-              {progress.workingDayBasis === "dive-plans"
-                ? `Working days: days with a dive plan; weekdays for intervals without one (${progress.production.filter((interval) => interval.basis === "weekdays").length} of ${progress.production.length}).`
-                : "Working days: weekdays (no dive plans recorded yet)."}
+              {progress.workingDayBasis === "dives-logged"
+                ? `Working days: days with a logged dive; weekdays for intervals without one (${progress.production.filter((interval) => interval.basis === "weekdays").length} of ${progress.production.length}).`
+                : "Working days: weekdays (no dives logged yet)."}
+              {progress.production.some((interval) => interval.thin)
+                ? ` Hatched bars rest on fewer than ${THIN_INTERVAL_WORKING_DAYS} working days (${progress.production.filter((interval) => interval.thin).length} of ${progress.production.length}): too few to compare with the others.`
+                : null}
             </p>
           </section>
           <section aria-labelledby="cross-check-heading" className="rounded border border-line bg-panel p-4 lg:col-span-2">

@@ -162,6 +162,16 @@ async function findDives(project: ProjectView, where: { id?: number; date?: stri
   return dives.map((dive) => present(dive, project));
 }
 
+/** Distinct dates on which the project's dives were logged (the days crews worked), YYYY-MM-DD. */
+export async function loggedDiveDates(projectId: number): Promise<string[]> {
+  const rows = await Dive.findAll({
+    where: { projectId },
+    attributes: [[getSequelize().fn("DISTINCT", getSequelize().col("diveDate")), "diveDate"]],
+    raw: true,
+  });
+  return rows.map((row) => String((row as unknown as { diveDate: string }).diveDate).slice(0, 10));
+}
+
 /** The day's dives, every team. */
 export function listDivesOn(project: ProjectView, date: string): Promise<DiveView[]> {
   return findDives(project, { date });

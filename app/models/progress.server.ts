@@ -1,13 +1,14 @@
 import type { CellCounts, CellVolumes } from "../../shared/volumes/figure-totals";
 import { Op } from "sequelize";
-import { forecastFinish, type ZoneForecast } from "../../shared/progress/forecast";
+import { RATE_WINDOW_CALENDAR_DAYS, forecastFinish, type ZoneForecast } from "../../shared/progress/forecast";
 import { percentCellsAtFirmSand, percentCompleteByVolume } from "../../shared/progress/percent-complete";
 import { productionIntervals, type ProductionInterval } from "../../shared/progress/production";
 import { progressSeries } from "../../shared/progress/time-series";
-import { workingCalendar, type WorkingDayBasis } from "../../shared/progress/working-days";
+import { THIN_INTERVAL_WORKING_DAYS, workingCalendar, type WorkingDayBasis } from "../../shared/progress/working-days";
 import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { unitLabel, volumeUnitFor, type VolumeUnit } from "../../shared/units";
-import { Assignment, CellResult, Survey, SurveySnapshot, Zone, getSequelize } from "~/lib/db.server";
+import { CellResult, Survey, SurveySnapshot, Zone } from "~/lib/db.server";
+import { loggedDiveDates } from "./dives.server";
 import { loadEndAreaCrossCheck, type EndAreaCrossCheck } from "./end-area-check.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 
@@ -92,20 +93,10 @@ function finish(figures: ProgressFigures): ProgressFigures {
   return figures;
 }
 
-/** Distinct dive-plan dates of the project (the days crews were planned to work). */
-export async function divePlanDates(projectId: number): Promise<string[]> {
-  const rows = await Assignment.findAll({
-    where: { projectId },
-    attributes: [[getSequelize().fn("DISTINCT", getSequelize().col("workDate")), "workDate"]],
-    raw: true,
-  });
-  return rows.map((row) => String((row as unknown as { workDate: string }).workDate).slice(0, 10));
-}
-
 export async function loadProgress(project: ProjectView, options: { crossCheck?: boolean } = {}): Promise<ProgressView> {
   const volumeUnit = volumeUnitFor(project.lengthUnit);
   const volumeLabel = unitLabel(project.lengthUnit, "volume");
-  const [zones, cells, snapshots, surveys, planDates] = await Promise.all([
+  const [zones, cells, snapshots, surveys, diveDates] = await Promise.all([
     Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]], attributes: ["id", "name"] }),
     CellResult.findAll({
       where: { projectId: project.id, areaInLimit: { [Op.gt]: 0 } },
@@ -114,7 +105,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     }),
     SurveySnapshot.findAll({ where: { projectId: project.id }, attributes: ["surveyedOn", "totals", "zones"], order: [["surveyedOn", "ASC"]] }),
     Survey.findAll({ where: { projectId: project.id, status: "active" }, attributes: ["id", "surveyedOn"], raw: true }),
-    divePlanDates(project.id),
+    loggedDiveDates(project.id),
   ]);
   const crossCheck = options.crossCheck && cells.length > 0 ? await loadEndAreaCrossCheck(project) : null;
   const surveyDate = new Map(surveys.map((survey) => [survey.id, String(survey.surveyedOn)]));
@@ -140,7 +131,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     })),
     rows.map((row) => row.zoneId),
   );
-  const calendar = workingCalendar(planDates);
+  const calendar = workingCalendar(diveDates);
 
   const zoneProgress: ZoneProgress[] = rows.map((zone, index) => {
     const figures = finish(zone.figures);
@@ -150,11 +141,11 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     const forecastOptions = { finishedBelowVolume: NEGLIGIBLE_VOLUME, changeThresholdVolume: Math.max(NEGLIGIBLE_VOLUME, CHANGE_SHARE * figures.plannedVolume),
       everyCellAtFirmSand: figures.cells > 0 && figures.cellsAtFirmSand === figures.cells,
     };
-    return { zoneId: zone.zoneId, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, calendar, forecastOptions) };
+    return { zoneId: zone.zoneId, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, forecastOptions) };
   });
-  const basisWords = calendar.basis === "dive-plans"
-    ? "Working days are the days with a dive plan between two survey dates; where an interval has no dive plan, its weekdays (Monday to Friday)."
-    : "There are no dive plans yet, so working days are weekdays (Monday to Friday) between two survey dates.";
+  const basisWords = calendar.basis === "dives-logged"
+    ? "Working days are the days on which dives were logged between two survey dates; where an interval has no logged dive, its weekdays (Monday to Friday). Each interval says which it rests on."
+    : "No dives are logged yet, so working days are weekdays (Monday to Friday) between two survey dates.";
   return {
     projectId: project.id,
     volumeUnit,
@@ -178,7 +169,9 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
       "Removed volume is measured against the baseline survey; each survey date's figures include every survey up to that date.",
       "Production per working day is the removed volume between two survey dates divided by the working days between them.",
       basisWords,
-      `A zone's forecast uses its removal between its last two surveys that showed a change (of at least 5 % of its planned volume, so edge soundings of a pass over a neighbouring zone do not count), and assumes the crews keep that rate on weekdays from the latest of them until the remaining volume is gone; a zone with every cell at firm sand, or less than ${NEGLIGIBLE_VOLUME} ${volumeLabel} left, counts as finished.`,
+      `An interval resting on fewer than ${THIN_INTERVAL_WORKING_DAYS} working days is thin: its rate is drawn lighter, since one good or bad day swings it.`,
+      `A zone's rate is taken over a window of ${RATE_WINDOW_CALENDAR_DAYS} calendar days before the latest survey date: its intervals between surveys that showed a change (of at least 5 % of its planned volume, so edge soundings of a pass over a neighbouring zone do not count) and that end in the window. The mean rate is their removal divided by their weekdays (not the days dives were logged: the finish is counted on weekdays, and a dive log begun part way through an interval would make its rate many times too fast); the range runs from the slowest to the fastest of them.`,
+      `The forecast counts weekdays from the latest survey date of the project (never before it) until the remaining volume is gone: the finish at the mean rate, the earliest at the fastest, the latest at the slowest. A zone with no removal measured in the window has no recent rate and no date; a zone with every cell at firm sand, or less than ${NEGLIGIBLE_VOLUME} ${volumeLabel} left, counts as finished.`,
       "A forecast is an estimate, not a schedule: crews, weather, wildlife stand-downs and water-quality holds change it.",
     ],
     crossCheck,

@@ -1,4 +1,4 @@
-import { intervalBasis, workingDaysBetween, type WorkingCalendar, type WorkingDayBasis } from "./working-days";
+import { THIN_INTERVAL_WORKING_DAYS, intervalBasis, workingDaysBetween, type WorkingCalendar, type WorkingDayBasis } from "./working-days";
 
 /**
  * Production between consecutive surveys: the change in cumulative removed volume divided by the
@@ -9,8 +9,10 @@ export interface ProductionInterval {
   fromDate: string;
   toDate: string;
   workingDays: number;
-  /** Dive-plan days where the interval has any, else weekdays. */
+  /** Days with a logged dive where the interval has any, else weekdays. */
   basis: WorkingDayBasis;
+  /** Fewer than THIN_INTERVAL_WORKING_DAYS working days: the rate rests on too few days to compare with the others. */
+  thin: boolean;
   /** Project volume unit. */
   removedVolume: number;
   /** Volume unit per working day; null when the interval holds no working day. */
@@ -28,6 +30,7 @@ export function productionIntervals(dates: readonly string[], cumulativeRemoved:
       toDate: dates[index],
       workingDays,
       basis: intervalBasis(calendar, dates[index - 1], dates[index]),
+      thin: workingDays < THIN_INTERVAL_WORKING_DAYS,
       removedVolume,
       volumePerWorkingDay: workingDays > 0 ? removedVolume / workingDays : null,
     });

@@ -2,23 +2,27 @@ import { dayNumber, isWeekday, isoDateOf } from "./calendar-days";
 
 /**
  * Working days between two survey dates: the days after `fromDate` up to and including `toDate`
- * (the work a survey on `toDate` measures happened after the previous survey). Dive-plan dates
- * are the record of the days crews actually worked; an interval with none (before plans were kept
- * in Firmsand, or a project without them) counts Monday to Friday instead.
+ * (the work a survey on `toDate` measures happened after the previous survey). The days on which
+ * dives were logged are the record of the days crews actually worked (a plan may be called off);
+ * an interval with none logged (before the dive log was kept in Firmsand, or a project without
+ * it) counts Monday to Friday instead.
  */
-export type WorkingDayBasis = "dive-plans" | "weekdays";
+export type WorkingDayBasis = "dives-logged" | "weekdays";
+
+/** An interval resting on fewer working days than this is thin: one good or bad day swings its rate. */
+export const THIN_INTERVAL_WORKING_DAYS = 3;
 
 export interface WorkingCalendar {
   basis: WorkingDayBasis;
-  /** Sorted day numbers of planned dive days (basis "dive-plans" only). */
-  plannedDays: Float64Array;
+  /** Sorted day numbers of days with a logged dive (basis "dives-logged" only). */
+  loggedDays: Float64Array;
 }
 
-/** The calendar to count with: dive-plan dates where there are any, else weekdays. */
-export function workingCalendar(divePlanDates: readonly string[]): WorkingCalendar {
-  if (divePlanDates.length === 0) return { basis: "weekdays", plannedDays: new Float64Array(0) };
-  const days = Float64Array.from(new Set(divePlanDates.map(dayNumber))).sort();
-  return { basis: "dive-plans", plannedDays: days };
+/** The calendar to count with: days with a logged dive where there are any, else weekdays. */
+export function workingCalendar(diveLogDates: readonly string[]): WorkingCalendar {
+  if (diveLogDates.length === 0) return { basis: "weekdays", loggedDays: new Float64Array(0) };
+  const days = Float64Array.from(new Set(diveLogDates.map(dayNumber))).sort();
+  return { basis: "dives-logged", loggedDays: days };
 }
 
 /** Index of the first element of sorted `days` greater than `day`. */
@@ -37,9 +41,9 @@ export function workingDaysBetween(calendar: WorkingCalendar, fromDate: string, 
   const from = dayNumber(fromDate);
   const to = dayNumber(toDate);
   if (to <= from) return 0;
-  if (calendar.basis === "dive-plans") {
-    const planned = upperBound(calendar.plannedDays, to) - upperBound(calendar.plannedDays, from);
-    if (planned > 0) return planned;
+  if (calendar.basis === "dives-logged") {
+    const logged = upperBound(calendar.loggedDays, to) - upperBound(calendar.loggedDays, from);
+    if (logged > 0) return logged;
   }
   // Whole weeks hold five weekdays each; walk only the remainder.
   const span = to - from;
@@ -52,13 +56,13 @@ export function workingDaysBetween(calendar: WorkingCalendar, fromDate: string, 
 /** What an interval's working days were counted from. */
 export function intervalBasis(calendar: WorkingCalendar, fromDate: string, toDate: string): WorkingDayBasis {
   if (calendar.basis === "weekdays") return "weekdays";
-  const planned = upperBound(calendar.plannedDays, dayNumber(toDate)) - upperBound(calendar.plannedDays, dayNumber(fromDate));
-  return planned > 0 ? "dive-plans" : "weekdays";
+  const logged = upperBound(calendar.loggedDays, dayNumber(toDate)) - upperBound(calendar.loggedDays, dayNumber(fromDate));
+  return logged > 0 ? "dives-logged" : "weekdays";
 }
 
 /**
  * The date on which `count` more working days after `fromDate` are done. Forecasts always count
- * weekdays forward: dive plans exist only for days already planned.
+ * weekdays forward: dives are logged only for days already worked.
  */
 export function addWeekdays(fromDate: string, count: number): string {
   if (!(count >= 0) || !Number.isFinite(count)) throw new Error("the number of working days must be finite and not negative");

@@ -43,7 +43,27 @@ test("the manager sees the zone table and the charts, and can sort the table", a
   await expect(page.getByTestId("cumulative-chart")).toBeVisible();
   await expect(page.getByTestId("production-chart")).toBeVisible();
   await expect(page.getByTestId("forecast")).toContainText("Lower run");
-  await expect(page.getByText(/working days are weekdays|days with a dive plan/i).first()).toBeVisible();
+  // The demo logs dives on two November days: production rests on them where an interval has them, and
+  // an interval resting on fewer than three working days is drawn apart (hatched) and explained.
+  await expect(page.getByText(/Working days are the days on which dives were logged/).first()).toBeVisible();
+  await expect(page.getByText(/Working days: days with a logged dive/)).toBeVisible();
+  await expect(page.getByTestId("production-chart").locator("g[data-thin]")).not.toHaveCount(0);
+  await expect(page.getByText(/Hatched bars rest on fewer than 3 working days/)).toBeVisible();
+  // Each zone's forecast names the window, the rate range and the date range, counted from the latest survey.
+  const forecastJson = await (await page.request.get(`/api/projects/${projectId}/progress`)).json();
+  const latestSurvey: string = forecastJson.series.dates.at(-1);
+  for (const zone of forecastJson.zones) {
+    const item = page.getByTestId("forecast").locator(`li[data-zone="${zone.name}"]`);
+    await expect(item).toHaveAttribute("data-state", zone.forecast.state);
+    if (zone.forecast.state === "forecast") {
+      expect(zone.forecast.finishDate > latestSurvey).toBe(true);
+      await expect(item).toContainText(`finish about ${zone.forecast.finishDate}`);
+      await expect(item).toContainText(zone.forecast.latestFinishDate === null ? `not before ${zone.forecast.earliestFinishDate}` : `between ${zone.forecast.earliestFinishDate} and ${zone.forecast.latestFinishDate}`);
+      await expect(item).toContainText(`42-day window ${zone.forecast.windowFromDate} to ${latestSurvey}`);
+      await expect(item).toContainText(/rates [\d,.]+–[\d,.]+ yd³\/day/);
+    }
+    if (zone.forecast.state === "no-recent-rate") await expect(item).toContainText(`no recent rate: no removal measured in this zone in the 42 days ${zone.forecast.windowFromDate} to ${latestSurvey}`);
+  }
   await expect(page.getByTestId("cross-check")).toContainText("average end area");
   await expect(page.getByTestId("cross-check")).toContainText("%");
   // Sorting needs the page's script: click until the heading reports the order, then compare with the API's figures.

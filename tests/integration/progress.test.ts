@@ -8,12 +8,13 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { startsLikeFormula } from "../../shared/csv-safe";
 import { computeSurveyVolumes, type EngineSettings } from "../../shared/pipeline";
+import { RATE_WINDOW_CALENDAR_DAYS } from "../../shared/progress/forecast";
 import { workingDaysBetween, workingCalendar } from "../../shared/progress/working-days";
 import { soundingElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
 import { UNZONED_NAME, rollUpZones } from "../../shared/volumes/rollup";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
-import { Assignment, DiveTeam, Project, ShareLink, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
+import { Assignment, Dive, DiveTeam, Project, ShareLink, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
 import { importSurveyFile } from "~/lib/import/import-service.server";
 import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { loadProgress, type ProgressView } from "~/models/progress.server";
@@ -147,43 +148,67 @@ describe("progress figures equal the engine on the same surveys", () => {
   }, 300_000);
 
   it("production per working day and the forecast follow from the series", () => {
-    expect(progress.workingDayBasis).toBe("weekdays"); // no dive plans on this project
+    expect(progress.workingDayBasis).toBe("weekdays"); // no dives logged on this project
     const weekdays = workingCalendar([]);
     progress.production.forEach((interval, index) => {
       expectClose(interval.removedVolume, progress.series.totalRemovedVolume[index + 1] - progress.series.totalRemovedVolume[index], 1e-12);
       expect(interval.workingDays).toBe(workingDaysBetween(weekdays, interval.fromDate, interval.toDate));
+      expect(interval.basis).toBe("weekdays");
+      expect(interval.thin).toBe(interval.workingDays < 3); // practice: fewer than three working days is too few to compare
       expectClose(interval.volumePerWorkingDay!, interval.removedVolume / interval.workingDays, 1e-12);
     });
     // invariant: the intervals add up to the removal at the last survey
     expectClose(progress.production.reduce((sum, interval) => sum + interval.removedVolume, 0), progress.total.removedVolume, 1e-6);
+    const latestSurvey = progress.series.dates.at(-1)!;
+    // computed: the window is the 42 calendar days before the latest survey (2026-11-24 − 42 d = 2026-10-13)
+    const windowFrom = new Date(Date.parse(`${latestSurvey}T00:00:00Z`) - RATE_WINDOW_CALENDAR_DAYS * 86_400_000).toISOString().slice(0, 10);
     for (const zone of progress.zones) {
       if (zone.forecast.state !== "forecast") continue;
-      // computed: the finish date is workingDaysLeft weekdays after the rate's last survey, and that many days at the rate clear what remains
-      expect(workingDaysBetween(weekdays, zone.forecast.rateToDate!, zone.forecast.finishDate!)).toBe(zone.forecast.workingDaysLeft);
-      expect(zone.forecast.workingDaysLeft! * zone.forecast.volumePerWorkingDay!).toBeGreaterThanOrEqual(zone.remainingVolume);
+      const forecast = zone.forecast;
+      expect([forecast.windowFromDate, forecast.windowToDate]).toEqual([windowFrom, latestSurvey]);
+      // computed: every rate interval ends in the window, and the mean is their removal over their working days
+      for (const interval of forecast.intervals) expect(interval.toDate >= windowFrom, `${zone.name} ${interval.toDate}`).toBe(true);
+      const removed = forecast.intervals.reduce((sum, interval) => sum + interval.removedVolume, 0);
+      const days = forecast.intervals.reduce((sum, interval) => sum + interval.workingDays, 0);
+      expectClose(forecast.volumePerWorkingDay!, removed / days, 1e-9, zone.name);
+      // computed: the finish is workingDaysLeft weekdays after the latest survey date (never before it), and that many days at the rate clear what remains
+      expect(forecast.finishDate! > latestSurvey, zone.name).toBe(true);
+      expect(workingDaysBetween(weekdays, latestSurvey, forecast.finishDate!)).toBe(forecast.workingDaysLeft);
+      expect(forecast.workingDaysLeft! * forecast.volumePerWorkingDay!).toBeGreaterThanOrEqual(zone.remainingVolume);
+      // invariant: the range brackets the mean
+      expect(forecast.slowestVolumePerWorkingDay! <= forecast.volumePerWorkingDay! && forecast.volumePerWorkingDay! <= forecast.fastestVolumePerWorkingDay!).toBe(true);
+      expect(forecast.earliestFinishDate! <= forecast.finishDate!).toBe(true);
+      if (forecast.latestFinishDate !== null) expect(forecast.finishDate! <= forecast.latestFinishDate).toBe(true);
     }
-    expect(progress.zones.find((zone) => zone.name === "Lower run")!.forecast.state).toBe("forecast"); // part way done on 2026-11-17
+    expect(progress.zones.find((zone) => zone.name === "Lower run")!.forecast.state).toBe("forecast"); // part way done on 2026-11-17, inside the window
     expect(progress.assumptions.join(" ")).toMatch(/weekdays/);
+    expect(progress.assumptions.join(" ")).toContain(`${RATE_WINDOW_CALENDAR_DAYS} calendar days before the latest survey date`);
   });
 
-  it("counts dive-plan days where an interval has them, weekdays where it has none", async () => {
+  it("counts days with a logged dive where an interval has them, weekdays where it has none", async () => {
     const team = await DiveTeam.create({ projectId: project.id, name: "Test team", hoses: ["Hose A"], members: [] } as never);
-    const planned = ["2026-09-10", "2026-09-11", "2026-09-15", "2026-09-22"];
-    for (const [index, workDate] of planned.entries()) {
-      await Assignment.create({ projectId: project.id, workDate, teamId: team.id, row: index, col: 0, label: `A${index + 1}`, hose: "Hose A", notes: "", workingDepth: null, plannedBottomMinutes: null, confirmedReason: null, createdById: null } as never);
+    // two dives on 09-10 and one on 09-15: two working days in the first interval (2026-09-08 → 09-29)
+    const logged = ["2026-09-10", "2026-09-10", "2026-09-15"];
+    for (const [index, diveDate] of logged.entries()) {
+      await Dive.create({ projectId: project.id, diveDate, teamId: team.id, diverName: `Diver ${index + 1}`, leftSurfaceAt: null, leftBottomAt: null, bottomMinutes: 60, maxDepth: 8, notes: "", recordedById: null } as never);
     }
+    // a dive plan alone is not a day worked
+    await Assignment.create({ projectId: project.id, workDate: "2026-09-22", teamId: team.id, row: 0, col: 0, label: "A1", hose: "Hose A", notes: "", workingDepth: null, plannedBottomMinutes: null, confirmedReason: null, createdById: null } as never);
     try {
-      const withPlans = await loadProgress(project);
-      expect(withPlans.workingDayBasis).toBe("dive-plans");
-      const [first, second] = withPlans.production;
-      // practice: the first interval (2026-09-08 → 09-29) holds four planned dive days
-      expect(first.basis).toBe("dive-plans");
-      expect(first.workingDays).toBe(planned.length);
-      expectClose(first.volumePerWorkingDay!, first.removedVolume / planned.length, 1e-12);
-      // the next interval has no plan: weekdays
+      const withDives = await loadProgress(project);
+      expect(withDives.workingDayBasis).toBe("dives-logged");
+      const [first, second] = withDives.production;
+      // practice: the first interval rests on its two days with a logged dive, so it is thin
+      expect([first.basis, first.workingDays, first.thin]).toEqual(["dives-logged", 2, true]);
+      expectClose(first.volumePerWorkingDay!, first.removedVolume / 2, 1e-12);
+      // the next interval has no logged dive: weekdays
       expect(second.basis).toBe("weekdays");
       expect(second.workingDays).toBe(workingDaysBetween(workingCalendar([]), second.fromDate, second.toDate));
+      expect(withDives.assumptions.join(" ")).toMatch(/dives were logged/);
+      // computed: the forecast's rate is per weekday, so logging dives leaves every zone's forecast as it was
+      expect(withDives.zones.map((zone) => zone.forecast)).toEqual(progress.zones.map((zone) => zone.forecast));
     } finally {
+      await Dive.destroy({ where: { projectId: project.id } });
       await Assignment.destroy({ where: { projectId: project.id } });
       await team.destroy();
     }
