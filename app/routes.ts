@@ -6,6 +6,7 @@ import { type RouteConfig, index, route } from "@react-router/dev/routes";
 export default [
   index("routes/_index.tsx"),
   route("account", "routes/account.tsx"),
+  route("admin/users", "routes/admin.users.tsx"),
 
   // The JSON, CSV and GeoJSON API (one access helper, one body reader, one error shape:
   // app/lib/api); any other /api address answers the API's JSON 404.

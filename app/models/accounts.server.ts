@@ -5,7 +5,11 @@ import { canManageAccounts } from "~/lib/auth/permissions";
 import { endSessions } from "~/lib/auth/session.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { Membership, Project, SignInSession, User, getSequelize, type Role } from "~/lib/db.server";
-import { ForbiddenError, NotFoundError, ValidationError } from "~/lib/errors";
+import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "~/lib/errors";
+import { randomBytes } from "node:crypto";
+import { hashPassword } from "~/lib/auth/password.server";
+import { normaliseEmail } from "~/lib/auth/users.server";
+import { requestPasswordReset } from "~/models/password-reset.server";
 
 /**
  * The site admin's account management: every account with its memberships, disabling and
@@ -114,4 +118,30 @@ export async function updateAccount(actingUser: UserView, userId: number, patch:
 export function parseAccountId(raw: string | undefined): number {
   if (!raw || !/^[1-9][0-9]{0,14}$/.test(raw)) throw new NotFoundError("There is no such account.");
   return Number(raw);
+}
+
+/** Sends the account a password-reset link (the same link "Forgot password" sends). */
+export async function sendAccountPasswordReset(actingUser: UserView, userId: number, origin: string, ip: string | null): Promise<AccountView> {
+  assertMayManageAccounts(actingUser);
+  const user = await User.findByPk(userId);
+  if (!user) throw new NotFoundError("There is no such account.");
+  await requestPasswordReset(user.email, origin, ip ?? "");
+  await recordAudit({ action: AUDIT_ACTIONS.accountPasswordResetSent, userId: actingUser.id, ip, detail: { accountId: user.id, email: user.email } });
+  const [view] = await presentAccounts([user]);
+  return view;
+}
+
+/**
+ * A new account with no usable password (a random one nobody knows): it receives a reset link
+ * and chooses its password there. Project access comes later, by invitation or project creation.
+ */
+export async function createAccount(actingUser: UserView, input: { name: string; email: string }, origin: string, ip: string | null): Promise<AccountView> {
+  assertMayManageAccounts(actingUser);
+  const email = normaliseEmail(input.email);
+  if (await User.findOne({ where: { email } })) throw new ConflictError({ field: "email", message: `${email} already has an account.` });
+  const user = await User.create({ email, name: input.name.trim(), passwordHash: await hashPassword(randomBytes(24).toString("base64url")) });
+  await recordAudit({ action: AUDIT_ACTIONS.accountCreated, userId: actingUser.id, ip, detail: { accountId: user.id, email } });
+  await requestPasswordReset(email, origin, ip ?? "");
+  const [view] = await presentAccounts([user]);
+  return view;
 }

@@ -40,6 +40,8 @@ const MATRIX: Row[] = [
   row("GET", "", "/", "200 200 200 200 200 200 200 200 200"),
   row("GET", "account", "/account", "200 200 200 200 200 200 200 200 login"),
   row("POST", "account", "/account", "400 400 400 400 400 400 400 400 login", BOGUS_INTENT),
+  row("GET", "admin/users", "/admin/users", "403 403 403 403 403 403 403 200 login"),
+  row("POST", "admin/users", "/admin/users", "403 403 403 403 403 403 403 400 login", BOGUS_INTENT),
 
   // The API: JSON 401 when signed out, never a redirect.
   row("GET", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401"),

@@ -7,7 +7,9 @@ import { ACCOUNT_DISABLED_MESSAGE, SignInError, authenticator } from "~/lib/auth
 import { AuditEvent, SignInSession, User } from "~/lib/db.server";
 import * as usersApi from "~/routes/api.admin.users";
 import * as userApi from "~/routes/api.admin.users.$userId";
-import { ORIGIN, TEST_PASSWORD, addMember, makeProject, makeUser, requestAs } from "./helpers";
+import * as accountsPage from "~/routes/admin.users";
+import { PasswordReset } from "~/lib/db.server";
+import { ORIGIN, TEST_PASSWORD, addMember, makeProject, makeUser, requestAs, thrown } from "./helpers";
 
 // The site admin's account management against the real database: disabling ends the account's
 // sessions and API tokens at once and refuses sign-in; re-enabling restores sign-in only.
@@ -145,5 +147,47 @@ describe("the accounts API", () => {
     expect((await patch(adminToken, target.id, { isSiteAdmin: true })).status).toBe(422);
     expect((await patch(adminToken, target.id, {})).status).toBe(422);
     expect((await User.findByPk(target.id))?.isSiteAdmin).toBe(false);
+  });
+});
+
+describe("the accounts page", () => {
+  async function post(userId: number, form: Record<string, string>) {
+    const request = await requestAs(userId, "/admin/users", { method: "POST", body: new URLSearchParams(form), headers: { Origin: ORIGIN, "Content-Type": "application/x-www-form-urlencoded" } });
+    return accountsPage.action({ request, params: {}, context: {} } as never);
+  }
+
+  it("is refused to anyone but a site admin (403), page and form alike", async () => {
+    const member = await makeUser("accounts-page-member");
+    const target = await makeUser("accounts-page-target");
+    const denied = (await thrown(async () => accountsPage.loader({ request: await requestAs(member.id, "/admin/users"), params: {}, context: {} } as never))) as Response;
+    expect(denied.status).toBe(403);
+    const refused = (await thrown(() => post(member.id, { intent: "disable", userId: String(target.id) }))) as Response;
+    expect(refused.status).toBe(403);
+    expect((await User.findByPk(target.id))?.disabledAt).toBeNull();
+  });
+
+  it("creates an account with no known password and a reset link for it; an address that has an account is refused", async () => {
+    const email = `created-${Date.now().toString(36)}@example.org`;
+    const before = await PasswordReset.count();
+    const answer = await post(admin.id, { intent: "create", name: "New Diver", email });
+    expect((answer as { notice?: string }).notice).toContain(email);
+    const created = await User.findOne({ where: { email } });
+    expect(created?.name).toBe("New Diver");
+    expect(await PasswordReset.count()).toBe(before + 1);
+    // No password is known before the link is used.
+    expect(await signInWithPassword(email, TEST_PASSWORD)).toBeInstanceOf(SignInError);
+    // The same address again is refused, beside the e-mail field.
+    const again = (await post(admin.id, { intent: "create", name: "Twice", email })) as unknown as { data: { errors: Record<string, string> } };
+    expect(again.data.errors.email).toContain("already has an account");
+    expect(await User.count({ where: { email } })).toBe(1);
+  });
+
+  it("sends an account a reset link, audited as the admin's", async () => {
+    const someone = await makeUser("accounts-reset");
+    await post(admin.id, { intent: "send-reset", userId: String(someone.id) });
+    const reset = await PasswordReset.findOne({ where: { userId: someone.id } });
+    expect(reset).not.toBeNull();
+    const audit = await AuditEvent.findAll({ where: { userId: admin.id, action: "account-password-reset-sent" } });
+    expect(audit.some((event) => (event.detail as { accountId?: number }).accountId === someone.id)).toBe(true);
   });
 });

@@ -34,6 +34,8 @@ export const AUDIT_ACTIONS = {
   accountDisabled: "account-disabled",
   accountEnabled: "account-enabled",
   accountProjectCreationChanged: "account-project-creation-changed",
+  accountPasswordResetSent: "account-password-reset-sent",
+  accountCreated: "account-created",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 
