@@ -29,6 +29,7 @@ function SiteHeader() {
         {user ? (
           <nav aria-label="Account" className="ml-auto flex items-center gap-4 text-sm">
             <Link className="underline-offset-2 hover:underline" to="/projects">Projects</Link>
+            {user.isSiteAdmin ? <Link className="underline-offset-2 hover:underline" to="/admin/users">Accounts</Link> : null}
             <Link className="underline-offset-2 hover:underline" to="/account">{user.name}</Link>
             <Form method="post" action="/logout">
               <button type="submit" className="rounded border border-line px-3 py-1 hover:bg-paper focus-visible:outline-2 focus-visible:outline-lagoon">Sign out</button>

@@ -6,10 +6,13 @@ import { type RouteConfig, index, route } from "@react-router/dev/routes";
 export default [
   index("routes/_index.tsx"),
   route("account", "routes/account.tsx"),
+  route("admin/users", "routes/admin.users.tsx"),
 
   // The JSON, CSV and GeoJSON API (one access helper, one body reader, one error shape:
   // app/lib/api); any other /api address answers the API's JSON 404.
   route("api/*", "routes/api.$.ts"),
+  route("api/admin/users", "routes/api.admin.users.ts"),
+  route("api/admin/users/:userId", "routes/api.admin.users.$userId.ts"),
   route("api/projects", "routes/api.projects.ts"),
   route("api/projects/:projectId", "routes/api.projects.$projectId.ts"),
   route("api/projects/:projectId/assignments", "routes/api.projects.$projectId.assignments.ts"),

@@ -9,6 +9,9 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare isSiteAdmin: CreationOptional<boolean>;
   /** A site admin allowed this user to create projects (they become the new project's manager). */
   declare mayCreateProjects: CreationOptional<boolean>;
+  /** Set while a site admin has disabled the account: no sign-in, no session, no API token. */
+  declare disabledAt: CreationOptional<Date | null>;
+  declare disabledById: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -22,6 +25,8 @@ export function initUser(sequelize: Sequelize) {
       passwordHash: { type: DataTypes.STRING(100), allowNull: false },
       isSiteAdmin: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       mayCreateProjects: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      disabledAt: { type: DataTypes.DATE, allowNull: true },
+      disabledById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

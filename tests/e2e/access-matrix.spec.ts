@@ -40,6 +40,8 @@ const MATRIX: Row[] = [
   row("GET", "", "/", "200 200 200 200 200 200 200 200 200"),
   row("GET", "account", "/account", "200 200 200 200 200 200 200 200 login"),
   row("POST", "account", "/account", "400 400 400 400 400 400 400 400 login", BOGUS_INTENT),
+  row("GET", "admin/users", "/admin/users", "403 403 403 403 403 403 403 200 login"),
+  row("POST", "admin/users", "/admin/users", "403 403 403 403 403 403 403 400 login", BOGUS_INTENT),
 
   // The API: JSON 401 when signed out, never a redirect.
   row("GET", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401"),
@@ -47,6 +49,9 @@ const MATRIX: Row[] = [
   row("PUT", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401", EMPTY_JSON),
   row("PATCH", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401", EMPTY_JSON),
   row("DELETE", "api/*", "/api/no-such-thing", "404 404 404 404 404 404 404 404 401"),
+  // Accounts: the site admin only ({} names no change: 422 before the id is looked up).
+  row("GET", "api/admin/users", "/api/admin/users", "403 403 403 403 403 403 403 200 401"),
+  row("PATCH", "api/admin/users/:userId", "/api/admin/users/999999999", "403 403 403 403 403 403 403 422 401", EMPTY_JSON),
   // Creating a project: a site admin (or a user allowed to); none of the demo's other accounts is.
   row("POST", "api/projects", "/api/projects", "403 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId", "/api/projects/{project}", "200 403 403 403 403 403 403 200 401"),

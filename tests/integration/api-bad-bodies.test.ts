@@ -6,12 +6,13 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import routeConfig from "../../app/routes";
-import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, Dive, DiveCell, DiveTeam, ImportJob, ShareLink, Sounding, Survey, SurveySnapshot } from "~/lib/db.server";
+import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, Dive, DiveCell, DiveTeam, ImportJob, ShareLink, SignInSession, Sounding, Survey, SurveySnapshot } from "~/lib/db.server";
 import { stagingDirectory } from "~/lib/import/stage-upload.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { createShareLink } from "~/models/share-links.server";
 import { DEMO_DIR, makeDemoSiteProject, postSurvey } from "./import-helpers";
-import { ORIGIN } from "./helpers";
+import { ORIGIN, makeUser, requestAs } from "./helpers";
+import { createApiToken } from "~/lib/auth/api-token.server";
 
 // Whatever a client sends, no /api route answers 5xx, and a refused request changes nothing: every
 // mutating API route gets empty, non-JSON, wrong-type, deeply nested and oversized bodies and must
@@ -33,11 +34,15 @@ interface MutatingRoute {
   /** For a route whose valid request has no body (revoking a link): where the empty bodies go, so they cannot succeed. */
   urlForEmptyBody?: () => string;
   paramsForEmptyBody?: () => Record<string, string>;
+  /** The caller's token when the route is not the manager's (the site admin's account routes). */
+  token?: () => string;
 }
 
 let site: Awaited<ReturnType<typeof makeDemoSiteProject>>;
 let surveyId: number;
 let liveToken: string;
+let adminToken: string;
+let accountId: number;
 const projectParams = () => ({ projectId: String(site.project.id) });
 const base = () => `/api/projects/${site.project.id}`;
 
@@ -46,8 +51,10 @@ const base = () => `/api/projects/${site.project.id}`;
 // AuditEvent; dives → Dive, DiveCell, AuditEvent; share-links → ShareLink, AuditEvent; surveys →
 // Survey, Sounding, CellResult, SurveySnapshot, ImportJob, ColumnMapping, AuditEvent and the
 // staging directory; projects → Project, Zone, Membership, AuditEvent; a project's settings →
-// Project, Zone, CellResult, SurveySnapshot, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
+// Project, Zone, CellResult, SurveySnapshot, AuditEvent; an account (the site admin) → User,
+// SignInSession, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
+  { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
   { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
   { route: "api/projects/:projectId", method: "PATCH", url: () => base(), params: projectParams },
   { route: "api/projects/:projectId/assignments", method: "POST", url: () => `${base()}/assignments`, params: projectParams },
@@ -62,6 +69,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/surveys/:surveyId", method: "DELETE", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
   { route: "api/projects/:projectId/surveys/:surveyId", method: "PATCH", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
   // GET-only routes: their action answers 405 to every body.
+  { route: "api/admin/users", method: "POST", url: () => "/api/admin/users", params: () => ({}), token: () => adminToken },
   { route: "api/projects/:projectId/bands", method: "POST", url: () => `${base()}/bands`, params: projectParams },
   { route: "api/projects/:projectId/cells", method: "POST", url: () => `${base()}/cells`, params: projectParams },
   { route: "api/projects/:projectId/cells/:label", method: "POST", url: () => `${base()}/cells/B7`, params: () => ({ ...projectParams(), label: "B7" }) },
@@ -155,6 +163,8 @@ async function snapshot() {
     projectRow: JSON.stringify((await Project.findByPk(projectId, { raw: true }))!),
     zones: await Zone.count(),
     memberships: await Membership.count(),
+    account: JSON.stringify((await User.findByPk(accountId, { raw: true }))!),
+    accountSessions: await SignInSession.count({ where: { userId: accountId, endedAt: null } }),
     stagedFiles: readdirSync(stagingDirectory(), { withFileTypes: true }).length,
   };
 }
@@ -186,6 +196,10 @@ beforeAll(async () => {
   expect(stored.status).toBe(201);
   surveyId = ((await stored.json()) as { id: number }).id;
   const manager = { id: site.users.manager } as never;
+  adminToken = (await createApiToken(await makeUser("bad-bodies-admin", { isSiteAdmin: true }), "tests")).token;
+  const account = await makeUser("bad-bodies-account");
+  accountId = account.id;
+  await requestAs(accountId, "/projects");
   liveToken = (await createShareLink(presentProject(site.project), manager, { name: "Live link", publicText: "" }, ORIGIN, null)).token;
 }, 60_000);
 
@@ -201,7 +215,7 @@ describe("bad bodies to every mutating API route", () => {
         const params = emptyElsewhere ? route.paramsForEmptyBody!() : route.params();
         const { body, headers = {}, duplex } = bad.init();
         const request = new Request(`${ORIGIN}${url}`, {
-          method: route.method, body, duplex, headers: { ...headers, Authorization: `Bearer ${site.tokens.manager}` },
+          method: route.method, body, duplex, headers: { ...headers, Authorization: `Bearer ${route.token?.() ?? site.tokens.manager}` },
         } as RequestInit);
         const response = await action!({ request, params, context: {} } as never);
         answers.push(`${bad.name}: ${response.status}`);

@@ -43,8 +43,8 @@ describe("migrations", () => {
     const migrated = await tables();
     const migratedColumns = await columns();
     for (const table of FOUNDATION_TABLES) expect(migrated).toContain(table);
-    // Project setup (0006): identity, time zone, datum; who may create projects.
-    for (const column of ["projects.agency", "projects.permitNumbers", "projects.timeZone", "projects.verticalDatum", "users.mayCreateProjects"]) {
+    // Project setup (0006): identity, time zone, datum; who may create projects. Disabling (0008).
+    for (const column of ["projects.agency", "projects.permitNumbers", "projects.timeZone", "projects.verticalDatum", "users.mayCreateProjects", "users.disabledAt", "users.disabledById"]) {
       expect(migratedColumns.some((entry) => entry.startsWith(`${column} `)), column).toBe(true);
     }
 

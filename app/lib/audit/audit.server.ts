@@ -31,6 +31,11 @@ export const AUDIT_ACTIONS = {
   shareLinkRevoked: "share-link-revoked",
   projectCreated: "project-created",
   projectSettingsChanged: "project-settings-changed",
+  accountDisabled: "account-disabled",
+  accountEnabled: "account-enabled",
+  accountProjectCreationChanged: "account-project-creation-changed",
+  accountPasswordResetSent: "account-password-reset-sent",
+  accountCreated: "account-created",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

@@ -14,7 +14,8 @@ import { currentSignInSession } from "./session.server";
 // 404 page), and the API calls requireApiAccess (app/lib/api), which answers in JSON.
 
 /**
- * The signed-in user, or null (a session for a deleted account counts as signed out). A request
+ * The signed-in user, or null (a session or token of a deleted or disabled account counts as
+ * signed out: getUserView refuses them). A request
  * with `Authorization: Bearer <personal API token>` is that token's user and nobody else: its
  * cookie is ignored, which is what lets the Origin check pass bearer requests. A token reaches the
  * `/api` routes only: on any other route (the account page, where tokens are made and revoked) it
@@ -42,7 +43,7 @@ export async function signedInUser(request: Request): Promise<UserView> {
     !hasBearer(request)
       ? "Sign in, or send a personal API token as Authorization: Bearer <token>."
       : isApiPath(new URL(request.url).pathname)
-        ? "The API token is unknown or has been revoked."
+        ? "The API token is unknown or has been revoked, or its account is disabled."
         : "Personal API tokens open the /api routes only; this page needs a signed-in session.",
   );
 }

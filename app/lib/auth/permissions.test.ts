@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { ACTIONS, allowedActions, can, canCreateProjects, type Action } from "./permissions";
+import { ACTIONS, allowedActions, can, canCreateProjects, canManageAccounts, type Action } from "./permissions";
 import { ROLES, type Role } from "./roles";
 
 // The expected table, written out by hand from the product's roles (DESIGN.md, "Who uses it"), not
@@ -36,5 +36,13 @@ describe("who may create projects", () => {
     expect(canCreateProjects({ isSiteAdmin: true, mayCreateProjects: false })).toBe(true);
     expect(canCreateProjects({ isSiteAdmin: false, mayCreateProjects: true })).toBe(true);
     expect(canCreateProjects({ isSiteAdmin: false, mayCreateProjects: false })).toBe(false);
+  });
+});
+
+describe("who may manage accounts", () => {
+  it("a site admin only; being allowed to create projects does not extend to accounts", () => {
+    expect(canManageAccounts({ isSiteAdmin: true })).toBe(true);
+    expect(canManageAccounts({ isSiteAdmin: false, mayCreateProjects: true } as { isSiteAdmin: boolean })).toBe(false);
+    expect(canManageAccounts({ isSiteAdmin: false })).toBe(false);
   });
 });

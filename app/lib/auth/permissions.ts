@@ -66,3 +66,8 @@ export function allowedActions(access: Access): Action[] {
 export function canCreateProjects(user: { isSiteAdmin: boolean; mayCreateProjects: boolean }): boolean {
   return user.isSiteAdmin || user.mayCreateProjects;
 }
+
+/** Managing accounts (listing them, disabling, allowing project creation) is the site admin's alone. */
+export function canManageAccounts(user: { isSiteAdmin: boolean }): boolean {
+  return user.isSiteAdmin;
+}

@@ -16,6 +16,8 @@ export class SignInError extends Error {
   }
 }
 
+export const ACCOUNT_DISABLED_MESSAGE = "This account is disabled; ask your site administrator.";
+
 export const signInSchema = z.object({
   email: z.string().trim().min(1, "Enter your e-mail address.").max(254).email("Enter an e-mail address like name@example.org."),
   password: z.string().min(1, "Enter your password.").max(200),
@@ -55,6 +57,11 @@ authenticator.use(
       else await recordAudit({ action: AUDIT_ACTIONS.signInFailed, ip, detail: { email } });
       const after = await signInLockout(email, ip);
       throw new SignInError(after ? after.message : "That e-mail and password do not match an account.", after ? null : "password");
+    }
+    // Said only after the right password, so the message reveals nothing to someone guessing.
+    if (user.disabledAt !== null) {
+      await auditForAccount(user.id, AUDIT_ACTIONS.signInFailed, ip, { email, reason: "account-disabled" });
+      throw new SignInError(ACCOUNT_DISABLED_MESSAGE);
     }
     await recordLoginAttempt(email, ip, true);
     await auditForAccount(user.id, AUDIT_ACTIONS.signIn, ip, {});

@@ -22,9 +22,13 @@ export async function findUserByEmail(email: string): Promise<User | null> {
   return User.findOne({ where: { email: normaliseEmail(email) } });
 }
 
+/**
+ * The user as a request acts for them, or null: a deleted or disabled account acts for nobody, so
+ * a session or API token of a disabled account stops the moment the account is disabled.
+ */
 export async function getUserView(userId: number): Promise<UserView | null> {
   const user = await User.findByPk(userId);
-  return user ? presentUser(user) : null;
+  return user && user.disabledAt === null ? presentUser(user) : null;
 }
 
 /** The acting user renames themself. */
