@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { request as playwrightRequest, type APIRequestContext, type APIResponse } from "@playwright/test";
-import routeConfig from "../../app/routes";
+import { configuredRoutes } from "../configured-routes";
 import { cellLabel } from "../../shared/grid/cell-grid";
 import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, type DemoAccount } from "./fixtures";
 
@@ -171,17 +171,6 @@ async function checkRow(context: APIRequestContext, entry: Row, column: Column, 
     const answer = (await response.json()) as { errors?: Array<{ message?: unknown }> };
     expect(typeof answer.errors?.[0]?.message, what).toBe("string");
   }
-}
-
-/** Every route in app/routes.ts: its full path and file (nested paths joined; an index route has its parent's path). */
-function configuredRoutes(): Array<{ path: string; file: string }> {
-  type Entry = { path?: string; index?: boolean; file: string; children?: Entry[] };
-  const walk = (entries: Entry[], parent: string): Array<{ path: string; file: string }> =>
-    entries.flatMap((entry) => {
-      const path = entry.index ? parent : [parent, entry.path].filter(Boolean).join("/");
-      return [{ path, file: entry.file }, ...walk(entry.children ?? [], path)];
-    });
-  return walk(routeConfig as Entry[], "");
 }
 
 /** The methods a route file answers, read from its source: apiRoute's handlers, or GET for a loader or page and POST for an action. */

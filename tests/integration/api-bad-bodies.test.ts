@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
-import routeConfig from "../../app/routes";
+import { configuredRoutes } from "../configured-routes";
 import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, Dive, DiveCell, DiveTeam, ImportJob, ShareLink, SignInSession, Sounding, Survey, SurveySnapshot } from "~/lib/db.server";
 import { stagingDirectory } from "~/lib/import/stage-upload.server";
 import { presentProject } from "~/lib/auth/project-view.server";
@@ -173,17 +173,6 @@ async function moduleOf(file: string): Promise<{ action?: Handler }> {
   return import(/* @vite-ignore */ `../../app/${file}`);
 }
 
-/** Every route in app/routes.ts with its full path (nested paths joined). */
-function allRoutes(): Array<{ path: string; file: string }> {
-  type Entry = { path?: string; index?: boolean; file: string; children?: Entry[] };
-  const walk = (entries: Entry[], parent: string): Array<{ path: string; file: string }> =>
-    entries.flatMap((entry) => {
-      const path = entry.index ? parent : [parent, entry.path].filter(Boolean).join("/");
-      return [{ path, file: entry.file }, ...walk(entry.children ?? [], path)];
-    });
-  return walk(routeConfig as Entry[], "");
-}
-
 beforeAll(async () => {
   site = await makeDemoSiteProject("bad-bodies");
   // So that POST /api/projects reads the bodies rather than refusing the caller.
@@ -206,7 +195,7 @@ beforeAll(async () => {
 describe("bad bodies to every mutating API route", () => {
   for (const route of ROUTES) {
     it(`${route.method} /${route.route}: 4xx for every bad body, nothing written`, async () => {
-      const { action } = await moduleOf(allRoutes().find((entry) => entry.path === route.route)!.file);
+      const { action } = await moduleOf(configuredRoutes().find((entry) => entry.path === route.route)!.file);
       const before = await snapshot();
       const answers: string[] = [];
       for (const bad of BAD_BODIES) {
@@ -233,7 +222,7 @@ describe("bad bodies to every mutating API route", () => {
 
   it("the list covers every /api route file with an action, and only those", async () => {
     const withAction: string[] = [];
-    for (const { path, file } of allRoutes().filter((entry) => entry.path.startsWith("api/"))) {
+    for (const { path, file } of configuredRoutes().filter((entry) => entry.path.startsWith("api/"))) {
       if (typeof (await moduleOf(file)).action === "function") withAction.push(path);
     }
     expect([...new Set(ROUTES.map((route) => route.route))].sort()).toEqual(withAction.sort());
