@@ -10,6 +10,7 @@ import { randomBytes } from "node:crypto";
 import { hashPassword } from "~/lib/auth/password.server";
 import { normaliseEmail } from "~/lib/auth/users.server";
 import { requestPasswordReset } from "~/models/password-reset.server";
+import { urlIdSchema } from "~/lib/http/url-id";
 
 /**
  * The site admin's account management: every account with its memberships, disabling and
@@ -116,8 +117,9 @@ export async function updateAccount(actingUser: UserView, userId: number, patch:
 
 /** An account id as a URL carries it (decimal digits, no leading zero), or a NotFoundError. */
 export function parseAccountId(raw: string | undefined): number {
-  if (!raw || !/^[1-9][0-9]{0,14}$/.test(raw)) throw new NotFoundError("There is no such account.");
-  return Number(raw);
+  const parsed = urlIdSchema.safeParse(raw);
+  if (!parsed.success) throw new NotFoundError("There is no such account.");
+  return parsed.data;
 }
 
 /** Sends the account a password-reset link (the same link "Forgot password" sends). */

@@ -10,6 +10,7 @@ import { canCreateProjects } from "~/lib/auth/permissions";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import { normaliseEmail, type UserView } from "~/lib/auth/users.server";
 import { getSequelize, LENGTH_UNITS, Membership, Project, Survey, User, Zone, type LengthUnit } from "~/lib/db.server";
+import { projectGrid } from "~/lib/engine/project-geometry.server";
 import { recomputeProjectStatistics } from "~/lib/engine/recompute.server";
 import { lengthUnitOfCrs, resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { isTimeZone } from "~/lib/import/import-options";
@@ -173,10 +174,21 @@ function checkGrid(grid: GridColumns, problems: ErrorDetail[]) {
   if (grid.maxEdge < grid.rasterResolution) problems.push({ field: "grid.maxEdge", message: "The longest triangle edge must be at least the raster resolution." });
 }
 
-function projectedLimit(crs: Crs, lonLatGeoJson: string | null): ProjectedMultiPolygon | null {
+/** The stored (lon/lat) work limit read again in the project's CRS; null when there is none. */
+function storedLimit(crs: Crs, lonLatGeoJson: string | null) {
   if (!lonLatGeoJson) return null;
   const parsed = parseWorkLimitGeoJson(JSON.parse(lonLatGeoJson), crs);
-  return parsed.ok ? parsed.projected : null;
+  return parsed.ok ? parsed : null;
+}
+
+function projectedLimit(crs: Crs, lonLatGeoJson: string | null): ProjectedMultiPolygon | null {
+  return storedLimit(crs, lonLatGeoJson)?.projected ?? null;
+}
+
+async function createZones(projectId: number, zones: ReturnType<typeof checkZones>, transaction: Transaction): Promise<void> {
+  for (const zone of zones) {
+    if (zone) await Zone.create({ projectId, name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
+  }
 }
 
 async function freeSlug(name: string, transaction: Transaction): Promise<string> {
@@ -245,9 +257,7 @@ export async function createProject(actor: UserView, input: NewProjectInput, opt
       },
       { transaction },
     );
-    for (const zone of zones) {
-      if (zone) await Zone.create({ projectId: project.id, name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
-    }
+    await createZones(project.id, zones, transaction);
     await Membership.create({ projectId: project.id, userId: manager?.id ?? actor.id, role: "manager" }, { transaction });
     const settings = await settingsOf(project, transaction);
     await recordAudit(
@@ -264,9 +274,9 @@ export async function createProject(actor: UserView, input: NewProjectInput, opt
 async function settingsOf(project: Project, transaction?: Transaction): Promise<ProjectSettings> {
   const resolved = resolveCrsDefinition(project.crs);
   const crs = createCrs(resolved.definition);
-  const limit = projectedLimit(crs, project.workLimitGeoJson);
+  const limit = storedLimit(crs, project.workLimitGeoJson);
+  const grid = projectGrid(project);
   const zones = await Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]], transaction });
-  const parsedLimit = limit && parseWorkLimitGeoJson(JSON.parse(project.workLimitGeoJson!), crs);
   return {
     id: project.id,
     name: project.name,
@@ -281,11 +291,11 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
     verticalDatum: project.verticalDatum,
     minTeamSize: project.minTeamSize,
     workLimit: project.workLimitGeoJson ? JSON.parse(project.workLimitGeoJson) : null,
-    workLimitArea: parsedLimit && parsedLimit.ok ? parsedLimit.area : null,
-    grid: { cellSize: project.cellSize, rotationDegrees: project.rotationDeg, originX: project.gridOriginE, originY: project.gridOriginN, rasterResolution: project.rasterResolution, maxEdge: project.maxEdge },
-    tolerances: { firmSand: project.tolerance, firmShare: project.firmShare, minCoverage: project.minCoverage },
+    workLimitArea: limit?.area ?? null,
+    grid: { cellSize: grid.cellSize, rotationDegrees: grid.rotationDegrees, originX: grid.originX, originY: grid.originY, rasterResolution: grid.rasterResolution, maxEdge: grid.maxEdge },
+    tolerances: { firmSand: grid.tolerance, firmShare: grid.firmShare, minCoverage: grid.minCoverage },
     zones: zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, geometry: JSON.parse(zone.polygonGeoJson) })),
-    cellCount: limit ? cellCount(createCellGrid(limit, { cellSize: project.cellSize, rotationDegrees: project.rotationDeg, originX: project.gridOriginE, originY: project.gridOriginN })) : null,
+    cellCount: limit ? cellCount(createCellGrid(limit.projected, grid)) : null,
     surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
   };
 }
@@ -313,8 +323,7 @@ export async function previewWorkLimit(project: ProjectView, geoJson: unknown) {
   const checked = checkCrs(row.crs, row.lengthUnit, problems);
   const limit = checked && checkGeometry("workLimit", "The work limit", geoJson, checked.crs, problems);
   if (!limit) throw new ValidationError(problems);
-  const grid = { cellSize: row.cellSize, rotationDegrees: row.rotationDeg, originX: row.gridOriginE, originY: row.gridOriginN };
-  return { lonLat: limit.lonLat, coordinates: limit.coordinates, area: limit.area, cellCount: cellCount(createCellGrid(limit.projected, grid)) };
+  return { lonLat: limit.lonLat, coordinates: limit.coordinates, area: limit.area, cellCount: cellCount(createCellGrid(limit.projected, projectGrid(row))) };
 }
 
 /** The cell count a grid change would give over the stored work limit (null without one). */
@@ -323,9 +332,10 @@ export async function prospectiveCellCount(project: ProjectView, grid: NonNullab
   if (!row) throw new NotFoundError("There is no such project.");
   const limit = projectedLimit(createCrs(resolveCrsDefinition(row.crs).definition), row.workLimitGeoJson);
   if (!limit) return null;
-  const cellSize = grid.cellSize ?? row.cellSize;
+  const stored = projectGrid(row);
+  const cellSize = grid.cellSize ?? stored.cellSize;
   if (!(cellSize > 0)) return null;
-  return cellCount(createCellGrid(limit, { cellSize, rotationDegrees: grid.rotationDegrees ?? row.rotationDeg, originX: grid.originX ?? row.gridOriginE, originY: grid.originY ?? row.gridOriginN }));
+  return cellCount(createCellGrid(limit, { cellSize, rotationDegrees: grid.rotationDegrees ?? stored.rotationDegrees, originX: grid.originX ?? stored.originX, originY: grid.originY ?? stored.originY }));
 }
 
 // ——— Changing.
@@ -382,9 +392,7 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
       await row.save({ transaction });
       if (zones) {
         await Zone.destroy({ where: { projectId: project.id }, transaction });
-        for (const zone of zones) {
-          if (zone) await Zone.create({ projectId: project.id, name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
-        }
+        await createZones(project.id, zones, transaction);
       }
       const recomputed = surveys > 0 && (figuresChange || zones !== null);
       if (recomputed) await recomputeProjectStatistics(project.id, transaction);

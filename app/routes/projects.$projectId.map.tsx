@@ -15,6 +15,7 @@ import { MapSettings } from "~/components/map/map-settings";
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { clientAddress } from "~/lib/http/client-address.server";
+import { declaresLargerForm, fileTooLargeMessage } from "~/lib/http/upload-size.server";
 import { DomainError } from "~/lib/errors";
 import { listDiveTeams } from "~/models/assignments.server";
 import { listSurveys } from "~/models/survey.server";
@@ -54,9 +55,8 @@ const refused = (message: string, status = 400) => data<MapSettingsResult>({ int
 // POST /projects/<id>/map — the manager's map settings: upload, replace or remove the shoreline.
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, project } = await requireRole(request, params.projectId, "map.configure");
-  const tooLarge = `The file is larger than ${SHORELINE_MAX_BYTES / 1024 / 1024} MB; simplify the shoreline first.`;
-  const length = Number(request.headers.get("Content-Length") ?? 0);
-  if (length > SHORELINE_MAX_BYTES + 64 * 1024) return refused(tooLarge, 413);
+  const tooLarge = fileTooLargeMessage(SHORELINE_MAX_BYTES, "simplify the shoreline first");
+  if (declaresLargerForm(request, SHORELINE_MAX_BYTES)) return refused(tooLarge, 413);
   const form = await request.formData();
   const intent = form.get("intent");
   if (intent === "remove") {

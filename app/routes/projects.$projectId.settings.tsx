@@ -8,7 +8,8 @@ import { WorkLimitOutline, type LonLatPolygons } from "~/components/work-limit-o
 import { requireRole } from "~/lib/auth/access.server";
 import { DomainError, validationErrorFrom } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
-import { parseForm, type FieldErrors } from "~/lib/http/form";
+import { declaresLargerForm, fileTooLargeMessage } from "~/lib/http/upload-size.server";
+import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
 import { getProjectSettings, LARGE_GRID_CELLS, previewWorkLimit, projectPatchSchema, prospectiveCellCount, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
 import { WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
 import type { Route } from "./+types/projects.$projectId.settings";
@@ -65,20 +66,13 @@ const answered = (result: ActionResult, status = 200) => data<ActionResult>(resu
 const failed = (intent: string, errors: FieldErrors, extra: Partial<ActionResult> = {}) => answered({ intent, errors, notice: null, ...extra }, 400);
 
 /** A service refusal's details as the page's field errors (a detail's last path segment is the input's name). */
-function fieldErrorsOf(error: DomainError): FieldErrors {
-  const errors: FieldErrors = {};
-  for (const detail of error.details) {
-    const key = detail.field?.split(".").pop() ?? "form";
-    errors[key] = errors[key] ? `${errors[key]} ${detail.message}` : detail.message;
-  }
-  return errors;
-}
+const fieldErrorsOf = (error: DomainError) => fieldErrorsFrom(error.details, (field) => field.split(".").pop()!);
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "project.configure");
   // Refused on its declared size before the form is read: a work limit is a small file.
-  if (Number(request.headers.get("Content-Length") ?? 0) > WORK_LIMIT_MAX_BYTES + 64 * 1024) {
-    return answered({ intent: "work-limit-preview", errors: { workLimit: `The file is larger than ${WORK_LIMIT_MAX_BYTES / 1024 / 1024} MB; simplify the outline first.` }, notice: null }, 413);
+  if (declaresLargerForm(request, WORK_LIMIT_MAX_BYTES)) {
+    return answered({ intent: "work-limit-preview", errors: { workLimit: fileTooLargeMessage(WORK_LIMIT_MAX_BYTES, "simplify the outline first") }, notice: null }, 413);
   }
   const parsed = parseForm(await request.formData(), actionSchema);
   if (!parsed.ok) return failed("invalid", parsed.errors);

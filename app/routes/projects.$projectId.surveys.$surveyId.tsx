@@ -9,6 +9,7 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { setSurveyStatus } from "~/lib/import/commit.server";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { getSurveyDetails, listSoundings, sampleSoundingPositions } from "~/models/survey.server";
+import { plotOf } from "../../shared/soundings/prepare";
 import type { Route } from "./+types/projects.$projectId.surveys.$surveyId";
 
 const idSchema = z.coerce.number().int().positive();
@@ -22,19 +23,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (!survey) throw new Response("There is no such survey in this project.", { status: 404, statusText: "Not Found" });
   const page = pageSchema.parse(new URL(request.url).searchParams.get("page") ?? 1);
   const [soundings, points, geometry] = await Promise.all([listSoundings(project, survey.id, page), sampleSoundingPositions(project, survey.id), loadProjectGeometry(project.id)]);
-  const rings = (geometry.workLimit ?? []).flatMap((polygon) => polygon);
-  const all = [...points, ...rings.flat()];
-  const bounds = {
-    minX: Math.min(...all.map((point) => point[0])), minY: Math.min(...all.map((point) => point[1])),
-    maxX: Math.max(...all.map((point) => point[0])), maxY: Math.max(...all.map((point) => point[1])),
-  };
   return {
     projectId: project.id,
     lengthUnit: project.lengthUnit,
     canRetract: can(access, "surveys.retract"),
     survey,
     soundings,
-    plot: all.length > 0 ? { bounds, workLimit: rings as Array<Array<[number, number]>>, points } : null,
+    plot: points.length > 0 || (geometry.workLimit?.length ?? 0) > 0 ? plotOf(points, geometry.workLimit) : null,
   };
 }
 

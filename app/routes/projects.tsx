@@ -10,7 +10,8 @@ import { canCreateProjects } from "~/lib/auth/permissions";
 import { ROLE_LABELS } from "~/lib/auth/roles";
 import { DomainError, validationErrorFrom } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
-import { parseForm, type FieldErrors } from "~/lib/http/form";
+import { declaresLargerForm, fileTooLargeMessage } from "~/lib/http/upload-size.server";
+import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
 import { listProjectsForUser } from "~/models/project.server";
 import { assertMayCreateProjects, createProject, newProjectSchema } from "~/models/project-setup.server";
 import { WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
@@ -40,15 +41,8 @@ const newProjectFormSchema = z.object({
   file: z.instanceof(File, { error: "Choose the work limit's GeoJSON file" }).refine((file) => file.size > 0, "Choose the work limit's GeoJSON file"),
 });
 
-/** A service refusal's details as the form's field errors (the detail's first path segment is the input's name). */
-function fieldErrorsOf(error: DomainError): FieldErrors {
-  const errors: FieldErrors = {};
-  for (const detail of error.details) {
-    const key = detail.field === "workLimit" ? "file" : (detail.field?.split(".")[0] ?? "form");
-    errors[key] = errors[key] ? `${errors[key]} ${detail.message}` : detail.message;
-  }
-  return errors;
-}
+/** A service refusal's details as the form's field errors (the detail's first path segment is the input's name; the work limit is the file input). */
+const fieldErrorsOf = (error: DomainError) => fieldErrorsFrom(error.details, (field) => (field === "workLimit" ? "file" : field.split(".")[0]));
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
@@ -58,8 +52,8 @@ export async function action({ request }: Route.ActionArgs) {
     throw new Response((error as Error).message, { status: 403, statusText: "Forbidden" });
   }
   // Refused on its declared size before the form is read: a work limit is a small file.
-  if (Number(request.headers.get("Content-Length") ?? 0) > WORK_LIMIT_MAX_BYTES + 64 * 1024) {
-    return data({ errors: { file: `The file is larger than ${WORK_LIMIT_MAX_BYTES / 1024 / 1024} MB; simplify the outline first.` } as FieldErrors }, { status: 413 });
+  if (declaresLargerForm(request, WORK_LIMIT_MAX_BYTES)) {
+    return data({ errors: { file: fileTooLargeMessage(WORK_LIMIT_MAX_BYTES, "simplify the outline first") } as FieldErrors }, { status: 413 });
   }
   const parsed = parseForm(await request.formData(), newProjectFormSchema);
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });

@@ -363,7 +363,12 @@ function soundingPlot(geometry: SoundingGeometry, easting: Float64Array, northin
   const step = Math.max(1, Math.ceil(easting.length / 4000));
   const points: Array<[number, number]> = [];
   for (let index = 0; index < easting.length; index += step) points.push([easting[index], northing[index]]);
-  const rings = (geometry.workLimit ?? []).flatMap((polygon) => polygon.map((ring) => ring.map(([x, y]) => [x, y] as [number, number])));
+  return plotOf(points, geometry.workLimit);
+}
+
+/** A plot of sample points (project coordinates) with the work limit's rings, framed around both. */
+export function plotOf(points: Array<[number, number]>, workLimit: ProjectedMultiPolygon | null): SoundingPlot {
+  const rings = (workLimit ?? []).flatMap((polygon) => polygon.map((ring) => ring.map(([x, y]) => [x, y] as [number, number])));
   const bounds = { minX: Infinity, minY: Infinity, maxX: -Infinity, maxY: -Infinity };
   for (const [x, y] of [...points, ...rings.flat()]) {
     bounds.minX = Math.min(bounds.minX, x);

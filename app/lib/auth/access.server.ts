@@ -1,5 +1,4 @@
 import { redirect } from "react-router";
-import { z } from "zod";
 import { Membership, type Role } from "~/lib/db.server";
 import { ForbiddenError, NotFoundError, NotSignedInError } from "~/lib/errors";
 import { can, type Access, type Action } from "~/lib/auth/permissions";
@@ -8,6 +7,7 @@ import { getUserView, type UserView } from "~/lib/auth/users.server";
 import { apiErrorResponse } from "../api/errors.server";
 import { hasBearer, userIdForBearer } from "./api-token.server";
 import { currentSignInSession } from "./session.server";
+import { urlIdSchema } from "../http/url-id";
 
 // The one place that decides access. The core (signedInUser, projectAccess) throws typed errors;
 // pages call requireUser / requireRole, which answer as pages do (a redirect to sign in, a 403 or
@@ -48,15 +48,6 @@ export async function signedInUser(request: Request): Promise<UserView> {
   );
 }
 
-/**
- * A project id as a URL carries it: decimal digits only, no sign, point, space, leading zero or
- * `0x` (Number() would read `0x1`, `1.0` and ` 1` as 1, so one project would answer at many URLs).
- */
-export const projectIdSchema = z.union([
-  z.number().int().positive().max(Number.MAX_SAFE_INTEGER),
-  z.string().regex(/^[1-9][0-9]{0,14}$/).transform(Number),
-]);
-
 export interface ProjectAccess extends Access {
   user: UserView;
   project: ProjectView;
@@ -72,7 +63,7 @@ export interface ProjectAccess extends Access {
  */
 export async function projectAccess(request: Request, projectId: string | number | undefined, action: Action = "project.read", refused = "page"): Promise<ProjectAccess> {
   const user = await signedInUser(request);
-  const parsedId = projectIdSchema.safeParse(projectId);
+  const parsedId = urlIdSchema.safeParse(projectId);
   if (!parsedId.success) throw new NotFoundError("There is no such project.");
   const project = await findProject(parsedId.data);
   if (!project) throw new NotFoundError("There is no such project.");

@@ -1,5 +1,6 @@
 // Form parsing and the field rules shared by several forms (client-safe: no server imports).
 import { z } from "zod";
+import type { ErrorDetail } from "../errors";
 
 // bcrypt reads at most 72 bytes of a password, so longer ones are refused rather than cut.
 export const PASSWORD_MIN_LENGTH = 10;
@@ -19,6 +20,19 @@ export function parseForm<Schema extends z.ZodType>(formData: FormData, schema: 
     errors[key] ??= issue.message;
   }
   return { ok: false, errors };
+}
+
+/**
+ * A service's refusal (its ErrorDetail list) as a form's field errors: `inputOf` names the form
+ * input a detail's field belongs to; details without a field, and several on one input, are joined.
+ */
+export function fieldErrorsFrom(details: readonly ErrorDetail[], inputOf: (field: string) => string): FieldErrors {
+  const errors: FieldErrors = {};
+  for (const detail of details) {
+    const key = detail.field ? inputOf(detail.field) : "form";
+    errors[key] = errors[key] ? `${errors[key]} ${detail.message}` : detail.message;
+  }
+  return errors;
 }
 
 export const newPasswordSchema = z

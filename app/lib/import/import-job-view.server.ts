@@ -2,7 +2,7 @@ import type { ImportPreview } from "../../../shared/soundings/prepare";
 import type { ProjectAccess } from "~/lib/auth/access.server";
 import { ImportJob } from "~/lib/db.server";
 import { can } from "~/lib/auth/permissions";
-import { markCutOffCommits } from "./abandoned-uploads.server";
+import { CUT_OFF_COMMIT_MS, markCutOffCommits } from "./abandoned-uploads.server";
 import { commitChoicesSchema, importOptionsSchema, type CommitChoices, type ImportOptions } from "./import-options";
 
 /**
@@ -14,7 +14,9 @@ export async function findImportJob(access: ProjectAccess, jobId: number): Promi
   const job = await ImportJob.findOne({ where: { id: jobId, projectId: access.project.id } });
   if (!job) return null;
   if (job.userId !== access.user.id && !can(access, "surveys.import.others")) return null;
-  if (job.state === "committing" && (await markCutOffCommits({ id: job.id })) === 1) await job.reload();
+  // Only a job already silent past the cut-off is worth the conditional UPDATE (the page polls often).
+  const silent = job.state === "committing" && Date.now() - job.updatedAt.getTime() > CUT_OFF_COMMIT_MS;
+  if (silent && (await markCutOffCommits({ id: job.id })) === 1) await job.reload();
   return job;
 }
 
