@@ -61,6 +61,10 @@ describe("defaults and labels", () => {
     expect(unitLabel("m", "area")).toBe("m²");
     // The one set of words for messages and pages: the survey foot named in full, the international foot plain.
     expect(["us-ft", "ft", "m"].map((unit) => unitLabel(unit as "us-ft", "length-long"))).toEqual(["US survey feet", "feet", "metres"]);
+    // A picker tells the two feet apart, and names the volume unit that follows (NIST SP 811).
+    expect(["us-ft", "ft", "m"].map((unit) => unitLabel(unit as "us-ft", "length-choice"))).toEqual(["US survey feet", "international feet", "metres"]);
+    expect(unitLabel("us-ft", "volume-long")).toBe("cubic yards");
+    expect(unitLabel("m", "volume-long")).toBe("cubic metres");
   });
   it("validates a unit at the boundary", () => {
     expect(lengthUnitSchema.parse("us-ft")).toBe("us-ft");

@@ -97,22 +97,30 @@ const LENGTH_LABELS: Record<LengthUnit, { short: string; long: string }> = {
   m: { short: "m", long: "metres" },
 };
 
+/** The names a unit picker offers: the two feet told apart. */
+const LENGTH_CHOICES: Record<LengthUnit, string> = { "us-ft": "US survey feet", ft: "international feet", m: "metres" };
+const VOLUME_NAMES: Record<VolumeUnit, string> = { yd3: "cubic yards", m3: "cubic metres" };
+
 const AREA_LABELS: Record<LengthUnit, string> = { "us-ft": "ft²", ft: "ft²", m: "m²" };
 const VOLUME_LABELS: Record<VolumeUnit, string> = { yd3: "yd³", m3: "m³" };
 
 /** Labels for display: `unitLabel("us-ft")` → "ftUS"; `unitLabel("m", "volume")` → "m³". */
 export function unitLabel(
   unit: LengthUnit,
-  kind: "length" | "length-long" | "area" | "volume" = "length",
+  kind: "length" | "length-long" | "length-choice" | "area" | "volume" | "volume-long" = "length",
 ): string {
   switch (kind) {
     case "length":
       return LENGTH_LABELS[unit].short;
     case "length-long":
       return LENGTH_LABELS[unit].long;
+    case "length-choice":
+      return LENGTH_CHOICES[unit];
     case "area":
       return AREA_LABELS[unit];
     case "volume":
       return VOLUME_LABELS[volumeUnitFor(unit)];
+    case "volume-long":
+      return VOLUME_NAMES[volumeUnitFor(unit)];
   }
 }

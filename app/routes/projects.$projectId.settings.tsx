@@ -5,6 +5,7 @@ import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { WorkLimitOutline, type LonLatPolygons } from "~/components/work-limit-outline";
+import { LengthUnitOptions } from "~/components/length-unit-options";
 import { requireRole } from "~/lib/auth/access.server";
 import { DomainError, validationErrorFrom } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
@@ -131,7 +132,6 @@ export function meta({}: Route.MetaArgs) {
 }
 
 const inputClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py-2 focus:outline-2 focus:outline-offset-1 focus:outline-lagoon aria-invalid:border-danger";
-const UNIT_LABELS: Record<(typeof lengthUnitSchema.options)[number], string> = { "us-ft": "US survey feet (volumes in cubic yards)", ft: "international feet (volumes in cubic yards)", m: "metres (volumes in cubic metres)" };
 
 function Section({ id, title, children }: { id: string; title: string; children: React.ReactNode }) {
   return (
@@ -186,7 +186,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           <div>
             <label htmlFor="length-unit" className="block text-sm font-medium">Length unit</label>
             <select id="length-unit" name="lengthUnit" defaultValue={settings.lengthUnit} className={inputClass} aria-invalid={coordinateErrors.lengthUnit ? true : undefined}>
-              {lengthUnitSchema.options.map((value) => <option key={value} value={value}>{UNIT_LABELS[value]}</option>)}
+              <LengthUnitOptions withVolume />
             </select>
             {coordinateErrors.lengthUnit ? <p className="mt-1 text-sm text-danger">{coordinateErrors.lengthUnit}</p> : null}
           </div>

@@ -1,6 +1,7 @@
 import { useRef, useState } from "react";
 import { Form, data, redirect, useNavigation } from "react-router";
 import { FormMessage } from "~/components/form-message";
+import { LengthUnitOptions } from "~/components/length-unit-options";
 import { requireRole } from "~/lib/auth/access.server";
 import { DEFAULT_TIME_ZONE, receivePageUpload } from "~/lib/import/page-upload.server";
 import type { Route } from "./+types/projects.$projectId.surveys.new";
@@ -153,9 +154,7 @@ export default function UploadSurvey({ loaderData, actionData }: Route.Component
           <div>
             <label htmlFor="lengthUnit" className="block text-sm font-medium">Unit of depths in the file</label>
             <select id="lengthUnit" name="lengthUnit" defaultValue={loaderData.lengthUnit} className={fieldClass}>
-              <option value="us-ft">US survey feet</option>
-              <option value="ft">International feet</option>
-              <option value="m">Metres</option>
+              <LengthUnitOptions />
             </select>
           </div>
         </fieldset>

@@ -5,6 +5,7 @@ import { ActionMessages } from "~/components/form-message";
 import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
+import { LengthUnitOptions } from "~/components/length-unit-options";
 import { requireUser } from "~/lib/auth/access.server";
 import { canCreateProjects } from "~/lib/auth/permissions";
 import { ROLE_LABELS } from "~/lib/auth/roles";
@@ -94,9 +95,7 @@ function NewProjectForm({ errors }: { errors: FieldErrors }) {
         <div>
           <label htmlFor="new-length-unit" className="block text-sm font-medium">Length unit</label>
           <select id="new-length-unit" name="lengthUnit" className={inputClass} aria-invalid={errors.lengthUnit ? true : undefined}>
-            <option value="us-ft">US survey feet</option>
-            <option value="ft">international feet</option>
-            <option value="m">metres</option>
+            <LengthUnitOptions />
           </select>
           {errors.lengthUnit ? <p className="mt-1 text-sm text-danger">{errors.lengthUnit}</p> : null}
         </div>
