@@ -1,3 +1,4 @@
+import { unitLabel } from "../../shared/units";
 import { useRef, useState } from "react";
 import { Form, data, redirect, useNavigation } from "react-router";
 import { FormMessage } from "~/components/form-message";
@@ -133,7 +134,7 @@ export default function UploadSurvey({ loaderData, actionData }: Route.Component
           </label>
           <div className="grid gap-4 sm:grid-cols-2">
             <div>
-              <label htmlFor="waterSurfaceElevation" className="block text-sm font-medium">Water-surface elevation ({loaderData.lengthUnit})</label>
+              <label htmlFor="waterSurfaceElevation" className="block text-sm font-medium">Water-surface elevation ({unitLabel(loaderData.lengthUnit)})</label>
               <input id="waterSurfaceElevation" name="waterSurfaceElevation" inputMode="decimal" required={!hasElevations} disabled={hasElevations} className={fieldClass} aria-describedby="wse-hint" />
               <p id="wse-hint" className="mt-1 text-sm text-muted">Read at the staff gauge on the survey day; elevation = water surface − depth.</p>
             </div>
