@@ -46,6 +46,12 @@ export class NotSignedInError extends DomainError {}
 /** The person is known but the permission table does not let their role do this. */
 export class ForbiddenError extends DomainError {}
 
+/** The request cannot be read: a body that is not what its Content-Type says, a query string that is not what the route asks. */
+export class BadRequestError extends DomainError {}
+
+/** The body is larger than the route accepts (refused on its declared length, or cut off at the limit). */
+export class PayloadTooLargeError extends DomainError {}
+
 /** A zod failure's issues as details, each named by its path (none for the input as a whole). */
 export function detailsOf(error: z.ZodError): ErrorDetail[] {
   return error.issues.map((issue) => {

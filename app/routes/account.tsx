@@ -15,6 +15,7 @@ import { changeOwnPassword, updateOwnName } from "~/lib/auth/users.server";
 import { currentSignInSession, endSessions, listSessions } from "~/lib/auth/session.server";
 import { createApiToken, listApiTokens, revokeApiToken } from "~/lib/auth/api-token.server";
 import type { Route } from "./+types/account";
+import { readPageForm } from "~/lib/http/body.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
@@ -35,7 +36,7 @@ type ActionResult = { intent: string; errors: Record<string, string>; notice: st
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const formData = await request.formData();
+  const formData = await readPageForm(request);
   const intent = String(formData.get("intent") ?? "");
   const parsed = parseForm(formData, schema);
   if (!parsed.ok) return data({ intent, errors: parsed.errors, notice: null }, { status: 400 });

@@ -13,6 +13,7 @@ import { emailSchema, parseForm, personNameSchema } from "~/lib/http/form";
 import { appOrigin } from "~/lib/http/origin.server";
 import { createAccount, listAccounts, sendAccountPasswordReset, updateAccount } from "~/models/accounts.server";
 import type { Route } from "./+types/admin.users";
+import { readPageForm } from "~/lib/http/body.server";
 
 // Every account (the site admin): disable or re-enable, allow or stop project creation, send a
 // password-reset link, create an account that chooses its password through such a link.
@@ -35,7 +36,7 @@ const actionSchema = z.discriminatedUnion("intent", [
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireSiteAdmin(request);
-  const parsed = parseForm(await request.formData(), actionSchema);
+  const parsed = parseForm(await readPageForm(request), actionSchema);
   if (!parsed.ok) return data({ intent: "invalid", errors: parsed.errors, notice: null }, { status: 400 });
   const ip = clientAddress(request);
   const input = parsed.data;

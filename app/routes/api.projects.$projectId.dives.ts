@@ -2,7 +2,7 @@ import { z } from "zod";
 import { NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE } from "../../shared/no-decompression";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
-import { BadRequestError } from "~/lib/api/errors.server";
+import { BadRequestError } from "~/lib/errors";
 import { apiRoute } from "~/lib/api/route.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { workDateSchema } from "~/models/assignments.server";

@@ -1,6 +1,6 @@
 import { requireApiAccess } from "~/lib/api/access.server";
 import { assertMediaType } from "~/lib/api/body.server";
-import { BadRequestError, PayloadTooLargeError } from "~/lib/api/errors.server";
+import { BadRequestError, PayloadTooLargeError } from "~/lib/errors";
 import { apiRoute } from "~/lib/api/route.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { ValidationError, type ErrorDetail } from "~/lib/errors";

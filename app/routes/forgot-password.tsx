@@ -9,6 +9,7 @@ import { emailSchema, parseForm } from "~/lib/http/form";
 import { appOrigin } from "~/lib/http/origin.server";
 import { requestPasswordReset } from "~/models/password-reset.server";
 import type { Route } from "./+types/forgot-password";
+import { readPageForm } from "~/lib/http/body.server";
 
 // Public: anyone may ask; the answer is the same whether or not the address has an account.
 export async function loader({}: Route.LoaderArgs) {
@@ -18,7 +19,7 @@ export async function loader({}: Route.LoaderArgs) {
 const schema = z.object({ email: emailSchema });
 
 export async function action({ request }: Route.ActionArgs) {
-  const parsed = parseForm(await request.formData(), schema);
+  const parsed = parseForm(await readPageForm(request), schema);
   if (!parsed.ok) return data({ errors: parsed.errors, sent: false }, { status: 400 });
   await requestPasswordReset(parsed.data.email, appOrigin(), clientAddress(request));
   return { errors: {} as Record<string, string>, sent: true };

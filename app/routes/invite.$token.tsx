@@ -10,6 +10,7 @@ import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/http/form"
 import { signIn } from "~/lib/auth/session.server";
 import { acceptInvitation, lookUpInvitation } from "~/models/invitation.server";
 import type { Route } from "./+types/invite.$token";
+import { readPageForm } from "~/lib/http/body.server";
 
 // Open to anyone holding the link: the token itself is the credential.
 const CLOSED_MESSAGES = {
@@ -37,7 +38,7 @@ const existingAccountSchema = z.object({ password: z.string().min(1, "Enter your
 export async function action({ request, params }: Route.ActionArgs) {
   const lookup = await lookUpInvitation(params.token);
   if (lookup.status !== "open") return data({ errors: { form: CLOSED_MESSAGES[lookup.status] } as Record<string, string> }, { status: 410 });
-  const formData = await request.formData();
+  const formData = await readPageForm(request);
   const parsed = lookup.invitation.hasAccount
     ? parseForm(formData, existingAccountSchema.transform((value) => ({ ...value, name: "" })))
     : parseForm(formData, newAccountSchema);

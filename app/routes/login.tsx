@@ -9,6 +9,7 @@ import { demoAccounts } from "~/lib/auth/demo-accounts.server";
 import { getEnv } from "~/lib/settings/env.server";
 import { safeNext, signIn } from "~/lib/auth/session.server";
 import type { Route } from "./+types/login";
+import { readPageForm, requestWithForm } from "~/lib/http/body.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const next = safeNext(new URL(request.url).searchParams.get("next"));
@@ -17,10 +18,11 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const form = await request.clone().formData();
+  const form = await readPageForm(request);
   const next = safeNext(form.get("next"));
   try {
-    const user = await authenticator.authenticate("form", request);
+    // The strategy reads the body itself: it gets the form already read within its limit.
+    const user = await authenticator.authenticate("form", requestWithForm(request, form));
     return signIn(request, user.id, next);
   } catch (error) {
     if (error instanceof SignInError) {

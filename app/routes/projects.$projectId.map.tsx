@@ -15,7 +15,8 @@ import { MapSettings } from "~/components/map/map-settings";
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { clientAddress } from "~/lib/http/client-address.server";
-import { declaresLargerForm, fileTooLargeMessage } from "~/lib/http/upload-size.server";
+import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
+import { readFileForm } from "~/lib/http/body.server";
 import { DomainError } from "~/lib/errors";
 import { listDiveTeams } from "~/models/assignments.server";
 import { listSurveys } from "~/models/survey.server";
@@ -56,8 +57,8 @@ const refused = (message: string, status = 400) => data<MapSettingsResult>({ int
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, project } = await requireRole(request, params.projectId, "map.configure");
   const tooLarge = fileTooLargeMessage(SHORELINE_MAX_BYTES, "simplify the shoreline first");
-  if (declaresLargerForm(request, SHORELINE_MAX_BYTES)) return refused(tooLarge, 413);
-  const form = await request.formData();
+  const form = await readFileForm(request, SHORELINE_MAX_BYTES);
+  if (!form) return refused(tooLarge, 413);
   const intent = form.get("intent");
   if (intent === "remove") {
     const removed = await removeShoreline(project, user, clientAddress(request));

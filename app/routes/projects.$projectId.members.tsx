@@ -13,6 +13,7 @@ import { appOrigin } from "~/lib/http/origin.server";
 import { createInvitation, listOpenInvitations, revokeInvitation } from "~/models/invitation.server";
 import { changeMemberRole, listMembers, removeMember } from "~/models/membership.server";
 import type { Route } from "./+types/projects.$projectId.members";
+import { readPageForm } from "~/lib/http/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, user } = await requireRole(request, params.projectId, "members.manage");
@@ -30,7 +31,7 @@ const actionSchema = z.discriminatedUnion("intent", [
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "members.manage");
-  const parsed = parseForm(await request.formData(), actionSchema);
+  const parsed = parseForm(await readPageForm(request), actionSchema);
   if (!parsed.ok) return data({ intent: "invalid", errors: parsed.errors, notice: null }, { status: 400 });
   const ip = clientAddress(request);
   const input = parsed.data;

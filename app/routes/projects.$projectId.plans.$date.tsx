@@ -9,6 +9,7 @@ import { DomainError } from "~/lib/errors";
 import { emailDayPlan, getDayPlan, workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listDivesOn, recordDive, type DiveView } from "~/models/dives.server";
 import type { Route } from "./+types/projects.$projectId.plans.$date";
+import { readPageForm } from "~/lib/http/body.server";
 
 function parseDate(value: string | undefined): string {
   const parsed = workDateSchema.safeParse(value);
@@ -40,7 +41,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const access = await requireRole(request, params.projectId, "plans.assign");
   const { user, project } = access;
   const date = parseDate(params.date);
-  const formData = await request.formData();
+  const formData = await readPageForm(request);
   const form = actionSchema.safeParse({ intent: formData.get("intent") });
   if (!form.success) return refused({ intent: "email", sentTo: [], error: "Unknown request." });
   requireAllowed(access, form.data.intent === "dive" ? "dives.log" : "plans.assign");

@@ -9,7 +9,8 @@ import { LengthUnitOptions } from "~/components/length-unit-options";
 import { requireRole } from "~/lib/auth/access.server";
 import { DomainError, validationErrorFrom } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
-import { declaresLargerForm, fileTooLargeMessage } from "~/lib/http/upload-size.server";
+import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
+import { readFileForm } from "~/lib/http/body.server";
 import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
 import { getProjectSettings, LARGE_GRID_CELLS, previewWorkLimit, projectPatchSchema, prospectiveCellCount, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
 import { WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
@@ -71,11 +72,12 @@ const fieldErrorsOf = (error: DomainError) => fieldErrorsFrom(error.details, (fi
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "project.configure");
-  // Refused on its declared size before the form is read: a work limit is a small file.
-  if (declaresLargerForm(request, WORK_LIMIT_MAX_BYTES)) {
+  // Every section's form is read within the largest one's limit: the work limit is a small file.
+  const form = await readFileForm(request, WORK_LIMIT_MAX_BYTES);
+  if (!form) {
     return answered({ intent: "work-limit-preview", errors: { workLimit: fileTooLargeMessage(WORK_LIMIT_MAX_BYTES, "simplify the outline first") }, notice: null }, 413);
   }
-  const parsed = parseForm(await request.formData(), actionSchema);
+  const parsed = parseForm(form, actionSchema);
   if (!parsed.ok) return failed("invalid", parsed.errors);
   const input = parsed.data;
   const ip = clientAddress(request);

@@ -10,6 +10,7 @@ import { parseForm } from "~/lib/http/form";
 import { appOrigin } from "~/lib/http/origin.server";
 import { createShareLink, listShareLinks, revokeShareLink, shareLinkFormSchema, updateShareLink } from "~/models/share-links.server";
 import type { Route } from "./+types/projects.$projectId.share";
+import { readPageForm } from "~/lib/http/body.server";
 
 // Outreach staff (and the manager) publish the public progress page: create a named link with a
 // short public text, edit the text, revoke the link. The token is shown once, right after creation.
@@ -28,7 +29,7 @@ const actionSchema = z.discriminatedUnion("intent", [
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "share-links.manage");
-  const parsed = parseForm(await request.formData(), actionSchema);
+  const parsed = parseForm(await readPageForm(request), actionSchema);
   if (!parsed.ok) return data({ intent: "invalid", errors: parsed.errors, notice: null, created: null }, { status: 400 });
   const input = parsed.data;
   const ip = clientAddress(request);

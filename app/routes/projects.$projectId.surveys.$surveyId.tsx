@@ -11,6 +11,7 @@ import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { getSurveyDetails, listSoundings, sampleSoundingPositions } from "~/models/survey.server";
 import { plotOf } from "../../shared/soundings/prepare";
 import type { Route } from "./+types/projects.$projectId.surveys.$surveyId";
+import { readPageForm } from "~/lib/http/body.server";
 
 const idSchema = z.coerce.number().int().positive();
 const pageSchema = z.coerce.number().int().positive().catch(1);
@@ -42,7 +43,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "surveys.retract");
   const surveyId = idSchema.safeParse(params.surveyId);
   if (!surveyId.success) throw new Response("There is no such survey in this project.", { status: 404 });
-  const parsed = statusSchema.safeParse(Object.fromEntries(await request.formData()));
+  const parsed = statusSchema.safeParse(Object.fromEntries(await readPageForm(request)));
   if (!parsed.success) return data({ error: parsed.error.issues[0]?.message ?? "Check the form." }, { status: 400 });
   const survey = await setSurveyStatus({
     projectId: project.id,

@@ -13,6 +13,7 @@ import { discardImportJob, ImportJobClosed, previewImportJob, startImportJobComm
 import { soundingFields } from "../../shared/soundings/parse-csv";
 import { unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.surveys.imports.$jobId";
+import { readPageForm } from "~/lib/http/body.server";
 
 const FIELD_LABELS: Record<(typeof soundingFields)[number], string> = {
   easting: "Easting (or longitude)",
@@ -59,7 +60,7 @@ function mappingFromForm(form: FormData): Record<string, string | null> {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, job } = await loadJob(request, params);
-  const form = await request.formData();
+  const form = await readPageForm(request);
   const intent = form.get("intent");
   if (intent === "discard") {
     if ((await discardImportJob(job)) === "in use") return data({ error: "This upload is being checked or imported right now, so it cannot be discarded." }, { status: 409 });

@@ -11,7 +11,8 @@ import { canCreateProjects } from "~/lib/auth/permissions";
 import { ROLE_LABELS } from "~/lib/auth/roles";
 import { DomainError, validationErrorFrom } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
-import { declaresLargerForm, fileTooLargeMessage } from "~/lib/http/upload-size.server";
+import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
+import { readFileForm } from "~/lib/http/body.server";
 import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
 import { listProjectsForUser } from "~/models/project.server";
 import { assertMayCreateProjects, createProject, newProjectSchema } from "~/models/project-setup.server";
@@ -52,11 +53,10 @@ export async function action({ request }: Route.ActionArgs) {
   } catch (error) {
     throw new Response((error as Error).message, { status: 403, statusText: "Forbidden" });
   }
-  // Refused on its declared size before the form is read: a work limit is a small file.
-  if (declaresLargerForm(request, WORK_LIMIT_MAX_BYTES)) {
-    return data({ errors: { file: fileTooLargeMessage(WORK_LIMIT_MAX_BYTES, "simplify the outline first") } as FieldErrors }, { status: 413 });
-  }
-  const parsed = parseForm(await request.formData(), newProjectFormSchema);
+  // Read within a work limit's size (a small file); a larger body is refused as it arrives.
+  const form = await readFileForm(request, WORK_LIMIT_MAX_BYTES);
+  if (!form) return data({ errors: { file: fileTooLargeMessage(WORK_LIMIT_MAX_BYTES, "simplify the outline first") } as FieldErrors }, { status: 413 });
+  const parsed = parseForm(form, newProjectFormSchema);
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
   const { file, ...fields } = parsed.data;
   let workLimit: unknown;

@@ -8,6 +8,7 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { newPasswordSchema, parseForm } from "~/lib/http/form";
 import { lookUpPasswordReset, resetPassword } from "~/models/password-reset.server";
 import type { Route } from "./+types/reset-password.$token";
+import { readPageForm } from "~/lib/http/body.server";
 
 // Open to anyone holding the link: the token itself is the credential.
 const CLOSED_MESSAGES = {
@@ -26,7 +27,7 @@ const schema = z
   .refine((value) => value.password === value.confirm, { path: ["confirm"], message: "The two passwords differ." });
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const parsed = parseForm(await request.formData(), schema);
+  const parsed = parseForm(await readPageForm(request), schema);
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
   const result = await resetPassword(params.token, parsed.data.password, clientAddress(request));
   if (!result.ok) return data({ errors: { form: CLOSED_MESSAGES[result.reason] } as Record<string, string> }, { status: 410 });

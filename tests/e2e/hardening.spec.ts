@@ -1,3 +1,4 @@
+import { request as httpRequest } from "node:http";
 import { test, expect, demoProjectId } from "./fixtures";
 
 // Issue 12 ("Hardening"), the items seen from outside the production server.
@@ -26,5 +27,40 @@ test.describe("hardening 12: standard response headers", () => {
     expect(share.headers()["content-security-policy"]).toBe("frame-ancestors *");
     // The share page's own stricter policy comes last, and the last policy a browser knows wins.
     expect(share.headers()["referrer-policy"]?.split(/\s*,\s*/).at(-1)).toBe("no-referrer");
+  });
+});
+
+test.describe("hardening 2: bodies read within a limit", () => {
+  /** Sends `totalBytes` of form in 64 KB chunks, declared or not; resolves with the answer's status. */
+  function postChunked(url: URL, origin: string, totalBytes: number, declared: boolean): Promise<number> {
+    const headers: Record<string, string> = { "Content-Type": "application/x-www-form-urlencoded", Origin: origin };
+    if (declared) headers["Content-Length"] = String(totalBytes);
+    return new Promise((resolve, reject) => {
+      const request = httpRequest(url, { method: "POST", headers }, (response) => {
+        response.resume();
+        resolve(response.statusCode!);
+      });
+      // Once the answer has come, the server may stop reading: a failed write after it is expected.
+      request.on("error", reject);
+      const chunk = Buffer.alloc(64 * 1024, 0x61);
+      let sent = 0;
+      const write = () => {
+        while (sent < totalBytes) {
+          sent += chunk.length;
+          if (!request.write(chunk)) return void request.once("drain", write);
+        }
+        request.end();
+      };
+      write();
+    });
+  }
+
+  test("a 30 MB form to /login and to /forgot-password gets 413, not a reset connection, declared or chunked", async ({ baseURL }) => {
+    const origin = new URL(baseURL!).origin;
+    for (const path of ["/login", "/forgot-password"]) {
+      for (const declared of [false, true]) {
+        expect(await postChunked(new URL(path, origin), origin, 30 * 1024 * 1024, declared), `${path}, declared: ${declared}`).toBe(413);
+      }
+    }
   });
 });

@@ -1,8 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { z } from "zod";
-import { ValidationError } from "~/lib/errors";
+import { BadRequestError, PayloadTooLargeError, ValidationError } from "~/lib/errors";
 import { readApiBody, readApiInput } from "./body.server";
-import { BadRequestError, PayloadTooLargeError, UnsupportedMediaTypeError } from "./errors.server";
+import { UnsupportedMediaTypeError } from "./errors.server";
 
 const URL_ = "http://127.0.0.1/api/x";
 const post = (body: BodyInit | null, headers: Record<string, string> = {}) => new Request(URL_, { method: "POST", body, headers });
@@ -10,10 +10,12 @@ const json = (value: unknown) => post(JSON.stringify(value), { "Content-Type": "
 const schema = z.object({ name: z.string().min(1, "give a name"), count: z.number().int() });
 
 /** An endless body that counts how many chunks it was asked for: only a reader that stops at the limit returns. */
-function endlessBody(chunkBytes: number) {
+/** An endless body that, past `gateChunks` chunks, waits forever: a reader that needed more would never finish. */
+function endlessBody(chunkBytes: number, gateChunks = Number.POSITIVE_INFINITY) {
   let pulled = 0;
   const stream = new ReadableStream<Uint8Array>({
-    pull(controller) {
+    async pull(controller) {
+      if (pulled >= gateChunks) await new Promise(() => undefined);
       pulled++;
       controller.enqueue(new Uint8Array(chunkBytes).fill(0x20));
     },
@@ -76,10 +78,10 @@ describe("readApiBody", () => {
   });
 
   it("cuts a chunked body off at the limit: an endless stream ends in a 413 after about limit ÷ chunk reads", async () => {
-    const { stream, pulled } = endlessBody(64 * 1024);
+    // 1 MB in 64 KiB chunks: the 17th chunk crosses the limit; the stream may have queued one ahead.
+    const { stream, pulled } = endlessBody(64 * 1024, 18);
     const request = new Request(URL_, { method: "POST", body: stream, headers: { "Content-Type": "application/json" }, duplex: "half" } as RequestInit);
     await expect(readApiInput(request)).rejects.toBeInstanceOf(PayloadTooLargeError);
-    // 1 MB in 64 KiB chunks: the 17th chunk crosses the limit; the stream may have queued one ahead.
     expect(pulled()).toBeLessThanOrEqual(18);
   });
 

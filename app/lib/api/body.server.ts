@@ -1,10 +1,11 @@
 import type { z } from "zod";
-import { detailsOf, validationErrorFrom } from "~/lib/errors";
-import { BadRequestError, PayloadTooLargeError, UnsupportedMediaTypeError } from "./errors.server";
+import { BadRequestError, detailsOf, validationErrorFrom } from "~/lib/errors";
+import { readBodyBytes, refuseDeclaredOver } from "~/lib/http/body.server";
+import { UnsupportedMediaTypeError } from "./errors.server";
 
 /**
- * The API's one body reader: JSON or a form (url-encoded or multipart), read against a size limit,
- * then checked with the route's zod schema. A Content-Type the route does not read is a 415, a
+ * The API's one body reader: JSON or a form (url-encoded or multipart), read against a size limit
+ * by the one bounded reader of every body (app/lib/http/body.server.ts), then checked with the route's zod schema. A Content-Type the route does not read is a 415, a
  * body that does not parse a 400, one over the limit a 413 (refused on its Content-Length before
  * reading, or cut off at the limit when it comes chunked), and one that breaks the schema a 422
  * naming each field. An empty body is read as `{}`, so the schema says what is missing.
@@ -29,40 +30,6 @@ function formatOf(mediaType: string): BodyFormat | null {
   return null;
 }
 
-function megabytes(bytes: number): string {
-  return `${Math.round((bytes / 1024 / 1024) * 10) / 10} MB`;
-}
-
-async function readBytes(request: Request, maxBytes: number): Promise<Uint8Array<ArrayBuffer>> {
-  if (!request.body) return new Uint8Array(0);
-  const reader = request.body.getReader();
-  const chunks: Uint8Array[] = [];
-  let total = 0;
-  for (;;) {
-    let chunk: ReadableStreamReadResult<Uint8Array>;
-    try {
-      chunk = await reader.read();
-    } catch {
-      throw new BadRequestError("The body could not be read to its end.");
-    }
-    if (chunk.done) break;
-    total += chunk.value.byteLength;
-    if (total > maxBytes) {
-      // Stop at the limit: the rest is never read or held.
-      await reader.cancel().catch(() => undefined);
-      throw new PayloadTooLargeError(`The body is larger than ${megabytes(maxBytes)}, the most this request accepts.`);
-    }
-    chunks.push(chunk.value);
-  }
-  const bytes = new Uint8Array(total);
-  let offset = 0;
-  for (const chunk of chunks) {
-    bytes.set(chunk, offset);
-    offset += chunk.byteLength;
-  }
-  return bytes;
-}
-
 /** Form entries as an object: a name sent once is a string, a name sent again an array. */
 function formObject(entries: Iterable<[string, FormDataEntryValue]>): Record<string, unknown> {
   const grouped = new Map<string, FormDataEntryValue[]>();
@@ -81,11 +48,10 @@ export async function readApiInput(request: Request, options: BodyOptions = {}):
   const readable = format !== null && formats.includes(format);
   const unsupported = () =>
     new UnsupportedMediaTypeError(`Send the body as ${formats.map((name) => MEDIA_TYPES[name]).join(", or as ")}${mediaType ? `, not ${mediaType}` : " and say so in Content-Type"}.`);
-  const declaredBytes = request.headers.has("Content-Length") ? Number(request.headers.get("Content-Length")) : null;
-  if (declaredBytes !== null && declaredBytes > maxBytes) throw new PayloadTooLargeError(`The body is larger than ${megabytes(maxBytes)}, the most this request accepts.`);
-  if (!readable && declaredBytes !== null && declaredBytes > 0) throw unsupported();
+  refuseDeclaredOver(request, maxBytes);
+  if (!readable && Number(request.headers.get("Content-Length") ?? 0) > 0) throw unsupported();
 
-  const bytes = await readBytes(request, maxBytes);
+  const bytes = await readBodyBytes(request, maxBytes);
   if (bytes.byteLength === 0) return {};
   if (!readable) throw unsupported();
   if (format === "json") {

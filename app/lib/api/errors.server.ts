@@ -1,5 +1,5 @@
 import { isDatabaseUnreachable } from "~/lib/db.server";
-import { ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInError, ValidationError } from "~/lib/errors";
+import { BadRequestError, ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInError, PayloadTooLargeError, ValidationError } from "~/lib/errors";
 
 /**
  * The API's one error shape and the one map from error class to HTTP status. Every `/api` answer
@@ -10,12 +10,6 @@ import { ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInE
  * with the status below; `extra` is data a client needs beside the messages (the conflicting
  * assignments of a 409, the blockers of a refused import).
  */
-
-/** The request cannot be read: a body that is not what its Content-Type says, a query string that is not what the route asks. */
-export class BadRequestError extends DomainError {}
-
-/** The body is larger than the route accepts. */
-export class PayloadTooLargeError extends DomainError {}
 
 /** The body's Content-Type is not one the route reads. */
 export class UnsupportedMediaTypeError extends DomainError {}

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInError, ValidationError } from "~/lib/errors";
-import { BadRequestError, MethodNotAllowedError, PayloadTooLargeError, UnsupportedMediaTypeError } from "./errors.server";
+import { BadRequestError, PayloadTooLargeError } from "~/lib/errors";
+import { MethodNotAllowedError, UnsupportedMediaTypeError } from "./errors.server";
 import { apiRoute } from "./route.server";
 
 const args = (method: string) => ({ request: new Request("http://127.0.0.1/api/x", { method }) });
