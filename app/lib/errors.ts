@@ -52,6 +52,9 @@ export class BadRequestError extends DomainError {}
 /** The body is larger than the route accepts (refused on its declared length, or cut off at the limit). */
 export class PayloadTooLargeError extends DomainError {}
 
+/** Too many requests of this kind from this client for now; the message says when to try again. */
+export class TooManyRequestsError extends DomainError {}
+
 /** A zod failure's issues as details, each named by its path (none for the input as a whole). */
 export function detailsOf(error: z.ZodError): ErrorDetail[] {
   return error.issues.map((issue) => {

@@ -127,7 +127,7 @@ export async function sendAccountPasswordReset(actingUser: UserView, userId: num
   assertMayManageAccounts(actingUser);
   const user = await User.findByPk(userId);
   if (!user) throw new NotFoundError("There is no such account.");
-  await requestPasswordReset(user.email, origin, ip ?? "");
+  await requestPasswordReset(user.email, origin, ip ?? "", new Date(), { byAdmin: true });
   await recordAudit({ action: AUDIT_ACTIONS.accountPasswordResetSent, userId: actingUser.id, ip, detail: { accountId: user.id, email: user.email } });
   const [view] = await presentAccounts([user]);
   return view;
@@ -143,7 +143,7 @@ export async function createAccount(actingUser: UserView, input: { name: string;
   if (await User.findOne({ where: { email } })) throw new ConflictError({ field: "email", message: `${email} already has an account.` });
   const user = await User.create({ email, name: input.name.trim(), passwordHash: await hashPassword(randomBytes(24).toString("base64url")) });
   await recordAudit({ action: AUDIT_ACTIONS.accountCreated, userId: actingUser.id, ip, detail: { accountId: user.id, email } });
-  await requestPasswordReset(email, origin, ip ?? "");
+  await requestPasswordReset(email, origin, ip ?? "", new Date(), { byAdmin: true });
   const [view] = await presentAccounts([user]);
   return view;
 }

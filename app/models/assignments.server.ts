@@ -7,7 +7,7 @@ import { convertLength } from "../../shared/units";
 import { Assignment, DiveTeam, getSequelize, type DiveTeamMember } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { getProjectSurfaces } from "~/lib/engine/engine-state.server";
-import { sendMail } from "~/lib/mail/mail.server";
+import { queueMail } from "~/lib/mail/outbox.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { getCellsPayload, type CellsPayload } from "./cells.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -307,14 +307,16 @@ export function planSheetText(project: ProjectView, plan: DayPlanView, teamIndex
 export async function emailDayPlan(project: ProjectView, user: UserView, date: string, planUrl: string, ip: string | null = null): Promise<string[]> {
   const plan = await getDayPlan(project, date);
   const sentTo: string[] = [];
-  for (const [index, { team }] of plan.teams.entries()) {
-    const text = planSheetText(project, plan, index, planUrl);
-    for (const member of team.members) {
-      await sendMail({ to: member.email, subject: `Dive plan ${date}: ${team.name} (${project.name})`, text });
-      sentTo.push(member.email);
+  await getSequelize().transaction(async (transaction) => {
+    for (const [index, { team }] of plan.teams.entries()) {
+      const text = planSheetText(project, plan, index, planUrl);
+      for (const member of team.members) {
+        await queueMail({ to: member.email, subject: `Dive plan ${date}: ${team.name} (${project.name})`, text }, transaction);
+        sentTo.push(member.email);
+      }
     }
-  }
-  await recordAudit({ action: AUDIT_ACTIONS.planEmailed, projectId: project.id, userId: user.id, ip, detail: { date, to: sentTo } });
+    await recordAudit({ action: AUDIT_ACTIONS.planEmailed, projectId: project.id, userId: user.id, ip, detail: { date, to: sentTo } }, transaction);
+  });
   return sentTo;
 }
 

@@ -1,7 +1,7 @@
 import { Op, type Transaction } from "sequelize";
-import { Invitation, Membership, Project, User, getSequelize, type Role } from "~/lib/db.server";
+import { Invitation, Membership, Project, User, getSequelize, type OutgoingMailStatus, type Role } from "~/lib/db.server";
 import { ConflictError } from "~/lib/errors";
-import { sendMail } from "~/lib/mail/mail.server";
+import { mailStates, queueMail } from "~/lib/mail/outbox.server";
 import { hashPassword, verifyPassword } from "~/lib/auth/password.server";
 import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
@@ -11,12 +11,17 @@ import { normaliseEmail, presentUser, type UserView } from "~/lib/auth/users.ser
 
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
 
+/** The outbox's name for an invitation's mail. */
+export const invitationMailRef = (invitationId: number) => `invitation:${invitationId}`;
+
 export interface OpenInvitationView {
   id: number;
   email: string;
   role: Role;
   expiresAt: string;
   invitedBy: string | null;
+  /** Whether its mail has gone out: "pending" while the mail server is away, "failed" once given up. */
+  mail: OutgoingMailStatus | null;
 }
 
 /** Invitations not yet accepted, revoked or expired. */
@@ -26,7 +31,11 @@ export async function listOpenInvitations(project: ProjectView, now = new Date()
     include: [{ model: User, as: "invitedBy" }],
     order: [["createdAt", "DESC"]],
   });
-  return invitations.map((i) => ({ id: i.id, email: i.email, role: i.role, expiresAt: i.expiresAt.toISOString(), invitedBy: i.invitedBy?.name ?? null }));
+  const mails = await mailStates(invitations.map((i) => invitationMailRef(i.id)));
+  return invitations.map((i) => ({
+    id: i.id, email: i.email, role: i.role, expiresAt: i.expiresAt.toISOString(), invitedBy: i.invitedBy?.name ?? null,
+    mail: mails.get(invitationMailRef(i.id))?.status ?? null,
+  }));
 }
 
 /**
@@ -41,25 +50,27 @@ export async function createInvitation(
   if (await isMemberByEmail(project, email)) throw new ConflictError({ field: "email", message: `${email} is already a member of this project.` });
   const { token, tokenHash } = createLinkToken();
   const expiresAt = new Date(now.getTime() + INVITATION_LIFETIME_MS);
+  const link = `${origin}/invite/${token}`;
   await getSequelize().transaction(async (transaction) => {
     await Invitation.update(
       { revokedAt: now },
       { where: { projectId: project.id, email, acceptedAt: null, revokedAt: null }, transaction },
     );
-    await Invitation.create({ projectId: project.id, email, role: input.role, tokenHash, expiresAt, invitedById: actingUser.id }, { transaction });
+    const invitation = await Invitation.create({ projectId: project.id, email, role: input.role, tokenHash, expiresAt, invitedById: actingUser.id }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.invite, projectId: project.id, userId: actingUser.id, ip, detail: { email, role: input.role } }, transaction);
-  });
-  const link = `${origin}/invite/${token}`;
-  await sendMail({
-    to: email,
-    subject: `You are invited to ${project.name} on Firmsand`,
-    text: [
-      `${actingUser.name} invites you to join "${project.name}" on Firmsand as ${input.role}.`,
-      "",
-      `Open this link to set your password and join: ${link}`,
-      "",
-      `The link works once and expires on ${expiresAt.toUTCString()}.`,
-    ].join("\n"),
+    // In the same transaction: the invitation and its mail are kept together or not at all.
+    await queueMail({
+      to: email,
+      ref: invitationMailRef(invitation.id),
+      subject: `You are invited to ${project.name} on Firmsand`,
+      text: [
+        `${actingUser.name} invites you to join "${project.name}" on Firmsand as ${input.role}.`,
+        "",
+        `Open this link to set your password and join: ${link}`,
+        "",
+        `The link works once and expires on ${expiresAt.toUTCString()}.`,
+      ].join("\n"),
+    }, transaction);
   });
   return { token };
 }

@@ -38,7 +38,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     if (input.intent === "invite") {
       await createInvitation(project, user, { email: input.email, role: input.role }, appOrigin(), ip);
-      return { intent: input.intent, errors: {}, notice: `Invitation sent to ${input.email.trim().toLowerCase()}.` };
+      return { intent: input.intent, errors: {}, notice: `Invitation to ${input.email.trim().toLowerCase()} saved; its mail goes out now.` };
     }
     if (input.intent === "revoke") {
       const revoked = await revokeInvitation(project, user, input.invitationId, ip);
@@ -53,6 +53,13 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (error instanceof DomainError) return data({ intent: input.intent, errors: { [input.intent === "invite" ? "email" : "form"]: error.message } as Record<string, string>, notice: null }, { status: 400 });
     throw error;
   }
+}
+
+/** Whether the invitation's mail went out; the outbox keeps retrying while the mail server is away. */
+function InvitationMailState({ state }: { state: "pending" | "sent" | "failed" | null }) {
+  if (state === "pending") return <span className="text-caution">mail not sent yet (retrying)</span>;
+  if (state === "failed") return <span className="text-danger">mail could not be sent: withdraw and invite again</span>;
+  return null;
 }
 
 export function meta({}: Route.MetaArgs) {
@@ -113,6 +120,7 @@ export default function ProjectMembers({ loaderData, actionData }: Route.Compone
                 <span className="figures">{invitation.email}</span>
                 <span>{ROLE_LABELS[invitation.role]}</span>
                 <span className="text-muted">expires <time dateTime={invitation.expiresAt}>{invitation.expiresAt.slice(0, 10)}</time></span>
+                <InvitationMailState state={invitation.mail} />
                 <Form method="post" className="ml-auto">
                   <input type="hidden" name="invitationId" value={invitation.id} />
                   <SubmitButton tone="plain" intent="revoke" pendingLabel="Withdrawing…" className="px-2 py-1 text-sm">Withdraw</SubmitButton>

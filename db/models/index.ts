@@ -22,6 +22,8 @@ import { Shoreline, initShoreline } from "./shoreline";
 import { Dive, initDive } from "./dive";
 import { DiveCell, initDiveCell } from "./dive-cell";
 import { SignInSession, initSignInSession } from "./sign-in-session";
+import { OutgoingMail, initOutgoingMail } from "./outgoing-mail";
+import { ResetRequest, initResetRequest } from "./reset-request";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -33,6 +35,8 @@ export { ShareLink };
 export { Assignment, DiveTeam, Shoreline };
 export { Dive, DiveCell };
 export { SignInSession };
+export { OutgoingMail, ResetRequest };
+export { OUTGOING_MAIL_STATUSES, type OutgoingMailStatus } from "./outgoing-mail";
 export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;
@@ -50,6 +54,8 @@ export function initModels(): Sequelize {
   initMembership(sequelize);
   initInvitation(sequelize);
   initPasswordReset(sequelize);
+  initOutgoingMail(sequelize);
+  initResetRequest(sequelize);
   initAuditEvent(sequelize);
   initLoginAttempt(sequelize);
   initSurvey(sequelize);

@@ -10,7 +10,7 @@ test("a manager invites someone by e-mail; the link sets a password and lands on
   await page.getByLabel("E-mail").fill(email);
   await page.getByLabel("Role", { exact: true }).selectOption("surveyor");
   await page.getByRole("button", { name: "Send invitation" }).click();
-  await expect(page.getByRole("status")).toHaveText(`Invitation sent to ${email}.`);
+  await expect(page.getByRole("status")).toHaveText(`Invitation to ${email} saved; its mail goes out now.`);
   await expect(page.getByRole("region", { name: "Open invitations" }).getByText(email)).toBeVisible();
 
   const mail = await waitForMail(email);

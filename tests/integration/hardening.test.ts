@@ -10,6 +10,7 @@ import { closeSequelize } from "../../db/connection.server";
 import { getDatabaseSettings } from "../../db/settings";
 import { assertSameOrigin } from "~/lib/http/origin.server";
 import { listMailboxMessages } from "~/lib/mail/mailbox.server";
+import { deliverDue } from "~/lib/mail/outbox.server";
 import { action as forgotPasswordAction } from "~/routes/forgot-password";
 import { loader as loginLoader } from "~/routes/login";
 import { loader as problemsCsvLoader } from "~/routes/projects.$projectId.surveys.imports.$jobId.problems[.]csv";
@@ -40,6 +41,7 @@ describe("hardening 1: links in e-mail come only from configured origins", () =>
     const body = new URLSearchParams({ email: user.email });
     const request = new Request(`${ATTACKER}/forgot-password`, { method: "POST", body, headers: { Origin: ATTACKER, Host: "attacker.example" } });
     await forgotPasswordAction({ request, params: {}, context: {} } as never);
+    await deliverDue();
     const mail = (await listMailboxMessages()).find((message) => message.envelopeTo.includes(user.email));
     const link = mail?.text.match(/https?:\/\/\S+\/reset-password\/\S+/)?.[0];
     expect(link, "the reset mail's link").toBeDefined();

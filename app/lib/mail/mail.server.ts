@@ -1,8 +1,9 @@
 import nodemailer, { type Transporter } from "nodemailer";
 import { getEnv } from "../settings/env.server";
 
-// The one way Firmsand sends mail: SMTP to SMTP_HOST:SMTP_PORT (in demo and tests, the local
-// fake SMTP server that stores each message for /dev/mail and the tests).
+// The SMTP side of the outbox: SMTP_HOST:SMTP_PORT (in demo and tests, the local fake SMTP server
+// that stores each message for /dev/mail and the tests). Features queue mail with `queueMail`
+// (outbox.server.ts); only the outbox's delivery loop calls `transportMail`.
 
 let transporter: Transporter | undefined;
 
@@ -21,12 +22,12 @@ function getTransporter(): Transporter {
   return transporter;
 }
 
-export interface OutgoingMail {
+export interface MailMessage {
   to: string;
   subject: string;
   text: string;
 }
 
-export async function sendMail(mail: OutgoingMail): Promise<void> {
+export async function transportMail(mail: MailMessage): Promise<void> {
   await getTransporter().sendMail({ from: getEnv().MAIL_FROM, to: mail.to, subject: mail.subject, text: mail.text });
 }
