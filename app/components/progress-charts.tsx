@@ -43,7 +43,8 @@ export function CumulativeRemovedChart({ dates, series, unit }: { dates: string[
   const labelY = spreadLabels(lastValues.map((value) => y(value) + 4), 12, MARGIN.top, HEIGHT - MARGIN.bottom + 4);
   return (
     <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-labelledby="cumulative-title" className="h-auto w-full" data-testid="cumulative-chart">
-      <title id="cumulative-title">Cumulative removed volume by survey date, per zone and for the project ({unit})</title>
+      {/* One string: React renders a <title> of several text children empty on the server. */}
+      <title id="cumulative-title">{`Cumulative removed volume by survey date, per zone and for the project (${unit})`}</title>
       <ValueAxis ticks={ticks} y={y} unit={unit} />
       <g className="figures" fontSize={10} fill="#5b6870">
         {dates.map((date, index) => (
@@ -88,7 +89,7 @@ export function ProductionChart({ intervals, unit }: { intervals: ProductionInte
   const slot = (WIDTH - MARGIN.left - MARGIN.right) / intervals.length;
   return (
     <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-labelledby="production-title" className="h-auto w-full" data-testid="production-chart">
-      <title id="production-title">Production per working day between survey dates ({unit} per working day)</title>
+      <title id="production-title">{`Production per working day between survey dates (${unit} per working day)`}</title>
       <defs>
         <pattern id="thin-interval-hatch" width={6} height={6} patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
           <rect width={6} height={6} fill="#e3eef0" />

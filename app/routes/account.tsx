@@ -14,6 +14,7 @@ import { AUDIT_ACTIONS } from "~/lib/audit/audit.server";
 import { changeOwnPassword, updateOwnName } from "~/lib/auth/users.server";
 import { currentSignInSession, endSessions, listSessions } from "~/lib/auth/session.server";
 import { createApiToken, listApiTokens, revokeApiToken } from "~/lib/auth/api-token.server";
+import { API_TOKEN_SCOPES } from "~/lib/db.server";
 import type { Route } from "./+types/account";
 import { readPageForm } from "~/lib/http/body.server";
 
@@ -22,12 +23,20 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { name: user.name, email: user.email, tokens: await listApiTokens(user), sessions: await listSessions(user.id, request) };
 }
 
+/** Days until a new token expires, or never; 90 days unless its owner says otherwise. */
+const TOKEN_EXPIRIES = ["30", "90", "365", "never"] as const;
+
 const schema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("name"), name: personNameSchema }),
   z
     .object({ intent: z.literal("password"), currentPassword: z.string().min(1, "Enter your current password."), newPassword: newPasswordSchema, confirm: z.string() })
     .refine((value) => value.newPassword === value.confirm, { path: ["confirm"], message: "The two passwords differ." }),
-  z.object({ intent: z.literal("create-token"), tokenName: z.string().trim().min(1, "Name the token after what will use it.").max(120, "At most 120 characters.") }),
+  z.object({
+    intent: z.literal("create-token"),
+    tokenName: z.string().trim().min(1, "Name the token after what will use it.").max(120, "At most 120 characters."),
+    tokenScope: z.enum(API_TOKEN_SCOPES, { message: "Choose read-only or read and write." }),
+    tokenExpiry: z.enum(TOKEN_EXPIRIES, { message: "Choose when the token expires." }),
+  }),
   z.object({ intent: z.literal("revoke-token"), tokenId: z.coerce.number().int().positive() }),
   z.object({ intent: z.literal("sign-out-elsewhere") }),
 ]);
@@ -45,8 +54,9 @@ export async function action({ request }: Route.ActionArgs) {
     return { intent, errors: {} as Record<string, string>, notice: "Name saved." };
   }
   if (parsed.data.intent === "create-token") {
-    const { token, view } = await createApiToken(user, parsed.data.tokenName);
-    await auditForAccount(user.id, AUDIT_ACTIONS.apiTokenCreated, clientAddress(request), { tokenId: view.id, name: view.name });
+    const { tokenName, tokenScope, tokenExpiry } = parsed.data;
+    const { token, view } = await createApiToken(user, tokenName, { scope: tokenScope, expiresInDays: tokenExpiry === "never" ? null : Number(tokenExpiry) });
+    await auditForAccount(user.id, AUDIT_ACTIONS.apiTokenCreated, clientAddress(request), { tokenId: view.id, name: view.name, scope: view.scope, expiresAt: view.expiresAt });
     return { intent, errors: {}, notice: `Token "${view.name}" created. Copy it now: it is shown only once.`, newToken: token } satisfies ActionResult;
   }
   if (parsed.data.intent === "revoke-token") {
@@ -134,6 +144,14 @@ function SignedInBrowsers({ sessions }: { sessions: SessionRow[] }) {
 
 type TokenRow = Route.ComponentProps["loaderData"]["tokens"][number];
 
+const selectClass = "rounded border border-line bg-panel px-2 py-2 focus:outline-2 focus:outline-lagoon";
+
+/** An expiry date, marked when it has passed (the token then signs nobody in). */
+function TokenExpiry({ expiresAt }: { expiresAt: string }) {
+  const expired = new Date(expiresAt).getTime() <= Date.now();
+  return <span className={expired ? "text-danger" : undefined}>{expiresAt.slice(0, 10)}{expired ? " (expired)" : ""}</span>;
+}
+
 /** Personal API tokens for scripts that upload surveys (`Authorization: Bearer <token>`). */
 function ApiTokens({ tokens, newToken, errors }: { tokens: TokenRow[]; newToken?: string; errors: Record<string, string> }) {
   const active = tokens.filter((token) => !token.revokedAt);
@@ -152,6 +170,24 @@ function ApiTokens({ tokens, newToken, errors }: { tokens: TokenRow[]; newToken?
       ) : null}
       <Form method="post" className="mt-4 flex flex-wrap items-end gap-3" noValidate>
         <div className="grow"><TextField label="Token name" name="tokenName" required error={errors.tokenName} hint="What will use it, e.g. “office upload script”." /></div>
+        <div>
+          <label htmlFor="token-scope" className="block text-sm font-medium">May</label>
+          <select id="token-scope" name="tokenScope" defaultValue="read-write" className={`mt-1 ${selectClass}`}>
+            <option value="read-write">read and change (uploads, plans)</option>
+            <option value="read-only">read only (reports, dashboards)</option>
+          </select>
+          {errors.tokenScope ? <p className="mt-1 text-sm text-danger">{errors.tokenScope}</p> : null}
+        </div>
+        <div>
+          <label htmlFor="token-expiry" className="block text-sm font-medium">Expires</label>
+          <select id="token-expiry" name="tokenExpiry" defaultValue="90" className={`mt-1 ${selectClass}`}>
+            <option value="30">in 30 days</option>
+            <option value="90">in 90 days</option>
+            <option value="365">in a year</option>
+            <option value="never">never (until revoked)</option>
+          </select>
+          {errors.tokenExpiry ? <p className="mt-1 text-sm text-danger">{errors.tokenExpiry}</p> : null}
+        </div>
         <SubmitButton intent="create-token" pendingLabel="Creating…">Create token</SubmitButton>
       </Form>
       {errors.tokenId ? <p className="mt-2 text-sm text-danger" role="alert">{errors.tokenId}</p> : null}
@@ -159,12 +195,14 @@ function ApiTokens({ tokens, newToken, errors }: { tokens: TokenRow[]; newToken?
         <p className="mt-4 text-sm text-muted">You have no active tokens.</p>
       ) : (
         <table className="mt-4 w-full text-sm">
-          <thead><tr className="text-left text-muted"><th className="py-1">Name</th><th>Created</th><th>Last used</th><th><span className="sr-only">Revoke</span></th></tr></thead>
+          <thead><tr className="text-left text-muted"><th className="py-1">Name</th><th>May</th><th>Created</th><th>Expires</th><th>Last used</th><th><span className="sr-only">Revoke</span></th></tr></thead>
           <tbody>
             {active.map((token) => (
               <tr key={token.id} className="border-t border-line">
                 <td className="py-2 font-sans">{token.name}</td>
+                <td className="font-sans">{token.scope === "read-only" ? "read only" : "read and change"}</td>
                 <td>{token.createdAt.slice(0, 10)}</td>
+                <td>{token.expiresAt ? <TokenExpiry expiresAt={token.expiresAt} /> : "never"}</td>
                 <td>{token.lastUsedAt ? token.lastUsedAt.slice(0, 16).replace("T", " ") : "never"}</td>
                 <td className="text-right">
                   <ConfirmedActionForm

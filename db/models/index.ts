@@ -36,6 +36,7 @@ export { Assignment, DiveTeam, Shoreline };
 export { Dive, DiveCell };
 export { SignInSession };
 export { OutgoingMail, ResetRequest };
+export { API_TOKEN_SCOPES, type ApiTokenScope } from "./api-token";
 export { OUTGOING_MAIL_STATUSES, type OutgoingMailStatus } from "./outgoing-mail";
 export type { DiveTeamMember } from "./dive-team";
 

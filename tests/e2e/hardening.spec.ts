@@ -64,3 +64,25 @@ test.describe("hardening 2: bodies read within a limit", () => {
     }
   });
 });
+
+test.describe("hardening 12: pages hydrate without errors", () => {
+  test("the overview, quantities and surveys pages hydrate with no React error (#418 was thrown on every overview load)", async ({ page, signIn }) => {
+    const errors: string[] = [];
+    page.on("pageerror", (error) => errors.push(error.message));
+    page.on("console", (message) => {
+      if (message.type() === "error") errors.push(message.text());
+    });
+    await signIn("manager");
+    await page.getByRole("link", { name: /Spring run restoration/ }).click();
+    await expect(page).toHaveURL(/\/projects\/\d+$/);
+    const overview = new URL(page.url()).pathname;
+    for (const path of [overview, `${overview}/quantities`, `${overview}/surveys`, overview]) {
+      await page.goto(path);
+      await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
+      // Hydration runs after the first paint; give it its moment before reading the errors.
+      await page.waitForLoadState("networkidle");
+    }
+    expect(errors).toEqual([]);
+    await expect(page.locator("#cumulative-title")).toHaveText(/Cumulative removed volume by survey date/);
+  });
+});

@@ -5,7 +5,7 @@ import { can, type Access, type Action } from "~/lib/auth/permissions";
 import { findProject, presentProject, type ProjectView } from "~/lib/auth/project-view.server";
 import { getUserView, type UserView } from "~/lib/auth/users.server";
 import { apiErrorResponse } from "../api/errors.server";
-import { hasBearer, userIdForBearer } from "./api-token.server";
+import { hasBearer, lookUpBearer } from "./api-token.server";
 import { currentSignInSession } from "./session.server";
 import { urlIdSchema } from "../http/url-id";
 
@@ -22,13 +22,24 @@ import { urlIdSchema } from "../http/url-id";
  * signs nobody in, so a leaked token cannot mint another and revoking it ends its holder's access.
  */
 export async function getOptionalUser(request: Request): Promise<UserView | null> {
-  if (hasBearer(request)) {
-    if (!isApiPath(new URL(request.url).pathname)) return null;
-    const tokenUserId = await userIdForBearer(request.headers.get("Authorization"));
-    return tokenUserId === null ? null : getUserView(tokenUserId);
-  }
+  if (hasBearer(request)) return (await bearerUser(request)).user;
   const session = await currentSignInSession(request);
   return session ? getUserView(session.userId) : null;
+}
+
+const READING_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
+
+/** A bearer request's user, or why it has none (for the 401's message). A read-only token asking to change something is a 403. */
+async function bearerUser(request: Request): Promise<{ user: UserView; refusal?: never } | { user: null; refusal: string }> {
+  if (!isApiPath(new URL(request.url).pathname)) return { user: null, refusal: "Personal API tokens open the /api routes only; this page needs a signed-in session." };
+  const token = await lookUpBearer(request.headers.get("Authorization"));
+  if (token === "expired") return { user: null, refusal: "The API token has expired; create a new one on your account page." };
+  const user = token === null ? null : await getUserView(token.userId);
+  if (!token || !user) return { user: null, refusal: "The API token is unknown or has been revoked, or its account is disabled." };
+  if (token.scope === "read-only" && !READING_METHODS.has(request.method.toUpperCase())) {
+    throw new ForbiddenError("This API token is read-only: it may read but not change anything. Use a read-write token for this request.");
+  }
+  return { user };
 }
 
 function isApiPath(pathname: string): boolean {
@@ -37,15 +48,15 @@ function isApiPath(pathname: string): boolean {
 
 /** The signed-in user, or a NotSignedInError saying what to send. */
 export async function signedInUser(request: Request): Promise<UserView> {
-  const user = await getOptionalUser(request);
+  if (hasBearer(request)) {
+    const bearer = await bearerUser(request);
+    if (bearer.user) return bearer.user;
+    throw new NotSignedInError(bearer.refusal);
+  }
+  const session = await currentSignInSession(request);
+  const user = session ? await getUserView(session.userId) : null;
   if (user) return user;
-  throw new NotSignedInError(
-    !hasBearer(request)
-      ? "Sign in, or send a personal API token as Authorization: Bearer <token>."
-      : isApiPath(new URL(request.url).pathname)
-        ? "The API token is unknown or has been revoked, or its account is disabled."
-        : "Personal API tokens open the /api routes only; this page needs a signed-in session.",
-  );
+  throw new NotSignedInError("Sign in, or send a personal API token as Authorization: Bearer <token>.");
 }
 
 export interface ProjectAccess extends Access {
