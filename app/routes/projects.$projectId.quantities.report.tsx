@@ -1,19 +1,37 @@
-import { Percent, Volume, ZoneName, zoneKey } from "~/components/progress-figures";
+import { data } from "react-router";
+import { PayPeriodTable, PeriodSurveyLine } from "~/components/pay-period";
+import { Percent, Volume, ZoneName, formatNumber, zoneKey } from "~/components/progress-figures";
+import { ValidationError } from "~/lib/errors";
 import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 import { requireRole } from "~/lib/auth/access.server";
 import { loadQuantities } from "~/models/quantities.server";
+import type { PayPeriodView } from "~/models/pay-periods.server";
 import type { Route } from "./+types/projects.$projectId.quantities.report";
 
 // The printable quantities report (outside the project layout, so it prints without navigation):
-// project, survey pair, method, totals per zone and a signature block for the reviewer.
+// project, survey pair, method, totals per zone, the pay period (?from=&to=, survey ids; default the
+// baseline to the latest) with both survey files' names and hashes, and a signature block.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, user } = await requireRole(request, params.projectId, "quantities.read");
-  const view = await loadQuantities(project);
+  const search = new URL(request.url).searchParams;
+  let view;
+  try {
+    view = await loadQuantities(project, { from: search.get("from"), to: search.get("to") });
+  } catch (error) {
+    if (error instanceof ValidationError) throw data(error.details.map((detail) => `${detail.field ?? ""} ${detail.message}`.trim()).join(" "), { status: 422 });
+    throw error;
+  }
   return {
     project: view.project, baseline: view.baseline, latest: view.latest, method: view.method,
+    period: view.period && reportPeriod(view.period),
     total: view.progress.total, zones: view.progress.zones, preparedBy: user.name, preparedOn: new Date().toISOString().slice(0, 10),
   };
+}
+
+/** The period as the report prints it: no survey list, no cells. */
+function reportPeriod({ surveys: _surveys, figures, ...period }: PayPeriodView) {
+  return { ...period, figures: { total: figures.total, zones: figures.zones } };
 }
 
 export function meta({ data: report }: Route.MetaArgs) {
@@ -77,6 +95,23 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
         </tbody>
       </table>
       {zones.some((zone) => zone.zoneId === null) ? <p className="mt-2 text-xs text-muted">{UNZONED_NOTE}</p> : null}
+      {loaderData.period ? (
+        <section aria-labelledby="period-heading" className="mt-8 break-inside-avoid">
+          <h2 id="period-heading" className="font-semibold">Pay period <span className="figures">{loaderData.period.from.surveyedOn} → {loaderData.period.to.surveyedOn}</span></h2>
+          <ul className="mt-1 space-y-1 break-all text-xs">
+            <li><PeriodSurveyLine label="From" survey={loaderData.period.from} /></li>
+            <li><PeriodSurveyLine label="To" survey={loaderData.period.to} /></li>
+          </ul>
+          <PayPeriodTable figures={loaderData.period.figures} unit={unit} digits={1} testId="report-period-table" />
+          <p className="mt-2 text-xs">{loaderData.period.method}</p>
+          <p className="mt-1 text-xs">
+            Settings in force: over-dredge allowance <span className="figures">{formatNumber(loaderData.period.settings.overDredgeAllowance, 2)} {loaderData.period.lengthLabel}</span>,
+            firm-sand tolerance <span className="figures">{formatNumber(loaderData.period.settings.firmSandTolerance, 2)} {loaderData.period.lengthLabel}</span>,
+            cells <span className="figures">{loaderData.period.settings.cellSize} {loaderData.period.lengthLabel}</span>, raster <span className="figures">{loaderData.period.settings.rasterResolution} {loaderData.period.lengthLabel}</span>,
+            longest triangle edge <span className="figures">{loaderData.period.settings.maxEdge} {loaderData.period.lengthLabel}</span>.
+          </p>
+        </section>
+      ) : null}
       <section aria-labelledby="signatures" className="mt-10 break-inside-avoid">
         <h2 id="signatures" className="font-semibold">Review</h2>
         <p className="mt-1 text-sm">I have reviewed the quantities above against the surveys named in this report.</p>

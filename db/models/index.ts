@@ -22,6 +22,7 @@ import { Shoreline, initShoreline } from "./shoreline";
 import { Dive, initDive } from "./dive";
 import { DiveCell, initDiveCell } from "./dive-cell";
 import { SignInSession, initSignInSession } from "./sign-in-session";
+import { PayPeriodReport, initPayPeriodReport } from "./pay-period-report";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -33,6 +34,8 @@ export { ShareLink };
 export { Assignment, DiveTeam, Shoreline };
 export { Dive, DiveCell };
 export { SignInSession };
+export { PayPeriodReport };
+export { payPeriodSnapshotSchema, type PayPeriodSnapshot } from "./pay-period-report";
 export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;
@@ -66,6 +69,7 @@ export function initModels(): Sequelize {
   initDive(sequelize);
   initDiveCell(sequelize);
   initSignInSession(sequelize);
+  initPayPeriodReport(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -96,6 +100,11 @@ export function initModels(): Sequelize {
   Project.hasMany(SurveySnapshot, { foreignKey: "projectId", as: "snapshots" });
   SurveySnapshot.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   SurveySnapshot.belongsTo(Survey, { foreignKey: "lastSurveyId", as: "lastSurvey" });
+  Project.hasMany(PayPeriodReport, { foreignKey: "projectId", as: "payPeriodReports" });
+  PayPeriodReport.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  PayPeriodReport.belongsTo(Survey, { foreignKey: "fromSurveyId", as: "fromSurvey" });
+  PayPeriodReport.belongsTo(Survey, { foreignKey: "toSurveyId", as: "toSurvey" });
+  PayPeriodReport.belongsTo(User, { foreignKey: "signedById", as: "signedBy" });
   Project.hasOne(ColumnMapping, { foreignKey: "projectId", as: "columnMapping" });
   ColumnMapping.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   ColumnMapping.belongsTo(User, { foreignKey: "updatedById", as: "updatedBy" });
