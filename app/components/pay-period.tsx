@@ -19,11 +19,11 @@ export interface PeriodTableFigures {
 export function PayPeriodTable({ figures, unit, testId, digits = 0 }: { figures: PeriodTableFigures; unit: string; testId?: string; digits?: number }) {
   const cells = (row: PeriodRow) => (
     <>
-      <td><Volume value={row.removedVolume} unit={unit} digits={digits} /></td>
-      <td><Volume value={row.paidVolume} unit={unit} digits={digits} /></td>
-      <td><Volume value={row.overDredgeVolume} unit={unit} digits={digits} /></td>
-      <td><Volume value={row.depositedVolume} unit={unit} digits={digits} /></td>
-      <td><Volume value={row.remainingVolume} unit={unit} digits={digits} /></td>
+      <td className="pl-3"><Volume value={row.removedVolume} unit={unit} digits={digits} /></td>
+      <td className="pl-3"><Volume value={row.paidVolume} unit={unit} digits={digits} /></td>
+      <td className="pl-3"><Volume value={row.overDredgeVolume} unit={unit} digits={digits} /></td>
+      <td className="pl-3"><Volume value={row.depositedVolume} unit={unit} digits={digits} /></td>
+      <td className="pl-3"><Volume value={row.remainingVolume} unit={unit} digits={digits} /></td>
     </>
   );
   return (
@@ -31,7 +31,7 @@ export function PayPeriodTable({ figures, unit, testId, digits = 0 }: { figures:
       <table className="mt-2 w-full text-right text-sm" data-testid={testId}>
         <thead>
           <tr className="border-b border-line">
-            <th className="py-1 text-left font-sans">Zone</th><th>Removed</th><th>Paid</th><th>Over-dredge</th><th>Deposited</th><th>Remaining at end</th>
+            <th className="py-1 text-left font-sans">Zone</th><th className="pl-3">Removed</th><th className="pl-3">Paid</th><th className="pl-3">Over-dredge</th><th className="pl-3">Deposited</th><th className="pl-3">Remaining at end</th>
           </tr>
         </thead>
         <tbody>

@@ -98,7 +98,7 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
       {loaderData.period ? (
         <section aria-labelledby="period-heading" className="mt-8 break-inside-avoid">
           <h2 id="period-heading" className="font-semibold">Pay period <span className="figures">{loaderData.period.from.surveyedOn} → {loaderData.period.to.surveyedOn}</span></h2>
-          <ul className="mt-1 space-y-1 break-all text-xs">
+          <ul className="mt-1 space-y-1 wrap-anywhere text-xs">
             <li><PeriodSurveyLine label="From" survey={loaderData.period.from} /></li>
             <li><PeriodSurveyLine label="To" survey={loaderData.period.to} /></li>
           </ul>

@@ -142,7 +142,7 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
             <PayPeriodTable figures={period.figures} unit={unit} testId="period-table" />
             <details className="mt-2 text-sm">
               <summary className="cursor-pointer text-muted">Surveys, method and settings this period rests on</summary>
-              <ul className="mt-2 space-y-1 break-all text-xs">
+              <ul className="mt-2 space-y-1 wrap-anywhere text-xs">
                 <li><PeriodSurveyLine label="From" survey={period.from} /></li>
                 <li><PeriodSurveyLine label="To" survey={period.to} /></li>
               </ul>

@@ -246,8 +246,10 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           <TextField label={`Firm-sand tolerance (${unit})`} name="firmSand" type="number" step="any" min="0" defaultValue={settings.tolerances.firmSand} required error={toleranceErrors.firmSand} />
           <TextField label="Share of a cell within tolerance (0–1)" name="firmShare" type="number" step="any" min="0" max="1" defaultValue={settings.tolerances.firmShare} required error={toleranceErrors.firmShare} />
           <TextField label="Minimum surveyed coverage (0–1)" name="minCoverage" type="number" step="any" min="0" max="1" defaultValue={settings.tolerances.minCoverage} required error={toleranceErrors.minCoverage} />
-          <TextField label={`Over-dredge allowance (${unit})`} name="overDredgeAllowance" type="number" step="any" min="0" defaultValue={settings.tolerances.overDredgeAllowance} required error={toleranceErrors.overDredgeAllowance} />
-          <p className="text-sm text-muted sm:col-span-3">Pay quantities count removal down to firm sand plus this allowance (as the contract states it); removal below that is reported apart as over-dredge. 0 pays down to firm sand.</p>
+          <TextField
+            label={`Over-dredge allowance (${unit})`} name="overDredgeAllowance" type="number" step="any" min="0" defaultValue={settings.tolerances.overDredgeAllowance} required error={toleranceErrors.overDredgeAllowance}
+            hint="Pay periods count removal down to firm sand plus this allowance, as the contract states it; below that is over-dredge. 0: down to firm sand."
+          />
           <p className="text-sm text-muted sm:col-span-3">{surveysNote.trim()}</p>
           <div className="sm:col-span-3"><SubmitButton intent="tolerances" pendingLabel="Saving…">Save tolerances</SubmitButton></div>
         </Form>

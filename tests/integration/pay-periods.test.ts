@@ -7,7 +7,9 @@ import { closeSequelize } from "../../db/connection.server";
 import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { PERIOD_VOLUME_KEYS } from "../../shared/volumes/period";
 import { SURVEYS, ZONES } from "../../sample-data/scenario";
-import { AuditEvent, PayPeriodReport, Project, Survey, SurveySnapshot } from "~/lib/db.server";
+import { AuditEvent, PayPeriodReport, Project, SurveySnapshot, User } from "~/lib/db.server";
+import { presentUser } from "~/lib/auth/users.server";
+import { projectPatchSchema, updateProjectSettings } from "~/models/project-setup.server";
 import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
 import { ValidationError } from "~/lib/errors";
 import { listSignedPeriods, loadPayPeriod, signPayPeriod, type PayPeriodView } from "~/models/pay-periods.server";
@@ -64,9 +66,9 @@ describe("the default period", () => {
   });
 
   it("splits removed into paid and over-dredge in every row", () => {
-    for (const row of [...whole.figures.zones, whole.figures.total]) {
+    for (const [name, row] of [...whole.figures.zones.map((zone) => [zone.name, zone] as const), ["project", whole.figures.total] as const]) {
       // invariant: paid + over-dredge = removed
-      expect(row.paidVolume + row.overDredgeVolume, row.name ?? "project").toBeCloseTo(row.removedVolume, 6);
+      expect(row.paidVolume + row.overDredgeVolume, name).toBeCloseTo(row.removedVolume, 6);
     }
   });
 });
@@ -87,8 +89,15 @@ describe("periods between any two surveys", () => {
     expect(net).toBeCloseTo(whole.figures.total.removedVolume - whole.figures.total.depositedVolume, 6);
   });
 
-  it("a later over-dredge allowance pays more and leaves less over-dredge", async () => {
-    await Project.update({ overDredgeAllowance: 0.5 }, { where: { id: project.id } });
+  it("an over-dredge allowance set in the tolerances pays more and leaves less over-dredge, without recomputing the stored figures", async () => {
+    const manager = presentUser((await User.findByPk(site.users.manager))!);
+    // The API's and the settings page's boundary refuses a negative allowance by name.
+    const negative = projectPatchSchema.safeParse({ tolerances: { overDredgeAllowance: -0.1 } });
+    expect(negative.success).toBe(false);
+    expect(negative.error!.issues[0].path).toEqual(["tolerances", "overDredgeAllowance"]);
+    const changed = await updateProjectSettings(project, manager, { tolerances: { overDredgeAllowance: 0.5 } });
+    expect(changed.recomputed).toBe(false);
+    expect(changed.settings.tolerances.overDredgeAllowance).toBe(0.5);
     try {
       const allowed = (await loadPayPeriod(presentProject((await Project.findByPk(project.id))!)))!;
       expect(allowed.settings.overDredgeAllowance).toBe(0.5);
