@@ -3,6 +3,8 @@ import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 
 /** What a pay-period table needs: the zone rows (with Unzoned) and the project row. */
 interface PeriodRow {
+  /** ± 95 % on removed from the surveys' vertical uncertainty. */
+  removedBandVolume: number;
   removedVolume: number;
   paidVolume: number;
   overDredgeVolume: number;
@@ -24,6 +26,7 @@ export function PayPeriodTable({ figures, unit, testId, digits = 0 }: { figures:
       <td className="pl-3"><Volume value={row.overDredgeVolume} unit={unit} digits={digits} /></td>
       <td className="pl-3"><Volume value={row.depositedVolume} unit={unit} digits={digits} /></td>
       <td className="pl-3"><Volume value={row.remainingVolume} unit={unit} digits={digits} /></td>
+      <td className="pl-3 text-muted">±&nbsp;<Volume value={row.removedBandVolume} unit={unit} digits={digits} /></td>
     </>
   );
   return (
@@ -31,7 +34,7 @@ export function PayPeriodTable({ figures, unit, testId, digits = 0 }: { figures:
       <table className="mt-2 w-full text-right text-sm" data-testid={testId}>
         <thead>
           <tr className="border-b border-line">
-            <th className="py-1 text-left font-sans">Zone</th><th className="pl-3">Removed</th><th className="pl-3">Paid</th><th className="pl-3">Over-dredge</th><th className="pl-3">Deposited</th><th className="pl-3">Remaining at end</th>
+            <th className="py-1 text-left font-sans">Zone</th><th className="pl-3">Removed</th><th className="pl-3">Paid</th><th className="pl-3">Over-dredge</th><th className="pl-3">Deposited</th><th className="pl-3">Remaining at end</th><th className="pl-3" title="95 % band on removed from the surveys' vertical uncertainty (IHO S-44)">Removed ±</th>
           </tr>
         </thead>
         <tbody>

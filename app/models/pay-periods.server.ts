@@ -1,5 +1,6 @@
 import { z } from "zod";
-import { unitLabel } from "../../shared/units";
+import { allowedTvu, surveyOrderSchema, type SurveyOrder } from "../../shared/qa/tvu";
+import { unitLabel, type LengthUnit } from "../../shared/units";
 import { PERIOD_VOLUME_KEYS, type PeriodVolumes } from "../../shared/volumes/period";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -23,6 +24,9 @@ export interface PeriodSurvey {
   datum: string;
   fileName: string;
   contentSha256: string;
+  /** IHO S-44 order the survey was checked against, and its allowed TVU at 95 % at the survey's median depth (project length unit). */
+  order: SurveyOrder;
+  tvu: number;
 }
 
 export interface PeriodSettings {
@@ -45,6 +49,8 @@ export interface PayPeriodView {
   lengthLabel: string;
   settings: PeriodSettings;
   method: string;
+  /** How the removed volume's ± band was found, with the surveys' orders and TVU and the bias it leaves out. */
+  uncertainty: string;
   figures: PeriodFigures;
 }
 
@@ -64,6 +70,28 @@ function positionOf(surveys: readonly PeriodSurvey[], raw: string, field: "from"
     throw new ValidationError({ field, value: raw, message: `must be the id of one of this project's surveys in force (${surveys.map((survey) => survey.id).join(", ")})` });
   }
   return position;
+}
+
+/**
+ * A survey's IHO S-44 order as its import recorded it (its QA), and the TVU allowed at its median
+ * depth; the order's depth-independent part alone where the file gave elevations and no depths.
+ */
+function surveyTvu(qa: Record<string, unknown>, unit: LengthUnit): { order: SurveyOrder; tvu: number } {
+  // Every import records its order; "1a" is the import form's default, for a row from before that.
+  const order = surveyOrderSchema.catch("1a").parse(qa.order ?? qa.surveyOrder);
+  const atMedian = typeof qa.allowanceAtMedianDepth === "number" && Number.isFinite(qa.allowanceAtMedianDepth) ? qa.allowanceAtMedianDepth : null;
+  return { order, tvu: atMedian ?? allowedTvu(order, 0, unit) };
+}
+
+/** The band's method in words, with each survey's order and TVU and what a reference bias would add. */
+function uncertaintyWords(surveys: readonly PeriodSurvey[], biasVolumePerUnit: number, length: string, volume: string): string {
+  const tenth = (Math.round(biasVolumePerUnit * 0.1 * 10) / 10).toLocaleString("en-US");
+  return (
+    "± on removed: 95 % band from the surveys' vertical uncertainty (IHO S-44 ed. 6.0.0, table 1: TVU = √(a² + (b·d)²) for the survey's order at its median depth), " +
+    "taken as each sounding's random error and averaged over the soundings of each cell (1/√n) that changed in the period, both ends and all cells added in quadrature. " +
+    `Surveys: ${surveys.map((survey) => `#${survey.id} order ${survey.order}, TVU ${survey.tvu.toFixed(2)} ${length}`).join("; ")}. ` +
+    `Not in the band: a systematic bias of the vertical reference (water level, datum) shifts a whole surface and does not average down; each 0.1 ${length} of it would move removed by about ${tenth} ${volume}.`
+  );
 }
 
 /** Text of the period method, with the settings in force. */
@@ -90,11 +118,11 @@ export async function loadPayPeriod(project: ProjectView, query: PeriodQuery = {
   if (!state) return null;
   const geometry = await loadProjectGeometry(project.id);
   const inForce = state.periods.surveys;
-  const rows = await Survey.findAll({ where: { projectId: project.id, id: inForce.map((survey) => survey.id) }, attributes: ["id", "kind", "surveyedOn", "datum", "fileName", "contentSha256"] });
+  const rows = await Survey.findAll({ where: { projectId: project.id, id: inForce.map((survey) => survey.id) }, attributes: ["id", "kind", "surveyedOn", "datum", "fileName", "contentSha256", "qa"] });
   const byId = new Map(rows.map((row) => [row.id, row]));
   const surveys: PeriodSurvey[] = inForce.map((survey) => {
     const row = byId.get(survey.id);
-    return { id: survey.id, kind: survey.kind, surveyedOn: survey.surveyedOn, datum: row?.datum ?? "", fileName: row?.fileName ?? "", contentSha256: row?.contentSha256 ?? "" };
+    return { id: survey.id, kind: survey.kind, surveyedOn: survey.surveyedOn, datum: row?.datum ?? "", fileName: row?.fileName ?? "", contentSha256: row?.contentSha256 ?? "", ...surveyTvu(row?.qa ?? {}, project.lengthUnit) };
   });
   const from = query.from ? positionOf(surveys, query.from, "from") : 0;
   const to = query.to ? positionOf(surveys, query.to, "to") : surveys.length - 1;
@@ -109,17 +137,19 @@ export async function loadPayPeriod(project: ProjectView, query: PeriodQuery = {
   const figures = computePeriodFigures({
     surfaces: state.surfaces, periods: state.periods, from, to,
     zones: geometry.zones, settings: geometry.settings, overDredgeAllowance: grid.overDredgeAllowance, lengthUnit: project.lengthUnit,
+    tvu: surveys.map((survey) => survey.tvu),
   });
   return {
     surveys, from: surveys[from], to: surveys[to], whole: from === 0 && to === surveys.length - 1,
-    volumeLabel, lengthLabel, settings, method: periodMethod(project, settings, lengthLabel, volumeLabel), figures,
+    volumeLabel, lengthLabel, settings, method: periodMethod(project, settings, lengthLabel, volumeLabel),
+    uncertainty: uncertaintyWords(surveys.slice(0, to + 1), figures.total.biasVolumePerUnit, lengthLabel, volumeLabel), figures,
   };
 }
 
 /** The part of a period view that a signed report keeps (no cells: the zone and project rows). */
 function snapshotOf(period: PayPeriodView): PayPeriodSnapshot {
   return {
-    from: period.from, to: period.to, volumeLabel: period.volumeLabel, lengthLabel: period.lengthLabel, settings: period.settings, method: period.method,
+    from: period.from, to: period.to, volumeLabel: period.volumeLabel, lengthLabel: period.lengthLabel, settings: period.settings, method: period.method, uncertainty: period.uncertainty,
     total: period.figures.total, zones: period.figures.zones,
   };
 }

@@ -129,11 +129,14 @@ export function quantitiesCsv(view: QuantitiesView, generatedAt: Date): string {
     lines.push(csvLine(["Period to", periodSurveyWords(period.to)]));
     lines.push(csvLine(["Period method", period.method]));
     lines.push(csvLine(["Settings in force", periodSettingsWords(period)]));
+    lines.push(csvLine(["Uncertainty", period.uncertainty]));
     lines.push(csvLine([
       "period zone", `removed (${volume})`, `paid (${volume})`, `over-dredge (${volume})`, `deposited (${volume})`, `remaining at end (${volume})`, "cells",
+      `removed ± 95 % (${volume})`,
     ]));
-    for (const zone of period.figures.zones) lines.push(csvLine([zone.name, ...PERIOD_VOLUME_KEYS.map((key) => zone[key]), zone.cells], 2));
-    lines.push(csvLine(["Period project total", ...PERIOD_VOLUME_KEYS.map((key) => period.figures.total[key]), period.figures.total.cells], 2));
+    for (const zone of period.figures.zones) lines.push(csvLine([zone.name, ...PERIOD_VOLUME_KEYS.map((key) => zone[key]), zone.cells, zone.removedBandVolume], 2));
+    const periodTotal = period.figures.total;
+    lines.push(csvLine(["Period project total", ...PERIOD_VOLUME_KEYS.map((key) => periodTotal[key]), periodTotal.cells, periodTotal.removedBandVolume], 2));
   }
   lines.push("\r\n");
   lines.push(csvLine(["Zone totals"]));
@@ -180,7 +183,7 @@ export async function quantitiesGeoJson(view: QuantitiesView): Promise<GeoJSON.F
   return {
     type: "FeatureCollection",
     // A foreign member (RFC 7946 §6.1): what the period columns of every feature rest on.
-    ...(period ? { period: { from: period.from, to: period.to, method: period.method, settings: period.settings, volumeUnit: period.volumeLabel, lengthUnit: period.lengthLabel, total: period.figures.total, zones: period.figures.zones } } : {}),
+    ...(period ? { period: { from: period.from, to: period.to, method: period.method, uncertainty: period.uncertainty, settings: period.settings, volumeUnit: period.volumeLabel, lengthUnit: period.lengthLabel, total: period.figures.total, zones: period.figures.zones } } : {}),
     features: view.cells.map((cell) => {
       const inPeriod = periodCells.get(cell.label);
       return {

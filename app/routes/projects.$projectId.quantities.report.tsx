@@ -104,6 +104,7 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
           </ul>
           <PayPeriodTable figures={loaderData.period.figures} unit={unit} digits={1} testId="report-period-table" />
           <p className="mt-2 text-xs">{loaderData.period.method}</p>
+          <p className="mt-1 text-xs">{loaderData.period.uncertainty}</p>
           <p className="mt-1 text-xs">
             Settings in force: over-dredge allowance <span className="figures">{formatNumber(loaderData.period.settings.overDredgeAllowance, 2)} {loaderData.period.lengthLabel}</span>,
             firm-sand tolerance <span className="figures">{formatNumber(loaderData.period.settings.firmSandTolerance, 2)} {loaderData.period.lengthLabel}</span>,

@@ -147,6 +147,7 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
                 <li><PeriodSurveyLine label="To" survey={period.to} /></li>
               </ul>
               <p className="mt-2 text-xs text-muted">{period.method}</p>
+              <p className="mt-1 text-xs text-muted">{period.uncertainty}</p>
               <p className="mt-1 text-xs text-muted">
                 Over-dredge allowance <span className="figures">{formatNumber(period.settings.overDredgeAllowance, 2)} {period.lengthLabel}</span> (project settings, tolerances).
                 Removal below firm sand less the allowance is over-dredge, which pay practice usually does not pay; the contract decides.
@@ -192,7 +193,7 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
                     <td className="text-left">{report.signedName}<br /><span className="figures text-xs text-muted">{report.signedAt.slice(0, 16).replace("T", " ")} UTC</span></td>
                     <td><Volume value={report.snapshot.total.paidVolume} unit={report.snapshot.volumeLabel} digits={1} /></td>
                     <td><Volume value={report.snapshot.total.overDredgeVolume} unit={report.snapshot.volumeLabel} digits={1} /></td>
-                    <td><Volume value={report.snapshot.total.removedVolume} unit={report.snapshot.volumeLabel} digits={1} /></td>
+                    <td><Volume value={report.snapshot.total.removedVolume} unit={report.snapshot.volumeLabel} digits={1} /><br /><span className="text-xs text-muted">± <Volume value={report.snapshot.total.removedBandVolume} unit={report.snapshot.volumeLabel} digits={1} /></span></td>
                     <td className="text-left text-xs">
                       {report.difference ? (
                         Math.abs(report.difference.paidVolume) < 0.05 && Math.abs(report.difference.overDredgeVolume) < 0.05 && Math.abs(report.difference.removedVolume) < 0.05

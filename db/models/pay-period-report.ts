@@ -11,6 +11,9 @@ const volumes = {
   overDredgeVolume: z.number(),
   depositedVolume: z.number(),
   remainingVolume: z.number(),
+  /** ± 95 % on removed from the surveys' vertical uncertainty, and the removed volume's shift per unit of reference bias. */
+  removedBandVolume: z.number(),
+  biasVolumePerUnit: z.number(),
 };
 const periodSurvey = z.object({ id: z.number(), kind: z.string(), surveyedOn: z.string(), datum: z.string(), fileName: z.string(), contentSha256: z.string() });
 
@@ -22,6 +25,7 @@ export const payPeriodSnapshotSchema = z.object({
   lengthLabel: z.string(),
   settings: z.object({ overDredgeAllowance: z.number(), firmSandTolerance: z.number(), cellSize: z.number(), rasterResolution: z.number(), maxEdge: z.number() }),
   method: z.string(),
+  uncertainty: z.string(),
   total: z.object({ ...volumes, cells: z.number() }),
   zones: z.array(z.object({ zoneId: z.number().nullable(), name: z.string(), cells: z.number(), ...volumes })),
 });

@@ -73,6 +73,18 @@ describe("the default period", () => {
   });
 });
 
+describe("the removed volume's band from the surveys' vertical uncertainty", () => {
+  it("is stated with its method, and the zone bands add in quadrature to the project's", () => {
+    const { total, zones } = whole.figures;
+    expect(total.removedBandVolume).toBeGreaterThan(0);
+    // invariant: cells are independent, so the squares of the zone rows' bands add up to the project's
+    expect(Math.hypot(...zones.map((zone) => zone.removedBandVolume))).toBeCloseTo(total.removedBandVolume, 6);
+    expect(whole.surveys.every((survey) => survey.order === "1a")).toBe(true); // as imported above
+    expect(whole.uncertainty).toMatch(/IHO S-44/);
+    expect(whole.uncertainty).toMatch(/systematic bias/);
+  });
+});
+
 describe("periods between any two surveys", () => {
   it("consecutive periods add up to the whole: removed − deposited telescopes node by node", async () => {
     let net = 0;

@@ -56,6 +56,8 @@ export interface ProjectState {
 export interface PeriodSurfaces {
   surveys: DatedSurvey[];
   progress: RasterValues[];
+  /** Per survey in force (as `surveys`), its soundings per grid cell: what the removed volume's band averages over. */
+  soundingsPerCell: Uint32Array[];
 }
 
 /** Step (1) for a project: the work of each survey, and the settings all of it shares. */
@@ -110,7 +112,7 @@ export function computeStateFromRasters(input: SampledProjectInput, onProgress?:
   // Sections one cell apart, sampled at the raster spacing: as fine as the surfaces themselves.
   const layout = principalAxisLayout(input.workLimit, input.settings.cellSize, input.settings.resolution);
   const endArea = endAreaCheck(latest.rasters.muckTop, latest.rasters.latestBottom, latest.totals.removedVolumeCubicLength, layout);
-  const periods: PeriodSurfaces = { surveys: [input.inForce.baseline, ...input.inForce.later].map(({ id, kind, surveyedOn }) => ({ id, kind, surveyedOn })), progress: sampled.progress };
+  const periods: PeriodSurfaces = { surveys: [input.inForce.baseline, ...input.inForce.later].map(({ id, kind, surveyedOn }) => ({ id, kind, surveyedOn })), progress: sampled.progress, soundingsPerCell: input.soundingsPerCell.slice(0, 1 + input.inForce.later.length) };
   return { figures, surfaces: latestSurfaces(latest, input.waterSurfaceElevation, input.soundingsPerCell), endArea, periods };
 }
 
