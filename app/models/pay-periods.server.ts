@@ -9,7 +9,7 @@ import { PayPeriodReport, Survey, getSequelize, type PayPeriodSnapshot } from "~
 import { getEngineState } from "~/lib/engine/engine-state.server";
 import { computePeriodFigures, type PeriodFigures } from "~/lib/engine/period-figures";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
-import { ValidationError } from "~/lib/errors";
+import { NotFoundError, ValidationError } from "~/lib/errors";
 
 /**
  * Pay periods: the figures between any two surveys in force (by default the baseline to the
@@ -196,20 +196,29 @@ export interface SignedPeriod {
 export async function listSignedPeriods(project: ProjectView): Promise<SignedPeriod[]> {
   const reports = await PayPeriodReport.findAll({ where: { projectId: project.id }, order: [["signedAt", "DESC"], ["id", "DESC"]] });
   const signed: SignedPeriod[] = [];
-  for (const report of reports) {
-    let difference: PeriodVolumes | null = null;
-    let recomputeNote: string | null = null;
-    try {
-      const now = await loadPayPeriod(project, { from: String(report.fromSurveyId), to: String(report.toSurveyId) });
-      if (now) {
-        const total = report.snapshot.total;
-        difference = Object.fromEntries(PERIOD_VOLUME_KEYS.map((key) => [key, now.figures.total[key] - total[key]])) as unknown as PeriodVolumes;
-      } else recomputeNote = "The project has no figures now.";
-    } catch (error) {
-      if (!(error instanceof ValidationError)) throw error;
-      recomputeNote = "One of its surveys is no longer in force (retracted or superseded), so the period cannot be recomputed; the signed figures stand as issued.";
-    }
-    signed.push({ id: report.id, signedName: report.signedName, signedAt: report.signedAt.toISOString(), snapshot: report.snapshot, difference, recomputeNote });
-  }
+  for (const report of reports) signed.push(await presentSigned(project, report));
   return signed;
+}
+
+/** One signed period of the project, as issued, beside its recompute now; a NotFoundError when the project has no such report. */
+export async function getSignedPeriod(project: ProjectView, reportId: number): Promise<SignedPeriod> {
+  const report = await PayPeriodReport.findOne({ where: { id: reportId, projectId: project.id } });
+  if (!report) throw new NotFoundError("There is no such signed period in this project.");
+  return presentSigned(project, report);
+}
+
+async function presentSigned(project: ProjectView, report: PayPeriodReport): Promise<SignedPeriod> {
+  let difference: PeriodVolumes | null = null;
+  let recomputeNote: string | null = null;
+  try {
+    const now = await loadPayPeriod(project, { from: String(report.fromSurveyId), to: String(report.toSurveyId) });
+    if (now) {
+      const total = report.snapshot.total;
+      difference = Object.fromEntries(PERIOD_VOLUME_KEYS.map((key) => [key, now.figures.total[key] - total[key]])) as unknown as PeriodVolumes;
+    } else recomputeNote = "The project has no figures now.";
+  } catch (error) {
+    if (!(error instanceof ValidationError)) throw error;
+    recomputeNote = "One of its surveys is no longer in force (retracted or superseded), so the period cannot be recomputed; the signed figures stand as issued.";
+  }
+  return { id: report.id, signedName: report.signedName, signedAt: report.signedAt.toISOString(), snapshot: report.snapshot, difference, recomputeNote };
 }

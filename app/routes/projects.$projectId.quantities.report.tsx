@@ -1,11 +1,13 @@
 import { data } from "react-router";
 import { PayPeriodTable, PeriodSurveyLine } from "~/components/pay-period";
 import { Percent, Volume, ZoneName, formatNumber, zoneKey } from "~/components/progress-figures";
-import { ValidationError } from "~/lib/errors";
+import { NotFoundError, ValidationError } from "~/lib/errors";
 import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 import { requireRole } from "~/lib/auth/access.server";
 import { loadQuantities } from "~/models/quantities.server";
-import type { PayPeriodView } from "~/models/pay-periods.server";
+import { getSignedPeriod, type PayPeriodView, type SignedPeriod } from "~/models/pay-periods.server";
+import type { PayPeriodSnapshot } from "~/lib/db.server";
+import { urlIdSchema } from "~/lib/http/url-id";
 import type { Route } from "./+types/projects.$projectId.quantities.report";
 
 // The printable quantities report (outside the project layout, so it prints without navigation):
@@ -15,23 +17,40 @@ import type { Route } from "./+types/projects.$projectId.quantities.report";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, user } = await requireRole(request, params.projectId, "quantities.read");
   const search = new URL(request.url).searchParams;
+  const signedId = search.get("signed");
   let view;
+  let signed: SignedPeriod | null = null;
   try {
-    view = await loadQuantities(project, { from: search.get("from"), to: search.get("to") });
+    if (signedId !== null) {
+      const id = urlIdSchema.safeParse(signedId);
+      if (!id.success) throw new NotFoundError("There is no such signed period in this project.");
+      signed = await getSignedPeriod(project, id.data);
+    }
+    view = await loadQuantities(project, signed ? {} : { from: search.get("from"), to: search.get("to") });
   } catch (error) {
     if (error instanceof ValidationError) throw data(error.details.map((detail) => `${detail.field ?? ""} ${detail.message}`.trim()).join(" "), { status: 422 });
+    if (error instanceof NotFoundError) throw data(error.message, { status: 404 });
     throw error;
   }
   return {
     project: view.project, baseline: view.baseline, latest: view.latest, method: view.method,
-    period: view.period && reportPeriod(view.period),
+    // A signed report prints its figures as issued, whatever the surveys and settings are now.
+    period: signed ? signedPeriod(signed.snapshot) : view.period && reportPeriod(view.period),
+    signed: signed && { name: signed.signedName, at: signed.signedAt, difference: signed.difference, recomputeNote: signed.recomputeNote },
     total: view.progress.total, zones: view.progress.zones, preparedBy: user.name, preparedOn: new Date().toISOString().slice(0, 10),
   };
 }
 
 /** The period as the report prints it: no survey list, no cells. */
-function reportPeriod({ surveys: _surveys, figures, ...period }: PayPeriodView) {
-  return { ...period, figures: { total: figures.total, zones: figures.zones } };
+function reportPeriod(period: PayPeriodView) {
+  const { from, to, volumeLabel, lengthLabel, settings, method, uncertainty, figures } = period;
+  return { from, to, volumeLabel, lengthLabel, settings, method, uncertainty, figures: { total: figures.total, zones: figures.zones } };
+}
+
+/** A signed period's snapshot in the same shape. */
+function signedPeriod(snapshot: PayPeriodSnapshot) {
+  const { from, to, volumeLabel, lengthLabel, settings, method, uncertainty, total, zones } = snapshot;
+  return { from, to, volumeLabel, lengthLabel, settings, method, uncertainty, figures: { total, zones } };
 }
 
 export function meta({ data: report }: Route.MetaArgs) {
@@ -98,6 +117,14 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
       {loaderData.period ? (
         <section aria-labelledby="period-heading" className="mt-8 break-inside-avoid">
           <h2 id="period-heading" className="font-semibold">Pay period <span className="figures">{loaderData.period.from.surveyedOn} → {loaderData.period.to.surveyedOn}</span></h2>
+          {loaderData.signed ? (
+            <p className="mt-1 rounded border border-ink px-3 py-2 text-sm" data-testid="signed-as-issued">
+              Signed by <strong>{loaderData.signed.name}</strong> on <span className="figures">{loaderData.signed.at.slice(0, 16).replace("T", " ")} UTC</span>: the figures below are kept as issued.{" "}
+              {loaderData.signed.difference
+                ? `Recomputed now, paid differs by ${formatNumber(loaderData.signed.difference.paidVolume, 1)} ${loaderData.period.volumeLabel} and removed by ${formatNumber(loaderData.signed.difference.removedVolume, 1)} ${loaderData.period.volumeLabel}.`
+                : loaderData.signed.recomputeNote}
+            </p>
+          ) : null}
           <ul className="mt-1 space-y-1 wrap-anywhere text-xs">
             <li><PeriodSurveyLine label="From" survey={loaderData.period.from} /></li>
             <li><PeriodSurveyLine label="To" survey={loaderData.period.to} /></li>

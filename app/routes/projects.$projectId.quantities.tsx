@@ -189,7 +189,10 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
               <tbody>
                 {signed.map((report) => (
                   <tr key={report.id} className="border-b border-line align-top" data-report={report.id}>
-                    <th scope="row" className="py-1 text-left font-sans font-normal"><span className="figures whitespace-nowrap">{report.snapshot.from.surveyedOn} → {report.snapshot.to.surveyedOn}</span></th>
+                    <th scope="row" className="py-1 text-left font-sans font-normal">
+                      <span className="figures whitespace-nowrap">{report.snapshot.from.surveyedOn} → {report.snapshot.to.surveyedOn}</span><br />
+                      <Link className="text-xs text-lagoon underline" to={`/projects/${project.id}/quantities/report?signed=${report.id}`}>Report as signed</Link>
+                    </th>
                     <td className="text-left">{report.signedName}<br /><span className="figures text-xs text-muted">{report.signedAt.slice(0, 16).replace("T", " ")} UTC</span></td>
                     <td><Volume value={report.snapshot.total.paidVolume} unit={report.snapshot.volumeLabel} digits={1} /></td>
                     <td><Volume value={report.snapshot.total.overDredgeVolume} unit={report.snapshot.volumeLabel} digits={1} /></td>

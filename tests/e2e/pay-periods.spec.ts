@@ -61,4 +61,8 @@ test("the manager chooses a period between two surveys, sees rows that add up, a
   await expect(signed).toContainText("same figures"); // nothing changed since it was signed
   // The signed paid volume is the one shown for the period (to the shown rounding).
   expect(Math.abs(volumeOf(await signed.locator("td").nth(1).innerText()) - project[1])).toBeLessThanOrEqual(0.6);
+  // Its printable report says it is kept as issued, under the signer's name.
+  await signed.getByRole("link", { name: "Report as signed" }).click();
+  await expect(page.getByTestId("signed-as-issued")).toContainText(signer);
+  await expect(page.getByTestId("signed-as-issued")).toContainText("kept as issued");
 });

@@ -199,6 +199,13 @@ describe("signed periods", () => {
     const audit = await AuditEvent.findOne({ where: { projectId: project.id, action: "pay-period-signed" } });
     expect(audit?.detail).toMatchObject({ reportId: id, fromSurveyId: from.id, toSurveyId: to.id });
 
+    // The printable report of the signed period prints the snapshot; another id of no report is 404.
+    const printed = await quantitiesReport.loader(await apiArgs(`/projects/${project.id}/quantities/report?signed=${id}`));
+    expect(printed.signed!.name).toBe("Pat Manager");
+    expect(printed.period!.figures.total).toEqual(stored.snapshot.total);
+    const missing = await quantitiesReport.loader(await apiArgs(`/projects/${project.id}/quantities/report?signed=999999999`)).catch((thrown: unknown) => thrown);
+    expect((missing as { init: { status: number } }).init.status).toBe(404);
+
     let [listed] = await listSignedPeriods(project);
     expect(listed.id).toBe(id);
     for (const key of PERIOD_VOLUME_KEYS) expect(listed.difference![key]).toBe(0); // same surfaces, same settings
