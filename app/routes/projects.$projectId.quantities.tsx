@@ -182,8 +182,8 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
             <table className="mt-2 w-full text-right text-sm" data-testid="signed-periods">
               <thead>
                 <tr className="border-b border-line">
-                  <th className="py-1 text-left font-sans">Period</th><th className="text-left font-sans">Signed</th>
-                  <th>Paid</th><th>Over-dredge</th><th>Removed</th><th className="text-left font-sans">Recomputed now</th>
+                  <th className="py-1 text-left font-sans">Period</th><th className="pl-3 text-left font-sans">Signed</th>
+                  <th className="pl-3">Paid</th><th className="pl-3">Over-dredge</th><th className="pl-3">Removed</th><th className="pl-3 text-left font-sans">Recomputed now</th>
                 </tr>
               </thead>
               <tbody>
@@ -193,11 +193,11 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
                       <span className="figures whitespace-nowrap">{report.snapshot.from.surveyedOn} → {report.snapshot.to.surveyedOn}</span><br />
                       <Link className="text-xs text-lagoon underline" to={`/projects/${project.id}/quantities/report?signed=${report.id}`}>Report as signed</Link>
                     </th>
-                    <td className="text-left">{report.signedName}<br /><span className="figures text-xs text-muted">{report.signedAt.slice(0, 16).replace("T", " ")} UTC</span></td>
-                    <td><Volume value={report.snapshot.total.paidVolume} unit={report.snapshot.volumeLabel} digits={1} /></td>
-                    <td><Volume value={report.snapshot.total.overDredgeVolume} unit={report.snapshot.volumeLabel} digits={1} /></td>
-                    <td><Volume value={report.snapshot.total.removedVolume} unit={report.snapshot.volumeLabel} digits={1} /><br /><span className="text-xs text-muted">± <Volume value={report.snapshot.total.removedBandVolume} unit={report.snapshot.volumeLabel} digits={1} /></span></td>
-                    <td className="text-left text-xs">
+                    <td className="min-w-32 pl-3 text-left">{report.signedName}<br /><span className="figures text-xs text-muted">{report.signedAt.slice(0, 16).replace("T", " ")} UTC</span></td>
+                    <td className="pl-3"><Volume value={report.snapshot.total.paidVolume} unit={report.snapshot.volumeLabel} digits={1} /></td>
+                    <td className="pl-3"><Volume value={report.snapshot.total.overDredgeVolume} unit={report.snapshot.volumeLabel} digits={1} /></td>
+                    <td className="pl-3"><Volume value={report.snapshot.total.removedVolume} unit={report.snapshot.volumeLabel} digits={1} /><br /><span className="text-xs text-muted">± <Volume value={report.snapshot.total.removedBandVolume} unit={report.snapshot.volumeLabel} digits={1} /></span></td>
+                    <td className="min-w-40 pl-3 text-left text-xs">
                       {report.difference ? (
                         Math.abs(report.difference.paidVolume) < 0.05 && Math.abs(report.difference.overDredgeVolume) < 0.05 && Math.abs(report.difference.removedVolume) < 0.05
                           ? "same figures"
