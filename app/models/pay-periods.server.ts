@@ -94,11 +94,18 @@ function uncertaintyWords(surveys: readonly PeriodSurvey[], biasVolumePerUnit: n
   );
 }
 
+/** How every survey becomes a volume, in words: the first sentence of the quantities' and the periods' methods. */
+export function surfaceMethodWords(grid: { maxEdge: number; rasterResolution: number; cellSize: number }, length: string): string {
+  return (
+    `Surface to surface: each survey is a Delaunay triangulation of its soundings (no triangle edge longer than ${grid.maxEdge} ${length}), ` +
+    `sampled on a ${grid.rasterResolution} ${length} raster inside the work limit and integrated over ${grid.cellSize} ${length} cells. `
+  );
+}
+
 /** Text of the period method, with the settings in force. */
 function periodMethod(project: ProjectView, settings: PeriodSettings, length: string, volume: string): string {
   return (
-    `Surface to surface: each survey is a Delaunay triangulation of its soundings (no triangle edge longer than ${settings.maxEdge} ${length}), ` +
-    `sampled on a ${settings.rasterResolution} ${length} raster inside the work limit and integrated over ${settings.cellSize} ${length} cells. ` +
+    surfaceMethodWords(settings, length) +
     "The bottom as of a survey takes, at each raster node, the newest survey in force up to it with data there, down to the baseline. " +
     "Removed = the bottom as of the first survey down to the bottom as of the second; paid = the part of it above the pay surface " +
     `(firm sand from the baseline's probe, less the over-dredge allowance of ${settings.overDredgeAllowance} ${length}); over-dredge = the part below the pay surface; ` +

@@ -11,7 +11,7 @@ import { loadProgress, type ProgressFigures, type ProgressView } from "./progres
 import type { StoredCellFigures } from "./cells-presenter";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import { presentStoredCellFigures } from "./cells-presenter";
-import { loadPayPeriod, type PayPeriodView, type PeriodQuery, type PeriodSurvey } from "./pay-periods.server";
+import { loadPayPeriod, surfaceMethodWords, type PayPeriodView, type PeriodQuery, type PeriodSurvey } from "./pay-periods.server";
 import { PERIOD_VOLUME_KEYS } from "../../shared/volumes/period";
 
 /**
@@ -68,8 +68,7 @@ export async function loadQuantities(project: ProjectView, period: PeriodQuery =
     baseline: ref(inForce?.baseline),
     latest: ref(inForce?.later.at(-1) ?? inForce?.baseline),
     method:
-      `Surface to surface: each survey is a Delaunay triangulation of its soundings (no triangle edge longer than ${project.grid.maxEdge} ${length}), ` +
-      `sampled on a ${project.grid.rasterResolution} ${length} raster inside the work limit and integrated over ${project.grid.cellSize} ${length} cells. ` +
+      surfaceMethodWords(project.grid, length) +
       "Planned = baseline muck top down to firm sand (probe refusal); removed = baseline down to the latest bottom; remaining = latest bottom down to firm sand. " +
       `Volumes in ${volumeLabel}.`,
     progress,
