@@ -21,6 +21,7 @@ export default [
   route("api/projects/:projectId/cells/:label", "routes/api.projects.$projectId.cells.$label.ts"),
   route("api/projects/:projectId/dives", "routes/api.projects.$projectId.dives.ts"),
   route("api/projects/:projectId/progress", "routes/api.projects.$projectId.progress.ts"),
+  route("api/projects/:projectId/quantities", "routes/api.projects.$projectId.quantities.ts"),
   route("api/projects/:projectId/quantities.csv", "routes/api.projects.$projectId.quantities[.]csv.ts"),
   route("api/projects/:projectId/quantities.geojson", "routes/api.projects.$projectId.quantities[.]geojson.ts"),
   route("api/projects/:projectId/share-links", "routes/api.projects.$projectId.share-links.ts"),

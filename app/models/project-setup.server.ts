@@ -41,6 +41,7 @@ const tolerancesSchema = z.object({
   firmSand: z.number().finite().min(0, "The firm-sand tolerance cannot be negative").optional(),
   firmShare: share("The firm share").optional(),
   minCoverage: share("The minimum coverage").optional(),
+  overDredgeAllowance: z.number({ error: "The over-dredge allowance must be a number" }).finite().min(0, "The over-dredge allowance cannot be negative").optional(),
 });
 const zoneSchema = z.object({ name: z.string().trim().min(1, "A zone needs a name").max(120), geometry: z.unknown() });
 
@@ -101,7 +102,8 @@ export interface ProjectSettings {
   /** Plan area of the work limit, square project units. */
   workLimitArea: number | null;
   grid: { cellSize: number; rotationDegrees: number; originX: number; originY: number; rasterResolution: number; maxEdge: number };
-  tolerances: { firmSand: number; firmShare: number; minCoverage: number };
+  /** `overDredgeAllowance`: how far below firm sand removal is still paid (project length unit). */
+  tolerances: { firmSand: number; firmShare: number; minCoverage: number; overDredgeAllowance: number };
   zones: Array<{ id: number; name: string; sortOrder: number; geometry: unknown }>;
   /** Cells of the grid over the work limit's extent. */
   cellCount: number | null;
@@ -251,6 +253,7 @@ export async function createProject(actor: UserView, input: NewProjectInput, opt
         tolerance: input.tolerances?.firmSand ?? defaults.tolerance,
         firmShare: input.tolerances?.firmShare ?? 0.95,
         minCoverage: input.tolerances?.minCoverage ?? 0.8,
+        overDredgeAllowance: input.tolerances?.overDredgeAllowance ?? 0,
         workLimitGeoJson: JSON.stringify(limit.lonLat),
         // A diver, a tender and a standby diver (practice; the dive plan refuses smaller teams).
         minTeamSize: input.minTeamSize ?? 3,
@@ -293,7 +296,7 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
     workLimit: project.workLimitGeoJson ? JSON.parse(project.workLimitGeoJson) : null,
     workLimitArea: limit?.area ?? null,
     grid: { cellSize: grid.cellSize, rotationDegrees: grid.rotationDegrees, originX: grid.originX, originY: grid.originY, rasterResolution: grid.rasterResolution, maxEdge: grid.maxEdge },
-    tolerances: { firmSand: grid.tolerance, firmShare: grid.firmShare, minCoverage: grid.minCoverage },
+    tolerances: { firmSand: grid.tolerance, firmShare: grid.firmShare, minCoverage: grid.minCoverage, overDredgeAllowance: grid.overDredgeAllowance },
     zones: zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, geometry: JSON.parse(zone.polygonGeoJson) })),
     cellCount: limit ? cellCount(createCellGrid(limit.projected, grid)) : null,
     surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
@@ -387,6 +390,8 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
       if (patch.tolerances?.firmSand !== undefined) row.tolerance = patch.tolerances.firmSand;
       if (patch.tolerances?.firmShare !== undefined) row.firmShare = patch.tolerances.firmShare;
       if (patch.tolerances?.minCoverage !== undefined) row.minCoverage = patch.tolerances.minCoverage;
+      // Not a figures change: the stored figures do not split paid from over-dredge; pay periods read it when asked.
+      if (patch.tolerances?.overDredgeAllowance !== undefined) row.overDredgeAllowance = patch.tolerances.overDredgeAllowance;
       if (limit) row.workLimitGeoJson = JSON.stringify(limit.lonLat);
       const figuresChange = (["workLimitGeoJson", "cellSize", "rotationDeg", "gridOriginE", "gridOriginN", "rasterResolution", "maxEdge", "tolerance", "firmShare", "minCoverage"] as const).some((key) => row.changed(key));
       await row.save({ transaction });

@@ -11,6 +11,8 @@ import { loadProgress, type ProgressFigures, type ProgressView } from "./progres
 import type { StoredCellFigures } from "./cells-presenter";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import { presentStoredCellFigures } from "./cells-presenter";
+import { loadPayPeriod, surfaceMethodWords, type PayPeriodView, type PeriodQuery, type PeriodSurvey } from "./pay-periods.server";
+import { PERIOD_VOLUME_KEYS } from "../../shared/volumes/period";
 
 /**
  * Quantities for pay applications: the survey pair they rest on, the method in words, zone
@@ -31,10 +33,14 @@ export interface QuantitiesView {
   method: string;
   progress: ProgressView;
   cells: Array<StoredCellFigures & { zone: string | null; latestSurveyOn: string | null }>;
+  /** The pay period asked for (default: the baseline to the latest survey); null without figures. */
+  period: PayPeriodView | null;
 }
 
-export async function loadQuantities(project: ProjectView): Promise<QuantitiesView> {
-  const [progress, surveys, zones, cells] = await Promise.all([
+/** `period`: the pay period's ends (survey ids); a bad one throws a ValidationError naming `from` or `to`. */
+export async function loadQuantities(project: ProjectView, period: PeriodQuery = {}): Promise<QuantitiesView> {
+  const [payPeriod, progress, surveys, zones, cells] = await Promise.all([
+    loadPayPeriod(project, period),
     loadProgress(project),
     Survey.findAll({ where: { projectId: project.id, status: "active" }, attributes: ["id", "kind", "surveyedOn", "datum"] }),
     Zone.findAll({ where: { projectId: project.id }, attributes: ["id", "name"] }),
@@ -62,11 +68,11 @@ export async function loadQuantities(project: ProjectView): Promise<QuantitiesVi
     baseline: ref(inForce?.baseline),
     latest: ref(inForce?.later.at(-1) ?? inForce?.baseline),
     method:
-      `Surface to surface: each survey is a Delaunay triangulation of its soundings (no triangle edge longer than ${project.grid.maxEdge} ${length}), ` +
-      `sampled on a ${project.grid.rasterResolution} ${length} raster inside the work limit and integrated over ${project.grid.cellSize} ${length} cells. ` +
+      surfaceMethodWords(project.grid, length) +
       "Planned = baseline muck top down to firm sand (probe refusal); removed = baseline down to the latest bottom; remaining = latest bottom down to firm sand. " +
       `Volumes in ${volumeLabel}.`,
     progress,
+    period: payPeriod,
     cells: cells
       .filter((cell) => cell.areaInLimit > 0)
       .map((cell) => ({
@@ -79,6 +85,17 @@ export async function loadQuantities(project: ProjectView): Promise<QuantitiesVi
 
 function surveyWords(survey: SurveyRef | null): string {
   return survey ? `${survey.kind} survey of ${survey.surveyedOn} (#${survey.id}, ${survey.datum})` : "none";
+}
+
+/** A period's end in words: date, kind, id, the file's name and its SHA-256. */
+export function periodSurveyWords(survey: PeriodSurvey): string {
+  return `${survey.kind} survey of ${survey.surveyedOn} (#${survey.id}, ${survey.datum}), file ${survey.fileName}, SHA-256 ${survey.contentSha256}`;
+}
+
+export function periodSettingsWords(period: PayPeriodView): string {
+  const { settings, lengthLabel } = period;
+  return `over-dredge allowance ${settings.overDredgeAllowance} ${lengthLabel}; firm-sand tolerance ${settings.firmSandTolerance} ${lengthLabel}; ` +
+    `cell size ${settings.cellSize} ${lengthLabel}; raster resolution ${settings.rasterResolution} ${lengthLabel}; longest triangle edge ${settings.maxEdge} ${lengthLabel}`;
 }
 
 function zoneRow(name: string, figures: ProgressFigures): CsvValue[] {
@@ -103,6 +120,23 @@ export function quantitiesCsv(view: QuantitiesView, generatedAt: Date): string {
   lines.push(csvLine(["Method", view.method]));
   lines.push(csvLine(["Generated", generatedAt.toISOString()]));
   if (progress.zones.some((zone) => zone.zoneId === null)) lines.push(csvLine(["Zone rows", UNZONED_NOTE]));
+  const period = view.period;
+  if (period) {
+    lines.push("\r\n");
+    lines.push(csvLine(["Pay period"]));
+    lines.push(csvLine(["Period from", periodSurveyWords(period.from)]));
+    lines.push(csvLine(["Period to", periodSurveyWords(period.to)]));
+    lines.push(csvLine(["Period method", period.method]));
+    lines.push(csvLine(["Settings in force", periodSettingsWords(period)]));
+    lines.push(csvLine(["Uncertainty", period.uncertainty]));
+    lines.push(csvLine([
+      "period zone", `removed (${volume})`, `paid (${volume})`, `over-dredge (${volume})`, `deposited (${volume})`, `remaining at end (${volume})`, "cells",
+      `removed ± 95 % (${volume})`,
+    ]));
+    for (const zone of period.figures.zones) lines.push(csvLine([zone.name, ...PERIOD_VOLUME_KEYS.map((key) => zone[key]), zone.cells, zone.removedBandVolume], 2));
+    const periodTotal = period.figures.total;
+    lines.push(csvLine(["Period project total", ...PERIOD_VOLUME_KEYS.map((key) => periodTotal[key]), periodTotal.cells, periodTotal.removedBandVolume], 2));
+  }
   lines.push("\r\n");
   lines.push(csvLine(["Zone totals"]));
   lines.push(csvLine([
@@ -116,12 +150,16 @@ export function quantitiesCsv(view: QuantitiesView, generatedAt: Date): string {
   lines.push(csvLine([
     "cell", "row", "col", "zone", "status", `planned (${volume})`, `removed (${volume})`, `deposited (${volume})`, `remaining (${volume})`,
     `mean remaining thickness (${project.lengthLabel})`, "surveyed coverage (0-1)", `area in work limit (${project.lengthLabel}²)`, "latest survey",
+    ...(period ? [`period removed (${volume})`, `period paid (${volume})`, `period over-dredge (${volume})`, `period deposited (${volume})`, `remaining at period end (${volume})`] : []),
   ]));
+  const periodCells = new Map(period?.figures.cells.map((cell) => [cell.label, cell]));
   for (const cell of view.cells) {
+    const inPeriod = periodCells.get(cell.label);
     lines.push(
       csvLine([
         cell.label, cell.row, cell.col, cell.zone ?? "", cell.status, cell.plannedVolume, cell.removedVolume, cell.depositedVolume, cell.remainingVolume,
         cell.meanRemainingThickness, cell.coverage, cell.areaInLimit, cell.latestSurveyOn ?? "",
+        ...(period ? PERIOD_VOLUME_KEYS.map((key) => inPeriod?.[key] ?? "") : []),
       ]),
     );
   }
@@ -129,7 +167,7 @@ export function quantitiesCsv(view: QuantitiesView, generatedAt: Date): string {
 }
 
 /** The cells as a GeoJSON FeatureCollection in lon/lat (RFC 7946) with their figures. */
-export async function quantitiesGeoJson(view: QuantitiesView): Promise<GeoJSON.FeatureCollection<GeoJSON.Polygon>> {
+export async function quantitiesGeoJson(view: QuantitiesView): Promise<GeoJSON.FeatureCollection<GeoJSON.Polygon> & { period?: unknown }> {
   const geometry = await loadProjectGeometry(view.project.id);
   if (!geometry.workLimit) return { type: "FeatureCollection", features: [] };
   const grid = createCellGrid(geometry.workLimit, {
@@ -139,12 +177,22 @@ export async function quantitiesGeoJson(view: QuantitiesView): Promise<GeoJSON.F
     rotationDegrees: geometry.settings.rotationDegrees,
   });
   const crs = createCrs(resolveCrsDefinition(view.project.crs).definition);
+  const period = view.period;
+  const periodCells = new Map(period?.figures.cells.map((cell) => [cell.label, cell]));
   return {
     type: "FeatureCollection",
-    features: view.cells.map((cell) => ({
-      type: "Feature",
-      geometry: { type: "Polygon", coordinates: [cellPolygon(grid, cell.row, cell.col).map(([x, y]) => crs.toLonLat(x, y))] },
-      properties: { ...cell, volumeUnit: view.project.volumeLabel, lengthUnit: view.project.lengthLabel },
-    })),
+    // A foreign member (RFC 7946 §6.1): what the period columns of every feature rest on.
+    ...(period ? { period: { from: period.from, to: period.to, method: period.method, uncertainty: period.uncertainty, settings: period.settings, volumeUnit: period.volumeLabel, lengthUnit: period.lengthLabel, total: period.figures.total, zones: period.figures.zones } } : {}),
+    features: view.cells.map((cell) => {
+      const inPeriod = periodCells.get(cell.label);
+      return {
+        type: "Feature",
+        geometry: { type: "Polygon", coordinates: [cellPolygon(grid, cell.row, cell.col).map(([x, y]) => crs.toLonLat(x, y))] },
+        properties: {
+          ...cell, volumeUnit: view.project.volumeLabel, lengthUnit: view.project.lengthLabel,
+          ...(inPeriod ? { periodRemovedVolume: inPeriod.removedVolume, periodPaidVolume: inPeriod.paidVolume, periodOverDredgeVolume: inPeriod.overDredgeVolume, periodDepositedVolume: inPeriod.depositedVolume, periodEndRemainingVolume: inPeriod.remainingVolume } : {}),
+        },
+      };
+    }),
   };
 }

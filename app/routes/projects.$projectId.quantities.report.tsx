@@ -1,19 +1,56 @@
-import { Percent, Volume, ZoneName, zoneKey } from "~/components/progress-figures";
+import { data } from "react-router";
+import { PayPeriodTable, PeriodSurveyLine } from "~/components/pay-period";
+import { Percent, Volume, ZoneName, formatNumber, zoneKey } from "~/components/progress-figures";
+import { NotFoundError, ValidationError } from "~/lib/errors";
 import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 import { requireRole } from "~/lib/auth/access.server";
 import { loadQuantities } from "~/models/quantities.server";
+import { getSignedPeriod, type PayPeriodView, type SignedPeriod } from "~/models/pay-periods.server";
+import type { PayPeriodSnapshot } from "~/lib/db.server";
+import { urlIdSchema } from "~/lib/http/url-id";
 import type { Route } from "./+types/projects.$projectId.quantities.report";
 
 // The printable quantities report (outside the project layout, so it prints without navigation):
-// project, survey pair, method, totals per zone and a signature block for the reviewer.
+// project, survey pair, method, totals per zone, the pay period (?from=&to=, survey ids; default the
+// baseline to the latest) with both survey files' names and hashes, and a signature block.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, user } = await requireRole(request, params.projectId, "quantities.read");
-  const view = await loadQuantities(project);
+  const search = new URL(request.url).searchParams;
+  const signedId = search.get("signed");
+  let view;
+  let signed: SignedPeriod | null = null;
+  try {
+    if (signedId !== null) {
+      const id = urlIdSchema.safeParse(signedId);
+      if (!id.success) throw new NotFoundError("There is no such signed period in this project.");
+      signed = await getSignedPeriod(project, id.data);
+    }
+    view = await loadQuantities(project, signed ? {} : { from: search.get("from"), to: search.get("to") });
+  } catch (error) {
+    if (error instanceof ValidationError) throw data(error.details.map((detail) => `${detail.field ?? ""} ${detail.message}`.trim()).join(" "), { status: 422 });
+    if (error instanceof NotFoundError) throw data(error.message, { status: 404 });
+    throw error;
+  }
   return {
     project: view.project, baseline: view.baseline, latest: view.latest, method: view.method,
+    // A signed report prints its figures as issued, whatever the surveys and settings are now.
+    period: signed ? signedPeriod(signed.snapshot) : view.period && reportPeriod(view.period),
+    signed: signed && { name: signed.signedName, at: signed.signedAt, difference: signed.difference, recomputeNote: signed.recomputeNote },
     total: view.progress.total, zones: view.progress.zones, preparedBy: user.name, preparedOn: new Date().toISOString().slice(0, 10),
   };
+}
+
+/** The period as the report prints it: no survey list, no cells. */
+function reportPeriod(period: PayPeriodView) {
+  const { from, to, volumeLabel, lengthLabel, settings, method, uncertainty, figures } = period;
+  return { from, to, volumeLabel, lengthLabel, settings, method, uncertainty, figures: { total: figures.total, zones: figures.zones } };
+}
+
+/** A signed period's snapshot in the same shape. */
+function signedPeriod(snapshot: PayPeriodSnapshot) {
+  const { from, to, volumeLabel, lengthLabel, settings, method, uncertainty, total, zones } = snapshot;
+  return { from, to, volumeLabel, lengthLabel, settings, method, uncertainty, figures: { total, zones } };
 }
 
 export function meta({ data: report }: Route.MetaArgs) {
@@ -77,6 +114,32 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
         </tbody>
       </table>
       {zones.some((zone) => zone.zoneId === null) ? <p className="mt-2 text-xs text-muted">{UNZONED_NOTE}</p> : null}
+      {loaderData.period ? (
+        <section aria-labelledby="period-heading" className="mt-8 break-inside-avoid">
+          <h2 id="period-heading" className="font-semibold">Pay period <span className="figures">{loaderData.period.from.surveyedOn} → {loaderData.period.to.surveyedOn}</span></h2>
+          {loaderData.signed ? (
+            <p className="mt-1 rounded border border-ink px-3 py-2 text-sm" data-testid="signed-as-issued">
+              Signed by <strong>{loaderData.signed.name}</strong> on <span className="figures">{loaderData.signed.at.slice(0, 16).replace("T", " ")} UTC</span>: the figures below are kept as issued.{" "}
+              {loaderData.signed.difference
+                ? `Recomputed now, paid differs by ${formatNumber(loaderData.signed.difference.paidVolume, 1)} ${loaderData.period.volumeLabel} and removed by ${formatNumber(loaderData.signed.difference.removedVolume, 1)} ${loaderData.period.volumeLabel}.`
+                : loaderData.signed.recomputeNote}
+            </p>
+          ) : null}
+          <ul className="mt-1 space-y-1 wrap-anywhere text-xs">
+            <li><PeriodSurveyLine label="From" survey={loaderData.period.from} /></li>
+            <li><PeriodSurveyLine label="To" survey={loaderData.period.to} /></li>
+          </ul>
+          <PayPeriodTable figures={loaderData.period.figures} unit={unit} digits={1} testId="report-period-table" />
+          <p className="mt-2 text-xs">{loaderData.period.method}</p>
+          <p className="mt-1 text-xs">{loaderData.period.uncertainty}</p>
+          <p className="mt-1 text-xs">
+            Settings in force: over-dredge allowance <span className="figures">{formatNumber(loaderData.period.settings.overDredgeAllowance, 2)} {loaderData.period.lengthLabel}</span>,
+            firm-sand tolerance <span className="figures">{formatNumber(loaderData.period.settings.firmSandTolerance, 2)} {loaderData.period.lengthLabel}</span>,
+            cells <span className="figures">{loaderData.period.settings.cellSize} {loaderData.period.lengthLabel}</span>, raster <span className="figures">{loaderData.period.settings.rasterResolution} {loaderData.period.lengthLabel}</span>,
+            longest triangle edge <span className="figures">{loaderData.period.settings.maxEdge} {loaderData.period.lengthLabel}</span>.
+          </p>
+        </section>
+      ) : null}
       <section aria-labelledby="signatures" className="mt-10 break-inside-avoid">
         <h2 id="signatures" className="font-semibold">Review</h2>
         <p className="mt-1 text-sm">I have reviewed the quantities above against the surveys named in this report.</p>

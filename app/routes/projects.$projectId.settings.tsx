@@ -51,7 +51,7 @@ const actionSchema = z.discriminatedUnion("intent", [
     maxEdge: optionalNumber,
     confirmLargeGrid: z.literal("yes").optional(),
   }),
-  z.object({ intent: z.literal("tolerances"), firmSand: number, firmShare: number, minCoverage: number }),
+  z.object({ intent: z.literal("tolerances"), firmSand: number, firmShare: number, minCoverage: number, overDredgeAllowance: number }),
 ]);
 
 interface WorkLimitPreview {
@@ -91,7 +91,7 @@ export async function action({ request, params }: Route.ActionArgs) {
         break;
       }
       case "tolerances":
-        patch = { tolerances: { firmSand: input.firmSand, firmShare: input.firmShare, minCoverage: input.minCoverage } };
+        patch = { tolerances: { firmSand: input.firmSand, firmShare: input.firmShare, minCoverage: input.minCoverage, overDredgeAllowance: input.overDredgeAllowance } };
         break;
       case "work-limit-preview": {
         let geoJson: unknown;
@@ -248,6 +248,10 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           <TextField label={`Firm-sand tolerance (${unit})`} name="firmSand" type="number" step="any" min="0" defaultValue={settings.tolerances.firmSand} required error={toleranceErrors.firmSand} />
           <TextField label="Share of a cell within tolerance (0–1)" name="firmShare" type="number" step="any" min="0" max="1" defaultValue={settings.tolerances.firmShare} required error={toleranceErrors.firmShare} />
           <TextField label="Minimum surveyed coverage (0–1)" name="minCoverage" type="number" step="any" min="0" max="1" defaultValue={settings.tolerances.minCoverage} required error={toleranceErrors.minCoverage} />
+          <TextField
+            label={`Over-dredge allowance (${unit})`} name="overDredgeAllowance" type="number" step="any" min="0" defaultValue={settings.tolerances.overDredgeAllowance} required error={toleranceErrors.overDredgeAllowance}
+            hint="Pay periods count removal down to firm sand plus this allowance, as the contract states it; below that is over-dredge. 0: down to firm sand."
+          />
           <p className="text-sm text-muted sm:col-span-3">{surveysNote.trim()}</p>
           <div className="sm:col-span-3"><SubmitButton intent="tolerances" pendingLabel="Saving…">Save tolerances</SubmitButton></div>
         </Form>

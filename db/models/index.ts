@@ -24,6 +24,7 @@ import { DiveCell, initDiveCell } from "./dive-cell";
 import { SignInSession, initSignInSession } from "./sign-in-session";
 import { OutgoingMail, initOutgoingMail } from "./outgoing-mail";
 import { ResetRequest, initResetRequest } from "./reset-request";
+import { PayPeriodReport, initPayPeriodReport } from "./pay-period-report";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -38,6 +39,8 @@ export { SignInSession };
 export { OutgoingMail, ResetRequest };
 export { API_TOKEN_SCOPES, type ApiTokenScope } from "./api-token";
 export { OUTGOING_MAIL_STATUSES, type OutgoingMailStatus } from "./outgoing-mail";
+export { PayPeriodReport };
+export { payPeriodSnapshotSchema, type PayPeriodSnapshot } from "./pay-period-report";
 export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;
@@ -73,6 +76,7 @@ export function initModels(): Sequelize {
   initDive(sequelize);
   initDiveCell(sequelize);
   initSignInSession(sequelize);
+  initPayPeriodReport(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -103,6 +107,11 @@ export function initModels(): Sequelize {
   Project.hasMany(SurveySnapshot, { foreignKey: "projectId", as: "snapshots" });
   SurveySnapshot.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   SurveySnapshot.belongsTo(Survey, { foreignKey: "lastSurveyId", as: "lastSurvey" });
+  Project.hasMany(PayPeriodReport, { foreignKey: "projectId", as: "payPeriodReports" });
+  PayPeriodReport.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  PayPeriodReport.belongsTo(Survey, { foreignKey: "fromSurveyId", as: "fromSurvey" });
+  PayPeriodReport.belongsTo(Survey, { foreignKey: "toSurveyId", as: "toSurvey" });
+  PayPeriodReport.belongsTo(User, { foreignKey: "signedById", as: "signedBy" });
   Project.hasOne(ColumnMapping, { foreignKey: "projectId", as: "columnMapping" });
   ColumnMapping.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   ColumnMapping.belongsTo(User, { foreignKey: "updatedById", as: "updatedBy" });

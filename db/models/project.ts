@@ -37,6 +37,8 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   declare firmShare: number;
   /** Share (0..1) of a cell's area that must be surveyed for a status. */
   declare minCoverage: number;
+  /** How far below firm sand removal is still paid (0: paid down to firm sand); below it is over-dredge. */
+  declare overDredgeAllowance: CreationOptional<number>;
   /** The permitted work limit as a GeoJSON Polygon or MultiPolygon in lon/lat (RFC 7946). */
   declare workLimitGeoJson: string | null;
   declare minTeamSize: CreationOptional<number>;
@@ -68,6 +70,7 @@ export function initProject(sequelize: Sequelize) {
       tolerance: measure(),
       firmShare: measure(),
       minCoverage: measure(),
+      overDredgeAllowance: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
       workLimitGeoJson: { type: DataTypes.TEXT("medium"), allowNull: true },
       minTeamSize: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 2 },
       createdAt: DataTypes.DATE,

@@ -41,6 +41,10 @@ export interface CellStats {
   /** Volumes in the project's cubic length unit (ft³ or m³, see shared/units): the engine's own unit. */
   plannedVolumeCubicLength: Float64Array;
   removedVolumeCubicLength: Float64Array;
+  /** The part of `removed` down to the pay surface (firm sand less the over-dredge allowance): what pay practice pays. */
+  paidVolumeCubicLength: Float64Array;
+  /** The part of `removed` below the pay surface (usually not paid); paid + over-dredge = removed. */
+  overDredgeVolumeCubicLength: Float64Array;
   depositedVolumeCubicLength: Float64Array;
   remainingVolumeCubicLength: Float64Array;
   /** remainingVolumeCubicLength ÷ surveyedArea (length); NaN where nothing is surveyed. */
@@ -59,6 +63,8 @@ export function computeCellStats(
   nodeCell: Int32Array,
   surfaces: CellSurfaces,
   rules: CellStatusRules,
+  /** How far below firm sand (project length unit) removal is still paid; 0 pays down to firm sand. */
+  overDredgeAllowance = 0,
 ): CellStats {
   const count = cellGrid.cols * cellGrid.rows;
   const inLimitNodes = new Uint32Array(count);
@@ -66,6 +72,8 @@ export function computeCellStats(
   const firmNodes = new Uint32Array(count);
   const planned = new Float64Array(count);
   const removed = new Float64Array(count);
+  const paid = new Float64Array(count);
+  const overDredge = new Float64Array(count);
   const deposited = new Float64Array(count);
   const remaining = new Float64Array(count);
   const { muckTop, firm, before, after } = surfaces;
@@ -83,8 +91,14 @@ export function computeCellStats(
     if (top !== top || sand !== sand || from !== from || to !== to) continue;
     surveyedNodes[cell]++;
     if (top > sand) planned[cell] += top - sand;
-    if (from > to) removed[cell] += from - to;
-    else deposited[cell] += to - from;
+    if (from > to) {
+      removed[cell] += from - to;
+      // The removed column [to, from] split at the pay surface: above it paid, below it over-dredge.
+      const payLevel = sand - overDredgeAllowance;
+      const paidPart = from <= payLevel ? 0 : from - (to > payLevel ? to : payLevel);
+      paid[cell] += paidPart;
+      overDredge[cell] += from - to - paidPart;
+    } else deposited[cell] += to - from;
     const left = to - sand;
     if (left > 0) remaining[cell] += left;
     if (left <= tolerance) firmNodes[cell]++;
@@ -97,6 +111,8 @@ export function computeCellStats(
     surveyedArea: new Float64Array(count),
     plannedVolumeCubicLength: planned,
     removedVolumeCubicLength: removed,
+    paidVolumeCubicLength: paid,
+    overDredgeVolumeCubicLength: overDredge,
     depositedVolumeCubicLength: deposited,
     remainingVolumeCubicLength: remaining,
     meanRemainingThickness: new Float64Array(count),
@@ -107,6 +123,8 @@ export function computeCellStats(
   for (let cell = 0; cell < count; cell++) {
     planned[cell] *= pixelArea;
     removed[cell] *= pixelArea;
+    paid[cell] *= pixelArea;
+    overDredge[cell] *= pixelArea;
     deposited[cell] *= pixelArea;
     remaining[cell] *= pixelArea;
     const areaInLimit = inLimitNodes[cell] * pixelArea;

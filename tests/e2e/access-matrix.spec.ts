@@ -64,6 +64,7 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/dives", `/api/projects/{project}/dives?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/dives", "/api/projects/{project}/dives", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/progress", "/api/projects/{project}/progress", "200 200 200 200 200 200 200 200 401"),
+  row("GET", "api/projects/:projectId/quantities", "/api/projects/{project}/quantities", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/quantities.csv", "/api/projects/{project}/quantities.csv", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/quantities.geojson", "/api/projects/{project}/quantities.geojson", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/share-links", "/api/projects/{project}/share-links", "200 403 403 403 403 200 403 200 401"),
@@ -102,6 +103,8 @@ const MATRIX: Row[] = [
   row("GET", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "400 403 400 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/quantities", "/projects/{project}/quantities", "200 200 200 403 403 403 200 200 login"),
+  // Signing a pay period: the manager (and a site admin) only; readers of quantities get 403.
+  row("POST", "projects/:projectId/quantities", "/projects/{project}/quantities", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/settings", "/projects/{project}/settings", "200 403 403 403 403 403 403 200 login"),
   row("POST", "projects/:projectId/settings", "/projects/{project}/settings", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/share", "/projects/{project}/share", "200 403 403 403 403 200 403 200 login"),

@@ -74,6 +74,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/cells", method: "POST", url: () => `${base()}/cells`, params: projectParams },
   { route: "api/projects/:projectId/cells/:label", method: "POST", url: () => `${base()}/cells/B7`, params: () => ({ ...projectParams(), label: "B7" }) },
   { route: "api/projects/:projectId/progress", method: "POST", url: () => `${base()}/progress`, params: projectParams },
+  { route: "api/projects/:projectId/quantities", method: "POST", url: () => `${base()}/quantities`, params: projectParams },
   { route: "api/projects/:projectId/quantities.csv", method: "POST", url: () => `${base()}/quantities.csv`, params: projectParams },
   { route: "api/projects/:projectId/quantities.geojson", method: "POST", url: () => `${base()}/quantities.geojson`, params: projectParams },
   { route: "api/*", method: "POST", url: () => "/api/no-such-thing", params: () => ({ "*": "no-such-thing" }) },

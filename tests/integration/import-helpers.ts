@@ -1,10 +1,14 @@
-import { readFileSync } from "node:fs";
+import { createReadStream, readFileSync } from "node:fs";
+import { rm } from "node:fs/promises";
 import { join } from "node:path";
+import { Readable } from "node:stream";
 import { createCrs } from "../../shared/crs";
 import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { createApiToken } from "~/lib/auth/api-token.server";
 import { CellResult, Project, Sounding, Survey, SurveySnapshot, Zone } from "~/lib/db.server";
-import { GRID, PROJECT, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
+import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
+import { importSurveyFile } from "~/lib/import/import-service.server";
+import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { addMember, makeUser, ORIGIN } from "./helpers";
 import * as surveysApi from "~/routes/api.projects.$projectId.surveys";
 import * as surveyApi from "~/routes/api.projects.$projectId.surveys.$surveyId";
@@ -43,6 +47,23 @@ export async function makeDemoSiteProject(label: string) {
     users[role] = user.id;
   }
   return { project, tokens, users };
+}
+
+/** The demo scenario's surveys imported into `projectId` through the import path, in order (UPLOAD_DIR must be set). */
+export async function importDemoSurveys(projectId: number, userId: number, surveys: ReadonlyArray<(typeof SURVEYS)[number]> = SURVEYS): Promise<void> {
+  for (const survey of surveys) {
+    const staged = await writeStagedFile(Readable.toWeb(createReadStream(join(DEMO_DIR, survey.fileName))) as ReadableStream<Uint8Array>, survey.fileName);
+    const outcome = await importSurveyFile({
+      projectId, userId, staged,
+      options: {
+        kind: survey.kind, surveyedOn: survey.surveyedOn, timeZone: PROJECT.timeZone, waterSurfaceElevation: survey.waterSurfaceElevationFt,
+        fileHasElevations: false, datum: PROJECT.verticalDatum, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, surveyOrder: "1a",
+      },
+      choices: { excludeRows: [], excludeErrorRows: false, outside: "keep", acceptSameFile: false },
+    });
+    await rm(staged.path, { force: true });
+    if (!outcome.ok) throw new Error(`${survey.fileName} refused: ${outcome.preview.blockers.join(" ")}`);
+  }
 }
 
 export function projectCrs() {

@@ -1,8 +1,6 @@
-import { createReadStream, mkdtempSync, readFileSync } from "node:fs";
-import { rm } from "node:fs/promises";
+import { mkdtempSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { Readable } from "node:stream";
 import Papa from "papaparse";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
@@ -13,10 +11,8 @@ import { workingDaysBetween, workingCalendar } from "../../shared/progress/worki
 import { soundingElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
 import { UNZONED_NAME, rollUpZones } from "../../shared/volumes/rollup";
-import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
+import { GRID, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { Assignment, Dive, DiveTeam, Project, ShareLink, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
-import { importSurveyFile } from "~/lib/import/import-service.server";
-import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { loadProgress, type ProgressView } from "~/models/progress.server";
 import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
 import { loadQuantities, quantitiesCsv } from "~/models/quantities.server";
@@ -27,7 +23,7 @@ import * as shareLinkApi from "~/routes/api.projects.$projectId.share-links.$tok
 import * as progressApi from "~/routes/api.projects.$projectId.progress";
 import * as quantitiesReport from "~/routes/projects.$projectId.quantities.report";
 import { ORIGIN, addMember, makeUser, requestAs } from "./helpers";
-import { DEMO_DIR, makeDemoSiteProject, projectCrs } from "./import-helpers";
+import { DEMO_DIR, importDemoSurveys, makeDemoSiteProject, projectCrs } from "./import-helpers";
 import { polygonVertices, walkPublicValue, type PublicWalkRules } from "./progress-public-walk";
 
 // Progress figures of the demo scenario's five surveys, imported through the import path, against
@@ -88,19 +84,7 @@ beforeAll(async () => {
   const outreach = await makeUser("progress-outreach");
   await addMember(outreach.id, project.id, "outreach");
   outreachId = outreach.id;
-  for (const survey of SURVEYS) {
-    const staged = await writeStagedFile(Readable.toWeb(createReadStream(join(DEMO_DIR, survey.fileName))) as ReadableStream<Uint8Array>, survey.fileName);
-    const outcome = await importSurveyFile({
-      projectId: project.id, userId: site.users.surveyor, staged,
-      options: {
-        kind: survey.kind, surveyedOn: survey.surveyedOn, timeZone: PROJECT.timeZone, waterSurfaceElevation: survey.waterSurfaceElevationFt,
-        fileHasElevations: false, datum: PROJECT.verticalDatum, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, surveyOrder: "1a",
-      },
-      choices: { excludeRows: [], excludeErrorRows: false, outside: "keep", acceptSameFile: false },
-    });
-    await rm(staged.path, { force: true });
-    if (!outcome.ok) throw new Error(`${survey.fileName} refused: ${outcome.preview.blockers.join(" ")}`);
-  }
+  await importDemoSurveys(project.id, site.users.surveyor);
   progress = await loadProgress(project);
   console.log(`[progress] ${JSON.stringify({ total: progress.total, zones: progress.zones.map(({ name, removedVolume, remainingVolume, percentCompleteByVolume, forecast }) => ({ name, removedVolume, remainingVolume, percentCompleteByVolume, forecast })), production: progress.production })}`);
 }, 600_000);

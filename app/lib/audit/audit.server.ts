@@ -36,6 +36,7 @@ export const AUDIT_ACTIONS = {
   accountProjectCreationChanged: "account-project-creation-changed",
   accountPasswordResetSent: "account-password-reset-sent",
   accountCreated: "account-created",
+  payPeriodSigned: "pay-period-signed",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

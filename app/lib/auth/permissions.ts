@@ -19,6 +19,8 @@ export const PERMISSIONS = {
   "project.read": ROLES,
   /** The quantities page, its printable report and the CSV/GeoJSON exports. */
   "quantities.read": ["manager", "surveyor", "dive-supervisor", "viewer"],
+  /** Sign a pay period's report (kept as issued): the manager answers for the quantities paid on. */
+  "quantities.sign": ["manager"],
   /** Invite members, change their roles, remove them. */
   "members.manage": ["manager"],
   "audit.read": ["manager"],

@@ -107,7 +107,7 @@ export async function getEngineState(projectId: number, stamp?: string): Promise
 /** A state a recompute computed, kept under the stamp its rows carry (once its transaction has committed). */
 export function rememberEngineState(projectId: number, stamp: string, state: ProjectState | null): void {
   cache.dropPrefix(`${projectId}:`);
-  cache.getOrCompute(keyOf(projectId, stamp), () => Promise.resolve(state && { surfaces: state.surfaces, endArea: state.endArea }));
+  cache.getOrCompute(keyOf(projectId, stamp), () => Promise.resolve(state && { surfaces: state.surfaces, endArea: state.endArea, periods: state.periods }));
 }
 
 /** The state from the stored soundings now, uncached: in `pool`'s threads, or on this thread with `pool` null. */
@@ -116,7 +116,7 @@ export async function computeStoredState(projectId: number, pool: EngineWorkerPo
   if (!input) return null;
   // The arrays were read for this computation alone: they move to the threads rather than being copied.
   const state = await computeState(input, pool, { transferSurveys: new Set(input.surveys.map((survey) => survey.id)) });
-  return state && { surfaces: state.surfaces, endArea: state.endArea };
+  return state && { surfaces: state.surfaces, endArea: state.endArea, periods: state.periods };
 }
 
 /** The map's surfaces for the project's current stamp (or `stamp`). */

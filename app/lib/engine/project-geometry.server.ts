@@ -59,6 +59,8 @@ export interface ProjectGrid {
   tolerance: number;
   firmShare: number;
   minCoverage: number;
+  /** How far below firm sand removal is still paid; pay periods split removed there (not an engine setting). */
+  overDredgeAllowance: number;
 }
 
 export function projectGrid(project: Project): ProjectGrid {
@@ -72,6 +74,7 @@ export function projectGrid(project: Project): ProjectGrid {
     tolerance: project.tolerance,
     firmShare: project.firmShare,
     minCoverage: project.minCoverage,
+    overDredgeAllowance: project.overDredgeAllowance,
   };
 }
 

@@ -12,6 +12,7 @@ import {
 } from "../../../shared/pipeline";
 import { endAreaCheck, principalAxisLayout, type EndAreaCheck } from "../../../shared/progress/end-area-check";
 import { selectSurveysInForce, type DatedSurvey, type SurveysInForce } from "../../../shared/surveys-in-force";
+import type { RasterValues } from "../../../shared/surface/raster";
 import type { LengthUnit } from "../../../shared/units";
 import { planSurveyWork, type ComputationSurvey, type SurveyWorkPlan } from "./engine-surveys";
 import { doSurveyWork, type SurveyWorkDone, type SurveyWorkSettings } from "./survey-work";
@@ -44,6 +45,19 @@ export interface ProjectState {
   surfaces: ProjectSurfaces;
   /** The removed volume by end areas beside the surface figure, in cubic project length units. */
   endArea: EndAreaCheck;
+  periods: PeriodSurfaces;
+}
+
+/**
+ * What a pay period between any two surveys in force is computed from (period-figures.ts), so a
+ * request reads no soundings: the surveys in force, baseline first, and the later surveys' bottoms
+ * clipped to the limit, oldest first (the baseline and firm sand are `surfaces.result.rasters`).
+ */
+export interface PeriodSurfaces {
+  surveys: DatedSurvey[];
+  progress: RasterValues[];
+  /** Per survey in force (as `surveys`), its soundings per grid cell: what the removed volume's band averages over. */
+  soundingsPerCell: Uint32Array[];
 }
 
 /** Step (1) for a project: the work of each survey, and the settings all of it shares. */
@@ -98,7 +112,8 @@ export function computeStateFromRasters(input: SampledProjectInput, onProgress?:
   // Sections one cell apart, sampled at the raster spacing: as fine as the surfaces themselves.
   const layout = principalAxisLayout(input.workLimit, input.settings.cellSize, input.settings.resolution);
   const endArea = endAreaCheck(latest.rasters.muckTop, latest.rasters.latestBottom, latest.totals.removedVolumeCubicLength, layout);
-  return { figures, surfaces: latestSurfaces(latest, input.waterSurfaceElevation, input.soundingsPerCell), endArea };
+  const periods: PeriodSurfaces = { surveys: [input.inForce.baseline, ...input.inForce.later].map(({ id, kind, surveyedOn }) => ({ id, kind, surveyedOn })), progress: sampled.progress, soundingsPerCell: input.soundingsPerCell.slice(0, 1 + input.inForce.later.length) };
+  return { figures, surfaces: latestSurfaces(latest, input.waterSurfaceElevation, input.soundingsPerCell), endArea, periods };
 }
 
 /** Both steps on this thread (the engine pool runs step (1) per survey in its threads). Null when no baseline is in force. */

@@ -1,0 +1,245 @@
+import { mkdtempSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import Papa from "papaparse";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeSequelize } from "../../db/connection.server";
+import { UNZONED_NAME } from "../../shared/volumes/rollup";
+import { PERIOD_VOLUME_KEYS } from "../../shared/volumes/period";
+import { SURVEYS, ZONES } from "../../sample-data/scenario";
+import { AuditEvent, PayPeriodReport, Project, SurveySnapshot, User } from "~/lib/db.server";
+import { presentUser } from "~/lib/auth/users.server";
+import { projectPatchSchema, updateProjectSettings } from "~/models/project-setup.server";
+import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
+import { ValidationError } from "~/lib/errors";
+import { listSignedPeriods, loadPayPeriod, signPayPeriod, type PayPeriodView } from "~/models/pay-periods.server";
+import { loadQuantities, quantitiesCsv } from "~/models/quantities.server";
+import * as quantitiesApi from "~/routes/api.projects.$projectId.quantities";
+import * as quantitiesCsvApi from "~/routes/api.projects.$projectId.quantities[.]csv";
+import * as quantitiesPage from "~/routes/projects.$projectId.quantities";
+import * as quantitiesReport from "~/routes/projects.$projectId.quantities.report";
+import { requestAs } from "./helpers";
+import { importDemoSurveys, makeDemoSiteProject } from "./import-helpers";
+
+// Pay periods on the demo scenario's five surveys, imported through the import path: the default
+// period is today's figures, periods between any two surveys add up, the rows add up in every
+// export, bad ids are refused by name, and a signed report is kept as issued.
+
+process.env.UPLOAD_DIR = mkdtempSync(join(tmpdir(), "firmsand-pay-periods-test-"));
+afterAll(closeSequelize);
+
+let site: Awaited<ReturnType<typeof makeDemoSiteProject>>;
+let project: ProjectView;
+let whole: PayPeriodView;
+
+beforeAll(async () => {
+  site = await makeDemoSiteProject("pay-periods");
+  project = presentProject(site.project);
+  await importDemoSurveys(project.id, site.users.surveyor);
+  whole = (await loadPayPeriod(project))!;
+}, 600_000);
+
+type Volumes = Record<(typeof PERIOD_VOLUME_KEYS)[number], number>;
+
+function expectRowsAddUp(rows: Volumes[], total: Volumes, tolerance: number, label: string) {
+  for (const key of PERIOD_VOLUME_KEYS) {
+    const sum = rows.reduce((running, row) => running + row[key], 0);
+    expect(Math.abs(sum - total[key]), `${label} ${key}`).toBeLessThanOrEqual(tolerance);
+  }
+}
+
+const apiArgs = async (path: string, userId = site.users.viewer) => ({ request: await requestAs(userId, path), params: { projectId: String(project.id) }, context: {} }) as never;
+
+describe("the default period", () => {
+  it("runs from the baseline to the latest survey and is today's figures", async () => {
+    expect(whole.surveys.map((survey) => survey.surveyedOn)).toEqual(SURVEYS.map((survey) => survey.surveyedOn));
+    expect(whole.whole).toBe(true);
+    expect(whole.from.kind).toBe("baseline");
+    expect(whole.from.fileName).toBe(SURVEYS[0].fileName);
+    expect(whole.from.contentSha256).toMatch(/^[0-9a-f]{64}$/);
+    const latest = await SurveySnapshot.findOne({ where: { projectId: project.id }, order: [["surveyedOn", "DESC"]] });
+    // invariant: one computation, so the stored figures of the latest date exactly
+    for (const key of ["removedVolume", "depositedVolume", "remainingVolume"] as const) {
+      expect(whole.figures.total[key], key).toBeCloseTo(latest!.totals[key], 9);
+    }
+    expect(whole.figures.total.cells).toBe(latest!.totals.cells);
+  });
+
+  it("splits removed into paid and over-dredge in every row", () => {
+    for (const [name, row] of [...whole.figures.zones.map((zone) => [zone.name, zone] as const), ["project", whole.figures.total] as const]) {
+      // invariant: paid + over-dredge = removed
+      expect(row.paidVolume + row.overDredgeVolume, name).toBeCloseTo(row.removedVolume, 6);
+    }
+  });
+});
+
+describe("the removed volume's band from the surveys' vertical uncertainty", () => {
+  it("is stated with its method, and the zone bands add in quadrature to the project's", () => {
+    const { total, zones } = whole.figures;
+    expect(total.removedBandVolume).toBeGreaterThan(0);
+    // invariant: cells are independent, so the squares of the zone rows' bands add up to the project's
+    expect(Math.hypot(...zones.map((zone) => zone.removedBandVolume))).toBeCloseTo(total.removedBandVolume, 6);
+    expect(whole.surveys.every((survey) => survey.order === "1a")).toBe(true); // as imported above
+    expect(whole.uncertainty).toMatch(/IHO S-44/);
+    expect(whole.uncertainty).toMatch(/systematic bias/);
+  });
+});
+
+describe("periods between any two surveys", () => {
+  it("consecutive periods add up to the whole: removed − deposited telescopes node by node", async () => {
+    let net = 0;
+    for (let index = 1; index < whole.surveys.length; index++) {
+      const period = (await loadPayPeriod(project, { from: String(whole.surveys[index - 1].id), to: String(whole.surveys[index].id) }))!;
+      expect(period.whole).toBe(false);
+      net += period.figures.total.removedVolume - period.figures.total.depositedVolume;
+      if (index === whole.surveys.length - 1) {
+        // invariant: the period ending at the latest survey leaves what the whole leaves
+        expect(period.figures.total.remainingVolume).toBeCloseTo(whole.figures.total.remainingVolume, 9);
+      }
+    }
+    // computed: Σ (bottom before − bottom after) over consecutive periods = baseline − latest
+    expect(net).toBeCloseTo(whole.figures.total.removedVolume - whole.figures.total.depositedVolume, 6);
+  });
+
+  it("an over-dredge allowance set in the tolerances pays more and leaves less over-dredge, without recomputing the stored figures", async () => {
+    const manager = presentUser((await User.findByPk(site.users.manager))!);
+    // The API's and the settings page's boundary refuses a negative allowance by name.
+    const negative = projectPatchSchema.safeParse({ tolerances: { overDredgeAllowance: -0.1 } });
+    expect(negative.success).toBe(false);
+    expect(negative.error!.issues[0].path).toEqual(["tolerances", "overDredgeAllowance"]);
+    const changed = await updateProjectSettings(project, manager, { tolerances: { overDredgeAllowance: 0.5 } });
+    expect(changed.recomputed).toBe(false);
+    expect(changed.settings.tolerances.overDredgeAllowance).toBe(0.5);
+    try {
+      const allowed = (await loadPayPeriod(presentProject((await Project.findByPk(project.id))!)))!;
+      expect(allowed.settings.overDredgeAllowance).toBe(0.5);
+      expect(allowed.figures.total.removedVolume).toBeCloseTo(whole.figures.total.removedVolume, 9);
+      expect(allowed.figures.total.paidVolume).toBeGreaterThanOrEqual(whole.figures.total.paidVolume);
+      expect(allowed.figures.total.overDredgeVolume).toBeLessThanOrEqual(whole.figures.total.overDredgeVolume);
+      expect(allowed.method).toContain("over-dredge allowance of 0.5 ftUS");
+    } finally {
+      await Project.update({ overDredgeAllowance: 0 }, { where: { id: project.id } });
+    }
+  });
+});
+
+describe("zone rows add up to the project for every column", () => {
+  it("in the JSON API", async () => {
+    const [first, second] = [whole.surveys[1], whole.surveys[3]];
+    const response = (await quantitiesApi.loader(await apiArgs(`/api/projects/${project.id}/quantities?from=${first.id}&to=${second.id}`))) as Response;
+    expect(response.status).toBe(200);
+    const body = await response.json();
+    expect(body.from.id).toBe(first.id);
+    expect(body.to.id).toBe(second.id);
+    expect(body.zones.map((zone: { name: string }) => zone.name)).toEqual([...ZONES.map((zone) => zone.name), UNZONED_NAME]);
+    expectRowsAddUp(body.zones, body.total, 1e-6, "API zones");
+    expectRowsAddUp(body.cells, body.total, 1e-6, "API cells");
+  });
+
+  it("in the CSV, with the period's surveys, hashes and settings", async () => {
+    const csv = quantitiesCsv(await loadQuantities(project, { from: String(whole.surveys[0].id), to: String(whole.surveys[2].id) }), new Date("2026-12-01T00:00:00Z"));
+    const rows = Papa.parse<string[]>(csv, { skipEmptyLines: true }).data;
+    expect(rows.find((row) => row[0] === "Period from")?.[1]).toContain(whole.surveys[0].contentSha256);
+    expect(rows.find((row) => row[0] === "Period to")?.[1]).toContain(SURVEYS[2].fileName);
+    expect(rows.find((row) => row[0] === "Settings in force")?.[1]).toMatch(/over-dredge allowance 0 ftUS/);
+    const header = rows.findIndex((row) => row[0] === "period zone");
+    const totalAt = rows.findIndex((row) => row[0] === "Period project total");
+    const parse = (row: string[]): Volumes => Object.fromEntries(PERIOD_VOLUME_KEYS.map((key, index) => [key, Number(row[index + 1])])) as Volumes;
+    const zoneRows = rows.slice(header + 1, totalAt);
+    expect(zoneRows.map((row) => row[0])).toEqual([...ZONES.map((zone) => zone.name), UNZONED_NAME]);
+    // computed: each volume printed to 0.01 is within 0.005 of the true one
+    expectRowsAddUp(zoneRows.map(parse), parse(rows[totalAt]), 0.005 * (zoneRows.length + 1) + 1e-9, "CSV");
+  });
+
+  it("in the printable report's data", async () => {
+    const report = await quantitiesReport.loader(await apiArgs(`/projects/${project.id}/quantities/report?from=${whole.surveys[1].id}&to=${whole.surveys[4].id}`));
+    expect(report.period!.from.id).toBe(whole.surveys[1].id);
+    expectRowsAddUp(report.period!.figures.zones, report.period!.figures.total, 1e-6, "report");
+  });
+});
+
+describe("bad period ends are refused by name", () => {
+  const cases: Array<[string, string, string]> = [
+    ["from=abc", "from", "abc"],
+    ["to=999999999", "to", "999999999"],
+  ];
+  for (const [query, field, value] of cases) {
+    it(`${query} → 422 naming ${field}`, async () => {
+      const response = (await quantitiesApi.loader(await apiArgs(`/api/projects/${project.id}/quantities?${query}`))) as Response;
+      expect(response.status).toBe(422);
+      const body = await response.json();
+      expect(body.errors[0]).toMatchObject({ field, value });
+    });
+  }
+
+  it("a period that runs backwards → 422 naming to, on the CSV too", async () => {
+    const query = `from=${whole.surveys[3].id}&to=${whole.surveys[1].id}`;
+    const response = (await quantitiesCsvApi.loader(await apiArgs(`/api/projects/${project.id}/quantities.csv?${query}`))) as Response;
+    expect(response.status).toBe(422);
+    expect((await response.json()).errors[0].field).toBe("to");
+  });
+
+  it("an id that is no survey in force of this project → a ValidationError naming from", async () => {
+    const refused = await loadPayPeriod(project, { from: "0" }).catch((error: unknown) => error);
+    expect(refused).toBeInstanceOf(ValidationError);
+    expect((refused as ValidationError).details[0].field).toBe("from");
+  });
+});
+
+describe("signed periods", () => {
+  it("the manager signs a period; it is stored as issued and audit-logged; a later recompute shows beside it as a difference", async () => {
+    const [from, to] = [whole.surveys[1], whole.surveys[4]];
+    const manager = { id: site.users.manager, email: "m@example.org", name: "Pat Manager", isSiteAdmin: false, mayCreateProjects: false };
+    const id = await signPayPeriod(project, manager, { from: String(from.id), to: String(to.id), signedName: "Pat Manager" }, "127.0.0.1");
+    const stored = (await PayPeriodReport.findByPk(id))!;
+    const period = (await loadPayPeriod(project, { from: String(from.id), to: String(to.id) }))!;
+    expect(stored.snapshot.total).toEqual(period.figures.total);
+    expect(stored.snapshot.from.contentSha256).toBe(from.contentSha256);
+    expect(stored.signedName).toBe("Pat Manager");
+    const audit = await AuditEvent.findOne({ where: { projectId: project.id, action: "pay-period-signed" } });
+    expect(audit?.detail).toMatchObject({ reportId: id, fromSurveyId: from.id, toSurveyId: to.id });
+
+    // The printable report of the signed period prints the snapshot; another id of no report is 404.
+    const printed = await quantitiesReport.loader(await apiArgs(`/projects/${project.id}/quantities/report?signed=${id}`));
+    expect(printed.signed!.name).toBe("Pat Manager");
+    expect(printed.period!.figures.total).toEqual(stored.snapshot.total);
+    const missing = await quantitiesReport.loader(await apiArgs(`/projects/${project.id}/quantities/report?signed=999999999`)).catch((thrown: unknown) => thrown);
+    expect((missing as { init: { status: number } }).init.status).toBe(404);
+
+    let [listed] = await listSignedPeriods(project);
+    expect(listed.id).toBe(id);
+    for (const key of PERIOD_VOLUME_KEYS) expect(listed.difference![key]).toBe(0); // same surfaces, same settings
+
+    // A different allowance recomputes the period differently: the signed figures stay as issued.
+    await Project.update({ overDredgeAllowance: 1 }, { where: { id: project.id } });
+    try {
+      const changed = presentProject((await Project.findByPk(project.id))!);
+      [listed] = await listSignedPeriods(changed);
+      expect(listed.snapshot.total).toEqual(stored.snapshot.total);
+      const now = (await loadPayPeriod(changed, { from: String(from.id), to: String(to.id) }))!;
+      expect(listed.difference!.paidVolume).toBeCloseTo(now.figures.total.paidVolume - stored.snapshot.total.paidVolume, 9);
+      expect(listed.difference!.removedVolume).toBeCloseTo(0, 9);
+    } finally {
+      await Project.update({ overDredgeAllowance: 0 }, { where: { id: project.id } });
+    }
+  });
+
+  it("through the page: only the manager may sign, and a name is required", async () => {
+    const form = (fields: Record<string, string>) => new URLSearchParams(fields).toString();
+    const path = `/projects/${project.id}/quantities`;
+    const post = async (userId: number, fields: Record<string, string>) =>
+      quantitiesPage.action({
+        request: await requestAs(userId, path, { method: "POST", headers: { "Content-Type": "application/x-www-form-urlencoded", Origin: new URL((await requestAs(null, path)).url).origin }, body: form(fields) }),
+        params: { projectId: String(project.id) }, context: {},
+      } as never).catch((thrown: unknown) => thrown);
+    const fields = { intent: "sign", from: String(whole.surveys[0].id), to: String(whole.surveys[1].id), signedName: "Pat Manager", reviewed: "yes" };
+    const refused = await post(site.users.viewer, fields);
+    expect(refused instanceof Response ? refused.status : (refused as { init?: { status?: number } }).init?.status).toBe(403);
+    const unnamed = (await post(site.users.manager, { ...fields, signedName: " " })) as { data: { errors: Record<string, string> }; init: { status: number } };
+    expect(unnamed.init.status).toBe(400);
+    expect(unnamed.data.errors.signedName).toBeTruthy();
+    const before = await PayPeriodReport.count({ where: { projectId: project.id } });
+    await post(site.users.manager, fields);
+    expect(await PayPeriodReport.count({ where: { projectId: project.id } })).toBe(before + 1);
+  });
+});
