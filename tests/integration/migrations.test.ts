@@ -44,7 +44,9 @@ describe("migrations", () => {
     const migratedColumns = await columns();
     for (const table of FOUNDATION_TABLES) expect(migrated).toContain(table);
     // Project setup (0006): identity, time zone, datum; who may create projects. Disabling (0008).
-    for (const column of ["projects.agency", "projects.permitNumbers", "projects.timeZone", "projects.verticalDatum", "users.mayCreateProjects", "users.disabledAt", "users.disabledById"]) {
+    // Dewatering (0009): the solids' specific gravity and the haul cake solids default; its tables.
+    for (const table of ["dewatering_shifts", "geotextile_tubes", "tube_fills", "haul_sites", "hauls", "sediment_samples"]) expect(migrated).toContain(table);
+    for (const column of ["projects.agency", "projects.permitNumbers", "projects.timeZone", "projects.verticalDatum", "users.mayCreateProjects", "users.disabledAt", "users.disabledById", "projects.solidsSpecificGravity", "projects.cakeSolidsByWeight"]) {
       expect(migratedColumns.some((entry) => entry.startsWith(`${column} `)), column).toBe(true);
     }
 
