@@ -49,6 +49,10 @@ export default [
   route("projects/:projectId", "routes/projects.$projectId.tsx", [
     index("routes/projects.$projectId._index.tsx"),
     route("audit", "routes/projects.$projectId.audit.tsx"),
+    route("dewatering", "routes/projects.$projectId.dewatering.tsx"),
+    route("dewatering/hauls", "routes/projects.$projectId.dewatering.hauls.tsx"),
+    route("dewatering/samples", "routes/projects.$projectId.dewatering.samples.tsx"),
+    route("dewatering/tubes", "routes/projects.$projectId.dewatering.tubes.tsx"),
     route("map", "routes/projects.$projectId.map.tsx"),
     route("members", "routes/projects.$projectId.members.tsx"),
     route("plans/:date", "routes/projects.$projectId.plans.$date.tsx"),
