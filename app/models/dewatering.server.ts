@@ -1,7 +1,8 @@
 import { Op, UniqueConstraintError } from "sequelize";
 import { z } from "zod";
 import { computeShiftFigures, type ShiftFigures } from "../../shared/dewatering/shift";
-import { fillLevel, isNearCapacity, NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
+import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
+import { localDateIn } from "../../shared/progress/calendar-days";
 import { cubicMetresPerHourFrom, flowUnitSchema, kilogramsFrom, kilogramsTo, LITRES_PER_US_GALLON, massUnitsFor, measureLabel, unitLabel, type FlowUnit } from "../../shared/units";
 import { DewateringShift, GeotextileTube, Project, TubeFill, TUBE_STATUSES, getSequelize, type TubeStatus } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
@@ -104,6 +105,12 @@ export interface DewateringSettings {
   cakeSolidsByWeight: number | null;
 }
 
+/** Today in the project's time zone, the date a form starts from. */
+export async function projectToday(project: ProjectView): Promise<string> {
+  const row = await Project.findByPk(project.id, { attributes: ["timeZone"] });
+  return localDateIn(row?.timeZone ?? "UTC");
+}
+
 export async function dewateringSettings(project: ProjectView): Promise<DewateringSettings> {
   const row = await Project.findByPk(project.id, { attributes: ["solidsSpecificGravity", "cakeSolidsByWeight"] });
   if (!row) throw new NotFoundError("There is no such project.");
@@ -177,8 +184,7 @@ export function listShifts(project: ProjectView, range: { from?: string; to?: st
   return findShifts(project, range);
 }
 
-/** Tubes a fill may go into: one being filled, or one dewatering that is topped up. */
-const FILLABLE: readonly TubeStatus[] = ["filling", "dewatering"];
+const FILLABLE = FILLABLE_TUBE_STATUSES;
 
 function assertFillable(tube: GeotextileTube) {
   if (!FILLABLE.includes(tube.status)) {

@@ -7,17 +7,15 @@ import { fieldErrorsFrom, type FieldErrors } from "~/lib/http/form";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { DewateringCaution, DewateringNav, FieldInput, FieldSelect, formatFigure } from "~/components/dewatering/dewatering-section";
-import { DEWATERING_CAUTION, dewateringSettings } from "~/models/dewatering.server";
+import { DEWATERING_CAUTION, dewateringSettings, projectToday } from "~/models/dewatering.server";
 import { addHaulSite, haulInputSchema, haulSiteInputSchema, listHauls, listHaulSites, recordHaul } from "~/models/hauls.server";
-import { Project } from "~/lib/db.server";
-import { localDateIn } from "../../shared/progress/calendar-days";
 import { massUnitsFor, measureLabel, unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.dewatering.hauls";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project } = access;
-  const [hauls, sites, settings, row] = await Promise.all([listHauls(project), listHaulSites(project), dewateringSettings(project), Project.findByPk(project.id, { attributes: ["timeZone"] })]);
+  const [hauls, sites, settings, today] = await Promise.all([listHauls(project), listHaulSites(project), dewateringSettings(project), projectToday(project)]);
   const units = massUnitsFor(project.lengthUnit);
   return {
     project: { id: project.id },
@@ -26,7 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       { value: units.bulkMass, label: `wet ${measureLabel(units.bulkMass)} (scale ticket)` },
       { value: project.lengthUnit === "m" ? "m3" : "yd3", label: `${unitLabel(project.lengthUnit, "volume")} (truck body)` },
     ],
-    today: localDateIn(row?.timeZone ?? "UTC"),
+    today,
     canLog: can(access, "dewatering.log"),
     caution: DEWATERING_CAUTION,
   };

@@ -7,24 +7,23 @@ import { fieldErrorsFrom, type FieldErrors } from "~/lib/http/form";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { DewateringNav, FieldInput, FieldSelect, formatFigure } from "~/components/dewatering/dewatering-section";
+import { projectToday } from "~/models/dewatering.server";
 import { listSamples, recordSample, sampleInputSchema } from "~/models/sediment-samples.server";
 import { listZones } from "~/models/project.server";
-import { Project } from "~/lib/db.server";
-import { localDateIn } from "../../shared/progress/calendar-days";
 import { massUnitsFor, measureLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.dewatering.samples";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project } = access;
-  const [samples, zones, row] = await Promise.all([listSamples(project), listZones(project), Project.findByPk(project.id, { attributes: ["timeZone"] })]);
+  const [samples, zones, today] = await Promise.all([listSamples(project), listZones(project), projectToday(project)]);
   const densityUnit = massUnitsFor(project.lengthUnit).density;
   return {
     project: { id: project.id },
     samples,
     zones: zones.map((zone) => ({ id: zone.id, name: zone.name })),
     densityUnit, densityLabel: measureLabel(densityUnit),
-    today: localDateIn(row?.timeZone ?? "UTC"),
+    today,
     canRecord: can(access, "samples.record"),
   };
 }

@@ -9,23 +9,21 @@ import { SubmitButton } from "~/components/submit-button";
 import { DewateringCaution, DewateringNav, FieldInput, formatFigure } from "~/components/dewatering/dewatering-section";
 import { ShiftForm } from "~/components/dewatering/shift-form";
 import {
-  DEWATERING_CAUTION, dewateringSettings, dewateringSettingsSchema, listShifts, listTubes, recordShift, shiftInputSchema, updateDewateringSettings,
+  DEWATERING_CAUTION, dewateringSettings, dewateringSettingsSchema, listShifts, listTubes, recordShift, shiftInputSchema, updateDewateringSettings, projectToday,
 } from "~/models/dewatering.server";
-import { Project } from "~/lib/db.server";
-import { localDateIn } from "../../shared/progress/calendar-days";
 import { massUnitsFor } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.dewatering";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project } = access;
-  const [shifts, register, settings, row] = await Promise.all([listShifts(project), listTubes(project), dewateringSettings(project), Project.findByPk(project.id, { attributes: ["timeZone"] })]);
+  const [shifts, register, settings, today] = await Promise.all([listShifts(project), listTubes(project), dewateringSettings(project), projectToday(project)]);
   return {
     project: { id: project.id, lengthUnit: project.lengthUnit },
     shifts,
     fillableTubes: register.tubes.filter((tube) => tube.status === "filling" || tube.status === "dewatering").map((tube) => tube.name),
     settings,
-    today: localDateIn(row?.timeZone ?? "UTC"),
+    today,
     defaultFlowUnit: massUnitsFor(project.lengthUnit).flow,
     canLog: can(access, "dewatering.log"),
     canConfigure: can(access, "project.configure"),

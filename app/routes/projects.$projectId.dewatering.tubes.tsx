@@ -8,16 +8,15 @@ import { urlIdSchema } from "~/lib/http/url-id";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { DewateringCaution, DewateringNav, FieldInput, FieldSelect, formatFigure } from "~/components/dewatering/dewatering-section";
-import { DEWATERING_CAUTION, changeTubeStatus, fillInputSchema, listTubes, recordFill, registerTube, tubeInputSchema, tubeStatusSchema } from "~/models/dewatering.server";
-import { Project, TUBE_STATUSES } from "~/lib/db.server";
-import { localDateIn } from "../../shared/progress/calendar-days";
+import { DEWATERING_CAUTION, changeTubeStatus, fillInputSchema, listTubes, recordFill, registerTube, tubeInputSchema, tubeStatusSchema, projectToday } from "~/models/dewatering.server";
+import { TUBE_STATUSES } from "../../shared/dewatering/tubes";
 import type { Route } from "./+types/projects.$projectId.dewatering.tubes";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project } = access;
-  const [register, row] = await Promise.all([listTubes(project), Project.findByPk(project.id, { attributes: ["timeZone"] })]);
-  return { project: { id: project.id }, register, today: localDateIn(row?.timeZone ?? "UTC"), canLog: can(access, "dewatering.log"), caution: DEWATERING_CAUTION };
+  const [register, today] = await Promise.all([listTubes(project), projectToday(project)]);
+  return { project: { id: project.id }, register, today, canLog: can(access, "dewatering.log"), caution: DEWATERING_CAUTION };
 }
 
 type Intent = "register" | "fill" | "status";

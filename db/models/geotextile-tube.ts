@@ -3,9 +3,9 @@ import type { Project } from "./project";
 import type { TubeFill } from "./tube-fill";
 import type { User } from "./user";
 
-/** A tube's life on the laydown area, in order. */
-export const TUBE_STATUSES = ["filling", "dewatering", "ready-to-open", "opened", "hauled"] as const;
-export type TubeStatus = (typeof TUBE_STATUSES)[number];
+import { TUBE_STATUSES, type TubeStatus } from "../../shared/dewatering/tubes";
+
+export { TUBE_STATUSES, type TubeStatus };
 
 /**
  * A geotextile tube in the register: its size (project length unit), the dry solids a unit length

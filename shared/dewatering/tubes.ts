@@ -1,3 +1,10 @@
+/** A tube's life on the laydown area, in order. */
+export const TUBE_STATUSES = ["filling", "dewatering", "ready-to-open", "opened", "hauled"] as const;
+export type TubeStatus = (typeof TUBE_STATUSES)[number];
+
+/** A tube takes slurry while it is being filled, or is topped up while it dewaters. */
+export const FILLABLE_TUBE_STATUSES: readonly TubeStatus[] = ["filling", "dewatering"];
+
 /**
  * Geotextile tubes: the theoretical diameter of a round tube of the given circumference (a filled
  * tube flattens, so its practical fill height is a fraction of it that the supplier gives), and how
