@@ -90,7 +90,7 @@ export function demoDewatering(): { shifts: DemoShift[]; hauls: DemoHaul[] } {
       pumpHours: round(random.between(6, 7.5), 1),
       slurryFlow: { value: Math.round(random.between(500, 600)), unit: "gpm" as const },
       solidsByWeight: round(random.between(0.038, 0.056), 3),
-      polymer: { product: "Cationic polyacrylamide emulsion (approved list no. 12)", lot: date < "2026-10-15" ? "LOT 26-0811" : "LOT 26-0930", doseMgPerL: round(random.between(4, 7), 1), stockPercent: 0.5 },
+      polymer: { product: "Cationic PAM emulsion CE-412", lot: date < "2026-10-15" ? "LOT 26-0811" : "LOT 26-0930", doseMgPerL: round(random.between(4, 7), 1), stockPercent: 0.5 },
     };
     // The tube being filled: the next one once this shift would take the current past 95 % of its capacity.
     const dryTons = kilogramsTo(computeShiftFigures({ ...shift, solidsSpecificGravity: DEMO_SOLIDS_SPECIFIC_GRAVITY }, "us-ft").drySolidsKg!, "short-ton");

@@ -104,7 +104,7 @@ function ShiftTable({ shifts }: { shifts: Route.ComponentProps["loaderData"]["sh
         <thead>
           <tr className="border-b border-line text-left">
             <th className="py-1 pr-2">Date</th><th className="pr-2">Time</th><th className="pr-2">Pump h</th><th className="pr-2">Flow</th>
-            <th className="pr-2">Solids</th><th className="pr-2">Polymer · dose</th><th className="pr-2">Stock feed</th><th className="pr-2">Dry solids</th><th className="pr-2">Polymer per dry ton</th><th>Tubes</th>
+            <th className="pr-2">Solids</th><th className="pr-2">Dose</th><th className="pr-2">Stock feed</th><th className="pr-2">Dry solids</th><th className="pr-2">Polymer per dry ton</th><th>Tubes</th>
           </tr>
         </thead>
         <tbody>
@@ -115,7 +115,7 @@ function ShiftTable({ shifts }: { shifts: Route.ComponentProps["loaderData"]["sh
               <td className="pr-2">{formatFigure(shift.pumpHours, 2)}</td>
               <td className="pr-2 whitespace-nowrap">{formatFigure(shift.slurryFlow.value, 0)} {shift.slurryFlow.label}</td>
               <td className="pr-2 whitespace-nowrap">{shift.solidsByWeight !== null ? `Cw ${formatFigure(shift.solidsByWeight * 100, 1)} %` : shift.slurrySpecificGravity !== null ? `SG ${shift.slurrySpecificGravity}` : "–"}</td>
-              <td className="pr-2">{shift.polymer ? `${shift.polymer.product} · ${shift.polymer.doseMgPerL} mg/L` : "–"}</td>
+              <td className="pr-2 whitespace-nowrap" title={shift.polymer ? [shift.polymer.product, shift.polymer.lot].filter(Boolean).join(", ") : undefined}>{shift.polymer ? `${shift.polymer.doseMgPerL} mg/L` : "–"}</td>
               <td className="pr-2 whitespace-nowrap">{shift.computed.stockFeedRate ? `${formatFigure(shift.computed.stockFeedRate.value, 1)} ${shift.computed.stockFeedRate.label}` : "–"}</td>
               <td className="pr-2 whitespace-nowrap">{shift.computed.drySolids ? `${formatFigure(shift.computed.drySolids.value, 1)} ${shift.computed.drySolids.label}` : "–"}</td>
               <td className="pr-2 whitespace-nowrap">{shift.computed.polymerPerDryTon ? `${formatFigure(shift.computed.polymerPerDryTon.value, 2)} ${shift.computed.polymerPerDryTon.label}` : "–"}</td>
