@@ -11,6 +11,7 @@ import { action as haulsAction } from "~/routes/api.projects.$projectId.hauls";
 import { action as samplesAction } from "~/routes/api.projects.$projectId.sediment-samples";
 import { loader as reconciliationLoader } from "~/routes/api.projects.$projectId.reconciliation";
 import { addHaulSite } from "~/models/hauls.server";
+import { presentPublicProgress } from "~/models/share-links.server";
 import { DEMO_DIR, makeDemoSiteProject, postSurvey } from "./import-helpers";
 import { addMember, makeUser, requestAs } from "./helpers";
 
@@ -218,5 +219,8 @@ describe("sediment samples and the reconciliation", () => {
     const surveyed = body.project.dryMassFromSurveys.value;
     expect(body.project.pumpedVersusSurveyedPercent).toBeCloseTo(((body.project.dryMassPumped.value - surveyed) / surveyed) * 100, 9);
     expect(body.assumptions.length).toBeGreaterThan(3);
+    // The public share page offers the same headline, in whole pounds.
+    const publicView = await presentPublicProgress(site.project.id, { publicText: "" });
+    expect(publicView!.nutrientsRemoved).toEqual({ phosphorus: Math.round(body.project.phosphorusRemoved.value), nitrogen: Math.round(body.project.nitrogenRemoved.value), label: "lb" });
   });
 });
