@@ -135,6 +135,7 @@ describe("nutrients removed", () => {
     expect(none.project.phosphorusRemoved).toBeNull();
     expect(none.project.pumpedVersusSurveyedPercent).toBeNull();
     expect(none.project.hauledVersusPumpedPercent).toBeCloseTo(-50, 9); // computed: (0.5 − 1) ÷ 1 tonne
+    expect(none.project.dryMassNotYetHauled.value).toBeCloseTo(0.5, 12); // computed: 1 t pumped − 0.5 t hauled
   });
 
   it("states differences against the surveyed dry mass in percent", () => {

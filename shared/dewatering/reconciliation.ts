@@ -48,6 +48,8 @@ export interface Reconciliation {
     dryMassFromSurveys: Measure<BulkMassUnit> | null;
     dryMassPumped: Measure<BulkMassUnit>;
     dryMassHauled: Measure<BulkMassUnit>;
+    /** Pumped less hauled: what is still in the tubes or stockpiled (never below 0). */
+    dryMassNotYetHauled: Measure<BulkMassUnit>;
     /** (pumped − surveyed) ÷ surveyed × 100; null without a surveyed dry mass. */
     pumpedVersusSurveyedPercent: number | null;
     hauledVersusSurveyedPercent: number | null;
@@ -120,6 +122,7 @@ export function reconcileSolids(input: {
       dryMassFromSurveys: surveyedDryKg === null ? null : bulk(surveyedDryKg),
       dryMassPumped: bulk(input.pumpedDryKg),
       dryMassHauled: bulk(input.hauledDryKg),
+      dryMassNotYetHauled: bulk(Math.max(0, input.pumpedDryKg - input.hauledDryKg)),
       pumpedVersusSurveyedPercent: differencePercent(toBulk(input.pumpedDryKg), surveyedDryKg === null ? null : toBulk(surveyedDryKg)),
       hauledVersusSurveyedPercent: differencePercent(toBulk(input.hauledDryKg), surveyedDryKg === null ? null : toBulk(surveyedDryKg)),
       hauledVersusPumpedPercent: differencePercent(toBulk(input.hauledDryKg), toBulk(input.pumpedDryKg)),
@@ -133,6 +136,7 @@ export function reconcileSolids(input: {
       "Nitrogen and phosphorus removed = that dry mass × total N or total P (mg/kg dry weight), by the same samples.",
       "Pumped dry solids = slurry flow × slurry specific gravity × solids by weight × pump hours, from the shift logs (water at 1 g/cm³; the solids' specific gravity as logged).",
       "Hauled dry solids = each ticket's wet load × its cake solids (the project default when a ticket has none); a load measured in the truck body is weighed through a saturated cake of the project's solids specific gravity.",
+      "Not yet hauled = pumped − hauled: solids still in the tubes or stockpiled.",
       "Differences are (pumped or hauled − surveyed) ÷ surveyed. Solids still in tubes, fines lost with the decant water and bulking in the trucks make them differ; a difference is a question to look into, not an error.",
     ],
   };

@@ -26,7 +26,7 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
       <dl className="mt-3 grid gap-x-6 text-sm sm:grid-cols-3">
         <div className="border-t border-line py-2"><dt className="text-muted">Surveyed removal</dt><dd className="figures">{measure(project.surveyedRemoved)} · {measure(project.dryMassFromSurveys)}</dd></div>
         <div className="border-t border-line py-2"><dt className="text-muted">Pumped (shift logs)</dt><dd className="figures">{measure(project.dryMassPumped)} <span className="text-muted">({signed(project.pumpedVersusSurveyedPercent)} vs surveyed)</span></dd></div>
-        <div className="border-t border-line py-2"><dt className="text-muted">Hauled (tickets)</dt><dd className="figures">{measure(project.dryMassHauled)} <span className="text-muted">({signed(project.hauledVersusSurveyedPercent)} vs surveyed)</span></dd></div>
+        <div className="border-t border-line py-2"><dt className="text-muted">Hauled (tickets)</dt><dd className="figures">{measure(project.dryMassHauled)} <span className="text-muted">({signed(project.hauledVersusSurveyedPercent)} vs surveyed; {measure(project.dryMassNotYetHauled)} pumped and not yet hauled)</span></dd></div>
       </dl>
       <div className="mt-2 overflow-x-auto">
         <table className="w-full border-collapse text-sm">
