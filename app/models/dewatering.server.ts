@@ -1,6 +1,6 @@
 import { Op, UniqueConstraintError } from "sequelize";
 import { z } from "zod";
-import { computeShiftFigures, type ShiftFigures } from "../../shared/dewatering/shift";
+import { computeShiftFigures, flowFromTotaliser, type ShiftFigures } from "../../shared/dewatering/shift";
 import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
 import { localDateIn } from "../../shared/progress/calendar-days";
 import { cubicMetresPerHourFrom, flowUnitSchema, kilogramsFrom, kilogramsTo, LITRES_PER_US_GALLON, massUnitsFor, measureLabel, unitLabel, type FlowUnit } from "../../shared/units";
@@ -37,7 +37,13 @@ export const shiftInputSchema = z
     slurryFlow: z.object({
       value: z.number().finite().positive("the slurry flow is more than 0").max(1_000_000),
       unit: z.enum(flowUnitSchema.options, { message: "the flow unit is gpm or m3/h" }),
-    }),
+    }).nullish(),
+    /** Instead of the flow: the flow meter's totaliser at the start and end of the shift. */
+    totaliser: z.object({
+      start: z.number().finite().min(0, "a totaliser reading is 0 or more"),
+      end: z.number().finite().min(0, "a totaliser reading is 0 or more"),
+      unit: z.enum(["gal", "m3"], { message: "the totaliser unit is gal or m3" }),
+    }).nullish(),
     solidsByWeight: z.number().finite().gt(0, "solids by weight is a share above 0").max(1, "solids by weight is a share of 0 to 1 (0.20 for 20 %)").nullish(),
     slurrySpecificGravity: z.number().finite().gt(1, "a slurry's specific gravity is above water's, 1").max(3).nullish(),
     /** The project's setting when not given. */
@@ -59,6 +65,12 @@ export const shiftInputSchema = z
     if (span <= 0) {
       context.addIssue({ code: "custom", path: ["end"], message: "the shift ends after it starts (log a shift past midnight as two)" });
       return;
+    }
+    if ((input.slurryFlow == null) === (input.totaliser == null)) {
+      context.addIssue({ code: "custom", path: ["slurryFlow"], message: "give the slurry flow, or the totaliser readings at the start and end (one of the two)" });
+    }
+    if (input.totaliser && input.totaliser.end <= input.totaliser.start) {
+      context.addIssue({ code: "custom", path: ["totaliser", "end"], message: "the totaliser reads more at the end of the shift than at its start" });
     }
     if (input.pumpHours != null && input.pumpHours > span / 60 + 1e-9) {
       context.addIssue({ code: "custom", path: ["pumpHours"], message: `the pump ran at most the shift's ${Math.round((span / 60) * 100) / 100} hours` });
@@ -132,6 +144,8 @@ export interface ShiftView {
   end: string;
   pumpHours: number;
   slurryFlow: { value: number; unit: FlowUnit; label: string };
+  /** The readings the flow was worked out from, when it was. */
+  totaliser: { start: number; end: number; unit: "gal" | "m3" } | null;
   solidsByWeight: number | null;
   slurrySpecificGravity: number | null;
   solidsSpecificGravity: number;
@@ -160,6 +174,7 @@ function presentShift(shift: DewateringShift, project: ProjectView): ShiftView {
     end: shift.endAt,
     pumpHours: shift.pumpHours,
     slurryFlow: { ...measured.slurryFlow, label: measureLabel(shift.slurryFlowUnit) },
+    totaliser: shift.totaliserStart !== null && shift.totaliserEnd !== null && shift.totaliserUnit !== null ? { start: shift.totaliserStart, end: shift.totaliserEnd, unit: shift.totaliserUnit } : null,
     solidsByWeight: shift.solidsByWeight,
     slurrySpecificGravity: shift.slurrySpecificGravity,
     solidsSpecificGravity: shift.solidsSpecificGravity,
@@ -207,7 +222,8 @@ export async function recordShift(project: ProjectView, user: UserView, input: S
     throw new ValidationError({ field: "slurrySpecificGravity", message: `A slurry is lighter than its solids: its specific gravity is below the solids' ${solidsSpecificGravity}.` });
   }
   const pumpHours = input.pumpHours ?? (minutesOf(input.end) - minutesOf(input.start)) / 60;
-  const figures = computeShiftFigures({ slurryFlow: input.slurryFlow, pumpHours, solidsByWeight: input.solidsByWeight, slurrySpecificGravity: input.slurrySpecificGravity, solidsSpecificGravity, polymer: input.polymer }, project.lengthUnit);
+  const slurryFlow = input.slurryFlow ?? flowFromTotaliser(input.totaliser!, pumpHours);
+  const figures = computeShiftFigures({ slurryFlow, pumpHours, solidsByWeight: input.solidsByWeight, slurrySpecificGravity: input.slurrySpecificGravity, solidsSpecificGravity, polymer: input.polymer }, project.lengthUnit);
   const names = [...new Set(input.tubes.map((name) => name.toLowerCase()))];
   try {
     const id = await getSequelize().transaction(async (transaction) => {
@@ -219,7 +235,8 @@ export async function recordShift(project: ProjectView, user: UserView, input: S
       const shift = await DewateringShift.create(
         {
           projectId: project.id, shiftDate: input.date, startAt: input.start, endAt: input.end, pumpHours,
-          slurryFlowValue: input.slurryFlow.value, slurryFlowUnit: input.slurryFlow.unit,
+          slurryFlowValue: slurryFlow.value, slurryFlowUnit: slurryFlow.unit,
+          totaliserStart: input.totaliser?.start ?? null, totaliserEnd: input.totaliser?.end ?? null, totaliserUnit: input.totaliser?.unit ?? null,
           solidsByWeight: input.solidsByWeight ?? null, slurrySpecificGravity: input.slurrySpecificGravity ?? null, solidsSpecificGravity,
           polymerProduct: input.polymer?.product ?? null, polymerLot: input.polymer?.lot || null, doseMgPerL: input.polymer?.doseMgPerL ?? null, stockPercent: input.polymer?.stockPercent ?? null,
           drySolidsKg: figures.drySolidsKg, neatPolymerKg: figures.neatPolymerForShiftKg, notes: input.notes, idempotencyKey: input.idempotencyKey || null, recordedById: user.id,
@@ -228,7 +245,7 @@ export async function recordShift(project: ProjectView, user: UserView, input: S
       );
       if (chosen.length > 0) {
         // The shift's slurry and solids, shared equally among the tubes it filled (the log does not say more).
-        const slurryM3 = cubicMetresPerHourFrom(input.slurryFlow.value, input.slurryFlow.unit) * pumpHours;
+        const slurryM3 = cubicMetresPerHourFrom(slurryFlow.value, slurryFlow.unit) * pumpHours;
         await TubeFill.bulkCreate(
           chosen.map((tube) => ({
             projectId: project.id, tubeId: tube!.id, shiftId: shift.id, fillDate: input.date,

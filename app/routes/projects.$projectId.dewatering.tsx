@@ -43,7 +43,9 @@ function shiftBodyFrom(form: FormData) {
   return {
     date: text(form.get("date")), start: text(form.get("start")), end: text(form.get("end")),
     pumpHours: optionalNumber(form.get("pumpHours")),
-    slurryFlow: { value: optionalNumber(form.get("flowValue")) ?? Number.NaN, unit: text(form.get("flowUnit")) },
+    ...(text(form.get("flowMode")) === "totaliser"
+      ? { totaliser: { start: optionalNumber(form.get("totaliserStart")) ?? Number.NaN, end: optionalNumber(form.get("totaliserEnd")) ?? Number.NaN, unit: text(form.get("totaliserUnit")) } }
+      : { slurryFlow: { value: optionalNumber(form.get("flowValue")) ?? Number.NaN, unit: text(form.get("flowUnit")) } }),
     solidsByWeight: solidsPercent === null ? null : solidsPercent / 100,
     slurrySpecificGravity: text(form.get("solidsMode")) === "sg" ? optionalNumber(form.get("slurrySg")) : null,
     solidsSpecificGravity: optionalNumber(form.get("solidsSg")),
@@ -57,7 +59,8 @@ function shiftBodyFrom(form: FormData) {
 
 /** Which input of the form each field of the shift body came from. */
 const SHIFT_INPUTS: Record<string, string> = {
-  "slurryFlow.value": "flowValue", "slurryFlow.unit": "flowUnit", slurryFlow: "flowValue", solidsByWeight: "solidsPercent", slurrySpecificGravity: "slurrySg",
+  "slurryFlow.value": "flowValue", "slurryFlow.unit": "flowUnit", slurryFlow: "flowValue",
+  "totaliser.start": "totaliserStart", "totaliser.end": "totaliserEnd", "totaliser.unit": "totaliserUnit", solidsByWeight: "solidsPercent", slurrySpecificGravity: "slurrySg",
   solidsSpecificGravity: "solidsSg", "polymer.product": "polymerProduct", "polymer.lot": "polymerLot", "polymer.doseMgPerL": "dose", "polymer.stockPercent": "stockPercent",
 };
 const shiftInputOf = (field: string) => SHIFT_INPUTS[field] ?? field.split(".")[0];

@@ -39,6 +39,10 @@ export const up: Migration = async ({ context: queryInterface }) => {
     pumpHours: measure(),
     slurryFlowValue: measure(),
     slurryFlowUnit: { type: DataTypes.ENUM("gpm", "m3/h"), allowNull: false },
+    /** The flow meter's totaliser at the start and end, when the flow was worked out from it (the mean over the pump hours). */
+    totaliserStart: measure(true),
+    totaliserEnd: measure(true),
+    totaliserUnit: { type: DataTypes.ENUM("gal", "m3"), allowNull: true },
     solidsByWeight: measure(true),
     slurrySpecificGravity: measure(true),
     solidsSpecificGravity: measure(),

@@ -20,6 +20,10 @@ export class DewateringShift extends Model<InferAttributes<DewateringShift>, Inf
   declare pumpHours: number;
   declare slurryFlowValue: number;
   declare slurryFlowUnit: (typeof FLOW_UNITS)[number];
+  /** Totaliser readings the flow was worked out from (their mean over the pump hours); null when the flow was read. */
+  declare totaliserStart: number | null;
+  declare totaliserEnd: number | null;
+  declare totaliserUnit: "gal" | "m3" | null;
   declare solidsByWeight: number | null;
   declare slurrySpecificGravity: number | null;
   declare solidsSpecificGravity: number;
@@ -48,6 +52,9 @@ export function initDewateringShift(sequelize: Sequelize) {
       pumpHours: measure(),
       slurryFlowValue: measure(),
       slurryFlowUnit: { type: DataTypes.ENUM(...FLOW_UNITS), allowNull: false },
+      totaliserStart: measure(true),
+      totaliserEnd: measure(true),
+      totaliserUnit: { type: DataTypes.ENUM("gal", "m3"), allowNull: true },
       solidsByWeight: measure(true),
       slurrySpecificGravity: measure(true),
       solidsSpecificGravity: measure(),

@@ -3,7 +3,7 @@ import { KILOGRAMS_PER_POUND, LITRES_PER_US_GALLON, cubicMetresPerHourFrom, kilo
 import { haulDryMassKg } from "./haul";
 import { polymerFeed } from "./polymer-feed";
 import { reconcileSolids } from "./reconciliation";
-import { computeShiftFigures } from "./shift";
+import { computeShiftFigures, flowFromTotaliser } from "./shift";
 import { drySolidsRateKgPerH, slurryFromSolidsByWeight, slurryFromSpecificGravity } from "./slurry";
 import { NEAR_CAPACITY_SHARE, fillLevel, isNearCapacity, theoreticalDiameter } from "./tubes";
 
@@ -45,6 +45,14 @@ describe("polymer feed", () => {
     // a shift without a polymer has no feed figures, and without solids no dry solids
     const bare = computeShiftFigures({ slurryFlow: { value: 20, unit: "m3/h" }, pumpHours: 10, solidsSpecificGravity: 2.65 }, "m");
     expect([bare.stockFeedRate, bare.drySolids, bare.polymerPerDryTon]).toEqual([null, null, null]);
+  });
+});
+
+describe("flow from a totaliser", () => {
+  it("is the volume between the readings over the pumping time", () => {
+    // computed: 480,000 gal in 8 h = 1,000 gpm; 1,817 m³ in 8 h = 227.1 m³/h
+    expect(flowFromTotaliser({ start: 1_250_000, end: 1_730_000, unit: "gal" }, 8)).toEqual({ value: 1000, unit: "gpm" });
+    expect(flowFromTotaliser({ start: 100, end: 1917, unit: "m3" }, 8).value).toBeCloseTo(227.125, 9);
   });
 });
 

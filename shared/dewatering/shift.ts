@@ -12,6 +12,19 @@ import { drySolidsRateKgPerH, slurryFromSolidsByWeight, slurryFromSpecificGravit
  * operator types) and on the server (what is stored and answered), so the two cannot differ.
  */
 
+/** A flow meter's totaliser read at the start and the end of the shift. */
+export interface TotaliserReadings {
+  start: number;
+  end: number;
+  unit: "gal" | "m3";
+}
+
+/** The mean slurry flow over the pumping time from the totaliser: gallons → gpm, m³ → m³/h. */
+export function flowFromTotaliser(readings: TotaliserReadings, pumpHours: number): { value: number; unit: FlowUnit } {
+  const volume = readings.end - readings.start;
+  return readings.unit === "gal" ? { value: volume / (pumpHours * 60), unit: "gpm" } : { value: volume / pumpHours, unit: "m3/h" };
+}
+
 export interface ShiftMeasurements {
   slurryFlow: { value: number; unit: FlowUnit };
   /** Pumping time of the shift, hours. */

@@ -107,7 +107,20 @@ describe("the shift log", () => {
     expect(await DewateringShift.count({ where: { projectId: site.project.id, shiftDate: "2026-10-07" } })).toBe(1);
   });
 
+  it("works the flow out from a totaliser's readings, and keeps them", async () => {
+    const { slurryFlow: _flow, ...withoutFlow } = SHIFT;
+    const response = await postJson(shiftsAction as never, "dewatering", `${base()}/dewatering/shifts`, { ...withoutFlow, date: "2026-10-09", totaliser: { start: 1_250_000, end: 1_730_000, unit: "gal" } });
+    expect(response.status).toBe(201);
+    const { shift, computed } = await response.json();
+    // computed: 480,000 gal over 8 pump hours = 1,000 gpm → 57.2 dry short tons/h as above
+    expect(shift.slurryFlow).toMatchObject({ value: 1000, unit: "gpm" });
+    expect(shift.totaliser).toEqual({ start: 1_250_000, end: 1_730_000, unit: "gal" });
+    expect(computed.drySolidsRate.value).toBeCloseTo(57.2, 1);
+  });
+
   const refusals: Array<[string, Record<string, unknown>, string]> = [
+    ["neither a flow nor a totaliser", { slurryFlow: null }, "slurryFlow"],
+    ["a totaliser that runs backwards", { slurryFlow: null, totaliser: { start: 500, end: 400, unit: "m3" } }, "totaliser.end"],
     ["a dose of −1", { polymer: { ...SHIFT.polymer, doseMgPerL: -1 } }, "polymer.doseMgPerL"],
     ["a stock of 0 %", { polymer: { ...SHIFT.polymer, stockPercent: 0 } }, "polymer.stockPercent"],
     ["an end before the start", { start: "15:00", end: "07:00" }, "end"],

@@ -1,6 +1,6 @@
 import { useState } from "react";
 import { Form } from "react-router";
-import { computeShiftFigures } from "../../../shared/dewatering/shift";
+import { computeShiftFigures, flowFromTotaliser } from "../../../shared/dewatering/shift";
 import type { FlowUnit, LengthUnit } from "../../../shared/units";
 import type { FieldErrors } from "~/lib/http/form";
 import { SubmitButton } from "../submit-button";
@@ -23,14 +23,22 @@ export function ShiftForm(props: {
   errors: FieldErrors;
 }) {
   const [values, setValues] = useState({
-    date: props.defaultDate, start: "07:00", end: "15:00", pumpHours: "", flowValue: "", flowUnit: props.defaultFlowUnit as string,
+    date: props.defaultDate, start: "07:00", end: "15:00", pumpHours: "", flowMode: "meter", flowValue: "", flowUnit: props.defaultFlowUnit as string,
+    totaliserStart: "", totaliserEnd: "", totaliserUnit: props.defaultFlowUnit === "gpm" ? "gal" : "m3",
     solidsMode: "cw", solidsPercent: "", slurrySg: "", solidsSg: String(props.solidsSpecificGravity),
     polymerProduct: "", polymerLot: "", dose: "", stockPercent: "",
   });
   const change = (event: React.ChangeEvent<HTMLInputElement | HTMLSelectElement>) => setValues((old) => ({ ...old, [event.target.name]: event.target.value }));
   const span = (minutesOf(values.end) - minutesOf(values.start)) / 60;
   const pumpHours = numberOf(values.pumpHours) ?? (span > 0 ? span : Number.NaN);
-  const flow = numberOf(values.flowValue);
+  const totaliserStart = numberOf(values.totaliserStart);
+  const totaliserEnd = numberOf(values.totaliserEnd);
+  const slurryFlow = values.flowMode === "meter"
+    ? { value: numberOf(values.flowValue) ?? Number.NaN, unit: values.flowUnit as FlowUnit }
+    : totaliserStart !== null && totaliserEnd !== null && totaliserEnd > totaliserStart && pumpHours > 0
+      ? flowFromTotaliser({ start: totaliserStart, end: totaliserEnd, unit: values.totaliserUnit as "gal" | "m3" }, pumpHours)
+      : { value: Number.NaN, unit: values.flowUnit as FlowUnit };
+  const flow = Number.isFinite(slurryFlow.value) ? slurryFlow.value : null;
   const gs = numberOf(values.solidsSg) ?? Number.NaN;
   const cw = values.solidsMode === "cw" ? numberOf(values.solidsPercent) : null;
   const sg = values.solidsMode === "sg" ? numberOf(values.slurrySg) : null;
@@ -38,7 +46,7 @@ export function ShiftForm(props: {
   const stock = numberOf(values.stockPercent);
   const figures = flow !== null && flow > 0
     ? computeShiftFigures({
-        slurryFlow: { value: flow, unit: values.flowUnit as FlowUnit },
+        slurryFlow,
         pumpHours,
         solidsByWeight: cw !== null && cw > 0 && cw <= 100 ? cw / 100 : null,
         slurrySpecificGravity: sg !== null && sg > 1 && sg < gs ? sg : null,
@@ -54,14 +62,32 @@ export function ShiftForm(props: {
         <FieldInput label="Start" name="start" type="time" required value={values.start} onChange={change} error={errors.start} />
         <FieldInput label="End" name="end" type="time" required value={values.end} onChange={change} error={errors.end} />
       </div>
-      <div className="grid gap-3 sm:grid-cols-3">
+      <div className="grid gap-3 sm:grid-cols-2">
         <FieldInput label="Pump hours" name="pumpHours" inputMode="decimal" value={values.pumpHours} onChange={change} error={errors.pumpHours} hint={Number.isFinite(span) && span > 0 ? `blank: the whole shift, ${formatFigure(span, 2)} h` : undefined} />
-        <FieldInput label="Slurry flow" name="flowValue" inputMode="decimal" required value={values.flowValue} onChange={change} error={errors.flowValue} />
-        <FieldSelect label="Flow unit" name="flowUnit" value={values.flowUnit} onChange={change} error={errors.flowUnit}>
-          <option value="gpm">gpm (US gallons per minute)</option>
-          <option value="m3/h">m³/h</option>
+        <FieldSelect label="Flow measured as" name="flowMode" value={values.flowMode} onChange={change}>
+          <option value="meter">slurry flow (flow meter)</option>
+          <option value="totaliser">totaliser at the start and end</option>
         </FieldSelect>
       </div>
+      {values.flowMode === "meter" ? (
+        <div className="grid gap-3 sm:grid-cols-2">
+          <FieldInput label="Slurry flow" name="flowValue" inputMode="decimal" required value={values.flowValue} onChange={change} error={errors.flowValue} />
+          <FieldSelect label="Flow unit" name="flowUnit" value={values.flowUnit} onChange={change} error={errors.flowUnit}>
+            <option value="gpm">gpm (US gallons per minute)</option>
+            <option value="m3/h">m³/h</option>
+          </FieldSelect>
+        </div>
+      ) : (
+        <div className="grid gap-3 sm:grid-cols-3">
+          <FieldInput label="Totaliser at start" name="totaliserStart" inputMode="decimal" required value={values.totaliserStart} onChange={change} error={errors.totaliserStart} />
+          <FieldInput label="Totaliser at end" name="totaliserEnd" inputMode="decimal" required value={values.totaliserEnd} onChange={change} error={errors.totaliserEnd}
+            hint={flow !== null ? `mean flow over the pump hours: ${formatFigure(flow, 1)} ${slurryFlow.unit === "gpm" ? "gpm" : "m³/h"}` : undefined} />
+          <FieldSelect label="Totaliser unit" name="totaliserUnit" value={values.totaliserUnit} onChange={change} error={errors.totaliserUnit}>
+            <option value="gal">US gallons</option>
+            <option value="m3">m³</option>
+          </FieldSelect>
+        </div>
+      )}
       <fieldset className="space-y-3 rounded border border-line p-3">
         <legend className="px-1 text-sm font-medium">Slurry solids</legend>
         <FieldSelect label="Measured as" name="solidsMode" value={values.solidsMode} onChange={change}>
