@@ -2,6 +2,8 @@ import { Percent, Volume, ZoneName, zoneKey } from "~/components/progress-figure
 import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 import { requireRole } from "~/lib/auth/access.server";
 import { loadQuantities } from "~/models/quantities.server";
+import { loadReconciliation } from "~/models/reconciliation.server";
+import { ReconciliationPanel } from "~/components/dewatering/reconciliation-panel";
 import type { Route } from "./+types/projects.$projectId.quantities.report";
 
 // The printable quantities report (outside the project layout, so it prints without navigation):
@@ -10,7 +12,9 @@ import type { Route } from "./+types/projects.$projectId.quantities.report";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, user } = await requireRole(request, params.projectId, "quantities.read");
   const view = await loadQuantities(project);
+  const reconciliation = view.progress.hasFigures ? await loadReconciliation(project, view.progress) : null;
   return {
+    reconciliation,
     project: view.project, baseline: view.baseline, latest: view.latest, method: view.method,
     total: view.progress.total, zones: view.progress.zones, preparedBy: user.name, preparedOn: new Date().toISOString().slice(0, 10),
   };
@@ -77,6 +81,12 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
         </tbody>
       </table>
       {zones.some((zone) => zone.zoneId === null) ? <p className="mt-2 text-xs text-muted">{UNZONED_NOTE}</p> : null}
+      {loaderData.reconciliation ? (
+        // A page of its own: surveyed, pumped and hauled solids and the nutrients removed.
+        <div className="mt-8 break-before-page">
+          <ReconciliationPanel reconciliation={loaderData.reconciliation} dewateringHref={`/projects/${project.id}/dewatering`} />
+        </div>
+      ) : null}
       <section aria-labelledby="signatures" className="mt-10 break-inside-avoid">
         <h2 id="signatures" className="font-semibold">Review</h2>
         <p className="mt-1 text-sm">I have reviewed the quantities above against the surveys named in this report.</p>

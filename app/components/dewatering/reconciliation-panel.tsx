@@ -49,7 +49,7 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
         <summary className="cursor-pointer text-lagoon-dark">Assumptions</summary>
         <ul className="mt-2 list-disc space-y-1 pl-5 text-muted">{reconciliation.assumptions.map((line) => <li key={line}>{line}</li>)}</ul>
       </details>
-      <p className="mt-2 text-sm"><Link to={dewateringHref} className="text-lagoon-dark underline">Dewatering records</Link></p>
+      <p className="no-print mt-2 text-sm"><Link to={dewateringHref} className="text-lagoon-dark underline">Dewatering records</Link></p>
     </section>
   );
 }
