@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import * as units from "./units";
 import { METRES_PER_UNIT, SQUARE_METRES_PER_ACRE, areaFromAcres, convertLength, cubicToVolumeUnit, defaultsFor, lengthUnitSchema, unitLabel, volumeUnitFor } from "./units";
 
 describe("NIST length definitions", () => {
@@ -69,5 +70,23 @@ describe("defaults and labels", () => {
   it("validates a unit at the boundary", () => {
     expect(lengthUnitSchema.parse("us-ft")).toBe("us-ft");
     expect(lengthUnitSchema.safeParse("yards").success).toBe(false);
+  });
+});
+
+describe("NIST mass, volume and density definitions for the dewatering records", () => {
+  it("a pound is 0.45359237 kg, a short ton 907.18474 kg, a US gallon 3.785411784 L", () => {
+    // published: NIST SP 811
+    expect(units.KILOGRAMS_PER_POUND).toBe(0.45359237);
+    expect(units.kilogramsTo(907.18474, "short-ton")).toBeCloseTo(1, 12);
+    expect(units.cubicMetresPerHourFrom(1, "gpm")).toBeCloseTo(0.227124707, 9); // computed: 60 × 3.785411784 L
+    expect(units.cubicMetresPerHourTo(units.cubicMetresPerHourFrom(123, "gpm"), "gpm")).toBeCloseTo(123, 9);
+  });
+  it("a cubic yard is 0.764554857984 m³; 1 lb/ft³ is 16.018463 kg/m³", () => {
+    // published: NIST SP 811 (cubic yard exact); computed: 0.45359237 / 0.3048³
+    expect(units.cubicMetresPerVolumeUnit("ft")).toBeCloseTo(0.764554857984, 12);
+    expect(units.cubicMetresPerVolumeUnit("m")).toBe(1);
+    expect(units.kilogramsPerCubicMetreFrom(1, "lb/ft3")).toBeCloseTo(16.018463, 6);
+    expect(units.kilogramsPerCubicMetreFrom(1.2, "g/cm3")).toBe(1200);
+    expect(units.kilogramsPerCubicMetreTo(units.kilogramsPerCubicMetreFrom(15, "lb/ft3"), "lb/ft3")).toBeCloseTo(15, 12);
   });
 });

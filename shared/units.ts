@@ -124,3 +124,82 @@ export function unitLabel(
       return VOLUME_NAMES[volumeUnitFor(unit)];
   }
 }
+
+/**
+ * Masses and flows for the dewatering records. Feet projects weigh in short tons and pounds (the
+ * units of US scale tickets and feed worksheets), metre projects in tonnes and kilograms; the
+ * computation runs in SI and converts once, here.
+ */
+export type MassUnit = "lb" | "kg";
+export type BulkMassUnit = "short-ton" | "t";
+export type FlowUnit = "gpm" | "m3/h";
+export type LiquidRateUnit = "gal/h" | "L/h";
+export type DensityUnit = "lb/ft3" | "kg/m3" | "g/cm3";
+
+/** One pound in kilograms, exact: NIST SP 811 (the 1959 international yard and pound agreement). */
+export const KILOGRAMS_PER_POUND = 0.45359237;
+/** One short ton (2,000 lb) in kilograms: NIST SP 811. */
+export const KILOGRAMS_PER_SHORT_TON = 2000 * KILOGRAMS_PER_POUND;
+/** One US gallon (231 in³) in litres, exact: NIST SP 811. */
+export const LITRES_PER_US_GALLON = 3.785411784;
+
+export const flowUnitSchema = z.enum(["gpm", "m3/h"]);
+export const densityUnitSchema = z.enum(["lb/ft3", "kg/m3", "g/cm3"]);
+
+export function massUnitsFor(unit: LengthUnit): { mass: MassUnit; bulkMass: BulkMassUnit; liquidRate: LiquidRateUnit; flow: FlowUnit; density: DensityUnit } {
+  return unit === "m"
+    ? { mass: "kg", bulkMass: "t", liquidRate: "L/h", flow: "m3/h", density: "kg/m3" }
+    : { mass: "lb", bulkMass: "short-ton", liquidRate: "gal/h", flow: "gpm", density: "lb/ft3" };
+}
+
+export function kilogramsTo(massKg: number, unit: MassUnit | BulkMassUnit): number {
+  switch (unit) {
+    case "kg": return massKg;
+    case "t": return massKg / 1000;
+    case "lb": return massKg / KILOGRAMS_PER_POUND;
+    case "short-ton": return massKg / KILOGRAMS_PER_SHORT_TON;
+  }
+}
+
+export function kilogramsFrom(mass: number, unit: MassUnit | BulkMassUnit): number {
+  return mass / kilogramsTo(1, unit);
+}
+
+/** Cubic metres per hour from a slurry flow in either unit (a US gallon per minute is 60 × 3.785411784 L/h). */
+export function cubicMetresPerHourFrom(flow: number, unit: FlowUnit): number {
+  return unit === "m3/h" ? flow : (flow * 60 * LITRES_PER_US_GALLON) / 1000;
+}
+
+export function cubicMetresPerHourTo(flowM3PerH: number, unit: FlowUnit): number {
+  return flowM3PerH / cubicMetresPerHourFrom(1, unit);
+}
+
+export function litresPerHourTo(rateLPerH: number, unit: LiquidRateUnit): number {
+  return unit === "L/h" ? rateLPerH : rateLPerH / LITRES_PER_US_GALLON;
+}
+
+/** kg/m³ from a density in any of the units a lab reports (1 lb/ft³ = 0.45359237 / 0.3048³ kg/m³, NIST). */
+export function kilogramsPerCubicMetreFrom(density: number, unit: DensityUnit): number {
+  if (unit === "kg/m3") return density;
+  if (unit === "g/cm3") return density * 1000;
+  return (density * KILOGRAMS_PER_POUND) / METRES_PER_FOOT ** 3;
+}
+
+export function kilogramsPerCubicMetreTo(densityKgPerM3: number, unit: DensityUnit): number {
+  return densityKgPerM3 / kilogramsPerCubicMetreFrom(1, unit);
+}
+
+/** Cubic metres in one of the project's volume units: a cubic yard of its own foot (27 ft³), or a cubic metre. */
+export function cubicMetresPerVolumeUnit(unit: LengthUnit): number {
+  return unit === "m" ? 1 : (3 * METRES_PER_UNIT[unit]) ** 3;
+}
+
+const MASS_LABELS: Record<MassUnit | BulkMassUnit, string> = { lb: "lb", kg: "kg", "short-ton": "short tons", t: "t" };
+const RATE_LABELS: Record<FlowUnit | LiquidRateUnit | DensityUnit, string> = {
+  gpm: "gpm", "m3/h": "m³/h", "gal/h": "gal/h", "L/h": "L/h", "lb/ft3": "lb/ft³", "kg/m3": "kg/m³", "g/cm3": "g/cm³",
+};
+
+/** Labels for the dewatering units: `measureLabel("short-ton")` → "short tons", `measureLabel("m3/h")` → "m³/h". */
+export function measureLabel(unit: MassUnit | BulkMassUnit | FlowUnit | LiquidRateUnit | DensityUnit): string {
+  return unit in MASS_LABELS ? MASS_LABELS[unit as MassUnit] : RATE_LABELS[unit as FlowUnit];
+}

@@ -3,6 +3,7 @@ import { Project, ShareLink, User, Zone } from "~/lib/db.server";
 import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { loadProgress } from "./progress.server";
+import { loadReconciliation } from "./reconciliation.server";
 import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 
@@ -93,6 +94,8 @@ export interface PublicProgressView {
   /** Whole volume units. */
   removedVolume: number;
   volumeLabel: string;
+  /** Nitrogen and phosphorus removed, whole pounds or kilograms: the funders' headline; null before any lab sample. */
+  nutrientsRemoved: { nitrogen: number; phosphorus: number; label: string } | null;
   workLimit: LonLatRing[][];
   /** Every zone, then the Unzoned row (`unzoned`, no outline) when part of the work limit lies in no zone. */
   zones: Array<{ name: string; percentComplete: number | null; polygons: LonLatRing[][]; unzoned: boolean }>;
@@ -111,7 +114,9 @@ const wholePercent = (value: number | null) => (value === null ? null : Math.rou
 export async function presentPublicProgress(projectId: number, link: Pick<ShareLink, "publicText">): Promise<PublicProgressView | null> {
   const project = await Project.findByPk(projectId);
   if (!project) return null;
-  const progress = await loadProgress(presentProject(project));
+  const view = presentProject(project);
+  const progress = await loadProgress(view);
+  const { project: removed } = await loadReconciliation(view, progress);
   const zonePolygons = new Map<number, string>();
   for (const zone of await Zone.findAll({ where: { projectId }, attributes: ["id", "polygonGeoJson"] })) zonePolygons.set(zone.id, zone.polygonGeoJson);
   return {
@@ -121,6 +126,9 @@ export async function presentPublicProgress(projectId: number, link: Pick<ShareL
     percentComplete: wholePercent(progress.total.percentCompleteByVolume),
     removedVolume: Math.round(progress.total.removedVolume),
     volumeLabel: progress.volumeLabel,
+    nutrientsRemoved: removed.nitrogenRemoved && removed.phosphorusRemoved
+      ? { nitrogen: Math.round(removed.nitrogenRemoved.value), phosphorus: Math.round(removed.phosphorusRemoved.value), label: removed.phosphorusRemoved.label }
+      : null,
     workLimit: lonLatPolygons(project.workLimitGeoJson),
     zones: progress.zones.map((zone) => ({
       name: zone.name,

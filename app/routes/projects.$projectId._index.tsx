@@ -2,7 +2,9 @@ import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { ROLE_LABELS } from "~/lib/auth/roles";
 import { ProgressOverview } from "~/components/progress-overview";
+import { ReconciliationPanel } from "~/components/dewatering/reconciliation-panel";
 import { loadProgress } from "~/models/progress.server";
+import { loadReconciliation } from "~/models/reconciliation.server";
 import { listZones } from "~/models/project.server";
 import { unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId._index";
@@ -11,6 +13,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project, role } = access;
   const [zones, progress] = await Promise.all([listZones(project), loadProgress(project, { crossCheck: true })]);
+  // The reconciliation rests on the same progress figures: handed over, not read twice.
+  const reconciliation = progress.hasFigures ? await loadReconciliation(project, progress) : null;
   // Exports for the manager and viewers; the public share page for outreach and the manager.
   const exports = can(access, "quantities.read");
   const sharing = can(access, "share-links.manage");
@@ -27,6 +31,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     zones,
     progress,
     progressLinks,
+    reconciliation,
   };
 }
 
@@ -45,6 +50,7 @@ export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
   return (
     <div className="space-y-6">
     <ProgressOverview progress={loaderData.progress} links={loaderData.progressLinks} />
+    {loaderData.reconciliation ? <ReconciliationPanel reconciliation={loaderData.reconciliation} dewateringHref={`/projects/${project.id}/dewatering`} /> : null}
     <div className="grid gap-6 md:grid-cols-2">
       <section aria-labelledby="facts" className="rounded border border-line bg-panel p-4">
         <h2 id="facts" className="font-semibold">Project facts</h2>

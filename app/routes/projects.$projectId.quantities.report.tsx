@@ -8,6 +8,8 @@ import { loadQuantities } from "~/models/quantities.server";
 import { getSignedPeriod, type PayPeriodView, type SignedPeriod } from "~/models/pay-periods.server";
 import type { PayPeriodSnapshot } from "~/lib/db.server";
 import { urlIdSchema } from "~/lib/http/url-id";
+import { loadReconciliation } from "~/models/reconciliation.server";
+import { ReconciliationPanel } from "~/components/dewatering/reconciliation-panel";
 import type { Route } from "./+types/projects.$projectId.quantities.report";
 
 // The printable quantities report (outside the project layout, so it prints without navigation):
@@ -32,7 +34,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     if (error instanceof NotFoundError) throw data(error.message, { status: 404 });
     throw error;
   }
+  const reconciliation = view.progress.hasFigures ? await loadReconciliation(project, view.progress) : null;
   return {
+    reconciliation,
     project: view.project, baseline: view.baseline, latest: view.latest, method: view.method,
     // A signed report prints its figures as issued, whatever the surveys and settings are now.
     period: signed ? signedPeriod(signed.snapshot) : view.period && reportPeriod(view.period),
@@ -139,6 +143,12 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
             longest triangle edge <span className="figures">{loaderData.period.settings.maxEdge} {loaderData.period.lengthLabel}</span>.
           </p>
         </section>
+      ) : null}
+      {loaderData.reconciliation ? (
+        // A page of its own: surveyed, pumped and hauled solids and the nutrients removed.
+        <div className="mt-8 break-before-page">
+          <ReconciliationPanel reconciliation={loaderData.reconciliation} dewateringHref={`/projects/${project.id}/dewatering`} />
+        </div>
       ) : null}
       <section aria-labelledby="signatures" className="mt-10 break-inside-avoid">
         <h2 id="signatures" className="font-semibold">Review</h2>

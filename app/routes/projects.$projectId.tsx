@@ -33,6 +33,7 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
         <NavLink end to={base} className={linkClass}>Overview</NavLink>
         <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
+        <NavLink to={`${base}/dewatering`} className={linkClass}>Dewatering</NavLink>
         {loaderData.canManageMembers ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
         {loaderData.canConfigure ? <NavLink to={`${base}/settings`} className={linkClass}>Settings</NavLink> : null}
         {loaderData.canReadAudit ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}

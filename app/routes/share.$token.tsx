@@ -58,6 +58,12 @@ export default function SharePage({ loaderData: view }: Route.ComponentProps) {
           <dd className="figures text-2xl">{view.lastUpdated ?? "–"}</dd>
         </div>
       </dl>
+      {view.nutrientsRemoved ? (
+        <p className="mt-3 text-sm" data-testid="public-nutrients">
+          Nutrients taken out of the water with the sediment: <span className="figures font-semibold">{number.format(view.nutrientsRemoved.phosphorus)} {view.nutrientsRemoved.label}</span> of phosphorus
+          and <span className="figures font-semibold">{number.format(view.nutrientsRemoved.nitrogen)} {view.nutrientsRemoved.label}</span> of nitrogen (estimated from surveys and lab samples).
+        </p>
+      ) : null}
       {view.publicText ? <p className="mt-4 whitespace-pre-line">{view.publicText}</p> : null}
       <figure className="mt-4 rounded border border-line bg-panel p-2">
         <ProgressOutlineMap workLimit={view.workLimit} zones={view.zones.filter((zone) => !zone.unzoned)} title={`Zones of ${view.projectName} coloured by percent complete`} />

@@ -25,6 +25,12 @@ import { SignInSession, initSignInSession } from "./sign-in-session";
 import { OutgoingMail, initOutgoingMail } from "./outgoing-mail";
 import { ResetRequest, initResetRequest } from "./reset-request";
 import { PayPeriodReport, initPayPeriodReport } from "./pay-period-report";
+import { DewateringShift, initDewateringShift } from "./dewatering-shift";
+import { GeotextileTube, initGeotextileTube } from "./geotextile-tube";
+import { TubeFill, initTubeFill } from "./tube-fill";
+import { HaulSite, initHaulSite } from "./haul-site";
+import { Haul, initHaul } from "./haul";
+import { SedimentSample, initSedimentSample } from "./sediment-sample";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -41,6 +47,10 @@ export { API_TOKEN_SCOPES, type ApiTokenScope } from "./api-token";
 export { OUTGOING_MAIL_STATUSES, type OutgoingMailStatus } from "./outgoing-mail";
 export { PayPeriodReport };
 export { payPeriodSnapshotSchema, type PayPeriodSnapshot } from "./pay-period-report";
+export { DewateringShift, GeotextileTube, Haul, HaulSite, SedimentSample, TubeFill };
+export { FLOW_UNITS } from "./dewatering-shift";
+export { TUBE_STATUSES, type TubeStatus } from "./geotextile-tube";
+export { HAUL_SITE_KINDS } from "./haul-site";
 export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;
@@ -77,6 +87,12 @@ export function initModels(): Sequelize {
   initDiveCell(sequelize);
   initSignInSession(sequelize);
   initPayPeriodReport(sequelize);
+  initDewateringShift(sequelize);
+  initGeotextileTube(sequelize);
+  initTubeFill(sequelize);
+  initHaulSite(sequelize);
+  initHaul(sequelize);
+  initSedimentSample(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -146,6 +162,30 @@ export function initModels(): Sequelize {
   ShareLink.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   ShareLink.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
   ShareLink.belongsTo(User, { foreignKey: "revokedById", as: "revokedBy" });
+  // Dewatering, hauling and lab samples (issue 15).
+  Project.hasMany(DewateringShift, { foreignKey: "projectId", as: "dewateringShifts" });
+  DewateringShift.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  DewateringShift.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  DewateringShift.hasMany(TubeFill, { foreignKey: "shiftId", as: "fills" });
+  TubeFill.belongsTo(DewateringShift, { foreignKey: "shiftId", as: "shift" });
+  Project.hasMany(GeotextileTube, { foreignKey: "projectId", as: "geotextileTubes" });
+  GeotextileTube.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  GeotextileTube.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
+  GeotextileTube.hasMany(TubeFill, { foreignKey: "tubeId", as: "fills" });
+  TubeFill.belongsTo(GeotextileTube, { foreignKey: "tubeId", as: "tube" });
+  TubeFill.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  TubeFill.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  Project.hasMany(HaulSite, { foreignKey: "projectId", as: "haulSites" });
+  HaulSite.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Project.hasMany(Haul, { foreignKey: "projectId", as: "hauls" });
+  Haul.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  HaulSite.hasMany(Haul, { foreignKey: "siteId", as: "hauls" });
+  Haul.belongsTo(HaulSite, { foreignKey: "siteId", as: "site" });
+  Haul.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  Project.hasMany(SedimentSample, { foreignKey: "projectId", as: "sedimentSamples" });
+  SedimentSample.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  SedimentSample.belongsTo(Zone, { foreignKey: "zoneId", as: "zone" });
+  SedimentSample.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
 
   initialised = sequelize;
   return sequelize;

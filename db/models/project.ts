@@ -42,6 +42,10 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   /** The permitted work limit as a GeoJSON Polygon or MultiPolygon in lon/lat (RFC 7946). */
   declare workLimitGeoJson: string | null;
   declare minTeamSize: CreationOptional<number>;
+  /** Specific gravity of the dredged solids (water = 1): 2.65 for mineral sediment until the project's lab gives its own. */
+  declare solidsSpecificGravity: CreationOptional<number>;
+  /** Cake solids by weight (0–1) a haul ticket without its own sample is counted at; null: every ticket gives its own. */
+  declare cakeSolidsByWeight: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -73,6 +77,8 @@ export function initProject(sequelize: Sequelize) {
       overDredgeAllowance: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
       workLimitGeoJson: { type: DataTypes.TEXT("medium"), allowNull: true },
       minTeamSize: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 2 },
+      solidsSpecificGravity: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 2.65 },
+      cakeSolidsByWeight: { type: DataTypes.DOUBLE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -22,3 +22,9 @@ export function isWeekday(day: number): boolean {
   const weekday = new Date(day * DAY_MS).getUTCDay(); // 0 Sunday … 6 Saturday
   return weekday >= 1 && weekday <= 5;
 }
+
+/** The calendar date at `instant` in an IANA time zone (the project's: "today" is never a UTC date). */
+export function localDateIn(timeZone: string, instant: Date = new Date()): string {
+  // en-CA writes dates as YYYY-MM-DD.
+  return new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).format(instant);
+}

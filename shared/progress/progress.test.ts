@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { dayNumber, isWeekday, isoDateOf } from "./calendar-days";
+import { dayNumber, isWeekday, isoDateOf, localDateIn } from "./calendar-days";
 import { RATE_WINDOW_CALENDAR_DAYS, forecastFinish } from "./forecast";
 import { percentCellsAtFirmSand, percentCompleteByVolume, percentDifference } from "./percent-complete";
 import { productionIntervals } from "./production";
@@ -228,5 +228,13 @@ describe("percent complete", () => {
     // computed: end area 6,933.33 yd³ beside a prismoidal 6,903.70 yd³ (REFERENCES.md handbook example) → +0.429 %
     expect(percentDifference(6903.7, 187_200 / 27)).toBeCloseTo(((187_200 / 27 - 6903.7) / 6903.7) * 100, 12);
     expect(percentDifference(0, 1)).toBeNull();
+  });
+});
+
+describe("the project's local date", () => {
+  it("is the date in the project's time zone, not UTC's", () => {
+    // computed: 03:00 UTC on 2 December is 22:00 on 1 December in New York (UTC−5 in winter)
+    expect(localDateIn("America/New_York", new Date("2026-12-02T03:00:00Z"))).toBe("2026-12-01");
+    expect(localDateIn("UTC", new Date("2026-12-02T03:00:00Z"))).toBe("2026-12-02");
   });
 });

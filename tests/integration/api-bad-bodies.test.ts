@@ -6,7 +6,7 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, Dive, DiveCell, DiveTeam, ImportJob, ShareLink, SignInSession, Sounding, Survey, SurveySnapshot } from "~/lib/db.server";
+import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, GeotextileTube, Haul, HaulSite, ImportJob, SedimentSample, ShareLink, SignInSession, Sounding, Survey, SurveySnapshot, TubeFill } from "~/lib/db.server";
 import { stagingDirectory } from "~/lib/import/stage-upload.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { createShareLink } from "~/models/share-links.server";
@@ -43,6 +43,7 @@ let surveyId: number;
 let liveToken: string;
 let adminToken: string;
 let accountId: number;
+let tubeId: number;
 const projectParams = () => ({ projectId: String(site.project.id) });
 const base = () => `/api/projects/${site.project.id}`;
 
@@ -52,13 +53,20 @@ const base = () => `/api/projects/${site.project.id}`;
 // Survey, Sounding, CellResult, SurveySnapshot, ImportJob, ColumnMapping, AuditEvent and the
 // staging directory; projects → Project, Zone, Membership, AuditEvent; a project's settings →
 // Project, Zone, CellResult, SurveySnapshot, AuditEvent; an account (the site admin) → User,
-// SignInSession, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
+// SignInSession, AuditEvent; dewatering shifts, tubes and fills → DewateringShift, GeotextileTube,
+// TubeFill, AuditEvent; hauls → Haul, AuditEvent; sediment samples → SedimentSample, AuditEvent;
+// the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
   { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
   { route: "api/projects/:projectId", method: "PATCH", url: () => base(), params: projectParams },
   { route: "api/projects/:projectId/assignments", method: "POST", url: () => `${base()}/assignments`, params: projectParams },
+  { route: "api/projects/:projectId/dewatering/shifts", method: "POST", url: () => `${base()}/dewatering/shifts`, params: projectParams },
+  { route: "api/projects/:projectId/dewatering/tubes", method: "POST", url: () => `${base()}/dewatering/tubes`, params: projectParams },
+  { route: "api/projects/:projectId/dewatering/tubes/:tubeId/fills", method: "POST", url: () => `${base()}/dewatering/tubes/${tubeId}/fills`, params: () => ({ ...projectParams(), tubeId: String(tubeId) }) },
   { route: "api/projects/:projectId/dives", method: "POST", url: () => `${base()}/dives`, params: projectParams },
+  { route: "api/projects/:projectId/hauls", method: "POST", url: () => `${base()}/hauls`, params: projectParams },
+  { route: "api/projects/:projectId/sediment-samples", method: "POST", url: () => `${base()}/sediment-samples`, params: projectParams },
   { route: "api/projects/:projectId/share-links", method: "POST", url: () => `${base()}/share-links`, params: projectParams },
   {
     route: "api/projects/:projectId/share-links/:token", method: "DELETE",
@@ -77,6 +85,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/quantities", method: "POST", url: () => `${base()}/quantities`, params: projectParams },
   { route: "api/projects/:projectId/quantities.csv", method: "POST", url: () => `${base()}/quantities.csv`, params: projectParams },
   { route: "api/projects/:projectId/quantities.geojson", method: "POST", url: () => `${base()}/quantities.geojson`, params: projectParams },
+  { route: "api/projects/:projectId/reconciliation", method: "POST", url: () => `${base()}/reconciliation`, params: projectParams },
   { route: "api/*", method: "POST", url: () => "/api/no-such-thing", params: () => ({ "*": "no-such-thing" }) },
 ];
 
@@ -150,6 +159,12 @@ async function snapshot() {
     assignments: await Assignment.count({ where: { projectId } }),
     dives: await Dive.count({ where: { projectId } }),
     diveCells: await DiveCell.count({ where: { projectId } }),
+    dewateringShifts: await DewateringShift.count({ where: { projectId } }),
+    tubes: JSON.stringify(await GeotextileTube.findAll({ where: { projectId }, raw: true })),
+    tubeFills: await TubeFill.count({ where: { projectId } }),
+    hauls: await Haul.count({ where: { projectId } }),
+    haulSites: await HaulSite.count({ where: { projectId } }),
+    sedimentSamples: await SedimentSample.count({ where: { projectId } }),
     shareLinks: await ShareLink.count({ where: { projectId } }),
     revokedShareLinks: await ShareLink.count({ where: { projectId, revokedAt: { [Op.ne]: null } } }),
     surveys: surveyIds.length,
@@ -178,6 +193,8 @@ beforeAll(async () => {
   site = await makeDemoSiteProject("bad-bodies");
   // So that POST /api/projects reads the bodies rather than refusing the caller.
   await User.update({ mayCreateProjects: true }, { where: { id: site.users.manager } });
+  tubeId = (await GeotextileTube.create({ projectId: site.project.id, name: "T-1", circumference: 30, length: 100, capacityDryMassPerLength: 5, status: "filling", notes: "" })).id;
+  await HaulSite.create({ projectId: site.project.id, name: "Tallgrass Farm", kind: "reuse", permitNumber: "AG-1" });
   await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] });
   const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
   const stored = await postSurvey(site.project.id, site.tokens.manager, { path: join(DEMO_DIR, baseline.fileName) }, {

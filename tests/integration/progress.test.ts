@@ -354,7 +354,9 @@ describe("public share links", () => {
 
     const view = await publicProgressForToken(created.token);
     expect(view).not.toBeNull();
-    expect(Object.keys(view!).sort()).toEqual(["lastUpdated", "percentComplete", "projectName", "publicText", "removedVolume", "volumeLabel", "workLimit", "zones"]);
+    expect(Object.keys(view!).sort()).toEqual(["lastUpdated", "nutrientsRemoved", "percentComplete", "projectName", "publicText", "removedVolume", "volumeLabel", "workLimit", "zones"]);
+    // No lab sample on this project yet: no nutrient headline.
+    expect(view!.nutrientsRemoved).toBeNull();
     expect(view!.percentComplete).toBe(Math.round(progress.total.percentCompleteByVolume!));
     // The Unzoned row joins the zones, flagged and without an outline of its own.
     expect(view!.zones.map((zone) => zone.name)).toEqual([...ZONES.map((zone) => zone.name), UNZONED_NAME]);

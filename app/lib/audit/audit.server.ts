@@ -37,6 +37,14 @@ export const AUDIT_ACTIONS = {
   accountPasswordResetSent: "account-password-reset-sent",
   accountCreated: "account-created",
   payPeriodSigned: "pay-period-signed",
+  dewateringShiftRecorded: "dewatering-shift-recorded",
+  tubeRegistered: "tube-registered",
+  tubeFilled: "tube-filled",
+  tubeStatusChanged: "tube-status-changed",
+  haulSiteAdded: "haul-site-added",
+  haulRecorded: "haul-recorded",
+  sedimentSampleRecorded: "sediment-sample-recorded",
+  dewateringSettingsChanged: "dewatering-settings-changed",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

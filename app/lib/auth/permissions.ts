@@ -37,6 +37,10 @@ export const PERMISSIONS = {
   /** Assign cells to dive teams, send the day's plan sheet. */
   "plans.assign": ["manager", "dive-supervisor"],
   "dives.log": ["manager", "dive-supervisor"],
+  /** Shift logs, the tube register and its fills, reuse and disposal sites, haul tickets. */
+  "dewatering.log": ["manager", "dewatering"],
+  /** Sediment samples' lab results (dry bulk density, N, P), which turn surveyed volume into mass. */
+  "samples.record": ["manager", "resource-monitor"],
   /** Public progress links. */
   "share-links.manage": ["manager", "outreach"],
 } as const satisfies Record<string, readonly Role[]>;

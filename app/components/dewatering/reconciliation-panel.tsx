@@ -1,0 +1,55 @@
+import { Link } from "react-router";
+import type { Reconciliation } from "../../../shared/dewatering/reconciliation";
+import { formatFigure } from "./dewatering-section";
+
+/** The overview's reconciliation: surveyed, pumped and hauled solids side by side, and the nutrients removed. */
+
+function signed(percent: number | null): string {
+  if (percent === null) return "–";
+  return `${percent > 0 ? "+" : percent < 0 ? "−" : ""}${formatFigure(Math.abs(percent), 1)} %`;
+}
+
+export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconciliation: Reconciliation; dewateringHref: string }) {
+  const { project, zones } = reconciliation;
+  const measure = (value: { value: number; label: string } | null, digits = 0) => (value ? `${formatFigure(value.value, digits)} ${value.label}` : "–");
+  return (
+    <section aria-labelledby="reconciliation" className="rounded border border-line bg-panel p-4">
+      <h2 id="reconciliation" className="font-semibold">Solids and nutrients removed</h2>
+      {project.phosphorusRemoved && project.nitrogenRemoved ? (
+        <p className="mt-2 text-lg" data-testid="nutrients-removed">
+          <span className="figures font-semibold">{formatFigure(project.phosphorusRemoved.value, 0)} {project.phosphorusRemoved.label}</span> of phosphorus and{" "}
+          <span className="figures font-semibold">{formatFigure(project.nitrogenRemoved.value, 0)} {project.nitrogenRemoved.label}</span> of nitrogen removed with the muck, by the surveys and {project.sampleCount} lab {project.sampleCount === 1 ? "sample" : "samples"}.
+        </p>
+      ) : (
+        <p className="mt-2 text-sm text-muted">No lab samples yet: the nutrients removed and the surveyed dry mass appear once a sediment sample's dry bulk density, N and P are recorded.</p>
+      )}
+      <dl className="mt-3 grid gap-x-6 text-sm sm:grid-cols-3">
+        <div className="border-t border-line py-2"><dt className="text-muted">Surveyed removal</dt><dd className="figures">{measure(project.surveyedRemoved)} · {measure(project.dryMassFromSurveys)}</dd></div>
+        <div className="border-t border-line py-2"><dt className="text-muted">Pumped (shift logs)</dt><dd className="figures">{measure(project.dryMassPumped)} <span className="text-muted">({signed(project.pumpedVersusSurveyedPercent)} vs surveyed)</span></dd></div>
+        <div className="border-t border-line py-2"><dt className="text-muted">Hauled (tickets)</dt><dd className="figures">{measure(project.dryMassHauled)} <span className="text-muted">({signed(project.hauledVersusSurveyedPercent)} vs surveyed; {measure(project.dryMassNotYetHauled)} pumped and not yet hauled)</span></dd></div>
+      </dl>
+      <div className="mt-2 overflow-x-auto">
+        <table className="w-full border-collapse text-sm">
+          <thead><tr className="border-b border-line text-left"><th className="py-1 pr-2">Zone</th><th className="pr-2">Removed</th><th className="pr-2">Dry mass</th><th className="pr-2">Nitrogen</th><th className="pr-2">Phosphorus</th><th>Samples</th></tr></thead>
+          <tbody>
+            {zones.map((zone) => (
+              <tr key={zone.zoneId ?? "unzoned"} className="border-b border-line">
+                <td className="py-1 pr-2">{zone.name}</td>
+                <td className="pr-2 whitespace-nowrap">{measure(zone.surveyedRemoved)}</td>
+                <td className="pr-2 whitespace-nowrap">{measure(zone.dryMassFromSurveys, 1)}</td>
+                <td className="pr-2 whitespace-nowrap">{measure(zone.nitrogenRemoved)}</td>
+                <td className="pr-2 whitespace-nowrap">{measure(zone.phosphorusRemoved)}</td>
+                <td className="text-muted">{zone.samplesFrom === "zone" ? `the zone's (${zone.sampleCount})` : zone.samplesFrom === "project" ? "project mean" : "none"}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <details className="mt-3 text-sm">
+        <summary className="cursor-pointer text-lagoon-dark">Assumptions</summary>
+        <ul className="mt-2 list-disc space-y-1 pl-5 text-muted">{reconciliation.assumptions.map((line) => <li key={line}>{line}</li>)}</ul>
+      </details>
+      <p className="no-print mt-2 text-sm"><Link to={dewateringHref} className="text-lagoon-dark underline">Dewatering records</Link></p>
+    </section>
+  );
+}

@@ -1,0 +1,374 @@
+import { Op, UniqueConstraintError } from "sequelize";
+import { z } from "zod";
+import { computeShiftFigures, flowFromTotaliser, type ShiftFigures } from "../../shared/dewatering/shift";
+import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
+import { localDateIn } from "../../shared/progress/calendar-days";
+import { cubicMetresPerHourFrom, flowUnitSchema, kilogramsFrom, kilogramsTo, LITRES_PER_US_GALLON, massUnitsFor, measureLabel, unitLabel, type FlowUnit } from "../../shared/units";
+import { DewateringShift, GeotextileTube, Project, TubeFill, TUBE_STATUSES, getSequelize, type TubeStatus } from "~/lib/db.server";
+import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
+import { workDateSchema } from "./assignments.server";
+
+/**
+ * The dewatering operator's records: the shift log (flow, solids, polymer; its figures computed by
+ * shared/dewatering/shift.ts) and the geotextile tube register with its fills. A shift that names
+ * the tubes it filled records a fill in each, its dry solids and slurry shared equally among them.
+ */
+
+export const DEWATERING_CAUTION =
+  "Handle polymer per its safety data sheet: spills are slick, and it harms eyes and skin. Lines under pressure can burst or whip; never open a coupling under pressure. A tube filled near its capacity can rupture: stop filling at the supplier's fill height and keep people clear of the seams. Polymer product and dose follow the permit and the approved product list. These figures are aids for the operator, not approval.";
+
+const clock = z.string().trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
+const minutesOf = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
+const text = (max: number) => z.string().trim().max(max);
+const idempotencyKey = z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish();
+
+export const solidsSpecificGravitySchema = z.number().finite().gt(1, "solids are heavier than water: a specific gravity above 1").max(3.5, "a solids specific gravity above 3.5 is not sediment");
+
+export const shiftInputSchema = z
+  .object({
+    date: workDateSchema,
+    start: clock,
+    end: clock,
+    /** Hours the slurry pump ran; the whole shift when not given. */
+    pumpHours: z.number().finite().positive("pump hours are more than 0").max(24).nullish(),
+    slurryFlow: z.object({
+      value: z.number().finite().positive("the slurry flow is more than 0").max(1_000_000),
+      unit: z.enum(flowUnitSchema.options, { message: "the flow unit is gpm or m3/h" }),
+    }).nullish(),
+    /** Instead of the flow: the flow meter's totaliser at the start and end of the shift. */
+    totaliser: z.object({
+      start: z.number().finite().min(0, "a totaliser reading is 0 or more"),
+      end: z.number().finite().min(0, "a totaliser reading is 0 or more"),
+      unit: z.enum(["gal", "m3"], { message: "the totaliser unit is gal or m3" }),
+    }).nullish(),
+    solidsByWeight: z.number().finite().gt(0, "solids by weight is a share above 0").max(1, "solids by weight is a share of 0 to 1 (0.20 for 20 %)").nullish(),
+    slurrySpecificGravity: z.number().finite().gt(1, "a slurry's specific gravity is above water's, 1").max(3).nullish(),
+    /** The project's setting when not given. */
+    solidsSpecificGravity: solidsSpecificGravitySchema.nullish(),
+    polymer: z
+      .object({
+        product: text(120).min(1, "name the polymer product"),
+        lot: text(60).nullish(),
+        doseMgPerL: z.number().finite().positive("the dose is more than 0 mg/L").max(10_000),
+        stockPercent: z.number().finite().positive("the stock concentration is more than 0 %").max(100, "a stock concentration is at most 100 %"),
+      })
+      .nullish(),
+    tubes: z.array(text(60).min(1)).max(50).default([]),
+    notes: z.string().max(4000).default(""),
+    idempotencyKey,
+  })
+  .superRefine((input, context) => {
+    const span = minutesOf(input.end) - minutesOf(input.start);
+    if (span <= 0) {
+      context.addIssue({ code: "custom", path: ["end"], message: "the shift ends after it starts (log a shift past midnight as two)" });
+      return;
+    }
+    if ((input.slurryFlow == null) === (input.totaliser == null)) {
+      context.addIssue({ code: "custom", path: ["slurryFlow"], message: "give the slurry flow, or the totaliser readings at the start and end (one of the two)" });
+    }
+    if (input.totaliser && input.totaliser.end <= input.totaliser.start) {
+      context.addIssue({ code: "custom", path: ["totaliser", "end"], message: "the totaliser reads more at the end of the shift than at its start" });
+    }
+    if (input.pumpHours != null && input.pumpHours > span / 60 + 1e-9) {
+      context.addIssue({ code: "custom", path: ["pumpHours"], message: `the pump ran at most the shift's ${Math.round((span / 60) * 100) / 100} hours` });
+    }
+    if (input.solidsByWeight != null && input.slurrySpecificGravity != null) {
+      context.addIssue({ code: "custom", path: ["slurrySpecificGravity"], message: "give solids by weight or the slurry's specific gravity, not both" });
+    }
+    if (input.slurrySpecificGravity != null && input.solidsSpecificGravity != null && input.slurrySpecificGravity >= input.solidsSpecificGravity) {
+      context.addIssue({ code: "custom", path: ["slurrySpecificGravity"], message: "a slurry is lighter than its solids: its specific gravity is below the solids'" });
+    }
+  });
+export type ShiftInput = z.infer<typeof shiftInputSchema>;
+
+export const tubeInputSchema = z.object({
+  name: text(60).min(1, "name the tube"),
+  /** Project length unit. */
+  circumference: z.number().finite().positive("the circumference is more than 0").max(1000),
+  length: z.number().finite().positive("the length is more than 0").max(10_000),
+  /** Project bulk mass (short tons or tonnes) per project length unit, from the supplier's sheet. */
+  capacityDryMassPerLength: z.number().finite().positive("the capacity is more than 0").max(1000),
+  status: z.enum(TUBE_STATUSES).default("filling"),
+  notes: z.string().max(4000).default(""),
+});
+export type TubeInput = z.infer<typeof tubeInputSchema>;
+
+export const fillInputSchema = z.object({
+  date: workDateSchema,
+  /** Slurry pumped into the tube, when metered. */
+  slurryVolume: z.object({ value: z.number().finite().positive("the slurry volume is more than 0").max(1e8), unit: z.enum(["gal", "m3"], { message: "the volume unit is gal or m3" }) }).nullish(),
+  /** Estimated dry solids, project bulk mass unit (short tons or tonnes). */
+  drySolids: z.number().finite().positive("the dry solids are more than 0").max(100_000),
+});
+export type FillInput = z.infer<typeof fillInputSchema>;
+
+export const tubeStatusSchema = z.object({ status: z.enum(TUBE_STATUSES, { message: `a tube's status is one of ${TUBE_STATUSES.join(", ")}` }) });
+
+export const dewateringSettingsSchema = z.object({
+  solidsSpecificGravity: solidsSpecificGravitySchema,
+  cakeSolidsByWeight: z.number().finite().gt(0, "cake solids are a share above 0").max(1, "cake solids are a share of 0 to 1 (0.30 for 30 %)").nullable(),
+});
+
+export interface DewateringSettings {
+  solidsSpecificGravity: number;
+  cakeSolidsByWeight: number | null;
+}
+
+/** Today in the project's time zone, the date a form starts from. */
+export async function projectToday(project: ProjectView): Promise<string> {
+  const row = await Project.findByPk(project.id, { attributes: ["timeZone"] });
+  return localDateIn(row?.timeZone ?? "UTC");
+}
+
+export async function dewateringSettings(project: ProjectView): Promise<DewateringSettings> {
+  const row = await Project.findByPk(project.id, { attributes: ["solidsSpecificGravity", "cakeSolidsByWeight"] });
+  if (!row) throw new NotFoundError("There is no such project.");
+  return { solidsSpecificGravity: row.solidsSpecificGravity, cakeSolidsByWeight: row.cakeSolidsByWeight ?? null };
+}
+
+export async function updateDewateringSettings(project: ProjectView, user: UserView, settings: z.infer<typeof dewateringSettingsSchema>, ip: string | null = null): Promise<DewateringSettings> {
+  await getSequelize().transaction(async (transaction) => {
+    await Project.update({ solidsSpecificGravity: settings.solidsSpecificGravity, cakeSolidsByWeight: settings.cakeSolidsByWeight }, { where: { id: project.id }, transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.dewateringSettingsChanged, projectId: project.id, userId: user.id, ip, detail: { ...settings } }, transaction);
+  });
+  return dewateringSettings(project);
+}
+
+export interface ShiftView {
+  id: number;
+  date: string;
+  start: string;
+  end: string;
+  pumpHours: number;
+  slurryFlow: { value: number; unit: FlowUnit; label: string };
+  /** The readings the flow was worked out from, when it was. */
+  totaliser: { start: number; end: number; unit: "gal" | "m3" } | null;
+  solidsByWeight: number | null;
+  slurrySpecificGravity: number | null;
+  solidsSpecificGravity: number;
+  polymer: { product: string; lot: string | null; doseMgPerL: number; stockPercent: number } | null;
+  tubes: string[];
+  notes: string;
+  computed: ShiftFigures;
+}
+
+function presentShift(shift: DewateringShift, project: ProjectView): ShiftView {
+  const polymer = shift.polymerProduct !== null && shift.doseMgPerL !== null && shift.stockPercent !== null
+    ? { product: shift.polymerProduct, lot: shift.polymerLot, doseMgPerL: shift.doseMgPerL, stockPercent: shift.stockPercent }
+    : null;
+  const measured = {
+    slurryFlow: { value: shift.slurryFlowValue, unit: shift.slurryFlowUnit },
+    pumpHours: shift.pumpHours,
+    solidsByWeight: shift.solidsByWeight,
+    slurrySpecificGravity: shift.slurrySpecificGravity,
+    solidsSpecificGravity: shift.solidsSpecificGravity,
+    polymer,
+  };
+  return {
+    id: shift.id,
+    date: shift.shiftDate,
+    start: shift.startAt,
+    end: shift.endAt,
+    pumpHours: shift.pumpHours,
+    slurryFlow: { ...measured.slurryFlow, label: measureLabel(shift.slurryFlowUnit) },
+    totaliser: shift.totaliserStart !== null && shift.totaliserEnd !== null && shift.totaliserUnit !== null ? { start: shift.totaliserStart, end: shift.totaliserEnd, unit: shift.totaliserUnit } : null,
+    solidsByWeight: shift.solidsByWeight,
+    slurrySpecificGravity: shift.slurrySpecificGravity,
+    solidsSpecificGravity: shift.solidsSpecificGravity,
+    polymer,
+    tubes: (shift.fills ?? []).map((fill) => fill.tube?.name ?? "").filter(Boolean).sort(),
+    notes: shift.notes,
+    computed: computeShiftFigures(measured, project.lengthUnit),
+  };
+}
+
+async function findShifts(project: ProjectView, where: { id?: number; from?: string; to?: string }): Promise<ShiftView[]> {
+  const dates = { ...(where.from ? { [Op.gte]: where.from } : {}), ...(where.to ? { [Op.lte]: where.to } : {}) };
+  const shifts = await DewateringShift.findAll({
+    where: { projectId: project.id, ...(where.id !== undefined ? { id: where.id } : {}), ...(where.from || where.to ? { shiftDate: dates } : {}) },
+    include: [{ model: TubeFill, as: "fills", attributes: ["id"], include: [{ model: GeotextileTube, as: "tube", attributes: ["name"] }] }],
+    order: [["shiftDate", "DESC"], ["startAt", "DESC"], ["id", "DESC"]],
+  });
+  return shifts.map((shift) => presentShift(shift, project));
+}
+
+export function listShifts(project: ProjectView, range: { from?: string; to?: string } = {}): Promise<ShiftView[]> {
+  return findShifts(project, range);
+}
+
+const FILLABLE = FILLABLE_TUBE_STATUSES;
+
+function assertFillable(tube: GeotextileTube) {
+  if (!FILLABLE.includes(tube.status)) {
+    throw new ValidationError({ field: "tubes", message: `Tube ${tube.name} is ${tube.status.replace(/-/g, " ")}: only a tube that is filling or dewatering takes slurry.` });
+  }
+}
+
+/**
+ * Logs a shift and its figures; a fill in each named tube. With an idempotency key already used on
+ * this project, answers the shift stored then (`replayed`), so a phone that sends twice logs once.
+ */
+export async function recordShift(project: ProjectView, user: UserView, input: ShiftInput, ip: string | null = null): Promise<{ shift: ShiftView; replayed: boolean }> {
+  if (input.idempotencyKey) {
+    const earlier = await DewateringShift.findOne({ where: { projectId: project.id, idempotencyKey: input.idempotencyKey }, attributes: ["id"] });
+    if (earlier) return { shift: (await findShifts(project, { id: earlier.id }))[0], replayed: true };
+  }
+  const settings = await dewateringSettings(project);
+  const solidsSpecificGravity = input.solidsSpecificGravity ?? settings.solidsSpecificGravity;
+  if (input.slurrySpecificGravity != null && input.slurrySpecificGravity >= solidsSpecificGravity) {
+    throw new ValidationError({ field: "slurrySpecificGravity", message: `A slurry is lighter than its solids: its specific gravity is below the solids' ${solidsSpecificGravity}.` });
+  }
+  const pumpHours = input.pumpHours ?? (minutesOf(input.end) - minutesOf(input.start)) / 60;
+  const slurryFlow = input.slurryFlow ?? flowFromTotaliser(input.totaliser!, pumpHours);
+  const figures = computeShiftFigures({ slurryFlow, pumpHours, solidsByWeight: input.solidsByWeight, slurrySpecificGravity: input.slurrySpecificGravity, solidsSpecificGravity, polymer: input.polymer }, project.lengthUnit);
+  const names = [...new Set(input.tubes.map((name) => name.toLowerCase()))];
+  try {
+    const id = await getSequelize().transaction(async (transaction) => {
+      const tubes = names.length === 0 ? [] : await GeotextileTube.findAll({ where: { projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
+      const chosen = names.map((name) => tubes.find((tube) => tube.name.toLowerCase() === name));
+      const unknown = input.tubes.filter((_, index) => !chosen[index]);
+      if (unknown.length > 0) throw new ValidationError({ field: "tubes", message: `These tubes are not in the register: ${unknown.join(", ")}. Register them first.` });
+      chosen.forEach((tube) => assertFillable(tube!));
+      const shift = await DewateringShift.create(
+        {
+          projectId: project.id, shiftDate: input.date, startAt: input.start, endAt: input.end, pumpHours,
+          slurryFlowValue: slurryFlow.value, slurryFlowUnit: slurryFlow.unit,
+          totaliserStart: input.totaliser?.start ?? null, totaliserEnd: input.totaliser?.end ?? null, totaliserUnit: input.totaliser?.unit ?? null,
+          solidsByWeight: input.solidsByWeight ?? null, slurrySpecificGravity: input.slurrySpecificGravity ?? null, solidsSpecificGravity,
+          polymerProduct: input.polymer?.product ?? null, polymerLot: input.polymer?.lot || null, doseMgPerL: input.polymer?.doseMgPerL ?? null, stockPercent: input.polymer?.stockPercent ?? null,
+          drySolidsKg: figures.drySolidsKg, neatPolymerKg: figures.neatPolymerForShiftKg, notes: input.notes, idempotencyKey: input.idempotencyKey || null, recordedById: user.id,
+        },
+        { transaction },
+      );
+      if (chosen.length > 0) {
+        // The shift's slurry and solids, shared equally among the tubes it filled (the log does not say more).
+        const slurryM3 = cubicMetresPerHourFrom(slurryFlow.value, slurryFlow.unit) * pumpHours;
+        await TubeFill.bulkCreate(
+          chosen.map((tube) => ({
+            projectId: project.id, tubeId: tube!.id, shiftId: shift.id, fillDate: input.date,
+            slurryVolumeM3: slurryM3 / chosen.length, drySolidsKg: (figures.drySolidsKg ?? 0) / chosen.length, recordedById: user.id,
+          })),
+          { transaction },
+        );
+      }
+      await recordAudit({ action: AUDIT_ACTIONS.dewateringShiftRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, start: input.start, end: input.end, tubes: chosen.map((tube) => tube!.name) } }, transaction);
+      return shift.id;
+    });
+    return { shift: (await findShifts(project, { id }))[0], replayed: false };
+  } catch (error) {
+    // Two sends of one key at once: the second finds the first's row.
+    if (error instanceof UniqueConstraintError && input.idempotencyKey) return recordShift(project, user, input, ip);
+    throw error;
+  }
+}
+
+export interface TubeView {
+  id: number;
+  name: string;
+  circumference: number;
+  length: number;
+  capacityDryMassPerLength: number;
+  /** C ÷ π, project length unit: for reference, the practical fill height is a fraction of it. */
+  theoreticalDiameter: number;
+  status: TubeStatus;
+  notes: string;
+  fills: Array<{ id: number; date: string; shiftId: number | null; slurryVolumeM3: number | null; drySolids: number }>;
+  /** Dry solids delivered and the tube's capacity, project bulk mass unit. */
+  drySolidsDelivered: number;
+  capacity: number;
+  /** Share of capacity, 0–1 and beyond. */
+  fillLevel: number;
+  nearCapacity: boolean;
+}
+
+export interface TubeRegister {
+  tubes: TubeView[];
+  lengthLabel: string;
+  massLabel: string;
+  nearCapacityShare: number;
+}
+
+function presentTube(tube: GeotextileTube, project: ProjectView): TubeView {
+  const bulk = massUnitsFor(project.lengthUnit).bulkMass;
+  const fills = (tube.fills ?? []).map((fill) => ({ id: fill.id, date: fill.fillDate, shiftId: fill.shiftId, slurryVolumeM3: fill.slurryVolumeM3, drySolids: kilogramsTo(fill.drySolidsKg, bulk) }));
+  const delivered = fills.reduce((sum, fill) => sum + fill.drySolids, 0);
+  const level = fillLevel(delivered, tube.capacityDryMassPerLength, tube.length);
+  return {
+    id: tube.id, name: tube.name, circumference: tube.circumference, length: tube.length, capacityDryMassPerLength: tube.capacityDryMassPerLength,
+    theoreticalDiameter: theoreticalDiameter(tube.circumference), status: tube.status, notes: tube.notes, fills,
+    drySolidsDelivered: delivered, capacity: tube.capacityDryMassPerLength * tube.length, fillLevel: level,
+    nearCapacity: FILLABLE.includes(tube.status) && isNearCapacity(level),
+  };
+}
+
+export async function listTubes(project: ProjectView): Promise<TubeRegister> {
+  const tubes = await GeotextileTube.findAll({
+    where: { projectId: project.id },
+    include: [{ model: TubeFill, as: "fills" }],
+    order: [["name", "ASC"], [{ model: TubeFill, as: "fills" }, "fillDate", "ASC"], [{ model: TubeFill, as: "fills" }, "id", "ASC"]],
+  });
+  return {
+    tubes: tubes.map((tube) => presentTube(tube, project)),
+    lengthLabel: unitLabel(project.lengthUnit),
+    massLabel: measureLabel(massUnitsFor(project.lengthUnit).bulkMass),
+    nearCapacityShare: NEAR_CAPACITY_SHARE,
+  };
+}
+
+async function findTube(project: ProjectView, tubeId: number): Promise<TubeView> {
+  const register = await listTubes(project);
+  const tube = register.tubes.find((candidate) => candidate.id === tubeId);
+  if (!tube) throw new NotFoundError({ field: "tubeId", message: "There is no such tube on this project." });
+  return tube;
+}
+
+export async function registerTube(project: ProjectView, user: UserView, input: TubeInput, ip: string | null = null): Promise<TubeView> {
+  try {
+    const id = await getSequelize().transaction(async (transaction) => {
+      const tube = await GeotextileTube.create(
+        { projectId: project.id, name: input.name, circumference: input.circumference, length: input.length, capacityDryMassPerLength: input.capacityDryMassPerLength, status: input.status, notes: input.notes, createdById: user.id },
+        { transaction },
+      );
+      await recordAudit({ action: AUDIT_ACTIONS.tubeRegistered, projectId: project.id, userId: user.id, ip, detail: { name: input.name } }, transaction);
+      return tube.id;
+    });
+    return findTube(project, id);
+  } catch (error) {
+    if (error instanceof UniqueConstraintError) throw new ConflictError({ field: "name", message: `A tube named ${input.name} is already in the register.` });
+    throw error;
+  }
+}
+
+export async function recordFill(project: ProjectView, user: UserView, tubeId: number, input: FillInput, ip: string | null = null): Promise<TubeView> {
+  await getSequelize().transaction(async (transaction) => {
+    const tube = await GeotextileTube.findOne({ where: { id: tubeId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
+    if (!tube) throw new NotFoundError({ field: "tubeId", message: "There is no such tube on this project." });
+    assertFillable(tube);
+    const slurryVolumeM3 = input.slurryVolume ? (input.slurryVolume.unit === "m3" ? input.slurryVolume.value : (input.slurryVolume.value * LITRES_PER_US_GALLON) / 1000) : null;
+    await TubeFill.create(
+      { projectId: project.id, tubeId: tube.id, shiftId: null, fillDate: input.date, slurryVolumeM3, drySolidsKg: kilogramsFrom(input.drySolids, massUnitsFor(project.lengthUnit).bulkMass), recordedById: user.id },
+      { transaction },
+    );
+    await recordAudit({ action: AUDIT_ACTIONS.tubeFilled, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, date: input.date, drySolids: input.drySolids } }, transaction);
+  });
+  return findTube(project, tubeId);
+}
+
+export async function changeTubeStatus(project: ProjectView, user: UserView, tubeId: number, status: TubeStatus, ip: string | null = null): Promise<TubeView> {
+  await getSequelize().transaction(async (transaction) => {
+    const tube = await GeotextileTube.findOne({ where: { id: tubeId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
+    if (!tube) throw new NotFoundError({ field: "tubeId", message: "There is no such tube on this project." });
+    await tube.update({ status }, { transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.tubeStatusChanged, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, status } }, transaction);
+  });
+  return findTube(project, tubeId);
+}
+
+/** Dry solids pumped according to the shift logs, kg. */
+export async function pumpedDrySolidsKg(project: ProjectView): Promise<number> {
+  const total = await DewateringShift.sum("drySolidsKg", { where: { projectId: project.id } });
+  return Number(total ?? 0);
+}

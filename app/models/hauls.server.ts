@@ -1,0 +1,158 @@
+import { UniqueConstraintError } from "sequelize";
+import { z } from "zod";
+import { haulDryMassKg } from "../../shared/dewatering/haul";
+import { cubicMetresPerVolumeUnit, kilogramsFrom, kilogramsTo, massUnitsFor, measureLabel, unitLabel, volumeUnitFor } from "../../shared/units";
+import { Haul, HaulSite, HAUL_SITE_KINDS, getSequelize } from "~/lib/db.server";
+import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
+import { workDateSchema } from "./assignments.server";
+import { dewateringSettings } from "./dewatering.server";
+
+/**
+ * Haul tickets and the sites they go to. Each ticket's dry solids are counted once, when it is
+ * recorded: its load (weighed wet, or the truck body's volume) times its cake solids, or the
+ * project's default cake solids when the ticket has no sample of its own.
+ */
+
+const text = (max: number) => z.string().trim().max(max);
+
+export const haulSiteInputSchema = z.object({
+  name: text(120).min(1, "name the site"),
+  kind: z.enum(HAUL_SITE_KINDS, { message: "a site is for reuse or disposal" }),
+  permitNumber: text(120).min(1, "give the site's permit or agreement number"),
+});
+
+/** The load as the ticket gives it: a scale's wet mass or the truck body's volume. */
+const LOAD_UNITS = ["short-ton", "t", "yd3", "m3"] as const;
+
+export const haulInputSchema = z.object({
+  date: workDateSchema,
+  ticketNumber: text(60).min(1, "give the ticket number"),
+  truck: text(60).min(1, "name the truck"),
+  /** The site's name or id. */
+  site: z.union([text(120).min(1, "choose the destination"), z.number().int().positive()]),
+  load: z.object({
+    value: z.number().finite().positive("the load is more than 0").max(200, "a truck load over 200 is not one truck"),
+    unit: z.enum(LOAD_UNITS, { message: "the load is in short-ton or t (scale ticket), or yd3 or m3 (truck body)" }),
+  }),
+  /** Cake solids by weight of this load, 0–1, from a sample; the project default when not given. */
+  cakeSolidsByWeight: z.number().finite().gt(0, "cake solids are a share above 0").max(1, "cake solids are a share of 0 to 1 (0.30 for 30 %)").nullish(),
+  notes: z.string().max(4000).default(""),
+  idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish(),
+});
+export type HaulInput = z.infer<typeof haulInputSchema>;
+
+export interface HaulSiteView {
+  id: number;
+  name: string;
+  kind: (typeof HAUL_SITE_KINDS)[number];
+  permitNumber: string;
+}
+
+export interface HaulView {
+  id: number;
+  date: string;
+  ticketNumber: string;
+  truck: string;
+  site: HaulSiteView;
+  load: { value: number; unit: string; label: string; measured: "scale" | "truck body" };
+  cakeSolidsByWeight: number;
+  cakeSolidsFrom: "sample" | "project default";
+  drySolids: { value: number; unit: string; label: string };
+  notes: string;
+}
+
+const presentSite = (site: HaulSite): HaulSiteView => ({ id: site.id, name: site.name, kind: site.kind, permitNumber: site.permitNumber });
+
+function presentHaul(haul: Haul, project: ProjectView): HaulView {
+  const units = massUnitsFor(project.lengthUnit);
+  const load = haul.loadWetMass !== null
+    ? { value: haul.loadWetMass, unit: units.bulkMass, label: `wet ${measureLabel(units.bulkMass)}`, measured: "scale" as const }
+    : { value: haul.loadVolume ?? 0, unit: volumeUnitFor(project.lengthUnit), label: unitLabel(project.lengthUnit, "volume"), measured: "truck body" as const };
+  return {
+    id: haul.id, date: haul.haulDate, ticketNumber: haul.ticketNumber, truck: haul.truck, site: presentSite(haul.site!), load,
+    cakeSolidsByWeight: haul.cakeSolidsByWeight, cakeSolidsFrom: haul.cakeSolidsFromSample ? "sample" : "project default",
+    drySolids: { value: kilogramsTo(haul.drySolidsKg, units.bulkMass), unit: units.bulkMass, label: `dry ${measureLabel(units.bulkMass)}` },
+    notes: haul.notes,
+  };
+}
+
+export async function listHaulSites(project: ProjectView): Promise<HaulSiteView[]> {
+  return (await HaulSite.findAll({ where: { projectId: project.id }, order: [["name", "ASC"]] })).map(presentSite);
+}
+
+export async function addHaulSite(project: ProjectView, user: UserView, input: z.infer<typeof haulSiteInputSchema>, ip: string | null = null): Promise<HaulSiteView> {
+  try {
+    return await getSequelize().transaction(async (transaction) => {
+      const site = await HaulSite.create({ projectId: project.id, ...{ name: input.name, kind: input.kind, permitNumber: input.permitNumber } }, { transaction });
+      await recordAudit({ action: AUDIT_ACTIONS.haulSiteAdded, projectId: project.id, userId: user.id, ip, detail: { name: input.name, kind: input.kind, permitNumber: input.permitNumber } }, transaction);
+      return presentSite(site);
+    });
+  } catch (error) {
+    if (error instanceof UniqueConstraintError) throw new ConflictError({ field: "name", message: `A site named ${input.name} is already listed.` });
+    throw error;
+  }
+}
+
+async function findHauls(project: ProjectView, id?: number): Promise<HaulView[]> {
+  const hauls = await Haul.findAll({
+    where: { projectId: project.id, ...(id !== undefined ? { id } : {}) },
+    include: [{ model: HaulSite, as: "site" }],
+    order: [["haulDate", "DESC"], ["id", "DESC"]],
+  });
+  return hauls.map((haul) => presentHaul(haul, project));
+}
+
+export function listHauls(project: ProjectView): Promise<HaulView[]> {
+  return findHauls(project);
+}
+
+/** Records a ticket; the same idempotency key again answers the ticket stored then (`replayed`). */
+export async function recordHaul(project: ProjectView, user: UserView, input: HaulInput, ip: string | null = null): Promise<{ haul: HaulView; replayed: boolean }> {
+  if (input.idempotencyKey) {
+    const earlier = await Haul.findOne({ where: { projectId: project.id, idempotencyKey: input.idempotencyKey }, attributes: ["id"] });
+    if (earlier) return { haul: (await findHauls(project, earlier.id))[0], replayed: true };
+  }
+  const sites = await HaulSite.findAll({ where: { projectId: project.id } });
+  const site = sites.find((candidate) => (typeof input.site === "number" ? candidate.id === input.site : candidate.name.toLowerCase() === input.site.toLowerCase()));
+  if (!site) throw new NotFoundError({ field: "site", message: `There is no destination "${input.site}" on this project's list of sites.` });
+  const settings = await dewateringSettings(project);
+  const cakeSolids = input.cakeSolidsByWeight ?? settings.cakeSolidsByWeight;
+  if (cakeSolids === null) throw new ValidationError({ field: "cakeSolidsByWeight", message: "Give the load's cake solids: the project has no default cake solids yet." });
+  const units = massUnitsFor(project.lengthUnit);
+  const isMass = input.load.unit === "short-ton" || input.load.unit === "t";
+  // Stored in the project's units; computed in SI.
+  const wetMassKg = isMass ? kilogramsFrom(input.load.value, input.load.unit as "short-ton" | "t") : null;
+  const volumeM3 = isMass ? null : input.load.value * (input.load.unit === "m3" ? 1 : cubicMetresPerVolumeUnit("ft"));
+  const drySolidsKg = haulDryMassKg(wetMassKg !== null ? { wetMassKg } : { volumeM3: volumeM3! }, cakeSolids, settings.solidsSpecificGravity);
+  try {
+    const id = await getSequelize().transaction(async (transaction) => {
+      const haul = await Haul.create(
+        {
+          projectId: project.id, haulDate: input.date, ticketNumber: input.ticketNumber, truck: input.truck, siteId: site.id,
+          loadWetMass: wetMassKg === null ? null : kilogramsTo(wetMassKg, units.bulkMass),
+          loadVolume: volumeM3 === null ? null : volumeM3 / cubicMetresPerVolumeUnit(project.lengthUnit),
+          cakeSolidsByWeight: cakeSolids, cakeSolidsFromSample: input.cakeSolidsByWeight != null, solidsSpecificGravity: settings.solidsSpecificGravity,
+          drySolidsKg, notes: input.notes, idempotencyKey: input.idempotencyKey || null, recordedById: user.id,
+        },
+        { transaction },
+      );
+      await recordAudit({ action: AUDIT_ACTIONS.haulRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, ticketNumber: input.ticketNumber, site: site.name } }, transaction);
+      return haul.id;
+    });
+    return { haul: (await findHauls(project, id))[0], replayed: false };
+  } catch (error) {
+    if (error instanceof UniqueConstraintError) {
+      if (input.idempotencyKey && (await Haul.count({ where: { projectId: project.id, idempotencyKey: input.idempotencyKey } })) > 0) return recordHaul(project, user, input, ip);
+      throw new ConflictError({ field: "ticketNumber", message: `Ticket ${input.ticketNumber} is already recorded.` });
+    }
+    throw error;
+  }
+}
+
+/** Dry solids hauled according to the tickets, kg. */
+export async function hauledDrySolidsKg(project: ProjectView): Promise<number> {
+  return Number((await Haul.sum("drySolidsKg", { where: { projectId: project.id } })) ?? 0);
+}

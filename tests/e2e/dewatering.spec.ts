@@ -1,0 +1,94 @@
+import { request as playwrightRequest } from "@playwright/test";
+import { demoProjectId, expect, test } from "./fixtures";
+
+// The Dewatering section on the seeded demo: the operator logs a shift on a phone and sees the
+// feed rate at once, registers a tube and fills it, enters a haul ticket; the manager reads the
+// reconciliation and the nutrients removed on the overview; a viewer reads and cannot write.
+
+let projectId = 0;
+const run = Date.now().toString(36);
+
+test.beforeAll(async ({ baseURL }) => {
+  const context = await playwrightRequest.newContext({ baseURL });
+  projectId = await demoProjectId(context, baseURL!);
+  await context.dispose();
+});
+
+test("the dewatering operator logs a shift on a phone and sees the feed rate as they type", async ({ page, signIn }) => {
+  await page.setViewportSize({ width: 390, height: 844 });
+  await signIn("dewatering");
+  await page.goto(`/projects/${projectId}/dewatering`);
+  await expect(page.getByTestId("dewatering-caution")).toContainText("safety data sheet");
+  const form = page.getByRole("form", { name: "Log a shift" });
+  await form.getByLabel("Date").fill("2026-11-19");
+  await form.getByLabel("Slurry flow").fill("20");
+  await form.getByLabel("Flow unit").selectOption("m3/h");
+  await form.getByLabel("Solids by weight (%)").fill("4");
+  await form.getByLabel("Product").fill("Cationic PAM emulsion CE-412");
+  await form.getByLabel("Stock concentration (%)").fill("0.5");
+  await form.getByLabel("Dose (mg/L)").fill("5");
+  // published: 20 m³/h at 5 mg/L with a 0.5 % stock → 20 L/h of stock = 5.3 US gal/h (NIST gallon) on this feet project
+  await expect(page.getByTestId("stock-feed-rate")).toHaveText(/^5\.3 gal\/h$/);
+  await expect(form.getByText("slurry flow (m³/h) × dose (mg/L) ÷ stock concentration")).toBeVisible();
+  // No wider than the phone: the form fits its screen.
+  expect(await page.evaluate(() => document.querySelector('form[aria-label="Log a shift"]')!.getBoundingClientRect().right)).toBeLessThanOrEqual(390);
+  await form.getByRole("button", { name: "Log the shift" }).click();
+  await expect(page.getByRole("status")).toContainText("Logged the shift of 2026-11-19");
+  await expect(page.getByRole("cell", { name: "2026-11-19" })).toBeVisible();
+});
+
+test("the dewatering operator registers a tube, records a fill, and enters a haul ticket", async ({ page, signIn }) => {
+  await signIn("dewatering");
+  await page.goto(`/projects/${projectId}/dewatering/tubes`);
+  const register = page.getByRole("region", { name: "Register a tube" });
+  const name = `E2E-${run}`;
+  await register.getByLabel("Name").fill(name);
+  await register.getByLabel(/Circumference/).fill("30");
+  await register.getByLabel(/Length/).fill("100");
+  await register.getByLabel(/Capacity/).fill("1");
+  await register.getByRole("button", { name: "Register the tube" }).click();
+  await expect(page.getByRole("status")).toContainText(`Registered tube ${name}`);
+  // computed: D = C/π = 30/π = 9.55
+  await expect(page.getByTestId(`tube-${name}`)).toContainText("9.55 ftUS");
+  const fill = page.getByRole("region", { name: "Record a fill" });
+  await fill.getByLabel("Tube").selectOption({ label: name });
+  await fill.getByLabel(/Estimated dry solids/).fill("95");
+  await fill.getByRole("button", { name: "Record the fill" }).click();
+  // computed: 95 of 1 × 100 short tons is 95 %, past the 90 % flag
+  await expect(page.getByRole("status")).toContainText(`Recorded a fill of tube ${name}: now 95 %`);
+  await expect(page.getByTestId(`tube-${name}`).getByTestId("near-capacity")).toBeVisible();
+
+  await page.goto(`/projects/${projectId}/dewatering/hauls`);
+  const ticket = page.getByRole("region", { name: "Enter a haul ticket" });
+  await ticket.getByLabel("Ticket number").fill(`T${run}`);
+  await ticket.getByLabel("Truck").fill("Truck 9");
+  await ticket.getByLabel("Load", { exact: true }).fill("20");
+  await ticket.getByLabel("Cake solids (%)").fill("25");
+  await ticket.getByRole("button", { name: "Record the ticket" }).click();
+  // computed: 20 wet short tons × 25 %
+  await expect(page.getByRole("status")).toContainText(`Recorded ticket T${run}: 5 dry short tons`);
+});
+
+test("the manager sees the reconciliation panel with the nutrients removed on the overview", async ({ page, signIn }) => {
+  await signIn("manager");
+  await page.goto(`/projects/${projectId}`);
+  const panel = page.getByRole("region", { name: "Solids and nutrients removed" });
+  await expect(panel).toBeVisible();
+  await expect(page.getByTestId("nutrients-removed")).toContainText(/[\d,]+ lb of phosphorus and [\d,]+ lb of nitrogen removed/);
+  const figures = await (await page.request.get(`/api/projects/${projectId}/reconciliation`)).json();
+  await expect(page.getByTestId("nutrients-removed")).toContainText(`${Math.round(figures.project.phosphorusRemoved.value).toLocaleString("en-US")} lb of phosphorus`);
+  for (const zone of ["Vent basin", "Upper run", "Lower run"]) await expect(panel.getByRole("cell", { name: zone })).toBeVisible();
+  await expect(panel.getByText("Pumped (shift logs)")).toBeVisible();
+});
+
+test("a viewer reads the dewatering records and cannot write them", async ({ page, signIn }) => {
+  await signIn("viewer");
+  await page.goto(`/projects/${projectId}/dewatering`);
+  await expect(page.getByRole("heading", { name: "Shifts" })).toBeVisible();
+  await expect(page.getByRole("form", { name: "Log a shift" })).toHaveCount(0);
+  await page.goto(`/projects/${projectId}/dewatering/tubes`);
+  await expect(page.getByRole("heading", { name: "Tube register" })).toBeVisible();
+  await expect(page.getByRole("button", { name: "Register the tube" })).toHaveCount(0);
+  const refused = await page.request.post(`/api/projects/${projectId}/dewatering/shifts`, { data: { date: "2026-11-19" }, headers: { Origin: new URL(page.url()).origin } });
+  expect(refused.status()).toBe(403);
+});
