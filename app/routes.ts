@@ -25,8 +25,14 @@ export default [
   route("api/projects/:projectId/quantities.geojson", "routes/api.projects.$projectId.quantities[.]geojson.ts"),
   route("api/projects/:projectId/share-links", "routes/api.projects.$projectId.share-links.ts"),
   route("api/projects/:projectId/share-links/:token", "routes/api.projects.$projectId.share-links.$token.ts"),
+  route("api/projects/:projectId/stop-work", "routes/api.projects.$projectId.stop-work.ts"),
+  route("api/projects/:projectId/stop-work/:eventId/resume", "routes/api.projects.$projectId.stop-work.$eventId.resume.ts"),
   route("api/projects/:projectId/surveys", "routes/api.projects.$projectId.surveys.ts"),
   route("api/projects/:projectId/surveys/:surveyId", "routes/api.projects.$projectId.surveys.$surveyId.ts"),
+  route("api/projects/:projectId/water-quality/readings", "routes/api.projects.$projectId.water-quality.readings.ts"),
+  route("api/projects/:projectId/water-quality/rules", "routes/api.projects.$projectId.water-quality.rules.ts"),
+  route("api/projects/:projectId/water-quality/stations", "routes/api.projects.$projectId.water-quality.stations.ts"),
+  route("api/projects/:projectId/wildlife/sightings", "routes/api.projects.$projectId.wildlife.sightings.ts"),
 
   route("dev/mail", "routes/dev.mail.tsx", [
     route(":messageId", "routes/dev.mail.$messageId.tsx"),

@@ -22,6 +22,13 @@ import { Shoreline, initShoreline } from "./shoreline";
 import { Dive, initDive } from "./dive";
 import { DiveCell, initDiveCell } from "./dive-cell";
 import { SignInSession, initSignInSession } from "./sign-in-session";
+import { WaterQualitySettings, initWaterQualitySettings } from "./water-quality-settings";
+import { TurbidityRuleRecord, initTurbidityRule } from "./turbidity-rule";
+import { MonitoringStation, initMonitoringStation } from "./monitoring-station";
+import { WaterQualityReading, initWaterQualityReading } from "./water-quality-reading";
+import { StopWorkEvent, initStopWorkEvent } from "./stop-work-event";
+import { WildlifeStandDown, initWildlifeStandDown } from "./wildlife-stand-down";
+import { WildlifeSighting, initWildlifeSighting } from "./wildlife-sighting";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -33,6 +40,8 @@ export { ShareLink };
 export { Assignment, DiveTeam, Shoreline };
 export { Dive, DiveCell };
 export { SignInSession };
+export { WaterQualitySettings, TurbidityRuleRecord, MonitoringStation, WaterQualityReading, StopWorkEvent, WildlifeStandDown, WildlifeSighting };
+export { STATION_KINDS, DEPTH_RULES, type StationKind, type DepthRule } from "./monitoring-station";
 export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;
@@ -66,6 +75,13 @@ export function initModels(): Sequelize {
   initDive(sequelize);
   initDiveCell(sequelize);
   initSignInSession(sequelize);
+  initWaterQualitySettings(sequelize);
+  initTurbidityRule(sequelize);
+  initMonitoringStation(sequelize);
+  initWaterQualityReading(sequelize);
+  initStopWorkEvent(sequelize);
+  initWildlifeStandDown(sequelize);
+  initWildlifeSighting(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -130,6 +146,26 @@ export function initModels(): Sequelize {
   ShareLink.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   ShareLink.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
   ShareLink.belongsTo(User, { foreignKey: "revokedById", as: "revokedBy" });
+  // Water quality and wildlife (issue 16).
+  Project.hasOne(WaterQualitySettings, { foreignKey: "projectId", as: "waterQualitySettings" });
+  WaterQualitySettings.belongsTo(User, { foreignKey: "updatedById", as: "updatedBy" });
+  Project.hasMany(TurbidityRuleRecord, { foreignKey: "projectId", as: "turbidityRules" });
+  TurbidityRuleRecord.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
+  Project.hasMany(MonitoringStation, { foreignKey: "projectId", as: "monitoringStations" });
+  MonitoringStation.belongsTo(TurbidityRuleRecord, { foreignKey: "ruleId", as: "rule" });
+  Project.hasMany(WaterQualityReading, { foreignKey: "projectId", as: "waterQualityReadings" });
+  WaterQualityReading.belongsTo(MonitoringStation, { foreignKey: "stationId", as: "station" });
+  WaterQualityReading.belongsTo(TurbidityRuleRecord, { foreignKey: "ruleId", as: "rule" });
+  WaterQualityReading.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  Project.hasMany(StopWorkEvent, { foreignKey: "projectId", as: "stopWorkEvents" });
+  StopWorkEvent.belongsTo(MonitoringStation, { foreignKey: "stationId", as: "station" });
+  StopWorkEvent.belongsTo(WaterQualityReading, { foreignKey: "readingId", as: "reading" });
+  StopWorkEvent.belongsTo(User, { foreignKey: "resumedById", as: "resumedBy" });
+  StopWorkEvent.belongsTo(User, { foreignKey: "notifiedById", as: "notifiedBy" });
+  Project.hasMany(WildlifeStandDown, { foreignKey: "projectId", as: "standDowns" });
+  Project.hasMany(WildlifeSighting, { foreignKey: "projectId", as: "sightings" });
+  WildlifeSighting.belongsTo(WildlifeStandDown, { foreignKey: "standDownId", as: "standDown" });
+  WildlifeSighting.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
 
   initialised = sequelize;
   return sequelize;
