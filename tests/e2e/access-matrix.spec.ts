@@ -69,12 +69,25 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/share-links", "/api/projects/{project}/share-links", "200 403 403 403 403 200 403 200 401"),
   row("POST", "api/projects/:projectId/share-links", "/api/projects/{project}/share-links", "422 403 403 403 403 422 403 422 401", EMPTY_JSON),
   row("DELETE", "api/projects/:projectId/share-links/:token", "/api/projects/{project}/share-links/no-such-token-0123456789", "404 403 403 403 403 404 403 404 401"),
+  row("GET", "api/projects/:projectId/stop-work", "/api/projects/{project}/stop-work", "200 200 200 200 200 200 200 200 401"),
+  // Resuming work: the manager or the resource monitor ({} has no note: 422 before the event is looked up).
+  row("POST", "api/projects/:projectId/stop-work/:eventId/resume", "/api/projects/{project}/stop-work/999999999/resume", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/surveys", "/api/projects/{project}/surveys", "200 200 200 200 200 200 200 200 401"),
   // A JSON body where the upload takes multipart: 415 for those who may upload.
   row("POST", "api/projects/:projectId/surveys", "/api/projects/{project}/surveys", "415 415 403 403 403 403 403 415 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "200 200 200 200 200 200 200 200 401"),
   row("DELETE", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("PATCH", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // Water quality: readings by the manager, the dewatering operator and the resource monitor; stations and rules by the manager.
+  row("GET", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "422 403 403 422 422 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/water-quality/rules", "/api/projects/{project}/water-quality/rules", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/water-quality/rules", "/api/projects/{project}/water-quality/rules", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/water-quality/stations", "/api/projects/{project}/water-quality/stations", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/water-quality/stations", "/api/projects/{project}/water-quality/stations", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // Wildlife sightings: whoever watches the water near the work.
+  row("GET", "api/projects/:projectId/wildlife/sightings", "/api/projects/{project}/wildlife/sightings", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/wildlife/sightings", "/api/projects/{project}/wildlife/sightings", "422 403 422 422 422 403 403 422 401", EMPTY_JSON),
 
   row("GET", "dev/mail", "/dev/mail", "403 403 403 403 403 403 403 200 login"),
   row("GET", "dev/mail/:messageId", "/dev/mail/no-such-message", "403 403 403 403 403 403 403 404 login"),
