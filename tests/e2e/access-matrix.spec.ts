@@ -127,6 +127,12 @@ const MATRIX: Row[] = [
   row("GET", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "200 200 403 403 403 403 403 200 login"),
   // A form that is not multipart, so no file: refused with 400 for those who may upload.
   row("POST", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
+  // Water quality: every member reads it; a bogus form is 400 for a role that may record something there, 403 for one that may not.
+  row("GET", "projects/:projectId/water-quality", "/projects/{project}/water-quality", "200 200 200 200 200 200 200 200 login"),
+  row("POST", "projects/:projectId/water-quality", "/projects/{project}/water-quality", "400 403 400 400 400 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/water-quality/compliance", "/projects/{project}/water-quality/compliance", "200 200 200 200 200 200 200 200 login"),
+  row("GET", "projects/:projectId/water-quality/setup", "/projects/{project}/water-quality/setup", "200 403 403 403 403 403 403 200 login"),
+  row("POST", "projects/:projectId/water-quality/setup", "/projects/{project}/water-quality/setup", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
 
   // A project's resource routes.
   row("GET", "projects/:projectId/map/style.json", "/projects/{project}/map/style.json", "200 200 200 200 200 200 200 200 login"),
@@ -134,6 +140,7 @@ const MATRIX: Row[] = [
   row("GET", "projects/:projectId/surveys/imports/:jobId/problems.csv", "/projects/{project}/surveys/imports/999999999/problems.csv", "404 404 403 403 403 403 403 404 login"),
   row("GET", "projects/:projectId/surveys/imports/:jobId/progress", "/projects/{project}/surveys/imports/999999999/progress", "404 404 403 403 403 403 403 404 login"),
   row("POST", "projects/:projectId/surveys/upload", "/projects/{project}/surveys/upload", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
+  row("GET", "projects/:projectId/water-quality/readings.csv", "/projects/{project}/water-quality/readings.csv", "200 200 200 200 200 200 200 200 login"),
 
   row("GET", "reset-password/:token", "/reset-password/no-such-token", "200 200 200 200 200 200 200 200 200"),
   row("POST", "reset-password/:token", "/reset-password/no-such-token", "400 400 400 400 400 400 400 400 400", { form: { password: "", confirm: "" } }),
