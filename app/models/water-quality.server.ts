@@ -6,7 +6,8 @@ import { pairBackground } from "../../shared/water-quality/pairing";
 import { DEFAULT_SHUTDOWN_DISTANCE_FT, DEFAULT_STAND_DOWN_SOURCE, DEFAULT_STAND_DOWN_WAIT_MINUTES } from "../../shared/water-quality/stand-down";
 import { evaluateTurbidity, TURBIDITY_RULE_KINDS, TURBIDITY_UNITS, verdictInWords, type TurbidityEvaluation, type TurbidityRule, type TurbidityUnit } from "../../shared/water-quality/turbidity-rule";
 import { convertLength } from "../../shared/units";
-import { DEPTH_RULES, getSequelize, Membership, MonitoringStation, STATION_KINDS, StopWorkEvent, TurbidityRuleRecord, User, WaterQualityReading, WaterQualitySettings } from "~/lib/db.server";
+import { DEPTH_RULES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
+import { getSequelize, Membership, MonitoringStation, StopWorkEvent, TurbidityRuleRecord, User, WaterQualityReading, WaterQualitySettings } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { sendMail } from "~/lib/mail/mail.server";
@@ -20,15 +21,6 @@ import { loggedDiveDates } from "./dives.server";
  * Readings support the permit's monitoring; the permit, the agency and licensed practice decide
  * compliance.
  */
-
-export const WATER_QUALITY_CAUTION =
-  "Readings support the permit's monitoring; the permit conditions, the agency and licensed practice decide compliance. On an exceedance, stop the work causing it, notify the agency as the permit requires, and resample until within the limit.";
-
-/** Published examples a manager may start a rule from (each must still be checked against the permit). */
-export const RULE_EXAMPLES = [
-  { label: "29 NTU above natural background (state surface-water criterion)", kind: "above-background", limit: 29, source: "State surface-water turbidity criterion: not more than 29 NTU above natural background (as restated citing Rule 62-302.530, F.A.C.); check the permit's condition" },
-  { label: "Zero above background (specially protected waters)", kind: "above-background", limit: 0, source: "Specially protected waters: no increase over background (Outstanding Florida Waters principle, Rule 62-302.700, F.A.C.); check the permit's condition" },
-] as const;
 
 // ---- Settings -------------------------------------------------------------------------------
 
@@ -357,7 +349,7 @@ const STOP_WORK_ROLES = ["manager", "dive-supervisor", "dewatering"] as const;
  * stop-work event (unless one is already open at that station) and e-mails the manager, the dive
  * supervisor and the dewatering operator at once, with the figures.
  */
-export async function recordReading(project: ProjectView, user: UserView, input: ReadingInput, ip: string | null = null): Promise<ReadingRecorded> {
+export async function recordReading(project: ProjectView, user: UserView, input: ReadingInput, ip: string | null = null, options: { alert?: boolean } = {}): Promise<ReadingRecorded> {
   const takenAt = new Date(input.takenAt);
   if (takenAt.getTime() > Date.now() + 5 * 60_000) throw new ValidationError({ field: "takenAt", message: "The sample time is in the future." });
   if (input.idempotencyKey) {
@@ -417,7 +409,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     verdict: outcome.evaluation ? verdictInWords(outcome.evaluation, input.unit) : "Recorded (only compliance readings are judged against the rule).",
   };
   if (outcome.stopWork) result.stopWork = { id: outcome.stopWork.id, notifyBy: outcome.stopWork.notifyBy.toISOString() };
-  if (outcome.opened && outcome.evaluation) result.alerted = await alertExceedance(project, outcome.station.name, input, outcome.evaluation, outcome.stopWork!);
+  if (outcome.opened && outcome.evaluation && options.alert !== false) result.alerted = await alertExceedance(project, outcome.station.name, input, outcome.evaluation, outcome.stopWork!);
   return result;
 }
 
@@ -463,8 +455,8 @@ export const readingQuerySchema = z.object({
   station: z.string().trim().min(1).max(120).optional(),
 });
 
-/** Readings by local day (from and to inclusive) and station (name or id), oldest first. */
-export async function listReadings(project: ProjectView, query: z.infer<typeof readingQuerySchema> = {}): Promise<ReadingView[]> {
+/** Readings by local day (from and to inclusive) and station (name or id), oldest first; `latest` keeps only the newest so many. */
+export async function listReadings(project: ProjectView, query: z.infer<typeof readingQuerySchema> = {}, options: { latest?: number } = {}): Promise<ReadingView[]> {
   const stationWhere = query.station === undefined ? undefined : /^\d+$/.test(query.station) ? { [Op.or]: [{ id: Number(query.station) }, { name: query.station }] } : { name: query.station };
   const readings = await WaterQualityReading.findAll({
     where: {
@@ -472,9 +464,11 @@ export async function listReadings(project: ProjectView, query: z.infer<typeof r
       ...(query.from || query.to ? { localDay: { ...(query.from ? { [Op.gte]: query.from } : {}), ...(query.to ? { [Op.lte]: query.to } : {}) } } : {}),
     },
     include: [{ model: MonitoringStation, as: "station", attributes: ["name", "kind"], ...(stationWhere ? { where: stationWhere } : {}) }],
-    order: [["takenAt", "ASC"], ["id", "ASC"]],
+    order: options.latest ? [["takenAt", "DESC"], ["id", "DESC"]] : [["takenAt", "ASC"], ["id", "ASC"]],
+    ...(options.latest ? { limit: options.latest } : {}),
   });
-  return readings.map(presentReading);
+  const oldestFirst = options.latest ? readings.reverse() : readings;
+  return oldestFirst.map(presentReading);
 }
 
 // ---- Stop-work events -----------------------------------------------------------------------
@@ -521,18 +515,20 @@ export const resumeInputSchema = z.object({ note: z.string().trim().min(1, "say 
  * Records the resumption: refused (ConflictError, 409) while no compliance reading at the same
  * station, taken after the exceedance, is within the limit.
  */
-export async function resumeStopWork(project: ProjectView, user: UserView, eventId: number, note: string, ip: string | null = null): Promise<StopWorkView> {
+export async function resumeStopWork(project: ProjectView, user: UserView, eventId: number, note: string, ip: string | null = null, options: { at?: Date } = {}): Promise<StopWorkView> {
+  // `at` is for the demo seed, which records a past resumption; people resume now.
+  const resumedAt = options.at ?? new Date();
   await getSequelize().transaction(async (transaction) => {
     const event = await StopWorkEvent.findOne({ where: { projectId: project.id, id: eventId }, transaction, lock: transaction.LOCK.UPDATE });
     if (!event) throw new NotFoundError(`There is no stop-work event ${eventId} on this project.`);
     if (event.resumedAt) throw new ConflictError(`Work already resumed on ${event.resumedAt.toISOString()}.`);
     const resample = await WaterQualityReading.findOne({
-      where: { projectId: project.id, stationId: event.stationId, exceeds: false, takenAt: { [Op.gt]: event.openedAt } },
+      where: { projectId: project.id, stationId: event.stationId, exceeds: false, takenAt: { [Op.gt]: event.openedAt, [Op.lte]: resumedAt } },
       order: [["takenAt", "DESC"]],
       transaction,
     });
     if (!resample) throw new ConflictError("No resample at this station is within the limit yet: take a resample (with its background) and record it first.", { code: "no-in-limit-resample" });
-    await event.update({ resumedAt: new Date(), resumedById: user.id, resumeNote: note, resampleReadingId: resample.id }, { transaction });
+    await event.update({ resumedAt, resumedById: user.id, resumeNote: note, resampleReadingId: resample.id }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.stopWorkResumed, projectId: project.id, userId: user.id, ip, detail: { id: event.id, resampleReadingId: resample.id, note } }, transaction);
   });
   const event = await StopWorkEvent.findOne({ where: { projectId: project.id, id: eventId }, include: stopWorkInclude });

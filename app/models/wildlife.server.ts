@@ -14,9 +14,6 @@ import { getWaterQualitySettings } from "./water-quality.server";
  * A later sighting of the same species beyond the distance, or marked gone, records its leaving.
  */
 
-export const STAND_DOWN_CAUTION =
-  "Stop in-water equipment while the animal is within the shutdown distance; never chase, herd or touch it. It must leave on its own. Distance and wait follow the permit's conditions.";
-
 export const sightingInputSchema = z
   .object({
     species: z.string().trim().min(1, "name the species").max(120),

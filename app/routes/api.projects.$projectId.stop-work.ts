@@ -1,6 +1,7 @@
+import { WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { apiRoute } from "~/lib/api/route.server";
-import { listStopWork, WATER_QUALITY_CAUTION } from "~/models/water-quality.server";
+import { listStopWork } from "~/models/water-quality.server";
 import type { Route } from "./+types/api.projects.$projectId.stop-work";
 
 const route = apiRoute<Route.LoaderArgs>({

@@ -1,8 +1,9 @@
+import { WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody, readApiQuery } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
 import { clientAddress } from "~/lib/http/client-address.server";
-import { listReadings, readingInputSchema, readingQuerySchema, recordReading, WATER_QUALITY_CAUTION } from "~/models/water-quality.server";
+import { listReadings, readingInputSchema, readingQuerySchema, recordReading } from "~/models/water-quality.server";
 import type { Route } from "./+types/api.projects.$projectId.water-quality.readings";
 
 const route = apiRoute<Route.LoaderArgs>({

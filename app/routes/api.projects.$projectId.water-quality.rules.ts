@@ -1,8 +1,9 @@
+import { WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
 import { clientAddress } from "~/lib/http/client-address.server";
-import { createRule, listRules, ruleInputSchema, WATER_QUALITY_CAUTION } from "~/models/water-quality.server";
+import { createRule, listRules, ruleInputSchema } from "~/models/water-quality.server";
 import type { Route } from "./+types/api.projects.$projectId.water-quality.rules";
 
 const route = apiRoute<Route.LoaderArgs>({

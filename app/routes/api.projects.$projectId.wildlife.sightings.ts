@@ -1,8 +1,9 @@
+import { STAND_DOWN_CAUTION } from "../../shared/water-quality/wording";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
 import { clientAddress } from "~/lib/http/client-address.server";
-import { listSightings, listStandDowns, recordSighting, sightingInputSchema, STAND_DOWN_CAUTION } from "~/models/wildlife.server";
+import { listSightings, listStandDowns, recordSighting, sightingInputSchema } from "~/models/wildlife.server";
 import type { Route } from "./+types/api.projects.$projectId.wildlife.sightings";
 
 const route = apiRoute<Route.LoaderArgs>({

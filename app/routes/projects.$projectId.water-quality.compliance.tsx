@@ -4,7 +4,8 @@ import { instantOfLocal, localDayOf } from "../../shared/local-time";
 import { localTime } from "~/components/stop-work-banner";
 import { TurbidityChart } from "~/components/turbidity-chart";
 import { requireRole } from "~/lib/auth/access.server";
-import { complianceSummary, listStopWork, WATER_QUALITY_CAUTION } from "~/models/water-quality.server";
+import { complianceSummary, listReadings, listStopWork } from "~/models/water-quality.server";
+import { WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import type { Route } from "./+types/projects.$projectId.water-quality.compliance";
 
 // The compliance page: per station a chart and a table of readings with their verdicts, the
@@ -16,7 +17,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = await requireRole(request, params.projectId);
   const nowMs = Date.now();
   const query = periodSchema.parse(Object.fromEntries(new URL(request.url).searchParams));
-  const to = query.to ?? localDayOf(nowMs, project.timeZone);
+  // Without a period: the two weeks up to the latest reading (or today), so a quiet spell shows the last record, not an empty page.
+  const [latest] = query.to ? [] : await listReadings(project, {}, { latest: 1 });
+  const to = query.to ?? (latest ? latest.localDay : localDayOf(nowMs, project.timeZone));
   const from = query.from && query.from <= to ? query.from : localDayOf(Date.parse(`${to}T12:00:00Z`) - 13 * 86_400_000, "UTC");
   const [summary, stopWork] = await Promise.all([complianceSummary(project, { from, to }), listStopWork(project, {}, nowMs)]);
   return {

@@ -8,9 +8,9 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { fieldErrorsFrom, type FieldErrors } from "~/lib/http/form";
 import { unitLabel } from "../../shared/units";
 import { TURBIDITY_RULE_KINDS } from "../../shared/water-quality/turbidity-rule";
-import { DEPTH_RULES, STATION_KINDS } from "~/lib/db.server";
+import { DEPTH_RULES, RULE_EXAMPLES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import {
-  createRule, createStation, getWaterQualitySettings, listRules, listStations, RULE_EXAMPLES, ruleInputSchema, saveWaterQualitySettings, settingsInputSchema, stationInputSchema, WATER_QUALITY_CAUTION,
+  createRule, createStation, getWaterQualitySettings, listRules, listStations, ruleInputSchema, saveWaterQualitySettings, settingsInputSchema, stationInputSchema,
 } from "~/models/water-quality.server";
 import type { Route } from "./+types/projects.$projectId.water-quality.setup";
 

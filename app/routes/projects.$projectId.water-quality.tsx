@@ -13,9 +13,9 @@ import { fieldErrorsFrom, type FieldErrors } from "~/lib/http/form";
 import { unitLabel } from "../../shared/units";
 import {
   agencyNoticeInputSchema, getWaterQualitySettings, listReadings, listStations, listStopWork, readingInputSchema, recordAgencyNotice, recordReading, resumeInputSchema, resumeStopWork,
-  WATER_QUALITY_CAUTION,
 } from "~/models/water-quality.server";
-import { listSightings, listStandDowns, recordSighting, sightingInputSchema, STAND_DOWN_CAUTION } from "~/models/wildlife.server";
+import { listSightings, listStandDowns, recordSighting, sightingInputSchema } from "~/models/wildlife.server";
+import { STAND_DOWN_CAUTION, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import type { Route } from "./+types/projects.$projectId.water-quality";
 
 // The water-quality page: a phone-friendly reading form with the verdict in words at once, the
@@ -26,9 +26,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = access;
   const nowMs = Date.now();
   const today = localDayOf(nowMs, project.timeZone);
-  const weekAgo = localDayOf(nowMs - 7 * 86_400_000, project.timeZone);
   const [stations, settings, readings, stopWork, sightings, standDowns] = await Promise.all([
-    listStations(project), getWaterQualitySettings(project), listReadings(project, { from: weekAgo, to: today }), listStopWork(project, {}, nowMs), listSightings(project), listStandDowns(project, {}, nowMs),
+    listStations(project), getWaterQualitySettings(project), listReadings(project, {}, { latest: 30 }), listStopWork(project, {}, nowMs), listSightings(project), listStandDowns(project, {}, nowMs),
   ]);
   return {
     projectId: project.id,
@@ -37,7 +36,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     nowLocal: `${today}T${localClockOf(nowMs, project.timeZone)}`,
     stations,
     settings,
-    readings: readings.slice(-30).reverse(),
+    readings: readings.reverse(),
     stopWork,
     sightings: sightings.slice(0, 20),
     standDowns: standDowns.slice(0, 20),
@@ -231,7 +230,7 @@ export default function WaterQuality({ loaderData, actionData }: Route.Component
       </section>
 
       <section aria-labelledby="recent-heading">
-        <h3 id="recent-heading" className="text-lg font-semibold">Readings of the last 7 days</h3>
+        <h3 id="recent-heading" className="text-lg font-semibold">Latest readings</h3>
         {loaderData.readings.length === 0 ? <p className="mt-2 text-sm text-muted">None.</p> : (
           <div className="mt-2 overflow-x-auto">
             <table className="w-full text-sm">
@@ -265,7 +264,7 @@ export default function WaterQuality({ loaderData, actionData }: Route.Component
                 <select id="species" name="species" className={inputClass}>{settings.species.map((name) => <option key={name}>{name}</option>)}</select>
                 {sightingErrors.species ? <p className="mt-1 text-sm text-danger">{sightingErrors.species}</p> : null}
               </div>
-              <TextField label={`Distance from the work (${loaderData.lengthLabel})`} name="distance" inputMode="decimal" error={sightingErrors.distance} />
+              <TextField label={`Distance (${loaderData.lengthLabel})`} name="distance" inputMode="decimal" error={sightingErrors.distance} />
             </div>
             <label className="flex items-center gap-2 text-sm"><input type="checkbox" name="gone" /> The animal has left (out of sight, or moved away on its own)</label>
             <TextField label={`Seen at (project time, ${timeZone})`} name="seenAt" type="datetime-local" required defaultValue={loaderData.nowLocal} error={sightingErrors.seenAt} />

@@ -41,7 +41,6 @@ export { Assignment, DiveTeam, Shoreline };
 export { Dive, DiveCell };
 export { SignInSession };
 export { WaterQualitySettings, TurbidityRuleRecord, MonitoringStation, WaterQualityReading, StopWorkEvent, WildlifeStandDown, WildlifeSighting };
-export { STATION_KINDS, DEPTH_RULES, type StationKind, type DepthRule } from "./monitoring-station";
 export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;

@@ -1,11 +1,8 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import type { DepthRule, StationKind } from "../../shared/water-quality/wording";
 import type { Project } from "./project";
 import type { TurbidityRuleRecord } from "./turbidity-rule";
 
-export const STATION_KINDS = ["background", "compliance", "outfall", "other"] as const;
-export type StationKind = (typeof STATION_KINDS)[number];
-export const DEPTH_RULES = ["surface", "mid-depth", "near-bottom"] as const;
-export type DepthRule = (typeof DEPTH_RULES)[number];
 
 /** A water-quality monitoring station: background up-current, compliance point in the plume, the return outfall, or other. */
 export class MonitoringStation extends Model<InferAttributes<MonitoringStation>, InferCreationAttributes<MonitoringStation>> {
