@@ -44,7 +44,7 @@ export function TurbidityChart({ station, readings, missed, fromMs, toMs, unit =
   const everyDays = Math.max(1, Math.ceil(spanDays / 7));
   for (let at = fromMs; at <= toMs; at += everyDays * 86_400_000) dayTicks.push(at);
   return (
-    <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-label={`Turbidity at ${station} (${unit}), with the limit and background`} className="h-auto w-full" data-testid={`turbidity-chart-${station}`}>
+    <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-label={`Turbidity at ${station} (${unit}), with the limit and background`} className="h-auto w-full max-w-3xl" data-testid={`turbidity-chart-${station}`}>
       {missed.map((gap) => (
         <rect key={gap.fromMs} x={x(Math.max(gap.fromMs, fromMs))} y={MARGIN.top} width={Math.max(1, x(Math.min(gap.toMs, toMs)) - x(Math.max(gap.fromMs, fromMs)))} height={HEIGHT - MARGIN.top - MARGIN.bottom} fill="#9a5b00" opacity={0.15}><title>Missed sampling interval</title></rect>
       ))}

@@ -142,6 +142,15 @@ export default function WaterQualitySetup({ loaderData, actionData }: Route.Comp
               <select id="station-depth" name="depth" className={inputClass}><option value="">—</option>{DEPTH_RULES.map((depth) => <option key={depth}>{depth}</option>)}</select>
             </div>
           </div>
+          {rules.length > 1 ? (
+            <div>
+              <label htmlFor="station-rule" className="block text-sm font-medium">Rule</label>
+              <select id="station-rule" name="rule" className={inputClass}>
+                <option value="">The project's rule in force</option>
+                {rules.map((rule) => <option key={rule.id} value={rule.id}>Rule {rule.id}: {rule.summary}</option>)}
+              </select>
+            </div>
+          ) : null}
           <div className="grid grid-cols-2 gap-3">
             <TextField label="Easting (project CRS)" name="x" inputMode="decimal" error={errorsFor("station").position} />
             <TextField label="Northing (project CRS)" name="y" inputMode="decimal" />

@@ -34,6 +34,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     timeZone: project.timeZone,
     lengthLabel: unitLabel(project.lengthUnit),
     nowLocal: `${today}T${localClockOf(nowMs, project.timeZone)}`,
+    // One key per rendered form: a reading re-sent (a double tap, a retried request) is stored once.
+    formKey: crypto.randomUUID(),
     stations,
     settings,
     readings: readings.reverse(),
@@ -157,6 +159,7 @@ export default function WaterQuality({ loaderData, actionData }: Route.Component
             <p className="mt-2 text-sm text-muted">No monitoring stations yet: the manager sets them up first.</p>
           ) : (
             <Form method="post" className="mt-3 space-y-3" key={actionData?.intent === "reading" && actionData.verdict ? actionData.verdict.text : "reading"}>
+              <input type="hidden" name="idempotencyKey" value={loaderData.formKey} />
               <div>
                 <label htmlFor="station" className="block text-sm font-medium">Station</label>
                 <select id="station" name="station" className={inputClass} aria-invalid={readingErrors.station ? true : undefined}>
