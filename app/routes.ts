@@ -26,6 +26,7 @@ export default [
   route("api/projects/:projectId/share-links", "routes/api.projects.$projectId.share-links.ts"),
   route("api/projects/:projectId/share-links/:token", "routes/api.projects.$projectId.share-links.$token.ts"),
   route("api/projects/:projectId/stop-work", "routes/api.projects.$projectId.stop-work.ts"),
+  route("api/projects/:projectId/stop-work/:eventId/notification", "routes/api.projects.$projectId.stop-work.$eventId.notification.ts"),
   route("api/projects/:projectId/stop-work/:eventId/resume", "routes/api.projects.$projectId.stop-work.$eventId.resume.ts"),
   route("api/projects/:projectId/surveys", "routes/api.projects.$projectId.surveys.ts"),
   route("api/projects/:projectId/surveys/:surveyId", "routes/api.projects.$projectId.surveys.$surveyId.ts"),

@@ -541,13 +541,15 @@ export const agencyNoticeInputSchema = z.object({
   how: z.string().trim().min(1, "say how (telephone, e-mail, the agency's form)").max(200),
 });
 
-export async function recordAgencyNotice(project: ProjectView, user: UserView, eventId: number, input: z.infer<typeof agencyNoticeInputSchema>, ip: string | null = null): Promise<void> {
+export async function recordAgencyNotice(project: ProjectView, user: UserView, eventId: number, input: z.infer<typeof agencyNoticeInputSchema>, ip: string | null = null): Promise<StopWorkView> {
   await getSequelize().transaction(async (transaction) => {
     const event = await StopWorkEvent.findOne({ where: { projectId: project.id, id: eventId }, transaction, lock: transaction.LOCK.UPDATE });
     if (!event) throw new NotFoundError(`There is no stop-work event ${eventId} on this project.`);
     await event.update({ agencyNotifiedAt: new Date(input.notifiedAt), agencyNotifiedTo: input.to, agencyNotifiedHow: input.how, notifiedById: user.id }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.stopWorkAgencyNotified, projectId: project.id, userId: user.id, ip, detail: { id: event.id, ...input } }, transaction);
   });
+  const event = await StopWorkEvent.findOne({ where: { projectId: project.id, id: eventId }, include: stopWorkInclude });
+  return presentStopWork(event!, Date.now());
 }
 
 // ---- Compliance summary ---------------------------------------------------------------------

@@ -71,6 +71,7 @@ const MATRIX: Row[] = [
   row("DELETE", "api/projects/:projectId/share-links/:token", "/api/projects/{project}/share-links/no-such-token-0123456789", "404 403 403 403 403 404 403 404 401"),
   row("GET", "api/projects/:projectId/stop-work", "/api/projects/{project}/stop-work", "200 200 200 200 200 200 200 200 401"),
   // Resuming work: the manager or the resource monitor ({} has no note: 422 before the event is looked up).
+  row("POST", "api/projects/:projectId/stop-work/:eventId/notification", "/api/projects/{project}/stop-work/999999999/notification", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("POST", "api/projects/:projectId/stop-work/:eventId/resume", "/api/projects/{project}/stop-work/999999999/resume", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/surveys", "/api/projects/{project}/surveys", "200 200 200 200 200 200 200 200 401"),
   // A JSON body where the upload takes multipart: 415 for those who may upload.

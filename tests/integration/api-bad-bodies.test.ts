@@ -55,8 +55,8 @@ const base = () => `/api/projects/${site.project.id}`;
 // staging directory; projects → Project, Zone, Membership, AuditEvent; a project's settings →
 // Project, Zone, CellResult, SurveySnapshot, AuditEvent; an account (the site admin) → User,
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
-// TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption →
-// StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
+// TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
+// notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
 // the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
@@ -76,6 +76,10 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/water-quality/stations", method: "POST", url: () => `${base()}/water-quality/stations`, params: projectParams },
   { route: "api/projects/:projectId/water-quality/rules", method: "POST", url: () => `${base()}/water-quality/rules`, params: projectParams },
   { route: "api/projects/:projectId/water-quality/readings", method: "POST", url: () => `${base()}/water-quality/readings`, params: projectParams },
+  {
+    route: "api/projects/:projectId/stop-work/:eventId/notification", method: "POST",
+    url: () => `${base()}/stop-work/${stopWorkId}/notification`, params: () => ({ ...projectParams(), eventId: String(stopWorkId) }),
+  },
   {
     route: "api/projects/:projectId/stop-work/:eventId/resume", method: "POST",
     url: () => `${base()}/stop-work/${stopWorkId}/resume`, params: () => ({ ...projectParams(), eventId: String(stopWorkId) }),
@@ -178,6 +182,7 @@ async function snapshot() {
     waterQualityReadings: await WaterQualityReading.count({ where: { projectId } }),
     stopWorkEvents: await StopWorkEvent.count({ where: { projectId } }),
     resumedStopWork: await StopWorkEvent.count({ where: { projectId, resumedAt: { [Op.ne]: null } } }),
+    notifiedStopWork: await StopWorkEvent.count({ where: { projectId, agencyNotifiedAt: { [Op.ne]: null } } }),
     sightings: await WildlifeSighting.count({ where: { projectId } }),
     standDowns: await WildlifeStandDown.count({ where: { projectId } }),
     projects: await Project.count(),

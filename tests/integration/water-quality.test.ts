@@ -7,6 +7,7 @@ import { action as rulesAction } from "~/routes/api.projects.$projectId.water-qu
 import { action as readingsAction, loader as readingsLoader } from "~/routes/api.projects.$projectId.water-quality.readings";
 import { loader as stopWorkLoader } from "~/routes/api.projects.$projectId.stop-work";
 import { action as resumeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.resume";
+import { action as noticeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.notification";
 import { action as sightingsAction } from "~/routes/api.projects.$projectId.wildlife.sightings";
 import { addMember, makeProject, makeUser, requestAs } from "./helpers";
 
@@ -101,6 +102,15 @@ describe("readings, the exceedance and the stop-work event", () => {
     const body = await (await postReading("dewatering", { station: "CP-1 plume", takenAt: "2026-11-04T08:45:00-05:00", value: 40, unit: "NTU" })).json();
     expect(body.stopWork.id).toBe(stopWorkId);
     expect(await StopWorkEvent.count({ where: { projectId } })).toBe(1);
+  });
+
+  it("records the agency notification: when, to whom, how (manager or monitor)", async () => {
+    const notice = (role: Role, body: unknown) => postJson(noticeAction as never, role, `${base()}/stop-work/${stopWorkId}/notification`, body, { eventId: String(stopWorkId) });
+    expect((await notice("dewatering", { notifiedAt: "2026-11-04T09:10:00-05:00", to: "District office", how: "telephone" })).status).toBe(403);
+    expect(await fieldsOf(await notice("manager", { notifiedAt: "2026-11-04T09:10:00-05:00", how: "telephone" }))).toEqual(["to"]);
+    const answer = await notice("resource-monitor", { notifiedAt: "2026-11-04T09:10:00-05:00", to: "District office", how: "telephone" });
+    expect(answer.status).toBe(200);
+    expect((await answer.json()).event.agencyNotified).toEqual({ at: "2026-11-04T14:10:00.000Z", to: "District office", how: "telephone" });
   });
 
   it("refuses the resumption (409) until an in-limit resample at the station, then records it", async () => {
