@@ -89,4 +89,8 @@ describe("the verdict in words", () => {
     expect(verdictInWords(evaluateTurbidity(florida(true), 33, 5))).toMatch(/^Within/);
     expect(verdictInWords(evaluateTurbidity(florida(true), 33, null))).toMatch(/^No verdict/);
   });
+  it("says so when FNU readings are judged against a rule stated in NTU, and not otherwise", () => {
+    expect(verdictInWords(evaluateTurbidity(florida(true), 33, 5), "FNU")).toContain("rule stated in NTU");
+    expect(verdictInWords(evaluateTurbidity(florida(true), 33, 5), "NTU")).not.toContain("FNU");
+  });
 });

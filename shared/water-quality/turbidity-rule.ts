@@ -95,5 +95,7 @@ export function verdictInWords(evaluation: TurbidityEvaluation, unit: string = "
   const figure = (value: number) => `${Number(value.toFixed(2))} ${unit}`;
   if (evaluation.exceeds === null) return "No verdict: no background reading within the pairing window. Take a background reading and resample.";
   const against = evaluation.background === null ? `the limit of ${figure(evaluation.limit!)}` : `the limit of ${figure(evaluation.limit!)} (background ${figure(evaluation.background)}, difference ${figure(evaluation.difference!)})`;
-  return evaluation.exceeds ? `Exceeds ${against}. Stop the work causing it, notify, resample.` : `Within ${against}.`;
+  const words = evaluation.exceeds ? `Exceeds ${against}. Stop the work causing it, notify, resample.` : `Within ${against}.`;
+  // Rules are stated in NTU; FNU readings (paired with FNU backgrounds only) are judged against them as numbers, and the verdict says so.
+  return unit === "FNU" ? `${words} Readings in FNU judged against a rule stated in NTU: check that the permit allows it.` : words;
 }
