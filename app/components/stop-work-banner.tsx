@@ -43,7 +43,7 @@ export function StopWorkBanner({ projectId, stopWork, standDowns, nowMs, timeZon
   }, [nowMs]);
   if (stopWork.length === 0 && standDowns.length === 0) return null;
   return (
-    <div role="alert" data-testid="stop-work-banner" className="mt-3 rounded border-2 border-danger bg-danger p-3 text-white">
+    <div role="alert" data-testid="stop-work-banner" className="mt-3 rounded border-2 border-danger bg-danger p-3 text-white print:hidden">
       {stopWork.map((event) => (
         <p key={`sw-${event.id}`} className="font-semibold">
           STOP WORK — turbidity exceedance at {event.station}: {event.reading.value} {event.reading.unit}
