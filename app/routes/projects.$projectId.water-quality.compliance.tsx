@@ -5,6 +5,7 @@ import { localTime } from "~/components/stop-work-banner";
 import { TurbidityChart } from "~/components/turbidity-chart";
 import { requireRole } from "~/lib/auth/access.server";
 import { complianceSummary, listReadings, listStopWork } from "~/models/water-quality.server";
+import { listStandDowns } from "~/models/wildlife.server";
 import { WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import type { Route } from "./+types/projects.$projectId.water-quality.compliance";
 
@@ -21,12 +22,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const [latest] = query.to ? [] : await listReadings(project, {}, { latest: 1 });
   const to = query.to ?? (latest ? latest.localDay : localDayOf(nowMs, project.timeZone));
   const from = query.from && query.from <= to ? query.from : localDayOf(Date.parse(`${to}T12:00:00Z`) - 13 * 86_400_000, "UTC");
-  const [summary, stopWork] = await Promise.all([complianceSummary(project, { from, to }), listStopWork(project, {}, nowMs)]);
+  const [summary, stopWork, standDowns] = await Promise.all([complianceSummary(project, { from, to }), listStopWork(project, {}, nowMs), listStandDowns(project, {}, nowMs)]);
+  const inPeriod = (iso: string) => localDayOf(Date.parse(iso), project.timeZone) >= from && localDayOf(Date.parse(iso), project.timeZone) <= to;
   return {
     projectId: project.id, projectName: project.name, timeZone: project.timeZone, from, to,
     fromMs: instantOfLocal(from, 0, project.timeZone), toMs: instantOfLocal(to, 24 * 60, project.timeZone),
     ...summary,
-    stopWork: stopWork.filter((event) => localDayOf(Date.parse(event.openedAt), project.timeZone) >= from && localDayOf(Date.parse(event.openedAt), project.timeZone) <= to),
+    stopWork: stopWork.filter((event) => inPeriod(event.openedAt)),
+    standDowns: standDowns.filter((standDown) => inPeriod(standDown.startedAt)),
   };
 }
 
@@ -63,7 +66,14 @@ export default function WaterQualityCompliance({ loaderData }: Route.ComponentPr
       </section>
 
       <section aria-labelledby="events-heading">
-        <h3 id="events-heading" className="text-lg font-semibold">Stop-work events</h3>
+        <h3 id="events-heading" className="text-lg font-semibold">Stop-work events and stand-downs</h3>
+        <p className="text-sm" data-testid="hours-lost">
+          Hours lost in this period: {Math.round(loaderData.stopWork.reduce((sum, event) => sum + event.durationHours, 0) * 100) / 100} h to turbidity stop-work,{" "}
+          {Math.round(loaderData.standDowns.reduce((sum, standDown) => sum + standDown.durationHours, 0) * 100) / 100} h to wildlife stand-downs (events that began in the period; an open one counts to now).
+        </p>
+        {loaderData.standDowns.length > 0 ? (
+          <ul className="mt-1 text-sm">{loaderData.standDowns.map((standDown) => <li key={`sd-${standDown.id}`}>{standDown.species}: from {localTime(standDown.startedAt, timeZone)}{standDown.until ? ` to ${localTime(standDown.until, timeZone)}` : " · animal still near"} · {standDown.durationHours} h</li>)}</ul>
+        ) : null}
         {loaderData.stopWork.length === 0 ? <p className="text-sm text-muted">None in this period.</p> : (
           <ul className="mt-1 text-sm">{loaderData.stopWork.map((event) => <li key={event.id}>{event.station}: {event.reading.value} {event.reading.unit} at {localTime(event.openedAt, timeZone)} · {event.open ? "OPEN" : `resumed ${localTime(event.resumedAt!, timeZone)}`} · {event.durationHours} h · agency {event.agencyNotified ? `told ${localTime(event.agencyNotified.at, timeZone)} (${event.agencyNotified.how}, ${event.agencyNotified.to})` : "notice not recorded"}</li>)}</ul>
         )}
