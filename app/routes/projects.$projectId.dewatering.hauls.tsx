@@ -11,6 +11,7 @@ import { DEWATERING_CAUTION, dewateringSettings, projectToday } from "~/models/d
 import { addHaulSite, haulInputSchema, haulSiteInputSchema, listHauls, listHaulSites, recordHaul } from "~/models/hauls.server";
 import { massUnitsFor, measureLabel, unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.dewatering.hauls";
+import { readPageForm } from "~/lib/http/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
@@ -35,7 +36,7 @@ const text = (value: FormDataEntryValue | null) => (typeof value === "string" ? 
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, project } = await requireRole(request, params.projectId, "dewatering.log");
-  const form = await request.formData();
+  const form = await readPageForm(request);
   const intent = text(form.get("intent")) === "site" ? "site" : text(form.get("intent")) === "haul" ? "haul" : null;
   if (intent === null) return data({ intent: "haul", errors: { form: "Unknown request." } as FieldErrors, notice: null } satisfies ActionResult, { status: 400 });
   const refused = (errors: FieldErrors) => data({ intent, errors, notice: null } satisfies ActionResult, { status: 400 });

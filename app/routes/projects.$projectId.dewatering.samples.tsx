@@ -12,6 +12,7 @@ import { listSamples, recordSample, sampleInputSchema } from "~/models/sediment-
 import { listZones } from "~/models/project.server";
 import { massUnitsFor, measureLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.dewatering.samples";
+import { readPageForm } from "~/lib/http/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
@@ -33,7 +34,7 @@ const numberOr = (value: FormDataEntryValue | null) => (text(value) === "" ? Num
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, project } = await requireRole(request, params.projectId, "samples.record");
-  const form = await request.formData();
+  const form = await readPageForm(request);
   const refused = (errors: FieldErrors) => data({ errors, notice: null as string | null }, { status: 400 });
   if (text(form.get("intent")) !== "sample") return refused({ form: "Unknown request." });
   const organic = text(form.get("organicMatterPercent"));

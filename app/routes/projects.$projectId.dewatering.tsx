@@ -13,6 +13,7 @@ import {
 } from "~/models/dewatering.server";
 import { massUnitsFor } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.dewatering";
+import { readPageForm } from "~/lib/http/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
@@ -68,7 +69,7 @@ const shiftInputOf = (field: string) => SHIFT_INPUTS[field] ?? field.split(".")[
 export async function action({ request, params }: Route.ActionArgs) {
   const access = await requireRole(request, params.projectId);
   const { user, project } = access;
-  const form = await request.formData();
+  const form = await readPageForm(request);
   const intent = text(form.get("intent"));
   // The manager's settings form is the only thing here that is not the operator's log.
   requireAllowed(access, intent === "settings" ? "project.configure" : "dewatering.log");

@@ -11,6 +11,7 @@ import { DewateringCaution, DewateringNav, FieldInput, FieldSelect, formatFigure
 import { DEWATERING_CAUTION, changeTubeStatus, fillInputSchema, listTubes, recordFill, registerTube, tubeInputSchema, tubeStatusSchema, projectToday } from "~/models/dewatering.server";
 import { TUBE_STATUSES } from "../../shared/dewatering/tubes";
 import type { Route } from "./+types/projects.$projectId.dewatering.tubes";
+import { readPageForm } from "~/lib/http/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
@@ -28,7 +29,7 @@ const numberOr = (value: FormDataEntryValue | null) => (text(value) === "" ? Num
 export async function action({ request, params }: Route.ActionArgs) {
   const access = await requireRole(request, params.projectId, "dewatering.log");
   const { user, project } = access;
-  const form = await request.formData();
+  const form = await readPageForm(request);
   const intent = text(form.get("intent")) as Intent;
   const refused = (errors: FieldErrors) => data({ intent, errors, notice: null } satisfies ActionResult, { status: 400 });
   try {

@@ -23,12 +23,13 @@ import { listSurveys } from "~/models/survey.server";
 import { findProject } from "~/lib/auth/project-view.server";
 import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
 import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline.server";
+import { currentStoppages, workStoppedMessage } from "~/models/stoppages.server";
 import type { Route } from "./+types/projects.$projectId.map";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project } = access;
-  const [teams, shoreline, row, surveys] = await Promise.all([listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project)]);
+  const [teams, shoreline, row, surveys, stoppages] = await Promise.all([listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project), currentStoppages(project)]);
   return {
     projectId: project.id,
     hasWorkLimit: project.hasWorkLimit,
@@ -36,6 +37,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     crsCode: project.crs,
     minTeamSize: project.minTeamSize,
     canAssign: can(access, "plans.assign"),
+    workStopped: workStoppedMessage(stoppages),
     // A new project's empty grid says what comes next.
     hasSurveys: surveys.length > 0,
     canImport: can(access, "surveys.import"),
@@ -310,6 +312,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
               confirmedLabels={confirmedLabels}
               teams={loaderData.teams}
               minTeamSize={loaderData.minTeamSize}
+              workStopped={loaderData.workStopped}
               onAssigned={(date) => {
                 setPlanDate(date);
                 loadAssigned(date).catch(() => undefined);

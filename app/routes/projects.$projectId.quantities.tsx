@@ -14,6 +14,7 @@ import { fieldErrorsFrom, parseForm } from "~/lib/http/form";
 import { listSignedPeriods, signPayPeriod } from "~/models/pay-periods.server";
 import { loadQuantities } from "~/models/quantities.server";
 import type { Route } from "./+types/projects.$projectId.quantities";
+import { readPageForm } from "~/lib/http/body.server";
 
 // The manager's and viewers' quantities: the survey pair and method, zone totals, a pay period
 // between any two surveys in force (per zone and project), the exports, and the signed periods.
@@ -53,7 +54,7 @@ const signSchema = z.object({
 export async function action({ request, params }: Route.ActionArgs) {
   const access = await requireRole(request, params.projectId, "quantities.read");
   requireAllowed(access, "quantities.sign");
-  const parsed = parseForm(await request.formData(), signSchema);
+  const parsed = parseForm(await readPageForm(request), signSchema);
   if (!parsed.ok) return data({ errors: parsed.errors, notice: null }, { status: 400 });
   try {
     const id = await signPayPeriod(access.project, access.user, parsed.data, clientAddress(request));

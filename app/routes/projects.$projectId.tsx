@@ -2,6 +2,8 @@ import { NavLink, Outlet } from "react-router";
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { ROLE_LABELS } from "~/lib/auth/roles";
+import { StopWorkBanner } from "~/components/stop-work-banner";
+import { currentStoppages } from "~/models/stoppages.server";
 import type { Route } from "./+types/projects.$projectId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -13,6 +15,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     canManageMembers: can(access, "members.manage"),
     canReadAudit: can(access, "audit.read"),
     canConfigure: can(access, "project.configure"),
+    // Open stop-work events and stand-downs show on every project page.
+    stoppages: await currentStoppages(project),
   };
 }
 
@@ -34,10 +38,12 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
         <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
         <NavLink to={`${base}/dewatering`} className={linkClass}>Dewatering</NavLink>
+        <NavLink to={`${base}/water-quality`} className={linkClass}>Water quality</NavLink>
         {loaderData.canManageMembers ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
         {loaderData.canConfigure ? <NavLink to={`${base}/settings`} className={linkClass}>Settings</NavLink> : null}
         {loaderData.canReadAudit ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}
       </nav>
+      <StopWorkBanner projectId={loaderData.project.id} {...loaderData.stoppages} />
       <div className="mt-6">
         <Outlet />
       </div>

@@ -31,6 +31,13 @@ import { TubeFill, initTubeFill } from "./tube-fill";
 import { HaulSite, initHaulSite } from "./haul-site";
 import { Haul, initHaul } from "./haul";
 import { SedimentSample, initSedimentSample } from "./sediment-sample";
+import { WaterQualitySettings, initWaterQualitySettings } from "./water-quality-settings";
+import { TurbidityRuleRecord, initTurbidityRule } from "./turbidity-rule";
+import { MonitoringStation, initMonitoringStation } from "./monitoring-station";
+import { WaterQualityReading, initWaterQualityReading } from "./water-quality-reading";
+import { StopWorkEvent, initStopWorkEvent } from "./stop-work-event";
+import { WildlifeStandDown, initWildlifeStandDown } from "./wildlife-stand-down";
+import { WildlifeSighting, initWildlifeSighting } from "./wildlife-sighting";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -51,6 +58,7 @@ export { DewateringShift, GeotextileTube, Haul, HaulSite, SedimentSample, TubeFi
 export { FLOW_UNITS } from "./dewatering-shift";
 export { TUBE_STATUSES, type TubeStatus } from "./geotextile-tube";
 export { HAUL_SITE_KINDS } from "./haul-site";
+export { WaterQualitySettings, TurbidityRuleRecord, MonitoringStation, WaterQualityReading, StopWorkEvent, WildlifeStandDown, WildlifeSighting };
 export type { DiveTeamMember } from "./dive-team";
 
 let initialised: Sequelize | undefined;
@@ -93,6 +101,13 @@ export function initModels(): Sequelize {
   initHaulSite(sequelize);
   initHaul(sequelize);
   initSedimentSample(sequelize);
+  initWaterQualitySettings(sequelize);
+  initTurbidityRule(sequelize);
+  initMonitoringStation(sequelize);
+  initWaterQualityReading(sequelize);
+  initStopWorkEvent(sequelize);
+  initWildlifeStandDown(sequelize);
+  initWildlifeSighting(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -186,6 +201,26 @@ export function initModels(): Sequelize {
   SedimentSample.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   SedimentSample.belongsTo(Zone, { foreignKey: "zoneId", as: "zone" });
   SedimentSample.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  // Water quality and wildlife (issue 16).
+  Project.hasOne(WaterQualitySettings, { foreignKey: "projectId", as: "waterQualitySettings" });
+  WaterQualitySettings.belongsTo(User, { foreignKey: "updatedById", as: "updatedBy" });
+  Project.hasMany(TurbidityRuleRecord, { foreignKey: "projectId", as: "turbidityRules" });
+  TurbidityRuleRecord.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
+  Project.hasMany(MonitoringStation, { foreignKey: "projectId", as: "monitoringStations" });
+  MonitoringStation.belongsTo(TurbidityRuleRecord, { foreignKey: "ruleId", as: "rule" });
+  Project.hasMany(WaterQualityReading, { foreignKey: "projectId", as: "waterQualityReadings" });
+  WaterQualityReading.belongsTo(MonitoringStation, { foreignKey: "stationId", as: "station" });
+  WaterQualityReading.belongsTo(TurbidityRuleRecord, { foreignKey: "ruleId", as: "rule" });
+  WaterQualityReading.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  Project.hasMany(StopWorkEvent, { foreignKey: "projectId", as: "stopWorkEvents" });
+  StopWorkEvent.belongsTo(MonitoringStation, { foreignKey: "stationId", as: "station" });
+  StopWorkEvent.belongsTo(WaterQualityReading, { foreignKey: "readingId", as: "reading" });
+  StopWorkEvent.belongsTo(User, { foreignKey: "resumedById", as: "resumedBy" });
+  StopWorkEvent.belongsTo(User, { foreignKey: "notifiedById", as: "notifiedBy" });
+  Project.hasMany(WildlifeStandDown, { foreignKey: "projectId", as: "standDowns" });
+  Project.hasMany(WildlifeSighting, { foreignKey: "projectId", as: "sightings" });
+  WildlifeSighting.belongsTo(WildlifeStandDown, { foreignKey: "standDownId", as: "standDown" });
+  WildlifeSighting.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
 
   initialised = sequelize;
   return sequelize;

@@ -4,6 +4,7 @@ import { CellResult, Dive, DiveTeam, Membership, Project, Survey, User, Zone, in
 import { seedDemoDewatering } from "./demo-dewatering";
 import { seedDemoDiveTeams } from "./demo-dive-teams";
 import { seedDemoSurveys } from "./demo-surveys";
+import { seedDemoWaterQuality } from "./demo-water-quality";
 import { DEMO_PASSWORD, DEMO_PROJECT, DEMO_USERS, demoProjectInput } from "./demo-scenario";
 
 /**
@@ -17,7 +18,8 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
     const surveys = await seedMissingDemoSurveys();
     const dives = await seedDemoDives();
     const dewatering = await seedDemoDewatering();
-    return surveys || dives || dewatering ? "seeded" : "skipped";
+    const waterQuality = await seedDemoWaterQuality();
+    return surveys || dives || dewatering || waterQuality ? "seeded" : "skipped";
   }
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   await sequelize.transaction(async (transaction) => {
@@ -43,6 +45,7 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
   await seedDemoSurveys((message) => console.error(message));
   await seedDemoDives();
   await seedDemoDewatering();
+  await seedDemoWaterQuality();
   return "seeded";
 }
 

@@ -81,12 +81,26 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/share-links", "/api/projects/{project}/share-links", "200 403 403 403 403 200 403 200 401"),
   row("POST", "api/projects/:projectId/share-links", "/api/projects/{project}/share-links", "422 403 403 403 403 422 403 422 401", EMPTY_JSON),
   row("DELETE", "api/projects/:projectId/share-links/:token", "/api/projects/{project}/share-links/no-such-token-0123456789", "404 403 403 403 403 404 403 404 401"),
+  row("GET", "api/projects/:projectId/stop-work", "/api/projects/{project}/stop-work", "200 200 200 200 200 200 200 200 401"),
+  // Resuming work: the manager or the resource monitor ({} has no note: 422 before the event is looked up).
+  row("POST", "api/projects/:projectId/stop-work/:eventId/notification", "/api/projects/{project}/stop-work/999999999/notification", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
+  row("POST", "api/projects/:projectId/stop-work/:eventId/resume", "/api/projects/{project}/stop-work/999999999/resume", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/surveys", "/api/projects/{project}/surveys", "200 200 200 200 200 200 200 200 401"),
   // A JSON body where the upload takes multipart: 415 for those who may upload.
   row("POST", "api/projects/:projectId/surveys", "/api/projects/{project}/surveys", "415 415 403 403 403 403 403 415 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "200 200 200 200 200 200 200 200 401"),
   row("DELETE", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("PATCH", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // Water quality: readings by the manager, the dewatering operator and the resource monitor; stations and rules by the manager.
+  row("GET", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "422 403 403 422 422 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/water-quality/rules", "/api/projects/{project}/water-quality/rules", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/water-quality/rules", "/api/projects/{project}/water-quality/rules", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/water-quality/stations", "/api/projects/{project}/water-quality/stations", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/water-quality/stations", "/api/projects/{project}/water-quality/stations", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // Wildlife sightings: whoever watches the water near the work.
+  row("GET", "api/projects/:projectId/wildlife/sightings", "/api/projects/{project}/wildlife/sightings", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/wildlife/sightings", "/api/projects/{project}/wildlife/sightings", "422 403 422 422 422 403 403 422 401", EMPTY_JSON),
 
   row("GET", "dev/mail", "/dev/mail", "403 403 403 403 403 403 403 200 login"),
   row("GET", "dev/mail/:messageId", "/dev/mail/no-such-message", "403 403 403 403 403 403 403 404 login"),
@@ -136,6 +150,12 @@ const MATRIX: Row[] = [
   row("GET", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "200 200 403 403 403 403 403 200 login"),
   // A form that is not multipart, so no file: refused with 400 for those who may upload.
   row("POST", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
+  // Water quality: every member reads it; a bogus form is 400 for a role that may record something there, 403 for one that may not.
+  row("GET", "projects/:projectId/water-quality", "/projects/{project}/water-quality", "200 200 200 200 200 200 200 200 login"),
+  row("POST", "projects/:projectId/water-quality", "/projects/{project}/water-quality", "400 403 400 400 400 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/water-quality/compliance", "/projects/{project}/water-quality/compliance", "200 200 200 200 200 200 200 200 login"),
+  row("GET", "projects/:projectId/water-quality/setup", "/projects/{project}/water-quality/setup", "200 403 403 403 403 403 403 200 login"),
+  row("POST", "projects/:projectId/water-quality/setup", "/projects/{project}/water-quality/setup", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
 
   // A project's resource routes.
   row("GET", "projects/:projectId/map/style.json", "/projects/{project}/map/style.json", "200 200 200 200 200 200 200 200 login"),
@@ -143,6 +163,7 @@ const MATRIX: Row[] = [
   row("GET", "projects/:projectId/surveys/imports/:jobId/problems.csv", "/projects/{project}/surveys/imports/999999999/problems.csv", "404 404 403 403 403 403 403 404 login"),
   row("GET", "projects/:projectId/surveys/imports/:jobId/progress", "/projects/{project}/surveys/imports/999999999/progress", "404 404 403 403 403 403 403 404 login"),
   row("POST", "projects/:projectId/surveys/upload", "/projects/{project}/surveys/upload", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
+  row("GET", "projects/:projectId/water-quality/readings.csv", "/projects/{project}/water-quality/readings.csv", "200 200 200 200 200 200 200 200 login"),
 
   row("GET", "reset-password/:token", "/reset-password/no-such-token", "200 200 200 200 200 200 200 200 200"),
   row("POST", "reset-password/:token", "/reset-password/no-such-token", "400 400 400 400 400 400 400 400 400", { form: { password: "", confirm: "" } }),

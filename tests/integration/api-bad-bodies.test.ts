@@ -6,10 +6,11 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, GeotextileTube, Haul, HaulSite, ImportJob, SedimentSample, ShareLink, SignInSession, Sounding, Survey, SurveySnapshot, TubeFill } from "~/lib/db.server";
+import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, GeotextileTube, Haul, HaulSite, ImportJob, MonitoringStation, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, WaterQualityReading, WildlifeSighting, WildlifeStandDown } from "~/lib/db.server";
 import { stagingDirectory } from "~/lib/import/stage-upload.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { createShareLink } from "~/models/share-links.server";
+import { createRule, createStation, recordReading } from "~/models/water-quality.server";
 import { DEMO_DIR, makeDemoSiteProject, postSurvey } from "./import-helpers";
 import { ORIGIN, makeUser, requestAs } from "./helpers";
 import { createApiToken } from "~/lib/auth/api-token.server";
@@ -44,6 +45,7 @@ let liveToken: string;
 let adminToken: string;
 let accountId: number;
 let tubeId: number;
+let stopWorkId: number;
 const projectParams = () => ({ projectId: String(site.project.id) });
 const base = () => `/api/projects/${site.project.id}`;
 
@@ -55,6 +57,9 @@ const base = () => `/api/projects/${site.project.id}`;
 // Project, Zone, CellResult, SurveySnapshot, AuditEvent; an account (the site admin) → User,
 // SignInSession, AuditEvent; dewatering shifts, tubes and fills → DewateringShift, GeotextileTube,
 // TubeFill, AuditEvent; hauls → Haul, AuditEvent; sediment samples → SedimentSample, AuditEvent;
+// SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
+// TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
+// notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
 // the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
@@ -76,6 +81,18 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/surveys", method: "POST", url: () => `${base()}/surveys`, params: projectParams },
   { route: "api/projects/:projectId/surveys/:surveyId", method: "DELETE", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
   { route: "api/projects/:projectId/surveys/:surveyId", method: "PATCH", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
+  { route: "api/projects/:projectId/water-quality/stations", method: "POST", url: () => `${base()}/water-quality/stations`, params: projectParams },
+  { route: "api/projects/:projectId/water-quality/rules", method: "POST", url: () => `${base()}/water-quality/rules`, params: projectParams },
+  { route: "api/projects/:projectId/water-quality/readings", method: "POST", url: () => `${base()}/water-quality/readings`, params: projectParams },
+  {
+    route: "api/projects/:projectId/stop-work/:eventId/notification", method: "POST",
+    url: () => `${base()}/stop-work/${stopWorkId}/notification`, params: () => ({ ...projectParams(), eventId: String(stopWorkId) }),
+  },
+  {
+    route: "api/projects/:projectId/stop-work/:eventId/resume", method: "POST",
+    url: () => `${base()}/stop-work/${stopWorkId}/resume`, params: () => ({ ...projectParams(), eventId: String(stopWorkId) }),
+  },
+  { route: "api/projects/:projectId/wildlife/sightings", method: "POST", url: () => `${base()}/wildlife/sightings`, params: projectParams },
   // GET-only routes: their action answers 405 to every body.
   { route: "api/admin/users", method: "POST", url: () => "/api/admin/users", params: () => ({}), token: () => adminToken },
   { route: "api/projects/:projectId/bands", method: "POST", url: () => `${base()}/bands`, params: projectParams },
@@ -86,6 +103,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/quantities.csv", method: "POST", url: () => `${base()}/quantities.csv`, params: projectParams },
   { route: "api/projects/:projectId/quantities.geojson", method: "POST", url: () => `${base()}/quantities.geojson`, params: projectParams },
   { route: "api/projects/:projectId/reconciliation", method: "POST", url: () => `${base()}/reconciliation`, params: projectParams },
+  { route: "api/projects/:projectId/stop-work", method: "POST", url: () => `${base()}/stop-work`, params: projectParams },
   { route: "api/*", method: "POST", url: () => "/api/no-such-thing", params: () => ({ "*": "no-such-thing" }) },
 ];
 
@@ -175,6 +193,14 @@ async function snapshot() {
     importJobs: await ImportJob.count({ where: { projectId } }),
     columnMappings: await ColumnMapping.count({ where: { projectId } }),
     auditEvents: await AuditEvent.count({ where: { projectId } }),
+    monitoringStations: await MonitoringStation.count({ where: { projectId } }),
+    turbidityRules: await TurbidityRuleRecord.count({ where: { projectId } }),
+    waterQualityReadings: await WaterQualityReading.count({ where: { projectId } }),
+    stopWorkEvents: await StopWorkEvent.count({ where: { projectId } }),
+    resumedStopWork: await StopWorkEvent.count({ where: { projectId, resumedAt: { [Op.ne]: null } } }),
+    notifiedStopWork: await StopWorkEvent.count({ where: { projectId, agencyNotifiedAt: { [Op.ne]: null } } }),
+    sightings: await WildlifeSighting.count({ where: { projectId } }),
+    standDowns: await WildlifeStandDown.count({ where: { projectId } }),
     projects: await Project.count(),
     projectRow: JSON.stringify((await Project.findByPk(projectId, { raw: true }))!),
     zones: await Zone.count(),
@@ -208,6 +234,13 @@ beforeAll(async () => {
   accountId = account.id;
   await requestAs(accountId, "/projects");
   liveToken = (await createShareLink(presentProject(site.project), manager, { name: "Live link", publicText: "" }, ORIGIN, null)).token;
+  // An open stop-work event (an exceedance with no resample yet), so resume bodies reach a real event.
+  const view = presentProject(site.project);
+  await createRule(view, manager, { kind: "above-background", limit: 29, inclusive: true, pairingWindowMinutes: 60, notifyWithinHours: 24, source: "Test permit, condition 1" });
+  await createStation(view, manager, { name: "Background", kind: "background" });
+  await createStation(view, manager, { name: "Compliance", kind: "compliance" });
+  await recordReading(view, { id: site.users.manager, name: "Manager" } as never, { station: "Background", takenAt: "2026-11-04T09:00:00-05:00", value: 5, unit: "NTU" });
+  stopWorkId = (await recordReading(view, { id: site.users.manager, name: "Manager" } as never, { station: "Compliance", takenAt: "2026-11-04T09:20:00-05:00", value: 40, unit: "NTU" })).stopWork!.id;
 }, 60_000);
 
 describe("bad bodies to every mutating API route", () => {

@@ -19,12 +19,14 @@ const CAUTION =
   "Caution: this plan is information for the dive supervisor. The project's dive safety plan, the supervisor's dive plan, the governing diving standard, the permit conditions and licensed practice decide every dive. No-decompression figures come from the US Navy air table as recalled; verify against the current US Navy Diving Manual.";
 
 /** Assigns the selected cells to a date, a dive team and a hose, with notes. */
-export function AssignPanel({ projectId, selectedLabels, confirmedLabels, teams, minTeamSize, onAssigned }: {
+export function AssignPanel({ projectId, selectedLabels, confirmedLabels, teams, minTeamSize, workStopped, onAssigned }: {
   projectId: number;
   selectedLabels: string[];
   confirmedLabels: string[];
   teams: TeamOption[];
   minTeamSize: number;
+  /** Set while a stop-work event or a stand-down is open: said above the form. */
+  workStopped?: string | null;
   onAssigned: (date: string) => void;
 }) {
   const tomorrow = new Date(Date.now() + 86_400_000).toISOString().slice(0, 10);
@@ -76,6 +78,7 @@ export function AssignPanel({ projectId, selectedLabels, confirmedLabels, teams,
   return (
     <form onSubmit={submit} aria-label="Assign cells" className="space-y-2 text-sm">
       <h3 className="text-base font-semibold">Assign {selectedLabels.length} selected cell(s)</h3>
+      {workStopped ? <p role="alert" data-testid="assign-work-stopped" className="rounded border-2 border-danger bg-[#fdecec] p-2 font-semibold text-danger">{workStopped}</p> : null}
       <p className="figures break-words text-muted" data-testid="selected-cells">{selectedLabels.join(", ") || "Select cells: click, shift-click, or shift-drag a box."}</p>
       <p role="note" className="rounded border border-caution bg-[#fff7e8] p-2 text-caution">{CAUTION}</p>
       <label className="block">Work date <input type="date" required value={date} onChange={(event) => setDate(event.target.value)} className="ml-2 rounded border border-line px-2 py-1" /></label>

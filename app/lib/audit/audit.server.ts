@@ -45,6 +45,14 @@ export const AUDIT_ACTIONS = {
   haulRecorded: "haul-recorded",
   sedimentSampleRecorded: "sediment-sample-recorded",
   dewateringSettingsChanged: "dewatering-settings-changed",
+  waterQualityConfigured: "water-quality-configured",
+  turbidityRuleAdded: "turbidity-rule-added",
+  monitoringStationAdded: "monitoring-station-added",
+  waterQualityReadingRecorded: "water-quality-reading-recorded",
+  stopWorkOpened: "stop-work-opened",
+  stopWorkAgencyNotified: "stop-work-agency-notified",
+  stopWorkResumed: "stop-work-resumed",
+  wildlifeSightingRecorded: "wildlife-sighting-recorded",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

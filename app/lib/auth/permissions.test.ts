@@ -5,11 +5,11 @@ import { ROLES, type Role } from "./roles";
 // The expected table, written out by hand from the product's roles (DESIGN.md, "Who uses it"), not
 // generated from PERMISSIONS: a wrong entry in the table fails here.
 const EXPECTED: Record<Role, Action[]> = {
-  manager: ["project.read", "quantities.read", "quantities.sign", "members.manage", "audit.read", "project.configure", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "dewatering.log", "samples.record", "share-links.manage"],
+  manager: ["project.read", "quantities.read", "quantities.sign", "members.manage", "audit.read", "project.configure", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "dewatering.log", "samples.record", "water-quality.record", "water-quality.configure", "stop-work.resume", "wildlife.record", "share-links.manage"],
   surveyor: ["project.read", "quantities.read", "surveys.import"],
-  "dive-supervisor": ["project.read", "quantities.read", "plans.assign", "dives.log"],
-  dewatering: ["project.read", "dewatering.log"],
-  "resource-monitor": ["project.read", "samples.record"],
+  "dive-supervisor": ["project.read", "quantities.read", "plans.assign", "dives.log", "wildlife.record"],
+  dewatering: ["project.read", "dewatering.log", "water-quality.record", "wildlife.record"],
+  "resource-monitor": ["project.read", "samples.record", "water-quality.record", "stop-work.resume", "wildlife.record"],
   outreach: ["project.read", "share-links.manage"],
   viewer: ["project.read", "quantities.read"],
 };

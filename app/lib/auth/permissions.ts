@@ -41,6 +41,23 @@ export const PERMISSIONS = {
   "dewatering.log": ["manager", "dewatering"],
   /** Sediment samples' lab results (dry bulk density, N, P), which turn surveyed volume into mass. */
   "samples.record": ["manager", "resource-monitor"],
+  /**
+   * Water quality (the permit's turbidity monitoring). The dewatering operator or the resource
+   * monitor takes the readings and the manager answers for them, so all three record readings;
+   * the manager alone sets the stations, the permit's rules and the sampling routine. A stop-work
+   * event closes when a manager or the monitor records the resumption (and the agency notice):
+   * the operator whose discharge caused it does not clear it alone. Every member reads the
+   * readings and the banner: the dive supervisor must know at once when work stops.
+   */
+  "water-quality.record": ["manager", "dewatering", "resource-monitor"],
+  "water-quality.configure": ["manager"],
+  "stop-work.resume": ["manager", "resource-monitor"],
+  /**
+   * Wildlife sightings: whoever watches the water near the work — the dive supervisor at the
+   * intakes, the operator at the outfall, the monitor — and the manager; a sighting within the
+   * shutdown distance starts a stand-down at once.
+   */
+  "wildlife.record": ["manager", "dive-supervisor", "dewatering", "resource-monitor"],
   /** Public progress links. */
   "share-links.manage": ["manager", "outreach"],
 } as const satisfies Record<string, readonly Role[]>;

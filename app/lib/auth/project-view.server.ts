@@ -16,6 +16,8 @@ export interface ProjectView {
   grid: ProjectGrid;
   minTeamSize: number;
   hasWorkLimit: boolean;
+  /** IANA name: local days (a reading's day, today) are counted in it. */
+  timeZone: string;
 }
 
 export function presentProject(project: Project): ProjectView {
@@ -29,6 +31,7 @@ export function presentProject(project: Project): ProjectView {
     grid: projectGrid(project),
     minTeamSize: project.minTeamSize,
     hasWorkLimit: Boolean(project.workLimitGeoJson),
+    timeZone: project.timeZone,
   };
 }
 
