@@ -22,6 +22,13 @@ import { Shoreline, initShoreline } from "./shoreline";
 import { Dive, initDive } from "./dive";
 import { DiveCell, initDiveCell } from "./dive-cell";
 import { SignInSession, initSignInSession } from "./sign-in-session";
+import { Find, initFind } from "./find";
+import { FindCustody, initFindCustody } from "./find-custody";
+import { FindPhoto, initFindPhoto } from "./find-photo";
+import { FindSequence, initFindSequence } from "./find-sequence";
+import { Hold, initHold } from "./hold";
+import { HoldCell, initHoldCell } from "./hold-cell";
+import { HoldNotice, initHoldNotice } from "./hold-notice";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -34,6 +41,8 @@ export { Assignment, DiveTeam, Shoreline };
 export { Dive, DiveCell };
 export { SignInSession };
 export type { DiveTeamMember } from "./dive-team";
+export { Find, FindCustody, FindPhoto, FindSequence, Hold, HoldCell, HoldNotice };
+export { photoExifSchema, type PhotoExif } from "./find-photo";
 
 let initialised: Sequelize | undefined;
 
@@ -66,6 +75,13 @@ export function initModels(): Sequelize {
   initDive(sequelize);
   initDiveCell(sequelize);
   initSignInSession(sequelize);
+  initFind(sequelize);
+  initFindSequence(sequelize);
+  initFindPhoto(sequelize);
+  initFindCustody(sequelize);
+  initHold(sequelize);
+  initHoldCell(sequelize);
+  initHoldNotice(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -130,6 +146,33 @@ export function initModels(): Sequelize {
   ShareLink.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   ShareLink.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
   ShareLink.belongsTo(User, { foreignKey: "revokedById", as: "revokedBy" });
+  // Finds (issue 17): photos, custody, and the holds around cultural finds.
+  Project.hasMany(Find, { foreignKey: "projectId", as: "finds" });
+  Find.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Find.belongsTo(Dive, { foreignKey: "diveId", as: "dive" });
+  Find.belongsTo(DiveTeam, { foreignKey: "teamId", as: "team" });
+  Find.belongsTo(User, { foreignKey: "loggedById", as: "loggedBy" });
+  FindSequence.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Find.hasMany(FindPhoto, { foreignKey: "findId", as: "photos" });
+  FindPhoto.belongsTo(Find, { foreignKey: "findId", as: "find" });
+  FindPhoto.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  FindPhoto.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
+  Find.hasMany(FindCustody, { foreignKey: "findId", as: "custody" });
+  FindCustody.belongsTo(Find, { foreignKey: "findId", as: "find" });
+  FindCustody.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  FindCustody.belongsTo(FindPhoto, { foreignKey: "formPhotoId", as: "formPhoto" });
+  FindCustody.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  Project.hasMany(Hold, { foreignKey: "projectId", as: "holds" });
+  Hold.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Find.hasOne(Hold, { foreignKey: "findId", as: "hold" });
+  Hold.belongsTo(Find, { foreignKey: "findId", as: "find" });
+  Hold.belongsTo(User, { foreignKey: "liftedById", as: "liftedBy" });
+  Hold.hasMany(HoldCell, { foreignKey: "holdId", as: "cells" });
+  HoldCell.belongsTo(Hold, { foreignKey: "holdId", as: "hold" });
+  HoldCell.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Hold.hasMany(HoldNotice, { foreignKey: "holdId", as: "notices" });
+  HoldNotice.belongsTo(Hold, { foreignKey: "holdId", as: "hold" });
+  HoldNotice.belongsTo(User, { foreignKey: "toldById", as: "toldBy" });
 
   initialised = sequelize;
   return sequelize;

@@ -36,6 +36,13 @@ export const AUDIT_ACTIONS = {
   accountProjectCreationChanged: "account-project-creation-changed",
   accountPasswordResetSent: "account-password-reset-sent",
   accountCreated: "account-created",
+  findLogged: "find-logged",
+  findPhotoAdded: "find-photo-added",
+  findCustodyRecorded: "find-custody-recorded",
+  findStatusChanged: "find-status-changed",
+  holdPlaced: "hold-placed",
+  holdNoticeRecorded: "hold-notice-recorded",
+  holdLifted: "hold-lifted",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

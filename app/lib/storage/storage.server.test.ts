@@ -1,6 +1,6 @@
 import { randomBytes } from "node:crypto";
 import { describe, expect, it } from "vitest";
-import { deleteObject, getObject, objectKey, putObject } from "./storage.server";
+import { deleteObject, getObject, listObjectKeys, objectKey, putObject } from "./storage.server";
 
 // Against the fake S3 server `npm test` starts (S3_ENDPOINT): the bytes that go in come back out
 // unchanged, and a removed object is gone.
@@ -13,8 +13,10 @@ describe("object storage", () => {
     const stored = await getObject(key);
     expect(stored?.contentType).toBe("application/octet-stream");
     expect(Buffer.compare(stored!.bytes, bytes)).toBe(0);
+    expect(await listObjectKeys("tests/storage/")).toContain(key);
     await deleteObject(key);
     expect(await getObject(key)).toBeNull();
+    expect(await listObjectKeys("tests/storage/")).not.toContain(key);
     // Deleting again is not an error.
     await deleteObject(key);
   });

@@ -1,4 +1,4 @@
-import { DeleteObjectCommand, GetObjectCommand, NoSuchKey, PutObjectCommand, S3Client, S3ServiceException } from "@aws-sdk/client-s3";
+import { DeleteObjectCommand, GetObjectCommand, ListObjectsV2Command, NoSuchKey, PutObjectCommand, S3Client, S3ServiceException } from "@aws-sdk/client-s3";
 import { getStorageEnv } from "~/lib/settings/env.server";
 
 /**
@@ -65,4 +65,16 @@ export async function getObject(key: string): Promise<StoredObject | null> {
 /** Removes the object; removing one that is not there is not an error (S3's own rule). */
 export async function deleteObject(key: string): Promise<void> {
   await s3().send(new DeleteObjectCommand({ Bucket: getStorageEnv().S3_BUCKET, Key: key }));
+}
+
+/** Every key under a prefix (e.g. a project's "projects/7/"), for housekeeping and checks. */
+export async function listObjectKeys(prefix: string): Promise<string[]> {
+  const keys: string[] = [];
+  let continuationToken: string | undefined;
+  do {
+    const page = await s3().send(new ListObjectsV2Command({ Bucket: getStorageEnv().S3_BUCKET, Prefix: prefix, ContinuationToken: continuationToken }));
+    for (const entry of page.Contents ?? []) if (entry.Key) keys.push(entry.Key);
+    continuationToken = page.IsTruncated ? page.NextContinuationToken : undefined;
+  } while (continuationToken);
+  return keys;
 }
