@@ -44,7 +44,7 @@ const logFind = (who: Role, body: unknown) => postJson(findsAction as never, who
 const errorsOf = async (response: Response) => ((await response.json()) as { errors: Array<{ field?: string; message: string }> }).errors;
 const uploadPhoto = (who: Role, findId: number, bytes: Uint8Array, fileName: string, type = "image/jpeg") => {
   const form = new FormData();
-  form.set("file", new Blob([bytes], { type }), fileName);
+  form.set("file", new Blob([new Uint8Array(bytes)], { type }), fileName);
   return call(photosAction as never, who, `${base()}/finds/${findId}/photos`, { findId: String(findId) }, { method: "POST", body: form });
 };
 const objectsOfProject = () => listObjectKeys(`projects/${projectId}/`);
