@@ -50,6 +50,10 @@ export default [
   route("projects/:projectId", "routes/projects.$projectId.tsx", [
     index("routes/projects.$projectId._index.tsx"),
     route("audit", "routes/projects.$projectId.audit.tsx"),
+    route("finds", "routes/projects.$projectId.finds.tsx"),
+    route("finds/:findId", "routes/projects.$projectId.finds.$findId.tsx"),
+    route("finds/new", "routes/projects.$projectId.finds.new.tsx"),
+    route("holds", "routes/projects.$projectId.holds.tsx"),
     route("map", "routes/projects.$projectId.map.tsx"),
     route("members", "routes/projects.$projectId.members.tsx"),
     route("plans/:date", "routes/projects.$projectId.plans.$date.tsx"),
@@ -61,6 +65,7 @@ export default [
     route("surveys/imports/:jobId", "routes/projects.$projectId.surveys.imports.$jobId.tsx"),
     route("surveys/new", "routes/projects.$projectId.surveys.new.tsx"),
   ]),
+  route("projects/:projectId/finds/:findId/custody-sheet", "routes/projects.$projectId.finds.$findId.custody-sheet.tsx"),
   route("projects/:projectId/map/style.json", "routes/projects.$projectId.map.style[.]json.ts"),
   route("projects/:projectId/quantities/report", "routes/projects.$projectId.quantities.report.tsx"),
   route("projects/:projectId/surveys/imports/:jobId/problems.csv", "routes/projects.$projectId.surveys.imports.$jobId.problems[.]csv.ts"),

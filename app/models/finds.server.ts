@@ -432,3 +432,32 @@ export async function setFindStatus(project: ProjectView, user: UserView, findId
     await recordAudit({ action: AUDIT_ACTIONS.findStatusChanged, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, status: input.status } }, transaction);
   });
 }
+
+/** The latest dives, for the log form's dive picker (a find's cell defaults to its dive's first cell). */
+export async function recentDivesForFinds(project: ProjectView, limit = 40): Promise<Array<{ id: number; label: string; cells: string[] }>> {
+  const dives = await Dive.findAll({
+    where: { projectId: project.id },
+    include: [{ model: DiveTeam, as: "team", attributes: ["name"] }, { association: "cells", attributes: ["label"] }],
+    order: [["diveDate", "DESC"], ["id", "DESC"]],
+    limit,
+  });
+  return dives.map((dive) => ({
+    id: dive.id,
+    label: `${dive.diveDate} · ${dive.team?.name ?? "team"} · ${dive.diverName}`,
+    cells: (dive.cells ?? []).map((cell) => cell.label).sort(),
+  }));
+}
+
+/** Labels of the cells inside the work limit, for the log form's cell list. */
+export async function cellLabelsInside(project: ProjectView): Promise<string[]> {
+  const payload = await getCellsPayload(project);
+  const grid = payload.grid;
+  if (!grid) return [];
+  const labels: string[] = [];
+  payload.status.forEach((code, index) => {
+    if (code < 0) return;
+    const { row, col } = cellRowCol(grid, index);
+    labels.push(cellLabelOf(row, col));
+  });
+  return labels;
+}

@@ -2,17 +2,22 @@ import { NavLink, Outlet } from "react-router";
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { ROLE_LABELS } from "~/lib/auth/roles";
+import { heldCellLabels } from "~/models/holds.server";
 import type { Route } from "./+types/projects.$projectId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project, role } = access;
+  const canReadFinds = can(access, "finds.read");
   return {
     project: { id: project.id, name: project.name },
     roleLabel: role ? ROLE_LABELS[role] : "Site administrator",
     canManageMembers: can(access, "members.manage"),
     canReadAudit: can(access, "audit.read"),
     canConfigure: can(access, "project.configure"),
+    canReadFinds,
+    // Open stop-work events show on every project page (cells only: never the find).
+    heldCellCount: canReadFinds ? (await heldCellLabels(project.id)).length : 0,
   };
 }
 
@@ -33,10 +38,16 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
         <NavLink end to={base} className={linkClass}>Overview</NavLink>
         <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
+        {loaderData.canReadFinds ? <NavLink to={`${base}/finds`} className={linkClass}>Finds</NavLink> : null}
         {loaderData.canManageMembers ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
         {loaderData.canConfigure ? <NavLink to={`${base}/settings`} className={linkClass}>Settings</NavLink> : null}
         {loaderData.canReadAudit ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}
       </nav>
+      {loaderData.heldCellCount > 0 ? (
+        <p role="status" className="mt-3 rounded border border-danger bg-panel px-3 py-2 text-sm text-danger" data-testid="hold-banner">
+          Stop-work hold in force on {loaderData.heldCellCount} cells: they cannot be assigned. <NavLink className="underline" to={`${base}/holds`}>See holds</NavLink>
+        </p>
+      ) : null}
       <div className="mt-6">
         <Outlet />
       </div>

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { cellIndex, cellPolygon, fromGridFrame, type CellGrid } from "../grid/cell-grid";
-import { agenciesToNotify, catalogueNumber, cellsWithinRadius, DEFAULT_HOLD_RADIUS_M, defaultCataloguePrefix, localYear, PERMIT_HOLD_DIAMETER_M } from "./finds";
+import { agenciesToNotify, catalogueNumber, cellsWithinRadius, DEFAULT_HOLD_RADIUS_M, defaultCataloguePrefix, instantToLocalDateTime, localDateTimeToInstant, localYear, PERMIT_HOLD_DIAMETER_M } from "./finds";
 
 const grid: CellGrid = { originX: 1000, originY: 2000, cellSize: 10, rotationDegrees: 0, firstCol: 0, firstRow: 0, cols: 30, rows: 30 };
 const everywhere = () => true;
@@ -87,5 +87,21 @@ describe("the catalogue year", () => {
     // 2027-01-01T03:00Z is still 31 December 2026 in New York (UTC−5 in winter).
     expect(localYear(new Date("2027-01-01T03:00:00Z"), "America/New_York")).toBe(2026);
     expect(localYear(new Date("2027-01-01T03:00:00Z"), "UTC")).toBe(2027);
+  });
+});
+
+describe("project wall-clock times", () => {
+  it("reads a form's local time in the project's zone, across daylight saving", () => {
+    // US Eastern: UTC−4 in July (EDT), UTC−5 after the first Sunday of November (EST); 2026's change is 1 November.
+    expect(localDateTimeToInstant("2026-07-01T10:00", "America/New_York")?.toISOString()).toBe("2026-07-01T14:00:00.000Z");
+    expect(localDateTimeToInstant("2026-11-03T10:42", "America/New_York")?.toISOString()).toBe("2026-11-03T15:42:00.000Z");
+    expect(localDateTimeToInstant("2026-11-03T10:42", "UTC")?.toISOString()).toBe("2026-11-03T10:42:00.000Z");
+    expect(localDateTimeToInstant("2026-02-30T10:00", "UTC")).toBeNull();
+    expect(localDateTimeToInstant("yesterday", "UTC")).toBeNull();
+  });
+  it("writes an instant back as the same wall-clock time (round trip)", () => {
+    for (const local of ["2026-07-01T10:00", "2026-11-03T10:42", "2026-12-31T23:59"]) {
+      expect(instantToLocalDateTime(localDateTimeToInstant(local, "America/New_York")!, "America/New_York")).toBe(local.replace("T", " "));
+    }
   });
 });

@@ -16,6 +16,8 @@ export interface ProjectView {
   grid: ProjectGrid;
   minTeamSize: number;
   hasWorkLimit: boolean;
+  /** IANA zone the project's local days and times are read in. */
+  timeZone: string;
 }
 
 export function presentProject(project: Project): ProjectView {
@@ -29,6 +31,7 @@ export function presentProject(project: Project): ProjectView {
     grid: projectGrid(project),
     minTeamSize: project.minTeamSize,
     hasWorkLimit: Boolean(project.workLimitGeoJson),
+    timeZone: project.timeZone,
   };
 }
 
