@@ -42,6 +42,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const logged = new URL(request.url).searchParams.get("logged") === "1";
   return {
     projectId: project.id, lengthLabel: unitLabel(project.lengthUnit), timeZone: project.timeZone,
+    photoMaxMegabytes: PHOTO_MAX_BYTES / 1024 / 1024,
     canLog: can(access, "finds.log"), seesLocations: can(access, "finds.locations.read"),
     notice: logged ? `Find ${find.catalogueNumber} logged.${find.hold && !find.hold.lifted ? ` A stop-work hold (#${find.hold.id}) now covers ${find.hold.cells.length} cells.` : ""} Add its photos below.` : null,
     find: { ...find, foundAtLocal: local(find.foundAt), custody: find.custody.map((entry) => ({ ...entry, handedAtLocal: local(entry.handedAt) })) },
@@ -169,7 +170,7 @@ export default function FindPage({ loaderData, actionData }: Route.ComponentProp
             <label htmlFor="photo-file" className="block text-sm font-medium">Add a photo</label>
             <p id="photo-reminder" className="text-sm text-caution">Include a scale and the field tag in every photo.</p>
             <input id="photo-file" name="file" type="file" accept="image/jpeg,image/png,image/webp" required aria-describedby="photo-reminder photo-limit" className="block w-full text-sm" />
-            <p id="photo-limit" className="text-xs text-muted">JPEG, PNG or WebP, at most {PHOTO_MAX_BYTES / 1024 / 1024} MB. The stored copy keeps no camera data (no GPS position); the position is kept in the record for those who may see locations.</p>
+            <p id="photo-limit" className="text-xs text-muted">JPEG, PNG or WebP, at most {loaderData.photoMaxMegabytes} MB. The stored copy keeps no camera data (no GPS position); the position is kept in the record for those who may see locations.</p>
             {errors.file ? <p className="text-sm text-danger">{errors.file}</p> : null}
             <SubmitButton pendingLabel="Uploading…">Upload photo</SubmitButton>
           </Form>

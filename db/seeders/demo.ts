@@ -2,6 +2,7 @@ import type { Sequelize } from "sequelize";
 import { hashPassword } from "../../app/lib/auth/password.server";
 import { CellResult, Dive, DiveTeam, Membership, Project, Survey, User, Zone, initModels } from "../models";
 import { seedDemoDiveTeams } from "./demo-dive-teams";
+import { seedDemoFinds } from "./demo-finds";
 import { seedDemoSurveys } from "./demo-surveys";
 import { DEMO_PASSWORD, DEMO_PROJECT, DEMO_USERS, demoProjectInput } from "./demo-scenario";
 
@@ -15,7 +16,8 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
   if ((await User.count()) > 0) {
     const surveys = await seedMissingDemoSurveys();
     const dives = await seedDemoDives();
-    return surveys || dives ? "seeded" : "skipped";
+    const finds = await seedDemoFinds();
+    return surveys || dives || finds ? "seeded" : "skipped";
   }
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   await sequelize.transaction(async (transaction) => {
@@ -40,6 +42,7 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
   // The demo surveys, through the sounding import (issue 4).
   await seedDemoSurveys((message) => console.error(message));
   await seedDemoDives();
+  await seedDemoFinds();
   return "seeded";
 }
 
