@@ -4,7 +4,7 @@ import { UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { cellCentroid, cellIndexAt, cellRowCol, cellLabel as cellLabelOf } from "../../shared/grid/cell-grid";
 import {
-  agenciesToNotify, catalogueNumber, cellsWithinRadius, CUSTODY_PURPOSES, defaultCataloguePrefix, FIND_CATEGORIES, FIND_STATUSES, HOLD_CATEGORIES, localYear,
+  agenciesToNotify, catalogueNumber, cellsWithinRadius, CUSTODY_PURPOSES, defaultCataloguePrefix, FIND_CATEGORIES, FIND_STATUSES, HOLD_CATEGORIES, localYear, sortCellLabels,
   type CustodyPurpose, type FindCategory, type FindStatus,
 } from "../../shared/finds/finds";
 import { convertLength } from "../../shared/units";
@@ -237,7 +237,7 @@ export async function getFind(project: ProjectView, access: Access, findId: numb
     custody: custody.map(custodyView),
   };
   // A hold's cells say where the find is: only for those who may see locations.
-  if (locations && hold) detail.hold = { id: hold.id, cells: (hold.cells ?? []).map((cell) => cell.label).sort(), lifted: hold.liftedAt !== null };
+  if (locations && hold) detail.hold = { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)), lifted: hold.liftedAt !== null };
   return detail;
 }
 
@@ -266,7 +266,7 @@ async function replayOf(projectId: number, key: string | null | undefined): Prom
   const existing = await Find.findOne({ where: { projectId, idempotencyKey: key } });
   if (!existing) return null;
   const hold = await Hold.findOne({ where: { findId: existing.id }, include: [{ model: HoldCell, as: "cells" }] });
-  return { id: existing.id, catalogueNumber: existing.catalogueNumber, ...(hold ? { hold: { id: hold.id, cells: (hold.cells ?? []).map((cell) => cell.label).sort() } } : {}), replayed: true };
+  return { id: existing.id, catalogueNumber: existing.catalogueNumber, ...(hold ? { hold: { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)) } } : {}), replayed: true };
 }
 
 /**
@@ -335,10 +335,11 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
         const [x, y] = raw.position ? [raw.position.x, raw.position.y] : cellCentroid(grid, cell.row, cell.col);
         const radius = convertLength(projectRow.holdRadiusM, "m", project.lengthUnit);
         const cells = cellsWithinRadius(grid, x, y, radius, (index) => payload.status[index] >= 0);
-        const placed = await Hold.create({ projectId: project.id, findId: find.id, radiusM: projectRow.holdRadiusM, radiusSource: projectRow.holdRadiusSource, placedAt: new Date(), liftedAt: null, liftedById: null, authorisedBy: null, liftNote: null }, { transaction });
+        // The hold runs from the moment the find came up, which is when work there stopped.
+        const placed = await Hold.create({ projectId: project.id, findId: find.id, radiusM: projectRow.holdRadiusM, radiusSource: projectRow.holdRadiusSource, placedAt: foundAt, liftedAt: null, liftedById: null, authorisedBy: null, liftNote: null }, { transaction });
         await HoldCell.bulkCreate(cells.map((held) => ({ holdId: placed.id, projectId: project.id, row: held.row, col: held.col, label: held.label })), { transaction });
         await HoldNotice.bulkCreate(agenciesToNotify(raw.category).map((agency) => ({ holdId: placed.id, agency, toldAt: null, toldById: null, note: null })), { transaction });
-        hold = { id: placed.id, cells: cells.map((held) => held.label).sort() };
+        hold = { id: placed.id, cells: sortCellLabels(cells.map((held) => held.label)) };
         await recordAudit({ action: AUDIT_ACTIONS.holdPlaced, projectId: project.id, userId: user.id, ip, detail: { holdId: placed.id, findId: find.id, cellCount: cells.length, radiusM: projectRow.holdRadiusM } }, transaction);
       }
       await recordAudit({ action: AUDIT_ACTIONS.findLogged, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, catalogueNumber: number, category: raw.category } }, transaction);
@@ -444,7 +445,7 @@ export async function recentDivesForFinds(project: ProjectView, limit = 40): Pro
   return dives.map((dive) => ({
     id: dive.id,
     label: `${dive.diveDate} · ${dive.team?.name ?? "team"} · ${dive.diverName}`,
-    cells: (dive.cells ?? []).map((cell) => cell.label).sort(),
+    cells: sortCellLabels((dive.cells ?? []).map((cell) => cell.label)),
   }));
 }
 

@@ -1,6 +1,6 @@
 import { Op, type Transaction } from "sequelize";
 import { z } from "zod";
-import { HOLD_AGENCIES, type FindCategory, type HoldAgency } from "../../shared/finds/finds";
+import { HOLD_AGENCIES, sortCellLabels, type FindCategory, type HoldAgency } from "../../shared/finds/finds";
 import { Find, getSequelize, Hold, HoldCell, HoldNotice } from "~/lib/db.server";
 import { NotFoundError, ValidationError } from "~/lib/errors";
 import { can, type Access } from "~/lib/auth/permissions";
@@ -53,7 +53,7 @@ export async function listHolds(project: ProjectView, access: Access): Promise<H
   });
   const locations = can(access, "finds.locations.read");
   return holds.map((hold) => {
-    const view: HoldView = { id: hold.id, cells: (hold.cells ?? []).map((cell) => cell.label).sort(), placedAt: hold.placedAt.toISOString(), lifted: hold.liftedAt !== null };
+    const view: HoldView = { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)), placedAt: hold.placedAt.toISOString(), lifted: hold.liftedAt !== null };
     if (!locations) return view;
     return {
       ...view,
@@ -114,5 +114,5 @@ export async function heldCellLabels(projectId: number): Promise<string[]> {
     include: [{ model: Hold, as: "hold", where: { liftedAt: null }, attributes: [] }],
     attributes: ["label"],
   });
-  return [...new Set(rows.map((row) => row.label))].sort();
+  return sortCellLabels(new Set(rows.map((row) => row.label)));
 }

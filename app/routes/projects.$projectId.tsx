@@ -44,7 +44,7 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
         {loaderData.canReadAudit ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}
       </nav>
       {loaderData.heldCellCount > 0 ? (
-        <p role="status" className="mt-3 rounded border border-danger bg-panel px-3 py-2 text-sm text-danger" data-testid="hold-banner">
+        <p className="mt-3 rounded border border-danger bg-panel px-3 py-2 text-sm text-danger" data-testid="hold-banner">
           Stop-work hold in force on {loaderData.heldCellCount} cells: they cannot be assigned. <NavLink className="underline" to={`${base}/holds`}>See holds</NavLink>
         </p>
       ) : null}

@@ -150,3 +150,8 @@ export function instantToLocalDateTime(instant: Date, timeZone: string): string 
   const local = new Date(instant.getTime() + offsetMinutes(instant, timeZone) * 60_000);
   return local.toISOString().slice(0, 16).replace("T", " ");
 }
+
+/** Cell labels in reading order for people: "A9" before "A10". */
+export function sortCellLabels(labels: Iterable<string>): string[] {
+  return [...labels].sort((a, b) => a.localeCompare(b, "en", { numeric: true }));
+}

@@ -63,6 +63,16 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/cells/:label", "/api/projects/{project}/cells/{cell}", "200 200 200 200 200 200 200 200 401"),
   row("GET", "api/projects/:projectId/dives", `/api/projects/{project}/dives?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/dives", "/api/projects/{project}/dives", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  // Finds: outreach sees nothing of finds; the monitor and the manager log them ({} and unknown ids: 422 or 404).
+  row("GET", "api/projects/:projectId/finds", "/api/projects/{project}/finds", "200 200 200 200 200 403 200 200 401"),
+  row("POST", "api/projects/:projectId/finds", "/api/projects/{project}/finds", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/finds/:findId", "/api/projects/{project}/finds/999999999", "404 404 404 404 404 403 404 404 401"),
+  row("POST", "api/projects/:projectId/finds/:findId/custody", "/api/projects/{project}/finds/999999999/custody", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
+  // A JSON body where the photo upload takes multipart: 415 for those who may add photos.
+  row("POST", "api/projects/:projectId/finds/:findId/photos", "/api/projects/{project}/finds/999999999/photos", "415 403 403 403 415 403 403 415 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/finds/:findId/photos/:photoId", "/api/projects/{project}/finds/999999999/photos/999999999", "404 404 404 404 404 403 404 404 401"),
+  row("GET", "api/projects/:projectId/holds", "/api/projects/{project}/holds", "200 200 200 200 200 403 200 200 401"),
+  row("POST", "api/projects/:projectId/holds/:holdId/lift", "/api/projects/{project}/holds/999999999/lift", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/progress", "/api/projects/{project}/progress", "200 200 200 200 200 200 200 200 401"),
   row("GET", "api/projects/:projectId/quantities.csv", "/api/projects/{project}/quantities.csv", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/quantities.geojson", "/api/projects/{project}/quantities.geojson", "200 200 200 403 403 403 200 200 401"),
@@ -95,6 +105,13 @@ const MATRIX: Row[] = [
   // A project's pages (the layout and its index share the project's URL).
   row("GET", "projects/:projectId", "/projects/{project}", "200 200 200 200 200 200 200 200 login"),
   row("GET", "projects/:projectId/audit", "/projects/{project}/audit", "200 403 403 403 403 403 403 200 login"),
+  row("GET", "projects/:projectId/finds", "/projects/{project}/finds", "200 200 200 200 200 403 200 200 login"),
+  row("GET", "projects/:projectId/finds/:findId", "/projects/{project}/finds/999999999", "404 404 404 404 404 403 404 404 login"),
+  row("POST", "projects/:projectId/finds/:findId", "/projects/{project}/finds/999999999", "400 403 403 403 400 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/finds/new", "/projects/{project}/finds/new", "200 403 403 403 200 403 403 200 login"),
+  row("POST", "projects/:projectId/finds/new", "/projects/{project}/finds/new", "400 403 403 403 400 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/holds", "/projects/{project}/holds", "200 200 200 200 200 403 200 200 login"),
+  row("POST", "projects/:projectId/holds", "/projects/{project}/holds", "400 403 403 403 400 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/map", "/projects/{project}/map", "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/map", "/projects/{project}/map", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/members", "/projects/{project}/members", "200 403 403 403 403 403 403 200 login"),
@@ -116,6 +133,7 @@ const MATRIX: Row[] = [
   row("POST", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
 
   // A project's resource routes.
+  row("GET", "projects/:projectId/finds/:findId/custody-sheet", "/projects/{project}/finds/999999999/custody-sheet", "404 404 404 404 404 403 404 404 login"),
   row("GET", "projects/:projectId/map/style.json", "/projects/{project}/map/style.json", "200 200 200 200 200 200 200 200 login"),
   row("GET", "projects/:projectId/quantities/report", "/projects/{project}/quantities/report", "200 200 200 403 403 403 200 200 login"),
   row("GET", "projects/:projectId/surveys/imports/:jobId/problems.csv", "/projects/{project}/surveys/imports/999999999/problems.csv", "404 404 403 403 403 403 403 404 login"),
