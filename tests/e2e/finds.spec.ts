@@ -36,6 +36,7 @@ test("a cultural find: logged with a photo on a phone, held on the map, hidden w
   await monitor.getByLabel("E-mail").fill(DEMO_ACCOUNTS["resource-monitor"]);
   await monitor.getByLabel("Password").fill("firmsand-demo");
   await monitor.getByRole("button", { name: "Sign in" }).click();
+  await monitor.waitForURL(/\/projects$/);
   await monitor.goto(`/projects/${projectId}/finds/new`);
   // Human remains bring the protocol at once, before anything is saved.
   await monitor.getByLabel("Category").selectOption("human-remains");
