@@ -21,6 +21,7 @@ export default [
   route("api/projects/:projectId/cells/:label", "routes/api.projects.$projectId.cells.$label.ts"),
   route("api/projects/:projectId/dives", "routes/api.projects.$projectId.dives.ts"),
   route("api/projects/:projectId/finds", "routes/api.projects.$projectId.finds.ts"),
+  route("api/projects/:projectId/finds.csv", "routes/api.projects.$projectId.finds[.]csv.ts"),
   route("api/projects/:projectId/finds/:findId", "routes/api.projects.$projectId.finds.$findId.ts"),
   route("api/projects/:projectId/finds/:findId/custody", "routes/api.projects.$projectId.finds.$findId.custody.ts"),
   route("api/projects/:projectId/finds/:findId/photos", "routes/api.projects.$projectId.finds.$findId.photos.ts"),

@@ -4,10 +4,12 @@ import { UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { cellCentroid, cellIndexAt, cellRowCol, cellLabel as cellLabelOf } from "../../shared/grid/cell-grid";
 import {
-  agenciesToNotify, catalogueNumber, cellsWithinRadius, CUSTODY_PURPOSES, defaultCataloguePrefix, FIND_CATEGORIES, FIND_STATUSES, HOLD_CATEGORIES, localYear, sortCellLabels,
+  agenciesToNotify, catalogueNumber, cellsWithinRadius, CUSTODY_PURPOSES, defaultCataloguePrefix, FIND_CATEGORIES, FIND_CATEGORY_LABELS, FIND_STATUSES, FIND_STATUS_LABELS,
+  HOLD_CATEGORIES, instantToLocalDateTime, localYear, sortCellLabels,
   type CustodyPurpose, type FindCategory, type FindStatus,
 } from "../../shared/finds/finds";
-import { convertLength } from "../../shared/units";
+import { convertLength, unitLabel } from "../../shared/units";
+import { csvLine } from "../../shared/csv-safe";
 import { Dive, DiveTeam, Find, FindCustody, FindPhoto, FindSequence, getSequelize, Hold, HoldCell, HoldNotice, Project, type PhotoExif } from "~/lib/db.server";
 import { NotFoundError, ValidationError } from "~/lib/errors";
 import { can, type Access } from "~/lib/auth/permissions";
@@ -461,4 +463,38 @@ export async function cellLabelsInside(project: ProjectView): Promise<string[]> 
     labels.push(cellLabelOf(row, col));
   });
   return labels;
+}
+
+/**
+ * The catalogue with locations as CSV, for the lab: only for roles that may see locations (the
+ * route asks the table), and every export is written to the audit log. Text is formula-safe.
+ */
+export async function findsCatalogueCsv(project: ProjectView, access: Access, user: UserView, ip: string | null = null): Promise<string> {
+  const finds = await listFinds(project, access);
+  const details = await Find.findAll({ where: { projectId: project.id }, attributes: ["id", "material", "taxon", "element", "condition", "finder", "fieldTag", "accessionNumber"] });
+  const byId = new Map(details.map((find) => [find.id, find]));
+  const length = unitLabel(project.lengthUnit);
+  const lines = [
+    csvLine(["Firmsand finds catalogue: CONFIDENTIAL site locations"]),
+    csvLine(["Project", project.name]),
+    csvLine(["Coordinate reference system", project.crs]),
+    csvLine(["Times", `local, ${project.timeZone}`]),
+    csvLine(["Generated", new Date().toISOString()]),
+    "\r\n",
+    csvLine([
+      "catalogue number", "category", "description", "material", "count", "taxon", "element", "condition", "cell", "position x", "position y",
+      `depth below surface (${length})`, `depth in muck (${length})`, "found at", "finder", "field tag", "status", "accession number", "held by", "place",
+    ]),
+    ...finds.map((find) => {
+      const more = byId.get(find.id);
+      return csvLine([
+        find.catalogueNumber, FIND_CATEGORY_LABELS[find.category], find.description, more?.material ?? "", find.count, more?.taxon ?? null, more?.element ?? null, more?.condition ?? "",
+        find.cell ?? null, find.position?.x ?? null, find.position?.y ?? null, find.depthBelowSurface ?? null, find.depthInMuck ?? null,
+        instantToLocalDateTime(new Date(find.foundAt), project.timeZone), more?.finder ?? "", more?.fieldTag ?? "", FIND_STATUS_LABELS[find.status],
+        more?.accessionNumber ?? null, find.currentHolder.name, find.currentHolder.place,
+      ], 2);
+    }),
+  ];
+  await recordAudit({ action: AUDIT_ACTIONS.findsExported, projectId: project.id, userId: user.id, ip, detail: { format: "csv", findCount: finds.length } });
+  return lines.join("");
 }

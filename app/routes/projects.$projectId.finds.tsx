@@ -35,6 +35,7 @@ export default function FindsCatalogue({ loaderData }: Route.ComponentProps) {
         <h2 className="text-lg font-semibold">Finds catalogue</h2>
         <div className="flex flex-wrap gap-2">
           <Link to={`${base}/holds`} className="rounded border border-line bg-panel px-4 py-2 text-sm hover:bg-paper">Stop-work holds</Link>
+          {seesLocations ? <a href={`/api/projects/${projectId}/finds.csv`} className="rounded border border-line bg-panel px-4 py-2 text-sm hover:bg-paper">Catalogue CSV (confidential)</a> : null}
           {loaderData.canLog ? <Link to={`${base}/finds/new`} className="rounded bg-lagoon px-4 py-2 font-medium text-white hover:bg-lagoon-dark">Log a find</Link> : null}
         </div>
       </div>

@@ -66,6 +66,7 @@ const MATRIX: Row[] = [
   // Finds: outreach sees nothing of finds; the monitor and the manager log them ({} and unknown ids: 422 or 404).
   row("GET", "api/projects/:projectId/finds", "/api/projects/{project}/finds", "200 200 200 200 200 403 200 200 401"),
   row("POST", "api/projects/:projectId/finds", "/api/projects/{project}/finds", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/finds.csv", "/api/projects/{project}/finds.csv", "200 403 403 403 200 403 403 200 401"),
   row("GET", "api/projects/:projectId/finds/:findId", "/api/projects/{project}/finds/999999999", "404 404 404 404 404 403 404 404 401"),
   row("POST", "api/projects/:projectId/finds/:findId/custody", "/api/projects/{project}/finds/999999999/custody", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   // A JSON body where the photo upload takes multipart: 415 for those who may add photos.

@@ -85,6 +85,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/bands", method: "POST", url: () => `${base()}/bands`, params: projectParams },
   { route: "api/projects/:projectId/cells", method: "POST", url: () => `${base()}/cells`, params: projectParams },
   { route: "api/projects/:projectId/cells/:label", method: "POST", url: () => `${base()}/cells/B7`, params: () => ({ ...projectParams(), label: "B7" }) },
+  { route: "api/projects/:projectId/finds.csv", method: "POST", url: () => `${base()}/finds.csv`, params: projectParams },
   { route: "api/projects/:projectId/finds/:findId", method: "POST", url: () => `${base()}/finds/${findId}`, params: () => ({ ...projectParams(), findId: String(findId) }) },
   { route: "api/projects/:projectId/finds/:findId/photos/:photoId", method: "POST", url: () => `${base()}/finds/${findId}/photos/1`, params: () => ({ ...projectParams(), findId: String(findId), photoId: "1" }) },
   { route: "api/projects/:projectId/holds", method: "POST", url: () => `${base()}/holds`, params: projectParams },

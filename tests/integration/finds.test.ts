@@ -11,6 +11,7 @@ import { action as assignAction } from "~/routes/api.projects.$projectId.assignm
 import { loader as cellsLoader } from "~/routes/api.projects.$projectId.cells";
 import { action as findsAction, loader as findsLoader } from "~/routes/api.projects.$projectId.finds";
 import { loader as findLoader } from "~/routes/api.projects.$projectId.finds.$findId";
+import { loader as csvLoader } from "~/routes/api.projects.$projectId.finds[.]csv";
 import { action as custodyAction } from "~/routes/api.projects.$projectId.finds.$findId.custody";
 import { action as photosAction } from "~/routes/api.projects.$projectId.finds.$findId.photos";
 import { loader as photoLoader } from "~/routes/api.projects.$projectId.finds.$findId.photos.$photoId";
@@ -290,6 +291,25 @@ describe("logging a cultural find", () => {
       expect((await uploadPhoto("viewer", findId, await photoWithGps(), "a.jpg")).status).toBe(403);
       expect((await uploadPhoto("dive-supervisor", findId, await photoWithGps(), "a.jpg")).status).toBe(403);
     });
+  });
+});
+
+describe("the catalogue CSV with locations", () => {
+  it("is for location roles only, logged in the audit log, and formula-safe", async () => {
+    expect((await logFind("resource-monitor", { category: "modern-debris", description: "=HYPERLINK(\"x\")", foundAt: "2031-06-11T08:00:00-04:00", cell: inside[1] })).status).toBe(201);
+    expect((await call(csvLoader as never, "viewer", `${base()}/finds.csv`)).status).toBe(403);
+    expect((await call(csvLoader as never, "dive-supervisor", `${base()}/finds.csv`)).status).toBe(403);
+    const before = await AuditEvent.count({ where: { projectId, action: "finds-exported" } });
+    const response = await call(csvLoader as never, "resource-monitor", `${base()}/finds.csv`);
+    expect(response.status).toBe(200);
+    expect(response.headers.get("Content-Type")).toContain("text/csv");
+    const text = await response.text();
+    expect(text).toContain("TFS-2031-0001");
+    expect(text).toContain(`,"${inside[1]}",`);
+    // OWASP CSV injection guidance: a cell starting with "=" is prefixed so no spreadsheet runs it.
+    expect(text).not.toMatch(/(^|,)"?=HYPERLINK/m);
+    expect(text).toContain(`"'=HYPERLINK(""x"")"`);
+    expect(await AuditEvent.count({ where: { projectId, action: "finds-exported" } })).toBe(before + 1);
   });
 });
 

@@ -40,6 +40,7 @@ export const AUDIT_ACTIONS = {
   findPhotoAdded: "find-photo-added",
   findCustodyRecorded: "find-custody-recorded",
   findStatusChanged: "find-status-changed",
+  findsExported: "finds-exported",
   holdPlaced: "hold-placed",
   holdNoticeRecorded: "hold-notice-recorded",
   holdLifted: "hold-lifted",
