@@ -12,6 +12,7 @@ import { loader as cellsLoader } from "~/routes/api.projects.$projectId.cells";
 import { action as findsAction, loader as findsLoader } from "~/routes/api.projects.$projectId.finds";
 import { loader as findLoader } from "~/routes/api.projects.$projectId.finds.$findId";
 import { loader as csvLoader } from "~/routes/api.projects.$projectId.finds[.]csv";
+import { action as projectAction } from "~/routes/api.projects.$projectId";
 import { action as custodyAction } from "~/routes/api.projects.$projectId.finds.$findId.custody";
 import { action as photosAction } from "~/routes/api.projects.$projectId.finds.$findId.photos";
 import { loader as photoLoader } from "~/routes/api.projects.$projectId.finds.$findId.photos.$photoId";
@@ -310,6 +311,30 @@ describe("the catalogue CSV with locations", () => {
     expect(text).not.toMatch(/(^|,)"?=HYPERLINK/m);
     expect(text).toContain(`"'=HYPERLINK(""x"")"`);
     expect(await AuditEvent.count({ where: { projectId, action: "finds-exported" } })).toBe(before + 1);
+  });
+});
+
+describe("the project's finds settings", () => {
+  it("set the catalogue prefix and the hold radius with its source (manager), used by the next find", async () => {
+    const patch = (body: unknown) => call(projectAction as never, "manager", base(), {}, { method: "PATCH", body: JSON.stringify(body), headers: { "Content-Type": "application/json" } });
+    const bad = await patch({ finds: { cataloguePrefix: "no spaces!", holdRadiusM: 0 } });
+    expect(bad.status).toBe(422);
+    expect((await errorsOf(bad)).map((error) => error.field).sort()).toEqual(["finds.cataloguePrefix", "finds.holdRadiusM"]);
+    expect((await patch({ finds: { cataloguePrefix: "zx", holdRadiusM: 10, holdRadiusSource: "Test permit condition 7" } })).status).toBe(200);
+    const cell = inside[Math.floor(inside.length / 3)];
+    const logged = await (await logFind("resource-monitor", { category: "cultural", description: "Sherd", cell, foundAt: "2031-07-01T09:00:00-04:00" })).json();
+    expect(logged.catalogueNumber).toMatch(/^ZX-2031-\d{4}$/);
+    // 10 m = 10 / (1200/3937) US ft ≈ 32.8 ft on 20 ft cells: every held cell centre within r + half a diagonal.
+    const at = parseCellLabel(cell)!;
+    const [cx, cy] = cellCentroid(grid, at.row, at.col);
+    for (const label of logged.hold.cells) {
+      const { row, col } = parseCellLabel(label)!;
+      const [x, y] = cellCentroid(grid, row, col);
+      expect(Math.hypot(x - cx, y - cy), label).toBeLessThanOrEqual(10 / METRES_PER_US_SURVEY_FOOT + (GRID.cellSizeFt * Math.SQRT2) / 2);
+    }
+    const holds = (await (await call(holdsLoader as never, "resource-monitor", `${base()}/holds`)).json()).holds;
+    expect(holds.find((hold: { id: number }) => hold.id === logged.hold.id)).toMatchObject({ radiusM: 10, radiusSource: "Test permit condition 7" });
+    expect((await postJson(liftAction as never, "manager", `${base()}/holds/${logged.hold.id}/lift`, { holdId: String(logged.hold.id) }, { authorisedBy: "Test" })).status).toBe(204);
   });
 });
 
