@@ -66,6 +66,7 @@ export default [
     route("surveys/imports/:jobId", "routes/projects.$projectId.surveys.imports.$jobId.tsx"),
     route("surveys/new", "routes/projects.$projectId.surveys.new.tsx"),
   ]),
+  route("projects/:projectId/finds/catalogue", "routes/projects.$projectId.finds.catalogue.tsx"),
   route("projects/:projectId/finds/:findId/custody-sheet", "routes/projects.$projectId.finds.$findId.custody-sheet.tsx"),
   route("projects/:projectId/map/style.json", "routes/projects.$projectId.map.style[.]json.ts"),
   route("projects/:projectId/quantities/report", "routes/projects.$projectId.quantities.report.tsx"),

@@ -469,6 +469,11 @@ export async function cellLabelsInside(project: ProjectView): Promise<string[]> 
  * The catalogue with locations as CSV, for the lab: only for roles that may see locations (the
  * route asks the table), and every export is written to the audit log. Text is formula-safe.
  */
+/** Records an export of the catalogue with locations (the CSV, the printable catalogue) in the audit log. */
+export async function recordFindsExport(project: ProjectView, user: UserView, format: "csv" | "printable", findCount: number, ip: string | null = null): Promise<void> {
+  await recordAudit({ action: AUDIT_ACTIONS.findsExported, projectId: project.id, userId: user.id, ip, detail: { format, findCount } });
+}
+
 export async function findsCatalogueCsv(project: ProjectView, access: Access, user: UserView, ip: string | null = null): Promise<string> {
   const finds = await listFinds(project, access);
   const details = await Find.findAll({ where: { projectId: project.id }, attributes: ["id", "material", "taxon", "element", "condition", "finder", "fieldTag", "accessionNumber"] });
@@ -495,6 +500,6 @@ export async function findsCatalogueCsv(project: ProjectView, access: Access, us
       ], 2);
     }),
   ];
-  await recordAudit({ action: AUDIT_ACTIONS.findsExported, projectId: project.id, userId: user.id, ip, detail: { format: "csv", findCount: finds.length } });
+  await recordFindsExport(project, user, "csv", finds.length, ip);
   return lines.join("");
 }

@@ -308,7 +308,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
           </p>
         </div>
         <aside className="space-y-4">
-          {data ? <MapLegend title={VIEW_TITLES[view]} entries={held.size > 0 ? [...legendFor(view, data), { label: "held (stop-work hold)", colour: "rgba(163, 36, 42, 0.55)" }] : legendFor(view, data)} /> : null}
+          {data ? <MapLegend title={VIEW_TITLES[view]} entries={held.size > 0 ? [...legendFor(view, data), { label: "Held (stop-work hold)", colour: "rgba(163, 36, 42, 0.55)" }] : legendFor(view, data)} /> : null}
           {selectedLabels.some((label) => held.has(labels.get(label)!)) ? (
             <p className="rounded border border-danger bg-panel px-3 py-2 text-sm text-danger" data-testid="held-selection">
               Held: {selectedLabels.filter((label) => held.has(labels.get(label)!)).join(", ")} {selectedLabels.filter((label) => held.has(labels.get(label)!)).length === 1 ? "is" : "are"} under a stop-work hold and cannot be assigned.

@@ -134,6 +134,7 @@ const MATRIX: Row[] = [
   row("POST", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
 
   // A project's resource routes.
+  row("GET", "projects/:projectId/finds/catalogue", "/projects/{project}/finds/catalogue", "200 403 403 403 200 403 403 200 login"),
   row("GET", "projects/:projectId/finds/:findId/custody-sheet", "/projects/{project}/finds/999999999/custody-sheet", "404 404 404 404 404 403 404 404 login"),
   row("GET", "projects/:projectId/map/style.json", "/projects/{project}/map/style.json", "200 200 200 200 200 200 200 200 login"),
   row("GET", "projects/:projectId/quantities/report", "/projects/{project}/quantities/report", "200 200 200 403 403 403 200 200 login"),

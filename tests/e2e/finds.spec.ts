@@ -70,7 +70,7 @@ test("a cultural find: logged with a photo on a phone, held on the map, hidden w
   await signIn("dive-supervisor");
   await page.goto(`/projects/${projectId}/map`);
   await expect(page.getByTestId("hold-banner")).toBeVisible();
-  await expect(page.getByRole("figure", { name: "Legend" })).toContainText("held (stop-work hold)");
+  await expect(page.getByRole("figure", { name: "Legend" })).toContainText("Held (stop-work hold)");
   await page.getByLabel("Search cell label").fill(heldCell);
   await page.getByRole("button", { name: "Find" }).click();
   await expect(page.getByTestId("held-selection")).toContainText(`${heldCell} is under a stop-work hold`);

@@ -13,6 +13,7 @@ import { action as findsAction, loader as findsLoader } from "~/routes/api.proje
 import { loader as findLoader } from "~/routes/api.projects.$projectId.finds.$findId";
 import { loader as csvLoader } from "~/routes/api.projects.$projectId.finds[.]csv";
 import { action as projectAction } from "~/routes/api.projects.$projectId";
+import { loader as printableCatalogue } from "~/routes/projects.$projectId.finds.catalogue";
 import { action as custodyAction } from "~/routes/api.projects.$projectId.finds.$findId.custody";
 import { action as photosAction } from "~/routes/api.projects.$projectId.finds.$findId.photos";
 import { loader as photoLoader } from "~/routes/api.projects.$projectId.finds.$findId.photos.$photoId";
@@ -310,6 +311,15 @@ describe("the catalogue CSV with locations", () => {
     // OWASP CSV injection guidance: a cell starting with "=" is prefixed so no spreadsheet runs it.
     expect(text).not.toMatch(/(^|,)"?=HYPERLINK/m);
     expect(text).toContain(`"'=HYPERLINK(""x"")"`);
+    expect(await AuditEvent.count({ where: { projectId, action: "finds-exported" } })).toBe(before + 1);
+  });
+
+  it("the printable catalogue likewise: refused to a viewer, and each printing audited", async () => {
+    const refused = await call(printableCatalogue as never, "viewer", `/projects/${projectId}/finds/catalogue`).catch((error: unknown) => error);
+    expect((refused as Response).status).toBe(403);
+    const before = await AuditEvent.count({ where: { projectId, action: "finds-exported" } });
+    const sheet = (await call(printableCatalogue as never, "manager", `/projects/${projectId}/finds/catalogue`)) as unknown as { finds: Array<{ catalogueNumber: string; cell?: string }> };
+    expect(sheet.finds[0]).toMatchObject({ catalogueNumber: "TFS-2031-0001", cell: expect.any(String) });
     expect(await AuditEvent.count({ where: { projectId, action: "finds-exported" } })).toBe(before + 1);
   });
 });
