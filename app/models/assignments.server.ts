@@ -10,6 +10,7 @@ import { getProjectSurfaces } from "~/lib/engine/engine-state.server";
 import { queueMail } from "~/lib/mail/outbox.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { getCellsPayload, type CellsPayload } from "./cells.server";
+import { openHoldsOn } from "./holds.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 
@@ -78,7 +79,8 @@ export interface AssignmentsCreated {
   source: string;
 }
 
-function cellLookup(payload: CellsPayload) {
+/** A label → grid index reader for the cells inside the work limit (null for any other label). */
+export function cellLookup(payload: CellsPayload) {
   const { grid } = payload;
   return (label: string) => {
     if (!grid) return null;
@@ -120,10 +122,19 @@ async function workingDepths(projectId: number): Promise<Float64Array | null> {
   return surfaces ? surfaces.cellMaxDepth : null;
 }
 
+function heldRefusal(held: Array<{ holdId: number; cells: string[] }>): ConflictError {
+  const parts = held.map((hold) => `${hold.cells.join(", ")} (hold #${hold.holdId})`).join("; ");
+  return new ConflictError(
+    { field: "cells", message: `Cells ${parts} are under a stop-work hold and cannot be assigned until the hold is lifted.` },
+    { code: "held-cells", holds: held.map((hold) => ({ id: hold.holdId, cells: hold.cells })) },
+  );
+}
+
 /**
  * Assigns cells to a team on a day. Throws NotFoundError (no such team), ValidationError (a hose
  * the team lacks, cells outside the work limit, confirmed cells without a reason: `code` says
- * which) or ConflictError (cells already another team's that day, listed in `conflicts`).
+ * which) or ConflictError (cells already another team's that day, listed in `conflicts`; cells
+ * under an open stop-work hold, listed in `holds`).
  */
 export async function createAssignments(project: ProjectView, user: UserView, input: AssignmentInput, ip: string | null = null): Promise<AssignmentsCreated> {
   const teams = await DiveTeam.findAll({ where: { projectId: project.id } });
@@ -143,6 +154,9 @@ export async function createAssignments(project: ProjectView, user: UserView, in
     const index = lookup(label)!;
     return { label, index, row: Math.floor(index / grid.cols) + grid.firstRow, col: (index % grid.cols) + grid.firstCol };
   });
+  // A stop-work hold around a find outranks everything else: it names the hold, never the find.
+  const held = await openHoldsOn(project.id, cells);
+  if (held.length > 0) throw heldRefusal(held);
   const confirmedCode = CELL_STATUSES.indexOf("confirmed");
   const confirmed = cells.filter((cell) => payload.status[cell.index] === confirmedCode).map((cell) => cell.label);
   const reason = input.reason?.trim() || null;
@@ -165,6 +179,8 @@ export async function createAssignments(project: ProjectView, user: UserView, in
     await getSequelize().transaction(async (transaction) => {
       const conflicts = await conflictsFor(project.id, input.date, cells);
       if (conflicts.length > 0) throw refused(conflicts);
+      const heldNow = await openHoldsOn(project.id, cells, transaction);
+      if (heldNow.length > 0) throw heldRefusal(heldNow);
       await Assignment.bulkCreate(
         cells.map((cell) => ({
           projectId: project.id,

@@ -40,6 +40,8 @@ export async function buildMapStyle(project: ProjectView) {
       // over all 100,000 cells of a bay (even at width 0) doubled each frame and the tiling work.
       "cells-selected": { type: "geojson", data: emptyCollection },
       "cells-assigned": { type: "geojson", data: emptyCollection },
+      // Cells under a stop-work hold: "held", nothing more (no find, no category).
+      "cells-held": { type: "geojson", data: emptyCollection },
       bands: { type: "geojson", data: emptyCollection },
     },
     layers: [
@@ -56,6 +58,8 @@ export async function buildMapStyle(project: ProjectView) {
       { id: "bands-fill", type: "fill", source: "bands", layout: { visibility: "none" }, paint: { "fill-color": "#999999", "fill-opacity": 0.75 } },
       { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": "#3d4a50", "line-width": 1.5, "line-dasharray": [3, 2] } },
       { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": "#a3242a", "line-width": 2 } },
+      { id: "cells-held-fill", type: "fill", source: "cells-held", paint: { "fill-color": "#a3242a", "fill-opacity": 0.35 } },
+      { id: "cells-held", type: "line", source: "cells-held", paint: { "line-color": "#a3242a", "line-width": 2 } },
       {
         id: "cells-assigned", type: "line", source: "cells-assigned",
         paint: { "line-color": "#1d2528", "line-width": 2, "line-dasharray": [1, 1] },

@@ -69,6 +69,13 @@ export const newProjectSchema = z.object({
 });
 export type NewProjectInput = z.infer<typeof newProjectSchema>;
 
+/** The finds settings: the catalogue prefix and the stop-work hold radius with its source. */
+const findsSettingsSchema = z.object({
+  cataloguePrefix: z.string().trim().toUpperCase().regex(/^([A-Z0-9]{2,8})?$/, "2 to 8 letters or digits (empty: the initials of the project's short name)").optional(),
+  holdRadiusM: z.number({ error: "The hold radius is a number of metres" }).finite().min(1, "The hold radius is at least 1 m").max(2000, "The hold radius is at most 2,000 m").optional(),
+  holdRadiusSource: z.string().trim().min(1, "Say where the hold radius comes from (the permit condition)").max(500).optional(),
+});
+
 export const projectPatchSchema = z
   .object({
     name: newProjectSchema.shape.name.optional(),
@@ -79,6 +86,7 @@ export const projectPatchSchema = z
     grid: gridSchema.partial().optional(),
     tolerances: tolerancesSchema.optional(),
     zones: z.array(zoneSchema).max(100).optional(),
+    finds: findsSettingsSchema.optional(),
   })
   .refine((patch) => Object.values(patch).some((value) => value !== undefined), "Send at least one setting to change");
 export type ProjectPatch = z.infer<typeof projectPatchSchema>;
@@ -109,6 +117,8 @@ export interface ProjectSettings {
   cellCount: number | null;
   /** Surveys stored (active or retracted): a change to the figures' settings recomputes them. */
   surveyCount: number;
+  /** The catalogue prefix as set (empty: the slug's initials) and the hold radius (metres) with its source. */
+  finds: { cataloguePrefix: string; holdRadiusM: number; holdRadiusSource: string };
 }
 
 /** Above this many cells the settings page asks before saving a grid: the map and every recompute slow down with the count. */
@@ -300,6 +310,7 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
     zones: zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, geometry: JSON.parse(zone.polygonGeoJson) })),
     cellCount: limit ? cellCount(createCellGrid(limit.projected, grid)) : null,
     surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
+    finds: { cataloguePrefix: project.findCataloguePrefix, holdRadiusM: project.holdRadiusM, holdRadiusSource: project.holdRadiusSource },
   };
 }
 
@@ -393,6 +404,10 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
       // Not a figures change: the stored figures do not split paid from over-dredge; pay periods read it when asked.
       if (patch.tolerances?.overDredgeAllowance !== undefined) row.overDredgeAllowance = patch.tolerances.overDredgeAllowance;
       if (limit) row.workLimitGeoJson = JSON.stringify(limit.lonLat);
+      // Finds settings touch no figures; a new radius applies to holds placed from now on.
+      if (patch.finds?.cataloguePrefix !== undefined) row.findCataloguePrefix = patch.finds.cataloguePrefix;
+      if (patch.finds?.holdRadiusM !== undefined) row.holdRadiusM = patch.finds.holdRadiusM;
+      if (patch.finds?.holdRadiusSource !== undefined) row.holdRadiusSource = patch.finds.holdRadiusSource;
       const figuresChange = (["workLimitGeoJson", "cellSize", "rotationDeg", "gridOriginE", "gridOriginN", "rasterResolution", "maxEdge", "tolerance", "firmShare", "minCoverage"] as const).some((key) => row.changed(key));
       await row.save({ transaction });
       if (zones) {

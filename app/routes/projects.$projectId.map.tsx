@@ -19,6 +19,7 @@ import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
 import { readFileForm } from "~/lib/http/body.server";
 import { DomainError } from "~/lib/errors";
 import { listDiveTeams } from "~/models/assignments.server";
+import { heldCellLabels } from "~/models/holds.server";
 import { listSurveys } from "~/models/survey.server";
 import { findProject } from "~/lib/auth/project-view.server";
 import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
@@ -29,7 +30,11 @@ import type { Route } from "./+types/projects.$projectId.map";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project } = access;
-  const [teams, shoreline, row, surveys, stoppages] = await Promise.all([listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project), currentStoppages(project)]);
+  // Held cells for those who read finds (outreach sees nothing of finds): "held", no details.
+  const canReadFinds = can(access, "finds.read");
+  const [teams, shoreline, row, surveys, stoppages, heldCells] = await Promise.all([
+    listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project), currentStoppages(project), canReadFinds ? heldCellLabels(project.id) : Promise.resolve([]),
+  ]);
   return {
     projectId: project.id,
     hasWorkLimit: project.hasWorkLimit,
@@ -46,6 +51,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     shorelineMaxBytes: SHORELINE_MAX_BYTES,
     // Lon/lat, as stored: the browser clips the cells along it.
     workLimit: row?.workLimitGeoJson ? (JSON.parse(row.workLimitGeoJson) as LonLatWorkLimit) : null,
+    heldCells,
     teams: teams.map((team) => ({ id: team.id, name: team.name, hoses: team.hoses, size: team.members.length, belowMinimum: team.belowMinimum })),
   };
 }
@@ -131,6 +137,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
   const labels = useMemo(() => (data ? labelIndex(data) : new Map<string, number>()), [data]);
   const labelOf = useMemo(() => new Map([...labels].map(([label, index]) => [index, label])), [labels]);
   const crs = useMemo(() => (data ? createCrs(data.crs.definition) : null), [data]);
+  const held = useMemo(() => new Set(loaderData.heldCells.map((label) => labels.get(label)).filter((index): index is number => index !== undefined)), [loaderData.heldCells, labels]);
 
   const loadAssigned = useCallback(async (date: string) => {
     const response = await fetch(`/api/projects/${projectId}/assignments?date=${date}`);
@@ -285,6 +292,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
             zoneFilter={zoneFilter}
             selected={selected}
             assigned={assigned}
+            held={held}
             bands={bands}
             flyTo={flyTo}
             onCellClick={selectOne}
@@ -303,7 +311,12 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
           </p>
         </div>
         <aside className="space-y-4">
-          {data ? <MapLegend title={VIEW_TITLES[view]} entries={legendFor(view, data)} /> : null}
+          {data ? <MapLegend title={VIEW_TITLES[view]} entries={held.size > 0 ? [...legendFor(view, data), { label: "Held (stop-work hold)", colour: "rgba(163, 36, 42, 0.55)" }] : legendFor(view, data)} /> : null}
+          {selectedLabels.some((label) => held.has(labels.get(label)!)) ? (
+            <p className="rounded border border-danger bg-panel px-3 py-2 text-sm text-danger" data-testid="held-selection">
+              Held: {selectedLabels.filter((label) => held.has(labels.get(label)!)).join(", ")} {selectedLabels.filter((label) => held.has(labels.get(label)!)).length === 1 ? "is" : "are"} under a stop-work hold and cannot be assigned.
+            </p>
+          ) : null}
           <CellInspector projectId={projectId} label={focusLabel} labels={data?.labels ?? { length: "", volume: "" }} refresh={refresh} />
           {loaderData.canAssign ? (
             <AssignPanel

@@ -52,6 +52,7 @@ const actionSchema = z.discriminatedUnion("intent", [
     confirmLargeGrid: z.literal("yes").optional(),
   }),
   z.object({ intent: z.literal("tolerances"), firmSand: number, firmShare: number, minCoverage: number, overDredgeAllowance: number }),
+  z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
 ]);
 
 interface WorkLimitPreview {
@@ -92,6 +93,9 @@ export async function action({ request, params }: Route.ActionArgs) {
       }
       case "tolerances":
         patch = { tolerances: { firmSand: input.firmSand, firmShare: input.firmShare, minCoverage: input.minCoverage, overDredgeAllowance: input.overDredgeAllowance } };
+        break;
+      case "finds":
+        patch = { finds: { cataloguePrefix: input.cataloguePrefix, holdRadiusM: input.holdRadiusM, holdRadiusSource: input.holdRadiusSource } };
         break;
       case "work-limit-preview": {
         let geoJson: unknown;
@@ -156,6 +160,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   const limitErrors = errorsFor("work-limit-preview", "work-limit-save");
   const gridErrors = errorsFor("grid");
   const toleranceErrors = errorsFor("tolerances");
+  const findsErrors = errorsFor("finds");
   const preview = actionData?.preview ?? null;
   const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures.` : "";
 
@@ -254,6 +259,16 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           />
           <p className="text-sm text-muted sm:col-span-3">{surveysNote.trim()}</p>
           <div className="sm:col-span-3"><SubmitButton intent="tolerances" pendingLabel="Saving…">Save tolerances</SubmitButton></div>
+        </Form>
+      </Section>
+
+      <Section id="finds-heading" title="Finds and stop-work holds">
+        <ActionMessages notice={noticeFor("finds")} />
+        <Form method="post" className="grid gap-3 sm:grid-cols-3">
+          <TextField label="Catalogue prefix" name="cataloguePrefix" maxLength={8} defaultValue={settings.finds.cataloguePrefix} error={findsErrors.cataloguePrefix} hint="Empty: the initials of the project's short name. Numbers already given keep theirs." />
+          <TextField label="Hold radius (m)" name="holdRadiusM" type="number" step="any" min="1" max="2000" defaultValue={settings.finds.holdRadiusM} required error={findsErrors.holdRadiusM} hint="Cells within it of a cultural find or human remains are held. Applies to holds placed from now on." />
+          <TextField className="sm:col-span-3" label="Source of the hold radius" name="holdRadiusSource" maxLength={500} defaultValue={settings.finds.holdRadiusSource} required error={findsErrors.holdRadiusSource} hint="The permit condition that sets it; the default follows a published condition naming a 100-metre-diameter area." />
+          <div className="sm:col-span-3"><SubmitButton intent="finds" pendingLabel="Saving…">Save finds settings</SubmitButton></div>
         </Form>
       </Section>
     </div>

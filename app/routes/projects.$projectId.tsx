@@ -4,11 +4,13 @@ import { requireRole } from "~/lib/auth/access.server";
 import { ROLE_LABELS } from "~/lib/auth/roles";
 import { StopWorkBanner } from "~/components/stop-work-banner";
 import { currentStoppages } from "~/models/stoppages.server";
+import { heldCellLabels } from "~/models/holds.server";
 import type { Route } from "./+types/projects.$projectId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project, role } = access;
+  const canReadFinds = can(access, "finds.read");
   return {
     project: { id: project.id, name: project.name },
     roleLabel: role ? ROLE_LABELS[role] : "Site administrator",
@@ -17,6 +19,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     canConfigure: can(access, "project.configure"),
     // Open stop-work events and stand-downs show on every project page.
     stoppages: await currentStoppages(project),
+    canReadFinds,
+    // Open stop-work events show on every project page (cells only: never the find).
+    heldCellCount: canReadFinds ? (await heldCellLabels(project.id)).length : 0,
   };
 }
 
@@ -39,11 +44,17 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
         <NavLink to={`${base}/dewatering`} className={linkClass}>Dewatering</NavLink>
         <NavLink to={`${base}/water-quality`} className={linkClass}>Water quality</NavLink>
+        {loaderData.canReadFinds ? <NavLink to={`${base}/finds`} className={linkClass}>Finds</NavLink> : null}
         {loaderData.canManageMembers ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
         {loaderData.canConfigure ? <NavLink to={`${base}/settings`} className={linkClass}>Settings</NavLink> : null}
         {loaderData.canReadAudit ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}
       </nav>
       <StopWorkBanner projectId={loaderData.project.id} {...loaderData.stoppages} />
+      {loaderData.heldCellCount > 0 ? (
+        <p className="mt-3 rounded border border-danger bg-panel px-3 py-2 text-sm text-danger" data-testid="hold-banner">
+          Stop-work hold in force on {loaderData.heldCellCount} cells: they cannot be assigned. <NavLink className="underline" to={`${base}/holds`}>See holds</NavLink>
+        </p>
+      ) : null}
       <div className="mt-6">
         <Outlet />
       </div>

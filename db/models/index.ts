@@ -38,6 +38,13 @@ import { WaterQualityReading, initWaterQualityReading } from "./water-quality-re
 import { StopWorkEvent, initStopWorkEvent } from "./stop-work-event";
 import { WildlifeStandDown, initWildlifeStandDown } from "./wildlife-stand-down";
 import { WildlifeSighting, initWildlifeSighting } from "./wildlife-sighting";
+import { Find, initFind } from "./find";
+import { FindCustody, initFindCustody } from "./find-custody";
+import { FindPhoto, initFindPhoto } from "./find-photo";
+import { FindSequence, initFindSequence } from "./find-sequence";
+import { Hold, initHold } from "./hold";
+import { HoldCell, initHoldCell } from "./hold-cell";
+import { HoldNotice, initHoldNotice } from "./hold-notice";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
 export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
@@ -60,6 +67,8 @@ export { TUBE_STATUSES, type TubeStatus } from "./geotextile-tube";
 export { HAUL_SITE_KINDS } from "./haul-site";
 export { WaterQualitySettings, TurbidityRuleRecord, MonitoringStation, WaterQualityReading, StopWorkEvent, WildlifeStandDown, WildlifeSighting };
 export type { DiveTeamMember } from "./dive-team";
+export { Find, FindCustody, FindPhoto, FindSequence, Hold, HoldCell, HoldNotice };
+export { photoExifSchema, type PhotoExif } from "./find-photo";
 
 let initialised: Sequelize | undefined;
 
@@ -108,6 +117,13 @@ export function initModels(): Sequelize {
   initStopWorkEvent(sequelize);
   initWildlifeStandDown(sequelize);
   initWildlifeSighting(sequelize);
+  initFind(sequelize);
+  initFindSequence(sequelize);
+  initFindPhoto(sequelize);
+  initFindCustody(sequelize);
+  initHold(sequelize);
+  initHoldCell(sequelize);
+  initHoldNotice(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -221,6 +237,33 @@ export function initModels(): Sequelize {
   Project.hasMany(WildlifeSighting, { foreignKey: "projectId", as: "sightings" });
   WildlifeSighting.belongsTo(WildlifeStandDown, { foreignKey: "standDownId", as: "standDown" });
   WildlifeSighting.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  // Finds (issue 17): photos, custody, and the holds around cultural finds.
+  Project.hasMany(Find, { foreignKey: "projectId", as: "finds" });
+  Find.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Find.belongsTo(Dive, { foreignKey: "diveId", as: "dive" });
+  Find.belongsTo(DiveTeam, { foreignKey: "teamId", as: "team" });
+  Find.belongsTo(User, { foreignKey: "loggedById", as: "loggedBy" });
+  FindSequence.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Find.hasMany(FindPhoto, { foreignKey: "findId", as: "photos" });
+  FindPhoto.belongsTo(Find, { foreignKey: "findId", as: "find" });
+  FindPhoto.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  FindPhoto.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
+  Find.hasMany(FindCustody, { foreignKey: "findId", as: "custody" });
+  FindCustody.belongsTo(Find, { foreignKey: "findId", as: "find" });
+  FindCustody.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  FindCustody.belongsTo(FindPhoto, { foreignKey: "formPhotoId", as: "formPhoto" });
+  FindCustody.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  Project.hasMany(Hold, { foreignKey: "projectId", as: "holds" });
+  Hold.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Find.hasOne(Hold, { foreignKey: "findId", as: "hold" });
+  Hold.belongsTo(Find, { foreignKey: "findId", as: "find" });
+  Hold.belongsTo(User, { foreignKey: "liftedById", as: "liftedBy" });
+  Hold.hasMany(HoldCell, { foreignKey: "holdId", as: "cells" });
+  HoldCell.belongsTo(Hold, { foreignKey: "holdId", as: "hold" });
+  HoldCell.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  Hold.hasMany(HoldNotice, { foreignKey: "holdId", as: "notices" });
+  HoldNotice.belongsTo(Hold, { foreignKey: "holdId", as: "hold" });
+  HoldNotice.belongsTo(User, { foreignKey: "toldById", as: "toldBy" });
 
   initialised = sequelize;
   return sequelize;

@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { DEFAULT_HOLD_RADIUS_M, DEFAULT_HOLD_RADIUS_SOURCE } from "../../shared/finds/finds";
 
 export const LENGTH_UNITS = ["us-ft", "ft", "m"] as const;
 export type LengthUnit = (typeof LENGTH_UNITS)[number];
@@ -46,6 +47,11 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   declare solidsSpecificGravity: CreationOptional<number>;
   /** Cake solids by weight (0–1) a haul ticket without its own sample is counted at; null: every ticket gives its own. */
   declare cakeSolidsByWeight: CreationOptional<number | null>;
+  /** The finds catalogue's prefix; empty: initials of the slug. */
+  declare findCataloguePrefix: CreationOptional<string>;
+  /** The stop-work radius around a cultural find, metres (the permit states it in metres), and where it comes from. */
+  declare holdRadiusM: CreationOptional<number>;
+  declare holdRadiusSource: CreationOptional<string>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -79,6 +85,9 @@ export function initProject(sequelize: Sequelize) {
       minTeamSize: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 2 },
       solidsSpecificGravity: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 2.65 },
       cakeSolidsByWeight: { type: DataTypes.DOUBLE, allowNull: true },
+      findCataloguePrefix: { type: DataTypes.STRING(12), allowNull: false, defaultValue: "" },
+      holdRadiusM: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: DEFAULT_HOLD_RADIUS_M },
+      holdRadiusSource: { type: DataTypes.STRING(500), allowNull: false, defaultValue: DEFAULT_HOLD_RADIUS_SOURCE },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

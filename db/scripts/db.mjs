@@ -1,7 +1,7 @@
 // A private MariaDB for Firmsand: data directory inside the repo (.data/, git-ignored), listening
 // on 127.0.0.1 only. `npm start` uses the "dev" instance, `npm test` the "test" instance.
-//   node db/scripts/db.mjs start [dev|test]   start MariaDB (installing mariadb-server if missing) and the fake SMTP server
-//   node db/scripts/db.mjs stop [dev|test|all] stop the instance(s) and fake SMTP servers this repo started
+//   node db/scripts/db.mjs start [dev|test]   start MariaDB (installing mariadb-server if missing), the fake SMTP and fake S3 servers
+//   node db/scripts/db.mjs stop [dev|test|all] stop the instance(s) and the fake SMTP and S3 servers this repo started
 //   node db/scripts/db.mjs status
 // Only Node's built-ins: this runs before `npm ci` (`start` installs the packages for the mail server).
 import { spawnSync } from "node:child_process";
@@ -13,7 +13,7 @@ import {
   DATA_DIR, ROOT, ensureDebianPackage, ensureNpmPackages, findExecutable, isMainModule, isPortOpen, isProcessAlive, localSecret, log,
   readPid, spawnDetached, stopByPidFile, waitFor,
 } from "./lib.mjs";
-import { ensureMailServer, stopMailServer } from "./services.mjs";
+import { ensureMailServer, ensureS3Server, stopMailServer, stopS3Server } from "./services.mjs";
 
 export const INSTANCES = {
   dev: { port: Number(process.env.DB_PORT ?? 3307), databases: [process.env.DB_NAME ?? "firmsand"] },
@@ -133,18 +133,21 @@ async function main() {
   if (command === "start") {
     const { env } = await ensureMariaDb(which);
     log(`MariaDB (${which}) ready: mysql://${env.DB_USER}@${env.DB_HOST}:${env.DB_PORT}/${env.DB_NAME}`);
-    // `stop` stops both, so `start` brings both back (the mail server needs the npm packages).
+    // `stop` stops them all, so `start` brings them all back (the fake servers need the npm packages).
     ensureNpmPackages();
     const mail = await ensureMailServer(which);
     log(`fake SMTP (${which}) ready on ${mail.env.SMTP_HOST}:${mail.env.SMTP_PORT}`);
+    const store = await ensureS3Server(which);
+    log(`fake S3 (${which}) ready on ${store.env.S3_ENDPOINT}`);
   } else if (command === "stop") {
     const targets = which === "all" || process.argv.length <= 3 ? Object.keys(INSTANCES) : [which];
     let any = false;
     for (const instance of targets) {
       any = (await stopMariaDb(instance)) || any;
       any = (await stopMailServer(instance)) || any;
+      any = (await stopS3Server(instance)) || any;
     }
-    if (!any) log("no private MariaDB or fake SMTP of this checkout was running");
+    if (!any) log("no private MariaDB, fake SMTP or fake S3 of this checkout was running");
   } else if (command === "status") {
     for (const [instance, { port }] of Object.entries(INSTANCES)) {
       const alive = isProcessAlive(readPid(paths(instance).pidFile));

@@ -1,19 +1,21 @@
 // `npm start`: everything a fresh machine needs to run Firmsand with its demo scenario.
-// Installs what is missing, brings up the private MariaDB and the fake SMTP server, migrates,
+// Installs what is missing, brings up the private MariaDB, the fake SMTP and fake S3 servers, migrates,
 // seeds the demo when the database is empty, builds and serves on http://127.0.0.1:3000.
 import { spawn } from "node:child_process";
 import { bin, buildApp, ensureNpmPackages, localSecret, log, run } from "./lib.mjs";
 import { ensureMariaDb } from "./db.mjs";
 
 ensureNpmPackages();
-const { ensureMailServer } = await import("./services.mjs");
+const { ensureMailServer, ensureS3Server } = await import("./services.mjs");
 const database = await ensureMariaDb("dev");
 const mail = await ensureMailServer("dev");
+const store = await ensureS3Server("dev");
 
 const env = {
   ...process.env,
   ...database.env,
   ...mail.env,
+  ...store.env,
   NODE_ENV: "production",
   DEMO_MODE: process.env.DEMO_MODE ?? "1",
   SESSION_SECRET: process.env.SESSION_SECRET ?? localSecret("session"),

@@ -1,4 +1,4 @@
-// `npm test`: the same bring-up as `npm start` for a separate test MariaDB and fake SMTP, then
+// `npm test`: the same bring-up as `npm start` for a separate test MariaDB, fake SMTP and fake S3, then
 // Vitest (unit + integration against the real MariaDB) and Playwright in Debian's Chromium.
 // Leaves no process behind: everything it started, it stops.
 //   npm test                  all suites
@@ -18,7 +18,7 @@ const passThrough = args.filter((arg) => arg !== "--unit" && arg !== "--e2e");
 // One `npm test` (or `npm run bench`) per checkout at a time: they share the test MariaDB and ports.
 await takeCheckoutLock("test-run", "npm test or npm run bench");
 ensureNpmPackages();
-const { ensureMailServer, stopMailServer } = await import("./services.mjs");
+const { ensureMailServer, ensureS3Server, stopMailServer, stopS3Server } = await import("./services.mjs");
 const chromium = onlyUnit ? null : ensureDebianPackage("chromium", "chromium");
 
 const cleanups = [];
@@ -47,11 +47,14 @@ try {
   if (database.startedHere) cleanups.push(() => stopMariaDb("test"));
   const mail = await ensureMailServer("test", { emptyMailbox: true });
   if (mail.startedHere) cleanups.push(() => stopMailServer("test"));
+  const store = await ensureS3Server("test");
+  if (store.startedHere) cleanups.push(() => stopS3Server("test"));
 
   const baseEnv = {
     ...process.env,
     ...database.env,
     ...mail.env,
+    ...store.env,
     SESSION_SECRET: "firmsand-test-session-secret-not-for-production",
     DEMO_MODE: "1",
   };

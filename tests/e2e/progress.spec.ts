@@ -1,6 +1,7 @@
 import Papa from "papaparse";
 import { request as playwrightRequest } from "@playwright/test";
 import { GRID, PEOPLE, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
+import { DEMO_FINDS } from "../../sample-data/finds";
 import { startsLikeFormula } from "../../shared/csv-safe";
 import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { walkPublicText, type PublicWalkRules } from "../integration/progress-public-walk";
@@ -14,7 +15,11 @@ const ZONE_NAMES = ZONES.map((zone) => zone.name);
 /** What the public page may show, from the demo scenario itself (independent of the app's code). */
 const RULES: PublicWalkRules = {
   allowedVertices: [...WORK_LIMIT.coordinates.flat(), ...ZONES.flatMap((zone) => zone.polygon.coordinates.flat())].map(([lon, lat]) => [lon, lat]),
-  forbiddenStrings: [...PEOPLE.flatMap((person) => [person.name, person.email]), ...SURVEYS.map((survey) => survey.fileName)],
+  // The demo's finds: no description, tag, finder, receiver or authorising officer may reach the public page.
+  forbiddenStrings: [
+    ...PEOPLE.flatMap((person) => [person.name, person.email]), ...SURVEYS.map((survey) => survey.fileName),
+    ...DEMO_FINDS.flatMap((find) => [find.description, find.fieldTag, find.finder, ...find.custody.flatMap((handover) => [handover.to, handover.place]), ...(find.hold ? [find.hold.liftedBy] : [])]),
+  ],
   // practice: every sounding and cell of the demo lies within a few thousand feet of the grid origin
   projectedExtent: { minX: GRID.originEastingFt - 20_000, maxX: GRID.originEastingFt + 20_000, minY: GRID.originNorthingFt - 20_000, maxY: GRID.originNorthingFt + 20_000 },
 };

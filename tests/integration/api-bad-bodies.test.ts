@@ -6,7 +6,11 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, GeotextileTube, Haul, HaulSite, ImportJob, MonitoringStation, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, WaterQualityReading, WildlifeSighting, WildlifeStandDown } from "~/lib/db.server";
+import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulSite, Hold, HoldCell, ImportJob, MonitoringStation, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, WaterQualityReading, WildlifeSighting, WildlifeStandDown } from "~/lib/db.server";
+import { listObjectKeys } from "~/lib/storage/storage.server";
+import { logFind } from "~/models/finds.server";
+import { getCellsPayload } from "~/models/cells.server";
+import { cellLabel, cellRowCol } from "../../shared/grid/cell-grid";
 import { stagingDirectory } from "~/lib/import/stage-upload.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { createShareLink } from "~/models/share-links.server";
@@ -46,6 +50,8 @@ let adminToken: string;
 let accountId: number;
 let tubeId: number;
 let stopWorkId: number;
+let findId: number;
+let holdId: number;
 const projectParams = () => ({ projectId: String(site.project.id) });
 const base = () => `/api/projects/${site.project.id}`;
 
@@ -60,7 +66,9 @@ const base = () => `/api/projects/${site.project.id}`;
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
 // TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
-// the GET-only routes' actions (405) and api/* (404) write nothing.
+// SignInSession, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
+// the object store and the staging directory; its custody → FindCustody, Find; a hold's lift →
+// Hold, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
   { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
@@ -72,6 +80,10 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/dives", method: "POST", url: () => `${base()}/dives`, params: projectParams },
   { route: "api/projects/:projectId/hauls", method: "POST", url: () => `${base()}/hauls`, params: projectParams },
   { route: "api/projects/:projectId/sediment-samples", method: "POST", url: () => `${base()}/sediment-samples`, params: projectParams },
+  { route: "api/projects/:projectId/finds", method: "POST", url: () => `${base()}/finds`, params: projectParams },
+  { route: "api/projects/:projectId/finds/:findId/custody", method: "POST", url: () => `${base()}/finds/${findId}/custody`, params: () => ({ ...projectParams(), findId: String(findId) }) },
+  { route: "api/projects/:projectId/finds/:findId/photos", method: "POST", url: () => `${base()}/finds/${findId}/photos`, params: () => ({ ...projectParams(), findId: String(findId) }) },
+  { route: "api/projects/:projectId/holds/:holdId/lift", method: "POST", url: () => `${base()}/holds/${holdId}/lift`, params: () => ({ ...projectParams(), holdId: String(holdId) }) },
   { route: "api/projects/:projectId/share-links", method: "POST", url: () => `${base()}/share-links`, params: projectParams },
   {
     route: "api/projects/:projectId/share-links/:token", method: "DELETE",
@@ -98,6 +110,10 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/bands", method: "POST", url: () => `${base()}/bands`, params: projectParams },
   { route: "api/projects/:projectId/cells", method: "POST", url: () => `${base()}/cells`, params: projectParams },
   { route: "api/projects/:projectId/cells/:label", method: "POST", url: () => `${base()}/cells/B7`, params: () => ({ ...projectParams(), label: "B7" }) },
+  { route: "api/projects/:projectId/finds.csv", method: "POST", url: () => `${base()}/finds.csv`, params: projectParams },
+  { route: "api/projects/:projectId/finds/:findId", method: "POST", url: () => `${base()}/finds/${findId}`, params: () => ({ ...projectParams(), findId: String(findId) }) },
+  { route: "api/projects/:projectId/finds/:findId/photos/:photoId", method: "POST", url: () => `${base()}/finds/${findId}/photos/1`, params: () => ({ ...projectParams(), findId: String(findId), photoId: "1" }) },
+  { route: "api/projects/:projectId/holds", method: "POST", url: () => `${base()}/holds`, params: projectParams },
   { route: "api/projects/:projectId/progress", method: "POST", url: () => `${base()}/progress`, params: projectParams },
   { route: "api/projects/:projectId/quantities", method: "POST", url: () => `${base()}/quantities`, params: projectParams },
   { route: "api/projects/:projectId/quantities.csv", method: "POST", url: () => `${base()}/quantities.csv`, params: projectParams },
@@ -208,6 +224,12 @@ async function snapshot() {
     account: JSON.stringify((await User.findByPk(accountId, { raw: true }))!),
     accountSessions: await SignInSession.count({ where: { userId: accountId, endedAt: null } }),
     stagedFiles: readdirSync(stagingDirectory(), { withFileTypes: true }).length,
+    finds: JSON.stringify(await Find.findAll({ where: { projectId }, raw: true, order: [["id", "ASC"]] })),
+    findPhotos: await FindPhoto.count({ where: { projectId } }),
+    findCustody: await FindCustody.count({ where: { projectId } }),
+    holds: JSON.stringify(await Hold.findAll({ where: { projectId }, raw: true })),
+    holdCells: await HoldCell.count({ where: { projectId } }),
+    storedObjects: (await listObjectKeys(`projects/${projectId}/`)).length,
   };
 }
 
@@ -233,6 +255,14 @@ beforeAll(async () => {
   const account = await makeUser("bad-bodies-account");
   accountId = account.id;
   await requestAs(accountId, "/projects");
+  const cells = await getCellsPayload(presentProject(site.project));
+  const firstInside = cellRowCol(cells.grid!, cells.status.findIndex((code) => code >= 0));
+  const held = await logFind(presentProject(site.project), manager, {
+    category: "cultural", description: "Sherd", count: 1, material: null, taxon: null, element: null, condition: null, finder: null, fieldTag: null,
+    cell: cellLabel(firstInside.row, firstInside.col), foundAt: "2026-09-09T10:00:00-04:00",
+  });
+  findId = held.id;
+  holdId = held.hold!.id;
   liveToken = (await createShareLink(presentProject(site.project), manager, { name: "Live link", publicText: "" }, ORIGIN, null)).token;
   // An open stop-work event (an exceedance with no resample yet), so resume bodies reach a real event.
   const view = presentProject(site.project);

@@ -161,8 +161,8 @@ describe("hardening 12: with the database down the API answers JSON 503", () => 
   });
 });
 
-describe("hardening 12: npm run db:start also restarts the fake SMTP server", () => {
-  it("brings the fake SMTP server back after db:stop stopped it", async () => {
+describe("hardening 12: npm run db:start also restarts the fake SMTP and S3 servers", () => {
+  it("brings the fake SMTP and S3 servers back after db:stop stopped them", async () => {
     // The scripts in a checkout of their own (their .data/ is beside them), so this test cannot
     // stop the servers the test run uses. The database port is the test MariaDB's: reachable, so
     // start uses it as it is and stop leaves it alone (it is not this checkout's).
@@ -171,7 +171,8 @@ describe("hardening 12: npm run db:start also restarts the fake SMTP server", ()
     cpSync(join(REPO, "package-lock.json"), join(root, "package-lock.json"), { preserveTimestamps: true });
     symlinkSync(join(REPO, "node_modules"), join(root, "node_modules"));
     const smtpPort = await freePort();
-    const env = { ...process.env, DB_PORT: String(getDatabaseSettings().DB_PORT), SMTP_PORT: String(smtpPort) };
+    const s3Port = await freePort();
+    const env = { ...process.env, DB_PORT: String(getDatabaseSettings().DB_PORT), SMTP_PORT: String(smtpPort), S3_PORT: String(s3Port) };
     const db = (command: string) => {
       const run = spawnSync(process.execPath, ["db/scripts/db.mjs", command, "dev"], { cwd: root, env, encoding: "utf8", timeout: 60_000 });
       expect(run.status, `db.mjs ${command}: ${run.stderr}`).toBe(0);
@@ -179,10 +180,13 @@ describe("hardening 12: npm run db:start also restarts the fake SMTP server", ()
     try {
       db("start");
       expect(await portOpen(smtpPort), "fake SMTP after the first start").toBe(true);
+      expect(await portOpen(s3Port), "fake S3 after the first start").toBe(true);
       db("stop");
       expect(await portOpen(smtpPort), "fake SMTP after stop").toBe(false);
+      expect(await portOpen(s3Port), "fake S3 after stop").toBe(false);
       db("start");
       expect(await portOpen(smtpPort), "fake SMTP after start again").toBe(true);
+      expect(await portOpen(s3Port), "fake S3 after start again").toBe(true);
     } finally {
       db("stop");
       rmSync(root, { recursive: true, force: true });

@@ -53,9 +53,17 @@ const ROUTES: PageRoute[] = [
   // Signing out reads no body at all.
   { route: "logout", url: () => "/logout", params: () => ({}), as: "manager", limitBytes: null },
   { route: "projects", url: () => "/projects", params: () => ({}), as: "site-admin", limitBytes: WORK_LIMIT_MAX_BYTES + FIELDS_ALLOWANCE },
+  { route: "projects/:projectId/dewatering", url: () => `${base()}/dewatering`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/dewatering/hauls", url: () => `${base()}/dewatering/hauls`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/dewatering/samples", url: () => `${base()}/dewatering/samples`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/dewatering/tubes", url: () => `${base()}/dewatering/tubes`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/finds/:findId", url: () => `${base()}/finds/999999`, params: () => ({ ...project(), findId: "999999" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/finds/new", url: () => `${base()}/finds/new`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/holds", url: () => `${base()}/holds`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/map", url: () => `${base()}/map`, params: project, as: "manager", limitBytes: SHORELINE_MAX_BYTES + FIELDS_ALLOWANCE },
   { route: "projects/:projectId/members", url: () => `${base()}/members`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/plans/:date", url: () => `${base()}/plans/2031-05-06`, params: () => ({ ...project(), date: "2031-05-06" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/quantities", url: () => `${base()}/quantities`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/settings", url: () => `${base()}/settings`, params: project, as: "manager", limitBytes: WORK_LIMIT_MAX_BYTES + FIELDS_ALLOWANCE },
   { route: "projects/:projectId/share", url: () => `${base()}/share`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/surveys/:surveyId", url: () => `${base()}/surveys/999999`, params: () => ({ ...project(), surveyId: "999999" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },
@@ -64,6 +72,8 @@ const ROUTES: PageRoute[] = [
   // Survey files stream to disk under UPLOAD_MAX_BYTES (200 MB by default; the import tests cut a chunked one off).
   { route: "projects/:projectId/surveys/new", url: () => `${base()}/surveys/new`, params: project, as: "manager", limitBytes: UPLOAD_LIMIT_BYTES, declaredOnly: true, contentType: MULTIPART },
   { route: "projects/:projectId/surveys/upload", url: () => `${base()}/surveys/upload`, params: project, as: "manager", limitBytes: UPLOAD_LIMIT_BYTES, declaredOnly: true, contentType: MULTIPART },
+  { route: "projects/:projectId/water-quality", url: () => `${base()}/water-quality`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/water-quality/setup", url: () => `${base()}/water-quality/setup`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "reset-password/:token", url: () => "/reset-password/no-such-token", params: () => ({ token: "no-such-token" }), as: "signed-out", limitBytes: FORM_LIMIT_BYTES },
 ];
 

@@ -16,10 +16,10 @@ export interface PublicWalkRules {
 }
 
 /** Keys whose presence alone is a leak (a null value, such as the signed-out root's `user`, passes). */
-const FORBIDDEN_KEY = /e-?mail|^user|person|people|member|^finds?$|artifact|custody|dive|team|hose|assignment|permit|turbid|ntu|water.?quality|file.?name|sha256|token|sounding|^cells?$|^row$|^col$|easting|northing|password/i;
+const FORBIDDEN_KEY = /e-?mail|^user|person|people|member|^finds?$|artifact|custody|photo|exif|^holds?$|catalogue|dive|team|hose|assignment|permit|turbid|ntu|water.?quality|file.?name|sha256|token|sounding|^cells?$|^row$|^col$|easting|northing|password/i;
 
 /** Words of the sensitive records that have no business on the public page. */
-const FORBIDDEN_WORDS = [/\bdive\b/i, /\bdivers?\b/i, /\bfinds?\b/i, /\bpermit/i, /\bturbidity\b/i, /\bNTU\b/, /\bcustody\b/i, /\.csv\b/i, /\bsoundings?\b/i, /[A-Za-z0-9._%+-]+@[A-Za-z0-9.-]+\.[A-Za-z]{2,}/];
+const FORBIDDEN_WORDS = [/\bdive\b/i, /\bdivers?\b/i, /\bfinds?\b/i, /\bpermit/i, /\bturbidity\b/i, /\bNTU\b/, /\bcustody\b/i, /\bstop-work\b/i, /\bcatalogue\b/i, /\b[A-Z]{2,5}-\d{4}-\d{4}\b/, /\.csv\b/i, /\bsoundings?\b/i, /[A-Za-z0-9._%+-]+@[A-Za-z0-9.-]+\.[A-Za-z]{2,}/];
 
 const DECIMAL = /-?\d+\.\d+|\b\d{6,8}\b/g;
 

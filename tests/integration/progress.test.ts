@@ -1,7 +1,9 @@
-import { mkdtempSync, readFileSync } from "node:fs";
+import { createReadStream, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import Papa from "papaparse";
+import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { startsLikeFormula } from "../../shared/csv-safe";
@@ -11,13 +13,18 @@ import { workingDaysBetween, workingCalendar } from "../../shared/progress/worki
 import { soundingElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
 import { UNZONED_NAME, rollUpZones } from "../../shared/volumes/rollup";
-import { GRID, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
+import { cellLabel, cellRowCol } from "../../shared/grid/cell-grid";
+import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { Assignment, Dive, DiveTeam, Project, ShareLink, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
 import { loadProgress, type ProgressView } from "~/models/progress.server";
 import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
 import { loadQuantities, quantitiesCsv } from "~/models/quantities.server";
 import { PUBLIC_REQUESTS_PER_MINUTE, createShareLink, publicProgressForToken, publicRateLimit, revokeShareLink } from "~/models/share-links.server";
 import { hashLinkToken } from "~/lib/auth/tokens.server";
+import { presentUser } from "~/lib/auth/users.server";
+import { getCellsPayload } from "~/models/cells.server";
+import { addFindPhoto, findInputSchema, logFind } from "~/models/finds.server";
+import { liftHold } from "~/models/holds.server";
 import * as shareLinksApi from "~/routes/api.projects.$projectId.share-links";
 import * as shareLinkApi from "~/routes/api.projects.$projectId.share-links.$token";
 import * as progressApi from "~/routes/api.projects.$projectId.progress";
@@ -344,6 +351,17 @@ describe("public share links", () => {
   }
 
   it("create → public view of allow-listed fields only → revoke → gone", async () => {
+    // A cultural find with a photo and its hold: none of it may reach the public view.
+    const manager = presentUser((await User.findOne({ where: { id: site.users.manager } }))!);
+    const payload = await getCellsPayload(project);
+    const inside = cellRowCol(payload.grid!, payload.status.findIndex((code) => code >= 0));
+    const find = await logFind(project, manager, findInputSchema.parse({ category: "cultural", description: "Walk-test sherd, incised rim", fieldTag: "WALK-T-9", cell: cellLabel(inside.row, inside.col), foundAt: "2026-11-05T10:00:00-05:00" }));
+    const stagedPath = join(mkdtempSync(join(tmpdir(), "firmsand-walk-")), "photo.jpg");
+    writeFileSync(stagedPath, await sharp({ create: { width: 64, height: 64, channels: 3, background: "#777" } }).jpeg().toBuffer());
+    const photo = await addFindPhoto(project, manager, find.id, { path: stagedPath, fileName: "walk-photo.jpg", size: 0, sha256: "" });
+    // Lifted at once, so the cells this file assigns elsewhere stay assignable; the hold still exists.
+    await liftHold(project, manager, find.hold!.id, { authorisedBy: "Walk test", note: null });
+    const findSecrets = [find.catalogueNumber, "Walk-test sherd", "WALK-T-9", "walk-photo.jpg", `/finds/${find.id}`, `/photos/${photo.id}`, `/holds/${find.hold!.id}`];
     const outreach = (await User.findByPk(outreachId))!;
     const created = await createShareLink(project, { id: outreach.id, name: outreach.name, email: outreach.email, isSiteAdmin: false } as never, { name: "County web page", publicText: "Muck removal in the spring run." }, ORIGIN, null);
     expect(created.token).toMatch(/^[A-Za-z0-9_-]{43}$/); // 256 random bits, base64url
@@ -362,7 +380,8 @@ describe("public share links", () => {
     expect(view!.zones.map((zone) => zone.name)).toEqual([...ZONES.map((zone) => zone.name), UNZONED_NAME]);
     expect(view!.zones.map((zone) => zone.unzoned)).toEqual([...ZONES.map(() => false), true]);
     expect(view!.zones.at(-1)!.polygons).toEqual([]);
-    expect(walkPublicValue(view, await walkRules())).toEqual([]);
+    const rules = await walkRules();
+    expect(walkPublicValue(view, { ...rules, forbiddenStrings: [...rules.forbiddenStrings, ...findSecrets] })).toEqual([]);
 
     expect(await revokeShareLink(project, { id: outreach.id } as never, { token: created.token }, null)).toBe(true);
     expect(await publicProgressForToken(created.token)).toBeNull();
@@ -382,6 +401,11 @@ describe("public share links", () => {
     expect(problems.some((problem) => problem.includes('"finds"'))).toBe(true);
     expect(problems.some((problem) => problem.includes("not a work-limit or zone vertex"))).toBe(true);
     expect(problems.some((problem) => problem.includes("projected coordinate"))).toBe(true);
+    // A find, its photo or a hold slipped into the view is caught by its keys and its catalogue number.
+    const findLeak = walkPublicValue({ ...view, holds: [{ id: 1 }], photo: "x", note: "see WS-2026-0001" }, rules);
+    expect(findLeak.some((problem) => problem.includes("holds: forbidden key"))).toBe(true);
+    expect(findLeak.some((problem) => problem.includes("photo: forbidden key"))).toBe(true);
+    expect(findLeak.some((problem) => problem.includes("WS-2026-0001"))).toBe(true);
   });
 
   it("the API: outreach POST 201 {token,url}, a viewer 403, DELETE 204 then the link is gone", async () => {

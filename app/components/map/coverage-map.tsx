@@ -9,7 +9,7 @@ import { bandColour, cellColour, fillColour, type MapView } from "./paint";
 
 export type LayerKey = "cells" | "bands" | "zones" | "workLimit" | "shoreline" | "labels";
 export const LAYER_GROUPS: Record<LayerKey, string[]> = {
-  cells: ["cells-fill", "cells-grid", "cells-assigned", "cells-selected"],
+  cells: ["cells-fill", "cells-grid", "cells-held-fill", "cells-held", "cells-assigned", "cells-selected"],
   bands: ["bands-fill"],
   zones: ["zones-outline"],
   workLimit: ["work-limit-outline", "work-limit-water"],
@@ -26,6 +26,8 @@ interface Props {
   zoneFilter: number | null;
   selected: ReadonlySet<number>;
   assigned: ReadonlySet<number>;
+  /** Cells under a stop-work hold, drawn as "held" with no details. */
+  held: ReadonlySet<number>;
   bands: { surface: "remaining" | "depth"; collection: FeatureCollection } | null;
   flyTo: { lonLat: [number, number]; serial: number } | null;
   onCellClick: (index: number, extend: boolean) => void;
@@ -41,7 +43,7 @@ interface Props {
 type CellFeature = ReturnType<typeof buildCellFeatures>["features"][number];
 
 /** The outlined cells' own source: only their features, so outlines cost nothing for the rest. */
-function setMarkedCells(map: MapLibreMap, source: "cells-selected" | "cells-assigned", ids: ReadonlySet<number>, byId: ReadonlyMap<number, CellFeature>) {
+function setMarkedCells(map: MapLibreMap, source: "cells-selected" | "cells-assigned" | "cells-held", ids: ReadonlySet<number>, byId: ReadonlyMap<number, CellFeature>) {
   const features: CellFeature[] = [];
   for (const id of ids) {
     const feature = byId.get(id);
@@ -199,7 +201,7 @@ export function CoverageMap(props: Props) {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [props.projectId]);
 
-  const { data, view, layers, zoneFilter, selected, assigned, bands, flyTo, shorelineStamp } = props;
+  const { data, view, layers, zoneFilter, selected, assigned, held, bands, flyTo, shorelineStamp } = props;
 
   // The style is read once; a new shoreline only swaps that source's data.
   const drawnShoreline = useRef(shorelineStamp);
@@ -244,6 +246,7 @@ export function CoverageMap(props: Props) {
       cellsById.current = new Map(collection.features.map((feature) => [feature.id as number, feature]));
       setMarkedCells(map, "cells-selected", callbacks.current.selected, cellsById.current);
       setMarkedCells(map, "cells-assigned", callbacks.current.assigned, cellsById.current);
+      setMarkedCells(map, "cells-held", callbacks.current.held, cellsById.current);
       fit((function* () {
         for (const feature of collection.features) yield* feature.geometry.type === "Polygon" ? feature.geometry.coordinates[0] : feature.geometry.coordinates.flatMap((polygon) => polygon[0]);
       })());
@@ -317,6 +320,12 @@ export function CoverageMap(props: Props) {
     if (!ready || !map || !data) return;
     setMarkedCells(map, "cells-assigned", assigned, cellsById.current);
   }, [ready, data, assigned]);
+
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !data) return;
+    setMarkedCells(map, "cells-held", held, cellsById.current);
+  }, [ready, data, held]);
 
   useEffect(() => {
     const map = mapRef.current;

@@ -53,6 +53,14 @@ export const AUDIT_ACTIONS = {
   stopWorkAgencyNotified: "stop-work-agency-notified",
   stopWorkResumed: "stop-work-resumed",
   wildlifeSightingRecorded: "wildlife-sighting-recorded",
+  findLogged: "find-logged",
+  findPhotoAdded: "find-photo-added",
+  findCustodyRecorded: "find-custody-recorded",
+  findStatusChanged: "find-status-changed",
+  findsExported: "finds-exported",
+  holdPlaced: "hold-placed",
+  holdNoticeRecorded: "hold-notice-recorded",
+  holdLifted: "hold-lifted",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

@@ -58,6 +58,17 @@ export const PERMISSIONS = {
    * shutdown distance starts a stand-down at once.
    */
   "wildlife.record": ["manager", "dive-supervisor", "dewatering", "resource-monitor"],
+  /**
+   * Finds: that they exist (category, catalogue number, status, custody) without any location.
+   * Outreach sees nothing of finds: they publish, and site locations stay out of public view.
+   */
+  "finds.read": ["manager", "surveyor", "dive-supervisor", "dewatering", "resource-monitor", "viewer"],
+  /** Log finds, their photos, custody handovers and status. */
+  "finds.log": ["manager", "resource-monitor"],
+  /** A find's cell, position, depths and its photos' camera data (confidential site locations). */
+  "finds.locations.read": ["manager", "resource-monitor"],
+  /** Lift a stop-work hold, recording who authorised resuming. */
+  "holds.lift": ["manager", "resource-monitor"],
   /** Public progress links. */
   "share-links.manage": ["manager", "outreach"],
 } as const satisfies Record<string, readonly Role[]>;

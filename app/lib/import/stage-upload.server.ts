@@ -56,19 +56,27 @@ export async function writeStagedFile(source: ReadableStream<Uint8Array>, fileNa
   return { path, fileName: fileName.slice(0, 255) || "soundings.csv", size, sha256: hash.digest("hex") };
 }
 
+/** A route's own limit for its file part (the sounding upload's is UPLOAD_MAX_BYTES). */
+export interface UploadLimit {
+  maxBytes: number;
+  /** What to do instead, said after "The file is larger than N MB, the most Firmsand accepts…". */
+  advice: string;
+}
+
 /**
  * Streams the multipart body straight to the staging file with busboy: the file part is never
  * held whole in memory (the form-data parser we used first buffers each part before handing it
- * over, which a 200 MB survey must not do).
+ * over, which a 200 MB survey must not do). Every upload route (surveys, find photos) reads its
+ * body here, each with its own limit.
  */
-export async function stageUpload(request: Request): Promise<StagedUpload> {
-  const maxFileSize = uploadSettings().UPLOAD_MAX_BYTES;
+export async function stageUpload(request: Request, limit: UploadLimit = { maxBytes: uploadSettings().UPLOAD_MAX_BYTES, advice: "Split it into several surveys." }): Promise<StagedUpload> {
+  const maxFileSize = limit.maxBytes;
   const contentType = request.headers.get("Content-Type") ?? "";
   const unreadable = () => new UploadRefused(400, "The upload could not be read as a form with a file.");
   if (!/^multipart\/form-data/i.test(contentType) || !request.body) throw unreadable();
   const declaredLength = Number(request.headers.get("Content-Length") ?? Number.NaN);
   const tooLarge = () =>
-    new UploadRefused(413, `The file is larger than ${Math.round(maxFileSize / 1024 / 1024)} MB, the most Firmsand accepts in one upload. Split it into several surveys.`);
+    new UploadRefused(413, `The file is larger than ${Math.round(maxFileSize / 1024 / 1024)} MB, the most Firmsand accepts in one upload. ${limit.advice}`);
   if (declaredLength > maxFileSize + 1024 * 1024) throw tooLarge();
 
   let parser: busboy.Busboy;

@@ -79,6 +79,28 @@ export function getUploadEnv(): UploadEnv {
   return parsedUploads;
 }
 
+/**
+ * The object store's settings (app/lib/storage/): any S3-compatible endpoint. `npm start` and
+ * `npm test` point them at the local fake S3 server they start (db/scripts/s3-server.mjs). Parsed
+ * at the first stored or read object, as the uploads' are.
+ */
+const storageEnvSchema = z.object({
+  S3_ENDPOINT: z.url("S3_ENDPOINT must be a URL such as http://127.0.0.1:4568").refine((value) => /^https?:$/.test(new URL(value).protocol), "S3_ENDPOINT must be an http or https URL").default("http://127.0.0.1:4568"),
+  S3_BUCKET: z.string().regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, "S3_BUCKET must be a bucket name: 3 to 63 lower-case letters, digits, dots or hyphens").default("firmsand"),
+  S3_REGION: z.string().min(1).default("us-east-1"),
+  S3_ACCESS_KEY_ID: z.string().min(1, "S3_ACCESS_KEY_ID must not be empty").default("S3RVER"),
+  S3_SECRET_ACCESS_KEY: z.string().min(1, "S3_SECRET_ACCESS_KEY must not be empty").default("S3RVER"),
+  /** Path-style URLs (endpoint/bucket/key): what the fake and most self-hosted stores need. */
+  S3_FORCE_PATH_STYLE: flag.default(true),
+});
+export type StorageEnv = z.infer<typeof storageEnvSchema>;
+let parsedStorage: StorageEnv | undefined;
+
+export function getStorageEnv(): StorageEnv {
+  parsedStorage ??= parseEnvironment(storageEnvSchema);
+  return parsedStorage;
+}
+
 /** The app's settings; the database's are db/settings.ts (read by the connection). */
 export type Env = z.infer<typeof envSchema> & { SESSION_SECRET: string; APP_ORIGIN: string };
 

@@ -1,0 +1,118 @@
+import { Op, type Transaction } from "sequelize";
+import { z } from "zod";
+import { HOLD_AGENCIES, sortCellLabels, type FindCategory, type HoldAgency } from "../../shared/finds/finds";
+import { Find, getSequelize, Hold, HoldCell, HoldNotice } from "~/lib/db.server";
+import { NotFoundError, ValidationError } from "~/lib/errors";
+import { can, type Access } from "~/lib/auth/permissions";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import type { ProjectView } from "~/lib/auth/project-view.server";
+import type { UserView } from "~/lib/auth/users.server";
+
+/**
+ * Stop-work holds around cultural finds and human remains (placed by logFind in finds.server.ts):
+ * the list, the notices to the agencies, the lift with who authorised resuming, and the held cells
+ * the dive plans refuse. Roles that may not see find locations get a hold's id, cells and dates
+ * only: never the find it belongs to.
+ */
+
+const name = (label: string, max: number) => z.string().trim().min(1, `write the ${label}`).max(max, `the ${label} is at most ${max} characters`);
+const optionalText = (max: number) => z.string().trim().max(max, `at most ${max} characters`).nullish().transform((value) => value || null);
+
+export const liftInputSchema = z.object({
+  authorisedBy: name("name and office of who authorised resuming", 200),
+  note: optionalText(2000),
+});
+
+export const noticeInputSchema = z.object({
+  agency: z.enum(HOLD_AGENCIES, { message: `the agency is one of ${HOLD_AGENCIES.join(", ")}` }),
+  toldAt: z.iso.datetime({ offset: true, message: "toldAt is a date and time with its offset" }),
+  note: optionalText(2000),
+});
+
+
+export interface HoldView {
+  id: number;
+  cells: string[];
+  placedAt: string;
+  lifted: boolean;
+  /** Only for roles that may see locations: the find, the radius, the notices and the lift. */
+  find?: { id: number; catalogueNumber: string; category: FindCategory };
+  radiusM?: number;
+  radiusSource?: string;
+  notices?: Array<{ agency: HoldAgency; toldAt: string | null; note: string | null }>;
+  liftedAt?: string | null;
+  authorisedBy?: string | null;
+  liftNote?: string | null;
+}
+
+export async function listHolds(project: ProjectView, access: Access): Promise<HoldView[]> {
+  const holds = await Hold.findAll({
+    where: { projectId: project.id },
+    include: [{ model: HoldCell, as: "cells" }, { model: HoldNotice, as: "notices" }, { model: Find, as: "find", attributes: ["id", "catalogueNumber", "category"] }],
+    order: [["placedAt", "DESC"], ["id", "DESC"]],
+  });
+  const locations = can(access, "finds.locations.read");
+  return holds.map((hold) => {
+    const view: HoldView = { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)), placedAt: hold.placedAt.toISOString(), lifted: hold.liftedAt !== null };
+    if (!locations) return view;
+    return {
+      ...view,
+      find: hold.find ? { id: hold.find.id, catalogueNumber: hold.find.catalogueNumber, category: hold.find.category } : undefined,
+      radiusM: hold.radiusM,
+      radiusSource: hold.radiusSource,
+      notices: (hold.notices ?? []).map((notice) => ({ agency: notice.agency, toldAt: notice.toldAt?.toISOString() ?? null, note: notice.note })),
+      liftedAt: hold.liftedAt?.toISOString() ?? null,
+      authorisedBy: hold.authorisedBy,
+      liftNote: hold.liftNote,
+    };
+  });
+}
+
+async function openHold(project: ProjectView, holdId: number, transaction: Transaction): Promise<Hold> {
+  const hold = await Hold.findOne({ where: { id: holdId, projectId: project.id }, lock: transaction.LOCK.UPDATE, transaction });
+  if (!hold) throw new NotFoundError("There is no such hold in this project.");
+  return hold;
+}
+
+export async function liftHold(project: ProjectView, user: UserView, holdId: number, input: z.output<typeof liftInputSchema>, ip: string | null = null): Promise<void> {
+  await getSequelize().transaction(async (transaction) => {
+    const hold = await openHold(project, holdId, transaction);
+    if (hold.liftedAt) throw new ValidationError({ message: `Hold #${hold.id} was lifted already.` });
+    await hold.update({ liftedAt: new Date(), liftedById: user.id, authorisedBy: input.authorisedBy, liftNote: input.note }, { transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.holdLifted, projectId: project.id, userId: user.id, ip, detail: { holdId: hold.id, authorisedBy: input.authorisedBy } }, transaction);
+  });
+}
+
+export async function recordHoldNotice(project: ProjectView, user: UserView, holdId: number, input: z.output<typeof noticeInputSchema>, ip: string | null = null): Promise<void> {
+  await getSequelize().transaction(async (transaction) => {
+    const hold = await openHold(project, holdId, transaction);
+    const notice = await HoldNotice.findOne({ where: { holdId: hold.id, agency: input.agency }, transaction });
+    if (!notice) throw new ValidationError({ field: "agency", message: "This hold does not list that agency." });
+    await notice.update({ toldAt: new Date(input.toldAt), toldById: user.id, note: input.note }, { transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.holdNoticeRecorded, projectId: project.id, userId: user.id, ip, detail: { holdId: hold.id, agency: input.agency } }, transaction);
+  });
+}
+
+/** The open holds covering any of `cells` (grid row/col), each with the cells it holds among them. */
+export async function openHoldsOn(projectId: number, cells: Array<{ row: number; col: number }>, transaction?: Transaction): Promise<Array<{ holdId: number; cells: string[] }>> {
+  if (cells.length === 0) return [];
+  const rows = await HoldCell.findAll({
+    where: { projectId, [Op.or]: cells.map(({ row, col }) => ({ row, col })) },
+    include: [{ model: Hold, as: "hold", where: { liftedAt: null }, attributes: ["id"] }],
+    order: [["label", "ASC"]],
+    transaction,
+  });
+  const byHold = new Map<number, string[]>();
+  for (const row of rows) byHold.set(row.holdId, [...(byHold.get(row.holdId) ?? []), row.label]);
+  return [...byHold].map(([holdId, labels]) => ({ holdId, cells: labels }));
+}
+
+/** Labels of every cell under an open hold (the map's "held" cells; no details). */
+export async function heldCellLabels(projectId: number): Promise<string[]> {
+  const rows = await HoldCell.findAll({
+    where: { projectId },
+    include: [{ model: Hold, as: "hold", where: { liftedAt: null }, attributes: [] }],
+    attributes: ["label"],
+  });
+  return sortCellLabels(new Set(rows.map((row) => row.label)));
+}
