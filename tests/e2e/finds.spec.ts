@@ -69,6 +69,8 @@ test("a cultural find: logged with a photo on a phone, held on the map, hidden w
   // 2. The dive supervisor's map: the cell is "held", and assigning it is refused naming the hold.
   await signIn("dive-supervisor");
   await page.goto(`/projects/${projectId}/map`);
+  // The cell search needs the cells loaded (slow under load).
+  await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-cells-drawn", /\d+/, { timeout: 20_000 });
   await expect(page.getByTestId("hold-banner")).toBeVisible();
   await expect(page.getByRole("figure", { name: "Legend" })).toContainText("Held (stop-work hold)");
   await page.getByLabel("Search cell label").fill(heldCell);
@@ -139,6 +141,7 @@ test("a cultural find: logged with a photo on a phone, held on the map, hidden w
   await expect(monitor.getByText(/lifted: its cells can be assigned again/)).toBeVisible();
   await phone.close();
   await page.reload();
+  await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-cells-drawn", /\d+/, { timeout: 20_000 });
   await page.getByLabel("Search cell label").fill(heldCell);
   await page.getByRole("button", { name: "Find" }).click();
   await expect(page.getByTestId("held-selection")).toHaveCount(0);
