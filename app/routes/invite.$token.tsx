@@ -11,6 +11,9 @@ import { signIn } from "~/lib/auth/session.server";
 import { acceptInvitation, lookUpInvitation } from "~/models/invitation.server";
 import type { Route } from "./+types/invite.$token";
 import { readPageForm } from "~/lib/http/body.server";
+import { recordLoginAttempt, signInLockout } from "~/lib/auth/sign-in-throttle.server";
+import { isKnownDevice } from "~/lib/auth/known-device.server";
+import { findUserByEmail } from "~/lib/auth/users.server";
 
 // Open to anyone holding the link: the token itself is the credential.
 const CLOSED_MESSAGES = {
@@ -43,12 +46,26 @@ export async function action({ request, params }: Route.ActionArgs) {
     ? parseForm(formData, existingAccountSchema.transform((value) => ({ ...value, name: "" })))
     : parseForm(formData, newAccountSchema);
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
-  const result = await acceptInvitation(params.token, parsed.data, clientAddress(request));
+  const ip = clientAddress(request);
+  // An existing account's password is checked here too: throttled exactly as sign-in is.
+  const throttled = lookup.invitation.hasAccount ? await invitePasswordLockout(request, lookup.invitation.email, ip) : null;
+  if (throttled) return data({ errors: { password: throttled } as Record<string, string> }, { status: 429 });
+  const result = await acceptInvitation(params.token, parsed.data, ip);
   if (!result.ok) {
-    if (result.reason === "wrong-password") return data({ errors: { password: "That is not the password of this account." } as Record<string, string> }, { status: 400 });
+    if (result.reason === "wrong-password") {
+      await recordLoginAttempt(lookup.invitation.email, ip, false);
+      return data({ errors: { password: "That is not the password of this account." } as Record<string, string> }, { status: 400 });
+    }
     return data({ errors: { form: CLOSED_MESSAGES[result.reason] } as Record<string, string> }, { status: 410 });
   }
   return signIn(request, result.user.id, `/projects/${result.projectId}`);
+}
+
+/** The sign-in lock for the invited account's address, sparing a browser it signed in from before; null when not locked. */
+async function invitePasswordLockout(request: Request, email: string, ip: string): Promise<string | null> {
+  const user = await findUserByEmail(email);
+  const lockout = await signInLockout(email, ip, new Date(), user ? await isKnownDevice(request, user.id) : false);
+  return lockout?.message ?? null;
 }
 
 export function meta({}: Route.MetaArgs) {

@@ -4,7 +4,8 @@ import { Op, type Transaction } from "sequelize";
 import { SignInSession } from "~/lib/db.server";
 import { clientAddress } from "../http/client-address.server";
 import { getEnv } from "../settings/env.server";
-import { appOrigin } from "../http/origin.server";
+import { appOrigin, isSecureRequest } from "../http/origin.server";
+import { rememberDevice } from "./known-device.server";
 
 // One cookie session for the whole app. The cookie is HttpOnly and SameSite=Lax always, and
 // Secure except on plain http to a loopback address or outside production (browsers drop
@@ -21,17 +22,10 @@ export interface SessionData {
 type SessionFlash = Record<string, never>;
 type AppSession = Session<SessionData, SessionFlash>;
 
-const LOOPBACK = new Set(["127.0.0.1", "localhost", "[::1]", "::1"]);
 const storages = new Map<boolean, ReturnType<typeof createCookieSessionStorage<SessionData, SessionFlash>>>();
 /** lastSeenAt is written at most this often per session, so reading a page does not write each time. */
 const TOUCH_EVERY_MS = 60_000;
 
-function isSecureRequest(request: Request): boolean {
-  const url = new URL(request.url);
-  if (url.protocol === "https:") return true;
-  if (LOOPBACK.has(url.hostname)) return false;
-  return getEnv().NODE_ENV === "production";
-}
 
 function storageFor(request: Request) {
   const secure = isSecureRequest(request);
@@ -100,7 +94,11 @@ export async function signIn(request: Request, userId: number, to: string) {
   });
   const session = await storageFor(request).getSession();
   session.set("sessionToken", token);
-  return redirect(to, { headers: { "Set-Cookie": await commitSession(request, session) } });
+  // The browser is remembered for this account, so the sign-in throttle spares it later.
+  const headers = new Headers();
+  headers.append("Set-Cookie", await commitSession(request, session));
+  headers.append("Set-Cookie", await rememberDevice(request, userId));
+  return redirect(to, { headers });
 }
 
 /** Ends the request's own session (signing out) and returns the cookie that clears it. */

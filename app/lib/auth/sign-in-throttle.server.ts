@@ -26,8 +26,13 @@ async function lockoutFor(where: { email: string } | { ip: string }, limit: numb
   return Math.max(1, Math.ceil((oldest + SIGN_IN_WINDOW_MS - now.getTime()) / 60_000));
 }
 
-/** Whether sign-in is refused for this account or address right now, and for how long. */
-export async function signInLockout(email: string, ip: string, now = new Date()): Promise<SignInLockout | null> {
+/**
+ * Whether sign-in is refused for this account or address right now, and for how long. A browser
+ * where the account signed in before (`knownDevice`, app/lib/auth/known-device.server.ts) is
+ * spared both locks: they hold strangers back, not the account's owner.
+ */
+export async function signInLockout(email: string, ip: string, now = new Date(), knownDevice = false): Promise<SignInLockout | null> {
+  if (knownDevice) return null;
   const accountMinutes = await lockoutFor({ email }, MAX_FAILURES_PER_ACCOUNT, now);
   if (accountMinutes !== null) {
     return {

@@ -7,6 +7,7 @@ import { findUserByEmail, normaliseEmail, presentUser, type UserView } from "~/l
 import { Membership } from "~/lib/db.server";
 import { clientAddress } from "../http/client-address.server";
 import { verifyPassword } from "./password.server";
+import { isKnownDevice } from "./known-device.server";
 
 /** A sign-in refused for a reason the person can act on; `field` ties it to a form input. */
 export class SignInError extends Error {
@@ -46,16 +47,17 @@ authenticator.use(
     }
     const email = normaliseEmail(parsed.data.email);
     const ip = clientAddress(request);
-    const lockout = await signInLockout(email, ip);
+    const user = await findUserByEmail(email);
+    const knownDevice = user ? await isKnownDevice(request, user.id) : false;
+    const lockout = await signInLockout(email, ip, new Date(), knownDevice);
     if (lockout) throw new SignInError(lockout.message);
 
-    const user = await findUserByEmail(email);
     const passwordMatches = await verifyPassword(parsed.data.password, user?.passwordHash ?? ABSENT_ACCOUNT_HASH);
     if (!user || !passwordMatches) {
       await recordLoginAttempt(email, ip, false);
       if (user) await auditForAccount(user.id, AUDIT_ACTIONS.signInFailed, ip, { email });
       else await recordAudit({ action: AUDIT_ACTIONS.signInFailed, ip, detail: { email } });
-      const after = await signInLockout(email, ip);
+      const after = await signInLockout(email, ip, new Date(), knownDevice);
       throw new SignInError(after ? after.message : "That e-mail and password do not match an account.", after ? null : "password");
     }
     // Said only after the right password, so the message reveals nothing to someone guessing.

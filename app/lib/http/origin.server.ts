@@ -36,3 +36,13 @@ export function assertSameOrigin(request: Request): void {
     statusText: "Forbidden",
   });
 }
+
+const LOOPBACK = new Set(["127.0.0.1", "localhost", "[::1]", "::1"]);
+
+/** Whether cookies for this request must be Secure: https, or production off loopback (browsers drop Secure cookies sent over http). */
+export function isSecureRequest(request: Request): boolean {
+  const url = new URL(request.url);
+  if (url.protocol === "https:") return true;
+  if (LOOPBACK.has(url.hostname)) return false;
+  return getEnv().NODE_ENV === "production";
+}
