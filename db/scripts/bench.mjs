@@ -10,14 +10,17 @@
 //   map     navigation to the cells drawn for a 100,000-cell bay in headless Chromium, and the
 //           bytes sent (tests/bench/map.ts), against the production build served on BENCH_PORT
 //           (default 3200)
-// Options: --only engine|import|event-loop|map (repeatable); anything else goes to the engine bench
+//   bodies  six 300 MB forms at once to the sign-in and forgot-password pages of the production
+//           build: every answer 413 and the server's memory within 100 MB of before
+//           (tests/bench/oversized-bodies.ts)
+// Options: --only engine|import|event-loop|map|bodies (repeatable); anything else goes to the engine bench
 // (for example --only engine --runs 1). Leaves no process behind: what it started, it stops.
 import { spawn } from "node:child_process";
 import { bin, buildApp, ensureDebianPackage, ensureNpmPackages, isPortOpen, log, run, takeCheckoutLock, waitFor } from "./lib.mjs";
 import { ensureMariaDb, stopMariaDb } from "./db.mjs";
 
 const args = process.argv.slice(2);
-const parts = ["engine", "import", "event-loop", "map"];
+const parts = ["engine", "import", "event-loop", "map", "bodies"];
 const chosen = [];
 const passThrough = [];
 for (let index = 0; index < args.length; index++) {
@@ -66,7 +69,7 @@ if (needsDatabase) {
       const loopEnv = { ...env, NODE_OPTIONS: [env.NODE_OPTIONS, "--expose-gc"].filter(Boolean).join(" ") };
       if ((await runStep(bin("tsx"), ["tests/bench/engine-event-loop.ts"], loopEnv)) !== 0) failed = true;
     }
-    if (selected.includes("import") || selected.includes("map")) {
+    if (selected.includes("import") || selected.includes("map") || selected.includes("bodies")) {
       // The production build, served fresh: the import over HTTP runs first so the server's peak
       // memory (VmHWM) is the import's.
       if (await isPortOpen(port)) throw new Error(`port ${port} is taken; set BENCH_PORT to a free port`);
@@ -84,6 +87,10 @@ if (needsDatabase) {
       if (selected.includes("import")) {
         log("bench: sounding import, over HTTP");
         if ((await runStep(bin("tsx"), ["tests/bench/import-http.ts"], benchEnv)) !== 0) failed = true;
+      }
+      if (selected.includes("bodies")) {
+        log("bench: oversized bodies before sign-in");
+        if ((await runStep(bin("tsx"), ["tests/bench/oversized-bodies.ts"], benchEnv)) !== 0) failed = true;
       }
       if (selected.includes("map")) {
         log("bench: coverage map in Chromium");
