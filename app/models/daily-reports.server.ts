@@ -3,15 +3,14 @@ import { z } from "zod";
 import { compileDay, localDayBounds, type CompiledDay, type DayInterruption } from "../../shared/daily-report/compile";
 import { localDayOf } from "../../shared/local-time";
 import {
-  Assignment, DailyReport, DailyReportAmendment, Dive, DiveTeam, Find, Haul, Hold, MonitoringStation, StopWorkEvent, TubeFill, WaterQualityReading, WildlifeStandDown,
+  Assignment, DailyReport, DewateringShift, DailyReportAmendment, Dive, DiveTeam, Find, Haul, Hold, MonitoringStation, StopWorkEvent, TubeFill, WaterQualityReading, WildlifeStandDown,
   getSequelize, type EnteredNotesRecord,
 } from "~/lib/db.server";
-import { ConflictError } from "~/lib/errors";
+import { ConflictError, NotFoundError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
-import { listShifts } from "./dewatering.server";
 import { listDivesOn } from "./dives.server";
 import { getWaterQualitySettings } from "./water-quality.server";
 
@@ -56,7 +55,7 @@ export async function compileReport(project: ProjectView, date: string, entered:
   const [dives, planned, shifts, tubeFills, hauls, stations, readings, settings, stopWork, standDowns, finds, holds] = await Promise.all([
     listDivesOn(project, date),
     Assignment.findAll({ where: { projectId: project.id, workDate: date }, include: [{ model: DiveTeam, as: "team" }] }),
-    listShifts(project, { from: date, to: date }),
+    DewateringShift.findAll({ where: { projectId: project.id, shiftDate: date } }),
     TubeFill.count({ where: { projectId: project.id, fillDate: date } }),
     Haul.findAll({ where: { projectId: project.id, haulDate: date } }),
     MonitoringStation.findAll({ where: { projectId: project.id, kind: "compliance" }, order: [["name", "ASC"]] }),
@@ -83,7 +82,8 @@ export async function compileReport(project: ProjectView, date: string, entered:
     nowMs,
     dives: dives.map((dive) => ({ team: dive.team, diver: dive.diver, bottomMinutes: dive.bottomMinutes, maxDepth: dive.maxDepth, cells: dive.cells, beyondNoDecompression: dive.noDecompression?.exceeds === true })),
     plannedTeams: [...teams].map(([team, headCount]) => ({ team, headCount })),
-    shifts: shifts.map((shift) => ({ pumpHours: shift.pumpHours, slurryFlow: { value: shift.slurryFlow.value, unit: shift.slurryFlow.unit }, drySolidsKg: shift.computed.drySolidsKg, neatPolymerKg: shift.computed.neatPolymerForShiftKg })),
+    // The dry solids and polymer each shift stored when it was logged: the figures the shift log shows.
+    shifts: shifts.map((shift) => ({ pumpHours: shift.pumpHours, slurryFlow: { value: shift.slurryFlowValue, unit: shift.slurryFlowUnit }, drySolidsKg: shift.drySolidsKg, neatPolymerKg: shift.neatPolymerKg })),
     tubeFills,
     hauls: hauls.map((haul) => ({ ticketNumber: haul.ticketNumber, drySolidsKg: haul.drySolidsKg, loadWetMass: haul.loadWetMass, loadVolume: haul.loadVolume })),
     complianceStations: stations.map((station) => station.name),
@@ -170,4 +170,11 @@ export async function listRecentDays(project: ProjectView, days = 14, nowMs = Da
     const state: DayState = report?.signedAt ? ((report.amendments?.length ?? 0) > 0 ? "amended" : "signed") : report || count > 0 ? "draft" : "no work";
     return { date, state, dives: count };
   });
+}
+
+/** The `<date>` of a day's URL, or 404: a day that cannot exist has no report. */
+export function dayParam(value: string | undefined): string {
+  const parsed = reportDateSchema.safeParse(value);
+  if (!parsed.success) throw new NotFoundError("There is no such day: a day is written YYYY-MM-DD.");
+  return parsed.data;
 }
