@@ -68,6 +68,8 @@ export default [
   route("projects/:projectId", "routes/projects.$projectId.tsx", [
     index("routes/projects.$projectId._index.tsx"),
     route("audit", "routes/projects.$projectId.audit.tsx"),
+    route("days", "routes/projects.$projectId.days.tsx"),
+    route("days/:date", "routes/projects.$projectId.days.$date.tsx"),
     route("dewatering", "routes/projects.$projectId.dewatering.tsx"),
     route("dewatering/hauls", "routes/projects.$projectId.dewatering.hauls.tsx"),
     route("dewatering/samples", "routes/projects.$projectId.dewatering.samples.tsx"),
