@@ -22,6 +22,9 @@ export default [
   route("api/projects/:projectId/dewatering/shifts", "routes/api.projects.$projectId.dewatering.shifts.ts"),
   route("api/projects/:projectId/dewatering/tubes", "routes/api.projects.$projectId.dewatering.tubes.ts"),
   route("api/projects/:projectId/dewatering/tubes/:tubeId/fills", "routes/api.projects.$projectId.dewatering.tubes.$tubeId.fills.ts"),
+  route("api/projects/:projectId/days/:date", "routes/api.projects.$projectId.days.$date.ts"),
+  route("api/projects/:projectId/days/:date/amendments", "routes/api.projects.$projectId.days.$date.amendments.ts"),
+  route("api/projects/:projectId/days/:date/sign", "routes/api.projects.$projectId.days.$date.sign.ts"),
   route("api/projects/:projectId/dives", "routes/api.projects.$projectId.dives.ts"),
   route("api/projects/:projectId/finds", "routes/api.projects.$projectId.finds.ts"),
   route("api/projects/:projectId/finds.csv", "routes/api.projects.$projectId.finds[.]csv.ts"),
@@ -65,6 +68,8 @@ export default [
   route("projects/:projectId", "routes/projects.$projectId.tsx", [
     index("routes/projects.$projectId._index.tsx"),
     route("audit", "routes/projects.$projectId.audit.tsx"),
+    route("days", "routes/projects.$projectId.days.tsx"),
+    route("days/:date", "routes/projects.$projectId.days.$date.tsx"),
     route("dewatering", "routes/projects.$projectId.dewatering.tsx"),
     route("dewatering/hauls", "routes/projects.$projectId.dewatering.hauls.tsx"),
     route("dewatering/samples", "routes/projects.$projectId.dewatering.samples.tsx"),

@@ -17,6 +17,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     canManageMembers: can(access, "members.manage"),
     canReadAudit: can(access, "audit.read"),
     canConfigure: can(access, "project.configure"),
+    canReadReports: can(access, "reports.read"),
     // Open stop-work events and stand-downs show on every project page.
     stoppages: await currentStoppages(project),
     canReadFinds,
@@ -38,12 +39,13 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
     <div className="mx-auto max-w-5xl px-6 py-4">
       <p className="text-sm text-muted">Project · your role: {loaderData.roleLabel}</p>
       <h1 className="text-2xl font-semibold text-lagoon-dark">{loaderData.project.name}</h1>
-      <nav aria-label="Project" className="mt-3 flex flex-wrap gap-1 border-b border-line pb-2">
+      <nav aria-label="Project" className="mt-3 print:hidden flex flex-wrap gap-1 border-b border-line pb-2">
         <NavLink end to={base} className={linkClass}>Overview</NavLink>
         <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
         <NavLink to={`${base}/dewatering`} className={linkClass}>Dewatering</NavLink>
         <NavLink to={`${base}/water-quality`} className={linkClass}>Water quality</NavLink>
+        {loaderData.canReadReports ? <NavLink to={`${base}/days`} className={linkClass}>Daily reports</NavLink> : null}
         {loaderData.canReadFinds ? <NavLink to={`${base}/finds`} className={linkClass}>Finds</NavLink> : null}
         {loaderData.canManageMembers ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
         {loaderData.canConfigure ? <NavLink to={`${base}/settings`} className={linkClass}>Settings</NavLink> : null}

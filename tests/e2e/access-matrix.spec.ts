@@ -67,6 +67,10 @@ const MATRIX: Row[] = [
   row("POST", "api/projects/:projectId/dewatering/tubes", "/api/projects/{project}/dewatering/tubes", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
   // The body is read before the tube is looked up: {} is refused first.
   row("POST", "api/projects/:projectId/dewatering/tubes/:tubeId/fills", "/api/projects/{project}/dewatering/tubes/999999999/fills", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
+  // Daily reports: every role but outreach reads them; the manager and the dive supervisor sign and amend ({}: 422).
+  row("GET", "api/projects/:projectId/days/:date", `/api/projects/{project}/days/${PLAN_DATE}`, "200 200 200 200 200 403 200 200 401"),
+  row("POST", "api/projects/:projectId/days/:date/amendments", `/api/projects/{project}/days/${PLAN_DATE}/amendments`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  row("POST", "api/projects/:projectId/days/:date/sign", `/api/projects/{project}/days/${PLAN_DATE}/sign`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/dives", `/api/projects/{project}/dives?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/dives", "/api/projects/{project}/dives", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/hauls", "/api/projects/{project}/hauls", "200 200 200 200 200 200 200 200 401"),
@@ -132,6 +136,9 @@ const MATRIX: Row[] = [
   // A project's pages (the layout and its index share the project's URL).
   row("GET", "projects/:projectId", "/projects/{project}", "200 200 200 200 200 200 200 200 login"),
   row("GET", "projects/:projectId/audit", "/projects/{project}/audit", "200 403 403 403 403 403 403 200 login"),
+  row("GET", "projects/:projectId/days", "/projects/{project}/days", "200 200 200 200 200 403 200 200 login"),
+  row("GET", "projects/:projectId/days/:date", `/projects/{project}/days/${PLAN_DATE}`, "200 200 200 200 200 403 200 200 login"),
+  row("POST", "projects/:projectId/days/:date", `/projects/{project}/days/${PLAN_DATE}`, "400 403 400 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/dewatering", "/projects/{project}/dewatering", "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/dewatering", "/projects/{project}/dewatering", "400 403 403 400 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/dewatering/hauls", "/projects/{project}/dewatering/hauls", "200 200 200 200 200 200 200 200 login"),

@@ -6,7 +6,7 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, Membership, Project, User, Zone, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulSite, Hold, HoldCell, ImportJob, MonitoringStation, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, WaterQualityReading, WildlifeSighting, WildlifeStandDown } from "~/lib/db.server";
+import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Membership, Project, User, Zone, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulSite, Hold, HoldCell, ImportJob, MonitoringStation, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, WaterQualityReading, WildlifeSighting, WildlifeStandDown } from "~/lib/db.server";
 import { listObjectKeys } from "~/lib/storage/storage.server";
 import { logFind } from "~/models/finds.server";
 import { getCellsPayload } from "~/models/cells.server";
@@ -68,7 +68,7 @@ const base = () => `/api/projects/${site.project.id}`;
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
 // SignInSession, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
 // the object store and the staging directory; its custody → FindCustody, Find; a hold's lift →
-// Hold, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
+// Hold, AuditEvent; a day's report signed or amended → DailyReport, DailyReportAmendment, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
   { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
@@ -77,6 +77,8 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/dewatering/shifts", method: "POST", url: () => `${base()}/dewatering/shifts`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/tubes", method: "POST", url: () => `${base()}/dewatering/tubes`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/tubes/:tubeId/fills", method: "POST", url: () => `${base()}/dewatering/tubes/${tubeId}/fills`, params: () => ({ ...projectParams(), tubeId: String(tubeId) }) },
+  { route: "api/projects/:projectId/days/:date/sign", method: "POST", url: () => `${base()}/days/2030-01-02/sign`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
+  { route: "api/projects/:projectId/days/:date/amendments", method: "POST", url: () => `${base()}/days/2030-01-02/amendments`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/dives", method: "POST", url: () => `${base()}/dives`, params: projectParams },
   { route: "api/projects/:projectId/hauls", method: "POST", url: () => `${base()}/hauls`, params: projectParams },
   { route: "api/projects/:projectId/sediment-samples", method: "POST", url: () => `${base()}/sediment-samples`, params: projectParams },
@@ -110,6 +112,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/bands", method: "POST", url: () => `${base()}/bands`, params: projectParams },
   { route: "api/projects/:projectId/cells", method: "POST", url: () => `${base()}/cells`, params: projectParams },
   { route: "api/projects/:projectId/cells/:label", method: "POST", url: () => `${base()}/cells/B7`, params: () => ({ ...projectParams(), label: "B7" }) },
+  { route: "api/projects/:projectId/days/:date", method: "POST", url: () => `${base()}/days/2030-01-02`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/finds.csv", method: "POST", url: () => `${base()}/finds.csv`, params: projectParams },
   { route: "api/projects/:projectId/finds/:findId", method: "POST", url: () => `${base()}/finds/${findId}`, params: () => ({ ...projectParams(), findId: String(findId) }) },
   { route: "api/projects/:projectId/finds/:findId/photos/:photoId", method: "POST", url: () => `${base()}/finds/${findId}/photos/1`, params: () => ({ ...projectParams(), findId: String(findId), photoId: "1" }) },
@@ -194,6 +197,8 @@ async function snapshot() {
     dives: await Dive.count({ where: { projectId } }),
     diveCells: await DiveCell.count({ where: { projectId } }),
     dewateringShifts: await DewateringShift.count({ where: { projectId } }),
+    dailyReports: JSON.stringify(await DailyReport.findAll({ where: { projectId }, raw: true })),
+    dailyReportAmendments: await DailyReportAmendment.count(),
     tubes: JSON.stringify(await GeotextileTube.findAll({ where: { projectId }, raw: true })),
     tubeFills: await TubeFill.count({ where: { projectId } }),
     hauls: await Haul.count({ where: { projectId } }),

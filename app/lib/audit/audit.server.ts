@@ -61,6 +61,9 @@ export const AUDIT_ACTIONS = {
   holdPlaced: "hold-placed",
   holdNoticeRecorded: "hold-notice-recorded",
   holdLifted: "hold-lifted",
+  dailyReportNotesEntered: "daily-report-notes-entered",
+  dailyReportSigned: "daily-report-signed",
+  dailyReportAmended: "daily-report-amended",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

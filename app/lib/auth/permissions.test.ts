@@ -5,15 +5,15 @@ import { ROLES, type Role } from "./roles";
 // The expected table, written out by hand from the product's roles (DESIGN.md, "Who uses it"), not
 // generated from PERMISSIONS: a wrong entry in the table fails here.
 const EXPECTED: Record<Role, Action[]> = {
-  manager: ["project.read", "quantities.read", "quantities.sign", "members.manage", "audit.read", "project.configure", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "dewatering.log", "samples.record", "water-quality.record", "water-quality.configure", "stop-work.resume", "wildlife.record", "share-links.manage", "finds.read", "finds.log", "finds.locations.read", "holds.lift"],
-  surveyor: ["project.read", "quantities.read", "surveys.import", "finds.read"],
-  "dive-supervisor": ["project.read", "quantities.read", "plans.assign", "dives.log", "wildlife.record", "finds.read"],
-  dewatering: ["project.read", "dewatering.log", "water-quality.record", "wildlife.record", "finds.read"],
+  manager: ["project.read", "quantities.read", "quantities.sign", "members.manage", "audit.read", "project.configure", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "dewatering.log", "samples.record", "water-quality.record", "water-quality.configure", "stop-work.resume", "wildlife.record", "share-links.manage", "finds.read", "finds.log", "finds.locations.read", "holds.lift", "reports.read", "reports.sign"],
+  surveyor: ["project.read", "quantities.read", "surveys.import", "finds.read", "reports.read"],
+  "dive-supervisor": ["project.read", "quantities.read", "plans.assign", "dives.log", "wildlife.record", "finds.read", "reports.read", "reports.sign"],
+  dewatering: ["project.read", "dewatering.log", "water-quality.record", "wildlife.record", "finds.read", "reports.read"],
   // Finds (DESIGN.md): the monitor logs them; locations for monitor, manager and site admin only.
-  "resource-monitor": ["project.read", "samples.record", "water-quality.record", "stop-work.resume", "wildlife.record", "finds.read", "finds.log", "finds.locations.read", "holds.lift"],
-  // Outreach sees nothing of finds at all.
+  "resource-monitor": ["project.read", "samples.record", "water-quality.record", "stop-work.resume", "wildlife.record", "finds.read", "finds.log", "finds.locations.read", "holds.lift", "reports.read"],
+  // Outreach sees nothing of finds, nor the daily reports.
   outreach: ["project.read", "share-links.manage"],
-  viewer: ["project.read", "quantities.read", "finds.read"],
+  viewer: ["project.read", "quantities.read", "finds.read", "reports.read"],
 };
 
 describe("the permission table", () => {

@@ -69,6 +69,13 @@ export const PERMISSIONS = {
   "finds.locations.read": ["manager", "resource-monitor"],
   /** Lift a stop-work hold, recording who authorised resuming. */
   "holds.lift": ["manager", "resource-monitor"],
+  /**
+   * The daily reports: the day's compiled figures (finds without locations). Outreach publishes
+   * and has no need of the day's record.
+   */
+  "reports.read": ["manager", "surveyor", "dive-supervisor", "dewatering", "resource-monitor", "viewer"],
+  /** Enter a day's weather and notes, sign the day's report, add amendments to a signed one. */
+  "reports.sign": ["manager", "dive-supervisor"],
   /** Public progress links. */
   "share-links.manage": ["manager", "outreach"],
 } as const satisfies Record<string, readonly Role[]>;

@@ -1,0 +1,75 @@
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
+import { z } from "zod";
+import { jsonColumn, jsonObject } from "./json-column";
+import type { Project } from "./project";
+import type { User } from "./user";
+
+export const weatherSchema = z.object({
+  conditions: z.string(),
+  airTemperature: z.string(),
+  wind: z.string(),
+  rain: z.string(),
+  effect: z.string(),
+});
+
+/** What the supervisor enters by hand on a day's report. */
+export const enteredNotesSchema = z.object({
+  weather: weatherSchema.nullable(),
+  inspections: z.string(),
+  safety: z.string(),
+  notes: z.string(),
+});
+export type EnteredNotesRecord = z.infer<typeof enteredNotesSchema>;
+
+/**
+ * A project's report for one local day: the entered notes and, once signed, the typed name, time
+ * and the compiled figures as signed (its shape is checked by shared/daily-report). Locked once signed.
+ */
+export class DailyReport extends Model<InferAttributes<DailyReport>, InferCreationAttributes<DailyReport>> {
+  declare id: CreationOptional<number>;
+  declare projectId: ForeignKey<Project["id"]>;
+  declare localDate: string;
+  declare entered: EnteredNotesRecord;
+  declare signedByName: string | null;
+  declare signedAt: Date | null;
+  declare signedById: ForeignKey<User["id"]> | null;
+  declare snapshot: Record<string, unknown> | null;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+  declare amendments?: NonAttribute<DailyReportAmendment[]>;
+}
+
+/** A dated correction to a signed daily report, shown beside it. */
+export class DailyReportAmendment extends Model<InferAttributes<DailyReportAmendment>, InferCreationAttributes<DailyReportAmendment>> {
+  declare id: CreationOptional<number>;
+  declare reportId: ForeignKey<DailyReport["id"]>;
+  declare text: string;
+  declare byName: string;
+  declare byId: ForeignKey<User["id"]> | null;
+  declare createdAt: CreationOptional<Date>;
+}
+
+export function initDailyReport(sequelize: Sequelize) {
+  DailyReport.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      localDate: { type: DataTypes.DATEONLY, allowNull: false },
+      entered: jsonColumn("daily_reports", "entered", enteredNotesSchema),
+      signedByName: { type: DataTypes.STRING(200), allowNull: true },
+      signedAt: { type: DataTypes.DATE, allowNull: true },
+      snapshot: jsonColumn("daily_reports", "snapshot", jsonObject, { allowNull: true }),
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: "daily_reports", modelName: "DailyReport", indexes: [{ name: "daily_reports_project_day_unique", unique: true, fields: ["projectId", "localDate"] }] },
+  );
+  DailyReportAmendment.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      text: { type: DataTypes.TEXT, allowNull: false },
+      byName: { type: DataTypes.STRING(200), allowNull: false },
+      createdAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: "daily_report_amendments", modelName: "DailyReportAmendment", updatedAt: false, indexes: [{ name: "daily_report_amendments_report_time", fields: ["reportId", "createdAt"] }] },
+  );
+}

@@ -1,0 +1,121 @@
+import { describe, expect, it } from "vitest";
+import { instantOfLocal } from "../local-time";
+import { compileDay, localDayBounds, M3_PER_US_GALLON, type DayRecords } from "./compile";
+
+const TZ = "America/New_York";
+const at = (day: string, hh: number, mm = 0) => instantOfLocal(day, hh * 60 + mm, TZ);
+
+function records(overrides: Partial<DayRecords> = {}): DayRecords {
+  return {
+    date: "2031-06-10",
+    timeZone: TZ,
+    nowMs: at("2031-06-12", 9),
+    dives: [
+      { team: "Alpha", diver: "R. Ode", bottomMinutes: 45, maxDepth: 12, cells: ["B3", "B4"], beyondNoDecompression: false },
+      { team: "Alpha", diver: "J. Lin", bottomMinutes: 30, maxDepth: 14.5, cells: ["B4"], beyondNoDecompression: false },
+      { team: "Bravo", diver: "K. Moss", bottomMinutes: 200, maxDepth: 40, cells: ["C1"], beyondNoDecompression: true },
+    ],
+    plannedTeams: [{ team: "Alpha", headCount: 4 }, { team: "Bravo", headCount: 3 }],
+    shifts: [
+      { pumpHours: 6, slurryFlow: { value: 500, unit: "gpm" }, drySolidsKg: 12_000, neatPolymerKg: 14.5 },
+      { pumpHours: 2.5, slurryFlow: { value: 100, unit: "m3/h" }, drySolidsKg: null, neatPolymerKg: 3.25 },
+    ],
+    tubeFills: 3,
+    hauls: [
+      { ticketNumber: "T-2", drySolidsKg: 8000, loadWetMass: 20, loadVolume: null },
+      { ticketNumber: "T-1", drySolidsKg: 7500.5, loadWetMass: 19, loadVolume: null },
+    ],
+    complianceStations: ["C1", "C2"],
+    readings: [
+      { station: "C1", stationKind: "compliance", takenAtMs: at("2031-06-10", 8), value: 12, unit: "NTU", exceeds: false },
+      { station: "C1", stationKind: "compliance", takenAtMs: at("2031-06-10", 23, 30), value: 61, unit: "NTU", exceeds: true },
+      { station: "BG", stationKind: "background", takenAtMs: at("2031-06-10", 8), value: 5, unit: "NTU", exceeds: null },
+    ],
+    sampling: { intervalMinutes: 360, workdayStartMinutes: 7 * 60, workdayEndMinutes: 19 * 60 },
+    interruptions: [],
+    finds: [
+      { catalogueNumber: "FS-2031-002", category: "faunal" },
+      { catalogueNumber: "FS-2031-001", category: "cultural" },
+      { catalogueNumber: "FS-2031-003", category: "faunal" },
+    ],
+    holds: [
+      { catalogueNumber: "FS-2031-001", placedAtMs: at("2031-06-10", 10), liftedAtMs: null },
+      { catalogueNumber: "FS-2030-040", placedAtMs: at("2031-06-01", 10), liftedAtMs: at("2031-06-10", 23, 30) },
+    ],
+    entered: { weather: null, inspections: "", safety: "", notes: "" },
+    ...overrides,
+  };
+}
+
+describe("compileDay", () => {
+  it("sums dives per team and for the day (hand-computed)", () => {
+    const day = compileDay(records());
+    // 45 + 30 + 200 = 275 minutes; deepest 40.
+    expect(day.dives).toMatchObject({ count: 3, bottomMinutes: 275, maxDepth: 40 });
+    expect(day.dives.flags).toHaveLength(1);
+    expect(day.teams.map((team) => [team.team, team.headCount, team.dives, team.bottomMinutes, team.maxDepth, team.cells])).toEqual([
+      ["Alpha", 4, 2, 75, 14.5, ["B3", "B4"]],
+      ["Bravo", 3, 1, 200, 40, ["C1"]],
+    ]);
+    expect(day.cells).toEqual(["B3", "B4", "C1"]);
+  });
+
+  it("sums production from shifts and hauls", () => {
+    const { production } = compileDay(records());
+    // 500 gal/min × 60 min × 6 h = 180 000 gal = 681.374… m³; 100 m³/h × 2.5 h = 250 m³.
+    expect(production.slurryPumpedM3).toBeCloseTo(180_000 * 0.003785411784 + 250, 1);
+    expect(M3_PER_US_GALLON).toBeCloseTo(231 * 0.0254 ** 3, 12); // 231 in³, 1 in = 0.0254 m exactly
+    expect(production).toMatchObject({ shifts: 2, pumpHours: 8.5, drySolidsKg: 12_000, neatPolymerKg: 17.75, tubeFills: 3, haulLoads: 2, haulDrySolidsKg: 15_500.5, haulTickets: ["T-1", "T-2"] });
+  });
+
+  it("gives each station its readings and verdict, and lists exceedances including one at 23:30 local", () => {
+    const { waterQuality } = compileDay(records());
+    const c1 = waterQuality.readings.find((row) => row.station === "C1")!;
+    expect(c1).toMatchObject({ count: 2, maxValue: 61, exceeding: 1, withinLimit: 1, verdict: "exceeds" });
+    expect(waterQuality.readings.find((row) => row.station === "BG")).toMatchObject({ count: 1, verdict: "not evaluated" });
+    expect(waterQuality.readings.find((row) => row.station === "C2")).toMatchObject({ count: 0 });
+    // 23:30 EDT (UTC−4) is 03:30 UTC the next day.
+    expect(waterQuality.exceedances).toEqual([{ station: "C1", at: "2031-06-11T03:30:00.000Z", value: 61, unit: "NTU" }]);
+    // Intervals 07–13 (08:00 reading) and 13–19 (none): one gap.
+    expect(waterQuality.missedIntervals).toEqual([{ from: "2031-06-10T17:00:00.000Z", to: "2031-06-10T23:00:00.000Z" }]);
+  });
+
+  it("lists what is missing", () => {
+    const day = compileDay(records());
+    expect(day.missing).toEqual(["no weather entered", "compliance station C2 not sampled", "compliance not sampled 13:00–19:00"]);
+    const idle = compileDay(records({ dives: [], shifts: [], entered: { weather: { conditions: "overcast", airTemperature: "", wind: "", rain: "", effect: "" }, inspections: "", safety: "", notes: "" } }));
+    // No work logged: no sampling is owed, but the missing dive log is said.
+    expect(idle.missing).toEqual(["no dives logged"]);
+  });
+
+  it("counts finds by category with catalogue numbers and holds placed and lifted on the day", () => {
+    const day = compileDay(records());
+    expect(day.finds).toEqual({ byCategory: { faunal: 2, cultural: 1 }, catalogueNumbers: ["FS-2031-001", "FS-2031-002", "FS-2031-003"] });
+    expect(JSON.stringify(day.finds)).not.toMatch(/position|cell/i);
+    expect(day.holds).toEqual({ placed: ["FS-2031-001"], lifted: ["FS-2030-040"] });
+  });
+
+  it("clips interruptions to the local day and counts an open one until now", () => {
+    const day = compileDay(records({
+      interruptions: [
+        // From 22:00 the day before to 02:30: 2.5 h fall on the day.
+        { kind: "stand-down", reason: "manatee", startMs: at("2031-06-09", 22), endMs: at("2031-06-10", 2, 30) },
+        // 23:30 to 01:00 the next day: 0.5 h on the day.
+        { kind: "stop-work", reason: "C1", startMs: at("2031-06-10", 23, 30), endMs: at("2031-06-11", 1) },
+        // Entirely the next day: not on this report.
+        { kind: "stop-work", reason: "C1", startMs: at("2031-06-11", 9), endMs: null },
+      ],
+    }));
+    expect(day.interruptions.map((event) => [event.kind, event.lostHours])).toEqual([["stand-down", 2.5], ["stop-work", 0.5]]);
+    expect(day.lostHours).toBe(3);
+    const open = compileDay(records({ date: "2031-06-11", nowMs: at("2031-06-11", 15), interruptions: [{ kind: "stop-work", reason: "C1", startMs: at("2031-06-11", 9), endMs: null }] }));
+    expect(open.interruptions[0]!.lostHours).toBe(6);
+  });
+
+  it("takes a 23-hour local day across the spring daylight-saving change", () => {
+    const { startMs, endMs } = localDayBounds("2031-03-09", TZ);
+    expect((endMs - startMs) / 3_600_000).toBe(23);
+    const day = compileDay(records({ date: "2031-03-09", nowMs: at("2031-03-12", 0), interruptions: [{ kind: "stand-down", reason: "manatee", startMs: at("2031-03-08", 12), endMs: null }] }));
+    expect(day.interruptions[0]!.lostHours).toBe(23);
+  });
+});

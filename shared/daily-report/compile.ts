@@ -1,0 +1,272 @@
+import { instantOfLocal, localClockOf } from "../local-time";
+import { missedIntervals, type SamplingRoutine } from "../water-quality/missed-samples";
+
+/**
+ * The daily report compiled from one local day's records (already loaded and already limited to
+ * that day by the caller, except interruptions, which are clipped here to the local day). Pure:
+ * the figures are sums of the records, and what is missing is listed so no field goes blank.
+ */
+
+/** One US gallon is 231 cubic inches exactly (US customary definition): 0.003785411784 m³. */
+export const M3_PER_US_GALLON = 0.003785411784;
+
+export interface DayDive {
+  team: string;
+  diver: string;
+  bottomMinutes: number;
+  maxDepth: number;
+  cells: readonly string[];
+  /** The bottom time goes beyond the table's no-decompression figure for the depth (information only). */
+  beyondNoDecompression: boolean;
+}
+
+export interface DayShift {
+  pumpHours: number;
+  slurryFlow: { value: number; unit: "gpm" | "m3/h" };
+  drySolidsKg: number | null;
+  neatPolymerKg: number | null;
+}
+
+export interface DayHaul {
+  ticketNumber: string;
+  drySolidsKg: number;
+  loadWetMass: number | null;
+  loadVolume: number | null;
+}
+
+export interface DayReading {
+  station: string;
+  stationKind: string;
+  takenAtMs: number;
+  value: number;
+  unit: string;
+  /** The verdict made on save: true exceeds, false within the limit, null not evaluated (no pair or no rule). */
+  exceeds: boolean | null;
+}
+
+export interface DayInterruption {
+  kind: "stop-work" | "stand-down";
+  /** Station or species. */
+  reason: string;
+  startMs: number;
+  /** Null while still open. */
+  endMs: number | null;
+}
+
+export interface DayFind {
+  catalogueNumber: string;
+  category: string;
+}
+
+export interface DayHold {
+  catalogueNumber: string;
+  placedAtMs: number;
+  liftedAtMs: number | null;
+}
+
+export interface Weather {
+  conditions: string;
+  airTemperature: string;
+  wind: string;
+  rain: string;
+  /** The weather's effect on the work, in words. */
+  effect: string;
+}
+
+export interface EnteredNotes {
+  weather: Weather | null;
+  inspections: string;
+  safety: string;
+  notes: string;
+}
+
+export interface DayRecords {
+  date: string;
+  timeZone: string;
+  /** The instant the report is compiled; an open interruption counts until then (or the day's end). */
+  nowMs: number;
+  dives: readonly DayDive[];
+  /** Team sizes from the day plan: team name → head count. */
+  plannedTeams: ReadonlyArray<{ team: string; headCount: number }>;
+  shifts: readonly DayShift[];
+  tubeFills: number;
+  hauls: readonly DayHaul[];
+  complianceStations: readonly string[];
+  readings: readonly DayReading[];
+  sampling: SamplingRoutine | null;
+  interruptions: readonly DayInterruption[];
+  finds: readonly DayFind[];
+  holds: readonly DayHold[];
+  entered: EnteredNotes;
+}
+
+export interface TeamDay {
+  team: string;
+  headCount: number | null;
+  dives: number;
+  bottomMinutes: number;
+  maxDepth: number | null;
+  cells: string[];
+  flags: string[];
+}
+
+export interface CompiledDay {
+  date: string;
+  dives: { count: number; bottomMinutes: number; maxDepth: number | null; flags: string[] };
+  teams: TeamDay[];
+  cells: string[];
+  production: {
+    shifts: number;
+    pumpHours: number;
+    slurryPumpedM3: number;
+    drySolidsKg: number;
+    neatPolymerKg: number;
+    tubeFills: number;
+    haulLoads: number;
+    haulDrySolidsKg: number;
+    haulTickets: string[];
+  };
+  waterQuality: {
+    readings: Array<{ station: string; stationKind: string; count: number; maxValue: number; unit: string; exceeding: number; withinLimit: number; notEvaluated: number; verdict: "exceeds" | "within limit" | "not evaluated" }>;
+    exceedances: Array<{ station: string; at: string; value: number; unit: string }>;
+    missedIntervals: Array<{ from: string; to: string }>;
+  };
+  interruptions: Array<{ kind: DayInterruption["kind"]; reason: string; start: string; end: string | null; lostHours: number }>;
+  lostHours: number;
+  finds: { byCategory: Record<string, number>; catalogueNumbers: string[] };
+  holds: { placed: string[]; lifted: string[] };
+  entered: EnteredNotes;
+  missing: string[];
+}
+
+const round = (value: number, places: number) => Math.round(value * 10 ** places) / 10 ** places;
+
+/** The day after a local date (calendar arithmetic, no zone). */
+export function nextDay(date: string): string {
+  const [year, month, day] = date.split("-").map(Number);
+  return new Date(Date.UTC(year!, month! - 1, day! + 1)).toISOString().slice(0, 10);
+}
+
+/** The local day as instants `[start, end)`; 23 or 25 hours long across a daylight-saving change. */
+export function localDayBounds(date: string, timeZone: string): { startMs: number; endMs: number } {
+  return { startMs: instantOfLocal(date, 0, timeZone), endMs: instantOfLocal(nextDay(date), 0, timeZone) };
+}
+
+export function slurryM3(shift: DayShift): number {
+  const perHourM3 = shift.slurryFlow.unit === "gpm" ? shift.slurryFlow.value * 60 * M3_PER_US_GALLON : shift.slurryFlow.value;
+  return perHourM3 * shift.pumpHours;
+}
+
+export function compileDay(records: DayRecords): CompiledDay {
+  const { date, timeZone } = records;
+  const { startMs, endMs } = localDayBounds(date, timeZone);
+  const clock = (ms: number) => localClockOf(ms, timeZone);
+
+  const teamNames = [...new Set([...records.plannedTeams.map((team) => team.team), ...records.dives.map((dive) => dive.team)])].sort();
+  const teams: TeamDay[] = teamNames.map((team) => {
+    const own = records.dives.filter((dive) => dive.team === team);
+    const flags = own.filter((dive) => dive.beyondNoDecompression).map((dive) => `${dive.diver}: bottom time ${dive.bottomMinutes} min at ${dive.maxDepth} beyond the no-decompression figure`);
+    return {
+      team,
+      headCount: records.plannedTeams.find((planned) => planned.team === team)?.headCount ?? null,
+      dives: own.length,
+      bottomMinutes: own.reduce((sum, dive) => sum + dive.bottomMinutes, 0),
+      maxDepth: own.length ? Math.max(...own.map((dive) => dive.maxDepth)) : null,
+      cells: [...new Set(own.flatMap((dive) => dive.cells))].sort(),
+      flags,
+    };
+  });
+
+  const stations = [...new Set([...records.complianceStations, ...records.readings.map((reading) => reading.station)])].sort();
+  const perStation = stations.map((station) => {
+    const own = records.readings.filter((reading) => reading.station === station);
+    const exceeding = own.filter((reading) => reading.exceeds === true).length;
+    const withinLimit = own.filter((reading) => reading.exceeds === false).length;
+    return {
+      station,
+      stationKind: own[0]?.stationKind ?? "compliance",
+      count: own.length,
+      maxValue: own.length ? Math.max(...own.map((reading) => reading.value)) : 0,
+      unit: own[0]?.unit ?? "NTU",
+      exceeding,
+      withinLimit,
+      notEvaluated: own.length - exceeding - withinLimit,
+      verdict: exceeding > 0 ? ("exceeds" as const) : withinLimit > 0 ? ("within limit" as const) : ("not evaluated" as const),
+    };
+  });
+  const worked = records.dives.length > 0 || records.shifts.length > 0;
+  const complianceTimes = records.readings.filter((reading) => reading.stationKind === "compliance").map((reading) => reading.takenAtMs);
+  const missed = worked && records.sampling ? missedIntervals([date], complianceTimes, records.sampling, timeZone) : [];
+
+  const interruptions = records.interruptions
+    .map((event) => {
+      const from = Math.max(event.startMs, startMs);
+      const to = Math.min(event.endMs ?? Math.min(records.nowMs, endMs), endMs);
+      return { event, lostMs: Math.max(0, to - from) };
+    })
+    .filter(({ event }) => event.startMs < endMs && (event.endMs === null || event.endMs > startMs))
+    .sort((a, b) => a.event.startMs - b.event.startMs)
+    .map(({ event, lostMs }) => ({
+      kind: event.kind,
+      reason: event.reason,
+      start: new Date(event.startMs).toISOString(),
+      end: event.endMs === null ? null : new Date(event.endMs).toISOString(),
+      lostHours: round(lostMs / 3_600_000, 2),
+    }));
+
+  const byCategory: Record<string, number> = {};
+  for (const find of records.finds) byCategory[find.category] = (byCategory[find.category] ?? 0) + 1;
+  const inDay = (ms: number | null) => ms !== null && ms >= startMs && ms < endMs;
+
+  const missing: string[] = [];
+  if (!records.entered.weather || !records.entered.weather.conditions.trim()) missing.push("no weather entered");
+  if (records.dives.length === 0) missing.push("no dives logged");
+  if (worked) {
+    for (const station of records.complianceStations) {
+      if (!records.readings.some((reading) => reading.station === station)) missing.push(`compliance station ${station} not sampled`);
+    }
+    for (const gap of missed) missing.push(`compliance not sampled ${clock(gap.fromMs)}–${clock(gap.toMs)}`);
+  }
+  for (const team of teams) if (team.dives > 0 && team.headCount === null) missing.push(`no head count for team ${team.team}`);
+
+  const haulTickets = records.hauls.map((haul) => haul.ticketNumber).sort();
+  return {
+    date,
+    dives: {
+      count: records.dives.length,
+      bottomMinutes: records.dives.reduce((sum, dive) => sum + dive.bottomMinutes, 0),
+      maxDepth: records.dives.length ? Math.max(...records.dives.map((dive) => dive.maxDepth)) : null,
+      flags: teams.flatMap((team) => team.flags),
+    },
+    teams,
+    cells: [...new Set(records.dives.flatMap((dive) => dive.cells))].sort(),
+    production: {
+      shifts: records.shifts.length,
+      pumpHours: round(records.shifts.reduce((sum, shift) => sum + shift.pumpHours, 0), 2),
+      slurryPumpedM3: round(records.shifts.reduce((sum, shift) => sum + slurryM3(shift), 0), 1),
+      drySolidsKg: round(records.shifts.reduce((sum, shift) => sum + (shift.drySolidsKg ?? 0), 0), 1),
+      neatPolymerKg: round(records.shifts.reduce((sum, shift) => sum + (shift.neatPolymerKg ?? 0), 0), 2),
+      tubeFills: records.tubeFills,
+      haulLoads: records.hauls.length,
+      haulDrySolidsKg: round(records.hauls.reduce((sum, haul) => sum + haul.drySolidsKg, 0), 1),
+      haulTickets,
+    },
+    waterQuality: {
+      readings: perStation,
+      exceedances: records.readings
+        .filter((reading) => reading.exceeds === true)
+        .sort((a, b) => a.takenAtMs - b.takenAtMs)
+        .map((reading) => ({ station: reading.station, at: new Date(reading.takenAtMs).toISOString(), value: reading.value, unit: reading.unit })),
+      missedIntervals: missed.map((gap) => ({ from: new Date(gap.fromMs).toISOString(), to: new Date(gap.toMs).toISOString() })),
+    },
+    interruptions,
+    lostHours: round(interruptions.reduce((sum, event) => sum + event.lostHours, 0), 2),
+    finds: { byCategory, catalogueNumbers: records.finds.map((find) => find.catalogueNumber).sort() },
+    holds: {
+      placed: records.holds.filter((hold) => inDay(hold.placedAtMs)).map((hold) => hold.catalogueNumber).sort(),
+      lifted: records.holds.filter((hold) => inDay(hold.liftedAtMs)).map((hold) => hold.catalogueNumber).sort(),
+    },
+    entered: records.entered,
+    missing,
+  };
+}

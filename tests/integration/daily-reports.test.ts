@@ -1,0 +1,192 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeSequelize } from "../../db/connection.server";
+import { instantOfLocal } from "../../shared/local-time";
+import {
+  AuditEvent, DewateringShift, Dive, DiveCell, DiveTeam, Find, GeotextileTube, Haul, HaulSite, Hold, MonitoringStation, Project, TubeFill, WildlifeStandDown, type Role,
+} from "~/lib/db.server";
+import { ConflictError } from "~/lib/errors";
+import { presentProject } from "~/lib/auth/project-view.server";
+import { action as rulesAction } from "~/routes/api.projects.$projectId.water-quality.rules";
+import { action as readingsAction } from "~/routes/api.projects.$projectId.water-quality.readings";
+import { loader as dayLoader } from "~/routes/api.projects.$projectId.days.$date";
+import { action as signAction } from "~/routes/api.projects.$projectId.days.$date.sign";
+import { action as amendAction } from "~/routes/api.projects.$projectId.days.$date.amendments";
+import { saveEnteredNotes } from "~/models/daily-reports.server";
+import { addMember, makeProject, makeUser, requestAs, thrown } from "./helpers";
+
+afterAll(closeSequelize);
+
+const TZ = "America/New_York";
+const DAY = "2026-06-10";
+const NEXT = "2026-06-11";
+const PREVIOUS = "2026-06-09";
+const local = (day: string, hh: number, mm = 0) => new Date(instantOfLocal(day, hh * 60 + mm, TZ));
+
+type Handler = (args: never) => Promise<Response>;
+let projectId: number;
+const users = new Map<Role, { id: number; name: string }>();
+const call = async (handler: Handler, role: Role, path: string, init: RequestInit = {}, params: Record<string, string> = {}) => {
+  const request = await requestAs(users.get(role)!.id, path, init);
+  return handler({ request, params: { projectId: String(projectId), ...params }, context: {} } as never);
+};
+const postJson = (handler: Handler, role: Role, path: string, body: unknown, params: Record<string, string> = {}) =>
+  call(handler, role, path, { method: "POST", body: JSON.stringify(body), headers: { "Content-Type": "application/json", Origin: "http://127.0.0.1:3999" } }, params);
+const dayPath = (date: string) => `/api/projects/${projectId}/days/${date}`;
+const getDay = async (role: Role, date: string) => call(dayLoader as never, role, dayPath(date), {}, { date });
+
+// The source records, kept here so the expected figures are their sums.
+const dives = [
+  { day: DAY, team: "Alpha", bottomMinutes: 42, maxDepth: 11.5, cells: ["B3", "B4"] },
+  { day: DAY, team: "Alpha", bottomMinutes: 37, maxDepth: 13, cells: ["B4"] },
+  { day: DAY, team: "Bravo", bottomMinutes: 55, maxDepth: 9, cells: ["D7"] },
+  { day: NEXT, team: "Bravo", bottomMinutes: 60, maxDepth: 20, cells: ["E1"] },
+];
+const shifts = [
+  { day: DAY, pumpHours: 5, flowM3PerH: 120, drySolidsKg: 7_000, neatPolymerKg: 6.5 },
+  { day: DAY, pumpHours: 3.5, flowM3PerH: 80, drySolidsKg: 3_100.4, neatPolymerKg: 2.25 },
+  { day: PREVIOUS, pumpHours: 8, flowM3PerH: 100, drySolidsKg: 9_000, neatPolymerKg: 9 },
+];
+const hauls = [
+  { day: DAY, ticket: "H-101", drySolidsKg: 9_100 },
+  { day: DAY, ticket: "H-102", drySolidsKg: 8_750.5 },
+  { day: NEXT, ticket: "H-103", drySolidsKg: 9_000 },
+];
+
+beforeAll(async () => {
+  const project = await makeProject("daily-report");
+  projectId = project.id;
+  await Project.update({ timeZone: TZ }, { where: { id: projectId } });
+  for (const role of ["manager", "dive-supervisor", "dewatering", "viewer", "outreach"] as Role[]) {
+    const user = await makeUser(`day-${role}`);
+    await addMember(user.id, projectId, role);
+    users.set(role, { id: user.id, name: user.name });
+  }
+  const member = (name: string) => ({ name, email: "", duty: "diver" });
+  const teams = {
+    Alpha: await DiveTeam.create({ projectId, name: "Alpha", hoses: [], members: [member("a"), member("b"), member("c"), member("d")] }),
+    Bravo: await DiveTeam.create({ projectId, name: "Bravo", hoses: [], members: [member("e"), member("f"), member("g")] }),
+  };
+  for (const dive of dives) {
+    const row = await Dive.create({ projectId, diveDate: dive.day, teamId: teams[dive.team as "Alpha" | "Bravo"].id, diverName: "Diver", leftSurfaceAt: null, leftBottomAt: null, bottomMinutes: dive.bottomMinutes, maxDepth: dive.maxDepth, notes: "" });
+    for (const [index, label] of dive.cells.entries()) await DiveCell.create({ diveId: row.id, projectId, row: index, col: 0, label });
+  }
+  for (const shift of shifts) {
+    await DewateringShift.create({
+      projectId, shiftDate: shift.day, startAt: "07:00", endAt: "15:00", pumpHours: shift.pumpHours, slurryFlowValue: shift.flowM3PerH, slurryFlowUnit: "m3/h",
+      totaliserStart: null, totaliserEnd: null, totaliserUnit: null, solidsByWeight: 0.1, slurrySpecificGravity: null, solidsSpecificGravity: 2.5,
+      polymerProduct: "P-1", polymerLot: null, doseMgPerL: 10, stockPercent: 0.5, drySolidsKg: shift.drySolidsKg, neatPolymerKg: shift.neatPolymerKg, notes: "", idempotencyKey: null,
+    });
+  }
+  const tube = await GeotextileTube.create({ projectId, name: "T1", circumference: 18, length: 30, capacityDryMassPerLength: 1000, status: "filling", notes: "", createdById: null });
+  await TubeFill.create({ projectId, tubeId: tube.id, shiftId: null, fillDate: DAY, slurryVolumeM3: null, drySolidsKg: 1000 });
+  const site = await HaulSite.create({ projectId, name: "Reuse field", kind: "reuse", permitNumber: "" });
+  for (const haul of hauls) {
+    await Haul.create({ projectId, haulDate: haul.day, ticketNumber: haul.ticket, truck: "T-9", siteId: site.id, loadWetMass: 20, loadVolume: null, cakeSolidsByWeight: 0.45, cakeSolidsFromSample: false, solidsSpecificGravity: 2.5, drySolidsKg: haul.drySolidsKg, notes: "", idempotencyKey: null });
+  }
+  await MonitoringStation.create({ projectId, name: "C1", kind: "compliance", positionX: null, positionY: null, depthRule: null });
+  await MonitoringStation.create({ projectId, name: "C2", kind: "compliance", positionX: null, positionY: null, depthRule: null });
+  // Through the readings API, which files each reading on its local day: 23:30 EDT is already the 11th in UTC.
+  const rule = await postJson(rulesAction as never, "manager", `/api/projects/${projectId}/water-quality/rules`, { kind: "absolute", limit: 50, source: "Test permit condition" });
+  expect(rule.status).toBe(201);
+  for (const [takenAt, value] of [["2026-06-10T08:00:00-04:00", 12], ["2026-06-10T23:30:00-04:00", 61], ["2026-06-11T00:30:00-04:00", 12]] as const) {
+    const response = await postJson(readingsAction as never, "dewatering", `/api/projects/${projectId}/water-quality/readings`, { station: "C1", takenAt, value, unit: "NTU" });
+    expect(response.status, await response.clone().text()).toBe(201);
+  }
+  // From 22:00 on the 10th to 01:00 on the 11th: 2 h of it fall on the 10th.
+  await WildlifeStandDown.create({ projectId, species: "manatee", startedAt: local(DAY, 22), departedAt: local(NEXT, 0, 30), endsAt: local(NEXT, 1), waitMinutes: 30, shutdownDistance: 50 });
+  const find = (sequence: number, category: "faunal" | "cultural", foundAt: Date) => Find.create({
+    projectId, catalogueNumber: `FS-2031-${String(sequence).padStart(3, "0")}`, catalogueYear: 2031, catalogueSequence: sequence, category, description: "x", material: "", count: 1, taxon: null, element: null, condition: "",
+    cellRow: 1, cellCol: 1, cellLabel: "B1", positionX: 600_010, positionY: 1_600_010, depthBelowSurface: null, depthInMuck: null, diveId: null, teamId: null, finder: "Diver", foundAt, fieldTag: "", accessionNumber: null, statusNote: null, idempotencyKey: null,
+  });
+  const cultural = await find(1, "cultural", local(DAY, 23, 30));
+  await find(2, "faunal", local(DAY, 9));
+  await find(3, "faunal", local(NEXT, 0, 30));
+  await Hold.create({ projectId, findId: cultural.id, radiusM: 50, radiusSource: "permit", placedAt: local(DAY, 23, 35), liftedAt: null, authorisedBy: null, liftNote: null });
+});
+
+describe("the day's compiled figures", () => {
+  it("equal the sums of the project's records for the local day, including records at 23:30 local time", async () => {
+    const response = await getDay("viewer", DAY);
+    expect(response.status).toBe(200);
+    const body = await response.json();
+    const onDay = <T extends { day: string }>(rows: T[]) => rows.filter((row) => row.day === DAY);
+    const sum = <T>(rows: T[], pick: (row: T) => number) => rows.reduce((total, row) => total + pick(row), 0);
+    expect(body.date).toBe(DAY);
+    expect(body.dives.count).toBe(onDay(dives).length);
+    expect(body.dives.bottomMinutes).toBe(sum(onDay(dives), (dive) => dive.bottomMinutes)); // 42 + 37 + 55 = 134
+    expect(body.dives.maxDepth).toBe(13);
+    expect(body.cells).toEqual(["B3", "B4", "D7"]);
+    expect(body.teams.map((team: { team: string; bottomMinutes: number }) => [team.team, team.bottomMinutes])).toEqual([["Alpha", 79], ["Bravo", 55]]);
+    expect(body.production.shifts).toBe(2);
+    expect(body.production.pumpHours).toBe(sum(onDay(shifts), (shift) => shift.pumpHours)); // 8.5
+    expect(body.production.slurryPumpedM3).toBeCloseTo(sum(onDay(shifts), (shift) => shift.pumpHours * shift.flowM3PerH), 6); // 600 + 280
+    expect(body.production.drySolidsKg).toBeCloseTo(sum(onDay(shifts), (shift) => shift.drySolidsKg), 6); // 10 100.4
+    expect(body.production.neatPolymerKg).toBeCloseTo(sum(onDay(shifts), (shift) => shift.neatPolymerKg), 6); // 8.75
+    expect(body.production.tubeFills).toBe(1);
+    expect(body.production.haulLoads).toBe(2);
+    expect(body.production.haulDrySolidsKg).toBeCloseTo(sum(onDay(hauls), (haul) => haul.drySolidsKg), 6); // 17 850.5
+    expect(body.production.haulTickets).toEqual(["H-101", "H-102"]);
+    // C1 sampled at 08:00 and 23:30 local on the 10th; the 00:30 reading belongs to the 11th.
+    expect(body.waterQuality.readings.find((row: { station: string }) => row.station === "C1")).toMatchObject({ count: 2, exceeding: 1, withinLimit: 1, maxValue: 61, verdict: "exceeds" });
+    expect(body.waterQuality.exceedances).toEqual([{ station: "C1", at: "2026-06-11T03:30:00.000Z", value: 61, unit: "NTU" }]);
+    expect(body.waterQuality.readings.find((row: { station: string }) => row.station === "C2").count).toBe(0);
+    expect(body.missing).toContain("compliance station C2 not sampled");
+    expect(body.missing).toContain("no weather entered");
+    // The 23:30 exceedance stops work (still open): its last half hour of the day is lost.
+    expect(body.interruptions).toEqual([expect.objectContaining({ kind: "stand-down", reason: "manatee", lostHours: 2 }), expect.objectContaining({ kind: "stop-work", end: null, lostHours: 0.5 })]);
+    expect(body.lostHours).toBe(2.5);
+    expect(body.finds).toEqual({ byCategory: { cultural: 1, faunal: 1 }, catalogueNumbers: ["FS-2031-001", "FS-2031-002"] });
+    expect(body.holds.placed).toEqual(["FS-2031-001"]);
+    // A funders' document: no find location travels in it.
+    expect(JSON.stringify(body)).not.toMatch(/600010|1600010|positionX|cellLabel/);
+    expect(body.signed).toBeUndefined();
+  });
+
+  it("the next day counts only its own records", async () => {
+    const body = await (await getDay("manager", NEXT)).json();
+    expect(body.dives).toMatchObject({ count: 1, bottomMinutes: 60 });
+    expect(body.production.haulTickets).toEqual(["H-103"]);
+    expect(body.finds.catalogueNumbers).toEqual(["FS-2031-003"]);
+    // The stand-down's last hour, and the whole 24-hour day of the stop-work not yet resumed.
+    expect(body.interruptions.map((event: { kind: string; lostHours: number }) => [event.kind, event.lostHours])).toEqual([["stand-down", 1], ["stop-work", 24]]);
+  });
+
+  it("is read by every project role except outreach; a date that cannot exist is 404", async () => {
+    expect((await getDay("outreach", DAY)).status).toBe(403);
+    expect((await getDay("dewatering", DAY)).status).toBe(200);
+    expect((await getDay("manager", "2026-02-30")).status).toBe(404);
+  });
+});
+
+describe("signing and amendments", () => {
+  it("an amendment before signing is refused (the report is still edited directly)", async () => {
+    expect((await postJson(amendAction as never, "manager", `${dayPath(DAY)}/amendments`, { text: "early" }, { date: DAY })).status).toBe(409);
+  });
+
+  it("only a manager or dive supervisor signs; the typed name signs; a second signature is 409", async () => {
+    const project = presentProject((await Project.findByPk(projectId))!);
+    await saveEnteredNotes(project, { id: users.get("dive-supervisor")!.id, name: "x", email: "", isSiteAdmin: false, mayCreateProjects: false }, DAY, { conditions: "Overcast", airTemperature: "24 °C", wind: "SW 10 kn", rain: "none", effect: "none", inspections: "", safety: "", notes: "" });
+    expect((await postJson(signAction as never, "viewer", `${dayPath(DAY)}/sign`, { name: "V" }, { date: DAY })).status).toBe(403);
+    expect((await postJson(signAction as never, "dive-supervisor", `${dayPath(DAY)}/sign`, { name: "" }, { date: DAY })).status).toBe(422);
+    const signed = await postJson(signAction as never, "dive-supervisor", `${dayPath(DAY)}/sign`, { name: "Dana Reyes" }, { date: DAY });
+    expect(signed.status).toBe(201);
+    const body = await signed.json();
+    expect(body.signed.name).toBe("Dana Reyes");
+    expect(body.missing).not.toContain("no weather entered");
+    expect(body.dives.bottomMinutes).toBe(134);
+    expect((await postJson(signAction as never, "manager", `${dayPath(DAY)}/sign`, { name: "Again" }, { date: DAY })).status).toBe(409);
+    expect(await AuditEvent.count({ where: { projectId, action: "daily-report-signed" } })).toBe(1);
+    // Locked: entered notes are refused once signed.
+    expect(await thrown(() => saveEnteredNotes(project, { id: users.get("manager")!.id, name: "m", email: "", isSiteAdmin: false, mayCreateProjects: false }, DAY, { conditions: "Rain", airTemperature: "", wind: "", rain: "", effect: "", inspections: "", safety: "", notes: "" }))).toBeInstanceOf(ConflictError);
+  });
+
+  it("the signed figures stay as signed when a record is added later; an amendment shows beside them", async () => {
+    const team = await DiveTeam.findOne({ where: { projectId, name: "Alpha" } });
+    await Dive.create({ projectId, diveDate: DAY, teamId: team!.id, diverName: "Late", leftSurfaceAt: null, leftBottomAt: null, bottomMinutes: 10, maxDepth: 5, notes: "" });
+    const amended = await postJson(amendAction as never, "manager", `${dayPath(DAY)}/amendments`, { text: "A 10-minute dive by Late was logged after signing." }, { date: DAY });
+    expect(amended.status).toBe(201);
+    const body = await (await getDay("viewer", DAY)).json();
+    expect(body.dives.bottomMinutes).toBe(134);
+    expect(body.signed.amendments).toEqual([expect.objectContaining({ text: "A 10-minute dive by Late was logged after signing." })]);
+  });
+});
