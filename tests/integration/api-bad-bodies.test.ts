@@ -6,7 +6,7 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Membership, Project, User, Zone, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulSite, Hold, HoldCell, ImportJob, MonitoringStation, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, WaterQualityReading, WildlifeSighting, WildlifeStandDown } from "~/lib/db.server";
+import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulSite, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
 import { listObjectKeys } from "~/lib/storage/storage.server";
 import { logFind } from "~/models/finds.server";
 import { getCellsPayload } from "~/models/cells.server";
@@ -68,7 +68,7 @@ const base = () => `/api/projects/${site.project.id}`;
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
 // SignInSession, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
 // the object store and the staging directory; its custody → FindCustody, Find; a hold's lift →
-// Hold, AuditEvent; a day's report signed or amended → DailyReport, DailyReportAmendment, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
+// Hold, AuditEvent; a day's report signed or amended → DailyReport, DailyReportAmendment, AuditEvent; a signed pay period → PayPeriodReport, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
   { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
@@ -107,6 +107,7 @@ const ROUTES: MutatingRoute[] = [
     url: () => `${base()}/stop-work/${stopWorkId}/resume`, params: () => ({ ...projectParams(), eventId: String(stopWorkId) }),
   },
   { route: "api/projects/:projectId/wildlife/sightings", method: "POST", url: () => `${base()}/wildlife/sightings`, params: projectParams },
+  { route: "api/projects/:projectId/pay-periods", method: "POST", url: () => `${base()}/pay-periods`, params: projectParams },
   // GET-only routes: their action answers 405 to every body.
   { route: "api/admin/users", method: "POST", url: () => "/api/admin/users", params: () => ({}), token: () => adminToken },
   { route: "api/projects/:projectId/bands", method: "POST", url: () => `${base()}/bands`, params: projectParams },
@@ -214,6 +215,7 @@ async function snapshot() {
     importJobs: await ImportJob.count({ where: { projectId } }),
     columnMappings: await ColumnMapping.count({ where: { projectId } }),
     auditEvents: await AuditEvent.count({ where: { projectId } }),
+    payPeriodReports: await PayPeriodReport.count({ where: { projectId } }),
     monitoringStations: await MonitoringStation.count({ where: { projectId } }),
     turbidityRules: await TurbidityRuleRecord.count({ where: { projectId } }),
     waterQualityReadings: await WaterQualityReading.count({ where: { projectId } }),

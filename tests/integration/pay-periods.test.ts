@@ -15,6 +15,7 @@ import { ValidationError } from "~/lib/errors";
 import { listSignedPeriods, loadPayPeriod, signPayPeriod, type PayPeriodView } from "~/models/pay-periods.server";
 import { loadQuantities, quantitiesCsv } from "~/models/quantities.server";
 import * as quantitiesApi from "~/routes/api.projects.$projectId.quantities";
+import * as payPeriodsApi from "~/routes/api.projects.$projectId.pay-periods";
 import * as quantitiesCsvApi from "~/routes/api.projects.$projectId.quantities[.]csv";
 import * as quantitiesPage from "~/routes/projects.$projectId.quantities";
 import * as quantitiesReport from "~/routes/projects.$projectId.quantities.report";
@@ -241,5 +242,26 @@ describe("signed periods", () => {
     const before = await PayPeriodReport.count({ where: { projectId: project.id } });
     await post(site.users.manager, fields);
     expect(await PayPeriodReport.count({ where: { projectId: project.id } })).toBe(before + 1);
+  });
+
+  it("through the API: the manager's token signs (201), a viewer's is refused (403), and the signed list comes back", async () => {
+    const url = `http://127.0.0.1/api/projects/${project.id}/pay-periods`;
+    const params = { projectId: String(project.id) };
+    const sign = (token: string, body: unknown) =>
+      payPeriodsApi.action({ request: new Request(url, { method: "POST", body: JSON.stringify(body), headers: { "Content-Type": "application/json", Authorization: `Bearer ${token}` } }), params, context: {} } as never) as Promise<Response>;
+    const body = { from: whole.surveys[1].id, to: whole.surveys[2].id, signedName: "Pat Manager", reviewed: true };
+    const before = await PayPeriodReport.count({ where: { projectId: project.id } });
+    expect((await sign(site.tokens.viewer, body)).status).toBe(403);
+    const unreviewed = await sign(site.tokens.manager, { ...body, reviewed: false });
+    expect(unreviewed.status).toBe(422);
+    expect(((await unreviewed.json()) as { errors: Array<{ field: string }> }).errors.map((error) => error.field)).toEqual(["reviewed"]);
+    expect(await PayPeriodReport.count({ where: { projectId: project.id } })).toBe(before);
+    const signed = await sign(site.tokens.manager, body);
+    expect(signed.status).toBe(201);
+    const { id } = (await signed.json()) as { id: number };
+    const listed = (await (await payPeriodsApi.loader({ request: new Request(url, { headers: { Authorization: `Bearer ${site.tokens.viewer}` } }), params, context: {} } as never) as Response).json()) as { signed: Array<{ id: number; signedName: string; snapshot: { from: { id: number } } }> };
+    const row = listed.signed.find((report) => report.id === id);
+    expect(row?.signedName).toBe("Pat Manager");
+    expect(row?.snapshot.from.id).toBe(whole.surveys[1].id);
   });
 });
