@@ -1,4 +1,5 @@
 import { cellIndex, cellLabel, toGridFrame, type CellGrid } from "../grid/cell-grid";
+import { instantOfLocal, localClockOf, localDayOf } from "../local-time";
 
 /**
  * Finds: what the divers' baskets and hoses bring up, recorded where and when it came up, handed
@@ -123,12 +124,6 @@ export function localYear(instant: Date, timeZone: string): number {
 }
 
 /** Minutes the zone is ahead of UTC at an instant. */
-function offsetMinutes(instant: Date, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat("en-US", { timeZone, hourCycle: "h23", year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", second: "2-digit" }).formatToParts(instant);
-  const part = (type: Intl.DateTimeFormatPartTypes) => Number(parts.find((entry) => entry.type === type)!.value);
-  return Math.round((Date.UTC(part("year"), part("month") - 1, part("day"), part("hour"), part("minute"), part("second")) - Math.floor(instant.getTime() / 1000) * 1000) / 60_000);
-}
-
 /**
  * A wall-clock time as a form's datetime-local field sends it ("2026-11-03T10:42"), read in the
  * project's zone, as an instant; null when it is not such a time. In the hour a clock skips or
@@ -138,17 +133,14 @@ export function localDateTimeToInstant(local: string, timeZone: string): Date | 
   const match = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})$/.exec(local.trim());
   if (!match) return null;
   const [year, month, day, hour, minute] = match.slice(1).map(Number);
-  const naive = Date.UTC(year, month - 1, day, hour, minute);
-  const check = new Date(naive);
+  const check = new Date(Date.UTC(year, month - 1, day));
   if (check.getUTCMonth() !== month - 1 || check.getUTCDate() !== day || hour > 23 || minute > 59) return null;
-  const first = naive - offsetMinutes(new Date(naive), timeZone) * 60_000;
-  return new Date(naive - offsetMinutes(new Date(first), timeZone) * 60_000);
+  return new Date(instantOfLocal(`${match[1]}-${match[2]}-${match[3]}`, hour * 60 + minute, timeZone));
 }
 
 /** An instant as the project's wall-clock time, "2026-11-03 10:42". */
 export function instantToLocalDateTime(instant: Date, timeZone: string): string {
-  const local = new Date(instant.getTime() + offsetMinutes(instant, timeZone) * 60_000);
-  return local.toISOString().slice(0, 16).replace("T", " ");
+  return `${localDayOf(instant.getTime(), timeZone)} ${localClockOf(instant.getTime(), timeZone)}`;
 }
 
 /** Cell labels in reading order for people: "A9" before "A10". */

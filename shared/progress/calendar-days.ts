@@ -1,3 +1,4 @@
+import { localDayOf } from "../local-time";
 /**
  * Calendar dates as ISO strings (YYYY-MM-DD), counted in whole UTC days so that time zones and
  * daylight-saving changes cannot shift a survey date.
@@ -25,6 +26,5 @@ export function isWeekday(day: number): boolean {
 
 /** The calendar date at `instant` in an IANA time zone (the project's: "today" is never a UTC date). */
 export function localDateIn(timeZone: string, instant: Date = new Date()): string {
-  // en-CA writes dates as YYYY-MM-DD.
-  return new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).format(instant);
+  return localDayOf(instant.getTime(), timeZone);
 }
