@@ -3,6 +3,7 @@ import type { Route } from "./+types/root";
 import { getOptionalUser } from "./lib/auth/access.server";
 import { applyFramePolicy } from "./lib/http/frame-policy.server";
 import { assertSameOrigin } from "./lib/http/origin.server";
+import { inRequestScope } from "./lib/http/request-scope.server";
 import "./app.css";
 
 // Every mutating request (any route, any form) passes this Origin check first; every response
@@ -10,7 +11,8 @@ import "./app.css";
 export const middleware: Route.MiddlewareFunction[] = [
   async ({ request }, next) => {
     assertSameOrigin(request);
-    return applyFramePolicy(await next());
+    // The request's scope: its loaders look up the session, user and project once between them.
+    return applyFramePolicy(await inRequestScope(next));
   },
 ];
 

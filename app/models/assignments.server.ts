@@ -4,7 +4,7 @@ import { cellIndex, cellLabel as cellLabelOf } from "../../shared/grid/cell-grid
 import { exceedsNoDecompressionLimit, noDecompressionLimit, NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE, type NoDecompressionLookup } from "../../shared/no-decompression";
 import { CELL_STATUSES } from "../../shared/cell-status";
 import { convertLength } from "../../shared/units";
-import { Assignment, DiveTeam, getSequelize, type DiveTeamMember } from "~/lib/db.server";
+import { Assignment, DiveTeam, Project, getSequelize, type DiveTeamMember } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { getProjectSurfaces } from "~/lib/engine/engine-state.server";
 import { queueMail } from "~/lib/mail/outbox.server";
@@ -179,6 +179,10 @@ export async function createAssignments(project: ProjectView, user: UserView, in
     await getSequelize().transaction(async (transaction) => {
       const conflicts = await conflictsFor(project.id, input.date, cells);
       if (conflicts.length > 0) throw refused(conflicts);
+      // A find is logged, and its hold placed, under the project row's lock (finds.server.ts). Taking
+      // the same lock before looking again means a hold being placed this instant is waited for and
+      // seen, never slipped past; the lock is held only for these few statements.
+      await Project.findByPk(project.id, { attributes: ["id"], lock: transaction.LOCK.UPDATE, transaction });
       const heldNow = await openHoldsOn(project.id, cells, transaction);
       if (heldNow.length > 0) throw heldRefusal(heldNow);
       await Assignment.bulkCreate(

@@ -7,6 +7,7 @@ import { CellResult, Project, SurveySnapshot, Zone } from "~/lib/db.server";
 import { createHash } from "node:crypto";
 import { getProjectSurfaces, projectRecomputeStamp } from "~/lib/engine/engine-state.server";
 import { BoundedCache } from "~/lib/cache/bounded-cache";
+import { precompress, type PrecompressedBody } from "~/lib/http/precompressed.server";
 import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -44,11 +45,12 @@ export async function projectCellGrid(project: ProjectView): Promise<CellGrid | 
 // The serialised payload per project and cells version: reading and shaping a 100,000-cell bay's
 // rows takes 0.6–0.75 s, and every member's map reads the same payload until the next recompute.
 // A few projects' worth (about 3 MB of JSON each at bay scale).
-const payloadCache = new BoundedCache<string>(4);
+// Kept with its gzip, so 50 members polling the map cost no compression each.
+const payloadCache = new BoundedCache<PrecompressedBody>(4);
 
-/** `getCellsPayload` as JSON text, cached under the version (`cellsVersion`) it was read at. */
-export function getCellsPayloadJson(project: ProjectView, version: string): Promise<string> {
-  return payloadCache.getOrCompute(`${project.id}:${version}`, async () => JSON.stringify(await getCellsPayload(project)));
+/** `getCellsPayload` as JSON text and its gzip, cached under the version (`cellsVersion`) it was read at. */
+export function getCellsPayloadBody(project: ProjectView, version: string): Promise<PrecompressedBody> {
+  return payloadCache.getOrCompute(`${project.id}:${version}`, async () => precompress(JSON.stringify(await getCellsPayload(project))));
 }
 
 export async function getCellsPayload(project: ProjectView): Promise<CellsPayload> {

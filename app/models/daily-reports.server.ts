@@ -1,9 +1,10 @@
 import { Op } from "sequelize";
 import { z } from "zod";
-import { compileDay, localDayBounds, type CompiledDay, type DayInterruption } from "../../shared/daily-report/compile";
+import { compileDay, localDayBounds, type CompiledDay, type DayInterruption, type SurveyTotals } from "../../shared/daily-report/compile";
 import { localDayOf } from "../../shared/local-time";
+import { unitLabel } from "../../shared/units";
 import {
-  Assignment, DailyReport, DewateringShift, DailyReportAmendment, Dive, DiveTeam, Find, Haul, Hold, MonitoringStation, StopWorkEvent, TubeFill, WaterQualityReading, WildlifeStandDown,
+  Assignment, DailyReport, DewateringShift, DailyReportAmendment, Dive, DiveTeam, Find, Haul, Hold, MonitoringStation, StopWorkEvent, SurveySnapshot, TubeFill, WaterQualityReading, WildlifeStandDown,
   getSequelize, type EnteredNotesRecord,
 } from "~/lib/db.server";
 import { ConflictError, NotFoundError } from "~/lib/errors";
@@ -52,7 +53,7 @@ export async function compileReport(project: ProjectView, date: string, entered:
   const { startMs, endMs } = localDayBounds(date, project.timeZone);
   const start = new Date(startMs);
   const end = new Date(endMs);
-  const [dives, planned, shifts, tubeFills, hauls, stations, readings, settings, stopWork, standDowns, finds, holds] = await Promise.all([
+  const [dives, planned, shifts, tubeFills, hauls, stations, readings, settings, stopWork, standDowns, finds, holds, snapshots] = await Promise.all([
     listDivesOn(project, date),
     Assignment.findAll({ where: { projectId: project.id, workDate: date }, include: [{ model: DiveTeam, as: "team" }] }),
     DewateringShift.findAll({ where: { projectId: project.id, shiftDate: date } }),
@@ -69,7 +70,15 @@ export async function compileReport(project: ProjectView, date: string, entered:
       where: { projectId: project.id, [Op.or]: [{ placedAt: { [Op.gte]: start, [Op.lt]: end } }, { liftedAt: { [Op.gte]: start, [Op.lt]: end } }] },
       include: [{ model: Find, as: "find", attributes: ["catalogueNumber"] }],
     }),
+    // The project totals each survey left, as of this day and the survey before it.
+    SurveySnapshot.findAll({ where: { projectId: project.id, surveyedOn: { [Op.lte]: date } }, attributes: ["surveyedOn", "totals"], order: [["surveyedOn", "DESC"]], limit: 2 }),
   ]);
+  const totalsOf = (snapshot: SurveySnapshot): SurveyTotals => ({
+    surveyedOn: String(snapshot.surveyedOn), removedVolume: snapshot.totals.removedVolume, remainingVolume: snapshot.totals.remainingVolume, cellsAtFirmSand: snapshot.totals.cellsAtFirmSand,
+  });
+  const survey = snapshots[0] && String(snapshots[0].surveyedOn) === date
+    ? { today: totalsOf(snapshots[0]), previous: snapshots[1] ? totalsOf(snapshots[1]) : null, volumeLabel: unitLabel(project.lengthUnit, "volume") }
+    : null;
   const teams = new Map<string, number>();
   for (const assignment of planned) if (assignment.team) teams.set(assignment.team.name, assignment.team.members.length);
   const interruptions: DayInterruption[] = [
@@ -93,6 +102,7 @@ export async function compileReport(project: ProjectView, date: string, entered:
     finds: finds.map((find) => ({ catalogueNumber: find.catalogueNumber, category: find.category })),
     holds: holds.map((hold) => ({ catalogueNumber: hold.find?.catalogueNumber ?? "", placedAtMs: hold.placedAt.getTime(), liftedAtMs: hold.liftedAt?.getTime() ?? null })),
     entered,
+    survey,
   });
 }
 

@@ -318,7 +318,8 @@ export async function listTubes(project: ProjectView): Promise<TubeRegister> {
   };
 }
 
-async function findTube(project: ProjectView, tubeId: number): Promise<TubeView> {
+/** One tube of the register, with its fills, fill level and near-capacity flag (NotFoundError when not this project's). */
+export async function findTube(project: ProjectView, tubeId: number): Promise<TubeView> {
   const register = await listTubes(project);
   const tube = register.tubes.find((candidate) => candidate.id === tubeId);
   if (!tube) throw new NotFoundError({ field: "tubeId", message: "There is no such tube on this project." });

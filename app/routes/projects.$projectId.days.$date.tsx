@@ -2,6 +2,7 @@ import { Form, Link, data } from "react-router";
 import { z } from "zod";
 import { FIND_CATEGORY_LABELS, type FindCategory } from "../../shared/finds/finds";
 import { localClockOf } from "../../shared/local-time";
+import { LITRES_PER_US_GALLON, kilogramsTo, massUnitsFor, measureLabel, type LengthUnit } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
@@ -21,7 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId, "reports.read");
   const date = dayParam(params.date);
   const view = await getDailyReport(access.project, date);
-  return { projectId: access.project.id, timeZone: access.project.timeZone, date, ...view, canSign: can(access, "reports.sign"), signerName: access.user.name };
+  return { projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, date, ...view, canSign: can(access, "reports.sign"), signerName: access.user.name };
 }
 
 const formSchema = z.discriminatedUnion("intent", [
@@ -76,8 +77,20 @@ function Section({ title, children }: { title: string; children: React.ReactNode
 
 const fmt = (value: number, places = 1) => value.toLocaleString("en-US", { maximumFractionDigits: places });
 
+/** The report stores SI figures; it shows them in the project's units (US gallons, short tons and pounds on a feet project). */
+function unitsFor(lengthUnit: LengthUnit) {
+  const { mass, bulkMass } = massUnitsFor(lengthUnit);
+  const metric = lengthUnit === "m";
+  return {
+    slurry: (m3: number) => (metric ? `${fmt(m3)} m³` : `${fmt((m3 * 1000) / LITRES_PER_US_GALLON, 0)} gal`),
+    bulk: (kg: number) => `${fmt(kilogramsTo(kg, bulkMass), 2)} ${measureLabel(bulkMass)}`,
+    mass: (kg: number) => `${fmt(kilogramsTo(kg, mass), metric ? 2 : 1)} ${measureLabel(mass)}`,
+  };
+}
+
 export default function DailyReportPage({ loaderData, actionData }: Route.ComponentProps) {
   const { report, signed, amendments, canSign, projectId, date, timeZone } = loaderData;
+  const units = unitsFor(loaderData.lengthUnit);
   const errors: Record<string, string> = actionData?.errors ?? {};
   const clock = (iso: string) => localClockOf(Date.parse(iso), timeZone);
   const weather = report.entered.weather;
@@ -144,14 +157,22 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         <dl className="grid grid-cols-2 gap-x-4 gap-y-1 text-sm md:grid-cols-4">
           <dt className="text-muted">Shifts</dt><dd className="figures">{report.production.shifts}</dd>
           <dt className="text-muted">Pump hours</dt><dd className="figures">{fmt(report.production.pumpHours, 2)}</dd>
-          <dt className="text-muted">Slurry pumped</dt><dd className="figures">{fmt(report.production.slurryPumpedM3)} m³</dd>
-          <dt className="text-muted">Dry solids pumped</dt><dd className="figures">{fmt(report.production.drySolidsKg / 1000, 2)} t</dd>
-          <dt className="text-muted">Neat polymer</dt><dd className="figures">{fmt(report.production.neatPolymerKg, 2)} kg</dd>
+          <dt className="text-muted">Slurry pumped</dt><dd className="figures">{units.slurry(report.production.slurryPumpedM3)}</dd>
+          <dt className="text-muted">Dry solids pumped</dt><dd className="figures">{units.bulk(report.production.drySolidsKg)}</dd>
+          <dt className="text-muted">Neat polymer</dt><dd className="figures">{units.mass(report.production.neatPolymerKg)}</dd>
           <dt className="text-muted">Tube fills</dt><dd className="figures">{report.production.tubeFills}</dd>
           <dt className="text-muted">Haul loads</dt><dd className="figures">{report.production.haulLoads}</dd>
-          <dt className="text-muted">Dry solids hauled</dt><dd className="figures">{fmt(report.production.haulDrySolidsKg / 1000, 2)} t</dd>
+          <dt className="text-muted">Dry solids hauled</dt><dd className="figures">{units.bulk(report.production.haulDrySolidsKg)}</dd>
         </dl>
         {report.production.haulTickets.length > 0 ? <p className="mt-1 text-xs text-muted">Tickets: <span className="figures">{report.production.haulTickets.join(", ")}</span></p> : null}
+        {report.production.survey ? (
+          <p className="mt-2 text-sm" data-testid="day-survey">
+            Survey of this day{report.production.survey.since ? <> against the survey of <span className="figures whitespace-nowrap">{report.production.survey.since}</span></> : null}:{" "}
+            <span className="figures">{fmt(report.production.survey.removedVolume)} {report.production.survey.volumeLabel}</span> removed,{" "}
+            <span className="figures">{report.production.survey.cellsReachedFirmSand}</span> {Math.abs(report.production.survey.cellsReachedFirmSand) === 1 ? "cell" : "cells"} newly at firm sand,{" "}
+            <span className="figures">{fmt(report.production.survey.remainingVolume)} {report.production.survey.volumeLabel}</span> remaining.
+          </p>
+        ) : null}
       </Section>
 
       <Section title="Water quality">

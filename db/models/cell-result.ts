@@ -50,7 +50,10 @@ export function initCellResult(sequelize: Sequelize) {
     },
     {
       sequelize, tableName: "cell_results", modelName: "CellResult", timestamps: false,
-      indexes: [{ name: "cell_results_project_cell_unique", unique: true, fields: ["projectId", "row", "col"] }],
+      indexes: [
+        { name: "cell_results_project_cell_unique", unique: true, fields: ["projectId", "row", "col"] },
+        { name: "cell_results_project_computed_at", fields: ["projectId", "computedAt"] },
+      ],
     },
   );
 }

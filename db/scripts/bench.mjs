@@ -13,14 +13,19 @@
 //   bodies  six 300 MB forms at once to the sign-in and forgot-password pages of the production
 //           build: every answer 413 and the server's memory within 100 MB of before
 //           (tests/bench/oversized-bodies.ts)
-// Options: --only engine|import|event-loop|map|bodies (repeatable); anything else goes to the engine bench
+//   load    50 signed-in connections on the map's cells, the progress figures and the overview page
+//           of the seeded demo (database `firmsand_load`), beside the server's floor (/healthz), with
+//           autocannon against the production build (tests/bench/load.ts; --duration, --connections, --runs)
+// Options: --only engine|import|event-loop|map|bodies|load (repeatable); anything else goes to the engine bench
 // (for example --only engine --runs 1). Leaves no process behind: what it started, it stops.
 import { spawn } from "node:child_process";
-import { bin, buildApp, ensureDebianPackage, ensureNpmPackages, isPortOpen, log, run, takeCheckoutLock, waitFor } from "./lib.mjs";
+import { join } from "node:path";
+import { DATA_DIR, bin, buildApp, ensureDebianPackage, readPid, ensureNpmPackages, isPortOpen, log, run, takeCheckoutLock, waitFor } from "./lib.mjs";
 import { ensureMariaDb, stopMariaDb } from "./db.mjs";
+import { ensureS3Server, stopS3Server } from "./services.mjs";
 
 const args = process.argv.slice(2);
-const parts = ["engine", "import", "event-loop", "map", "bodies"];
+const parts = ["engine", "import", "event-loop", "map", "bodies", "load"];
 const chosen = [];
 const passThrough = [];
 for (let index = 0; index < args.length; index++) {
@@ -69,20 +74,31 @@ if (needsDatabase) {
       const loopEnv = { ...env, NODE_OPTIONS: [env.NODE_OPTIONS, "--expose-gc"].filter(Boolean).join(" ") };
       if ((await runStep(bin("tsx"), ["tests/bench/engine-event-loop.ts"], loopEnv)) !== 0) failed = true;
     }
-    if (selected.includes("import") || selected.includes("map") || selected.includes("bodies")) {
-      // The production build, served fresh: the import over HTTP runs first so the server's peak
-      // memory (VmHWM) is the import's.
+    let built = false;
+    /** Serves the production build (built once per bench run) with `appEnv`; stopped at clean-up or by the returned function. */
+    const serveApp = async (appEnv) => {
       if (await isPortOpen(port)) throw new Error(`port ${port} is taken; set BENCH_PORT to a free port`);
-      const appEnv = { ...env, PORT: String(port), HOST: "127.0.0.1", BENCH_BASE_URL: `http://127.0.0.1:${port}` };
-      log("bench: building the app");
-      buildApp(appEnv);
+      if (!built) {
+        log("bench: building the app");
+        buildApp(appEnv);
+        built = true;
+      }
       const app = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "ignore", "inherit"], env: appEnv });
-      cleanups.push(async () => {
+      const stop = async () => {
         if (app.exitCode !== null) return;
         app.kill("SIGTERM");
         await new Promise((done) => app.once("exit", done));
-      });
+      };
+      cleanups.push(stop);
       await waitFor(() => isPortOpen(port), { timeoutMs: 30_000, what: `the app on port ${port}` });
+      return { app, stop };
+    };
+    const baseUrl = `http://127.0.0.1:${port}`;
+    if (selected.includes("import") || selected.includes("map") || selected.includes("bodies")) {
+      // The production build, served fresh: the import over HTTP runs first so the server's peak
+      // memory (VmHWM) is the import's.
+      const appEnv = { ...env, PORT: String(port), HOST: "127.0.0.1", BENCH_BASE_URL: baseUrl };
+      const { app, stop } = await serveApp(appEnv);
       const benchEnv = { ...appEnv, BENCH_APP_PID: String(app.pid) };
       if (selected.includes("import")) {
         log("bench: sounding import, over HTTP");
@@ -97,6 +113,21 @@ if (needsDatabase) {
         const chromium = ensureDebianPackage("chromium", "chromium");
         if ((await runStep(bin("tsx"), ["tests/bench/map.ts"], { ...benchEnv, CHROMIUM_PATH: chromium })) !== 0) failed = true;
       }
+      await stop();
+    }
+    if (selected.includes("load")) {
+      // The demo project seeded into a database of its own (its finds' photos need the fake store).
+      const store = await ensureS3Server("test");
+      if (store.startedHere) cleanups.push(() => stopS3Server("test"));
+      const loadEnv = { ...env, ...store.env, DB_NAME: "firmsand_load", DEMO_MODE: "1", PORT: String(port), HOST: "127.0.0.1", BENCH_BASE_URL: baseUrl };
+      log("bench: seeding the demo for the load bench (not part of the figures)");
+      run(bin("tsx"), ["db/migrate.ts", "reset"], { env: loadEnv });
+      run(bin("tsx"), ["db/seed.ts", "demo"], { env: loadEnv });
+      const { app } = await serveApp(loadEnv);
+      log("bench: reads under load");
+      const databasePid = readPid(join(DATA_DIR, "mariadb-test.pid"));
+      const benchEnv = { ...loadEnv, BENCH_APP_PID: String(app.pid), ...(databasePid ? { BENCH_DB_PID: String(databasePid) } : {}) };
+      if ((await runStep(bin("tsx"), ["tests/bench/load.ts", ...passThrough], benchEnv)) !== 0) failed = true;
     }
   } catch (error) {
     log(error.stack ?? String(error));

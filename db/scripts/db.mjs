@@ -17,7 +17,7 @@ import { ensureMailServer, ensureS3Server, stopMailServer, stopS3Server } from "
 
 export const INSTANCES = {
   dev: { port: Number(process.env.DB_PORT ?? 3307), databases: [process.env.DB_NAME ?? "firmsand"] },
-  test: { port: Number(process.env.DB_TEST_PORT ?? 3308), databases: ["firmsand_test", "firmsand_e2e", "firmsand_bench"] },
+  test: { port: Number(process.env.DB_TEST_PORT ?? 3308), databases: ["firmsand_test", "firmsand_e2e", "firmsand_bench", "firmsand_load"] },
 };
 
 function paths(instance) {

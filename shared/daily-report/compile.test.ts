@@ -118,4 +118,17 @@ describe("compileDay", () => {
     const day = compileDay(records({ date: "2031-03-09", nowMs: at("2031-03-12", 0), interruptions: [{ kind: "stand-down", reason: "manatee", startMs: at("2031-03-08", 12), endMs: null }] }));
     expect(day.interruptions[0]!.lostHours).toBe(23);
   });
+
+  it("shows what a survey on the day found since the survey before it (hand-computed differences)", () => {
+    const survey = {
+      today: { surveyedOn: "2031-06-10", removedVolume: 2_480.4, remainingVolume: 3_867.6, cellsAtFirmSand: 61 },
+      previous: { surveyedOn: "2031-05-27", removedVolume: 1_905.9, remainingVolume: 4_442.1, cellsAtFirmSand: 44 },
+      volumeLabel: "yd³",
+    };
+    // computed by hand: 2,480.4 − 1,905.9 = 574.5 yd³; 61 − 44 = 17 cells
+    expect(compileDay(records({ survey })).production.survey).toEqual({
+      surveyedOn: "2031-06-10", since: "2031-05-27", removedVolume: 574.5, cellsReachedFirmSand: 17, remainingVolume: 3_867.6, volumeLabel: "yd³",
+    });
+    expect(compileDay(records()).production.survey).toBeNull();
+  });
 });

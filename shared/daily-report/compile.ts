@@ -98,6 +98,24 @@ export interface DayRecords {
   finds: readonly DayFind[];
   holds: readonly DayHold[];
   entered: EnteredNotes;
+  /** The survey figures as of this day's survey and of the survey before it, when a survey fell on the day. */
+  survey?: DaySurvey | null;
+}
+
+/** Project totals as of a survey date (the figures each survey leaves: removed so far, remaining, cells at firm sand). */
+export interface SurveyTotals {
+  surveyedOn: string;
+  removedVolume: number;
+  remainingVolume: number;
+  cellsAtFirmSand: number;
+}
+
+export interface DaySurvey {
+  /** The totals as of the survey that fell on the day. */
+  today: SurveyTotals;
+  /** The totals as of the survey in force before it (the baseline's are zero removed). */
+  previous: SurveyTotals | null;
+  volumeLabel: string;
 }
 
 export interface TeamDay {
@@ -125,6 +143,11 @@ export interface CompiledDay {
     haulLoads: number;
     haulDrySolidsKg: number;
     haulTickets: string[];
+    /**
+     * When a survey fell on the day: what it shows since the survey before it (removed volume, the
+     * cells that reached firm sand), and what remains. Absent on reports signed before it existed.
+     */
+    survey?: { surveyedOn: string; since: string | null; removedVolume: number; cellsReachedFirmSand: number; remainingVolume: number; volumeLabel: string } | null;
   };
   waterQuality: {
     readings: Array<{ station: string; stationKind: string; count: number; maxValue: number; unit: string; exceeding: number; withinLimit: number; notEvaluated: number; verdict: "exceeds" | "within limit" | "not evaluated" }>;
@@ -140,6 +163,24 @@ export interface CompiledDay {
 }
 
 const round = (value: number, places: number) => Math.round(value * 10 ** places) / 10 ** places;
+
+/**
+ * A survey's figures since the one before it: the removed volume and cells at firm sand are
+ * cumulative per survey, so the day's share is the difference (a cell can fall back from firm sand
+ * when muck slumps in, which the difference nets out).
+ */
+export function surveySince(survey: DaySurvey | null): CompiledDay["production"]["survey"] {
+  if (!survey) return null;
+  const { today, previous } = survey;
+  return {
+    surveyedOn: today.surveyedOn,
+    since: previous?.surveyedOn ?? null,
+    removedVolume: round(today.removedVolume - (previous?.removedVolume ?? 0), 1),
+    cellsReachedFirmSand: today.cellsAtFirmSand - (previous?.cellsAtFirmSand ?? 0),
+    remainingVolume: round(today.remainingVolume, 1),
+    volumeLabel: survey.volumeLabel,
+  };
+}
 
 /** The day after a local date (calendar arithmetic, no zone). */
 export function nextDay(date: string): string {
@@ -250,6 +291,7 @@ export function compileDay(records: DayRecords): CompiledDay {
       haulLoads: records.hauls.length,
       haulDrySolidsKg: round(records.hauls.reduce((sum, haul) => sum + haul.drySolidsKg, 0), 1),
       haulTickets,
+      survey: surveySince(records.survey ?? null),
     },
     waterQuality: {
       readings: perStation,

@@ -65,6 +65,8 @@ const MATRIX: Row[] = [
   row("POST", "api/projects/:projectId/dewatering/shifts", "/api/projects/{project}/dewatering/shifts", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/dewatering/tubes", "/api/projects/{project}/dewatering/tubes", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/dewatering/tubes", "/api/projects/{project}/dewatering/tubes", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/dewatering/tubes/:tubeId", "/api/projects/{project}/dewatering/tubes/999999999", "404 404 404 404 404 404 404 404 401"),
+  row("PATCH", "api/projects/:projectId/dewatering/tubes/:tubeId", "/api/projects/{project}/dewatering/tubes/999999999", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
   // The body is read before the tube is looked up: {} is refused first.
   row("POST", "api/projects/:projectId/dewatering/tubes/:tubeId/fills", "/api/projects/{project}/dewatering/tubes/999999999/fills", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
   // Daily reports: every role but outreach reads them; the manager and the dive supervisor sign and amend ({}: 422).
@@ -73,6 +75,8 @@ const MATRIX: Row[] = [
   row("POST", "api/projects/:projectId/days/:date/sign", `/api/projects/{project}/days/${PLAN_DATE}/sign`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/dives", `/api/projects/{project}/dives?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/dives", "/api/projects/{project}/dives", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/haul-sites", "/api/projects/{project}/haul-sites", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/haul-sites", "/api/projects/{project}/haul-sites", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/hauls", "/api/projects/{project}/hauls", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/hauls", "/api/projects/{project}/hauls", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
   // Finds: outreach sees nothing of finds; the monitor and the manager log them ({} and unknown ids: 422 or 404).

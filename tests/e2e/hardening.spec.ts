@@ -86,3 +86,19 @@ test.describe("hardening 12: pages hydrate without errors", () => {
     await expect(page.locator("#cumulative-title")).toHaveText(/Cumulative removed volume by survey date/);
   });
 });
+
+test.describe("hardening: reads under load", () => {
+  test("the map's cells are sent gzipped as cached, the same JSON as unencoded, with Vary", async ({ request, baseURL }) => {
+    const projectId = await demoProjectId(request, baseURL!); // signed in as the manager
+    const zipped = await request.get(`/api/projects/${projectId}/cells`, { headers: { "Accept-Encoding": "gzip" } });
+    expect(zipped.status()).toBe(200);
+    expect(zipped.headers()["content-encoding"]).toBe("gzip");
+    expect(zipped.headers()["vary"]).toContain("Accept-Encoding");
+    const plain = await request.get(`/api/projects/${projectId}/cells`, { headers: { "Accept-Encoding": "identity" } });
+    expect(plain.headers()["content-encoding"]).toBeUndefined();
+    expect(await zipped.json()).toEqual(await plain.json());
+    // The ETag still answers a poll without a body, whatever the encoding.
+    const again = await request.get(`/api/projects/${projectId}/cells`, { headers: { "Accept-Encoding": "gzip", "If-None-Match": zipped.headers()["etag"]! } });
+    expect(again.status()).toBe(304);
+  });
+});

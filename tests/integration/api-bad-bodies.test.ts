@@ -62,7 +62,7 @@ const base = () => `/api/projects/${site.project.id}`;
 // staging directory; projects → Project, Zone, Membership, AuditEvent; a project's settings →
 // Project, Zone, CellResult, SurveySnapshot, AuditEvent; an account (the site admin) → User,
 // SignInSession, AuditEvent; dewatering shifts, tubes and fills → DewateringShift, GeotextileTube,
-// TubeFill, AuditEvent; hauls → Haul, AuditEvent; sediment samples → SedimentSample, AuditEvent;
+// TubeFill, AuditEvent; a tube's status → GeotextileTube, AuditEvent; hauls → Haul, AuditEvent; haul sites → HaulSite, AuditEvent; sediment samples → SedimentSample, AuditEvent;
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
 // TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
@@ -76,10 +76,12 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/assignments", method: "POST", url: () => `${base()}/assignments`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/shifts", method: "POST", url: () => `${base()}/dewatering/shifts`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/tubes", method: "POST", url: () => `${base()}/dewatering/tubes`, params: projectParams },
+  { route: "api/projects/:projectId/dewatering/tubes/:tubeId", method: "PATCH", url: () => `${base()}/dewatering/tubes/${tubeId}`, params: () => ({ ...projectParams(), tubeId: String(tubeId) }) },
   { route: "api/projects/:projectId/dewatering/tubes/:tubeId/fills", method: "POST", url: () => `${base()}/dewatering/tubes/${tubeId}/fills`, params: () => ({ ...projectParams(), tubeId: String(tubeId) }) },
   { route: "api/projects/:projectId/days/:date/sign", method: "POST", url: () => `${base()}/days/2030-01-02/sign`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/days/:date/amendments", method: "POST", url: () => `${base()}/days/2030-01-02/amendments`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/dives", method: "POST", url: () => `${base()}/dives`, params: projectParams },
+  { route: "api/projects/:projectId/haul-sites", method: "POST", url: () => `${base()}/haul-sites`, params: projectParams },
   { route: "api/projects/:projectId/hauls", method: "POST", url: () => `${base()}/hauls`, params: projectParams },
   { route: "api/projects/:projectId/sediment-samples", method: "POST", url: () => `${base()}/sediment-samples`, params: projectParams },
   { route: "api/projects/:projectId/finds", method: "POST", url: () => `${base()}/finds`, params: projectParams },

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { instantOfLocal } from "../../shared/local-time";
 import {
-  AuditEvent, DewateringShift, Dive, DiveCell, DiveTeam, Find, GeotextileTube, Haul, HaulSite, Hold, MonitoringStation, Project, TubeFill, WildlifeStandDown, type Role,
+  AuditEvent, DewateringShift, Dive, DiveCell, DiveTeam, Find, GeotextileTube, Haul, HaulSite, Hold, MonitoringStation, Project, Survey, SurveySnapshot, TubeFill, WildlifeStandDown, type Role,
 } from "~/lib/db.server";
 import { ConflictError } from "~/lib/errors";
 import { presentProject } from "~/lib/auth/project-view.server";
@@ -149,6 +149,28 @@ describe("the day's compiled figures", () => {
     expect(body.finds.catalogueNumbers).toEqual(["FS-2031-003"]);
     // The stand-down's last hour, and the whole 24-hour day of the stop-work not yet resumed.
     expect(body.interruptions.map((event: { kind: string; lostHours: number }) => [event.kind, event.lostHours])).toEqual([["stand-down", 1], ["stop-work", 24]]);
+  });
+
+  it("on the day of a survey, shows the removed volume and the cells newly at firm sand since the survey before it", async () => {
+    // Two surveys' stored totals (what a recompute leaves per survey date); the stand-in survey row
+    // only satisfies the snapshot's reference. Expected figures are the differences, by hand.
+    const survey = await Survey.create({
+      projectId, kind: "progress", surveyedOn: DAY, timeZone: TZ, waterSurfaceElevation: 32, fileHasElevations: false, datum: "NAVD88", crs: "EPSG:2237", lengthUnit: "us-ft",
+      fileName: "stand-in.csv", contentSha256: "0".repeat(64), rowCount: 0, soundingCount: 0, uploadedById: null, retractedById: null, qa: {},
+    });
+    const totals = (removedVolume: number, remainingVolume: number, cellsAtFirmSand: number) => ({
+      plannedVolume: 6_348, removedVolume, depositedVolume: 0, remainingVolume, cells: 292, cellsAtFirmSand, cellsConfirmed: 0, cellsInWork: 0, cellsUntouched: 0, cellsNoData: 0,
+    });
+    const snapshot = (surveyedOn: string, figures: ReturnType<typeof totals>) => SurveySnapshot.create({
+      projectId, surveyedOn, lastSurveyId: survey.id, totals: figures, zones: [], cellCols: 0, cellRows: 0, firstCol: 0, firstRow: 0,
+      remainingVolumes: Buffer.alloc(0), removedVolumes: Buffer.alloc(0), statuses: Buffer.alloc(0), computedAt: new Date(),
+    });
+    await snapshot("2026-05-27", totals(1_905.9, 4_442.1, 44));
+    await snapshot(DAY, totals(2_480.4, 3_867.6, 61));
+    const body = await (await getDay("viewer", DAY)).json();
+    // 2,480.4 − 1,905.9 = 574.5 yd³ removed; 61 − 44 = 17 cells
+    expect(body.production.survey).toEqual({ surveyedOn: DAY, since: "2026-05-27", removedVolume: 574.5, cellsReachedFirmSand: 17, remainingVolume: 3_867.6, volumeLabel: "yd³" });
+    expect((await (await getDay("viewer", NEXT)).json()).production.survey).toBeNull();
   });
 
   it("is read by every project role except outreach; a date that cannot exist is 404", async () => {

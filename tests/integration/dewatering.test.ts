@@ -6,7 +6,9 @@ import { AuditEvent, CellResult, DewateringShift, GeotextileTube, Haul, HaulSite
 import { presentProject } from "~/lib/auth/project-view.server";
 import { action as shiftsAction, loader as shiftsLoader } from "~/routes/api.projects.$projectId.dewatering.shifts";
 import { action as tubesAction, loader as tubesLoader } from "~/routes/api.projects.$projectId.dewatering.tubes";
+import { action as tubeAction, loader as tubeLoader } from "~/routes/api.projects.$projectId.dewatering.tubes.$tubeId";
 import { action as fillsAction } from "~/routes/api.projects.$projectId.dewatering.tubes.$tubeId.fills";
+import { action as haulSitesAction, loader as haulSitesLoader } from "~/routes/api.projects.$projectId.haul-sites";
 import { action as haulsAction } from "~/routes/api.projects.$projectId.hauls";
 import { action as samplesAction } from "~/routes/api.projects.$projectId.sediment-samples";
 import { loader as reconciliationLoader } from "~/routes/api.projects.$projectId.reconciliation";
@@ -175,6 +177,26 @@ describe("the tube register", () => {
     expect((await postJson(fillsAction as never, "dewatering", `${base()}/dewatering/tubes/999999999/fills`, { date: "2026-10-09", drySolids: 1 }, { tubeId: "999999999" })).status).toBe(404);
     expect((await postJson(fillsAction as never, "viewer", `${base()}/dewatering/tubes/${tubeId}/fills`, { date: "2026-10-09", drySolids: 1 }, { tubeId: String(tubeId) })).status).toBe(403);
   });
+
+  it("reads one tube, and moves it on through its statuses for the operator (200, audit-logged); a viewer reads but may not", async () => {
+    const params = { tubeId: String(tubeId) };
+    const patch = (role: Role, body: unknown, id = String(tubeId)) =>
+      call(tubeAction as never, role, `${base()}/dewatering/tubes/${id}`, { method: "PATCH", body: JSON.stringify(body), headers: { "Content-Type": "application/json" } }, { tubeId: id });
+    const read = await call(tubeLoader as never, "viewer", `${base()}/dewatering/tubes/${tubeId}`, {}, params);
+    expect(read.status).toBe(200);
+    expect((await read.json()).tube).toMatchObject({ id: tubeId, name: "T-1", status: "filling", nearCapacity: true });
+    const moved = await patch("dewatering", { status: "ready-to-open" });
+    expect(moved.status).toBe(200);
+    expect((await moved.json()).tube.status).toBe("ready-to-open");
+    expect(await AuditEvent.count({ where: { projectId: site.project.id, action: "tube-status-changed" } })).toBe(1);
+    const unknown = await patch("dewatering", { status: "burst" });
+    expect(unknown.status).toBe(422);
+    expect((await errorsOf(unknown))[0].field).toBe("status");
+    expect((await patch("viewer", { status: "opened" })).status).toBe(403);
+    expect((await patch("dewatering", { status: "opened" }, "999999999")).status).toBe(404);
+    expect((await call(tubeLoader as never, "viewer", `${base()}/dewatering/tubes/999999999`, {}, { tubeId: "999999999" })).status).toBe(404);
+    expect((await GeotextileTube.findByPk(tubeId))!.status).toBe("ready-to-open");
+  });
 });
 
 describe("haul tickets", () => {
@@ -193,6 +215,20 @@ describe("haul tickets", () => {
     const again = await postJson(haulsAction as never, "dewatering", `${base()}/hauls`, { date: "2026-10-10", ticketNumber: "41877", truck: "Truck 3", site: "Tallgrass Farm", load: { value: 22, unit: "short-ton" }, cakeSolidsByWeight: 0.3 });
     expect(again.status).toBe(409);
     expect(await HaulSite.count({ where: { projectId: site.project.id } })).toBe(1);
+  });
+
+  it("lists and adds haul sites through the API: 201 for the operator, 409 for a name taken, 422 naming the field, 403 for a viewer", async () => {
+    const post = (role: Role, body: unknown) => postJson(haulSitesAction as never, role, `${base()}/haul-sites`, body);
+    const added = await post("dewatering", { name: "Kestrel Landfill", kind: "disposal", permitNumber: "SW-88-0412" });
+    expect(added.status).toBe(201);
+    expect((await added.json()).site).toMatchObject({ name: "Kestrel Landfill", kind: "disposal", permitNumber: "SW-88-0412" });
+    expect((await post("manager", { name: "Kestrel Landfill", kind: "disposal", permitNumber: "SW-88-0413" })).status).toBe(409);
+    const noPermit = await post("dewatering", { name: "Heron Field", kind: "reuse" });
+    expect(noPermit.status).toBe(422);
+    expect((await errorsOf(noPermit))[0].field).toBe("permitNumber");
+    expect((await post("viewer", { name: "Viewer's site", kind: "reuse", permitNumber: "X-1" })).status).toBe(403);
+    const listed = await (await call(haulSitesLoader as never, "viewer", `${base()}/haul-sites`)).json();
+    expect(listed.sites.map((entry: { name: string }) => entry.name)).toEqual(["Kestrel Landfill", "Tallgrass Farm"]);
   });
 });
 

@@ -5,7 +5,7 @@ import { closeSequelize } from "../../db/connection.server";
 import { cellCentroid, cellLabel, parseCellLabel, type CellGrid } from "../../shared/grid/cell-grid";
 import { METRES_PER_US_SURVEY_FOOT } from "../../shared/units";
 import { GRID, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
-import { AuditEvent, DiveTeam, FindPhoto, FindSequence, HoldNotice, Project, Zone, type Role } from "~/lib/db.server";
+import { AuditEvent, DiveTeam, FindPhoto, FindSequence, Hold, HoldCell, HoldNotice, Project, Zone, getSequelize, type Role } from "~/lib/db.server";
 import { listObjectKeys } from "~/lib/storage/storage.server";
 import { action as assignAction } from "~/routes/api.projects.$projectId.assignments";
 import { loader as cellsLoader } from "~/routes/api.projects.$projectId.cells";
@@ -200,6 +200,29 @@ describe("logging a cultural find", () => {
     expect((await lift("resource-monitor", { authorisedBy: "R. Okafor, state historic-preservation office", note: "by phone" })).status).toBe(204);
     expect((await assign()).status).toBe(201);
     expect(await AuditEvent.count({ where: { projectId, action: "hold-lifted" } })).toBe(1);
+  });
+
+  it("waits for a hold being placed that instant and refuses the cell, never slipping past it (409)", async () => {
+    // A find being logged holds the project row's lock while it places its hold; an assignment of
+    // a cell of that hold, asked in the same instant, must wait and then see it. (Computed: before
+    // the assignment took the same lock, it checked holds while the find's transaction was still
+    // open, saw none, and stored the assignment: 201.)
+    const target = heldCells[1] ?? heldCells[0]!;
+    const { row, col } = parseCellLabel(target)!;
+    let assigned: Promise<Response> | null = null;
+    let placedHoldId = 0;
+    await getSequelize().transaction(async (transaction) => {
+      await Project.findByPk(projectId, { lock: transaction.LOCK.UPDATE, transaction });
+      assigned = postJson(assignAction as never, "dive-supervisor", `${base()}/assignments`, {}, { date: "2031-06-11", team: "Team Heron", cells: [target], hose: "Hose A" });
+      await new Promise((resolve) => setTimeout(resolve, 400));
+      const hold = await Hold.create({ projectId, findId, radiusM: 50, radiusSource: "race test", placedAt: new Date(), liftedAt: null }, { transaction });
+      await HoldCell.create({ holdId: hold.id, projectId, row, col, label: target }, { transaction });
+      placedHoldId = hold.id;
+    });
+    const answer = await assigned!;
+    expect(answer.status).toBe(409);
+    expect((await errorsOf(answer))[0]!.message).toContain(`hold #${placedHoldId}`);
+    await Hold.update({ liftedAt: new Date(), authorisedBy: "race test" }, { where: { id: placedHoldId } });
   });
 
   it("records a handover and shows the new holder and place", async () => {

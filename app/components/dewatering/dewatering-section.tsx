@@ -63,7 +63,14 @@ export function FieldSelect({ label, name, error, children, className, ...select
   );
 }
 
+// One formatter per number of decimals: `toLocaleString` with options builds a new one per call,
+// a visible share of the overview's render time (its reconciliation panel formats dozens).
+const figureFormats = new Map<number, Intl.NumberFormat>();
+
 /** A number for a table or a figure, at most `digits` decimals. */
 export function formatFigure(value: number | null | undefined, digits = 1): string {
-  return value === null || value === undefined || !Number.isFinite(value) ? "–" : value.toLocaleString("en-US", { maximumFractionDigits: digits, minimumFractionDigits: 0 });
+  if (value === null || value === undefined || !Number.isFinite(value)) return "–";
+  let format = figureFormats.get(digits);
+  if (!format) figureFormats.set(digits, (format = new Intl.NumberFormat("en-US", { maximumFractionDigits: digits, minimumFractionDigits: 0 })));
+  return format.format(value);
 }

@@ -8,6 +8,7 @@ import { apiErrorResponse } from "../api/errors.server";
 import { hasBearer, lookUpBearer } from "./api-token.server";
 import { currentSignInSession } from "./session.server";
 import { urlIdSchema } from "../http/url-id";
+import { oncePerRequest } from "../http/request-scope.server";
 
 // The one place that decides access. The core (signedInUser, projectAccess) throws typed errors;
 // pages call requireUser / requireRole, which answer as pages do (a redirect to sign in, a 403 or
@@ -23,14 +24,24 @@ import { urlIdSchema } from "../http/url-id";
  */
 export async function getOptionalUser(request: Request): Promise<UserView | null> {
   if (hasBearer(request)) return (await bearerUser(request)).user;
-  const session = await currentSignInSession(request);
-  return session ? getUserView(session.userId) : null;
+  return sessionUser(request);
+}
+
+function sessionUser(request: Request): Promise<UserView | null> {
+  return oncePerRequest(request, "session-user", async () => {
+    const session = await currentSignInSession(request);
+    return session ? getUserView(session.userId) : null;
+  });
 }
 
 const READING_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
 /** A bearer request's user, or why it has none (for the 401's message). A read-only token asking to change something is a 403. */
-async function bearerUser(request: Request): Promise<{ user: UserView; refusal?: never } | { user: null; refusal: string }> {
+function bearerUser(request: Request): Promise<{ user: UserView; refusal?: never } | { user: null; refusal: string }> {
+  return oncePerRequest(request, "bearer-user", () => lookUpBearerUser(request));
+}
+
+async function lookUpBearerUser(request: Request): Promise<{ user: UserView; refusal?: never } | { user: null; refusal: string }> {
   if (!isApiPath(new URL(request.url).pathname)) return { user: null, refusal: "Personal API tokens open the /api routes only; this page needs a signed-in session." };
   const token = await lookUpBearer(request.headers.get("Authorization"));
   if (token === "expired") return { user: null, refusal: "The API token has expired; create a new one on your account page." };
@@ -53,8 +64,7 @@ export async function signedInUser(request: Request): Promise<UserView> {
     if (bearer.user) return bearer.user;
     throw new NotSignedInError(bearer.refusal);
   }
-  const session = await currentSignInSession(request);
-  const user = session ? await getUserView(session.userId) : null;
+  const user = await sessionUser(request);
   if (user) return user;
   throw new NotSignedInError("Sign in, or send a personal API token as Authorization: Bearer <token>.");
 }
@@ -76,10 +86,15 @@ export async function projectAccess(request: Request, projectId: string | number
   const user = await signedInUser(request);
   const parsedId = urlIdSchema.safeParse(projectId);
   if (!parsedId.success) throw new NotFoundError("There is no such project.");
-  const project = await findProject(parsedId.data);
-  if (!project) throw new NotFoundError("There is no such project.");
-  const membership = await Membership.findOne({ where: { projectId: project.id, userId: user.id } });
-  const access: ProjectAccess = { role: membership?.role ?? null, isSiteAdmin: user.isSiteAdmin, user, project: presentProject(project) };
+  const found = await oncePerRequest(request, `project-${parsedId.data}-of-${user.id}`, async () => {
+    const project = await findProject(parsedId.data);
+    if (!project) return null;
+    const membership = await Membership.findOne({ where: { projectId: project.id, userId: user.id }, attributes: ["role"], raw: true });
+    return { project: presentProject(project), role: membership?.role ?? null };
+  });
+  if (!found) throw new NotFoundError("There is no such project.");
+  // A fresh object per call: a caller may keep or change its own view of the project.
+  const access: ProjectAccess = { role: found.role, isSiteAdmin: user.isSiteAdmin, user, project: { ...found.project } };
   assertAllowed(access, action, refused);
   return access;
 }
