@@ -35,7 +35,7 @@ describe("guessColumns", () => {
 
   it("recognises longitude and latitude", () => {
     const guess = guessColumns(["Longitude", "Latitude", "depth"]);
-    expect(guess).toEqual({ mapping: { easting: "Longitude", northing: "Latitude", depth: "depth" }, lonLat: true });
+    expect(guess).toEqual({ mapping: { easting: "Longitude", northing: "Latitude", depth: "depth" }, lonLat: true, remembered: [] });
   });
 
   it("prefers the project's remembered mapping where the file still has that header", () => {
