@@ -88,7 +88,11 @@ export function SoundingPlot({ data, title, width = 640 }: { data: SoundingPlotD
         <span className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
           <span className="inline-flex items-center gap-1"><svg width="12" height="12" aria-hidden="true"><circle cx="6" cy="6" r="4.5" fill="none" stroke={OUTSIDE} strokeWidth="2" /></svg>Outside the work limit ({outside.length})</span>
           <span className="inline-flex items-center gap-1"><svg width="12" height="12" aria-hidden="true"><path d="M6,1L11,10L1,10Z" fill="none" stroke={SPIKE} strokeWidth="2" /></svg>Spike ({spikes.length})</span>
-          {beyondTotal > 0 ? <span data-testid="plot-beyond">{beyondTotal.toLocaleString("en-US")} beyond the frame, drawn on its edge (■)</span> : null}
+          {beyondTotal > 0 ? (
+            <span data-testid="plot-beyond">
+              ■ Beyond the frame, drawn on its edge: {edgeLabels.filter((label) => label.count > 0).map((label) => `${label.count.toLocaleString("en-US")} to the ${label.key}`).join(", ")}
+            </span>
+          ) : null}
         </span>
       </figcaption>
     </figure>

@@ -152,6 +152,8 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
   const notText = preview.shape.headers.length === 0 && preview.rowsChecked === false && preview.fileProblems.length > 0 && preview.rowCount === 0 && !preview.shape.hasHeader;
   const remembered = new Set(preview.rememberedFields ?? []);
   const unit = unitLabel(loaderData.lengthUnit);
+  // The depth-unit and bottom notes have their own boxes with the confirmation; the list holds the rest.
+  const notes = preview.warnings.filter((warning) => warning !== preview.depthUnit?.message && warning !== preview.bottomShift?.message);
   const spikeRows = preview.plot?.spikes?.map((spike) => spike.row) ?? preview.qa?.spikes.rows ?? [];
   return (
     <section aria-labelledby="import-heading" className="min-w-0 space-y-6 [overflow-wrap:anywhere]">
@@ -185,8 +187,8 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
           <div className="mt-4 max-w-full overflow-x-auto">
             <table className="w-full border-collapse text-xs">
               <caption className="text-left text-sm text-muted">First rows of the file</caption>
-              <thead><tr>{preview.shape.headers.map((header) => <th key={header} scope="col" className="border-b border-line px-2 py-1 text-left">{header}</th>)}</tr></thead>
-              <tbody>{preview.shape.firstRows.map((row, index) => <tr key={index}>{row.map((cell, cellIndex) => <td key={cellIndex} className="border-b border-line px-2 py-1">{cell}</td>)}</tr>)}</tbody>
+              <thead><tr>{preview.shape.headers.map((header) => <th key={header} scope="col" className="whitespace-nowrap border-b border-line px-2 py-1 text-left [overflow-wrap:normal]">{header.length > 48 ? `${header.slice(0, 47)}…` : header}</th>)}</tr></thead>
+              <tbody>{preview.shape.firstRows.map((row, index) => <tr key={index}>{row.map((cell, cellIndex) => <td key={cellIndex} className="whitespace-nowrap border-b border-line px-2 py-1 [overflow-wrap:normal]">{cell.length > 48 ? `${cell.slice(0, 47)}…` : cell}</td>)}</tr>)}</tbody>
             </table>
           </div>
         </fieldset>
@@ -245,7 +247,7 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
 
         {preview.outside.count > 0 ? (
           <fieldset className="rounded border border-caution bg-panel p-4">
-            <legend className="px-1 font-medium">{preview.outside.count} soundings outside the work limit</legend>
+            <legend className="px-1 font-medium">{preview.outside.count.toLocaleString("en-US")} sounding{preview.outside.count === 1 ? "" : "s"} outside the work limit</legend>
             <p className="text-sm">Rows {preview.outside.rows.slice(0, 30).join(", ")}{preview.outside.count > 30 ? " …" : ""}.</p>
             <div className="mt-2 flex gap-6 text-sm">
               <label className="flex items-center gap-2"><input type="radio" name="outside" value="keep" defaultChecked={choices.outside === "keep"} /> Keep them</label>
@@ -283,10 +285,10 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
           </label>
         ) : null}
 
-        {preview.warnings.length > 0 ? (
+        {notes.length > 0 ? (
           <div className="rounded border border-line bg-panel p-4">
             <h3 className="font-medium">Notes</h3>
-            <ul className="mt-1 list-disc pl-5 text-sm">{preview.warnings.map((warning) => <li key={warning}>{warning}</li>)}</ul>
+            <ul className="mt-1 list-disc pl-5 text-sm">{notes.map((warning) => <li key={warning}>{warning}</li>)}</ul>
           </div>
         ) : null}
 
@@ -297,7 +299,7 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
               <li>Cells with soundings: {preview.qa.cellsWithSoundings} of {preview.qa.cellsInLimit} in the work limit; median {preview.qa.medianPerCell ?? "—"} soundings per cell; {preview.qa.sparseCells} cells with fewer than {preview.qa.minimumPerCell}.</li>
               <li data-testid="spikes">
                 Spikes: {preview.qa.spikes.count}
-                {preview.spikeRule ? ` — a sounding ${preview.spikeRule}` : Number.isFinite(preview.qa.spikes.threshold) ? ` (more than ${preview.qa.spikes.threshold.toFixed(2)} ${unit} from its neighbours' median)` : " (not judged: no allowance for this survey order)"}
+                {preview.spikeRule ? ` — a spike is a sounding ${preview.spikeRule}` : Number.isFinite(preview.qa.spikes.threshold) ? ` (more than ${preview.qa.spikes.threshold.toFixed(2)} ${unit} from its neighbours' median)` : " (not judged: no allowance for this survey order)"}
                 {preview.qa.spikes.count > 0 ? `. Rows ${spikeRows.slice(0, 40).join(", ")}${preview.qa.spikes.count > 40 ? " …" : ""}; drawn as triangles on the plot below.` : "."}
               </li>
               <li>Crossing lines: {preview.qa.crossings.comparisons} comparisons{preview.qa.crossings.withinAllowanceShare !== null ? `, ${(preview.qa.crossings.withinAllowanceShare * 100).toFixed(0)} % within the IHO S-44 order ${preview.qa.order} allowance` : ""}.</li>
