@@ -39,9 +39,12 @@ interface ReadTime {
   offset: number | null;
 }
 
+const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
 function validDay(year: number, month: number, day: number): boolean {
   if (month < 1 || month > 12 || day < 1) return false;
-  return day <= new Date(Date.UTC(year, month, 0)).getUTCDate();
+  const leap = month === 2 && ((year % 4 === 0 && year % 100 !== 0) || year % 400 === 0);
+  return day <= DAYS_IN_MONTH[month - 1] + (leap ? 1 : 0);
 }
 
 function readTime(text: string, surveyedOn: string): ReadTime | "relative" | null {
@@ -87,6 +90,18 @@ function readTime(text: string, surveyedOn: string): ReadTime | "relative" | nul
 
 export function checkTimes(input: TimeCheckInput): RowProblem[] {
   const problems: RowProblem[] = [];
+  // A file's times fall on few local days and hours: the zone's offset is worked out once for each.
+  const hourStarts = new Map<string, number>();
+  const localInstant = (day: string, minutes: number) => {
+    const hour = Math.floor(minutes / 60);
+    const key = `${day} ${hour}`;
+    let start = hourStarts.get(key);
+    if (start === undefined) {
+      start = instantOfLocal(day, hour * 60, input.fileTimeZone);
+      hourStarts.set(key, start);
+    }
+    return start + (minutes - hour * 60) * 60_000;
+  };
   const now = input.now;
   const today = now === null ? "" : localDayOf(now, input.projectTimeZone);
   const example = `${input.surveyedOn}T07:30:00 or ${input.surveyedOn} 07:30`;
@@ -114,7 +129,7 @@ export function checkTimes(input: TimeCheckInput): RowProblem[] {
     else {
       const instant = read.offset !== null
         ? Date.UTC(Number(read.day.slice(0, 4)), Number(read.day.slice(5, 7)) - 1, Number(read.day.slice(8, 10))) + (read.minutes - read.offset) * 60_000
-        : instantOfLocal(read.day, read.minutes, input.fileTimeZone);
+        : localInstant(read.day, read.minutes);
       future = instant > now + FUTURE_SLACK_MS;
     }
     if (future) {
