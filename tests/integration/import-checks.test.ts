@@ -10,6 +10,7 @@ import { commitChoicesSchema, importOptionsSchema, type ImportOptions } from "~/
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { demoImportOptions } from "../../db/seeders/demo-surveys";
+import { previousBottomBins } from "~/lib/import/previous-bottom.server";
 import { DEMO_DIR, FIXTURES, counts, makeDemoSiteProject, postSurvey, projectCrs } from "./import-helpers";
 
 // The import checks that catch what crews really get wrong, each with its fixture under
@@ -191,5 +192,19 @@ describe("a progress survey with a wrong water-surface elevation is held", () =>
     expect(remembered!.mapping).toMatchObject({ easting: "easting", depth: "depth" });
     const { preview } = await analyse(site.project.id, file, optionsFor(progress1), { outside: "keep", acceptSameFile: true });
     expect(preview.rememberedFields).toEqual(expect.arrayContaining(["easting", "northing", "depth"]));
+  });
+
+  it("firm sand still comes from the baseline when the newest surveys read are all progress surveys", async () => {
+    const geometry = await loadProjectGeometry(site.project.id);
+    const origin = { x: geometry.settings.originX ?? 0, y: geometry.settings.originY ?? 0 };
+    // Only the newest survey is read for the bottom (the progress survey stored above, without probes).
+    const newestOnly = await previousBottomBins(site.project.id, geometry.settings.cellSize, origin, 1);
+    expect(newestOnly.refusal.size).toBeGreaterThan(0);
+    const allSurveys = await previousBottomBins(site.project.id, geometry.settings.cellSize, origin, 6);
+    expect([...newestOnly.refusal]).toEqual([...allSurveys.refusal]); // the same baseline probes either way
+    // computed: the survey confirmed with a water surface of 0 put the bottom below the baseline's firm sand in every shared cell.
+    const shared = [...newestOnly.bottom.keys()].filter((key) => newestOnly.refusal.has(key));
+    expect(shared.length).toBeGreaterThan(20);
+    for (const key of shared) expect(newestOnly.bottom.get(key)!).toBeLessThan(newestOnly.refusal.get(key)!);
   });
 });

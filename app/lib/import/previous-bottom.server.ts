@@ -16,9 +16,12 @@ export async function previousBottomBins(projectId: number, binSize: number, ori
     order: [["surveyedOn", "DESC"], ["id", "DESC"]],
     limit: maxSurveys,
   });
+  // Firm sand comes from the probe readings of a baseline, which a long project's newest surveys may not include.
+  const baseline = await Survey.findOne({ where: { projectId, status: "active", kind: "baseline" }, attributes: ["id", "soundingCount"], order: [["surveyedOn", "DESC"], ["id", "DESC"]] });
+  const firmOnly = baseline && !surveys.some((survey) => survey.id === baseline.id) ? baseline : null;
   const bins = new Map<string, number>();
   const refusal = new Map<string, number>();
-  for (const survey of surveys) {
+  for (const survey of firmOnly ? [...surveys, firmOnly] : surveys) {
     const step = Math.max(1, Math.ceil(Number(survey.soundingCount) / maxPerSurvey));
     const rows = await getSequelize().query<{ easting: number; northing: number; elevation: number; refusalElevation: number | null }>(
       "SELECT easting, northing, elevation, refusalElevation FROM soundings WHERE surveyId = ? AND MOD(id, ?) = 0",
@@ -27,7 +30,7 @@ export async function previousBottomBins(projectId: number, binSize: number, ori
     const x = Float64Array.from(rows, (row) => Number(row.easting));
     const y = Float64Array.from(rows, (row) => Number(row.northing));
     const z = Float64Array.from(rows, (row) => Number(row.elevation));
-    for (const [key, value] of binMedians(x, y, z, binSize, origin, maxPerSurvey)) if (!bins.has(key)) bins.set(key, value);
+    if (survey !== firmOnly) for (const [key, value] of binMedians(x, y, z, binSize, origin, maxPerSurvey)) if (!bins.has(key)) bins.set(key, value);
     const firm = Float64Array.from(rows, (row) => (row.refusalElevation === null ? Number.NaN : Number(row.refusalElevation)));
     for (const [key, value] of binMedians(x, y, firm, binSize, origin, maxPerSurvey)) if (!refusal.has(key)) refusal.set(key, value);
   }
