@@ -6,6 +6,7 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { ValidationError, type ErrorDetail } from "~/lib/errors";
 import { commitChoicesFromFields, importOptionsFromFields } from "~/lib/import/form-fields";
 import { importSurveyFile } from "~/lib/import/import-service.server";
+import { refuseUnreadableFile } from "~/lib/import/page-upload.server";
 import { discardStagedFile, stageUpload, UploadRefused } from "~/lib/import/stage-upload.server";
 import { listSurveys } from "~/models/survey.server";
 import type { Route } from "./+types/api.projects.$projectId.surveys";
@@ -34,7 +35,10 @@ const route = apiRoute<Route.LoaderArgs>({
     // The role is checked before the body is read, so a refused upload never reaches the disk.
     const { project, user } = await requireApiAccess(request, params.projectId, "surveys.import");
     assertMediaType(request, "multipart/form-data");
-    const { fields, file } = await stage(request);
+    const staged = await stage(request);
+    const { fields, file } = staged;
+    const refused = await refuseUnreadableFile(staged);
+    if (refused) throw new ValidationError({ field: "file", message: refused });
     try {
       if (!file) throw new ValidationError({ field: "file", message: "no file was sent in the `file` field" });
       const { options, problems } = importOptionsFromFields(fields, { crs: project.crs, lengthUnit: project.lengthUnit, timeZone: DEFAULT_TIME_ZONE });
@@ -52,6 +56,9 @@ const route = apiRoute<Route.LoaderArgs>({
         }
         if (preview.depthUnit && !choices.acceptDepthUnit) {
           errors.push({ column: "depth", message: `${preview.depthUnit.message} Send acceptDepthUnit=true to import the values as declared.` });
+        }
+        if (preview.bottomShift && !choices.acceptBottomShift) {
+          errors.push({ field: "waterSurfaceElevation", message: `${preview.bottomShift.message} Send acceptBottomShift=true to import the bottom as it is.` });
         }
         throw new ValidationError(errors, { blockers: preview.blockers, problemCount: preview.problemCount, warnings: preview.warnings });
       }

@@ -11,6 +11,7 @@ import { commitChoicesFromFields } from "~/lib/import/form-fields";
 import { findImportJob, jobChoices, jobOptions, jobPreview, presentJobProgress } from "~/lib/import/import-job-view.server";
 import { discardImportJob, ImportJobClosed, previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
 import { soundingFields } from "../../shared/soundings/parse-csv";
+import { delimiterName } from "../../shared/soundings/sniff";
 import { unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.surveys.imports.$jobId";
 import { readPageForm } from "~/lib/http/body.server";
@@ -148,41 +149,50 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
   const firstOfRow = new Map<number, number>();
   preview.problems.forEach((problem, index) => { if (!firstOfRow.has(problem.row)) firstOfRow.set(problem.row, index); });
   const busy = navigation.state !== "idle";
+  const notText = preview.shape.headers.length === 0 && preview.rowsChecked === false && preview.fileProblems.length > 0 && preview.rowCount === 0 && !preview.shape.hasHeader;
+  const remembered = new Set(preview.rememberedFields ?? []);
+  const unit = unitLabel(loaderData.lengthUnit);
+  // The depth-unit and bottom notes have their own boxes with the confirmation; the list holds the rest.
+  const notes = preview.warnings.filter((warning) => warning !== preview.depthUnit?.message && warning !== preview.bottomShift?.message);
+  const spikeRows = preview.plot?.spikes?.map((spike) => spike.row) ?? preview.qa?.spikes.rows ?? [];
   return (
-    <section aria-labelledby="import-heading" className="space-y-6">
+    <section aria-labelledby="import-heading" className="min-w-0 space-y-6 [overflow-wrap:anywhere]">
       <div>
         <h2 id="import-heading" className="text-lg font-semibold">Check {job.fileName}</h2>
         <p className="text-sm text-muted">
-          {options.kind} survey of {options.surveyedOn} · {preview.rowCount.toLocaleString("en-US")} rows · delimiter {preview.shape.delimiter === "\t" ? "tab" : `“${preview.shape.delimiter}”`}
-          {preview.shape.decimalComma ? " · decimal comma" : ""}{preview.shape.hasBom ? " · byte-order mark" : ""}{preview.shape.hasHeader ? "" : " · no header row"}
+          {options.kind} survey of {options.surveyedOn} · {preview.rowCount.toLocaleString("en-US")} rows
+          {notText ? "" : ` · columns separated by ${delimiterName(preview.shape.delimiter)}`}
+          {preview.shape.decimalComma ? " · decimal comma" : ""}{preview.shape.hasBom ? " · byte-order mark" : ""}{preview.shape.hasHeader || notText ? "" : " · no header row"}
         </p>
       </div>
       {job.state === "failed" && job.error ? <FormMessage tone="error">{job.error}</FormMessage> : null}
       {actionError ? <FormMessage tone="error">{actionError}</FormMessage> : null}
 
-      <Form method="post" className="space-y-6" aria-busy={busy}>
-        <fieldset className="rounded border border-line bg-panel p-4">
+      <Form method="post" className="min-w-0 space-y-6" aria-busy={busy}>
+        {notText ? null : (
+        <fieldset className="min-w-0 rounded border border-line bg-panel p-4">
           <legend className="px-1 font-medium">Columns</legend>
-          <p className="text-sm text-muted">Guessed from the header names{preview.lonLatHeaders ? " (longitude/latitude recognised: choose EPSG:4326 as the file's CRS on upload)" : ""}; change any of them. The mapping is remembered for this project's next upload.</p>
+          <p className="text-sm text-muted">Guessed from the header names{preview.lonLatHeaders ? " (longitude/latitude recognised: choose EPSG:4326 as the file's CRS on upload)" : ""}{remembered.size > 0 ? "; fields marked “as last time” come from this project's last accepted mapping" : ""}; change any of them. The mapping is remembered for this project's next upload.</p>
           <div className="mt-3 grid gap-3 sm:grid-cols-2">
             {soundingFields.map((field) => (
-              <div key={field}>
-                <label htmlFor={`column-${field}`} className="block text-sm font-medium">{FIELD_LABELS[field]}</label>
-                <select id={`column-${field}`} name={`column.${field}`} defaultValue={preview.mapping[field] ?? ""} className="mt-1 block w-full rounded border border-line bg-panel px-2 py-1">
+              <div key={field} className="min-w-0">
+                <label htmlFor={`column-${field}`} className="block text-sm font-medium">{FIELD_LABELS[field]}{remembered.has(field) ? <span className="ml-2 text-xs font-normal text-muted">as last time</span> : null}</label>
+                <select id={`column-${field}`} name={`column.${field}`} defaultValue={preview.mapping[field] ?? ""} className="mt-1 block w-full min-w-0 max-w-full rounded border border-line bg-panel px-2 py-1">
                   <option value="">— not in the file —</option>
-                  {preview.shape.headers.map((header) => <option key={header} value={header}>{header}</option>)}
+                  {preview.shape.headers.map((header) => <option key={header} value={header}>{header.length > 48 ? `${header.slice(0, 47)}…` : header}</option>)}
                 </select>
               </div>
             ))}
           </div>
-          <div className="mt-4 overflow-x-auto">
+          <div className="mt-4 max-w-full overflow-x-auto">
             <table className="w-full border-collapse text-xs">
               <caption className="text-left text-sm text-muted">First rows of the file</caption>
-              <thead><tr>{preview.shape.headers.map((header) => <th key={header} scope="col" className="border-b border-line px-2 py-1 text-left">{header}</th>)}</tr></thead>
-              <tbody>{preview.shape.firstRows.map((row, index) => <tr key={index}>{row.map((cell, cellIndex) => <td key={cellIndex} className="border-b border-line px-2 py-1">{cell}</td>)}</tr>)}</tbody>
+              <thead><tr>{preview.shape.headers.map((header) => <th key={header} scope="col" className="whitespace-nowrap border-b border-line px-2 py-1 text-left [overflow-wrap:normal]">{header.length > 48 ? `${header.slice(0, 47)}…` : header}</th>)}</tr></thead>
+              <tbody>{preview.shape.firstRows.map((row, index) => <tr key={index}>{row.map((cell, cellIndex) => <td key={cellIndex} className="whitespace-nowrap border-b border-line px-2 py-1 [overflow-wrap:normal]">{cell.length > 48 ? `${cell.slice(0, 47)}…` : cell}</td>)}</tr>)}</tbody>
             </table>
           </div>
         </fieldset>
+        )}
 
         {preview.fileProblems.length > 0 ? (
           <div role="alert" className="rounded border border-danger bg-panel p-4">
@@ -191,8 +201,18 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
           </div>
         ) : null}
 
+        {preview.rowsChecked === false ? (
+          <div className="rounded border border-danger bg-panel p-4" data-testid="rows-not-checked">
+            <h3 className="font-medium text-danger">No rows were checked</h3>
+            <p className="mt-1 text-sm">
+              {preview.rowCount === 0
+                ? "Nothing was read from this file, so there is nothing to import."
+                : `None of the ${preview.rowCount.toLocaleString("en-US")} rows could be read until the problems with the file as a whole (above) are fixed.`}
+            </p>
+          </div>
+        ) : (
         <div className="rounded border border-line bg-panel p-4">
-          <h3 className="font-medium">Row problems: {preview.problemCount.toLocaleString("en-US")} in {preview.problemRows.toLocaleString("en-US")} rows</h3>
+          <h3 className="font-medium">Row problems: {preview.problemCount.toLocaleString("en-US")} in {preview.problemRows.toLocaleString("en-US")} of {preview.rowCount.toLocaleString("en-US")} rows</h3>
           {preview.problemCount === 0 ? (
             <p className="mt-1 text-sm text-ok">Every row passes the rules.</p>
           ) : (
@@ -202,7 +222,7 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
                 <input type="checkbox" name="excludeErrorRows" value="1" defaultChecked={choices.excludeErrorRows} />
                 Leave out every row with a problem
               </label>
-              <div className="mt-2 max-h-96 overflow-y-auto">
+              <div className="mt-2 max-h-96 overflow-auto">
                 <table className="w-full border-collapse text-sm" data-testid="problems-table">
                   <caption className="sr-only">Row problems</caption>
                   <thead><tr className="text-left"><th scope="col" className="px-2">Leave out</th><th scope="col" className="px-2">Row</th><th scope="col" className="px-2">Column</th><th scope="col" className="px-2">Value</th><th scope="col" className="px-2">Rule</th><th scope="col" className="px-2">Problem</th></tr></thead>
@@ -223,10 +243,11 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
             </>
           )}
         </div>
+        )}
 
         {preview.outside.count > 0 ? (
           <fieldset className="rounded border border-caution bg-panel p-4">
-            <legend className="px-1 font-medium">{preview.outside.count} soundings outside the work limit</legend>
+            <legend className="px-1 font-medium">{preview.outside.count.toLocaleString("en-US")} sounding{preview.outside.count === 1 ? "" : "s"} outside the work limit</legend>
             <p className="text-sm">Rows {preview.outside.rows.slice(0, 30).join(", ")}{preview.outside.count > 30 ? " …" : ""}.</p>
             <div className="mt-2 flex gap-6 text-sm">
               <label className="flex items-center gap-2"><input type="radio" name="outside" value="keep" defaultChecked={choices.outside === "keep"} /> Keep them</label>
@@ -246,6 +267,17 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
           </div>
         ) : null}
 
+        {preview.bottomShift ? (
+          <div className="rounded border border-caution bg-panel p-4 text-sm" data-testid="bottom-shift">
+            <h3 className="font-medium">The whole bottom {preview.bottomShift.direction === "down" ? "dropped" : "rose"} {Math.abs(preview.bottomShift.medianShift).toFixed(1)} {unit}: check before importing</h3>
+            <p className="mt-1">{preview.bottomShift.message}</p>
+            <label className="mt-2 flex items-center gap-2">
+              <input type="checkbox" name="acceptBottomShift" value="1" defaultChecked={choices.acceptBottomShift} />
+              The {options.fileHasElevations ? "elevations and their datum are" : `water-surface elevation (${options.waterSurfaceElevation ?? "—"} ${unit}) is`} right; the bottom really moved.
+            </label>
+          </div>
+        ) : null}
+
         {preview.sameFile.length > 0 ? (
           <label className="flex items-center gap-2 rounded border border-caution bg-panel p-4 text-sm">
             <input type="checkbox" name="acceptSameFile" value="1" defaultChecked={choices.acceptSameFile} />
@@ -253,10 +285,10 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
           </label>
         ) : null}
 
-        {preview.warnings.length > 0 ? (
+        {notes.length > 0 ? (
           <div className="rounded border border-line bg-panel p-4">
             <h3 className="font-medium">Notes</h3>
-            <ul className="mt-1 list-disc pl-5 text-sm">{preview.warnings.map((warning) => <li key={warning}>{warning}</li>)}</ul>
+            <ul className="mt-1 list-disc pl-5 text-sm">{notes.map((warning) => <li key={warning}>{warning}</li>)}</ul>
           </div>
         ) : null}
 
@@ -265,7 +297,11 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
             <h3 className="font-medium">Survey QA</h3>
             <ul className="mt-1 list-disc pl-5">
               <li>Cells with soundings: {preview.qa.cellsWithSoundings} of {preview.qa.cellsInLimit} in the work limit; median {preview.qa.medianPerCell ?? "—"} soundings per cell; {preview.qa.sparseCells} cells with fewer than {preview.qa.minimumPerCell}.</li>
-              <li>Spikes: {preview.qa.spikes.count} (more than {Number.isFinite(preview.qa.spikes.threshold) ? preview.qa.spikes.threshold.toFixed(2) : "—"} from neighbours' median).</li>
+              <li data-testid="spikes">
+                Spikes: {preview.qa.spikes.count}
+                {preview.spikeRule ? ` — a spike is a sounding ${preview.spikeRule}` : Number.isFinite(preview.qa.spikes.threshold) ? ` (more than ${preview.qa.spikes.threshold.toFixed(2)} ${unit} from its neighbours' median)` : " (not judged: no allowance for this survey order)"}
+                {preview.qa.spikes.count > 0 ? `. Rows ${spikeRows.slice(0, 40).join(", ")}${preview.qa.spikes.count > 40 ? " …" : ""}; drawn as triangles on the plot below.` : "."}
+              </li>
               <li>Crossing lines: {preview.qa.crossings.comparisons} comparisons{preview.qa.crossings.withinAllowanceShare !== null ? `, ${(preview.qa.crossings.withinAllowanceShare * 100).toFixed(0)} % within the IHO S-44 order ${preview.qa.order} allowance` : ""}.</li>
             </ul>
           </div>
@@ -273,7 +309,8 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
 
         {preview.plot ? <SoundingPlot title="Soundings of this file and the work limit" data={{ ...preview.plot, highlighted: preview.outside.points }} /> : null}
 
-        <p className="text-sm">{preview.storedCount.toLocaleString("en-US")} soundings would be stored.</p>
+        {preview.rowsChecked === false ? null : <p className="text-sm">{preview.storedCount.toLocaleString("en-US")} soundings would be stored.</p>}
+
         {preview.blockers.length > 0 ? (
           <div className="rounded border border-danger bg-panel p-3 text-sm" data-testid="blockers">
             <p className="font-medium">Not ready to import:</p>

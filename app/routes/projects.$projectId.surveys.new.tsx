@@ -92,7 +92,7 @@ export default function UploadSurvey({ loaderData, actionData }: Route.Component
         >
           <span className="block font-medium">Sounding file (CSV, up to 200 MB)</span>
           <span className="mt-1 block text-sm text-muted">Drop the file here, or choose it.</span>
-          <input ref={fileRef} type="file" name="file" accept=".csv,.txt,text/csv" required className="mt-3" onChange={(event) => setFileName(event.currentTarget.files?.[0]?.name ?? null)} />
+          <input ref={fileRef} type="file" name="file" accept=".csv,.txt,text/csv" required className="mt-3 block w-full max-w-full text-sm" onChange={(event) => setFileName(event.currentTarget.files?.[0]?.name ?? null)} />
           {fileName ? <span className="mt-2 block text-sm">{fileName}</span> : null}
         </label>
 

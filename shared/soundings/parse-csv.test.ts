@@ -111,3 +111,18 @@ describe("parseSoundingsCsv", () => {
     expect(whole.rowCount).toBe(501);
   });
 });
+
+describe("rows cut short (practice: a row written with another delimiter)", () => {
+  it("is one problem naming the delimiter, never \"easting is empty\"", () => {
+    const parsed = parseSoundingsCsv("easting;northing;depth\n600072.43;1679945.81;3.81\n600072.67,1679948.29,3.83\n", { delimiter: ";" });
+    expect(parsed.errors).toEqual([{ row: 3, column: "", value: "600072.67,1679948.29,3.83", message: "has 1 value where the header has 3 columns: its values seem to be separated by commas (,), not semicolons (;) like the header's" }]);
+    expect(parsed.sourceRow).toEqual(Uint32Array.from([2]));
+  });
+
+  it("skips a first line sep=; and numbers rows as the spreadsheet does", () => {
+    const parsed = parseSoundingsCsv("sep=;\neasting;northing;depth\n600072,43;1679945,81;3,81\n");
+    expect(parsed.errors).toEqual([]);
+    expect(parsed.sourceRow).toEqual(Uint32Array.from([3]));
+    expect(parsed.easting[0]).toBe(600072.43);
+  });
+});

@@ -74,14 +74,14 @@ export interface SoundingCsvOptions {
    */
   columns?: Partial<Record<SoundingField, string | null>>;
   /** Force a delimiter instead of detecting it from the header row. */
-  delimiter?: "," | ";" | "\t";
+  delimiter?: "," | ";" | "\t" | "|";
   /** Stop collecting errors after this many (rows are still counted). Default 1000. */
   maxErrors?: number;
 }
 
 export const soundingCsvOptionsSchema = z.object({
   columns: z.partialRecord(z.enum(soundingFields), z.string().min(1).nullable()).optional(),
-  delimiter: z.enum([",", ";", "\t"]).optional(),
+  delimiter: z.enum([",", ";", "\t", "|"]).optional(),
   maxErrors: z.number().int().positive().optional(),
 });
 
@@ -133,16 +133,23 @@ function rowSchema(present: Record<SoundingField, boolean>, decimalComma: boolea
     });
 }
 
-function detectDelimiter(headerLine: string): "," | ";" | "\t" {
-  const counts = { ",": 0, ";": 0, "\t": 0 };
+type Delimiter = "," | ";" | "\t" | "|";
+
+function detectDelimiter(headerLine: string): Delimiter {
+  const separator = /^\ufeff?sep=([,;|\t])\r?$/i.exec(headerLine);
+  if (separator) return separator[1] as Delimiter;
+  const counts = { ",": 0, ";": 0, "\t": 0, "|": 0 };
   let inQuotes = false;
   for (const character of headerLine) {
     if (character === '"') inQuotes = !inQuotes;
-    else if (!inQuotes && (character === "," || character === ";" || character === "\t")) counts[character]++;
+    else if (!inQuotes && (character === "," || character === ";" || character === "\t" || character === "|")) counts[character]++;
   }
   if (counts["\t"] >= counts[","] && counts["\t"] >= counts[";"] && counts["\t"] > 0) return "\t";
+  if (counts["|"] > counts[","] && counts["|"] > counts[";"]) return "|";
   return counts[";"] > counts[","] ? ";" : ",";
 }
+
+const DELIMITER_WORDS: Record<Delimiter, string> = { ",": "commas (,)", ";": "semicolons (;)", "\t": "tabs", "|": "vertical bars (|)" };
 
 export interface SoundingCsvParser {
   /** Feed the next piece of the file; pieces may split rows anywhere. */
@@ -168,7 +175,7 @@ export function createSoundingCsvParser(options: SoundingCsvOptions = {}): Sound
   let scanFrom = 0;
   let inQuotes = false;
   let started = false;
-  let delimiter: "," | ";" | "\t" = settings.delimiter ?? ",";
+  let delimiter: Delimiter = settings.delimiter ?? ",";
   let recordNumber = 0; // records seen so far, header included: the spreadsheet row of the last one
   let rowCount = 0;
   let headers: string[] | null = null;
@@ -220,19 +227,32 @@ export function createSoundingCsvParser(options: SoundingCsvOptions = {}): Sound
     }
     columnIndex = index;
     const present = Object.fromEntries(soundingFields.map((field) => [field, index[field] >= 0])) as Record<SoundingField, boolean>;
-    schema = rowSchema(present, delimiter === ";");
+    schema = rowSchema(present, delimiter !== ",");
   }
 
   function readRecord(cells: string[]) {
     recordNumber++;
     if (cells.every((cell) => cell.trim() === "")) return; // blank line: keeps its row number, not a sounding
     if (headers === null) {
+      // A first line such as "sep=;" (spreadsheet programs write it) names the delimiter: not the header.
+      if (/^sep=[,;|\t]?$/i.test(cells.join(delimiter).trim())) return;
       readHeader(cells);
       return;
     }
     rowCount++;
     if (fileError || columnIndex === null || schema === null) return;
     const index = columnIndex;
+    // A row cut short (fewer values than the header has columns) is one problem, not "easting is empty".
+    const needed = Math.max(index.easting, index.northing, index.depth >= 0 ? index.depth : index.elevation);
+    if (cells.length <= needed && cells.length < headers.length) {
+      const line = cells.join(delimiter);
+      const other = (Object.keys(DELIMITER_WORDS) as Delimiter[]).find((candidate) => candidate !== delimiter && line.includes(candidate));
+      addError({
+        row: recordNumber, column: "", value: line.slice(0, 80),
+        message: `has ${cells.length} value${cells.length === 1 ? "" : "s"} where the header has ${headers.length} columns${other ? `: its values seem to be separated by ${DELIMITER_WORDS[other]}, not ${DELIMITER_WORDS[delimiter]} like the header's` : ""}`,
+      });
+      return;
+    }
     const cell = (field: SoundingField) => (index[field] >= 0 ? (cells[index[field]] ?? "") : "");
     const raw = {
       easting: cell("easting"),

@@ -4,7 +4,7 @@ import type { ProjectedMultiPolygon } from "../grid/work-limit";
 import { guessColumns } from "./column-guess";
 import { binKey } from "./depth-unit-mistakes";
 import { parseSoundingsCsv } from "./parse-csv";
-import { prepareSoundings, type EarlierSurveys, type PrepareOptions, type SoundingGeometry } from "./prepare";
+import { plotOf, prepareSoundings, type EarlierSurveys, type PrepareOptions, type SoundingGeometry } from "./prepare";
 import { sniffFileShape } from "./sniff";
 
 // Hand-written files against a 100 × 100 square work limit; each expected figure is worked out
@@ -119,5 +119,49 @@ describe("prepareSoundings", () => {
     expect(preview.blockers).toEqual(["Fix the problems with the file as a whole first (see above)."]);
     expect(prepared).toBeNull();
     expect(preview.qa).toBeNull();
+  });
+
+  it("a row in degrees among projected coordinates is named as longitude/latitude, not as far away", () => {
+    const { preview } = prepare(`x,y,depth\n${at(5, 5)},3\n-82.1754037,28.9549377,4\n${at(15, 5)},3\n`);
+    expect(preview.problems).toEqual([expect.objectContaining({ row: 3, column: "x", rule: "coordinate system" })]);
+    expect(preview.problems[0].message).toMatch(/^row 3 looks like longitude\/latitude \(-82\.1754037, 28\.9549377\), not project metres \(EPSG:32617\)/);
+  });
+
+  it("a header-only file is an error state, not a file whose every row passes", () => {
+    const { preview, prepared } = prepare("x,y,depth\n");
+    expect(preview.rowsChecked).toBe(false);
+    expect(preview.validRowCount).toBe(0);
+    expect(preview.fileProblems).toEqual(["The file has a header (x, y, depth) but no rows of soundings. Export the soundings again and choose the new file."]);
+    expect(prepared).toBeNull();
+  });
+
+  it("a file that is not text says only that", () => {
+    const { preview } = prepare("", { notText: "The file you chose, a.png, looks like a PNG image, not a CSV text file of soundings." });
+    expect(preview.fileProblems).toEqual(["The file you chose, a.png, looks like a PNG image, not a CSV text file of soundings."]);
+    expect(preview.shape.headers).toEqual([]);
+    expect(preview.rowsChecked).toBe(false);
+  });
+
+  it("names a delimiter other than the comma, and a depth header whose unit disagrees", () => {
+    const semicolons = prepare(`x;y;depth_ft\n${at(5, 5).replace(",", ";")};3\n`);
+    expect(semicolons.preview.warnings).toContain("This file separates columns with semicolons (;); it was read that way.");
+    // The project is in metres and so is the declared unit; the header says feet.
+    expect(semicolons.preview.depthUnit?.message).toBe('The column "depth_ft" says feet, but the file\'s depths were declared as metres (the project\'s unit). Choose feet as the unit of depths in the file and upload again, or confirm that the values are metres whatever the header says.');
+    expect(semicolons.preview.blockers).toContain("The depths may be in another unit than declared (see the note on depth units): fix the unit and check again, or confirm that they are right.");
+  });
+});
+
+describe("plotOf", () => {
+  it("frames the work limit with a tenth of its size around it, however far one point lies", () => {
+    // closed form: the square is 100 wide, so the frame runs 10 beyond it on each side.
+    const plot = plotOf([[E0 + 50, N0 + 50], [E0 + 1_000_000, N0 + 50]], square);
+    expect(plot.bounds).toEqual({ minX: E0 - 10, minY: N0 - 10, maxX: E0 + 110, maxY: N0 + 110 });
+  });
+
+  it("without a work limit, frames the middle of the points", () => {
+    const points = Array.from({ length: 200 }, (_, index) => [index, index] as [number, number]);
+    points.push([1e7, 1e7]);
+    const plot = plotOf(points, null);
+    expect(plot.bounds.maxX).toBeLessThan(300); // the 99th percentile (199) plus a tenth of the span, not 10,000,000
   });
 });

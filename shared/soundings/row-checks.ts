@@ -213,6 +213,7 @@ export function ruleOf(message: string): string {
   if (/is not a number/.test(message)) return "number";
   if (/shallower than the water depth/.test(message)) return "probe below bottom";
   if (/is negative/.test(message)) return "not negative";
+  if (/values? where the header has/.test(message)) return "column count";
   if (/header row|no column named|file is empty/.test(message)) return "columns";
   return "value";
 }

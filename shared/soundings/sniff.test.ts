@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { guessColumns, normaliseHeader } from "./column-guess";
+import { guessColumns, headerUnit, normaliseHeader } from "./column-guess";
 import { sniffFileShape } from "./sniff";
 
 describe("sniffFileShape", () => {
@@ -35,7 +35,7 @@ describe("guessColumns", () => {
 
   it("recognises longitude and latitude", () => {
     const guess = guessColumns(["Longitude", "Latitude", "depth"]);
-    expect(guess).toEqual({ mapping: { easting: "Longitude", northing: "Latitude", depth: "depth" }, lonLat: true });
+    expect(guess).toEqual({ mapping: { easting: "Longitude", northing: "Latitude", depth: "depth" }, lonLat: true, remembered: [] });
   });
 
   it("prefers the project's remembered mapping where the file still has that header", () => {
@@ -44,5 +44,47 @@ describe("guessColumns", () => {
 
   it("a remembered mapping without a header for a field guesses that field afresh", () => {
     expect(guessColumns(["x", "y", "depth", "probe"], { probe: null }).mapping).toEqual({ easting: "x", northing: "y", depth: "depth", probe: "probe" });
+  });
+});
+
+describe("delimiters as crews' files write them (practice)", () => {
+  it("reads semicolons even when some rows end with a stray one", () => {
+    const shape = sniffFileShape("easting;northing;depth\n600072.43;1679945.81;3.81;\n600072.67;1679948.29;3.83\n600072.55;1679950.43;3.86\n");
+    expect(shape).toMatchObject({ delimiter: ";", decimalComma: false, headers: ["easting", "northing", "depth"] });
+  });
+
+  it("reads vertical bars and tabs, decimal commas with either", () => {
+    expect(sniffFileShape("easting|northing|depth\n600072,43|1679945,81|3,81\n")).toMatchObject({ delimiter: "|", decimalComma: true });
+    expect(sniffFileShape("easting\tnorthing\tdepth\n600072,43\t1679945,81\t3,81\n")).toMatchObject({ delimiter: "\t", decimalComma: true });
+  });
+
+  it("takes the delimiter from a first line such as sep=; and skips it", () => {
+    const shape = sniffFileShape("sep=;\neasting;northing;depth\n600072,43;1679945,81;3,81\n");
+    expect(shape).toMatchObject({ delimiter: ";", separatorLine: true, headers: ["easting", "northing", "depth"] });
+  });
+});
+
+describe("header spellings and units (practice: exports of field software and spreadsheets)", () => {
+  it("guesses East_ft, North_ft, Sounding_ft and friends", () => {
+    expect(guessColumns(["PT", "East_ft", "North_ft", "Sounding_ft", "Probe_ft", "Date_Time"]).mapping).toEqual({ id: "PT", easting: "East_ft", northing: "North_ft", depth: "Sounding_ft", probe: "Probe_ft", time: "Date_Time" });
+    expect(guessColumns(["Easting (m)", "Northing (m)", "Depth_ft", "Elev"]).mapping).toEqual({ easting: "Easting (m)", northing: "Northing (m)", depth: "Depth_ft", elevation: "Elev" });
+    expect(guessColumns(["X", "Y", "Z"]).mapping).toEqual({ easting: "X", northing: "Y", elevation: "Z" });
+    expect(guessColumns(["Point No", "WaterDepth", "RefusalDepth [ftUS]", "TimeStamp"]).mapping).toEqual({ id: "Point No", depth: "WaterDepth", probe: "RefusalDepth [ftUS]", time: "TimeStamp" });
+  });
+
+  it("recognises longitude/latitude spellings, also beside X/Y-free exports", () => {
+    for (const [lon, lat] of [["Long", "Lat"], ["LON_DD", "LAT_DD"], ["lng", "lat"], ["Longitude (deg)", "Latitude (deg)"]]) {
+      expect(guessColumns([lat, lon, "Depth"]), lon).toMatchObject({ mapping: { easting: lon, northing: lat, depth: "Depth" }, lonLat: true });
+    }
+  });
+
+  it("reads the unit a header carries", () => {
+    expect(["East_ft", "Easting (m)", "Depth [ftUS]", "depth_us_ft", "Elev_NAVD88_ft", "LAT_DD", "Depth", "Time"].map(headerUnit)).toEqual(["ft", "m", "us-ft", "us-ft", "ft", "degrees", null, null]);
+  });
+
+  it("the project's last accepted mapping wins over a guess and says which fields it gave", () => {
+    const guess = guessColumns(["Depth", "Sounding_ft", "E", "N"], { depth: "Sounding_ft" });
+    expect(guess.mapping.depth).toBe("Sounding_ft");
+    expect(guess.remembered).toEqual(["depth"]);
   });
 });

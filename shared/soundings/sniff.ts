@@ -3,7 +3,15 @@
  * whether the first row is a header, decimal comma, and the first rows for the mapping table.
  * Pure: the first few kilobytes of text in, a description out.
  */
-export type Delimiter = "," | ";" | "\t";
+export type Delimiter = "," | ";" | "\t" | "|";
+
+/** The delimiter in the crew's words: "semicolons (;)". */
+export function delimiterName(delimiter: string): string {
+  return delimiter === "\t" ? "tabs" : delimiter === ";" ? "semicolons (;)" : delimiter === "|" ? "vertical bars (|)" : "commas (,)";
+}
+
+/** A first line such as `sep=;`, which spreadsheet programs write to name the delimiter. */
+export const SEPARATOR_LINE = /^sep=([,;|\t])$/i;
 
 export interface FileShape {
   hasBom: boolean;
@@ -15,6 +23,8 @@ export interface FileShape {
   headers: string[];
   /** Up to `sampleRows` data rows, split into cells. */
   firstRows: string[][];
+  /** The file starts with a `sep=` line naming its delimiter (it is skipped). */
+  separatorLine?: boolean;
 }
 
 function splitLine(line: string, delimiter: Delimiter): string[] {
@@ -56,24 +66,35 @@ export function sniffFileShape(head: string, sampleRows = 8): FileShape {
   let lines = text.split(/\r?\n/);
   if (lines.length > 1 && !/\r?\n$/.test(text)) lines = lines.slice(0, -1);
   lines = lines.filter((line) => line.trim() !== "");
-  const first = lines[0] ?? "";
-  const candidates: Delimiter[] = ["\t", ";", ","];
-  // The delimiter is the candidate that splits the first lines into the same, largest number of cells.
-  let delimiter: Delimiter = ",";
-  let best = 0;
-  for (const candidate of candidates) {
-    const counts = lines.slice(0, 5).map((line) => countOutsideQuotes(line, candidate));
-    const consistent = counts.every((count) => count === counts[0]);
-    if (counts[0] > best && consistent) {
-      best = counts[0];
-      delimiter = candidate;
-    }
-  }
+  const separator = SEPARATOR_LINE.exec(lines[0]?.trim() ?? "");
+  if (separator) lines = lines.slice(1);
+  const delimiter = separator ? (separator[1] as Delimiter) : detectDelimiter(lines.slice(0, 20));
   const rows = lines.map((line) => splitLine(line, delimiter));
   const firstCells = rows[0] ?? [];
   const hasHeader = firstCells.length > 0 && firstCells.some((cell) => cell !== "" && !NUMBER.test(cell));
   const headers = hasHeader ? firstCells : firstCells.map((_, index) => `column ${index + 1}`);
   const dataRows = rows.slice(hasHeader ? 1 : 0, (hasHeader ? 1 : 0) + sampleRows);
-  const decimalComma = delimiter === ";" && dataRows.some((row) => row.some((cell) => /^[+-]?\d+,\d+$/.test(cell)));
-  return { hasBom, delimiter, decimalComma, hasHeader, headers, firstRows: dataRows };
+  const decimalComma = delimiter !== "," && dataRows.some((row) => row.some((cell) => /^[+-]?\d+,\d+$/.test(cell)));
+  return { hasBom, delimiter, decimalComma, hasHeader, headers, firstRows: dataRows, ...(separator ? { separatorLine: true } : {}) };
+}
+
+/**
+ * The delimiter is the candidate that splits the first line (the header) into more than one cell
+ * and most of the next lines into as many; a delimiter at the end of a line (an empty last cell)
+ * does not count. Ties go to the candidate that splits into more cells. A file of decimal commas
+ * and semicolons is so read as semicolons: its header holds no comma.
+ */
+function detectDelimiter(lines: string[]): Delimiter {
+  const candidates: Delimiter[] = ["\t", ";", "|", ","];
+  let best: { delimiter: Delimiter; share: number; cells: number } | null = null;
+  for (const candidate of candidates) {
+    const counts = lines.map((line) => countOutsideQuotes(line.trimEnd().endsWith(candidate) && candidate !== "\t" ? line.trimEnd().slice(0, -1) : line, candidate));
+    const headerCount = counts[0] ?? 0;
+    if (headerCount === 0) continue;
+    const rest = counts.slice(1);
+    const share = rest.length === 0 ? 1 : rest.filter((count) => count === headerCount).length / rest.length;
+    if (share < 0.6) continue;
+    if (!best || share > best.share + 1e-9 || (Math.abs(share - best.share) < 1e-9 && headerCount > best.cells)) best = { delimiter: candidate, share, cells: headerCount };
+  }
+  return best?.delimiter ?? ",";
 }

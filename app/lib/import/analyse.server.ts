@@ -5,8 +5,9 @@ import { createCrs } from "../../../shared/crs";
 import { guessColumns, type ColumnMappingChoice } from "../../../shared/soundings/column-guess";
 import { createSoundingCsvParser, type ParsedSoundings } from "../../../shared/soundings/parse-csv";
 import { prepareSoundings, sameCrsCode, type Analysis, type EarlierSurveys, type PrepareOptions } from "../../../shared/soundings/prepare";
+import { describeNonText, notTextMessage } from "../../../shared/soundings/file-kind";
 import { sniffFileShape, type FileShape } from "../../../shared/soundings/sniff";
-import { ColumnMapping, Survey } from "../db.server";
+import { ColumnMapping, Project, Survey } from "../db.server";
 import { resolveCrsDefinition } from "../geo/epsg.server";
 import type { CommitChoices, ImportOptions } from "./import-options";
 import { previousBottomBins } from "./previous-bottom.server";
@@ -24,29 +25,46 @@ export interface AnalyseInput {
   options: ImportOptions;
   choices: CommitChoices;
   geometry: ProjectGeometry;
+  /** The name the file was uploaded under, for the messages. */
+  fileName?: string;
+  /** Now, for the checks against the future (tests set it); the clock by default. */
+  now?: number;
   onProgress?: (fraction: number) => void;
 }
 
 const HEAD_BYTES = 64 * 1024;
 
-async function readFileHead(path: string): Promise<string> {
+/** The first bytes of a staged file (64 KB at most). */
+export async function readFileHeadBytes(path: string, bytes = HEAD_BYTES): Promise<Uint8Array> {
   const handle = await open(path, "r");
   try {
-    const buffer = Buffer.alloc(HEAD_BYTES);
-    const { bytesRead } = await handle.read(buffer, 0, HEAD_BYTES, 0);
-    // Cut at the last line break so a multi-byte character is never split.
-    const text = buffer.subarray(0, bytesRead).toString("utf8");
-    return bytesRead < HEAD_BYTES ? text : text.slice(0, Math.max(text.lastIndexOf("\n") + 1, 1));
+    const buffer = Buffer.alloc(bytes);
+    const { bytesRead } = await handle.read(buffer, 0, bytes, 0);
+    return buffer.subarray(0, bytesRead);
   } finally {
     await handle.close();
   }
 }
 
+function headText(head: Uint8Array): string {
+  // Cut at the last line break so a multi-byte character is never split.
+  const text = Buffer.from(head).toString("utf8");
+  return head.length < HEAD_BYTES ? text : text.slice(0, Math.max(text.lastIndexOf("\n") + 1, 1));
+}
+
+/** Why a staged file cannot be a sounding file at all (an image, a workbook, a PDF…), or null when it is text. */
+export async function stagedFileNotText(path: string, fileName: string): Promise<string | null> {
+  const kind = describeNonText(await readFileHeadBytes(path, 8192));
+  return kind ? notTextMessage(fileName, kind) : null;
+}
+
 async function sniffStagedFile(path: string, projectId: number) {
-  const shape = sniffFileShape(await readFileHead(path));
+  const head = await readFileHeadBytes(path);
+  const kind = describeNonText(head);
+  const shape = sniffFileShape(kind ? "" : headText(head));
   const remembered = await ColumnMapping.findOne({ where: { projectId } });
   const guess = guessColumns(shape.headers, (remembered?.mapping as ColumnMappingChoice | undefined) ?? null);
-  return { shape, guess };
+  return { shape, guess, kind };
 }
 
 async function parseFile(path: string, shape: FileShape, columns: ColumnMappingChoice, onProgress?: (fraction: number) => void): Promise<ParsedSoundings> {
@@ -90,19 +108,28 @@ async function readEarlierSurveys(geometry: ProjectGeometry, sha256: string, sou
   });
   // The bins feed the depth-unit check, which a file without soundings never reaches.
   const origin = { x: geometry.settings.originX ?? 0, y: geometry.settings.originY ?? 0 };
-  const bottomBins = soundingCount > 0 ? await previousBottomBins(geometry.projectId, geometry.settings.cellSize, origin) : new Map<string, number>();
+  const bins = soundingCount > 0 ? await previousBottomBins(geometry.projectId, geometry.settings.cellSize, origin) : { bottom: new Map<string, number>(), refusal: new Map<string, number>() };
   return {
     sameFile: sameFile.map((survey) => ({ surveyId: survey.id, surveyedOn: survey.surveyedOn, kind: survey.kind, status: survey.status })),
-    bottomBins,
+    bottomBins: bins.bottom,
+    refusalBins: bins.refusal,
   };
 }
 
 export async function analyseStagedFile(input: AnalyseInput): Promise<Analysis> {
   const { options, geometry } = input;
-  const { shape, guess } = await sniffStagedFile(input.path, geometry.projectId);
+  const { shape, guess, kind } = await sniffStagedFile(input.path, geometry.projectId);
   const mapping: ColumnMappingChoice = { ...guess.mapping, ...(options.columns ?? {}) };
-  const parsed = await parseFile(input.path, shape, mapping, input.onProgress);
+  // A file that is not text is never parsed: its bytes are not rows.
+  const parsed = kind ? createSoundingCsvParser().end() : await parseFile(input.path, shape, mapping, input.onProgress);
   const earlier = await readEarlierSurveys(geometry, input.sha256, parsed.sourceRow.length);
-  const prepareOptions: PrepareOptions = { ...options, choices: input.choices, shape, mapping, lonLatHeaders: guess.lonLat, declaredCrs: declaredCrsOf(options.crs, geometry) };
+  const project = await Project.findByPk(geometry.projectId, { attributes: ["id", "timeZone"] });
+  const prepareOptions: PrepareOptions = {
+    ...options, choices: input.choices, shape, mapping, lonLatHeaders: guess.lonLat, declaredCrs: declaredCrsOf(options.crs, geometry),
+    rememberedFields: guess.remembered.filter((field) => options.columns?.[field] === undefined || options.columns[field] === guess.mapping[field]),
+    notText: kind ? notTextMessage(input.fileName ?? "the file", kind) : undefined,
+    projectTimeZone: project?.timeZone ?? "UTC",
+    now: input.now ?? Date.now(),
+  };
   return prepareSoundings(parsed, prepareOptions, geometry, earlier);
 }

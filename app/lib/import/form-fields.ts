@@ -72,6 +72,7 @@ export function commitChoicesFromFields(fields: Record<string, string>, excludeR
     outside: optionalText(fields.outside),
     acceptSameFile: flag(fields.acceptSameFile),
     acceptDepthUnit: flag(fields.acceptDepthUnit),
+    acceptBottomShift: flag(fields.acceptBottomShift),
   });
   if (!parsed.success) issuesToProblems(parsed.error, problems);
   return { choices: parsed.success && problems.length === 0 ? parsed.data : null, problems };

@@ -51,5 +51,7 @@ export const commitChoicesSchema = z.object({
   acceptSameFile: z.boolean().default(false),
   /** Import even though the depths look like they are in another unit than declared (checked against earlier surveys). */
   acceptDepthUnit: z.boolean().optional(),
+  /** Import even though the whole bottom moved against the earlier surveys by far more than dredging could (a wrong water-surface elevation or datum). */
+  acceptBottomShift: z.boolean().optional(),
 });
 export type CommitChoices = z.infer<typeof commitChoicesSchema>;

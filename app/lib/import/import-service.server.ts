@@ -54,6 +54,7 @@ export async function importSurveyFile(input: ImportInput): Promise<ImportOutcom
   const analysis = await analyseStagedFile({
     path: input.staged.path,
     sha256: input.staged.sha256,
+    fileName: input.staged.fileName,
     options: input.options,
     choices: input.choices,
     geometry,
@@ -143,7 +144,7 @@ export async function previewImportJob(job: ImportJob, options: ImportOptions, c
   if (!(await claimOpenJob(job, { state: "validating", stage: "reading the file", fraction: 0, options: options as unknown as Record<string, unknown> }))) throw new ImportJobClosed();
   try {
     const geometry = await loadProjectGeometry(job.projectId);
-    const analysis = await analyseStagedFile({ path: job.filePath, sha256: job.contentSha256, options, choices, geometry });
+    const analysis = await analyseStagedFile({ path: job.filePath, sha256: job.contentSha256, fileName: job.fileName, options, choices, geometry });
     await job.update({ state: "ready", stage: "preview", fraction: 0, error: null, preview: { ...analysis.preview, choices } as unknown as Record<string, unknown> });
     return analysis.preview;
   } catch (error) {

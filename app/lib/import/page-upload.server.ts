@@ -3,7 +3,8 @@ import type { UserView } from "~/lib/auth/users.server";
 import { commitChoicesSchema } from "./import-options";
 import { importOptionsFromFields, type FieldProblem } from "./form-fields";
 import { createImportJob, previewImportJob } from "./import-service.server";
-import { discardStagedFile, stageUpload, UploadRefused } from "./stage-upload.server";
+import { stagedFileNotText } from "./analyse.server";
+import { discardStagedFile, stageUpload, UploadRefused, type StagedUpload } from "./stage-upload.server";
 
 /** The upload page's work: stage the file, read the choices, open an import job and its first preview. */
 export const DEFAULT_TIME_ZONE = "America/New_York";
@@ -19,8 +20,10 @@ export async function receivePageUpload(request: Request, project: ProjectView, 
     throw error;
   }
   const { fields, file } = staged;
+  const refused = await refuseUnreadableFile(staged);
+  if (refused) return { ok: false, status: 422, errors: [{ field: "file", message: refused }] };
   if (!file) return { ok: false, status: 400, errors: [{ field: "file", message: "Choose a CSV file to upload." }] };
-  const { options, problems } = importOptionsFromFields(fields, { crs: project.crs, lengthUnit: project.lengthUnit, timeZone: DEFAULT_TIME_ZONE });
+  const { options, problems } = importOptionsFromFields(fields, { crs: project.crs, lengthUnit: project.lengthUnit, timeZone: project.timeZone || DEFAULT_TIME_ZONE });
   if (!options) {
     await discardStagedFile(file.path);
     return { ok: false, status: 400, errors: problems };
@@ -28,4 +31,19 @@ export async function receivePageUpload(request: Request, project: ProjectView, 
   const job = await createImportJob(project.id, user.id, file, options);
   await previewImportJob(job, options, commitChoicesSchema.parse({}));
   return { ok: true, location: `/projects/${project.id}/surveys/imports/${job.id}` };
+}
+
+/**
+ * A chosen file that cannot be a sounding file: empty (0 bytes), or not text (an image, a PDF, a
+ * workbook…). It is discarded here, before any job reads it; the message says what the file is.
+ * Null when the file (or the lack of one) is for the caller to judge.
+ */
+export async function refuseUnreadableFile(staged: StagedUpload): Promise<string | null> {
+  if (!staged.file && staged.emptyFileName) {
+    return `The file you chose, ${staged.emptyFileName}, is empty (0 bytes): there is nothing in it to check. Export the soundings again and choose the new file.`;
+  }
+  if (!staged.file) return null;
+  const notText = await stagedFileNotText(staged.file.path, staged.file.fileName);
+  if (notText) await discardStagedFile(staged.file.path);
+  return notText;
 }

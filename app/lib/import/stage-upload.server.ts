@@ -22,6 +22,8 @@ export interface StagedFile {
 export interface StagedUpload {
   fields: Record<string, string>;
   file: StagedFile | null;
+  /** The name of a file that was chosen but holds no bytes (it is not staged). */
+  emptyFileName?: string;
 }
 
 export class UploadRefused extends Error {
@@ -88,6 +90,7 @@ export async function stageUpload(request: Request, limit: UploadLimit = { maxBy
   const fields: Record<string, string> = {};
   let staging = null as Promise<StagedFile> | null; // set inside the "file" callback
   let overLimit = false as boolean;
+  let chosenName = false as boolean;
   parser.on("field", (name, value) => {
     fields[name] = value;
   });
@@ -96,6 +99,7 @@ export async function stageUpload(request: Request, limit: UploadLimit = { maxBy
       stream.resume();
       return;
     }
+    chosenName = Boolean(info.filename);
     stream.once("limit", () => {
       overLimit = true;
     });
@@ -105,6 +109,7 @@ export async function stageUpload(request: Request, limit: UploadLimit = { maxBy
   });
 
   let file: StagedFile | null = null;
+  let emptyFileName: string | undefined;
   try {
     await pipeline(Readable.fromWeb(request.body as import("node:stream/web").ReadableStream<Uint8Array>), parser);
     file = staging ? await staging : null;
@@ -116,9 +121,11 @@ export async function stageUpload(request: Request, limit: UploadLimit = { maxBy
   if (file && (overLimit || file.size === 0)) {
     await rm(file.path, { force: true });
     if (overLimit) throw tooLarge();
+    // A browser sends an empty part with no name when nothing was chosen; a chosen empty file keeps its name.
+    if (chosenName) emptyFileName = file.fileName;
     file = null;
   }
-  return { fields, file };
+  return { fields, file, ...(emptyFileName ? { emptyFileName } : {}) };
 }
 
 export async function discardStagedFile(path: string): Promise<void> {
