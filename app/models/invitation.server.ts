@@ -1,11 +1,13 @@
 import { Op, type Transaction } from "sequelize";
 import { Invitation, Membership, Project, User, getSequelize, type OutgoingMailStatus, type Role } from "~/lib/db.server";
 import { ConflictError } from "~/lib/errors";
+import { UniqueConstraintError } from "sequelize";
 import { mailStates, queueMail } from "~/lib/mail/outbox.server";
 import { hashPassword, verifyPassword } from "~/lib/auth/password.server";
 import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
-import { isMemberByEmail } from "./membership.server";
+import { isMemberByEmail, type MemberView } from "./membership.server";
+import { ROLE_LABELS } from "~/lib/auth/roles";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import { normaliseEmail, presentUser, type UserView } from "~/lib/auth/users.server";
 
@@ -73,6 +75,48 @@ export async function createInvitation(
     }, transaction);
   });
   return { token };
+}
+
+export type MemberAddition = { added: MemberView; invited?: never } | { added?: never; invited: { email: string; role: Role; expiresAt: string } };
+
+/**
+ * A manager adds someone by e-mail (the API's way): an existing account joins at once and is told
+ * by mail; anyone else gets an invitation. A member already, or a disabled account, is a
+ * ConflictError naming `email`.
+ */
+export async function addMemberByEmail(
+  project: ProjectView, actingUser: UserView, input: { email: string; role: Role }, origin: string, ip: string, now = new Date(),
+): Promise<MemberAddition> {
+  const email = normaliseEmail(input.email);
+  const user = await User.findOne({ where: { email } });
+  if (!user) {
+    await createInvitation(project, actingUser, { email, role: input.role }, origin, ip, now);
+    return { invited: { email, role: input.role, expiresAt: new Date(now.getTime() + INVITATION_LIFETIME_MS).toISOString() } };
+  }
+  if (user.disabledAt) throw new ConflictError({ field: "email", message: `The account ${email} is disabled; a site administrator must re-enable it before it can join.` });
+  const roleLabel = ROLE_LABELS[input.role].toLowerCase();
+  try {
+    const membership = await getSequelize().transaction(async (transaction) => {
+      const created = await Membership.create({ projectId: project.id, userId: user.id, role: input.role }, { transaction });
+      // Any open invitation for the address is settled by the membership.
+      await Invitation.update({ revokedAt: now }, { where: { projectId: project.id, email, acceptedAt: null, revokedAt: null }, transaction });
+      await recordAudit({ action: AUDIT_ACTIONS.memberAdded, projectId: project.id, userId: actingUser.id, ip, detail: { member: email, role: input.role } }, transaction);
+      await queueMail({
+        to: email,
+        subject: `You were added to ${project.name} on Firmsand`,
+        text: [
+          `${actingUser.name} added you to "${project.name}" on Firmsand as ${roleLabel}.`,
+          "",
+          `Sign in with your Firmsand account to open it: ${origin}/projects/${project.id}`,
+        ].join("\n"),
+      }, transaction);
+      return created;
+    });
+    return { added: { membershipId: membership.id, userId: user.id, name: user.name, email: user.email, role: membership.role } };
+  } catch (error) {
+    if (error instanceof UniqueConstraintError) throw new ConflictError({ field: "email", message: `${email} is already a member of this project.` });
+    throw error;
+  }
 }
 
 export async function revokeInvitation(project: ProjectView, actingUser: UserView, invitationId: number, ip: string): Promise<boolean> {

@@ -90,6 +90,8 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/finds/:findId/photos/:photoId", "/api/projects/{project}/finds/999999999/photos/999999999", "404 404 404 404 404 403 404 404 401"),
   row("GET", "api/projects/:projectId/holds", "/api/projects/{project}/holds", "200 200 200 200 200 403 200 200 401"),
   row("POST", "api/projects/:projectId/holds/:holdId/lift", "/api/projects/{project}/holds/999999999/lift", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/members", "/api/projects/{project}/members", "200 403 403 403 403 403 403 200 401"),
+  row("POST", "api/projects/:projectId/members", "/api/projects/{project}/members", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/pay-periods", "/api/projects/{project}/pay-periods", "200 200 200 403 403 403 200 200 401"),
   row("POST", "api/projects/:projectId/pay-periods", "/api/projects/{project}/pay-periods", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/progress", "/api/projects/{project}/progress", "200 200 200 200 200 200 200 200 401"),

@@ -6,7 +6,7 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulSite, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
+import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Invitation, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulSite, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
 import { listObjectKeys } from "~/lib/storage/storage.server";
 import { logFind } from "~/models/finds.server";
 import { getCellsPayload } from "~/models/cells.server";
@@ -62,7 +62,7 @@ const base = () => `/api/projects/${site.project.id}`;
 // staging directory; projects → Project, Zone, Membership, AuditEvent; a project's settings →
 // Project, Zone, CellResult, SurveySnapshot, AuditEvent; an account (the site admin) → User,
 // SignInSession, AuditEvent; dewatering shifts, tubes and fills → DewateringShift, GeotextileTube,
-// TubeFill, AuditEvent; a tube's status → GeotextileTube, AuditEvent; hauls → Haul, AuditEvent; haul sites → HaulSite, AuditEvent; sediment samples → SedimentSample, AuditEvent;
+// TubeFill, AuditEvent; a tube's status → GeotextileTube, AuditEvent; hauls → Haul, AuditEvent; haul sites → HaulSite, AuditEvent; members → Membership, Invitation, OutgoingMail, AuditEvent; sediment samples → SedimentSample, AuditEvent;
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
 // TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
@@ -82,6 +82,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/days/:date/amendments", method: "POST", url: () => `${base()}/days/2030-01-02/amendments`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/dives", method: "POST", url: () => `${base()}/dives`, params: projectParams },
   { route: "api/projects/:projectId/haul-sites", method: "POST", url: () => `${base()}/haul-sites`, params: projectParams },
+  { route: "api/projects/:projectId/members", method: "POST", url: () => `${base()}/members`, params: projectParams },
   { route: "api/projects/:projectId/hauls", method: "POST", url: () => `${base()}/hauls`, params: projectParams },
   { route: "api/projects/:projectId/sediment-samples", method: "POST", url: () => `${base()}/sediment-samples`, params: projectParams },
   { route: "api/projects/:projectId/finds", method: "POST", url: () => `${base()}/finds`, params: projectParams },
@@ -230,6 +231,7 @@ async function snapshot() {
     projectRow: JSON.stringify((await Project.findByPk(projectId, { raw: true }))!),
     zones: await Zone.count(),
     memberships: await Membership.count(),
+    invitations: await Invitation.count(),
     account: JSON.stringify((await User.findByPk(accountId, { raw: true }))!),
     accountSessions: await SignInSession.count({ where: { userId: accountId, endedAt: null } }),
     stagedFiles: readdirSync(stagingDirectory(), { withFileTypes: true }).length,

@@ -10,6 +10,7 @@ export const AUDIT_ACTIONS = {
   invite: "invite",
   inviteRevoked: "invite-revoked",
   inviteAccepted: "invite-accepted",
+  memberAdded: "member-added",
   roleChanged: "role-changed",
   memberRemoved: "member-removed",
   passwordResetRequested: "password-reset-requested",
