@@ -368,6 +368,16 @@ export async function changeTubeStatus(project: ProjectView, user: UserView, tub
   return findTube(project, tubeId);
 }
 
+/** The local dates on which a dewatering shift was logged (work was active on shore). */
+export async function loggedShiftDates(projectId: number): Promise<string[]> {
+  const rows = await DewateringShift.findAll({
+    where: { projectId },
+    attributes: [[getSequelize().fn("DISTINCT", getSequelize().col("shiftDate")), "shiftDate"]],
+    raw: true,
+  });
+  return rows.map((row) => String((row as unknown as { shiftDate: string }).shiftDate).slice(0, 10));
+}
+
 /** Dry solids pumped according to the shift logs, kg. */
 export async function pumpedDrySolidsKg(project: ProjectView): Promise<number> {
   const total = await DewateringShift.sum("drySolidsKg", { where: { projectId: project.id } });

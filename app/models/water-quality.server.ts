@@ -13,6 +13,7 @@ import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { queueMail } from "~/lib/mail/outbox.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import { loggedShiftDates } from "./dewatering.server";
 import { loggedDiveDates } from "./dives.server";
 
 /**
@@ -562,9 +563,15 @@ export interface ComplianceView {
   settings: WaterQualitySettingsView;
 }
 
-/** Per station, its readings and verdicts; the sampling intervals missed on days work was logged. */
+/**
+ * Per station, its readings and verdicts; the sampling intervals missed on days work was active:
+ * a dive or a dewatering shift was logged that day (the pumps return water without a dive too).
+ */
 export async function complianceSummary(project: ProjectView, query: z.infer<typeof readingQuerySchema> = {}): Promise<ComplianceView> {
-  const [stations, readings, rules, settings, workDays] = await Promise.all([listStations(project), listReadings(project, { from: query.from, to: query.to }), listRules(project), getWaterQualitySettings(project), loggedDiveDates(project.id)]);
+  const [stations, readings, rules, settings, diveDays, shiftDays] = await Promise.all([
+    listStations(project), listReadings(project, { from: query.from, to: query.to }), listRules(project), getWaterQualitySettings(project), loggedDiveDates(project.id), loggedShiftDates(project.id),
+  ]);
+  const workDays = [...new Set([...diveDays, ...shiftDays])];
   const inRange = workDays.filter((day) => (!query.from || day >= query.from) && (!query.to || day <= query.to));
   const complianceTimes = readings.filter((reading) => reading.stationKind === "compliance").map((reading) => Date.parse(reading.takenAt));
   const missed = missedIntervals(inRange, complianceTimes, { intervalMinutes: settings.samplingIntervalMinutes, workdayStartMinutes: minutesOfClock(settings.workdayStart), workdayEndMinutes: minutesOfClock(settings.workdayEnd) }, project.timeZone);

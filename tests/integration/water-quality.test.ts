@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
-import { MonitoringStation, Project, StopWorkEvent, TurbidityRuleRecord, WaterQualityReading, WildlifeSighting, WildlifeStandDown, type Role } from "~/lib/db.server";
+import { DewateringShift, MonitoringStation, Project, StopWorkEvent, TurbidityRuleRecord, WaterQualityReading, WildlifeSighting, WildlifeStandDown, type Role } from "~/lib/db.server";
 import { listMailboxMessages } from "~/lib/mail/mailbox.server";
 import { deliverDue } from "~/lib/mail/outbox.server";
 import { action as stationsAction, loader as stationsLoader } from "~/routes/api.projects.$projectId.water-quality.stations";
@@ -10,6 +10,8 @@ import { loader as stopWorkLoader } from "~/routes/api.projects.$projectId.stop-
 import { action as resumeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.resume";
 import { action as noticeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.notification";
 import { action as sightingsAction } from "~/routes/api.projects.$projectId.wildlife.sightings";
+import { presentProject } from "~/lib/auth/project-view.server";
+import { complianceSummary } from "~/models/water-quality.server";
 import { addMember, makeProject, makeUser, requestAs } from "./helpers";
 
 afterAll(closeSequelize);
@@ -147,6 +149,21 @@ describe("readings, the exceedance and the stop-work event", () => {
     const again = await (await postReading("dewatering", body)).json();
     expect(again.id).toBe(first.id);
     expect(await WaterQualityReading.count({ where: { projectId, idempotencyKey: "phone-42-0007" } })).toBe(1);
+  });
+
+  it("counts a day with only a dewatering shift as active: its unsampled intervals show as missed", async () => {
+    // 2026-11-20: no dive, no reading, one shift logged (the pumps return water without divers).
+    const day = "2026-11-20";
+    const project = presentProject((await Project.findByPk(projectId))!);
+    expect((await complianceSummary(project, { from: day, to: day })).missed).toEqual([]);
+    await DewateringShift.create({
+      projectId, shiftDate: day, startAt: "07:00", endAt: "15:00", pumpHours: 8, slurryFlowValue: 100, slurryFlowUnit: "m3/h",
+      totaliserStart: null, totaliserEnd: null, totaliserUnit: null, solidsByWeight: 0.1, slurrySpecificGravity: null, solidsSpecificGravity: 2.5,
+      polymerProduct: "P-1", polymerLot: null, doseMgPerL: 10, stockPercent: 0.5, drySolidsKg: 1000, neatPolymerKg: 1, notes: "", idempotencyKey: null,
+    });
+    const missed = (await complianceSummary(project, { from: day, to: day })).missed;
+    expect(missed.length).toBeGreaterThan(0);
+    expect(missed.every((gap) => gap.from.startsWith(day) || gap.from.startsWith("2026-11-21"))).toBe(true);
   });
 
   it("answers 422 naming the field, storing nothing, and refuses roles that do not take readings", async () => {
