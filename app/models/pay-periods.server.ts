@@ -8,6 +8,7 @@ import type { UserView } from "~/lib/auth/users.server";
 import { PayPeriodReport, Survey, getSequelize, type PayPeriodSnapshot } from "~/lib/db.server";
 import { getEngineState } from "~/lib/engine/engine-state.server";
 import { computePeriodFigures, type PeriodFigures } from "~/lib/engine/period-figures";
+import { monthName, monthPeriod, monthsWithPeriods } from "../../shared/volumes/named-period";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { NotFoundError, ValidationError } from "~/lib/errors";
 
@@ -45,6 +46,10 @@ export interface PayPeriodView {
   to: PeriodSurvey;
   /** From the baseline to the latest survey in force: the project's figures as they stand. */
   whole: boolean;
+  /** A named period's month ("2026-10") and its name ("October 2026"); null for a period given by its surveys. */
+  month: { key: string; name: string } | null;
+  /** The months that have a period of their own, newest first (for the month chooser). */
+  months: Array<{ key: string; name: string }>;
   volumeLabel: string;
   lengthLabel: string;
   settings: PeriodSettings;
@@ -58,10 +63,12 @@ export interface PayPeriodView {
 export interface PeriodQuery {
   from?: string | null;
   to?: string | null;
+  /** A named period: a calendar month, "YYYY-MM" (shared/volumes/named-period.ts); not with from or to. */
+  month?: string | null;
 }
 
-/** `?from=&to=` read as text: the model names a bad id (422), so a malformed id and an unknown one read alike. */
-export const periodQuerySchema = z.object({ from: z.string().optional(), to: z.string().optional() });
+/** `?from=&to=` or `?month=` read as text: the model names a bad id or month (422), so a malformed value and an unknown one read alike. */
+export const periodQuerySchema = z.object({ from: z.string().optional(), to: z.string().optional(), month: z.string().optional() });
 
 function positionOf(surveys: readonly PeriodSurvey[], raw: string, field: "from" | "to"): number {
   const id = /^\d{1,10}$/.test(raw) ? Number(raw) : Number.NaN;
@@ -131,8 +138,15 @@ export async function loadPayPeriod(project: ProjectView, query: PeriodQuery = {
     const row = byId.get(survey.id);
     return { id: survey.id, kind: survey.kind, surveyedOn: survey.surveyedOn, datum: row?.datum ?? "", fileName: row?.fileName ?? "", contentSha256: row?.contentSha256 ?? "", ...surveyTvu(row?.qa ?? {}, project.lengthUnit) };
   });
-  const from = query.from ? positionOf(surveys, query.from, "from") : 0;
-  const to = query.to ? positionOf(surveys, query.to, "to") : surveys.length - 1;
+  let from = query.from ? positionOf(surveys, query.from, "from") : 0;
+  let to = query.to ? positionOf(surveys, query.to, "to") : surveys.length - 1;
+  const month = query.month ?? null;
+  if (month !== null) {
+    if (query.from || query.to) throw new ValidationError({ field: "month", value: month, message: "names the period by itself: give either month or from and to, not both" });
+    const named = monthPeriod(surveys, month);
+    if (named.error !== undefined) throw new ValidationError({ field: "month", value: month, message: named.error });
+    ({ from, to } = named);
+  }
   if (!(from < to)) {
     if (surveys.length < 2) throw new ValidationError({ field: "to", message: "there is only the baseline so far: a period needs a later survey" });
     throw new ValidationError({ field: "to", value: query.to ?? String(surveys[to].id), message: `must be a survey in force after the one named in from (survey ${surveys[from].id} of ${surveys[from].surveyedOn})` });
@@ -148,6 +162,8 @@ export async function loadPayPeriod(project: ProjectView, query: PeriodQuery = {
   });
   return {
     surveys, from: surveys[from], to: surveys[to], whole: from === 0 && to === surveys.length - 1,
+    month: month === null ? null : { key: month, name: monthName(month) },
+    months: monthsWithPeriods(surveys).map((key) => ({ key, name: monthName(key) })),
     volumeLabel, lengthLabel, settings, method: periodMethod(project, settings, lengthLabel, volumeLabel),
     uncertainty: uncertaintyWords(surveys.slice(0, to + 1), figures.total.biasVolumePerUnit, lengthLabel, volumeLabel), figures,
   };

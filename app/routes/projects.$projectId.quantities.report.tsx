@@ -28,7 +28,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       if (!id.success) throw new NotFoundError("There is no such signed period in this project.");
       signed = await getSignedPeriod(project, id.data);
     }
-    view = await loadQuantities(project, signed ? {} : { from: search.get("from"), to: search.get("to") });
+    view = await loadQuantities(project, signed ? {} : { from: search.get("from"), to: search.get("to"), month: search.get("month") });
   } catch (error) {
     if (error instanceof ValidationError) throw data(error.details.map((detail) => `${detail.field ?? ""} ${detail.message}`.trim()).join(" "), { status: 422 });
     if (error instanceof NotFoundError) throw data(error.message, { status: 404 });

@@ -23,7 +23,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId, "quantities.read");
   const { project } = access;
   const search = new URL(request.url).searchParams;
-  const asked = { from: search.get("from"), to: search.get("to") };
+  const asked = { from: search.get("from"), to: search.get("to"), month: search.get("month") };
   let periodError: string | null = null;
   let view;
   try {
@@ -136,7 +136,19 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
               </label>
               <button type="submit" className="rounded border border-line bg-panel px-4 py-2 font-medium hover:bg-paper focus-visible:outline-2 focus-visible:outline-lagoon">Show period</button>
             </Form>
-            <p className="mt-3 text-sm">
+            {period.months.length > 0 ? (
+              <Form method="get" className="mt-3 flex flex-wrap items-end gap-3">
+                <label className="block text-sm font-medium">Or a month
+                  <select name="month" defaultValue={period.month?.key ?? period.months[0]!.key} className={selectClass}>
+                    {period.months.map((month) => <option key={month.key} value={month.key}>{month.name}</option>)}
+                  </select>
+                </label>
+                <button type="submit" className="rounded border border-line bg-panel px-4 py-2 font-medium hover:bg-paper focus-visible:outline-2 focus-visible:outline-lagoon">Show month</button>
+                <p className="basis-full text-xs text-muted">A month runs from the survey that closed the month before to the month&apos;s last survey in force.</p>
+              </Form>
+            ) : null}
+            <p className="mt-3 text-sm" data-testid="period-ends">
+              {period.month ? <strong>{period.month.name}: </strong> : null}
               <span className="figures">{period.from.surveyedOn} → {period.to.surveyedOn}</span>
               {period.whole ? " · baseline to latest: the figures as they stand today" : ""}
             </p>

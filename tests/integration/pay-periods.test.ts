@@ -187,6 +187,36 @@ describe("bad period ends are refused by name", () => {
   });
 });
 
+describe("a named period: a calendar month", () => {
+  it("?month= runs from the survey that closed the month before to the month's last survey, with the month named", async () => {
+    // The demo's surveys in force by date; October's period is computed by hand from them: the last
+    // survey before 1 October, to the last survey on or before 31 October.
+    const dates = whole.surveys.map((survey) => survey.surveyedOn);
+    const month = dates[dates.length - 1]!.slice(0, 7);
+    const first = `${month}-01`;
+    const fromIndex = Math.max(0, dates.filter((date) => date < first).length - 1);
+    const toIndex = dates.length - 1;
+    const response = (await quantitiesApi.loader(await apiArgs(`/api/projects/${project.id}/quantities?month=${month}`))) as Response;
+    expect(response.status).toBe(200);
+    const body = await response.json();
+    expect(body.from.id).toBe(whole.surveys[fromIndex]!.id);
+    expect(body.to.id).toBe(whole.surveys[toIndex]!.id);
+    expect(body.month).toEqual({ key: month, name: expect.stringContaining(month.slice(0, 4)) });
+    expect(body.months.map((entry: { key: string }) => entry.key)).toContain(month);
+    // The same figures as the period asked for by its surveys.
+    const bySurveys = await loadPayPeriod(project, { from: String(whole.surveys[fromIndex]!.id), to: String(whole.surveys[toIndex]!.id) });
+    expect(body.total.removedVolume).toBeCloseTo(bySurveys!.figures.total.removedVolume, 9);
+  });
+
+  it("a month with no survey of its own, a malformed month, or a month with from/to → 422 naming month", async () => {
+    for (const query of ["month=2099-01", "month=2026-13", `month=2026-10&from=${whole.surveys[0]!.id}`]) {
+      const response = (await quantitiesApi.loader(await apiArgs(`/api/projects/${project.id}/quantities?${query}`))) as Response;
+      expect(response.status, query).toBe(422);
+      expect((await response.json()).errors[0].field, query).toBe("month");
+    }
+  });
+});
+
 describe("signed periods", () => {
   it("the manager signs a period; it is stored as issued and audit-logged; a later recompute shows beside it as a difference", async () => {
     const [from, to] = [whole.surveys[1], whole.surveys[4]];
