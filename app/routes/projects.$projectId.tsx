@@ -43,6 +43,7 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
         <NavLink end to={base} className={linkClass}>Overview</NavLink>
         <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
+        <NavLink to={`${base}/plans`} className={linkClass}>Dive plans</NavLink>
         <NavLink to={`${base}/dewatering`} className={linkClass}>Dewatering</NavLink>
         <NavLink to={`${base}/water-quality`} className={linkClass}>Water quality</NavLink>
         {loaderData.canReadReports ? <NavLink to={`${base}/days`} className={linkClass}>Daily reports</NavLink> : null}
