@@ -37,10 +37,10 @@ function viewRing(cells: readonly LonLatRing[]): LonLatRing {
   const xScale = Math.cos((((minLat + maxLat) / 2) * Math.PI) / 180);
   let halfX = ((maxLon - minLon) * xScale) / 2;
   let halfY = (maxLat - minLat) / 2;
-  // At least four cells' worth of margin: the cell ring's own span is one cell.
+  // At least a cell and a half of margin each side: the cell ring's own span is one cell.
   const cellSpan = Math.max(...cells.map((ring) => { const b = boundsOf([ring]); return Math.max((b.maxLon - b.minLon) * xScale, b.maxLat - b.minLat); }));
-  halfX = Math.max(halfX * 1.3, halfX + 2 * cellSpan);
-  halfY = Math.max(halfY * 1.3, halfY + 2 * cellSpan);
+  halfX = Math.max(halfX * 1.3, halfX + 1.5 * cellSpan);
+  halfY = Math.max(halfY * 1.3, halfY + 1.5 * cellSpan);
   if (halfY < halfX / 2) halfY = halfX / 2;
   if (halfX < halfY / 2) halfX = halfY / 2;
   const midLon = (minLon + maxLon) / 2;
@@ -59,7 +59,8 @@ export function roundScaleLength(span: number): number {
 
 export function DaySheetMap({ map, date, lengthLabel }: { map: DaySheetMapData; date: string; lengthLabel: string }) {
   if (map.cells.length === 0) return null;
-  const width = 640;
+  // About the size it is drawn at, so the labels' user units are close to pixels (12 px at least).
+  const width = 300;
   const view = viewRing(map.cells.map((cell) => cell.ring));
   const frame = fitOutlineFrame([view], width, 0);
   const bounds = boundsOf([view]);
@@ -69,20 +70,20 @@ export function DaySheetMap({ map, date, lengthLabel }: { map: DaySheetMapData; 
   const across = inFeet ? metresAcross / METRES_PER_FOOT : metresAcross;
   const scaleLength = roundScaleLength(across);
   const scalePx = (scaleLength / across) * width;
-  const inset = fitOutlineFrame(map.workLimit.flat(), 150, 6);
+  const inset = fitOutlineFrame(map.workLimit.flat(), 84, 4);
   const teams = [...new Map(map.cells.map((cell) => [cell.teamIndex, cell.team])).entries()].sort((a, b) => a[0] - b[0]);
   const clipId = `day-sheet-clip-${date}`;
   return (
     <figure className="day-sheet-map space-y-1" data-testid="day-sheet-map">
-      <svg viewBox={`0 0 ${frame.width} ${frame.height}`} role="img" aria-labelledby={`${clipId}-title`} className="h-auto w-full max-w-2xl rounded border border-line bg-white">
+      <svg viewBox={`0 0 ${frame.width} ${frame.height}`} role="img" aria-labelledby={`${clipId}-title`} className="h-auto w-full max-w-md rounded border border-line bg-white">
         <title id={`${clipId}-title`}>{`The day's cells on ${date}: ${map.cells.map((cell) => `${cell.label} (${cell.team})`).join(", ")}`}</title>
         <defs>
           <clipPath id={clipId}><rect x={0} y={0} width={frame.width} height={frame.height} /></clipPath>
         </defs>
         <g clipPath={`url(#${clipId})`}>
-          <rect x={0} y={0} width={frame.width} height={frame.height} fill="#f3f7f8" />
+          <rect x={0} y={0} width={frame.width} height={frame.height} fill="#f1f0ec" />
           {map.workLimit.map((polygon, index) => (
-            <path key={index} d={ringsPath(frame, polygon)} fill="#ffffff" stroke="#0d4650" strokeWidth={2.5} fillRule="evenodd" />
+            <path key={index} d={ringsPath(frame, polygon)} fill="#e3f0f3" stroke="#0d4650" strokeWidth={2.5} fillRule="evenodd" />
           ))}
           {map.cells.map((cell) => {
             const path = ringsPath(frame, [cell.ring]);
@@ -90,7 +91,7 @@ export function DaySheetMap({ map, date, lengthLabel }: { map: DaySheetMapData; 
             const cx = points.reduce((sum, point) => sum + point[0], 0) / points.length;
             const cy = points.reduce((sum, point) => sum + point[1], 0) / points.length;
             const side = Math.hypot(points[1][0] - points[0][0], points[1][1] - points[0][1]);
-            const fontSize = Math.max(9, Math.min(16, side / 3));
+            const fontSize = Math.max(12, Math.min(18, side / 3));
             return (
               <g key={cell.label} data-cell={cell.label}>
                 <path d={path} fill={TEAM_FILLS[cell.teamIndex % TEAM_FILLS.length]} stroke="#1f2a30" strokeWidth={1.5} strokeDasharray={TEAM_DASHES[cell.teamIndex % TEAM_DASHES.length]} />
@@ -100,32 +101,32 @@ export function DaySheetMap({ map, date, lengthLabel }: { map: DaySheetMapData; 
           })}
         </g>
         {/* North arrow: the frame is drawn north-up. */}
-        <g transform={`translate(${frame.width - 28}, 14)`} aria-hidden="true">
+        <g transform={`translate(${frame.width - 28}, 10)`} aria-hidden="true">
           <path d="M0 22 L8 0 L16 22 L8 16 Z" fill="#1f2a30" />
-          <text x={8} y={36} textAnchor="middle" fontSize={13} fontWeight={700} fill="#1f2a30">N</text>
+          <text x={8} y={38} textAnchor="middle" fontSize={14} fontWeight={700} fill="#1f2a30">N</text>
         </g>
-        <g transform={`translate(12, ${frame.height - 16})`} aria-hidden="true">
-          <rect x={-4} y={-18} width={scalePx + 60} height={28} fill="#ffffff" opacity={0.85} />
+        <g transform={`translate(10, ${frame.height - 12})`} aria-hidden="true">
+          <rect x={-4} y={-16} width={scalePx + 64} height={24} fill="#ffffff" opacity={0.85} />
           <path d={`M0 0 H${scalePx} M0 -6 V4 M${scalePx} -6 V4`} stroke="#1f2a30" strokeWidth={2} fill="none" />
-          <text x={scalePx + 6} y={4} fontSize={13} fill="#1f2a30">{`${scaleLength.toLocaleString("en-US")} ${lengthLabel}`}</text>
+          <text x={scalePx + 5} y={4} fontSize={12} fill="#1f2a30">{`${scaleLength.toLocaleString("en-US")} ${lengthLabel}`}</text>
         </g>
         {/* Locator: the whole work limit with the view marked. */}
         <g transform={`translate(${frame.width - inset.width - 8}, ${frame.height - inset.height - 8})`} aria-hidden="true">
           <rect x={0} y={0} width={inset.width} height={inset.height} fill="#ffffff" stroke="#9aa5a8" />
           {map.workLimit.map((polygon, index) => (
-            <path key={index} d={ringsPath(inset, polygon)} fill="#dfeef1" stroke="#0d4650" strokeWidth={1.2} fillRule="evenodd" />
+            <path key={index} d={ringsPath(inset, polygon)} fill="#e3f0f3" stroke="#0d4650" strokeWidth={1.2} fillRule="evenodd" />
           ))}
           <path d={ringsPath(inset, [view])} fill="none" stroke="#a3242a" strokeWidth={2} />
         </g>
       </svg>
-      <figcaption className="flex flex-wrap gap-3 text-xs">
+      <figcaption className="flex flex-wrap items-center gap-x-3 text-xs">
         {teams.map(([index, name]) => (
           <span key={index} className="flex items-center gap-1">
             <svg width="14" height="14" aria-hidden="true"><rect x="1" y="1" width="12" height="12" fill={TEAM_FILLS[index % TEAM_FILLS.length]} stroke="#1f2a30" strokeDasharray={TEAM_DASHES[index % TEAM_DASHES.length]} /></svg>
             {name}
           </span>
         ))}
-        <span className="text-muted">Heavy line: work limit. Inset: the whole work limit, the view outlined in red. Not for navigation.</span>
+        <span className="text-muted">Blue: inside the work limit. Inset: the whole limit, this view in red. Not for navigation.</span>
       </figcaption>
     </figure>
   );
@@ -145,17 +146,17 @@ export function EmergencyBlock({ info, missing, settingsHref }: { info: Emergenc
     <section aria-labelledby="emergency-title" className="emergency-block rounded border-2 border-danger bg-white p-2 text-sm" data-testid="emergency-block">
       <h3 id="emergency-title" className="font-semibold text-danger">Emergency</h3>
       {none ? (
-        <p className="font-semibold text-danger" data-testid="emergency-missing">
-          No emergency information set — add it under Settings before diving.
+        <p className="font-semibold text-danger">
+          <span data-testid="emergency-missing">No emergency information set — add it under Settings before diving.</span>
           {settingsHref ? <> <Link to={settingsHref} className="no-print underline">Open Settings</Link></> : null}
         </p>
       ) : (
         <>
-          <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-0.5">
+          <dl className="grid grid-cols-1 gap-x-3 sm:grid-cols-[auto_1fr] sm:gap-y-0.5 print:grid-cols-[auto_1fr]">
             {EMERGENCY_ROWS.map((row) => (
               <div key={row.label} className="contents">
                 <dt className="font-medium">{row.label}</dt>
-                <dd className={row.value(info!) ? "" : "text-danger"}>{row.value(info!) || "not set"}</dd>
+                <dd className={`mb-1 sm:mb-0 print:mb-0 ${row.value(info!) ? "" : "text-danger"}`}>{row.value(info!) || "not set"}</dd>
               </div>
             ))}
           </dl>
@@ -175,7 +176,7 @@ export function EmergencyBlock({ info, missing, settingsHref }: { info: Emergenc
 export function SignOffLines({ teamName, divers }: { teamName: string; divers: Array<{ name: string; visitor: boolean }> }) {
   const lines = [{ role: "Dive supervisor", name: "" }, ...divers.map((diver) => ({ role: diver.visitor ? "Diver (visitor)" : "Diver", name: diver.name })), { role: "Diver", name: "" }];
   return (
-    <table className="sign-off w-full border-collapse text-sm" aria-label={`Sign-off for ${teamName}`} data-testid="sign-off">
+    <table className="sign-off w-full border-collapse font-sans text-sm" aria-label={`Sign-off for ${teamName}`} data-testid="sign-off">
       <caption className="text-left font-semibold">Sign-off · {teamName}: briefed on this plan, the caution and the emergency information</caption>
       <thead>
         <tr className="text-left"><th className="w-40 py-1 pr-2">Role</th><th className="pr-2">Name</th><th className="pr-2">Signature</th><th className="w-24">Time</th></tr>

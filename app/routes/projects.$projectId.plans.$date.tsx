@@ -101,12 +101,25 @@ const PRINT_CSS = `
   @page { size: letter landscape; margin: 10mm; }
   body > header, nav[aria-label="Project"], .no-print, [data-testid="stop-work-banner"] { display: none !important; }
   .print-only { display: block !important; }
-  body { background: #fff; font-size: 9pt; }
+  body { background: #fff; font-size: 9pt; min-height: 0 !important; }
   main, .plan-sheet { max-width: none !important; }
   .plan-sheet table, .plan-sheet figure, .emergency-block, .sign-off { page-break-inside: avoid; break-inside: avoid; }
-  .plan-sheet h2 { font-size: 12pt; }
+  h1:has(+ nav[aria-label="Project"]) { display: none !important; }
+  .plan-sheet :not(svg, svg *) { font-size: 8pt !important; line-height: 1.3 !important; }
+  .plan-sheet h2#plan-title { font-size: 11pt !important; }
+  .plan-sheet h3 { font-size: 9pt !important; }
+  .plan-sheet > * + * { margin-top: 2mm !important; }
+  .day-sheet-top > * + * { margin-top: 2mm !important; }
+  div:has(> .plan-sheet) { margin-top: 0 !important; }
+  div:has(> div > .plan-sheet) { padding-top: 0 !important; padding-bottom: 0 !important; }
+  .day-sheet-map svg { max-height: 46mm; width: auto; max-width: 100%; }
+  .sign-off tbody tr { height: 6mm; }
+  .plan-sheet section > * + * { margin-top: 1mm !important; }
+  [data-testid="plan-caution"] { padding: 1.5mm 2mm; }
+}
+@media print and (min-width: 600px) {
   .day-sheet-top { display: grid !important; grid-template-columns: 1fr 1fr; gap: 4mm; align-items: start; }
-  .day-sheet-map svg { max-height: 95mm; width: auto; max-width: 100%; }
+  .day-sheet-top > * + * { margin-top: 0 !important; }
 }`;
 
 function ndlText(cell: Route.ComponentProps["loaderData"]["plan"]["teams"][number]["cells"][number]): string {
@@ -275,15 +288,19 @@ function DiveForm({ teamId, teamName, members, cells, lengthLabel, result }: { t
       <h4 className="font-semibold">Log a dive for {teamName}</h4>
       <input type="hidden" name="team" value={teamId} />
       <div className="flex flex-wrap gap-3">
-        <label htmlFor={diverId}>Diver{" "}
+        <span className="flex items-center gap-1">
+          <label htmlFor={diverId}>Diver</label>
           <select id={diverId} name="diver" required value={diver} onChange={(event) => setDiver(event.target.value)} className={field} aria-invalid={result?.field === "diver" ? true : undefined}>
             <option value="" disabled>Choose from {teamName}</option>
             {members.map((member) => <option key={member.name} value={member.name}>{member.name} ({member.duty})</option>)}
             <option value={VISITOR}>Visitor, not on the roster…</option>
           </select>
-        </label>
+        </span>
         {diver === VISITOR ? (
-          <label htmlFor={visitorId}>Visitor's name <input id={visitorId} name="visitorName" required maxLength={120} autoFocus className={field} /></label>
+          <span className="flex items-center gap-1">
+            <label htmlFor={visitorId}>Visitor's name</label>
+            <input id={visitorId} name="visitorName" required maxLength={120} autoFocus className={field} aria-invalid={result?.field === "diver" ? true : undefined} />
+          </span>
         ) : null}
         <label>Left surface <input name="leftSurface" type="time" className={field} /></label>
         <label>Left bottom <input name="leftBottom" type="time" className={field} /></label>
