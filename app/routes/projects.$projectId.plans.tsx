@@ -33,6 +33,10 @@ const STATE_CLASS: Record<DayPlanState, string> = {
   "no-dives-logged": "border-caution text-caution",
 };
 
+function StateBadge({ state }: { state: DayPlanState }) {
+  return <span className={`whitespace-nowrap rounded border px-2 py-0.5 font-sans text-xs ${STATE_CLASS[state]}`}>{DAY_PLAN_STATE_LABELS[state]}</span>;
+}
+
 export default function DayPlans({ loaderData }: Route.ComponentProps) {
   const { plans, projectId, today, timeZone, page, pages, total } = loaderData;
   const base = `/projects/${projectId}/plans`;
@@ -67,21 +71,25 @@ export default function DayPlans({ loaderData }: Route.ComponentProps) {
           <table className="w-full border-collapse text-sm" aria-label="Day plans">
             <thead>
               <tr className="border-b border-line text-left">
-                <th scope="col" className="px-3 py-2">Date</th>
-                <th scope="col" className="px-3 py-2">Teams</th>
-                <th scope="col" className="px-3 py-2 text-right">Cells</th>
-                <th scope="col" className="px-3 py-2 text-right">Dives logged</th>
-                <th scope="col" className="px-3 py-2">State</th>
+                <th scope="col" className="px-2 py-2 font-sans sm:px-3">Date</th>
+                <th scope="col" className="px-2 py-2 font-sans sm:px-3">Teams</th>
+                <th scope="col" className="px-2 py-2 text-right font-sans sm:px-3">Cells</th>
+                <th scope="col" className="px-2 py-2 text-right font-sans sm:px-3">Dives logged</th>
+                <th scope="col" className="hidden px-3 py-2 font-sans sm:table-cell">State</th>
               </tr>
             </thead>
             <tbody>
               {plans.map((plan) => (
                 <tr key={plan.date} className="border-b border-line last:border-b-0" data-testid="plan-row">
-                  <td className="px-3 py-2"><Link to={`${base}/${plan.date}`} className="figures whitespace-nowrap text-lagoon underline">{plan.date}</Link></td>
-                  <td className="px-3 py-2">{plan.teams.join(", ")}</td>
-                  <td className="figures px-3 py-2 text-right">{plan.cells}</td>
-                  <td className="figures px-3 py-2 text-right">{plan.dives}</td>
-                  <td className="px-3 py-2"><span className={`whitespace-nowrap rounded border px-2 py-0.5 text-xs ${STATE_CLASS[plan.state]}`}>{DAY_PLAN_STATE_LABELS[plan.state]}</span></td>
+                  <td className="px-2 py-2 sm:px-3">
+                    <Link to={`${base}/${plan.date}`} className="figures whitespace-nowrap text-lagoon underline">{plan.date}</Link>
+                    {/* On a phone the state rides under the date rather than in a column off the screen. */}
+                    <span className="mt-1 block sm:hidden"><StateBadge state={plan.state} /></span>
+                  </td>
+                  <td className="px-2 py-2 font-sans sm:px-3">{plan.teams.join(", ")}</td>
+                  <td className="figures px-2 py-2 text-right sm:px-3">{plan.cells}</td>
+                  <td className="figures px-2 py-2 text-right sm:px-3">{plan.dives}</td>
+                  <td className="hidden px-3 py-2 sm:table-cell"><StateBadge state={plan.state} /></td>
                 </tr>
               ))}
             </tbody>
