@@ -162,7 +162,7 @@ export function EmergencyBlock({ info, missing, settingsHref }: { info: Emergenc
           </dl>
           {missing.length > 0 ? (
             <p className="mt-1 font-semibold text-danger" data-testid="emergency-incomplete">
-              Emergency information is incomplete: no {missing.join(", no ")} — add it under Settings before diving.
+              Emergency information is incomplete, missing {missing.join("; ")} — add it under Settings before diving.
             </p>
           ) : null}
         </>

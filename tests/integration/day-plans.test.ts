@@ -4,6 +4,8 @@ import { cellLabel } from "../../shared/grid/cell-grid";
 import { localDayOf } from "../../shared/local-time";
 import { Assignment, Dive, DiveTeam } from "~/lib/db.server";
 import { listDayPlans } from "~/models/day-plans.server";
+import { planSheetText, type DayPlanView } from "~/models/assignments.server";
+import { emergencyInfoSchema } from "../../shared/dive-plan/emergency-info";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import { makeProject } from "./helpers";
 
@@ -70,5 +72,25 @@ describe("listDayPlans", () => {
     expect(second.plans.map((plan) => plan.date)).toEqual([dayOffset(-7)]);
     expect([first.pages, second.pages]).toEqual([2, 2]); // 4 dates in pages of 3 (computed)
     expect((await listDayPlans(project, 5, 3)).plans).toEqual([]);
+  });
+});
+
+describe("the e-mailed plan sheet", () => {
+  const plan = (): DayPlanView => ({
+    date: "2026-11-10", lengthLabel: "ftUS", volumeLabel: "yd³", minTeamSize: 2, caution: "Information only.", source: "the table",
+    teams: [{ team: { id: 1, name: "Team Heron", station: "", hoses: ["Hose A"], members: [], belowMinimum: false }, cells: [], remainingVolume: 0 }],
+  });
+
+  it("carries the emergency information, naming what is missing", () => {
+    const emergency = emergencyInfoSchema.parse({ hospitalName: "Harbor General", hospitalPhone: "555-0142", emergencyNumber: "555-0100", siteAddress: "1 Spring Run Rd" });
+    const text = planSheetText(project, plan(), 0, "http://127.0.0.1/plan", emergency);
+    expect(text).toContain("EMERGENCY: services 555-0100");
+    expect(text).toContain("Nearest hospital: Harbor General, 555-0142");
+    expect(text).toContain("Nearest hyperbaric chamber: not set");
+    expect(text).toContain("Incomplete, missing the nearest hyperbaric chamber and its phone; the access point — add it under Settings before diving.");
+  });
+
+  it("says plainly when none is set", () => {
+    expect(planSheetText(project, plan(), 0, "http://127.0.0.1/plan", null)).toContain("EMERGENCY: No emergency information set — add it under Settings before diving.");
   });
 });
