@@ -132,12 +132,13 @@ export function DaySheetMap({ map, date, lengthLabel }: { map: DaySheetMapData; 
   );
 }
 
-const EMERGENCY_ROWS: Array<{ label: string; value: (info: EmergencyInfo) => string }> = [
-  { label: "Emergency services", value: (info) => info.emergencyNumber },
-  { label: "Nearest hospital", value: (info) => [info.hospitalName, info.hospitalPhone].filter(Boolean).join(" · ") },
-  { label: "Nearest hyperbaric chamber", value: (info) => [info.chamberName, info.chamberPhone].filter(Boolean).join(" · ") },
-  { label: "Site address", value: (info) => info.siteAddress },
-  { label: "Access point", value: (info) => info.accessPoint },
+/** Each row: words, then a phone number kept on one line. */
+const EMERGENCY_ROWS: Array<{ label: string; value: (info: EmergencyInfo) => { text: string; phone: string } }> = [
+  { label: "Emergency services", value: (info) => ({ text: "", phone: info.emergencyNumber }) },
+  { label: "Nearest hospital", value: (info) => ({ text: info.hospitalName, phone: info.hospitalPhone }) },
+  { label: "Nearest hyperbaric chamber", value: (info) => ({ text: info.chamberName, phone: info.chamberPhone }) },
+  { label: "Site address", value: (info) => ({ text: info.siteAddress, phone: "" }) },
+  { label: "Access point", value: (info) => ({ text: info.accessPoint, phone: "" }) },
 ];
 
 export function EmergencyBlock({ info, missing, settingsHref }: { info: EmergencyInfo | null; missing: string[]; settingsHref: string | null }) {
@@ -153,12 +154,17 @@ export function EmergencyBlock({ info, missing, settingsHref }: { info: Emergenc
       ) : (
         <>
           <dl className="grid grid-cols-1 gap-x-3 sm:grid-cols-[auto_1fr] sm:gap-y-0.5 print:grid-cols-[auto_1fr]">
-            {EMERGENCY_ROWS.map((row) => (
-              <div key={row.label} className="contents">
-                <dt className="font-medium">{row.label}</dt>
-                <dd className={`mb-1 sm:mb-0 print:mb-0 ${row.value(info!) ? "" : "text-danger"}`}>{row.value(info!) || "not set"}</dd>
-              </div>
-            ))}
+            {EMERGENCY_ROWS.map((row) => {
+              const { text, phone } = row.value(info!);
+              return (
+                <div key={row.label} className="contents">
+                  <dt className="font-medium">{row.label}</dt>
+                  <dd className={`mb-1 sm:mb-0 print:mb-0 ${text || phone ? "" : "text-danger"}`}>
+                    {text}{text && phone ? " · " : ""}{phone ? <span className="figures whitespace-nowrap font-semibold">{phone}</span> : null}{text || phone ? "" : "not set"}
+                  </dd>
+                </div>
+              );
+            })}
           </dl>
           {missing.length > 0 ? (
             <p className="mt-1 font-semibold text-danger" data-testid="emergency-incomplete">

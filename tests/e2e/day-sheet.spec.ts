@@ -163,6 +163,7 @@ test("the manager keeps the emergency information under Settings; without it the
   await section.getByRole("button", { name: "Save emergency information" }).click();
   await expect(section.getByText("give the hospital's phone number with its name")).toBeVisible();
   await expect(section.getByText(/write a phone number with its digits/)).toBeVisible();
+  await page.getByRole("region", { name: "Emergency information" }).screenshot({ path: join(SHOTS, "settings-emergency-refused.png") });
   // Cleared: every plan warns before diving.
   for (const label of ["Nearest hospital", "Hospital phone", "Nearest hyperbaric chamber", "Hyperbaric chamber phone", "Emergency services number", "Site address", "Access point"]) await section.getByLabel(label).fill("");
   await section.getByRole("button", { name: "Save emergency information" }).click();
