@@ -2,7 +2,7 @@ import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { request as playwrightRequest, type Page } from "@playwright/test";
 import { localDayOf } from "../../shared/local-time";
-import { PROJECT } from "../../sample-data/scenario";
+import { PROJECT, WORK_LIMIT } from "../../sample-data/scenario";
 import { DEMO_EMERGENCY } from "../../db/seeders/demo-scenario";
 import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test } from "./fixtures";
 
@@ -205,4 +205,21 @@ test("the plans list shows every day planned, newest first, linked from the proj
   await page.screenshot({ path: join(SHOTS, "plans-list-390.png"), fullPage: true });
   await demo.getByRole("link", { name: DEMO_DAY }).click();
   await expect(page.getByRole("heading", { name: new RegExp(`Dive plan · ${DEMO_DAY}`) })).toBeVisible();
+});
+
+test("a project without plans says how a plan is made", async ({ page, signIn, baseURL }) => {
+  await signIn("admin");
+  const created = await page.request.post("/api/projects", {
+    data: { name: `Plans empty ${Date.now()}`, crs: "EPSG:2237", lengthUnit: "us-ft", timeZone: PROJECT.timeZone, workLimit: WORK_LIMIT, grid: { cellSize: 20 } },
+    headers: { Origin: new URL(baseURL!).origin },
+  });
+  expect(created.status()).toBe(201);
+  const { id } = await created.json();
+  await page.goto(`/projects/${id}/plans`);
+  const empty = page.getByTestId("plans-empty");
+  await expect(empty).toContainText("No day plans yet.");
+  await expect(empty.getByRole("link", { name: "Go to the map" })).toHaveAttribute("href", `/projects/${id}/map`);
+  await expect(page.getByRole("table", { name: "Day plans" })).toHaveCount(0);
+  await page.setViewportSize({ width: 390, height: 844 });
+  await page.screenshot({ path: join(SHOTS, "plans-empty-390.png"), fullPage: true });
 });
