@@ -84,6 +84,7 @@ export default [
     route("holds", "routes/projects.$projectId.holds.tsx"),
     route("map", "routes/projects.$projectId.map.tsx"),
     route("members", "routes/projects.$projectId.members.tsx"),
+    route("plans", "routes/projects.$projectId.plans.tsx"),
     route("plans/:date", "routes/projects.$projectId.plans.$date.tsx"),
     route("quantities", "routes/projects.$projectId.quantities.tsx"),
     route("settings", "routes/projects.$projectId.settings.tsx"),

@@ -58,3 +58,11 @@ export function instantOfLocal(day: string, minutesAfterMidnight: number, timeZo
 }
 
 export { DAY_MS, MINUTE_MS };
+
+/**
+ * Whether local `day` (YYYY-MM-DD) lies after the local day of `instantMs` in `timeZone`: a record
+ * of work done (a dive) cannot be dated later than the project's today.
+ */
+export function isAfterLocalDay(day: string, instantMs: number, timeZone: string): boolean {
+  return day > localDayOf(instantMs, timeZone);
+}

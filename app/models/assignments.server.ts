@@ -4,7 +4,8 @@ import { cellIndex, cellLabel as cellLabelOf } from "../../shared/grid/cell-grid
 import { exceedsNoDecompressionLimit, noDecompressionLimit, NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE, type NoDecompressionLookup } from "../../shared/no-decompression";
 import { CELL_STATUSES } from "../../shared/cell-status";
 import { convertLength } from "../../shared/units";
-import { Assignment, DiveTeam, Project, getSequelize, type DiveTeamMember } from "~/lib/db.server";
+import { isEmergencyInfoEmpty, missingEmergencyItems, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
+import { Assignment, DiveTeam, getSequelize, Project, type DiveTeamMember } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { getProjectSurfaces } from "~/lib/engine/engine-state.server";
 import { queueMail } from "~/lib/mail/outbox.server";
@@ -303,13 +304,29 @@ function formatNoDecompression(info: NoDecompressionInfo | null): string {
   return `${lookup.tableDepthFsw} fsw row: ${lookup.limitMinutes} min${info.exceeds ? " (PLANNED BOTTOM TIME EXCEEDS IT)" : ""}`;
 }
 
+/** The emergency information as the e-mailed sheet carries it, or the plain warning when it is missing. */
+function emergencyLines(emergency: EmergencyInfo | null): string[] {
+  const missing = missingEmergencyItems(emergency);
+  if (!emergency || isEmergencyInfoEmpty(emergency)) return ["EMERGENCY: No emergency information set — add it under Settings before diving."];
+  const pair = (name: string, phone: string) => [name, phone].filter(Boolean).join(", ") || "not set";
+  return [
+    `EMERGENCY: services ${emergency.emergencyNumber || "not set"}`,
+    `  Nearest hospital: ${pair(emergency.hospitalName, emergency.hospitalPhone)}`,
+    `  Nearest hyperbaric chamber: ${pair(emergency.chamberName, emergency.chamberPhone)}`,
+    `  Site address: ${emergency.siteAddress || "not set"}`,
+    `  Access point: ${emergency.accessPoint || "not set"}`,
+    ...(missing.length > 0 ? [`  Incomplete, missing ${missing.join("; ")} — add it under Settings before diving.`] : []),
+  ];
+}
+
 /** The plan sheet as plain text, one team. */
-export function planSheetText(project: ProjectView, plan: DayPlanView, teamIndex: number, planUrl: string): string {
+export function planSheetText(project: ProjectView, plan: DayPlanView, teamIndex: number, planUrl: string, emergency: EmergencyInfo | null = null): string {
   const { team, cells } = plan.teams[teamIndex];
   const lines = [
     `${project.name}: dive plan for ${plan.date}, ${team.name}${team.station ? ` (${team.station})` : ""}`,
     "",
     `CAUTION: ${plan.caution}`,
+    ...emergencyLines(emergency),
     team.belowMinimum ? `FLAG: ${team.name} lists ${team.members.length} people; the project's minimum team size is ${plan.minTeamSize}.` : "",
     "",
     `Cell | zone | hose | working depth (${plan.lengthLabel}) | no-decompression figure | remaining thickness (${plan.lengthLabel}) | remaining (${plan.volumeLabel}) | notes`,
@@ -326,10 +343,11 @@ export function planSheetText(project: ProjectView, plan: DayPlanView, teamIndex
 /** E-mails each team's part of the day's plan to its members; returns the addresses written to. */
 export async function emailDayPlan(project: ProjectView, user: UserView, date: string, planUrl: string, ip: string | null = null): Promise<string[]> {
   const plan = await getDayPlan(project, date);
+  const emergency = (await Project.findByPk(project.id, { attributes: ["id", "emergencyInfo"] }))?.emergencyInfo ?? null;
   const sentTo: string[] = [];
   await getSequelize().transaction(async (transaction) => {
     for (const [index, { team }] of plan.teams.entries()) {
-      const text = planSheetText(project, plan, index, planUrl);
+      const text = planSheetText(project, plan, index, planUrl, emergency);
       for (const member of team.members) {
         await queueMail({ to: member.email, subject: `Dive plan ${date}: ${team.name} (${project.name})`, text }, transaction);
         sentTo.push(member.email);

@@ -4,6 +4,7 @@ import { z } from "zod";
 import { NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE } from "../../shared/no-decompression";
 import { Assignment, Dive, DiveCell, DiveTeam, getSequelize } from "~/lib/db.server";
 import { NotFoundError, ValidationError } from "~/lib/errors";
+import { isAfterLocalDay, localDayOf } from "../../shared/local-time";
 import { noDecompressionInfo, workDateSchema, type NoDecompressionInfo } from "./assignments.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -27,7 +28,10 @@ export const diveInputSchema = z
     date: workDateSchema,
     /** The team's name or id. */
     team: z.union([z.string().trim().min(1).max(120), z.number().int().positive()]),
+    /** A name on the team's roster, or, with `visitor`, anyone's. */
     diver: z.string().trim().min(1, "name the diver").max(120),
+    /** The diver is not on the team's roster (a visitor diving with the team). */
+    visitor: z.boolean().default(false),
     /** When the diver left the surface and left the bottom, HH:MM; or the bottom time alone. */
     leftSurface: clock.nullish(),
     leftBottom: clock.nullish(),
@@ -69,6 +73,8 @@ export interface DiveView {
   date: string;
   team: string;
   diver: string;
+  /** The diver was not on the team's roster. */
+  visitor: boolean;
   leftSurface: string | null;
   leftBottom: string | null;
   bottomMinutes: number;
@@ -92,6 +98,7 @@ function present(dive: Dive, project: ProjectView): DiveView {
     date: dive.diveDate,
     team: dive.team?.name ?? "",
     diver: dive.diverName,
+    visitor: dive.diverIsVisitor,
     leftSurface: dive.leftSurfaceAt,
     leftBottom: dive.leftBottomAt,
     bottomMinutes: dive.bottomMinutes,
@@ -107,10 +114,17 @@ function present(dive: Dive, project: ProjectView): DiveView {
  * such team) or ValidationError (labels that are not cells, or cells not assigned to the team that
  * day: `code` says which, `cells` lists them).
  */
-export async function recordDive(project: ProjectView, user: UserView, input: DiveInput, ip: string | null = null): Promise<DiveRecorded> {
+export async function recordDive(project: ProjectView, user: UserView, input: DiveInput, ip: string | null = null, now: number = Date.now()): Promise<DiveRecorded> {
+  if (isAfterLocalDay(input.date, now, project.timeZone)) {
+    throw new ValidationError(
+      { field: "date", value: input.date, message: `A dive is logged once it has been made: ${input.date} is after today (${localDayOf(now, project.timeZone)} in ${project.timeZone}), so no dive can be logged on that plan yet.` },
+      { code: "future-date" },
+    );
+  }
   const teams = await DiveTeam.findAll({ where: { projectId: project.id } });
   const team = teams.find((candidate) => (typeof input.team === "number" ? candidate.id === input.team : candidate.name.toLowerCase() === input.team.toLowerCase()));
   if (!team) throw new NotFoundError({ field: "team", message: `There is no dive team "${input.team}" on this project.` });
+  const diver = rosterDiver(team, input);
   const labels = [...new Set(input.cells.map((label) => label.trim().toUpperCase()))];
   const positions = labels.map((label) => ({ label, position: parseCellLabel(label) }));
   const unknown = positions.filter((cell) => !cell.position).map((cell) => cell.label);
@@ -131,18 +145,39 @@ export async function recordDive(project: ProjectView, user: UserView, input: Di
   const id = await getSequelize().transaction(async (transaction) => {
     const dive = await Dive.create(
       {
-        projectId: project.id, diveDate: input.date, teamId: team.id, diverName: input.diver,
+        projectId: project.id, diveDate: input.date, teamId: team.id, diverName: diver.name, diverIsVisitor: diver.visitor,
         leftSurfaceAt: input.leftSurface ?? null, leftBottomAt: input.leftBottom ?? null, bottomMinutes,
         maxDepth: Math.round(input.maxDepth * 100) / 100, notes: input.notes ?? "", recordedById: user.id,
       },
       { transaction },
     );
     await DiveCell.bulkCreate(positions.map(({ label, position }) => ({ diveId: dive.id, projectId: project.id, row: position!.row, col: position!.col, label })), { transaction });
-    await recordAudit({ action: AUDIT_ACTIONS.diveRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, team: team.name, diver: input.diver, bottomMinutes, maxDepth: input.maxDepth, cells: labels } }, transaction);
+    await recordAudit({ action: AUDIT_ACTIONS.diveRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, team: team.name, diver: diver.name, visitor: diver.visitor, bottomMinutes, maxDepth: input.maxDepth, cells: labels } }, transaction);
     return dive.id;
   });
   const [dive] = await findDives(project, { id });
   return { dive, caution: NO_DECOMPRESSION_CAUTION, source: NO_DECOMPRESSION_SOURCE };
+}
+
+/**
+ * The diver as logged: a name on the team's roster (written as the roster writes it), or a visitor
+ * when the dive says so. A name off the roster without `visitor` is refused, naming who is listed.
+ * A visitor whose name is on the roster is logged as that roster member.
+ */
+function rosterDiver(team: DiveTeam, input: Pick<DiveInput, "diver" | "visitor">): { name: string; visitor: boolean } {
+  const wanted = input.diver.trim().replace(/\s+/g, " ").toLowerCase();
+  const member = team.members.find((candidate) => candidate.name.trim().replace(/\s+/g, " ").toLowerCase() === wanted);
+  if (member) return { name: member.name, visitor: false };
+  if (input.visitor) return { name: input.diver.trim(), visitor: true };
+  const listed = team.members.map((candidate) => candidate.name);
+  throw new ValidationError(
+    {
+      field: "diver",
+      value: input.diver,
+      message: `${input.diver} is not on ${team.name}'s roster (${listed.length > 0 ? listed.join(", ") : "no one is listed"}); choose a diver from the team, or log them as a visitor.`,
+    },
+    { code: "not-on-roster", roster: listed },
+  );
 }
 
 async function findDives(project: ProjectView, where: { id?: number; date?: string; diveIds?: number[] }): Promise<DiveView[]> {

@@ -446,7 +446,7 @@ export async function recentDivesForFinds(project: ProjectView, limit = 40): Pro
   });
   return dives.map((dive) => ({
     id: dive.id,
-    label: `${dive.diveDate} · ${dive.team?.name ?? "team"} · ${dive.diverName}`,
+    label: `${dive.diveDate} · ${dive.team?.name ?? "team"} · ${dive.diverName}${dive.diverIsVisitor ? " (visitor)" : ""}`,
     cells: sortCellLabels((dive.cells ?? []).map((cell) => cell.label)),
   }));
 }

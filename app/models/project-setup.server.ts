@@ -5,6 +5,7 @@ import { cellCount, createCellGrid, defaultGridOrigin } from "../../shared/grid/
 import { parseWorkLimitGeoJson } from "../../shared/grid/work-limit-geojson";
 import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
 import { defaultsFor } from "../../shared/units";
+import { emergencyInfoSchema, isEmergencyInfoEmpty, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { canCreateProjects } from "~/lib/auth/permissions";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -64,6 +65,8 @@ export const newProjectSchema = z.object({
   grid: gridSchema,
   tolerances: tolerancesSchema.optional(),
   zones: z.array(zoneSchema).max(100).optional(),
+  /** Emergency information for the day sheet (all of it optional; a name needs its phone). */
+  emergency: emergencyInfoSchema.optional(),
   /** The first manager's e-mail (an existing account); the creator when none is named. */
   manager: z.email("is not an e-mail address").optional(),
 });
@@ -87,6 +90,8 @@ export const projectPatchSchema = z
     tolerances: tolerancesSchema.optional(),
     zones: z.array(zoneSchema).max(100).optional(),
     finds: findsSettingsSchema.optional(),
+    /** Replaces the emergency information as a whole; every field blank clears it. */
+    emergency: emergencyInfoSchema.optional(),
   })
   .refine((patch) => Object.values(patch).some((value) => value !== undefined), "Send at least one setting to change");
 export type ProjectPatch = z.infer<typeof projectPatchSchema>;
@@ -119,6 +124,8 @@ export interface ProjectSettings {
   surveyCount: number;
   /** The catalogue prefix as set (empty: the slug's initials) and the hold radius (metres) with its source. */
   finds: { cataloguePrefix: string; holdRadiusM: number; holdRadiusSource: string };
+  /** Nearest hospital and hyperbaric chamber with phones, emergency services, site address and access point; null: none set. */
+  emergency: EmergencyInfo | null;
 }
 
 /** Above this many cells the settings page asks before saving a grid: the map and every recompute slow down with the count. */
@@ -267,6 +274,7 @@ export async function createProject(actor: UserView, input: NewProjectInput, opt
         workLimitGeoJson: JSON.stringify(limit.lonLat),
         // A diver, a tender and a standby diver (practice; the dive plan refuses smaller teams).
         minTeamSize: input.minTeamSize ?? 3,
+        emergencyInfo: input.emergency && !isEmergencyInfoEmpty(input.emergency) ? input.emergency : null,
       },
       { transaction },
     );
@@ -311,6 +319,7 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
     cellCount: limit ? cellCount(createCellGrid(limit.projected, grid)) : null,
     surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
     finds: { cataloguePrefix: project.findCataloguePrefix, holdRadiusM: project.holdRadiusM, holdRadiusSource: project.holdRadiusSource },
+    emergency: project.emergencyInfo ?? null,
   };
 }
 
@@ -408,6 +417,8 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
       if (patch.finds?.cataloguePrefix !== undefined) row.findCataloguePrefix = patch.finds.cataloguePrefix;
       if (patch.finds?.holdRadiusM !== undefined) row.holdRadiusM = patch.finds.holdRadiusM;
       if (patch.finds?.holdRadiusSource !== undefined) row.holdRadiusSource = patch.finds.holdRadiusSource;
+      // Emergency information touches no figures; all blank clears it.
+      if (patch.emergency !== undefined) row.emergencyInfo = isEmergencyInfoEmpty(patch.emergency) ? null : patch.emergency;
       const figuresChange = (["workLimitGeoJson", "cellSize", "rotationDeg", "gridOriginE", "gridOriginN", "rasterResolution", "maxEdge", "tolerance", "firmShare", "minCoverage"] as const).some((key) => row.changed(key));
       await row.save({ transaction });
       if (zones) {

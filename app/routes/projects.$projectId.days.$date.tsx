@@ -149,6 +149,11 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
             </table>
           </div>
         ) : null}
+        {report.teams.some((team) => (team.visitors ?? []).length > 0) ? (
+          <p className="mt-2 text-sm" data-testid="report-visitors">
+            Visitors diving (not on the team's roster): {report.teams.filter((team) => (team.visitors ?? []).length > 0).map((team) => `${team.team}: ${team.visitors!.join(", ")}`).join("; ")}.
+          </p>
+        ) : null}
         {report.dives.flags.length > 0 ? <ul className="mt-2 list-disc pl-5 text-sm text-danger">{report.dives.flags.map((flag) => <li key={flag}>{flag}</li>)}</ul> : null}
         {report.dives.flags.length > 0 ? <p className="text-xs text-muted">Flags are information from the published table, never approval; the dive safety plan governs.</p> : null}
       </Section>

@@ -1,4 +1,4 @@
-import { useEffect, useRef } from "react";
+import { useEffect, useRef, useState } from "react";
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import { can } from "~/lib/auth/permissions";
@@ -8,6 +8,8 @@ import { appOrigin } from "~/lib/http/origin.server";
 import { DomainError } from "~/lib/errors";
 import { emailDayPlan, getDayPlan, workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listDivesOn, recordDive, type DiveView } from "~/models/dives.server";
+import { getDaySheetExtras } from "~/models/day-plans.server";
+import { DaySheetMap, EmergencyBlock, SignOffLines, signingDivers } from "~/components/day-sheet";
 import type { Route } from "./+types/projects.$projectId.plans.$date";
 import { readPageForm } from "~/lib/http/body.server";
 
@@ -22,20 +24,30 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = access;
   const date = parseDate(params.date);
   const [plan, dives] = await Promise.all([getDayPlan(project, date), listDivesOn(project, date)]);
-  return { project: { id: project.id, name: project.name }, plan, dives, canSend: can(access, "plans.assign"), canLogDives: can(access, "dives.log") };
+  const sheet = await getDaySheetExtras(project, plan);
+  return {
+    project: { id: project.id, name: project.name },
+    plan, dives, sheet,
+    canSend: can(access, "plans.assign"),
+    canLogDives: can(access, "dives.log"),
+    canConfigure: can(access, "project.configure"),
+  };
 }
 
 const actionSchema = z.object({ intent: z.enum(["email", "dive"]) });
 
 type ActionResult =
   | { intent: "email"; sentTo: string[]; error: string | null }
-  | { intent: "dive"; teamId: number; ok: boolean; message: string };
+  | { intent: "dive"; teamId: number; ok: boolean; message: string; field?: string };
 
 const optionalText = (value: FormDataEntryValue | null) => (typeof value === "string" && value.trim() !== "" ? value.trim() : null);
 const optionalNumber = (value: FormDataEntryValue | null) => (optionalText(value) === null ? null : Number(optionalText(value)));
 
 // A refused request answers 400 with what to fix; the page shows it beside the form it came from.
-const refused = (result: ActionResult) => data(result, { status: 400 });
+const refused = (result: ActionResult, status = 400) => data(result, { status });
+
+/** The form's diver select: a roster name, or this value for a visitor (whose name is typed beside it). */
+const VISITOR = "(visitor)";
 
 export async function action({ request, params }: Route.ActionArgs) {
   const access = await requireRole(request, params.projectId, "plans.assign");
@@ -47,10 +59,12 @@ export async function action({ request, params }: Route.ActionArgs) {
   requireAllowed(access, form.data.intent === "dive" ? "dives.log" : "plans.assign");
   if (form.data.intent === "dive") {
     const teamId = Number(formData.get("team"));
+    const visitor = formData.get("diver") === VISITOR;
     const input = diveInputSchema.safeParse({
       date,
       team: teamId,
-      diver: formData.get("diver") ?? "",
+      diver: (visitor ? formData.get("visitorName") : formData.get("diver")) ?? "",
+      visitor,
       leftSurface: optionalText(formData.get("leftSurface")),
       leftBottom: optionalText(formData.get("leftBottom")),
       bottomMinutes: optionalNumber(formData.get("bottomMinutes")),
@@ -59,14 +73,19 @@ export async function action({ request, params }: Route.ActionArgs) {
       notes: optionalText(formData.get("notes")) ?? "",
     });
     if (!input.success) {
-      const names: Record<string, string> = { diver: "Diver", leftSurface: "Left surface", leftBottom: "Left bottom", bottomMinutes: "Bottom time", maxDepth: "Maximum depth", cells: "Cells worked", notes: "Notes", team: "Team" };
+      const names: Record<string, string> = { diver: visitor ? "Visitor's name" : "Diver", leftSurface: "Left surface", leftBottom: "Left bottom", bottomMinutes: "Bottom time", maxDepth: "Maximum depth", cells: "Cells worked", notes: "Notes", team: "Team" };
       return refused({ intent: "dive", teamId, ok: false, message: input.error.issues.map((issue) => `${names[String(issue.path[0])] ?? "Dive"}: ${issue.message}`).join("; ") + "." });
     }
     try {
       const { dive } = await recordDive(project, user, input.data, clientAddress(request));
-      return { intent: "dive", teamId, ok: true, message: `Logged ${dive.diver}'s dive: ${dive.bottomMinutes} min bottom time, ${dive.maxDepth} maximum depth, cells ${dive.cells.join(", ")}.` } satisfies ActionResult;
+      return { intent: "dive", teamId, ok: true, message: `Logged ${dive.diver}${dive.visitor ? " (visitor)" : ""}'s dive: ${dive.bottomMinutes} min bottom time, ${dive.maxDepth} maximum depth, cells ${dive.cells.join(", ")}.` } satisfies ActionResult;
     } catch (error) {
-      if (error instanceof DomainError) return refused({ intent: "dive", teamId, ok: false, message: error.message });
+      if (error instanceof DomainError) {
+        const field = error.details[0]?.field;
+        // A dive dated after today is refused as the API refuses it (422), naming the date.
+        if (field === "date") return refused({ intent: "dive", teamId, ok: false, field, message: `Date: ${error.message}` }, 422);
+        return refused({ intent: "dive", teamId, ok: false, field, message: error.message });
+      }
       throw error;
     }
   }
@@ -75,15 +94,32 @@ export async function action({ request, params }: Route.ActionArgs) {
   return { intent: "email", sentTo, error: sentTo.length === 0 ? "Nobody to e-mail: no team has cells on this date, or the teams list no members." : null } satisfies ActionResult;
 }
 
-// Print: one page, the plan only (site header, project nav and buttons hidden).
+// Print: the day sheet (site header, project nav, buttons and forms hidden; sign-off lines shown).
 const PRINT_CSS = `
+.print-only { display: none; }
 @media print {
   @page { size: letter landscape; margin: 10mm; }
-  body > header, nav[aria-label="Project"], .no-print { display: none !important; }
-  body { background: #fff; font-size: 9pt; }
-  .plan-sheet { max-width: none; }
-  .plan-sheet table { page-break-inside: avoid; }
-  .plan-sheet h2 { font-size: 12pt; }
+  body > header, nav[aria-label="Project"], .no-print, [data-testid="stop-work-banner"] { display: none !important; }
+  .print-only { display: block !important; }
+  body { background: #fff; font-size: 9pt; min-height: 0 !important; }
+  main, .plan-sheet { max-width: none !important; }
+  .plan-sheet table, .plan-sheet figure, .emergency-block, .sign-off { page-break-inside: avoid; break-inside: avoid; }
+  h1:has(+ nav[aria-label="Project"]) { display: none !important; }
+  .plan-sheet :not(svg, svg *) { font-size: 8pt !important; line-height: 1.3 !important; }
+  .plan-sheet h2#plan-title { font-size: 11pt !important; }
+  .plan-sheet h3 { font-size: 9pt !important; }
+  .plan-sheet > * + * { margin-top: 2mm !important; }
+  .day-sheet-top > * + * { margin-top: 2mm !important; }
+  div:has(> .plan-sheet) { margin-top: 0 !important; }
+  div:has(> div > .plan-sheet) { padding-top: 0 !important; padding-bottom: 0 !important; }
+  .day-sheet-map svg { max-height: 46mm; width: auto; max-width: 100%; }
+  .sign-off tbody tr { height: 6mm; }
+  .plan-sheet section > * + * { margin-top: 1mm !important; }
+  [data-testid="plan-caution"] { padding: 1.5mm 2mm; }
+}
+@media print and (min-width: 600px) {
+  .day-sheet-top { display: grid !important; grid-template-columns: 1fr 1fr; gap: 4mm; align-items: start; }
+  .day-sheet-top > * + * { margin-top: 0 !important; }
 }`;
 
 function ndlText(cell: Route.ComponentProps["loaderData"]["plan"]["teams"][number]["cells"][number]): string {
@@ -95,7 +131,8 @@ function ndlText(cell: Route.ComponentProps["loaderData"]["plan"]["teams"][numbe
 }
 
 export default function ProjectPlan({ loaderData, actionData }: Route.ComponentProps) {
-  const { plan, project } = loaderData;
+  const { plan, project, sheet } = loaderData;
+  const upcoming = plan.date > sheet.today;
   return (
     <article className="plan-sheet space-y-3" aria-labelledby="plan-title">
       <style>{PRINT_CSS}</style>
@@ -104,8 +141,9 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
         <strong>Caution.</strong> {plan.caution} No-decompression figures: {plan.source}.
       </p>
       <div className="no-print flex flex-wrap gap-2">
+        <Link to={`/projects/${project.id}/plans`} className="rounded border border-line px-3 py-1">All plans</Link>
         <Link to={`/projects/${project.id}/map`} className="rounded border border-line px-3 py-1">Back to the map</Link>
-        <button type="button" onClick={() => window.print()} className="rounded border border-line px-3 py-1">Print</button>
+        <button type="button" onClick={() => window.print()} className="rounded border border-line px-3 py-1">Print day sheet</button>
         {loaderData.canSend && plan.teams.length > 0 ? (
           <Form method="post">
             <button type="submit" name="intent" value="email" className="rounded bg-lagoon px-3 py-1 text-white">E-mail to team</button>
@@ -117,52 +155,72 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
           {actionData.error ?? `Sent to ${actionData.sentTo.join(", ")}.`}
         </p>
       ) : null}
+      <div className="day-sheet-top space-y-3">
+        <EmergencyBlock info={sheet.emergency} missing={sheet.emergencyMissing} settingsHref={loaderData.canConfigure ? `/projects/${project.id}/settings#emergency-heading` : null} />
+        {sheet.map && plan.teams.length > 0 ? <DaySheetMap map={sheet.map} date={plan.date} lengthLabel={plan.lengthLabel} /> : null}
+      </div>
       {plan.teams.length === 0 ? <p className="text-muted">No cells are assigned on {plan.date}.</p> : null}
-      {plan.teams.map(({ team, cells, remainingVolume }) => (
-        <section key={team.id} aria-label={team.name} className="space-y-1">
-          <h3 className="font-semibold">{team.name}{team.station ? ` · ${team.station}` : ""}</h3>
-          <p className="text-sm">{team.members.map((member) => `${member.name} (${member.duty})`).join(", ") || "No members listed."}</p>
-          {team.belowMinimum ? (
-            <p className="text-sm font-semibold text-danger" data-testid="plan-team-flag">
-              {team.name} lists {team.members.length} people, below the project's minimum team size of {plan.minTeamSize}.
-            </p>
-          ) : null}
-          <table className="w-full border-collapse text-sm">
-            <thead>
-              <tr className="border-b border-line text-left">
-                <th className="py-1 pr-2">Cell</th><th className="pr-2">Zone</th><th className="pr-2">Hose</th>
-                <th className="pr-2">Working depth ({plan.lengthLabel})</th><th className="pr-2">No-decompression figure</th>
-                <th className="pr-2">Bottom time</th><th className="pr-2">Remaining thickness ({plan.lengthLabel})</th>
-                <th className="pr-2">Remaining ({plan.volumeLabel})</th><th>Notes</th>
-              </tr>
-            </thead>
-            <tbody>
-              {cells.map((cell) => (
-                <tr key={cell.label} className="border-b border-line">
-                  <td className="py-1 pr-2">{cell.label}</td>
-                  <td className="pr-2">{cell.zone ?? "—"}</td>
-                  <td className="pr-2">{cell.hose}</td>
-                  <td className="pr-2">{cell.workingDepth?.toFixed(1) ?? "—"}</td>
-                  <td className="pr-2">{ndlText(cell)}</td>
-                  <td className={`pr-2 ${cell.noDecompression?.exceeds ? "font-semibold text-danger" : ""}`}>
-                    {cell.plannedBottomMinutes === null ? "—" : `${cell.plannedBottomMinutes} min${cell.noDecompression?.exceeds ? " — exceeds the figure" : ""}`}
-                  </td>
-                  <td className="pr-2">{cell.remainingThickness?.toFixed(2) ?? "—"}</td>
-                  <td className="pr-2">{cell.remainingVolume?.toFixed(1) ?? "—"}</td>
-                  <td>{[cell.notes, cell.confirmedReason ? `Confirmed cell reopened: ${cell.confirmedReason}` : ""].filter(Boolean).join(" · ") || "—"}</td>
-                </tr>
-              ))}
-            </tbody>
-            <tfoot>
-              <tr><td colSpan={7} className="py-1 pr-2 text-right">Remaining in {team.name}'s cells</td><td>{remainingVolume.toFixed(1)}</td><td /></tr>
-            </tfoot>
-          </table>
-          <DiveLog teamName={team.name} dives={loaderData.dives.filter((dive) => dive.team === team.name)} lengthLabel={plan.lengthLabel} />
-          {loaderData.canLogDives ? (
-            <DiveForm teamId={team.id} teamName={team.name} cells={cells.map((cell) => cell.label)} lengthLabel={plan.lengthLabel} result={actionData?.intent === "dive" && actionData.teamId === team.id ? actionData : null} />
-          ) : null}
-        </section>
-      ))}
+      {plan.teams.map(({ team, cells, remainingVolume }) => {
+        const teamDives = loaderData.dives.filter((dive) => dive.team === team.name);
+        return (
+          <section key={team.id} aria-label={team.name} className="space-y-1">
+            <h3 className="font-semibold">{team.name}{team.station ? ` · ${team.station}` : ""}</h3>
+            <p className="text-sm">{team.members.map((member) => `${member.name} (${member.duty})`).join(", ") || "No members listed."}</p>
+            {team.belowMinimum ? (
+              <p className="text-sm font-semibold text-danger" data-testid="plan-team-flag">
+                {team.name} lists {team.members.length} people, below the project's minimum team size of {plan.minTeamSize}.
+              </p>
+            ) : null}
+            <div className="overflow-x-auto">
+              <table className="w-full border-collapse text-sm">
+                <thead>
+                  <tr className="border-b border-line text-left">
+                    <th className="py-1 pr-2">Cell</th><th className="pr-2">Zone</th><th className="pr-2">Hose</th>
+                    <th className="pr-2">Working depth ({plan.lengthLabel})</th><th className="pr-2">No-decompression figure</th>
+                    <th className="pr-2">Bottom time</th><th className="pr-2">Remaining thickness ({plan.lengthLabel})</th>
+                    <th className="pr-2">Remaining ({plan.volumeLabel})</th><th>Notes</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {cells.map((cell) => (
+                    <tr key={cell.label} className="border-b border-line">
+                      <td className="figures py-1 pr-2">{cell.label}</td>
+                      <td className="pr-2">{cell.zone ?? "—"}</td>
+                      <td className="pr-2">{cell.hose}</td>
+                      <td className="figures pr-2">{cell.workingDepth?.toFixed(1) ?? "—"}</td>
+                      <td className="pr-2">{ndlText(cell)}</td>
+                      <td className={`pr-2 ${cell.noDecompression?.exceeds ? "font-semibold text-danger" : ""}`}>
+                        {cell.plannedBottomMinutes === null ? "—" : `${cell.plannedBottomMinutes} min${cell.noDecompression?.exceeds ? " — exceeds the figure" : ""}`}
+                      </td>
+                      <td className="figures pr-2">{cell.remainingThickness?.toFixed(2) ?? "—"}</td>
+                      <td className="figures pr-2">{cell.remainingVolume?.toFixed(1) ?? "—"}</td>
+                      <td>{[cell.notes, cell.confirmedReason ? `Confirmed cell reopened: ${cell.confirmedReason}` : ""].filter(Boolean).join(" · ") || "—"}</td>
+                    </tr>
+                  ))}
+                </tbody>
+                <tfoot>
+                  <tr><td colSpan={7} className="py-1 pr-2 text-right">Remaining in {team.name}'s cells</td><td className="figures">{remainingVolume.toFixed(1)}</td><td /></tr>
+                </tfoot>
+              </table>
+            </div>
+            <DiveLog teamName={team.name} dives={teamDives} lengthLabel={plan.lengthLabel} />
+            {loaderData.canLogDives && upcoming ? (
+              <p className="no-print text-sm text-muted" data-testid="dive-log-upcoming">
+                Dives are logged once made: this plan is for {plan.date}, after today ({sheet.today} in {sheet.timeZone}). The form opens on the day.
+              </p>
+            ) : null}
+            {loaderData.canLogDives && !upcoming ? (
+              <DiveForm
+                teamId={team.id} teamName={team.name} members={team.members} cells={cells.map((cell) => cell.label)} lengthLabel={plan.lengthLabel}
+                result={actionData?.intent === "dive" && actionData.teamId === team.id ? actionData : null}
+              />
+            ) : null}
+            <div className="print-only pt-2">
+              <SignOffLines teamName={team.name} divers={signingDivers(team.members, teamDives.filter((dive) => dive.visitor).map((dive) => dive.diver))} />
+            </div>
+          </section>
+        );
+      })}
     </article>
   );
 }
@@ -180,6 +238,7 @@ function diveFigure(dive: DiveView): { text: string; beyond: boolean } {
 function DiveLog({ teamName, dives, lengthLabel }: { teamName: string; dives: DiveView[]; lengthLabel: string }) {
   if (dives.length === 0) return <p className="text-sm text-muted">No dives logged for {teamName} on this date.</p>;
   return (
+    <div className="overflow-x-auto">
     <table className="w-full border-collapse text-sm" aria-label={`Dives logged for ${teamName}`}>
       <thead>
         <tr className="border-b border-line text-left">
@@ -192,7 +251,7 @@ function DiveLog({ teamName, dives, lengthLabel }: { teamName: string; dives: Di
           const figure = diveFigure(dive);
           return (
             <tr key={dive.id} className="border-b border-line">
-              <td className="py-1 pr-2">{dive.diver}</td>
+              <td className="py-1 pr-2">{dive.diver}{dive.visitor ? <span className="ml-1 rounded border border-caution px-1 text-xs text-caution" data-testid="dive-visitor">visitor</span> : null}</td>
               <td className="pr-2">{dive.leftSurface ?? "—"}</td>
               <td className="pr-2">{dive.leftBottom ?? "—"}</td>
               <td className={`pr-2 ${figure.beyond ? "font-semibold text-danger" : ""}`} data-testid={figure.beyond ? "dive-flag" : undefined}>
@@ -207,22 +266,42 @@ function DiveLog({ teamName, dives, lengthLabel }: { teamName: string; dives: Di
         })}
       </tbody>
     </table>
+    </div>
   );
 }
 
-function DiveForm({ teamId, teamName, cells, lengthLabel, result }: { teamId: number; teamName: string; cells: string[]; lengthLabel: string; result: { ok: boolean; message: string } | null }) {
+function DiveForm({ teamId, teamName, members, cells, lengthLabel, result }: { teamId: number; teamName: string; members: Array<{ name: string; duty: string }>; cells: string[]; lengthLabel: string; result: { ok: boolean; message: string; field?: string } | null }) {
   const navigation = useNavigation();
   const formRef = useRef<HTMLFormElement>(null);
+  const [diver, setDiver] = useState("");
   useEffect(() => {
-    if (result?.ok) formRef.current?.reset();
+    if (result?.ok) {
+      formRef.current?.reset();
+      setDiver("");
+    }
   }, [result]);
+  const diverId = `diver-${teamId}`;
+  const visitorId = `visitor-${teamId}`;
   const field = "rounded border border-line px-2 py-1";
   return (
     <Form ref={formRef} method="post" aria-label={`Log a dive for ${teamName}`} className="no-print space-y-2 rounded border border-line p-2 text-sm">
       <h4 className="font-semibold">Log a dive for {teamName}</h4>
       <input type="hidden" name="team" value={teamId} />
       <div className="flex flex-wrap gap-3">
-        <label>Diver <input name="diver" required maxLength={120} className={field} /></label>
+        <span className="flex items-center gap-1">
+          <label htmlFor={diverId}>Diver</label>
+          <select id={diverId} name="diver" required value={diver} onChange={(event) => setDiver(event.target.value)} className={field} aria-invalid={result?.field === "diver" ? true : undefined}>
+            <option value="" disabled>Choose from {teamName}</option>
+            {members.map((member) => <option key={member.name} value={member.name}>{member.name} ({member.duty})</option>)}
+            <option value={VISITOR}>Visitor, not on the roster…</option>
+          </select>
+        </span>
+        {diver === VISITOR ? (
+          <span className="flex items-center gap-1">
+            <label htmlFor={visitorId}>Visitor's name</label>
+            <input id={visitorId} name="visitorName" required maxLength={120} autoFocus className={field} aria-invalid={result?.field === "diver" ? true : undefined} />
+          </span>
+        ) : null}
         <label>Left surface <input name="leftSurface" type="time" className={field} /></label>
         <label>Left bottom <input name="leftBottom" type="time" className={field} /></label>
         <label>or bottom time (min) <input name="bottomMinutes" type="number" min={1} max={600} step={1} className={`${field} w-20`} /></label>
@@ -236,7 +315,7 @@ function DiveForm({ teamId, teamName, cells, lengthLabel, result }: { teamId: nu
       </fieldset>
       <label className="block">Notes <textarea name="notes" rows={2} maxLength={4000} className={`${field} block w-full`} /></label>
       <p className="text-xs text-muted">
-        Bottom time runs from leaving the surface to leaving the bottom. A bottom time beyond the table's no-decompression figure for the maximum depth is flagged as information only; the dive supervisor's dive plan, the project's safety manual and the governing diving standard decide.
+        A visitor is a diver not on {teamName}'s roster (another crew's diver, an inspector); the log and the daily report mark them. Bottom time runs from leaving the surface to leaving the bottom. A bottom time beyond the table's no-decompression figure for the maximum depth is flagged as information only; the dive supervisor's dive plan, the project's safety manual and the governing diving standard decide.
       </p>
       <button type="submit" name="intent" value="dive" disabled={navigation.state === "submitting"} className="rounded bg-lagoon px-3 py-1 text-white disabled:opacity-60">Log dive</button>
       {result ? <p role={result.ok ? "status" : "alert"} className={result.ok ? "text-ok" : "text-danger"} data-testid="dive-result">{result.message}</p> : null}

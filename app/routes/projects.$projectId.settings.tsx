@@ -53,6 +53,16 @@ const actionSchema = z.discriminatedUnion("intent", [
   }),
   z.object({ intent: z.literal("tolerances"), firmSand: number, firmShare: number, minCoverage: number, overDredgeAllowance: number }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
+  z.object({
+    intent: z.literal("emergency"),
+    hospitalName: z.string(),
+    hospitalPhone: z.string(),
+    chamberName: z.string(),
+    chamberPhone: z.string(),
+    emergencyNumber: z.string(),
+    siteAddress: z.string(),
+    accessPoint: z.string(),
+  }),
 ]);
 
 interface WorkLimitPreview {
@@ -97,6 +107,11 @@ export async function action({ request, params }: Route.ActionArgs) {
       case "finds":
         patch = { finds: { cataloguePrefix: input.cataloguePrefix, holdRadiusM: input.holdRadiusM, holdRadiusSource: input.holdRadiusSource } };
         break;
+      case "emergency": {
+        const { intent: _intent, ...emergency } = input;
+        patch = { emergency };
+        break;
+      }
       case "work-limit-preview": {
         let geoJson: unknown;
         try {
@@ -125,7 +140,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const checked = projectPatchSchema.safeParse(patch);
     if (!checked.success) return failed(input.intent, fieldErrorsOf(validationErrorFrom(checked.error)));
     const { settings, recomputed } = await updateProjectSettings(project, user, checked.data, { ip });
-    const cells = settings.cellCount === null ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
+    const cells = settings.cellCount === null || input.intent === "emergency" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
     return answered({ intent: input.intent, errors: {}, notice: `Saved.${cells}${recomputed ? " Every survey's figures were recomputed." : ""}` });
   } catch (error) {
     if (error instanceof DomainError) return failed(input.intent, fieldErrorsOf(error));
@@ -161,6 +176,8 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   const gridErrors = errorsFor("grid");
   const toleranceErrors = errorsFor("tolerances");
   const findsErrors = errorsFor("finds");
+  const emergencyErrors = errorsFor("emergency");
+  const emergency = settings.emergency;
   const preview = actionData?.preview ?? null;
   const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures.` : "";
 
@@ -269,6 +286,24 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           <TextField label="Hold radius (m)" name="holdRadiusM" type="number" step="any" min="1" max="2000" defaultValue={settings.finds.holdRadiusM} required error={findsErrors.holdRadiusM} hint="Cells within it of a cultural find or human remains are held. Applies to holds placed from now on." />
           <TextField className="sm:col-span-3" label="Source of the hold radius" name="holdRadiusSource" maxLength={500} defaultValue={settings.finds.holdRadiusSource} required error={findsErrors.holdRadiusSource} hint="The permit condition that sets it; the default follows a published condition naming a 100-metre-diameter area." />
           <div className="sm:col-span-3"><SubmitButton intent="finds" pendingLabel="Saving…">Save finds settings</SubmitButton></div>
+        </Form>
+      </Section>
+
+      <Section id="emergency-heading" title="Emergency information">
+        <ActionMessages notice={noticeFor("emergency")} />
+        <p className="text-sm text-muted">
+          Printed on every day sheet and shown on the dive plans. Check it against the project's safety plan and emergency action plan; they decide.
+          A name needs its phone number. Leave every field blank to clear it.
+        </p>
+        <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-2" aria-label="Emergency information">
+          <TextField label="Nearest hospital" name="hospitalName" maxLength={200} defaultValue={emergency?.hospitalName ?? ""} error={emergencyErrors.hospitalName} />
+          <TextField label="Hospital phone" name="hospitalPhone" type="tel" maxLength={40} defaultValue={emergency?.hospitalPhone ?? ""} error={emergencyErrors.hospitalPhone} />
+          <TextField label="Nearest hyperbaric chamber" name="chamberName" maxLength={200} defaultValue={emergency?.chamberName ?? ""} error={emergencyErrors.chamberName} />
+          <TextField label="Hyperbaric chamber phone" name="chamberPhone" type="tel" maxLength={40} defaultValue={emergency?.chamberPhone ?? ""} error={emergencyErrors.chamberPhone} />
+          <TextField label="Emergency services number" name="emergencyNumber" type="tel" maxLength={40} defaultValue={emergency?.emergencyNumber ?? ""} error={emergencyErrors.emergencyNumber} />
+          <TextField label="Site address" name="siteAddress" maxLength={500} defaultValue={emergency?.siteAddress ?? ""} error={emergencyErrors.siteAddress} hint="Where an ambulance is sent." />
+          <TextField className="sm:col-span-2" label="Access point" name="accessPoint" maxLength={500} defaultValue={emergency?.accessPoint ?? ""} error={emergencyErrors.accessPoint} hint="Where responders meet the crew: the gate, ramp or landing." />
+          <div className="sm:col-span-2"><SubmitButton intent="emergency" pendingLabel="Saving…">Save emergency information</SubmitButton></div>
         </Form>
       </Section>
     </div>

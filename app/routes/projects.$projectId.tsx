@@ -37,12 +37,13 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
   const base = `/projects/${loaderData.project.id}`;
   return (
     <div className="mx-auto max-w-5xl px-6 py-4">
-      <p className="text-sm text-muted">Project · your role: {loaderData.roleLabel}</p>
+      <p className="text-sm text-muted print:hidden">Project · your role: {loaderData.roleLabel}</p>
       <h1 className="text-2xl font-semibold text-lagoon-dark">{loaderData.project.name}</h1>
       <nav aria-label="Project" className="mt-3 print:hidden flex flex-wrap gap-1 border-b border-line pb-2">
         <NavLink end to={base} className={linkClass}>Overview</NavLink>
         <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
+        <NavLink to={`${base}/plans`} className={linkClass}>Dive plans</NavLink>
         <NavLink to={`${base}/dewatering`} className={linkClass}>Dewatering</NavLink>
         <NavLink to={`${base}/water-quality`} className={linkClass}>Water quality</NavLink>
         {loaderData.canReadReports ? <NavLink to={`${base}/days`} className={linkClass}>Daily reports</NavLink> : null}

@@ -16,6 +16,8 @@ export class Dive extends Model<InferAttributes<Dive>, InferCreationAttributes<D
   declare diveDate: string;
   declare teamId: ForeignKey<DiveTeam["id"]>;
   declare diverName: string;
+  /** The diver is not on the team's roster (a visitor), as logged. */
+  declare diverIsVisitor: CreationOptional<boolean>;
   /** HH:MM, local time; null when only the bottom time was logged. */
   declare leftSurfaceAt: string | null;
   declare leftBottomAt: string | null;
@@ -35,6 +37,7 @@ export function initDive(sequelize: Sequelize) {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       diveDate: { type: DataTypes.DATEONLY, allowNull: false },
       diverName: { type: DataTypes.STRING(120), allowNull: false },
+      diverIsVisitor: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       leftSurfaceAt: { type: DataTypes.STRING(5), allowNull: true },
       leftBottomAt: { type: DataTypes.STRING(5), allowNull: true },
       bottomMinutes: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },

@@ -1,5 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import { DEFAULT_HOLD_RADIUS_M, DEFAULT_HOLD_RADIUS_SOURCE } from "../../shared/finds/finds";
+import { emergencyInfoSchema, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
+import { jsonColumn } from "./json-column";
 
 export const LENGTH_UNITS = ["us-ft", "ft", "m"] as const;
 export type LengthUnit = (typeof LENGTH_UNITS)[number];
@@ -52,6 +54,8 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   /** The stop-work radius around a cultural find, metres (the permit states it in metres), and where it comes from. */
   declare holdRadiusM: CreationOptional<number>;
   declare holdRadiusSource: CreationOptional<string>;
+  /** Nearest hospital and hyperbaric chamber with phones, emergency services, site address and access point; null: none set. */
+  declare emergencyInfo: CreationOptional<EmergencyInfo | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -88,6 +92,7 @@ export function initProject(sequelize: Sequelize) {
       findCataloguePrefix: { type: DataTypes.STRING(12), allowNull: false, defaultValue: "" },
       holdRadiusM: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: DEFAULT_HOLD_RADIUS_M },
       holdRadiusSource: { type: DataTypes.STRING(500), allowNull: false, defaultValue: DEFAULT_HOLD_RADIUS_SOURCE },
+      emergencyInfo: jsonColumn("projects", "emergencyInfo", emergencyInfoSchema, { allowNull: true }),
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -17,6 +17,20 @@ export const DEMO_PROJECT = {
 };
 
 /** The demo project as the project-setup service takes it (lon/lat GeoJSON, lengths in us-ft). */
+/**
+ * The demo's emergency information: invented places, and phone numbers in the 555-01xx range
+ * set aside for fiction, so nobody real is ever rung from a demo sheet.
+ */
+export const DEMO_EMERGENCY = {
+  hospitalName: "Fennick County Memorial Hospital (emergency department)",
+  hospitalPhone: "(555) 555-0142",
+  chamberName: "Saltmarsh Hyperbaric Medicine Center",
+  chamberPhone: "(555) 555-0178",
+  emergencyNumber: "(555) 555-0100",
+  siteAddress: "4100 Wickerbill Spring Road, Fennick County (invented)",
+  accessPoint: "South boat ramp at the spring-run parking lot; gate code from the dive supervisor",
+};
+
 export function demoProjectInput(managerEmail: string) {
   return {
     name: DEMO_PROJECT.name,
@@ -39,6 +53,7 @@ export function demoProjectInput(managerEmail: string) {
     tolerances: { firmSand: GRID.toleranceFt, firmShare: GRID.firmShare, minCoverage: GRID.minCoverage },
     zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })),
     minTeamSize: DEMO_PROJECT.minTeamSize,
+    emergency: DEMO_EMERGENCY,
     manager: managerEmail,
   };
 }

@@ -12,7 +12,7 @@ function records(overrides: Partial<DayRecords> = {}): DayRecords {
     nowMs: at("2031-06-12", 9),
     dives: [
       { team: "Alpha", diver: "R. Ode", bottomMinutes: 45, maxDepth: 12, cells: ["B3", "B4"], beyondNoDecompression: false },
-      { team: "Alpha", diver: "J. Lin", bottomMinutes: 30, maxDepth: 14.5, cells: ["B4"], beyondNoDecompression: false },
+      { team: "Alpha", diver: "J. Lin", visitor: true, bottomMinutes: 30, maxDepth: 14.5, cells: ["B4"], beyondNoDecompression: false },
       { team: "Bravo", diver: "K. Moss", bottomMinutes: 200, maxDepth: 40, cells: ["C1"], beyondNoDecompression: true },
     ],
     plannedTeams: [{ team: "Alpha", headCount: 4 }, { team: "Bravo", headCount: 3 }],
@@ -58,6 +58,8 @@ describe("compileDay", () => {
       ["Bravo", 3, 1, 200, 40, ["C1"]],
     ]);
     expect(day.cells).toEqual(["B3", "B4", "C1"]);
+    // Visitors are named per team (memory: the log marks J. Lin as a visitor above).
+    expect(day.teams.map((team) => team.visitors)).toEqual([["J. Lin"], []]);
   });
 
   it("sums production from shifts and hauls", () => {

@@ -13,6 +13,8 @@ export const M3_PER_US_GALLON = 0.003785411784;
 export interface DayDive {
   team: string;
   diver: string;
+  /** The diver was not on the team's roster (logged as a visitor). */
+  visitor?: boolean;
   bottomMinutes: number;
   maxDepth: number;
   cells: readonly string[];
@@ -126,6 +128,8 @@ export interface TeamDay {
   maxDepth: number | null;
   cells: string[];
   flags: string[];
+  /** Divers logged as visitors (not on the team's roster); absent in reports signed before visitors were marked. */
+  visitors?: string[];
 }
 
 export interface CompiledDay {
@@ -206,7 +210,7 @@ export function compileDay(records: DayRecords): CompiledDay {
   const teamNames = [...new Set([...records.plannedTeams.map((team) => team.team), ...records.dives.map((dive) => dive.team)])].sort();
   const teams: TeamDay[] = teamNames.map((team) => {
     const own = records.dives.filter((dive) => dive.team === team);
-    const flags = own.filter((dive) => dive.beyondNoDecompression).map((dive) => `${dive.diver}: bottom time ${dive.bottomMinutes} min at ${dive.maxDepth} beyond the no-decompression figure`);
+    const flags = own.filter((dive) => dive.beyondNoDecompression).map((dive) => `${dive.diver}${dive.visitor ? " (visitor)" : ""}: bottom time ${dive.bottomMinutes} min at ${dive.maxDepth} beyond the no-decompression figure`);
     return {
       team,
       headCount: records.plannedTeams.find((planned) => planned.team === team)?.headCount ?? null,
@@ -215,6 +219,7 @@ export function compileDay(records: DayRecords): CompiledDay {
       maxDepth: own.length ? Math.max(...own.map((dive) => dive.maxDepth)) : null,
       cells: [...new Set(own.flatMap((dive) => dive.cells))].sort(),
       flags,
+      visitors: [...new Set(own.filter((dive) => dive.visitor).map((dive) => dive.diver))].sort(),
     };
   });
 

@@ -138,7 +138,7 @@ export function parseCellLabel(label: string): { row: number; col: number } | nu
 }
 
 /** The cell's outline as a closed counter-clockwise ring in project coordinates. */
-export function cellPolygon(grid: CellGrid, row: number, col: number): Position[] {
+export function cellPolygon(grid: Pick<CellGrid, "originX" | "originY" | "rotationDegrees" | "cellSize">, row: number, col: number): Position[] {
   const size = grid.cellSize;
   const u = col * size;
   const v = row * size;

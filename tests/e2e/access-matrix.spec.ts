@@ -166,6 +166,7 @@ const MATRIX: Row[] = [
   row("POST", "projects/:projectId/map", "/projects/{project}/map", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/members", "/projects/{project}/members", "200 403 403 403 403 403 403 200 login"),
   row("POST", "projects/:projectId/members", "/projects/{project}/members", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/plans", "/projects/{project}/plans", "200 200 200 200 200 200 200 200 login"),
   row("GET", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/plans/:date", `/projects/{project}/plans/${PLAN_DATE}`, "400 403 400 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/quantities", "/projects/{project}/quantities", "200 200 200 403 403 403 200 200 login"),

@@ -282,7 +282,8 @@ test("the supervisor logs the day's dives on the plan page and the cell inspecto
   const data = await openMap(page);
   const labels = [...labelIndex(data).keys()];
   const cells = [labels[20], labels[21]];
-  const date = "2030-06-03";
+  // A past day: dives are logged on or before the project's today.
+  const date = "2025-06-03";
   const assigned = await page.request.post(`/api/projects/${projectId}/assignments`, {
     data: { date, team: "Team Gar", cells, hose: "Hose C", notes: "" },
     headers: { Origin: new URL(baseURL!).origin },
@@ -298,7 +299,7 @@ test("the supervisor logs the day's dives on the plan page and the cell inspecto
 
   await page.goto(`/projects/${projectId}/plans/${date}`);
   const form = page.getByRole("form", { name: "Log a dive for Team Gar" });
-  await form.getByLabel("Diver").fill("Florian Bexley");
+  await form.getByLabel("Diver", { exact: true }).selectOption("Florian Bexley");
   await form.getByLabel("Left surface").fill("08:00");
   await form.getByLabel("Left bottom").fill("09:20");
   // 52 ft enters the 55 fsw row, whose figure (74 min as recalled in shared/no-decompression.ts) is under 80 min.
@@ -311,7 +312,7 @@ test("the supervisor logs the day's dives on the plan page and the cell inspecto
   await expect(log.getByTestId("dive-flag").first()).toContainText("beyond the table's figure");
   await expect(log).toContainText("74 min (55 fsw row)");
   // A refused entry says why and keeps the log as it was.
-  await form.getByLabel("Diver").fill("Rosalind Ituarte");
+  await form.getByLabel("Diver", { exact: true }).selectOption("Rosalind Ituarte");
   await form.getByLabel(/Maximum depth/).fill("12");
   await form.getByRole("button", { name: "Log dive" }).click();
   await expect(form.getByRole("alert")).toContainText("give the bottom time in minutes");

@@ -5,7 +5,7 @@ import { Geodesic } from "geographiclib-geodesic";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
-import { demoProjectInput } from "../../db/seeders/demo-scenario";
+import { DEMO_EMERGENCY, demoProjectInput } from "../../db/seeders/demo-scenario";
 import { METRES_PER_UNIT } from "../../shared/units";
 import { createApiToken } from "~/lib/auth/api-token.server";
 import { AuditEvent, CellResult, Membership, Project, User, Zone } from "~/lib/db.server";
@@ -159,6 +159,9 @@ describe("the demo seed's input", () => {
     expect(zones.map((zone) => zone.polygonGeoJson)).toEqual(ZONES.map((zone) => JSON.stringify(zone.polygon)));
     expect([project.gridOriginE, project.gridOriginN, project.cellSize, project.rasterResolution, project.maxEdge, project.rotationDeg, project.tolerance, project.firmShare, project.minCoverage, project.minTeamSize])
       .toEqual([GRID.originEastingFt, GRID.originNorthingFt, GRID.cellSizeFt, GRID.rasterResolutionFt, GRID.maxTriangleEdgeFt, GRID.rotationDegrees, GRID.toleranceFt, GRID.firmShare, GRID.minCoverage, 3]);
+    // The demo's emergency information is stored whole, and every number in it is a fictional one (practice: 555-0100 to 555-0199 are set aside for fiction).
+    expect(project.emergencyInfo).toEqual(DEMO_EMERGENCY);
+    for (const phone of [DEMO_EMERGENCY.hospitalPhone, DEMO_EMERGENCY.chamberPhone, DEMO_EMERGENCY.emergencyNumber]) expect(phone).toMatch(/555-01\d\d$/);
   });
 });
 
@@ -245,6 +248,52 @@ describe("the settings page /projects/<id>/settings", () => {
     const broken = await post(manager.id, projectId, { intent: "work-limit-preview", file: new File(['{"type":"FeatureCollection","features":[]}'], "empty.geojson") });
     expect(broken.init?.status).toBe(400);
     expect(broken.data.errors.workLimit).toBe("The work limit is empty: it holds no polygon.");
+  });
+});
+
+describe("emergency information", () => {
+  const complete = {
+    hospitalName: "Harbor General", hospitalPhone: "(555) 555-0142", chamberName: "Bayside Hyperbaric", chamberPhone: "555-0178",
+    emergencyNumber: "911", siteAddress: "1 Spring Run Rd", accessPoint: "South boat ramp",
+  };
+  const formOf = (fields: Record<string, string>) => ({ intent: "emergency", hospitalName: "", hospitalPhone: "", chamberName: "", chamberPhone: "", emergencyNumber: "", siteAddress: "", accessPoint: "", ...fields });
+
+  it("is saved from its own section of the settings page, checked field by field, with before and after in the audit log", async () => {
+    const projectId = await created(await send("POST", adminToken, springInput({ name: "Settings emergency", zones: [] })));
+    const manager = (await User.findOne({ where: { email: managerEmail } }))!;
+    expect(((await (await send("GET", managerToken, undefined, projectId)).json()) as { settings: { emergency: unknown } }).settings.emergency).toBeNull();
+    const post = async (fields: Record<string, string>) => {
+      const form = new FormData();
+      for (const [name, value] of Object.entries(formOf(fields))) form.set(name, value);
+      const request = await requestAs(manager.id, `/projects/${projectId}/settings`, { method: "POST", body: form });
+      return (await settingsPage.action({ request, params: { projectId: String(projectId) }, context: {} } as never)) as unknown as { data: { errors: Record<string, string>; notice: string | null }; init: { status?: number } | null };
+    };
+    const bad = await post({ hospitalName: "Harbor General", chamberPhone: "call the office" });
+    expect(bad.init?.status).toBe(400);
+    expect(bad.data.errors.hospitalPhone).toBe("give the hospital's phone number with its name");
+    expect(bad.data.errors.chamberPhone).toMatch(/write a phone number with its digits/);
+    expect((await Project.findByPk(projectId))!.emergencyInfo).toBeNull();
+
+    const saved = await post(complete);
+    expect(saved.data.notice).toBe("Saved.");
+    expect((await Project.findByPk(projectId))!.emergencyInfo).toEqual(complete);
+    const audit = await AuditEvent.findOne({ where: { projectId, action: "project-settings-changed" }, order: [["id", "DESC"]] });
+    const detail = audit!.detail as { before: { emergency: unknown }; after: { emergency: unknown } };
+    expect([detail.before.emergency, detail.after.emergency]).toEqual([null, complete]);
+
+    // Every field blank clears it (the day sheet then says none is set).
+    await post({});
+    expect((await Project.findByPk(projectId))!.emergencyInfo).toBeNull();
+  });
+
+  it("is part of the API's PATCH, refused with 422 naming the field", async () => {
+    const projectId = await created(await send("POST", adminToken, springInput({ name: "API emergency", zones: [] })));
+    const refused = await send("PATCH", managerToken, { emergency: { chamberName: "Bayside Hyperbaric" } }, projectId);
+    expect(refused.status).toBe(422);
+    expect(((await refused.json()) as { errors: Array<{ field: string }> }).errors.map((error) => error.field)).toEqual(["emergency.chamberPhone"]);
+    const saved = await send("PATCH", managerToken, { emergency: complete }, projectId);
+    expect(saved.status).toBe(200);
+    expect(((await saved.json()) as { settings: { emergency: unknown } }).settings.emergency).toEqual(complete);
   });
 });
 

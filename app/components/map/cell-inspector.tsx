@@ -34,7 +34,7 @@ function CellDives({ dives, lengthLabel }: { dives: { dives: DiveView[]; caution
           const beyond = dive.noDecompression?.exceeds === true;
           return (
             <li key={dive.id} className={beyond ? "text-danger" : ""}>
-              {dive.date}: {dive.team}, {dive.diver}, {dive.bottomMinutes} min bottom time, {dive.maxDepth.toFixed(1)} {lengthLabel} max depth
+              {dive.date}: {dive.team}, {dive.diver}{dive.visitor ? " (visitor)" : ""}, {dive.bottomMinutes} min bottom time, {dive.maxDepth.toFixed(1)} {lengthLabel} max depth
               {beyond ? <strong> — beyond the table's no-decompression figure</strong> : null}
             </li>
           );
