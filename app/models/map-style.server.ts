@@ -1,5 +1,6 @@
 import { Shoreline, Zone } from "~/lib/db.server";
 import { STATUS_COLOURS } from "../../shared/palette";
+import { CELL_SOURCES } from "~/components/map/cell-sources";
 import { findProject } from "~/lib/auth/project-view.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 
@@ -34,8 +35,7 @@ export async function buildMapStyle(project: ProjectView) {
       "work-limit": { type: "geojson", data: workLimit ? { type: "Feature", properties: {}, geometry: workLimit } : emptyCollection },
       zones: { type: "geojson", data: { type: "FeatureCollection", features: zoneFeatures } },
       shoreline: { type: "geojson", data: shoreline ? JSON.parse(shoreline.geoJson) : emptyCollection },
-      // No tile buffer: cells are filled squares, nothing drawn reaches over a tile's edge.
-      cells: { type: "geojson", data: emptyCollection, buffer: 0 },
+      ...CELL_SOURCES,
       // The few selected and assigned cells, outlined from sources of their own: an outline layer
       // over all 100,000 cells of a bay (even at width 0) doubled each frame and the tiling work.
       "cells-selected": { type: "geojson", data: emptyCollection },
@@ -69,7 +69,7 @@ export async function buildMapStyle(project: ProjectView) {
         paint: { "line-color": "#d4145a", "line-width": 3 },
       },
       {
-        id: "cell-labels", type: "symbol", source: "cells", minzoom: 19,
+        id: "cell-labels", type: "symbol", source: "cell-label-points", minzoom: 19,
         layout: { "text-field": ["get", "label"], "text-font": textFont, "text-size": 10, "text-allow-overlap": false },
         paint: { "text-color": "#1d2528", "text-halo-color": "#ffffff", "text-halo-width": 1.2 },
       },

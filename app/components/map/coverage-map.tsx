@@ -2,7 +2,7 @@ import type { FeatureCollection } from "geojson";
 import type { GeoJSONSource, ImageSource, Map as MapLibreMap } from "maplibre-gl";
 import { useEffect, useRef, useState } from "react";
 import "maplibre-gl/dist/maplibre-gl.css";
-import { buildCellFeatures, type CellsData } from "./cell-features";
+import { buildCellFeatures, buildCellLabelPoints, type CellsData } from "./cell-features";
 import { QUICK_LOOK_FROM_CELLS, cellImageCorners, cellIndexAtLonLat, inLimitCellCount, paintCellImage } from "./cell-image";
 import type { LonLatWorkLimit } from "./clip-cells";
 import { bandColour, cellColour, fillColour, type MapView } from "./paint";
@@ -243,6 +243,8 @@ export function CoverageMap(props: Props) {
       // features as objects cost seconds of cloning on both threads.
       const cellsUrl = URL.createObjectURL(new Blob([JSON.stringify(collection)], { type: "application/json" }));
       (map.getSource("cells") as GeoJSONSource).setData(cellsUrl).finally(() => URL.revokeObjectURL(cellsUrl));
+      const labelsUrl = URL.createObjectURL(new Blob([JSON.stringify(buildCellLabelPoints(collection))], { type: "application/json" }));
+      (map.getSource("cell-label-points") as GeoJSONSource).setData(labelsUrl).finally(() => URL.revokeObjectURL(labelsUrl));
       cellsById.current = new Map(collection.features.map((feature) => [feature.id as number, feature]));
       setMarkedCells(map, "cells-selected", callbacks.current.selected, cellsById.current);
       setMarkedCells(map, "cells-assigned", callbacks.current.assigned, cellsById.current);
