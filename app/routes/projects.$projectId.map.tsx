@@ -407,6 +407,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
         entries: drawn ? bandLegend(drawn.surface, drawn.bounds, unit) : [],
       });
     }
+    if (layers.cells && !data) sections.push({ title: VIEW_TITLES[view], note: loadError ? "The cells could not be read." : "Loading cells…", entries: [] });
     if (layers.cells && data) {
       const zoneName = zoneIndex === null ? null : data.zones[zoneIndex]?.name;
       sections.push({
@@ -422,7 +423,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
       sections.push({ title: "Marked cells", entries: marks });
     }
     return sections;
-  }, [layers.bands, layers.cells, bands, bandSurface, data, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
+  }, [layers.bands, layers.cells, bands, bandSurface, data, loadError, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
 
   if (!loaderData.hasWorkLimit) {
     return <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">Set the project's work limit to see it on the map.</p>;

@@ -130,6 +130,7 @@ test("while the cells load the map already frames the project and says it is loa
   });
   await page.goto(`/projects/${projectId}/map`);
   await expect(page.getByTestId("cells-loading")).toContainText("Loading cells…");
+  await expect(page.getByRole("figure", { name: "Legend" })).toContainText("Loading cells…");
   await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-map-ready", "yes", { timeout: 20_000 });
   const style = await (await page.request.get(`/projects/${projectId}/map/style.json`)).json();
   const flat = (style.sources["work-limit"].data.geometry.coordinates as unknown[]).flat(Infinity) as number[];

@@ -399,7 +399,7 @@ export function CoverageMap(props: Props) {
       <div ref={container} className="h-full w-full" data-testid="coverage-map" data-map-ready={ready ? "yes" : "no"} />
       <div ref={box} className="pointer-events-none absolute hidden border-2 border-dashed border-[#d4145a] bg-[#d4145a]/10" />
       {cellsShown && !loadError ? null : (
-        <div className="pointer-events-none absolute inset-0 flex items-center justify-center">
+        <div className="pointer-events-none absolute inset-x-0 top-14 flex justify-center">
           <p data-testid="cells-loading" aria-live="polite" className={`pointer-events-auto rounded border bg-panel/95 px-4 py-3 text-sm shadow ${loadError ? "border-danger text-danger" : "border-line"}`}>
             {loadError ? `The cells could not be shown: ${loadError}. They are read again every 30 seconds and when you come back to this page.` : (
               <>
