@@ -112,8 +112,11 @@ test("a column on a tile edge is labelled once per cell (AC was drawn split with
   for (const index of places) {
     await page.evaluate(([lon, lat]) => (window as unknown as MapHandle).firmsandMap.jumpTo({ center: [lon, lat], zoom: 20 }), cellCentreLonLat(data, index));
     await settled(page);
-    const shown = await page.evaluate(() => (window as unknown as MapHandle).firmsandMap.queryRenderedFeatures({ layers: ["cell-labels"] }).map((feature) => String(feature.properties.label)));
-    expect(shown.length).toBeGreaterThan(0);
+    // Label points are made once the map is near enough to show them: they arrive just after the move.
+    const labelsShown = () => page.evaluate(() => (window as unknown as MapHandle).firmsandMap.queryRenderedFeatures({ layers: ["cell-labels"] }).map((feature) => String(feature.properties.label)));
+    await expect.poll(async () => (await labelsShown()).length).toBeGreaterThan(0);
+    await settled(page);
+    const shown = await labelsShown();
     const doubled = shown.filter((label, position) => shown.indexOf(label) !== position);
     expect(doubled, `labels drawn twice near grid index ${index}`).toEqual([]);
   }
