@@ -1,5 +1,7 @@
 import { Shoreline, Zone } from "~/lib/db.server";
 import { STATUS_COLOURS } from "../../shared/palette";
+import { CELL_SOURCES } from "~/components/map/cell-sources";
+import { MARK_STYLES, PLANNED_PATTERN } from "~/components/map/paint";
 import { findProject } from "~/lib/auth/project-view.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 
@@ -34,8 +36,7 @@ export async function buildMapStyle(project: ProjectView) {
       "work-limit": { type: "geojson", data: workLimit ? { type: "Feature", properties: {}, geometry: workLimit } : emptyCollection },
       zones: { type: "geojson", data: { type: "FeatureCollection", features: zoneFeatures } },
       shoreline: { type: "geojson", data: shoreline ? JSON.parse(shoreline.geoJson) : emptyCollection },
-      // No tile buffer: cells are filled squares, nothing drawn reaches over a tile's edge.
-      cells: { type: "geojson", data: emptyCollection, buffer: 0 },
+      ...CELL_SOURCES,
       // The few selected and assigned cells, outlined from sources of their own: an outline layer
       // over all 100,000 cells of a bay (even at width 0) doubled each frame and the tiling work.
       "cells-selected": { type: "geojson", data: emptyCollection },
@@ -58,18 +59,15 @@ export async function buildMapStyle(project: ProjectView) {
       { id: "bands-fill", type: "fill", source: "bands", layout: { visibility: "none" }, paint: { "fill-color": "#999999", "fill-opacity": 0.75 } },
       { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": "#3d4a50", "line-width": 1.5, "line-dasharray": [3, 2] } },
       { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": "#a3242a", "line-width": 2 } },
-      { id: "cells-held-fill", type: "fill", source: "cells-held", paint: { "fill-color": "#a3242a", "fill-opacity": 0.35 } },
-      { id: "cells-held", type: "line", source: "cells-held", paint: { "line-color": "#a3242a", "line-width": 2 } },
+      { id: "cells-held-fill", type: "fill", source: "cells-held", paint: { "fill-color": MARK_STYLES.held.fill } },
+      { id: "cells-held", type: "line", source: "cells-held", paint: { "line-color": MARK_STYLES.held.line, "line-width": 2 } },
+      // Planned cells: a hatch over the cell's own colour (the page adds the pattern image) and a
+      // solid outline, so they stand out on every status colour and the status still reads.
+      { id: "cells-assigned-fill", type: "fill", source: "cells-assigned", paint: { "fill-pattern": PLANNED_PATTERN } },
+      { id: "cells-assigned", type: "line", source: "cells-assigned", paint: { "line-color": MARK_STYLES.planned.line, "line-width": 2.5 } },
+      { id: "cells-selected", type: "line", source: "cells-selected", paint: { "line-color": MARK_STYLES.selected.line, "line-width": 3 } },
       {
-        id: "cells-assigned", type: "line", source: "cells-assigned",
-        paint: { "line-color": "#1d2528", "line-width": 2, "line-dasharray": [1, 1] },
-      },
-      {
-        id: "cells-selected", type: "line", source: "cells-selected",
-        paint: { "line-color": "#d4145a", "line-width": 3 },
-      },
-      {
-        id: "cell-labels", type: "symbol", source: "cells", minzoom: 19,
+        id: "cell-labels", type: "symbol", source: "cell-label-points", minzoom: 19,
         layout: { "text-field": ["get", "label"], "text-font": textFont, "text-size": 10, "text-allow-overlap": false },
         paint: { "text-color": "#1d2528", "text-halo-color": "#ffffff", "text-halo-width": 1.2 },
       },

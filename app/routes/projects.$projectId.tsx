@@ -1,4 +1,4 @@
-import { NavLink, Outlet } from "react-router";
+import { NavLink, Outlet, useMatches } from "react-router";
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { ROLE_LABELS } from "~/lib/auth/roles";
@@ -33,13 +33,19 @@ export function meta({ loaderData }: Route.MetaArgs) {
 const linkClass = ({ isActive }: { isActive: boolean }) =>
   `rounded px-3 py-2 text-sm focus-visible:outline-2 focus-visible:outline-lagoon ${isActive ? "bg-lagoon text-white" : "hover:bg-paper"}`;
 
+/** A page whose route sets `handle: { workspace: true }` (the map) fills the window instead of the page column. */
+function useWorkspace(): boolean {
+  return useMatches().some((match) => (match.handle as { workspace?: boolean } | undefined)?.workspace === true);
+}
+
 export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
   const base = `/projects/${loaderData.project.id}`;
+  const workspace = useWorkspace();
   return (
-    <div className="mx-auto max-w-5xl px-6 py-4">
-      <p className="text-sm text-muted print:hidden">Project · your role: {loaderData.roleLabel}</p>
-      <h1 className="text-2xl font-semibold text-lagoon-dark">{loaderData.project.name}</h1>
-      <nav aria-label="Project" className="mt-3 print:hidden flex flex-wrap gap-1 border-b border-line pb-2">
+    <div className={workspace ? "flex min-h-0 flex-1 flex-col px-3 pt-2 sm:px-4" : "mx-auto max-w-5xl px-6 py-4"} data-workspace={workspace ? "" : undefined}>
+      <p className={workspace ? "sr-only" : "text-sm text-muted print:hidden"}>Project · your role: {loaderData.roleLabel}</p>
+      <h1 className={workspace ? "truncate text-lg font-semibold text-lagoon-dark" : "text-2xl font-semibold text-lagoon-dark"}>{loaderData.project.name}</h1>
+      <nav aria-label="Project" className={workspace ? "mt-1 print:hidden flex gap-1 overflow-x-auto border-b border-line pb-1 [&>a]:shrink-0 [&>a]:py-1" : "mt-3 print:hidden flex flex-wrap gap-1 border-b border-line pb-2"}>
         <NavLink end to={base} className={linkClass}>Overview</NavLink>
         <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
         <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
@@ -58,7 +64,7 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
           Stop-work hold in force on {loaderData.heldCellCount} cells: they cannot be assigned. <NavLink className="underline" to={`${base}/holds`}>See holds</NavLink>
         </p>
       ) : null}
-      <div className="mt-6">
+      <div className={workspace ? "mt-2 min-h-0 flex-1" : "mt-6"}>
         <Outlet />
       </div>
     </div>

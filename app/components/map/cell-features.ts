@@ -1,4 +1,5 @@
-import type { FeatureCollection, MultiPolygon, Polygon } from "geojson";
+import { pointOnFeature } from "@turf/turf";
+import type { FeatureCollection, MultiPolygon, Point, Polygon } from "geojson";
 import { clipEdgeCells, type LonLatWorkLimit } from "./clip-cells";
 import { cellLabel, fromGridFrame, type CellGrid } from "../../../shared/grid/cell-grid";
 import { createCrs } from "../../../shared/crs";
@@ -62,6 +63,31 @@ export function buildCellFeatures(data: CellsData, workLimit?: LonLatWorkLimit |
     });
   }
   if (workLimit) clipEdgeCells(features, grid, crs, workLimit);
+  return { type: "FeatureCollection", features };
+}
+
+export interface CellLabelProperties {
+  label: string;
+  z: number;
+}
+
+/**
+ * One point per drawn cell to hang its label on. Labels are not placed on the cell shapes
+ * themselves: MapLibre cuts every shape at the tile edges and places a label on each piece, so a
+ * column straddling a tile edge showed every label twice ("AC4 AC4"). A point lies in one tile.
+ * A whole square's point is its centre; a clipped cell's is a point inside what is drawn of it.
+ */
+export function buildCellLabelPoints(cells: FeatureCollection<Polygon | MultiPolygon, CellProperties>): FeatureCollection<Point, CellLabelProperties> {
+  const features: FeatureCollection<Point, CellLabelProperties>["features"] = [];
+  for (const cell of cells.features) {
+    const geometry = cell.geometry;
+    let at: number[];
+    if (geometry.type === "Polygon" && geometry.coordinates[0].length === 5 && geometry.coordinates.length === 1) {
+      const ring = geometry.coordinates[0];
+      at = [(ring[0][0] + ring[1][0] + ring[2][0] + ring[3][0]) / 4, (ring[0][1] + ring[1][1] + ring[2][1] + ring[3][1]) / 4];
+    } else at = pointOnFeature(cell).geometry.coordinates;
+    features.push({ type: "Feature", id: cell.id, properties: { label: cell.properties.label, z: cell.properties.z }, geometry: { type: "Point", coordinates: at } });
+  }
   return { type: "FeatureCollection", features };
 }
 

@@ -2,14 +2,15 @@ import type { FeatureCollection } from "geojson";
 import type { GeoJSONSource, ImageSource, Map as MapLibreMap } from "maplibre-gl";
 import { useEffect, useRef, useState } from "react";
 import "maplibre-gl/dist/maplibre-gl.css";
-import { buildCellFeatures, type CellsData } from "./cell-features";
+import { buildCellFeatures, buildCellLabelPoints, type CellsData } from "./cell-features";
 import { QUICK_LOOK_FROM_CELLS, cellImageCorners, cellIndexAtLonLat, inLimitCellCount, paintCellImage } from "./cell-image";
 import type { LonLatWorkLimit } from "./clip-cells";
-import { bandColour, cellColour, fillColour, type MapView } from "./paint";
+import { PLANNED_PATTERN, bandColour, cellColour, fillColour, plannedPatternPixels, type BandBounds, type MapView } from "./paint";
+import type { LayerKey } from "./view-url";
 
-export type LayerKey = "cells" | "bands" | "zones" | "workLimit" | "shoreline" | "labels";
+export type { LayerKey };
 export const LAYER_GROUPS: Record<LayerKey, string[]> = {
-  cells: ["cells-fill", "cells-grid", "cells-held-fill", "cells-held", "cells-assigned", "cells-selected"],
+  cells: ["cells-fill", "cells-grid", "cells-held-fill", "cells-held", "cells-assigned-fill", "cells-assigned", "cells-selected"],
   bands: ["bands-fill"],
   zones: ["zones-outline"],
   workLimit: ["work-limit-outline", "work-limit-water"],
@@ -38,6 +39,16 @@ interface Props {
   shorelineStamp?: string;
   /** The work limit (lon/lat): cells along it are drawn clipped to it. */
   workLimit?: LonLatWorkLimit | null;
+  /** The project's extent (west-south, east-north): framed at once, before the cells arrive. */
+  extent?: [[number, number], [number, number]] | null;
+  /** Where to open instead of the extent (a view sent as a link). */
+  initialCamera?: { centre: [number, number]; zoom: number } | null;
+  /** After every move: the centre and zoom, for the address. */
+  onCamera?: (centre: [number, number], zoom: number) => void;
+  /** Keyboard commands for the camera; a new serial runs it once. */
+  cameraCommand?: { kind: "zoom-in" | "zoom-out" | "frame"; serial: number } | null;
+  /** Set when the cells could not be read: said where the cells would be. */
+  loadError?: string | null;
 }
 
 type CellFeature = ReturnType<typeof buildCellFeatures>["features"][number];
@@ -53,6 +64,14 @@ function setMarkedCells(map: MapLibreMap, source: "cells-selected" | "cells-assi
 }
 
 const QUICK_LOOK = "cells-quick-look";
+
+/** The cell labels' minzoom in the style, less a little: their points are made on the way there. */
+const LABELS_FROM_ZOOM = 18;
+
+/** Room kept free around the framed project: the north arrow at top left and, on a wide map, the legend at bottom right. */
+function framePadding(element: HTMLElement) {
+  return element.clientWidth >= 700 ? { top: 40, bottom: 40, left: 70, right: 270 } : { top: 40, bottom: 40, left: 30, right: 30 };
+}
 
 /** Shows (or repaints) a large grid's cells as one image, a pixel per cell, under the cell shapes. */
 function showQuickLook(map: MapLibreMap, data: CellsData, view: MapView, zone: number | null) {
@@ -99,6 +118,8 @@ export function CoverageMap(props: Props) {
   const container = useRef<HTMLDivElement>(null);
   const mapRef = useRef<MapLibreMap | null>(null);
   const [ready, setReady] = useState(false);
+  // The cells are on screen (as the quick look or as shapes): the loading notice goes.
+  const [cellsShown, setCellsShown] = useState(false);
   const cellsById = useRef<ReadonlyMap<number, CellFeature>>(new Map());
   // A large grid shows the quick look until MapLibre has tiled and drawn the cell shapes once.
   const quickLook = useRef(false);
@@ -106,6 +127,16 @@ export function CoverageMap(props: Props) {
   const quickLookShows = useRef("");
   const shapesDrawn = useRef(false);
   const fitted = useRef(false);
+  // The cells whose label points are still to be made: made once the map is near enough to show
+  // labels, after the shapes are drawn (a bay's 100,000 points cost about 0.2 s and 15 MB to hand over).
+  const labelsPending = useRef<ReturnType<typeof buildCellFeatures> | null>(null);
+  const showLabelsIfNear = (map: MapLibreMap) => {
+    const collection = labelsPending.current;
+    if (!collection || !shapesDrawn.current || map.getZoom() < LABELS_FROM_ZOOM) return;
+    labelsPending.current = null;
+    const labelsUrl = URL.createObjectURL(new Blob([JSON.stringify(buildCellLabelPoints(collection))], { type: "application/json" }));
+    (map.getSource("cell-label-points") as GeoJSONSource).setData(labelsUrl).finally(() => URL.revokeObjectURL(labelsUrl));
+  };
   const callbacks = useRef(props);
   callbacks.current = props;
   const box = useRef<HTMLDivElement>(null);
@@ -120,14 +151,34 @@ export function CoverageMap(props: Props) {
       // Labels are drawn from the page's Roboto Mono (no glyphs URL): load it before the first label.
       await Promise.all([document.fonts.load('13px "Roboto Mono"'), document.fonts.load('500 13px "Roboto Mono"')]).catch(() => undefined);
       if (cancelled || !container.current) return;
+      // The first frame already shows the project: the sent view, or the work limit's extent.
+      const { initialCamera, extent } = callbacks.current;
+      const camera = initialCamera
+        ? { center: initialCamera.centre, zoom: initialCamera.zoom }
+        : extent
+          ? { bounds: extent, fitBoundsOptions: { padding: framePadding(container.current) } }
+          : { center: [0, 0] as [number, number], zoom: 1 };
+      fitted.current = Boolean(initialCamera || extent);
       map = new maplibre.Map({
         container: container.current,
         style: `${window.location.origin}/projects/${props.projectId}/map/style.json`,
-        center: [0, 0],
-        zoom: 1,
+        ...camera,
         attributionControl: false,
         boxZoom: false,
+        // The page's own keys move between cells (the cell map's key handler); the map does not take focus.
+        keyboard: false,
         canvasContextAttributes: { preserveDrawingBuffer: true },
+      });
+      // A click on the map focuses the cell map around it, whose keys move between cells.
+      map.getCanvas().removeAttribute("tabindex");
+      map.on("styleimagemissing", (event) => {
+        if (event.id === PLANNED_PATTERN && map && !map.hasImage(PLANNED_PATTERN)) map.addImage(PLANNED_PATTERN, plannedPatternPixels());
+      });
+      map.on("moveend", () => {
+        if (!map) return;
+        showLabelsIfNear(map);
+        const centre = map.getCenter();
+        callbacks.current.onCamera?.([centre.lng, centre.lat], map.getZoom());
       });
       map.addControl(new maplibre.NavigationControl({ showCompass: true }), "top-right");
       map.addControl(new maplibre.ScaleControl({ unit: props.lengthUnit === "m" ? "metric" : "imperial", maxWidth: 120 }), "bottom-left");
@@ -243,6 +294,7 @@ export function CoverageMap(props: Props) {
       // features as objects cost seconds of cloning on both threads.
       const cellsUrl = URL.createObjectURL(new Blob([JSON.stringify(collection)], { type: "application/json" }));
       (map.getSource("cells") as GeoJSONSource).setData(cellsUrl).finally(() => URL.revokeObjectURL(cellsUrl));
+      labelsPending.current = collection;
       cellsById.current = new Map(collection.features.map((feature) => [feature.id as number, feature]));
       setMarkedCells(map, "cells-selected", callbacks.current.selected, cellsById.current);
       setMarkedCells(map, "cells-assigned", callbacks.current.assigned, cellsById.current);
@@ -258,6 +310,8 @@ export function CoverageMap(props: Props) {
         }
         element?.setAttribute("data-cells-drawn", String(collection.features.length));
         element?.setAttribute("data-cells-drawn-as", "shapes");
+        setCellsShown(true);
+        showLabelsIfNear(map);
       });
     };
     const cellCount = inLimitCellCount(data);
@@ -273,6 +327,7 @@ export function CoverageMap(props: Props) {
         if (cancelled) return;
         element?.setAttribute("data-cells-drawn", String(cellCount));
         element?.setAttribute("data-cells-drawn-as", "quick look");
+        setCellsShown(true);
         setTimeout(drawShapes, 0);
       });
     } else drawShapes();
@@ -331,8 +386,8 @@ export function CoverageMap(props: Props) {
     const map = mapRef.current;
     if (!ready || !map || !bands) return;
     (map.getSource("bands") as GeoJSONSource).setData(bands.collection as never);
-    const lowers = bands.collection.features.map((feature) => Number(feature.properties?.lower ?? -1e9));
-    map.setPaintProperty("bands-fill", "fill-color", bandColour(bands.surface, lowers) as never);
+    const bounds = bands.collection.features.map((feature) => (feature.properties ?? { lower: null, upper: null }) as BandBounds);
+    map.setPaintProperty("bands-fill", "fill-color", bandColour(bands.surface, bounds) as never);
   }, [ready, bands]);
 
   useEffect(() => {
@@ -341,12 +396,34 @@ export function CoverageMap(props: Props) {
     map.easeTo({ center: flyTo.lonLat, zoom: Math.max(map.getZoom(), 19), duration: 300 });
   }, [ready, flyTo]);
 
+  const { cameraCommand, extent, loadError } = props;
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !cameraCommand) return;
+    if (cameraCommand.kind === "zoom-in") map.zoomIn({ duration: 200 });
+    else if (cameraCommand.kind === "zoom-out") map.zoomOut({ duration: 200 });
+    else if (extent && container.current) map.fitBounds(extent, { padding: framePadding(container.current), duration: 300 });
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [ready, cameraCommand]);
+
   return (
-    <div className="relative h-[560px] w-full overflow-hidden rounded border border-line">
+    <div className="relative h-full w-full overflow-hidden">
       {/* MapLibre's stylesheet sets its container to position: relative, overriding a Tailwind
           "absolute inset-0" and collapsing it to no height: size it by the parent instead. */}
       <div ref={container} className="h-full w-full" data-testid="coverage-map" data-map-ready={ready ? "yes" : "no"} />
       <div ref={box} className="pointer-events-none absolute hidden border-2 border-dashed border-[#d4145a] bg-[#d4145a]/10" />
+      {cellsShown && !loadError ? null : (
+        <div className="pointer-events-none absolute inset-x-0 top-14 flex justify-center">
+          <p data-testid="cells-loading" aria-live="polite" className={`pointer-events-auto rounded border bg-panel/95 px-4 py-3 text-sm shadow ${loadError ? "border-danger text-danger" : "border-line"}`}>
+            {loadError ? `The cells could not be shown: ${loadError}. They are read again every 30 seconds and when you come back to this page.` : (
+              <>
+                <span aria-hidden className="mr-2 inline-block h-3 w-3 animate-spin rounded-full border-2 border-lagoon border-t-transparent align-middle" />
+                Loading cells…
+              </>
+            )}
+          </p>
+        </div>
+      )}
     </div>
   );
 }

@@ -5,8 +5,11 @@ import type { CellsData } from "./cell-features";
 export type MapView = "status" | "thickness" | "removed";
 
 export interface LegendEntry {
+  /** A CSS background: a colour, or a pattern for hatched marks. */
   colour: string;
   label: string;
+  /** A CSS colour for an outlined mark's border. */
+  outline?: string;
 }
 
 /** Remaining-thickness steps (project length unit): the tolerance, then steps a crew acts on (practice). */
@@ -76,11 +79,74 @@ export function legendFor(view: MapView, data: CellsData): LegendEntry[] {
   return [...entries, { colour: STATUS_COLOURS["no-data"], label: "No data" }];
 }
 
-/** Band fill by the band's lower bound, light to dark. */
-export function bandColour(surface: "remaining" | "depth", lowers: number[]): unknown {
-  const sorted = [...new Set(lowers)].sort((a, b) => a - b);
-  const colours = surface === "remaining" ? sedimentRamp(sorted.length + 1) : coolRamp(sorted.length + 1);
-  const expression: unknown[] = ["step", ["coalesce", ["get", "lower"], -1e9], colours[0]];
-  sorted.forEach((lower, index) => expression.push(lower, colours[index + 1]));
-  return sorted.length === 0 ? colours[0] : expression;
+/** A band's bounds as the bands API gives them (null for an open end). */
+export interface BandBounds {
+  lower: number | null;
+  upper: number | null;
 }
+
+/** Bands' colours by lower bound, light to dark: the one rule behind the fill and the legend. */
+function bandRule(surface: "remaining" | "depth", bands: readonly BandBounds[]) {
+  const lowers = [...new Set(bands.map((band) => band.lower ?? -1e9))].sort((a, b) => a - b);
+  const colours = surface === "remaining" ? sedimentRamp(lowers.length + 1) : coolRamp(lowers.length + 1);
+  const colourOf = (lower: number | null) => {
+    let colour = colours[0];
+    for (let index = 0; index < lowers.length && (lower ?? -1e9) >= lowers[index]; index++) colour = colours[index + 1];
+    return colour;
+  };
+  return { lowers, colours, colourOf };
+}
+
+/** Band fill by the band's lower bound, light to dark. */
+export function bandColour(surface: "remaining" | "depth", bands: readonly BandBounds[]): unknown {
+  const { lowers, colours } = bandRule(surface, bands);
+  const expression: unknown[] = ["step", ["coalesce", ["get", "lower"], -1e9], colours[0]];
+  lowers.forEach((lower, index) => expression.push(lower, colours[index + 1]));
+  return lowers.length === 0 ? colours[0] : expression;
+}
+
+/** The legend of the bands drawn: one entry per band, shallow to deep, in the project's length unit. */
+export function bandLegend(surface: "remaining" | "depth", bands: readonly BandBounds[], unit: string): LegendEntry[] {
+  const { colourOf } = bandRule(surface, bands);
+  return [...bands]
+    .sort((a, b) => (a.lower ?? -Infinity) - (b.lower ?? -Infinity))
+    .map((band) => ({
+      colour: colourOf(band.lower),
+      label: band.lower === null ? `under ${band.upper} ${unit}` : band.upper === null ? `${band.lower} ${unit} and more` : `${band.lower} to ${band.upper} ${unit}`,
+    }));
+}
+
+/** How the marked cells are drawn (coverage-map.tsx paints them; the legend shows the same). */
+export const MARK_STYLES = {
+  planned: { line: "#1d2528", hatchDark: "#1d2528", hatchLight: "#ffffff" },
+  held: { line: "#a3242a", fill: "rgba(163, 36, 42, 0.35)" },
+  selected: { line: "#d4145a" },
+} as const;
+
+/** The name of the planned cells' hatch image in the map style; plannedPatternPixels draws it. */
+export const PLANNED_PATTERN = "planned-hatch";
+
+/** The planned cells' hatch: 8 × 8 RGBA pixels, a dark diagonal with a light edge, clear between. */
+export function plannedPatternPixels(): { width: number; height: number; data: Uint8Array } {
+  const size = 8;
+  const data = new Uint8Array(size * size * 4);
+  const paint = (x: number, y: number, rgb: [number, number, number], alpha: number) => {
+    const offset = (y * size + x) * 4;
+    data.set([...rgb, alpha], offset);
+  };
+  for (let y = 0; y < size; y++) {
+    for (let x = 0; x < size; x++) {
+      const diagonal = (x + y) % size;
+      if (diagonal === 0 || diagonal === 1) paint(x, y, [29, 37, 40], 255);
+      else if (diagonal === 2) paint(x, y, [255, 255, 255], 230);
+    }
+  }
+  return { width: size, height: size, data };
+}
+
+/** Legend swatches (CSS backgrounds) for the marked cells. */
+export const MARK_SWATCHES = {
+  planned: `repeating-linear-gradient(135deg, ${MARK_STYLES.planned.hatchDark} 0 2px, ${MARK_STYLES.planned.hatchLight} 2px 3px, transparent 3px 7px)`,
+  held: `${MARK_STYLES.held.fill}`,
+  selected: "transparent",
+} as const;

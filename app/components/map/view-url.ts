@@ -1,0 +1,85 @@
+import { z } from "zod";
+import type { MapView } from "./paint";
+
+/**
+ * The map's view in its address, so a supervisor can send a link to what they see: centre, zoom,
+ * coloured view, layers, band surface, zone, selected cells and the plan date shown. Every part is
+ * optional and read on its own: a link with one bad part still opens the map, with the rest kept.
+ */
+export type LayerKey = "cells" | "bands" | "zones" | "workLimit" | "shoreline" | "labels";
+export const LAYER_KEYS: readonly LayerKey[] = ["cells", "bands", "zones", "workLimit", "shoreline", "labels"];
+export const DEFAULT_LAYERS: Readonly<Record<LayerKey, boolean>> = { cells: true, bands: false, zones: true, workLimit: true, shoreline: true, labels: true };
+
+export interface MapViewState {
+  /** Longitude, latitude of the map's centre; with `zoom`, or neither. */
+  centre: [number, number] | null;
+  zoom: number | null;
+  view: MapView;
+  layers: Record<LayerKey, boolean>;
+  bandSurface: "remaining" | "depth";
+  /** The zone's id (not its place in the list: zones may be reordered between sending and opening). */
+  zoneId: number | null;
+  /** Selected cells by label, as the crews write them. */
+  cells: string[];
+  /** The plan date whose cells are shown as planned (YYYY-MM-DD); null for tomorrow. */
+  planDate: string | null;
+}
+
+const centreSchema = z
+  .string()
+  .transform((text) => text.split(",").map(Number))
+  .pipe(z.tuple([z.number().min(-180).max(180), z.number().min(-85).max(85)]));
+const zoomSchema = z.coerce.number().min(0).max(24);
+const viewSchema = z.enum(["status", "thickness", "removed"]);
+const layersSchema = z
+  .string()
+  .transform((text) => (text === "" ? [] : text.split(",")))
+  .pipe(z.array(z.enum(LAYER_KEYS as [LayerKey, ...LayerKey[]])));
+const bandSurfaceSchema = z.enum(["remaining", "depth"]);
+const zoneSchema = z.coerce.number().int().positive();
+// Labels as the grid writes them: column letters and row number, either part with a leading "-".
+const cellsSchema = z
+  .string()
+  .transform((text) => text.split(",").map((label) => label.trim().toUpperCase()).filter(Boolean))
+  .pipe(z.array(z.string().regex(/^-?[A-Z]{1,4}-?\d{1,6}$/)).max(5000));
+const dateSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/).refine((text) => !Number.isNaN(Date.parse(`${text}T00:00:00Z`)));
+
+function read<T>(params: URLSearchParams, key: string, schema: z.ZodType<T>): T | null {
+  const value = params.get(key);
+  if (value === null) return null;
+  const parsed = schema.safeParse(value);
+  return parsed.success ? parsed.data : null;
+}
+
+export function parseMapView(params: URLSearchParams): MapViewState {
+  const centre = read(params, "c", centreSchema);
+  const zoom = read(params, "z", zoomSchema);
+  const layerList = read(params, "layers", layersSchema);
+  return {
+    centre: centre && zoom !== null ? centre : null,
+    zoom: centre && zoom !== null ? zoom : null,
+    view: read(params, "view", viewSchema) ?? "status",
+    layers: layerList ? (Object.fromEntries(LAYER_KEYS.map((key) => [key, layerList.includes(key)])) as Record<LayerKey, boolean>) : { ...DEFAULT_LAYERS },
+    bandSurface: read(params, "bands", bandSurfaceSchema) ?? "remaining",
+    zoneId: read(params, "zone", zoneSchema),
+    cells: read(params, "cells", cellsSchema) ?? [],
+    planDate: read(params, "date", dateSchema),
+  };
+}
+
+/** The search part for a view; defaults are left out so a plain view keeps a plain address. */
+export function mapViewSearch(state: MapViewState): string {
+  const params = new URLSearchParams();
+  if (state.centre && state.zoom !== null) {
+    params.set("c", `${state.centre[0].toFixed(6)},${state.centre[1].toFixed(6)}`);
+    params.set("z", state.zoom.toFixed(2));
+  }
+  if (state.view !== "status") params.set("view", state.view);
+  if (LAYER_KEYS.some((key) => state.layers[key] !== DEFAULT_LAYERS[key])) params.set("layers", LAYER_KEYS.filter((key) => state.layers[key]).join(","));
+  if (state.layers.bands && state.bandSurface !== "remaining") params.set("bands", state.bandSurface);
+  if (state.zoneId !== null) params.set("zone", String(state.zoneId));
+  if (state.cells.length > 0) params.set("cells", state.cells.join(","));
+  if (state.planDate) params.set("date", state.planDate);
+  const text = params.toString().replaceAll("%2C", ",");
+  return text ? `?${text}` : "";
+}
