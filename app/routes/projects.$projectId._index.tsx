@@ -1,6 +1,6 @@
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
-import { ROLE_LABELS } from "~/lib/auth/roles";
+import { roleLabel } from "~/lib/auth/roles";
 import { ProgressOverview } from "~/components/progress-overview";
 import { ReconciliationPanel } from "~/components/dewatering/reconciliation-panel";
 import { loadProgress } from "~/models/progress.server";
@@ -27,7 +27,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     project,
     unitLabel: unitLabel(project.lengthUnit, "length-long"),
     unit: unitLabel(project.lengthUnit),
-    roleLabel: role ? ROLE_LABELS[role] : "Site administrator (not a member)",
+    roleLabel: role ? roleLabel(role) : `${roleLabel(null)} (not a member)`,
     zones,
     progress,
     progressLinks,
