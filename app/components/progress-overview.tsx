@@ -50,7 +50,7 @@ function FigureCells({ figures, unit }: { figures: ProgressFigures; unit: string
         <Bar percent={figures.percentCellsAtFirmSand} label="cells at firm sand" />
       </td>
       <td className="figures px-2 py-1">{figures.cellsConfirmed}</td>
-      <td className="figures px-2 py-1">{figures.lastSurveyOn ?? "–"}</td>
+      <td className="figures whitespace-nowrap px-2 py-1">{figures.lastSurveyOn ? <time dateTime={figures.lastSurveyOn}>{figures.lastSurveyOn}</time> : "–"}</td>
     </>
   );
 }
