@@ -174,7 +174,7 @@ export function ProgressOverview({ progress, links }: { progress: ProgressView; 
         </p>
       </section>
       {progress.hasFigures ? (
-        <div className="grid gap-6 lg:grid-cols-2">
+        <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
           <section aria-labelledby="cumulative-heading" className="rounded border border-line bg-panel p-4">
             <h2 id="cumulative-heading" className="font-semibold">Removed volume over time</h2>
             <CumulativeRemovedChart dates={progress.series.dates} series={series} unit={unit} />

@@ -31,7 +31,7 @@ type TurbidityChartProps = {
 
 export function TurbidityChart(props: TurbidityChartProps) {
   const [ref, width] = useMeasuredWidth<HTMLDivElement>(640);
-  return <div ref={ref} className="w-full max-w-3xl"><TurbiditySvg {...props} width={width} /></div>;
+  return <div ref={ref} className="w-full min-w-0 max-w-3xl overflow-hidden"><TurbiditySvg {...props} width={width} /></div>;
 }
 
 function TurbiditySvg({ station, readings, missed, fromMs, toMs, unit = "NTU", dayLabel, width: WIDTH }: TurbidityChartProps & { width: number }) {
