@@ -1,3 +1,4 @@
+import { unitLabel } from "../../shared/units";
 import { Op } from "sequelize";
 import { z } from "zod";
 import { compileDay, localDayBounds, type CompiledDay, type DayInterruption } from "../../shared/daily-report/compile";
@@ -80,6 +81,7 @@ export async function compileReport(project: ProjectView, date: string, entered:
     date,
     timeZone: project.timeZone,
     nowMs,
+    lengthLabel: unitLabel(project.lengthUnit),
     dives: dives.map((dive) => ({ team: dive.team, diver: dive.diver, bottomMinutes: dive.bottomMinutes, maxDepth: dive.maxDepth, cells: dive.cells, beyondNoDecompression: dive.noDecompression?.exceeds === true })),
     plannedTeams: [...teams].map(([team, headCount]) => ({ team, headCount })),
     // The dry solids and polymer each shift stored when it was logged: the figures the shift log shows.
