@@ -88,9 +88,9 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
       <h1 className="text-2xl font-semibold">Quantities report</h1>
       <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-6 gap-y-1 text-sm">
         <dt className="text-muted">Project</dt><dd>{project.name}</dd>
-        <dt className="text-muted">Baseline survey</dt><dd className="figures">{loaderData.baseline ? `${loaderData.baseline.surveyedOn} (#${loaderData.baseline.id}, ${loaderData.baseline.datum})` : "none"}</dd>
-        <dt className="text-muted">Compared with</dt><dd className="figures">{loaderData.latest ? `${loaderData.latest.surveyedOn} ${loaderData.latest.kind} (#${loaderData.latest.id})` : "none"}</dd>
-        <dt className="text-muted">Coordinate system</dt><dd className="figures">{project.crs}, {project.lengthLabelLong}</dd>
+        <dt className="text-muted">Baseline survey</dt><dd>{loaderData.baseline ? <><time className="figures" dateTime={loaderData.baseline.surveyedOn}>{loaderData.baseline.surveyedOn}</time> (<span className="figures">#{loaderData.baseline.id}</span>, {loaderData.baseline.datum})</> : "none"}</dd>
+        <dt className="text-muted">Compared with</dt><dd>{loaderData.latest ? <><time className="figures" dateTime={loaderData.latest.surveyedOn}>{loaderData.latest.surveyedOn}</time> {loaderData.latest.kind} (<span className="figures">#{loaderData.latest.id}</span>)</> : "none"}</dd>
+        <dt className="text-muted">Coordinate system</dt><dd><span className="figures">{project.crs}</span>, {project.lengthLabelLong}</dd>
         <dt className="text-muted">Method</dt><dd>{loaderData.method}</dd>
         <dt className="text-muted">Prepared</dt><dd><span className="figures">{loaderData.preparedOn}</span> by {loaderData.preparedBy}</dd>
       </dl>
