@@ -115,9 +115,9 @@ export default function SurveyPage({ loaderData, actionData }: Route.ComponentPr
                 {soundings.soundings.map((sounding) => (
                   <tr key={sounding.sourceRow} className="border-t border-line">
                     <td className="px-2">{sounding.sourceRow}</td><td className="px-2">{sounding.pointId ?? "—"}</td>
-                    <td className="px-2 text-right">{number(sounding.easting)}</td><td className="px-2 text-right">{number(sounding.northing)}</td>
-                    <td className="px-2 text-right">{number(sounding.depth)}</td><td className="px-2 text-right">{number(sounding.probe)}</td>
-                    <td className="px-2 text-right">{number(sounding.elevation)}</td><td className="px-2 text-right">{number(sounding.refusalElevation)}</td>
+                    <td className="figures px-2 text-right">{number(sounding.easting)}</td><td className="figures px-2 text-right">{number(sounding.northing)}</td>
+                    <td className="figures px-2 text-right">{number(sounding.depth)}</td><td className="figures px-2 text-right">{number(sounding.probe)}</td>
+                    <td className="figures px-2 text-right">{number(sounding.elevation)}</td><td className="figures px-2 text-right">{number(sounding.refusalElevation)}</td>
                     <td className="px-2">{sounding.time ?? "—"}</td>
                   </tr>
                 ))}
