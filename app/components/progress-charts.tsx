@@ -126,7 +126,7 @@ export function ProductionChart(props: { intervals: ProductionInterval[]; unit: 
   const [ref, width] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
   if (props.intervals.length === 0) return <p className="text-sm text-muted">Production needs two survey dates.</p>;
   // Each bar keeps room for its labels; more bars than the panel holds scroll sideways.
-  return <div ref={ref} className="w-full min-w-0 overflow-x-auto"><ProductionSvg {...props} width={width} /></div>;
+  return <div ref={ref} className="w-full min-w-0 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Production chart, scrollable"><ProductionSvg {...props} width={width} /></div>;
 }
 
 /** Room under and beside each bar for its four label lines at 12 px ("05-26→", "10-27", "12 d", "weekdays"). */

@@ -60,7 +60,7 @@ export function ZoneTable({ progress }: { progress: ProgressView }) {
   const unit = progress.volumeLabel;
   const zones = sort ? [...progress.zones].sort((a, b) => (sort.ascending ? 1 : -1) * compare(a, b, sort.key)) : progress.zones;
   return (
-    <div className="overflow-x-auto">
+    <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Progress per zone, scrollable">
       <table className="w-full text-right text-sm" data-testid="zone-table">
         <caption className="sr-only">Progress per zone; select a column heading to sort</caption>
         <thead>

@@ -136,7 +136,8 @@ export default function ProjectAudit({ loaderData }: Route.ComponentProps) {
           )}
         </div>
       ) : (
-        <div className="mt-3 overflow-x-auto">
+        // Scrolls sideways on a narrow screen; focusable so a keyboard can scroll it too.
+        <div className="mt-3 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Audit entries">
           <table className="w-full text-left text-sm">
             <thead>
               <tr className="border-b border-line">
@@ -148,9 +149,9 @@ export default function ProjectAudit({ loaderData }: Route.ComponentProps) {
               {events.map((event) => (
                 <tr key={event.id} className="border-b border-line align-top">
                   <td className="figures whitespace-nowrap py-1 pr-4"><time dateTime={event.at}>{event.localDay} {event.localTime}</time></td>
-                  <td className="pr-4">{event.actor ?? "—"}</td>
+                  <td className="pr-4 [overflow-wrap:anywhere]">{event.actor ?? "—"}</td>
                   <td className="pr-4">{auditActionLabel(event.action)}</td>
-                  <td className="pr-4 break-words">{describe(event.detail)}</td>
+                  <td className="pr-4 [overflow-wrap:anywhere]">{describe(event.detail)}</td>
                   <td className="figures">{event.ip ?? "—"}</td>
                 </tr>
               ))}

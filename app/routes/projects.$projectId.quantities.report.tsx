@@ -94,7 +94,7 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
         <dt className="text-muted">Method</dt><dd>{loaderData.method}</dd>
         <dt className="text-muted">Prepared</dt><dd><span className="figures">{loaderData.preparedOn}</span> by {loaderData.preparedBy}</dd>
       </dl>
-      <div className="mt-6 overflow-x-auto"><table className="w-full border-collapse text-right text-sm" aria-label="Totals per zone">
+      <div className="mt-6 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Totals per zone, scrollable"><table className="w-full border-collapse text-right text-sm" aria-label="Totals per zone">
         <thead>
           <tr className="border-b-2 border-ink">
             {/* Padded and bottom-aligned: headers that wrap stay apart from their neighbours. */}

@@ -87,7 +87,7 @@ export default function WaterQualityCompliance({ loaderData }: Route.ComponentPr
               missed={station.kind === "compliance" ? missed : []} fromMs={loaderData.fromMs} toMs={loaderData.toMs} dayLabel={dayLabel} />
           ) : null}
           {readings.length === 0 ? <p className="text-sm text-muted">No readings in this period.</p> : (
-            <div className="overflow-x-auto">
+            <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label={`Readings at ${station.name}, scrollable`}>
               <table className="w-full text-sm" data-testid={`compliance-table-${station.name}`}>
                 <thead><tr className="border-b border-line text-left align-bottom"><th scope="col" className="py-1 pr-3">Time</th><th scope="col" className="pr-3 text-right">Value</th><th scope="col" className="pr-3 text-right">Background</th><th scope="col" className="pr-3 text-right">Difference</th><th scope="col" className="pr-3 text-right">Limit</th><th scope="col" className="pr-3">Verdict</th><th scope="col">Sampled by</th></tr></thead>
                 <tbody>
