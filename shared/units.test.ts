@@ -60,10 +60,12 @@ describe("defaults and labels", () => {
     expect(unitLabel("us-ft")).toBe("ftUS");
     expect(unitLabel("ft", "volume")).toBe("yd³");
     expect(unitLabel("m", "area")).toBe("m²");
-    // The one set of words for messages and pages: the survey foot named in full, the international foot plain.
-    expect(["us-ft", "ft", "m"].map((unit) => unitLabel(unit as "us-ft", "length-long"))).toEqual(["US survey feet", "feet", "metres"]);
-    // A picker tells the two feet apart, and names the volume unit that follows (NIST SP 811).
-    expect(["us-ft", "ft", "m"].map((unit) => unitLabel(unit as "us-ft", "length-choice"))).toEqual(["US survey feet", "international feet", "metres"]);
+    // One long label per unit, for messages, pages and pickers alike: the two feet told apart (NIST SP 811).
+    expect(["us-ft", "ft", "m"].map((unit) => unitLabel(unit as "us-ft", "length-long"))).toEqual(["US survey feet", "international feet", "metres"]);
+    // One short label per unit: EPSG's abbreviations; no two units share one.
+    const shorts = ["us-ft", "ft", "m"].map((unit) => unitLabel(unit as "us-ft"));
+    expect(shorts).toEqual(["ftUS", "ft", "m"]);
+    expect(new Set(shorts).size).toBe(3);
     expect(unitLabel("us-ft", "volume-long")).toBe("cubic yards");
     expect(unitLabel("m", "volume-long")).toBe("cubic metres");
   });

@@ -91,31 +91,31 @@ export function areaFromAcres(acres: number, unit: LengthUnit): number {
   return (acres * SQUARE_METRES_PER_ACRE) / squareMetresPerSquareUnit(unit);
 }
 
+/**
+ * One short and one long label per unit, used for every figure, heading, picker and export: the
+ * short one is EPSG's abbreviation (as in "NAD83 / Florida West (ftUS)"), the long one tells the two
+ * feet apart. No other spelling ("us-ft", "US feet", a bare "ft" for survey feet) is shown.
+ */
 const LENGTH_LABELS: Record<LengthUnit, { short: string; long: string }> = {
   "us-ft": { short: "ftUS", long: "US survey feet" },
-  ft: { short: "ft", long: "feet" },
+  ft: { short: "ft", long: "international feet" },
   m: { short: "m", long: "metres" },
 };
-
-/** The names a unit picker offers: the two feet told apart. */
-const LENGTH_CHOICES: Record<LengthUnit, string> = { "us-ft": "US survey feet", ft: "international feet", m: "metres" };
 const VOLUME_NAMES: Record<VolumeUnit, string> = { yd3: "cubic yards", m3: "cubic metres" };
 
 const AREA_LABELS: Record<LengthUnit, string> = { "us-ft": "ft²", ft: "ft²", m: "m²" };
 const VOLUME_LABELS: Record<VolumeUnit, string> = { yd3: "yd³", m3: "m³" };
 
-/** Labels for display: `unitLabel("us-ft")` → "ftUS"; `unitLabel("m", "volume")` → "m³". */
+/** Labels for display: `unitLabel("us-ft")` → "ftUS"; `unitLabel("m", "volume")` → "m³". The one unit-label function. */
 export function unitLabel(
   unit: LengthUnit,
-  kind: "length" | "length-long" | "length-choice" | "area" | "volume" | "volume-long" = "length",
+  kind: "length" | "length-long" | "area" | "volume" | "volume-long" = "length",
 ): string {
   switch (kind) {
     case "length":
       return LENGTH_LABELS[unit].short;
     case "length-long":
       return LENGTH_LABELS[unit].long;
-    case "length-choice":
-      return LENGTH_CHOICES[unit];
     case "area":
       return AREA_LABELS[unit];
     case "volume":

@@ -6,7 +6,7 @@ export function LengthUnitOptions({ withVolume = false }: { withVolume?: boolean
     <>
       {lengthUnitSchema.options.map((unit) => (
         <option key={unit} value={unit}>
-          {unitLabel(unit, "length-choice")}{withVolume ? ` (volumes in ${unitLabel(unit, "volume-long")})` : ""}
+          {unitLabel(unit, "length-long")}{withVolume ? ` (volumes in ${unitLabel(unit, "volume-long")})` : ""}
         </option>
       ))}
     </>

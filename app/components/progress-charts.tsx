@@ -2,13 +2,27 @@ import { linearScale, niceTicks, spreadLabels } from "../../shared/progress/char
 import { dayNumber } from "../../shared/progress/calendar-days";
 import type { ProductionInterval } from "../../shared/progress/production";
 import { formatNumber } from "./progress-figures";
+import { useMeasuredWidth } from "./use-measured-width";
 
-/** Server-rendered SVG charts of progress: readable before (and without) scripts. */
+/**
+ * SVG charts of progress, drawn at the width of their panel (measured in the browser; 640 px
+ * before scripts run), so one user unit is one pixel and no text is ever under 12 px.
+ */
 
-const WIDTH = 640;
-const HEIGHT = 260;
-const MARGIN = { top: 24, right: 120, bottom: 36, left: 64 };
+/** The smallest text any chart draws, in CSS pixels. */
+export const CHART_FONT_PX = 12;
+/** Roboto Mono's advance is 0.6 em: the width of a figure label, for spacing labels apart. */
+const MONO_CHAR_PX = CHART_FONT_PX * 0.6;
+const FALLBACK_WIDTH = 640;
 const LINE_COLOURS = ["#14606e", "#9a5b00", "#6b4c9a", "#2f6f3e", "#a3242a", "#3c6e9f"];
+
+const clamp = (value: number, low: number, high: number) => Math.min(high, Math.max(low, value));
+
+interface Frame {
+  width: number;
+  height: number;
+  margin: { top: number; right: number; bottom: number; left: number };
+}
 
 export interface RemovedSeries {
   name: string;
@@ -16,40 +30,68 @@ export interface RemovedSeries {
   total?: boolean;
 }
 
-function ValueAxis({ ticks, y, unit }: { ticks: number[]; y: (value: number) => number; unit: string }) {
+function ValueAxis({ frame, ticks, y, unit }: { frame: Frame; ticks: number[]; y: (value: number) => number; unit: string }) {
+  const { margin, width } = frame;
   return (
-    <g className="figures" fontSize={11} fill="#5b6870">
+    <g className="figures" fontSize={CHART_FONT_PX} fill="#5b6870">
       {ticks.map((tick) => (
         <g key={tick}>
-          <line x1={MARGIN.left} x2={WIDTH - MARGIN.right} y1={y(tick)} y2={y(tick)} stroke="#d5dcdf" />
-          <text x={MARGIN.left - 6} y={y(tick) + 4} textAnchor="end">{formatNumber(tick)}</text>
+          <line x1={margin.left} x2={width - margin.right} y1={y(tick)} y2={y(tick)} stroke="#d5dcdf" />
+          <text x={margin.left - 6} y={y(tick) + 4} textAnchor="end">{formatNumber(tick)}</text>
         </g>
       ))}
-      <text x={MARGIN.left - 6} y={MARGIN.top - 12} fontSize={11} textAnchor="end">{unit}</text>
+      <text x={4} y={margin.top - 10}>{unit}</text>
     </g>
   );
 }
 
+/** Which of the positions (in order) get a label, so that labels on alternate rows keep `gap` apart. */
+function thinLabels(positions: number[], gap: number): boolean[] {
+  let last = -Infinity;
+  return positions.map((position) => {
+    if (position - last < gap / 2) return false;
+    last = position;
+    return true;
+  });
+}
+
 /** Cumulative removed volume by survey date: one line per zone and a heavier one for the project. */
-export function CumulativeRemovedChart({ dates, series, unit }: { dates: string[]; series: RemovedSeries[]; unit: string }) {
-  if (dates.length === 0) return <p className="text-sm text-muted">No surveys yet.</p>;
+export function CumulativeRemovedChart(props: { dates: string[]; series: RemovedSeries[]; unit: string }) {
+  const [ref, width] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
+  if (props.dates.length === 0) return <p className="text-sm text-muted">No surveys yet.</p>;
+  return <div ref={ref} className="w-full min-w-0 overflow-hidden"><CumulativeRemovedSvg {...props} width={width} /></div>;
+}
+
+function CumulativeRemovedSvg({ dates, series, unit, width }: { dates: string[]; series: RemovedSeries[]; unit: string; width: number }) {
+  const longestName = Math.max(...series.map((line) => line.name.length));
+  const frame: Frame = {
+    width,
+    height: clamp(Math.round(width * 0.55), 220, 320),
+    margin: { top: 28, right: clamp(longestName * 7 + 14, 60, Math.round(width * 0.34)), bottom: 2 * CHART_FONT_PX + 20, left: 56 },
+  };
+  const { margin, height } = frame;
   const days = dates.map(dayNumber);
-  const x = linearScale([days[0], days[days.length - 1]], [MARGIN.left, WIDTH - MARGIN.right]);
+  const x = linearScale([days[0], days[days.length - 1]], [margin.left, width - margin.right]);
   const max = Math.max(0, ...series.flatMap((line) => line.values.filter((value): value is number => value !== null)));
   const ticks = niceTicks(max);
-  const y = linearScale([0, ticks[ticks.length - 1]], [HEIGHT - MARGIN.bottom, MARGIN.top]);
+  const y = linearScale([0, ticks[ticks.length - 1]], [height - margin.bottom, margin.top]);
   // End labels sit beside each line's last value, pushed apart where lines end close together.
   const lastValues = series.map((line) => [...line.values].reverse().find((value): value is number => value !== null) ?? 0);
-  const labelY = spreadLabels(lastValues.map((value) => y(value) + 4), 12, MARGIN.top, HEIGHT - MARGIN.bottom + 4);
+  const labelY = spreadLabels(lastValues.map((value) => y(value) + 4), CHART_FONT_PX + 2, margin.top, height - margin.bottom + 4);
+  // Dates as MM-DD on two alternating rows, thinned where they would touch.
+  const shown = thinLabels(days.map((day) => x(day)), 5 * MONO_CHAR_PX + 8);
+  let row = 0;
   return (
-    <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-labelledby="cumulative-title" className="h-auto w-full" data-testid="cumulative-chart">
+    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="cumulative-title" className="block max-w-full" data-testid="cumulative-chart">
       {/* One string: React renders a <title> of several text children empty on the server. */}
       <title id="cumulative-title">{`Cumulative removed volume by survey date, per zone and for the project (${unit})`}</title>
-      <ValueAxis ticks={ticks} y={y} unit={unit} />
-      <g className="figures" fontSize={10} fill="#5b6870">
-        {dates.map((date, index) => (
-          <text key={date} x={x(days[index])} y={HEIGHT - MARGIN.bottom + 14 + (index % 2) * 11} textAnchor="middle">{date.slice(5)}</text>
-        ))}
+      <ValueAxis frame={frame} ticks={ticks} y={y} unit={unit} />
+      <g className="figures" fontSize={CHART_FONT_PX} fill="#5b6870">
+        {dates.map((date, index) => {
+          if (!shown[index]) return null;
+          const line = row++ % 2;
+          return <text key={date} x={x(days[index])} y={height - margin.bottom + 16 + line * (CHART_FONT_PX + 2)} textAnchor="middle">{date.slice(5)}</text>;
+        })}
       </g>
       {series.map((line, lineIndex) => {
         const colour = line.total ? "#1d2528" : LINE_COLOURS[lineIndex % LINE_COLOURS.length];
@@ -67,7 +109,7 @@ export function CumulativeRemovedChart({ dates, series, unit }: { dates: string[
           <g key={line.name} data-series={line.name}>
             <path d={path} fill="none" stroke={colour} strokeWidth={line.total ? 3 : 2} strokeDasharray={line.total ? undefined : lineIndex % 2 ? "6 3" : undefined} />
             {line.values.map((value, index) => value === null ? null : <circle key={index} cx={x(days[index])} cy={y(value)} r={3} fill={colour}><title>{`${line.name}, ${dates[index]}: ${formatNumber(value)} ${unit}`}</title></circle>)}
-            <text x={WIDTH - MARGIN.right + 8} y={labelY[lineIndex]} fontSize={11} fill={colour}>{line.name}</text>
+            <text x={width - margin.right + 8} y={labelY[lineIndex]} fontSize={CHART_FONT_PX} fill={colour}>{line.name}</text>
           </g>
         );
       })}
@@ -80,15 +122,29 @@ export function CumulativeRemovedChart({ dates, series, unit }: { dates: string[
  * working days and what they were counted from. A thin interval (too few working days for its rate
  * to compare) is drawn hatched and pale with "thin" over it, not as a bar of the same weight.
  */
-export function ProductionChart({ intervals, unit }: { intervals: ProductionInterval[]; unit: string }) {
-  if (intervals.length === 0) return <p className="text-sm text-muted">Production needs two survey dates.</p>;
+export function ProductionChart(props: { intervals: ProductionInterval[]; unit: string }) {
+  const [ref, width] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
+  if (props.intervals.length === 0) return <p className="text-sm text-muted">Production needs two survey dates.</p>;
+  // Each bar keeps room for its labels; more bars than the panel holds scroll sideways.
+  return <div ref={ref} className="w-full min-w-0 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Production chart, scrollable"><ProductionSvg {...props} width={width} /></div>;
+}
+
+/** Room under and beside each bar for its four label lines at 12 px ("05-26→", "10-27", "12 d", "weekdays"). */
+const PRODUCTION_SLOT_PX = 8 * MONO_CHAR_PX + 12;
+
+function ProductionSvg({ intervals, unit, width: panelWidth }: { intervals: ProductionInterval[]; unit: string; width: number }) {
+  const line = CHART_FONT_PX + 2;
+  const margin = { top: 28, right: 12, bottom: 4 * line + 8, left: 56 };
+  const width = Math.max(panelWidth, margin.left + margin.right + intervals.length * PRODUCTION_SLOT_PX);
+  const height = clamp(Math.round(panelWidth * 0.55), 240, 320);
+  const frame: Frame = { width, height, margin };
   const rates = intervals.map((interval) => interval.volumePerWorkingDay ?? 0);
   const ticks = niceTicks(Math.max(0, ...rates));
-  const bottom = HEIGHT - MARGIN.bottom - 12; // room for a third label line: the basis
-  const y = linearScale([0, ticks[ticks.length - 1]], [bottom, MARGIN.top]);
-  const slot = (WIDTH - MARGIN.left - MARGIN.right) / intervals.length;
+  const bottom = height - margin.bottom;
+  const y = linearScale([0, ticks[ticks.length - 1]], [bottom, margin.top]);
+  const slot = (width - margin.left - margin.right) / intervals.length;
   return (
-    <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-labelledby="production-title" className="h-auto w-full" data-testid="production-chart">
+    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="production-title" className="block" data-testid="production-chart">
       <title id="production-title">{`Production per working day between survey dates (${unit} per working day)`}</title>
       <defs>
         <pattern id="thin-interval-hatch" width={6} height={6} patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
@@ -96,10 +152,10 @@ export function ProductionChart({ intervals, unit }: { intervals: ProductionInte
           <line x1={0} y1={0} x2={0} y2={6} stroke="#14606e" strokeWidth={1.5} strokeOpacity={0.5} />
         </pattern>
       </defs>
-      <ValueAxis ticks={ticks} y={y} unit={`${unit}/day`} />
+      <ValueAxis frame={frame} ticks={ticks} y={y} unit={`${unit}/day`} />
       {intervals.map((interval, index) => {
         const rate = Math.max(0, interval.volumePerWorkingDay ?? 0);
-        const left = MARGIN.left + index * slot + slot * 0.15;
+        const left = margin.left + index * slot + slot * 0.15;
         const centre = left + slot * 0.35;
         const basis = interval.basis === "dives-logged" ? "dives logged" : "weekdays";
         return (
@@ -107,12 +163,15 @@ export function ProductionChart({ intervals, unit }: { intervals: ProductionInte
             <rect x={left} width={slot * 0.7} y={y(rate)} height={y(0) - y(rate)} fill={interval.thin ? "url(#thin-interval-hatch)" : "#14606e"} stroke={interval.thin ? "#14606e" : undefined} strokeDasharray={interval.thin ? "3 2" : undefined}>
               <title>{`${interval.fromDate} → ${interval.toDate}: ${formatNumber(interval.removedVolume)} ${unit} over ${interval.workingDays} working days (${basis}) = ${formatNumber(interval.volumePerWorkingDay, 1)} ${unit}/day${interval.thin ? "; thin: too few working days for this rate to compare with the others" : ""}`}</title>
             </rect>
-            <text className="figures" x={centre} y={y(rate) - 4} textAnchor="middle" fontSize={11} fill={interval.thin ? "#5b6870" : "#1d2528"}>
+            <text className="figures" x={centre} y={y(rate) - 4} textAnchor="middle" fontSize={CHART_FONT_PX} fill={interval.thin ? "#5b6870" : "#1d2528"}>
               {`${formatNumber(interval.volumePerWorkingDay, 0)}${interval.thin ? " thin" : ""}`}
             </text>
-            <text className="figures" x={centre} y={bottom + 14} textAnchor="middle" fontSize={10} fill="#5b6870">{`${interval.fromDate.slice(5)}→${interval.toDate.slice(5)}`}</text>
-            <text className="figures" x={centre} y={bottom + 26} textAnchor="middle" fontSize={10} fill="#5b6870">{`${interval.workingDays} d`}</text>
-            <text className="figures" x={centre} y={bottom + 38} textAnchor="middle" fontSize={10} fill="#5b6870">{basis}</text>
+            <g className="figures" fontSize={CHART_FONT_PX} fill="#5b6870" textAnchor="middle">
+              <text x={centre} y={bottom + line}>{`${interval.fromDate.slice(5)}→`}</text>
+              <text x={centre} y={bottom + 2 * line}>{interval.toDate.slice(5)}</text>
+              <text x={centre} y={bottom + 3 * line}>{`${interval.workingDays} d`}</text>
+              <text x={centre} y={bottom + 4 * line}>{interval.basis === "dives-logged" ? "dives" : "weekdays"}</text>
+            </g>
           </g>
         );
       })}

@@ -50,7 +50,7 @@ function FigureCells({ figures, unit }: { figures: ProgressFigures; unit: string
         <Bar percent={figures.percentCellsAtFirmSand} label="cells at firm sand" />
       </td>
       <td className="figures px-2 py-1">{figures.cellsConfirmed}</td>
-      <td className="figures px-2 py-1">{figures.lastSurveyOn ?? "–"}</td>
+      <td className="figures whitespace-nowrap px-2 py-1">{figures.lastSurveyOn ? <time dateTime={figures.lastSurveyOn}>{figures.lastSurveyOn}</time> : "–"}</td>
     </>
   );
 }
@@ -60,7 +60,7 @@ export function ZoneTable({ progress }: { progress: ProgressView }) {
   const unit = progress.volumeLabel;
   const zones = sort ? [...progress.zones].sort((a, b) => (sort.ascending ? 1 : -1) * compare(a, b, sort.key)) : progress.zones;
   return (
-    <div className="overflow-x-auto">
+    <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Progress per zone, scrollable">
       <table className="w-full text-right text-sm" data-testid="zone-table">
         <caption className="sr-only">Progress per zone; select a column heading to sort</caption>
         <thead>
@@ -174,7 +174,7 @@ export function ProgressOverview({ progress, links }: { progress: ProgressView; 
         </p>
       </section>
       {progress.hasFigures ? (
-        <div className="grid gap-6 lg:grid-cols-2">
+        <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
           <section aria-labelledby="cumulative-heading" className="rounded border border-line bg-panel p-4">
             <h2 id="cumulative-heading" className="font-semibold">Removed volume over time</h2>
             <CumulativeRemovedChart dates={progress.series.dates} series={series} unit={unit} />

@@ -1,10 +1,14 @@
 import { linearScale, niceTicks } from "../../shared/progress/chart-scale";
+import { CHART_FONT_PX } from "./progress-charts";
+import { useMeasuredWidth } from "./use-measured-width";
 
-/** A server-rendered SVG chart of one station's turbidity readings: the limit each was held to, the paired background, exceedances marked, missed sampling intervals shaded. */
+/**
+ * An SVG chart of one station's turbidity readings: the limit each was held to, the paired
+ * background, exceedances marked, missed sampling intervals shaded. Drawn at its panel's width
+ * (measured; 640 px before scripts run) so its text is 12 px at any width.
+ */
 
-const WIDTH = 640;
-const HEIGHT = 220;
-const MARGIN = { top: 20, right: 16, bottom: 32, left: 52 };
+const MARGIN = { top: 24, right: 16, bottom: 34, left: 52 };
 
 export interface ChartReading {
   takenAt: string;
@@ -14,7 +18,7 @@ export interface ChartReading {
   exceeds: boolean | null;
 }
 
-export function TurbidityChart({ station, readings, missed, fromMs, toMs, unit = "NTU", dayLabel }: {
+type TurbidityChartProps = {
   station: string;
   readings: ChartReading[];
   missed: Array<{ fromMs: number; toMs: number }>;
@@ -23,7 +27,15 @@ export function TurbidityChart({ station, readings, missed, fromMs, toMs, unit =
   unit?: string;
   /** Local day label of an instant (the project time zone). */
   dayLabel: (instantMs: number) => string;
-}) {
+};
+
+export function TurbidityChart(props: TurbidityChartProps) {
+  const [ref, width] = useMeasuredWidth<HTMLDivElement>(640);
+  return <div ref={ref} className="w-full min-w-0 max-w-3xl overflow-hidden"><TurbiditySvg {...props} width={width} /></div>;
+}
+
+function TurbiditySvg({ station, readings, missed, fromMs, toMs, unit = "NTU", dayLabel, width: WIDTH }: TurbidityChartProps & { width: number }) {
+  const HEIGHT = Math.min(280, Math.max(200, Math.round(WIDTH * 0.4)));
   const x = linearScale([fromMs, toMs], [MARGIN.left, WIDTH - MARGIN.right]);
   const max = Math.max(1, ...readings.flatMap((reading) => [reading.value, reading.limit ?? 0, reading.background ?? 0]));
   const ticks = niceTicks(max, 4);
@@ -41,22 +53,24 @@ export function TurbidityChart({ station, readings, missed, fromMs, toMs, unit =
   };
   const dayTicks: number[] = [];
   const spanDays = Math.max(1, Math.round((toMs - fromMs) / 86_400_000));
-  const everyDays = Math.max(1, Math.ceil(spanDays / 7));
+  // As many day labels as fit at 12 px (a MM-DD label and its gap, in the mono font at 0.6 em a character).
+  const labelsThatFit = Math.max(2, Math.floor((WIDTH - MARGIN.left - MARGIN.right) / (6 * CHART_FONT_PX * 0.6 + 16)));
+  const everyDays = Math.max(1, Math.ceil(spanDays / labelsThatFit));
   for (let at = fromMs; at <= toMs; at += everyDays * 86_400_000) dayTicks.push(at);
   return (
-    <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-label={`Turbidity at ${station} (${unit}), with the limit and background`} className="h-auto w-full max-w-3xl" data-testid={`turbidity-chart-${station}`}>
+    <svg width={WIDTH} height={HEIGHT} viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-label={`Turbidity at ${station} (${unit}), with the limit and background`} className="block max-w-full" data-testid={`turbidity-chart-${station}`}>
       {missed.map((gap) => (
         <rect key={gap.fromMs} x={x(Math.max(gap.fromMs, fromMs))} y={MARGIN.top} width={Math.max(1, x(Math.min(gap.toMs, toMs)) - x(Math.max(gap.fromMs, fromMs)))} height={HEIGHT - MARGIN.top - MARGIN.bottom} fill="#9a5b00" opacity={0.15}><title>Missed sampling interval</title></rect>
       ))}
-      <g className="figures" fontSize={10} fill="#5b6870">
+      <g className="figures" fontSize={CHART_FONT_PX} fill="#5b6870">
         {ticks.map((tick) => (
           <g key={tick}>
             <line x1={MARGIN.left} x2={WIDTH - MARGIN.right} y1={y(tick)} y2={y(tick)} stroke="#d5dcdf" />
             <text x={MARGIN.left - 6} y={y(tick) + 4} textAnchor="end">{tick}</text>
           </g>
         ))}
-        <text x={MARGIN.left - 6} y={MARGIN.top - 8} textAnchor="end">{unit}</text>
-        {dayTicks.map((at) => <text key={at} x={x(at)} y={HEIGHT - MARGIN.bottom + 14} textAnchor="middle">{dayLabel(at)}</text>)}
+        <text x={4} y={MARGIN.top - 10}>{unit}</text>
+        {dayTicks.map((at) => <text key={at} x={x(at)} y={HEIGHT - MARGIN.bottom + 18} textAnchor="middle">{dayLabel(at)}</text>)}
       </g>
       <path d={pathOf(points.map((point) => ({ atMs: point.atMs, value: point.limit })))} fill="none" stroke="#a3242a" strokeWidth={1.5} strokeDasharray="5 3" />
       <path d={pathOf(points.map((point) => ({ atMs: point.atMs, value: point.background })))} fill="none" stroke="#5b6870" strokeWidth={1} />

@@ -89,6 +89,7 @@ export async function compileReport(project: ProjectView, date: string, entered:
     date,
     timeZone: project.timeZone,
     nowMs,
+    lengthLabel: unitLabel(project.lengthUnit),
     dives: dives.map((dive) => ({ team: dive.team, diver: dive.diver, visitor: dive.visitor, bottomMinutes: dive.bottomMinutes, maxDepth: dive.maxDepth, cells: dive.cells, beyondNoDecompression: dive.noDecompression?.exceeds === true })),
     plannedTeams: [...teams].map(([team, headCount]) => ({ team, headCount })),
     // The dry solids and polymer each shift stored when it was logged: the figures the shift log shows.

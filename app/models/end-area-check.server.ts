@@ -1,4 +1,4 @@
-import { cubicToVolumeUnit } from "../../shared/units";
+import { cubicToVolumeUnit, unitLabel } from "../../shared/units";
 import { BoundedCache } from "~/lib/cache/bounded-cache";
 import { getEngineState, projectRecomputeStamp } from "~/lib/engine/engine-state.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -39,7 +39,7 @@ export async function loadEndAreaCrossCheck(project: ProjectView): Promise<EndAr
       sections: check.sections,
       sectionSpacing: check.sectionSpacing,
       method:
-        `Average end area (USACE EM 1110-2-1003, ch. 15) of ${check.sections} sections ${check.sectionSpacing} apart, square to the work limit's long axis, ` +
+        `Average end area (USACE EM 1110-2-1003, ch. 15) of ${check.sections} sections ${Number(check.sectionSpacing.toFixed(2))} ${unitLabel(project.lengthUnit)} apart, square to the work limit's long axis, ` +
         "each integrated across the limit from the baseline muck top down to the latest bottom.",
     };
   });

@@ -2,6 +2,7 @@ import { Op, type Transaction } from "sequelize";
 import { Invitation, Membership, Project, User, getSequelize, type OutgoingMailStatus, type Role } from "~/lib/db.server";
 import { ConflictError } from "~/lib/errors";
 import { UniqueConstraintError } from "sequelize";
+import { roleLabel } from "~/lib/auth/roles";
 import { mailStates, queueMail } from "~/lib/mail/outbox.server";
 import { hashPassword, verifyPassword } from "~/lib/auth/password.server";
 import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
@@ -66,7 +67,7 @@ export async function createInvitation(
       ref: invitationMailRef(invitation.id),
       subject: `You are invited to ${project.name} on Firmsand`,
       text: [
-        `${actingUser.name} invites you to join "${project.name}" on Firmsand as ${input.role}.`,
+        `${actingUser.name} invites you to join "${project.name}" on Firmsand as ${roleLabel(input.role, "sentence")}.`,
         "",
         `Open this link to set your password and join: ${link}`,
         "",

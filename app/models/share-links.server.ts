@@ -1,5 +1,6 @@
 import { z } from "zod";
-import { Project, ShareLink, User, Zone } from "~/lib/db.server";
+import { Project, ShareLink, Shoreline, User, Zone } from "~/lib/db.server";
+import { thinPolygons } from "../../shared/progress/outline-svg";
 import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { loadProgress } from "./progress.server";
@@ -97,6 +98,8 @@ export interface PublicProgressView {
   /** Nitrogen and phosphorus removed, whole pounds or kilograms: the funders' headline; null before any lab sample. */
   nutrientsRemoved: { nitrogen: number; phosphorus: number; label: string } | null;
   workLimit: LonLatRing[][];
+  /** The project's shoreline (the water body's outline, public geography), thinned for a small map; [] when none was uploaded. */
+  shoreline: LonLatRing[][];
   /** Every zone, then the Unzoned row (`unzoned`, no outline) when part of the work limit lies in no zone. */
   zones: Array<{ name: string; percentComplete: number | null; polygons: LonLatRing[][]; unzoned: boolean }>;
 }
@@ -107,6 +110,18 @@ function lonLatPolygons(geoJson: string | null): LonLatRing[][] {
   const geometry = JSON.parse(geoJson) as { type: string; coordinates: unknown };
   const polygons = (geometry.type === "Polygon" ? [geometry.coordinates] : geometry.type === "MultiPolygon" ? geometry.coordinates : []) as number[][][][];
   return polygons.map((polygon) => polygon.map((ring) => ring.map(([lon, lat]) => [Number(lon), Number(lat)] as [number, number])));
+}
+
+/** Vertices the public map's shoreline may carry: a few hundred pixels wide needs no more. */
+export const PUBLIC_SHORELINE_VERTICES = 2000;
+
+/** The shoreline's polygons (a FeatureCollection of Polygon and MultiPolygon features), thinned; nothing else of it is read. */
+async function publicShoreline(projectId: number): Promise<LonLatRing[][]> {
+  const row = await Shoreline.findOne({ where: { projectId }, attributes: ["geoJson"] });
+  if (!row) return [];
+  const collection = JSON.parse(row.geoJson) as { features?: Array<{ geometry?: unknown }> };
+  const polygons = (collection.features ?? []).flatMap((feature) => lonLatPolygons(feature.geometry ? JSON.stringify(feature.geometry) : null));
+  return thinPolygons(polygons, PUBLIC_SHORELINE_VERTICES);
 }
 
 const wholePercent = (value: number | null) => (value === null ? null : Math.round(value));
@@ -130,6 +145,7 @@ export async function presentPublicProgress(projectId: number, link: Pick<ShareL
       ? { nitrogen: Math.round(removed.nitrogenRemoved.value), phosphorus: Math.round(removed.phosphorusRemoved.value), label: removed.phosphorusRemoved.label }
       : null,
     workLimit: lonLatPolygons(project.workLimitGeoJson),
+    shoreline: await publicShoreline(projectId),
     zones: progress.zones.map((zone) => ({
       name: zone.name,
       percentComplete: wholePercent(zone.percentCompleteByVolume),

@@ -6,7 +6,7 @@ import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { requireSiteAdmin } from "~/lib/auth/access.server";
-import { ROLE_LABELS } from "~/lib/auth/roles";
+import { roleLabel } from "~/lib/auth/roles";
 import { DomainError } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { emailSchema, parseForm, personNameSchema } from "~/lib/http/form";
@@ -106,7 +106,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
                 <td>{account.lastSignInAt ? <time dateTime={account.lastSignInAt}>{account.lastSignInAt.slice(0, 10)}</time> : "—"}</td>
                 <td>
                   {account.memberships.length === 0 ? "—" : (
-                    <ul>{account.memberships.map((m) => <li key={m.projectId}>{m.projectName} — {ROLE_LABELS[m.role]}</li>)}</ul>
+                    <ul>{account.memberships.map((m) => <li key={m.projectId}>{m.projectName} — {roleLabel(m.role)}</li>)}</ul>
                   )}
                 </td>
                 <td className="space-y-1 py-2">

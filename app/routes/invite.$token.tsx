@@ -5,7 +5,7 @@ import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { clientAddress } from "~/lib/http/client-address.server";
-import { ROLE_LABELS } from "~/lib/auth/roles";
+import { roleLabel } from "~/lib/auth/roles";
 import { newPasswordSchema, parseForm, personNameSchema } from "~/lib/http/form";
 import { signIn } from "~/lib/auth/session.server";
 import { acceptInvitation, lookUpInvitation } from "~/models/invitation.server";
@@ -29,7 +29,7 @@ export async function loader({ params }: Route.LoaderArgs) {
   return {
     open: true as const,
     email: invitation.email,
-    roleLabel: ROLE_LABELS[invitation.role],
+    roleLabel: roleLabel(invitation.role),
     projectName: invitation.projectName,
     hasAccount: invitation.hasAccount,
   };

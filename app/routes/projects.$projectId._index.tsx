@@ -1,6 +1,6 @@
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
-import { ROLE_LABELS } from "~/lib/auth/roles";
+import { roleLabel } from "~/lib/auth/roles";
 import { ProgressOverview } from "~/components/progress-overview";
 import { ReconciliationPanel } from "~/components/dewatering/reconciliation-panel";
 import { loadProgress } from "~/models/progress.server";
@@ -27,7 +27,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     project,
     unitLabel: unitLabel(project.lengthUnit, "length-long"),
     unit: unitLabel(project.lengthUnit),
-    roleLabel: role ? ROLE_LABELS[role] : "Site administrator (not a member)",
+    roleLabel: role ? roleLabel(role) : `${roleLabel(null)} (not a member)`,
     zones,
     progress,
     progressLinks,
@@ -35,11 +35,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-function Fact({ term, children }: { term: string; children: React.ReactNode }) {
+/** A fact of the project: a figure (set in the mono font) or words (in the sans). */
+function Fact({ term, children, words = false }: { term: string; children: React.ReactNode; words?: boolean }) {
   return (
     <div className="flex justify-between gap-4 border-t border-line py-2">
       <dt className="text-muted">{term}</dt>
-      <dd className="figures text-right">{children}</dd>
+      <dd className={`text-right ${words ? "" : "figures"}`}>{children}</dd>
     </div>
   );
 }
@@ -56,10 +57,10 @@ export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
         <h2 id="facts" className="font-semibold">Project facts</h2>
         {project.description ? <p className="mt-2 text-sm">{project.description}</p> : null}
         <dl className="mt-3 text-sm">
-          <Fact term="Your role">{loaderData.roleLabel}</Fact>
+          <Fact term="Your role" words>{loaderData.roleLabel}</Fact>
           <Fact term="Coordinate reference system">{project.crs}</Fact>
-          <Fact term="Length unit">{loaderData.unitLabel}</Fact>
-          <Fact term="Work limit">{project.hasWorkLimit ? "set" : "not set yet"}</Fact>
+          <Fact term="Length unit" words>{loaderData.unitLabel} ({unit})</Fact>
+          <Fact term="Work limit" words>{project.hasWorkLimit ? "set" : "not set yet"}</Fact>
           <Fact term="Minimum dive team">{project.minTeamSize} people</Fact>
         </dl>
       </section>

@@ -2,7 +2,7 @@ import { Form, Link, data } from "react-router";
 import { z } from "zod";
 import { FIND_CATEGORY_LABELS, type FindCategory } from "../../shared/finds/finds";
 import { localClockOf } from "../../shared/local-time";
-import { LITRES_PER_US_GALLON, kilogramsTo, massUnitsFor, measureLabel, type LengthUnit } from "../../shared/units";
+import { LITRES_PER_US_GALLON, kilogramsTo, massUnitsFor, measureLabel, unitLabel, type LengthUnit } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
@@ -22,7 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId, "reports.read");
   const date = dayParam(params.date);
   const view = await getDailyReport(access.project, date);
-  return { projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, date, ...view, canSign: can(access, "reports.sign"), signerName: access.user.name };
+  return { projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, lengthLabel: unitLabel(access.project.lengthUnit), date, ...view, canSign: can(access, "reports.sign"), signerName: access.user.name };
 }
 
 const formSchema = z.discriminatedUnion("intent", [
@@ -136,11 +136,11 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
       </Section>
 
       <Section title="Dive work">
-        <p className="text-sm"><span className="figures">{report.dives.count}</span> dives · <span className="figures">{report.dives.bottomMinutes}</span> bottom minutes · deepest <span className="figures">{report.dives.maxDepth ?? "—"}</span></p>
+        <p className="text-sm"><span className="figures">{report.dives.count}</span> dives · <span className="figures">{report.dives.bottomMinutes}</span> bottom minutes · deepest <span className="figures whitespace-nowrap">{report.dives.maxDepth === null ? "—" : `${report.dives.maxDepth} ${loaderData.lengthLabel}`}</span></p>
         {report.teams.length > 0 ? (
           <div className="mt-2 overflow-x-auto">
             <table className="w-full text-sm">
-              <thead><tr className="text-left text-muted"><th className="pr-3">Team</th><th className="pr-3">Head count</th><th className="pr-3">Dives</th><th className="pr-3">Bottom min</th><th className="pr-3">Max depth</th><th>Cells</th></tr></thead>
+              <thead><tr className="text-left align-bottom text-muted"><th scope="col" className="pr-3">Team</th><th scope="col" className="pr-3">Head count</th><th scope="col" className="pr-3">Dives</th><th scope="col" className="pr-3">Bottom time (min)</th><th scope="col" className="pr-3">Max depth ({loaderData.lengthLabel})</th><th scope="col">Cells</th></tr></thead>
               <tbody>
                 {report.teams.map((team) => (
                   <tr key={team.team} className="border-t border-line"><td className="pr-3">{team.team}</td><td className="figures pr-3">{team.headCount ?? "—"}</td><td className="figures pr-3">{team.dives}</td><td className="figures pr-3">{team.bottomMinutes}</td><td className="figures pr-3">{team.maxDepth ?? "—"}</td><td className="figures break-words">{team.cells.join(" ")}</td></tr>

@@ -7,7 +7,7 @@ import { TextField } from "~/components/text-field";
 import { requireRole } from "~/lib/auth/access.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { DomainError } from "~/lib/errors";
-import { ROLES, ROLE_LABELS } from "~/lib/auth/roles";
+import { ROLES, roleLabel } from "~/lib/auth/roles";
 import { emailSchema, parseForm } from "~/lib/http/form";
 import { appOrigin } from "~/lib/http/origin.server";
 import { createInvitation, listOpenInvitations, revokeInvitation } from "~/models/invitation.server";
@@ -18,7 +18,7 @@ import { readPageForm } from "~/lib/http/body.server";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, user } = await requireRole(request, params.projectId, "members.manage");
   const [members, invitations] = await Promise.all([listMembers(project), listOpenInvitations(project)]);
-  return { members, invitations, currentUserId: user.id, roles: ROLES.map((role) => ({ value: role, label: ROLE_LABELS[role] })) };
+  return { members, invitations, currentUserId: user.id, roles: ROLES.map((role) => ({ value: role, label: roleLabel(role) })) };
 }
 
 const roleSchema = z.enum(ROLES, { error: "Choose one of the listed roles." });
@@ -118,7 +118,7 @@ export default function ProjectMembers({ loaderData, actionData }: Route.Compone
             {loaderData.invitations.map((invitation) => (
               <li key={invitation.id} className="flex flex-wrap items-center gap-3 rounded border border-line bg-panel p-2">
                 <span className="figures">{invitation.email}</span>
-                <span>{ROLE_LABELS[invitation.role]}</span>
+                <span>{roleLabel(invitation.role)}</span>
                 <span className="text-muted">expires <time dateTime={invitation.expiresAt}>{invitation.expiresAt.slice(0, 10)}</time></span>
                 <InvitationMailState state={invitation.mail} />
                 <Form method="post" className="ml-auto">

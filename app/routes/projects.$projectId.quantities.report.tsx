@@ -88,35 +88,39 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
       <h1 className="text-2xl font-semibold">Quantities report</h1>
       <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-6 gap-y-1 text-sm">
         <dt className="text-muted">Project</dt><dd>{project.name}</dd>
-        <dt className="text-muted">Baseline survey</dt><dd className="figures">{loaderData.baseline ? `${loaderData.baseline.surveyedOn} (#${loaderData.baseline.id}, ${loaderData.baseline.datum})` : "none"}</dd>
-        <dt className="text-muted">Compared with</dt><dd className="figures">{loaderData.latest ? `${loaderData.latest.surveyedOn} ${loaderData.latest.kind} (#${loaderData.latest.id})` : "none"}</dd>
-        <dt className="text-muted">Coordinate system</dt><dd className="figures">{project.crs}, {project.lengthLabelLong}</dd>
+        <dt className="text-muted">Baseline survey</dt><dd>{loaderData.baseline ? <><time className="figures" dateTime={loaderData.baseline.surveyedOn}>{loaderData.baseline.surveyedOn}</time> (<span className="figures">#{loaderData.baseline.id}</span>, {loaderData.baseline.datum})</> : "none"}</dd>
+        <dt className="text-muted">Compared with</dt><dd>{loaderData.latest ? <><time className="figures" dateTime={loaderData.latest.surveyedOn}>{loaderData.latest.surveyedOn}</time> {loaderData.latest.kind} (<span className="figures">#{loaderData.latest.id}</span>)</> : "none"}</dd>
+        <dt className="text-muted">Coordinate system</dt><dd><span className="figures">{project.crs}</span>, {project.lengthLabelLong}</dd>
         <dt className="text-muted">Method</dt><dd>{loaderData.method}</dd>
         <dt className="text-muted">Prepared</dt><dd><span className="figures">{loaderData.preparedOn}</span> by {loaderData.preparedBy}</dd>
       </dl>
-      <table className="mt-6 w-full border-collapse text-right text-sm" aria-label="Totals per zone">
+      <div className="mt-6 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Totals per zone, scrollable"><table className="w-full border-collapse text-right text-sm" aria-label="Totals per zone">
         <thead>
           <tr className="border-b-2 border-ink">
-            <th className="py-1 text-left font-sans">Zone</th><th>Planned ({unit})</th><th>Removed ({unit})</th><th>Remaining ({unit})</th><th>Complete by volume</th><th>Cells at firm sand</th><th>Confirmed</th><th>Last survey</th>
+            {/* Padded and bottom-aligned: headers that wrap stay apart from their neighbours. */}
+            <th scope="col" className="py-1 pr-2 text-left align-bottom font-sans">Zone</th>
+            {[`Planned (${unit})`, `Removed (${unit})`, `Remaining (${unit})`, "Complete by volume", "Cells at firm sand", "Confirmed", "Last survey"].map((label) => (
+              <th key={label} scope="col" className="px-2 py-1 align-bottom font-sans font-semibold">{label}</th>
+            ))}
           </tr>
         </thead>
         <tbody>
           {zones.map((zone) => (
             <tr key={zoneKey(zone)} className="border-b border-line">
               <th scope="row" className="py-1 text-left font-sans font-normal"><ZoneName zone={zone} /></th>
-              <td><Volume value={zone.plannedVolume} unit={unit} digits={1} /></td><td><Volume value={zone.removedVolume} unit={unit} digits={1} /></td>
-              <td><Volume value={zone.remainingVolume} unit={unit} digits={1} /></td><td><Percent value={zone.percentCompleteByVolume} digits={1} /></td>
-              <td className="figures">{zone.cellsAtFirmSand} / {zone.cells}</td><td className="figures">{zone.cellsConfirmed}</td><td className="figures">{zone.lastSurveyOn ?? "–"}</td>
+              <td className="px-2"><Volume value={zone.plannedVolume} unit={unit} digits={1} /></td><td className="px-2"><Volume value={zone.removedVolume} unit={unit} digits={1} /></td>
+              <td className="px-2"><Volume value={zone.remainingVolume} unit={unit} digits={1} /></td><td className="px-2"><Percent value={zone.percentCompleteByVolume} digits={1} /></td>
+              <td className="figures whitespace-nowrap px-2">{zone.cellsAtFirmSand} / {zone.cells}</td><td className="figures px-2">{zone.cellsConfirmed}</td><td className="figures px-2">{zone.lastSurveyOn ? <time dateTime={zone.lastSurveyOn}>{zone.lastSurveyOn}</time> : "–"}</td>
             </tr>
           ))}
           <tr className="border-t-2 border-ink font-semibold">
             <th scope="row" className="py-1 text-left font-sans">Project total</th>
-            <td><Volume value={total.plannedVolume} unit={unit} digits={1} /></td><td><Volume value={total.removedVolume} unit={unit} digits={1} /></td>
-            <td><Volume value={total.remainingVolume} unit={unit} digits={1} /></td><td><Percent value={total.percentCompleteByVolume} digits={1} /></td>
-            <td className="figures">{total.cellsAtFirmSand} / {total.cells}</td><td className="figures">{total.cellsConfirmed}</td><td className="figures">{total.lastSurveyOn ?? "–"}</td>
+            <td className="px-2"><Volume value={total.plannedVolume} unit={unit} digits={1} /></td><td className="px-2"><Volume value={total.removedVolume} unit={unit} digits={1} /></td>
+            <td className="px-2"><Volume value={total.remainingVolume} unit={unit} digits={1} /></td><td className="px-2"><Percent value={total.percentCompleteByVolume} digits={1} /></td>
+            <td className="figures whitespace-nowrap px-2">{total.cellsAtFirmSand} / {total.cells}</td><td className="figures px-2">{total.cellsConfirmed}</td><td className="figures px-2">{total.lastSurveyOn ? <time dateTime={total.lastSurveyOn}>{total.lastSurveyOn}</time> : "–"}</td>
           </tr>
         </tbody>
-      </table>
+      </table></div>
       {zones.some((zone) => zone.zoneId === null) ? <p className="mt-2 text-xs text-muted">{UNZONED_NOTE}</p> : null}
       {loaderData.period ? (
         <section aria-labelledby="period-heading" className="mt-8 break-inside-avoid">

@@ -1,7 +1,9 @@
+import { useRef } from "react";
 import { Form, data } from "react-router";
 import { z } from "zod";
 import { ActionMessages } from "~/components/form-message";
 import { ConfirmedActionForm } from "~/components/confirmed-action-form";
+import { CopyButton } from "~/components/copy-button";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { requireRole } from "~/lib/auth/access.server";
@@ -57,6 +59,9 @@ const areaClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py
 export default function ProjectShare({ loaderData, actionData }: Route.ComponentProps) {
   const errors: Record<string, string> = actionData?.errors ?? {};
   const created = actionData?.created ?? null;
+  // The create form is emptied once a link is made (a new key remounts it); a refused form keeps what was typed.
+  const formKey = useRef("create");
+  if (created) formKey.current = created.url;
   return (
     <div className="space-y-8">
       <ActionMessages error={errors.form} notice={actionData?.notice} />
@@ -64,9 +69,14 @@ export default function ProjectShare({ loaderData, actionData }: Route.Component
         <section aria-labelledby="new-link" className="rounded border border-lagoon bg-panel p-4">
           <h2 id="new-link" className="font-semibold">New link: {created.name}</h2>
           <p className="mt-2 text-sm">Public address (anyone with it can see zone-level progress, nothing else):</p>
-          <p className="mt-1 break-all"><a className="figures text-sm underline" href={created.url} data-testid="share-url">{created.url}</a></p>
+          <div className="mt-1 flex flex-wrap items-center gap-2">
+            <a className="figures break-all text-sm underline" href={created.url} data-testid="share-url">{created.url}</a>
+            <CopyButton text={created.url} label="Copy the public address" />
+          </div>
           <p className="mt-3 text-sm">To embed it in an agency web page, paste this where the map should appear:</p>
-          <pre className="mt-1 overflow-x-auto rounded bg-paper p-2 text-xs" data-testid="embed-snippet">{embedSnippet(created.url)}</pre>
+          {/* Wrapped, never cut off: the whole snippet is visible and can be read before it is copied. */}
+          <pre className="mt-1 whitespace-pre-wrap break-all rounded bg-paper p-2 text-xs" data-testid="embed-snippet">{embedSnippet(created.url)}</pre>
+          <CopyButton text={embedSnippet(created.url)} label="Copy the embed code" className="mt-2" />
         </section>
       ) : null}
 
@@ -76,7 +86,7 @@ export default function ProjectShare({ loaderData, actionData }: Route.Component
           The public page shows the work limit, the zones coloured by percent complete, the percent complete, the volume removed and the date of the
           latest survey, with your text. It never shows cells, finds, people, dive plans, permits, water quality or survey files.
         </p>
-        <Form method="post" className="mt-3 max-w-xl space-y-3">
+        <Form method="post" className="mt-3 max-w-xl space-y-3" key={formKey.current} data-testid="create-link-form">
           <TextField label="Link name" name="name" required maxLength={120} error={actionData?.intent !== "update" ? errors.name : null} hint="For your own list, e.g. the web page it is for." />
           <div>
             <label htmlFor="public-text" className="block text-sm font-medium">Public text</label>

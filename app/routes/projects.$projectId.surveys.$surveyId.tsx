@@ -10,6 +10,7 @@ import { setSurveyStatus } from "~/lib/import/commit.server";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { getSurveyDetails, listSoundings, sampleSoundingPositions } from "~/models/survey.server";
 import { plotOf } from "../../shared/soundings/prepare";
+import { lengthUnitSchema, unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.surveys.$surveyId";
 import { readPageForm } from "~/lib/http/body.server";
 
@@ -27,6 +28,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     projectId: project.id,
     lengthUnit: project.lengthUnit,
+    // The file's own unit, in the one pair of labels every page uses.
+    surveyUnit: (() => {
+      const unit = lengthUnitSchema.safeParse(survey.lengthUnit);
+      return unit.success ? { short: unitLabel(unit.data), long: unitLabel(unit.data, "length-long") } : { short: survey.lengthUnit, long: survey.lengthUnit };
+    })(),
     canRetract: can(access, "surveys.retract"),
     survey,
     soundings,
@@ -81,8 +87,8 @@ export default function SurveyPage({ loaderData, actionData }: Route.ComponentPr
       {result?.done ? <FormMessage tone="success">{result.done}</FormMessage> : null}
 
       <dl className="grid gap-2 text-sm sm:grid-cols-3">
-        <div><dt className="text-muted">Water surface</dt><dd>{survey.fileHasElevations ? "file has elevations" : `${number(survey.waterSurfaceElevation)} ${survey.datum}`}</dd></div>
-        <div><dt className="text-muted">Coordinates</dt><dd>{survey.crs}, depths in {survey.lengthUnit}</dd></div>
+        <div><dt className="text-muted">Water surface</dt><dd>{survey.fileHasElevations ? "file has elevations" : `${number(survey.waterSurfaceElevation)} ${loaderData.surveyUnit.short} ${survey.datum}`}</dd></div>
+        <div><dt className="text-muted">Coordinates</dt><dd>{survey.crs}, depths in {loaderData.surveyUnit.long}</dd></div>
         <div><dt className="text-muted">Time zone</dt><dd>{survey.timeZone}</dd></div>
       </dl>
 
@@ -109,9 +115,9 @@ export default function SurveyPage({ loaderData, actionData }: Route.ComponentPr
                 {soundings.soundings.map((sounding) => (
                   <tr key={sounding.sourceRow} className="border-t border-line">
                     <td className="px-2">{sounding.sourceRow}</td><td className="px-2">{sounding.pointId ?? "—"}</td>
-                    <td className="px-2 text-right">{number(sounding.easting)}</td><td className="px-2 text-right">{number(sounding.northing)}</td>
-                    <td className="px-2 text-right">{number(sounding.depth)}</td><td className="px-2 text-right">{number(sounding.probe)}</td>
-                    <td className="px-2 text-right">{number(sounding.elevation)}</td><td className="px-2 text-right">{number(sounding.refusalElevation)}</td>
+                    <td className="figures px-2 text-right">{number(sounding.easting)}</td><td className="figures px-2 text-right">{number(sounding.northing)}</td>
+                    <td className="figures px-2 text-right">{number(sounding.depth)}</td><td className="figures px-2 text-right">{number(sounding.probe)}</td>
+                    <td className="figures px-2 text-right">{number(sounding.elevation)}</td><td className="figures px-2 text-right">{number(sounding.refusalElevation)}</td>
                     <td className="px-2">{sounding.time ?? "—"}</td>
                   </tr>
                 ))}

@@ -85,11 +85,11 @@ export default function Surveys({ loaderData }: Route.ComponentProps) {
           <tbody>
             {surveys.map((survey) => (
               <tr key={survey.id} className={`border-b border-line ${survey.status === "retracted" ? "text-muted line-through decoration-1" : ""}`}>
-                <td className="py-2 pr-3"><Link className="text-lagoon underline" to={`${base}/${survey.id}`}>{survey.surveyedOn}</Link></td>
+                <td className="py-2 pr-3"><Link className="figures whitespace-nowrap text-lagoon underline" to={`${base}/${survey.id}`}><time dateTime={survey.surveyedOn}>{survey.surveyedOn}</time></Link></td>
                 <td className="py-2 pr-3">{KIND_LABELS[survey.kind]}</td>
                 <td className="py-2 pr-3">{survey.uploadedBy ?? "—"}</td>
-                <td className="py-2 pr-3 text-right">{survey.rowCount.toLocaleString("en-US")}</td>
-                <td className="py-2 pr-3 text-right">{percent(survey.coverage)}</td>
+                <td className="figures py-2 pr-3 text-right">{survey.rowCount.toLocaleString("en-US")}</td>
+                <td className="figures py-2 pr-3 text-right">{percent(survey.coverage)}</td>
                 <td className="py-2 pr-3">{survey.status === "active" ? "Active" : "Retracted"}</td>
               </tr>
             ))}

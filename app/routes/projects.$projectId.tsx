@@ -1,7 +1,7 @@
-import { NavLink, Outlet, useMatches } from "react-router";
+import { Link, Outlet, useLocation, useMatches } from "react-router";
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
-import { ROLE_LABELS } from "~/lib/auth/roles";
+import { roleLabel } from "~/lib/auth/roles";
 import { StopWorkBanner } from "~/components/stop-work-banner";
 import { currentStoppages } from "~/models/stoppages.server";
 import { heldCellLabels } from "~/models/holds.server";
@@ -13,11 +13,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const canReadFinds = can(access, "finds.read");
   return {
     project: { id: project.id, name: project.name },
-    roleLabel: role ? ROLE_LABELS[role] : "Site administrator",
+    roleLabel: roleLabel(role),
     canManageMembers: can(access, "members.manage"),
     canReadAudit: can(access, "audit.read"),
     canConfigure: can(access, "project.configure"),
     canReadReports: can(access, "reports.read"),
+    canReadQuantities: can(access, "quantities.read"),
+    canShare: can(access, "share-links.manage"),
     // Open stop-work events and stand-downs show on every project page.
     stoppages: await currentStoppages(project),
     canReadFinds,
@@ -30,8 +32,40 @@ export function meta({ loaderData }: Route.MetaArgs) {
   return [{ title: `${loaderData?.project.name ?? "Project"} · Firmsand` }];
 }
 
-const linkClass = ({ isActive }: { isActive: boolean }) =>
-  `rounded px-3 py-2 text-sm focus-visible:outline-2 focus-visible:outline-lagoon ${isActive ? "bg-lagoon text-white" : "hover:bg-paper"}`;
+/** One tab of the project's bar: `also` lists the sub-pages that belong to it (the plan of a day is the map's). */
+interface ProjectTab {
+  label: string;
+  path: string;
+  also?: string[];
+}
+
+function projectTabs(data: Route.ComponentProps["loaderData"]): ProjectTab[] {
+  const tabs: Array<ProjectTab | false> = [
+    { label: "Overview", path: "" },
+    { label: "Map", path: "/map" },
+    { label: "Surveys", path: "/surveys" },
+    { label: "Dive plans", path: "/plans" },
+    data.canReadQuantities && { label: "Quantities", path: "/quantities" },
+    { label: "Dewatering", path: "/dewatering" },
+    { label: "Water quality", path: "/water-quality" },
+    data.canReadReports && { label: "Daily reports", path: "/days" },
+    data.canReadFinds && { label: "Finds", path: "/finds", also: ["/holds"] },
+    data.canShare && { label: "Share", path: "/share" },
+    data.canManageMembers && { label: "Members", path: "/members" },
+    data.canConfigure && { label: "Settings", path: "/settings" },
+    data.canReadAudit && { label: "Audit log", path: "/audit" },
+  ];
+  return tabs.filter((tab): tab is ProjectTab => tab !== false);
+}
+
+/** The tab a project page belongs to: its own path or one it lists, matched on whole path segments. */
+function isCurrent(tab: ProjectTab, rest: string): boolean {
+  if (tab.path === "") return rest === "" || rest === "/";
+  return [tab.path, ...(tab.also ?? [])].some((path) => rest === path || rest.startsWith(`${path}/`));
+}
+
+const tabClass = (current: boolean) =>
+  `rounded px-3 py-2 text-sm focus-visible:outline-2 focus-visible:outline-lagoon ${current ? "bg-lagoon text-white" : "hover:bg-paper"}`;
 
 /** A page whose route sets `handle: { workspace: true }` (the map) fills the window instead of the page column. */
 function useWorkspace(): boolean {
@@ -40,33 +74,29 @@ function useWorkspace(): boolean {
 
 export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
   const base = `/projects/${loaderData.project.id}`;
+  const rest = useLocation().pathname.slice(base.length);
   const workspace = useWorkspace();
   return (
-    <div className={workspace ? "flex min-h-0 flex-1 flex-col px-3 pt-2 sm:px-4" : "mx-auto max-w-5xl px-6 py-4"} data-workspace={workspace ? "" : undefined}>
+    <main className={workspace ? "flex min-h-0 flex-1 flex-col px-3 pt-2 sm:px-4" : "mx-auto max-w-5xl px-6 py-4"} data-workspace={workspace ? "" : undefined}>
       <p className={workspace ? "sr-only" : "text-sm text-muted print:hidden"}>Project · your role: {loaderData.roleLabel}</p>
       <h1 className={workspace ? "truncate text-lg font-semibold text-lagoon-dark" : "text-2xl font-semibold text-lagoon-dark"}>{loaderData.project.name}</h1>
       <nav aria-label="Project" className={workspace ? "mt-1 print:hidden flex gap-1 overflow-x-auto border-b border-line pb-1 [&>a]:shrink-0 [&>a]:py-1" : "mt-3 print:hidden flex flex-wrap gap-1 border-b border-line pb-2"}>
-        <NavLink end to={base} className={linkClass}>Overview</NavLink>
-        <NavLink to={`${base}/map`} className={linkClass}>Map</NavLink>
-        <NavLink to={`${base}/surveys`} className={linkClass}>Surveys</NavLink>
-        <NavLink to={`${base}/plans`} className={linkClass}>Dive plans</NavLink>
-        <NavLink to={`${base}/dewatering`} className={linkClass}>Dewatering</NavLink>
-        <NavLink to={`${base}/water-quality`} className={linkClass}>Water quality</NavLink>
-        {loaderData.canReadReports ? <NavLink to={`${base}/days`} className={linkClass}>Daily reports</NavLink> : null}
-        {loaderData.canReadFinds ? <NavLink to={`${base}/finds`} className={linkClass}>Finds</NavLink> : null}
-        {loaderData.canManageMembers ? <NavLink to={`${base}/members`} className={linkClass}>Members</NavLink> : null}
-        {loaderData.canConfigure ? <NavLink to={`${base}/settings`} className={linkClass}>Settings</NavLink> : null}
-        {loaderData.canReadAudit ? <NavLink to={`${base}/audit`} className={linkClass}>Audit log</NavLink> : null}
+        {projectTabs(loaderData).map((tab) => {
+          const current = isCurrent(tab, rest);
+          return (
+            <Link key={tab.path} to={`${base}${tab.path}`} className={tabClass(current)} aria-current={current ? "page" : undefined}>{tab.label}</Link>
+          );
+        })}
       </nav>
       <StopWorkBanner projectId={loaderData.project.id} {...loaderData.stoppages} />
       {loaderData.heldCellCount > 0 ? (
         <p className="mt-3 rounded border border-danger bg-panel px-3 py-2 text-sm text-danger" data-testid="hold-banner">
-          Stop-work hold in force on {loaderData.heldCellCount} cells: they cannot be assigned. <NavLink className="underline" to={`${base}/holds`}>See holds</NavLink>
+          Stop-work hold in force on {loaderData.heldCellCount} cells: they cannot be assigned. <Link className="underline" to={`${base}/holds`}>See holds</Link>
         </p>
       ) : null}
       <div className={workspace ? "mt-2 min-h-0 flex-1" : "mt-6"}>
         <Outlet />
       </div>
-    </div>
+    </main>
   );
 }

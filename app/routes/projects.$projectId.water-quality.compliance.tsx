@@ -87,17 +87,17 @@ export default function WaterQualityCompliance({ loaderData }: Route.ComponentPr
               missed={station.kind === "compliance" ? missed : []} fromMs={loaderData.fromMs} toMs={loaderData.toMs} dayLabel={dayLabel} />
           ) : null}
           {readings.length === 0 ? <p className="text-sm text-muted">No readings in this period.</p> : (
-            <div className="overflow-x-auto">
+            <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label={`Readings at ${station.name}, scrollable`}>
               <table className="w-full text-sm" data-testid={`compliance-table-${station.name}`}>
-                <thead><tr className="border-b border-line text-left"><th className="py-1 pr-3">Time</th><th className="pr-3 text-right">Value</th><th className="pr-3 text-right">Background</th><th className="pr-3 text-right">Difference</th><th className="pr-3 text-right">Limit</th><th className="pr-3">Verdict</th><th>Sampled by</th></tr></thead>
+                <thead><tr className="border-b border-line text-left align-bottom"><th scope="col" className="py-1 pr-3">Time</th><th scope="col" className="pr-3 text-right">Value</th><th scope="col" className="pr-3 text-right">Background</th><th scope="col" className="pr-3 text-right">Difference</th><th scope="col" className="pr-3 text-right">Limit</th><th scope="col" className="pr-3">Verdict</th><th scope="col">Sampled by</th></tr></thead>
                 <tbody>
                   {readings.map((reading) => (
                     <tr key={reading.id} className="border-b border-line">
-                      <td className="py-1 pr-3 whitespace-nowrap">{localTime(reading.takenAt, timeZone)}</td>
-                      <td className="pr-3 text-right">{reading.value} {reading.unit}</td>
-                      <td className="pr-3 text-right">{reading.evaluation?.background ?? "—"}</td>
-                      <td className="pr-3 text-right">{reading.evaluation?.difference ?? "—"}</td>
-                      <td className="pr-3 text-right">{reading.evaluation?.limit ?? "—"}</td>
+                      <td className="py-1 pr-3 whitespace-nowrap"><time dateTime={reading.takenAt}>{localTime(reading.takenAt, timeZone)}</time></td>
+                      <td className="figures pr-3 text-right whitespace-nowrap">{reading.value} {reading.unit}</td>
+                      <td className="figures pr-3 text-right">{reading.evaluation?.background ?? "—"}</td>
+                      <td className="figures pr-3 text-right">{reading.evaluation?.difference ?? "—"}</td>
+                      <td className="figures pr-3 text-right">{reading.evaluation?.limit ?? "—"}</td>
                       <td className={`pr-3 ${reading.evaluation?.exceeds ? "font-semibold text-danger" : ""}`}>{reading.evaluation ? (reading.evaluation.exceeds === null ? "unpaired: no verdict" : reading.evaluation.exceeds ? "EXCEEDS" : "within") : "—"}</td>
                       <td>{reading.sampledBy}</td>
                     </tr>

@@ -244,7 +244,7 @@ export default function WaterQuality({ loaderData, actionData }: Route.Component
                   <tr key={reading.id} className="border-b border-line align-top">
                     <td className="py-1 pr-3 whitespace-nowrap">{localTime(reading.takenAt, timeZone)}</td>
                     <td className="pr-3">{reading.station}</td>
-                    <td className="pr-3 text-right whitespace-nowrap">{reading.value} {reading.unit}</td>
+                    <td className="figures pr-3 text-right whitespace-nowrap">{reading.value} {reading.unit}</td>
                     <td className={`pr-3 ${reading.evaluation?.exceeds ? "font-semibold text-danger" : reading.evaluation?.exceeds === null ? "text-caution" : ""}`}>{reading.verdict ?? "—"}</td>
                     <td>{reading.sampledBy}</td>
                   </tr>

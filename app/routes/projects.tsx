@@ -8,7 +8,7 @@ import { TextField } from "~/components/text-field";
 import { LengthUnitOptions } from "~/components/length-unit-options";
 import { requireUser } from "~/lib/auth/access.server";
 import { canCreateProjects } from "~/lib/auth/permissions";
-import { ROLE_LABELS } from "~/lib/auth/roles";
+import { roleLabel } from "~/lib/auth/roles";
 import { DomainError, validationErrorFrom } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
@@ -27,7 +27,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       id: project.id,
       name: project.name,
       description: project.description,
-      role: project.role ? ROLE_LABELS[project.role] : "Site administrator",
+      role: roleLabel(project.role),
     })),
     canCreate: canCreateProjects(user),
   };

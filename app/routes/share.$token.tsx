@@ -43,7 +43,7 @@ export default function SharePage({ loaderData: view }: Route.ComponentProps) {
       {/* The site's own header and sign-in link mean nothing to a public or embedded reader. */}
       <style>{"body > header { display: none; }"}</style>
       <h1 className="text-xl font-semibold text-lagoon-dark sm:text-2xl">{view.projectName}</h1>
-      <p className="text-sm text-muted">Restoration progress{view.lastUpdated ? <> · last updated <span className="figures">{view.lastUpdated}</span></> : null}</p>
+      <p className="text-sm text-muted">Restoration progress</p>
       <dl className="mt-4 grid grid-cols-2 gap-3 sm:grid-cols-3">
         <div className="rounded border border-line bg-panel p-3">
           <dt className="text-xs text-muted">Complete</dt>
@@ -55,7 +55,7 @@ export default function SharePage({ loaderData: view }: Route.ComponentProps) {
         </div>
         <div className="col-span-2 rounded border border-line bg-panel p-3 sm:col-span-1">
           <dt className="text-xs text-muted">Last updated</dt>
-          <dd className="figures text-2xl">{view.lastUpdated ?? "–"}</dd>
+          <dd className="figures text-2xl">{view.lastUpdated ? <time dateTime={view.lastUpdated}>{view.lastUpdated}</time> : "–"}</dd>
         </div>
       </dl>
       {view.nutrientsRemoved ? (
@@ -66,8 +66,13 @@ export default function SharePage({ loaderData: view }: Route.ComponentProps) {
       ) : null}
       {view.publicText ? <p className="mt-4 whitespace-pre-line">{view.publicText}</p> : null}
       <figure className="mt-4 rounded border border-line bg-panel p-2">
-        <ProgressOutlineMap workLimit={view.workLimit} zones={view.zones.filter((zone) => !zone.unzoned)} title={`Zones of ${view.projectName} coloured by percent complete`} />
-        <figcaption className="mt-2"><PercentLegend /></figcaption>
+        <ProgressOutlineMap
+          workLimit={view.workLimit} shoreline={view.shoreline} zones={view.zones.filter((zone) => !zone.unzoned)}
+          // A cubic-metre project measures in metres; a cubic-yard one in feet.
+          scaleUnit={view.volumeLabel === "m³" ? "m" : "ft"}
+          title={`Map of ${view.projectName}: ${view.shoreline.length > 0 ? "the shoreline, " : ""}the work limit and its zones coloured by percent complete, north up`}
+        />
+        <figcaption className="mt-2"><PercentLegend shoreline={view.shoreline.length > 0} /></figcaption>
       </figure>
       <h2 className="mt-4 font-semibold">Zones</h2>
       <ul className="mt-2 grid gap-2" aria-label="Zones">

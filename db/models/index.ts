@@ -48,7 +48,7 @@ import { HoldCell, initHoldCell } from "./hold-cell";
 import { HoldNotice, initHoldNotice } from "./hold-notice";
 
 export { AuditEvent, Invitation, LoginAttempt, Membership, PasswordReset, Project, User, Zone };
-export { ROLES, ROLE_LABELS, isRole, type Role } from "./roles";
+export { ROLES, ROLE_LABELS, isRole, roleLabel, type Role } from "./roles";
 export { LENGTH_UNITS, type LengthUnit } from "./project";
 export { ApiToken, CellResult, ColumnMapping, ImportJob, Sounding, Survey, SurveySnapshot };
 export { SURVEY_KINDS, SURVEY_STATUSES, type SurveyKind, type SurveyStatus } from "./survey";

@@ -12,6 +12,16 @@ export const ROLE_LABELS: Record<Role, string> = {
   viewer: "Viewer",
 };
 
+/**
+ * The one way a role is shown to people: its label ("Dewatering operator"), never its internal
+ * name. `null` is a site administrator who is not a member. In running text ("… as dewatering
+ * operator") ask for the sentence form.
+ */
+export function roleLabel(role: Role | null, form: "title" | "sentence" = "title"): string {
+  const label = role === null ? "Site administrator" : ROLE_LABELS[role];
+  return form === "sentence" ? label.toLowerCase() : label;
+}
+
 export function isRole(value: unknown): value is Role {
   return typeof value === "string" && (ROLES as readonly string[]).includes(value);
 }

@@ -53,6 +53,8 @@ describe("compileDay", () => {
     // 45 + 30 + 200 = 275 minutes; deepest 40.
     expect(day.dives).toMatchObject({ count: 3, bottomMinutes: 275, maxDepth: 40 });
     expect(day.dives.flags).toHaveLength(1);
+    // A depth in a flag carries the project's unit when it is given.
+    expect(compileDay(records({ lengthLabel: "ftUS" })).dives.flags[0]).toBe("K. Moss: bottom time 200 min at 40 ftUS beyond the no-decompression figure");
     expect(day.teams.map((team) => [team.team, team.headCount, team.dives, team.bottomMinutes, team.maxDepth, team.cells])).toEqual([
       ["Alpha", 4, 2, 75, 14.5, ["B3", "B4"]],
       ["Bravo", 3, 1, 200, 40, ["C1"]],

@@ -87,6 +87,8 @@ export interface DayRecords {
   timeZone: string;
   /** The instant the report is compiled; an open interruption counts until then (or the day's end). */
   nowMs: number;
+  /** The project's short length label ("ftUS", "m"): depths in the flags carry it. */
+  lengthLabel?: string;
   dives: readonly DayDive[];
   /** Team sizes from the day plan: team name → head count. */
   plannedTeams: ReadonlyArray<{ team: string; headCount: number }>;
@@ -210,7 +212,7 @@ export function compileDay(records: DayRecords): CompiledDay {
   const teamNames = [...new Set([...records.plannedTeams.map((team) => team.team), ...records.dives.map((dive) => dive.team)])].sort();
   const teams: TeamDay[] = teamNames.map((team) => {
     const own = records.dives.filter((dive) => dive.team === team);
-    const flags = own.filter((dive) => dive.beyondNoDecompression).map((dive) => `${dive.diver}${dive.visitor ? " (visitor)" : ""}: bottom time ${dive.bottomMinutes} min at ${dive.maxDepth} beyond the no-decompression figure`);
+    const flags = own.filter((dive) => dive.beyondNoDecompression).map((dive) => `${dive.diver}${dive.visitor ? " (visitor)" : ""}: bottom time ${dive.bottomMinutes} min at ${dive.maxDepth}${records.lengthLabel ? ` ${records.lengthLabel}` : ""} beyond the no-decompression figure`);
     return {
       team,
       headCount: records.plannedTeams.find((planned) => planned.team === team)?.headCount ?? null,

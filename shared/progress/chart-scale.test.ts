@@ -44,6 +44,50 @@ describe("outline paths", () => {
   });
 });
 
+describe("outline scale bar", () => {
+  it("measures ground distance and picks a round length that fits", async () => {
+    const { fitOutlineFrame, scaleBar, METRES_PER_DEGREE } = await import("./outline-svg");
+    // computed: 2π × 6,371,008.8 m / 360 = 111,195.08 m per degree of latitude (IUGG mean radius)
+    expect(METRES_PER_DEGREE).toBeCloseTo(111_195.08, 1);
+    // 0.01° of latitude (1,111.95 m) over 1000 − 2·10 = 980 units: 1.13464 m per unit
+    const ring: Array<[number, number]> = [[0, 0], [0.01, 0], [0.01, 0.01], [0, 0.01], [0, 0]];
+    const frame = fitOutlineFrame([ring], 1000, 10);
+    expect(frame.metresPerUnit).toBeCloseTo(1111.9508 / 980, 5);
+    // 250 units = 283.7 m: the longest 1-2-5 length below it is 200 m, drawn 200 / 1.13464 = 176.3 units long
+    const metres = scaleBar(frame, 250, "m")!;
+    expect(metres.length).toBe(200);
+    expect(metres.label).toBe("200 m");
+    expect(metres.units).toBeCloseTo(200 / (1111.9508 / 980), 3);
+    // in feet: 283.7 m = 930.7 ft → 500 ft, 500 × 0.3048 m = 152.4 m = 134.3 units
+    const feet = scaleBar(frame, 250, "ft")!;
+    expect([feet.length, feet.label]).toEqual([500, "500 ft"]);
+    expect(feet.units).toBeCloseTo(152.4 / (1111.9508 / 980), 3);
+    // invariant: the bar never exceeds the room it was given, whatever the room
+    for (const room of [3, 17, 99, 250, 640]) expect(scaleBar(frame, room, "ft")!.units).toBeLessThanOrEqual(room);
+    // an empty frame has no scale
+    expect(scaleBar(fitOutlineFrame([], 1000, 10), 250, "m")).toBeNull();
+  });
+});
+
+describe("thinPolygons", () => {
+  it("keeps about the budget, every ring closed, small rings whole, and only original vertices", async () => {
+    const { thinPolygons } = await import("./outline-svg");
+    // a 1,001-vertex closed circle and a 5-vertex square: budget 100 → stride ceil(1006 / 100) = 11
+    const circle: Array<[number, number]> = Array.from({ length: 1000 }, (_, index) => [Math.cos((index / 1000) * 2 * Math.PI), Math.sin((index / 1000) * 2 * Math.PI)] as [number, number]);
+    circle.push(circle[0]);
+    const square: Array<[number, number]> = [[0, 0], [1, 0], [1, 1], [0, 1], [0, 0]];
+    const [[thinCircle], [thinSquare]] = thinPolygons([[circle], [square]], 100);
+    expect(thinSquare).toEqual(square); // too small to thin
+    expect(thinCircle.length).toBe(Math.ceil(1000 / 11) + 1); // indices 0, 11, … 990, then the closing vertex
+    expect(thinCircle[0]).toEqual(circle[0]);
+    expect(thinCircle.at(-1)).toEqual(circle.at(-1)); // still closed
+    const originals = new Set(circle.map((point) => point.join(",")));
+    expect(thinCircle.every((point) => originals.has(point.join(",")))).toBe(true); // nothing invented
+    // within budget: untouched
+    expect(thinPolygons([[circle]], 5000)[0][0]).toEqual(circle);
+  });
+});
+
 describe("spreadLabels", () => {
   // Invariants (no external source needed): order kept, gaps at least minGap, untouched when already apart.
   it("leaves labels that are already apart where they are", () => {

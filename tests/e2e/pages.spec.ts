@@ -16,7 +16,7 @@ test("the audit log shows sign-ins to the manager", async ({ page, signIn }) => 
   await signIn("manager");
   await page.getByRole("link", { name: /Spring run restoration/ }).click();
   await page.getByRole("link", { name: "Audit log" }).click();
-  await expect(page.getByRole("cell", { name: "sign-in", exact: true }).first()).toBeVisible();
+  await expect(page.getByRole("cell", { name: "Sign in", exact: true }).first()).toBeVisible();
 });
 
 test("the site admin reads sent mail at /dev/mail", async ({ page, signIn }) => {

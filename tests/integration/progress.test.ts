@@ -15,7 +15,7 @@ import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
 import { UNZONED_NAME, rollUpZones } from "../../shared/volumes/rollup";
 import { cellLabel, cellRowCol } from "../../shared/grid/cell-grid";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
-import { Assignment, Dive, DiveTeam, Project, ShareLink, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
+import { Assignment, Dive, DiveTeam, Project, ShareLink, Shoreline, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
 import { loadProgress, type ProgressView } from "~/models/progress.server";
 import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
 import { loadQuantities, quantitiesCsv } from "~/models/quantities.server";
@@ -372,7 +372,7 @@ describe("public share links", () => {
 
     const view = await publicProgressForToken(created.token);
     expect(view).not.toBeNull();
-    expect(Object.keys(view!).sort()).toEqual(["lastUpdated", "nutrientsRemoved", "percentComplete", "projectName", "publicText", "removedVolume", "volumeLabel", "workLimit", "zones"]);
+    expect(Object.keys(view!).sort()).toEqual(["lastUpdated", "nutrientsRemoved", "percentComplete", "projectName", "publicText", "removedVolume", "shoreline", "volumeLabel", "workLimit", "zones"]);
     // No lab sample on this project yet: no nutrient headline.
     expect(view!.nutrientsRemoved).toBeNull();
     expect(view!.percentComplete).toBe(Math.round(progress.total.percentCompleteByVolume!));
@@ -406,6 +406,24 @@ describe("public share links", () => {
     expect(findLeak.some((problem) => problem.includes("holds: forbidden key"))).toBe(true);
     expect(findLeak.some((problem) => problem.includes("photo: forbidden key"))).toBe(true);
     expect(findLeak.some((problem) => problem.includes("WS-2026-0001"))).toBe(true);
+  });
+
+  it("the public view carries the shoreline for the context map, and only its vertices", async () => {
+    // practice: a shoreline about 100 m around the work limit, as a manager uploads it for the map
+    const positions = WORK_LIMIT.coordinates.flat();
+    const lons = positions.map(([lon]) => lon), lats = positions.map(([, lat]) => lat);
+    const [west, east, south, north] = [Math.min(...lons) - 0.001, Math.max(...lons) + 0.001, Math.min(...lats) - 0.001, Math.max(...lats) + 0.001];
+    const ring = [[west, south], [east, south], [east, north], [west, north], [west, south]];
+    const shoreline = await Shoreline.create({ projectId: project.id, fileName: "shore.geojson", geoJson: JSON.stringify({ type: "FeatureCollection", features: [{ type: "Feature", properties: { name: "secret-name" }, geometry: { type: "Polygon", coordinates: [ring] } }] }) });
+    try {
+      const view = await publicProgressForToken((await createShareLink(project, { id: outreachId } as never, { name: "with shore", publicText: "" }, ORIGIN, null)).token);
+      expect(view!.shoreline).toEqual([[ring]]);
+      const rules = await walkRules();
+      // The shoreline's vertices join the allowed ones; its properties (a file's names, notes) never travel.
+      expect(walkPublicValue(view, { ...rules, allowedVertices: [...rules.allowedVertices, ...(ring as Array<[number, number]>)], forbiddenStrings: [...rules.forbiddenStrings, "secret-name", "shore.geojson"] })).toEqual([]);
+    } finally {
+      await shoreline.destroy();
+    }
   });
 
   it("the API: outreach POST 201 {token,url}, a viewer 403, DELETE 204 then the link is gone", async () => {

@@ -1,6 +1,7 @@
-import type { Transaction } from "sequelize";
+import { Op, type Transaction, type WhereOptions } from "sequelize";
 import { AuditEvent, User } from "~/lib/db.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
+import { instantOfLocal, localClockOf, localDayOf } from "../../../shared/local-time";
 
 /** Every action Firmsand records; later issues add imports, assignments and the like. */
 export const AUDIT_ACTIONS = {
@@ -83,9 +84,17 @@ export async function recordAudit(input: AuditInput, transaction?: Transaction):
   );
 }
 
+/** Every recorded action, for the audit log's filter. */
+export const AUDIT_ACTION_NAMES = Object.values(AUDIT_ACTIONS) as AuditAction[];
+
+export { auditActionLabel } from "./action-label";
+
 export interface AuditEventView {
   id: number;
   at: string;
+  /** Local date and time in the project's time zone (YYYY-MM-DD, HH:MM). */
+  localDay: string;
+  localTime: string;
   action: string;
   actor: string | null;
   detail: Record<string, unknown>;
@@ -94,10 +103,39 @@ export interface AuditEventView {
 
 export const AUDIT_PAGE_SIZE = 50;
 
-/** One page (newest first) of the project's audit log, including its members' sign-ins. */
-export async function listProjectAuditEvents(project: ProjectView, page: number) {
+/** What the audit log is narrowed to: a person, an action, local days from and to (inclusive, in the project's time zone). */
+export interface AuditFilter {
+  userId?: number;
+  action?: AuditAction;
+  from?: string;
+  to?: string;
+}
+
+function auditWhere(project: ProjectView, filter: AuditFilter): WhereOptions {
+  const createdAt: Record<symbol, Date> = {};
+  if (filter.from) createdAt[Op.gte] = new Date(instantOfLocal(filter.from, 0, project.timeZone));
+  // Up to the start of the next local day: the whole of `to` is included, whatever its length.
+  if (filter.to) createdAt[Op.lt] = new Date(instantOfLocal(filter.to, 24 * 60, project.timeZone));
+  return {
+    projectId: project.id,
+    ...(filter.userId ? { userId: filter.userId } : {}),
+    ...(filter.action ? { action: filter.action } : {}),
+    ...(filter.from || filter.to ? { createdAt } : {}),
+  };
+}
+
+/** The people who appear in the project's audit log, for its person filter (name order). */
+export async function listAuditPeople(project: ProjectView): Promise<Array<{ id: number; name: string; email: string }>> {
+  const rows = (await AuditEvent.findAll({ where: { projectId: project.id, userId: { [Op.ne]: null } }, attributes: ["userId"], group: ["userId"], raw: true })) as unknown as Array<{ userId: number }>;
+  if (rows.length === 0) return [];
+  const users = await User.findAll({ where: { id: rows.map((row) => row.userId) }, attributes: ["id", "name", "email"], order: [["name", "ASC"], ["id", "ASC"]] });
+  return users.map((user) => ({ id: user.id, name: user.name, email: user.email }));
+}
+
+/** One page (newest first) of the project's audit log, including its members' sign-ins, narrowed by `filter`. */
+export async function listProjectAuditEvents(project: ProjectView, page: number, filter: AuditFilter = {}) {
   const { rows, count } = await AuditEvent.findAndCountAll({
-    where: { projectId: project.id },
+    where: auditWhere(project, filter),
     include: [{ model: User, as: "user", attributes: ["name", "email"] }],
     order: [["createdAt", "DESC"], ["id", "DESC"]],
     limit: AUDIT_PAGE_SIZE,
@@ -106,6 +144,8 @@ export async function listProjectAuditEvents(project: ProjectView, page: number)
   const events: AuditEventView[] = rows.map((event) => ({
     id: Number(event.id),
     at: event.createdAt.toISOString(),
+    localDay: localDayOf(event.createdAt.getTime(), project.timeZone),
+    localTime: localClockOf(event.createdAt.getTime(), project.timeZone),
     action: event.action,
     actor: event.user ? `${event.user.name} <${event.user.email}>` : null,
     detail: event.detail,

@@ -1,0 +1,27 @@
+import { useLayoutEffect, useRef, useState } from "react";
+
+// useLayoutEffect warns when rendered on the server; there the fallback width is used anyway.
+const useBrowserLayoutEffect = typeof window === "undefined" ? () => {} : useLayoutEffect;
+
+/**
+ * The rendered width of an element in CSS pixels, kept up to date as its panel resizes. A chart
+ * drawn with its viewBox at this width has one user unit per pixel, so its 12 px text stays 12 px
+ * at any panel size. Before the page's scripts run (and on the server) it is `fallback`.
+ */
+export function useMeasuredWidth<T extends HTMLElement>(fallback: number): [React.RefObject<T | null>, number, boolean] {
+  const ref = useRef<T | null>(null);
+  const [width, setWidth] = useState<number | null>(null);
+  useBrowserLayoutEffect(() => {
+    const element = ref.current;
+    if (!element) return;
+    const measure = () => {
+      const measured = Math.floor(element.getBoundingClientRect().width);
+      if (measured > 0) setWidth(measured);
+    };
+    measure();
+    const observer = new ResizeObserver(measure);
+    observer.observe(element);
+    return () => observer.disconnect();
+  }, []);
+  return [ref, width ?? fallback, width !== null];
+}

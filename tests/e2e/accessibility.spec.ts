@@ -1,0 +1,161 @@
+import { join } from "node:path";
+import AxeBuilder from "@axe-core/playwright";
+import { request as playwrightRequest, type Page } from "@playwright/test";
+import { configuredRoutes } from "../configured-routes";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoProjectId, expect, signInRequest, test, type DemoAccount } from "./fixtures";
+
+// The automated accessibility check: every page route of app/routes.ts (the .tsx files; resource
+// routes answer JSON, CSV or GeoJSON), opened at desktop size as a person allowed to see it, with
+// axe-core's rules; a serious or critical violation fails. Each route's address and who opens it
+// is written out below; a page route without a row fails the first test, so a new page joins here.
+
+const SERIOUS = new Set(["serious", "critical"]);
+const PLAN_DATE = "2026-11-12";
+const FIXTURES = join(import.meta.dirname, "..", "fixtures", "import");
+
+interface Ids {
+  project: number;
+  survey: number;
+  find: number;
+  shareToken: string;
+  messageId: string;
+}
+
+/** Who opens a page: a demo account, or nobody signed in. */
+type Visitor = DemoAccount | "signed-out";
+
+interface PageRow {
+  /** The route's path exactly as app/routes.ts has it. */
+  route: string;
+  url: (ids: Ids) => string;
+  as: Visitor;
+  /** Why a row is not checked (it must say when it will be). */
+  skip?: string;
+}
+
+const PAGES: PageRow[] = [
+  { route: "", url: () => "/", as: "signed-out" },
+  { route: "account", url: () => "/account", as: "manager" },
+  { route: "admin/users", url: () => "/admin/users", as: "admin" },
+  { route: "dev/mail", url: () => "/dev/mail", as: "admin" },
+  { route: "dev/mail/:messageId", url: (ids) => `/dev/mail/${ids.messageId}`, as: "admin" },
+  { route: "forgot-password", url: () => "/forgot-password", as: "signed-out" },
+  { route: "invite/:token", url: () => "/invite/no-such-token", as: "signed-out" },
+  { route: "login", url: () => "/login", as: "signed-out" },
+  { route: "projects", url: () => "/projects", as: "manager" },
+  { route: "projects/:projectId", url: (ids) => `/projects/${ids.project}`, as: "manager" },
+  { route: "projects/:projectId/audit", url: (ids) => `/projects/${ids.project}/audit`, as: "manager" },
+  { route: "projects/:projectId/days", url: (ids) => `/projects/${ids.project}/days`, as: "manager" },
+  { route: "projects/:projectId/days/:date", url: (ids) => `/projects/${ids.project}/days/${PLAN_DATE}`, as: "dive-supervisor" },
+  { route: "projects/:projectId/dewatering", url: (ids) => `/projects/${ids.project}/dewatering`, as: "dewatering" },
+  { route: "projects/:projectId/dewatering/hauls", url: (ids) => `/projects/${ids.project}/dewatering/hauls`, as: "dewatering" },
+  { route: "projects/:projectId/dewatering/samples", url: (ids) => `/projects/${ids.project}/dewatering/samples`, as: "resource-monitor" },
+  { route: "projects/:projectId/dewatering/tubes", url: (ids) => `/projects/${ids.project}/dewatering/tubes`, as: "dewatering" },
+  { route: "projects/:projectId/finds", url: (ids) => `/projects/${ids.project}/finds`, as: "resource-monitor" },
+  { route: "projects/:projectId/finds/:findId", url: (ids) => `/projects/${ids.project}/finds/${ids.find}`, as: "resource-monitor" },
+  { route: "projects/:projectId/finds/new", url: (ids) => `/projects/${ids.project}/finds/new`, as: "resource-monitor" },
+  { route: "projects/:projectId/holds", url: (ids) => `/projects/${ids.project}/holds`, as: "resource-monitor" },
+  { route: "projects/:projectId/map", url: (ids) => `/projects/${ids.project}/map`, as: "manager" },
+  { route: "projects/:projectId/members", url: (ids) => `/projects/${ids.project}/members`, as: "manager" },
+  { route: "projects/:projectId/plans", url: (ids) => `/projects/${ids.project}/plans`, as: "dive-supervisor" },
+  { route: "projects/:projectId/plans/:date", url: (ids) => `/projects/${ids.project}/plans/${PLAN_DATE}`, as: "dive-supervisor" },
+  { route: "projects/:projectId/quantities", url: (ids) => `/projects/${ids.project}/quantities`, as: "manager" },
+  { route: "projects/:projectId/settings", url: (ids) => `/projects/${ids.project}/settings`, as: "manager" },
+  { route: "projects/:projectId/share", url: (ids) => `/projects/${ids.project}/share`, as: "outreach" },
+  { route: "projects/:projectId/surveys", url: (ids) => `/projects/${ids.project}/surveys`, as: "surveyor" },
+  { route: "projects/:projectId/surveys/:surveyId", url: (ids) => `/projects/${ids.project}/surveys/${ids.survey}`, as: "surveyor" },
+  // Its address comes from an upload made in the test (see below).
+  { route: "projects/:projectId/surveys/imports/:jobId", url: () => "", as: "surveyor" },
+  { route: "projects/:projectId/surveys/new", url: (ids) => `/projects/${ids.project}/surveys/new`, as: "surveyor" },
+  { route: "projects/:projectId/water-quality", url: (ids) => `/projects/${ids.project}/water-quality`, as: "resource-monitor" },
+  { route: "projects/:projectId/water-quality/compliance", url: (ids) => `/projects/${ids.project}/water-quality/compliance`, as: "manager" },
+  { route: "projects/:projectId/water-quality/setup", url: (ids) => `/projects/${ids.project}/water-quality/setup`, as: "manager" },
+  { route: "projects/:projectId/finds/catalogue", url: (ids) => `/projects/${ids.project}/finds/catalogue`, as: "resource-monitor" },
+  { route: "projects/:projectId/finds/:findId/custody-sheet", url: (ids) => `/projects/${ids.project}/finds/${ids.find}/custody-sheet`, as: "resource-monitor" },
+  { route: "projects/:projectId/quantities/report", url: (ids) => `/projects/${ids.project}/quantities/report`, as: "manager" },
+  { route: "reset-password/:token", url: () => "/reset-password/no-such-token", as: "signed-out" },
+  { route: "share/:token", url: (ids) => `/share/${ids.shareToken}`, as: "signed-out" },
+];
+
+/** Serious and critical violations on the open page, one line each with where they are. */
+async function seriousViolations(page: Page): Promise<string[]> {
+  const results = await new AxeBuilder({ page }).analyze();
+  return results.violations
+    .filter((violation) => SERIOUS.has(violation.impact ?? ""))
+    .flatMap((violation) => violation.nodes.map((node) => `${violation.impact} ${violation.id}: ${violation.help} — ${node.target.join(" ")}`));
+}
+
+test("every page route of app/routes.ts has a row in the accessibility walk", () => {
+  const pages = configuredRoutes().filter((route) => route.file.endsWith(".tsx"));
+  const listed = new Set(PAGES.map((row) => row.route));
+  expect(pages.filter((route) => !listed.has(route.path)).map((route) => `${route.path || "/"} (${route.file})`), "page routes without a row").toEqual([]);
+  const known = new Set(pages.map((route) => route.path));
+  expect(PAGES.filter((row) => !known.has(row.route)).map((row) => row.route), "rows naming no page route").toEqual([]);
+});
+
+test.describe("no serious or critical accessibility violations", () => {
+  let ids: Ids;
+
+  test.beforeAll(async ({ baseURL }) => {
+    const context = await playwrightRequest.newContext({ baseURL });
+    const project = await demoProjectId(context, baseURL!);
+    const surveys = (await (await context.get(`/api/projects/${project}/surveys`)).json()) as { surveys: Array<{ id: number }> };
+    const finds = (await (await context.get(`/api/projects/${project}/finds`)).json()) as { finds: Array<{ id: number }> };
+    const share = await context.post(`/api/projects/${project}/share-links`, { data: { name: "Accessibility check", publicText: "Checked by the accessibility walk." }, headers: { Origin: new URL(baseURL!).origin } });
+    expect(share.status()).toBe(201);
+    const { token } = (await share.json()) as { token: string };
+    await context.dispose();
+    // A message in the demo mailbox: a reset link asked for the viewer's account.
+    const admin = await playwrightRequest.newContext({ baseURL });
+    await admin.post("/forgot-password", { form: { email: DEMO_ACCOUNTS.viewer }, headers: { Origin: new URL(baseURL!).origin } });
+    await signInRequest(admin, baseURL!, DEMO_ACCOUNTS.admin);
+    let messageId = "";
+    await expect.poll(async () => {
+      messageId = (await (await admin.get("/dev/mail")).text()).match(/href="\/dev\/mail\/([^"]+)"/)?.[1] ?? "";
+      return messageId;
+    }, { timeout: 20_000 }).not.toBe("");
+    await admin.dispose();
+    ids = { project, survey: surveys.surveys[0].id, find: finds.finds[0].id, shareToken: token, messageId };
+  });
+
+  for (const row of PAGES) {
+    test(`${row.route || "/"} as ${row.as}`, async ({ browser, baseURL }) => {
+      test.skip(Boolean(row.skip), row.skip);
+      // axe reads every node: a survey's page with its sounding plot takes half a minute on a busy machine.
+      test.setTimeout(180_000);
+      const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+      if (row.as !== "signed-out") await signInRequest(context.request, baseURL!, DEMO_ACCOUNTS[row.as], DEMO_PASSWORD);
+      const page = await context.newPage();
+      let discard: (() => Promise<void>) | null = null;
+      if (row.route === "projects/:projectId/surveys/imports/:jobId") {
+        // An upload of our own, checked and then discarded, so the walk leaves nothing behind.
+        await page.goto(`/projects/${ids.project}/surveys/new`);
+        await page.getByLabel(/Sounding file/).setInputFiles(join(FIXTURES, "duplicate-rows.csv"));
+        await page.getByLabel("Survey kind").selectOption("progress");
+        await page.getByLabel("Survey date").fill("2026-12-01");
+        await page.getByLabel(/Water-surface elevation/).fill("31.7");
+        await page.getByRole("button", { name: "Upload and check" }).click();
+        await expect(page).toHaveURL(/\/surveys\/imports\/\d+$/);
+        await expect(page.getByRole("heading", { level: 2 })).toBeVisible();
+        discard = async () => {
+          await page.getByRole("button", { name: "Discard this upload" }).click();
+          await expect(page).not.toHaveURL(/\/surveys\/imports\/\d+$/);
+        };
+      } else {
+        const response = await page.goto(row.url(ids));
+        expect(response?.status(), row.url(ids)).toBeLessThan(400);
+      }
+      await page.waitForLoadState("networkidle");
+      // One <main> on every page, and an h1 before any other heading.
+      await expect(page.locator("main")).toHaveCount(1);
+      const levels = await page.locator("h1, h2, h3, h4, h5, h6").evaluateAll((headings) => headings.map((heading) => Number(heading.tagName[1])));
+      expect(levels[0], "the first heading is the h1").toBe(1);
+      levels.forEach((level, index) => {
+        if (index > 0) expect(level - levels[index - 1], `heading ${index + 1} skips a level (${levels.join(", ")})`).toBeLessThanOrEqual(1);
+      });
+      expect(await seriousViolations(page)).toEqual([]);
+      if (discard) await discard();
+      await context.close();
+    });
+  }
+});

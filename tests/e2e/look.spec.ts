@@ -1,0 +1,238 @@
+import { request as playwrightRequest, type Locator, type Page } from "@playwright/test";
+import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, uniqueEmail, waitForMail } from "./fixtures";
+
+// One look across the manager's and outreach pages: role labels in mail, the audit log's filter,
+// the tab bar, the share page's copy buttons and form, the public page's map, unit labels, chart
+// text sizes, dates that never wrap, headers that stay apart, and words in the sans font.
+
+let projectId = 0;
+
+test.beforeAll(async ({ baseURL }) => {
+  const context = await playwrightRequest.newContext({ baseURL });
+  projectId = await demoProjectId(context, baseURL!);
+  await context.dispose();
+});
+
+async function signedIn(page: Page, baseURL: string, account: keyof typeof DEMO_ACCOUNTS) {
+  await signInRequest(page.context().request, baseURL, DEMO_ACCOUNTS[account]);
+}
+
+/** Rendered text sizes, in CSS pixels, of every <text> of the SVGs under `root`: font size × the SVG's scale. */
+async function renderedTextSizes(root: Locator): Promise<number[]> {
+  return root.locator("svg").evaluateAll((svgs) => svgs.flatMap((svg) => {
+    const box = (svg as SVGSVGElement).viewBox.baseVal;
+    const scale = box && box.width > 0 ? svg.getBoundingClientRect().width / box.width : 1;
+    return [...svg.querySelectorAll("text")].map((text) => parseFloat(getComputedStyle(text).fontSize) * scale);
+  }));
+}
+
+const fontOf = (locator: Locator) => locator.evaluate((element) => getComputedStyle(element).fontFamily);
+
+test("the invitation mail names the role by its label, not its internal name", async ({ page, baseURL }) => {
+  const email = uniqueEmail("operator");
+  await signedIn(page, baseURL!, "manager");
+  await page.goto(`/projects/${projectId}/members`);
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Role", { exact: true }).selectOption("dewatering");
+  await page.getByRole("button", { name: "Send invitation" }).click();
+  await expect(page.getByRole("region", { name: "Open invitations" }).getByText(email)).toBeVisible();
+  const mail = await waitForMail(email);
+  expect(mail.text).toContain("on Firmsand as dewatering operator.");
+  expect(mail.text).not.toMatch(/as dewatering\./);
+  // The open invitation and the audit log say it the same way.
+  await expect(page.getByRole("region", { name: "Open invitations" }).getByText("Dewatering operator")).toBeVisible();
+  await page.goto(`/projects/${projectId}/audit?action=invite`);
+  await expect(page.getByRole("cell", { name: new RegExp(`email: ${email.replace(/[.+]/g, "\\$&")}, role: Dewatering operator`) })).toBeVisible();
+});
+
+test("the audit log filters by person, action and dates, as a link, with an empty state", async ({ page, baseURL }) => {
+  await signedIn(page, baseURL!, "manager");
+  await page.goto(`/projects/${projectId}/audit`);
+  await page.getByLabel("Action").selectOption("sign-in");
+  await page.getByLabel("Person").selectOption({ label: `Imogen Tallis (${DEMO_ACCOUNTS.manager})` });
+  await page.getByRole("button", { name: "Filter" }).click();
+  await expect(page).toHaveURL(/\/audit\?person=\d+&action=sign-in(&|$)/);
+  const rows = page.locator("tbody tr");
+  await expect(rows.first()).toBeVisible();
+  // Every row shown is a sign-in of that person.
+  expect(new Set(await rows.locator("td:nth-child(3)").allTextContents())).toEqual(new Set(["Sign in"]));
+  expect(new Set(await rows.locator("td:nth-child(2)").allTextContents())).toEqual(new Set([`Imogen Tallis <${DEMO_ACCOUNTS.manager}>`]));
+  // The filter is a link: opened afresh, the form shows it.
+  await page.goto(page.url());
+  await expect(page.getByLabel("Action")).toHaveValue("sign-in");
+  // Days long before the project: nothing matches, and the page says so with a way back.
+  await page.goto(`/projects/${projectId}/audit?from=2001-01-01&to=2001-01-31`);
+  await expect(page.getByTestId("audit-empty")).toContainText("No entries match this filter.");
+  await page.getByRole("link", { name: "Show the whole log" }).click();
+  await expect(page).toHaveURL(new RegExp(`/projects/${projectId}/audit$`));
+  await expect(rows.first()).toBeVisible();
+  // Dates the wrong way round are named and swapped; a nonsense value is named and ignored.
+  await page.goto(`/projects/${projectId}/audit?from=2099-01-02&to=2001-01-01&action=no-such-action`);
+  await expect(page.getByRole("alert")).toContainText("The from date (2099-01-02) is after the to date (2001-01-01)");
+  await expect(page.getByRole("alert")).toContainText("Choose an action from the list.");
+  // Today (in any time zone near the project's) holds the sign-in this test made.
+  const today = new Date().toISOString().slice(0, 10);
+  const yesterday = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
+  await page.goto(`/projects/${projectId}/audit?action=sign-in&from=${yesterday}&to=${today}`);
+  await expect(rows.first()).toBeVisible();
+});
+
+test("the tab bar offers Quantities and Share by role and marks the current tab on every project page", async ({ browser, baseURL }) => {
+  const tabs = (page: Page) => page.getByRole("navigation", { name: "Project" });
+  const manager = await (await browser.newContext()).newPage();
+  await signedIn(manager, baseURL!, "manager");
+  for (const [path, tab] of [["", "Overview"], ["/quantities", "Quantities"], ["/share", "Share"], ["/surveys/new", "Surveys"], ["/plans/2026-11-12", "Map"], ["/holds", "Finds"], ["/water-quality/compliance", "Water quality"], ["/audit", "Audit log"]] as const) {
+    await manager.goto(`/projects/${projectId}${path}`);
+    const current = tabs(manager).locator('[aria-current="page"]');
+    await expect(current, path).toHaveCount(1);
+    await expect(current, path).toHaveText(tab);
+  }
+  await manager.context().close();
+  // Outreach shares but does not read quantities; a viewer reads quantities but does not share.
+  const outreach = await (await browser.newContext()).newPage();
+  await signedIn(outreach, baseURL!, "outreach");
+  await outreach.goto(`/projects/${projectId}`);
+  await expect(tabs(outreach).getByRole("link", { name: "Share" })).toBeVisible();
+  await expect(tabs(outreach).getByRole("link", { name: "Quantities" })).toHaveCount(0);
+  await outreach.context().close();
+  const viewer = await (await browser.newContext()).newPage();
+  await signedIn(viewer, baseURL!, "viewer");
+  await viewer.goto(`/projects/${projectId}`);
+  await expect(tabs(viewer).getByRole("link", { name: "Quantities" })).toBeVisible();
+  await expect(tabs(viewer).getByRole("link", { name: "Share" })).toHaveCount(0);
+  await viewer.context().close();
+});
+
+test("the share page shows the whole embed snippet with a working Copy button and empties the form", async ({ browser, baseURL }) => {
+  const context = await browser.newContext({ viewport: { width: 390, height: 844 }, permissions: ["clipboard-read", "clipboard-write"] });
+  const page = await context.newPage();
+  await signedIn(page, baseURL!, "outreach");
+  await page.goto(`/projects/${projectId}/share`);
+  const form = page.getByTestId("create-link-form");
+  await form.getByLabel("Link name").fill("Library kiosk");
+  await form.getByLabel("Public text").fill("Progress of the spring run work.");
+  await form.getByRole("button", { name: "Create link" }).click();
+  const snippet = page.getByTestId("embed-snippet");
+  await expect(snippet).toContainText("</iframe>");
+  // Wrapped, not cut off: nothing of it is hidden sideways, even on a phone.
+  expect(await snippet.evaluate((element) => element.scrollWidth <= element.clientWidth)).toBe(true);
+  const url = await page.getByTestId("share-url").textContent();
+  await page.getByRole("button", { name: "Copy the embed code" }).click();
+  await expect(page.getByRole("button", { name: "Copy the embed code: copied" })).toHaveText(/Copied/);
+  const copied = await page.evaluate(() => navigator.clipboard.readText());
+  expect(copied).toBe(await snippet.textContent());
+  expect(copied).toContain(`src="${url}"`);
+  // The create form is empty again, ready for the next link.
+  await expect(form.getByLabel("Link name")).toHaveValue("");
+  await expect(form.getByLabel("Public text")).toHaveValue("");
+  await context.close();
+});
+
+test("the public page says 'Last updated' once and shows a north arrow and a scale bar", async ({ browser, baseURL }) => {
+  const context = await playwrightRequest.newContext({ baseURL });
+  await signInRequest(context, baseURL!, DEMO_ACCOUNTS.outreach);
+  const created = await context.post(`/api/projects/${projectId}/share-links`, { data: { name: "Public look", publicText: "" }, headers: { Origin: new URL(baseURL!).origin } });
+  const { url } = (await created.json()) as { url: string };
+  await context.dispose();
+  for (const viewport of [{ width: 1440, height: 900 }, { width: 390, height: 844 }]) {
+    const visitor = await browser.newContext({ viewport });
+    const page = await visitor.newPage();
+    await page.goto(new URL(url).pathname);
+    await expect(page.getByText(/last updated/i)).toHaveCount(1);
+    await expect(page.getByTestId("progress-map")).toBeVisible();
+    await expect(page.getByRole("img", { name: /North arrow/ })).toBeVisible();
+    const scale = page.getByTestId("progress-map-scale");
+    await expect(scale).toContainText(/^\d[\d,]* (ft|mi)/);
+    // The bar is a round length and no wider than a quarter of the map.
+    const [bar, map] = await Promise.all([scale.locator("span").first().boundingBox(), page.getByTestId("progress-map").boundingBox()]);
+    expect(bar!.width).toBeGreaterThan(10);
+    expect(bar!.width).toBeLessThanOrEqual(map!.width / 4 + 1);
+    await visitor.close();
+  }
+});
+
+test("units carry one label each and every figure has its unit", async ({ page, baseURL }) => {
+  await signedIn(page, baseURL!, "manager");
+  await page.goto(`/projects/${projectId}`);
+  await expect(page.getByTestId("cross-check").locator("xpath=..")).toContainText(/\d+ sections \d+(\.\d+)? ftUS apart/);
+  const surveys = (await (await page.context().request.get(`/api/projects/${projectId}/surveys`)).json()) as { surveys: Array<{ id: number }> };
+  await page.goto(`/projects/${projectId}/surveys/${surveys.surveys[0].id}`);
+  await expect(page.getByText(/depths in US survey feet/)).toBeVisible();
+  // No raw unit name anywhere a person reads.
+  for (const path of ["", `/surveys/${surveys.surveys[0].id}`, "/quantities", "/settings"]) {
+    await page.goto(`/projects/${projectId}${path}`);
+    expect(await page.locator("main").innerText(), path).not.toMatch(/\bus-ft\b/);
+  }
+});
+
+test("chart text is at least 12 px and charts fit their panels, on a desktop and a phone", async ({ browser, baseURL }) => {
+  for (const viewport of [{ width: 1440, height: 900 }, { width: 390, height: 844 }]) {
+    const context = await browser.newContext({ viewport });
+    const page = await context.newPage();
+    await signedIn(page, baseURL!, "manager");
+    await page.goto(`/projects/${projectId}`);
+    const cumulative = page.getByTestId("cumulative-chart");
+    await expect(cumulative).toBeVisible();
+    const charts = page.locator("section").filter({ has: page.locator("[data-testid$='-chart']") });
+    // Drawn at the measured width once the page's scripts run.
+    await expect.poll(async () => Math.min(...(await renderedTextSizes(charts))), { message: `smallest chart text at ${viewport.width} px` }).toBeGreaterThanOrEqual(11.99);
+    expect((await renderedTextSizes(charts)).length).toBeGreaterThan(10);
+    // Sized to its panel: the chart spans the panel's content width, give or take a pixel.
+    const [chart, panel] = await Promise.all([cumulative.boundingBox(), cumulative.locator("xpath=../..").evaluate((element) => {
+      const style = getComputedStyle(element);
+      return element.getBoundingClientRect().width - parseFloat(style.paddingLeft) - parseFloat(style.paddingRight);
+    })]);
+    expect(Math.abs(chart!.width - panel)).toBeLessThanOrEqual(2);
+    // …and the panel fits the window: nothing pushed past the right edge.
+    expect(chart!.x + chart!.width, `chart's right edge at ${viewport.width} px`).toBeLessThanOrEqual(viewport.width);
+    await context.close();
+  }
+  const context = await browser.newContext({ viewport: { width: 390, height: 844 } });
+  const page = await context.newPage();
+  await signedIn(page, baseURL!, "manager");
+  await page.goto(`/projects/${projectId}/water-quality/compliance`);
+  const turbidity = page.locator("[data-testid^='turbidity-chart-']");
+  if ((await turbidity.count()) > 0) await expect.poll(async () => Math.min(...(await renderedTextSizes(turbidity.locator("xpath=.."))))).toBeGreaterThanOrEqual(11.99);
+  await context.close();
+});
+
+test("dates never wrap and report headers stay apart", async ({ browser, baseURL }) => {
+  const context = await browser.newContext({ viewport: { width: 390, height: 844 } });
+  const page = await context.newPage();
+  await signedIn(page, baseURL!, "manager");
+  for (const path of ["", "/quantities/report"]) {
+    await page.goto(`/projects/${projectId}${path}`);
+    const dates = page.locator("table time");
+    await expect(dates.first()).toBeVisible();
+    // One line each: as tall as the line height, never two.
+    const heights = await dates.evaluateAll((times) => times.map((time) => {
+      const style = getComputedStyle(time);
+      const line = parseFloat(style.lineHeight) || parseFloat(style.fontSize) * 1.2;
+      return time.getBoundingClientRect().height / line;
+    }));
+    expect(Math.max(...heights), path).toBeLessThan(1.5);
+  }
+  // The report's headers: each starts after the one before it ends.
+  const headers = await page.getByRole("table", { name: "Totals per zone" }).locator("thead th").evaluateAll((cells) => cells.map((cell) => {
+    const range = document.createRange();
+    range.selectNodeContents(cell);
+    const text = range.getBoundingClientRect();
+    return { left: text.left, right: text.right };
+  }));
+  for (let index = 1; index < headers.length; index++) expect(headers[index].left, `header ${index + 1}`).toBeGreaterThanOrEqual(headers[index - 1].right + 4);
+  await context.close();
+});
+
+test("names and labels are set in the sans, figures in the mono", async ({ page, baseURL }) => {
+  await signedIn(page, baseURL!, "manager");
+  await page.goto(`/projects/${projectId}`);
+  // A zone's name in a plain table cell (the solids table) and its figures beside it.
+  const name = page.getByRole("cell", { name: "Vent basin", exact: true }).first();
+  expect(await fontOf(name)).not.toContain("Roboto Mono");
+  expect(await fontOf(name.locator("xpath=following-sibling::td[1]"))).toContain("Roboto Mono");
+  expect(await fontOf(page.getByTestId("zone-table").locator('tr[data-zone="Vent basin"] td .figures').first())).toContain("Roboto Mono");
+  expect(await fontOf(page.getByRole("heading", { name: "Progress by zone" }))).not.toContain("Roboto Mono");
+  await page.goto(`/projects/${projectId}/audit`);
+  expect(await fontOf(page.locator("tbody tr").first().locator("td").nth(1))).not.toContain("Roboto Mono"); // who: a name
+  expect(await fontOf(page.locator("tbody tr").first().locator("td").first())).toContain("Roboto Mono"); // when: a figure
+});
