@@ -170,7 +170,7 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
 
       <Form method="post" className="min-w-0 space-y-6" aria-busy={busy}>
         {notText ? null : (
-        <fieldset className="min-w-0 rounded border border-line bg-panel p-4">
+        <fieldset className="min-w-0 max-w-full rounded border border-line bg-panel p-4">
           <legend className="px-1 font-medium">Columns</legend>
           <p className="text-sm text-muted">Guessed from the header names{preview.lonLatHeaders ? " (longitude/latitude recognised: choose EPSG:4326 as the file's CRS on upload)" : ""}{remembered.size > 0 ? "; fields marked “as last time” come from this project's last accepted mapping" : ""}; change any of them. The mapping is remembered for this project's next upload.</p>
           <div className="mt-3 grid gap-3 sm:grid-cols-2">
@@ -184,7 +184,9 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
               </div>
             ))}
           </div>
-          <div className="mt-4 max-w-full overflow-x-auto">
+          {/* Width 0 with a minimum of the whole row: the wide table scrolls inside its box and never
+              widens the fieldset (a scroll box still lends its content's width to its parent's sizing). */}
+          <div className="mt-4 w-0 min-w-full overflow-x-auto">
             <table className="w-full border-collapse text-xs">
               <caption className="text-left text-sm text-muted">First rows of the file</caption>
               <thead><tr>{preview.shape.headers.map((header) => <th key={header} scope="col" className="whitespace-nowrap border-b border-line px-2 py-1 text-left [overflow-wrap:normal]">{header.length > 48 ? `${header.slice(0, 47)}…` : header}</th>)}</tr></thead>

@@ -49,7 +49,7 @@ describe("depth unit mistakes", () => {
     expect(mistake!.typicalRatio).toBeGreaterThan(0.3);
     expect(mistake!.typicalRatio).toBeLessThan(0.4);
     expect(mistake!.cellsCompared).toBe(40);
-    expect(mistake!.message).toMatch(/look like metres, not feet as declared/);
+    expect(mistake!.message).toMatch(/look like metres, not international feet as declared/);
     expect(mistake!.message).toMatch(/times smaller than/);
     expect(mistake!.message).toMatch(/multiplied by 3\.28/);
     expect(mistake!.message).toMatch(/Choose metres as the file's unit/);

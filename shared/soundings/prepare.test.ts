@@ -50,7 +50,7 @@ describe("prepareSoundings", () => {
     // published: 1 ft = 0.3048 m exactly (NIST SP 811), so 10 ft = 3.048 m and elevation = 10 − 3.048.
     expect(prepared!.depth[0]).toBeCloseTo(3.048, 12);
     expect(prepared!.elevation[0]).toBeCloseTo(6.952, 12);
-    expect(preview.warnings).toContain("Depths are converted from feet to the project's metres.");
+    expect(preview.warnings).toContain("Depths are converted from international feet to the project's metres.");
   });
 
   it("takes a file of elevations without a water surface, refusal from each row's own surface", () => {
@@ -146,7 +146,7 @@ describe("prepareSoundings", () => {
     const semicolons = prepare(`x;y;depth_ft\n${at(5, 5).replace(",", ";")};3\n`);
     expect(semicolons.preview.warnings).toContain("This file separates columns with semicolons (;); it was read that way.");
     // The project is in metres and so is the declared unit; the header says feet.
-    expect(semicolons.preview.depthUnit?.message).toBe('The column "depth_ft" says feet, but the file\'s depths were declared as metres (the project\'s unit). Choose feet as the unit of depths in the file and upload again, or confirm that the values are metres whatever the header says.');
+    expect(semicolons.preview.depthUnit?.message).toBe('The column "depth_ft" says international feet, but the file\'s depths were declared as metres (the project\'s unit). Choose international feet as the unit of depths in the file and upload again, or confirm that the values are metres whatever the header says.');
     expect(semicolons.preview.blockers).toContain("The depths may be in another unit than declared (see the note on depth units): fix the unit and check again, or confirm that they are right.");
   });
 });

@@ -81,7 +81,7 @@ test("the tab bar offers Quantities and Share by role and marks the current tab 
   const tabs = (page: Page) => page.getByRole("navigation", { name: "Project" });
   const manager = await (await browser.newContext()).newPage();
   await signedIn(manager, baseURL!, "manager");
-  for (const [path, tab] of [["", "Overview"], ["/quantities", "Quantities"], ["/share", "Share"], ["/surveys/new", "Surveys"], ["/plans/2026-11-12", "Map"], ["/holds", "Finds"], ["/water-quality/compliance", "Water quality"], ["/audit", "Audit log"]] as const) {
+  for (const [path, tab] of [["", "Overview"], ["/quantities", "Quantities"], ["/share", "Share"], ["/surveys/new", "Surveys"], ["/plans", "Dive plans"], ["/plans/2026-11-12", "Dive plans"], ["/holds", "Finds"], ["/water-quality/compliance", "Water quality"], ["/audit", "Audit log"]] as const) {
     await manager.goto(`/projects/${projectId}${path}`);
     const current = tabs(manager).locator('[aria-current="page"]');
     await expect(current, path).toHaveCount(1);
