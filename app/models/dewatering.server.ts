@@ -4,7 +4,7 @@ import { computeShiftFigures, flowFromTotaliser, type ShiftFigures } from "../..
 import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
 import { localDateIn } from "../../shared/progress/calendar-days";
 import { cubicMetresPerHourFrom, flowUnitSchema, kilogramsFrom, kilogramsTo, LITRES_PER_US_GALLON, massUnitsFor, measureLabel, unitLabel, type FlowUnit } from "../../shared/units";
-import { DewateringShift, GeotextileTube, Project, TubeFill, TUBE_STATUSES, getSequelize, type TubeStatus } from "~/lib/db.server";
+import { DewateringShift, GeotextileTube, Project, TubeFill, TUBE_STATUSES, distinctProjectDates, getSequelize, type TubeStatus } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -369,13 +369,8 @@ export async function changeTubeStatus(project: ProjectView, user: UserView, tub
 }
 
 /** The local dates on which a dewatering shift was logged (work was active on shore). */
-export async function loggedShiftDates(projectId: number): Promise<string[]> {
-  const rows = await DewateringShift.findAll({
-    where: { projectId },
-    attributes: [[getSequelize().fn("DISTINCT", getSequelize().col("shiftDate")), "shiftDate"]],
-    raw: true,
-  });
-  return rows.map((row) => String((row as unknown as { shiftDate: string }).shiftDate).slice(0, 10));
+export function loggedShiftDates(projectId: number): Promise<string[]> {
+  return distinctProjectDates(DewateringShift, "shiftDate", projectId);
 }
 
 /** Dry solids pumped according to the shift logs, kg. */

@@ -2,7 +2,7 @@ import { Op } from "sequelize";
 import { parseCellLabel } from "../../shared/grid/cell-grid";
 import { z } from "zod";
 import { NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE } from "../../shared/no-decompression";
-import { Assignment, Dive, DiveCell, DiveTeam, getSequelize } from "~/lib/db.server";
+import { Assignment, Dive, DiveCell, DiveTeam, distinctProjectDates, getSequelize } from "~/lib/db.server";
 import { NotFoundError, ValidationError } from "~/lib/errors";
 import { isAfterLocalDay, localDayOf } from "../../shared/local-time";
 import { noDecompressionInfo, workDateSchema, type NoDecompressionInfo } from "./assignments.server";
@@ -198,13 +198,8 @@ async function findDives(project: ProjectView, where: { id?: number; date?: stri
 }
 
 /** Distinct dates on which the project's dives were logged (the days crews worked), YYYY-MM-DD. */
-export async function loggedDiveDates(projectId: number): Promise<string[]> {
-  const rows = await Dive.findAll({
-    where: { projectId },
-    attributes: [[getSequelize().fn("DISTINCT", getSequelize().col("diveDate")), "diveDate"]],
-    raw: true,
-  });
-  return rows.map((row) => String((row as unknown as { diveDate: string }).diveDate).slice(0, 10));
+export function loggedDiveDates(projectId: number): Promise<string[]> {
+  return distinctProjectDates(Dive, "diveDate", projectId);
 }
 
 /** The day's dives, every team. */
