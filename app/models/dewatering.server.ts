@@ -10,6 +10,7 @@ import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 
 /**
  * The dewatering operator's records: the shift log (flow, solids, polymer; its figures computed by
@@ -227,6 +228,7 @@ export async function recordShift(project: ProjectView, user: UserView, input: S
   const names = [...new Set(input.tubes.map((name) => name.toLowerCase()))];
   try {
     const id = await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       const tubes = names.length === 0 ? [] : await GeotextileTube.findAll({ where: { projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
       const chosen = names.map((name) => tubes.find((tube) => tube.name.toLowerCase() === name));
       const unknown = input.tubes.filter((_, index) => !chosen[index]);
@@ -243,6 +245,7 @@ export async function recordShift(project: ProjectView, user: UserView, input: S
         },
         { transaction },
       );
+      await idempotency.created(shift.id);
       if (chosen.length > 0) {
         // The shift's slurry and solids, shared equally among the tubes it filled (the log does not say more).
         const slurryM3 = cubicMetresPerHourFrom(slurryFlow.value, slurryFlow.unit) * pumpHours;
@@ -329,10 +332,12 @@ export async function findTube(project: ProjectView, tubeId: number): Promise<Tu
 export async function registerTube(project: ProjectView, user: UserView, input: TubeInput, ip: string | null = null): Promise<TubeView> {
   try {
     const id = await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       const tube = await GeotextileTube.create(
         { projectId: project.id, name: input.name, circumference: input.circumference, length: input.length, capacityDryMassPerLength: input.capacityDryMassPerLength, status: input.status, notes: input.notes, createdById: user.id },
         { transaction },
       );
+      await idempotency.created(tube.id);
       await recordAudit({ action: AUDIT_ACTIONS.tubeRegistered, projectId: project.id, userId: user.id, ip, detail: { name: input.name } }, transaction);
       return tube.id;
     });
@@ -345,14 +350,16 @@ export async function registerTube(project: ProjectView, user: UserView, input: 
 
 export async function recordFill(project: ProjectView, user: UserView, tubeId: number, input: FillInput, ip: string | null = null): Promise<TubeView> {
   await getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const tube = await GeotextileTube.findOne({ where: { id: tubeId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
     if (!tube) throw new NotFoundError({ field: "tubeId", message: "There is no such tube on this project." });
     assertFillable(tube);
     const slurryVolumeM3 = input.slurryVolume ? (input.slurryVolume.unit === "m3" ? input.slurryVolume.value : (input.slurryVolume.value * LITRES_PER_US_GALLON) / 1000) : null;
-    await TubeFill.create(
+    const fill = await TubeFill.create(
       { projectId: project.id, tubeId: tube.id, shiftId: null, fillDate: input.date, slurryVolumeM3, drySolidsKg: kilogramsFrom(input.drySolids, massUnitsFor(project.lengthUnit).bulkMass), recordedById: user.id },
       { transaction },
     );
+    await idempotency.created(fill.id);
     await recordAudit({ action: AUDIT_ACTIONS.tubeFilled, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, date: input.date, drySolids: input.drySolids } }, transaction);
   });
   return findTube(project, tubeId);

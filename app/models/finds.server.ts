@@ -21,6 +21,7 @@ import { cellLookup } from "./assignments.server";
 import { getCellsPayload } from "./cells.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 
 /**
  * Finds: logging them (catalogue number from a locked per-year counter, never reused), their
@@ -312,6 +313,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
 
   try {
     return await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       // The project row's lock makes logging finds one at a time per project, so the counter row
       // is created once and each number is handed out once.
       const projectRow = await Project.findByPk(project.id, { lock: transaction.LOCK.UPDATE, transaction });
@@ -332,6 +334,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
         },
         { transaction },
       );
+      await idempotency.created(find.id);
       let hold: FindLogged["hold"];
       if (holds && cell && grid) {
         const [x, y] = raw.position ? [raw.position.x, raw.position.y] : cellCentroid(grid, cell.row, cell.col);
@@ -377,6 +380,7 @@ export async function addFindPhoto(project: ProjectView, user: UserView, findId:
     await putObject(thumbnailKey, prepared.thumbnail, "image/jpeg");
     stored.push(thumbnailKey);
     const photo = await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       const created = await FindPhoto.create(
         {
           findId: find.id, projectId: project.id, objectKey: key, thumbnailKey, contentType: prepared.contentType,
@@ -385,6 +389,7 @@ export async function addFindPhoto(project: ProjectView, user: UserView, findId:
         },
         { transaction },
       );
+      await idempotency.created(created.id);
       await recordAudit({ action: AUDIT_ACTIONS.findPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, photoId: created.id, sizeBytes: created.sizeBytes } }, transaction);
       return created;
     });
@@ -411,6 +416,7 @@ const STATUS_AFTER: Partial<Record<CustodyPurpose, FindStatus>> = { "to-site-sto
 
 export async function recordCustody(project: ProjectView, user: UserView, findId: number, input: z.output<typeof custodyInputSchema>, ip: string | null = null): Promise<{ id: number; status: FindStatus }> {
   return getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const find = await findInProject(project, findId, transaction);
     const handedAt = new Date(input.handedAt);
     if (handedAt.getTime() < find.foundAt.getTime()) throw new ValidationError({ field: "handedAt", message: "A handover cannot come before the find was found." });
@@ -418,6 +424,7 @@ export async function recordCustody(project: ProjectView, user: UserView, findId
       { findId: find.id, projectId: project.id, fromName: input.fromName, toName: input.toName, place: input.place, purpose: input.purpose, handedAt, receiverSignature: input.receiverSignature, note: input.note, formPhotoId: null, recordedById: user.id },
       { transaction },
     );
+    await idempotency.created(entry.id);
     const next = STATUS_AFTER[input.purpose];
     if (next && (find.status === "in-field" || find.status === "site-store")) await find.update({ status: next }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.findCustodyRecorded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, custodyId: entry.id, purpose: input.purpose, to: input.toName } }, transaction);

@@ -15,6 +15,7 @@ import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { loggedShiftDates } from "./dewatering.server";
 import { loggedDiveDates } from "./dives.server";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 
 /**
  * Water quality the permit allows: monitoring stations, the permit's turbidity rules, readings
@@ -358,6 +359,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     if (earlier) return replayOf(project, earlier);
   }
   const outcome = await getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const station = await findStation(project, input.station, transaction);
     // Serialise evaluations of one project so two exceedances at once open one event.
     await MonitoringStation.findAll({ where: { projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
@@ -388,6 +390,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
       },
       { transaction },
     );
+    await idempotency.created(reading.id);
     await recordAudit({ action: AUDIT_ACTIONS.waterQualityReadingRecorded, projectId: project.id, userId: user.id, ip, detail: { id: reading.id, station: station.name, takenAt: input.takenAt, value: input.value, unit: input.unit, exceeds: evaluation?.exceeds ?? null } }, transaction);
     let stopWork: StopWorkEvent | null = null;
     let opened = false;
