@@ -11,6 +11,7 @@ import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
 
 /**
  * The dewatering operator's records: the shift log (flow, solids, polymer; its figures computed by
@@ -285,6 +286,8 @@ export interface TubeView {
   /** Share of capacity, 0–1 and beyond. */
   fillLevel: number;
   nearCapacity: boolean;
+  /** The record's version, for If-Match on an edit (app/lib/api/versions.ts). */
+  version: string;
 }
 
 export interface TubeRegister {
@@ -299,12 +302,13 @@ function presentTube(tube: GeotextileTube, project: ProjectView): TubeView {
   const fills = (tube.fills ?? []).map((fill) => ({ id: fill.id, date: fill.fillDate, shiftId: fill.shiftId, slurryVolumeM3: fill.slurryVolumeM3, drySolids: kilogramsTo(fill.drySolidsKg, bulk) }));
   const delivered = fills.reduce((sum, fill) => sum + fill.drySolids, 0);
   const level = fillLevel(delivered, tube.capacityDryMassPerLength, tube.length);
-  return {
+  const view = {
     id: tube.id, name: tube.name, circumference: tube.circumference, length: tube.length, capacityDryMassPerLength: tube.capacityDryMassPerLength,
     theoreticalDiameter: theoreticalDiameter(tube.circumference), status: tube.status, notes: tube.notes, fills,
     drySolidsDelivered: delivered, capacity: tube.capacityDryMassPerLength * tube.length, fillLevel: level,
     nearCapacity: FILLABLE.includes(tube.status) && isNearCapacity(level),
   };
+  return { ...view, version: versionOf(view) };
 }
 
 export async function listTubes(project: ProjectView): Promise<TubeRegister> {
@@ -365,10 +369,19 @@ export async function recordFill(project: ProjectView, user: UserView, tubeId: n
   return findTube(project, tubeId);
 }
 
-export async function changeTubeStatus(project: ProjectView, user: UserView, tubeId: number, status: TubeStatus, ip: string | null = null): Promise<TubeView> {
+/**
+ * Sets a tube's status. With `ifMatch` (the versions an If-Match header names), refuses with 412 and
+ * the tube as it is now when it changed since the client saw it; the check and the change hold the
+ * tube's row lock, so no other edit slips in between.
+ */
+export async function changeTubeStatus(project: ProjectView, user: UserView, tubeId: number, status: TubeStatus, ip: string | null = null, ifMatch: string[] | "any" | null = null): Promise<TubeView> {
   await getSequelize().transaction(async (transaction) => {
     const tube = await GeotextileTube.findOne({ where: { id: tubeId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
     if (!tube) throw new NotFoundError({ field: "tubeId", message: "There is no such tube on this project." });
+    if (ifMatch !== null) {
+      tube.fills = await TubeFill.findAll({ where: { tubeId: tube.id }, order: [["fillDate", "ASC"], ["id", "ASC"]], transaction });
+      assertCurrentVersion(ifMatch, presentTube(tube, project), "tube");
+    }
     await tube.update({ status }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.tubeStatusChanged, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, status } }, transaction);
   });

@@ -22,6 +22,7 @@ import { getCellsPayload } from "./cells.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { findNotices } from "../../shared/field-notices";
 
 /**
  * Finds: logging them (catalogue number from a locked per-year counter, never reused), their
@@ -250,6 +251,8 @@ export interface FindLogged {
   id: number;
   catalogueNumber: string;
   hold?: { id: number; cells: string[] };
+  /** Safety notices in plain sentences (the hold the find placed); empty when none. */
+  notices: string[];
   /** True when the idempotency key named a find already logged: nothing new was stored. */
   replayed: boolean;
 }
@@ -269,7 +272,8 @@ async function replayOf(projectId: number, key: string | null | undefined): Prom
   const existing = await Find.findOne({ where: { projectId, idempotencyKey: key } });
   if (!existing) return null;
   const hold = await Hold.findOne({ where: { findId: existing.id }, include: [{ model: HoldCell, as: "cells" }] });
-  return { id: existing.id, catalogueNumber: existing.catalogueNumber, ...(hold ? { hold: { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)) } } : {}), replayed: true };
+  const ref = hold ? { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)) } : undefined;
+  return { id: existing.id, catalogueNumber: existing.catalogueNumber, ...(ref ? { hold: ref } : {}), notices: findNotices(ref), replayed: true };
 }
 
 /**
@@ -348,7 +352,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
         await recordAudit({ action: AUDIT_ACTIONS.holdPlaced, projectId: project.id, userId: user.id, ip, detail: { holdId: placed.id, findId: find.id, cellCount: cells.length, radiusM: projectRow.holdRadiusM } }, transaction);
       }
       await recordAudit({ action: AUDIT_ACTIONS.findLogged, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, catalogueNumber: number, category: raw.category } }, transaction);
-      return { id: find.id, catalogueNumber: number, ...(hold ? { hold } : {}), replayed: false };
+      return { id: find.id, catalogueNumber: number, ...(hold ? { hold } : {}), notices: findNotices(hold), replayed: false };
     });
   } catch (error) {
     // The same idempotency key sent twice at once: the second insert meets the unique index.

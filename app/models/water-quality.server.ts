@@ -16,6 +16,7 @@ import type { UserView } from "~/lib/auth/users.server";
 import { loggedShiftDates } from "./dewatering.server";
 import { loggedDiveDates } from "./dives.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { readingNotices } from "../../shared/field-notices";
 
 /**
  * Water quality the permit allows: monitoring stations, the permit's turbidity rules, readings
@@ -294,6 +295,8 @@ export interface ReadingRecorded {
   stopWork?: StopWorkRef;
   /** Who was e-mailed about the exceedance. */
   alerted?: string[];
+  /** Safety notices in plain sentences (an exceedance and its stop-work); empty when none apply. */
+  notices: string[];
 }
 
 export interface ReadingView {
@@ -411,8 +414,10 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     id: outcome.reading.id,
     evaluation: outcome.evaluation,
     verdict: outcome.evaluation ? verdictInWords(outcome.evaluation, input.unit) : "Recorded (only compliance readings are judged against the rule).",
+    notices: [],
   };
   if (outcome.stopWork) result.stopWork = { id: outcome.stopWork.id, notifyBy: outcome.stopWork.notifyBy.toISOString() };
+  result.notices = readingNotices({ verdict: result.verdict, exceeds: outcome.evaluation?.exceeds ?? null, stopWork: result.stopWork });
   if (outcome.opened && outcome.evaluation && options.alert !== false) result.alerted = await alertExceedance(project, outcome.station.name, input, outcome.evaluation, outcome.stopWork!);
   return result;
 }
@@ -420,10 +425,9 @@ export async function recordReading(project: ProjectView, user: UserView, input:
 async function replayOf(project: ProjectView, reading: WaterQualityReading): Promise<ReadingRecorded> {
   const evaluation = evaluationOf(reading);
   const stopWork = evaluation?.exceeds ? await StopWorkEvent.findOne({ where: { projectId: project.id, stationId: reading.stationId, readingId: { [Op.lte]: reading.id } }, order: [["id", "DESC"]] }) : null;
-  return {
-    id: reading.id, evaluation, verdict: evaluation ? verdictInWords(evaluation, reading.unit) : "Recorded (only compliance readings are judged against the rule).",
-    ...(stopWork ? { stopWork: { id: stopWork.id, notifyBy: stopWork.notifyBy.toISOString() } } : {}),
-  };
+  const verdict = evaluation ? verdictInWords(evaluation, reading.unit) : "Recorded (only compliance readings are judged against the rule).";
+  const stopWorkRef = stopWork ? { id: stopWork.id, notifyBy: stopWork.notifyBy.toISOString() } : undefined;
+  return { id: reading.id, evaluation, verdict, ...(stopWorkRef ? { stopWork: stopWorkRef } : {}), notices: readingNotices({ verdict, exceeds: evaluation?.exceeds ?? null, stopWork: stopWorkRef }) };
 }
 
 /** The exceedance e-mail, at once, to the project's managers, dive supervisors and dewatering operators, through the outbox (sent within seconds, retried while the mail server is away); it never unrecords the reading. */

@@ -15,6 +15,7 @@ import { loader as cellsLoader } from "~/routes/api.projects.$projectId.cells";
 import { action as divesAction } from "~/routes/api.projects.$projectId.dives";
 import { action as shiftsAction } from "~/routes/api.projects.$projectId.dewatering.shifts";
 import { action as tubesAction } from "~/routes/api.projects.$projectId.dewatering.tubes";
+import { action as tubeAction, loader as tubeLoader } from "~/routes/api.projects.$projectId.dewatering.tubes.$tubeId";
 import { action as fillsAction } from "~/routes/api.projects.$projectId.dewatering.tubes.$tubeId.fills";
 import { action as haulsAction } from "~/routes/api.projects.$projectId.hauls";
 import { action as readingsAction } from "~/routes/api.projects.$projectId.water-quality.readings";
@@ -192,5 +193,47 @@ describe("the Idempotency-Key header", () => {
     await IdempotencyKey.update({ createdAt: new Date(Date.now() - 31 * 86_400_000) }, { where: { idemKey: key } });
     expect(await purgeIdempotencyKeys()).toBeGreaterThanOrEqual(1);
     expect(await IdempotencyKey.count({ where: { idemKey: key } })).toBe(0);
+  });
+});
+
+describe("If-Match on an edit made offline", () => {
+  const patchTube = async (who: Who, id: number, status: string, ifMatch?: string) => {
+    const request = await requestAs(users.get(who)!, `${base()}/dewatering/tubes/${id}`, {
+      method: "PATCH", body: JSON.stringify({ status }), headers: { "Content-Type": "application/json", ...(ifMatch === undefined ? {} : { "If-Match": ifMatch }) },
+    });
+    return tubeAction({ request, params: { projectId: String(projectId), tubeId: String(id) }, context: {} } as never);
+  };
+
+  it("refuses a tube edit against a version changed since (412 with the current tube), and takes the current one", async () => {
+    const id = (await (await sendJson(tubesAction as never, "first", `${base()}/dewatering/tubes`, {}, { name: "Offline tube", circumference: 30, length: 100, capacityDryMassPerLength: 50 })).json()).tube.id as number;
+    const seen = await tubeLoader({ request: await requestAs(users.get("second")!, `${base()}/dewatering/tubes/${id}`), params: { projectId: String(projectId), tubeId: String(id) }, context: {} } as never);
+    const etag = seen.headers.get("ETag")!;
+    const version = ((await seen.json()) as { tube: { version: string } }).tube.version;
+    expect(etag).toBe(`"${version}"`);
+
+    // The first user changes the tube meanwhile, sending the version they saw.
+    const changed = await patchTube("first", id, "dewatering", etag);
+    expect(changed.status).toBe(200);
+    expect(changed.headers.get("ETag")).not.toBe(etag);
+
+    // The second user's offline edit, made on the older version, is refused with the record as it is now.
+    const stale = await patchTube("second", id, "ready-to-open", etag);
+    expect(stale.status).toBe(412);
+    const refused = (await stale.json()) as { errors: Array<{ field: string; message: string }>; current: { status: string; version: string } };
+    expect(refused.errors[0].field).toBe("If-Match");
+    expect(refused.current.status).toBe("dewatering");
+    expect(`"${refused.current.version}"`).toBe(changed.headers.get("ETag"));
+    expect((await GeotextileTube.findByPk(id))!.status).toBe("dewatering");
+
+    // Sent again on the current version it goes through; without If-Match an edit behaves as before.
+    expect((await patchTube("second", id, "ready-to-open", `"${refused.current.version}"`)).status).toBe(200);
+    expect((await patchTube("second", id, "opened")).status).toBe(200);
+  });
+
+  it("counts a fill as a change: an edit on the version from before the fill is refused", async () => {
+    const seen = await tubeLoader({ request: await requestAs(users.get("first")!, `${base()}/dewatering/tubes/${tubeId}`), params: { projectId: String(projectId), tubeId: String(tubeId) }, context: {} } as never);
+    const etag = seen.headers.get("ETag")!;
+    expect((await sendJson(fillsAction as never, "second", `${base()}/dewatering/tubes/${tubeId}/fills`, { tubeId: String(tubeId) }, { date: DATE, drySolids: 2 })).status).toBe(201);
+    expect((await patchTube("first", tubeId, "dewatering", etag)).status).toBe(412);
   });
 });

@@ -1,5 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { canonicalJson, checkIdempotencyKey, etagOf, fingerprintOf, ifMatchVersions, versionOf } from "./idempotency";
+import { canonicalJson, checkIdempotencyKey, fingerprintOf } from "./idempotency";
+import { assertCurrentVersion, etagOf, ifMatchVersions, versionOf } from "./versions";
+import { PreconditionFailedError } from "~/lib/errors";
 
 describe("checkIdempotencyKey", () => {
   it("takes no header as no key, and 1 to 100 characters of letters, digits, _ - : . (practice: a UUID)", () => {
@@ -37,9 +39,13 @@ describe("fingerprintOf", () => {
 });
 
 describe("versions for If-Match", () => {
-  it("takes a record's version from its last change, in milliseconds, and quotes it as an ETag", () => {
-    expect(versionOf(new Date("2026-11-20T14:00:00.123Z"))).toBe("1795183200123");
-    expect(etagOf("1795183200123")).toBe('"1795183200123"');
+  it("takes a record's version from its content: any change gives another, the same record the same (computed)", () => {
+    const tube = { id: 4, status: "filling", fills: [{ id: 1, drySolids: 10 }] };
+    expect(versionOf(tube)).toMatch(/^[0-9a-f]{20}$/);
+    expect(versionOf({ ...tube })).toBe(versionOf(tube));
+    expect(versionOf({ ...tube, status: "dewatering" })).not.toBe(versionOf(tube));
+    expect(versionOf({ ...tube, fills: [...tube.fills, { id: 2, drySolids: 1 }] })).not.toBe(versionOf(tube));
+    expect(etagOf("abc")).toBe('"abc"');
   });
 
   it("reads If-Match as a quoted, weak or bare tag, a list, or * (RFC 9110 §13.1.1)", () => {
@@ -48,5 +54,20 @@ describe("versions for If-Match", () => {
     expect(ifMatchVersions('W/"17", "18"')).toEqual(["17", "18"]);
     expect(ifMatchVersions("17")).toEqual(["17"]);
     expect(ifMatchVersions(" * ")).toBe("any");
+  });
+
+  it("lets an edit through without If-Match, with * or the current version, and refuses another with the current record", () => {
+    const current = { id: 4, status: "dewatering", version: "v2" };
+    for (const wanted of [null, "any" as const, ["v1", "v2"]]) expect(() => assertCurrentVersion(wanted, current, "tube")).not.toThrow();
+    const refused = (() => {
+      try {
+        assertCurrentVersion(["v1"], current, "tube");
+      } catch (error) {
+        return error;
+      }
+    })();
+    expect(refused).toBeInstanceOf(PreconditionFailedError);
+    expect((refused as PreconditionFailedError).extra.current).toEqual(current);
+    expect((refused as PreconditionFailedError).details[0].field).toBe("If-Match");
   });
 });

@@ -2,7 +2,7 @@ import { createHash } from "node:crypto";
 
 /**
  * The pure half of exactly-once writes (the server half is idempotency.server.ts): reading the
- * `Idempotency-Key` header, the request's fingerprint, and a record's version for `If-Match`.
+ * `Idempotency-Key` header and the request's fingerprint. Record versions (If-Match) are in versions.ts.
  */
 
 export const IDEMPOTENCY_HEADER = "Idempotency-Key";
@@ -37,24 +37,4 @@ export function canonicalJson(value: unknown): string {
 /** SHA-256 (hex) of what a request asked for, as its route read it. */
 export function fingerprintOf(content: unknown): string {
   return createHash("sha256").update(canonicalJson(content)).digest("hex");
-}
-
-/** A record's version for ETag / If-Match: its last change in whole milliseconds, as text. */
-export function versionOf(updatedAt: Date | string | number): string {
-  return String(new Date(updatedAt).getTime());
-}
-
-/** The ETag header value for a version (a strong tag: the record as a whole). */
-export function etagOf(version: string): string {
-  return `"${version}"`;
-}
-
-/**
- * The versions an `If-Match` header names (`"v"`, `W/"v"`, a bare `v`, several separated by
- * commas, or `*` for any); null when the header is absent.
- */
-export function ifMatchVersions(header: string | null): string[] | "any" | null {
-  if (header === null || header.trim() === "") return null;
-  if (header.trim() === "*") return "any";
-  return header.split(",").map((part) => part.trim().replace(/^W\//, "").replace(/^"(.*)"$/, "$1")).filter((part) => part.length > 0);
 }
