@@ -25,6 +25,10 @@ import { action as findsAction } from "~/routes/api.projects.$projectId.finds";
 import { action as photosAction } from "~/routes/api.projects.$projectId.finds.$findId.photos";
 import { action as custodyAction } from "~/routes/api.projects.$projectId.finds.$findId.custody";
 import { action as samplesAction } from "~/routes/api.projects.$projectId.sediment-samples";
+import { action as rulesAction } from "~/routes/api.projects.$projectId.water-quality.rules";
+import { action as noticeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.notification";
+import { action as resumeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.resume";
+import { StopWorkEvent } from "~/lib/db.server";
 import { addMember, makeUser, requestAs } from "./helpers";
 
 // Exactly-once field writes: every field API takes an Idempotency-Key header; a key sent twice at
@@ -235,5 +239,37 @@ describe("If-Match on an edit made offline", () => {
     const etag = seen.headers.get("ETag")!;
     expect((await sendJson(fillsAction as never, "second", `${base()}/dewatering/tubes/${tubeId}/fills`, { tubeId: String(tubeId) }, { date: DATE, drySolids: 2 })).status).toBe(201);
     expect((await patchTube("first", tubeId, "dewatering", etag)).status).toBe(412);
+  });
+});
+
+describe("the stop-work acts with an Idempotency-Key", () => {
+  it("answers a resent agency notice and resumption with the first answer; a different notice under the key is refused", async () => {
+    expect((await sendJson(rulesAction as never, "first", `${base()}/water-quality/rules`, {}, { kind: "absolute", limit: 50, source: "Permit test condition" })).status).toBe(201);
+    expect((await sendJson(stationsAction as never, "first", `${base()}/water-quality/stations`, {}, { name: "CP-1", kind: "compliance" })).status).toBe(201);
+    const exceeding = await sendJson(readingsAction as never, "first", `${base()}/water-quality/readings`, {}, { station: "CP-1", takenAt: "2026-11-21T09:00:00-05:00", value: 80, unit: "NTU" }, randomUUID());
+    const reading = (await exceeding.json()) as { stopWork: { id: number }; notices: string[] };
+    expect(reading.notices.join(" ")).toMatch(new RegExp(`Stop-work event #${reading.stopWork.id} is open`));
+    const eventId = String(reading.stopWork.id);
+    const notice = { notifiedAt: "2026-11-21T09:30:00-05:00", to: "District office", how: "telephone" };
+    const noticeKey = randomUUID();
+    const sendNotice = (body: unknown) => sendJson(noticeAction as never, "first", `${base()}/stop-work/${eventId}/notification`, { eventId }, body, noticeKey);
+    const [a, b] = await Promise.all([sendNotice(notice), sendNotice(notice)]);
+    expect([a.status, b.status].sort()).toEqual([200, 200]);
+    expect([a.headers.get("Idempotency-Replayed"), b.headers.get("Idempotency-Replayed")].filter(Boolean)).toEqual(["true"]);
+    expect(await a.text()).toBe(await b.text());
+    expect((await sendNotice({ ...notice, to: "Someone else" })).status).toBe(422);
+
+    const within = await sendJson(readingsAction as never, "first", `${base()}/water-quality/readings`, {}, { station: "CP-1", takenAt: "2026-11-21T11:00:00-05:00", value: 20, unit: "NTU" });
+    expect(within.status).toBe(201);
+    const resumeKey = randomUUID();
+    const resume = () => sendJson(resumeAction as never, "first", `${base()}/stop-work/${eventId}/resume`, { eventId }, { note: "Resample within the limit" }, resumeKey);
+    const first = await resume();
+    expect(first.status).toBe(200);
+    // Without the key a second resumption is a 409; with it the phone's resend gets the first answer.
+    const again = await resume();
+    expect(again.status).toBe(200);
+    expect(again.headers.get("Idempotency-Replayed")).toBe("true");
+    expect(await again.text()).toBe(await first.text());
+    expect((await StopWorkEvent.findByPk(Number(eventId)))!.resumedAt).not.toBeNull();
   });
 });
