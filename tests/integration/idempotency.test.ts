@@ -24,6 +24,7 @@ import { action as sightingsAction } from "~/routes/api.projects.$projectId.wild
 import { action as findsAction } from "~/routes/api.projects.$projectId.finds";
 import { action as photosAction } from "~/routes/api.projects.$projectId.finds.$findId.photos";
 import { action as custodyAction } from "~/routes/api.projects.$projectId.finds.$findId.custody";
+import { action as findAction, loader as findLoader } from "~/routes/api.projects.$projectId.finds.$findId";
 import { action as samplesAction } from "~/routes/api.projects.$projectId.sediment-samples";
 import { action as rulesAction } from "~/routes/api.projects.$projectId.water-quality.rules";
 import { action as noticeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.notification";
@@ -232,6 +233,29 @@ describe("If-Match on an edit made offline", () => {
     // Sent again on the current version it goes through; without If-Match an edit behaves as before.
     expect((await patchTube("second", id, "ready-to-open", `"${refused.current.version}"`)).status).toBe(200);
     expect((await patchTube("second", id, "opened")).status).toBe(200);
+  });
+
+  it("refuses a find's status edit against a version changed since (412 with the current find); a handover counts as a change", async () => {
+    const id = (await (await sendJson(findsAction as never, "first", `${base()}/finds`, {}, { category: "faunal", description: "Deer antler tine", foundAt: "2026-11-20T09:00:00-05:00" })).json()).id as number;
+    const params = { projectId: String(projectId), findId: String(id) };
+    const patchFind = async (who: Who, body: unknown, ifMatch?: string) =>
+      findAction({ request: await requestAs(users.get(who)!, `${base()}/finds/${id}`, { method: "PATCH", body: JSON.stringify(body), headers: { "Content-Type": "application/json", ...(ifMatch ? { "If-Match": ifMatch } : {}) } }), params, context: {} } as never);
+    const seen = await findLoader({ request: await requestAs(users.get("second")!, `${base()}/finds/${id}`), params, context: {} } as never);
+    const etag = seen.headers.get("ETag")!;
+    expect(etag).toBe(`"${((await seen.json()) as { find: { version: string } }).find.version}"`);
+    // Meanwhile the first user hands the find over to the site store (its status moves on).
+    expect((await sendJson(custodyAction as never, "first", `${base()}/finds/${id}/custody`, { findId: String(id) }, { fromName: "Ana Reyes", toName: "Store keeper", place: "Site store", purpose: "to-site-store", handedAt: "2026-11-20T12:00:00-05:00", receiverSignature: "Store keeper" })).status).toBe(201);
+    const stale = await patchFind("second", { status: "released", note: "Returned to the lake bed" }, etag);
+    expect(stale.status).toBe(412);
+    const refused = (await stale.json()) as { errors: Array<{ field: string }>; current: { status: string; version: string; custody: unknown[] } };
+    expect(refused.errors[0].field).toBe("If-Match");
+    expect(refused.current.status).toBe("site-store");
+    expect(refused.current.custody).toHaveLength(1);
+    expect((await Find.findByPk(id))!.status).toBe("site-store");
+    const applied = await patchFind("second", { status: "released", note: "Returned to the lake bed" }, `"${refused.current.version}"`);
+    expect(applied.status).toBe(200);
+    expect(((await applied.json()) as { find: { status: string } }).find.status).toBe("released");
+    expect(applied.headers.get("ETag")).not.toBe(`"${refused.current.version}"`);
   });
 
   it("counts a fill as a change: an edit on the version from before the fill is refused", async () => {
