@@ -9,6 +9,7 @@ import { noDecompressionInfo, workDateSchema, type NoDecompressionInfo } from ".
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 
 /**
  * The dive log: dives actually made on the day's assigned cells. A logged bottom time beyond the
@@ -143,6 +144,7 @@ export async function recordDive(project: ProjectView, user: UserView, input: Di
   }
   const bottomMinutes = bottomMinutesOf(input);
   const id = await getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const dive = await Dive.create(
       {
         projectId: project.id, diveDate: input.date, teamId: team.id, diverName: diver.name, diverIsVisitor: diver.visitor,
@@ -151,6 +153,7 @@ export async function recordDive(project: ProjectView, user: UserView, input: Di
       },
       { transaction },
     );
+    await idempotency.created(dive.id);
     await DiveCell.bulkCreate(positions.map(({ label, position }) => ({ diveId: dive.id, projectId: project.id, row: position!.row, col: position!.col, label })), { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.diveRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, team: team.name, diver: diver.name, visitor: diver.visitor, bottomMinutes, maxDepth: input.maxDepth, cells: labels } }, transaction);
     return dive.id;

@@ -21,6 +21,9 @@ import { cellLookup } from "./assignments.server";
 import { getCellsPayload } from "./cells.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
+import { findNotices } from "../../shared/field-notices";
 
 /**
  * Finds: logging them (catalogue number from a locked per-year counter, never reused), their
@@ -129,6 +132,8 @@ export interface CustodyView {
 }
 
 export interface FindDetail extends FindSummary, Partial<FindLocation> {
+  /** The record's version, for If-Match on an edit (app/lib/api/versions.ts). */
+  version: string;
   material: string;
   taxon: string | null;
   element: string | null;
@@ -215,6 +220,14 @@ async function findInProject(project: ProjectView, findId: number, transaction?:
   return find;
 }
 
+/**
+ * A find's version: a digest of its row, its custody entries and its photos, the same whoever asks
+ * (the detail a role sees differs, the version does not).
+ */
+function findVersion(find: Find, custodyIds: number[], photoIds: number[]): string {
+  return versionOf({ find: find.get({ plain: true }), custody: [...custodyIds].sort((a, b) => a - b), photos: [...photoIds].sort((a, b) => a - b) });
+}
+
 export async function getFind(project: ProjectView, access: Access, findId: number): Promise<FindDetail> {
   const find = await findInProject(project, findId);
   const [photos, custody, hold] = await Promise.all([
@@ -237,6 +250,7 @@ export async function getFind(project: ProjectView, access: Access, findId: numb
     statusNote: find.statusNote,
     photos: photos.map((photo) => photoView(photo, locations)),
     custody: custody.map(custodyView),
+    version: findVersion(find, custody.map((entry) => entry.id), photos.map((photo) => photo.id)),
   };
   // A hold's cells say where the find is: only for those who may see locations.
   if (locations && hold) detail.hold = { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)), lifted: hold.liftedAt !== null };
@@ -249,6 +263,8 @@ export interface FindLogged {
   id: number;
   catalogueNumber: string;
   hold?: { id: number; cells: string[] };
+  /** Safety notices in plain sentences (the hold the find placed); empty when none. */
+  notices: string[];
   /** True when the idempotency key named a find already logged: nothing new was stored. */
   replayed: boolean;
 }
@@ -268,7 +284,8 @@ async function replayOf(projectId: number, key: string | null | undefined): Prom
   const existing = await Find.findOne({ where: { projectId, idempotencyKey: key } });
   if (!existing) return null;
   const hold = await Hold.findOne({ where: { findId: existing.id }, include: [{ model: HoldCell, as: "cells" }] });
-  return { id: existing.id, catalogueNumber: existing.catalogueNumber, ...(hold ? { hold: { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)) } } : {}), replayed: true };
+  const ref = hold ? { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)) } : undefined;
+  return { id: existing.id, catalogueNumber: existing.catalogueNumber, ...(ref ? { hold: ref } : {}), notices: findNotices(ref), replayed: true };
 }
 
 /**
@@ -312,6 +329,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
 
   try {
     return await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       // The project row's lock makes logging finds one at a time per project, so the counter row
       // is created once and each number is handed out once.
       const projectRow = await Project.findByPk(project.id, { lock: transaction.LOCK.UPDATE, transaction });
@@ -332,6 +350,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
         },
         { transaction },
       );
+      await idempotency.created(find.id);
       let hold: FindLogged["hold"];
       if (holds && cell && grid) {
         const [x, y] = raw.position ? [raw.position.x, raw.position.y] : cellCentroid(grid, cell.row, cell.col);
@@ -345,7 +364,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
         await recordAudit({ action: AUDIT_ACTIONS.holdPlaced, projectId: project.id, userId: user.id, ip, detail: { holdId: placed.id, findId: find.id, cellCount: cells.length, radiusM: projectRow.holdRadiusM } }, transaction);
       }
       await recordAudit({ action: AUDIT_ACTIONS.findLogged, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, catalogueNumber: number, category: raw.category } }, transaction);
-      return { id: find.id, catalogueNumber: number, ...(hold ? { hold } : {}), replayed: false };
+      return { id: find.id, catalogueNumber: number, ...(hold ? { hold } : {}), notices: findNotices(hold), replayed: false };
     });
   } catch (error) {
     // The same idempotency key sent twice at once: the second insert meets the unique index.
@@ -377,6 +396,7 @@ export async function addFindPhoto(project: ProjectView, user: UserView, findId:
     await putObject(thumbnailKey, prepared.thumbnail, "image/jpeg");
     stored.push(thumbnailKey);
     const photo = await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       const created = await FindPhoto.create(
         {
           findId: find.id, projectId: project.id, objectKey: key, thumbnailKey, contentType: prepared.contentType,
@@ -385,6 +405,7 @@ export async function addFindPhoto(project: ProjectView, user: UserView, findId:
         },
         { transaction },
       );
+      await idempotency.created(created.id);
       await recordAudit({ action: AUDIT_ACTIONS.findPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, photoId: created.id, sizeBytes: created.sizeBytes } }, transaction);
       return created;
     });
@@ -411,6 +432,7 @@ const STATUS_AFTER: Partial<Record<CustodyPurpose, FindStatus>> = { "to-site-sto
 
 export async function recordCustody(project: ProjectView, user: UserView, findId: number, input: z.output<typeof custodyInputSchema>, ip: string | null = null): Promise<{ id: number; status: FindStatus }> {
   return getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const find = await findInProject(project, findId, transaction);
     const handedAt = new Date(input.handedAt);
     if (handedAt.getTime() < find.foundAt.getTime()) throw new ValidationError({ field: "handedAt", message: "A handover cannot come before the find was found." });
@@ -418,6 +440,7 @@ export async function recordCustody(project: ProjectView, user: UserView, findId
       { findId: find.id, projectId: project.id, fromName: input.fromName, toName: input.toName, place: input.place, purpose: input.purpose, handedAt, receiverSignature: input.receiverSignature, note: input.note, formPhotoId: null, recordedById: user.id },
       { transaction },
     );
+    await idempotency.created(entry.id);
     const next = STATUS_AFTER[input.purpose];
     if (next && (find.status === "in-field" || find.status === "site-store")) await find.update({ status: next }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.findCustodyRecorded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, custodyId: entry.id, purpose: input.purpose, to: input.toName } }, transaction);
@@ -425,9 +448,27 @@ export async function recordCustody(project: ProjectView, user: UserView, findId
   });
 }
 
-export async function setFindStatus(project: ProjectView, user: UserView, findId: number, input: z.output<typeof statusInputSchema>, ip: string | null = null): Promise<void> {
+/**
+ * Sets a find's status. With `options.ifMatch` (the versions an If-Match header names), refuses with
+ * 412 and the find as `options.access` sees it now when it changed since the client saw it; the
+ * check and the change hold the find's row lock.
+ */
+export async function setFindStatus(
+  project: ProjectView, user: UserView, findId: number, input: z.output<typeof statusInputSchema>, ip: string | null = null,
+  options: { ifMatch?: string[] | "any" | null; access?: Access } = {},
+): Promise<void> {
   await getSequelize().transaction(async (transaction) => {
+    const ifMatch = options.ifMatch ?? null;
+    if (ifMatch !== null) await Find.findOne({ where: { id: findId, projectId: project.id }, attributes: ["id"], lock: transaction.LOCK.UPDATE, transaction });
     const find = await findInProject(project, findId, transaction);
+    if (ifMatch !== null && ifMatch !== "any") {
+      const [custody, photos] = await Promise.all([
+        FindCustody.findAll({ where: { findId: find.id }, attributes: ["id"], transaction }),
+        FindPhoto.findAll({ where: { findId: find.id }, attributes: ["id"], transaction }),
+      ]);
+      const version = findVersion(find, custody.map((entry) => entry.id), photos.map((photo) => photo.id));
+      if (!ifMatch.includes(version)) assertCurrentVersion(ifMatch, await getFind(project, options.access ?? { role: null, isSiteAdmin: false }, findId), "find");
+    }
     if (input.status === "released" && !["faunal", "modern-debris", "historic-debris"].includes(find.category)) {
       throw new ValidationError({ field: "status", message: "Only faunal finds and debris the lab does not keep are released; cultural finds and human remains stay in custody." });
     }

@@ -7,6 +7,8 @@ import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { getWaterQualitySettings } from "./water-quality.server";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { sightingNotices } from "../../shared/field-notices";
 
 /**
  * Wildlife sightings and the stand-downs they start: a protected animal within the project's
@@ -60,6 +62,8 @@ export interface SightingView {
 export interface SightingRecorded {
   id: number;
   standDown?: { id: number; until: string | null };
+  /** Safety notices in plain sentences (the stand-down that applies); empty when none. */
+  notices: string[];
 }
 
 function presentStandDown(standDown: WildlifeStandDown, nowMs: number): StandDownView {
@@ -92,6 +96,7 @@ export async function recordSighting(project: ProjectView, user: UserView, input
     if (earlier) return replayOf(earlier);
   }
   return getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const latest = await WildlifeStandDown.findOne({ where: { projectId: project.id, species }, order: [["startedAt", "DESC"], ["id", "DESC"]], transaction, lock: transaction.LOCK.UPDATE });
     const effect = effectOfSighting(
       latest ? { startedAtMs: latest.startedAt.getTime(), departedAtMs: latest.departedAt?.getTime() ?? null } : null,
@@ -115,14 +120,17 @@ export async function recordSighting(project: ProjectView, user: UserView, input
       },
       { transaction },
     );
+    await idempotency.created(sighting.id);
     await recordAudit({ action: AUDIT_ACTIONS.wildlifeSightingRecorded, projectId: project.id, userId: user.id, ip, detail: { id: sighting.id, species, seenAt: input.seenAt, distance: input.distance ?? null, gone: input.gone, effect: effect.kind } }, transaction);
-    return { id: sighting.id, ...(standDown ? { standDown: { id: standDown.id, until: standDown.endsAt?.toISOString() ?? null } } : {}) };
+    const ref = standDown ? { id: standDown.id, until: standDown.endsAt?.toISOString() ?? null } : undefined;
+    return { id: sighting.id, ...(ref ? { standDown: ref } : {}), notices: sightingNotices(species, ref) };
   });
 }
 
 async function replayOf(sighting: WildlifeSighting): Promise<SightingRecorded> {
   const standDown = sighting.standDownId ? await WildlifeStandDown.findByPk(sighting.standDownId) : null;
-  return { id: sighting.id, ...(standDown ? { standDown: { id: standDown.id, until: standDown.endsAt?.toISOString() ?? null } } : {}) };
+  const ref = standDown ? { id: standDown.id, until: standDown.endsAt?.toISOString() ?? null } : undefined;
+  return { id: sighting.id, ...(ref ? { standDown: ref } : {}), notices: sightingNotices(sighting.species, ref) };
 }
 
 export async function listSightings(project: ProjectView): Promise<SightingView[]> {
