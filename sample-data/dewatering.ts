@@ -17,6 +17,38 @@ import { mulberry32 } from "./prng";
 const SEED = 20261015;
 export const DEMO_SOLIDS_SPECIFIC_GRAVITY = 1.8;
 export const DEMO_CAKE_SOLIDS_BY_WEIGHT = 0.28;
+/** The tube supplier's fill limit on the invented job: flag a tube at 90 % of its rated dry capacity. */
+export const DEMO_TUBE_NEAR_CAPACITY_SHARE = 0.9;
+
+/**
+ * The operator's jar tests: one before the first pumping day and one when the polymer lot changed,
+ * each with four 1-litre jars dosed from a 0.1 % bench stock (invented readings; the dose chosen
+ * is the one the shifts then ran near).
+ */
+export const DEMO_JAR_TESTS = [
+  {
+    date: "2026-09-09", time: "14:20", sampleSource: "slurry from the main line at the tube manifold",
+    polymer: { product: "Cationic PAM emulsion CE-412", lot: "LOT 26-0811", benchStockPercent: 0.1 }, jarVolumeMl: 1000, raw: { turbidityNtu: 640 },
+    jars: [
+      { doseMgPerL: 2, settlingMinutes: 10, turbidityNtu: 210, clarity: "turbid" },
+      { doseMgPerL: 4, settlingMinutes: 10, turbidityNtu: 48, clarity: "hazy" },
+      { doseMgPerL: 6, settlingMinutes: 10, turbidityNtu: 14, clarity: "clear" },
+      { doseMgPerL: 8, settlingMinutes: 10, turbidityNtu: 19, clarity: "slightly-hazy" },
+    ],
+    chosenDoseMgPerL: 6, notes: "Large floc at 6 mg/L, settled in under 3 minutes; 8 mg/L left the water slightly slick.",
+  },
+  {
+    date: "2026-10-15", time: "06:45", sampleSource: "slurry from the main line at the tube manifold",
+    polymer: { product: "Cationic PAM emulsion CE-412", lot: "LOT 26-0930", benchStockPercent: 0.1 }, jarVolumeMl: 1000, raw: { turbidityNtu: 585 },
+    jars: [
+      { doseMgPerL: 3, settlingMinutes: 10, turbidityNtu: 96, clarity: "hazy" },
+      { doseMgPerL: 4.5, settlingMinutes: 10, turbidityNtu: 22, clarity: "slightly-hazy" },
+      { doseMgPerL: 6, settlingMinutes: 10, turbidityNtu: 11, clarity: "clear" },
+      { doseMgPerL: 7.5, settlingMinutes: 10, turbidityNtu: 11, clarity: "clear" },
+    ],
+    chosenDoseMgPerL: 6, notes: "New lot: same dose holds.",
+  },
+] as const;
 
 export interface DemoShift {
   date: string;

@@ -1,7 +1,7 @@
 import { Op, UniqueConstraintError } from "sequelize";
 import { z } from "zod";
 import { computeShiftFigures, flowFromTotaliser, type ShiftFigures } from "../../shared/dewatering/shift";
-import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
+import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, MIN_NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
 import { localDateIn } from "../../shared/progress/calendar-days";
 import { cubicMetresPerHourFrom, flowUnitSchema, kilogramsFrom, kilogramsTo, LITRES_PER_US_GALLON, massUnitsFor, measureLabel, unitLabel, type FlowUnit } from "../../shared/units";
 import { DewateringShift, GeotextileTube, Project, TubeFill, TUBE_STATUSES, distinctProjectDates, getSequelize, type TubeStatus } from "~/lib/db.server";
@@ -18,9 +18,9 @@ import { workDateSchema } from "./assignments.server";
  */
 
 export const DEWATERING_CAUTION =
-  "Handle polymer per its safety data sheet: spills are slick, and it harms eyes and skin. Lines under pressure can burst or whip; never open a coupling under pressure. A tube filled near its capacity can rupture: stop filling at the supplier's fill height and keep people clear of the seams. Polymer product and dose follow the permit and the approved product list. These figures are aids for the operator, not approval.";
+  "Handle polymer per its safety data sheet and the site's safety plan: spills are slick, and it harms eyes and skin. Lines under pressure can burst or whip; never open a coupling under pressure. A tube filled near its capacity can rupture: stop filling at the supplier's fill height and keep people clear of the seams. Polymer product and dose follow the permit and the approved product list. These figures are aids for the operator, not approval.";
 
-const clock = z.string().trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
+export const clockSchema = z.string().trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
 const minutesOf = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
 const text = (max: number) => z.string().trim().max(max);
 const idempotencyKey = z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish();
@@ -30,8 +30,8 @@ export const solidsSpecificGravitySchema = z.number().finite().gt(1, "solids are
 export const shiftInputSchema = z
   .object({
     date: workDateSchema,
-    start: clock,
-    end: clock,
+    start: clockSchema,
+    end: clockSchema,
     /** Hours the slurry pump ran; the whole shift when not given. */
     pumpHours: z.number().finite().positive("pump hours are more than 0").max(24).nullish(),
     slurryFlow: z.object({
@@ -110,11 +110,14 @@ export const tubeStatusSchema = z.object({ status: z.enum(TUBE_STATUSES, { messa
 export const dewateringSettingsSchema = z.object({
   solidsSpecificGravity: solidsSpecificGravitySchema,
   cakeSolidsByWeight: z.number().finite().gt(0, "cake solids are a share above 0").max(1, "cake solids are a share of 0 to 1 (0.30 for 30 %)").nullable(),
+  /** The share of a tube's capacity at which it is flagged near capacity (the supplier's or the site plan's figure). */
+  tubeNearCapacityShare: z.number().finite().min(MIN_NEAR_CAPACITY_SHARE, `flag a tube at ${MIN_NEAR_CAPACITY_SHARE * 100} % of its capacity or more`).max(1, "flag a tube at its capacity (100 %) at the latest"),
 });
 
 export interface DewateringSettings {
   solidsSpecificGravity: number;
   cakeSolidsByWeight: number | null;
+  tubeNearCapacityShare: number;
 }
 
 /** Today in the project's time zone, the date a form starts from. */
@@ -124,14 +127,14 @@ export async function projectToday(project: ProjectView): Promise<string> {
 }
 
 export async function dewateringSettings(project: ProjectView): Promise<DewateringSettings> {
-  const row = await Project.findByPk(project.id, { attributes: ["solidsSpecificGravity", "cakeSolidsByWeight"] });
+  const row = await Project.findByPk(project.id, { attributes: ["solidsSpecificGravity", "cakeSolidsByWeight", "tubeNearCapacityShare"] });
   if (!row) throw new NotFoundError("There is no such project.");
-  return { solidsSpecificGravity: row.solidsSpecificGravity, cakeSolidsByWeight: row.cakeSolidsByWeight ?? null };
+  return { solidsSpecificGravity: row.solidsSpecificGravity, cakeSolidsByWeight: row.cakeSolidsByWeight ?? null, tubeNearCapacityShare: row.tubeNearCapacityShare };
 }
 
 export async function updateDewateringSettings(project: ProjectView, user: UserView, settings: z.infer<typeof dewateringSettingsSchema>, ip: string | null = null): Promise<DewateringSettings> {
   await getSequelize().transaction(async (transaction) => {
-    await Project.update({ solidsSpecificGravity: settings.solidsSpecificGravity, cakeSolidsByWeight: settings.cakeSolidsByWeight }, { where: { id: project.id }, transaction });
+    await Project.update({ solidsSpecificGravity: settings.solidsSpecificGravity, cakeSolidsByWeight: settings.cakeSolidsByWeight, tubeNearCapacityShare: settings.tubeNearCapacityShare }, { where: { id: project.id }, transaction });
     await recordAudit({ action: AUDIT_ACTIONS.dewateringSettingsChanged, projectId: project.id, userId: user.id, ip, detail: { ...settings } }, transaction);
   });
   return dewateringSettings(project);
@@ -291,7 +294,7 @@ export interface TubeRegister {
   nearCapacityShare: number;
 }
 
-function presentTube(tube: GeotextileTube, project: ProjectView): TubeView {
+function presentTube(tube: GeotextileTube, project: ProjectView, nearCapacityShare: number): TubeView {
   const bulk = massUnitsFor(project.lengthUnit).bulkMass;
   const fills = (tube.fills ?? []).map((fill) => ({ id: fill.id, date: fill.fillDate, shiftId: fill.shiftId, slurryVolumeM3: fill.slurryVolumeM3, drySolids: kilogramsTo(fill.drySolidsKg, bulk) }));
   const delivered = fills.reduce((sum, fill) => sum + fill.drySolids, 0);
@@ -300,21 +303,21 @@ function presentTube(tube: GeotextileTube, project: ProjectView): TubeView {
     id: tube.id, name: tube.name, circumference: tube.circumference, length: tube.length, capacityDryMassPerLength: tube.capacityDryMassPerLength,
     theoreticalDiameter: theoreticalDiameter(tube.circumference), status: tube.status, notes: tube.notes, fills,
     drySolidsDelivered: delivered, capacity: tube.capacityDryMassPerLength * tube.length, fillLevel: level,
-    nearCapacity: FILLABLE.includes(tube.status) && isNearCapacity(level),
+    nearCapacity: FILLABLE.includes(tube.status) && isNearCapacity(level, nearCapacityShare),
   };
 }
 
 export async function listTubes(project: ProjectView): Promise<TubeRegister> {
-  const tubes = await GeotextileTube.findAll({
+  const [tubes, settings] = await Promise.all([GeotextileTube.findAll({
     where: { projectId: project.id },
     include: [{ model: TubeFill, as: "fills" }],
     order: [["name", "ASC"], [{ model: TubeFill, as: "fills" }, "fillDate", "ASC"], [{ model: TubeFill, as: "fills" }, "id", "ASC"]],
-  });
+  }), dewateringSettings(project)]);
   return {
-    tubes: tubes.map((tube) => presentTube(tube, project)),
+    tubes: tubes.map((tube) => presentTube(tube, project, settings.tubeNearCapacityShare)),
     lengthLabel: unitLabel(project.lengthUnit),
     massLabel: measureLabel(massUnitsFor(project.lengthUnit).bulkMass),
-    nearCapacityShare: NEAR_CAPACITY_SHARE,
+    nearCapacityShare: settings.tubeNearCapacityShare,
   };
 }
 

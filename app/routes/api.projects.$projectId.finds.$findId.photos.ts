@@ -1,12 +1,9 @@
 import { requireApiAccess } from "~/lib/api/access.server";
-import { assertMediaType } from "~/lib/api/body.server";
-import { BadRequestError, PayloadTooLargeError } from "~/lib/errors";
+import { withApiPhotoUpload } from "~/lib/api/photos.server";
 import { apiRoute } from "~/lib/api/route.server";
-import { NotFoundError, ValidationError } from "~/lib/errors";
+import { NotFoundError } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { urlIdSchema } from "~/lib/http/url-id";
-import { PHOTO_MAX_BYTES } from "~/lib/images/photo.server";
-import { discardStagedFile, stageUpload, UploadRefused } from "~/lib/import/stage-upload.server";
 import { addFindPhoto } from "~/models/finds.server";
 import type { Route } from "./+types/api.projects.$projectId.finds.$findId.photos";
 
@@ -17,21 +14,8 @@ const route = apiRoute<Route.LoaderArgs>({
     const { user, project } = await requireApiAccess(request, params.projectId, "finds.log");
     const findId = urlIdSchema.safeParse(params.findId);
     if (!findId.success) throw new NotFoundError("There is no such find in this project.");
-    assertMediaType(request, "multipart/form-data");
-    let staged;
-    try {
-      staged = await stageUpload(request, { maxBytes: PHOTO_MAX_BYTES, advice: "Send the photo at a smaller size (a phone's normal setting is well under it)." });
-    } catch (error) {
-      if (error instanceof UploadRefused) throw error.status === 413 ? new PayloadTooLargeError({ field: "file", message: error.message }) : new BadRequestError({ field: "file", message: error.message });
-      throw error;
-    }
-    try {
-      if (!staged.file) throw new ValidationError({ field: "file", message: "no photo was sent in the `file` field" });
-      const photo = await addFindPhoto(project, user, findId.data, staged.file, clientAddress(request));
-      return Response.json(photo, { status: 201, headers: { Location: `/api/projects/${project.id}/finds/${findId.data}/photos/${photo.id}` } });
-    } finally {
-      if (staged.file) await discardStagedFile(staged.file.path);
-    }
+    const photo = await withApiPhotoUpload(request, (file) => addFindPhoto(project, user, findId.data, file, clientAddress(request)));
+    return Response.json(photo, { status: 201, headers: { Location: `/api/projects/${project.id}/finds/${findId.data}/photos/${photo.id}` } });
   },
 });
 export const loader = route.loader;

@@ -175,6 +175,14 @@ describe("geotextile tubes", () => {
     expect(isNearCapacity(fillLevel(45, 0.5, 100))).toBe(true);
     expect(isNearCapacity(NEAR_CAPACITY_SHARE - 0.01)).toBe(false);
   });
+
+  it("flags at the project's own share when the manager set one", () => {
+    // computed: 46 of 50 dry tons is 92 %: flagged at the default 90 %, not at a supplier's 95 %
+    const level = fillLevel(46, 0.5, 100);
+    expect(isNearCapacity(level)).toBe(true);
+    expect(isNearCapacity(level, 0.95)).toBe(false);
+    expect(isNearCapacity(0.95, 0.95)).toBe(true);
+  });
 });
 
 describe("haul tickets", () => {
