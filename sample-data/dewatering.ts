@@ -70,6 +70,10 @@ export interface DemoTube {
   /** Where its life stands when the demo is seeded. */
   finalStatus: "filling" | "dewatering" | "ready-to-open" | "opened" | "hauled";
   notes: string;
+  /** Its centre on the laydown area north of the vent basin, feet east and north of the vent (on land: the basin's shore is about 130 ft out). */
+  laydown: { eastFt: number; northFt: number };
+  /** Degrees clockwise from grid north. */
+  bearingDegrees: number;
 }
 
 export interface DemoHaul {
@@ -82,10 +86,10 @@ export interface DemoHaul {
 }
 
 export const DEMO_TUBES: DemoTube[] = [
-  { name: "T-1", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "hauled", notes: "Laydown row A, west end" },
-  { name: "T-2", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "opened", notes: "Laydown row A, east end" },
-  { name: "T-3", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "dewatering", notes: "Laydown row B" },
-  { name: "T-4", circumference: 60, length: 180, capacityDryMassPerLength: 1.1, finalStatus: "filling", notes: "Laydown row B, north" },
+  { name: "T-1", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "hauled", notes: "Laydown row A, west end", laydown: { eastFt: -90, northFt: 240 }, bearingDegrees: 90 },
+  { name: "T-2", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "opened", notes: "Laydown row A, east end", laydown: { eastFt: 90, northFt: 240 }, bearingDegrees: 90 },
+  { name: "T-3", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "dewatering", notes: "Laydown row B", laydown: { eastFt: -90, northFt: 275 }, bearingDegrees: 90 },
+  { name: "T-4", circumference: 60, length: 180, capacityDryMassPerLength: 1.1, finalStatus: "filling", notes: "Laydown row B, north", laydown: { eastFt: 105, northFt: 275 }, bearingDegrees: 90 },
 ];
 
 export const DEMO_HAUL_SITES = [

@@ -93,7 +93,11 @@ export const tubeInputSchema = z.object({
   capacityDryMassPerLength: z.number().finite().positive("the capacity is more than 0").max(1000),
   status: z.enum(TUBE_STATUSES).default("filling"),
   notes: z.string().max(4000).default(""),
-});
+  /** The tube's centre on the laydown area, project CRS (easting x, northing y in the project's length unit). */
+  position: z.object({ x: z.number().finite("the easting is a number"), y: z.number().finite("the northing is a number") }).nullish(),
+  /** Which way the tube lies, degrees clockwise from grid north (0–180 says it all; up to 360 taken). */
+  bearingDegrees: z.number().finite().min(0, "a bearing is 0 to 360 degrees").max(360, "a bearing is 0 to 360 degrees").nullish(),
+}).refine((tube) => tube.bearingDegrees == null || tube.position != null, { path: ["position"], message: "give the tube's position (its centre) with its bearing" });
 export type TubeInput = z.infer<typeof tubeInputSchema>;
 
 export const fillInputSchema = z.object({
@@ -278,6 +282,9 @@ export interface TubeView {
   theoreticalDiameter: number;
   status: TubeStatus;
   notes: string;
+  /** Its centre on the laydown area (project CRS) and bearing (degrees from grid north), when placed. */
+  position: { x: number; y: number } | null;
+  bearingDegrees: number;
   fills: Array<{ id: number; date: string; shiftId: number | null; slurryVolumeM3: number | null; drySolids: number }>;
   /** Dry solids delivered and the tube's capacity, project bulk mass unit. */
   drySolidsDelivered: number;
@@ -289,6 +296,8 @@ export interface TubeView {
 
 export interface TubeRegister {
   tubes: TubeView[];
+  /** The project's CRS code, in which tube positions are given. */
+  crs: string;
   lengthLabel: string;
   massLabel: string;
   nearCapacityShare: number;
@@ -301,7 +310,9 @@ function presentTube(tube: GeotextileTube, project: ProjectView, nearCapacitySha
   const level = fillLevel(delivered, tube.capacityDryMassPerLength, tube.length);
   return {
     id: tube.id, name: tube.name, circumference: tube.circumference, length: tube.length, capacityDryMassPerLength: tube.capacityDryMassPerLength,
-    theoreticalDiameter: theoreticalDiameter(tube.circumference), status: tube.status, notes: tube.notes, fills,
+    theoreticalDiameter: theoreticalDiameter(tube.circumference), status: tube.status, notes: tube.notes,
+    position: tube.positionX !== null && tube.positionX !== undefined && tube.positionY !== null && tube.positionY !== undefined ? { x: tube.positionX, y: tube.positionY } : null,
+    bearingDegrees: tube.bearingDegrees ?? 0, fills,
     drySolidsDelivered: delivered, capacity: tube.capacityDryMassPerLength * tube.length, fillLevel: level,
     nearCapacity: FILLABLE.includes(tube.status) && isNearCapacity(level, nearCapacityShare),
   };
@@ -315,6 +326,7 @@ export async function listTubes(project: ProjectView): Promise<TubeRegister> {
   }), dewateringSettings(project)]);
   return {
     tubes: tubes.map((tube) => presentTube(tube, project, settings.tubeNearCapacityShare)),
+    crs: project.crs,
     lengthLabel: unitLabel(project.lengthUnit),
     massLabel: measureLabel(massUnitsFor(project.lengthUnit).bulkMass),
     nearCapacityShare: settings.tubeNearCapacityShare,
@@ -333,7 +345,10 @@ export async function registerTube(project: ProjectView, user: UserView, input: 
   try {
     const id = await getSequelize().transaction(async (transaction) => {
       const tube = await GeotextileTube.create(
-        { projectId: project.id, name: input.name, circumference: input.circumference, length: input.length, capacityDryMassPerLength: input.capacityDryMassPerLength, status: input.status, notes: input.notes, createdById: user.id },
+        {
+          projectId: project.id, name: input.name, circumference: input.circumference, length: input.length, capacityDryMassPerLength: input.capacityDryMassPerLength, status: input.status, notes: input.notes,
+          positionX: input.position?.x ?? null, positionY: input.position?.y ?? null, bearingDegrees: input.position ? (input.bearingDegrees ?? 0) : null, createdById: user.id,
+        },
         { transaction },
       );
       await recordAudit({ action: AUDIT_ACTIONS.tubeRegistered, projectId: project.id, userId: user.id, ip, detail: { name: input.name } }, transaction);

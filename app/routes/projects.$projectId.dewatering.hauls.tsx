@@ -156,15 +156,7 @@ export default function DewateringHauls({ loaderData, actionData }: Route.Compon
                             <li key={photo.id}><a href={photoUrl(haul.id, photo.id)}><img src={photoUrl(haul.id, photo.id, true)} alt={`Ticket ${haul.ticketNumber}: ${photo.originalFileName}`} className="h-12 w-16 rounded border border-line object-cover" loading="lazy" /></a></li>
                           ))}
                         </ul>
-                      ) : loaderData.canLog ? null : <span className="text-muted">–</span>}
-                      {loaderData.canLog && haul.photos.length === 0 ? (
-                        <Form method="post" encType="multipart/form-data" className="flex items-center gap-1" aria-label={`Add a photo of ticket ${haul.ticketNumber}`}>
-                          <input type="hidden" name="haulId" value={haul.id} />
-                          <input name="file" type="file" accept="image/jpeg,image/png,image/webp" required aria-label={`Photo of ticket ${haul.ticketNumber}`} className="w-48 text-xs" />
-                          <SubmitButton pendingLabel="…" intent="photo" tone="plain" className="px-2 py-1 text-xs">Upload</SubmitButton>
-                        </Form>
-                      ) : null}
-                      {result?.intent === "photo" && result.haulId === haul.id && result.errors.file ? <p className="text-xs text-danger">{result.errors.file}</p> : null}
+                      ) : <span className="text-muted">–</span>}
                     </td>
                   </tr>
                 ))}
@@ -172,6 +164,19 @@ export default function DewateringHauls({ loaderData, actionData }: Route.Compon
             </table>
           </div>
         )}
+        {loaderData.canLog && hauls.length > 0 ? (
+          <Form method="post" encType="multipart/form-data" className="grid gap-3 rounded border border-line bg-panel p-4 sm:grid-cols-3 sm:items-end" aria-label="Add a photo to a ticket">
+            <FieldSelect label="Ticket" name="haulId" required defaultValue={result?.intent === "photo" ? result.haulId : undefined}>
+              {hauls.map((haul) => <option key={haul.id} value={haul.id}>{haul.ticketNumber} · {haul.date}{haul.photos.length > 0 ? ` (${haul.photos.length} photo${haul.photos.length === 1 ? "" : "s"})` : ""}</option>)}
+            </FieldSelect>
+            <div>
+              <label htmlFor="later-ticket-photo" className="block text-sm font-medium">Photo of the ticket</label>
+              <input id="later-ticket-photo" name="file" type="file" accept="image/jpeg,image/png,image/webp" required aria-invalid={errorsFor("photo").file ? true : undefined} aria-describedby={errorsFor("photo").file ? "later-ticket-photo-error" : undefined} className="mt-1 block w-full text-base" />
+              {errorsFor("photo").file ? <p id="later-ticket-photo-error" className="mt-1 text-sm text-danger">{errorsFor("photo").file}</p> : null}
+            </div>
+            <SubmitButton pendingLabel="Uploading…" intent="photo" tone="plain">Add the photo</SubmitButton>
+          </Form>
+        ) : null}
       </section>
       <section aria-labelledby="haul-sites" className="space-y-2">
         <h2 id="haul-sites" className="font-semibold">Reuse and disposal sites</h2>

@@ -5,7 +5,8 @@ import type { Migration } from "../umzug";
 // jars as JSON, the dose chosen), with photos; photos of haul tickets. Photos are objects in the
 // store (app/lib/storage) with their keys here, in the same columns as find photos. On projects:
 // the share of a tube's capacity at which it is flagged near capacity (0.9 until the manager sets
-// the supplier's or the site plan's figure).
+// the supplier's or the site plan's figure). On tubes: where each lies on the laydown area (its
+// centre in the project CRS and its bearing), so the map can draw it.
 
 const id = () => ({ type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true, allowNull: false });
 const timestamps = () => ({
@@ -39,6 +40,7 @@ const photoColumns = () => ({
 
 export const up: Migration = async ({ context: queryInterface }) => {
   await queryInterface.addColumn("projects", "tubeNearCapacityShare", { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0.9 });
+  for (const column of ["positionX", "positionY", "bearingDegrees"]) await queryInterface.addColumn("geotextile_tubes", column, measure(true));
 
   await queryInterface.createTable("jar_tests", {
     id: id(),
@@ -74,5 +76,6 @@ export const up: Migration = async ({ context: queryInterface }) => {
 // Plain ALTER TABLE: Sequelize's removeColumn fails on the MariaDB driver's result arrays.
 export const down: Migration = async ({ context: queryInterface }) => {
   for (const table of ["haul_photos", "jar_test_photos", "jar_tests"]) await queryInterface.dropTable(table);
+  await queryInterface.sequelize.query("ALTER TABLE geotextile_tubes DROP COLUMN positionX, DROP COLUMN positionY, DROP COLUMN bearingDegrees");
   await queryInterface.sequelize.query("ALTER TABLE projects DROP COLUMN tubeNearCapacityShare");
 };

@@ -1,5 +1,6 @@
 import { DEMO_CAKE_SOLIDS_BY_WEIGHT, DEMO_HAUL_SITES, DEMO_JAR_TESTS, DEMO_SAMPLES, DEMO_SOLIDS_SPECIFIC_GRAVITY, DEMO_TUBE_NEAR_CAPACITY_SHARE, DEMO_TUBES, demoDewatering } from "../../sample-data/dewatering";
-import { PROJECT } from "../../sample-data/scenario";
+import { PROJECT, VENT_LON_LAT } from "../../sample-data/scenario";
+import { createCrs } from "../../shared/crs";
 import { DewateringShift, Project, User, initModels } from "../models";
 
 /**
@@ -29,8 +30,11 @@ export async function seedDemoDewatering(): Promise<boolean> {
   for (const test of DEMO_JAR_TESTS) await jarTests.recordJarTest(view, operatorView, jarTests.jarTestInputSchema.parse(test));
   for (const site of DEMO_HAUL_SITES) await hauls.addHaulSite(view, managerView, site);
   const tubeIds = new Map<string, number>();
+  const { resolveCrsDefinition } = await import("../../app/lib/geo/epsg.server");
+  const [ventX, ventY] = createCrs(resolveCrsDefinition(project.crs).definition).fromLonLat(...VENT_LON_LAT);
   for (const tube of DEMO_TUBES) {
-    const registered = await dewatering.registerTube(view, operatorView, dewatering.tubeInputSchema.parse({ ...tube, status: "filling" }));
+    const position = { x: ventX + tube.laydown.eastFt, y: ventY + tube.laydown.northFt };
+    const registered = await dewatering.registerTube(view, operatorView, dewatering.tubeInputSchema.parse({ ...tube, status: "filling", position }));
     tubeIds.set(tube.name, registered.id);
   }
   const generated = demoDewatering();

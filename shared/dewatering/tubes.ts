@@ -32,3 +32,14 @@ export function fillLevel(deliveredDryMass: number, capacityDryMassPerLength: nu
 export function isNearCapacity(level: number, share: number = NEAR_CAPACITY_SHARE): boolean {
   return level >= share;
 }
+
+/**
+ * The line a tube lies along on the laydown area: its two ends, `length` apart through its centre,
+ * at a bearing in degrees clockwise from grid north (x east, y north, the project's CRS and unit).
+ */
+export function tubeEnds(centre: { x: number; y: number }, length: number, bearingDegrees: number): [[number, number], [number, number]] {
+  const radians = (bearingDegrees * Math.PI) / 180;
+  const dx = (Math.sin(radians) * length) / 2;
+  const dy = (Math.cos(radians) * length) / 2;
+  return [[centre.x - dx, centre.y - dy], [centre.x + dx, centre.y + dy]];
+}

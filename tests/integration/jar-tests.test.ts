@@ -15,6 +15,10 @@ import { action as dewateringPage } from "~/routes/projects.$projectId.dewaterin
 import { action as tubesAction, loader as tubesLoader } from "~/routes/api.projects.$projectId.dewatering.tubes";
 import { action as fillsAction } from "~/routes/api.projects.$projectId.dewatering.tubes.$tubeId.fills";
 import { ORIGIN, addMember, makeProject, makeUser, requestAs } from "./helpers";
+import { buildMapStyle } from "~/models/map-style.server";
+import { presentProject } from "~/lib/auth/project-view.server";
+import { createCrs } from "../../shared/crs";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
 
 // Jar tests and haul-ticket photos end to end (and the project's near-capacity share for tubes): the bench figures answered by the API, refusals
 // that name the field and store nothing, photos kept through the one object store (metadata
@@ -262,6 +266,23 @@ describe("the pages' forms carry the record and its photo at once", () => {
     const haul = await Haul.findOne({ where: { projectId, ticketNumber: "S-10022" }, include: [{ model: HaulPhoto, as: "photos" }] });
     expect(haul!.photos).toHaveLength(1);
   });
+
+  it("adds a photo to a ticket already entered, and asks for the photo when none was chosen", async () => {
+    const haul = (await Haul.findOne({ where: { projectId, ticketNumber: "S-10022" } }))!;
+    const form = (file: Blob | null) => {
+      const body = new FormData();
+      body.set("intent", "photo");
+      body.set("haulId", String(haul.id));
+      body.set("file", file ?? new Blob([], { type: "application/octet-stream" }), file ? "back-of-ticket.jpg" : "");
+      return body;
+    };
+    const missing = await postPage(haulsPage as never, `/projects/${projectId}/dewatering/hauls`, form(null));
+    expect(missing.status).toBe(400);
+    expect(missing.body.errors.file).toBe("Choose a photo of the ticket.");
+    const added = await postPage(haulsPage as never, `/projects/${projectId}/dewatering/hauls`, form(new Blob([new Uint8Array(await photoWithGps())], { type: "image/jpeg" })));
+    expect(added.body.notice).toBe("Added the ticket's photo.");
+    expect(await HaulPhoto.count({ where: { haulId: haul.id } })).toBe(2);
+  });
 });
 
 describe("the project's near-capacity share for tubes", () => {
@@ -291,5 +312,29 @@ describe("the project's near-capacity share for tubes", () => {
     expect(register.nearCapacityShare).toBe(0.95);
     expect(register.tubes.find((entry: { name: string }) => entry.name === "NC-1")).toMatchObject({ nearCapacity: false });
     expect(await AuditEvent.count({ where: { projectId, action: "dewatering-settings-changed" } })).toBe(1);
+  });
+});
+
+describe("tube positions on the map", () => {
+  it("draws a placed tube on the project's map along its bearing, and only a placed one", async () => {
+    const bearingOnly = await postJson(tubesAction as never, "dewatering", `${base()}/dewatering/tubes`, { name: "MAP-0", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, bearingDegrees: 90 });
+    expect(bearingOnly.status).toBe(422);
+    expect((await errorsOf(bearingOnly)).map((error) => error.field)).toEqual(["position"]);
+    const placed = await postJson(tubesAction as never, "dewatering", `${base()}/dewatering/tubes`, { name: "MAP-1", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, position: { x: 600_500, y: 1_600_400 }, bearingDegrees: 90 });
+    expect(placed.status).toBe(201);
+    expect((await placed.json()).tube).toMatchObject({ position: { x: 600_500, y: 1_600_400 }, bearingDegrees: 90 });
+    const style = await buildMapStyle(presentProject((await Project.findByPk(projectId))!)) as unknown as { sources: { tubes: { data: { features: Array<{ properties: { name: string }; geometry: { coordinates: number[][] } }> } } }; layers: Array<{ id: string }> };
+    const features = style.sources.tubes.data.features;
+    expect(features.map((feature) => feature.properties.name)).toEqual(["MAP-1"]);
+    // computed: 150 ft east–west through the centre, each end taken to lon/lat by the project's CRS (EPSG:2237)
+    const crs = createCrs(resolveCrsDefinition("EPSG:2237").definition);
+    const [west, east] = features[0].geometry.coordinates;
+    const expectedWest = crs.toLonLat(600_425, 1_600_400);
+    const expectedEast = crs.toLonLat(600_575, 1_600_400);
+    expect(west[0]).toBeCloseTo(expectedWest[0], 9);
+    expect(west[1]).toBeCloseTo(expectedWest[1], 9);
+    expect(east[0]).toBeCloseTo(expectedEast[0], 9);
+    expect(east[0]).toBeGreaterThan(west[0]);
+    expect(style.layers.map((layer) => layer.id)).toEqual(expect.arrayContaining(["tubes", "tube-labels"]));
   });
 });

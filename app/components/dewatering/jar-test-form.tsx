@@ -70,15 +70,16 @@ export function JarTestForm(props: { defaultDate: string; errors: FieldErrors; p
             return (
               <li key={index} className="rounded border border-line bg-paper p-2" data-testid={`jar-${index + 1}`}>
                 <div className="flex flex-wrap items-baseline justify-between gap-x-3">
-                  <h4 className="text-sm font-semibold">Jar {index + 1}</h4>
-                  <p className="figures text-sm" data-testid={`jar-${index + 1}-stock`}>
-                    {stockMl !== null ? `add ${formatFigure(stockMl, 2)} mL of stock` : ""}{removal !== null ? ` · ${formatFigure(removal * 100, 0)} % of the raw turbidity removed` : ""}
+                  <h3 className="text-sm font-semibold">Jar {index + 1}</h3>
+                  <p className="text-sm" data-testid={`jar-${index + 1}-stock`}>
+                    {stockMl !== null ? <>add <span className="figures">{formatFigure(stockMl, 2)} mL</span> of stock</> : null}
+                    {removal !== null ? <> · <span className="figures">{formatFigure(removal * 100, 0)} %</span> of the raw turbidity removed</> : null}
                   </p>
                 </div>
-                <div className="mt-1 grid grid-cols-3 gap-2">
+                <div className="mt-1 grid grid-cols-2 gap-2 sm:grid-cols-3">
                   <FieldInput label="Dose (mg/L)" name={`jar-${index}-dose`} inputMode="decimal" value={jar.dose} onChange={changeJar(index, "dose")} error={errors[`jar-${index}-dose`]} />
                   <FieldInput label="NTU" name={`jar-${index}-ntu`} inputMode="decimal" value={jar.ntu} onChange={changeJar(index, "ntu")} error={errors[`jar-${index}-ntu`]} />
-                  <FieldSelect label="Clarity" name={`jar-${index}-clarity`} value={jar.clarity} onChange={changeJar(index, "clarity")} error={errors[`jar-${index}-clarity`]}>
+                  <FieldSelect className="col-span-2 sm:col-span-1" label="Clarity" name={`jar-${index}-clarity`} value={jar.clarity} onChange={changeJar(index, "clarity")} error={errors[`jar-${index}-clarity`]}>
                     <option value="">—</option>
                     {JAR_CLARITIES.map((clarity) => <option key={clarity} value={clarity}>{JAR_CLARITY_LABELS[clarity]}</option>)}
                   </FieldSelect>
