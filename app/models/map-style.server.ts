@@ -1,7 +1,7 @@
 import { Shoreline, Zone } from "~/lib/db.server";
 import { STATUS_COLOURS } from "../../shared/palette";
 import { CELL_SOURCES } from "~/components/map/cell-sources";
-import { MARK_STYLES, PLANNED_PATTERN } from "~/components/map/paint";
+import { MARK_STYLES, PLANNED_PATTERN, TUBE_COLOURS } from "~/components/map/paint";
 import { findProject } from "~/lib/auth/project-view.server";
 import { createCrs } from "../../shared/crs";
 import { tubeEnds } from "../../shared/dewatering/tubes";
@@ -73,11 +73,11 @@ export async function buildMapStyle(project: ProjectView) {
       { id: "bands-fill", type: "fill", source: "bands", layout: { visibility: "none" }, paint: { "fill-color": "#999999", "fill-opacity": 0.75 } },
       { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": "#3d4a50", "line-width": 1.5, "line-dasharray": [3, 2] } },
       { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": "#a3242a", "line-width": 2 } },
-      { id: "tubes", type: "line", source: "tubes", layout: { "line-cap": "round" }, paint: { "line-color": ["case", ["get", "nearCapacity"], "#a3242a", "#6b5a3a"], "line-width": 7 } },
+      { id: "tubes", type: "line", source: "tubes", layout: { "line-cap": "round" }, paint: { "line-color": ["case", ["get", "nearCapacity"], TUBE_COLOURS.nearCapacity, TUBE_COLOURS.normal], "line-width": 7 } },
       {
         id: "tube-labels", type: "symbol", source: "tubes",
         layout: { "text-field": ["get", "name"], "text-font": textFont, "text-size": 12, "symbol-placement": "line-center", "text-allow-overlap": true, "text-ignore-placement": true },
-        paint: { "text-color": "#ffffff", "text-halo-color": "#3b3020", "text-halo-width": 1.5 },
+        paint: { "text-color": "#2b2416", "text-halo-color": "#ffffff", "text-halo-width": 2 },
       },
       { id: "cells-held-fill", type: "fill", source: "cells-held", paint: { "fill-color": MARK_STYLES.held.fill } },
       { id: "cells-held", type: "line", source: "cells-held", paint: { "line-color": MARK_STYLES.held.line, "line-width": 2 } },

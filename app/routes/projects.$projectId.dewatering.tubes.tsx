@@ -143,7 +143,7 @@ export default function DewateringTubes({ loaderData, actionData }: Route.Compon
               <FieldInput label={`Capacity (dry ${register.massLabel} per ${register.lengthLabel})`} name="capacityDryMassPerLength" inputMode="decimal" required error={errorsFor("register").capacityDryMassPerLength} hint="from the supplier's sheet" />
               <fieldset className="rounded border border-line p-3">
                 <legend className="px-1 text-sm font-medium">Where it lies on the laydown area</legend>
-                <p className="text-xs text-muted">Its centre in the project's coordinates ({register.crs}, {register.lengthLabel}) and which way it runs; the map then draws it. Leave blank to place it later.</p>
+                <p className="text-xs text-muted">Its centre in the project's coordinates ({register.crs}, {register.lengthLabel}) and which way it runs; the map then draws it. Left blank, the tube is listed but not drawn.</p>
                 <div className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-3">
                   <FieldInput label="Easting" name="positionX" inputMode="decimal" error={errorsFor("register").positionX} />
                   <FieldInput label="Northing" name="positionY" inputMode="decimal" error={errorsFor("register").positionY} />
