@@ -17,6 +17,38 @@ import { mulberry32 } from "./prng";
 const SEED = 20261015;
 export const DEMO_SOLIDS_SPECIFIC_GRAVITY = 1.8;
 export const DEMO_CAKE_SOLIDS_BY_WEIGHT = 0.28;
+/** The tube supplier's fill limit on the invented job: flag a tube at 90 % of its rated dry capacity. */
+export const DEMO_TUBE_NEAR_CAPACITY_SHARE = 0.9;
+
+/**
+ * The operator's jar tests: one before the first pumping day and one when the polymer lot changed,
+ * each with four 1-litre jars dosed from a 0.1 % bench stock (invented readings; the dose chosen
+ * is the one the shifts then ran near).
+ */
+export const DEMO_JAR_TESTS = [
+  {
+    date: "2026-09-09", time: "14:20", sampleSource: "slurry from the main line at the tube manifold",
+    polymer: { product: "Cationic PAM emulsion CE-412", lot: "LOT 26-0811", benchStockPercent: 0.1 }, jarVolumeMl: 1000, raw: { turbidityNtu: 640 },
+    jars: [
+      { doseMgPerL: 2, settlingMinutes: 10, turbidityNtu: 210, clarity: "turbid" },
+      { doseMgPerL: 4, settlingMinutes: 10, turbidityNtu: 48, clarity: "hazy" },
+      { doseMgPerL: 6, settlingMinutes: 10, turbidityNtu: 14, clarity: "clear" },
+      { doseMgPerL: 8, settlingMinutes: 10, turbidityNtu: 19, clarity: "slightly-hazy" },
+    ],
+    chosenDoseMgPerL: 6, notes: "Large floc at 6 mg/L, settled in under 3 minutes; 8 mg/L left the water slightly slick.",
+  },
+  {
+    date: "2026-10-15", time: "06:45", sampleSource: "slurry from the main line at the tube manifold",
+    polymer: { product: "Cationic PAM emulsion CE-412", lot: "LOT 26-0930", benchStockPercent: 0.1 }, jarVolumeMl: 1000, raw: { turbidityNtu: 585 },
+    jars: [
+      { doseMgPerL: 3, settlingMinutes: 10, turbidityNtu: 96, clarity: "hazy" },
+      { doseMgPerL: 4.5, settlingMinutes: 10, turbidityNtu: 22, clarity: "slightly-hazy" },
+      { doseMgPerL: 6, settlingMinutes: 10, turbidityNtu: 11, clarity: "clear" },
+      { doseMgPerL: 7.5, settlingMinutes: 10, turbidityNtu: 11, clarity: "clear" },
+    ],
+    chosenDoseMgPerL: 6, notes: "New lot: same dose holds.",
+  },
+] as const;
 
 export interface DemoShift {
   date: string;
@@ -38,6 +70,10 @@ export interface DemoTube {
   /** Where its life stands when the demo is seeded. */
   finalStatus: "filling" | "dewatering" | "ready-to-open" | "opened" | "hauled";
   notes: string;
+  /** Its centre on the laydown area north of the vent basin, feet east and north of the vent (on land: the basin's shore is about 130 ft out). */
+  laydown: { eastFt: number; northFt: number };
+  /** Degrees clockwise from grid north. */
+  bearingDegrees: number;
 }
 
 export interface DemoHaul {
@@ -50,10 +86,10 @@ export interface DemoHaul {
 }
 
 export const DEMO_TUBES: DemoTube[] = [
-  { name: "T-1", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "hauled", notes: "Laydown row A, west end" },
-  { name: "T-2", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "opened", notes: "Laydown row A, east end" },
-  { name: "T-3", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "dewatering", notes: "Laydown row B" },
-  { name: "T-4", circumference: 60, length: 180, capacityDryMassPerLength: 1.1, finalStatus: "filling", notes: "Laydown row B, north" },
+  { name: "T-1", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "hauled", notes: "Laydown row A, west end", laydown: { eastFt: -90, northFt: 240 }, bearingDegrees: 90 },
+  { name: "T-2", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "opened", notes: "Laydown row A, east end", laydown: { eastFt: 90, northFt: 240 }, bearingDegrees: 90 },
+  { name: "T-3", circumference: 60, length: 150, capacityDryMassPerLength: 1.1, finalStatus: "dewatering", notes: "Laydown row B", laydown: { eastFt: -90, northFt: 275 }, bearingDegrees: 90 },
+  { name: "T-4", circumference: 60, length: 180, capacityDryMassPerLength: 1.1, finalStatus: "filling", notes: "Laydown row B, north", laydown: { eastFt: 105, northFt: 275 }, bearingDegrees: 90 },
 ];
 
 export const DEMO_HAUL_SITES = [

@@ -1,7 +1,7 @@
 import { Op, UniqueConstraintError } from "sequelize";
 import { z } from "zod";
 import { computeShiftFigures, flowFromTotaliser, type ShiftFigures } from "../../shared/dewatering/shift";
-import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
+import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, MIN_NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
 import { localDateIn } from "../../shared/progress/calendar-days";
 import { cubicMetresPerHourFrom, flowUnitSchema, kilogramsFrom, kilogramsTo, LITRES_PER_US_GALLON, massUnitsFor, measureLabel, unitLabel, type FlowUnit } from "../../shared/units";
 import { DewateringShift, GeotextileTube, Project, TubeFill, TUBE_STATUSES, distinctProjectDates, getSequelize, type TubeStatus } from "~/lib/db.server";
@@ -20,9 +20,9 @@ import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
  */
 
 export const DEWATERING_CAUTION =
-  "Handle polymer per its safety data sheet: spills are slick, and it harms eyes and skin. Lines under pressure can burst or whip; never open a coupling under pressure. A tube filled near its capacity can rupture: stop filling at the supplier's fill height and keep people clear of the seams. Polymer product and dose follow the permit and the approved product list. These figures are aids for the operator, not approval.";
+  "Handle polymer per its safety data sheet and the site's safety plan: spills are slick, and it harms eyes and skin. Lines under pressure can burst or whip; never open a coupling under pressure. A tube filled near its capacity can rupture: stop filling at the supplier's fill height and keep people clear of the seams. Polymer product and dose follow the permit and the approved product list. These figures are aids for the operator, not approval.";
 
-const clock = z.string().trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
+export const clockSchema = z.string().trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
 const minutesOf = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
 const text = (max: number) => z.string().trim().max(max);
 const idempotencyKey = z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish();
@@ -32,8 +32,8 @@ export const solidsSpecificGravitySchema = z.number().finite().gt(1, "solids are
 export const shiftInputSchema = z
   .object({
     date: workDateSchema,
-    start: clock,
-    end: clock,
+    start: clockSchema,
+    end: clockSchema,
     /** Hours the slurry pump ran; the whole shift when not given. */
     pumpHours: z.number().finite().positive("pump hours are more than 0").max(24).nullish(),
     slurryFlow: z.object({
@@ -95,7 +95,11 @@ export const tubeInputSchema = z.object({
   capacityDryMassPerLength: z.number().finite().positive("the capacity is more than 0").max(1000),
   status: z.enum(TUBE_STATUSES).default("filling"),
   notes: z.string().max(4000).default(""),
-});
+  /** The tube's centre on the laydown area, project CRS (easting x, northing y in the project's length unit). */
+  position: z.object({ x: z.number().finite("the easting is a number"), y: z.number().finite("the northing is a number") }).nullish(),
+  /** Which way the tube lies, degrees clockwise from grid north (0–180 says it all; up to 360 taken). */
+  bearingDegrees: z.number().finite().min(0, "a bearing is 0 to 360 degrees").max(360, "a bearing is 0 to 360 degrees").nullish(),
+}).refine((tube) => tube.bearingDegrees == null || tube.position != null, { path: ["position"], message: "give the tube's position (its centre) with its bearing" });
 export type TubeInput = z.infer<typeof tubeInputSchema>;
 
 export const fillInputSchema = z.object({
@@ -112,11 +116,14 @@ export const tubeStatusSchema = z.object({ status: z.enum(TUBE_STATUSES, { messa
 export const dewateringSettingsSchema = z.object({
   solidsSpecificGravity: solidsSpecificGravitySchema,
   cakeSolidsByWeight: z.number().finite().gt(0, "cake solids are a share above 0").max(1, "cake solids are a share of 0 to 1 (0.30 for 30 %)").nullable(),
+  /** The share of a tube's capacity at which it is flagged near capacity (the supplier's or the site plan's figure). */
+  tubeNearCapacityShare: z.number().finite().min(MIN_NEAR_CAPACITY_SHARE, `flag a tube at ${MIN_NEAR_CAPACITY_SHARE * 100} % of its capacity or more`).max(1, "flag a tube at its capacity (100 %) at the latest"),
 });
 
 export interface DewateringSettings {
   solidsSpecificGravity: number;
   cakeSolidsByWeight: number | null;
+  tubeNearCapacityShare: number;
 }
 
 /** Today in the project's time zone, the date a form starts from. */
@@ -126,14 +133,14 @@ export async function projectToday(project: ProjectView): Promise<string> {
 }
 
 export async function dewateringSettings(project: ProjectView): Promise<DewateringSettings> {
-  const row = await Project.findByPk(project.id, { attributes: ["solidsSpecificGravity", "cakeSolidsByWeight"] });
+  const row = await Project.findByPk(project.id, { attributes: ["solidsSpecificGravity", "cakeSolidsByWeight", "tubeNearCapacityShare"] });
   if (!row) throw new NotFoundError("There is no such project.");
-  return { solidsSpecificGravity: row.solidsSpecificGravity, cakeSolidsByWeight: row.cakeSolidsByWeight ?? null };
+  return { solidsSpecificGravity: row.solidsSpecificGravity, cakeSolidsByWeight: row.cakeSolidsByWeight ?? null, tubeNearCapacityShare: row.tubeNearCapacityShare };
 }
 
 export async function updateDewateringSettings(project: ProjectView, user: UserView, settings: z.infer<typeof dewateringSettingsSchema>, ip: string | null = null): Promise<DewateringSettings> {
   await getSequelize().transaction(async (transaction) => {
-    await Project.update({ solidsSpecificGravity: settings.solidsSpecificGravity, cakeSolidsByWeight: settings.cakeSolidsByWeight }, { where: { id: project.id }, transaction });
+    await Project.update({ solidsSpecificGravity: settings.solidsSpecificGravity, cakeSolidsByWeight: settings.cakeSolidsByWeight, tubeNearCapacityShare: settings.tubeNearCapacityShare }, { where: { id: project.id }, transaction });
     await recordAudit({ action: AUDIT_ACTIONS.dewateringSettingsChanged, projectId: project.id, userId: user.id, ip, detail: { ...settings } }, transaction);
   });
   return dewateringSettings(project);
@@ -279,6 +286,9 @@ export interface TubeView {
   theoreticalDiameter: number;
   status: TubeStatus;
   notes: string;
+  /** Its centre on the laydown area (project CRS) and bearing (degrees from grid north), when placed. */
+  position: { x: number; y: number } | null;
+  bearingDegrees: number;
   fills: Array<{ id: number; date: string; shiftId: number | null; slurryVolumeM3: number | null; drySolids: number }>;
   /** Dry solids delivered and the tube's capacity, project bulk mass unit. */
   drySolidsDelivered: number;
@@ -292,36 +302,41 @@ export interface TubeView {
 
 export interface TubeRegister {
   tubes: TubeView[];
+  /** The project's CRS code, in which tube positions are given. */
+  crs: string;
   lengthLabel: string;
   massLabel: string;
   nearCapacityShare: number;
 }
 
-function presentTube(tube: GeotextileTube, project: ProjectView): TubeView {
+function presentTube(tube: GeotextileTube, project: ProjectView, nearCapacityShare: number): TubeView {
   const bulk = massUnitsFor(project.lengthUnit).bulkMass;
   const fills = (tube.fills ?? []).map((fill) => ({ id: fill.id, date: fill.fillDate, shiftId: fill.shiftId, slurryVolumeM3: fill.slurryVolumeM3, drySolids: kilogramsTo(fill.drySolidsKg, bulk) }));
   const delivered = fills.reduce((sum, fill) => sum + fill.drySolids, 0);
   const level = fillLevel(delivered, tube.capacityDryMassPerLength, tube.length);
   const view = {
     id: tube.id, name: tube.name, circumference: tube.circumference, length: tube.length, capacityDryMassPerLength: tube.capacityDryMassPerLength,
-    theoreticalDiameter: theoreticalDiameter(tube.circumference), status: tube.status, notes: tube.notes, fills,
+    theoreticalDiameter: theoreticalDiameter(tube.circumference), status: tube.status, notes: tube.notes,
+    position: tube.positionX !== null && tube.positionX !== undefined && tube.positionY !== null && tube.positionY !== undefined ? { x: tube.positionX, y: tube.positionY } : null,
+    bearingDegrees: tube.bearingDegrees ?? 0, fills,
     drySolidsDelivered: delivered, capacity: tube.capacityDryMassPerLength * tube.length, fillLevel: level,
-    nearCapacity: FILLABLE.includes(tube.status) && isNearCapacity(level),
+    nearCapacity: FILLABLE.includes(tube.status) && isNearCapacity(level, nearCapacityShare),
   };
   return { ...view, version: versionOf(view) };
 }
 
 export async function listTubes(project: ProjectView): Promise<TubeRegister> {
-  const tubes = await GeotextileTube.findAll({
+  const [tubes, settings] = await Promise.all([GeotextileTube.findAll({
     where: { projectId: project.id },
     include: [{ model: TubeFill, as: "fills" }],
     order: [["name", "ASC"], [{ model: TubeFill, as: "fills" }, "fillDate", "ASC"], [{ model: TubeFill, as: "fills" }, "id", "ASC"]],
-  });
+  }), dewateringSettings(project)]);
   return {
-    tubes: tubes.map((tube) => presentTube(tube, project)),
+    tubes: tubes.map((tube) => presentTube(tube, project, settings.tubeNearCapacityShare)),
+    crs: project.crs,
     lengthLabel: unitLabel(project.lengthUnit),
     massLabel: measureLabel(massUnitsFor(project.lengthUnit).bulkMass),
-    nearCapacityShare: NEAR_CAPACITY_SHARE,
+    nearCapacityShare: settings.tubeNearCapacityShare,
   };
 }
 
@@ -338,7 +353,10 @@ export async function registerTube(project: ProjectView, user: UserView, input: 
     const id = await getSequelize().transaction(async (transaction) => {
       const idempotency = await claimIdempotencyKey(transaction);
       const tube = await GeotextileTube.create(
-        { projectId: project.id, name: input.name, circumference: input.circumference, length: input.length, capacityDryMassPerLength: input.capacityDryMassPerLength, status: input.status, notes: input.notes, createdById: user.id },
+        {
+          projectId: project.id, name: input.name, circumference: input.circumference, length: input.length, capacityDryMassPerLength: input.capacityDryMassPerLength, status: input.status, notes: input.notes,
+          positionX: input.position?.x ?? null, positionY: input.position?.y ?? null, bearingDegrees: input.position ? (input.bearingDegrees ?? 0) : null, createdById: user.id,
+        },
         { transaction },
       );
       await idempotency.created(tube.id);
@@ -375,12 +393,13 @@ export async function recordFill(project: ProjectView, user: UserView, tubeId: n
  * tube's row lock, so no other edit slips in between.
  */
 export async function changeTubeStatus(project: ProjectView, user: UserView, tubeId: number, status: TubeStatus, ip: string | null = null, ifMatch: string[] | "any" | null = null): Promise<TubeView> {
+  const { tubeNearCapacityShare } = await dewateringSettings(project);
   await getSequelize().transaction(async (transaction) => {
     const tube = await GeotextileTube.findOne({ where: { id: tubeId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
     if (!tube) throw new NotFoundError({ field: "tubeId", message: "There is no such tube on this project." });
     if (ifMatch !== null) {
       tube.fills = await TubeFill.findAll({ where: { tubeId: tube.id }, order: [["fillDate", "ASC"], ["id", "ASC"]], transaction });
-      assertCurrentVersion(ifMatch, presentTube(tube, project), "tube");
+      assertCurrentVersion(ifMatch, presentTube(tube, project, tubeNearCapacityShare), "tube");
     }
     await tube.update({ status }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.tubeStatusChanged, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, status } }, transaction);

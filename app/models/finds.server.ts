@@ -1,5 +1,3 @@
-import { randomUUID } from "node:crypto";
-import { readFile } from "node:fs/promises";
 import { UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { cellCentroid, cellIndexAt, cellRowCol, cellLabel as cellLabelOf } from "../../shared/grid/cell-grid";
@@ -14,8 +12,8 @@ import { Dive, DiveTeam, Find, FindCustody, FindPhoto, FindSequence, getSequeliz
 import { NotFoundError, ValidationError } from "~/lib/errors";
 import { can, type Access } from "~/lib/auth/permissions";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
-import { preparePhoto } from "~/lib/images/photo.server";
-import { deleteObject, getObject, objectKey, putObject, type StoredObject } from "~/lib/storage/storage.server";
+import { keepPhoto, keptPhotoBytes, presentPhoto, type PhotoView as StoredPhotoView } from "~/lib/images/stored-photo.server";
+import type { StoredObject } from "~/lib/storage/storage.server";
 import type { StagedFile } from "~/lib/import/stage-upload.server";
 import { cellLookup } from "./assignments.server";
 import { getCellsPayload } from "./cells.server";
@@ -110,13 +108,7 @@ export interface FindSummary {
 
 export type FindListItem = FindSummary & Partial<FindLocation>;
 
-export interface PhotoView {
-  id: number;
-  sizeBytes: number;
-  widthPx: number;
-  heightPx: number;
-  originalFileName: string;
-  uploadedAt: string;
+export interface PhotoView extends StoredPhotoView {
   exif?: PhotoExif | null;
 }
 
@@ -189,10 +181,7 @@ function custodyView(entry: FindCustody): CustodyView {
 }
 
 function photoView(photo: FindPhoto, locations: boolean): PhotoView {
-  const view: PhotoView = {
-    id: photo.id, sizeBytes: photo.sizeBytes, widthPx: photo.widthPx, heightPx: photo.heightPx,
-    originalFileName: photo.originalFileName, uploadedAt: photo.createdAt.toISOString(),
-  };
+  const view: PhotoView = presentPhoto(photo);
   if (locations) view.exif = photo.exif;
   return view;
 }
@@ -385,44 +374,20 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
  */
 export async function addFindPhoto(project: ProjectView, user: UserView, findId: number, staged: StagedFile, ip: string | null = null): Promise<{ id: number }> {
   const find = await findInProject(project, findId);
-  const prepared = await preparePhoto(await readFile(staged.path), staged.fileName);
-  const name = randomUUID();
-  const key = objectKey(["projects", project.id, "finds", find.id, "photos", `${name}.${prepared.extension}`]);
-  const thumbnailKey = objectKey(["projects", project.id, "finds", find.id, "photos", `${name}-thumb.jpg`]);
-  const stored: string[] = [];
-  try {
-    await putObject(key, prepared.bytes, prepared.contentType);
-    stored.push(key);
-    await putObject(thumbnailKey, prepared.thumbnail, "image/jpeg");
-    stored.push(thumbnailKey);
-    const photo = await getSequelize().transaction(async (transaction) => {
-      const idempotency = await claimIdempotencyKey(transaction);
-      const created = await FindPhoto.create(
-        {
-          findId: find.id, projectId: project.id, objectKey: key, thumbnailKey, contentType: prepared.contentType,
-          sizeBytes: prepared.bytes.byteLength, thumbnailSizeBytes: prepared.thumbnail.byteLength, widthPx: prepared.widthPx, heightPx: prepared.heightPx,
-          originalFileName: staged.fileName.slice(0, 255), exif: prepared.camera, uploadedById: user.id,
-        },
-        { transaction },
-      );
-      await idempotency.created(created.id);
-      await recordAudit({ action: AUDIT_ACTIONS.findPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, photoId: created.id, sizeBytes: created.sizeBytes } }, transaction);
-      return created;
-    });
-    return { id: photo.id };
-  } catch (error) {
-    await Promise.all(stored.map((storedKey) => deleteObject(storedKey).catch(() => undefined)));
-    throw error;
-  }
+  return keepPhoto(staged, ["projects", project.id, "finds", find.id, "photos"], async (photo, transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
+    const created = await FindPhoto.create({ ...photo, findId: find.id, projectId: project.id, uploadedById: user.id }, { transaction });
+    await idempotency.created(created.id);
+    await recordAudit({ action: AUDIT_ACTIONS.findPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, photoId: created.id, sizeBytes: created.sizeBytes } }, transaction);
+    return { id: created.id };
+  });
 }
 
 /** A photo's bytes (or its thumbnail's), after the caller's access to the find was checked. */
 export async function findPhotoBytes(project: ProjectView, findId: number, photoId: number, size: "full" | "thumb"): Promise<StoredObject> {
   const photo = await FindPhoto.findOne({ where: { id: photoId, findId, projectId: project.id } });
   if (!photo) throw new NotFoundError("There is no such photo of this find.");
-  const object = await getObject(size === "thumb" ? photo.thumbnailKey : photo.objectKey);
-  if (!object) throw new NotFoundError("The photo's file is missing from the store.");
-  return object;
+  return keptPhotoBytes(photo, size);
 }
 
 // ——— Custody and status.

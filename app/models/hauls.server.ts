@@ -1,12 +1,15 @@
-import { UniqueConstraintError } from "sequelize";
+import { UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { haulDryMassKg } from "../../shared/dewatering/haul";
 import { cubicMetresPerVolumeUnit, kilogramsFrom, kilogramsTo, massUnitsFor, measureLabel, unitLabel, volumeUnitFor } from "../../shared/units";
-import { Haul, HaulSite, HAUL_SITE_KINDS, getSequelize } from "~/lib/db.server";
+import { Haul, HaulPhoto, HaulSite, HAUL_SITE_KINDS, getSequelize } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import type { StagedFile } from "~/lib/import/stage-upload.server";
+import { keepPhoto, keptPhotoBytes, presentPhoto, type KeptPhoto, type PhotoView } from "~/lib/images/stored-photo.server";
+import type { StoredObject } from "~/lib/storage/storage.server";
 import { workDateSchema } from "./assignments.server";
 import { dewateringSettings } from "./dewatering.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
@@ -14,7 +17,8 @@ import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 /**
  * Haul tickets and the sites they go to. Each ticket's dry solids are counted once, when it is
  * recorded: its load (weighed wet, or the truck body's volume) times its cake solids, or the
- * project's default cake solids when the ticket has no sample of its own.
+ * project's default cake solids when the ticket has no sample of its own. A ticket keeps photos of
+ * the paper ticket (app/lib/images/stored-photo.server.ts, like every photo).
  */
 
 const text = (max: number) => z.string().trim().max(max);
@@ -63,6 +67,7 @@ export interface HaulView {
   cakeSolidsFrom: "sample" | "project default";
   drySolids: { value: number; unit: string; label: string };
   notes: string;
+  photos: PhotoView[];
 }
 
 const presentSite = (site: HaulSite): HaulSiteView => ({ id: site.id, name: site.name, kind: site.kind, permitNumber: site.permitNumber });
@@ -77,6 +82,7 @@ function presentHaul(haul: Haul, project: ProjectView): HaulView {
     cakeSolidsByWeight: haul.cakeSolidsByWeight, cakeSolidsFrom: haul.cakeSolidsFromSample ? "sample" : "project default",
     drySolids: { value: kilogramsTo(haul.drySolidsKg, units.bulkMass), unit: units.bulkMass, label: `dry ${measureLabel(units.bulkMass)}` },
     notes: haul.notes,
+    photos: (haul.photos ?? []).map(presentPhoto),
   };
 }
 
@@ -100,8 +106,8 @@ export async function addHaulSite(project: ProjectView, user: UserView, input: z
 async function findHauls(project: ProjectView, id?: number): Promise<HaulView[]> {
   const hauls = await Haul.findAll({
     where: { projectId: project.id, ...(id !== undefined ? { id } : {}) },
-    include: [{ model: HaulSite, as: "site" }],
-    order: [["haulDate", "DESC"], ["id", "DESC"]],
+    include: [{ model: HaulSite, as: "site" }, { model: HaulPhoto, as: "photos" }],
+    order: [["haulDate", "DESC"], ["id", "DESC"], [{ model: HaulPhoto, as: "photos" }, "id", "ASC"]],
   });
   return hauls.map((haul) => presentHaul(haul, project));
 }
@@ -110,8 +116,11 @@ export function listHauls(project: ProjectView): Promise<HaulView[]> {
   return findHauls(project);
 }
 
-/** Records a ticket; the same idempotency key again answers the ticket stored then (`replayed`). */
-export async function recordHaul(project: ProjectView, user: UserView, input: HaulInput, ip: string | null = null): Promise<{ haul: HaulView; replayed: boolean }> {
+/**
+ * Records a ticket, with a photo of it when one is sent (checked first: a refused photo stores
+ * nothing of the ticket either); the same idempotency key again answers the ticket stored then (`replayed`).
+ */
+export async function recordHaul(project: ProjectView, user: UserView, input: HaulInput, ip: string | null = null, photo: StagedFile | null = null): Promise<{ haul: HaulView; replayed: boolean }> {
   if (input.idempotencyKey) {
     const earlier = await Haul.findOne({ where: { projectId: project.id, idempotencyKey: input.idempotencyKey }, attributes: ["id"] });
     if (earlier) return { haul: (await findHauls(project, earlier.id))[0], replayed: true };
@@ -129,7 +138,7 @@ export async function recordHaul(project: ProjectView, user: UserView, input: Ha
   const volumeM3 = isMass ? null : input.load.value * (input.load.unit === "m3" ? 1 : cubicMetresPerVolumeUnit("ft"));
   const drySolidsKg = haulDryMassKg(wetMassKg !== null ? { wetMassKg } : { volumeM3: volumeM3! }, cakeSolids, settings.solidsSpecificGravity);
   try {
-    const id = await getSequelize().transaction(async (transaction) => {
+    const write = async (transaction: Transaction, kept: KeptPhoto | null) => {
       const idempotency = await claimIdempotencyKey(transaction);
       const haul = await Haul.create(
         {
@@ -143,8 +152,10 @@ export async function recordHaul(project: ProjectView, user: UserView, input: Ha
       );
       await idempotency.created(haul.id);
       await recordAudit({ action: AUDIT_ACTIONS.haulRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, ticketNumber: input.ticketNumber, site: site.name } }, transaction);
+      if (kept) await createPhotoRow(project, user, haul.id, kept, transaction, ip);
       return haul.id;
-    });
+    };
+    const id = photo ? await keepPhoto(photo, photoFolder(project), (kept, transaction) => write(transaction, kept)) : await getSequelize().transaction((transaction) => write(transaction, null));
     return { haul: (await findHauls(project, id))[0], replayed: false };
   } catch (error) {
     if (error instanceof UniqueConstraintError) {
@@ -153,6 +164,33 @@ export async function recordHaul(project: ProjectView, user: UserView, input: Ha
     }
     throw error;
   }
+}
+
+const photoFolder = (project: ProjectView) => ["projects", project.id, "hauls", "tickets"];
+
+async function createPhotoRow(project: ProjectView, user: UserView, haulId: number, photo: KeptPhoto, transaction: Transaction, ip: string | null): Promise<number> {
+  const created = await HaulPhoto.create({ ...photo, haulId, projectId: project.id, uploadedById: user.id }, { transaction });
+  await recordAudit({ action: AUDIT_ACTIONS.haulPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { haulId, photoId: created.id, sizeBytes: created.sizeBytes } }, transaction);
+  return created.id;
+}
+
+/** Adds a photo of a ticket from a staged upload (checked and stripped of metadata); NotFoundError when not this project's. */
+export async function addHaulPhoto(project: ProjectView, user: UserView, haulId: number, staged: StagedFile, ip: string | null = null): Promise<{ id: number }> {
+  const haul = await Haul.findOne({ where: { id: haulId, projectId: project.id }, attributes: ["id"] });
+  if (!haul) throw new NotFoundError({ field: "haulId", message: "There is no such haul ticket on this project." });
+  return { id: await keepPhoto(staged, photoFolder(project), async (kept, transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
+    const photoId = await createPhotoRow(project, user, haul.id, kept, transaction, ip);
+    await idempotency.created(photoId);
+    return photoId;
+  }) };
+}
+
+/** A ticket photo's bytes (or its thumbnail's), after the caller's access to the project was checked. */
+export async function haulPhotoBytes(project: ProjectView, haulId: number, photoId: number, size: "full" | "thumb"): Promise<StoredObject> {
+  const photo = await HaulPhoto.findOne({ where: { id: photoId, haulId, projectId: project.id } });
+  if (!photo) throw new NotFoundError("There is no such photo of this haul ticket.");
+  return keptPhotoBytes(photo, size);
 }
 
 /** Dry solids hauled according to the tickets, kg. */

@@ -1,8 +1,12 @@
 import { Shoreline, Zone } from "~/lib/db.server";
 import { STATUS_COLOURS } from "../../shared/palette";
 import { CELL_SOURCES } from "~/components/map/cell-sources";
-import { MARK_STYLES, PLANNED_PATTERN } from "~/components/map/paint";
+import { MARK_STYLES, PLANNED_PATTERN, TUBE_COLOURS } from "~/components/map/paint";
 import { findProject } from "~/lib/auth/project-view.server";
+import { createCrs } from "../../shared/crs";
+import { tubeEnds } from "../../shared/dewatering/tubes";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
+import { listTubes } from "./dewatering.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 
 /**
@@ -26,6 +30,15 @@ export async function buildMapStyle(project: ProjectView) {
   const workLimit = parse(row?.workLimitGeoJson);
   const zones = await Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["id", "ASC"]] });
   const shoreline = await Shoreline.findOne({ where: { projectId: project.id } });
+  // The geotextile tubes placed on the laydown area, each a line of its length along its bearing (red when near capacity).
+  const tubes = (await listTubes(project)).tubes.filter((tube) => tube.position !== null && tube.status !== "hauled");
+  const crs = tubes.length > 0 && row ? createCrs(resolveCrsDefinition(row.crs).definition) : null;
+  const tubeFeatures = crs
+    ? tubes.map((tube) => ({
+        type: "Feature", properties: { name: tube.name, status: tube.status, nearCapacity: tube.nearCapacity },
+        geometry: { type: "LineString", coordinates: tubeEnds(tube.position!, tube.length, tube.bearingDegrees).map(([x, y]) => crs.toLonLat(x, y)) },
+      }))
+    : [];
   const zoneFeatures = zones.map((zone, index) => ({ type: "Feature", id: index, properties: { name: zone.name, zone: index }, geometry: JSON.parse(zone.polygonGeoJson) }));
   const textFont = [MAP_FONT];
   return {
@@ -44,6 +57,7 @@ export async function buildMapStyle(project: ProjectView) {
       // Cells under a stop-work hold: "held", nothing more (no find, no category).
       "cells-held": { type: "geojson", data: emptyCollection },
       bands: { type: "geojson", data: emptyCollection },
+      tubes: { type: "geojson", data: { type: "FeatureCollection", features: tubeFeatures } },
     },
     layers: [
       { id: "background", type: "background", paint: { "background-color": LAND_COLOUR } },
@@ -59,6 +73,12 @@ export async function buildMapStyle(project: ProjectView) {
       { id: "bands-fill", type: "fill", source: "bands", layout: { visibility: "none" }, paint: { "fill-color": "#999999", "fill-opacity": 0.75 } },
       { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": "#3d4a50", "line-width": 1.5, "line-dasharray": [3, 2] } },
       { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": "#a3242a", "line-width": 2 } },
+      { id: "tubes", type: "line", source: "tubes", layout: { "line-cap": "round" }, paint: { "line-color": ["case", ["get", "nearCapacity"], TUBE_COLOURS.nearCapacity, TUBE_COLOURS.normal], "line-width": 7 } },
+      {
+        id: "tube-labels", type: "symbol", source: "tubes",
+        layout: { "text-field": ["get", "name"], "text-font": textFont, "text-size": 12, "symbol-placement": "line-center", "text-allow-overlap": true, "text-ignore-placement": true },
+        paint: { "text-color": "#2b2416", "text-halo-color": "#ffffff", "text-halo-width": 2 },
+      },
       { id: "cells-held-fill", type: "fill", source: "cells-held", paint: { "fill-color": MARK_STYLES.held.fill } },
       { id: "cells-held", type: "line", source: "cells-held", paint: { "line-color": MARK_STYLES.held.line, "line-width": 2 } },
       // Planned cells: a hatch over the cell's own colour (the page adds the pattern image) and a

@@ -88,8 +88,13 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     if (intent === "settings") {
       const cake = optionalNumber(form.get("cakeSolidsPercent"));
-      const parsed = dewateringSettingsSchema.safeParse({ solidsSpecificGravity: optionalNumber(form.get("solidsSpecificGravity")) ?? Number.NaN, cakeSolidsByWeight: cake === null ? null : cake / 100 });
-      if (!parsed.success) return refused({ intent, errors: fieldErrorsFrom(detailsOf(parsed.error), (field) => (field === "cakeSolidsByWeight" ? "cakeSolidsPercent" : field)), notice: null });
+      const nearCapacity = optionalNumber(form.get("nearCapacityPercent"));
+      const parsed = dewateringSettingsSchema.safeParse({
+        solidsSpecificGravity: optionalNumber(form.get("solidsSpecificGravity")) ?? Number.NaN, cakeSolidsByWeight: cake === null ? null : cake / 100,
+        tubeNearCapacityShare: nearCapacity === null ? Number.NaN : nearCapacity / 100,
+      });
+      const inputOf = (field: string) => (field === "cakeSolidsByWeight" ? "cakeSolidsPercent" : field === "tubeNearCapacityShare" ? "nearCapacityPercent" : field);
+      if (!parsed.success) return refused({ intent, errors: fieldErrorsFrom(detailsOf(parsed.error), inputOf), notice: null });
       await updateDewateringSettings(project, user, parsed.data, clientAddress(request));
       return { intent, errors: {} as FieldErrors, notice: "Saved the dewatering settings; shifts and tickets logged from now on use them." } satisfies ActionResult;
     }
@@ -158,11 +163,12 @@ export default function DewateringShifts({ loaderData, actionData }: Route.Compo
       {loaderData.canConfigure ? (
         <section aria-labelledby="dewatering-settings" className="rounded border border-line bg-panel p-4">
           <h2 id="dewatering-settings" className="font-semibold">Dewatering settings</h2>
-          <p className="mt-1 text-sm text-muted">The solids' specific gravity (2.65 is mineral sand; organic muck is far lighter: take it from the project's lab samples) and the cake solids a haul ticket without its own sample is counted at.</p>
+          <p className="mt-1 text-sm text-muted">The solids' specific gravity (2.65 is mineral sand; organic muck is far lighter: take it from the project's lab samples), the cake solids a haul ticket without its own sample is counted at, and the share of a tube's capacity at which the register flags it (from the supplier's sheet or the site plan).</p>
           <ActionMessages notice={actionData?.intent === "settings" ? actionData.notice : null} />
-          <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-3 sm:items-end">
+          <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-4 sm:items-end">
             <FieldInput label="Solids specific gravity" name="solidsSpecificGravity" inputMode="decimal" defaultValue={settings.solidsSpecificGravity} error={settingsErrors.solidsSpecificGravity} />
             <FieldInput label="Default cake solids (%)" name="cakeSolidsPercent" inputMode="decimal" defaultValue={settings.cakeSolidsByWeight === null ? "" : formatFigure(settings.cakeSolidsByWeight * 100, 2)} error={settingsErrors.cakeSolidsPercent} hint="blank: every ticket gives its own" />
+            <FieldInput label="Flag tubes near capacity at (%)" name="nearCapacityPercent" inputMode="decimal" defaultValue={formatFigure(settings.tubeNearCapacityShare * 100, 1)} error={settingsErrors.nearCapacityPercent} hint="of the capacity on the supplier's sheet" />
             <SubmitButton pendingLabel="Saving…" intent="settings" tone="plain">Save settings</SubmitButton>
           </Form>
         </section>

@@ -34,11 +34,16 @@ export async function action({ request, params }: Route.ActionArgs) {
   const refused = (errors: FieldErrors) => data({ intent, errors, notice: null } satisfies ActionResult, { status: 400 });
   try {
     if (intent === "register") {
+      const placed = text(form.get("positionX")) !== "" || text(form.get("positionY")) !== "";
+      const bearing = text(form.get("bearingDegrees"));
       const parsed = tubeInputSchema.safeParse({
         name: text(form.get("name")), circumference: numberOr(form.get("circumference")), length: numberOr(form.get("length")),
         capacityDryMassPerLength: numberOr(form.get("capacityDryMassPerLength")), notes: text(form.get("notes")),
+        position: placed ? { x: numberOr(form.get("positionX")), y: numberOr(form.get("positionY")) } : null,
+        bearingDegrees: bearing === "" ? null : Number(bearing),
       });
-      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), (field) => field));
+      const inputOf = (field: string) => (field === "position.x" ? "positionX" : field === "position.y" || field === "position" ? "positionY" : field);
+      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), inputOf));
       const tube = await registerTube(project, user, parsed.data, clientAddress(request));
       return { intent, errors: {} as FieldErrors, notice: `Registered tube ${tube.name}.` } satisfies ActionResult;
     }
@@ -82,7 +87,7 @@ export default function DewateringTubes({ loaderData, actionData }: Route.Compon
         <h2 id="tube-register" className="font-semibold">Tube register</h2>
         <p className="text-sm text-muted">
           Fill level = dry solids delivered ÷ (capacity per {register.lengthLabel} × length). A tube at {Math.round(register.nearCapacityShare * 100)} % or more is flagged: stop at the supplier's fill height.
-          Theoretical diameter = circumference ÷ π, for reference (a filled tube stands lower).
+          Theoretical diameter = circumference ÷ π, for reference (a filled tube stands lower). Tubes placed on the laydown area are drawn on the project's map until hauled.
         </p>
         {register.tubes.length === 0 ? <p className="text-sm text-muted">No tubes registered yet.</p> : (
           <div className="overflow-x-auto">
@@ -96,7 +101,7 @@ export default function DewateringTubes({ loaderData, actionData }: Route.Compon
               <tbody>
                 {register.tubes.map((tube) => (
                   <tr key={tube.id} className="border-b border-line align-top" data-testid={`tube-${tube.name}`}>
-                    <td className="py-1 pr-2 font-medium">{tube.name}</td>
+                    <td className="py-1 pr-2"><span className="font-medium">{tube.name}</span>{tube.position ? <span className="block text-xs text-muted">on the map</span> : null}</td>
                     <td className="pr-2 whitespace-nowrap">{formatFigure(tube.circumference, 1)} × {formatFigure(tube.length, 0)}</td>
                     <td className="pr-2 whitespace-nowrap">{formatFigure(tube.theoreticalDiameter, 2)} {register.lengthLabel}</td>
                     <td className="pr-2">{formatFigure(tube.capacity, 1)}</td>
@@ -136,7 +141,16 @@ export default function DewateringTubes({ loaderData, actionData }: Route.Compon
                 <FieldInput label={`Length (${register.lengthLabel})`} name="length" inputMode="decimal" required error={errorsFor("register").length} />
               </div>
               <FieldInput label={`Capacity (dry ${register.massLabel} per ${register.lengthLabel})`} name="capacityDryMassPerLength" inputMode="decimal" required error={errorsFor("register").capacityDryMassPerLength} hint="from the supplier's sheet" />
-              <FieldInput label="Notes (position in the laydown area)" name="notes" error={errorsFor("register").notes} />
+              <fieldset className="rounded border border-line p-3">
+                <legend className="px-1 text-sm font-medium">Where it lies on the laydown area</legend>
+                <p className="text-xs text-muted">Its centre in the project's coordinates ({register.crs}, {register.lengthLabel}) and which way it runs; the map then draws it. Left blank, the tube is listed but not drawn.</p>
+                <div className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-3">
+                  <FieldInput label="Easting" name="positionX" inputMode="decimal" error={errorsFor("register").positionX} />
+                  <FieldInput label="Northing" name="positionY" inputMode="decimal" error={errorsFor("register").positionY} />
+                  <FieldInput label="Bearing (°)" name="bearingDegrees" inputMode="decimal" error={errorsFor("register").bearingDegrees} hint="from grid north" />
+                </div>
+              </fieldset>
+              <FieldInput label="Notes" name="notes" error={errorsFor("register").notes} />
               <SubmitButton pendingLabel="Registering…" intent="register" className="w-full py-3 sm:w-auto">Register the tube</SubmitButton>
             </Form>
           </section>

@@ -14,7 +14,8 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { fieldErrorsFrom } from "~/lib/http/form";
 import { urlIdSchema } from "~/lib/http/url-id";
 import { PHOTO_MAX_BYTES } from "~/lib/images/photo.server";
-import { discardStagedFile, stageUpload, UploadRefused } from "~/lib/import/stage-upload.server";
+import { discardStagedFile, UploadRefused } from "~/lib/import/stage-upload.server";
+import { stagePhotoUpload } from "~/lib/images/stored-photo.server";
 import { addFindPhoto, custodyInputSchema, getFind, recordCustody, setFindStatus, statusInputSchema } from "~/models/finds.server";
 import type { Route } from "./+types/projects.$projectId.finds.$findId";
 import { readPageForm } from "~/lib/http/body.server";
@@ -65,7 +66,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     if ((request.headers.get("Content-Type") ?? "").startsWith("multipart/form-data")) {
       let staged;
       try {
-        staged = await stageUpload(request, { maxBytes: PHOTO_MAX_BYTES, advice: "Send the photo at a smaller size (a phone's normal setting is well under it)." });
+        staged = await stagePhotoUpload(request);
       } catch (error) {
         if (error instanceof UploadRefused) return refused({ file: error.message }, "photo");
         throw error;

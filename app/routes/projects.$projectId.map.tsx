@@ -13,7 +13,7 @@ import { MapLegend, type LegendSection } from "~/components/map/legend";
 import { MapKeysHelp } from "~/components/map/map-keys";
 import { MapPanel } from "~/components/map/map-panel";
 import { NorthArrow } from "~/components/map/north-arrow";
-import { MARK_STYLES, MARK_SWATCHES, bandLegend, legendFor, type BandBounds, type MapView } from "~/components/map/paint";
+import { MARK_STYLES, MARK_SWATCHES, TUBE_COLOURS, bandLegend, legendFor, type BandBounds, type MapView } from "~/components/map/paint";
 import { MapSettings } from "~/components/map/map-settings";
 import { LAYER_KEYS, mapViewSearch, parseMapView, type LayerKey } from "~/components/map/view-url";
 import { can } from "~/lib/auth/permissions";
@@ -29,6 +29,7 @@ import { findProject } from "~/lib/auth/project-view.server";
 import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
 import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline.server";
 import { currentStoppages, workStoppedMessage } from "~/models/stoppages.server";
+import { listTubes } from "~/models/dewatering.server";
 import type { Route } from "./+types/projects.$projectId.map";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -36,9 +37,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = access;
   // Held cells for those who read finds (outreach sees nothing of finds): "held", no details.
   const canReadFinds = can(access, "finds.read");
-  const [teams, shoreline, row, surveys, stoppages, heldCells] = await Promise.all([
+  const [teams, shoreline, row, surveys, stoppages, heldCells, register] = await Promise.all([
     listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project), currentStoppages(project), canReadFinds ? heldCellLabels(project.id) : Promise.resolve([]),
+    listTubes(project),
   ]);
+  // The tubes the style draws (placed on the laydown area, not yet hauled), for the legend.
+  const drawnTubes = register.tubes.filter((tube) => tube.position !== null && tube.status !== "hauled");
   return {
     projectId: project.id,
     hasWorkLimit: project.hasWorkLimit,
@@ -56,6 +60,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     // Lon/lat, as stored: the browser clips the cells along it.
     workLimit: row?.workLimitGeoJson ? (JSON.parse(row.workLimitGeoJson) as LonLatWorkLimit) : null,
     heldCells,
+    tubes: { count: drawnTubes.length, nearCapacity: drawnTubes.filter((tube) => tube.nearCapacity).length, nearCapacityShare: register.nearCapacityShare },
     // The view sent in the address (centre, zoom, layers, zone, cells): the page opens on it.
     initialView: parseMapView(new URL(request.url).searchParams),
     teams: teams.map((team) => ({ id: team.id, name: team.name, hoses: team.hoses, size: team.members.length, belowMinimum: team.belowMinimum })),
@@ -422,8 +427,19 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
       ];
       sections.push({ title: "Marked cells", entries: marks });
     }
+    const tubes = loaderData.tubes;
+    if (tubes.count > 0) {
+      sections.push({
+        title: "Geotextile tubes",
+        note: "On the laydown area, to scale; hauled tubes are not drawn.",
+        entries: [
+          { colour: TUBE_COLOURS.normal, label: `Tube (${tubes.count - tubes.nearCapacity})` },
+          { colour: TUBE_COLOURS.nearCapacity, label: `Near capacity, at ${Math.round(tubes.nearCapacityShare * 100)} % or more (${tubes.nearCapacity})` },
+        ],
+      });
+    }
     return sections;
-  }, [layers.bands, layers.cells, bands, bandSurface, data, loadError, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
+  }, [loaderData.tubes, layers.bands, layers.cells, bands, bandSurface, data, loadError, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
 
   if (!loaderData.hasWorkLimit) {
     return <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">Set the project's work limit to see it on the map.</p>;

@@ -20,6 +20,10 @@ export class GeotextileTube extends Model<InferAttributes<GeotextileTube>, Infer
   declare capacityDryMassPerLength: number;
   declare status: TubeStatus;
   declare notes: string;
+  /** The tube's centre on the laydown area, project CRS and length unit; its bearing in degrees clockwise from grid north. */
+  declare positionX: CreationOptional<number | null>;
+  declare positionY: CreationOptional<number | null>;
+  declare bearingDegrees: CreationOptional<number | null>;
   declare createdById: ForeignKey<User["id"]> | null;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -36,6 +40,9 @@ export function initGeotextileTube(sequelize: Sequelize) {
       capacityDryMassPerLength: { type: DataTypes.DOUBLE, allowNull: false },
       status: { type: DataTypes.ENUM(...TUBE_STATUSES), allowNull: false },
       notes: { type: DataTypes.TEXT, allowNull: false },
+      positionX: { type: DataTypes.DOUBLE, allowNull: true },
+      positionY: { type: DataTypes.DOUBLE, allowNull: true },
+      bearingDegrees: { type: DataTypes.DOUBLE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
+import type { HaulPhoto } from "./haul-photo";
 import type { HaulSite } from "./haul-site";
 import type { Project } from "./project";
 import type { User } from "./user";
@@ -27,6 +28,7 @@ export class Haul extends Model<InferAttributes<Haul>, InferCreationAttributes<H
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare site?: NonAttribute<HaulSite>;
+  declare photos?: NonAttribute<HaulPhoto[]>;
 }
 
 export function initHaul(sequelize: Sequelize) {

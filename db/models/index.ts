@@ -43,6 +43,8 @@ import { WildlifeSighting, initWildlifeSighting } from "./wildlife-sighting";
 import { Find, initFind } from "./find";
 import { FindCustody, initFindCustody } from "./find-custody";
 import { FindPhoto, initFindPhoto } from "./find-photo";
+import { JarTest, JarTestPhoto, initJarTest, initJarTestPhoto } from "./jar-test";
+import { HaulPhoto, initHaulPhoto } from "./haul-photo";
 import { FindSequence, initFindSequence } from "./find-sequence";
 import { Hold, initHold } from "./hold";
 import { HoldCell, initHoldCell } from "./hold-cell";
@@ -73,7 +75,9 @@ export { HAUL_SITE_KINDS } from "./haul-site";
 export { WaterQualitySettings, TurbidityRuleRecord, MonitoringStation, WaterQualityReading, StopWorkEvent, WildlifeStandDown, WildlifeSighting };
 export type { DiveTeamMember } from "./dive-team";
 export { Find, FindCustody, FindPhoto, FindSequence, Hold, HoldCell, HoldNotice };
-export { photoExifSchema, type PhotoExif } from "./find-photo";
+export { photoExifSchema, type PhotoExif, type StoredPhotoAttributes } from "./photo-columns";
+export { HaulPhoto, JarTest, JarTestPhoto };
+export { storedJarSchema, type StoredJar } from "./jar-test";
 
 let initialised: Sequelize | undefined;
 
@@ -131,6 +135,9 @@ export function initModels(): Sequelize {
   initHold(sequelize);
   initHoldCell(sequelize);
   initHoldNotice(sequelize);
+  initJarTest(sequelize);
+  initJarTestPhoto(sequelize);
+  initHaulPhoto(sequelize);
 
   // Associations, all in one place, with explicit foreign keys.
   Project.hasMany(Zone, { foreignKey: "projectId", as: "zones" });
@@ -226,6 +233,17 @@ export function initModels(): Sequelize {
   HaulSite.hasMany(Haul, { foreignKey: "siteId", as: "hauls" });
   Haul.belongsTo(HaulSite, { foreignKey: "siteId", as: "site" });
   Haul.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  Haul.hasMany(HaulPhoto, { foreignKey: "haulId", as: "photos" });
+  HaulPhoto.belongsTo(Haul, { foreignKey: "haulId", as: "haul" });
+  HaulPhoto.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  HaulPhoto.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
+  Project.hasMany(JarTest, { foreignKey: "projectId", as: "jarTests" });
+  JarTest.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  JarTest.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  JarTest.hasMany(JarTestPhoto, { foreignKey: "jarTestId", as: "photos" });
+  JarTestPhoto.belongsTo(JarTest, { foreignKey: "jarTestId", as: "jarTest" });
+  JarTestPhoto.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  JarTestPhoto.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
   Project.hasMany(SedimentSample, { foreignKey: "projectId", as: "sedimentSamples" });
   SedimentSample.belongsTo(Project, { foreignKey: "projectId", as: "project" });
   SedimentSample.belongsTo(Zone, { foreignKey: "zoneId", as: "zone" });

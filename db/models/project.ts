@@ -49,6 +49,8 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   declare solidsSpecificGravity: CreationOptional<number>;
   /** Cake solids by weight (0–1) a haul ticket without its own sample is counted at; null: every ticket gives its own. */
   declare cakeSolidsByWeight: CreationOptional<number | null>;
+  /** A tube at or beyond this share of its capacity is flagged near capacity (0.9 until set). */
+  declare tubeNearCapacityShare: CreationOptional<number>;
   /** The finds catalogue's prefix; empty: initials of the slug. */
   declare findCataloguePrefix: CreationOptional<string>;
   /** The stop-work radius around a cultural find, metres (the permit states it in metres), and where it comes from. */
@@ -89,6 +91,7 @@ export function initProject(sequelize: Sequelize) {
       minTeamSize: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 2 },
       solidsSpecificGravity: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 2.65 },
       cakeSolidsByWeight: { type: DataTypes.DOUBLE, allowNull: true },
+      tubeNearCapacityShare: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0.9 },
       findCataloguePrefix: { type: DataTypes.STRING(12), allowNull: false, defaultValue: "" },
       holdRadiusM: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: DEFAULT_HOLD_RADIUS_M },
       holdRadiusSource: { type: DataTypes.STRING(500), allowNull: false, defaultValue: DEFAULT_HOLD_RADIUS_SOURCE },

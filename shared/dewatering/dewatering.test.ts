@@ -5,7 +5,7 @@ import { polymerFeed } from "./polymer-feed";
 import { reconcileSolids } from "./reconciliation";
 import { computeShiftFigures, flowFromTotaliser } from "./shift";
 import { drySolidsRateKgPerH, slurryFromSolidsByWeight, slurryFromSpecificGravity } from "./slurry";
-import { NEAR_CAPACITY_SHARE, fillLevel, isNearCapacity, theoreticalDiameter } from "./tubes";
+import { NEAR_CAPACITY_SHARE, fillLevel, isNearCapacity, theoreticalDiameter, tubeEnds } from "./tubes";
 
 // Checks of the dewatering arithmetic against values from outside Firmsand; the source is named
 // beside each (shared/REFERENCES.md of the workplace, "Water, dewatering, pipeline" and "Added for
@@ -174,6 +174,27 @@ describe("geotextile tubes", () => {
     expect(fillLevel(25, 0.5, 100)).toBeCloseTo(0.5, 12);
     expect(isNearCapacity(fillLevel(45, 0.5, 100))).toBe(true);
     expect(isNearCapacity(NEAR_CAPACITY_SHARE - 0.01)).toBe(false);
+  });
+
+  it("lies along its bearing: 150 ft north–south at 0°, east–west at 90°, its ends 150 ft apart at any bearing", () => {
+    // computed: plane geometry, bearings clockwise from grid north
+    const [south, north] = tubeEnds({ x: 1000, y: 2000 }, 150, 0);
+    expect(south[0]).toBeCloseTo(1000, 9);
+    expect([south[1], north[1]]).toEqual([1925, 2075]);
+    const [west, east] = tubeEnds({ x: 1000, y: 2000 }, 150, 90);
+    expect([west[0], east[0]]).toEqual([925, 1075]);
+    expect(west[1]).toBeCloseTo(2000, 9);
+    const [a, b] = tubeEnds({ x: 0, y: 0 }, 150, 37);
+    expect(Math.hypot(b[0] - a[0], b[1] - a[1])).toBeCloseTo(150, 9);
+    expect(Math.atan2(b[0] - a[0], b[1] - a[1]) * (180 / Math.PI)).toBeCloseTo(37, 9);
+  });
+
+  it("flags at the project's own share when the manager set one", () => {
+    // computed: 46 of 50 dry tons is 92 %: flagged at the default 90 %, not at a supplier's 95 %
+    const level = fillLevel(46, 0.5, 100);
+    expect(isNearCapacity(level)).toBe(true);
+    expect(isNearCapacity(level, 0.95)).toBe(false);
+    expect(isNearCapacity(0.95, 0.95)).toBe(true);
   });
 });
 

@@ -49,6 +49,7 @@ const PAGES: PageRow[] = [
   { route: "projects/:projectId/days/:date", url: (ids) => `/projects/${ids.project}/days/${PLAN_DATE}`, as: "dive-supervisor" },
   { route: "projects/:projectId/dewatering", url: (ids) => `/projects/${ids.project}/dewatering`, as: "dewatering" },
   { route: "projects/:projectId/dewatering/hauls", url: (ids) => `/projects/${ids.project}/dewatering/hauls`, as: "dewatering" },
+  { route: "projects/:projectId/dewatering/jar-tests", url: (ids) => `/projects/${ids.project}/dewatering/jar-tests`, as: "dewatering" },
   { route: "projects/:projectId/dewatering/samples", url: (ids) => `/projects/${ids.project}/dewatering/samples`, as: "resource-monitor" },
   { route: "projects/:projectId/dewatering/tubes", url: (ids) => `/projects/${ids.project}/dewatering/tubes`, as: "dewatering" },
   { route: "projects/:projectId/finds", url: (ids) => `/projects/${ids.project}/finds`, as: "resource-monitor" },

@@ -1,4 +1,5 @@
 import { request as playwrightRequest } from "@playwright/test";
+import sharp from "sharp";
 import { demoProjectId, expect, test } from "./fixtures";
 
 // The Dewatering section on the seeded demo: the operator logs a shift on a phone and sees the
@@ -37,6 +38,41 @@ test("the dewatering operator logs a shift on a phone and sees the feed rate as 
   await expect(page.getByRole("cell", { name: "2026-11-19" })).toBeVisible();
 });
 
+test("the dewatering operator records a jar test with a photo of the jars on a phone", async ({ page, signIn }) => {
+  await page.setViewportSize({ width: 390, height: 844 });
+  await signIn("dewatering");
+  await page.goto(`/projects/${projectId}/dewatering/jar-tests`);
+  await expect(page.getByTestId("dewatering-caution")).toContainText("safety data sheet and the site's safety plan");
+  const form = page.getByRole("form", { name: "Record a jar test" });
+  const date = "2026-11-20";
+  await form.getByLabel("Date").fill(date);
+  await form.getByLabel("Product").fill(`CE-412 ${run}`);
+  await form.getByLabel("Raw sample turbidity (NTU)").fill("400");
+  // The bench stock starts at 0.1 % and the jars at 1,000 mL.
+  const jars = [["2", "60", "hazy"], ["4", "12", "clear"], ["6", "12", "clear"]];
+  for (const [index, [dose, ntu, clarity]] of jars.entries()) {
+    const jar = form.getByTestId(`jar-${index + 1}`);
+    await jar.getByLabel("Dose (mg/L)").fill(dose);
+    await jar.getByLabel("NTU").fill(ntu);
+    await jar.getByLabel("Clarity").selectOption(clarity);
+  }
+  // published: 1 mL of a 0.1 % stock in a 1-litre jar is 1 mg/L, so 4 mg/L takes 4 mL; computed: (400 − 12) ÷ 400 = 97 %
+  await expect(form.getByTestId("jar-2-stock")).toHaveText("add 4 mL of stock · 97 % of the raw turbidity removed");
+  await expect(form.getByTestId("clearest-dose")).toContainText("4 mg/L");
+  await form.getByRole("button", { name: "Use it" }).click();
+  await expect(form.getByLabel("Dose chosen (mg/L)")).toHaveValue("4");
+  const photo = await sharp({ create: { width: 800, height: 600, channels: 3, background: "#9b8f6a" } }).jpeg().toBuffer();
+  await form.getByLabel("Photo of the jars").setInputFiles({ name: "jars.jpg", mimeType: "image/jpeg", buffer: photo });
+  expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+  await form.getByRole("button", { name: "Record the jar test" }).click();
+  await expect(page.getByRole("status")).toContainText(`Recorded the jar test of ${date}: 3 dosed jars, dose chosen 4 mg/L, with its photo.`);
+  const card = page.getByRole("article").filter({ hasText: `CE-412 ${run}` });
+  await expect(card.getByText("Dose chosen: 4 mg/L")).toBeVisible();
+  const thumbnail = card.getByRole("img", { name: /jars\.jpg/ });
+  await expect(thumbnail).toBeVisible();
+  await expect.poll(() => thumbnail.evaluate((image: HTMLImageElement) => image.naturalWidth)).toBe(320);
+});
+
 test("the dewatering operator registers a tube, records a fill, and enters a haul ticket", async ({ page, signIn }) => {
   await signIn("dewatering");
   await page.goto(`/projects/${projectId}/dewatering/tubes`);
@@ -64,9 +100,15 @@ test("the dewatering operator registers a tube, records a fill, and enters a hau
   await ticket.getByLabel("Truck").fill("Truck 9");
   await ticket.getByLabel("Load", { exact: true }).fill("20");
   await ticket.getByLabel("Cake solids (%)").fill("25");
+  const scan = await sharp({ create: { width: 600, height: 900, channels: 3, background: "#f2efe6" } }).jpeg().toBuffer();
+  await ticket.getByLabel("Photo of the ticket").setInputFiles({ name: `ticket-${run}.jpg`, mimeType: "image/jpeg", buffer: scan });
   await ticket.getByRole("button", { name: "Record the ticket" }).click();
   // computed: 20 wet short tons × 25 %
-  await expect(page.getByRole("status")).toContainText(`Recorded ticket T${run}: 5 dry short tons`);
+  await expect(page.getByRole("status")).toContainText(`Recorded ticket T${run}: 5 dry short tons, with its photo.`);
+  const shown = page.getByTestId(`ticket-photos-T${run}`).getByRole("img", { name: `Ticket T${run}: ticket-${run}.jpg` });
+  await expect(shown).toBeVisible();
+  // The thumbnail (loaded lazily): 320 px on its longer side.
+  await expect.poll(() => shown.evaluate((image: HTMLImageElement) => image.naturalHeight)).toBe(320);
 });
 
 test("the manager sees the reconciliation panel with the nutrients removed on the overview", async ({ page, signIn }) => {
@@ -89,6 +131,9 @@ test("a viewer reads the dewatering records and cannot write them", async ({ pag
   await page.goto(`/projects/${projectId}/dewatering/tubes`);
   await expect(page.getByRole("heading", { name: "Tube register" })).toBeVisible();
   await expect(page.getByRole("button", { name: "Register the tube" })).toHaveCount(0);
+  await page.goto(`/projects/${projectId}/dewatering/jar-tests`);
+  await expect(page.getByRole("heading", { name: "Jar tests", exact: true })).toBeVisible();
+  await expect(page.getByRole("form", { name: "Record a jar test" })).toHaveCount(0);
   const refused = await page.request.post(`/api/projects/${projectId}/dewatering/shifts`, { data: { date: "2026-11-19" }, headers: { Origin: new URL(page.url()).origin } });
   expect(refused.status()).toBe(403);
 });

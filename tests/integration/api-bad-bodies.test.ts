@@ -6,7 +6,7 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Invitation, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulSite, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
+import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Invitation, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, HaulSite, JarTest, JarTestPhoto, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
 import { listObjectKeys } from "~/lib/storage/storage.server";
 import { logFind } from "~/models/finds.server";
 import { getCellsPayload } from "~/models/cells.server";
@@ -52,6 +52,8 @@ let tubeId: number;
 let stopWorkId: number;
 let findId: number;
 let holdId: number;
+let jarTestId: number;
+let haulId: number;
 const projectParams = () => ({ projectId: String(site.project.id) });
 const base = () => `/api/projects/${site.project.id}`;
 
@@ -62,7 +64,7 @@ const base = () => `/api/projects/${site.project.id}`;
 // staging directory; projects → Project, Zone, Membership, AuditEvent; a project's settings →
 // Project, Zone, CellResult, SurveySnapshot, AuditEvent; an account (the site admin) → User,
 // SignInSession, AuditEvent; dewatering shifts, tubes and fills → DewateringShift, GeotextileTube,
-// TubeFill, AuditEvent; a tube's status → GeotextileTube, AuditEvent; hauls → Haul, AuditEvent; haul sites → HaulSite, AuditEvent; members → Membership, Invitation, OutgoingMail, AuditEvent; sediment samples → SedimentSample, AuditEvent;
+// TubeFill, AuditEvent; a tube's status → GeotextileTube, AuditEvent; jar tests → JarTest, AuditEvent; a jar test's or a haul ticket's photos → JarTestPhoto, HaulPhoto, the object store and the staging directory; hauls → Haul, AuditEvent; haul sites → HaulSite, AuditEvent; members → Membership, Invitation, OutgoingMail, AuditEvent; sediment samples → SedimentSample, AuditEvent;
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
 // TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
@@ -74,6 +76,8 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
   { route: "api/projects/:projectId", method: "PATCH", url: () => base(), params: projectParams },
   { route: "api/projects/:projectId/assignments", method: "POST", url: () => `${base()}/assignments`, params: projectParams },
+  { route: "api/projects/:projectId/dewatering/jar-tests", method: "POST", url: () => `${base()}/dewatering/jar-tests`, params: projectParams },
+  { route: "api/projects/:projectId/dewatering/jar-tests/:jarTestId/photos", method: "POST", url: () => `${base()}/dewatering/jar-tests/${jarTestId}/photos`, params: () => ({ ...projectParams(), jarTestId: String(jarTestId) }) },
   { route: "api/projects/:projectId/dewatering/shifts", method: "POST", url: () => `${base()}/dewatering/shifts`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/tubes", method: "POST", url: () => `${base()}/dewatering/tubes`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/tubes/:tubeId", method: "PATCH", url: () => `${base()}/dewatering/tubes/${tubeId}`, params: () => ({ ...projectParams(), tubeId: String(tubeId) }) },
@@ -84,6 +88,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/haul-sites", method: "POST", url: () => `${base()}/haul-sites`, params: projectParams },
   { route: "api/projects/:projectId/members", method: "POST", url: () => `${base()}/members`, params: projectParams },
   { route: "api/projects/:projectId/hauls", method: "POST", url: () => `${base()}/hauls`, params: projectParams },
+  { route: "api/projects/:projectId/hauls/:haulId/photos", method: "POST", url: () => `${base()}/hauls/${haulId}/photos`, params: () => ({ ...projectParams(), haulId: String(haulId) }) },
   { route: "api/projects/:projectId/sediment-samples", method: "POST", url: () => `${base()}/sediment-samples`, params: projectParams },
   { route: "api/projects/:projectId/finds", method: "POST", url: () => `${base()}/finds`, params: projectParams },
   { route: "api/projects/:projectId/finds/:findId", method: "PATCH", url: () => `${base()}/finds/${findId}`, params: () => ({ ...projectParams(), findId: String(findId) }) },
@@ -120,6 +125,8 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/days/:date", method: "POST", url: () => `${base()}/days/2030-01-02`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/finds.csv", method: "POST", url: () => `${base()}/finds.csv`, params: projectParams },
   { route: "api/projects/:projectId/finds/:findId", method: "POST", url: () => `${base()}/finds/${findId}`, params: () => ({ ...projectParams(), findId: String(findId) }) },
+  { route: "api/projects/:projectId/dewatering/jar-tests/:jarTestId/photos/:photoId", method: "POST", url: () => `${base()}/dewatering/jar-tests/${jarTestId}/photos/1`, params: () => ({ ...projectParams(), jarTestId: String(jarTestId), photoId: "1" }) },
+  { route: "api/projects/:projectId/hauls/:haulId/photos/:photoId", method: "POST", url: () => `${base()}/hauls/${haulId}/photos/1`, params: () => ({ ...projectParams(), haulId: String(haulId), photoId: "1" }) },
   { route: "api/projects/:projectId/finds/:findId/photos/:photoId", method: "POST", url: () => `${base()}/finds/${findId}/photos/1`, params: () => ({ ...projectParams(), findId: String(findId), photoId: "1" }) },
   { route: "api/projects/:projectId/holds", method: "POST", url: () => `${base()}/holds`, params: projectParams },
   { route: "api/projects/:projectId/progress", method: "POST", url: () => `${base()}/progress`, params: projectParams },
@@ -238,6 +245,9 @@ async function snapshot() {
     stagedFiles: readdirSync(stagingDirectory(), { withFileTypes: true }).length,
     finds: JSON.stringify(await Find.findAll({ where: { projectId }, raw: true, order: [["id", "ASC"]] })),
     findPhotos: await FindPhoto.count({ where: { projectId } }),
+    jarTests: await JarTest.count({ where: { projectId } }),
+    jarTestPhotos: await JarTestPhoto.count({ where: { projectId } }),
+    haulPhotos: await HaulPhoto.count({ where: { projectId } }),
     findCustody: await FindCustody.count({ where: { projectId } }),
     holds: JSON.stringify(await Hold.findAll({ where: { projectId }, raw: true })),
     holdCells: await HoldCell.count({ where: { projectId } }),
@@ -254,7 +264,15 @@ beforeAll(async () => {
   // So that POST /api/projects reads the bodies rather than refusing the caller.
   await User.update({ mayCreateProjects: true }, { where: { id: site.users.manager } });
   tubeId = (await GeotextileTube.create({ projectId: site.project.id, name: "T-1", circumference: 30, length: 100, capacityDryMassPerLength: 5, status: "filling", notes: "" })).id;
-  await HaulSite.create({ projectId: site.project.id, name: "Tallgrass Farm", kind: "reuse", permitNumber: "AG-1" });
+  const haulSite = await HaulSite.create({ projectId: site.project.id, name: "Tallgrass Farm", kind: "reuse", permitNumber: "AG-1" });
+  haulId = (await Haul.create({
+    projectId: site.project.id, haulDate: "2026-09-10", ticketNumber: "BB-1", truck: "Truck 1", siteId: haulSite.id, loadWetMass: 20, loadVolume: null,
+    cakeSolidsByWeight: 0.3, cakeSolidsFromSample: true, solidsSpecificGravity: 2.65, drySolidsKg: 5443, notes: "", idempotencyKey: null, recordedById: null,
+  })).id;
+  jarTestId = (await JarTest.create({
+    projectId: site.project.id, testDate: "2026-09-10", testTime: null, sampleSource: "", polymerProduct: "CE-412", polymerLot: null, benchStockPercent: 0.1, jarVolumeMl: 1000,
+    rawTurbidityNtu: null, jars: [{ doseMgPerL: 4, settlingMinutes: 10, turbidityNtu: null, clarity: "clear" }], chosenDoseMgPerL: 4, notes: "", idempotencyKey: null, recordedById: null,
+  })).id;
   await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] });
   const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
   const stored = await postSurvey(site.project.id, site.tokens.manager, { path: join(DEMO_DIR, baseline.fileName) }, {

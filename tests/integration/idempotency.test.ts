@@ -5,7 +5,7 @@ import { closeSequelize } from "../../db/connection.server";
 import { GRID, WORK_LIMIT } from "../../sample-data/scenario";
 import { cellLabel, type CellGrid } from "../../shared/grid/cell-grid";
 import {
-  DewateringShift, Dive, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, IdempotencyKey, Project, SedimentSample, TubeFill, WaterQualityReading, WildlifeSighting, Zone,
+  DewateringShift, Dive, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, IdempotencyKey, JarTest, JarTestPhoto, Project, SedimentSample, TubeFill, WaterQualityReading, WildlifeSighting, Zone,
 } from "~/lib/db.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { purgeIdempotencyKeys } from "~/lib/api/idempotency.server";
@@ -18,6 +18,9 @@ import { action as tubesAction } from "~/routes/api.projects.$projectId.dewateri
 import { action as tubeAction, loader as tubeLoader } from "~/routes/api.projects.$projectId.dewatering.tubes.$tubeId";
 import { action as fillsAction } from "~/routes/api.projects.$projectId.dewatering.tubes.$tubeId.fills";
 import { action as haulsAction } from "~/routes/api.projects.$projectId.hauls";
+import { action as haulPhotosAction } from "~/routes/api.projects.$projectId.hauls.$haulId.photos";
+import { action as jarTestsAction } from "~/routes/api.projects.$projectId.dewatering.jar-tests";
+import { action as jarPhotosAction } from "~/routes/api.projects.$projectId.dewatering.jar-tests.$jarTestId.photos";
 import { action as readingsAction } from "~/routes/api.projects.$projectId.water-quality.readings";
 import { action as stationsAction } from "~/routes/api.projects.$projectId.water-quality.stations";
 import { action as sightingsAction } from "~/routes/api.projects.$projectId.wildlife.sightings";
@@ -45,6 +48,8 @@ const users = new Map<Who, number>();
 let cell = "";
 let tubeId = 0;
 let findId = 0;
+let haulId = 0;
+let jarTestId = 0;
 let serial = 0;
 const DATE = "2026-11-20";
 const base = () => `/api/projects/${projectId}`;
@@ -56,7 +61,7 @@ async function send(handler: Handler, who: Who, path: string, params: Record<str
 const sendJson = (handler: Handler, who: Who, path: string, params: Record<string, string>, body: unknown, key?: string) =>
   send(handler, who, path, params, JSON.stringify(body), { "Content-Type": "application/json", ...(key === undefined ? {} : { "Idempotency-Key": key }) });
 
-/** A small JPEG of one colour: a different colour is a different photo. */
+/** A small JPEG of one colour: a different colour is a different photo (colours far enough apart that the JPEG bytes differ too). */
 const jpeg = (colour: string) => sharp({ create: { width: 64, height: 48, channels: 3, background: colour } }).jpeg().toBuffer();
 
 interface FieldApi {
@@ -73,6 +78,17 @@ const json = (name: string, handler: Handler, path: () => string, params: () => 
   count: () => model.count({ where: { projectId } }),
 });
 
+/** A photo upload: a different colour is a different entry. */
+const photo = (name: string, handler: Handler, path: () => string, params: () => Record<string, string>, model: { count(options: unknown): Promise<number> }): FieldApi => ({
+  name,
+  async post(who, key, variant) {
+    const form = new FormData();
+    form.set("file", new Blob([new Uint8Array(await jpeg(`#${((0x102030 + variant * 0x0b1713) & 0xffffff).toString(16).padStart(6, "0")}`))], { type: "image/jpeg" }), "photo.jpg");
+    return send(handler, who, path(), params(), form, { "Idempotency-Key": key });
+  },
+  count: () => model.count({ where: { projectId } }),
+});
+
 const APIS: FieldApi[] = [
   json("POST dives", divesAction as never, () => `${base()}/dives`, () => ({}), (variant) => ({ date: DATE, team: "Team Heron", diver: "Ana Reyes", bottomMinutes: 30 + variant, maxDepth: 12, cells: [cell] }), Dive),
   json("POST dewatering/shifts", shiftsAction as never, () => `${base()}/dewatering/shifts`, () => ({}), (variant) => ({ date: DATE, start: "07:00", end: "15:00", pumpHours: 8, slurryFlow: { value: 900 + variant, unit: "gpm" }, solidsByWeight: 0.2, solidsSpecificGravity: 2.6 }), DewateringShift),
@@ -84,15 +100,10 @@ const APIS: FieldApi[] = [
   json("POST finds", findsAction as never, () => `${base()}/finds`, () => ({}), (variant) => ({ category: "modern-debris", description: `Aluminium can ${variant}`, foundAt: "2026-11-20T11:00:00-05:00" }), Find),
   json("POST finds/<id>/custody", custodyAction as never, () => `${base()}/finds/${findId}/custody`, () => ({ findId: String(findId) }), (variant) => ({ fromName: "Ana Reyes", toName: `Keeper ${variant}`, place: "Site store", purpose: "to-site-store", handedAt: "2026-11-20T15:00:00-05:00", receiverSignature: `Keeper ${variant}` }), FindCustody),
   json("POST sediment-samples", samplesAction as never, () => `${base()}/sediment-samples`, () => ({}), (variant) => ({ date: DATE, percentSolids: 9, dryBulkDensity: { value: 15, unit: "lb/ft3" }, totalNitrogenMgKg: 12_000, totalPhosphorusMgKg: 800, lab: "Bayline Laboratories", reportNumber: `BL-${variant}` }), SedimentSample),
-  {
-    name: "POST finds/<id>/photos",
-    async post(who, key, variant) {
-      const form = new FormData();
-      form.set("file", new Blob([new Uint8Array(await jpeg(`#${(0x102030 + variant).toString(16)}`))], { type: "image/jpeg" }), "find.jpg");
-      return send(photosAction as never, who, `${base()}/finds/${findId}/photos`, { findId: String(findId) }, form, { "Idempotency-Key": key });
-    },
-    count: () => FindPhoto.count({ where: { projectId } }),
-  },
+  json("POST dewatering/jar-tests", jarTestsAction as never, () => `${base()}/dewatering/jar-tests`, () => ({}), (variant) => ({ date: DATE, polymer: { product: "Cationic emulsion", benchStockPercent: 0.1 }, jars: [{ doseMgPerL: 5 + variant / 100, settlingMinutes: 10, clarity: "clear" }] }), JarTest),
+  photo("POST finds/<id>/photos", photosAction as never, () => `${base()}/finds/${findId}/photos`, () => ({ findId: String(findId) }), FindPhoto),
+  photo("POST hauls/<id>/photos", haulPhotosAction as never, () => `${base()}/hauls/${haulId}/photos`, () => ({ haulId: String(haulId) }), HaulPhoto),
+  photo("POST dewatering/jar-tests/<id>/photos", jarPhotosAction as never, () => `${base()}/dewatering/jar-tests/${jarTestId}/photos`, () => ({ jarTestId: String(jarTestId) }), JarTestPhoto),
 ];
 
 beforeAll(async () => {
@@ -117,6 +128,8 @@ beforeAll(async () => {
   await addHaulSite(presentProject(project), { id: users.get("first")! } as never, { name: "Tallgrass Farm", kind: "reuse", permitNumber: "AG-2026-114" });
   tubeId = (await (await sendJson(tubesAction as never, "first", `${base()}/dewatering/tubes`, {}, { name: "Fill tube", circumference: 30, length: 100, capacityDryMassPerLength: 50 })).json()).tube.id;
   findId = (await (await sendJson(findsAction as never, "first", `${base()}/finds`, {}, { category: "modern-debris", description: "Bottle", foundAt: "2026-11-20T08:00:00-05:00" })).json()).id;
+  haulId = (await (await sendJson(haulsAction as never, "first", `${base()}/hauls`, {}, { date: DATE, ticketNumber: "TK-PHOTO", truck: "Truck 3", site: "Tallgrass Farm", load: { value: 20, unit: "short-ton" }, cakeSolidsByWeight: 0.3 })).json()).haul.id;
+  jarTestId = (await (await sendJson(jarTestsAction as never, "first", `${base()}/dewatering/jar-tests`, {}, { date: DATE, polymer: { product: "Cationic emulsion", benchStockPercent: 0.1 }, jars: [{ doseMgPerL: 4, settlingMinutes: 10, clarity: "hazy" }] })).json()).id;
 });
 
 describe.each(APIS)("$name with an Idempotency-Key", (api) => {

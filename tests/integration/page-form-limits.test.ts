@@ -55,6 +55,8 @@ const ROUTES: PageRoute[] = [
   { route: "projects", url: () => "/projects", params: () => ({}), as: "site-admin", limitBytes: WORK_LIMIT_MAX_BYTES + FIELDS_ALLOWANCE },
   { route: "projects/:projectId/dewatering", url: () => `${base()}/dewatering`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/dewatering/hauls", url: () => `${base()}/dewatering/hauls`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  // Its multipart form (the test and its photo) stages the photo under PHOTO_MAX_BYTES, as the finds' photo form does.
+  { route: "projects/:projectId/dewatering/jar-tests", url: () => `${base()}/dewatering/jar-tests`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/dewatering/samples", url: () => `${base()}/dewatering/samples`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/dewatering/tubes", url: () => `${base()}/dewatering/tubes`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/finds/:findId", url: () => `${base()}/finds/999999`, params: () => ({ ...project(), findId: "999999" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },

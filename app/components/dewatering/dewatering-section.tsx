@@ -1,6 +1,6 @@
 import { NavLink } from "react-router";
 
-/** The Dewatering section's own tabs: shift log, tubes, hauls, samples. */
+/** The Dewatering section's own tabs: shift log, jar tests, tubes, hauls, samples. */
 export function DewateringNav({ projectId }: { projectId: number }) {
   const base = `/projects/${projectId}/dewatering`;
   const linkClass = ({ isActive }: { isActive: boolean }) =>
@@ -8,6 +8,7 @@ export function DewateringNav({ projectId }: { projectId: number }) {
   return (
     <nav aria-label="Dewatering" className="flex flex-wrap gap-1">
       <NavLink end to={base} className={linkClass}>Shift log</NavLink>
+      <NavLink to={`${base}/jar-tests`} className={linkClass}>Jar tests</NavLink>
       <NavLink to={`${base}/tubes`} className={linkClass}>Tubes</NavLink>
       <NavLink to={`${base}/hauls`} className={linkClass}>Hauls</NavLink>
       <NavLink to={`${base}/samples`} className={linkClass}>Sediment samples</NavLink>

@@ -150,3 +150,6 @@ export const MARK_SWATCHES = {
   held: `${MARK_STYLES.held.fill}`,
   selected: "transparent",
 } as const;
+
+/** Geotextile tubes on the laydown area (the style's "tubes" layer and the legend): cake brown, the work limit's red near capacity. */
+export const TUBE_COLOURS = { normal: "#6b5a3a", nearCapacity: "#a3242a" } as const;

@@ -37,7 +37,7 @@ export const PERMISSIONS = {
   /** Assign cells to dive teams, send the day's plan sheet. */
   "plans.assign": ["manager", "dive-supervisor"],
   "dives.log": ["manager", "dive-supervisor"],
-  /** Shift logs, the tube register and its fills, reuse and disposal sites, haul tickets. */
+  /** Shift logs, jar tests and their photos, the tube register and its fills, reuse and disposal sites, haul tickets and their photos. */
   "dewatering.log": ["manager", "dewatering"],
   /** Sediment samples' lab results (dry bulk density, N, P), which turn surveyed volume into mass. */
   "samples.record": ["manager", "resource-monitor"],
