@@ -53,6 +53,7 @@ if (selected.includes("engine")) {
 
 if (selected.includes("engine-files")) {
   log("bench: survey engine from files, beside the reference pipeline");
+  run(process.execPath, ["app/cli/build.mjs"]);
   if ((await runStep(bin("tsx"), ["tests/bench/engine-files.ts", ...passThrough], process.env)) !== 0) failed = true;
 }
 

@@ -21,7 +21,7 @@ const option = (name: string) => (args.includes(name) ? args[args.indexOf(name) 
 const runs = Number(option("--runs") ?? 5);
 if (!Number.isInteger(runs) || runs < 1) throw new Error("--runs needs a whole number of 1 or more");
 const onlyScenario = option("--scenario");
-const cliChoice = option("--cli") ?? "sources";
+const cliChoice = option("--cli") ?? "built";
 if (!["built", "sources"].includes(cliChoice)) throw new Error("--cli is built or sources");
 
 const builtCli = join(root, "build", "cli", "firmsand.mjs");
