@@ -1,4 +1,6 @@
 import { readFileSync, statSync } from "node:fs";
+import { setFlagsFromString } from "node:v8";
+import { runInNewContext } from "node:vm";
 import { z } from "zod";
 import type { ComputationSurvey } from "../lib/engine/engine-surveys";
 import { firmPoints } from "../lib/engine/survey-work";
@@ -217,11 +219,26 @@ async function runVolumes(argv: string[]): Promise<{ result: EngineResult; unit:
   // moment to load); with a work limit each survey is handed over as soon as its file is read, so
   // the baseline is triangulated while the next file is parsed.
   const pool = fileBytes(options.before) + fileBytes(options.after) >= threadedFromBytes ? new EngineWorkerPool(2) : null;
+  // Let the threads collect their garbage between the steps of a large survey (their input columns
+  // once copied, their triangulation once sampled: see engine-worker.thread.ts); the request is
+  // queued ahead of the jobs, so nothing waits for it.
+  pool?.collectGarbage().catch(() => {});
   try {
     return { result: await computeVolumes(options, workLimit, settings, pool), unit };
   } finally {
     await pool?.close();
   }
+}
+
+let fullCollection: (() => void) | null = null;
+
+/** A full garbage collection of this thread (as the engine threads do between large steps). */
+function collectGarbage() {
+  if (fullCollection === null) {
+    setFlagsFromString("--expose-gc");
+    fullCollection = runInNewContext("gc") as () => void;
+  }
+  fullCollection();
 }
 
 function fileBytes(file: string): number {
@@ -254,7 +271,10 @@ async function computeVolumes(options: VolumesOptions, workLimit: ProjectedMulti
   const pending: Array<Promise<SurveyWorkDone>> = [];
   // The threads take the arrays (no copy): this thread reads the soundings no more.
   const handOver = { transferInputs: true };
-  if (pool && workSettings && firm) pending.push(...baselineWork(baseline, firm).map((item) => pool.surveyWork(item, workSettings, handOver)));
+  if (pool && workSettings && firm) {
+    pending.push(...baselineWork(baseline, firm).map((item) => pool.surveyWork(item, workSettings, handOver)));
+    collectGarbage(); // the first file's bytes and columns, before the second file is read
+  }
   // A thread's failure is reported once everything is read (a bad file is the more useful message).
   for (const job of pending) job.catch(() => {});
 
@@ -270,7 +290,10 @@ async function computeVolumes(options: VolumesOptions, workLimit: ProjectedMulti
   if (pool && workLimit && lines && workSettings) {
     if (pending.length === 0) pending.push(...baselineWork(surveys.baseline, surveys.firm).map((item) => pool.surveyWork(item, workSettings, handOver)));
     pending.push(...surveys.progress.map((survey) => pool.surveyWork(progressWork(survey), workSettings, handOver)));
-    return volumesFromSurveyWork(workLimit, settings, lines, pending);
+    // The files' bytes and the parse's leftovers are garbage now: freed before the rasters come back.
+    collectGarbage();
+    // The threads are done once their rasters are back: ended there, their memory is free for the rest.
+    return volumesFromSurveyWork(workLimit, settings, lines, pending, undefined, () => pool.close());
   }
   if (pool) return pool.computeSurveyVolumes(surveys, workLimit, settings, undefined, { transferInputs: true });
   return computeSurveyVolumes(surveys, workLimit, settings);

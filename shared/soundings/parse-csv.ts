@@ -366,88 +366,124 @@ export function createSoundingCsvParser(options: SoundingCsvOptions = {}): Sound
     }
   }
 
-  /** 1 taken, 0 for the text way (nothing changed), −1 the line holds a quote. */
-  function fastLine(bytes: Uint8Array, start: number, end: number): number {
+  /** A line the byte reader does not take: decoded and split as Papa Parse splits an unquoted line. */
+  function slowLine(bytes: Uint8Array, start: number, end: number) {
+    readRecord(cellDecoder.decode(bytes.subarray(start, end)).split(delimiter));
+  }
+
+  /**
+   * Reads the whole lines of `bytes` from `position` (one loop, so it is optimised early even on a
+   * small file). Returns where it stopped: the end of the last whole line, or −1 − the start of a
+   * line holding a quote (from there the text way).
+   */
+  function readLines(bytes: Uint8Array, position: number): number {
     const delimiterCode = delimiter.charCodeAt(0);
     const decimalComma = delimiter !== ",";
     const slots = numberSlot!;
-    fastValues.fill(Number.NaN);
-    let column = 0;
-    let cellStart = start;
-    let timeStart = -1, timeEnd = -1, idStart = -1, idEnd = -1;
-    let position = start;
-    for (;;) {
-      // One cell: [cellStart, position).
-      while (position < end) {
-        const byte = bytes[position];
-        if (byte === delimiterCode) break;
-        if (byte === 34) return -1;
-        position++;
-      }
-      const slot = column < slots.length ? slots[column] : -1;
-      if (slot >= 0) {
-        if (position === cellStart) {
-          if (fastRequired[slot]) return 0;
-        } else {
-          // [+-]digits[.digits] (a comma for the point when the delimiter is not a comma): read
-          // exactly, as Number() would (an integer of at most 15 digits over a power of ten up to
-          // 10^22 are both exact doubles, and one division rounds correctly). Anything else: text way.
-          let cursor = cellStart;
-          let negative = false;
-          const first = bytes[cursor];
-          if (first === 45 || first === 43) {
-            negative = first === 45;
-            cursor++;
-          }
-          let mantissa = 0;
-          let digits = 0;
-          let fraction = 0;
-          let point = false;
-          for (; cursor < position; cursor++) {
-            const byte = bytes[cursor];
-            if (byte >= 48 && byte <= 57) {
-              mantissa = mantissa * 10 + (byte - 48);
-              digits++;
-              if (point) fraction++;
-            } else if (!point && (byte === 46 || (decimalComma && byte === 44))) point = true;
-            else return 0;
-          }
-          if (digits === 0 || digits > 15) return 0;
-          const value = mantissa / POWERS_OF_TEN[fraction];
-          fastValues[slot] = negative ? -value : value;
-        }
-      } else if (column === timeColumn) {
-        timeStart = cellStart;
-        timeEnd = position;
-      } else if (column === idColumn) {
-        idStart = cellStart;
-        idEnd = position;
-      }
-      column++;
-      if (position >= end) break;
-      position++;
-      cellStart = position;
-    }
-    // A row cut short is one problem with its own message: the text way.
     const index = columnIndex!;
     const needed = Math.max(index.easting, index.northing, index.depth >= 0 ? index.depth : index.elevation);
-    if (column <= needed && column < headers!.length) return 0;
-    const [eastingValue, northingValue, depthValue, probeValue, elevationValue] = fastValues;
-    // The row checks of `rowSchema`; a row that fails one goes the text way for its message.
-    if (depthValue < 0 || probeValue < 0 || probeValue < depthValue) return 0;
-    if (fastPresent[2] && fastPresent[4] && Number.isNaN(depthValue) && Number.isNaN(elevationValue)) return 0;
-    recordNumber++;
-    rowCount++;
-    easting.push(eastingValue);
-    northing.push(northingValue);
-    depth.push(depthValue);
-    // A column not in the file is not returned: nothing to keep.
-    if (fastPresent[3]) probe.push(probeValue);
-    if (fastPresent[4]) elevation.push(elevationValue);
-    sourceRows.push(recordNumber);
-    if (timeColumn >= 0) times.push(timeStart < 0 ? "" : cellDecoder.decode(bytes.subarray(timeStart, timeEnd)).trim());
-    if (idColumn >= 0) ids.push(idStart < 0 ? "" : cellDecoder.decode(bytes.subarray(idStart, idEnd)).trim());
-    return 1;
+    const columns = headers!.length;
+    const easy = !fileError;
+    lines: for (;;) {
+      const lineEnd = bytes.indexOf(10, position);
+      if (lineEnd < 0) return position;
+      const start = position;
+      const end = lineEnd > start && bytes[lineEnd - 1] === 13 ? lineEnd - 1 : lineEnd;
+      position = lineEnd + 1;
+      if (!easy) {
+        if (bytes.subarray(start, end).includes(34)) return -1 - start;
+        slowLine(bytes, start, end);
+        continue;
+      }
+      fastValues.fill(Number.NaN);
+      let column = 0;
+      let cellStart = start;
+      let timeStart = -1, timeEnd = -1, idStart = -1, idEnd = -1;
+      let cellEnd = start;
+      for (;;) {
+        // One cell: [cellStart, cellEnd).
+        while (cellEnd < end) {
+          const byte = bytes[cellEnd];
+          if (byte === delimiterCode) break;
+          if (byte === 34) return -1 - start;
+          cellEnd++;
+        }
+        const slot = column < slots.length ? slots[column] : -1;
+        if (slot >= 0) {
+          if (cellEnd === cellStart) {
+            if (fastRequired[slot]) {
+              slowLine(bytes, start, end);
+              continue lines;
+            }
+          } else {
+            // [+-]digits[.digits] (a comma for the point when the delimiter is not a comma): read
+            // exactly, as Number() would (an integer of at most 15 digits over a power of ten up to
+            // 10^22 are both exact doubles, and one division rounds correctly). Anything else: text way.
+            let cursor = cellStart;
+            let negative = false;
+            const first = bytes[cursor];
+            if (first === 45 || first === 43) {
+              negative = first === 45;
+              cursor++;
+            }
+            let mantissa = 0;
+            let digits = 0;
+            let fraction = 0;
+            let point = false;
+            for (; cursor < cellEnd; cursor++) {
+              const byte = bytes[cursor];
+              if (byte >= 48 && byte <= 57) {
+                mantissa = mantissa * 10 + (byte - 48);
+                digits++;
+                if (point) fraction++;
+              } else if (!point && (byte === 46 || (decimalComma && byte === 44))) point = true;
+              else {
+                slowLine(bytes, start, end);
+                continue lines;
+              }
+            }
+            if (digits === 0 || digits > 15) {
+              slowLine(bytes, start, end);
+              continue lines;
+            }
+            const value = mantissa / POWERS_OF_TEN[fraction];
+            fastValues[slot] = negative ? -value : value;
+          }
+        } else if (column === timeColumn) {
+          timeStart = cellStart;
+          timeEnd = cellEnd;
+        } else if (column === idColumn) {
+          idStart = cellStart;
+          idEnd = cellEnd;
+        }
+        column++;
+        if (cellEnd >= end) break;
+        cellEnd++;
+        cellStart = cellEnd;
+      }
+      const eastingValue = fastValues[0], northingValue = fastValues[1], depthValue = fastValues[2], probeValue = fastValues[3], elevationValue = fastValues[4];
+      // A row cut short is one problem with its own message, and a row that fails a check of
+      // `rowSchema` gets that check's message: the text way.
+      if (
+        (column <= needed && column < columns) ||
+        depthValue < 0 || probeValue < 0 || probeValue < depthValue ||
+        (fastPresent[2] && fastPresent[4] && Number.isNaN(depthValue) && Number.isNaN(elevationValue))
+      ) {
+        slowLine(bytes, start, end);
+        continue;
+      }
+      recordNumber++;
+      rowCount++;
+      easting.push(eastingValue);
+      northing.push(northingValue);
+      depth.push(depthValue);
+      // A column not in the file is not returned: nothing to keep.
+      if (fastPresent[3]) probe.push(probeValue);
+      if (fastPresent[4]) elevation.push(elevationValue);
+      sourceRows.push(recordNumber);
+      if (timeColumn >= 0) times.push(timeStart < 0 ? "" : cellDecoder.decode(bytes.subarray(timeStart, timeEnd)).trim());
+      if (idColumn >= 0) ids.push(idStart < 0 ? "" : cellDecoder.decode(bytes.subarray(idStart, idEnd)).trim());
+    }
   }
 
   function pushBytes(chunk: Uint8Array) {
@@ -476,17 +512,9 @@ export function createSoundingCsvParser(options: SoundingCsvOptions = {}): Sound
       if (line.includes(34)) return textFrom(bytes, position);
     }
     if (numberSlot === null) prepareFastLines();
-    const easy = !fileError;
-    for (;;) {
-      const lineEnd = bytes.indexOf(10, position);
-      if (lineEnd < 0) break;
-      const end = lineEnd > position && bytes[lineEnd - 1] === 13 ? lineEnd - 1 : lineEnd;
-      const taken = easy ? fastLine(bytes, position, end) : bytes.subarray(position, end).includes(34) ? -1 : 0;
-      if (taken === -1) return textFrom(bytes, position);
-      if (taken === 0) readRecord(cellDecoder.decode(bytes.subarray(position, end)).split(delimiter));
-      position = lineEnd + 1;
-    }
-    if (position < bytes.length) byteTail = bytes.slice(position);
+    const stopped = readLines(bytes, position);
+    if (stopped < 0) return textFrom(bytes, -1 - stopped);
+    if (stopped < bytes.length) byteTail = bytes.slice(stopped);
   }
 
   /** From `position` on, the text way. */

@@ -436,11 +436,14 @@ export async function volumesFromSurveyWork(
   lines: GridLines,
   pending: ReadonlyArray<Promise<SurveyWorkDone>>,
   onProgress?: ProgressCallback,
+  /** Called once every reply is in, before the rest is computed (the command line ends its threads there, freeing their memory). */
+  whenBack?: () => Promise<void>,
 ): Promise<EngineResult> {
   const all = Promise.all(pending);
   all.catch(() => {}); // a failure is thrown below, once the grids are laid
   const grids = prepareGrids(workLimit, settings, onProgress, lines);
   const replies = await all;
+  await whenBack?.();
   onProgress?.("triangulate + raster (threads)", 1);
   const rasters = replies.flatMap((reply) => reply.rasters).map((values) => clipToMask(values, grids.mask));
   const [muckTop, firmSand, ...progress] = rasters;
