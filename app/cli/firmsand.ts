@@ -39,7 +39,9 @@ const usage = `usage: firmsand volumes --crs CODE|PROJ4 --units us-ft|ft|m --bef
   --firm-share F       share of a cell within tolerance for "at-firm-sand", default 0.95
   --min-coverage F     share of a cell that must be surveyed, default 0.8
   --survey-noise N     mean removed thickness still counted as untouched, default the tolerance
-  --rotation DEG       grid rotation, counter-clockwise from east, default 0`;
+  --rotation DEG       grid rotation, counter-clockwise from east, default 0
+  --threads 0|2        engine threads: 2 triangulates the surveys side by side, 0 on the main thread;
+                       default 2 when the sounding files hold 6 MB or more, else 0 (same figures either way)`;
 
 class InputError extends Error {
   constructor(message: string, readonly exitCode = 1) {
@@ -80,6 +82,7 @@ const volumesOptionsSchema = z.object({
   "min-coverage": share("--min-coverage").default(0.8),
   "survey-noise": number("--survey-noise").refine((value) => value >= 0, { message: "--survey-noise must be 0 or more" }).optional(),
   rotation: number("--rotation").default(0),
+  threads: z.enum(["0", "2"], { error: "--threads must be 0 or 2" }).transform(Number).optional(),
 });
 
 type VolumesOptions = z.infer<typeof volumesOptionsSchema>;
@@ -218,7 +221,8 @@ async function runVolumes(argv: string[]): Promise<{ result: EngineResult; unit:
   // Large surveys go to two engine threads, started before the files are read (a thread takes a
   // moment to load); with a work limit each survey is handed over as soon as its file is read, so
   // the baseline is triangulated while the next file is parsed.
-  const pool = fileBytes(options.before) + fileBytes(options.after) >= threadedFromBytes ? new EngineWorkerPool(2) : null;
+  const threaded = options.threads === undefined ? fileBytes(options.before) + fileBytes(options.after) >= threadedFromBytes : options.threads > 0;
+  const pool = threaded ? new EngineWorkerPool(2) : null;
   // Let the threads collect their garbage between the steps of a large survey (their input columns
   // once copied, their triangulation once sampled: see engine-worker.thread.ts); the request is
   // queued ahead of the jobs, so nothing waits for it.

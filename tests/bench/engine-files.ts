@@ -1,4 +1,4 @@
-import { spawn } from "node:child_process";
+import { spawn, spawnSync } from "node:child_process";
 import { existsSync, readFileSync, rmSync } from "node:fs";
 import { availableParallelism, loadavg } from "node:os";
 import { join } from "node:path";
@@ -110,6 +110,21 @@ async function benchScenario(scenario: FileScenario) {
 
 console.log(`engine from files: ${cliChoice === "built" ? "built command line (node build/cli/firmsand.mjs)" : "command line from sources (tsx app/cli/firmsand.ts)"} vs tests/bench/engine-files/reference.mjs; ` +
   `median of ${runs} alternated run${runs > 1 ? "s" : ""}; ${availableParallelism()} cores, load average at start ${loadavg().map((value) => value.toFixed(2)).join(" ")}`);
+// Start-up: the command line's usage (it exits 2 after printing it), from spawn to exit.
+// Node's own start beside it (an empty script), alternated.
+const startups: number[] = [];
+const bare: number[] = [];
+const timed = (command: string, commandArgs: string[]) => {
+  const start = performance.now();
+  spawnSync(command, commandArgs, { stdio: "ignore" });
+  return (performance.now() - start) / 1000;
+};
+for (let run = 0; run < 5; run++) {
+  startups.push(timed(ours[0], [...ours.slice(1), "--help"]));
+  bare.push(timed(process.execPath, ["-e", "0"]));
+}
+console.log(`start-up (firmsand --help, median of 5): ${median(startups).toFixed(3)} s, node alone ${median(bare).toFixed(3)} s (load ${loadavg()[0].toFixed(2)}); goal under 0.3 s`);
+
 const results = [];
 for (const scenario of fileScenarios) {
   if (onlyScenario && scenario.name !== onlyScenario) continue;
