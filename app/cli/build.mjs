@@ -3,10 +3,21 @@
 // engine worker thread it starts (engine-worker.thread.mjs, the name the pool looks for beside a
 // bundle). Running the built file starts in a fraction of the time tsx needs to compile the
 // sources at every start and in every thread. esbuild is the one Vite's worker build already uses.
-import { build } from "esbuild";
-import { rmSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
+
+let build;
+try {
+  ({ build } = await import("esbuild"));
+} catch (error) {
+  // `npm ci --omit=dev` runs `prepare` without the build tools: the command line is then built
+  // where they are installed (npm run build:cli). Anywhere else a missing esbuild is an error.
+  if (process.env.npm_lifecycle_event === "prepare") {
+    process.stderr.write("[firmsand] esbuild is not installed (production install?): the command line is not built; run npm run build:cli where the dev dependencies are\n");
+    process.exit(0);
+  }
+  throw error;
+}
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..", "..");
 const outdir = join(root, "build", "cli");
@@ -35,7 +46,7 @@ const common = {
   plugins: [withoutZodLocales],
 };
 
-rmSync(outdir, { recursive: true, force: true });
+// Written over in place (not emptied first), so a command line already running keeps its files.
 await Promise.all([
   build({ ...common, entryPoints: [join(root, "app/cli/firmsand.ts")], outfile: join(outdir, "firmsand.mjs") }),
   // The thread loads what a state or bands job needs only on first use (dynamic imports, kept as
