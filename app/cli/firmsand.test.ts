@@ -1,6 +1,6 @@
 import { spawnSync } from "node:child_process";
 import { join } from "node:path";
-import { describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 
 /**
  * The command line as survey staff run it, on the small basin in tests/fixtures/engine: a 100 × 60
@@ -11,10 +11,16 @@ import { describe, expect, it } from "vitest";
  */
 const root = join(import.meta.dirname, "..", "..");
 const fixtures = join(root, "tests", "fixtures", "engine");
-const tsx = join(root, "node_modules", ".bin", "tsx");
+const built = join(root, "build", "cli", "firmsand.mjs");
+
+// The command line as users run it: the built JavaScript (npm run build:cli), built afresh here.
+beforeAll(() => {
+  const build = spawnSync(process.execPath, [join(root, "app", "cli", "build.mjs")], { cwd: root, encoding: "utf8" });
+  if (build.status !== 0) throw new Error(`the command line did not build: ${build.stderr}`);
+});
 
 function firmsand(...args: string[]) {
-  const run = spawnSync(tsx, [join(root, "app", "cli", "firmsand.ts"), ...args], { cwd: root, encoding: "utf8" });
+  const run = spawnSync(process.execPath, [built, ...args], { cwd: root, encoding: "utf8" });
   return { status: run.status, stdout: run.stdout, stderr: run.stderr };
 }
 

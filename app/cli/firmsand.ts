@@ -1,17 +1,20 @@
-import { readFileSync } from "node:fs";
+import { readFileSync, statSync } from "node:fs";
+import { setFlagsFromString } from "node:v8";
+import { runInNewContext } from "node:vm";
 import { z } from "zod";
 import type { ComputationSurvey } from "../lib/engine/engine-surveys";
 import { firmPoints } from "../lib/engine/survey-work";
-import { EngineWorkerPool } from "../lib/engine/engine-worker.server";
+import { EngineWorkerPool, baselineWork, progressWork, surveyWorkSettings, volumesFromSurveyWork } from "../lib/engine/engine-worker.server";
+import type { SurveyWorkDone } from "../lib/engine/survey-work";
 import { lengthUnitOfCrs, resolveCrsDefinition } from "../lib/geo/epsg.server";
 import { createCrs, type Crs } from "../../shared/crs";
 import type { ProjectedMultiPolygon, Ring } from "../../shared/grid/work-limit";
-import { computeSurveyVolumes, type EngineResult, type EngineSettings, type SurveyPoints } from "../../shared/pipeline";
+import { computeSurveyVolumes, layGridLines, type EngineResult, type EngineSettings, type SurveyPoints } from "../../shared/pipeline";
 import { soundingElevations } from "../../shared/soundings/elevations";
-import { parseSoundingsCsv, type ParsedSoundings } from "../../shared/soundings/parse-csv";
+import { parseSoundingsCsvBytes, type ParsedSoundings } from "../../shared/soundings/parse-csv";
 import { selectSurveysInForce } from "../../shared/surveys-in-force";
 import { defaultsFor, lengthUnitSchema, type LengthUnit } from "../../shared/units";
-import { volumeReport } from "../../shared/volumes/report";
+import { writeVolumeReportJson } from "../../shared/volumes/report";
 
 /**
  * Firmsand on the command line, for survey staff and for checking results from outside the app.
@@ -36,7 +39,9 @@ const usage = `usage: firmsand volumes --crs CODE|PROJ4 --units us-ft|ft|m --bef
   --firm-share F       share of a cell within tolerance for "at-firm-sand", default 0.95
   --min-coverage F     share of a cell that must be surveyed, default 0.8
   --survey-noise N     mean removed thickness still counted as untouched, default the tolerance
-  --rotation DEG       grid rotation, counter-clockwise from east, default 0`;
+  --rotation DEG       grid rotation, counter-clockwise from east, default 0
+  --threads 0|2        engine threads: 2 triangulates the surveys side by side, 0 on the main thread;
+                       default 2 when the sounding files hold 6 MB or more, else 0 (same figures either way)`;
 
 class InputError extends Error {
   constructor(message: string, readonly exitCode = 1) {
@@ -77,6 +82,7 @@ const volumesOptionsSchema = z.object({
   "min-coverage": share("--min-coverage").default(0.8),
   "survey-noise": number("--survey-noise").refine((value) => value >= 0, { message: "--survey-noise must be 0 or more" }).optional(),
   rotation: number("--rotation").default(0),
+  threads: z.enum(["0", "2"], { error: "--threads must be 0 or 2" }).transform(Number).optional(),
 });
 
 type VolumesOptions = z.infer<typeof volumesOptionsSchema>;
@@ -97,15 +103,20 @@ function readArguments(argv: string[]): Record<string, string> {
 }
 
 function readText(file: string, what: string): string {
+  return readBytes(file, what).toString("utf8");
+}
+
+function readBytes(file: string, what: string): Buffer {
   try {
-    return readFileSync(file, "utf8");
+    return readFileSync(file);
   } catch (error) {
     throw new InputError(`${file}: cannot read the ${what} (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`);
   }
 }
 
 function readSoundings(file: string): ParsedSoundings {
-  const parsed = parseSoundingsCsv(readText(file, "sounding file"));
+  // Read from the bytes: no string of the whole file, none per cell (parse-csv.ts).
+  const parsed = parseSoundingsCsvBytes(readBytes(file, "sounding file"));
   if (parsed.errors.length > 0) {
     const lines = parsed.errors.map(
       (error) => `${file}: row ${error.row}, column "${error.column}": ${error.message}${error.value === "" ? "" : ` (found "${error.value}")`}`,
@@ -164,10 +175,10 @@ function surveyPoints(parsed: ParsedSoundings, elevation: Float64Array): SurveyP
   return { easting: parsed.easting, northing: parsed.northing, elevation };
 }
 
-/** From this many soundings in all, the surveys are triangulated in two worker threads. */
-const threadedFromSoundings = 200_000;
+/** From this many bytes of sounding files in all (about 200,000 soundings), the surveys are triangulated in two worker threads. */
+const threadedFromBytes = 6_000_000;
 
-async function runVolumes(argv: string[]): Promise<string> {
+async function runVolumes(argv: string[]): Promise<{ result: EngineResult; unit: LengthUnit }> {
   const parsedOptions = volumesOptionsSchema.safeParse(readArguments(argv));
   if (!parsedOptions.success) {
     throw new InputError(parsedOptions.error.issues.map((issue) => issue.message).join("\n") + `\n${usage}`, 2);
@@ -191,31 +202,8 @@ async function runVolumes(argv: string[]): Promise<string> {
   }
 
   const defaults = defaultsFor(unit);
-  const before = readSoundings(options.before);
-  const after = readSoundings(options.after);
-  // The two files are the surveys in force, as the app would choose them: the before file the
-  // baseline, the after file the one progress survey on it (the files carry no dates).
-  const surveyOf = (id: number, kind: ComputationSurvey["kind"], parsed: ParsedSoundings, waterSurface: number): ComputationSurvey => {
-    const { elevation, refusalElevation } = soundingElevations(parsed, waterSurface);
-    return { id, kind, surveyedOn: "", ...surveyPoints(parsed, elevation), refusalElevation };
-  };
-  const inForce = selectSurveysInForce([surveyOf(1, "baseline", before, options["before-wse"]), surveyOf(2, "progress", after, options["after-wse"])])!;
-  let firm: SurveyPoints;
-  if (options.firm !== undefined) {
-    const firmSoundings = readSoundings(options.firm);
-    const { elevation, refusalElevation } = soundingElevations(firmSoundings, options["firm-wse"]);
-    firm = surveyPoints(firmSoundings, refusalElevation ?? elevation);
-  } else {
-    const refusal = inForce.baseline.refusalElevation;
-    if (refusal === null || refusal.every(Number.isNaN)) {
-      throw new InputError(`${options.before}: has no probe readings (column "probe" or "probe_depth"); give the firm-sand surface with --firm FILE`);
-    }
-    firm = firmPoints(inForce.baseline);
-  }
-
   const workLimit = options.limit === undefined ? null : readWorkLimit(options.limit, crs);
   const tolerance = options.tolerance ?? defaults.tolerance;
-  const surveys = { baseline: inForce.baseline, progress: inForce.later, firm };
   const settings: EngineSettings = {
     cellSize: options["cell-size"] ?? defaults.cellSize,
     resolution: options.resolution ?? defaults.resolution,
@@ -230,26 +218,99 @@ async function runVolumes(argv: string[]): Promise<string> {
     originY: options.origin?.[1],
     rotationDegrees: options.rotation,
   };
-  const soundings = before.easting.length + after.easting.length;
-  let result: EngineResult;
-  if (soundings >= threadedFromSoundings) {
-    const pool = new EngineWorkerPool(2);
-    try {
-      result = await pool.computeSurveyVolumes(surveys, workLimit, settings);
-    } finally {
-      await pool.close();
-    }
-  } else {
-    result = computeSurveyVolumes(surveys, workLimit, settings);
+  // Large surveys go to two engine threads, started before the files are read (a thread takes a
+  // moment to load); with a work limit each survey is handed over as soon as its file is read, so
+  // the baseline is triangulated while the next file is parsed.
+  const threaded = options.threads === undefined ? fileBytes(options.before) + fileBytes(options.after) >= threadedFromBytes : options.threads > 0;
+  const pool = threaded ? new EngineWorkerPool(2) : null;
+  // Let the threads collect their garbage between the steps of a large survey (their input columns
+  // once copied, their triangulation once sampled: see engine-worker.thread.ts); the request is
+  // queued ahead of the jobs, so nothing waits for it.
+  pool?.collectGarbage().catch(() => {});
+  try {
+    return { result: await computeVolumes(options, workLimit, settings, pool), unit };
+  } finally {
+    await pool?.close();
   }
-  return JSON.stringify(volumeReport(result, unit));
+}
+
+let fullCollection: (() => void) | null = null;
+
+/** A full garbage collection of this thread (as the engine threads do between large steps). */
+function collectGarbage() {
+  if (fullCollection === null) {
+    setFlagsFromString("--expose-gc");
+    fullCollection = runInNewContext("gc") as () => void;
+  }
+  fullCollection();
+}
+
+function fileBytes(file: string): number {
+  try {
+    return statSync(file).size;
+  } catch {
+    return 0; // reading it will say what is wrong
+  }
+}
+
+async function computeVolumes(options: VolumesOptions, workLimit: ProjectedMultiPolygon | null, settings: EngineSettings, pool: EngineWorkerPool | null): Promise<EngineResult> {
+  // The two files are the surveys in force, as the app would choose them: the before file the
+  // baseline, the after file the one progress survey on it (the files carry no dates).
+  const surveyOf = (id: number, kind: ComputationSurvey["kind"], parsed: ParsedSoundings, waterSurface: number): ComputationSurvey => {
+    const { elevation, refusalElevation } = soundingElevations(parsed, waterSurface);
+    return { id, kind, surveyedOn: "", ...surveyPoints(parsed, elevation), refusalElevation };
+  };
+  const baseline = surveyOf(1, "baseline", readSoundings(options.before), options["before-wse"]);
+  let firm: SurveyPoints | null = null;
+  let firmProblem: string | null = null; // told once the after file is read, as its own problems come first
+  if (options.firm === undefined) {
+    const refusal = baseline.refusalElevation;
+    if (refusal === null || refusal.every(Number.isNaN)) {
+      firmProblem = `${options.before}: has no probe readings (column "probe" or "probe_depth"); give the firm-sand surface with --firm FILE`;
+    } else firm = firmPoints(baseline);
+  }
+  // With a limit, the grids are known now: the baseline goes to its thread before the next file is read.
+  const lines = pool && workLimit ? layGridLines(workLimit, settings) : null;
+  const workSettings = lines ? surveyWorkSettings(lines, settings) : null;
+  const pending: Array<Promise<SurveyWorkDone>> = [];
+  // The threads take the arrays (no copy): this thread reads the soundings no more.
+  const handOver = { transferInputs: true };
+  if (pool && workSettings && firm) {
+    pending.push(...baselineWork(baseline, firm).map((item) => pool.surveyWork(item, workSettings, handOver)));
+    collectGarbage(); // the first file's bytes and columns, before the second file is read
+  }
+  // A thread's failure is reported once everything is read (a bad file is the more useful message).
+  for (const job of pending) job.catch(() => {});
+
+  const later = surveyOf(2, "progress", readSoundings(options.after), options["after-wse"]);
+  if (firmProblem !== null) throw new InputError(firmProblem);
+  const inForce = selectSurveysInForce([baseline, later])!;
+  if (options.firm !== undefined) {
+    const firmSoundings = readSoundings(options.firm);
+    const { elevation, refusalElevation } = soundingElevations(firmSoundings, options["firm-wse"]);
+    firm = surveyPoints(firmSoundings, refusalElevation ?? elevation);
+  }
+  const surveys = { baseline: inForce.baseline, progress: inForce.later, firm: firm! };
+  if (pool && workLimit && lines && workSettings) {
+    if (pending.length === 0) pending.push(...baselineWork(surveys.baseline, surveys.firm).map((item) => pool.surveyWork(item, workSettings, handOver)));
+    pending.push(...surveys.progress.map((survey) => pool.surveyWork(progressWork(survey), workSettings, handOver)));
+    // The files' bytes and the parse's leftovers are garbage now: freed before the rasters come back.
+    collectGarbage();
+    // The threads are done once their rasters are back: ended there, their memory is free for the rest.
+    return volumesFromSurveyWork(workLimit, settings, lines, pending, undefined, () => pool.close());
+  }
+  if (pool) return pool.computeSurveyVolumes(surveys, workLimit, settings, undefined, { transferInputs: true });
+  return computeSurveyVolumes(surveys, workLimit, settings);
 }
 
 async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
   try {
     if (command === "volumes") {
-      process.stdout.write((await runVolumes(rest)) + "\n");
+      const { result, unit } = await runVolumes(rest);
+      // The report as JSON (JSON.stringify of volumeReport, written piece by piece without an object per cell).
+      writeVolumeReportJson(result, unit, (part) => process.stdout.write(part));
+      process.stdout.write("\n");
       return 0;
     }
     process.stderr.write(command === undefined || command === "--help" ? `${usage}\n` : `unknown command "${command}"\n${usage}\n`);

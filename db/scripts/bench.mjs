@@ -1,6 +1,9 @@
 // `npm run bench`: every benchmark figure of Firmsand, each in its own process so each peak
 // memory is its own.
 //   engine  the survey engine on seeded synthetic surveys (tests/bench/run.ts; no database)
+//   engine-files  the engine end to end from sounding files: both seeded scenarios through the
+//           command line, alternated with a reference pipeline of general-purpose packages, medians
+//           and ratios of time and peak memory (tests/bench/engine-files.ts; --runs N, --scenario, --cli)
 //   import  a 1,000,000-row file from upload to committed statistics: in process from a staged
 //           file (tests/bench/import.ts, with stages), then POSTed to the production build's API
 //           (tests/bench/import-http.ts, the server's own peak memory); the test MariaDB's
@@ -16,7 +19,7 @@
 //   load    50 signed-in connections on the map's cells, the progress figures and the overview page
 //           of the seeded demo (database `firmsand_load`), beside the server's floor (/healthz), with
 //           autocannon against the production build (tests/bench/load.ts; --duration, --connections, --runs)
-// Options: --only engine|import|event-loop|map|bodies|load (repeatable); anything else goes to the engine bench
+// Options: --only engine|engine-files|import|event-loop|map|bodies|load (repeatable); anything else goes to the engine bench
 // (for example --only engine --runs 1). Leaves no process behind: what it started, it stops.
 import { spawn } from "node:child_process";
 import { join } from "node:path";
@@ -25,7 +28,7 @@ import { ensureMariaDb, stopMariaDb } from "./db.mjs";
 import { ensureS3Server, stopS3Server } from "./services.mjs";
 
 const args = process.argv.slice(2);
-const parts = ["engine", "import", "event-loop", "map", "bodies", "load"];
+const parts = ["engine", "engine-files", "import", "event-loop", "map", "bodies", "load"];
 const chosen = [];
 const passThrough = [];
 for (let index = 0; index < args.length; index++) {
@@ -48,7 +51,13 @@ if (selected.includes("engine")) {
   if ((await runStep(bin("tsx"), ["tests/bench/run.ts", ...passThrough], process.env)) !== 0) failed = true;
 }
 
-const needsDatabase = selected.some((part) => part !== "engine");
+if (selected.includes("engine-files")) {
+  log("bench: survey engine from files, beside the reference pipeline");
+  run(process.execPath, ["app/cli/build.mjs"]);
+  if ((await runStep(bin("tsx"), ["tests/bench/engine-files.ts", ...passThrough], process.env)) !== 0) failed = true;
+}
+
+const needsDatabase = selected.some((part) => part !== "engine" && part !== "engine-files");
 if (needsDatabase) {
   await takeCheckoutLock("test-run", "npm test or npm run bench");
   const cleanups = [];

@@ -11,8 +11,12 @@ import { Float64Builder } from "../typed/float64-builder";
  * with its spreadsheet row number (header = row 1, first data row = row 2) and the column at fault,
  * so the technician can find it in the file.
  *
- * Pure: text in, arrays out. `createSoundingCsvParser` takes the text chunk by chunk so a streamed
- * upload never has to sit in memory as one string; `parseSoundingsCsv` is the one-string shortcut.
+ * Pure: text or bytes in, arrays out. `createSoundingCsvParser` takes the file chunk by chunk so a
+ * streamed upload never has to sit in memory as one string; `parseSoundingsCsv` and
+ * `parseSoundingsCsvBytes` are the one-piece shortcuts. Bytes (UTF-8) are the fast way: a row of
+ * plain numbers that passes every check is read straight from the bytes, with no string per cell;
+ * any other row (an error to report, a quote, an exponent, spaces) goes through the same zod row
+ * schema as text does, so both ways give the same columns, rows and messages.
  */
 
 export const soundingFields = ["easting", "northing", "depth", "probe", "elevation", "time", "id"] as const;
@@ -154,6 +158,13 @@ const DELIMITER_WORDS: Record<Delimiter, string> = { ",": "commas (,)", ";": "se
 export interface SoundingCsvParser {
   /** Feed the next piece of the file; pieces may split rows anywhere. */
   push(chunk: string): void;
+  /**
+   * Feed the next piece of the file as UTF-8 bytes; pieces may split rows (and characters)
+   * anywhere. Do not mix with `push` in one parse.
+   */
+  pushBytes(chunk: Uint8Array): void;
+  /** A hint before the first piece: about this many data rows are coming (room is made for them at once). */
+  expectRows(rows: number): void;
   /** No more input: parse what is left and return the columns. */
   end(): ParsedSoundings;
 }
@@ -319,7 +330,207 @@ export function createSoundingCsvParser(options: SoundingCsvOptions = {}): Sound
     else parseComplete(complete);
   }
 
+  // ---- bytes -------------------------------------------------------------------------------
+  // Until a quote shows up, whole lines are read from the bytes; a line the fast reader does not
+  // take (see `fastLine`) is decoded and split like Papa Parse splits an unquoted line, then read
+  // by `readRecord` as any text line is. From a quote on, the rest of the file goes the text way
+  // (a quoted field may hold a delimiter or a line break).
+  const decoder = new TextDecoder("utf-8", { ignoreBOM: true });
+  const cellDecoder = new TextDecoder("utf-8", { ignoreBOM: true });
+  let byteMode = true;
+  let byteTail: Uint8Array | null = null;
+  /** Per column of the file: which number field it holds (0 easting … 4 elevation, see `fastValues`), −1 none. */
+  let numberSlot: Int8Array | null = null;
+  const fastValues = new Float64Array(5);
+  let fastRequired: boolean[] = [];
+  let fastPresent: boolean[] = [];
+  let timeColumn = -1;
+  let idColumn = -1;
+  let expectedRows = 0;
+
+  function prepareFastLines() {
+    const index = columnIndex!;
+    numberSlot = new Int8Array(Math.max(headers!.length, 1)).fill(-1);
+    const fields = ["easting", "northing", "depth", "probe", "elevation"] as const;
+    fields.forEach((field, slot) => {
+      if (index[field] >= 0) numberSlot![index[field]] = slot;
+    });
+    const present = (field: SoundingField) => index[field] >= 0;
+    fastPresent = fields.map(present);
+    fastRequired = [true, true, !present("elevation"), false, present("elevation") && !present("depth")];
+    timeColumn = index.time;
+    idColumn = index.id;
+    // Room for every row at once for the columns that are returned (the depth always is).
+    if (expectedRows > 0) {
+      for (const [slot, builder] of [easting, northing, depth, probe, elevation].entries()) if (slot === 2 || fastPresent[slot]) builder.reserve(expectedRows);
+    }
+  }
+
+  /** A line the byte reader does not take: decoded and split as Papa Parse splits an unquoted line. */
+  function slowLine(bytes: Uint8Array, start: number, end: number) {
+    readRecord(cellDecoder.decode(bytes.subarray(start, end)).split(delimiter));
+  }
+
+  /**
+   * Reads the whole lines of `bytes` from `position` (one loop, so it is optimised early even on a
+   * small file). Returns where it stopped: the end of the last whole line, or −1 − the start of a
+   * line holding a quote (from there the text way).
+   */
+  function readLines(bytes: Uint8Array, position: number): number {
+    const delimiterCode = delimiter.charCodeAt(0);
+    const decimalComma = delimiter !== ",";
+    const slots = numberSlot!;
+    const index = columnIndex!;
+    const needed = Math.max(index.easting, index.northing, index.depth >= 0 ? index.depth : index.elevation);
+    const columns = headers!.length;
+    const easy = !fileError;
+    lines: for (;;) {
+      const lineEnd = bytes.indexOf(10, position);
+      if (lineEnd < 0) return position;
+      const start = position;
+      const end = lineEnd > start && bytes[lineEnd - 1] === 13 ? lineEnd - 1 : lineEnd;
+      position = lineEnd + 1;
+      if (!easy) {
+        if (bytes.subarray(start, end).includes(34)) return -1 - start;
+        slowLine(bytes, start, end);
+        continue;
+      }
+      fastValues.fill(Number.NaN);
+      let column = 0;
+      let cellStart = start;
+      let timeStart = -1, timeEnd = -1, idStart = -1, idEnd = -1;
+      let cellEnd = start;
+      for (;;) {
+        // One cell: [cellStart, cellEnd).
+        while (cellEnd < end) {
+          const byte = bytes[cellEnd];
+          if (byte === delimiterCode) break;
+          if (byte === 34) return -1 - start;
+          cellEnd++;
+        }
+        const slot = column < slots.length ? slots[column] : -1;
+        if (slot >= 0) {
+          if (cellEnd === cellStart) {
+            if (fastRequired[slot]) {
+              slowLine(bytes, start, end);
+              continue lines;
+            }
+          } else {
+            // [+-]digits[.digits] (a comma for the point when the delimiter is not a comma): read
+            // exactly, as Number() would (an integer of at most 15 digits over a power of ten up to
+            // 10^22 are both exact doubles, and one division rounds correctly). Anything else: text way.
+            let cursor = cellStart;
+            let negative = false;
+            const first = bytes[cursor];
+            if (first === 45 || first === 43) {
+              negative = first === 45;
+              cursor++;
+            }
+            let mantissa = 0;
+            let digits = 0;
+            let fraction = 0;
+            let point = false;
+            for (; cursor < cellEnd; cursor++) {
+              const byte = bytes[cursor];
+              if (byte >= 48 && byte <= 57) {
+                mantissa = mantissa * 10 + (byte - 48);
+                digits++;
+                if (point) fraction++;
+              } else if (!point && (byte === 46 || (decimalComma && byte === 44))) point = true;
+              else {
+                slowLine(bytes, start, end);
+                continue lines;
+              }
+            }
+            if (digits === 0 || digits > 15) {
+              slowLine(bytes, start, end);
+              continue lines;
+            }
+            const value = mantissa / POWERS_OF_TEN[fraction];
+            fastValues[slot] = negative ? -value : value;
+          }
+        } else if (column === timeColumn) {
+          timeStart = cellStart;
+          timeEnd = cellEnd;
+        } else if (column === idColumn) {
+          idStart = cellStart;
+          idEnd = cellEnd;
+        }
+        column++;
+        if (cellEnd >= end) break;
+        cellEnd++;
+        cellStart = cellEnd;
+      }
+      const eastingValue = fastValues[0], northingValue = fastValues[1], depthValue = fastValues[2], probeValue = fastValues[3], elevationValue = fastValues[4];
+      // A row cut short is one problem with its own message, and a row that fails a check of
+      // `rowSchema` gets that check's message: the text way.
+      if (
+        (column <= needed && column < columns) ||
+        depthValue < 0 || probeValue < 0 || probeValue < depthValue ||
+        (fastPresent[2] && fastPresent[4] && Number.isNaN(depthValue) && Number.isNaN(elevationValue))
+      ) {
+        slowLine(bytes, start, end);
+        continue;
+      }
+      recordNumber++;
+      rowCount++;
+      easting.push(eastingValue);
+      northing.push(northingValue);
+      depth.push(depthValue);
+      // A column not in the file is not returned: nothing to keep.
+      if (fastPresent[3]) probe.push(probeValue);
+      if (fastPresent[4]) elevation.push(elevationValue);
+      sourceRows.push(recordNumber);
+      if (timeColumn >= 0) times.push(timeStart < 0 ? "" : cellDecoder.decode(bytes.subarray(timeStart, timeEnd)).trim());
+      if (idColumn >= 0) ids.push(idStart < 0 ? "" : cellDecoder.decode(bytes.subarray(idStart, idEnd)).trim());
+    }
+  }
+
+  function pushBytes(chunk: Uint8Array) {
+    if (!byteMode) {
+      push(decoder.decode(chunk, { stream: true }));
+      return;
+    }
+    let bytes = chunk;
+    if (byteTail !== null) {
+      bytes = new Uint8Array(byteTail.length + chunk.length);
+      bytes.set(byteTail);
+      bytes.set(chunk, byteTail.length);
+      byteTail = null;
+    }
+    let position = 0;
+    // The header (and a "sep=" line before it) the text way, a whole line at a time.
+    while (headers === null) {
+      const lineEnd = bytes.indexOf(10, position);
+      if (lineEnd < 0) {
+        byteTail = bytes.slice(position);
+        return;
+      }
+      const line = bytes.subarray(position, lineEnd + 1);
+      position = lineEnd + 1;
+      push(decoder.decode(line, { stream: true }));
+      if (line.includes(34)) return textFrom(bytes, position);
+    }
+    if (numberSlot === null) prepareFastLines();
+    const stopped = readLines(bytes, position);
+    if (stopped < 0) return textFrom(bytes, -1 - stopped);
+    if (stopped < bytes.length) byteTail = bytes.slice(stopped);
+  }
+
+  /** From `position` on, the text way. */
+  function textFrom(bytes: Uint8Array, position: number) {
+    byteMode = false;
+    if (position < bytes.length) push(decoder.decode(bytes.subarray(position), { stream: true }));
+  }
+
   function end(): ParsedSoundings {
+    if (byteTail !== null) {
+      // The last line, without a line break: the text way.
+      push(decoder.decode(byteTail, { stream: true }));
+      byteTail = null;
+    }
+    const rest = decoder.decode();
+    if (rest !== "") push(rest);
     if (pending !== "") {
       if (headers === null && settings.delimiter === undefined) delimiter = detectDelimiter(pending.split("\n")[0]);
       parseComplete(pending.replace(/\r?\n$/, ""));
@@ -344,7 +555,28 @@ export function createSoundingCsvParser(options: SoundingCsvOptions = {}): Sound
     };
   }
 
-  return { push, end };
+  return {
+    push,
+    pushBytes,
+    end,
+    expectRows: (rows: number) => {
+      expectedRows = rows;
+    },
+  };
+}
+
+/** Exact powers of ten for the byte reader's plain numbers. */
+const POWERS_OF_TEN = Array.from({ length: 23 }, (_, power) => 10 ** power);
+
+/** The whole file as UTF-8 bytes (as read from disk): the fast way, same result as `parseSoundingsCsv` of its text. */
+export function parseSoundingsCsvBytes(bytes: Uint8Array, options: SoundingCsvOptions = {}): ParsedSoundings {
+  const parser = createSoundingCsvParser(options);
+  // Data rows: the lines after the header (the last may lack its line break).
+  let lines = bytes.length > 0 && bytes[bytes.length - 1] !== 10 ? 1 : 0;
+  for (let position = bytes.indexOf(10); position >= 0; position = bytes.indexOf(10, position + 1)) lines++;
+  parser.expectRows(Math.max(0, lines - 1));
+  parser.pushBytes(bytes);
+  return parser.end();
 }
 
 export function parseSoundingsCsv(text: string, options: SoundingCsvOptions = {}): ParsedSoundings {

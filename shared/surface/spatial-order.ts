@@ -18,21 +18,24 @@ function spreadBits(value: number): number {
 /** The given point indices (all points when omitted) ordered along the Z curve over their bounding box. */
 export function spatialOrder(x: ArrayLike<number>, y: ArrayLike<number>, indices?: Uint32Array): Uint32Array {
   const count = indices ? indices.length : x.length;
-  const pointAt = (position: number) => (indices ? indices[position] : position);
+  // The points' own indices, so each loop below reads straight through (no call per point).
+  const points = indices ?? Uint32Array.from({ length: count }, (_, position) => position);
   let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
   for (let position = 0; position < count; position++) {
-    const point = pointAt(position);
-    if (x[point] < minX) minX = x[point];
-    if (x[point] > maxX) maxX = x[point];
-    if (y[point] < minY) minY = y[point];
-    if (y[point] > maxY) maxY = y[point];
+    const point = points[position];
+    const px = x[point];
+    const py = y[point];
+    if (px < minX) minX = px;
+    if (px > maxX) maxX = px;
+    if (py < minY) minY = py;
+    if (py > maxY) maxY = py;
   }
   const scaleX = maxX > minX ? 65535 / (maxX - minX) : 0;
   const scaleY = maxY > minY ? 65535 / (maxY - minY) : 0;
   // keys[position] belongs to the point at `position` of the input list.
   const keys = new Uint32Array(count);
   for (let position = 0; position < count; position++) {
-    const point = pointAt(position);
+    const point = points[position];
     keys[position] = (spreadBits((x[point] - minX) * scaleX) | (spreadBits((y[point] - minY) * scaleY) << 1)) >>> 0;
   }
   // Least-significant-digit radix sort of positions on two 16-bit digits.
@@ -40,16 +43,18 @@ export function spatialOrder(x: ArrayLike<number>, y: ArrayLike<number>, indices
   let scratch = new Uint32Array(count);
   for (let position = 0; position < count; position++) order[position] = position;
   const buckets = new Uint32Array(65537);
-  for (const shift of [0, 16]) {
+  for (let shift = 0; shift <= 16; shift += 16) {
     buckets.fill(0);
     for (let rank = 0; rank < count; rank++) buckets[((keys[order[rank]] >>> shift) & 0xffff) + 1]++;
-    for (let bucket = 1; bucket < buckets.length; bucket++) buckets[bucket] += buckets[bucket - 1];
+    for (let bucket = 1; bucket < 65537; bucket++) buckets[bucket] += buckets[bucket - 1];
     for (let rank = 0; rank < count; rank++) {
       const position = order[rank];
       scratch[buckets[(keys[position] >>> shift) & 0xffff]++] = position;
     }
-    [order, scratch] = [scratch, order];
+    const swap = order;
+    order = scratch;
+    scratch = swap;
   }
-  if (indices) for (let rank = 0; rank < count; rank++) order[rank] = indices[order[rank]];
+  for (let rank = 0; rank < count; rank++) order[rank] = points[order[rank]];
   return order;
 }

@@ -68,6 +68,7 @@ function mergeDuplicates(xy: Float64Array, layers: Float64Array[], count: number
   const mask = tableSize - 1;
   const table = new Int32Array(tableSize).fill(-1);
   let hits: Uint32Array | null = null; // allocated at the first duplicate: most surveys have none
+  const layerCount = layers.length;
   let unique = 0;
   for (let index = 0; index < count; index++) {
     const px = xy[2 * index] + 0; // +0 folds −0 into 0 so both hash alike
@@ -79,7 +80,7 @@ function mergeDuplicates(xy: Float64Array, layers: Float64Array[], count: number
         table[slot] = unique;
         xy[2 * unique] = px;
         xy[2 * unique + 1] = py;
-        for (const layer of layers) layer[unique] = layer[index];
+        for (let layer = 0; layer < layerCount; layer++) layers[layer][unique] = layers[layer][index];
         if (hits !== null) hits[unique] = 1;
         unique++;
         break;
@@ -88,7 +89,7 @@ function mergeDuplicates(xy: Float64Array, layers: Float64Array[], count: number
         if (hits === null) {
           hits = new Uint32Array(count).fill(1);
         }
-        for (const layer of layers) layer[found] += layer[index];
+        for (let layer = 0; layer < layerCount; layer++) layers[layer][found] += layers[layer][index];
         hits[found]++;
         break;
       }
@@ -104,12 +105,6 @@ function mergeDuplicates(xy: Float64Array, layers: Float64Array[], count: number
     return mean;
   });
   return { xy: xy.slice(0, 2 * unique), layers: merged, duplicatesMerged };
-}
-
-function isUsable(easting: ArrayLike<number>, northing: ArrayLike<number>, layers: ReadonlyArray<ArrayLike<number>>, index: number) {
-  if (!Number.isFinite(easting[index]) || !Number.isFinite(northing[index])) return false;
-  for (const layer of layers) if (!Number.isFinite(layer[index])) return false;
-  return true;
 }
 
 /**
@@ -175,10 +170,19 @@ export function prepareVertices(
   let sumY = 0;
   const usable = new Uint32Array(total);
   let valid = 0;
+  const layerCount = layers.length;
   for (let index = 0; index < total; index++) {
-    if (isUsable(easting, northing, layers, index)) {
-      sumX += easting[index];
-      sumY += northing[index];
+    const x = easting[index];
+    const y = northing[index];
+    // Usable: the position and every layer finite (x − x is 0 only for a finite x).
+    let usableHere = x - x === 0 && y - y === 0;
+    for (let layer = 0; usableHere && layer < layerCount; layer++) {
+      const value = layers[layer][index];
+      usableHere = value - value === 0;
+    }
+    if (usableHere) {
+      sumX += x;
+      sumY += y;
       usable[valid++] = index;
     }
   }
@@ -192,7 +196,11 @@ export function prepareVertices(
     const index = order[kept];
     localXY[2 * kept] = easting[index] - offsetX;
     localXY[2 * kept + 1] = northing[index] - offsetY;
-    for (let layer = 0; layer < layers.length; layer++) localLayers[layer][kept] = layers[layer][index];
+  }
+  for (let layer = 0; layer < layerCount; layer++) {
+    const from = layers[layer];
+    const to = localLayers[layer];
+    for (let kept = 0; kept < valid; kept++) to[kept] = from[order[kept]];
   }
   const merged = mergeDuplicates(localXY, localLayers, valid);
   return { xy: merged.xy, layers: merged.layers, offsetX, offsetY, duplicatesMerged: merged.duplicatesMerged, invalidSkipped: total - valid };

@@ -19,8 +19,25 @@ export class Float64Builder {
     this.data[this.length++] = value;
   }
 
-  /** A right-sized copy; the builder may keep growing afterwards. */
+  /** Room for `capacity` values in all, so a caller that knows the count spares the regrowth. */
+  reserve(capacity: number): void {
+    if (capacity <= this.data.length) return;
+    const grown = new Float64Array(capacity);
+    grown.set(this.data.subarray(0, this.length));
+    this.data = grown;
+  }
+
+  /**
+   * The values, right-sized: the builder's own array when it is exactly full (as after `reserve`
+   * of the exact count; it must then not be pushed to again), else a copy.
+   */
   toArray(): Float64Array {
+    if (this.length === this.data.length) {
+      const full = this.data;
+      this.data = new Float64Array(16);
+      this.length = 0;
+      return full;
+    }
     return this.data.slice(0, this.length);
   }
 }

@@ -15,7 +15,9 @@ import {
   type EngineSettings,
   type EngineSurfaces,
   type EngineSurveys,
+  type GridLines,
   type ProgressCallback,
+  type SurveyPoints,
 } from "../../../shared/pipeline";
 import type { Tin } from "../../../shared/surface/triangulate";
 import type { SurveyKind } from "../../../shared/surveys-in-force";
@@ -341,31 +343,22 @@ export class EngineWorkerPool {
       return computeVolumesFromSurfaces(surfaces, null, settings, onProgress);
     }
     const lines = layGridLines(workLimit, settings);
-    const workSettings: SurveyWorkSettings = { maxEdge: settings.maxEdge, rasterGrid: lines.rasterGrid, precision: settings.rasterPrecision ?? "float64", cellGrid: lines.cellGrid };
-    const { baseline, firm } = surveys;
-    // The baseline's work samples firm sand too when the probe sits on its soundings; firm points of their own are a job of their own.
-    const shared = firmSharesBaselinePositions(surveys);
-    const work: SurveyWork[] = [
-      { easting: baseline.easting, northing: baseline.northing, elevation: baseline.elevation, ...(shared ? { refusalElevation: firm.elevation } : {}), count: false },
-      ...(shared ? [] : [{ easting: firm.easting, northing: firm.northing, elevation: firm.elevation, count: false }]),
-      ...surveys.progress.map((survey) => ({ easting: survey.easting, northing: survey.northing, elevation: survey.elevation, count: false })),
-    ];
-    const pending = Promise.all(
-      work.map((item) =>
-        this.submit<{ survey: SurveyWorkDone }>(
-          { kind: "survey", work: item, settings: workSettings },
-          EngineWorkerPool.inputTransfer({ easting: item.easting, northing: item.northing, layers: [item.elevation!, ...(item.refusalElevation ? [item.refusalElevation] : [])] }, options.transferInputs ?? false),
-        ),
-      ),
-    );
-    const grids = prepareGrids(workLimit, settings, onProgress, lines);
-    const replies = (await pending).map((reply) => reply.survey);
-    onProgress?.("triangulate + raster (threads)", 1);
-    const rasters = replies.flatMap((reply) => reply.rasters).map((values) => clipToMask(values, grids.mask));
-    const [muckTop, firmSand, ...progress] = rasters;
-    const surfaces = addSurfaceSummaries(replies.map((reply) => reply.summary!));
-    onProgress?.("clip", 1);
-    return computeVolumesFromRasters(grids, { muckTop, firm: firmSand, progress, surfaces }, settings, onProgress);
+    const workSettings = surveyWorkSettings(lines, settings);
+    const work = [...baselineWork(surveys.baseline, surveys.firm), ...surveys.progress.map(progressWork)];
+    const pending = work.map((item) => this.surveyWork(item, workSettings, options));
+    return volumesFromSurveyWork(workLimit, settings, lines, pending, onProgress);
+  }
+
+  /**
+   * One survey's work (triangulated and sampled, survey-work.ts) in a thread: the command line
+   * hands each survey over as soon as its file is read. Inputs are copied unless `transferInputs`.
+   */
+  surveyWork(item: SurveyWork, settings: SurveyWorkSettings, options: PoolRunOptions = {}): Promise<SurveyWorkDone> {
+    const layers = [item.elevation!, ...(item.refusalElevation ? [item.refusalElevation] : [])];
+    return this.submit<{ survey: SurveyWorkDone }>(
+      { kind: "survey", work: item, settings },
+      EngineWorkerPool.inputTransfer({ easting: item.easting, northing: item.northing, layers }, options.transferInputs ?? false),
+    ).then((reply) => reply.survey);
   }
 
   /** Run a full garbage collection in every idle thread (benchmarks call this between runs). */
@@ -409,6 +402,54 @@ export class EngineWorkerPool {
     }
     this.dispatch();
   }
+}
+
+/** The survey-work settings of a computation on `lines` (every survey's work shares them). */
+export function surveyWorkSettings(lines: GridLines, settings: EngineSettings): SurveyWorkSettings {
+  return { maxEdge: settings.maxEdge, rasterGrid: lines.rasterGrid, precision: settings.rasterPrecision ?? "float64", cellGrid: lines.cellGrid };
+}
+
+/**
+ * The baseline's work: it samples firm sand too when the probe sits on its soundings; firm points
+ * of their own are a job of their own. Its rasters come back bottom first, then firm sand.
+ */
+export function baselineWork(baseline: SurveyPoints, firm: SurveyPoints): SurveyWork[] {
+  const shared = firmSharesBaselinePositions({ baseline, firm, progress: [] });
+  return [
+    { easting: baseline.easting, northing: baseline.northing, elevation: baseline.elevation, ...(shared ? { refusalElevation: firm.elevation } : {}), count: false },
+    ...(shared ? [] : [{ easting: firm.easting, northing: firm.northing, elevation: firm.elevation, count: false }]),
+  ];
+}
+
+export function progressWork(survey: SurveyPoints): SurveyWork {
+  return { easting: survey.easting, northing: survey.northing, elevation: survey.elevation, count: false };
+}
+
+/**
+ * The volumes once every survey's work is back (`pending`: the baseline's work, then each
+ * progress survey's, as from `baselineWork` and `progressWork`); the grids are laid on this
+ * thread meanwhile, then the rasters clipped to the limit.
+ */
+export async function volumesFromSurveyWork(
+  workLimit: ProjectedMultiPolygon,
+  settings: EngineSettings,
+  lines: GridLines,
+  pending: ReadonlyArray<Promise<SurveyWorkDone>>,
+  onProgress?: ProgressCallback,
+  /** Called once every reply is in, before the rest is computed (the command line ends its threads there, freeing their memory). */
+  whenBack?: () => Promise<void>,
+): Promise<EngineResult> {
+  const all = Promise.all(pending);
+  all.catch(() => {}); // a failure is thrown below, once the grids are laid
+  const grids = prepareGrids(workLimit, settings, onProgress, lines);
+  const replies = await all;
+  await whenBack?.();
+  onProgress?.("triangulate + raster (threads)", 1);
+  const rasters = replies.flatMap((reply) => reply.rasters).map((values) => clipToMask(values, grids.mask));
+  const [muckTop, firmSand, ...progress] = rasters;
+  const surfaces = addSurfaceSummaries(replies.map((reply) => reply.summary!));
+  onProgress?.("clip", 1);
+  return computeVolumesFromRasters(grids, { muckTop, firm: firmSand, progress, surfaces }, settings, onProgress);
 }
 
 let appPool: EngineWorkerPool | null | undefined;
