@@ -40,6 +40,9 @@ export class NotFoundError extends DomainError {}
 /** The request contradicts what is already recorded (a cell assigned twice on one day, the last manager removed). */
 export class ConflictError extends DomainError {}
 
+/** The project is archived: read-only until a site admin restores it (a 409: the request contradicts its state). */
+export class ArchivedProjectError extends ConflictError {}
+
 /** No credential, or one that names nobody (a revoked token, an expired session). */
 export class NotSignedInError extends DomainError {}
 

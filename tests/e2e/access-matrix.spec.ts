@@ -114,6 +114,12 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "200 200 200 200 200 200 200 200 401"),
   row("DELETE", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("PATCH", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // Dive teams: every member reads them; the manager and the dive supervisor set them up ({} and unknown ids: 422 or 404).
+  row("GET", "api/projects/:projectId/teams", "/api/projects/{project}/teams", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/teams", "/api/projects/{project}/teams", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/teams/:teamId", "/api/projects/{project}/teams/999999999", "404 404 404 404 404 404 404 404 401"),
+  row("PATCH", "api/projects/:projectId/teams/:teamId", "/api/projects/{project}/teams/999999999", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  row("DELETE", "api/projects/:projectId/teams/:teamId", "/api/projects/{project}/teams/999999999", "404 403 404 403 403 403 403 404 401"),
   // Water quality: readings by the manager, the dewatering operator and the resource monitor; stations and rules by the manager.
   row("GET", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "422 403 403 422 422 403 403 422 401", EMPTY_JSON),

@@ -52,6 +52,7 @@ let tubeId: number;
 let stopWorkId: number;
 let findId: number;
 let holdId: number;
+let teamId: number;
 const projectParams = () => ({ projectId: String(site.project.id) });
 const base = () => `/api/projects/${site.project.id}`;
 
@@ -66,7 +67,7 @@ const base = () => `/api/projects/${site.project.id}`;
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
 // TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
-// SignInSession, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
+// SignInSession, AuditEvent; dive teams → DiveTeam, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
 // the object store and the staging directory; its custody → FindCustody, Find; a hold's lift →
 // Hold, AuditEvent; a day's report signed or amended → DailyReport, DailyReportAmendment, AuditEvent; a signed pay period → PayPeriodReport, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
@@ -98,6 +99,13 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/surveys", method: "POST", url: () => `${base()}/surveys`, params: projectParams },
   { route: "api/projects/:projectId/surveys/:surveyId", method: "DELETE", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
   { route: "api/projects/:projectId/surveys/:surveyId", method: "PATCH", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
+  { route: "api/projects/:projectId/teams", method: "POST", url: () => `${base()}/teams`, params: projectParams },
+  { route: "api/projects/:projectId/teams/:teamId", method: "PATCH", url: () => `${base()}/teams/${teamId}`, params: () => ({ ...projectParams(), teamId: String(teamId) }) },
+  {
+    route: "api/projects/:projectId/teams/:teamId", method: "DELETE",
+    url: () => `${base()}/teams/${teamId}`, params: () => ({ ...projectParams(), teamId: String(teamId) }),
+    urlForEmptyBody: () => `${base()}/teams/999999999`, paramsForEmptyBody: () => ({ ...projectParams(), teamId: "999999999" }),
+  },
   { route: "api/projects/:projectId/water-quality/stations", method: "POST", url: () => `${base()}/water-quality/stations`, params: projectParams },
   { route: "api/projects/:projectId/water-quality/rules", method: "POST", url: () => `${base()}/water-quality/rules`, params: projectParams },
   { route: "api/projects/:projectId/water-quality/readings", method: "POST", url: () => `${base()}/water-quality/readings`, params: projectParams },
@@ -199,6 +207,7 @@ async function snapshot() {
   return {
     assignments: await Assignment.count({ where: { projectId } }),
     dives: await Dive.count({ where: { projectId } }),
+    diveTeams: JSON.stringify(await DiveTeam.findAll({ where: { projectId }, raw: true, order: [["id", "ASC"]] })),
     diveCells: await DiveCell.count({ where: { projectId } }),
     dewateringShifts: await DewateringShift.count({ where: { projectId } }),
     dailyReports: JSON.stringify(await DailyReport.findAll({ where: { projectId }, raw: true })),
@@ -254,7 +263,7 @@ beforeAll(async () => {
   await User.update({ mayCreateProjects: true }, { where: { id: site.users.manager } });
   tubeId = (await GeotextileTube.create({ projectId: site.project.id, name: "T-1", circumference: 30, length: 100, capacityDryMassPerLength: 5, status: "filling", notes: "" })).id;
   await HaulSite.create({ projectId: site.project.id, name: "Tallgrass Farm", kind: "reuse", permitNumber: "AG-1" });
-  await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] });
+  teamId = (await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] })).id;
   const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
   const stored = await postSurvey(site.project.id, site.tokens.manager, { path: join(DEMO_DIR, baseline.fileName) }, {
     kind: baseline.kind, surveyedOn: baseline.surveyedOn, waterSurfaceElevation: String(baseline.waterSurfaceElevationFt), timeZone: PROJECT.timeZone, datum: PROJECT.verticalDatum,
