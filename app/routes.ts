@@ -95,6 +95,7 @@ export default [
     route("surveys/:surveyId", "routes/projects.$projectId.surveys.$surveyId.tsx"),
     route("surveys/imports/:jobId", "routes/projects.$projectId.surveys.imports.$jobId.tsx"),
     route("surveys/new", "routes/projects.$projectId.surveys.new.tsx"),
+    route("teams", "routes/projects.$projectId.teams.tsx"),
     route("water-quality", "routes/projects.$projectId.water-quality.tsx"),
     route("water-quality/compliance", "routes/projects.$projectId.water-quality.compliance.tsx"),
     route("water-quality/setup", "routes/projects.$projectId.water-quality.setup.tsx"),

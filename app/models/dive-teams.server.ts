@@ -113,8 +113,13 @@ async function resolveCrew(project: ProjectView, entries: NonNullable<TeamInput[
       const person = people.find((candidate) => normalisedName(candidate.name) === wanted || candidate.email.toLowerCase() === wanted);
       member = person ? { name: person.name, email: person.email, duty: "", userId: person.userId } : { name: entry.trim().replace(/\s+/g, " "), email: "", duty: "" };
     } else {
-      const person = entry.email ? people.find((candidate) => candidate.email.toLowerCase() === entry.email!.toLowerCase()) : undefined;
-      member = { name: entry.name.replace(/\s+/g, " "), email: entry.email ?? "", duty: entry.duty ?? "", ...(person ? { userId: person.userId } : {}) };
+      // A member is known by e-mail, or by name when no e-mail is given.
+      const person = entry.email
+        ? people.find((candidate) => candidate.email.toLowerCase() === entry.email!.toLowerCase())
+        : people.find((candidate) => normalisedName(candidate.name) === normalisedName(entry.name));
+      member = person
+        ? { name: person.name, email: person.email, duty: entry.duty ?? "", userId: person.userId }
+        : { name: entry.name.replace(/\s+/g, " "), email: entry.email ?? "", duty: entry.duty ?? "" };
     }
     const key = normalisedName(member.name);
     if (seen.has(key)) {

@@ -52,7 +52,7 @@ const identityFields = {
   permitNumbers: text(500).optional(),
   timeZone: z.string().trim().refine(isTimeZone, "is not a time zone name such as America/New_York").optional(),
   verticalDatum: text(60).optional(),
-  minTeamSize: z.number().int().min(1).max(20).optional(),
+  minTeamSize: z.number({ error: "The minimum team size is a whole number" }).int("The minimum team size is a whole number").min(1, "The minimum team size is at least 1").max(20, "The minimum team size is at most 20").optional(),
 };
 
 export const newProjectSchema = z.object({
@@ -71,6 +71,14 @@ export const newProjectSchema = z.object({
   manager: z.email("is not an e-mail address").optional(),
 });
 export type NewProjectInput = z.infer<typeof newProjectSchema>;
+
+const clockTime = (what: string) => z.string({ error: `${what} is a time of day, HH:MM` }).trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, `${what} is a time of day written HH:MM (24-hour), e.g. 07:00`);
+
+/** The working hours, local to the project's time zone; null clears them. A shift past midnight is not a work day here. */
+const workDaySchema = z
+  .object({ start: clockTime("The work day's start"), end: clockTime("The work day's end") })
+  .refine((day) => day.end > day.start, { message: "The work day must end after it starts (same day)", path: ["end"] })
+  .nullable();
 
 /** The finds settings: the catalogue prefix and the stop-work hold radius with its source. */
 const findsSettingsSchema = z.object({
@@ -92,6 +100,8 @@ export const projectPatchSchema = z
     finds: findsSettingsSchema.optional(),
     /** Replaces the emergency information as a whole; every field blank clears it. */
     emergency: emergencyInfoSchema.optional(),
+    /** The working hours {start, end} ("HH:MM", the project's local time); null clears them. */
+    workDay: workDaySchema.optional(),
   })
   .refine((patch) => Object.values(patch).some((value) => value !== undefined), "Send at least one setting to change");
 export type ProjectPatch = z.infer<typeof projectPatchSchema>;
@@ -126,6 +136,10 @@ export interface ProjectSettings {
   finds: { cataloguePrefix: string; holdRadiusM: number; holdRadiusSource: string };
   /** Nearest hospital and hyperbaric chamber with phones, emergency services, site address and access point; null: none set. */
   emergency: EmergencyInfo | null;
+  /** The working hours, "HH:MM" in the project's time zone; null: not set. */
+  workDay: { start: string; end: string } | null;
+  /** When the project was archived (ISO 8601); null: open. */
+  archivedAt: string | null;
 }
 
 /** Above this many cells the settings page asks before saving a grid: the map and every recompute slow down with the count. */
@@ -320,6 +334,8 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
     surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
     finds: { cataloguePrefix: project.findCataloguePrefix, holdRadiusM: project.holdRadiusM, holdRadiusSource: project.holdRadiusSource },
     emergency: project.emergencyInfo ?? null,
+    workDay: project.workDayStart && project.workDayEnd ? { start: project.workDayStart, end: project.workDayEnd } : null,
+    archivedAt: project.archivedAt ? project.archivedAt.toISOString() : null,
   };
 }
 
@@ -419,6 +435,8 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
       if (patch.finds?.holdRadiusSource !== undefined) row.holdRadiusSource = patch.finds.holdRadiusSource;
       // Emergency information touches no figures; all blank clears it.
       if (patch.emergency !== undefined) row.emergencyInfo = isEmergencyInfoEmpty(patch.emergency) ? null : patch.emergency;
+      // Working hours touch no figures.
+      if (patch.workDay !== undefined) row.set({ workDayStart: patch.workDay?.start ?? null, workDayEnd: patch.workDay?.end ?? null });
       const figuresChange = (["workLimitGeoJson", "cellSize", "rotationDeg", "gridOriginE", "gridOriginN", "rasterResolution", "maxEdge", "tolerance", "firmShare", "minCoverage"] as const).some((key) => row.changed(key));
       await row.save({ transaction });
       if (zones) {

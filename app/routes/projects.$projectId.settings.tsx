@@ -1,4 +1,4 @@
-import { Form, data } from "react-router";
+import { Form, Link, data } from "react-router";
 import { z } from "zod";
 import { lengthUnitSchema, unitLabel } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
@@ -52,6 +52,12 @@ const actionSchema = z.discriminatedUnion("intent", [
     confirmLargeGrid: z.literal("yes").optional(),
   }),
   z.object({ intent: z.literal("tolerances"), firmSand: number, firmShare: number, minCoverage: number, overDredgeAllowance: number }),
+  z.object({
+    intent: z.literal("dive-work"),
+    minTeamSize: z.coerce.number({ error: "Enter a whole number" }).int("Enter a whole number"),
+    workDayStart: z.string().trim(),
+    workDayEnd: z.string().trim(),
+  }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
   z.object({
     intent: z.literal("emergency"),
@@ -104,6 +110,13 @@ export async function action({ request, params }: Route.ActionArgs) {
       case "tolerances":
         patch = { tolerances: { firmSand: input.firmSand, firmShare: input.firmShare, minCoverage: input.minCoverage, overDredgeAllowance: input.overDredgeAllowance } };
         break;
+      case "dive-work":
+        // Both times blank clears the working hours; one without the other is named by the service.
+        patch = {
+          minTeamSize: input.minTeamSize,
+          workDay: input.workDayStart === "" && input.workDayEnd === "" ? null : { start: input.workDayStart, end: input.workDayEnd },
+        };
+        break;
       case "finds":
         patch = { finds: { cataloguePrefix: input.cataloguePrefix, holdRadiusM: input.holdRadiusM, holdRadiusSource: input.holdRadiusSource } };
         break;
@@ -140,7 +153,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const checked = projectPatchSchema.safeParse(patch);
     if (!checked.success) return failed(input.intent, fieldErrorsOf(validationErrorFrom(checked.error)));
     const { settings, recomputed } = await updateProjectSettings(project, user, checked.data, { ip });
-    const cells = settings.cellCount === null || input.intent === "emergency" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
+    const cells = settings.cellCount === null || input.intent === "emergency" || input.intent === "dive-work" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
     return answered({ intent: input.intent, errors: {}, notice: `Saved.${cells}${recomputed ? " Every survey's figures were recomputed." : ""}` });
   } catch (error) {
     if (error instanceof DomainError) return failed(input.intent, fieldErrorsOf(error));
@@ -176,6 +189,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   const gridErrors = errorsFor("grid");
   const toleranceErrors = errorsFor("tolerances");
   const findsErrors = errorsFor("finds");
+  const diveWorkErrors = errorsFor("dive-work");
   const emergencyErrors = errorsFor("emergency");
   const emergency = settings.emergency;
   const preview = actionData?.preview ?? null;
@@ -276,6 +290,20 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           />
           <p className="text-sm text-muted sm:col-span-3">{surveysNote.trim()}</p>
           <div className="sm:col-span-3"><SubmitButton intent="tolerances" pendingLabel="Saving…">Save tolerances</SubmitButton></div>
+        </Form>
+      </Section>
+
+      <Section id="dive-work-heading" title="Dive work">
+        <ActionMessages notice={noticeFor("dive-work")} />
+        <p className="text-sm text-muted">
+          The dive plan flags a team listing fewer people than the minimum. Set it, and the working hours, from the project's dive safety plan and the applicable commercial diving standard; they decide.
+          The teams themselves are on the <Link className="underline" to={`/projects/${settings.id}/teams`}>dive teams page</Link>.
+        </p>
+        <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-3" aria-label="Dive work">
+          <TextField label="Minimum team size" name="minTeamSize" type="number" step="1" min="1" max="20" defaultValue={settings.minTeamSize} required error={diveWorkErrors.minTeamSize} hint="3 by default: a diver, a tender and a standby diver (practice)." />
+          <TextField label="Work day starts" name="workDayStart" type="time" defaultValue={settings.workDay?.start ?? ""} error={diveWorkErrors.start ?? diveWorkErrors.workDay} hint={`Local time, ${settings.timeZone}.`} />
+          <TextField label="Work day ends" name="workDayEnd" type="time" defaultValue={settings.workDay?.end ?? ""} error={diveWorkErrors.end} hint="Both blank: no working hours set." />
+          <div className="sm:col-span-3"><SubmitButton intent="dive-work" pendingLabel="Saving…">Save dive work</SubmitButton></div>
         </Form>
       </Section>
 

@@ -44,7 +44,7 @@ function projectTabs(data: Route.ComponentProps["loaderData"]): ProjectTab[] {
     { label: "Overview", path: "" },
     { label: "Map", path: "/map" },
     { label: "Surveys", path: "/surveys" },
-    { label: "Dive plans", path: "/plans" },
+    { label: "Dive plans", path: "/plans", also: ["/teams"] },
     data.canReadQuantities && { label: "Quantities", path: "/quantities" },
     { label: "Dewatering", path: "/dewatering" },
     { label: "Water quality", path: "/water-quality" },
