@@ -7,6 +7,7 @@ import { TextField } from "~/components/text-field";
 import { WorkLimitOutline, type LonLatPolygons } from "~/components/work-limit-outline";
 import { LengthUnitOptions } from "~/components/length-unit-options";
 import { requireRole } from "~/lib/auth/access.server";
+import { can } from "~/lib/auth/permissions";
 import { DomainError, validationErrorFrom } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
@@ -20,8 +21,8 @@ import type { Route } from "./+types/projects.$projectId.settings";
 // setup service (which checks, recomputes when surveys exist and writes the audit log).
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireRole(request, params.projectId, "project.configure");
-  return { settings: await getProjectSettings(project) };
+  const access = await requireRole(request, params.projectId, "project.configure");
+  return { settings: await getProjectSettings(access.project), canArchive: can(access, "project.archive") };
 }
 
 const blankToUndefined = (value: unknown) => (value === "" || value === null ? undefined : value);
@@ -195,10 +196,15 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   const preview = actionData?.preview ?? null;
   const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures.` : "";
 
+  const archived = settings.archivedAt !== null;
+
   return (
     <div className="space-y-6">
       <ActionMessages error={actionData?.errors.form} />
+      {archived ? <p className="rounded border border-line bg-panel px-3 py-2 text-sm">The project is archived: its settings are shown as they were and cannot be changed until a site admin restores it.</p> : null}
 
+      {/* An archived project's forms are shown disabled: the server refuses them anyway (409). */}
+      <fieldset disabled={archived} className="m-0 min-w-0 space-y-6 border-0 p-0">
       <Section id="identity-heading" title="Identity">
         <ActionMessages notice={noticeFor("identity")} />
         <Form method="post" className="grid gap-3 sm:grid-cols-2">
@@ -334,6 +340,19 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           <div className="sm:col-span-2"><SubmitButton intent="emergency" pendingLabel="Saving…">Save emergency information</SubmitButton></div>
         </Form>
       </Section>
+      </fieldset>
+
+      {loaderData.canArchive ? (
+        <Section id="archive-heading" title="Archive">
+          <p className="text-sm">
+            When the work is finished and the closeout is signed, archive the project: it becomes read-only for everyone (nothing can be changed, logged or imported),
+            stays readable and exportable, and is listed apart on the projects page. Only a site admin can restore it.
+          </p>
+          <Form method="post" action={`/projects/${settings.id}/archive`} className="mt-3" onSubmit={(event) => { if (!window.confirm(`Archive ${settings.name}? It becomes read-only for everyone until a site admin restores it.`)) event.preventDefault(); }}>
+            <button type="submit" className="rounded bg-danger px-4 py-2 font-medium text-white hover:opacity-90 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-lagoon">Archive this project</button>
+          </Form>
+        </Section>
+      ) : null}
     </div>
   );
 }

@@ -28,6 +28,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       name: project.name,
       description: project.description,
       role: roleLabel(project.role),
+      archivedAt: project.archivedAt,
     })),
     canCreate: canCreateProjects(user),
   };
@@ -112,26 +113,48 @@ function NewProjectForm({ errors }: { errors: FieldErrors }) {
   );
 }
 
+type ProjectRow = Route.ComponentProps["loaderData"]["projects"][number];
+
+function ProjectList({ projects }: { projects: ProjectRow[] }) {
+  return (
+    <ul className="space-y-3">
+      {projects.map((project) => (
+        <li key={project.id} className="rounded border border-line bg-panel p-4">
+          <Link to={`/projects/${project.id}`} className="text-lg font-medium text-lagoon underline-offset-2 hover:underline focus-visible:outline-2 focus-visible:outline-lagoon">
+            {project.name}
+          </Link>
+          <p className="mt-1 text-sm text-muted">{project.description}</p>
+          <p className="mt-1 text-sm">
+            Your role: {project.role}
+            {project.archivedAt ? <> · archived <time className="figures whitespace-nowrap" dateTime={project.archivedAt}>{project.archivedAt.slice(0, 10)}</time>, read-only</> : null}
+          </p>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
 export default function Projects({ loaderData, actionData }: Route.ComponentProps) {
+  const open = loaderData.projects.filter((project) => project.archivedAt === null);
+  const archived = loaderData.projects.filter((project) => project.archivedAt !== null);
   return (
     <Page title="Your projects" wide>
       {loaderData.projects.length === 0 ? (
         <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">
           You are not a member of any project yet. A project manager can invite you by e-mail.
         </p>
+      ) : open.length === 0 ? (
+        <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">No open projects: every project you belong to is archived.</p>
       ) : (
-        <ul className="space-y-3">
-          {loaderData.projects.map((project) => (
-            <li key={project.id} className="rounded border border-line bg-panel p-4">
-              <Link to={`/projects/${project.id}`} className="text-lg font-medium text-lagoon underline-offset-2 hover:underline focus-visible:outline-2 focus-visible:outline-lagoon">
-                {project.name}
-              </Link>
-              <p className="mt-1 text-sm text-muted">{project.description}</p>
-              <p className="mt-1 text-sm">Your role: {project.role}</p>
-            </li>
-          ))}
-        </ul>
+        <ProjectList projects={open} />
       )}
+      {archived.length > 0 ? (
+        <section aria-labelledby="archived-projects" className="mt-8">
+          <h2 id="archived-projects" className="text-lg font-semibold">Archived</h2>
+          <p className="mt-1 text-sm text-muted">Finished projects: read-only, still readable and exportable.</p>
+          <div className="mt-3"><ProjectList projects={archived} /></div>
+        </section>
+      ) : null}
       {loaderData.canCreate ? <NewProjectForm errors={actionData?.errors ?? {}} /> : null}
     </Page>
   );

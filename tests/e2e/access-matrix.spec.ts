@@ -56,6 +56,8 @@ const MATRIX: Row[] = [
   row("POST", "api/projects", "/api/projects", "403 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId", "/api/projects/{project}", "200 403 403 403 403 403 403 200 401"),
   row("PATCH", "api/projects/:projectId", "/api/projects/{project}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // Archiving (the manager; no body) is only tried on a project that does not exist here: the demo must stay open.
+  row("POST", "api/projects/:projectId/archive", "/api/projects/999999999/archive", "404 404 404 404 404 404 404 404 401"),
   row("GET", "api/projects/:projectId/assignments", `/api/projects/{project}/assignments?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/assignments", "/api/projects/{project}/assignments", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/bands", "/api/projects/{project}/bands?surface=remaining", "200 200 200 200 200 200 200 200 401"),
@@ -99,6 +101,8 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/quantities.csv", "/api/projects/{project}/quantities.csv", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/quantities.geojson", "/api/projects/{project}/quantities.geojson", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/reconciliation", "/api/projects/{project}/reconciliation", "200 200 200 200 200 200 200 200 401"),
+  // Restoring: a site admin only; the demo project is open, so the admin's answer is 409.
+  row("POST", "api/projects/:projectId/restore", "/api/projects/{project}/restore", "403 403 403 403 403 403 403 409 401"),
   row("GET", "api/projects/:projectId/sediment-samples", "/api/projects/{project}/sediment-samples", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/sediment-samples", "/api/projects/{project}/sediment-samples", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/share-links", "/api/projects/{project}/share-links", "200 403 403 403 403 200 403 200 401"),
@@ -149,6 +153,9 @@ const MATRIX: Row[] = [
 
   // A project's pages (the layout and its index share the project's URL).
   row("GET", "projects/:projectId", "/projects/{project}", "200 200 200 200 200 200 200 200 login"),
+  // Archiving is only tried on a project that does not exist here (the demo must stay open); a GET goes to the settings page.
+  row("GET", "projects/:projectId/archive", "/projects/999999999/archive", "302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings"),
+  row("POST", "projects/:projectId/archive", "/projects/999999999/archive", "404 404 404 404 404 404 404 404 login", { form: {} }),
   row("GET", "projects/:projectId/audit", "/projects/{project}/audit", "200 403 403 403 403 403 403 200 login"),
   row("GET", "projects/:projectId/days", "/projects/{project}/days", "200 200 200 200 200 403 200 200 login"),
   row("GET", "projects/:projectId/days/:date", `/projects/{project}/days/${PLAN_DATE}`, "200 200 200 200 200 403 200 200 login"),
@@ -182,6 +189,9 @@ const MATRIX: Row[] = [
   row("POST", "projects/:projectId/settings", "/projects/{project}/settings", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/share", "/projects/{project}/share", "200 403 403 403 403 200 403 200 login"),
   row("POST", "projects/:projectId/share", "/projects/{project}/share", "400 403 403 403 403 400 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/restore", "/projects/999999999/restore", "302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999"),
+  // Restoring: a site admin only; the demo project is open, so the admin's answer is 409.
+  row("POST", "projects/:projectId/restore", "/projects/{project}/restore", "403 403 403 403 403 403 403 409 login", { form: {} }),
   row("GET", "projects/:projectId/surveys", "/projects/{project}/surveys", "200 200 200 200 200 200 200 200 login"),
   row("GET", "projects/:projectId/surveys/:surveyId", "/projects/{project}/surveys/{survey}", "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/surveys/:surveyId", "/projects/{project}/surveys/{survey}", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
@@ -191,6 +201,8 @@ const MATRIX: Row[] = [
   // A form that is not multipart, so no file: refused with 400 for those who may upload.
   row("POST", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
   // Water quality: every member reads it; a bogus form is 400 for a role that may record something there, 403 for one that may not.
+  row("GET", "projects/:projectId/teams", "/projects/{project}/teams", "200 200 200 200 200 200 200 200 login"),
+  row("POST", "projects/:projectId/teams", "/projects/{project}/teams", "400 403 400 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/water-quality", "/projects/{project}/water-quality", "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/water-quality", "/projects/{project}/water-quality", "400 403 400 400 400 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/water-quality/compliance", "/projects/{project}/water-quality/compliance", "200 200 200 200 200 200 200 200 login"),

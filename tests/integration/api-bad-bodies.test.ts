@@ -67,13 +67,20 @@ const base = () => `/api/projects/${site.project.id}`;
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
 // TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
-// SignInSession, AuditEvent; dive teams → DiveTeam, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
+// SignInSession, AuditEvent; dive teams → DiveTeam, AuditEvent; archive and restore → Project, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
 // the object store and the staging directory; its custody → FindCustody, Find; a hold's lift →
 // Hold, AuditEvent; a day's report signed or amended → DailyReport, DailyReportAmendment, AuditEvent; a signed pay period → PayPeriodReport, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
   { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
   { route: "api/projects/:projectId", method: "PATCH", url: () => base(), params: projectParams },
+  // Archiving takes no body: the empty ones go to a project that does not exist, so they cannot archive this one.
+  {
+    route: "api/projects/:projectId/archive", method: "POST", url: () => `${base()}/archive`, params: projectParams,
+    urlForEmptyBody: () => "/api/projects/999999999/archive", paramsForEmptyBody: () => ({ projectId: "999999999" }),
+  },
+  // Restoring an open project is a 409 whatever the body (the site admin's).
+  { route: "api/projects/:projectId/restore", method: "POST", url: () => `${base()}/restore`, params: projectParams, token: () => adminToken },
   { route: "api/projects/:projectId/assignments", method: "POST", url: () => `${base()}/assignments`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/shifts", method: "POST", url: () => `${base()}/dewatering/shifts`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/tubes", method: "POST", url: () => `${base()}/dewatering/tubes`, params: projectParams },
