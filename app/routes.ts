@@ -13,6 +13,7 @@ export default [
   route("api/*", "routes/api.$.ts"),
   route("api/admin/users", "routes/api.admin.users.ts"),
   route("api/admin/users/:userId", "routes/api.admin.users.$userId.ts"),
+  route("api/crs", "routes/api.crs.ts"),
   route("api/projects", "routes/api.projects.ts"),
   route("api/projects/:projectId", "routes/api.projects.$projectId.ts"),
   route("api/projects/:projectId/archive", "routes/api.projects.$projectId.archive.ts"),

@@ -1,4 +1,6 @@
+import { useRef } from "react";
 import { Form, Link, data } from "react-router";
+import { CrsCombobox } from "~/components/crs-combobox";
 import { z } from "zod";
 import { lengthUnitSchema, unitLabel } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
@@ -197,6 +199,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures.` : "";
 
   const archived = settings.archivedAt !== null;
+  const lengthUnitRef = useRef<HTMLSelectElement>(null);
 
   return (
     <div className="space-y-6">
@@ -226,10 +229,14 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
         <ActionMessages notice={noticeFor("coordinates")} />
         <p className="text-sm">Now: <span className="figures">{settings.crs}</span> — {settings.crsName}</p>
         <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-2">
-          <TextField label="Coordinate reference system (EPSG code)" name="crs" defaultValue={settings.crs} required error={coordinateErrors.crs} hint={settings.surveyCount > 0 ? "Fixed once surveys are stored." : "e.g. EPSG:2237; its name is shown once saved."} />
+          <CrsCombobox
+            label="Coordinate reference system (EPSG code)" name="crs" defaultValue={settings.crs} error={coordinateErrors.crs}
+            hint={settings.surveyCount > 0 ? "Fixed once surveys are stored." : "Type a code or words of the name (e.g. Florida East) and choose; the length unit follows."}
+            onPick={(option) => { if (lengthUnitRef.current) lengthUnitRef.current.value = option.lengthUnit; }}
+          />
           <div>
             <label htmlFor="length-unit" className="block text-sm font-medium">Length unit</label>
-            <select id="length-unit" name="lengthUnit" defaultValue={settings.lengthUnit} className={inputClass} aria-invalid={coordinateErrors.lengthUnit ? true : undefined}>
+            <select ref={lengthUnitRef} id="length-unit" name="lengthUnit" defaultValue={settings.lengthUnit} className={inputClass} aria-invalid={coordinateErrors.lengthUnit ? true : undefined}>
               <LengthUnitOptions withVolume />
             </select>
             {coordinateErrors.lengthUnit ? <p className="mt-1 text-sm text-danger">{coordinateErrors.lengthUnit}</p> : null}

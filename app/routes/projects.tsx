@@ -1,4 +1,6 @@
+import { useRef } from "react";
 import { Form, Link, data, redirect } from "react-router";
+import { CrsCombobox } from "~/components/crs-combobox";
 import { z } from "zod";
 import { defaultsFor, lengthUnitSchema } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
@@ -85,6 +87,7 @@ export function meta({}: Route.MetaArgs) {
 const inputClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py-2 focus:outline-2 focus:outline-offset-1 focus:outline-lagoon aria-invalid:border-danger";
 
 function NewProjectForm({ errors }: { errors: FieldErrors }) {
+  const lengthUnitRef = useRef<HTMLSelectElement>(null);
   return (
     <section aria-labelledby="new-project" className="mt-8 rounded border border-line bg-panel p-4">
       <h2 id="new-project" className="text-lg font-semibold">New project</h2>
@@ -92,10 +95,14 @@ function NewProjectForm({ errors }: { errors: FieldErrors }) {
       <ActionMessages error={errors.form} />
       <Form method="post" encType="multipart/form-data" className="mt-3 grid gap-3 sm:grid-cols-2">
         <TextField label="Project name" name="name" required maxLength={200} error={errors.name} />
-        <TextField label="Coordinate reference system (EPSG code)" name="crs" required placeholder="EPSG:2237" error={errors.crs} />
+        <CrsCombobox
+          label="Coordinate reference system (EPSG code)" name="crs" error={errors.crs}
+          hint="Type a code or words of the name (e.g. Florida East) and choose; the length unit follows."
+          onPick={(option) => { if (lengthUnitRef.current) lengthUnitRef.current.value = option.lengthUnit; }}
+        />
         <div>
           <label htmlFor="new-length-unit" className="block text-sm font-medium">Length unit</label>
-          <select id="new-length-unit" name="lengthUnit" className={inputClass} aria-invalid={errors.lengthUnit ? true : undefined}>
+          <select ref={lengthUnitRef} id="new-length-unit" name="lengthUnit" className={inputClass} aria-invalid={errors.lengthUnit ? true : undefined}>
             <LengthUnitOptions />
           </select>
           {errors.lengthUnit ? <p className="mt-1 text-sm text-danger">{errors.lengthUnit}</p> : null}

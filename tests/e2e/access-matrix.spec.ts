@@ -52,6 +52,8 @@ const MATRIX: Row[] = [
   // Accounts: the site admin only ({} names no change: 422 before the id is looked up).
   row("GET", "api/admin/users", "/api/admin/users", "403 403 403 403 403 403 403 200 401"),
   row("PATCH", "api/admin/users/:userId", "/api/admin/users/999999999", "403 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // The EPSG search of the CRS fields: anyone signed in.
+  row("GET", "api/crs", "/api/crs?q=florida%20east", "200 200 200 200 200 200 200 200 401"),
   // Creating a project: a site admin (or a user allowed to); none of the demo's other accounts is.
   row("POST", "api/projects", "/api/projects", "403 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId", "/api/projects/{project}", "200 403 403 403 403 403 403 200 401"),

@@ -128,6 +128,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/pay-periods", method: "POST", url: () => `${base()}/pay-periods`, params: projectParams },
   // GET-only routes: their action answers 405 to every body.
   { route: "api/admin/users", method: "POST", url: () => "/api/admin/users", params: () => ({}), token: () => adminToken },
+  { route: "api/crs", method: "POST", url: () => "/api/crs", params: () => ({}) },
   { route: "api/projects/:projectId/bands", method: "POST", url: () => `${base()}/bands`, params: projectParams },
   { route: "api/projects/:projectId/cells", method: "POST", url: () => `${base()}/cells`, params: projectParams },
   { route: "api/projects/:projectId/cells/:label", method: "POST", url: () => `${base()}/cells/B7`, params: () => ({ ...projectParams(), label: "B7" }) },
