@@ -121,7 +121,7 @@ export function CrsCombobox({ name, label, defaultValue = "", defaultDescription
         className="mt-1 block w-full rounded border border-line bg-panel px-3 py-2 focus:outline-2 focus:outline-offset-1 focus:outline-lagoon aria-invalid:border-danger"
       />
       <ul
-        id={listId} role="listbox" aria-label={`${label}: matches`}
+        id={listId} role="listbox" aria-label="Matching coordinate systems"
         hidden={!expanded}
         className="absolute z-20 mt-1 max-h-72 w-full overflow-y-auto rounded border border-line bg-panel shadow-lg"
       >

@@ -3,6 +3,8 @@ import { z } from "zod";
 import { createCrs, type Crs } from "../../shared/crs";
 import { cellCount, createCellGrid, defaultGridOrigin } from "../../shared/grid/cell-grid";
 import { parseWorkLimitGeoJson } from "../../shared/grid/work-limit-geojson";
+import { describeArea, firstVertexOutside } from "../../shared/grid/area-of-use";
+import type { LonLatBounds } from "../../shared/soundings/row-checks";
 import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
 import { defaultsFor } from "../../shared/units";
 import { emergencyInfoSchema, isEmergencyInfoEmpty, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
@@ -150,6 +152,8 @@ export const LARGE_GRID_CELLS = 200_000;
 interface CheckedCrs {
   crs: Crs;
   name: string;
+  code: number | null;
+  areaOfUse: LonLatBounds | null;
 }
 
 function checkCrs(code: string, lengthUnit: LengthUnit, problems: ErrorDetail[]): CheckedCrs | null {
@@ -169,20 +173,34 @@ function checkCrs(code: string, lengthUnit: LengthUnit, problems: ErrorDetail[])
     problems.push({ field: "lengthUnit", message: `EPSG:${resolved.code} (${resolved.name}) works in ${resolved.unit}; the length unit must be ${unit}` });
     return null;
   }
-  return { crs: createCrs(resolved.definition), name: resolved.name };
+  return { crs: createCrs(resolved.definition), name: resolved.name, code: resolved.code, areaOfUse: resolved.areaOfUse };
 }
 
-/** A GeoJSON geometry read and checked; each problem goes to `field`. */
-function checkGeometry(field: string, label: string, geoJson: unknown, crs: Crs, problems: ErrorDetail[]) {
-  const parsed = parseWorkLimitGeoJson(geoJson, crs);
+/**
+ * A GeoJSON geometry read and checked; each problem goes to `field`. Beyond the shape's own rules,
+ * it must lie in the CRS's area of use (EPSG registry), within a margin: coordinates far outside
+ * it were read in the wrong CRS, or the CRS is the wrong one.
+ */
+function checkGeometry(field: string, label: string, geoJson: unknown, checked: CheckedCrs, problems: ErrorDetail[]) {
+  const parsed = parseWorkLimitGeoJson(geoJson, checked.crs);
   if (!parsed.ok) {
     for (const problem of parsed.problems) problems.push({ field, message: `${label} ${problem.message}.` });
+    return null;
+  }
+  const polygons = parsed.lonLat.type === "Polygon" ? [parsed.lonLat.coordinates] : parsed.lonLat.coordinates;
+  const outside = firstVertexOutside(polygons, checked.areaOfUse);
+  if (outside) {
+    const where = parsed.coordinates === "lon-lat" ? `read as lon/lat, lies at ${outside.lat.toFixed(4)}, ${outside.lon.toFixed(4)}` : `lies at ${outside.lat.toFixed(4)}, ${outside.lon.toFixed(4)} (lat, lon)`;
+    problems.push({
+      field,
+      message: `${label} polygon ${outside.polygon}, ring ${outside.ring}, vertex ${outside.vertex} ${where}, outside the area EPSG:${checked.code} (${checked.name}) is made for (${describeArea(checked.areaOfUse!)}). Check the file's coordinates, or choose the CRS of the site.`,
+    });
     return null;
   }
   return parsed;
 }
 
-function checkZones(zones: Array<{ name: string; geometry: unknown }>, crs: Crs, problems: ErrorDetail[]) {
+function checkZones(zones: Array<{ name: string; geometry: unknown }>, crs: CheckedCrs, problems: ErrorDetail[]) {
   const seen = new Set<string>();
   return zones.map((zone, index) => {
     const key = zone.name.toLowerCase();
@@ -248,8 +266,8 @@ export async function createProject(actor: UserView, input: NewProjectInput, opt
   assertMayCreateProjects(actor);
   const problems: ErrorDetail[] = [];
   const checked = checkCrs(input.crs, input.lengthUnit, problems);
-  const limit = checked && checkGeometry("workLimit", "The work limit", input.workLimit, checked.crs, problems);
-  const zones = checked ? checkZones(input.zones ?? [], checked.crs, problems) : [];
+  const limit = checked && checkGeometry("workLimit", "The work limit", input.workLimit, checked, problems);
+  const zones = checked ? checkZones(input.zones ?? [], checked, problems) : [];
   // Read in the caller's transaction: the seeder creates the manager's account in it.
   const manager = input.manager ? await User.findOne({ where: { email: normaliseEmail(input.manager) }, transaction: options.transaction }) : null;
   if (input.manager && !manager) problems.push({ field: "manager", message: `No account has the e-mail ${input.manager}; create it first or name an existing one.` });
@@ -360,7 +378,7 @@ export async function previewWorkLimit(project: ProjectView, geoJson: unknown) {
   if (!row) throw new NotFoundError("There is no such project.");
   const problems: ErrorDetail[] = [];
   const checked = checkCrs(row.crs, row.lengthUnit, problems);
-  const limit = checked && checkGeometry("workLimit", "The work limit", geoJson, checked.crs, problems);
+  const limit = checked && checkGeometry("workLimit", "The work limit", geoJson, checked, problems);
   if (!limit) throw new ValidationError(problems);
   return { lonLat: limit.lonLat, coordinates: limit.coordinates, area: limit.area, cellCount: cellCount(createCellGrid(limit.projected, projectGrid(row))) };
 }
@@ -400,8 +418,8 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
         throw new ConflictError({ field: patch.crs ? "crs" : "lengthUnit", message: "The coordinate system and length unit cannot change once surveys are stored: their soundings are in the old ones." });
       }
       const checked = checkCrs(crsCode, lengthUnit, problems);
-      const limit = checked && patch.workLimit !== undefined ? checkGeometry("workLimit", "The work limit", patch.workLimit, checked.crs, problems) : null;
-      const zones = checked && patch.zones ? checkZones(patch.zones, checked.crs, problems) : null;
+      const limit = checked && patch.workLimit !== undefined ? checkGeometry("workLimit", "The work limit", patch.workLimit, checked, problems) : null;
+      const zones = checked && patch.zones ? checkZones(patch.zones, checked, problems) : null;
       if (!checked) throw new ValidationError(problems);
 
       const projected = limit?.projected ?? projectedLimit(checked.crs, row.workLimitGeoJson);

@@ -1,11 +1,13 @@
-import { expect, test } from "./fixtures";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, expect, signInWithPassword, test } from "./fixtures";
 
 // The CRS field of the new-project form: words of a name find the CRS in the bundled EPSG list
 // (published names: "NAD83 / Florida East" is EPSG:26958 in metres), chosen with the keyboard
 // alone, and the length unit follows the choice.
 
-test("the CRS is found by words of its name and chosen with the keyboard; the length unit follows", async ({ page, signIn }) => {
-  await signIn("admin");
+test("the CRS is found by words of its name and chosen with the keyboard; the length unit follows", async ({ page }) => {
+  await signInWithPassword(page, DEMO_ACCOUNTS.admin, DEMO_PASSWORD);
+  // Signing in hashes a password: give a loaded machine time.
+  await expect(page).toHaveURL(/\/projects$/, { timeout: 20_000 });
   const form = page.getByRole("region", { name: "New project" });
   const field = form.getByRole("combobox", { name: "Coordinate reference system (EPSG code)" });
   await field.click();

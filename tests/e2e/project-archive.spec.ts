@@ -25,6 +25,7 @@ test("the manager archives a project: banner on every page, forms disabled, list
   await admin.dispose();
 
   await signInWithPassword(page, DEMO_ACCOUNTS.manager, DEMO_PASSWORD);
+  await expect(page).toHaveURL(/\/projects$/, { timeout: 20_000 });
   await page.goto(`/projects/${id}/settings`);
   page.once("dialog", (dialog) => dialog.accept());
   await page.getByRole("region", { name: "Archive" }).getByRole("button", { name: "Archive this project" }).click();
@@ -56,6 +57,7 @@ test("the manager archives a project: banner on every page, forms disabled, list
   const adminContext = await browser.newContext({ baseURL });
   const adminPage = await adminContext.newPage();
   await signInWithPassword(adminPage, DEMO_ACCOUNTS.admin, DEMO_PASSWORD);
+  await expect(adminPage).toHaveURL(/\/projects$/, { timeout: 20_000 });
   await adminPage.goto(`/projects/${id}`);
   await adminPage.setViewportSize({ width: 390, height: 844 });
   await adminPage.screenshot({ path: test.info().outputPath("archived-banner-admin-390.png") });
