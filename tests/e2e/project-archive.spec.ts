@@ -28,7 +28,7 @@ test("the manager archives a project: banner on every page, forms disabled, list
   await expect(page).toHaveURL(/\/projects$/, { timeout: 20_000 });
   await page.goto(`/projects/${id}/settings`);
   page.once("dialog", (dialog) => dialog.accept());
-  await page.getByRole("region", { name: "Archive" }).getByRole("button", { name: "Archive this project" }).click();
+  await page.getByRole("region", { name: "Archive", exact: true }).getByRole("button", { name: "Archive this project" }).click();
   await expect(page).toHaveURL(`/projects/${id}`);
   const banner = page.getByRole("region", { name: "Archived project" });
   await expect(banner).toContainText("Archived since");
@@ -45,11 +45,11 @@ test("the manager archives a project: banner on every page, forms disabled, list
   }
   await page.goto(`/projects/${id}/settings`);
   await expect(page.getByRole("button", { name: "Save identity" })).toBeDisabled();
-  await expect(page.getByRole("region", { name: "Archive" })).toHaveCount(0);
+  await expect(page.getByRole("region", { name: "Archive", exact: true })).toHaveCount(0);
 
   // Listed apart on the projects page.
   await page.goto("/projects");
-  await expect(page.getByRole("region", { name: "Archived" }).getByRole("link", { name: PROJECT_NAME })).toBeVisible();
+  await expect(page.getByRole("region", { name: "Archived", exact: true }).getByRole("link", { name: PROJECT_NAME })).toBeVisible();
   await page.setViewportSize({ width: 390, height: 844 });
   await page.screenshot({ path: test.info().outputPath("archived-list-390.png"), fullPage: true });
 
