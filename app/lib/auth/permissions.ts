@@ -79,8 +79,9 @@ export const PERMISSIONS = {
   /** Public progress links. */
   "share-links.manage": ["manager", "outreach"],
   /**
-   * Dive teams (their crew, hoses and station) and the working hours: the dive supervisor runs the
-   * crews day to day and the manager sets the project up. Every member reads the teams.
+   * Dive teams (their crew, hoses and station): the dive supervisor runs the crews day to day and
+   * the manager sets the project up. Every member reads the teams. (The minimum team size and the
+   * working hours are project settings: "project.configure".)
    */
   "teams.manage": ["manager", "dive-supervisor"],
   /** Archive a finished project (read-only from then on): the manager closes their project. */
