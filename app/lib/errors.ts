@@ -46,6 +46,9 @@ export class ConflictError extends DomainError {}
  */
 export class PreconditionFailedError extends DomainError {}
 
+/** The project is archived: read-only until a site admin restores it (a 409: the request contradicts its state). */
+export class ArchivedProjectError extends ConflictError {}
+
 /** No credential, or one that names nobody (a revoked token, an expired session). */
 export class NotSignedInError extends DomainError {}
 

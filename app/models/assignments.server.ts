@@ -11,6 +11,7 @@ import { getProjectSurfaces } from "~/lib/engine/engine-state.server";
 import { queueMail } from "~/lib/mail/outbox.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { getCellsPayload, type CellsPayload } from "./cells.server";
+import { listDiveTeams, presentTeam, type DiveTeamView } from "./dive-teams.server";
 import { openHoldsOn } from "./holds.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
@@ -36,24 +37,7 @@ export const assignmentInputSchema = z.object({
 });
 export type AssignmentInput = z.infer<typeof assignmentInputSchema>;
 
-export interface DiveTeamView {
-  id: number;
-  name: string;
-  station: string;
-  hoses: string[];
-  members: DiveTeamMember[];
-  belowMinimum: boolean;
-}
-
-export async function listDiveTeams(project: ProjectView): Promise<DiveTeamView[]> {
-  const teams = await DiveTeam.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["id", "ASC"]] });
-  return teams.map((team) => presentTeam(team, project));
-}
-
-function presentTeam(team: DiveTeam, project: ProjectView): DiveTeamView {
-  const { members } = team;
-  return { id: team.id, name: team.name, station: team.station, hoses: team.hoses, members, belowMinimum: members.length < project.minTeamSize };
-}
+export { listDiveTeams, type DiveTeamView } from "./dive-teams.server";
 
 export interface NoDecompressionInfo {
   depthFt: number;
@@ -141,6 +125,7 @@ export async function createAssignments(project: ProjectView, user: UserView, in
   const teams = await DiveTeam.findAll({ where: { projectId: project.id } });
   const team = teams.find((candidate) => (typeof input.team === "number" ? candidate.id === input.team : candidate.name.toLowerCase() === input.team.toLowerCase()));
   if (!team) throw new NotFoundError({ field: "team", message: `There is no dive team "${input.team}" on this project.` });
+  if (team.retiredAt) throw new ConflictError({ field: "team", message: `${team.name} is retired and takes no new cells; bring it back on the teams page first, or choose a team in service.` }, { code: "team-retired" });
   const teamView = presentTeam(team, project);
   if (teamView.hoses.length > 0 && !teamView.hoses.includes(input.hose)) {
     throw new ValidationError({ field: "hose", message: `${team.name} has no hose or station "${input.hose}" (it has ${teamView.hoses.join(", ")}).` }, { code: "unknown-hose" });
@@ -256,7 +241,8 @@ export interface DayPlanView {
 export async function getDayPlan(project: ProjectView, date: string): Promise<DayPlanView> {
   const [assignments, teams, payload] = await Promise.all([
     Assignment.findAll({ where: { projectId: project.id, workDate: date }, order: [["label", "ASC"]] }),
-    listDiveTeams(project),
+    // Retired teams too: a past day's plan still shows the team that worked it.
+    listDiveTeams(project, { retired: true }),
     getCellsPayload(project),
   ]);
   const grid = payload.grid;

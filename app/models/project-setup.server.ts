@@ -3,6 +3,8 @@ import { z } from "zod";
 import { createCrs, type Crs } from "../../shared/crs";
 import { cellCount, createCellGrid, defaultGridOrigin } from "../../shared/grid/cell-grid";
 import { parseWorkLimitGeoJson } from "../../shared/grid/work-limit-geojson";
+import { describeArea, firstVertexOutside } from "../../shared/grid/area-of-use";
+import type { LonLatBounds } from "../../shared/soundings/row-checks";
 import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
 import { defaultsFor } from "../../shared/units";
 import { emergencyInfoSchema, isEmergencyInfoEmpty, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
@@ -52,7 +54,7 @@ const identityFields = {
   permitNumbers: text(500).optional(),
   timeZone: z.string().trim().refine(isTimeZone, "is not a time zone name such as America/New_York").optional(),
   verticalDatum: text(60).optional(),
-  minTeamSize: z.number().int().min(1).max(20).optional(),
+  minTeamSize: z.number({ error: "The minimum team size is a whole number" }).int("The minimum team size is a whole number").min(1, "The minimum team size is at least 1").max(20, "The minimum team size is at most 20").optional(),
 };
 
 export const newProjectSchema = z.object({
@@ -71,6 +73,14 @@ export const newProjectSchema = z.object({
   manager: z.email("is not an e-mail address").optional(),
 });
 export type NewProjectInput = z.infer<typeof newProjectSchema>;
+
+const clockTime = (what: string) => z.string({ error: `${what} is a time of day, HH:MM` }).trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, `${what} is a time of day written HH:MM (24-hour), e.g. 07:00`);
+
+/** The working hours, local to the project's time zone; null clears them. A shift past midnight is not a work day here. */
+const workDaySchema = z
+  .object({ start: clockTime("The work day's start"), end: clockTime("The work day's end") })
+  .refine((day) => day.end > day.start, { message: "The work day must end after it starts (same day)", path: ["end"] })
+  .nullable();
 
 /** The finds settings: the catalogue prefix and the stop-work hold radius with its source. */
 const findsSettingsSchema = z.object({
@@ -92,6 +102,8 @@ export const projectPatchSchema = z
     finds: findsSettingsSchema.optional(),
     /** Replaces the emergency information as a whole; every field blank clears it. */
     emergency: emergencyInfoSchema.optional(),
+    /** The working hours {start, end} ("HH:MM", the project's local time); null clears them. */
+    workDay: workDaySchema.optional(),
   })
   .refine((patch) => Object.values(patch).some((value) => value !== undefined), "Send at least one setting to change");
 export type ProjectPatch = z.infer<typeof projectPatchSchema>;
@@ -126,6 +138,10 @@ export interface ProjectSettings {
   finds: { cataloguePrefix: string; holdRadiusM: number; holdRadiusSource: string };
   /** Nearest hospital and hyperbaric chamber with phones, emergency services, site address and access point; null: none set. */
   emergency: EmergencyInfo | null;
+  /** The working hours, "HH:MM" in the project's time zone; null: not set. */
+  workDay: { start: string; end: string } | null;
+  /** When the project was archived (ISO 8601); null: open. */
+  archivedAt: string | null;
 }
 
 /** Above this many cells the settings page asks before saving a grid: the map and every recompute slow down with the count. */
@@ -136,6 +152,8 @@ export const LARGE_GRID_CELLS = 200_000;
 interface CheckedCrs {
   crs: Crs;
   name: string;
+  code: number | null;
+  areaOfUse: LonLatBounds | null;
 }
 
 function checkCrs(code: string, lengthUnit: LengthUnit, problems: ErrorDetail[]): CheckedCrs | null {
@@ -155,20 +173,34 @@ function checkCrs(code: string, lengthUnit: LengthUnit, problems: ErrorDetail[])
     problems.push({ field: "lengthUnit", message: `EPSG:${resolved.code} (${resolved.name}) works in ${resolved.unit}; the length unit must be ${unit}` });
     return null;
   }
-  return { crs: createCrs(resolved.definition), name: resolved.name };
+  return { crs: createCrs(resolved.definition), name: resolved.name, code: resolved.code, areaOfUse: resolved.areaOfUse };
 }
 
-/** A GeoJSON geometry read and checked; each problem goes to `field`. */
-function checkGeometry(field: string, label: string, geoJson: unknown, crs: Crs, problems: ErrorDetail[]) {
-  const parsed = parseWorkLimitGeoJson(geoJson, crs);
+/**
+ * A GeoJSON geometry read and checked; each problem goes to `field`. Beyond the shape's own rules,
+ * it must lie in the CRS's area of use (EPSG registry), within a margin: coordinates far outside
+ * it were read in the wrong CRS, or the CRS is the wrong one.
+ */
+function checkGeometry(field: string, label: string, geoJson: unknown, checked: CheckedCrs, problems: ErrorDetail[]) {
+  const parsed = parseWorkLimitGeoJson(geoJson, checked.crs);
   if (!parsed.ok) {
     for (const problem of parsed.problems) problems.push({ field, message: `${label} ${problem.message}.` });
+    return null;
+  }
+  const polygons = parsed.lonLat.type === "Polygon" ? [parsed.lonLat.coordinates] : parsed.lonLat.coordinates;
+  const outside = firstVertexOutside(polygons, checked.areaOfUse);
+  if (outside) {
+    const where = parsed.coordinates === "lon-lat" ? `read as lon/lat, lies at ${outside.lat.toFixed(4)}, ${outside.lon.toFixed(4)}` : `lies at ${outside.lat.toFixed(4)}, ${outside.lon.toFixed(4)} (lat, lon)`;
+    problems.push({
+      field,
+      message: `${label} polygon ${outside.polygon}, ring ${outside.ring}, vertex ${outside.vertex} ${where}, outside the area EPSG:${checked.code} (${checked.name}) is made for (${describeArea(checked.areaOfUse!)}). Check the file's coordinates, or choose the CRS of the site.`,
+    });
     return null;
   }
   return parsed;
 }
 
-function checkZones(zones: Array<{ name: string; geometry: unknown }>, crs: Crs, problems: ErrorDetail[]) {
+function checkZones(zones: Array<{ name: string; geometry: unknown }>, crs: CheckedCrs, problems: ErrorDetail[]) {
   const seen = new Set<string>();
   return zones.map((zone, index) => {
     const key = zone.name.toLowerCase();
@@ -234,8 +266,8 @@ export async function createProject(actor: UserView, input: NewProjectInput, opt
   assertMayCreateProjects(actor);
   const problems: ErrorDetail[] = [];
   const checked = checkCrs(input.crs, input.lengthUnit, problems);
-  const limit = checked && checkGeometry("workLimit", "The work limit", input.workLimit, checked.crs, problems);
-  const zones = checked ? checkZones(input.zones ?? [], checked.crs, problems) : [];
+  const limit = checked && checkGeometry("workLimit", "The work limit", input.workLimit, checked, problems);
+  const zones = checked ? checkZones(input.zones ?? [], checked, problems) : [];
   // Read in the caller's transaction: the seeder creates the manager's account in it.
   const manager = input.manager ? await User.findOne({ where: { email: normaliseEmail(input.manager) }, transaction: options.transaction }) : null;
   if (input.manager && !manager) problems.push({ field: "manager", message: `No account has the e-mail ${input.manager}; create it first or name an existing one.` });
@@ -320,6 +352,8 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
     surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
     finds: { cataloguePrefix: project.findCataloguePrefix, holdRadiusM: project.holdRadiusM, holdRadiusSource: project.holdRadiusSource },
     emergency: project.emergencyInfo ?? null,
+    workDay: project.workDayStart && project.workDayEnd ? { start: project.workDayStart, end: project.workDayEnd } : null,
+    archivedAt: project.archivedAt ? project.archivedAt.toISOString() : null,
   };
 }
 
@@ -344,7 +378,7 @@ export async function previewWorkLimit(project: ProjectView, geoJson: unknown) {
   if (!row) throw new NotFoundError("There is no such project.");
   const problems: ErrorDetail[] = [];
   const checked = checkCrs(row.crs, row.lengthUnit, problems);
-  const limit = checked && checkGeometry("workLimit", "The work limit", geoJson, checked.crs, problems);
+  const limit = checked && checkGeometry("workLimit", "The work limit", geoJson, checked, problems);
   if (!limit) throw new ValidationError(problems);
   return { lonLat: limit.lonLat, coordinates: limit.coordinates, area: limit.area, cellCount: cellCount(createCellGrid(limit.projected, projectGrid(row))) };
 }
@@ -384,8 +418,8 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
         throw new ConflictError({ field: patch.crs ? "crs" : "lengthUnit", message: "The coordinate system and length unit cannot change once surveys are stored: their soundings are in the old ones." });
       }
       const checked = checkCrs(crsCode, lengthUnit, problems);
-      const limit = checked && patch.workLimit !== undefined ? checkGeometry("workLimit", "The work limit", patch.workLimit, checked.crs, problems) : null;
-      const zones = checked && patch.zones ? checkZones(patch.zones, checked.crs, problems) : null;
+      const limit = checked && patch.workLimit !== undefined ? checkGeometry("workLimit", "The work limit", patch.workLimit, checked, problems) : null;
+      const zones = checked && patch.zones ? checkZones(patch.zones, checked, problems) : null;
       if (!checked) throw new ValidationError(problems);
 
       const projected = limit?.projected ?? projectedLimit(checked.crs, row.workLimitGeoJson);
@@ -419,6 +453,8 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
       if (patch.finds?.holdRadiusSource !== undefined) row.holdRadiusSource = patch.finds.holdRadiusSource;
       // Emergency information touches no figures; all blank clears it.
       if (patch.emergency !== undefined) row.emergencyInfo = isEmergencyInfoEmpty(patch.emergency) ? null : patch.emergency;
+      // Working hours touch no figures.
+      if (patch.workDay !== undefined) row.set({ workDayStart: patch.workDay?.start ?? null, workDayEnd: patch.workDay?.end ?? null });
       const figuresChange = (["workLimitGeoJson", "cellSize", "rotationDeg", "gridOriginE", "gridOriginN", "rasterResolution", "maxEdge", "tolerance", "firmShare", "minCoverage"] as const).some((key) => row.changed(key));
       await row.save({ transaction });
       if (zones) {

@@ -165,7 +165,7 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
         return (
           <section key={team.id} aria-label={team.name} className="space-y-1">
             <h3 className="font-semibold">{team.name}{team.station ? ` · ${team.station}` : ""}</h3>
-            <p className="text-sm">{team.members.map((member) => `${member.name} (${member.duty})`).join(", ") || "No members listed."}</p>
+            <p className="text-sm">{team.members.map((member) => (member.duty ? `${member.name} (${member.duty})` : member.name)).join(", ") || "No members listed."}</p>
             {team.belowMinimum ? (
               <p className="text-sm font-semibold text-danger" data-testid="plan-team-flag">
                 {team.name} lists {team.members.length} people, below the project's minimum team size of {plan.minTeamSize}.
@@ -292,7 +292,7 @@ function DiveForm({ teamId, teamName, members, cells, lengthLabel, result }: { t
           <label htmlFor={diverId}>Diver</label>
           <select id={diverId} name="diver" required value={diver} onChange={(event) => setDiver(event.target.value)} className={field} aria-invalid={result?.field === "diver" ? true : undefined}>
             <option value="" disabled>Choose from {teamName}</option>
-            {members.map((member) => <option key={member.name} value={member.name}>{member.name} ({member.duty})</option>)}
+            {members.map((member) => <option key={member.name} value={member.name}>{member.duty ? `${member.name} (${member.duty})` : member.name}</option>)}
             <option value={VISITOR}>Visitor, not on the roster…</option>
           </select>
         </span>

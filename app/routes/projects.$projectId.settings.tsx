@@ -1,4 +1,6 @@
-import { Form, data } from "react-router";
+import { useRef } from "react";
+import { Form, Link, data } from "react-router";
+import { CrsCombobox } from "~/components/crs-combobox";
 import { z } from "zod";
 import { lengthUnitSchema, unitLabel } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
@@ -7,6 +9,7 @@ import { TextField } from "~/components/text-field";
 import { WorkLimitOutline, type LonLatPolygons } from "~/components/work-limit-outline";
 import { LengthUnitOptions } from "~/components/length-unit-options";
 import { requireRole } from "~/lib/auth/access.server";
+import { can } from "~/lib/auth/permissions";
 import { DomainError, validationErrorFrom } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
@@ -20,8 +23,8 @@ import type { Route } from "./+types/projects.$projectId.settings";
 // setup service (which checks, recomputes when surveys exist and writes the audit log).
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { project } = await requireRole(request, params.projectId, "project.configure");
-  return { settings: await getProjectSettings(project) };
+  const access = await requireRole(request, params.projectId, "project.configure");
+  return { settings: await getProjectSettings(access.project), canArchive: can(access, "project.archive") };
 }
 
 const blankToUndefined = (value: unknown) => (value === "" || value === null ? undefined : value);
@@ -52,6 +55,12 @@ const actionSchema = z.discriminatedUnion("intent", [
     confirmLargeGrid: z.literal("yes").optional(),
   }),
   z.object({ intent: z.literal("tolerances"), firmSand: number, firmShare: number, minCoverage: number, overDredgeAllowance: number }),
+  z.object({
+    intent: z.literal("dive-work"),
+    minTeamSize: z.coerce.number({ error: "Enter a whole number" }).int("Enter a whole number"),
+    workDayStart: z.string().trim(),
+    workDayEnd: z.string().trim(),
+  }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
   z.object({
     intent: z.literal("emergency"),
@@ -104,6 +113,13 @@ export async function action({ request, params }: Route.ActionArgs) {
       case "tolerances":
         patch = { tolerances: { firmSand: input.firmSand, firmShare: input.firmShare, minCoverage: input.minCoverage, overDredgeAllowance: input.overDredgeAllowance } };
         break;
+      case "dive-work":
+        // Both times blank clears the working hours; one without the other is named by the service.
+        patch = {
+          minTeamSize: input.minTeamSize,
+          workDay: input.workDayStart === "" && input.workDayEnd === "" ? null : { start: input.workDayStart, end: input.workDayEnd },
+        };
+        break;
       case "finds":
         patch = { finds: { cataloguePrefix: input.cataloguePrefix, holdRadiusM: input.holdRadiusM, holdRadiusSource: input.holdRadiusSource } };
         break;
@@ -140,7 +156,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const checked = projectPatchSchema.safeParse(patch);
     if (!checked.success) return failed(input.intent, fieldErrorsOf(validationErrorFrom(checked.error)));
     const { settings, recomputed } = await updateProjectSettings(project, user, checked.data, { ip });
-    const cells = settings.cellCount === null || input.intent === "emergency" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
+    const cells = settings.cellCount === null || input.intent === "emergency" || input.intent === "dive-work" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
     return answered({ intent: input.intent, errors: {}, notice: `Saved.${cells}${recomputed ? " Every survey's figures were recomputed." : ""}` });
   } catch (error) {
     if (error instanceof DomainError) return failed(input.intent, fieldErrorsOf(error));
@@ -176,15 +192,22 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   const gridErrors = errorsFor("grid");
   const toleranceErrors = errorsFor("tolerances");
   const findsErrors = errorsFor("finds");
+  const diveWorkErrors = errorsFor("dive-work");
   const emergencyErrors = errorsFor("emergency");
   const emergency = settings.emergency;
   const preview = actionData?.preview ?? null;
   const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures.` : "";
 
+  const archived = settings.archivedAt !== null;
+  const lengthUnitRef = useRef<HTMLSelectElement>(null);
+
   return (
     <div className="space-y-6">
       <ActionMessages error={actionData?.errors.form} />
+      {archived ? <p className="rounded border border-line bg-panel px-3 py-2 text-sm">The project is archived: its settings are shown as they were and cannot be changed until a site admin restores it.</p> : null}
 
+      {/* An archived project's forms are shown disabled: the server refuses them anyway (409). */}
+      <fieldset disabled={archived} className="m-0 min-w-0 space-y-6 border-0 p-0">
       <Section id="identity-heading" title="Identity">
         <ActionMessages notice={noticeFor("identity")} />
         <Form method="post" className="grid gap-3 sm:grid-cols-2">
@@ -206,10 +229,14 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
         <ActionMessages notice={noticeFor("coordinates")} />
         <p className="text-sm">Now: <span className="figures">{settings.crs}</span> — {settings.crsName}</p>
         <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-2">
-          <TextField label="Coordinate reference system (EPSG code)" name="crs" defaultValue={settings.crs} required error={coordinateErrors.crs} hint={settings.surveyCount > 0 ? "Fixed once surveys are stored." : "e.g. EPSG:2237; its name is shown once saved."} />
+          <CrsCombobox
+            label="Coordinate reference system (EPSG code)" name="crs" defaultValue={settings.crs} error={coordinateErrors.crs}
+            hint={settings.surveyCount > 0 ? "Fixed once surveys are stored." : "Type a code or words of the name (e.g. Florida East) and choose; the length unit follows."}
+            onPick={(option) => { if (lengthUnitRef.current) lengthUnitRef.current.value = option.lengthUnit; }}
+          />
           <div>
             <label htmlFor="length-unit" className="block text-sm font-medium">Length unit</label>
-            <select id="length-unit" name="lengthUnit" defaultValue={settings.lengthUnit} className={inputClass} aria-invalid={coordinateErrors.lengthUnit ? true : undefined}>
+            <select ref={lengthUnitRef} id="length-unit" name="lengthUnit" defaultValue={settings.lengthUnit} className={inputClass} aria-invalid={coordinateErrors.lengthUnit ? true : undefined}>
               <LengthUnitOptions withVolume />
             </select>
             {coordinateErrors.lengthUnit ? <p className="mt-1 text-sm text-danger">{coordinateErrors.lengthUnit}</p> : null}
@@ -279,6 +306,20 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
         </Form>
       </Section>
 
+      <Section id="dive-work-heading" title="Dive work">
+        <ActionMessages notice={noticeFor("dive-work")} />
+        <p className="text-sm text-muted">
+          The dive plan flags a team listing fewer people than the minimum. Set it, and the working hours, from the project's dive safety plan and the applicable commercial diving standard; they decide.
+          The teams themselves are on the <Link className="underline" to={`/projects/${settings.id}/teams`}>dive teams page</Link>.
+        </p>
+        <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-3" aria-label="Dive work">
+          <TextField label="Minimum team size" name="minTeamSize" type="number" step="1" min="1" max="20" defaultValue={settings.minTeamSize} required error={diveWorkErrors.minTeamSize} hint="3 by default: a diver, a tender and a standby diver (practice)." />
+          <TextField label="Work day starts" name="workDayStart" type="time" defaultValue={settings.workDay?.start ?? ""} error={diveWorkErrors.start ?? diveWorkErrors.workDay} hint={`Local time, ${settings.timeZone}.`} />
+          <TextField label="Work day ends" name="workDayEnd" type="time" defaultValue={settings.workDay?.end ?? ""} error={diveWorkErrors.end} hint="Both blank: no working hours set." />
+          <div className="sm:col-span-3"><SubmitButton intent="dive-work" pendingLabel="Saving…">Save dive work</SubmitButton></div>
+        </Form>
+      </Section>
+
       <Section id="finds-heading" title="Finds and stop-work holds">
         <ActionMessages notice={noticeFor("finds")} />
         <Form method="post" className="grid gap-3 sm:grid-cols-3">
@@ -306,6 +347,19 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           <div className="sm:col-span-2"><SubmitButton intent="emergency" pendingLabel="Saving…">Save emergency information</SubmitButton></div>
         </Form>
       </Section>
+      </fieldset>
+
+      {loaderData.canArchive ? (
+        <Section id="archive-heading" title="Archive">
+          <p className="text-sm">
+            When the work is finished and the closeout is signed, archive the project: it becomes read-only for everyone (nothing can be changed, logged or imported),
+            stays readable and exportable, and is listed apart on the projects page. Only a site admin can restore it.
+          </p>
+          <Form method="post" action={`/projects/${settings.id}/archive`} className="mt-3" onSubmit={(event) => { if (!window.confirm(`Archive ${settings.name}? It becomes read-only for everyone until a site admin restores it.`)) event.preventDefault(); }}>
+            <button type="submit" className="rounded bg-danger px-4 py-2 font-medium text-white hover:opacity-90 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-lagoon">Archive this project</button>
+          </Form>
+        </Section>
+      ) : null}
     </div>
   );
 }

@@ -1,10 +1,11 @@
-import { Link, Outlet, useLocation, useMatches } from "react-router";
-import { can } from "~/lib/auth/permissions";
+import { Form, Link, Outlet, useLocation, useMatches } from "react-router";
+import { can, roleAllows } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { roleLabel } from "~/lib/auth/roles";
 import { StopWorkBanner } from "~/components/stop-work-banner";
 import { currentStoppages } from "~/models/stoppages.server";
 import { heldCellLabels } from "~/models/holds.server";
+import { archiveStateOf } from "~/models/project-archive.server";
 import type { Route } from "./+types/projects.$projectId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -14,12 +15,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     project: { id: project.id, name: project.name },
     roleLabel: roleLabel(role),
-    canManageMembers: can(access, "members.manage"),
+    // The tabs follow the role alone: an archived project's members, settings and links stay readable.
+    canManageMembers: roleAllows(access, "members.manage"),
     canReadAudit: can(access, "audit.read"),
-    canConfigure: can(access, "project.configure"),
+    canConfigure: roleAllows(access, "project.configure"),
     canReadReports: can(access, "reports.read"),
     canReadQuantities: can(access, "quantities.read"),
-    canShare: can(access, "share-links.manage"),
+    canShare: roleAllows(access, "share-links.manage"),
+    // An archived project says so on every page; a site admin can restore it from the banner.
+    archive: await archiveStateOf(project),
+    canRestore: can(access, "project.restore"),
     // Open stop-work events and stand-downs show on every project page.
     stoppages: await currentStoppages(project),
     canReadFinds,
@@ -44,7 +49,7 @@ function projectTabs(data: Route.ComponentProps["loaderData"]): ProjectTab[] {
     { label: "Overview", path: "" },
     { label: "Map", path: "/map" },
     { label: "Surveys", path: "/surveys" },
-    { label: "Dive plans", path: "/plans" },
+    { label: "Dive plans", path: "/plans", also: ["/teams"] },
     data.canReadQuantities && { label: "Quantities", path: "/quantities" },
     { label: "Dewatering", path: "/dewatering" },
     { label: "Water quality", path: "/water-quality" },
@@ -72,6 +77,23 @@ function useWorkspace(): boolean {
   return useMatches().some((match) => (match.handle as { workspace?: boolean } | undefined)?.workspace === true);
 }
 
+/** Every page of an archived project: since when, by whom, and that nothing can be changed. */
+function ArchivedBanner({ projectId, archivedAt, archivedBy, canRestore }: { projectId: number; archivedAt: string | null; archivedBy: string | null; canRestore: boolean }) {
+  return (
+    <section aria-label="Archived project" className="mt-3 flex flex-wrap items-center justify-between gap-3 rounded border border-line bg-paper px-3 py-2 text-sm print:border-0" data-testid="archived-banner">
+      <p>
+        <strong>Archived</strong> since <time className="figures whitespace-nowrap" dateTime={archivedAt ?? undefined}>{archivedAt?.slice(0, 10)}</time>{archivedBy ? <> by {archivedBy}</> : null}.
+        {" "}This project is read-only: everything can be read and exported, nothing can be changed.{canRestore ? "" : " A site admin can restore it."}
+      </p>
+      {canRestore ? (
+        <Form method="post" action={`/projects/${projectId}/restore`} onSubmit={(event) => { if (!window.confirm("Restore this project? Its members can change its records again.")) event.preventDefault(); }}>
+          <button type="submit" className="rounded border border-line bg-panel px-3 py-1 font-medium hover:bg-paper focus-visible:outline-2 focus-visible:outline-lagoon">Restore project</button>
+        </Form>
+      ) : null}
+    </section>
+  );
+}
+
 export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
   const base = `/projects/${loaderData.project.id}`;
   const rest = useLocation().pathname.slice(base.length);
@@ -88,6 +110,7 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
           );
         })}
       </nav>
+      {loaderData.archive.archivedAt ? <ArchivedBanner projectId={loaderData.project.id} {...loaderData.archive} canRestore={loaderData.canRestore} /> : null}
       <StopWorkBanner projectId={loaderData.project.id} {...loaderData.stoppages} />
       {loaderData.heldCellCount > 0 ? (
         <p className="mt-3 rounded border border-danger bg-panel px-3 py-2 text-sm text-danger" data-testid="hold-banner">

@@ -1,4 +1,6 @@
+import { useRef } from "react";
 import { Form, Link, data, redirect } from "react-router";
+import { CrsCombobox } from "~/components/crs-combobox";
 import { z } from "zod";
 import { defaultsFor, lengthUnitSchema } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
@@ -28,6 +30,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       name: project.name,
       description: project.description,
       role: roleLabel(project.role),
+      archivedAt: project.archivedAt,
     })),
     canCreate: canCreateProjects(user),
   };
@@ -84,6 +87,7 @@ export function meta({}: Route.MetaArgs) {
 const inputClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py-2 focus:outline-2 focus:outline-offset-1 focus:outline-lagoon aria-invalid:border-danger";
 
 function NewProjectForm({ errors }: { errors: FieldErrors }) {
+  const lengthUnitRef = useRef<HTMLSelectElement>(null);
   return (
     <section aria-labelledby="new-project" className="mt-8 rounded border border-line bg-panel p-4">
       <h2 id="new-project" className="text-lg font-semibold">New project</h2>
@@ -91,10 +95,14 @@ function NewProjectForm({ errors }: { errors: FieldErrors }) {
       <ActionMessages error={errors.form} />
       <Form method="post" encType="multipart/form-data" className="mt-3 grid gap-3 sm:grid-cols-2">
         <TextField label="Project name" name="name" required maxLength={200} error={errors.name} />
-        <TextField label="Coordinate reference system (EPSG code)" name="crs" required placeholder="EPSG:2237" error={errors.crs} />
+        <CrsCombobox
+          label="Coordinate reference system (EPSG code)" name="crs" error={errors.crs}
+          hint="Type a code or words of the name (e.g. Florida East) and choose; the length unit follows."
+          onPick={(option) => { if (lengthUnitRef.current) lengthUnitRef.current.value = option.lengthUnit; }}
+        />
         <div>
           <label htmlFor="new-length-unit" className="block text-sm font-medium">Length unit</label>
-          <select id="new-length-unit" name="lengthUnit" className={inputClass} aria-invalid={errors.lengthUnit ? true : undefined}>
+          <select ref={lengthUnitRef} id="new-length-unit" name="lengthUnit" className={inputClass} aria-invalid={errors.lengthUnit ? true : undefined}>
             <LengthUnitOptions />
           </select>
           {errors.lengthUnit ? <p className="mt-1 text-sm text-danger">{errors.lengthUnit}</p> : null}
@@ -112,26 +120,48 @@ function NewProjectForm({ errors }: { errors: FieldErrors }) {
   );
 }
 
+type ProjectRow = Route.ComponentProps["loaderData"]["projects"][number];
+
+function ProjectList({ projects }: { projects: ProjectRow[] }) {
+  return (
+    <ul className="space-y-3">
+      {projects.map((project) => (
+        <li key={project.id} className="rounded border border-line bg-panel p-4">
+          <Link to={`/projects/${project.id}`} className="text-lg font-medium text-lagoon underline-offset-2 hover:underline focus-visible:outline-2 focus-visible:outline-lagoon">
+            {project.name}
+          </Link>
+          <p className="mt-1 text-sm text-muted">{project.description}</p>
+          <p className="mt-1 text-sm">
+            Your role: {project.role}
+            {project.archivedAt ? <> · archived <time className="figures whitespace-nowrap" dateTime={project.archivedAt}>{project.archivedAt.slice(0, 10)}</time>, read-only</> : null}
+          </p>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
 export default function Projects({ loaderData, actionData }: Route.ComponentProps) {
+  const open = loaderData.projects.filter((project) => project.archivedAt === null);
+  const archived = loaderData.projects.filter((project) => project.archivedAt !== null);
   return (
     <Page title="Your projects" wide>
       {loaderData.projects.length === 0 ? (
         <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">
           You are not a member of any project yet. A project manager can invite you by e-mail.
         </p>
+      ) : open.length === 0 ? (
+        <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">No open projects: every project you belong to is archived.</p>
       ) : (
-        <ul className="space-y-3">
-          {loaderData.projects.map((project) => (
-            <li key={project.id} className="rounded border border-line bg-panel p-4">
-              <Link to={`/projects/${project.id}`} className="text-lg font-medium text-lagoon underline-offset-2 hover:underline focus-visible:outline-2 focus-visible:outline-lagoon">
-                {project.name}
-              </Link>
-              <p className="mt-1 text-sm text-muted">{project.description}</p>
-              <p className="mt-1 text-sm">Your role: {project.role}</p>
-            </li>
-          ))}
-        </ul>
+        <ProjectList projects={open} />
       )}
+      {archived.length > 0 ? (
+        <section aria-labelledby="archived-projects" className="mt-8">
+          <h2 id="archived-projects" className="text-lg font-semibold">Archived</h2>
+          <p className="mt-1 text-sm text-muted">Finished projects: read-only, still readable and exportable.</p>
+          <div className="mt-3"><ProjectList projects={archived} /></div>
+        </section>
+      ) : null}
       {loaderData.canCreate ? <NewProjectForm errors={actionData?.errors ?? {}} /> : null}
     </Page>
   );

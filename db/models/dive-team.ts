@@ -6,8 +6,10 @@ import type { Project } from "./project";
 export interface DiveTeamMember {
   name: string;
   email: string;
-  /** What the person does on the team (diver, tender, standby diver...). */
+  /** What the person does on the team (diver, tender, standby diver...); empty when not said. */
   duty: string;
+  /** The project member this is, when the person has an account (named crew have none). */
+  userId?: number;
 }
 
 /** A project's dive team: its people (who get the plan sheet by e-mail) and the hoses it runs. */
@@ -20,6 +22,8 @@ export class DiveTeam extends Model<InferAttributes<DiveTeam>, InferCreationAttr
   declare hoses: string[];
   declare members: DiveTeamMember[];
   declare sortOrder: CreationOptional<number>;
+  /** When the team was retired (it has records, so it was not deleted); null: in service. */
+  declare retiredAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -31,8 +35,9 @@ export function initDiveTeam(sequelize: Sequelize) {
       name: { type: DataTypes.STRING(120), allowNull: false },
       station: { type: DataTypes.STRING(200), allowNull: false, defaultValue: "" },
       hoses: jsonColumn("dive_teams", "hoses", z.array(z.string())),
-      members: jsonColumn("dive_teams", "members", z.array(z.object({ name: z.string(), email: z.string(), duty: z.string() }))),
+      members: jsonColumn("dive_teams", "members", z.array(z.object({ name: z.string(), email: z.string(), duty: z.string(), userId: z.number().int().optional() }))),
       sortOrder: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      retiredAt: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

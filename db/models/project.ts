@@ -58,6 +58,12 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   declare holdRadiusSource: CreationOptional<string>;
   /** Nearest hospital and hyperbaric chamber with phones, emergency services, site address and access point; null: none set. */
   declare emergencyInfo: CreationOptional<EmergencyInfo | null>;
+  /** The working hours, local "HH:MM" in the project's time zone; null: not set. */
+  declare workDayStart: CreationOptional<string | null>;
+  declare workDayEnd: CreationOptional<string | null>;
+  /** When the project was archived (read-only from then on) and by whom; null: open. */
+  declare archivedAt: CreationOptional<Date | null>;
+  declare archivedById: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -96,6 +102,10 @@ export function initProject(sequelize: Sequelize) {
       holdRadiusM: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: DEFAULT_HOLD_RADIUS_M },
       holdRadiusSource: { type: DataTypes.STRING(500), allowNull: false, defaultValue: DEFAULT_HOLD_RADIUS_SOURCE },
       emergencyInfo: jsonColumn("projects", "emergencyInfo", emergencyInfoSchema, { allowNull: true }),
+      workDayStart: { type: DataTypes.STRING(5), allowNull: true },
+      workDayEnd: { type: DataTypes.STRING(5), allowNull: true },
+      archivedAt: { type: DataTypes.DATE, allowNull: true },
+      archivedById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

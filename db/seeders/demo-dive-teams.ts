@@ -1,5 +1,5 @@
 import { DIVE_TEAMS, PROJECT } from "../../sample-data/scenario";
-import { DiveTeam, Project, initModels, type DiveTeamMember } from "../models";
+import { DiveTeam, Project, User, initModels, type DiveTeamMember } from "../models";
 
 /**
  * The demo project's dive teams (sample-data/scenario.ts) with invented crews. Team Gar is one
@@ -17,20 +17,23 @@ const CREWS: Record<string, DiveTeamMember[]> = {
   ],
 };
 
-/** Adds the demo dive teams when the demo project has none. Running it again changes nothing. */
+/**
+ * Adds the demo dive teams when the demo project has none, through the teams service as the dive
+ * supervisor would. Running it again changes nothing.
+ */
 export async function seedDemoDiveTeams(): Promise<"seeded" | "skipped"> {
   initModels();
   const project = await Project.findOne({ where: { slug: PROJECT.slug } });
-  if (!project || (await DiveTeam.count({ where: { projectId: project.id } })) > 0) return "skipped";
-  for (const [index, team] of DIVE_TEAMS.entries()) {
-    await DiveTeam.create({
-      projectId: project.id,
-      name: team.name,
-      station: team.station,
-      hoses: team.hoses.map((hose) => hose.name),
-      members: CREWS[team.name] ?? [],
-      sortOrder: index + 1,
-    });
+  const supervisor = await User.findOne({ where: { email: "divesup@example.org" } });
+  if (!project || !supervisor || (await DiveTeam.count({ where: { projectId: project.id } })) > 0) return "skipped";
+  // Imported lazily: they pull in the app's modules.
+  const { createDiveTeam, teamInputSchema } = await import("../../app/models/dive-teams.server");
+  const { presentProject } = await import("../../app/lib/auth/project-view.server");
+  const { presentUser } = await import("../../app/lib/auth/users.server");
+  const view = presentProject(project);
+  for (const team of DIVE_TEAMS) {
+    const input = teamInputSchema.parse({ name: team.name, station: team.station, hoses: team.hoses.map((hose) => hose.name), members: CREWS[team.name] ?? [] });
+    await createDiveTeam(view, presentUser(supervisor), input);
   }
   return "seeded";
 }

@@ -52,10 +52,14 @@ const MATRIX: Row[] = [
   // Accounts: the site admin only ({} names no change: 422 before the id is looked up).
   row("GET", "api/admin/users", "/api/admin/users", "403 403 403 403 403 403 403 200 401"),
   row("PATCH", "api/admin/users/:userId", "/api/admin/users/999999999", "403 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // The EPSG search of the CRS fields: anyone signed in.
+  row("GET", "api/crs", "/api/crs?q=florida%20east", "200 200 200 200 200 200 200 200 401"),
   // Creating a project: a site admin (or a user allowed to); none of the demo's other accounts is.
   row("POST", "api/projects", "/api/projects", "403 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId", "/api/projects/{project}", "200 403 403 403 403 403 403 200 401"),
   row("PATCH", "api/projects/:projectId", "/api/projects/{project}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // Archiving (the manager; no body) is only tried on a project that does not exist here: the demo must stay open.
+  row("POST", "api/projects/:projectId/archive", "/api/projects/999999999/archive", "404 404 404 404 404 404 404 404 401"),
   row("GET", "api/projects/:projectId/assignments", `/api/projects/{project}/assignments?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/assignments", "/api/projects/{project}/assignments", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/bands", "/api/projects/{project}/bands?surface=remaining", "200 200 200 200 200 200 200 200 401"),
@@ -107,6 +111,8 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/quantities.csv", "/api/projects/{project}/quantities.csv", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/quantities.geojson", "/api/projects/{project}/quantities.geojson", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/reconciliation", "/api/projects/{project}/reconciliation", "200 200 200 200 200 200 200 200 401"),
+  // Restoring: a site admin only; the demo project is open, so the admin's answer is 409.
+  row("POST", "api/projects/:projectId/restore", "/api/projects/{project}/restore", "403 403 403 403 403 403 403 409 401"),
   row("GET", "api/projects/:projectId/sediment-samples", "/api/projects/{project}/sediment-samples", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/sediment-samples", "/api/projects/{project}/sediment-samples", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/share-links", "/api/projects/{project}/share-links", "200 403 403 403 403 200 403 200 401"),
@@ -122,6 +128,12 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "200 200 200 200 200 200 200 200 401"),
   row("DELETE", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("PATCH", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  // Dive teams: every member reads them; the manager and the dive supervisor set them up ({} and unknown ids: 422 or 404).
+  row("GET", "api/projects/:projectId/teams", "/api/projects/{project}/teams", "200 200 200 200 200 200 200 200 401"),
+  row("POST", "api/projects/:projectId/teams", "/api/projects/{project}/teams", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/teams/:teamId", "/api/projects/{project}/teams/999999999", "404 404 404 404 404 404 404 404 401"),
+  row("PATCH", "api/projects/:projectId/teams/:teamId", "/api/projects/{project}/teams/999999999", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  row("DELETE", "api/projects/:projectId/teams/:teamId", "/api/projects/{project}/teams/999999999", "404 403 404 403 403 403 403 404 401"),
   // Water quality: readings by the manager, the dewatering operator and the resource monitor; stations and rules by the manager.
   row("GET", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "422 403 403 422 422 403 403 422 401", EMPTY_JSON),
@@ -151,6 +163,9 @@ const MATRIX: Row[] = [
 
   // A project's pages (the layout and its index share the project's URL).
   row("GET", "projects/:projectId", "/projects/{project}", "200 200 200 200 200 200 200 200 login"),
+  // Archiving is only tried on a project that does not exist here (the demo must stay open); a GET goes to the settings page.
+  row("GET", "projects/:projectId/archive", "/projects/999999999/archive", "302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings|302 /projects/999999999/settings"),
+  row("POST", "projects/:projectId/archive", "/projects/999999999/archive", "404 404 404 404 404 404 404 404 login", { form: {} }),
   row("GET", "projects/:projectId/audit", "/projects/{project}/audit", "200 403 403 403 403 403 403 200 login"),
   row("GET", "projects/:projectId/days", "/projects/{project}/days", "200 200 200 200 200 403 200 200 login"),
   row("GET", "projects/:projectId/days/:date", `/projects/{project}/days/${PLAN_DATE}`, "200 200 200 200 200 403 200 200 login"),
@@ -186,6 +201,9 @@ const MATRIX: Row[] = [
   row("POST", "projects/:projectId/settings", "/projects/{project}/settings", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/share", "/projects/{project}/share", "200 403 403 403 403 200 403 200 login"),
   row("POST", "projects/:projectId/share", "/projects/{project}/share", "400 403 403 403 403 400 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/restore", "/projects/999999999/restore", "302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999"),
+  // Restoring: a site admin only; the demo project is open, so the admin's answer is 409.
+  row("POST", "projects/:projectId/restore", "/projects/{project}/restore", "403 403 403 403 403 403 403 409 login", { form: {} }),
   row("GET", "projects/:projectId/surveys", "/projects/{project}/surveys", "200 200 200 200 200 200 200 200 login"),
   row("GET", "projects/:projectId/surveys/:surveyId", "/projects/{project}/surveys/{survey}", "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/surveys/:surveyId", "/projects/{project}/surveys/{survey}", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
@@ -195,6 +213,8 @@ const MATRIX: Row[] = [
   // A form that is not multipart, so no file: refused with 400 for those who may upload.
   row("POST", "projects/:projectId/surveys/new", "/projects/{project}/surveys/new", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
   // Water quality: every member reads it; a bogus form is 400 for a role that may record something there, 403 for one that may not.
+  row("GET", "projects/:projectId/teams", "/projects/{project}/teams", "200 200 200 200 200 200 200 200 login"),
+  row("POST", "projects/:projectId/teams", "/projects/{project}/teams", "400 403 400 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/water-quality", "/projects/{project}/water-quality", "200 200 200 200 200 200 200 200 login"),
   row("POST", "projects/:projectId/water-quality", "/projects/{project}/water-quality", "400 403 400 400 400 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/water-quality/compliance", "/projects/{project}/water-quality/compliance", "200 200 200 200 200 200 200 200 login"),

@@ -68,6 +68,7 @@ const PAGES: PageRow[] = [
   // Its address comes from an upload made in the test (see below).
   { route: "projects/:projectId/surveys/imports/:jobId", url: () => "", as: "surveyor" },
   { route: "projects/:projectId/surveys/new", url: (ids) => `/projects/${ids.project}/surveys/new`, as: "surveyor" },
+  { route: "projects/:projectId/teams", url: (ids) => `/projects/${ids.project}/teams`, as: "dive-supervisor" },
   { route: "projects/:projectId/water-quality", url: (ids) => `/projects/${ids.project}/water-quality`, as: "resource-monitor" },
   { route: "projects/:projectId/water-quality/compliance", url: (ids) => `/projects/${ids.project}/water-quality/compliance`, as: "manager" },
   { route: "projects/:projectId/water-quality/setup", url: (ids) => `/projects/${ids.project}/water-quality/setup`, as: "manager" },

@@ -54,6 +54,7 @@ let findId: number;
 let holdId: number;
 let jarTestId: number;
 let haulId: number;
+let teamId: number;
 const projectParams = () => ({ projectId: String(site.project.id) });
 const base = () => `/api/projects/${site.project.id}`;
 
@@ -68,13 +69,20 @@ const base = () => `/api/projects/${site.project.id}`;
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
 // TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
-// SignInSession, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
+// SignInSession, AuditEvent; dive teams → DiveTeam, AuditEvent; archive and restore → Project, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
 // the object store and the staging directory; its custody → FindCustody, Find; its status → Find, AuditEvent; a hold's lift →
 // Hold, AuditEvent; a day's report signed or amended → DailyReport, DailyReportAmendment, AuditEvent; a signed pay period → PayPeriodReport, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
   { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
   { route: "api/projects/:projectId", method: "PATCH", url: () => base(), params: projectParams },
+  // Archiving takes no body: the empty ones go to a project that does not exist, so they cannot archive this one.
+  {
+    route: "api/projects/:projectId/archive", method: "POST", url: () => `${base()}/archive`, params: projectParams,
+    urlForEmptyBody: () => "/api/projects/999999999/archive", paramsForEmptyBody: () => ({ projectId: "999999999" }),
+  },
+  // Restoring an open project is a 409 whatever the body (the site admin's).
+  { route: "api/projects/:projectId/restore", method: "POST", url: () => `${base()}/restore`, params: projectParams, token: () => adminToken },
   { route: "api/projects/:projectId/assignments", method: "POST", url: () => `${base()}/assignments`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/jar-tests", method: "POST", url: () => `${base()}/dewatering/jar-tests`, params: projectParams },
   { route: "api/projects/:projectId/dewatering/jar-tests/:jarTestId/photos", method: "POST", url: () => `${base()}/dewatering/jar-tests/${jarTestId}/photos`, params: () => ({ ...projectParams(), jarTestId: String(jarTestId) }) },
@@ -104,6 +112,13 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/surveys", method: "POST", url: () => `${base()}/surveys`, params: projectParams },
   { route: "api/projects/:projectId/surveys/:surveyId", method: "DELETE", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
   { route: "api/projects/:projectId/surveys/:surveyId", method: "PATCH", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
+  { route: "api/projects/:projectId/teams", method: "POST", url: () => `${base()}/teams`, params: projectParams },
+  { route: "api/projects/:projectId/teams/:teamId", method: "PATCH", url: () => `${base()}/teams/${teamId}`, params: () => ({ ...projectParams(), teamId: String(teamId) }) },
+  {
+    route: "api/projects/:projectId/teams/:teamId", method: "DELETE",
+    url: () => `${base()}/teams/${teamId}`, params: () => ({ ...projectParams(), teamId: String(teamId) }),
+    urlForEmptyBody: () => `${base()}/teams/999999999`, paramsForEmptyBody: () => ({ ...projectParams(), teamId: "999999999" }),
+  },
   { route: "api/projects/:projectId/water-quality/stations", method: "POST", url: () => `${base()}/water-quality/stations`, params: projectParams },
   { route: "api/projects/:projectId/water-quality/rules", method: "POST", url: () => `${base()}/water-quality/rules`, params: projectParams },
   { route: "api/projects/:projectId/water-quality/readings", method: "POST", url: () => `${base()}/water-quality/readings`, params: projectParams },
@@ -119,6 +134,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/pay-periods", method: "POST", url: () => `${base()}/pay-periods`, params: projectParams },
   // GET-only routes: their action answers 405 to every body.
   { route: "api/admin/users", method: "POST", url: () => "/api/admin/users", params: () => ({}), token: () => adminToken },
+  { route: "api/crs", method: "POST", url: () => "/api/crs", params: () => ({}) },
   { route: "api/projects/:projectId/bands", method: "POST", url: () => `${base()}/bands`, params: projectParams },
   { route: "api/projects/:projectId/cells", method: "POST", url: () => `${base()}/cells`, params: projectParams },
   { route: "api/projects/:projectId/cells/:label", method: "POST", url: () => `${base()}/cells/B7`, params: () => ({ ...projectParams(), label: "B7" }) },
@@ -207,6 +223,7 @@ async function snapshot() {
   return {
     assignments: await Assignment.count({ where: { projectId } }),
     dives: await Dive.count({ where: { projectId } }),
+    diveTeams: JSON.stringify(await DiveTeam.findAll({ where: { projectId }, raw: true, order: [["id", "ASC"]] })),
     diveCells: await DiveCell.count({ where: { projectId } }),
     dewateringShifts: await DewateringShift.count({ where: { projectId } }),
     dailyReports: JSON.stringify(await DailyReport.findAll({ where: { projectId }, raw: true })),
@@ -273,7 +290,7 @@ beforeAll(async () => {
     projectId: site.project.id, testDate: "2026-09-10", testTime: null, sampleSource: "", polymerProduct: "CE-412", polymerLot: null, benchStockPercent: 0.1, jarVolumeMl: 1000,
     rawTurbidityNtu: null, jars: [{ doseMgPerL: 4, settlingMinutes: 10, turbidityNtu: null, clarity: "clear" }], chosenDoseMgPerL: 4, notes: "", idempotencyKey: null, recordedById: null,
   })).id;
-  await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] });
+  teamId = (await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] })).id;
   const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
   const stored = await postSurvey(site.project.id, site.tokens.manager, { path: join(DEMO_DIR, baseline.fileName) }, {
     kind: baseline.kind, surveyedOn: baseline.surveyedOn, waterSurfaceElevation: String(baseline.waterSurfaceElevationFt), timeZone: PROJECT.timeZone, datum: PROJECT.verticalDatum,

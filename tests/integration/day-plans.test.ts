@@ -78,7 +78,7 @@ describe("listDayPlans", () => {
 describe("the e-mailed plan sheet", () => {
   const plan = (): DayPlanView => ({
     date: "2026-11-10", lengthLabel: "ftUS", volumeLabel: "yd³", minTeamSize: 2, caution: "Information only.", source: "the table",
-    teams: [{ team: { id: 1, name: "Team Heron", station: "", hoses: ["Hose A"], members: [], belowMinimum: false }, cells: [], remainingVolume: 0 }],
+    teams: [{ team: { id: 1, name: "Team Heron", station: "", hoses: ["Hose A"], members: [], belowMinimum: false, retiredAt: null }, cells: [], remainingVolume: 0 }],
   });
 
   it("carries the emergency information, naming what is missing", () => {

@@ -53,6 +53,8 @@ const ROUTES: PageRoute[] = [
   // Signing out reads no body at all.
   { route: "logout", url: () => "/logout", params: () => ({}), as: "manager", limitBytes: null },
   { route: "projects", url: () => "/projects", params: () => ({}), as: "site-admin", limitBytes: WORK_LIMIT_MAX_BYTES + FIELDS_ALLOWANCE },
+  // Archiving reads its (empty) form within the page limit, so an oversized body is refused before anything changes.
+  { route: "projects/:projectId/archive", url: () => `${base()}/archive`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/dewatering", url: () => `${base()}/dewatering`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/dewatering/hauls", url: () => `${base()}/dewatering/hauls`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   // Its multipart form (the test and its photo) stages the photo under PHOTO_MAX_BYTES, as the finds' photo form does.
@@ -68,6 +70,8 @@ const ROUTES: PageRoute[] = [
   { route: "projects/:projectId/plans/:date", url: () => `${base()}/plans/2031-05-06`, params: () => ({ ...project(), date: "2031-05-06" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/quantities", url: () => `${base()}/quantities`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/settings", url: () => `${base()}/settings`, params: project, as: "manager", limitBytes: WORK_LIMIT_MAX_BYTES + FIELDS_ALLOWANCE },
+  // Restoring an open project is refused (409) before its form is read.
+  { route: "projects/:projectId/restore", url: () => `${base()}/restore`, params: project, as: "site-admin", limitBytes: null },
   { route: "projects/:projectId/share", url: () => `${base()}/share`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/surveys/:surveyId", url: () => `${base()}/surveys/999999`, params: () => ({ ...project(), surveyId: "999999" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },
   // An unknown import job is refused (404) before its form is read.
@@ -75,6 +79,7 @@ const ROUTES: PageRoute[] = [
   // Survey files stream to disk under UPLOAD_MAX_BYTES (200 MB by default; the import tests cut a chunked one off).
   { route: "projects/:projectId/surveys/new", url: () => `${base()}/surveys/new`, params: project, as: "manager", limitBytes: UPLOAD_LIMIT_BYTES, declaredOnly: true, contentType: MULTIPART },
   { route: "projects/:projectId/surveys/upload", url: () => `${base()}/surveys/upload`, params: project, as: "manager", limitBytes: UPLOAD_LIMIT_BYTES, declaredOnly: true, contentType: MULTIPART },
+  { route: "projects/:projectId/teams", url: () => `${base()}/teams`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/water-quality", url: () => `${base()}/water-quality`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/water-quality/setup", url: () => `${base()}/water-quality/setup`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "reset-password/:token", url: () => "/reset-password/no-such-token", params: () => ({ token: "no-such-token" }), as: "signed-out", limitBytes: FORM_LIMIT_BYTES },

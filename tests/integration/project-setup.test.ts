@@ -129,6 +129,18 @@ describe("POST /api/projects", () => {
     expect(((await empty.json()) as { errors: unknown[] }).errors).toContainEqual({ field: "workLimit", message: "The work limit is empty: it holds no polygon." });
   });
 
+  it("refuses a work limit outside its CRS's area of use, naming the vertex and the area (published: EPSG:2237 covers 26.27–29.6°N, 83.34–81.13°W)", async () => {
+    // The same outline moved 15° west (to Texas) while the CRS stays Florida West.
+    const moved = { type: "Polygon", coordinates: WORK_LIMIT.coordinates.map((ring) => ring.map(([lon, lat]) => [lon - 15, lat])) };
+    const response = await send("POST", adminToken, springInput({ name: "Wrong place", workLimit: moved }));
+    expect(response.status).toBe(422);
+    const errors = ((await response.json()) as { errors: Array<{ field: string; message: string }> }).errors;
+    expect(errors).toContainEqual({
+      field: "workLimit",
+      message: expect.stringMatching(/^The work limit polygon 1, ring 1, vertex 1 read as lon\/lat, lies at 28\.\d{4}, -97\.\d{4}, outside the area EPSG:2237 \(NAD83 \/ Florida West \(ftUS\)\) is made for \(26\.27°N to 29\.60°N, 83\.34°W to 81\.13°W\)\./),
+    });
+  });
+
   it("names each bad field at once", async () => {
     // The body's shape first (zod), then the settings against each other (the service).
     const shape = await send("POST", adminToken, springInput({ timeZone: "Mars/Olympus", grid: { cellSize: -5 }, lengthUnit: "furlong" }));

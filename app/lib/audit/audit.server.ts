@@ -69,6 +69,13 @@ export const AUDIT_ACTIONS = {
   dailyReportNotesEntered: "daily-report-notes-entered",
   dailyReportSigned: "daily-report-signed",
   dailyReportAmended: "daily-report-amended",
+  teamCreated: "team-created",
+  teamChanged: "team-changed",
+  teamRetired: "team-retired",
+  teamReturned: "team-returned",
+  teamDeleted: "team-deleted",
+  projectArchived: "project-archived",
+  projectRestored: "project-restored",
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];
 

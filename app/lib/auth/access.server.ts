@@ -1,7 +1,7 @@
 import { redirect } from "react-router";
 import { Membership, type Role } from "~/lib/db.server";
-import { ForbiddenError, NotFoundError, NotSignedInError } from "~/lib/errors";
-import { can, type Access, type Action } from "~/lib/auth/permissions";
+import { ArchivedProjectError, ConflictError, ForbiddenError, NotFoundError, NotSignedInError } from "~/lib/errors";
+import { can, refusedByProjectState, roleAllows, type Access, type Action } from "~/lib/auth/permissions";
 import { findProject, presentProject, type ProjectView } from "~/lib/auth/project-view.server";
 import { getUserView, type UserView } from "~/lib/auth/users.server";
 import { apiErrorResponse } from "../api/errors.server";
@@ -94,15 +94,41 @@ export async function projectAccess(request: Request, projectId: string | number
   });
   if (!found) throw new NotFoundError("There is no such project.");
   // A fresh object per call: a caller may keep or change its own view of the project.
-  const access: ProjectAccess = { role: found.role, isSiteAdmin: user.isSiteAdmin, user, project: { ...found.project } };
-  assertAllowed(access, action, refused);
+  const access: ProjectAccess = { role: found.role, isSiteAdmin: user.isSiteAdmin, archived: found.project.archivedAt !== null, user, project: { ...found.project } };
+  // An archived project is read-only: a request that may change something (any method but GET,
+  // HEAD and OPTIONS) is refused here, for every page action and API route at once, unless it
+  // restores the project. Reading requests are checked against the role alone, so a page whose
+  // controls change things still opens (read-only) and a loader's `can` hides those controls.
+  if (READING_METHODS.has(request.method.toUpperCase())) {
+    if (!roleAllows(access, action)) assertAllowed(access, action, refused);
+  } else {
+    assertAllowed(access, action, refused);
+    // Even under a reading action (a page whose action checks its intent's permission later).
+    if (access.archived && action !== "project.restore") throw archivedRefusal(access);
+  }
   return access;
 }
 
-/** A ForbiddenError unless the table allows `action` (for a request whose permission depends on what it asks). */
+/**
+ * A ForbiddenError unless the table allows `action` (for a request whose permission depends on
+ * what it asks); an ArchivedProjectError (409) when the role allows it but the project's state
+ * does not (an archived project, or restoring an open one).
+ */
 export function assertAllowed(access: ProjectAccess, action: Action, refused = "page"): void {
   if (can(access, action)) return;
+  if (roleAllows(access, action) && refusedByProjectState(access, action)) {
+    if (action === "project.restore") throw new ConflictError("This project is not archived; there is nothing to restore.");
+    throw archivedRefusal(access);
+  }
   throw new ForbiddenError(access.role === null && !access.isSiteAdmin ? "You are not a member of this project." : `Your role on this project does not allow this ${refused}.`);
+}
+
+function archivedRefusal(access: ProjectAccess): ArchivedProjectError {
+  const day = access.project.archivedAt?.slice(0, 10) ?? "";
+  return new ArchivedProjectError(
+    { message: `${access.project.name} was archived on ${day} and is read-only: nothing in it can be changed. A site admin can restore it.` },
+    { code: "project-archived", archivedAt: access.project.archivedAt },
+  );
 }
 
 // ——— Pages.
@@ -122,6 +148,7 @@ function pageRefusal(request: Request, error: unknown): unknown {
 }
 
 function refusedPage(error: unknown): unknown {
+  if (error instanceof ConflictError) return new Response(error.message, { status: 409, statusText: "Conflict" });
   if (error instanceof ForbiddenError) return new Response(error.message, { status: 403, statusText: "Forbidden" });
   if (error instanceof NotFoundError) return new Response(error.message, { status: 404, statusText: "Not Found" });
   return error;

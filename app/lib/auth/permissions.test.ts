@@ -5,9 +5,9 @@ import { ROLES, type Role } from "./roles";
 // The expected table, written out by hand from the product's roles (DESIGN.md, "Who uses it"), not
 // generated from PERMISSIONS: a wrong entry in the table fails here.
 const EXPECTED: Record<Role, Action[]> = {
-  manager: ["project.read", "quantities.read", "quantities.sign", "members.manage", "audit.read", "project.configure", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "dewatering.log", "samples.record", "water-quality.record", "water-quality.configure", "stop-work.resume", "wildlife.record", "share-links.manage", "finds.read", "finds.log", "finds.locations.read", "holds.lift", "reports.read", "reports.sign"],
+  manager: ["project.read", "quantities.read", "quantities.sign", "members.manage", "audit.read", "project.configure", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "dewatering.log", "samples.record", "water-quality.record", "water-quality.configure", "stop-work.resume", "wildlife.record", "share-links.manage", "finds.read", "finds.log", "finds.locations.read", "holds.lift", "reports.read", "reports.sign", "teams.manage", "project.archive"],
   surveyor: ["project.read", "quantities.read", "surveys.import", "finds.read", "reports.read"],
-  "dive-supervisor": ["project.read", "quantities.read", "plans.assign", "dives.log", "wildlife.record", "finds.read", "reports.read", "reports.sign"],
+  "dive-supervisor": ["project.read", "quantities.read", "plans.assign", "dives.log", "wildlife.record", "finds.read", "reports.read", "reports.sign", "teams.manage"],
   dewatering: ["project.read", "dewatering.log", "water-quality.record", "wildlife.record", "finds.read", "reports.read"],
   // Finds (DESIGN.md): the monitor logs them; locations for monitor, manager and site admin only.
   "resource-monitor": ["project.read", "samples.record", "water-quality.record", "stop-work.resume", "wildlife.record", "finds.read", "finds.log", "finds.locations.read", "holds.lift", "reports.read"],
@@ -23,13 +23,33 @@ describe("the permission table", () => {
     }
   });
 
-  it("lets a site admin do everything, member or not", () => {
-    expect(allowedActions({ role: null, isSiteAdmin: true })).toEqual(ACTIONS);
+  it("lets a site admin do everything, member or not (restoring only what is archived)", () => {
+    expect(allowedActions({ role: null, isSiteAdmin: true })).toEqual(ACTIONS.filter((action) => action !== "project.restore"));
+    expect(can({ role: null, isSiteAdmin: true, archived: true }, "project.restore")).toBe(true);
     expect(can({ role: "viewer", isSiteAdmin: true }, "map.configure")).toBe(true);
   });
 
   it("allows nothing to someone who is neither a member nor a site admin", () => {
     expect(allowedActions({ role: null, isSiteAdmin: false })).toEqual([]);
+  });
+});
+
+describe("an archived project", () => {
+  // Written out by hand: what stays open once a project is archived (DESIGN.md: readable and exportable).
+  const READS: Action[] = ["project.read", "quantities.read", "audit.read", "finds.read", "finds.locations.read", "reports.read"];
+
+  it("allows each role its reads and nothing else; a site admin its reads and restoring it", () => {
+    for (const role of ROLES) {
+      expect(allowedActions({ role, isSiteAdmin: false, archived: true }).sort(), role).toEqual(EXPECTED[role].filter((action) => READS.includes(action)).sort());
+    }
+    expect(allowedActions({ role: null, isSiteAdmin: true, archived: true }).sort()).toEqual([...READS, "project.restore"].sort());
+  });
+
+  it("can be restored by a site admin only, and never archived twice", () => {
+    expect(can({ role: "manager", isSiteAdmin: false, archived: true }, "project.restore")).toBe(false);
+    expect(can({ role: "manager", isSiteAdmin: false, archived: true }, "project.archive")).toBe(false);
+    expect(can({ role: "manager", isSiteAdmin: false }, "project.archive")).toBe(true);
+    expect(can({ role: "manager", isSiteAdmin: false }, "project.restore")).toBe(false);
   });
 });
 

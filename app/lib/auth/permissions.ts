@@ -78,21 +78,50 @@ export const PERMISSIONS = {
   "reports.sign": ["manager", "dive-supervisor"],
   /** Public progress links. */
   "share-links.manage": ["manager", "outreach"],
+  /**
+   * Dive teams (their crew, hoses and station): the dive supervisor runs the crews day to day and
+   * the manager sets the project up. Every member reads the teams. (The minimum team size and the
+   * working hours are project settings: "project.configure".)
+   */
+  "teams.manage": ["manager", "dive-supervisor"],
+  /** Archive a finished project (read-only from then on): the manager closes their project. */
+  "project.archive": ["manager"],
+  /** Restore an archived project: a site admin only (no project role), so reopening stays a deliberate step. */
+  "project.restore": [],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Action = keyof typeof PERMISSIONS;
 
 export const ACTIONS = Object.keys(PERMISSIONS) as Action[];
 
-/** Who is asking: their role on the project (null when not a member) and whether they are a site admin. */
+/**
+ * The actions that only read. On an archived project these alone stay allowed (and restoring it):
+ * everything else changes a record, and an archived project is read-only for everyone.
+ */
+export const READING_ACTIONS: ReadonlySet<Action> = new Set<Action>(["project.read", "quantities.read", "audit.read", "finds.read", "finds.locations.read", "reports.read"]);
+
+/** Who is asking: their role on the project (null when not a member), whether they are a site admin, and whether the project is archived. */
 export interface Access {
   role: Role | null;
   isSiteAdmin: boolean;
+  /** The project is archived: read-only (absent: open). */
+  archived?: boolean;
+}
+
+/** Whether the role (or being a site admin) allows `action`, whatever the project's state. */
+export function roleAllows(access: Access, action: Action): boolean {
+  if (access.isSiteAdmin) return true;
+  return access.role !== null && (PERMISSIONS[action] as readonly Role[]).includes(access.role);
+}
+
+/** Whether the project's state refuses `action`: an archived project takes reads and its restoring only; an open one cannot be restored. */
+export function refusedByProjectState(access: Access, action: Action): boolean {
+  if (action === "project.restore") return !access.archived;
+  return Boolean(access.archived) && !READING_ACTIONS.has(action);
 }
 
 export function can(access: Access, action: Action): boolean {
-  if (access.isSiteAdmin) return true;
-  return access.role !== null && (PERMISSIONS[action] as readonly Role[]).includes(access.role);
+  return roleAllows(access, action) && !refusedByProjectState(access, action);
 }
 
 /** The actions `access` allows, for a loader to hand to its page. */

@@ -18,6 +18,8 @@ export interface ProjectView {
   hasWorkLimit: boolean;
   /** IANA name: local days (a reading's day, today) are counted in it. */
   timeZone: string;
+  /** When the project was archived (ISO 8601); null: open. An archived project is read-only. */
+  archivedAt: string | null;
 }
 
 export function presentProject(project: Project): ProjectView {
@@ -32,6 +34,7 @@ export function presentProject(project: Project): ProjectView {
     minTeamSize: project.minTeamSize,
     hasWorkLimit: Boolean(project.workLimitGeoJson),
     timeZone: project.timeZone,
+    archivedAt: project.archivedAt ? project.archivedAt.toISOString() : null,
   };
 }
 
