@@ -97,6 +97,7 @@ export default [
     route("water-quality/compliance", "routes/projects.$projectId.water-quality.compliance.tsx"),
     route("water-quality/setup", "routes/projects.$projectId.water-quality.setup.tsx"),
   ]),
+  route("projects/:projectId/field", "routes/projects.$projectId.field.tsx"),
   route("projects/:projectId/finds/catalogue", "routes/projects.$projectId.finds.catalogue.tsx"),
   route("projects/:projectId/finds/:findId/custody-sheet", "routes/projects.$projectId.finds.$findId.custody-sheet.tsx"),
   route("projects/:projectId/map/style.json", "routes/projects.$projectId.map.style[.]json.ts"),
