@@ -80,7 +80,7 @@ function fieldAppWorker(): PluginOption[] {
     },
     workbox: {
       globDirectory: "build/client",
-      globPatterns: ["assets/**/*.{js,css,woff2}", "icons/*.{png,svg}", "favicon.svg", "offline.html"],
+      globPatterns: ["assets/**/*.{js,css,woff2}", "icons/*.{png,svg}", "favicon.svg", "offline.html", "manifest.webmanifest"],
       // The map's bundle is the largest script; it is part of the shell the field pages may open.
       maximumFileSizeToCacheInBytes: 4 * 1024 * 1024,
       navigateFallback: null,
