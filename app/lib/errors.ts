@@ -40,6 +40,12 @@ export class NotFoundError extends DomainError {}
 /** The request contradicts what is already recorded (a cell assigned twice on one day, the last manager removed). */
 export class ConflictError extends DomainError {}
 
+/**
+ * An edit made against a version of the record that is no longer the current one (its If-Match
+ * names another version); `current` in extra holds the record as it is now, to show side by side.
+ */
+export class PreconditionFailedError extends DomainError {}
+
 /** No credential, or one that names nobody (a revoked token, an expired session). */
 export class NotSignedInError extends DomainError {}
 

@@ -10,6 +10,8 @@ import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
 
 /**
  * The dewatering operator's records: the shift log (flow, solids, polymer; its figures computed by
@@ -227,6 +229,7 @@ export async function recordShift(project: ProjectView, user: UserView, input: S
   const names = [...new Set(input.tubes.map((name) => name.toLowerCase()))];
   try {
     const id = await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       const tubes = names.length === 0 ? [] : await GeotextileTube.findAll({ where: { projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
       const chosen = names.map((name) => tubes.find((tube) => tube.name.toLowerCase() === name));
       const unknown = input.tubes.filter((_, index) => !chosen[index]);
@@ -243,6 +246,7 @@ export async function recordShift(project: ProjectView, user: UserView, input: S
         },
         { transaction },
       );
+      await idempotency.created(shift.id);
       if (chosen.length > 0) {
         // The shift's slurry and solids, shared equally among the tubes it filled (the log does not say more).
         const slurryM3 = cubicMetresPerHourFrom(slurryFlow.value, slurryFlow.unit) * pumpHours;
@@ -282,6 +286,8 @@ export interface TubeView {
   /** Share of capacity, 0–1 and beyond. */
   fillLevel: number;
   nearCapacity: boolean;
+  /** The record's version, for If-Match on an edit (app/lib/api/versions.ts). */
+  version: string;
 }
 
 export interface TubeRegister {
@@ -296,12 +302,13 @@ function presentTube(tube: GeotextileTube, project: ProjectView): TubeView {
   const fills = (tube.fills ?? []).map((fill) => ({ id: fill.id, date: fill.fillDate, shiftId: fill.shiftId, slurryVolumeM3: fill.slurryVolumeM3, drySolids: kilogramsTo(fill.drySolidsKg, bulk) }));
   const delivered = fills.reduce((sum, fill) => sum + fill.drySolids, 0);
   const level = fillLevel(delivered, tube.capacityDryMassPerLength, tube.length);
-  return {
+  const view = {
     id: tube.id, name: tube.name, circumference: tube.circumference, length: tube.length, capacityDryMassPerLength: tube.capacityDryMassPerLength,
     theoreticalDiameter: theoreticalDiameter(tube.circumference), status: tube.status, notes: tube.notes, fills,
     drySolidsDelivered: delivered, capacity: tube.capacityDryMassPerLength * tube.length, fillLevel: level,
     nearCapacity: FILLABLE.includes(tube.status) && isNearCapacity(level),
   };
+  return { ...view, version: versionOf(view) };
 }
 
 export async function listTubes(project: ProjectView): Promise<TubeRegister> {
@@ -329,10 +336,12 @@ export async function findTube(project: ProjectView, tubeId: number): Promise<Tu
 export async function registerTube(project: ProjectView, user: UserView, input: TubeInput, ip: string | null = null): Promise<TubeView> {
   try {
     const id = await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       const tube = await GeotextileTube.create(
         { projectId: project.id, name: input.name, circumference: input.circumference, length: input.length, capacityDryMassPerLength: input.capacityDryMassPerLength, status: input.status, notes: input.notes, createdById: user.id },
         { transaction },
       );
+      await idempotency.created(tube.id);
       await recordAudit({ action: AUDIT_ACTIONS.tubeRegistered, projectId: project.id, userId: user.id, ip, detail: { name: input.name } }, transaction);
       return tube.id;
     });
@@ -345,23 +354,34 @@ export async function registerTube(project: ProjectView, user: UserView, input: 
 
 export async function recordFill(project: ProjectView, user: UserView, tubeId: number, input: FillInput, ip: string | null = null): Promise<TubeView> {
   await getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const tube = await GeotextileTube.findOne({ where: { id: tubeId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
     if (!tube) throw new NotFoundError({ field: "tubeId", message: "There is no such tube on this project." });
     assertFillable(tube);
     const slurryVolumeM3 = input.slurryVolume ? (input.slurryVolume.unit === "m3" ? input.slurryVolume.value : (input.slurryVolume.value * LITRES_PER_US_GALLON) / 1000) : null;
-    await TubeFill.create(
+    const fill = await TubeFill.create(
       { projectId: project.id, tubeId: tube.id, shiftId: null, fillDate: input.date, slurryVolumeM3, drySolidsKg: kilogramsFrom(input.drySolids, massUnitsFor(project.lengthUnit).bulkMass), recordedById: user.id },
       { transaction },
     );
+    await idempotency.created(fill.id);
     await recordAudit({ action: AUDIT_ACTIONS.tubeFilled, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, date: input.date, drySolids: input.drySolids } }, transaction);
   });
   return findTube(project, tubeId);
 }
 
-export async function changeTubeStatus(project: ProjectView, user: UserView, tubeId: number, status: TubeStatus, ip: string | null = null): Promise<TubeView> {
+/**
+ * Sets a tube's status. With `ifMatch` (the versions an If-Match header names), refuses with 412 and
+ * the tube as it is now when it changed since the client saw it; the check and the change hold the
+ * tube's row lock, so no other edit slips in between.
+ */
+export async function changeTubeStatus(project: ProjectView, user: UserView, tubeId: number, status: TubeStatus, ip: string | null = null, ifMatch: string[] | "any" | null = null): Promise<TubeView> {
   await getSequelize().transaction(async (transaction) => {
     const tube = await GeotextileTube.findOne({ where: { id: tubeId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
     if (!tube) throw new NotFoundError({ field: "tubeId", message: "There is no such tube on this project." });
+    if (ifMatch !== null) {
+      tube.fills = await TubeFill.findAll({ where: { tubeId: tube.id }, order: [["fillDate", "ASC"], ["id", "ASC"]], transaction });
+      assertCurrentVersion(ifMatch, presentTube(tube, project), "tube");
+    }
     await tube.update({ status }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.tubeStatusChanged, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, status } }, transaction);
   });

@@ -11,6 +11,7 @@ import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { diveInputSchema } from "~/lib/field-records/inputs";
 export { diveInputSchema } from "~/lib/field-records/inputs";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 
 /**
  * The dive log: dives actually made on the day's assigned cells. A logged bottom time beyond the
@@ -106,6 +107,7 @@ export async function recordDive(project: ProjectView, user: UserView, input: Di
   }
   const bottomMinutes = bottomMinutesOf(input);
   const id = await getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const dive = await Dive.create(
       {
         projectId: project.id, diveDate: input.date, teamId: team.id, diverName: diver.name, diverIsVisitor: diver.visitor,
@@ -114,6 +116,7 @@ export async function recordDive(project: ProjectView, user: UserView, input: Di
       },
       { transaction },
     );
+    await idempotency.created(dive.id);
     await DiveCell.bulkCreate(positions.map(({ label, position }) => ({ diveId: dive.id, projectId: project.id, row: position!.row, col: position!.col, label })), { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.diveRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, team: team.name, diver: diver.name, visitor: diver.visitor, bottomMinutes, maxDepth: input.maxDepth, cells: labels } }, transaction);
     return dive.id;

@@ -23,6 +23,8 @@ import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { custodyInputSchema, findInputSchema, optionalText } from "~/lib/field-records/inputs";
 export { custodyInputSchema, findInputSchema, type CustodyInput, type FindInput } from "~/lib/field-records/inputs";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { findNotices } from "../../shared/field-notices";
 
 /**
  * Finds: logging them (catalogue number from a locked per-year counter, never reused), their
@@ -210,6 +212,8 @@ export interface FindLogged {
   id: number;
   catalogueNumber: string;
   hold?: { id: number; cells: string[] };
+  /** Safety notices in plain sentences (the hold the find placed); empty when none. */
+  notices: string[];
   /** True when the idempotency key named a find already logged: nothing new was stored. */
   replayed: boolean;
 }
@@ -229,7 +233,8 @@ async function replayOf(projectId: number, key: string | null | undefined): Prom
   const existing = await Find.findOne({ where: { projectId, idempotencyKey: key } });
   if (!existing) return null;
   const hold = await Hold.findOne({ where: { findId: existing.id }, include: [{ model: HoldCell, as: "cells" }] });
-  return { id: existing.id, catalogueNumber: existing.catalogueNumber, ...(hold ? { hold: { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)) } } : {}), replayed: true };
+  const ref = hold ? { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)) } : undefined;
+  return { id: existing.id, catalogueNumber: existing.catalogueNumber, ...(ref ? { hold: ref } : {}), notices: findNotices(ref), replayed: true };
 }
 
 /**
@@ -273,6 +278,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
 
   try {
     return await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       // The project row's lock makes logging finds one at a time per project, so the counter row
       // is created once and each number is handed out once.
       const projectRow = await Project.findByPk(project.id, { lock: transaction.LOCK.UPDATE, transaction });
@@ -293,6 +299,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
         },
         { transaction },
       );
+      await idempotency.created(find.id);
       let hold: FindLogged["hold"];
       if (holds && cell && grid) {
         const [x, y] = raw.position ? [raw.position.x, raw.position.y] : cellCentroid(grid, cell.row, cell.col);
@@ -306,7 +313,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
         await recordAudit({ action: AUDIT_ACTIONS.holdPlaced, projectId: project.id, userId: user.id, ip, detail: { holdId: placed.id, findId: find.id, cellCount: cells.length, radiusM: projectRow.holdRadiusM } }, transaction);
       }
       await recordAudit({ action: AUDIT_ACTIONS.findLogged, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, catalogueNumber: number, category: raw.category } }, transaction);
-      return { id: find.id, catalogueNumber: number, ...(hold ? { hold } : {}), replayed: false };
+      return { id: find.id, catalogueNumber: number, ...(hold ? { hold } : {}), notices: findNotices(hold), replayed: false };
     });
   } catch (error) {
     // The same idempotency key sent twice at once: the second insert meets the unique index.
@@ -338,6 +345,7 @@ export async function addFindPhoto(project: ProjectView, user: UserView, findId:
     await putObject(thumbnailKey, prepared.thumbnail, "image/jpeg");
     stored.push(thumbnailKey);
     const photo = await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       const created = await FindPhoto.create(
         {
           findId: find.id, projectId: project.id, objectKey: key, thumbnailKey, contentType: prepared.contentType,
@@ -346,6 +354,7 @@ export async function addFindPhoto(project: ProjectView, user: UserView, findId:
         },
         { transaction },
       );
+      await idempotency.created(created.id);
       await recordAudit({ action: AUDIT_ACTIONS.findPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, photoId: created.id, sizeBytes: created.sizeBytes } }, transaction);
       return created;
     });
@@ -372,6 +381,7 @@ const STATUS_AFTER: Partial<Record<CustodyPurpose, FindStatus>> = { "to-site-sto
 
 export async function recordCustody(project: ProjectView, user: UserView, findId: number, input: z.output<typeof custodyInputSchema>, ip: string | null = null): Promise<{ id: number; status: FindStatus }> {
   return getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const find = await findInProject(project, findId, transaction);
     const handedAt = new Date(input.handedAt);
     if (handedAt.getTime() < find.foundAt.getTime()) throw new ValidationError({ field: "handedAt", message: "A handover cannot come before the find was found." });
@@ -379,6 +389,7 @@ export async function recordCustody(project: ProjectView, user: UserView, findId
       { findId: find.id, projectId: project.id, fromName: input.fromName, toName: input.toName, place: input.place, purpose: input.purpose, handedAt, receiverSignature: input.receiverSignature, note: input.note, formPhotoId: null, recordedById: user.id },
       { transaction },
     );
+    await idempotency.created(entry.id);
     const next = STATUS_AFTER[input.purpose];
     if (next && (find.status === "in-field" || find.status === "site-store")) await find.update({ status: next }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.findCustodyRecorded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, custodyId: entry.id, purpose: input.purpose, to: input.toName } }, transaction);

@@ -9,6 +9,7 @@ import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
 import { dewateringSettings } from "./dewatering.server";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 
 /**
  * Haul tickets and the sites they go to. Each ticket's dry solids are counted once, when it is
@@ -129,6 +130,7 @@ export async function recordHaul(project: ProjectView, user: UserView, input: Ha
   const drySolidsKg = haulDryMassKg(wetMassKg !== null ? { wetMassKg } : { volumeM3: volumeM3! }, cakeSolids, settings.solidsSpecificGravity);
   try {
     const id = await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
       const haul = await Haul.create(
         {
           projectId: project.id, haulDate: input.date, ticketNumber: input.ticketNumber, truck: input.truck, siteId: site.id,
@@ -139,6 +141,7 @@ export async function recordHaul(project: ProjectView, user: UserView, input: Ha
         },
         { transaction },
       );
+      await idempotency.created(haul.id);
       await recordAudit({ action: AUDIT_ACTIONS.haulRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, ticketNumber: input.ticketNumber, site: site.name } }, transaction);
       return haul.id;
     });

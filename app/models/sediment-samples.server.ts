@@ -7,6 +7,7 @@ import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 
 /**
  * The lab's results for sediment samples, entered by the manager or the resource monitor: what
@@ -94,6 +95,7 @@ export async function recordSample(project: ProjectView, user: UserView, input: 
     zoneId = zone.id;
   }
   const id = await getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const sample = await SedimentSample.create(
       {
         projectId: project.id, sampledOn: input.date, zoneId, cellLabel, percentSolids: input.percentSolids,
@@ -103,6 +105,7 @@ export async function recordSample(project: ProjectView, user: UserView, input: 
       },
       { transaction },
     );
+    await idempotency.created(sample.id);
     await recordAudit({ action: AUDIT_ACTIONS.sedimentSampleRecorded, projectId: project.id, userId: user.id, ip, detail: { date: input.date, lab: input.lab, reportNumber: input.reportNumber } }, transaction);
     return sample.id;
   });

@@ -17,6 +17,8 @@ import { loggedShiftDates } from "./dewatering.server";
 import { loggedDiveDates } from "./dives.server";
 import { instantSchema, ntu, readingInputSchema } from "~/lib/field-records/inputs";
 export { readingInputSchema } from "~/lib/field-records/inputs";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { readingNotices } from "../../shared/field-notices";
 
 /**
  * Water quality the permit allows: monitoring stations, the permit's turbidity rules, readings
@@ -274,6 +276,8 @@ export interface ReadingRecorded {
   stopWork?: StopWorkRef;
   /** Who was e-mailed about the exceedance. */
   alerted?: string[];
+  /** Safety notices in plain sentences (an exceedance and its stop-work); empty when none apply. */
+  notices: string[];
 }
 
 export interface ReadingView {
@@ -339,6 +343,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     if (earlier) return replayOf(project, earlier);
   }
   const outcome = await getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const station = await findStation(project, input.station, transaction);
     // Serialise evaluations of one project so two exceedances at once open one event.
     await MonitoringStation.findAll({ where: { projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
@@ -369,6 +374,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
       },
       { transaction },
     );
+    await idempotency.created(reading.id);
     await recordAudit({ action: AUDIT_ACTIONS.waterQualityReadingRecorded, projectId: project.id, userId: user.id, ip, detail: { id: reading.id, station: station.name, takenAt: input.takenAt, value: input.value, unit: input.unit, exceeds: evaluation?.exceeds ?? null } }, transaction);
     let stopWork: StopWorkEvent | null = null;
     let opened = false;
@@ -389,8 +395,10 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     id: outcome.reading.id,
     evaluation: outcome.evaluation,
     verdict: outcome.evaluation ? verdictInWords(outcome.evaluation, input.unit) : "Recorded (only compliance readings are judged against the rule).",
+    notices: [],
   };
   if (outcome.stopWork) result.stopWork = { id: outcome.stopWork.id, notifyBy: outcome.stopWork.notifyBy.toISOString() };
+  result.notices = readingNotices({ verdict: result.verdict, exceeds: outcome.evaluation?.exceeds ?? null, stopWork: result.stopWork });
   if (outcome.opened && outcome.evaluation && options.alert !== false) result.alerted = await alertExceedance(project, outcome.station.name, input, outcome.evaluation, outcome.stopWork!);
   return result;
 }
@@ -398,10 +406,9 @@ export async function recordReading(project: ProjectView, user: UserView, input:
 async function replayOf(project: ProjectView, reading: WaterQualityReading): Promise<ReadingRecorded> {
   const evaluation = evaluationOf(reading);
   const stopWork = evaluation?.exceeds ? await StopWorkEvent.findOne({ where: { projectId: project.id, stationId: reading.stationId, readingId: { [Op.lte]: reading.id } }, order: [["id", "DESC"]] }) : null;
-  return {
-    id: reading.id, evaluation, verdict: evaluation ? verdictInWords(evaluation, reading.unit) : "Recorded (only compliance readings are judged against the rule).",
-    ...(stopWork ? { stopWork: { id: stopWork.id, notifyBy: stopWork.notifyBy.toISOString() } } : {}),
-  };
+  const verdict = evaluation ? verdictInWords(evaluation, reading.unit) : "Recorded (only compliance readings are judged against the rule).";
+  const stopWorkRef = stopWork ? { id: stopWork.id, notifyBy: stopWork.notifyBy.toISOString() } : undefined;
+  return { id: reading.id, evaluation, verdict, ...(stopWorkRef ? { stopWork: stopWorkRef } : {}), notices: readingNotices({ verdict, exceeds: evaluation?.exceeds ?? null, stopWork: stopWorkRef }) };
 }
 
 /** The exceedance e-mail, at once, to the project's managers, dive supervisors and dewatering operators, through the outbox (sent within seconds, retried while the mail server is away); it never unrecords the reading. */

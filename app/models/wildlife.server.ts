@@ -9,6 +9,8 @@ import type { UserView } from "~/lib/auth/users.server";
 import { getWaterQualitySettings } from "./water-quality.server";
 import { sightingInputSchema } from "~/lib/field-records/inputs";
 export { sightingInputSchema } from "~/lib/field-records/inputs";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { sightingNotices } from "../../shared/field-notices";
 
 /**
  * Wildlife sightings and the stand-downs they start: a protected animal within the project's
@@ -48,6 +50,8 @@ export interface SightingView {
 export interface SightingRecorded {
   id: number;
   standDown?: { id: number; until: string | null };
+  /** Safety notices in plain sentences (the stand-down that applies); empty when none. */
+  notices: string[];
 }
 
 function presentStandDown(standDown: WildlifeStandDown, nowMs: number): StandDownView {
@@ -80,6 +84,7 @@ export async function recordSighting(project: ProjectView, user: UserView, input
     if (earlier) return replayOf(earlier);
   }
   return getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const latest = await WildlifeStandDown.findOne({ where: { projectId: project.id, species }, order: [["startedAt", "DESC"], ["id", "DESC"]], transaction, lock: transaction.LOCK.UPDATE });
     const effect = effectOfSighting(
       latest ? { startedAtMs: latest.startedAt.getTime(), departedAtMs: latest.departedAt?.getTime() ?? null } : null,
@@ -103,14 +108,17 @@ export async function recordSighting(project: ProjectView, user: UserView, input
       },
       { transaction },
     );
+    await idempotency.created(sighting.id);
     await recordAudit({ action: AUDIT_ACTIONS.wildlifeSightingRecorded, projectId: project.id, userId: user.id, ip, detail: { id: sighting.id, species, seenAt: input.seenAt, distance: input.distance ?? null, gone: input.gone, effect: effect.kind } }, transaction);
-    return { id: sighting.id, ...(standDown ? { standDown: { id: standDown.id, until: standDown.endsAt?.toISOString() ?? null } } : {}) };
+    const ref = standDown ? { id: standDown.id, until: standDown.endsAt?.toISOString() ?? null } : undefined;
+    return { id: sighting.id, ...(ref ? { standDown: ref } : {}), notices: sightingNotices(species, ref) };
   });
 }
 
 async function replayOf(sighting: WildlifeSighting): Promise<SightingRecorded> {
   const standDown = sighting.standDownId ? await WildlifeStandDown.findByPk(sighting.standDownId) : null;
-  return { id: sighting.id, ...(standDown ? { standDown: { id: standDown.id, until: standDown.endsAt?.toISOString() ?? null } } : {}) };
+  const ref = standDown ? { id: standDown.id, until: standDown.endsAt?.toISOString() ?? null } : undefined;
+  return { id: sighting.id, ...(ref ? { standDown: ref } : {}), notices: sightingNotices(sighting.species, ref) };
 }
 
 export async function listSightings(project: ProjectView): Promise<SightingView[]> {

@@ -2,6 +2,7 @@ import { z } from "zod";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody, readApiQuery } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
+import { answerOnce } from "~/lib/api/idempotency.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { workDateSchema } from "~/models/assignments.server";
 import { DEWATERING_CAUTION, listShifts, recordShift, shiftInputSchema } from "~/models/dewatering.server";
@@ -18,10 +19,12 @@ const route = apiRoute<Route.LoaderArgs>({
   },
   // POST a shift as JSON (dewatering operator, manager) → 201 {id, computed, shift}; 200 when its idempotency key was used before.
   async POST({ request, params }) {
-    const { user, project } = await requireApiAccess(request, params.projectId, "dewatering.log");
+    const access = await requireApiAccess(request, params.projectId, "dewatering.log");
     const input = await readApiBody(request, shiftInputSchema, { formats: ["json"] });
-    const { shift, replayed } = await recordShift(project, user, input, clientAddress(request));
-    return Response.json({ id: shift.id, computed: shift.computed, shift, caution: DEWATERING_CAUTION }, { status: replayed ? 200 : 201 });
+    return answerOnce(request, access, input, async () => {
+      const { shift, replayed } = await recordShift(access.project, access.user, input, clientAddress(request));
+      return Response.json({ id: shift.id, computed: shift.computed, shift, caution: DEWATERING_CAUTION }, { status: replayed ? 200 : 201 });
+    });
   },
 });
 export const loader = route.loader;

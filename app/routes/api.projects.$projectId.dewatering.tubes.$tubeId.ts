@@ -1,6 +1,7 @@
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
+import { etagOf, IF_MATCH_HEADER, ifMatchVersions } from "~/lib/api/versions";
 import { NotFoundError } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { urlIdSchema } from "~/lib/http/url-id";
@@ -14,16 +15,20 @@ function tubeIdOf(params: { tubeId?: string }): number {
 }
 
 const route = apiRoute<Route.LoaderArgs>({
-  // GET — one tube with its fills, fill level and near-capacity flag (any member).
+  // GET — one tube with its fills, fill level, near-capacity flag and version (ETag) (any member).
   async GET({ request, params }) {
     const { project } = await requireApiAccess(request, params.projectId);
-    return Response.json({ tube: await findTube(project, tubeIdOf(params)) });
+    const tube = await findTube(project, tubeIdOf(params));
+    return Response.json({ tube }, { headers: { ETag: etagOf(tube.version), "Cache-Control": "no-store" } });
   },
   // PATCH {status} (dewatering operator, manager) → 200 {tube}; status is filling, dewatering, ready-to-open, opened or hauled.
+  // With If-Match: <version>, 412 {errors, current: tube} when the tube changed since that version.
   async PATCH({ request, params }) {
     const { user, project } = await requireApiAccess(request, params.projectId, "dewatering.log");
     const input = await readApiBody(request, tubeStatusSchema, { formats: ["json"] });
-    return Response.json({ tube: await changeTubeStatus(project, user, tubeIdOf(params), input.status, clientAddress(request)) });
+    const ifMatch = ifMatchVersions(request.headers.get(IF_MATCH_HEADER));
+    const tube = await changeTubeStatus(project, user, tubeIdOf(params), input.status, clientAddress(request), ifMatch);
+    return Response.json({ tube }, { headers: { ETag: etagOf(tube.version) } });
   },
 });
 export const loader = route.loader;

@@ -1,6 +1,7 @@
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
+import { answerOnce } from "~/lib/api/idempotency.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { DEWATERING_CAUTION, listTubes, registerTube, tubeInputSchema } from "~/models/dewatering.server";
 import type { Route } from "./+types/api.projects.$projectId.dewatering.tubes";
@@ -13,9 +14,9 @@ const route = apiRoute<Route.LoaderArgs>({
   },
   // POST {name, circumference, length, capacityDryMassPerLength, status?, notes?} (dewatering operator, manager) → 201 {tube}.
   async POST({ request, params }) {
-    const { user, project } = await requireApiAccess(request, params.projectId, "dewatering.log");
+    const access = await requireApiAccess(request, params.projectId, "dewatering.log");
     const input = await readApiBody(request, tubeInputSchema, { formats: ["json"] });
-    return Response.json({ tube: await registerTube(project, user, input, clientAddress(request)) }, { status: 201 });
+    return answerOnce(request, access, input, async () => Response.json({ tube: await registerTube(access.project, access.user, input, clientAddress(request)) }, { status: 201 }));
   },
 });
 export const loader = route.loader;

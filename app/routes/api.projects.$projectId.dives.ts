@@ -4,6 +4,7 @@ import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { BadRequestError } from "~/lib/errors";
 import { apiRoute } from "~/lib/api/route.server";
+import { answerOnce } from "~/lib/api/idempotency.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { workDateSchema } from "~/models/assignments.server";
 import { diveInputSchema, listCellDives, listDivesOn, recordDive } from "~/models/dives.server";
@@ -26,9 +27,9 @@ const route = apiRoute<Route.LoaderArgs>({
   },
   // POST {date, team, diver, leftSurface?, leftBottom?, bottomMinutes?, maxDepth, cells, notes} as JSON: dive supervisors and managers only.
   async POST({ request, params }) {
-    const { user, project } = await requireApiAccess(request, params.projectId, "dives.log");
+    const access = await requireApiAccess(request, params.projectId, "dives.log");
     const input = await readApiBody(request, diveInputSchema, { formats: ["json"] });
-    return Response.json(await recordDive(project, user, input, clientAddress(request)), { status: 201 });
+    return answerOnce(request, access, input, async () => Response.json(await recordDive(access.project, access.user, input, clientAddress(request)), { status: 201 }));
   },
 });
 export const loader = route.loader;

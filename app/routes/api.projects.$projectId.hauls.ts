@@ -1,6 +1,7 @@
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
+import { answerOnce } from "~/lib/api/idempotency.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { haulInputSchema, listHauls, listHaulSites, recordHaul } from "~/models/hauls.server";
 import type { Route } from "./+types/api.projects.$projectId.hauls";
@@ -14,10 +15,12 @@ const route = apiRoute<Route.LoaderArgs>({
   },
   // POST a ticket as JSON (dewatering operator, manager) → 201 {haul}; 200 when its idempotency key was used before.
   async POST({ request, params }) {
-    const { user, project } = await requireApiAccess(request, params.projectId, "dewatering.log");
+    const access = await requireApiAccess(request, params.projectId, "dewatering.log");
     const input = await readApiBody(request, haulInputSchema, { formats: ["json"] });
-    const { haul, replayed } = await recordHaul(project, user, input, clientAddress(request));
-    return Response.json({ haul }, { status: replayed ? 200 : 201 });
+    return answerOnce(request, access, input, async () => {
+      const { haul, replayed } = await recordHaul(access.project, access.user, input, clientAddress(request));
+      return Response.json({ haul }, { status: replayed ? 200 : 201 });
+    });
   },
 });
 export const loader = route.loader;

@@ -1,6 +1,7 @@
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
+import { answerOnce } from "~/lib/api/idempotency.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { listSamples, recordSample, sampleInputSchema } from "~/models/sediment-samples.server";
 import type { Route } from "./+types/api.projects.$projectId.sediment-samples";
@@ -13,9 +14,9 @@ const route = apiRoute<Route.LoaderArgs>({
   },
   // POST a lab result as JSON (manager, resource monitor) → 201 {sample}.
   async POST({ request, params }) {
-    const { user, project } = await requireApiAccess(request, params.projectId, "samples.record");
+    const access = await requireApiAccess(request, params.projectId, "samples.record");
     const input = await readApiBody(request, sampleInputSchema, { formats: ["json"] });
-    return Response.json({ sample: await recordSample(project, user, input, clientAddress(request)) }, { status: 201 });
+    return answerOnce(request, access, input, async () => Response.json({ sample: await recordSample(access.project, access.user, input, clientAddress(request)) }, { status: 201 }));
   },
 });
 export const loader = route.loader;

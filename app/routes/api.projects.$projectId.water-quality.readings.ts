@@ -2,6 +2,7 @@ import { WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiBody, readApiQuery } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
+import { answerOnce } from "~/lib/api/idempotency.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { listReadings, readingInputSchema, readingQuerySchema, recordReading } from "~/models/water-quality.server";
 import type { Route } from "./+types/api.projects.$projectId.water-quality.readings";
@@ -16,9 +17,9 @@ const route = apiRoute<Route.LoaderArgs>({
   // POST {station, takenAt, value, unit, depth?, instrument?, calibratedAt?, note?, …} as JSON →
   // 201 {id, evaluation, verdict, stopWork?} (manager, dewatering operator, resource monitor).
   async POST({ request, params }) {
-    const { user, project } = await requireApiAccess(request, params.projectId, "water-quality.record");
+    const access = await requireApiAccess(request, params.projectId, "water-quality.record");
     const input = await readApiBody(request, readingInputSchema, { formats: ["json"] });
-    return Response.json(await recordReading(project, user, input, clientAddress(request)), { status: 201 });
+    return answerOnce(request, access, input, async () => Response.json(await recordReading(access.project, access.user, input, clientAddress(request)), { status: 201 }));
   },
 });
 export const loader = route.loader;

@@ -105,6 +105,7 @@ describe("logging a cultural find", () => {
     holdId = body.hold.id;
     heldCells = body.hold.cells;
     expect(heldCells).toContain(cell);
+    expect(body.notices).toEqual([expect.stringContaining(`Hold #${holdId} stops work in ${heldCells.length} cells`)]);
     // Geometry check, independent of the search: the radius is 50 m (half the permit's 100-metre
     // diameter) = 50 / (1200/3937) US ft. Every held cell's centre lies within r + half a cell
     // diagonal of the find's cell centre; every cell of the limit whose centre lies within

@@ -91,6 +91,9 @@ describe("readings, the exceedance and the stop-work event", () => {
     // 24 h after the reading (the rule's notification deadline).
     expect(body.stopWork.notifyBy).toBe("2026-11-05T13:30:00.000Z");
     stopWorkId = body.stopWork.id;
+    // The answer carries the safety notices in sentences, for a client that synced the reading from its queue.
+    expect(body.notices[0]).toBe(body.verdict);
+    expect(body.notices[1]).toMatch(new RegExp(`Stop-work event #${stopWorkId} is open`));
     const expected = ["manager", "dive-supervisor", "dewatering"].map((role) => users.get(role as Role)!.email).sort();
     expect([...body.alerted].sort()).toEqual(expected);
     await deliverDue();
@@ -185,6 +188,7 @@ describe("wildlife sightings and stand-downs (default 50 ft / 30 min: memory, a 
     expect(seen.status).toBe(201);
     const started = await seen.json();
     expect(started.standDown).toEqual({ id: expect.any(Number), until: null });
+    expect(started.notices[0]).toMatch(new RegExp(`Stand-down #${started.standDown.id} for manatee applies`, "i"));
     const gone = await (await sight("dewatering", { species: "manatee", seenAt: "2026-11-04T11:40:00-05:00", gone: true, observer: "Ned Carrow" })).json();
     // Left at 11:40 local (16:40 UTC) + 30 min wait.
     expect(gone.standDown).toEqual({ id: started.standDown.id, until: "2026-11-04T17:10:00.000Z" });

@@ -1,5 +1,5 @@
 import { isDatabaseUnreachable } from "~/lib/db.server";
-import { BadRequestError, ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInError, PayloadTooLargeError, TooManyRequestsError, ValidationError } from "~/lib/errors";
+import { BadRequestError, ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInError, PayloadTooLargeError, PreconditionFailedError, TooManyRequestsError, ValidationError } from "~/lib/errors";
 
 /**
  * The API's one error shape and the one map from error class to HTTP status. Every `/api` answer
@@ -32,6 +32,7 @@ const STATUS_BY_CLASS: ReadonlyArray<readonly [abstract new (...args: never[]) =
   [NotFoundError, 404],
   [MethodNotAllowedError, 405],
   [ConflictError, 409],
+  [PreconditionFailedError, 412],
   [PayloadTooLargeError, 413],
   [UnsupportedMediaTypeError, 415],
   [ValidationError, 422],

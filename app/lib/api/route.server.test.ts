@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInError, ValidationError } from "~/lib/errors";
-import { BadRequestError, PayloadTooLargeError } from "~/lib/errors";
+import { BadRequestError, PayloadTooLargeError, PreconditionFailedError } from "~/lib/errors";
 import { MethodNotAllowedError, UnsupportedMediaTypeError } from "./errors.server";
 import { apiRoute } from "./route.server";
 
@@ -16,6 +16,7 @@ describe("apiRoute", () => {
       [new NotFoundError({ field: "team", message: "n" }), 404],
       [new MethodNotAllowedError(["GET"]), 405],
       [new ConflictError("c", { conflicts: [{ cell: "B7", team: "Team Heron" }] }), 409],
+      [new PreconditionFailedError({ field: "If-Match", message: "p" }, { current: { id: 4, status: "dewatering" } }), 412],
       [new PayloadTooLargeError("p"), 413],
       [new UnsupportedMediaTypeError("u"), 415],
       [new ValidationError([{ row: 4, column: "depth", value: "4.1x", message: "v" }]), 422],
