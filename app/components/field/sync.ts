@@ -80,27 +80,16 @@ function refusalOf(answer: Answer): { message: string; fieldErrors: Record<strin
   return { message, fieldErrors };
 }
 
-/** The safety notices an answer carries, in words. */
+/**
+ * The safety notices an answer carries: the server's `notices` sentences (an exceedance and its
+ * stop-work, a stand-down, a hold), and for a dive the no-decompression flag of its answer.
+ */
 export function noticesOf(kind: QueueEntry["kind"], body: Record<string, unknown> | null): string[] {
   if (!body) return [];
-  const notices: string[] = [];
-  if (kind === "reading") {
-    const evaluation = body.evaluation as { exceeds?: boolean | null } | null;
-    if (evaluation?.exceeds && typeof body.verdict === "string") notices.push(body.verdict);
-    const stopWork = body.stopWork as { id: number; notifyBy: string } | undefined;
-    if (stopWork) notices.push(`Stop work: turbidity exceedance (event ${stopWork.id}). The agency must be notified by ${new Date(stopWork.notifyBy).toLocaleString()}. Follow the permit and the project's procedure.`);
-  }
-  if (kind === "sighting") {
-    const standDown = body.standDown as { id: number; until: string | null } | undefined;
-    if (standDown) notices.push(`Stand-down: in-water work stops${standDown.until ? ` until at least ${new Date(standDown.until).toLocaleString()}` : " until the animal has left and the wait has passed"}.`);
-  }
-  if (kind === "find") {
-    const hold = body.hold as { id: number; cells: string[] } | undefined;
-    if (hold) notices.push(`Hold: work stops on cells ${hold.cells.join(", ")} around find ${String(body.catalogueNumber ?? body.id)} until the monitor records who authorised resuming.`);
-  }
+  const notices = Array.isArray(body.notices) ? body.notices.filter((notice): notice is string => typeof notice === "string") : [];
   if (kind === "dive") {
     const dive = body.dive as { noDecompression?: { exceeds: boolean | null } | null } | undefined;
-    if (dive?.noDecompression?.exceeds) notices.push(`The logged bottom time is beyond the no-decompression figure for the logged depth (information only: ${String(body.caution ?? "follow the dive safety plan")}).`);
+    if (dive?.noDecompression?.exceeds) notices.push(`The logged bottom time is beyond the no-decompression figure for the logged depth. ${String(body.caution ?? "")}`.trim());
   }
   return notices;
 }
