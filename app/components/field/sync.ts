@@ -205,6 +205,8 @@ export async function checkClock(projectId: number): Promise<number | undefined>
   const started = Date.now();
   try {
     const response = await fetch("/healthz", { method: "GET", cache: "no-store" });
+    // Read to the end, so the request is over (an unread body keeps it open).
+    await response.arrayBuffer();
     const header = response.headers.get("Date");
     if (!header) return undefined;
     const offset = Date.parse(header) + 500 - (started + Date.now()) / 2;
