@@ -12,6 +12,7 @@ import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
+export { tubeStatusSchema } from "~/lib/field-records/inputs";
 
 /**
  * The dewatering operator's records: the shift log (flow, solids, polymer; its figures computed by
@@ -107,7 +108,6 @@ export const fillInputSchema = z.object({
 });
 export type FillInput = z.infer<typeof fillInputSchema>;
 
-export const tubeStatusSchema = z.object({ status: z.enum(TUBE_STATUSES, { message: `a tube's status is one of ${TUBE_STATUSES.join(", ")}` }) });
 
 export const dewateringSettingsSchema = z.object({
   solidsSpecificGravity: solidsSpecificGravitySchema,

@@ -10,9 +10,11 @@ import type { Stoppages } from "./stoppages.server";
 export interface FieldSnapshot {
   project: { id: number; name: string; timeZone: string; lengthUnit: string; lengthLabel: string };
   /** Records this member may enter (the permission table's answer). */
-  may: { dives: boolean; readings: boolean; finds: boolean; sightings: boolean };
+  may: { dives: boolean; readings: boolean; finds: boolean; sightings: boolean; tubes: boolean };
   teams: Array<{ id: number; name: string; divers: string[] }>;
   stations: Array<{ id: number; name: string; kind: string }>;
+  /** Geotextile tubes with the version a status change made offline is checked against (If-Match). */
+  tubes: Array<{ id: number; name: string; status: string; version: string; fillLevel: number }>;
   cells: string[];
   heldCells: string[];
   species: string[];

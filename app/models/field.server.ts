@@ -2,6 +2,7 @@ import { unitLabel } from "../../shared/units";
 import type { ProjectAccess } from "~/lib/auth/access.server";
 import { can } from "~/lib/auth/permissions";
 import { listDiveTeams } from "./assignments.server";
+import { listTubes } from "./dewatering.server";
 import { cellLabelsInside } from "./finds.server";
 import { heldCellLabels } from "./holds.server";
 import type { FieldSnapshot } from "./field-snapshot";
@@ -16,8 +17,9 @@ export async function fieldSnapshot(access: ProjectAccess): Promise<FieldSnapsho
     readings: can(access, "water-quality.record"),
     finds: can(access, "finds.log"),
     sightings: can(access, "wildlife.record"),
+    tubes: can(access, "dewatering.log"),
   };
-  const [teams, stations, cells, heldCells, settings, stoppages] = await Promise.all([
+  const [teams, stations, cells, heldCells, settings, stoppages, register] = await Promise.all([
     may.dives ? listDiveTeams(project) : Promise.resolve([]),
     may.readings ? listStations(project) : Promise.resolve([]),
     may.dives || may.finds ? cellLabelsInside(project) : Promise.resolve([]),
@@ -25,12 +27,14 @@ export async function fieldSnapshot(access: ProjectAccess): Promise<FieldSnapsho
     can(access, "finds.read") ? heldCellLabels(project.id) : Promise.resolve([]),
     may.sightings ? getWaterQualitySettings(project) : Promise.resolve(null),
     currentStoppages(project),
+    may.tubes ? listTubes(project) : Promise.resolve(null),
   ]);
   return {
     project: { id: project.id, name: project.name, timeZone: project.timeZone, lengthUnit: project.lengthUnit, lengthLabel: unitLabel(project.lengthUnit) },
     may,
     teams: teams.map((team) => ({ id: team.id, name: team.name, divers: team.members.map((member) => member.name) })),
     stations: stations.map((station) => ({ id: station.id, name: station.name, kind: station.kind })),
+    tubes: (register?.tubes ?? []).map((tube) => ({ id: tube.id, name: tube.name, status: tube.status, version: tube.version, fillLevel: tube.fillLevel })),
     cells,
     heldCells,
     species: settings?.species ?? [],

@@ -218,6 +218,40 @@ test.describe("sending", () => {
     expect(await divesWith(note)).toHaveLength(1);
   });
 
+  test("a tube's status changed offline while the tube changed on the server: both shown side by side, the user chooses", async ({ page, context, baseURL }) => {
+    const origin = new URL(baseURL!).origin;
+    const name = marker("tube");
+    const registered = await api.post(`/api/projects/${projectId}/dewatering/tubes`, { data: { name, circumference: 60, length: 100, capacityDryMassPerLength: 0.5 }, headers: { Origin: origin } });
+    expect(registered.status()).toBe(201);
+    const { tube } = (await registered.json()) as { tube: { id: number } };
+    await openFieldPage(page);
+    await context.setOffline(true);
+    await page.getByRole("button", { name: "Tube status", exact: true }).click();
+    await page.getByLabel("Tube", { exact: true }).selectOption(String(tube.id));
+    await page.getByLabel("New status", { exact: true }).selectOption("dewatering");
+    await page.getByRole("button", { name: "Save to the queue" }).click();
+    // Meanwhile, at the office: the same tube is marked ready to open.
+    const changed = await api.patch(`/api/projects/${projectId}/dewatering/tubes/${tube.id}`, { data: { status: "ready-to-open" }, headers: { Origin: origin } });
+    expect(changed.status()).toBe(200);
+    await context.setOffline(false);
+    const entry = page.getByRole("list", { name: "Entries in the queue, in sending order" }).getByRole("listitem").filter({ hasText: name });
+    await expect(entry).toContainText("Changed on the server meanwhile: choose", { timeout: 15_000 });
+    await expect(entry.getByRole("region", { name: "Your change" })).toContainText("filling → dewatering");
+    await expect(entry.getByRole("region", { name: "On the server now" })).toContainText("ready-to-open");
+    await expect(page.getByRole("heading", { name: /^0 waiting to send, 1 to decide/ })).toBeVisible();
+    await entry.getByRole("button", { name: "Send my change" }).click();
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; last sent/ })).toBeVisible({ timeout: 15_000 });
+    const now = (await (await api.get(`/api/projects/${projectId}/dewatering/tubes/${tube.id}`)).json()) as { tube: { status: string } };
+    expect(now.tube.status).toBe("dewatering");
+  });
+
+  test("a device clock more than 5 minutes off the server's is shown", async ({ page }) => {
+    // The server's Date header says 12 minutes later than this device's clock.
+    await page.route("**/healthz", (route) => route.fulfill({ status: 200, contentType: "application/json", headers: { Date: new Date(Date.now() + 12 * 60_000).toUTCString() }, body: JSON.stringify({ ok: true, db: "up" }) }));
+    await openFieldPage(page);
+    await expect(page.getByText(/This device's clock is 1[12] minutes behind the server's\./)).toBeVisible({ timeout: 15_000 });
+  });
+
   test("the device refuses what the server would, before it is queued", async ({ page }) => {
     await openFieldPage(page);
     await page.getByRole("button", { name: "Turbidity reading", exact: true }).click();

@@ -1,5 +1,6 @@
 import { useState } from "react";
 import { FIND_CATEGORIES, FIND_CATEGORY_LABELS, HUMAN_REMAINS_DEFERENCE, HUMAN_REMAINS_PROTOCOL } from "../../../shared/finds/finds";
+import { TUBE_STATUSES } from "../../../shared/dewatering/tubes";
 import { NO_DECOMPRESSION_CAUTION } from "../../../shared/no-decompression";
 import { STAND_DOWN_CAUTION, WATER_QUALITY_CAUTION } from "../../../shared/water-quality/wording";
 import type { FieldSnapshot } from "~/models/field-snapshot";
@@ -57,7 +58,7 @@ export function EntryForm({ kind, snapshot, initial, initialPhotos = [], serverE
   async function submit(event: React.FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const body = bodyOf(kind, values);
-    const found = locked ? {} : checkBody(kind, body);
+    const found = locked ? {} : checkBody(kind, body, values);
     setErrors(found);
     if (Object.keys(found).length > 0) {
       // Focus the first field in error, so a keyboard or screen-reader user lands on it.
@@ -170,6 +171,12 @@ export function EntryForm({ kind, snapshot, initial, initialPhotos = [], serverE
           </div>
           <BigTextArea label="Note" {...bind("note")} />
         </>
+      ) : null}
+      {kind === "tube-status" ? (
+        <div className="grid gap-4 sm:grid-cols-2">
+          <BigSelect label="Tube" placeholder="Choose the tube" options={snapshot.tubes.map((tube) => ({ value: String(tube.id), label: `${tube.name} (${tube.status}, ${Math.round(tube.fillLevel * 100)} % full)` }))} {...bind("tube")} />
+          <BigSelect label="New status" placeholder="Choose the status" options={TUBE_STATUSES.map((status) => ({ value: status, label: status }))} {...bind("status")} />
+        </div>
       ) : null}
       <datalist id="field-cells">{snapshot.cells.slice(0, 2000).map((label) => <option key={label} value={label} />)}</datalist>
       <div className="flex flex-wrap gap-3">

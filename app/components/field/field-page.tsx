@@ -65,6 +65,40 @@ function minutesApart(offsetMs: number): string {
   return minutes >= 120 ? `${Math.round(minutes / 60)} hours` : `${minutes} minutes`;
 }
 
+/**
+ * An edit made offline whose record changed on the server meanwhile (412): the edit and the record
+ * as it is now, side by side; the user keeps one.
+ */
+function ConflictChoice({ entry, snapshot, onChoose }: { entry: QueueEntry; snapshot: FieldSnapshot; onChoose: (choice: "mine" | "theirs") => void }) {
+  const current = entry.current as { name?: string; status?: string; fillLevel?: number; fills?: unknown[] };
+  const seen = snapshot.tubes.find((tube) => String(tube.id) === entry.form.tube);
+  return (
+    <div className="mt-2">
+      <p className="text-sm">{entry.message}</p>
+      <div className="mt-2 grid gap-3 sm:grid-cols-2">
+        <section aria-label="Your change" className="rounded border-2 border-lagoon p-3">
+          <h3 className="font-semibold">Your change (made <time className="figures" dateTime={entry.capturedAt}>{shortTime(entry.capturedAt)}</time>)</h3>
+          <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
+            <dt>Status</dt><dd>{seen?.status ?? "?"} → <strong>{String(entry.body.status)}</strong></dd>
+            <dt>Fill level seen</dt><dd className="figures">{seen ? `${Math.round(seen.fillLevel * 100)} %` : "?"}</dd>
+          </dl>
+        </section>
+        <section aria-label="On the server now" className="rounded border-2 border-caution p-3">
+          <h3 className="font-semibold">On the server now</h3>
+          <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
+            <dt>Status</dt><dd><strong>{current.status ?? "?"}</strong></dd>
+            <dt>Fill level</dt><dd className="figures">{current.fillLevel !== undefined ? `${Math.round(current.fillLevel * 100)} %` : "?"}{current.fills ? ` (${current.fills.length} fills)` : ""}</dd>
+          </dl>
+        </section>
+      </div>
+      <div className="mt-2 flex flex-wrap gap-3">
+        <button type="button" className={bigButton.primary} onClick={() => onChoose("mine")}>Send my change</button>
+        <button type="button" className={bigButton.plain} onClick={() => onChoose("theirs")}>Keep the server's and drop mine</button>
+      </div>
+    </div>
+  );
+}
+
 interface FieldPageProps {
   snapshot: FieldSnapshot;
   /** "server": fresh from the server now; "device": the copy this device kept. */
@@ -79,7 +113,8 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
   const projectId = snapshot.project.id;
   const online = useOnline();
   const offlineReady = useOfflineReady(online);
-  const kinds = (["dive", "reading", "find", "sighting"] as const).filter((kind) => snapshot.may[kind === "dive" ? "dives" : kind === "reading" ? "readings" : kind === "find" ? "finds" : "sightings"]);
+  const permission = { dive: "dives", reading: "readings", find: "finds", sighting: "sightings", "tube-status": "tubes" } as const;
+  const kinds = (["dive", "reading", "find", "sighting", "tube-status"] as const).filter((kind) => snapshot.may[permission[kind]]);
   const [kind, setKind] = useState<EntryKind | null>(kinds[0] ?? null);
   const [formKey, setFormKey] = useState(0);
   const [entries, setEntries] = useState<QueueEntry[] | null>(null);
@@ -153,11 +188,14 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
 
   async function save(entryKind: EntryKind, draft: EntryDraft, existing: QueueEntry | null) {
     const now = new Date();
+    // A status change is checked against the tube as this page last saw it (If-Match); an entry keeps the version it was made against.
+    const tubeVersion = (tubeId: string | boolean | undefined) => snapshot.tubes.find((tube) => String(tube.id) === tubeId)?.version;
+    const ifMatch = entryKind !== "tube-status" ? undefined : existing && existing.form.tube === draft.form.tube ? existing.ifMatch : tubeVersion(draft.form.tube);
     const entry: QueueEntry = existing
-      ? { ...existing, form: draft.form, body: existing.serverId !== undefined ? existing.body : draft.body, photos: draft.photos, status: "waiting", message: undefined, fieldErrors: undefined, summary: existing.serverId !== undefined ? existing.summary : summaryOf(entryKind, draft.body, snapshot) }
+      ? { ...existing, form: draft.form, body: existing.serverId !== undefined ? existing.body : draft.body, photos: draft.photos, status: "waiting", message: undefined, fieldErrors: undefined, ifMatch, current: undefined, summary: existing.serverId !== undefined ? existing.summary : summaryOf(entryKind, draft.body, snapshot, draft.form) }
       : {
           id: crypto.randomUUID(), projectId, kind: entryKind, order: await nextOrder(), capturedAt: recordTimeOf(entryKind, draft.body) ?? deviceIso(now),
-          form: draft.form, body: draft.body, photos: draft.photos, status: "waiting", attempts: 0, summary: summaryOf(entryKind, draft.body, snapshot),
+          form: draft.form, body: draft.body, photos: draft.photos, status: "waiting", attempts: 0, ifMatch, summary: summaryOf(entryKind, draft.body, snapshot, draft.form),
         };
     if (existing && existing.serverId === undefined) entry.capturedAt = recordTimeOf(entryKind, draft.body) ?? existing.capturedAt;
     try {
@@ -176,6 +214,15 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
 
   const waiting = entries?.filter((entry) => entry.status === "waiting") ?? [];
   const rejected = entries?.filter((entry) => entry.status === "rejected") ?? [];
+  const conflicts = entries?.filter((entry) => entry.status === "conflict") ?? [];
+
+  /** The user's choice on a conflict: send the change over the record as it is now, or drop it. */
+  async function resolve(entry: QueueEntry, choice: "mine" | "theirs") {
+    if (choice === "theirs") await deleteEntry(entry);
+    else await putEntry({ ...entry, status: "waiting", ifMatch: String(entry.current?.version ?? entry.ifMatch), current: undefined, message: undefined });
+    await refresh();
+    if (choice === "mine" && navigator.onLine) void send();
+  }
   const notices = lastRun?.sent.filter((entry) => entry.notices.length > 0) ?? [];
   const clockOff = state.clockOffsetMs !== undefined && Math.abs(state.clockOffsetMs) > CLOCK_WARNING_MS;
 
@@ -217,6 +264,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
           <h2 id="queue-heading" ref={queueHeading} tabIndex={-1} className="text-lg font-semibold">
             {entries === null ? "Reading the queue…" : `${waiting.length} waiting to send`}
             {rejected.length ? `, ${rejected.length} refused` : ""}
+            {conflicts.length ? `, ${conflicts.length} to decide` : ""}
             {state.lastSentAt ? <>; last sent <time className="figures" dateTime={state.lastSentAt}>{shortTime(state.lastSentAt)}</time></> : "; nothing sent yet"}
           </h2>
           <button type="button" className={bigButton.primary} onClick={() => void send()} disabled={sending || waiting.length === 0}>{sending ? "Sending…" : "Send now"}</button>
@@ -229,12 +277,14 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
               <li key={entry.id} className={`rounded border-2 p-3 ${entry.status === "rejected" ? "border-danger" : "border-line"}`} data-entry-id={entry.id}>
                 <p className="font-medium">{entry.summary}</p>
                 <p className="text-sm text-muted">
-                  {entry.status === "rejected" ? "Refused by the server" : entry.serverId !== undefined ? `Stored as #${entry.serverId}; photos waiting` : "Waiting"} · made <time className="figures" dateTime={entry.capturedAt}>{shortTime(entry.capturedAt)}</time>
+                  {entry.status === "rejected" ? "Refused by the server" : entry.status === "conflict" ? "Changed on the server meanwhile: choose" : entry.serverId !== undefined ? `Stored as #${entry.serverId}; photos waiting` : "Waiting"} · made <time className="figures" dateTime={entry.capturedAt}>{shortTime(entry.capturedAt)}</time>
                   {entry.photos.length ? ` · ${entry.photos.length} photo${entry.photos.length > 1 ? "s" : ""}` : ""}
                   {entry.attempts ? ` · ${entry.attempts} attempt${entry.attempts > 1 ? "s" : ""}` : ""}
                 </p>
                 {entry.status === "rejected" && entry.message ? <p className="mt-1 font-medium text-danger">{entry.message}</p> : null}
-                {confirmDelete === entry.id ? (
+                {entry.status === "conflict" && entry.current ? (
+                  <ConflictChoice entry={entry} snapshot={snapshot} onChoose={(choice) => void resolve(entry, choice)} />
+                ) : confirmDelete === entry.id ? (
                   <div role="group" aria-label="Confirm delete" className="mt-2 flex flex-wrap items-center gap-3">
                     <span>Delete this entry? It has not been sent{entry.serverId !== undefined ? " in full" : ""} and cannot be recovered.</span>
                     <button type="button" className={bigButton.danger} onClick={() => void deleteEntry(entry).then(() => { setConfirmDelete(null); return refresh(); })}>Delete entry</button>
@@ -272,7 +322,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
 
       {!editing && kinds.length > 0 && kind ? (
         <section aria-label="New entry" className="mt-4">
-          <div role="group" aria-label="What to enter" className="grid grid-cols-2 gap-2 sm:grid-cols-4">
+          <div role="group" aria-label="What to enter" className="grid grid-cols-2 gap-2 sm:grid-cols-3 lg:grid-cols-5">
             {kinds.map((candidate) => (
               <button key={candidate} type="button" aria-pressed={candidate === kind} className={candidate === kind ? bigButton.primary : bigButton.plain} onClick={() => { setKind(candidate); setSavedNote(null); }}>
                 {ENTRY_LABELS[candidate]}

@@ -11,7 +11,7 @@ import type { FieldSnapshot } from "~/models/field-snapshot";
 
 export const FIELD_DB_NAME = "firmsand-field";
 
-export type EntryKind = "dive" | "reading" | "find" | "sighting";
+export type EntryKind = "dive" | "reading" | "find" | "sighting" | "tube-status";
 
 export interface QueuedPhoto {
   /** Client id: the photo upload's Idempotency-Key. */
@@ -39,8 +39,15 @@ export interface QueueEntry {
   photos: QueuedPhoto[];
   /** Set once the server has stored the record (a find whose photos are still to go). */
   serverId?: number;
-  /** waiting: to be sent; rejected: the server refused it (message says why), the user fixes it. */
-  status: "waiting" | "rejected";
+  /**
+   * waiting: to be sent; rejected: the server refused it (message says why), the user fixes it;
+   * conflict: an edit of a record that changed on the server meanwhile (412), the user chooses.
+   */
+  status: "waiting" | "rejected" | "conflict";
+  /** An edit's If-Match: the record's version when the edit was made (a tube's status). */
+  ifMatch?: string;
+  /** The record as the server has it now, from the 412 answer, shown beside the edit. */
+  current?: Record<string, unknown>;
   message?: string;
   fieldErrors?: Record<string, string>;
   attempts: number;

@@ -39,14 +39,19 @@ class Unsent extends Error {
   }
 }
 
-async function send(url: string, key: string, init: { json?: unknown; form?: FormData }): Promise<Answer> {
+async function send(url: string, key: string | null, init: { json?: unknown; form?: FormData; method?: "POST" | "PATCH"; ifMatch?: string }): Promise<Answer> {
   const started = Date.now();
   let response: Response;
   try {
     response = await fetch(url, {
-      method: "POST",
+      method: init.method ?? "POST",
       credentials: "same-origin",
-      headers: { "Idempotency-Key": key, Accept: "application/json", ...(init.json !== undefined ? { "Content-Type": "application/json" } : {}) },
+      headers: {
+        Accept: "application/json",
+        ...(key !== null ? { "Idempotency-Key": key } : {}),
+        ...(init.ifMatch !== undefined ? { "If-Match": `"${init.ifMatch}"` } : {}),
+        ...(init.json !== undefined ? { "Content-Type": "application/json" } : {}),
+      },
       body: init.json !== undefined ? JSON.stringify(init.json) : init.form,
     });
   } catch {
@@ -100,10 +105,45 @@ function recordIdOf(kind: QueueEntry["kind"], body: Record<string, unknown> | nu
   return typeof id === "number" ? id : undefined;
 }
 
-const PATHS: Record<QueueEntry["kind"], string> = { dive: "dives", reading: "water-quality/readings", find: "finds", sighting: "wildlife/sightings" };
+const PATHS: Record<Exclude<QueueEntry["kind"], "tube-status">, string> = { dive: "dives", reading: "water-quality/readings", find: "finds", sighting: "wildlife/sightings" };
+
+/**
+ * A tube's status changed offline: a PATCH with If-Match (the tube's version when the change was
+ * made). A 412 means the tube changed on the server meanwhile: the entry waits for the user to
+ * choose between the change and the tube as it is now (the answer's `current`).
+ */
+async function sendTubeStatus(entry: QueueEntry, noteClock: (offsetMs: number) => void): Promise<SentEntry | QueueEntry> {
+  const working: QueueEntry = { ...entry, attempts: entry.attempts + 1, lastAttemptAt: new Date().toISOString() };
+  let answer: Answer;
+  try {
+    answer = await send(`/api/projects/${entry.projectId}/dewatering/tubes/${String(entry.form.tube)}`, null, { method: "PATCH", json: entry.body, ifMatch: entry.ifMatch });
+  } catch (error) {
+    if (error instanceof Unsent) await putEntry({ ...working, status: "waiting", message: error.message });
+    throw error;
+  }
+  if (answer.clockOffsetMs !== undefined) noteClock(answer.clockOffsetMs);
+  if (answer.status === 412 && answer.body?.current) {
+    const conflicted: QueueEntry = { ...working, status: "conflict", current: answer.body.current as Record<string, unknown>, message: refusalOf(answer).message };
+    await putEntry(conflicted);
+    return conflicted;
+  }
+  if (answer.status >= 400) {
+    const refused: QueueEntry = { ...working, status: "rejected", ...refusalOf(answer) };
+    await putEntry(refused);
+    return refused;
+  }
+  const tube = answer.body?.tube as { id?: number } | undefined;
+  const sent: SentEntry = {
+    id: entry.id, projectId: entry.projectId, kind: entry.kind, summary: entry.summary, capturedAt: entry.capturedAt,
+    sentAt: new Date().toISOString(), serverId: tube?.id ?? Number(entry.form.tube), notices: noticesOf(entry.kind, answer.body), replayed: false,
+  };
+  await markSent(entry, sent);
+  return sent;
+}
 
 /** Sends one entry; returns the sent record, or the entry marked refused. Throws Unsent to stop the run. */
 async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => void): Promise<SentEntry | QueueEntry> {
+  if (entry.kind === "tube-status") return sendTubeStatus(entry, noteClock);
   const base = `/api/projects/${entry.projectId}`;
   const attempted = { ...entry, attempts: entry.attempts + 1, lastAttemptAt: new Date().toISOString() };
   let working: QueueEntry = attempted;

@@ -1,10 +1,11 @@
 import { z } from "zod";
 import { CUSTODY_PURPOSES, FIND_CATEGORIES } from "../../../shared/finds/finds";
+import { TUBE_STATUSES } from "../../../shared/dewatering/tubes";
 import { TURBIDITY_UNITS } from "../../../shared/water-quality/turbidity-rule";
 
 /**
  * What a field record must hold to be stored: the dive log, turbidity readings, finds and their
- * custody handovers, wildlife sightings. The server's models check every request with these, and
+ * custody handovers, wildlife sightings, a geotextile tube's status. The server's models check every request with these, and
  * the field page checks an entry with the same schemas before it joins the offline queue, so the
  * device refuses what the server would (browser-safe: zod and shared constants only).
  */
@@ -136,3 +137,5 @@ export const sightingInputSchema = z
     idempotencyKey: z.string().trim().min(1).max(64).nullish(),
   })
   .refine((input) => input.gone || input.distance != null, { path: ["distance"], message: "give the distance from the work, or say the animal is gone" });
+
+export const tubeStatusSchema = z.object({ status: z.enum(TUBE_STATUSES, { message: `a tube's status is one of ${TUBE_STATUSES.join(", ")}` }) });
