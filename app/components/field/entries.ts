@@ -102,10 +102,12 @@ export function checkBody(kind: EntryKind, body: Record<string, unknown>, form: 
   const result = SCHEMAS[kind].safeParse(body);
   const errors: Record<string, string> = {};
   if (kind === "tube-status" && !text(form, "tube")) errors.tube = "choose the tube";
+  if (kind === "dive" && !text(form, "team")) errors.team = "choose the team";
   if (result.success) return errors;
   for (const issue of result.error.issues) {
     const key = String(issue.path[0] ?? "form");
-    errors[key] ??= issue.message;
+    // A field left empty is absent from the body: say so in words rather than the schema's type error.
+    errors[key] ??= issue.path.length === 1 && body[key] === undefined && issue.code === "invalid_type" ? "fill this in: it is required" : issue.message;
   }
   return errors;
 }
