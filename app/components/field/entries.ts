@@ -102,7 +102,7 @@ export function checkBody(kind: EntryKind, body: Record<string, unknown>, form: 
   const result = SCHEMAS[kind].safeParse(body);
   const errors: Record<string, string> = {};
   if (kind === "tube-status" && !text(form, "tube")) errors.tube = "choose the tube";
-  if (kind === "dive" && !text(form, "team")) errors.team = "choose the team";
+  if (kind === "dive" && body.team === undefined) errors.team = "choose the team";
   if (result.success) return errors;
   for (const issue of result.error.issues) {
     const key = String(issue.path[0] ?? "form");
