@@ -15,6 +15,8 @@ export interface FieldSnapshot {
   stations: Array<{ id: number; name: string; kind: string }>;
   /** Geotextile tubes with the version a status change made offline is checked against (If-Match). */
   tubes: Array<{ id: number; name: string; status: string; version: string; fillLevel: number }>;
+  /** The project's bulk mass unit, as a tube's fill is entered in it. */
+  massLabel: string;
   cells: string[];
   heldCells: string[];
   species: string[];

@@ -35,6 +35,7 @@ export async function fieldSnapshot(access: ProjectAccess): Promise<FieldSnapsho
     teams: teams.map((team) => ({ id: team.id, name: team.name, divers: team.members.map((member) => member.name) })),
     stations: stations.map((station) => ({ id: station.id, name: station.name, kind: station.kind })),
     tubes: (register?.tubes ?? []).map((tube) => ({ id: tube.id, name: tube.name, status: tube.status, version: tube.version, fillLevel: tube.fillLevel })),
+    massLabel: register?.massLabel ?? "",
     cells,
     heldCells,
     species: settings?.species ?? [],

@@ -245,6 +245,26 @@ test.describe("sending", () => {
     expect(now.tube.status).toBe("dewatering");
   });
 
+  test("a tube fill made offline is stored once when the connection returns", async ({ page, context, baseURL }) => {
+    const name = marker("fill-tube");
+    const registered = await api.post(`/api/projects/${projectId}/dewatering/tubes`, { data: { name, circumference: 60, length: 100, capacityDryMassPerLength: 0.5 }, headers: { Origin: new URL(baseURL!).origin } });
+    expect(registered.status()).toBe(201);
+    const { tube } = (await registered.json()) as { tube: { id: number } };
+    await openFieldPage(page);
+    await context.setOffline(true);
+    await page.getByRole("button", { name: "Tube fill", exact: true }).click();
+    await page.getByLabel("Tube", { exact: true }).selectOption(String(tube.id));
+    await page.getByLabel(/^Dry solids/).fill("3.5");
+    await page.getByRole("button", { name: "Save to the queue" }).click();
+    await expect(page.getByRole("heading", { name: /^1 waiting to send/ })).toBeVisible();
+    await context.setOffline(false);
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; last sent/ })).toBeVisible({ timeout: 15_000 });
+    const now = (await (await api.get(`/api/projects/${projectId}/dewatering/tubes/${tube.id}`)).json()) as { tube: { fills: Array<{ drySolids: number }> } };
+    // Kept in kilograms and shown in the project's short tons: equal to the entry within rounding.
+    expect(now.tube.fills).toHaveLength(1);
+    expect(now.tube.fills[0].drySolids).toBeCloseTo(3.5, 9);
+  });
+
   test("a device clock more than 5 minutes off the server's is shown", async ({ page }) => {
     // The server's Date header says 12 minutes later than this device's clock.
     await page.route("**/healthz", (route) => route.fulfill({ status: 200, contentType: "application/json", headers: { Date: new Date(Date.now() + 12 * 60_000).toUTCString() }, body: JSON.stringify({ ok: true, db: "up" }) }));

@@ -7,7 +7,8 @@ const snapshot: FieldSnapshot = {
   may: { dives: true, readings: true, finds: true, sightings: true, tubes: true },
   teams: [{ id: 7, name: "Team A", divers: ["Ana Diver"] }],
   stations: [{ id: 3, name: "CP-1", kind: "compliance" }],
-  tubes: [],
+  tubes: [{ id: 4, name: "T-1", status: "filling", version: "v1", fillLevel: 0.2 }],
+  massLabel: "short tons",
   cells: ["A1"],
   heldCells: [],
   species: ["manatee"],
@@ -62,5 +63,17 @@ describe("bodyOf and checkBody: the device refuses what the server's schema refu
     const form = { ...blankForm("sighting", snapshot, new Date()), species: "manatee", observer: "Ana" };
     expect(checkBody("sighting", bodyOf("sighting", form))).toHaveProperty("distance");
     expect(checkBody("sighting", bodyOf("sighting", { ...form, gone: true }))).toEqual({});
+  });
+
+  it("a tube fill: dry solids and an optional metered slurry volume, as the server's schema reads them", () => {
+    const form: FormValues = { ...blankForm("tube-fill", snapshot, new Date()), drySolids: "2.5" };
+    expect(form.tube).toBe("4");
+    const body = bodyOf("tube-fill", form);
+    expect(body).toMatchObject({ drySolids: 2.5, slurryVolume: null });
+    expect(checkBody("tube-fill", body, form)).toEqual({});
+    const metered = bodyOf("tube-fill", { ...form, slurryVolume: "1200", slurryUnit: "gal" });
+    expect(metered.slurryVolume).toEqual({ value: 1200, unit: "gal" });
+    expect(checkBody("tube-fill", bodyOf("tube-fill", { ...form, drySolids: "0" }), form)).toEqual({ drySolids: "the dry solids are more than 0" });
+    expect(checkBody("tube-fill", body, { ...form, tube: "" })).toEqual({ tube: "choose the tube" });
   });
 });

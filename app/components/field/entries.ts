@@ -1,7 +1,7 @@
 import type { z } from "zod";
 import { FIND_CATEGORY_LABELS, type FindCategory } from "../../../shared/finds/finds";
 import { localDayOf } from "../../../shared/local-time";
-import { diveInputSchema, findInputSchema, readingInputSchema, sightingInputSchema, tubeStatusSchema } from "~/lib/field-records/inputs";
+import { diveInputSchema, fillInputSchema, findInputSchema, readingInputSchema, sightingInputSchema, tubeStatusSchema } from "~/lib/field-records/inputs";
 import type { FieldSnapshot } from "~/models/field-snapshot";
 import type { EntryKind } from "./store";
 
@@ -12,7 +12,7 @@ import type { EntryKind } from "./store";
 
 export type FormValues = Record<string, string | boolean>;
 
-export const ENTRY_LABELS: Record<EntryKind, string> = { dive: "Dive log entry", reading: "Turbidity reading", find: "Find", sighting: "Wildlife sighting", "tube-status": "Tube status" };
+export const ENTRY_LABELS: Record<EntryKind, string> = { dive: "Dive log entry", reading: "Turbidity reading", find: "Find", sighting: "Wildlife sighting", "tube-fill": "Tube fill", "tube-status": "Tube status" };
 
 const pad = (value: number) => String(value).padStart(2, "0");
 
@@ -64,6 +64,8 @@ export function blankForm(kind: EntryKind, snapshot: FieldSnapshot, now: Date): 
       return { category: "", description: "", cell: "", foundAt: at, count: "1", finder: "", fieldTag: "", depthBelowSurface: "" };
     case "sighting":
       return { species: "", seenAt: at, distance: "", gone: false, observer: "", note: "" };
+    case "tube-fill":
+      return { tube: snapshot.tubes.length === 1 ? String(snapshot.tubes[0].id) : "", date: localDayOf(now.getTime(), snapshot.project.timeZone), drySolids: "", slurryVolume: "", slurryUnit: "gal" };
     case "tube-status":
       return { tube: snapshot.tubes.length === 1 ? String(snapshot.tubes[0].id) : "", status: "" };
   }
@@ -89,19 +91,23 @@ export function bodyOf(kind: EntryKind, form: FormValues): Record<string, unknow
       };
     case "sighting":
       return { species: text(form, "species"), seenAt: instantOf(form.seenAt), distance: number(form, "distance") ?? null, gone: form.gone === true, observer: text(form, "observer"), note: text(form, "note") ?? null };
+    case "tube-fill": {
+      const volume = number(form, "slurryVolume");
+      return { date: text(form, "date") ?? "", drySolids: number(form, "drySolids"), slurryVolume: volume === undefined ? null : { value: volume, unit: text(form, "slurryUnit") } };
+    }
     case "tube-status":
       // The tube is the address (dewatering/tubes/<id>), not part of the body.
       return { status: text(form, "status") };
   }
 }
 
-const SCHEMAS: Record<EntryKind, z.ZodType> = { dive: diveInputSchema, reading: readingInputSchema, find: findInputSchema, sighting: sightingInputSchema, "tube-status": tubeStatusSchema };
+const SCHEMAS: Record<EntryKind, z.ZodType> = { dive: diveInputSchema, reading: readingInputSchema, find: findInputSchema, sighting: sightingInputSchema, "tube-fill": fillInputSchema, "tube-status": tubeStatusSchema };
 
 /** The server's own check, run on the device: errors per form field (first message each). */
 export function checkBody(kind: EntryKind, body: Record<string, unknown>, form: FormValues = {}): Record<string, string> {
   const result = SCHEMAS[kind].safeParse(body);
   const errors: Record<string, string> = {};
-  if (kind === "tube-status" && !text(form, "tube")) errors.tube = "choose the tube";
+  if ((kind === "tube-status" || kind === "tube-fill") && !text(form, "tube")) errors.tube = "choose the tube";
   if (kind === "dive" && body.team === undefined) errors.team = "choose the team";
   if (result.success) return errors;
   for (const issue of result.error.issues) {
@@ -114,7 +120,7 @@ export function checkBody(kind: EntryKind, body: Record<string, unknown>, form: 
 
 /** The capture time an entry carries as the record's time (the dive's day has no clock time: the device's now). */
 export function recordTimeOf(kind: EntryKind, body: Record<string, unknown>): string | undefined {
-  const field = { dive: undefined, reading: "takenAt", find: "foundAt", sighting: "seenAt", "tube-status": undefined }[kind];
+  const field = { dive: undefined, reading: "takenAt", find: "foundAt", sighting: "seenAt", "tube-fill": undefined, "tube-status": undefined }[kind];
   return field ? (body[field] as string | undefined) : undefined;
 }
 
@@ -133,6 +139,10 @@ export function summaryOf(kind: EntryKind, body: Record<string, unknown>, snapsh
       return `Find · ${FIND_CATEGORY_LABELS[body.category as FindCategory] ?? body.category} · ${String(body.description ?? "").slice(0, 60)}${body.cell ? ` · ${body.cell}` : ""}`;
     case "sighting":
       return `Sighting · ${body.species}${body.gone ? " · gone" : body.distance != null ? ` · ${body.distance} ${snapshot.project.lengthLabel}` : ""}`;
+    case "tube-fill": {
+      const tube = snapshot.tubes.find((candidate) => String(candidate.id) === form.tube);
+      return `Tube fill · ${tube?.name ?? form.tube} · ${body.date} · ${body.drySolids} ${snapshot.massLabel} dry solids`;
+    }
     case "tube-status": {
       const tube = snapshot.tubes.find((candidate) => String(candidate.id) === form.tube);
       return `Tube ${tube?.name ?? form.tube} · ${tube?.status ?? "?"} → ${body.status}`;

@@ -172,6 +172,15 @@ export function EntryForm({ kind, snapshot, initial, initialPhotos = [], serverE
           <BigTextArea label="Note" {...bind("note")} />
         </>
       ) : null}
+      {kind === "tube-fill" ? (
+        <div className="grid gap-4 sm:grid-cols-2">
+          <BigSelect label="Tube" placeholder="Choose the tube" options={snapshot.tubes.map((tube) => ({ value: String(tube.id), label: `${tube.name} (${tube.status}, ${Math.round(tube.fillLevel * 100)} % full)` }))} {...bind("tube")} />
+          <BigInput label="Day of the fill" type="date" {...bind("date")} />
+          <BigInput label={`Dry solids (${snapshot.massLabel})`} inputMode="decimal" hint="Estimated dry solids delivered to the tube." {...bind("drySolids")} />
+          <BigInput label="Slurry pumped (if metered)" inputMode="decimal" {...bind("slurryVolume")} />
+          <BigSelect label="Slurry unit" options={[{ value: "gal", label: "gal" }, { value: "m3", label: "m³" }]} {...bind("slurryUnit")} />
+        </div>
+      ) : null}
       {kind === "tube-status" ? (
         <div className="grid gap-4 sm:grid-cols-2">
           <BigSelect label="Tube" placeholder="Choose the tube" options={snapshot.tubes.map((tube) => ({ value: String(tube.id), label: `${tube.name} (${tube.status}, ${Math.round(tube.fillLevel * 100)} % full)` }))} {...bind("tube")} />

@@ -113,8 +113,8 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
   const projectId = snapshot.project.id;
   const online = useOnline();
   const offlineReady = useOfflineReady(online);
-  const permission = { dive: "dives", reading: "readings", find: "finds", sighting: "sightings", "tube-status": "tubes" } as const;
-  const kinds = (["dive", "reading", "find", "sighting", "tube-status"] as const).filter((kind) => snapshot.may[permission[kind]]);
+  const permission = { dive: "dives", reading: "readings", find: "finds", sighting: "sightings", "tube-fill": "tubes", "tube-status": "tubes" } as const;
+  const kinds = (["dive", "reading", "find", "sighting", "tube-fill", "tube-status"] as const).filter((kind) => snapshot.may[permission[kind]]);
   const [kind, setKind] = useState<EntryKind | null>(kinds[0] ?? null);
   const [formKey, setFormKey] = useState(0);
   const [entries, setEntries] = useState<QueueEntry[] | null>(null);
@@ -322,7 +322,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
 
       {!editing && kinds.length > 0 && kind ? (
         <section aria-label="New entry" className="mt-4">
-          <div role="group" aria-label="What to enter" className="grid grid-cols-2 gap-2 sm:grid-cols-3 lg:grid-cols-5">
+          <div role="group" aria-label="What to enter" className="grid grid-cols-2 gap-2 sm:grid-cols-3">
             {kinds.map((candidate) => (
               <button key={candidate} type="button" aria-pressed={candidate === kind} className={candidate === kind ? bigButton.primary : bigButton.plain} onClick={() => { setKind(candidate); setSavedNote(null); }}>
                 {ENTRY_LABELS[candidate]}

@@ -11,7 +11,7 @@ import type { FieldSnapshot } from "~/models/field-snapshot";
 
 export const FIELD_DB_NAME = "firmsand-field";
 
-export type EntryKind = "dive" | "reading" | "find" | "sighting" | "tube-status";
+export type EntryKind = "dive" | "reading" | "find" | "sighting" | "tube-fill" | "tube-status";
 
 export interface QueuedPhoto {
   /** Client id: the photo upload's Idempotency-Key. */

@@ -101,11 +101,21 @@ export function noticesOf(kind: QueueEntry["kind"], body: Record<string, unknown
 
 function recordIdOf(kind: QueueEntry["kind"], body: Record<string, unknown> | null): number | undefined {
   if (!body) return undefined;
-  const id = kind === "dive" ? (body.dive as { id?: number } | undefined)?.id : body.id;
+  const id = kind === "dive" ? (body.dive as { id?: number } | undefined)?.id : kind === "tube-fill" ? (body.tube as { fills?: Array<{ id: number }> } | undefined)?.fills?.reduce((last, fill) => Math.max(last, fill.id), 0) : body.id;
   return typeof id === "number" ? id : undefined;
 }
 
-const PATHS: Record<Exclude<QueueEntry["kind"], "tube-status">, string> = { dive: "dives", reading: "water-quality/readings", find: "finds", sighting: "wildlife/sightings" };
+/** Where each new record is posted (a fill goes to its tube). */
+function pathOf(entry: QueueEntry): string {
+  switch (entry.kind) {
+    case "dive": return "dives";
+    case "reading": return "water-quality/readings";
+    case "find": return "finds";
+    case "sighting": return "wildlife/sightings";
+    case "tube-fill": return `dewatering/tubes/${String(entry.form.tube)}/fills`;
+    case "tube-status": return `dewatering/tubes/${String(entry.form.tube)}`;
+  }
+}
 
 /**
  * A tube's status changed offline: a PATCH with If-Match (the tube's version when the change was
@@ -116,7 +126,7 @@ async function sendTubeStatus(entry: QueueEntry, noteClock: (offsetMs: number) =
   const working: QueueEntry = { ...entry, attempts: entry.attempts + 1, lastAttemptAt: new Date().toISOString() };
   let answer: Answer;
   try {
-    answer = await send(`/api/projects/${entry.projectId}/dewatering/tubes/${String(entry.form.tube)}`, null, { method: "PATCH", json: entry.body, ifMatch: entry.ifMatch });
+    answer = await send(`/api/projects/${entry.projectId}/${pathOf(entry)}`, null, { method: "PATCH", json: entry.body, ifMatch: entry.ifMatch });
   } catch (error) {
     if (error instanceof Unsent) await putEntry({ ...working, status: "waiting", message: error.message });
     throw error;
@@ -153,7 +163,7 @@ async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => voi
     if (working.serverId === undefined) {
       // Marked before the request: if no answer comes, the server may have stored it (the key makes a retry safe).
       await putEntry({ ...working, mayHaveReachedServer: true });
-      const answer = await send(`${base}/${PATHS[entry.kind]}`, entry.id, { json: entry.body });
+      const answer = await send(`${base}/${pathOf(entry)}`, entry.id, { json: entry.body });
       if (answer.clockOffsetMs !== undefined) noteClock(answer.clockOffsetMs);
       if (answer.status >= 400) {
         const refused: QueueEntry = { ...working, status: "rejected", ...refusalOf(answer), mayHaveReachedServer: false };

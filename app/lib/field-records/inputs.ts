@@ -5,7 +5,7 @@ import { TURBIDITY_UNITS } from "../../../shared/water-quality/turbidity-rule";
 
 /**
  * What a field record must hold to be stored: the dive log, turbidity readings, finds and their
- * custody handovers, wildlife sightings, a geotextile tube's status. The server's models check every request with these, and
+ * custody handovers, wildlife sightings, a geotextile tube's status and fills. The server's models check every request with these, and
  * the field page checks an entry with the same schemas before it joins the offline queue, so the
  * device refuses what the server would (browser-safe: zod and shared constants only).
  */
@@ -139,3 +139,11 @@ export const sightingInputSchema = z
   .refine((input) => input.gone || input.distance != null, { path: ["distance"], message: "give the distance from the work, or say the animal is gone" });
 
 export const tubeStatusSchema = z.object({ status: z.enum(TUBE_STATUSES, { message: `a tube's status is one of ${TUBE_STATUSES.join(", ")}` }) });
+
+export const fillInputSchema = z.object({
+  date: workDateSchema,
+  /** Slurry pumped into the tube, when metered. */
+  slurryVolume: z.object({ value: z.number().finite().positive("the slurry volume is more than 0").max(1e8), unit: z.enum(["gal", "m3"], { message: "the volume unit is gal or m3" }) }).nullish(),
+  /** Estimated dry solids, project bulk mass unit (short tons or tonnes). */
+  drySolids: z.number().finite().positive("the dry solids are more than 0").max(100_000),
+});
