@@ -24,6 +24,7 @@ import type { UserView } from "~/lib/auth/users.server";
 import { custodyInputSchema, findInputSchema, optionalText } from "~/lib/field-records/inputs";
 export { custodyInputSchema, findInputSchema, type CustodyInput, type FindInput } from "~/lib/field-records/inputs";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
 import { findNotices } from "../../shared/field-notices";
 
 /**
@@ -92,6 +93,8 @@ export interface CustodyView {
 }
 
 export interface FindDetail extends FindSummary, Partial<FindLocation> {
+  /** The record's version, for If-Match on an edit (app/lib/api/versions.ts). */
+  version: string;
   material: string;
   taxon: string | null;
   element: string | null;
@@ -178,6 +181,14 @@ async function findInProject(project: ProjectView, findId: number, transaction?:
   return find;
 }
 
+/**
+ * A find's version: a digest of its row, its custody entries and its photos, the same whoever asks
+ * (the detail a role sees differs, the version does not).
+ */
+function findVersion(find: Find, custodyIds: number[], photoIds: number[]): string {
+  return versionOf({ find: find.get({ plain: true }), custody: [...custodyIds].sort((a, b) => a - b), photos: [...photoIds].sort((a, b) => a - b) });
+}
+
 export async function getFind(project: ProjectView, access: Access, findId: number): Promise<FindDetail> {
   const find = await findInProject(project, findId);
   const [photos, custody, hold] = await Promise.all([
@@ -200,6 +211,7 @@ export async function getFind(project: ProjectView, access: Access, findId: numb
     statusNote: find.statusNote,
     photos: photos.map((photo) => photoView(photo, locations)),
     custody: custody.map(custodyView),
+    version: findVersion(find, custody.map((entry) => entry.id), photos.map((photo) => photo.id)),
   };
   // A hold's cells say where the find is: only for those who may see locations.
   if (locations && hold) detail.hold = { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)), lifted: hold.liftedAt !== null };
@@ -397,9 +409,27 @@ export async function recordCustody(project: ProjectView, user: UserView, findId
   });
 }
 
-export async function setFindStatus(project: ProjectView, user: UserView, findId: number, input: z.output<typeof statusInputSchema>, ip: string | null = null): Promise<void> {
+/**
+ * Sets a find's status. With `options.ifMatch` (the versions an If-Match header names), refuses with
+ * 412 and the find as `options.access` sees it now when it changed since the client saw it; the
+ * check and the change hold the find's row lock.
+ */
+export async function setFindStatus(
+  project: ProjectView, user: UserView, findId: number, input: z.output<typeof statusInputSchema>, ip: string | null = null,
+  options: { ifMatch?: string[] | "any" | null; access?: Access } = {},
+): Promise<void> {
   await getSequelize().transaction(async (transaction) => {
+    const ifMatch = options.ifMatch ?? null;
+    if (ifMatch !== null) await Find.findOne({ where: { id: findId, projectId: project.id }, attributes: ["id"], lock: transaction.LOCK.UPDATE, transaction });
     const find = await findInProject(project, findId, transaction);
+    if (ifMatch !== null && ifMatch !== "any") {
+      const [custody, photos] = await Promise.all([
+        FindCustody.findAll({ where: { findId: find.id }, attributes: ["id"], transaction }),
+        FindPhoto.findAll({ where: { findId: find.id }, attributes: ["id"], transaction }),
+      ]);
+      const version = findVersion(find, custody.map((entry) => entry.id), photos.map((photo) => photo.id));
+      if (!ifMatch.includes(version)) assertCurrentVersion(ifMatch, await getFind(project, options.access ?? { role: null, isSiteAdmin: false }, findId), "find");
+    }
     if (input.status === "released" && !["faunal", "modern-debris", "historic-debris"].includes(find.category)) {
       throw new ValidationError({ field: "status", message: "Only faunal finds and debris the lab does not keep are released; cultural finds and human remains stay in custody." });
     }

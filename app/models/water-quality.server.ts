@@ -502,8 +502,10 @@ export async function resumeStopWork(project: ProjectView, user: UserView, event
   // `at` is for the demo seed, which records a past resumption; people resume now.
   const resumedAt = options.at ?? new Date();
   await getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const event = await StopWorkEvent.findOne({ where: { projectId: project.id, id: eventId }, transaction, lock: transaction.LOCK.UPDATE });
     if (!event) throw new NotFoundError(`There is no stop-work event ${eventId} on this project.`);
+    await idempotency.created(event.id);
     if (event.resumedAt) throw new ConflictError(`Work already resumed on ${event.resumedAt.toISOString()}.`);
     const resample = await WaterQualityReading.findOne({
       where: { projectId: project.id, stationId: event.stationId, exceeds: false, takenAt: { [Op.gt]: event.openedAt, [Op.lte]: resumedAt } },
@@ -526,8 +528,10 @@ export const agencyNoticeInputSchema = z.object({
 
 export async function recordAgencyNotice(project: ProjectView, user: UserView, eventId: number, input: z.infer<typeof agencyNoticeInputSchema>, ip: string | null = null): Promise<StopWorkView> {
   await getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const event = await StopWorkEvent.findOne({ where: { projectId: project.id, id: eventId }, transaction, lock: transaction.LOCK.UPDATE });
     if (!event) throw new NotFoundError(`There is no stop-work event ${eventId} on this project.`);
+    await idempotency.created(event.id);
     await event.update({ agencyNotifiedAt: new Date(input.notifiedAt), agencyNotifiedTo: input.to, agencyNotifiedHow: input.how, notifiedById: user.id }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.stopWorkAgencyNotified, projectId: project.id, userId: user.id, ip, detail: { id: event.id, ...input } }, transaction);
   });

@@ -84,6 +84,7 @@ const MATRIX: Row[] = [
   row("POST", "api/projects/:projectId/finds", "/api/projects/{project}/finds", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/finds.csv", "/api/projects/{project}/finds.csv", "200 403 403 403 200 403 403 200 401"),
   row("GET", "api/projects/:projectId/finds/:findId", "/api/projects/{project}/finds/999999999", "404 404 404 404 404 403 404 404 401"),
+  row("PATCH", "api/projects/:projectId/finds/:findId", "/api/projects/{project}/finds/999999999", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("POST", "api/projects/:projectId/finds/:findId/custody", "/api/projects/{project}/finds/999999999/custody", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   // A JSON body where the photo upload takes multipart: 415 for those who may add photos.
   row("POST", "api/projects/:projectId/finds/:findId/photos", "/api/projects/{project}/finds/999999999/photos", "415 403 403 403 415 403 403 415 401", EMPTY_JSON),

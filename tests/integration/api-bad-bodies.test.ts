@@ -67,7 +67,7 @@ const base = () => `/api/projects/${site.project.id}`;
 // TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
 // SignInSession, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
-// the object store and the staging directory; its custody → FindCustody, Find; a hold's lift →
+// the object store and the staging directory; its custody → FindCustody, Find; its status → Find, AuditEvent; a hold's lift →
 // Hold, AuditEvent; a day's report signed or amended → DailyReport, DailyReportAmendment, AuditEvent; a signed pay period → PayPeriodReport, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
@@ -86,6 +86,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/hauls", method: "POST", url: () => `${base()}/hauls`, params: projectParams },
   { route: "api/projects/:projectId/sediment-samples", method: "POST", url: () => `${base()}/sediment-samples`, params: projectParams },
   { route: "api/projects/:projectId/finds", method: "POST", url: () => `${base()}/finds`, params: projectParams },
+  { route: "api/projects/:projectId/finds/:findId", method: "PATCH", url: () => `${base()}/finds/${findId}`, params: () => ({ ...projectParams(), findId: String(findId) }) },
   { route: "api/projects/:projectId/finds/:findId/custody", method: "POST", url: () => `${base()}/finds/${findId}/custody`, params: () => ({ ...projectParams(), findId: String(findId) }) },
   { route: "api/projects/:projectId/finds/:findId/photos", method: "POST", url: () => `${base()}/finds/${findId}/photos`, params: () => ({ ...projectParams(), findId: String(findId) }) },
   { route: "api/projects/:projectId/holds/:holdId/lift", method: "POST", url: () => `${base()}/holds/${holdId}/lift`, params: () => ({ ...projectParams(), holdId: String(holdId) }) },

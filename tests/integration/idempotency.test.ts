@@ -24,7 +24,12 @@ import { action as sightingsAction } from "~/routes/api.projects.$projectId.wild
 import { action as findsAction } from "~/routes/api.projects.$projectId.finds";
 import { action as photosAction } from "~/routes/api.projects.$projectId.finds.$findId.photos";
 import { action as custodyAction } from "~/routes/api.projects.$projectId.finds.$findId.custody";
+import { action as findAction, loader as findLoader } from "~/routes/api.projects.$projectId.finds.$findId";
 import { action as samplesAction } from "~/routes/api.projects.$projectId.sediment-samples";
+import { action as rulesAction } from "~/routes/api.projects.$projectId.water-quality.rules";
+import { action as noticeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.notification";
+import { action as resumeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.resume";
+import { StopWorkEvent } from "~/lib/db.server";
 import { addMember, makeUser, requestAs } from "./helpers";
 
 // Exactly-once field writes: every field API takes an Idempotency-Key header; a key sent twice at
@@ -230,10 +235,65 @@ describe("If-Match on an edit made offline", () => {
     expect((await patchTube("second", id, "opened")).status).toBe(200);
   });
 
+  it("refuses a find's status edit against a version changed since (412 with the current find); a handover counts as a change", async () => {
+    const id = (await (await sendJson(findsAction as never, "first", `${base()}/finds`, {}, { category: "faunal", description: "Deer antler tine", foundAt: "2026-11-20T09:00:00-05:00" })).json()).id as number;
+    const params = { projectId: String(projectId), findId: String(id) };
+    const patchFind = async (who: Who, body: unknown, ifMatch?: string) =>
+      findAction({ request: await requestAs(users.get(who)!, `${base()}/finds/${id}`, { method: "PATCH", body: JSON.stringify(body), headers: { "Content-Type": "application/json", ...(ifMatch ? { "If-Match": ifMatch } : {}) } }), params, context: {} } as never);
+    const seen = await findLoader({ request: await requestAs(users.get("second")!, `${base()}/finds/${id}`), params, context: {} } as never);
+    const etag = seen.headers.get("ETag")!;
+    expect(etag).toBe(`"${((await seen.json()) as { find: { version: string } }).find.version}"`);
+    // Meanwhile the first user hands the find over to the site store (its status moves on).
+    expect((await sendJson(custodyAction as never, "first", `${base()}/finds/${id}/custody`, { findId: String(id) }, { fromName: "Ana Reyes", toName: "Store keeper", place: "Site store", purpose: "to-site-store", handedAt: "2026-11-20T12:00:00-05:00", receiverSignature: "Store keeper" })).status).toBe(201);
+    const stale = await patchFind("second", { status: "released", note: "Returned to the lake bed" }, etag);
+    expect(stale.status).toBe(412);
+    const refused = (await stale.json()) as { errors: Array<{ field: string }>; current: { status: string; version: string; custody: unknown[] } };
+    expect(refused.errors[0].field).toBe("If-Match");
+    expect(refused.current.status).toBe("site-store");
+    expect(refused.current.custody).toHaveLength(1);
+    expect((await Find.findByPk(id))!.status).toBe("site-store");
+    const applied = await patchFind("second", { status: "released", note: "Returned to the lake bed" }, `"${refused.current.version}"`);
+    expect(applied.status).toBe(200);
+    expect(((await applied.json()) as { find: { status: string } }).find.status).toBe("released");
+    expect(applied.headers.get("ETag")).not.toBe(`"${refused.current.version}"`);
+  });
+
   it("counts a fill as a change: an edit on the version from before the fill is refused", async () => {
     const seen = await tubeLoader({ request: await requestAs(users.get("first")!, `${base()}/dewatering/tubes/${tubeId}`), params: { projectId: String(projectId), tubeId: String(tubeId) }, context: {} } as never);
     const etag = seen.headers.get("ETag")!;
     expect((await sendJson(fillsAction as never, "second", `${base()}/dewatering/tubes/${tubeId}/fills`, { tubeId: String(tubeId) }, { date: DATE, drySolids: 2 })).status).toBe(201);
     expect((await patchTube("first", tubeId, "dewatering", etag)).status).toBe(412);
+  });
+});
+
+describe("the stop-work acts with an Idempotency-Key", () => {
+  it("answers a resent agency notice and resumption with the first answer; a different notice under the key is refused", async () => {
+    expect((await sendJson(rulesAction as never, "first", `${base()}/water-quality/rules`, {}, { kind: "absolute", limit: 50, source: "Permit test condition" })).status).toBe(201);
+    expect((await sendJson(stationsAction as never, "first", `${base()}/water-quality/stations`, {}, { name: "CP-1", kind: "compliance" })).status).toBe(201);
+    const exceeding = await sendJson(readingsAction as never, "first", `${base()}/water-quality/readings`, {}, { station: "CP-1", takenAt: "2026-11-21T09:00:00-05:00", value: 80, unit: "NTU" }, randomUUID());
+    const reading = (await exceeding.json()) as { stopWork: { id: number }; notices: string[] };
+    expect(reading.notices.join(" ")).toMatch(new RegExp(`Stop-work event #${reading.stopWork.id} is open`));
+    const eventId = String(reading.stopWork.id);
+    const notice = { notifiedAt: "2026-11-21T09:30:00-05:00", to: "District office", how: "telephone" };
+    const noticeKey = randomUUID();
+    const sendNotice = (body: unknown) => sendJson(noticeAction as never, "first", `${base()}/stop-work/${eventId}/notification`, { eventId }, body, noticeKey);
+    const [a, b] = await Promise.all([sendNotice(notice), sendNotice(notice)]);
+    expect([a.status, b.status].sort()).toEqual([200, 200]);
+    expect([a.headers.get("Idempotency-Replayed"), b.headers.get("Idempotency-Replayed")].filter(Boolean)).toEqual(["true"]);
+    expect(await a.text()).toBe(await b.text());
+    expect((await sendNotice({ ...notice, to: "Someone else" })).status).toBe(422);
+
+    const within = await sendJson(readingsAction as never, "first", `${base()}/water-quality/readings`, {}, { station: "CP-1", takenAt: "2026-11-21T11:00:00-05:00", value: 20, unit: "NTU" });
+    expect(within.status).toBe(201);
+    const resumeKey = randomUUID();
+    const resume = () => sendJson(resumeAction as never, "first", `${base()}/stop-work/${eventId}/resume`, { eventId }, { note: "Resample within the limit" }, resumeKey);
+    const first = await resume();
+    expect(first.status).toBe(200);
+    // Without the key a second resumption is a 409; with it the phone's resend gets the first answer.
+    const again = await resume();
+    expect(again.status).toBe(200);
+    expect(again.headers.get("Idempotency-Replayed")).toBe("true");
+    expect(await again.text()).toBe(await first.text());
+    expect((await StopWorkEvent.findByPk(Number(eventId)))!.resumedAt).not.toBeNull();
   });
 });

@@ -158,3 +158,20 @@ export async function answerOnce(request: Request, access: Pick<ProjectAccess, "
 export function purgeIdempotencyKeys(now: number = Date.now(), keepDays: number = IDEMPOTENCY_KEEP_DAYS): Promise<number> {
   return IdempotencyKey.destroy({ where: { createdAt: { [Op.lt]: new Date(now - keepDays * 86_400_000) } } });
 }
+
+let purgeTimer: NodeJS.Timeout | undefined;
+
+/** Purges old keys now and every 6 hours (unref'd, so it never keeps a process alive). Started by the production server. */
+export function startIdempotencyKeyPurge(): void {
+  if (purgeTimer) return;
+  const purge = () =>
+    void purgeIdempotencyKeys().catch((error: unknown) => process.stderr.write(`Firmsand: the purge of old idempotency keys failed: ${(error as Error).message}\n`));
+  purge();
+  purgeTimer = setInterval(purge, 6 * 3600_000);
+  purgeTimer.unref();
+}
+
+// The production server (app/serve.mjs) starts the background tasks the app registers on load,
+// once it listens; tests and scripts that import this module start nothing.
+const registry = globalThis as typeof globalThis & { firmsandBackgroundTasks?: Array<() => void> };
+(registry.firmsandBackgroundTasks ??= []).push(startIdempotencyKeyPurge);
