@@ -265,7 +265,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
             {entries === null ? "Reading the queue…" : `${waiting.length} waiting to send`}
             {rejected.length ? `, ${rejected.length} refused` : ""}
             {conflicts.length ? `, ${conflicts.length} to decide` : ""}
-            {state.lastSentAt ? <>; last sent <time className="figures" dateTime={state.lastSentAt}>{shortTime(state.lastSentAt)}</time></> : "; nothing sent yet"}
+            {entries === null ? "" : state.lastSentAt ? <>; last sent <time className="figures" dateTime={state.lastSentAt}>{shortTime(state.lastSentAt)}</time></> : "; nothing sent yet"}
           </h2>
           <button type="button" className={bigButton.primary} onClick={() => void send()} disabled={sending || waiting.length === 0}>{sending ? "Sending…" : "Send now"}</button>
         </div>
