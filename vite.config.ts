@@ -2,7 +2,8 @@
 import { reactRouter } from "@react-router/dev/vite";
 import tailwindcss from "@tailwindcss/vite";
 import { dirname, join } from "node:path";
-import { defineConfig, type Plugin } from "vite";
+import { defineConfig, type Plugin, type PluginOption } from "vite";
+import { VitePWA } from "vite-plugin-pwa";
 
 const underVitest = Boolean(process.env.VITEST);
 
@@ -43,9 +44,76 @@ function engineWorkerBuild(): Plugin {
   };
 }
 
+/**
+ * The field app's service worker and web app manifest (Workbox's generateSW through
+ * vite-plugin-pwa). React Router's framework mode renders pages on the server, so there is no
+ * index.html to fall back to: the worker precaches the built scripts, styles, shipped fonts, icons
+ * and the offline page; a project's field page is kept as the server last rendered it (network
+ * first, so it is fresh whenever there is signal) and its data is in IndexedDB
+ * (app/components/field/); a project's map style is kept the same way; any other page asked for
+ * without a network answers the offline page. The plugin's hooks run for the browser build only
+ * (the server build has nothing to precache).
+ */
+function fieldAppWorker(): PluginOption[] {
+  const plugins = VitePWA({
+    injectRegister: false,
+    registerType: "autoUpdate",
+    outDir: "build/client",
+    includeManifestIcons: false,
+    manifest: {
+      id: "/projects",
+      name: "Firmsand field",
+      short_name: "Firmsand",
+      description: "Dive logs, readings, finds and other field records, entered at the water and sent when there is signal.",
+      start_url: "/projects",
+      scope: "/",
+      display: "standalone",
+      orientation: "any",
+      background_color: "#f7f8f6",
+      theme_color: "#14606e",
+      icons: [
+        { src: "/icons/field-192.png", sizes: "192x192", type: "image/png" },
+        { src: "/icons/field-512.png", sizes: "512x512", type: "image/png" },
+        { src: "/icons/field-maskable-512.png", sizes: "512x512", type: "image/png", purpose: "maskable" },
+        { src: "/icons/field.svg", sizes: "any", type: "image/svg+xml" },
+      ],
+    },
+    workbox: {
+      globDirectory: "build/client",
+      globPatterns: ["assets/**/*.{js,css,woff2}", "icons/*.{png,svg}", "favicon.svg", "offline.html", "manifest.webmanifest"],
+      // The map's bundle is the largest script; it is part of the shell the field pages may open.
+      maximumFileSizeToCacheInBytes: 4 * 1024 * 1024,
+      navigateFallback: null,
+      cleanupOutdatedCaches: true,
+      clientsClaim: true,
+      skipWaiting: true,
+      runtimeCaching: [
+        {
+          // A project's field page: fresh from the server when there is signal, the last copy without.
+          urlPattern: ({ request, url }) => request.mode === "navigate" && /^\/projects\/\d+\/field$/.test(url.pathname),
+          handler: "NetworkFirst",
+          options: { cacheName: "firmsand-field-pages", networkTimeoutSeconds: 6, cacheableResponse: { statuses: [200] } },
+        },
+        {
+          urlPattern: ({ url }) => /^\/projects\/\d+\/map\/style\.json$/.test(url.pathname),
+          handler: "NetworkFirst",
+          options: { cacheName: "firmsand-map-styles", networkTimeoutSeconds: 6, cacheableResponse: { statuses: [200] } },
+        },
+        {
+          // Every other page needs the server: without a network it answers the offline page.
+          urlPattern: ({ request }) => request.mode === "navigate",
+          handler: "NetworkOnly",
+          options: { precacheFallback: { fallbackURL: "/offline.html" } },
+        },
+      ],
+    },
+  });
+  return plugins.map((plugin) => ({ ...plugin, applyToEnvironment: (environment: { config: { consumer: string } }) => environment.config.consumer === "client" }));
+}
+
 export default defineConfig({
   // The React Router plugin builds the app; Vitest runs plain modules and does not need it.
-  plugins: [tailwindcss(), !underVitest && reactRouter(), !underVitest && engineWorkerBuild()],
+  plugins: [tailwindcss(), !underVitest && reactRouter(), !underVitest && engineWorkerBuild(), !underVitest && fieldAppWorker()],
   resolve: { tsconfigPaths: true },
   // The dev server serves where the app's settings say it does (HOST and PORT make its origin).
   server: { host: process.env.HOST ?? "127.0.0.1", port: Number(process.env.PORT ?? 3000), strictPort: true },

@@ -110,6 +110,7 @@ export default [
     route("water-quality/setup", "routes/projects.$projectId.water-quality.setup.tsx"),
   ]),
   route("projects/:projectId/archive", "routes/projects.$projectId.archive.ts"),
+  route("projects/:projectId/field", "routes/projects.$projectId.field.tsx"),
   route("projects/:projectId/finds/catalogue", "routes/projects.$projectId.finds.catalogue.tsx"),
   route("projects/:projectId/finds/:findId/custody-sheet", "routes/projects.$projectId.finds.$findId.custody-sheet.tsx"),
   route("projects/:projectId/map/style.json", "routes/projects.$projectId.map.style[.]json.ts"),

@@ -15,13 +15,10 @@ import { listDiveTeams, presentTeam, type DiveTeamView } from "./dive-teams.serv
 import { openHoldsOn } from "./holds.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import { workDateSchema } from "~/lib/field-records/inputs";
+export { workDateSchema } from "~/lib/field-records/inputs";
 
 /** Dive plans: the day's cells per team, refused when a cell would go to two teams on one day. */
-
-export const workDateSchema = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}$/, "a work date is written YYYY-MM-DD")
-  .refine((value) => !Number.isNaN(Date.parse(`${value}T00:00:00Z`)) && new Date(`${value}T00:00:00Z`).toISOString().startsWith(value), "that date does not exist");
 
 export const assignmentInputSchema = z.object({
   date: workDateSchema,

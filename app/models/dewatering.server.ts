@@ -12,6 +12,8 @@ import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
+export { fillInputSchema, tubeStatusSchema } from "~/lib/field-records/inputs";
+import { fillInputSchema } from "~/lib/field-records/inputs";
 
 /**
  * The dewatering operator's records: the shift log (flow, solids, polymer; its figures computed by
@@ -102,16 +104,8 @@ export const tubeInputSchema = z.object({
 }).refine((tube) => tube.bearingDegrees == null || tube.position != null, { path: ["position"], message: "give the tube's position (its centre) with its bearing" });
 export type TubeInput = z.infer<typeof tubeInputSchema>;
 
-export const fillInputSchema = z.object({
-  date: workDateSchema,
-  /** Slurry pumped into the tube, when metered. */
-  slurryVolume: z.object({ value: z.number().finite().positive("the slurry volume is more than 0").max(1e8), unit: z.enum(["gal", "m3"], { message: "the volume unit is gal or m3" }) }).nullish(),
-  /** Estimated dry solids, project bulk mass unit (short tons or tonnes). */
-  drySolids: z.number().finite().positive("the dry solids are more than 0").max(100_000),
-});
 export type FillInput = z.infer<typeof fillInputSchema>;
 
-export const tubeStatusSchema = z.object({ status: z.enum(TUBE_STATUSES, { message: `a tube's status is one of ${TUBE_STATUSES.join(", ")}` }) });
 
 export const dewateringSettingsSchema = z.object({
   solidsSpecificGravity: solidsSpecificGravitySchema,

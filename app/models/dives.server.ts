@@ -9,6 +9,8 @@ import { noDecompressionInfo, workDateSchema, type NoDecompressionInfo } from ".
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import { diveInputSchema } from "~/lib/field-records/inputs";
+export { diveInputSchema } from "~/lib/field-records/inputs";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 
 /**
@@ -16,48 +18,9 @@ import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
  * no-decompression figure for the logged maximum depth is flagged, as information only.
  */
 
-const clock = z
-  .string()
-  .trim()
-  .regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
-
 /** Minutes from 00:00. */
 const minutesOf = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
 
-export const diveInputSchema = z
-  .object({
-    date: workDateSchema,
-    /** The team's name or id. */
-    team: z.union([z.string().trim().min(1).max(120), z.number().int().positive()]),
-    /** A name on the team's roster, or, with `visitor`, anyone's. */
-    diver: z.string().trim().min(1, "name the diver").max(120),
-    /** The diver is not on the team's roster (a visitor diving with the team). */
-    visitor: z.boolean().default(false),
-    /** When the diver left the surface and left the bottom, HH:MM; or the bottom time alone. */
-    leftSurface: clock.nullish(),
-    leftBottom: clock.nullish(),
-    bottomMinutes: z.number().int().min(1, "a bottom time is at least 1 minute").max(600, "a bottom time over 600 minutes is not a dive this log takes").nullish(),
-    /** Maximum depth reached, project length unit. */
-    maxDepth: z.number().finite().positive("the maximum depth is below the surface, so more than 0").max(400),
-    cells: z.array(z.string().trim().min(1).max(16)).min(1, "name at least one cell the dive worked").max(500),
-    notes: z.string().max(4000).default(""),
-  })
-  .superRefine((input, context) => {
-    const hasTimes = Boolean(input.leftSurface) || Boolean(input.leftBottom);
-    if (hasTimes && !(input.leftSurface && input.leftBottom)) {
-      context.addIssue({ code: "custom", path: [input.leftSurface ? "leftBottom" : "leftSurface"], message: "give both times (left surface and left bottom), or the bottom time alone" });
-      return;
-    }
-    if (input.leftSurface && input.leftBottom) {
-      const span = minutesOf(input.leftBottom) - minutesOf(input.leftSurface);
-      if (span <= 0) context.addIssue({ code: "custom", path: ["leftBottom"], message: "the diver leaves the bottom after leaving the surface, on the same day" });
-      else if (input.bottomMinutes != null && input.bottomMinutes !== span) {
-        context.addIssue({ code: "custom", path: ["bottomMinutes"], message: `the times give ${span} minutes, not ${input.bottomMinutes}; give one or the other` });
-      }
-    } else if (input.bottomMinutes == null) {
-      context.addIssue({ code: "custom", path: ["bottomMinutes"], message: "give the bottom time in minutes, or the times the diver left the surface and the bottom" });
-    }
-  });
 export type DiveInput = z.infer<typeof diveInputSchema>;
 
 /**

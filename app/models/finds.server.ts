@@ -19,6 +19,8 @@ import { cellLookup } from "./assignments.server";
 import { getCellsPayload } from "./cells.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import { custodyInputSchema, findInputSchema, optionalText } from "~/lib/field-records/inputs";
+export { custodyInputSchema, findInputSchema, type CustodyInput, type FindInput } from "~/lib/field-records/inputs";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
 import { findNotices } from "../../shared/field-notices";
@@ -31,47 +33,6 @@ import { findNotices } from "../../shared/field-notices";
  * Confidential locations: every read takes the caller's access and the presenters leave the
  * location fields out entirely (not null) unless the table allows "finds.locations.read".
  */
-
-const name = (label: string, max = 120) => z.string().trim().min(1, `write the ${label}`).max(max, `the ${label} is at most ${max} characters`);
-const optionalText = (max: number) => z.string().trim().max(max, `at most ${max} characters`).nullish().transform((value) => value || null);
-const length = (label: string) => z.number({ message: `${label} is a number in the project's length unit` }).finite().min(0, `${label} cannot be negative`).max(10_000, `${label} is too large`).nullish();
-
-export const findInputSchema = z
-  .object({
-    category: z.enum(FIND_CATEGORIES, { message: `the category is one of ${FIND_CATEGORIES.join(", ")}` }),
-    description: name("description", 4000),
-    material: optionalText(120),
-    count: z.number({ message: "the count is a whole number" }).int("the count is a whole number").min(1, "the count is at least 1").max(100_000).default(1),
-    taxon: optionalText(120),
-    element: optionalText(120),
-    condition: optionalText(200),
-    cell: z.string().trim().min(1).max(16).nullish(),
-    position: z.object({ x: z.number().finite(), y: z.number().finite() }, { message: "the position is {\"x\", \"y\"} in the project's coordinates" }).nullish(),
-    depthBelowSurface: length("the depth below the water surface"),
-    depthInMuck: length("the depth within the muck"),
-    foundAt: z.iso.datetime({ offset: true, message: "foundAt is a date and time with its offset, e.g. 2026-11-03T10:42:00-05:00" }),
-    diveId: z.number().int().positive().nullish(),
-    finder: optionalText(120),
-    fieldTag: optionalText(60),
-    idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish(),
-  })
-  .superRefine((input, context) => {
-    if (input.category !== "faunal" && (input.taxon || input.element)) {
-      context.addIssue({ code: "custom", path: ["taxon"], message: "taxon and element are for faunal finds" });
-    }
-  });
-export type FindInput = z.input<typeof findInputSchema>;
-
-export const custodyInputSchema = z.object({
-  fromName: name("name of who hands it over"),
-  toName: name("name of who receives it"),
-  place: name("place it goes to", 200),
-  purpose: z.enum(CUSTODY_PURPOSES, { message: `the purpose is one of ${CUSTODY_PURPOSES.join(", ")}` }),
-  handedAt: z.iso.datetime({ offset: true, message: "handedAt is a date and time with its offset" }),
-  receiverSignature: name("receiver's name, typed as their signature"),
-  note: optionalText(2000),
-});
-export type CustodyInput = z.input<typeof custodyInputSchema>;
 
 export const statusInputSchema = z
   .object({

@@ -15,6 +15,8 @@ import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { loggedShiftDates } from "./dewatering.server";
 import { loggedDiveDates } from "./dives.server";
+import { instantSchema, ntu, readingInputSchema } from "~/lib/field-records/inputs";
+export { readingInputSchema } from "~/lib/field-records/inputs";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { readingNotices } from "../../shared/field-notices";
 
@@ -119,7 +121,6 @@ export async function saveWaterQualitySettings(project: ProjectView, user: UserV
 
 // ---- Rules ----------------------------------------------------------------------------------
 
-const ntu = z.number().finite().min(0, "turbidity is 0 NTU or more").max(10_000, "more than 10,000 NTU is not a reading this log takes");
 
 export const ruleInputSchema = z
   .object({
@@ -259,26 +260,6 @@ export async function createStation(project: ProjectView, user: UserView, input:
 
 // ---- Readings -------------------------------------------------------------------------------
 
-const instantSchema = (what: string) => z.iso.datetime({ offset: true, message: `give ${what} as an ISO 8601 date-time with its offset, e.g. 2031-05-06T09:30:00-04:00` });
-
-export const readingInputSchema = z.object({
-  /** The station's id or name. */
-  station: z.union([z.number().int().positive(), z.string().trim().min(1).max(120)], { message: "name the station (its name or id)" }),
-  takenAt: instantSchema("the time the sample was taken"),
-  value: ntu,
-  unit: z.enum(TURBIDITY_UNITS, { message: "the unit is NTU or FNU" }),
-  /** Sample depth, project length unit. */
-  depth: z.number().finite().min(0).max(400).nullish(),
-  instrument: z.string().trim().max(120).nullish(),
-  calibratedAt: instantSchema("the last calibration check").nullish(),
-  sampledBy: z.string().trim().max(120).nullish(),
-  note: z.string().max(4000).nullish(),
-  ph: z.number().finite().min(0).max(14, "pH is between 0 and 14").nullish(),
-  dissolvedOxygen: z.number().finite().min(0).max(30, "dissolved oxygen over 30 mg/L is not a reading this log takes").nullish(),
-  temperature: z.number().finite().min(-5).max(60).nullish(),
-  /** Sent again with the same key (an offline form re-sent), the reading is stored once. */
-  idempotencyKey: z.string().trim().min(1).max(64).nullish(),
-});
 export type ReadingInput = z.infer<typeof readingInputSchema>;
 
 export interface StopWorkRef {

@@ -7,6 +7,8 @@ import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { getWaterQualitySettings } from "./water-quality.server";
+import { sightingInputSchema } from "~/lib/field-records/inputs";
+export { sightingInputSchema } from "~/lib/field-records/inputs";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { sightingNotices } from "../../shared/field-notices";
 
@@ -16,20 +18,6 @@ import { sightingNotices } from "../../shared/field-notices";
  * A later sighting of the same species beyond the distance, or marked gone, records its leaving.
  */
 
-export const sightingInputSchema = z
-  .object({
-    species: z.string().trim().min(1, "name the species").max(120),
-    seenAt: z.iso.datetime({ offset: true, message: "give the time as an ISO 8601 date-time with its offset, e.g. 2031-05-06T09:30:00-04:00" }),
-    /** From the work, project length unit; may be left out when the animal is gone. */
-    distance: z.number().finite().min(0, "the distance is 0 or more").max(100_000).nullish(),
-    /** The animal has left (out of sight). */
-    gone: z.boolean().default(false),
-    position: z.object({ x: z.number().finite(), y: z.number().finite() }).nullish(),
-    observer: z.string().trim().min(1, "name the observer").max(120),
-    note: z.string().max(4000).nullish(),
-    idempotencyKey: z.string().trim().min(1).max(64).nullish(),
-  })
-  .refine((input) => input.gone || input.distance != null, { path: ["distance"], message: "give the distance from the work, or say the animal is gone" });
 export type SightingInput = z.infer<typeof sightingInputSchema>;
 
 export interface StandDownView {

@@ -1,5 +1,5 @@
 import { Form, Link, Outlet, useLocation, useMatches } from "react-router";
-import { can, roleAllows } from "~/lib/auth/permissions";
+import { can, roleAllows, type Action } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { roleLabel } from "~/lib/auth/roles";
 import { StopWorkBanner } from "~/components/stop-work-banner";
@@ -25,6 +25,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     // An archived project says so on every page; a site admin can restore it from the banner.
     archive: await archiveStateOf(project),
     canRestore: can(access, "project.restore"),
+    // The field page (outside this layout) for members who enter field records.
+    canEnterField: ["dives.log", "water-quality.record", "finds.log", "wildlife.record"].some((action) => can(access, action as Action)),
     // Open stop-work events and stand-downs show on every project page.
     stoppages: await currentStoppages(project),
     canReadFinds,
@@ -42,11 +44,14 @@ interface ProjectTab {
   label: string;
   path: string;
   also?: string[];
+  /** A page outside this layout, loaded as a whole document (the field page, which the service worker keeps for offline use). */
+  document?: boolean;
 }
 
 function projectTabs(data: Route.ComponentProps["loaderData"]): ProjectTab[] {
   const tabs: Array<ProjectTab | false> = [
     { label: "Overview", path: "" },
+    data.canEnterField && { label: "Field entry", path: "/field", document: true },
     { label: "Map", path: "/map" },
     { label: "Surveys", path: "/surveys" },
     { label: "Dive plans", path: "/plans", also: ["/teams"] },
@@ -106,7 +111,7 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
         {projectTabs(loaderData).map((tab) => {
           const current = isCurrent(tab, rest);
           return (
-            <Link key={tab.path} to={`${base}${tab.path}`} className={tabClass(current)} aria-current={current ? "page" : undefined}>{tab.label}</Link>
+            <Link key={tab.path} to={`${base}${tab.path}`} reloadDocument={tab.document} className={tabClass(current)} aria-current={current ? "page" : undefined}>{tab.label}</Link>
           );
         })}
       </nav>

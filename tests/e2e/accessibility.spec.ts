@@ -72,6 +72,7 @@ const PAGES: PageRow[] = [
   { route: "projects/:projectId/water-quality", url: (ids) => `/projects/${ids.project}/water-quality`, as: "resource-monitor" },
   { route: "projects/:projectId/water-quality/compliance", url: (ids) => `/projects/${ids.project}/water-quality/compliance`, as: "manager" },
   { route: "projects/:projectId/water-quality/setup", url: (ids) => `/projects/${ids.project}/water-quality/setup`, as: "manager" },
+  { route: "projects/:projectId/field", url: (ids) => `/projects/${ids.project}/field`, as: "manager" },
   { route: "projects/:projectId/finds/catalogue", url: (ids) => `/projects/${ids.project}/finds/catalogue`, as: "resource-monitor" },
   { route: "projects/:projectId/finds/:findId/custody-sheet", url: (ids) => `/projects/${ids.project}/finds/${ids.find}/custody-sheet`, as: "resource-monitor" },
   { route: "projects/:projectId/quantities/report", url: (ids) => `/projects/${ids.project}/quantities/report`, as: "manager" },

@@ -1,0 +1,355 @@
+import { useCallback, useEffect, useRef, useState } from "react";
+import { StopWorkBanner } from "~/components/stop-work-banner";
+import type { FieldSnapshot } from "~/models/field-snapshot";
+import { blankForm, deviceIso, ENTRY_LABELS, recordTimeOf, summaryOf } from "./entries";
+import { EntryForm, type EntryDraft } from "./entry-form";
+import { bigButton } from "./inputs";
+import { deleteEntry, keptSnapshot, nextOrder, onChange, putEntry, queuedEntries, saveSnapshot, sentEntries, syncState, type EntryKind, type QueueEntry, type SentEntry, type SyncState } from "./store";
+import { checkClock, CLOCK_WARNING_MS, sendQueue, type SyncReport } from "./sync";
+
+/** "10:42" today, "3 Dec 10:42" another day: the device's clock. */
+export function shortTime(iso: string | undefined): string {
+  if (!iso) return "";
+  const date = new Date(iso);
+  const today = new Date().toDateString() === date.toDateString();
+  return new Intl.DateTimeFormat("en-GB", today ? { hour: "2-digit", minute: "2-digit", hourCycle: "h23" } : { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).format(date);
+}
+
+function useOnline(): boolean {
+  const [online, setOnline] = useState(true);
+  useEffect(() => {
+    const update = () => setOnline(navigator.onLine);
+    update();
+    window.addEventListener("online", update);
+    window.addEventListener("offline", update);
+    return () => {
+      window.removeEventListener("online", update);
+      window.removeEventListener("offline", update);
+    };
+  }, []);
+  return online;
+}
+
+/** The service worker's cache of field pages (vite.config.ts names it). */
+const FIELD_PAGES_CACHE = "firmsand-field-pages";
+
+/**
+ * Registers the service worker that keeps the app's files on the device, and keeps this page in its
+ * cache: the worker stores a field page each time it is opened with signal, but not the visit that
+ * installed it (nor one reached by a link inside the app), so the page puts itself there once the
+ * worker is running. True once the page would open again without a connection.
+ */
+function useOfflineReady(online: boolean): boolean | null {
+  const [ready, setReady] = useState<boolean | null>(null);
+  useEffect(() => {
+    if (!("serviceWorker" in navigator) || !("caches" in window)) {
+      setReady(false);
+      return;
+    }
+    let cancelled = false;
+    navigator.serviceWorker.register("/sw.js", { scope: "/" }).catch(() => setReady(false));
+    void navigator.serviceWorker.ready.then(async () => {
+      const cache = await caches.open(FIELD_PAGES_CACHE);
+      if (online && !(await cache.match(location.pathname))) await cache.add(location.pathname).catch(() => {});
+      if (!cancelled) setReady(Boolean(await cache.match(location.pathname)));
+    });
+    return () => {
+      cancelled = true;
+    };
+  }, [online]);
+  return ready;
+}
+
+function minutesApart(offsetMs: number): string {
+  const minutes = Math.round(Math.abs(offsetMs) / 60_000);
+  return minutes >= 120 ? `${Math.round(minutes / 60)} hours` : `${minutes} minutes`;
+}
+
+/**
+ * An edit made offline whose record changed on the server meanwhile (412): the edit and the record
+ * as it is now, side by side; the user keeps one.
+ */
+function ConflictChoice({ entry, snapshot, onChoose }: { entry: QueueEntry; snapshot: FieldSnapshot; onChoose: (choice: "mine" | "theirs") => void }) {
+  const current = entry.current as { name?: string; status?: string; fillLevel?: number; fills?: unknown[] };
+  const seen = snapshot.tubes.find((tube) => String(tube.id) === entry.form.tube);
+  return (
+    <div className="mt-2">
+      <p className="text-sm">{entry.message}</p>
+      <div className="mt-2 grid gap-3 sm:grid-cols-2">
+        <section aria-label="Your change" className="rounded border-2 border-lagoon p-3">
+          <h3 className="font-semibold">Your change (made <time className="figures" dateTime={entry.capturedAt}>{shortTime(entry.capturedAt)}</time>)</h3>
+          <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
+            <dt>Status</dt><dd>{seen?.status ?? "?"} → <strong>{String(entry.body.status)}</strong></dd>
+            <dt>Fill level seen</dt><dd className="figures">{seen ? `${Math.round(seen.fillLevel * 100)} %` : "?"}</dd>
+          </dl>
+        </section>
+        <section aria-label="On the server now" className="rounded border-2 border-caution p-3">
+          <h3 className="font-semibold">On the server now</h3>
+          <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
+            <dt>Status</dt><dd><strong>{current.status ?? "?"}</strong></dd>
+            <dt>Fill level</dt><dd className="figures">{current.fillLevel !== undefined ? `${Math.round(current.fillLevel * 100)} %` : "?"}{current.fills ? ` (${current.fills.length} fills)` : ""}</dd>
+          </dl>
+        </section>
+      </div>
+      <div className="mt-2 flex flex-wrap gap-3">
+        <button type="button" className={bigButton.primary} onClick={() => onChoose("mine")}>Send my change</button>
+        <button type="button" className={bigButton.plain} onClick={() => onChoose("theirs")}>Keep the server's and drop mine</button>
+      </div>
+    </div>
+  );
+}
+
+interface FieldPageProps {
+  snapshot: FieldSnapshot;
+  /** "server": fresh from the server now; "device": the copy this device kept. */
+  source: "server" | "device";
+}
+
+/**
+ * The field page: entries are made here with or without signal, kept in the device's queue and sent
+ * in order when the connection returns (or on "Send now"), each exactly once.
+ */
+export function FieldPage({ snapshot, source }: FieldPageProps) {
+  const projectId = snapshot.project.id;
+  const online = useOnline();
+  const offlineReady = useOfflineReady(online);
+  const permission = { dive: "dives", reading: "readings", find: "finds", sighting: "sightings", "tube-fill": "tubes", "tube-status": "tubes" } as const;
+  const kinds = (["dive", "reading", "find", "sighting", "tube-fill", "tube-status"] as const).filter((kind) => snapshot.may[permission[kind]]);
+  const [kind, setKind] = useState<EntryKind | null>(kinds[0] ?? null);
+  const [formKey, setFormKey] = useState(0);
+  const [entries, setEntries] = useState<QueueEntry[] | null>(null);
+  const [sent, setSent] = useState<SentEntry[]>([]);
+  const [state, setState] = useState<SyncState>({ projectId });
+  const [editing, setEditing] = useState<QueueEntry | null>(null);
+  const [confirmDelete, setConfirmDelete] = useState<string | null>(null);
+  const [sending, setSending] = useState(false);
+  const [lastRun, setLastRun] = useState<SyncReport | null>(null);
+  const [savedNote, setSavedNote] = useState<string | null>(null);
+  const [storageError, setStorageError] = useState<string | null>(null);
+  const queueHeading = useRef<HTMLHeadingElement>(null);
+
+  const refresh = useCallback(async () => {
+    try {
+      const [queued, recent, sync] = await Promise.all([queuedEntries(projectId), sentEntries(projectId), syncState(projectId)]);
+      setEntries(queued);
+      setSent(recent);
+      setState(sync);
+    } catch (error) {
+      setStorageError(`This device's storage cannot be read (${error instanceof Error ? error.message : "unknown error"}): entries cannot be kept offline in this browser.`);
+    }
+  }, [projectId]);
+
+  // The project data used offline is the copy saved on each load with signal.
+  useEffect(() => {
+    // A page the service worker kept carries the data it was rendered with: never let it replace a newer copy.
+    if (source === "server") {
+      void keptSnapshot(projectId)
+        .then((kept) => (!kept || kept.snapshot.takenAt < snapshot.takenAt ? saveSnapshot(snapshot) : undefined))
+        .catch(() => {});
+    }
+  }, [projectId, snapshot, source]);
+
+  useEffect(() => {
+    void refresh();
+    return onChange((changed) => {
+      if (changed === projectId) void refresh();
+    });
+  }, [projectId, refresh]);
+
+  const send = useCallback(async () => {
+    setSending(true);
+    try {
+      const report = await sendQueue(projectId, () => void refresh());
+      setLastRun(report);
+      if (!report.stoppedBy && report.sent.length === 0 && report.rejected.length === 0) await checkClock(projectId);
+    } finally {
+      setSending(false);
+      await refresh();
+    }
+  }, [projectId, refresh]);
+
+  // Send when the connection returns, when the page opens with signal, and every minute while entries wait
+  // (a phone can say it is online while no data gets through).
+  useEffect(() => {
+    const onOnline = () => void send();
+    window.addEventListener("online", onOnline);
+    if (navigator.onLine) void send();
+    const timer = window.setInterval(() => {
+      if (!navigator.onLine) return;
+      void queuedEntries(projectId).then((queued) => {
+        if (queued.some((entry) => entry.status === "waiting")) void send();
+      });
+    }, 60_000);
+    return () => {
+      window.removeEventListener("online", onOnline);
+      window.clearInterval(timer);
+    };
+  }, [projectId, send]);
+
+  async function save(entryKind: EntryKind, draft: EntryDraft, existing: QueueEntry | null) {
+    const now = new Date();
+    // A status change is checked against the tube as this page last saw it (If-Match); an entry keeps the version it was made against.
+    const tubeVersion = (tubeId: string | boolean | undefined) => snapshot.tubes.find((tube) => String(tube.id) === tubeId)?.version;
+    const ifMatch = entryKind !== "tube-status" ? undefined : existing && existing.form.tube === draft.form.tube ? existing.ifMatch : tubeVersion(draft.form.tube);
+    const entry: QueueEntry = existing
+      ? { ...existing, form: draft.form, body: existing.serverId !== undefined ? existing.body : draft.body, photos: draft.photos, status: "waiting", message: undefined, fieldErrors: undefined, ifMatch, current: undefined, summary: existing.serverId !== undefined ? existing.summary : summaryOf(entryKind, draft.body, snapshot, draft.form) }
+      : {
+          id: crypto.randomUUID(), projectId, kind: entryKind, order: await nextOrder(), capturedAt: recordTimeOf(entryKind, draft.body) ?? deviceIso(now),
+          form: draft.form, body: draft.body, photos: draft.photos, status: "waiting", attempts: 0, ifMatch, summary: summaryOf(entryKind, draft.body, snapshot, draft.form),
+        };
+    if (existing && existing.serverId === undefined) entry.capturedAt = recordTimeOf(entryKind, draft.body) ?? existing.capturedAt;
+    try {
+      await putEntry(entry);
+    } catch (error) {
+      setStorageError(`The entry could not be kept on this device (${error instanceof Error ? error.message : "storage refused"}). Free some space on the phone and save again; the form still holds it.`);
+      throw error;
+    }
+    setEditing(null);
+    setSavedNote(`${ENTRY_LABELS[entryKind]} saved to the queue${navigator.onLine ? "; sending…" : "; it will be sent when there is a connection"}.`);
+    setFormKey((value) => value + 1);
+    await refresh();
+    queueHeading.current?.focus();
+    if (navigator.onLine) void send();
+  }
+
+  const waiting = entries?.filter((entry) => entry.status === "waiting") ?? [];
+  const rejected = entries?.filter((entry) => entry.status === "rejected") ?? [];
+  const conflicts = entries?.filter((entry) => entry.status === "conflict") ?? [];
+
+  /** The user's choice on a conflict: send the change over the record as it is now, or drop it. */
+  async function resolve(entry: QueueEntry, choice: "mine" | "theirs") {
+    if (choice === "theirs") await deleteEntry(entry);
+    else await putEntry({ ...entry, status: "waiting", ifMatch: String(entry.current?.version ?? entry.ifMatch), current: undefined, message: undefined });
+    await refresh();
+    if (choice === "mine" && navigator.onLine) void send();
+  }
+  const notices = lastRun?.sent.filter((entry) => entry.notices.length > 0) ?? [];
+  const clockOff = state.clockOffsetMs !== undefined && Math.abs(state.clockOffsetMs) > CLOCK_WARNING_MS;
+
+  return (
+    <main className="mx-auto max-w-3xl px-4 py-4 sm:px-6">
+      <nav aria-label="Project" className="mb-2 text-sm">
+        <a className="text-lagoon underline" href={`/projects/${projectId}`}>{snapshot.project.name}: project pages</a>
+      </nav>
+      <div className="flex flex-wrap items-baseline justify-between gap-2">
+        <h1 className="text-2xl font-semibold">{snapshot.project.name} · field entry</h1>
+        <p className={`rounded px-3 py-1 font-medium ${online ? "bg-ok text-white" : "bg-caution text-white"}`} role="status">{online ? "Online" : "Offline"}</p>
+      </div>
+      <p className="mt-1 text-sm text-muted">
+        Project data as of <time className="figures" dateTime={snapshot.takenAt}>{shortTime(snapshot.takenAt)}</time>
+        {source === "device" || !online ? " (the copy kept on this device: teams, stations, holds and stoppages may have changed since)" : ""}. Times are this device's clock.
+        {offlineReady === true ? " This page opens on this device without a connection." : offlineReady === false ? " This browser cannot keep the page for use without a connection; entries made here are still kept while it stays open." : ""}
+      </p>
+      <div className="mt-3">
+        <StopWorkBanner projectId={projectId} stopWork={snapshot.stoppages.stopWork} standDowns={snapshot.stoppages.standDowns} nowMs={snapshot.stoppages.nowMs} timeZone={snapshot.stoppages.timeZone} />
+      </div>
+      {storageError ? <p role="alert" className="mt-3 rounded border-2 border-danger bg-panel p-3 font-medium text-danger">{storageError}</p> : null}
+      {clockOff ? (
+        <p role="alert" className="mt-3 rounded border-2 border-caution bg-panel p-3">
+          <strong>This device's clock is {minutesApart(state.clockOffsetMs!)} {state.clockOffsetMs! > 0 ? "behind" : "ahead of"} the server's.</strong> Entries keep the time you give them; check the times of entries made meanwhile and set the phone's clock.
+        </p>
+      ) : null}
+      {notices.length > 0 ? (
+        <section role="alert" aria-labelledby="notices-heading" className="mt-3 rounded border-2 border-danger bg-panel p-3">
+          <h2 id="notices-heading" className="font-semibold text-danger">Safety notices from the server</h2>
+          <ul className="mt-2 space-y-2">
+            {notices.flatMap((entry) => entry.notices.map((notice) => <li key={`${entry.id}-${notice}`}><span className="font-medium">{entry.summary}:</span> {notice}</li>))}
+          </ul>
+          <p className="mt-2 text-sm">Follow the permit, the safety plan and the project's procedure; the notice is information, the people in charge decide.</p>
+        </section>
+      ) : null}
+
+      <section aria-labelledby="queue-heading" className="mt-4 rounded border border-line bg-panel p-4">
+        <div className="flex flex-wrap items-center justify-between gap-3">
+          <h2 id="queue-heading" ref={queueHeading} tabIndex={-1} className="text-lg font-semibold">
+            {entries === null ? "Reading the queue…" : `${waiting.length} waiting to send`}
+            {rejected.length ? `, ${rejected.length} refused` : ""}
+            {conflicts.length ? `, ${conflicts.length} to decide` : ""}
+            {entries === null ? "" : state.lastSentAt ? <>; last sent <time className="figures" dateTime={state.lastSentAt}>{shortTime(state.lastSentAt)}</time></> : "; nothing sent yet"}
+          </h2>
+          <button type="button" className={bigButton.primary} onClick={() => void send()} disabled={sending || waiting.length === 0}>{sending ? "Sending…" : "Send now"}</button>
+        </div>
+        {savedNote ? <p role="status" className="mt-2">{savedNote}</p> : null}
+        {lastRun?.stoppedBy ? <p role="status" className="mt-2 text-caution">{lastRun.stopMessage}</p> : null}
+        {entries && entries.length > 0 ? (
+          <ol className="mt-3 space-y-3" aria-label="Entries in the queue, in sending order">
+            {entries.map((entry) => (
+              <li key={entry.id} className={`rounded border-2 p-3 ${entry.status === "rejected" ? "border-danger" : "border-line"}`} data-entry-id={entry.id}>
+                <p className="font-medium">{entry.summary}</p>
+                <p className="text-sm text-muted">
+                  {entry.status === "rejected" ? "Refused by the server" : entry.status === "conflict" ? "Changed on the server meanwhile: choose" : entry.serverId !== undefined ? `Stored as #${entry.serverId}; photos waiting` : "Waiting"} · made <time className="figures" dateTime={entry.capturedAt}>{shortTime(entry.capturedAt)}</time>
+                  {entry.photos.length ? ` · ${entry.photos.length} photo${entry.photos.length > 1 ? "s" : ""}` : ""}
+                  {entry.attempts ? ` · ${entry.attempts} attempt${entry.attempts > 1 ? "s" : ""}` : ""}
+                </p>
+                {entry.status === "rejected" && entry.message ? <p className="mt-1 font-medium text-danger">{entry.message}</p> : null}
+                {entry.status === "conflict" && entry.current ? (
+                  <ConflictChoice entry={entry} snapshot={snapshot} onChoose={(choice) => void resolve(entry, choice)} />
+                ) : confirmDelete === entry.id ? (
+                  <div role="group" aria-label="Confirm delete" className="mt-2 flex flex-wrap items-center gap-3">
+                    <span>Delete this entry? It has not been sent{entry.serverId !== undefined ? " in full" : ""} and cannot be recovered.</span>
+                    <button type="button" className={bigButton.danger} onClick={() => void deleteEntry(entry).then(() => { setConfirmDelete(null); return refresh(); })}>Delete entry</button>
+                    <button type="button" className={bigButton.plain} onClick={() => setConfirmDelete(null)}>Keep it</button>
+                  </div>
+                ) : (
+                  <div className="mt-2 flex flex-wrap gap-3">
+                    <button type="button" className={bigButton.plain} onClick={() => setEditing(entry)}>{entry.status === "rejected" ? "Fix" : "Edit"}<span className="sr-only"> {entry.summary}</span></button>
+                    <button type="button" className={bigButton.plain} onClick={() => setConfirmDelete(entry.id)}>Delete<span className="sr-only"> {entry.summary}</span></button>
+                  </div>
+                )}
+              </li>
+            ))}
+          </ol>
+        ) : entries ? <p className="mt-2 text-muted">Nothing waiting: every entry made on this device has been sent.</p> : null}
+      </section>
+
+      {editing ? (
+        <section aria-label="Change a waiting entry" className="mt-4 rounded border-2 border-lagoon bg-panel p-4">
+          {editing.mayHaveReachedServer ? <p className="mb-3 rounded bg-paper p-2 text-sm">Its last sending got no answer: if the server stored it then, the stored version stands and a change made now is not applied.</p> : null}
+          <EntryForm
+            key={editing.id}
+            kind={editing.kind}
+            snapshot={snapshot}
+            initial={editing.form}
+            initialPhotos={editing.photos}
+            serverErrors={editing.fieldErrors}
+            locked={editing.serverId !== undefined}
+            editing
+            onSave={(draft) => save(editing.kind, draft, editing)}
+            onCancel={() => setEditing(null)}
+          />
+        </section>
+      ) : null}
+
+      {!editing && kinds.length > 0 && kind ? (
+        <section aria-label="New entry" className="mt-4">
+          <div role="group" aria-label="What to enter" className="grid grid-cols-2 gap-2 sm:grid-cols-3">
+            {kinds.map((candidate) => (
+              <button key={candidate} type="button" aria-pressed={candidate === kind} className={candidate === kind ? bigButton.primary : bigButton.plain} onClick={() => { setKind(candidate); setSavedNote(null); }}>
+                {ENTRY_LABELS[candidate]}
+              </button>
+            ))}
+          </div>
+          <div className="mt-4 rounded border border-line bg-panel p-4">
+            <EntryForm key={`${kind}-${formKey}`} kind={kind} snapshot={snapshot} initial={blankForm(kind, snapshot, new Date())} editing={false} onSave={(draft) => save(kind, draft, null)} />
+          </div>
+        </section>
+      ) : null}
+      {kinds.length === 0 ? <p className="mt-4">Your role on this project enters no field records (dive logs, readings, finds or sightings). The project's pages show what has been recorded.</p> : null}
+
+      {sent.length > 0 ? (
+        <section aria-labelledby="sent-heading" className="mt-6">
+          <h2 id="sent-heading" className="text-lg font-semibold">Sent from this device</h2>
+          <ul className="mt-2 space-y-2">
+            {sent.map((entry) => (
+              <li key={entry.id} className="rounded border border-line bg-panel p-3" data-sent-id={entry.id}>
+                <p>{entry.summary} · <span className="figures">#{entry.serverId}</span></p>
+                <p className="text-sm text-muted">Sent <time className="figures" dateTime={entry.sentAt}>{shortTime(entry.sentAt)}</time>{entry.replayed ? " (the server had it already: stored once)" : ""}</p>
+                {entry.notices.map((notice) => <p key={notice} className="mt-1 font-medium text-danger">{notice}</p>)}
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
+    </main>
+  );
+}

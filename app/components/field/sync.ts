@@ -1,0 +1,268 @@
+import { ENTRY_LABELS } from "./entries";
+import { markSent, putEntry, queuedEntries, updateSyncState, type QueueEntry, type SentEntry } from "./store";
+
+/**
+ * Sending the queue: entries go one at a time in the order they were made, each with its client
+ * id as the Idempotency-Key header, so a retry after a lost answer returns the record the server
+ * already stored (200, same id) instead of storing a second one.
+ *
+ * What an answer does to an entry:
+ * - 200/201: stored; it leaves the queue for the sent list, with the safety notices of the answer.
+ * - 401: the session has ended; nothing is marked, the sending stops until the user signs in.
+ * - any other 4xx: refused; the entry stays, marked with the server's message, for the user to fix.
+ * - 5xx, 408, 429 or no answer at all: it stays waiting and the sending stops (tried again later).
+ * A find goes in two steps (the find, then each photo, each photo with its own key); the find's id
+ * is kept on the entry once stored, so a retry sends only what is still missing.
+ */
+
+export const CLOCK_WARNING_MS = 5 * 60_000;
+
+export type StopReason = "offline" | "signed-out" | "server";
+
+export interface SyncReport {
+  sent: SentEntry[];
+  rejected: QueueEntry[];
+  stoppedBy?: StopReason;
+  stopMessage?: string;
+}
+
+interface Answer {
+  status: number;
+  body: Record<string, unknown> | null;
+  /** Server clock minus device clock (Date header, midpoint of the request). */
+  clockOffsetMs?: number;
+}
+
+class Unsent extends Error {
+  constructor(readonly reason: StopReason, message: string) {
+    super(message);
+  }
+}
+
+async function send(url: string, key: string | null, init: { json?: unknown; form?: FormData; method?: "POST" | "PATCH"; ifMatch?: string }): Promise<Answer> {
+  const started = Date.now();
+  let response: Response;
+  try {
+    response = await fetch(url, {
+      method: init.method ?? "POST",
+      credentials: "same-origin",
+      headers: {
+        Accept: "application/json",
+        ...(key !== null ? { "Idempotency-Key": key } : {}),
+        ...(init.ifMatch !== undefined ? { "If-Match": `"${init.ifMatch}"` } : {}),
+        ...(init.json !== undefined ? { "Content-Type": "application/json" } : {}),
+      },
+      body: init.json !== undefined ? JSON.stringify(init.json) : init.form,
+    });
+  } catch {
+    throw new Unsent("offline", "No connection: the entry waits and is sent when the connection returns.");
+  }
+  const dateHeader = response.headers.get("Date");
+  const serverMs = dateHeader ? Date.parse(dateHeader) : Number.NaN;
+  // The Date header has whole seconds: the offset is good to about a second, ample for a 5-minute warning.
+  const clockOffsetMs = Number.isNaN(serverMs) ? undefined : serverMs + 500 - (started + Date.now()) / 2;
+  let body: Record<string, unknown> | null = null;
+  try {
+    body = (await response.json()) as Record<string, unknown>;
+  } catch {
+    body = null;
+  }
+  if (response.status === 401) throw new Unsent("signed-out", "You are signed out: sign in again, then send the queue.");
+  if (response.status >= 500 || response.status === 408 || response.status === 429) {
+    throw new Unsent("server", `The server could not take the entry just now (${response.status}); it waits and is tried again.`);
+  }
+  return { status: response.status, body, clockOffsetMs };
+}
+
+/** The server's refusal in words, and per field. */
+function refusalOf(answer: Answer): { message: string; fieldErrors: Record<string, string> } {
+  const errors = Array.isArray(answer.body?.errors) ? (answer.body.errors as Array<{ field?: string; row?: number; message?: string }>) : [];
+  const fieldErrors: Record<string, string> = {};
+  for (const error of errors) {
+    if (error.field && error.message) fieldErrors[error.field.split(".")[0]] ??= error.message;
+  }
+  const message = errors.map((error) => (error.field ? `${error.field}: ${error.message}` : error.message)).filter(Boolean).join(" ") || `The server refused it (${answer.status}).`;
+  return { message, fieldErrors };
+}
+
+/**
+ * The safety notices an answer carries: the server's `notices` sentences (an exceedance and its
+ * stop-work, a stand-down, a hold), and for a dive the no-decompression flag of its answer.
+ */
+export function noticesOf(kind: QueueEntry["kind"], body: Record<string, unknown> | null): string[] {
+  if (!body) return [];
+  const notices = Array.isArray(body.notices) ? body.notices.filter((notice): notice is string => typeof notice === "string") : [];
+  if (kind === "dive") {
+    const dive = body.dive as { noDecompression?: { exceeds: boolean | null } | null } | undefined;
+    if (dive?.noDecompression?.exceeds) notices.push(`The logged bottom time is beyond the no-decompression figure for the logged depth. ${String(body.caution ?? "")}`.trim());
+  }
+  return notices;
+}
+
+function recordIdOf(kind: QueueEntry["kind"], body: Record<string, unknown> | null): number | undefined {
+  if (!body) return undefined;
+  const id = kind === "dive" ? (body.dive as { id?: number } | undefined)?.id : kind === "tube-fill" ? (body.tube as { fills?: Array<{ id: number }> } | undefined)?.fills?.reduce((last, fill) => Math.max(last, fill.id), 0) : body.id;
+  return typeof id === "number" ? id : undefined;
+}
+
+/** Where each new record is posted (a fill goes to its tube). */
+function pathOf(entry: QueueEntry): string {
+  switch (entry.kind) {
+    case "dive": return "dives";
+    case "reading": return "water-quality/readings";
+    case "find": return "finds";
+    case "sighting": return "wildlife/sightings";
+    case "tube-fill": return `dewatering/tubes/${String(entry.form.tube)}/fills`;
+    case "tube-status": return `dewatering/tubes/${String(entry.form.tube)}`;
+  }
+}
+
+/**
+ * A tube's status changed offline: a PATCH with If-Match (the tube's version when the change was
+ * made). A 412 means the tube changed on the server meanwhile: the entry waits for the user to
+ * choose between the change and the tube as it is now (the answer's `current`).
+ */
+async function sendTubeStatus(entry: QueueEntry, noteClock: (offsetMs: number) => void): Promise<SentEntry | QueueEntry> {
+  const working: QueueEntry = { ...entry, attempts: entry.attempts + 1, lastAttemptAt: new Date().toISOString() };
+  let answer: Answer;
+  try {
+    answer = await send(`/api/projects/${entry.projectId}/${pathOf(entry)}`, null, { method: "PATCH", json: entry.body, ifMatch: entry.ifMatch });
+  } catch (error) {
+    if (error instanceof Unsent) await putEntry({ ...working, status: "waiting", message: error.message });
+    throw error;
+  }
+  if (answer.clockOffsetMs !== undefined) noteClock(answer.clockOffsetMs);
+  if (answer.status === 412 && answer.body?.current) {
+    const conflicted: QueueEntry = { ...working, status: "conflict", current: answer.body.current as Record<string, unknown>, message: refusalOf(answer).message };
+    await putEntry(conflicted);
+    return conflicted;
+  }
+  if (answer.status >= 400) {
+    const refused: QueueEntry = { ...working, status: "rejected", ...refusalOf(answer) };
+    await putEntry(refused);
+    return refused;
+  }
+  const tube = answer.body?.tube as { id?: number } | undefined;
+  const sent: SentEntry = {
+    id: entry.id, projectId: entry.projectId, kind: entry.kind, summary: entry.summary, capturedAt: entry.capturedAt,
+    sentAt: new Date().toISOString(), serverId: tube?.id ?? Number(entry.form.tube), notices: noticesOf(entry.kind, answer.body), replayed: false,
+  };
+  await markSent(entry, sent);
+  return sent;
+}
+
+/** Sends one entry; returns the sent record, or the entry marked refused. Throws Unsent to stop the run. */
+async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => void): Promise<SentEntry | QueueEntry> {
+  if (entry.kind === "tube-status") return sendTubeStatus(entry, noteClock);
+  const base = `/api/projects/${entry.projectId}`;
+  const attempted = { ...entry, attempts: entry.attempts + 1, lastAttemptAt: new Date().toISOString() };
+  let working: QueueEntry = attempted;
+  let notices: string[] = [];
+  let replayed = false;
+  try {
+    if (working.serverId === undefined) {
+      // Marked before the request: if no answer comes, the server may have stored it (the key makes a retry safe).
+      await putEntry({ ...working, mayHaveReachedServer: true });
+      const answer = await send(`${base}/${pathOf(entry)}`, entry.id, { json: entry.body });
+      if (answer.clockOffsetMs !== undefined) noteClock(answer.clockOffsetMs);
+      if (answer.status >= 400) {
+        const refused: QueueEntry = { ...working, status: "rejected", ...refusalOf(answer), mayHaveReachedServer: false };
+        await putEntry(refused);
+        return refused;
+      }
+      const serverId = recordIdOf(entry.kind, answer.body);
+      if (serverId === undefined) throw new Unsent("server", "The server's answer named no record; the entry waits and is tried again.");
+      notices = noticesOf(entry.kind, answer.body);
+      replayed = answer.status === 200;
+      working = { ...working, serverId, mayHaveReachedServer: false, notices: [...(working.notices ?? []), ...notices] };
+      await putEntry(working);
+    }
+    for (const [index, photo] of working.photos.entries()) {
+      if (photo.sentId !== undefined) continue;
+      const form = new FormData();
+      form.append("file", photo.blob, photo.name);
+      const answer = await send(`${base}/finds/${working.serverId}/photos`, photo.id, { form });
+      if (answer.status >= 400) {
+        const { message, fieldErrors } = refusalOf(answer);
+        const refused: QueueEntry = { ...working, status: "rejected", message: `Find ${working.serverId} is stored; its photo "${photo.name}" was refused: ${message}`, fieldErrors };
+        await putEntry(refused);
+        return refused;
+      }
+      const photos = [...working.photos];
+      photos[index] = { ...photo, sentId: recordIdOf("find", answer.body) ?? -1 };
+      working = { ...working, photos };
+      await putEntry(working);
+    }
+  } catch (error) {
+    if (error instanceof Unsent) {
+      await putEntry({ ...working, status: "waiting", message: error.message });
+    }
+    throw error;
+  }
+  const sent: SentEntry = {
+    id: entry.id, projectId: entry.projectId, kind: entry.kind, summary: entry.summary, capturedAt: entry.capturedAt,
+    sentAt: new Date().toISOString(), serverId: working.serverId!, notices: working.notices ?? notices, replayed,
+  };
+  await markSent(entry, sent);
+  return sent;
+}
+
+let running: Promise<SyncReport> | null = null;
+
+/**
+ * Sends every waiting entry of the project, in order. One run at a time in this tab, and one per
+ * project across this device's tabs (Web Locks), so two tabs never send the same entry at once.
+ */
+export function sendQueue(projectId: number, onProgress: (report: SyncReport) => void = () => {}): Promise<SyncReport> {
+  running ??= (async () => {
+    const run = async () => {
+      const report: SyncReport = { sent: [], rejected: [] };
+      let clockOffsetMs: number | undefined;
+      const entries = (await queuedEntries(projectId)).filter((entry) => entry.status === "waiting");
+      await updateSyncState(projectId, { lastAttemptAt: new Date().toISOString() });
+      for (const entry of entries) {
+        try {
+          const outcome = await sendEntry(entry, (offset) => (clockOffsetMs = offset));
+          if ("sentAt" in outcome) report.sent.push(outcome);
+          else report.rejected.push(outcome);
+        } catch (error) {
+          if (!(error instanceof Unsent)) throw error;
+          report.stoppedBy = error.reason;
+          report.stopMessage = error.message;
+          break;
+        } finally {
+          onProgress(report);
+        }
+      }
+      if (clockOffsetMs !== undefined) await updateSyncState(projectId, { clockOffsetMs });
+      return report;
+    };
+    try {
+      return typeof navigator !== "undefined" && navigator.locks ? await navigator.locks.request(`firmsand-field-send-${projectId}`, run) : await run();
+    } finally {
+      running = null;
+    }
+  })();
+  return running;
+}
+
+export function describeKind(entry: { kind: QueueEntry["kind"] }): string {
+  return ENTRY_LABELS[entry.kind];
+}
+
+/** Asks the server for its clock (the health check's Date header) when there is nothing to send. */
+export async function checkClock(projectId: number): Promise<number | undefined> {
+  const started = Date.now();
+  try {
+    const response = await fetch("/healthz", { method: "GET", cache: "no-store" });
+    // Read to the end, so the request is over (an unread body keeps it open).
+    await response.arrayBuffer();
+    const header = response.headers.get("Date");
+    if (!header) return undefined;
+    const offset = Date.parse(header) + 500 - (started + Date.now()) / 2;
+    await updateSyncState(projectId, { clockOffsetMs: offset });
+    return offset;
+  } catch {
+    return undefined;
+  }
+}

@@ -1,0 +1,149 @@
+import { z } from "zod";
+import { CUSTODY_PURPOSES, FIND_CATEGORIES } from "../../../shared/finds/finds";
+import { TUBE_STATUSES } from "../../../shared/dewatering/tubes";
+import { TURBIDITY_UNITS } from "../../../shared/water-quality/turbidity-rule";
+
+/**
+ * What a field record must hold to be stored: the dive log, turbidity readings, finds and their
+ * custody handovers, wildlife sightings, a geotextile tube's status and fills. The server's models check every request with these, and
+ * the field page checks an entry with the same schemas before it joins the offline queue, so the
+ * device refuses what the server would (browser-safe: zod and shared constants only).
+ */
+
+export const workDateSchema = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, "a work date is written YYYY-MM-DD")
+  .refine((value) => !Number.isNaN(Date.parse(`${value}T00:00:00Z`)) && new Date(`${value}T00:00:00Z`).toISOString().startsWith(value), "that date does not exist");
+
+const clock = z
+  .string()
+  .trim()
+  .regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
+
+/** Minutes from 00:00. */
+const minutesOf = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
+
+export const diveInputSchema = z
+  .object({
+    date: workDateSchema,
+    /** The team's name or id. */
+    team: z.union([z.string().trim().min(1).max(120), z.number().int().positive()]),
+    /** A name on the team's roster, or, with `visitor`, anyone's. */
+    diver: z.string().trim().min(1, "name the diver").max(120),
+    /** The diver is not on the team's roster (a visitor diving with the team). */
+    visitor: z.boolean().default(false),
+    /** When the diver left the surface and left the bottom, HH:MM; or the bottom time alone. */
+    leftSurface: clock.nullish(),
+    leftBottom: clock.nullish(),
+    bottomMinutes: z.number().int().min(1, "a bottom time is at least 1 minute").max(600, "a bottom time over 600 minutes is not a dive this log takes").nullish(),
+    /** Maximum depth reached, project length unit. */
+    maxDepth: z.number().finite().positive("the maximum depth is below the surface, so more than 0").max(400),
+    cells: z.array(z.string().trim().min(1).max(16)).min(1, "name at least one cell the dive worked").max(500),
+    notes: z.string().max(4000).default(""),
+  })
+  .superRefine((input, context) => {
+    const hasTimes = Boolean(input.leftSurface) || Boolean(input.leftBottom);
+    if (hasTimes && !(input.leftSurface && input.leftBottom)) {
+      context.addIssue({ code: "custom", path: [input.leftSurface ? "leftBottom" : "leftSurface"], message: "give both times (left surface and left bottom), or the bottom time alone" });
+      return;
+    }
+    if (input.leftSurface && input.leftBottom) {
+      const span = minutesOf(input.leftBottom) - minutesOf(input.leftSurface);
+      if (span <= 0) context.addIssue({ code: "custom", path: ["leftBottom"], message: "the diver leaves the bottom after leaving the surface, on the same day" });
+      else if (input.bottomMinutes != null && input.bottomMinutes !== span) {
+        context.addIssue({ code: "custom", path: ["bottomMinutes"], message: `the times give ${span} minutes, not ${input.bottomMinutes}; give one or the other` });
+      }
+    } else if (input.bottomMinutes == null) {
+      context.addIssue({ code: "custom", path: ["bottomMinutes"], message: "give the bottom time in minutes, or the times the diver left the surface and the bottom" });
+    }
+  });
+
+/** Nephelometric turbidity, NTU or FNU. */
+export const ntu = z.number().finite().min(0, "turbidity is 0 NTU or more").max(10_000, "more than 10,000 NTU is not a reading this log takes");
+
+export const instantSchema = (what: string) => z.iso.datetime({ offset: true, message: `give ${what} as an ISO 8601 date-time with its offset, e.g. 2031-05-06T09:30:00-04:00` });
+
+export const readingInputSchema = z.object({
+  /** The station's id or name. */
+  station: z.union([z.number().int().positive(), z.string().trim().min(1).max(120)], { message: "name the station (its name or id)" }),
+  takenAt: instantSchema("the time the sample was taken"),
+  value: ntu,
+  unit: z.enum(TURBIDITY_UNITS, { message: "the unit is NTU or FNU" }),
+  /** Sample depth, project length unit. */
+  depth: z.number().finite().min(0).max(400).nullish(),
+  instrument: z.string().trim().max(120).nullish(),
+  calibratedAt: instantSchema("the last calibration check").nullish(),
+  sampledBy: z.string().trim().max(120).nullish(),
+  note: z.string().max(4000).nullish(),
+  ph: z.number().finite().min(0).max(14, "pH is between 0 and 14").nullish(),
+  dissolvedOxygen: z.number().finite().min(0).max(30, "dissolved oxygen over 30 mg/L is not a reading this log takes").nullish(),
+  temperature: z.number().finite().min(-5).max(60).nullish(),
+  /** Sent again with the same key (an offline form re-sent), the reading is stored once. */
+  idempotencyKey: z.string().trim().min(1).max(64).nullish(),
+});
+
+export const requiredText = (label: string, max = 120) => z.string().trim().min(1, `write the ${label}`).max(max, `the ${label} is at most ${max} characters`);
+export const optionalText = (max: number) => z.string().trim().max(max, `at most ${max} characters`).nullish().transform((value) => value || null);
+const length = (label: string) => z.number({ message: `${label} is a number in the project's length unit` }).finite().min(0, `${label} cannot be negative`).max(10_000, `${label} is too large`).nullish();
+
+export const findInputSchema = z
+  .object({
+    category: z.enum(FIND_CATEGORIES, { message: `the category is one of ${FIND_CATEGORIES.join(", ")}` }),
+    description: requiredText("description", 4000),
+    material: optionalText(120),
+    count: z.number({ message: "the count is a whole number" }).int("the count is a whole number").min(1, "the count is at least 1").max(100_000).default(1),
+    taxon: optionalText(120),
+    element: optionalText(120),
+    condition: optionalText(200),
+    cell: z.string().trim().min(1).max(16).nullish(),
+    position: z.object({ x: z.number().finite(), y: z.number().finite() }, { message: "the position is {\"x\", \"y\"} in the project's coordinates" }).nullish(),
+    depthBelowSurface: length("the depth below the water surface"),
+    depthInMuck: length("the depth within the muck"),
+    foundAt: z.iso.datetime({ offset: true, message: "foundAt is a date and time with its offset, e.g. 2026-11-03T10:42:00-05:00" }),
+    diveId: z.number().int().positive().nullish(),
+    finder: optionalText(120),
+    fieldTag: optionalText(60),
+    idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish(),
+  })
+  .superRefine((input, context) => {
+    if (input.category !== "faunal" && (input.taxon || input.element)) {
+      context.addIssue({ code: "custom", path: ["taxon"], message: "taxon and element are for faunal finds" });
+    }
+  });
+export type FindInput = z.input<typeof findInputSchema>;
+
+export const custodyInputSchema = z.object({
+  fromName: requiredText("name of who hands it over"),
+  toName: requiredText("name of who receives it"),
+  place: requiredText("place it goes to", 200),
+  purpose: z.enum(CUSTODY_PURPOSES, { message: `the purpose is one of ${CUSTODY_PURPOSES.join(", ")}` }),
+  handedAt: z.iso.datetime({ offset: true, message: "handedAt is a date and time with its offset" }),
+  receiverSignature: requiredText("receiver's name, typed as their signature"),
+  note: optionalText(2000),
+});
+export type CustodyInput = z.input<typeof custodyInputSchema>;
+
+export const sightingInputSchema = z
+  .object({
+    species: z.string().trim().min(1, "name the species").max(120),
+    seenAt: z.iso.datetime({ offset: true, message: "give the time as an ISO 8601 date-time with its offset, e.g. 2031-05-06T09:30:00-04:00" }),
+    /** From the work, project length unit; may be left out when the animal is gone. */
+    distance: z.number().finite().min(0, "the distance is 0 or more").max(100_000).nullish(),
+    /** The animal has left (out of sight). */
+    gone: z.boolean().default(false),
+    position: z.object({ x: z.number().finite(), y: z.number().finite() }).nullish(),
+    observer: z.string().trim().min(1, "name the observer").max(120),
+    note: z.string().max(4000).nullish(),
+    idempotencyKey: z.string().trim().min(1).max(64).nullish(),
+  })
+  .refine((input) => input.gone || input.distance != null, { path: ["distance"], message: "give the distance from the work, or say the animal is gone" });
+
+export const tubeStatusSchema = z.object({ status: z.enum(TUBE_STATUSES, { message: `a tube's status is one of ${TUBE_STATUSES.join(", ")}` }) });
+
+export const fillInputSchema = z.object({
+  date: workDateSchema,
+  /** Slurry pumped into the tube, when metered. */
+  slurryVolume: z.object({ value: z.number().finite().positive("the slurry volume is more than 0").max(1e8), unit: z.enum(["gal", "m3"], { message: "the volume unit is gal or m3" }) }).nullish(),
+  /** Estimated dry solids, project bulk mass unit (short tons or tonnes). */
+  drySolids: z.number().finite().positive("the dry solids are more than 0").max(100_000),
+});
