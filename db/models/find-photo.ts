@@ -1,24 +1,10 @@
-import { Model, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import type { ForeignKey, Sequelize } from "sequelize";
 import type { Find } from "./find";
-import { photoColumns, type StoredPhotoAttributes } from "./photo-columns";
+import { photoColumns, StoredPhotoModel } from "./photo-columns";
 
 /** A photo of a find: the stored image (metadata stripped) and its thumbnail, both objects in the store. */
-export class FindPhoto extends Model<InferAttributes<FindPhoto>, InferCreationAttributes<FindPhoto>> implements StoredPhotoAttributes {
-  declare id: StoredPhotoAttributes["id"];
+export class FindPhoto extends StoredPhotoModel<FindPhoto> {
   declare findId: ForeignKey<Find["id"]>;
-  declare projectId: StoredPhotoAttributes["projectId"];
-  declare objectKey: string;
-  declare thumbnailKey: string;
-  declare contentType: string;
-  declare sizeBytes: number;
-  declare thumbnailSizeBytes: number;
-  declare widthPx: number;
-  declare heightPx: number;
-  declare originalFileName: string;
-  declare exif: StoredPhotoAttributes["exif"];
-  declare uploadedById: StoredPhotoAttributes["uploadedById"];
-  declare createdAt: StoredPhotoAttributes["createdAt"];
-  declare updatedAt: StoredPhotoAttributes["updatedAt"];
 }
 
 export function initFindPhoto(sequelize: Sequelize) {

@@ -2,7 +2,7 @@ import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAtt
 import { z } from "zod";
 import { JAR_CLARITIES } from "../../shared/dewatering/jar-test";
 import { jsonColumn } from "./json-column";
-import { photoColumns, type StoredPhotoAttributes } from "./photo-columns";
+import { photoColumns, StoredPhotoModel } from "./photo-columns";
 import type { Project } from "./project";
 import type { User } from "./user";
 
@@ -72,22 +72,8 @@ export function initJarTest(sequelize: Sequelize) {
 }
 
 /** A photo of a jar test's jars (the raw and the dosed side by side). */
-export class JarTestPhoto extends Model<InferAttributes<JarTestPhoto>, InferCreationAttributes<JarTestPhoto>> implements StoredPhotoAttributes {
-  declare id: StoredPhotoAttributes["id"];
+export class JarTestPhoto extends StoredPhotoModel<JarTestPhoto> {
   declare jarTestId: ForeignKey<JarTest["id"]>;
-  declare projectId: StoredPhotoAttributes["projectId"];
-  declare objectKey: string;
-  declare thumbnailKey: string;
-  declare contentType: string;
-  declare sizeBytes: number;
-  declare thumbnailSizeBytes: number;
-  declare widthPx: number;
-  declare heightPx: number;
-  declare originalFileName: string;
-  declare exif: StoredPhotoAttributes["exif"];
-  declare uploadedById: StoredPhotoAttributes["uploadedById"];
-  declare createdAt: StoredPhotoAttributes["createdAt"];
-  declare updatedAt: StoredPhotoAttributes["updatedAt"];
 }
 
 export function initJarTestPhoto(sequelize: Sequelize) {

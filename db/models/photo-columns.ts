@@ -1,4 +1,4 @@
-import { DataTypes, type CreationOptional, type ForeignKey, type ModelAttributes } from "sequelize";
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type ModelAttributes } from "sequelize";
 import { z } from "zod";
 import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
@@ -34,6 +34,27 @@ export interface StoredPhotoAttributes {
   uploadedById: ForeignKey<User["id"]> | null;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
+}
+
+/**
+ * The model every photo table's model extends: the columns above declared once. A photo model adds
+ * only the foreign key of what it shows, and is initialised with `photoColumns`.
+ */
+export abstract class StoredPhotoModel<M extends StoredPhotoModel<M>> extends Model<InferAttributes<M>, InferCreationAttributes<M>> implements StoredPhotoAttributes {
+  declare id: StoredPhotoAttributes["id"];
+  declare projectId: StoredPhotoAttributes["projectId"];
+  declare objectKey: string;
+  declare thumbnailKey: string;
+  declare contentType: string;
+  declare sizeBytes: number;
+  declare thumbnailSizeBytes: number;
+  declare widthPx: number;
+  declare heightPx: number;
+  declare originalFileName: string;
+  declare exif: StoredPhotoAttributes["exif"];
+  declare uploadedById: StoredPhotoAttributes["uploadedById"];
+  declare createdAt: StoredPhotoAttributes["createdAt"];
+  declare updatedAt: StoredPhotoAttributes["updatedAt"];
 }
 
 export function photoColumns(table: string): ModelAttributes {
