@@ -26,15 +26,16 @@ function SiteHeader() {
   const user = data?.user;
   return (
     <header className="border-b border-line bg-panel">
-      <div className="mx-auto flex max-w-5xl items-center gap-4 px-6 py-3">
+      <div className="mx-auto flex max-w-5xl items-center gap-3 px-4 py-3 sm:gap-4 sm:px-6">
         <Link to={user ? "/projects" : "/"} className="font-semibold text-lagoon-dark focus-visible:outline-2 focus-visible:outline-lagoon">Firmsand</Link>
         {user ? (
-          <nav aria-label="Account" className="ml-auto flex items-center gap-4 text-sm">
+          <nav aria-label="Account" className="ml-auto flex min-w-0 items-center gap-3 text-sm sm:gap-4">
             <Link className="underline-offset-2 hover:underline" to="/projects">Projects</Link>
             {user.isSiteAdmin ? <Link className="underline-offset-2 hover:underline" to="/admin/users">Accounts</Link> : null}
-            <Link className="underline-offset-2 hover:underline" to="/account">{user.name}</Link>
+            {/* On a phone a long name is cut short rather than pushing "Sign out" off the screen. */}
+            <Link className="min-w-0 truncate underline-offset-2 hover:underline" to="/account" title={user.name}>{user.name}</Link>
             <Form method="post" action="/logout">
-              <button type="submit" className="rounded border border-line px-3 py-1 hover:bg-paper focus-visible:outline-2 focus-visible:outline-lagoon">Sign out</button>
+              <button type="submit" className="whitespace-nowrap rounded border border-line px-3 py-1 hover:bg-paper focus-visible:outline-2 focus-visible:outline-lagoon">Sign out</button>
             </Form>
           </nav>
         ) : (
