@@ -7,7 +7,8 @@ import { computeSurveyVolumes, type EngineSettings } from "../../shared/pipeline
 import { soundingElevations } from "../../shared/soundings/elevations";
 import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT } from "../../sample-data/scenario";
-import { AuditEvent, Sounding, Survey, getSequelize } from "~/lib/db.server";
+import { AuditEvent, Project, Sounding, Survey, getSequelize } from "~/lib/db.server";
+import { ArchivedProjectError } from "~/lib/errors";
 import { importSurveyFile } from "~/lib/import/import-service.server";
 import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { DEMO_DIR, FIXTURES, counts, makeDemoSiteProject, postSurvey, projectCrs, storedTotals, surveyRequest } from "./import-helpers";
@@ -276,6 +277,27 @@ describe("files with problems store nothing", () => {
     await expect(attempt).rejects.toThrow(/a_table_that_does_not_exist/);
     expect(soundingsWritten).toBeGreaterThan(before.soundings); // the failure came after the soundings were written
     expect(await counts(site.project.id)).toEqual(before);
+  });
+
+  it("an import still running when its project is archived stores nothing (checked again under the project's lock at commit)", async () => {
+    const before = await counts(site.project.id);
+    const staged = await writeStagedFile(new Blob([readFileSync(join(DEMO_DIR, baseline.fileName))]).stream(), baseline.fileName);
+    // The request was let through while the project was open; it is archived before the commit.
+    await Project.update({ archivedAt: new Date("2026-12-01T15:00:00Z") }, { where: { id: site.project.id } });
+    try {
+      const attempt = importSurveyFile({
+        projectId: site.project.id,
+        userId: site.users.surveyor,
+        staged,
+        options: { kind: "baseline", surveyedOn: "2026-09-03", timeZone: PROJECT.timeZone, waterSurfaceElevation: baseline.waterSurfaceElevationFt, fileHasElevations: false, datum: "NAVD88", crs: PROJECT.crs, lengthUnit: "us-ft", surveyOrder: "1a" },
+        choices: { excludeRows: [], excludeErrorRows: false, outside: "keep", acceptSameFile: true },
+      });
+      await expect(attempt).rejects.toBeInstanceOf(ArchivedProjectError);
+      await expect(attempt).rejects.toThrow(/archived on 2026-12-01 while this file was being checked/);
+      expect(await counts(site.project.id)).toEqual(before);
+    } finally {
+      await Project.update({ archivedAt: null }, { where: { id: site.project.id } });
+    }
   });
 });
 

@@ -3,6 +3,7 @@ import type { SurveyQa } from "../../../shared/qa/survey-qa";
 import type { PreparedSoundings } from "../../../shared/soundings/prepare";
 import { AUDIT_ACTIONS, recordAudit } from "../audit/audit.server";
 import { Project, Survey, getSequelize } from "../db.server";
+import { ArchivedProjectError } from "../errors";
 import type { ImportOptions } from "./import-options";
 import { insertSoundings } from "./insert-soundings.server";
 import { withProjectLock } from "./project-lock.server";
@@ -42,7 +43,15 @@ export function commitSurvey(input: CommitSurveyInput): Promise<CommittedSurvey>
     getSequelize().transaction(async (transaction) => {
       // Row lock on the project: concurrent commits (from any process) queue here, so each
       // recomputation sees every survey committed before it.
-      await Project.findByPk(input.projectId, { transaction, lock: transaction.LOCK.UPDATE });
+      const project = await Project.findByPk(input.projectId, { transaction, lock: transaction.LOCK.UPDATE });
+      // An import that was running when its project was archived is refused here, under the lock
+      // that archiving waits on, so an archived project never gains a survey.
+      if (project?.archivedAt) {
+        throw new ArchivedProjectError(
+          { message: `${project.name} was archived on ${project.archivedAt.toISOString().slice(0, 10)} while this file was being checked; it is read-only, so the survey was not stored. A site admin can restore it.` },
+          { code: "project-archived", archivedAt: project.archivedAt.toISOString() },
+        );
+      }
       const { options, prepared } = input;
       const survey = await Survey.create(
         {
