@@ -1,5 +1,6 @@
 import { Op, UniqueConstraintError } from "sequelize";
 import { z } from "zod";
+import type { ShiftSolids } from "../../shared/dewatering/charts";
 import { computeShiftFigures, flowFromTotaliser, type ShiftFigures } from "../../shared/dewatering/shift";
 import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, MIN_NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
 import { localDateIn } from "../../shared/progress/calendar-days";
@@ -404,6 +405,12 @@ export async function changeTubeStatus(project: ProjectView, user: UserView, tub
 /** The local dates on which a dewatering shift was logged (work was active on shore). */
 export function loggedShiftDates(projectId: number): Promise<string[]> {
   return distinctProjectDates(DewateringShift, "shiftDate", projectId);
+}
+
+/** Each shift's date, dry solids and neat polymer (kg), for the charts. */
+export async function shiftSolids(project: ProjectView): Promise<ShiftSolids[]> {
+  const rows = await DewateringShift.findAll({ attributes: ["shiftDate", "drySolidsKg", "neatPolymerKg"], where: { projectId: project.id }, raw: true });
+  return rows.map((row) => ({ date: row.shiftDate, drySolidsKg: row.drySolidsKg === null ? null : Number(row.drySolidsKg), neatPolymerKg: row.neatPolymerKg === null ? null : Number(row.neatPolymerKg) }));
 }
 
 /** Dry solids pumped according to the shift logs, kg. */

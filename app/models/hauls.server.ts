@@ -1,5 +1,6 @@
 import { UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
+import type { HaulSolids } from "../../shared/dewatering/charts";
 import { haulDryMassKg } from "../../shared/dewatering/haul";
 import { cubicMetresPerVolumeUnit, kilogramsFrom, kilogramsTo, massUnitsFor, measureLabel, unitLabel, volumeUnitFor } from "../../shared/units";
 import { Haul, HaulPhoto, HaulSite, HAUL_SITE_KINDS, getSequelize } from "~/lib/db.server";
@@ -191,6 +192,12 @@ export async function haulPhotoBytes(project: ProjectView, haulId: number, photo
   const photo = await HaulPhoto.findOne({ where: { id: photoId, haulId, projectId: project.id } });
   if (!photo) throw new NotFoundError("There is no such photo of this haul ticket.");
   return keptPhotoBytes(photo, size);
+}
+
+/** Each ticket's date and dry solids (kg), for the charts. */
+export async function haulSolids(project: ProjectView): Promise<HaulSolids[]> {
+  const rows = await Haul.findAll({ attributes: ["haulDate", "drySolidsKg"], where: { projectId: project.id }, raw: true });
+  return rows.map((row) => ({ date: row.haulDate, drySolidsKg: Number(row.drySolidsKg) }));
 }
 
 /** Dry solids hauled according to the tickets, kg. */

@@ -1,9 +1,14 @@
-import { reconcileSolids, type Reconciliation } from "../../shared/dewatering/reconciliation";
+import { cumulativeSolids, dewateringDays, type CumulativeSolids, type DewateringDay } from "../../shared/dewatering/charts";
+import { reconcileSolids, type Reconciliation, type SampleFigures } from "../../shared/dewatering/reconciliation";
 import type { ProjectView } from "~/lib/auth/project-view.server";
-import { pumpedDrySolidsKg } from "./dewatering.server";
-import { hauledDrySolidsKg } from "./hauls.server";
+import { pumpedDrySolidsKg, shiftSolids } from "./dewatering.server";
+import { hauledDrySolidsKg, haulSolids } from "./hauls.server";
 import { loadProgress, type ProgressView } from "./progress.server";
-import { listSamples } from "./sediment-samples.server";
+import { listSamples, type SampleView } from "./sediment-samples.server";
+
+const sampleFigures = (sample: SampleView): SampleFigures => ({
+  zoneId: sample.zone?.id ?? null, dryBulkDensityKgPerM3: sample.dryBulkDensityKgPerM3, totalNitrogenMgKg: sample.totalNitrogenMgKg, totalPhosphorusMgKg: sample.totalPhosphorusMgKg,
+});
 
 /**
  * Surveyed, pumped and hauled solids and the nutrients removed. The surveyed volumes are the
@@ -15,9 +20,29 @@ export async function loadReconciliation(project: ProjectView, progress?: Progre
   const result = reconcileSolids({
     lengthUnit: project.lengthUnit,
     zones: figures.zones.map((zone) => ({ zoneId: zone.zoneId, name: zone.name, removedVolume: zone.removedVolume })),
-    samples: samples.map((sample) => ({ zoneId: sample.zone?.id ?? null, dryBulkDensityKgPerM3: sample.dryBulkDensityKgPerM3, totalNitrogenMgKg: sample.totalNitrogenMgKg, totalPhosphorusMgKg: sample.totalPhosphorusMgKg })),
+    samples: samples.map(sampleFigures),
     pumpedDryKg: pumpedKg,
     hauledDryKg: hauledKg,
   });
   return { ...result, hasFigures: figures.hasFigures };
+}
+
+export interface SolidsCharts {
+  days: DewateringDay[];
+  cumulative: CumulativeSolids;
+}
+
+/** The dewatering charts' series: the same records and samples the reconciliation reads. */
+export async function loadSolidsCharts(project: ProjectView, progress?: ProgressView): Promise<SolidsCharts> {
+  const [figures, samples, shifts, hauls] = await Promise.all([progress ?? loadProgress(project), listSamples(project), shiftSolids(project), haulSolids(project)]);
+  return {
+    days: dewateringDays(shifts, project.lengthUnit),
+    cumulative: cumulativeSolids({
+      lengthUnit: project.lengthUnit,
+      surveyed: { dates: figures.series.dates, zones: figures.series.zones.map((zone) => ({ zoneId: zone.zoneId, removedVolume: zone.removedVolume })) },
+      samples: samples.map(sampleFigures),
+      shifts,
+      hauls,
+    }),
+  };
 }

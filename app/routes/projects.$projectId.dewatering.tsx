@@ -8,6 +8,8 @@ import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { DewateringCaution, DewateringNav, FieldInput, formatFigure } from "~/components/dewatering/dewatering-section";
 import { ShiftForm } from "~/components/dewatering/shift-form";
+import { SolidsCharts } from "~/components/dewatering/solids-charts";
+import { loadSolidsCharts } from "~/models/reconciliation.server";
 import {
   DEWATERING_CAUTION, dewateringSettings, dewateringSettingsSchema, listShifts, listTubes, recordShift, shiftInputSchema, updateDewateringSettings, projectToday,
 } from "~/models/dewatering.server";
@@ -18,10 +20,11 @@ import { readPageForm } from "~/lib/http/body.server";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project } = access;
-  const [shifts, register, settings, today] = await Promise.all([listShifts(project), listTubes(project), dewateringSettings(project), projectToday(project)]);
+  const [shifts, register, settings, today, charts] = await Promise.all([listShifts(project), listTubes(project), dewateringSettings(project), projectToday(project), loadSolidsCharts(project)]);
   return {
     project: { id: project.id, lengthUnit: project.lengthUnit },
     shifts,
+    charts,
     fillableTubes: register.tubes.filter((tube) => tube.status === "filling" || tube.status === "dewatering").map((tube) => tube.name),
     settings,
     today,
@@ -159,6 +162,10 @@ export default function DewateringShifts({ loaderData, actionData }: Route.Compo
       <section aria-labelledby="shift-list" className="space-y-2">
         <h2 id="shift-list" className="font-semibold">Shifts</h2>
         <ShiftTable shifts={loaderData.shifts} />
+      </section>
+      <section aria-labelledby="solids-charts" className="space-y-2">
+        <h2 id="solids-charts" className="font-semibold">Solids and polymer over time</h2>
+        <SolidsCharts charts={loaderData.charts} />
       </section>
       {loaderData.canConfigure ? (
         <section aria-labelledby="dewatering-settings" className="rounded border border-line bg-panel p-4">

@@ -61,7 +61,7 @@ export interface Reconciliation {
   assumptions: string[];
 }
 
-interface Means {
+export interface Means {
   density: number;
   nitrogen: number;
   phosphorus: number;
@@ -72,6 +72,18 @@ function means(samples: ReadonlyArray<SampleFigures>): Means | null {
   if (samples.length === 0) return null;
   const mean = (pick: (sample: SampleFigures) => number) => samples.reduce((sum, sample) => sum + pick(sample), 0) / samples.length;
   return { density: mean((s) => s.dryBulkDensityKgPerM3), nitrogen: mean((s) => s.totalNitrogenMgKg), phosphorus: mean((s) => s.totalPhosphorusMgKg), count: samples.length };
+}
+
+/**
+ * Whose samples stand for a zone: its own (their mean) when it has any, else the project's mean;
+ * `used` is null while the project has no samples. One rule for the reconciliation and its charts.
+ */
+export function zoneSamples(samples: ReadonlyArray<SampleFigures>): (zoneId: number | null) => { own: Means | null; used: Means | null } {
+  const projectMeans = means(samples);
+  return (zoneId) => {
+    const own = zoneId === null ? null : means(samples.filter((sample) => sample.zoneId === zoneId));
+    return { own, used: own ?? projectMeans };
+  };
 }
 
 function differencePercent(measured: number, reference: number | null): number | null {
@@ -93,14 +105,14 @@ export function reconcileSolids(input: {
   const mass = (kg: number): Measure<MassUnit> => ({ value: kilogramsTo(kg, units.mass), unit: units.mass, label: measureLabel(units.mass) });
 
   const projectMeans = means(input.samples);
+  const samplesFor = zoneSamples(input.samples);
   let totalVolume = 0;
   let totalDryKg = 0;
   let totalNitrogenKg = 0;
   let totalPhosphorusKg = 0;
   const zones = input.zones.map((zone): ReconciledZone => {
     totalVolume += zone.removedVolume;
-    const own = zone.zoneId === null ? null : means(input.samples.filter((sample) => sample.zoneId === zone.zoneId));
-    const used = own ?? projectMeans;
+    const { own, used } = samplesFor(zone.zoneId);
     if (!used) return { zoneId: zone.zoneId, name: zone.name, surveyedRemoved: volume(zone.removedVolume), samplesFrom: "none", sampleCount: 0, dryMassFromSurveys: null, nitrogenRemoved: null, phosphorusRemoved: null };
     const dryKg = dryMassKg(zone.removedVolume * m3PerUnit, used.density);
     const nitrogenKg = nutrientMassKg(dryKg, used.nitrogen);

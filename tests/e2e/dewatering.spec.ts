@@ -137,3 +137,18 @@ test("a viewer reads the dewatering records and cannot write them", async ({ pag
   const refused = await page.request.post(`/api/projects/${projectId}/dewatering/shifts`, { data: { date: "2026-11-19" }, headers: { Origin: new URL(page.url()).origin } });
   expect(refused.status()).toBe(403);
 });
+
+test("the dewatering charts draw the logged days and end where the reconciliation does", async ({ page, signIn }) => {
+  await signIn("manager");
+  await page.goto(`/projects/${projectId}/dewatering`);
+  const shifts: Array<{ date: string; computed: { drySolids: unknown } }> = await (await page.request.get(`/api/projects/${projectId}/dewatering/shifts`)).json().then((body) => body.shifts ?? body);
+  const daysWithSolids = new Set(shifts.filter((shift) => shift.computed.drySolids !== null).map((shift) => shift.date));
+  await expect(page.getByTestId("dry-solids-chart").locator("rect")).toHaveCount(daysWithSolids.size);
+  await expect(page.getByTestId("polymer-per-ton-chart")).toBeVisible();
+  // The surveyed line's last dot says the same dry mass as the reconciliation (one rule for both).
+  const figures = await (await page.request.get(`/api/projects/${projectId}/reconciliation`)).json();
+  const surveyed = page.getByTestId("cumulative-solids-chart").locator('[data-series="Surveyed"] circle title').last();
+  await expect(surveyed).toHaveText(new RegExp(`: ${Math.round(figures.project.dryMassFromSurveys.value).toLocaleString("en-US")} dry short tons$`));
+  const pumped = page.getByTestId("cumulative-solids-chart").locator('[data-series="Pumped"] circle title').last();
+  await expect(pumped).toHaveText(new RegExp(`: ${Math.round(figures.project.dryMassPumped.value).toLocaleString("en-US")} dry short tons$`));
+});
