@@ -413,8 +413,12 @@ export async function shiftSolids(project: ProjectView): Promise<ShiftSolids[]> 
   return rows.map((row) => ({ date: row.shiftDate, drySolidsKg: row.drySolidsKg === null ? null : Number(row.drySolidsKg), neatPolymerKg: row.neatPolymerKg === null ? null : Number(row.neatPolymerKg) }));
 }
 
-/** Dry solids pumped according to the shift logs, kg. */
-export async function pumpedDrySolidsKg(project: ProjectView): Promise<number> {
-  const total = await DewateringShift.sum("drySolidsKg", { where: { projectId: project.id } });
+/** Records dated after `after` up to and including `through` (local dates), or all of them. */
+export type DateSpan = { after: string; through: string } | null;
+export const dateSpanWhere = (span: DateSpan) => (span ? { [Op.gt]: span.after, [Op.lte]: span.through } : { [Op.ne]: null });
+
+/** Dry solids pumped according to the shift logs, kg; within a span of dates when given. */
+export async function pumpedDrySolidsKg(project: ProjectView, span: DateSpan = null): Promise<number> {
+  const total = await DewateringShift.sum("drySolidsKg", { where: { projectId: project.id, shiftDate: dateSpanWhere(span) } });
   return Number(total ?? 0);
 }

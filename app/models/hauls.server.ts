@@ -12,7 +12,7 @@ import type { StagedFile } from "~/lib/import/stage-upload.server";
 import { keepPhoto, keptPhotoBytes, presentPhoto, type KeptPhoto, type PhotoView } from "~/lib/images/stored-photo.server";
 import type { StoredObject } from "~/lib/storage/storage.server";
 import { workDateSchema } from "./assignments.server";
-import { dewateringSettings } from "./dewatering.server";
+import { dateSpanWhere, dewateringSettings, type DateSpan } from "./dewatering.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 
 /**
@@ -200,7 +200,7 @@ export async function haulSolids(project: ProjectView): Promise<HaulSolids[]> {
   return rows.map((row) => ({ date: row.haulDate, drySolidsKg: Number(row.drySolidsKg) }));
 }
 
-/** Dry solids hauled according to the tickets, kg. */
-export async function hauledDrySolidsKg(project: ProjectView): Promise<number> {
-  return Number((await Haul.sum("drySolidsKg", { where: { projectId: project.id } })) ?? 0);
+/** Dry solids hauled according to the tickets, kg; within a span of dates when given. */
+export async function hauledDrySolidsKg(project: ProjectView, span: DateSpan = null): Promise<number> {
+  return Number((await Haul.sum("drySolidsKg", { where: { projectId: project.id, haulDate: dateSpanWhere(span) } })) ?? 0);
 }

@@ -10,21 +10,34 @@ const sampleFigures = (sample: SampleView): SampleFigures => ({
   zoneId: sample.zone?.id ?? null, dryBulkDensityKgPerM3: sample.dryBulkDensityKgPerM3, totalNitrogenMgKg: sample.totalNitrogenMgKg, totalPhosphorusMgKg: sample.totalPhosphorusMgKg,
 });
 
+/** A pay period's ends and its removed volume per zone (a live period, or a signed report's snapshot). */
+export interface ReconciliationPeriod {
+  from: { surveyedOn: string };
+  to: { surveyedOn: string };
+  zones: ReadonlyArray<{ zoneId: number | null; name: string; removedVolume: number }>;
+}
+
 /**
  * Surveyed, pumped and hauled solids and the nutrients removed. The surveyed volumes are the
  * engine's own figures per zone, as the progress view rolls them up (never recomputed here); pass
- * the progress a page has loaded already to save reading it twice.
+ * the progress a page has loaded already to save reading it twice. With a period, the zones'
+ * volumes are the period's and only the shifts and tickets dated in it count.
  */
-export async function loadReconciliation(project: ProjectView, progress?: ProgressView): Promise<Reconciliation & { hasFigures: boolean }> {
-  const [figures, samples, pumpedKg, hauledKg] = await Promise.all([progress ?? loadProgress(project), listSamples(project), pumpedDrySolidsKg(project), hauledDrySolidsKg(project)]);
+export async function loadReconciliation(project: ProjectView, progress?: ProgressView, period?: ReconciliationPeriod): Promise<Reconciliation & { hasFigures: boolean }> {
+  const span = period ? { after: period.from.surveyedOn, through: period.to.surveyedOn } : null;
+  const [figures, samples, pumpedKg, hauledKg] = await Promise.all([
+    period ? null : progress ?? loadProgress(project), listSamples(project), pumpedDrySolidsKg(project, span), hauledDrySolidsKg(project, span),
+  ]);
+  const zones = period ? period.zones : figures!.zones;
   const result = reconcileSolids({
     lengthUnit: project.lengthUnit,
-    zones: figures.zones.map((zone) => ({ zoneId: zone.zoneId, name: zone.name, removedVolume: zone.removedVolume })),
+    zones: zones.map((zone) => ({ zoneId: zone.zoneId, name: zone.name, removedVolume: zone.removedVolume })),
     samples: samples.map(sampleFigures),
     pumpedDryKg: pumpedKg,
     hauledDryKg: hauledKg,
+    period: span && { from: span.after, to: span.through },
   });
-  return { ...result, hasFigures: figures.hasFigures };
+  return { ...result, hasFigures: period ? true : figures!.hasFigures };
 }
 
 export interface SolidsCharts {

@@ -34,7 +34,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     if (error instanceof NotFoundError) throw data(error.message, { status: 404 });
     throw error;
   }
-  const reconciliation = view.progress.hasFigures ? await loadReconciliation(project, view.progress) : null;
+  // The reconciliation covers what the report covers: the signed or asked-for period, else the whole.
+  const reconciled = signed ? signed.snapshot : view.period && !view.period.whole ? { from: view.period.from, to: view.period.to, zones: view.period.figures.zones } : null;
+  const reconciliation = reconciled
+    ? await loadReconciliation(project, undefined, reconciled)
+    : view.progress.hasFigures ? await loadReconciliation(project, view.progress) : null;
   return {
     reconciliation,
     project: view.project, baseline: view.baseline, latest: view.latest, method: view.method,

@@ -41,7 +41,15 @@ export interface ReconciledZone {
   phosphorusRemoved: Measure<MassUnit> | null;
 }
 
+/** A period between two surveys: records dated after `from` up to and including `to` count in it. */
+export interface ReconciledPeriod {
+  from: string;
+  to: string;
+}
+
 export interface Reconciliation {
+  /** Null: from the baseline to the latest survey, with every shift and ticket. */
+  period: ReconciledPeriod | null;
   zones: ReconciledZone[];
   project: {
     surveyedRemoved: Measure<VolumeUnit>;
@@ -96,7 +104,10 @@ export function reconcileSolids(input: {
   samples: ReadonlyArray<SampleFigures>;
   pumpedDryKg: number;
   hauledDryKg: number;
+  /** The period the zones' volumes and the pumped and hauled masses were taken over; none for the whole project. */
+  period?: ReconciledPeriod | null;
 }): Reconciliation {
+  const period = input.period ?? null;
   const units = massUnitsFor(input.lengthUnit);
   const volumeUnit = volumeUnitFor(input.lengthUnit);
   const m3PerUnit = cubicMetresPerVolumeUnit(input.lengthUnit);
@@ -128,6 +139,7 @@ export function reconcileSolids(input: {
   const surveyedDryKg = projectMeans ? totalDryKg : null;
   const toBulk = (kg: number) => kilogramsTo(kg, units.bulkMass);
   return {
+    period,
     zones,
     project: {
       surveyedRemoved: volume(totalVolume),
@@ -143,7 +155,9 @@ export function reconcileSolids(input: {
       sampleCount: input.samples.length,
     },
     assumptions: [
-      "Surveyed removal is the volume in place between the baseline and the latest surveys (the engine's figures), not the volume pumped or hauled.",
+      period
+        ? `Surveyed removal is the volume in place removed between the surveys of ${period.from} and ${period.to} (the pay period's figures), not the volume pumped or hauled; shifts and haul tickets dated after ${period.from} up to and including ${period.to} count in it.`
+        : "Surveyed removal is the volume in place between the baseline and the latest surveys (the engine's figures), not the volume pumped or hauled.",
       "Dry mass from surveys = removed volume × dry bulk density of the muck in place, from a zone's own lab samples (their mean), or the mean of all the project's samples for a zone without any.",
       "Nitrogen and phosphorus removed = that dry mass × total N or total P (mg/kg dry weight), by the same samples.",
       "Pumped dry solids = slurry flow × slurry specific gravity × solids by weight × pump hours, from the shift logs (water at 1 g/cm³; the solids' specific gravity as logged).",

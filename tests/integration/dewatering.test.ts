@@ -12,6 +12,7 @@ import { action as haulSitesAction, loader as haulSitesLoader } from "~/routes/a
 import { action as haulsAction } from "~/routes/api.projects.$projectId.hauls";
 import { action as samplesAction } from "~/routes/api.projects.$projectId.sediment-samples";
 import { loader as reconciliationLoader } from "~/routes/api.projects.$projectId.reconciliation";
+import { loader as quantitiesLoader } from "~/routes/api.projects.$projectId.quantities";
 import { addHaulSite } from "~/models/hauls.server";
 import { presentPublicProgress } from "~/models/share-links.server";
 import { DEMO_DIR, makeDemoSiteProject, postSurvey } from "./import-helpers";
@@ -271,5 +272,36 @@ describe("sediment samples and the reconciliation", () => {
     // The public share page offers the same headline, in whole pounds.
     const publicView = await presentPublicProgress(site.project.id, { publicText: "" });
     expect(publicView!.nutrientsRemoved).toEqual({ phosphorus: Math.round(body.project.phosphorusRemoved.value), nitrogen: Math.round(body.project.nitrogenRemoved.value), label: "lb" });
+  });
+
+  it("reconciles a pay period: the period's removed volume per zone, and only the shifts and tickets dated in it", async () => {
+    // Shifts on the baseline's date (before the period), on the later survey's date (in it) and after it.
+    for (const date of ["2026-09-08", "2026-09-29", "2026-09-30"]) {
+      expect((await postJson(shiftsAction as never, "dewatering", `${base()}/dewatering/shifts`, { ...SHIFT, date, polymer: undefined })).status).toBe(201);
+    }
+    const quantities = await (await call(quantitiesLoader as never, "manager", `${base()}/quantities`)).json();
+    const [from, to] = [quantities.from, quantities.to];
+    expect([from.surveyedOn, to.surveyedOn]).toEqual(["2026-09-08", "2026-09-29"]);
+    const response = await call(reconciliationLoader as never, "viewer", `${base()}/reconciliation?from=${from.id}&to=${to.id}`);
+    expect(response.status).toBe(200);
+    const body = await response.json();
+    expect(body.period).toEqual({ from: "2026-09-08", to: "2026-09-29" });
+    // The zones' removed volume is the pay period's (the quantities API's rows), zone by zone.
+    expect(body.zones.map((zone: { name: string; surveyedRemoved: { value: number } }) => [zone.name, zone.surveyedRemoved.value]))
+      .toEqual(quantities.zones.map((zone: { name: string; removedVolume: number }) => [zone.name, zone.removedVolume]));
+    // computed: the listed shifts filtered by their dates here (after 09-08 up to and including 09-29), summed
+    const { shifts } = await (await call(shiftsLoader as never, "viewer", `${base()}/dewatering/shifts`)).json();
+    const inPeriod = shifts.filter((shift: { date: string }) => shift.date > "2026-09-08" && shift.date <= "2026-09-29");
+    expect(inPeriod.some((shift: { date: string }) => shift.date === "2026-09-29")).toBe(true);
+    const expected = inPeriod.reduce((sum: number, shift: { computed: { drySolids: { value: number } | null } }) => sum + (shift.computed.drySolids?.value ?? 0), 0);
+    expect(body.project.dryMassPumped.value).toBeCloseTo(expected, 6);
+    const whole = await (await call(reconciliationLoader as never, "viewer", `${base()}/reconciliation`)).json();
+    expect(whole.period).toBeNull();
+    expect(whole.project.dryMassPumped.value).toBeGreaterThan(body.project.dryMassPumped.value);
+    expect(body.assumptions[0]).toContain("between the surveys of 2026-09-08 and 2026-09-29");
+    // A malformed month is named.
+    const bad = await call(reconciliationLoader as never, "viewer", `${base()}/reconciliation?month=2026-13`);
+    expect(bad.status).toBe(422);
+    expect((await errorsOf(bad))[0].field).toBe("month");
   });
 });

@@ -15,6 +15,11 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
   return (
     <section aria-labelledby="reconciliation" className="rounded border border-line bg-panel p-4">
       <h2 id="reconciliation" className="font-semibold">Solids and nutrients removed</h2>
+      {reconciliation.period ? (
+        <p className="text-sm text-muted" data-testid="reconciliation-period">
+          In the period from the survey of <span className="figures">{reconciliation.period.from}</span> to that of <span className="figures">{reconciliation.period.to}</span>: shifts and tickets dated after the first up to and including the second.
+        </p>
+      ) : null}
       {project.phosphorusRemoved && project.nitrogenRemoved ? (
         <p className="mt-2 text-lg" data-testid="nutrients-removed">
           <span className="figures font-semibold">{formatFigure(project.phosphorusRemoved.value, 0)} {project.phosphorusRemoved.label}</span> of phosphorus and{" "}
