@@ -14,7 +14,7 @@ import { workDateSchema } from "./assignments.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
 export { fillInputSchema, tubeStatusSchema } from "~/lib/field-records/inputs";
-import { fillInputSchema } from "~/lib/field-records/inputs";
+import { fillInputSchema, tubeStatusSchema } from "~/lib/field-records/inputs";
 
 /**
  * The dewatering operator's records: the shift log (flow, solids, polymer; its figures computed by
@@ -89,6 +89,13 @@ export const shiftInputSchema = z
   });
 export type ShiftInput = z.infer<typeof shiftInputSchema>;
 
+/** The tube's centre on the laydown area, project CRS (easting x, northing y in the project's length unit). */
+const tubePositionSchema = z.object({ x: z.number().finite("the easting is a number"), y: z.number().finite("the northing is a number") });
+/** Which way the tube lies, degrees clockwise from grid north (0–180 says it all; up to 360 taken). */
+const tubeBearingSchema = z.number().finite().min(0, "a bearing is 0 to 360 degrees").max(360, "a bearing is 0 to 360 degrees");
+const bearingHasPosition = (tube: { position?: unknown; bearingDegrees?: number | null }) => tube.bearingDegrees == null || tube.position != null;
+const bearingNeedsPosition = () => ({ path: ["position"], message: "give the tube's position (its centre) with its bearing" });
+
 export const tubeInputSchema = z.object({
   name: text(60).min(1, "name the tube"),
   /** Project length unit. */
@@ -98,12 +105,23 @@ export const tubeInputSchema = z.object({
   capacityDryMassPerLength: z.number().finite().positive("the capacity is more than 0").max(1000),
   status: z.enum(TUBE_STATUSES).default("filling"),
   notes: z.string().max(4000).default(""),
-  /** The tube's centre on the laydown area, project CRS (easting x, northing y in the project's length unit). */
-  position: z.object({ x: z.number().finite("the easting is a number"), y: z.number().finite("the northing is a number") }).nullish(),
-  /** Which way the tube lies, degrees clockwise from grid north (0–180 says it all; up to 360 taken). */
-  bearingDegrees: z.number().finite().min(0, "a bearing is 0 to 360 degrees").max(360, "a bearing is 0 to 360 degrees").nullish(),
-}).refine((tube) => tube.bearingDegrees == null || tube.position != null, { path: ["position"], message: "give the tube's position (its centre) with its bearing" });
+  position: tubePositionSchema.nullish(),
+  bearingDegrees: tubeBearingSchema.nullish(),
+}).refine(bearingHasPosition, bearingNeedsPosition());
 export type TubeInput = z.infer<typeof tubeInputSchema>;
+
+/**
+ * A change to a registered tube: its status, or where it lies (a position of null takes it off the
+ * map), or both. What is left out stays as it is.
+ */
+export const tubeEditSchema = z.object({
+  status: tubeStatusSchema.shape.status.optional(),
+  position: tubePositionSchema.nullable().optional(),
+  bearingDegrees: tubeBearingSchema.nullish(),
+})
+  .refine((edit) => edit.status !== undefined || edit.position !== undefined, { path: ["status"], message: "give the tube's new status, or its position (null takes it off the map)" })
+  .refine(bearingHasPosition, bearingNeedsPosition());
+export type TubeEdit = z.infer<typeof tubeEditSchema>;
 
 export type FillInput = z.infer<typeof fillInputSchema>;
 
@@ -383,11 +401,12 @@ export async function recordFill(project: ProjectView, user: UserView, tubeId: n
 }
 
 /**
- * Sets a tube's status. With `ifMatch` (the versions an If-Match header names), refuses with 412 and
- * the tube as it is now when it changed since the client saw it; the check and the change hold the
- * tube's row lock, so no other edit slips in between.
+ * Changes a tube's status or its place on the laydown area. With `ifMatch` (the versions an If-Match
+ * header names), refuses with 412 and the tube as it is now when it changed since the client saw
+ * it; the check and the change hold the tube's row lock, so no other edit slips in between. Each
+ * part changed is audit-logged, a move with where the tube was and where it is now.
  */
-export async function changeTubeStatus(project: ProjectView, user: UserView, tubeId: number, status: TubeStatus, ip: string | null = null, ifMatch: string[] | "any" | null = null): Promise<TubeView> {
+export async function changeTube(project: ProjectView, user: UserView, tubeId: number, edit: TubeEdit, ip: string | null = null, ifMatch: string[] | "any" | null = null): Promise<TubeView> {
   const { tubeNearCapacityShare } = await dewateringSettings(project);
   await getSequelize().transaction(async (transaction) => {
     const tube = await GeotextileTube.findOne({ where: { id: tubeId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
@@ -396,8 +415,17 @@ export async function changeTubeStatus(project: ProjectView, user: UserView, tub
       tube.fills = await TubeFill.findAll({ where: { tubeId: tube.id }, order: [["fillDate", "ASC"], ["id", "ASC"]], transaction });
       assertCurrentVersion(ifMatch, presentTube(tube, project, tubeNearCapacityShare), "tube");
     }
-    await tube.update({ status }, { transaction });
-    await recordAudit({ action: AUDIT_ACTIONS.tubeStatusChanged, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, status } }, transaction);
+    if (edit.status !== undefined) {
+      await tube.update({ status: edit.status }, { transaction });
+      await recordAudit({ action: AUDIT_ACTIONS.tubeStatusChanged, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, status: edit.status } }, transaction);
+    }
+    if (edit.position !== undefined) {
+      const placed = (x: number | null, y: number | null, bearing: number | null) => (x === null || y === null ? null : { x, y, bearingDegrees: bearing ?? 0 });
+      const before = placed(tube.positionX, tube.positionY, tube.bearingDegrees);
+      const position = edit.position;
+      await tube.update({ positionX: position?.x ?? null, positionY: position?.y ?? null, bearingDegrees: position ? (edit.bearingDegrees ?? 0) : null }, { transaction });
+      await recordAudit({ action: AUDIT_ACTIONS.tubeMoved, projectId: project.id, userId: user.id, ip, detail: { tube: tube.name, before, after: placed(tube.positionX, tube.positionY, tube.bearingDegrees) } }, transaction);
+    }
   });
   return findTube(project, tubeId);
 }

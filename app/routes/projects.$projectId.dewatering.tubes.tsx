@@ -8,7 +8,7 @@ import { urlIdSchema } from "~/lib/http/url-id";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { DewateringCaution, DewateringNav, FieldInput, FieldSelect, formatFigure } from "~/components/dewatering/dewatering-section";
-import { DEWATERING_CAUTION, changeTubeStatus, fillInputSchema, listTubes, recordFill, registerTube, tubeInputSchema, tubeStatusSchema, projectToday } from "~/models/dewatering.server";
+import { DEWATERING_CAUTION, changeTube, fillInputSchema, listTubes, recordFill, registerTube, tubeEditSchema, tubeInputSchema, tubeStatusSchema, projectToday } from "~/models/dewatering.server";
 import { TUBE_STATUSES } from "../../shared/dewatering/tubes";
 import type { Route } from "./+types/projects.$projectId.dewatering.tubes";
 import { readPageForm } from "~/lib/http/body.server";
@@ -20,8 +20,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { project: { id: project.id }, register, today, canLog: can(access, "dewatering.log"), caution: DEWATERING_CAUTION };
 }
 
-type Intent = "register" | "fill" | "status";
-type ActionResult = { intent: Intent; errors: FieldErrors; notice: string | null };
+type Intent = "register" | "fill" | "status" | "place" | "unplace";
+/** `tubeId`: the row whose own form the errors belong to. */
+type ActionResult = { intent: Intent; errors: FieldErrors; notice: string | null; tubeId?: number };
+
+/** Which input of a position form each field of the position came from. */
+const positionInputOf = (field: string) => (field === "position.x" ? "positionX" : field === "position.y" || field === "position" ? "positionY" : field);
 
 const text = (value: FormDataEntryValue | null) => (typeof value === "string" ? value.trim() : "");
 const numberOr = (value: FormDataEntryValue | null) => (text(value) === "" ? Number.NaN : Number(text(value)));
@@ -31,7 +35,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const { user, project } = access;
   const form = await readPageForm(request);
   const intent = text(form.get("intent")) as Intent;
-  const refused = (errors: FieldErrors) => data({ intent, errors, notice: null } satisfies ActionResult, { status: 400 });
+  const refused = (errors: FieldErrors, tubeId?: number) => data({ intent, errors, notice: null, tubeId } satisfies ActionResult, { status: 400 });
   try {
     if (intent === "register") {
       const placed = text(form.get("positionX")) !== "" || text(form.get("positionY")) !== "";
@@ -42,8 +46,7 @@ export async function action({ request, params }: Route.ActionArgs) {
         position: placed ? { x: numberOr(form.get("positionX")), y: numberOr(form.get("positionY")) } : null,
         bearingDegrees: bearing === "" ? null : Number(bearing),
       });
-      const inputOf = (field: string) => (field === "position.x" ? "positionX" : field === "position.y" || field === "position" ? "positionY" : field);
-      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), inputOf));
+      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), positionInputOf));
       const tube = await registerTube(project, user, parsed.data, clientAddress(request));
       return { intent, errors: {} as FieldErrors, notice: `Registered tube ${tube.name}.` } satisfies ActionResult;
     }
@@ -62,14 +65,42 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (intent === "status") {
       const parsed = tubeStatusSchema.safeParse({ status: text(form.get("status")) });
       if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), (field) => field));
-      const tube = await changeTubeStatus(project, user, tubeId.data, parsed.data.status, clientAddress(request));
+      const tube = await changeTube(project, user, tubeId.data, { status: parsed.data.status }, clientAddress(request));
       return { intent, errors: {} as FieldErrors, notice: `Tube ${tube.name} is now ${tube.status.replace(/-/g, " ")}.` } satisfies ActionResult;
+    }
+    if (intent === "place" || intent === "unplace") {
+      const bearing = text(form.get("bearingDegrees"));
+      const parsed = tubeEditSchema.safeParse(intent === "unplace"
+        ? { position: null }
+        : { position: { x: numberOr(form.get("positionX")), y: numberOr(form.get("positionY")) }, bearingDegrees: bearing === "" ? null : Number(bearing) });
+      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), positionInputOf), tubeId.data);
+      const tube = await changeTube(project, user, tubeId.data, parsed.data, clientAddress(request));
+      return { intent, errors: {} as FieldErrors, notice: tube.position ? `Tube ${tube.name} now lies at ${formatFigure(tube.position.x, 1)} E, ${formatFigure(tube.position.y, 1)} N, bearing ${formatFigure(tube.bearingDegrees, 0)}°.` : `Tube ${tube.name} is off the map (still in the register).` } satisfies ActionResult;
     }
     return refused({ form: "Unknown request." });
   } catch (error) {
     if (error instanceof DomainError) return refused(fieldErrorsFrom(error.details, (field) => (field === "tubes" ? "tubeId" : field)));
     throw error;
   }
+}
+
+/** Moves a registered tube on the laydown area, or takes it off the map; open when its last try was refused. */
+function PlaceTubeForm({ tube, errors }: { tube: Route.ComponentProps["loaderData"]["register"]["tubes"][number]; errors: FieldErrors | null }) {
+  return (
+    <details className="mt-1" open={errors !== null}>
+      <summary className="cursor-pointer text-xs text-lagoon-dark">{tube.position ? "Move on the map" : "Place on the map"}</summary>
+      <Form method="post" className="mt-1 grid min-w-56 gap-1" aria-label={`Place of ${tube.name}`}>
+        <input type="hidden" name="tubeId" value={tube.id} />
+        <FieldInput idPrefix={`tube-${tube.id}`} label="Easting" name="positionX" inputMode="decimal" defaultValue={tube.position?.x ?? ""} error={errors?.positionX} />
+        <FieldInput idPrefix={`tube-${tube.id}`} label="Northing" name="positionY" inputMode="decimal" defaultValue={tube.position?.y ?? ""} error={errors?.positionY} />
+        <FieldInput idPrefix={`tube-${tube.id}`} label="Bearing (°)" name="bearingDegrees" inputMode="decimal" defaultValue={tube.position ? tube.bearingDegrees : ""} error={errors?.bearingDegrees} hint="from grid north" />
+        <div className="flex flex-wrap gap-1">
+          <SubmitButton pendingLabel="Saving…" intent="place" tone="plain" className="px-2 py-1">Save place</SubmitButton>
+          {tube.position ? <SubmitButton pendingLabel="…" intent="unplace" tone="plain" className="px-2 py-1">Take off the map</SubmitButton> : null}
+        </div>
+      </Form>
+    </details>
+  );
 }
 
 const STATUS_WORDS: Record<(typeof TUBE_STATUSES)[number], string> = { filling: "filling", dewatering: "dewatering", "ready-to-open": "ready to open", opened: "opened", hauled: "hauled" };
@@ -122,6 +153,7 @@ export default function DewateringTubes({ loaderData, actionData }: Route.Compon
                           <SubmitButton pendingLabel="…" intent="status" tone="plain" className="px-2 py-1">Set</SubmitButton>
                         </Form>
                       ) : STATUS_WORDS[tube.status]}
+                      {loaderData.canLog ? <PlaceTubeForm tube={tube} errors={actionData && "tubeId" in actionData && actionData.tubeId === tube.id ? errors : null} /> : null}
                     </td>
                   </tr>
                 ))}

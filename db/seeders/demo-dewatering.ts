@@ -39,7 +39,7 @@ export async function seedDemoDewatering(): Promise<boolean> {
   }
   const generated = demoDewatering();
   for (const shift of generated.shifts) await dewatering.recordShift(view, operatorView, dewatering.shiftInputSchema.parse(shift));
-  for (const tube of DEMO_TUBES) await dewatering.changeTubeStatus(view, operatorView, tubeIds.get(tube.name)!, tube.finalStatus);
+  for (const tube of DEMO_TUBES) await dewatering.changeTube(view, operatorView, tubeIds.get(tube.name)!, { status: tube.finalStatus });
   for (const haul of generated.hauls) await hauls.recordHaul(view, operatorView, hauls.haulInputSchema.parse(haul));
   for (const sample of DEMO_SAMPLES) await samples.recordSample(view, monitorView, samples.sampleInputSchema.parse(sample));
   return true;

@@ -198,6 +198,31 @@ describe("the tube register", () => {
     expect((await call(tubeLoader as never, "viewer", `${base()}/dewatering/tubes/999999999`, {}, { tubeId: "999999999" })).status).toBe(404);
     expect((await GeotextileTube.findByPk(tubeId))!.status).toBe("ready-to-open");
   });
+
+  it("moves a tube on the laydown area and takes it off the map (audited with where it was), refusing a bearing without a place", async () => {
+    const patch = (body: unknown, headers: Record<string, string> = {}) =>
+      call(tubeAction as never, "dewatering", `${base()}/dewatering/tubes/${tubeId}`, { method: "PATCH", body: JSON.stringify(body), headers: { "Content-Type": "application/json", ...headers } }, { tubeId: String(tubeId) });
+    const before = (await (await call(tubeLoader as never, "viewer", `${base()}/dewatering/tubes/${tubeId}`, {}, { tubeId: String(tubeId) })).json()).tube;
+    const moved = await patch({ position: { x: 612_345.5, y: 1_734_567.25 }, bearingDegrees: 45 });
+    expect(moved.status).toBe(200);
+    const tube = (await moved.json()).tube;
+    expect(tube).toMatchObject({ position: { x: 612_345.5, y: 1_734_567.25 }, bearingDegrees: 45, status: before.status });
+    expect(tube.version).not.toBe(before.version);
+    const audit = await AuditEvent.findOne({ where: { projectId: site.project.id, action: "tube-moved" }, order: [["id", "DESC"]] });
+    expect(audit!.detail).toMatchObject({ tube: "T-1", after: { x: 612_345.5, y: 1_734_567.25, bearingDegrees: 45 } });
+    // An edit made from the version before the move is refused with the tube as it is now.
+    const stale = await patch({ status: "opened" }, { "If-Match": `"${before.version}"` });
+    expect(stale.status).toBe(412);
+    const bearingOnly = await patch({ bearingDegrees: 90, position: null });
+    expect(bearingOnly.status).toBe(422);
+    expect((await errorsOf(bearingOnly))[0].field).toBe("position");
+    const nothing = await patch({});
+    expect(nothing.status).toBe(422);
+    expect((await errorsOf(nothing))[0].field).toBe("status");
+    const off = await patch({ position: null });
+    expect((await off.json()).tube.position).toBeNull();
+    expect((await GeotextileTube.findByPk(tubeId))!.positionX).toBeNull();
+  });
 });
 
 describe("haul tickets", () => {

@@ -41,8 +41,9 @@ export function ComputedFigure({ term, value, unit, formula, testId }: { term: s
 const inputClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py-3 text-base focus:outline-2 focus:outline-offset-1 focus:outline-lagoon aria-invalid:border-danger";
 
 /** A large labelled input for a phone in a gloved hand; the error sits under it. */
-export function FieldInput({ label, name, error, hint, className, ...input }: React.InputHTMLAttributes<HTMLInputElement> & { label: string; name: string; error?: string; hint?: string }) {
-  const id = `field-${name}`;
+/** `idPrefix` keeps ids unique where one form repeats per row. */
+export function FieldInput({ label, name, error, hint, className, idPrefix = "field", ...input }: React.InputHTMLAttributes<HTMLInputElement> & { label: string; name: string; error?: string; hint?: string; idPrefix?: string }) {
+  const id = `${idPrefix}-${name}`;
   return (
     <div className={className}>
       <label htmlFor={id} className="block text-sm font-medium">{label}</label>

@@ -43,6 +43,7 @@ export const AUDIT_ACTIONS = {
   tubeRegistered: "tube-registered",
   tubeFilled: "tube-filled",
   tubeStatusChanged: "tube-status-changed",
+  tubeMoved: "tube-moved",
   haulSiteAdded: "haul-site-added",
   haulRecorded: "haul-recorded",
   haulPhotoAdded: "haul-photo-added",
