@@ -1,6 +1,6 @@
 import type { FeatureCollection } from "geojson";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
-import { data, Link } from "react-router";
+import { data, Link, useLocation } from "react-router";
 import { createCrs } from "../../shared/crs";
 import { CELL_STATUSES } from "../../shared/cell-status";
 import { AssignPanel } from "~/components/map/assign-panel";
@@ -254,13 +254,15 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
   const selectedLabels = useMemo(() => [...selected].map((index) => labelOf.get(index)).filter((label): label is string => Boolean(label)).sort(), [selected, labelOf]);
 
   // The address holds the view (replaced, never pushed: Back leaves the map), so a supervisor can
-  // send a link to it. Written only once the cells are known, so the sent cells are not lost.
+  // send a link to it. Written only once the cells are known, so the sent cells are not lost; and
+  // again after a form on the page is sent (the router then sets the address it knows, without the view).
+  const { key: locationKey } = useLocation();
   useEffect(() => {
     if (!data) return;
     const searchPart = mapViewSearch({ centre: camera?.centre ?? null, zoom: camera?.zoom ?? null, view, layers, bandSurface, zoneId, cells: selectedLabels, planDate: planDate === tomorrow() ? null : planDate });
     const next = `${window.location.pathname}${searchPart}${window.location.hash}`;
     if (next !== `${window.location.pathname}${window.location.search}${window.location.hash}`) window.history.replaceState(window.history.state, "", next);
-  }, [data, camera, view, layers, bandSurface, zoneId, selectedLabels, planDate]);
+  }, [data, camera, view, layers, bandSurface, zoneId, selectedLabels, planDate, locationKey]);
 
   const selectOne = useCallback((index: number, extend: boolean) => {
     setSelected((current) => {

@@ -250,6 +250,21 @@ test("the address holds the view: a link sent from it opens the same centre, zoo
   await context.close();
 });
 
+test("the address keeps the view after a form on the map page is sent", async ({ page, signIn }) => {
+  await page.setViewportSize({ width: 1440, height: 900 });
+  await signIn("manager");
+  await openMap(page);
+  await page.getByLabel("View", { exact: true }).selectOption("thickness");
+  await settled(page);
+  await expect.poll(() => new URL(page.url()).searchParams.get("view")).toBe("thickness");
+  const before = new URL(page.url()).search;
+  // A shoreline file that is not a polygon: refused, so the shared demo keeps its shoreline.
+  await page.getByRole("form", { name: "Upload shoreline" }).locator('input[type="file"]').setInputFiles({ name: "not-a-shoreline.geojson", mimeType: "application/geo+json", buffer: Buffer.from('{"type":"Point","coordinates":[0,0]}') });
+  await page.getByRole("form", { name: "Upload shoreline" }).locator('button[type="submit"]').click();
+  await expect(page.getByTestId("shoreline-result")).toBeVisible();
+  await expect.poll(() => new URL(page.url()).search).toBe(before);
+});
+
 test("the supervisor selects, inspects, assigns and clears cells with the keyboard alone", async ({ page, signIn }) => {
   await page.setViewportSize({ width: 1440, height: 900 });
   await signIn("dive-supervisor");
