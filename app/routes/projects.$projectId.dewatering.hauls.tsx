@@ -144,11 +144,11 @@ export default function DewateringHauls({ loaderData, actionData }: Route.Compon
               <tbody>
                 {hauls.map((haul) => (
                   <tr key={haul.id} className="border-b border-line">
-                    <td className="py-1 pr-2 whitespace-nowrap">{haul.date}</td><td className="pr-2">{haul.ticketNumber}</td><td className="pr-2 whitespace-nowrap">{haul.truck}</td>
+                    <td className="figures py-1 pr-2 whitespace-nowrap">{haul.date}</td><td className="figures pr-2">{haul.ticketNumber}</td><td className="pr-2 whitespace-nowrap">{haul.truck}</td>
                     <td className="pr-2 whitespace-nowrap">{haul.site.name}</td>
-                    <td className="pr-2 whitespace-nowrap">{formatFigure(haul.load.value, 1)} {haul.load.label}</td>
-                    <td className="pr-2 whitespace-nowrap">{formatFigure(haul.cakeSolidsByWeight * 100, 1)} % <span className="text-xs text-muted">({haul.cakeSolidsFrom})</span></td>
-                    <td className="pr-2 whitespace-nowrap">{formatFigure(haul.drySolids.value, 2)} {haul.drySolids.label}</td>
+                    <td className="figures pr-2 whitespace-nowrap">{formatFigure(haul.load.value, 1)} {haul.load.label}</td>
+                    <td className="pr-2 whitespace-nowrap"><span className="figures">{formatFigure(haul.cakeSolidsByWeight * 100, 1)} %</span> <span className="text-xs text-muted">({haul.cakeSolidsFrom})</span></td>
+                    <td className="figures pr-2 whitespace-nowrap">{formatFigure(haul.drySolids.value, 2)} {haul.drySolids.label}</td>
                     <td className="py-1" data-testid={`ticket-photos-${haul.ticketNumber}`}>
                       {haul.photos.length > 0 ? (
                         <ul className="flex gap-1">

@@ -76,13 +76,13 @@ export default function SedimentSamples({ loaderData, actionData }: Route.Compon
               <tbody>
                 {loaderData.samples.map((sample) => (
                   <tr key={sample.id} className="border-b border-line">
-                    <td className="py-1 pr-2 whitespace-nowrap">{sample.date}</td>
+                    <td className="figures py-1 pr-2 whitespace-nowrap">{sample.date}</td>
                     <td className="pr-2">{sample.zone?.name ?? "whole project"}{sample.cell ? ` · ${sample.cell}` : ""}</td>
-                    <td className="pr-2">{formatFigure(sample.percentSolids, 1)} %</td>
-                    <td className="pr-2 whitespace-nowrap">{formatFigure(sample.dryBulkDensity.value, 2)} {sample.dryBulkDensity.label}</td>
-                    <td className="pr-2">{sample.organicMatterPercent === null ? "–" : `${formatFigure(sample.organicMatterPercent, 1)} %`}</td>
-                    <td className="pr-2">{formatFigure(sample.totalNitrogenMgKg, 0)}</td>
-                    <td className="pr-2">{formatFigure(sample.totalPhosphorusMgKg, 0)}</td>
+                    <td className="figures pr-2">{formatFigure(sample.percentSolids, 1)} %</td>
+                    <td className="figures pr-2 whitespace-nowrap">{formatFigure(sample.dryBulkDensity.value, 2)} {sample.dryBulkDensity.label}</td>
+                    <td className="figures pr-2">{sample.organicMatterPercent === null ? "–" : `${formatFigure(sample.organicMatterPercent, 1)} %`}</td>
+                    <td className="figures pr-2">{formatFigure(sample.totalNitrogenMgKg, 0)}</td>
+                    <td className="figures pr-2">{formatFigure(sample.totalPhosphorusMgKg, 0)}</td>
                     <td>{[sample.lab, sample.reportNumber].filter(Boolean).join(" · ") || "–"}</td>
                   </tr>
                 ))}

@@ -122,15 +122,15 @@ function ShiftTable({ shifts }: { shifts: Route.ComponentProps["loaderData"]["sh
         <tbody>
           {shifts.map((shift) => (
             <tr key={shift.id} className="border-b border-line align-top">
-              <td className="py-1 pr-2 whitespace-nowrap">{shift.date}</td>
-              <td className="pr-2 whitespace-nowrap">{shift.start}–{shift.end}</td>
-              <td className="pr-2">{formatFigure(shift.pumpHours, 2)}</td>
-              <td className="pr-2 whitespace-nowrap">{formatFigure(shift.slurryFlow.value, 0)} {shift.slurryFlow.label}</td>
-              <td className="pr-2 whitespace-nowrap">{shift.solidsByWeight !== null ? `Cw ${formatFigure(shift.solidsByWeight * 100, 1)} %` : shift.slurrySpecificGravity !== null ? `SG ${shift.slurrySpecificGravity}` : "–"}</td>
-              <td className="pr-2 whitespace-nowrap" title={shift.polymer ? [shift.polymer.product, shift.polymer.lot].filter(Boolean).join(", ") : undefined}>{shift.polymer ? `${shift.polymer.doseMgPerL} mg/L` : "–"}</td>
-              <td className="pr-2 whitespace-nowrap">{shift.computed.stockFeedRate ? `${formatFigure(shift.computed.stockFeedRate.value, 1)} ${shift.computed.stockFeedRate.label}` : "–"}</td>
-              <td className="pr-2 whitespace-nowrap">{shift.computed.drySolids ? `${formatFigure(shift.computed.drySolids.value, 1)} ${shift.computed.drySolids.label}` : "–"}</td>
-              <td className="pr-2 whitespace-nowrap">{shift.computed.polymerPerDryTon ? `${formatFigure(shift.computed.polymerPerDryTon.value, 2)} ${shift.computed.polymerPerDryTon.label}` : "–"}</td>
+              <td className="figures py-1 pr-2 whitespace-nowrap">{shift.date}</td>
+              <td className="figures pr-2 whitespace-nowrap">{shift.start}–{shift.end}</td>
+              <td className="figures pr-2">{formatFigure(shift.pumpHours, 2)}</td>
+              <td className="figures pr-2 whitespace-nowrap">{formatFigure(shift.slurryFlow.value, 0)} {shift.slurryFlow.label}</td>
+              <td className="figures pr-2 whitespace-nowrap">{shift.solidsByWeight !== null ? `Cw ${formatFigure(shift.solidsByWeight * 100, 1)} %` : shift.slurrySpecificGravity !== null ? `SG ${shift.slurrySpecificGravity}` : "–"}</td>
+              <td className="figures pr-2 whitespace-nowrap" title={shift.polymer ? [shift.polymer.product, shift.polymer.lot].filter(Boolean).join(", ") : undefined}>{shift.polymer ? `${shift.polymer.doseMgPerL} mg/L` : "–"}</td>
+              <td className="figures pr-2 whitespace-nowrap">{shift.computed.stockFeedRate ? `${formatFigure(shift.computed.stockFeedRate.value, 1)} ${shift.computed.stockFeedRate.label}` : "–"}</td>
+              <td className="figures pr-2 whitespace-nowrap">{shift.computed.drySolids ? `${formatFigure(shift.computed.drySolids.value, 1)} ${shift.computed.drySolids.label}` : "–"}</td>
+              <td className="figures pr-2 whitespace-nowrap">{shift.computed.polymerPerDryTon ? `${formatFigure(shift.computed.polymerPerDryTon.value, 2)} ${shift.computed.polymerPerDryTon.label}` : "–"}</td>
               <td>{shift.tubes.join(", ") || "–"}</td>
             </tr>
           ))}
