@@ -16,7 +16,8 @@ import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
 import { readFileForm } from "~/lib/http/body.server";
 import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
 import { getProjectSettings, LARGE_GRID_CELLS, previewWorkLimit, projectPatchSchema, prospectiveCellCount, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
-import { WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
+import { WORK_LIMIT_ACCEPT, WORK_LIMIT_MAX_BYTES, type WorkLimitFormat } from "../../shared/grid/work-limit-geojson";
+import { readWorkLimitFile } from "~/lib/geo/work-limit-files.server";
 import type { Route } from "./+types/projects.$projectId.settings";
 
 // The manager's settings page: one form per section, each saved on its own through the project
@@ -42,7 +43,7 @@ const actionSchema = z.discriminatedUnion("intent", [
     verticalDatum: z.string(),
   }),
   z.object({ intent: z.literal("coordinates"), crs: z.string(), lengthUnit: z.enum(lengthUnitSchema.options, { error: "Choose a length unit" }) }),
-  z.object({ intent: z.literal("work-limit-preview"), file: z.instanceof(File, { error: "Choose a GeoJSON file" }) }),
+  z.object({ intent: z.literal("work-limit-preview"), file: z.instanceof(File, { error: "Choose the work limit's file" }) }),
   z.object({ intent: z.literal("work-limit-save"), geoJson: z.string().min(1) }),
   z.object({
     intent: z.literal("grid"),
@@ -76,6 +77,9 @@ const actionSchema = z.discriminatedUnion("intent", [
 
 interface WorkLimitPreview {
   geoJson: string;
+  format: WorkLimitFormat;
+  /** What the reader says of the file (left-out features, holes found). */
+  note: string | null;
   lonLat: LonLatPolygons;
   coordinates: "lon-lat" | "project-crs";
   area: number;
@@ -129,14 +133,9 @@ export async function action({ request, params }: Route.ActionArgs) {
         break;
       }
       case "work-limit-preview": {
-        let geoJson: unknown;
-        try {
-          geoJson = JSON.parse(await input.file.text());
-        } catch {
-          return failed(input.intent, { workLimit: `${input.file.name} is not a GeoJSON file (it does not read as JSON).` });
-        }
-        const preview = await previewWorkLimit(project, geoJson);
-        return answered({ intent: input.intent, errors: {}, notice: null, preview: { ...preview, geoJson: JSON.stringify(preview.lonLat) } });
+        const file = await readWorkLimitFile(input.file.name, new Uint8Array(await input.file.arrayBuffer()));
+        const preview = await previewWorkLimit(project, file.geoJson);
+        return answered({ intent: input.intent, errors: {}, notice: null, preview: { ...preview, geoJson: JSON.stringify(preview.lonLat), format: file.format, note: file.note } });
       }
       case "work-limit-save":
         patch = { workLimit: JSON.parse(input.geoJson) };
@@ -254,14 +253,15 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           </>
         ) : <p className="text-sm text-muted">No work limit yet.</p>}
         <Form method="post" encType="multipart/form-data" className="mt-3 space-y-2">
-          <label htmlFor="work-limit-file" className="block text-sm font-medium">New work limit (GeoJSON, in {settings.crs} or lon/lat)</label>
-          <input id="work-limit-file" name="file" type="file" accept=".geojson,.json,application/geo+json,application/json" required className="block w-full text-sm" aria-invalid={limitErrors.workLimit || limitErrors.file ? true : undefined} aria-describedby="work-limit-error" />
+          <label htmlFor="work-limit-file" className="block text-sm font-medium">New work limit (GeoJSON, KML, zipped shapefile, DXF or CSV of vertices; in {settings.crs} or lon/lat)</label>
+          <input id="work-limit-file" name="file" type="file" accept={WORK_LIMIT_ACCEPT} required className="block w-full text-sm" aria-invalid={limitErrors.workLimit || limitErrors.file ? true : undefined} aria-describedby="work-limit-error" />
           <p id="work-limit-error" className="text-sm text-danger">{limitErrors.workLimit ?? limitErrors.file ?? ""}</p>
           <SubmitButton intent="work-limit-preview" tone="plain" pendingLabel="Reading…">Preview</SubmitButton>
         </Form>
         {preview ? (
           <div className="mt-4 space-y-2" data-testid="work-limit-preview">
-            <p className="text-sm">Read as {preview.coordinates === "lon-lat" ? "lon/lat (WGS 84)" : `${settings.crs} coordinates`}; area <span className="figures">{Math.round(preview.area).toLocaleString("en-US")}</span> {areaUnit}; <span className="figures">{preview.cellCount.toLocaleString("en-US")}</span> cells with the present grid.</p>
+            <p className="text-sm">Read {preview.format} as {preview.coordinates === "lon-lat" ? "lon/lat (WGS 84)" : `${settings.crs} coordinates`}; area <span className="figures">{Math.round(preview.area).toLocaleString("en-US")}</span> {areaUnit}; <span className="figures">{preview.cellCount.toLocaleString("en-US")}</span> cells with the present grid.</p>
+            {preview.note ? <p className="text-sm text-muted" data-testid="work-limit-note">{preview.note}</p> : null}
             <WorkLimitOutline workLimit={preview.lonLat} title="The new work limit, not yet saved" />
             <Form method="post" onSubmit={(event) => { if (settings.surveyCount > 0 && !window.confirm(`Replace the work limit?${surveysNote}`)) event.preventDefault(); }}>
               <input type="hidden" name="geoJson" value={preview.geoJson} />

@@ -18,7 +18,8 @@ import { readFileForm } from "~/lib/http/body.server";
 import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
 import { listProjectsForUser } from "~/models/project.server";
 import { assertMayCreateProjects, createProject, newProjectSchema } from "~/models/project-setup.server";
-import { WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
+import { WORK_LIMIT_ACCEPT, WORK_LIMIT_MAX_BYTES } from "../../shared/grid/work-limit-geojson";
+import { readWorkLimitFile } from "~/lib/geo/work-limit-files.server";
 import type { Route } from "./+types/projects";
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -43,7 +44,7 @@ const newProjectFormSchema = z.object({
   lengthUnit: z.enum(lengthUnitSchema.options, { error: "Choose a length unit" }),
   timeZone: z.string(),
   manager: z.string().trim().transform((value) => value || undefined),
-  file: z.instanceof(File, { error: "Choose the work limit's GeoJSON file" }).refine((file) => file.size > 0, "Choose the work limit's GeoJSON file"),
+  file: z.instanceof(File, { error: "Choose the work limit's file" }).refine((file) => file.size > 0, "Choose the work limit's file"),
 });
 
 /** A service refusal's details as the form's field errors (the detail's first path segment is the input's name; the work limit is the file input). */
@@ -62,15 +63,10 @@ export async function action({ request }: Route.ActionArgs) {
   const parsed = parseForm(form, newProjectFormSchema);
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
   const { file, ...fields } = parsed.data;
-  let workLimit: unknown;
   try {
-    workLimit = JSON.parse(await file.text());
-  } catch {
-    return data({ errors: { file: `${file.name} is not a GeoJSON file (it does not read as JSON).` } as FieldErrors }, { status: 400 });
-  }
-  // The grid starts from the unit's usual cell size; the settings page changes it.
-  const input = newProjectSchema.safeParse({ ...fields, workLimit, grid: { cellSize: defaultsFor(fields.lengthUnit).cellSize } });
-  try {
+    const { geoJson: workLimit } = await readWorkLimitFile(file.name, new Uint8Array(await file.arrayBuffer()));
+    // The grid starts from the unit's usual cell size; the settings page changes it.
+    const input = newProjectSchema.safeParse({ ...fields, workLimit, grid: { cellSize: defaultsFor(fields.lengthUnit).cellSize } });
     if (!input.success) throw validationErrorFrom(input.error);
     const { id } = await createProject(user, input.data, { ip: clientAddress(request) });
     return redirect(`/projects/${id}/map`);
@@ -110,8 +106,8 @@ function NewProjectForm({ errors }: { errors: FieldErrors }) {
         <TextField label="Time zone" name="timeZone" required defaultValue="America/New_York" error={errors.timeZone} hint="IANA name: work days are counted in it." />
         <TextField label="First manager's e-mail" name="manager" type="email" error={errors.manager} hint="An existing account; leave empty to manage it yourself." />
         <div>
-          <label htmlFor="new-work-limit" className="block text-sm font-medium">Work limit (GeoJSON, in the CRS or lon/lat)</label>
-          <input id="new-work-limit" name="file" type="file" required accept=".geojson,.json,application/geo+json,application/json" className="mt-1 block w-full text-sm" aria-invalid={errors.file ? true : undefined} aria-describedby="new-work-limit-error" />
+          <label htmlFor="new-work-limit" className="block text-sm font-medium">Work limit (GeoJSON, KML, zipped shapefile, DXF or CSV of vertices; in the CRS or lon/lat)</label>
+          <input id="new-work-limit" name="file" type="file" required accept={WORK_LIMIT_ACCEPT} className="mt-1 block w-full text-sm" aria-invalid={errors.file ? true : undefined} aria-describedby="new-work-limit-error" />
           <p id="new-work-limit-error" className="mt-1 text-sm text-danger">{errors.file ?? ""}</p>
         </div>
         <div className="sm:col-span-2"><SubmitButton pendingLabel="Creating…">Create project</SubmitButton></div>

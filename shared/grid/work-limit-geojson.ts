@@ -19,6 +19,12 @@ export const WORK_LIMIT_MAX_BYTES = 2 * 1024 * 1024;
 /** Most vertices accepted over all rings (the crossing check grows with their square). */
 export const WORK_LIMIT_MAX_VERTICES = 10_000;
 
+/** The forms a work limit or zone file may come in (read by app/lib/geo/work-limit-files.server.ts). */
+export const WORK_LIMIT_FORMATS = ["GeoJSON", "KML", "zipped shapefile", "DXF", "CSV"] as const;
+export type WorkLimitFormat = (typeof WORK_LIMIT_FORMATS)[number];
+/** What a file input offers (extensions and types), for the pages' `accept`. */
+export const WORK_LIMIT_ACCEPT = ".geojson,.json,.kml,.zip,.dxf,.csv,application/geo+json,application/json,application/vnd.google-earth.kml+xml,application/zip,text/csv";
+
 export type CoordinateSystemFound = "lon-lat" | "project-crs";
 
 export interface WorkLimitProblem {
