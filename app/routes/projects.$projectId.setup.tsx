@@ -145,7 +145,7 @@ export default function ProjectSetupPage({ loaderData }: Route.ComponentProps) {
       )}
       <div className="grid gap-4 md:grid-cols-[18rem_1fr]">
         <StepList steps={progress.steps} current={current} />
-        <article aria-labelledby="step-heading" className="rounded border border-line bg-panel p-4" data-testid="setup-step">
+        <article aria-labelledby="step-heading" className="self-start rounded border border-line bg-panel p-4" data-testid="setup-step">
           <p className="text-sm text-muted">Step <span className="figures">{step.number}</span> of <span className="figures">{progress.total}</span></p>
           <div className="mt-1 flex flex-wrap items-center justify-between gap-2">
             <h3 id="step-heading" className="text-lg font-semibold">{step.title}</h3>
