@@ -113,6 +113,13 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
       canvas.setAttribute("aria-label", "Zones map: arrow keys pan, + and − zoom");
       canvas.setAttribute("aria-describedby", instructionsId);
       map.addControl(new maplibre.NavigationControl({ showCompass: false }), "top-right");
+      // Until the manager moves the map, it keeps the work limit framed when its box changes
+      // (a phone turned, a window resized).
+      let moved = false;
+      map.on("movestart", (event) => { if ((event as { originalEvent?: Event }).originalEvent) moved = true; });
+      map.on("resize", () => {
+        if (!moved && workLimit && map) map.fitBounds(extentOf(workLimit), { padding: 24, animate: false });
+      });
       map.addControl(new maplibre.ScaleControl({ unit: lengthUnit === "m" ? "metric" : "imperial", maxWidth: 100 }), "bottom-left");
       map.on("load", () => {
         if (cancelled || !map) return;

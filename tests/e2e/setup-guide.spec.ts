@@ -158,7 +158,8 @@ test("a new project walks its setup steps to done; a zone drawn by clicks on the
   await page.getByLabel("Survey date").fill(baseline.surveyedOn);
   await page.getByLabel(/Water-surface elevation/).fill(String(baseline.waterSurfaceElevationFt));
   await page.getByRole("button", { name: "Upload and check" }).click();
-  await expect(page).toHaveURL(/\/surveys\/imports\/\d+$/);
+  // The upload is checked before the page moves on (some seconds for 20,000 soundings on a busy machine).
+  await expect(page).toHaveURL(/\/surveys\/imports\/\d+$/, { timeout: 60_000 });
   await page.getByRole("button", { name: "Import the survey" }).click();
   await expect(page).toHaveURL(/\/surveys\/\d+$/, { timeout: 90_000 });
 
