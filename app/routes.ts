@@ -99,6 +99,7 @@ export default [
     route("plans/:date", "routes/projects.$projectId.plans.$date.tsx"),
     route("quantities", "routes/projects.$projectId.quantities.tsx"),
     route("settings", "routes/projects.$projectId.settings.tsx"),
+    route("setup", "routes/projects.$projectId.setup.tsx"),
     route("share", "routes/projects.$projectId.share.tsx"),
     route("surveys", "routes/projects.$projectId.surveys.tsx"),
     route("surveys/:surveyId", "routes/projects.$projectId.surveys.$surveyId.tsx"),

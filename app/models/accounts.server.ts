@@ -32,17 +32,36 @@ export function assertMayManageAccounts(user: UserView): void {
   if (!canManageAccounts(user)) throw new ForbiddenError("Only a site administrator may manage accounts.");
 }
 
-/** Every account (or those whose name or e-mail contains `search`), by name. */
-export async function listAccounts(actingUser: UserView, search = ""): Promise<AccountView[]> {
-  assertMayManageAccounts(actingUser);
+/** What the site admin's account list and the API are filtered by: name or e-mail containing `search`. */
+function accountsMatching(search: string) {
   const term = search.trim();
   // LIKE's own wildcards in the search are taken literally.
   const pattern = `%${term.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-  const users = await User.findAll({
-    where: term ? { [Op.or]: [{ name: { [Op.like]: pattern } }, { email: { [Op.like]: pattern } }] } : {},
-    order: [["name", "ASC"], ["id", "ASC"]],
-  });
+  return term ? { [Op.or]: [{ name: { [Op.like]: pattern } }, { email: { [Op.like]: pattern } }] } : {};
+}
+
+/** Every account (or those whose name or e-mail contains `search`), by name. */
+export async function listAccounts(actingUser: UserView, search = ""): Promise<AccountView[]> {
+  assertMayManageAccounts(actingUser);
+  const users = await User.findAll({ where: accountsMatching(search), order: [["name", "ASC"], ["id", "ASC"]] });
   return presentAccounts(users);
+}
+
+/** Accounts shown a page at a time on the site admin's list. */
+export const ACCOUNTS_PER_PAGE = 50;
+
+/**
+ * One page (1-based) of the accounts whose name or e-mail contains `search`, by name, with the
+ * number matching; a page past the last gives the last page.
+ */
+export async function listAccountPage(actingUser: UserView, search: string, page: number): Promise<{ accounts: AccountView[]; total: number; page: number; pages: number }> {
+  assertMayManageAccounts(actingUser);
+  const where = accountsMatching(search);
+  const total = await User.count({ where });
+  const pages = Math.max(1, Math.ceil(total / ACCOUNTS_PER_PAGE));
+  const shown = Math.min(Math.max(1, page), pages);
+  const users = await User.findAll({ where, order: [["name", "ASC"], ["id", "ASC"]], limit: ACCOUNTS_PER_PAGE, offset: (shown - 1) * ACCOUNTS_PER_PAGE });
+  return { accounts: await presentAccounts(users), total, page: shown, pages };
 }
 
 async function presentAccounts(users: User[]): Promise<AccountView[]> {

@@ -6,7 +6,8 @@ import { parseWorkLimitGeoJson } from "../../shared/grid/work-limit-geojson";
 import { describeArea, firstVertexOutside } from "../../shared/grid/area-of-use";
 import type { LonLatBounds } from "../../shared/soundings/row-checks";
 import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
-import { defaultsFor } from "../../shared/units";
+import { defaultsFor, unitLabel } from "../../shared/units";
+import { zoneOutsideLimit, zoneOverlapArea } from "../../shared/grid/zone-fit";
 import { emergencyInfoSchema, isEmergencyInfoEmpty, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { canCreateProjects } from "~/lib/auth/permissions";
@@ -46,7 +47,12 @@ const tolerancesSchema = z.object({
   minCoverage: share("The minimum coverage").optional(),
   overDredgeAllowance: z.number({ error: "The over-dredge allowance must be a number" }).finite().min(0, "The over-dredge allowance cannot be negative").optional(),
 });
-const zoneSchema = z.object({ name: z.string().trim().min(1, "A zone needs a name").max(120), geometry: z.unknown() });
+/** A zone; `id` (a zone of this project) keeps the zone, and what refers to it, through a rename or a new outline. */
+const zoneSchema = z.object({
+  id: z.number({ error: "A zone's id is a whole number" }).int().positive().optional(),
+  name: z.string({ error: "A zone needs a name" }).trim().min(1, "A zone needs a name").max(120, "A zone's name is at most 120 characters"),
+  geometry: z.unknown(),
+});
 
 const identityFields = {
   description: text(5000).optional(),
@@ -200,15 +206,61 @@ function checkGeometry(field: string, label: string, geoJson: unknown, checked: 
   return parsed;
 }
 
-function checkZones(zones: Array<{ name: string; geometry: unknown }>, crs: CheckedCrs, problems: ErrorDetail[]) {
+/** A zone may reach outside the work limit by at most this share of one cell's area (rounding of shared vertices). */
+const ZONE_OUTSIDE_CELL_SHARE = 0.01;
+
+/** Where the zones are checked against: the work limit in force and the grid's cell size. */
+interface ZoneFrame {
+  limit: ProjectedMultiPolygon | null;
+  cellSize: number;
+  lengthUnit: LengthUnit;
+}
+
+function checkZones(zones: Array<{ id?: number; name: string; geometry: unknown }>, crs: CheckedCrs, frame: ZoneFrame, problems: ErrorDetail[]) {
   const seen = new Set<string>();
+  const ids = new Set<number>();
+  const areaUnit = unitLabel(frame.lengthUnit, "area");
   return zones.map((zone, index) => {
     const key = zone.name.toLowerCase();
     if (seen.has(key)) problems.push({ field: `zones.${index}.name`, message: `Zone "${zone.name}" is named twice.` });
     seen.add(key);
+    if (zone.id !== undefined) {
+      if (ids.has(zone.id)) problems.push({ field: `zones.${index}.id`, message: `Zone "${zone.name}": zone id ${zone.id} is given twice.` });
+      ids.add(zone.id);
+    }
     const parsed = checkGeometry(`zones.${index}.geometry`, `Zone "${zone.name}"`, zone.geometry, crs, problems);
-    return parsed && { name: zone.name, sortOrder: index + 1, lonLat: parsed.lonLat };
+    if (parsed && frame.limit) {
+      const outside = zoneOutsideLimit(parsed.projected, frame.limit, ZONE_OUTSIDE_CELL_SHARE * frame.cellSize * frame.cellSize);
+      if (outside) {
+        const where = outside.vertex
+          ? `polygon ${outside.vertex.polygon}, ring ${outside.vertex.ring}, vertex ${outside.vertex.vertex} lies outside it`
+          : "an edge cuts across the limit's boundary";
+        problems.push({
+          field: `zones.${index}.geometry`,
+          message: `Zone "${zone.name}" must lie inside the work limit: about ${Math.round(outside.areaOutside).toLocaleString("en-US")} ${areaUnit} of it lies outside (${where}). Move its outline inside the limit.`,
+        });
+        return null;
+      }
+    }
+    return parsed && { id: zone.id, name: zone.name, sortOrder: index + 1, lonLat: parsed.lonLat, projected: parsed.projected };
   });
+}
+
+/**
+ * Pairs of zones that share area (square project units), for the page to say which zone their
+ * shared cells count in (the earlier one, by the one rule of zone membership); slivers under a
+ * hundredth of a cell are left out.
+ */
+export function zoneOverlaps(zones: ReturnType<typeof checkZones>, cellSize: number): Array<{ first: string; second: string; area: number }> {
+  const found: Array<{ first: string; second: string; area: number }> = [];
+  const checked = zones.filter((zone): zone is NonNullable<typeof zone> => zone !== null);
+  for (let i = 0; i < checked.length; i++) {
+    for (let j = i + 1; j < checked.length; j++) {
+      const area = zoneOverlapArea(checked[i].projected, checked[j].projected);
+      if (area > ZONE_OUTSIDE_CELL_SHARE * cellSize * cellSize) found.push({ first: checked[i].name, second: checked[j].name, area });
+    }
+  }
+  return found;
 }
 
 interface GridColumns {
@@ -242,6 +294,32 @@ async function createZones(projectId: number, zones: ReturnType<typeof checkZone
   }
 }
 
+/**
+ * Makes the project's zones those given: a zone named by its id, else by its name (either case),
+ * is kept and changed in place, so what refers to it (sediment samples, cell results) keeps it;
+ * the rest are created, and zones not given are removed. Renames go through a name no zone can
+ * have, so two zones may swap names under the unique (project, name) index.
+ */
+async function replaceZones(projectId: number, zones: ReturnType<typeof checkZones>, transaction: Transaction): Promise<void> {
+  const existing = await Zone.findAll({ where: { projectId }, transaction, lock: transaction.LOCK.UPDATE });
+  const byId = new Map(existing.map((zone) => [zone.id, zone]));
+  const byName = new Map(existing.map((zone) => [zone.name.toLowerCase(), zone]));
+  const kept = new Map<Zone, NonNullable<(typeof zones)[number]>>();
+  const created: Array<NonNullable<(typeof zones)[number]>> = [];
+  for (const zone of zones) {
+    if (!zone) continue;
+    const byItsName = byName.get(zone.name.toLowerCase());
+    const row = zone.id !== undefined ? byId.get(zone.id) : byItsName && !zones.some((other) => other?.id === byItsName.id) ? byItsName : undefined;
+    if (row && !kept.has(row)) kept.set(row, zone);
+    else created.push(zone);
+  }
+  const keptIds = [...kept.keys()].map((zone) => zone.id);
+  await Zone.destroy({ where: { projectId, ...(keptIds.length > 0 ? { id: { [Op.notIn]: keptIds } } : {}) }, transaction });
+  for (const [row, zone] of kept) if (row.name !== zone.name) await row.update({ name: `\u0001${row.id}` }, { transaction });
+  for (const [row, zone] of kept) await row.update({ name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
+  await createZones(projectId, created, transaction);
+}
+
 async function freeSlug(name: string, transaction: Transaction): Promise<string> {
   const base = name.normalize("NFKD").toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-+|-+$/g, "").slice(0, 90) || "project";
   const taken = new Set((await Project.findAll({ where: { slug: { [Op.like]: `${base}%` } }, attributes: ["slug"], transaction })).map((project) => project.slug));
@@ -267,7 +345,7 @@ export async function createProject(actor: UserView, input: NewProjectInput, opt
   const problems: ErrorDetail[] = [];
   const checked = checkCrs(input.crs, input.lengthUnit, problems);
   const limit = checked && checkGeometry("workLimit", "The work limit", input.workLimit, checked, problems);
-  const zones = checked ? checkZones(input.zones ?? [], checked, problems) : [];
+  const zones = checked ? checkZones(input.zones ?? [], checked, { limit: limit ? limit.projected : null, cellSize: input.grid.cellSize, lengthUnit: input.lengthUnit }, problems) : [];
   // Read in the caller's transaction: the seeder creates the manager's account in it.
   const manager = input.manager ? await User.findOne({ where: { email: normaliseEmail(input.manager) }, transaction: options.transaction }) : null;
   if (input.manager && !manager) problems.push({ field: "manager", message: `No account has the e-mail ${input.manager}; create it first or name an existing one.` });
@@ -401,9 +479,12 @@ export async function prospectiveCellCount(project: ProjectView, grid: NonNullab
  * Applies `patch` to the project's settings. A change to the work limit, zones, grid or tolerances
  * of a project with surveys recomputes every survey's figures in the same transaction, under the
  * project's lock (as an import does); the CRS and length unit may change only before the first
- * survey. The audit log gets the settings before and after.
+ * survey. The audit log gets the settings before and after. `overlaps` names the zones that share
+ * area, when zones were given (allowed: a shared cell counts in the earlier zone).
  */
-export function updateProjectSettings(project: ProjectView, actor: UserView, patch: ProjectPatch, options: { ip?: string | null } = {}): Promise<{ settings: ProjectSettings; recomputed: boolean }> {
+export function updateProjectSettings(
+  project: ProjectView, actor: UserView, patch: ProjectPatch, options: { ip?: string | null } = {},
+): Promise<{ settings: ProjectSettings; recomputed: boolean; overlaps: Array<{ first: string; second: string; area: number }> }> {
   return withProjectLock(project.id, () =>
     getSequelize().transaction(async (transaction) => {
       const row = await Project.findByPk(project.id, { transaction, lock: transaction.LOCK.UPDATE });
@@ -419,11 +500,18 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
       }
       const checked = checkCrs(crsCode, lengthUnit, problems);
       const limit = checked && patch.workLimit !== undefined ? checkGeometry("workLimit", "The work limit", patch.workLimit, checked, problems) : null;
-      const zones = checked && patch.zones ? checkZones(patch.zones, checked, problems) : null;
       if (!checked) throw new ValidationError(problems);
 
       const projected = limit?.projected ?? projectedLimit(checked.crs, row.workLimitGeoJson);
       const cellSize = patch.grid?.cellSize ?? row.cellSize;
+      // Zones are checked against the work limit and cell size they will be used with.
+      const zones = patch.zones ? checkZones(patch.zones, checked, { limit: projected, cellSize, lengthUnit }, problems) : null;
+      if (patch.zones) {
+        const known = new Set((await Zone.findAll({ where: { projectId: project.id }, attributes: ["id"], transaction })).map((zone) => zone.id));
+        patch.zones.forEach((zone, index) => {
+          if (zone.id !== undefined && !known.has(zone.id)) problems.push({ field: `zones.${index}.id`, message: `Zone "${zone.name}": this project has no zone with id ${zone.id}.` });
+        });
+      }
       const rotationDeg = patch.grid?.rotationDegrees ?? row.rotationDeg;
       // A new CRS moves every coordinate: the origin starts again from the work limit unless given.
       const [defaultX, defaultY] = coordinatesChange && projected ? defaultGridOrigin(projected, cellSize, rotationDeg) : [row.gridOriginE, row.gridOriginN];
@@ -457,10 +545,7 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
       if (patch.workDay !== undefined) row.set({ workDayStart: patch.workDay?.start ?? null, workDayEnd: patch.workDay?.end ?? null });
       const figuresChange = (["workLimitGeoJson", "cellSize", "rotationDeg", "gridOriginE", "gridOriginN", "rasterResolution", "maxEdge", "tolerance", "firmShare", "minCoverage"] as const).some((key) => row.changed(key));
       await row.save({ transaction });
-      if (zones) {
-        await Zone.destroy({ where: { projectId: project.id }, transaction });
-        await createZones(project.id, zones, transaction);
-      }
+      if (zones) await replaceZones(project.id, zones, transaction);
       const recomputed = surveys > 0 && (figuresChange || zones !== null);
       if (recomputed) await recomputeProjectStatistics(project.id, transaction);
       const after = await settingsOf(row, transaction);
@@ -474,7 +559,7 @@ export function updateProjectSettings(project: ProjectView, actor: UserView, pat
         },
         transaction,
       );
-      return { settings: after, recomputed };
+      return { settings: after, recomputed, overlaps: zones ? zoneOverlaps(zones, cellSize) : [] };
     }),
   );
 }

@@ -1,4 +1,4 @@
-import { Form, data } from "react-router";
+import { Form, Link, data } from "react-router";
 import { z } from "zod";
 import { ConfirmedActionForm } from "~/components/confirmed-action-form";
 import { ActionMessages } from "~/components/form-message";
@@ -11,17 +11,25 @@ import { DomainError } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { emailSchema, parseForm, personNameSchema } from "~/lib/http/form";
 import { appOrigin } from "~/lib/http/origin.server";
-import { createAccount, listAccounts, sendAccountPasswordReset, updateAccount } from "~/models/accounts.server";
+import { ACCOUNTS_PER_PAGE, createAccount, listAccountPage, sendAccountPasswordReset, updateAccount } from "~/models/accounts.server";
 import type { Route } from "./+types/admin.users";
 import { readPageForm } from "~/lib/http/body.server";
 
 // Every account (the site admin): disable or re-enable, allow or stop project creation, send a
 // password-reset link, create an account that chooses its password through such a link.
 
+// The list's place in the address: ?q=<name or e-mail>&page=<n>, so a search and a page can be linked.
+const querySchema = z.object({
+  q: z.string().catch("").transform((value) => value.slice(0, 200)),
+  page: z.coerce.number().int().min(1).catch(1),
+});
+
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireSiteAdmin(request);
-  const search = (new URL(request.url).searchParams.get("q") ?? "").slice(0, 200);
-  return { accounts: await listAccounts(user, search), search, currentUserId: user.id };
+  const params = new URL(request.url).searchParams;
+  const query = querySchema.parse({ q: params.get("q") ?? "", page: params.get("page") ?? "1" });
+  const list = await listAccountPage(user, query.q, query.page);
+  return { ...list, perPage: ACCOUNTS_PER_PAGE, search: query.q, currentUserId: user.id };
 }
 
 const accountId = z.coerce.number().int().positive();
@@ -73,6 +81,26 @@ export function meta({}: Route.MetaArgs) {
 }
 
 const smallButton = "px-2 py-1 text-sm";
+const pageLinkClass = "rounded border border-line bg-panel px-3 py-2 text-sm font-medium hover:bg-paper focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-lagoon";
+
+/** Which accounts of how many are shown, and links to the previous and next pages (the search kept). */
+function Pager({ search, page, pages, total, perPage }: { search: string; page: number; pages: number; total: number; perPage: number }) {
+  const href = (target: number) => `?${new URLSearchParams({ ...(search ? { q: search } : {}), page: String(target) })}`;
+  const first = total === 0 ? 0 : (page - 1) * perPage + 1;
+  const last = Math.min(total, page * perPage);
+  return (
+    <nav aria-label="Pages of accounts" className="flex flex-wrap items-center justify-between gap-2">
+      <p className="text-sm" data-testid="account-count">
+        {total === 0 ? "No accounts" : <>Accounts <span className="figures">{first.toLocaleString("en-US")}–{last.toLocaleString("en-US")}</span> of <span className="figures">{total.toLocaleString("en-US")}</span></>}
+        {pages > 1 ? <> · page <span className="figures">{page}</span> of <span className="figures">{pages}</span></> : null}
+      </p>
+      <div className="flex gap-2">
+        {page > 1 ? <Link className={pageLinkClass} to={href(page - 1)} rel="prev">← Previous page</Link> : null}
+        {page < pages ? <Link className={pageLinkClass} to={href(page + 1)} rel="next">Next page →</Link> : null}
+      </div>
+    </nav>
+  );
+}
 
 export default function AdminUsers({ loaderData, actionData }: Route.ComponentProps) {
   const errors: Record<string, string> = actionData?.errors ?? {};
@@ -145,6 +173,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
         </tbody>
       </table>
       {loaderData.accounts.length === 0 ? <p className="text-sm text-muted">No account matches.</p> : null}
+      <Pager search={loaderData.search} page={loaderData.page} pages={loaderData.pages} total={loaderData.total} perPage={loaderData.perPage} />
 
       <section aria-labelledby="create-heading" className="max-w-md">
         <h2 id="create-heading" className="text-lg font-semibold">Create an account</h2>

@@ -6,6 +6,8 @@ import { ReconciliationPanel } from "~/components/dewatering/reconciliation-pane
 import { loadProgress } from "~/models/progress.server";
 import { loadReconciliation } from "~/models/reconciliation.server";
 import { listZones } from "~/models/project.server";
+import { loadSetupProgress } from "~/models/setup-guide.server";
+import { Link } from "react-router";
 import { unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId._index";
 
@@ -13,6 +15,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project, role } = access;
   const [zones, progress] = await Promise.all([listZones(project), loadProgress(project, { crossCheck: true })]);
+  // The manager is reminded of the setup steps left until every one is done (an archived project is past setting up).
+  const setup = can(access, "project.configure") ? await loadSetupProgress(project) : null;
   // The reconciliation rests on the same progress figures: handed over, not read twice.
   const reconciliation = progress.hasFigures ? await loadReconciliation(project, progress) : null;
   // Exports for the manager and viewers; the public share page for outreach and the manager.
@@ -32,6 +36,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     progress,
     progressLinks,
     reconciliation,
+    setup: setup && !setup.complete ? { doneCount: setup.doneCount, total: setup.total } : null,
   };
 }
 
@@ -50,6 +55,12 @@ export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
   const percent = (share: number) => `${Math.round(share * 100)} %`;
   return (
     <div className="space-y-6">
+    {loaderData.setup ? (
+      <p className="flex flex-wrap items-center justify-between gap-2 rounded border border-lagoon bg-panel px-3 py-2 text-sm" data-testid="setup-reminder">
+        <span>Setup: <span className="figures">{loaderData.setup.doneCount}</span> of <span className="figures">{loaderData.setup.total}</span> steps done.</span>
+        <Link to={`/projects/${project.id}/setup`} className="font-medium text-lagoon underline focus-visible:outline-2 focus-visible:outline-lagoon">Continue setting up this project</Link>
+      </p>
+    ) : null}
     <ProgressOverview progress={loaderData.progress} links={loaderData.progressLinks} />
     {loaderData.reconciliation ? <ReconciliationPanel reconciliation={loaderData.reconciliation} dewateringHref={`/projects/${project.id}/dewatering`} /> : null}
     <div className="grid gap-6 md:grid-cols-2">

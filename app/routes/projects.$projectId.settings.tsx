@@ -1,5 +1,7 @@
 import { useRef } from "react";
-import { Form, Link, data } from "react-router";
+import { Form, Link, data, useSearchParams } from "react-router";
+import { ZoneEditor, type EditableZone } from "~/components/zone-editor";
+import { SETUP_STEP_KEYS } from "../../shared/setup-steps";
 import { CrsCombobox } from "~/components/crs-combobox";
 import { z } from "zod";
 import { lengthUnitSchema, unitLabel } from "../../shared/units";
@@ -62,6 +64,14 @@ const actionSchema = z.discriminatedUnion("intent", [
     workDayStart: z.string().trim(),
     workDayEnd: z.string().trim(),
   }),
+  // A zone drawn on the map (its outline as lon/lat GeoJSON) or renamed (no geometry: the outline stays).
+  z.object({
+    intent: z.literal("zone-save"),
+    zoneId: z.preprocess(blankToUndefined, z.coerce.number().int().positive().optional()),
+    name: z.string(),
+    geometry: z.preprocess(blankToUndefined, z.string().optional()),
+  }),
+  z.object({ intent: z.literal("zone-delete"), zoneId: z.coerce.number().int().positive() }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
   z.object({
     intent: z.literal("emergency"),
@@ -140,6 +150,31 @@ export async function action({ request, params }: Route.ActionArgs) {
       case "work-limit-save":
         patch = { workLimit: JSON.parse(input.geoJson) };
         break;
+      case "zone-save":
+      case "zone-delete": {
+        // Through the same check as zones sent to the API: the whole list, changed in one place.
+        const { zones } = await getProjectSettings(project);
+        const current = zones.map((zone) => ({ id: zone.id, name: zone.name, geometry: zone.geometry }));
+        if (input.intent === "zone-delete") {
+          if (!current.some((zone) => zone.id === input.zoneId)) return failed(input.intent, { form: "That zone is no longer there; the page shows the zones as they are now." });
+          patch = { zones: current.filter((zone) => zone.id !== input.zoneId) };
+          break;
+        }
+        let geometry: unknown;
+        if (input.geometry !== undefined) {
+          try {
+            geometry = JSON.parse(input.geometry);
+          } catch {
+            return failed(input.intent, { geometry: "The drawn outline did not arrive whole; draw it again." });
+          }
+        }
+        const existing = input.zoneId === undefined ? undefined : current.find((zone) => zone.id === input.zoneId);
+        if (input.zoneId !== undefined && !existing) return failed(input.intent, { form: "That zone is no longer there; the page shows the zones as they are now." });
+        if (!existing && geometry === undefined) return failed(input.intent, { geometry: "Draw the zone's outline on the map first." });
+        const saved = { id: existing?.id, name: input.name, geometry: geometry ?? existing!.geometry };
+        patch = { zones: existing ? current.map((zone) => (zone.id === existing.id ? saved : zone)) : [...current, saved] };
+        break;
+      }
       case "grid": {
         const { intent: _intent, confirmLargeGrid, ...grid } = input;
         const cells = await prospectiveCellCount(project, grid);
@@ -154,9 +189,12 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     const checked = projectPatchSchema.safeParse(patch);
     if (!checked.success) return failed(input.intent, fieldErrorsOf(validationErrorFrom(checked.error)));
-    const { settings, recomputed } = await updateProjectSettings(project, user, checked.data, { ip });
-    const cells = settings.cellCount === null || input.intent === "emergency" || input.intent === "dive-work" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
-    return answered({ intent: input.intent, errors: {}, notice: `Saved.${cells}${recomputed ? " Every survey's figures were recomputed." : ""}` });
+    const { settings, recomputed, overlaps } = await updateProjectSettings(project, user, checked.data, { ip });
+    const zoneIntent = input.intent === "zone-save" || input.intent === "zone-delete";
+    const cells = settings.cellCount === null || zoneIntent || input.intent === "emergency" || input.intent === "dive-work" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
+    const shared = overlaps.map((overlap) => ` "${overlap.second}" overlaps "${overlap.first}" by about ${Math.round(overlap.area).toLocaleString("en-US")} ${unitLabel(settings.lengthUnit, "area")}: the cells they share count in "${overlap.first}", the earlier zone.`).join("");
+    const what = input.intent === "zone-delete" ? "Zone deleted." : "Saved.";
+    return answered({ intent: input.intent, errors: {}, notice: `${what}${cells}${shared}${recomputed ? " Every survey's figures were recomputed." : ""}` });
   } catch (error) {
     if (error instanceof DomainError) return failed(input.intent, fieldErrorsOf(error));
     throw error;
@@ -199,9 +237,18 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
 
   const archived = settings.archivedAt !== null;
   const lengthUnitRef = useRef<HTMLSelectElement>(null);
+  // Opened from "Set up this project": a way back to the step it came from.
+  const [searchParams] = useSearchParams();
+  const setupStep = SETUP_STEP_KEYS.find((key) => key === searchParams.get("setup")) ?? null;
+  const zoneResult = actionData && (actionData.intent === "zone-save" || actionData.intent === "zone-delete") ? actionData : null;
 
   return (
     <div className="space-y-6">
+      {setupStep ? (
+        <p className="rounded border border-lagoon bg-panel px-3 py-2 text-sm">
+          Setting up this project. <Link className="font-medium text-lagoon underline" to={`/projects/${settings.id}/setup?step=${setupStep}`}>Back to the setup steps</Link>
+        </p>
+      ) : null}
       <ActionMessages error={actionData?.errors.form} />
       {archived ? <p className="rounded border border-line bg-panel px-3 py-2 text-sm">The project is archived: its settings are shown as they were and cannot be changed until a site admin restores it.</p> : null}
 
@@ -289,6 +336,15 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           <p className="text-sm text-muted sm:col-span-3">{surveysNote.trim()}</p>
           <div className="sm:col-span-3"><SubmitButton intent="grid" pendingLabel="Saving…">Save grid</SubmitButton></div>
         </Form>
+      </Section>
+
+      <Section id="zones-heading" title="Zones">
+        <ZoneEditor
+          projectId={settings.id} lengthUnit={settings.lengthUnit} disabled={archived}
+          workLimit={settings.workLimit as unknown as LonLatPolygons | null}
+          zones={settings.zones as unknown as EditableZone[]}
+          result={zoneResult}
+        />
       </Section>
 
       <Section id="tolerances-heading" title="Targets and tolerances">

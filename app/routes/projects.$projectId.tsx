@@ -62,7 +62,7 @@ function projectTabs(data: Route.ComponentProps["loaderData"]): ProjectTab[] {
     data.canReadFinds && { label: "Finds", path: "/finds", also: ["/holds"] },
     data.canShare && { label: "Share", path: "/share" },
     data.canManageMembers && { label: "Members", path: "/members" },
-    data.canConfigure && { label: "Settings", path: "/settings" },
+    data.canConfigure && { label: "Settings", path: "/settings", also: ["/setup"] },
     data.canReadAudit && { label: "Audit log", path: "/audit" },
   ];
   return tabs.filter((tab): tab is ProjectTab => tab !== false);

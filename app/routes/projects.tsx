@@ -69,7 +69,8 @@ export async function action({ request }: Route.ActionArgs) {
     const input = newProjectSchema.safeParse({ ...fields, workLimit, grid: { cellSize: defaultsFor(fields.lengthUnit).cellSize } });
     if (!input.success) throw validationErrorFrom(input.error);
     const { id } = await createProject(user, input.data, { ip: clientAddress(request) });
-    return redirect(`/projects/${id}/map`);
+    // The creator (or the manager named) goes on with the steps that set the project up.
+    return redirect(`/projects/${id}/setup`);
   } catch (error) {
     if (error instanceof DomainError) return data({ errors: fieldErrorsOf(error) }, { status: 400 });
     throw error;

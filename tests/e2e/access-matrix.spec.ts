@@ -199,6 +199,7 @@ const MATRIX: Row[] = [
   row("POST", "projects/:projectId/quantities", "/projects/{project}/quantities", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/settings", "/projects/{project}/settings", "200 403 403 403 403 403 403 200 login"),
   row("POST", "projects/:projectId/settings", "/projects/{project}/settings", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/setup", "/projects/{project}/setup", "200 403 403 403 403 403 403 200 login"),
   row("GET", "projects/:projectId/share", "/projects/{project}/share", "200 403 403 403 403 200 403 200 login"),
   row("POST", "projects/:projectId/share", "/projects/{project}/share", "400 403 403 403 403 400 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/restore", "/projects/999999999/restore", "302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999|302 /projects/999999999"),

@@ -62,6 +62,7 @@ const PAGES: PageRow[] = [
   { route: "projects/:projectId/plans/:date", url: (ids) => `/projects/${ids.project}/plans/${PLAN_DATE}`, as: "dive-supervisor" },
   { route: "projects/:projectId/quantities", url: (ids) => `/projects/${ids.project}/quantities`, as: "manager" },
   { route: "projects/:projectId/settings", url: (ids) => `/projects/${ids.project}/settings`, as: "manager" },
+  { route: "projects/:projectId/setup", url: (ids) => `/projects/${ids.project}/setup`, as: "manager" },
   { route: "projects/:projectId/share", url: (ids) => `/projects/${ids.project}/share`, as: "outreach" },
   { route: "projects/:projectId/surveys", url: (ids) => `/projects/${ids.project}/surveys`, as: "surveyor" },
   { route: "projects/:projectId/surveys/:surveyId", url: (ids) => `/projects/${ids.project}/surveys/${ids.survey}`, as: "surveyor" },

@@ -2,8 +2,8 @@ import { join } from "node:path";
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, expect, signInWithPassword, test } from "./fixtures";
 
 // The first morning: the site admin creates a project from nothing with a GeoJSON work limit (an
-// invented lake), lands on its map with the empty grid and the next step; the manager named on
-// the form changes the cell size on the settings page and sees the new cell count.
+// invented lake), lands on its setup steps, finds the empty grid and the next step on its map; the
+// manager named on the form changes the cell size on the settings page and sees the new cell count.
 
 const WORK_LIMIT_FILE = join(import.meta.dirname, "..", "fixtures", "project-setup", "yellowmarsh-lake.geojson");
 // Sorts after the demo project, so the demo stays first in the manager's list (other specs find it so).
@@ -23,8 +23,10 @@ test("the site admin creates a project; its manager changes the cell size and se
   await form.getByLabel(/Work limit \(GeoJSON/).setInputFiles(WORK_LIMIT_FILE);
   await form.getByRole("button", { name: "Create project" }).click();
 
-  await expect(page).toHaveURL(/\/projects\/\d+\/map$/);
-  const projectId = Number(/\/projects\/(\d+)\/map/.exec(page.url())![1]);
+  // A new project opens on its setup steps; the map shows the empty grid and the next step.
+  await expect(page).toHaveURL(/\/projects\/\d+\/setup$/);
+  const projectId = Number(/\/projects\/(\d+)\/setup/.exec(page.url())![1]);
+  await page.getByRole("navigation", { name: "Project" }).getByRole("link", { name: "Map" }).click();
   await expect(page.getByRole("heading", { name: PROJECT_NAME })).toBeVisible();
   await expect(page.getByTestId("next-step")).toContainText("Next: import the baseline survey");
   await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-cells-drawn", /\d+/, { timeout: 30_000 });

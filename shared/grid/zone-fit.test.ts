@@ -1,0 +1,54 @@
+import { describe, expect, it } from "vitest";
+import type { Position, ProjectedMultiPolygon } from "./work-limit";
+import { zoneOutsideLimit, zoneOverlapArea } from "./zone-fit";
+
+// Rectangles and an L-shaped limit whose areas are closed forms (computed by hand below); each
+// case is run again shifted by state-plane-sized offsets, where the answer must not change.
+const rectangle = (x0: number, y0: number, x1: number, y1: number): ProjectedMultiPolygon => [[[[x0, y0], [x1, y0], [x1, y1], [x0, y1], [x0, y0]]]];
+const move = (polygons: ProjectedMultiPolygon, dx: number, dy: number): ProjectedMultiPolygon => polygons.map((polygon) => polygon.map((ring) => ring.map(([x, y]) => [x + dx, y + dy] as Position)));
+const square100 = rectangle(0, 0, 100, 100);
+// An L: the 100 × 100 square less its top-right 50 × 50 quarter (area 7,500).
+const lShape: ProjectedMultiPolygon = [[[[0, 0], [100, 0], [100, 50], [50, 50], [50, 100], [0, 100], [0, 0]]]];
+const TOLERANCE = 0.01 * 20 * 20; // a hundredth of a 20-unit cell
+
+describe.each([
+  ["near the origin", 0, 0],
+  ["at state plane coordinates", 612_345.5, 1_234_567.25],
+])("zoneOutsideLimit %s", (_where, dx, dy) => {
+  const limit = (polygons: ProjectedMultiPolygon) => move(polygons, dx, dy);
+  const zone = (polygons: ProjectedMultiPolygon) => move(polygons, dx, dy);
+
+  it("accepts a zone inside the limit and one sharing its edges (computed)", () => {
+    expect(zoneOutsideLimit(zone(rectangle(10, 10, 20, 20)), limit(square100), TOLERANCE)).toBeNull();
+    expect(zoneOutsideLimit(zone(rectangle(0, 0, 100, 40)), limit(square100), TOLERANCE)).toBeNull();
+  });
+
+  it("measures what lies outside and names the first vertex off the limit (computed: 10 × 20 = 200 outside)", () => {
+    const found = zoneOutsideLimit(zone(rectangle(90, 10, 110, 30)), limit(square100), TOLERANCE);
+    expect(found?.areaOutside).toBeCloseTo(200, 6);
+    expect(found?.vertex).toEqual({ polygon: 1, ring: 1, vertex: 2 });
+  });
+
+  it("finds an edge cutting across a concave limit when every vertex is inside (computed: 10 × 10 in the missing quarter)", () => {
+    const strip: ProjectedMultiPolygon = [[[[45, 45], [60, 45], [45, 60], [45, 45]]]];
+    // The triangle (45,45)-(60,45)-(45,60): every vertex inside the L; the part above y = 50 and
+    // right of x = 50 is the triangle (50,50)-(55,50)-(50,55), area 12.5.
+    const found = zoneOutsideLimit(zone(strip), limit(lShape), 1);
+    expect(found?.areaOutside).toBeCloseTo(12.5, 6);
+    expect(found?.vertex).toBeNull();
+  });
+
+  it("lets a sliver under the tolerance pass (negative control of the tolerance)", () => {
+    // 100 × 0.03 = 3 square units outside, under 4.
+    expect(zoneOutsideLimit(zone(rectangle(0, 0, 100, 100.03)), limit(square100), TOLERANCE)).toBeNull();
+    expect(zoneOutsideLimit(zone(rectangle(0, 0, 100, 100.05)), limit(square100), TOLERANCE)?.areaOutside).toBeCloseTo(5, 6);
+  });
+});
+
+describe("zoneOverlapArea", () => {
+  it("is the shared rectangle's area, and 0 for zones sharing only an edge (computed)", () => {
+    expect(zoneOverlapArea(rectangle(0, 0, 50, 100), rectangle(45, 0, 100, 100))).toBeCloseTo(500, 6);
+    expect(zoneOverlapArea(rectangle(0, 0, 50, 100), rectangle(50, 0, 100, 100))).toBeCloseTo(0, 9);
+    expect(zoneOverlapArea(move(rectangle(0, 0, 50, 100), 612_345.5, 1_234_567.25), move(rectangle(45, 0, 100, 100), 612_345.5, 1_234_567.25))).toBeCloseTo(500, 4);
+  });
+});

@@ -1,0 +1,85 @@
+import { difference, featureCollection, intersect, multiPolygon } from "@turf/turf";
+import type { MultiPolygon, Polygon } from "geojson";
+import { isInsideWorkLimit, workLimitArea, type Position, type ProjectedMultiPolygon } from "./work-limit";
+
+/**
+ * How a zone sits against the work limit and the other zones, in projected coordinates (project
+ * length unit). A zone is a part of the work limit: what lies outside it holds no cells and would
+ * only mislead, so the setup service refuses a zone reaching outside by more than `tolerance`
+ * square units (a sliver far smaller than a cell, so zones that share the limit's own vertices
+ * pass whatever the rounding of their lon/lat). Overlapping zones are allowed, as the one rule of
+ * membership gives a shared cell to the earlier zone; the page says so.
+ *
+ * The clipping runs on coordinates shifted to the limit's first vertex: state plane coordinates
+ * run to millions of feet, which would cost the clipper digits a small zone needs.
+ */
+
+export interface ZoneOutside {
+  /** Plan area of the zone outside the work limit, square project units. */
+  areaOutside: number;
+  /** The first vertex (1-based, as a person counts) lying outside by more than the tolerance's side; null when only an edge cuts across. */
+  vertex: { polygon: number; ring: number; vertex: number } | null;
+}
+
+function shifted(polygons: ProjectedMultiPolygon, [originX, originY]: Position): Position[][][] {
+  return polygons.map((polygon) =>
+    polygon.map((ring) => {
+      const moved = ring.map(([x, y]) => [x - originX, y - originY] as Position);
+      const [firstX, firstY] = moved[0];
+      const [lastX, lastY] = moved[moved.length - 1];
+      if (firstX !== lastX || firstY !== lastY) moved.push([firstX, firstY]);
+      return moved;
+    }),
+  );
+}
+
+function areaOf(geometry: Polygon | MultiPolygon | undefined | null): number {
+  if (!geometry) return 0;
+  return workLimitArea((geometry.type === "Polygon" ? [geometry.coordinates] : geometry.coordinates) as ProjectedMultiPolygon);
+}
+
+/** Shortest distance from a point to the limit's rings. */
+function distanceToRings(limit: ProjectedMultiPolygon, [x, y]: Position): number {
+  let best = Infinity;
+  for (const polygon of limit) {
+    for (const ring of polygon) {
+      for (let current = 0, previous = ring.length - 1; current < ring.length; previous = current++) {
+        const [x1, y1] = ring[previous];
+        const [x2, y2] = ring[current];
+        const dx = x2 - x1, dy = y2 - y1;
+        const lengthSquared = dx * dx + dy * dy;
+        const along = lengthSquared === 0 ? 0 : Math.max(0, Math.min(1, ((x - x1) * dx + (y - y1) * dy) / lengthSquared));
+        best = Math.min(best, Math.hypot(x - (x1 + along * dx), y - (y1 + along * dy)));
+      }
+    }
+  }
+  return best;
+}
+
+/** Where `zone` reaches outside `limit` by more than `tolerance` square units; null when it lies inside. */
+export function zoneOutsideLimit(zone: ProjectedMultiPolygon, limit: ProjectedMultiPolygon, tolerance: number): ZoneOutside | null {
+  const origin = limit[0]?.[0]?.[0] ?? [0, 0];
+  const outside = difference(featureCollection([multiPolygon(shifted(zone, origin)), multiPolygon(shifted(limit, origin))]));
+  const areaOutside = areaOf(outside?.geometry);
+  if (areaOutside <= tolerance) return null;
+  // A vertex off the limit by more than the side of the tolerance's square is named; one on the
+  // boundary (a shared vertex) is not.
+  const slack = Math.sqrt(tolerance);
+  for (let p = 0; p < zone.length; p++) {
+    for (let r = 0; r < zone[p].length; r++) {
+      const ring = zone[p][r];
+      for (let v = 0; v < ring.length; v++) {
+        const [x, y] = ring[v];
+        if (!isInsideWorkLimit(limit, x, y) && distanceToRings(limit, ring[v]) > slack) return { areaOutside, vertex: { polygon: p + 1, ring: r + 1, vertex: v + 1 } };
+      }
+    }
+  }
+  return { areaOutside, vertex: null };
+}
+
+/** Plan area two zones share, square project units. */
+export function zoneOverlapArea(first: ProjectedMultiPolygon, second: ProjectedMultiPolygon): number {
+  const origin = first[0]?.[0]?.[0] ?? [0, 0];
+  const shared = intersect(featureCollection([multiPolygon(shifted(first, origin)), multiPolygon(shifted(second, origin))]));
+  return areaOf(shared?.geometry);
+}
