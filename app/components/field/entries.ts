@@ -281,7 +281,8 @@ export function summaryOf(kind: EntryKind, body: Record<string, unknown>, snapsh
     case "haul": {
       const site = snapshot.dewatering?.haulSites.find((candidate) => candidate.id === body.site)?.name ?? body.site;
       const load = body.load as { value: number; unit: string };
-      return `Haul ticket ${body.ticketNumber} · ${body.truck} → ${site} · ${load.value} ${load.unit === "m3" ? "m³" : load.unit === "yd3" ? "yd³" : load.unit}`;
+      const unit = { "short-ton": "short tons wet", t: "t wet", yd3: "yd³", m3: "m³" }[load.unit] ?? load.unit;
+      return `Haul ticket ${body.ticketNumber} · ${body.truck} → ${site} · ${load.value} ${unit}`;
     }
   }
 }

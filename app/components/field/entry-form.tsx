@@ -2,7 +2,7 @@ import { useState } from "react";
 import { CUSTODY_PURPOSES, CUSTODY_PURPOSE_LABELS, FIND_CATEGORIES, FIND_CATEGORY_LABELS, FIND_STATUSES, FIND_STATUS_LABELS, HUMAN_REMAINS_DEFERENCE, HUMAN_REMAINS_PROTOCOL } from "../../../shared/finds/finds";
 import { benchStockMillilitres, JAR_CLARITIES, JAR_CLARITY_LABELS } from "../../../shared/dewatering/jar-test";
 import { computeShiftFigures, shiftMeasurementsOf, type LoggedShift } from "../../../shared/dewatering/shift";
-import { TUBE_STATUSES } from "../../../shared/dewatering/tubes";
+import { FILLABLE_TUBE_STATUSES, TUBE_STATUSES, type TubeStatus } from "../../../shared/dewatering/tubes";
 import type { LengthUnit } from "../../../shared/units";
 import { shiftInputSchema } from "~/lib/field-records/inputs";
 import { ComputedFigure, formatFigure } from "~/components/dewatering/dewatering-section";
@@ -118,6 +118,8 @@ export function EntryForm({ kind, snapshot, initial, initialPhotos = [], serverE
           </fieldset>
   );
   const jarCount = Math.min(MAX_JARS, Number(values.jarCount) || 0);
+  // A shift fills only tubes that take slurry (the server refuses the others).
+  const fillable = snapshot.tubes.filter((tube) => FILLABLE_TUBE_STATUSES.includes(tube.status as TubeStatus));
   const shiftFigures = kind === "shift" ? shiftFiguresOf(bodyOf("shift", values), snapshot) : null;
   const benchStock = Number(text("benchStockPercent").replace(",", "."));
   const jarVolume = Number(text("jarVolumeMl").replace(",", "."));
@@ -284,11 +286,11 @@ export function EntryForm({ kind, snapshot, initial, initialPhotos = [], serverE
               </dl>
             )}
           </section>
-          {snapshot.tubes.length > 0 ? (
+          {fillable.length > 0 ? (
             <fieldset className="rounded border border-line p-3">
               <legend className="px-1 font-medium">Tubes being filled</legend>
               <div className="grid gap-1 sm:grid-cols-2">
-                {snapshot.tubes.map((tube) => <BigCheckbox key={tube.id} label={`${tube.name} (${tube.status})`} {...check(`tube:${tube.name}`)} />)}
+                {fillable.map((tube) => <BigCheckbox key={tube.id} label={`${tube.name} (${tube.status})`} {...check(`tube:${tube.name}`)} />)}
               </div>
               <p className="text-sm text-muted">The shift's slurry and dry solids are shared equally among the tubes ticked.</p>
               {errors.tubes ? <p className="font-medium text-danger">{errors.tubes}</p> : null}

@@ -155,7 +155,10 @@ async function sendEdit(entry: QueueEntry, noteClock: (offsetMs: number) => void
   }
   if (answer.clockOffsetMs !== undefined) noteClock(answer.clockOffsetMs);
   if (answer.status === 412 && answer.body?.current) {
-    const conflicted: QueueEntry = { ...working, status: "conflict", current: answer.body.current as Record<string, unknown>, message: refusalOf(answer).message };
+    // The server's sentence alone: the header it names (If-Match) means nothing to the user.
+    const errors = Array.isArray(answer.body.errors) ? (answer.body.errors as Array<{ message?: string }>) : [];
+    const message = errors.map((error) => error.message).filter(Boolean).join(" ") || "The record was changed on the server since this change was made.";
+    const conflicted: QueueEntry = { ...working, status: "conflict", current: answer.body.current as Record<string, unknown>, message };
     await putEntry(conflicted);
     return conflicted;
   }
