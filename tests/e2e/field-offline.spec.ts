@@ -427,6 +427,32 @@ test.describe("dewatering and finds, sending", () => {
     expect(hauls[0].photos).toHaveLength(1);
   });
 
+  test("a jar test with its photo made offline is stored once, the photo to the test's id", async ({ page, context }) => {
+    await openFieldPage(page);
+    const note = marker("offline-jars");
+    await context.setOffline(true);
+    await page.getByRole("button", { name: "Jar test", exact: true }).click();
+    await page.getByLabel("Polymer product").fill("Floc-A");
+    await page.getByLabel("Dose (mg/L)").nth(0).fill("5");
+    // computed: a 1,000 mL jar at 5 mg/L from a 0.1 % (1 mg/mL) stock takes 5 mL
+    await expect(page.getByText("add 5 mL of bench stock")).toBeVisible();
+    await page.getByLabel("Clarity").nth(0).selectOption({ label: "hazy" });
+    await page.getByLabel("Dose (mg/L)").nth(1).fill("10");
+    await page.getByLabel("Clarity").nth(1).selectOption({ label: "clear" });
+    await page.getByLabel("Notes", { exact: true }).fill(note);
+    const photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a7a5d" } }).jpeg().toBuffer();
+    await page.getByLabel("Add a photo").setInputFiles({ name: "jars.jpg", mimeType: "image/jpeg", buffer: photo });
+    await page.getByRole("button", { name: "Save to the queue" }).click();
+    await expect(page.getByRole("heading", { name: /^1 waiting to send/ })).toBeVisible();
+    await context.setOffline(false);
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; last sent/ })).toBeVisible({ timeout: 15_000 });
+    const body = (await (await api.get(`/api/projects/${projectId}/dewatering/jar-tests`)).json()) as { jarTests: Array<{ notes: string; jars: unknown[]; photos: unknown[] }> };
+    const tests = body.jarTests.filter((test) => test.notes === note);
+    expect(tests).toHaveLength(1);
+    expect(tests[0].jars).toHaveLength(2);
+    expect(tests[0].photos).toHaveLength(1);
+  });
+
   test("a find's status changed offline while the find changed on the server: side by side, the user keeps the server's", async ({ page, context, baseURL }) => {
     const origin = new URL(baseURL!).origin;
     const description = marker("status-find");
