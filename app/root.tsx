@@ -1,9 +1,10 @@
-import { Form, Link, Links, Meta, Outlet, Scripts, ScrollRestoration, isRouteErrorResponse, useRouteLoaderData } from "react-router";
+import { Link, Links, Meta, Outlet, Scripts, ScrollRestoration, isRouteErrorResponse, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
 import { getOptionalUser } from "./lib/auth/access.server";
 import { applyFramePolicy } from "./lib/http/frame-policy.server";
 import { assertSameOrigin } from "./lib/http/origin.server";
 import { inRequestScope } from "./lib/http/request-scope.server";
+import { SignOutForm } from "./components/sign-out-form";
 import "./app.css";
 
 // Every mutating request (any route, any form) passes this Origin check first; every response
@@ -18,7 +19,7 @@ export const middleware: Route.MiddlewareFunction[] = [
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getOptionalUser(request);
-  return { user: user ? { name: user.name, email: user.email, isSiteAdmin: user.isSiteAdmin } : null };
+  return { user: user ? { id: user.id, name: user.name, email: user.email, isSiteAdmin: user.isSiteAdmin } : null };
 }
 
 function SiteHeader() {
@@ -34,9 +35,8 @@ function SiteHeader() {
             {user.isSiteAdmin ? <Link className="underline-offset-2 hover:underline" to="/admin/users">Accounts</Link> : null}
             {/* On a phone a long name is cut short rather than pushing "Sign out" off the screen. */}
             <Link className="min-w-0 truncate underline-offset-2 hover:underline" to="/account" title={user.name}>{user.name}</Link>
-            <Form method="post" action="/logout">
-              <button type="submit" className="whitespace-nowrap rounded border border-line px-3 py-1 hover:bg-paper focus-visible:outline-2 focus-visible:outline-lagoon">Sign out</button>
-            </Form>
+            {/* Asks first when field entries wait on this device, and clears them from it. */}
+            <SignOutForm userId={user.id} />
           </nav>
         ) : (
           <nav aria-label="Account" className="ml-auto text-sm">

@@ -1,7 +1,7 @@
 import { Op, UniqueConstraintError } from "sequelize";
 import { z } from "zod";
 import type { ShiftSolids } from "../../shared/dewatering/charts";
-import { computeShiftFigures, flowFromTotaliser, type ShiftFigures } from "../../shared/dewatering/shift";
+import { computeShiftFigures, shiftMeasurementsOf, type ShiftFigures } from "../../shared/dewatering/shift";
 import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, MIN_NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
 import { localDateIn } from "../../shared/progress/calendar-days";
 import { cubicMetresPerHourFrom, flowUnitSchema, kilogramsFrom, kilogramsTo, LITRES_PER_US_GALLON, massUnitsFor, measureLabel, unitLabel, type FlowUnit } from "../../shared/units";
@@ -13,8 +13,9 @@ import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
-export { fillInputSchema, tubeStatusSchema } from "~/lib/field-records/inputs";
-import { fillInputSchema, tubeStatusSchema } from "~/lib/field-records/inputs";
+export { clockSchema, fillInputSchema, shiftInputSchema, solidsSpecificGravitySchema, tubeStatusSchema } from "~/lib/field-records/inputs";
+import { fillInputSchema, shiftInputSchema, solidsSpecificGravitySchema, tubeStatusSchema } from "~/lib/field-records/inputs";
+const text = (max: number) => z.string().trim().max(max);
 
 /**
  * The dewatering operator's records: the shift log (flow, solids, polymer; its figures computed by
@@ -25,68 +26,6 @@ import { fillInputSchema, tubeStatusSchema } from "~/lib/field-records/inputs";
 export const DEWATERING_CAUTION =
   "Handle polymer per its safety data sheet and the site's safety plan: spills are slick, and it harms eyes and skin. Lines under pressure can burst or whip; never open a coupling under pressure. A tube filled near its capacity can rupture: stop filling at the supplier's fill height and keep people clear of the seams. Polymer product and dose follow the permit and the approved product list. These figures are aids for the operator, not approval.";
 
-export const clockSchema = z.string().trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
-const minutesOf = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
-const text = (max: number) => z.string().trim().max(max);
-const idempotencyKey = z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish();
-
-export const solidsSpecificGravitySchema = z.number().finite().gt(1, "solids are heavier than water: a specific gravity above 1").max(3.5, "a solids specific gravity above 3.5 is not sediment");
-
-export const shiftInputSchema = z
-  .object({
-    date: workDateSchema,
-    start: clockSchema,
-    end: clockSchema,
-    /** Hours the slurry pump ran; the whole shift when not given. */
-    pumpHours: z.number().finite().positive("pump hours are more than 0").max(24).nullish(),
-    slurryFlow: z.object({
-      value: z.number().finite().positive("the slurry flow is more than 0").max(1_000_000),
-      unit: z.enum(flowUnitSchema.options, { message: "the flow unit is gpm or m3/h" }),
-    }).nullish(),
-    /** Instead of the flow: the flow meter's totaliser at the start and end of the shift. */
-    totaliser: z.object({
-      start: z.number().finite().min(0, "a totaliser reading is 0 or more"),
-      end: z.number().finite().min(0, "a totaliser reading is 0 or more"),
-      unit: z.enum(["gal", "m3"], { message: "the totaliser unit is gal or m3" }),
-    }).nullish(),
-    solidsByWeight: z.number().finite().gt(0, "solids by weight is a share above 0").max(1, "solids by weight is a share of 0 to 1 (0.20 for 20 %)").nullish(),
-    slurrySpecificGravity: z.number().finite().gt(1, "a slurry's specific gravity is above water's, 1").max(3).nullish(),
-    /** The project's setting when not given. */
-    solidsSpecificGravity: solidsSpecificGravitySchema.nullish(),
-    polymer: z
-      .object({
-        product: text(120).min(1, "name the polymer product"),
-        lot: text(60).nullish(),
-        doseMgPerL: z.number().finite().positive("the dose is more than 0 mg/L").max(10_000),
-        stockPercent: z.number().finite().positive("the stock concentration is more than 0 %").max(100, "a stock concentration is at most 100 %"),
-      })
-      .nullish(),
-    tubes: z.array(text(60).min(1)).max(50).default([]),
-    notes: z.string().max(4000).default(""),
-    idempotencyKey,
-  })
-  .superRefine((input, context) => {
-    const span = minutesOf(input.end) - minutesOf(input.start);
-    if (span <= 0) {
-      context.addIssue({ code: "custom", path: ["end"], message: "the shift ends after it starts (log a shift past midnight as two)" });
-      return;
-    }
-    if ((input.slurryFlow == null) === (input.totaliser == null)) {
-      context.addIssue({ code: "custom", path: ["slurryFlow"], message: "give the slurry flow, or the totaliser readings at the start and end (one of the two)" });
-    }
-    if (input.totaliser && input.totaliser.end <= input.totaliser.start) {
-      context.addIssue({ code: "custom", path: ["totaliser", "end"], message: "the totaliser reads more at the end of the shift than at its start" });
-    }
-    if (input.pumpHours != null && input.pumpHours > span / 60 + 1e-9) {
-      context.addIssue({ code: "custom", path: ["pumpHours"], message: `the pump ran at most the shift's ${Math.round((span / 60) * 100) / 100} hours` });
-    }
-    if (input.solidsByWeight != null && input.slurrySpecificGravity != null) {
-      context.addIssue({ code: "custom", path: ["slurrySpecificGravity"], message: "give solids by weight or the slurry's specific gravity, not both" });
-    }
-    if (input.slurrySpecificGravity != null && input.solidsSpecificGravity != null && input.slurrySpecificGravity >= input.solidsSpecificGravity) {
-      context.addIssue({ code: "custom", path: ["slurrySpecificGravity"], message: "a slurry is lighter than its solids: its specific gravity is below the solids'" });
-    }
-  });
 export type ShiftInput = z.infer<typeof shiftInputSchema>;
 
 /** The tube's centre on the laydown area, project CRS (easting x, northing y in the project's length unit). */
@@ -243,9 +182,10 @@ export async function recordShift(project: ProjectView, user: UserView, input: S
   if (input.slurrySpecificGravity != null && input.slurrySpecificGravity >= solidsSpecificGravity) {
     throw new ValidationError({ field: "slurrySpecificGravity", message: `A slurry is lighter than its solids: its specific gravity is below the solids' ${solidsSpecificGravity}.` });
   }
-  const pumpHours = input.pumpHours ?? (minutesOf(input.end) - minutesOf(input.start)) / 60;
-  const slurryFlow = input.slurryFlow ?? flowFromTotaliser(input.totaliser!, pumpHours);
-  const figures = computeShiftFigures({ slurryFlow, pumpHours, solidsByWeight: input.solidsByWeight, slurrySpecificGravity: input.slurrySpecificGravity, solidsSpecificGravity, polymer: input.polymer }, project.lengthUnit);
+  // The schema has checked the span and the flow, so the measurements exist.
+  const measured = shiftMeasurementsOf(input, settings.solidsSpecificGravity)!;
+  const { pumpHours, slurryFlow } = measured;
+  const figures = computeShiftFigures(measured, project.lengthUnit);
   const names = [...new Set(input.tubes.map((name) => name.toLowerCase()))];
   try {
     const id = await getSequelize().transaction(async (transaction) => {

@@ -1,4 +1,4 @@
-import { UniqueConstraintError, type Transaction } from "sequelize";
+import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { cellCentroid, cellIndexAt, cellRowCol, cellLabel as cellLabelOf } from "../../shared/grid/cell-grid";
 import {
@@ -19,8 +19,8 @@ import { cellLookup } from "./assignments.server";
 import { getCellsPayload } from "./cells.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
-import { custodyInputSchema, findInputSchema, optionalText } from "~/lib/field-records/inputs";
-export { custodyInputSchema, findInputSchema, type CustodyInput, type FindInput } from "~/lib/field-records/inputs";
+import { custodyInputSchema, findInputSchema, optionalText, statusInputSchema } from "~/lib/field-records/inputs";
+export { custodyInputSchema, findInputSchema, statusInputSchema, type CustodyInput, type FindInput } from "~/lib/field-records/inputs";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
 import { findNotices } from "../../shared/field-notices";
@@ -34,16 +34,6 @@ import { findNotices } from "../../shared/field-notices";
  * location fields out entirely (not null) unless the table allows "finds.locations.read".
  */
 
-export const statusInputSchema = z
-  .object({
-    status: z.enum(FIND_STATUSES, { message: `the status is one of ${FIND_STATUSES.join(", ")}` }),
-    accessionNumber: optionalText(60),
-    note: optionalText(2000),
-  })
-  .superRefine((input, context) => {
-    if (input.status === "curated" && !input.accessionNumber) context.addIssue({ code: "custom", path: ["accessionNumber"], message: "a curated find carries the lab's accession number" });
-    if (input.status === "released" && !input.note) context.addIssue({ code: "custom", path: ["note"], message: "say why the find was released and where it went" });
-  });
 
 // ——— Presenters.
 
@@ -161,6 +151,39 @@ export async function listFinds(project: ProjectView, access: Access): Promise<F
   return finds.map((find) => {
     const custody = [...(find.custody ?? [])].sort(byTime);
     return locations ? { ...summaryOf(find, custody), ...locationOf(find) } : summaryOf(find, custody);
+  });
+}
+
+/** What the field page keeps of a find: enough to name it, hand it over and change its status offline (with its version for If-Match). */
+export interface FieldFind {
+  id: number;
+  catalogueNumber: string;
+  category: FindCategory;
+  description: string;
+  status: FindStatus;
+  foundAt: string;
+  currentHolder: { name: string; place: string };
+  version: string;
+}
+
+/** The project's finds still in custody (not released), latest first, for the field page. */
+export async function fieldFinds(project: ProjectView, limit = 300): Promise<FieldFind[]> {
+  const finds = await Find.findAll({
+    where: { projectId: project.id, status: { [Op.ne]: "released" } },
+    // The team as findInProject reads it, so the row digested for the version is the same.
+    include: [{ model: DiveTeam, as: "team", attributes: ["name"] }, { model: FindCustody, as: "custody" }],
+    order: [["catalogueYear", "DESC"], ["catalogueSequence", "DESC"]],
+    limit,
+  });
+  const photos = finds.length === 0 ? [] : await FindPhoto.findAll({ where: { findId: finds.map((find) => find.id) }, attributes: ["id", "findId"] });
+  return finds.map((find) => {
+    const custody = [...(find.custody ?? [])].sort(byTime);
+    const { id, catalogueNumber, category, description, status, foundAt, currentHolder } = summaryOf(find, custody);
+    // The version getFind answers (its own query, so the find's row is read without its includes).
+    const row = find.get({ plain: true }) as Record<string, unknown>;
+    delete row.custody;
+    const version = versionOf({ find: row, custody: custody.map((entry) => entry.id).sort((a, b) => a - b), photos: photos.filter((photo) => photo.findId === find.id).map((photo) => photo.id).sort((a, b) => a - b) });
+    return { id, catalogueNumber, category, description, status, foundAt, currentHolder, version };
   });
 }
 

@@ -14,6 +14,8 @@ import type { StoredObject } from "~/lib/storage/storage.server";
 import { workDateSchema } from "./assignments.server";
 import { dateSpanWhere, dewateringSettings, type DateSpan } from "./dewatering.server";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
+export { haulInputSchema } from "~/lib/field-records/inputs";
+import { haulInputSchema } from "~/lib/field-records/inputs";
 
 /**
  * Haul tickets and the sites they go to. Each ticket's dry solids are counted once, when it is
@@ -30,24 +32,6 @@ export const haulSiteInputSchema = z.object({
   permitNumber: text(120).min(1, "give the site's permit or agreement number"),
 });
 
-/** The load as the ticket gives it: a scale's wet mass or the truck body's volume. */
-const LOAD_UNITS = ["short-ton", "t", "yd3", "m3"] as const;
-
-export const haulInputSchema = z.object({
-  date: workDateSchema,
-  ticketNumber: text(60).min(1, "give the ticket number"),
-  truck: text(60).min(1, "name the truck"),
-  /** The site's name or id. */
-  site: z.union([text(120).min(1, "choose the destination"), z.number().int().positive()]),
-  load: z.object({
-    value: z.number().finite().positive("the load is more than 0").max(200, "a truck load over 200 is not one truck"),
-    unit: z.enum(LOAD_UNITS, { message: "the load is in short-ton or t (scale ticket), or yd3 or m3 (truck body)" }),
-  }),
-  /** Cake solids by weight of this load, 0–1, from a sample; the project default when not given. */
-  cakeSolidsByWeight: z.number().finite().gt(0, "cake solids are a share above 0").max(1, "cake solids are a share of 0 to 1 (0.30 for 30 %)").nullish(),
-  notes: z.string().max(4000).default(""),
-  idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish(),
-});
 export type HaulInput = z.infer<typeof haulInputSchema>;
 
 export interface HaulSiteView {

@@ -12,7 +12,8 @@ import type { StoredObject } from "~/lib/storage/storage.server";
 import type { Transaction } from "sequelize";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { workDateSchema } from "./assignments.server";
-import { clockSchema } from "./dewatering.server";
+export { jarInputSchema, jarTestInputSchema } from "~/lib/field-records/inputs";
+import { jarTestInputSchema } from "~/lib/field-records/inputs";
 
 /**
  * Jar tests: the dewatering operator's bench check of a polymer dose before (or while) it goes on
@@ -26,34 +27,6 @@ import { clockSchema } from "./dewatering.server";
 export const JAR_TEST_CAUTION =
   "Make up and handle the polymer stock as the product's safety data sheet and the site's safety plan say: gloves and eye protection at the bench, and a spill is slick, so clean it up at once. A jar test points to a dose; the product and the dose on the line follow the permit and the approved product list. These figures are aids for the operator, not approval.";
 
-const text = (max: number) => z.string().trim().max(max);
-const ntu = z.number().finite().min(0, "a turbidity is 0 NTU or more").max(100_000, "a turbidity above 100,000 NTU is not a reading");
-
-export const jarInputSchema = z.object({
-  doseMgPerL: z.number().finite().positive("the dose tried is more than 0 mg/L").max(10_000, "a dose above 10,000 mg/L is not a polymer dose"),
-  settlingMinutes: z.number().finite().positive("the settling time is more than 0 minutes").max(1440, "a settling time is at most 1,440 minutes (a day)"),
-  turbidityNtu: ntu.nullish(),
-  clarity: z.enum(JAR_CLARITIES, { message: `the clarity is one of ${JAR_CLARITIES.join(", ")}` }),
-});
-
-export const jarTestInputSchema = z.object({
-  date: workDateSchema,
-  time: clockSchema.nullish(),
-  /** Where the raw sample was drawn (the main line at the manifold, a tube's inlet…). */
-  sampleSource: text(200).default(""),
-  polymer: z.object({
-    product: text(120).min(1, "name the polymer product"),
-    lot: text(60).nullish(),
-    /** The dilute stock made up for the bench, % weight per volume (0.1 % = 1 g/L). */
-    benchStockPercent: z.number().finite().positive("the bench stock concentration is more than 0 %").max(10, "a bench stock above 10 % is not a dilute stock"),
-  }),
-  jarVolumeMl: z.number().finite().min(100, "a jar holds at least 100 mL").max(4000, "a jar holds at most 4,000 mL").default(DEFAULT_JAR_VOLUME_ML),
-  raw: z.object({ turbidityNtu: ntu.nullish() }).nullish(),
-  jars: z.array(jarInputSchema, { message: "give the dosed jars as a list" }).min(1, "give at least one dosed jar").max(8, "at most 8 dosed jars in one test"),
-  chosenDoseMgPerL: z.number().finite().positive("the dose chosen is more than 0 mg/L").max(10_000, "a dose above 10,000 mg/L is not a polymer dose").nullish(),
-  notes: z.string().max(4000).default(""),
-  idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish(),
-});
 export type JarTestInput = z.infer<typeof jarTestInputSchema>;
 
 export interface JarView {

@@ -5,7 +5,8 @@ import { requireRole } from "~/lib/auth/access.server";
 import { fieldSnapshot } from "~/models/field.server";
 import type { Route } from "./+types/projects.$projectId.field";
 
-// The field page: dive logs, turbidity readings, finds with photos and wildlife sightings entered on a
+// The field page: dive logs, turbidity readings, finds with photos, their status and custody handovers,
+// wildlife sightings, dewatering shift logs, jar tests, haul tickets and tube records entered on a
 // phone at the water, with or without signal (app/components/field/). Any member may open it; the
 // forms shown are the ones the permission table lets the member use.
 

@@ -3,7 +3,7 @@ import { KILOGRAMS_PER_POUND, LITRES_PER_US_GALLON, cubicMetresPerHourFrom, kilo
 import { haulDryMassKg } from "./haul";
 import { polymerFeed } from "./polymer-feed";
 import { reconcileSolids } from "./reconciliation";
-import { computeShiftFigures, flowFromTotaliser } from "./shift";
+import { computeShiftFigures, flowFromTotaliser, shiftMeasurementsOf } from "./shift";
 import { drySolidsRateKgPerH, slurryFromSolidsByWeight, slurryFromSpecificGravity } from "./slurry";
 import { NEAR_CAPACITY_SHARE, fillLevel, isNearCapacity, theoreticalDiameter, tubeEnds } from "./tubes";
 
@@ -53,6 +53,22 @@ describe("flow from a totaliser", () => {
     // computed: 480,000 gal in 8 h = 1,000 gpm; 1,817 m³ in 8 h = 227.1 m³/h
     expect(flowFromTotaliser({ start: 1_250_000, end: 1_730_000, unit: "gal" }, 8)).toEqual({ value: 1000, unit: "gpm" });
     expect(flowFromTotaliser({ start: 100, end: 1917, unit: "m3" }, 8).value).toBeCloseTo(227.125, 9);
+  });
+});
+
+describe("a logged shift's measurements", () => {
+  it("the pump hours default to the whole shift and a totaliser gives the mean flow over them", () => {
+    // computed: 07:00–15:00 is 8 h; 480,000 gal in 8 h = 1,000 gpm
+    const measured = shiftMeasurementsOf({ start: "07:00", end: "15:00", totaliser: { start: 1_250_000, end: 1_730_000, unit: "gal" }, solidsByWeight: 0.2 }, 2.65);
+    expect(measured).toMatchObject({ pumpHours: 8, slurryFlow: { value: 1000, unit: "gpm" }, solidsSpecificGravity: 2.65, solidsByWeight: 0.2 });
+    // computed: 480,000 gal over the 6 pump hours given = 1,333.3 gpm; the shift's own Gs wins over the project's
+    const pumped = shiftMeasurementsOf({ start: "07:00", end: "15:00", pumpHours: 6, totaliser: { start: 1_250_000, end: 1_730_000, unit: "gal" }, solidsSpecificGravity: 2.5 }, 2.65);
+    expect(pumped?.slurryFlow.value).toBeCloseTo(1333.333, 3);
+    expect(pumped?.solidsSpecificGravity).toBe(2.5);
+  });
+  it("is null without a positive span or a flow, so no figure is shown for an unfinished entry", () => {
+    expect(shiftMeasurementsOf({ start: "15:00", end: "07:00", slurryFlow: { value: 900, unit: "gpm" } }, 2.65)).toBeNull();
+    expect(shiftMeasurementsOf({ start: "07:00", end: "15:00" }, 2.65)).toBeNull();
   });
 });
 

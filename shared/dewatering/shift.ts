@@ -36,6 +36,38 @@ export interface ShiftMeasurements {
   polymer?: { doseMgPerL: number; stockPercent: number } | null;
 }
 
+/** A logged shift as its form or the API gives it (the shift log's input). */
+export interface LoggedShift {
+  start: string;
+  end: string;
+  pumpHours?: number | null;
+  slurryFlow?: { value: number; unit: FlowUnit } | null;
+  totaliser?: TotaliserReadings | null;
+  solidsByWeight?: number | null;
+  slurrySpecificGravity?: number | null;
+  solidsSpecificGravity?: number | null;
+  polymer?: { doseMgPerL: number; stockPercent: number } | null;
+}
+
+const minutesOfClock = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
+
+/**
+ * What the figures take from a logged shift: the pump hours are the whole shift when not given, a
+ * totaliser gives the mean flow over them, the solids' specific gravity is the project's when the
+ * shift names none. The server stores a shift's figures from this and the field page shows them
+ * from it, so the two agree. Null when the shift has no positive span or no flow.
+ */
+export function shiftMeasurementsOf(shift: LoggedShift, projectSolidsSpecificGravity: number): ShiftMeasurements | null {
+  const pumpHours = shift.pumpHours ?? (minutesOfClock(shift.end) - minutesOfClock(shift.start)) / 60;
+  if (!(pumpHours > 0)) return null;
+  const slurryFlow = shift.slurryFlow ?? (shift.totaliser ? flowFromTotaliser(shift.totaliser, pumpHours) : null);
+  if (!slurryFlow || !(slurryFlow.value > 0)) return null;
+  return {
+    slurryFlow, pumpHours, solidsByWeight: shift.solidsByWeight, slurrySpecificGravity: shift.slurrySpecificGravity,
+    solidsSpecificGravity: shift.solidsSpecificGravity ?? projectSolidsSpecificGravity, polymer: shift.polymer,
+  };
+}
+
 export interface Quantity<Unit extends string = string> {
   value: number;
   unit: Unit;

@@ -284,3 +284,258 @@ test.describe("sending", () => {
   });
 });
 
+
+// ——— Dewatering records, handovers, a find's status and signing out.
+
+const HAUL_SITE = "Bellwether Farm (reuse)";
+
+async function enterShift(page: Page, note: string) {
+  await page.getByRole("button", { name: "Shift log", exact: true }).click();
+  await page.getByLabel("Slurry flow", { exact: true }).fill("900");
+  await page.getByLabel("Solids by weight (%)").fill("12");
+  await page.getByLabel("Product", { exact: true }).fill("Floc-A");
+  await page.getByLabel("Stock concentration (%)").fill("0.5");
+  await page.getByLabel("Dose (mg/L)").fill("15");
+  // The figures come from the same function the server stores them with.
+  await expect(page.getByTestId("field-stock-feed-rate")).not.toHaveText("–");
+  await page.getByLabel("Notes", { exact: true }).fill(note);
+  await page.getByRole("button", { name: "Save to the queue" }).click();
+}
+
+async function enterHaul(page: Page, ticket: string) {
+  await page.getByRole("button", { name: "Haul ticket", exact: true }).click();
+  await page.getByLabel("Ticket number").fill(ticket);
+  await page.getByLabel("Truck", { exact: true }).fill("Truck 2");
+  await page.getByLabel("Destination", { exact: true }).selectOption({ label: HAUL_SITE });
+  await page.getByLabel("Load", { exact: true }).fill("14.5");
+  await page.getByLabel("Cake solids (%)").fill("30");
+  const photo = await sharp({ create: { width: 480, height: 640, channels: 3, background: "#c9c2a8" } }).jpeg().toBuffer();
+  await page.getByLabel("Add a photo").setInputFiles({ name: "ticket.jpg", mimeType: "image/jpeg", buffer: photo });
+  await expect(page.getByRole("button", { name: "Remove ticket.jpg" })).toBeVisible();
+  await page.getByRole("button", { name: "Save to the queue" }).click();
+}
+
+async function haulsWith(ticket: string) {
+  const body = (await (await api.get(`/api/projects/${projectId}/hauls`)).json()) as { hauls: Array<{ id: number; ticketNumber: string; photos: unknown[] }> };
+  return body.hauls.filter((haul) => haul.ticketNumber === ticket);
+}
+async function shiftsWith(note: string) {
+  const body = (await (await api.get(`/api/projects/${projectId}/dewatering/shifts`)).json()) as { shifts: Array<{ id: number; notes: string }> };
+  return body.shifts.filter((shift) => shift.notes === note);
+}
+
+/** What this browser keeps in IndexedDB: queued entries (with their owners) and kept project copies. */
+async function deviceStore(page: Page): Promise<{ queue: Array<{ userId: number }>; projects: number }> {
+  return page.evaluate(() => new Promise((resolve, reject) => {
+    const open = indexedDB.open("firmsand-field");
+    open.onerror = () => reject(open.error);
+    open.onsuccess = () => {
+      const db = open.result;
+      const transaction = db.transaction(["queue", "projects"]);
+      const queue = transaction.objectStore("queue").getAll();
+      const projects = transaction.objectStore("projects").count();
+      transaction.oncomplete = () => {
+        resolve({ queue: queue.result as Array<{ userId: number }>, projects: projects.result });
+        db.close();
+      };
+    };
+  }));
+}
+
+test.describe("dewatering and custody offline, with the service worker", () => {
+  test.use({ timezoneId: "America/New_York", viewport: { width: 390, height: 844 } });
+
+  test("a shift log, a haul ticket with its photo and a handover of a find made offline are stored once each", async ({ page, context }) => {
+    test.setTimeout(150_000);
+    await openFieldPage(page);
+    await waitUntilOfflineReady(page);
+    const note = marker("offline-shift");
+    const ticket = marker("T");
+    const description = marker("handed-find");
+    const receiver = marker("Courier");
+
+    await context.setOffline(true);
+    await enterShift(page, note);
+    await enterHaul(page, ticket);
+    await enterFind(page, description);
+    // The find is not on the server yet: the handover names it from the queue.
+    await page.getByRole("button", { name: "Custody handover", exact: true }).click();
+    const findSelect = page.getByLabel("Find", { exact: true });
+    const queuedFind = await findSelect.locator("option", { hasText: description }).getAttribute("value");
+    expect(queuedFind).toMatch(/^queued:/);
+    await findSelect.selectOption(queuedFind!);
+    await page.getByLabel("Purpose", { exact: true }).selectOption({ label: "To the state lab" });
+    await page.getByLabel("Received by").fill(receiver);
+    await page.getByLabel("Place it goes to").fill("State lab, Fennick");
+    await page.getByLabel("Receiver's name, typed as their signature").fill(receiver);
+    await page.getByRole("button", { name: "Save to the queue" }).click();
+    await expect(page.getByRole("heading", { name: /^4 waiting to send; nothing sent yet/ })).toBeVisible();
+
+    await page.reload();
+    await expect(page.getByRole("status").filter({ hasText: "Offline" })).toBeVisible();
+    const queue = page.getByRole("list", { name: "Entries in the queue, in sending order" });
+    await expect(queue.getByRole("listitem")).toHaveCount(4);
+    await expect(queue.getByRole("listitem").nth(0)).toContainText("Shift ·");
+    await expect(queue.getByRole("listitem").nth(1)).toContainText(`Haul ticket ${ticket}`);
+    await expect(queue.getByRole("listitem").nth(1)).toContainText("1 photo");
+    await expect(queue.getByRole("listitem").nth(3)).toContainText(`Handover · new find "${description}`);
+
+    await context.setOffline(false);
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; last sent \d\d:\d\d/ })).toBeVisible({ timeout: 45_000 });
+    expect(await shiftsWith(note)).toHaveLength(1);
+    const hauls = await haulsWith(ticket);
+    expect(hauls).toHaveLength(1);
+    expect(hauls[0].photos).toHaveLength(1);
+    const finds = await findsWith(description);
+    expect(finds).toHaveLength(1);
+    const find = (await (await api.get(`/api/projects/${projectId}/finds/${finds[0].id}`)).json()) as { find: { custody: Array<{ toName: string }>; photos: unknown[] } };
+    expect(find.find.custody.map((entry) => entry.toName)).toEqual([receiver]);
+    expect(find.find.photos).toHaveLength(1);
+  });
+});
+
+test.describe("dewatering and finds, sending", () => {
+  test.use({ serviceWorkers: "block" });
+
+  test("a lost answer to a haul ticket's photo: the retry stores neither the ticket nor the photo twice", async ({ page, context }) => {
+    await openFieldPage(page);
+    const ticket = marker("T");
+    let photoPosts = 0;
+    await page.route(`**/api/projects/${projectId}/hauls/*/photos`, async (route) => {
+      if (route.request().method() !== "POST") return route.continue();
+      photoPosts += 1;
+      if (photoPosts === 1) {
+        // The photo reaches the server and is stored; its answer never comes back.
+        const answer = await route.fetch();
+        expect(answer.status()).toBe(201);
+        return route.abort("connectionreset");
+      }
+      return route.continue();
+    });
+    await context.setOffline(true);
+    await enterHaul(page, ticket);
+    await context.setOffline(false);
+    const entry = page.getByRole("list", { name: "Entries in the queue, in sending order" }).getByRole("listitem").filter({ hasText: ticket });
+    await expect(entry).toContainText(/Stored as #\d+; photos waiting/, { timeout: 15_000 });
+    expect((await haulsWith(ticket))[0].photos).toHaveLength(1);
+
+    await page.getByRole("button", { name: "Send now" }).click();
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; last sent/ })).toBeVisible({ timeout: 15_000 });
+    expect(photoPosts).toBe(2);
+    const hauls = await haulsWith(ticket);
+    expect(hauls).toHaveLength(1);
+    expect(hauls[0].photos).toHaveLength(1);
+  });
+
+  test("a jar test with its photo made offline is stored once, the photo to the test's id", async ({ page, context }) => {
+    await openFieldPage(page);
+    const note = marker("offline-jars");
+    await context.setOffline(true);
+    await page.getByRole("button", { name: "Jar test", exact: true }).click();
+    await page.getByLabel("Polymer product").fill("Floc-A");
+    await page.getByLabel("Dose (mg/L)").nth(0).fill("5");
+    // computed: a 1,000 mL jar at 5 mg/L from a 0.1 % (1 mg/mL) stock takes 5 mL
+    await expect(page.getByText("add 5 mL of bench stock")).toBeVisible();
+    await page.getByLabel("Clarity").nth(0).selectOption({ label: "hazy" });
+    await page.getByLabel("Dose (mg/L)").nth(1).fill("10");
+    await page.getByLabel("Clarity").nth(1).selectOption({ label: "clear" });
+    await page.getByLabel("Notes", { exact: true }).fill(note);
+    const photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a7a5d" } }).jpeg().toBuffer();
+    await page.getByLabel("Add a photo").setInputFiles({ name: "jars.jpg", mimeType: "image/jpeg", buffer: photo });
+    await page.getByRole("button", { name: "Save to the queue" }).click();
+    await expect(page.getByRole("heading", { name: /^1 waiting to send/ })).toBeVisible();
+    await context.setOffline(false);
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; last sent/ })).toBeVisible({ timeout: 15_000 });
+    const body = (await (await api.get(`/api/projects/${projectId}/dewatering/jar-tests`)).json()) as { jarTests: Array<{ notes: string; jars: unknown[]; photos: unknown[] }> };
+    const tests = body.jarTests.filter((test) => test.notes === note);
+    expect(tests).toHaveLength(1);
+    expect(tests[0].jars).toHaveLength(2);
+    expect(tests[0].photos).toHaveLength(1);
+  });
+
+  test("a find's status changed offline while the find changed on the server: side by side, the user keeps the server's", async ({ page, context, baseURL }) => {
+    const origin = new URL(baseURL!).origin;
+    const description = marker("status-find");
+    const created = await api.post(`/api/projects/${projectId}/finds`, { data: { category: "modern-debris", description, foundAt: new Date().toISOString() }, headers: { Origin: origin } });
+    expect(created.status()).toBe(201);
+    const { id } = (await created.json()) as { id: number };
+    await openFieldPage(page);
+    // The version the page keeps is the one the find's own answer carries (so an unchanged find is not a conflict).
+    const served = (await (await api.get(`/api/projects/${projectId}/finds/${id}`)).json()) as { find: { version: string } };
+    await expect.poll(() => page.evaluate((findId) => new Promise<string | undefined>((resolve) => {
+      const open = indexedDB.open("firmsand-field");
+      open.onsuccess = () => {
+        const request = open.result.transaction("projects").objectStore("projects").getAll();
+        request.onsuccess = () => resolve((request.result as Array<{ snapshot: { finds: Array<{ id: number; version: string }> } }>).flatMap((kept) => kept.snapshot.finds).find((find) => find.id === findId)?.version);
+      };
+    }), id)).toBe(served.find.version);
+
+    await context.setOffline(true);
+    await page.getByRole("button", { name: "Find status", exact: true }).click();
+    await page.getByLabel("Find", { exact: true }).selectOption(String(id));
+    await page.getByLabel("New status", { exact: true }).selectOption({ label: "Site store" });
+    await page.getByRole("button", { name: "Save to the queue" }).click();
+    // Meanwhile, at the office: the find goes to the lab.
+    const changed = await api.patch(`/api/projects/${projectId}/finds/${id}`, { data: { status: "at-lab" }, headers: { Origin: origin } });
+    expect(changed.status()).toBe(200);
+    await context.setOffline(false);
+    const entry = page.getByRole("list", { name: "Entries in the queue, in sending order" }).getByRole("listitem").filter({ hasText: "Find " });
+    await expect(entry).toContainText("Changed on the server meanwhile: choose", { timeout: 15_000 });
+    await expect(entry.getByRole("region", { name: "Your change" })).toContainText("In field → Site store");
+    await expect(entry.getByRole("region", { name: "On the server now" })).toContainText("At the lab");
+    await expect(page.getByRole("heading", { name: /^0 waiting to send, 1 to decide/ })).toBeVisible();
+    await entry.getByRole("button", { name: "Keep the server's and drop mine" }).click();
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; / })).toBeVisible();
+    await expect(page.getByText("Nothing waiting: every entry made on this device has been sent.")).toBeVisible();
+    const now = (await (await api.get(`/api/projects/${projectId}/finds/${id}`)).json()) as { find: { status: string } };
+    expect(now.find.status).toBe("at-lab");
+  });
+
+  test("signing out with entries waiting asks first, naming the count, and then clears them from the device", async ({ page, context }) => {
+    await openFieldPage(page);
+    const note = marker("never-sent");
+    // The readings never get through: the entry stays waiting while the page is online.
+    await page.route(`**/api/projects/${projectId}/water-quality/readings`, (route) => (route.request().method() === "POST" ? route.abort("connectionreset") : route.continue()));
+    await context.setOffline(true);
+    await enterReading(page, note, localValue(new Date(), "UTC"));
+    await context.setOffline(false);
+    await expect(page.getByRole("heading", { name: /^1 waiting to send/ })).toBeVisible();
+    const manager = (await deviceStore(page)).queue[0].userId;
+
+    await page.getByRole("button", { name: "Sign out", exact: true }).click();
+    const dialog = page.getByRole("alertdialog", { name: "1 field entry has not been sent" });
+    await expect(dialog).toBeVisible();
+    await dialog.getByRole("button", { name: "Stay signed in" }).click();
+    await expect(dialog).toBeHidden();
+    expect((await deviceStore(page)).queue).toHaveLength(1);
+
+    await page.getByRole("button", { name: "Sign out", exact: true }).click();
+    await dialog.getByRole("button", { name: "Sign out and delete it" }).click();
+    await expect(page).toHaveURL(/\/login/);
+    const kept = await deviceStore(page);
+    expect(kept.queue.filter((entry) => entry.userId === manager)).toHaveLength(0);
+    expect(kept.projects).toBe(0);
+    expect(await readingsWith(note, new Date().toISOString().slice(0, 10))).toHaveLength(0);
+  });
+
+  test("another person signed in on the same phone neither sees nor sends the entries left waiting", async ({ page, context }) => {
+    await openFieldPage(page);
+    const note = marker("left-waiting");
+    await context.setOffline(true);
+    await enterReading(page, note, localValue(new Date(), "UTC"));
+    await expect(page.getByRole("heading", { name: /^1 waiting to send/ })).toBeVisible();
+    // The tab is closed and the session ends without signing out (expired, or cleared); a colleague signs in.
+    await page.close();
+    await context.clearCookies();
+    await context.setOffline(false);
+    const colleague = await context.newPage();
+    await signInWithPassword(colleague, DEMO_ACCOUNTS["resource-monitor"], DEMO_PASSWORD);
+    await expect(colleague).toHaveURL(/\/projects$/);
+    await colleague.goto(`/projects/${projectId}/field`);
+    await expect(colleague.getByRole("heading", { name: /^0 waiting to send/ })).toBeVisible();
+    await expect(colleague.getByRole("button", { name: "Send now" })).toBeDisabled();
+    expect(await readingsWith(note, new Date().toISOString().slice(0, 10))).toHaveLength(0);
+    const kept = await deviceStore(colleague);
+    expect(kept.queue).toHaveLength(1);
+  });
+});

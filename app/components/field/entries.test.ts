@@ -1,14 +1,17 @@
 import { describe, expect, it } from "vitest";
 import type { FieldSnapshot } from "~/models/field-snapshot";
-import { blankForm, bodyOf, checkBody, deviceIso, type FormValues } from "./entries";
+import { blankForm, bodyOf, checkBody, deviceIso, fieldOf, findTargetOf, type FormValues } from "./entries";
 
 const snapshot: FieldSnapshot = {
+  user: { id: 5, name: "Maya Field" },
   project: { id: 1, name: "Test spring", timeZone: "America/New_York", lengthUnit: "us-ft", lengthLabel: "ftUS" },
   may: { dives: true, readings: true, finds: true, sightings: true, tubes: true },
   teams: [{ id: 7, name: "Team A", divers: ["Ana Diver"] }],
   stations: [{ id: 3, name: "CP-1", kind: "compliance" }],
   tubes: [{ id: 4, name: "T-1", status: "filling", version: "v1", fillLevel: 0.2 }],
   massLabel: "short tons",
+  dewatering: { solidsSpecificGravity: 2.6, cakeSolidsByWeight: 0.3, flowUnit: "gpm", haulSites: [{ id: 9, name: "North farm", kind: "reuse" }] },
+  finds: [{ id: 11, catalogueNumber: "TS-2026-0011", category: "modern-debris", description: "a can", status: "in-field", foundAt: "2026-12-01T15:00:00.000Z", currentHolder: { name: "Ana", place: "in the field" }, version: "f1" }],
   cells: ["A1"],
   heldCells: [],
   species: ["manatee"],
@@ -75,5 +78,53 @@ describe("bodyOf and checkBody: the device refuses what the server's schema refu
     expect(metered.slurryVolume).toEqual({ value: 1200, unit: "gal" });
     expect(checkBody("tube-fill", bodyOf("tube-fill", { ...form, drySolids: "0" }), form)).toEqual({ drySolids: "the dry solids are more than 0" });
     expect(checkBody("tube-fill", body, { ...form, tube: "" })).toEqual({ tube: "choose the tube" });
+  });
+});
+
+describe("the dewatering entries and handovers", () => {
+  it("a shift by flow meter: percent solids become a share, ticked tubes their names; the server's schema passes it", () => {
+    const form: FormValues = { ...blankForm("shift", snapshot, new Date()), flowValue: "900", solidsPercent: "12", "tube:T-1": true };
+    const body = bodyOf("shift", form);
+    expect(body).toMatchObject({ start: "07:00", end: "15:00", slurryFlow: { value: 900, unit: "gpm" }, totaliser: null, solidsByWeight: 0.12, polymer: null, tubes: ["T-1"] });
+    expect(checkBody("shift", body, form)).toEqual({});
+  });
+
+  it("a shift's refusals land on the form's own fields (the body nests the flow and the polymer)", () => {
+    const form: FormValues = { ...blankForm("shift", snapshot, new Date()), flowMode: "totaliser", totaliserStart: "500", totaliserEnd: "400", polymerProduct: "PAM-x", stockPercent: "0.5" };
+    // The schema's cross-field rules run once every field reads: first the missing dose, then the totaliser.
+    expect(checkBody("shift", bodyOf("shift", form), form)).toEqual({ dose: "fill this in: it is required" });
+    const dosed = { ...form, dose: "15" };
+    expect(checkBody("shift", bodyOf("shift", dosed), dosed)).toEqual({ totaliserEnd: "the totaliser reads more at the end of the shift than at its start" });
+    expect(fieldOf("shift", ["slurryFlow", "value"])).toBe("flowValue");
+  });
+
+  it("a haul ticket: the site by id, the load with its unit, cake solids as a share", () => {
+    const form: FormValues = { ...blankForm("haul", snapshot, new Date()), ticketNumber: "T-100", truck: "Truck 4", loadValue: "14.5", cakeSolidsPercent: "28" };
+    expect(form.site).toBe("9");
+    const body = bodyOf("haul", form);
+    expect(body).toMatchObject({ site: 9, load: { value: 14.5, unit: "short-ton" }, cakeSolidsByWeight: 0.28 });
+    expect(checkBody("haul", body, form)).toEqual({});
+    expect(checkBody("haul", bodyOf("haul", { ...form, loadValue: "" }), form)).toEqual({ loadValue: "fill this in: it is required" });
+  });
+
+  it("a jar test keeps the jar rows that hold anything; a jar's error names its row", () => {
+    const form: FormValues = { ...blankForm("jar-test", snapshot, new Date()), polymerProduct: "PAM-x", "jar-1-dose": "5", "jar-1-clarity": "clear", "jar-3-dose": "-2", "jar-3-clarity": "hazy" };
+    const body = bodyOf("jar-test", form);
+    expect((body.jars as unknown[]).length).toBe(2);
+    expect(checkBody("jar-test", body, form)).toEqual({ "jar-3-dose": "the dose tried is more than 0 mg/L" });
+  });
+
+  it("a handover names a find the server has or one waiting in the queue; without one it is refused on the device", () => {
+    expect(findTargetOf({ find: "11" })).toEqual({ findId: 11 });
+    expect(findTargetOf({ find: "queued:abc-123" })).toEqual({ entryId: "abc-123" });
+    const form: FormValues = { ...blankForm("custody", snapshot, new Date()), toName: "Lab courier", place: "State lab", purpose: "to-state-lab", receiverSignature: "Lab courier" };
+    expect(form.fromName).toBe("Maya Field");
+    expect(checkBody("custody", bodyOf("custody", form), form)).toEqual({ find: "choose the find" });
+    expect(checkBody("custody", bodyOf("custody", { ...form, find: "queued:abc-123" }), { ...form, find: "queued:abc-123" })).toEqual({});
+  });
+
+  it("a find's status: curated needs the lab's accession number (the server's refinement)", () => {
+    const form: FormValues = { ...blankForm("find-status", snapshot, new Date()), find: "11", status: "curated" };
+    expect(checkBody("find-status", bodyOf("find-status", form), form)).toEqual({ accessionNumber: "a curated find carries the lab's accession number" });
   });
 });

@@ -1,18 +1,27 @@
 import type { z } from "zod";
-import { FIND_CATEGORY_LABELS, type FindCategory } from "../../../shared/finds/finds";
+import { CUSTODY_PURPOSE_LABELS, FIND_CATEGORY_LABELS, FIND_STATUS_LABELS, type CustodyPurpose, type FindCategory, type FindStatus } from "../../../shared/finds/finds";
 import { localDayOf } from "../../../shared/local-time";
-import { diveInputSchema, fillInputSchema, findInputSchema, readingInputSchema, sightingInputSchema, tubeStatusSchema } from "~/lib/field-records/inputs";
+import {
+  custodyInputSchema, diveInputSchema, fillInputSchema, findInputSchema, haulInputSchema, jarTestInputSchema, readingInputSchema, shiftInputSchema, sightingInputSchema,
+  statusInputSchema, tubeStatusSchema,
+} from "~/lib/field-records/inputs";
 import type { FieldSnapshot } from "~/models/field-snapshot";
-import type { EntryKind } from "./store";
+import { QUEUED_PREFIX, type EntryKind } from "./store";
 
 /**
- * The four field entries the page takes offline: what each form holds, the API body it becomes,
- * and the check with the server's own schema, so an entry the server would refuse is never queued.
+ * The field entries the page takes offline: what each form holds, the API body it becomes, and the
+ * check with the server's own schema, so an entry the server would refuse is never queued.
  */
 
 export type FormValues = Record<string, string | boolean>;
 
-export const ENTRY_LABELS: Record<EntryKind, string> = { dive: "Dive log entry", reading: "Turbidity reading", find: "Find", sighting: "Wildlife sighting", "tube-fill": "Tube fill", "tube-status": "Tube status" };
+export const ENTRY_LABELS: Record<EntryKind, string> = {
+  dive: "Dive log entry", reading: "Turbidity reading", find: "Find", "find-status": "Find status", custody: "Custody handover", sighting: "Wildlife sighting",
+  "tube-fill": "Tube fill", "tube-status": "Tube status", shift: "Shift log", "jar-test": "Jar test", haul: "Haul ticket",
+};
+
+/** The most dosed jars one jar test takes (the server's schema). */
+export const MAX_JARS = 8;
 
 const pad = (value: number) => String(value).padStart(2, "0");
 
@@ -68,7 +77,44 @@ export function blankForm(kind: EntryKind, snapshot: FieldSnapshot, now: Date): 
       return { tube: snapshot.tubes.length === 1 ? String(snapshot.tubes[0].id) : "", date: localDayOf(now.getTime(), snapshot.project.timeZone), drySolids: "", slurryVolume: "", slurryUnit: "gal" };
     case "tube-status":
       return { tube: snapshot.tubes.length === 1 ? String(snapshot.tubes[0].id) : "", status: "" };
+    case "find-status":
+      return { find: "", status: "", accessionNumber: "", note: "" };
+    case "custody":
+      return { find: "", fromName: snapshot.user.name, toName: "", place: "", purpose: "", handedAt: at, receiverSignature: "", note: "" };
+    case "shift": {
+      const flowUnit = snapshot.dewatering?.flowUnit ?? "gpm";
+      return {
+        date: localDayOf(now.getTime(), snapshot.project.timeZone), start: "07:00", end: "15:00", pumpHours: "", flowMode: "meter", flowValue: "", flowUnit,
+        totaliserStart: "", totaliserEnd: "", totaliserUnit: flowUnit === "gpm" ? "gal" : "m3", solidsMode: "cw", solidsPercent: "", slurrySg: "", solidsSg: "",
+        polymerProduct: "", polymerLot: "", stockPercent: "", dose: "", notes: "",
+        ...Object.fromEntries(snapshot.tubes.map((tube) => [`tube:${tube.name}`, false])),
+      };
+    }
+    case "jar-test": {
+      const jars = Object.fromEntries(Array.from({ length: 4 }, (_, index) => [[`jar-${index}-dose`, ""], [`jar-${index}-ntu`, ""], [`jar-${index}-clarity`, ""]]).flat());
+      return {
+        date: localDayOf(now.getTime(), snapshot.project.timeZone), time: `${pad(now.getHours())}:${pad(now.getMinutes())}`, sampleSource: "", polymerProduct: "", polymerLot: "",
+        benchStockPercent: "0.1", jarVolumeMl: "1000", rawNtu: "", settlingMinutes: "10", jarCount: "4", ...jars, chosenDose: "", notes: "",
+      };
+    }
+    case "haul":
+      return {
+        date: localDayOf(now.getTime(), snapshot.project.timeZone), ticketNumber: "", truck: "", site: snapshot.dewatering?.haulSites.length === 1 ? String(snapshot.dewatering.haulSites[0].id) : "",
+        loadValue: "", loadUnit: snapshot.dewatering?.flowUnit === "m3/h" ? "t" : "short-ton", cakeSolidsPercent: "", notes: "",
+      };
   }
+}
+
+/** A percent field as a share (20 → 0.2); what was typed when it is not a number, so the schema names it. */
+const share = (form: FormValues, name: string) => {
+  const value = number(form, name);
+  return typeof value === "number" ? value / 100 : value;
+};
+
+/** The jar rows of a jar test's form that hold anything, with their row numbers in the form. */
+export function jarRowsOf(form: FormValues): number[] {
+  const count = Math.min(MAX_JARS, Number(form.jarCount) || 0);
+  return Array.from({ length: count }, (_, index) => index).filter((index) => ["dose", "ntu", "clarity"].some((part) => text(form, `jar-${index}-${part}`) !== undefined));
 }
 
 /** The API's JSON body for a form (field names are the body's). */
@@ -98,34 +144,107 @@ export function bodyOf(kind: EntryKind, form: FormValues): Record<string, unknow
     case "tube-status":
       // The tube is the address (dewatering/tubes/<id>), not part of the body.
       return { status: text(form, "status") };
+    case "find-status":
+      // The find is the address (finds/<id>), as is a handover's.
+      return { status: text(form, "status"), accessionNumber: text(form, "accessionNumber") ?? null, note: text(form, "note") ?? null };
+    case "custody":
+      return {
+        fromName: text(form, "fromName"), toName: text(form, "toName"), place: text(form, "place"), purpose: text(form, "purpose"), handedAt: instantOf(form.handedAt),
+        receiverSignature: text(form, "receiverSignature"), note: text(form, "note") ?? null,
+      };
+    case "shift": {
+      const meter = form.flowMode !== "totaliser";
+      const product = text(form, "polymerProduct");
+      const polymerGiven = [product, text(form, "dose"), text(form, "stockPercent")].some((value) => value !== undefined);
+      return {
+        date: text(form, "date"), start: text(form, "start"), end: text(form, "end"), pumpHours: number(form, "pumpHours") ?? null,
+        slurryFlow: meter ? { value: number(form, "flowValue"), unit: text(form, "flowUnit") } : null,
+        totaliser: meter ? null : { start: number(form, "totaliserStart"), end: number(form, "totaliserEnd"), unit: text(form, "totaliserUnit") },
+        solidsByWeight: form.solidsMode === "sg" ? null : share(form, "solidsPercent") ?? null,
+        slurrySpecificGravity: form.solidsMode === "sg" ? number(form, "slurrySg") ?? null : null,
+        solidsSpecificGravity: number(form, "solidsSg") ?? null,
+        polymer: polymerGiven ? { product: product ?? "", lot: text(form, "polymerLot") ?? null, doseMgPerL: number(form, "dose"), stockPercent: number(form, "stockPercent") } : null,
+        tubes: Object.keys(form).filter((key) => key.startsWith("tube:") && form[key] === true).map((key) => key.slice("tube:".length)),
+        notes: text(form, "notes") ?? "",
+      };
+    }
+    case "jar-test": {
+      const raw = number(form, "rawNtu");
+      return {
+        date: text(form, "date"), time: text(form, "time") ?? null, sampleSource: text(form, "sampleSource") ?? "",
+        polymer: { product: text(form, "polymerProduct") ?? "", lot: text(form, "polymerLot") ?? null, benchStockPercent: number(form, "benchStockPercent") },
+        jarVolumeMl: number(form, "jarVolumeMl"), raw: raw === undefined ? null : { turbidityNtu: raw },
+        jars: jarRowsOf(form).map((index) => ({
+          doseMgPerL: number(form, `jar-${index}-dose`), settlingMinutes: number(form, "settlingMinutes"), turbidityNtu: number(form, `jar-${index}-ntu`) ?? null, clarity: text(form, `jar-${index}-clarity`),
+        })),
+        chosenDoseMgPerL: number(form, "chosenDose") ?? null, notes: text(form, "notes") ?? "",
+      };
+    }
+    case "haul":
+      return {
+        date: text(form, "date"), ticketNumber: text(form, "ticketNumber"), truck: text(form, "truck"), site: idOrName(form, "site"),
+        load: { value: number(form, "loadValue"), unit: text(form, "loadUnit") }, cakeSolidsByWeight: share(form, "cakeSolidsPercent") ?? null, notes: text(form, "notes") ?? "",
+      };
   }
 }
 
-const SCHEMAS: Record<EntryKind, z.ZodType> = { dive: diveInputSchema, reading: readingInputSchema, find: findInputSchema, sighting: sightingInputSchema, "tube-fill": fillInputSchema, "tube-status": tubeStatusSchema };
+/**
+ * The form field an error's path points at (the body's names differ from the form's where the body
+ * nests: a shift's flow, a jar's dose, a ticket's load), so the message sits beside its input.
+ */
+export function fieldOf(kind: EntryKind, path: ReadonlyArray<PropertyKey>, form: FormValues = {}): string {
+  const [first, second, third] = path.map(String);
+  if (kind === "shift") {
+    if (first === "slurryFlow") return "flowValue";
+    if (first === "totaliser") return second === "start" ? "totaliserStart" : "totaliserEnd";
+    if (first === "polymer") return second === "doseMgPerL" ? "dose" : second === "stockPercent" ? "stockPercent" : second === "lot" ? "polymerLot" : "polymerProduct";
+    return { solidsByWeight: "solidsPercent", slurrySpecificGravity: "slurrySg", solidsSpecificGravity: "solidsSg" }[first] ?? first ?? "form";
+  }
+  if (kind === "jar-test") {
+    if (first === "polymer") return second === "lot" ? "polymerLot" : second === "benchStockPercent" ? "benchStockPercent" : "polymerProduct";
+    if (first === "raw") return "rawNtu";
+    if (first === "jars") {
+      if (second === undefined) return "jar-0-dose";
+      const row = jarRowsOf(form)[Number(second)] ?? Number(second);
+      return third === "settlingMinutes" ? "settlingMinutes" : `jar-${row}-${third === "clarity" ? "clarity" : third === "turbidityNtu" ? "ntu" : "dose"}`;
+    }
+    return { chosenDoseMgPerL: "chosenDose" }[first] ?? first ?? "form";
+  }
+  if (kind === "haul") return { load: "loadValue", cakeSolidsByWeight: "cakeSolidsPercent" }[first] ?? first ?? "form";
+  return first ?? "form";
+}
+
+const SCHEMAS: Record<EntryKind, z.ZodType> = {
+  dive: diveInputSchema, reading: readingInputSchema, find: findInputSchema, "find-status": statusInputSchema, custody: custodyInputSchema, sighting: sightingInputSchema,
+  "tube-fill": fillInputSchema, "tube-status": tubeStatusSchema, shift: shiftInputSchema, "jar-test": jarTestInputSchema, haul: haulInputSchema,
+};
 
 /** The server's own check, run on the device: errors per form field (first message each). */
 export function checkBody(kind: EntryKind, body: Record<string, unknown>, form: FormValues = {}): Record<string, string> {
   const result = SCHEMAS[kind].safeParse(body);
   const errors: Record<string, string> = {};
   if ((kind === "tube-status" || kind === "tube-fill") && !text(form, "tube")) errors.tube = "choose the tube";
+  if ((kind === "find-status" || kind === "custody") && !text(form, "find")) errors.find = "choose the find";
   if (kind === "dive" && body.team === undefined) errors.team = "choose the team";
+  if (kind === "haul" && body.site === undefined) errors.site = "choose the destination";
   if (result.success) return errors;
   for (const issue of result.error.issues) {
-    const key = String(issue.path[0] ?? "form");
+    const key = fieldOf(kind, issue.path, form);
+    const value = issue.path.reduce<unknown>((at, part) => (at && typeof at === "object" ? (at as Record<PropertyKey, unknown>)[part] : undefined), body);
     // A field left empty is absent from the body: say so in words rather than the schema's type error.
-    errors[key] ??= issue.path.length === 1 && body[key] === undefined && issue.code === "invalid_type" ? "fill this in: it is required" : issue.message;
+    errors[key] ??= issue.path.length > 0 && value === undefined && issue.code === "invalid_type" ? "fill this in: it is required" : issue.message;
   }
   return errors;
 }
 
 /** The capture time an entry carries as the record's time (the dive's day has no clock time: the device's now). */
 export function recordTimeOf(kind: EntryKind, body: Record<string, unknown>): string | undefined {
-  const field = { dive: undefined, reading: "takenAt", find: "foundAt", sighting: "seenAt", "tube-fill": undefined, "tube-status": undefined }[kind];
+  const field = { reading: "takenAt", find: "foundAt", sighting: "seenAt", custody: "handedAt" }[kind as string];
   return field ? (body[field] as string | undefined) : undefined;
 }
 
 /** One line naming the entry in the queue. */
-export function summaryOf(kind: EntryKind, body: Record<string, unknown>, snapshot: FieldSnapshot, form: FormValues = {}): string {
+export function summaryOf(kind: EntryKind, body: Record<string, unknown>, snapshot: FieldSnapshot, form: FormValues = {}, findLabel?: string): string {
   switch (kind) {
     case "dive": {
       const team = snapshot.teams.find((candidate) => candidate.id === body.team)?.name ?? body.team;
@@ -147,5 +266,31 @@ export function summaryOf(kind: EntryKind, body: Record<string, unknown>, snapsh
       const tube = snapshot.tubes.find((candidate) => String(candidate.id) === form.tube);
       return `Tube ${tube?.name ?? form.tube} · ${tube?.status ?? "?"} → ${body.status}`;
     }
+    case "find-status": {
+      const find = snapshot.finds.find((candidate) => String(candidate.id) === form.find);
+      return `Find ${find?.catalogueNumber ?? form.find} · ${FIND_STATUS_LABELS[find?.status as FindStatus] ?? find?.status ?? "?"} → ${FIND_STATUS_LABELS[body.status as FindStatus] ?? body.status}`;
+    }
+    case "custody":
+      return `Handover · ${findLabel ?? form.find} · ${body.fromName} → ${body.toName} · ${CUSTODY_PURPOSE_LABELS[body.purpose as CustodyPurpose] ?? body.purpose}`;
+    case "shift": {
+      const flow = body.slurryFlow as { value: number; unit: string } | null;
+      return `Shift · ${body.date} ${body.start}–${body.end} · ${flow ? `${flow.value} ${flow.unit === "m3/h" ? "m³/h" : flow.unit}` : "totaliser"}`;
+    }
+    case "jar-test":
+      return `Jar test · ${body.date}${body.time ? ` ${body.time}` : ""} · ${(body.polymer as { product?: string }).product} · ${(body.jars as unknown[]).length} jars`;
+    case "haul": {
+      const site = snapshot.dewatering?.haulSites.find((candidate) => candidate.id === body.site)?.name ?? body.site;
+      const load = body.load as { value: number; unit: string };
+      const unit = { "short-ton": "short tons wet", t: "t wet", yd3: "yd³", m3: "m³" }[load.unit] ?? load.unit;
+      return `Haul ticket ${body.ticketNumber} · ${body.truck} → ${site} · ${load.value} ${unit}`;
+    }
   }
+}
+
+/** The find a handover or a status change names: a find the server has ("12") or one waiting in this device's queue ("queued:<id>"). */
+export function findTargetOf(form: FormValues): { findId: number } | { entryId: string } | null {
+  const value = text(form, "find");
+  if (value === undefined) return null;
+  if (value.startsWith(QUEUED_PREFIX)) return { entryId: value.slice(QUEUED_PREFIX.length) };
+  return /^\d+$/.test(value) ? { findId: Number(value) } : null;
 }

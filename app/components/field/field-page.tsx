@@ -1,10 +1,11 @@
-import { useCallback, useEffect, useRef, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { StopWorkBanner } from "~/components/stop-work-banner";
 import type { FieldSnapshot } from "~/models/field-snapshot";
-import { blankForm, deviceIso, ENTRY_LABELS, recordTimeOf, summaryOf } from "./entries";
+import { FIND_STATUS_LABELS, type FindStatus } from "../../../shared/finds/finds";
+import { blankForm, deviceIso, ENTRY_LABELS, findTargetOf, recordTimeOf, summaryOf } from "./entries";
 import { EntryForm, type EntryDraft } from "./entry-form";
 import { bigButton } from "./inputs";
-import { deleteEntry, keptSnapshot, nextOrder, onChange, putEntry, queuedEntries, saveSnapshot, sentEntries, syncState, type EntryKind, type QueueEntry, type SentEntry, type SyncState } from "./store";
+import { claimUnowned, deleteEntry, keptSnapshot, nextOrder, onChange, putEntry, queuedEntries, QUEUED_PREFIX, saveSnapshot, sentEntries, syncState, type EntryKind, type QueueEntry, type SentEntry, type SyncState } from "./store";
 import { checkClock, CLOCK_WARNING_MS, sendQueue, type SyncReport } from "./sync";
 
 /** "10:42" today, "3 Dec 10:42" another day: the device's clock. */
@@ -65,30 +66,65 @@ function minutesApart(offsetMs: number): string {
   return minutes >= 120 ? `${Math.round(minutes / 60)} hours` : `${minutes} minutes`;
 }
 
+type Row = [label: string, value: React.ReactNode];
+
+/** What each side of a conflict shows: the edit as made (with what the page saw then) and the record as the server has it now. */
+function conflictRows(entry: QueueEntry, snapshot: FieldSnapshot): { mine: Row[]; theirs: Row[] } {
+  if (entry.kind === "find-status") {
+    const current = entry.current as { status?: FindStatus; currentHolder?: { name: string; place: string }; accessionNumber?: string | null; statusNote?: string | null; custody?: unknown[] };
+    const seen = snapshot.finds.find((find) => String(find.id) === entry.form.find);
+    const label = (status: unknown) => FIND_STATUS_LABELS[status as FindStatus] ?? String(status ?? "?");
+    return {
+      mine: [
+        ["Status", <>{label(seen?.status)} → <strong>{label(entry.body.status)}</strong></>],
+        ["Held by", seen ? `${seen.currentHolder.name}, ${seen.currentHolder.place}` : "?"],
+        ["Accession number", String(entry.body.accessionNumber ?? "–")],
+        ["Note", String(entry.body.note ?? "–")],
+      ],
+      theirs: [
+        ["Status", <strong>{label(current.status)}</strong>],
+        ["Held by", current.currentHolder ? `${current.currentHolder.name}, ${current.currentHolder.place}` : "?"],
+        ["Accession number", current.accessionNumber ?? "–"],
+        ["Note", current.statusNote ?? "–"],
+      ],
+    };
+  }
+  const current = entry.current as { status?: string; fillLevel?: number; fills?: unknown[] };
+  const seen = snapshot.tubes.find((tube) => String(tube.id) === entry.form.tube);
+  return {
+    mine: [
+      ["Status", <>{seen?.status ?? "?"} → <strong>{String(entry.body.status)}</strong></>],
+      ["Fill level seen", <span className="figures">{seen ? `${Math.round(seen.fillLevel * 100)} %` : "?"}</span>],
+    ],
+    theirs: [
+      ["Status", <strong>{current.status ?? "?"}</strong>],
+      ["Fill level", <span className="figures">{current.fillLevel !== undefined ? `${Math.round(current.fillLevel * 100)} %` : "?"}{current.fills ? ` (${current.fills.length} fills)` : ""}</span>],
+    ],
+  };
+}
+
 /**
  * An edit made offline whose record changed on the server meanwhile (412): the edit and the record
- * as it is now, side by side; the user keeps one.
+ * as it is now, side by side; the user keeps one (a tube's status, a find's status).
  */
 function ConflictChoice({ entry, snapshot, onChoose }: { entry: QueueEntry; snapshot: FieldSnapshot; onChoose: (choice: "mine" | "theirs") => void }) {
-  const current = entry.current as { name?: string; status?: string; fillLevel?: number; fills?: unknown[] };
-  const seen = snapshot.tubes.find((tube) => String(tube.id) === entry.form.tube);
+  const { mine, theirs } = conflictRows(entry, snapshot);
+  const list = (rows: Row[]) => (
+    <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3 gap-y-1">
+      {rows.map(([label, value]) => <div key={label} className="contents"><dt className="text-muted">{label}</dt><dd className="break-words">{value}</dd></div>)}
+    </dl>
+  );
   return (
     <div className="mt-2">
       <p className="text-sm">{entry.message}</p>
       <div className="mt-2 grid gap-3 sm:grid-cols-2">
         <section aria-label="Your change" className="rounded border-2 border-lagoon p-3">
           <h3 className="font-semibold">Your change (made <time className="figures" dateTime={entry.capturedAt}>{shortTime(entry.capturedAt)}</time>)</h3>
-          <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
-            <dt>Status</dt><dd>{seen?.status ?? "?"} → <strong>{String(entry.body.status)}</strong></dd>
-            <dt>Fill level seen</dt><dd className="figures">{seen ? `${Math.round(seen.fillLevel * 100)} %` : "?"}</dd>
-          </dl>
+          {list(mine)}
         </section>
         <section aria-label="On the server now" className="rounded border-2 border-caution p-3">
           <h3 className="font-semibold">On the server now</h3>
-          <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3">
-            <dt>Status</dt><dd><strong>{current.status ?? "?"}</strong></dd>
-            <dt>Fill level</dt><dd className="figures">{current.fillLevel !== undefined ? `${Math.round(current.fillLevel * 100)} %` : "?"}{current.fills ? ` (${current.fills.length} fills)` : ""}</dd>
-          </dl>
+          {list(theirs)}
         </section>
       </div>
       <div className="mt-2 flex flex-wrap gap-3">
@@ -111,15 +147,20 @@ interface FieldPageProps {
  */
 export function FieldPage({ snapshot, source }: FieldPageProps) {
   const projectId = snapshot.project.id;
+  const userId = snapshot.user.id;
+  const owner = useMemo(() => ({ userId, projectId }), [userId, projectId]);
   const online = useOnline();
   const offlineReady = useOfflineReady(online);
-  const permission = { dive: "dives", reading: "readings", find: "finds", sighting: "sightings", "tube-fill": "tubes", "tube-status": "tubes" } as const;
-  const kinds = (["dive", "reading", "find", "sighting", "tube-fill", "tube-status"] as const).filter((kind) => snapshot.may[permission[kind]]);
+  const permission = {
+    dive: "dives", reading: "readings", find: "finds", "find-status": "finds", custody: "finds", sighting: "sightings",
+    "tube-fill": "tubes", "tube-status": "tubes", shift: "tubes", "jar-test": "tubes", haul: "tubes",
+  } as const;
+  const kinds = (["dive", "reading", "find", "custody", "find-status", "sighting", "shift", "jar-test", "haul", "tube-fill", "tube-status"] as const).filter((kind) => snapshot.may[permission[kind]]);
   const [kind, setKind] = useState<EntryKind | null>(kinds[0] ?? null);
   const [formKey, setFormKey] = useState(0);
   const [entries, setEntries] = useState<QueueEntry[] | null>(null);
   const [sent, setSent] = useState<SentEntry[]>([]);
-  const [state, setState] = useState<SyncState>({ projectId });
+  const [state, setState] = useState<SyncState>({ userId, projectId });
   const [editing, setEditing] = useState<QueueEntry | null>(null);
   const [confirmDelete, setConfirmDelete] = useState<string | null>(null);
   const [sending, setSending] = useState(false);
@@ -130,24 +171,26 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
 
   const refresh = useCallback(async () => {
     try {
-      const [queued, recent, sync] = await Promise.all([queuedEntries(projectId), sentEntries(projectId), syncState(projectId)]);
+      const [queued, recent, sync] = await Promise.all([queuedEntries(owner), sentEntries(owner), syncState(owner)]);
       setEntries(queued);
       setSent(recent);
       setState(sync);
     } catch (error) {
       setStorageError(`This device's storage cannot be read (${error instanceof Error ? error.message : "unknown error"}): entries cannot be kept offline in this browser.`);
     }
-  }, [projectId]);
+  }, [owner]);
 
   // The project data used offline is the copy saved on each load with signal.
   useEffect(() => {
     // A page the service worker kept carries the data it was rendered with: never let it replace a newer copy.
     if (source === "server") {
+      // Entries kept before entries had owners belong to whoever now opens the page with signal.
+      void claimUnowned(owner).then(() => refresh()).catch(() => {});
       void keptSnapshot(projectId)
         .then((kept) => (!kept || kept.snapshot.takenAt < snapshot.takenAt ? saveSnapshot(snapshot) : undefined))
         .catch(() => {});
     }
-  }, [projectId, snapshot, source]);
+  }, [projectId, snapshot, source, owner, refresh]);
 
   useEffect(() => {
     void refresh();
@@ -159,14 +202,14 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
   const send = useCallback(async () => {
     setSending(true);
     try {
-      const report = await sendQueue(projectId, () => void refresh());
+      const report = await sendQueue(owner, () => void refresh());
       setLastRun(report);
-      if (!report.stoppedBy && report.sent.length === 0 && report.rejected.length === 0) await checkClock(projectId);
+      if (!report.stoppedBy && report.sent.length === 0 && report.rejected.length === 0) await checkClock(owner);
     } finally {
       setSending(false);
       await refresh();
     }
-  }, [projectId, refresh]);
+  }, [owner, refresh]);
 
   // Send when the connection returns, when the page opens with signal, and every minute while entries wait
   // (a phone can say it is online while no data gets through).
@@ -176,7 +219,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
     if (navigator.onLine) void send();
     const timer = window.setInterval(() => {
       if (!navigator.onLine) return;
-      void queuedEntries(projectId).then((queued) => {
+      void queuedEntries(owner).then((queued) => {
         if (queued.some((entry) => entry.status === "waiting")) void send();
       });
     }, 60_000);
@@ -184,18 +227,30 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
       window.removeEventListener("online", onOnline);
       window.clearInterval(timer);
     };
-  }, [projectId, send]);
+  }, [owner, send]);
 
   async function save(entryKind: EntryKind, draft: EntryDraft, existing: QueueEntry | null) {
     const now = new Date();
     // A status change is checked against the tube as this page last saw it (If-Match); an entry keeps the version it was made against.
-    const tubeVersion = (tubeId: string | boolean | undefined) => snapshot.tubes.find((tube) => String(tube.id) === tubeId)?.version;
-    const ifMatch = entryKind !== "tube-status" ? undefined : existing && existing.form.tube === draft.form.tube ? existing.ifMatch : tubeVersion(draft.form.tube);
+    const versionOf = (target: string | boolean | undefined) =>
+      entryKind === "tube-status" ? snapshot.tubes.find((tube) => String(tube.id) === target)?.version
+        : entryKind === "find-status" ? snapshot.finds.find((find) => String(find.id) === target)?.version : undefined;
+    const targetField = entryKind === "tube-status" ? "tube" : "find";
+    const ifMatch = entryKind !== "tube-status" && entryKind !== "find-status" ? undefined
+      : existing && existing.form[targetField] === draft.form[targetField] ? existing.ifMatch : versionOf(draft.form[targetField]);
+    // A handover of a find made on this device and not yet sent: sent after that find, to its id.
+    const target = entryKind === "custody" ? findTargetOf(draft.form) : null;
+    const parent = target && "entryId" in target ? target.entryId : undefined;
+    const findLabel = findChoices.find((choice) => choice.value === draft.form.find)?.short;
+    const summary = summaryOf(entryKind, draft.body, snapshot, draft.form, findLabel);
     const entry: QueueEntry = existing
-      ? { ...existing, form: draft.form, body: existing.serverId !== undefined ? existing.body : draft.body, photos: draft.photos, status: "waiting", message: undefined, fieldErrors: undefined, ifMatch, current: undefined, summary: existing.serverId !== undefined ? existing.summary : summaryOf(entryKind, draft.body, snapshot, draft.form) }
+      ? {
+          ...existing, form: draft.form, body: existing.serverId !== undefined ? existing.body : draft.body, photos: draft.photos, status: "waiting", message: undefined, fieldErrors: undefined,
+          ifMatch, current: undefined, parent, parentServerId: parent === existing.parent ? existing.parentServerId : undefined, summary: existing.serverId !== undefined ? existing.summary : summary,
+        }
       : {
-          id: crypto.randomUUID(), projectId, kind: entryKind, order: await nextOrder(), capturedAt: recordTimeOf(entryKind, draft.body) ?? deviceIso(now),
-          form: draft.form, body: draft.body, photos: draft.photos, status: "waiting", attempts: 0, ifMatch, summary: summaryOf(entryKind, draft.body, snapshot, draft.form),
+          id: crypto.randomUUID(), userId, projectId, kind: entryKind, parent, order: await nextOrder(), capturedAt: recordTimeOf(entryKind, draft.body) ?? deviceIso(now),
+          form: draft.form, body: draft.body, photos: draft.photos, status: "waiting", attempts: 0, ifMatch, summary,
         };
     if (existing && existing.serverId === undefined) entry.capturedAt = recordTimeOf(entryKind, draft.body) ?? existing.capturedAt;
     try {
@@ -213,6 +268,15 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
   }
 
   const waiting = entries?.filter((entry) => entry.status === "waiting") ?? [];
+  // The finds a handover may name: the project's, those sent from here since, and those still in this device's queue.
+  const findChoices = useMemo(() => {
+    const known = new Set(snapshot.finds.map((find) => find.id));
+    return [
+      ...(entries ?? []).filter((entry) => entry.kind === "find").map((entry) => ({ value: `${QUEUED_PREFIX}${entry.id}`, label: `Not yet sent: ${entry.summary.replace(/^Find · /, "")}`, short: `new find "${String(entry.body.description ?? "").slice(0, 40)}"` })),
+      ...sent.filter((entry) => entry.kind === "find" && !known.has(entry.serverId)).map((entry) => ({ value: String(entry.serverId), label: `#${entry.serverId} (sent from here): ${entry.summary.replace(/^Find · /, "")}`, short: `find #${entry.serverId}` })),
+      ...snapshot.finds.map((find) => ({ value: String(find.id), label: `${find.catalogueNumber} · ${find.description.slice(0, 50)} (${FIND_STATUS_LABELS[find.status as FindStatus] ?? find.status})`, short: find.catalogueNumber })),
+    ];
+  }, [entries, sent, snapshot.finds]);
   const rejected = entries?.filter((entry) => entry.status === "rejected") ?? [];
   const conflicts = entries?.filter((entry) => entry.status === "conflict") ?? [];
 
@@ -282,6 +346,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
                   {entry.attempts ? ` · ${entry.attempts} attempt${entry.attempts > 1 ? "s" : ""}` : ""}
                 </p>
                 {entry.status === "rejected" && entry.message ? <p className="mt-1 font-medium text-danger">{entry.message}</p> : null}
+                {entry.status === "waiting" && entry.message && entry.message !== lastRun?.stopMessage ? <p className="mt-1 text-sm">{entry.message}</p> : null}
                 {entry.status === "conflict" && entry.current ? (
                   <ConflictChoice entry={entry} snapshot={snapshot} onChoose={(choice) => void resolve(entry, choice)} />
                 ) : confirmDelete === entry.id ? (
@@ -311,6 +376,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
             snapshot={snapshot}
             initial={editing.form}
             initialPhotos={editing.photos}
+            findChoices={findChoices}
             serverErrors={editing.fieldErrors}
             locked={editing.serverId !== undefined}
             editing
@@ -330,11 +396,11 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
             ))}
           </div>
           <div className="mt-4 rounded border border-line bg-panel p-4">
-            <EntryForm key={`${kind}-${formKey}`} kind={kind} snapshot={snapshot} initial={blankForm(kind, snapshot, new Date())} editing={false} onSave={(draft) => save(kind, draft, null)} />
+            <EntryForm key={`${kind}-${formKey}`} kind={kind} snapshot={snapshot} findChoices={findChoices} initial={blankForm(kind, snapshot, new Date())} editing={false} onSave={(draft) => save(kind, draft, null)} />
           </div>
         </section>
       ) : null}
-      {kinds.length === 0 ? <p className="mt-4">Your role on this project enters no field records (dive logs, readings, finds or sightings). The project's pages show what has been recorded.</p> : null}
+      {kinds.length === 0 ? <p className="mt-4">Your role on this project enters no field records (dive logs, readings, finds, sightings or dewatering records). The project's pages show what has been recorded.</p> : null}
 
       {sent.length > 0 ? (
         <section aria-labelledby="sent-heading" className="mt-6">

@@ -7,11 +7,18 @@ import type { FieldSnapshot } from "~/models/field-snapshot";
  * when the queue last sent something. IndexedDB outlives a reload, a closed tab and a phone
  * restart; a photo is kept as a Blob until it has been sent. public/offline.html reads the
  * "projects" store by name, so its name and key stay as they are.
+ *
+ * Entries, the sent list and the sending state belong to the person who made them (`userId`, from
+ * the page's data): another person signed in on the same phone never sees or sends them, and
+ * signing out clears that person's entries and kept project data (forgetUser).
  */
 
 export const FIELD_DB_NAME = "firmsand-field";
 
-export type EntryKind = "dive" | "reading" | "find" | "sighting" | "tube-fill" | "tube-status";
+export type EntryKind = "dive" | "reading" | "find" | "find-status" | "custody" | "sighting" | "tube-fill" | "tube-status" | "shift" | "jar-test" | "haul";
+
+/** A form's value naming a find made on this device and not yet sent: "queued:<its entry id>". */
+export const QUEUED_PREFIX = "queued:";
 
 export interface QueuedPhoto {
   /** Client id: the photo upload's Idempotency-Key. */
@@ -26,8 +33,16 @@ export interface QueuedPhoto {
 export interface QueueEntry {
   /** crypto.randomUUID(): the record's Idempotency-Key, so a retry never stores it twice. */
   id: string;
+  /** Who made it: only this person's page shows and sends it. */
+  userId: number;
   projectId: number;
   kind: EntryKind;
+  /**
+   * The queued entry whose record this one needs (a handover of a find made offline): sent after it,
+   * to the id the server gave it (`parentServerId` once known).
+   */
+  parent?: string;
+  parentServerId?: number;
   /** Sending order: entries go in the order they were made. */
   order: number;
   /** The device's clock when the entry was made, with its offset. */
@@ -37,14 +52,14 @@ export interface QueueEntry {
   /** The API's JSON body, checked with the server's schema when saved. */
   body: Record<string, unknown>;
   photos: QueuedPhoto[];
-  /** Set once the server has stored the record (a find whose photos are still to go). */
+  /** Set once the server has stored the record (a find, jar test or ticket whose photos are still to go). */
   serverId?: number;
   /**
    * waiting: to be sent; rejected: the server refused it (message says why), the user fixes it;
    * conflict: an edit of a record that changed on the server meanwhile (412), the user chooses.
    */
   status: "waiting" | "rejected" | "conflict";
-  /** An edit's If-Match: the record's version when the edit was made (a tube's status). */
+  /** An edit's If-Match: the record's version when the edit was made (a tube's or a find's status). */
   ifMatch?: string;
   /** The record as the server has it now, from the 412 answer, shown beside the edit. */
   current?: Record<string, unknown>;
@@ -55,12 +70,13 @@ export interface QueueEntry {
   /** The last attempt's outcome was unknown (no answer): the server may have stored it. */
   mayHaveReachedServer?: boolean;
   summary: string;
-  /** Safety notices the server answered with while a find's photos were still to go. */
+  /** Safety notices the server answered with while the record's photos were still to go. */
   notices?: string[];
 }
 
 export interface SentEntry {
   id: string;
+  userId: number;
   projectId: number;
   kind: EntryKind;
   summary: string;
@@ -74,6 +90,7 @@ export interface SentEntry {
 }
 
 export interface SyncState {
+  userId: number;
   projectId: number;
   lastSentAt?: string;
   lastAttemptAt?: string;
@@ -82,21 +99,29 @@ export interface SyncState {
 }
 
 interface FieldDb extends DBSchema {
-  projects: { key: number; value: { projectId: number; snapshot: FieldSnapshot; savedAt: string; project: { name: string } } };
-  queue: { key: string; value: QueueEntry; indexes: { byProject: number } };
-  sent: { key: string; value: SentEntry; indexes: { byProject: number } };
-  sync: { key: number; value: SyncState };
+  projects: { key: number; value: { projectId: number; userId?: number; snapshot: FieldSnapshot; savedAt: string; project: { name: string } } };
+  queue: { key: string; value: QueueEntry; indexes: { byProject: number; byOwner: [number, number] } };
+  sent: { key: string; value: SentEntry; indexes: { byProject: number; byOwner: [number, number] } };
+  sync: { key: [number, number]; value: SyncState };
 }
 
 let opened: Promise<IDBPDatabase<FieldDb>> | null = null;
 
 export function fieldDb(): Promise<IDBPDatabase<FieldDb>> {
-  opened ??= openDB<FieldDb>(FIELD_DB_NAME, 1, {
-    upgrade(db) {
-      db.createObjectStore("projects", { keyPath: "projectId" });
-      db.createObjectStore("queue", { keyPath: "id" }).createIndex("byProject", "projectId");
-      db.createObjectStore("sent", { keyPath: "id" }).createIndex("byProject", "projectId");
-      db.createObjectStore("sync", { keyPath: "projectId" });
+  opened ??= openDB<FieldDb>(FIELD_DB_NAME, 2, {
+    upgrade(db, oldVersion, _newVersion, transaction) {
+      if (oldVersion < 1) {
+        db.createObjectStore("projects", { keyPath: "projectId" });
+        db.createObjectStore("queue", { keyPath: "id" }).createIndex("byProject", "projectId");
+        db.createObjectStore("sent", { keyPath: "id" }).createIndex("byProject", "projectId");
+      }
+      // Version 2: entries belong to a person. Entries kept before have no owner and are claimed
+      // by the next person who opens their project's page with signal (claimUnowned); the
+      // sending state is kept per person and project.
+      transaction.objectStore("queue").createIndex("byOwner", ["userId", "projectId"]);
+      transaction.objectStore("sent").createIndex("byOwner", ["userId", "projectId"]);
+      if (db.objectStoreNames.contains("sync")) db.deleteObjectStore("sync");
+      db.createObjectStore("sync", { keyPath: ["userId", "projectId"] });
     },
     // Another tab holds an older version open: let it go so this one can open.
     blocking() {
@@ -121,21 +146,60 @@ export function onChange(listener: (projectId: number) => void): () => void {
 
 export async function saveSnapshot(snapshot: FieldSnapshot): Promise<void> {
   const db = await fieldDb();
-  await db.put("projects", { projectId: snapshot.project.id, snapshot, savedAt: new Date().toISOString(), project: { name: snapshot.project.name } });
+  await db.put("projects", { projectId: snapshot.project.id, userId: snapshot.user.id, snapshot, savedAt: new Date().toISOString(), project: { name: snapshot.project.name } });
 }
 
 export async function keptSnapshot(projectId: number): Promise<{ snapshot: FieldSnapshot; savedAt: string } | undefined> {
-  return (await fieldDb()).get("projects", projectId);
+  const kept = await (await fieldDb()).get("projects", projectId);
+  // A copy from before entries were kept per person carries no user: it cannot say whose it is.
+  return kept?.snapshot.user ? kept : undefined;
 }
 
-export async function queuedEntries(projectId: number): Promise<QueueEntry[]> {
-  const entries = await (await fieldDb()).getAllFromIndex("queue", "byProject", projectId);
+/** Who owns the queue, and for which project. */
+export interface Owner {
+  userId: number;
+  projectId: number;
+}
+
+export async function queuedEntries(owner: Owner): Promise<QueueEntry[]> {
+  const entries = await (await fieldDb()).getAllFromIndex("queue", "byOwner", [owner.userId, owner.projectId]);
   return entries.sort((a, b) => a.order - b.order);
 }
 
-export async function sentEntries(projectId: number, limit = 20): Promise<SentEntry[]> {
-  const entries = await (await fieldDb()).getAllFromIndex("sent", "byProject", projectId);
+/** One queued entry by its id (a handover's find made on this device). */
+export async function queuedEntry(id: string): Promise<QueueEntry | undefined> {
+  return (await fieldDb()).get("queue", id);
+}
+
+/** A sent entry by its id: the server id of a record the queue sent. */
+export async function sentEntry(id: string): Promise<SentEntry | undefined> {
+  return (await fieldDb()).get("sent", id);
+}
+
+/** How many entries this person has waiting on this device, in every project (sign-out asks first). */
+export async function countUnsent(userId: number): Promise<number> {
+  const all = await (await fieldDb()).getAll("queue");
+  return all.filter((entry) => entry.userId === userId).length;
+}
+
+export async function sentEntries(owner: Owner, limit = 20): Promise<SentEntry[]> {
+  const entries = await (await fieldDb()).getAllFromIndex("sent", "byOwner", [owner.userId, owner.projectId]);
   return entries.sort((a, b) => b.sentAt.localeCompare(a.sentAt)).slice(0, limit);
+}
+
+/**
+ * Entries kept before entries had owners (store version 1) are given to the person now signed in
+ * on this project's page, as they were made on this device under the sign-in it had then.
+ */
+export async function claimUnowned(owner: Owner): Promise<void> {
+  const db = await fieldDb();
+  const transaction = db.transaction(["queue", "sent"], "readwrite");
+  for (const store of ["queue", "sent"] as const) {
+    for (const entry of await transaction.objectStore(store).index("byProject").getAll(owner.projectId)) {
+      if (entry.userId === undefined) await transaction.objectStore(store).put({ ...entry, userId: owner.userId });
+    }
+  }
+  await transaction.done;
 }
 
 export async function putEntry(entry: QueueEntry): Promise<void> {
@@ -154,24 +218,29 @@ export async function markSent(entry: QueueEntry, sent: SentEntry): Promise<void
   const transaction = db.transaction(["queue", "sent", "sync"], "readwrite");
   await transaction.objectStore("queue").delete(entry.id);
   await transaction.objectStore("sent").put(sent);
-  const state = (await transaction.objectStore("sync").get(entry.projectId)) ?? { projectId: entry.projectId };
+  const key: [number, number] = [entry.userId, entry.projectId];
+  const state = (await transaction.objectStore("sync").get(key)) ?? { userId: entry.userId, projectId: entry.projectId };
   await transaction.objectStore("sync").put({ ...state, lastSentAt: sent.sentAt });
+  // Entries that need this record (a handover of this find) keep its server id.
+  for (const dependent of await transaction.objectStore("queue").index("byOwner").getAll(key)) {
+    if (dependent.parent === entry.id) await transaction.objectStore("queue").put({ ...dependent, parentServerId: sent.serverId });
+  }
   // The sent list is a recent history, not an archive: the server holds the records.
-  const older = (await transaction.objectStore("sent").index("byProject").getAll(entry.projectId)).sort((a, b) => b.sentAt.localeCompare(a.sentAt)).slice(50);
+  const older = (await transaction.objectStore("sent").index("byOwner").getAll(key)).sort((a, b) => b.sentAt.localeCompare(a.sentAt)).slice(50);
   for (const old of older) await transaction.objectStore("sent").delete(old.id);
   await transaction.done;
   announceChange(entry.projectId);
 }
 
-export async function syncState(projectId: number): Promise<SyncState> {
-  return (await (await fieldDb()).get("sync", projectId)) ?? { projectId };
+export async function syncState(owner: Owner): Promise<SyncState> {
+  return (await (await fieldDb()).get("sync", [owner.userId, owner.projectId])) ?? { ...owner };
 }
 
-export async function updateSyncState(projectId: number, change: Partial<SyncState>): Promise<void> {
+export async function updateSyncState(owner: Owner, change: Partial<SyncState>): Promise<void> {
   const db = await fieldDb();
   const transaction = db.transaction("sync", "readwrite");
-  const state = (await transaction.store.get(projectId)) ?? { projectId };
-  await transaction.store.put({ ...state, ...change, projectId });
+  const state = (await transaction.store.get([owner.userId, owner.projectId])) ?? { ...owner };
+  await transaction.store.put({ ...state, ...change, userId: owner.userId, projectId: owner.projectId });
   await transaction.done;
 }
 
@@ -179,4 +248,31 @@ export async function updateSyncState(projectId: number, change: Partial<SyncSta
 export async function nextOrder(): Promise<number> {
   const all = await (await fieldDb()).getAll("queue");
   return Math.max(Date.now(), ...all.map((entry) => entry.order + 1));
+}
+
+/**
+ * Signing out: this person's waiting entries, sent list, sending state and kept project data
+ * leave the device, in one transaction. Returns how many waiting entries were removed.
+ */
+export async function forgetUser(userId: number): Promise<number> {
+  const db = await fieldDb();
+  const transaction = db.transaction(["projects", "queue", "sent", "sync"], "readwrite");
+  let removed = 0;
+  for (const entry of await transaction.objectStore("queue").getAll()) {
+    if (entry.userId === userId) {
+      await transaction.objectStore("queue").delete(entry.id);
+      removed += 1;
+    }
+  }
+  for (const entry of await transaction.objectStore("sent").getAll()) {
+    if (entry.userId === userId) await transaction.objectStore("sent").delete(entry.id);
+  }
+  for (const state of await transaction.objectStore("sync").getAll()) {
+    if (state.userId === userId) await transaction.objectStore("sync").delete([state.userId, state.projectId]);
+  }
+  for (const kept of await transaction.objectStore("projects").getAll()) {
+    if (kept.userId === userId || kept.snapshot.user === undefined) await transaction.objectStore("projects").delete(kept.projectId);
+  }
+  await transaction.done;
+  return removed;
 }

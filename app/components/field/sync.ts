@@ -1,5 +1,5 @@
-import { ENTRY_LABELS } from "./entries";
-import { markSent, putEntry, queuedEntries, updateSyncState, type QueueEntry, type SentEntry } from "./store";
+import { ENTRY_LABELS, fieldOf, findTargetOf } from "./entries";
+import { markSent, putEntry, queuedEntries, queuedEntry, sentEntry, updateSyncState, type Owner, type QueueEntry, type SentEntry } from "./store";
 
 /**
  * Sending the queue: entries go one at a time in the order they were made, each with its client
@@ -11,8 +11,12 @@ import { markSent, putEntry, queuedEntries, updateSyncState, type QueueEntry, ty
  * - 401: the session has ended; nothing is marked, the sending stops until the user signs in.
  * - any other 4xx: refused; the entry stays, marked with the server's message, for the user to fix.
  * - 5xx, 408, 429 or no answer at all: it stays waiting and the sending stops (tried again later).
- * A find goes in two steps (the find, then each photo, each photo with its own key); the find's id
- * is kept on the entry once stored, so a retry sends only what is still missing.
+ * A record with photos (a find, a jar test, a haul ticket) goes in two steps: the record, then each
+ * photo to the record's id, each photo with its own key; the record's id is kept on the entry once
+ * stored, so a retry sends only what is still missing and never a second record or photo.
+ * A handover of a find made on this device waits for that find: it goes to the id the server gave
+ * the find, and waits (without holding up the rest) while the find has not been stored.
+ * An edit (a tube's or a find's status) is a PATCH with If-Match; 412 leaves it for the user to decide.
  */
 
 export const CLOCK_WARNING_MS = 5 * 60_000;
@@ -74,12 +78,12 @@ async function send(url: string, key: string | null, init: { json?: unknown; for
   return { status: response.status, body, clockOffsetMs };
 }
 
-/** The server's refusal in words, and per field. */
-function refusalOf(answer: Answer): { message: string; fieldErrors: Record<string, string> } {
+/** The server's refusal in words, and per form field. */
+function refusalOf(answer: Answer, entry?: QueueEntry): { message: string; fieldErrors: Record<string, string> } {
   const errors = Array.isArray(answer.body?.errors) ? (answer.body.errors as Array<{ field?: string; row?: number; message?: string }>) : [];
   const fieldErrors: Record<string, string> = {};
   for (const error of errors) {
-    if (error.field && error.message) fieldErrors[error.field.split(".")[0]] ??= error.message;
+    if (error.field && error.message) fieldErrors[entry ? fieldOf(entry.kind, error.field.split("."), entry.form) : error.field.split(".")[0]] ??= error.message;
   }
   const message = errors.map((error) => (error.field ? `${error.field}: ${error.message}` : error.message)).filter(Boolean).join(" ") || `The server refused it (${answer.status}).`;
   return { message, fieldErrors };
@@ -101,28 +105,46 @@ export function noticesOf(kind: QueueEntry["kind"], body: Record<string, unknown
 
 function recordIdOf(kind: QueueEntry["kind"], body: Record<string, unknown> | null): number | undefined {
   if (!body) return undefined;
-  const id = kind === "dive" ? (body.dive as { id?: number } | undefined)?.id : kind === "tube-fill" ? (body.tube as { fills?: Array<{ id: number }> } | undefined)?.fills?.reduce((last, fill) => Math.max(last, fill.id), 0) : body.id;
+  const nested = (key: string) => (body[key] as { id?: number } | undefined)?.id;
+  const id = kind === "dive" ? nested("dive")
+    : kind === "haul" ? nested("haul")
+    : kind === "tube-status" ? nested("tube")
+    : kind === "find-status" ? nested("find")
+    : kind === "tube-fill" ? (body.tube as { fills?: Array<{ id: number }> } | undefined)?.fills?.reduce((last, fill) => Math.max(last, fill.id), 0)
+    : body.id;
   return typeof id === "number" ? id : undefined;
 }
 
-/** Where each new record is posted (a fill goes to its tube). */
-function pathOf(entry: QueueEntry): string {
+/** Where each record goes (a fill to its tube, a handover to its find: `findId` resolved at sending). */
+function pathOf(entry: QueueEntry, findId?: number): string {
   switch (entry.kind) {
     case "dive": return "dives";
     case "reading": return "water-quality/readings";
     case "find": return "finds";
+    case "find-status": return `finds/${String(entry.form.find)}`;
+    case "custody": return `finds/${findId}/custody`;
     case "sighting": return "wildlife/sightings";
     case "tube-fill": return `dewatering/tubes/${String(entry.form.tube)}/fills`;
     case "tube-status": return `dewatering/tubes/${String(entry.form.tube)}`;
+    case "shift": return "dewatering/shifts";
+    case "jar-test": return "dewatering/jar-tests";
+    case "haul": return "hauls";
   }
 }
 
+/** Where a stored record's photos go. */
+function photoPathOf(entry: QueueEntry, recordId: number): string {
+  return entry.kind === "jar-test" ? `dewatering/jar-tests/${recordId}/photos` : entry.kind === "haul" ? `hauls/${recordId}/photos` : `finds/${recordId}/photos`;
+}
+
+const RECORD_NOUN: Partial<Record<QueueEntry["kind"], string>> = { find: "Find", "jar-test": "Jar test", haul: "Haul ticket" };
+
 /**
- * A tube's status changed offline: a PATCH with If-Match (the tube's version when the change was
- * made). A 412 means the tube changed on the server meanwhile: the entry waits for the user to
- * choose between the change and the tube as it is now (the answer's `current`).
+ * A status changed offline (a tube's, a find's): a PATCH with If-Match (the record's version when
+ * the change was made). A 412 means the record changed on the server meanwhile: the entry waits for
+ * the user to choose between the change and the record as it is now (the answer's `current`).
  */
-async function sendTubeStatus(entry: QueueEntry, noteClock: (offsetMs: number) => void): Promise<SentEntry | QueueEntry> {
+async function sendEdit(entry: QueueEntry, noteClock: (offsetMs: number) => void): Promise<SentEntry | QueueEntry> {
   const working: QueueEntry = { ...entry, attempts: entry.attempts + 1, lastAttemptAt: new Date().toISOString() };
   let answer: Answer;
   try {
@@ -133,28 +155,66 @@ async function sendTubeStatus(entry: QueueEntry, noteClock: (offsetMs: number) =
   }
   if (answer.clockOffsetMs !== undefined) noteClock(answer.clockOffsetMs);
   if (answer.status === 412 && answer.body?.current) {
-    const conflicted: QueueEntry = { ...working, status: "conflict", current: answer.body.current as Record<string, unknown>, message: refusalOf(answer).message };
+    // The server's sentence alone: the header it names (If-Match) means nothing to the user.
+    const errors = Array.isArray(answer.body.errors) ? (answer.body.errors as Array<{ message?: string }>) : [];
+    const message = errors.map((error) => error.message).filter(Boolean).join(" ") || "The record was changed on the server since this change was made.";
+    const conflicted: QueueEntry = { ...working, status: "conflict", current: answer.body.current as Record<string, unknown>, message };
     await putEntry(conflicted);
     return conflicted;
   }
   if (answer.status >= 400) {
-    const refused: QueueEntry = { ...working, status: "rejected", ...refusalOf(answer) };
+    const refused: QueueEntry = { ...working, status: "rejected", ...refusalOf(answer, entry) };
     await putEntry(refused);
     return refused;
   }
-  const tube = answer.body?.tube as { id?: number } | undefined;
   const sent: SentEntry = {
-    id: entry.id, projectId: entry.projectId, kind: entry.kind, summary: entry.summary, capturedAt: entry.capturedAt,
-    sentAt: new Date().toISOString(), serverId: tube?.id ?? Number(entry.form.tube), notices: noticesOf(entry.kind, answer.body), replayed: false,
+    id: entry.id, userId: entry.userId, projectId: entry.projectId, kind: entry.kind, summary: entry.summary, capturedAt: entry.capturedAt,
+    sentAt: new Date().toISOString(), serverId: recordIdOf(entry.kind, answer.body) ?? Number(entry.kind === "tube-status" ? entry.form.tube : entry.form.find),
+    notices: noticesOf(entry.kind, answer.body), replayed: false,
   };
   await markSent(entry, sent);
   return sent;
 }
 
+/** Not sent in this run: the entry waits for the record it needs (a find not yet stored). */
+class Deferred extends Error {}
+
+/**
+ * The find a handover goes to: a find the server has, or a find made on this device once the server
+ * has stored it (from the entry, or the sent list). Throws Deferred while that find waits, and
+ * refuses the handover when its find was deleted from the queue unsent.
+ */
+async function findIdFor(entry: QueueEntry): Promise<number | QueueEntry> {
+  const target = findTargetOf(entry.form);
+  if (target && "findId" in target) return target.findId;
+  if (entry.parentServerId !== undefined) return entry.parentServerId;
+  const parentId = entry.parent ?? (target && "entryId" in target ? target.entryId : undefined);
+  if (parentId === undefined) return { ...entry, status: "rejected", message: "The handover names no find: choose the find.", fieldErrors: { find: "choose the find" } };
+  const parent = await queuedEntry(parentId);
+  const serverId = parent?.serverId ?? (await sentEntry(parentId))?.serverId;
+  if (serverId !== undefined) return serverId;
+  if (parent) {
+    const message = parent.status === "waiting" ? "Waits for its find to be sent first." : "Waits for its find, which is not stored yet: deal with the find's entry first.";
+    if (entry.message !== message) await putEntry({ ...entry, message });
+    throw new Deferred();
+  }
+  return { ...entry, status: "rejected", message: "The find this handover is for was deleted from the queue before it was sent: choose the find again.", fieldErrors: { find: "choose the find again" } };
+}
+
 /** Sends one entry; returns the sent record, or the entry marked refused. Throws Unsent to stop the run. */
 async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => void): Promise<SentEntry | QueueEntry> {
-  if (entry.kind === "tube-status") return sendTubeStatus(entry, noteClock);
+  if (entry.kind === "tube-status" || entry.kind === "find-status") return sendEdit(entry, noteClock);
   const base = `/api/projects/${entry.projectId}`;
+  let findId: number | undefined;
+  if (entry.kind === "custody") {
+    const resolved = await findIdFor(entry);
+    if (typeof resolved !== "number") {
+      await putEntry(resolved);
+      return resolved;
+    }
+    findId = resolved;
+    if (entry.parentServerId !== resolved && entry.parent !== undefined) await putEntry({ ...entry, parentServerId: resolved });
+  }
   const attempted = { ...entry, attempts: entry.attempts + 1, lastAttemptAt: new Date().toISOString() };
   let working: QueueEntry = attempted;
   let notices: string[] = [];
@@ -163,10 +223,10 @@ async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => voi
     if (working.serverId === undefined) {
       // Marked before the request: if no answer comes, the server may have stored it (the key makes a retry safe).
       await putEntry({ ...working, mayHaveReachedServer: true });
-      const answer = await send(`${base}/${pathOf(entry)}`, entry.id, { json: entry.body });
+      const answer = await send(`${base}/${pathOf(entry, findId)}`, entry.id, { json: entry.body });
       if (answer.clockOffsetMs !== undefined) noteClock(answer.clockOffsetMs);
       if (answer.status >= 400) {
-        const refused: QueueEntry = { ...working, status: "rejected", ...refusalOf(answer), mayHaveReachedServer: false };
+        const refused: QueueEntry = { ...working, status: "rejected", ...refusalOf(answer, entry), mayHaveReachedServer: false };
         await putEntry(refused);
         return refused;
       }
@@ -181,15 +241,15 @@ async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => voi
       if (photo.sentId !== undefined) continue;
       const form = new FormData();
       form.append("file", photo.blob, photo.name);
-      const answer = await send(`${base}/finds/${working.serverId}/photos`, photo.id, { form });
+      const answer = await send(`${base}/${photoPathOf(working, working.serverId!)}`, photo.id, { form });
       if (answer.status >= 400) {
         const { message, fieldErrors } = refusalOf(answer);
-        const refused: QueueEntry = { ...working, status: "rejected", message: `Find ${working.serverId} is stored; its photo "${photo.name}" was refused: ${message}`, fieldErrors };
+        const refused: QueueEntry = { ...working, status: "rejected", message: `${RECORD_NOUN[entry.kind] ?? "The record"} #${working.serverId} is stored; its photo "${photo.name}" was refused: ${message}`, fieldErrors };
         await putEntry(refused);
         return refused;
       }
       const photos = [...working.photos];
-      photos[index] = { ...photo, sentId: recordIdOf("find", answer.body) ?? -1 };
+      photos[index] = { ...photo, sentId: typeof answer.body?.id === "number" ? answer.body.id : -1 };
       working = { ...working, photos };
       await putEntry(working);
     }
@@ -200,7 +260,7 @@ async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => voi
     throw error;
   }
   const sent: SentEntry = {
-    id: entry.id, projectId: entry.projectId, kind: entry.kind, summary: entry.summary, capturedAt: entry.capturedAt,
+    id: entry.id, userId: entry.userId, projectId: entry.projectId, kind: entry.kind, summary: entry.summary, capturedAt: entry.capturedAt,
     sentAt: new Date().toISOString(), serverId: working.serverId!, notices: working.notices ?? notices, replayed,
   };
   await markSent(entry, sent);
@@ -210,22 +270,26 @@ async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => voi
 let running: Promise<SyncReport> | null = null;
 
 /**
- * Sends every waiting entry of the project, in order. One run at a time in this tab, and one per
- * project across this device's tabs (Web Locks), so two tabs never send the same entry at once.
+ * Sends every waiting entry of this person in the project, in order. One run at a time in this tab,
+ * and one per project across this device's tabs (Web Locks), so two tabs never send the same entry at once.
  */
-export function sendQueue(projectId: number, onProgress: (report: SyncReport) => void = () => {}): Promise<SyncReport> {
+export function sendQueue(owner: Owner, onProgress: (report: SyncReport) => void = () => {}): Promise<SyncReport> {
+  const { projectId } = owner;
   running ??= (async () => {
     const run = async () => {
       const report: SyncReport = { sent: [], rejected: [] };
       let clockOffsetMs: number | undefined;
-      const entries = (await queuedEntries(projectId)).filter((entry) => entry.status === "waiting");
-      await updateSyncState(projectId, { lastAttemptAt: new Date().toISOString() });
-      for (const entry of entries) {
+      const entries = (await queuedEntries(owner)).filter((entry) => entry.status === "waiting");
+      await updateSyncState(owner, { lastAttemptAt: new Date().toISOString() });
+      for (const listed of entries) {
         try {
+          // Read again: sending an earlier entry may have given this one its find's id.
+          const entry = (await queuedEntry(listed.id)) ?? listed;
           const outcome = await sendEntry(entry, (offset) => (clockOffsetMs = offset));
           if ("sentAt" in outcome) report.sent.push(outcome);
           else report.rejected.push(outcome);
         } catch (error) {
+          if (error instanceof Deferred) continue;
           if (!(error instanceof Unsent)) throw error;
           report.stoppedBy = error.reason;
           report.stopMessage = error.message;
@@ -234,7 +298,7 @@ export function sendQueue(projectId: number, onProgress: (report: SyncReport) =>
           onProgress(report);
         }
       }
-      if (clockOffsetMs !== undefined) await updateSyncState(projectId, { clockOffsetMs });
+      if (clockOffsetMs !== undefined) await updateSyncState(owner, { clockOffsetMs });
       return report;
     };
     try {
@@ -251,7 +315,7 @@ export function describeKind(entry: { kind: QueueEntry["kind"] }): string {
 }
 
 /** Asks the server for its clock (the health check's Date header) when there is nothing to send. */
-export async function checkClock(projectId: number): Promise<number | undefined> {
+export async function checkClock(owner: Owner): Promise<number | undefined> {
   const started = Date.now();
   try {
     const response = await fetch("/healthz", { method: "GET", cache: "no-store" });
@@ -260,7 +324,7 @@ export async function checkClock(projectId: number): Promise<number | undefined>
     const header = response.headers.get("Date");
     if (!header) return undefined;
     const offset = Date.parse(header) + 500 - (started + Date.now()) / 2;
-    await updateSyncState(projectId, { clockOffsetMs: offset });
+    await updateSyncState(owner, { clockOffsetMs: offset });
     return offset;
   } catch {
     return undefined;

@@ -1,11 +1,14 @@
 import { z } from "zod";
-import { CUSTODY_PURPOSES, FIND_CATEGORIES } from "../../../shared/finds/finds";
+import { CUSTODY_PURPOSES, FIND_CATEGORIES, FIND_STATUSES } from "../../../shared/finds/finds";
 import { TUBE_STATUSES } from "../../../shared/dewatering/tubes";
+import { DEFAULT_JAR_VOLUME_ML, JAR_CLARITIES } from "../../../shared/dewatering/jar-test";
+import { flowUnitSchema } from "../../../shared/units";
 import { TURBIDITY_UNITS } from "../../../shared/water-quality/turbidity-rule";
 
 /**
- * What a field record must hold to be stored: the dive log, turbidity readings, finds and their
- * custody handovers, wildlife sightings, a geotextile tube's status and fills. The server's models check every request with these, and
+ * What a field record must hold to be stored: the dive log, turbidity readings, finds, their status
+ * and custody handovers, wildlife sightings, a geotextile tube's status and fills, the dewatering
+ * shift log, jar tests and haul tickets. The server's models check every request with these, and
  * the field page checks an entry with the same schemas before it joins the offline queue, so the
  * device refuses what the server would (browser-safe: zod and shared constants only).
  */
@@ -146,4 +149,126 @@ export const fillInputSchema = z.object({
   slurryVolume: z.object({ value: z.number().finite().positive("the slurry volume is more than 0").max(1e8), unit: z.enum(["gal", "m3"], { message: "the volume unit is gal or m3" }) }).nullish(),
   /** Estimated dry solids, project bulk mass unit (short tons or tonnes). */
   drySolids: z.number().finite().positive("the dry solids are more than 0").max(100_000),
+});
+
+// ——— Finds' status.
+
+export const statusInputSchema = z
+  .object({
+    status: z.enum(FIND_STATUSES, { message: `the status is one of ${FIND_STATUSES.join(", ")}` }),
+    accessionNumber: optionalText(60),
+    note: optionalText(2000),
+  })
+  .superRefine((input, context) => {
+    if (input.status === "curated" && !input.accessionNumber) context.addIssue({ code: "custom", path: ["accessionNumber"], message: "a curated find carries the lab's accession number" });
+    if (input.status === "released" && !input.note) context.addIssue({ code: "custom", path: ["note"], message: "say why the find was released and where it went" });
+  });
+
+// ——— Dewatering: the shift log, jar tests, haul tickets.
+
+export const clockSchema = z.string().trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
+const text = (max: number) => z.string().trim().max(max);
+const idempotencyKey = z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish();
+
+export const solidsSpecificGravitySchema = z.number().finite().gt(1, "solids are heavier than water: a specific gravity above 1").max(3.5, "a solids specific gravity above 3.5 is not sediment");
+
+export const shiftInputSchema = z
+  .object({
+    date: workDateSchema,
+    start: clockSchema,
+    end: clockSchema,
+    /** Hours the slurry pump ran; the whole shift when not given. */
+    pumpHours: z.number().finite().positive("pump hours are more than 0").max(24).nullish(),
+    slurryFlow: z.object({
+      value: z.number().finite().positive("the slurry flow is more than 0").max(1_000_000),
+      unit: z.enum(flowUnitSchema.options, { message: "the flow unit is gpm or m3/h" }),
+    }).nullish(),
+    /** Instead of the flow: the flow meter's totaliser at the start and end of the shift. */
+    totaliser: z.object({
+      start: z.number().finite().min(0, "a totaliser reading is 0 or more"),
+      end: z.number().finite().min(0, "a totaliser reading is 0 or more"),
+      unit: z.enum(["gal", "m3"], { message: "the totaliser unit is gal or m3" }),
+    }).nullish(),
+    solidsByWeight: z.number().finite().gt(0, "solids by weight is a share above 0").max(1, "solids by weight is a share of 0 to 1 (0.20 for 20 %)").nullish(),
+    slurrySpecificGravity: z.number().finite().gt(1, "a slurry's specific gravity is above water's, 1").max(3).nullish(),
+    /** The project's setting when not given. */
+    solidsSpecificGravity: solidsSpecificGravitySchema.nullish(),
+    polymer: z
+      .object({
+        product: text(120).min(1, "name the polymer product"),
+        lot: text(60).nullish(),
+        doseMgPerL: z.number().finite().positive("the dose is more than 0 mg/L").max(10_000),
+        stockPercent: z.number().finite().positive("the stock concentration is more than 0 %").max(100, "a stock concentration is at most 100 %"),
+      })
+      .nullish(),
+    tubes: z.array(text(60).min(1)).max(50).default([]),
+    notes: z.string().max(4000).default(""),
+    idempotencyKey,
+  })
+  .superRefine((input, context) => {
+    const span = minutesOf(input.end) - minutesOf(input.start);
+    if (span <= 0) {
+      context.addIssue({ code: "custom", path: ["end"], message: "the shift ends after it starts (log a shift past midnight as two)" });
+      return;
+    }
+    if ((input.slurryFlow == null) === (input.totaliser == null)) {
+      context.addIssue({ code: "custom", path: ["slurryFlow"], message: "give the slurry flow, or the totaliser readings at the start and end (one of the two)" });
+    }
+    if (input.totaliser && input.totaliser.end <= input.totaliser.start) {
+      context.addIssue({ code: "custom", path: ["totaliser", "end"], message: "the totaliser reads more at the end of the shift than at its start" });
+    }
+    if (input.pumpHours != null && input.pumpHours > span / 60 + 1e-9) {
+      context.addIssue({ code: "custom", path: ["pumpHours"], message: `the pump ran at most the shift's ${Math.round((span / 60) * 100) / 100} hours` });
+    }
+    if (input.solidsByWeight != null && input.slurrySpecificGravity != null) {
+      context.addIssue({ code: "custom", path: ["slurrySpecificGravity"], message: "give solids by weight or the slurry's specific gravity, not both" });
+    }
+    if (input.slurrySpecificGravity != null && input.solidsSpecificGravity != null && input.slurrySpecificGravity >= input.solidsSpecificGravity) {
+      context.addIssue({ code: "custom", path: ["slurrySpecificGravity"], message: "a slurry is lighter than its solids: its specific gravity is below the solids'" });
+    }
+  });
+const jarNtu = z.number().finite().min(0, "a turbidity is 0 NTU or more").max(100_000, "a turbidity above 100,000 NTU is not a reading");
+
+export const jarInputSchema = z.object({
+  doseMgPerL: z.number().finite().positive("the dose tried is more than 0 mg/L").max(10_000, "a dose above 10,000 mg/L is not a polymer dose"),
+  settlingMinutes: z.number().finite().positive("the settling time is more than 0 minutes").max(1440, "a settling time is at most 1,440 minutes (a day)"),
+  turbidityNtu: jarNtu.nullish(),
+  clarity: z.enum(JAR_CLARITIES, { message: `the clarity is one of ${JAR_CLARITIES.join(", ")}` }),
+});
+
+export const jarTestInputSchema = z.object({
+  date: workDateSchema,
+  time: clockSchema.nullish(),
+  /** Where the raw sample was drawn (the main line at the manifold, a tube's inlet…). */
+  sampleSource: text(200).default(""),
+  polymer: z.object({
+    product: text(120).min(1, "name the polymer product"),
+    lot: text(60).nullish(),
+    /** The dilute stock made up for the bench, % weight per volume (0.1 % = 1 g/L). */
+    benchStockPercent: z.number().finite().positive("the bench stock concentration is more than 0 %").max(10, "a bench stock above 10 % is not a dilute stock"),
+  }),
+  jarVolumeMl: z.number().finite().min(100, "a jar holds at least 100 mL").max(4000, "a jar holds at most 4,000 mL").default(DEFAULT_JAR_VOLUME_ML),
+  raw: z.object({ turbidityNtu: jarNtu.nullish() }).nullish(),
+  jars: z.array(jarInputSchema, { message: "give the dosed jars as a list" }).min(1, "give at least one dosed jar").max(8, "at most 8 dosed jars in one test"),
+  chosenDoseMgPerL: z.number().finite().positive("the dose chosen is more than 0 mg/L").max(10_000, "a dose above 10,000 mg/L is not a polymer dose").nullish(),
+  notes: z.string().max(4000).default(""),
+  idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish(),
+});
+/** The load as the ticket gives it: a scale's wet mass or the truck body's volume. */
+export const LOAD_UNITS = ["short-ton", "t", "yd3", "m3"] as const;
+
+export const haulInputSchema = z.object({
+  date: workDateSchema,
+  ticketNumber: text(60).min(1, "give the ticket number"),
+  truck: text(60).min(1, "name the truck"),
+  /** The site's name or id. */
+  site: z.union([text(120).min(1, "choose the destination"), z.number().int().positive()]),
+  load: z.object({
+    value: z.number().finite().positive("the load is more than 0").max(200, "a truck load over 200 is not one truck"),
+    unit: z.enum(LOAD_UNITS, { message: "the load is in short-ton or t (scale ticket), or yd3 or m3 (truck body)" }),
+  }),
+  /** Cake solids by weight of this load, 0–1, from a sample; the project default when not given. */
+  cakeSolidsByWeight: z.number().finite().gt(0, "cake solids are a share above 0").max(1, "cake solids are a share of 0 to 1 (0.30 for 30 %)").nullish(),
+  notes: z.string().max(4000).default(""),
+  idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish(),
 });
