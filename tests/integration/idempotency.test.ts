@@ -214,6 +214,23 @@ describe("the Idempotency-Key header", () => {
   });
 });
 
+describe("the entry's author (Firmsand-Entry-User)", () => {
+  const sighting = { species: "Manatee", seenAt: "2026-11-20T10:00:00-05:00", distance: 777, observer: "Ned Carrow" };
+  const post = (author: number) =>
+    send(sightingsAction as never, "first", `${base()}/wildlife/sightings`, {}, JSON.stringify(sighting), { "Content-Type": "application/json", "Idempotency-Key": randomUUID(), "Firmsand-Entry-User": String(author) });
+
+  it("refuses an entry made on the device by another account than the one signed in (409 naming the header), storing nothing", async () => {
+    const before = await WildlifeSighting.count({ where: { projectId } });
+    const refused = await post(users.get("second")!);
+    expect(refused.status).toBe(409);
+    expect(((await refused.json()) as { errors: Array<{ field: string }> }).errors[0].field).toBe("Firmsand-Entry-User");
+    expect(await WildlifeSighting.count({ where: { projectId } })).toBe(before);
+    // The author's own entry goes through.
+    expect((await post(users.get("first")!)).status).toBe(201);
+    expect(await WildlifeSighting.count({ where: { projectId } })).toBe(before + 1);
+  });
+});
+
 describe("If-Match on an edit made offline", () => {
   const patchTube = async (who: Who, id: number, status: string, ifMatch?: string) => {
     const request = await requestAs(users.get(who)!, `${base()}/dewatering/tubes/${id}`, {

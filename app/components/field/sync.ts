@@ -43,7 +43,10 @@ class Unsent extends Error {
   }
 }
 
-async function send(url: string, key: string | null, init: { json?: unknown; form?: FormData; method?: "POST" | "PATCH"; ifMatch?: string }): Promise<Answer> {
+/** Names the entry's author to the server, which refuses the entry under another account (app/lib/api/access.server.ts). */
+const ENTRY_USER_HEADER = "Firmsand-Entry-User";
+
+async function send(url: string, key: string | null, init: { userId: number; json?: unknown; form?: FormData; method?: "POST" | "PATCH"; ifMatch?: string }): Promise<Answer> {
   const started = Date.now();
   let response: Response;
   try {
@@ -52,6 +55,7 @@ async function send(url: string, key: string | null, init: { json?: unknown; for
       credentials: "same-origin",
       headers: {
         Accept: "application/json",
+        [ENTRY_USER_HEADER]: String(init.userId),
         ...(key !== null ? { "Idempotency-Key": key } : {}),
         ...(init.ifMatch !== undefined ? { "If-Match": `"${init.ifMatch}"` } : {}),
         ...(init.json !== undefined ? { "Content-Type": "application/json" } : {}),
@@ -72,6 +76,9 @@ async function send(url: string, key: string | null, init: { json?: unknown; for
     body = null;
   }
   if (response.status === 401) throw new Unsent("signed-out", "You are signed out: sign in again, then send the queue.");
+  if (response.status === 409 && Array.isArray(body?.errors) && (body.errors as Array<{ field?: string }>).some((error) => error.field === ENTRY_USER_HEADER)) {
+    throw new Unsent("signed-out", "Another account is signed in on this device: these entries wait for the person who made them to sign in.");
+  }
   if (response.status >= 500 || response.status === 408 || response.status === 429) {
     throw new Unsent("server", `The server could not take the entry just now (${response.status}); it waits and is tried again.`);
   }
@@ -148,7 +155,7 @@ async function sendEdit(entry: QueueEntry, noteClock: (offsetMs: number) => void
   const working: QueueEntry = { ...entry, attempts: entry.attempts + 1, lastAttemptAt: new Date().toISOString() };
   let answer: Answer;
   try {
-    answer = await send(`/api/projects/${entry.projectId}/${pathOf(entry)}`, null, { method: "PATCH", json: entry.body, ifMatch: entry.ifMatch });
+    answer = await send(`/api/projects/${entry.projectId}/${pathOf(entry)}`, null, { userId: entry.userId, method: "PATCH", json: entry.body, ifMatch: entry.ifMatch });
   } catch (error) {
     if (error instanceof Unsent) await putEntry({ ...working, status: "waiting", message: error.message });
     throw error;
@@ -223,7 +230,7 @@ async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => voi
     if (working.serverId === undefined) {
       // Marked before the request: if no answer comes, the server may have stored it (the key makes a retry safe).
       await putEntry({ ...working, mayHaveReachedServer: true });
-      const answer = await send(`${base}/${pathOf(entry, findId)}`, entry.id, { json: entry.body });
+      const answer = await send(`${base}/${pathOf(entry, findId)}`, entry.id, { userId: entry.userId, json: entry.body });
       if (answer.clockOffsetMs !== undefined) noteClock(answer.clockOffsetMs);
       if (answer.status >= 400) {
         const refused: QueueEntry = { ...working, status: "rejected", ...refusalOf(answer, entry), mayHaveReachedServer: false };
@@ -241,7 +248,7 @@ async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => voi
       if (photo.sentId !== undefined) continue;
       const form = new FormData();
       form.append("file", photo.blob, photo.name);
-      const answer = await send(`${base}/${photoPathOf(working, working.serverId!)}`, photo.id, { form });
+      const answer = await send(`${base}/${photoPathOf(working, working.serverId!)}`, photo.id, { userId: entry.userId, form });
       if (answer.status >= 400) {
         const { message, fieldErrors } = refusalOf(answer);
         const refused: QueueEntry = { ...working, status: "rejected", message: `${RECORD_NOUN[entry.kind] ?? "The record"} #${working.serverId} is stored; its photo "${photo.name}" was refused: ${message}`, fieldErrors };
