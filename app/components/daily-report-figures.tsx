@@ -23,7 +23,7 @@ export function DailyReportFigures({ report, timeZone, lengthUnit }: { report: C
   return (
     <>
       <Section title="Dive work">
-        <p className="text-sm"><span className="figures">{report.dives.count}</span> dives · <span className="figures">{report.dives.bottomMinutes}</span> bottom minutes · deepest <span className="figures whitespace-nowrap">{report.dives.maxDepth === null ? "—" : `${report.dives.maxDepth} ${lengthLabel}`}</span></p>
+        <p className="text-sm" data-testid="dive-summary"><span className="figures">{report.dives.count}</span> dives · <span className="figures">{report.dives.bottomMinutes}</span> bottom minutes · deepest <span className="figures whitespace-nowrap">{report.dives.maxDepth === null ? "—" : `${report.dives.maxDepth} ${lengthLabel}`}</span></p>
         {report.teams.length > 0 ? (
           <div className="mt-2 overflow-x-auto">
             <table className="w-full text-sm">

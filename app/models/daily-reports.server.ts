@@ -1,7 +1,7 @@
 import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { compileDay, localDayBounds, type CompiledDay, type DayInterruption, type SurveyTotals } from "../../shared/daily-report/compile";
-import { dayState, type DayState } from "../../shared/daily-report/present";
+import { BATCH_DAYS, dayState, type DayState } from "../../shared/daily-report/present";
 import { localDayOf } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
 import {
@@ -273,7 +273,6 @@ export function batchDates(from: string, to: string): string[] {
   }
   return dates;
 }
-export const BATCH_DAYS = 14;
 
 /** Days from `from` to `to` in one PDF, each as the page shows it (signed ones as signed). */
 export async function dailyReportBatchPdf(project: ProjectView, from: string, to: string): Promise<{ bytes: Buffer; filename: string }> {

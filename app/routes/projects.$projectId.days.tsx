@@ -1,6 +1,6 @@
 import { Form, Link, data } from "react-router";
 import { z } from "zod";
-import { DAY_STATE_DESCRIPTIONS, type DayState } from "../../shared/daily-report/present";
+import { BATCH_DAYS, DAY_STATE_DESCRIPTIONS, type DayState } from "../../shared/daily-report/present";
 import { localDayOf } from "../../shared/local-time";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
@@ -12,7 +12,7 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { fieldErrorsFrom } from "~/lib/http/form";
 import { readPageForm } from "~/lib/http/body.server";
 import { listMembers } from "~/models/membership.server";
-import { BATCH_DAYS, addSubscriber, batchInputSchema, listMonthDays, listSubscribers, removeSubscriber, sendDailyReportBatch, subscriberInputSchema } from "~/models/daily-reports.server";
+import { addSubscriber, batchInputSchema, listMonthDays, listSubscribers, removeSubscriber, sendDailyReportBatch, subscriberInputSchema } from "~/models/daily-reports.server";
 import type { Route } from "./+types/projects.$projectId.days";
 
 // The calendar of days, each coloured by its report's state and named in words; a two-week batch

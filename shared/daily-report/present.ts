@@ -68,6 +68,9 @@ export function surveyLine(survey: CompiledDay["production"]["survey"]): string 
   return `Survey of this day${survey.since ? ` against the survey of ${survey.since}` : ""}: ${formatNumber(survey.removedVolume)} ${survey.volumeLabel} removed, ${survey.cellsReachedFirmSand} ${cells} newly at firm sand, ${formatNumber(survey.remainingVolume)} ${survey.volumeLabel} remaining.`;
 }
 
+/** A batch sent or downloaded as one PDF holds at most two weeks of days. */
+export const BATCH_DAYS = 14;
+
 /** A report's state on the calendar, and its words (never colour alone). */
 export type DayState = "no work" | "draft" | "signed" | "countersigned" | "amended";
 
