@@ -1,5 +1,6 @@
 import { Form, data } from "react-router";
 import { weatherLine } from "../../shared/daily-report/present";
+import { localClockOf, localDayOf } from "../../shared/local-time";
 import { DailyReportFigures, Section } from "~/components/daily-report-figures";
 import { FormMessage } from "~/components/form-message";
 import { Page } from "~/components/page";
@@ -58,11 +59,12 @@ export default function Countersign({ loaderData, actionData }: Route.ComponentP
   }
   const { report, signed, amendments, date, timeZone, lengthUnit } = loaderData;
   const weather = weatherLine(report.entered.weather);
+  const local = (iso: string) => `${localDayOf(Date.parse(iso), timeZone)} ${localClockOf(Date.parse(iso), timeZone)}`;
   return (
     <Page title={`Countersign the daily report of ${date}`} wide>
       <div className="space-y-4">
         <p className="text-sm">
-          <strong>{loaderData.projectName}</strong> · local day <span className="figures">{date}</span> in {timeZone}. Signed by <strong>{signed?.name}</strong> at <span className="figures">{signed?.at}</span>.
+          <strong>{loaderData.projectName}</strong> · local day <span className="figures">{date}</span> in {timeZone}. Signed by <strong>{signed?.name}</strong> at <span className="figures whitespace-nowrap">{signed ? local(signed.at) : ""}</span>.
           This link was sent to <span className="figures">{loaderData.email}</span>; the report is read-only here.
         </p>
         {report.missing.length > 0 ? (
@@ -80,7 +82,7 @@ export default function Countersign({ loaderData, actionData }: Route.ComponentP
         <DailyReportFigures report={report} timeZone={timeZone} lengthUnit={lengthUnit} />
         {amendments.length > 0 ? (
           <Section title="Amendments">
-            <ul className="space-y-1 text-sm">{amendments.map((amendment) => <li key={amendment.at + amendment.text}><span className="figures">{amendment.at}</span> by {amendment.by}: {amendment.text}</li>)}</ul>
+            <ul className="space-y-1 text-sm">{amendments.map((amendment) => <li key={amendment.at + amendment.text}><span className="figures whitespace-nowrap">{local(amendment.at)}</span> by {amendment.by}: {amendment.text}</li>)}</ul>
           </Section>
         ) : null}
         <Section title="Countersignature">

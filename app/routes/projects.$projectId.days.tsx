@@ -140,7 +140,8 @@ export default function Days({ loaderData, actionData }: Route.ComponentProps) {
               </>
             );
             return (
-              <li key={day.date} data-testid="day" data-state={future ? "future" : day.state} data-date={day.date}>
+              // Days to come are left off the phone's list (the grid keeps them to hold its weeks).
+              <li key={day.date} data-testid="day" data-state={future ? "future" : day.state} data-date={day.date} className={future ? "hidden sm:block" : undefined}>
                 {future ? (
                   <div className="min-h-14 rounded border border-dashed border-line p-1.5 text-muted">{body}</div>
                 ) : (
@@ -202,9 +203,9 @@ export default function Days({ loaderData, actionData }: Route.ComponentProps) {
           )}
           <div className="grid gap-4 md:grid-cols-2">
             <Form method="post" className="flex flex-wrap items-end gap-3">
-              <div>
+              <div className="min-w-0 flex-1">
                 <label htmlFor="subscriber-member" className="block text-sm font-medium">Member</label>
-                <select id="subscriber-member" name="userId" required className="mt-1 block rounded border border-line bg-panel px-3 py-2" aria-invalid={errors.userId ? true : undefined}>
+                <select id="subscriber-member" name="userId" required className="mt-1 block w-full min-w-0 rounded border border-line bg-panel px-3 py-2" aria-invalid={errors.userId ? true : undefined}>
                   <option value="">Choose a member…</option>
                   {members.filter((member) => !subscribed.has(member.email)).map((member) => <option key={member.userId} value={member.userId}>{member.name} ({member.email})</option>)}
                 </select>

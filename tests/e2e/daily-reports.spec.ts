@@ -103,3 +103,25 @@ test("daily report: missing items, weather, signature, countersignature by e-mai
   await expect(page.getByTestId("day").filter({ has: page.getByRole("link", { name: new RegExp(`^${yesterday}, `) }) })).toContainText("amended");
   await expect(page.getByRole("group", { name: "Legend" })).toContainText("countersigned: signed and countersigned by the agency's inspector");
 });
+
+test("a manager adds an outside subscriber, who receives the signed report with its PDF attached", async ({ page, signIn }) => {
+  const today = localDayOf(Date.now(), PROJECT.timeZone);
+  // Three days back: a day the other test leaves alone.
+  const day = localDayOf(instantOfLocal(today, 0, PROJECT.timeZone) - 2.5 * 86_400_000, PROJECT.timeZone);
+  const address = uniqueEmail("contracts");
+  await signIn("manager");
+  await page.goto(`/projects/${projectId}/days`);
+  await page.getByLabel("Outside address").fill(address);
+  await page.getByRole("button", { name: "Add address" }).click();
+  await expect(page.getByText(`${address} will receive each signed report.`)).toBeVisible();
+  await expect(page.getByTestId("subscribers")).toContainText(`${address} (outside address)`);
+  const since = new Date(Date.now() - 1000).toISOString();
+  await page.goto(`/projects/${projectId}/days/${day}`);
+  await page.getByLabel("Your name (typed, as your signature)").fill("Imogen Tallis");
+  await page.getByRole("button", { name: "Sign the report" }).click();
+  await expect(page.getByTestId("signed")).toContainText("Imogen Tallis");
+  const mail = await waitForMail(address, since) as Awaited<ReturnType<typeof waitForMail>> & { attachments: Array<{ filename: string; contentType: string; size: number }> };
+  expect(mail.subject).toBe(`Daily report ${day} signed · ${PROJECT.name}`);
+  expect(mail.attachments).toEqual([expect.objectContaining({ filename: expect.stringMatching(new RegExp(`-daily-report-${day}\\.pdf$`)), contentType: "application/pdf" })]);
+  expect(mail.attachments[0]!.size).toBeGreaterThan(1000);
+});
