@@ -30,6 +30,7 @@ export default [
   route("api/projects/:projectId/dewatering/tubes/:tubeId/fills", "routes/api.projects.$projectId.dewatering.tubes.$tubeId.fills.ts"),
   route("api/projects/:projectId/days/:date", "routes/api.projects.$projectId.days.$date.ts"),
   route("api/projects/:projectId/days/:date/amendments", "routes/api.projects.$projectId.days.$date.amendments.ts"),
+  route("api/projects/:projectId/days/:date/countersign-requests", "routes/api.projects.$projectId.days.$date.countersign-requests.ts"),
   route("api/projects/:projectId/days/:date/sign", "routes/api.projects.$projectId.days.$date.sign.ts"),
   route("api/projects/:projectId/dives", "routes/api.projects.$projectId.dives.ts"),
   route("api/projects/:projectId/finds", "routes/api.projects.$projectId.finds.ts"),
@@ -67,6 +68,7 @@ export default [
   route("api/projects/:projectId/water-quality/stations", "routes/api.projects.$projectId.water-quality.stations.ts"),
   route("api/projects/:projectId/wildlife/sightings", "routes/api.projects.$projectId.wildlife.sightings.ts"),
 
+  route("countersign/:token", "routes/countersign.$token.tsx"),
   route("dev/mail", "routes/dev.mail.tsx", [
     route(":messageId", "routes/dev.mail.$messageId.tsx"),
   ]),
@@ -111,6 +113,8 @@ export default [
     route("water-quality/setup", "routes/projects.$projectId.water-quality.setup.tsx"),
   ]),
   route("projects/:projectId/archive", "routes/projects.$projectId.archive.ts"),
+  route("projects/:projectId/days/:date/report.pdf", "routes/projects.$projectId.days.$date.report[.]pdf.ts"),
+  route("projects/:projectId/days/batch.pdf", "routes/projects.$projectId.days.batch[.]pdf.ts"),
   route("projects/:projectId/field", "routes/projects.$projectId.field.tsx"),
   route("projects/:projectId/finds/catalogue", "routes/projects.$projectId.finds.catalogue.tsx"),
   route("projects/:projectId/finds/:findId/custody-sheet", "routes/projects.$projectId.finds.$findId.custody-sheet.tsx"),

@@ -1,13 +1,20 @@
-import { Op } from "sequelize";
+import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { compileDay, localDayBounds, type CompiledDay, type DayInterruption, type SurveyTotals } from "../../shared/daily-report/compile";
+import { BATCH_DAYS, dayState, type DayState } from "../../shared/daily-report/present";
 import { localDayOf } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
 import {
-  Assignment, DailyReport, DewateringShift, DailyReportAmendment, Dive, DiveTeam, Find, Haul, Hold, MonitoringStation, StopWorkEvent, SurveySnapshot, TubeFill, WaterQualityReading, WildlifeStandDown,
+  Assignment, CountersignRequest, DailyReport, Membership, Project, ReportSubscriber, User, DewateringShift, DailyReportAmendment, Dive, DiveTeam, Find, Haul, Hold, MonitoringStation, StopWorkEvent, SurveySnapshot, TubeFill, WaterQualityReading, WildlifeStandDown,
   getSequelize, type EnteredNotesRecord,
 } from "~/lib/db.server";
-import { ConflictError, NotFoundError } from "~/lib/errors";
+import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
+import { queueMail } from "~/lib/mail/outbox.server";
+import { createLinkToken, hashLinkToken } from "~/lib/auth/tokens.server";
+import { normaliseEmail } from "~/lib/auth/users.server";
+import { presentProject } from "~/lib/auth/project-view.server";
+import { getObject, objectKey, putObject } from "~/lib/storage/storage.server";
+import { renderDailyReportBatchPdf, renderDailyReportPdf, type PdfDay } from "~/lib/pdf/daily-report-pdf.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
@@ -36,16 +43,25 @@ export const enteredNotesInputSchema = z.object({
 });
 export const signInputSchema = z.object({ name: z.string().trim().min(1, "type your name to sign").max(200) });
 export const amendmentInputSchema = z.object({ text: z.string().trim().min(1, "write the correction").max(4000) });
+const emailField = z.string().trim().min(1, "enter an e-mail address").max(254).pipe(z.email("is not an e-mail address like name@example.org"));
+export const countersignRequestInputSchema = z.object({ email: emailField });
+export const countersignInputSchema = z.object({ name: z.string().trim().min(1, "type your name to countersign").max(200) });
+export const subscriberInputSchema = z.union([z.object({ email: emailField }), z.object({ userId: z.coerce.number().int().positive() })]);
+export const batchInputSchema = z.object({ from: workDateSchema, to: workDateSchema });
 
 const EMPTY_NOTES: EnteredNotesRecord = { weather: null, inspections: "", safety: "", notes: "" };
 const minutesOfClock = (clock: string) => Number(clock.slice(0, 2)) * 60 + Number(clock.slice(3, 5));
 
 export interface DailyReportView {
+  date: string;
   report: CompiledDay;
   /** Whether the figures are the snapshot taken at signing (true) or compiled just now. */
   asSigned: boolean;
   signed: { name: string; at: string } | null;
+  /** The agency inspector's countersignature, through the e-mailed one-time link. */
+  countersigned: { name: string; email: string; at: string } | null;
   amendments: Array<{ text: string; by: string; at: string }>;
+  state: DayState;
 }
 
 /** Loads the local day's records and compiles them. */
@@ -111,15 +127,24 @@ function findReport(project: ProjectView, date: string) {
   return DailyReport.findOne({ where: { projectId: project.id, localDate: date }, include: [{ model: DailyReportAmendment, as: "amendments" }] });
 }
 
-/** The day's report: as signed (the snapshot) once signed, else compiled now. */
-export async function getDailyReport(project: ProjectView, date: string, nowMs = Date.now()): Promise<DailyReportView> {
-  const row = await findReport(project, date);
+/** The view of a report row (as signed when signed, with the figures given). */
+function viewOf(row: DailyReport | null, date: string, report: CompiledDay, worked: boolean): DailyReportView {
   const signed = row?.signedAt && row.signedByName ? { name: row.signedByName, at: row.signedAt.toISOString() } : null;
-  const report = signed && row?.snapshot ? (row.snapshot as unknown as CompiledDay) : await compileReport(project, date, row?.entered ?? EMPTY_NOTES, nowMs);
+  const countersigned = signed && row?.countersignedAt && row.countersignedByName
+    ? { name: row.countersignedByName, email: row.countersignedEmail ?? "", at: row.countersignedAt.toISOString() }
+    : null;
   const amendments = [...(row?.amendments ?? [])]
     .sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.id - b.id)
     .map((amendment) => ({ text: amendment.text, by: amendment.byName, at: amendment.createdAt.toISOString() }));
-  return { report, asSigned: Boolean(signed), signed, amendments };
+  const state = dayState(row ? { signed: Boolean(signed), countersigned: Boolean(countersigned), amendments: amendments.length } : null, worked);
+  return { date, report, asSigned: Boolean(signed), signed, countersigned, amendments, state };
+}
+
+/** The day's report: as signed (the snapshot) once signed, else compiled now. */
+export async function getDailyReport(project: ProjectView, date: string, nowMs = Date.now()): Promise<DailyReportView> {
+  const row = await findReport(project, date);
+  const report = row?.signedAt && row.snapshot ? (row.snapshot as unknown as CompiledDay) : await compileReport(project, date, row?.entered ?? EMPTY_NOTES, nowMs);
+  return viewOf(row, date, report, report.dives.count > 0);
 }
 
 const LOCKED = "This day's report is signed and locked: add an amendment instead.";
@@ -138,7 +163,11 @@ export async function saveEnteredNotes(project: ProjectView, user: UserView, dat
   });
 }
 
-/** Signs the day's report with the typed name; keeps the compiled figures as signed. 409 once signed. */
+/**
+ * Signs the day's report with the typed name; keeps the compiled figures as signed, stores the
+ * signed report's PDF and queues it to the project's subscribers, all before the commit (a refused
+ * signature sends nothing). 409 once signed.
+ */
 export async function signDailyReport(project: ProjectView, user: UserView, date: string, name: string, ip: string | null = null, nowMs = Date.now()): Promise<DailyReportView> {
   await getSequelize().transaction(async (transaction) => {
     const [row] = await DailyReport.findOrCreate({ where: { projectId: project.id, localDate: date }, defaults: { projectId: project.id, localDate: date, entered: EMPTY_NOTES }, transaction, lock: transaction.LOCK.UPDATE });
@@ -146,6 +175,24 @@ export async function signDailyReport(project: ProjectView, user: UserView, date
     const snapshot = await compileReport(project, date, row.entered, nowMs);
     await row.update({ signedByName: name, signedAt: new Date(nowMs), signedById: user.id, snapshot: snapshot as unknown as Record<string, unknown> }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.dailyReportSigned, projectId: project.id, userId: user.id, ip, detail: { date, name } }, transaction);
+    const view = viewOf(row, date, snapshot, snapshot.dives.count > 0);
+    const file = await storeSignedPdf(project, view);
+    const subscribers = await ReportSubscriber.findAll({ where: { projectId: project.id }, order: [["email", "ASC"]], transaction });
+    for (const subscriber of subscribers) {
+      await queueMail({
+        to: subscriber.email,
+        ref: `daily-report:${row.id}`,
+        subject: `Daily report ${date} signed · ${project.name}`,
+        text: [
+          `The daily report of ${date} for "${project.name}" was signed by ${name}.`,
+          "",
+          `The signed report is attached (${file.filename}). Corrections after signing appear as dated amendments beside it.`,
+          "",
+          "You receive this because a manager of the project added you to its daily report subscribers.",
+        ].join("\n"),
+        attachments: [{ storageKey: file.key, filename: file.filename, contentType: "application/pdf" }],
+      }, transaction);
+    }
   });
   return getDailyReport(project, date, nowMs);
 }
@@ -161,25 +208,240 @@ export async function addAmendment(project: ProjectView, user: UserView, date: s
   return getDailyReport(project, date);
 }
 
-export type DayState = "no work" | "draft" | "signed" | "amended";
+export { type DayState };
 
-/** The last `days` local days (today first) and each one's state. */
-export async function listRecentDays(project: ProjectView, days = 14, nowMs = Date.now()): Promise<Array<{ date: string; state: DayState; dives: number }>> {
-  const today = localDayOf(nowMs, project.timeZone);
-  const dates: string[] = [];
-  for (let back = 0; back < days; back += 1) {
-    const [year, month, day] = today.split("-").map(Number);
-    dates.push(new Date(Date.UTC(year!, month! - 1, day! - back)).toISOString().slice(0, 10));
-  }
+/** The days of a month ("YYYY-MM") in the project's calendar and each one's state. */
+export async function listMonthDays(project: ProjectView, month: string): Promise<Array<{ date: string; state: DayState; dives: number }>> {
+  const [year, monthNumber] = month.split("-").map(Number);
+  const count = new Date(Date.UTC(year!, monthNumber!, 0)).getUTCDate();
+  const dates = Array.from({ length: count }, (_, index) => `${month}-${String(index + 1).padStart(2, "0")}`);
   const [reports, dives] = await Promise.all([
-    DailyReport.findAll({ where: { projectId: project.id, localDate: { [Op.in]: dates } }, include: [{ model: DailyReportAmendment, as: "amendments", attributes: ["id"] }] }),
+    DailyReport.findAll({ where: { projectId: project.id, localDate: { [Op.in]: dates } }, include: [{ model: DailyReportAmendment, as: "amendments", attributes: ["id", "createdAt"] }] }),
     Dive.findAll({ where: { projectId: project.id, diveDate: { [Op.in]: dates } }, attributes: ["diveDate"] }),
   ]);
   return dates.map((date) => {
-    const report = reports.find((row) => row.localDate === date);
-    const count = dives.filter((dive) => dive.diveDate === date).length;
-    const state: DayState = report?.signedAt ? ((report.amendments?.length ?? 0) > 0 ? "amended" : "signed") : report || count > 0 ? "draft" : "no work";
-    return { date, state, dives: count };
+    const report = reports.find((row) => row.localDate === date) ?? null;
+    const diveCount = dives.filter((dive) => dive.diveDate === date).length;
+    const signed = Boolean(report?.signedAt);
+    const state = dayState(report ? { signed, countersigned: signed && Boolean(report.countersignedAt), amendments: report.amendments?.length ?? 0 } : null, diveCount > 0);
+    return { date, state, dives: diveCount };
+  });
+}
+
+const PDF_TYPE = "application/pdf";
+const pdfProject = (project: ProjectView) => ({ name: project.name, timeZone: project.timeZone, lengthUnit: project.lengthUnit });
+const pdfDay = (view: DailyReportView): PdfDay => ({ date: view.date, report: view.report, signed: view.signed, countersigned: view.countersigned, amendments: view.amendments });
+export const dailyReportFilename = (project: ProjectView, date: string) => `${project.slug}-daily-report-${date}.pdf`;
+
+/**
+ * The stored "signed report" file for what the signed report shows now: signed, countersigned
+ * ("c") and each amendment ("a2") make a new file, so the first signed file stays as it was sent.
+ */
+function signedPdfKey(project: ProjectView, view: DailyReportView): string {
+  const revision = `signed${view.countersigned ? "-c" : ""}${view.amendments.length > 0 ? `-a${view.amendments.length}` : ""}`;
+  return objectKey(["projects", project.id, "daily-reports", view.date, `${revision}.pdf`]);
+}
+
+async function storeSignedPdf(project: ProjectView, view: DailyReportView): Promise<{ key: string; filename: string; bytes: Buffer }> {
+  const key = signedPdfKey(project, view);
+  const bytes = await renderDailyReportPdf(pdfProject(project), pdfDay(view));
+  await putObject(key, bytes, PDF_TYPE);
+  return { key, filename: dailyReportFilename(project, view.date), bytes };
+}
+
+/**
+ * The day's report as a PDF: a draft is rendered from the figures as they stand; a signed report
+ * is rendered once for each state it reaches (signed, countersigned, amended), stored, and served
+ * from storage afterwards.
+ */
+export async function dailyReportPdf(project: ProjectView, date: string): Promise<{ bytes: Buffer; filename: string; stored: boolean }> {
+  const view = await getDailyReport(project, date);
+  const filename = dailyReportFilename(project, date);
+  if (!view.signed) return { bytes: await renderDailyReportPdf(pdfProject(project), pdfDay(view)), filename, stored: false };
+  const stored = await getObject(signedPdfKey(project, view));
+  if (stored) return { bytes: stored.bytes, filename, stored: true };
+  return { bytes: (await storeSignedPdf(project, view)).bytes, filename, stored: true };
+}
+
+/** The dates from `from` to `to`, both included; at most 14 (a two-week batch), `from` first. */
+export function batchDates(from: string, to: string): string[] {
+  if (from > to) throw new ValidationError({ field: "to", message: "The last day comes before the first: choose the first day, then a day on or after it." });
+  const dates = [from];
+  while (dates.at(-1)! < to) {
+    dates.push(nextDayOf(dates.at(-1)!));
+    if (dates.length > BATCH_DAYS) throw new ValidationError({ field: "to", message: `A batch holds at most ${BATCH_DAYS} days (two weeks): choose a last day at most 13 days after the first.` });
+  }
+  return dates;
+}
+
+/** Days from `from` to `to` in one PDF, each as the page shows it (signed ones as signed). */
+export async function dailyReportBatchPdf(project: ProjectView, from: string, to: string): Promise<{ bytes: Buffer; filename: string }> {
+  const dates = batchDates(from, to);
+  const views: DailyReportView[] = [];
+  for (const date of dates) views.push(await getDailyReport(project, date));
+  const bytes = await renderDailyReportBatchPdf(pdfProject(project), views.map(pdfDay));
+  return { bytes, filename: `${project.slug}-daily-reports-${from}-to-${to}.pdf` };
+}
+
+/** Sends the batch to every subscriber as one PDF (stored, then attached by its key); returns how many mails were queued. */
+export async function sendDailyReportBatch(project: ProjectView, user: UserView, from: string, to: string, ip: string | null = null): Promise<number> {
+  const subscribers = await ReportSubscriber.findAll({ where: { projectId: project.id }, order: [["email", "ASC"]] });
+  if (subscribers.length === 0) throw new ConflictError("This project has no report subscribers yet: add members or addresses first.");
+  const { bytes, filename } = await dailyReportBatchPdf(project, from, to);
+  const key = objectKey(["projects", project.id, "daily-reports", "batches", `${from}-to-${to}-${Date.now()}.pdf`]);
+  await putObject(key, bytes, PDF_TYPE);
+  await getSequelize().transaction(async (transaction) => {
+    for (const subscriber of subscribers) {
+      await queueMail({
+        to: subscriber.email,
+        ref: `daily-report-batch:${project.id}`,
+        subject: `Daily reports ${from} to ${to} · ${project.name}`,
+        text: [
+          `${user.name} sends the daily reports of "${project.name}" from ${from} to ${to} as one PDF (attached, ${filename}).`,
+          "",
+          "Signed days are shown as signed, with their countersignature and amendments; unsigned days are marked as drafts.",
+        ].join("\n"),
+        attachments: [{ storageKey: key, filename, contentType: PDF_TYPE }],
+      }, transaction);
+    }
+    await recordAudit({ action: AUDIT_ACTIONS.dailyReportBatchSent, projectId: project.id, userId: user.id, ip, detail: { from, to, recipients: subscribers.length } }, transaction);
+  });
+  return subscribers.length;
+}
+
+export interface SubscriberView {
+  id: number;
+  email: string;
+  /** The member's name, or null for an outside address. */
+  member: string | null;
+}
+
+export async function listSubscribers(project: ProjectView): Promise<SubscriberView[]> {
+  const rows = await ReportSubscriber.findAll({ where: { projectId: project.id }, include: [{ model: User, as: "user", attributes: ["name"] }], order: [["email", "ASC"]] });
+  return rows.map((row) => ({ id: row.id, email: row.email, member: row.user?.name ?? null }));
+}
+
+/** The manager adds a member (by account) or an outside address; an address already subscribed is a ConflictError. */
+export async function addSubscriber(project: ProjectView, user: UserView, input: z.output<typeof subscriberInputSchema>, ip: string | null = null): Promise<SubscriberView> {
+  let email: string;
+  let member: User | null = null;
+  if ("userId" in input) {
+    const membership = await Membership.findOne({ where: { projectId: project.id, userId: input.userId }, include: [{ model: User, as: "user" }] });
+    member = (membership as (Membership & { user?: User }) | null)?.user ?? null;
+    if (!member) throw new ValidationError({ field: "userId", message: "That person is not a member of this project." });
+    email = member.email;
+  } else {
+    email = normaliseEmail(input.email);
+    member = await User.findOne({ where: { email } });
+    if (member && !(await Membership.count({ where: { projectId: project.id, userId: member.id } }))) member = null;
+  }
+  try {
+    const row = await getSequelize().transaction(async (transaction) => {
+      const created = await ReportSubscriber.create({ projectId: project.id, email, userId: member?.id ?? null, addedById: user.id }, { transaction });
+      await recordAudit({ action: AUDIT_ACTIONS.reportSubscriberAdded, projectId: project.id, userId: user.id, ip, detail: { email } }, transaction);
+      return created;
+    });
+    return { id: row.id, email, member: member?.name ?? null };
+  } catch (error) {
+    if (error instanceof UniqueConstraintError) throw new ConflictError({ field: "email", message: `${email} already receives this project's daily reports.` });
+    throw error;
+  }
+}
+
+export async function removeSubscriber(project: ProjectView, user: UserView, subscriberId: number, ip: string | null = null): Promise<void> {
+  await getSequelize().transaction(async (transaction) => {
+    const row = await ReportSubscriber.findOne({ where: { id: subscriberId, projectId: project.id }, transaction });
+    if (!row) throw new NotFoundError("That subscriber is not on this project's list.");
+    await row.destroy({ transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.reportSubscriberRemoved, projectId: project.id, userId: user.id, ip, detail: { email: row.email } }, transaction);
+  });
+}
+
+export const COUNTERSIGN_LIFETIME_MS = 14 * 24 * 60 * 60 * 1000;
+
+/**
+ * The signer (or a manager) asks the agency's inspector to countersign: a one-time link by e-mail,
+ * like an invitation. An earlier open link for the same report stops working. The report must be
+ * signed and not yet countersigned (409 otherwise).
+ */
+export async function requestCountersign(project: ProjectView, user: UserView, date: string, emailInput: string, origin: string, ip: string | null = null, now = new Date()): Promise<{ email: string; expiresAt: string; token: string }> {
+  const email = normaliseEmail(emailInput);
+  const { token, tokenHash } = createLinkToken();
+  const expiresAt = new Date(now.getTime() + COUNTERSIGN_LIFETIME_MS);
+  await getSequelize().transaction(async (transaction) => {
+    const row = await DailyReport.findOne({ where: { projectId: project.id, localDate: date }, transaction, lock: transaction.LOCK.UPDATE });
+    if (!row?.signedAt) throw new ConflictError("This day's report is not signed yet: sign it before asking for the inspector's countersignature.");
+    if (row.countersignedAt) throw new ConflictError(`This day's report was already countersigned by ${row.countersignedByName}.`);
+    await CountersignRequest.update({ revokedAt: now }, { where: { reportId: row.id, usedAt: null, revokedAt: null }, transaction });
+    const request = await CountersignRequest.create({ reportId: row.id, email, tokenHash, expiresAt, requestedById: user.id }, { transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.dailyReportCountersignRequested, projectId: project.id, userId: user.id, ip, detail: { date, email } }, transaction);
+    await queueMail({
+      to: email,
+      ref: `countersign:${request.id}`,
+      subject: `Please countersign the daily report of ${date} · ${project.name}`,
+      text: [
+        `${user.name} asks you to countersign the daily report of ${date} for "${project.name}" on Firmsand.`,
+        "",
+        `Open this link to read the signed report and countersign it with your typed name: ${origin}/countersign/${token}`,
+        "",
+        `No account is needed. The link works once and expires on ${expiresAt.toUTCString()}.`,
+      ].join("\n"),
+    }, transaction);
+  });
+  return { email, expiresAt: expiresAt.toISOString(), token };
+}
+
+/** The open countersign link of a signed report, if one was sent (for the page to say so). */
+export async function openCountersignRequest(project: ProjectView, date: string, now = new Date()): Promise<{ email: string; expiresAt: string; mailRef: string } | null> {
+  const request = await CountersignRequest.findOne({
+    where: { usedAt: null, revokedAt: null, expiresAt: { [Op.gt]: now } },
+    include: [{ model: DailyReport, as: "report", where: { projectId: project.id, localDate: date }, required: true }],
+    order: [["id", "DESC"]],
+  });
+  return request ? { email: request.email, expiresAt: request.expiresAt.toISOString(), mailRef: `countersign:${request.id}` } : null;
+}
+
+export type CountersignLookup =
+  | { status: "open"; email: string; projectName: string; timeZone: string; lengthUnit: ProjectView["lengthUnit"]; view: DailyReportView }
+  | { status: "expired" | "used" | "unknown" };
+
+async function findCountersignRequest(token: string, transaction?: Transaction) {
+  return CountersignRequest.findOne({
+    where: { tokenHash: hashLinkToken(token) },
+    include: [{ model: DailyReport, as: "report", include: [{ model: Project, as: "project" }] }],
+    transaction,
+    lock: transaction ? transaction.LOCK.UPDATE : undefined,
+  });
+}
+
+function countersignStatus(request: CountersignRequest | null, now: Date): "open" | "expired" | "used" | "unknown" {
+  if (!request?.report) return "unknown";
+  if (request.usedAt || request.revokedAt || request.report.countersignedAt) return "used";
+  if (request.expiresAt.getTime() <= now.getTime()) return "expired";
+  return "open";
+}
+
+/** What a countersign link shows: the signed report, read-only, or why the link no longer works. */
+export async function lookUpCountersign(token: string, now = new Date()): Promise<CountersignLookup> {
+  const request = await findCountersignRequest(token);
+  const status = countersignStatus(request, now);
+  if (status !== "open" || !request?.report?.project) return { status: status === "open" ? "unknown" : status };
+  const project = presentProject(request.report.project);
+  return { status: "open", email: request.email, projectName: project.name, timeZone: project.timeZone, lengthUnit: project.lengthUnit, view: await getDailyReport(project, request.report.localDate) };
+}
+
+/** Countersigns through the link, once: the report becomes countersigned and the link is spent. */
+export async function countersignReport(token: string, name: string, ip: string | null = null, now = new Date()): Promise<{ ok: true; date: string } | { ok: false; reason: "expired" | "used" | "unknown" }> {
+  return getSequelize().transaction(async (transaction) => {
+    const request = await findCountersignRequest(token, transaction);
+    const report = request ? await DailyReport.findOne({ where: { id: request.reportId }, transaction, lock: transaction.LOCK.UPDATE }) : null;
+    if (request && report) request.report = report;
+    const status = countersignStatus(request, now);
+    if (status !== "open" || !request || !report) return { ok: false, reason: status === "open" ? "unknown" : status };
+    await report.update({ countersignedByName: name, countersignedEmail: request.email, countersignedAt: now }, { transaction });
+    await request.update({ usedAt: now }, { transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.dailyReportCountersigned, projectId: report.projectId, userId: null, ip, detail: { date: report.localDate, name, email: request.email } }, transaction);
+    return { ok: true, date: report.localDate };
   });
 }
 
@@ -189,3 +451,8 @@ export function dayParam(value: string | undefined): string {
   if (!parsed.success) throw new NotFoundError("There is no such day: a day is written YYYY-MM-DD.");
   return parsed.data;
 }
+
+const nextDayOf = (date: string) => {
+  const [year, month, day] = date.split("-").map(Number);
+  return new Date(Date.UTC(year!, month! - 1, day! + 1)).toISOString().slice(0, 10);
+};

@@ -4,12 +4,12 @@ import { getDailyReport, dayParam } from "~/models/daily-reports.server";
 import type { Route } from "./+types/api.projects.$projectId.days.$date";
 
 const route = apiRoute<Route.LoaderArgs>({
-  // GET → the day's report: compiled now, or as signed (with "signed" and the amendments).
+  // GET → the day's report: compiled now, or as signed (with "signed", the countersignature and the amendments), and its state.
   async GET({ request, params }) {
     const { project } = await requireApiAccess(request, params.projectId, "reports.read");
     const date = dayParam(params.date);
-    const { report, signed, amendments } = await getDailyReport(project, date);
-    return Response.json({ ...report, ...(signed ? { signed: { ...signed, amendments } } : {}) });
+    const { report, signed, countersigned, amendments, state } = await getDailyReport(project, date);
+    return Response.json({ ...report, state, ...(signed ? { signed: { ...signed, countersigned, amendments } } : {}) });
   },
 });
 export const loader = route.loader;

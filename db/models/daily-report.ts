@@ -34,9 +34,14 @@ export class DailyReport extends Model<InferAttributes<DailyReport>, InferCreati
   declare signedAt: Date | null;
   declare signedById: ForeignKey<User["id"]> | null;
   declare snapshot: Record<string, unknown> | null;
+  /** The agency inspector's countersignature: typed name, the address the one-time link went to, time. */
+  declare countersignedByName: CreationOptional<string | null>;
+  declare countersignedEmail: CreationOptional<string | null>;
+  declare countersignedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare amendments?: NonAttribute<DailyReportAmendment[]>;
+  declare project?: NonAttribute<Project>;
 }
 
 /** A dated correction to a signed daily report, shown beside it. */
@@ -49,6 +54,35 @@ export class DailyReportAmendment extends Model<InferAttributes<DailyReportAmend
   declare createdAt: CreationOptional<Date>;
 }
 
+/**
+ * A one-time link, sent by e-mail, that lets the agency's inspector countersign a signed report
+ * without an account. Only the token's SHA-256 is stored; the link is spent once used.
+ */
+export class CountersignRequest extends Model<InferAttributes<CountersignRequest>, InferCreationAttributes<CountersignRequest>> {
+  declare id: CreationOptional<number>;
+  declare reportId: ForeignKey<DailyReport["id"]>;
+  declare email: string;
+  declare tokenHash: string;
+  declare expiresAt: Date;
+  declare usedAt: CreationOptional<Date | null>;
+  declare revokedAt: CreationOptional<Date | null>;
+  declare requestedById: ForeignKey<User["id"]> | null;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+  declare report?: NonAttribute<DailyReport>;
+}
+
+/** Someone who receives a project's signed daily reports by e-mail: a member or an outside address. */
+export class ReportSubscriber extends Model<InferAttributes<ReportSubscriber>, InferCreationAttributes<ReportSubscriber>> {
+  declare id: CreationOptional<number>;
+  declare projectId: ForeignKey<Project["id"]>;
+  declare email: string;
+  declare userId: ForeignKey<User["id"]> | null;
+  declare addedById: ForeignKey<User["id"]> | null;
+  declare createdAt: CreationOptional<Date>;
+  declare user?: NonAttribute<User>;
+}
+
 export function initDailyReport(sequelize: Sequelize) {
   DailyReport.init(
     {
@@ -58,6 +92,9 @@ export function initDailyReport(sequelize: Sequelize) {
       signedByName: { type: DataTypes.STRING(200), allowNull: true },
       signedAt: { type: DataTypes.DATE, allowNull: true },
       snapshot: jsonColumn("daily_reports", "snapshot", jsonObject, { allowNull: true }),
+      countersignedByName: { type: DataTypes.STRING(200), allowNull: true },
+      countersignedEmail: { type: DataTypes.STRING(254), allowNull: true },
+      countersignedAt: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },
@@ -71,5 +108,26 @@ export function initDailyReport(sequelize: Sequelize) {
       createdAt: DataTypes.DATE,
     },
     { sequelize, tableName: "daily_report_amendments", modelName: "DailyReportAmendment", updatedAt: false, indexes: [{ name: "daily_report_amendments_report_time", fields: ["reportId", "createdAt"] }] },
+  );
+  CountersignRequest.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      email: { type: DataTypes.STRING(254), allowNull: false },
+      tokenHash: { type: DataTypes.CHAR(64), allowNull: false },
+      expiresAt: { type: DataTypes.DATE, allowNull: false },
+      usedAt: { type: DataTypes.DATE, allowNull: true },
+      revokedAt: { type: DataTypes.DATE, allowNull: true },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: "daily_report_countersign_requests", modelName: "CountersignRequest", indexes: [{ name: "countersign_requests_token_unique", unique: true, fields: ["tokenHash"] }] },
+  );
+  ReportSubscriber.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      email: { type: DataTypes.STRING(254), allowNull: false },
+      createdAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: "report_subscribers", modelName: "ReportSubscriber", updatedAt: false, indexes: [{ name: "report_subscribers_project_email_unique", unique: true, fields: ["projectId", "email"] }] },
   );
 }

@@ -4,7 +4,7 @@
 //   node db/scripts/mail-server.mjs <port> <mailbox-dir>
 import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
-import { randomUUID } from "node:crypto";
+import { createHash, randomUUID } from "node:crypto";
 import { SMTPServer } from "smtp-server";
 import { simpleParser } from "mailparser";
 
@@ -36,6 +36,10 @@ const server = new SMTPServer({
           subject: parsed.subject ?? "",
           text: parsed.text ?? "",
           html: typeof parsed.html === "string" ? parsed.html : null,
+          // What each attached file is (name, type, size, SHA-256), not its bytes.
+          attachments: (parsed.attachments ?? []).map((file) => ({
+            filename: file.filename ?? null, contentType: file.contentType, size: file.size, sha256: createHash("sha256").update(file.content).digest("hex"),
+          })),
         };
         mkdirSync(mailbox, { recursive: true }); // someone may have emptied it meanwhile
         writeFileSync(join(mailbox, `${id}.json`), JSON.stringify(message, null, 2));

@@ -80,6 +80,7 @@ const MATRIX: Row[] = [
   row("POST", "api/projects/:projectId/dewatering/tubes/:tubeId/fills", "/api/projects/{project}/dewatering/tubes/999999999/fills", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
   // Daily reports: every role but outreach reads them; the manager and the dive supervisor sign and amend ({}: 422).
   row("GET", "api/projects/:projectId/days/:date", `/api/projects/{project}/days/${PLAN_DATE}`, "200 200 200 200 200 403 200 200 401"),
+  row("POST", "api/projects/:projectId/days/:date/countersign-requests", `/api/projects/{project}/days/${PLAN_DATE}/countersign-requests`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("POST", "api/projects/:projectId/days/:date/amendments", `/api/projects/{project}/days/${PLAN_DATE}/amendments`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("POST", "api/projects/:projectId/days/:date/sign", `/api/projects/{project}/days/${PLAN_DATE}/sign`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/dives", `/api/projects/{project}/dives?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),
@@ -168,6 +169,8 @@ const MATRIX: Row[] = [
   row("POST", "projects/:projectId/archive", "/projects/999999999/archive", "404 404 404 404 404 404 404 404 login", { form: {} }),
   row("GET", "projects/:projectId/audit", "/projects/{project}/audit", "200 403 403 403 403 403 403 200 login"),
   row("GET", "projects/:projectId/days", "/projects/{project}/days", "200 200 200 200 200 403 200 200 login"),
+  // Subscribers and the two-week batch's sending: the manager (and a site admin).
+  row("POST", "projects/:projectId/days", "/projects/{project}/days", "400 403 403 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/days/:date", `/projects/{project}/days/${PLAN_DATE}`, "200 200 200 200 200 403 200 200 login"),
   row("POST", "projects/:projectId/days/:date", `/projects/{project}/days/${PLAN_DATE}`, "400 403 400 403 403 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/dewatering", "/projects/{project}/dewatering", "200 200 200 200 200 200 200 200 login"),
@@ -225,6 +228,8 @@ const MATRIX: Row[] = [
   // A project's resource routes.
   // The field page: every member opens it (the forms shown follow the permission table); it has no action.
   row("GET", "projects/:projectId/field", "/projects/{project}/field", "200 200 200 200 200 200 200 200 login"),
+  row("GET", "projects/:projectId/days/:date/report.pdf", `/projects/{project}/days/${PLAN_DATE}/report.pdf`, "200 200 200 200 200 403 200 200 login"),
+  row("GET", "projects/:projectId/days/batch.pdf", `/projects/{project}/days/batch.pdf?from=2029-12-31&to=${PLAN_DATE}`, "200 200 200 200 200 403 200 200 login"),
   row("GET", "projects/:projectId/finds/catalogue", "/projects/{project}/finds/catalogue", "200 403 403 403 200 403 403 200 login"),
   row("GET", "projects/:projectId/finds/:findId/custody-sheet", "/projects/{project}/finds/999999999/custody-sheet", "404 404 404 404 404 403 404 404 login"),
   row("GET", "projects/:projectId/map/style.json", "/projects/{project}/map/style.json", "200 200 200 200 200 200 200 200 login"),
@@ -234,6 +239,9 @@ const MATRIX: Row[] = [
   row("POST", "projects/:projectId/surveys/upload", "/projects/{project}/surveys/upload", "400 400 403 403 403 403 403 400 login", { form: { kind: "baseline" } }),
   row("GET", "projects/:projectId/water-quality/readings.csv", "/projects/{project}/water-quality/readings.csv", "200 200 200 200 200 200 200 200 login"),
 
+  // The inspector's countersign link: open to anyone holding it (an unknown token shows why; posting to it is 410).
+  row("GET", "countersign/:token", "/countersign/no-such-token", "200 200 200 200 200 200 200 200 200"),
+  row("POST", "countersign/:token", "/countersign/no-such-token", "410 410 410 410 410 410 410 410 410", { form: { name: "Nobody" } }),
   row("GET", "reset-password/:token", "/reset-password/no-such-token", "200 200 200 200 200 200 200 200 200"),
   row("POST", "reset-password/:token", "/reset-password/no-such-token", "400 400 400 400 400 400 400 400 400", { form: { password: "", confirm: "" } }),
   row("GET", "share/:token", "/share/no-such-token-0123456789", "404 404 404 404 404 404 404 404 404"),

@@ -41,6 +41,7 @@ const PAGES: PageRow[] = [
   { route: "dev/mail/:messageId", url: (ids) => `/dev/mail/${ids.messageId}`, as: "admin" },
   { route: "forgot-password", url: () => "/forgot-password", as: "signed-out" },
   { route: "invite/:token", url: () => "/invite/no-such-token", as: "signed-out" },
+  { route: "countersign/:token", url: () => "/countersign/no-such-token", as: "signed-out" },
   { route: "login", url: () => "/login", as: "signed-out" },
   { route: "projects", url: () => "/projects", as: "manager" },
   { route: "projects/:projectId", url: (ids) => `/projects/${ids.project}`, as: "manager" },

@@ -1,10 +1,14 @@
+import { readFile } from "node:fs/promises";
 import { request as playwrightRequest } from "@playwright/test";
+import { pdfPages } from "../pdf-text";
 import { instantOfLocal, localDayOf } from "../../shared/local-time";
 import { PROJECT } from "../../sample-data/scenario";
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoProjectId, expect, test } from "./fixtures";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoProjectId, expect, linkIn, test, uniqueEmail, waitForMail } from "./fixtures";
 
 // The dive supervisor's day report end to end on the demo project: yesterday's report lists what
-// is missing, takes the weather, is signed with a typed name, then refuses edits and takes an amendment.
+// is missing, takes the weather, is signed with a typed name; the agency's inspector countersigns
+// through the link e-mailed to them (read from the fake mailbox); the report refuses edits, takes an
+// amendment, and its PDF downloads with the day's figures.
 
 let projectId: number;
 
@@ -14,7 +18,7 @@ test.beforeAll(async ({ baseURL }) => {
   await context.dispose();
 });
 
-test("daily report: missing items, weather, signature, locked, amendment", async ({ page }) => {
+test("daily report: missing items, weather, signature, countersignature by e-mailed link, locked, amendment, PDF", async ({ page, browser }) => {
   const today = localDayOf(Date.now(), PROJECT.timeZone);
   // Noon of the day before today's local midnight is yesterday, whatever the offset.
   const yesterday = localDayOf(instantOfLocal(today, 0, PROJECT.timeZone) - 12 * 3_600_000, PROJECT.timeZone);
@@ -24,8 +28,8 @@ test("daily report: missing items, weather, signature, locked, amendment", async
   await page.getByRole("button", { name: "Sign in" }).click();
   await page.waitForURL(/\/projects/);
 
-  await page.goto(`/projects/${projectId}/days`);
-  await page.getByRole("link", { name: yesterday }).click();
+  await page.goto(`/projects/${projectId}/days?month=${yesterday.slice(0, 7)}`);
+  await page.getByRole("link", { name: new RegExp(`^${yesterday}, `) }).click();
   await expect(page.getByRole("heading", { name: `Daily report · ${yesterday}` })).toBeVisible();
   await expect(page.getByTestId("missing")).toContainText("no weather entered");
 
@@ -45,9 +49,79 @@ test("daily report: missing items, weather, signature, locked, amendment", async
   const refused = await page.request.post(`/projects/${projectId}/days/${yesterday}`, { form: { intent: "notes", conditions: "Sunny" }, headers: { Origin: origin } });
   expect(refused.status()).toBe(409);
 
+
+  // The inspector's countersignature, through the one-time link e-mailed to them.
+  const inspector = uniqueEmail("inspector");
+  const since = new Date(Date.now() - 1000).toISOString();
+  await page.getByLabel("Inspector's e-mail").fill(inspector);
+  await page.getByRole("button", { name: "Send countersign link" }).click();
+  await expect(page.getByText(`A one-time countersign link goes to ${inspector} now.`)).toBeVisible();
+  const mail = await waitForMail(inspector, since);
+  expect(mail.subject).toContain(`Please countersign the daily report of ${yesterday}`);
+  const link = linkIn(mail, "/countersign");
+  const figures = (await page.getByTestId("dive-summary").textContent())!.replace(/\s+/g, " ").trim();
+  const away = await browser.newContext();
+  const inspectorPage = await away.newPage();
+  await inspectorPage.goto(link);
+  await expect(inspectorPage.getByRole("heading", { level: 1 })).toHaveText(`Countersign the daily report of ${yesterday}`);
+  // The same figures as the supervisor's page, read-only: no form but the countersignature.
+  await expect(inspectorPage.getByTestId("dive-summary")).toHaveText(figures);
+  await expect(inspectorPage.getByLabel("Conditions")).toHaveCount(0);
+  await inspectorPage.getByLabel("Your name (typed, as your countersignature)").fill("Morgan Alvarez");
+  await inspectorPage.getByRole("button", { name: "Countersign the report" }).click();
+  await expect(inspectorPage.getByTestId("countersign-done")).toContainText("is countersigned");
+  // Spent once used.
+  await inspectorPage.goto(link);
+  await expect(inspectorPage.getByRole("alert")).toContainText("already been used");
+  await away.close();
+  await page.reload();
+  await expect(page.getByTestId("countersigned")).toContainText("Morgan Alvarez");
+  await page.goto(`/projects/${projectId}/days?month=${yesterday.slice(0, 7)}`);
+  await expect(page.locator(`[data-date="${yesterday}"]`)).toHaveAttribute("data-state", "countersigned");
+  await page.goto(`/projects/${projectId}/days/${yesterday}`);
+
   await page.getByLabel("Amendment").fill("Air temperature read at 07:00, not noon.");
   await page.getByRole("button", { name: "Add amendment" }).click();
   await expect(page.getByTestId("amendments")).toContainText("Air temperature read at 07:00, not noon.");
+
+  // The PDF: the day's figures as the page shows them, the signatures and the amendment.
+  const downloading = page.waitForEvent("download");
+  await page.getByRole("link", { name: "Download PDF" }).click();
+  const download = await downloading;
+  expect(download.suggestedFilename()).toMatch(new RegExp(`-daily-report-${yesterday}\\.pdf$`));
+  const pages = await pdfPages(await readFile((await download.path())!));
+  expect(pages.length).toBeLessThanOrEqual(2);
+  const text = pages.join(" ");
+  expect(text).toContain(`Daily report · ${yesterday}`);
+  expect(text).toContain(figures);
+  expect(text).toContain("Dana Reyes");
+  expect(text).toContain("Morgan Alvarez");
+  expect(text).toContain("Air temperature read at 07:00, not noon.");
+  expect(text).toContain("Overcast, light chop");
+
+  await page.goto(`/projects/${projectId}/days?month=${yesterday.slice(0, 7)}`);
+  await expect(page.getByTestId("day").filter({ has: page.getByRole("link", { name: new RegExp(`^${yesterday}, `) }) })).toContainText("amended");
+  await expect(page.getByRole("group", { name: "Legend" })).toContainText("countersigned: signed and countersigned by the agency's inspector");
+});
+
+test("a manager adds an outside subscriber, who receives the signed report with its PDF attached", async ({ page, signIn }) => {
+  const today = localDayOf(Date.now(), PROJECT.timeZone);
+  // Three days back: a day the other test leaves alone.
+  const day = localDayOf(instantOfLocal(today, 0, PROJECT.timeZone) - 2.5 * 86_400_000, PROJECT.timeZone);
+  const address = uniqueEmail("contracts");
+  await signIn("manager");
   await page.goto(`/projects/${projectId}/days`);
-  await expect(page.getByTestId("day").filter({ hasText: yesterday })).toContainText("amended");
+  await page.getByLabel("Outside address").fill(address);
+  await page.getByRole("button", { name: "Add address" }).click();
+  await expect(page.getByText(`${address} will receive each signed report.`)).toBeVisible();
+  await expect(page.getByTestId("subscribers")).toContainText(`${address} (outside address)`);
+  const since = new Date(Date.now() - 1000).toISOString();
+  await page.goto(`/projects/${projectId}/days/${day}`);
+  await page.getByLabel("Your name (typed, as your signature)").fill("Imogen Tallis");
+  await page.getByRole("button", { name: "Sign the report" }).click();
+  await expect(page.getByTestId("signed")).toContainText("Imogen Tallis");
+  const mail = await waitForMail(address, since) as Awaited<ReturnType<typeof waitForMail>> & { attachments: Array<{ filename: string; contentType: string; size: number }> };
+  expect(mail.subject).toBe(`Daily report ${day} signed · ${PROJECT.name}`);
+  expect(mail.attachments).toEqual([expect.objectContaining({ filename: expect.stringMatching(new RegExp(`-daily-report-${day}\\.pdf$`)), contentType: "application/pdf" })]);
+  expect(mail.attachments[0]!.size).toBeGreaterThan(1000);
 });

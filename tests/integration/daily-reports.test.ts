@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { instantOfLocal } from "../../shared/local-time";
 import {
-  AuditEvent, DewateringShift, Dive, DiveCell, DiveTeam, Find, GeotextileTube, Haul, HaulSite, Hold, MonitoringStation, Project, Survey, SurveySnapshot, TubeFill, WildlifeStandDown, type Role,
+  AuditEvent, DailyReport, OutgoingMail, ReportSubscriber, DewateringShift, Dive, DiveCell, DiveTeam, Find, GeotextileTube, Haul, HaulSite, Hold, MonitoringStation, Project, Survey, SurveySnapshot, TubeFill, WildlifeStandDown, type Role,
 } from "~/lib/db.server";
 import { ConflictError } from "~/lib/errors";
 import { presentProject } from "~/lib/auth/project-view.server";
@@ -11,7 +11,14 @@ import { action as readingsAction } from "~/routes/api.projects.$projectId.water
 import { loader as dayLoader } from "~/routes/api.projects.$projectId.days.$date";
 import { action as signAction } from "~/routes/api.projects.$projectId.days.$date.sign";
 import { action as amendAction } from "~/routes/api.projects.$projectId.days.$date.amendments";
-import { saveEnteredNotes } from "~/models/daily-reports.server";
+import { action as countersignRequestAction } from "~/routes/api.projects.$projectId.days.$date.countersign-requests";
+import {
+  addSubscriber, batchDates, countersignReport, dailyReportBatchPdf, dailyReportPdf, listMonthDays, lookUpCountersign, removeSubscriber, saveEnteredNotes, sendDailyReportBatch, signDailyReport,
+} from "~/models/daily-reports.server";
+import { deliverDue } from "~/lib/mail/outbox.server";
+import type { MailMessage } from "~/lib/mail/mail.server";
+import { getObject, listObjectKeys } from "~/lib/storage/storage.server";
+import { pdfPages } from "../pdf-text";
 import { addMember, makeProject, makeUser, requestAs, thrown } from "./helpers";
 
 afterAll(closeSequelize);
@@ -210,5 +217,213 @@ describe("signing and amendments", () => {
     const body = await (await getDay("viewer", DAY)).json();
     expect(body.dives.bottomMinutes).toBe(134);
     expect(body.signed.amendments).toEqual([expect.objectContaining({ text: "A 10-minute dive by Late was logged after signing." })]);
+  });
+});
+
+const asUser = (role: Role) => ({ id: users.get(role)!.id, name: users.get(role)!.name, email: "", isSiteAdmin: false, mayCreateProjects: false });
+const projectView = async () => presentProject((await Project.findByPk(projectId))!);
+
+describe("the PDF", () => {
+  it("has the page's figures for the day, in one or two pages; a draft is rendered anew each time", async () => {
+    const project = await projectView();
+    // The next day is still a draft: its figures as compiled now.
+    const { bytes, stored } = await dailyReportPdf(project, NEXT);
+    expect(stored).toBe(false);
+    expect(bytes.subarray(0, 5).toString()).toBe("%PDF-");
+    const pages = await pdfPages(bytes);
+    expect(pages.length).toBeLessThanOrEqual(2);
+    const text = pages.join("\n");
+    // computed: the NEXT day's sums (one dive of 60 min, ticket H-103, find FS-2031-003), as the page shows them
+    expect(text).toContain(`Daily report · ${NEXT}`);
+    expect(text).toContain("Draft");
+    expect(text).toMatch(/1\s*dives · 60\s*bottom minutes/);
+    expect(text).toContain("H-103");
+    expect(text).toContain("FS-2031-003");
+    expect(text).toContain("no weather entered");
+    // A funders' document: no find location.
+    expect(text).not.toMatch(/600010|1600010/);
+  });
+
+  it("of a signed report is stored once per state and served from storage after that", async () => {
+    const project = await projectView();
+    const first = await dailyReportPdf(project, DAY);
+    expect(first.stored).toBe(true);
+    const keys = await listObjectKeys(`projects/${projectId}/daily-reports/${DAY}/`);
+    // Signed, then amended once (by the test above): that state's file.
+    expect(keys).toContain(`projects/${projectId}/daily-reports/${DAY}/signed-a1.pdf`);
+    const again = await dailyReportPdf(project, DAY);
+    expect(Buffer.compare(again.bytes, first.bytes)).toBe(0);
+    const text = (await pdfPages(first.bytes)).join("\n");
+    // computed: the signed figures (134 bottom minutes; the late 10-minute dive came after signing)
+    expect(text).toMatch(/3\s*dives · 134\s*bottom minutes/);
+    expect(text).toContain("Dana Reyes");
+    expect(text).toContain("A 10-minute dive by Late was logged after signing.");
+    expect(text).toContain("Agency inspector (countersignature) — not signed");
+  });
+});
+
+describe("the inspector's countersignature", () => {
+  it("goes by a one-time e-mailed link; the report becomes countersigned; the link is then spent", async () => {
+    const path = `${dayPath(DAY)}/countersign-requests`;
+    expect((await postJson(countersignRequestAction as never, "viewer", path, { email: "inspector@agency.example" }, { date: DAY })).status).toBe(403);
+    expect((await postJson(countersignRequestAction as never, "manager", path, { email: "not an address" }, { date: DAY })).status).toBe(422);
+    // An unsigned day has nothing to countersign.
+    expect((await postJson(countersignRequestAction as never, "manager", `${dayPath(PREVIOUS)}/countersign-requests`, { email: "inspector@agency.example" }, { date: PREVIOUS })).status).toBe(409);
+    const first = await postJson(countersignRequestAction as never, "dive-supervisor", path, { email: "First.Inspector@agency.example" }, { date: DAY });
+    expect(first.status).toBe(201);
+    expect((await first.json()).email).toBe("first.inspector@agency.example");
+    const sent = await postJson(countersignRequestAction as never, "dive-supervisor", path, { email: "inspector@agency.example" }, { date: DAY });
+    expect(sent.status).toBe(201);
+    const mails = await OutgoingMail.findAll({ where: { toAddress: ["first.inspector@agency.example", "inspector@agency.example"] }, order: [["id", "ASC"]] });
+    expect(mails).toHaveLength(2);
+    const tokenOf = (mail: OutgoingMail) => /\/countersign\/([A-Za-z0-9_-]+)/.exec(mail.bodyText)![1]!;
+    // The newer link replaces the older one.
+    expect((await lookUpCountersign(tokenOf(mails[0]!))).status).toBe("used");
+    const token = tokenOf(mails[1]!);
+    const open = await lookUpCountersign(token);
+    expect(open.status).toBe("open");
+    if (open.status === "open") expect(open.view.report.dives.bottomMinutes).toBe(134);
+    expect(await countersignReport(token, "Morgan Alvarez", "127.0.0.1")).toEqual({ ok: true, date: DAY });
+    expect(await countersignReport(token, "Someone Else", "127.0.0.1")).toEqual({ ok: false, reason: "used" });
+    expect((await lookUpCountersign(token)).status).toBe("used");
+    expect(await countersignReport("not-a-token", "X")).toEqual({ ok: false, reason: "unknown" });
+    const body = await (await getDay("viewer", DAY)).json();
+    expect(body.signed.countersigned).toMatchObject({ name: "Morgan Alvarez", email: "inspector@agency.example" });
+    // Amended before it was countersigned: the amendment keeps the day "amended" on the calendar.
+    expect(body.state).toBe("amended");
+    expect(await AuditEvent.count({ where: { projectId, action: "daily-report-countersigned" } })).toBe(1);
+    expect(await AuditEvent.count({ where: { projectId, action: "daily-report-countersign-requested" } })).toBe(2);
+    // Countersigned already: no new link.
+    expect((await postJson(countersignRequestAction as never, "manager", path, { email: "inspector@agency.example" }, { date: DAY })).status).toBe(409);
+    const text = (await pdfPages((await dailyReportPdf(await projectView(), DAY)).bytes)).join("\n");
+    expect(text).toContain("Morgan Alvarez");
+    expect(text).toContain("countersigned");
+  });
+
+  it("an expired link is refused", async () => {
+    const row = await DailyReport.findOne({ where: { projectId, localDate: DAY } });
+    const project = await projectView();
+    await row!.update({ countersignedAt: null, countersignedByName: null });
+    const { token } = await (await import("~/models/daily-reports.server")).requestCountersign(project, asUser("manager"), DAY, "late@agency.example", "http://127.0.0.1", null, new Date(Date.now() - 15 * 86_400_000));
+    expect((await lookUpCountersign(token)).status).toBe("expired");
+    expect(await countersignReport(token, "Late")).toEqual({ ok: false, reason: "expired" });
+    await row!.update({ countersignedAt: new Date(), countersignedByName: "Morgan Alvarez" });
+  });
+});
+
+describe("subscribers and the two-week batch", () => {
+  it("receive the signed report by e-mail with its PDF attached, read from storage when sent", async () => {
+    const project = await projectView();
+    const manager = asUser("manager");
+    const viewerEmail = (await (await import("~/lib/db.server")).User.findByPk(users.get("viewer")!.id))!.email;
+    const member = await addSubscriber(project, manager, { userId: users.get("viewer")!.id });
+    expect(member).toMatchObject({ email: viewerEmail, member: users.get("viewer")!.name });
+    const outside = await addSubscriber(project, manager, { email: "Contracts@Agency.example" });
+    expect(outside).toEqual({ id: outside.id, email: "contracts@agency.example", member: null });
+    expect(await thrown(() => addSubscriber(project, manager, { email: "contracts@agency.example" }))).toBeInstanceOf(ConflictError);
+    expect(await thrown(() => addSubscriber(project, manager, { userId: 999_999 }))).toHaveProperty("details", [{ field: "userId", message: "That person is not a member of this project." }]);
+    await signDailyReport(project, asUser("dive-supervisor"), NEXT, "Dana Reyes", null);
+    const report = await DailyReport.findOne({ where: { projectId, localDate: NEXT } });
+    const mails = await OutgoingMail.findAll({ where: { ref: `daily-report:${report!.id}` }, order: [["toAddress", "ASC"]] });
+    expect(mails.map((mail) => mail.toAddress)).toEqual(["contracts@agency.example", viewerEmail].sort());
+    expect(mails[0]!.attachments).toEqual([{ storageKey: `projects/${projectId}/daily-reports/${NEXT}/signed.pdf`, filename: `${project.slug}-daily-report-${NEXT}.pdf`, contentType: "application/pdf" }]);
+    // The outbox reads the stored file when it sends (a stand-in transport catches what would go out).
+    const sentMails: MailMessage[] = [];
+    await deliverDue(new Date(Date.now() + 1000), async (mail) => { sentMails.push(mail); });
+    const attached = sentMails.find((mail) => mail.to === "contracts@agency.example")!.attachments![0]!;
+    expect(attached.filename).toBe(`${project.slug}-daily-report-${NEXT}.pdf`);
+    const stored = await getObject(`projects/${projectId}/daily-reports/${NEXT}/signed.pdf`);
+    expect(Buffer.compare(attached.content, stored!.bytes)).toBe(0);
+    expect((await pdfPages(attached.content)).join("\n")).toMatch(/1\s*dives · 60\s*bottom minutes/);
+    await removeSubscriber(project, manager, member.id);
+    expect(await ReportSubscriber.count({ where: { projectId } })).toBe(1);
+  });
+
+  it("a batch is at most 14 days, one PDF with each day, sent to the subscribers", async () => {
+    expect(batchDates("2026-06-01", "2026-06-14")).toHaveLength(14);
+    expect(() => batchDates("2026-06-01", "2026-06-15")).toThrow(/at most 14 days/);
+    expect(() => batchDates("2026-06-10", "2026-06-09")).toThrow(/comes before the first/);
+    // Across a month's end and a leap day (calendar arithmetic, not 24-hour steps).
+    expect(batchDates("2028-02-27", "2028-03-01")).toEqual(["2028-02-27", "2028-02-28", "2028-02-29", "2028-03-01"]);
+    const project = await projectView();
+    const { bytes } = await dailyReportBatchPdf(project, PREVIOUS, NEXT);
+    const pages = await pdfPages(bytes);
+    const text = pages.join("\n");
+    for (const date of [PREVIOUS, DAY, NEXT]) expect(text).toContain(`Daily report · ${date}`);
+    expect(pages.length).toBeLessThanOrEqual(6);
+    const sent = await sendDailyReportBatch(project, asUser("manager"), PREVIOUS, NEXT);
+    expect(sent).toBe(1);
+    const mail = await OutgoingMail.findOne({ where: { ref: `daily-report-batch:${projectId}` } });
+    expect(mail!.toAddress).toBe("contracts@agency.example");
+    expect(mail!.attachments![0]!.filename).toBe(`${project.slug}-daily-reports-${PREVIOUS}-to-${NEXT}.pdf`);
+    expect(await getObject(mail!.attachments![0]!.storageKey)).not.toBeNull();
+  });
+});
+
+describe("the calendar", () => {
+  it("names each day's state: no work, draft, signed, countersigned, amended", async () => {
+    const project = await projectView();
+    const days = await listMonthDays(project, "2026-06");
+    expect(days).toHaveLength(30);
+    const state = (date: string) => days.find((day) => day.date === date)!.state;
+    expect(state("2026-06-01")).toBe("no work");
+    expect(state(PREVIOUS)).toBe("no work"); // a shift but no dive and no report
+    expect(state(DAY)).toBe("amended");
+    expect(state(NEXT)).toBe("signed");
+    const row = await DailyReport.findOne({ where: { projectId, localDate: NEXT } });
+    await row!.update({ countersignedAt: new Date(), countersignedByName: "Morgan Alvarez", countersignedEmail: "inspector@agency.example" });
+    expect((await listMonthDays(project, "2026-06")).find((day) => day.date === NEXT)!.state).toBe("countersigned");
+    await Dive.create({ projectId, diveDate: "2026-06-20", teamId: (await DiveTeam.findOne({ where: { projectId, name: "Alpha" } }))!.id, diverName: "D", leftSurfaceAt: null, leftBottomAt: null, bottomMinutes: 5, maxDepth: 3, notes: "" });
+    expect((await listMonthDays(project, "2026-06")).find((day) => day.date === "2026-06-20")).toEqual({ date: "2026-06-20", state: "draft", dives: 1 });
+  });
+});
+
+describe("a day that crosses a daylight-saving change", () => {
+  // America/New_York: 2026-03-08 has 23 hours (02:00 → 03:00), 2026-11-01 has 25 (02:00 → 01:00).
+  const SPRING = "2026-03-08";
+  const FALL = "2026-11-01";
+  let dstProjectId: number;
+
+  beforeAll(async () => {
+    const project = await makeProject("daily-report-dst");
+    dstProjectId = project.id;
+    await Project.update({ timeZone: TZ }, { where: { id: dstProjectId } });
+    const team = await DiveTeam.create({ projectId: dstProjectId, name: "Delta", hoses: [], members: [{ name: "a", email: "", duty: "diver" }, { name: "b", email: "", duty: "diver" }] });
+    for (const [day, minutes] of [[SPRING, 31], [SPRING, 29], [FALL, 44], ["2026-03-07", 50], ["2026-03-09", 70]] as const) {
+      await Dive.create({ projectId: dstProjectId, diveDate: day, teamId: team.id, diverName: "Diver", leftSurfaceAt: null, leftBottomAt: null, bottomMinutes: minutes, maxDepth: 10, notes: "" });
+    }
+    // A stand-down from the evening before each change until the morning after: the whole local day is lost.
+    for (const [day, after] of [["2026-03-07", "2026-03-09"], ["2026-10-31", "2026-11-02"]] as const) {
+      await WildlifeStandDown.create({ projectId: dstProjectId, species: "manatee", startedAt: local(day, 22), departedAt: local(after, 5), endsAt: local(after, 6), waitMinutes: 30, shutdownDistance: 50 });
+    }
+    // Finds at 23:30 local on each changing day, and at 00:30 the day after.
+    const find = (sequence: number, foundAt: Date) => Find.create({
+      projectId: dstProjectId, catalogueNumber: `FS-2026-${String(sequence).padStart(3, "0")}`, catalogueYear: 2026, catalogueSequence: sequence, category: "faunal", description: "x", material: "", count: 1, taxon: null, element: null, condition: "",
+      cellRow: 1, cellCol: 1, cellLabel: "B1", positionX: 600_010, positionY: 1_600_010, depthBelowSurface: null, depthInMuck: null, diveId: null, teamId: null, finder: "Diver", foundAt, fieldTag: "", accessionNumber: null, statusNote: null, idempotencyKey: null,
+    });
+    await find(1, local(SPRING, 23, 30));
+    await find(2, local("2026-03-09", 0, 30));
+    await find(3, local(FALL, 23, 30));
+    await find(4, local(FALL, 1, 30)); // the first 01:30 of the fall day (EDT)
+  });
+
+  it("sums only the local day's records and counts 23 or 25 hours of an interruption open all day", async () => {
+    const project = presentProject((await Project.findByPk(dstProjectId))!);
+    const spring = await dailyReportPdf(project, SPRING);
+    const { getDailyReport } = await import("~/models/daily-reports.server");
+    const springView = await getDailyReport(project, SPRING);
+    const fallView = await getDailyReport(project, FALL);
+    // computed: the sums of the records dated on each day
+    expect(springView.report.dives).toMatchObject({ count: 2, bottomMinutes: 60 });
+    expect(fallView.report.dives).toMatchObject({ count: 1, bottomMinutes: 44 });
+    // computed: a day of 23 and of 25 hours (America/New_York's changes in 2026)
+    expect(springView.report.lostHours).toBe(23);
+    expect(fallView.report.lostHours).toBe(25);
+    expect(springView.report.finds.catalogueNumbers).toEqual(["FS-2026-001"]);
+    expect(fallView.report.finds.catalogueNumbers).toEqual(["FS-2026-003", "FS-2026-004"]);
+    // The PDF carries the same figures as the page.
+    const text = (await pdfPages(spring.bytes)).join("\n");
+    expect(text).toMatch(/2\s*dives · 60\s*bottom minutes/);
+    expect(text).toMatch(/Lost in all:\s*23\s*h/);
   });
 });

@@ -46,6 +46,8 @@ const base = () => `/projects/${projectId}`;
 const ROUTES: PageRoute[] = [
   { route: "account", url: () => "/account", params: () => ({}), as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "admin/users", url: () => "/admin/users", params: () => ({}), as: "site-admin", limitBytes: FORM_LIMIT_BYTES },
+  // An unknown countersign link still reads its form (the typed name is checked first), within the page limit.
+  { route: "countersign/:token", url: () => "/countersign/no-such-link", params: () => ({ token: "no-such-link" }), as: "signed-out", limitBytes: FORM_LIMIT_BYTES },
   { route: "forgot-password", url: () => "/forgot-password", params: () => ({}), as: "signed-out", limitBytes: FORM_LIMIT_BYTES },
   // An unknown invitation is refused (410) before its form is read.
   { route: "invite/:token", url: () => "/invite/no-such-invitation", params: () => ({ token: "no-such-invitation" }), as: "signed-out", limitBytes: null },
@@ -63,6 +65,7 @@ const ROUTES: PageRoute[] = [
   { route: "projects/:projectId/dewatering/tubes", url: () => `${base()}/dewatering/tubes`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/finds/:findId", url: () => `${base()}/finds/999999`, params: () => ({ ...project(), findId: "999999" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/finds/new", url: () => `${base()}/finds/new`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/days", url: () => `${base()}/days`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/days/:date", url: () => `${base()}/days/2031-05-06`, params: () => ({ ...project(), date: "2031-05-06" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/holds", url: () => `${base()}/holds`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/map", url: () => `${base()}/map`, params: project, as: "manager", limitBytes: SHORELINE_MAX_BYTES + FIELDS_ALLOWANCE },

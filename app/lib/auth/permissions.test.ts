@@ -5,7 +5,7 @@ import { ROLES, type Role } from "./roles";
 // The expected table, written out by hand from the product's roles (DESIGN.md, "Who uses it"), not
 // generated from PERMISSIONS: a wrong entry in the table fails here.
 const EXPECTED: Record<Role, Action[]> = {
-  manager: ["project.read", "quantities.read", "quantities.sign", "members.manage", "audit.read", "project.configure", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "dewatering.log", "samples.record", "water-quality.record", "water-quality.configure", "stop-work.resume", "wildlife.record", "share-links.manage", "finds.read", "finds.log", "finds.locations.read", "holds.lift", "reports.read", "reports.sign", "teams.manage", "project.archive"],
+  manager: ["project.read", "quantities.read", "quantities.sign", "members.manage", "audit.read", "project.configure", "map.configure", "surveys.import", "surveys.import.others", "surveys.retract", "plans.assign", "dives.log", "dewatering.log", "samples.record", "water-quality.record", "water-quality.configure", "stop-work.resume", "wildlife.record", "share-links.manage", "finds.read", "finds.log", "finds.locations.read", "holds.lift", "reports.read", "reports.sign", "reports.distribute", "teams.manage", "project.archive"],
   surveyor: ["project.read", "quantities.read", "surveys.import", "finds.read", "reports.read"],
   "dive-supervisor": ["project.read", "quantities.read", "plans.assign", "dives.log", "wildlife.record", "finds.read", "reports.read", "reports.sign", "teams.manage"],
   dewatering: ["project.read", "dewatering.log", "water-quality.record", "wildlife.record", "finds.read", "reports.read"],

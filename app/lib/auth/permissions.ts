@@ -74,8 +74,16 @@ export const PERMISSIONS = {
    * and has no need of the day's record.
    */
   "reports.read": ["manager", "surveyor", "dive-supervisor", "dewatering", "resource-monitor", "viewer"],
-  /** Enter a day's weather and notes, sign the day's report, add amendments to a signed one. */
+  /**
+   * Enter a day's weather and notes, sign the day's report, add amendments to a signed one, and
+   * send the agency's inspector the one-time link to countersign it.
+   */
   "reports.sign": ["manager", "dive-supervisor"],
+  /**
+   * Choose who receives the signed reports (members and outside addresses such as the agency's
+   * contract manager) and send them a two-week batch: the manager answers for what leaves the project.
+   */
+  "reports.distribute": ["manager"],
   /** Public progress links. */
   "share-links.manage": ["manager", "outreach"],
   /**

@@ -26,8 +26,9 @@ export interface MailMessage {
   to: string;
   subject: string;
   text: string;
+  attachments?: Array<{ filename: string; contentType: string; content: Buffer }>;
 }
 
 export async function transportMail(mail: MailMessage): Promise<void> {
-  await getTransporter().sendMail({ from: getEnv().MAIL_FROM, to: mail.to, subject: mail.subject, text: mail.text });
+  await getTransporter().sendMail({ from: getEnv().MAIL_FROM, to: mail.to, subject: mail.subject, text: mail.text, attachments: mail.attachments ?? [] });
 }

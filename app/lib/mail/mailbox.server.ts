@@ -12,6 +12,7 @@ const messageSchema = z.object({
   to: z.string().nullable().default(null),
   subject: z.string().default(""),
   text: z.string().default(""),
+  attachments: z.array(z.object({ filename: z.string().nullable(), contentType: z.string(), size: z.number(), sha256: z.string() })).default([]),
 });
 export type MailboxMessage = z.infer<typeof messageSchema>;
 

@@ -1,5 +1,6 @@
 import { Op, type Transaction } from "sequelize";
-import { OutgoingMail, type OutgoingMailStatus } from "~/lib/db.server";
+import { OutgoingMail, type MailAttachment, type OutgoingMailStatus } from "~/lib/db.server";
+import { getObject } from "~/lib/storage/storage.server";
 import { transportMail, type MailMessage } from "./mail.server";
 
 /**
@@ -10,9 +11,15 @@ import { transportMail, type MailMessage } from "./mail.server";
  * (the forgot-password page relies on that) and succeeds while the mail server is away.
  */
 
-export interface QueuedMail extends MailMessage {
+export interface QueuedMail extends Omit<MailMessage, "attachments"> {
   /** What the mail belongs to ("invitation:12"), so a page can say it is not sent yet. */
   ref?: string;
+  /**
+   * Files to attach, named by their object-storage keys (app/lib/storage): the caller stores the
+   * file first; the delivery loop reads it when it sends, so the outbox row stays small. A key
+   * with no object is a failed attempt, retried like an SMTP refusal.
+   */
+  attachments?: MailAttachment[];
 }
 
 /** Pauses before the 2nd, 3rd… attempt; the last is repeated until MAX_ATTEMPTS. */
@@ -28,7 +35,7 @@ let timer: NodeJS.Timeout | null = null;
 
 export async function queueMail(mail: QueuedMail, transaction?: Transaction): Promise<void> {
   await OutgoingMail.create(
-    { toAddress: mail.to, subject: mail.subject.slice(0, 300), bodyText: mail.text, ref: mail.ref ?? null, nextAttemptAt: new Date() },
+    { toAddress: mail.to, subject: mail.subject.slice(0, 300), bodyText: mail.text, ref: mail.ref ?? null, attachments: mail.attachments?.length ? mail.attachments : null, nextAttemptAt: new Date() },
     { transaction },
   );
   // Sent once the record is committed, never before (a rolled-back invitation sends nothing), by
@@ -93,7 +100,7 @@ export async function deliverDue(now = new Date(), send: (mail: MailMessage) => 
     if (claimed !== 1) continue;
     const attempts = mail.attempts + 1;
     try {
-      await send({ to: mail.toAddress, subject: mail.subject, text: mail.bodyText });
+      await send({ to: mail.toAddress, subject: mail.subject, text: mail.bodyText, attachments: await attachmentsOf(mail.attachments ?? []) });
       await OutgoingMail.update({ status: "sent", attempts, sentAt: new Date(), lastError: null }, { where: { id: mail.id } });
       sent++;
     } catch (error) {
@@ -110,6 +117,17 @@ export async function deliverDue(now = new Date(), send: (mail: MailMessage) => 
     }
   }
   return sent;
+}
+
+/** The stored files a mail carries, read from storage; a missing object fails the attempt. */
+async function attachmentsOf(attachments: readonly MailAttachment[]): Promise<NonNullable<MailMessage["attachments"]>> {
+  const files: NonNullable<MailMessage["attachments"]> = [];
+  for (const attachment of attachments) {
+    const stored = await getObject(attachment.storageKey);
+    if (!stored) throw new Error(`the attachment ${attachment.filename} is not in storage (${attachment.storageKey})`);
+    files.push({ filename: attachment.filename, contentType: attachment.contentType, content: stored.bytes });
+  }
+  return files;
 }
 
 export interface MailState {

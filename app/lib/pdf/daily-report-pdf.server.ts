@@ -1,0 +1,256 @@
+import { readFileSync } from "node:fs";
+import { createRequire } from "node:module";
+import PDFDocument from "pdfkit";
+import type { CompiledDay } from "../../../shared/daily-report/compile";
+import { findsLine, formatNumber, interruptionLine, productionRows, reportUnits, surveyLine, weatherLine } from "../../../shared/daily-report/present";
+import { localClockOf, localDayOf } from "../../../shared/local-time";
+import { unitLabel, type LengthUnit } from "../../../shared/units";
+
+/**
+ * The daily report as a PDF (pdfkit), for e-mail and the archive. It writes out the same compiled
+ * day the page shows (the figures go through shared/daily-report/present.ts for both), on US
+ * Letter, a normal day on one or two pages. Words are set in Helvetica, the PDF standard font every
+ * reader carries (pdfkit ships its metrics; nothing is fetched); figures in the Roboto Mono the app
+ * ships (@fontsource/roboto-mono), embedded as a subset.
+ */
+
+export interface PdfDay {
+  date: string;
+  report: CompiledDay;
+  signed: { name: string; at: string } | null;
+  countersigned: { name: string; email: string; at: string } | null;
+  amendments: Array<{ text: string; by: string; at: string }>;
+}
+
+export interface PdfProject {
+  name: string;
+  timeZone: string;
+  lengthUnit: LengthUnit;
+}
+
+const require = createRequire(import.meta.url);
+let monoFont: Buffer | null = null;
+function mono(): Buffer {
+  monoFont ??= readFileSync(require.resolve("@fontsource/roboto-mono/files/roboto-mono-latin-400-normal.woff"));
+  return monoFont;
+}
+
+const INK = "#1d2528";
+const MUTED = "#5b6870";
+const DANGER = "#a3242a";
+const LINE = "#d5dcdf";
+const MARGIN = 48;
+
+/**
+ * Helvetica in a PDF reader covers Windows-1252: anything else a user typed (a letter outside
+ * Western Europe, an emoji) is written as "?" rather than as a wrong glyph.
+ */
+const WIN_ANSI_EXTRA = "€‚ƒ„…†‡ˆ‰Š‹ŒŽ‘’“”•–—˜™š›œžŸ";
+function plain(text: string): string {
+  return [...text.normalize("NFC")].map((char) => {
+    const code = char.codePointAt(0)!;
+    return (code >= 0x20 && code <= 0x7e) || (code >= 0xa0 && code <= 0xff) || WIN_ANSI_EXTRA.includes(char) || char === "\n" ? char : "?";
+  }).join("");
+}
+
+class ReportWriter {
+  readonly doc: PDFKit.PDFDocument;
+  private readonly width: number;
+
+  constructor(title: string) {
+    this.doc = new PDFDocument({ size: "LETTER", margins: { top: MARGIN, bottom: MARGIN + 14, left: MARGIN, right: MARGIN }, bufferPages: true, info: { Title: title, Creator: "Firmsand" }, lang: "en-US" });
+    this.doc.registerFont("mono", mono());
+    this.width = this.doc.page.width - 2 * MARGIN;
+  }
+
+  private room(height: number) {
+    if (this.doc.y + height > this.doc.page.height - this.doc.page.margins.bottom) this.doc.addPage();
+  }
+
+  heading(text: string) {
+    this.room(40);
+    this.doc.moveDown(0.5).font("Helvetica-Bold").fontSize(10.5).fillColor(INK).text(plain(text), MARGIN, this.doc.y, { width: this.width });
+    const y = this.doc.y + 1;
+    this.doc.moveTo(MARGIN, y).lineTo(MARGIN + this.width, y).lineWidth(0.5).strokeColor(LINE).stroke();
+    this.doc.y = y + 3;
+  }
+
+  /** Words and figures on one line: figures in the mono. */
+  line(parts: Array<string | { figure: string } | { danger: string }>, options: { size?: number; color?: string } = {}) {
+    const size = options.size ?? 9;
+    this.room(size * 2);
+    parts.forEach((part, index) => {
+      const continued = index < parts.length - 1;
+      const start = index === 0 ? { x: MARGIN, width: this.width } : {};
+      if (typeof part === "string") this.doc.font("Helvetica").fontSize(size).fillColor(options.color ?? INK).text(plain(part), start.x, undefined, { ...start, continued });
+      else if ("figure" in part) this.doc.font("mono").fontSize(size - 0.5).fillColor(options.color ?? INK).text(part.figure, start.x, undefined, { ...start, continued });
+      else this.doc.font("Helvetica").fontSize(size).fillColor(DANGER).text(plain(part.danger), start.x, undefined, { ...start, continued });
+    });
+  }
+
+  note(text: string) {
+    this.line([text], { size: 7.5, color: MUTED });
+  }
+
+  /** A table of words and figures; `figures` marks the columns set in the mono. */
+  table(headers: string[] | null, rows: string[][], widths: number[], figures: boolean[]) {
+    const total = widths.reduce((a, b) => a + b, 0);
+    const columns = widths.map((width) => (width / total) * this.width);
+    const drawRow = (cells: string[], header: boolean) => {
+      const heights = cells.map((cell, index) => {
+        this.doc.font(header ? "Helvetica-Bold" : figures[index] ? "mono" : "Helvetica").fontSize(header ? 8 : 8.5);
+        return this.doc.heightOfString(header || !figures[index] ? plain(cell) : cell, { width: columns[index]! - 6 });
+      });
+      const height = Math.max(...heights) + 4;
+      this.room(height + 2);
+      const top = this.doc.y;
+      let x = MARGIN;
+      cells.forEach((cell, index) => {
+        this.doc.font(header ? "Helvetica-Bold" : figures[index] ? "mono" : "Helvetica").fontSize(header ? 8 : 8.5).fillColor(header ? MUTED : INK)
+          .text(header || !figures[index] ? plain(cell) : cell, x, top + 2, { width: columns[index]! - 6 });
+        x += columns[index]!;
+      });
+      this.doc.moveTo(MARGIN, top + height).lineTo(MARGIN + this.width, top + height).lineWidth(0.3).strokeColor(LINE).stroke();
+      this.doc.y = top + height + 1;
+    };
+    if (headers) drawRow(headers, true);
+    for (const row of rows) drawRow(row, false);
+  }
+
+  /** A signature line: what was signed, or a blank line to sign by hand. */
+  signature(label: string, signed: { name: string; detail: string } | null) {
+    this.room(44);
+    this.doc.moveDown(0.6);
+    const top = this.doc.y;
+    if (signed) {
+      this.doc.font("Helvetica-Oblique").fontSize(12).fillColor(INK).text(plain(signed.name), MARGIN, top, { width: this.width / 2 });
+    }
+    const y = top + 16;
+    this.doc.moveTo(MARGIN, y).lineTo(MARGIN + this.width * 0.55, y).lineWidth(0.7).strokeColor(INK).stroke();
+    this.doc.font("Helvetica").fontSize(8).fillColor(MUTED).text(plain(`${label}${signed ? ` — ${signed.detail}` : " — not signed"}`), MARGIN, y + 3, { width: this.width });
+    this.doc.y = y + 16;
+  }
+
+  footer(left: string) {
+    const range = this.doc.bufferedPageRange();
+    for (let index = range.start; index < range.start + range.count; index += 1) {
+      this.doc.switchToPage(index);
+      const bottom = this.doc.page.height - MARGIN + 2;
+      const saved = this.doc.page.margins.bottom;
+      this.doc.page.margins.bottom = 0;
+      this.doc.font("Helvetica").fontSize(7.5).fillColor(MUTED).text(plain(left), MARGIN, bottom, { width: this.width * 0.8, lineBreak: false });
+      this.doc.font("Helvetica").fontSize(7.5).fillColor(MUTED).text(`Page ${index - range.start + 1} of ${range.count}`, MARGIN, bottom, { width: this.width, align: "right", lineBreak: false });
+      this.doc.page.margins.bottom = saved;
+    }
+  }
+
+  async bytes(): Promise<Buffer> {
+    const chunks: Buffer[] = [];
+    this.doc.on("data", (chunk: Buffer) => chunks.push(chunk));
+    const done = new Promise<void>((resolve, reject) => {
+      this.doc.on("end", () => resolve());
+      this.doc.on("error", reject);
+    });
+    this.doc.end();
+    await done;
+    return Buffer.concat(chunks);
+  }
+}
+
+function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
+  const { report, signed, countersigned, amendments } = day;
+  const units = reportUnits(project.lengthUnit);
+  const length = unitLabel(project.lengthUnit);
+  const clock = (iso: string) => localClockOf(Date.parse(iso), project.timeZone);
+  const stamp = (iso: string) => `${localDayOf(Date.parse(iso), project.timeZone)} ${clock(iso)}`;
+  const doc = writer.doc;
+
+  doc.font("Helvetica").fontSize(8).fillColor(MUTED).text(plain(`Firmsand · ${project.name}`), MARGIN, doc.y);
+  writer.line(["Daily report · ", { figure: day.date }], { size: 15 });
+  writer.note(`Local day in ${project.timeZone}. ${signed ? `Figures as signed by ${signed.name} at ${stamp(signed.at)}.` : "Draft: figures compiled from the records as they stand now; not signed."}`);
+
+  if (report.missing.length > 0) {
+    writer.heading("Missing");
+    for (const item of report.missing) writer.line([{ danger: `• ${item}` }]);
+  }
+
+  writer.heading("Weather and notes");
+  const weather = weatherLine(report.entered.weather);
+  writer.line([weather ?? "No weather entered.", ...(report.entered.weather?.effect ? [` — effect on the work: ${report.entered.weather.effect}`] : [])]);
+  if (report.entered.inspections) writer.line([`Inspections and visitors: ${report.entered.inspections}`]);
+  if (report.entered.safety) writer.line([`Safety: ${report.entered.safety}`]);
+  if (report.entered.notes) writer.line([`Notes: ${report.entered.notes}`]);
+  writer.note("Incidents are reported as the project's safety plan directs; this report records them, it does not replace that reporting.");
+
+  writer.heading("Dive work");
+  writer.line([{ figure: String(report.dives.count) }, " dives · ", { figure: String(report.dives.bottomMinutes) }, " bottom minutes · deepest ", { figure: report.dives.maxDepth === null ? "—" : `${report.dives.maxDepth} ${length}` }]);
+  if (report.teams.length > 0) {
+    writer.table(
+      ["Team", "Head count", "Dives", "Bottom time (min)", `Max depth (${length})`, "Cells"],
+      report.teams.map((team) => [team.team, team.headCount === null ? "—" : String(team.headCount), String(team.dives), String(team.bottomMinutes), team.maxDepth === null ? "—" : String(team.maxDepth), team.cells.join(" ")]),
+      [3, 1.5, 1.2, 2, 2, 4],
+      [false, true, true, true, true, true],
+    );
+  }
+  const visitors = report.teams.filter((team) => (team.visitors ?? []).length > 0);
+  if (visitors.length > 0) writer.line([`Visitors diving (not on the team's roster): ${visitors.map((team) => `${team.team}: ${team.visitors!.join(", ")}`).join("; ")}.`]);
+  for (const flag of report.dives.flags) writer.line([{ danger: `• ${flag}` }]);
+  if (report.dives.flags.length > 0) writer.note("Flags are information from the published table, never approval; the dive safety plan governs.");
+
+  writer.heading("Production");
+  const rows = productionRows(report.production, units);
+  writer.table(null, [0, 2, 4, 6].map((index) => [rows[index]![0], rows[index]![1], rows[index + 1]![0], rows[index + 1]![1]]), [3, 2.5, 3, 2.5], [false, true, false, true]);
+  if (report.production.haulTickets.length > 0) writer.line(["Tickets: ", { figure: report.production.haulTickets.join(", ") }], { size: 8 });
+  const survey = surveyLine(report.production.survey);
+  if (survey) writer.line([survey]);
+
+  writer.heading("Water quality");
+  if (report.waterQuality.readings.length === 0) writer.line(["No stations and no readings."], { color: MUTED });
+  for (const row of report.waterQuality.readings) {
+    writer.line([`${row.station} (${row.stationKind}): `, { figure: String(row.count) }, " readings", ...(row.count > 0 ? [", highest ", { figure: String(row.maxValue) }, ` ${row.unit} · `, row.verdict === "exceeds" ? { danger: row.verdict } : row.verdict] : [])]);
+  }
+  for (const row of report.waterQuality.exceedances) writer.line([{ danger: `Exceedance at ${row.station}, ${clock(row.at)}: ` }, { figure: String(row.value) }, ` ${row.unit}`]);
+  for (const gap of report.waterQuality.missedIntervals) writer.line([{ danger: `Not sampled ${clock(gap.from)}–${clock(gap.to)}` }]);
+  writer.note("Readings support the permit's monitoring; the permit and the agency decide compliance.");
+
+  writer.heading("Interruptions");
+  if (report.interruptions.length === 0) writer.line(["None recorded."], { color: MUTED });
+  for (const event of report.interruptions) writer.line([interruptionLine(event, project.timeZone)]);
+  writer.line(["Lost in all: ", { figure: formatNumber(report.lostHours, 2) }, " h"]);
+
+  writer.heading("Finds");
+  writer.line([findsLine(report.finds.byCategory) ?? "No finds."]);
+  if (report.finds.catalogueNumbers.length > 0) writer.line([{ figure: report.finds.catalogueNumbers.join(", ") }], { size: 8 });
+  if (report.holds.placed.length > 0) writer.line(["Holds placed: ", { figure: report.holds.placed.join(", ") }]);
+  if (report.holds.lifted.length > 0) writer.line(["Holds lifted: ", { figure: report.holds.lifted.join(", ") }]);
+  writer.note("No find locations appear in this report.");
+
+  writer.heading("Sign-off");
+  writer.signature("Dive supervisor or manager (typed name as signature)", signed ? { name: signed.name, detail: `signed ${stamp(signed.at)}` } : null);
+  writer.signature("Agency inspector (countersignature)", countersigned ? { name: countersigned.name, detail: `countersigned ${stamp(countersigned.at)} through the link sent to ${countersigned.email}` } : null);
+  if (amendments.length > 0) {
+    writer.heading("Amendments");
+    for (const amendment of amendments) writer.line([{ figure: stamp(amendment.at) }, ` by ${amendment.by}: ${amendment.text}`]);
+  }
+}
+
+/** One day's report as PDF bytes. */
+export async function renderDailyReportPdf(project: PdfProject, day: PdfDay): Promise<Buffer> {
+  const writer = new ReportWriter(`Daily report ${day.date} · ${project.name}`);
+  writeDay(writer, project, day);
+  writer.footer(`${project.name} · daily report ${day.date} · ${day.signed ? "as signed" : "draft"}`);
+  return writer.bytes();
+}
+
+/** Several days in one PDF (a two-week batch), each day starting on a new page. */
+export async function renderDailyReportBatchPdf(project: PdfProject, days: readonly PdfDay[]): Promise<Buffer> {
+  const first = days[0]?.date ?? "";
+  const last = days.at(-1)?.date ?? "";
+  const writer = new ReportWriter(`Daily reports ${first} to ${last} · ${project.name}`);
+  days.forEach((day, index) => {
+    if (index > 0) writer.doc.addPage();
+    writeDay(writer, project, day);
+  });
+  writer.footer(`${project.name} · daily reports ${first} to ${last}`);
+  return writer.bytes();
+}

@@ -1,0 +1,88 @@
+import { FIND_CATEGORY_LABELS, type FindCategory } from "../finds/finds";
+import { localClockOf } from "../local-time";
+import { LITRES_PER_US_GALLON, kilogramsTo, massUnitsFor, measureLabel, type LengthUnit } from "../units";
+import type { CompiledDay, Weather } from "./compile";
+
+/**
+ * How a compiled day's figures are written out, once for the page and the PDF: the report keeps
+ * SI figures and shows them in the project's units (US gallons, short tons and pounds on a feet
+ * project; cubic metres, tonnes and kilograms on a metre project). Pure.
+ */
+
+export const formatNumber = (value: number, places = 1) => value.toLocaleString("en-US", { maximumFractionDigits: places });
+
+export interface ReportUnits {
+  slurry: (m3: number) => string;
+  bulk: (kg: number) => string;
+  mass: (kg: number) => string;
+}
+
+export function reportUnits(lengthUnit: LengthUnit): ReportUnits {
+  const { mass, bulkMass } = massUnitsFor(lengthUnit);
+  const metric = lengthUnit === "m";
+  return {
+    slurry: (m3) => (metric ? `${formatNumber(m3)} m³` : `${formatNumber((m3 * 1000) / LITRES_PER_US_GALLON, 0)} gal`),
+    bulk: (kg) => `${formatNumber(kilogramsTo(kg, bulkMass), 2)} ${measureLabel(bulkMass)}`,
+    mass: (kg) => `${formatNumber(kilogramsTo(kg, mass), metric ? 2 : 1)} ${measureLabel(mass)}`,
+  };
+}
+
+/** The production figures as label and value, in the order the page and the PDF show them. */
+export function productionRows(production: CompiledDay["production"], units: ReportUnits): Array<[string, string]> {
+  return [
+    ["Shifts", String(production.shifts)],
+    ["Pump hours", formatNumber(production.pumpHours, 2)],
+    ["Slurry pumped", units.slurry(production.slurryPumpedM3)],
+    ["Dry solids pumped", units.bulk(production.drySolidsKg)],
+    ["Neat polymer", units.mass(production.neatPolymerKg)],
+    ["Tube fills", String(production.tubeFills)],
+    ["Haul loads", String(production.haulLoads)],
+    ["Dry solids hauled", units.bulk(production.haulDrySolidsKg)],
+  ];
+}
+
+/** "Overcast · 18 °C · wind SW 10 kn · rain none", or null when nothing was entered. */
+export function weatherLine(weather: Weather | null): string | null {
+  if (!weather) return null;
+  const line = [weather.conditions, weather.airTemperature, weather.wind && `wind ${weather.wind}`, weather.rain && `rain ${weather.rain}`].filter(Boolean).join(" · ");
+  return line || null;
+}
+
+/** "Cultural: 1 · Faunal: 2", or null when there were no finds. */
+export function findsLine(byCategory: Record<string, number>): string | null {
+  const entries = Object.entries(byCategory);
+  if (entries.length === 0) return null;
+  return entries.map(([category, count]) => `${FIND_CATEGORY_LABELS[category as FindCategory] ?? category}: ${count}`).join(" · ");
+}
+
+/** An interruption in words, with its local times and the hours it cost on the day. */
+export function interruptionLine(event: CompiledDay["interruptions"][number], timeZone: string): string {
+  const clock = (iso: string) => localClockOf(Date.parse(iso), timeZone);
+  return `${event.kind === "stop-work" ? "Stop-work" : "Wildlife stand-down"} (${event.reason}) from ${clock(event.start)} to ${event.end ? clock(event.end) : "still open"}: ${formatNumber(event.lostHours, 2)} h lost on the day`;
+}
+
+/** The survey of the day against the one before it, in words, or null when no survey fell on the day. */
+export function surveyLine(survey: CompiledDay["production"]["survey"]): string | null {
+  if (!survey) return null;
+  const cells = Math.abs(survey.cellsReachedFirmSand) === 1 ? "cell" : "cells";
+  return `Survey of this day${survey.since ? ` against the survey of ${survey.since}` : ""}: ${formatNumber(survey.removedVolume)} ${survey.volumeLabel} removed, ${survey.cellsReachedFirmSand} ${cells} newly at firm sand, ${formatNumber(survey.remainingVolume)} ${survey.volumeLabel} remaining.`;
+}
+
+/** A batch sent or downloaded as one PDF holds at most two weeks of days. */
+export const BATCH_DAYS = 14;
+
+/** A report's state on the calendar, and its words (never colour alone). */
+export type DayState = "no work" | "draft" | "signed" | "countersigned" | "amended";
+
+export const DAY_STATE_DESCRIPTIONS: Record<DayState, string> = {
+  "no work": "no dives and no report",
+  draft: "work logged or notes entered, not signed",
+  signed: "signed by the supervisor, locked",
+  countersigned: "signed and countersigned by the agency's inspector",
+  amended: "signed, with a dated amendment beside it",
+};
+
+export function dayState(report: { signed: boolean; countersigned: boolean; amendments: number } | null, worked: boolean): DayState {
+  if (report?.signed) return report.amendments > 0 ? "amended" : report.countersigned ? "countersigned" : "signed";
+  return report || worked ? "draft" : "no work";
+}
