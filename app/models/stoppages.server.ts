@@ -27,5 +27,5 @@ export function workStoppedMessage(stoppages: Stoppages): string | null {
     ...stoppages.standDowns.map((standDown) => `a ${standDown.species} stand-down`),
   ];
   if (reasons.length === 0) return null;
-  return `Work is stopped: ${reasons.join(" and ")}. Assignments are still recorded, but no in-water work until it is cleared.`;
+  return `Work is stopped: ${reasons.join(" and ")}. No cells can be assigned for today until it is cleared (later days may be planned), and no in-water work meanwhile.`;
 }

@@ -7,7 +7,7 @@ import { DEFAULT_SHUTDOWN_DISTANCE_FT, DEFAULT_STAND_DOWN_SOURCE, DEFAULT_STAND_
 import { evaluateTurbidity, TURBIDITY_RULE_KINDS, TURBIDITY_UNITS, verdictInWords, type TurbidityEvaluation, type TurbidityRule, type TurbidityUnit } from "../../shared/water-quality/turbidity-rule";
 import { convertLength } from "../../shared/units";
 import { DEPTH_RULES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
-import { getSequelize, Membership, MonitoringStation, StopWorkEvent, TurbidityRuleRecord, User, WaterQualityReading, WaterQualitySettings } from "~/lib/db.server";
+import { getSequelize, Membership, MonitoringStation, Project, StopWorkEvent, TurbidityRuleRecord, User, WaterQualityReading, WaterQualitySettings } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { queueMail } from "~/lib/mail/outbox.server";
@@ -344,6 +344,9 @@ export async function recordReading(project: ProjectView, user: UserView, input:
   }
   const outcome = await getSequelize().transaction(async (transaction) => {
     const idempotency = await claimIdempotencyKey(transaction);
+    // The project row's lock first: an assignment for today waits on it before looking for open
+    // stop-work events (assignments.server.ts), so one opened here is never slipped past.
+    await Project.findByPk(project.id, { attributes: ["id"], lock: transaction.LOCK.UPDATE, transaction });
     const station = await findStation(project, input.station, transaction);
     // Serialise evaluations of one project so two exceedances at once open one event.
     await MonitoringStation.findAll({ where: { projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
