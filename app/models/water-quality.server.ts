@@ -278,6 +278,20 @@ export interface ReadingRecorded {
   alerted?: string[];
   /** Safety notices in plain sentences (an exceedance and its stop-work); empty when none apply. */
   notices: string[];
+  /**
+   * A background reading only: the compliance readings that were waiting for a background in
+   * their pairing window (recorded before it, unpaired, no verdict) and are judged now with it.
+   */
+  judged?: LateVerdict[];
+}
+
+/** A compliance reading judged when a background in its pairing window was entered after it. */
+export interface LateVerdict {
+  id: number;
+  station: string;
+  takenAt: string;
+  evaluation: TurbidityEvaluation;
+  verdict: string;
 }
 
 export interface ReadingView {
@@ -381,6 +395,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     await recordAudit({ action: AUDIT_ACTIONS.waterQualityReadingRecorded, projectId: project.id, userId: user.id, ip, detail: { id: reading.id, station: station.name, takenAt: input.takenAt, value: input.value, unit: input.unit, exceeds: evaluation?.exceeds ?? null } }, transaction);
     let stopWork: StopWorkEvent | null = null;
     let opened = false;
+    const late = station.kind === "background" ? await judgeWaitingReadings(project, user, reading, ip, transaction) : [];
     if (evaluation?.exceeds) {
       stopWork = await StopWorkEvent.findOne({ where: { projectId: project.id, stationId: station.id, resumedAt: null }, transaction });
       if (!stopWork) {
@@ -392,7 +407,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
         await recordAudit({ action: AUDIT_ACTIONS.stopWorkOpened, projectId: project.id, userId: user.id, ip, detail: { id: stopWork.id, station: station.name, readingId: reading.id } }, transaction);
       }
     }
-    return { reading, station, evaluation, stopWork, opened };
+    return { reading, station, evaluation, stopWork, opened, late };
   });
   const result: ReadingRecorded = {
     id: outcome.reading.id,
@@ -403,10 +418,102 @@ export async function recordReading(project: ProjectView, user: UserView, input:
   if (outcome.stopWork) result.stopWork = { id: outcome.stopWork.id, notifyBy: outcome.stopWork.notifyBy.toISOString() };
   result.notices = readingNotices({ verdict: result.verdict, exceeds: outcome.evaluation?.exceeds ?? null, stopWork: result.stopWork });
   if (outcome.opened && outcome.evaluation && options.alert !== false) result.alerted = await alertExceedance(project, outcome.station.name, input, outcome.evaluation, outcome.stopWork!);
+  if (outcome.late.length > 0) {
+    result.judged = outcome.late.map(lateVerdictOf);
+    const event = outcome.late.find((judged) => judged.stopWork)?.stopWork;
+    if (event) result.stopWork = { id: event.id, notifyBy: event.notifyBy.toISOString() };
+    result.notices = [...result.notices, ...lateNotices(result.judged, result.stopWork)];
+    const alerted = new Set<string>();
+    for (const judged of outcome.late) {
+      if (!judged.opened || options.alert === false) continue;
+      const { reading } = judged;
+      const figures = { value: reading.value, unit: reading.unit, takenAt: reading.takenAt.toISOString(), sampledBy: reading.sampledBy, lateBackgroundAt: outcome.reading.takenAt.toISOString() };
+      for (const to of await alertExceedance(project, judged.stationName, figures, judged.evaluation, judged.stopWork!)) alerted.add(to);
+    }
+    if (alerted.size > 0) result.alerted = [...alerted];
+  }
   return result;
 }
 
+interface JudgedLater {
+  reading: WaterQualityReading;
+  stationName: string;
+  evaluation: TurbidityEvaluation;
+  stopWork: StopWorkEvent | null;
+  opened: boolean;
+}
+
+const lateVerdictOf = (judged: { reading: WaterQualityReading; stationName: string; evaluation: TurbidityEvaluation }): LateVerdict => ({
+  id: judged.reading.id, station: judged.stationName, takenAt: judged.reading.takenAt.toISOString(), evaluation: judged.evaluation, verdict: verdictInWords(judged.evaluation, judged.reading.unit),
+});
+
+function lateNotices(judged: LateVerdict[], stopWork: StopWorkRef | undefined): string[] {
+  const exceeded = judged.filter((verdict) => verdict.evaluation.exceeds);
+  const lines = [`This background gave ${judged.length === 1 ? "a verdict" : "verdicts"} to ${judged.length} compliance reading${judged.length === 1 ? "" : "s"} waiting for one: ${judged.map((verdict) => `#${verdict.id} at ${verdict.station}, ${verdict.evaluation.exceeds ? "exceeds" : "within"}`).join("; ")}.`];
+  if (exceeded.length > 0 && stopWork) lines.push(`Stop-work event #${stopWork.id} is open: stop the work causing the exceedance, notify the agency by ${stopWork.notifyBy}, and resample until within the limit.`);
+  return lines;
+}
+
+/**
+ * A background entered after compliance readings that were waiting for one (unpaired, so no
+ * verdict under a relative rule): each compliance reading of the same unit whose rule's pairing
+ * window reaches this background is paired now with its nearest background and judged with the
+ * rule it was recorded under. An exceedance found so opens the station's stop-work event like one
+ * found on save (or joins the open one), once: a judged reading never waits again. The event opens
+ * when both samples existed (the later of the two times), the earliest the exceedance could be
+ * known, and the agency deadline counts from then. Readings that already have a verdict (an
+ * absolute rule judges an unpaired reading against its limit) keep it.
+ */
+async function judgeWaitingReadings(project: ProjectView, user: UserView, background: WaterQualityReading, ip: string | null, transaction: Transaction): Promise<JudgedLater[]> {
+  const takenAtMs = background.takenAt.getTime();
+  const widestMs = 1440 * 60_000; // the widest pairing window a rule may set
+  const waiting = await WaterQualityReading.findAll({
+    where: { projectId: project.id, unit: background.unit, paired: false, exceeds: null, id: { [Op.lt]: background.id }, takenAt: { [Op.between]: [new Date(takenAtMs - widestMs), new Date(takenAtMs + widestMs)] } },
+    include: [{ model: MonitoringStation, as: "station", where: { kind: "compliance" }, attributes: ["id", "name"] }],
+    order: [["takenAt", "ASC"], ["id", "ASC"]],
+    transaction,
+  });
+  const judged: JudgedLater[] = [];
+  for (const reading of waiting) {
+    const rule = reading.ruleId ? await TurbidityRuleRecord.findByPk(reading.ruleId, { transaction }) : null;
+    if (!rule || Math.abs(reading.takenAt.getTime() - takenAtMs) > rule.pairingWindowMinutes * 60_000) continue;
+    const windowMs = rule.pairingWindowMinutes * 60_000;
+    const candidates = await WaterQualityReading.findAll({
+      where: { projectId: project.id, unit: reading.unit, takenAt: { [Op.between]: [new Date(reading.takenAt.getTime() - windowMs), new Date(reading.takenAt.getTime() + windowMs)] } },
+      include: [{ model: MonitoringStation, as: "station", where: { kind: "background" }, attributes: ["id"] }],
+      transaction,
+    });
+    const paired = pairBackground(reading.takenAt.getTime(), candidates.map((candidate) => ({ id: candidate.id, takenAtMs: candidate.takenAt.getTime(), value: candidate.value })), rule.pairingWindowMinutes);
+    if (!paired) continue;
+    const evaluation = evaluateTurbidity(ruleOf(rule), reading.value, paired.value);
+    await reading.update(
+      { backgroundReadingId: paired.id, paired: evaluation.paired, backgroundNtu: evaluation.background, differenceNtu: evaluation.difference, limitNtu: evaluation.limit, exceeds: evaluation.exceeds },
+      { transaction },
+    );
+    const stationName = reading.station?.name ?? "";
+    await recordAudit({ action: AUDIT_ACTIONS.waterQualityReadingJudged, projectId: project.id, userId: user.id, ip, detail: { id: reading.id, station: stationName, backgroundReadingId: paired.id, exceeds: evaluation.exceeds } }, transaction);
+    let stopWork: StopWorkEvent | null = null;
+    let opened = false;
+    if (evaluation.exceeds) {
+      stopWork = await StopWorkEvent.findOne({ where: { projectId: project.id, stationId: reading.stationId, resumedAt: null }, transaction });
+      if (!stopWork) {
+        const openedAt = new Date(Math.max(reading.takenAt.getTime(), paired.takenAtMs));
+        stopWork = await StopWorkEvent.create(
+          { projectId: project.id, stationId: reading.stationId, readingId: reading.id, openedAt, notifyBy: new Date(openedAt.getTime() + rule.notifyWithinHours * 3_600_000) },
+          { transaction },
+        );
+        opened = true;
+        await recordAudit({ action: AUDIT_ACTIONS.stopWorkOpened, projectId: project.id, userId: user.id, ip, detail: { id: stopWork.id, station: stationName, readingId: reading.id, judgedWithBackground: paired.id } }, transaction);
+      }
+    }
+    judged.push({ reading, stationName, evaluation, stopWork, opened });
+  }
+  return judged;
+}
+
 async function replayOf(project: ProjectView, reading: WaterQualityReading): Promise<ReadingRecorded> {
+  const late = await replayedLateVerdicts(project, reading);
+  if (late) return late;
   const evaluation = evaluationOf(reading);
   const stopWork = evaluation?.exceeds ? await StopWorkEvent.findOne({ where: { projectId: project.id, stationId: reading.stationId, readingId: { [Op.lte]: reading.id } }, order: [["id", "DESC"]] }) : null;
   const verdict = evaluation ? verdictInWords(evaluation, reading.unit) : "Recorded (only compliance readings are judged against the rule).";
@@ -414,14 +521,38 @@ async function replayOf(project: ProjectView, reading: WaterQualityReading): Pro
   return { id: reading.id, evaluation, verdict, ...(stopWorkRef ? { stopWork: stopWorkRef } : {}), notices: readingNotices({ verdict, exceeds: evaluation?.exceeds ?? null, stopWork: stopWorkRef }) };
 }
 
+/** A background's stored answer again: the readings it judged (recorded before it, paired with it) and the stop-work one of them opened. */
+async function replayedLateVerdicts(project: ProjectView, background: WaterQualityReading): Promise<ReadingRecorded | null> {
+  const station = await MonitoringStation.findByPk(background.stationId);
+  if (station?.kind !== "background") return null;
+  const readings = await WaterQualityReading.findAll({
+    where: { projectId: project.id, backgroundReadingId: background.id, id: { [Op.lt]: background.id } },
+    include: [{ model: MonitoringStation, as: "station", attributes: ["name"] }],
+    order: [["takenAt", "ASC"], ["id", "ASC"]],
+  });
+  const verdict = "Recorded (only compliance readings are judged against the rule).";
+  if (readings.length === 0) return { id: background.id, evaluation: null, verdict, notices: [] };
+  const judged = readings.map((reading) => lateVerdictOf({ reading, stationName: reading.station?.name ?? "", evaluation: evaluationOf(reading)! }));
+  const event = await StopWorkEvent.findOne({ where: { projectId: project.id, readingId: readings.map((reading) => reading.id) }, order: [["id", "ASC"]] });
+  const stopWork = event ? { id: event.id, notifyBy: event.notifyBy.toISOString() } : undefined;
+  return { id: background.id, evaluation: null, verdict, ...(stopWork ? { stopWork } : {}), judged, notices: lateNotices(judged, stopWork) };
+}
+
 /** The exceedance e-mail, at once, to the project's managers, dive supervisors and dewatering operators, through the outbox (sent within seconds, retried while the mail server is away); it never unrecords the reading. */
-async function alertExceedance(project: ProjectView, stationName: string, input: ReadingInput, evaluation: TurbidityEvaluation, event: StopWorkEvent): Promise<string[]> {
+async function alertExceedance(
+  project: ProjectView,
+  stationName: string,
+  input: { value: number; unit: string; takenAt: string; sampledBy?: string | null; lateBackgroundAt?: string },
+  evaluation: TurbidityEvaluation,
+  event: StopWorkEvent,
+): Promise<string[]> {
   const members = await Membership.findAll({ where: { projectId: project.id, role: [...STOP_WORK_ROLES] }, include: [{ model: User, as: "user", attributes: ["email", "disabledAt"] }] });
   const recipients = [...new Set(members.filter((member) => member.user && !member.user.disabledAt).map((member) => member.user!.email))];
   const text = [
     `${project.name}: turbidity exceedance at ${stationName} — STOP the work causing it.`,
     "",
     `Reading: ${input.value} ${input.unit} taken ${input.takenAt}${input.sampledBy ? ` by ${input.sampledBy}` : ""}.`,
+    ...(input.lateBackgroundAt ? [`Judged when the background reading taken ${input.lateBackgroundAt} was entered (the reading had waited for a background in its pairing window).`] : []),
     evaluation.background !== null ? `Paired background: ${evaluation.background} ${input.unit}; difference ${evaluation.difference} ${input.unit}.` : "No paired background (judged against the absolute limit).",
     `Limit for this reading: ${evaluation.limit} ${input.unit}.`,
     `Notify the agency by ${event.notifyBy.toISOString()} (the rule's deadline), and resample at ${stationName} until within the limit.`,
