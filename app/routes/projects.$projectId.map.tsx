@@ -385,6 +385,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
       const at = points.findIndex((point) => point.key === chosenPoint);
       const next = points[(at + 1) % points.length];
       choosePoint(next.key, true);
+      requestAnimationFrame(() => monitoringRef.current?.scrollIntoView({ block: "nearest" }));
       setAnnouncement(`${next.name}, ${at + 2 > points.length ? 1 : at + 2} of ${points.length}: read it in the panel.`);
     } else if (key === "Escape") {
       event.preventDefault();

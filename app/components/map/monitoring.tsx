@@ -84,7 +84,7 @@ export function sightingFeatures(sightings: readonly MapSighting[], timeZone: st
     features: sightings.filter((sighting) => sighting.lonLat).map((sighting) => ({
       type: "Feature", id: sighting.id,
       properties: {
-        key: `sighting:${sighting.id}`, label: `${sighting.species} ${clockOf(sighting.seenAt, timeZone).slice(-5)}`,
+        key: `sighting:${sighting.id}`, label: `${sighting.species} ${clockOf(sighting.seenAt, timeZone)}`,
         colour: sighting.standDownInForce ? SIGHTING_COLOURS.standDown : SIGHTING_COLOURS.seen,
       },
       geometry: { type: "Point", coordinates: sighting.lonLat! },
