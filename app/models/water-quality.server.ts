@@ -6,7 +6,7 @@ import { pairBackground } from "../../shared/water-quality/pairing";
 import { DEFAULT_SHUTDOWN_DISTANCE_FT, DEFAULT_STAND_DOWN_SOURCE, DEFAULT_STAND_DOWN_WAIT_MINUTES } from "../../shared/water-quality/stand-down";
 import { evaluateTurbidity, TURBIDITY_RULE_KINDS, TURBIDITY_UNITS, verdictInWords, type TurbidityEvaluation, type TurbidityRule, type TurbidityUnit } from "../../shared/water-quality/turbidity-rule";
 import { convertLength } from "../../shared/units";
-import { DEPTH_RULES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
+import { ALERT_ROLE_CHOICES, DEPTH_RULES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import { getSequelize, Membership, MonitoringStation, Project, StopWorkEvent, TurbidityRuleRecord, User, WaterQualityReading, WaterQualitySettings } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
@@ -34,7 +34,7 @@ import { readingNotices } from "../../shared/field-notices";
 const DEFAULT_SAMPLING = { samplingIntervalMinutes: 360, workdayStartMinutes: 7 * 60, workdayEndMinutes: 19 * 60, samplingSource: "Example routine (every 6 h while work is active); set it from the permit's monitoring condition." };
 const DEFAULT_SPECIES = ["manatee", "sea turtle", "alligator"];
 
-export const ALERT_ROLE_CHOICES = ["manager", "dive-supervisor", "dewatering", "resource-monitor", "surveyor", "outreach", "viewer"] as const satisfies readonly Role[];
+export { ALERT_ROLE_CHOICES } from "../../shared/water-quality/wording";
 const DEFAULT_ALERT_ROLES: Role[] = ["manager", "dive-supervisor", "dewatering"];
 
 export interface AlertRecipientsView {

@@ -8,12 +8,12 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { fieldErrorsFrom, type FieldErrors } from "~/lib/http/form";
 import { unitLabel } from "../../shared/units";
 import { TURBIDITY_RULE_KINDS } from "../../shared/water-quality/turbidity-rule";
-import { DEPTH_RULES, RULE_EXAMPLES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
+import { ALERT_ROLE_CHOICES, DEPTH_RULES, RULE_EXAMPLES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import { listMembers } from "~/models/membership.server";
 import { roleLabel } from "~/lib/auth/roles";
 import { TURBIDITY_UNITS } from "../../shared/water-quality/turbidity-rule";
 import {
-  ALERT_ROLE_CHOICES, createRule, createStation, getWaterQualitySettings, listRules, listStations, ruleInputSchema, saveWaterQualitySettings, settingsInputSchema, stationInputSchema,
+  createRule, createStation, getWaterQualitySettings, listRules, listStations, ruleInputSchema, saveWaterQualitySettings, settingsInputSchema, stationInputSchema,
 } from "~/models/water-quality.server";
 import type { Route } from "./+types/projects.$projectId.water-quality.setup";
 import { readPageForm } from "~/lib/http/body.server";
