@@ -120,7 +120,7 @@ export async function buildMapStyle(project: ProjectView) {
       },
       {
         id: "sightings-labels", type: "symbol", source: "sightings",
-        layout: { "text-field": ["get", "label"], "text-font": textFont, "text-size": 12, "text-anchor": "left", "text-offset": [1, 0], "text-optional": true },
+        layout: { "text-field": ["get", "label"], "text-font": textFont, "text-size": 12, "text-anchor": "left", "text-offset": [1, 0], "text-optional": true, "text-max-width": 24 },
         paint: { "text-color": "#5a2a00", "text-halo-color": "#ffffff", "text-halo-width": 2 },
       },
     ],
