@@ -189,7 +189,7 @@ function ProductionSvg({ intervals, unit, width: panelWidth }: { intervals: Prod
         return (
           <g key={interval.toDate} data-thin={interval.thin ? "" : undefined}>
             <rect x={left} width={slot * 0.7} y={y(rate)} height={y(0) - y(rate)} fill={interval.thin ? "url(#thin-interval-hatch)" : "#14606e"} stroke={interval.thin ? "#14606e" : undefined} strokeDasharray={interval.thin ? "3 2" : undefined}>
-              <title>{`${interval.fromDate} → ${interval.toDate}: ${formatNumber(interval.removedVolume)} ${unit} over ${interval.workingDays} working days (${basis}) = ${formatNumber(interval.volumePerWorkingDay, 1)} ${unit}/day${interval.thin ? "; thin: too few working days for this rate to compare with the others" : ""}`}</title>
+              <title>{`${interval.fromDate} → ${interval.toDate}: ${formatNumber(interval.removedVolume)} ${unit} over ${Number(interval.workingDays.toFixed(2))} working days (${basis}) = ${formatNumber(interval.volumePerWorkingDay, 1)} ${unit}/day${interval.thin ? "; thin: too few working days for this rate to compare with the others" : ""}`}</title>
             </rect>
             <text className="figures" x={centre} y={y(rate) - 4} textAnchor="middle" fontSize={CHART_FONT_PX} fill={interval.thin ? "#5b6870" : "#1d2528"}>
               {`${formatNumber(interval.volumePerWorkingDay, 0)}${interval.thin ? " thin" : ""}`}
@@ -197,7 +197,7 @@ function ProductionSvg({ intervals, unit, width: panelWidth }: { intervals: Prod
             <g className="figures" fontSize={CHART_FONT_PX} fill="#5b6870" textAnchor="middle">
               <text x={centre} y={bottom + line}>{`${interval.fromDate.slice(5)}→`}</text>
               <text x={centre} y={bottom + 2 * line}>{interval.toDate.slice(5)}</text>
-              <text x={centre} y={bottom + 3 * line}>{`${interval.workingDays} d`}</text>
+              <text x={centre} y={bottom + 3 * line}>{`${Number(interval.workingDays.toFixed(1))} d`}</text>
               <text x={centre} y={bottom + 4 * line}>{interval.basis === "dives-logged" ? "dives" : "weekdays"}</text>
             </g>
           </g>

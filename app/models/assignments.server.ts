@@ -1,11 +1,12 @@
-import { Op, UniqueConstraintError } from "sequelize";
+import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { cellIndex, cellLabel as cellLabelOf } from "../../shared/grid/cell-grid";
 import { exceedsNoDecompressionLimit, noDecompressionLimit, NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE, type NoDecompressionLookup } from "../../shared/no-decompression";
 import { CELL_STATUSES } from "../../shared/cell-status";
 import { convertLength } from "../../shared/units";
 import { isEmergencyInfoEmpty, missingEmergencyItems, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
-import { Assignment, DiveTeam, getSequelize, Project, type DiveTeamMember } from "~/lib/db.server";
+import { localDayOf } from "../../shared/local-time";
+import { Assignment, DiveTeam, getSequelize, MonitoringStation, Project, StopWorkEvent, WildlifeStandDown, type DiveTeamMember } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { getProjectSurfaces } from "~/lib/engine/engine-state.server";
 import { queueMail } from "~/lib/mail/outbox.server";
@@ -113,10 +114,44 @@ function heldRefusal(held: Array<{ holdId: number; cells: string[] }>): Conflict
 }
 
 /**
+ * What stops today's work on the whole project at `now`: open turbidity stop-work events (the
+ * dredging that causes the plume stops until a resample is within the limit and the resumption is
+ * recorded) and wildlife stand-downs in force (in-water equipment stops until the animal has left
+ * and the wait has passed). Read after the project row's lock, as the holds are: a reading or a
+ * sighting opens its event under that lock, so one being opened this instant is waited for and seen.
+ */
+async function workStoppages(projectId: number, now: Date, transaction: Transaction) {
+  const [events, standDowns] = await Promise.all([
+    StopWorkEvent.findAll({ where: { projectId, resumedAt: null }, include: [{ model: MonitoringStation, as: "station", attributes: ["name"] }], order: [["id", "ASC"]], transaction }),
+    WildlifeStandDown.findAll({
+      where: { projectId, startedAt: { [Op.lte]: now }, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: now } }] },
+      order: [["id", "ASC"]],
+      transaction,
+    }),
+  ]);
+  return {
+    stopWork: events.map((event) => ({ id: event.id, station: event.station?.name ?? "" })),
+    standDowns: standDowns.map((standDown) => ({ id: standDown.id, species: standDown.species, until: standDown.endsAt?.toISOString() ?? null })),
+  };
+}
+
+function stoppedRefusal(date: string, stopped: Awaited<ReturnType<typeof workStoppages>>): ConflictError {
+  const reasons = [
+    ...stopped.stopWork.map((event) => `stop-work #${event.id} (turbidity exceedance at ${event.station})`),
+    ...stopped.standDowns.map((standDown) => `a ${standDown.species} stand-down (#${standDown.id}${standDown.until ? `, until ${standDown.until}` : ", the animal is still near"})`),
+  ];
+  return new ConflictError(
+    { field: "date", message: `Work on the project is stopped today by ${reasons.join(" and ")}: no cells can be assigned for today (${date}) until it is cleared. Later days may still be planned.` },
+    { code: "work-stopped", stopWork: stopped.stopWork, standDowns: stopped.standDowns },
+  );
+}
+
+/**
  * Assigns cells to a team on a day. Throws NotFoundError (no such team), ValidationError (a hose
  * the team lacks, cells outside the work limit, confirmed cells without a reason: `code` says
  * which) or ConflictError (cells already another team's that day, listed in `conflicts`; cells
- * under an open stop-work hold, listed in `holds`).
+ * under an open stop-work hold, listed in `holds`; any cell for today while work is stopped, with
+ * the open stop-work events and stand-downs listed, `code: "work-stopped"`).
  */
 export async function createAssignments(project: ProjectView, user: UserView, input: AssignmentInput, ip: string | null = null): Promise<AssignmentsCreated> {
   const teams = await DiveTeam.findAll({ where: { projectId: project.id } });
@@ -168,6 +203,13 @@ export async function createAssignments(project: ProjectView, user: UserView, in
       await Project.findByPk(project.id, { attributes: ["id"], lock: transaction.LOCK.UPDATE, transaction });
       const heldNow = await openHoldsOn(project.id, cells, transaction);
       if (heldNow.length > 0) throw heldRefusal(heldNow);
+      // Something that stops work stops today's: the plan for today is refused while it lasts.
+      // A later day may be planned (the event may be cleared by then); the panel says work is stopped.
+      const now = new Date();
+      if (input.date === localDayOf(now.getTime(), project.timeZone)) {
+        const stopped = await workStoppages(project.id, now, transaction);
+        if (stopped.stopWork.length > 0 || stopped.standDowns.length > 0) throw stoppedRefusal(input.date, stopped);
+      }
       await Assignment.bulkCreate(
         cells.map((cell) => ({
           projectId: project.id,

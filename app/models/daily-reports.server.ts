@@ -20,7 +20,7 @@ import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { workDateSchema } from "./assignments.server";
 import { listDivesOn } from "./dives.server";
-import { getWaterQualitySettings } from "./water-quality.server";
+import { getWaterQualitySettings, samplingRoutineOf } from "./water-quality.server";
 
 /**
  * A project's daily report: the local day's records compiled (shared/daily-report), the notes the
@@ -114,7 +114,7 @@ export async function compileReport(project: ProjectView, date: string, entered:
     hauls: hauls.map((haul) => ({ ticketNumber: haul.ticketNumber, drySolidsKg: haul.drySolidsKg, loadWetMass: haul.loadWetMass, loadVolume: haul.loadVolume })),
     complianceStations: stations.map((station) => station.name),
     readings: readings.map((reading) => ({ station: reading.station?.name ?? "", stationKind: reading.station?.kind ?? "other", takenAtMs: reading.takenAt.getTime(), value: reading.value, unit: reading.unit, exceeds: reading.exceeds })),
-    sampling: { intervalMinutes: settings.samplingIntervalMinutes, workdayStartMinutes: minutesOfClock(settings.workdayStart), workdayEndMinutes: minutesOfClock(settings.workdayEnd) },
+    sampling: samplingRoutineOf(settings),
     interruptions,
     finds: finds.map((find) => ({ catalogueNumber: find.catalogueNumber, category: find.category })),
     holds: holds.map((hold) => ({ catalogueNumber: hold.find?.catalogueNumber ?? "", placedAtMs: hold.placedAt.getTime(), liftedAtMs: hold.liftedAt?.getTime() ?? null })),

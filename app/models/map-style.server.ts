@@ -58,6 +58,9 @@ export async function buildMapStyle(project: ProjectView) {
       "cells-held": { type: "geojson", data: emptyCollection },
       bands: { type: "geojson", data: emptyCollection },
       tubes: { type: "geojson", data: { type: "FeatureCollection", features: tubeFeatures } },
+      // Monitoring stations and recent wildlife sightings: the page fills them (map-monitoring.server.ts).
+      stations: { type: "geojson", data: emptyCollection },
+      sightings: { type: "geojson", data: emptyCollection },
     },
     layers: [
       { id: "background", type: "background", paint: { "background-color": LAND_COLOUR } },
@@ -86,6 +89,20 @@ export async function buildMapStyle(project: ProjectView) {
       { id: "cells-assigned-fill", type: "fill", source: "cells-assigned", paint: { "fill-pattern": PLANNED_PATTERN } },
       { id: "cells-assigned", type: "line", source: "cells-assigned", paint: { "line-color": MARK_STYLES.planned.line, "line-width": 2.5 } },
       { id: "cells-selected", type: "line", source: "cells-selected", paint: { "line-color": MARK_STYLES.selected.line, "line-width": 3 } },
+      // Over the cells and their marks: a station or sighting stays visible and clickable on any cell.
+      {
+        id: "sightings-points", type: "circle", source: "sightings",
+        paint: { "circle-radius": 6, "circle-color": ["get", "colour"], "circle-stroke-color": "#1d2528", "circle-stroke-width": 1.5 },
+      },
+      {
+        id: "stations-points", type: "circle", source: "stations",
+        paint: { "circle-radius": 7, "circle-color": ["get", "colour"], "circle-stroke-color": "#ffffff", "circle-stroke-width": 2.5 },
+      },
+      // The chosen station or sighting: a ring in the selection's colour (the page sets the filter).
+      ...(["stations", "sightings"] as const).map((source) => ({
+        id: `${source}-chosen`, type: "circle", source, filter: ["==", ["get", "key"], ""],
+        paint: { "circle-radius": 12, "circle-opacity": 0, "circle-stroke-color": MARK_STYLES.selected.line, "circle-stroke-width": 3 },
+      })),
       {
         id: "cell-labels", type: "symbol", source: "cell-label-points", minzoom: 19,
         layout: { "text-field": ["get", "label"], "text-font": textFont, "text-size": 10, "text-allow-overlap": false },
@@ -95,6 +112,16 @@ export async function buildMapStyle(project: ProjectView) {
         id: "zone-labels", type: "symbol", source: "zones",
         layout: { "text-field": ["get", "name"], "text-font": textFont, "text-size": 13, "text-allow-overlap": true, "text-ignore-placement": true },
         paint: { "text-color": "#0d4650", "text-halo-color": "#ffffff", "text-halo-width": 1.5 },
+      },
+      {
+        id: "stations-labels", type: "symbol", source: "stations",
+        layout: { "text-field": ["get", "name"], "text-font": textFont, "text-size": 12, "text-anchor": "left", "text-offset": [1, 0], "text-optional": true },
+        paint: { "text-color": "#1d2528", "text-halo-color": "#ffffff", "text-halo-width": 2 },
+      },
+      {
+        id: "sightings-labels", type: "symbol", source: "sightings",
+        layout: { "text-field": ["get", "label"], "text-font": textFont, "text-size": 12, "text-anchor": "left", "text-offset": [1, 0], "text-optional": true, "text-max-width": 24 },
+        paint: { "text-color": "#5a2a00", "text-halo-color": "#ffffff", "text-halo-width": 2 },
       },
     ],
   };

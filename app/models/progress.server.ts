@@ -9,6 +9,7 @@ import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { unitLabel, volumeUnitFor, type VolumeUnit } from "../../shared/units";
 import { CellResult, Survey, SurveySnapshot, Zone } from "~/lib/db.server";
 import { loggedDiveDates } from "./dives.server";
+import { lostWorkingTime } from "./stoppages.server";
 import { loadEndAreaCrossCheck, type EndAreaCrossCheck } from "./end-area-check.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 
@@ -96,7 +97,7 @@ function finish(figures: ProgressFigures): ProgressFigures {
 export async function loadProgress(project: ProjectView, options: { crossCheck?: boolean } = {}): Promise<ProgressView> {
   const volumeUnit = volumeUnitFor(project.lengthUnit);
   const volumeLabel = unitLabel(project.lengthUnit, "volume");
-  const [zones, cells, snapshots, surveys, diveDates] = await Promise.all([
+  const [zones, cells, snapshots, surveys, diveDates, lost] = await Promise.all([
     Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]], attributes: ["id", "name"] }),
     CellResult.findAll({
       where: { projectId: project.id, areaInLimit: { [Op.gt]: 0 } },
@@ -106,6 +107,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     SurveySnapshot.findAll({ where: { projectId: project.id }, attributes: ["surveyedOn", "totals", "zones"], order: [["surveyedOn", "ASC"]] }),
     Survey.findAll({ where: { projectId: project.id, status: "active" }, attributes: ["id", "surveyedOn"], raw: true }),
     loggedDiveDates(project.id),
+    lostWorkingTime(project),
   ]);
   const crossCheck = options.crossCheck && cells.length > 0 ? await loadEndAreaCrossCheck(project) : null;
   const surveyDate = new Map(surveys.map((survey) => [survey.id, String(survey.surveyedOn)]));
@@ -131,7 +133,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     })),
     rows.map((row) => row.zoneId),
   );
-  const calendar = workingCalendar(diveDates);
+  const calendar = workingCalendar(diveDates, lost.shares);
 
   const zoneProgress: ZoneProgress[] = rows.map((zone, index) => {
     const figures = finish(zone.figures);
@@ -139,7 +141,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     // A change smaller than 5 % of the zone's planned volume is survey noise (edge lines of passes over
     // a neighbouring zone), not a day's work: it must not set the zone's rate.
     const forecastOptions = { finishedBelowVolume: NEGLIGIBLE_VOLUME, changeThresholdVolume: Math.max(NEGLIGIBLE_VOLUME, CHANGE_SHARE * figures.plannedVolume),
-      everyCellAtFirmSand: figures.cells > 0 && figures.cellsAtFirmSand === figures.cells,
+      everyCellAtFirmSand: figures.cells > 0 && figures.cellsAtFirmSand === figures.cells, lostShares: lost.shares,
     };
     return { zoneId: zone.zoneId, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, forecastOptions) };
   });
@@ -168,6 +170,9 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     assumptions: [
       "Removed volume is measured against the baseline survey; each survey date's figures include every survey up to that date.",
       "Production per working day is the removed volume between two survey dates divided by the working days between them.",
+      lost.lostHours > 0
+        ? `Hours lost to turbidity stop-work and wildlife stand-downs (${Math.round(lost.lostHours * 10) / 10} h in all, within the working hours ${lost.workingHours}) are taken out of those working days, for production and forecasts alike; forecasts assume no further stoppages.`
+        : "No working hours have been lost to turbidity stop-work or wildlife stand-downs; were any lost, they would come out of the working days.",
       basisWords,
       `An interval resting on fewer than ${THIN_INTERVAL_WORKING_DAYS} working days is thin: its rate is drawn lighter, since one good or bad day swings it.`,
       `A zone's rate is taken over a window of ${RATE_WINDOW_CALENDAR_DAYS} calendar days before the latest survey date: its intervals between surveys that showed a change (of at least 5 % of its planned volume, so edge soundings of a pass over a neighbouring zone do not count) and that end in the window. The mean rate is their removal divided by their weekdays (not the days dives were logged: the finish is counted on weekdays, and a dive log begun part way through an interval would make its rate many times too fast); the range runs from the slowest to the fastest of them.`,

@@ -1,5 +1,7 @@
 import type { ProjectView } from "~/lib/auth/project-view.server";
-import { listStopWork, type StopWorkView } from "./water-quality.server";
+import { findProject } from "~/lib/auth/project-view.server";
+import { lostWorkingDayShares } from "../../shared/progress/lost-hours";
+import { getWaterQualitySettings, listStopWork, type StopWorkView } from "./water-quality.server";
 import { listStandDowns, type StandDownView } from "./wildlife.server";
 
 /**
@@ -27,5 +29,27 @@ export function workStoppedMessage(stoppages: Stoppages): string | null {
     ...stoppages.standDowns.map((standDown) => `a ${standDown.species} stand-down`),
   ];
   if (reasons.length === 0) return null;
-  return `Work is stopped: ${reasons.join(" and ")}. Assignments are still recorded, but no in-water work until it is cleared.`;
+  return `Work is stopped: ${reasons.join(" and ")}. No cells can be assigned for today until it is cleared (later days may be planned), and no in-water work meanwhile.`;
+}
+
+const minutesOf = (clock: string) => Number(clock.slice(0, 2)) * 60 + Number(clock.slice(3, 5));
+
+/**
+ * The share of each working day lost to turbidity stop-work events and wildlife stand-downs (open
+ * ones to now), within the project's working hours (its setting, else the water-quality work day),
+ * for production and forecasts; and the hours that makes in all, for the page to say.
+ */
+export async function lostWorkingTime(project: ProjectView, nowMs = Date.now()): Promise<{ shares: Map<number, number>; lostHours: number; workingHours: string }> {
+  const [stopWork, standDowns, row, settings] = await Promise.all([listStopWork(project, {}, nowMs), listStandDowns(project, {}, nowMs), findProject(project.id), getWaterQualitySettings(project)]);
+  const start = row?.workDayStart && row.workDayEnd ? row.workDayStart : settings.workdayStart;
+  const end = row?.workDayStart && row.workDayEnd ? row.workDayEnd : settings.workdayEnd;
+  const stoppages = [
+    ...stopWork.map((event) => ({ startMs: Date.parse(event.openedAt), endMs: event.resumedAt ? Date.parse(event.resumedAt) : nowMs })),
+    ...standDowns.map((standDown) => ({ startMs: Date.parse(standDown.startedAt), endMs: standDown.until ? Math.min(Date.parse(standDown.until), nowMs) : nowMs })),
+  ];
+  const hours = { startMinutes: minutesOf(start), endMinutes: minutesOf(end) };
+  const shares = lostWorkingDayShares(stoppages, hours, project.timeZone);
+  const dayHours = (hours.endMinutes - hours.startMinutes) / 60;
+  const lostHours = [...shares.values()].reduce((sum, share) => sum + share * dayHours, 0);
+  return { shares, lostHours, workingHours: `${start}–${end}` };
 }

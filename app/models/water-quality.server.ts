@@ -1,18 +1,19 @@
 import { Op, type Transaction } from "sequelize";
 import { z } from "zod";
 import { localDayOf } from "../../shared/local-time";
-import { missedIntervals, type MissedInterval } from "../../shared/water-quality/missed-samples";
+import { missedIntervals, type MissedInterval, type SamplingRoutine } from "../../shared/water-quality/missed-samples";
 import { pairBackground } from "../../shared/water-quality/pairing";
 import { DEFAULT_SHUTDOWN_DISTANCE_FT, DEFAULT_STAND_DOWN_SOURCE, DEFAULT_STAND_DOWN_WAIT_MINUTES } from "../../shared/water-quality/stand-down";
 import { evaluateTurbidity, TURBIDITY_RULE_KINDS, TURBIDITY_UNITS, verdictInWords, type TurbidityEvaluation, type TurbidityRule, type TurbidityUnit } from "../../shared/water-quality/turbidity-rule";
 import { convertLength } from "../../shared/units";
-import { DEPTH_RULES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
-import { getSequelize, Membership, MonitoringStation, StopWorkEvent, TurbidityRuleRecord, User, WaterQualityReading, WaterQualitySettings } from "~/lib/db.server";
+import { ALERT_ROLE_CHOICES, DEPTH_RULES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
+import { getSequelize, Membership, MonitoringStation, Project, StopWorkEvent, TurbidityRuleRecord, User, WaterQualityReading, WaterQualitySettings } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { queueMail } from "~/lib/mail/outbox.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import type { Role } from "~/lib/auth/roles";
 import { loggedShiftDates } from "./dewatering.server";
 import { loggedDiveDates } from "./dives.server";
 import { instantSchema, ntu, readingInputSchema } from "~/lib/field-records/inputs";
@@ -33,7 +34,24 @@ import { readingNotices } from "../../shared/field-notices";
 const DEFAULT_SAMPLING = { samplingIntervalMinutes: 360, workdayStartMinutes: 7 * 60, workdayEndMinutes: 19 * 60, samplingSource: "Example routine (every 6 h while work is active); set it from the permit's monitoring condition." };
 const DEFAULT_SPECIES = ["manatee", "sea turtle", "alligator"];
 
+export { ALERT_ROLE_CHOICES } from "../../shared/water-quality/wording";
+const DEFAULT_ALERT_ROLES: Role[] = ["manager", "dive-supervisor", "dewatering"];
+
+export interface AlertRecipientsView {
+  /** Every member with one of these roles. */
+  roles: Role[];
+  /** Members chosen by name (their user ids), whatever their role. */
+  userIds: number[];
+  /** Addresses outside the project (the agency's duty inbox, the permit holder). */
+  addresses: string[];
+}
+
 export interface WaterQualitySettingsView {
+  /** "interval": a compliance sample every `samplingIntervalMinutes`; "per-day": `samplesPerDay`, at least `minimumGapHours` apart. */
+  samplingMode: "interval" | "per-day";
+  samplesPerDay: number | null;
+  minimumGapHours: number | null;
+  alertRecipients: AlertRecipientsView;
   samplingIntervalMinutes: number;
   workdayStart: string;
   workdayEnd: string;
@@ -51,8 +69,22 @@ const clockOf = (minutes: number) => `${String(Math.floor(minutes / 60)).padStar
 const clockSchema = z.string().trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "write the time as HH:MM (24-hour clock)");
 const minutesOfClock = (clock: string) => Number(clock.slice(0, 2)) * 60 + Number(clock.slice(3, 5));
 
+const addressList = z.preprocess(
+  (value) => (typeof value === "string" ? value.split(/[\n,;]/) : value),
+  z.array(z.string().trim().max(254)).transform((addresses) => [...new Set(addresses.filter(Boolean).map((address) => address.toLowerCase()))])
+    .pipe(z.array(z.email({ message: "write each outside address as name@domain, one a line" })).max(20, "at most 20 outside addresses")),
+);
+const idList = z.preprocess((value) => (value === undefined ? [] : Array.isArray(value) ? value : [value]), z.array(z.coerce.number().int().positive()).max(200));
+const roleList = z.preprocess((value) => (value === undefined ? [] : Array.isArray(value) ? value : [value]), z.array(z.enum(ALERT_ROLE_CHOICES, { message: `a role is one of ${ALERT_ROLE_CHOICES.join(", ")}` })));
+
 export const settingsInputSchema = z
   .object({
+    samplingMode: z.enum(["interval", "per-day"], { message: "the routine is an interval or so many samples a day" }).default("interval"),
+    samplesPerDay: z.preprocess((value) => (value === "" ? null : value), z.coerce.number().int("a whole number of samples").min(1, "at least 1 sample a day").max(24, "at most 24 samples a day").nullish()),
+    minimumGapHours: z.preprocess((value) => (value === "" ? null : value), z.coerce.number().finite().min(0, "0 hours or more").max(24, "at most 24 hours").nullish()),
+    alertRoles: roleList,
+    alertUserIds: idList,
+    alertAddresses: addressList.default([]),
     samplingIntervalMinutes: z.coerce.number().int("whole minutes").min(15, "at least 15 minutes").max(1440, "at most 24 hours"),
     workdayStart: clockSchema,
     workdayEnd: clockSchema,
@@ -65,8 +97,31 @@ export const settingsInputSchema = z
       z.array(z.string().trim().max(120)).transform((names) => [...new Set(names.filter(Boolean))]).pipe(z.array(z.string()).min(1, "list at least one species").max(50)),
     ),
   })
-  .refine((input) => minutesOfClock(input.workdayEnd) > minutesOfClock(input.workdayStart), { path: ["workdayEnd"], message: "the work day ends after it starts" });
+  .refine((input) => minutesOfClock(input.workdayEnd) > minutesOfClock(input.workdayStart), { path: ["workdayEnd"], message: "the work day ends after it starts" })
+  .refine((input) => input.samplingMode !== "per-day" || input.samplesPerDay != null, { path: ["samplesPerDay"], message: "give how many samples a day the permit asks for" })
+  .refine(
+    (input) => input.samplingMode !== "per-day" || input.samplesPerDay == null || ((input.samplesPerDay - 1) * (input.minimumGapHours ?? 0) * 60) <= minutesOfClock(input.workdayEnd) - minutesOfClock(input.workdayStart),
+    { path: ["minimumGapHours"], message: "that many samples that far apart do not fit in the work day" },
+  )
+  .refine((input) => input.alertRoles.length + input.alertUserIds.length + input.alertAddresses.length > 0, { path: ["alertRoles"], message: "alert someone: choose a role, a member or an outside address" });
 export type SettingsInput = z.infer<typeof settingsInputSchema>;
+
+/** The routine the missed-sample computation reads (compliance page, daily report). */
+export function samplingRoutineOf(settings: WaterQualitySettingsView): SamplingRoutine {
+  return {
+    intervalMinutes: settings.samplingIntervalMinutes, workdayStartMinutes: minutesOfClock(settings.workdayStart), workdayEndMinutes: minutesOfClock(settings.workdayEnd),
+    samplesPerDay: settings.samplingMode === "per-day" ? settings.samplesPerDay : null,
+    minimumGapMinutes: settings.samplingMode === "per-day" ? Math.round((settings.minimumGapHours ?? 0) * 60) : null,
+  };
+}
+
+/** The routine in words, as the compliance page states it. */
+export function samplingRoutineInWords(settings: WaterQualitySettingsView): string {
+  const when = settings.samplingMode === "per-day"
+    ? `${settings.samplesPerDay} compliance sample${settings.samplesPerDay === 1 ? "" : "s"} a day${settings.minimumGapHours ? `, at least ${settings.minimumGapHours} h apart` : ""}`
+    : `every ${settings.samplingIntervalMinutes} min`;
+  return `${when}, from ${settings.workdayStart} to ${settings.workdayEnd}`;
+}
 
 export async function getWaterQualitySettings(project: ProjectView): Promise<WaterQualitySettingsView> {
   const row = await WaterQualitySettings.findOne({ where: { projectId: project.id } });
@@ -82,10 +137,19 @@ export async function getWaterQualitySettings(project: ProjectView): Promise<Wat
       standDownWaitMinutes: DEFAULT_STAND_DOWN_WAIT_MINUTES,
       standDownSource: DEFAULT_STAND_DOWN_SOURCE,
       species: DEFAULT_SPECIES,
+      samplingMode: "interval",
+      samplesPerDay: null,
+      minimumGapHours: null,
+      alertRecipients: { roles: DEFAULT_ALERT_ROLES, userIds: [], addresses: [] },
       isDefault: true,
     };
   }
+  const recipients = row.alertRecipients;
   return {
+    samplingMode: row.samplesPerDay != null ? "per-day" : "interval",
+    samplesPerDay: row.samplesPerDay ?? null,
+    minimumGapHours: row.samplesPerDay != null ? (row.minimumGapMinutes ?? 0) / 60 : null,
+    alertRecipients: recipients ? { roles: recipients.roles as Role[], userIds: recipients.userIds, addresses: recipients.addresses } : { roles: DEFAULT_ALERT_ROLES, userIds: [], addresses: [] },
     samplingIntervalMinutes: row.samplingIntervalMinutes,
     workdayStart: clockOf(row.workdayStartMinutes),
     workdayEnd: clockOf(row.workdayEndMinutes),
@@ -108,9 +172,18 @@ export async function saveWaterQualitySettings(project: ProjectView, user: UserV
     standDownWaitMinutes: input.standDownWaitMinutes,
     standDownSource: input.standDownSource,
     species: input.species,
+    samplesPerDay: input.samplingMode === "per-day" ? input.samplesPerDay! : null,
+    minimumGapMinutes: input.samplingMode === "per-day" ? Math.round((input.minimumGapHours ?? 0) * 60) : null,
+    alertRecipients: { roles: input.alertRoles, userIds: input.alertUserIds, addresses: input.alertAddresses },
     updatedById: user.id,
   };
   await getSequelize().transaction(async (transaction) => {
+    // Chosen people must be members of the project (an id from elsewhere is refused, naming it).
+    if (input.alertUserIds.length > 0) {
+      const members = await Membership.findAll({ where: { projectId: project.id, userId: input.alertUserIds }, attributes: ["userId"], transaction });
+      const strangers = input.alertUserIds.filter((id) => !members.some((member) => member.userId === id));
+      if (strangers.length > 0) throw new ValidationError({ field: "alertUserIds", message: `Only members of the project can be chosen to be alerted (not user ${strangers.join(", ")}).` });
+    }
     const row = await WaterQualitySettings.findOne({ where: { projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
     if (row) await row.update(values, { transaction });
     else await WaterQualitySettings.create({ projectId: project.id, ...values }, { transaction });
@@ -127,6 +200,8 @@ export const ruleInputSchema = z
     kind: z.enum(TURBIDITY_RULE_KINDS, { message: `a rule is one of ${TURBIDITY_RULE_KINDS.join(", ")}` }),
     /** NTU: over background (above-background) or the ceiling itself (absolute). */
     limit: ntu.nullish(),
+    /** The unit the permit states the rule in; figures are compared as numbers with readings of either unit (the verdict says when they differ). */
+    unit: z.enum(TURBIDITY_UNITS, { message: "the rule's unit is NTU or FNU" }).default("NTU"),
     inclusive: z.boolean().default(true),
     percent: z.number().finite().positive("more than 0 %").max(1000).nullish(),
     floor: ntu.nullish(),
@@ -142,11 +217,13 @@ export const ruleInputSchema = z
       if (input.floor != null && input.cap != null && input.cap < input.floor) context.addIssue({ code: "custom", path: ["cap"], message: "the cap is at least the floor" });
     }
   });
-export type RuleInput = z.infer<typeof ruleInputSchema>;
+/** A rule as the schema gives it; `unit` may be left out by services' callers (seeders, tests): NTU. */
+export type RuleInput = Omit<z.infer<typeof ruleInputSchema>, "unit"> & { unit?: TurbidityUnit };
 
 export interface RuleView {
   id: number;
   kind: TurbidityRule["kind"];
+  unit: TurbidityUnit;
   limit: number | null;
   inclusive: boolean;
   percent: number | null;
@@ -166,23 +243,23 @@ function ruleOf(record: TurbidityRuleRecord): TurbidityRule {
   return { kind: record.kind, limitNtu: record.limitNtu, inclusive: record.inclusive, percent: record.percent, floorNtu: record.floorNtu, capNtu: record.capNtu };
 }
 
-export function ruleSummary(rule: TurbidityRule): string {
+export function ruleSummary(rule: TurbidityRule, unit: TurbidityUnit = "NTU"): string {
   const edge = rule.inclusive ? "not more than" : "less than";
   switch (rule.kind) {
     case "above-background":
-      return rule.limitNtu === 0 ? `No increase over background${rule.inclusive ? "" : " (equal counts as over)"}` : `${edge} ${rule.limitNtu} NTU above the paired background`;
+      return rule.limitNtu === 0 ? `No increase over background${rule.inclusive ? "" : " (equal counts as over)"}` : `${edge} ${rule.limitNtu} ${unit} above the paired background`;
     case "absolute":
-      return `${edge} ${rule.limitNtu} NTU; where background is already above it, no increase over background`;
+      return `${edge} ${rule.limitNtu} ${unit}; where background is already above it, no increase over background`;
     case "percent-over-background":
-      return `${edge} ${rule.percent} % over background${rule.floorNtu != null ? `, at least +${rule.floorNtu} NTU` : ""}${rule.capNtu != null ? `, at most +${rule.capNtu} NTU` : ""}`;
+      return `${edge} ${rule.percent} % over background${rule.floorNtu != null ? `, at least +${rule.floorNtu} ${unit}` : ""}${rule.capNtu != null ? `, at most +${rule.capNtu} ${unit}` : ""}`;
   }
 }
 
 function presentRule(record: TurbidityRuleRecord, inForceId: number | null): RuleView {
   return {
-    id: record.id, kind: record.kind, limit: record.limitNtu, inclusive: record.inclusive, percent: record.percent, floor: record.floorNtu, cap: record.capNtu,
+    id: record.id, kind: record.kind, unit: record.unit ?? "NTU", limit: record.limitNtu, inclusive: record.inclusive, percent: record.percent, floor: record.floorNtu, cap: record.capNtu,
     pairingWindowMinutes: record.pairingWindowMinutes, notifyWithinHours: record.notifyWithinHours, source: record.source, createdAt: record.createdAt.toISOString(),
-    inForce: record.id === inForceId, summary: ruleSummary(ruleOf(record)),
+    inForce: record.id === inForceId, summary: ruleSummary(ruleOf(record), record.unit ?? "NTU"),
   };
 }
 
@@ -198,11 +275,11 @@ export async function createRule(project: ProjectView, user: UserView, input: Ru
         projectId: project.id, kind: input.kind, limitNtu: input.kind === "percent-over-background" ? null : input.limit!, inclusive: input.inclusive,
         percent: input.kind === "percent-over-background" ? input.percent! : null, floorNtu: input.kind === "percent-over-background" ? (input.floor ?? null) : null,
         capNtu: input.kind === "percent-over-background" ? (input.cap ?? null) : null, pairingWindowMinutes: input.pairingWindowMinutes,
-        notifyWithinHours: input.notifyWithinHours, source: input.source, createdById: user.id,
+        notifyWithinHours: input.notifyWithinHours, source: input.source, unit: input.unit ?? "NTU", createdById: user.id,
       },
       { transaction },
     );
-    await recordAudit({ action: AUDIT_ACTIONS.turbidityRuleAdded, projectId: project.id, userId: user.id, ip, detail: { id: rule.id, kind: input.kind, summary: ruleSummary(ruleOf(rule)), source: input.source } }, transaction);
+    await recordAudit({ action: AUDIT_ACTIONS.turbidityRuleAdded, projectId: project.id, userId: user.id, ip, detail: { id: rule.id, kind: input.kind, unit: input.unit ?? "NTU", summary: ruleSummary(ruleOf(rule), input.unit ?? "NTU"), source: input.source } }, transaction);
     return { id: rule.id };
   });
 }
@@ -278,6 +355,20 @@ export interface ReadingRecorded {
   alerted?: string[];
   /** Safety notices in plain sentences (an exceedance and its stop-work); empty when none apply. */
   notices: string[];
+  /**
+   * A background reading only: the compliance readings that were waiting for a background in
+   * their pairing window (recorded before it, unpaired, no verdict) and are judged now with it.
+   */
+  judged?: LateVerdict[];
+}
+
+/** A compliance reading judged when a background in its pairing window was entered after it. */
+export interface LateVerdict {
+  id: number;
+  station: string;
+  takenAt: string;
+  evaluation: TurbidityEvaluation;
+  verdict: string;
 }
 
 export interface ReadingView {
@@ -311,7 +402,7 @@ function presentReading(reading: WaterQualityReading): ReadingView {
     id: reading.id, station: reading.station?.name ?? "", stationKind: reading.station?.kind ?? "other", takenAt: reading.takenAt.toISOString(), localDay: reading.localDay,
     value: reading.value, unit: reading.unit, depth: reading.depth, instrument: reading.instrument, calibratedAt: reading.calibratedAt?.toISOString() ?? null,
     sampledBy: reading.sampledBy, note: reading.note, ph: reading.ph, dissolvedOxygen: reading.dissolvedOxygenMgL, temperature: reading.temperatureC,
-    evaluation, verdict: evaluation ? verdictInWords(evaluation, reading.unit) : null,
+    evaluation, verdict: evaluation ? verdictInWords(evaluation, reading.unit, reading.rule?.unit ?? "NTU") : null,
   };
 }
 
@@ -327,7 +418,6 @@ async function ruleFor(project: ProjectView, station: MonitoringStation, transac
   return TurbidityRuleRecord.findOne({ where: { projectId: project.id }, order: [["id", "DESC"]], transaction });
 }
 
-const STOP_WORK_ROLES = ["manager", "dive-supervisor", "dewatering"] as const;
 
 /**
  * Records a reading. A compliance reading is evaluated against its rule with the nearest
@@ -344,6 +434,9 @@ export async function recordReading(project: ProjectView, user: UserView, input:
   }
   const outcome = await getSequelize().transaction(async (transaction) => {
     const idempotency = await claimIdempotencyKey(transaction);
+    // The project row's lock first: an assignment for today waits on it before looking for open
+    // stop-work events (assignments.server.ts), so one opened here is never slipped past.
+    await Project.findByPk(project.id, { attributes: ["id"], lock: transaction.LOCK.UPDATE, transaction });
     const station = await findStation(project, input.station, transaction);
     // Serialise evaluations of one project so two exceedances at once open one event.
     await MonitoringStation.findAll({ where: { projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
@@ -378,6 +471,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     await recordAudit({ action: AUDIT_ACTIONS.waterQualityReadingRecorded, projectId: project.id, userId: user.id, ip, detail: { id: reading.id, station: station.name, takenAt: input.takenAt, value: input.value, unit: input.unit, exceeds: evaluation?.exceeds ?? null } }, transaction);
     let stopWork: StopWorkEvent | null = null;
     let opened = false;
+    const late = station.kind === "background" ? await judgeWaitingReadings(project, user, reading, ip, transaction) : [];
     if (evaluation?.exceeds) {
       stopWork = await StopWorkEvent.findOne({ where: { projectId: project.id, stationId: station.id, resumedAt: null }, transaction });
       if (!stopWork) {
@@ -389,36 +483,168 @@ export async function recordReading(project: ProjectView, user: UserView, input:
         await recordAudit({ action: AUDIT_ACTIONS.stopWorkOpened, projectId: project.id, userId: user.id, ip, detail: { id: stopWork.id, station: station.name, readingId: reading.id } }, transaction);
       }
     }
-    return { reading, station, evaluation, stopWork, opened };
+    return { reading, station, evaluation, stopWork, opened, late, ruleUnit: (rule?.unit ?? "NTU") as TurbidityUnit };
   });
   const result: ReadingRecorded = {
     id: outcome.reading.id,
     evaluation: outcome.evaluation,
-    verdict: outcome.evaluation ? verdictInWords(outcome.evaluation, input.unit) : "Recorded (only compliance readings are judged against the rule).",
+    verdict: outcome.evaluation ? verdictInWords(outcome.evaluation, input.unit, outcome.ruleUnit) : "Recorded (only compliance readings are judged against the rule).",
     notices: [],
   };
   if (outcome.stopWork) result.stopWork = { id: outcome.stopWork.id, notifyBy: outcome.stopWork.notifyBy.toISOString() };
   result.notices = readingNotices({ verdict: result.verdict, exceeds: outcome.evaluation?.exceeds ?? null, stopWork: result.stopWork });
   if (outcome.opened && outcome.evaluation && options.alert !== false) result.alerted = await alertExceedance(project, outcome.station.name, input, outcome.evaluation, outcome.stopWork!);
+  if (outcome.late.length > 0) {
+    result.judged = outcome.late.map(lateVerdictOf);
+    const event = outcome.late.find((judged) => judged.stopWork)?.stopWork;
+    if (event) result.stopWork = { id: event.id, notifyBy: event.notifyBy.toISOString() };
+    result.notices = [...result.notices, ...lateNotices(result.judged, result.stopWork)];
+    const alerted = new Set<string>();
+    for (const judged of outcome.late) {
+      if (!judged.opened || options.alert === false) continue;
+      const { reading } = judged;
+      const figures = { value: reading.value, unit: reading.unit, takenAt: reading.takenAt.toISOString(), sampledBy: reading.sampledBy, lateBackgroundAt: outcome.reading.takenAt.toISOString() };
+      for (const to of await alertExceedance(project, judged.stationName, figures, judged.evaluation, judged.stopWork!)) alerted.add(to);
+    }
+    if (alerted.size > 0) result.alerted = [...alerted];
+  }
   return result;
 }
 
+interface JudgedLater {
+  ruleUnit: TurbidityUnit;
+  reading: WaterQualityReading;
+  stationName: string;
+  evaluation: TurbidityEvaluation;
+  stopWork: StopWorkEvent | null;
+  opened: boolean;
+}
+
+const lateVerdictOf = (judged: { reading: WaterQualityReading; stationName: string; evaluation: TurbidityEvaluation; ruleUnit: TurbidityUnit }): LateVerdict => ({
+  id: judged.reading.id, station: judged.stationName, takenAt: judged.reading.takenAt.toISOString(), evaluation: judged.evaluation, verdict: verdictInWords(judged.evaluation, judged.reading.unit, judged.ruleUnit),
+});
+
+function lateNotices(judged: LateVerdict[], stopWork: StopWorkRef | undefined): string[] {
+  const exceeded = judged.filter((verdict) => verdict.evaluation.exceeds);
+  const lines = [`This background gave ${judged.length === 1 ? "a verdict" : "verdicts"} to ${judged.length} compliance reading${judged.length === 1 ? "" : "s"} waiting for one: ${judged.map((verdict) => `#${verdict.id} at ${verdict.station}, ${verdict.evaluation.exceeds ? "exceeds" : "within"}`).join("; ")}.`];
+  if (exceeded.length > 0 && stopWork) lines.push(`Stop-work event #${stopWork.id} is open: stop the work causing the exceedance, notify the agency by ${stopWork.notifyBy}, and resample until within the limit.`);
+  return lines;
+}
+
+/**
+ * A background entered after compliance readings that were waiting for one (unpaired, so no
+ * verdict under a relative rule): each compliance reading of the same unit whose rule's pairing
+ * window reaches this background is paired now with its nearest background and judged with the
+ * rule it was recorded under. An exceedance found so opens the station's stop-work event like one
+ * found on save (or joins the open one), once: a judged reading never waits again. The event opens
+ * when both samples existed (the later of the two times), the earliest the exceedance could be
+ * known, and the agency deadline counts from then. Readings that already have a verdict (an
+ * absolute rule judges an unpaired reading against its limit) keep it.
+ */
+async function judgeWaitingReadings(project: ProjectView, user: UserView, background: WaterQualityReading, ip: string | null, transaction: Transaction): Promise<JudgedLater[]> {
+  const takenAtMs = background.takenAt.getTime();
+  const widestMs = 1440 * 60_000; // the widest pairing window a rule may set
+  const waiting = await WaterQualityReading.findAll({
+    where: { projectId: project.id, unit: background.unit, paired: false, exceeds: null, id: { [Op.lt]: background.id }, takenAt: { [Op.between]: [new Date(takenAtMs - widestMs), new Date(takenAtMs + widestMs)] } },
+    include: [{ model: MonitoringStation, as: "station", where: { kind: "compliance" }, attributes: ["id", "name"] }],
+    order: [["takenAt", "ASC"], ["id", "ASC"]],
+    transaction,
+  });
+  const judged: JudgedLater[] = [];
+  for (const reading of waiting) {
+    const rule = reading.ruleId ? await TurbidityRuleRecord.findByPk(reading.ruleId, { transaction }) : null;
+    if (!rule || Math.abs(reading.takenAt.getTime() - takenAtMs) > rule.pairingWindowMinutes * 60_000) continue;
+    const windowMs = rule.pairingWindowMinutes * 60_000;
+    const candidates = await WaterQualityReading.findAll({
+      where: { projectId: project.id, unit: reading.unit, takenAt: { [Op.between]: [new Date(reading.takenAt.getTime() - windowMs), new Date(reading.takenAt.getTime() + windowMs)] } },
+      include: [{ model: MonitoringStation, as: "station", where: { kind: "background" }, attributes: ["id"] }],
+      transaction,
+    });
+    const paired = pairBackground(reading.takenAt.getTime(), candidates.map((candidate) => ({ id: candidate.id, takenAtMs: candidate.takenAt.getTime(), value: candidate.value })), rule.pairingWindowMinutes);
+    if (!paired) continue;
+    const evaluation = evaluateTurbidity(ruleOf(rule), reading.value, paired.value);
+    await reading.update(
+      { backgroundReadingId: paired.id, paired: evaluation.paired, backgroundNtu: evaluation.background, differenceNtu: evaluation.difference, limitNtu: evaluation.limit, exceeds: evaluation.exceeds },
+      { transaction },
+    );
+    const stationName = reading.station?.name ?? "";
+    await recordAudit({ action: AUDIT_ACTIONS.waterQualityReadingJudged, projectId: project.id, userId: user.id, ip, detail: { id: reading.id, station: stationName, backgroundReadingId: paired.id, exceeds: evaluation.exceeds } }, transaction);
+    let stopWork: StopWorkEvent | null = null;
+    let opened = false;
+    if (evaluation.exceeds) {
+      stopWork = await StopWorkEvent.findOne({ where: { projectId: project.id, stationId: reading.stationId, resumedAt: null }, transaction });
+      if (!stopWork) {
+        const openedAt = new Date(Math.max(reading.takenAt.getTime(), paired.takenAtMs));
+        stopWork = await StopWorkEvent.create(
+          { projectId: project.id, stationId: reading.stationId, readingId: reading.id, openedAt, notifyBy: new Date(openedAt.getTime() + rule.notifyWithinHours * 3_600_000) },
+          { transaction },
+        );
+        opened = true;
+        await recordAudit({ action: AUDIT_ACTIONS.stopWorkOpened, projectId: project.id, userId: user.id, ip, detail: { id: stopWork.id, station: stationName, readingId: reading.id, judgedWithBackground: paired.id } }, transaction);
+      }
+    }
+    judged.push({ reading, stationName, evaluation, stopWork, opened, ruleUnit: rule.unit ?? "NTU" });
+  }
+  return judged;
+}
+
 async function replayOf(project: ProjectView, reading: WaterQualityReading): Promise<ReadingRecorded> {
+  const late = await replayedLateVerdicts(project, reading);
+  if (late) return late;
   const evaluation = evaluationOf(reading);
   const stopWork = evaluation?.exceeds ? await StopWorkEvent.findOne({ where: { projectId: project.id, stationId: reading.stationId, readingId: { [Op.lte]: reading.id } }, order: [["id", "DESC"]] }) : null;
-  const verdict = evaluation ? verdictInWords(evaluation, reading.unit) : "Recorded (only compliance readings are judged against the rule).";
+  const rule = reading.ruleId ? await TurbidityRuleRecord.findByPk(reading.ruleId, { attributes: ["unit"] }) : null;
+  const verdict = evaluation ? verdictInWords(evaluation, reading.unit, rule?.unit ?? "NTU") : "Recorded (only compliance readings are judged against the rule).";
   const stopWorkRef = stopWork ? { id: stopWork.id, notifyBy: stopWork.notifyBy.toISOString() } : undefined;
   return { id: reading.id, evaluation, verdict, ...(stopWorkRef ? { stopWork: stopWorkRef } : {}), notices: readingNotices({ verdict, exceeds: evaluation?.exceeds ?? null, stopWork: stopWorkRef }) };
 }
 
+/** A background's stored answer again: the readings it judged (recorded before it, paired with it) and the stop-work one of them opened. */
+async function replayedLateVerdicts(project: ProjectView, background: WaterQualityReading): Promise<ReadingRecorded | null> {
+  const station = await MonitoringStation.findByPk(background.stationId);
+  if (station?.kind !== "background") return null;
+  const readings = await WaterQualityReading.findAll({
+    where: { projectId: project.id, backgroundReadingId: background.id, id: { [Op.lt]: background.id } },
+    include: [{ model: MonitoringStation, as: "station", attributes: ["name"] }, { model: TurbidityRuleRecord, as: "rule", attributes: ["unit"] }],
+    order: [["takenAt", "ASC"], ["id", "ASC"]],
+  });
+  const verdict = "Recorded (only compliance readings are judged against the rule).";
+  if (readings.length === 0) return { id: background.id, evaluation: null, verdict, notices: [] };
+  const judged = readings.map((reading) => lateVerdictOf({ reading, stationName: reading.station?.name ?? "", evaluation: evaluationOf(reading)!, ruleUnit: reading.rule?.unit ?? "NTU" }));
+  const event = await StopWorkEvent.findOne({ where: { projectId: project.id, readingId: readings.map((reading) => reading.id) }, order: [["id", "ASC"]] });
+  const stopWork = event ? { id: event.id, notifyBy: event.notifyBy.toISOString() } : undefined;
+  return { id: background.id, evaluation: null, verdict, ...(stopWork ? { stopWork } : {}), judged, notices: lateNotices(judged, stopWork) };
+}
+
+/**
+ * Who the exceedance e-mail goes to, from the settings: every member of the chosen roles, the
+ * members chosen by name (while they are still members), and the outside addresses; never a
+ * disabled account. Unset: the manager, the dive supervisor and the dewatering operator.
+ */
+export async function alertAddressesOf(project: ProjectView): Promise<string[]> {
+  const { alertRecipients } = await getWaterQualitySettings(project);
+  const members = await Membership.findAll({
+    where: { projectId: project.id, [Op.or]: [{ role: alertRecipients.roles }, { userId: alertRecipients.userIds }] },
+    include: [{ model: User, as: "user", attributes: ["email", "disabledAt"] }],
+  });
+  const memberAddresses = members.filter((member) => member.user && !member.user.disabledAt).map((member) => member.user!.email.toLowerCase());
+  return [...new Set([...memberAddresses, ...alertRecipients.addresses])];
+}
+
 /** The exceedance e-mail, at once, to the project's managers, dive supervisors and dewatering operators, through the outbox (sent within seconds, retried while the mail server is away); it never unrecords the reading. */
-async function alertExceedance(project: ProjectView, stationName: string, input: ReadingInput, evaluation: TurbidityEvaluation, event: StopWorkEvent): Promise<string[]> {
-  const members = await Membership.findAll({ where: { projectId: project.id, role: [...STOP_WORK_ROLES] }, include: [{ model: User, as: "user", attributes: ["email", "disabledAt"] }] });
-  const recipients = [...new Set(members.filter((member) => member.user && !member.user.disabledAt).map((member) => member.user!.email))];
+async function alertExceedance(
+  project: ProjectView,
+  stationName: string,
+  input: { value: number; unit: string; takenAt: string; sampledBy?: string | null; lateBackgroundAt?: string },
+  evaluation: TurbidityEvaluation,
+  event: StopWorkEvent,
+): Promise<string[]> {
+  const recipients = await alertAddressesOf(project);
   const text = [
     `${project.name}: turbidity exceedance at ${stationName} — STOP the work causing it.`,
     "",
     `Reading: ${input.value} ${input.unit} taken ${input.takenAt}${input.sampledBy ? ` by ${input.sampledBy}` : ""}.`,
+    ...(input.lateBackgroundAt ? [`Judged when the background reading taken ${input.lateBackgroundAt} was entered (the reading had waited for a background in its pairing window).`] : []),
     evaluation.background !== null ? `Paired background: ${evaluation.background} ${input.unit}; difference ${evaluation.difference} ${input.unit}.` : "No paired background (judged against the absolute limit).",
     `Limit for this reading: ${evaluation.limit} ${input.unit}.`,
     `Notify the agency by ${event.notifyBy.toISOString()} (the rule's deadline), and resample at ${stationName} until within the limit.`,
@@ -446,7 +672,7 @@ export async function listReadings(project: ProjectView, query: z.infer<typeof r
       projectId: project.id,
       ...(query.from || query.to ? { localDay: { ...(query.from ? { [Op.gte]: query.from } : {}), ...(query.to ? { [Op.lte]: query.to } : {}) } } : {}),
     },
-    include: [{ model: MonitoringStation, as: "station", attributes: ["name", "kind"], ...(stationWhere ? { where: stationWhere } : {}) }],
+    include: [{ model: MonitoringStation, as: "station", attributes: ["name", "kind"], ...(stationWhere ? { where: stationWhere } : {}) }, { model: TurbidityRuleRecord, as: "rule", attributes: ["unit"] }],
     order: options.latest ? [["takenAt", "DESC"], ["id", "DESC"]] : [["takenAt", "ASC"], ["id", "ASC"]],
     ...(options.latest ? { limit: options.latest } : {}),
   });
@@ -566,7 +792,7 @@ export async function complianceSummary(project: ProjectView, query: z.infer<typ
   const workDays = [...new Set([...diveDays, ...shiftDays])];
   const inRange = workDays.filter((day) => (!query.from || day >= query.from) && (!query.to || day <= query.to));
   const complianceTimes = readings.filter((reading) => reading.stationKind === "compliance").map((reading) => Date.parse(reading.takenAt));
-  const missed = missedIntervals(inRange, complianceTimes, { intervalMinutes: settings.samplingIntervalMinutes, workdayStartMinutes: minutesOfClock(settings.workdayStart), workdayEndMinutes: minutesOfClock(settings.workdayEnd) }, project.timeZone);
+  const missed = missedIntervals(inRange, complianceTimes, samplingRoutineOf(settings), project.timeZone);
   return {
     stations: stations.map((station) => {
       const own = readings.filter((reading) => reading.station === station.name);

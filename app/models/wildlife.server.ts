@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { localDayOf } from "../../shared/local-time";
 import { effectOfSighting, standDownActiveAt } from "../../shared/water-quality/stand-down";
-import { getSequelize, WildlifeSighting, WildlifeStandDown } from "~/lib/db.server";
+import { getSequelize, Project, WildlifeSighting, WildlifeStandDown } from "~/lib/db.server";
 import { ValidationError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -85,6 +85,9 @@ export async function recordSighting(project: ProjectView, user: UserView, input
   }
   return getSequelize().transaction(async (transaction) => {
     const idempotency = await claimIdempotencyKey(transaction);
+    // The project row's lock before the stand-down's: an assignment for today waits on it before
+    // looking for stand-downs in force (assignments.server.ts), and takes them in that order too.
+    await Project.findByPk(project.id, { attributes: ["id"], lock: transaction.LOCK.UPDATE, transaction });
     const latest = await WildlifeStandDown.findOne({ where: { projectId: project.id, species }, order: [["startedAt", "DESC"], ["id", "DESC"]], transaction, lock: transaction.LOCK.UPDATE });
     const effect = effectOfSighting(
       latest ? { startedAtMs: latest.startedAt.getTime(), departedAtMs: latest.departedAt?.getTime() ?? null } : null,

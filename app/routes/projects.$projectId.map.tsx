@@ -15,6 +15,7 @@ import { MapPanel } from "~/components/map/map-panel";
 import { NorthArrow } from "~/components/map/north-arrow";
 import { MARK_STYLES, MARK_SWATCHES, TUBE_COLOURS, bandLegend, legendFor, type BandBounds, type MapView } from "~/components/map/paint";
 import { MapSettings } from "~/components/map/map-settings";
+import { MonitoringPanel, locatedKeys, lonLatOfKey, monitoringLegend, recentSightings, sightingFeatures, stationFeatures, type MonitoringKey, type SightingHours } from "~/components/map/monitoring";
 import { LAYER_KEYS, mapViewSearch, parseMapView, type LayerKey } from "~/components/map/view-url";
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
@@ -30,6 +31,7 @@ import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
 import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline.server";
 import { currentStoppages, workStoppedMessage } from "~/models/stoppages.server";
 import { listTubes } from "~/models/dewatering.server";
+import { mapMonitoring } from "~/models/map-monitoring.server";
 import type { Route } from "./+types/projects.$projectId.map";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -37,9 +39,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = access;
   // Held cells for those who read finds (outreach sees nothing of finds): "held", no details.
   const canReadFinds = can(access, "finds.read");
-  const [teams, shoreline, row, surveys, stoppages, heldCells, register] = await Promise.all([
+  const [teams, shoreline, row, surveys, stoppages, heldCells, register, monitoring] = await Promise.all([
     listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project), currentStoppages(project), canReadFinds ? heldCellLabels(project.id) : Promise.resolve([]),
-    listTubes(project),
+    listTubes(project), mapMonitoring(project),
   ]);
   // The tubes the style draws (placed on the laydown area, not yet hauled), for the legend.
   const drawnTubes = register.tubes.filter((tube) => tube.position !== null && tube.status !== "hauled");
@@ -47,6 +49,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     projectId: project.id,
     hasWorkLimit: project.hasWorkLimit,
     lengthUnit: project.lengthUnit,
+    timeZone: project.timeZone,
     crsCode: project.crs,
     minTeamSize: project.minTeamSize,
     canAssign: can(access, "plans.assign"),
@@ -60,6 +63,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     // Lon/lat, as stored: the browser clips the cells along it.
     workLimit: row?.workLimitGeoJson ? (JSON.parse(row.workLimitGeoJson) as LonLatWorkLimit) : null,
     heldCells,
+    monitoring,
     tubes: { count: drawnTubes.length, nearCapacity: drawnTubes.filter((tube) => tube.nearCapacity).length, nearCapacityShare: register.nearCapacityShare },
     // The view sent in the address (centre, zoom, layers, zone, cells): the page opens on it.
     initialView: parseMapView(new URL(request.url).searchParams),
@@ -108,7 +112,7 @@ export function meta() {
 const POLL_MS = 30_000;
 
 const VIEW_TITLES: Record<MapView, string> = { status: "Cell status", thickness: "Remaining sediment thickness", removed: "Removed volume per cell" };
-const LAYER_NAMES: Record<LayerKey, string> = { cells: "Cells", bands: "Bands", zones: "Zones", workLimit: "Work limit", shoreline: "Shoreline", labels: "Labels" };
+const LAYER_NAMES: Record<LayerKey, string> = { cells: "Cells", bands: "Bands", zones: "Zones", workLimit: "Work limit", shoreline: "Shoreline", labels: "Labels", monitoring: "Stations and sightings" };
 const BAND_TITLES = { remaining: "Remaining thickness bands", depth: "Bottom depth bands" } as const;
 
 const tomorrow = () => new Date(Date.now() + 86_400_000).toISOString().slice(0, 10);
@@ -153,6 +157,21 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
   const [panelOpen, setPanelOpen] = useState<boolean | null>(null);
   const [wide, setWide] = useState<boolean | null>(null);
   const [announcement, setAnnouncement] = useState("");
+  const [sightingHours, setSightingHours] = useState<SightingHours>(24);
+  const [chosenPoint, setChosenPoint] = useState<MonitoringKey | null>(null);
+  const monitoringRef = useRef<HTMLDivElement>(null);
+  const { monitoring, timeZone } = loaderData;
+  const shownSightings = useMemo(() => recentSightings(monitoring, sightingHours), [monitoring, sightingHours]);
+  const stationPoints = useMemo(() => stationFeatures(monitoring.stations), [monitoring]);
+  const sightingPoints = useMemo(() => sightingFeatures(shownSightings, timeZone), [shownSightings, timeZone]);
+  const monitoringShown = useMemo(() => ({ stations: stationPoints, sightings: sightingPoints, chosen: chosenPoint }), [stationPoints, sightingPoints, chosenPoint]);
+  /** Shows a station or sighting in the panel and, when it has a position, flies the map to it. */
+  const choosePoint = useCallback((key: MonitoringKey, fly: boolean) => {
+    setChosenPoint(key);
+    setPanelOpen(true);
+    const lonLat = lonLatOfKey(monitoring, key);
+    if (fly && lonLat) setFlyTo({ lonLat, serial: Date.now() });
+  }, [monitoring]);
   const initialCamera = useRef(camera);
   const extent = useMemo(() => extentOf(loaderData.workLimit), [loaderData.workLimit]);
   const searchInput = useRef<HTMLInputElement>(null);
@@ -357,6 +376,19 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
       }
       setPanelOpen(true);
       requestAnimationFrame(() => assignRef.current?.querySelector<HTMLElement>("input, select, textarea, button")?.focus());
+    } else if (key === "w") {
+      event.preventDefault();
+      // Step through the stations and sightings drawn on the map, each shown in the panel.
+      const points = layers.monitoring ? locatedKeys(monitoring, shownSightings) : [];
+      if (points.length === 0) {
+        setAnnouncement(layers.monitoring ? "No station or sighting with a position is drawn." : "Turn on Stations and sightings under Map layers first.");
+        return;
+      }
+      const at = points.findIndex((point) => point.key === chosenPoint);
+      const next = points[(at + 1) % points.length];
+      choosePoint(next.key, true);
+      requestAnimationFrame(() => monitoringRef.current?.scrollIntoView({ block: "nearest" }));
+      setAnnouncement(`${next.name}, ${at + 2 > points.length ? 1 : at + 2} of ${points.length}: read it in the panel.`);
     } else if (key === "Escape") {
       event.preventDefault();
       setSelected(new Set());
@@ -440,8 +472,9 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
         ],
       });
     }
+    if (layers.monitoring) sections.push(...monitoringLegend(monitoring, shownSightings, sightingHours));
     return sections;
-  }, [loaderData.tubes, layers.bands, layers.cells, bands, bandSurface, data, loadError, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
+  }, [monitoring, shownSightings, sightingHours, layers.monitoring, loaderData.tubes, layers.bands, layers.cells, bands, bandSurface, data, loadError, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
 
   if (!loaderData.hasWorkLimit) {
     return <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">Set the project's work limit to see it on the map.</p>;
@@ -507,6 +540,11 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
             onCamera={(centre, zoom) => setCamera({ centre, zoom })}
             cameraCommand={cameraCommand}
             loadError={loadError}
+            monitoring={layers.monitoring ? monitoringShown : undefined}
+            onMonitoringClick={(key) => {
+              choosePoint(key, false);
+              requestAnimationFrame(() => monitoringRef.current?.scrollIntoView({ block: "nearest" }));
+            }}
           />
           </div>
           <div className="pointer-events-none absolute left-2 top-2 rounded bg-panel/90 p-1"><NorthArrow bearing={bearing} /></div>
@@ -550,6 +588,18 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
           ) : (
             <p className="text-sm text-muted">Your role can read the map; dive supervisors and managers assign cells.</p>
           )}
+        </div>
+        <div ref={monitoringRef}>
+          <MonitoringPanel
+            monitoring={monitoring}
+            sightings={shownSightings}
+            hours={sightingHours}
+            onHours={setSightingHours}
+            chosen={chosenPoint}
+            onChoose={(key) => choosePoint(key, true)}
+            lengthUnit={loaderData.lengthUnit}
+            timeZone={timeZone}
+          />
         </div>
         <fieldset className="space-y-2 rounded border border-line p-3 text-sm">
           <legend className="px-1 font-semibold">Map layers</legend>

@@ -4,7 +4,7 @@ import { instantOfLocal, localDayOf } from "../../shared/local-time";
 import { localTime } from "~/components/stop-work-banner";
 import { TurbidityChart } from "~/components/turbidity-chart";
 import { requireRole } from "~/lib/auth/access.server";
-import { complianceSummary, listReadings, listStopWork } from "~/models/water-quality.server";
+import { complianceSummary, listReadings, listStopWork, samplingRoutineInWords } from "~/models/water-quality.server";
 import { listStandDowns } from "~/models/wildlife.server";
 import { WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import type { Route } from "./+types/projects.$projectId.water-quality.compliance";
@@ -28,6 +28,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     projectId: project.id, projectName: project.name, timeZone: project.timeZone, from, to,
     fromMs: instantOfLocal(from, 0, project.timeZone), toMs: instantOfLocal(to, 24 * 60, project.timeZone),
     ...summary,
+    routine: samplingRoutineInWords(summary.settings),
     stopWork: stopWork.filter((event) => inPeriod(event.openedAt)),
     standDowns: standDowns.filter((standDown) => inPeriod(standDown.startedAt)),
   };
@@ -56,7 +57,7 @@ export default function WaterQualityCompliance({ loaderData }: Route.ComponentPr
         <button type="submit" className="rounded border border-line bg-panel px-3 py-1 hover:bg-paper">Show</button>
       </Form>
       <p role="note" className="rounded border border-caution bg-[#fff7e8] p-2 text-sm text-caution">{WATER_QUALITY_CAUTION}</p>
-      <p className="text-sm">Rule in force: {rules.find((rule) => rule.inForce)?.summary ?? "none set"}{rules.find((rule) => rule.inForce) ? ` (source: ${rules.find((rule) => rule.inForce)!.source})` : ""}. Sampling: every {loaderData.settings.samplingIntervalMinutes} min from {loaderData.settings.workdayStart} to {loaderData.settings.workdayEnd} on days dives are logged. Times are project time ({timeZone}).</p>
+      <p className="text-sm">Rule in force: {rules.find((rule) => rule.inForce)?.summary ?? "none set"}{rules.find((rule) => rule.inForce) ? ` (source: ${rules.find((rule) => rule.inForce)!.source})` : ""}. Sampling: {loaderData.routine} on days a dive or a dewatering shift is logged. Times are project time ({timeZone}).</p>
 
       <section aria-labelledby="missed-heading">
         <h3 id="missed-heading" className="text-lg font-semibold">Missed sampling intervals</h3>

@@ -8,7 +8,10 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { fieldErrorsFrom, type FieldErrors } from "~/lib/http/form";
 import { unitLabel } from "../../shared/units";
 import { TURBIDITY_RULE_KINDS } from "../../shared/water-quality/turbidity-rule";
-import { DEPTH_RULES, RULE_EXAMPLES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
+import { ALERT_ROLE_CHOICES, DEPTH_RULES, RULE_EXAMPLES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
+import { listMembers } from "~/models/membership.server";
+import { roleLabel } from "~/lib/auth/roles";
+import { TURBIDITY_UNITS } from "../../shared/water-quality/turbidity-rule";
 import {
   createRule, createStation, getWaterQualitySettings, listRules, listStations, ruleInputSchema, saveWaterQualitySettings, settingsInputSchema, stationInputSchema,
 } from "~/models/water-quality.server";
@@ -20,8 +23,11 @@ import { readPageForm } from "~/lib/http/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = await requireRole(request, params.projectId, "water-quality.configure");
-  const [stations, rules, settings] = await Promise.all([listStations(project), listRules(project), getWaterQualitySettings(project)]);
-  return { projectId: project.id, lengthLabel: unitLabel(project.lengthUnit), stations, rules, settings };
+  const [stations, rules, settings, members] = await Promise.all([listStations(project), listRules(project), getWaterQualitySettings(project), listMembers(project)]);
+  return {
+    projectId: project.id, lengthLabel: unitLabel(project.lengthUnit), stations, rules, settings,
+    members: members.map((member) => ({ userId: member.userId, name: member.name, role: member.role })),
+  };
 }
 
 type ActionResult = { intent: string; errors: FieldErrors; notice: string | null };
@@ -53,17 +59,18 @@ export async function action({ request, params }: Route.ActionArgs) {
       const parsed = ruleInputSchema.safeParse({
         kind: text(form.get("kind")), limit: optionalNumber(form.get("limit")), inclusive: form.get("inclusive") === "on", percent: optionalNumber(form.get("percent")),
         floor: optionalNumber(form.get("floor")), cap: optionalNumber(form.get("cap")), pairingWindowMinutes: optionalNumber(form.get("pairingWindowMinutes")) ?? undefined,
-        notifyWithinHours: optionalNumber(form.get("notifyWithinHours")) ?? undefined, source: text(form.get("source")),
+        notifyWithinHours: optionalNumber(form.get("notifyWithinHours")) ?? undefined, source: text(form.get("source")), unit: text(form.get("unit")) || undefined,
       });
       if (!parsed.success) return refused(intent, issuesOf(parsed.error.issues));
       await createRule(project, user, parsed.data, ip);
       return { intent, errors: {}, notice: "Rule added: it is now the project's rule in force." } satisfies ActionResult;
     }
     if (intent === "settings") {
-      const parsed = settingsInputSchema.safeParse(Object.fromEntries(form));
+      // Checkboxes send one value per box ticked: read them as lists.
+      const parsed = settingsInputSchema.safeParse({ ...Object.fromEntries(form), alertRoles: form.getAll("alertRoles"), alertUserIds: form.getAll("alertUserIds"), alertAddresses: text(form.get("alertAddresses")) });
       if (!parsed.success) return refused(intent, issuesOf(parsed.error.issues));
       await saveWaterQualitySettings(project, user, parsed.data, ip);
-      return { intent, errors: {}, notice: "Sampling and wildlife settings saved." } satisfies ActionResult;
+      return { intent, errors: {}, notice: "Sampling, alert and wildlife settings saved." } satisfies ActionResult;
     }
     return refused("invalid", [{ message: "Unknown action." }]);
   } catch (error) {
@@ -79,7 +86,7 @@ export function meta({}: Route.MetaArgs) {
 const inputClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py-2 focus:outline-2 focus:outline-offset-1 focus:outline-lagoon";
 
 export default function WaterQualitySetup({ loaderData, actionData }: Route.ComponentProps) {
-  const { projectId, stations, rules, settings, lengthLabel } = loaderData;
+  const { projectId, stations, rules, settings, lengthLabel, members } = loaderData;
   const errorsFor = (intent: string): FieldErrors => (actionData?.intent === intent ? (actionData.errors as FieldErrors) : {});
   return (
     <div className="space-y-8">
@@ -108,14 +115,19 @@ export default function WaterQualitySetup({ loaderData, actionData }: Route.Comp
             <label htmlFor="rule-kind" className="block text-sm font-medium">Kind</label>
             <select id="rule-kind" name="kind" className={inputClass}>{TURBIDITY_RULE_KINDS.map((kind) => <option key={kind}>{kind}</option>)}</select>
           </div>
+          <div>
+            <label htmlFor="rule-unit" className="block text-sm font-medium">Unit the permit states the rule in</label>
+            <select id="rule-unit" name="unit" defaultValue="NTU" className={inputClass}>{TURBIDITY_UNITS.map((unit) => <option key={unit}>{unit}</option>)}</select>
+            <p className="mt-1 text-xs text-muted">The limits below are in this unit. Readings are paired only with a background in their own unit; a reading in the other unit is judged as a number against this rule, and its verdict says so.</p>
+          </div>
           <div className="grid grid-cols-2 gap-3">
-            <TextField label="Limit (NTU)" name="limit" inputMode="decimal" hint="Over background, or the ceiling for an absolute rule." error={errorsFor("rule").limit} />
+            <TextField label="Limit" name="limit" inputMode="decimal" hint="Over background, or the ceiling for an absolute rule." error={errorsFor("rule").limit} />
             <label className="mt-6 flex items-center gap-2 text-sm"><input type="checkbox" name="inclusive" defaultChecked /> A reading at the limit is within it</label>
           </div>
           <div className="grid grid-cols-3 gap-3">
             <TextField label="Percent" name="percent" inputMode="decimal" error={errorsFor("rule").percent} />
-            <TextField label="Floor (NTU)" name="floor" inputMode="decimal" error={errorsFor("rule").floor} />
-            <TextField label="Cap (NTU)" name="cap" inputMode="decimal" error={errorsFor("rule").cap} />
+            <TextField label="Floor" name="floor" inputMode="decimal" error={errorsFor("rule").floor} />
+            <TextField label="Cap" name="cap" inputMode="decimal" error={errorsFor("rule").cap} />
           </div>
           <div className="grid grid-cols-2 gap-3">
             <TextField label="Pairing window (min)" name="pairingWindowMinutes" inputMode="numeric" defaultValue="60" error={errorsFor("rule").pairingWindowMinutes} />
@@ -161,15 +173,56 @@ export default function WaterQualitySetup({ loaderData, actionData }: Route.Comp
       </section>
 
       <section aria-labelledby="settings-heading" className="space-y-3">
-        <h3 id="settings-heading" className="text-lg font-semibold">Sampling routine and wildlife</h3>
+        <h3 id="settings-heading" className="text-lg font-semibold">Sampling routine, alerts and wildlife</h3>
         {settings.isDefault ? <p className="text-sm text-caution">These are the offered defaults, not saved yet. The wildlife distance and wait are recalled from memory of common permit conditions: check them against the permit.</p> : null}
         <Form method="post" className="max-w-xl space-y-3">
-          <div className="grid grid-cols-3 gap-3">
-            <TextField label="Sample every (min)" name="samplingIntervalMinutes" inputMode="numeric" defaultValue={settings.samplingIntervalMinutes} error={errorsFor("settings").samplingIntervalMinutes} />
-            <TextField label="Work day from" name="workdayStart" type="time" defaultValue={settings.workdayStart} error={errorsFor("settings").workdayStart} />
-            <TextField label="to" name="workdayEnd" type="time" defaultValue={settings.workdayEnd} error={errorsFor("settings").workdayEnd} />
-          </div>
+          <fieldset className="space-y-2 rounded border border-line p-3">
+            <legend className="px-1 text-sm font-medium">Compliance samples while work is active</legend>
+            <label className="flex items-start gap-2 text-sm">
+              <input type="radio" name="samplingMode" value="interval" defaultChecked={settings.samplingMode === "interval"} className="mt-1" />
+              <span>At an interval: a sample in every stretch of the work day this long</span>
+            </label>
+            <div className="pl-6"><TextField label="Sample every (min)" name="samplingIntervalMinutes" inputMode="numeric" defaultValue={settings.samplingIntervalMinutes} error={errorsFor("settings").samplingIntervalMinutes} /></div>
+            <label className="flex items-start gap-2 text-sm">
+              <input type="radio" name="samplingMode" value="per-day" defaultChecked={settings.samplingMode === "per-day"} className="mt-1" />
+              <span>So many a day, at least so long apart (e.g. twice daily, at least 4 h apart)</span>
+            </label>
+            <div className="grid grid-cols-2 gap-3 pl-6">
+              <TextField label="Samples a day" name="samplesPerDay" inputMode="numeric" defaultValue={settings.samplesPerDay ?? ""} error={errorsFor("settings").samplesPerDay} />
+              <TextField label="At least apart (h)" name="minimumGapHours" inputMode="decimal" defaultValue={settings.minimumGapHours ?? ""} error={errorsFor("settings").minimumGapHours} />
+            </div>
+            <div className="grid grid-cols-2 gap-3">
+              <TextField label="Work day from" name="workdayStart" type="time" defaultValue={settings.workdayStart} error={errorsFor("settings").workdayStart} />
+              <TextField label="to" name="workdayEnd" type="time" defaultValue={settings.workdayEnd} error={errorsFor("settings").workdayEnd} />
+            </div>
+            <p className="text-xs text-muted">Missed samples are counted on days a dive or a dewatering shift was logged, within the work day, in the project's time zone.</p>
+          </fieldset>
           <TextField label="Source of the routine" name="samplingSource" defaultValue={settings.samplingSource} error={errorsFor("settings").samplingSource} />
+          <fieldset className="space-y-2 rounded border border-line p-3 text-sm" aria-describedby="alert-help">
+            <legend className="px-1 font-medium">Who is e-mailed at once on an exceedance</legend>
+            <p id="alert-help" className="text-xs text-muted">Every member with a ticked role, the members ticked by name, and the outside addresses. The banner shows every member regardless.</p>
+            <div className="grid grid-cols-1 gap-1 sm:grid-cols-2">
+              {ALERT_ROLE_CHOICES.map((role) => (
+                <label key={role} className="flex items-center gap-2"><input type="checkbox" name="alertRoles" value={role} defaultChecked={settings.alertRecipients.roles.includes(role)} /> Every {roleLabel(role, "sentence")}</label>
+              ))}
+            </div>
+            {errorsFor("settings").alertRoles ? <p className="text-danger">{errorsFor("settings").alertRoles}</p> : null}
+            {members.length > 0 ? (
+              <details open={settings.alertRecipients.userIds.length > 0}>
+                <summary className="cursor-pointer">Members chosen by name ({settings.alertRecipients.userIds.length})</summary>
+                <div className="mt-1 grid grid-cols-1 gap-1 sm:grid-cols-2">
+                  {members.map((member) => (
+                    <label key={member.userId} className="flex items-center gap-2"><input type="checkbox" name="alertUserIds" value={member.userId} defaultChecked={settings.alertRecipients.userIds.includes(member.userId)} /> {member.name} <span className="text-muted">({roleLabel(member.role, "sentence")})</span></label>
+                  ))}
+                </div>
+                {errorsFor("settings").alertUserIds ? <p className="text-danger">{errorsFor("settings").alertUserIds}</p> : null}
+              </details>
+            ) : null}
+            <label className="block font-medium">Outside addresses (one a line)
+              <textarea name="alertAddresses" rows={2} defaultValue={settings.alertRecipients.addresses.join("\n")} className={inputClass} placeholder="duty-officer@agency.example" />
+            </label>
+            {errorsFor("settings").alertAddresses ? <p className="text-danger">{errorsFor("settings").alertAddresses}</p> : null}
+          </fieldset>
           <div className="grid grid-cols-2 gap-3">
             <TextField label={`Shutdown distance (${lengthLabel})`} name="shutdownDistance" inputMode="decimal" defaultValue={settings.shutdownDistance} error={errorsFor("settings").shutdownDistance} />
             <TextField label="Wait after it leaves (min)" name="standDownWaitMinutes" inputMode="numeric" defaultValue={settings.standDownWaitMinutes} error={errorsFor("settings").standDownWaitMinutes} />

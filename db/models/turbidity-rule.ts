@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
-import type { TurbidityRuleKind } from "../../shared/water-quality/turbidity-rule";
+import type { TurbidityRuleKind, TurbidityUnit } from "../../shared/water-quality/turbidity-rule";
 import type { Project } from "./project";
 import type { User } from "./user";
 
@@ -16,6 +16,8 @@ export class TurbidityRuleRecord extends Model<InferAttributes<TurbidityRuleReco
   declare pairingWindowMinutes: number;
   declare notifyWithinHours: number;
   declare source: string;
+  /** The unit the rule's figures are stated in (NTU, or FNU where the permit states it so). */
+  declare unit: CreationOptional<TurbidityUnit>;
   declare createdById: ForeignKey<User["id"]> | null;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -34,6 +36,7 @@ export function initTurbidityRule(sequelize: Sequelize) {
       pairingWindowMinutes: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       notifyWithinHours: { type: DataTypes.DOUBLE, allowNull: false },
       source: { type: DataTypes.TEXT, allowNull: false },
+      unit: { type: DataTypes.STRING(3), allowNull: false, defaultValue: "NTU" },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -36,6 +36,7 @@ export class WaterQualityReading extends Model<InferAttributes<WaterQualityReadi
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare station?: NonAttribute<MonitoringStation>;
+  declare rule?: NonAttribute<TurbidityRuleRecord>;
 }
 
 export function initWaterQualityReading(sequelize: Sequelize) {

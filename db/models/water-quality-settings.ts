@@ -4,6 +4,9 @@ import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
 import type { User } from "./user";
 
+export const alertRecipientsSchema = z.object({ roles: z.array(z.string()), userIds: z.array(z.number().int()), addresses: z.array(z.string()) });
+export type AlertRecipients = z.infer<typeof alertRecipientsSchema>;
+
 /** A project's sampling routine and wildlife settings, each with its source (one row per project, made on first use). */
 export class WaterQualitySettings extends Model<InferAttributes<WaterQualitySettings>, InferCreationAttributes<WaterQualitySettings>> {
   declare id: CreationOptional<number>;
@@ -17,6 +20,11 @@ export class WaterQualitySettings extends Model<InferAttributes<WaterQualitySett
   declare standDownWaitMinutes: number;
   declare standDownSource: string;
   declare species: string[];
+  /** "So many samples a day, at least so long apart"; null: the routine is `samplingIntervalMinutes`. */
+  declare samplesPerDay: CreationOptional<number | null>;
+  declare minimumGapMinutes: CreationOptional<number | null>;
+  /** Who is alerted on an exceedance; null: the manager, the dive supervisor and the dewatering operator. */
+  declare alertRecipients: CreationOptional<AlertRecipients | null>;
   declare updatedById: ForeignKey<User["id"]> | null;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -34,6 +42,9 @@ export function initWaterQualitySettings(sequelize: Sequelize) {
       standDownWaitMinutes: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       standDownSource: { type: DataTypes.TEXT, allowNull: false },
       species: jsonColumn("water_quality_settings", "species", z.array(z.string())),
+      samplesPerDay: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      minimumGapMinutes: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      alertRecipients: jsonColumn("water_quality_settings", "alertRecipients", alertRecipientsSchema, { allowNull: true }),
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -1,4 +1,4 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
 import type { Project } from "./project";
 import type { User } from "./user";
 import type { WildlifeStandDown } from "./wildlife-stand-down";
@@ -21,6 +21,7 @@ export class WildlifeSighting extends Model<InferAttributes<WildlifeSighting>, I
   declare recordedById: ForeignKey<User["id"]> | null;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
+  declare standDown?: NonAttribute<WildlifeStandDown>;
 }
 
 export function initWildlifeSighting(sequelize: Sequelize) {

@@ -62,6 +62,8 @@ export interface ForecastOptions {
   everyCellAtFirmSand?: boolean;
   /** Defaults to RATE_WINDOW_CALENDAR_DAYS. */
   windowCalendarDays?: number;
+  /** Shares of working days lost to stop-work and stand-downs (lost-hours.ts): the rate is per weekday actually workable. */
+  lostShares?: ReadonlyMap<number, number>;
 }
 
 /**
@@ -91,12 +93,13 @@ export function forecastFinish(
     if (measured.length === 0 || Math.abs(value - cumulativeRemoved[measured[measured.length - 1]]) > options.changeThresholdVolume) measured.push(index);
   }
   if (measured.length < 2 || latest === null || windowFrom === null) return none;
+  const weekdays = options.lostShares ? workingCalendar([], options.lostShares) : WEEKDAYS;
   const intervals: RateInterval[] = [];
   for (let k = 1; k < measured.length; k++) {
     const fromDate = dates[measured[k - 1]];
     const toDate = dates[measured[k]];
     if (toDate < windowFrom) continue;
-    const workingDays = workingDaysBetween(WEEKDAYS, fromDate, toDate);
+    const workingDays = workingDaysBetween(weekdays, fromDate, toDate);
     if (workingDays <= 0) continue; // no working day to divide by (e.g. surveys a weekend apart)
     const removedVolume = cumulativeRemoved[measured[k]] - cumulativeRemoved[measured[k - 1]];
     intervals.push({ fromDate, toDate, workingDays, removedVolume, volumePerWorkingDay: removedVolume / workingDays });

@@ -16,13 +16,27 @@ export interface WorkingCalendar {
   basis: WorkingDayBasis;
   /** Sorted day numbers of days with a logged dive (basis "dives-logged" only). */
   loggedDays: Float64Array;
+  /**
+   * The share of a day's working hours lost to stop-work events and stand-downs, by day number
+   * (lost-hours.ts): a working day counts as one less its lost share. Days absent lost nothing.
+   */
+  lostShares?: ReadonlyMap<number, number>;
 }
 
-/** The calendar to count with: days with a logged dive where there are any, else weekdays. */
-export function workingCalendar(diveLogDates: readonly string[]): WorkingCalendar {
-  if (diveLogDates.length === 0) return { basis: "weekdays", loggedDays: new Float64Array(0) };
+/** The calendar to count with: days with a logged dive where there are any, else weekdays; less the hours lost to stoppages. */
+export function workingCalendar(diveLogDates: readonly string[], lostShares?: ReadonlyMap<number, number>): WorkingCalendar {
+  const lost = lostShares && lostShares.size > 0 ? { lostShares } : {};
+  if (diveLogDates.length === 0) return { basis: "weekdays", loggedDays: new Float64Array(0), ...lost };
   const days = Float64Array.from(new Set(diveLogDates.map(dayNumber))).sort();
-  return { basis: "dives-logged", loggedDays: days };
+  return { basis: "dives-logged", loggedDays: days, ...lost };
+}
+
+/** The lost shares of the days counted in (from, to]: each counted day's share once. */
+function lostIn(calendar: WorkingCalendar, from: number, to: number, counted: (day: number) => boolean): number {
+  if (!calendar.lostShares) return 0;
+  let lost = 0;
+  for (const [day, share] of calendar.lostShares) if (day > from && day <= to && counted(day)) lost += share;
+  return lost;
 }
 
 /** Index of the first element of sorted `days` greater than `day`. */
@@ -43,14 +57,17 @@ export function workingDaysBetween(calendar: WorkingCalendar, fromDate: string, 
   if (to <= from) return 0;
   if (calendar.basis === "dives-logged") {
     const logged = upperBound(calendar.loggedDays, to) - upperBound(calendar.loggedDays, from);
-    if (logged > 0) return logged;
+    if (logged > 0) {
+      const loggedDay = (day: number) => upperBound(calendar.loggedDays, day) - upperBound(calendar.loggedDays, day - 1) > 0;
+      return logged - lostIn(calendar, from, to, loggedDay);
+    }
   }
   // Whole weeks hold five weekdays each; walk only the remainder.
   const span = to - from;
   const weeks = Math.floor(span / 7);
   let count = weeks * 5;
   for (let day = from + weeks * 7 + 1; day <= to; day++) if (isWeekday(day)) count++;
-  return count;
+  return count - lostIn(calendar, from, to, isWeekday);
 }
 
 /** What an interval's working days were counted from. */

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { instantOfLocal, localDayOf } from "../local-time";
-import { missedIntervals } from "./missed-samples";
+import { countedSamples, missedIntervals } from "./missed-samples";
 import { pairBackground } from "./pairing";
 import { DEFAULT_SHUTDOWN_DISTANCE_FT, DEFAULT_STAND_DOWN_WAIT_MINUTES, effectOfSighting, standDownActiveAt, standDownEndMs, withinShutdownDistance } from "./stand-down";
 
@@ -57,6 +57,38 @@ describe("missed sampling intervals while work is active (e.g. every 6 h in stat
   it("the last interval is cut at the day's end (07:00–17:00 every 4 h: 07–11, 11–15, 15–17)", () => {
     const missed = missedIntervals(["2031-05-06"], [], { intervalMinutes: 240, workdayStartMinutes: 420, workdayEndMinutes: 1020 }, zone);
     expect(missed.map((gap) => (gap.toMs - gap.fromMs) / MINUTE)).toEqual([240, 240, 120]);
+  });
+});
+
+// "Twice daily, at least 4 hours apart": a routine of this form is recalled from memory of state
+// permit monitoring conditions (memory: a project setting, check the permit's own words).
+describe("samples a day, at least so long apart (twice daily, ≥ 4 h: memory, a project setting)", () => {
+  const routine = { intervalMinutes: 0, workdayStartMinutes: 7 * 60, workdayEndMinutes: 19 * 60, samplesPerDay: 2, minimumGapMinutes: 240 };
+  const zone = "America/New_York";
+  const day = "2031-05-06";
+  const local = (clock: string) => at(`${day}T${clock}:00-04:00`);
+  it("08:00 and 12:00 are exactly 4 h apart: both count, nothing missed (the limit is inclusive)", () => {
+    expect(missedIntervals([day], [local("08:00"), local("12:00")], routine, zone)).toEqual([]);
+  });
+  it("08:00 and 10:00 count once (2 h apart): the second sample could have been taken 12:00–19:00 (computed: 08:00 + 4 h)", () => {
+    expect(missedIntervals([day], [local("08:00"), local("10:00")], routine, zone)).toEqual([{ day, fromMs: local("12:00"), toMs: local("19:00"), samplesShort: 1 }]);
+  });
+  it("one sample at 13:00 leaves 07:00–09:00 and 17:00–19:00 (computed: 13:00 ∓ 4 h cut from the work day)", () => {
+    expect(missedIntervals([day], [local("13:00")], routine, zone)).toEqual([
+      { day, fromMs: local("07:00"), toMs: local("09:00"), samplesShort: 1 },
+      { day, fromMs: local("17:00"), toMs: local("19:00"), samplesShort: 1 },
+    ]);
+  });
+  it("no sample on an active day: the whole work day, two short; a day without work is never a gap", () => {
+    expect(missedIntervals([day], [], routine, zone)).toEqual([{ day, fromMs: local("07:00"), toMs: local("19:00"), samplesShort: 2 }]);
+    expect(missedIntervals([], [], routine, zone)).toEqual([]);
+  });
+  it("three samples 08:00, 10:00, 12:30: earliest first counts 08:00 and 12:30, the most any choice gives (computed)", () => {
+    expect(countedSamples([local("08:00"), local("10:00"), local("12:30")], 240 * MINUTE)).toEqual([local("08:00"), local("12:30")]);
+    expect(missedIntervals([day], [local("08:00"), local("10:00"), local("12:30")], routine, zone)).toEqual([]);
+  });
+  it("a sample outside the work day does not count (18:30 and 19:30: one counted)", () => {
+    expect(missedIntervals([day], [local("18:30"), local("19:30")], routine, zone)).toEqual([{ day, fromMs: local("07:00"), toMs: local("14:30"), samplesShort: 1 }]);
   });
 });
 

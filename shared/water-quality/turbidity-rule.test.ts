@@ -93,4 +93,8 @@ describe("the verdict in words", () => {
     expect(verdictInWords(evaluateTurbidity(florida(true), 33, 5), "FNU")).toContain("rule stated in NTU");
     expect(verdictInWords(evaluateTurbidity(florida(true), 33, 5), "NTU")).not.toContain("FNU");
   });
+  it("a rule stated in FNU judges FNU readings without a remark, and says so for NTU readings (practice: the permit names the unit)", () => {
+    expect(verdictInWords(evaluateTurbidity(florida(true), 33, 5), "FNU", "FNU")).toBe("Within the limit of 34 FNU (background 5 FNU, difference 28 FNU).");
+    expect(verdictInWords(evaluateTurbidity(florida(true), 33, 5), "NTU", "FNU")).toContain("Readings in NTU judged against a rule stated in FNU");
+  });
 });

@@ -90,12 +90,16 @@ export function evaluateTurbidity(rule: TurbidityRule, complianceNtu: number, ba
   }
 }
 
-/** The verdict in words, as the reading form shows it at once after saving. */
-export function verdictInWords(evaluation: TurbidityEvaluation, unit: string = "NTU"): string {
+/**
+ * The verdict in words, as the reading form shows it at once after saving. `unit` is the
+ * readings' unit (a reading is only ever paired with a background in the same unit), `ruleUnit`
+ * the unit the rule's figures are stated in: the figures are compared as numbers, so when the two
+ * differ the verdict says so.
+ */
+export function verdictInWords(evaluation: TurbidityEvaluation, unit: TurbidityUnit | string = "NTU", ruleUnit: TurbidityUnit = "NTU"): string {
   const figure = (value: number) => `${Number(value.toFixed(2))} ${unit}`;
   if (evaluation.exceeds === null) return "No verdict: no background reading within the pairing window. Take a background reading and resample.";
   const against = evaluation.background === null ? `the limit of ${figure(evaluation.limit!)}` : `the limit of ${figure(evaluation.limit!)} (background ${figure(evaluation.background)}, difference ${figure(evaluation.difference!)})`;
   const words = evaluation.exceeds ? `Exceeds ${against}. Stop the work causing it, notify, resample.` : `Within ${against}.`;
-  // Rules are stated in NTU; FNU readings (paired with FNU backgrounds only) are judged against them as numbers, and the verdict says so.
-  return unit === "FNU" ? `${words} Readings in FNU judged against a rule stated in NTU: check that the permit allows it.` : words;
+  return unit !== ruleUnit ? `${words} Readings in ${unit} judged against a rule stated in ${ruleUnit}: check that the permit allows it.` : words;
 }

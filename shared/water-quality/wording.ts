@@ -19,3 +19,6 @@ export const RULE_EXAMPLES = [
   { label: "29 NTU above natural background (state surface-water criterion)", kind: "above-background", limit: 29, source: "State surface-water turbidity criterion: not more than 29 NTU above natural background (as restated citing Rule 62-302.530, F.A.C.); check the permit's condition" },
   { label: "Zero above background (specially protected waters)", kind: "above-background", limit: 0, source: "Specially protected waters: no increase over background (Outstanding Florida Waters principle, Rule 62-302.700, F.A.C.); check the permit's condition" },
 ] as const;
+
+/** The project roles whose members may be e-mailed on an exceedance (the settings page's boxes). */
+export const ALERT_ROLE_CHOICES = ["manager", "dive-supervisor", "dewatering", "resource-monitor", "surveyor", "outreach", "viewer"] as const;

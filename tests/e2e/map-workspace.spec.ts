@@ -192,6 +192,20 @@ test("the legend describes what is drawn: the bands with their unit and classes,
   await expect(legend.getByRole("region", { name: "Cell status" })).toHaveCount(0);
   await expect(legend.getByRole("region", { name: "Marked cells" })).toHaveCount(0);
   await page.getByLabel("Bands", { exact: true }).uncheck();
+  // The demo's monitoring stations are drawn by kind, and the sightings of the last 24 hours (none: the demo's are older).
+  await expect(legend.getByRole("region", { name: "Monitoring stations" })).toContainText("Background (1)");
+  await expect(legend.getByRole("region", { name: "Monitoring stations" })).toContainText("Compliance point (1)");
+  await expect(legend.getByRole("region", { name: "Wildlife sightings, last 24 h" })).toContainText("None recorded in that time.");
+  await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-monitoring-drawn", "3");
+  // W on the map steps to a station and the panel reads it out.
+  await page.getByLabel(/^Cell map/).focus();
+  await page.keyboard.press("w");
+  await expect(page.getByTestId("map-announcement")).toContainText("station BG-1 up-run, 1 of 3");
+  await expect(page.getByTestId("monitoring-detail")).toContainText("Background");
+  await page.getByRole("button", { name: /CP-1 plume/ }).click();
+  await expect(page.getByTestId("monitoring-detail")).toContainText("Compliance point");
+  await page.getByRole("checkbox", { name: "Stations and sightings" }).uncheck();
+  await expect(legend.getByRole("region", { name: "Monitoring stations" })).toHaveCount(0);
   // Only the demo's geotextile tubes on the laydown area are left (drawn whenever a tube is placed): described alone.
   await expect(legend.getByRole("region")).toHaveCount(1);
   await expect(legend.getByRole("region", { name: "Geotextile tubes" })).toContainText("Near capacity, at 90 % or more (1)");
@@ -223,7 +237,7 @@ test("the address holds the view: a link sent from it opens the same centre, zoo
   const sent = new URL(page.url());
   expect(sent.searchParams.get("view")).toBe("thickness");
   expect(sent.searchParams.get("zone")).toBe(String(zone.id));
-  expect(sent.searchParams.get("layers")).toBe("cells,zones,workLimit,shoreline");
+  expect(sent.searchParams.get("layers")).toBe("cells,zones,workLimit,shoreline,monitoring");
   expect(sent.searchParams.get("c")).toMatch(/^-?\d+\.\d{6},-?\d+\.\d{6}$/);
   expect(await page.evaluate(() => (window as unknown as { stayed?: number }).stayed)).toBe(1);
   const camera = await page.evaluate(() => ({ centre: (window as unknown as MapHandle).firmsandMap.getCenter(), zoom: (window as unknown as MapHandle).firmsandMap.getZoom() }));

@@ -7,6 +7,7 @@ import { QUICK_LOOK_FROM_CELLS, cellImageCorners, cellIndexAtLonLat, inLimitCell
 import type { LonLatWorkLimit } from "./clip-cells";
 import { PLANNED_PATTERN, bandColour, cellColour, fillColour, plannedPatternPixels, type BandBounds, type MapView } from "./paint";
 import type { LayerKey } from "./view-url";
+import { MONITORING_CLICK_LAYERS, MONITORING_LAYERS, type MonitoringKey } from "./monitoring";
 
 export type { LayerKey };
 export const LAYER_GROUPS: Record<LayerKey, string[]> = {
@@ -16,6 +17,7 @@ export const LAYER_GROUPS: Record<LayerKey, string[]> = {
   workLimit: ["work-limit-outline", "work-limit-water"],
   shoreline: ["shoreline-water", "shoreline-edge"],
   labels: ["zone-labels", "cell-labels"],
+  monitoring: MONITORING_LAYERS,
 };
 
 interface Props {
@@ -49,6 +51,10 @@ interface Props {
   cameraCommand?: { kind: "zoom-in" | "zoom-out" | "frame"; serial: number } | null;
   /** Set when the cells could not be read: said where the cells would be. */
   loadError?: string | null;
+  /** Monitoring stations and recent sightings (lon/lat points, monitoring.tsx), and the one chosen. */
+  monitoring?: { stations: FeatureCollection; sightings: FeatureCollection; chosen: MonitoringKey | null };
+  /** A click on a station or sighting (instead of the cell under it). */
+  onMonitoringClick?: (key: MonitoringKey) => void;
 }
 
 type CellFeature = ReturnType<typeof buildCellFeatures>["features"][number];
@@ -186,14 +192,25 @@ export function CoverageMap(props: Props) {
       // For the browser tests and for debugging from the console.
       (window as unknown as { firmsandMap?: MapLibreMap }).firmsandMap = map;
       map.on("load", () => !cancelled && setReady(true));
+      // A station or sighting drawn over a cell takes the click; the cell under it is not selected.
+      const onPoint = (point: { x: number; y: number }) => map !== null && map.queryRenderedFeatures([point.x, point.y], { layers: MONITORING_CLICK_LAYERS.filter((id) => map!.getLayer(id)) }).length > 0;
+      for (const layer of MONITORING_CLICK_LAYERS) {
+        map.on("click", layer, (event) => {
+          const key = event.features?.[0]?.properties?.key;
+          if (typeof key === "string") callbacks.current.onMonitoringClick?.(key as MonitoringKey);
+        });
+        map.on("mouseenter", layer, () => map && (map.getCanvas().style.cursor = "pointer"));
+        map.on("mouseleave", layer, () => map && (map.getCanvas().style.cursor = ""));
+      }
       map.on("click", "cells-fill", (event) => {
+        if (onPoint(event.point)) return;
         const id = event.features?.[0]?.id;
         if (typeof id === "number") callbacks.current.onCellClick(id, event.originalEvent.shiftKey);
       });
       // While the quick look stands in for the shapes, a click finds its cell from the grid.
       map.on("click", (event) => {
         const data = callbacks.current.data;
-        if (!quickLook.current || !data || !map || map.queryRenderedFeatures(event.point, { layers: ["cells-fill"] }).length > 0) return;
+        if (!quickLook.current || !data || !map || onPoint(event.point) || map.queryRenderedFeatures(event.point, { layers: ["cells-fill"] }).length > 0) return;
         const index = cellIndexAtLonLat(data, event.lngLat.lng, event.lngLat.lat);
         if (index >= 0) callbacks.current.onCellClick(index, event.originalEvent.shiftKey);
       });
@@ -395,6 +412,22 @@ export function CoverageMap(props: Props) {
     if (!ready || !map || !flyTo) return;
     map.easeTo({ center: flyTo.lonLat, zoom: Math.max(map.getZoom(), 19), duration: 300 });
   }, [ready, flyTo]);
+
+  const { monitoring } = props;
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map || !monitoring) return;
+    (map.getSource("stations") as GeoJSONSource | undefined)?.setData(monitoring.stations as never);
+    (map.getSource("sightings") as GeoJSONSource | undefined)?.setData(monitoring.sightings as never);
+    container.current?.setAttribute("data-monitoring-drawn", String(monitoring.stations.features.length + monitoring.sightings.features.length));
+  }, [ready, monitoring?.stations, monitoring?.sightings]);
+
+  const chosenPoint = monitoring?.chosen ?? "";
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map) return;
+    for (const id of ["stations-chosen", "sightings-chosen"]) if (map.getLayer(id)) map.setFilter(id, ["==", ["get", "key"], chosenPoint] as never);
+  }, [ready, chosenPoint]);
 
   const { cameraCommand, extent, loadError } = props;
   useEffect(() => {

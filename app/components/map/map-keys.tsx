@@ -10,6 +10,7 @@ export const MAP_KEYS: ReadonlyArray<{ keys: string[]; does: string }> = [
   { keys: ["F"], does: "Find a cell by its label" },
   { keys: ["+", "−"], does: "Zoom in or out" },
   { keys: ["0"], does: "Frame the whole project" },
+  { keys: ["W"], does: "Go to the next station or wildlife sighting and read it in the panel" },
 ];
 
 /** The "Keys" disclosure in the panel. */

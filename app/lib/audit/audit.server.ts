@@ -55,6 +55,7 @@ export const AUDIT_ACTIONS = {
   turbidityRuleAdded: "turbidity-rule-added",
   monitoringStationAdded: "monitoring-station-added",
   waterQualityReadingRecorded: "water-quality-reading-recorded",
+  waterQualityReadingJudged: "water-quality-reading-judged",
   stopWorkOpened: "stop-work-opened",
   stopWorkAgencyNotified: "stop-work-agency-notified",
   stopWorkResumed: "stop-work-resumed",
