@@ -38,6 +38,7 @@ export default function FindsCatalogue({ loaderData }: Route.ComponentProps) {
           {seesLocations ? <a href={`/api/projects/${projectId}/finds.csv`} className="rounded border border-line bg-panel px-4 py-2 text-sm hover:bg-paper">Catalogue CSV (confidential)</a> : null}
           {seesLocations ? <Link to={`${base}/finds/catalogue`} className="rounded border border-line bg-panel px-4 py-2 text-sm hover:bg-paper">Printable catalogue</Link> : null}
           {loaderData.canLog ? <Link to={`${base}/finds/new`} className="rounded bg-lagoon px-4 py-2 font-medium text-white hover:bg-lagoon-dark">Log a find</Link> : null}
+          {loaderData.canLog ? <Link to={`${base}/finds/basket`} className="rounded border border-lagoon px-4 py-2 font-medium text-lagoon">Log a basket load</Link> : null}
         </div>
       </div>
       <p className="text-sm text-muted">
