@@ -45,6 +45,7 @@ export default [
   route("api/projects/:projectId/hauls/:haulId/photos/:photoId", "routes/api.projects.$projectId.hauls.$haulId.photos.$photoId.ts"),
   route("api/projects/:projectId/holds", "routes/api.projects.$projectId.holds.ts"),
   route("api/projects/:projectId/holds/:holdId/lift", "routes/api.projects.$projectId.holds.$holdId.lift.ts"),
+  route("api/projects/:projectId/holds/:holdId/notices", "routes/api.projects.$projectId.holds.$holdId.notices.ts"),
   route("api/projects/:projectId/members", "routes/api.projects.$projectId.members.ts"),
   route("api/projects/:projectId/pay-periods", "routes/api.projects.$projectId.pay-periods.ts"),
   route("api/projects/:projectId/progress", "routes/api.projects.$projectId.progress.ts"),

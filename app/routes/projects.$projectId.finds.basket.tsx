@@ -11,7 +11,8 @@ import { DomainError, detailsOf } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { fieldErrorsFrom } from "~/lib/http/form";
 import { readPageForm } from "~/lib/http/body.server";
-import { BASKET_CATEGORIES, basketLoadInputSchema, findFormOptions, logBasketLoad, positionFromFields, type BasketLogged } from "~/models/finds.server";
+import { BASKET_CATEGORIES } from "~/lib/field-records/inputs";
+import { basketLoadInputSchema, findFormOptions, logBasketLoad, positionFromFields, type BasketLogged } from "~/models/finds.server";
 import type { Route } from "./+types/projects.$projectId.finds.basket";
 
 // Log a basket load: what one basket brought up on a dive, a line per kind with its count, all with
