@@ -92,7 +92,8 @@ export async function liftHold(project: ProjectView, user: UserView, holdId: num
     const recordedAt = new Date();
     const liftedAt = input.liftedAt ? new Date(input.liftedAt) : recordedAt;
     const local = (instant: Date) => `${instantToLocalDateTime(instant, project.timeZone)} (${project.timeZone})`;
-    if (liftedAt.getTime() < hold.placedAt.getTime()) throw new ValidationError({ field: "liftedAt", message: `The lift cannot come before the hold was placed, at ${local(hold.placedAt)}.` });
+    // An entered time is checked against the hold; a lift "now" is always allowed (work may resume once authorised).
+    if (input.liftedAt && liftedAt.getTime() < hold.placedAt.getTime()) throw new ValidationError({ field: "liftedAt", message: `The lift cannot come before the hold was placed, at ${local(hold.placedAt)}.` });
     if (liftedAt.getTime() > recordedAt.getTime() + CLOCK_SLACK_MS) throw new ValidationError({ field: "liftedAt", message: `The lift cannot be in the future (it is now ${local(recordedAt)}).` });
     const at = liftedAt.getTime() > recordedAt.getTime() ? recordedAt : liftedAt;
     await hold.update({ liftedAt: at, liftedById: user.id, authorisedBy: input.authorisedBy, liftNote: input.note }, { transaction });

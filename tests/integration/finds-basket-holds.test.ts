@@ -33,7 +33,7 @@ const inside: string[] = [];
 let diveId = 0;
 let heronId = 0;
 let egretId = 0;
-const DATE = "2031-06-10";
+const DATE = "2026-11-10";
 
 type Handler = (args: never) => Promise<unknown>;
 const call = async (handler: Handler, who: Role, path: string, params: Record<string, string> = {}, init: RequestInit = {}) => {
@@ -89,7 +89,7 @@ beforeAll(async () => {
   expect((await postJson(assignAction as never, "dive-supervisor", `${base()}/assignments`, {}, { date: DATE, team: "Team Heron", cells: [inside[3], inside[4]], hose: "Hose A" })).status).toBe(201);
   const dive = await postJson(divesAction as never, "dive-supervisor", `${base()}/dives`, {}, { date: DATE, team: "Team Heron", diver: "Ana Reyes", bottomMinutes: 40, maxDepth: 12, cells: [inside[3], inside[4]] });
   expect(dive.status).toBe(201);
-  diveId = ((await dive.json()) as { id: number }).id;
+  diveId = ((await dive.json()) as { dive: { id: number } }).dive.id;
 });
 
 describe("a basket load through the API", () => {
@@ -99,7 +99,7 @@ describe("a basket load through the API", () => {
       { category: "historic-debris", description: "Glass bottle necks", count: 3, material: "glass" },
       { category: "faunal", description: "Turtle shell fragments", count: 6, taxon: "softshell turtle", element: "carapace" },
     ],
-    depthBelowSurface: 11.5, depthInMuck: 0.4, foundAt: "2031-06-10T10:15:00-04:00", finder: "Ana Reyes", fieldTag: "B-17",
+    depthBelowSurface: 11.5, depthInMuck: 0.4, foundAt: "2026-11-10T10:15:00-05:00", finder: "Ana Reyes", fieldTag: "B-17",
   };
 
   it("stores a catalogue entry per line, numbered in order, with the dive's team and one shared provenience (201)", async () => {
@@ -108,13 +108,13 @@ describe("a basket load through the API", () => {
     const body = (await response.json()) as { finds: Array<{ id: number; catalogueNumber: string; category: string; count: number }> };
     // Prefix, the local year of foundAt, sequences 1 to 3 in the order of the lines (computed).
     expect(body.finds.map((find) => [find.catalogueNumber, find.category, find.count])).toEqual([
-      ["BSK-2031-0001", "modern-debris", 14], ["BSK-2031-0002", "historic-debris", 3], ["BSK-2031-0003", "faunal", 6],
+      ["BSK-2026-0001", "modern-debris", 14], ["BSK-2026-0002", "historic-debris", 3], ["BSK-2026-0003", "faunal", 6],
     ]);
     for (const find of body.finds) {
-      const detail = await (await call(findLoader as never, "resource-monitor", `${base()}/finds/${find.id}`, { findId: String(find.id) })).json();
-      expect(detail).toMatchObject({ cell: inside[3], depthBelowSurface: 11.5, depthInMuck: 0.4, diveId, team: "Team Heron", finder: "Ana Reyes", fieldTag: "B-17", foundAt: "2031-06-10T14:15:00.000Z" });
+      const { find: detail } = await (await call(findLoader as never, "resource-monitor", `${base()}/finds/${find.id}`, { findId: String(find.id) })).json();
+      expect(detail).toMatchObject({ cell: inside[3], depthBelowSurface: 11.5, depthInMuck: 0.4, diveId, team: "Team Heron", finder: "Ana Reyes", fieldTag: "B-17", foundAt: "2026-11-10T15:15:00.000Z" });
     }
-    const faunal = await (await call(findLoader as never, "viewer", `${base()}/finds/${body.finds[2].id}`, { findId: String(body.finds[2].id) })).json();
+    const { find: faunal } = await (await call(findLoader as never, "viewer", `${base()}/finds/${body.finds[2].id}`, { findId: String(body.finds[2].id) })).json();
     expect(faunal).toMatchObject({ taxon: "softshell turtle", element: "carapace" });
     // A viewer sees the entries without any location: the keys are absent, not null.
     expect("cell" in faunal || "depthBelowSurface" in faunal || "diveId" in faunal).toBe(false);
@@ -123,14 +123,14 @@ describe("a basket load through the API", () => {
 
   it("refuses a cultural line, naming its line and field, and stores nothing, using up no number (422)", async () => {
     const before = await Find.count({ where: { projectId } });
-    const sequence = (await FindSequence.findOne({ where: { projectId, year: 2031 } }))!.lastSequence;
+    const sequence = (await FindSequence.findOne({ where: { projectId, year: 2026 } }))!.lastSequence;
     const lines = [BASKET.lines[0], { category: "cultural", description: "Pottery sherd", count: 1 }];
     const refused = await postJson(basketsAction as never, "resource-monitor", `${base()}/finds/baskets`, {}, { ...BASKET, lines, cell: inside[3] });
     expect(refused.status).toBe(422);
     const errors = await errorsOf(refused);
     expect(errors).toEqual([expect.objectContaining({ field: "lines.1.category", message: expect.stringContaining("logged on its own") })]);
     expect(await Find.count({ where: { projectId } })).toBe(before);
-    expect((await FindSequence.findOne({ where: { projectId, year: 2031 } }))!.lastSequence).toBe(sequence);
+    expect((await FindSequence.findOne({ where: { projectId, year: 2026 } }))!.lastSequence).toBe(sequence);
   });
 
   it("refuses a cell outside the work limit and a position in another cell, storing nothing (422)", async () => {
@@ -154,10 +154,10 @@ describe("a basket load through the API", () => {
   });
 
   it("gives the next find the next number after the basket's: numbers never reused nor skipped", async () => {
-    const next = await postJson(findsAction as never, "resource-monitor", `${base()}/finds`, {}, { category: "modern-debris", description: "Fishing weight", foundAt: "2031-06-10T11:00:00-04:00", teamId: egretId });
+    const next = await postJson(findsAction as never, "resource-monitor", `${base()}/finds`, {}, { category: "modern-debris", description: "Fishing weight", foundAt: "2026-11-10T11:00:00-05:00", teamId: egretId });
     expect(next.status).toBe(201);
     const body = (await next.json()) as { id: number; catalogueNumber: string };
-    expect(body.catalogueNumber).toBe("BSK-2031-0004");
+    expect(body.catalogueNumber).toBe("BSK-2026-0004");
     expect((await Find.findByPk(body.id))!.teamId).toBe(egretId);
   });
 });
@@ -169,7 +169,7 @@ describe("the basket page", () => {
       "lines.0.category": "modern-debris", "lines.0.description": "Cans", "lines.0.count": "5",
       "lines.2.category": "modern-debris", "lines.2.description": "Bottles", "lines.2.count": "0",
       "lines.4.category": "modern-debris", "lines.4.description": "", "lines.4.count": "",
-      foundAt: "2031-06-10T12:00", cell: inside[4], positionIn: "grid",
+      foundAt: "2026-11-10T12:00", cell: inside[4], positionIn: "grid",
     });
     expect(refused.status).toBe(400);
     expect(refused.body.errors["lines.2.count"]).toBe("the count is at least 1");
@@ -177,7 +177,7 @@ describe("the basket page", () => {
       "lines.0.category": "modern-debris", "lines.0.description": "Cans", "lines.0.count": "5",
       "lines.2.category": "historic-debris", "lines.2.description": "Bottles", "lines.2.count": "2",
       "lines.4.category": "modern-debris", "lines.4.description": "", "lines.4.count": "",
-      foundAt: "2031-06-10T12:00", cell: inside[4], diveId: String(diveId), positionIn: "grid", idempotencyKey: "basket-page-key-1",
+      foundAt: "2026-11-10T12:00", cell: inside[4], diveId: String(diveId), positionIn: "grid", idempotencyKey: "basket-page-key-1",
     });
     expect(logged.status).toBe(200);
     expect(logged.body.logged!.map((find) => find.count)).toEqual([5, 2]);
@@ -185,7 +185,7 @@ describe("the basket page", () => {
     const again = await postPage(basketPage as never, "resource-monitor", path, {
       "lines.0.category": "modern-debris", "lines.0.description": "Cans", "lines.0.count": "5",
       "lines.2.category": "historic-debris", "lines.2.description": "Bottles", "lines.2.count": "2",
-      foundAt: "2031-06-10T12:00", cell: inside[4], diveId: String(diveId), positionIn: "grid", idempotencyKey: "basket-page-key-1",
+      foundAt: "2026-11-10T12:00", cell: inside[4], diveId: String(diveId), positionIn: "grid", idempotencyKey: "basket-page-key-1",
     });
     expect(again.body.logged).toEqual(logged.body.logged);
   });
@@ -193,7 +193,7 @@ describe("the basket page", () => {
 
 describe("the log form's position and prefill", () => {
   const path = () => `/projects/${projectId}/finds/new`;
-  const FIELDS = { category: "modern-debris", description: "Spark plug", count: "1", foundAt: "2031-06-10T13:00" };
+  const FIELDS = { category: "modern-debris", description: "Spark plug", count: "1", foundAt: "2026-11-10T13:00" };
 
   it("takes a latitude and longitude, stored in the project's coordinates in the cell it lies in", async () => {
     const [x, y] = centreOf(inside[5]);
