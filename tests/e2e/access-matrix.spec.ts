@@ -100,8 +100,12 @@ const MATRIX: Row[] = [
   // A JSON body where the photo upload takes multipart: 415 for those who may add photos.
   row("POST", "api/projects/:projectId/finds/:findId/photos", "/api/projects/{project}/finds/999999999/photos", "415 403 403 403 415 403 403 415 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/finds/:findId/photos/:photoId", "/api/projects/{project}/finds/999999999/photos/999999999", "404 404 404 404 404 403 404 404 401"),
+  row("POST", "api/projects/:projectId/finds/baskets", "/api/projects/{project}/finds/baskets", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/holds", "/api/projects/{project}/holds", "200 200 200 200 200 403 200 200 401"),
   row("POST", "api/projects/:projectId/holds/:holdId/lift", "/api/projects/{project}/holds/999999999/lift", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
+  // A hold's notices: read by the roles that see find locations, recorded by those who lift holds.
+  row("GET", "api/projects/:projectId/holds/:holdId/notices", "/api/projects/{project}/holds/999999999/notices", "404 403 403 403 404 403 403 404 401"),
+  row("POST", "api/projects/:projectId/holds/:holdId/notices", "/api/projects/{project}/holds/999999999/notices", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/members", "/api/projects/{project}/members", "200 403 403 403 403 403 403 200 401"),
   row("POST", "api/projects/:projectId/members", "/api/projects/{project}/members", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/pay-periods", "/api/projects/{project}/pay-periods", "200 200 200 403 403 403 200 200 401"),
@@ -183,6 +187,8 @@ const MATRIX: Row[] = [
   row("GET", "projects/:projectId/finds", "/projects/{project}/finds", "200 200 200 200 200 403 200 200 login"),
   row("GET", "projects/:projectId/finds/:findId", "/projects/{project}/finds/999999999", "404 404 404 404 404 403 404 404 login"),
   row("POST", "projects/:projectId/finds/:findId", "/projects/{project}/finds/999999999", "400 403 403 403 400 403 403 400 login", BOGUS_INTENT),
+  row("GET", "projects/:projectId/finds/basket", "/projects/{project}/finds/basket", "200 403 403 403 200 403 403 200 login"),
+  row("POST", "projects/:projectId/finds/basket", "/projects/{project}/finds/basket", "400 403 403 403 400 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/finds/new", "/projects/{project}/finds/new", "200 403 403 403 200 403 403 200 login"),
   row("POST", "projects/:projectId/finds/new", "/projects/{project}/finds/new", "400 403 403 403 400 403 403 400 login", BOGUS_INTENT),
   row("GET", "projects/:projectId/holds", "/projects/{project}/holds", "200 200 200 200 200 403 200 200 login"),

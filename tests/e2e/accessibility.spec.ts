@@ -54,6 +54,7 @@ const PAGES: PageRow[] = [
   { route: "projects/:projectId/dewatering/tubes", url: (ids) => `/projects/${ids.project}/dewatering/tubes`, as: "dewatering" },
   { route: "projects/:projectId/finds", url: (ids) => `/projects/${ids.project}/finds`, as: "resource-monitor" },
   { route: "projects/:projectId/finds/:findId", url: (ids) => `/projects/${ids.project}/finds/${ids.find}`, as: "resource-monitor" },
+  { route: "projects/:projectId/finds/basket", url: (ids) => `/projects/${ids.project}/finds/basket`, as: "resource-monitor" },
   { route: "projects/:projectId/finds/new", url: (ids) => `/projects/${ids.project}/finds/new`, as: "resource-monitor" },
   { route: "projects/:projectId/holds", url: (ids) => `/projects/${ids.project}/holds`, as: "resource-monitor" },
   { route: "projects/:projectId/map", url: (ids) => `/projects/${ids.project}/map`, as: "manager" },
