@@ -116,6 +116,7 @@ export default [
   route("projects/:projectId/field", "routes/projects.$projectId.field.tsx"),
   route("projects/:projectId/finds/catalogue", "routes/projects.$projectId.finds.catalogue.tsx"),
   route("projects/:projectId/finds/:findId/custody-sheet", "routes/projects.$projectId.finds.$findId.custody-sheet.tsx"),
+  route("projects/:projectId/finds/custody-sheet", "routes/projects.$projectId.finds.custody-sheet.tsx"),
   route("projects/:projectId/map/style.json", "routes/projects.$projectId.map.style[.]json.ts"),
   route("projects/:projectId/quantities/report", "routes/projects.$projectId.quantities.report.tsx"),
   route("projects/:projectId/restore", "routes/projects.$projectId.restore.ts"),

@@ -231,6 +231,7 @@ const MATRIX: Row[] = [
   // The field page: every member opens it (the forms shown follow the permission table); it has no action.
   row("GET", "projects/:projectId/field", "/projects/{project}/field", "200 200 200 200 200 200 200 200 login"),
   row("GET", "projects/:projectId/finds/catalogue", "/projects/{project}/finds/catalogue", "200 403 403 403 200 403 403 200 login"),
+  row("GET", "projects/:projectId/finds/custody-sheet", "/projects/{project}/finds/custody-sheet?find=999999999", "404 404 404 404 404 403 404 404 login"),
   row("GET", "projects/:projectId/finds/:findId/custody-sheet", "/projects/{project}/finds/999999999/custody-sheet", "404 404 404 404 404 403 404 404 login"),
   row("GET", "projects/:projectId/map/style.json", "/projects/{project}/map/style.json", "200 200 200 200 200 200 200 200 login"),
   row("GET", "projects/:projectId/quantities/report", "/projects/{project}/quantities/report", "200 200 200 403 403 403 200 200 login"),

@@ -76,6 +76,7 @@ const PAGES: PageRow[] = [
   { route: "projects/:projectId/field", url: (ids) => `/projects/${ids.project}/field`, as: "manager" },
   { route: "projects/:projectId/finds/catalogue", url: (ids) => `/projects/${ids.project}/finds/catalogue`, as: "resource-monitor" },
   { route: "projects/:projectId/finds/:findId/custody-sheet", url: (ids) => `/projects/${ids.project}/finds/${ids.find}/custody-sheet`, as: "resource-monitor" },
+  { route: "projects/:projectId/finds/custody-sheet", url: (ids) => `/projects/${ids.project}/finds/custody-sheet?find=${ids.find}`, as: "resource-monitor" },
   { route: "projects/:projectId/quantities/report", url: (ids) => `/projects/${ids.project}/quantities/report`, as: "manager" },
   { route: "reset-password/:token", url: () => "/reset-password/no-such-token", as: "signed-out" },
   { route: "share/:token", url: (ids) => `/share/${ids.shareToken}`, as: "signed-out" },

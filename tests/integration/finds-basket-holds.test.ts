@@ -16,6 +16,7 @@ import { action as liftAction } from "~/routes/api.projects.$projectId.holds.$ho
 import { action as newFindPage, loader as newFindLoader } from "~/routes/projects.$projectId.finds.new";
 import { action as basketPage } from "~/routes/projects.$projectId.finds.basket";
 import { action as holdsPage } from "~/routes/projects.$projectId.holds";
+import { loader as batchSheet } from "~/routes/projects.$projectId.finds.custody-sheet";
 import { ORIGIN, addMember, makeUser, requestAs } from "./helpers";
 
 // The finds' newer pieces as their users meet them: a basket load (a catalogue entry per line in
@@ -159,6 +160,37 @@ describe("a basket load through the API", () => {
     const body = (await next.json()) as { id: number; catalogueNumber: string };
     expect(body.catalogueNumber).toBe("BSK-2026-0004");
     expect((await Find.findByPk(body.id))!.teamId).toBe(egretId);
+  });
+});
+
+describe("the batch custody sheet", () => {
+  const sheet = async (who: Role, query: string) => {
+    try {
+      return (await call(batchSheet as never, who, `/projects/${projectId}/finds/custody-sheet${query}`)) as unknown as { finds: Array<{ catalogueNumber: string; cell?: string | null }>; seesLocations: boolean };
+    } catch (error) {
+      if (error instanceof Response) return error;
+      throw error;
+    }
+  };
+
+  it("lists the finds ticked in catalogue order, with provenience only for location roles", async () => {
+    const ids = (await Find.findAll({ where: { projectId }, order: [["id", "ASC"]], limit: 3 })).map((find) => find.id);
+    const query = `?find=${ids[2]}&find=${ids[0]}&find=${ids[0]}`;
+    const monitor = (await sheet("resource-monitor", query)) as { finds: Array<{ catalogueNumber: string; cell?: string | null }>; seesLocations: boolean };
+    expect(monitor.finds.map((find) => find.catalogueNumber)).toEqual(["BSK-2026-0001", "BSK-2026-0003"]);
+    expect(monitor.finds[0].cell).toBe(inside[3]);
+    const viewer = (await sheet("viewer", query)) as { finds: Array<Record<string, unknown>>; seesLocations: boolean };
+    expect(viewer.seesLocations).toBe(false);
+    expect(viewer.finds.every((find) => !("cell" in find) && !("depthBelowSurface" in find))).toBe(true);
+  });
+
+  it("answers 400 with no find ticked and 404 naming a find not in the project", async () => {
+    const none = (await sheet("viewer", "")) as Response;
+    expect(none.status).toBe(400);
+    expect(await none.text()).toBe("Choose at least one find on the catalogue for the sheet.");
+    const unknown = (await sheet("viewer", "?find=999999999")) as Response;
+    expect(unknown.status).toBe(404);
+    expect(await unknown.text()).toBe("There is no find #999999999 in this project.");
   });
 });
 
