@@ -36,6 +36,7 @@ export default [
   route("api/projects/:projectId/finds.csv", "routes/api.projects.$projectId.finds[.]csv.ts"),
   route("api/projects/:projectId/finds/:findId", "routes/api.projects.$projectId.finds.$findId.ts"),
   route("api/projects/:projectId/finds/:findId/custody", "routes/api.projects.$projectId.finds.$findId.custody.ts"),
+  route("api/projects/:projectId/finds/:findId/custody/:custodyId/form-photo", "routes/api.projects.$projectId.finds.$findId.custody.$custodyId.form-photo.ts"),
   route("api/projects/:projectId/finds/:findId/photos", "routes/api.projects.$projectId.finds.$findId.photos.ts"),
   route("api/projects/:projectId/finds/:findId/photos/:photoId", "routes/api.projects.$projectId.finds.$findId.photos.$photoId.ts"),
   route("api/projects/:projectId/finds/baskets", "routes/api.projects.$projectId.finds.baskets.ts"),

@@ -14,7 +14,7 @@ import { listDiveTeams } from "./dive-teams.server";
 import { heldCellLabels } from "./holds.server";
 import { csvLine } from "../../shared/csv-safe";
 import { Dive, DiveTeam, Find, FindCustody, FindPhoto, FindSequence, getSequelize, Hold, HoldCell, HoldNotice, Project, type PhotoExif } from "~/lib/db.server";
-import { NotFoundError, ValidationError } from "~/lib/errors";
+import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { can, type Access } from "~/lib/auth/permissions";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { keepPhoto, keptPhotoBytes, presentPhoto, type PhotoView as StoredPhotoView } from "~/lib/images/stored-photo.server";
@@ -87,6 +87,8 @@ export interface CustodyView {
   handedAt: string;
   receiverSignature: string;
   note: string | null;
+  /** The photo of the signed paper form (one of the find's photos), when there is one. */
+  formPhotoId: number | null;
 }
 
 export interface FindDetail extends FindSummary, Partial<FindLocation> {
@@ -142,7 +144,7 @@ function summaryOf(find: Find, custody: FindCustody[]): FindSummary {
 function custodyView(entry: FindCustody): CustodyView {
   return {
     id: entry.id, fromName: entry.fromName, toName: entry.toName, place: entry.place, purpose: entry.purpose,
-    handedAt: entry.handedAt.toISOString(), receiverSignature: entry.receiverSignature, note: entry.note,
+    handedAt: entry.handedAt.toISOString(), receiverSignature: entry.receiverSignature, note: entry.note, formPhotoId: entry.formPhotoId ?? null,
   };
 }
 
@@ -443,6 +445,30 @@ export async function addFindPhoto(project: ProjectView, user: UserView, findId:
     const created = await FindPhoto.create({ ...photo, findId: find.id, projectId: project.id, uploadedById: user.id }, { transaction });
     await idempotency.created(created.id);
     await recordAudit({ action: AUDIT_ACTIONS.findPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, photoId: created.id, sizeBytes: created.sizeBytes } }, transaction);
+    return { id: created.id };
+  });
+}
+
+/**
+ * Adds the photo of a handover's signed paper form: kept like any photo of the find (checked,
+ * re-encoded without metadata, stored with its thumbnail) and named on the handover, in one
+ * transaction. One per handover: a second is refused (409) and stores nothing.
+ */
+export async function addCustodyFormPhoto(project: ProjectView, user: UserView, findId: number, custodyId: number, staged: StagedFile, ip: string | null = null): Promise<{ id: number }> {
+  const find = await findInProject(project, findId);
+  const entry = await FindCustody.findOne({ where: { id: custodyId, findId: find.id, projectId: project.id } });
+  if (!entry) throw new NotFoundError("There is no such handover of this find.");
+  const already = (photoId: number) => new ConflictError({ message: `The handover of ${entry.handedAt.toISOString().slice(0, 10)} to ${entry.toName} has its form's photo already (photo #${photoId}).` });
+  if (entry.formPhotoId) throw already(entry.formPhotoId);
+  return keepPhoto(staged, ["projects", project.id, "finds", find.id, "photos"], async (photo, transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
+    const locked = await FindCustody.findOne({ where: { id: entry.id }, lock: transaction.LOCK.UPDATE, transaction });
+    if (!locked) throw new NotFoundError("There is no such handover of this find.");
+    if (locked.formPhotoId) throw already(locked.formPhotoId);
+    const created = await FindPhoto.create({ ...photo, findId: find.id, projectId: project.id, uploadedById: user.id }, { transaction });
+    await locked.update({ formPhotoId: created.id }, { transaction });
+    await idempotency.created(created.id);
+    await recordAudit({ action: AUDIT_ACTIONS.findPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, photoId: created.id, custodyId: entry.id, sizeBytes: created.sizeBytes } }, transaction);
     return { id: created.id };
   });
 }

@@ -99,6 +99,7 @@ const MATRIX: Row[] = [
   row("POST", "api/projects/:projectId/finds/:findId/custody", "/api/projects/{project}/finds/999999999/custody", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   // A JSON body where the photo upload takes multipart: 415 for those who may add photos.
   row("POST", "api/projects/:projectId/finds/:findId/photos", "/api/projects/{project}/finds/999999999/photos", "415 403 403 403 415 403 403 415 401", EMPTY_JSON),
+  row("POST", "api/projects/:projectId/finds/:findId/custody/:custodyId/form-photo", "/api/projects/{project}/finds/999999999/custody/999999999/form-photo", "415 403 403 403 415 403 403 415 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/finds/:findId/photos/:photoId", "/api/projects/{project}/finds/999999999/photos/999999999", "404 404 404 404 404 403 404 404 401"),
   row("POST", "api/projects/:projectId/finds/baskets", "/api/projects/{project}/finds/baskets", "422 403 403 403 422 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/holds", "/api/projects/{project}/holds", "200 200 200 200 200 403 200 200 401"),

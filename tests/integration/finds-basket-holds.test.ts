@@ -16,6 +16,10 @@ import { action as liftAction } from "~/routes/api.projects.$projectId.holds.$ho
 import { action as newFindPage, loader as newFindLoader } from "~/routes/projects.$projectId.finds.new";
 import { action as basketPage } from "~/routes/projects.$projectId.finds.basket";
 import { action as holdsPage } from "~/routes/projects.$projectId.holds";
+import { action as custodyAction } from "~/routes/api.projects.$projectId.finds.$findId.custody";
+import { action as formPhotoAction } from "~/routes/api.projects.$projectId.finds.$findId.custody.$custodyId.form-photo";
+import sharp from "sharp";
+import { FindCustody, FindPhoto } from "~/lib/db.server";
 import { loader as batchSheet } from "~/routes/projects.$projectId.finds.custody-sheet";
 import { ORIGIN, addMember, makeUser, requestAs } from "./helpers";
 
@@ -191,6 +195,35 @@ describe("the batch custody sheet", () => {
     const unknown = (await sheet("viewer", "?find=999999999")) as Response;
     expect(unknown.status).toBe(404);
     expect(await unknown.text()).toBe("There is no find #999999999 in this project.");
+  });
+});
+
+describe("a photo of the signed custody form", () => {
+  it("is kept as the find's photo and named on the handover (201); a second is refused (409) storing nothing; another find's handover is 404", async () => {
+    const find = (await Find.findOne({ where: { projectId }, order: [["id", "ASC"]] }))!;
+    const handed = await postJson(custodyAction as never, "resource-monitor", `${base()}/finds/${find.id}/custody`, { findId: String(find.id) }, { fromName: "Ana Reyes", toName: "Lee Ortiz", place: "Site store", purpose: "to-site-store", handedAt: "2026-11-10T16:00:00-05:00", receiverSignature: "Lee Ortiz" });
+    expect(handed.status).toBe(201);
+    const custodyId = ((await handed.json()) as { id: number }).id;
+    const upload = async (who: Role, forFind: number, colour: string) => {
+      const form = new FormData();
+      const bytes = await sharp({ create: { width: 320, height: 240, channels: 3, background: colour } }).jpeg().toBuffer();
+      form.set("file", new Blob([new Uint8Array(bytes)], { type: "image/jpeg" }), "signed-form.jpg");
+      return call(formPhotoAction as never, who, `${base()}/finds/${forFind}/custody/${custodyId}/form-photo`, { findId: String(forFind), custodyId: String(custodyId) }, { method: "POST", body: form });
+    };
+    expect((await upload("viewer", find.id, "#eeeeee")).status).toBe(403);
+    const kept = await upload("resource-monitor", find.id, "#eeeeee");
+    expect(kept.status).toBe(201);
+    const photoId = ((await kept.json()) as { id: number }).id;
+    expect((await FindCustody.findByPk(custodyId))!.formPhotoId).toBe(photoId);
+    const { find: detail } = await (await call(findLoader as never, "viewer", `${base()}/finds/${find.id}`, { findId: String(find.id) })).json();
+    expect(detail.custody.find((entry: { id: number }) => entry.id === custodyId).formPhotoId).toBe(photoId);
+    const photos = await FindPhoto.count({ where: { findId: find.id } });
+    const again = await upload("resource-monitor", find.id, "#dddddd");
+    expect(again.status).toBe(409);
+    expect((await errorsOf(again))[0].message).toContain(`has its form's photo already (photo #${photoId})`);
+    expect(await FindPhoto.count({ where: { findId: find.id } })).toBe(photos);
+    const other = (await Find.findOne({ where: { projectId }, order: [["id", "DESC"]] }))!;
+    expect((await upload("resource-monitor", other.id, "#cccccc")).status).toBe(404);
   });
 });
 
