@@ -7,9 +7,14 @@ import {
   type CustodyPurpose, type FindCategory, type FindStatus,
 } from "../../shared/finds/finds";
 import { convertLength, unitLabel } from "../../shared/units";
+import { createCrs } from "../../shared/crs";
+import type { LonLatWorkLimit } from "~/components/map/clip-cells";
+import type { PositionFields } from "~/components/finds/provenience";
+import { listDiveTeams } from "./dive-teams.server";
+import { heldCellLabels } from "./holds.server";
 import { csvLine } from "../../shared/csv-safe";
 import { Dive, DiveTeam, Find, FindCustody, FindPhoto, FindSequence, getSequelize, Hold, HoldCell, HoldNotice, Project, type PhotoExif } from "~/lib/db.server";
-import { NotFoundError, ValidationError } from "~/lib/errors";
+import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { can, type Access } from "~/lib/auth/permissions";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { keepPhoto, keptPhotoBytes, presentPhoto, type PhotoView as StoredPhotoView } from "~/lib/images/stored-photo.server";
@@ -19,8 +24,8 @@ import { cellLookup } from "./assignments.server";
 import { getCellsPayload } from "./cells.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
-import { custodyInputSchema, findInputSchema, optionalText, statusInputSchema } from "~/lib/field-records/inputs";
-export { custodyInputSchema, findInputSchema, statusInputSchema, type CustodyInput, type FindInput } from "~/lib/field-records/inputs";
+import { basketLoadInputSchema, custodyInputSchema, findInputSchema, optionalText, statusInputSchema } from "~/lib/field-records/inputs";
+export { BASKET_CATEGORIES, basketLoadInputSchema, custodyInputSchema, findInputSchema, statusInputSchema, type BasketLoadInput, type CustodyInput, type FindInput } from "~/lib/field-records/inputs";
 import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { assertCurrentVersion, versionOf } from "~/lib/api/versions";
 import { findNotices } from "../../shared/field-notices";
@@ -72,6 +77,8 @@ export interface CustodyView {
   handedAt: string;
   receiverSignature: string;
   note: string | null;
+  /** The photo of the signed paper form (one of the find's photos), when there is one. */
+  formPhotoId: number | null;
 }
 
 export interface FindDetail extends FindSummary, Partial<FindLocation> {
@@ -127,7 +134,7 @@ function summaryOf(find: Find, custody: FindCustody[]): FindSummary {
 function custodyView(entry: FindCustody): CustodyView {
   return {
     id: entry.id, fromName: entry.fromName, toName: entry.toName, place: entry.place, purpose: entry.purpose,
-    handedAt: entry.handedAt.toISOString(), receiverSignature: entry.receiverSignature, note: entry.note,
+    handedAt: entry.handedAt.toISOString(), receiverSignature: entry.receiverSignature, note: entry.note, formPhotoId: entry.formPhotoId ?? null,
   };
 }
 
@@ -252,6 +259,35 @@ async function allocateCatalogueNumber(projectRow: Project, year: number, transa
   return { sequence, number: catalogueNumber(prefix, year, sequence) };
 }
 
+/** What a catalogue entry holds, its provenience already checked (provenienceOf). */
+interface FindFields {
+  category: FindCategory; description: string; material?: string | null; count: number; taxon?: string | null; element?: string | null; condition?: string | null;
+  cell: { row: number; col: number } | null; position?: { x: number; y: number } | null; depthBelowSurface?: number | null; depthInMuck?: number | null;
+  diveId: number | null; teamId: number | null; finder?: string | null; foundAt: Date; fieldTag?: string | null; idempotencyKey?: string | null;
+}
+
+/** Gives the next catalogue number of the find's local year and stores the find, under the project row's lock the caller holds. */
+async function insertFind(projectRow: Project, user: UserView, fields: FindFields, transaction: Transaction): Promise<{ find: Find; number: string }> {
+  const year = localYear(fields.foundAt, projectRow.timeZone);
+  const { sequence, number } = await allocateCatalogueNumber(projectRow, year, transaction);
+  const { cell } = fields;
+  const find = await Find.create(
+    {
+      projectId: projectRow.id, catalogueNumber: number, catalogueYear: year, catalogueSequence: sequence,
+      category: fields.category, description: fields.description, material: fields.material ?? "", count: fields.count,
+      taxon: fields.taxon ?? null, element: fields.element ?? null, condition: fields.condition ?? "",
+      cellRow: cell?.row ?? null, cellCol: cell?.col ?? null, cellLabel: cell ? cellLabelOf(cell.row, cell.col) : null,
+      positionX: fields.position?.x ?? null, positionY: fields.position?.y ?? null,
+      depthBelowSurface: fields.depthBelowSurface ?? null, depthInMuck: fields.depthInMuck ?? null,
+      diveId: fields.diveId, teamId: fields.teamId,
+      finder: fields.finder ?? "", foundAt: fields.foundAt, fieldTag: fields.fieldTag ?? "",
+      accessionNumber: null, statusNote: null, idempotencyKey: fields.idempotencyKey ?? null, loggedById: user.id,
+    },
+    { transaction },
+  );
+  return { find, number };
+}
+
 async function replayOf(projectId: number, key: string | null | undefined): Promise<FindLogged | null> {
   if (!key) return null;
   const existing = await Find.findOne({ where: { projectId, idempotencyKey: key } });
@@ -259,6 +295,54 @@ async function replayOf(projectId: number, key: string | null | undefined): Prom
   const hold = await Hold.findOne({ where: { findId: existing.id }, include: [{ model: HoldCell, as: "cells" }] });
   const ref = hold ? { id: hold.id, cells: sortCellLabels((hold.cells ?? []).map((cell) => cell.label)) } : undefined;
   return { id: existing.id, catalogueNumber: existing.catalogueNumber, ...(ref ? { hold: ref } : {}), notices: findNotices(ref), replayed: true };
+}
+
+/** Where and from which dive and team something came up, checked: shared by a find and a basket load. */
+interface ProvenienceInput {
+  cell?: string | null;
+  position?: { x: number; y: number } | null;
+  diveId?: number | null;
+  teamId?: number | null;
+}
+
+/**
+ * Checks a provenience: the cell must lie inside the work limit; a position, when given, fixes the
+ * cell (and must agree with one given beside it); the dive and team must be this project's, and a
+ * team named beside a dive must be the dive's.
+ */
+async function provenienceOf(project: ProjectView, raw: ProvenienceInput) {
+  const payload = await getCellsPayload(project);
+  const grid = payload.grid;
+  const lookup = cellLookup(payload);
+  let cellIndex: number | null = null;
+  if (raw.cell) {
+    cellIndex = lookup(raw.cell);
+    if (cellIndex === null) throw new ValidationError({ field: "cell", message: `Cell ${raw.cell} is not inside the work limit.` });
+  }
+  if (raw.position) {
+    const at = grid ? cellIndexAt(grid, raw.position.x, raw.position.y) : -1;
+    if (at < 0 || payload.status[at] < 0) throw new ValidationError({ field: "position", message: `The position (${+raw.position.x.toFixed(2)}, ${+raw.position.y.toFixed(2)} in ${project.crs}) lies outside the work limit.` });
+    if (cellIndex !== null && at !== cellIndex) {
+      const { row, col } = cellRowCol(grid!, at);
+      throw new ValidationError({ field: "position", message: `The position lies in cell ${cellLabelOf(row, col)}, not in ${raw.cell!.toUpperCase()}.` });
+    }
+    cellIndex = at;
+  }
+  const cell = cellIndex !== null && grid ? { ...cellRowCol(grid, cellIndex), index: cellIndex } : null;
+
+  let dive: Dive | null = null;
+  if (raw.diveId) {
+    dive = await Dive.findOne({ where: { id: raw.diveId, projectId: project.id } });
+    if (!dive) throw new NotFoundError({ field: "diveId", message: `There is no dive #${raw.diveId} in this project's dive log.` });
+  }
+  let teamId: number | null = dive?.teamId ?? null;
+  if (raw.teamId) {
+    const team = await DiveTeam.findOne({ where: { id: raw.teamId, projectId: project.id }, attributes: ["id", "name"] });
+    if (!team) throw new NotFoundError({ field: "teamId", message: `There is no dive team #${raw.teamId} in this project.` });
+    if (dive && dive.teamId !== null && dive.teamId !== team.id) throw new ValidationError({ field: "teamId", message: `Dive #${dive.id} was made by another team than ${team.name}: leave the team to the dive.` });
+    teamId = team.id;
+  }
+  return { payload, grid, cell, dive, teamId };
 }
 
 /**
@@ -270,33 +354,10 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
   const replay = await replayOf(project.id, raw.idempotencyKey);
   if (replay) return replay;
 
-  const payload = await getCellsPayload(project);
-  const grid = payload.grid;
-  const lookup = cellLookup(payload);
-  let cellIndex: number | null = null;
-  if (raw.cell) {
-    cellIndex = lookup(raw.cell);
-    if (cellIndex === null) throw new ValidationError({ field: "cell", message: `Cell ${raw.cell} is not inside the work limit.` });
-  }
-  if (raw.position) {
-    const at = grid ? cellIndexAt(grid, raw.position.x, raw.position.y) : -1;
-    if (at < 0 || payload.status[at] < 0) throw new ValidationError({ field: "position", message: "The position lies outside the work limit (project coordinates expected)." });
-    if (cellIndex !== null && at !== cellIndex) {
-      const { row, col } = cellRowCol(grid!, at);
-      throw new ValidationError({ field: "position", message: `The position lies in cell ${cellLabelOf(row, col)}, not in ${raw.cell!.toUpperCase()}.` });
-    }
-    cellIndex = at;
-  }
+  const { payload, grid, cell, dive, teamId } = await provenienceOf(project, raw);
   const holds = HOLD_CATEGORIES.includes(raw.category);
-  if (holds && cellIndex === null) {
+  if (holds && cell === null) {
     throw new ValidationError({ field: "cell", message: "A cultural find or human remains needs the cell it came from: the stop-work hold is placed around it." });
-  }
-  const cell = cellIndex !== null && grid ? { ...cellRowCol(grid, cellIndex), index: cellIndex } : null;
-
-  let dive: Dive | null = null;
-  if (raw.diveId) {
-    dive = await Dive.findOne({ where: { id: raw.diveId, projectId: project.id } });
-    if (!dive) throw new NotFoundError({ field: "diveId", message: `There is no dive #${raw.diveId} in this project's dive log.` });
   }
   const foundAt = new Date(raw.foundAt);
 
@@ -307,22 +368,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
       // is created once and each number is handed out once.
       const projectRow = await Project.findByPk(project.id, { lock: transaction.LOCK.UPDATE, transaction });
       if (!projectRow) throw new NotFoundError("There is no such project.");
-      const year = localYear(foundAt, projectRow.timeZone);
-      const { sequence, number } = await allocateCatalogueNumber(projectRow, year, transaction);
-      const find = await Find.create(
-        {
-          projectId: project.id, catalogueNumber: number, catalogueYear: year, catalogueSequence: sequence,
-          category: raw.category, description: raw.description, material: raw.material ?? "", count: raw.count,
-          taxon: raw.taxon, element: raw.element, condition: raw.condition ?? "",
-          cellRow: cell?.row ?? null, cellCol: cell?.col ?? null, cellLabel: cell ? cellLabelOf(cell.row, cell.col) : null,
-          positionX: raw.position?.x ?? null, positionY: raw.position?.y ?? null,
-          depthBelowSurface: raw.depthBelowSurface ?? null, depthInMuck: raw.depthInMuck ?? null,
-          diveId: dive?.id ?? null, teamId: dive?.teamId ?? null,
-          finder: raw.finder ?? "", foundAt, fieldTag: raw.fieldTag ?? "",
-          accessionNumber: null, statusNote: null, idempotencyKey: raw.idempotencyKey ?? null, loggedById: user.id,
-        },
-        { transaction },
-      );
+      const { find, number } = await insertFind(projectRow, user, { ...raw, foundAt, cell, diveId: dive?.id ?? null, teamId }, transaction);
       await idempotency.created(find.id);
       let hold: FindLogged["hold"];
       if (holds && cell && grid) {
@@ -349,6 +395,65 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
   }
 }
 
+// ——— Basket loads.
+
+export interface BasketLogged {
+  /** One catalogue entry per line, in the order of the lines. */
+  finds: Array<{ id: number; catalogueNumber: string; category: FindCategory; count: number }>;
+  replayed: boolean;
+}
+
+const basketKey = (key: string, line: number) => `${key}:${line}`;
+
+async function basketReplayOf(projectId: number, key: string | null | undefined): Promise<BasketLogged | null> {
+  if (!key) return null;
+  const first = await Find.findOne({ where: { projectId, idempotencyKey: basketKey(key, 0) }, attributes: ["id"] });
+  if (!first) return null;
+  const rows = await Find.findAll({ where: { projectId, idempotencyKey: { [Op.startsWith]: `${key}:` } }, attributes: ["id", "catalogueNumber", "category", "count", "idempotencyKey"] });
+  // LIKE treats _ and % in a key as wildcards: keep only this key's lines.
+  const line = (find: Find) => (find.idempotencyKey!.startsWith(`${key}:`) && /^\d+$/.test(find.idempotencyKey!.slice(key.length + 1)) ? Number(find.idempotencyKey!.slice(key.length + 1)) : -1);
+  const lines = rows.filter((find) => line(find) >= 0).sort((a, b) => line(a) - line(b));
+  return { finds: lines.map((find) => ({ id: find.id, catalogueNumber: find.catalogueNumber, category: find.category, count: find.count })), replayed: true };
+}
+
+/**
+ * Logs a basket load: what a diver's basket brought up, a line per kind with its count, sharing one
+ * provenience (dive, team, cell, position, depths, time, finder, tag). Each line is a catalogue
+ * entry of its own (numbers handed out in order, never reused), all in one transaction: a refused
+ * line stores nothing. Cultural finds and human remains are refused here: each is logged on its own.
+ */
+export async function logBasketLoad(project: ProjectView, user: UserView, raw: z.output<typeof basketLoadInputSchema>, ip: string | null = null): Promise<BasketLogged> {
+  const replay = await basketReplayOf(project.id, raw.idempotencyKey);
+  if (replay) return replay;
+  const { cell, dive, teamId } = await provenienceOf(project, raw);
+  const foundAt = new Date(raw.foundAt);
+  try {
+    return await getSequelize().transaction(async (transaction) => {
+      const idempotency = await claimIdempotencyKey(transaction);
+      const projectRow = await Project.findByPk(project.id, { lock: transaction.LOCK.UPDATE, transaction });
+      if (!projectRow) throw new NotFoundError("There is no such project.");
+      const finds: BasketLogged["finds"] = [];
+      for (const [index, line] of raw.lines.entries()) {
+        const { find, number } = await insertFind(
+          projectRow, user,
+          { ...line, condition: raw.condition, cell, position: raw.position, depthBelowSurface: raw.depthBelowSurface, depthInMuck: raw.depthInMuck, diveId: dive?.id ?? null, teamId, finder: raw.finder, foundAt, fieldTag: raw.fieldTag, idempotencyKey: raw.idempotencyKey ? basketKey(raw.idempotencyKey, index) : null },
+          transaction,
+        );
+        if (index === 0) await idempotency.created(find.id);
+        finds.push({ id: find.id, catalogueNumber: number, category: find.category, count: find.count });
+        await recordAudit({ action: AUDIT_ACTIONS.findLogged, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, catalogueNumber: number, category: find.category, basketLine: index + 1, basketLines: raw.lines.length } }, transaction);
+      }
+      return { finds, replayed: false };
+    });
+  } catch (error) {
+    if (error instanceof UniqueConstraintError) {
+      const again = await basketReplayOf(project.id, raw.idempotencyKey);
+      if (again) return again;
+    }
+    throw error;
+  }
+}
+
 // ——— Photos.
 
 /**
@@ -363,6 +468,30 @@ export async function addFindPhoto(project: ProjectView, user: UserView, findId:
     const created = await FindPhoto.create({ ...photo, findId: find.id, projectId: project.id, uploadedById: user.id }, { transaction });
     await idempotency.created(created.id);
     await recordAudit({ action: AUDIT_ACTIONS.findPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, photoId: created.id, sizeBytes: created.sizeBytes } }, transaction);
+    return { id: created.id };
+  });
+}
+
+/**
+ * Adds the photo of a handover's signed paper form: kept like any photo of the find (checked,
+ * re-encoded without metadata, stored with its thumbnail) and named on the handover, in one
+ * transaction. One per handover: a second is refused (409) and stores nothing.
+ */
+export async function addCustodyFormPhoto(project: ProjectView, user: UserView, findId: number, custodyId: number, staged: StagedFile, ip: string | null = null): Promise<{ id: number }> {
+  const find = await findInProject(project, findId);
+  const entry = await FindCustody.findOne({ where: { id: custodyId, findId: find.id, projectId: project.id } });
+  if (!entry) throw new NotFoundError("There is no such handover of this find.");
+  const already = (photoId: number) => new ConflictError({ message: `The handover of ${entry.handedAt.toISOString().slice(0, 10)} to ${entry.toName} has its form's photo already (photo #${photoId}).` });
+  if (entry.formPhotoId) throw already(entry.formPhotoId);
+  return keepPhoto(staged, ["projects", project.id, "finds", find.id, "photos"], async (photo, transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
+    const locked = await FindCustody.findOne({ where: { id: entry.id }, lock: transaction.LOCK.UPDATE, transaction });
+    if (!locked) throw new NotFoundError("There is no such handover of this find.");
+    if (locked.formPhotoId) throw already(locked.formPhotoId);
+    const created = await FindPhoto.create({ ...photo, findId: find.id, projectId: project.id, uploadedById: user.id }, { transaction });
+    await locked.update({ formPhotoId: created.id }, { transaction });
+    await idempotency.created(created.id);
+    await recordAudit({ action: AUDIT_ACTIONS.findPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, photoId: created.id, custodyId: entry.id, sizeBytes: created.sizeBytes } }, transaction);
     return { id: created.id };
   });
 }
@@ -426,20 +555,67 @@ export async function setFindStatus(
   });
 }
 
-/** The latest dives, for the log form's dive picker (a find's cell defaults to its dive's first cell). */
-export async function recentDivesForFinds(project: ProjectView, limit = 40): Promise<Array<{ id: number; label: string; cells: string[] }>> {
-  const dives = await Dive.findAll({
-    where: { projectId: project.id },
+/**
+ * The latest dives, for the log form's dive picker (a find's cell defaults to its dive's first
+ * cell), and the dive `include` names when it is older (the form opened from that dive's log entry).
+ */
+export async function recentDivesForFinds(project: ProjectView, limit = 40, include: number | null = null): Promise<Array<{ id: number; label: string; cells: string[]; teamId: number | null }>> {
+  const options = {
     include: [{ model: DiveTeam, as: "team", attributes: ["name"] }, { association: "cells", attributes: ["label"] }],
-    order: [["diveDate", "DESC"], ["id", "DESC"]],
-    limit,
-  });
+    order: [["diveDate", "DESC"], ["id", "DESC"]] as Array<[string, string]>,
+  };
+  const dives = await Dive.findAll({ where: { projectId: project.id }, ...options, limit });
+  if (include !== null && !dives.some((dive) => dive.id === include)) {
+    const named = await Dive.findOne({ where: { id: include, projectId: project.id }, include: options.include });
+    if (named) dives.unshift(named);
+  }
   return dives.map((dive) => ({
     id: dive.id,
+    teamId: dive.teamId ?? null,
     label: `${dive.diveDate} · ${dive.team?.name ?? "team"} · ${dive.diverName}${dive.diverIsVisitor ? " (visitor)" : ""}`,
     cells: sortCellLabels((dive.cells ?? []).map((cell) => cell.label)),
   }));
 }
+
+/**
+ * A latitude and longitude (WGS 84, as a phone gives them) in the project's coordinates, for the
+ * log form's position; logFind then checks it against the work limit.
+ */
+export async function projectPositionOf(project: ProjectView, lat: number, lon: number): Promise<{ x: number; y: number }> {
+  const payload = await getCellsPayload(project);
+  const [x, y] = createCrs(payload.crs.definition).fromLonLat(lon, lat);
+  return { x, y };
+}
+
+/** The position the form's fields give, in the project's coordinates (none when left empty). */
+export async function positionFromFields(project: ProjectView, fields: PositionFields): Promise<{ x: number; y: number } | undefined> {
+  if (fields.positionIn === "grid" && fields.easting !== undefined && fields.northing !== undefined) return { x: fields.easting, y: fields.northing };
+  if (fields.positionIn === "latlon" && fields.latitude !== undefined && fields.longitude !== undefined) return projectPositionOf(project, fields.latitude, fields.longitude);
+  return undefined;
+}
+
+/**
+ * What the find forms offer (dives, teams, cells, held cells, the work limit) and what the address
+ * prefills: a dive from its log entry (with its team and cells), or a team and its cells from the day plan.
+ */
+export async function findFormOptions(project: ProjectView, prefill: { dive?: number; team?: number; cells?: string }) {
+  const [dives, cells, teams, heldCells, row] = await Promise.all([
+    recentDivesForFinds(project, 40, prefill.dive ?? null), cellLabelsInside(project), listDiveTeams(project), heldCellLabels(project.id), Project.findByPk(project.id, { attributes: ["workLimitGeoJson"] }),
+  ]);
+  const inside = new Set(cells);
+  const dive = dives.find((candidate) => candidate.id === prefill.dive) ?? null;
+  const team = teams.find((candidate) => candidate.id === (dive?.teamId ?? prefill.team)) ?? null;
+  const planCells = (prefill.cells ?? "").split(",").map((label) => label.trim().toUpperCase()).filter((label) => inside.has(label));
+  return {
+    projectId: project.id, lengthLabel: unitLabel(project.lengthUnit), lengthUnit: project.lengthUnit, timeZone: project.timeZone, crsCode: project.crs,
+    now: instantToLocalDateTime(new Date(), project.timeZone).replace(" ", "T"), dives, cells, heldCells,
+    teams: teams.map((candidate) => ({ id: candidate.id, name: candidate.name })),
+    // Lon/lat, as stored: the picker frames it and clips the cells along it.
+    workLimit: row?.workLimitGeoJson ? (JSON.parse(row.workLimitGeoJson) as LonLatWorkLimit) : null,
+    prefill: { diveId: dive?.id ?? null, teamId: team?.id ?? null, cells: dive ? dive.cells : planCells },
+  };
+}
+export type FindFormOptions = Awaited<ReturnType<typeof findFormOptions>>;
 
 /** Labels of the cells inside the work limit, for the log form's cell list. */
 export async function cellLabelsInside(project: ProjectView): Promise<string[]> {

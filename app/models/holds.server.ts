@@ -1,8 +1,9 @@
 import { Op, type Transaction } from "sequelize";
 import { z } from "zod";
-import { HOLD_AGENCIES, sortCellLabels, type FindCategory, type HoldAgency } from "../../shared/finds/finds";
+import { HOLD_AGENCIES, HOLD_AGENCY_LABELS, instantToLocalDateTime, sortCellLabels, type FindCategory, type HoldAgency } from "../../shared/finds/finds";
 import { Find, getSequelize, Hold, HoldCell, HoldNotice } from "~/lib/db.server";
-import { NotFoundError, ValidationError } from "~/lib/errors";
+import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
+import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
 import { can, type Access } from "~/lib/auth/permissions";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -21,6 +22,8 @@ const optionalText = (max: number) => z.string().trim().max(max, `at most ${max}
 export const liftInputSchema = z.object({
   authorisedBy: name("name and office of who authorised resuming", 200),
   note: optionalText(2000),
+  /** When work was allowed to resume, if earlier than now (a lift recorded after the fact). */
+  liftedAt: z.iso.datetime({ offset: true, message: "liftedAt is a date and time with its offset, e.g. 2026-11-04T08:15:00-05:00" }).nullish(),
 });
 
 export const noticeInputSchema = z.object({
@@ -74,22 +77,65 @@ async function openHold(project: ProjectView, holdId: number, transaction: Trans
   return hold;
 }
 
-export async function liftHold(project: ProjectView, user: UserView, holdId: number, input: z.output<typeof liftInputSchema>, ip: string | null = null): Promise<void> {
-  await getSequelize().transaction(async (transaction) => {
+/** How far ahead of the server's clock a lift time may be (a phone's clock a little fast). */
+const CLOCK_SLACK_MS = 2 * 60_000;
+
+/**
+ * Lifts a hold, now or at the time entered (back-dated: the authorisation came before it was
+ * recorded), never before the hold was placed nor in the future. The audit keeps both times.
+ */
+export async function liftHold(project: ProjectView, user: UserView, holdId: number, input: z.output<typeof liftInputSchema>, ip: string | null = null): Promise<{ liftedAt: string }> {
+  return getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const hold = await openHold(project, holdId, transaction);
-    if (hold.liftedAt) throw new ValidationError({ message: `Hold #${hold.id} was lifted already.` });
-    await hold.update({ liftedAt: new Date(), liftedById: user.id, authorisedBy: input.authorisedBy, liftNote: input.note }, { transaction });
-    await recordAudit({ action: AUDIT_ACTIONS.holdLifted, projectId: project.id, userId: user.id, ip, detail: { holdId: hold.id, authorisedBy: input.authorisedBy } }, transaction);
+    if (hold.liftedAt) throw new ConflictError({ message: `Hold #${hold.id} was lifted already, at ${instantToLocalDateTime(hold.liftedAt, project.timeZone)} (${project.timeZone}).` });
+    const recordedAt = new Date();
+    const liftedAt = input.liftedAt ? new Date(input.liftedAt) : recordedAt;
+    const local = (instant: Date) => `${instantToLocalDateTime(instant, project.timeZone)} (${project.timeZone})`;
+    // An entered time is checked against the hold; a lift "now" is always allowed (work may resume once authorised).
+    if (input.liftedAt && liftedAt.getTime() < hold.placedAt.getTime()) throw new ValidationError({ field: "liftedAt", message: `The lift cannot come before the hold was placed, at ${local(hold.placedAt)}.` });
+    if (liftedAt.getTime() > recordedAt.getTime() + CLOCK_SLACK_MS) throw new ValidationError({ field: "liftedAt", message: `The lift cannot be in the future (it is now ${local(recordedAt)}).` });
+    const at = liftedAt.getTime() > recordedAt.getTime() ? recordedAt : liftedAt;
+    await hold.update({ liftedAt: at, liftedById: user.id, authorisedBy: input.authorisedBy, liftNote: input.note }, { transaction });
+    await idempotency.created(hold.id);
+    await recordAudit({ action: AUDIT_ACTIONS.holdLifted, projectId: project.id, userId: user.id, ip, detail: { holdId: hold.id, authorisedBy: input.authorisedBy, liftedAt: at.toISOString(), recordedAt: recordedAt.toISOString() } }, transaction);
+    return { liftedAt: at.toISOString() };
   });
 }
 
-export async function recordHoldNotice(project: ProjectView, user: UserView, holdId: number, input: z.output<typeof noticeInputSchema>, ip: string | null = null): Promise<void> {
-  await getSequelize().transaction(async (transaction) => {
+export interface NoticeView {
+  agency: HoldAgency;
+  toldAt: string | null;
+  note: string | null;
+}
+
+/** A hold's notices to the agencies: who must be told and when each was (for roles that may see locations). */
+export async function listHoldNotices(project: ProjectView, holdId: number): Promise<NoticeView[]> {
+  const hold = await Hold.findOne({ where: { id: holdId, projectId: project.id }, include: [{ model: HoldNotice, as: "notices" }] });
+  if (!hold) throw new NotFoundError("There is no such hold in this project.");
+  const order = (agency: HoldAgency) => HOLD_AGENCIES.indexOf(agency);
+  return (hold.notices ?? []).sort((a, b) => order(a.agency) - order(b.agency)).map((notice) => ({ agency: notice.agency, toldAt: notice.toldAt?.toISOString() ?? null, note: notice.note }));
+}
+
+/**
+ * Records when an agency was told of a hold: not before the hold was placed, not in the future, and
+ * once (a notice already recorded is refused, naming when it was told).
+ */
+export async function recordHoldNotice(project: ProjectView, user: UserView, holdId: number, input: z.output<typeof noticeInputSchema>, ip: string | null = null): Promise<NoticeView> {
+  return getSequelize().transaction(async (transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
     const hold = await openHold(project, holdId, transaction);
     const notice = await HoldNotice.findOne({ where: { holdId: hold.id, agency: input.agency }, transaction });
-    if (!notice) throw new ValidationError({ field: "agency", message: "This hold does not list that agency." });
-    await notice.update({ toldAt: new Date(input.toldAt), toldById: user.id, note: input.note }, { transaction });
-    await recordAudit({ action: AUDIT_ACTIONS.holdNoticeRecorded, projectId: project.id, userId: user.id, ip, detail: { holdId: hold.id, agency: input.agency } }, transaction);
+    if (!notice) throw new ValidationError({ field: "agency", message: `This hold does not list ${HOLD_AGENCY_LABELS[input.agency]}: it lists ${(await HoldNotice.findAll({ where: { holdId: hold.id }, transaction })).map((listed) => HOLD_AGENCY_LABELS[listed.agency]).join(", ")}.` });
+    const local = (instant: Date) => `${instantToLocalDateTime(instant, project.timeZone)} (${project.timeZone})`;
+    if (notice.toldAt) throw new ConflictError({ field: "agency", message: `${HOLD_AGENCY_LABELS[input.agency]} was recorded as told already, at ${local(notice.toldAt)}.` });
+    const toldAt = new Date(input.toldAt);
+    if (toldAt.getTime() < hold.placedAt.getTime()) throw new ValidationError({ field: "toldAt", message: `The notice cannot come before the hold was placed, at ${local(hold.placedAt)}.` });
+    if (toldAt.getTime() > Date.now() + CLOCK_SLACK_MS) throw new ValidationError({ field: "toldAt", message: `The notice cannot be in the future (it is now ${local(new Date())}).` });
+    await notice.update({ toldAt, toldById: user.id, note: input.note }, { transaction });
+    await idempotency.created(notice.id);
+    await recordAudit({ action: AUDIT_ACTIONS.holdNoticeRecorded, projectId: project.id, userId: user.id, ip, detail: { holdId: hold.id, agency: input.agency, toldAt: toldAt.toISOString() } }, transaction);
+    return { agency: notice.agency, toldAt: toldAt.toISOString(), note: notice.note };
   });
 }
 

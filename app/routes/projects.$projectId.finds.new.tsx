@@ -1,9 +1,9 @@
 import { useState } from "react";
 import { Form, data, redirect } from "react-router";
+import { z } from "zod";
 import {
-  FIND_CATEGORIES, FIND_CATEGORY_LABELS, HOLD_CATEGORIES, HUMAN_REMAINS_DEFERENCE, HUMAN_REMAINS_PROTOCOL, instantToLocalDateTime, localDateTimeToInstant, type FindCategory,
+  FIND_CATEGORIES, FIND_CATEGORY_LABELS, HOLD_CATEGORIES, HUMAN_REMAINS_DEFERENCE, HUMAN_REMAINS_PROTOCOL, type FindCategory,
 } from "../../shared/finds/finds";
-import { unitLabel } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
@@ -11,7 +11,9 @@ import { requireRole } from "~/lib/auth/access.server";
 import { DomainError, detailsOf } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { fieldErrorsFrom } from "~/lib/http/form";
-import { cellLabelsInside, findInputSchema, logFind, recentDivesForFinds } from "~/models/finds.server";
+import { findFormOptions, findInputSchema, logFind, positionFromFields } from "~/models/finds.server";
+import { ProvenienceFields } from "~/components/finds/provenience-fields";
+import { formFields, positionErrorsOnFields, positionFieldsSchema, prefillSchema, provenienceFromForm } from "~/components/finds/provenience";
 import type { Route } from "./+types/projects.$projectId.finds.new";
 import { readPageForm } from "~/lib/http/body.server";
 
@@ -21,39 +23,41 @@ import { readPageForm } from "~/lib/http/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = await requireRole(request, params.projectId, "finds.log");
-  const [dives, cells] = await Promise.all([recentDivesForFinds(project), cellLabelsInside(project)]);
-  return {
-    projectId: project.id, lengthLabel: unitLabel(project.lengthUnit), timeZone: project.timeZone,
-    now: instantToLocalDateTime(new Date(), project.timeZone).replace(" ", "T"), dives, cells,
-  };
+  return findFormOptions(project, prefillSchema.parse(Object.fromEntries(new URL(request.url).searchParams)));
 }
 
 /** Form fields → the API's input shape; empty fields are absent. */
 function inputFromForm(form: FormData, timeZone: string) {
-  const text = (name: string) => {
-    const value = form.get(name);
-    return typeof value === "string" && value.trim() !== "" ? value.trim() : undefined;
-  };
-  const number = (name: string) => (text(name) === undefined ? undefined : Number(text(name)));
-  const foundAtLocal = text("foundAt");
-  const foundAt = foundAtLocal ? localDateTimeToInstant(foundAtLocal, timeZone)?.toISOString() ?? foundAtLocal : undefined;
+  const { text, number } = formFields(form);
   return {
+    ...provenienceFromForm(form, timeZone),
     category: text("category"), description: text("description"), material: text("material"), count: number("count"),
-    taxon: text("taxon"), element: text("element"), condition: text("condition"), cell: text("cell"),
-    depthBelowSurface: number("depthBelowSurface"), depthInMuck: number("depthInMuck"), foundAt, diveId: number("diveId"),
-    finder: text("finder"), fieldTag: text("fieldTag"), idempotencyKey: text("idempotencyKey"),
+    taxon: text("taxon"), element: text("element"),
   };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "finds.log");
-  const parsed = findInputSchema.safeParse(inputFromForm(await readPageForm(request), project.timeZone));
-  if (!parsed.success) return data({ errors: fieldErrorsFrom(detailsOf(parsed.error), (field) => field.split(".")[0]) }, { status: 400 });
+  const form = await readPageForm(request);
+  const fields = Object.fromEntries([...form].filter((entry): entry is [string, string] => typeof entry[1] === "string"));
+  const place = positionFieldsSchema.safeParse(fields);
+  const parsed = findInputSchema.safeParse(inputFromForm(form, project.timeZone));
+  if (!place.success || !parsed.success) {
+    const errors = {
+      ...(parsed.success ? {} : fieldErrorsFrom(detailsOf(parsed.error), (field) => field.split(".")[0])),
+      ...(place.success ? {} : fieldErrorsFrom(detailsOf(place.error), (field) => field)),
+    };
+    return data({ errors }, { status: 400 });
+  }
+  const where = place.data;
   try {
-    const logged = await logFind(project, user, parsed.data, clientAddress(request));
+    const position = await positionFromFields(project, where);
+    const logged = await logFind(project, user, { ...parsed.data, position }, clientAddress(request));
     return redirect(`/projects/${project.id}/finds/${logged.id}?logged=1`);
   } catch (error) {
-    if (error instanceof DomainError) return data({ errors: fieldErrorsFrom(error.details, (field) => field) }, { status: 400 });
+    if (error instanceof DomainError) {
+      return data({ errors: fieldErrorsFrom(positionErrorsOnFields(error.details, where), (field) => field) }, { status: 400 });
+    }
     throw error;
   }
 }
@@ -79,9 +83,8 @@ function HumanRemainsProtocol() {
 export default function LogFind({ loaderData, actionData }: Route.ComponentProps) {
   const errors: Record<string, string> = actionData?.errors ?? {};
   const [category, setCategory] = useState<FindCategory | "">("");
-  const [cell, setCell] = useState("");
+  const { lengthLabel } = loaderData;
   const [idempotencyKey] = useState(() => (typeof crypto !== "undefined" && "randomUUID" in crypto ? crypto.randomUUID() : ""));
-  const { lengthLabel, dives } = loaderData;
   return (
     <div className="max-w-xl space-y-4">
       <h2 className="text-lg font-semibold">Log a find</h2>
@@ -118,27 +121,7 @@ export default function LogFind({ loaderData, actionData }: Route.ComponentProps
           </div>
         ) : null}
         <TextField label="Condition" name="condition" maxLength={200} error={errors.condition} />
-        <div>
-          <label htmlFor="diveId" className="block text-sm font-medium">Dive</label>
-          <select
-            id="diveId" name="diveId" className={inputClass} defaultValue=""
-            onChange={(event) => {
-              const dive = dives.find((candidate) => String(candidate.id) === event.target.value);
-              if (dive && dive.cells.length > 0 && !cell) setCell(dive.cells[0]);
-            }}
-          >
-            <option value="">Not from a logged dive</option>
-            {dives.map((dive) => <option key={dive.id} value={dive.id}>{dive.label}</option>)}
-          </select>
-          {errors.diveId ? <p className="mt-1 text-sm text-danger">{errors.diveId}</p> : null}
-        </div>
-        <div>
-          <label htmlFor="cell" className="block text-sm font-medium">Cell</label>
-          <input id="cell" name="cell" list="cells-inside" value={cell} onChange={(event) => setCell(event.target.value.toUpperCase())} maxLength={16} autoCapitalize="characters" className={inputClass} aria-invalid={errors.cell ? true : undefined} aria-describedby="cell-hint" />
-          <datalist id="cells-inside">{loaderData.cells.map((label) => <option key={label} value={label} />)}</datalist>
-          <p id="cell-hint" className="mt-1 text-sm text-muted">The grid cell it came up in (as on the map); it defaults from the dive's cells.</p>
-          {errors.cell ? <p className="mt-1 text-sm text-danger">{errors.cell}</p> : null}
-        </div>
+        <ProvenienceFields options={loaderData} errors={errors} />
         <div className="grid grid-cols-2 gap-3">
           <TextField label={`Depth below surface (${lengthLabel})`} name="depthBelowSurface" type="number" inputMode="decimal" step="0.1" min={0} error={errors.depthBelowSurface} />
           <TextField label={`Depth within the muck (${lengthLabel})`} name="depthInMuck" type="number" inputMode="decimal" step="0.1" min={0} error={errors.depthInMuck} />

@@ -38,6 +38,7 @@ export default function FindsCatalogue({ loaderData }: Route.ComponentProps) {
           {seesLocations ? <a href={`/api/projects/${projectId}/finds.csv`} className="rounded border border-line bg-panel px-4 py-2 text-sm hover:bg-paper">Catalogue CSV (confidential)</a> : null}
           {seesLocations ? <Link to={`${base}/finds/catalogue`} className="rounded border border-line bg-panel px-4 py-2 text-sm hover:bg-paper">Printable catalogue</Link> : null}
           {loaderData.canLog ? <Link to={`${base}/finds/new`} className="rounded bg-lagoon px-4 py-2 font-medium text-white hover:bg-lagoon-dark">Log a find</Link> : null}
+          {loaderData.canLog ? <Link to={`${base}/finds/basket`} className="rounded border border-lagoon px-4 py-2 font-medium text-lagoon">Log a basket load</Link> : null}
         </div>
       </div>
       <p className="text-sm text-muted">
@@ -46,10 +47,16 @@ export default function FindsCatalogue({ loaderData }: Route.ComponentProps) {
           : "Find locations are confidential and are not shown to your role."}
       </p>
       {finds.length === 0 ? <p className="text-sm text-muted">No finds logged yet.</p> : (
+        <form method="get" action={`${base}/finds/custody-sheet`} target="_blank" className="space-y-2">
+        <p className="flex flex-wrap items-center gap-3 text-sm">
+          <button type="submit" className="rounded border border-line bg-panel px-4 py-2 hover:bg-paper">Custody sheet for the finds ticked</button>
+          <span className="text-muted">One printable sheet for a batch handed over together.</span>
+        </p>
         <div className="overflow-x-auto">
           <table className="w-full border-collapse text-sm" aria-label="Finds">
             <thead>
               <tr className="border-b border-line text-left">
+                <th scope="col" className="py-2 pr-3"><span className="sr-only">On the custody sheet</span></th>
                 <th scope="col" className="py-2 pr-3">Catalogue no.</th>
                 <th scope="col" className="py-2 pr-3">Category</th>
                 <th scope="col" className="py-2 pr-3">Description</th>
@@ -63,6 +70,7 @@ export default function FindsCatalogue({ loaderData }: Route.ComponentProps) {
             <tbody>
               {finds.map((find) => (
                 <tr key={find.id} className="border-b border-line align-top" data-testid="find-row">
+                  <td className="py-2 pr-3"><input type="checkbox" name="find" value={find.id} aria-label={`Put ${find.catalogueNumber} on the custody sheet`} /></td>
                   <td className="figures py-2 pr-3"><Link className="underline" to={`${base}/finds/${find.id}`}>{find.catalogueNumber}</Link></td>
                   <td className="py-2 pr-3">{FIND_CATEGORY_LABELS[find.category]}</td>
                   <td className="py-2 pr-3">{find.description}{find.count > 1 ? ` (×${find.count})` : ""}</td>
@@ -76,6 +84,7 @@ export default function FindsCatalogue({ loaderData }: Route.ComponentProps) {
             </tbody>
           </table>
         </div>
+        </form>
       )}
     </div>
   );

@@ -35,7 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const idSchema = z.coerce.number().int().positive();
 const formSchema = z.discriminatedUnion("intent", [
-  z.object({ intent: z.literal("lift"), holdId: idSchema, authorisedBy: z.string(), note: z.string().optional() }),
+  z.object({ intent: z.literal("lift"), holdId: idSchema, authorisedBy: z.string(), note: z.string().optional(), liftedAt: z.string().optional() }),
   z.object({ intent: z.literal("notice"), holdId: idSchema, agency: z.string(), toldAt: z.string(), note: z.string().optional() }),
 ]);
 
@@ -47,10 +47,12 @@ export async function action({ request, params }: Route.ActionArgs) {
   const refused = (errors: Record<string, string>) => data({ holdId: input.holdId, errors, notice: null }, { status: 400 });
   try {
     if (input.intent === "lift") {
-      const parsed = liftInputSchema.safeParse({ authorisedBy: input.authorisedBy, note: input.note || undefined });
+      // The lift time as entered, in the project's time zone (back-dated when the authorisation came earlier).
+      const liftedAt = input.liftedAt ? localDateTimeToInstant(input.liftedAt, project.timeZone)?.toISOString() ?? input.liftedAt : undefined;
+      const parsed = liftInputSchema.safeParse({ authorisedBy: input.authorisedBy, note: input.note || undefined, liftedAt });
       if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), (field) => field));
-      await liftHold(project, user, input.holdId, parsed.data, clientAddress(request));
-      return { holdId: input.holdId, errors: {}, notice: `Hold #${input.holdId} lifted: its cells can be assigned again.` };
+      const lifted = await liftHold(project, user, input.holdId, parsed.data, clientAddress(request));
+      return { holdId: input.holdId, errors: {}, notice: `Hold #${input.holdId} lifted: its cells can be assigned again (lifted as of ${instantToLocalDateTime(new Date(lifted.liftedAt), project.timeZone)}).` };
     }
     const toldAt = localDateTimeToInstant(input.toldAt, project.timeZone)?.toISOString() ?? input.toldAt;
     const parsed = noticeInputSchema.safeParse({ agency: input.agency, toldAt, note: input.note || undefined });
@@ -129,6 +131,7 @@ export default function Holds({ loaderData, actionData }: Route.ComponentProps) 
                     <input type="hidden" name="holdId" value={hold.id} />
                     <TextField label="Resumption authorised by" name="authorisedBy" required maxLength={200} hint="Name and office, as the authorisation gives them." error={holdErrors.authorisedBy} />
                     <TextField label="Note" name="note" maxLength={2000} error={holdErrors.note} />
+                    <TextField label="Lifted at (project time)" name="liftedAt" type="datetime-local" required defaultValue={loaderData.now} hint="When resuming was authorised, if earlier than now." error={holdErrors.liftedAt} />
                     <SubmitButton intent="lift" tone="danger" pendingLabel="Lifting…" aria-label={`Lift hold #${hold.id}`}>Lift hold</SubmitButton>
                   </Form>
                 </div>

@@ -7,7 +7,7 @@ import { AssignPanel } from "~/components/map/assign-panel";
 import { CellInspector } from "~/components/map/cell-inspector";
 import { cellCentreLonLat, labelIndex, type CellsData } from "~/components/map/cell-features";
 import { cellIndexAtLonLat } from "~/components/map/cell-image";
-import type { LonLatWorkLimit } from "~/components/map/clip-cells";
+import { workLimitExtent, type LonLatWorkLimit } from "~/components/map/clip-cells";
 import { CoverageMap } from "~/components/map/coverage-map";
 import { MapLegend, type LegendSection } from "~/components/map/legend";
 import { MapKeysHelp } from "~/components/map/map-keys";
@@ -117,17 +117,6 @@ const BAND_TITLES = { remaining: "Remaining thickness bands", depth: "Bottom dep
 
 const tomorrow = () => new Date(Date.now() + 86_400_000).toISOString().slice(0, 10);
 
-/** West-south and east-north corners of the work limit (lon/lat), framed before the cells arrive. */
-function extentOf(workLimit: LonLatWorkLimit | null): [[number, number], [number, number]] | null {
-  if (!workLimit) return null;
-  let west = Infinity, south = Infinity, east = -Infinity, north = -Infinity;
-  const polygons = workLimit.type === "Polygon" ? [workLimit.coordinates] : workLimit.coordinates;
-  for (const polygon of polygons) for (const [lon, lat] of polygon[0] ?? []) {
-    west = Math.min(west, lon); east = Math.max(east, lon); south = Math.min(south, lat); north = Math.max(north, lat);
-  }
-  return Number.isFinite(west) ? [[west, south], [east, north]] : null;
-}
-
 /** True while the user types in a field: the map's single-letter keys stay out of the way. */
 function typing(target: EventTarget | null): boolean {
   return target instanceof HTMLElement && (target.isContentEditable || ["INPUT", "SELECT", "TEXTAREA"].includes(target.tagName));
@@ -173,7 +162,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
     if (fly && lonLat) setFlyTo({ lonLat, serial: Date.now() });
   }, [monitoring]);
   const initialCamera = useRef(camera);
-  const extent = useMemo(() => extentOf(loaderData.workLimit), [loaderData.workLimit]);
+  const extent = useMemo(() => workLimitExtent(loaderData.workLimit), [loaderData.workLimit]);
   const searchInput = useRef<HTMLInputElement>(null);
   const inspectorRef = useRef<HTMLDivElement>(null);
   const assignRef = useRef<HTMLDivElement>(null);

@@ -30,6 +30,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     plan, dives, sheet,
     canSend: can(access, "plans.assign"),
     canLogDives: can(access, "dives.log"),
+    canLogFinds: can(access, "finds.log"),
     canConfigure: can(access, "project.configure"),
   };
 }
@@ -203,7 +204,18 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
                 </tfoot>
               </table>
             </div>
-            <DiveLog teamName={team.name} dives={teamDives} lengthLabel={plan.lengthLabel} />
+            <DiveLog teamName={team.name} dives={teamDives} lengthLabel={plan.lengthLabel} findsHref={loaderData.canLogFinds ? `/projects/${project.id}/finds/new` : null} />
+            {loaderData.canLogFinds ? (
+              <p className="no-print text-sm">
+                <Link to={`/projects/${project.id}/finds/new?team=${team.id}&cells=${encodeURIComponent(cells.map((cell) => cell.label).join(","))}`} className="text-lagoon underline">
+                  Log a find from {team.name}'s cells
+                </Link>
+                {" · "}
+                <Link to={`/projects/${project.id}/finds/basket?team=${team.id}&cells=${encodeURIComponent(cells.map((cell) => cell.label).join(","))}`} className="text-lagoon underline">
+                  a basket load
+                </Link>
+              </p>
+            ) : null}
             {loaderData.canLogDives && upcoming ? (
               <p className="no-print text-sm text-muted" data-testid="dive-log-upcoming">
                 Dives are logged once made: this plan is for {plan.date}, after today ({sheet.today} in {sheet.timeZone}). The form opens on the day.
@@ -235,7 +247,7 @@ function diveFigure(dive: DiveView): { text: string; beyond: boolean } {
   return { text: `${lookup.limitMinutes} min (${lookup.tableDepthFsw} fsw row)`, beyond: info.exceeds === true };
 }
 
-function DiveLog({ teamName, dives, lengthLabel }: { teamName: string; dives: DiveView[]; lengthLabel: string }) {
+function DiveLog({ teamName, dives, lengthLabel, findsHref }: { teamName: string; dives: DiveView[]; lengthLabel: string; findsHref: string | null }) {
   if (dives.length === 0) return <p className="text-sm text-muted">No dives logged for {teamName} on this date.</p>;
   return (
     <div className="overflow-x-auto">
@@ -243,7 +255,7 @@ function DiveLog({ teamName, dives, lengthLabel }: { teamName: string; dives: Di
       <thead>
         <tr className="border-b border-line text-left">
           <th className="py-1 pr-2">Diver</th><th className="pr-2">Left surface</th><th className="pr-2">Left bottom</th><th className="pr-2">Bottom time</th>
-          <th className="pr-2">Max depth ({lengthLabel})</th><th className="pr-2">No-decompression figure</th><th className="pr-2">Cells</th><th>Notes</th>
+          <th className="pr-2">Max depth ({lengthLabel})</th><th className="pr-2">No-decompression figure</th><th className="pr-2">Cells</th><th>Notes</th>{findsHref ? <th className="no-print pl-2"><span className="sr-only">Finds</span></th> : null}
         </tr>
       </thead>
       <tbody>
@@ -261,6 +273,11 @@ function DiveLog({ teamName, dives, lengthLabel }: { teamName: string; dives: Di
               <td className="pr-2">{figure.text}</td>
               <td className="pr-2">{dive.cells.join(", ")}</td>
               <td>{dive.notes || "—"}</td>
+              {findsHref ? (
+                <td className="no-print pl-2">
+                  <Link to={`${findsHref}?dive=${dive.id}`} className="whitespace-nowrap text-lagoon underline" aria-label={`Log a find from ${dive.diver}'s dive at ${dive.leftSurface ?? "?"}`}>Log a find</Link>
+                </td>
+              ) : null}
             </tr>
           );
         })}

@@ -70,8 +70,8 @@ const base = () => `/api/projects/${site.project.id}`;
 // TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
 // SignInSession, AuditEvent; dive teams → DiveTeam, AuditEvent; archive and restore → Project, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
-// the object store and the staging directory; its custody → FindCustody, Find; its status → Find, AuditEvent; a hold's lift →
-// Hold, AuditEvent; a day's report signed or amended → DailyReport, DailyReportAmendment, AuditEvent; a signed pay period → PayPeriodReport, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
+// the object store and the staging directory; its custody → FindCustody, Find; a handover's form photo → FindPhoto, FindCustody, the object store; its status → Find, AuditEvent; a hold's lift →
+// Hold, AuditEvent; a basket load → Find, AuditEvent; a hold's notice → HoldNotice, AuditEvent; a day's report signed or amended → DailyReport, DailyReportAmendment, AuditEvent; a signed pay period → PayPeriodReport, AuditEvent; the GET-only routes' actions (405) and api/* (404) write nothing.
 const ROUTES: MutatingRoute[] = [
   { route: "api/admin/users/:userId", method: "PATCH", url: () => `/api/admin/users/${accountId}`, params: () => ({ userId: String(accountId) }), token: () => adminToken },
   { route: "api/projects", method: "POST", url: () => "/api/projects", params: () => ({}) },
@@ -102,8 +102,11 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/finds", method: "POST", url: () => `${base()}/finds`, params: projectParams },
   { route: "api/projects/:projectId/finds/:findId", method: "PATCH", url: () => `${base()}/finds/${findId}`, params: () => ({ ...projectParams(), findId: String(findId) }) },
   { route: "api/projects/:projectId/finds/:findId/custody", method: "POST", url: () => `${base()}/finds/${findId}/custody`, params: () => ({ ...projectParams(), findId: String(findId) }) },
+  { route: "api/projects/:projectId/finds/:findId/custody/:custodyId/form-photo", method: "POST", url: () => `${base()}/finds/${findId}/custody/999999/form-photo`, params: () => ({ ...projectParams(), findId: String(findId), custodyId: "999999" }) },
   { route: "api/projects/:projectId/finds/:findId/photos", method: "POST", url: () => `${base()}/finds/${findId}/photos`, params: () => ({ ...projectParams(), findId: String(findId) }) },
+  { route: "api/projects/:projectId/finds/baskets", method: "POST", url: () => `${base()}/finds/baskets`, params: projectParams },
   { route: "api/projects/:projectId/holds/:holdId/lift", method: "POST", url: () => `${base()}/holds/${holdId}/lift`, params: () => ({ ...projectParams(), holdId: String(holdId) }) },
+  { route: "api/projects/:projectId/holds/:holdId/notices", method: "POST", url: () => `${base()}/holds/${holdId}/notices`, params: () => ({ ...projectParams(), holdId: String(holdId) }) },
   { route: "api/projects/:projectId/share-links", method: "POST", url: () => `${base()}/share-links`, params: projectParams },
   {
     route: "api/projects/:projectId/share-links/:token", method: "DELETE",

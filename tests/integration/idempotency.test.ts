@@ -25,6 +25,9 @@ import { action as readingsAction } from "~/routes/api.projects.$projectId.water
 import { action as stationsAction } from "~/routes/api.projects.$projectId.water-quality.stations";
 import { action as sightingsAction } from "~/routes/api.projects.$projectId.wildlife.sightings";
 import { action as findsAction } from "~/routes/api.projects.$projectId.finds";
+import { action as basketsAction } from "~/routes/api.projects.$projectId.finds.baskets";
+import { action as holdNoticesAction } from "~/routes/api.projects.$projectId.holds.$holdId.notices";
+import { action as liftAction } from "~/routes/api.projects.$projectId.holds.$holdId.lift";
 import { action as photosAction } from "~/routes/api.projects.$projectId.finds.$findId.photos";
 import { action as custodyAction } from "~/routes/api.projects.$projectId.finds.$findId.custody";
 import { action as findAction, loader as findLoader } from "~/routes/api.projects.$projectId.finds.$findId";
@@ -32,7 +35,7 @@ import { action as samplesAction } from "~/routes/api.projects.$projectId.sedime
 import { action as rulesAction } from "~/routes/api.projects.$projectId.water-quality.rules";
 import { action as noticeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.notification";
 import { action as resumeAction } from "~/routes/api.projects.$projectId.stop-work.$eventId.resume";
-import { StopWorkEvent } from "~/lib/db.server";
+import { Hold, StopWorkEvent } from "~/lib/db.server";
 import { addMember, makeUser, requestAs } from "./helpers";
 
 // Exactly-once field writes: every field API takes an Idempotency-Key header; a key sent twice at
@@ -98,6 +101,7 @@ const APIS: FieldApi[] = [
   json("POST water-quality/readings", readingsAction as never, () => `${base()}/water-quality/readings`, () => ({}), (variant) => ({ station: "BG-1", takenAt: "2026-11-20T09:00:00-05:00", value: 5 + variant / 100, unit: "NTU" }), WaterQualityReading),
   json("POST wildlife/sightings", sightingsAction as never, () => `${base()}/wildlife/sightings`, () => ({}), (variant) => ({ species: "Manatee", seenAt: "2026-11-20T10:00:00-05:00", distance: 500 + variant, observer: "Ned Carrow" }), WildlifeSighting),
   json("POST finds", findsAction as never, () => `${base()}/finds`, () => ({}), (variant) => ({ category: "modern-debris", description: `Aluminium can ${variant}`, foundAt: "2026-11-20T11:00:00-05:00" }), Find),
+  json("POST finds/baskets", basketsAction as never, () => `${base()}/finds/baskets`, () => ({}), (variant) => ({ lines: [{ category: "modern-debris", description: `Bottle caps ${variant}`, count: 3 + variant }], foundAt: "2026-11-20T11:30:00-05:00" }), Find),
   json("POST finds/<id>/custody", custodyAction as never, () => `${base()}/finds/${findId}/custody`, () => ({ findId: String(findId) }), (variant) => ({ fromName: "Ana Reyes", toName: `Keeper ${variant}`, place: "Site store", purpose: "to-site-store", handedAt: "2026-11-20T15:00:00-05:00", receiverSignature: `Keeper ${variant}` }), FindCustody),
   json("POST sediment-samples", samplesAction as never, () => `${base()}/sediment-samples`, () => ({}), (variant) => ({ date: DATE, percentSolids: 9, dryBulkDensity: { value: 15, unit: "lb/ft3" }, totalNitrogenMgKg: 12_000, totalPhosphorusMgKg: 800, lab: "Bayline Laboratories", reportNumber: `BL-${variant}` }), SedimentSample),
   json("POST dewatering/jar-tests", jarTestsAction as never, () => `${base()}/dewatering/jar-tests`, () => ({}), (variant) => ({ date: DATE, polymer: { product: "Cationic emulsion", benchStockPercent: 0.1 }, jars: [{ doseMgPerL: 5 + variant / 100, settlingMinutes: 10, clarity: "clear" }] }), JarTest),
@@ -325,5 +329,28 @@ describe("the stop-work acts with an Idempotency-Key", () => {
     expect(again.headers.get("Idempotency-Replayed")).toBe("true");
     expect(await again.text()).toBe(await first.text());
     expect((await StopWorkEvent.findByPk(Number(eventId)))!.resumedAt).not.toBeNull();
+  });
+});
+
+describe("the hold acts with an Idempotency-Key", () => {
+  it("answers a resent agency notice (sent twice at once) and a resent lift with the first answer; another notice under the key is refused", async () => {
+    const cultural = await sendJson(findsAction as never, "first", `${base()}/finds`, {}, { category: "cultural", description: "Bone pin", cell, foundAt: "2026-11-20T09:00:00-05:00" });
+    const holdId = String(((await cultural.json()) as { hold: { id: number } }).hold.id);
+    const noticeKey = randomUUID();
+    const notice = { agency: "historic-preservation-office", toldAt: "2026-11-20T09:40:00-05:00", note: "by telephone" };
+    const sendNotice = (body: unknown) => sendJson(holdNoticesAction as never, "first", `${base()}/holds/${holdId}/notices`, { holdId }, body, noticeKey);
+    const [a, b] = await Promise.all([sendNotice(notice), sendNotice(notice)]);
+    expect([a.status, b.status].sort()).toEqual([200, 201]);
+    expect(await a.text()).toBe(await b.text());
+    expect((await sendNotice({ ...notice, note: "by letter" })).status).toBe(422);
+
+    const liftKey = randomUUID();
+    const lift = () => sendJson(liftAction as never, "first", `${base()}/holds/${holdId}/lift`, { holdId }, { authorisedBy: "State office", liftedAt: "2026-11-20T15:00:00-05:00" }, liftKey);
+    expect((await lift()).status).toBe(204);
+    // Without the key a second lift is a 409; with it the phone's resend gets the first answer.
+    const again = await lift();
+    expect(again.status).toBe(200);
+    expect(again.headers.get("Idempotency-Replayed")).toBe("true");
+    expect((await Hold.findByPk(Number(holdId)))!.liftedAt!.toISOString()).toBe("2026-11-20T20:00:00.000Z");
   });
 });

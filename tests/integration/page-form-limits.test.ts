@@ -64,6 +64,7 @@ const ROUTES: PageRoute[] = [
   { route: "projects/:projectId/dewatering/samples", url: () => `${base()}/dewatering/samples`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/dewatering/tubes", url: () => `${base()}/dewatering/tubes`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/finds/:findId", url: () => `${base()}/finds/999999`, params: () => ({ ...project(), findId: "999999" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },
+  { route: "projects/:projectId/finds/basket", url: () => `${base()}/finds/basket`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/finds/new", url: () => `${base()}/finds/new`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/days", url: () => `${base()}/days`, params: project, as: "manager", limitBytes: FORM_LIMIT_BYTES },
   { route: "projects/:projectId/days/:date", url: () => `${base()}/days/2031-05-06`, params: () => ({ ...project(), date: "2031-05-06" }), as: "manager", limitBytes: FORM_LIMIT_BYTES },

@@ -158,3 +158,14 @@ export function clipEdgeCells<P>(features: Array<Feature<Polygon | MultiPolygon,
   }
   return clipped;
 }
+
+/** West-south and east-north corners of the work limit (lon/lat), framed before the cells arrive. */
+export function workLimitExtent(workLimit: LonLatWorkLimit | null): [[number, number], [number, number]] | null {
+  if (!workLimit) return null;
+  let west = Infinity, south = Infinity, east = -Infinity, north = -Infinity;
+  const polygons = workLimit.type === "Polygon" ? [workLimit.coordinates] : workLimit.coordinates;
+  for (const polygon of polygons) for (const [lon, lat] of polygon[0] ?? []) {
+    west = Math.min(west, lon); east = Math.max(east, lon); south = Math.min(south, lat); north = Math.max(north, lat);
+  }
+  return Number.isFinite(west) ? [[west, south], [east, north]] : null;
+}

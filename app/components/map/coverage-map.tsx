@@ -33,7 +33,8 @@ interface Props {
   held: ReadonlySet<number>;
   bands: { surface: "remaining" | "depth"; collection: FeatureCollection } | null;
   flyTo: { lonLat: [number, number]; serial: number } | null;
-  onCellClick: (index: number, extend: boolean) => void;
+  /** A click or tap on a cell: its grid index, Shift held, and the point tapped (lon/lat). */
+  onCellClick: (index: number, extend: boolean, lonLat: [number, number]) => void;
   onBoxSelect: (indices: number[]) => void;
   onPointer: (lonLat: [number, number] | null) => void;
   onBearing: (bearing: number) => void;
@@ -205,14 +206,14 @@ export function CoverageMap(props: Props) {
       map.on("click", "cells-fill", (event) => {
         if (onPoint(event.point)) return;
         const id = event.features?.[0]?.id;
-        if (typeof id === "number") callbacks.current.onCellClick(id, event.originalEvent.shiftKey);
+        if (typeof id === "number") callbacks.current.onCellClick(id, event.originalEvent.shiftKey, [event.lngLat.lng, event.lngLat.lat]);
       });
       // While the quick look stands in for the shapes, a click finds its cell from the grid.
       map.on("click", (event) => {
         const data = callbacks.current.data;
         if (!quickLook.current || !data || !map || onPoint(event.point) || map.queryRenderedFeatures(event.point, { layers: ["cells-fill"] }).length > 0) return;
         const index = cellIndexAtLonLat(data, event.lngLat.lng, event.lngLat.lat);
-        if (index >= 0) callbacks.current.onCellClick(index, event.originalEvent.shiftKey);
+        if (index >= 0) callbacks.current.onCellClick(index, event.originalEvent.shiftKey, [event.lngLat.lng, event.lngLat.lat]);
       });
       map.on("mouseenter", "cells-fill", () => map && (map.getCanvas().style.cursor = "pointer"));
       map.on("mouseleave", "cells-fill", () => map && (map.getCanvas().style.cursor = ""));

@@ -104,6 +104,8 @@ export const findInputSchema = z
     depthInMuck: length("the depth within the muck"),
     foundAt: z.iso.datetime({ offset: true, message: "foundAt is a date and time with its offset, e.g. 2026-11-03T10:42:00-05:00" }),
     diveId: z.number().int().positive().nullish(),
+    /** The team it came from when no dive is named (from the day plan); a dive names its own team. */
+    teamId: z.number().int().positive().nullish(),
     finder: optionalText(120),
     fieldTag: optionalText(60),
     idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish(),
@@ -114,6 +116,54 @@ export const findInputSchema = z
     }
   });
 export type FindInput = z.input<typeof findInputSchema>;
+
+/** What a basket may hold as counted lots: a cultural object or human remains is logged on its own. */
+export const BASKET_CATEGORIES = ["faunal", "historic-debris", "modern-debris"] as const;
+
+/**
+ * One basket load brought up on a dive: a line per kind of thing in it (its category, what it is and
+ * how many), all sharing one provenience. Each line becomes a catalogue entry with its count.
+ */
+export const basketLoadInputSchema = z
+  .object({
+    lines: z
+      .array(
+        z.object({
+          category: z.enum(FIND_CATEGORIES, { message: `the category is one of ${BASKET_CATEGORIES.join(", ")}` }),
+          description: requiredText("description of what is in this line", 4000),
+          count: z.number({ message: "the count is a whole number" }).int("the count is a whole number").min(1, "the count is at least 1").max(100_000, "the count is at most 100000"),
+          material: optionalText(120),
+          taxon: optionalText(120),
+          element: optionalText(120),
+        }),
+        { message: "the lines are a list of {category, description, count}" },
+      )
+      .min(1, "give at least one line: what the basket held and how many")
+      .max(30, "at most 30 lines in one basket"),
+    condition: optionalText(200),
+    cell: z.string().trim().min(1).max(16).nullish(),
+    position: z.object({ x: z.number().finite(), y: z.number().finite() }, { message: "the position is {\"x\", \"y\"} in the project's coordinates" }).nullish(),
+    depthBelowSurface: length("the depth below the water surface"),
+    depthInMuck: length("the depth within the muck"),
+    foundAt: z.iso.datetime({ offset: true, message: "foundAt is a date and time with its offset, e.g. 2026-11-03T10:42:00-05:00" }),
+    diveId: z.number().int().positive().nullish(),
+    teamId: z.number().int().positive().nullish(),
+    finder: optionalText(120),
+    fieldTag: optionalText(60),
+    /** A page's key against a double submit (the API takes the Idempotency-Key header instead). */
+    idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(72).nullish(),
+  })
+  .superRefine((input, context) => {
+    input.lines.forEach((line, index) => {
+      if (!(BASKET_CATEGORIES as readonly string[]).includes(line.category)) {
+        context.addIssue({ code: "custom", path: ["lines", index, "category"], message: "a cultural find or human remains is logged on its own (Log a find): it places a stop-work hold and needs its own photos and custody" });
+      }
+      if (line.category !== "faunal" && (line.taxon || line.element)) {
+        context.addIssue({ code: "custom", path: ["lines", index, "taxon"], message: "taxon and element are for faunal finds" });
+      }
+    });
+  });
+export type BasketLoadInput = z.input<typeof basketLoadInputSchema>;
 
 export const custodyInputSchema = z.object({
   fromName: requiredText("name of who hands it over"),
