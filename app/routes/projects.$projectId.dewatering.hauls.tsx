@@ -138,7 +138,7 @@ export default function DewateringHauls({ loaderData, actionData }: Route.Compon
       <section aria-labelledby="haul-list" className="space-y-2">
         <h2 id="haul-list" className="font-semibold">Haul tickets</h2>
         {hauls.length === 0 ? <p className="text-sm text-muted">No tickets yet.</p> : (
-          <div className="overflow-x-auto">
+          <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Haul tickets, scrollable">
             <table className="w-full border-collapse text-sm">
               <thead><tr className="border-b border-line text-left"><th className="py-1 pr-2">Date</th><th className="pr-2">Ticket</th><th className="pr-2">Truck</th><th className="pr-2">Destination</th><th className="pr-2">Load</th><th className="pr-2">Cake solids</th><th className="pr-2">Dry solids</th><th>Ticket photo</th></tr></thead>
               <tbody>

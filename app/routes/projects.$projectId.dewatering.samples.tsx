@@ -70,7 +70,7 @@ export default function SedimentSamples({ loaderData, actionData }: Route.Compon
       <section aria-labelledby="sample-list" className="space-y-2">
         <h2 id="sample-list" className="font-semibold">Sediment samples</h2>
         {loaderData.samples.length === 0 ? <p className="text-sm text-muted">No lab results yet.</p> : (
-          <div className="overflow-x-auto">
+          <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Sediment samples, scrollable">
             <table className="w-full border-collapse text-sm">
               <thead><tr className="border-b border-line text-left"><th className="py-1 pr-2">Date</th><th className="pr-2">Zone · cell</th><th className="pr-2">Solids</th><th className="pr-2">Dry bulk density</th><th className="pr-2">Organic matter</th><th className="pr-2">Total N (mg/kg)</th><th className="pr-2">Total P (mg/kg)</th><th>Lab · report</th></tr></thead>
               <tbody>

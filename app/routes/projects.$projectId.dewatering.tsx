@@ -111,7 +111,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 function ShiftTable({ shifts }: { shifts: Route.ComponentProps["loaderData"]["shifts"] }) {
   if (shifts.length === 0) return <p className="text-sm text-muted">No shifts logged yet.</p>;
   return (
-    <div className="overflow-x-auto">
+    <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Shifts, scrollable">
       <table className="w-full border-collapse text-sm">
         <thead>
           <tr className="border-b border-line text-left">

@@ -121,7 +121,7 @@ export default function DewateringTubes({ loaderData, actionData }: Route.Compon
           Theoretical diameter = circumference ÷ π, for reference (a filled tube stands lower). Tubes placed on the laydown area are drawn on the project's map until hauled.
         </p>
         {register.tubes.length === 0 ? <p className="text-sm text-muted">No tubes registered yet.</p> : (
-          <div className="overflow-x-auto">
+          <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Tube register, scrollable">
             <table className="w-full border-collapse text-sm">
               <thead>
                 <tr className="border-b border-line text-left">

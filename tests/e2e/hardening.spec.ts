@@ -83,7 +83,9 @@ test.describe("hardening 12: pages hydrate without errors", () => {
       await page.waitForLoadState("networkidle");
     }
     expect(errors).toEqual([]);
-    await expect(page.locator("#cumulative-title")).toHaveText(/Cumulative removed volume by survey date/);
+    // The chart's title (a <title> named by aria-labelledby) survived hydration whole.
+    await expect(page.getByTestId("cumulative-chart").locator("title").first()).toHaveText(/Cumulative removed volume by survey date/);
+    await expect(page.getByRole("img", { name: /Cumulative removed volume by survey date/ })).toBeVisible();
   });
 });
 

@@ -89,6 +89,21 @@ export const requiredText = (label: string, max = 120) => z.string().trim().min(
 export const optionalText = (max: number) => z.string().trim().max(max, `at most ${max} characters`).nullish().transform((value) => value || null);
 const length = (label: string) => z.number({ message: `${label} is a number in the project's length unit` }).finite().min(0, `${label} cannot be negative`).max(10_000, `${label} is too large`).nullish();
 
+/** Where, when and by whom something came up: shared by a find and a basket load. */
+const provenienceFields = {
+  condition: optionalText(200),
+  cell: z.string().trim().min(1).max(16).nullish(),
+  position: z.object({ x: z.number().finite(), y: z.number().finite() }, { message: "the position is {\"x\", \"y\"} in the project's coordinates" }).nullish(),
+  depthBelowSurface: length("the depth below the water surface"),
+  depthInMuck: length("the depth within the muck"),
+  foundAt: z.iso.datetime({ offset: true, message: "foundAt is a date and time with its offset, e.g. 2026-11-03T10:42:00-05:00" }),
+  diveId: z.number().int().positive().nullish(),
+  /** The team it came from when no dive is named (from the day plan); a dive names its own team. */
+  teamId: z.number().int().positive().nullish(),
+  finder: optionalText(120),
+  fieldTag: optionalText(60),
+};
+
 export const findInputSchema = z
   .object({
     category: z.enum(FIND_CATEGORIES, { message: `the category is one of ${FIND_CATEGORIES.join(", ")}` }),
@@ -97,17 +112,7 @@ export const findInputSchema = z
     count: z.number({ message: "the count is a whole number" }).int("the count is a whole number").min(1, "the count is at least 1").max(100_000).default(1),
     taxon: optionalText(120),
     element: optionalText(120),
-    condition: optionalText(200),
-    cell: z.string().trim().min(1).max(16).nullish(),
-    position: z.object({ x: z.number().finite(), y: z.number().finite() }, { message: "the position is {\"x\", \"y\"} in the project's coordinates" }).nullish(),
-    depthBelowSurface: length("the depth below the water surface"),
-    depthInMuck: length("the depth within the muck"),
-    foundAt: z.iso.datetime({ offset: true, message: "foundAt is a date and time with its offset, e.g. 2026-11-03T10:42:00-05:00" }),
-    diveId: z.number().int().positive().nullish(),
-    /** The team it came from when no dive is named (from the day plan); a dive names its own team. */
-    teamId: z.number().int().positive().nullish(),
-    finder: optionalText(120),
-    fieldTag: optionalText(60),
+    ...provenienceFields,
     idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(80).nullish(),
   })
   .superRefine((input, context) => {
@@ -140,16 +145,7 @@ export const basketLoadInputSchema = z
       )
       .min(1, "give at least one line: what the basket held and how many")
       .max(30, "at most 30 lines in one basket"),
-    condition: optionalText(200),
-    cell: z.string().trim().min(1).max(16).nullish(),
-    position: z.object({ x: z.number().finite(), y: z.number().finite() }, { message: "the position is {\"x\", \"y\"} in the project's coordinates" }).nullish(),
-    depthBelowSurface: length("the depth below the water surface"),
-    depthInMuck: length("the depth within the muck"),
-    foundAt: z.iso.datetime({ offset: true, message: "foundAt is a date and time with its offset, e.g. 2026-11-03T10:42:00-05:00" }),
-    diveId: z.number().int().positive().nullish(),
-    teamId: z.number().int().positive().nullish(),
-    finder: optionalText(120),
-    fieldTag: optionalText(60),
+    ...provenienceFields,
     /** A page's key against a double submit (the API takes the Idempotency-Key header instead). */
     idempotencyKey: z.string().trim().min(8, "an idempotency key has at least 8 characters").max(72).nullish(),
   })
