@@ -22,6 +22,7 @@ export default [
   route("api/projects/:projectId/cells", "routes/api.projects.$projectId.cells.ts"),
   route("api/projects/:projectId/cells/:label", "routes/api.projects.$projectId.cells.$label.ts"),
   route("api/projects/:projectId/dewatering/jar-tests", "routes/api.projects.$projectId.dewatering.jar-tests.ts"),
+  route("api/projects/:projectId/dewatering/jar-tests/:jarTestId", "routes/api.projects.$projectId.dewatering.jar-tests.$jarTestId.ts"),
   route("api/projects/:projectId/dewatering/jar-tests/:jarTestId/photos", "routes/api.projects.$projectId.dewatering.jar-tests.$jarTestId.photos.ts"),
   route("api/projects/:projectId/dewatering/jar-tests/:jarTestId/photos/:photoId", "routes/api.projects.$projectId.dewatering.jar-tests.$jarTestId.photos.$photoId.ts"),
   route("api/projects/:projectId/dewatering/shifts", "routes/api.projects.$projectId.dewatering.shifts.ts"),

@@ -68,6 +68,7 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/dewatering/jar-tests", "/api/projects/{project}/dewatering/jar-tests", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/dewatering/jar-tests", "/api/projects/{project}/dewatering/jar-tests", "422 403 403 422 403 403 403 422 401", EMPTY_JSON),
   // A JSON body where the photo upload takes multipart: 415 for those who may add photos.
+  row("GET", "api/projects/:projectId/dewatering/jar-tests/:jarTestId", "/api/projects/{project}/dewatering/jar-tests/999999999", "404 404 404 404 404 404 404 404 401"),
   row("POST", "api/projects/:projectId/dewatering/jar-tests/:jarTestId/photos", "/api/projects/{project}/dewatering/jar-tests/999999999/photos", "415 403 403 415 403 403 403 415 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/dewatering/jar-tests/:jarTestId/photos/:photoId", "/api/projects/{project}/dewatering/jar-tests/999999999/photos/999999999", "404 404 404 404 404 404 404 404 401"),
   row("GET", "api/projects/:projectId/dewatering/shifts", "/api/projects/{project}/dewatering/shifts", "200 200 200 200 200 200 200 200 401"),

@@ -145,6 +145,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/days/:date", method: "POST", url: () => `${base()}/days/2030-01-02`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/finds.csv", method: "POST", url: () => `${base()}/finds.csv`, params: projectParams },
   { route: "api/projects/:projectId/finds/:findId", method: "POST", url: () => `${base()}/finds/${findId}`, params: () => ({ ...projectParams(), findId: String(findId) }) },
+  { route: "api/projects/:projectId/dewatering/jar-tests/:jarTestId", method: "POST", url: () => `${base()}/dewatering/jar-tests/${jarTestId}`, params: () => ({ ...projectParams(), jarTestId: String(jarTestId) }) },
   { route: "api/projects/:projectId/dewatering/jar-tests/:jarTestId/photos/:photoId", method: "POST", url: () => `${base()}/dewatering/jar-tests/${jarTestId}/photos/1`, params: () => ({ ...projectParams(), jarTestId: String(jarTestId), photoId: "1" }) },
   { route: "api/projects/:projectId/hauls/:haulId/photos/:photoId", method: "POST", url: () => `${base()}/hauls/${haulId}/photos/1`, params: () => ({ ...projectParams(), haulId: String(haulId), photoId: "1" }) },
   { route: "api/projects/:projectId/finds/:findId/photos/:photoId", method: "POST", url: () => `${base()}/finds/${findId}/photos/1`, params: () => ({ ...projectParams(), findId: String(findId), photoId: "1" }) },

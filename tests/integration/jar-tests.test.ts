@@ -5,6 +5,7 @@ import { AuditEvent, Haul, HaulPhoto, HaulSite, JarTest, JarTestPhoto, Project, 
 import { listObjectKeys } from "~/lib/storage/storage.server";
 import { action as jarTestsAction, loader as jarTestsLoader } from "~/routes/api.projects.$projectId.dewatering.jar-tests";
 import { action as jarPhotosAction } from "~/routes/api.projects.$projectId.dewatering.jar-tests.$jarTestId.photos";
+import { loader as jarTestLoader } from "~/routes/api.projects.$projectId.dewatering.jar-tests.$jarTestId";
 import { loader as jarPhotoLoader } from "~/routes/api.projects.$projectId.dewatering.jar-tests.$jarTestId.photos.$photoId";
 import { action as haulsAction, loader as haulsLoader } from "~/routes/api.projects.$projectId.hauls";
 import { action as haulPhotosAction } from "~/routes/api.projects.$projectId.hauls.$haulId.photos";
@@ -143,6 +144,18 @@ describe("jar tests through the API", () => {
     expect(((await list.json()).jarTests as Array<{ id: number }>).map((test) => test.id)).toEqual([jarTestId]);
     expect((await call(jarTestsLoader as never, "outsider", `${base()}/dewatering/jar-tests`)).status).toBe(403);
     expect((await call(jarTestsLoader as never, "viewer", `${base()}/dewatering/jar-tests?from=5 October`)).status).toBe(400);
+  });
+
+  it("answers one test by its id as the list gives it, and 404 naming jarTestId for none", async () => {
+    const listed = ((await (await call(jarTestsLoader as never, "viewer", `${base()}/dewatering/jar-tests`)).json()).jarTests as Array<{ id: number }>).find((test) => test.id === jarTestId);
+    const one = await call(jarTestLoader as never, "viewer", `${base()}/dewatering/jar-tests/${jarTestId}`, {}, { jarTestId: String(jarTestId) });
+    expect(one.status).toBe(200);
+    expect((await one.json()).jarTest).toEqual(listed);
+    for (const id of ["999999999", "abc"]) {
+      const missing = await call(jarTestLoader as never, "viewer", `${base()}/dewatering/jar-tests/${id}`, {}, { jarTestId: id });
+      expect(missing.status).toBe(404);
+      expect((await errorsOf(missing))[0].field).toBe("jarTestId");
+    }
   });
 
   it("keeps a photo of the jars without its camera data, served to members only", async () => {
