@@ -6,7 +6,7 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Invitation, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, HaulSite, JarTest, JarTestPhoto, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
+import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Invitation, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, ReportSubscriber, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, HaulSite, JarTest, JarTestPhoto, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
 import { listObjectKeys } from "~/lib/storage/storage.server";
 import { logFind } from "~/models/finds.server";
 import { getCellsPayload } from "~/models/cells.server";
@@ -55,6 +55,7 @@ let holdId: number;
 let jarTestId: number;
 let haulId: number;
 let teamId: number;
+let subscriberId: number;
 const projectParams = () => ({ projectId: String(site.project.id) });
 const base = () => `/api/projects/${site.project.id}`;
 
@@ -107,6 +108,12 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/finds/baskets", method: "POST", url: () => `${base()}/finds/baskets`, params: projectParams },
   { route: "api/projects/:projectId/holds/:holdId/lift", method: "POST", url: () => `${base()}/holds/${holdId}/lift`, params: () => ({ ...projectParams(), holdId: String(holdId) }) },
   { route: "api/projects/:projectId/holds/:holdId/notices", method: "POST", url: () => `${base()}/holds/${holdId}/notices`, params: () => ({ ...projectParams(), holdId: String(holdId) }) },
+  { route: "api/projects/:projectId/report-subscribers", method: "POST", url: () => `${base()}/report-subscribers`, params: projectParams },
+  {
+    route: "api/projects/:projectId/report-subscribers/:subscriberId", method: "DELETE",
+    url: () => `${base()}/report-subscribers/${subscriberId}`, params: () => ({ ...projectParams(), subscriberId: String(subscriberId) }),
+    urlForEmptyBody: () => `${base()}/report-subscribers/999999999`, paramsForEmptyBody: () => ({ ...projectParams(), subscriberId: "999999999" }),
+  },
   { route: "api/projects/:projectId/share-links", method: "POST", url: () => `${base()}/share-links`, params: projectParams },
   {
     route: "api/projects/:projectId/share-links/:token", method: "DELETE",
@@ -228,6 +235,7 @@ async function snapshot() {
   return {
     assignments: await Assignment.count({ where: { projectId } }),
     dives: await Dive.count({ where: { projectId } }),
+    reportSubscribers: await ReportSubscriber.count({ where: { projectId } }),
     diveTeams: JSON.stringify(await DiveTeam.findAll({ where: { projectId }, raw: true, order: [["id", "ASC"]] })),
     diveCells: await DiveCell.count({ where: { projectId } }),
     dewateringShifts: await DewateringShift.count({ where: { projectId } }),
@@ -295,6 +303,7 @@ beforeAll(async () => {
     projectId: site.project.id, testDate: "2026-09-10", testTime: null, sampleSource: "", polymerProduct: "CE-412", polymerLot: null, benchStockPercent: 0.1, jarVolumeMl: 1000,
     rawTurbidityNtu: null, jars: [{ doseMgPerL: 4, settlingMinutes: 10, turbidityNtu: null, clarity: "clear" }], chosenDoseMgPerL: 4, notes: "", idempotencyKey: null, recordedById: null,
   })).id;
+  subscriberId = (await ReportSubscriber.create({ projectId: site.project.id, email: "bad-bodies-agency@example.org", userId: null, addedById: null })).id;
   teamId = (await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] })).id;
   const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
   const stored = await postSurvey(site.project.id, site.tokens.manager, { path: join(DEMO_DIR, baseline.fileName) }, {

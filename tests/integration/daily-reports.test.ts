@@ -12,6 +12,8 @@ import { loader as dayLoader } from "~/routes/api.projects.$projectId.days.$date
 import { action as signAction } from "~/routes/api.projects.$projectId.days.$date.sign";
 import { action as amendAction } from "~/routes/api.projects.$projectId.days.$date.amendments";
 import { action as countersignRequestAction } from "~/routes/api.projects.$projectId.days.$date.countersign-requests";
+import { action as subscribersAction, loader as subscribersLoader } from "~/routes/api.projects.$projectId.report-subscribers";
+import { action as subscriberAction } from "~/routes/api.projects.$projectId.report-subscribers.$subscriberId";
 import {
   addSubscriber, batchDates, countersignReport, dailyReportBatchPdf, dailyReportPdf, listMonthDays, lookUpCountersign, removeSubscriber, saveEnteredNotes, sendDailyReportBatch, signDailyReport,
 } from "~/models/daily-reports.server";
@@ -357,6 +359,27 @@ describe("subscribers and the two-week batch", () => {
     expect(mail!.toAddress).toBe("contracts@agency.example");
     expect(mail!.attachments![0]!.filename).toBe(`${project.slug}-daily-reports-${PREVIOUS}-to-${NEXT}.pdf`);
     expect(await getObject(mail!.attachments![0]!.storageKey)).not.toBeNull();
+  });
+
+  it("are managed through the API by the manager alone: listed, added (409 for an address already on the list), removed", async () => {
+    const path = `/api/projects/${projectId}/report-subscribers`;
+    const added = await postJson(subscribersAction as never, "manager", path, { email: "Inspector@Agency.example" });
+    expect(added.status).toBe(201);
+    const { subscriber } = await added.json();
+    expect(subscriber).toMatchObject({ email: "inspector@agency.example", member: null });
+    const again = await postJson(subscribersAction as never, "manager", path, { email: "inspector@agency.example" });
+    expect(again.status).toBe(409);
+    expect((await again.json()).errors[0].field).toBe("email");
+    expect((await postJson(subscribersAction as never, "manager", path, { email: "not an address" })).status).toBe(422);
+    expect((await postJson(subscribersAction as never, "dive-supervisor", path, { email: "someone@agency.example" })).status).toBe(403);
+    expect((await call(subscribersLoader as never, "viewer", path)).status).toBe(403);
+    const listed = await (await call(subscribersLoader as never, "manager", path)).json();
+    expect(listed.subscribers.map((row: { email: string }) => row.email)).toContain("inspector@agency.example");
+    const remove = (role: Role, id: number) => call(subscriberAction as never, role, `${path}/${id}`, { method: "DELETE", headers: { Origin: "http://127.0.0.1:3999" } }, { subscriberId: String(id) });
+    expect((await remove("dive-supervisor", subscriber.id)).status).toBe(403);
+    expect((await remove("manager", subscriber.id)).status).toBe(204);
+    expect((await remove("manager", subscriber.id)).status).toBe(404);
+    expect(await ReportSubscriber.count({ where: { projectId, email: "inspector@agency.example" } })).toBe(0);
   });
 });
 
