@@ -29,6 +29,14 @@ export function localTime(iso: string, timeZone: string): string {
   return new Intl.DateTimeFormat("en-US", { timeZone, month: "short", day: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).format(new Date(iso));
 }
 
+/** How work resumes, for what is in force: a turbidity stop-work, a wildlife stand-down, or both. */
+export function resumeRule(stopWorkCount: number, standDownCount: number): string {
+  const turbidity = "Turbidity: resume only after an in-limit resample and a recorded resumption.";
+  const wildlife = "Wildlife: in-water work resumes only once the animal has left on its own and the permit's wait has passed; never chase or herd it.";
+  if (stopWorkCount > 0 && standDownCount > 0) return `${turbidity} ${wildlife}`;
+  return stopWorkCount > 0 ? turbidity.replace("Turbidity: resume", "Resume") : wildlife.replace("Wildlife: in-water", "In-water");
+}
+
 /**
  * The red banner every project page shows while work is stopped: open turbidity stop-work events
  * with the agency notification deadline counting down, and wildlife stand-downs in force.
@@ -62,7 +70,7 @@ export function StopWorkBanner({ projectId, stopWork, standDowns, nowMs, timeZon
         </p>
       ))}
       <p className="mt-1 text-sm">
-        Resume only after an in-limit resample and a recorded resumption. <Link to={`/projects/${projectId}/water-quality`} className="underline">Water quality and stand-downs</Link>
+        {resumeRule(stopWork.length, standDowns.length)} <Link to={`/projects/${projectId}/water-quality`} className="underline">Water quality and stand-downs</Link>
       </p>
     </div>
   );
