@@ -87,7 +87,7 @@ const inputClass = "mt-1 block w-full rounded border border-line bg-panel px-3 p
 export default function LogBasket({ loaderData, actionData }: Route.ComponentProps) {
   const errors: Record<string, string> = actionData?.errors ?? {};
   const logged = actionData?.logged ?? null;
-  const { lengthLabel, projectId } = loaderData;
+  const { projectId } = loaderData;
   // Each line keeps its number on the form (its field names) when one above it is removed.
   const [lines, setLines] = useState<Array<{ id: number; category: FindCategory }>>([{ id: 0, category: "modern-debris" }]);
   const [idempotencyKey] = useState(() => (typeof crypto !== "undefined" && "randomUUID" in crypto ? crypto.randomUUID() : ""));
@@ -171,15 +171,7 @@ export default function LogBasket({ loaderData, actionData }: Route.ComponentPro
             </button>
           ) : null}
         </fieldset>
-        <ProvenienceFields options={loaderData} errors={errors} />
-        <div className="grid grid-cols-2 gap-3">
-          <TextField label={`Depth below surface (${lengthLabel})`} name="depthBelowSurface" type="number" inputMode="decimal" step="0.1" min={0} error={errors.depthBelowSurface} />
-          <TextField label={`Depth within the muck (${lengthLabel})`} name="depthInMuck" type="number" inputMode="decimal" step="0.1" min={0} error={errors.depthInMuck} />
-        </div>
-        <div className="grid grid-cols-2 gap-3">
-          <TextField label="Finder" name="finder" maxLength={120} error={errors.finder} />
-          <TextField label="Basket tag no." name="fieldTag" maxLength={60} error={errors.fieldTag} />
-        </div>
+        <ProvenienceFields options={loaderData} errors={errors} tagLabel="Basket tag no." />
         <TextField label="Condition" name="condition" maxLength={200} error={errors.condition} />
         <TextField label="Brought up at (project time)" name="foundAt" type="datetime-local" required defaultValue={loaderData.now} hint={`Time zone ${loaderData.timeZone}.`} error={errors.foundAt} />
         <p className="text-sm text-muted">Cell and depths are confidential: only the resource monitor, the manager and site administrators see them.</p>

@@ -83,7 +83,6 @@ function HumanRemainsProtocol() {
 export default function LogFind({ loaderData, actionData }: Route.ComponentProps) {
   const errors: Record<string, string> = actionData?.errors ?? {};
   const [category, setCategory] = useState<FindCategory | "">("");
-  const { lengthLabel } = loaderData;
   const [idempotencyKey] = useState(() => (typeof crypto !== "undefined" && "randomUUID" in crypto ? crypto.randomUUID() : ""));
   return (
     <div className="max-w-xl space-y-4">
@@ -121,15 +120,7 @@ export default function LogFind({ loaderData, actionData }: Route.ComponentProps
           </div>
         ) : null}
         <TextField label="Condition" name="condition" maxLength={200} error={errors.condition} />
-        <ProvenienceFields options={loaderData} errors={errors} />
-        <div className="grid grid-cols-2 gap-3">
-          <TextField label={`Depth below surface (${lengthLabel})`} name="depthBelowSurface" type="number" inputMode="decimal" step="0.1" min={0} error={errors.depthBelowSurface} />
-          <TextField label={`Depth within the muck (${lengthLabel})`} name="depthInMuck" type="number" inputMode="decimal" step="0.1" min={0} error={errors.depthInMuck} />
-        </div>
-        <div className="grid grid-cols-2 gap-3">
-          <TextField label="Finder" name="finder" maxLength={120} error={errors.finder} />
-          <TextField label="Field tag no." name="fieldTag" maxLength={60} error={errors.fieldTag} />
-        </div>
+        <ProvenienceFields options={loaderData} errors={errors} tagLabel="Field tag no." />
         <TextField label="Found at (project time)" name="foundAt" type="datetime-local" required defaultValue={loaderData.now} hint={`Time zone ${loaderData.timeZone}.`} error={errors.foundAt} />
         <p className="text-sm text-muted">Photos come next, on the find's page. Cell and depths are confidential: only the resource monitor, the manager and site administrators see them.</p>
         <SubmitButton pendingLabel="Saving…" className="w-full sm:w-auto">Save find</SubmitButton>

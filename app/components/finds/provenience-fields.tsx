@@ -10,7 +10,8 @@ const inputClass = "mt-1 block w-full rounded border border-line bg-panel px-3 p
  * names its team and its cells), the small map where a tap picks the cell (and, when asked, the
  * position), the cell field, and the position as easting and northing or latitude and longitude.
  */
-export function ProvenienceFields({ options, errors }: { options: Pick<FindFormOptions, "projectId" | "lengthUnit" | "lengthLabel" | "crsCode" | "workLimit" | "dives" | "teams" | "cells" | "heldCells" | "prefill">; errors: Record<string, string> }) {
+/** `tagLabel`: what the field tag is called on this form (a find's tag, a basket's). */
+export function ProvenienceFields({ options, errors, tagLabel }: { options: Pick<FindFormOptions, "projectId" | "lengthUnit" | "lengthLabel" | "crsCode" | "workLimit" | "dives" | "teams" | "cells" | "heldCells" | "prefill">; errors: Record<string, string>; tagLabel: string }) {
   const { lengthLabel, dives, teams, prefill } = options;
   const [cell, setCell] = useState(prefill.cells[0] ?? "");
   const [diveId, setDiveId] = useState(prefill.diveId === null ? "" : String(prefill.diveId));
@@ -94,6 +95,14 @@ export function ProvenienceFields({ options, errors }: { options: Pick<FindFormO
           )}
           <p className="text-xs text-muted">A position must lie inside the work limit and in the cell named.</p>
         </fieldset>
+        <div className="grid grid-cols-2 gap-3">
+          <TextField label={`Depth below surface (${lengthLabel})`} name="depthBelowSurface" type="number" inputMode="decimal" step="0.1" min={0} error={errors.depthBelowSurface} />
+          <TextField label={`Depth within the muck (${lengthLabel})`} name="depthInMuck" type="number" inputMode="decimal" step="0.1" min={0} error={errors.depthInMuck} />
+        </div>
+        <div className="grid grid-cols-2 gap-3">
+          <TextField label="Finder" name="finder" maxLength={120} error={errors.finder} />
+          <TextField label={tagLabel} name="fieldTag" maxLength={60} error={errors.fieldTag} />
+        </div>
     </>
   );
 }
