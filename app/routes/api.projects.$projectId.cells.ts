@@ -1,5 +1,6 @@
 import { requireApiAccess } from "~/lib/api/access.server";
 import { apiRoute } from "~/lib/api/route.server";
+import { cachedReadFor } from "~/lib/cache/read-cache.server";
 import { precompressedResponse } from "~/lib/http/precompressed.server";
 import { cellsVersion, getCellsPayloadBody } from "~/models/cells.server";
 import type { Route } from "./+types/api.projects.$projectId.cells";
@@ -10,7 +11,8 @@ const route = apiRoute<Route.LoaderArgs>({
   // bodiless 304 until an import, a retract or a settings change. The body is gzipped once per version.
   async GET({ request, params }) {
     const { project } = await requireApiAccess(request, params.projectId);
-    const version = await cellsVersion(project);
+    // The version is kept between requests until something is written (app/lib/cache/read-cache.server.ts).
+    const version = await cachedReadFor(request, `cells-version:${project.id}`, () => cellsVersion(project));
     const etag = `"${version}"`;
     const headers = { "Cache-Control": "private, no-cache", ETag: etag };
     const ifNoneMatch = request.headers.get("If-None-Match");

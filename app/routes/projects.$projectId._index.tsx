@@ -1,3 +1,5 @@
+import { cachedReadFor } from "~/lib/cache/read-cache.server";
+import { keepRenderedForReader } from "~/lib/cache/document-cache.server";
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { roleLabel } from "~/lib/auth/roles";
@@ -11,14 +13,20 @@ import { Link } from "react-router";
 import { unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId._index";
 
+// The overview is what most members reload all day: its rendered answer is kept per reader until
+// something is written (app/lib/cache/document-cache.server.ts).
+export const middleware: Route.MiddlewareFunction[] = [keepRenderedForReader];
+
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
   const { project, role } = access;
-  const [zones, progress] = await Promise.all([listZones(project), loadProgress(project, { crossCheck: true })]);
+  // Kept between requests until something is written (app/lib/cache/read-cache.server.ts).
+  const shared = <T,>(name: string, compute: () => Promise<T>) => cachedReadFor(request, `${name}:${project.id}`, compute);
+  const [zones, progress] = await Promise.all([shared("zones", () => listZones(project)), shared("progress-checked", () => loadProgress(project, { crossCheck: true }))]);
   // The manager is reminded of the setup steps left until every one is done (an archived project is past setting up).
-  const setup = can(access, "project.configure") ? await loadSetupProgress(project) : null;
+  const setup = can(access, "project.configure") ? await shared("setup-progress", () => loadSetupProgress(project)) : null;
   // The reconciliation rests on the same progress figures: handed over, not read twice.
-  const reconciliation = progress.hasFigures ? await loadReconciliation(project, progress) : null;
+  const reconciliation = progress.hasFigures ? await shared("reconciliation", () => loadReconciliation(project, progress)) : null;
   // Exports for the manager and viewers; the public share page for outreach and the manager.
   const exports = can(access, "quantities.read");
   const sharing = can(access, "share-links.manage");

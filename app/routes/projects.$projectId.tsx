@@ -1,3 +1,4 @@
+import { cachedReadFor } from "~/lib/cache/read-cache.server";
 import { Form, Link, Outlet, useLocation, useMatches } from "react-router";
 import { can, roleAllows, type Action } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
@@ -23,15 +24,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     canReadQuantities: can(access, "quantities.read"),
     canShare: roleAllows(access, "share-links.manage"),
     // An archived project says so on every page; a site admin can restore it from the banner.
-    archive: await archiveStateOf(project),
+    archive: await cachedReadFor(request, `archive-state:${project.id}`, () => archiveStateOf(project)),
     canRestore: can(access, "project.restore"),
     // The field page (outside this layout) for members who enter field records.
     canEnterField: ["dives.log", "water-quality.record", "finds.log", "wildlife.record"].some((action) => can(access, action as Action)),
     // Open stop-work events and stand-downs show on every project page.
-    stoppages: await currentStoppages(project),
+    stoppages: await cachedReadFor(request, `stoppages:${project.id}`, () => currentStoppages(project)),
     canReadFinds,
     // Open stop-work events show on every project page (cells only: never the find).
-    heldCellCount: canReadFinds ? (await heldCellLabels(project.id)).length : 0,
+    heldCellCount: canReadFinds ? (await cachedReadFor(request, `held-cells:${project.id}`, () => heldCellLabels(project.id))).length : 0,
   };
 }
 

@@ -1,4 +1,5 @@
-import type { Sequelize } from "sequelize";
+import type { ModelStatic, Sequelize } from "sequelize";
+import { watchModelWrites } from "./write-revision";
 import { getSequelize } from "../connection.server";
 import { AuditEvent, initAuditEvent } from "./audit-event";
 import { Invitation, initInvitation } from "./invitation";
@@ -302,6 +303,13 @@ export function initModels(): Sequelize {
   Hold.hasMany(HoldNotice, { foreignKey: "holdId", as: "notices" });
   HoldNotice.belongsTo(Hold, { foreignKey: "holdId", as: "hold" });
   HoldNotice.belongsTo(User, { foreignKey: "toldById", as: "toldBy" });
+
+  // Every write moves the process's write revision, which the app's read cache keys on; the rows
+  // no cached read shows (sessions, sign-in attempts, the audit log, the outbox, idempotency keys,
+  // API tokens' last use, an import's running count) leave it alone, or every request would move it.
+  watchModelWrites(sequelize, new Set<ModelStatic<never>>([
+    SignInSession, LoginAttempt, AuditEvent, OutgoingMail, IdempotencyKey, ResetRequest, ApiToken, ImportJob,
+  ] as unknown as ModelStatic<never>[]));
 
   initialised = sequelize;
   return sequelize;

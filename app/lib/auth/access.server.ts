@@ -9,6 +9,7 @@ import { hasBearer, lookUpBearer } from "./api-token.server";
 import { currentSignInSession } from "./session.server";
 import { urlIdSchema } from "../http/url-id";
 import { oncePerRequest } from "../http/request-scope.server";
+import { cachedReadFor } from "../cache/read-cache.server";
 
 // The one place that decides access. The core (signedInUser, projectAccess) throws typed errors;
 // pages call requireUser / requireRole, which answer as pages do (a redirect to sign in, a 403 or
@@ -29,8 +30,10 @@ export async function getOptionalUser(request: Request): Promise<UserView | null
 
 function sessionUser(request: Request): Promise<UserView | null> {
   return oncePerRequest(request, "session-user", async () => {
+    // The session row is read on every request (it may have ended); the account behind it is
+    // kept between requests until something is written.
     const session = await currentSignInSession(request);
-    return session ? getUserView(session.userId) : null;
+    return session ? cachedReadFor(request, `user:${session.userId}`, () => getUserView(session.userId)) : null;
   });
 }
 
@@ -86,12 +89,15 @@ export async function projectAccess(request: Request, projectId: string | number
   const user = await signedInUser(request);
   const parsedId = urlIdSchema.safeParse(projectId);
   if (!parsedId.success) throw new NotFoundError("There is no such project.");
-  const found = await oncePerRequest(request, `project-${parsedId.data}-of-${user.id}`, async () => {
-    const project = await findProject(parsedId.data);
+  const key = `project-${parsedId.data}-of-${user.id}`;
+  const found = await oncePerRequest(request, key, () => cachedReadFor(request, key, async () => {
+    const [project, membership] = await Promise.all([
+      findProject(parsedId.data),
+      Membership.findOne({ where: { projectId: parsedId.data, userId: user.id }, attributes: ["role"], raw: true }),
+    ]);
     if (!project) return null;
-    const membership = await Membership.findOne({ where: { projectId: project.id, userId: user.id }, attributes: ["role"], raw: true });
     return { project: presentProject(project), role: membership?.role ?? null };
-  });
+  }));
   if (!found) throw new NotFoundError("There is no such project.");
   // A fresh object per call: a caller may keep or change its own view of the project.
   const access: ProjectAccess = { role: found.role, isSiteAdmin: user.isSiteAdmin, archived: found.project.archivedAt !== null, user, project: { ...found.project } };

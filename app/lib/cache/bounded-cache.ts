@@ -18,6 +18,16 @@ export class BoundedCache<Value> {
     return this.entries.has(key);
   }
 
+  /** The cached value for `key` (marked as read), or undefined. */
+  peek(key: string): Promise<Value> | undefined {
+    const cached = this.entries.get(key);
+    if (cached) {
+      this.entries.delete(key);
+      this.entries.set(key, cached);
+    }
+    return cached;
+  }
+
   /** The cached value for `key`, or `compute()` stored under it. */
   getOrCompute(key: string, compute: () => Promise<Value>): Promise<Value> {
     const cached = this.entries.get(key);
