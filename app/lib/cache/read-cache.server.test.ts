@@ -55,6 +55,8 @@ describe("cachedRead", () => {
     await cachedRead("test:c", read.compute);
     expect(read.calls).toBe(4);
     expect(versionedKey("test:c")).toBeNull();
+    process.env.READ_CACHE_SECONDS = "soon";
+    expect(() => versionedKey("test:c")).toThrow("READ_CACHE_SECONDS must be a number of seconds");
   });
 
   it("freezes a kept answer outside production, so a caller cannot change what others read", async () => {

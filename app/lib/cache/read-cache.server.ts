@@ -1,3 +1,4 @@
+import { z } from "zod";
 import { writeRevision } from "../../../db/models/write-revision";
 import { BoundedCache } from "./bounded-cache";
 
@@ -16,9 +17,19 @@ import { BoundedCache } from "./bounded-cache";
 // Models whose rows no cached read shows (sessions, sign-in attempts, the audit log, the outbox,
 // idempotency keys, API tokens' last use) do not move the revision, or every page view would.
 
+const lifetimeSchema = z.coerce.number({ message: "READ_CACHE_SECONDS must be a number of seconds" })
+  .min(0, "READ_CACHE_SECONDS must be 0 (off) or more").max(300, "READ_CACHE_SECONDS must be at most 300").default(5);
+let lifetime: { raw: string | undefined; ms: number } | undefined;
+
+/** The lifetime of a kept answer, from READ_CACHE_SECONDS (read as it is now, so a test may change it). */
 function ttlMs(): number {
-  const seconds = Number(process.env.READ_CACHE_SECONDS ?? 5);
-  return Number.isFinite(seconds) && seconds >= 0 ? seconds * 1000 : 5000;
+  const raw = process.env.READ_CACHE_SECONDS;
+  if (!lifetime || lifetime.raw !== raw) {
+    const parsed = lifetimeSchema.safeParse(raw === "" ? undefined : raw);
+    if (!parsed.success) throw new Error(`Firmsand's environment is not valid: ${parsed.error.issues[0]!.message}`);
+    lifetime = { raw, ms: parsed.data * 1000 };
+  }
+  return lifetime.ms;
 }
 
 const cache = new BoundedCache<unknown>(1000);
