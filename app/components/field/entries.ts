@@ -1,5 +1,6 @@
 import type { z } from "zod";
 import { CUSTODY_PURPOSE_LABELS, FIND_CATEGORY_LABELS, FIND_STATUS_LABELS, type CustodyPurpose, type FindCategory, type FindStatus } from "../../../shared/finds/finds";
+import { CAKE_SOLIDS_MISSING, cakeSolidsInForce } from "../../../shared/dewatering/haul";
 import { localDayOf } from "../../../shared/local-time";
 import {
   custodyInputSchema, diveInputSchema, fillInputSchema, findInputSchema, haulInputSchema, jarTestInputSchema, readingInputSchema, shiftInputSchema, sightingInputSchema,
@@ -219,10 +220,15 @@ const SCHEMAS: Record<EntryKind, z.ZodType> = {
   "tube-fill": fillInputSchema, "tube-status": tubeStatusSchema, shift: shiftInputSchema, "jar-test": jarTestInputSchema, haul: haulInputSchema,
 };
 
-/** The server's own check, run on the device: errors per form field (first message each). */
-export function checkBody(kind: EntryKind, body: Record<string, unknown>, form: FormValues = {}): Record<string, string> {
+/**
+ * The server's own check, run on the device: errors per form field (first message each). Beside the
+ * schemas, the rules the server applies with the project's settings, from the same shared functions
+ * (a ticket's cake solids: its own or the project's default, cakeSolidsInForce).
+ */
+export function checkBody(kind: EntryKind, body: Record<string, unknown>, form: FormValues, snapshot: Pick<FieldSnapshot, "dewatering">): Record<string, string> {
   const result = SCHEMAS[kind].safeParse(body);
   const errors: Record<string, string> = {};
+  if (kind === "haul" && body.cakeSolidsByWeight == null && cakeSolidsInForce(null, snapshot.dewatering?.cakeSolidsByWeight) === null) errors.cakeSolidsPercent = CAKE_SOLIDS_MISSING;
   if ((kind === "tube-status" || kind === "tube-fill") && !text(form, "tube")) errors.tube = "choose the tube";
   if ((kind === "find-status" || kind === "custody") && !text(form, "find")) errors.find = "choose the find";
   if (kind === "dive" && body.team === undefined) errors.team = "choose the team";
