@@ -1,4 +1,4 @@
-import { ENTRY_LABELS, fieldOf, findTargetOf } from "./entries";
+import { ENTRY_LABELS, fieldOf, findTargetOf } from "./entry-fields";
 import {
   markSent, ownersWithWaiting, putEntry, queuedEntries, queuedEntry, releaseSendingLease, sentEntry, takeSendingLease, updateSyncState, type Owner, type QueueEntry, type SentEntry,
 } from "./store";
