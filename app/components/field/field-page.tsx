@@ -171,7 +171,7 @@ function ConfirmDelete({ entry, dependents, onDone }: { entry: QueueEntry; depen
       <ul className="mt-1 list-disc pl-5">
         {dependents.map((dependent) => <li key={dependent.id}>{dependent.summary}</li>)}
       </ul>
-      <p className="mt-1 text-sm">Delete the find and {handovers} together, or keep them all. None has been sent{entry.serverId !== undefined ? " in full" : ""}; deleted entries cannot be recovered.</p>
+      <p className="mt-1 text-sm">Delete the find and {handovers} together, or keep {dependents.length === 1 ? "both" : "them all"}. None has been sent{entry.serverId !== undefined ? " in full" : ""}; deleted entries cannot be recovered.</p>
       <div className="mt-2 flex flex-wrap gap-3">
         <button type="button" className={bigButton.danger} disabled={busy} onClick={() => void remove(() => deleteWithDependents(entry))}>Delete the find and {handovers}</button>
         <button type="button" className={bigButton.plain} autoFocus onClick={onDone}>Keep them</button>
@@ -214,7 +214,7 @@ function UnownedEntries({ entries, userName, onClaim, onChanged }: { entries: Qu
         ))}
       </ol>
       {entries.length > 1 ? (
-        <button type="button" className={`${bigButton.plain} mt-3`} onClick={() => void onClaim(entries.map((entry) => entry.id))}>All {entries.length} are mine</button>
+        <button type="button" className={`${bigButton.plain} mt-3`} onClick={() => void onClaim(entries.map((entry) => entry.id))}>{entries.length === 2 ? "Both are mine" : `All ${entries.length} are mine`}</button>
       ) : null}
     </section>
   );
