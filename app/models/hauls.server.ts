@@ -1,7 +1,7 @@
 import { UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import type { HaulSolids } from "../../shared/dewatering/charts";
-import { haulDryMassKg } from "../../shared/dewatering/haul";
+import { CAKE_SOLIDS_MISSING, cakeSolidsInForce, haulDryMassKg } from "../../shared/dewatering/haul";
 import { cubicMetresPerVolumeUnit, kilogramsFrom, kilogramsTo, massUnitsFor, measureLabel, unitLabel, volumeUnitFor } from "../../shared/units";
 import { Haul, HaulPhoto, HaulSite, HAUL_SITE_KINDS, getSequelize } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
@@ -114,8 +114,9 @@ export async function recordHaul(project: ProjectView, user: UserView, input: Ha
   const site = sites.find((candidate) => (typeof input.site === "number" ? candidate.id === input.site : candidate.name.toLowerCase() === input.site.toLowerCase()));
   if (!site) throw new NotFoundError({ field: "site", message: `There is no destination "${input.site}" on this project's list of sites.` });
   const settings = await dewateringSettings(project);
-  const cakeSolids = input.cakeSolidsByWeight ?? settings.cakeSolidsByWeight;
-  if (cakeSolids === null) throw new ValidationError({ field: "cakeSolidsByWeight", message: "Give the load's cake solids: the project has no default cake solids yet." });
+  const inForce = cakeSolidsInForce(input.cakeSolidsByWeight, settings.cakeSolidsByWeight);
+  if (inForce === null) throw new ValidationError({ field: "cakeSolidsByWeight", message: CAKE_SOLIDS_MISSING });
+  const cakeSolids = inForce.cakeSolidsByWeight;
   const units = massUnitsFor(project.lengthUnit);
   const isMass = input.load.unit === "short-ton" || input.load.unit === "t";
   // Stored in the project's units; computed in SI.
@@ -130,7 +131,7 @@ export async function recordHaul(project: ProjectView, user: UserView, input: Ha
           projectId: project.id, haulDate: input.date, ticketNumber: input.ticketNumber, truck: input.truck, siteId: site.id,
           loadWetMass: wetMassKg === null ? null : kilogramsTo(wetMassKg, units.bulkMass),
           loadVolume: volumeM3 === null ? null : volumeM3 / cubicMetresPerVolumeUnit(project.lengthUnit),
-          cakeSolidsByWeight: cakeSolids, cakeSolidsFromSample: input.cakeSolidsByWeight != null, solidsSpecificGravity: settings.solidsSpecificGravity,
+          cakeSolidsByWeight: cakeSolids, cakeSolidsFromSample: inForce.fromSample, solidsSpecificGravity: settings.solidsSpecificGravity,
           drySolidsKg, notes: input.notes, idempotencyKey: input.idempotencyKey || null, recordedById: user.id,
         },
         { transaction },

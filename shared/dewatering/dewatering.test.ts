@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { KILOGRAMS_PER_POUND, LITRES_PER_US_GALLON, cubicMetresPerHourFrom, kilogramsPerCubicMetreFrom } from "../units";
-import { haulDryMassKg } from "./haul";
+import { CAKE_SOLIDS_MISSING, cakeSolidsInForce, haulDryMassKg } from "./haul";
 import { polymerFeed } from "./polymer-feed";
 import { reconcileSolids } from "./reconciliation";
 import { computeShiftFigures, flowFromTotaliser, shiftMeasurementsOf } from "./shift";
@@ -224,5 +224,17 @@ describe("haul tickets", () => {
     // computed: dry mass = V × Cv × Gs × 1,000 kg/m³, the solids' own volume at their own density
     const cake = slurryFromSolidsByWeight(0.3, 1.8);
     expect(haulDryMassKg({ volumeM3: 10 }, 0.3, 1.8)).toBeCloseTo(10 * cake.solidsByVolume * 1.8 * 1000, 6);
+  });
+});
+
+describe("the cake solids a ticket is counted at", () => {
+  it("the load's own sample first, then the project's default, else none (practice: a ticket without a sample is counted at the project's figure)", () => {
+    expect(cakeSolidsInForce(0.28, 0.3)).toEqual({ cakeSolidsByWeight: 0.28, fromSample: true });
+    expect(cakeSolidsInForce(null, 0.3)).toEqual({ cakeSolidsByWeight: 0.3, fromSample: false });
+    expect(cakeSolidsInForce(undefined, 0.3)).toEqual({ cakeSolidsByWeight: 0.3, fromSample: false });
+    expect(cakeSolidsInForce(0.25, null)).toEqual({ cakeSolidsByWeight: 0.25, fromSample: true });
+    expect(cakeSolidsInForce(null, null)).toBeNull();
+    expect(cakeSolidsInForce(undefined, undefined)).toBeNull();
+    expect(CAKE_SOLIDS_MISSING).toMatch(/cake solids/);
   });
 });

@@ -11,3 +11,17 @@ export function haulDryMassKg(load: { wetMassKg: number } | { volumeM3: number }
     : load.volumeM3 * slurryFromSolidsByWeight(cakeSolidsByWeight, solidsSpecificGravity).specificGravity * WATER_DENSITY_KG_PER_M3;
   return wetMassKg * cakeSolidsByWeight;
 }
+
+/** What a ticket with no cake solids of its own is told when the project has no default to count it at. */
+export const CAKE_SOLIDS_MISSING = "Give the load's cake solids: the project has no default cake solids yet.";
+
+/**
+ * The cake solids a ticket is counted at: its own sample's when given, else the project's default.
+ * Null when there is neither: the ticket cannot be counted and is refused (CAKE_SOLIDS_MISSING).
+ * The server applies it when it stores a ticket, the field page before it queues one.
+ */
+export function cakeSolidsInForce(sample: number | null | undefined, projectDefault: number | null | undefined): { cakeSolidsByWeight: number; fromSample: boolean } | null {
+  if (sample != null) return { cakeSolidsByWeight: sample, fromSample: true };
+  if (projectDefault != null) return { cakeSolidsByWeight: projectDefault, fromSample: false };
+  return null;
+}

@@ -539,3 +539,152 @@ test.describe("dewatering and finds, sending", () => {
     expect(kept.queue).toHaveLength(1);
   });
 });
+
+/** Lays the device's store out as version 1 did (entries with no author), holding the given queue entries. */
+async function seedVersion1Store(page: Page, entries: Array<Record<string, unknown>>) {
+  await page.evaluate(async (queued) => {
+    await new Promise<void>((resolve, reject) => {
+      const removal = indexedDB.deleteDatabase("firmsand-field");
+      removal.onsuccess = () => resolve();
+      removal.onerror = () => reject(removal.error);
+    });
+    await new Promise<void>((resolve, reject) => {
+      const open = indexedDB.open("firmsand-field", 1);
+      open.onupgradeneeded = () => {
+        const db = open.result;
+        db.createObjectStore("projects", { keyPath: "projectId" });
+        db.createObjectStore("queue", { keyPath: "id" }).createIndex("byProject", "projectId");
+        db.createObjectStore("sent", { keyPath: "id" }).createIndex("byProject", "projectId");
+        db.createObjectStore("sync", { keyPath: "projectId" });
+      };
+      open.onerror = () => reject(open.error);
+      open.onsuccess = () => {
+        const db = open.result;
+        const transaction = db.transaction("queue", "readwrite");
+        for (const entry of queued) transaction.objectStore("queue").put(entry);
+        transaction.oncomplete = () => {
+          db.close();
+          resolve();
+        };
+        transaction.onerror = () => reject(transaction.error);
+      };
+    });
+  }, entries);
+}
+
+test.describe("entries from before the update, and deleting what others need", () => {
+  test.use({ serviceWorkers: "block" });
+
+  test("entries kept before entries had an author are sent by nobody until the person signed in claims them; one claimed is stored once, one deleted never", async ({ page }) => {
+    const claimed = marker("before-update-mine");
+    const deleted = marker("before-update-other");
+    const now = new Date();
+    const reading = (note: string, order: number) => ({
+      id: `${note}-id`, projectId, kind: "reading", order, capturedAt: now.toISOString(), form: { note }, photos: [], status: "waiting", attempts: 0,
+      body: { station: "OF-1 return outfall", takenAt: now.toISOString(), value: 4.2, unit: "NTU", note },
+      summary: `Reading · OF-1 return outfall · 4.2 NTU · ${note}`,
+    });
+    await signInWithPassword(page, DEMO_ACCOUNTS.manager, DEMO_PASSWORD);
+    await expect(page).toHaveURL(/\/projects$/);
+    await seedVersion1Store(page, [reading(claimed, 1), reading(deleted, 2)]);
+
+    await page.goto(`/projects/${projectId}/field`);
+    const held = page.getByRole("region", { name: "Entries from before the update: whose are these?" });
+    await expect(held).toBeVisible();
+    await expect(held.getByRole("listitem")).toHaveCount(2);
+    await expect(page.getByRole("heading", { name: /^0 waiting to send/ })).toBeVisible();
+
+    await held.getByRole("listitem").filter({ hasText: claimed }).getByRole("button", { name: /^Mine: send it under my name/ }).click();
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; last sent \d\d:\d\d/ })).toBeVisible({ timeout: 20_000 });
+    await expect(page.getByRole("region", { name: "Sent from this device" })).toContainText(claimed);
+    await expect(held.getByRole("listitem")).toHaveCount(1);
+    const today = now.toISOString().slice(0, 10);
+    expect(await readingsWith(claimed, today)).toHaveLength(1);
+    // The page sent what it had: the entry nobody claimed was not among it.
+    expect(await readingsWith(deleted, today)).toHaveLength(0);
+
+    const other = held.getByRole("listitem").filter({ hasText: deleted });
+    await other.getByRole("button", { name: /^Delete/ }).click();
+    await other.getByRole("group", { name: "Confirm delete" }).getByRole("button", { name: "Delete entry" }).click();
+    await expect(held).toBeHidden();
+    expect((await deviceStore(page)).queue).toHaveLength(0);
+    expect(await readingsWith(deleted, today)).toHaveLength(0);
+  });
+
+  test("deleting a waiting find that a waiting handover needs names the handover and offers to delete both or keep them", async ({ page, context }) => {
+    await openFieldPage(page);
+    const description = marker("find-with-handover");
+    const receiver = marker("Courier");
+    await context.setOffline(true);
+    await enterFind(page, description);
+    await page.getByRole("button", { name: "Custody handover", exact: true }).click();
+    const findSelect = page.getByLabel("Find", { exact: true });
+    await findSelect.selectOption((await findSelect.locator("option", { hasText: description }).getAttribute("value"))!);
+    await page.getByLabel("Purpose", { exact: true }).selectOption({ label: "To the state lab" });
+    await page.getByLabel("Received by").fill(receiver);
+    await page.getByLabel("Place it goes to").fill("State lab, Fennick");
+    await page.getByLabel("Receiver's name, typed as their signature").fill(receiver);
+    await page.getByRole("button", { name: "Save to the queue" }).click();
+    await expect(page.getByRole("heading", { name: /^2 waiting to send/ })).toBeVisible();
+
+    const queue = page.getByRole("list", { name: "Entries in the queue, in sending order" });
+    const find = queue.getByRole("listitem").filter({ hasText: `Find · Modern debris · ${description}` });
+    await find.getByRole("button", { name: /^Delete/ }).click();
+    const confirm = find.getByRole("group", { name: "Confirm delete" });
+    await expect(confirm).toContainText("A handover waiting in the queue is for this find: without the find it cannot be sent.");
+    await expect(confirm.getByRole("listitem")).toHaveText([new RegExp(`Handover · new find "${description}.*${receiver}`)]);
+    await expect(confirm.getByRole("button", { name: "Keep them" })).toBeFocused();
+    await confirm.getByRole("button", { name: "Keep them" }).click();
+    await expect(page.getByRole("heading", { name: /^2 waiting to send/ })).toBeVisible();
+
+    await find.getByRole("button", { name: /^Delete/ }).click();
+    await find.getByRole("button", { name: "Delete the find and its handover" }).click();
+    await expect(page.getByRole("heading", { name: /^0 waiting to send/ })).toBeVisible();
+    await context.setOffline(false);
+    await expect(page.getByRole("status").filter({ hasText: "Online" })).toBeVisible();
+    expect(await findsWith(description)).toHaveLength(0);
+    expect((await deviceStore(page)).queue).toHaveLength(0);
+  });
+});
+
+test.describe("sending in the background, with the service worker", () => {
+  test.use({ timezoneId: "America/New_York", viewport: { width: 390, height: 844 } });
+
+  test("an entry made offline is sent by the service worker once the page is closed (Background Sync), once", async ({ page, context, baseURL }) => {
+    test.setTimeout(90_000);
+    await openFieldPage(page);
+    await waitUntilOfflineReady(page);
+    const note = marker("background-reading");
+    await context.setOffline(true);
+    await enterReading(page, note, localValue(new Date(), "America/New_York"));
+    await expect(page.getByRole("heading", { name: /^1 waiting to send/ })).toBeVisible();
+    // The page asked the browser to send in the background when there is a connection.
+    await expect.poll(() => page.evaluate(async () => {
+      const registration = (await navigator.serviceWorker.ready) as ServiceWorkerRegistration & { sync: { getTags(): Promise<string[]> } };
+      return registration.sync.getTags();
+    })).toContain("firmsand-field-send");
+    await page.close();
+    await context.setOffline(false);
+
+    // No page of the app is open: the browser's sync event reaches the worker (dispatched here through the DevTools protocol, as the browser does when the connection returns).
+    const blank = await context.newPage();
+    const cdp = await context.newCDPSession(blank);
+    const registrations: Array<{ registrationId: string; scopeURL: string; isDeleted: boolean }> = [];
+    cdp.on("ServiceWorker.workerRegistrationUpdated", (event) => registrations.push(...event.registrations));
+    await cdp.send("ServiceWorker.enable");
+    await expect.poll(() => registrations.find((registration) => registration.scopeURL === `${baseURL}/` && !registration.isDeleted)?.registrationId).toBeTruthy();
+    const { registrationId } = registrations.find((registration) => registration.scopeURL === `${baseURL}/` && !registration.isDeleted)!;
+    await cdp.send("ServiceWorker.dispatchSyncEvent", { origin: baseURL!, registrationId, tag: "firmsand-field-send", lastChance: false });
+
+    const today = new Date().toISOString().slice(0, 10);
+    await expect.poll(async () => (await readingsWith(note, today)).length, { timeout: 30_000 }).toBe(1);
+    await cdp.detach();
+
+    // Opened again, the page shows it sent and sends nothing more.
+    const again = await context.newPage();
+    await again.goto(`/projects/${projectId}/field`);
+    await expect(again.getByRole("heading", { name: /^0 waiting to send; last sent/ })).toBeVisible();
+    await expect(again.getByRole("region", { name: "Sent from this device" })).toContainText("Reading · OF-1 return outfall");
+    expect(await readingsWith(note, today)).toHaveLength(1);
+  });
+});

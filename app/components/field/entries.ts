@@ -1,27 +1,22 @@
 import type { z } from "zod";
 import { CUSTODY_PURPOSE_LABELS, FIND_CATEGORY_LABELS, FIND_STATUS_LABELS, type CustodyPurpose, type FindCategory, type FindStatus } from "../../../shared/finds/finds";
+import { CAKE_SOLIDS_MISSING, cakeSolidsInForce } from "../../../shared/dewatering/haul";
 import { localDayOf } from "../../../shared/local-time";
 import {
   custodyInputSchema, diveInputSchema, fillInputSchema, findInputSchema, haulInputSchema, jarTestInputSchema, readingInputSchema, shiftInputSchema, sightingInputSchema,
   statusInputSchema, tubeStatusSchema,
 } from "~/lib/field-records/inputs";
 import type { FieldSnapshot } from "~/models/field-snapshot";
-import { QUEUED_PREFIX, type EntryKind } from "./store";
+import { ENTRY_LABELS, fieldOf, jarRowsOf, MAX_JARS, type FormValues } from "./entry-fields";
+import type { EntryKind } from "./store";
+
+export { ENTRY_LABELS, fieldOf, findTargetOf, jarRowsOf, MAX_JARS, type FormValues } from "./entry-fields";
 
 /**
  * The field entries the page takes offline: what each form holds, the API body it becomes, and the
  * check with the server's own schema, so an entry the server would refuse is never queued.
  */
 
-export type FormValues = Record<string, string | boolean>;
-
-export const ENTRY_LABELS: Record<EntryKind, string> = {
-  dive: "Dive log entry", reading: "Turbidity reading", find: "Find", "find-status": "Find status", custody: "Custody handover", sighting: "Wildlife sighting",
-  "tube-fill": "Tube fill", "tube-status": "Tube status", shift: "Shift log", "jar-test": "Jar test", haul: "Haul ticket",
-};
-
-/** The most dosed jars one jar test takes (the server's schema). */
-export const MAX_JARS = 8;
 
 const pad = (value: number) => String(value).padStart(2, "0");
 
@@ -111,12 +106,6 @@ const share = (form: FormValues, name: string) => {
   return typeof value === "number" ? value / 100 : value;
 };
 
-/** The jar rows of a jar test's form that hold anything, with their row numbers in the form. */
-export function jarRowsOf(form: FormValues): number[] {
-  const count = Math.min(MAX_JARS, Number(form.jarCount) || 0);
-  return Array.from({ length: count }, (_, index) => index).filter((index) => ["dose", "ntu", "clarity"].some((part) => text(form, `jar-${index}-${part}`) !== undefined));
-}
-
 /** The API's JSON body for a form (field names are the body's). */
 export function bodyOf(kind: EntryKind, form: FormValues): Record<string, unknown> {
   switch (kind) {
@@ -188,41 +177,20 @@ export function bodyOf(kind: EntryKind, form: FormValues): Record<string, unknow
   }
 }
 
-/**
- * The form field an error's path points at (the body's names differ from the form's where the body
- * nests: a shift's flow, a jar's dose, a ticket's load), so the message sits beside its input.
- */
-export function fieldOf(kind: EntryKind, path: ReadonlyArray<PropertyKey>, form: FormValues = {}): string {
-  const [first, second, third] = path.map(String);
-  if (kind === "shift") {
-    if (first === "slurryFlow") return "flowValue";
-    if (first === "totaliser") return second === "start" ? "totaliserStart" : "totaliserEnd";
-    if (first === "polymer") return second === "doseMgPerL" ? "dose" : second === "stockPercent" ? "stockPercent" : second === "lot" ? "polymerLot" : "polymerProduct";
-    return { solidsByWeight: "solidsPercent", slurrySpecificGravity: "slurrySg", solidsSpecificGravity: "solidsSg" }[first] ?? first ?? "form";
-  }
-  if (kind === "jar-test") {
-    if (first === "polymer") return second === "lot" ? "polymerLot" : second === "benchStockPercent" ? "benchStockPercent" : "polymerProduct";
-    if (first === "raw") return "rawNtu";
-    if (first === "jars") {
-      if (second === undefined) return "jar-0-dose";
-      const row = jarRowsOf(form)[Number(second)] ?? Number(second);
-      return third === "settlingMinutes" ? "settlingMinutes" : `jar-${row}-${third === "clarity" ? "clarity" : third === "turbidityNtu" ? "ntu" : "dose"}`;
-    }
-    return { chosenDoseMgPerL: "chosenDose" }[first] ?? first ?? "form";
-  }
-  if (kind === "haul") return { load: "loadValue", cakeSolidsByWeight: "cakeSolidsPercent" }[first] ?? first ?? "form";
-  return first ?? "form";
-}
-
 const SCHEMAS: Record<EntryKind, z.ZodType> = {
   dive: diveInputSchema, reading: readingInputSchema, find: findInputSchema, "find-status": statusInputSchema, custody: custodyInputSchema, sighting: sightingInputSchema,
   "tube-fill": fillInputSchema, "tube-status": tubeStatusSchema, shift: shiftInputSchema, "jar-test": jarTestInputSchema, haul: haulInputSchema,
 };
 
-/** The server's own check, run on the device: errors per form field (first message each). */
-export function checkBody(kind: EntryKind, body: Record<string, unknown>, form: FormValues = {}): Record<string, string> {
+/**
+ * The server's own check, run on the device: errors per form field (first message each). Beside the
+ * schemas, the rules the server applies with the project's settings, from the same shared functions
+ * (a ticket's cake solids: its own or the project's default, cakeSolidsInForce).
+ */
+export function checkBody(kind: EntryKind, body: Record<string, unknown>, form: FormValues, snapshot: Pick<FieldSnapshot, "dewatering">): Record<string, string> {
   const result = SCHEMAS[kind].safeParse(body);
   const errors: Record<string, string> = {};
+  if (kind === "haul" && body.cakeSolidsByWeight == null && cakeSolidsInForce(null, snapshot.dewatering?.cakeSolidsByWeight) === null) errors.cakeSolidsPercent = CAKE_SOLIDS_MISSING;
   if ((kind === "tube-status" || kind === "tube-fill") && !text(form, "tube")) errors.tube = "choose the tube";
   if ((kind === "find-status" || kind === "custody") && !text(form, "find")) errors.find = "choose the find";
   if (kind === "dive" && body.team === undefined) errors.team = "choose the team";
@@ -285,12 +253,4 @@ export function summaryOf(kind: EntryKind, body: Record<string, unknown>, snapsh
       return `Haul ticket ${body.ticketNumber} · ${body.truck} → ${site} · ${load.value} ${unit}`;
     }
   }
-}
-
-/** The find a handover or a status change names: a find the server has ("12") or one waiting in this device's queue ("queued:<id>"). */
-export function findTargetOf(form: FormValues): { findId: number } | { entryId: string } | null {
-  const value = text(form, "find");
-  if (value === undefined) return null;
-  if (value.startsWith(QUEUED_PREFIX)) return { entryId: value.slice(QUEUED_PREFIX.length) };
-  return /^\d+$/.test(value) ? { findId: Number(value) } : null;
 }

@@ -75,7 +75,7 @@ export function EntryForm({ kind, snapshot, initial, initialPhotos = [], serverE
   async function submit(event: React.FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const body = bodyOf(kind, values);
-    const found = locked ? {} : checkBody(kind, body, values);
+    const found = locked ? {} : checkBody(kind, body, values, snapshot);
     setErrors(found);
     if (Object.keys(found).length > 0) {
       // Focus the first field in error, so a keyboard or screen-reader user lands on it.

@@ -5,8 +5,11 @@ import { FIND_STATUS_LABELS, type FindStatus } from "../../../shared/finds/finds
 import { blankForm, deviceIso, ENTRY_LABELS, findTargetOf, recordTimeOf, summaryOf } from "./entries";
 import { EntryForm, type EntryDraft } from "./entry-form";
 import { bigButton } from "./inputs";
-import { claimUnowned, deleteEntry, keptSnapshot, nextOrder, onChange, putEntry, queuedEntries, QUEUED_PREFIX, saveSnapshot, sentEntries, syncState, type EntryKind, type QueueEntry, type SentEntry, type SyncState } from "./store";
-import { checkClock, CLOCK_WARNING_MS, sendQueue, type SyncReport } from "./sync";
+import {
+  claimEntries, deleteEntry, deleteWithDependents, dependentsOf, keptSnapshot, nextOrder, onChange, putEntry, queuedEntries, QUEUED_PREFIX, saveSnapshot, sentEntries, syncState,
+  unownedEntries, type EntryKind, type QueueEntry, type SentEntry, type SyncState,
+} from "./store";
+import { askForBackgroundSend, checkClock, CLOCK_WARNING_MS, sendQueue, type SyncReport } from "./sync";
 
 /** "10:42" today, "3 Dec 10:42" another day: the device's clock. */
 export function shortTime(iso: string | undefined): string {
@@ -135,6 +138,88 @@ function ConflictChoice({ entry, snapshot, onChoose }: { entry: QueueEntry; snap
   );
 }
 
+/**
+ * Deleting a waiting entry asks first. A find that waiting handovers need names them: without the
+ * find they cannot be sent, so the choice is to delete the find with its handovers, or keep them all.
+ */
+function ConfirmDelete({ entry, dependents, onDone }: { entry: QueueEntry; dependents: QueueEntry[]; onDone: () => void }) {
+  const [busy, setBusy] = useState(false);
+  const remove = async (action: () => Promise<unknown>) => {
+    setBusy(true);
+    try {
+      await action();
+    } finally {
+      setBusy(false);
+      onDone();
+    }
+  };
+  if (dependents.length === 0) {
+    return (
+      <div role="group" aria-label="Confirm delete" className="mt-2 flex flex-wrap items-center gap-3">
+        <span>Delete this entry? It has not been sent{entry.serverId !== undefined ? " in full" : ""} and cannot be recovered.</span>
+        <button type="button" className={bigButton.danger} disabled={busy} onClick={() => void remove(() => deleteEntry(entry))}>Delete entry</button>
+        <button type="button" className={bigButton.plain} autoFocus onClick={onDone}>Keep it</button>
+      </div>
+    );
+  }
+  const handovers = dependents.length === 1 ? "its handover" : `its ${dependents.length} handovers`;
+  return (
+    <div role="group" aria-label="Confirm delete" className="mt-2 rounded border-2 border-caution p-3">
+      <p className="font-medium">
+        {dependents.length === 1 ? "A handover waiting in the queue is for this find" : `${dependents.length} handovers waiting in the queue are for this find`}: without the find {dependents.length === 1 ? "it" : "they"} cannot be sent.
+      </p>
+      <ul className="mt-1 list-disc pl-5">
+        {dependents.map((dependent) => <li key={dependent.id}>{dependent.summary}</li>)}
+      </ul>
+      <p className="mt-1 text-sm">Delete the find and {handovers} together, or keep {dependents.length === 1 ? "both" : "them all"}. None has been sent{entry.serverId !== undefined ? " in full" : ""}; deleted entries cannot be recovered.</p>
+      <div className="mt-2 flex flex-wrap gap-3">
+        <button type="button" className={bigButton.danger} disabled={busy} onClick={() => void remove(() => deleteWithDependents(entry))}>Delete the find and {handovers}</button>
+        <button type="button" className={bigButton.plain} autoFocus onClick={onDone}>Keep them</button>
+      </div>
+    </div>
+  );
+}
+
+/**
+ * Entries kept on this device before Firmsand recorded who made each one: nobody's name is put on
+ * them until the person signed in says they are theirs (sent under that name) or deletes them.
+ */
+function UnownedEntries({ entries, userName, onClaim, onChanged }: { entries: QueueEntry[]; userName: string; onClaim: (ids: string[]) => Promise<void>; onChanged: () => void }) {
+  const [confirmDelete, setConfirmDelete] = useState<string | null>(null);
+  return (
+    <section aria-labelledby="unowned-heading" className="mt-4 rounded border-2 border-caution bg-panel p-4">
+      <h2 id="unowned-heading" className="text-lg font-semibold">Entries from before the update: whose are these?</h2>
+      <p className="mt-1">
+        {entries.length === 1 ? "This entry was" : `These ${entries.length} entries were`} kept on this device before Firmsand noted who made each entry. {entries.length === 1 ? "It has" : "They have"} not been sent and will not be until someone says whose {entries.length === 1 ? "it is" : "they are"}.
+        Claim only what you made: it is then sent under your name, {userName}. Leave someone else's for them to claim when they sign in on this device.
+      </p>
+      <p className="mt-1 text-sm text-muted">A handover and the find it is for go together.</p>
+      <ol className="mt-3 space-y-3" aria-label="Entries from before the update">
+        {entries.map((entry) => (
+          <li key={entry.id} className="rounded border-2 border-line p-3" data-unowned-id={entry.id}>
+            <p className="font-medium">{entry.summary}</p>
+            <p className="text-sm text-muted">
+              Made <time className="figures" dateTime={entry.capturedAt}>{shortTime(entry.capturedAt)}</time>
+              {entry.photos.length ? ` · ${entry.photos.length} photo${entry.photos.length > 1 ? "s" : ""}` : ""}
+            </p>
+            {confirmDelete === entry.id ? (
+              <ConfirmDelete entry={entry} dependents={dependentsOf(entry.id, entries)} onDone={() => { setConfirmDelete(null); onChanged(); }} />
+            ) : (
+              <div className="mt-2 flex flex-wrap gap-3">
+                <button type="button" className={bigButton.primary} onClick={() => void onClaim([entry.id])}>Mine: send it under my name<span className="sr-only"> ({entry.summary})</span></button>
+                <button type="button" className={bigButton.plain} onClick={() => setConfirmDelete(entry.id)}>Delete<span className="sr-only"> {entry.summary}</span></button>
+              </div>
+            )}
+          </li>
+        ))}
+      </ol>
+      {entries.length > 1 ? (
+        <button type="button" className={`${bigButton.plain} mt-3`} onClick={() => void onClaim(entries.map((entry) => entry.id))}>{entries.length === 2 ? "Both are mine" : `All ${entries.length} are mine`}</button>
+      ) : null}
+    </section>
+  );
+}
+
 interface FieldPageProps {
   snapshot: FieldSnapshot;
   /** "server": fresh from the server now; "device": the copy this device kept. */
@@ -159,6 +244,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
   const [kind, setKind] = useState<EntryKind | null>(kinds[0] ?? null);
   const [formKey, setFormKey] = useState(0);
   const [entries, setEntries] = useState<QueueEntry[] | null>(null);
+  const [unowned, setUnowned] = useState<QueueEntry[]>([]);
   const [sent, setSent] = useState<SentEntry[]>([]);
   const [state, setState] = useState<SyncState>({ userId, projectId });
   const [editing, setEditing] = useState<QueueEntry | null>(null);
@@ -171,26 +257,25 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
 
   const refresh = useCallback(async () => {
     try {
-      const [queued, recent, sync] = await Promise.all([queuedEntries(owner), sentEntries(owner), syncState(owner)]);
+      const [queued, recent, sync, ownerless] = await Promise.all([queuedEntries(owner), sentEntries(owner), syncState(owner), unownedEntries(projectId)]);
       setEntries(queued);
+      setUnowned(ownerless);
       setSent(recent);
       setState(sync);
     } catch (error) {
       setStorageError(`This device's storage cannot be read (${error instanceof Error ? error.message : "unknown error"}): entries cannot be kept offline in this browser.`);
     }
-  }, [owner]);
+  }, [owner, projectId]);
 
   // The project data used offline is the copy saved on each load with signal.
   useEffect(() => {
     // A page the service worker kept carries the data it was rendered with: never let it replace a newer copy.
     if (source === "server") {
-      // Entries kept before entries had owners belong to whoever now opens the page with signal.
-      void claimUnowned(owner).then(() => refresh()).catch(() => {});
       void keptSnapshot(projectId)
         .then((kept) => (!kept || kept.snapshot.takenAt < snapshot.takenAt ? saveSnapshot(snapshot) : undefined))
         .catch(() => {});
     }
-  }, [projectId, snapshot, source, owner, refresh]);
+  }, [projectId, snapshot, source]);
 
   useEffect(() => {
     void refresh();
@@ -204,6 +289,8 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
     try {
       const report = await sendQueue(owner, () => void refresh());
       setLastRun(report);
+      // No connection or no working server: the browser sends in the background once there is, even with the page closed.
+      if (report.stoppedBy === "offline" || report.stoppedBy === "server") void askForBackgroundSend();
       if (!report.stoppedBy && report.sent.length === 0 && report.rejected.length === 0) await checkClock(owner);
     } finally {
       setSending(false);
@@ -260,6 +347,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
       throw error;
     }
     setEditing(null);
+    if (!navigator.onLine) void askForBackgroundSend();
     setSavedNote(`${ENTRY_LABELS[entryKind]} saved to the queue${navigator.onLine ? "; sending…" : "; it will be sent when there is a connection"}.`);
     setFormKey((value) => value + 1);
     await refresh();
@@ -323,6 +411,22 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
         </section>
       ) : null}
 
+      {unowned.length > 0 ? (
+        <UnownedEntries
+          entries={unowned}
+          userName={snapshot.user.name}
+          onClaim={async (ids) => {
+            const claimed = await claimEntries(owner, ids);
+            setSavedNote(`${claimed.length} ${claimed.length === 1 ? "entry" : "entries"} from before the update now yours${navigator.onLine ? "; sending…" : "; sent when there is a connection"}.`);
+            await refresh();
+            queueHeading.current?.focus();
+            if (navigator.onLine) void send();
+            else void askForBackgroundSend();
+          }}
+          onChanged={() => void refresh()}
+        />
+      ) : null}
+
       <section aria-labelledby="queue-heading" className="mt-4 rounded border border-line bg-panel p-4">
         <div className="flex flex-wrap items-center justify-between gap-3">
           <h2 id="queue-heading" ref={queueHeading} tabIndex={-1} className="text-lg font-semibold">
@@ -350,11 +454,7 @@ export function FieldPage({ snapshot, source }: FieldPageProps) {
                 {entry.status === "conflict" && entry.current ? (
                   <ConflictChoice entry={entry} snapshot={snapshot} onChoose={(choice) => void resolve(entry, choice)} />
                 ) : confirmDelete === entry.id ? (
-                  <div role="group" aria-label="Confirm delete" className="mt-2 flex flex-wrap items-center gap-3">
-                    <span>Delete this entry? It has not been sent{entry.serverId !== undefined ? " in full" : ""} and cannot be recovered.</span>
-                    <button type="button" className={bigButton.danger} onClick={() => void deleteEntry(entry).then(() => { setConfirmDelete(null); return refresh(); })}>Delete entry</button>
-                    <button type="button" className={bigButton.plain} onClick={() => setConfirmDelete(null)}>Keep it</button>
-                  </div>
+                  <ConfirmDelete entry={entry} dependents={dependentsOf(entry.id, entries)} onDone={() => { setConfirmDelete(null); void refresh(); }} />
                 ) : (
                   <div className="mt-2 flex flex-wrap gap-3">
                     <button type="button" className={bigButton.plain} onClick={() => setEditing(entry)}>{entry.status === "rejected" ? "Fix" : "Edit"}<span className="sr-only"> {entry.summary}</span></button>

@@ -96,6 +96,12 @@ export interface SyncState {
   lastAttemptAt?: string;
   /** Server clock minus device clock, from the Date header of the last answer. */
   clockOffsetMs?: number;
+  /**
+   * Who is sending this person's entries now (a window or the service worker) and until when
+   * (epoch ms): the one-sender mark where the browser has no Web Locks (takeSendingLease).
+   */
+  sendingBy?: string;
+  sendingUntil?: number;
 }
 
 interface FieldDb extends DBSchema {
@@ -105,18 +111,23 @@ interface FieldDb extends DBSchema {
   sync: { key: [number, number]; value: SyncState };
 }
 
+/** The store's version: 1 kept entries with no owner; 2 keeps each entry's author (userId). */
+export const FIELD_DB_VERSION = 2;
+
 let opened: Promise<IDBPDatabase<FieldDb>> | null = null;
 
 export function fieldDb(): Promise<IDBPDatabase<FieldDb>> {
-  opened ??= openDB<FieldDb>(FIELD_DB_NAME, 2, {
+  opened ??= openDB<FieldDb>(FIELD_DB_NAME, FIELD_DB_VERSION, {
     upgrade(db, oldVersion, _newVersion, transaction) {
       if (oldVersion < 1) {
         db.createObjectStore("projects", { keyPath: "projectId" });
         db.createObjectStore("queue", { keyPath: "id" }).createIndex("byProject", "projectId");
         db.createObjectStore("sent", { keyPath: "id" }).createIndex("byProject", "projectId");
       }
-      // Version 2: entries belong to a person. Entries kept before have no owner and are claimed
-      // by the next person who opens their project's page with signal (claimUnowned); the
+      // Version 2: entries belong to a person. Entries kept before have no author: they stay in
+      // the queue as they were, outside every person's list (the byOwner index leaves out a row
+      // without userId), until someone signed in says they are theirs or deletes them
+      // (unownedEntries, claimEntries); none is ever sent under a name it was not given. The
       // sending state is kept per person and project.
       transaction.objectStore("queue").createIndex("byOwner", ["userId", "projectId"]);
       transaction.objectStore("sent").createIndex("byOwner", ["userId", "projectId"]);
@@ -125,11 +136,16 @@ export function fieldDb(): Promise<IDBPDatabase<FieldDb>> {
     },
     // Another tab holds an older version open: let it go so this one can open.
     blocking() {
-      void opened?.then((db) => db.close());
-      opened = null;
+      closeFieldDb();
     },
   });
   return opened;
+}
+
+/** Closes this context's connection (the next call opens it again): a newer version waits on it, and tests reopen the store. */
+export function closeFieldDb(): void {
+  void opened?.then((db) => db.close()).catch(() => {});
+  opened = null;
 }
 
 /** Tells the other tabs of this device that the queue changed. */
@@ -187,19 +203,80 @@ export async function sentEntries(owner: Owner, limit = 20): Promise<SentEntry[]
   return entries.sort((a, b) => b.sentAt.localeCompare(a.sentAt)).slice(0, limit);
 }
 
-/**
- * Entries kept before entries had owners (store version 1) are given to the person now signed in
- * on this project's page, as they were made on this device under the sign-in it had then.
- */
-export async function claimUnowned(owner: Owner): Promise<void> {
-  const db = await fieldDb();
-  const transaction = db.transaction(["queue", "sent"], "readwrite");
-  for (const store of ["queue", "sent"] as const) {
-    for (const entry of await transaction.objectStore(store).index("byProject").getAll(owner.projectId)) {
-      if (entry.userId === undefined) await transaction.objectStore(store).put({ ...entry, userId: owner.userId });
+/** The queued entry a handover needs (its find made on this device): `parent`, or the "queued:<id>" its form names. */
+export function parentOf(entry: Pick<QueueEntry, "parent" | "form">): string | undefined {
+  if (entry.parent !== undefined) return entry.parent;
+  const find = entry.form.find;
+  return typeof find === "string" && find.startsWith(QUEUED_PREFIX) ? find.slice(QUEUED_PREFIX.length) : undefined;
+}
+
+/** The entries among `entries` that need `id` to be sent first, and those that need them, and so on. */
+export function dependentsOf<T extends Pick<QueueEntry, "id" | "parent" | "form">>(id: string, entries: T[]): T[] {
+  const found: T[] = [];
+  const wanted = new Set([id]);
+  for (let grew = true; grew; ) {
+    grew = false;
+    for (const entry of entries) {
+      const parent = parentOf(entry);
+      if (parent !== undefined && wanted.has(parent) && !wanted.has(entry.id)) {
+        wanted.add(entry.id);
+        found.push(entry);
+        grew = true;
+      }
     }
   }
+  return found;
+}
+
+/**
+ * Entries kept on this device before entries had an author (store version 1) for a project, in
+ * sending order. Nobody can say whose they are but the people who made them: the page shows them
+ * apart ("whose are these?") and sends none until a person signed in claims them.
+ */
+export async function unownedEntries(projectId: number): Promise<QueueEntry[]> {
+  const entries = await (await fieldDb()).getAllFromIndex("queue", "byProject", projectId);
+  return entries.filter((entry) => entry.userId === undefined).sort((a, b) => a.order - b.order);
+}
+
+/**
+ * The person signed in says these entries without an author are theirs: they join that person's
+ * queue and are sent under their name. An entry goes with those it is linked to (a handover and the
+ * find it needs), since neither can be sent without the other. Returns the ids claimed.
+ */
+export async function claimEntries(owner: Owner, ids: string[]): Promise<string[]> {
+  const db = await fieldDb();
+  const transaction = db.transaction("queue", "readwrite");
+  const unowned = (await transaction.store.index("byProject").getAll(owner.projectId)).filter((entry) => entry.userId === undefined);
+  const byId = new Map(unowned.map((entry) => [entry.id, entry]));
+  const claimed = new Set<string>();
+  const add = (id: string) => {
+    const entry = byId.get(id);
+    if (!entry || claimed.has(id)) return;
+    claimed.add(id);
+    const parent = parentOf(entry);
+    if (parent !== undefined) add(parent);
+    for (const dependent of dependentsOf(id, unowned)) add(dependent.id);
+  };
+  for (const id of ids) add(id);
+  for (const id of claimed) await transaction.store.put({ ...byId.get(id)!, userId: owner.userId });
   await transaction.done;
+  announceChange(owner.projectId);
+  return [...claimed];
+}
+
+/**
+ * Deletes a waiting entry and every waiting entry that needs it (a find and its handovers), in one
+ * transaction. Returns the ids deleted.
+ */
+export async function deleteWithDependents(entry: QueueEntry): Promise<string[]> {
+  const db = await fieldDb();
+  const transaction = db.transaction("queue", "readwrite");
+  const sameProject = await transaction.store.index("byProject").getAll(entry.projectId);
+  const ids = [entry.id, ...dependentsOf(entry.id, sameProject.filter((other) => other.userId === entry.userId)).map((dependent) => dependent.id)];
+  for (const id of ids) await transaction.store.delete(id);
+  await transaction.done;
+  announceChange(entry.projectId);
+  return ids;
 }
 
 export async function putEntry(entry: QueueEntry): Promise<void> {
@@ -242,6 +319,43 @@ export async function updateSyncState(owner: Owner, change: Partial<SyncState>):
   const state = (await transaction.store.get([owner.userId, owner.projectId])) ?? { ...owner };
   await transaction.store.put({ ...state, ...change, userId: owner.userId, projectId: owner.projectId });
   await transaction.done;
+}
+
+/** How long a sender's mark holds without being renewed: a sender renews it before each entry, and a closed page's mark runs out. */
+export const SENDING_LEASE_MS = 90_000;
+
+/**
+ * Takes (or renews) the mark that says `holder` is sending this person's entries in this project;
+ * false while another sender's mark has not run out. Read and written in one transaction, so two
+ * senders asking at once cannot both get it.
+ */
+export async function takeSendingLease(owner: Owner, holder: string, now = Date.now()): Promise<boolean> {
+  const db = await fieldDb();
+  const transaction = db.transaction("sync", "readwrite");
+  const state = (await transaction.store.get([owner.userId, owner.projectId])) ?? { ...owner };
+  const held = state.sendingBy !== undefined && state.sendingBy !== holder && (state.sendingUntil ?? 0) > now;
+  if (!held) await transaction.store.put({ ...state, sendingBy: holder, sendingUntil: now + SENDING_LEASE_MS });
+  await transaction.done;
+  return !held;
+}
+
+/** Gives the mark up (only the holder's own). */
+export async function releaseSendingLease(owner: Owner, holder: string): Promise<void> {
+  const db = await fieldDb();
+  const transaction = db.transaction("sync", "readwrite");
+  const state = await transaction.store.get([owner.userId, owner.projectId]);
+  if (state?.sendingBy === holder) await transaction.store.put({ ...state, sendingBy: undefined, sendingUntil: undefined });
+  await transaction.done;
+}
+
+/** Every person and project with entries waiting to be sent on this device (what the service worker sends in the background). */
+export async function ownersWithWaiting(): Promise<Owner[]> {
+  const all = await (await fieldDb()).getAll("queue");
+  const owners = new Map<string, Owner>();
+  for (const entry of all) {
+    if (entry.userId !== undefined && entry.status === "waiting") owners.set(`${entry.userId}:${entry.projectId}`, { userId: entry.userId, projectId: entry.projectId });
+  }
+  return [...owners.values()];
 }
 
 /** The next sending position: after every entry made so far on this device. */

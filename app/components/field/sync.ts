@@ -1,5 +1,7 @@
-import { ENTRY_LABELS, fieldOf, findTargetOf } from "./entries";
-import { markSent, putEntry, queuedEntries, queuedEntry, sentEntry, updateSyncState, type Owner, type QueueEntry, type SentEntry } from "./store";
+import { ENTRY_LABELS, fieldOf, findTargetOf } from "./entry-fields";
+import {
+  markSent, ownersWithWaiting, putEntry, queuedEntries, queuedEntry, releaseSendingLease, sentEntry, takeSendingLease, updateSyncState, type Owner, type QueueEntry, type SentEntry,
+} from "./store";
 
 /**
  * Sending the queue: entries go one at a time in the order they were made, each with its client
@@ -21,7 +23,7 @@ import { markSent, putEntry, queuedEntries, queuedEntry, sentEntry, updateSyncSt
 
 export const CLOCK_WARNING_MS = 5 * 60_000;
 
-export type StopReason = "offline" | "signed-out" | "server";
+export type StopReason = "offline" | "signed-out" | "server" | "busy";
 
 export interface SyncReport {
   sent: SentEntry[];
@@ -229,7 +231,8 @@ async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => voi
   try {
     if (working.serverId === undefined) {
       // Marked before the request: if no answer comes, the server may have stored it (the key makes a retry safe).
-      await putEntry({ ...working, mayHaveReachedServer: true });
+      working = { ...working, mayHaveReachedServer: true };
+      await putEntry(working);
       const answer = await send(`${base}/${pathOf(entry, findId)}`, entry.id, { userId: entry.userId, json: entry.body });
       if (answer.clockOffsetMs !== undefined) noteClock(answer.clockOffsetMs);
       if (answer.status >= 400) {
@@ -276,22 +279,33 @@ async function sendEntry(entry: QueueEntry, noteClock: (offsetMs: number) => voi
 
 let running: Promise<SyncReport> | null = null;
 
+/** The Web Locks name for sending one person's entries in a project: the page's windows and the service worker ask for the same. */
+export function sendLockName(owner: Owner): string {
+  return `firmsand-field-send-${owner.userId}-${owner.projectId}`;
+}
+
 /**
- * Sends every waiting entry of this person in the project, in order. One run at a time in this tab,
- * and one per project across this device's tabs (Web Locks), so two tabs never send the same entry at once.
+ * Sends every waiting entry of this person in the project, in order. One run at a time in this
+ * context, and one sender per person and project on the device: the page's windows and the service
+ * worker's background sending take the same Web Lock, so two never send the same entry at once. A
+ * browser without Web Locks uses a mark with a lease in the store instead (takeSendingLease),
+ * renewed before each entry; a run that finds another sender's mark stops at once ("busy").
+ * `locks` is the context's LockManager (null: use the mark).
  */
-export function sendQueue(owner: Owner, onProgress: (report: SyncReport) => void = () => {}): Promise<SyncReport> {
-  const { projectId } = owner;
+export function sendQueue(owner: Owner, onProgress: (report: SyncReport) => void = () => {}, locks: LockManager | null = typeof navigator !== "undefined" && navigator.locks ? navigator.locks : null): Promise<SyncReport> {
   running ??= (async () => {
-    const run = async () => {
+    const holder = crypto.randomUUID();
+    const run = async (leased: boolean) => {
       const report: SyncReport = { sent: [], rejected: [] };
       let clockOffsetMs: number | undefined;
       const entries = (await queuedEntries(owner)).filter((entry) => entry.status === "waiting");
       await updateSyncState(owner, { lastAttemptAt: new Date().toISOString() });
       for (const listed of entries) {
         try {
-          // Read again: sending an earlier entry may have given this one its find's id.
-          const entry = (await queuedEntry(listed.id)) ?? listed;
+          if (leased && !(await takeSendingLease(owner, holder))) throw new Unsent("busy", BUSY_MESSAGE);
+          // Read again: sending an earlier entry may have given this one its find's id, or the user deleted it meanwhile.
+          const entry = await queuedEntry(listed.id);
+          if (!entry || entry.status !== "waiting") continue;
           const outcome = await sendEntry(entry, (offset) => (clockOffsetMs = offset));
           if ("sentAt" in outcome) report.sent.push(outcome);
           else report.rejected.push(outcome);
@@ -309,12 +323,60 @@ export function sendQueue(owner: Owner, onProgress: (report: SyncReport) => void
       return report;
     };
     try {
-      return typeof navigator !== "undefined" && navigator.locks ? await navigator.locks.request(`firmsand-field-send-${projectId}`, run) : await run();
+      if (locks) return await locks.request(sendLockName(owner), () => run(false));
+      if (!(await takeSendingLease(owner, holder))) return { sent: [], rejected: [], stoppedBy: "busy", stopMessage: BUSY_MESSAGE } satisfies SyncReport;
+      try {
+        return await run(true);
+      } finally {
+        await releaseSendingLease(owner, holder);
+      }
     } finally {
       running = null;
     }
   })();
   return running;
+}
+
+const BUSY_MESSAGE = "These entries are being sent by another window of this app or in the background; this page shows them as they go.";
+
+/** The tag the page registers and the service worker's `sync` event answers (Background Sync). */
+export const BACKGROUND_SEND_TAG = "firmsand-field-send";
+
+/**
+ * What the service worker does on a `sync` event: sends the waiting entries of every person and
+ * project on the device, each under its author's name (Firmsand-Entry-User), so an entry whose
+ * author is not the one signed in now is refused by the server and waits for them. Throws when a run
+ * stopped for want of a connection or a working server, so the browser tries again later; a run
+ * stopped because its author is signed out, or because another sender has the entries, is done.
+ */
+export async function sendAllWaiting(locks: LockManager | null = typeof navigator !== "undefined" && navigator.locks ? navigator.locks : null): Promise<SyncReport[]> {
+  const reports: SyncReport[] = [];
+  let retry: string | undefined;
+  for (const owner of await ownersWithWaiting()) {
+    const report = await sendQueue(owner, () => {}, locks);
+    reports.push(report);
+    if (report.stoppedBy === "offline" || report.stoppedBy === "server") retry = report.stopMessage;
+  }
+  if (retry !== undefined) throw new Error(retry);
+  return reports;
+}
+
+/**
+ * Asks the browser to send the queue in the background when a connection is there, even once the
+ * page is closed (Background Sync, in Chromium-based browsers). Where there is none, the page sends
+ * when it is next opened with signal. True when the browser took the request.
+ */
+export async function askForBackgroundSend(): Promise<boolean> {
+  if (typeof navigator === "undefined" || !("serviceWorker" in navigator)) return false;
+  try {
+    const registration = (await navigator.serviceWorker.getRegistration()) as (ServiceWorkerRegistration & { sync?: { register(tag: string): Promise<void> } }) | undefined;
+    if (!registration?.active || !registration.sync) return false;
+    await registration.sync.register(BACKGROUND_SEND_TAG);
+    return true;
+  } catch {
+    // Refused (permission, a browser setting): the page sends when it is open.
+    return false;
+  }
 }
 
 export function describeKind(entry: { kind: QueueEntry["kind"] }): string {
