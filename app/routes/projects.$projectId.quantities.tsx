@@ -39,7 +39,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     period: view.period && { ...view.period, figures: { total: view.period.figures.total, zones: view.period.figures.zones } },
     periodError,
     canSign: can(access, "quantities.sign"),
-    signed: await listSignedPeriods(project),
+    // As issued, from the stored snapshots; compared with now only where that period is already computed.
+    signed: await listSignedPeriods(project, "cached"),
   };
 }
 
@@ -215,7 +216,9 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
                         Math.abs(report.difference.paidVolume) < 0.05 && Math.abs(report.difference.overDredgeVolume) < 0.05 && Math.abs(report.difference.removedVolume) < 0.05
                           ? "same figures"
                           : <>paid {signedVolume(report.difference.paidVolume, report.snapshot.volumeLabel)}, over-dredge {signedVolume(report.difference.overDredgeVolume, report.snapshot.volumeLabel)}, removed {signedVolume(report.difference.removedVolume, report.snapshot.volumeLabel)}</>
-                      ) : report.recomputeNote}
+                      ) : report.compared ? report.recomputeNote : (
+                        <Link className="text-lagoon underline" to={`/projects/${project.id}/quantities/report?signed=${report.id}`} aria-label={`Compare the period ${report.snapshot.from.surveyedOn} to ${report.snapshot.to.surveyedOn} with its figures now`}>Compare with now</Link>
+                      )}
                     </td>
                   </tr>
                 ))}

@@ -36,6 +36,16 @@ export class BoundedCache<Value> {
     return value;
   }
 
+  /** The cached value for `key` (settled or still computing) without computing it or marking it used; undefined when there is none. */
+  peek(key: string): Promise<Value> | undefined {
+    return this.entries.get(key);
+  }
+
+  /** Drops every entry whose key `drop` picks (a project's entries of an older stamp). */
+  dropWhere(drop: (key: string) => boolean): void {
+    for (const key of [...this.entries.keys()]) if (drop(key)) this.entries.delete(key);
+  }
+
   /** Drops every entry whose key starts with `prefix` (a project's entries on recompute). */
   dropPrefix(prefix: string): void {
     for (const key of [...this.entries.keys()]) if (key.startsWith(prefix)) this.entries.delete(key);
