@@ -192,8 +192,8 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
         {signed.length === 0 ? (
           <p className="mt-1 text-sm text-muted">No period has been signed yet.</p>
         ) : (
-          <div className="overflow-x-auto">
-            <table className="mt-2 w-full text-right text-sm" data-testid="signed-periods">
+          <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Reports signed so far, scrollable">
+            <table className="w-full text-right text-sm" data-testid="signed-periods" aria-label="Reports signed so far">
               <thead>
                 <tr className="border-b border-line">
                   <th className="py-1 text-left font-sans">Period</th><th className="pl-3 text-left font-sans">Signed</th>
