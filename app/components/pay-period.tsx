@@ -18,7 +18,7 @@ export interface PeriodTableFigures {
 }
 
 /** A pay period per zone and for the project: removed, paid, over-dredge, deposited, remaining at the end. */
-export function PayPeriodTable({ figures, unit, testId, digits = 0 }: { figures: PeriodTableFigures; unit: string; testId?: string; digits?: number }) {
+export function PayPeriodTable({ figures, unit, testId, digits = 0, label = "Figures per zone for the period" }: { figures: PeriodTableFigures; unit: string; testId?: string; digits?: number; label?: string }) {
   const cells = (row: PeriodRow) => (
     <>
       <td className="pl-3"><Volume value={row.removedVolume} unit={unit} digits={digits} /></td>
@@ -30,8 +30,10 @@ export function PayPeriodTable({ figures, unit, testId, digits = 0 }: { figures:
     </>
   );
   return (
-    <div className="overflow-x-auto">
-      <table className="mt-2 w-full text-right text-sm" data-testid={testId}>
+    <>
+    {/* On a phone the table scrolls sideways in a region the keyboard reaches; printed, it is shown whole. */}
+    <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon print:overflow-visible" tabIndex={0} role="region" aria-label={`${label}, scrollable`}>
+      <table className="w-full text-right text-sm" data-testid={testId} aria-label={label}>
         <thead>
           <tr className="border-b border-line">
             <th className="py-1 text-left font-sans">Zone</th><th className="pl-3">Removed</th><th className="pl-3">Paid</th><th className="pl-3">Over-dredge</th><th className="pl-3">Deposited</th><th className="pl-3">Remaining at end</th><th className="pl-3" title="95 % band on removed from the surveys' vertical uncertainty (IHO S-44)">Removed ±</th>
@@ -50,8 +52,9 @@ export function PayPeriodTable({ figures, unit, testId, digits = 0 }: { figures:
           </tr>
         </tbody>
       </table>
-      {figures.zones.some((zone) => zone.zoneId === null) ? <p className="mt-2 text-xs text-muted">{UNZONED_NOTE}</p> : null}
     </div>
+    {figures.zones.some((zone) => zone.zoneId === null) ? <p className="mt-2 text-xs text-muted">{UNZONED_NOTE}</p> : null}
+    </>
   );
 }
 

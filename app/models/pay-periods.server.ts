@@ -1,12 +1,14 @@
 import { z } from "zod";
-import { allowedTvu, surveyOrderSchema, type SurveyOrder } from "../../shared/qa/tvu";
+import { surveyOrderSchema, tvuCoefficients, type SurveyOrder } from "../../shared/qa/tvu";
 import { unitLabel, type LengthUnit } from "../../shared/units";
 import { PERIOD_VOLUME_KEYS, type PeriodVolumes } from "../../shared/volumes/period";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { PayPeriodReport, Survey, getSequelize, type PayPeriodSnapshot } from "~/lib/db.server";
-import { getEngineState } from "~/lib/engine/engine-state.server";
+import { createHash } from "node:crypto";
+import { BoundedCache } from "~/lib/cache/bounded-cache";
+import { getEngineState, projectRecomputeStamp } from "~/lib/engine/engine-state.server";
 import { computePeriodFigures, type PeriodFigures } from "~/lib/engine/period-figures";
 import { monthName, monthPeriod, monthsWithPeriods } from "../../shared/volumes/named-period";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
@@ -25,9 +27,10 @@ export interface PeriodSurvey {
   datum: string;
   fileName: string;
   contentSha256: string;
-  /** IHO S-44 order the survey was checked against, and its allowed TVU at 95 % at the survey's median depth (project length unit). */
+  /** IHO S-44 order the survey was checked against: its TVU at 95 % is √(a² + (b·d)²) at each depth d. */
   order: SurveyOrder;
-  tvu: number;
+  /** Where the band's depths come from: the survey's water-surface elevation minus the bottom, node by node; its median depth; or none (a alone). */
+  depths: { from: "water-surface"; waterSurfaceElevation: number } | { from: "median-depth"; medianDepth: number } | { from: "none" };
 }
 
 export interface PeriodSettings {
@@ -80,23 +83,44 @@ function positionOf(surveys: readonly PeriodSurvey[], raw: string, field: "from"
 }
 
 /**
- * A survey's IHO S-44 order as its import recorded it (its QA), and the TVU allowed at its median
- * depth; the order's depth-independent part alone where the file gave elevations and no depths.
+ * A survey's IHO S-44 order as its import recorded it (its QA), and where its depths are measured
+ * from: its own water-surface elevation, else the project's newest (a file of elevations sounded
+ * from the same water), else the median depth its QA recorded, else none (the depth-independent part alone).
  */
-function surveyTvu(qa: Record<string, unknown>, unit: LengthUnit): { order: SurveyOrder; tvu: number } {
+function surveyUncertainty(qa: Record<string, unknown>, waterSurface: number | null, projectWaterSurface: number | null): Pick<PeriodSurvey, "order" | "depths"> {
   // Every import records its order; "1a" is the import form's default, for a row from before that.
   const order = surveyOrderSchema.catch("1a").parse(qa.order ?? qa.surveyOrder);
-  const atMedian = typeof qa.allowanceAtMedianDepth === "number" && Number.isFinite(qa.allowanceAtMedianDepth) ? qa.allowanceAtMedianDepth : null;
-  return { order, tvu: atMedian ?? allowedTvu(order, 0, unit) };
+  const level = waterSurface ?? projectWaterSurface;
+  if (level !== null) return { order, depths: { from: "water-surface", waterSurfaceElevation: level } };
+  const median = typeof qa.medianDepth === "number" && Number.isFinite(qa.medianDepth) ? qa.medianDepth : null;
+  return { order, depths: median === null ? { from: "none" } : { from: "median-depth", medianDepth: median } };
+}
+
+/** A survey's part of the band's input (shared/volumes/period-uncertainty.ts), without its soundings per cell. */
+function bandSurvey(survey: PeriodSurvey, unit: LengthUnit) {
+  const { depths } = survey;
+  return {
+    ...tvuCoefficients(survey.order, unit),
+    waterSurfaceElevation: depths.from === "water-surface" ? depths.waterSurfaceElevation : null,
+    fallbackDepth: depths.from === "median-depth" ? depths.medianDepth : null,
+  };
+}
+
+function depthWords(survey: PeriodSurvey, length: string): string {
+  const { depths } = survey;
+  if (depths.from === "water-surface") return `depths from the water surface at ${depths.waterSurfaceElevation} ${length}`;
+  if (depths.from === "median-depth") return `its median depth ${depths.medianDepth.toFixed(2)} ${length} (no water-surface elevation)`;
+  return "no depths known (a alone)";
 }
 
 /** The band's method in words, with each survey's order and TVU and what a reference bias would add. */
-function uncertaintyWords(surveys: readonly PeriodSurvey[], biasVolumePerUnit: number, length: string, volume: string): string {
+function uncertaintyWords(surveys: readonly PeriodSurvey[], biasVolumePerUnit: number, unit: LengthUnit, length: string, volume: string): string {
   const tenth = (Math.round(biasVolumePerUnit * 0.1 * 10) / 10).toLocaleString("en-US");
   return (
-    "± on removed: 95 % band from the surveys' vertical uncertainty (IHO S-44 ed. 6.0.0, table 1: TVU = √(a² + (b·d)²) for the survey's order at its median depth), " +
+    "± on removed: 95 % band from the surveys' vertical uncertainty (IHO S-44 ed. 6.0.0, table 1: TVU = √(a² + (b·d)²) for the survey's order at each depth d, " +
+    "d = the survey's water-surface elevation − the bottom at each raster node, TVU² averaged over the cell), " +
     "taken as each sounding's random error and averaged over the soundings of each cell (1/√n) that changed in the period, both ends and all cells added in quadrature. " +
-    `Surveys: ${surveys.map((survey) => `#${survey.id} order ${survey.order}, TVU ${survey.tvu.toFixed(2)} ${length}`).join("; ")}. ` +
+    `Surveys: ${surveys.map((survey) => { const { a, b } = tvuCoefficients(survey.order, unit); return `#${survey.id} order ${survey.order} (a ${a.toFixed(2)} ${length}, b ${b}), ${depthWords(survey, length)}`; }).join("; ")}. ` +
     `Not in the band: a systematic bias of the vertical reference (water level, datum) shifts a whole surface and does not average down; each 0.1 ${length} of it would move removed by about ${tenth} ${volume}.`
   );
 }
@@ -122,22 +146,64 @@ function periodMethod(project: ProjectView, settings: PeriodSettings, length: st
 }
 
 /**
+ * What every period of the project is computed from now: the engine state under its recompute
+ * stamp, the geometry, the surveys in force with their files and uncertainty, and `version`, the
+ * digest of everything else a period's figures depend on (zones, settings, allowance, unit, the
+ * surveys' orders and water surfaces). Null when the project has no figures.
+ */
+async function periodContext(project: ProjectView) {
+  const stamp = await projectRecomputeStamp(project.id);
+  const state = await getEngineState(project.id, stamp);
+  if (!state) return null;
+  const geometry = await loadProjectGeometry(project.id);
+  const inForce = state.periods.surveys;
+  const rows = await Survey.findAll({ where: { projectId: project.id, id: inForce.map((survey) => survey.id) }, attributes: ["id", "kind", "surveyedOn", "datum", "fileName", "contentSha256", "qa", "waterSurfaceElevation"] });
+  const byId = new Map(rows.map((row) => [row.id, row]));
+  const surveys: PeriodSurvey[] = inForce.map((survey) => {
+    const row = byId.get(survey.id);
+    return { id: survey.id, kind: survey.kind, surveyedOn: survey.surveyedOn, datum: row?.datum ?? "", fileName: row?.fileName ?? "", contentSha256: row?.contentSha256 ?? "", ...surveyUncertainty(row?.qa ?? {}, row?.waterSurfaceElevation ?? null, state.surfaces.waterSurfaceElevation) };
+  });
+  const inputs = {
+    zones: geometry.zones, settings: geometry.settings, overDredgeAllowance: project.grid.overDredgeAllowance, lengthUnit: project.lengthUnit,
+    uncertainty: surveys.map((survey) => bandSurvey(survey, project.lengthUnit)),
+  };
+  const version = createHash("sha256").update(JSON.stringify(inputs)).digest("base64url").slice(0, 22);
+  return { stamp, state, surveys, inputs, version };
+}
+type PeriodContext = NonNullable<Awaited<ReturnType<typeof periodContext>>>;
+
+// A period's figures per project, recompute stamp, surveys in force, the two ends and the version
+// of the other inputs: one pass over every raster node (a second or more for a large bay, on the
+// request thread, since the rasters live there), then read by the page, the report, the exports
+// and the signed periods' comparison until something they rest on changes. Each holds a row per
+// cell (megabytes at bay scale): a few at a time.
+const PERIODS_HELD = 8;
+const periodCache = new BoundedCache<PeriodFigures>(PERIODS_HELD);
+
+function periodKey(project: ProjectView, context: PeriodContext, from: number, to: number): string {
+  return `${project.id}:${context.stamp}:${context.surveys.map((survey) => survey.id).join(",")}:${context.surveys[from].id}-${context.surveys[to].id}:${context.version}`;
+}
+
+/** The period's figures, computed once per version of what they rest on. */
+function periodFigures(project: ProjectView, context: PeriodContext, from: number, to: number): Promise<PeriodFigures> {
+  const current = `${project.id}:${context.stamp}:`;
+  // A period of an older stamp is never read again: let it go now rather than when it ages out.
+  periodCache.dropWhere((key) => key.startsWith(`${project.id}:`) && !key.startsWith(current));
+  return periodCache.getOrCompute(periodKey(project, context, from, to), async () =>
+    computePeriodFigures({ surfaces: context.state.surfaces, periods: context.state.periods, from, to, ...context.inputs }),
+  );
+}
+
+/**
  * The period between two surveys in force (`from`, `to`: survey ids; absent: the baseline and
  * the latest). Null when the project has no figures (no baseline or no work limit). Throws a
  * ValidationError naming `from` or `to` for an id that is not a survey in force, or a `to` that
  * is not after `from`.
  */
 export async function loadPayPeriod(project: ProjectView, query: PeriodQuery = {}): Promise<PayPeriodView | null> {
-  const state = await getEngineState(project.id);
-  if (!state) return null;
-  const geometry = await loadProjectGeometry(project.id);
-  const inForce = state.periods.surveys;
-  const rows = await Survey.findAll({ where: { projectId: project.id, id: inForce.map((survey) => survey.id) }, attributes: ["id", "kind", "surveyedOn", "datum", "fileName", "contentSha256", "qa"] });
-  const byId = new Map(rows.map((row) => [row.id, row]));
-  const surveys: PeriodSurvey[] = inForce.map((survey) => {
-    const row = byId.get(survey.id);
-    return { id: survey.id, kind: survey.kind, surveyedOn: survey.surveyedOn, datum: row?.datum ?? "", fileName: row?.fileName ?? "", contentSha256: row?.contentSha256 ?? "", ...surveyTvu(row?.qa ?? {}, project.lengthUnit) };
-  });
+  const context = await periodContext(project);
+  if (!context) return null;
+  const { surveys } = context;
   let from = query.from ? positionOf(surveys, query.from, "from") : 0;
   let to = query.to ? positionOf(surveys, query.to, "to") : surveys.length - 1;
   const month = query.month ?? null;
@@ -155,17 +221,13 @@ export async function loadPayPeriod(project: ProjectView, query: PeriodQuery = {
   const settings: PeriodSettings = { overDredgeAllowance: grid.overDredgeAllowance, firmSandTolerance: grid.tolerance, cellSize: grid.cellSize, rasterResolution: grid.rasterResolution, maxEdge: grid.maxEdge };
   const lengthLabel = unitLabel(project.lengthUnit);
   const volumeLabel = unitLabel(project.lengthUnit, "volume");
-  const figures = computePeriodFigures({
-    surfaces: state.surfaces, periods: state.periods, from, to,
-    zones: geometry.zones, settings: geometry.settings, overDredgeAllowance: grid.overDredgeAllowance, lengthUnit: project.lengthUnit,
-    tvu: surveys.map((survey) => survey.tvu),
-  });
+  const figures = await periodFigures(project, context, from, to);
   return {
     surveys, from: surveys[from], to: surveys[to], whole: from === 0 && to === surveys.length - 1,
     month: month === null ? null : { key: month, name: monthName(month) },
     months: monthsWithPeriods(surveys).map((key) => ({ key, name: monthName(key) })),
     volumeLabel, lengthLabel, settings, method: periodMethod(project, settings, lengthLabel, volumeLabel),
-    uncertainty: uncertaintyWords(surveys.slice(0, to + 1), figures.total.biasVolumePerUnit, lengthLabel, volumeLabel), figures,
+    uncertainty: uncertaintyWords(surveys.slice(0, to + 1), figures.total.biasVolumePerUnit, project.lengthUnit, lengthLabel, volumeLabel), figures,
   };
 }
 
@@ -209,17 +271,26 @@ export interface SignedPeriod {
   signedName: string;
   signedAt: string;
   snapshot: PayPeriodSnapshot;
-  /** The same period recomputed now, minus the signed figures, per column of the project row; null when it cannot be recomputed. */
+  /** The same period recomputed now, minus the signed figures, per column of the project row; null when it cannot be recomputed or was not compared. */
   difference: PeriodVolumes | null;
-  /** Why there is no difference (a survey retracted or superseded since). */
+  /** Why there is no difference (a survey retracted or superseded since); null when there is one or it was not compared. */
   recomputeNote: string | null;
+  /** Whether the figures now were looked at: always for one report and the API; on the page's list only where they were already computed. */
+  compared: boolean;
 }
 
-/** The project's signed periods, newest first, each beside its recompute now. */
-export async function listSignedPeriods(project: ProjectView): Promise<SignedPeriod[]> {
+/**
+ * The project's signed periods, newest first, as issued (their stored snapshots). `compare`:
+ * "always" recomputes each period now for its difference (the API); "cached" gives the difference
+ * only where the period's figures now are already computed (the page's list, which must not
+ * recompute every period it lists on each load), and says which reports can no longer be recomputed.
+ */
+export async function listSignedPeriods(project: ProjectView, compare: "always" | "cached" = "always"): Promise<SignedPeriod[]> {
   const reports = await PayPeriodReport.findAll({ where: { projectId: project.id }, order: [["signedAt", "DESC"], ["id", "DESC"]] });
+  if (reports.length === 0) return [];
+  const context = await periodContext(project);
   const signed: SignedPeriod[] = [];
-  for (const report of reports) signed.push(await presentSigned(project, report));
+  for (const report of reports) signed.push(await presentSigned(project, report, context, compare));
   return signed;
 }
 
@@ -227,21 +298,21 @@ export async function listSignedPeriods(project: ProjectView): Promise<SignedPer
 export async function getSignedPeriod(project: ProjectView, reportId: number): Promise<SignedPeriod> {
   const report = await PayPeriodReport.findOne({ where: { id: reportId, projectId: project.id } });
   if (!report) throw new NotFoundError("There is no such signed period in this project.");
-  return presentSigned(project, report);
+  return presentSigned(project, report, await periodContext(project), "always");
 }
 
-async function presentSigned(project: ProjectView, report: PayPeriodReport): Promise<SignedPeriod> {
-  let difference: PeriodVolumes | null = null;
-  let recomputeNote: string | null = null;
-  try {
-    const now = await loadPayPeriod(project, { from: String(report.fromSurveyId), to: String(report.toSurveyId) });
-    if (now) {
-      const total = report.snapshot.total;
-      difference = Object.fromEntries(PERIOD_VOLUME_KEYS.map((key) => [key, now.figures.total[key] - total[key]])) as unknown as PeriodVolumes;
-    } else recomputeNote = "The project has no figures now.";
-  } catch (error) {
-    if (!(error instanceof ValidationError)) throw error;
-    recomputeNote = "One of its surveys is no longer in force (retracted or superseded), so the period cannot be recomputed; the signed figures stand as issued.";
-  }
-  return { id: report.id, signedName: report.signedName, signedAt: report.signedAt.toISOString(), snapshot: report.snapshot, difference, recomputeNote };
+const NO_LONGER_IN_FORCE = "One of its surveys is no longer in force (retracted or superseded), so the period cannot be recomputed; the signed figures stand as issued.";
+
+async function presentSigned(project: ProjectView, report: PayPeriodReport, context: PeriodContext | null, compare: "always" | "cached"): Promise<SignedPeriod> {
+  const issued = { id: report.id, signedName: report.signedName, signedAt: report.signedAt.toISOString(), snapshot: report.snapshot };
+  if (!context) return { ...issued, difference: null, recomputeNote: "The project has no figures now.", compared: true };
+  const from = context.surveys.findIndex((survey) => survey.id === report.fromSurveyId);
+  const to = context.surveys.findIndex((survey) => survey.id === report.toSurveyId);
+  if (from < 0 || to < 0 || !(from < to)) return { ...issued, difference: null, recomputeNote: NO_LONGER_IN_FORCE, compared: true };
+  const figures = compare === "always" ? periodFigures(project, context, from, to) : periodCache.peek(periodKey(project, context, from, to));
+  if (!figures) return { ...issued, difference: null, recomputeNote: null, compared: false };
+  const now = (await figures).total;
+  const total = report.snapshot.total;
+  const difference = Object.fromEntries(PERIOD_VOLUME_KEYS.map((key) => [key, now[key] - total[key]])) as unknown as PeriodVolumes;
+  return { ...issued, difference, recomputeNote: null, compared: true };
 }

@@ -71,6 +71,7 @@ const printCss = `
   body { background: #fff; }
   @page { size: letter portrait; margin: 18mm; }
   table { page-break-inside: avoid; }
+  [role="region"] { overflow: visible !important; }
 }`;
 
 function SignatureLine({ label }: { label: string }) {
@@ -86,11 +87,12 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
   const { project, total, zones } = loaderData;
   const unit = project.volumeLabel;
   return (
-    <main className="mx-auto max-w-4xl bg-panel px-8 py-6 print:px-0">
+    <main className="mx-auto max-w-4xl bg-panel px-4 py-6 sm:px-8 print:px-0">
       <style>{printCss}</style>
       <p className="no-print mb-4 text-sm"><button type="button" className="rounded border border-line px-3 py-1" onClick={() => window.print()}>Print</button> or use the browser's print command.</p>
       <h1 className="text-2xl font-semibold">Quantities report</h1>
-      <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-6 gap-y-1 text-sm">
+      {/* On a phone each term sits above its value; on a wider screen and on paper, beside it. */}
+      <dl className="mt-3 grid grid-cols-1 gap-x-6 text-sm sm:grid-cols-[max-content_1fr] sm:gap-y-1 print:grid-cols-[max-content_1fr] print:gap-y-1 [&>dd]:mb-2 [&>dd]:min-w-0 [&>dd]:break-words sm:[&>dd]:mb-0 print:[&>dd]:mb-0">
         <dt className="text-muted">Project</dt><dd>{project.name}</dd>
         <dt className="text-muted">Baseline survey</dt><dd>{loaderData.baseline ? <><time className="figures" dateTime={loaderData.baseline.surveyedOn}>{loaderData.baseline.surveyedOn}</time> (<span className="figures">#{loaderData.baseline.id}</span>, {loaderData.baseline.datum})</> : "none"}</dd>
         <dt className="text-muted">Compared with</dt><dd>{loaderData.latest ? <><time className="figures" dateTime={loaderData.latest.surveyedOn}>{loaderData.latest.surveyedOn}</time> {loaderData.latest.kind} (<span className="figures">#{loaderData.latest.id}</span>)</> : "none"}</dd>
@@ -98,7 +100,7 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
         <dt className="text-muted">Method</dt><dd>{loaderData.method}</dd>
         <dt className="text-muted">Prepared</dt><dd><span className="figures">{loaderData.preparedOn}</span> by {loaderData.preparedBy}</dd>
       </dl>
-      <div className="mt-6 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Totals per zone, scrollable"><table className="w-full border-collapse text-right text-sm" aria-label="Totals per zone">
+      <div className="mt-6 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon print:overflow-visible" tabIndex={0} role="region" aria-label="Totals per zone, scrollable"><table className="w-full border-collapse text-right text-sm" aria-label="Totals per zone">
         <thead>
           <tr className="border-b-2 border-ink">
             {/* Padded and bottom-aligned: headers that wrap stay apart from their neighbours. */}

@@ -39,7 +39,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     period: view.period && { ...view.period, figures: { total: view.period.figures.total, zones: view.period.figures.zones } },
     periodError,
     canSign: can(access, "quantities.sign"),
-    signed: await listSignedPeriods(project),
+    // As issued, from the stored snapshots; compared with now only where that period is already computed.
+    signed: await listSignedPeriods(project, "cached"),
   };
 }
 
@@ -191,8 +192,8 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
         {signed.length === 0 ? (
           <p className="mt-1 text-sm text-muted">No period has been signed yet.</p>
         ) : (
-          <div className="overflow-x-auto">
-            <table className="mt-2 w-full text-right text-sm" data-testid="signed-periods">
+          <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Reports signed so far, scrollable">
+            <table className="w-full text-right text-sm" data-testid="signed-periods" aria-label="Reports signed so far">
               <thead>
                 <tr className="border-b border-line">
                   <th className="py-1 text-left font-sans">Period</th><th className="pl-3 text-left font-sans">Signed</th>
@@ -215,7 +216,9 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
                         Math.abs(report.difference.paidVolume) < 0.05 && Math.abs(report.difference.overDredgeVolume) < 0.05 && Math.abs(report.difference.removedVolume) < 0.05
                           ? "same figures"
                           : <>paid {signedVolume(report.difference.paidVolume, report.snapshot.volumeLabel)}, over-dredge {signedVolume(report.difference.overDredgeVolume, report.snapshot.volumeLabel)}, removed {signedVolume(report.difference.removedVolume, report.snapshot.volumeLabel)}</>
-                      ) : report.recomputeNote}
+                      ) : report.compared ? report.recomputeNote : (
+                        <Link className="text-lagoon underline" to={`/projects/${project.id}/quantities/report?signed=${report.id}`} aria-label={`Compare the period ${report.snapshot.from.surveyedOn} to ${report.snapshot.to.surveyedOn} with its figures now`}>Compare with now</Link>
+                      )}
                     </td>
                   </tr>
                 ))}

@@ -28,3 +28,9 @@ export function allowedTvu(order: SurveyOrder, depth: number, unit: LengthUnit):
   const depthM = convertLength(Math.abs(depth), unit, "m");
   return convertLength(allowedTvuM(order, depthM), "m", unit);
 }
+
+/** The order's coefficients in a project unit: a (length) and b (a ratio, the same in any unit), so TVU = √(a² + (b·d)²) with d in that unit. */
+export function tvuCoefficients(order: SurveyOrder, unit: LengthUnit): { a: number; b: number } {
+  const { aM, b } = TVU_COEFFICIENTS[order];
+  return { a: convertLength(aM, "m", unit), b };
+}

@@ -51,10 +51,24 @@ export function computePeriodCells(
   overDredgeAllowance: number,
   precision: RasterPrecision = "float64",
 ): CellStats {
+  return computePeriod(grids, rasters, from, to, rules, overDredgeAllowance, precision).stats;
+}
+
+/** `computePeriodCells` with the period's two bottoms it integrated between (what the band's depths are read from). */
+export function computePeriod(
+  grids: PeriodGrids,
+  rasters: PeriodRasters,
+  from: number,
+  to: number,
+  rules: CellStatusRules,
+  overDredgeAllowance: number,
+  precision: RasterPrecision = "float64",
+): { stats: CellStats; before: RasterValues; after: RasterValues } {
   if (!(from < to)) throw new Error("a period runs from an earlier survey to a later one");
   const before = bottomAsOf(grids.rasterGrid, rasters, from, precision);
   const after = bottomAsOf(grids.rasterGrid, rasters, to, precision);
-  return computeCellStats(grids.cellGrid, grids.rasterGrid, grids.nodeCell, { muckTop: rasters.muckTop, firm: rasters.firm, before, after }, rules, overDredgeAllowance);
+  const stats = computeCellStats(grids.cellGrid, grids.rasterGrid, grids.nodeCell, { muckTop: rasters.muckTop, firm: rasters.firm, before, after }, rules, overDredgeAllowance);
+  return { stats, before, after };
 }
 
 /** A period's volumes of a cell or a set of cells, in the project's volume unit (yd³ or m³). */

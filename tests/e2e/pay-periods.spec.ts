@@ -2,6 +2,8 @@ import { SURVEYS, ZONES } from "../../sample-data/scenario";
 import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { demoProjectId, expect, test } from "./fixtures";
 import { request as playwrightRequest } from "@playwright/test";
+import { mkdirSync } from "node:fs";
+import { join } from "node:path";
 
 // The manager chooses a pay period between two of the demo's surveys on the quantities page, sees
 // zone rows that add up to the project in every column, signs the period, and finds it listed.
@@ -66,3 +68,50 @@ test("the manager chooses a period between two surveys, sees rows that add up, a
   await expect(page.getByTestId("signed-as-issued")).toContainText(signer);
   await expect(page.getByTestId("signed-as-issued")).toContainText("kept as issued");
 });
+
+test("the printable report fits a phone, its tables scroll in regions the keyboard reaches, and prints whole", async ({ page, signIn }) => {
+  const shots = join(process.cwd(), "test-results", "quantities-report");
+  mkdirSync(shots, { recursive: true });
+  await signIn("manager");
+  for (const viewport of [{ width: 390, height: 844 }, { width: 1440, height: 900 }]) {
+    await page.setViewportSize(viewport);
+    await page.goto(`/projects/${projectId}/quantities/report?from=${await surveyId(page, 0)}&to=${await surveyId(page, 2)}`);
+    await expect(page.getByRole("heading", { name: /Pay period/ })).toBeVisible();
+    await page.screenshot({ path: join(shots, `report-${viewport.width}.png`), fullPage: true });
+    // Nothing wider than the screen: the page never scrolls sideways.
+    expect(await page.evaluate(() => document.documentElement.scrollWidth), `width at ${viewport.width}`).toBeLessThanOrEqual(viewport.width);
+    // Every table sits in a labelled region that takes the keyboard's focus, so it can be scrolled without a pointer.
+    const tables = page.locator("main table");
+    expect(await tables.count()).toBeGreaterThanOrEqual(2);
+    for (const table of await tables.all()) {
+      const region = table.locator("xpath=ancestor::*[@role='region'][1]");
+      await expect(region).toHaveAttribute("tabindex", "0");
+      await expect(region).toHaveAttribute("aria-label", /scrollable$/);
+    }
+  }
+  // Keyboard: the period's table region takes focus and scrolls with the arrow keys on a phone.
+  await page.setViewportSize({ width: 390, height: 844 });
+  const periodRegion = page.getByRole("region", { name: "Figures per zone for the period, scrollable" });
+  if (await periodRegion.evaluate((element) => element.scrollWidth > element.clientWidth)) {
+    await periodRegion.focus();
+    await page.keyboard.press("ArrowRight");
+    await expect.poll(() => periodRegion.evaluate((element) => element.scrollLeft)).toBeGreaterThan(0);
+  }
+  // On paper (US letter less the margins, about 680 CSS px) the layout is the wide one: terms beside
+  // their values, and every table whole, never clipped by its scrolling region.
+  await page.setViewportSize({ width: 680, height: 900 });
+  await page.emulateMedia({ media: "print" });
+  await page.screenshot({ path: join(shots, "report-print-680.png"), fullPage: true });
+  expect(await page.locator("main dl").first().evaluate((list) => getComputedStyle(list).gridTemplateColumns.split(" ").length)).toBe(2);
+  for (const region of await page.locator("main [role='region']").all()) {
+    expect(await region.evaluate((element) => getComputedStyle(element).overflowX)).toBe("visible");
+  }
+  await expect(page.getByRole("button", { name: "Print" })).toBeHidden();
+});
+
+/** The id of the demo's survey at `position` (0 = the baseline), from the quantities API. */
+async function surveyId(page: import("@playwright/test").Page, position: number): Promise<number> {
+  const answer = await page.request.get(`/api/projects/${projectId}/quantities`);
+  const body = (await answer.json()) as { surveys: Array<{ id: number }> };
+  return body.surveys[position].id;
+}

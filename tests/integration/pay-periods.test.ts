@@ -84,6 +84,14 @@ describe("the removed volume's band from the surveys' vertical uncertainty", () 
     expect(whole.uncertainty).toMatch(/IHO S-44/);
     expect(whole.uncertainty).toMatch(/systematic bias/);
   });
+
+  it("reads each survey's depths from its own water surface (the scenario's levels), and says so", () => {
+    // memory: the demo scenario gives every survey its water-surface elevation (sample-data/scenario.ts)
+    expect(whole.surveys.map((survey) => survey.depths)).toEqual(SURVEYS.map((survey) => ({ from: "water-surface", waterSurfaceElevation: survey.waterSurfaceElevationFt })));
+    expect(whole.uncertainty).toContain(`#${whole.surveys[0].id} order 1a (a 1.64 ftUS, b 0.013), depths from the water surface at ${SURVEYS[0].waterSurfaceElevationFt} ftUS`);
+    expect(whole.uncertainty).toMatch(/at each depth d/);
+    expect(whole.uncertainty).not.toMatch(/median depth\)/);
+  });
 });
 
 describe("periods between any two surveys", () => {
@@ -245,11 +253,26 @@ describe("signed periods", () => {
     await Project.update({ overDredgeAllowance: 1 }, { where: { id: project.id } });
     try {
       const changed = presentProject((await Project.findByPk(project.id))!);
+      // The page's list serves the reports as issued and does not recompute them: under the new
+      // allowance the period is not computed yet, so it is listed without a difference, to be compared when asked.
+      const [fromSnapshot] = await listSignedPeriods(changed, "cached");
+      expect(fromSnapshot).toMatchObject({ id, compared: false, difference: null, recomputeNote: null });
+      expect(fromSnapshot.snapshot.total).toEqual(stored.snapshot.total);
+      const page = await quantitiesPage.loader(await apiArgs(`/projects/${project.id}/quantities`));
+      expect(page.signed.find((report) => report.id === id)).toMatchObject({ compared: false, difference: null });
+
       [listed] = await listSignedPeriods(changed);
+      expect(listed.compared).toBe(true);
       expect(listed.snapshot.total).toEqual(stored.snapshot.total);
       const now = (await loadPayPeriod(changed, { from: String(from.id), to: String(to.id) }))!;
+      // computed: an allowance of 1 ft pays part of what was over-dredge, so the figures now are not the cached ones of allowance 0
+      expect(now.figures.total.paidVolume).toBeGreaterThan(stored.snapshot.total.paidVolume);
       expect(listed.difference!.paidVolume).toBeCloseTo(now.figures.total.paidVolume - stored.snapshot.total.paidVolume, 9);
       expect(listed.difference!.removedVolume).toBeCloseTo(0, 9);
+      // Once computed (here by the comparison), the page's list shows the difference from that computation.
+      const [cheaply] = await listSignedPeriods(changed, "cached");
+      expect(cheaply.compared).toBe(true);
+      expect(cheaply.difference).toEqual(listed.difference);
     } finally {
       await Project.update({ overDredgeAllowance: 0 }, { where: { id: project.id } });
     }

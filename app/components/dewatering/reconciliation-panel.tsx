@@ -33,8 +33,8 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
         <div className="border-t border-line py-2"><dt className="text-muted">Pumped (shift logs)</dt><dd className="figures">{measure(project.dryMassPumped)} <span className="text-muted">({signed(project.pumpedVersusSurveyedPercent)} vs surveyed)</span></dd></div>
         <div className="border-t border-line py-2"><dt className="text-muted">Hauled (tickets)</dt><dd className="figures">{measure(project.dryMassHauled)} <span className="text-muted">({signed(project.hauledVersusSurveyedPercent)} vs surveyed; {measure(project.dryMassNotYetHauled)} pumped and not yet hauled)</span></dd></div>
       </dl>
-      <div className="mt-2 overflow-x-auto">
-        <table className="w-full border-collapse text-sm">
+      <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon print:overflow-visible" tabIndex={0} role="region" aria-label="Reconciliation per zone, scrollable">
+        <table className="w-full border-collapse text-sm" aria-label="Reconciliation per zone">
           <thead><tr className="border-b border-line text-left"><th scope="col" className="py-1 pr-2">Zone</th><th scope="col" className="pr-2">Removed</th><th className="pr-2">Dry mass</th><th className="pr-2">Nitrogen</th><th className="pr-2">Phosphorus</th><th>Samples</th></tr></thead>
           <tbody>
             {zones.map((zone) => (

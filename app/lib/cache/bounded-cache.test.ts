@@ -40,4 +40,25 @@ describe("BoundedCache", () => {
     expect(cache.has("1:x")).toBe(false);
     expect(cache.has("12:x")).toBe(true);
   });
+
+  it("peeks without computing and without marking the entry as read", async () => {
+    const cache = new BoundedCache<string>(2);
+    expect(cache.peek("a")).toBeUndefined();
+    expect(cache.size).toBe(0); // a peek computes nothing
+    await cache.getOrCompute("a", async () => "a");
+    await cache.getOrCompute("b", async () => "b");
+    expect(await cache.peek("a")).toBe("a");
+    await cache.getOrCompute("c", async () => "c"); // the peek did not make "a" the most recent
+    expect(cache.has("a")).toBe(false);
+    expect(cache.has("b")).toBe(true);
+  });
+
+  it("drops the entries a predicate picks (a project's older stamps) and keeps the rest", async () => {
+    const cache = new BoundedCache<number>(4);
+    await cache.getOrCompute("1:old:x", async () => 1);
+    await cache.getOrCompute("1:new:x", async () => 2);
+    await cache.getOrCompute("2:old:x", async () => 3);
+    cache.dropWhere((key) => key.startsWith("1:") && !key.startsWith("1:new:"));
+    expect([cache.has("1:old:x"), cache.has("1:new:x"), cache.has("2:old:x")]).toEqual([false, true, true]);
+  });
 });

@@ -18,16 +18,6 @@ export class BoundedCache<Value> {
     return this.entries.has(key);
   }
 
-  /** The cached value for `key` (marked as read), or undefined. */
-  peek(key: string): Promise<Value> | undefined {
-    const cached = this.entries.get(key);
-    if (cached) {
-      this.entries.delete(key);
-      this.entries.set(key, cached);
-    }
-    return cached;
-  }
-
   /** The cached value for `key`, or `compute()` stored under it. */
   getOrCompute(key: string, compute: () => Promise<Value>): Promise<Value> {
     const cached = this.entries.get(key);
@@ -44,6 +34,16 @@ export class BoundedCache<Value> {
     });
     while (this.entries.size > this.capacity) this.entries.delete(this.entries.keys().next().value!);
     return value;
+  }
+
+  /** The cached value for `key` (settled or still computing) without computing it or marking it used; undefined when there is none. */
+  peek(key: string): Promise<Value> | undefined {
+    return this.entries.get(key);
+  }
+
+  /** Drops every entry whose key `drop` picks (a project's entries of an older stamp). */
+  dropWhere(drop: (key: string) => boolean): void {
+    for (const key of [...this.entries.keys()]) if (drop(key)) this.entries.delete(key);
   }
 
   /** Drops every entry whose key starts with `prefix` (a project's entries on recompute). */

@@ -2,8 +2,8 @@ import { cellLabel, cellRowCol } from "../../../shared/grid/cell-grid";
 import type { EngineSettings } from "../../../shared/pipeline";
 import type { LengthUnit } from "../../../shared/units";
 import { cubicToVolumeUnit } from "../../../shared/units";
-import { computePeriodCells, periodCellVolumes, rollUpPeriod, type PeriodVolumes } from "../../../shared/volumes/period";
-import { removedVolumeBand, type RemovedBand } from "../../../shared/volumes/period-uncertainty";
+import { computePeriod, periodCellVolumes, rollUpPeriod, type PeriodVolumes } from "../../../shared/volumes/period";
+import { cellElevations, removedVolumeBand, type BandSurvey, type RemovedBand } from "../../../shared/volumes/period-uncertainty";
 import { NO_ZONE, UNZONED_NAME, zoneOfEachCell } from "../../../shared/volumes/rollup";
 import type { ProjectSurfaces } from "./latest-surfaces";
 import type { ComputationZone } from "./project-figures";
@@ -25,8 +25,8 @@ export interface PeriodFiguresInput {
   settings: EngineSettings;
   overDredgeAllowance: number;
   lengthUnit: LengthUnit;
-  /** Per survey in force (as `periods.surveys`): its allowed TVU at 95 % (IHO S-44), project length unit. */
-  tvu: number[];
+  /** Per survey in force (as `periods.surveys`): its IHO S-44 coefficients and where its depths are measured from (project length unit). */
+  uncertainty: Array<Omit<BandSurvey, "soundingsPerCell">>;
 }
 
 /** The removed volume's 95 % band from the surveys' vertical uncertainty (shared/volumes/period-uncertainty). */
@@ -61,7 +61,7 @@ export interface PeriodFigures {
 export function computePeriodFigures(input: PeriodFiguresInput): PeriodFigures {
   const { result } = input.surfaces;
   const { muckTop, firm } = result.rasters;
-  const stats = computePeriodCells(
+  const { stats, before, after } = computePeriod(
     result,
     { muckTop: muckTop.values, firm: firm.values, progress: input.periods.progress },
     input.from,
@@ -72,7 +72,9 @@ export function computePeriodFigures(input: PeriodFiguresInput): PeriodFigures {
   );
   const zoneOfCell = zoneOfEachCell(result.cellGrid, input.zones.map((zone) => ({ id: String(zone.id), polygon: zone.polygon })));
   const rows = rollUpPeriod(stats, zoneOfCell, input.zones.length, input.lengthUnit);
-  const bands = removedVolumeBand(stats, input.tvu.map((tvu, position) => ({ tvu, soundingsPerCell: input.periods.soundingsPerCell[position] })), input.from, input.to, zoneOfCell, input.zones.length);
+  const bandSurveys = input.uncertainty.map((survey, position) => ({ ...survey, soundingsPerCell: input.periods.soundingsPerCell[position] }));
+  const bottoms = { from: cellElevations(result.nodeCell, before, stats.count), to: cellElevations(result.nodeCell, after, stats.count) };
+  const bands = removedVolumeBand(stats, bandSurveys, input.from, input.to, zoneOfCell, input.zones.length, bottoms);
   const band = ({ bandCubicLength, changedArea }: RemovedBand): PeriodBand => ({
     removedBandVolume: cubicToVolumeUnit(bandCubicLength, input.lengthUnit),
     biasVolumePerUnit: cubicToVolumeUnit(changedArea, input.lengthUnit),
