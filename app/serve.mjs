@@ -1,7 +1,8 @@
 // Firmsand's production HTTP server for the built app (`npm start`, the browser tests).
 // It does what react-router-serve does (compression, immutable hashed assets, public files), sends
-// the standard security headers (helmet), and one thing more: it hands the client's socket address to the app in a header of its own,
-// overwriting whatever a client sent, so the sign-in rate limit can count per address.
+// the standard security headers (helmet), and two things more, each in a header of its own that
+// overwrites whatever a client sent: the client's socket address, so the sign-in rate limit can
+// count per address, and whether the request is for a document or a page's data.
 import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
@@ -10,6 +11,10 @@ import { join, resolve } from "node:path";
 import { pathToFileURL } from "node:url";
 
 export const CLIENT_ADDRESS_HEADER = "x-firmsand-client-address";
+// Whether a request asks for a page's document or for its data (a navigation inside the app, the
+// URL ending in `.data`): the app sees both at the same URL, and a page kept for one must never
+// answer the other (app/lib/cache/document-cache.server.ts).
+export const REQUEST_KIND_HEADER = "x-firmsand-request-kind";
 
 // E-mailed links and the Origin check use the configured origin, never a request's Host header:
 // production refuses to start without one (app/lib/settings/env.server.ts holds the same rule).
@@ -44,6 +49,7 @@ app.use(build.publicPath, express.static(build.assetsBuildDirectory));
 app.use(express.static("public", { maxAge: "1h" }));
 app.use((request, _response, next) => {
   request.headers[CLIENT_ADDRESS_HEADER] = request.socket.remoteAddress ?? "unknown";
+  request.headers[REQUEST_KIND_HEADER] = request.path.endsWith(".data") ? "data" : "document";
   next();
 });
 app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV }));

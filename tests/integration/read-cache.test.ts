@@ -63,6 +63,8 @@ describe("the progress API", () => {
 });
 
 describe("a page kept per reader", () => {
+  const KIND = "x-firmsand-request-kind"; // set by app/serve.mjs on every request
+  const asDocument = (userId: number, path: string) => requestAs(userId, path, { headers: { [KIND]: "document" } });
   function page(body: string, init: ResponseInit = {}) {
     let calls = 0;
     return { next: async () => { calls++; return new Response(`${body} ${calls}`, { status: 200, headers: { "Content-Type": "text/html" }, ...init }); }, get calls() { return calls; } };
@@ -70,7 +72,7 @@ describe("a page kept per reader", () => {
 
   it("renders once per reader, session and URL while nothing is written", async () => {
     const reader = await makeUser("kept-page-reader");
-    const request = await requestAs(reader.id, "/projects/1");
+    const request = await asDocument(reader.id, "/projects/1");
     const render = page("overview");
     const first = await keepRenderedForReader({ request }, render.next);
     const second = await keepRenderedForReader({ request: new Request(request) }, render.next);
@@ -79,16 +81,31 @@ describe("a page kept per reader", () => {
     expect(second.headers.get("Content-Type")).toBe("text/html");
     expect(render.calls).toBe(1);
     // Another session of the same reader, another URL, another reader: each rendered for itself.
-    await keepRenderedForReader({ request: await requestAs(reader.id, "/projects/1") }, render.next);
+    await keepRenderedForReader({ request: await asDocument(reader.id, "/projects/1") }, render.next);
     await keepRenderedForReader({ request: new Request(request.url + "?zone=2", { headers: request.headers }) }, render.next);
     const other = await makeUser("kept-page-other");
-    expect(await (await keepRenderedForReader({ request: await requestAs(other.id, "/projects/1") }, render.next)).text()).toBe("overview 4");
+    expect(await (await keepRenderedForReader({ request: await asDocument(other.id, "/projects/1") }, render.next)).text()).toBe("overview 4");
+    expect(render.calls).toBe(4);
+  });
+
+  it("keeps a page's document and its data (a navigation inside the app, same URL here) apart, and keeps nothing the production server did not mark", async () => {
+    const reader = await makeUser("kept-page-kinds");
+    const document = await asDocument(reader.id, "/projects/5");
+    const data = new Request(document.url, { headers: { Cookie: document.headers.get("Cookie")!, [KIND]: "data" } });
+    const unmarked = new Request(document.url, { headers: { Cookie: document.headers.get("Cookie")! } });
+    const render = page("answer");
+    expect(await (await keepRenderedForReader({ request: document }, render.next)).text()).toBe("answer 1");
+    expect(await (await keepRenderedForReader({ request: data }, render.next)).text()).toBe("answer 2");
+    expect(await (await keepRenderedForReader({ request: new Request(document) }, render.next)).text()).toBe("answer 1");
+    expect(await (await keepRenderedForReader({ request: new Request(data) }, render.next)).text()).toBe("answer 2");
+    await keepRenderedForReader({ request: unmarked }, render.next);
+    await keepRenderedForReader({ request: new Request(unmarked) }, render.next);
     expect(render.calls).toBe(4);
   });
 
   it("renders again after any write", async () => {
     const reader = await makeUser("kept-page-write");
-    const request = await requestAs(reader.id, "/projects/2");
+    const request = await asDocument(reader.id, "/projects/2");
     const render = page("overview");
     await keepRenderedForReader({ request }, render.next);
     await makeProject("kept-page-write");
@@ -97,18 +114,18 @@ describe("a page kept per reader", () => {
 
   it("keeps nothing for a session that ended, a signed-out reader, a refusal or an answer that sets a cookie", async () => {
     const reader = await makeUser("kept-page-ended");
-    const request = await requestAs(reader.id, "/projects/3");
+    const request = await asDocument(reader.id, "/projects/3");
     const render = page("overview");
     await keepRenderedForReader({ request }, render.next);
     await signOut(new Request(request));
     expect(await (await keepRenderedForReader({ request: new Request(request) }, render.next)).text()).toBe("overview 2");
 
     const anonymous = page("sign in");
-    await keepRenderedForReader({ request: new Request("http://127.0.0.1:3999/projects/3") }, anonymous.next);
-    await keepRenderedForReader({ request: new Request("http://127.0.0.1:3999/projects/3") }, anonymous.next);
+    await keepRenderedForReader({ request: new Request("http://127.0.0.1:3999/projects/3", { headers: { [KIND]: "document" } }) }, anonymous.next);
+    await keepRenderedForReader({ request: new Request("http://127.0.0.1:3999/projects/3", { headers: { [KIND]: "document" } }) }, anonymous.next);
     expect(anonymous.calls).toBe(2);
 
-    const live = await requestAs(reader.id, "/projects/4");
+    const live = await asDocument(reader.id, "/projects/4");
     const refused = page("not yours", { status: 403 });
     await keepRenderedForReader({ request: live }, refused.next);
     await keepRenderedForReader({ request: new Request(live) }, refused.next);

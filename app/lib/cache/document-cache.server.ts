@@ -3,6 +3,9 @@ import { getOptionalUser } from "../auth/access.server";
 import { precompress, precompressedResponse, type PrecompressedBody } from "../http/precompressed.server";
 import { keepCached, peekCached, versionedKey } from "./read-cache.server";
 
+/** The header app/serve.mjs sets on every request: "document" or "data". */
+export const REQUEST_KIND_HEADER = "x-firmsand-request-kind";
+
 // A page many people keep open and reload (the project overview) is rendered once and its HTML
 // (or, for a navigation in the app, its data) kept for the same reader until something is written
 // or the read cache's lifetime passes (app/lib/cache/read-cache.server.ts). Rendering the overview
@@ -15,6 +18,7 @@ import { keepCached, peekCached, versionedKey } from "./read-cache.server";
 //   Cookie header (so a different session or cookie is a different key) and the URL.
 // - Only a 200 without Set-Cookie is kept; anything else (a redirect, an error, a refreshed
 //   cookie) goes to its reader alone.
+// - A document and a page's data are kept apart (the production server says which a request is).
 // - Only reading requests (GET); the framing policy and other headers the root adds on the way
 //   out are added to every answer, kept or not.
 
@@ -33,11 +37,15 @@ const TRANSFER_HEADERS = new Set(["content-length", "content-encoding", "date", 
  */
 export async function keepRenderedForReader({ request }: { request: Request }, next: () => Promise<Response>): Promise<Response> {
   if (request.method !== "GET") return next();
+  // Set by the production server (app/serve.mjs) over anything a client sent: a page's document
+  // and its data share a URL here. Without it (the development server) nothing is kept.
+  const kind = request.headers.get(REQUEST_KIND_HEADER);
+  if (kind !== "document" && kind !== "data") return next();
   const user = await getOptionalUser(request);
   if (!user) return next();
   const cookie = createHash("sha256").update(request.headers.get("Cookie") ?? "").digest("base64url");
   const url = new URL(request.url);
-  const key = versionedKey(`document:${user.id}:${cookie}:${url.pathname}${url.search}`);
+  const key = versionedKey(`page:${kind}:${user.id}:${cookie}:${url.pathname}${url.search}`);
   if (key === null) return next();
   const kept = await peekCached<KeptDocument>(key)?.catch(() => undefined);
   if (kept) return precompressedResponse(request, kept.body, Object.fromEntries(kept.headers));
