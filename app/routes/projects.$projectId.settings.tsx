@@ -17,17 +17,21 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
 import { readFileForm } from "~/lib/http/body.server";
 import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
-import { getProjectSettings, LARGE_GRID_CELLS, previewWorkLimit, projectPatchSchema, prospectiveCellCount, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
+import { getLatestRecompute, getProjectSettings, LARGE_GRID_CELLS, listSettingsVersions, previewWorkLimit, projectPatchSchema, prospectiveCellCount, recomputeProjectFigures, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
+import { RecomputeStatus } from "~/components/recompute-status";
+import { SettingsHistory } from "~/components/settings-history";
 import { WORK_LIMIT_ACCEPT, WORK_LIMIT_MAX_BYTES, type WorkLimitFormat } from "../../shared/grid/work-limit-geojson";
 import { readWorkLimitFile } from "~/lib/geo/work-limit-files.server";
 import type { Route } from "./+types/projects.$projectId.settings";
 
 // The manager's settings page: one form per section, each saved on its own through the project
-// setup service (which checks, recomputes when surveys exist and writes the audit log).
+// setup service (which checks, keeps the settings history, queues a recompute when surveys exist
+// and writes the audit log); the latest recompute's progress or summary, and the history.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId, "project.configure");
-  return { settings: await getProjectSettings(access.project), canArchive: can(access, "project.archive") };
+  const [settings, recompute, history] = await Promise.all([getProjectSettings(access.project), getLatestRecompute(access.project), listSettingsVersions(access.project, 20)]);
+  return { settings, recompute, history, canArchive: can(access, "project.archive") };
 }
 
 const blankToUndefined = (value: unknown) => (value === "" || value === null ? undefined : value);
@@ -72,6 +76,8 @@ const actionSchema = z.discriminatedUnion("intent", [
     geometry: z.preprocess(blankToUndefined, z.string().optional()),
   }),
   z.object({ intent: z.literal("zone-delete"), zoneId: z.coerce.number().int().positive() }),
+  // Every survey's figures again with the settings in force (after a recompute failed or was cut off).
+  z.object({ intent: z.literal("recompute") }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
   z.object({
     intent: z.literal("emergency"),
@@ -118,6 +124,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     let patch: ProjectPatch;
     switch (input.intent) {
+      case "recompute": {
+        const { started } = await recomputeProjectFigures(project, user);
+        return answered({ intent: input.intent, errors: {}, notice: started ? "Recompute started: its progress is shown at the top of the page." : "A recompute is already under way: its progress is shown at the top of the page." });
+      }
       case "identity":
       case "coordinates": {
         const { intent: _intent, ...fields } = input;
@@ -189,12 +199,13 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     const checked = projectPatchSchema.safeParse(patch);
     if (!checked.success) return failed(input.intent, fieldErrorsOf(validationErrorFrom(checked.error)));
-    const { settings, recomputed, overlaps } = await updateProjectSettings(project, user, checked.data, { ip });
+    const { settings, recompute, overlaps } = await updateProjectSettings(project, user, checked.data, { ip });
     const zoneIntent = input.intent === "zone-save" || input.intent === "zone-delete";
     const cells = settings.cellCount === null || zoneIntent || input.intent === "emergency" || input.intent === "dive-work" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
     const shared = overlaps.map((overlap) => ` "${overlap.second}" overlaps "${overlap.first}" by about ${Math.round(overlap.area).toLocaleString("en-US")} ${unitLabel(settings.lengthUnit, "area")}: the cells they share count in "${overlap.first}", the earlier zone.`).join("");
     const what = input.intent === "zone-delete" ? "Zone deleted." : "Saved.";
-    return answered({ intent: input.intent, errors: {}, notice: `${what}${cells}${shared}${recomputed ? " Every survey's figures were recomputed." : ""}` });
+    const recomputing = recompute ? " Every survey's figures are being recomputed: the progress is shown at the top of the page." : "";
+    return answered({ intent: input.intent, errors: {}, notice: `${what}${cells}${shared}${recomputing}` });
   } catch (error) {
     if (error instanceof DomainError) return failed(input.intent, fieldErrorsOf(error));
     throw error;
@@ -233,7 +244,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   const emergencyErrors = errorsFor("emergency");
   const emergency = settings.emergency;
   const preview = actionData?.preview ?? null;
-  const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures.` : "";
+  const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures in the background, and the page shows what changed.` : "";
 
   const archived = settings.archivedAt !== null;
   const lengthUnitRef = useRef<HTMLSelectElement>(null);
@@ -249,7 +260,8 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           Setting up this project. <Link className="font-medium text-lagoon underline" to={`/projects/${settings.id}/setup?step=${setupStep}`}>Back to the setup steps</Link>
         </p>
       ) : null}
-      <ActionMessages error={actionData?.errors.form} />
+      <ActionMessages error={actionData?.errors.form} notice={noticeFor("recompute")} />
+      {loaderData.recompute ? <RecomputeStatus initial={loaderData.recompute} volumeLabel={unitLabel(settings.lengthUnit, "volume")} canStart={!archived} /> : null}
       {archived ? <p className="rounded border border-line bg-panel px-3 py-2 text-sm">The project is archived: its settings are shown as they were and cannot be changed until a site admin restores it.</p> : null}
 
       {/* An archived project's forms are shown disabled: the server refuses them anyway (409). */}
@@ -404,6 +416,10 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
         </Form>
       </Section>
       </fieldset>
+
+      <Section id="history-heading" title="Settings history">
+        <SettingsHistory versions={loaderData.history} lengthUnit={settings.lengthUnit} />
+      </Section>
 
       {loaderData.canArchive ? (
         <Section id="archive-heading" title="Archive">
