@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import { Form, useRevalidator } from "react-router";
 import { changeStatusWords, changeVolumeWords, changedVolumes } from "../../shared/volumes/figures-change";
 import type { RecomputeJobView } from "~/lib/engine/recompute-jobs.server";
@@ -17,8 +17,14 @@ const when = (iso: string) => new Date(iso).toLocaleString("en-US", { dateStyle:
 export function RecomputeStatus({ initial, volumeLabel, canStart }: { initial: RecomputeJobView; volumeLabel: string; canStart: boolean }) {
   const [job, setJob] = useState(initial);
   const revalidator = useRevalidator();
+  const panel = useRef<HTMLElement>(null);
   useEffect(() => setJob(initial), [initial]);
   const active = job.state === "queued" || job.state === "running";
+  // A recompute a save just started is brought into view: the save's own section may be far below.
+  useEffect(() => {
+    if (active) panel.current?.scrollIntoView({ block: "nearest" });
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- once per job
+  }, [job.id]);
   useEffect(() => {
     if (!active) return;
     let stopped = false;
@@ -41,7 +47,7 @@ export function RecomputeStatus({ initial, volumeLabel, canStart }: { initial: R
 
   const version = job.settingsVersion === null ? "" : ` for settings version ${job.settingsVersion}`;
   return (
-    <section aria-labelledby="recompute-heading" className={`rounded border bg-panel p-4 ${job.state === "failed" ? "border-danger" : active ? "border-lagoon" : "border-line"}`} data-testid="recompute-status">
+    <section ref={panel} aria-labelledby="recompute-heading" className={`rounded border bg-panel p-4 ${job.state === "failed" ? "border-danger" : active ? "border-lagoon" : "border-line"}`} data-testid="recompute-status">
       <h2 id="recompute-heading" className="text-lg font-semibold">{active ? "Recomputing every survey's figures" : job.state === "done" ? "Figures recomputed" : "Recompute failed"}</h2>
       <div role="status" aria-live="polite" className="mt-2 space-y-2 text-sm">
         {active ? (

@@ -16,7 +16,7 @@ export function SettingsHistory({ versions, lengthUnit }: { versions: SettingsVe
     <>
       <p className="text-sm text-muted">A new version is kept each time the work limit, grid, zones or tolerances change. The figures, the quantities and the daily report say which version they were computed with.</p>
       <div className="mt-3 overflow-x-auto" role="region" aria-label="Settings versions" tabIndex={0}>
-        <table className="min-w-full text-left text-sm" data-testid="settings-history">
+        <table className="w-full min-w-[52rem] text-left text-sm" data-testid="settings-history">
           <thead>
             <tr className="border-b border-line">
               <th scope="col" className="py-1 pr-3 font-medium">Version</th>

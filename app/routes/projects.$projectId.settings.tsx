@@ -76,6 +76,8 @@ const actionSchema = z.discriminatedUnion("intent", [
     geometry: z.preprocess(blankToUndefined, z.string().optional()),
   }),
   z.object({ intent: z.literal("zone-delete"), zoneId: z.coerce.number().int().positive() }),
+  // A zone one place earlier or later in the order (where zones overlap, the shared cells count in the earlier one).
+  z.object({ intent: z.literal("zone-move"), zoneId: z.coerce.number().int().positive(), direction: z.enum(["up", "down"], { error: "Move a zone up or down" }) }),
   // Every survey's figures again with the settings in force (after a recompute failed or was cut off).
   z.object({ intent: z.literal("recompute") }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
@@ -161,10 +163,21 @@ export async function action({ request, params }: Route.ActionArgs) {
         patch = { workLimit: JSON.parse(input.geoJson) };
         break;
       case "zone-save":
-      case "zone-delete": {
+      case "zone-delete":
+      case "zone-move": {
         // Through the same check as zones sent to the API: the whole list, changed in one place.
         const { zones } = await getProjectSettings(project);
         const current = zones.map((zone) => ({ id: zone.id, name: zone.name, geometry: zone.geometry }));
+        if (input.intent === "zone-move") {
+          const at = current.findIndex((zone) => zone.id === input.zoneId);
+          if (at < 0) return failed(input.intent, { form: "That zone is no longer there; the page shows the zones as they are now." });
+          const to = input.direction === "up" ? at - 1 : at + 1;
+          if (to < 0 || to >= current.length) return failed(input.intent, { form: `That zone is already ${input.direction === "up" ? "first" : "last"}.` });
+          const order = [...current];
+          [order[at], order[to]] = [order[to], order[at]];
+          patch = { zones: order };
+          break;
+        }
         if (input.intent === "zone-delete") {
           if (!current.some((zone) => zone.id === input.zoneId)) return failed(input.intent, { form: "That zone is no longer there; the page shows the zones as they are now." });
           patch = { zones: current.filter((zone) => zone.id !== input.zoneId) };
@@ -200,10 +213,10 @@ export async function action({ request, params }: Route.ActionArgs) {
     const checked = projectPatchSchema.safeParse(patch);
     if (!checked.success) return failed(input.intent, fieldErrorsOf(validationErrorFrom(checked.error)));
     const { settings, recompute, overlaps } = await updateProjectSettings(project, user, checked.data, { ip });
-    const zoneIntent = input.intent === "zone-save" || input.intent === "zone-delete";
+    const zoneIntent = input.intent === "zone-save" || input.intent === "zone-delete" || input.intent === "zone-move";
     const cells = settings.cellCount === null || zoneIntent || input.intent === "emergency" || input.intent === "dive-work" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
     const shared = overlaps.map((overlap) => ` "${overlap.second}" overlaps "${overlap.first}" by about ${Math.round(overlap.area).toLocaleString("en-US")} ${unitLabel(settings.lengthUnit, "area")}: the cells they share count in "${overlap.first}", the earlier zone.`).join("");
-    const what = input.intent === "zone-delete" ? "Zone deleted." : "Saved.";
+    const what = input.intent === "zone-delete" ? "Zone deleted." : input.intent === "zone-move" ? "Zone order saved." : "Saved.";
     const recomputing = recompute ? " Every survey's figures are being recomputed: the progress is shown at the top of the page." : "";
     return answered({ intent: input.intent, errors: {}, notice: `${what}${cells}${shared}${recomputing}` });
   } catch (error) {
@@ -251,7 +264,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   // Opened from "Set up this project": a way back to the step it came from.
   const [searchParams] = useSearchParams();
   const setupStep = SETUP_STEP_KEYS.find((key) => key === searchParams.get("setup")) ?? null;
-  const zoneResult = actionData && (actionData.intent === "zone-save" || actionData.intent === "zone-delete") ? actionData : null;
+  const zoneResult = actionData && (actionData.intent === "zone-save" || actionData.intent === "zone-delete" || actionData.intent === "zone-move") ? actionData : null;
 
   return (
     <div className="space-y-6">
@@ -265,7 +278,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
       {archived ? <p className="rounded border border-line bg-panel px-3 py-2 text-sm">The project is archived: its settings are shown as they were and cannot be changed until a site admin restores it.</p> : null}
 
       {/* An archived project's forms are shown disabled: the server refuses them anyway (409). */}
-      <fieldset disabled={archived} className="m-0 min-w-0 space-y-6 border-0 p-0">
+      <fieldset disabled={archived} className="mx-0 min-w-0 space-y-6 border-0 p-0">
       <Section id="identity-heading" title="Identity">
         <ActionMessages notice={noticeFor("identity")} />
         <Form method="post" className="grid gap-3 sm:grid-cols-2">
