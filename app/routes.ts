@@ -55,6 +55,8 @@ export default [
   route("api/projects/:projectId/quantities", "routes/api.projects.$projectId.quantities.ts"),
   route("api/projects/:projectId/quantities.csv", "routes/api.projects.$projectId.quantities[.]csv.ts"),
   route("api/projects/:projectId/quantities.geojson", "routes/api.projects.$projectId.quantities[.]geojson.ts"),
+  route("api/projects/:projectId/recomputes", "routes/api.projects.$projectId.recomputes.ts"),
+  route("api/projects/:projectId/recomputes/:jobId", "routes/api.projects.$projectId.recomputes.$jobId.ts"),
   route("api/projects/:projectId/report-subscribers", "routes/api.projects.$projectId.report-subscribers.ts"),
   route("api/projects/:projectId/report-subscribers/:subscriberId", "routes/api.projects.$projectId.report-subscribers.$subscriberId.ts"),
   route("api/projects/:projectId/reconciliation", "routes/api.projects.$projectId.reconciliation.ts"),

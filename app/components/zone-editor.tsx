@@ -59,6 +59,9 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
   const [mode, setMode] = useState<Mode>("idle");
   const [vertices, setVertices] = useState<LonLat[]>([]);
   const [hint, setHint] = useState<string | null>(null);
+  // The zone whose outline is being drawn again; null: a new zone.
+  const [redrawId, setRedrawId] = useState<number | null>(null);
+  const redrawing = redrawId === null ? null : zones.find((zone) => zone.id === redrawId) ?? null;
   const instructionsId = useId();
   // The map's handlers read the draft through refs: they are bound once.
   const modeRef = useRef(mode);
@@ -66,7 +69,8 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
   const verticesRef = useRef(vertices);
   verticesRef.current = vertices;
 
-  const start = () => {
+  const start = (zoneId: number | null = null) => {
+    setRedrawId(zoneId);
     setVertices([]);
     setHint(null);
     setMode("drawing");
@@ -75,6 +79,7 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
   const cancel = () => {
     setVertices([]);
     setHint(null);
+    setRedrawId(null);
     setMode("idle");
   };
   const undo = () => setVertices((current) => current.slice(0, -1));
@@ -188,6 +193,7 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
   useEffect(() => {
     if (result?.intent === "zone-save" && result.notice) {
       setVertices([]);
+      setRedrawId(null);
       setMode("idle");
     }
   }, [result]);
@@ -211,7 +217,7 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
       </div>
       <div className="flex flex-wrap items-center gap-2" role="group" aria-label="Drawing">
         {mode === "idle" ? (
-          <button type="button" className={buttonClass} onClick={start} disabled={disabled || !ready || !workLimit}>Draw a zone</button>
+          <button type="button" className={buttonClass} onClick={() => start()} disabled={disabled || !ready || !workLimit}>Draw a zone</button>
         ) : null}
         {mode === "drawing" ? (
           <>
@@ -221,18 +227,26 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
           </>
         ) : null}
         <p className="text-sm" aria-live="polite" data-testid="zone-draft-state">
-          {mode === "drawing" ? <>Drawing: <span className="figures">{vertices.length}</span> {vertices.length === 1 ? "corner" : "corners"}.</> : null}
+          {mode === "drawing" ? <>{redrawing ? `New outline of ${redrawing.name}: ` : "Drawing: "}<span className="figures">{vertices.length}</span> {vertices.length === 1 ? "corner" : "corners"}.</> : null}
           {hint ? <span className="ml-1 text-danger">{hint}</span> : null}
         </p>
       </div>
       {!workLimit ? <p className="text-sm text-muted">Zones are drawn inside the work limit: set the work limit first.</p> : null}
 
       {mode === "drawn" ? (
-        <Form method="post" className="grid gap-3 rounded border border-line p-3 sm:grid-cols-[1fr_auto]" aria-label="New zone">
+        <Form method="post" className="grid gap-3 rounded border border-line p-3 sm:grid-cols-[1fr_auto]" aria-label={redrawing ? `New outline of ${redrawing.name}` : "New zone"}>
           <input type="hidden" name="geometry" value={vertices.length >= MIN_ZONE_VERTICES ? JSON.stringify(draftPolygon(vertices)) : ""} />
-          <TextField label="Name of the new zone" name="name" required maxLength={120} error={saveErrors.name} autoFocus />
+          {redrawing ? (
+            <>
+              <input type="hidden" name="zoneId" value={redrawing.id} />
+              <input type="hidden" name="name" value={redrawing.name} />
+              <p className="self-end text-sm">The new outline replaces that of <strong>{redrawing.name}</strong>; the zone keeps its name, place in the order and the records that name it.</p>
+            </>
+          ) : (
+            <TextField label="Name of the new zone" name="name" required maxLength={120} error={saveErrors.name} autoFocus />
+          )}
           <div className="flex items-end gap-2">
-            <SubmitButton intent="zone-save" pendingLabel="Saving…">Save zone</SubmitButton>
+            <SubmitButton intent="zone-save" pendingLabel="Saving…">{redrawing ? "Save the outline" : "Save zone"}</SubmitButton>
             <button type="button" className={buttonClass} onClick={cancel}>Discard</button>
           </div>
           {saveErrors.geometry ? <p role="alert" className="text-sm text-danger sm:col-span-2">{saveErrors.geometry}</p> : null}
@@ -251,6 +265,17 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
                 <TextField className="min-w-48 flex-1" label={`Name of zone ${index + 1}`} name="name" defaultValue={zone.name} required maxLength={120} key={zone.name} />
                 <SubmitButton intent="zone-save" tone="plain" pendingLabel="Saving…" aria-label={`Rename zone ${zone.name}`}>Rename</SubmitButton>
               </Form>
+              <button type="button" className={buttonClass} onClick={() => start(zone.id)} disabled={disabled || !ready || mode !== "idle"} aria-label={`Redraw the outline of zone ${zone.name}`}>Redraw</button>
+              {(["up", "down"] as const).map((direction) => (
+                <Form method="post" key={direction}>
+                  <input type="hidden" name="zoneId" value={zone.id} />
+                  <input type="hidden" name="direction" value={direction} />
+                  <SubmitButton
+                    intent="zone-move" tone="plain" pendingLabel="…" title={`Move ${direction}: where zones overlap, the shared cells count in the earlier one`}
+                    disabled={direction === "up" ? index === 0 : index === zones.length - 1} aria-label={`Move zone ${zone.name} ${direction}`}
+                  >{direction === "up" ? "↑" : "↓"}</SubmitButton>
+                </Form>
+              ))}
               <ConfirmedActionForm
                 question={`Delete zone ${zone.name}? Its cells become Unzoned (or fall to an overlapping zone), and records that name it lose the zone.`}
                 intent="zone-delete" fields={{ zoneId: zone.id }}

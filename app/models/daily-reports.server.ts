@@ -5,7 +5,7 @@ import { BATCH_DAYS, dayState, type DayState } from "../../shared/daily-report/p
 import { localDayOf } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
 import {
-  Assignment, CountersignRequest, DailyReport, Membership, Project, ReportSubscriber, User, DewateringShift, DailyReportAmendment, Dive, DiveTeam, Find, Haul, Hold, MonitoringStation, StopWorkEvent, SurveySnapshot, TubeFill, WaterQualityReading, WildlifeStandDown,
+  Assignment, CountersignRequest, DailyReport, Membership, Project, ReportSubscriber, User, DewateringShift, DailyReportAmendment, Dive, DiveTeam, Find, Haul, Hold, MonitoringStation, ProjectSettingsVersion, StopWorkEvent, SurveySnapshot, TubeFill, WaterQualityReading, WildlifeStandDown,
   getSequelize, type EnteredNotesRecord,
 } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
@@ -87,13 +87,16 @@ export async function compileReport(project: ProjectView, date: string, entered:
       include: [{ model: Find, as: "find", attributes: ["catalogueNumber"] }],
     }),
     // The project totals each survey left, as of this day and the survey before it.
-    SurveySnapshot.findAll({ where: { projectId: project.id, surveyedOn: { [Op.lte]: date } }, attributes: ["surveyedOn", "totals"], order: [["surveyedOn", "DESC"]], limit: 2 }),
+    SurveySnapshot.findAll({
+      where: { projectId: project.id, surveyedOn: { [Op.lte]: date } }, attributes: ["surveyedOn", "totals", "settingsVersionId"], order: [["surveyedOn", "DESC"]], limit: 2,
+      include: [{ model: ProjectSettingsVersion, as: "settingsVersion", attributes: ["id", "version"] }],
+    }),
   ]);
   const totalsOf = (snapshot: SurveySnapshot): SurveyTotals => ({
     surveyedOn: String(snapshot.surveyedOn), removedVolume: snapshot.totals.removedVolume, remainingVolume: snapshot.totals.remainingVolume, cellsAtFirmSand: snapshot.totals.cellsAtFirmSand,
   });
   const survey = snapshots[0] && String(snapshots[0].surveyedOn) === date
-    ? { today: totalsOf(snapshots[0]), previous: snapshots[1] ? totalsOf(snapshots[1]) : null, volumeLabel: unitLabel(project.lengthUnit, "volume") }
+    ? { today: totalsOf(snapshots[0]), previous: snapshots[1] ? totalsOf(snapshots[1]) : null, volumeLabel: unitLabel(project.lengthUnit, "volume"), settingsVersion: snapshots[0].settingsVersion?.version ?? null }
     : null;
   const teams = new Map<string, number>();
   for (const assignment of planned) if (assignment.team) teams.set(assignment.team.name, assignment.team.members.length);

@@ -13,9 +13,10 @@ import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { canCreateProjects } from "~/lib/auth/permissions";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import { normaliseEmail, type UserView } from "~/lib/auth/users.server";
-import { getSequelize, LENGTH_UNITS, Membership, Project, Survey, User, Zone, type LengthUnit } from "~/lib/db.server";
+import { getSequelize, LENGTH_UNITS, Membership, Project, ProjectSettingsVersion, Survey, User, Zone, type LengthUnit, type VersionedSettings } from "~/lib/db.server";
 import { projectGrid } from "~/lib/engine/project-geometry.server";
-import { recomputeProjectStatistics } from "~/lib/engine/recompute.server";
+import { currentSettingsVersion } from "~/lib/engine/recompute.server";
+import { findRecomputeJob, latestRecomputeJob, presentRecomputeJob, queueRecompute, type RecomputeJobView } from "~/lib/engine/recompute-jobs.server";
 import { lengthUnitOfCrs, resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { isTimeZone } from "~/lib/import/import-options";
 import { withProjectLock } from "~/lib/import/project-lock.server";
@@ -26,7 +27,8 @@ import { ConflictError, ForbiddenError, NotFoundError, ValidationError, type Err
  * the new-project form and the demo seeder all go through. Settings are checked as a whole (the
  * CRS decides how the work limit is read, the work limit where the grid starts) and every problem
  * is named by its field; a change to what the figures rest on (work limit, zones, grid,
- * tolerances) recomputes the project's statistics in the same transaction.
+ * tolerances) is kept as a new settings version and, once surveys exist, recomputes every
+ * survey's figures in a background job (recompute-jobs.server.ts).
  */
 
 const positive = (what: string) => z.number({ error: `${what} must be a number` }).finite().positive(`${what} must be more than 0`);
@@ -328,6 +330,64 @@ async function freeSlug(name: string, transaction: Transaction): Promise<string>
   return slug;
 }
 
+// ——— The settings history.
+
+/** The figures settings of `settings` as a version keeps them. */
+function versionedOf(settings: ProjectSettings): VersionedSettings {
+  return {
+    grid: settings.grid,
+    tolerances: settings.tolerances,
+    workLimit: settings.workLimit,
+    zones: settings.zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, geometry: zone.geometry })),
+  };
+}
+
+/** Which parts of the figures settings differ between two versions' values, in the history's words. */
+function changedParts(before: VersionedSettings, after: VersionedSettings): string[] {
+  const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
+  const parts: string[] = [];
+  if (!same(before.workLimit, after.workLimit)) parts.push("work limit");
+  if (!same(before.grid, after.grid)) parts.push("grid");
+  if (!same(before.zones, after.zones)) parts.push("zones");
+  if (!same(before.tolerances, after.tolerances)) parts.push("tolerances");
+  return parts;
+}
+
+/** Keeps `settings` as the project's next settings version (1 for a new project). */
+async function keepSettingsVersion(projectId: number, settings: VersionedSettings, changed: string[], userId: number | null, transaction: Transaction): Promise<ProjectSettingsVersion> {
+  const latest = await currentSettingsVersion(projectId, transaction);
+  return ProjectSettingsVersion.create({ projectId, version: (latest?.version ?? 0) + 1, settings, changedParts: changed, changedById: userId }, { transaction });
+}
+
+export interface SettingsVersionView {
+  version: number;
+  /** ISO 8601. */
+  savedAt: string;
+  /** Who saved it; null when the account is gone or for the settings as found when the history began. */
+  savedBy: string | null;
+  changed: string[];
+  grid: VersionedSettings["grid"];
+  tolerances: VersionedSettings["tolerances"];
+  zones: string[];
+}
+
+/** The project's settings versions, newest first (`limit` of them), as the settings page and the API show them. */
+export async function listSettingsVersions(project: ProjectView, limit = 50): Promise<SettingsVersionView[]> {
+  const versions = await ProjectSettingsVersion.findAll({
+    where: { projectId: project.id }, order: [["version", "DESC"]], limit,
+    include: [{ model: User, as: "changedBy", attributes: ["id", "name", "email"] }],
+  });
+  return versions.map((row) => ({
+    version: row.version,
+    savedAt: row.createdAt.toISOString(),
+    savedBy: row.changedBy ? row.changedBy.name || row.changedBy.email : null,
+    changed: row.changedParts,
+    grid: row.settings.grid,
+    tolerances: row.settings.tolerances,
+    zones: row.settings.zones.map((zone) => zone.name),
+  }));
+}
+
 // ——— Creating.
 
 /** A ForbiddenError unless the permission table lets `user` create projects (routes ask before reading a body). */
@@ -391,6 +451,7 @@ export async function createProject(actor: UserView, input: NewProjectInput, opt
     await createZones(project.id, zones, transaction);
     await Membership.create({ projectId: project.id, userId: manager?.id ?? actor.id, role: "manager" }, { transaction });
     const settings = await settingsOf(project, transaction);
+    await keepSettingsVersion(project.id, versionedOf(settings), ["created"], actor.id, transaction);
     await recordAudit(
       { action: AUDIT_ACTIONS.projectCreated, projectId: project.id, userId: actor.id, ip: options.ip ?? null, detail: { after: auditable(settings), workLimitCoordinates: limit.coordinates, manager: manager?.email ?? actor.email } },
       transaction,
@@ -477,14 +538,16 @@ export async function prospectiveCellCount(project: ProjectView, grid: NonNullab
 
 /**
  * Applies `patch` to the project's settings. A change to the work limit, zones, grid or tolerances
- * of a project with surveys recomputes every survey's figures in the same transaction, under the
- * project's lock (as an import does); the CRS and length unit may change only before the first
- * survey. The audit log gets the settings before and after. `overlaps` names the zones that share
- * area, when zones were given (allowed: a shared cell counts in the earlier zone).
+ * is kept as a new settings version (who, when, the values); on a project with surveys it also
+ * queues a recompute of every survey's figures, which runs in the background once this transaction
+ * commits (`recompute`: its job's id; the stored figures are the earlier ones until it is done).
+ * The CRS and length unit may change only before the first survey. The audit log gets the settings
+ * before and after. `overlaps` names the zones that share area, when zones were given (allowed: a
+ * shared cell counts in the earlier zone).
  */
 export function updateProjectSettings(
   project: ProjectView, actor: UserView, patch: ProjectPatch, options: { ip?: string | null } = {},
-): Promise<{ settings: ProjectSettings; recomputed: boolean; overlaps: Array<{ first: string; second: string; area: number }> }> {
+): Promise<{ settings: ProjectSettings; settingsVersion: number | null; recompute: { jobId: number } | null; overlaps: Array<{ first: string; second: string; area: number }> }> {
   return withProjectLock(project.id, () =>
     getSequelize().transaction(async (transaction) => {
       const row = await Project.findByPk(project.id, { transaction, lock: transaction.LOCK.UPDATE });
@@ -546,20 +609,61 @@ export function updateProjectSettings(
       const figuresChange = (["workLimitGeoJson", "cellSize", "rotationDeg", "gridOriginE", "gridOriginN", "rasterResolution", "maxEdge", "tolerance", "firmShare", "minCoverage"] as const).some((key) => row.changed(key));
       await row.save({ transaction });
       if (zones) await replaceZones(project.id, zones, transaction);
-      const recomputed = surveys > 0 && (figuresChange || zones !== null);
-      if (recomputed) await recomputeProjectStatistics(project.id, transaction);
       const after = await settingsOf(row, transaction);
+      const changed = changedParts(versionedOf(before), versionedOf(after));
+      const version = changed.length > 0 ? await keepSettingsVersion(project.id, versionedOf(after), changed, actor.id, transaction) : null;
+      // Only the over-dredge allowance changed: pay periods read it when asked, no figure moves.
+      const recomputed = surveys > 0 && version !== null && (figuresChange || changed.includes("zones"));
+      const job = recomputed ? await queueRecompute(project.id, actor.id, version.id, transaction) : null;
       await recordAudit(
         {
           action: AUDIT_ACTIONS.projectSettingsChanged,
           projectId: project.id,
           userId: actor.id,
           ip: options.ip ?? null,
-          detail: { before: auditable(before), after: auditable(after), ...(limit ? { workLimitCoordinates: limit.coordinates } : {}), recomputed },
+          detail: {
+            before: auditable(before), after: auditable(after), ...(limit ? { workLimitCoordinates: limit.coordinates } : {}),
+            recomputed, ...(version ? { settingsVersion: version.version } : {}), ...(job ? { recomputeJobId: job.id } : {}),
+          },
         },
         transaction,
       );
-      return { settings: after, recomputed, overlaps: zones ? zoneOverlaps(zones, cellSize) : [] };
+      const current = version ?? (await currentSettingsVersion(project.id, transaction));
+      return { settings: after, settingsVersion: current?.version ?? null, recompute: job ? { jobId: job.id } : null, overlaps: zones ? zoneOverlaps(zones, cellSize) : [] };
     }),
   );
+}
+
+/**
+ * Starts a recompute of every survey's figures with the settings in force (after one failed or
+ * was cut off): the job already waiting or running when there is one, else a new one. A
+ * ConflictError for a project without surveys (there is nothing to recompute).
+ */
+export async function recomputeProjectFigures(project: ProjectView, actor: UserView): Promise<{ jobId: number; started: boolean }> {
+  // The latest job, a cut-off one marked failed first.
+  const latest = await latestRecomputeJob(project.id);
+  if (latest && (latest.state === "queued" || latest.state === "running")) return { jobId: latest.id, started: false };
+  return getSequelize().transaction(async (transaction) => {
+    const row = await Project.findByPk(project.id, { transaction, lock: transaction.LOCK.UPDATE });
+    if (!row) throw new NotFoundError("There is no such project.");
+    if ((await Survey.count({ where: { projectId: project.id }, transaction })) === 0) {
+      throw new ConflictError({ message: "This project has no surveys yet, so there are no figures to recompute." });
+    }
+    const version = (await currentSettingsVersion(project.id, transaction)) ?? (await keepSettingsVersion(project.id, versionedOf(await settingsOf(row, transaction)), ["as found"], null, transaction));
+    const job = await queueRecompute(project.id, actor.id, version.id, transaction);
+    return { jobId: job.id, started: true };
+  });
+}
+
+/** One of the project's recomputes as the API and the settings page show it; NotFoundError for none. */
+export async function getRecomputeJob(project: ProjectView, jobId: number): Promise<RecomputeJobView> {
+  const job = await findRecomputeJob(project.id, jobId);
+  if (!job) throw new NotFoundError("There is no such recompute in this project.");
+  return presentRecomputeJob(job, project.lengthUnit);
+}
+
+/** The project's latest recompute (null when it has had none), for the settings page to pick up. */
+export async function getLatestRecompute(project: ProjectView): Promise<RecomputeJobView | null> {
+  const job = await latestRecomputeJob(project.id);
+  return job ? presentRecomputeJob(job, project.lengthUnit) : null;
 }

@@ -4,7 +4,7 @@ import { csvLine, type CsvValue } from "../../shared/csv-safe";
 import { selectSurveysInForce } from "../../shared/surveys-in-force";
 import { unitLabel } from "../../shared/units";
 import { UNZONED_NOTE } from "../../shared/volumes/rollup";
-import { CellResult, Survey, Zone } from "~/lib/db.server";
+import { CellResult, ProjectSettingsVersion, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
 import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { loadProgress, type ProgressFigures, type ProgressView } from "./progress.server";
@@ -35,16 +35,33 @@ export interface QuantitiesView {
   cells: Array<StoredCellFigures & { zone: string | null; latestSurveyOn: string | null }>;
   /** The pay period asked for (default: the baseline to the latest survey); null without figures. */
   period: PayPeriodView | null;
+  /** The settings version the stored figures were computed with (the settings page's history); null: before the history began, or no figures. */
+  settingsVersion: { version: number; savedAt: string; savedBy: string | null } | null;
+}
+
+/** The settings version named by the latest snapshot: the one the stored figures were computed with. */
+async function figuresSettingsVersion(projectId: number): Promise<QuantitiesView["settingsVersion"]> {
+  const snapshot = await SurveySnapshot.findOne({ where: { projectId }, order: [["surveyedOn", "DESC"]], attributes: ["id", "settingsVersionId"] });
+  if (!snapshot?.settingsVersionId) return null;
+  const version = await ProjectSettingsVersion.findByPk(snapshot.settingsVersionId, { include: [{ model: User, as: "changedBy", attributes: ["id", "name", "email"] }] });
+  return version && { version: version.version, savedAt: version.createdAt.toISOString(), savedBy: version.changedBy ? version.changedBy.name || version.changedBy.email : null };
+}
+
+/** The settings version in words, for the CSV and the printed report. */
+export function settingsVersionWords(version: QuantitiesView["settingsVersion"]): string {
+  if (!version) return "not recorded (computed before the settings history began)";
+  return `version ${version.version}, saved ${version.savedAt.slice(0, 16).replace("T", " ")} UTC${version.savedBy ? ` by ${version.savedBy}` : ""} (the project's settings history)`;
 }
 
 /** `period`: the pay period's ends (survey ids); a bad one throws a ValidationError naming `from` or `to`. */
 export async function loadQuantities(project: ProjectView, period: PeriodQuery = {}): Promise<QuantitiesView> {
-  const [payPeriod, progress, surveys, zones, cells] = await Promise.all([
+  const [payPeriod, progress, surveys, zones, cells, settingsVersion] = await Promise.all([
     loadPayPeriod(project, period),
     loadProgress(project),
     Survey.findAll({ where: { projectId: project.id, status: "active" }, attributes: ["id", "kind", "surveyedOn", "datum"] }),
     Zone.findAll({ where: { projectId: project.id }, attributes: ["id", "name"] }),
     CellResult.findAll({ where: { projectId: project.id }, order: [["row", "ASC"], ["col", "ASC"]] }),
+    figuresSettingsVersion(project.id),
   ]);
   const ref = (survey: Survey | undefined): SurveyRef | null =>
     survey ? { id: survey.id, kind: survey.kind, surveyedOn: String(survey.surveyedOn), datum: survey.datum } : null;
@@ -73,6 +90,7 @@ export async function loadQuantities(project: ProjectView, period: PeriodQuery =
       `Volumes in ${volumeLabel}.`,
     progress,
     period: payPeriod,
+    settingsVersion,
     cells: cells
       .filter((cell) => cell.areaInLimit > 0)
       .map((cell) => ({
@@ -118,6 +136,7 @@ export function quantitiesCsv(view: QuantitiesView, generatedAt: Date): string {
   lines.push(csvLine(["Coordinate reference system", project.crs]));
   lines.push(csvLine(["Units", `volumes in ${volume}; lengths in ${project.lengthLabelLong} (${project.lengthLabel}); areas in ${project.lengthLabel}²`]));
   lines.push(csvLine(["Method", view.method]));
+  lines.push(csvLine(["Settings version", settingsVersionWords(view.settingsVersion)]));
   lines.push(csvLine(["Generated", generatedAt.toISOString()]));
   if (progress.zones.some((zone) => zone.zoneId === null)) lines.push(csvLine(["Zone rows", UNZONED_NOTE]));
   const period = view.period;

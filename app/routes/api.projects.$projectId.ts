@@ -11,12 +11,15 @@ const route = apiRoute<Route.LoaderArgs>({
     const { project } = await requireApiAccess(request, params.projectId, "project.configure");
     return Response.json({ settings: await getProjectSettings(project) }, { headers: { "Cache-Control": "no-store" } });
   },
-  // PATCH — any settings; a change the figures rest on is recomputed before the answer (200).
+  // PATCH — any settings: 200 {settings, settingsVersion, recompute: null}, or, when a change the
+  // figures rest on needs every survey recomputed, 202 with the job's address (Location, recompute.url).
   async PATCH({ request, params }) {
     const { project, user } = await requireApiAccess(request, params.projectId, "project.configure");
     const patch = await readApiBody(request, projectPatchSchema, { formats: ["json"] });
-    const { settings, recomputed } = await updateProjectSettings(project, user, patch, { ip: clientAddress(request) });
-    return Response.json({ settings, recomputed });
+    const { settings, settingsVersion, recompute } = await updateProjectSettings(project, user, patch, { ip: clientAddress(request) });
+    if (!recompute) return Response.json({ settings, settingsVersion, recompute: null });
+    const url = `/api/projects/${project.id}/recomputes/${recompute.jobId}`;
+    return Response.json({ settings, settingsVersion, recompute: { id: recompute.jobId, url } }, { status: 202, headers: { Location: url } });
   },
 });
 export const loader = route.loader;

@@ -4,7 +4,7 @@ import { Percent, Volume, ZoneName, formatNumber, zoneKey } from "~/components/p
 import { NotFoundError, ValidationError } from "~/lib/errors";
 import { UNZONED_NOTE } from "../../shared/volumes/rollup";
 import { requireRole } from "~/lib/auth/access.server";
-import { loadQuantities } from "~/models/quantities.server";
+import { loadQuantities, settingsVersionWords } from "~/models/quantities.server";
 import { getSignedPeriod, type PayPeriodView, type SignedPeriod } from "~/models/pay-periods.server";
 import type { PayPeriodSnapshot } from "~/lib/db.server";
 import { urlIdSchema } from "~/lib/http/url-id";
@@ -41,7 +41,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     : view.progress.hasFigures ? await loadReconciliation(project, view.progress) : null;
   return {
     reconciliation,
-    project: view.project, baseline: view.baseline, latest: view.latest, method: view.method,
+    project: view.project, baseline: view.baseline, latest: view.latest, method: view.method, settingsVersion: settingsVersionWords(view.settingsVersion),
     // A signed report prints its figures as issued, whatever the surveys and settings are now.
     period: signed ? signedPeriod(signed.snapshot) : view.period && reportPeriod(view.period),
     signed: signed && { name: signed.signedName, at: signed.signedAt, difference: signed.difference, recomputeNote: signed.recomputeNote },
@@ -98,6 +98,7 @@ export default function QuantitiesReport({ loaderData }: Route.ComponentProps) {
         <dt className="text-muted">Compared with</dt><dd>{loaderData.latest ? <><time className="figures" dateTime={loaderData.latest.surveyedOn}>{loaderData.latest.surveyedOn}</time> {loaderData.latest.kind} (<span className="figures">#{loaderData.latest.id}</span>)</> : "none"}</dd>
         <dt className="text-muted">Coordinate system</dt><dd><span className="figures">{project.crs}</span>, {project.lengthLabelLong}</dd>
         <dt className="text-muted">Method</dt><dd>{loaderData.method}</dd>
+        <dt className="text-muted">Settings</dt><dd>{loaderData.settingsVersion}</dd>
         <dt className="text-muted">Prepared</dt><dd><span className="figures">{loaderData.preparedOn}</span> by {loaderData.preparedBy}</dd>
       </dl>
       <div className="mt-6 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon print:overflow-visible" tabIndex={0} role="region" aria-label="Totals per zone, scrollable"><table className="w-full border-collapse text-right text-sm" aria-label="Totals per zone">

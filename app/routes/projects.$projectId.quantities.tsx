@@ -12,7 +12,7 @@ import { DomainError, ValidationError } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { fieldErrorsFrom, parseForm } from "~/lib/http/form";
 import { listSignedPeriods, signPayPeriod } from "~/models/pay-periods.server";
-import { loadQuantities } from "~/models/quantities.server";
+import { loadQuantities, settingsVersionWords } from "~/models/quantities.server";
 import type { Route } from "./+types/projects.$projectId.quantities";
 import { readPageForm } from "~/lib/http/body.server";
 
@@ -35,7 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     view = await loadQuantities(project);
   }
   return {
-    project: view.project, baseline: view.baseline, latest: view.latest, method: view.method, total: view.progress.total, zones: view.progress.zones, cellCount: view.cells.length,
+    project: view.project, baseline: view.baseline, latest: view.latest, method: view.method, settingsVersion: settingsVersionWords(view.settingsVersion), total: view.progress.total, zones: view.progress.zones, cellCount: view.cells.length,
     period: view.period && { ...view.period, figures: { total: view.period.figures.total, zones: view.period.figures.zones } },
     periodError,
     canSign: can(access, "quantities.sign"),
@@ -87,6 +87,7 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
           {loaderData.latest ? <span className="figures">{loaderData.latest.surveyedOn} ({loaderData.latest.kind})</span> : "none"} · volumes in {unit} · {loaderData.cellCount} cells
         </p>
         <p className="mt-1 text-sm text-muted">{loaderData.method}</p>
+        <p className="mt-1 text-sm text-muted" data-testid="settings-version">Settings: {loaderData.settingsVersion}.</p>
         {period ? <p className="mt-1 text-sm">The exports carry the pay period shown below: <span className="figures">{period.from.surveyedOn} → {period.to.surveyedOn}</span>.</p> : null}
         <div className="mt-3 flex flex-wrap gap-2">
           <a className={linkClass} href={`/api/projects/${project.id}/quantities.csv${periodQuery}`} download>Quantities CSV (zones and cells)</a>

@@ -17,17 +17,21 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
 import { readFileForm } from "~/lib/http/body.server";
 import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
-import { getProjectSettings, LARGE_GRID_CELLS, previewWorkLimit, projectPatchSchema, prospectiveCellCount, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
+import { getLatestRecompute, getProjectSettings, LARGE_GRID_CELLS, listSettingsVersions, previewWorkLimit, projectPatchSchema, prospectiveCellCount, recomputeProjectFigures, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
+import { RecomputeStatus } from "~/components/recompute-status";
+import { SettingsHistory } from "~/components/settings-history";
 import { WORK_LIMIT_ACCEPT, WORK_LIMIT_MAX_BYTES, type WorkLimitFormat } from "../../shared/grid/work-limit-geojson";
 import { readWorkLimitFile } from "~/lib/geo/work-limit-files.server";
 import type { Route } from "./+types/projects.$projectId.settings";
 
 // The manager's settings page: one form per section, each saved on its own through the project
-// setup service (which checks, recomputes when surveys exist and writes the audit log).
+// setup service (which checks, keeps the settings history, queues a recompute when surveys exist
+// and writes the audit log); the latest recompute's progress or summary, and the history.
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId, "project.configure");
-  return { settings: await getProjectSettings(access.project), canArchive: can(access, "project.archive") };
+  const [settings, recompute, history] = await Promise.all([getProjectSettings(access.project), getLatestRecompute(access.project), listSettingsVersions(access.project, 20)]);
+  return { settings, recompute, history, canArchive: can(access, "project.archive") };
 }
 
 const blankToUndefined = (value: unknown) => (value === "" || value === null ? undefined : value);
@@ -72,6 +76,10 @@ const actionSchema = z.discriminatedUnion("intent", [
     geometry: z.preprocess(blankToUndefined, z.string().optional()),
   }),
   z.object({ intent: z.literal("zone-delete"), zoneId: z.coerce.number().int().positive() }),
+  // A zone one place earlier or later in the order (where zones overlap, the shared cells count in the earlier one).
+  z.object({ intent: z.literal("zone-move"), zoneId: z.coerce.number().int().positive(), direction: z.enum(["up", "down"], { error: "Move a zone up or down" }) }),
+  // Every survey's figures again with the settings in force (after a recompute failed or was cut off).
+  z.object({ intent: z.literal("recompute") }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
   z.object({
     intent: z.literal("emergency"),
@@ -118,6 +126,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     let patch: ProjectPatch;
     switch (input.intent) {
+      case "recompute": {
+        const { started } = await recomputeProjectFigures(project, user);
+        return answered({ intent: input.intent, errors: {}, notice: started ? "Recompute started: its progress is shown at the top of the page." : "A recompute is already under way: its progress is shown at the top of the page." });
+      }
       case "identity":
       case "coordinates": {
         const { intent: _intent, ...fields } = input;
@@ -151,10 +163,21 @@ export async function action({ request, params }: Route.ActionArgs) {
         patch = { workLimit: JSON.parse(input.geoJson) };
         break;
       case "zone-save":
-      case "zone-delete": {
+      case "zone-delete":
+      case "zone-move": {
         // Through the same check as zones sent to the API: the whole list, changed in one place.
         const { zones } = await getProjectSettings(project);
         const current = zones.map((zone) => ({ id: zone.id, name: zone.name, geometry: zone.geometry }));
+        if (input.intent === "zone-move") {
+          const at = current.findIndex((zone) => zone.id === input.zoneId);
+          if (at < 0) return failed(input.intent, { form: "That zone is no longer there; the page shows the zones as they are now." });
+          const to = input.direction === "up" ? at - 1 : at + 1;
+          if (to < 0 || to >= current.length) return failed(input.intent, { form: `That zone is already ${input.direction === "up" ? "first" : "last"}.` });
+          const order = [...current];
+          [order[at], order[to]] = [order[to], order[at]];
+          patch = { zones: order };
+          break;
+        }
         if (input.intent === "zone-delete") {
           if (!current.some((zone) => zone.id === input.zoneId)) return failed(input.intent, { form: "That zone is no longer there; the page shows the zones as they are now." });
           patch = { zones: current.filter((zone) => zone.id !== input.zoneId) };
@@ -189,12 +212,13 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     const checked = projectPatchSchema.safeParse(patch);
     if (!checked.success) return failed(input.intent, fieldErrorsOf(validationErrorFrom(checked.error)));
-    const { settings, recomputed, overlaps } = await updateProjectSettings(project, user, checked.data, { ip });
-    const zoneIntent = input.intent === "zone-save" || input.intent === "zone-delete";
+    const { settings, recompute, overlaps } = await updateProjectSettings(project, user, checked.data, { ip });
+    const zoneIntent = input.intent === "zone-save" || input.intent === "zone-delete" || input.intent === "zone-move";
     const cells = settings.cellCount === null || zoneIntent || input.intent === "emergency" || input.intent === "dive-work" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
     const shared = overlaps.map((overlap) => ` "${overlap.second}" overlaps "${overlap.first}" by about ${Math.round(overlap.area).toLocaleString("en-US")} ${unitLabel(settings.lengthUnit, "area")}: the cells they share count in "${overlap.first}", the earlier zone.`).join("");
-    const what = input.intent === "zone-delete" ? "Zone deleted." : "Saved.";
-    return answered({ intent: input.intent, errors: {}, notice: `${what}${cells}${shared}${recomputed ? " Every survey's figures were recomputed." : ""}` });
+    const what = input.intent === "zone-delete" ? "Zone deleted." : input.intent === "zone-move" ? "Zone order saved." : "Saved.";
+    const recomputing = recompute ? " Every survey's figures are being recomputed: the progress is shown at the top of the page." : "";
+    return answered({ intent: input.intent, errors: {}, notice: `${what}${cells}${shared}${recomputing}` });
   } catch (error) {
     if (error instanceof DomainError) return failed(input.intent, fieldErrorsOf(error));
     throw error;
@@ -233,14 +257,14 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   const emergencyErrors = errorsFor("emergency");
   const emergency = settings.emergency;
   const preview = actionData?.preview ?? null;
-  const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures.` : "";
+  const surveysNote = settings.surveyCount > 0 ? ` This project has ${settings.surveyCount} survey${settings.surveyCount === 1 ? "" : "s"}: saving recomputes every survey's figures in the background, and the page shows what changed.` : "";
 
   const archived = settings.archivedAt !== null;
   const lengthUnitRef = useRef<HTMLSelectElement>(null);
   // Opened from "Set up this project": a way back to the step it came from.
   const [searchParams] = useSearchParams();
   const setupStep = SETUP_STEP_KEYS.find((key) => key === searchParams.get("setup")) ?? null;
-  const zoneResult = actionData && (actionData.intent === "zone-save" || actionData.intent === "zone-delete") ? actionData : null;
+  const zoneResult = actionData && (actionData.intent === "zone-save" || actionData.intent === "zone-delete" || actionData.intent === "zone-move") ? actionData : null;
 
   return (
     <div className="space-y-6">
@@ -249,11 +273,12 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           Setting up this project. <Link className="font-medium text-lagoon underline" to={`/projects/${settings.id}/setup?step=${setupStep}`}>Back to the setup steps</Link>
         </p>
       ) : null}
-      <ActionMessages error={actionData?.errors.form} />
+      <ActionMessages error={actionData?.errors.form} notice={noticeFor("recompute")} />
+      {loaderData.recompute ? <RecomputeStatus initial={loaderData.recompute} volumeLabel={unitLabel(settings.lengthUnit, "volume")} canStart={!archived} /> : null}
       {archived ? <p className="rounded border border-line bg-panel px-3 py-2 text-sm">The project is archived: its settings are shown as they were and cannot be changed until a site admin restores it.</p> : null}
 
       {/* An archived project's forms are shown disabled: the server refuses them anyway (409). */}
-      <fieldset disabled={archived} className="m-0 min-w-0 space-y-6 border-0 p-0">
+      <fieldset disabled={archived} className="mx-0 min-w-0 space-y-6 border-0 p-0">
       <Section id="identity-heading" title="Identity">
         <ActionMessages notice={noticeFor("identity")} />
         <Form method="post" className="grid gap-3 sm:grid-cols-2">
@@ -404,6 +429,10 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
         </Form>
       </Section>
       </fieldset>
+
+      <Section id="history-heading" title="Settings history">
+        <SettingsHistory versions={loaderData.history} lengthUnit={settings.lengthUnit} />
+      </Section>
 
       {loaderData.canArchive ? (
         <Section id="archive-heading" title="Archive">

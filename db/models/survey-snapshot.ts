@@ -1,4 +1,5 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
+import type { ProjectSettingsVersion } from "./project-settings-version";
 import { z } from "zod";
 import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
@@ -30,6 +31,9 @@ export class SurveySnapshot extends Model<InferAttributes<SurveySnapshot>, Infer
   declare removedVolumes: Buffer;
   declare statuses: Buffer;
   declare computedAt: Date;
+  /** The settings version the snapshot was computed with (null: computed before the history began). */
+  declare settingsVersionId: CreationOptional<number | null>;
+  declare settingsVersion?: NonAttribute<ProjectSettingsVersion | null>;
 }
 
 export function initSurveySnapshot(sequelize: Sequelize) {
@@ -47,6 +51,7 @@ export function initSurveySnapshot(sequelize: Sequelize) {
       removedVolumes: { type: DataTypes.BLOB("medium"), allowNull: false },
       statuses: { type: DataTypes.BLOB("medium"), allowNull: false },
       computedAt: { type: DataTypes.DATE, allowNull: false },
+      settingsVersionId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
     },
     {
       sequelize, tableName: "survey_snapshots", modelName: "SurveySnapshot", timestamps: false,

@@ -120,6 +120,8 @@ export interface DaySurvey {
   /** The totals as of the survey in force before it (the baseline's are zero removed). */
   previous: SurveyTotals | null;
   volumeLabel: string;
+  /** The settings version the day's figures were computed with (the settings history); null: not recorded. */
+  settingsVersion?: number | null;
 }
 
 export interface TeamDay {
@@ -153,7 +155,7 @@ export interface CompiledDay {
      * When a survey fell on the day: what it shows since the survey before it (removed volume, the
      * cells that reached firm sand), and what remains. Absent on reports signed before it existed.
      */
-    survey?: { surveyedOn: string; since: string | null; removedVolume: number; cellsReachedFirmSand: number; remainingVolume: number; volumeLabel: string } | null;
+    survey?: { surveyedOn: string; since: string | null; removedVolume: number; cellsReachedFirmSand: number; remainingVolume: number; volumeLabel: string; settingsVersion?: number | null } | null;
   };
   waterQuality: {
     readings: Array<{ station: string; stationKind: string; count: number; maxValue: number; unit: string; exceeding: number; withinLimit: number; notEvaluated: number; verdict: "exceeds" | "within limit" | "not evaluated" }>;
@@ -185,6 +187,7 @@ export function surveySince(survey: DaySurvey | null): CompiledDay["production"]
     cellsReachedFirmSand: today.cellsAtFirmSand - (previous?.cellsAtFirmSand ?? 0),
     remainingVolume: round(today.remainingVolume, 1),
     volumeLabel: survey.volumeLabel,
+    ...(survey.settingsVersion != null ? { settingsVersion: survey.settingsVersion } : {}),
   };
 }
 

@@ -31,6 +31,9 @@ describe("the report's figures written out", () => {
     expect(findsLine({ cultural: 1, faunal: 2 })).toBe("Cultural: 1 · Faunal: 2");
     expect(surveyLine({ surveyedOn: "2026-06-10", since: "2026-05-27", removedVolume: 574.5, cellsReachedFirmSand: 1, remainingVolume: 3_867.6, volumeLabel: "yd³" }))
       .toBe("Survey of this day against the survey of 2026-05-27: 574.5 yd³ removed, 1 cell newly at firm sand, 3,867.6 yd³ remaining.");
+    // The settings version the figures were computed with is named, so a signed report can be read against the history.
+    expect(surveyLine({ surveyedOn: "2026-06-10", since: null, removedVolume: 0, cellsReachedFirmSand: 0, remainingVolume: 10, volumeLabel: "m³", settingsVersion: 3 }))
+      .toBe("Survey of this day: 0 m³ removed, 0 cells newly at firm sand, 10 m³ remaining. Computed with settings version 3.");
   });
 });
 

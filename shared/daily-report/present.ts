@@ -65,7 +65,7 @@ export function interruptionLine(event: CompiledDay["interruptions"][number], ti
 export function surveyLine(survey: CompiledDay["production"]["survey"]): string | null {
   if (!survey) return null;
   const cells = Math.abs(survey.cellsReachedFirmSand) === 1 ? "cell" : "cells";
-  return `Survey of this day${survey.since ? ` against the survey of ${survey.since}` : ""}: ${formatNumber(survey.removedVolume)} ${survey.volumeLabel} removed, ${survey.cellsReachedFirmSand} ${cells} newly at firm sand, ${formatNumber(survey.remainingVolume)} ${survey.volumeLabel} remaining.`;
+  return `Survey of this day${survey.since ? ` against the survey of ${survey.since}` : ""}: ${formatNumber(survey.removedVolume)} ${survey.volumeLabel} removed, ${survey.cellsReachedFirmSand} ${cells} newly at firm sand, ${formatNumber(survey.remainingVolume)} ${survey.volumeLabel} remaining.${survey.settingsVersion != null ? ` Computed with settings version ${survey.settingsVersion}.` : ""}`;
 }
 
 /** A batch sent or downloaded as one PDF holds at most two weeks of days. */

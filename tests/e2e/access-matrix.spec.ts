@@ -117,6 +117,9 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/quantities", "/api/projects/{project}/quantities", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/quantities.csv", "/api/projects/{project}/quantities.csv", "200 200 200 403 403 403 200 200 401"),
   row("GET", "api/projects/:projectId/quantities.geojson", "/api/projects/{project}/quantities.geojson", "200 200 200 403 403 403 200 200 401"),
+  // Recomputing again (the manager; no body): a body with a field is refused before anything starts.
+  row("POST", "api/projects/:projectId/recomputes", "/api/projects/{project}/recomputes", "422 403 403 403 403 403 403 422 401", { json: { unexpected: true } }),
+  row("GET", "api/projects/:projectId/recomputes/:jobId", "/api/projects/{project}/recomputes/999999999", "404 403 403 403 403 403 403 404 401"),
   row("GET", "api/projects/:projectId/report-subscribers", "/api/projects/{project}/report-subscribers", "200 403 403 403 403 403 403 200 401"),
   row("POST", "api/projects/:projectId/report-subscribers", "/api/projects/{project}/report-subscribers", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("DELETE", "api/projects/:projectId/report-subscribers/:subscriberId", "/api/projects/{project}/report-subscribers/999999999", "404 403 403 403 403 403 403 404 401"),

@@ -1,5 +1,10 @@
+import { readFileSync } from "node:fs";
 import { join } from "node:path";
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, expect, signInWithPassword, test } from "./fixtures";
+import { request as playwrightRequest } from "@playwright/test";
+import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, expect, signInRequest, signInWithPassword, test } from "./fixtures";
+
+const DEMO_DIR = join(import.meta.dirname, "..", "..", "sample-data", "demo");
 
 // The first morning: the site admin creates a project from nothing with a GeoJSON work limit (an
 // invented lake), lands on its setup steps, finds the empty grid and the next step on its map; the
@@ -53,4 +58,49 @@ test("the site admin creates a project; its manager changes the cell size and se
   expect(after).toBeLessThan(before / 2);
   await expect(grid.getByRole("status")).toContainText(`The grid has ${after.toLocaleString("en-US")} cells.`);
   await managerContext.close();
+});
+
+test("after a baseline, the manager's new tolerance is recomputed in the background: the page shows the progress, then what changed", async ({ page, signIn, baseURL }) => {
+  test.setTimeout(120_000);
+  const origin = new URL(baseURL!).origin;
+  // The site admin sets a project up through the API with the demo spring's outline and zones; its manager imports the demo baseline.
+  const admin = await playwrightRequest.newContext({ baseURL });
+  await signInRequest(admin, baseURL!, DEMO_ACCOUNTS.admin);
+  const created = await admin.post("/api/projects", {
+    headers: { Origin: origin },
+    data: {
+      name: `Recompute spring ${Date.now().toString(36)}`, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, timeZone: PROJECT.timeZone,
+      workLimit: WORK_LIMIT, grid: { cellSize: GRID.cellSizeFt }, zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })), manager: DEMO_ACCOUNTS.manager,
+    },
+  });
+  expect(created.status(), await created.text()).toBe(201);
+  const projectId = ((await created.json()) as { id: number }).id;
+  await admin.dispose();
+  const manager = await playwrightRequest.newContext({ baseURL });
+  await signInRequest(manager, baseURL!, DEMO_ACCOUNTS.manager);
+  const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
+  const imported = await manager.post(`/api/projects/${projectId}/surveys`, {
+    headers: { Origin: origin },
+    multipart: {
+      file: { name: baseline.fileName, mimeType: "text/csv", buffer: readFileSync(join(DEMO_DIR, baseline.fileName)) },
+      kind: baseline.kind, surveyedOn: baseline.surveyedOn, waterSurfaceElevation: String(baseline.waterSurfaceElevationFt), timeZone: PROJECT.timeZone, datum: PROJECT.verticalDatum,
+    },
+  });
+  expect(imported.status(), await imported.text()).toBe(201);
+  await manager.dispose();
+
+  await signIn("manager");
+  await page.goto(`/projects/${projectId}/settings`);
+  const tolerances = page.getByRole("region", { name: "Targets and tolerances" });
+  await tolerances.getByLabel(/Firm-sand tolerance/).fill(String(GRID.toleranceFt * 4));
+  await tolerances.getByRole("button", { name: "Save tolerances" }).click();
+  await expect(tolerances.getByRole("status")).toContainText("being recomputed");
+  // The recompute's panel: the progress while it runs, then the summary, with the history's new version.
+  const status = page.getByTestId("recompute-status");
+  await expect(status.getByRole("heading", { name: "Figures recomputed" })).toBeVisible({ timeout: 60_000 });
+  await expect(status.getByTestId("recompute-summary")).toContainText(/cells? changed status|no figure changed/);
+  await expect(status).toContainText("from settings version 1 to 2");
+  const history = page.getByTestId("settings-history");
+  await expect(history.getByRole("row").nth(1)).toContainText("tolerances");
+  await expect(history.getByRole("row").nth(2)).toContainText("created");
 });

@@ -6,7 +6,7 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Invitation, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, ReportSubscriber, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, HaulSite, JarTest, JarTestPhoto, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
+import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Invitation, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, ReportSubscriber, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, HaulSite, JarTest, JarTestPhoto, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, ProjectSettingsVersion, RecomputeJob, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
 import { listObjectKeys } from "~/lib/storage/storage.server";
 import { logFind } from "~/models/finds.server";
 import { getCellsPayload } from "~/models/cells.server";
@@ -64,7 +64,7 @@ const base = () => `/api/projects/${site.project.id}`;
 // AuditEvent; dives → Dive, DiveCell, AuditEvent; share-links → ShareLink, AuditEvent; surveys →
 // Survey, Sounding, CellResult, SurveySnapshot, ImportJob, ColumnMapping, AuditEvent and the
 // staging directory; projects → Project, Zone, Membership, AuditEvent; a project's settings →
-// Project, Zone, CellResult, SurveySnapshot, AuditEvent; an account (the site admin) → User,
+// Project, Zone, CellResult, SurveySnapshot, ProjectSettingsVersion, RecomputeJob, AuditEvent; an account (the site admin) → User,
 // SignInSession, AuditEvent; dewatering shifts, tubes and fills → DewateringShift, GeotextileTube,
 // TubeFill, AuditEvent; a tube's status → GeotextileTube, AuditEvent; jar tests → JarTest, AuditEvent; a jar test's or a haul ticket's photos → JarTestPhoto, HaulPhoto, the object store and the staging directory; hauls → Haul, AuditEvent; haul sites → HaulSite, AuditEvent; members → Membership, Invitation, OutgoingMail, AuditEvent; sediment samples → SedimentSample, AuditEvent;
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
@@ -82,6 +82,12 @@ const ROUTES: MutatingRoute[] = [
     route: "api/projects/:projectId/archive", method: "POST", url: () => `${base()}/archive`, params: projectParams,
     urlForEmptyBody: () => "/api/projects/999999999/archive", paramsForEmptyBody: () => ({ projectId: "999999999" }),
   },
+  // Recomputing again takes no body: the empty ones go to a project that does not exist, so they cannot start one here.
+  {
+    route: "api/projects/:projectId/recomputes", method: "POST", url: () => `${base()}/recomputes`, params: projectParams,
+    urlForEmptyBody: () => "/api/projects/999999999/recomputes", paramsForEmptyBody: () => ({ projectId: "999999999" }),
+  },
+  { route: "api/projects/:projectId/recomputes/:jobId", method: "POST", url: () => `${base()}/recomputes/1`, params: () => ({ ...projectParams(), jobId: "1" }) },
   // Restoring an open project is a 409 whatever the body (the site admin's).
   { route: "api/projects/:projectId/restore", method: "POST", url: () => `${base()}/restore`, params: projectParams, token: () => adminToken },
   { route: "api/projects/:projectId/assignments", method: "POST", url: () => `${base()}/assignments`, params: projectParams },
@@ -254,6 +260,8 @@ async function snapshot() {
     cellResults: await CellResult.count({ where: { projectId } }),
     snapshots: await SurveySnapshot.count({ where: { projectId } }),
     importJobs: await ImportJob.count({ where: { projectId } }),
+    recomputeJobs: await RecomputeJob.count({ where: { projectId } }),
+    settingsVersions: await ProjectSettingsVersion.count({ where: { projectId } }),
     columnMappings: await ColumnMapping.count({ where: { projectId } }),
     auditEvents: await AuditEvent.count({ where: { projectId } }),
     payPeriodReports: await PayPeriodReport.count({ where: { projectId } }),

@@ -117,7 +117,7 @@ describe("periods between any two surveys", () => {
     expect(negative.success).toBe(false);
     expect(negative.error!.issues[0].path).toEqual(["tolerances", "overDredgeAllowance"]);
     const changed = await updateProjectSettings(project, manager, { tolerances: { overDredgeAllowance: 0.5 } });
-    expect(changed.recomputed).toBe(false);
+    expect(changed.recompute).toBeNull();
     expect(changed.settings.tolerances.overDredgeAllowance).toBe(0.5);
     try {
       const allowed = (await loadPayPeriod(presentProject((await Project.findByPk(project.id))!)))!;

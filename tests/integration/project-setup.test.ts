@@ -12,6 +12,7 @@ import { AuditEvent, CellResult, Membership, Project, User, Zone } from "~/lib/d
 import { createProject, newProjectSchema } from "~/models/project-setup.server";
 import * as projectsApi from "~/routes/api.projects";
 import * as projectApi from "~/routes/api.projects.$projectId";
+import { finishedRecompute } from "./recompute-helpers";
 import { DEMO_DIR, postSurvey, projectCrs } from "./import-helpers";
 import { addMember, makeUser, ORIGIN, requestAs } from "./helpers";
 import * as settingsPage from "~/routes/projects.$projectId.settings";
@@ -188,7 +189,7 @@ describe("GET/PATCH /api/projects/<id>", () => {
     expect((await settingsOf(projectId)).grid.cellSize).toBe(20);
   });
 
-  it("a new cell size after the baseline recomputes the cells in the same request", async () => {
+  it("a new cell size after the baseline answers 202 with the recompute's address; the job rewrites the cells in the background", async () => {
     const projectId = await created(await send("POST", adminToken, springInput({ name: "Patch cell size" })));
     const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
     await postSurvey(projectId, managerToken, { path: join(DEMO_DIR, baseline.fileName) }, {
@@ -197,9 +198,11 @@ describe("GET/PATCH /api/projects/<id>", () => {
     const before = await CellResult.count({ where: { projectId } });
     const before20 = await settingsOf(projectId);
     const response = await send("PATCH", managerToken, { grid: { cellSize: 40, originX: before20.grid.originX, originY: before20.grid.originY } }, projectId);
-    expect(response.status).toBe(200);
-    const answer = (await response.json()) as { recomputed: boolean; settings: { cellCount: number } };
-    expect(answer.recomputed).toBe(true);
+    expect(response.status).toBe(202);
+    const answer = (await response.json()) as { recompute: { id: number; url: string }; settings: { cellCount: number } };
+    expect(response.headers.get("Location")).toBe(answer.recompute.url);
+    const job = await finishedRecompute(managerToken, projectId, answer.recompute.id);
+    expect(job.state).toBe("done");
     const after = await CellResult.count({ where: { projectId } });
     // invariant: from the same origin each 40 ft cell is a block of four 20 ft cells, so every
     // 20 ft cell with figures lies in one 40 ft cell with figures, and a 40 ft cell holds at most four

@@ -137,4 +137,30 @@ describe("a zone drawn on the settings page's map", () => {
     expect(again.init?.status).toBe(400);
     expect(again.data.errors.form).toMatch(/no longer there/);
   });
+  it("moves a zone up or down the order (the earlier counts shared cells), keeping ids; the first cannot go further up", async () => {
+    const [first, second] = await Zone.findAll({ where: { projectId }, order: [["sortOrder", "ASC"]] });
+    const moved = await post({ intent: "zone-move", zoneId: String(second.id), direction: "up" });
+    expect(moved.data.notice).toBe("Zone order saved.");
+    const after = await Zone.findAll({ where: { projectId }, order: [["sortOrder", "ASC"]] });
+    expect(after.map((zone) => zone.id)).toEqual([second.id, first.id]);
+    expect(after.map((zone) => zone.polygonGeoJson)).toEqual([second.polygonGeoJson, first.polygonGeoJson]);
+    const refused = await post({ intent: "zone-move", zoneId: String(second.id), direction: "up" });
+    expect(refused.init?.status).toBe(400);
+    expect(refused.data.errors.form).toBe("That zone is already first.");
+    const bad = await post({ intent: "zone-move", zoneId: String(second.id), direction: "sideways" });
+    expect(bad.init?.status).toBe(400);
+  });
+
+  it("redraws an existing zone's outline: same id, name and place, the new corners stored", async () => {
+    const zone = (await Zone.findOne({ where: { projectId, name: "Upper spring run" } }))!;
+    // The lower run's outline, a valid zone already (an overlap is allowed).
+    const outline = lowerRun;
+    const redrawn = await post({ intent: "zone-save", zoneId: String(zone.id), name: zone.name, geometry: drawn(outline) });
+    expect(redrawn.data.errors).toEqual({});
+    expect(redrawn.data.notice).toMatch(/^Saved\./);
+    const after = (await Zone.findByPk(zone.id))!;
+    expect([after.name, after.sortOrder]).toEqual([zone.name, zone.sortOrder]);
+    // computed: the stored outline is the new corners, closed once
+    expect(JSON.parse(after.polygonGeoJson).coordinates[0]).toEqual([...outline, outline[0]]);
+  });
 });

@@ -1,6 +1,6 @@
 import type { Transaction } from "sequelize";
 import type { ProgressCallback } from "../../../shared/pipeline";
-import { CellResult, SurveySnapshot } from "../db.server";
+import { CellResult, ProjectSettingsVersion, SurveySnapshot } from "../db.server";
 import type { EngineWorkerPool } from "./engine-worker.server";
 import type { ComputationSurvey } from "./engine-surveys";
 import { computeState, loadStateInput, projectRecomputeStamp, rememberEngineState, serverEnginePool } from "./engine-state.server";
@@ -20,6 +20,11 @@ export interface RecomputeOutcome {
 }
 
 const CELL_ROWS_PER_INSERT = 500;
+
+/** The project's latest settings version; null for a project that has none yet. */
+export function currentSettingsVersion(projectId: number, transaction?: Transaction): Promise<ProjectSettingsVersion | null> {
+  return ProjectSettingsVersion.findOne({ where: { projectId }, order: [["version", "DESC"]], transaction });
+}
 
 function toBlob(values: Float32Array | Uint8Array): Buffer {
   return Buffer.from(values.buffer, values.byteOffset, values.byteLength);
@@ -51,6 +56,8 @@ export async function recomputeProjectStatistics(
   if (!state || !figures) return { figures: null, reason: "There is no active baseline survey yet." };
 
   const computedAt = new Date();
+  // The settings version the figures were computed with (the latest), named on every snapshot.
+  const version = await currentSettingsVersion(projectId, transaction);
   const cellRows = figures.cells.map((cell) => ({ projectId, ...cell, computedAt }));
   // Building a batch's models and SQL holds the event loop (about 50 µs a row): batches of 500
   // keep each hold short, so requests are served between them.
@@ -73,6 +80,7 @@ export async function recomputeProjectStatistics(
         removedVolumes: toBlob(snapshot.removedVolumes),
         statuses: toBlob(snapshot.statuses),
         computedAt,
+        settingsVersionId: version?.id ?? null,
       },
       { transaction },
     );
