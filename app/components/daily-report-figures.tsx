@@ -1,6 +1,7 @@
 import { Fragment } from "react";
 import type { CompiledDay } from "../../shared/daily-report/compile";
-import { findsLine, formatNumber as fmt, interruptionLine, productionRows, reportUnits, surveyLine } from "../../shared/daily-report/present";
+import { Link } from "react-router";
+import { findsLine, formatNumber as fmt, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine } from "../../shared/daily-report/present";
 import { localClockOf } from "../../shared/local-time";
 import { unitLabel, type LengthUnit } from "../../shared/units";
 
@@ -16,7 +17,8 @@ export function Section({ title, children }: { title: string; children: React.Re
   );
 }
 
-export function DailyReportFigures({ report, timeZone, lengthUnit }: { report: CompiledDay; timeZone: string; lengthUnit: LengthUnit }) {
+/** `stationSetupHref`: the water-quality setup page, for a reader who may add a station there. */
+export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupHref }: { report: CompiledDay; timeZone: string; lengthUnit: LengthUnit; stationSetupHref?: string }) {
   const units = reportUnits(lengthUnit);
   const lengthLabel = unitLabel(lengthUnit);
   const clock = (iso: string) => localClockOf(Date.parse(iso), timeZone);
@@ -54,7 +56,12 @@ export function DailyReportFigures({ report, timeZone, lengthUnit }: { report: C
       </Section>
 
       <Section title="Water quality">
-        {report.waterQuality.readings.length === 0 ? <p className="text-sm text-muted">No stations and no readings.</p> : (
+        {report.waterQuality.complianceStations?.length === 0 ? (
+          <p className="mb-1 text-sm" data-testid="no-compliance-station">
+            {noComplianceStationLine()}{stationSetupHref ? <> <Link className="underline" to={stationSetupHref}>Set up a station</Link>.</> : null}
+          </p>
+        ) : null}
+        {report.waterQuality.readings.length === 0 ? <p className="text-sm text-muted">{report.waterQuality.complianceStations?.length === 0 ? "No readings." : "No stations and no readings."}</p> : (
           <ul className="space-y-1 text-sm">
             {report.waterQuality.readings.map((row) => (
               <li key={row.station}>
@@ -65,7 +72,7 @@ export function DailyReportFigures({ report, timeZone, lengthUnit }: { report: C
           </ul>
         )}
         {report.waterQuality.exceedances.map((row) => <p key={row.at + row.station} className="text-sm text-danger">Exceedance at {row.station}, {clock(row.at)}: <span className="figures">{row.value}</span> {row.unit}</p>)}
-        {report.waterQuality.missedIntervals.map((gap) => <p key={gap.from} className="text-sm text-danger">Not sampled {clock(gap.from)}–{clock(gap.to)}</p>)}
+        {report.waterQuality.missedIntervals.map((gap) => <p key={gap.from} className="text-sm text-danger">No compliance reading <span className="figures">{clock(gap.from)}–{clock(gap.to)}</span></p>)}
         <p className="mt-1 text-xs text-muted">Readings support the permit's monitoring; the permit and the agency decide compliance.</p>
       </Section>
 
