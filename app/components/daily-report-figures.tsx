@@ -27,7 +27,7 @@ export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupH
       <Section title="Dive work">
         <p className="text-sm" data-testid="dive-summary"><span className="figures">{report.dives.count}</span> dives · <span className="figures">{report.dives.bottomMinutes}</span> bottom minutes · deepest <span className="figures whitespace-nowrap">{report.dives.maxDepth === null ? "—" : `${report.dives.maxDepth} ${lengthLabel}`}</span></p>
         {report.teams.length > 0 ? (
-          <div className="mt-2 overflow-x-auto">
+          <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Dive work per team, scrollable">
             <table className="w-full text-sm">
               <thead><tr className="text-left align-bottom text-muted"><th scope="col" className="pr-3">Team</th><th scope="col" className="pr-3">Head count</th><th scope="col" className="pr-3">Dives</th><th scope="col" className="pr-3">Bottom time (min)</th><th scope="col" className="pr-3">Max depth ({lengthLabel})</th><th scope="col">Cells</th></tr></thead>
               <tbody>

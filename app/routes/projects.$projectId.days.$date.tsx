@@ -1,7 +1,7 @@
 import { Form, Link, data } from "react-router";
 import { z } from "zod";
 import { weatherLine } from "../../shared/daily-report/present";
-import { localClockOf } from "../../shared/local-time";
+import { localClockOf, localDayOf } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
 import { DailyReportFigures, Section } from "~/components/daily-report-figures";
 import { ActionMessages } from "~/components/form-message";
@@ -88,6 +88,8 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
   const { report, signed, countersigned, countersignPending, amendments, canSign, projectId, date, timeZone } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const weather = report.entered.weather;
+  // Times in the project's zone, as the PDF and the countersign page give them.
+  const local = (iso: string) => <time className="figures whitespace-nowrap" dateTime={iso}>{localDayOf(Date.parse(iso), timeZone)} {localClockOf(Date.parse(iso), timeZone)}</time>;
   return (
     <div className="space-y-4">
       <ActionMessages error={errors.form} notice={actionData?.notice} />
@@ -97,7 +99,7 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
           <Link className="underline" to={`/projects/${projectId}/days?month=${date.slice(0, 7)}`}>All days</Link> · <a className="underline" href={`/projects/${projectId}/days/${date}/report.pdf`} download>Download PDF</a> · <button type="button" className="underline" onClick={() => window.print()}>Print</button>
         </p>
       </div>
-      <p className="text-sm text-muted">Local day in {timeZone}. {signed ? <>Figures as signed by <strong>{signed.name}</strong> at <span className="figures">{signed.at}</span>.</> : "Draft: figures compiled from the records as they stand now."}</p>
+      <p className="text-sm text-muted">Local day in {timeZone}. {signed ? <>Figures as signed by <strong>{signed.name}</strong> at {local(signed.at)}.</> : "Draft: figures compiled from the records as they stand now."}</p>
 
       {report.missing.length > 0 ? (
         <div role="status" className="rounded border border-danger bg-panel p-3 text-sm" data-testid="missing">
@@ -133,7 +135,7 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
 
       <Section title="Sign-off">
         {signed ? (
-          <p className="text-sm" data-testid="signed">Signed by <strong>{signed.name}</strong> at <span className="figures">{signed.at}</span>. Locked.</p>
+          <p className="text-sm" data-testid="signed">Signed by <strong>{signed.name}</strong> at {local(signed.at)}. Locked.</p>
         ) : canSign ? (
           <Form method="post" className="flex flex-wrap items-end gap-3 print:hidden">
             <TextField label="Your name (typed, as your signature)" name="name" required maxLength={200} defaultValue={loaderData.signerName} error={errors.name} />
@@ -147,7 +149,7 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
           </p>
         ) : null}
         {countersigned ? (
-          <p className="mt-2 text-sm" data-testid="countersigned">Countersigned by <strong>{countersigned.name}</strong> (agency inspector, {countersigned.email}) at <span className="figures">{countersigned.at}</span>.</p>
+          <p className="mt-2 text-sm" data-testid="countersigned">Countersigned by <strong>{countersigned.name}</strong> (agency inspector, {countersigned.email}) at {local(countersigned.at)}.</p>
         ) : signed ? <p className="mt-2 text-sm text-muted">Not countersigned by the agency's inspector yet.</p> : null}
         {signed && !countersigned && canSign ? (
           <Form method="post" className="mt-3 flex flex-wrap items-end gap-3 print:hidden" data-testid="countersign-request">
@@ -157,7 +159,7 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         ) : null}
         {amendments.length > 0 ? (
           <ul className="mt-3 space-y-1 text-sm" data-testid="amendments">
-            {amendments.map((amendment) => <li key={amendment.at + amendment.text}><span className="font-medium">Amendment</span> <span className="figures">{amendment.at}</span> by {amendment.by}: {amendment.text}</li>)}
+            {amendments.map((amendment) => <li key={amendment.at + amendment.text}><span className="font-medium">Amendment</span> {local(amendment.at)} by {amendment.by}: {amendment.text}</li>)}
           </ul>
         ) : null}
         {signed && canSign ? (
