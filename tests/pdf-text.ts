@@ -20,3 +20,31 @@ export async function pdfPages(bytes: Uint8Array): Promise<string[]> {
   await pdf.destroy();
   return pages;
 }
+
+/** One run of text as PDF.js places it: page (1-based), left x and baseline y in points from the page's bottom left, width and size. */
+export interface PdfTextItem {
+  page: number;
+  text: string;
+  x: number;
+  y: number;
+  width: number;
+  size: number;
+}
+
+/** Every run of text with its place on its page, and the pages' sizes: for tests of the layout (overlaps, margins, shared baselines). */
+export async function pdfTextItems(bytes: Uint8Array): Promise<{ pages: Array<{ width: number; height: number }>; items: PdfTextItem[] }> {
+  const pdf = await getDocument({ data: new Uint8Array(bytes), standardFontDataUrl, isEvalSupported: false, verbosity: 0 }).promise;
+  const pages: Array<{ width: number; height: number }> = [];
+  const items: PdfTextItem[] = [];
+  for (let number = 1; number <= pdf.numPages; number += 1) {
+    const page = await pdf.getPage(number);
+    const [, , width, height] = page.view;
+    pages.push({ width: width!, height: height! });
+    for (const item of (await page.getTextContent()).items) {
+      if (!("str" in item) || item.str.trim() === "") continue;
+      items.push({ page: number, text: item.str, x: item.transform[4], y: item.transform[5], width: item.width, size: Math.hypot(item.transform[2], item.transform[3]) });
+    }
+  }
+  await pdf.destroy();
+  return { pages, items };
+}

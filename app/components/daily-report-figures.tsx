@@ -1,6 +1,7 @@
 import { Fragment } from "react";
 import type { CompiledDay } from "../../shared/daily-report/compile";
-import { findsLine, formatNumber as fmt, interruptionLine, productionRows, reportUnits, surveyLine } from "../../shared/daily-report/present";
+import { Link } from "react-router";
+import { findsLine, formatNumber as fmt, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine } from "../../shared/daily-report/present";
 import { localClockOf } from "../../shared/local-time";
 import { unitLabel, type LengthUnit } from "../../shared/units";
 
@@ -16,7 +17,8 @@ export function Section({ title, children }: { title: string; children: React.Re
   );
 }
 
-export function DailyReportFigures({ report, timeZone, lengthUnit }: { report: CompiledDay; timeZone: string; lengthUnit: LengthUnit }) {
+/** `stationSetupHref`: the water-quality setup page, for a reader who may add a station there. */
+export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupHref }: { report: CompiledDay; timeZone: string; lengthUnit: LengthUnit; stationSetupHref?: string }) {
   const units = reportUnits(lengthUnit);
   const lengthLabel = unitLabel(lengthUnit);
   const clock = (iso: string) => localClockOf(Date.parse(iso), timeZone);
@@ -25,7 +27,7 @@ export function DailyReportFigures({ report, timeZone, lengthUnit }: { report: C
       <Section title="Dive work">
         <p className="text-sm" data-testid="dive-summary"><span className="figures">{report.dives.count}</span> dives · <span className="figures">{report.dives.bottomMinutes}</span> bottom minutes · deepest <span className="figures whitespace-nowrap">{report.dives.maxDepth === null ? "—" : `${report.dives.maxDepth} ${lengthLabel}`}</span></p>
         {report.teams.length > 0 ? (
-          <div className="mt-2 overflow-x-auto">
+          <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Dive work per team, scrollable">
             <table className="w-full text-sm">
               <thead><tr className="text-left align-bottom text-muted"><th scope="col" className="pr-3">Team</th><th scope="col" className="pr-3">Head count</th><th scope="col" className="pr-3">Dives</th><th scope="col" className="pr-3">Bottom time (min)</th><th scope="col" className="pr-3">Max depth ({lengthLabel})</th><th scope="col">Cells</th></tr></thead>
               <tbody>
@@ -54,7 +56,12 @@ export function DailyReportFigures({ report, timeZone, lengthUnit }: { report: C
       </Section>
 
       <Section title="Water quality">
-        {report.waterQuality.readings.length === 0 ? <p className="text-sm text-muted">No stations and no readings.</p> : (
+        {report.waterQuality.complianceStations?.length === 0 ? (
+          <p className="mb-1 text-sm" data-testid="no-compliance-station">
+            {noComplianceStationLine()}{stationSetupHref ? <> <Link className="underline" to={stationSetupHref}>Set up a station</Link>.</> : null}
+          </p>
+        ) : null}
+        {report.waterQuality.readings.length === 0 ? <p className="text-sm text-muted">{report.waterQuality.complianceStations?.length === 0 ? "No readings." : "No stations and no readings."}</p> : (
           <ul className="space-y-1 text-sm">
             {report.waterQuality.readings.map((row) => (
               <li key={row.station}>
@@ -65,7 +72,7 @@ export function DailyReportFigures({ report, timeZone, lengthUnit }: { report: C
           </ul>
         )}
         {report.waterQuality.exceedances.map((row) => <p key={row.at + row.station} className="text-sm text-danger">Exceedance at {row.station}, {clock(row.at)}: <span className="figures">{row.value}</span> {row.unit}</p>)}
-        {report.waterQuality.missedIntervals.map((gap) => <p key={gap.from} className="text-sm text-danger">Not sampled {clock(gap.from)}–{clock(gap.to)}</p>)}
+        {report.waterQuality.missedIntervals.map((gap) => <p key={gap.from} className="text-sm text-danger">No compliance reading <span className="figures">{clock(gap.from)}–{clock(gap.to)}</span></p>)}
         <p className="mt-1 text-xs text-muted">Readings support the permit's monitoring; the permit and the agency decide compliance.</p>
       </Section>
 

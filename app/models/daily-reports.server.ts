@@ -1,7 +1,7 @@
 import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { compileDay, localDayBounds, type CompiledDay, type DayInterruption, type SurveyTotals } from "../../shared/daily-report/compile";
-import { BATCH_DAYS, dayState, type DayState } from "../../shared/daily-report/present";
+import { BATCH_DAYS, dayStatus, type DayState, type ReportEvents } from "../../shared/daily-report/present";
 import { localDayOf } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
 import {
@@ -62,6 +62,10 @@ export interface DailyReportView {
   countersigned: { name: string; email: string; at: string } | null;
   amendments: Array<{ text: string; by: string; at: string }>;
   state: DayState;
+  /** A signed report whose PDF is not stored (nor sent to the subscribers) yet: the storage did not answer; retried. */
+  pdfPending: { attempts: number; nextAttemptAt: string; lastError: string | null } | null;
+  /** The other event beside the state, when both happened ("after countersignature", "with 1 amendment"). */
+  stateNote: string | null;
 }
 
 /** Loads the local day's records and compiles them. */
@@ -130,6 +134,16 @@ function findReport(project: ProjectView, date: string) {
   return DailyReport.findOne({ where: { projectId: project.id, localDate: date }, include: [{ model: DailyReportAmendment, as: "amendments" }] });
 }
 
+/** A report row's events for its state: signed, countersigned (only once signed), each amendment. */
+function eventsOf(row: DailyReport): ReportEvents {
+  const signedAtMs = row.signedAt && row.signedByName ? row.signedAt.getTime() : null;
+  return {
+    signedAtMs,
+    countersignedAtMs: signedAtMs !== null && row.countersignedAt && row.countersignedByName ? row.countersignedAt.getTime() : null,
+    amendedAtMs: (row.amendments ?? []).map((amendment) => amendment.createdAt.getTime()),
+  };
+}
+
 /** The view of a report row (as signed when signed, with the figures given). */
 function viewOf(row: DailyReport | null, date: string, report: CompiledDay, worked: boolean): DailyReportView {
   const signed = row?.signedAt && row.signedByName ? { name: row.signedByName, at: row.signedAt.toISOString() } : null;
@@ -139,8 +153,9 @@ function viewOf(row: DailyReport | null, date: string, report: CompiledDay, work
   const amendments = [...(row?.amendments ?? [])]
     .sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.id - b.id)
     .map((amendment) => ({ text: amendment.text, by: amendment.byName, at: amendment.createdAt.toISOString() }));
-  const state = dayState(row ? { signed: Boolean(signed), countersigned: Boolean(countersigned), amendments: amendments.length } : null, worked);
-  return { date, report, asSigned: Boolean(signed), signed, countersigned, amendments, state };
+  const { state, note } = dayStatus(row ? eventsOf(row) : null, worked);
+  const pdfPending = signed && row?.pdfDueAt ? { attempts: row.pdfAttempts, nextAttemptAt: row.pdfDueAt.toISOString(), lastError: row.pdfLastError } : null;
+  return { date, report, asSigned: Boolean(signed), signed, countersigned, amendments, state, stateNote: note, pdfPending };
 }
 
 /** The day's report: as signed (the snapshot) once signed, else compiled now. */
@@ -167,38 +182,117 @@ export async function saveEnteredNotes(project: ProjectView, user: UserView, dat
 }
 
 /**
- * Signs the day's report with the typed name; keeps the compiled figures as signed, stores the
- * signed report's PDF and queues it to the project's subscribers, all before the commit (a refused
- * signature sends nothing). 409 once signed.
+ * Signs the day's report with the typed name and keeps the compiled figures as signed; the commit
+ * needs nothing but the database, so a signature is never lost to a mail or storage outage. The
+ * signed report's PDF is then stored and queued to the subscribers (`prepareSignedPdf`); if the file
+ * storage cannot be reached the report waits, marked, and the background job retries it. 409 once signed.
  */
 export async function signDailyReport(project: ProjectView, user: UserView, date: string, name: string, ip: string | null = null, nowMs = Date.now()): Promise<DailyReportView> {
-  await getSequelize().transaction(async (transaction) => {
+  const reportId = await getSequelize().transaction(async (transaction) => {
     const [row] = await DailyReport.findOrCreate({ where: { projectId: project.id, localDate: date }, defaults: { projectId: project.id, localDate: date, entered: EMPTY_NOTES }, transaction, lock: transaction.LOCK.UPDATE });
     if (row.signedAt) throw new ConflictError(`This day's report was already signed by ${row.signedByName} at ${row.signedAt.toISOString()}.`);
     const snapshot = await compileReport(project, date, row.entered, nowMs);
-    await row.update({ signedByName: name, signedAt: new Date(nowMs), signedById: user.id, snapshot: snapshot as unknown as Record<string, unknown> }, { transaction });
+    await row.update({
+      signedByName: name, signedAt: new Date(nowMs), signedById: user.id, snapshot: snapshot as unknown as Record<string, unknown>,
+      pdfDueAt: new Date(nowMs), pdfAttempts: 0, pdfLastError: null,
+    }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.dailyReportSigned, projectId: project.id, userId: user.id, ip, detail: { date, name } }, transaction);
-    const view = viewOf(row, date, snapshot, snapshot.dives.count > 0);
-    const file = await storeSignedPdf(project, view);
-    const subscribers = await ReportSubscriber.findAll({ where: { projectId: project.id }, order: [["email", "ASC"]], transaction });
-    for (const subscriber of subscribers) {
-      await queueMail({
-        to: subscriber.email,
-        ref: `daily-report:${row.id}`,
-        subject: `Daily report ${date} signed · ${project.name}`,
-        text: [
-          `The daily report of ${date} for "${project.name}" was signed by ${name}.`,
-          "",
-          `The signed report is attached (${file.filename}). Corrections after signing appear as dated amendments beside it.`,
-          "",
-          "You receive this because a manager of the project added you to its daily report subscribers.",
-        ].join("\n"),
-        attachments: [{ storageKey: file.key, filename: file.filename, contentType: "application/pdf" }],
-      }, transaction);
-    }
+    return row.id;
   });
+  // The answer waits for the PDF a few seconds at most: a store that hangs rather than refusing
+  // leaves the attempt running (its failure is recorded and retried) and the page says "being prepared".
+  let timer: NodeJS.Timeout | undefined;
+  await Promise.race([
+    prepareSignedPdf(reportId).catch(() => "waiting"),
+    new Promise((done) => { timer = setTimeout(done, SIGN_WAITS_FOR_PDF_MS); }),
+  ]);
+  clearTimeout(timer);
   return getDailyReport(project, date, nowMs);
 }
+
+/** How long a signature's answer waits for its PDF to be stored before saying it is being prepared. */
+const SIGN_WAITS_FOR_PDF_MS = 8_000;
+
+/** Pauses before the 2nd, 3rd… attempt at a signed report's PDF; the last repeats until it is stored (never given up). */
+const PDF_RETRY_SECONDS = [15, 60, 300, 900, 1800];
+
+/**
+ * A signed report's PDF, made once the signature is committed: rendered from the signed figures,
+ * stored, and queued to the project's subscribers with the stored file attached, in one transaction
+ * under the report's row lock (two processes never send it twice; a refusal sends nothing). When
+ * storage (or anything else) fails, the attempt is counted and the next one set; the signature stays.
+ * "stored": done now; "waiting": failed, retried at `pdfDueAt`; "none": nothing was due.
+ */
+export async function prepareSignedPdf(reportId: number, now = new Date()): Promise<"stored" | "waiting" | "none"> {
+  try {
+    return await getSequelize().transaction(async (transaction) => {
+      const row = await DailyReport.findOne({ where: { id: reportId }, transaction, lock: transaction.LOCK.UPDATE });
+      if (!row?.signedAt || !row.signedByName || !row.pdfDueAt) return "none";
+      const project = presentProject((await Project.findByPk(row.projectId, { transaction }))!);
+      const view = await getDailyReport(project, row.localDate);
+      const file = await storeSignedPdf(project, view);
+      const subscribers = await ReportSubscriber.findAll({ where: { projectId: project.id }, order: [["email", "ASC"]], transaction });
+      for (const subscriber of subscribers) {
+        await queueMail({
+          to: subscriber.email,
+          ref: `daily-report:${row.id}`,
+          subject: `Daily report ${row.localDate} signed · ${project.name}`,
+          text: [
+            `The daily report of ${row.localDate} for "${project.name}" was signed by ${row.signedByName}.`,
+            "",
+            `The signed report is attached (${file.filename}). Corrections after signing appear as dated amendments beside it.`,
+            "",
+            "You receive this because a manager of the project added you to its daily report subscribers.",
+          ].join("\n"),
+          attachments: [{ storageKey: file.key, filename: file.filename, contentType: "application/pdf" }],
+        }, transaction);
+      }
+      await row.update({ pdfDueAt: null, pdfAttempts: 0, pdfLastError: null }, { transaction });
+      return "stored" as const;
+    });
+  } catch (error) {
+    const row = await DailyReport.findByPk(reportId, { attributes: ["id", "pdfAttempts", "pdfDueAt"] });
+    if (!row?.pdfDueAt) throw error;
+    const attempts = row.pdfAttempts + 1;
+    const pause = PDF_RETRY_SECONDS[Math.min(attempts, PDF_RETRY_SECONDS.length) - 1]! * 1000;
+    const message = String((error as Error).message ?? error).slice(0, 500);
+    await DailyReport.update({ pdfAttempts: attempts, pdfLastError: message, pdfDueAt: new Date(now.getTime() + pause) }, { where: { id: reportId } });
+    process.stderr.write(`Firmsand: the PDF of signed daily report ${reportId} could not be stored (attempt ${attempts}, retried in ${pause / 1000} s): ${message}\n`);
+    return "waiting";
+  }
+}
+
+/** Makes the signed reports' PDFs that are due (oldest first, a few at a time); returns how many were stored. */
+export async function prepareDueSignedPdfs(now = new Date()): Promise<number> {
+  const due = await DailyReport.findAll({ where: { pdfDueAt: { [Op.lte]: now } }, attributes: ["id"], order: [["pdfDueAt", "ASC"], ["id", "ASC"]], limit: 10 });
+  let stored = 0;
+  for (const row of due) if ((await prepareSignedPdf(row.id, now)) === "stored") stored++;
+  return stored;
+}
+
+let pdfTimer: NodeJS.Timeout | null = null;
+
+/** Retries the waiting signed PDFs every 15 s (unref'd). Started by the production server with the mail delivery. */
+export function startSignedPdfJobs(): void {
+  if (pdfTimer) return;
+  let running = false;
+  const tick = () => {
+    if (running) return;
+    running = true;
+    prepareDueSignedPdfs()
+      .catch((error: unknown) => process.stderr.write(`Firmsand: the waiting daily report PDFs could not be read: ${(error as Error).message}\n`))
+      .finally(() => {
+        running = false;
+      });
+  };
+  tick();
+  pdfTimer = setInterval(tick, 15_000);
+  pdfTimer.unref();
+}
+
+// The production server (app/serve.mjs) starts the background tasks the app registers on load.
+const registry = globalThis as typeof globalThis & { firmsandBackgroundTasks?: Array<() => void> };
+(registry.firmsandBackgroundTasks ??= []).push(startSignedPdfJobs);
 
 /** A dated correction to a signed report (an unsigned one is edited directly). */
 export async function addAmendment(project: ProjectView, user: UserView, date: string, text: string, ip: string | null = null): Promise<DailyReportView> {
@@ -214,7 +308,7 @@ export async function addAmendment(project: ProjectView, user: UserView, date: s
 export { type DayState };
 
 /** The days of a month ("YYYY-MM") in the project's calendar and each one's state. */
-export async function listMonthDays(project: ProjectView, month: string): Promise<Array<{ date: string; state: DayState; dives: number }>> {
+export async function listMonthDays(project: ProjectView, month: string): Promise<Array<{ date: string; state: DayState; note: string | null; dives: number }>> {
   const [year, monthNumber] = month.split("-").map(Number);
   const count = new Date(Date.UTC(year!, monthNumber!, 0)).getUTCDate();
   const dates = Array.from({ length: count }, (_, index) => `${month}-${String(index + 1).padStart(2, "0")}`);
@@ -225,9 +319,8 @@ export async function listMonthDays(project: ProjectView, month: string): Promis
   return dates.map((date) => {
     const report = reports.find((row) => row.localDate === date) ?? null;
     const diveCount = dives.filter((dive) => dive.diveDate === date).length;
-    const signed = Boolean(report?.signedAt);
-    const state = dayState(report ? { signed, countersigned: signed && Boolean(report.countersignedAt), amendments: report.amendments?.length ?? 0 } : null, diveCount > 0);
-    return { date, state, dives: diveCount };
+    const { state, note } = dayStatus(report ? eventsOf(report) : null, diveCount > 0);
+    return { date, state, note, dives: diveCount };
   });
 }
 
@@ -255,15 +348,20 @@ async function storeSignedPdf(project: ProjectView, view: DailyReportView): Prom
 /**
  * The day's report as a PDF: a draft is rendered from the figures as they stand; a signed report
  * is rendered once for each state it reaches (signed, countersigned, amended), stored, and served
- * from storage afterwards.
+ * from storage afterwards. While the file storage cannot be reached, a signed report is rendered
+ * from its signed figures and served without being stored (`stored: false`), so it still downloads.
  */
 export async function dailyReportPdf(project: ProjectView, date: string): Promise<{ bytes: Buffer; filename: string; stored: boolean }> {
   const view = await getDailyReport(project, date);
   const filename = dailyReportFilename(project, date);
   if (!view.signed) return { bytes: await renderDailyReportPdf(pdfProject(project), pdfDay(view)), filename, stored: false };
-  const stored = await getObject(signedPdfKey(project, view));
-  if (stored) return { bytes: stored.bytes, filename, stored: true };
-  return { bytes: (await storeSignedPdf(project, view)).bytes, filename, stored: true };
+  const key = signedPdfKey(project, view);
+  const kept = await getObject(key).catch(() => undefined);
+  if (kept) return { bytes: kept.bytes, filename, stored: true };
+  const bytes = await renderDailyReportPdf(pdfProject(project), pdfDay(view));
+  // undefined: the storage did not answer; leave storing (and the subscribers' mail) to prepareSignedPdf.
+  const stored = kept === null ? await putObject(key, bytes, PDF_TYPE).then(() => true, () => false) : false;
+  return { bytes, filename, stored };
 }
 
 /** The dates from `from` to `to`, both included; at most 14 (a two-week batch), `from` first. */
@@ -448,10 +546,21 @@ export async function countersignReport(token: string, name: string, ip: string 
   });
 }
 
-/** The `<date>` of a day's URL, or 404: a day that cannot exist has no report. */
+/**
+ * The `<date>` of a day's URL, or a NotFoundError naming the `date` field: a day that cannot exist
+ * (2026-13-45, 2026-02-30, "abc") has no report. Pages answer it with the not-found page, the API
+ * with its JSON 404.
+ */
 export function dayParam(value: string | undefined): string {
   const parsed = reportDateSchema.safeParse(value);
-  if (!parsed.success) throw new NotFoundError("There is no such day: a day is written YYYY-MM-DD.");
+  if (!parsed.success) {
+    const shaped = /^\d{4}-\d{2}-\d{2}$/.test(value ?? "");
+    throw new NotFoundError({
+      field: "date",
+      value: (value ?? "").slice(0, 40),
+      message: shaped ? `There is no day ${value} in the calendar: check the month and the day.` : "There is no such day: a day is written YYYY-MM-DD, e.g. 2026-06-10.",
+    });
+  }
   return parsed.data;
 }
 

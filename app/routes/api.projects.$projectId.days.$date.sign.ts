@@ -11,8 +11,8 @@ const route = apiRoute<Route.LoaderArgs>({
     const { user, project } = await requireApiAccess(request, params.projectId, "reports.sign");
     const date = dayParam(params.date);
     const input = await readApiBody(request, signInputSchema, { formats: ["json"] });
-    const { report, signed, countersigned, amendments, state } = await signDailyReport(project, user, date, input.name, clientAddress(request));
-    return Response.json({ ...report, state, signed: { ...signed, countersigned, amendments } }, { status: 201 });
+    const { report, signed, countersigned, amendments, state, pdfPending } = await signDailyReport(project, user, date, input.name, clientAddress(request));
+    return Response.json({ ...report, state, signed: { ...signed, countersigned, amendments, pdf: pdfPending ? "preparing" : "stored" } }, { status: 201 });
   },
 });
 export const loader = route.loader;

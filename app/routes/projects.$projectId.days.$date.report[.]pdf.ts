@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/auth/access.server";
+import { pageParam, requireRole } from "~/lib/auth/access.server";
 import { dailyReportPdf, dayParam } from "~/models/daily-reports.server";
 import type { Route } from "./+types/projects.$projectId.days.$date.report[.]pdf";
 
@@ -7,7 +7,7 @@ import type { Route } from "./+types/projects.$projectId.days.$date.report[.]pdf
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = await requireRole(request, params.projectId, "reports.read");
-  const date = dayParam(params.date);
+  const date = pageParam(() => dayParam(params.date));
   const { bytes, filename } = await dailyReportPdf(project, date);
   return new Response(new Uint8Array(bytes), {
     headers: { "Content-Type": "application/pdf", "Content-Disposition": `attachment; filename="${filename}"`, "Content-Length": String(bytes.byteLength), "Cache-Control": "no-store" },

@@ -1,12 +1,13 @@
 import { Form, Link, data } from "react-router";
 import { z } from "zod";
 import { weatherLine } from "../../shared/daily-report/present";
+import { localClockOf, localDayOf } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
 import { DailyReportFigures, Section } from "~/components/daily-report-figures";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
-import { requireRole } from "~/lib/auth/access.server";
+import { pageParam, requireRole } from "~/lib/auth/access.server";
 import { can } from "~/lib/auth/permissions";
 import { ConflictError, DomainError, detailsOf } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
@@ -24,12 +25,12 @@ import type { Route } from "./+types/projects.$projectId.days.$date";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId, "reports.read");
-  const date = dayParam(params.date);
+  const date = pageParam(() => dayParam(params.date));
   const view = await getDailyReport(access.project, date);
   const canSign = can(access, "reports.sign");
   const pending = view.signed && !view.countersigned && canSign ? await openCountersignRequest(access.project, date) : null;
   const pendingMail = pending ? (await mailStates([pending.mailRef])).get(pending.mailRef)?.status ?? null : null;
-  return { ...view, countersignPending: pending ? { email: pending.email, expiresAt: pending.expiresAt, mail: pendingMail } : null, projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, lengthLabel: unitLabel(access.project.lengthUnit), canSign: can(access, "reports.sign"), signerName: access.user.name };
+  return { ...view, countersignPending: pending ? { email: pending.email, expiresAt: pending.expiresAt, mail: pendingMail } : null, projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, lengthLabel: unitLabel(access.project.lengthUnit), canSign: can(access, "reports.sign"), canConfigureStations: can(access, "water-quality.configure"), signerName: access.user.name };
 }
 
 const formSchema = z.discriminatedUnion("intent", [
@@ -41,7 +42,7 @@ const formSchema = z.discriminatedUnion("intent", [
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "reports.sign");
-  const date = dayParam(params.date);
+  const date = pageParam(() => dayParam(params.date));
   const form = formSchema.safeParse(Object.fromEntries(await readPageForm(request)));
   if (!form.success) return data({ errors: { form: "That request is not one this page makes." } as Record<string, string>, notice: null }, { status: 400 });
   const input = form.data;
@@ -56,8 +57,10 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (input.intent === "sign") {
       const parsed = signInputSchema.safeParse({ name: input.name });
       if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), (field) => field));
-      await signDailyReport(project, user, date, parsed.data.name, clientAddress(request));
-      return { errors: {}, notice: "Signed: the report is locked; corrections are amendments." };
+      const signed = await signDailyReport(project, user, date, parsed.data.name, clientAddress(request));
+      return { errors: {}, notice: signed.pdfPending
+        ? "Signed: the report is locked; corrections are amendments. Its PDF is being prepared: the file storage is not answering, so it is retried and sent to the subscribers once stored."
+        : "Signed: the report is locked; corrections are amendments." };
     }
     if (input.intent === "countersign-request") {
       const parsed = countersignRequestInputSchema.safeParse({ email: input.email });
@@ -85,6 +88,8 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
   const { report, signed, countersigned, countersignPending, amendments, canSign, projectId, date, timeZone } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const weather = report.entered.weather;
+  // Times in the project's zone, as the PDF and the countersign page give them.
+  const local = (iso: string) => <time className="figures whitespace-nowrap" dateTime={iso}>{localDayOf(Date.parse(iso), timeZone)} {localClockOf(Date.parse(iso), timeZone)}</time>;
   return (
     <div className="space-y-4">
       <ActionMessages error={errors.form} notice={actionData?.notice} />
@@ -94,7 +99,7 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
           <Link className="underline" to={`/projects/${projectId}/days?month=${date.slice(0, 7)}`}>All days</Link> · <a className="underline" href={`/projects/${projectId}/days/${date}/report.pdf`} download>Download PDF</a> · <button type="button" className="underline" onClick={() => window.print()}>Print</button>
         </p>
       </div>
-      <p className="text-sm text-muted">Local day in {timeZone}. {signed ? <>Figures as signed by <strong>{signed.name}</strong> at <span className="figures">{signed.at}</span>.</> : "Draft: figures compiled from the records as they stand now."}</p>
+      <p className="text-sm text-muted">Local day in {timeZone}. {signed ? <>Figures as signed by <strong>{signed.name}</strong> at {local(signed.at)}.</> : "Draft: figures compiled from the records as they stand now."}</p>
 
       {report.missing.length > 0 ? (
         <div role="status" className="rounded border border-danger bg-panel p-3 text-sm" data-testid="missing">
@@ -107,8 +112,8 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         {weatherLine(weather) ? (
           <p className="text-sm">{weatherLine(weather)}{weather?.effect ? <> — effect on the work: {weather.effect}</> : null}</p>
         ) : <p className="text-sm text-muted">No weather entered.</p>}
-        {report.entered.inspections ? <p className="mt-1 text-sm"><span className="font-medium">Inspections and visitors:</span> {report.entered.inspections}</p> : null}
-        {report.entered.safety ? <p className="mt-1 text-sm"><span className="font-medium">Safety:</span> {report.entered.safety}</p> : null}
+        <p className="mt-1 text-sm"><span className="font-medium">Inspections and visitors:</span> {report.entered.inspections || <span className="text-muted">none entered.</span>}</p>
+        <p className="mt-1 text-sm"><span className="font-medium">Safety (toolbox talk, incidents):</span> {report.entered.safety || <span className="text-muted">none entered.</span>}</p>
         {report.entered.notes ? <p className="mt-1 text-sm"><span className="font-medium">Notes:</span> {report.entered.notes}</p> : null}
         <p className="mt-1 text-xs text-muted">Incidents are reported as the project's safety plan directs; this report records them, it does not replace that reporting.</p>
         {canSign && !signed ? (
@@ -126,19 +131,25 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         ) : null}
       </Section>
 
-      <DailyReportFigures report={report} timeZone={timeZone} lengthUnit={loaderData.lengthUnit} />
+      <DailyReportFigures report={report} timeZone={timeZone} lengthUnit={loaderData.lengthUnit} stationSetupHref={loaderData.canConfigureStations ? `/projects/${projectId}/water-quality/setup#stations-heading` : undefined} />
 
       <Section title="Sign-off">
         {signed ? (
-          <p className="text-sm" data-testid="signed">Signed by <strong>{signed.name}</strong> at <span className="figures">{signed.at}</span>. Locked.</p>
+          <p className="text-sm" data-testid="signed">Signed by <strong>{signed.name}</strong> at {local(signed.at)}. Locked.</p>
         ) : canSign ? (
           <Form method="post" className="flex flex-wrap items-end gap-3 print:hidden">
             <TextField label="Your name (typed, as your signature)" name="name" required maxLength={200} defaultValue={loaderData.signerName} error={errors.name} />
             <SubmitButton intent="sign" pendingLabel="Signing…">Sign the report</SubmitButton>
           </Form>
         ) : <p className="text-sm text-muted">Not signed yet.</p>}
+        {loaderData.pdfPending ? (
+          <p role="status" className="mt-2 rounded border border-caution bg-paper p-2 text-sm" data-testid="pdf-pending">
+            PDF being prepared: the file storage did not answer ({loaderData.pdfPending.attempts} {loaderData.pdfPending.attempts === 1 ? "attempt" : "attempts"} so far; next at <time className="figures" dateTime={loaderData.pdfPending.nextAttemptAt}>{localClockOf(Date.parse(loaderData.pdfPending.nextAttemptAt), timeZone)}</time>).
+            The signature is kept; the subscribers receive the signed PDF once it is stored. Download PDF still gives the signed report now.
+          </p>
+        ) : null}
         {countersigned ? (
-          <p className="mt-2 text-sm" data-testid="countersigned">Countersigned by <strong>{countersigned.name}</strong> (agency inspector, {countersigned.email}) at <span className="figures">{countersigned.at}</span>.</p>
+          <p className="mt-2 text-sm" data-testid="countersigned">Countersigned by <strong>{countersigned.name}</strong> (agency inspector, {countersigned.email}) at {local(countersigned.at)}.</p>
         ) : signed ? <p className="mt-2 text-sm text-muted">Not countersigned by the agency's inspector yet.</p> : null}
         {signed && !countersigned && canSign ? (
           <Form method="post" className="mt-3 flex flex-wrap items-end gap-3 print:hidden" data-testid="countersign-request">
@@ -148,7 +159,7 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         ) : null}
         {amendments.length > 0 ? (
           <ul className="mt-3 space-y-1 text-sm" data-testid="amendments">
-            {amendments.map((amendment) => <li key={amendment.at + amendment.text}><span className="font-medium">Amendment</span> <span className="figures">{amendment.at}</span> by {amendment.by}: {amendment.text}</li>)}
+            {amendments.map((amendment) => <li key={amendment.at + amendment.text}><span className="font-medium">Amendment</span> {local(amendment.at)} by {amendment.by}: {amendment.text}</li>)}
           </ul>
         ) : null}
         {signed && canSign ? (

@@ -137,6 +137,7 @@ export default function Days({ loaderData, actionData }: Route.ComponentProps) {
                   {day.dives > 0 ? <span className="text-xs"><span className="figures">{day.dives}</span> {day.dives === 1 ? "dive" : "dives"}</span> : null}
                 </span>
                 <span className="block text-xs">{future ? "to come" : day.state}</span>
+                {!future && day.note ? <span className="block text-xs italic" data-testid="day-note">{day.note}</span> : null}
               </>
             );
             return (
@@ -147,7 +148,7 @@ export default function Days({ loaderData, actionData }: Route.ComponentProps) {
                 ) : (
                   <Link
                     to={`/projects/${projectId}/days/${day.date}`}
-                    aria-label={`${day.date}, ${day.state}${day.dives > 0 ? `, ${day.dives} ${day.dives === 1 ? "dive" : "dives"}` : ""}`}
+                    aria-label={`${day.date}, ${day.state}${day.note ? ` ${day.note}` : ""}${day.dives > 0 ? `, ${day.dives} ${day.dives === 1 ? "dive" : "dives"}` : ""}`}
                     className={`block min-h-14 rounded border p-1.5 hover:outline-2 hover:outline-lagoon focus-visible:outline-2 focus-visible:outline-lagoon ${STATE_STYLE[day.state]} ${day.state === "no work" ? "border-line" : ""} ${day.date === today ? "ring-2 ring-lagoon" : ""}`}
                   >
                     {body}
@@ -159,6 +160,7 @@ export default function Days({ loaderData, actionData }: Route.ComponentProps) {
         </ul>
         <div aria-labelledby="legend-heading" role="group" className="rounded border border-line bg-panel p-3 text-sm">
           <p id="legend-heading" className="mb-1 font-medium">Legend</p>
+          <p className="mb-2 text-muted">A signed day shows its latest event: countersigned after an amendment reads "countersigned, with 1 amendment"; amended after the countersignature reads "amended, after countersignature".</p>
           <ul className="grid gap-1 md:grid-cols-2">
             {STATES.map((state) => (
               <li key={state} className="flex items-center gap-2">

@@ -38,6 +38,10 @@ export class DailyReport extends Model<InferAttributes<DailyReport>, InferCreati
   declare countersignedByName: CreationOptional<string | null>;
   declare countersignedEmail: CreationOptional<string | null>;
   declare countersignedAt: CreationOptional<Date | null>;
+  /** A signed report whose PDF is not stored (and sent) yet: the next attempt; null once stored. */
+  declare pdfDueAt: CreationOptional<Date | null>;
+  declare pdfAttempts: CreationOptional<number>;
+  declare pdfLastError: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare amendments?: NonAttribute<DailyReportAmendment[]>;
@@ -95,10 +99,16 @@ export function initDailyReport(sequelize: Sequelize) {
       countersignedByName: { type: DataTypes.STRING(200), allowNull: true },
       countersignedEmail: { type: DataTypes.STRING(254), allowNull: true },
       countersignedAt: { type: DataTypes.DATE, allowNull: true },
+      pdfDueAt: { type: DataTypes.DATE, allowNull: true },
+      pdfAttempts: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
+      pdfLastError: { type: DataTypes.STRING(500), allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },
-    { sequelize, tableName: "daily_reports", modelName: "DailyReport", indexes: [{ name: "daily_reports_project_day_unique", unique: true, fields: ["projectId", "localDate"] }] },
+    {
+      sequelize, tableName: "daily_reports", modelName: "DailyReport",
+      indexes: [{ name: "daily_reports_project_day_unique", unique: true, fields: ["projectId", "localDate"] }, { name: "daily_reports_pdf_due", fields: ["pdfDueAt"] }],
+    },
   );
   DailyReportAmendment.init(
     {

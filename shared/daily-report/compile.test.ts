@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { instantOfLocal } from "../local-time";
-import { compileDay, localDayBounds, M3_PER_US_GALLON, type DayRecords } from "./compile";
+import { byCell, COMPLIANCE_STATION_SETTING, compileDay, localDayBounds, M3_PER_US_GALLON, type DayRecords } from "./compile";
 
 const TZ = "America/New_York";
 const at = (day: string, hh: number, mm = 0) => instantOfLocal(day, hh * 60 + mm, TZ);
@@ -90,6 +90,27 @@ describe("compileDay", () => {
     const idle = compileDay(records({ dives: [], shifts: [], entered: { weather: { conditions: "overcast", airTemperature: "", wind: "", rain: "", effect: "" }, inspections: "", safety: "", notes: "" } }));
     // No work logged: no sampling is owed, but the missing dive log is said.
     expect(idle.missing).toEqual(["no dives logged"]);
+  });
+
+  it("on a project with no compliance station: says so and where to set one up, never lists a sampling gap (practice: a gap needs a station to miss it)", () => {
+    // Background readings only, a routine set, a worked day: before, the whole work day came out as gaps.
+    const day = compileDay(records({ complianceStations: [], readings: [{ station: "BG", stationKind: "background", takenAtMs: at("2031-06-10", 8), value: 5, unit: "NTU", exceeds: null }] }));
+    expect(day.waterQuality.missedIntervals).toEqual([]);
+    expect(day.waterQuality.complianceStations).toEqual([]);
+    expect(day.missing).toEqual(["no weather entered", `no compliance station set up, so sampling is not checked (a manager adds one under ${COMPLIANCE_STATION_SETTING})`]);
+    expect(day.missing.join(" ")).not.toMatch(/not sampled/);
+    expect(COMPLIANCE_STATION_SETTING).toBe("Water quality › Setup › Monitoring stations");
+    // A day without work owes nothing, so nothing is said in the missing list.
+    expect(compileDay(records({ complianceStations: [], readings: [], dives: [], shifts: [] })).missing).toEqual(["no weather entered", "no dives logged"]);
+    // With a station the gaps are listed as before, and the stations named.
+    expect(compileDay(records()).waterQuality.complianceStations).toEqual(["C1", "C2"]);
+  });
+
+  it("orders cells column then row, as the grid reads (D7 before D10, Z9 before AA1)", () => {
+    expect(["D10", "AA1", "D7", "E2", "Z9", "D8"].sort(byCell)).toEqual(["D7", "D8", "D10", "E2", "Z9", "AA1"]);
+    const day = compileDay(records({ dives: [{ team: "Alpha", diver: "R. Ode", bottomMinutes: 45, maxDepth: 12, cells: ["D10", "D7", "AA1"], beyondNoDecompression: false }] }));
+    expect(day.cells).toEqual(["D7", "D10", "AA1"]);
+    expect(day.teams[0]!.cells).toEqual(["D7", "D10", "AA1"]);
   });
 
   it("counts finds by category with catalogue numbers and holds placed and lifted on the day", () => {

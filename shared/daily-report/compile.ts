@@ -1,4 +1,5 @@
 import { instantOfLocal, localClockOf } from "../local-time";
+import { parseCellLabel } from "../grid/cell-grid";
 import { missedIntervals, type SamplingRoutine } from "../water-quality/missed-samples";
 
 /**
@@ -161,6 +162,12 @@ export interface CompiledDay {
     readings: Array<{ station: string; stationKind: string; count: number; maxValue: number; unit: string; exceeding: number; withinLimit: number; notEvaluated: number; verdict: "exceeds" | "within limit" | "not evaluated" }>;
     exceedances: Array<{ station: string; at: string; value: number; unit: string }>;
     missedIntervals: Array<{ from: string; to: string }>;
+    /**
+     * The project's compliance stations when the day was compiled. None: sampling intervals are
+     * not checked and no gap is listed (the report says no compliance station is set up). Absent on
+     * reports signed before it was kept.
+     */
+    complianceStations?: string[];
   };
   interruptions: Array<{ kind: DayInterruption["kind"]; reason: string; start: string; end: string | null; lostHours: number }>;
   lostHours: number;
@@ -168,6 +175,18 @@ export interface CompiledDay {
   holds: { placed: string[]; lifted: string[] };
   entered: EnteredNotes;
   missing: string[];
+}
+
+/** Where a manager sets up compliance stations, in the app's own words. */
+export const COMPLIANCE_STATION_SETTING = "Water quality › Setup › Monitoring stations";
+export const NO_COMPLIANCE_STATION_MISSING = `no compliance station set up, so sampling is not checked (a manager adds one under ${COMPLIANCE_STATION_SETTING})`;
+
+/** Cells in grid order, column then row ("D7 D8 D10 E7", never "D10 D7 D8"); an unreadable label by its text. */
+export function byCell(a: string, b: string): number {
+  const p = parseCellLabel(a);
+  const q = parseCellLabel(b);
+  if (!p || !q) return p ? -1 : q ? 1 : a.localeCompare(b);
+  return p.col - q.col || p.row - q.row;
 }
 
 const round = (value: number, places: number) => Math.round(value * 10 ** places) / 10 ** places;
@@ -222,7 +241,7 @@ export function compileDay(records: DayRecords): CompiledDay {
       dives: own.length,
       bottomMinutes: own.reduce((sum, dive) => sum + dive.bottomMinutes, 0),
       maxDepth: own.length ? Math.max(...own.map((dive) => dive.maxDepth)) : null,
-      cells: [...new Set(own.flatMap((dive) => dive.cells))].sort(),
+      cells: [...new Set(own.flatMap((dive) => dive.cells))].sort(byCell),
       flags,
       visitors: [...new Set(own.filter((dive) => dive.visitor).map((dive) => dive.diver))].sort(),
     };
@@ -247,7 +266,10 @@ export function compileDay(records: DayRecords): CompiledDay {
   });
   const worked = records.dives.length > 0 || records.shifts.length > 0;
   const complianceTimes = records.readings.filter((reading) => reading.stationKind === "compliance").map((reading) => reading.takenAtMs);
-  const missed = worked && records.sampling ? missedIntervals([date], complianceTimes, records.sampling, timeZone) : [];
+  // Without a compliance station there is nothing the routine could have sampled: no gaps are
+  // listed, the report says plainly that no station is set up.
+  const noComplianceStation = records.complianceStations.length === 0;
+  const missed = worked && records.sampling && !noComplianceStation ? missedIntervals([date], complianceTimes, records.sampling, timeZone) : [];
 
   const interruptions = records.interruptions
     .map((event) => {
@@ -272,6 +294,7 @@ export function compileDay(records: DayRecords): CompiledDay {
   const missing: string[] = [];
   if (!records.entered.weather || !records.entered.weather.conditions.trim()) missing.push("no weather entered");
   if (records.dives.length === 0) missing.push("no dives logged");
+  if (worked && noComplianceStation) missing.push(NO_COMPLIANCE_STATION_MISSING);
   if (worked) {
     for (const station of records.complianceStations) {
       if (!records.readings.some((reading) => reading.station === station)) missing.push(`compliance station ${station} not sampled`);
@@ -290,7 +313,7 @@ export function compileDay(records: DayRecords): CompiledDay {
       flags: teams.flatMap((team) => team.flags),
     },
     teams,
-    cells: [...new Set(records.dives.flatMap((dive) => dive.cells))].sort(),
+    cells: [...new Set(records.dives.flatMap((dive) => dive.cells))].sort(byCell),
     production: {
       shifts: records.shifts.length,
       pumpHours: round(records.shifts.reduce((sum, shift) => sum + shift.pumpHours, 0), 2),
@@ -310,6 +333,7 @@ export function compileDay(records: DayRecords): CompiledDay {
         .sort((a, b) => a.takenAtMs - b.takenAtMs)
         .map((reading) => ({ station: reading.station, at: new Date(reading.takenAtMs).toISOString(), value: reading.value, unit: reading.unit })),
       missedIntervals: missed.map((gap) => ({ from: new Date(gap.fromMs).toISOString(), to: new Date(gap.toMs).toISOString() })),
+      complianceStations: [...records.complianceStations].sort(),
     },
     interruptions,
     lostHours: round(interruptions.reduce((sum, event) => sum + event.lostHours, 0), 2),

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { dayState, findsLine, productionRows, reportUnits, surveyLine, weatherLine } from "./present";
+import { dayState, dayStatus, findsLine, productionRows, reportUnits, surveyLine, weatherLine } from "./present";
 
 describe("the report's figures written out", () => {
   it("in a feet project's units: US gallons, short tons, pounds", () => {
@@ -37,13 +37,39 @@ describe("the report's figures written out", () => {
   });
 });
 
-describe("a day's state (practice: an amendment is what a reader must see first)", () => {
-  it("no work, draft, signed, countersigned, amended", () => {
+describe("a day's state: the latest of signed, countersigned and amended (practice: what the inspector has not yet seen comes first)", () => {
+  const t = (hh: number, mm = 0) => Date.UTC(2026, 5, 10, hh, mm);
+  const events = (signedAtMs: number | null, countersignedAtMs: number | null, amendedAtMs: number[] = []) => ({ signedAtMs, countersignedAtMs, amendedAtMs });
+
+  it("no work, draft, signed", () => {
     expect(dayState(null, false)).toBe("no work");
     expect(dayState(null, true)).toBe("draft");
-    expect(dayState({ signed: false, countersigned: false, amendments: 0 }, false)).toBe("draft");
-    expect(dayState({ signed: true, countersigned: false, amendments: 0 }, true)).toBe("signed");
-    expect(dayState({ signed: true, countersigned: true, amendments: 0 }, true)).toBe("countersigned");
-    expect(dayState({ signed: true, countersigned: true, amendments: 1 }, true)).toBe("amended");
+    expect(dayState(events(null, null), false)).toBe("draft");
+    expect(dayStatus(events(t(18), null), true)).toEqual({ state: "signed", note: null });
+  });
+
+  it("signed, then countersigned: countersigned", () => {
+    expect(dayStatus(events(t(18), t(19)), true)).toEqual({ state: "countersigned", note: null });
+  });
+
+  it("signed, amended, then countersigned: countersigned, the amendment shown beside it (the inspector countersigned the report with it)", () => {
+    expect(dayStatus(events(t(18), t(20), [t(19)]), true)).toEqual({ state: "countersigned", note: "with 1 amendment" });
+    expect(dayStatus(events(t(18), t(21), [t(19), t(20)]), true)).toEqual({ state: "countersigned", note: "with 2 amendments" });
+  });
+
+  it("signed, countersigned, then amended: amended, after the countersignature (the correction waits for the inspector)", () => {
+    expect(dayStatus(events(t(18), t(19), [t(20)]), true)).toEqual({ state: "amended", note: "after countersignature" });
+    // An amendment before and one after the countersignature: the later one decides.
+    expect(dayStatus(events(t(18), t(19, 30), [t(19), t(21)]), true)).toEqual({ state: "amended", note: "after countersignature" });
+  });
+
+  it("signed and amended, never countersigned: amended", () => {
+    expect(dayStatus(events(t(18), null, [t(19)]), true)).toEqual({ state: "amended", note: null });
+  });
+
+  it("a countersignature and an amendment in the same stored second: the amendment counts as later (never hidden)", () => {
+    expect(dayState(events(t(18), t(19) + 200, [t(19) + 700]), true)).toBe("amended");
+    expect(dayState(events(t(18), t(19) + 700, [t(19) + 200]), true)).toBe("amended");
+    expect(dayState(events(t(18), t(19) + 1000, [t(19)]), true)).toBe("countersigned");
   });
 });

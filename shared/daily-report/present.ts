@@ -1,7 +1,7 @@
 import { FIND_CATEGORY_LABELS, type FindCategory } from "../finds/finds";
 import { localClockOf } from "../local-time";
 import { LITRES_PER_US_GALLON, kilogramsTo, massUnitsFor, measureLabel, type LengthUnit } from "../units";
-import type { CompiledDay, Weather } from "./compile";
+import { COMPLIANCE_STATION_SETTING, type CompiledDay, type Weather } from "./compile";
 
 /**
  * How a compiled day's figures are written out, once for the page and the PDF: the report keeps
@@ -68,6 +68,11 @@ export function surveyLine(survey: CompiledDay["production"]["survey"]): string 
   return `Survey of this day${survey.since ? ` against the survey of ${survey.since}` : ""}: ${formatNumber(survey.removedVolume)} ${survey.volumeLabel} removed, ${survey.cellsReachedFirmSand} ${cells} newly at firm sand, ${formatNumber(survey.remainingVolume)} ${survey.volumeLabel} remaining.${survey.settingsVersion != null ? ` Computed with settings version ${survey.settingsVersion}.` : ""}`;
 }
 
+/** What the report says on a project with no compliance station (and so no sampling check), once for the page and the PDF. */
+export function noComplianceStationLine(): string {
+  return `No compliance station is set up for this project, so missed sampling intervals are not checked. A manager adds one under ${COMPLIANCE_STATION_SETTING}.`;
+}
+
 /** A batch sent or downloaded as one PDF holds at most two weeks of days. */
 export const BATCH_DAYS = 14;
 
@@ -78,11 +83,41 @@ export const DAY_STATE_DESCRIPTIONS: Record<DayState, string> = {
   "no work": "no dives and no report",
   draft: "work logged or notes entered, not signed",
   signed: "signed by the supervisor, locked",
-  countersigned: "signed and countersigned by the agency's inspector",
-  amended: "signed, with a dated amendment beside it",
+  countersigned: "countersigned by the agency's inspector, with any amendment made before it",
+  amended: "corrected by a dated amendment since it was signed or countersigned",
 };
 
-export function dayState(report: { signed: boolean; countersigned: boolean; amendments: number } | null, worked: boolean): DayState {
-  if (report?.signed) return report.amendments > 0 ? "amended" : report.countersigned ? "countersigned" : "signed";
-  return report || worked ? "draft" : "no work";
+/** What happened to a report, when (milliseconds); null for what has not happened. */
+export interface ReportEvents {
+  signedAtMs: number | null;
+  countersignedAtMs: number | null;
+  amendedAtMs: readonly number[];
+}
+
+/**
+ * A day's state on the calendar: the latest of its report's events wins. Signed, then countersigned
+ * by the inspector: countersigned. An amendment after the countersignature: amended, since the
+ * inspector countersigned a report that has been corrected since (the correction waits for their
+ * eyes). An amendment before the countersignature: countersigned, since the inspector countersigned
+ * the report with that amendment beside it. An amendment and a countersignature stamped in the same
+ * second count the amendment as later, so a correction is never hidden behind a countersignature.
+ * `note` says the other event, so both show: "after countersignature", "with 1 amendment".
+ */
+export function dayStatus(report: ReportEvents | null, worked: boolean): { state: DayState; note: string | null } {
+  if (!report || report.signedAtMs === null) return { state: report || worked ? "draft" : "no work", note: null };
+  const lastAmendment = report.amendedAtMs.length > 0 ? Math.max(...report.amendedAtMs) : null;
+  const countersigned = report.countersignedAtMs;
+  const amendments = (count: number) => `with ${count} ${count === 1 ? "amendment" : "amendments"}`;
+  // Stored times keep whole seconds: within one second the amendment counts as the later event.
+  const second = (ms: number) => Math.floor(ms / 1000);
+  if (countersigned !== null && (lastAmendment === null || second(countersigned) > second(lastAmendment))) {
+    return { state: "countersigned", note: report.amendedAtMs.length > 0 ? amendments(report.amendedAtMs.length) : null };
+  }
+  if (lastAmendment !== null) return { state: "amended", note: countersigned !== null ? "after countersignature" : null };
+  return { state: "signed", note: null };
+}
+
+/** The state alone (see dayStatus). */
+export function dayState(report: ReportEvents | null, worked: boolean): DayState {
+  return dayStatus(report, worked).state;
 }

@@ -100,8 +100,11 @@ test("daily report: missing items, weather, signature, countersignature by e-mai
   expect(text).toContain("Overcast, light chop");
 
   await page.goto(`/projects/${projectId}/days?month=${yesterday.slice(0, 7)}`);
-  await expect(page.getByTestId("day").filter({ has: page.getByRole("link", { name: new RegExp(`^${yesterday}, `) }) })).toContainText("amended");
-  await expect(page.getByRole("group", { name: "Legend" })).toContainText("countersigned: signed and countersigned by the agency's inspector");
+  // Countersigned, then amended: the latest event shows, the countersignature beside it.
+  const day = page.getByTestId("day").filter({ has: page.getByRole("link", { name: new RegExp(`^${yesterday}, amended after countersignature`) }) });
+  await expect(day).toContainText("amended");
+  await expect(day.getByTestId("day-note")).toHaveText("after countersignature");
+  await expect(page.getByRole("group", { name: "Legend" })).toContainText("countersigned: countersigned by the agency's inspector, with any amendment made before it");
 });
 
 test("a manager adds an outside subscriber, who receives the signed report with its PDF attached", async ({ page, signIn }) => {
@@ -124,4 +127,16 @@ test("a manager adds an outside subscriber, who receives the signed report with 
   expect(mail.subject).toBe(`Daily report ${day} signed · ${PROJECT.name}`);
   expect(mail.attachments).toEqual([expect.objectContaining({ filename: expect.stringMatching(new RegExp(`-daily-report-${day}\\.pdf$`)), contentType: "application/pdf" })]);
   expect(mail.attachments[0]!.size).toBeGreaterThan(1000);
+});
+
+test("a day that cannot exist is the app's not-found page, and its PDF a 404", async ({ page, signIn }) => {
+  await signIn("viewer");
+  for (const date of ["2026-13-45", "abc"]) {
+    const response = await page.goto(`/projects/${projectId}/days/${date}`);
+    expect(response!.status()).toBe(404);
+    await expect(page.getByRole("heading", { level: 1 })).toHaveText(/^404/);
+    await expect(page.getByText(/There is no (such )?day/)).toBeVisible();
+    await expect(page.getByRole("link", { name: "Back to your projects" })).toBeVisible();
+  }
+  expect((await page.request.get(`/projects/${projectId}/days/2026-02-30/report.pdf`)).status()).toBe(404);
 });

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { instantOfLocal } from "../../shared/local-time";
 import {
-  AuditEvent, DailyReport, OutgoingMail, ReportSubscriber, DewateringShift, Dive, DiveCell, DiveTeam, Find, GeotextileTube, Haul, HaulSite, Hold, MonitoringStation, Project, Survey, SurveySnapshot, TubeFill, WildlifeStandDown, type Role,
+  AuditEvent, DailyReport, DailyReportAmendment, OutgoingMail, ReportSubscriber, DewateringShift, Dive, DiveCell, DiveTeam, Find, GeotextileTube, Haul, HaulSite, Hold, MonitoringStation, Project, Survey, SurveySnapshot, TubeFill, WildlifeStandDown, type Role,
 } from "~/lib/db.server";
 import { ConflictError } from "~/lib/errors";
 import { presentProject } from "~/lib/auth/project-view.server";
@@ -15,7 +15,7 @@ import { action as countersignRequestAction } from "~/routes/api.projects.$proje
 import { action as subscribersAction, loader as subscribersLoader } from "~/routes/api.projects.$projectId.report-subscribers";
 import { action as subscriberAction } from "~/routes/api.projects.$projectId.report-subscribers.$subscriberId";
 import {
-  addSubscriber, batchDates, countersignReport, dailyReportBatchPdf, dailyReportPdf, listMonthDays, lookUpCountersign, removeSubscriber, saveEnteredNotes, sendDailyReportBatch, signDailyReport,
+  addAmendment, addSubscriber, batchDates, countersignReport, dailyReportBatchPdf, dailyReportPdf, listMonthDays, lookUpCountersign, removeSubscriber, saveEnteredNotes, sendDailyReportBatch, signDailyReport,
 } from "~/models/daily-reports.server";
 import { deliverDue } from "~/lib/mail/outbox.server";
 import type { MailMessage } from "~/lib/mail/mail.server";
@@ -282,6 +282,9 @@ describe("the inspector's countersignature", () => {
     // The newer link replaces the older one.
     expect((await lookUpCountersign(tokenOf(mails[0]!))).status).toBe("used");
     const token = tokenOf(mails[1]!);
+    // The amendment (made by the test above) is dated a minute back, so it plainly came before the countersignature.
+    const dayReport = await DailyReport.findOne({ where: { projectId, localDate: DAY } });
+    await DailyReportAmendment.update({ createdAt: new Date(Date.now() - 60_000) }, { where: { reportId: dayReport!.id } });
     const open = await lookUpCountersign(token);
     expect(open.status).toBe("open");
     if (open.status === "open") expect(open.view.report.dives.bottomMinutes).toBe(134);
@@ -291,8 +294,8 @@ describe("the inspector's countersignature", () => {
     expect(await countersignReport("not-a-token", "X")).toEqual({ ok: false, reason: "unknown" });
     const body = await (await getDay("viewer", DAY)).json();
     expect(body.signed.countersigned).toMatchObject({ name: "Morgan Alvarez", email: "inspector@agency.example" });
-    // Amended before it was countersigned: the amendment keeps the day "amended" on the calendar.
-    expect(body.state).toBe("amended");
+    // Amended, then countersigned: the inspector countersigned the report with its amendment beside it.
+    expect(body.state).toBe("countersigned");
     expect(await AuditEvent.count({ where: { projectId, action: "daily-report-countersigned" } })).toBe(1);
     expect(await AuditEvent.count({ where: { projectId, action: "daily-report-countersign-requested" } })).toBe(2);
     // Countersigned already: no new link.
@@ -384,20 +387,26 @@ describe("subscribers and the two-week batch", () => {
 });
 
 describe("the calendar", () => {
-  it("names each day's state: no work, draft, signed, countersigned, amended", async () => {
+  it("names each day's state: no work, draft, signed, countersigned, amended (the latest event wins, the other said beside it)", async () => {
     const project = await projectView();
     const days = await listMonthDays(project, "2026-06");
     expect(days).toHaveLength(30);
     const state = (date: string) => days.find((day) => day.date === date)!.state;
     expect(state("2026-06-01")).toBe("no work");
     expect(state(PREVIOUS)).toBe("no work"); // a shift but no dive and no report
-    expect(state(DAY)).toBe("amended");
+    // practice: amended at −60 s, then countersigned: countersigned, the amendment said beside it.
+    expect(days.find((day) => day.date === DAY)).toMatchObject({ state: "countersigned", note: "with 1 amendment" });
     expect(state(NEXT)).toBe("signed");
     const row = await DailyReport.findOne({ where: { projectId, localDate: NEXT } });
-    await row!.update({ countersignedAt: new Date(), countersignedByName: "Morgan Alvarez", countersignedEmail: "inspector@agency.example" });
-    expect((await listMonthDays(project, "2026-06")).find((day) => day.date === NEXT)!.state).toBe("countersigned");
+    const countersignedAt = new Date(Date.now() - 2_000);
+    await row!.update({ countersignedAt, countersignedByName: "Morgan Alvarez", countersignedEmail: "inspector@agency.example" });
+    expect((await listMonthDays(project, "2026-06")).find((day) => day.date === NEXT)).toMatchObject({ state: "countersigned", note: null });
+    // An amendment after the countersignature: amended, after it (the correction waits for the inspector).
+    await addAmendment(project, asUser("manager"), NEXT, "Haul ticket H-103 read 9.0 t, not 9.9 t.");
+    expect((await listMonthDays(project, "2026-06")).find((day) => day.date === NEXT)).toMatchObject({ state: "amended", note: "after countersignature" });
+    expect((await (await getDay("viewer", NEXT)).json()).state).toBe("amended");
     await Dive.create({ projectId, diveDate: "2026-06-20", teamId: (await DiveTeam.findOne({ where: { projectId, name: "Alpha" } }))!.id, diverName: "D", leftSurfaceAt: null, leftBottomAt: null, bottomMinutes: 5, maxDepth: 3, notes: "" });
-    expect((await listMonthDays(project, "2026-06")).find((day) => day.date === "2026-06-20")).toEqual({ date: "2026-06-20", state: "draft", dives: 1 });
+    expect((await listMonthDays(project, "2026-06")).find((day) => day.date === "2026-06-20")).toEqual({ date: "2026-06-20", state: "draft", note: null, dives: 1 });
   });
 });
 
@@ -448,5 +457,51 @@ describe("a day that crosses a daylight-saving change", () => {
     const text = (await pdfPages(spring.bytes)).join("\n");
     expect(text).toMatch(/2\s*dives · 60\s*bottom minutes/);
     expect(text).toMatch(/Lost in all:\s*23\s*h/);
+  });
+});
+
+describe("a day that cannot exist", () => {
+  // A month 13, a 30 February, words: none is a day, so none has a report.
+  const badDays = ["2026-13-45", "2026-02-30", "abc"];
+
+  it("is a JSON 404 naming the date field on every API day route (GET, sign, amendments, countersign requests), and stores nothing", async () => {
+    const before = await DailyReport.count({ where: { projectId } });
+    for (const date of badDays) {
+      const answers = [
+        await getDay("manager", date),
+        await postJson(signAction as never, "manager", `${dayPath(date)}/sign`, { name: "Dana Reyes" }, { date }),
+        await postJson(amendAction as never, "manager", `${dayPath(date)}/amendments`, { text: "x" }, { date }),
+        await postJson(countersignRequestAction as never, "manager", `${dayPath(date)}/countersign-requests`, { email: "inspector@agency.example" }, { date }),
+      ];
+      for (const answer of answers) {
+        expect(answer.status, date).toBe(404);
+        expect(answer.headers.get("Content-Type")).toMatch(/application\/json/);
+        const body = await answer.json();
+        expect(body.errors).toEqual([expect.objectContaining({ field: "date", value: date, message: expect.stringMatching(/There is no (such )?day/) })]);
+      }
+    }
+    expect(await DailyReport.count({ where: { projectId } })).toBe(before);
+  });
+
+  it("is the not-found page (404) for the day's page, its form and its PDF", async () => {
+    const { loader: pageLoader, action: pageAction } = await import("~/routes/projects.$projectId.days.$date");
+    const { loader: pdfLoader } = await import("~/routes/projects.$projectId.days.$date.report[.]pdf");
+    for (const date of badDays) {
+      const path = `/projects/${projectId}/days/${date}`;
+      const page = await thrown(async () => pageLoader({ request: await requestAs(users.get("viewer")!.id, path), params: { projectId: String(projectId), date }, context: {} } as never));
+      const form = await thrown(async () => pageAction({
+        request: await requestAs(users.get("manager")!.id, path, { method: "POST", body: new URLSearchParams({ intent: "notes", conditions: "Sunny" }), headers: { Origin: "http://127.0.0.1:3999" } }),
+        params: { projectId: String(projectId), date }, context: {},
+      } as never));
+      const pdf = await thrown(async () => pdfLoader({ request: await requestAs(users.get("viewer")!.id, `${path}/report.pdf`), params: { projectId: String(projectId), date }, context: {} } as never));
+      for (const answer of [page, form, pdf]) {
+        expect(answer, date).toBeInstanceOf(Response);
+        expect((answer as Response).status).toBe(404);
+        expect(await (answer as Response).text()).toMatch(/There is no (such )?day/);
+      }
+    }
+    // A member who may not read reports is refused first (403): a bad day tells an outsider nothing.
+    const refused = await thrown(async () => pageLoader({ request: await requestAs(users.get("outreach")!.id, `/projects/${projectId}/days/abc`), params: { projectId: String(projectId), date: "abc" }, context: {} } as never));
+    expect((refused as Response).status).toBe(403);
   });
 });

@@ -160,6 +160,19 @@ function refusedPage(error: unknown): unknown {
   return error;
 }
 
+/**
+ * A page's reading of a URL parameter (`parse` throws the model's NotFoundError for one that names
+ * nothing, e.g. a day that cannot exist): answered with the app's not-found page (404), as an
+ * unknown project is.
+ */
+export function pageParam<T>(parse: () => T): T {
+  try {
+    return parse();
+  } catch (error) {
+    throw refusedPage(error);
+  }
+}
+
 /** The signed-in user; a signed-out request is redirected to /login?next=<this page>. */
 export async function requireUser(request: Request): Promise<UserView> {
   try {

@@ -2,7 +2,7 @@ import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import PDFDocument from "pdfkit";
 import type { CompiledDay } from "../../../shared/daily-report/compile";
-import { findsLine, formatNumber, interruptionLine, productionRows, reportUnits, surveyLine, weatherLine } from "../../../shared/daily-report/present";
+import { findsLine, formatNumber, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine, weatherLine } from "../../../shared/daily-report/present";
 import { localClockOf, localDayOf } from "../../../shared/local-time";
 import { unitLabel, type LengthUnit } from "../../../shared/units";
 
@@ -53,6 +53,9 @@ function plain(text: string): string {
   }).join("");
 }
 
+type Part = string | { figure: string } | { danger: string };
+interface Piece { font: string; size: number; color: string; text: string; width: number; space: number; x?: number; newline?: boolean }
+
 class ReportWriter {
   readonly doc: PDFKit.PDFDocument;
   private readonly width: number;
@@ -75,46 +78,156 @@ class ReportWriter {
     this.doc.y = y + 3;
   }
 
-  /** Words and figures on one line: figures in the mono. */
-  line(parts: Array<string | { figure: string } | { danger: string }>, options: { size?: number; color?: string } = {}) {
+  /**
+   * Words and figures as one paragraph, wrapped at the text width: figures in the mono, words in
+   * Helvetica, every piece set on the line's common baseline (the two fonts' ascents differ by a
+   * third of the size, so top-aligned pieces would stagger). A line breaks only at white space,
+   * so a figure stays with the word glued to it ("2.33 h" may wrap, "2.33h" never splits).
+   */
+  line(parts: Part[], options: { size?: number; color?: string } = {}) {
     const size = options.size ?? 9;
-    this.room(size * 2);
-    parts.forEach((part, index) => {
-      const continued = index < parts.length - 1;
-      const start = index === 0 ? { x: MARGIN, width: this.width } : {};
-      if (typeof part === "string") this.doc.font("Helvetica").fontSize(size).fillColor(options.color ?? INK).text(plain(part), start.x, undefined, { ...start, continued });
-      else if ("figure" in part) this.doc.font("mono").fontSize(size - 0.5).fillColor(options.color ?? INK).text(part.figure, start.x, undefined, { ...start, continued });
-      else this.doc.font("Helvetica").fontSize(size).fillColor(DANGER).text(plain(part.danger), start.x, undefined, { ...start, continued });
-    });
+    const color = options.color ?? INK;
+    // Words: pieces not separated by white space; each piece carries its trailing white space.
+    const words: Piece[][] = [];
+    let word: Piece[] = [];
+    const close = () => {
+      if (word.length > 0) words.push(word);
+      word = [];
+    };
+    for (const part of parts) {
+      const style = typeof part === "string" ? { font: "Helvetica", size, color, text: plain(part) }
+        : "figure" in part ? { font: "mono", size: size - 0.5, color, text: part.figure }
+        : { font: "Helvetica", size, color: DANGER, text: plain(part.danger) };
+      for (const chunk of style.text.split(/(\n|[^\S\n]+)/)) {
+        if (chunk === "") continue;
+        if (chunk === "\n") {
+          close();
+          words.push([{ ...style, text: "", width: 0, space: 0, newline: true }]);
+        } else if (/^\s+$/.test(chunk)) {
+          const last = word.at(-1) ?? words.at(-1)?.at(-1);
+          if (word.length > 0 && last) {
+            last.text += " ";
+            last.space += this.measure(style.font, style.size, " ");
+          }
+          close();
+        } else {
+          word.push({ ...style, text: chunk, width: this.measure(style.font, style.size, chunk), space: 0 });
+        }
+      }
+    }
+    close();
+
+    // Lines: as many words as fit the width; a word wider than the line is cut where it must.
+    const lines: Piece[][] = [[]];
+    let x = 0;
+    for (const pieces of words) {
+      if (pieces[0]?.newline) {
+        lines.push([]);
+        x = 0;
+        continue;
+      }
+      const width = pieces.reduce((sum, piece) => sum + piece.width, 0);
+      if (x > 0 && x + width > this.width) {
+        lines.push([]);
+        x = 0;
+      }
+      for (const piece of pieces) {
+        if (x + piece.width > this.width && piece.width > this.width) {
+          for (const cut of this.cut(piece, this.width - x)) {
+            if (x > 0 && x + cut.width > this.width) {
+              lines.push([]);
+              x = 0;
+            }
+            lines.at(-1)!.push({ ...cut, x });
+            x += cut.width;
+          }
+          x += piece.space;
+          continue;
+        }
+        lines.at(-1)!.push({ ...piece, x });
+        x += piece.width + piece.space;
+      }
+    }
+    for (const pieces of lines) {
+      const metrics = (pieces.length > 0 ? pieces : [{ font: "Helvetica", size }]).map((piece) => this.metrics(piece.font, piece.size));
+      const ascent = Math.max(...metrics.map((metric) => metric.ascent));
+      const height = ascent + Math.max(...metrics.map((metric) => metric.descent)) + size * 0.22;
+      this.room(height);
+      const baseline = this.doc.y + ascent;
+      for (const piece of pieces) {
+        this.doc.font(piece.font).fontSize(piece.size).fillColor(piece.color).text(piece.text, MARGIN + piece.x!, baseline, { lineBreak: false, baseline: "alphabetic" });
+      }
+      this.doc.x = MARGIN;
+      this.doc.y = baseline - ascent + height;
+    }
+  }
+
+  private measure(font: string, size: number, text: string): number {
+    return this.doc.font(font).fontSize(size).widthOfString(text);
+  }
+
+  /** The font's ascent and descent at `size`, in points (both positive). */
+  private metrics(font: string, size: number): { ascent: number; descent: number } {
+    const face = this.doc.font(font).fontSize(size) as unknown as { _font: { ascender: number; descender: number } };
+    return { ascent: (face._font.ascender / 1000) * size, descent: (-face._font.descender / 1000) * size };
+  }
+
+  /** A word too wide for a whole line, cut into pieces that fit (the first into `room`). */
+  private cut(piece: Piece, room: number): Piece[] {
+    const pieces: Piece[] = [];
+    let rest = piece.text.trimEnd();
+    let space = Math.max(room, this.width / 4);
+    while (rest.length > 0) {
+      let count = rest.length;
+      while (count > 1 && this.measure(piece.font, piece.size, rest.slice(0, count)) > space) count -= 1;
+      const text = rest.slice(0, count);
+      pieces.push({ ...piece, text, width: this.measure(piece.font, piece.size, text), space: 0 });
+      rest = rest.slice(count);
+      space = this.width;
+    }
+    return pieces;
   }
 
   note(text: string) {
     this.line([text], { size: 7.5, color: MUTED });
   }
 
-  /** A table of words and figures; `figures` marks the columns set in the mono. */
-  table(headers: string[] | null, rows: string[][], widths: number[], figures: boolean[]) {
+  /**
+   * A table of words and figures; `figures` marks the columns set in the mono, `danger` the cells
+   * set in red. Cells of a row share one baseline whatever their font.
+   */
+  table(headers: string[] | null, rows: string[][], widths: number[], figures: boolean[], danger: (row: number, column: number) => boolean = () => false) {
     const total = widths.reduce((a, b) => a + b, 0);
     const columns = widths.map((width) => (width / total) * this.width);
-    const drawRow = (cells: string[], header: boolean) => {
-      const heights = cells.map((cell, index) => {
-        this.doc.font(header ? "Helvetica-Bold" : figures[index] ? "mono" : "Helvetica").fontSize(header ? 8 : 8.5);
-        return this.doc.heightOfString(header || !figures[index] ? plain(cell) : cell, { width: columns[index]! - 6 });
+    const drawRow = (cells: string[], header: boolean, rowIndex: number) => {
+      const styles = cells.map((cell, index) => {
+        const font = header ? "Helvetica-Bold" : figures[index] ? "mono" : "Helvetica";
+        const size = header ? 8 : figures[index] ? 8 : 8.5;
+        const text = header || !figures[index] ? plain(cell) : cell;
+        this.doc.font(font).fontSize(size);
+        return { font, size, text, height: this.doc.heightOfString(text, { width: columns[index]! - 6 }), ...this.metrics(font, size) };
       });
-      const height = Math.max(...heights) + 4;
+      const ascent = Math.max(...styles.map((style) => style.ascent));
+      const height = Math.max(...styles.map((style) => ascent - style.ascent + style.height)) + 5;
       this.room(height + 2);
       const top = this.doc.y;
       let x = MARGIN;
-      cells.forEach((cell, index) => {
-        this.doc.font(header ? "Helvetica-Bold" : figures[index] ? "mono" : "Helvetica").fontSize(header ? 8 : 8.5).fillColor(header ? MUTED : INK)
-          .text(header || !figures[index] ? plain(cell) : cell, x, top + 2, { width: columns[index]! - 6 });
+      styles.forEach((style, index) => {
+        const color = header ? MUTED : danger(rowIndex, index) ? DANGER : INK;
+        this.doc.font(style.font).fontSize(style.size).fillColor(color).text(style.text, x, top + 2.5 + ascent, { width: columns[index]! - 6, baseline: "alphabetic" });
         x += columns[index]!;
       });
       this.doc.moveTo(MARGIN, top + height).lineTo(MARGIN + this.width, top + height).lineWidth(0.3).strokeColor(LINE).stroke();
+      this.doc.x = MARGIN;
       this.doc.y = top + height + 1;
     };
-    if (headers) drawRow(headers, true);
-    for (const row of rows) drawRow(row, false);
+    if (headers) drawRow(headers, true, -1);
+    rows.forEach((row, index) => drawRow(row, false, index));
+  }
+
+  /** Keeps the next `height` points together on one page (a heading with what follows it). */
+  keep(height: number) {
+    this.room(height);
   }
 
   /** A signature line: what was signed, or a blank line to sign by hand. */
@@ -177,8 +290,9 @@ function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
   writer.heading("Weather and notes");
   const weather = weatherLine(report.entered.weather);
   writer.line([weather ?? "No weather entered.", ...(report.entered.weather?.effect ? [` — effect on the work: ${report.entered.weather.effect}`] : [])]);
-  if (report.entered.inspections) writer.line([`Inspections and visitors: ${report.entered.inspections}`]);
-  if (report.entered.safety) writer.line([`Safety: ${report.entered.safety}`]);
+  // Inspections and safety are written even when empty: "none entered" is not a blank a reader must guess at.
+  writer.line([`Inspections and visitors: ${report.entered.inspections || "none entered."}`], report.entered.inspections ? {} : { color: MUTED });
+  writer.line([`Safety (toolbox talk, incidents): ${report.entered.safety || "none entered."}`], report.entered.safety ? {} : { color: MUTED });
   if (report.entered.notes) writer.line([`Notes: ${report.entered.notes}`]);
   writer.note("Incidents are reported as the project's safety plan directs; this report records them, it does not replace that reporting.");
 
@@ -205,12 +319,20 @@ function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
   if (survey) writer.line([survey]);
 
   writer.heading("Water quality");
-  if (report.waterQuality.readings.length === 0) writer.line(["No stations and no readings."], { color: MUTED });
-  for (const row of report.waterQuality.readings) {
-    writer.line([`${row.station} (${row.stationKind}): `, { figure: String(row.count) }, " readings", ...(row.count > 0 ? [", highest ", { figure: String(row.maxValue) }, ` ${row.unit} · `, row.verdict === "exceeds" ? { danger: row.verdict } : row.verdict] : [])]);
+  const quality = report.waterQuality;
+  if (quality.complianceStations?.length === 0) writer.line([noComplianceStationLine()]);
+  if (quality.readings.length === 0) writer.line([quality.complianceStations?.length === 0 ? "No readings." : "No stations and no readings."], { color: MUTED });
+  else {
+    writer.table(
+      ["Station", "Kind", "Readings", "Highest", "Verdict"],
+      quality.readings.map((row) => [row.station, row.stationKind, String(row.count), row.count > 0 ? `${row.maxValue} ${row.unit}` : "—", row.count > 0 ? row.verdict : "no readings"]),
+      [4, 1.6, 1.2, 1.6, 1.6],
+      [false, false, true, true, false],
+      (index, column) => column === 4 && (quality.readings[index]!.verdict === "exceeds" || (quality.readings[index]!.count === 0 && quality.readings[index]!.stationKind === "compliance")),
+    );
   }
-  for (const row of report.waterQuality.exceedances) writer.line([{ danger: `Exceedance at ${row.station}, ${clock(row.at)}: ` }, { figure: String(row.value) }, ` ${row.unit}`]);
-  for (const gap of report.waterQuality.missedIntervals) writer.line([{ danger: `Not sampled ${clock(gap.from)}–${clock(gap.to)}` }]);
+  for (const row of quality.exceedances) writer.line([{ danger: `Exceedance at ${row.station}, ` }, { figure: clock(row.at) }, { danger: ": " }, { figure: String(row.value) }, ` ${row.unit}`]);
+  for (const gap of quality.missedIntervals) writer.line([{ danger: "No compliance reading " }, { figure: `${clock(gap.from)}–${clock(gap.to)}` }]);
   writer.note("Readings support the permit's monitoring; the permit and the agency decide compliance.");
 
   writer.heading("Interruptions");
@@ -225,6 +347,8 @@ function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
   if (report.holds.lifted.length > 0) writer.line(["Holds lifted: ", { figure: report.holds.lifted.join(", ") }]);
   writer.note("No find locations appear in this report.");
 
+  // The sign-off block stays on one page: a signature never sits apart from its heading.
+  writer.keep(140);
   writer.heading("Sign-off");
   writer.signature("Dive supervisor or manager (typed name as signature)", signed ? { name: signed.name, detail: `signed ${stamp(signed.at)}` } : null);
   writer.signature("Agency inspector (countersignature)", countersigned ? { name: countersigned.name, detail: `countersigned ${stamp(countersigned.at)} through the link sent to ${countersigned.email}` } : null);
