@@ -370,6 +370,21 @@ describe("a back-dated lift", () => {
     expect((await lift({ authorisedBy: "Again" })).status).toBe(409);
   });
 
+  it("refuses a lift \"now\" that would come before the hold was placed (a find logged from a clock running ahead), naming liftedAt (422)", async () => {
+    // A phone's clock ten minutes fast: the find, and so its hold, is placed in the server's future.
+    const ahead = new Date(Date.now() + 10 * 60_000);
+    const logged = await postJson(findsAction as never, "resource-monitor", `${base()}/finds`, {}, { category: "cultural", description: "Shell bead", cell: inside[16], foundAt: ahead.toISOString() });
+    expect(logged.status).toBe(201);
+    const aheadHold = String(((await logged.json()) as { hold: { id: number } }).hold.id);
+    const now = await postJson(liftAction as never, "manager", `${base()}/holds/${aheadHold}/lift`, { holdId: aheadHold }, { authorisedBy: "State office" });
+    expect(now.status).toBe(422);
+    const [error] = await errorsOf(now);
+    expect(error.field).toBe("liftedAt");
+    expect(error.message).toMatch(/^The lift cannot come before the hold was placed, at \d{4}-\d{2}-\d{2} \d{2}:\d{2} \(America\/New_York\), and it is only /);
+    // Nothing was stored: the hold is in force (invariant).
+    expect((await Hold.findByPk(Number(aheadHold)))!.liftedAt).toBeNull();
+  });
+
   it("reads the page's lift time in the project's time zone", async () => {
     const logged = await postJson(findsAction as never, "resource-monitor", `${base()}/finds`, {}, { category: "cultural", description: "Bead", cell: inside[14], foundAt: "2026-11-13T08:00:00-05:00" });
     const pageHold = ((await logged.json()) as { hold: { id: number } }).hold.id;
