@@ -1,7 +1,7 @@
 import { Form, Link, data, redirect } from "react-router";
 import { z } from "zod";
 import {
-  CUSTODY_PURPOSES, CUSTODY_PURPOSE_LABELS, FIND_CATEGORY_LABELS, FIND_STATUSES, FIND_STATUS_LABELS, instantToLocalDateTime, localDateTimeToInstant,
+  CUSTODY_PURPOSES, CUSTODY_PURPOSE_LABELS, FIND_CATEGORY_LABELS, handVolumeText, FIND_STATUSES, FIND_STATUS_LABELS, instantToLocalDateTime, localDateTimeToInstant,
 } from "../../shared/finds/finds";
 import { unitLabel } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
@@ -131,7 +131,9 @@ export default function FindPage({ loaderData, actionData }: Route.ComponentProp
         <dl className="grid grid-cols-[max-content_1fr] gap-x-6 gap-y-1 text-sm">
           <Fact label="Description">{find.description}</Fact>
           {find.material ? <Fact label="Material">{find.material}</Fact> : null}
-          <Fact label="Count"><span className="figures">{find.count}</span></Fact>
+          {find.count !== null ? <Fact label="Count"><span className="figures">{find.count}</span></Fact> : null}
+          {find.volume ? <Fact label="Volume"><span className="figures" data-testid="find-volume">{handVolumeText(find.volume)}</span></Fact> : null}
+          {find.fromBasket ? <Fact label="Logged as">a line of a basket load (debris removed by hand)</Fact> : null}
           {find.taxon || find.element ? <Fact label="Taxon, element">{[find.taxon, find.element].filter(Boolean).join(", ")}</Fact> : null}
           {find.condition ? <Fact label="Condition">{find.condition}</Fact> : null}
           <Fact label="Found"><span className="figures">{find.foundAtLocal}</span> ({loaderData.timeZone}){find.finder ? ` by ${find.finder}` : ""}</Fact>
