@@ -15,6 +15,8 @@ import { action as noticesAction, loader as noticesLoader } from "~/routes/api.p
 import { action as liftAction } from "~/routes/api.projects.$projectId.holds.$holdId.lift";
 import { action as newFindPage, loader as newFindLoader } from "~/routes/projects.$projectId.finds.new";
 import { action as basketPage } from "~/routes/projects.$projectId.finds.basket";
+import { action as findPage } from "~/routes/projects.$projectId.finds.$findId";
+import { listObjectKeys } from "~/lib/storage/storage.server";
 import { action as holdsPage } from "~/routes/projects.$projectId.holds";
 import { loader as findsListLoader } from "~/routes/api.projects.$projectId.finds";
 import { loader as dayLoader } from "~/routes/api.projects.$projectId.days.$date";
@@ -309,6 +311,56 @@ describe("a photo of the signed custody form", () => {
     expect(await FindPhoto.count({ where: { findId: find.id } })).toBe(photos);
     const other = (await Find.findOne({ where: { projectId }, order: [["id", "DESC"]] }))!;
     expect((await upload("resource-monitor", other.id, "#cccccc")).status).toBe(404);
+  });
+
+  it("is attached from the handover's own form on the find's page: a refused file stores nothing and is said on that form", async () => {
+    const find = (await Find.findOne({ where: { projectId, category: "historic-debris" }, order: [["id", "ASC"]] }))!;
+    const handed = await postJson(custodyAction as never, "resource-monitor", `${base()}/finds/${find.id}/custody`, { findId: String(find.id) }, { fromName: "Ana Reyes", toName: "Mo Quist", place: "State lab", purpose: "to-state-lab", handedAt: "2026-11-11T09:00:00-05:00", receiverSignature: "Mo Quist" });
+    const custodyId = ((await handed.json()) as { id: number }).id;
+    const path = `/projects/${projectId}/finds/${find.id}?custody=${custodyId}`;
+    const send = async (who: Role, file: Blob, name: string) => {
+      const form = new FormData();
+      form.set("file", file, name);
+      const request = await requestAs(users.get(who)!, path, { method: "POST", body: form, headers: { Origin: ORIGIN } });
+      try {
+        const answer = await findPage({ request, params: { projectId: String(projectId), findId: String(find.id) }, context: {} } as never);
+        const result = answer as { init?: { status?: number }; data?: unknown };
+        return { status: result.init?.status ?? 200, body: (result.data ?? answer) as { custodyId?: number | null; errors: Record<string, string>; notice: string | null } };
+      } catch (error) {
+        if (error instanceof Response) return { status: error.status, body: { errors: {}, notice: null } };
+        throw error;
+      }
+    };
+    const keys = () => listObjectKeys(`projects/${projectId}/finds/${find.id}/`);
+    const keysBefore = (await keys()).length;
+    const photosBefore = await FindPhoto.count({ where: { findId: find.id } });
+    // Not an image (a PDF named .jpg): refused on this handover's form, nothing in the store or the tables.
+    const notImage = await send("resource-monitor", new Blob([new TextEncoder().encode("%PDF-1.4 not a photo")], { type: "image/jpeg" }), "form.jpg");
+    expect(notImage.status).toBe(400);
+    expect(notImage.body.custodyId).toBe(custodyId);
+    expect(notImage.body.errors.formPhoto).toMatch(/\S/);
+    expect((await FindCustody.findByPk(custodyId))!.formPhotoId).toBeNull();
+    expect(await FindPhoto.count({ where: { findId: find.id } })).toBe(photosBefore);
+    expect((await keys()).length).toBe(keysBefore);
+    // No file chosen: said on the form.
+    const empty = await send("resource-monitor", new Blob([]), "");
+    expect(empty.status).toBe(400);
+    expect(empty.body.errors.formPhoto).toBe("Take or choose the photo of the signed form.");
+    // A viewer may not attach one (403).
+    const bytes = await sharp({ create: { width: 400, height: 300, channels: 3, background: "#f4f1e8" } }).jpeg().toBuffer();
+    expect((await send("viewer", new Blob([new Uint8Array(bytes)], { type: "image/jpeg" }), "signed.jpg")).status).toBe(403);
+    const kept = await send("resource-monitor", new Blob([new Uint8Array(bytes)], { type: "image/jpeg" }), "signed.jpg");
+    expect(kept.status).toBe(200);
+    expect(kept.body.notice).toBe("Photo of the signed form attached to the handover.");
+    const photoId = (await FindCustody.findByPk(custodyId))!.formPhotoId;
+    expect(photoId).not.toBeNull();
+    // The image and its thumbnail (keepPhoto's two objects).
+    expect((await keys()).length).toBe(keysBefore + 2);
+    // A second is refused on the form, naming the photo kept; nothing more is stored.
+    const again = await send("resource-monitor", new Blob([new Uint8Array(bytes)], { type: "image/jpeg" }), "signed-again.jpg");
+    expect(again.status).toBe(400);
+    expect(again.body.errors.formPhoto).toContain(`has its form's photo already (photo #${photoId})`);
+    expect((await keys()).length).toBe(keysBefore + 2);
   });
 });
 
