@@ -163,8 +163,8 @@ export default function LogBasket({ loaderData, actionData }: Route.ComponentPro
                 <fieldset>
                   <legend className="sr-only">Line {position + 1}: how many or how much</legend>
                   <div className="grid grid-cols-[minmax(0,1fr)_minmax(0,1fr)_6.5rem] items-start gap-3">
-                    <TextField label="Count" name={name("count")} type="number" inputMode="numeric" min={1} step={1} error={error("count")} />
-                    <TextField label="Volume" name={name("volume")} type="number" inputMode="decimal" min={0} step="any" error={error("volume")} />
+                    <TextField label="Count" name={name("count")} type="number" inputMode="numeric" min={1} step={1} aria-invalid={error("count") ? true : undefined} aria-describedby={error("count") ? `${name("count")}-error` : `${name("amount")}-hint`} />
+                    <TextField label="Volume" name={name("volume")} type="number" inputMode="decimal" min={0} step="any" aria-invalid={error("volume") ? true : undefined} aria-describedby={error("volume") ? `${name("volume")}-error` : `${name("amount")}-hint`} />
                     <div>
                       <label htmlFor={name("volumeUnit")} className="block text-sm font-medium">Unit</label>
                       <select id={name("volumeUnit")} name={name("volumeUnit")} className={inputClass} defaultValue={volumeUnits[0]}>
@@ -172,7 +172,10 @@ export default function LogBasket({ loaderData, actionData }: Route.ComponentPro
                       </select>
                     </div>
                   </div>
-                  <p className="mt-1 text-sm text-muted">The count, the volume, or both.</p>
+                  {/* Said below the row, full width: a narrow column would wrap a long refusal into many lines. */}
+                  {error("count") ? <p id={`${name("count")}-error`} className="mt-1 text-sm text-danger">{error("count")}</p> : null}
+                  {error("volume") ? <p id={`${name("volume")}-error`} className="mt-1 text-sm text-danger">{error("volume")}</p> : null}
+                  <p id={`${name("amount")}-hint`} className="mt-1 text-sm text-muted">The count, the volume, or both.</p>
                 </fieldset>
                 <TextField label="Material" name={name("material")} maxLength={120} error={error("material")} />
                 {line.category === "faunal" ? (
