@@ -69,3 +69,50 @@ export const DEMO_FINDS: DemoFind[] = [
     custody: [],
   },
 ];
+
+/**
+ * The demo's basket loads: what invented divers' baskets brought up on the demo dives (named by
+ * the dive's date and diver), a line per kind with its count, its volume as measured, or both.
+ * Invented numbers; times are the project's local time.
+ */
+export interface DemoBasket {
+  diveDate: string;
+  diver: string;
+  broughtUpAtLocal: string;
+  fieldTag: string;
+  depthBelowSurfaceFt: number;
+  lines: Array<{
+    category: "faunal" | "historic-debris" | "modern-debris";
+    description: string;
+    material?: string;
+    count?: number;
+    volume?: { value: number; unit: "gal" | "ft3" };
+    taxon?: string;
+    element?: string;
+  }>;
+}
+
+export const DEMO_BASKETS: DemoBasket[] = [
+  {
+    diveDate: "2026-11-10", diver: "Odessa Marchetti", broughtUpAtLocal: "2026-11-10T09:30", fieldTag: "WB-B-001", depthBelowSurfaceFt: 7.9,
+    lines: [
+      { category: "modern-debris", description: "Drink cans, crushed", material: "aluminium", count: 11, volume: { value: 1.5, unit: "gal" } },
+      { category: "modern-debris", description: "Fishing line, tangled in a ball", material: "nylon monofilament", volume: { value: 0.25, unit: "gal" } },
+      { category: "historic-debris", description: "Bottle glass fragments, aqua", material: "glass", count: 7 },
+    ],
+  },
+  {
+    diveDate: "2026-11-10", diver: "Juniper Adeyemi", broughtUpAtLocal: "2026-11-10T11:25", fieldTag: "WB-B-002", depthBelowSurfaceFt: 8.3,
+    lines: [
+      { category: "historic-debris", description: "Brick and mortar fragments", material: "fired clay", count: 5, volume: { value: 0.4, unit: "ft3" } },
+      { category: "faunal", description: "Snail shells, empty", count: 23, taxon: "apple snail", element: "shell" },
+    ],
+  },
+  {
+    diveDate: "2026-11-12", diver: "Florian Bexley", broughtUpAtLocal: "2026-11-12T11:40", fieldTag: "WB-B-003", depthBelowSurfaceFt: 8.1,
+    lines: [
+      { category: "modern-debris", description: "Rope scraps and a torn tarpaulin", material: "polypropylene", volume: { value: 3, unit: "gal" } },
+      { category: "modern-debris", description: "Lead sinkers", material: "lead", count: 4 },
+    ],
+  },
+];

@@ -92,3 +92,27 @@ describe("NIST mass, volume and density definitions for the dewatering records",
     expect(units.kilogramsPerCubicMetreTo(units.kilogramsPerCubicMetreFrom(15, "lb/ft3"), "lb/ft3")).toBeCloseTo(15, 12);
   });
 });
+
+describe("hand-measured volumes (debris in baskets)", () => {
+  it("a US gallon is 3.785411784 L and a cubic foot 28.316846592 L; a cubic metre 1000 L", () => {
+    // published: NIST SP 811 appendix B (both exact)
+    expect(units.litresFrom(1, "gal")).toBe(3.785411784);
+    expect(units.litresFrom(1, "ft3")).toBeCloseTo(28.316846592, 9);
+    expect(units.litresFrom(2.5, "m3")).toBe(2500);
+    expect(units.litresFrom(7, "L")).toBe(7);
+    // computed: a cubic foot is 1728 in³ and a gallon 231 in³, so 1 ft³ = 1728 / 231 gal = 7.480519… gal
+    expect(units.litresTo(units.litresFrom(1, "ft3"), "gal")).toBeCloseTo(1728 / 231, 9);
+  });
+  it("converts there and back in every unit (invariant)", () => {
+    for (const unit of units.HAND_VOLUME_UNITS) expect(units.litresTo(units.litresFrom(12.34, unit), unit)).toBeCloseTo(12.34, 9);
+  });
+  it("adds up in gallons on feet projects and litres on metre projects, offering the project's units first (practice)", () => {
+    expect(units.handVolumeUnitFor("us-ft")).toBe("gal");
+    expect(units.handVolumeUnitFor("ft")).toBe("gal");
+    expect(units.handVolumeUnitFor("m")).toBe("L");
+    expect(units.handVolumeUnitsFor("m").slice(0, 2)).toEqual(["L", "m3"]);
+    expect([...units.handVolumeUnitsFor("us-ft")].sort()).toEqual([...units.HAND_VOLUME_UNITS].sort());
+    expect(units.measureLabel("ft3")).toBe("ft³");
+    expect(units.measureLabel("gal")).toBe("gal");
+  });
+});

@@ -194,12 +194,50 @@ export function cubicMetresPerVolumeUnit(unit: LengthUnit): number {
   return unit === "m" ? 1 : (3 * METRES_PER_UNIT[unit]) ** 3;
 }
 
-const MASS_LABELS: Record<MassUnit | BulkMassUnit, string> = { lb: "lb", kg: "kg", "short-ton": "short tons", t: "t" };
-const RATE_LABELS: Record<FlowUnit | LiquidRateUnit | DensityUnit, string> = {
-  gpm: "gpm", "m3/h": "m³/h", "gal/h": "gal/h", "L/h": "L/h", "lb/ft3": "lb/ft³", "kg/m3": "kg/m³", "g/cm3": "g/cm³",
+/**
+ * Debris removed by hand (a diver's basket, a bucket on the barge) is measured in the vessel it
+ * fills: US gallons or cubic feet on feet projects, litres or cubic metres on metre projects. Any
+ * of the four is taken as entered and kept so; totals are added in litres and shown in the
+ * project's hand-volume unit (gallons or litres).
+ */
+export const HAND_VOLUME_UNITS = ["gal", "ft3", "L", "m3"] as const;
+export type HandVolumeUnit = (typeof HAND_VOLUME_UNITS)[number];
+export const handVolumeUnitSchema = z.enum(HAND_VOLUME_UNITS);
+
+/** Litres in one unit: a US gallon is 3.785411784 L and a cubic foot 0.3048³ m³ = 28.316846592 L, both exact (NIST SP 811). */
+const LITRES_PER_HAND_UNIT: Record<HandVolumeUnit, number> = {
+  gal: LITRES_PER_US_GALLON,
+  // A vessel's cubic foot is the international foot's: the 2 ppm of the survey foot is far below any basket's measure.
+  ft3: METRES_PER_FOOT ** 3 * 1000,
+  L: 1,
+  m3: 1000,
 };
 
-/** Labels for the dewatering units: `measureLabel("short-ton")` → "short tons", `measureLabel("m3/h")` → "m³/h". */
-export function measureLabel(unit: MassUnit | BulkMassUnit | FlowUnit | LiquidRateUnit | DensityUnit): string {
+export function litresFrom(volume: number, unit: HandVolumeUnit): number {
+  return volume * LITRES_PER_HAND_UNIT[unit];
+}
+
+export function litresTo(litres: number, unit: HandVolumeUnit): number {
+  return litres / LITRES_PER_HAND_UNIT[unit];
+}
+
+/** The unit a project's hand-measured volumes are added up in: US gallons on feet projects, litres on metre projects. */
+export function handVolumeUnitFor(unit: LengthUnit): "gal" | "L" {
+  return unit === "m" ? "L" : "gal";
+}
+
+/** The units a form offers for a hand-measured volume, the project's own first. */
+export function handVolumeUnitsFor(unit: LengthUnit): HandVolumeUnit[] {
+  return unit === "m" ? ["L", "m3", "gal", "ft3"] : ["gal", "ft3", "L", "m3"];
+}
+
+const MASS_LABELS: Record<MassUnit | BulkMassUnit, string> = { lb: "lb", kg: "kg", "short-ton": "short tons", t: "t" };
+const RATE_LABELS: Record<FlowUnit | LiquidRateUnit | DensityUnit | HandVolumeUnit, string> = {
+  gpm: "gpm", "m3/h": "m³/h", "gal/h": "gal/h", "L/h": "L/h", "lb/ft3": "lb/ft³", "kg/m3": "kg/m³", "g/cm3": "g/cm³",
+  gal: "gal", ft3: "ft³", L: "L", m3: "m³",
+};
+
+/** Labels for the dewatering and hand-volume units: `measureLabel("short-ton")` → "short tons", `measureLabel("m3/h")` → "m³/h", `measureLabel("ft3")` → "ft³". */
+export function measureLabel(unit: MassUnit | BulkMassUnit | FlowUnit | LiquidRateUnit | DensityUnit | HandVolumeUnit): string {
   return unit in MASS_LABELS ? MASS_LABELS[unit as MassUnit] : RATE_LABELS[unit as FlowUnit];
 }

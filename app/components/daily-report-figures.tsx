@@ -1,7 +1,7 @@
 import { Fragment } from "react";
 import type { CompiledDay } from "../../shared/daily-report/compile";
 import { Link } from "react-router";
-import { findsLine, formatNumber as fmt, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine } from "../../shared/daily-report/present";
+import { byHandLine, findsLine, formatNumber as fmt, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine } from "../../shared/daily-report/present";
 import { localClockOf } from "../../shared/local-time";
 import { unitLabel, type LengthUnit } from "../../shared/units";
 
@@ -91,6 +91,7 @@ export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupH
         {Object.keys(report.finds.byCategory).length === 0 ? <p className="text-sm text-muted">No finds.</p> : (
           <p className="text-sm">{findsLine(report.finds.byCategory)}</p>
         )}
+        {report.finds.byHand ? <p className="text-sm" data-testid="by-hand">{byHandLine(report.finds.byHand, lengthUnit)}</p> : null}
         {report.finds.catalogueNumbers.length > 0 ? <p className="figures text-xs">{report.finds.catalogueNumbers.join(", ")}</p> : null}
         {report.holds.placed.length > 0 ? <p className="text-sm">Holds placed: <span className="figures">{report.holds.placed.join(", ")}</span></p> : null}
         {report.holds.lifted.length > 0 ? <p className="text-sm">Holds lifted: <span className="figures">{report.holds.lifted.join(", ")}</span></p> : null}

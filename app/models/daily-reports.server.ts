@@ -84,8 +84,8 @@ export async function compileReport(project: ProjectView, date: string, entered:
     getWaterQualitySettings(project),
     StopWorkEvent.findAll({ where: { projectId: project.id, openedAt: { [Op.lt]: end }, [Op.or]: [{ resumedAt: null }, { resumedAt: { [Op.gt]: start } }] }, include: [{ model: MonitoringStation, as: "station" }] }),
     WildlifeStandDown.findAll({ where: { projectId: project.id, startedAt: { [Op.lt]: end }, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: start } }] } }),
-    // Category and catalogue number only: a daily report goes to funders and never carries a find's location.
-    Find.findAll({ where: { projectId: project.id, foundAt: { [Op.gte]: start, [Op.lt]: end } }, attributes: ["catalogueNumber", "category"] }),
+    // Category, catalogue number and a basket line's count and volume only: a daily report goes to funders and never carries a find's location.
+    Find.findAll({ where: { projectId: project.id, foundAt: { [Op.gte]: start, [Op.lt]: end } }, attributes: ["catalogueNumber", "category", "count", "volumeValue", "volumeUnit", "fromBasket"] }),
     Hold.findAll({
       where: { projectId: project.id, [Op.or]: [{ placedAt: { [Op.gte]: start, [Op.lt]: end } }, { liftedAt: { [Op.gte]: start, [Op.lt]: end } }] },
       include: [{ model: Find, as: "find", attributes: ["catalogueNumber"] }],
@@ -123,7 +123,10 @@ export async function compileReport(project: ProjectView, date: string, entered:
     readings: readings.map((reading) => ({ station: reading.station?.name ?? "", stationKind: reading.station?.kind ?? "other", takenAtMs: reading.takenAt.getTime(), value: reading.value, unit: reading.unit, exceeds: reading.exceeds })),
     sampling: samplingRoutineOf(settings),
     interruptions,
-    finds: finds.map((find) => ({ catalogueNumber: find.catalogueNumber, category: find.category })),
+    finds: finds.map((find) => ({
+      catalogueNumber: find.catalogueNumber, category: find.category,
+      basket: find.fromBasket ? { count: find.count, volume: find.volumeValue !== null && find.volumeUnit !== null ? { value: find.volumeValue, unit: find.volumeUnit } : null } : null,
+    })),
     holds: holds.map((hold) => ({ catalogueNumber: hold.find?.catalogueNumber ?? "", placedAtMs: hold.placedAt.getTime(), liftedAtMs: hold.liftedAt?.getTime() ?? null })),
     entered,
     survey,

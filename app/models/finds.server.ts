@@ -6,7 +6,7 @@ import {
   HOLD_CATEGORIES, instantToLocalDateTime, localYear, sortCellLabels,
   type CustodyPurpose, type FindCategory, type FindStatus,
 } from "../../shared/finds/finds";
-import { convertLength, unitLabel } from "../../shared/units";
+import { convertLength, measureLabel, unitLabel, type HandVolumeUnit } from "../../shared/units";
 import { createCrs } from "../../shared/crs";
 import type { LonLatWorkLimit } from "~/components/map/clip-cells";
 import type { PositionFields } from "~/components/finds/provenience";
@@ -56,7 +56,12 @@ export interface FindSummary {
   catalogueNumber: string;
   category: FindCategory;
   description: string;
-  count: number;
+  /** How many; null for a basket line measured by volume alone. */
+  count: number | null;
+  /** A basket line's volume, as entered; null when none was given. */
+  volume: HandVolume | null;
+  /** A line of a basket load (debris removed by hand), not a find logged on its own. */
+  fromBasket: boolean;
   status: FindStatus;
   foundAt: string;
   currentHolder: { name: string; place: string };
@@ -118,6 +123,15 @@ function locationOf(find: Find): FindLocation {
   };
 }
 
+export interface HandVolume {
+  value: number;
+  unit: HandVolumeUnit;
+}
+
+function volumeOf(find: Find): HandVolume | null {
+  return find.volumeValue !== null && find.volumeUnit !== null ? { value: find.volumeValue, unit: find.volumeUnit } : null;
+}
+
 function summaryOf(find: Find, custody: FindCustody[]): FindSummary {
   return {
     id: find.id,
@@ -125,6 +139,8 @@ function summaryOf(find: Find, custody: FindCustody[]): FindSummary {
     category: find.category,
     description: find.description,
     count: find.count,
+    volume: volumeOf(find),
+    fromBasket: find.fromBasket,
     status: find.status,
     foundAt: find.foundAt.toISOString(),
     currentHolder: currentHolder(find, custody),
@@ -261,7 +277,7 @@ async function allocateCatalogueNumber(projectRow: Project, year: number, transa
 
 /** What a catalogue entry holds, its provenience already checked (provenienceOf). */
 interface FindFields {
-  category: FindCategory; description: string; material?: string | null; count: number; taxon?: string | null; element?: string | null; condition?: string | null;
+  category: FindCategory; description: string; material?: string | null; count: number | null; volume?: HandVolume | null; fromBasket?: boolean; taxon?: string | null; element?: string | null; condition?: string | null;
   cell: { row: number; col: number } | null; position?: { x: number; y: number } | null; depthBelowSurface?: number | null; depthInMuck?: number | null;
   diveId: number | null; teamId: number | null; finder?: string | null; foundAt: Date; fieldTag?: string | null; idempotencyKey?: string | null;
 }
@@ -275,6 +291,7 @@ async function insertFind(projectRow: Project, user: UserView, fields: FindField
     {
       projectId: projectRow.id, catalogueNumber: number, catalogueYear: year, catalogueSequence: sequence,
       category: fields.category, description: fields.description, material: fields.material ?? "", count: fields.count,
+      volumeValue: fields.volume?.value ?? null, volumeUnit: fields.volume?.unit ?? null, fromBasket: fields.fromBasket ?? false,
       taxon: fields.taxon ?? null, element: fields.element ?? null, condition: fields.condition ?? "",
       cellRow: cell?.row ?? null, cellCol: cell?.col ?? null, cellLabel: cell ? cellLabelOf(cell.row, cell.col) : null,
       positionX: fields.position?.x ?? null, positionY: fields.position?.y ?? null,
@@ -399,7 +416,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
 
 export interface BasketLogged {
   /** One catalogue entry per line, in the order of the lines. */
-  finds: Array<{ id: number; catalogueNumber: string; category: FindCategory; count: number }>;
+  finds: Array<{ id: number; catalogueNumber: string; category: FindCategory; count: number | null; volume: HandVolume | null }>;
   replayed: boolean;
 }
 
@@ -409,15 +426,16 @@ async function basketReplayOf(projectId: number, key: string | null | undefined)
   if (!key) return null;
   const first = await Find.findOne({ where: { projectId, idempotencyKey: basketKey(key, 0) }, attributes: ["id"] });
   if (!first) return null;
-  const rows = await Find.findAll({ where: { projectId, idempotencyKey: { [Op.startsWith]: `${key}:` } }, attributes: ["id", "catalogueNumber", "category", "count", "idempotencyKey"] });
+  const rows = await Find.findAll({ where: { projectId, idempotencyKey: { [Op.startsWith]: `${key}:` } }, attributes: ["id", "catalogueNumber", "category", "count", "volumeValue", "volumeUnit", "idempotencyKey"] });
   // LIKE treats _ and % in a key as wildcards: keep only this key's lines.
   const line = (find: Find) => (find.idempotencyKey!.startsWith(`${key}:`) && /^\d+$/.test(find.idempotencyKey!.slice(key.length + 1)) ? Number(find.idempotencyKey!.slice(key.length + 1)) : -1);
   const lines = rows.filter((find) => line(find) >= 0).sort((a, b) => line(a) - line(b));
-  return { finds: lines.map((find) => ({ id: find.id, catalogueNumber: find.catalogueNumber, category: find.category, count: find.count })), replayed: true };
+  return { finds: lines.map((find) => ({ id: find.id, catalogueNumber: find.catalogueNumber, category: find.category, count: find.count, volume: volumeOf(find) })), replayed: true };
 }
 
 /**
- * Logs a basket load: what a diver's basket brought up, a line per kind with its count, sharing one
+ * Logs a basket load: what a diver's basket brought up, a line per kind with its count, its volume
+ * (as measured: gallons, cubic feet, litres, cubic metres) or both, sharing one
  * provenience (dive, team, cell, position, depths, time, finder, tag). Each line is a catalogue
  * entry of its own (numbers handed out in order, never reused), all in one transaction: a refused
  * line stores nothing. Cultural finds and human remains are refused here: each is logged on its own.
@@ -436,11 +454,11 @@ export async function logBasketLoad(project: ProjectView, user: UserView, raw: z
       for (const [index, line] of raw.lines.entries()) {
         const { find, number } = await insertFind(
           projectRow, user,
-          { ...line, condition: raw.condition, cell, position: raw.position, depthBelowSurface: raw.depthBelowSurface, depthInMuck: raw.depthInMuck, diveId: dive?.id ?? null, teamId, finder: raw.finder, foundAt, fieldTag: raw.fieldTag, idempotencyKey: raw.idempotencyKey ? basketKey(raw.idempotencyKey, index) : null },
+          { ...line, count: line.count ?? null, volume: line.volume ?? null, fromBasket: true, condition: raw.condition, cell, position: raw.position, depthBelowSurface: raw.depthBelowSurface, depthInMuck: raw.depthInMuck, diveId: dive?.id ?? null, teamId, finder: raw.finder, foundAt, fieldTag: raw.fieldTag, idempotencyKey: raw.idempotencyKey ? basketKey(raw.idempotencyKey, index) : null },
           transaction,
         );
         if (index === 0) await idempotency.created(find.id);
-        finds.push({ id: find.id, catalogueNumber: number, category: find.category, count: find.count });
+        finds.push({ id: find.id, catalogueNumber: number, category: find.category, count: find.count, volume: volumeOf(find) });
         await recordAudit({ action: AUDIT_ACTIONS.findLogged, projectId: project.id, userId: user.id, ip, detail: { findId: find.id, catalogueNumber: number, category: find.category, basketLine: index + 1, basketLines: raw.lines.length } }, transaction);
       }
       return { finds, replayed: false };
@@ -653,13 +671,13 @@ export async function findsCatalogueCsv(project: ProjectView, access: Access, us
     csvLine(["Generated", new Date().toISOString()]),
     "\r\n",
     csvLine([
-      "catalogue number", "category", "description", "material", "count", "taxon", "element", "condition", "cell", "position x", "position y",
+      "catalogue number", "category", "description", "material", "count", "volume", "volume unit", "basket line", "taxon", "element", "condition", "cell", "position x", "position y",
       `depth below surface (${length})`, `depth in muck (${length})`, "found at", "finder", "field tag", "status", "accession number", "held by", "place",
     ]),
     ...finds.map((find) => {
       const more = byId.get(find.id);
       return csvLine([
-        find.catalogueNumber, FIND_CATEGORY_LABELS[find.category], find.description, more?.material ?? "", find.count, more?.taxon ?? null, more?.element ?? null, more?.condition ?? "",
+        find.catalogueNumber, FIND_CATEGORY_LABELS[find.category], find.description, more?.material ?? "", find.count, find.volume?.value ?? null, find.volume ? measureLabel(find.volume.unit) : null, find.fromBasket ? "yes" : "no", more?.taxon ?? null, more?.element ?? null, more?.condition ?? "",
         find.cell ?? null, find.position?.x ?? null, find.position?.y ?? null, find.depthBelowSurface ?? null, find.depthInMuck ?? null,
         instantToLocalDateTime(new Date(find.foundAt), project.timeZone), more?.finder ?? "", more?.fieldTag ?? "", FIND_STATUS_LABELS[find.status],
         more?.accessionNumber ?? null, find.currentHolder.name, find.currentHolder.place,

@@ -92,10 +92,16 @@ export async function liftHold(project: ProjectView, user: UserView, holdId: num
     const recordedAt = new Date();
     const liftedAt = input.liftedAt ? new Date(input.liftedAt) : recordedAt;
     const local = (instant: Date) => `${instantToLocalDateTime(instant, project.timeZone)} (${project.timeZone})`;
-    // An entered time is checked against the hold; a lift "now" is always allowed (work may resume once authorised).
-    if (input.liftedAt && liftedAt.getTime() < hold.placedAt.getTime()) throw new ValidationError({ field: "liftedAt", message: `The lift cannot come before the hold was placed, at ${local(hold.placedAt)}.` });
     if (liftedAt.getTime() > recordedAt.getTime() + CLOCK_SLACK_MS) throw new ValidationError({ field: "liftedAt", message: `The lift cannot be in the future (it is now ${local(recordedAt)}).` });
     const at = liftedAt.getTime() > recordedAt.getTime() ? recordedAt : liftedAt;
+    // One rule for the time stored, entered or "now": a hold is never lifted before it was placed
+    // (a find logged from a phone whose clock runs ahead places its hold in the server's future).
+    if (at.getTime() < hold.placedAt.getTime()) {
+      const message = input.liftedAt
+        ? `The lift cannot come before the hold was placed, at ${local(hold.placedAt)}.`
+        : `The lift cannot come before the hold was placed, at ${local(hold.placedAt)}, and it is only ${local(recordedAt)} now: check the time the find came up, or lift once that time has passed.`;
+      throw new ValidationError({ field: "liftedAt", message });
+    }
     await hold.update({ liftedAt: at, liftedById: user.id, authorisedBy: input.authorisedBy, liftNote: input.note }, { transaction });
     await idempotency.created(hold.id);
     await recordAudit({ action: AUDIT_ACTIONS.holdLifted, projectId: project.id, userId: user.id, ip, detail: { holdId: hold.id, authorisedBy: input.authorisedBy, liftedAt: at.toISOString(), recordedAt: recordedAt.toISOString() } }, transaction);

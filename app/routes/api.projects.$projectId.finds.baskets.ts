@@ -7,9 +7,10 @@ import { basketLoadInputSchema, logBasketLoad } from "~/models/finds.server";
 import type { Route } from "./+types/api.projects.$projectId.finds.baskets";
 
 const route = apiRoute<Route.LoaderArgs>({
-  // POST JSON {lines: [{category, description, count, material?, taxon?, element?}], cell?, position?: {x, y}, depthBelowSurface?,
-  // depthInMuck?, foundAt, diveId?, teamId?, finder?, fieldTag?, condition?} → 201 {finds: [{id, catalogueNumber, category, count}]},
-  // a catalogue entry per line, in one transaction; the same Idempotency-Key again → 200 with the first answer.
+  // POST JSON {lines: [{category, description, count?, volume?: {value, unit: gal|ft3|L|m3}, material?, taxon?, element?}] (each line a
+  // count, a volume or both), cell?, position?: {x, y}, depthBelowSurface?, depthInMuck?, foundAt, diveId?, teamId?, finder?, fieldTag?,
+  // condition?} → 201 {finds: [{id, catalogueNumber, category, count, volume}]} (count or volume null when not given), a catalogue
+  // entry per line, in one transaction; the same Idempotency-Key again → 200 with the first answer.
   async POST({ request, params }) {
     const access = await requireApiAccess(request, params.projectId, "finds.log");
     const input = await readApiBody(request, basketLoadInputSchema, { formats: ["json"] });

@@ -1,4 +1,4 @@
-import { CUSTODY_PURPOSE_LABELS, FIND_CATEGORY_LABELS, FIND_STATUS_LABELS, instantToLocalDateTime } from "../../shared/finds/finds";
+import { amountText, CUSTODY_PURPOSE_LABELS, FIND_CATEGORY_LABELS, FIND_STATUS_LABELS, instantToLocalDateTime } from "../../shared/finds/finds";
 import { unitLabel } from "../../shared/units";
 import { requireRole } from "~/lib/auth/access.server";
 import { can } from "~/lib/auth/permissions";
@@ -58,7 +58,7 @@ export default function CustodySheet({ loaderData }: Route.ComponentProps) {
         <dt className="text-muted">Project</dt><dd>{project.name}</dd>
         <dt className="text-muted">Catalogue no.</dt><dd className="figures" data-testid="sheet-catalogue">{find.catalogueNumber}</dd>
         <dt className="text-muted">Category</dt><dd>{FIND_CATEGORY_LABELS[find.category]}</dd>
-        <dt className="text-muted">Description</dt><dd>{find.description}{find.count > 1 ? ` (×${find.count})` : ""}</dd>
+        <dt className="text-muted">Description</dt><dd>{find.description}{find.count !== 1 || find.volume ? <span className="figures"> ({amountText(find)})</span> : null}</dd>
         {find.fieldTag ? <><dt className="text-muted">Field tag</dt><dd className="figures">{find.fieldTag}</dd></> : null}
         <dt className="text-muted">Found</dt><dd><span className="figures">{find.foundAtLocal}</span> ({project.timeZone}){find.finder ? ` by ${find.finder}` : ""}</dd>
         {seesLocations ? (

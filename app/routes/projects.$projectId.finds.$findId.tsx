@@ -1,7 +1,7 @@
 import { Form, Link, data, redirect } from "react-router";
 import { z } from "zod";
 import {
-  CUSTODY_PURPOSES, CUSTODY_PURPOSE_LABELS, FIND_CATEGORY_LABELS, FIND_STATUSES, FIND_STATUS_LABELS, instantToLocalDateTime, localDateTimeToInstant,
+  CUSTODY_PURPOSES, CUSTODY_PURPOSE_LABELS, FIND_CATEGORY_LABELS, handVolumeText, FIND_STATUSES, FIND_STATUS_LABELS, instantToLocalDateTime, localDateTimeToInstant,
 } from "../../shared/finds/finds";
 import { unitLabel } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
@@ -16,13 +16,14 @@ import { urlIdSchema } from "~/lib/http/url-id";
 import { PHOTO_MAX_BYTES } from "~/lib/images/photo.server";
 import { discardStagedFile, UploadRefused } from "~/lib/import/stage-upload.server";
 import { stagePhotoUpload } from "~/lib/images/stored-photo.server";
-import { addFindPhoto, custodyInputSchema, getFind, recordCustody, setFindStatus, statusInputSchema } from "~/models/finds.server";
+import { addCustodyFormPhoto, addFindPhoto, custodyInputSchema, getFind, recordCustody, setFindStatus, statusInputSchema } from "~/models/finds.server";
 import type { Route } from "./+types/projects.$projectId.finds.$findId";
 import { readPageForm } from "~/lib/http/body.server";
 
 // One find: what it is, who holds it and where (always at the top), its photos, the custody
 // chain and status; cell, depths and the photos' camera data only for roles that may see locations.
-// The monitor and the manager add photos, handovers and status changes here.
+// The monitor and the manager add photos, handovers (each with a photo of its signed paper form)
+// and status changes here.
 
 function findIdOf(value: string | undefined): number {
   const parsed = urlIdSchema.safeParse(value);
@@ -57,11 +58,42 @@ const formSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("status"), status: z.string(), accessionNumber: z.string().optional(), note: z.string().optional() }),
 ]);
 
+/**
+ * The photo of a handover's signed paper form, from its own form on the handover (the handover
+ * named in the address, `?custody=<id>`, so a refusal before the body is read still lands on its
+ * form). Kept through the one photo path; a refused photo stores nothing.
+ */
+async function attachFormPhoto(request: Request, project: Parameters<typeof addCustodyFormPhoto>[0], user: Parameters<typeof addCustodyFormPhoto>[1], findId: number, custodyParam: string, ip: string | null) {
+  const custodyId = urlIdSchema.safeParse(custodyParam);
+  const refused = (message: string) => data({ intent: "form-photo", custodyId: custodyId.success ? custodyId.data : null, errors: { formPhoto: message }, notice: null }, { status: 400 });
+  if (!custodyId.success) return refused("Choose the handover the signed form belongs to.");
+  let staged;
+  try {
+    staged = await stagePhotoUpload(request);
+  } catch (error) {
+    if (error instanceof UploadRefused) return data({ intent: "form-photo", custodyId: custodyId.data, errors: { formPhoto: error.message }, notice: null }, { status: error.status });
+    throw error;
+  }
+  try {
+    if (!staged.file) return refused(staged.emptyFileName ? `"${staged.emptyFileName}" is an empty file; take or choose the photo again.` : "Take or choose the photo of the signed form.");
+    await addCustodyFormPhoto(project, user, findId, custodyId.data, staged.file, ip);
+    return { intent: "form-photo", custodyId: custodyId.data, errors: {}, notice: "Photo of the signed form attached to the handover." };
+  } catch (error) {
+    if (error instanceof NotFoundError) return refused(error.message);
+    if (error instanceof DomainError) return data({ intent: "form-photo", custodyId: custodyId.data, errors: { formPhoto: error.details.map((detail) => detail.message).join(" ") }, notice: null }, { status: 400 });
+    throw error;
+  } finally {
+    if (staged.file) await discardStagedFile(staged.file.path);
+  }
+}
+
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "finds.log");
   const findId = findIdOf(params.findId);
   const ip = clientAddress(request);
   const refused = (errors: Record<string, string>, intent: string) => data({ intent, errors, notice: null }, { status: 400 });
+  const custodyParam = new URL(request.url).searchParams.get("custody");
+  if (custodyParam !== null) return attachFormPhoto(request, project, user, findId, custodyParam, ip);
   try {
     if ((request.headers.get("Content-Type") ?? "").startsWith("multipart/form-data")) {
       let staged;
@@ -118,6 +150,8 @@ function Fact({ label, children }: { label: string; children: React.ReactNode })
 export default function FindPage({ loaderData, actionData }: Route.ComponentProps) {
   const { find, projectId, seesLocations, lengthLabel } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
+  // The handover whose signed-form photo was just sent (its error is said on its own form).
+  const formPhotoFor = actionData && "custodyId" in actionData ? actionData.custodyId : null;
   const photoUrl = (photoId: number, thumb = false) => `/api/projects/${projectId}/finds/${find.id}/photos/${photoId}${thumb ? "?size=thumb" : ""}`;
   return (
     <div className="space-y-8">
@@ -131,7 +165,9 @@ export default function FindPage({ loaderData, actionData }: Route.ComponentProp
         <dl className="grid grid-cols-[max-content_1fr] gap-x-6 gap-y-1 text-sm">
           <Fact label="Description">{find.description}</Fact>
           {find.material ? <Fact label="Material">{find.material}</Fact> : null}
-          <Fact label="Count"><span className="figures">{find.count}</span></Fact>
+          {find.count !== null ? <Fact label="Count"><span className="figures">{find.count}</span></Fact> : null}
+          {find.volume ? <Fact label="Volume"><span className="figures" data-testid="find-volume">{handVolumeText(find.volume)}</span></Fact> : null}
+          {find.fromBasket ? <Fact label="Logged as">a line of a basket load (debris removed by hand)</Fact> : null}
           {find.taxon || find.element ? <Fact label="Taxon, element">{[find.taxon, find.element].filter(Boolean).join(", ")}</Fact> : null}
           {find.condition ? <Fact label="Condition">{find.condition}</Fact> : null}
           <Fact label="Found"><span className="figures">{find.foundAtLocal}</span> ({loaderData.timeZone}){find.finder ? ` by ${find.finder}` : ""}</Fact>
@@ -201,6 +237,42 @@ export default function FindPage({ loaderData, actionData }: Route.ComponentProp
             </table>
           </div>
         )}
+        {find.custody.length > 0 ? (
+          <div className="space-y-2">
+            <h4 className="font-medium">Signed paper forms</h4>
+            <ul className="space-y-2">
+              {find.custody.map((entry) => {
+                const formError = formPhotoFor === entry.id ? errors.formPhoto : undefined;
+                const inputId = `form-photo-${entry.id}`;
+                return (
+                  <li key={entry.id} className="max-w-xl rounded border border-line bg-panel p-3 text-sm" data-testid="custody-form-photo">
+                    <p>
+                      Handover of <span className="figures whitespace-nowrap">{entry.handedAtLocal}</span> to {entry.toName}
+                      {entry.formPhotoId ? ": signed form attached." : ": no photo of the signed form yet."}
+                    </p>
+                    {entry.formPhotoId ? (
+                      <a href={photoUrl(entry.formPhotoId)} className="mt-2 inline-block">
+                        <img src={photoUrl(entry.formPhotoId, true)} alt={`Signed custody form, handover to ${entry.toName}`} className="h-24 w-32 rounded border border-line object-cover" loading="lazy" />
+                      </a>
+                    ) : loaderData.canLog ? (
+                      <Form method="post" action={`?custody=${entry.id}`} encType="multipart/form-data" className="mt-2 space-y-2" aria-label={`Attach the signed form of the handover to ${entry.toName}`}>
+                        <label htmlFor={inputId} className="block font-medium">Attach signed form photo</label>
+                        <input
+                          id={inputId} name="file" type="file" accept="image/jpeg,image/png,image/webp" required
+                          aria-invalid={formError ? true : undefined} aria-describedby={`${inputId}-hint${formError ? ` ${inputId}-error` : ""}`}
+                          className="block w-full text-sm file:mr-3 file:rounded file:border file:border-line file:bg-paper file:px-3 file:py-2"
+                        />
+                        <p id={`${inputId}-hint`} className="text-xs text-muted">The whole page, flat and readable, with the receiver's signature. JPEG, PNG or WebP, at most {loaderData.photoMaxMegabytes} MB; one per handover.</p>
+                        {formError ? <p id={`${inputId}-error`} className="text-danger" role="alert">{formError}</p> : null}
+                        <SubmitButton tone="plain" pendingLabel="Uploading…" className="w-full sm:w-auto">Attach photo</SubmitButton>
+                      </Form>
+                    ) : null}
+                  </li>
+                );
+              })}
+            </ul>
+          </div>
+        ) : null}
         {loaderData.canLog ? (
           <Form method="post" className="max-w-xl space-y-3 rounded border border-line bg-panel p-3">
             <h4 className="font-medium">Record a handover</h4>

@@ -1,6 +1,7 @@
 import { useState } from "react";
 import { Form, Link, data } from "react-router";
-import { FIND_CATEGORY_LABELS, type FindCategory } from "../../shared/finds/finds";
+import { amountText, basketTotals, FIND_CATEGORY_LABELS, handVolumeText, type FindCategory } from "../../shared/finds/finds";
+import { handVolumeUnitsFor, measureLabel } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
@@ -15,8 +16,8 @@ import { BASKET_CATEGORIES } from "~/lib/field-records/inputs";
 import { basketLoadInputSchema, findFormOptions, logBasketLoad, positionFromFields, type BasketLogged } from "~/models/finds.server";
 import type { Route } from "./+types/projects.$projectId.finds.basket";
 
-// Log a basket load: what one basket brought up on a dive, a line per kind with its count, all with
-// the same provenience. Each line becomes a catalogue entry; a cultural object or human remains is
+// Log a basket load: what one basket brought up on a dive, a line per kind with its count, its
+// volume as measured (gallons, cubic feet, litres, cubic metres) or both, all with the same provenience. Each line becomes a catalogue entry; a cultural object or human remains is
 // logged on its own (it places a stop-work hold and needs its own photos and custody).
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -34,9 +35,11 @@ function inputFromForm(form: FormData, timeZone: string) {
   for (let index = 0; index < MAX_LINES + 1; index++) {
     const field = (name: string) => `lines.${index}.${name}`;
     if (!form.has(field("category"))) continue;
-    if (!text(field("description")) && !text(field("count")) && !text(field("material"))) continue;
+    if (!text(field("description")) && !text(field("count")) && !text(field("volume")) && !text(field("material"))) continue;
+    // A volume is its figure in the unit chosen beside it; the unit alone (always sent) is no volume.
+    const volume = text(field("volume")) === undefined ? undefined : { value: number(field("volume")), unit: text(field("volumeUnit")) };
     lines.push({
-      category: text(field("category")), description: text(field("description")), count: number(field("count")),
+      category: text(field("category")), description: text(field("description")), count: number(field("count")), volume,
       material: text(field("material")), taxon: text(field("taxon")), element: text(field("element")),
       /** The line's number on the form, for its errors. */
       formIndex: index,
@@ -92,19 +95,23 @@ export default function LogBasket({ loaderData, actionData }: Route.ComponentPro
   const [lines, setLines] = useState<Array<{ id: number; category: FindCategory }>>([{ id: 0, category: "modern-debris" }]);
   const [idempotencyKey] = useState(() => (typeof crypto !== "undefined" && "randomUUID" in crypto ? crypto.randomUUID() : ""));
   const nextId = () => Math.max(-1, ...lines.map((line) => line.id)) + 1;
+  const volumeUnits = handVolumeUnitsFor(loaderData.lengthUnit);
 
   if (logged) {
-    const total = logged.reduce((sum, find) => sum + find.count, 0);
+    const totals = basketTotals(logged, loaderData.lengthUnit);
     return (
       <div className="max-w-xl space-y-4" data-testid="basket-logged">
         <h2 className="text-lg font-semibold">Basket load logged</h2>
-        <p className="text-sm">
-          <span className="figures">{total}</span> item{total === 1 ? "" : "s"} in <span className="figures">{logged.length}</span> catalogue entr{logged.length === 1 ? "y" : "ies"}:
+        <p className="text-sm" data-testid="basket-totals">
+          {totals.items > 0 ? <><span className="figures">{totals.items}</span> item{totals.items === 1 ? "" : "s"} counted</> : null}
+          {totals.items > 0 && totals.volume ? " and " : null}
+          {totals.volume ? <><span className="figures">{handVolumeText(totals.volume)}</span> by volume</> : null}
+          {" "}in <span className="figures">{logged.length}</span> catalogue entr{logged.length === 1 ? "y" : "ies"}:
         </p>
         <ul className="space-y-1 text-sm">
           {logged.map((find) => (
             <li key={find.id}>
-              <Link to={`/projects/${projectId}/finds/${find.id}`} className="figures underline">{find.catalogueNumber}</Link> · {FIND_CATEGORY_LABELS[find.category]} · <span className="figures">{find.count}</span>
+              <Link to={`/projects/${projectId}/finds/${find.id}`} className="figures underline">{find.catalogueNumber}</Link> · {FIND_CATEGORY_LABELS[find.category]} · <span className="figures">{amountText(find)}</span>
             </li>
           ))}
         </ul>
@@ -120,7 +127,8 @@ export default function LogBasket({ loaderData, actionData }: Route.ComponentPro
     <div className="max-w-xl space-y-4">
       <h2 className="text-lg font-semibold">Log a basket load</h2>
       <p className="text-sm text-muted">
-        What one basket brought up: a line per kind, with how many. Every line is catalogued with the same dive, cell and time. A cultural object or human
+        What one basket brought up: a line per kind, with how many, the volume it filled, or both (loose debris is easier to measure in a bucket than to count).
+        Every line is catalogued with the same dive, cell and time. A cultural object or human
         remains is not counted here: <Link to={`/projects/${projectId}/finds/new`} className="text-lagoon underline">log it on its own</Link>; it stops work around it.
       </p>
       <ActionMessages error={errors.form ?? errors.lines} />
@@ -151,10 +159,24 @@ export default function LogBasket({ loaderData, actionData }: Route.ComponentPro
                   ) : null}
                 </div>
                 {error("category") ? <p className="text-sm text-danger">{error("category")}</p> : null}
-                <div className="grid grid-cols-[1fr_6rem] gap-3">
-                  <TextField label="What it is" name={name("description")} required maxLength={4000} placeholder="glass bottles" error={error("description")} />
-                  <TextField label="Count" name={name("count")} type="number" inputMode="numeric" min={1} required error={error("count")} />
-                </div>
+                <TextField label="What it is" name={name("description")} required maxLength={4000} placeholder="glass bottles" error={error("description")} />
+                <fieldset>
+                  <legend className="sr-only">Line {position + 1}: how many or how much</legend>
+                  <div className="grid grid-cols-[minmax(0,1fr)_minmax(0,1fr)_6.5rem] items-start gap-3">
+                    <TextField label="Count" name={name("count")} type="number" inputMode="numeric" min={1} step={1} aria-invalid={error("count") ? true : undefined} aria-describedby={error("count") ? `${name("count")}-error` : `${name("amount")}-hint`} />
+                    <TextField label="Volume" name={name("volume")} type="number" inputMode="decimal" min={0} step="any" aria-invalid={error("volume") ? true : undefined} aria-describedby={error("volume") ? `${name("volume")}-error` : `${name("amount")}-hint`} />
+                    <div>
+                      <label htmlFor={name("volumeUnit")} className="block text-sm font-medium">Unit</label>
+                      <select id={name("volumeUnit")} name={name("volumeUnit")} className={inputClass} defaultValue={volumeUnits[0]}>
+                        {volumeUnits.map((unit) => <option key={unit} value={unit}>{measureLabel(unit)}</option>)}
+                      </select>
+                    </div>
+                  </div>
+                  {/* Said below the row, full width: a narrow column would wrap a long refusal into many lines. */}
+                  {error("count") ? <p id={`${name("count")}-error`} className="mt-1 text-sm text-danger">{error("count")}</p> : null}
+                  {error("volume") ? <p id={`${name("volume")}-error`} className="mt-1 text-sm text-danger">{error("volume")}</p> : null}
+                  <p id={`${name("amount")}-hint`} className="mt-1 text-sm text-muted">The count, the volume, or both.</p>
+                </fieldset>
                 <TextField label="Material" name={name("material")} maxLength={120} error={error("material")} />
                 {line.category === "faunal" ? (
                   <div className="grid grid-cols-2 gap-3">

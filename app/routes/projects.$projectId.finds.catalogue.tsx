@@ -1,4 +1,4 @@
-import { FIND_CATEGORY_LABELS, FIND_STATUS_LABELS, instantToLocalDateTime } from "../../shared/finds/finds";
+import { amountText, FIND_CATEGORY_LABELS, FIND_STATUS_LABELS, instantToLocalDateTime } from "../../shared/finds/finds";
 import { unitLabel } from "../../shared/units";
 import { requireRole } from "~/lib/auth/access.server";
 import { clientAddress } from "~/lib/http/client-address.server";
@@ -48,7 +48,7 @@ export default function FindsCatalogueSheet({ loaderData }: Route.ComponentProps
         <table className="w-full border-collapse text-xs" aria-label="Finds catalogue">
           <thead>
             <tr>
-              {["Catalogue no.", "Category", "Description", "Count", "Found", "Cell", `Depth below surface (${project.lengthLabel})`, `Depth in muck (${project.lengthLabel})`, "Status", "Held by"].map((heading) => (
+              {["Catalogue no.", "Category", "Description", "Count / volume", "Found", "Cell", `Depth below surface (${project.lengthLabel})`, `Depth in muck (${project.lengthLabel})`, "Status", "Held by"].map((heading) => (
                 <th key={heading} className={`${cell} text-left`}>{heading}</th>
               ))}
             </tr>
@@ -58,8 +58,8 @@ export default function FindsCatalogueSheet({ loaderData }: Route.ComponentProps
               <tr key={find.id} data-testid="catalogue-row">
                 <td className={`${cell} figures`}>{find.catalogueNumber}</td>
                 <td className={cell}>{FIND_CATEGORY_LABELS[find.category]}</td>
-                <td className={cell}>{find.description}</td>
-                <td className={`${cell} figures text-right`}>{find.count}</td>
+                <td className={cell}>{find.description}{find.fromBasket ? " (basket load)" : ""}</td>
+                <td className={`${cell} figures text-right whitespace-nowrap`}>{amountText(find)}</td>
                 <td className={`${cell} figures`}>{find.foundAtLocal}</td>
                 <td className={`${cell} figures`}>{find.cell ?? "–"}{find.position ? ` (${find.position.x}, ${find.position.y})` : ""}</td>
                 <td className={`${cell} figures text-right`}>{find.depthBelowSurface ?? "–"}</td>

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { CUSTODY_PURPOSE_LABELS, CUSTODY_PURPOSES, FIND_CATEGORY_LABELS, instantToLocalDateTime } from "../../shared/finds/finds";
+import { amountText, CUSTODY_PURPOSE_LABELS, CUSTODY_PURPOSES, FIND_CATEGORY_LABELS, instantToLocalDateTime } from "../../shared/finds/finds";
 import { unitLabel } from "../../shared/units";
 import { requireRole } from "~/lib/auth/access.server";
 import { can } from "~/lib/auth/permissions";
@@ -61,7 +61,7 @@ const printCss = `
 export default function BatchCustodySheet({ loaderData }: Route.ComponentProps) {
   const { finds, project, seesLocations } = loaderData;
   const cell = "border border-ink px-2 py-1 align-top";
-  const total = finds.reduce((sum, find) => sum + find.count, 0);
+  const total = finds.reduce((sum, find) => sum + (find.count ?? 0), 0);
   return (
     <main className="mx-auto max-w-4xl bg-panel px-8 py-6 print:px-0">
       <style>{printCss}</style>
@@ -72,7 +72,7 @@ export default function BatchCustodySheet({ loaderData }: Route.ComponentProps) 
         <thead>
           <tr>
             <th className={`${cell} text-left`}>Catalogue no.</th><th className={`${cell} text-left`}>Category</th><th className={`${cell} text-left`}>Description</th>
-            <th className={`${cell} text-right`}>Count</th><th className={`${cell} text-left`}>Found</th>
+            <th className={`${cell} text-right`}>Count / volume</th><th className={`${cell} text-left`}>Found</th>
             {seesLocations ? <th className={`${cell} text-left`}>Provenience (confidential)</th> : null}
             <th className={`${cell} text-left`}>Held by now</th><th className={`${cell} text-left`}>Received ✓</th>
           </tr>
@@ -82,7 +82,7 @@ export default function BatchCustodySheet({ loaderData }: Route.ComponentProps) 
             <tr key={find.id} data-testid="batch-row">
               <td className={`${cell} figures`}>{find.catalogueNumber}</td><td className={cell}>{FIND_CATEGORY_LABELS[find.category]}</td>
               <td className={cell}>{find.description}{find.fieldTag ? <span className="figures"> · tag {find.fieldTag}</span> : null}</td>
-              <td className={`${cell} figures text-right`}>{find.count}</td><td className={`${cell} figures`}>{find.foundAtLocal}</td>
+              <td className={`${cell} figures text-right whitespace-nowrap`}>{amountText(find)}</td><td className={`${cell} figures`}>{find.foundAtLocal}</td>
               {seesLocations ? <td className={`${cell} figures`}>cell {find.cell ?? "–"}, {find.depthBelowSurface ?? "–"} {project.lengthLabel} below surface</td> : null}
               <td className={cell}>{find.currentHolder.name}, {find.currentHolder.place}</td><td className={cell} />
             </tr>

@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { FIND_CATEGORY_LABELS, FIND_STATUS_LABELS, instantToLocalDateTime } from "../../shared/finds/finds";
+import { amountText, FIND_CATEGORY_LABELS, FIND_STATUS_LABELS, instantToLocalDateTime } from "../../shared/finds/finds";
 import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { listFinds } from "~/models/finds.server";
@@ -73,7 +73,11 @@ export default function FindsCatalogue({ loaderData }: Route.ComponentProps) {
                   <td className="py-2 pr-3"><input type="checkbox" name="find" value={find.id} aria-label={`Put ${find.catalogueNumber} on the custody sheet`} /></td>
                   <td className="figures py-2 pr-3"><Link className="underline" to={`${base}/finds/${find.id}`}>{find.catalogueNumber}</Link></td>
                   <td className="py-2 pr-3">{FIND_CATEGORY_LABELS[find.category]}</td>
-                  <td className="py-2 pr-3">{find.description}{find.count > 1 ? ` (×${find.count})` : ""}</td>
+                  <td className="py-2 pr-3">
+                    {find.description}
+                    {find.count !== 1 || find.volume ? <span className="figures whitespace-nowrap" data-testid="find-amount"> ({amountText(find)})</span> : null}
+                    {find.fromBasket ? <span className="ml-2 whitespace-nowrap rounded border border-line px-1.5 text-xs text-muted">basket load</span> : null}
+                  </td>
                   <td className="figures py-2 pr-3 whitespace-nowrap">{find.foundAtLocal}</td>
                   {seesLocations ? <td className="figures py-2 pr-3">{find.cell ?? "–"}</td> : null}
                   {seesLocations ? <td className="figures py-2 pr-3 text-right">{find.depthBelowSurface ?? "–"}</td> : null}

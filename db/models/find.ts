@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
 import { FIND_CATEGORIES, FIND_STATUSES, type FindCategory, type FindStatus } from "../../shared/finds/finds";
+import { HAND_VOLUME_UNITS, type HandVolumeUnit } from "../../shared/units";
 import type { Dive } from "./dive";
 import type { DiveTeam } from "./dive-team";
 import type { FindCustody } from "./find-custody";
@@ -21,7 +22,13 @@ export class Find extends Model<InferAttributes<Find>, InferCreationAttributes<F
   declare category: FindCategory;
   declare description: string;
   declare material: string;
-  declare count: number;
+  /** How many; null for a basket line measured by volume alone. */
+  declare count: number | null;
+  /** A basket line's volume, as entered (the unit beside it). */
+  declare volumeValue: number | null;
+  declare volumeUnit: HandVolumeUnit | null;
+  /** A line of a basket load (debris removed by hand), not a find logged on its own. */
+  declare fromBasket: CreationOptional<boolean>;
   declare taxon: string | null;
   declare element: string | null;
   declare condition: string;
@@ -60,7 +67,10 @@ export function initFind(sequelize: Sequelize) {
       category: { type: DataTypes.ENUM(...FIND_CATEGORIES), allowNull: false },
       description: { type: DataTypes.TEXT, allowNull: false },
       material: text(120),
-      count: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      count: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      volumeValue: { type: DataTypes.DOUBLE, allowNull: true },
+      volumeUnit: { type: DataTypes.ENUM(...HAND_VOLUME_UNITS), allowNull: true },
+      fromBasket: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       taxon: text(120, true),
       element: text(120, true),
       condition: text(200),

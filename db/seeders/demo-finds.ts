@@ -2,8 +2,8 @@ import { mkdir, rm, writeFile } from "node:fs/promises";
 import { join } from "node:path";
 import { randomBytes } from "node:crypto";
 import sharp from "sharp";
-import { DEMO_FINDS, type DemoFind } from "../../sample-data/finds";
-import { CellResult, Find, Hold, HoldNotice, Project, User, Zone } from "../models";
+import { DEMO_BASKETS, DEMO_FINDS, type DemoFind } from "../../sample-data/finds";
+import { CellResult, Dive, Find, Hold, HoldNotice, Project, User, Zone } from "../models";
 import { DEMO_PROJECT } from "./demo-scenario";
 
 /**
@@ -64,6 +64,36 @@ export async function seedDemoFinds(): Promise<boolean> {
     }
   }
   return (await Hold.count({ where: { projectId: project.id } })) > 0;
+}
+
+/**
+ * The demo's basket loads (sample-data/finds.ts) on the demo dives, logged by the monitor through
+ * the same service as the basket page and the API, each with its dive's team and first cell. Runs
+ * when the demo project has dives and no basket lines yet.
+ */
+export async function seedDemoBaskets(): Promise<boolean> {
+  const project = await Project.findOne({ where: { slug: DEMO_PROJECT.slug } });
+  if (!project || (await Find.count({ where: { projectId: project.id, fromBasket: true } })) > 0) return false;
+  const monitor = await User.findOne({ where: { email: "monitor@example.org" } });
+  if (!monitor) return false;
+  const { presentProject } = await import("../../app/lib/auth/project-view.server");
+  const { presentUser } = await import("../../app/lib/auth/users.server");
+  const { basketLoadInputSchema, logBasketLoad } = await import("../../app/models/finds.server");
+  const { localDateTimeToInstant } = await import("../../shared/finds/finds");
+  const view = presentProject(project);
+  const user = presentUser(monitor);
+  let logged = false;
+  for (const basket of DEMO_BASKETS) {
+    const dive = await Dive.findOne({ where: { projectId: project.id, diveDate: basket.diveDate, diverName: basket.diver }, include: [{ association: "cells", attributes: ["label"] }] });
+    if (!dive) continue;
+    // A refusal throws (a typed error naming the line), which fails the seed loudly.
+    await logBasketLoad(view, user, basketLoadInputSchema.parse({
+      lines: basket.lines, diveId: dive.id, cell: dive.cells?.[0]?.label ?? null, depthBelowSurface: basket.depthBelowSurfaceFt,
+      foundAt: localDateTimeToInstant(basket.broughtUpAtLocal, project.timeZone)!.toISOString(), finder: basket.diver, fieldTag: basket.fieldTag,
+    }));
+    logged = true;
+  }
+  return logged;
 }
 
 /** A flat card in the find's colour with a 10-unit scale bar and the field tag: a stand-in, not a picture of anything. */

@@ -3,7 +3,7 @@ import { hashPassword } from "../../app/lib/auth/password.server";
 import { CellResult, Dive, DiveTeam, Membership, Project, Survey, User, Zone, initModels } from "../models";
 import { seedDemoDewatering } from "./demo-dewatering";
 import { seedDemoDiveTeams } from "./demo-dive-teams";
-import { seedDemoFinds } from "./demo-finds";
+import { seedDemoBaskets, seedDemoFinds } from "./demo-finds";
 import { seedDemoSurveys } from "./demo-surveys";
 import { seedDemoWaterQuality } from "./demo-water-quality";
 import { DEMO_PASSWORD, DEMO_PROJECT, DEMO_USERS, demoProjectInput } from "./demo-scenario";
@@ -21,7 +21,8 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
     const dewatering = await seedDemoDewatering();
     const waterQuality = await seedDemoWaterQuality();
     const finds = await seedDemoFinds();
-    return surveys || dives || dewatering || waterQuality || finds ? "seeded" : "skipped";
+    const baskets = await seedDemoBaskets();
+    return surveys || dives || dewatering || waterQuality || finds || baskets ? "seeded" : "skipped";
   }
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   await sequelize.transaction(async (transaction) => {
@@ -49,6 +50,7 @@ export async function seedDemo(sequelize: Sequelize = initModels()): Promise<"se
   await seedDemoDewatering();
   await seedDemoWaterQuality();
   await seedDemoFinds();
+  await seedDemoBaskets();
   return "seeded";
 }
 

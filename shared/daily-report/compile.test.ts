@@ -120,6 +120,22 @@ describe("compileDay", () => {
     expect(day.holds).toEqual({ placed: ["FS-2031-001"], lifted: ["FS-2030-040"] });
   });
 
+  it("adds up the debris removed by hand from the day's basket lines, volumes in litres", () => {
+    const day = compileDay(records({
+      finds: [
+        { catalogueNumber: "FS-2031-004", category: "modern-debris", basket: { count: 14, volume: { value: 2, unit: "gal" } } },
+        { catalogueNumber: "FS-2031-005", category: "historic-debris", basket: { count: null, volume: { value: 0.5, unit: "ft3" } } },
+        { catalogueNumber: "FS-2031-006", category: "faunal", basket: { count: 6, volume: null } },
+        { catalogueNumber: "FS-2031-007", category: "cultural" },
+      ],
+    }));
+    // published (NIST SP 811): 2 gal = 7.570823568 L, 0.5 ft³ = 14.158423296 L; computed sum 21.729 L
+    expect(day.finds.byHand).toEqual({ lines: 3, items: 20, litres: 21.729 });
+    expect(day.finds.byCategory).toEqual({ "modern-debris": 1, "historic-debris": 1, faunal: 1, cultural: 1 });
+    // No basket load: no line at all (a report signed before keeps its shape).
+    expect(compileDay(records()).finds.byHand).toBeUndefined();
+  });
+
   it("clips interruptions to the local day and counts an open one until now", () => {
     const day = compileDay(records({
       interruptions: [

@@ -1,6 +1,7 @@
 import { instantOfLocal, localClockOf } from "../local-time";
 import { parseCellLabel } from "../grid/cell-grid";
 import { missedIntervals, type SamplingRoutine } from "../water-quality/missed-samples";
+import { litresFrom, type HandVolumeUnit } from "../units";
 
 /**
  * The daily report compiled from one local day's records (already loaded and already limited to
@@ -59,6 +60,8 @@ export interface DayInterruption {
 export interface DayFind {
   catalogueNumber: string;
   category: string;
+  /** A line of a basket load (debris removed by hand), with its count and volume as entered. */
+  basket?: { count: number | null; volume: { value: number; unit: HandVolumeUnit } | null } | null;
 }
 
 export interface DayHold {
@@ -171,7 +174,16 @@ export interface CompiledDay {
   };
   interruptions: Array<{ kind: DayInterruption["kind"]; reason: string; start: string; end: string | null; lostHours: number }>;
   lostHours: number;
-  finds: { byCategory: Record<string, number>; catalogueNumbers: string[] };
+  finds: {
+    byCategory: Record<string, number>;
+    catalogueNumbers: string[];
+    /**
+     * The debris removed by hand: the day's basket lines, the items they counted and the volumes
+     * they gave, added in litres (null when no line gave a volume). Present only when a basket load
+     * was logged (and absent on reports signed before basket volumes).
+     */
+    byHand?: { lines: number; items: number; litres: number | null };
+  };
   holds: { placed: string[]; lifted: string[] };
   entered: EnteredNotes;
   missing: string[];
@@ -289,6 +301,13 @@ export function compileDay(records: DayRecords): CompiledDay {
 
   const byCategory: Record<string, number> = {};
   for (const find of records.finds) byCategory[find.category] = (byCategory[find.category] ?? 0) + 1;
+  const basketLines = records.finds.flatMap((find) => (find.basket ? [find.basket] : []));
+  const measured = basketLines.filter((line) => line.volume !== null);
+  const byHand = basketLines.length === 0 ? null : {
+    lines: basketLines.length,
+    items: basketLines.reduce((sum, line) => sum + (line.count ?? 0), 0),
+    litres: measured.length === 0 ? null : round(measured.reduce((sum, line) => sum + litresFrom(line.volume!.value, line.volume!.unit), 0), 3),
+  };
   const inDay = (ms: number | null) => ms !== null && ms >= startMs && ms < endMs;
 
   const missing: string[] = [];
@@ -337,7 +356,7 @@ export function compileDay(records: DayRecords): CompiledDay {
     },
     interruptions,
     lostHours: round(interruptions.reduce((sum, event) => sum + event.lostHours, 0), 2),
-    finds: { byCategory, catalogueNumbers: records.finds.map((find) => find.catalogueNumber).sort() },
+    finds: { byCategory, catalogueNumbers: records.finds.map((find) => find.catalogueNumber).sort(), ...(byHand ? { byHand } : {}) },
     holds: {
       placed: records.holds.filter((hold) => inDay(hold.placedAtMs)).map((hold) => hold.catalogueNumber).sort(),
       lifted: records.holds.filter((hold) => inDay(hold.liftedAtMs)).map((hold) => hold.catalogueNumber).sort(),

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { dayState, dayStatus, findsLine, productionRows, reportUnits, surveyLine, weatherLine } from "./present";
+import { byHandLine, dayState, dayStatus, findsLine, productionRows, reportUnits, surveyLine, weatherLine } from "./present";
 
 describe("the report's figures written out", () => {
   it("in a feet project's units: US gallons, short tons, pounds", () => {
@@ -28,6 +28,11 @@ describe("the report's figures written out", () => {
     expect(weatherLine({ conditions: "", airTemperature: "", wind: "", rain: "", effect: "none" })).toBeNull();
     expect(weatherLine({ conditions: "Overcast", airTemperature: "18 °C", wind: "SW 10 kn", rain: "", effect: "" })).toBe("Overcast · 18 °C · wind SW 10 kn");
     expect(findsLine({})).toBeNull();
+    expect(byHandLine(undefined, "us-ft")).toBeNull();
+    // computed: 21.729 L ÷ 3.785411784 L/gal (NIST SP 811) = 5.740 gal
+    expect(byHandLine({ lines: 3, items: 20, litres: 21.729 }, "us-ft")).toBe("Removed by hand in basket loads: 20 items counted, 5.7 gal by volume (3 catalogue lines)");
+    expect(byHandLine({ lines: 1, items: 0, litres: 21.729 }, "m")).toBe("Removed by hand in basket loads: 21.7 L by volume (1 catalogue line)");
+    expect(byHandLine({ lines: 1, items: 1, litres: null }, "m")).toBe("Removed by hand in basket loads: 1 item counted (1 catalogue line)");
     expect(findsLine({ cultural: 1, faunal: 2 })).toBe("Cultural: 1 · Faunal: 2");
     expect(surveyLine({ surveyedOn: "2026-06-10", since: "2026-05-27", removedVolume: 574.5, cellsReachedFirmSand: 1, remainingVolume: 3_867.6, volumeLabel: "yd³" }))
       .toBe("Survey of this day against the survey of 2026-05-27: 574.5 yd³ removed, 1 cell newly at firm sand, 3,867.6 yd³ remaining.");

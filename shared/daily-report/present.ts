@@ -1,6 +1,6 @@
 import { FIND_CATEGORY_LABELS, type FindCategory } from "../finds/finds";
 import { localClockOf } from "../local-time";
-import { LITRES_PER_US_GALLON, kilogramsTo, massUnitsFor, measureLabel, type LengthUnit } from "../units";
+import { LITRES_PER_US_GALLON, handVolumeUnitFor, kilogramsTo, litresTo, massUnitsFor, measureLabel, type LengthUnit } from "../units";
 import { COMPLIANCE_STATION_SETTING, type CompiledDay, type Weather } from "./compile";
 
 /**
@@ -53,6 +53,21 @@ export function findsLine(byCategory: Record<string, number>): string | null {
   const entries = Object.entries(byCategory);
   if (entries.length === 0) return null;
   return entries.map(([category, count]) => `${FIND_CATEGORY_LABELS[category as FindCategory] ?? category}: ${count}`).join(" · ");
+}
+
+/**
+ * The debris removed by hand in words: "Removed by hand in basket loads: 23 items counted, 12.5 gal
+ * by volume (4 catalogue lines)", the volume in the project's hand-volume unit (US gallons on a feet
+ * project, litres on a metre project); null when no basket load was logged.
+ */
+export function byHandLine(byHand: CompiledDay["finds"]["byHand"], lengthUnit: LengthUnit): string | null {
+  if (!byHand) return null;
+  const unit = handVolumeUnitFor(lengthUnit);
+  const parts = [
+    byHand.items > 0 ? `${formatNumber(byHand.items, 0)} item${byHand.items === 1 ? "" : "s"} counted` : null,
+    byHand.litres !== null ? `${formatNumber(litresTo(byHand.litres, unit), 1)} ${measureLabel(unit)} by volume` : null,
+  ].filter(Boolean);
+  return `Removed by hand in basket loads: ${parts.join(", ")} (${byHand.lines} catalogue line${byHand.lines === 1 ? "" : "s"})`;
 }
 
 /** An interruption in words, with its local times and the hours it cost on the day. */

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { cellIndex, cellPolygon, fromGridFrame, type CellGrid } from "../grid/cell-grid";
-import { agenciesToNotify, catalogueNumber, cellsWithinRadius, DEFAULT_HOLD_RADIUS_M, defaultCataloguePrefix, instantToLocalDateTime, localDateTimeToInstant, localYear, PERMIT_HOLD_DIAMETER_M } from "./finds";
+import { amountText, basketTotals, agenciesToNotify, catalogueNumber, cellsWithinRadius, DEFAULT_HOLD_RADIUS_M, defaultCataloguePrefix, instantToLocalDateTime, localDateTimeToInstant, localYear, PERMIT_HOLD_DIAMETER_M } from "./finds";
 
 const grid: CellGrid = { originX: 1000, originY: 2000, cellSize: 10, rotationDegrees: 0, firstCol: 0, firstRow: 0, cols: 30, rows: 30 };
 const everywhere = () => true;
@@ -103,5 +103,25 @@ describe("project wall-clock times", () => {
     for (const local of ["2026-07-01T10:00", "2026-11-03T10:42", "2026-12-31T23:59"]) {
       expect(instantToLocalDateTime(localDateTimeToInstant(local, "America/New_York")!, "America/New_York")).toBe(local.replace("T", " "));
     }
+  });
+});
+
+describe("basket lines' amounts", () => {
+  it("says a count, a volume as measured, or both", () => {
+    expect(amountText({ count: 14, volume: null })).toBe("14");
+    expect(amountText({ count: null, volume: { value: 2.5, unit: "gal" } })).toBe("2.5 gal");
+    expect(amountText({ count: 3, volume: { value: 0.75, unit: "ft3" } })).toBe("3 · 0.75 ft³");
+    expect(amountText({ count: 1200, volume: null })).toBe("1,200");
+  });
+  it("adds volumes measured in different units in the project's unit", () => {
+    // computed: 1 ft³ = 1728/231 gal = 7.48052 gal; 2 gal + 1 ft³ + 3.785411784 L (1 gal) = 10.48 gal
+    const lines = [{ count: 4, volume: { value: 2, unit: "gal" as const } }, { count: null, volume: { value: 1, unit: "ft3" as const } }, { count: 2, volume: { value: 3.785411784, unit: "L" as const } }, { count: 5, volume: null }];
+    expect(basketTotals(lines, "us-ft")).toEqual({ lines: 4, items: 11, volume: { value: 10.48, unit: "gal" } });
+    // published (NIST SP 811): 2 gal = 7.570823568 L, 1 ft³ = 28.316846592 L; with 3.785411784 L the sum is 39.67 L
+    expect(basketTotals(lines, "m").volume).toEqual({ value: 39.67, unit: "L" });
+  });
+  it("gives no volume when no line was measured by volume", () => {
+    expect(basketTotals([{ count: 2, volume: null }], "m")).toEqual({ lines: 1, items: 2, volume: null });
+    expect(basketTotals([], "ft")).toEqual({ lines: 0, items: 0, volume: null });
   });
 });

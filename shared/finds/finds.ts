@@ -1,5 +1,6 @@
 import { cellIndex, cellLabel, toGridFrame, type CellGrid } from "../grid/cell-grid";
 import { instantOfLocal, localClockOf, localDayOf } from "../local-time";
+import { handVolumeUnitFor, litresFrom, litresTo, measureLabel, type HandVolumeUnit, type LengthUnit } from "../units";
 
 /**
  * Finds: what the divers' baskets and hoses bring up, recorded where and when it came up, handed
@@ -146,4 +147,38 @@ export function instantToLocalDateTime(instant: Date, timeZone: string): string 
 /** Cell labels in reading order for people: "A9" before "A10". */
 export function sortCellLabels(labels: Iterable<string>): string[] {
   return [...labels].sort((a, b) => a.localeCompare(b, "en", { numeric: true }));
+}
+
+/** How much a catalogue entry holds: its count, and for a basket line its volume as measured. */
+export interface FindAmount {
+  count: number | null;
+  volume: { value: number; unit: HandVolumeUnit } | null;
+}
+
+const figure = (value: number) => value.toLocaleString("en-US", { maximumFractionDigits: 2 });
+
+/** A volume as measured: "2.5 gal", "0.75 ft³", "12 L". */
+export function handVolumeText(volume: { value: number; unit: HandVolumeUnit }): string {
+  return `${figure(volume.value)} ${measureLabel(volume.unit)}`;
+}
+
+/** "14", "2.5 gal", or "14 · 2.5 gal" when a line gave both (never empty: a line gives one or the other). */
+export function amountText(amount: FindAmount): string {
+  return [amount.count !== null ? figure(amount.count) : null, amount.volume ? handVolumeText(amount.volume) : null].filter(Boolean).join(" · ") || "–";
+}
+
+/**
+ * Totals of basket lines: items counted (lines by volume alone add none), and the volumes added in
+ * litres and given in the project's hand-volume unit (US gallons on feet projects, litres on metre
+ * projects), rounded to hundredths.
+ */
+export function basketTotals(lines: readonly FindAmount[], lengthUnit: LengthUnit): { lines: number; items: number; volume: { value: number; unit: "gal" | "L" } | null } {
+  const unit = handVolumeUnitFor(lengthUnit);
+  const measured = lines.filter((line) => line.volume !== null);
+  const litres = measured.reduce((sum, line) => sum + litresFrom(line.volume!.value, line.volume!.unit), 0);
+  return {
+    lines: lines.length,
+    items: lines.reduce((sum, line) => sum + (line.count ?? 0), 0),
+    volume: measured.length ? { value: Math.round(litresTo(litres, unit) * 100) / 100, unit } : null,
+  };
 }

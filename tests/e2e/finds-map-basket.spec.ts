@@ -3,7 +3,7 @@ import { expect, test } from "./fixtures";
 
 // The log form's map and the basket form, on the demo project as the resource monitor: a tap on
 // the small map picks the cell (and, when asked, the position, which the server checks lies in
-// that cell); a basket load of two kinds becomes two catalogue entries with their counts.
+// that cell); a basket load of two kinds becomes two catalogue entries with their counts and volumes.
 
 /** A cell drawn on the find form's map that is not `not`, and the screen point of its centre. */
 async function drawnCell(page: Page, not: string): Promise<{ label: string; x: number; y: number }> {
@@ -72,7 +72,7 @@ test("the position's errors are said on the field typed in", async ({ page, sign
   await expect(page.getByText(/^Latitude and longitude: The position .* lies outside the work limit\.$/)).toBeVisible();
 });
 
-test("a basket load of two kinds becomes two catalogue entries with their counts", async ({ page, signIn }) => {
+test("a basket load of two kinds becomes two catalogue entries with their counts and volumes", async ({ page, signIn }) => {
   test.setTimeout(120_000);
   await page.setViewportSize({ width: 390, height: 844 });
   await signIn("resource-monitor");
@@ -85,6 +85,9 @@ test("a basket load of two kinds becomes two catalogue entries with their counts
   await page.getByLabel("Line 1: category").selectOption("modern-debris");
   await page.getByLabel("What it is").first().fill(`Aluminium cans ${stamp}`);
   await page.getByLabel("Count", { exact: true }).first().fill("12");
+  // Measured by volume as well, in the feet project's own unit (US gallons, offered first).
+  await page.getByLabel("Volume", { exact: true }).first().fill("1.5");
+  await expect(page.getByLabel("Unit", { exact: true }).first()).toHaveValue("gal");
   await page.getByRole("button", { name: "Add a line" }).click();
   await page.getByLabel("Line 2: category").selectOption("faunal");
   await page.getByLabel("What it is").nth(1).fill(`Turtle shell fragments ${stamp}`);
@@ -96,16 +99,19 @@ test("a basket load of two kinds becomes two catalogue entries with their counts
   await page.getByRole("button", { name: "Save basket load" }).click();
 
   const logged = page.getByTestId("basket-logged");
-  await expect(logged).toContainText("17 items in 2 catalogue entries");
+  await expect(logged).toContainText("17 items counted and 1.5 gal by volume in 2 catalogue entries");
   const entries = logged.getByRole("listitem");
   await expect(entries).toHaveCount(2);
-  await expect(entries.nth(0)).toContainText("Modern debris · 12");
+  await expect(entries.nth(0)).toContainText("Modern debris · 12 · 1.5 gal");
   await expect(entries.nth(1)).toContainText("Faunal · 5");
   const numbers = await entries.locator("a").allInnerTexts();
   // Consecutive numbers of one year: the basket's lines in order (computed).
   const [a, b] = numbers.map((number) => Number(number.split("-").at(-1)));
   expect(b).toBe(a + 1);
-  await entries.nth(1).locator("a").click();
+  const second = await entries.nth(1).locator("a").getAttribute("href");
+  await entries.nth(0).locator("a").click();
+  await expect(page.getByTestId("find-volume")).toHaveText("1.5 gal");
+  await page.goto(second!);
   await expect(page.getByText(`Turtle shell fragments ${stamp}`)).toBeVisible();
   expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
 });

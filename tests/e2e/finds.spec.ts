@@ -126,6 +126,18 @@ test("a cultural find: logged with a photo on a phone, held on the map, hidden w
   await monitor.getByLabel("Receiver's signature").fill("Site store keeper E2E");
   await monitor.getByRole("button", { name: "Record handover" }).click();
   await expect(monitor.getByTestId("current-holder")).toContainText("Held by Site store keeper E2E");
+  // The signed paper form's photo, from the handover's own form on the phone: a file that is not an
+  // image is refused on that form, then the photo is attached and shown on the handover.
+  const handover = monitor.getByTestId("custody-form-photo").filter({ hasText: "Site store keeper E2E" });
+  await handover.getByLabel("Attach signed form photo").setInputFiles({ name: "form.jpg", mimeType: "image/jpeg", buffer: Buffer.from("not a photo at all") });
+  await handover.getByRole("button", { name: "Attach photo" }).click();
+  await expect(monitor.getByTestId("custody-form-photo").filter({ hasText: "Site store keeper E2E" }).getByRole("alert")).toBeVisible();
+  const signedForm = await sharp({ create: { width: 600, height: 800, channels: 3, background: "#f2efe6" } }).jpeg().toBuffer();
+  await monitor.getByTestId("custody-form-photo").filter({ hasText: "Site store keeper E2E" }).getByLabel("Attach signed form photo").setInputFiles({ name: "signed-form.jpg", mimeType: "image/jpeg", buffer: signedForm });
+  await monitor.getByTestId("custody-form-photo").filter({ hasText: "Site store keeper E2E" }).getByRole("button", { name: "Attach photo" }).click();
+  await expect(monitor.getByTestId("custody-form-photo").filter({ hasText: "Site store keeper E2E" })).toContainText("signed form attached");
+  await expect(monitor.getByRole("img", { name: "Signed custody form, handover to Site store keeper E2E" })).toBeVisible();
+  expect(await monitor.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(monitor.viewportSize()!.width);
   await monitor.getByRole("link", { name: "Printable custody sheet" }).click();
   await expect(monitor.getByTestId("sheet-catalogue")).toHaveText(catalogueNumber);
   await monitor.emulateMedia({ media: "print" });

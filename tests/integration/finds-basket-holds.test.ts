@@ -15,7 +15,11 @@ import { action as noticesAction, loader as noticesLoader } from "~/routes/api.p
 import { action as liftAction } from "~/routes/api.projects.$projectId.holds.$holdId.lift";
 import { action as newFindPage, loader as newFindLoader } from "~/routes/projects.$projectId.finds.new";
 import { action as basketPage } from "~/routes/projects.$projectId.finds.basket";
+import { action as findPage } from "~/routes/projects.$projectId.finds.$findId";
+import { listObjectKeys } from "~/lib/storage/storage.server";
 import { action as holdsPage } from "~/routes/projects.$projectId.holds";
+import { loader as findsListLoader } from "~/routes/api.projects.$projectId.finds";
+import { loader as dayLoader } from "~/routes/api.projects.$projectId.days.$date";
 import { action as custodyAction } from "~/routes/api.projects.$projectId.finds.$findId.custody";
 import { action as formPhotoAction } from "~/routes/api.projects.$projectId.finds.$findId.custody.$custodyId.form-photo";
 import sharp from "sharp";
@@ -167,6 +171,89 @@ describe("a basket load through the API", () => {
   });
 });
 
+describe("a basket load by volume", () => {
+  const DAY = "2026-11-14";
+  const post = (body: unknown) => postJson(basketsAction as never, "resource-monitor", `${base()}/finds/baskets`, {}, body);
+  // Read once the project is made (beforeAll).
+  const provenience = () => ({ cell: inside[5], foundAt: `${DAY}T10:00:00-05:00`, finder: "Cy Moss", teamId: egretId });
+
+  it("takes a count, a volume as measured, or both on each line, and says them back (201)", async () => {
+    const response = await post({
+      ...provenience(),
+      lines: [
+        { category: "modern-debris", description: "Cans and bottle caps", volume: { value: 2.5, unit: "gal" } },
+        { category: "historic-debris", description: "Brick fragments", count: 9, volume: { value: 0.5, unit: "ft3" } },
+        { category: "faunal", description: "Snail shells", count: 40, taxon: "apple snail" },
+      ],
+    });
+    expect(response.status).toBe(201);
+    const { finds } = (await response.json()) as { finds: Array<{ id: number; count: number | null; volume: { value: number; unit: string } | null }> };
+    expect(finds.map((find) => [find.count, find.volume])).toEqual([[null, { value: 2.5, unit: "gal" }], [9, { value: 0.5, unit: "ft3" }], [40, null]]);
+    // Kept as entered, and marked as basket lines, for every role (a volume is not a location).
+    const { find } = await (await call(findLoader as never, "viewer", `${base()}/finds/${finds[0].id}`, { findId: String(finds[0].id) })).json();
+    expect(find).toMatchObject({ count: null, volume: { value: 2.5, unit: "gal" }, fromBasket: true });
+    const listed = ((await (await call(findsListLoader as never, "viewer", `${base()}/finds`)).json()) as { finds: Array<{ id: number; volume: unknown; fromBasket: boolean }> }).finds;
+    expect(listed.find((entry) => entry.id === finds[1].id)).toMatchObject({ volume: { value: 0.5, unit: "ft3" }, fromBasket: true });
+    // A find logged on its own is no basket line.
+    expect(listed.find((entry) => !entry.fromBasket)).toBeTruthy();
+  });
+
+  it("adds the day's basket lines up in the daily report: items counted and the volumes in US gallons", async () => {
+    const day = (await (await call(dayLoader as never, "viewer", `${base()}/days/${DAY}`, { date: DAY })).json()) as { finds: { byHand?: { lines: number; items: number; litres: number | null } } };
+    // computed: 2.5 gal × 3.785411784 + 0.5 ft³ × 28.316846592 = 9.46352946 + 14.158423296 = 23.622 L (NIST SP 811)
+    expect(day.finds.byHand).toEqual({ lines: 3, items: 49, litres: 23.622 });
+  });
+
+  it("refuses a line with neither a count nor a volume, a volume of 0, an unknown unit and more than a cubic metre, naming the line and field, storing nothing (422)", async () => {
+    const before = await Find.count({ where: { projectId } });
+    const sequence = (await FindSequence.findOne({ where: { projectId, year: 2026 } }))!.lastSequence;
+    const refused = await post({
+      ...provenience(),
+      lines: [
+        { category: "modern-debris", description: "Cans", count: 3 },
+        { category: "modern-debris", description: "Rope" },
+        { category: "modern-debris", description: "Tyre scraps", volume: { value: 0, unit: "L" } },
+      ],
+    });
+    expect(refused.status).toBe(422);
+    expect(await errorsOf(refused)).toEqual([
+      { field: "lines.1.count", message: "line 2: give how many, the volume, or both" },
+      { field: "lines.2.volume.value", message: "line 3: the volume is more than 0" },
+    ]);
+    const unit = await post({ ...provenience(), lines: [{ category: "historic-debris", description: "Bottles", volume: { value: 3, unit: "bucket" } }] });
+    expect(unit.status).toBe(422);
+    expect(await errorsOf(unit)).toEqual([expect.objectContaining({ field: "lines.0.volume.unit", message: "the volume's unit is one of gal, ft3, L, m3" })]);
+    // 300 gal is 1135.6 L (computed), over the cubic metre one line takes.
+    const large = await post({ ...provenience(), lines: [{ category: "modern-debris", description: "Sheet metal", volume: { value: 300, unit: "gal" } }] });
+    expect(large.status).toBe(422);
+    expect(await errorsOf(large)).toEqual([{ field: "lines.0.volume.value", message: "line 1: at most 264 gal (1000 L) in one line of a basket; log a larger load as several baskets" }]);
+    expect(await Find.count({ where: { projectId } })).toBe(before);
+    expect((await FindSequence.findOne({ where: { projectId, year: 2026 } }))!.lastSequence).toBe(sequence);
+  });
+
+  it("reads the page form's volume and unit on each line, and says a line's error on its field", async () => {
+    const path = `/projects/${projectId}/finds/basket`;
+    const fields = { foundAt: `${DAY}T11:00`, cell: inside[5], positionIn: "grid" };
+    const refused = await postPage(basketPage as never, "resource-monitor", path, {
+      "lines.0.category": "modern-debris", "lines.0.description": "Cans", "lines.0.count": "", "lines.0.volume": "1.5", "lines.0.volumeUnit": "gal",
+      "lines.3.category": "modern-debris", "lines.3.description": "Rope", "lines.3.count": "", "lines.3.volume": "", "lines.3.volumeUnit": "gal",
+      "lines.5.category": "modern-debris", "lines.5.description": "Glass", "lines.5.count": "", "lines.5.volume": "-2", "lines.5.volumeUnit": "L",
+      ...fields,
+    });
+    expect(refused.status).toBe(400);
+    expect(refused.body.errors["lines.3.count"]).toBe("line 2: give how many, the volume, or both");
+    expect(refused.body.errors["lines.5.volume"]).toBe("line 3: the volume is more than 0");
+    const logged = await postPage(basketPage as never, "resource-monitor", path, {
+      "lines.0.category": "modern-debris", "lines.0.description": "Cans", "lines.0.count": "", "lines.0.volume": "1.5", "lines.0.volumeUnit": "gal",
+      "lines.3.category": "historic-debris", "lines.3.description": "Bottle glass", "lines.3.count": "4", "lines.3.volume": "2", "lines.3.volumeUnit": "L",
+      ...fields,
+    });
+    expect(logged.status).toBe(200);
+    const entries = logged.body.logged as unknown as Array<{ count: number | null; volume: unknown }>;
+    expect(entries.map((entry) => [entry.count, entry.volume])).toEqual([[null, { value: 1.5, unit: "gal" }], [4, { value: 2, unit: "L" }]]);
+  });
+});
+
 describe("the batch custody sheet", () => {
   const sheet = async (who: Role, query: string) => {
     try {
@@ -225,6 +312,56 @@ describe("a photo of the signed custody form", () => {
     const other = (await Find.findOne({ where: { projectId }, order: [["id", "DESC"]] }))!;
     expect((await upload("resource-monitor", other.id, "#cccccc")).status).toBe(404);
   });
+
+  it("is attached from the handover's own form on the find's page: a refused file stores nothing and is said on that form", async () => {
+    const find = (await Find.findOne({ where: { projectId, category: "historic-debris" }, order: [["id", "ASC"]] }))!;
+    const handed = await postJson(custodyAction as never, "resource-monitor", `${base()}/finds/${find.id}/custody`, { findId: String(find.id) }, { fromName: "Ana Reyes", toName: "Mo Quist", place: "State lab", purpose: "to-state-lab", handedAt: "2026-11-11T09:00:00-05:00", receiverSignature: "Mo Quist" });
+    const custodyId = ((await handed.json()) as { id: number }).id;
+    const path = `/projects/${projectId}/finds/${find.id}?custody=${custodyId}`;
+    const send = async (who: Role, file: Blob, name: string) => {
+      const form = new FormData();
+      form.set("file", file, name);
+      const request = await requestAs(users.get(who)!, path, { method: "POST", body: form, headers: { Origin: ORIGIN } });
+      try {
+        const answer = await findPage({ request, params: { projectId: String(projectId), findId: String(find.id) }, context: {} } as never);
+        const result = answer as { init?: { status?: number }; data?: unknown };
+        return { status: result.init?.status ?? 200, body: (result.data ?? answer) as { custodyId?: number | null; errors: Record<string, string>; notice: string | null } };
+      } catch (error) {
+        if (error instanceof Response) return { status: error.status, body: { errors: {}, notice: null } };
+        throw error;
+      }
+    };
+    const keys = () => listObjectKeys(`projects/${projectId}/finds/${find.id}/`);
+    const keysBefore = (await keys()).length;
+    const photosBefore = await FindPhoto.count({ where: { findId: find.id } });
+    // Not an image (a PDF named .jpg): refused on this handover's form, nothing in the store or the tables.
+    const notImage = await send("resource-monitor", new Blob([new TextEncoder().encode("%PDF-1.4 not a photo")], { type: "image/jpeg" }), "form.jpg");
+    expect(notImage.status).toBe(400);
+    expect(notImage.body.custodyId).toBe(custodyId);
+    expect(notImage.body.errors.formPhoto).toMatch(/\S/);
+    expect((await FindCustody.findByPk(custodyId))!.formPhotoId).toBeNull();
+    expect(await FindPhoto.count({ where: { findId: find.id } })).toBe(photosBefore);
+    expect((await keys()).length).toBe(keysBefore);
+    // No file chosen: said on the form.
+    const empty = await send("resource-monitor", new Blob([]), "");
+    expect(empty.status).toBe(400);
+    expect(empty.body.errors.formPhoto).toBe("Take or choose the photo of the signed form.");
+    // A viewer may not attach one (403).
+    const bytes = await sharp({ create: { width: 400, height: 300, channels: 3, background: "#f4f1e8" } }).jpeg().toBuffer();
+    expect((await send("viewer", new Blob([new Uint8Array(bytes)], { type: "image/jpeg" }), "signed.jpg")).status).toBe(403);
+    const kept = await send("resource-monitor", new Blob([new Uint8Array(bytes)], { type: "image/jpeg" }), "signed.jpg");
+    expect(kept.status).toBe(200);
+    expect(kept.body.notice).toBe("Photo of the signed form attached to the handover.");
+    const photoId = (await FindCustody.findByPk(custodyId))!.formPhotoId;
+    expect(photoId).not.toBeNull();
+    // The image and its thumbnail (keepPhoto's two objects).
+    expect((await keys()).length).toBe(keysBefore + 2);
+    // A second is refused on the form, naming the photo kept; nothing more is stored.
+    const again = await send("resource-monitor", new Blob([new Uint8Array(bytes)], { type: "image/jpeg" }), "signed-again.jpg");
+    expect(again.status).toBe(400);
+    expect(again.body.errors.formPhoto).toContain(`has its form's photo already (photo #${photoId})`);
+    expect((await keys()).length).toBe(keysBefore + 2);
+  });
 });
 
 describe("the basket page", () => {
@@ -237,7 +374,7 @@ describe("the basket page", () => {
       foundAt: "2026-11-10T12:00", cell: inside[4], positionIn: "grid",
     });
     expect(refused.status).toBe(400);
-    expect(refused.body.errors["lines.2.count"]).toBe("the count is at least 1");
+    expect(refused.body.errors["lines.2.count"]).toBe("line 2: the count is a whole number from 1 to 100000");
     const logged = await postPage(basketPage as never, "resource-monitor", path, {
       "lines.0.category": "modern-debris", "lines.0.description": "Cans", "lines.0.count": "5",
       "lines.2.category": "historic-debris", "lines.2.description": "Bottles", "lines.2.count": "2",
@@ -368,6 +505,21 @@ describe("a back-dated lift", () => {
     expect(detail.liftedAt).toBe("2026-11-12T21:45:00.000Z");
     expect(Math.abs(new Date(detail.recordedAt).getTime() - Date.now())).toBeLessThan(60_000);
     expect((await lift({ authorisedBy: "Again" })).status).toBe(409);
+  });
+
+  it("refuses a lift \"now\" that would come before the hold was placed (a find logged from a clock running ahead), naming liftedAt (422)", async () => {
+    // A phone's clock ten minutes fast: the find, and so its hold, is placed in the server's future.
+    const ahead = new Date(Date.now() + 10 * 60_000);
+    const logged = await postJson(findsAction as never, "resource-monitor", `${base()}/finds`, {}, { category: "cultural", description: "Shell bead", cell: inside[16], foundAt: ahead.toISOString() });
+    expect(logged.status).toBe(201);
+    const aheadHold = String(((await logged.json()) as { hold: { id: number } }).hold.id);
+    const now = await postJson(liftAction as never, "manager", `${base()}/holds/${aheadHold}/lift`, { holdId: aheadHold }, { authorisedBy: "State office" });
+    expect(now.status).toBe(422);
+    const [error] = await errorsOf(now);
+    expect(error.field).toBe("liftedAt");
+    expect(error.message).toMatch(/^The lift cannot come before the hold was placed, at \d{4}-\d{2}-\d{2} \d{2}:\d{2} \(America\/New_York\), and it is only /);
+    // Nothing was stored: the hold is in force (invariant).
+    expect((await Hold.findByPk(Number(aheadHold)))!.liftedAt).toBeNull();
   });
 
   it("reads the page's lift time in the project's time zone", async () => {

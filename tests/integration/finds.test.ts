@@ -33,7 +33,7 @@ let otherProjectId: number;
 const users = new Map<Role | "stranger" | "admin", number>();
 let grid: CellGrid;
 const inside: string[] = [];
-const DATE = "2031-06-10";
+const DATE = "2026-06-10";
 
 type Handler = (args: never) => Promise<Response>;
 const call = async (handler: Handler, who: Role | "stranger" | "admin", path: string, params: Record<string, string> = {}, init: RequestInit = {}) => {
@@ -60,7 +60,7 @@ async function photoWithGps(): Promise<Buffer> {
     .toBuffer();
 }
 
-const CULTURAL = { category: "cultural", description: "Chert projectile point, stemmed, tip missing", material: "chert", condition: "tip broken, old break", depthBelowSurface: 14.5, depthInMuck: 1.2, foundAt: "2031-06-09T10:42:00-04:00", finder: "Test diver", fieldTag: "T-001" };
+const CULTURAL = { category: "cultural", description: "Chert projectile point, stemmed, tip missing", material: "chert", condition: "tip broken, old break", depthBelowSurface: 14.5, depthInMuck: 1.2, foundAt: "2026-06-09T10:42:00-04:00", finder: "Test diver", fieldTag: "T-001" };
 
 beforeAll(async () => {
   const make = async (label: string) =>
@@ -99,8 +99,8 @@ describe("logging a cultural find", () => {
     const response = await logFind("resource-monitor", { ...CULTURAL, cell });
     expect(response.status).toBe(201);
     const body = await response.json();
-    // Prefix, the project's local year of foundAt (2031 in New York), first sequence.
-    expect(body.catalogueNumber).toBe("TFS-2031-0001");
+    // Prefix, the project's local year of foundAt (2026 in New York), first sequence.
+    expect(body.catalogueNumber).toBe("TFS-2026-0001");
     findId = body.id;
     holdId = body.hold.id;
     heldCells = body.hold.cells;
@@ -126,16 +126,16 @@ describe("logging a cultural find", () => {
   });
 
   it("numbers the next find 0002 and never hands a number out twice", async () => {
-    const response = await logFind("manager", { category: "faunal", description: "Deer antler tine", taxon: "white-tailed deer", element: "antler", foundAt: "2031-06-09T11:00:00-04:00", cell: inside[0] });
+    const response = await logFind("manager", { category: "faunal", description: "Deer antler tine", taxon: "white-tailed deer", element: "antler", foundAt: "2026-06-09T11:00:00-04:00", cell: inside[0] });
     expect(response.status).toBe(201);
     const body = await response.json();
-    expect(body.catalogueNumber).toBe("TFS-2031-0002");
+    expect(body.catalogueNumber).toBe("TFS-2026-0002");
     expect(body.hold).toBeUndefined(); // a faunal find holds nothing
-    expect((await FindSequence.findOne({ where: { projectId, year: 2031 } }))?.lastSequence).toBe(2);
+    expect((await FindSequence.findOne({ where: { projectId, year: 2026 } }))?.lastSequence).toBe(2);
   });
 
   it("answers a repeated idempotency key with the first find, storing nothing new", async () => {
-    const body = { category: "modern-debris", description: "Aluminium can", foundAt: "2031-06-09T12:00:00-04:00", idempotencyKey: `key-${randomBytes(6).toString("hex")}` };
+    const body = { category: "modern-debris", description: "Aluminium can", foundAt: "2026-06-09T12:00:00-04:00", idempotencyKey: `key-${randomBytes(6).toString("hex")}` };
     const first = await logFind("resource-monitor", body);
     const again = await logFind("resource-monitor", body);
     expect(first.status).toBe(201);
@@ -162,12 +162,12 @@ describe("logging a cultural find", () => {
 
   it("shows locations to the monitor and leaves them out entirely for a viewer; outreach and strangers get nothing", async () => {
     const monitor = (await (await call(findsLoader as never, "resource-monitor", `${base()}/finds`)).json()).finds.find((item: { id: number }) => item.id === findId);
-    expect(monitor).toMatchObject({ catalogueNumber: "TFS-2031-0001", cell, depthBelowSurface: 14.5, depthInMuck: 1.2 });
+    expect(monitor).toMatchObject({ catalogueNumber: "TFS-2026-0001", cell, depthBelowSurface: 14.5, depthInMuck: 1.2 });
     const viewerAnswer = await call(findsLoader as never, "viewer", `${base()}/finds`);
     expect(viewerAnswer.status).toBe(200);
     const viewerFinds = (await viewerAnswer.json()).finds as Array<Record<string, unknown>>;
     const seen = viewerFinds.find((item) => item.id === findId)!;
-    expect(seen.catalogueNumber).toBe("TFS-2031-0001");
+    expect(seen.catalogueNumber).toBe("TFS-2026-0001");
     for (const key of ["cell", "position", "depthBelowSurface", "depthInMuck", "diveId", "team"]) {
       for (const item of viewerFinds) expect(Object.keys(item), key).not.toContain(key);
     }
@@ -214,7 +214,7 @@ describe("logging a cultural find", () => {
     let placedHoldId = 0;
     await getSequelize().transaction(async (transaction) => {
       await Project.findByPk(projectId, { lock: transaction.LOCK.UPDATE, transaction });
-      assigned = postJson(assignAction as never, "dive-supervisor", `${base()}/assignments`, {}, { date: "2031-06-11", team: "Team Heron", cells: [target], hose: "Hose A" });
+      assigned = postJson(assignAction as never, "dive-supervisor", `${base()}/assignments`, {}, { date: "2026-06-11", team: "Team Heron", cells: [target], hose: "Hose A" });
       await new Promise((resolve) => setTimeout(resolve, 400));
       const hold = await Hold.create({ projectId, findId, radiusM: 50, radiusSource: "race test", placedAt: new Date(), liftedAt: null }, { transaction });
       await HoldCell.create({ holdId: hold.id, projectId, row, col, label: target }, { transaction });
@@ -228,7 +228,7 @@ describe("logging a cultural find", () => {
 
   it("records a handover and shows the new holder and place", async () => {
     const response = await postJson(custodyAction as never, "resource-monitor", `${base()}/finds/${findId}/custody`, { findId: String(findId) }, {
-      fromName: "Test diver", toName: "Site store keeper", place: "Site store, locker 2", purpose: "to-site-store", handedAt: "2031-06-09T15:00:00-04:00", receiverSignature: "Site store keeper",
+      fromName: "Test diver", toName: "Site store keeper", place: "Site store, locker 2", purpose: "to-site-store", handedAt: "2026-06-09T15:00:00-04:00", receiverSignature: "Site store keeper",
     });
     expect(response.status).toBe(201);
     expect((await response.json()).status).toBe("site-store");
@@ -236,7 +236,7 @@ describe("logging a cultural find", () => {
     expect(detail.currentHolder).toEqual({ name: "Site store keeper", place: "Site store, locker 2" });
     expect(detail.custody).toHaveLength(1);
     const early = await postJson(custodyAction as never, "resource-monitor", `${base()}/finds/${findId}/custody`, { findId: String(findId) }, {
-      fromName: "A", toName: "B", place: "C", purpose: "to-state-lab", handedAt: "2031-06-01T15:00:00-04:00", receiverSignature: "B",
+      fromName: "A", toName: "B", place: "C", purpose: "to-state-lab", handedAt: "2026-06-01T15:00:00-04:00", receiverSignature: "B",
     });
     expect(early.status).toBe(422);
     expect((await errorsOf(early))[0].field).toBe("handedAt");
@@ -322,7 +322,7 @@ describe("logging a cultural find", () => {
 
 describe("the catalogue CSV with locations", () => {
   it("is for location roles only, logged in the audit log, and formula-safe", async () => {
-    expect((await logFind("resource-monitor", { category: "modern-debris", description: "=HYPERLINK(\"x\")", foundAt: "2031-06-11T08:00:00-04:00", cell: inside[1] })).status).toBe(201);
+    expect((await logFind("resource-monitor", { category: "modern-debris", description: "=HYPERLINK(\"x\")", foundAt: "2026-06-11T08:00:00-04:00", cell: inside[1] })).status).toBe(201);
     expect((await call(csvLoader as never, "viewer", `${base()}/finds.csv`)).status).toBe(403);
     expect((await call(csvLoader as never, "dive-supervisor", `${base()}/finds.csv`)).status).toBe(403);
     const before = await AuditEvent.count({ where: { projectId, action: "finds-exported" } });
@@ -330,7 +330,7 @@ describe("the catalogue CSV with locations", () => {
     expect(response.status).toBe(200);
     expect(response.headers.get("Content-Type")).toContain("text/csv");
     const text = await response.text();
-    expect(text).toContain("TFS-2031-0001");
+    expect(text).toContain("TFS-2026-0001");
     expect(text).toContain(`,"${inside[1]}",`);
     // OWASP CSV injection guidance: a cell starting with "=" is prefixed so no spreadsheet runs it.
     expect(text).not.toMatch(/(^|,)"?=HYPERLINK/m);
@@ -343,7 +343,7 @@ describe("the catalogue CSV with locations", () => {
     expect((refused as Response).status).toBe(403);
     const before = await AuditEvent.count({ where: { projectId, action: "finds-exported" } });
     const sheet = (await call(printableCatalogue as never, "manager", `/projects/${projectId}/finds/catalogue`)) as unknown as { finds: Array<{ catalogueNumber: string; cell?: string }> };
-    expect(sheet.finds[0]).toMatchObject({ catalogueNumber: "TFS-2031-0001", cell: expect.any(String) });
+    expect(sheet.finds[0]).toMatchObject({ catalogueNumber: "TFS-2026-0001", cell: expect.any(String) });
     expect(await AuditEvent.count({ where: { projectId, action: "finds-exported" } })).toBe(before + 1);
   });
 });
@@ -356,8 +356,8 @@ describe("the project's finds settings", () => {
     expect((await errorsOf(bad)).map((error) => error.field).sort()).toEqual(["finds.cataloguePrefix", "finds.holdRadiusM"]);
     expect((await patch({ finds: { cataloguePrefix: "zx", holdRadiusM: 10, holdRadiusSource: "Test permit condition 7" } })).status).toBe(200);
     const cell = inside[Math.floor(inside.length / 3)];
-    const logged = await (await logFind("resource-monitor", { category: "cultural", description: "Sherd", cell, foundAt: "2031-07-01T09:00:00-04:00" })).json();
-    expect(logged.catalogueNumber).toMatch(/^ZX-2031-\d{4}$/);
+    const logged = await (await logFind("resource-monitor", { category: "cultural", description: "Sherd", cell, foundAt: "2026-07-01T09:00:00-04:00" })).json();
+    expect(logged.catalogueNumber).toMatch(/^ZX-2026-\d{4}$/);
     // 10 m = 10 / (1200/3937) US ft ≈ 32.8 ft on 20 ft cells: every held cell centre within r + half a diagonal.
     const at = parseCellLabel(cell)!;
     const [cx, cy] = cellCentroid(grid, at.row, at.col);
@@ -374,7 +374,7 @@ describe("the project's finds settings", () => {
 
 describe("human remains", () => {
   it("place a hold that must be told to the medical examiner, the state archaeologist and the historic-preservation office", async () => {
-    const response = await logFind("resource-monitor", { category: "human-remains", description: "Fragment of long bone, possibly human", cell: inside[inside.length - 1], foundAt: "2031-06-10T09:00:00-04:00" });
+    const response = await logFind("resource-monitor", { category: "human-remains", description: "Fragment of long bone, possibly human", cell: inside[inside.length - 1], foundAt: "2026-06-10T09:00:00-04:00" });
     expect(response.status).toBe(201);
     const { hold } = await response.json();
     const notices = await HoldNotice.findAll({ where: { holdId: hold.id } });

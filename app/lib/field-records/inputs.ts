@@ -2,7 +2,7 @@ import { z } from "zod";
 import { CUSTODY_PURPOSES, FIND_CATEGORIES, FIND_STATUSES } from "../../../shared/finds/finds";
 import { TUBE_STATUSES } from "../../../shared/dewatering/tubes";
 import { DEFAULT_JAR_VOLUME_ML, JAR_CLARITIES } from "../../../shared/dewatering/jar-test";
-import { flowUnitSchema } from "../../../shared/units";
+import { flowUnitSchema, HAND_VOLUME_UNITS, litresFrom, litresTo, measureLabel } from "../../../shared/units";
 import { TURBIDITY_UNITS } from "../../../shared/water-quality/turbidity-rule";
 
 /**
@@ -126,8 +126,15 @@ export type FindInput = z.input<typeof findInputSchema>;
 export const BASKET_CATEGORIES = ["faunal", "historic-debris", "modern-debris"] as const;
 
 /**
- * One basket load brought up on a dive: a line per kind of thing in it (its category, what it is and
- * how many), all sharing one provenience. Each line becomes a catalogue entry with its count.
+ * The largest volume one basket line takes: a cubic metre (about 264 US gallons or 35 ft³), more
+ * than a lift basket filled by hand holds (practice); a larger figure is a typing slip.
+ */
+export const BASKET_LINE_MAX_LITRES = 1000;
+
+/**
+ * One basket load brought up on a dive: a line per kind of thing in it (its category, what it is,
+ * and how many, how much by volume, or both), all sharing one provenience. Each line becomes a
+ * catalogue entry with its count and volume.
  */
 export const basketLoadInputSchema = z
   .object({
@@ -136,14 +143,22 @@ export const basketLoadInputSchema = z
         z.object({
           category: z.enum(FIND_CATEGORIES, { message: `the category is one of ${BASKET_CATEGORIES.join(", ")}` }),
           description: requiredText("description of what is in this line", 4000),
-          count: z.number({ message: "the count is a whole number" }).int("the count is a whole number").min(1, "the count is at least 1").max(100_000, "the count is at most 100000"),
+          /** Checked in the refinement below, where the line's number is known. */
+          count: z.number({ message: "the count is a whole number" }).nullish(),
+          /** The volume the line filled, in the unit it was measured in (US gallons, cubic feet, litres, cubic metres). */
+          volume: z
+            .object({
+              value: z.number({ message: "the volume is a number" }).finite("the volume is a number"),
+              unit: z.enum(HAND_VOLUME_UNITS, { message: `the volume's unit is one of ${HAND_VOLUME_UNITS.join(", ")}` }),
+            }, { message: "the volume is {\"value\", \"unit\"}, e.g. {\"value\": 2.5, \"unit\": \"gal\"}" })
+            .nullish(),
           material: optionalText(120),
           taxon: optionalText(120),
           element: optionalText(120),
         }),
-        { message: "the lines are a list of {category, description, count}" },
+        { message: "the lines are a list of {category, description, count and/or volume}" },
       )
-      .min(1, "give at least one line: what the basket held and how many")
+      .min(1, "give at least one line: what the basket held, and how many or how much")
       .max(30, "at most 30 lines in one basket"),
     ...provenienceFields,
     /** A page's key against a double submit (the API takes the Idempotency-Key header instead). */
@@ -151,6 +166,22 @@ export const basketLoadInputSchema = z
   })
   .superRefine((input, context) => {
     input.lines.forEach((line, index) => {
+      const named = `line ${index + 1}`;
+      if (line.count == null && line.volume == null) {
+        context.addIssue({ code: "custom", path: ["lines", index, "count"], message: `${named}: give how many, the volume, or both` });
+      }
+      if (line.count != null && (!Number.isInteger(line.count) || line.count < 1 || line.count > 100_000)) {
+        context.addIssue({ code: "custom", path: ["lines", index, "count"], message: `${named}: the count is a whole number from 1 to 100000` });
+      }
+      if (line.volume != null) {
+        const litres = litresFrom(line.volume.value, line.volume.unit);
+        if (!(line.volume.value > 0)) {
+          context.addIssue({ code: "custom", path: ["lines", index, "volume", "value"], message: `${named}: the volume is more than 0` });
+        } else if (litres > BASKET_LINE_MAX_LITRES) {
+          const most = +litresTo(BASKET_LINE_MAX_LITRES, line.volume.unit).toPrecision(3);
+          context.addIssue({ code: "custom", path: ["lines", index, "volume", "value"], message: `${named}: at most ${most} ${measureLabel(line.volume.unit)} (${BASKET_LINE_MAX_LITRES} L) in one line of a basket; log a larger load as several baskets` });
+        }
+      }
       if (!(BASKET_CATEGORIES as readonly string[]).includes(line.category)) {
         context.addIssue({ code: "custom", path: ["lines", index, "category"], message: "a cultural find or human remains is logged on its own (Log a find): it places a stop-work hold and needs its own photos and custody" });
       }

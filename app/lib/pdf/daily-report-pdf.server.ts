@@ -2,7 +2,7 @@ import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import PDFDocument from "pdfkit";
 import type { CompiledDay } from "../../../shared/daily-report/compile";
-import { findsLine, formatNumber, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine, weatherLine } from "../../../shared/daily-report/present";
+import { byHandLine, findsLine, formatNumber, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine, weatherLine } from "../../../shared/daily-report/present";
 import { localClockOf, localDayOf } from "../../../shared/local-time";
 import { unitLabel, type LengthUnit } from "../../../shared/units";
 
@@ -342,6 +342,8 @@ function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
 
   writer.heading("Finds");
   writer.line([findsLine(report.finds.byCategory) ?? "No finds."]);
+  const byHand = byHandLine(report.finds.byHand, project.lengthUnit);
+  if (byHand) writer.line([byHand]);
   if (report.finds.catalogueNumbers.length > 0) writer.line([{ figure: report.finds.catalogueNumbers.join(", ") }], { size: 8 });
   if (report.holds.placed.length > 0) writer.line(["Holds placed: ", { figure: report.holds.placed.join(", ") }]);
   if (report.holds.lifted.length > 0) writer.line(["Holds lifted: ", { figure: report.holds.lifted.join(", ") }]);
