@@ -1,7 +1,7 @@
 import { Op, type Transaction } from "sequelize";
 import { z } from "zod";
 import { localDayOf } from "../../shared/local-time";
-import { missedIntervals, type MissedInterval, type SamplingRoutine } from "../../shared/water-quality/missed-samples";
+import { missedIntervals, type MissedInterval, type SampleGapRule, type SamplingRoutine } from "../../shared/water-quality/missed-samples";
 import { pairBackground } from "../../shared/water-quality/pairing";
 import { DEFAULT_SHUTDOWN_DISTANCE_FT, DEFAULT_STAND_DOWN_SOURCE, DEFAULT_STAND_DOWN_WAIT_MINUTES } from "../../shared/water-quality/stand-down";
 import { evaluateTurbidity, TURBIDITY_RULE_KINDS, TURBIDITY_UNITS, verdictInWords, type TurbidityEvaluation, type TurbidityRule, type TurbidityUnit } from "../../shared/water-quality/turbidity-rule";
@@ -50,10 +50,12 @@ export interface AlertRecipientsView {
 }
 
 export interface WaterQualitySettingsView {
-  /** "interval": a compliance sample every `samplingIntervalMinutes`; "per-day": `samplesPerDay`, at least `minimumGapHours` apart. */
+  /** "interval": a compliance sample every `samplingIntervalMinutes`; "per-day": `samplesPerDay`, `minimumGapHours` apart as `gapRule` says. */
   samplingMode: "interval" | "per-day";
   samplesPerDay: number | null;
   minimumGapHours: number | null;
+  /** Per-day routines: "at-least" so long apart or more, "at-most" no more than so long apart; null for an interval. */
+  gapRule: SampleGapRule | null;
   alertRecipients: AlertRecipientsView;
   samplingIntervalMinutes: number;
   workdayStart: string;
@@ -85,6 +87,7 @@ export const settingsInputSchema = z
     samplingMode: z.enum(["interval", "per-day"], { message: "the routine is an interval or so many samples a day" }).default("interval"),
     samplesPerDay: z.preprocess((value) => (value === "" ? null : value), z.coerce.number().int("a whole number of samples").min(1, "at least 1 sample a day").max(24, "at most 24 samples a day").nullish()),
     minimumGapHours: z.preprocess((value) => (value === "" ? null : value), z.coerce.number().finite().min(0, "0 hours or more").max(24, "at most 24 hours").nullish()),
+    gapRule: z.enum(["at-least", "at-most"], { message: "the spacing is at least or no more than so many hours apart" }).default("at-least"),
     alertRoles: roleList,
     alertUserIds: idList,
     alertAddresses: addressList.default([]),
@@ -103,8 +106,12 @@ export const settingsInputSchema = z
   .refine((input) => minutesOfClock(input.workdayEnd) > minutesOfClock(input.workdayStart), { path: ["workdayEnd"], message: "the work day ends after it starts" })
   .refine((input) => input.samplingMode !== "per-day" || input.samplesPerDay != null, { path: ["samplesPerDay"], message: "give how many samples a day the permit asks for" })
   .refine(
-    (input) => input.samplingMode !== "per-day" || input.samplesPerDay == null || ((input.samplesPerDay - 1) * (input.minimumGapHours ?? 0) * 60) <= minutesOfClock(input.workdayEnd) - minutesOfClock(input.workdayStart),
+    (input) => input.samplingMode !== "per-day" || input.gapRule !== "at-least" || input.samplesPerDay == null || ((input.samplesPerDay - 1) * (input.minimumGapHours ?? 0) * 60) <= minutesOfClock(input.workdayEnd) - minutesOfClock(input.workdayStart),
     { path: ["minimumGapHours"], message: "that many samples that far apart do not fit in the work day" },
+  )
+  .refine(
+    (input) => input.samplingMode !== "per-day" || input.gapRule !== "at-most" || (input.minimumGapHours ?? 0) > 0,
+    { path: ["minimumGapHours"], message: "give how many hours apart the samples may be at most (more than 0)" },
   )
   .refine((input) => input.alertRoles.length + input.alertUserIds.length + input.alertAddresses.length > 0, { path: ["alertRoles"], message: "alert someone: choose a role, a member or an outside address" });
 export type SettingsInput = z.infer<typeof settingsInputSchema>;
@@ -115,13 +122,14 @@ export function samplingRoutineOf(settings: WaterQualitySettingsView): SamplingR
     intervalMinutes: settings.samplingIntervalMinutes, workdayStartMinutes: minutesOfClock(settings.workdayStart), workdayEndMinutes: minutesOfClock(settings.workdayEnd),
     samplesPerDay: settings.samplingMode === "per-day" ? settings.samplesPerDay : null,
     minimumGapMinutes: settings.samplingMode === "per-day" ? Math.round((settings.minimumGapHours ?? 0) * 60) : null,
+    gapRule: settings.samplingMode === "per-day" ? settings.gapRule : null,
   };
 }
 
 /** The routine in words, as the compliance page states it. */
 export function samplingRoutineInWords(settings: WaterQualitySettingsView): string {
   const when = settings.samplingMode === "per-day"
-    ? `${settings.samplesPerDay} compliance sample${settings.samplesPerDay === 1 ? "" : "s"} a day${settings.minimumGapHours ? `, at least ${settings.minimumGapHours} h apart` : ""}`
+    ? `${settings.samplesPerDay} compliance sample${settings.samplesPerDay === 1 ? "" : "s"} a day${settings.minimumGapHours ? `, ${settings.gapRule === "at-most" ? "no more than" : "at least"} ${settings.minimumGapHours} h apart` : ""}`
     : `every ${settings.samplingIntervalMinutes} min`;
   return `${when}, from ${settings.workdayStart} to ${settings.workdayEnd}`;
 }
@@ -143,6 +151,7 @@ export async function getWaterQualitySettings(project: ProjectView): Promise<Wat
       samplingMode: "interval",
       samplesPerDay: null,
       minimumGapHours: null,
+      gapRule: null,
       alertRecipients: { roles: DEFAULT_ALERT_ROLES, userIds: [], addresses: [] },
       isDefault: true,
     };
@@ -152,6 +161,7 @@ export async function getWaterQualitySettings(project: ProjectView): Promise<Wat
     samplingMode: row.samplesPerDay != null ? "per-day" : "interval",
     samplesPerDay: row.samplesPerDay ?? null,
     minimumGapHours: row.samplesPerDay != null ? (row.minimumGapMinutes ?? 0) / 60 : null,
+    gapRule: row.samplesPerDay != null ? (row.gapRule ?? "at-least") : null,
     alertRecipients: recipients ? { roles: recipients.roles as Role[], userIds: recipients.userIds, addresses: recipients.addresses } : { roles: DEFAULT_ALERT_ROLES, userIds: [], addresses: [] },
     samplingIntervalMinutes: row.samplingIntervalMinutes,
     workdayStart: clockOf(row.workdayStartMinutes),
@@ -177,6 +187,7 @@ export async function saveWaterQualitySettings(project: ProjectView, user: UserV
     species: input.species,
     samplesPerDay: input.samplingMode === "per-day" ? input.samplesPerDay! : null,
     minimumGapMinutes: input.samplingMode === "per-day" ? Math.round((input.minimumGapHours ?? 0) * 60) : null,
+    gapRule: input.samplingMode === "per-day" ? input.gapRule : null,
     alertRecipients: { roles: input.alertRoles, userIds: input.alertUserIds, addresses: input.alertAddresses },
     updatedById: user.id,
   };
