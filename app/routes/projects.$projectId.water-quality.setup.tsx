@@ -187,7 +187,7 @@ export default function WaterQualitySetup({ loaderData, actionData }: Route.Comp
               <input type="radio" name="samplingMode" value="per-day" defaultChecked={settings.samplingMode === "per-day"} className="mt-1" />
               <span>So many a day, spaced as the permit words it: at least so long apart (spread over the day) or no more than so long apart (taken close together)</span>
             </label>
-            <div className="grid grid-cols-3 gap-3 pl-6">
+            <div className="grid grid-cols-1 gap-3 pl-6 sm:grid-cols-3">
               <TextField label="Samples a day" name="samplesPerDay" inputMode="numeric" defaultValue={settings.samplesPerDay ?? ""} error={errorsFor("settings").samplesPerDay} />
               <div>
                 <label htmlFor="gapRule" className="block text-sm font-medium">Spacing</label>
