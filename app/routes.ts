@@ -72,6 +72,8 @@ export default [
   route("api/projects/:projectId/teams", "routes/api.projects.$projectId.teams.ts"),
   route("api/projects/:projectId/teams/:teamId", "routes/api.projects.$projectId.teams.$teamId.ts"),
   route("api/projects/:projectId/water-quality/readings", "routes/api.projects.$projectId.water-quality.readings.ts"),
+  route("api/projects/:projectId/water-quality/readings/:readingId/photos", "routes/api.projects.$projectId.water-quality.readings.$readingId.photos.ts"),
+  route("api/projects/:projectId/water-quality/readings/:readingId/photos/:photoId", "routes/api.projects.$projectId.water-quality.readings.$readingId.photos.$photoId.ts"),
   route("api/projects/:projectId/water-quality/rules", "routes/api.projects.$projectId.water-quality.rules.ts"),
   route("api/projects/:projectId/water-quality/stations", "routes/api.projects.$projectId.water-quality.stations.ts"),
   route("api/projects/:projectId/wildlife/sightings", "routes/api.projects.$projectId.wildlife.sightings.ts"),

@@ -2,7 +2,8 @@ import { describe, expect, it } from "vitest";
 import { missedIntervals } from "../shared/water-quality/missed-samples";
 import { pairBackground } from "../shared/water-quality/pairing";
 import { evaluateTurbidity } from "../shared/water-quality/turbidity-rule";
-import { buildDemoWaterQuality, EXCEEDANCE_DAY, MISSED_AFTERNOON_DAY } from "./water-quality";
+import { buildDemoWaterQuality, EXCEEDANCE_DAY, MISSED_AFTERNOON_DAY, recentDemoSightings } from "./water-quality";
+import { DEFAULT_SHUTDOWN_DISTANCE_FT } from "../shared/water-quality/stand-down";
 import { PROJECT } from "./scenario";
 
 // The demo's story holds when its readings go through the same pure rules the app applies.
@@ -35,5 +36,29 @@ describe("the demo water-quality record", () => {
 
   it("is the same for the same seed", () => {
     expect(buildDemoWaterQuality()).toEqual(demo);
+  });
+});
+
+describe("the demo's sightings of the last day, placed before the seeding time", () => {
+  const seededAtMs = Date.parse("2027-03-09T13:47:31Z");
+  const recent = recentDemoSightings(seededAtMs);
+
+  it("fall within the 24 hours before the seeding, none in the future (the map's default window)", () => {
+    expect(recent.length).toBeGreaterThan(0);
+    for (const sighting of recent) {
+      const ageMs = seededAtMs - Date.parse(sighting.seenAt);
+      expect(ageMs).toBeGreaterThan(0);
+      expect(ageMs).toBeLessThan(24 * 3_600_000);
+    }
+  });
+
+  it("each has a position and is beyond the default shutdown distance, so none stops today's work (practice)", () => {
+    expect(recent.every((sighting) => sighting.position !== undefined && !sighting.gone)).toBe(true);
+    expect(recent.every((sighting) => sighting.distance! > DEFAULT_SHUTDOWN_DISTANCE_FT)).toBe(true);
+  });
+
+  it("is the same for the same seeding time, whole minutes before it (invariant)", () => {
+    expect(recentDemoSightings(seededAtMs + 20_000)).toEqual(recent);
+    expect(recent.map((sighting) => sighting.seenAt)).toEqual(["2027-03-09T11:17:00.000Z", "2027-03-09T06:47:00.000Z"]);
   });
 });

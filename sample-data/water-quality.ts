@@ -45,6 +45,8 @@ export interface DemoSighting {
   gone: boolean;
   observer: string;
   note: string;
+  /** Where the animal was, in the project CRS (drawn on the map); none for the older sightings. */
+  position?: { x: number; y: number };
 }
 
 const at = (day: string, clock: string) => new Date(instantOfLocal(day, Number(clock.slice(0, 2)) * 60 + Number(clock.slice(3, 5)), PROJECT.timeZone)).toISOString();
@@ -89,4 +91,24 @@ export function buildDemoWaterQuality(seed = DEMO_WATER_QUALITY_SEED) {
     { species: "manatee", seenAt: at("2026-11-13", "14:50"), distance: 150, gone: false, observer: "Marisol Quaye", note: "Moving away up-run." },
   ];
   return { stations: DEMO_STATIONS, rule: DEMO_RULE, readings, resolution, sightings };
+}
+
+/**
+ * Sightings in the hours before the demo is seeded, so that a freshly seeded demo's map shows the
+ * last day's sightings (the November ones are long past by then). Each is a fixed number of
+ * minutes before the seeding time, beyond the default shutdown distance of 50 ft (so none starts
+ * a stand-down that would stop today's work), at a position in the run: the same seeding time
+ * gives the same sightings.
+ */
+export const RECENT_SIGHTINGS = [
+  { minutesBefore: 150, species: "sea turtle", distance: 180, position: { x: 600_520, y: 1_679_930 }, observer: "Tobias Fennimore", note: "Surfaced twice mid-run, heading down-run." },
+  { minutesBefore: 420, species: "manatee", distance: 240, position: { x: 600_840, y: 1_679_825 }, observer: "Marisol Quaye", note: "Single adult below the compliance station, resting." },
+] as const;
+
+export function recentDemoSightings(seededAtMs: number): DemoSighting[] {
+  const minute = Math.floor(seededAtMs / 60_000) * 60_000;
+  return RECENT_SIGHTINGS.map((sighting) => ({
+    species: sighting.species, seenAt: new Date(minute - sighting.minutesBefore * 60_000).toISOString(), distance: sighting.distance, gone: false,
+    observer: sighting.observer, note: sighting.note, position: { ...sighting.position },
+  }));
 }

@@ -1,13 +1,16 @@
 import { Op, type Transaction } from "sequelize";
 import { z } from "zod";
 import { localDayOf } from "../../shared/local-time";
-import { missedIntervals, type MissedInterval, type SamplingRoutine } from "../../shared/water-quality/missed-samples";
+import { missedIntervals, type MissedInterval, type SampleGapRule, type SamplingRoutine } from "../../shared/water-quality/missed-samples";
 import { pairBackground } from "../../shared/water-quality/pairing";
 import { DEFAULT_SHUTDOWN_DISTANCE_FT, DEFAULT_STAND_DOWN_SOURCE, DEFAULT_STAND_DOWN_WAIT_MINUTES } from "../../shared/water-quality/stand-down";
 import { evaluateTurbidity, TURBIDITY_RULE_KINDS, TURBIDITY_UNITS, verdictInWords, type TurbidityEvaluation, type TurbidityRule, type TurbidityUnit } from "../../shared/water-quality/turbidity-rule";
 import { convertLength } from "../../shared/units";
 import { ALERT_ROLE_CHOICES, DEPTH_RULES, STATION_KINDS, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
-import { getSequelize, Membership, MonitoringStation, Project, StopWorkEvent, TurbidityRuleRecord, User, WaterQualityReading, WaterQualitySettings } from "~/lib/db.server";
+import { getSequelize, Membership, MonitoringStation, Project, StopWorkEvent, TurbidityRuleRecord, User, WaterQualityReading, WaterQualityReadingPhoto, WaterQualitySettings } from "~/lib/db.server";
+import type { StagedFile } from "~/lib/import/stage-upload.server";
+import { keepPhoto, keptPhotoBytes, presentPhoto, type KeptPhoto, type PhotoView } from "~/lib/images/stored-photo.server";
+import type { StoredObject } from "~/lib/storage/storage.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { queueMail } from "~/lib/mail/outbox.server";
@@ -47,10 +50,12 @@ export interface AlertRecipientsView {
 }
 
 export interface WaterQualitySettingsView {
-  /** "interval": a compliance sample every `samplingIntervalMinutes`; "per-day": `samplesPerDay`, at least `minimumGapHours` apart. */
+  /** "interval": a compliance sample every `samplingIntervalMinutes`; "per-day": `samplesPerDay`, `minimumGapHours` apart as `gapRule` says. */
   samplingMode: "interval" | "per-day";
   samplesPerDay: number | null;
   minimumGapHours: number | null;
+  /** Per-day routines: "at-least" so long apart or more, "at-most" no more than so long apart; null for an interval. */
+  gapRule: SampleGapRule | null;
   alertRecipients: AlertRecipientsView;
   samplingIntervalMinutes: number;
   workdayStart: string;
@@ -82,6 +87,7 @@ export const settingsInputSchema = z
     samplingMode: z.enum(["interval", "per-day"], { message: "the routine is an interval or so many samples a day" }).default("interval"),
     samplesPerDay: z.preprocess((value) => (value === "" ? null : value), z.coerce.number().int("a whole number of samples").min(1, "at least 1 sample a day").max(24, "at most 24 samples a day").nullish()),
     minimumGapHours: z.preprocess((value) => (value === "" ? null : value), z.coerce.number().finite().min(0, "0 hours or more").max(24, "at most 24 hours").nullish()),
+    gapRule: z.enum(["at-least", "at-most"], { message: "the spacing is at least or no more than so many hours apart" }).default("at-least"),
     alertRoles: roleList,
     alertUserIds: idList,
     alertAddresses: addressList.default([]),
@@ -100,8 +106,12 @@ export const settingsInputSchema = z
   .refine((input) => minutesOfClock(input.workdayEnd) > minutesOfClock(input.workdayStart), { path: ["workdayEnd"], message: "the work day ends after it starts" })
   .refine((input) => input.samplingMode !== "per-day" || input.samplesPerDay != null, { path: ["samplesPerDay"], message: "give how many samples a day the permit asks for" })
   .refine(
-    (input) => input.samplingMode !== "per-day" || input.samplesPerDay == null || ((input.samplesPerDay - 1) * (input.minimumGapHours ?? 0) * 60) <= minutesOfClock(input.workdayEnd) - minutesOfClock(input.workdayStart),
+    (input) => input.samplingMode !== "per-day" || input.gapRule !== "at-least" || input.samplesPerDay == null || ((input.samplesPerDay - 1) * (input.minimumGapHours ?? 0) * 60) <= minutesOfClock(input.workdayEnd) - minutesOfClock(input.workdayStart),
     { path: ["minimumGapHours"], message: "that many samples that far apart do not fit in the work day" },
+  )
+  .refine(
+    (input) => input.samplingMode !== "per-day" || input.gapRule !== "at-most" || (input.minimumGapHours ?? 0) > 0,
+    { path: ["minimumGapHours"], message: "give how many hours apart the samples may be at most (more than 0)" },
   )
   .refine((input) => input.alertRoles.length + input.alertUserIds.length + input.alertAddresses.length > 0, { path: ["alertRoles"], message: "alert someone: choose a role, a member or an outside address" });
 export type SettingsInput = z.infer<typeof settingsInputSchema>;
@@ -112,13 +122,14 @@ export function samplingRoutineOf(settings: WaterQualitySettingsView): SamplingR
     intervalMinutes: settings.samplingIntervalMinutes, workdayStartMinutes: minutesOfClock(settings.workdayStart), workdayEndMinutes: minutesOfClock(settings.workdayEnd),
     samplesPerDay: settings.samplingMode === "per-day" ? settings.samplesPerDay : null,
     minimumGapMinutes: settings.samplingMode === "per-day" ? Math.round((settings.minimumGapHours ?? 0) * 60) : null,
+    gapRule: settings.samplingMode === "per-day" ? settings.gapRule : null,
   };
 }
 
 /** The routine in words, as the compliance page states it. */
 export function samplingRoutineInWords(settings: WaterQualitySettingsView): string {
   const when = settings.samplingMode === "per-day"
-    ? `${settings.samplesPerDay} compliance sample${settings.samplesPerDay === 1 ? "" : "s"} a day${settings.minimumGapHours ? `, at least ${settings.minimumGapHours} h apart` : ""}`
+    ? `${settings.samplesPerDay} compliance sample${settings.samplesPerDay === 1 ? "" : "s"} a day${settings.minimumGapHours ? `, ${settings.gapRule === "at-most" ? "no more than" : "at least"} ${settings.minimumGapHours} h apart` : ""}`
     : `every ${settings.samplingIntervalMinutes} min`;
   return `${when}, from ${settings.workdayStart} to ${settings.workdayEnd}`;
 }
@@ -140,6 +151,7 @@ export async function getWaterQualitySettings(project: ProjectView): Promise<Wat
       samplingMode: "interval",
       samplesPerDay: null,
       minimumGapHours: null,
+      gapRule: null,
       alertRecipients: { roles: DEFAULT_ALERT_ROLES, userIds: [], addresses: [] },
       isDefault: true,
     };
@@ -149,6 +161,7 @@ export async function getWaterQualitySettings(project: ProjectView): Promise<Wat
     samplingMode: row.samplesPerDay != null ? "per-day" : "interval",
     samplesPerDay: row.samplesPerDay ?? null,
     minimumGapHours: row.samplesPerDay != null ? (row.minimumGapMinutes ?? 0) / 60 : null,
+    gapRule: row.samplesPerDay != null ? (row.gapRule ?? "at-least") : null,
     alertRecipients: recipients ? { roles: recipients.roles as Role[], userIds: recipients.userIds, addresses: recipients.addresses } : { roles: DEFAULT_ALERT_ROLES, userIds: [], addresses: [] },
     samplingIntervalMinutes: row.samplingIntervalMinutes,
     workdayStart: clockOf(row.workdayStartMinutes),
@@ -174,6 +187,7 @@ export async function saveWaterQualitySettings(project: ProjectView, user: UserV
     species: input.species,
     samplesPerDay: input.samplingMode === "per-day" ? input.samplesPerDay! : null,
     minimumGapMinutes: input.samplingMode === "per-day" ? Math.round((input.minimumGapHours ?? 0) * 60) : null,
+    gapRule: input.samplingMode === "per-day" ? input.gapRule : null,
     alertRecipients: { roles: input.alertRoles, userIds: input.alertUserIds, addresses: input.alertAddresses },
     updatedById: user.id,
   };
@@ -353,6 +367,8 @@ export interface ReadingRecorded {
   stopWork?: StopWorkRef;
   /** Who was e-mailed about the exceedance. */
   alerted?: string[];
+  /** The photo sent with the reading (a page's form), when one was. */
+  photoId?: number;
   /** Safety notices in plain sentences (an exceedance and its stop-work); empty when none apply. */
   notices: string[];
   /**
@@ -389,6 +405,8 @@ export interface ReadingView {
   temperature: number | null;
   evaluation: TurbidityEvaluation | null;
   verdict: string | null;
+  /** Photos of the reading (the sample, the instrument's display, the water at the station), oldest first; the camera's data is not shown. */
+  photos: PhotoView[];
 }
 
 function evaluationOf(reading: WaterQualityReading): TurbidityEvaluation | null {
@@ -403,6 +421,7 @@ function presentReading(reading: WaterQualityReading): ReadingView {
     value: reading.value, unit: reading.unit, depth: reading.depth, instrument: reading.instrument, calibratedAt: reading.calibratedAt?.toISOString() ?? null,
     sampledBy: reading.sampledBy, note: reading.note, ph: reading.ph, dissolvedOxygen: reading.dissolvedOxygenMgL, temperature: reading.temperatureC,
     evaluation, verdict: evaluation ? verdictInWords(evaluation, reading.unit, reading.rule?.unit ?? "NTU") : null,
+    photos: (reading.photos ?? []).map(presentPhoto),
   };
 }
 
@@ -425,14 +444,15 @@ async function ruleFor(project: ProjectView, station: MonitoringStation, transac
  * stop-work event (unless one is already open at that station) and e-mails the manager, the dive
  * supervisor and the dewatering operator at once, with the figures.
  */
-export async function recordReading(project: ProjectView, user: UserView, input: ReadingInput, ip: string | null = null, options: { alert?: boolean } = {}): Promise<ReadingRecorded> {
+export async function recordReading(project: ProjectView, user: UserView, input: ReadingInput, ip: string | null = null, options: { alert?: boolean; photo?: StagedFile | null } = {}): Promise<ReadingRecorded> {
   const takenAt = new Date(input.takenAt);
   if (takenAt.getTime() > Date.now() + 5 * 60_000) throw new ValidationError({ field: "takenAt", message: "The sample time is in the future." });
   if (input.idempotencyKey) {
     const earlier = await WaterQualityReading.findOne({ where: { projectId: project.id, idempotencyKey: input.idempotencyKey } });
     if (earlier) return replayOf(project, earlier);
   }
-  const outcome = await getSequelize().transaction(async (transaction) => {
+  // A photo sent with the reading is checked first: a refused photo stores nothing of the reading either.
+  const write = async (transaction: Transaction, kept: KeptPhoto | null) => {
     const idempotency = await claimIdempotencyKey(transaction);
     // The project row's lock first: an assignment for today waits on it before looking for open
     // stop-work events (assignments.server.ts), so one opened here is never slipped past.
@@ -469,6 +489,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     );
     await idempotency.created(reading.id);
     await recordAudit({ action: AUDIT_ACTIONS.waterQualityReadingRecorded, projectId: project.id, userId: user.id, ip, detail: { id: reading.id, station: station.name, takenAt: input.takenAt, value: input.value, unit: input.unit, exceeds: evaluation?.exceeds ?? null } }, transaction);
+    const photoId = kept ? await createReadingPhotoRow(project, user, reading.id, kept, transaction, ip) : null;
     let stopWork: StopWorkEvent | null = null;
     let opened = false;
     const late = station.kind === "background" ? await judgeWaitingReadings(project, user, reading, ip, transaction) : [];
@@ -483,8 +504,11 @@ export async function recordReading(project: ProjectView, user: UserView, input:
         await recordAudit({ action: AUDIT_ACTIONS.stopWorkOpened, projectId: project.id, userId: user.id, ip, detail: { id: stopWork.id, station: station.name, readingId: reading.id } }, transaction);
       }
     }
-    return { reading, station, evaluation, stopWork, opened, late, ruleUnit: (rule?.unit ?? "NTU") as TurbidityUnit };
-  });
+    return { reading, station, evaluation, stopWork, opened, late, photoId, ruleUnit: (rule?.unit ?? "NTU") as TurbidityUnit };
+  };
+  const outcome = options.photo
+    ? await keepPhoto(options.photo, readingPhotoFolder(project), (kept, transaction) => write(transaction, kept))
+    : await getSequelize().transaction((transaction) => write(transaction, null));
   const result: ReadingRecorded = {
     id: outcome.reading.id,
     evaluation: outcome.evaluation,
@@ -492,6 +516,7 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     notices: [],
   };
   if (outcome.stopWork) result.stopWork = { id: outcome.stopWork.id, notifyBy: outcome.stopWork.notifyBy.toISOString() };
+  if (outcome.photoId !== null) result.photoId = outcome.photoId;
   result.notices = readingNotices({ verdict: result.verdict, exceeds: outcome.evaluation?.exceeds ?? null, stopWork: result.stopWork });
   if (outcome.opened && outcome.evaluation && options.alert !== false) result.alerted = await alertExceedance(project, outcome.station.name, input, outcome.evaluation, outcome.stopWork!);
   if (outcome.late.length > 0) {
@@ -509,6 +534,38 @@ export async function recordReading(project: ProjectView, user: UserView, input:
     if (alerted.size > 0) result.alerted = [...alerted];
   }
   return result;
+}
+
+// ---- Reading photos -------------------------------------------------------------------------
+
+const readingPhotoFolder = (project: ProjectView) => ["projects", project.id, "water-quality", "readings"];
+
+async function createReadingPhotoRow(project: ProjectView, user: UserView, readingId: number, photo: KeptPhoto, transaction: Transaction, ip: string | null): Promise<number> {
+  const created = await WaterQualityReadingPhoto.create({ ...photo, readingId, projectId: project.id, uploadedById: user.id }, { transaction });
+  await recordAudit({ action: AUDIT_ACTIONS.waterQualityReadingPhotoAdded, projectId: project.id, userId: user.id, ip, detail: { readingId, photoId: created.id, sizeBytes: created.sizeBytes } }, transaction);
+  return created.id;
+}
+
+/**
+ * Adds a photo to a reading already recorded (checked, re-encoded without the camera's data, a
+ * thumbnail made); NotFoundError naming `readingId` when the reading is not this project's.
+ */
+export async function addReadingPhoto(project: ProjectView, user: UserView, readingId: number, staged: StagedFile, ip: string | null = null): Promise<{ id: number }> {
+  const reading = await WaterQualityReading.findOne({ where: { id: readingId, projectId: project.id }, attributes: ["id"] });
+  if (!reading) throw new NotFoundError({ field: "readingId", message: "There is no such reading on this project." });
+  return { id: await keepPhoto(staged, readingPhotoFolder(project), async (kept, transaction) => {
+    const idempotency = await claimIdempotencyKey(transaction);
+    const photoId = await createReadingPhotoRow(project, user, reading.id, kept, transaction, ip);
+    await idempotency.created(photoId);
+    return photoId;
+  }) };
+}
+
+/** A reading photo's bytes (or its thumbnail's), after the caller's access to the project was checked. */
+export async function readingPhotoBytes(project: ProjectView, readingId: number, photoId: number, size: "full" | "thumb"): Promise<StoredObject> {
+  const photo = await WaterQualityReadingPhoto.findOne({ where: { id: photoId, readingId, projectId: project.id } });
+  if (!photo) throw new NotFoundError("There is no such photo of this reading.");
+  return keptPhotoBytes(photo, size);
 }
 
 interface JudgedLater {
@@ -672,7 +729,12 @@ export async function listReadings(project: ProjectView, query: z.infer<typeof r
       projectId: project.id,
       ...(query.from || query.to ? { localDay: { ...(query.from ? { [Op.gte]: query.from } : {}), ...(query.to ? { [Op.lte]: query.to } : {}) } } : {}),
     },
-    include: [{ model: MonitoringStation, as: "station", attributes: ["name", "kind"], ...(stationWhere ? { where: stationWhere } : {}) }, { model: TurbidityRuleRecord, as: "rule", attributes: ["unit"] }],
+    include: [
+      { model: MonitoringStation, as: "station", attributes: ["name", "kind"], ...(stationWhere ? { where: stationWhere } : {}) },
+      { model: TurbidityRuleRecord, as: "rule", attributes: ["unit"] },
+      // Read apart (one query for the readings listed), so the newest-so-many limit counts readings, not photos.
+      { model: WaterQualityReadingPhoto, as: "photos", attributes: ["id", "readingId", "sizeBytes", "widthPx", "heightPx", "originalFileName", "createdAt"], separate: true, order: [["id", "ASC"]] },
+    ],
     order: options.latest ? [["takenAt", "DESC"], ["id", "DESC"]] : [["takenAt", "ASC"], ["id", "ASC"]],
     ...(options.latest ? { limit: options.latest } : {}),
   });

@@ -112,7 +112,7 @@ export function meta() {
 const POLL_MS = 30_000;
 
 const VIEW_TITLES: Record<MapView, string> = { status: "Cell status", thickness: "Remaining sediment thickness", removed: "Removed volume per cell" };
-const LAYER_NAMES: Record<LayerKey, string> = { cells: "Cells", bands: "Bands", zones: "Zones", workLimit: "Work limit", shoreline: "Shoreline", labels: "Labels", monitoring: "Stations and sightings" };
+const LAYER_NAMES: Record<LayerKey, string> = { cells: "Cells", bands: "Bands", zones: "Zones", workLimit: "Work limit", shoreline: "Shoreline", labels: "Labels", monitoring: "Stations and sightings", tubes: "Geotextile tubes" };
 const BAND_TITLES = { remaining: "Remaining thickness bands", depth: "Bottom depth bands" } as const;
 
 const tomorrow = () => new Date(Date.now() + 86_400_000).toISOString().slice(0, 10);
@@ -451,7 +451,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
       sections.push({ title: "Marked cells", entries: marks });
     }
     const tubes = loaderData.tubes;
-    if (tubes.count > 0) {
+    if (layers.tubes && tubes.count > 0) {
       sections.push({
         title: "Geotextile tubes",
         note: "On the laydown area, to scale; hauled tubes are not drawn.",
@@ -463,7 +463,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
     }
     if (layers.monitoring) sections.push(...monitoringLegend(monitoring, shownSightings, sightingHours));
     return sections;
-  }, [monitoring, shownSightings, sightingHours, layers.monitoring, loaderData.tubes, layers.bands, layers.cells, bands, bandSurface, data, loadError, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
+  }, [monitoring, shownSightings, sightingHours, layers.monitoring, layers.tubes, loaderData.tubes, layers.bands, layers.cells, bands, bandSurface, data, loadError, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
 
   if (!loaderData.hasWorkLimit) {
     return <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">Set the project's work limit to see it on the map.</p>;

@@ -185,12 +185,20 @@ export default function WaterQualitySetup({ loaderData, actionData }: Route.Comp
             <div className="pl-6"><TextField label="Sample every (min)" name="samplingIntervalMinutes" inputMode="numeric" defaultValue={settings.samplingIntervalMinutes} error={errorsFor("settings").samplingIntervalMinutes} /></div>
             <label className="flex items-start gap-2 text-sm">
               <input type="radio" name="samplingMode" value="per-day" defaultChecked={settings.samplingMode === "per-day"} className="mt-1" />
-              <span>So many a day, at least so long apart (e.g. twice daily, at least 4 h apart)</span>
+              <span>So many a day, spaced as the permit words it: at least so long apart (spread over the day) or no more than so long apart (taken close together)</span>
             </label>
-            <div className="grid grid-cols-2 gap-3 pl-6">
+            <div className="grid grid-cols-1 gap-3 pl-6 sm:grid-cols-3">
               <TextField label="Samples a day" name="samplesPerDay" inputMode="numeric" defaultValue={settings.samplesPerDay ?? ""} error={errorsFor("settings").samplesPerDay} />
-              <TextField label="At least apart (h)" name="minimumGapHours" inputMode="decimal" defaultValue={settings.minimumGapHours ?? ""} error={errorsFor("settings").minimumGapHours} />
+              <div>
+                <label htmlFor="gapRule" className="block text-sm font-medium">Spacing</label>
+                <select id="gapRule" name="gapRule" defaultValue={settings.gapRule ?? "at-least"} className="mt-1 block w-full rounded border border-line bg-panel px-2 py-2">
+                  <option value="at-least">at least</option>
+                  <option value="at-most">no more than</option>
+                </select>
+              </div>
+              <TextField label="Hours apart" name="minimumGapHours" inputMode="decimal" defaultValue={settings.minimumGapHours ?? ""} error={errorsFor("settings").minimumGapHours} />
             </div>
+            <p className="pl-6 text-xs text-caution">Examples such as "twice daily, at least 4 h apart" or "twice daily, no more than 4 h apart" are recalled from memory of permit wording, not from this project's permit: copy the permit's own words and name them in the source below.</p>
             <div className="grid grid-cols-2 gap-3">
               <TextField label="Work day from" name="workdayStart" type="time" defaultValue={settings.workdayStart} error={errorsFor("settings").workdayStart} />
               <TextField label="to" name="workdayEnd" type="time" defaultValue={settings.workdayEnd} error={errorsFor("settings").workdayEnd} />

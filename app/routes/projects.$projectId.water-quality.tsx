@@ -18,6 +18,10 @@ import { listSightings, listStandDowns, recordSighting, sightingInputSchema } fr
 import { STAND_DOWN_CAUTION, WATER_QUALITY_CAUTION } from "../../shared/water-quality/wording";
 import type { Route } from "./+types/projects.$projectId.water-quality";
 import { readPageForm } from "~/lib/http/body.server";
+import type { ProjectAccess } from "~/lib/auth/access.server";
+import { PHOTO_MAX_BYTES } from "~/lib/images/photo.server";
+import { stagePhotoUpload } from "~/lib/images/stored-photo.server";
+import { discardStagedFile, UploadRefused, type StagedUpload } from "~/lib/import/stage-upload.server";
 
 // The water-quality page: a phone-friendly reading form with the verdict in words at once, the
 // stop-work events with their resumption and agency notice, and wildlife sightings and stand-downs.
@@ -47,12 +51,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     canResume: can(access, "stop-work.resume"),
     canSight: can(access, "wildlife.record"),
     canConfigure: can(access, "water-quality.configure"),
+    photoMaxMegabytes: PHOTO_MAX_BYTES / 1024 / 1024,
   };
 }
 
 /** A form's number field: empty is null, anything else must read as a number (the schema names it otherwise). */
-const optionalNumber = (value: FormDataEntryValue | null) => (value === null || String(value).trim() === "" ? null : Number(String(value).trim()));
-const text = (value: FormDataEntryValue | null) => (value === null ? "" : String(value));
+const optionalNumber = (value: string | null) => (value === null || String(value).trim() === "" ? null : Number(String(value).trim()));
+const text = (value: string | null) => (value === null ? "" : String(value));
 
 /** A datetime-local value (project wall time, YYYY-MM-DDTHH:MM) as an ISO instant; the text itself when it does not read. */
 function instantFromLocal(value: string, timeZone: string): string {
@@ -68,9 +73,31 @@ function refused(intent: string, details: readonly ErrorDetail[], status = 400) 
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const form = await readPageForm(request);
-  const intent = text(form.get("intent"));
   const access = await requireRole(request, params.projectId);
+  // The reading form carries its photo, so it is multipart (staged within the photo limit, and only
+  // for a role that takes readings); the other forms are url-encoded, read within the page-form limit.
+  let staged: StagedUpload;
+  if ((request.headers.get("Content-Type") ?? "").toLowerCase().startsWith("multipart/form-data")) {
+    requireAllowed(access, "water-quality.record");
+    try {
+      staged = await stagePhotoUpload(request);
+    } catch (error) {
+      if (error instanceof UploadRefused) return refused("reading", [{ field: "file", message: error.message }]);
+      throw error;
+    }
+  } else {
+    staged = { fields: Object.fromEntries([...(await readPageForm(request)).entries()].filter((entry): entry is [string, string] => typeof entry[1] === "string")), file: null };
+  }
+  try {
+    return await act(access, staged, clientAddress(request));
+  } finally {
+    if (staged.file) await discardStagedFile(staged.file.path);
+  }
+}
+
+async function act(access: ProjectAccess, staged: StagedUpload, ip: string | null) {
+  const form = { get: (name: string): string | null => staged.fields[name] ?? null };
+  const intent = text(form.get("intent"));
   const actionOf = { reading: "water-quality.record", resume: "stop-work.resume", notice: "stop-work.resume", sighting: "wildlife.record" } as const;
   if (!(intent in actionOf)) {
     // A role that may do nothing here is refused before its form is looked at.
@@ -79,9 +106,9 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
   requireAllowed(access, actionOf[intent as keyof typeof actionOf]);
   const { project, user } = access;
-  const ip = clientAddress(request);
   try {
     if (intent === "reading") {
+      if (staged.emptyFileName) return refused(intent, [{ field: "file", message: `"${staged.emptyFileName}" is an empty file; choose the photo again.` }]);
       const parsed = readingInputSchema.safeParse({
         station: text(form.get("station")), takenAt: instantFromLocal(text(form.get("takenAt")), project.timeZone), value: optionalNumber(form.get("value")), unit: text(form.get("unit")),
         depth: optionalNumber(form.get("depth")), instrument: text(form.get("instrument")), calibratedAt: text(form.get("calibratedAt")) ? instantFromLocal(text(form.get("calibratedAt")), project.timeZone) : null,
@@ -89,8 +116,9 @@ export async function action({ request, params }: Route.ActionArgs) {
         temperature: optionalNumber(form.get("temperature")), idempotencyKey: text(form.get("idempotencyKey")) || null,
       });
       if (!parsed.success) return refused(intent, parsed.error.issues.map((issue) => ({ field: issue.path.map(String).join("."), message: issue.message })));
-      const recorded = await recordReading(project, user, parsed.data, ip);
-      return { intent, errors: {}, notice: recorded.stopWork ? `Reading saved. Work is stopped; the manager, the dive supervisor and the dewatering operator were e-mailed.` : "Reading saved.", verdict: { text: recorded.verdict, exceeds: recorded.evaluation?.exceeds ?? null } } satisfies ActionResult;
+      const recorded = await recordReading(project, user, parsed.data, ip, { photo: staged.file });
+      const saved = recorded.photoId !== undefined ? "Reading saved with its photo." : "Reading saved.";
+      return { intent, errors: {}, notice: recorded.stopWork ? `${saved} Work is stopped; the manager, the dive supervisor and the dewatering operator were e-mailed.` : saved, verdict: { text: recorded.verdict, exceeds: recorded.evaluation?.exceeds ?? null } } satisfies ActionResult;
     }
     if (intent === "resume") {
       const parsed = resumeInputSchema.safeParse({ note: text(form.get("note")) });
@@ -118,7 +146,8 @@ export async function action({ request, params }: Route.ActionArgs) {
       : "Sighting saved (beyond the shutdown distance: no stand-down).";
     return { intent, errors: {}, notice, verdict: null } satisfies ActionResult;
   } catch (error) {
-    if (error instanceof DomainError) return refused(intent, error.details, 409);
+    // A refused photo (not an image, unreadable) is the form's mistake; the rest is the state of the project.
+    if (error instanceof DomainError) return refused(intent, error.details, error.details.some((detail) => detail.field === "file") ? 400 : 409);
     throw error;
   }
 }
@@ -159,7 +188,7 @@ export default function WaterQuality({ loaderData, actionData }: Route.Component
           {stations.length === 0 ? (
             <p className="mt-2 text-sm text-muted">No monitoring stations yet: the manager sets them up first.</p>
           ) : (
-            <Form method="post" className="mt-3 space-y-3" key={actionData?.intent === "reading" && actionData.verdict ? actionData.verdict.text : "reading"}>
+            <Form method="post" encType="multipart/form-data" className="mt-3 space-y-3" key={actionData?.intent === "reading" && actionData.verdict ? actionData.verdict.text : "reading"}>
               <input type="hidden" name="idempotencyKey" value={loaderData.formKey} />
               <div>
                 <label htmlFor="station" className="block text-sm font-medium">Station</label>
@@ -192,6 +221,12 @@ export default function WaterQuality({ loaderData, actionData }: Route.Component
                   <label className="block text-sm font-medium">Note<textarea name="note" maxLength={4000} rows={2} className={inputClass} /></label>
                 </div>
               </details>
+              <div>
+                <label htmlFor="reading-photo" className="block text-sm font-medium">Photo (optional)</label>
+                <input id="reading-photo" name="file" type="file" accept="image/jpeg,image/png,image/webp" aria-describedby="reading-photo-hint" aria-invalid={readingErrors.file ? true : undefined} className="mt-1 block w-full text-base" />
+                <p id="reading-photo-hint" className="mt-1 text-xs text-muted">The sample, the instrument's display or the water at the station. JPEG, PNG or WebP, at most {loaderData.photoMaxMegabytes} MB; kept without its camera data (no location). A refused photo saves nothing: choose another or none and save again.</p>
+                {readingErrors.file ? <p className="mt-1 text-sm text-danger">{readingErrors.file}</p> : null}
+              </div>
               <SubmitButton intent="reading" pendingLabel="Saving…" className="w-full sm:w-auto">Save reading</SubmitButton>
             </Form>
           )}
@@ -238,7 +273,7 @@ export default function WaterQuality({ loaderData, actionData }: Route.Component
         {loaderData.readings.length === 0 ? <p className="mt-2 text-sm text-muted">None.</p> : (
           <div className="mt-2 overflow-x-auto">
             <table className="w-full text-sm">
-              <thead><tr className="border-b border-line text-left"><th className="py-1 pr-3">Time</th><th className="pr-3">Station</th><th className="pr-3 text-right">Value</th><th className="pr-3">Verdict</th><th>Sampled by</th></tr></thead>
+              <thead><tr className="border-b border-line text-left"><th className="py-1 pr-3">Time</th><th className="pr-3">Station</th><th className="pr-3 text-right">Value</th><th className="pr-3">Verdict</th><th className="pr-3">Sampled by</th><th>Photo</th></tr></thead>
               <tbody>
                 {loaderData.readings.map((reading) => (
                   <tr key={reading.id} className="border-b border-line align-top">
@@ -246,7 +281,20 @@ export default function WaterQuality({ loaderData, actionData }: Route.Component
                     <td className="pr-3">{reading.station}</td>
                     <td className="figures pr-3 text-right whitespace-nowrap">{reading.value} {reading.unit}</td>
                     <td className={`pr-3 ${reading.evaluation?.exceeds ? "font-semibold text-danger" : reading.evaluation?.exceeds === null ? "text-caution" : ""}`}>{reading.verdict ?? "—"}</td>
-                    <td>{reading.sampledBy}</td>
+                    <td className="pr-3">{reading.sampledBy}</td>
+                    <td className="py-1">
+                      {reading.photos.length === 0 ? <span className="text-muted">—</span> : (
+                        <ul className="flex gap-1">
+                          {reading.photos.map((photo) => (
+                            <li key={photo.id}>
+                              <a href={`/api/projects/${projectId}/water-quality/readings/${reading.id}/photos/${photo.id}`} className="block focus-visible:outline-2 focus-visible:outline-lagoon">
+                                <img src={`/api/projects/${projectId}/water-quality/readings/${reading.id}/photos/${photo.id}?size=thumb`} alt={`Photo of the reading at ${reading.station}, ${localTime(reading.takenAt, timeZone)}: ${photo.originalFileName}`} width={64} height={48} className="h-12 w-16 rounded border border-line object-cover" loading="lazy" />
+                              </a>
+                            </li>
+                          ))}
+                        </ul>
+                      )}
+                    </td>
                   </tr>
                 ))}
               </tbody>

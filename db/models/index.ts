@@ -40,6 +40,7 @@ import { WaterQualitySettings, initWaterQualitySettings } from "./water-quality-
 import { TurbidityRuleRecord, initTurbidityRule } from "./turbidity-rule";
 import { MonitoringStation, initMonitoringStation } from "./monitoring-station";
 import { WaterQualityReading, initWaterQualityReading } from "./water-quality-reading";
+import { WaterQualityReadingPhoto, initWaterQualityReadingPhoto } from "./water-quality-reading-photo";
 import { StopWorkEvent, initStopWorkEvent } from "./stop-work-event";
 import { WildlifeStandDown, initWildlifeStandDown } from "./wildlife-stand-down";
 import { WildlifeSighting, initWildlifeSighting } from "./wildlife-sighting";
@@ -82,7 +83,7 @@ export { WaterQualitySettings, TurbidityRuleRecord, MonitoringStation, WaterQual
 export type { DiveTeamMember } from "./dive-team";
 export { Find, FindCustody, FindPhoto, FindSequence, Hold, HoldCell, HoldNotice };
 export { photoExifSchema, type PhotoExif, type StoredPhotoAttributes } from "./photo-columns";
-export { HaulPhoto, JarTest, JarTestPhoto };
+export { HaulPhoto, JarTest, JarTestPhoto, WaterQualityReadingPhoto };
 export { storedJarSchema, type StoredJar } from "./jar-test";
 
 let initialised: Sequelize | undefined;
@@ -133,6 +134,7 @@ export function initModels(): Sequelize {
   initTurbidityRule(sequelize);
   initMonitoringStation(sequelize);
   initWaterQualityReading(sequelize);
+  initWaterQualityReadingPhoto(sequelize);
   initStopWorkEvent(sequelize);
   initWildlifeStandDown(sequelize);
   initWildlifeSighting(sequelize);
@@ -280,6 +282,10 @@ export function initModels(): Sequelize {
   WaterQualityReading.belongsTo(MonitoringStation, { foreignKey: "stationId", as: "station" });
   WaterQualityReading.belongsTo(TurbidityRuleRecord, { foreignKey: "ruleId", as: "rule" });
   WaterQualityReading.belongsTo(User, { foreignKey: "recordedById", as: "recordedBy" });
+  WaterQualityReading.hasMany(WaterQualityReadingPhoto, { foreignKey: "readingId", as: "photos" });
+  WaterQualityReadingPhoto.belongsTo(WaterQualityReading, { foreignKey: "readingId", as: "reading" });
+  WaterQualityReadingPhoto.belongsTo(Project, { foreignKey: "projectId", as: "project" });
+  WaterQualityReadingPhoto.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
   Project.hasMany(StopWorkEvent, { foreignKey: "projectId", as: "stopWorkEvents" });
   StopWorkEvent.belongsTo(MonitoringStation, { foreignKey: "stationId", as: "station" });
   StopWorkEvent.belongsTo(WaterQualityReading, { foreignKey: "readingId", as: "reading" });

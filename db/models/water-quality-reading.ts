@@ -4,6 +4,7 @@ import type { MonitoringStation } from "./monitoring-station";
 import type { Project } from "./project";
 import type { TurbidityRuleRecord } from "./turbidity-rule";
 import type { User } from "./user";
+import type { WaterQualityReadingPhoto } from "./water-quality-reading-photo";
 
 /** A turbidity reading (with optional pH, dissolved oxygen, temperature) and, for a compliance reading, the evaluation made on save. */
 export class WaterQualityReading extends Model<InferAttributes<WaterQualityReading>, InferCreationAttributes<WaterQualityReading>> {
@@ -37,6 +38,7 @@ export class WaterQualityReading extends Model<InferAttributes<WaterQualityReadi
   declare updatedAt: CreationOptional<Date>;
   declare station?: NonAttribute<MonitoringStation>;
   declare rule?: NonAttribute<TurbidityRuleRecord>;
+  declare photos?: NonAttribute<WaterQualityReadingPhoto[]>;
 }
 
 export function initWaterQualityReading(sequelize: Sequelize) {

@@ -23,6 +23,8 @@ export class WaterQualitySettings extends Model<InferAttributes<WaterQualitySett
   /** "So many samples a day, at least so long apart"; null: the routine is `samplingIntervalMinutes`. */
   declare samplesPerDay: CreationOptional<number | null>;
   declare minimumGapMinutes: CreationOptional<number | null>;
+  /** How `minimumGapMinutes` binds: "at-least" (null too) so long apart or more, "at-most" no more than so long apart. */
+  declare gapRule: CreationOptional<"at-least" | "at-most" | null>;
   /** Who is alerted on an exceedance; null: the manager, the dive supervisor and the dewatering operator. */
   declare alertRecipients: CreationOptional<AlertRecipients | null>;
   declare updatedById: ForeignKey<User["id"]> | null;
@@ -44,6 +46,7 @@ export function initWaterQualitySettings(sequelize: Sequelize) {
       species: jsonColumn("water_quality_settings", "species", z.array(z.string())),
       samplesPerDay: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       minimumGapMinutes: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      gapRule: { type: DataTypes.STRING(8), allowNull: true },
       alertRecipients: jsonColumn("water_quality_settings", "alertRecipients", alertRecipientsSchema, { allowNull: true }),
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

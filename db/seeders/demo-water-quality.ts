@@ -1,13 +1,14 @@
 import { MonitoringStation, Project, User } from "../models";
-import { buildDemoWaterQuality } from "../../sample-data/water-quality";
+import { buildDemoWaterQuality, recentDemoSightings } from "../../sample-data/water-quality";
 import { DEMO_PROJECT } from "./demo-scenario";
 
 /**
  * Seeds the demo's invented water-quality record (stations, the rule, two weeks of readings with
  * one exceedance and its resolution, sightings) when the demo project has no stations, through the
  * same services as the API and the pages. The exceedance e-mail is not sent for these past readings.
+ * A few sightings are placed in the hours before `seededAtMs` (now), so the map's last day shows some.
  */
-export async function seedDemoWaterQuality(): Promise<boolean> {
+export async function seedDemoWaterQuality(seededAtMs = Date.now()): Promise<boolean> {
   const project = await Project.findOne({ where: { slug: DEMO_PROJECT.slug } });
   if (!project || (await MonitoringStation.count({ where: { projectId: project.id } })) > 0) return false;
   const models = await import("../../app/models/water-quality.server");
@@ -33,6 +34,6 @@ export async function seedDemoWaterQuality(): Promise<boolean> {
     await models.recordAgencyNotice(view, presentUser(monitor), stopWorkId, models.agencyNoticeInputSchema.parse(demo.resolution.agencyNotice));
     await models.resumeStopWork(view, presentUser(monitor), stopWorkId, demo.resolution.note, null, { at: new Date(demo.resolution.resumedAt) });
   }
-  for (const sighting of demo.sightings) await wildlife.recordSighting(view, presentUser(operator), wildlife.sightingInputSchema.parse(sighting));
+  for (const sighting of [...demo.sightings, ...recentDemoSightings(seededAtMs)]) await wildlife.recordSighting(view, presentUser(operator), wildlife.sightingInputSchema.parse(sighting));
   return true;
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { instantOfLocal, localDayOf } from "../local-time";
-import { countedSamples, missedIntervals } from "./missed-samples";
+import { countedSamples, missedIntervals, runWithinGap } from "./missed-samples";
 import { pairBackground } from "./pairing";
 import { DEFAULT_SHUTDOWN_DISTANCE_FT, DEFAULT_STAND_DOWN_WAIT_MINUTES, effectOfSighting, standDownActiveAt, standDownEndMs, withinShutdownDistance } from "./stand-down";
 
@@ -89,6 +89,35 @@ describe("samples a day, at least so long apart (twice daily, ≥ 4 h: memory, a
   });
   it("a sample outside the work day does not count (18:30 and 19:30: one counted)", () => {
     expect(missedIntervals([day], [local("18:30"), local("19:30")], routine, zone)).toEqual([{ day, fromMs: local("07:00"), toMs: local("14:30"), samplesShort: 1 }]);
+  });
+});
+
+// "Twice daily, no more than 4 hours apart": the issue's example of the other wording, a pair taken
+// close together (memory, as above: a project setting, check the permit's own words).
+describe("samples a day, no more than so long apart (twice daily, ≤ 4 h: memory, a project setting)", () => {
+  const routine = { intervalMinutes: 0, workdayStartMinutes: 7 * 60, workdayEndMinutes: 19 * 60, samplesPerDay: 2, minimumGapMinutes: 240, gapRule: "at-most" as const };
+  const zone = "America/New_York";
+  const day = "2031-05-06";
+  const local = (clock: string) => at(`${day}T${clock}:00-04:00`);
+  it("08:00 and 12:00 are exactly 4 h apart: both count, nothing missed (the limit is inclusive)", () => {
+    expect(missedIntervals([day], [local("08:00"), local("12:00")], routine, zone)).toEqual([]);
+  });
+  it("08:00 and 13:00 are 5 h apart: one counts, the other could have been taken 07:00–08:00 or 08:00–12:00 (computed: 08:00 ∓ 4 h in the work day)", () => {
+    expect(missedIntervals([day], [local("08:00"), local("13:00")], routine, zone)).toEqual([
+      { day, fromMs: local("07:00"), toMs: local("08:00"), samplesShort: 1 },
+      { day, fromMs: local("08:00"), toMs: local("12:00"), samplesShort: 1 },
+    ]);
+  });
+  it("the longest run counts: 08:00, 13:00, 15:00, 18:30 gives 13:00–15:00–18:30 (each within 4 h of the one before; computed)", () => {
+    expect(runWithinGap([local("08:00"), local("13:00"), local("15:00"), local("18:30")], 240 * MINUTE)).toEqual([local("13:00"), local("15:00"), local("18:30")]);
+    expect(missedIntervals([day], [local("08:00"), local("13:00"), local("15:00"), local("18:30")], routine, zone)).toEqual([]);
+  });
+  it("no sample on an active day: the whole work day, two short", () => {
+    expect(missedIntervals([day], [], routine, zone)).toEqual([{ day, fromMs: local("07:00"), toMs: local("19:00"), samplesShort: 2 }]);
+  });
+  it("the same samples judged \"at least 4 h apart\" instead: 08:00 and 10:00 count once there, twice here (the wording decides)", () => {
+    expect(missedIntervals([day], [local("08:00"), local("10:00")], routine, zone)).toEqual([]);
+    expect(missedIntervals([day], [local("08:00"), local("10:00")], { ...routine, gapRule: "at-least" }, zone)).toHaveLength(1);
   });
 });
 

@@ -150,6 +150,8 @@ const MATRIX: Row[] = [
   // Water quality: readings by the manager, the dewatering operator and the resource monitor; stations and rules by the manager.
   row("GET", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/water-quality/readings", "/api/projects/{project}/water-quality/readings", "422 403 403 422 422 403 403 422 401", EMPTY_JSON),
+  row("POST", "api/projects/:projectId/water-quality/readings/:readingId/photos", "/api/projects/{project}/water-quality/readings/999999999/photos", "415 403 403 415 415 403 403 415 401", EMPTY_JSON),
+  row("GET", "api/projects/:projectId/water-quality/readings/:readingId/photos/:photoId", "/api/projects/{project}/water-quality/readings/999999999/photos/999999999", "404 404 404 404 404 404 404 404 401"),
   row("GET", "api/projects/:projectId/water-quality/rules", "/api/projects/{project}/water-quality/rules", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/water-quality/rules", "/api/projects/{project}/water-quality/rules", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/water-quality/stations", "/api/projects/{project}/water-quality/stations", "200 200 200 200 200 200 200 200 401"),

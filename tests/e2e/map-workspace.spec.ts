@@ -192,23 +192,35 @@ test("the legend describes what is drawn: the bands with their unit and classes,
   await expect(legend.getByRole("region", { name: "Cell status" })).toHaveCount(0);
   await expect(legend.getByRole("region", { name: "Marked cells" })).toHaveCount(0);
   await page.getByLabel("Bands", { exact: true }).uncheck();
-  // The demo's monitoring stations are drawn by kind, and the sightings of the last 24 hours (none: the demo's are older).
+  // The demo's monitoring stations are drawn by kind, and the sightings of the last 24 hours: the
+  // seeder places two, with positions, in the hours before it ran (other tests add some without).
   await expect(legend.getByRole("region", { name: "Monitoring stations" })).toContainText("Background (1)");
   await expect(legend.getByRole("region", { name: "Monitoring stations" })).toContainText("Compliance point (1)");
-  await expect(legend.getByRole("region", { name: "Wildlife sightings, last 24 h" })).toContainText("None recorded in that time.");
-  await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-monitoring-drawn", "3");
+  await expect(legend.getByRole("region", { name: "Wildlife sightings, last 24 h" })).toContainText(/Sighting \(\d+\)/);
+  await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-monitoring-drawn", "5");
   // W on the map steps to a station and the panel reads it out.
   await page.getByLabel(/^Cell map/).focus();
   await page.keyboard.press("w");
-  await expect(page.getByTestId("map-announcement")).toContainText("station BG-1 up-run, 1 of 3");
+  await expect(page.getByTestId("map-announcement")).toContainText("station BG-1 up-run, 1 of 5");
   await expect(page.getByTestId("monitoring-detail")).toContainText("Background");
   await page.getByRole("button", { name: /CP-1 plume/ }).click();
   await expect(page.getByTestId("monitoring-detail")).toContainText("Compliance point");
   await page.getByRole("checkbox", { name: "Stations and sightings" }).uncheck();
   await expect(legend.getByRole("region", { name: "Monitoring stations" })).toHaveCount(0);
-  // Only the demo's geotextile tubes on the laydown area are left (drawn whenever a tube is placed): described alone.
+  // Only the demo's geotextile tubes on the laydown area are left: described alone.
   await expect(legend.getByRole("region")).toHaveCount(1);
   await expect(legend.getByRole("region", { name: "Geotextile tubes" })).toContainText("Near capacity, at 90 % or more (1)");
+  // Their layer switch hides them on the map and in the legend, the address remembers it, and it shows them again.
+  const tubesVisibility = () => page.evaluate(() => (window as unknown as { firmsandMap: { getLayoutProperty(layer: string, name: string): unknown } }).firmsandMap.getLayoutProperty("tubes", "visibility"));
+  await expect.poll(tubesVisibility).toBe("visible");
+  await page.getByRole("checkbox", { name: "Geotextile tubes" }).uncheck();
+  await expect.poll(tubesVisibility).toBe("none");
+  await expect(legend.getByRole("region", { name: "Geotextile tubes" })).toHaveCount(0);
+  await expect.poll(() => new URL(page.url()).searchParams.get("layers")).toBe("zones,workLimit,shoreline,labels");
+  await page.getByRole("checkbox", { name: "Geotextile tubes" }).check();
+  await expect.poll(tubesVisibility).toBe("visible");
+  await expect(legend.getByRole("region", { name: "Geotextile tubes" })).toBeVisible();
+  await expect.poll(() => new URL(page.url()).searchParams.get("layers")).toBe("zones,workLimit,shoreline,labels,tubes");
 });
 
 test("the address holds the view: a link sent from it opens the same centre, zoom, view, layers, zone and cells", async ({ page, signIn, browser, baseURL }) => {
@@ -237,7 +249,7 @@ test("the address holds the view: a link sent from it opens the same centre, zoo
   const sent = new URL(page.url());
   expect(sent.searchParams.get("view")).toBe("thickness");
   expect(sent.searchParams.get("zone")).toBe(String(zone.id));
-  expect(sent.searchParams.get("layers")).toBe("cells,zones,workLimit,shoreline,monitoring");
+  expect(sent.searchParams.get("layers")).toBe("cells,zones,workLimit,shoreline,monitoring,tubes");
   expect(sent.searchParams.get("c")).toMatch(/^-?\d+\.\d{6},-?\d+\.\d{6}$/);
   expect(await page.evaluate(() => (window as unknown as { stayed?: number }).stayed)).toBe(1);
   const camera = await page.evaluate(() => ({ centre: (window as unknown as MapHandle).firmsandMap.getCenter(), zoom: (window as unknown as MapHandle).firmsandMap.getZoom() }));

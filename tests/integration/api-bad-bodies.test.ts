@@ -6,7 +6,7 @@ import { Op } from "sequelize";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
-import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Invitation, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, ReportSubscriber, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, HaulSite, JarTest, JarTestPhoto, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, ProjectSettingsVersion, RecomputeJob, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone } from "~/lib/db.server";
+import { Assignment, AuditEvent, DailyReport, DailyReportAmendment, Invitation, Membership, Project, CellResult, ColumnMapping, DewateringShift, Dive, DiveCell, DiveTeam, ReportSubscriber, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, HaulSite, JarTest, JarTestPhoto, Hold, HoldCell, ImportJob, MonitoringStation, PayPeriodReport, ProjectSettingsVersion, RecomputeJob, SedimentSample, ShareLink, SignInSession, Sounding, StopWorkEvent, Survey, SurveySnapshot, TubeFill, TurbidityRuleRecord, User, WaterQualityReading, WildlifeSighting, WildlifeStandDown, Zone, WaterQualityReadingPhoto } from "~/lib/db.server";
 import { listObjectKeys } from "~/lib/storage/storage.server";
 import { logFind } from "~/models/finds.server";
 import { getCellsPayload } from "~/models/cells.server";
@@ -53,6 +53,7 @@ let stopWorkId: number;
 let findId: number;
 let holdId: number;
 let jarTestId: number;
+let readingId: number;
 let haulId: number;
 let teamId: number;
 let subscriberId: number;
@@ -68,7 +69,7 @@ const base = () => `/api/projects/${site.project.id}`;
 // SignInSession, AuditEvent; dewatering shifts, tubes and fills → DewateringShift, GeotextileTube,
 // TubeFill, AuditEvent; a tube's status → GeotextileTube, AuditEvent; jar tests → JarTest, AuditEvent; a jar test's or a haul ticket's photos → JarTestPhoto, HaulPhoto, the object store and the staging directory; hauls → Haul, AuditEvent; haul sites → HaulSite, AuditEvent; members → Membership, Invitation, OutgoingMail, AuditEvent; sediment samples → SedimentSample, AuditEvent;
 // SignInSession, AuditEvent; water-quality stations, rules, readings → MonitoringStation,
-// TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a resumption or an agency
+// TurbidityRuleRecord, WaterQualityReading, StopWorkEvent, AuditEvent; a reading's photos → WaterQualityReadingPhoto, the object store and the staging directory; a resumption or an agency
 // notice → StopWorkEvent, AuditEvent; wildlife sightings → WildlifeSighting, WildlifeStandDown, AuditEvent;
 // SignInSession, AuditEvent; dive teams → DiveTeam, AuditEvent; archive and restore → Project, AuditEvent; finds → Find, Hold, HoldCell, AuditEvent; a find's photos → FindPhoto,
 // the object store and the staging directory; its custody → FindCustody, Find; a handover's form photo → FindPhoto, FindCustody, the object store; its status → Find, AuditEvent; a hold's lift →
@@ -139,6 +140,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/water-quality/stations", method: "POST", url: () => `${base()}/water-quality/stations`, params: projectParams },
   { route: "api/projects/:projectId/water-quality/rules", method: "POST", url: () => `${base()}/water-quality/rules`, params: projectParams },
   { route: "api/projects/:projectId/water-quality/readings", method: "POST", url: () => `${base()}/water-quality/readings`, params: projectParams },
+  { route: "api/projects/:projectId/water-quality/readings/:readingId/photos", method: "POST", url: () => `${base()}/water-quality/readings/${readingId}/photos`, params: () => ({ ...projectParams(), readingId: String(readingId) }) },
   {
     route: "api/projects/:projectId/stop-work/:eventId/notification", method: "POST",
     url: () => `${base()}/stop-work/${stopWorkId}/notification`, params: () => ({ ...projectParams(), eventId: String(stopWorkId) }),
@@ -160,6 +162,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/finds/:findId", method: "POST", url: () => `${base()}/finds/${findId}`, params: () => ({ ...projectParams(), findId: String(findId) }) },
   { route: "api/projects/:projectId/dewatering/jar-tests/:jarTestId", method: "POST", url: () => `${base()}/dewatering/jar-tests/${jarTestId}`, params: () => ({ ...projectParams(), jarTestId: String(jarTestId) }) },
   { route: "api/projects/:projectId/dewatering/jar-tests/:jarTestId/photos/:photoId", method: "POST", url: () => `${base()}/dewatering/jar-tests/${jarTestId}/photos/1`, params: () => ({ ...projectParams(), jarTestId: String(jarTestId), photoId: "1" }) },
+  { route: "api/projects/:projectId/water-quality/readings/:readingId/photos/:photoId", method: "POST", url: () => `${base()}/water-quality/readings/${readingId}/photos/1`, params: () => ({ ...projectParams(), readingId: String(readingId), photoId: "1" }) },
   { route: "api/projects/:projectId/hauls/:haulId/photos/:photoId", method: "POST", url: () => `${base()}/hauls/${haulId}/photos/1`, params: () => ({ ...projectParams(), haulId: String(haulId), photoId: "1" }) },
   { route: "api/projects/:projectId/finds/:findId/photos/:photoId", method: "POST", url: () => `${base()}/finds/${findId}/photos/1`, params: () => ({ ...projectParams(), findId: String(findId), photoId: "1" }) },
   { route: "api/projects/:projectId/holds", method: "POST", url: () => `${base()}/holds`, params: projectParams },
@@ -268,6 +271,7 @@ async function snapshot() {
     monitoringStations: await MonitoringStation.count({ where: { projectId } }),
     turbidityRules: await TurbidityRuleRecord.count({ where: { projectId } }),
     waterQualityReadings: await WaterQualityReading.count({ where: { projectId } }),
+    waterQualityReadingPhotos: await WaterQualityReadingPhoto.count({ where: { projectId } }),
     stopWorkEvents: await StopWorkEvent.count({ where: { projectId } }),
     resumedStopWork: await StopWorkEvent.count({ where: { projectId, resumedAt: { [Op.ne]: null } } }),
     notifiedStopWork: await StopWorkEvent.count({ where: { projectId, agencyNotifiedAt: { [Op.ne]: null } } }),
@@ -338,7 +342,7 @@ beforeAll(async () => {
   await createRule(view, manager, { kind: "above-background", limit: 29, inclusive: true, pairingWindowMinutes: 60, notifyWithinHours: 24, source: "Test permit, condition 1" });
   await createStation(view, manager, { name: "Background", kind: "background" });
   await createStation(view, manager, { name: "Compliance", kind: "compliance" });
-  await recordReading(view, { id: site.users.manager, name: "Manager" } as never, { station: "Background", takenAt: "2026-11-04T09:00:00-05:00", value: 5, unit: "NTU" });
+  readingId = (await recordReading(view, { id: site.users.manager, name: "Manager" } as never, { station: "Background", takenAt: "2026-11-04T09:00:00-05:00", value: 5, unit: "NTU" })).id;
   stopWorkId = (await recordReading(view, { id: site.users.manager, name: "Manager" } as never, { station: "Compliance", takenAt: "2026-11-04T09:20:00-05:00", value: 40, unit: "NTU" })).stopWork!.id;
 }, 60_000);
 

@@ -5,7 +5,7 @@ import { closeSequelize } from "../../db/connection.server";
 import { GRID, WORK_LIMIT } from "../../sample-data/scenario";
 import { cellLabel, type CellGrid } from "../../shared/grid/cell-grid";
 import {
-  DewateringShift, Dive, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, IdempotencyKey, JarTest, JarTestPhoto, Project, SedimentSample, TubeFill, WaterQualityReading, WildlifeSighting, Zone,
+  DewateringShift, Dive, DiveTeam, Find, FindCustody, FindPhoto, GeotextileTube, Haul, HaulPhoto, IdempotencyKey, JarTest, JarTestPhoto, Project, WaterQualityReadingPhoto, SedimentSample, TubeFill, WaterQualityReading, WildlifeSighting, Zone,
 } from "~/lib/db.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { purgeIdempotencyKeys } from "~/lib/api/idempotency.server";
@@ -22,6 +22,7 @@ import { action as haulPhotosAction } from "~/routes/api.projects.$projectId.hau
 import { action as jarTestsAction } from "~/routes/api.projects.$projectId.dewatering.jar-tests";
 import { action as jarPhotosAction } from "~/routes/api.projects.$projectId.dewatering.jar-tests.$jarTestId.photos";
 import { action as readingsAction } from "~/routes/api.projects.$projectId.water-quality.readings";
+import { action as readingPhotosAction } from "~/routes/api.projects.$projectId.water-quality.readings.$readingId.photos";
 import { action as stationsAction } from "~/routes/api.projects.$projectId.water-quality.stations";
 import { action as sightingsAction } from "~/routes/api.projects.$projectId.wildlife.sightings";
 import { action as findsAction } from "~/routes/api.projects.$projectId.finds";
@@ -53,6 +54,7 @@ let tubeId = 0;
 let findId = 0;
 let haulId = 0;
 let jarTestId = 0;
+let readingId = 0;
 let serial = 0;
 const DATE = "2026-11-20";
 const base = () => `/api/projects/${projectId}`;
@@ -108,6 +110,7 @@ const APIS: FieldApi[] = [
   photo("POST finds/<id>/photos", photosAction as never, () => `${base()}/finds/${findId}/photos`, () => ({ findId: String(findId) }), FindPhoto),
   photo("POST hauls/<id>/photos", haulPhotosAction as never, () => `${base()}/hauls/${haulId}/photos`, () => ({ haulId: String(haulId) }), HaulPhoto),
   photo("POST dewatering/jar-tests/<id>/photos", jarPhotosAction as never, () => `${base()}/dewatering/jar-tests/${jarTestId}/photos`, () => ({ jarTestId: String(jarTestId) }), JarTestPhoto),
+  photo("POST water-quality/readings/<id>/photos", readingPhotosAction as never, () => `${base()}/water-quality/readings/${readingId}/photos`, () => ({ readingId: String(readingId) }), WaterQualityReadingPhoto),
 ];
 
 beforeAll(async () => {
@@ -134,6 +137,7 @@ beforeAll(async () => {
   findId = (await (await sendJson(findsAction as never, "first", `${base()}/finds`, {}, { category: "modern-debris", description: "Bottle", foundAt: "2026-11-20T08:00:00-05:00" })).json()).id;
   haulId = (await (await sendJson(haulsAction as never, "first", `${base()}/hauls`, {}, { date: DATE, ticketNumber: "TK-PHOTO", truck: "Truck 3", site: "Tallgrass Farm", load: { value: 20, unit: "short-ton" }, cakeSolidsByWeight: 0.3 })).json()).haul.id;
   jarTestId = (await (await sendJson(jarTestsAction as never, "first", `${base()}/dewatering/jar-tests`, {}, { date: DATE, polymer: { product: "Cationic emulsion", benchStockPercent: 0.1 }, jars: [{ doseMgPerL: 4, settlingMinutes: 10, clarity: "hazy" }] })).json()).id;
+  readingId = (await (await sendJson(readingsAction as never, "first", `${base()}/water-quality/readings`, {}, { station: "BG-1", takenAt: "2026-11-20T08:00:00-05:00", value: 4.5, unit: "NTU" })).json()).id;
 });
 
 describe.each(APIS)("$name with an Idempotency-Key", (api) => {

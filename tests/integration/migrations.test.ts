@@ -45,7 +45,7 @@ describe("migrations", () => {
     for (const table of FOUNDATION_TABLES) expect(migrated).toContain(table);
     // Project setup (0006): identity, time zone, datum; who may create projects. Disabling (0008).
     // Dewatering (0009): the solids' specific gravity and the haul cake solids default; its tables. Pay periods (0012).
-    for (const table of ["dewatering_shifts", "geotextile_tubes", "tube_fills", "haul_sites", "hauls", "sediment_samples", "jar_tests", "jar_test_photos", "haul_photos"]) expect(migrated).toContain(table);
+    for (const table of ["dewatering_shifts", "geotextile_tubes", "tube_fills", "haul_sites", "hauls", "sediment_samples", "jar_tests", "jar_test_photos", "haul_photos", "water_quality_reading_photos"]) expect(migrated).toContain(table);
     for (const column of ["projects.overDredgeAllowance", "pay_period_reports.snapshot", "projects.agency", "projects.permitNumbers", "projects.timeZone", "projects.verticalDatum", "users.mayCreateProjects", "users.disabledAt", "users.disabledById", "projects.solidsSpecificGravity", "projects.cakeSolidsByWeight", "projects.tubeNearCapacityShare"]) {
       expect(migratedColumns.some((entry) => entry.startsWith(`${column} `)), column).toBe(true);
     }

@@ -7,6 +7,7 @@ import { deliverDue } from "~/lib/mail/outbox.server";
 import { ValidationError } from "~/lib/errors";
 import { readingInputSchema } from "~/lib/field-records/inputs";
 import {
+  samplingRoutineInWords,
   alertAddressesOf, complianceSummary, createRule, createStation, getWaterQualitySettings, listRules, recordReading, ruleInputSchema, saveWaterQualitySettings, settingsInputSchema,
 } from "~/models/water-quality.server";
 import { addMember, makeProject, makeUser, thrown } from "./helpers";
@@ -104,6 +105,20 @@ describe("the sampling routine as samples a day", () => {
     expect(tooMany.success ? [] : tooMany.error.issues.map((issue) => issue.path[0])).toEqual(["minimumGapHours"]); // 3 × 5 h = 15 h > 12 h (computed)
     const noCount = settingsInputSchema.safeParse({ ...baseSettings, alertRoles: ["manager"], samplingMode: "per-day", samplesPerDay: "" });
     expect(noCount.success ? [] : noCount.error.issues.map((issue) => issue.path[0])).toEqual(["samplesPerDay"]);
+  });
+
+  it("twice daily no more than 4 h apart (the issue's wording; memory, a project setting): the same 08:20 and 10:00 samples leave nothing missed", async () => {
+    await saveWaterQualitySettings(project, users.get("manager")!, settingsInputSchema.parse({ ...baseSettings, alertRoles: ["manager"], samplingMode: "per-day", samplesPerDay: "2", minimumGapHours: "4", gapRule: "at-most" }));
+    const settings = await getWaterQualitySettings(project);
+    expect({ perDay: settings.samplesPerDay, gap: settings.minimumGapHours, rule: settings.gapRule }).toEqual({ perDay: 2, gap: 4, rule: "at-most" });
+    expect(samplingRoutineInWords(settings)).toBe("2 compliance samples a day, no more than 4 h apart, from 07:00 to 19:00");
+    const summary = await complianceSummary(project, { from: "2026-09-01", to: "2026-09-01" });
+    expect(summary.missed).toEqual([]);
+    // No more than 0 h apart is no routine; a count far apart always fits the day, so it is not refused for that.
+    const zero = settingsInputSchema.safeParse({ ...baseSettings, alertRoles: ["manager"], samplingMode: "per-day", samplesPerDay: "2", minimumGapHours: "0", gapRule: "at-most" });
+    expect(zero.success ? [] : zero.error.issues.map((issue) => issue.path[0])).toEqual(["minimumGapHours"]);
+    expect(settingsInputSchema.safeParse({ ...baseSettings, alertRoles: ["manager"], samplingMode: "per-day", samplesPerDay: "4", minimumGapHours: "5", gapRule: "at-most" }).success).toBe(true);
+    expect(settingsInputSchema.safeParse({ ...baseSettings, alertRoles: ["manager"], samplingMode: "per-day", samplesPerDay: "2", minimumGapHours: "4", gapRule: "about" }).success).toBe(false);
   });
 });
 

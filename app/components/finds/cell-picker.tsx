@@ -12,7 +12,7 @@ import { MARK_STYLES, MARK_SWATCHES } from "~/components/map/paint";
  * The cell field beside it stays the way to pick by keyboard.
  */
 
-const LAYERS: Record<LayerKey, boolean> = { cells: true, bands: false, zones: false, workLimit: true, shoreline: true, labels: true, monitoring: false };
+const LAYERS: Record<LayerKey, boolean> = { cells: true, bands: false, zones: false, workLimit: true, shoreline: true, labels: true, monitoring: false, tubes: false };
 const NONE: ReadonlySet<number> = new Set();
 
 interface Props {

@@ -18,6 +18,8 @@ export const LAYER_GROUPS: Record<LayerKey, string[]> = {
   shoreline: ["shoreline-water", "shoreline-edge"],
   labels: ["zone-labels", "cell-labels"],
   monitoring: MONITORING_LAYERS,
+  // The geotextile tubes on the laydown area and their names (map-style.server.ts).
+  tubes: ["tubes", "tube-labels"],
 };
 
 interface Props {

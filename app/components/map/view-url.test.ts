@@ -15,7 +15,7 @@ describe("the map's view in its address", () => {
       bandSurface: "depth", zoneId: 3, cells: ["AC4", "AC5", "-B-2"], planDate: "2026-12-04",
     };
     const search = mapViewSearch(view);
-    expect(search).toBe("?c=-82.174075,28.954920&z=19.25&view=thickness&layers=cells,bands,zones,workLimit,shoreline,monitoring&bands=depth&zone=3&cells=AC4,AC5,-B-2&date=2026-12-04");
+    expect(search).toBe("?c=-82.174075,28.954920&z=19.25&view=thickness&layers=cells,bands,zones,workLimit,shoreline,monitoring,tubes&bands=depth&zone=3&cells=AC4,AC5,-B-2&date=2026-12-04");
     expect(parseMapView(new URLSearchParams(search))).toEqual(view);
   });
 
@@ -32,7 +32,7 @@ describe("the map's view in its address", () => {
   });
 
   it("an empty layer list means every layer off (invariant)", () => {
-    const none = { ...plain, layers: { cells: false, bands: false, zones: false, workLimit: false, shoreline: false, labels: false, monitoring: false } };
+    const none = { ...plain, layers: { cells: false, bands: false, zones: false, workLimit: false, shoreline: false, labels: false, monitoring: false, tubes: false } };
     expect(mapViewSearch(none)).toBe("?layers=");
     expect(parseMapView(new URLSearchParams("layers="))).toEqual(none);
   });

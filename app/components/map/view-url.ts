@@ -6,9 +6,9 @@ import type { MapView } from "./paint";
  * coloured view, layers, band surface, zone, selected cells and the plan date shown. Every part is
  * optional and read on its own: a link with one bad part still opens the map, with the rest kept.
  */
-export type LayerKey = "cells" | "bands" | "zones" | "workLimit" | "shoreline" | "labels" | "monitoring";
-export const LAYER_KEYS: readonly LayerKey[] = ["cells", "bands", "zones", "workLimit", "shoreline", "labels", "monitoring"];
-export const DEFAULT_LAYERS: Readonly<Record<LayerKey, boolean>> = { cells: true, bands: false, zones: true, workLimit: true, shoreline: true, labels: true, monitoring: true };
+export type LayerKey = "cells" | "bands" | "zones" | "workLimit" | "shoreline" | "labels" | "monitoring" | "tubes";
+export const LAYER_KEYS: readonly LayerKey[] = ["cells", "bands", "zones", "workLimit", "shoreline", "labels", "monitoring", "tubes"];
+export const DEFAULT_LAYERS: Readonly<Record<LayerKey, boolean>> = { cells: true, bands: false, zones: true, workLimit: true, shoreline: true, labels: true, monitoring: true, tubes: true };
 
 export interface MapViewState {
   /** Longitude, latitude of the map's centre; with `zoom`, or neither. */

@@ -56,6 +56,7 @@ export const AUDIT_ACTIONS = {
   monitoringStationAdded: "monitoring-station-added",
   waterQualityReadingRecorded: "water-quality-reading-recorded",
   waterQualityReadingJudged: "water-quality-reading-judged",
+  waterQualityReadingPhotoAdded: "water-quality-reading-photo-added",
   stopWorkOpened: "stop-work-opened",
   stopWorkAgencyNotified: "stop-work-agency-notified",
   stopWorkResumed: "stop-work-resumed",
