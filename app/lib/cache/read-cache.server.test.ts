@@ -40,20 +40,32 @@ describe("cachedRead", () => {
     expect((await cachedRead("test:b", read.compute)).call).toBe(2);
   });
 
-  it("keeps an answer at most its lifetime (5 s by default, READ_CACHE_SECONDS)", async () => {
+  it("keeps an answer at most its lifetime (5 s by default, READ_CACHE_SECONDS), each key's windows shifted so they do not all end together", async () => {
     const now = vi.spyOn(Date, "now").mockReturnValue(1_000_000_000);
     const read = counter();
     await cachedRead("test:c", read.compute);
-    now.mockReturnValue(1_000_004_999);
+    // Within any 5 s the answer is computed at most twice (one window's end), and never kept 5 s.
+    for (let step = 1; step < 5; step++) {
+      now.mockReturnValue(1_000_000_000 + step * 1000);
+      await cachedRead("test:c", read.compute);
+    }
+    expect(read.calls).toBeLessThanOrEqual(2);
+    const before = read.calls;
+    now.mockReturnValue(1_000_005_000 + 4000); // 5 s after the last read
     await cachedRead("test:c", read.compute);
-    expect(read.calls).toBe(1);
-    now.mockReturnValue(1_000_005_000);
-    await cachedRead("test:c", read.compute);
-    expect(read.calls).toBe(2);
+    expect(read.calls).toBe(before + 1);
+    // Two keys read at the same instant end their windows at different times.
+    const ends = ["page:a", "page:b", "page:c", "page:d"].map((key) => {
+      const start = versionedKey(key);
+      let t = 1_000_000_000;
+      while (versionedKey(key) === start) now.mockReturnValue(++t);
+      return t;
+    });
+    expect(new Set(ends).size).toBeGreaterThan(1);
     process.env.READ_CACHE_SECONDS = "0";
     await cachedRead("test:c", read.compute);
     await cachedRead("test:c", read.compute);
-    expect(read.calls).toBe(4);
+    expect(read.calls).toBe(before + 3);
     expect(versionedKey("test:c")).toBeNull();
     process.env.READ_CACHE_SECONDS = "soon";
     expect(() => versionedKey("test:c")).toThrow("READ_CACHE_SECONDS must be a number of seconds");

@@ -34,11 +34,20 @@ function ttlMs(): number {
 
 const cache = new BoundedCache<unknown>(1000);
 
+/** Where in the lifetime window `key`'s windows begin (FNV-1a of the key, modulo the lifetime). */
+function keyOffset(key: string, ttl: number): number {
+  let hash = 0x811c9dc5;
+  for (let index = 0; index < key.length; index++) hash = Math.imul(hash ^ key.charCodeAt(index), 0x01000193);
+  return (hash >>> 0) % ttl;
+}
+
 /** `key` under the current write revision and lifetime bucket; null when the cache is off (a lifetime of 0). */
 export function versionedKey(key: string): string | null {
   const ttl = ttlMs();
   if (ttl === 0) return null;
-  return `${key}|r${writeRevision()}|t${Math.floor(Date.now() / ttl)}`;
+  // Each key's lifetime windows are shifted by a hash of the key, so the many answers kept at
+  // once (a page per reader) do not all expire in the same instant and render again together.
+  return `${key}|r${writeRevision()}|t${Math.floor((Date.now() + keyOffset(key, ttl)) / ttl)}`;
 }
 
 /** The answer kept under a key from `versionedKey`, if any. */
