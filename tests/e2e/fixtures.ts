@@ -1,3 +1,4 @@
+import { PROJECT } from "../../sample-data/scenario";
 import { readFileSync, readdirSync } from "node:fs";
 import { join } from "node:path";
 import { test as base, expect, request as playwrightRequest, type APIRequestContext, type Page } from "@playwright/test";
@@ -113,8 +114,9 @@ export function uniqueEmail(label: string): string {
 export async function demoProjectId(request: APIRequestContext, baseURL: string): Promise<number> {
   await signInRequest(request, baseURL, DEMO_ACCOUNTS.manager);
   const html = await (await request.get("/projects")).text();
-  const match = html.match(/href="\/projects\/(\d+)"/);
-  if (!match) throw new Error("the manager sees no project");
+  // By the demo project's name: projects are listed by name, and other tests make projects of their own.
+  const match = [...html.matchAll(/href="\/projects\/(\d+)"[^>]*>([^<]+)</g)].find((link) => link[2]!.trim() === PROJECT.name);
+  if (!match) throw new Error(`the manager sees no project named ${PROJECT.name}`);
   return Number(match[1]);
 }
 
