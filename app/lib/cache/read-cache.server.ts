@@ -10,12 +10,13 @@ import { BoundedCache } from "./bounded-cache";
 // must not be kept past the commit). A read is stored under the revision it started at, so a write
 // made while it was computing makes it stale at once.
 //
-// The revision is kept by db/models/write-revision.ts. Firmsand runs as one process (the engine's state is per process), so every write the app makes
-// passes here. Writes from elsewhere (a seed script against a running server, a raw SQL statement)
-// are not seen: for those, and for figures that move with the clock (an open stop-work's lost
-// hours, a stand-down's end), an entry also lives at most `READ_CACHE_SECONDS` (5 s by default).
-// Models whose rows no cached read shows (sessions, sign-in attempts, the audit log, the outbox,
-// idempotency keys, API tokens' last use) do not move the revision, or every page view would.
+// The revision is kept by db/models/write-revision.ts. Firmsand runs as one process (the engine's
+// state is per process), so every write the app makes passes there. Writes from elsewhere (a seed
+// script against a running server, a raw SQL statement) are not seen: for those, and for figures
+// that move with the clock (an open stop-work's lost hours, a stand-down's end), an entry also
+// lives at most `READ_CACHE_SECONDS` (5 s by default). Models whose rows no cached read shows
+// (sessions, sign-in attempts, the audit log, the outbox, idempotency keys, API tokens' last use,
+// an import's running count) do not move the revision, or every page view would.
 
 const lifetimeSchema = z.coerce.number({ message: "READ_CACHE_SECONDS must be a number of seconds" })
   .min(0, "READ_CACHE_SECONDS must be 0 (off) or more").max(300, "READ_CACHE_SECONDS must be at most 300").default(5);
