@@ -367,6 +367,19 @@ async function provenienceOf(project: ProjectView, raw: ProvenienceInput) {
  * must agree with one given beside it). A cultural find or human remains needs its cell, and places
  * a hold on every cell within the project's hold radius of the position (or of the cell's centre).
  */
+/**
+ * When a find came up, refused more than 5 minutes ahead of the server's clock (the slack readings
+ * and sightings allow a phone's clock): a find logged in the future would place a hold that could
+ * not be lifted until then.
+ */
+function foundAtNotAhead(text: string): Date {
+  const foundAt = new Date(text);
+  if (foundAt.getTime() > Date.now() + 5 * 60_000) {
+    throw new ValidationError({ field: "foundAt", message: "The find time is in the future: give when it came up (a phone whose clock runs ahead needs setting)." });
+  }
+  return foundAt;
+}
+
 export async function logFind(project: ProjectView, user: UserView, raw: z.output<typeof findInputSchema>, ip: string | null = null): Promise<FindLogged> {
   const replay = await replayOf(project.id, raw.idempotencyKey);
   if (replay) return replay;
@@ -376,7 +389,7 @@ export async function logFind(project: ProjectView, user: UserView, raw: z.outpu
   if (holds && cell === null) {
     throw new ValidationError({ field: "cell", message: "A cultural find or human remains needs the cell it came from: the stop-work hold is placed around it." });
   }
-  const foundAt = new Date(raw.foundAt);
+  const foundAt = foundAtNotAhead(raw.foundAt);
 
   try {
     return await getSequelize().transaction(async (transaction) => {
@@ -444,7 +457,7 @@ export async function logBasketLoad(project: ProjectView, user: UserView, raw: z
   const replay = await basketReplayOf(project.id, raw.idempotencyKey);
   if (replay) return replay;
   const { cell, dive, teamId } = await provenienceOf(project, raw);
-  const foundAt = new Date(raw.foundAt);
+  const foundAt = foundAtNotAhead(raw.foundAt);
   try {
     return await getSequelize().transaction(async (transaction) => {
       const idempotency = await claimIdempotencyKey(transaction);

@@ -508,8 +508,8 @@ describe("a back-dated lift", () => {
   });
 
   it("refuses a lift \"now\" that would come before the hold was placed (a find logged from a clock running ahead), naming liftedAt (422)", async () => {
-    // A phone's clock ten minutes fast: the find, and so its hold, is placed in the server's future.
-    const ahead = new Date(Date.now() + 10 * 60_000);
+    // A phone's clock four minutes fast (within the 5 minutes allowed): the find, and so its hold, is placed in the server's future.
+    const ahead = new Date(Date.now() + 4 * 60_000);
     const logged = await postJson(findsAction as never, "resource-monitor", `${base()}/finds`, {}, { category: "cultural", description: "Shell bead", cell: inside[16], foundAt: ahead.toISOString() });
     expect(logged.status).toBe(201);
     const aheadHold = String(((await logged.json()) as { hold: { id: number } }).hold.id);
@@ -520,6 +520,20 @@ describe("a back-dated lift", () => {
     expect(error.message).toMatch(/^The lift cannot come before the hold was placed, at \d{4}-\d{2}-\d{2} \d{2}:\d{2} \(America\/New_York\), and it is only /);
     // Nothing was stored: the hold is in force (invariant).
     expect((await Hold.findByPk(Number(aheadHold)))!.liftedAt).toBeNull();
+  });
+
+  it("refuses a find (and a basket load) more than 5 minutes ahead of the server's clock, naming foundAt, and stores nothing", async () => {
+    const holdsBefore = await Hold.count({ where: { projectId } });
+    const ahead = new Date(Date.now() + 10 * 60_000).toISOString();
+    const logged = await postJson(findsAction as never, "resource-monitor", `${base()}/finds`, {}, { category: "cultural", description: "Shell bead from the future", cell: inside[17], foundAt: ahead });
+    expect(logged.status).toBe(422);
+    expect((await errorsOf(logged))[0]).toMatchObject({ field: "foundAt" });
+    expect(await Hold.count({ where: { projectId } })).toBe(holdsBefore);
+    const findsBefore = await Find.count({ where: { projectId } });
+    const basket = await postJson(basketsAction as never, "resource-monitor", `${base()}/finds/baskets`, {}, { lines: [{ category: "modern-debris", description: "Aluminium cans", count: 2 }], cell: inside[3], foundAt: ahead });
+    expect(basket.status).toBe(422);
+    expect((await errorsOf(basket))[0]).toMatchObject({ field: "foundAt" });
+    expect(await Find.count({ where: { projectId } })).toBe(findsBefore);
   });
 
   it("reads the page's lift time in the project's time zone", async () => {
