@@ -12,6 +12,7 @@ import { loggedDiveDates } from "./dives.server";
 import { lostWorkingTime } from "./stoppages.server";
 import { loadEndAreaCrossCheck, type EndAreaCrossCheck } from "./end-area-check.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
+import { cachedReadFor } from "~/lib/cache/read-cache.server";
 
 /**
  * The project's progress as the manager reads it: per zone and for the project, the latest
@@ -181,4 +182,12 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     ],
     crossCheck,
   };
+}
+
+/**
+ * The progress figures with the end-area check, as the overview and the progress API read them:
+ * kept between reading requests until something is written (app/lib/cache/read-cache.server.ts).
+ */
+export function keptProgress(request: Request, project: ProjectView): Promise<ProgressView> {
+  return cachedReadFor(request, `progress-checked:${project.id}`, () => loadProgress(project, { crossCheck: true }));
 }

@@ -5,7 +5,7 @@ import { requireRole } from "~/lib/auth/access.server";
 import { roleLabel } from "~/lib/auth/roles";
 import { ProgressOverview } from "~/components/progress-overview";
 import { ReconciliationPanel } from "~/components/dewatering/reconciliation-panel";
-import { loadProgress } from "~/models/progress.server";
+import { keptProgress } from "~/models/progress.server";
 import { loadReconciliation } from "~/models/reconciliation.server";
 import { listZones } from "~/models/project.server";
 import { loadSetupProgress } from "~/models/setup-guide.server";
@@ -22,7 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { project, role } = access;
   // Kept between requests until something is written (app/lib/cache/read-cache.server.ts).
   const shared = <T,>(name: string, compute: () => Promise<T>) => cachedReadFor(request, `${name}:${project.id}`, compute);
-  const [zones, progress] = await Promise.all([shared("zones", () => listZones(project)), shared("progress-checked", () => loadProgress(project, { crossCheck: true }))]);
+  const [zones, progress] = await Promise.all([shared("zones", () => listZones(project)), keptProgress(request, project)]);
   // The manager is reminded of the setup steps left until every one is done (an archived project is past setting up).
   const setup = can(access, "project.configure") ? await shared("setup-progress", () => loadSetupProgress(project)) : null;
   // The reconciliation rests on the same progress figures: handed over, not read twice.
