@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { hullRing, tinArea, triangulate, vertexCount } from "./triangulate";
+import Delaunator from "delaunator";
+import { hullRing, spatialOrderFrom, tinArea, triangulate, vertexCount } from "./triangulate";
 import { rasterizeTin } from "./raster";
 
 function seeded(seed: number) {
@@ -32,6 +33,34 @@ describe("triangulate", () => {
     // invariant: a triangulation of a point set tiles its convex hull exactly.
     expect(Math.abs(tinArea(tin) - shoelace(hullRing(tin))) / shoelace(hullRing(tin))).toBeLessThan(1e-12);
     expect(tin.triangles.length / 3).toBeGreaterThan(3900); // computed: 2n − 2 − hull vertices for n = 2000
+  });
+
+  it("gives the same triangles in Z order (large surveys) as in the order the soundings came", () => {
+    // invariant: Delaunay triangles depend on the positions only, so putting the soundings in Z
+    // order (done from `spatialOrderFrom` on) cannot change them. Reference: Delaunator itself on
+    // the soundings as they came, triangles compared as sets of corner positions.
+    const cornersOf = (x: (vertex: number) => number, y: (vertex: number) => number, triangles: ArrayLike<number>) => {
+      const keys: string[] = [];
+      for (let corner = 0; corner < triangles.length; corner += 3) {
+        const points = [triangles[corner], triangles[corner + 1], triangles[corner + 2]].map((vertex) => `${x(vertex)},${y(vertex)}`);
+        keys.push(points.sort().join(" "));
+      }
+      return keys.sort();
+    };
+    for (const count of [2_000, spatialOrderFrom + 500]) {
+      const survey = randomSurvey(count, seeded(count), 1000);
+      const tin = triangulate(survey.easting, survey.northing, survey.elevation, { maxEdge: Infinity });
+      const ours = cornersOf((vertex) => tin.xy[2 * vertex] + tin.offsetX, (vertex) => tin.xy[2 * vertex + 1] + tin.offsetY, tin.triangles);
+      const coords = new Float64Array(2 * count);
+      for (let index = 0; index < count; index++) {
+        coords[2 * index] = survey.easting[index];
+        coords[2 * index + 1] = survey.northing[index];
+      }
+      const reference = new Delaunator(coords);
+      const theirs = cornersOf((vertex) => survey.easting[vertex], (vertex) => survey.northing[vertex], reference.triangles);
+      expect(ours.length).toBe(theirs.length);
+      expect(ours).toEqual(theirs);
+    }
   });
 
   it("merges exact duplicates into one vertex with the mean elevation", () => {
