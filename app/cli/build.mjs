@@ -1,8 +1,10 @@
 // Builds the `firmsand` command line as plain JavaScript (`npm run build:cli`, also part of
-// `npm run build` and of `npm ci` through `prepare`): build/cli/firmsand.mjs and, beside it, the
+// `npm run build` and of `npm ci` through `prepare`): build/cli/firmsand.mjs (which runs the bundle
+// firmsand-bundle.cjs through V8's code cache) and, beside it, the
 // engine worker thread it starts (engine-worker.thread.mjs, the name the pool looks for beside a
 // bundle). Running the built file starts in a fraction of the time tsx needs to compile the
 // sources at every start and in every thread. esbuild is the one Vite's worker build already uses.
+import { copyFileSync, readdirSync, rmSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 
@@ -48,7 +50,16 @@ const common = {
 
 // Written over in place (not emptied first), so a command line already running keeps its files.
 await Promise.all([
-  build({ ...common, entryPoints: [join(root, "app/cli/firmsand.ts")], outfile: join(outdir, "firmsand.mjs") }),
+  // The command line as one CommonJS bundle, run by build/cli/firmsand.mjs (app/cli/code-cache-start.mjs)
+  // through V8's code cache. CommonJS because only a classic script can be given cached code on
+  // Node 20; the two `import.meta` values it uses arrive as parameters of the script's wrapper.
+  build({
+    ...common,
+    format: "cjs",
+    entryPoints: [join(root, "app/cli/firmsand.ts")],
+    outfile: join(outdir, "firmsand-bundle.cjs"),
+    define: { "import.meta.url": "__firmsandModuleUrl", "import.meta.resolve": "__firmsandResolve" },
+  }),
   // The thread loads what a state or bands job needs only on first use (dynamic imports, kept as
   // chunks of their own here), so a thread that triangulates and samples starts on little code.
   build({
@@ -60,3 +71,6 @@ await Promise.all([
     chunkNames: "engine-[name]-[hash]",
   }),
 ]);
+copyFileSync(join(root, "app/cli/code-cache-start.mjs"), join(outdir, "firmsand.mjs"));
+// Code caches of earlier bundles (each is named by its bundle's digest) are of no further use.
+for (const name of readdirSync(outdir)) if (name.endsWith(".v8cache")) rmSync(join(outdir, name), { force: true });

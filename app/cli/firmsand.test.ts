@@ -1,4 +1,5 @@
 import { spawnSync } from "node:child_process";
+import { readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 
@@ -88,5 +89,27 @@ describe("firmsand volumes", () => {
     const mismatch = firmsand(...base.slice(0, 3), "--units", "m", ...base.slice(5));
     expect(mismatch.status).toBe(2);
     expect(mismatch.stderr).toMatch(/does not match/);
+  });
+});
+
+describe("the built command line's code cache", () => {
+  const cliDirectory = join(root, "build", "cli");
+  const caches = () => readdirSync(cliDirectory).filter((name) => /^firmsand-bundle\.cjs\.[0-9a-f]{16}\.v8cache$/.test(name));
+
+  it("keeps the compiled code beside the bundle after a run, and a damaged cache changes nothing but is written again", () => {
+    for (const name of caches()) rmSync(join(cliDirectory, name), { force: true });
+    const first = firmsand(...base);
+    expect(first.status).toBe(0);
+    expect(caches()).toHaveLength(1);
+    const cacheFile = join(cliDirectory, caches()[0]);
+    const second = firmsand(...base);
+    expect(second.status).toBe(0);
+    expect(second.stdout).toBe(first.stdout);
+    // V8 refuses code it did not make (its own check); the run compiles as it goes and writes a good cache again.
+    writeFileSync(cacheFile, Buffer.alloc(4096, 7));
+    const third = firmsand(...base);
+    expect(third.status).toBe(0);
+    expect(third.stdout).toBe(first.stdout);
+    expect(readFileSync(cacheFile).equals(Buffer.alloc(4096, 7))).toBe(false);
   });
 });

@@ -325,4 +325,7 @@ async function main(argv: string[]): Promise<number> {
   }
 }
 
-process.exitCode = await main(process.argv.slice(2));
+// Not a top-level await: the built command line is a CommonJS bundle (app/cli/build.mjs).
+void main(process.argv.slice(2)).then((code) => {
+  process.exitCode = code;
+});
