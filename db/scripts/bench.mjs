@@ -13,13 +13,14 @@
 //   map     navigation to the cells drawn for a 100,000-cell bay in headless Chromium, and the
 //           bytes sent (tests/bench/map.ts), against the production build served on BENCH_PORT
 //           (default 3200)
+//   map-demo  the same for the seeded demo project (a few hundred cells; database `firmsand_load`)
 //   bodies  six 300 MB forms at once to the sign-in and forgot-password pages of the production
 //           build: every answer 413 and the server's memory within 100 MB of before
 //           (tests/bench/oversized-bodies.ts)
 //   load    50 signed-in connections on the map's cells, the progress figures and the overview page
 //           of the seeded demo (database `firmsand_load`), beside the server's floor (/healthz), with
 //           autocannon against the production build (tests/bench/load.ts; --duration, --connections, --runs)
-// Options: --only engine|engine-files|import|event-loop|map|bodies|load (repeatable); anything else goes to the engine bench
+// Options: --only engine|engine-files|import|event-loop|map|map-demo|bodies|load (repeatable); anything else goes to the engine bench
 // (for example --only engine --runs 1). Leaves no process behind: what it started, it stops.
 import { spawn } from "node:child_process";
 import { join } from "node:path";
@@ -28,7 +29,7 @@ import { ensureMariaDb, stopMariaDb } from "./db.mjs";
 import { ensureS3Server, stopS3Server } from "./services.mjs";
 
 const args = process.argv.slice(2);
-const parts = ["engine", "engine-files", "import", "event-loop", "map", "bodies", "load"];
+const parts = ["engine", "engine-files", "import", "event-loop", "map", "map-demo", "bodies", "load"];
 const chosen = [];
 const passThrough = [];
 for (let index = 0; index < args.length; index++) {
@@ -124,19 +125,29 @@ if (needsDatabase) {
       }
       await stop();
     }
-    if (selected.includes("load")) {
+    if (selected.includes("load") || selected.includes("map-demo")) {
       // The demo project seeded into a database of its own (its finds' photos need the fake store).
       const store = await ensureS3Server("test");
       if (store.startedHere) cleanups.push(() => stopS3Server("test"));
       const loadEnv = { ...env, ...store.env, DB_NAME: "firmsand_load", DEMO_MODE: "1", PORT: String(port), HOST: "127.0.0.1", BENCH_BASE_URL: baseUrl };
-      log("bench: seeding the demo for the load bench (not part of the figures)");
+      log("bench: seeding the demo (not part of the figures)");
       run(bin("tsx"), ["db/migrate.ts", "reset"], { env: loadEnv });
       run(bin("tsx"), ["db/seed.ts", "demo"], { env: loadEnv });
-      const { app } = await serveApp(loadEnv);
-      log("bench: reads under load");
-      const databasePid = readPid(join(DATA_DIR, "mariadb-test.pid"));
-      const benchEnv = { ...loadEnv, BENCH_APP_PID: String(app.pid), ...(databasePid ? { BENCH_DB_PID: String(databasePid) } : {}) };
-      if ((await runStep(bin("tsx"), ["tests/bench/load.ts", ...passThrough], benchEnv)) !== 0) failed = true;
+      const { app, stop } = await serveApp(loadEnv);
+      if (selected.includes("map-demo")) {
+        log("bench: the demo's coverage map in Chromium");
+        const chromium = ensureDebianPackage("chromium", "chromium");
+        if ((await runStep(bin("tsx"), ["tests/bench/map.ts", "--demo"], { ...loadEnv, BENCH_APP_PID: String(app.pid), CHROMIUM_PATH: chromium })) !== 0) failed = true;
+      }
+      if (selected.includes("load")) {
+        // A fresh server for the load (the map's visits above would otherwise have warmed its caches).
+        await stop();
+        const { app: loadApp } = await serveApp(loadEnv);
+        log("bench: reads under load");
+        const databasePid = readPid(join(DATA_DIR, "mariadb-test.pid"));
+        const benchEnv = { ...loadEnv, BENCH_APP_PID: String(loadApp.pid), ...(databasePid ? { BENCH_DB_PID: String(databasePid) } : {}) };
+        if ((await runStep(bin("tsx"), ["tests/bench/load.ts", ...passThrough], benchEnv)) !== 0) failed = true;
+      }
     }
   } catch (error) {
     log(error.stack ?? String(error));
