@@ -133,19 +133,21 @@ if (needsDatabase) {
       log("bench: seeding the demo (not part of the figures)");
       run(bin("tsx"), ["db/migrate.ts", "reset"], { env: loadEnv });
       run(bin("tsx"), ["db/seed.ts", "demo"], { env: loadEnv });
-      const { app, stop } = await serveApp(loadEnv);
+      let { app, stop } = await serveApp(loadEnv);
       if (selected.includes("map-demo")) {
         log("bench: the demo's coverage map in Chromium");
         const chromium = ensureDebianPackage("chromium", "chromium");
         if ((await runStep(bin("tsx"), ["tests/bench/map.ts", "--demo"], { ...loadEnv, BENCH_APP_PID: String(app.pid), CHROMIUM_PATH: chromium })) !== 0) failed = true;
+        if (selected.includes("load")) {
+          // A fresh server for the load (the map's visits would otherwise have warmed its caches).
+          await stop();
+          ({ app, stop } = await serveApp(loadEnv));
+        }
       }
       if (selected.includes("load")) {
-        // A fresh server for the load (the map's visits above would otherwise have warmed its caches).
-        await stop();
-        const { app: loadApp } = await serveApp(loadEnv);
         log("bench: reads under load");
         const databasePid = readPid(join(DATA_DIR, "mariadb-test.pid"));
-        const benchEnv = { ...loadEnv, BENCH_APP_PID: String(loadApp.pid), ...(databasePid ? { BENCH_DB_PID: String(databasePid) } : {}) };
+        const benchEnv = { ...loadEnv, BENCH_APP_PID: String(app.pid), ...(databasePid ? { BENCH_DB_PID: String(databasePid) } : {}) };
         if ((await runStep(bin("tsx"), ["tests/bench/load.ts", ...passThrough], benchEnv)) !== 0) failed = true;
       }
     }
