@@ -594,7 +594,11 @@ export async function requestCountersign(project: ProjectView, user: UserView, d
     if (row.countersignedAt && !(await amendedSinceCountersign(row, transaction))) {
       throw new ConflictError(`This day's report was already countersigned by ${row.countersignedByName}, and not amended since: a new countersignature is asked for only after an amendment.`);
     }
-    await CountersignRequest.update({ revokedAt: now }, { where: { reportId: row.id, usedAt: null, revokedAt: null }, transaction });
+    // The open links are found first and revoked by id: an UPDATE ranging over reportId took gap locks
+    // that deadlocked with the INSERT of a link for another day's report asked for at the same moment.
+    // The report's row lock keeps this report's links from changing meanwhile.
+    const open = await CountersignRequest.findAll({ where: { reportId: row.id, usedAt: null, revokedAt: null }, attributes: ["id"], transaction });
+    if (open.length > 0) await CountersignRequest.update({ revokedAt: now }, { where: { id: open.map((link) => link.id) }, transaction });
     const request = await CountersignRequest.create({ reportId: row.id, email, tokenHash, expiresAt, requestedById: user.id }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.dailyReportCountersignRequested, projectId: project.id, userId: user.id, ip, detail: { date, email } }, transaction);
     await queueMail({

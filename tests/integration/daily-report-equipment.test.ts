@@ -186,11 +186,11 @@ describe("a new countersignature after an amendment", () => {
   const requestLink = (email: string) => send(countersignRequestAction as never, "dive-supervisor", `${dayPath(DAY)}/countersign-requests`, "POST", { email }, DAY);
 
   it("is refused while the countersignature is current, and asked for once the report is amended; the first stays on record", async () => {
-    expect((await requestLink("inspector@agency.example")).status).toBe(201);
-    const first = await linkOf("inspector@agency.example");
+    expect((await requestLink("kit.inspector@agency.example")).status).toBe(201);
+    const first = await linkOf("kit.inspector@agency.example");
     expect(await countersignReport(first, "Morgan Alvarez")).toEqual({ ok: true, date: DAY });
     // Countersigned, not amended since: 409.
-    const refused = await requestLink("inspector@agency.example");
+    const refused = await requestLink("kit.inspector@agency.example");
     expect(refused.status).toBe(409);
     expect((await refused.json()).errors[0].message).toMatch(/not amended since/);
 
@@ -205,8 +205,8 @@ describe("a new countersignature after an amendment", () => {
     const outdatedPdf = (await pdfPages((await dailyReportPdf(await project(), DAY)).bytes)).join(" ");
     expect(outdatedPdf).toContain("Amended after this countersignature");
 
-    expect((await requestLink("second.inspector@agency.example")).status).toBe(201);
-    const second = await linkOf("second.inspector@agency.example");
+    expect((await requestLink("kit.second-inspector@agency.example")).status).toBe(201);
+    const second = await linkOf("kit.second-inspector@agency.example");
     // The new link is open (the report is countersigned, but amended since); it shows the earlier countersignature.
     const lookup = await lookUpCountersign(second);
     expect(lookup.status).toBe("open");
@@ -216,24 +216,35 @@ describe("a new countersignature after an amendment", () => {
 
     const body = await getDay(DAY);
     expect(body.state).toBe("countersigned");
-    expect(body.signed.countersigned).toMatchObject({ name: "Riley Chen", email: "second.inspector@agency.example" });
+    expect(body.signed.countersigned).toMatchObject({ name: "Riley Chen", email: "kit.second-inspector@agency.example" });
     expect(body.signed.countersignOutdated).toBe(false);
-    expect(body.signed.earlierCountersignatures).toEqual([{ name: "Morgan Alvarez", email: "inspector@agency.example", at: expect.any(String), amendments: 0 }]);
+    expect(body.signed.earlierCountersignatures).toEqual([{ name: "Morgan Alvarez", email: "kit.inspector@agency.example", at: expect.any(String), amendments: 0 }]);
     const [calendar] = (await listMonthDays(await project(), "2026-06")).filter((day) => day.date === DAY);
     expect(calendar).toMatchObject({ state: "countersigned", note: "with 1 amendment" });
     // Its own stored file (c2), with both countersignatures.
     const pdf = await dailyReportPdf(await project(), DAY);
     const text = (await pdfPages(pdf.bytes)).join(" ");
     expect(text).toContain("Riley Chen");
-    expect(text).toMatch(/Earlier countersignature: Morgan Alvarez, 2026-\d\d-\d\d \d\d:\d\d \(link sent to inspector@agency\.example\), of the report as signed, before any amendment\./);
+    expect(text).toMatch(/Earlier countersignature: Morgan Alvarez, 2026-\d\d-\d\d \d\d:\d\d \(link sent to kit\.inspector@agency\.example\), of the report as signed, before any amendment\./);
     expect(text).not.toContain("Amended after this countersignature");
     const events = await AuditEvent.findAll({ where: { projectId, action: "daily-report-countersigned" }, order: [["id", "ASC"]] });
     expect(events.map((event) => event.detail)).toEqual([
-      { date: DAY, name: "Morgan Alvarez", email: "inspector@agency.example", amendments: 0 },
-      { date: DAY, name: "Riley Chen", email: "second.inspector@agency.example", amendments: 1, again: true },
+      { date: DAY, name: "Morgan Alvarez", email: "kit.inspector@agency.example", amendments: 0 },
+      { date: DAY, name: "Riley Chen", email: "kit.second-inspector@agency.example", amendments: 1, again: true },
     ]);
     // Countersigned again, not amended since: refused again.
-    expect((await requestLink("inspector@agency.example")).status).toBe(409);
+    expect((await requestLink("kit.inspector@agency.example")).status).toBe(409);
     expect(await DailyReportAmendment.count({ where: { reportId: (await DailyReport.findOne({ where: { projectId, localDate: DAY } }))!.id } })).toBe(1);
+  });
+
+  it("links asked for two days at the same moment are both sent (no deadlock between their transactions)", async () => {
+    // Two more signed days, each with an open link, so each request revokes one and inserts one.
+    const days = ["2026-06-15", "2026-06-16"];
+    for (const day of days) expect((await send(signAction as never, "dive-supervisor", `${dayPath(day)}/sign`, "POST", { name: "Dana Reyes" }, day)).status).toBe(201);
+    const ask = (day: string, round: number) => send(countersignRequestAction as never, "dive-supervisor", `${dayPath(day)}/countersign-requests`, "POST", { email: `kit.round${round}@agency.example` }, day);
+    for (let round = 0; round < 4; round++) {
+      const answers = await Promise.all(days.map((day) => ask(day, round)));
+      expect(answers.map((answer) => answer.status), `round ${round}`).toEqual([201, 201]);
+    }
   });
 });
