@@ -249,14 +249,16 @@ function EquipmentForm({ saved, names, dayHours, errors }: { saved: ReadonlyArra
           return (
             <div key={line.id} className="grid gap-2 rounded border border-line p-3 md:grid-cols-[minmax(0,2fr)_7rem_7rem_minmax(0,3fr)_auto] md:items-start" data-testid="equipment-line">
               <TextField label={`Line ${position + 1}: equipment`} name={name("name")} maxLength={120} defaultValue={line.name} placeholder="suction pump 1" error={error("name")} />
-              <TextField label="Working (h)" name={name("workingHours")} type="number" inputMode="decimal" min={0} max={dayHours} step="any" defaultValue={line.workingHours} error={error("workingHours")} />
-              <TextField label="Idle (h)" name={name("idleHours")} type="number" inputMode="decimal" min={0} max={dayHours} step="any" defaultValue={line.idleHours} error={error("idleHours")} />
-              <TextField label="Idle reason" name={name("idleReason")} maxLength={500} defaultValue={line.idleReason} placeholder="waiting on the turbidity stop" error={error("idleReason")} />
+              <TextField label="Working (h)" name={name("workingHours")} type="number" inputMode="decimal" min={0} max={dayHours} step="any" defaultValue={line.workingHours} aria-invalid={error("workingHours") ? true : undefined} aria-describedby={error("workingHours") ? `${name("workingHours")}-error` : undefined} />
+              <TextField label="Idle (h)" name={name("idleHours")} type="number" inputMode="decimal" min={0} max={dayHours} step="any" defaultValue={line.idleHours} aria-invalid={error("idleHours") ? true : undefined} aria-describedby={error("idleHours") ? `${name("idleHours")}-error` : undefined} />
+              <TextField label="Idle reason" name={name("idleReason")} maxLength={500} defaultValue={line.idleReason} error={error("idleReason")} />
               <div className="md:pt-6">
                 <button type="button" className="rounded border border-line px-3 py-2 text-sm" onClick={() => setLines((current) => current.filter((candidate) => candidate.id !== line.id))} aria-label={`Remove line ${position + 1}`}>
                   Remove
                 </button>
               </div>
+              {/* The hours' refusals are said below the line, full width: the narrow hour columns would wrap them into many lines. */}
+              {(["workingHours", "idleHours"] as const).map((field) => (error(field) ? <p key={field} id={`${name(field)}-error`} className="text-sm text-danger md:col-span-5">{error(field)}</p> : null))}
             </div>
           );
         })}
