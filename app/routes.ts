@@ -31,6 +31,7 @@ export default [
   route("api/projects/:projectId/dewatering/tubes/:tubeId/fills", "routes/api.projects.$projectId.dewatering.tubes.$tubeId.fills.ts"),
   route("api/projects/:projectId/days/:date", "routes/api.projects.$projectId.days.$date.ts"),
   route("api/projects/:projectId/days/:date/amendments", "routes/api.projects.$projectId.days.$date.amendments.ts"),
+  route("api/projects/:projectId/days/:date/equipment", "routes/api.projects.$projectId.days.$date.equipment.ts"),
   route("api/projects/:projectId/days/:date/countersign-requests", "routes/api.projects.$projectId.days.$date.countersign-requests.ts"),
   route("api/projects/:projectId/days/:date/sign", "routes/api.projects.$projectId.days.$date.sign.ts"),
   route("api/projects/:projectId/dives", "routes/api.projects.$projectId.dives.ts"),

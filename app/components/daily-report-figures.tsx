@@ -1,7 +1,7 @@
 import { Fragment } from "react";
-import type { CompiledDay } from "../../shared/daily-report/compile";
+import type { CompiledDay, EquipmentLine } from "../../shared/daily-report/compile";
 import { Link } from "react-router";
-import { byHandLine, findsLine, formatNumber as fmt, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine } from "../../shared/daily-report/present";
+import { byHandLine, equipmentRows, equipmentTotalsLine, findsLine, formatNumber as fmt, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine } from "../../shared/daily-report/present";
 import { localClockOf } from "../../shared/local-time";
 import { unitLabel, type LengthUnit } from "../../shared/units";
 
@@ -14,6 +14,27 @@ export function Section({ title, children }: { title: string; children: React.Re
       <h3 className="mb-2 font-semibold">{title}</h3>
       {children}
     </section>
+  );
+}
+
+/** The day's equipment, working and idle with the reasons, as entered (the PDF writes the same rows). */
+export function EquipmentHours({ equipment }: { equipment: readonly EquipmentLine[] | undefined }) {
+  const rows = equipmentRows(equipment);
+  if (rows.length === 0) return <p className="text-sm text-muted" data-testid="equipment-hours">No equipment hours entered.</p>;
+  return (
+    <div data-testid="equipment-hours">
+      <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Equipment working and idle, scrollable">
+        <table className="w-full text-sm">
+          <thead><tr className="text-left align-bottom text-muted"><th scope="col" className="pr-3">Equipment</th><th scope="col" className="pr-3">Working (h)</th><th scope="col" className="pr-3">Idle (h)</th><th scope="col">Idle reason</th></tr></thead>
+          <tbody>
+            {rows.map(([name, working, idle, reason]) => (
+              <tr key={name} className="border-t border-line"><td className="pr-3">{name}</td><td className="figures pr-3">{working}</td><td className="figures pr-3">{idle}</td><td className="break-words">{reason}</td></tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <p className="mt-1 text-xs text-muted">{equipmentTotalsLine(equipment)}</p>
+    </div>
   );
 }
 

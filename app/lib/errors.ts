@@ -64,6 +64,16 @@ export class PayloadTooLargeError extends DomainError {}
 /** Too many requests of this kind from this client for now; the message says when to try again. */
 export class TooManyRequestsError extends DomainError {}
 
+/**
+ * Firmsand cannot answer right now: a service it depends on (the database, the file storage) is
+ * unreachable. Nothing was changed; the client may try again after `retryAfterSeconds`.
+ */
+export class ServiceUnavailableError extends DomainError {
+  constructor(details: string | ErrorDetail | ErrorDetail[], readonly retryAfterSeconds = 30) {
+    super(details);
+  }
+}
+
 /** A zod failure's issues as details, each named by its path (none for the input as a whole). */
 export function detailsOf(error: z.ZodError): ErrorDetail[] {
   return error.issues.map((issue) => {

@@ -1,6 +1,6 @@
 import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
-import { compileDay, localDayBounds, type CompiledDay, type DayInterruption, type SurveyTotals } from "../../shared/daily-report/compile";
+import { EQUIPMENT_MAX_LINES, compileDay, localDayBounds, type CompiledDay, type DayInterruption, type SurveyTotals } from "../../shared/daily-report/compile";
 import { BATCH_DAYS, dayStatus, type DayState, type ReportEvents } from "../../shared/daily-report/present";
 import { localDayOf } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
@@ -49,7 +49,76 @@ export const countersignInputSchema = z.object({ name: z.string().trim().min(1, 
 export const subscriberInputSchema = z.union([z.object({ email: emailField }), z.object({ userId: z.coerce.number().int().positive() })]);
 export const batchInputSchema = z.object({ from: workDateSchema, to: workDateSchema });
 
-const EMPTY_NOTES: EnteredNotesRecord = { weather: null, inspections: "", safety: "", notes: "" };
+const equipmentLineInput = z.object(
+  // Each field checked in the refinement below, where the line's number is known.
+  { name: z.unknown().optional(), workingHours: z.unknown().optional(), idleHours: z.unknown().optional(), idleReason: z.unknown().optional() },
+  { message: 'each line is {"name", "workingHours", "idleHours", "idleReason"}' },
+);
+
+/**
+ * The day's equipment lines as entered (the page's form and `PUT …/equipment`): a name, hours
+ * working and hours idle (0 when left out), and the idle reason in words whenever it stood idle.
+ * Hours are at most the local day's length (24 h; 23 or 25 h on a daylight-saving change), each and
+ * together. Every refusal names its line ("line 2: …") and sits on that line's field.
+ */
+export function equipmentInputSchema(dayHours = 24) {
+  const most = formatHours(dayHours);
+  return z
+    .object({
+      equipment: z
+        .array(equipmentLineInput, { message: 'equipment is a list of {"name", "workingHours", "idleHours", "idleReason"}' })
+        .max(EQUIPMENT_MAX_LINES, `at most ${EQUIPMENT_MAX_LINES} pieces of equipment on one day's report`),
+    })
+    .superRefine(({ equipment }, context) => {
+      const seen = new Map<string, number>();
+      equipment.forEach((line, index) => {
+        const named = `line ${index + 1}`;
+        const issue = (field: string, message: string) => context.addIssue({ code: "custom", path: ["equipment", index, field], message: `${named}: ${message}` });
+        const name = typeof line.name === "string" ? line.name.trim() : "";
+        if (typeof line.name !== "string" || name === "") issue("name", "name the equipment (e.g. suction pump 1, booster pump, work boat)");
+        else if (name.length > 120) issue("name", "the name is at most 120 characters");
+        else if (seen.has(name.toLowerCase())) issue("name", `${name} is already on line ${seen.get(name.toLowerCase())! + 1}: give each piece one line`);
+        else seen.set(name.toLowerCase(), index);
+        const hours: Record<"workingHours" | "idleHours", number | null> = { workingHours: 0, idleHours: 0 };
+        for (const [field, words] of [["workingHours", "working hours"], ["idleHours", "idle hours"]] as const) {
+          const value = line[field];
+          if (value === undefined || value === null) continue;
+          if (typeof value !== "number" || !Number.isFinite(value) || value < 0 || value > dayHours) {
+            issue(field, `${words} are a number of hours from 0 to ${most}`);
+            hours[field] = null;
+          } else hours[field] = value;
+        }
+        if (hours.workingHours === null || hours.idleHours === null) return;
+        if (hours.workingHours + hours.idleHours > dayHours + 1e-9) {
+          issue("idleHours", `working and idle hours add up to ${formatHours(hours.workingHours + hours.idleHours)} h, more than the ${most} h of this day`);
+        } else if (hours.workingHours === 0 && hours.idleHours === 0) {
+          issue("workingHours", "give its hours working, idle, or both");
+        }
+        const reason = typeof line.idleReason === "string" ? line.idleReason.trim() : "";
+        if (line.idleReason !== undefined && line.idleReason !== null && typeof line.idleReason !== "string") issue("idleReason", "the idle reason is words");
+        else if (reason.length > 500) issue("idleReason", "the idle reason is at most 500 characters");
+        else if (hours.idleHours > 0 && reason === "") issue("idleReason", "say why it stood idle (waiting on a turbidity stop, repair, no crew…)");
+      });
+    })
+    .transform(({ equipment }) => ({
+      equipment: equipment.map((line) => ({
+        name: String(line.name ?? "").trim(),
+        workingHours: Math.round(Number(line.workingHours ?? 0) * 100) / 100,
+        idleHours: Math.round(Number(line.idleHours ?? 0) * 100) / 100,
+        idleReason: typeof line.idleReason === "string" ? line.idleReason.trim() : "",
+      })),
+    }));
+}
+
+const formatHours = (hours: number) => String(Math.round(hours * 100) / 100);
+
+/** The hours in the project's local day: 24, or 23 / 25 across a daylight-saving change. */
+export function hoursInDay(project: ProjectView, date: string): number {
+  const { startMs, endMs } = localDayBounds(date, project.timeZone);
+  return (endMs - startMs) / 3_600_000;
+}
+
+const EMPTY_NOTES: EnteredNotesRecord = { weather: null, equipment: [], inspections: "", safety: "", notes: "" };
 const minutesOfClock = (clock: string) => Number(clock.slice(0, 2)) * 60 + Number(clock.slice(3, 5));
 
 export interface DailyReportView {
@@ -60,6 +129,13 @@ export interface DailyReportView {
   signed: { name: string; at: string } | null;
   /** The agency inspector's countersignature, through the e-mailed one-time link. */
   countersigned: { name: string; email: string; at: string } | null;
+  /**
+   * Countersignatures before the latest, kept when the report was amended and countersigned again,
+   * oldest first; `amendments`: how many amendments the report carried when it was countersigned.
+   */
+  earlierCountersignatures: Array<{ name: string; email: string; at: string; amendments: number }>;
+  /** Amended since the latest countersignature: the signer may ask the inspector to countersign again. */
+  countersignOutdated: boolean;
   amendments: Array<{ text: string; by: string; at: string }>;
   state: DayState;
   /** A signed report whose PDF is not stored (nor sent to the subscribers) yet: the storage did not answer; retried. */
@@ -105,7 +181,11 @@ export async function compileReport(project: ProjectView, date: string, entered:
   const teams = new Map<string, number>();
   for (const assignment of planned) if (assignment.team) teams.set(assignment.team.name, assignment.team.members.length);
   const interruptions: DayInterruption[] = [
-    ...stopWork.map((event) => ({ kind: "stop-work" as const, reason: `turbidity at ${event.station?.name ?? "a station"}`, startMs: event.openedAt.getTime(), endMs: event.resumedAt?.getTime() ?? null })),
+    ...stopWork.map((event) => ({
+      kind: "stop-work" as const, reason: `turbidity at ${event.station?.name ?? "a station"}`, startMs: event.openedAt.getTime(), endMs: event.resumedAt?.getTime() ?? null,
+      notifyByMs: event.notifyBy.getTime(),
+      agencyNotified: event.agencyNotifiedAt ? { atMs: event.agencyNotifiedAt.getTime(), to: event.agencyNotifiedTo ?? "", how: event.agencyNotifiedHow ?? "" } : null,
+    })),
     ...standDowns.map((event) => ({ kind: "stand-down" as const, reason: event.species, startMs: event.startedAt.getTime(), endMs: event.endsAt?.getTime() ?? null })),
   ];
   return compileDay({
@@ -147,8 +227,15 @@ function eventsOf(row: DailyReport): ReportEvents {
   };
 }
 
+/** The used countersign links of a countersigned report but the latest one: its earlier countersignatures, oldest first. */
+async function earlierCountersignaturesOf(row: DailyReport | null): Promise<DailyReportView["earlierCountersignatures"]> {
+  if (!row?.countersignedAt) return [];
+  const used = await CountersignRequest.findAll({ where: { reportId: row.id, usedAt: { [Op.ne]: null }, countersignedName: { [Op.ne]: null } }, order: [["usedAt", "ASC"], ["id", "ASC"]] });
+  return used.slice(0, -1).map((request) => ({ name: request.countersignedName!, email: request.email, at: request.usedAt!.toISOString(), amendments: request.amendmentsSeen ?? 0 }));
+}
+
 /** The view of a report row (as signed when signed, with the figures given). */
-function viewOf(row: DailyReport | null, date: string, report: CompiledDay, worked: boolean): DailyReportView {
+function viewOf(row: DailyReport | null, date: string, report: CompiledDay, worked: boolean, earlierCountersignatures: DailyReportView["earlierCountersignatures"] = []): DailyReportView {
   const signed = row?.signedAt && row.signedByName ? { name: row.signedByName, at: row.signedAt.toISOString() } : null;
   const countersigned = signed && row?.countersignedAt && row.countersignedByName
     ? { name: row.countersignedByName, email: row.countersignedEmail ?? "", at: row.countersignedAt.toISOString() }
@@ -158,14 +245,15 @@ function viewOf(row: DailyReport | null, date: string, report: CompiledDay, work
     .map((amendment) => ({ text: amendment.text, by: amendment.byName, at: amendment.createdAt.toISOString() }));
   const { state, note } = dayStatus(row ? eventsOf(row) : null, worked);
   const pdfPending = signed && row?.pdfDueAt ? { attempts: row.pdfAttempts, nextAttemptAt: row.pdfDueAt.toISOString(), lastError: row.pdfLastError } : null;
-  return { date, report, asSigned: Boolean(signed), signed, countersigned, amendments, state, stateNote: note, pdfPending };
+  const countersignOutdated = countersigned !== null && state === "amended";
+  return { date, report, asSigned: Boolean(signed), signed, countersigned, earlierCountersignatures: countersigned ? earlierCountersignatures : [], countersignOutdated, amendments, state, stateNote: note, pdfPending };
 }
 
 /** The day's report: as signed (the snapshot) once signed, else compiled now. */
 export async function getDailyReport(project: ProjectView, date: string, nowMs = Date.now()): Promise<DailyReportView> {
   const row = await findReport(project, date);
   const report = row?.signedAt && row.snapshot ? (row.snapshot as unknown as CompiledDay) : await compileReport(project, date, row?.entered ?? EMPTY_NOTES, nowMs);
-  return viewOf(row, date, report, report.dives.count > 0);
+  return viewOf(row, date, report, report.dives.count > 0, await earlierCountersignaturesOf(row));
 }
 
 const LOCKED = "This day's report is signed and locked: add an amendment instead.";
@@ -175,13 +263,35 @@ export async function saveEnteredNotes(project: ProjectView, user: UserView, dat
   const weather = input.conditions || input.airTemperature || input.wind || input.rain || input.effect
     ? { conditions: input.conditions, airTemperature: input.airTemperature, wind: input.wind, rain: input.rain, effect: input.effect }
     : null;
-  const entered: EnteredNotesRecord = { weather, inspections: input.inspections, safety: input.safety, notes: input.notes };
   await getSequelize().transaction(async (transaction) => {
     const [row] = await DailyReport.findOrCreate({ where: { projectId: project.id, localDate: date }, defaults: { projectId: project.id, localDate: date, entered: EMPTY_NOTES }, transaction, lock: transaction.LOCK.UPDATE });
     if (row.signedAt) throw new ConflictError(LOCKED);
+    // The equipment lines are saved on their own (saveEquipment) and kept here.
+    const entered: EnteredNotesRecord = { weather, equipment: row.entered.equipment, inspections: input.inspections, safety: input.safety, notes: input.notes };
     await row.update({ entered }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.dailyReportNotesEntered, projectId: project.id, userId: user.id, ip, detail: { date } }, transaction);
   });
+}
+
+/** The equipment names on the latest report before `date` that has any: a new day's lines start from them. */
+export async function earlierEquipmentNames(project: ProjectView, date: string): Promise<string[]> {
+  const earlier = await DailyReport.findAll({ where: { projectId: project.id, localDate: { [Op.lt]: date } }, attributes: ["id", "entered"], order: [["localDate", "DESC"]], limit: 14 });
+  const latest = earlier.find((row) => row.entered.equipment.length > 0);
+  return latest ? latest.entered.equipment.map((line) => line.name) : [];
+}
+
+/**
+ * Replaces the day's equipment lines (checked by `equipmentInputSchema` against the day's length);
+ * audited like the weather and notes; refused once the report is signed.
+ */
+export async function saveEquipment(project: ProjectView, user: UserView, date: string, input: { equipment: EnteredNotesRecord["equipment"] }, ip: string | null = null): Promise<EnteredNotesRecord["equipment"]> {
+  await getSequelize().transaction(async (transaction) => {
+    const [row] = await DailyReport.findOrCreate({ where: { projectId: project.id, localDate: date }, defaults: { projectId: project.id, localDate: date, entered: EMPTY_NOTES }, transaction, lock: transaction.LOCK.UPDATE });
+    if (row.signedAt) throw new ConflictError(LOCKED);
+    await row.update({ entered: { ...row.entered, equipment: input.equipment } }, { transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.dailyReportNotesEntered, projectId: project.id, userId: user.id, ip, detail: { date, equipment: input.equipment.map((line) => line.name) } }, transaction);
+  });
+  return input.equipment;
 }
 
 /**
@@ -329,15 +439,20 @@ export async function listMonthDays(project: ProjectView, month: string): Promis
 
 const PDF_TYPE = "application/pdf";
 const pdfProject = (project: ProjectView) => ({ name: project.name, timeZone: project.timeZone, lengthUnit: project.lengthUnit });
-const pdfDay = (view: DailyReportView): PdfDay => ({ date: view.date, report: view.report, signed: view.signed, countersigned: view.countersigned, amendments: view.amendments });
+const pdfDay = (view: DailyReportView): PdfDay => ({
+  date: view.date, report: view.report, signed: view.signed, countersigned: view.countersigned, amendments: view.amendments,
+  earlierCountersignatures: view.earlierCountersignatures, countersignOutdated: view.countersignOutdated,
+});
 export const dailyReportFilename = (project: ProjectView, date: string) => `${project.slug}-daily-report-${date}.pdf`;
 
 /**
  * The stored "signed report" file for what the signed report shows now: signed, countersigned
- * ("c") and each amendment ("a2") make a new file, so the first signed file stays as it was sent.
+ * ("c"; "c2" for a second countersignature after an amendment) and each amendment ("a2") make a
+ * new file, so the first signed file stays as it was sent.
  */
 function signedPdfKey(project: ProjectView, view: DailyReportView): string {
-  const revision = `signed${view.countersigned ? "-c" : ""}${view.amendments.length > 0 ? `-a${view.amendments.length}` : ""}`;
+  const countersignatures = view.countersigned ? view.earlierCountersignatures.length + 1 : 0;
+  const revision = `signed${countersignatures > 0 ? `-c${countersignatures > 1 ? countersignatures : ""}` : ""}${view.amendments.length > 0 ? `-a${view.amendments.length}` : ""}`;
   return objectKey(["projects", project.id, "daily-reports", view.date, `${revision}.pdf`]);
 }
 
@@ -466,7 +581,8 @@ export const COUNTERSIGN_LIFETIME_MS = 14 * 24 * 60 * 60 * 1000;
 /**
  * The signer (or a manager) asks the agency's inspector to countersign: a one-time link by e-mail,
  * like an invitation. An earlier open link for the same report stops working. The report must be
- * signed and not yet countersigned (409 otherwise).
+ * signed, and not countersigned, or amended since its countersignature (409 otherwise): the new
+ * countersignature is of the amended report; the earlier one stays on record beside it.
  */
 export async function requestCountersign(project: ProjectView, user: UserView, date: string, emailInput: string, origin: string, ip: string | null = null, now = new Date()): Promise<{ email: string; expiresAt: string; token: string }> {
   const email = normaliseEmail(emailInput);
@@ -475,8 +591,14 @@ export async function requestCountersign(project: ProjectView, user: UserView, d
   await getSequelize().transaction(async (transaction) => {
     const row = await DailyReport.findOne({ where: { projectId: project.id, localDate: date }, transaction, lock: transaction.LOCK.UPDATE });
     if (!row?.signedAt) throw new ConflictError("This day's report is not signed yet: sign it before asking for the inspector's countersignature.");
-    if (row.countersignedAt) throw new ConflictError(`This day's report was already countersigned by ${row.countersignedByName}.`);
-    await CountersignRequest.update({ revokedAt: now }, { where: { reportId: row.id, usedAt: null, revokedAt: null }, transaction });
+    if (row.countersignedAt && !(await amendedSinceCountersign(row, transaction))) {
+      throw new ConflictError(`This day's report was already countersigned by ${row.countersignedByName}, and not amended since: a new countersignature is asked for only after an amendment.`);
+    }
+    // The open links are found first and revoked by id: an UPDATE ranging over reportId took gap locks
+    // that deadlocked with the INSERT of a link for another day's report asked for at the same moment.
+    // The report's row lock keeps this report's links from changing meanwhile.
+    const open = await CountersignRequest.findAll({ where: { reportId: row.id, usedAt: null, revokedAt: null }, attributes: ["id"], transaction });
+    if (open.length > 0) await CountersignRequest.update({ revokedAt: now }, { where: { id: open.map((link) => link.id) }, transaction });
     const request = await CountersignRequest.create({ reportId: row.id, email, tokenHash, expiresAt, requestedById: user.id }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.dailyReportCountersignRequested, projectId: project.id, userId: user.id, ip, detail: { date, email } }, transaction);
     await queueMail({
@@ -509,6 +631,14 @@ export type CountersignLookup =
   | { status: "open"; email: string; projectName: string; timeZone: string; lengthUnit: ProjectView["lengthUnit"]; view: DailyReportView }
   | { status: "expired" | "used" | "unknown" };
 
+/** Whether a countersigned report was amended since (an amendment in the same second counts as later, as on the calendar). */
+async function amendedSinceCountersign(report: DailyReport, transaction?: Transaction): Promise<boolean> {
+  if (!report.countersignedAt || !report.signedAt) return false;
+  const amendments = await DailyReportAmendment.findAll({ where: { reportId: report.id }, attributes: ["id", "createdAt"], transaction });
+  const { state } = dayStatus({ signedAtMs: report.signedAt.getTime(), countersignedAtMs: report.countersignedAt.getTime(), amendedAtMs: amendments.map((amendment) => amendment.createdAt.getTime()) }, true);
+  return state === "amended";
+}
+
 async function findCountersignRequest(token: string, transaction?: Transaction) {
   return CountersignRequest.findOne({
     where: { tokenHash: hashLinkToken(token) },
@@ -518,9 +648,10 @@ async function findCountersignRequest(token: string, transaction?: Transaction) 
   });
 }
 
-function countersignStatus(request: CountersignRequest | null, now: Date): "open" | "expired" | "used" | "unknown" {
+/** A link is spent once used or replaced, and when the report is countersigned and not amended since (`current`). */
+function countersignStatus(request: CountersignRequest | null, now: Date, current: boolean): "open" | "expired" | "used" | "unknown" {
   if (!request?.report) return "unknown";
-  if (request.usedAt || request.revokedAt || request.report.countersignedAt) return "used";
+  if (request.usedAt || request.revokedAt || current) return "used";
   if (request.expiresAt.getTime() <= now.getTime()) return "expired";
   return "open";
 }
@@ -528,7 +659,8 @@ function countersignStatus(request: CountersignRequest | null, now: Date): "open
 /** What a countersign link shows: the signed report, read-only, or why the link no longer works. */
 export async function lookUpCountersign(token: string, now = new Date()): Promise<CountersignLookup> {
   const request = await findCountersignRequest(token);
-  const status = countersignStatus(request, now);
+  const current = Boolean(request?.report?.countersignedAt) && !(await amendedSinceCountersign(request!.report!));
+  const status = countersignStatus(request, now, current);
   if (status !== "open" || !request?.report?.project) return { status: status === "open" ? "unknown" : status };
   const project = presentProject(request.report.project);
   return { status: "open", email: request.email, projectName: project.name, timeZone: project.timeZone, lengthUnit: project.lengthUnit, view: await getDailyReport(project, request.report.localDate) };
@@ -540,11 +672,15 @@ export async function countersignReport(token: string, name: string, ip: string 
     const request = await findCountersignRequest(token, transaction);
     const report = request ? await DailyReport.findOne({ where: { id: request.reportId }, transaction, lock: transaction.LOCK.UPDATE }) : null;
     if (request && report) request.report = report;
-    const status = countersignStatus(request, now);
+    const current = Boolean(report?.countersignedAt) && !(await amendedSinceCountersign(report!, transaction));
+    const status = countersignStatus(request, now, current);
     if (status !== "open" || !request || !report) return { ok: false, reason: status === "open" ? "unknown" : status };
+    // The version countersigned: the amendments the report carries now. An earlier countersignature stays on its own link's row.
+    const amendmentsSeen = await DailyReportAmendment.count({ where: { reportId: report.id }, transaction });
+    const again = report.countersignedAt !== null;
     await report.update({ countersignedByName: name, countersignedEmail: request.email, countersignedAt: now }, { transaction });
-    await request.update({ usedAt: now }, { transaction });
-    await recordAudit({ action: AUDIT_ACTIONS.dailyReportCountersigned, projectId: report.projectId, userId: null, ip, detail: { date: report.localDate, name, email: request.email } }, transaction);
+    await request.update({ usedAt: now, countersignedName: name, amendmentsSeen }, { transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.dailyReportCountersigned, projectId: report.projectId, userId: null, ip, detail: { date: report.localDate, name, email: request.email, amendments: amendmentsSeen, ...(again ? { again: true } : {}) } }, transaction);
     return { ok: true, date: report.localDate };
   });
 }

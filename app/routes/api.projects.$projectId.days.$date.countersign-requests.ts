@@ -8,7 +8,8 @@ import type { Route } from "./+types/api.projects.$projectId.days.$date.counters
 
 const route = apiRoute<Route.LoaderArgs>({
   // POST JSON {email} → 201 {email, expiresAt}: a one-time countersign link goes to the inspector
-  // by e-mail (an earlier open link stops working); 409 unsigned or already countersigned.
+  // by e-mail (an earlier open link stops working); 409 unsigned, or countersigned and not amended
+  // since (after an amendment a new countersignature may be asked for; the earlier one stays on record).
   async POST({ request, params }) {
     const { user, project } = await requireApiAccess(request, params.projectId, "reports.sign");
     const date = dayParam(params.date);

@@ -8,8 +8,11 @@ const route = apiRoute<Route.LoaderArgs>({
   async GET({ request, params }) {
     const { project } = await requireApiAccess(request, params.projectId, "reports.read");
     const date = dayParam(params.date);
-    const { report, signed, countersigned, amendments, state, pdfPending } = await getDailyReport(project, date);
-    return Response.json({ ...report, state, ...(signed ? { signed: { ...signed, countersigned, amendments, pdf: pdfPending ? "preparing" : "stored" } } : {}) });
+    const { report, signed, countersigned, earlierCountersignatures, countersignOutdated, amendments, state, pdfPending } = await getDailyReport(project, date);
+    return Response.json({
+      ...report, state,
+      ...(signed ? { signed: { ...signed, countersigned, countersignOutdated, earlierCountersignatures, amendments, pdf: pdfPending ? "preparing" : "stored" } } : {}),
+    });
   },
 });
 export const loader = route.loader;

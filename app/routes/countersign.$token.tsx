@@ -1,7 +1,7 @@
 import { Form, data } from "react-router";
 import { weatherLine } from "../../shared/daily-report/present";
 import { localClockOf, localDayOf } from "../../shared/local-time";
-import { DailyReportFigures, Section } from "~/components/daily-report-figures";
+import { DailyReportFigures, EquipmentHours, Section } from "~/components/daily-report-figures";
 import { FormMessage } from "~/components/form-message";
 import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
@@ -24,7 +24,7 @@ export async function loader({ params }: Route.LoaderArgs) {
   const lookup = await lookUpCountersign(params.token);
   if (lookup.status !== "open") return { open: false as const, message: CLOSED_MESSAGES[lookup.status] };
   const { view } = lookup;
-  return { open: true as const, email: lookup.email, projectName: lookup.projectName, timeZone: lookup.timeZone, lengthUnit: lookup.lengthUnit, date: view.date, report: view.report, signed: view.signed, amendments: view.amendments };
+  return { open: true as const, email: lookup.email, projectName: lookup.projectName, timeZone: lookup.timeZone, lengthUnit: lookup.lengthUnit, date: view.date, report: view.report, signed: view.signed, amendments: view.amendments, countersigned: view.countersigned };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -57,7 +57,7 @@ export default function Countersign({ loaderData, actionData }: Route.ComponentP
       </Page>
     );
   }
-  const { report, signed, amendments, date, timeZone, lengthUnit } = loaderData;
+  const { report, signed, amendments, countersigned, date, timeZone, lengthUnit } = loaderData;
   const weather = weatherLine(report.entered.weather);
   const local = (iso: string) => `${localDayOf(Date.parse(iso), timeZone)} ${localClockOf(Date.parse(iso), timeZone)}`;
   return (
@@ -67,6 +67,12 @@ export default function Countersign({ loaderData, actionData }: Route.ComponentP
           <strong>{loaderData.projectName}</strong> · local day <span className="figures">{date}</span> in {timeZone}. Signed by <strong>{signed?.name}</strong> at <span className="figures whitespace-nowrap">{signed ? local(signed.at) : ""}</span>.
           This link was sent to <span className="figures">{loaderData.email}</span>; the report is read-only here.
         </p>
+        {countersigned ? (
+          <p className="rounded border border-caution bg-panel p-3 text-sm" data-testid="countersign-again">
+            {countersigned.name} countersigned this report at <span className="figures whitespace-nowrap">{local(countersigned.at)}</span>; it was amended after that (see Amendments below).
+            Your countersignature is of the report with its amendments; the earlier one stays on record as of the earlier version.
+          </p>
+        ) : null}
         {report.missing.length > 0 ? (
           <div className="rounded border border-danger bg-panel p-3 text-sm">
             <p className="font-medium text-danger">Missing when signed</p>
@@ -78,6 +84,9 @@ export default function Countersign({ loaderData, actionData }: Route.ComponentP
           {report.entered.inspections ? <p className="mt-1 text-sm"><span className="font-medium">Inspections and visitors:</span> {report.entered.inspections}</p> : null}
           {report.entered.safety ? <p className="mt-1 text-sm"><span className="font-medium">Safety:</span> {report.entered.safety}</p> : null}
           {report.entered.notes ? <p className="mt-1 text-sm"><span className="font-medium">Notes:</span> {report.entered.notes}</p> : null}
+        </Section>
+        <Section title="Equipment">
+          <EquipmentHours equipment={report.entered.equipment} />
         </Section>
         <DailyReportFigures report={report} timeZone={timeZone} lengthUnit={lengthUnit} />
         {amendments.length > 0 ? (

@@ -1,9 +1,11 @@
+import { useState } from "react";
 import { Form, Link, data } from "react-router";
 import { z } from "zod";
-import { weatherLine } from "../../shared/daily-report/present";
+import { EQUIPMENT_MAX_LINES } from "../../shared/daily-report/compile";
+import { countersignOutdatedLine, earlierCountersignatureLine, weatherLine } from "../../shared/daily-report/present";
 import { localClockOf, localDayOf } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
-import { DailyReportFigures, Section } from "~/components/daily-report-figures";
+import { DailyReportFigures, EquipmentHours, Section } from "~/components/daily-report-figures";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
@@ -16,7 +18,8 @@ import { readPageForm } from "~/lib/http/body.server";
 import { appOrigin } from "~/lib/http/origin.server";
 import { mailStates } from "~/lib/mail/outbox.server";
 import {
-  addAmendment, amendmentInputSchema, countersignRequestInputSchema, dayParam, enteredNotesInputSchema, getDailyReport, openCountersignRequest, requestCountersign, saveEnteredNotes, signDailyReport, signInputSchema,
+  addAmendment, amendmentInputSchema, countersignRequestInputSchema, dayParam, earlierEquipmentNames, enteredNotesInputSchema, equipmentInputSchema, getDailyReport, hoursInDay, openCountersignRequest, requestCountersign,
+  saveEnteredNotes, saveEquipment, signDailyReport, signInputSchema,
 } from "~/models/daily-reports.server";
 import type { Route } from "./+types/projects.$projectId.days.$date";
 
@@ -28,22 +31,41 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const date = pageParam(() => dayParam(params.date));
   const view = await getDailyReport(access.project, date);
   const canSign = can(access, "reports.sign");
-  const pending = view.signed && !view.countersigned && canSign ? await openCountersignRequest(access.project, date) : null;
+  const pending = view.signed && (!view.countersigned || view.countersignOutdated) && canSign ? await openCountersignRequest(access.project, date) : null;
   const pendingMail = pending ? (await mailStates([pending.mailRef])).get(pending.mailRef)?.status ?? null : null;
-  return { ...view, countersignPending: pending ? { email: pending.email, expiresAt: pending.expiresAt, mail: pendingMail } : null, projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, lengthLabel: unitLabel(access.project.lengthUnit), canSign: can(access, "reports.sign"), canConfigureStations: can(access, "water-quality.configure"), signerName: access.user.name };
+  // A day with no equipment yet starts from the names on the latest earlier report (hours left to fill in).
+  const equipmentNames = canSign && !view.signed && (view.report.entered.equipment ?? []).length === 0 ? await earlierEquipmentNames(access.project, date) : [];
+  return { ...view, equipmentNames, dayHours: hoursInDay(access.project, date), countersignPending: pending ? { email: pending.email, expiresAt: pending.expiresAt, mail: pendingMail } : null, projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, lengthLabel: unitLabel(access.project.lengthUnit), canSign: can(access, "reports.sign"), canConfigureStations: can(access, "water-quality.configure"), signerName: access.user.name };
 }
 
 const formSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("notes") }).passthrough(),
+  z.object({ intent: z.literal("equipment") }).passthrough(),
   z.object({ intent: z.literal("sign"), name: z.string() }),
   z.object({ intent: z.literal("amend"), text: z.string() }),
   z.object({ intent: z.literal("countersign-request"), email: z.string() }),
 ]);
 
+/** The equipment lines of the form, `equipment.<n>.<field>` in the order of <n>, wholly blank lines left out; `formIndex` is the line's <n>, for its errors. */
+function equipmentFromForm(form: FormData) {
+  const text = (name: string) => {
+    const value = form.get(name);
+    return typeof value === "string" && value.trim() !== "" ? value.trim() : undefined;
+  };
+  const hours = (name: string) => (text(name) === undefined ? undefined : Number(text(name)!.replace(",", ".")));
+  const indexes = [...new Set([...form.keys()].flatMap((key) => /^equipment\.(\d{1,4})\./.exec(key)?.[1] ?? []).map(Number))].sort((a, b) => a - b);
+  return indexes.flatMap((index) => {
+    const field = (name: string) => `equipment.${index}.${name}`;
+    if (["name", "workingHours", "idleHours", "idleReason"].every((name) => text(field(name)) === undefined)) return [];
+    return [{ name: text(field("name")), workingHours: hours(field("workingHours")), idleHours: hours(field("idleHours")), idleReason: text(field("idleReason")), formIndex: index }];
+  });
+}
+
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "reports.sign");
   const date = pageParam(() => dayParam(params.date));
-  const form = formSchema.safeParse(Object.fromEntries(await readPageForm(request)));
+  const body = await readPageForm(request);
+  const form = formSchema.safeParse(Object.fromEntries(body));
   if (!form.success) return data({ errors: { form: "That request is not one this page makes." } as Record<string, string>, notice: null }, { status: 400 });
   const input = form.data;
   const refused = (errors: Record<string, string>, status = 400) => data({ errors, notice: null }, { status });
@@ -53,6 +75,18 @@ export async function action({ request, params }: Route.ActionArgs) {
       if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), (field) => field));
       await saveEnteredNotes(project, user, date, parsed.data, clientAddress(request));
       return { errors: {}, notice: "Weather and notes saved." };
+    }
+    if (input.intent === "equipment") {
+      const lines = equipmentFromForm(body);
+      const parsed = equipmentInputSchema(hoursInDay(project, date)).safeParse({ equipment: lines.map(({ formIndex: _, ...line }) => line) });
+      // A line's error is said on its own field: equipment.<position on the form>.<field>.
+      const onForm = (field: string) => {
+        const [head, index, name] = field.split(".");
+        return head === "equipment" && index !== undefined && name !== undefined ? `equipment.${lines[Number(index)]?.formIndex ?? index}.${name}` : "form";
+      };
+      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), onForm));
+      await saveEquipment(project, user, date, parsed.data, clientAddress(request));
+      return { errors: {}, notice: parsed.data.equipment.length === 0 ? "Equipment hours cleared." : "Equipment hours saved." };
     }
     if (input.intent === "sign") {
       const parsed = signInputSchema.safeParse({ name: input.name });
@@ -85,7 +119,7 @@ export function meta({ loaderData }: Route.MetaArgs) {
 
 
 export default function DailyReportPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { report, signed, countersigned, countersignPending, amendments, canSign, projectId, date, timeZone } = loaderData;
+  const { report, signed, countersigned, countersignPending, countersignOutdated, earlierCountersignatures, amendments, canSign, projectId, date, timeZone } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const weather = report.entered.weather;
   // Times in the project's zone, as the PDF and the countersign page give them.
@@ -131,6 +165,11 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         ) : null}
       </Section>
 
+      <Section title="Equipment">
+        <EquipmentHours equipment={report.entered.equipment} />
+        {canSign && !signed ? <EquipmentForm key={JSON.stringify(report.entered.equipment ?? [])} saved={report.entered.equipment ?? []} names={loaderData.equipmentNames} dayHours={loaderData.dayHours} errors={errors} /> : null}
+      </Section>
+
       <DailyReportFigures report={report} timeZone={timeZone} lengthUnit={loaderData.lengthUnit} stationSetupHref={loaderData.canConfigureStations ? `/projects/${projectId}/water-quality/setup#stations-heading` : undefined} />
 
       <Section title="Sign-off">
@@ -151,10 +190,16 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         {countersigned ? (
           <p className="mt-2 text-sm" data-testid="countersigned">Countersigned by <strong>{countersigned.name}</strong> (agency inspector, {countersigned.email}) at {local(countersigned.at)}.</p>
         ) : signed ? <p className="mt-2 text-sm text-muted">Not countersigned by the agency's inspector yet.</p> : null}
-        {signed && !countersigned && canSign ? (
+        {countersignOutdated ? <p className="mt-1 text-sm text-caution" data-testid="countersign-outdated">{countersignOutdatedLine()}</p> : null}
+        {earlierCountersignatures.length > 0 ? (
+          <ul className="mt-1 space-y-1 text-sm text-muted" data-testid="earlier-countersignatures">
+            {earlierCountersignatures.map((earlier) => <li key={earlier.at}>{earlierCountersignatureLine(earlier, (iso) => `${localDayOf(Date.parse(iso), timeZone)} ${localClockOf(Date.parse(iso), timeZone)}`)}</li>)}
+          </ul>
+        ) : null}
+        {signed && (!countersigned || countersignOutdated) && canSign ? (
           <Form method="post" className="mt-3 flex flex-wrap items-end gap-3 print:hidden" data-testid="countersign-request">
-            <TextField className="min-w-64" label="Inspector's e-mail" name="email" type="email" required maxLength={254} error={errors.email} hint={countersignPending ? `A link went to ${countersignPending.email}${countersignPending.mail === "pending" ? " (not sent yet)" : countersignPending.mail === "failed" ? " (the mail could not be sent)" : ""}; sending another replaces it.` : "The inspector gets a one-time link to read and countersign this report, no account needed."} />
-            <SubmitButton intent="countersign-request" tone="plain" pendingLabel="Sending…">Send countersign link</SubmitButton>
+            <TextField className="min-w-64" label="Inspector's e-mail" name="email" type="email" required maxLength={254} error={errors.email} defaultValue={countersignOutdated ? countersigned?.email : undefined} hint={countersignPending ? `A link went to ${countersignPending.email}${countersignPending.mail === "pending" ? " (not sent yet)" : countersignPending.mail === "failed" ? " (the mail could not be sent)" : ""}; sending another replaces it.` : "The inspector gets a one-time link to read and countersign this report, no account needed."} />
+            <SubmitButton intent="countersign-request" tone="plain" pendingLabel="Sending…">{countersignOutdated ? "Ask for a new countersignature" : "Send countersign link"}</SubmitButton>
           </Form>
         ) : null}
         {amendments.length > 0 ? (
@@ -170,5 +215,60 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         ) : null}
       </Section>
     </div>
+  );
+}
+
+type EquipmentDraft = { id: number; name: string; workingHours: string; idleHours: string; idleReason: string };
+
+/**
+ * The day's equipment lines, edited together: a line per piece (name, hours working, hours idle,
+ * why it stood idle), added and removed with buttons; saving replaces the day's lines. Each line
+ * keeps its number in the field names when one above it is removed, so an error stays on its field.
+ */
+function EquipmentForm({ saved, names, dayHours, errors }: { saved: ReadonlyArray<{ name: string; workingHours: number; idleHours: number; idleReason: string }>; names: readonly string[]; dayHours: number; errors: Record<string, string> }) {
+  const [lines, setLines] = useState<EquipmentDraft[]>(() => {
+    const start = saved.length > 0
+      ? saved.map((line, id) => ({ id, name: line.name, workingHours: String(line.workingHours), idleHours: String(line.idleHours), idleReason: line.idleReason }))
+      : names.map((name, id) => ({ id, name, workingHours: "", idleHours: "", idleReason: "" }));
+    return start.length > 0 ? start : [{ id: 0, name: "", workingHours: "", idleHours: "", idleReason: "" }];
+  });
+  const nextId = () => Math.max(-1, ...lines.map((line) => line.id)) + 1;
+  const lineErrors = Object.entries(errors).filter(([field]) => field.startsWith("equipment."));
+  return (
+    <Form method="post" className="mt-3 space-y-3 print:hidden" data-testid="equipment-form">
+      <fieldset className="space-y-3">
+        <legend className="text-sm font-medium">Equipment working and idle today</legend>
+        <p className="text-sm text-muted">
+          A line per piece of equipment (suction pump, booster pump, dewatering plant, work boat…): its hours working and idle, up to {dayHours} h together on this day, and why it stood idle.
+          {names.length > 0 && saved.length === 0 ? " The names are those of the last report; fill in today's hours or remove a line." : ""}
+        </p>
+        {lineErrors.length > 0 ? <p role="alert" className="text-sm text-danger">{lineErrors.length === 1 ? "One line needs a correction" : `${lineErrors.length} corrections are needed`}: see the fields marked below.</p> : null}
+        {lines.map((line, position) => {
+          const name = (field: string) => `equipment.${line.id}.${field}`;
+          const error = (field: string) => errors[name(field)];
+          return (
+            <div key={line.id} className="grid gap-2 rounded border border-line p-3 md:grid-cols-[minmax(0,2fr)_7rem_7rem_minmax(0,3fr)_auto] md:items-start" data-testid="equipment-line">
+              <TextField label={`Line ${position + 1}: equipment`} name={name("name")} maxLength={120} defaultValue={line.name} placeholder="suction pump 1" error={error("name")} />
+              <TextField label="Working (h)" name={name("workingHours")} type="number" inputMode="decimal" min={0} max={dayHours} step="any" defaultValue={line.workingHours} aria-invalid={error("workingHours") ? true : undefined} aria-describedby={error("workingHours") ? `${name("workingHours")}-error` : undefined} />
+              <TextField label="Idle (h)" name={name("idleHours")} type="number" inputMode="decimal" min={0} max={dayHours} step="any" defaultValue={line.idleHours} aria-invalid={error("idleHours") ? true : undefined} aria-describedby={error("idleHours") ? `${name("idleHours")}-error` : undefined} />
+              <TextField label="Idle reason" name={name("idleReason")} maxLength={500} defaultValue={line.idleReason} error={error("idleReason")} />
+              <div className="md:pt-6">
+                <button type="button" className="rounded border border-line px-3 py-2 text-sm" onClick={() => setLines((current) => current.filter((candidate) => candidate.id !== line.id))} aria-label={`Remove line ${position + 1}`}>
+                  Remove
+                </button>
+              </div>
+              {/* The hours' refusals are said below the line, full width: the narrow hour columns would wrap them into many lines. */}
+              {(["workingHours", "idleHours"] as const).map((field) => (error(field) ? <p key={field} id={`${name(field)}-error`} className="text-sm text-danger md:col-span-5">{error(field)}</p> : null))}
+            </div>
+          );
+        })}
+        {lines.length < EQUIPMENT_MAX_LINES ? (
+          <button type="button" className="rounded border border-line px-3 py-2 text-sm" onClick={() => setLines((current) => [...current, { id: nextId(), name: "", workingHours: "", idleHours: "", idleReason: "" }])}>
+            Add a line
+          </button>
+        ) : null}
+      </fieldset>
+      <div><SubmitButton intent="equipment" tone="plain" pendingLabel="Saving…">Save equipment hours</SubmitButton></div>
+    </Form>
   );
 }

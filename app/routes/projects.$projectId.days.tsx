@@ -7,7 +7,7 @@ import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { requireRole } from "~/lib/auth/access.server";
 import { can } from "~/lib/auth/permissions";
-import { ConflictError, DomainError, detailsOf } from "~/lib/errors";
+import { ConflictError, DomainError, ServiceUnavailableError, detailsOf } from "~/lib/errors";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { fieldErrorsFrom } from "~/lib/http/form";
 import { readPageForm } from "~/lib/http/body.server";
@@ -77,6 +77,10 @@ export async function action({ request, params }: Route.ActionArgs) {
     const sent = await sendDailyReportBatch(project, user, parsed.data.from, parsed.data.to, clientAddress(request));
     return { errors: {} as Record<string, string>, notice: `The days ${parsed.data.from} to ${parsed.data.to} go out as one PDF to ${sent} ${sent === 1 ? "subscriber" : "subscribers"}.` };
   } catch (error) {
+    // The file storage down: nothing was sent; say so with when to try again (the download needs no storage).
+    if (error instanceof ServiceUnavailableError) {
+      return data({ errors: { form: `${error.message} The batch PDF can still be downloaded: it is made from the database.` } as Record<string, string>, notice: null as string | null }, { status: 503, headers: { "Retry-After": String(error.retryAfterSeconds) } });
+    }
     if (error instanceof ConflictError) return refused({ form: error.message, ...fieldErrorsFrom(error.details.filter((detail) => detail.field), (field) => field) }, 409);
     if (error instanceof DomainError) return refused(fieldErrorsFrom(error.details, (field) => field));
     throw error;

@@ -12,9 +12,18 @@ export const weatherSchema = z.object({
   effect: z.string(),
 });
 
-/** What the supervisor enters by hand on a day's report. */
+/** One piece of equipment's day: hours working, hours idle and, when idle, why (in words). */
+export const equipmentLineSchema = z.object({
+  name: z.string(),
+  workingHours: z.number(),
+  idleHours: z.number(),
+  idleReason: z.string(),
+});
+
+/** What the supervisor enters by hand on a day's report (reports saved before equipment hours read as none). */
 export const enteredNotesSchema = z.object({
   weather: weatherSchema.nullable(),
+  equipment: z.array(equipmentLineSchema).default([]),
   inspections: z.string(),
   safety: z.string(),
   notes: z.string(),
@@ -70,6 +79,9 @@ export class CountersignRequest extends Model<InferAttributes<CountersignRequest
   declare expiresAt: Date;
   declare usedAt: CreationOptional<Date | null>;
   declare revokedAt: CreationOptional<Date | null>;
+  /** Once used: the inspector's typed name, and how many amendments the report carried then (the version countersigned). */
+  declare countersignedName: CreationOptional<string | null>;
+  declare amendmentsSeen: CreationOptional<number | null>;
   declare requestedById: ForeignKey<User["id"]> | null;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -127,6 +139,8 @@ export function initDailyReport(sequelize: Sequelize) {
       expiresAt: { type: DataTypes.DATE, allowNull: false },
       usedAt: { type: DataTypes.DATE, allowNull: true },
       revokedAt: { type: DataTypes.DATE, allowNull: true },
+      countersignedName: { type: DataTypes.STRING(200), allowNull: true },
+      amendmentsSeen: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

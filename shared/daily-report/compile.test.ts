@@ -86,10 +86,21 @@ describe("compileDay", () => {
 
   it("lists what is missing", () => {
     const day = compileDay(records());
-    expect(day.missing).toEqual(["no weather entered", "compliance station C2 not sampled", "compliance not sampled 13:00–19:00"]);
+    expect(day.missing).toEqual(["no weather entered", "no equipment hours entered", "compliance station C2 not sampled", "compliance not sampled 13:00–19:00"]);
     const idle = compileDay(records({ dives: [], shifts: [], entered: { weather: { conditions: "overcast", airTemperature: "", wind: "", rain: "", effect: "" }, inspections: "", safety: "", notes: "" } }));
-    // No work logged: no sampling is owed, but the missing dive log is said.
+    // No work logged: no sampling and no equipment hours are owed, but the missing dive log is said.
     expect(idle.missing).toEqual(["no dives logged"]);
+  });
+
+  it("a work day's equipment hours are entered fields like the weather: listed as missing until entered, kept as entered", () => {
+    const equipment = [{ name: "Suction pump 1", workingHours: 7.5, idleHours: 2.5, idleReason: "turbidity stop" }];
+    const day = compileDay(records({ entered: { weather: null, equipment, inspections: "", safety: "", notes: "" } }));
+    expect(day.missing).not.toContain("no equipment hours entered");
+    expect(day.entered.equipment).toEqual(equipment);
+    // A shift without a dive is work too.
+    expect(compileDay(records({ dives: [] })).missing).toContain("no equipment hours entered");
+    // Notes saved before equipment hours were kept have no list: read as none.
+    expect(compileDay(records({ entered: { weather: null, inspections: "", safety: "", notes: "" } })).missing).toContain("no equipment hours entered");
   });
 
   it("on a project with no compliance station: says so and where to set one up, never lists a sampling gap (practice: a gap needs a station to miss it)", () => {
@@ -97,7 +108,7 @@ describe("compileDay", () => {
     const day = compileDay(records({ complianceStations: [], readings: [{ station: "BG", stationKind: "background", takenAtMs: at("2031-06-10", 8), value: 5, unit: "NTU", exceeds: null }] }));
     expect(day.waterQuality.missedIntervals).toEqual([]);
     expect(day.waterQuality.complianceStations).toEqual([]);
-    expect(day.missing).toEqual(["no weather entered", `no compliance station set up, so sampling is not checked (a manager adds one under ${COMPLIANCE_STATION_SETTING})`]);
+    expect(day.missing).toEqual(["no weather entered", "no equipment hours entered", `no compliance station set up, so sampling is not checked (a manager adds one under ${COMPLIANCE_STATION_SETTING})`]);
     expect(day.missing.join(" ")).not.toMatch(/not sampled/);
     expect(COMPLIANCE_STATION_SETTING).toBe("Water quality › Setup › Monitoring stations");
     // A day without work owes nothing, so nothing is said in the missing list.
@@ -149,8 +160,10 @@ describe("compileDay", () => {
     }));
     expect(day.interruptions.map((event) => [event.kind, event.lostHours])).toEqual([["stand-down", 2.5], ["stop-work", 0.5]]);
     expect(day.lostHours).toBe(3);
-    const open = compileDay(records({ date: "2031-06-11", nowMs: at("2031-06-11", 15), interruptions: [{ kind: "stop-work", reason: "C1", startMs: at("2031-06-11", 9), endMs: null }] }));
+    const open = compileDay(records({ date: "2031-06-11", nowMs: at("2031-06-11", 15), interruptions: [{ kind: "stop-work", reason: "C1", startMs: at("2031-06-11", 9), endMs: null, notifyByMs: at("2031-06-11", 10), agencyNotified: { atMs: at("2031-06-11", 9, 20), to: "District office", how: "telephone" } }] }));
     expect(open.interruptions[0]!.lostHours).toBe(6);
+    // The agency's notice travels with the stop-work, as instants.
+    expect(open.interruptions[0]).toMatchObject({ notifyBy: new Date(at("2031-06-11", 10)).toISOString(), agencyNotified: { at: new Date(at("2031-06-11", 9, 20)).toISOString(), to: "District office", how: "telephone" } });
   });
 
   it("takes a 23-hour local day across the spring daylight-saving change", () => {

@@ -55,6 +55,9 @@ export interface DayInterruption {
   startMs: number;
   /** Null while still open. */
   endMs: number | null;
+  /** A stop-work's notice to the agency: when it was due, and when, to whom and how it was given (null: not yet). */
+  notifyByMs?: number | null;
+  agencyNotified?: { atMs: number; to: string; how: string } | null;
 }
 
 export interface DayFind {
@@ -79,8 +82,23 @@ export interface Weather {
   effect: string;
 }
 
+/** One piece of equipment's day, as entered: hours working, hours idle, and why it stood idle. */
+export interface EquipmentLine {
+  /** In the site's words: "suction pump 1", "booster pump", "dewatering plant", "work boat". */
+  name: string;
+  workingHours: number;
+  idleHours: number;
+  /** Required when idleHours > 0. */
+  idleReason: string;
+}
+
+/** The most pieces of equipment one day's report lists. */
+export const EQUIPMENT_MAX_LINES = 20;
+
 export interface EnteredNotes {
   weather: Weather | null;
+  /** Equipment working and idle; absent on reports saved or signed before equipment hours were kept. */
+  equipment?: EquipmentLine[];
   inspections: string;
   safety: string;
   notes: string;
@@ -172,7 +190,12 @@ export interface CompiledDay {
      */
     complianceStations?: string[];
   };
-  interruptions: Array<{ kind: DayInterruption["kind"]; reason: string; start: string; end: string | null; lostHours: number }>;
+  interruptions: Array<{
+    kind: DayInterruption["kind"]; reason: string; start: string; end: string | null; lostHours: number;
+    /** A stop-work's agency notice: due by, and given (null: not yet). Absent on stand-downs and on reports signed before it was kept. */
+    notifyBy?: string | null;
+    agencyNotified?: { at: string; to: string; how: string } | null;
+  }>;
   lostHours: number;
   finds: {
     byCategory: Record<string, number>;
@@ -297,6 +320,10 @@ export function compileDay(records: DayRecords): CompiledDay {
       start: new Date(event.startMs).toISOString(),
       end: event.endMs === null ? null : new Date(event.endMs).toISOString(),
       lostHours: round(lostMs / 3_600_000, 2),
+      ...(event.kind === "stop-work" && event.notifyByMs !== undefined ? {
+        notifyBy: event.notifyByMs === null ? null : new Date(event.notifyByMs).toISOString(),
+        agencyNotified: event.agencyNotified ? { at: new Date(event.agencyNotified.atMs).toISOString(), to: event.agencyNotified.to, how: event.agencyNotified.how } : null,
+      } : {}),
     }));
 
   const byCategory: Record<string, number> = {};
@@ -313,6 +340,8 @@ export function compileDay(records: DayRecords): CompiledDay {
   const missing: string[] = [];
   if (!records.entered.weather || !records.entered.weather.conditions.trim()) missing.push("no weather entered");
   if (records.dives.length === 0) missing.push("no dives logged");
+  // A work day's equipment hours are a header item like the weather: blank is listed, not guessed at.
+  if (worked && (records.entered.equipment ?? []).length === 0) missing.push("no equipment hours entered");
   if (worked && noComplianceStation) missing.push(NO_COMPLIANCE_STATION_MISSING);
   if (worked) {
     for (const station of records.complianceStations) {

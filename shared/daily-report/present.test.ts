@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { byHandLine, dayState, dayStatus, findsLine, productionRows, reportUnits, surveyLine, weatherLine } from "./present";
+import { byHandLine, dayState, dayStatus, earlierCountersignatureLine, equipmentRows, equipmentTotalsLine, findsLine, interruptionLine, productionRows, reportUnits, surveyLine, weatherLine } from "./present";
 
 describe("the report's figures written out", () => {
   it("in a feet project's units: US gallons, short tons, pounds", () => {
@@ -76,5 +76,49 @@ describe("a day's state: the latest of signed, countersigned and amended (practi
     expect(dayState(events(t(18), t(19) + 200, [t(19) + 700]), true)).toBe("amended");
     expect(dayState(events(t(18), t(19) + 700, [t(19) + 200]), true)).toBe("amended");
     expect(dayState(events(t(18), t(19) + 1000, [t(19)]), true)).toBe("countersigned");
+  });
+});
+
+describe("equipment and countersignature lines", () => {
+  const equipment = [
+    { name: "Suction pump 1", workingHours: 7.5, idleHours: 2.5, idleReason: "turbidity stop" },
+    { name: "Booster pump", workingHours: 10, idleHours: 0, idleReason: "" },
+    { name: "Work boat", workingHours: 0.25, idleHours: 9.75, idleReason: "outboard under repair" },
+  ];
+
+  it("writes equipment rows with '—' for a piece that was never idle, and the totals", () => {
+    expect(equipmentRows(equipment)).toEqual([
+      ["Suction pump 1", "7.5", "2.5", "turbidity stop"],
+      ["Booster pump", "10", "0", "—"],
+      ["Work boat", "0.25", "9.75", "outboard under repair"],
+    ]);
+    // computed: 7.5 + 10 + 0.25 = 17.75 h working; 2.5 + 0 + 9.75 = 12.25 h idle
+    expect(equipmentTotalsLine(equipment)).toBe("3 pieces: 17.75 h working, 12.25 h idle");
+    expect(equipmentTotalsLine([equipment[1]!])).toBe("1 piece: 10 h working, 0 h idle");
+    expect(equipmentRows(undefined)).toEqual([]);
+    expect(equipmentTotalsLine([])).toBeNull();
+  });
+
+  it("says which version an earlier countersignature was of", () => {
+    const stamp = (iso: string) => iso.slice(0, 16).replace("T", " ");
+    expect(earlierCountersignatureLine({ name: "Morgan Alvarez", email: "m@agency.example", at: "2026-06-10T19:05:00.000Z", amendments: 0 }, stamp))
+      .toBe("Earlier countersignature: Morgan Alvarez, 2026-06-10 19:05 (link sent to m@agency.example), of the report as signed, before any amendment.");
+    expect(earlierCountersignatureLine({ name: "Morgan Alvarez", email: "m@agency.example", at: "2026-06-10T19:05:00.000Z", amendments: 2 }, stamp)).toMatch(/of the report with its first 2 amendments\.$/);
+    expect(earlierCountersignatureLine({ name: "M", email: "m@a.example", at: "2026-06-10T19:05:00.000Z", amendments: 1 }, stamp)).toMatch(/with its first amendment\.$/);
+  });
+});
+
+describe("a stop-work's agency notice", () => {
+  const TZ = "America/New_York";
+  // 18:05Z is 14:05 EDT (UTC−4 in June).
+  const base = { kind: "stop-work" as const, reason: "turbidity at C1", start: "2026-06-10T18:05:00.000Z", end: "2026-06-10T19:40:00.000Z", lostHours: 1.58 };
+
+  it("says when, to whom and how the agency was told, or that it was not (with when it was due)", () => {
+    expect(interruptionLine({ ...base, notifyBy: "2026-06-10T19:05:00.000Z", agencyNotified: { at: "2026-06-10T18:20:00.000Z", to: "District office", how: "telephone" } }, TZ))
+      .toBe("Stop-work (turbidity at C1) from 14:05 to 15:40: 1.58 h lost on the day; agency notified at 14:20 (to District office, by telephone)");
+    expect(interruptionLine({ ...base, notifyBy: "2026-06-10T19:05:00.000Z", agencyNotified: null }, TZ))
+      .toBe("Stop-work (turbidity at C1) from 14:05 to 15:40: 1.58 h lost on the day; agency not notified (due by 15:05)");
+    // Signed before the notice was kept: the line as it was.
+    expect(interruptionLine(base, TZ)).toBe("Stop-work (turbidity at C1) from 14:05 to 15:40: 1.58 h lost on the day");
   });
 });

@@ -1,7 +1,7 @@
 import { FIND_CATEGORY_LABELS, type FindCategory } from "../finds/finds";
 import { localClockOf } from "../local-time";
 import { LITRES_PER_US_GALLON, handVolumeUnitFor, kilogramsTo, litresTo, massUnitsFor, measureLabel, type LengthUnit } from "../units";
-import { COMPLIANCE_STATION_SETTING, type CompiledDay, type Weather } from "./compile";
+import { COMPLIANCE_STATION_SETTING, type CompiledDay, type EquipmentLine, type Weather } from "./compile";
 
 /**
  * How a compiled day's figures are written out, once for the page and the PDF: the report keeps
@@ -48,6 +48,19 @@ export function weatherLine(weather: Weather | null): string | null {
   return line || null;
 }
 
+/** The equipment lines as the page's and the PDF's table rows: name, hours working, hours idle, idle reason ("—" when not idle). */
+export function equipmentRows(equipment: readonly EquipmentLine[] | undefined): Array<[string, string, string, string]> {
+  return (equipment ?? []).map((line) => [line.name, formatNumber(line.workingHours, 2), formatNumber(line.idleHours, 2), line.idleHours > 0 ? line.idleReason : "—"]);
+}
+
+/** "3 pieces: 26.5 h working, 5.5 h idle", or null when no equipment was entered. */
+export function equipmentTotalsLine(equipment: readonly EquipmentLine[] | undefined): string | null {
+  if (!equipment || equipment.length === 0) return null;
+  const working = equipment.reduce((sum, line) => sum + line.workingHours, 0);
+  const idle = equipment.reduce((sum, line) => sum + line.idleHours, 0);
+  return `${equipment.length} ${equipment.length === 1 ? "piece" : "pieces"}: ${formatNumber(working, 2)} h working, ${formatNumber(idle, 2)} h idle`;
+}
+
 /** "Cultural: 1 · Faunal: 2", or null when there were no finds. */
 export function findsLine(byCategory: Record<string, number>): string | null {
   const entries = Object.entries(byCategory);
@@ -70,10 +83,16 @@ export function byHandLine(byHand: CompiledDay["finds"]["byHand"], lengthUnit: L
   return `Removed by hand in basket loads: ${parts.join(", ")} (${byHand.lines} catalogue line${byHand.lines === 1 ? "" : "s"})`;
 }
 
-/** An interruption in words, with its local times and the hours it cost on the day. */
+/** An interruption in words, with its local times, the hours it cost on the day and, for a stop-work, the agency's notice. */
 export function interruptionLine(event: CompiledDay["interruptions"][number], timeZone: string): string {
   const clock = (iso: string) => localClockOf(Date.parse(iso), timeZone);
-  return `${event.kind === "stop-work" ? "Stop-work" : "Wildlife stand-down"} (${event.reason}) from ${clock(event.start)} to ${event.end ? clock(event.end) : "still open"}: ${formatNumber(event.lostHours, 2)} h lost on the day`;
+  const line = `${event.kind === "stop-work" ? "Stop-work" : "Wildlife stand-down"} (${event.reason}) from ${clock(event.start)} to ${event.end ? clock(event.end) : "still open"}: ${formatNumber(event.lostHours, 2)} h lost on the day`;
+  if (event.agencyNotified) {
+    const notice = [event.agencyNotified.to && `to ${event.agencyNotified.to}`, event.agencyNotified.how && `by ${event.agencyNotified.how}`].filter(Boolean).join(", ");
+    return `${line}; agency notified at ${clock(event.agencyNotified.at)}${notice ? ` (${notice})` : ""}`;
+  }
+  if (event.agencyNotified === null) return `${line}; agency not notified${event.notifyBy ? ` (due by ${clock(event.notifyBy)})` : ""}`;
+  return line;
 }
 
 /** The survey of the day against the one before it, in words, or null when no survey fell on the day. */
@@ -86,6 +105,17 @@ export function surveyLine(survey: CompiledDay["production"]["survey"]): string 
 /** What the report says on a project with no compliance station (and so no sampling check), once for the page and the PDF. */
 export function noComplianceStationLine(): string {
   return `No compliance station is set up for this project, so missed sampling intervals are not checked. A manager adds one under ${COMPLIANCE_STATION_SETTING}.`;
+}
+
+/** An earlier countersignature in words, with the version it countersigned (`stamp`: an instant as the project's local date and time). */
+export function earlierCountersignatureLine(earlier: { name: string; email: string; at: string; amendments: number }, stamp: (iso: string) => string): string {
+  const version = earlier.amendments === 0 ? "the report as signed, before any amendment" : `the report with its first ${earlier.amendments === 1 ? "amendment" : `${earlier.amendments} amendments`}`;
+  return `Earlier countersignature: ${earlier.name}, ${stamp(earlier.at)} (link sent to ${earlier.email}), of ${version}.`;
+}
+
+/** What a countersigned report that was amended since says beside its countersignature. */
+export function countersignOutdatedLine(): string {
+  return "Amended after this countersignature: the countersignature is of the report before that amendment.";
 }
 
 /** A batch sent or downloaded as one PDF holds at most two weeks of days. */

@@ -82,6 +82,7 @@ const MATRIX: Row[] = [
   // Daily reports: every role but outreach reads them; the manager and the dive supervisor sign and amend ({}: 422).
   row("GET", "api/projects/:projectId/days/:date", `/api/projects/{project}/days/${PLAN_DATE}`, "200 200 200 200 200 403 200 200 401"),
   row("POST", "api/projects/:projectId/days/:date/countersign-requests", `/api/projects/{project}/days/${PLAN_DATE}/countersign-requests`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
+  row("PUT", "api/projects/:projectId/days/:date/equipment", `/api/projects/{project}/days/${PLAN_DATE}/equipment`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("POST", "api/projects/:projectId/days/:date/amendments", `/api/projects/{project}/days/${PLAN_DATE}/amendments`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("POST", "api/projects/:projectId/days/:date/sign", `/api/projects/{project}/days/${PLAN_DATE}/sign`, "422 403 422 403 403 403 403 422 401", EMPTY_JSON),
   row("GET", "api/projects/:projectId/dives", `/api/projects/{project}/dives?date=${PLAN_DATE}`, "200 200 200 200 200 200 200 200 401"),

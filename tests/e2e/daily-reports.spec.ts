@@ -19,6 +19,8 @@ test.beforeAll(async ({ baseURL }) => {
 });
 
 test("daily report: missing items, weather, signature, countersignature by e-mailed link, locked, amendment, PDF", async ({ page, browser }) => {
+  // The whole day's round (two countersignatures by mailed link, a PDF read back) runs past the default 30 s on a busy machine.
+  test.setTimeout(120_000);
   const today = localDayOf(Date.now(), PROJECT.timeZone);
   // Noon of the day before today's local midnight is yesterday, whatever the offset.
   const yesterday = localDayOf(instantOfLocal(today, 0, PROJECT.timeZone) - 12 * 3_600_000, PROJECT.timeZone);
@@ -39,6 +41,23 @@ test("daily report: missing items, weather, signature, countersignature by e-mai
   await page.getByRole("button", { name: "Save weather and notes" }).click();
   await expect(page.getByText("Weather and notes saved.")).toBeVisible();
   await expect(page.getByTestId("missing")).not.toContainText("no weather entered");
+
+  // Equipment working and idle: an idle spell needs its reason, said on the line's own field.
+  const equipmentLine = page.getByTestId("equipment-line").first();
+  await equipmentLine.getByLabel("Line 1: equipment").fill("Suction pump 1");
+  await equipmentLine.getByLabel("Working (h)").fill("6.5");
+  await equipmentLine.getByLabel("Idle (h)").fill("1.5");
+  await page.getByRole("button", { name: "Save equipment hours" }).click();
+  await expect(equipmentLine.getByText(/^line 1: say why it stood idle/)).toBeVisible();
+  await equipmentLine.getByLabel("Idle reason").fill("waiting on the turbidity stop");
+  await page.getByRole("button", { name: "Add a line" }).click();
+  const second = page.getByTestId("equipment-line").nth(1);
+  await second.getByLabel("Line 2: equipment").fill("Work boat");
+  await second.getByLabel("Working (h)").fill("8");
+  await page.getByRole("button", { name: "Save equipment hours" }).click();
+  await expect(page.getByText("Equipment hours saved.")).toBeVisible();
+  await expect(page.getByTestId("equipment-hours")).toContainText("waiting on the turbidity stop");
+  await expect(page.getByTestId("equipment-hours")).toContainText("2 pieces: 14.5 h working, 1.5 h idle");
 
   await page.getByLabel("Your name (typed, as your signature)").fill("Dana Reyes");
   await page.getByRole("button", { name: "Sign the report" }).click();
@@ -98,6 +117,8 @@ test("daily report: missing items, weather, signature, countersignature by e-mai
   expect(text).toContain("Morgan Alvarez");
   expect(text).toContain("Air temperature read at 07:00, not noon.");
   expect(text).toContain("Overcast, light chop");
+  expect(text).toMatch(/Suction pump 1\s*6\.5\s*1\.5\s*waiting on the turbidity stop/);
+  expect(text).toContain("Amended after this countersignature");
 
   await page.goto(`/projects/${projectId}/days?month=${yesterday.slice(0, 7)}`);
   // Countersigned, then amended: the latest event shows, the countersignature beside it.
@@ -105,6 +126,26 @@ test("daily report: missing items, weather, signature, countersignature by e-mai
   await expect(day).toContainText("amended");
   await expect(day.getByTestId("day-note")).toHaveText("after countersignature");
   await expect(page.getByRole("group", { name: "Legend" })).toContainText("countersigned: countersigned by the agency's inspector, with any amendment made before it");
+
+  // Amended after the countersignature: a new countersignature is asked for; the first stays on record.
+  await page.goto(`/projects/${projectId}/days/${yesterday}`);
+  await expect(page.getByTestId("countersign-outdated")).toBeVisible();
+  await expect(page.getByLabel("Inspector's e-mail")).toHaveValue(inspector);
+  const againSince = new Date(Date.now() - 1000).toISOString();
+  await page.getByRole("button", { name: "Ask for a new countersignature" }).click();
+  await expect(page.getByText(`A one-time countersign link goes to ${inspector} now.`)).toBeVisible();
+  const again = await browser.newContext();
+  const againPage = await again.newPage();
+  await againPage.goto(linkIn(await waitForMail(inspector, againSince), "/countersign"));
+  await expect(againPage.getByTestId("countersign-again")).toContainText("Morgan Alvarez countersigned this report");
+  await againPage.getByLabel("Your name (typed, as your countersignature)").fill("Morgan Alvarez");
+  await againPage.getByRole("button", { name: "Countersign the report" }).click();
+  await expect(againPage.getByTestId("countersign-done")).toContainText("is countersigned");
+  await again.close();
+  await page.reload();
+  await expect(page.getByTestId("earlier-countersignatures")).toContainText("Earlier countersignature: Morgan Alvarez");
+  await expect(page.getByTestId("earlier-countersignatures")).toContainText("of the report as signed, before any amendment");
+  await expect(page.getByTestId("countersign-outdated")).toHaveCount(0);
 });
 
 test("a manager adds an outside subscriber, who receives the signed report with its PDF attached", async ({ page, signIn }) => {

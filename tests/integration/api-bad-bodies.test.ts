@@ -100,6 +100,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/dewatering/tubes/:tubeId/fills", method: "POST", url: () => `${base()}/dewatering/tubes/${tubeId}/fills`, params: () => ({ ...projectParams(), tubeId: String(tubeId) }) },
   { route: "api/projects/:projectId/days/:date/sign", method: "POST", url: () => `${base()}/days/2030-01-02/sign`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/days/:date/countersign-requests", method: "POST", url: () => `${base()}/days/2030-01-02/countersign-requests`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
+  { route: "api/projects/:projectId/days/:date/equipment", method: "PUT", url: () => `${base()}/days/2030-01-02/equipment`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/days/:date/amendments", method: "POST", url: () => `${base()}/days/2030-01-02/amendments`, params: () => ({ ...projectParams(), date: "2030-01-02" }) },
   { route: "api/projects/:projectId/dives", method: "POST", url: () => `${base()}/dives`, params: projectParams },
   { route: "api/projects/:projectId/haul-sites", method: "POST", url: () => `${base()}/haul-sites`, params: projectParams },

@@ -6,7 +6,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
-import { DailyReport, Dive, DiveTeam, OutgoingMail, Project } from "~/lib/db.server";
+import { AuditEvent, DailyReport, Dive, DiveTeam, OutgoingMail, Project } from "~/lib/db.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { deliverDue } from "~/lib/mail/outbox.server";
 import type { MailMessage } from "~/lib/mail/mail.server";
@@ -14,6 +14,8 @@ import { getObject } from "~/lib/storage/storage.server";
 import { action as signAction } from "~/routes/api.projects.$projectId.days.$date.sign";
 import { loader as dayLoader } from "~/routes/api.projects.$projectId.days.$date";
 import { loader as pageLoader } from "~/routes/projects.$projectId.days.$date";
+import { action as daysAction } from "~/routes/projects.$projectId.days";
+import { loader as batchLoader } from "~/routes/projects.$projectId.days.batch[.]pdf";
 import { addSubscriber, dailyReportPdf, prepareDueSignedPdfs } from "~/models/daily-reports.server";
 import { pdfPages } from "../pdf-text";
 import { addMember, makeProject, makeUser, requestAs } from "./helpers";
@@ -67,6 +69,7 @@ const UP_DAY = "2026-07-06";
 const DOWN_DAY = "2026-07-07";
 let projectId: number;
 let supervisorId: number;
+let managerId: number;
 const subscriber = "contracts@agency.example";
 
 beforeAll(async () => {
@@ -76,6 +79,7 @@ beforeAll(async () => {
   const supervisor = await makeUser("storage-down-supervisor");
   const manager = await makeUser("storage-down-manager");
   supervisorId = supervisor.id;
+  managerId = manager.id;
   await addMember(supervisor.id, projectId, "dive-supervisor");
   await addMember(manager.id, projectId, "manager");
   const team = await DiveTeam.create({ projectId, name: "Alpha", hoses: [], members: [{ name: "a", email: "", duty: "diver" }] });
@@ -170,5 +174,36 @@ describe("signing while the file storage is down", () => {
     const attached = sent.find((mail) => mail.subject === `Daily report ${DOWN_DAY} signed · Test project storage-down`)!.attachments![0]!;
     expect(Buffer.compare(attached.content, stored!.bytes)).toBe(0);
     expect((await pdfPages(attached.content)).join("\n")).toMatch(/1\s*dives · 52\s*bottom minutes/);
+  });
+});
+
+describe("the two-week batch while the file storage is down", () => {
+  const sendBatch = async () => daysAction({
+    request: await requestAs(managerId, `/projects/${projectId}/days`, { method: "POST", body: new URLSearchParams({ intent: "send-batch", from: UP_DAY, to: DOWN_DAY }), headers: { Origin: "http://127.0.0.1:3999" } }),
+    params: { projectId: String(projectId) }, context: {},
+  } as never) as unknown as Promise<{ init?: { status?: number; headers?: Record<string, string> }; data?: { errors: Record<string, string> }; errors?: Record<string, string>; notice?: string }>;
+  const batchMails = () => OutgoingMail.count({ where: { ref: `daily-report-batch:${projectId}` } });
+
+  it("still downloads (made from the database); sending answers 503 with Retry-After naming the file storage, and sends nothing", async () => {
+    await stopStore();
+    const download = await batchLoader({ request: await requestAs(supervisorId, `/projects/${projectId}/days/batch.pdf?from=${UP_DAY}&to=${DOWN_DAY}`), params: { projectId: String(projectId) }, context: {} } as never) as Response;
+    expect(download.status).toBe(200);
+    const pages = await pdfPages(new Uint8Array(await download.arrayBuffer()));
+    expect(pages.join("\n")).toMatch(/1\s*dives · 41\s*bottom minutes[\s\S]*1\s*dives · 52\s*bottom minutes/);
+
+    const refused = await sendBatch();
+    expect(refused.init?.status).toBe(503);
+    expect(refused.init?.headers).toMatchObject({ "Retry-After": "60" });
+    expect(refused.data?.errors.form).toMatch(/^Firmsand's file storage is not answering right now \(ECONNREFUSED\)\. Nothing was stored or sent; try again in a minute\. The batch PDF can still be downloaded/);
+    expect(await batchMails()).toBe(0);
+    expect(await AuditEvent.count({ where: { projectId, action: "daily-report-batch-sent" } })).toBe(0);
+  });
+
+  it("once the storage answers, the same batch goes out", async () => {
+    await startStore();
+    const sent = await sendBatch();
+    expect(sent.init).toBeUndefined();
+    expect(sent.notice).toMatch(/go out as one PDF to 1 subscriber/);
+    expect(await batchMails()).toBe(1);
   });
 });

@@ -144,6 +144,8 @@ describe("the day's compiled figures", () => {
     // The 23:30 exceedance stops work (still open): its last half hour of the day is lost.
     expect(body.interruptions).toEqual([expect.objectContaining({ kind: "stand-down", reason: "manatee", lostHours: 2 }), expect.objectContaining({ kind: "stop-work", end: null, lostHours: 0.5 })]);
     expect(body.lostHours).toBe(2.5);
+    // The stop-work's agency notice: not given yet, with when it is due (from the stop-work's own record).
+    expect(body.interruptions[1]).toMatchObject({ agencyNotified: null, notifyBy: expect.stringMatching(/^2026-06-1\dT/) });
     expect(body.finds).toEqual({ byCategory: { cultural: 1, faunal: 1 }, catalogueNumbers: ["FS-2031-001", "FS-2031-002"] });
     expect(body.holds.placed).toEqual(["FS-2031-001"]);
     // A funders' document: no find location travels in it.

@@ -1,5 +1,5 @@
 import { isDatabaseUnreachable } from "~/lib/db.server";
-import { BadRequestError, ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInError, PayloadTooLargeError, PreconditionFailedError, TooManyRequestsError, ValidationError } from "~/lib/errors";
+import { BadRequestError, ConflictError, DomainError, ForbiddenError, NotFoundError, NotSignedInError, PayloadTooLargeError, PreconditionFailedError, ServiceUnavailableError, TooManyRequestsError, ValidationError } from "~/lib/errors";
 
 /**
  * The API's one error shape and the one map from error class to HTTP status. Every `/api` answer
@@ -21,8 +21,8 @@ export class MethodNotAllowedError extends DomainError {
   }
 }
 
-/** Firmsand cannot answer right now (its database is unreachable); the client may try again later. */
-export class ServiceUnavailableError extends DomainError {}
+// Thrown by models too (the file storage unreachable), so it lives with the other typed errors.
+export { ServiceUnavailableError };
 
 // Subclasses before their parents would matter here; these classes are all siblings.
 const STATUS_BY_CLASS: ReadonlyArray<readonly [abstract new (...args: never[]) => DomainError, number]> = [
@@ -40,9 +40,6 @@ const STATUS_BY_CLASS: ReadonlyArray<readonly [abstract new (...args: never[]) =
   [ServiceUnavailableError, 503],
 ];
 
-/** Seconds a client waits before trying again after a 503. */
-const RETRY_AFTER_SECONDS = 30;
-
 /** The status for a typed error; a DomainError of no listed class is a plain 400. */
 export function statusOf(error: DomainError): number {
   for (const [errorClass, status] of STATUS_BY_CLASS) if (error instanceof errorClass) return status;
@@ -55,7 +52,7 @@ export function apiErrorResponse(error: DomainError): Response {
   const headers = new Headers({ "Cache-Control": "no-store" });
   if (status === 401) headers.set("WWW-Authenticate", 'Bearer realm="Firmsand"');
   if (error instanceof MethodNotAllowedError) headers.set("Allow", error.allowed.join(", "));
-  if (status === 503) headers.set("Retry-After", String(RETRY_AFTER_SECONDS));
+  if (error instanceof ServiceUnavailableError) headers.set("Retry-After", String(error.retryAfterSeconds));
   return Response.json({ errors: error.details, ...error.extra }, { status, headers });
 }
 

@@ -44,6 +44,11 @@ function fullDay(overrides: Partial<DayRecords> = {}): PdfDay {
     holds: [{ catalogueNumber: "F-2026-0012", placedAtMs: at(11), liftedAtMs: null }],
     entered: {
       weather: { conditions: "Overcast, light chop", airTemperature: "18 °C", wind: "SW 10 kn gusting 18", rain: "showers after 15:00", effect: "Afternoon showers slowed the haul trucks on the access road; no effect on diving until the turbidity stop." },
+      equipment: [
+        { name: "Suction pump 1 (8 in, diver-held intake)", workingHours: 7.5, idleHours: 2.5, idleReason: "waiting on the turbidity stop at C1, then the manatee stand-down; restarted once C1 read within the limit again" },
+        { name: "Booster pump", workingHours: 7.5, idleHours: 0, idleReason: "" },
+        { name: "Work boat", workingHours: 0, idleHours: 10, idleReason: "outboard under repair" },
+      ],
       inspections: "09:30 agency inspector walked the silt curtain and the dewatering pad.",
       safety: "Toolbox talk: hose entanglement and line signals. No incidents.",
       notes: "Cell B4 still soft at the east edge; plan another pass tomorrow. ".repeat(4) + "contact:someone.with.a.very.long.address.that.cannot.break@agency-example-of-some-length.example.org",
@@ -56,6 +61,7 @@ function fullDay(overrides: Partial<DayRecords> = {}): PdfDay {
     signed: { name: "Dana Reyes", at: new Date(at(18, 30)).toISOString() },
     countersigned: { name: "Morgan Alvarez", email: "morgan.alvarez@agency.example", at: new Date(at(19, 5)).toISOString() },
     amendments: [{ text: "Air temperature read at 07:00, not noon.", by: "Dana Reyes", at: new Date(at(19, 30)).toISOString() }],
+    earlierCountersignatures: [{ name: "Sam Okafor", email: "sam.okafor@agency.example", at: new Date(at(18, 50)).toISOString(), amendments: 0 }],
   };
 }
 
@@ -87,6 +93,10 @@ describe("the daily report PDF's layout", () => {
     // A table row's words and figures share its first line's baseline.
     expect(joined(lineOf(items, "Alpha"))).toBe("Alpha 5 2 137 38 B3 B4 B5 B6 C3 C4");
     expect(joined(lineOf(items, "Slurry pumped"))).toMatch(/^Slurry pumped 134,992 gal Dry solids pumped 7\.72 short tons$/);
+    // The equipment is a table: name, hours working, hours idle, idle reason (a long reason wraps in its cell).
+    expect(joined(lineOf(items, "Booster pump"))).toBe("Booster pump 7.5 0 —");
+    expect(joined(lineOf(items, "Work boat"))).toBe("Work boat 0 10 outboard under repair");
+    expect(joined(lineOf(items, "3 pieces"))).toBe("3 pieces: 15 h working, 12.5 h idle");
     // The water-quality readings are a table: station, kind, readings, highest, verdict.
     expect(joined(lineOf(items, "C2 downstream"))).toBe("C2 downstream of the silt curtain compliance 0 — no readings");
   });
@@ -121,12 +131,14 @@ describe("the daily report PDF's layout", () => {
     const bytes = await renderDailyReportPdf(PROJECT, { ...fullDay({ entered: { weather: null, inspections: "", safety: "", notes: "" } }), signed: null, countersigned: null, amendments: [] });
     const { items } = await pdfTextItems(bytes);
     const heading = items.find((item) => item.text === "Sign-off")!;
+    expect(items.find((item) => item.text === "Equipment")).toBeDefined();
     const lines = items.filter((item) => item.text.includes("— not signed"));
     expect(lines).toHaveLength(2);
     for (const line of lines) expect(line.page).toBe(heading.page);
     const text = (await pdfPages(bytes)).join(" ");
     expect(text).toContain("Inspections and visitors: none entered.");
     expect(text).toContain("Safety (toolbox talk, incidents): none entered.");
+    expect(text).toContain("Equipment None entered.");
   });
 
   it("on a project with no compliance station says so and lists no sampling gap", async () => {

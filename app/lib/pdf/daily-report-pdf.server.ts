@@ -2,7 +2,7 @@ import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import PDFDocument from "pdfkit";
 import type { CompiledDay } from "../../../shared/daily-report/compile";
-import { byHandLine, findsLine, formatNumber, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine, weatherLine } from "../../../shared/daily-report/present";
+import { byHandLine, countersignOutdatedLine, earlierCountersignatureLine, equipmentRows, equipmentTotalsLine, findsLine, formatNumber, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine, weatherLine } from "../../../shared/daily-report/present";
 import { localClockOf, localDayOf } from "../../../shared/local-time";
 import { unitLabel, type LengthUnit } from "../../../shared/units";
 
@@ -20,6 +20,10 @@ export interface PdfDay {
   signed: { name: string; at: string } | null;
   countersigned: { name: string; email: string; at: string } | null;
   amendments: Array<{ text: string; by: string; at: string }>;
+  /** Countersignatures before the latest (the report was amended and countersigned again), oldest first. */
+  earlierCountersignatures?: Array<{ name: string; email: string; at: string; amendments: number }>;
+  /** Amended since the latest countersignature. */
+  countersignOutdated?: boolean;
 }
 
 export interface PdfProject {
@@ -296,6 +300,15 @@ function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
   if (report.entered.notes) writer.line([`Notes: ${report.entered.notes}`]);
   writer.note("Incidents are reported as the project's safety plan directs; this report records them, it does not replace that reporting.");
 
+  // Equipment working and idle, with the reason for each idle spell: written even when empty.
+  writer.heading("Equipment");
+  const equipment = report.entered.equipment ?? [];
+  if (equipment.length === 0) writer.line(["None entered."], { color: MUTED });
+  else {
+    writer.table(["Equipment", "Working (h)", "Idle (h)", "Idle reason"], equipmentRows(equipment), [3, 1.3, 1.2, 5.5], [false, true, true, false]);
+    writer.line([equipmentTotalsLine(equipment)!], { size: 8, color: MUTED });
+  }
+
   writer.heading("Dive work");
   writer.line([{ figure: String(report.dives.count) }, " dives · ", { figure: String(report.dives.bottomMinutes) }, " bottom minutes · deepest ", { figure: report.dives.maxDepth === null ? "—" : `${report.dives.maxDepth} ${length}` }]);
   if (report.teams.length > 0) {
@@ -354,6 +367,8 @@ function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
   writer.heading("Sign-off");
   writer.signature("Dive supervisor or manager (typed name as signature)", signed ? { name: signed.name, detail: `signed ${stamp(signed.at)}` } : null);
   writer.signature("Agency inspector (countersignature)", countersigned ? { name: countersigned.name, detail: `countersigned ${stamp(countersigned.at)} through the link sent to ${countersigned.email}` } : null);
+  if (day.countersignOutdated) writer.note(countersignOutdatedLine());
+  for (const earlier of day.earlierCountersignatures ?? []) writer.note(earlierCountersignatureLine(earlier, stamp));
   if (amendments.length > 0) {
     writer.heading("Amendments");
     for (const amendment of amendments) writer.line([{ figure: stamp(amendment.at) }, ` by ${amendment.by}: ${amendment.text}`]);

@@ -84,7 +84,7 @@ export function getUploadEnv(): UploadEnv {
  * `npm test` point them at the local fake S3 server they start (db/scripts/s3-server.mjs). Parsed
  * at the first stored or read object, as the uploads' are.
  */
-const storageEnvSchema = z.object({
+export const storageEnvSchema = z.object({
   S3_ENDPOINT: z.url("S3_ENDPOINT must be a URL such as http://127.0.0.1:4568").refine((value) => /^https?:$/.test(new URL(value).protocol), "S3_ENDPOINT must be an http or https URL").default("http://127.0.0.1:4568"),
   S3_BUCKET: z.string().regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, "S3_BUCKET must be a bucket name: 3 to 63 lower-case letters, digits, dots or hyphens").default("firmsand"),
   S3_REGION: z.string().min(1).default("us-east-1"),
@@ -92,6 +92,12 @@ const storageEnvSchema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().min(1, "S3_SECRET_ACCESS_KEY must not be empty").default("S3RVER"),
   /** Path-style URLs (endpoint/bucket/key): what the fake and most self-hosted stores need. */
   S3_FORCE_PATH_STYLE: flag.default(true),
+  /** How long connecting to the store may take, per attempt (milliseconds; 100 ms to 1 min). */
+  S3_CONNECT_TIMEOUT_MS: z.coerce.number({ message: "S3_CONNECT_TIMEOUT_MS must be a number of milliseconds" }).int("S3_CONNECT_TIMEOUT_MS must be a whole number of milliseconds").min(100, "S3_CONNECT_TIMEOUT_MS must be at least 100").max(60_000, "S3_CONNECT_TIMEOUT_MS must be at most 60000 (1 minute)").default(5_000),
+  /** How long one request to the store may take from sending to the last byte of its answer, per attempt (milliseconds; 100 ms to 10 min). */
+  S3_REQUEST_TIMEOUT_MS: z.coerce.number({ message: "S3_REQUEST_TIMEOUT_MS must be a number of milliseconds" }).int("S3_REQUEST_TIMEOUT_MS must be a whole number of milliseconds").min(100, "S3_REQUEST_TIMEOUT_MS must be at least 100").max(600_000, "S3_REQUEST_TIMEOUT_MS must be at most 600000 (10 minutes)").default(30_000),
+  /** Attempts per request, the first included (the SDK retries a store that does not answer with a short back-off): 1 to 5. */
+  S3_MAX_ATTEMPTS: z.coerce.number({ message: "S3_MAX_ATTEMPTS must be a number" }).int("S3_MAX_ATTEMPTS must be a whole number").min(1, "S3_MAX_ATTEMPTS must be at least 1").max(5, "S3_MAX_ATTEMPTS must be at most 5").default(2),
 });
 export type StorageEnv = z.infer<typeof storageEnvSchema>;
 let parsedStorage: StorageEnv | undefined;
