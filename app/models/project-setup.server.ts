@@ -636,11 +636,11 @@ export function updateProjectSettings(
 
 /**
  * Starts a recompute of every survey's figures with the settings in force (after one failed or
- * was cut off): the job already waiting or running when there is one, else a new one. A
+ * was given up): the job already waiting or running when there is one, else a new one. A
  * ConflictError for a project without surveys (there is nothing to recompute).
  */
 export async function recomputeProjectFigures(project: ProjectView, actor: UserView): Promise<{ jobId: number; started: boolean }> {
-  // The latest job, a cut-off one marked failed first.
+  // The latest job, a silent one taken up first (it then waits or runs again).
   const latest = await latestRecomputeJob(project.id);
   if (latest && (latest.state === "queued" || latest.state === "running")) return { jobId: latest.id, started: false };
   return getSequelize().transaction(async (transaction) => {

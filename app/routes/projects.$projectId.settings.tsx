@@ -78,7 +78,7 @@ const actionSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("zone-delete"), zoneId: z.coerce.number().int().positive() }),
   // A zone one place earlier or later in the order (where zones overlap, the shared cells count in the earlier one).
   z.object({ intent: z.literal("zone-move"), zoneId: z.coerce.number().int().positive(), direction: z.enum(["up", "down"], { error: "Move a zone up or down" }) }),
-  // Every survey's figures again with the settings in force (after a recompute failed or was cut off).
+  // Every survey's figures again with the settings in force (after a recompute failed or was given up).
   z.object({ intent: z.literal("recompute") }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
   z.object({
