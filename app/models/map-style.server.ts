@@ -73,10 +73,11 @@ export async function buildMapStyle(project: ProjectView) {
       { id: "cells-grid", type: "line", source: "cells", minzoom: 17, paint: { "line-color": "#ffffff", "line-width": 0.5, "line-opacity": 0.6 } },
       { id: "bands-fill", type: "fill", source: "bands", layout: { visibility: "none" }, paint: { "fill-color": "#999999", "fill-opacity": 0.75 } },
       // Each zone in its own colour (shared/zone-colours.ts), dashed over a white casing: the casing
-      // keeps the outline readable on every cell colour, from the palest to umber and navy.
+      // keeps the outline readable on every cell colour, from the palest to umber and navy. Where a
+      // zone runs along the work limit, its dashes lie on the limit's wider red line, so both show.
       { id: "zones-casing", type: "line", source: "zones", paint: { "line-color": "#ffffff", "line-width": 4.5, "line-opacity": 0.85 } },
-      { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": ["get", "colour"], "line-width": 2.5, "line-dasharray": [3, 1.5] } },
-      { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": WORK_LIMIT_COLOUR, "line-width": 2 } },
+      { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": WORK_LIMIT_COLOUR, "line-width": 3.5 } },
+      { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": ["get", "colour"], "line-width": 2, "line-dasharray": [3, 1.5] } },
       { id: "tubes", type: "line", source: "tubes", layout: { "line-cap": "round" }, paint: { "line-color": ["case", ["get", "nearCapacity"], TUBE_COLOURS.nearCapacity, TUBE_COLOURS.normal], "line-width": 7 } },
       {
         id: "tube-labels", type: "symbol", source: "tubes",
