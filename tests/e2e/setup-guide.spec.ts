@@ -202,4 +202,11 @@ test("a new project walks its setup steps to done; two zones drawn by clicks on 
   await page.goto(`/projects/${projectId}`);
   await expect(page.getByRole("heading", { name: PROJECT_NAME })).toBeVisible();
   await expect(page.getByTestId("setup-reminder")).toHaveCount(0);
+
+  // The audit log says a settings change as what differs (the colour chosen above), not as two whole objects.
+  await page.goto(`/projects/${projectId}/audit`);
+  const entries = page.getByRole("region", { name: "Audit entries" });
+  await expect(entries).toContainText("zoneColours › Vent basin centre: Teal → Slate");
+  await expect(entries).not.toContainText("[object Object]");
+  await page.screenshot({ path: test.info().outputPath("audit-1440.png"), fullPage: true });
 });
