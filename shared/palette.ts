@@ -22,6 +22,12 @@ export const STATUS_LABELS: Record<CellStatus, string> = {
   confirmed: "Confirmed (closeout)",
 };
 
+/** The map's own basemap: land, and the water inside the shoreline and the work limit. */
+export const LAND_COLOUR = "#eeede6";
+export const WATER_COLOUR = "#cfe2e8";
+/** The work limit's outline on the map and in the printed outlines. */
+export const WORK_LIMIT_COLOUR = "#a3242a";
+
 /** Code in the /api cells arrays (index into CELL_STATUSES); −1 marks a grid cell outside the work limit. */
 export const OUTSIDE_WORK_LIMIT = -1;
 

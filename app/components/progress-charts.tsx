@@ -29,6 +29,8 @@ export interface RemovedSeries {
   name: string;
   values: Array<number | null>;
   total?: boolean;
+  /** The line's colour (a zone's own); else one of the chart's in turn. */
+  colour?: string | null;
   /** Which values get a dot (a record of its own on that date); every value when absent. */
   marked?: boolean[];
 }
@@ -122,7 +124,7 @@ function DatedLinesSvg({ dates, series, unit, title, testId, width }: DatedLines
         })}
       </g>
       {series.map((line, lineIndex) => {
-        const colour = line.total ? "#1d2528" : LINE_COLOURS[lineIndex % LINE_COLOURS.length];
+        const colour = line.total ? "#1d2528" : line.colour ?? LINE_COLOURS[lineIndex % LINE_COLOURS.length];
         let path = "";
         let pen = false;
         line.values.forEach((value, index) => {

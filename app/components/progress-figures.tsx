@@ -1,4 +1,5 @@
 import { UNZONED_NOTE } from "../../shared/volumes/rollup";
+import { ZoneSwatch } from "./zone-swatch";
 
 /** Figures as the trade reads them: tabular mono digits, thousands separated, unit always beside. */
 const formatters = new Map<number, Intl.NumberFormat>();
@@ -21,8 +22,8 @@ export function Volume({ value, unit, digits = 0 }: { value: number | null; unit
 }
 
 /** A zone row's name; the Unzoned row (zoneId null) is set apart so nobody takes it for a drawn zone. */
-export function ZoneName({ zone }: { zone: { zoneId: number | null; name: string } }) {
-  if (zone.zoneId !== null) return <>{zone.name}</>;
+export function ZoneName({ zone }: { zone: { zoneId: number | null; name: string; colour?: string | null } }) {
+  if (zone.zoneId !== null) return <>{zone.colour ? <ZoneSwatch colour={zone.colour} /> : null}{zone.name}</>;
   return <span className="italic" title={UNZONED_NOTE}>{zone.name} <span className="text-xs not-italic text-muted">(cells in no zone)</span></span>;
 }
 

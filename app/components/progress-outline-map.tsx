@@ -5,6 +5,8 @@ import { percentColour } from "./progress-colour";
 /** The work limit and the zones coloured by percent complete, drawn on the server as SVG. */
 export interface OutlineMapZone {
   name: string;
+  /** The zone's own colour, for its outline; white when absent. */
+  colour?: string | null;
   percentComplete: number | null;
   polygons: LonLatRing[][];
 }
@@ -39,8 +41,9 @@ export function ProgressOutlineMap({ workLimit, zones, title, shoreline = [], sc
             d={zone.polygons.map((polygon) => ringsPath(frame, polygon)).join("")}
             fill={percentColour(zone.percentComplete)}
             fillRule="evenodd"
-            stroke="#ffffff"
+            stroke={zone.colour ?? "#ffffff"}
             strokeWidth={2}
+            strokeDasharray={zone.colour ? "6 3" : undefined}
             data-zone={zone.name}
           >
             <title>{`${zone.name}: ${zone.percentComplete === null ? "no figures yet" : `${zone.percentComplete} % complete`}`}</title>

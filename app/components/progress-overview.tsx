@@ -155,7 +155,7 @@ function CrossCheck({ progress }: { progress: ProgressView }) {
 export function ProgressOverview({ progress, links }: { progress: ProgressView; links: Array<{ href: string; label: string }> }) {
   const unit = progress.volumeLabel;
   const series = [
-    ...progress.series.zones.map((zone) => ({ name: zone.name, values: zone.removedVolume })),
+    ...progress.series.zones.map((zone) => ({ name: zone.name, colour: zone.colour, values: zone.removedVolume })),
     { name: "Project", values: progress.series.totalRemovedVolume, total: true },
   ];
   return (

@@ -53,7 +53,11 @@ export function RecomputeStatus({ initial, volumeLabel, canStart }: { initial: R
         {active ? (
           <>
             <label htmlFor="recompute-progress" className="block">
-              {job.state === "queued" ? "Waiting for the project's other work (an import or an earlier recompute) to finish" : `Working: ${job.stage}`}{version}.
+              {job.state === "queued"
+                ? job.attempts > 0
+                  ? "The server stopped during this recompute; it starts again once the project's other work (an import or an earlier recompute) is done"
+                  : "Waiting for the project's other work (an import or an earlier recompute) to finish"
+                : `Working: ${job.stage}`}{version}.
             </label>
             <progress id="recompute-progress" max={1} value={job.fraction} className="block h-3 w-full accent-lagoon">{Math.round(job.fraction * 100)} %</progress>
             <p className="text-muted">

@@ -8,13 +8,13 @@ export function polygonsOf(geometry: LonLatPolygons): LonLatRing[][] {
 }
 
 /** The work limit (and the zones inside it) drawn as a small SVG outline: the preview beside the settings. */
-export function WorkLimitOutline({ workLimit, zones = [], title, testId }: { workLimit: LonLatPolygons; zones?: Array<{ name: string; geometry: LonLatPolygons }>; title: string; testId?: string }) {
+export function WorkLimitOutline({ workLimit, zones = [], title, testId }: { workLimit: LonLatPolygons; zones?: Array<{ name: string; colour?: string; geometry: LonLatPolygons }>; title: string; testId?: string }) {
   const limitPolygons = polygonsOf(workLimit);
   const frame = fitOutlineFrame([...limitPolygons.flat(), ...zones.flatMap((zone) => polygonsOf(zone.geometry).flat())], 600, 12);
   return (
     <svg viewBox={`0 0 ${frame.width} ${frame.height}`} role="img" aria-label={title} className="h-auto w-full max-w-xl rounded border border-line bg-panel" data-testid={testId}>
       {zones.map((zone) => (
-        <path key={zone.name} d={polygonsOf(zone.geometry).map((polygon) => ringsPath(frame, polygon)).join("")} fill="#cfe6ea" fillRule="evenodd" stroke="#ffffff" strokeWidth={2}>
+        <path key={zone.name} d={polygonsOf(zone.geometry).map((polygon) => ringsPath(frame, polygon)).join("")} fill="#cfe6ea" fillRule="evenodd" stroke={zone.colour ?? "#ffffff"} strokeWidth={2} strokeDasharray={zone.colour ? "6 3" : undefined}>
           <title>{zone.name}</title>
         </path>
       ))}

@@ -8,10 +8,15 @@ import { addsVertex, draftFeatures, draftPolygon, MIN_ZONE_VERTICES, type LonLat
 import { SubmitButton } from "./submit-button";
 import { TextField } from "./text-field";
 import { polygonsOf, type LonLatPolygons } from "./work-limit-outline";
+import { ZoneColourField } from "./zone-colour-field";
+import { ZoneSwatch } from "./zone-swatch";
+import { defaultZoneColour } from "../../shared/zone-colours";
 
 export interface EditableZone {
   id: number;
   name: string;
+  /** One of the palette's (shared/zone-colours.ts). */
+  colour: string;
   geometry: LonLatPolygons;
 }
 
@@ -40,7 +45,7 @@ function extentOf(geometry: LonLatPolygons): [[number, number], [number, number]
 
 const zoneCollection = (zones: EditableZone[]) => ({
   type: "FeatureCollection" as const,
-  features: zones.map((zone, index) => ({ type: "Feature" as const, id: index, properties: { name: zone.name, zone: index }, geometry: zone.geometry })),
+  features: zones.map((zone, index) => ({ type: "Feature" as const, id: index, properties: { name: zone.name, zone: index, colour: zone.colour }, geometry: zone.geometry })),
 });
 
 const buttonClass = "rounded border border-line bg-panel px-3 py-2 text-sm font-medium hover:bg-paper focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-lagoon disabled:opacity-50";
@@ -203,7 +208,7 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
   return (
     <div className="space-y-3">
       {/* A refused rename or delete is said here; a refused new zone beside its name. */}
-      <ActionMessages error={errors.form ?? (mode === "drawn" ? undefined : errors.name ?? errors.geometry ?? errors.zoneId)} notice={result?.notice} />
+      <ActionMessages error={errors.form ?? (mode === "drawn" ? undefined : errors.name ?? errors.geometry ?? errors.zoneId ?? errors.colour)} notice={result?.notice} />
       <p id={instructionsId} className="text-sm text-muted">
         Draw a zone: choose <strong>Draw a zone</strong>, click its corners on the map (or pan with the arrow keys and press Space for a corner at the crosshair),
         then double-click or press Enter to finish. Backspace takes back the last corner; Escape drops the outline. A zone must lie inside the work limit;
@@ -243,7 +248,10 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
               <p className="self-end text-sm">The new outline replaces that of <strong>{redrawing.name}</strong>; the zone keeps its name, place in the order and the records that name it.</p>
             </>
           ) : (
-            <TextField label="Name of the new zone" name="name" required maxLength={120} error={saveErrors.name} autoFocus />
+            <div className="flex flex-wrap items-end gap-3">
+              <TextField className="min-w-48 flex-1" label="Name of the new zone" name="name" required maxLength={120} error={saveErrors.name} autoFocus />
+              <ZoneColourField label="Colour" defaultValue={defaultZoneColour(zones.map((zone) => zone.colour), zones.length)} error={saveErrors.colour} />
+            </div>
           )}
           <div className="flex items-end gap-2">
             <SubmitButton intent="zone-save" pendingLabel="Saving…">{redrawing ? "Save the outline" : "Save zone"}</SubmitButton>
@@ -259,11 +267,16 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
         <ol className="space-y-2" aria-label="Zones">
           {zones.map((zone, index) => (
             <li key={zone.id} className="flex flex-wrap items-end gap-2 border-t border-line pt-2">
-              <span className="figures w-6 pb-2 text-sm">{index + 1}.</span>
+              <span className="figures flex w-12 items-center pb-2 text-sm"><ZoneSwatch colour={zone.colour} />{index + 1}.</span>
               <Form method="post" className="flex flex-1 flex-wrap items-end gap-2">
                 <input type="hidden" name="zoneId" value={zone.id} />
                 <TextField className="min-w-48 flex-1" label={`Name of zone ${index + 1}`} name="name" defaultValue={zone.name} required maxLength={120} key={zone.name} />
                 <SubmitButton intent="zone-save" tone="plain" pendingLabel="Saving…" aria-label={`Rename zone ${zone.name}`}>Rename</SubmitButton>
+              </Form>
+              <Form method="post" className="flex items-end gap-2">
+                <input type="hidden" name="zoneId" value={zone.id} />
+                <ZoneColourField label={`Colour of zone ${index + 1}`} defaultValue={zone.colour} key={zone.colour} />
+                <SubmitButton intent="zone-colour" tone="plain" pendingLabel="Saving…" aria-label={`Set colour of zone ${zone.name}`}>Set colour</SubmitButton>
               </Form>
               <button type="button" className={buttonClass} onClick={() => start(zone.id)} disabled={disabled || !ready || mode !== "idle"} aria-label={`Redraw the outline of zone ${zone.name}`}>Redraw</button>
               {(["up", "down"] as const).map((direction) => (

@@ -1,5 +1,5 @@
 import { Shoreline, Zone } from "~/lib/db.server";
-import { STATUS_COLOURS } from "../../shared/palette";
+import { LAND_COLOUR, STATUS_COLOURS, WATER_COLOUR, WORK_LIMIT_COLOUR } from "../../shared/palette";
 import { CELL_SOURCES } from "~/components/map/cell-sources";
 import { MARK_STYLES, PLANNED_PATTERN, TUBE_COLOURS } from "~/components/map/paint";
 import { findProject } from "~/lib/auth/project-view.server";
@@ -16,8 +16,6 @@ import type { ProjectView } from "~/lib/auth/project-view.server";
  * draws text locally from the family named in `text-font` when the style has no `glyphs`.
  */
 export const MAP_FONT = "Roboto Mono";
-export const LAND_COLOUR = "#eeede6";
-export const WATER_COLOUR = "#cfe2e8";
 
 const emptyCollection = { type: "FeatureCollection", features: [] } as const;
 
@@ -39,7 +37,7 @@ export async function buildMapStyle(project: ProjectView) {
         geometry: { type: "LineString", coordinates: tubeEnds(tube.position!, tube.length, tube.bearingDegrees).map(([x, y]) => crs.toLonLat(x, y)) },
       }))
     : [];
-  const zoneFeatures = zones.map((zone, index) => ({ type: "Feature", id: index, properties: { name: zone.name, zone: index }, geometry: JSON.parse(zone.polygonGeoJson) }));
+  const zoneFeatures = zones.map((zone, index) => ({ type: "Feature", id: index, properties: { name: zone.name, zone: index, colour: zone.colour }, geometry: JSON.parse(zone.polygonGeoJson) }));
   const textFont = [MAP_FONT];
   return {
     version: 8,
@@ -74,8 +72,12 @@ export async function buildMapStyle(project: ProjectView) {
       },
       { id: "cells-grid", type: "line", source: "cells", minzoom: 17, paint: { "line-color": "#ffffff", "line-width": 0.5, "line-opacity": 0.6 } },
       { id: "bands-fill", type: "fill", source: "bands", layout: { visibility: "none" }, paint: { "fill-color": "#999999", "fill-opacity": 0.75 } },
-      { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": "#3d4a50", "line-width": 1.5, "line-dasharray": [3, 2] } },
-      { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": "#a3242a", "line-width": 2 } },
+      // Each zone in its own colour (shared/zone-colours.ts), dashed over a white casing: the casing
+      // keeps the outline readable on every cell colour, from the palest to umber and navy. Where a
+      // zone runs along the work limit, its dashes lie on the limit's wider red line, so both show.
+      { id: "zones-casing", type: "line", source: "zones", paint: { "line-color": "#ffffff", "line-width": 4.5, "line-opacity": 0.85 } },
+      { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": WORK_LIMIT_COLOUR, "line-width": 3.5 } },
+      { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": ["get", "colour"], "line-width": 2, "line-dasharray": [3, 1.5] } },
       { id: "tubes", type: "line", source: "tubes", layout: { "line-cap": "round" }, paint: { "line-color": ["case", ["get", "nearCapacity"], TUBE_COLOURS.nearCapacity, TUBE_COLOURS.normal], "line-width": 7 } },
       {
         id: "tube-labels", type: "symbol", source: "tubes",
@@ -111,7 +113,7 @@ export async function buildMapStyle(project: ProjectView) {
       {
         id: "zone-labels", type: "symbol", source: "zones",
         layout: { "text-field": ["get", "name"], "text-font": textFont, "text-size": 13, "text-allow-overlap": true, "text-ignore-placement": true },
-        paint: { "text-color": "#0d4650", "text-halo-color": "#ffffff", "text-halo-width": 1.5 },
+        paint: { "text-color": ["get", "colour"], "text-halo-color": "#ffffff", "text-halo-width": 2 },
       },
       {
         id: "stations-labels", type: "symbol", source: "stations",

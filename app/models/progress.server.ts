@@ -34,6 +34,8 @@ export interface ZoneProgress extends ProgressFigures {
   /** null for the Unzoned row: the cells inside the work limit that no zone holds. */
   zoneId: number | null;
   name: string;
+  /** The zone's colour from the palette (shared/zone-colours.ts); null for the Unzoned row. */
+  colour: string | null;
   forecast: ZoneForecast;
 }
 
@@ -51,7 +53,7 @@ export interface ProgressView {
   series: {
     dates: string[];
     totalRemovedVolume: number[];
-    zones: Array<{ zoneId: number | null; name: string; removedVolume: Array<number | null> }>;
+    zones: Array<{ zoneId: number | null; name: string; colour: string | null; removedVolume: Array<number | null> }>;
   };
   production: ProductionInterval[];
   workingDayBasis: WorkingDayBasis;
@@ -99,7 +101,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
   const volumeUnit = volumeUnitFor(project.lengthUnit);
   const volumeLabel = unitLabel(project.lengthUnit, "volume");
   const [zones, cells, snapshots, surveys, diveDates, lost] = await Promise.all([
-    Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]], attributes: ["id", "name"] }),
+    Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]], attributes: ["id", "name", "colour"] }),
     CellResult.findAll({
       where: { projectId: project.id, areaInLimit: { [Op.gt]: 0 } },
       attributes: ["zoneId", "plannedVolume", "removedVolume", "remainingVolume", "status", "latestSurveyId"],
@@ -122,8 +124,8 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     // The engine gave each cell its one zone (shared/volumes/rollup.ts); a cell in none is Unzoned.
     addCell((cell.zoneId === null ? undefined : byZone.get(Number(cell.zoneId))) ?? unzoned, cell, date);
   }
-  const rows: Array<{ zoneId: number | null; name: string; figures: ProgressFigures }> = zones.map((zone) => ({ zoneId: zone.id, name: zone.name, figures: byZone.get(zone.id)! }));
-  if (unzoned.cells > 0) rows.push({ zoneId: null, name: UNZONED_NAME, figures: unzoned });
+  const rows: Array<{ zoneId: number | null; name: string; colour: string | null; figures: ProgressFigures }> = zones.map((zone) => ({ zoneId: zone.id, name: zone.name, colour: zone.colour, figures: byZone.get(zone.id)! }));
+  if (unzoned.cells > 0) rows.push({ zoneId: null, name: UNZONED_NAME, colour: null, figures: unzoned });
 
   const series = progressSeries(
     snapshots.map((snapshot) => ({
@@ -144,7 +146,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     const forecastOptions = { finishedBelowVolume: NEGLIGIBLE_VOLUME, changeThresholdVolume: Math.max(NEGLIGIBLE_VOLUME, CHANGE_SHARE * figures.plannedVolume),
       everyCellAtFirmSand: figures.cells > 0 && figures.cellsAtFirmSand === figures.cells, lostShares: lost.shares,
     };
-    return { zoneId: zone.zoneId, name: zone.name, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, forecastOptions) };
+    return { zoneId: zone.zoneId, name: zone.name, colour: zone.colour, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, forecastOptions) };
   });
   const basisWords = calendar.basis === "dives-logged"
     ? "Working days are the days on which dives were logged between two survey dates; where an interval has no logged dive, its weekdays (Monday to Friday). Each interval says which it rests on."
@@ -163,6 +165,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
       zones: series.zones.map((zoneSeries, index) => ({
         zoneId: zoneSeries.zoneId,
         name: rows[index].name,
+        colour: rows[index].colour,
         removedVolume: [...zoneSeries.removedVolume].map((value) => (Number.isFinite(value) ? value : null)),
       })),
     },

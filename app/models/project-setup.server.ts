@@ -8,6 +8,7 @@ import type { LonLatBounds } from "../../shared/soundings/row-checks";
 import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
 import { defaultsFor, unitLabel } from "../../shared/units";
 import { zoneOutsideLimit, zoneOverlapArea } from "../../shared/grid/zone-fit";
+import { ZONE_COLOURS, defaultZoneColour, isZoneColour, zoneColourName } from "../../shared/zone-colours";
 import { emergencyInfoSchema, isEmergencyInfoEmpty, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import { canCreateProjects } from "~/lib/auth/permissions";
@@ -54,6 +55,8 @@ const zoneSchema = z.object({
   id: z.number({ error: "A zone's id is a whole number" }).int().positive().optional(),
   name: z.string({ error: "A zone needs a name" }).trim().min(1, "A zone needs a name").max(120, "A zone's name is at most 120 characters"),
   geometry: z.unknown(),
+  /** One of the palette's colours; a new zone without one gets the next free default, a kept zone keeps its own. */
+  colour: z.string({ error: "A zone's colour is written as in the palette, e.g. \"#0d5c66\"" }).trim().toLowerCase().refine((value): boolean => isZoneColour(value), `A zone's colour must be one of the palette's: ${ZONE_COLOURS.map((colour) => `${colour.value} (${colour.name})`).join(", ")}`).optional(),
 });
 
 const identityFields = {
@@ -137,7 +140,8 @@ export interface ProjectSettings {
   grid: { cellSize: number; rotationDegrees: number; originX: number; originY: number; rasterResolution: number; maxEdge: number };
   /** `overDredgeAllowance`: how far below firm sand removal is still paid (project length unit). */
   tolerances: { firmSand: number; firmShare: number; minCoverage: number; overDredgeAllowance: number };
-  zones: Array<{ id: number; name: string; sortOrder: number; geometry: unknown }>;
+  /** `colour`: one of the palette's (shared/zone-colours.ts). */
+  zones: Array<{ id: number; name: string; sortOrder: number; colour: string; geometry: unknown }>;
   /** Cells of the grid over the work limit's extent. */
   cellCount: number | null;
   /** Surveys stored (active or retracted): a change to the figures' settings recomputes them. */
@@ -218,7 +222,7 @@ interface ZoneFrame {
   lengthUnit: LengthUnit;
 }
 
-function checkZones(zones: Array<{ id?: number; name: string; geometry: unknown }>, crs: CheckedCrs, frame: ZoneFrame, problems: ErrorDetail[]) {
+function checkZones(zones: Array<{ id?: number; name: string; colour?: string; geometry: unknown }>, crs: CheckedCrs, frame: ZoneFrame, problems: ErrorDetail[]) {
   const seen = new Set<string>();
   const ids = new Set<number>();
   const areaUnit = unitLabel(frame.lengthUnit, "area");
@@ -244,7 +248,7 @@ function checkZones(zones: Array<{ id?: number; name: string; geometry: unknown 
         return null;
       }
     }
-    return parsed && { id: zone.id, name: zone.name, sortOrder: index + 1, lonLat: parsed.lonLat, projected: parsed.projected };
+    return parsed && { id: zone.id, name: zone.name, sortOrder: index + 1, colour: zone.colour, lonLat: parsed.lonLat, projected: parsed.projected };
   });
 }
 
@@ -290,9 +294,13 @@ function projectedLimit(crs: Crs, lonLatGeoJson: string | null): ProjectedMultiP
   return storedLimit(crs, lonLatGeoJson)?.projected ?? null;
 }
 
-async function createZones(projectId: number, zones: ReturnType<typeof checkZones>, transaction: Transaction): Promise<void> {
+/** Creates `zones`; one without a colour gets the first the project's zones (`taken`, kept up to date) do not have yet. */
+async function createZones(projectId: number, zones: ReturnType<typeof checkZones>, transaction: Transaction, taken: string[] = []): Promise<void> {
   for (const zone of zones) {
-    if (zone) await Zone.create({ projectId, name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
+    if (!zone) continue;
+    const colour = zone.colour ?? defaultZoneColour(taken, zone.sortOrder - 1);
+    taken.push(colour);
+    await Zone.create({ projectId, name: zone.name, sortOrder: zone.sortOrder, colour, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
   }
 }
 
@@ -318,8 +326,8 @@ async function replaceZones(projectId: number, zones: ReturnType<typeof checkZon
   const keptIds = [...kept.keys()].map((zone) => zone.id);
   await Zone.destroy({ where: { projectId, ...(keptIds.length > 0 ? { id: { [Op.notIn]: keptIds } } : {}) }, transaction });
   for (const [row, zone] of kept) if (row.name !== zone.name) await row.update({ name: `\u0001${row.id}` }, { transaction });
-  for (const [row, zone] of kept) await row.update({ name: zone.name, sortOrder: zone.sortOrder, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
-  await createZones(projectId, created, transaction);
+  for (const [row, zone] of kept) await row.update({ name: zone.name, sortOrder: zone.sortOrder, colour: zone.colour ?? row.colour, polygonGeoJson: JSON.stringify(zone.lonLat) }, { transaction });
+  await createZones(projectId, created, transaction, [...kept].map(([row, zone]) => zone.colour ?? row.colour));
 }
 
 async function freeSlug(name: string, transaction: Transaction): Promise<string> {
@@ -486,7 +494,7 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
     workLimitArea: limit?.area ?? null,
     grid: { cellSize: grid.cellSize, rotationDegrees: grid.rotationDegrees, originX: grid.originX, originY: grid.originY, rasterResolution: grid.rasterResolution, maxEdge: grid.maxEdge },
     tolerances: { firmSand: grid.tolerance, firmShare: grid.firmShare, minCoverage: grid.minCoverage, overDredgeAllowance: grid.overDredgeAllowance },
-    zones: zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, geometry: JSON.parse(zone.polygonGeoJson) })),
+    zones: zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, colour: zone.colour, geometry: JSON.parse(zone.polygonGeoJson) })),
     cellCount: limit ? cellCount(createCellGrid(limit.projected, grid)) : null,
     surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
     finds: { cataloguePrefix: project.findCataloguePrefix, holdRadiusM: project.holdRadiusM, holdRadiusSource: project.holdRadiusSource },
@@ -496,10 +504,10 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
   };
 }
 
-/** The settings without the geometries' coordinates (the audit log keeps their areas and zone names instead). */
+/** The settings without the geometries' coordinates (the audit log keeps their areas, zone names and colours instead). */
 function auditable(settings: ProjectSettings) {
   const { workLimit: _limit, zones, ...rest } = settings;
-  return { ...rest, zones: zones.map((zone) => zone.name) };
+  return { ...rest, zones: zones.map((zone) => zone.name), zoneColours: Object.fromEntries(zones.map((zone) => [zone.name, zoneColourName(zone.colour)])) };
 }
 
 export async function getProjectSettings(project: ProjectView): Promise<ProjectSettings> {
@@ -636,11 +644,11 @@ export function updateProjectSettings(
 
 /**
  * Starts a recompute of every survey's figures with the settings in force (after one failed or
- * was cut off): the job already waiting or running when there is one, else a new one. A
+ * was given up): the job already waiting or running when there is one, else a new one. A
  * ConflictError for a project without surveys (there is nothing to recompute).
  */
 export async function recomputeProjectFigures(project: ProjectView, actor: UserView): Promise<{ jobId: number; started: boolean }> {
-  // The latest job, a cut-off one marked failed first.
+  // The latest job, a silent one taken up first (it then waits or runs again).
   const latest = await latestRecomputeJob(project.id);
   if (latest && (latest.state === "queued" || latest.state === "running")) return { jobId: latest.id, started: false };
   return getSequelize().transaction(async (transaction) => {

@@ -22,9 +22,11 @@ export interface ZoneView {
   id: number;
   name: string;
   sortOrder: number;
+  /** One of the palette's (shared/zone-colours.ts). */
+  colour: string;
 }
 
 export async function listZones(project: ProjectView): Promise<ZoneView[]> {
   const zones = await Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]] });
-  return zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder }));
+  return zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, colour: zone.colour }));
 }

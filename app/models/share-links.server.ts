@@ -101,7 +101,8 @@ export interface PublicProgressView {
   /** The project's shoreline (the water body's outline, public geography), thinned for a small map; [] when none was uploaded. */
   shoreline: LonLatRing[][];
   /** Every zone, then the Unzoned row (`unzoned`, no outline) when part of the work limit lies in no zone. */
-  zones: Array<{ name: string; percentComplete: number | null; polygons: LonLatRing[][]; unzoned: boolean }>;
+  /** `colour`: the zone's own (shared/zone-colours.ts); null for the Unzoned row. */
+  zones: Array<{ name: string; colour: string | null; percentComplete: number | null; polygons: LonLatRing[][]; unzoned: boolean }>;
 }
 
 /** Polygon or MultiPolygon GeoJSON → polygons of rings of [lon, lat]; nothing else of the object is read. */
@@ -148,6 +149,7 @@ export async function presentPublicProgress(projectId: number, link: Pick<ShareL
     shoreline: await publicShoreline(projectId),
     zones: progress.zones.map((zone) => ({
       name: zone.name,
+      colour: zone.colour,
       percentComplete: wholePercent(zone.percentCompleteByVolume),
       polygons: zone.zoneId === null ? [] : lonLatPolygons(zonePolygons.get(zone.zoneId) ?? null),
       unzoned: zone.zoneId === null,

@@ -4,6 +4,7 @@ import { can } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { roleLabel } from "~/lib/auth/roles";
 import { ProgressOverview } from "~/components/progress-overview";
+import { ZoneSwatch } from "~/components/zone-swatch";
 import { ReconciliationPanel } from "~/components/dewatering/reconciliation-panel";
 import { keptProgress } from "~/models/progress.server";
 import { loadReconciliation } from "~/models/reconciliation.server";
@@ -102,7 +103,7 @@ export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
           <p className="mt-2 text-sm text-muted">No zones yet: the whole work limit counts as one.</p>
         ) : (
           <ol className="mt-2 list-decimal pl-6 text-sm">
-            {zones.map((zone) => <li key={zone.id}>{zone.name}</li>)}
+            {zones.map((zone) => <li key={zone.id}><ZoneSwatch colour={zone.colour} />{zone.name}</li>)}
           </ol>
         )}
       </section>

@@ -3,6 +3,7 @@ import { z } from "zod";
 import { requireRole } from "~/lib/auth/access.server";
 import { roleLabel, isRole } from "~/lib/auth/roles";
 import { auditActionLabel } from "~/lib/audit/action-label";
+import { describeAuditDetail, describeValue } from "~/lib/audit/describe-detail";
 import { AUDIT_ACTION_NAMES, listAuditPeople, listProjectAuditEvents, type AuditFilter } from "~/lib/audit/audit.server";
 import type { Route } from "./+types/projects.$projectId.audit";
 
@@ -61,10 +62,9 @@ export function meta({}: Route.MetaArgs) {
   return [{ title: "Audit log · Firmsand" }];
 }
 
+/** The detail in words: a settings change as what differs, a role by its label. */
 function describe(detail: Record<string, unknown>): string {
-  return Object.entries(detail)
-    .map(([key, value]) => `${key}: ${key === "role" && isRole(value) ? roleLabel(value) : String(value)}`)
-    .join(", ");
+  return describeAuditDetail(detail, (key, value) => (key === "role" && isRole(value) ? roleLabel(value) : describeValue(value)));
 }
 
 /** The query string of a filter and page, leaving out what is not set (page 1 included). */

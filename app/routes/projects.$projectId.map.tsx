@@ -31,6 +31,7 @@ import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
 import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline.server";
 import { currentStoppages, workStoppedMessage } from "~/models/stoppages.server";
 import { listTubes } from "~/models/dewatering.server";
+import { listZones } from "~/models/project.server";
 import { mapMonitoring } from "~/models/map-monitoring.server";
 import type { Route } from "./+types/projects.$projectId.map";
 
@@ -39,9 +40,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = access;
   // Held cells for those who read finds (outreach sees nothing of finds): "held", no details.
   const canReadFinds = can(access, "finds.read");
-  const [teams, shoreline, row, surveys, stoppages, heldCells, register, monitoring] = await Promise.all([
+  const [teams, shoreline, row, surveys, stoppages, heldCells, register, monitoring, zones] = await Promise.all([
     listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project), currentStoppages(project), canReadFinds ? heldCellLabels(project.id) : Promise.resolve([]),
-    listTubes(project), mapMonitoring(project),
+    listTubes(project), mapMonitoring(project), listZones(project),
   ]);
   // The tubes the style draws (placed on the laydown area, not yet hauled), for the legend.
   const drawnTubes = register.tubes.filter((tube) => tube.position !== null && tube.status !== "hauled");
@@ -64,6 +65,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     workLimit: row?.workLimitGeoJson ? (JSON.parse(row.workLimitGeoJson) as LonLatWorkLimit) : null,
     heldCells,
     monitoring,
+    // The zones as the style draws them (outline and name in the zone's colour), for the legend.
+    zones: zones.map((zone) => ({ id: zone.id, name: zone.name, colour: zone.colour })),
     tubes: { count: drawnTubes.length, nearCapacity: drawnTubes.filter((tube) => tube.nearCapacity).length, nearCapacityShare: register.nearCapacityShare },
     // The view sent in the address (centre, zoom, layers, zone, cells): the page opens on it.
     initialView: parseMapView(new URL(request.url).searchParams),
@@ -450,6 +453,13 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
       ];
       sections.push({ title: "Marked cells", entries: marks });
     }
+    if (layers.zones && loaderData.zones.length > 0) {
+      sections.push({
+        title: "Zones",
+        note: "Outlined, and named when Labels are on; where zones overlap, a shared cell counts in the earlier one.",
+        entries: loaderData.zones.map((zone) => ({ colour: "#ffffff", outline: zone.colour, dashed: true, label: zone.name })),
+      });
+    }
     const tubes = loaderData.tubes;
     if (layers.tubes && tubes.count > 0) {
       sections.push({
@@ -463,7 +473,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
     }
     if (layers.monitoring) sections.push(...monitoringLegend(monitoring, shownSightings, sightingHours));
     return sections;
-  }, [monitoring, shownSightings, sightingHours, layers.monitoring, layers.tubes, loaderData.tubes, layers.bands, layers.cells, bands, bandSurface, data, loadError, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
+  }, [monitoring, shownSightings, sightingHours, layers.monitoring, layers.tubes, loaderData.tubes, layers.zones, loaderData.zones, layers.bands, layers.cells, bands, bandSurface, data, loadError, view, zoneIndex, planDate, assigned.size, held.size, selected.size, loaderData.lengthUnit]);
 
   if (!loaderData.hasWorkLimit) {
     return <p className="rounded border border-dashed border-line bg-panel p-6 text-muted">Set the project's work limit to see it on the map.</p>;

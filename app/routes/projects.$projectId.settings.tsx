@@ -74,11 +74,14 @@ const actionSchema = z.discriminatedUnion("intent", [
     zoneId: z.preprocess(blankToUndefined, z.coerce.number().int().positive().optional()),
     name: z.string(),
     geometry: z.preprocess(blankToUndefined, z.string().optional()),
+    colour: z.preprocess(blankToUndefined, z.string().optional()),
   }),
+  // A zone's colour, one of the palette's (checked with the zones, as any zone sent to the project).
+  z.object({ intent: z.literal("zone-colour"), zoneId: z.coerce.number().int().positive(), colour: z.string() }),
   z.object({ intent: z.literal("zone-delete"), zoneId: z.coerce.number().int().positive() }),
   // A zone one place earlier or later in the order (where zones overlap, the shared cells count in the earlier one).
   z.object({ intent: z.literal("zone-move"), zoneId: z.coerce.number().int().positive(), direction: z.enum(["up", "down"], { error: "Move a zone up or down" }) }),
-  // Every survey's figures again with the settings in force (after a recompute failed or was cut off).
+  // Every survey's figures again with the settings in force (after a recompute failed or was given up).
   z.object({ intent: z.literal("recompute") }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
   z.object({
@@ -164,10 +167,11 @@ export async function action({ request, params }: Route.ActionArgs) {
         break;
       case "zone-save":
       case "zone-delete":
-      case "zone-move": {
+      case "zone-move":
+      case "zone-colour": {
         // Through the same check as zones sent to the API: the whole list, changed in one place.
         const { zones } = await getProjectSettings(project);
-        const current = zones.map((zone) => ({ id: zone.id, name: zone.name, geometry: zone.geometry }));
+        const current = zones.map((zone) => ({ id: zone.id, name: zone.name, colour: zone.colour, geometry: zone.geometry }));
         if (input.intent === "zone-move") {
           const at = current.findIndex((zone) => zone.id === input.zoneId);
           if (at < 0) return failed(input.intent, { form: "That zone is no longer there; the page shows the zones as they are now." });
@@ -176,6 +180,11 @@ export async function action({ request, params }: Route.ActionArgs) {
           const order = [...current];
           [order[at], order[to]] = [order[to], order[at]];
           patch = { zones: order };
+          break;
+        }
+        if (input.intent === "zone-colour") {
+          if (!current.some((zone) => zone.id === input.zoneId)) return failed(input.intent, { form: "That zone is no longer there; the page shows the zones as they are now." });
+          patch = { zones: current.map((zone) => (zone.id === input.zoneId ? { ...zone, colour: input.colour } : zone)) };
           break;
         }
         if (input.intent === "zone-delete") {
@@ -194,7 +203,7 @@ export async function action({ request, params }: Route.ActionArgs) {
         const existing = input.zoneId === undefined ? undefined : current.find((zone) => zone.id === input.zoneId);
         if (input.zoneId !== undefined && !existing) return failed(input.intent, { form: "That zone is no longer there; the page shows the zones as they are now." });
         if (!existing && geometry === undefined) return failed(input.intent, { geometry: "Draw the zone's outline on the map first." });
-        const saved = { id: existing?.id, name: input.name, geometry: geometry ?? existing!.geometry };
+        const saved = { id: existing?.id, name: input.name, colour: input.colour ?? existing?.colour, geometry: geometry ?? existing!.geometry };
         patch = { zones: existing ? current.map((zone) => (zone.id === existing.id ? saved : zone)) : [...current, saved] };
         break;
       }
@@ -213,10 +222,11 @@ export async function action({ request, params }: Route.ActionArgs) {
     const checked = projectPatchSchema.safeParse(patch);
     if (!checked.success) return failed(input.intent, fieldErrorsOf(validationErrorFrom(checked.error)));
     const { settings, recompute, overlaps } = await updateProjectSettings(project, user, checked.data, { ip });
-    const zoneIntent = input.intent === "zone-save" || input.intent === "zone-delete" || input.intent === "zone-move";
+    const zoneIntent = input.intent === "zone-save" || input.intent === "zone-delete" || input.intent === "zone-move" || input.intent === "zone-colour";
     const cells = settings.cellCount === null || zoneIntent || input.intent === "emergency" || input.intent === "dive-work" ? "" : ` The grid has ${settings.cellCount.toLocaleString("en-US")} cells.`;
-    const shared = overlaps.map((overlap) => ` "${overlap.second}" overlaps "${overlap.first}" by about ${Math.round(overlap.area).toLocaleString("en-US")} ${unitLabel(settings.lengthUnit, "area")}: the cells they share count in "${overlap.first}", the earlier zone.`).join("");
-    const what = input.intent === "zone-delete" ? "Zone deleted." : input.intent === "zone-move" ? "Zone order saved." : "Saved.";
+    // A new colour changes no outline: the overlaps were said when the outlines were saved.
+    const shared = input.intent === "zone-colour" ? "" : overlaps.map((overlap) => ` "${overlap.second}" overlaps "${overlap.first}" by about ${Math.round(overlap.area).toLocaleString("en-US")} ${unitLabel(settings.lengthUnit, "area")}: the cells they share count in "${overlap.first}", the earlier zone.`).join("");
+    const what = input.intent === "zone-delete" ? "Zone deleted." : input.intent === "zone-move" ? "Zone order saved." : input.intent === "zone-colour" ? "Zone colour saved." : "Saved.";
     const recomputing = recompute ? " Every survey's figures are being recomputed: the progress is shown at the top of the page." : "";
     return answered({ intent: input.intent, errors: {}, notice: `${what}${cells}${shared}${recomputing}` });
   } catch (error) {
@@ -264,7 +274,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
   // Opened from "Set up this project": a way back to the step it came from.
   const [searchParams] = useSearchParams();
   const setupStep = SETUP_STEP_KEYS.find((key) => key === searchParams.get("setup")) ?? null;
-  const zoneResult = actionData && (actionData.intent === "zone-save" || actionData.intent === "zone-delete" || actionData.intent === "zone-move") ? actionData : null;
+  const zoneResult = actionData && (actionData.intent === "zone-save" || actionData.intent === "zone-delete" || actionData.intent === "zone-move" || actionData.intent === "zone-colour") ? actionData : null;
 
   return (
     <div className="space-y-6">
@@ -320,7 +330,7 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
         <ActionMessages notice={noticeFor("work-limit-save")} />
         {settings.workLimit ? (
           <>
-            <WorkLimitOutline workLimit={settings.workLimit as unknown as LonLatPolygons} zones={settings.zones as unknown as Array<{ name: string; geometry: LonLatPolygons }>} title="The saved work limit and its zones" testId="work-limit-outline" />
+            <WorkLimitOutline workLimit={settings.workLimit as unknown as LonLatPolygons} zones={settings.zones as unknown as Array<{ name: string; colour: string; geometry: LonLatPolygons }>} title="The saved work limit and its zones" testId="work-limit-outline" />
             <p className="mt-1 text-sm text-muted">Area <span className="figures">{Math.round(settings.workLimitArea ?? 0).toLocaleString("en-US")}</span> {areaUnit}.</p>
           </>
         ) : <p className="text-sm text-muted">No work limit yet.</p>}

@@ -1,5 +1,6 @@
 import { data, isRouteErrorResponse } from "react-router";
 import { PercentLegend, ProgressOutlineMap } from "~/components/progress-outline-map";
+import { ZoneSwatch } from "~/components/zone-swatch";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { PUBLIC_CACHE_SECONDS, publicProgressForToken, publicRateLimit } from "~/models/share-links.server";
 import type { Route } from "./+types/share.$token";
@@ -79,7 +80,7 @@ export default function SharePage({ loaderData: view }: Route.ComponentProps) {
         {view.zones.map((zone) => (
           <li key={zone.unzoned ? "unzoned" : zone.name} className="rounded border border-line bg-panel p-2" data-unzoned={zone.unzoned ? "" : undefined}>
             <div className="flex justify-between gap-2">
-              {zone.unzoned ? <span className="italic">{zone.name} <span className="text-xs not-italic text-muted">(parts of the work area in no zone)</span></span> : <span>{zone.name}</span>}
+              {zone.unzoned ? <span className="italic">{zone.name} <span className="text-xs not-italic text-muted">(parts of the work area in no zone)</span></span> : <span>{zone.colour ? <ZoneSwatch colour={zone.colour} /> : null}{zone.name}</span>}
               <span className="figures">{zone.percentComplete === null ? "–" : `${zone.percentComplete} %`}</span></div>
             <div className="mt-1 h-2 rounded bg-paper" aria-hidden="true"><div className="h-2 rounded bg-lagoon" style={{ width: `${zone.percentComplete ?? 0}%` }} /></div>
           </li>

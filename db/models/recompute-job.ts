@@ -26,6 +26,8 @@ export class RecomputeJob extends Model<InferAttributes<RecomputeJob>, InferCrea
   declare state: RecomputeJobState;
   declare stage: string;
   declare fraction: CreationOptional<number>;
+  /** How many times the job was taken up to run (a server stop during a run leaves it to be taken up again). */
+  declare attempts: CreationOptional<number>;
   declare error: CreationOptional<string | null>;
   declare summary: CreationOptional<RecomputeSummary | null>;
   declare finishedAt: CreationOptional<Date | null>;
@@ -40,6 +42,7 @@ export function initRecomputeJob(sequelize: Sequelize) {
       state: { type: DataTypes.ENUM(...RECOMPUTE_JOB_STATES), allowNull: false },
       stage: { type: DataTypes.STRING(60), allowNull: false },
       fraction: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
+      attempts: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
       error: { type: DataTypes.TEXT, allowNull: true },
       summary: jsonColumn("recompute_jobs", "summary", recomputeSummarySchema, { allowNull: true }),
       finishedAt: { type: DataTypes.DATE, allowNull: true },
@@ -48,7 +51,10 @@ export function initRecomputeJob(sequelize: Sequelize) {
     },
     {
       sequelize, tableName: "recompute_jobs", modelName: "RecomputeJob",
-      indexes: [{ name: "recompute_jobs_project_created", fields: ["projectId", "createdAt"] }],
+      indexes: [
+        { name: "recompute_jobs_project_created", fields: ["projectId", "createdAt"] },
+        { name: "recompute_jobs_state_updated", fields: ["state", "updatedAt"] },
+      ],
     },
   );
 }

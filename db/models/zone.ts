@@ -9,6 +9,8 @@ export class Zone extends Model<InferAttributes<Zone>, InferCreationAttributes<Z
   /** GeoJSON Polygon or MultiPolygon in lon/lat. */
   declare polygonGeoJson: string;
   declare sortOrder: CreationOptional<number>;
+  /** One of the palette's colours (shared/zone-colours.ts), chosen by the manager or given by default. */
+  declare colour: CreationOptional<string>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -20,6 +22,7 @@ export function initZone(sequelize: Sequelize) {
       name: { type: DataTypes.STRING(120), allowNull: false },
       polygonGeoJson: { type: DataTypes.TEXT("medium"), allowNull: false },
       sortOrder: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      colour: { type: DataTypes.STRING(7), allowNull: false, defaultValue: "#0d5c66" },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -1,6 +1,8 @@
+import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import AxeBuilder from "@axe-core/playwright";
 import { request as playwrightRequest, type Page } from "@playwright/test";
+import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoProjectId, expect, signInRequest, test, type DemoAccount } from "./fixtures";
 
@@ -12,6 +14,7 @@ import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoProjectId, expect, signInRequest, tes
 const SERIOUS = new Set(["serious", "critical"]);
 const PLAN_DATE = "2026-11-12";
 const FIXTURES = join(import.meta.dirname, "..", "fixtures", "import");
+const DEMO_DIR = join(import.meta.dirname, "..", "..", "sample-data", "demo");
 
 interface Ids {
   project: number;
@@ -165,4 +168,62 @@ test.describe("no serious or critical accessibility violations", () => {
       await context.close();
     });
   }
+});
+
+// The settings page's recompute panel appears only after a figures change on a project with
+// surveys, so no page row above shows it: it is checked here while it runs (its progress bar and
+// live status) and once done (the summary and the before/after table). While axe reads the running
+// panel, the page's polls are answered "still running", so the check does not race the server.
+test("the settings page's recompute panel, running and done, has no serious or critical violations", async ({ page, signIn, baseURL }) => {
+  test.setTimeout(180_000);
+  const origin = new URL(baseURL!).origin;
+  const admin = await playwrightRequest.newContext({ baseURL });
+  await signInRequest(admin, baseURL!, DEMO_ACCOUNTS.admin);
+  const created = await admin.post("/api/projects", {
+    headers: { Origin: origin },
+    data: {
+      name: `Recompute panel spring ${Date.now().toString(36)}`, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, timeZone: PROJECT.timeZone,
+      workLimit: WORK_LIMIT, grid: { cellSize: GRID.cellSizeFt }, zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })), manager: DEMO_ACCOUNTS.manager,
+    },
+  });
+  expect(created.status(), await created.text()).toBe(201);
+  const projectId = ((await created.json()) as { id: number }).id;
+  const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
+  const imported = await admin.post(`/api/projects/${projectId}/surveys`, {
+    headers: { Origin: origin },
+    multipart: {
+      file: { name: baseline.fileName, mimeType: "text/csv", buffer: readFileSync(join(DEMO_DIR, baseline.fileName)) },
+      kind: baseline.kind, surveyedOn: baseline.surveyedOn, waterSurfaceElevation: String(baseline.waterSurfaceElevationFt), timeZone: PROJECT.timeZone, datum: PROJECT.verticalDatum,
+    },
+  });
+  expect(imported.status(), await imported.text()).toBe(201);
+  await admin.dispose();
+
+  // Until axe has read the running panel, every poll of the job says it is still running.
+  let holding = true;
+  await page.route(`**/api/projects/${projectId}/recomputes/*`, async (route) => {
+    const response = await route.fetch();
+    const job = (await response.json()) as Record<string, unknown>;
+    await route.fulfill({ response, json: holding ? { ...job, state: "running", stage: "computing the cells", fraction: 0.42, summary: null, summaryText: null, finishedAt: null } : job });
+  });
+  await signIn("manager");
+  await page.setViewportSize({ width: 1440, height: 900 });
+  await page.goto(`/projects/${projectId}/settings`);
+  const tolerances = page.getByRole("region", { name: "Targets and tolerances" });
+  await tolerances.getByLabel(/Firm-sand tolerance/).fill(String(GRID.toleranceFt * 4));
+  await tolerances.getByRole("button", { name: "Save tolerances" }).click();
+  const panel = page.getByTestId("recompute-status");
+  await expect(panel.getByRole("progressbar")).toBeVisible({ timeout: 30_000 });
+  const panelViolations = async () => {
+    const results = await new AxeBuilder({ page }).include('[data-testid="recompute-status"]').analyze();
+    return results.violations.filter((violation) => SERIOUS.has(violation.impact ?? "")).flatMap((violation) => violation.nodes.map((node) => `${violation.impact} ${violation.id}: ${violation.help} — ${node.target.join(" ")}`));
+  };
+  expect(await panelViolations(), "the running panel").toEqual([]);
+  holding = false;
+  await expect(panel.getByRole("heading", { name: "Figures recomputed" })).toBeVisible({ timeout: 90_000 });
+  // The before/after table is there whenever a figure moved (a four times wider tolerance moves some cells).
+  if (!(await panel.getByTestId("recompute-summary").textContent())?.includes("no figure changed")) await expect(panel.getByRole("table")).toBeVisible();
+  expect(await panelViolations(), "the finished panel").toEqual([]);
+  // And the whole page with it, as the walk checks every page.
+  expect(await seriousViolations(page)).toEqual([]);
 });

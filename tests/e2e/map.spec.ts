@@ -60,7 +60,7 @@ test("the map draws the demo's cells in their status colours, with labels, from 
   // Zone labels are placed with the shipped font and no glyphs URL (the offline guard fails any outside request).
   await expect.poll(() => page.evaluate(() => (window as unknown as { firmsandMap: { queryRenderedFeatures(o: object): unknown[] } }).firmsandMap.queryRenderedFeatures({ layers: ["zone-labels"] }).length)).toBeGreaterThan(0);
   // Hide labels and outlines so cell centres show the bare fill colour.
-  for (const name of ["Labels", "Zones", "Work limit"]) await page.getByLabel(name, { exact: true }).uncheck();
+  for (const name of ["Labels", "Zones", "Work limit"]) await page.getByRole("checkbox", { name, exact: true }).uncheck(); // (the legend has a Zones section too)
   await mapSettled(page);
   const checked: string[] = [];
   for (const [code, status] of CELL_STATUSES.entries()) {
@@ -73,6 +73,33 @@ test("the map draws the demo's cells in their status colours, with labels, from 
     checked.push(status);
   }
   expect(checked.length).toBeGreaterThan(0);
+});
+
+test("each zone is outlined and named in its own colour, and the legend lists the zones with their colours", async ({ page, signIn, baseURL }) => {
+  const context = await playwrightRequest.newContext({ baseURL });
+  await signInRequest(context, baseURL!, DEMO_ACCOUNTS.manager);
+  const { settings } = (await (await context.get(`/api/projects/${projectId}`)).json()) as { settings: { zones: Array<{ name: string; colour: string }> } };
+  await context.dispose();
+  expect(settings.zones.length).toBeGreaterThan(1);
+  // The demo's zones got the palette's first colours, one each, in their order (shared/zone-colours.ts).
+  expect(new Set(settings.zones.map((zone) => zone.colour)).size).toBe(settings.zones.length);
+  await signIn("viewer");
+  for (const viewport of [{ width: 1440, height: 900 }, { width: 390, height: 844 }]) {
+    await page.setViewportSize(viewport);
+    await openMap(page);
+    await mapSettled(page);
+    const drawn = await page.evaluate(() => (window as unknown as { firmsandMap: { queryRenderedFeatures(o: object): Array<{ properties: { name: string; colour: string } }> } })
+      .firmsandMap.queryRenderedFeatures({ layers: ["zones-outline"] }).map((feature) => [feature.properties.name, feature.properties.colour]));
+    for (const zone of settings.zones) expect(drawn, zone.name).toContainEqual([zone.name, zone.colour]);
+    const legend = page.getByRole("figure", { name: "Legend" });
+    if (viewport.width < 1024) await legend.getByText("Legend", { exact: true }).click(); // folded on a narrow screen
+    const zones = legend.getByRole("region", { name: "Zones" });
+    for (const zone of settings.zones) await expect(zones.getByRole("listitem").filter({ hasText: zone.name })).toHaveCount(1);
+    const swatches = await zones.locator("li > span").evaluateAll((spans) => spans.map((span) => getComputedStyle(span).borderTopColor));
+    expect(swatches).toEqual(settings.zones.map((zone) => `rgb(${hexToRgb(zone.colour).join(", ")})`));
+    await zones.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: test.info().outputPath(`map-zone-colours-${viewport.width}.png`) });
+  }
 });
 
 /** Page coordinates of a lon/lat on the map. */

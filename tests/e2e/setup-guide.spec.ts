@@ -4,9 +4,10 @@ import { SURVEYS, ZONES } from "../../sample-data/scenario";
 import { expect, test, uniqueEmail } from "./fixtures";
 
 // "Set up this project": the site admin creates a project from nothing with the demo spring's work
-// limit and walks the steps to done — identity, zones (one drawn by clicks on the map), working
-// hours and emergency information, a dive team, an invitation and the baseline survey — each step
-// turning done from the project's own data; the overview's reminder goes once every step is done.
+// limit and walks the steps to done — identity, zones (two drawn by clicks on the map, one given a
+// colour of its own), working hours and emergency information, a dive team, an invitation and the
+// baseline survey — each step turning done from the project's own data; the overview's reminder
+// goes once every step is done.
 
 const DEMO = join(import.meta.dirname, "..", "..", "sample-data", "demo");
 const PROJECT_NAME = `Zz setup steps ${Date.now().toString(36)}`;
@@ -26,7 +27,7 @@ function pixelsOf(page: Page, points: Array<[number, number]>) {
   }, points);
 }
 
-test("a new project walks its setup steps to done; a zone drawn by clicks on the map is saved and shown", async ({ page, signIn }) => {
+test("a new project walks its setup steps to done; two zones drawn by clicks on the map are saved and shown in their colours", async ({ page, signIn }) => {
   test.setTimeout(240_000);
   await signIn("admin");
   const form = page.getByRole("region", { name: "New project" });
@@ -107,10 +108,41 @@ test("a new project walks its setup steps to done; a zone drawn by clicks on the
   await expect(zones.getByLabel("Name of zone 1")).toHaveValue("Vent basin centre");
   // On the map too: the zones' source holds the saved outline.
   await expect.poll(() => page.evaluate(() => (window as unknown as { firmsandZoneMap: { querySourceFeatures: (source: string) => unknown[] } }).firmsandZoneMap.querySourceFeatures("zones").length)).toBeGreaterThan(0);
-  await map.scrollIntoViewIfNeeded();
-  await page.screenshot({ path: test.info().outputPath("zone-saved-1440.png") });
+  // A second zone, west of the first in the vent basin (about 10 m inside its edge, computed with
+  // turf), given a colour of the manager's choosing from the palette.
+  await zones.getByRole("button", { name: "Draw a zone" }).click();
+  const westSquare: Array<[number, number]> = [[lon - 0.00028, lat - 0.00001], [lon - 0.00018, lat - 0.00001], [lon - 0.00018, lat + 0.00007], [lon - 0.00028, lat + 0.00007]];
+  const westBox = (await map.boundingBox())!;
+  for (const corner of await pixelsOf(page, westSquare)) await page.mouse.click(westBox.x + corner.x, westBox.y + corner.y);
+  await expect(map).toHaveAttribute("data-vertices", "4");
+  await page.keyboard.press("Enter");
+  await newZone.getByLabel("Name of the new zone").fill("West basin");
+  // The next free colour is offered first; the manager picks another.
+  await expect(newZone.getByLabel("Colour")).toHaveValue("#aa6600");
+  await newZone.getByLabel("Colour").selectOption({ label: "Orchid" });
+  await newZone.getByRole("button", { name: "Save zone" }).click();
+  await expect(zones.getByRole("status")).toHaveText("Saved.");
+  await expect(zones.getByLabel("Name of zone 2")).toHaveValue("West basin");
+  await expect(zones.getByLabel("Colour of zone 2")).toHaveValue("#9955aa");
+  // And the first zone's colour changed from its default.
+  await expect(zones.getByLabel("Colour of zone 1")).toHaveValue("#0d5c66");
+  await zones.getByLabel("Colour of zone 1").selectOption({ label: "Slate" });
+  await zones.getByRole("button", { name: "Set colour of zone Vent basin centre" }).click();
+  await expect(zones.getByRole("status")).toHaveText("Zone colour saved.");
+  await expect(zones.getByLabel("Colour of zone 1")).toHaveValue("#333366");
+  await expect.poll(() => page.evaluate(() => (window as unknown as { firmsandZoneMap: { querySourceFeatures: (source: string) => Array<{ properties: { name: string; colour: string } }> } })
+    // (a feature crossing tiles comes back once per tile)
+    .firmsandZoneMap.querySourceFeatures("zones").map((feature) => `${feature.properties.name} ${feature.properties.colour}`)).then((found) => [...new Set(found)].sort())).toEqual(["Vent basin centre #333366", "West basin #9955aa"]);
+  for (const [width, height] of [[1440, 900], [390, 844]]) {
+    await page.setViewportSize({ width, height });
+    await map.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: test.info().outputPath(`zone-saved-${width}.png`) });
+    await zones.getByRole("list", { name: "Zones" }).scrollIntoViewIfNeeded();
+    await page.screenshot({ path: test.info().outputPath(`zone-list-${width}.png`) });
+  }
+  await page.setViewportSize({ width: 1440, height: 900 });
   await backToSetup(page);
-  await expect(step.getByTestId("step-state")).toHaveText("1 zone drawn or uploaded.");
+  await expect(step.getByTestId("step-state")).toHaveText("2 zones drawn or uploaded.");
   await countSays(page, 5);
 
   // 6. Working hours and emergency information.
@@ -170,4 +202,11 @@ test("a new project walks its setup steps to done; a zone drawn by clicks on the
   await page.goto(`/projects/${projectId}`);
   await expect(page.getByRole("heading", { name: PROJECT_NAME })).toBeVisible();
   await expect(page.getByTestId("setup-reminder")).toHaveCount(0);
+
+  // The audit log says a settings change as what differs (the colour chosen above), not as two whole objects.
+  await page.goto(`/projects/${projectId}/audit`);
+  const entries = page.getByRole("region", { name: "Audit entries" });
+  await expect(entries).toContainText("zoneColours › Vent basin centre: Teal → Slate");
+  await expect(entries).not.toContainText("[object Object]");
+  await page.screenshot({ path: test.info().outputPath("audit-1440.png"), fullPage: true });
 });

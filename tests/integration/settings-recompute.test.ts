@@ -8,7 +8,7 @@ import { demoProjectInput } from "../../db/seeders/demo-scenario";
 import { createApiToken } from "~/lib/auth/api-token.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { CellResult, ProjectSettingsVersion, Project, RecomputeJob, SurveySnapshot, getSequelize } from "~/lib/db.server";
-import { RECOMPUTE_CUT_OFF_MESSAGE } from "~/lib/engine/recompute-jobs.server";
+import { RECOMPUTE_GIVEN_UP_MESSAGE, RECOMPUTE_MAX_ATTEMPTS } from "~/lib/engine/recompute-jobs.server";
 import { createProject, listSettingsVersions, newProjectSchema } from "~/models/project-setup.server";
 import { loadQuantities } from "~/models/quantities.server";
 import * as projectApi from "~/routes/api.projects.$projectId";
@@ -157,12 +157,12 @@ describe("the recompute's address and starting one again", () => {
     expect((await startAgain(viewerToken)).status).toBe(403);
   });
 
-  it("a job silent past the cut-off is said to have stopped; starting again recomputes and finds nothing changed", async () => {
+  it("a job the server stopped too often is given up, saying so; starting again recomputes and finds nothing changed", async () => {
     const version = (await ProjectSettingsVersion.findOne({ where: { projectId }, order: [["version", "DESC"]] }))!;
-    const stuck = await RecomputeJob.create({ projectId, userId: null, settingsVersionId: version.id, state: "running", stage: "computing", fraction: 0.4 });
+    const stuck = await RecomputeJob.create({ projectId, userId: null, settingsVersionId: version.id, state: "running", stage: "computing", fraction: 0.4, attempts: RECOMPUTE_MAX_ATTEMPTS });
     await getSequelize().query("UPDATE recompute_jobs SET updatedAt = NOW() - INTERVAL 5 MINUTE WHERE id = ?", { replacements: [stuck.id] });
     const seen = (await (await getRecompute(managerToken, projectId, stuck.id)).json()) as RecomputeJobView;
-    expect([seen.state, seen.error]).toEqual(["failed", RECOMPUTE_CUT_OFF_MESSAGE]);
+    expect([seen.state, seen.error]).toEqual(["failed", RECOMPUTE_GIVEN_UP_MESSAGE]);
 
     const response = await startAgain(managerToken);
     expect(response.status).toBe(202);

@@ -3,7 +3,8 @@ import { closeSequelize } from "../../db/connection.server";
 import { WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { draftPolygon, type LonLat } from "~/components/map/zone-draft";
 import { createApiToken } from "~/lib/auth/api-token.server";
-import { AuditEvent, Zone } from "~/lib/db.server";
+import { AuditEvent, ProjectSettingsVersion, Zone } from "~/lib/db.server";
+import { ZONE_COLOUR_VALUES, zoneColourName } from "../../shared/zone-colours";
 import { createProject } from "~/models/project-setup.server";
 import { loadSetupProgress } from "~/models/setup-guide.server";
 import { findProject, presentProject } from "~/lib/auth/project-view.server";
@@ -162,5 +163,73 @@ describe("a zone drawn on the settings page's map", () => {
     expect([after.name, after.sortOrder]).toEqual([zone.name, zone.sortOrder]);
     // computed: the stored outline is the new corners, closed once
     expect(JSON.parse(after.polygonGeoJson).coordinates[0]).toEqual([...outline, outline[0]]);
+  });
+});
+
+describe("a zone's colour", () => {
+  const patchZones = async (zones: unknown[]) => projectApi.action({
+    request: new Request(`${ORIGIN}/api/projects/${projectId}`, {
+      method: "PATCH",
+      headers: { Authorization: `Bearer ${managerToken}`, "Content-Type": "application/json" },
+      body: JSON.stringify({ zones }),
+    }),
+    params: { projectId: String(projectId) }, context: {},
+  } as never) as Promise<Response>;
+  const stored = async () => (await Zone.findAll({ where: { projectId }, order: [["sortOrder", "ASC"]] })).map((zone) => ({ id: zone.id, name: zone.name, colour: zone.colour, geometry: JSON.parse(zone.polygonGeoJson) }));
+
+  it("new zones get the palette's colours in order, each the first no other zone has (shared/zone-colours.ts)", async () => {
+    const zones = await stored();
+    // The zones drawn above, each given the first free colour when it was made.
+    expect(new Set(zones.map((zone) => zone.colour)).size).toBe(zones.length);
+    for (const zone of zones) expect(ZONE_COLOUR_VALUES).toContain(zone.colour);
+    const response = await patchZones([...zones.map(({ colour: _colour, ...zone }) => zone), { name: "Added by the API", geometry: draftPolygon(upperRun) }]);
+    expect(response.status).toBeLessThan(300);
+    const after = await stored();
+    // A kept zone sent without a colour keeps its own; the new one gets the first colour in palette order not taken.
+    expect(after.slice(0, zones.length).map((zone) => zone.colour)).toEqual(zones.map((zone) => zone.colour));
+    expect(after.at(-1)!.colour).toBe(ZONE_COLOUR_VALUES.find((colour) => !zones.some((zone) => zone.colour === colour)));
+  });
+
+  it("is changed on the settings page: saved, audited with before and after, no new settings version", async () => {
+    const [zone] = await stored();
+    const versionsBefore = await ProjectSettingsVersion.count({ where: { projectId } });
+    const chosen = ZONE_COLOUR_VALUES.find((colour) => colour !== zone.colour)!;
+    const saved = await post({ intent: "zone-colour", zoneId: String(zone.id), colour: chosen });
+    expect(saved.data.errors).toEqual({});
+    expect(saved.data.notice).toBe("Zone colour saved.");
+    expect((await Zone.findByPk(zone.id))!.colour).toBe(chosen);
+    const audit = await AuditEvent.findOne({ where: { projectId, action: "project-settings-changed" }, order: [["id", "DESC"]] });
+    const detail = audit!.detail as { before: { zoneColours: Record<string, string> }; after: { zoneColours: Record<string, string> } };
+    expect([detail.before.zoneColours[zone.name], detail.after.zoneColours[zone.name]]).toEqual([zoneColourName(zone.colour), zoneColourName(chosen)]);
+    // A colour moves no figure: no settings version is kept for it.
+    expect(await ProjectSettingsVersion.count({ where: { projectId } })).toBe(versionsBefore);
+  });
+
+  it("must be one of the palette's: refused on the page and by the API naming the zone's field; nothing stored", async () => {
+    const [zone] = await stored();
+    const refused = await post({ intent: "zone-colour", zoneId: String(zone.id), colour: "#ff0000" });
+    expect(refused.init?.status).toBe(400);
+    expect(refused.data.errors.colour).toMatch(/must be one of the palette's: #0d5c66 \(Teal\)/);
+    const response = await patchZones((await stored()).map((each, index) => (index === 1 ? { ...each, colour: "red" } : each)));
+    expect(response.status).toBe(422);
+    const body = (await response.json()) as { errors: Array<{ field: string; message: string }> };
+    expect(body.errors.map((error) => error.field)).toEqual(["zones.1.colour"]);
+    expect((await Zone.findByPk(zone.id))!.colour).toBe(zone.colour);
+  });
+
+  it("is drawn by the map: each zone feature carries its colour, the outline and the name are painted with it", async () => {
+    const { buildMapStyle } = await import("~/models/map-style.server");
+    const style = await buildMapStyle(presentProject((await findProject(projectId))!)) as unknown as {
+      sources: { zones: { data: { features: Array<{ properties: { name: string; colour: string } }> } } };
+      layers: Array<{ id: string; paint?: Record<string, unknown> }>;
+    };
+    const zones = await stored();
+    expect(style.sources.zones.data.features.map((feature) => [feature.properties.name, feature.properties.colour])).toEqual(zones.map((zone) => [zone.name, zone.colour]));
+    expect(style.layers.find((layer) => layer.id === "zones-outline")!.paint!["line-color"]).toEqual(["get", "colour"]);
+    expect(style.layers.find((layer) => layer.id === "zone-labels")!.paint!["text-color"]).toEqual(["get", "colour"]);
+    // The white casing lies under the outline, and the outline over the work limit's red line (both show where they run together).
+    const ids = style.layers.map((layer) => layer.id);
+    expect(ids.indexOf("zones-casing")).toBeLessThan(ids.indexOf("work-limit-outline"));
+    expect(ids.indexOf("work-limit-outline")).toBeLessThan(ids.indexOf("zones-outline"));
   });
 });

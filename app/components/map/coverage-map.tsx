@@ -13,7 +13,7 @@ export type { LayerKey };
 export const LAYER_GROUPS: Record<LayerKey, string[]> = {
   cells: ["cells-fill", "cells-grid", "cells-held-fill", "cells-held", "cells-assigned-fill", "cells-assigned", "cells-selected"],
   bands: ["bands-fill"],
-  zones: ["zones-outline"],
+  zones: ["zones-casing", "zones-outline"],
   workLimit: ["work-limit-outline", "work-limit-water"],
   shoreline: ["shoreline-water", "shoreline-edge"],
   labels: ["zone-labels", "cell-labels"],

@@ -30,7 +30,7 @@ export function MapLegend({ sections, wide }: { sections: LegendSection[]; wide:
                   <span
                     aria-hidden
                     className="inline-block h-4 w-6 shrink-0 rounded-sm border border-line"
-                    style={{ background: entry.colour, ...(entry.outline ? { border: `2px solid ${entry.outline}` } : {}) }}
+                    style={{ background: entry.colour, ...(entry.outline ? { border: `2px ${entry.dashed ? "dashed" : "solid"} ${entry.outline}` } : {}) }}
                   />
                   {entry.label}
                 </li>

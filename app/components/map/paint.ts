@@ -10,6 +10,8 @@ export interface LegendEntry {
   label: string;
   /** A CSS colour for an outlined mark's border. */
   outline?: string;
+  /** The border is dashed (a zone's outline). */
+  dashed?: boolean;
 }
 
 /** Remaining-thickness steps (project length unit): the tolerance, then steps a crew acts on (practice). */

@@ -14,19 +14,24 @@ import type { ProjectFigures } from "./project-figures";
  * compares them with the new ones (`compareFigures`), and keeps that summary on the job.
  *
  * The job follows the import job's pattern: a row with state, stage and 0–1 fraction written as
- * the work goes (at most four times a second), a heartbeat every RECOMPUTE_HEARTBEAT_MS while it
- * waits or runs, and a job silent for RECOMPUTE_CUT_OFF_MS is marked failed by whoever looks at it
- * next (the server stopped: the recompute is one transaction, so the stored figures are still the
- * earlier ones) and can be started again.
+ * the work goes (at most four times a second), and a heartbeat every RECOMPUTE_HEARTBEAT_MS while it
+ * waits or runs. A job is never lost to a server stop: the recompute is one transaction, so a stop
+ * leaves the earlier figures stored, and the job is taken up again (`takeUpRecomputeJobs`) by the
+ * server at its start (every waiting job) and by whoever finds it silent for RECOMPUTE_CUT_OFF_MS
+ * (the server's round every RECOMPUTE_ROUND_MS, and the readers of a job). A job taken up
+ * RECOMPUTE_MAX_ATTEMPTS times that still went silent is given up, failed, with the reason.
  */
 export const RECOMPUTE_HEARTBEAT_MS = 10_000;
 export const RECOMPUTE_CUT_OFF_MS = 60_000;
-export const RECOMPUTE_CUT_OFF_MESSAGE = "The server stopped before this recompute finished. Nothing of it was stored (a recompute is one transaction): the figures are still those computed before the change. Recompute again.";
+export const RECOMPUTE_ROUND_MS = 20_000;
+export const RECOMPUTE_MAX_ATTEMPTS = 3;
+export const RECOMPUTE_GIVEN_UP_MESSAGE = `The server stopped during this recompute ${RECOMPUTE_MAX_ATTEMPTS} times, so it is not started again by itself. Nothing of it was stored (a recompute is one transaction): the figures are still those computed before the change. Recompute again; if it stops once more, tell whoever runs the server.`;
+export const RECOMPUTE_RESUMED_STAGE = "waiting to start again";
 
 /** A job waiting for the project's lock, for the settings version that asked for it; started once the caller's transaction commits. */
 export async function queueRecompute(projectId: number, userId: number | null, settingsVersionId: number, transaction: Transaction): Promise<RecomputeJob> {
   const job = await RecomputeJob.create({ projectId, userId, settingsVersionId, state: "queued", stage: "waiting to start", fraction: 0 }, { transaction });
-  transaction.afterCommit(() => void runRecomputeJob(job.id));
+  transaction.afterCommit(() => void runRecomputeJob(job.id, projectId));
   return job;
 }
 
@@ -66,67 +71,140 @@ function sameGrid(before: ProjectSettingsVersion | null, after: ProjectSettingsV
 
 /**
  * Runs a queued job to its end (done or failed); resolves when it has. A job that is not queued
- * (already taken, or marked failed) is left alone. Routes do not wait for it; tests may.
+ * (already taken, here or by another server, or given up) is left alone. Jobs of one project run
+ * one at a time, in the order they were handed in (the project lock, entered before anything is
+ * awaited when the project is known). Routes do not wait for it; tests may.
  */
-export async function runRecomputeJob(jobId: number): Promise<void> {
-  const job = await RecomputeJob.findByPk(jobId);
-  if (!job || job.state !== "queued") return;
-  const stopHeartbeat = startHeartbeat(job.id);
+export async function runRecomputeJob(jobId: number, projectId?: number): Promise<void> {
+  if (projectId === undefined) {
+    const found = await RecomputeJob.findByPk(jobId, { attributes: ["id", "projectId"] });
+    if (found) await runRecomputeJob(found.id, found.projectId);
+    return;
+  }
+  // The heartbeat runs from now: a job waiting its turn in the lock's queue is alive, not silent.
+  const stopHeartbeat = startHeartbeat(jobId);
   let lastWrite = 0;
   const progress = (stage: string, fraction: number) => {
     const now = Date.now();
     if (now - lastWrite < 250) return; // at most four progress writes a second
     lastWrite = now;
-    void RecomputeJob.update({ stage: stage.slice(0, 60), fraction: Math.min(1, Math.max(0, fraction)) }, { where: { id: job.id, state: "running" } }).catch(() => undefined);
+    void RecomputeJob.update({ stage: stage.slice(0, 60), fraction: Math.min(1, Math.max(0, fraction)) }, { where: { id: jobId, state: "running" } }).catch(() => undefined);
   };
   try {
-    const summary = await withProjectLock(job.projectId, async () => {
-      // Taken under the lock, in one conditional UPDATE: a job marked failed meanwhile stays so.
-      const [claimed] = await RecomputeJob.update({ state: "running", stage: "reading the figures", fraction: 0 }, { where: { id: job.id, state: "queued" } });
+    const summary = await withProjectLock(projectId, async () => {
+      // Taken under the lock, in one conditional UPDATE: a job taken by another runner, or given up, stays so.
+      const [claimed] = await RecomputeJob.update(
+        { state: "running", stage: "reading the figures", fraction: 0, attempts: getSequelize().literal("attempts + 1") as unknown as number },
+        { where: { id: jobId, projectId, state: "queued" } },
+      );
       if (claimed !== 1) return null;
       return getSequelize().transaction(async (transaction) => {
-        await Project.findByPk(job.projectId, { transaction, lock: transaction.LOCK.UPDATE });
-        const before = await storedSide(job.projectId, transaction);
-        const outcome = await recomputeProjectStatistics(job.projectId, transaction, { onProgress: progress });
+        await Project.findByPk(projectId, { transaction, lock: transaction.LOCK.UPDATE });
+        const before = await storedSide(projectId, transaction);
+        const outcome = await recomputeProjectStatistics(projectId, transaction, { onProgress: progress });
         const [fromVersion, toVersion] = await Promise.all([
           before.settingsVersionId === null ? null : ProjectSettingsVersion.findByPk(before.settingsVersionId, { transaction }),
-          currentSettingsVersion(job.projectId, transaction),
+          currentSettingsVersion(projectId, transaction),
         ]);
         const change = compareFigures(before.side, computedSide(outcome.figures), sameGrid(fromVersion, toVersion));
         return { ...change, fromVersion: fromVersion?.version ?? null, toVersion: toVersion?.version ?? null };
       });
     });
     lastWrite = Number.POSITIVE_INFINITY; // no late progress write after the final state
-    if (summary) await RecomputeJob.update({ state: "done", stage: "done", fraction: 1, summary, finishedAt: new Date() }, { where: { id: job.id, state: "running" } });
+    if (summary) await RecomputeJob.update({ state: "done", stage: "done", fraction: 1, summary, finishedAt: new Date() }, { where: { id: jobId, state: "running" } });
   } catch (error) {
     lastWrite = Number.POSITIVE_INFINITY;
     await RecomputeJob.update(
       { state: "failed", stage: "failed", error: `Nothing was changed: the figures are still those computed before. ${(error as Error).message}`, finishedAt: new Date() },
-      { where: { id: job.id } },
+      { where: { id: jobId, state: "running" } },
     ).catch(() => undefined);
   } finally {
     stopHeartbeat();
   }
 }
 
-/** Marks the project's waiting or running jobs that stopped touching their row failed; returns how many. */
-async function markCutOffJobs(where: { projectId: number; id?: number }): Promise<number> {
-  const [changed] = await RecomputeJob.update(
-    { state: "failed", stage: "failed", error: RECOMPUTE_CUT_OFF_MESSAGE, finishedAt: new Date() },
-    { where: { ...where, state: { [Op.in]: ["queued", "running"] }, updatedAt: { [Op.lt]: new Date(Date.now() - RECOMPUTE_CUT_OFF_MS) } } },
-  );
-  return changed;
+export interface TakenUpJobs {
+  /** The jobs handed to this process to run, oldest first. */
+  jobIds: number[];
+  /** How many silent jobs were given up (taken up RECOMPUTE_MAX_ATTEMPTS times already). */
+  givenUp: number;
+  /** Settles when every job handed over has ended (for tests and scripts; the server does not wait). */
+  finished: Promise<void>;
 }
 
-/** One of the project's jobs (null when it has no such job), cut-off ones marked failed first. */
+/**
+ * Takes up the jobs a stopped server left (of one project, or of all): a running job whose heartbeat
+ * has been silent for RECOMPUTE_CUT_OFF_MS goes back to the queue (or is given up, failed, after
+ * RECOMPUTE_MAX_ATTEMPTS), and queued jobs are run here under the project lock, one at a time per
+ * project, oldest first. `waiting: "all"` (the server's start: nothing of this process waits yet)
+ * takes every queued job; "silent" only those whose heartbeat stopped (another live server may be
+ * running the rest). Two servers taking up the same job is harmless: the claim is conditional.
+ */
+export async function takeUpRecomputeJobs(options: { projectId?: number; jobId?: number; waiting: "all" | "silent" }): Promise<TakenUpJobs> {
+  const scope = { ...(options.projectId === undefined ? {} : { projectId: options.projectId }), ...(options.jobId === undefined ? {} : { id: options.jobId }) };
+  const silent = { [Op.lt]: new Date(Date.now() - RECOMPUTE_CUT_OFF_MS) };
+  const [givenUp] = await RecomputeJob.update(
+    { state: "failed", stage: "failed", error: RECOMPUTE_GIVEN_UP_MESSAGE, finishedAt: new Date() },
+    { where: { ...scope, state: "running", updatedAt: silent, attempts: { [Op.gte]: RECOMPUTE_MAX_ATTEMPTS } } },
+  );
+  // Back to the queue, one conditional UPDATE each (the heartbeat of a live runner would have kept updatedAt fresh).
+  const stopped = await RecomputeJob.findAll({ where: { ...scope, state: "running", updatedAt: silent }, attributes: ["id"] });
+  for (const job of stopped) {
+    await RecomputeJob.update({ state: "queued", stage: RECOMPUTE_RESUMED_STAGE, fraction: 0 }, { where: { id: job.id, state: "running", updatedAt: silent } });
+  }
+  const queued = await RecomputeJob.findAll({
+    where: {
+      ...scope, state: "queued",
+      ...(options.waiting === "silent" ? { [Op.or]: [{ id: { [Op.in]: stopped.map((job) => job.id) } }, { updatedAt: silent }] } : {}),
+    },
+    attributes: ["id", "projectId"], order: [["id", "ASC"]],
+  });
+  // Handed to the lock in id order, synchronously: a project's jobs run in the order they were asked for.
+  const runs = queued.map((job) => runRecomputeJob(job.id, job.projectId));
+  return { jobIds: queued.map((job) => job.id), givenUp, finished: Promise.all(runs).then(() => undefined) };
+}
+
+let round: NodeJS.Timeout | null = null;
+
+/**
+ * At the server's start, runs every waiting job; then, every RECOMPUTE_ROUND_MS, takes up the jobs
+ * whose heartbeat went silent (a server that stopped just before this one started: its jobs look
+ * alive until the cut-off). The timer is unref'd. Started by the production server.
+ */
+export function startRecomputeJobRounds(): void {
+  if (round) return;
+  let busy = false;
+  const takeUp = (waiting: "all" | "silent") => {
+    if (busy) return;
+    busy = true;
+    takeUpRecomputeJobs({ waiting })
+      .then(({ jobIds, givenUp }) => {
+        if (jobIds.length + givenUp > 0) process.stdout.write(`Firmsand: recomputes taken up (${jobIds.length} run again, ${givenUp} given up after ${RECOMPUTE_MAX_ATTEMPTS} attempts)\n`);
+      })
+      .catch((error: unknown) => process.stderr.write(`Firmsand: the waiting recomputes could not be read: ${(error as Error).message}\n`))
+      .finally(() => {
+        busy = false;
+      });
+  };
+  takeUp("all");
+  round = setInterval(() => takeUp("silent"), RECOMPUTE_ROUND_MS);
+  round.unref();
+}
+
+// The production server (app/serve.mjs) starts the background tasks the app registers on load,
+// once it listens; tests and scripts that import this module start nothing.
+const registry = globalThis as typeof globalThis & { firmsandBackgroundTasks?: Array<() => void> };
+(registry.firmsandBackgroundTasks ??= []).push(startRecomputeJobRounds);
+
+/** One of the project's jobs (null when it has no such job), a silent one taken up first. */
 export async function findRecomputeJob(projectId: number, jobId: number): Promise<RecomputeJob | null> {
-  await markCutOffJobs({ projectId, id: jobId });
+  await takeUpRecomputeJobs({ projectId, jobId, waiting: "silent" });
   return RecomputeJob.findOne({ where: { id: jobId, projectId } });
 }
 
-/** The project's latest job, if any (cut-off ones marked failed first). */
+/** The project's latest job, if any (silent ones taken up first). */
 export async function latestRecomputeJob(projectId: number): Promise<RecomputeJob | null> {
-  await markCutOffJobs({ projectId });
+  await takeUpRecomputeJobs({ projectId, waiting: "silent" });
   return RecomputeJob.findOne({ where: { projectId }, order: [["id", "DESC"]] });
 }
 
@@ -137,6 +215,8 @@ export interface RecomputeJobView {
   state: RecomputeJob["state"];
   stage: string;
   fraction: number;
+  /** How many times it was taken up to run: more than 1 once a server stop cut a run short. */
+  attempts: number;
   error: string | null;
   /** The settings version that asked for it. */
   settingsVersion: number | null;
@@ -156,6 +236,7 @@ export async function presentRecomputeJob(job: RecomputeJob, lengthUnit: LengthU
     state: job.state,
     stage: job.stage,
     fraction: job.fraction,
+    attempts: job.attempts,
     error: job.error ?? null,
     settingsVersion: version?.version ?? null,
     summary,
