@@ -10,7 +10,7 @@ function signed(percent: number | null): string {
 }
 
 export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconciliation: Reconciliation; dewateringHref: string }) {
-  const { project, zones } = reconciliation;
+  const { project, zones, unattributed } = reconciliation;
   const measure = (value: { value: number; label: string } | null, digits = 0) => (value ? `${formatFigure(value.value, digits)} ${value.label}` : "–");
   return (
     <section aria-labelledby="reconciliation" className="rounded border border-line bg-panel p-4">
@@ -35,21 +35,52 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
       </dl>
       <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon print:overflow-visible" tabIndex={0} role="region" aria-label="Reconciliation per zone, scrollable">
         <table className="w-full border-collapse text-sm" aria-label="Reconciliation per zone">
-          <thead><tr className="border-b border-line text-left"><th scope="col" className="py-1 pr-2">Zone</th><th scope="col" className="pr-2">Removed</th><th className="pr-2">Dry mass</th><th className="pr-2">Nitrogen</th><th className="pr-2">Phosphorus</th><th>Samples</th></tr></thead>
+          <thead>
+            <tr className="border-b border-line text-left">
+              <th scope="col" className="py-1 pr-2">Zone</th><th scope="col" className="pr-2">Removed</th><th scope="col" className="pr-2">Dry mass</th>
+              <th scope="col" className="pr-2">Pumped<span aria-hidden="true">*</span><span className="sr-only"> (attributed by the dive log)</span></th>
+              <th scope="col" className="pr-2">Hauled<span aria-hidden="true">*</span><span className="sr-only"> (attributed as pumped)</span></th>
+              <th scope="col" className="pr-2">Nitrogen</th><th scope="col" className="pr-2">Phosphorus</th><th scope="col">Samples</th>
+            </tr>
+          </thead>
           <tbody>
             {zones.map((zone) => (
               <tr key={zone.zoneId ?? "unzoned"} className="border-b border-line">
                 <td className="py-1 pr-2">{zone.name}</td>
                 <td className="figures pr-2 whitespace-nowrap">{measure(zone.surveyedRemoved)}</td>
                 <td className="figures pr-2 whitespace-nowrap">{measure(zone.dryMassFromSurveys, 1)}</td>
+                <td className="figures pr-2 whitespace-nowrap">{measure(zone.dryMassPumped, 1)} <span className="text-muted">({signed(zone.pumpedVersusSurveyedPercent)})</span></td>
+                <td className="figures pr-2 whitespace-nowrap">{measure(zone.dryMassHauled, 1)}</td>
                 <td className="figures pr-2 whitespace-nowrap">{measure(zone.nitrogenRemoved)}</td>
                 <td className="figures pr-2 whitespace-nowrap">{measure(zone.phosphorusRemoved)}</td>
                 <td className="text-muted">{zone.samplesFrom === "zone" ? `the zone's (${zone.sampleCount})` : zone.samplesFrom === "project" ? "project mean" : "none"}</td>
               </tr>
             ))}
+            <tr className="border-b border-line" data-testid="reconciliation-unattributed">
+              <td className="py-1 pr-2">Unattributed</td>
+              <td className="text-muted pr-2">–</td><td className="text-muted pr-2">–</td>
+              <td className="figures pr-2 whitespace-nowrap">{measure(unattributed.dryMassPumped, 1)}</td>
+              <td className="figures pr-2 whitespace-nowrap">{measure(unattributed.dryMassHauled, 1)}</td>
+              <td className="text-muted pr-2">–</td><td className="text-muted pr-2">–</td><td className="text-muted">not placed by the dive log</td>
+            </tr>
           </tbody>
+          <tfoot>
+            <tr className="font-semibold" data-testid="reconciliation-total">
+              <td className="py-1 pr-2">Project</td>
+              <td className="figures pr-2 whitespace-nowrap">{measure(project.surveyedRemoved)}</td>
+              <td className="figures pr-2 whitespace-nowrap">{measure(project.dryMassFromSurveys, 1)}</td>
+              <td className="figures pr-2 whitespace-nowrap">{measure(project.dryMassPumped, 1)}</td>
+              <td className="figures pr-2 whitespace-nowrap">{measure(project.dryMassHauled, 1)}</td>
+              <td className="figures pr-2 whitespace-nowrap">{measure(project.nitrogenRemoved)}</td>
+              <td className="figures pr-2 whitespace-nowrap">{measure(project.phosphorusRemoved)}</td>
+              <td />
+            </tr>
+          </tfoot>
         </table>
       </div>
+      <p className="mt-2 text-sm text-muted" data-testid="reconciliation-attribution">
+        * Attributed, not measured: shift logs and haul tickets name no zone. A shift&apos;s solids are shared by the dive time logged in its hours over the cells worked; hauled solids in the same shares. The rule in full is under Assumptions.
+      </p>
       <details className="mt-3 text-sm">
         <summary className="cursor-pointer text-lagoon-dark">Assumptions</summary>
         <ul className="mt-2 list-disc space-y-1 pl-5 text-muted">{reconciliation.assumptions.map((line) => <li key={line}>{line}</li>)}</ul>
