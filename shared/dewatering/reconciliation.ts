@@ -44,7 +44,7 @@ export interface ReconciledZone {
   /** The zone's attributed share of the pumped and hauled dry solids (see `attribution`). */
   dryMassPumped: Measure<BulkMassUnit>;
   dryMassHauled: Measure<BulkMassUnit>;
-  /** (attributed pumped − surveyed) ÷ surveyed × 100; null without a surveyed dry mass. */
+  /** (attributed pumped − surveyed) ÷ surveyed × 100; null without a surveyed dry mass, or while no zone has pumped solids attributed. */
   pumpedVersusSurveyedPercent: number | null;
 }
 
@@ -144,6 +144,7 @@ export function reconcileSolids(input: {
   let unattributedHauledKg = input.attribution ? input.attribution.unattributedHauledKg : input.hauledDryKg;
   for (const [zoneId, kg] of input.attribution?.pumpedKgByZone ?? []) if (!rowIds.has(zoneId)) unattributedPumpedKg += kg;
   for (const [zoneId, kg] of input.attribution?.hauledKgByZone ?? []) if (!rowIds.has(zoneId)) unattributedHauledKg += kg;
+  const anyAttributed = input.zones.some((zone) => (input.attribution?.pumpedKgByZone.get(zone.zoneId) ?? 0) > 0);
   const zones = input.zones.map((zone): ReconciledZone => {
     totalVolume += zone.removedVolume;
     const pumpedKg = input.attribution?.pumpedKgByZone.get(zone.zoneId) ?? 0;
@@ -159,7 +160,8 @@ export function reconcileSolids(input: {
     return {
       zoneId: zone.zoneId, name: zone.name, surveyedRemoved: volume(zone.removedVolume), samplesFrom: own ? "zone" : "project", sampleCount: used.count,
       dryMassFromSurveys: bulk(dryKg), nitrogenRemoved: mass(nitrogenKg), phosphorusRemoved: mass(phosphorusKg),
-      ...attributed, pumpedVersusSurveyedPercent: differencePercent(kilogramsTo(pumpedKg, units.bulkMass), kilogramsTo(dryKg, units.bulkMass)),
+      // Only once the dive log places some solids: with none placed, "−100 %" in every zone would say nothing.
+      ...attributed, pumpedVersusSurveyedPercent: anyAttributed ? differencePercent(kilogramsTo(pumpedKg, units.bulkMass), kilogramsTo(dryKg, units.bulkMass)) : null,
     };
   });
   const surveyedDryKg = projectMeans ? totalDryKg : null;

@@ -111,6 +111,8 @@ describe("the reconciliation's zone rows with the attribution", () => {
     const plain = reconcileSolids({ lengthUnit: "m", zones, samples, pumpedDryKg: 2000, hauledDryKg: 1000 });
     expect(plain.zones.every((zone) => zone.dryMassPumped.value === 0 && zone.dryMassHauled.value === 0)).toBe(true);
     expect(plain.unattributed.dryMassPumped.value).toBeCloseTo(2, 9);
+    // With nothing placed, no zone says "−100 %".
+    expect(plain.zones.map((zone) => zone.pumpedVersusSurveyedPercent)).toEqual([null, null]);
     expect(plain.assumptions).toContain(plain.attribution.rule);
   });
 });
