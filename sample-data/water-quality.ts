@@ -13,10 +13,18 @@ import { PROJECT } from "./scenario";
 
 export const DEMO_WATER_QUALITY_SEED = 20261103;
 
+/**
+ * Positions in the project CRS (US survey feet), whole feet, placed in the water with outline.ts's
+ * design (feet from the vent): BG-1 in the vent basin 60 ft north of the vent, at the head of the
+ * run; OF-1 at the return outfall, 8 ft inside the run's left bank 490 ft down the centre line;
+ * CP-1 on the centre line 150 ft further down-run. The demo has no shoreline of its own, so its
+ * water on the map is the work limit: water-quality.test.ts checks that each station lies inside
+ * it, clear of the bank.
+ */
 export const DEMO_STATIONS = [
-  { name: "BG-1 up-run", kind: "background", depth: "mid-depth", position: { x: 600_180, y: 1_680_120 } },
-  { name: "CP-1 plume, 150 ft down-run", kind: "compliance", depth: "mid-depth", position: { x: 600_760, y: 1_679_880 } },
-  { name: "OF-1 return outfall", kind: "outfall", depth: "surface", position: { x: 600_690, y: 1_679_990 } },
+  { name: "BG-1 up-run", kind: "background", depth: "mid-depth", position: { x: 600_191, y: 1_680_027 } },
+  { name: "CP-1 plume, 150 ft down-run", kind: "compliance", depth: "mid-depth", position: { x: 600_825, y: 1_679_821 } },
+  { name: "OF-1 return outfall", kind: "outfall", depth: "surface", position: { x: 600_674, y: 1_679_850 } },
 ] as const;
 
 export const DEMO_RULE = {
@@ -101,7 +109,7 @@ export function buildDemoWaterQuality(seed = DEMO_WATER_QUALITY_SEED) {
  * gives the same sightings.
  */
 export const RECENT_SIGHTINGS = [
-  { minutesBefore: 150, species: "sea turtle", distance: 180, position: { x: 600_520, y: 1_679_930 }, observer: "Tobias Fennimore", note: "Surfaced twice mid-run, heading down-run." },
+  { minutesBefore: 150, species: "sea turtle", distance: 180, position: { x: 600_523, y: 1_679_892 }, observer: "Tobias Fennimore", note: "Surfaced twice mid-run, heading down-run." },
   { minutesBefore: 420, species: "manatee", distance: 240, position: { x: 600_840, y: 1_679_825 }, observer: "Marisol Quaye", note: "Single adult below the compliance station, resting." },
 ] as const;
 

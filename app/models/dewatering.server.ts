@@ -1,6 +1,7 @@
 import { Op, UniqueConstraintError } from "sequelize";
 import { z } from "zod";
 import type { ShiftSolids } from "../../shared/dewatering/charts";
+import type { ShiftForAttribution } from "../../shared/dewatering/zone-attribution";
 import { computeShiftFigures, shiftMeasurementsOf, type ShiftFigures } from "../../shared/dewatering/shift";
 import { FILLABLE_TUBE_STATUSES, fillLevel, isNearCapacity, MIN_NEAR_CAPACITY_SHARE, theoreticalDiameter } from "../../shared/dewatering/tubes";
 import { localDateIn } from "../../shared/progress/calendar-days";
@@ -384,6 +385,12 @@ export async function shiftSolids(project: ProjectView): Promise<ShiftSolids[]> 
 /** Records dated after `after` up to and including `through` (local dates), or all of them. */
 export type DateSpan = { after: string; through: string } | null;
 export const dateSpanWhere = (span: DateSpan) => (span ? { [Op.gt]: span.after, [Op.lte]: span.through } : { [Op.ne]: null });
+
+/** Each shift's date, hours and dry solids (kg), within a span of dates when given: what the zone attribution shares out. */
+export async function shiftsForAttribution(project: ProjectView, span: DateSpan = null): Promise<ShiftForAttribution[]> {
+  const rows = await DewateringShift.findAll({ attributes: ["shiftDate", "startAt", "endAt", "drySolidsKg"], where: { projectId: project.id, shiftDate: dateSpanWhere(span) }, raw: true });
+  return rows.map((row) => ({ date: row.shiftDate, start: row.startAt, end: row.endAt, drySolidsKg: row.drySolidsKg === null ? null : Number(row.drySolidsKg) }));
+}
 
 /** Dry solids pumped according to the shift logs, kg; within a span of dates when given. */
 export async function pumpedDrySolidsKg(project: ProjectView, span: DateSpan = null): Promise<number> {

@@ -2,7 +2,8 @@ import { Op } from "sequelize";
 import { parseCellLabel } from "../../shared/grid/cell-grid";
 import { z } from "zod";
 import { NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE } from "../../shared/no-decompression";
-import { Assignment, Dive, DiveCell, DiveTeam, distinctProjectDates, getSequelize } from "~/lib/db.server";
+import { Assignment, CellResult, Dive, DiveCell, DiveTeam, distinctProjectDates, getSequelize } from "~/lib/db.server";
+import type { DiveForAttribution } from "../../shared/dewatering/zone-attribution";
 import { NotFoundError, ValidationError } from "~/lib/errors";
 import { isAfterLocalDay, localDayOf } from "../../shared/local-time";
 import { noDecompressionInfo, workDateSchema, type NoDecompressionInfo } from "./assignments.server";
@@ -166,6 +167,33 @@ async function findDives(project: ProjectView, where: { id?: number; date?: stri
 /** Distinct dates on which the project's dives were logged (the days crews worked), YYYY-MM-DD. */
 export function loggedDiveDates(projectId: number): Promise<string[]> {
   return distinctProjectDates(Dive, "diveDate", projectId);
+}
+
+/**
+ * The dives of the given days with the zone of each cell they worked, as the grid's latest figures
+ * place it (a zone's id, null for no zone, undefined for a cell the figures do not hold): what the
+ * reconciliation attributes pumped solids by.
+ */
+export async function divesForAttribution(project: ProjectView, dates: ReadonlyArray<string>): Promise<DiveForAttribution[]> {
+  if (dates.length === 0) return [];
+  const dives = await Dive.findAll({
+    where: { projectId: project.id, diveDate: { [Op.in]: [...new Set(dates)] } },
+    attributes: ["id", "diveDate", "leftSurfaceAt", "leftBottomAt", "bottomMinutes"],
+    include: [{ model: DiveCell, as: "cells", attributes: ["id", "row", "col"] }],
+  });
+  const cells = dives.flatMap((dive) => dive.cells ?? []);
+  const placed = new Map<string, number | null>();
+  if (cells.length > 0) {
+    const results = await CellResult.findAll({
+      where: { projectId: project.id, [Op.or]: [...new Map(cells.map((cell) => [`${cell.row}:${cell.col}`, { row: cell.row, col: cell.col }])).values()] },
+      attributes: ["row", "col", "zoneId"], raw: true,
+    });
+    for (const result of results) placed.set(`${result.row}:${result.col}`, result.zoneId ?? null);
+  }
+  return dives.map((dive) => ({
+    date: dive.diveDate, leftSurface: dive.leftSurfaceAt, leftBottom: dive.leftBottomAt, bottomMinutes: Number(dive.bottomMinutes),
+    cellZones: (dive.cells ?? []).map((cell) => placed.get(`${cell.row}:${cell.col}`)),
+  }));
 }
 
 /** The day's dives, every team. */

@@ -1,12 +1,14 @@
 import { cubicMetresPerVolumeUnit, kilogramsTo, massUnitsFor, measureLabel, unitLabel, volumeUnitFor, type BulkMassUnit, type LengthUnit, type MassUnit, type VolumeUnit } from "../units";
 import { dryMassKg, nutrientMassKg } from "./nutrients";
+import { ZONE_ATTRIBUTION_RULE, type ZoneAttribution } from "./zone-attribution";
 
 /**
  * Surveyed, pumped and hauled solids side by side, and the nitrogen and phosphorus that left the
  * water body. The surveyed volume removed in place (the engine's figures, per zone) becomes a dry
  * mass through the dry bulk density the lab measured: a zone's own samples when it has any, else
  * the mean of all the project's samples. Pumped (shift logs) and hauled (tickets) solids are not
- * tied to zones, so they are compared for the project as a whole.
+ * tied to zones: their share per zone is attributed by zone-attribution.ts's rule, and what it
+ * cannot place is an "unattributed" row, so the zones' rows and that row add up to the project.
  */
 
 export interface RemovedByZone {
@@ -39,6 +41,11 @@ export interface ReconciledZone {
   dryMassFromSurveys: Measure<BulkMassUnit> | null;
   nitrogenRemoved: Measure<MassUnit> | null;
   phosphorusRemoved: Measure<MassUnit> | null;
+  /** The zone's attributed share of the pumped and hauled dry solids (see `attribution`). */
+  dryMassPumped: Measure<BulkMassUnit>;
+  dryMassHauled: Measure<BulkMassUnit>;
+  /** (attributed pumped − surveyed) ÷ surveyed × 100; null without a surveyed dry mass, or while no zone has pumped solids attributed. */
+  pumpedVersusSurveyedPercent: number | null;
 }
 
 /** A period between two surveys: records dated after `from` up to and including `to` count in it. */
@@ -51,6 +58,13 @@ export interface Reconciliation {
   /** Null: from the baseline to the latest survey, with every shift and ticket. */
   period: ReconciledPeriod | null;
   zones: ReconciledZone[];
+  /** Pumped and hauled solids the attribution could not place in a zone; with the zones' rows they add up to the project's. */
+  unattributed: {
+    dryMassPumped: Measure<BulkMassUnit>;
+    dryMassHauled: Measure<BulkMassUnit>;
+  };
+  /** How pumped and hauled solids were shared among the zones, in words. */
+  attribution: { rule: string };
   project: {
     surveyedRemoved: Measure<VolumeUnit>;
     dryMassFromSurveys: Measure<BulkMassUnit> | null;
@@ -106,6 +120,8 @@ export function reconcileSolids(input: {
   hauledDryKg: number;
   /** The period the zones' volumes and the pumped and hauled masses were taken over; none for the whole project. */
   period?: ReconciledPeriod | null;
+  /** The pumped and hauled solids shared among zones (zone-attribution.ts); none: all unattributed. */
+  attribution?: ZoneAttribution | null;
 }): Reconciliation {
   const period = input.period ?? null;
   const units = massUnitsFor(input.lengthUnit);
@@ -121,10 +137,20 @@ export function reconcileSolids(input: {
   let totalDryKg = 0;
   let totalNitrogenKg = 0;
   let totalPhosphorusKg = 0;
+  // Attributed kilograms per zone row; a zone the attribution names that has no row here (a zone
+  // drawn after the period, say) joins the unattributed, so the rows still add up.
+  const rowIds = new Set(input.zones.map((zone) => zone.zoneId));
+  let unattributedPumpedKg = input.attribution ? input.attribution.unattributedPumpedKg : input.pumpedDryKg;
+  let unattributedHauledKg = input.attribution ? input.attribution.unattributedHauledKg : input.hauledDryKg;
+  for (const [zoneId, kg] of input.attribution?.pumpedKgByZone ?? []) if (!rowIds.has(zoneId)) unattributedPumpedKg += kg;
+  for (const [zoneId, kg] of input.attribution?.hauledKgByZone ?? []) if (!rowIds.has(zoneId)) unattributedHauledKg += kg;
+  const anyAttributed = input.zones.some((zone) => (input.attribution?.pumpedKgByZone.get(zone.zoneId) ?? 0) > 0);
   const zones = input.zones.map((zone): ReconciledZone => {
     totalVolume += zone.removedVolume;
+    const pumpedKg = input.attribution?.pumpedKgByZone.get(zone.zoneId) ?? 0;
+    const attributed = { dryMassPumped: bulk(pumpedKg), dryMassHauled: bulk(input.attribution?.hauledKgByZone.get(zone.zoneId) ?? 0) };
     const { own, used } = samplesFor(zone.zoneId);
-    if (!used) return { zoneId: zone.zoneId, name: zone.name, surveyedRemoved: volume(zone.removedVolume), samplesFrom: "none", sampleCount: 0, dryMassFromSurveys: null, nitrogenRemoved: null, phosphorusRemoved: null };
+    if (!used) return { zoneId: zone.zoneId, name: zone.name, surveyedRemoved: volume(zone.removedVolume), samplesFrom: "none", sampleCount: 0, dryMassFromSurveys: null, nitrogenRemoved: null, phosphorusRemoved: null, ...attributed, pumpedVersusSurveyedPercent: null };
     const dryKg = dryMassKg(zone.removedVolume * m3PerUnit, used.density);
     const nitrogenKg = nutrientMassKg(dryKg, used.nitrogen);
     const phosphorusKg = nutrientMassKg(dryKg, used.phosphorus);
@@ -134,6 +160,8 @@ export function reconcileSolids(input: {
     return {
       zoneId: zone.zoneId, name: zone.name, surveyedRemoved: volume(zone.removedVolume), samplesFrom: own ? "zone" : "project", sampleCount: used.count,
       dryMassFromSurveys: bulk(dryKg), nitrogenRemoved: mass(nitrogenKg), phosphorusRemoved: mass(phosphorusKg),
+      // Only once the dive log places some solids: with none placed, "−100 %" in every zone would say nothing.
+      ...attributed, pumpedVersusSurveyedPercent: anyAttributed ? differencePercent(kilogramsTo(pumpedKg, units.bulkMass), kilogramsTo(dryKg, units.bulkMass)) : null,
     };
   });
   const surveyedDryKg = projectMeans ? totalDryKg : null;
@@ -141,6 +169,8 @@ export function reconcileSolids(input: {
   return {
     period,
     zones,
+    unattributed: { dryMassPumped: bulk(unattributedPumpedKg), dryMassHauled: bulk(unattributedHauledKg) },
+    attribution: { rule: ZONE_ATTRIBUTION_RULE },
     project: {
       surveyedRemoved: volume(totalVolume),
       dryMassFromSurveys: surveyedDryKg === null ? null : bulk(surveyedDryKg),
@@ -163,6 +193,7 @@ export function reconcileSolids(input: {
       "Pumped dry solids = slurry flow × slurry specific gravity × solids by weight × pump hours, from the shift logs (water at 1 g/cm³; the solids' specific gravity as logged).",
       "Hauled dry solids = each ticket's wet load × its cake solids (the project default when a ticket has none); a load measured in the truck body is weighed through a saturated cake of the project's solids specific gravity.",
       "Not yet hauled = pumped − hauled: solids still in the tubes or stockpiled.",
+      ZONE_ATTRIBUTION_RULE,
       "Differences are (pumped or hauled − surveyed) ÷ surveyed. Solids still in tubes, fines lost with the decant water and bulking in the trucks make them differ; a difference is a question to look into, not an error.",
     ],
   };

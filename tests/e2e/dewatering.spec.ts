@@ -121,6 +121,15 @@ test("the manager sees the reconciliation panel with the nutrients removed on th
   await expect(page.getByTestId("nutrients-removed")).toContainText(`${Math.round(figures.project.phosphorusRemoved.value).toLocaleString("en-US")} lb of phosphorus`);
   for (const zone of ["Vent basin", "Upper run", "Lower run"]) await expect(panel.getByRole("cell", { name: zone })).toBeVisible();
   await expect(panel.getByText("Pumped (shift logs)")).toBeVisible();
+  // Pumped and hauled by zone are attributed, with an Unattributed row; the rows add up to the Project row, which is the API's figure.
+  await expect(panel.getByTestId("reconciliation-attribution")).toContainText("Attributed, not measured");
+  await expect(panel.getByTestId("reconciliation-unattributed")).toContainText("Unattributed");
+  const oneDecimal = (value: number) => value.toLocaleString("en-US", { minimumFractionDigits: 0, maximumFractionDigits: 1 });
+  await expect(panel.getByRole("columnheader", { name: /^Pumped.*dry short tons$/ })).toBeVisible();
+  await expect(panel.getByTestId("reconciliation-total")).toContainText(oneDecimal(figures.project.dryMassPumped.value));
+  const rows = [...figures.zones, figures.unattributed] as Array<{ dryMassPumped: { value: number }; dryMassHauled: { value: number } }>;
+  expect(rows.reduce((sum, row) => sum + row.dryMassPumped.value, 0)).toBeCloseTo(figures.project.dryMassPumped.value, 6);
+  expect(rows.reduce((sum, row) => sum + row.dryMassHauled.value, 0)).toBeCloseTo(figures.project.dryMassHauled.value, 6);
 });
 
 test("a viewer reads the dewatering records and cannot write them", async ({ page, signIn }) => {

@@ -75,6 +75,26 @@ async function readingsWith(note: string, day: string) {
   const body = (await (await api.get(`/api/projects/${projectId}/water-quality/readings?from=${day}&to=${day}`)).json()) as { readings: Array<{ id: number; note: string; takenAt: string }> };
   return body.readings.filter((reading) => reading.note === note);
 }
+/** A reading at the outfall with a photo of the sample, taken now by the browser's clock and zone; answers the time field's value. */
+async function enterReadingWithPhoto(page: Page, note: string): Promise<string> {
+  const takenAt = localValue(new Date(), await page.evaluate(() => Intl.DateTimeFormat().resolvedOptions().timeZone));
+  await page.getByRole("button", { name: "Turbidity reading", exact: true }).click();
+  await page.getByLabel("Station", { exact: true }).selectOption({ label: "OF-1 return outfall (outfall)" });
+  await page.getByLabel(/Sample taken/).fill(takenAt);
+  await page.getByLabel("Turbidity", { exact: true }).fill("4.2");
+  await page.getByLabel("Note", { exact: true }).fill(note);
+  const photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#7a8f96" } }).jpeg().toBuffer();
+  await page.getByLabel("Add a photo").setInputFiles({ name: "sample-bottle.jpg", mimeType: "image/jpeg", buffer: photo });
+  await expect(page.getByRole("button", { name: "Remove sample-bottle.jpg" })).toBeVisible();
+  await page.getByRole("button", { name: "Save to the queue" }).click();
+  return takenAt;
+}
+/** The readings with this note, looked for from the day before the typed date to the day after (the project's days may differ from the browser's). */
+async function readingsWithPhotos(note: string, day: string) {
+  const shift = (days: number) => new Date(Date.parse(`${day}T12:00:00Z`) + days * 86_400_000).toISOString().slice(0, 10);
+  const body = (await (await api.get(`/api/projects/${projectId}/water-quality/readings?from=${shift(-1)}&to=${shift(1)}`)).json()) as { readings: Array<{ id: number; note: string; photos: Array<{ id: number }> }> };
+  return body.readings.filter((reading) => reading.note === note);
+}
 async function findsWith(description: string) {
   const body = (await (await api.get(`/api/projects/${projectId}/finds`)).json()) as { finds: Array<{ id: number; description: string }> };
   return body.finds.filter((find) => find.description === description);
@@ -397,6 +417,36 @@ test.describe("dewatering and custody offline, with the service worker", () => {
 test.describe("dewatering and finds, sending", () => {
   test.use({ serviceWorkers: "block" });
 
+  test("a lost answer to a reading's photo: the retry stores neither the reading nor the photo twice", async ({ page, context }) => {
+    await openFieldPage(page);
+    const note = marker("reading-photo-lost");
+    let photoPosts = 0;
+    await page.route(`**/api/projects/${projectId}/water-quality/readings/*/photos`, async (route) => {
+      if (route.request().method() !== "POST") return route.continue();
+      photoPosts += 1;
+      if (photoPosts === 1) {
+        // The photo reaches the server and is stored; its answer never comes back.
+        const answer = await route.fetch();
+        expect(answer.status()).toBe(201);
+        return route.abort("connectionreset");
+      }
+      return route.continue();
+    });
+    await context.setOffline(true);
+    const takenAt = await enterReadingWithPhoto(page, note);
+    await context.setOffline(false);
+    const entry = page.getByRole("list", { name: "Entries in the queue, in sending order" }).getByRole("listitem").first();
+    await expect(entry).toContainText(/Stored as #\d+; photos waiting/, { timeout: 15_000 });
+    expect((await readingsWithPhotos(note, takenAt.slice(0, 10)))[0].photos).toHaveLength(1);
+
+    await page.getByRole("button", { name: "Send now" }).click();
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; last sent/ })).toBeVisible({ timeout: 15_000 });
+    expect(photoPosts).toBe(2);
+    const readings = await readingsWithPhotos(note, takenAt.slice(0, 10));
+    expect(readings).toHaveLength(1);
+    expect(readings[0].photos).toHaveLength(1);
+  });
+
   test("a lost answer to a haul ticket's photo: the retry stores neither the ticket nor the photo twice", async ({ page, context }) => {
     await openFieldPage(page);
     const ticket = marker("T");
@@ -451,6 +501,20 @@ test.describe("dewatering and finds, sending", () => {
     expect(tests).toHaveLength(1);
     expect(tests[0].jars).toHaveLength(2);
     expect(tests[0].photos).toHaveLength(1);
+  });
+
+  test("a reading with its photo made offline is stored once, the photo to the reading's id", async ({ page, context }) => {
+    await openFieldPage(page);
+    const note = marker("offline-reading-photo");
+    await context.setOffline(true);
+    const takenAt = await enterReadingWithPhoto(page, note);
+    await expect(page.getByRole("heading", { name: /^1 waiting to send/ })).toBeVisible();
+    await expect(page.getByRole("list", { name: "Entries in the queue, in sending order" }).getByRole("listitem").first()).toContainText("1 photo");
+    await context.setOffline(false);
+    await expect(page.getByRole("heading", { name: /^0 waiting to send; last sent/ })).toBeVisible({ timeout: 15_000 });
+    const readings = await readingsWithPhotos(note, takenAt.slice(0, 10));
+    expect(readings).toHaveLength(1);
+    expect(readings[0].photos).toHaveLength(1);
   });
 
   test("a find's status changed offline while the find changed on the server: side by side, the user keeps the server's", async ({ page, context, baseURL }) => {

@@ -2,7 +2,7 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { PROJECT, SURVEYS } from "../../sample-data/scenario";
-import { AuditEvent, CellResult, DewateringShift, GeotextileTube, Haul, HaulSite, SedimentSample, TubeFill, type Role } from "~/lib/db.server";
+import { AuditEvent, CellResult, DewateringShift, Dive, DiveCell, DiveTeam, GeotextileTube, Haul, HaulSite, SedimentSample, TubeFill, type Role } from "~/lib/db.server";
 import { presentProject } from "~/lib/auth/project-view.server";
 import { action as shiftsAction, loader as shiftsLoader } from "~/routes/api.projects.$projectId.dewatering.shifts";
 import { action as tubesAction, loader as tubesLoader } from "~/routes/api.projects.$projectId.dewatering.tubes";
@@ -328,5 +328,35 @@ describe("sediment samples and the reconciliation", () => {
     const bad = await call(reconciliationLoader as never, "viewer", `${base()}/reconciliation?month=2026-13`);
     expect(bad.status).toBe(422);
     expect((await errorsOf(bad))[0].field).toBe("month");
+  });
+
+  it("attributes pumped and hauled solids to zones by the dives in the shifts' hours, with the rest unattributed, rows adding up to the project", async () => {
+    // A shift on a day of its own (no other test logs one on 2026-10-21), and one dive in its hours over a cell of each of two zones.
+    const logged = await postJson(shiftsAction as never, "dewatering", `${base()}/dewatering/shifts`, { ...SHIFT, date: "2026-10-21", polymer: undefined });
+    expect(logged.status).toBe(201);
+    const shiftTons = (await logged.json()).computed.drySolids.value as number;
+    const zoned = await CellResult.findAll({ where: { projectId: site.project.id }, attributes: ["row", "col", "label", "zoneId"], order: [["row", "ASC"], ["col", "ASC"]], raw: true });
+    const [first, second] = [...new Map(zoned.filter((cell) => cell.zoneId !== null).map((cell) => [cell.zoneId, cell])).values()];
+    expect(second).toBeDefined();
+    const team = await DiveTeam.create({ projectId: site.project.id, name: "Attribution team", hoses: ["Hose A"], members: [] });
+    const dive = await Dive.create({ projectId: site.project.id, diveDate: "2026-10-21", teamId: team.id, diverName: "Test diver", leftSurfaceAt: "08:00", leftBottomAt: "10:00", bottomMinutes: 120, maxDepth: 8, notes: "", recordedById: null });
+    for (const cell of [first, second]) await DiveCell.create({ diveId: dive.id, projectId: site.project.id, row: cell.row, col: cell.col, label: cell.label });
+
+    const body = await (await call(reconciliationLoader as never, "viewer", `${base()}/reconciliation`)).json();
+    type Row = { zoneId: number | null; dryMassPumped: { value: number }; dryMassHauled: { value: number } };
+    const rowOf = (zoneId: number | null) => body.zones.find((zone: Row) => zone.zoneId === zoneId) as Row;
+    // computed: the dive's 120 min split evenly over its two cells, so each zone has half the shift's dry solids
+    expect(rowOf(first.zoneId).dryMassPumped.value).toBeCloseTo(shiftTons / 2, 9);
+    expect(rowOf(second.zoneId).dryMassPumped.value).toBeCloseTo(shiftTons / 2, 9);
+    // every other shift had no dive in its hours
+    expect(body.unattributed.dryMassPumped.value).toBeCloseTo(body.project.dryMassPumped.value - shiftTons, 6);
+    // hauled in the pumped proportions: 6.6 × (half the shift ÷ all pumped)
+    expect(rowOf(first.zoneId).dryMassHauled.value).toBeCloseTo((6.6 * shiftTons) / 2 / body.project.dryMassPumped.value, 9);
+    // the rows add up to the project (invariant)
+    const total = (pick: (row: Row) => number) => body.zones.reduce((sum: number, row: Row) => sum + pick(row), 0);
+    expect(total((row) => row.dryMassPumped.value) + body.unattributed.dryMassPumped.value).toBeCloseTo(body.project.dryMassPumped.value, 6);
+    expect(total((row) => row.dryMassHauled.value) + body.unattributed.dryMassHauled.value).toBeCloseTo(body.project.dryMassHauled.value, 6);
+    expect(body.attribution.rule).toContain("attributed, not measured");
+    expect(body.assumptions).toContain(body.attribution.rule);
   });
 });

@@ -10,8 +10,12 @@ function signed(percent: number | null): string {
 }
 
 export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconciliation: Reconciliation; dewateringHref: string }) {
-  const { project, zones } = reconciliation;
+  const { project, zones, unattributed } = reconciliation;
   const measure = (value: { value: number; label: string } | null, digits = 0) => (value ? `${formatFigure(value.value, digits)} ${value.label}` : "–");
+  // In the table the unit is said once, in the column's heading.
+  const figure = (value: { value: number } | null, digits = 0) => (value ? formatFigure(value.value, digits) : "–");
+  const bulkLabel = project.dryMassPumped.label;
+  const massLabel = project.nitrogenRemoved?.label ?? (project.dryMassPumped.unit === "t" ? "kg" : "lb");
   return (
     <section aria-labelledby="reconciliation" className="rounded border border-line bg-panel p-4">
       <h2 id="reconciliation" className="font-semibold">Solids and nutrients removed</h2>
@@ -33,23 +37,61 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
         <div className="border-t border-line py-2"><dt className="text-muted">Pumped (shift logs)</dt><dd className="figures">{measure(project.dryMassPumped)} <span className="text-muted">({signed(project.pumpedVersusSurveyedPercent)} vs surveyed)</span></dd></div>
         <div className="border-t border-line py-2"><dt className="text-muted">Hauled (tickets)</dt><dd className="figures">{measure(project.dryMassHauled)} <span className="text-muted">({signed(project.hauledVersusSurveyedPercent)} vs surveyed; {measure(project.dryMassNotYetHauled)} pumped and not yet hauled)</span></dd></div>
       </dl>
-      <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon print:overflow-visible" tabIndex={0} role="region" aria-label="Reconciliation per zone, scrollable">
+      <div className="relative mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon print:overflow-visible" tabIndex={0} role="region" aria-label="Reconciliation per zone, scrollable">
         <table className="w-full border-collapse text-sm" aria-label="Reconciliation per zone">
-          <thead><tr className="border-b border-line text-left"><th scope="col" className="py-1 pr-2">Zone</th><th scope="col" className="pr-2">Removed</th><th className="pr-2">Dry mass</th><th className="pr-2">Nitrogen</th><th className="pr-2">Phosphorus</th><th>Samples</th></tr></thead>
+          <thead>
+            <tr className="border-b border-line text-left align-bottom">
+              <th scope="col" className="py-1 pr-3">Zone</th>
+              <th scope="col" className="pr-3">Removed <span className="font-normal text-muted">{project.surveyedRemoved.label}</span></th>
+              <th scope="col" className="pr-3">Dry mass <span className="font-normal text-muted">{bulkLabel}</span></th>
+              <th scope="col" className="pr-3">Pumped<span aria-hidden="true">*</span><span className="sr-only"> (attributed by the dive log)</span> <span className="font-normal text-muted">{bulkLabel}</span></th>
+              <th scope="col" className="pr-3">Hauled<span aria-hidden="true">*</span><span className="sr-only"> (attributed as pumped)</span> <span className="font-normal text-muted">{bulkLabel}</span></th>
+              <th scope="col" className="pr-3">Nitrogen <span className="font-normal text-muted">{massLabel}</span></th>
+              <th scope="col" className="pr-3">Phosphorus <span className="font-normal text-muted">{massLabel}</span></th>
+              <th scope="col">Samples</th>
+            </tr>
+          </thead>
           <tbody>
             {zones.map((zone) => (
               <tr key={zone.zoneId ?? "unzoned"} className="border-b border-line">
-                <td className="py-1 pr-2">{zone.name}</td>
-                <td className="figures pr-2 whitespace-nowrap">{measure(zone.surveyedRemoved)}</td>
-                <td className="figures pr-2 whitespace-nowrap">{measure(zone.dryMassFromSurveys, 1)}</td>
-                <td className="figures pr-2 whitespace-nowrap">{measure(zone.nitrogenRemoved)}</td>
-                <td className="figures pr-2 whitespace-nowrap">{measure(zone.phosphorusRemoved)}</td>
-                <td className="text-muted">{zone.samplesFrom === "zone" ? `the zone's (${zone.sampleCount})` : zone.samplesFrom === "project" ? "project mean" : "none"}</td>
+                <td className="py-1 pr-3">{zone.name}</td>
+                <td className="figures pr-3 whitespace-nowrap">{figure(zone.surveyedRemoved)}</td>
+                <td className="figures pr-3 whitespace-nowrap">{figure(zone.dryMassFromSurveys, 1)}</td>
+                <td className="figures pr-3 whitespace-nowrap">
+                  {figure(zone.dryMassPumped, 1)}
+                  {zone.pumpedVersusSurveyedPercent !== null ? <span className="text-muted"> ({signed(zone.pumpedVersusSurveyedPercent)})</span> : null}
+                </td>
+                <td className="figures pr-3 whitespace-nowrap">{figure(zone.dryMassHauled, 1)}</td>
+                <td className="figures pr-3 whitespace-nowrap">{figure(zone.nitrogenRemoved)}</td>
+                <td className="figures pr-3 whitespace-nowrap">{figure(zone.phosphorusRemoved)}</td>
+                <td className="text-muted whitespace-nowrap">{zone.samplesFrom === "zone" ? `the zone's (${zone.sampleCount})` : zone.samplesFrom === "project" ? "project mean" : "none"}</td>
               </tr>
             ))}
+            <tr className="border-b border-line" data-testid="reconciliation-unattributed">
+              <td className="py-1 pr-3">Unattributed</td>
+              <td className="text-muted pr-3">–</td><td className="text-muted pr-3">–</td>
+              <td className="figures pr-3 whitespace-nowrap">{figure(unattributed.dryMassPumped, 1)}</td>
+              <td className="figures pr-3 whitespace-nowrap">{figure(unattributed.dryMassHauled, 1)}</td>
+              <td className="text-muted pr-3">–</td><td className="text-muted pr-3">–</td><td className="text-muted whitespace-nowrap">no dive in the shift&apos;s hours</td>
+            </tr>
           </tbody>
+          <tfoot>
+            <tr className="font-semibold" data-testid="reconciliation-total">
+              <td className="py-1 pr-3">Project</td>
+              <td className="figures pr-3 whitespace-nowrap">{figure(project.surveyedRemoved)}</td>
+              <td className="figures pr-3 whitespace-nowrap">{figure(project.dryMassFromSurveys, 1)}</td>
+              <td className="figures pr-3 whitespace-nowrap">{figure(project.dryMassPumped, 1)}</td>
+              <td className="figures pr-3 whitespace-nowrap">{figure(project.dryMassHauled, 1)}</td>
+              <td className="figures pr-3 whitespace-nowrap">{figure(project.nitrogenRemoved)}</td>
+              <td className="figures pr-3 whitespace-nowrap">{figure(project.phosphorusRemoved)}</td>
+              <td />
+            </tr>
+          </tfoot>
         </table>
       </div>
+      <p className="mt-2 text-sm text-muted" data-testid="reconciliation-attribution">
+        * Attributed, not measured: shift logs and haul tickets name no zone. A shift&apos;s solids are shared by the dive time logged in its hours over the cells worked; hauled solids in the same shares. The rule in full is under Assumptions.
+      </p>
       <details className="mt-3 text-sm">
         <summary className="cursor-pointer text-lagoon-dark">Assumptions</summary>
         <ul className="mt-2 list-disc space-y-1 pl-5 text-muted">{reconciliation.assumptions.map((line) => <li key={line}>{line}</li>)}</ul>

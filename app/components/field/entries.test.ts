@@ -37,6 +37,20 @@ describe("bodyOf and checkBody: the device refuses what the server's schema refu
     expect(checkBody("reading", body, {}, snapshot)).toEqual({});
   });
 
+  it("a reading's depth, instrument, calibration check, pH, DO and temperature go in the body, and a pH of 15 is refused on its field", () => {
+    const form: FormValues = {
+      ...blankForm("reading", snapshot, new Date(Date.UTC(2026, 11, 3, 15, 0))), value: "4.2", depth: "3,5", instrument: "Turbidimeter T-2", calibratedAt: "2026-12-03T06:30",
+      ph: "7.4", dissolvedOxygen: "6.1", temperature: "22.5",
+    };
+    const body = bodyOf("reading", form);
+    expect(body).toMatchObject({ depth: 3.5, instrument: "Turbidimeter T-2", ph: 7.4, dissolvedOxygen: 6.1, temperature: 22.5 });
+    expect(Date.parse(String(body.calibratedAt))).toBe(new Date("2026-12-03T06:30").getTime());
+    expect(checkBody("reading", body, {}, snapshot)).toEqual({});
+    expect(checkBody("reading", bodyOf("reading", { ...form, ph: "15" }), {}, snapshot)).toEqual({ ph: "pH is between 0 and 14" });
+    // An entry queued before the form had these fields sends them as null.
+    expect(bodyOf("reading", { station: "3", takenAt: "2026-12-03T10:00", value: "4", unit: "NTU" })).toMatchObject({ depth: null, instrument: null, calibratedAt: null, ph: null });
+  });
+
   it("a negative turbidity is refused with the server's words, by field (practice: the schema's message)", () => {
     const body = bodyOf("reading", { ...blankForm("reading", snapshot, new Date()), value: "-1" });
     expect(checkBody("reading", body, {}, snapshot)).toEqual({ value: "turbidity is 0 NTU or more" });

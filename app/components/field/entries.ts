@@ -63,7 +63,10 @@ export function blankForm(kind: EntryKind, snapshot: FieldSnapshot, now: Date): 
     case "dive":
       return { date: localDayOf(now.getTime(), snapshot.project.timeZone), team: snapshot.teams.length === 1 ? String(snapshot.teams[0].id) : "", diver: "", visitor: false, leftSurface: "", leftBottom: "", bottomMinutes: "", maxDepth: "", cells: "", notes: "" };
     case "reading":
-      return { station: snapshot.stations.length === 1 ? String(snapshot.stations[0].id) : "", takenAt: at, value: "", unit: "NTU", sampledBy: "", note: "" };
+      return {
+        station: snapshot.stations.length === 1 ? String(snapshot.stations[0].id) : "", takenAt: at, value: "", unit: "NTU", sampledBy: "", note: "",
+        depth: "", instrument: "", calibratedAt: "", ph: "", dissolvedOxygen: "", temperature: "",
+      };
     case "find":
       return { category: "", description: "", cell: "", foundAt: at, count: "1", finder: "", fieldTag: "", depthBelowSurface: "" };
     case "sighting":
@@ -118,7 +121,12 @@ export function bodyOf(kind: EntryKind, form: FormValues): Record<string, unknow
       };
     }
     case "reading":
-      return { station: idOrName(form, "station"), takenAt: instantOf(form.takenAt), value: number(form, "value"), unit: text(form, "unit"), sampledBy: text(form, "sampledBy") ?? null, note: text(form, "note") ?? null };
+      // The optional figures are absent from entries queued before the form had them: sent as null.
+      return {
+        station: idOrName(form, "station"), takenAt: instantOf(form.takenAt), value: number(form, "value"), unit: text(form, "unit"), sampledBy: text(form, "sampledBy") ?? null, note: text(form, "note") ?? null,
+        depth: number(form, "depth") ?? null, instrument: text(form, "instrument") ?? null, calibratedAt: instantOf(form.calibratedAt) ?? null,
+        ph: number(form, "ph") ?? null, dissolvedOxygen: number(form, "dissolvedOxygen") ?? null, temperature: number(form, "temperature") ?? null,
+      };
     case "find":
       return {
         category: text(form, "category"), description: text(form, "description"), cell: text(form, "cell")?.toUpperCase() ?? null, foundAt: instantOf(form.foundAt),

@@ -160,8 +160,15 @@ export function EntryForm({ kind, snapshot, initial, initialPhotos = [], serverE
             <BigInput label="Turbidity" inputMode="decimal" {...bind("value")} />
             <BigSelect label="Unit" options={[{ value: "NTU", label: "NTU" }, { value: "FNU", label: "FNU" }]} {...bind("unit")} />
             <BigInput label="Sampled by" autoComplete="name" {...bind("sampledBy")} />
+            <BigInput label={`Sample depth (${snapshot.project.lengthLabel})`} inputMode="decimal" {...bind("depth")} />
+            <BigInput label="Instrument" {...bind("instrument")} />
+            <BigInput label="Last calibration check (this device's clock)" type="datetime-local" {...bind("calibratedAt")} />
+            <BigInput label="pH" inputMode="decimal" {...bind("ph")} />
+            <BigInput label="DO (mg/L)" inputMode="decimal" {...bind("dissolvedOxygen")} />
+            <BigInput label="Temp. (°C)" inputMode="decimal" {...bind("temperature")} />
           </div>
           <BigTextArea label="Note" {...bind("note")} />
+          {photoPicker}
         </>
       ) : null}
       {kind === "find" ? (

@@ -95,6 +95,28 @@ describe("the store outlives the page", () => {
     expect(kept.photos[0].blob).toBeInstanceOf(Blob);
     expect(new Uint8Array(await kept.photos[0].blob.arrayBuffer())).toEqual(bytes);
   });
+
+  it("a reading's photo is kept as a Blob with the reading, and its sent mark survives while another photo still waits", async () => {
+    const first = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 9, 8, 7]);
+    const second = new Uint8Array([0xff, 0xd8, 0xff, 0xe0, 5, 5]);
+    const withPhotos = entry({
+      kind: "reading",
+      photos: [
+        { id: "reading-photo-1", name: "bottle.png", type: "image/png", blob: new Blob([first], { type: "image/png" }) },
+        { id: "reading-photo-2", name: "meter.jpg", type: "image/jpeg", blob: new Blob([second], { type: "image/jpeg" }) },
+      ],
+    });
+    await putEntry(withPhotos);
+    // Stored on the server with its first photo; the second still to go.
+    await putEntry({ ...withPhotos, serverId: 71, photos: [{ ...withPhotos.photos[0], sentId: 9 }, withPhotos.photos[1]] });
+    closeFieldDb();
+    const kept = (await queuedEntry(withPhotos.id))!;
+    expect(kept.kind).toBe("reading");
+    expect(kept.serverId).toBe(71);
+    expect(kept.photos.map((photo) => [photo.id, photo.name, photo.type, photo.sentId])).toEqual([["reading-photo-1", "bottle.png", "image/png", 9], ["reading-photo-2", "meter.jpg", "image/jpeg", undefined]]);
+    expect(kept.photos[1].blob).toBeInstanceOf(Blob);
+    expect(new Uint8Array(await kept.photos[1].blob.arrayBuffer())).toEqual(second);
+  });
 });
 
 /** The store as version 1 laid it out: no owner on entries, no byOwner index, sending state by project. */

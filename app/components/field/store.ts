@@ -52,7 +52,7 @@ export interface QueueEntry {
   /** The API's JSON body, checked with the server's schema when saved. */
   body: Record<string, unknown>;
   photos: QueuedPhoto[];
-  /** Set once the server has stored the record (a find, jar test or ticket whose photos are still to go). */
+  /** Set once the server has stored the record (a find, reading, jar test or ticket whose photos are still to go). */
   serverId?: number;
   /**
    * waiting: to be sent; rejected: the server refused it (message says why), the user fixes it;

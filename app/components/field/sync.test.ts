@@ -127,6 +127,30 @@ describe("the service worker's background sending", () => {
     await sendAllWaiting(null);
     expect(server.calls.map((call) => call.url)).toEqual(["/api/projects/1/finds", "/api/projects/1/finds/500/custody"]);
   });
+
+  it("a reading's photo goes after the reading, to the id the server gave it, with the photo's own key; a lost answer resends only the photo", async () => {
+    const server = fakeServer(5);
+    vi.stubGlobal("fetch", server.fetch);
+    const withPhoto = reading({ photos: [{ id: "photo-of-jar", name: "sample.jpg", type: "image/jpeg", blob: new Blob([new Uint8Array([0xff, 0xd8, 0xff, 0xe0])], { type: "image/jpeg" }) }] });
+    await putEntry(withPhoto);
+    // The reading is stored (500), then the photo's answer is lost: the reading keeps its id, the photo waits.
+    const original = server.fetch.getMockImplementation()!;
+    server.fetch.mockImplementationOnce(original).mockImplementationOnce(async (input, init) => {
+      server.loseNextAnswer();
+      return original(input, init);
+    });
+    await expect(sendAllWaiting(null)).rejects.toThrow(/No connection/);
+    expect(await queuedEntry(withPhoto.id)).toMatchObject({ status: "waiting", serverId: 500 });
+    const [report] = await sendAllWaiting(null);
+    expect(report.sent).toMatchObject([{ id: withPhoto.id, serverId: 500 }]);
+    expect(server.calls.map((call) => [call.url, call.key])).toEqual([
+      ["/api/projects/1/water-quality/readings", withPhoto.id],
+      ["/api/projects/1/water-quality/readings/500/photos", "photo-of-jar"],
+      ["/api/projects/1/water-quality/readings/500/photos", "photo-of-jar"],
+    ]);
+    // One reading and one photo stored: the retry replayed the photo's key.
+    expect(server.stored.size).toBe(2);
+  });
 });
 
 describe("one sender at a time: the page and the worker never send the same entries at once", () => {

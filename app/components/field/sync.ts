@@ -13,7 +13,7 @@ import {
  * - 401: the session has ended; nothing is marked, the sending stops until the user signs in.
  * - any other 4xx: refused; the entry stays, marked with the server's message, for the user to fix.
  * - 5xx, 408, 429 or no answer at all: it stays waiting and the sending stops (tried again later).
- * A record with photos (a find, a jar test, a haul ticket) goes in two steps: the record, then each
+ * A record with photos (a find, a reading, a jar test, a haul ticket) goes in two steps: the record, then each
  * photo to the record's id, each photo with its own key; the record's id is kept on the entry once
  * stored, so a retry sends only what is still missing and never a second record or photo.
  * A handover of a find made on this device waits for that find: it goes to the id the server gave
@@ -143,10 +143,13 @@ function pathOf(entry: QueueEntry, findId?: number): string {
 
 /** Where a stored record's photos go. */
 function photoPathOf(entry: QueueEntry, recordId: number): string {
-  return entry.kind === "jar-test" ? `dewatering/jar-tests/${recordId}/photos` : entry.kind === "haul" ? `hauls/${recordId}/photos` : `finds/${recordId}/photos`;
+  return entry.kind === "jar-test" ? `dewatering/jar-tests/${recordId}/photos`
+    : entry.kind === "haul" ? `hauls/${recordId}/photos`
+    : entry.kind === "reading" ? `water-quality/readings/${recordId}/photos`
+    : `finds/${recordId}/photos`;
 }
 
-const RECORD_NOUN: Partial<Record<QueueEntry["kind"], string>> = { find: "Find", "jar-test": "Jar test", haul: "Haul ticket" };
+const RECORD_NOUN: Partial<Record<QueueEntry["kind"], string>> = { find: "Find", "jar-test": "Jar test", haul: "Haul ticket", reading: "Reading" };
 
 /**
  * A status changed offline (a tube's, a find's): a PATCH with If-Match (the record's version when

@@ -9,6 +9,13 @@ import type { MapView } from "./paint";
 export type LayerKey = "cells" | "bands" | "zones" | "workLimit" | "shoreline" | "labels" | "monitoring" | "tubes";
 export const LAYER_KEYS: readonly LayerKey[] = ["cells", "bands", "zones", "workLimit", "shoreline", "labels", "monitoring", "tubes"];
 export const DEFAULT_LAYERS: Readonly<Record<LayerKey, boolean>> = { cells: true, bands: false, zones: true, workLimit: true, shoreline: true, labels: true, monitoring: true, tubes: true };
+/**
+ * The layers the map's first switch had. Links of that time list only the layers shown, so one of
+ * these left out was hidden; a layer added since ("monitoring", "tubes", any later one) that a link
+ * leaves out did not exist when the link was made, and opens at its default. Links made now state
+ * every layer, the hidden ones as "-key", so nothing in them is guessed.
+ */
+const FIRST_LAYER_KEYS: readonly LayerKey[] = ["cells", "bands", "zones", "workLimit", "shoreline", "labels"];
 
 export interface MapViewState {
   /** Longitude, latitude of the map's centre; with `zoom`, or neither. */
@@ -31,10 +38,15 @@ const centreSchema = z
   .pipe(z.tuple([z.number().min(-180).max(180), z.number().min(-85).max(85)]));
 const zoomSchema = z.coerce.number().min(0).max(24);
 const viewSchema = z.enum(["status", "thickness", "removed"]);
+const layerKeySchema = z.enum(LAYER_KEYS as [LayerKey, ...LayerKey[]]);
 const layersSchema = z
   .string()
   .transform((text) => (text === "" ? [] : text.split(",")))
-  .pipe(z.array(z.enum(LAYER_KEYS as [LayerKey, ...LayerKey[]])));
+  .pipe(z.array(z.string().transform((entry) => ({ shown: !entry.startsWith("-"), key: entry.replace(/^-/, "") })).pipe(z.object({ shown: z.boolean(), key: layerKeySchema }))))
+  .transform((entries): Record<LayerKey, boolean> => {
+    const stated = new Map(entries.map((entry) => [entry.key, entry.shown]));
+    return Object.fromEntries(LAYER_KEYS.map((key) => [key, stated.get(key) ?? (FIRST_LAYER_KEYS.includes(key) ? false : DEFAULT_LAYERS[key])])) as Record<LayerKey, boolean>;
+  });
 const bandSurfaceSchema = z.enum(["remaining", "depth"]);
 const zoneSchema = z.coerce.number().int().positive();
 // Labels as the grid writes them: column letters and row number, either part with a leading "-".
@@ -54,12 +66,12 @@ function read<T>(params: URLSearchParams, key: string, schema: z.ZodType<T>): T 
 export function parseMapView(params: URLSearchParams): MapViewState {
   const centre = read(params, "c", centreSchema);
   const zoom = read(params, "z", zoomSchema);
-  const layerList = read(params, "layers", layersSchema);
+  const layers = read(params, "layers", layersSchema);
   return {
     centre: centre && zoom !== null ? centre : null,
     zoom: centre && zoom !== null ? zoom : null,
     view: read(params, "view", viewSchema) ?? "status",
-    layers: layerList ? (Object.fromEntries(LAYER_KEYS.map((key) => [key, layerList.includes(key)])) as Record<LayerKey, boolean>) : { ...DEFAULT_LAYERS },
+    layers: layers ?? { ...DEFAULT_LAYERS },
     bandSurface: read(params, "bands", bandSurfaceSchema) ?? "remaining",
     zoneId: read(params, "zone", zoneSchema),
     cells: read(params, "cells", cellsSchema) ?? [],
@@ -75,7 +87,7 @@ export function mapViewSearch(state: MapViewState): string {
     params.set("z", state.zoom.toFixed(2));
   }
   if (state.view !== "status") params.set("view", state.view);
-  if (LAYER_KEYS.some((key) => state.layers[key] !== DEFAULT_LAYERS[key])) params.set("layers", LAYER_KEYS.filter((key) => state.layers[key]).join(","));
+  if (LAYER_KEYS.some((key) => state.layers[key] !== DEFAULT_LAYERS[key])) params.set("layers", LAYER_KEYS.map((key) => (state.layers[key] ? key : `-${key}`)).join(","));
   if (state.layers.bands && state.bandSurface !== "remaining") params.set("bands", state.bandSurface);
   if (state.zoneId !== null) params.set("zone", String(state.zoneId));
   if (state.cells.length > 0) params.set("cells", state.cells.join(","));
