@@ -60,7 +60,7 @@ test("the site admin creates a project; its manager changes the cell size and se
   await managerContext.close();
 });
 
-test("after a baseline, the manager's new tolerance is recomputed in the background: the page shows the progress, then what changed", async ({ page, signIn, baseURL }) => {
+test("after a baseline, the manager's new tolerance and then a new cell size are recomputed in the background: the page shows the progress, then what changed", async ({ page, signIn, baseURL }) => {
   test.setTimeout(120_000);
   const origin = new URL(baseURL!).origin;
   // The site admin sets a project up through the API with the demo spring's outline and zones; its manager imports the demo baseline.
@@ -103,4 +103,15 @@ test("after a baseline, the manager's new tolerance is recomputed in the backgro
   const history = page.getByTestId("settings-history");
   await expect(history.getByRole("row").nth(1)).toContainText("tolerances");
   await expect(history.getByRole("row").nth(2)).toContainText("created");
+
+  // A new cell size lays new cells: the recompute runs again and finishes, the history keeps the grid change.
+  const grid = page.getByRole("region", { name: "Grid" });
+  await grid.getByLabel(/Cell size/).fill(String(GRID.cellSizeFt * 2));
+  await grid.getByRole("button", { name: "Save grid" }).click();
+  await expect(grid.getByRole("status")).toContainText("being recomputed");
+  await expect(status).toContainText("from settings version 2 to 3", { timeout: 60_000 });
+  await expect(status.getByRole("heading", { name: "Figures recomputed" })).toBeVisible();
+  await expect(status.getByTestId("recompute-summary")).toContainText(/a new grid: [\d,]+ → [\d,]+ cells/);
+  await expect(history.getByRole("row").nth(1)).toContainText("grid");
+  await expect(grid.getByLabel(/Cell size/)).toHaveValue(String(GRID.cellSizeFt * 2));
 });
