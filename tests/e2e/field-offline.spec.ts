@@ -502,8 +502,6 @@ test.describe("dewatering and finds, sending", () => {
     await expect(page.getByRole("heading", { name: /^1 waiting to send/ })).toBeVisible();
     const manager = (await deviceStore(page)).queue[0].userId;
 
-    // On a phone the header's links fold into its menu.
-    await page.getByTestId("site-menu").locator("summary").click();
     await page.getByRole("button", { name: "Sign out", exact: true }).click();
     const dialog = page.getByRole("alertdialog", { name: "1 field entry has not been sent" });
     await expect(dialog).toBeVisible();
@@ -511,7 +509,6 @@ test.describe("dewatering and finds, sending", () => {
     await expect(dialog).toBeHidden();
     expect((await deviceStore(page)).queue).toHaveLength(1);
 
-    // The menu is still open behind the question.
     await page.getByRole("button", { name: "Sign out", exact: true }).click();
     await dialog.getByRole("button", { name: "Sign out and delete it" }).click();
     await expect(page).toHaveURL(/\/login/);

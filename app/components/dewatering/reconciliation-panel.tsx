@@ -35,15 +35,15 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
       </dl>
       <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon print:overflow-visible" tabIndex={0} role="region" aria-label="Reconciliation per zone, scrollable">
         <table className="w-full border-collapse text-sm" aria-label="Reconciliation per zone">
-          <thead><tr className="border-b border-line text-left"><th scope="col" className="py-1 pr-2">Zone</th><th scope="col" className="pr-2">Removed</th><th className="pr-2">Dry mass</th><th className="pr-2">Nitrogen</th><th className="pr-2">Phosphorus</th><th>Samples</th></tr></thead>
+          <thead><tr className="border-b border-line text-left"><th scope="col" className="py-1 pr-2">Zone</th><th scope="col" className="pr-2 text-right">Removed</th><th className="pr-2 text-right">Dry mass</th><th className="pr-2 text-right">Nitrogen</th><th className="pr-2 text-right">Phosphorus</th><th>Samples</th></tr></thead>
           <tbody>
             {zones.map((zone) => (
               <tr key={zone.zoneId ?? "unzoned"} className="border-b border-line">
                 <td className="py-1 pr-2">{zone.name}</td>
-                <td className="figures pr-2 whitespace-nowrap">{measure(zone.surveyedRemoved)}</td>
-                <td className="figures pr-2 whitespace-nowrap">{measure(zone.dryMassFromSurveys, 1)}</td>
-                <td className="figures pr-2 whitespace-nowrap">{measure(zone.nitrogenRemoved)}</td>
-                <td className="figures pr-2 whitespace-nowrap">{measure(zone.phosphorusRemoved)}</td>
+                <td className="figures pr-2 text-right whitespace-nowrap">{measure(zone.surveyedRemoved)}</td>
+                <td className="figures pr-2 text-right whitespace-nowrap">{measure(zone.dryMassFromSurveys, 1)}</td>
+                <td className="figures pr-2 text-right whitespace-nowrap">{measure(zone.nitrogenRemoved)}</td>
+                <td className="figures pr-2 text-right whitespace-nowrap">{measure(zone.phosphorusRemoved)}</td>
                 <td className="text-muted">{zone.samplesFrom === "zone" ? `the zone's (${zone.sampleCount})` : zone.samplesFrom === "project" ? "project mean" : "none"}</td>
               </tr>
             ))}
