@@ -4,7 +4,7 @@ import { getOptionalUser } from "./lib/auth/access.server";
 import { applyFramePolicy } from "./lib/http/frame-policy.server";
 import { assertSameOrigin } from "./lib/http/origin.server";
 import { inRequestScope } from "./lib/http/request-scope.server";
-import { SignOutForm } from "./components/sign-out-form";
+import { SiteMenu } from "./components/site-menu";
 import "./app.css";
 
 // Every mutating request (any route, any form) passes this Origin check first; every response
@@ -30,14 +30,7 @@ function SiteHeader() {
       <div className="mx-auto flex max-w-5xl items-center gap-3 px-4 py-3 sm:gap-4 sm:px-6">
         <Link to={user ? "/projects" : "/"} className="font-semibold text-lagoon-dark focus-visible:outline-2 focus-visible:outline-lagoon">Firmsand</Link>
         {user ? (
-          <nav aria-label="Account" className="ml-auto flex min-w-0 items-center gap-3 text-sm sm:gap-4">
-            <Link className="underline-offset-2 hover:underline" to="/projects">Projects</Link>
-            {user.isSiteAdmin ? <Link className="underline-offset-2 hover:underline" to="/admin/users">Accounts</Link> : null}
-            {/* On a phone a long name is cut short rather than pushing "Sign out" off the screen. */}
-            <Link className="min-w-0 truncate underline-offset-2 hover:underline" to="/account" title={user.name}>{user.name}</Link>
-            {/* Asks first when field entries wait on this device, and clears them from it. */}
-            <SignOutForm userId={user.id} />
-          </nav>
+          <SiteMenu user={user} />
         ) : (
           <nav aria-label="Account" className="ml-auto text-sm">
             <Link className="underline" to="/login">Sign in</Link>

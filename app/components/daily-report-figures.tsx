@@ -50,10 +50,10 @@ export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupH
         {report.teams.length > 0 ? (
           <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Dive work per team, scrollable">
             <table className="w-full text-sm">
-              <thead><tr className="text-left align-bottom text-muted"><th scope="col" className="pr-3">Team</th><th scope="col" className="pr-3">Head count</th><th scope="col" className="pr-3">Dives</th><th scope="col" className="pr-3">Bottom time (min)</th><th scope="col" className="pr-3">Max depth ({lengthLabel})</th><th scope="col">Cells</th></tr></thead>
+              <thead><tr className="text-left align-bottom text-muted"><th scope="col" className="pr-3">Team</th><th scope="col" className="pr-3 text-right">Head count</th><th scope="col" className="pr-3 text-right">Dives</th><th scope="col" className="pr-3 text-right">Bottom time (min)</th><th scope="col" className="pr-3 text-right">Max depth ({lengthLabel})</th><th scope="col">Cells</th></tr></thead>
               <tbody>
                 {report.teams.map((team) => (
-                  <tr key={team.team} className="border-t border-line"><td className="pr-3">{team.team}</td><td className="figures pr-3">{team.headCount ?? "—"}</td><td className="figures pr-3">{team.dives}</td><td className="figures pr-3">{team.bottomMinutes}</td><td className="figures pr-3">{team.maxDepth ?? "—"}</td><td className="figures break-words">{team.cells.join(" ")}</td></tr>
+                  <tr key={team.team} className="border-t border-line"><td className="pr-3">{team.team}</td><td className="figures pr-3 text-right">{team.headCount ?? "—"}</td><td className="figures pr-3 text-right">{team.dives}</td><td className="figures pr-3 text-right">{team.bottomMinutes}</td><td className="figures pr-3 text-right">{team.maxDepth ?? "—"}</td><td className="figures break-words">{team.cells.join(" ")}</td></tr>
                 ))}
               </tbody>
             </table>

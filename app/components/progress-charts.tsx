@@ -88,16 +88,38 @@ interface DatedLinesProps {
 export function DatedLinesChart(props: DatedLinesProps) {
   const [ref, width] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
   if (props.dates.length === 0) return <p className="text-sm text-muted">{props.emptyText}</p>;
-  return <div ref={ref} className="w-full min-w-0 overflow-hidden"><DatedLinesSvg {...props} width={width} /></div>;
+  // Names beside the lines' ends while they fit in a third of the panel; otherwise (a phone, long
+  // zone names) a key under the chart, so no name is cut off at the panel's edge.
+  const endLabelsPx = Math.max(...props.series.map((line) => line.name.length)) * 7 + 14;
+  const endLabels = endLabelsPx <= width * 0.34;
+  return (
+    <div ref={ref} className="w-full min-w-0 overflow-hidden">
+      <DatedLinesSvg {...props} width={width} endLabels={endLabels} />
+      {endLabels ? null : (
+        <ul className="mt-1 flex flex-wrap gap-x-4 gap-y-1 text-xs" data-testid={`${props.testId}-key`}>
+          {props.series.map((line, lineIndex) => (
+            <li key={line.name} className="flex items-center gap-1.5">
+              <svg aria-hidden="true" width="24" height="8" className="shrink-0"><line x1={0} x2={24} y1={4} y2={4} stroke={lineColour(line, lineIndex)} strokeWidth={line.total ? 3 : 2} strokeDasharray={lineDash(line, lineIndex)} /></svg>
+              {line.name}
+            </li>
+          ))}
+        </ul>
+      )}
+    </div>
+  );
 }
 
-function DatedLinesSvg({ dates, series, unit, title, testId, width }: DatedLinesProps & { width: number }) {
+const lineColour = (line: RemovedSeries, lineIndex: number) => (line.total ? "#1d2528" : line.colour ?? LINE_COLOURS[lineIndex % LINE_COLOURS.length]);
+const lineDash = (line: RemovedSeries, lineIndex: number) => (line.total ? undefined : lineIndex % 2 ? "6 3" : undefined);
+
+function DatedLinesSvg({ dates, series, unit, title, testId, width, endLabels }: DatedLinesProps & { width: number; endLabels: boolean }) {
   const titleId = useId();
   const longestName = Math.max(...series.map((line) => line.name.length));
   const frame: Frame = {
     width,
     height: clamp(Math.round(width * 0.55), 220, 320),
-    margin: { top: 28, right: clamp(longestName * 7 + 14, 60, Math.round(width * 0.34)), bottom: 2 * CHART_FONT_PX + 20, left: 56 },
+    // Without end labels the right margin holds half of the last date's label ("11-17").
+    margin: { top: 28, right: endLabels ? clamp(longestName * 7 + 14, 60, Math.round(width * 0.34)) : 3 * MONO_CHAR_PX + 4, bottom: 2 * CHART_FONT_PX + 20, left: 56 },
   };
   const { margin, height } = frame;
   const days = dates.map(dayNumber);
@@ -124,7 +146,7 @@ function DatedLinesSvg({ dates, series, unit, title, testId, width }: DatedLines
         })}
       </g>
       {series.map((line, lineIndex) => {
-        const colour = line.total ? "#1d2528" : line.colour ?? LINE_COLOURS[lineIndex % LINE_COLOURS.length];
+        const colour = lineColour(line, lineIndex);
         let path = "";
         let pen = false;
         line.values.forEach((value, index) => {
@@ -137,9 +159,9 @@ function DatedLinesSvg({ dates, series, unit, title, testId, width }: DatedLines
         });
         return (
           <g key={line.name} data-series={line.name}>
-            <path d={path} fill="none" stroke={colour} strokeWidth={line.total ? 3 : 2} strokeDasharray={line.total ? undefined : lineIndex % 2 ? "6 3" : undefined} />
+            <path d={path} fill="none" stroke={colour} strokeWidth={line.total ? 3 : 2} strokeDasharray={lineDash(line, lineIndex)} />
             {line.values.map((value, index) => value === null || line.marked?.[index] === false ? null : <circle key={index} cx={x(days[index])} cy={y(value)} r={3} fill={colour}><title>{`${line.name}, ${dates[index]}: ${formatNumber(value)} ${unit}`}</title></circle>)}
-            <text x={width - margin.right + 8} y={labelY[lineIndex]} fontSize={CHART_FONT_PX} fill={colour}>{line.name}</text>
+            {endLabels ? <text x={width - margin.right + 8} y={labelY[lineIndex]} fontSize={CHART_FONT_PX} fill={colour}>{line.name}</text> : null}
           </g>
         );
       })}
@@ -155,18 +177,49 @@ function DatedLinesSvg({ dates, series, unit, title, testId, width }: DatedLines
 export function ProductionChart(props: { intervals: ProductionInterval[]; unit: string }) {
   const [ref, width] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
   if (props.intervals.length === 0) return <p className="text-sm text-muted">Production needs two survey dates.</p>;
-  // Each bar keeps room for its labels; more bars than the panel holds scroll sideways.
-  return <div ref={ref} className="w-full min-w-0 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Production chart, scrollable"><ProductionSvg {...props} width={width} /></div>;
+  // Columns while each keeps room for its labels; in a narrower panel (a phone) one row per
+  // interval, so the chart always fits its panel and never scrolls sideways.
+  const columns = width - PRODUCTION_MARGIN_X >= props.intervals.length * PRODUCTION_SLOT_PX;
+  return (
+    <div ref={ref} className="w-full min-w-0 overflow-hidden">
+      {columns ? <ProductionColumnsSvg {...props} width={width} /> : <ProductionRowsSvg {...props} width={width} />}
+    </div>
+  );
 }
 
 /** Room under and beside each bar for its four label lines at 12 px ("05-26→", "10-27", "12 d", "weekdays"). */
-const PRODUCTION_SLOT_PX = 8 * MONO_CHAR_PX + 12;
+export const PRODUCTION_SLOT_PX = 8 * MONO_CHAR_PX + 12;
+/** The columns' left and right margins together (value axis and a little air). */
+const PRODUCTION_MARGIN_X = 56 + 12;
 
-function ProductionSvg({ intervals, unit, width: panelWidth }: { intervals: ProductionInterval[]; unit: string; width: number }) {
+const productionTitle = (unit: string) => `Production per working day between survey dates (${unit} per working day)`;
+
+function productionTooltip(interval: ProductionInterval, unit: string): string {
+  const basis = interval.basis === "dives-logged" ? "dives logged" : "weekdays";
+  return `${interval.fromDate} → ${interval.toDate}: ${formatNumber(interval.removedVolume)} ${unit} over ${Number(interval.workingDays.toFixed(2))} working days (${basis}) = ${formatNumber(interval.volumePerWorkingDay, 1)} ${unit}/day${interval.thin ? "; thin: too few working days for this rate to compare with the others" : ""}`;
+}
+
+const productionValueText = (interval: ProductionInterval) => `${formatNumber(interval.volumePerWorkingDay, 0)}${interval.thin ? " thin" : ""}`;
+
+function ThinIntervalHatch() {
+  return (
+    <defs>
+      <pattern id="thin-interval-hatch" width={6} height={6} patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
+        <rect width={6} height={6} fill="#e3eef0" />
+        <line x1={0} y1={0} x2={0} y2={6} stroke="#14606e" strokeWidth={1.5} strokeOpacity={0.5} />
+      </pattern>
+    </defs>
+  );
+}
+
+function barPaint(interval: ProductionInterval) {
+  return interval.thin ? { fill: "url(#thin-interval-hatch)", stroke: "#14606e", strokeDasharray: "3 2" } : { fill: "#14606e" };
+}
+
+function ProductionColumnsSvg({ intervals, unit, width }: { intervals: ProductionInterval[]; unit: string; width: number }) {
   const line = CHART_FONT_PX + 2;
   const margin = { top: 28, right: 12, bottom: 4 * line + 8, left: 56 };
-  const width = Math.max(panelWidth, margin.left + margin.right + intervals.length * PRODUCTION_SLOT_PX);
-  const height = clamp(Math.round(panelWidth * 0.55), 240, 320);
+  const height = clamp(Math.round(width * 0.55), 240, 320);
   const frame: Frame = { width, height, margin };
   const rates = intervals.map((interval) => interval.volumePerWorkingDay ?? 0);
   const ticks = niceTicks(Math.max(0, ...rates));
@@ -174,27 +227,21 @@ function ProductionSvg({ intervals, unit, width: panelWidth }: { intervals: Prod
   const y = linearScale([0, ticks[ticks.length - 1]], [bottom, margin.top]);
   const slot = (width - margin.left - margin.right) / intervals.length;
   return (
-    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="production-title" className="block" data-testid="production-chart">
-      <title id="production-title">{`Production per working day between survey dates (${unit} per working day)`}</title>
-      <defs>
-        <pattern id="thin-interval-hatch" width={6} height={6} patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
-          <rect width={6} height={6} fill="#e3eef0" />
-          <line x1={0} y1={0} x2={0} y2={6} stroke="#14606e" strokeWidth={1.5} strokeOpacity={0.5} />
-        </pattern>
-      </defs>
+    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="production-title" className="block" data-testid="production-chart" data-layout="columns">
+      <title id="production-title">{productionTitle(unit)}</title>
+      <ThinIntervalHatch />
       <ValueAxis frame={frame} ticks={ticks} y={y} unit={`${unit}/day`} />
       {intervals.map((interval, index) => {
         const rate = Math.max(0, interval.volumePerWorkingDay ?? 0);
         const left = margin.left + index * slot + slot * 0.15;
         const centre = left + slot * 0.35;
-        const basis = interval.basis === "dives-logged" ? "dives logged" : "weekdays";
         return (
           <g key={interval.toDate} data-thin={interval.thin ? "" : undefined}>
-            <rect x={left} width={slot * 0.7} y={y(rate)} height={y(0) - y(rate)} fill={interval.thin ? "url(#thin-interval-hatch)" : "#14606e"} stroke={interval.thin ? "#14606e" : undefined} strokeDasharray={interval.thin ? "3 2" : undefined}>
-              <title>{`${interval.fromDate} → ${interval.toDate}: ${formatNumber(interval.removedVolume)} ${unit} over ${Number(interval.workingDays.toFixed(2))} working days (${basis}) = ${formatNumber(interval.volumePerWorkingDay, 1)} ${unit}/day${interval.thin ? "; thin: too few working days for this rate to compare with the others" : ""}`}</title>
+            <rect x={left} width={slot * 0.7} y={y(rate)} height={y(0) - y(rate)} {...barPaint(interval)}>
+              <title>{productionTooltip(interval, unit)}</title>
             </rect>
             <text className="figures" x={centre} y={y(rate) - 4} textAnchor="middle" fontSize={CHART_FONT_PX} fill={interval.thin ? "#5b6870" : "#1d2528"}>
-              {`${formatNumber(interval.volumePerWorkingDay, 0)}${interval.thin ? " thin" : ""}`}
+              {productionValueText(interval)}
             </text>
             <g className="figures" fontSize={CHART_FONT_PX} fill="#5b6870" textAnchor="middle">
               <text x={centre} y={bottom + line}>{`${interval.fromDate.slice(5)}→`}</text>
@@ -202,6 +249,62 @@ function ProductionSvg({ intervals, unit, width: panelWidth }: { intervals: Prod
               <text x={centre} y={bottom + 3 * line}>{`${Number(interval.workingDays.toFixed(1))} d`}</text>
               <text x={centre} y={bottom + 4 * line}>{interval.basis === "dives-logged" ? "dives" : "weekdays"}</text>
             </g>
+          </g>
+        );
+      })}
+    </svg>
+  );
+}
+
+/**
+ * The same figures for a narrow panel: one row per interval, its dates and working days on a line
+ * above a horizontal bar, the rate at the bar's end, and the value axis along the bottom with as
+ * many round ticks as fit their labels.
+ */
+function ProductionRowsSvg({ intervals, unit, width }: { intervals: ProductionInterval[]; unit: string; width: number }) {
+  const line = CHART_FONT_PX + 2;
+  const barHeight = 14;
+  const rowHeight = line + barHeight + 10;
+  const valueRoom = Math.max(...intervals.map((interval) => productionValueText(interval).length)) * MONO_CHAR_PX + 8;
+  const margin = { top: line + 6, right: Math.max(valueRoom, 3 * MONO_CHAR_PX), bottom: 2 * line + 6, left: 4 };
+  const height = margin.top + intervals.length * rowHeight + margin.bottom;
+  const rates = intervals.map((interval) => interval.volumePerWorkingDay ?? 0);
+  const right = width - margin.right;
+  // Round ticks, fewer while their widest label would crowd the next.
+  let count = 5;
+  let ticks = niceTicks(Math.max(0, ...rates), count);
+  const labelWidth = (values: number[]) => Math.max(...values.map((value) => formatNumber(value, 0).length)) * MONO_CHAR_PX + 10;
+  while (count > 1 && ((right - margin.left) / (ticks.length - 1)) < labelWidth(ticks)) ticks = niceTicks(Math.max(0, ...rates), --count);
+  const x = linearScale([0, ticks[ticks.length - 1]], [margin.left, right]);
+  const axisY = height - margin.bottom;
+  return (
+    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="production-title" className="block" data-testid="production-chart" data-layout="rows">
+      <title id="production-title">{productionTitle(unit)}</title>
+      <ThinIntervalHatch />
+      <g className="figures" fontSize={CHART_FONT_PX} fill="#5b6870">
+        {ticks.map((tick, index) => (
+          <g key={tick}>
+            <line x1={x(tick)} x2={x(tick)} y1={margin.top} y2={axisY} stroke="#d5dcdf" />
+            <text x={x(tick)} y={axisY + line} textAnchor={index === 0 ? "start" : index === ticks.length - 1 ? "end" : "middle"}>{formatNumber(tick, 0)}</text>
+          </g>
+        ))}
+        <text x={margin.left} y={axisY + 2 * line}>{`${unit}/day`}</text>
+      </g>
+      {intervals.map((interval, index) => {
+        const rate = Math.max(0, interval.volumePerWorkingDay ?? 0);
+        const top = margin.top + index * rowHeight;
+        const basis = interval.basis === "dives-logged" ? "dives" : "weekdays";
+        return (
+          <g key={interval.toDate} data-thin={interval.thin ? "" : undefined}>
+            <text className="figures" x={margin.left} y={top + CHART_FONT_PX - 2} fontSize={CHART_FONT_PX} fill="#5b6870">
+              {`${interval.fromDate.slice(5)}→${interval.toDate.slice(5)} · ${Number(interval.workingDays.toFixed(1))} d ${basis}`}
+            </text>
+            <rect x={margin.left} y={top + line} width={Math.max(1, x(rate) - margin.left)} height={barHeight} {...barPaint(interval)}>
+              <title>{productionTooltip(interval, unit)}</title>
+            </rect>
+            <text className="figures" x={x(rate) + 4} y={top + line + barHeight - 2} fontSize={CHART_FONT_PX} fill={interval.thin ? "#5b6870" : "#1d2528"}>
+              {productionValueText(interval)}
+            </text>
           </g>
         );
       })}
@@ -218,8 +321,8 @@ export interface DailyBar {
   label: string;
 }
 
-/** The narrowest a day is drawn before the chart scrolls sideways instead. */
-const MIN_DAY_PX = 3;
+/** The narrowest a day's bar is drawn: a long record in a phone's panel still shows every day. */
+const MIN_BAR_PX = 1;
 
 /**
  * One bar per calendar day from the first to the last date given, so days without a record show
@@ -229,20 +332,19 @@ export function DailyBarsChart(props: { bars: DailyBar[]; unit: string; title: s
   const [ref, width] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
   if (props.bars.length === 0) return <p className="text-sm text-muted">{props.emptyText}</p>;
   return (
-    <div ref={ref} className="w-full min-w-0 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label={`${props.title}, scrollable`}>
+    <div ref={ref} className="w-full min-w-0 overflow-hidden">
       <DailyBarsSvg {...props} width={width} />
     </div>
   );
 }
 
-function DailyBarsSvg({ bars, unit, title, testId, digits, width: panelWidth }: { bars: DailyBar[]; unit: string; title: string; testId: string; digits: number; width: number }) {
+function DailyBarsSvg({ bars, unit, title, testId, digits, width }: { bars: DailyBar[]; unit: string; title: string; testId: string; digits: number; width: number }) {
   const titleId = useId();
   // The right margin holds half of the last date's label ("11-17").
   const margin = { top: 28, right: 3 * MONO_CHAR_PX + 4, bottom: 2 * CHART_FONT_PX + 16, left: 56 };
   const first = dayNumber(bars[0].date);
   const span = dayNumber(bars[bars.length - 1].date) - first + 1;
-  const width = Math.max(panelWidth, margin.left + margin.right + span * MIN_DAY_PX);
-  const height = clamp(Math.round(panelWidth * 0.45), 200, 280);
+  const height = clamp(Math.round(width * 0.45), 200, 280);
   const frame: Frame = { width, height, margin };
   const ticks = niceTicks(Math.max(0, ...bars.map((bar) => bar.value ?? 0)));
   const bottom = height - margin.bottom;
@@ -258,7 +360,7 @@ function DailyBarsSvg({ bars, unit, title, testId, digits, width: panelWidth }: 
       <ValueAxis frame={frame} ticks={ticks} y={y} unit={unit} />
       {bars.map((bar, index) => {
         const x = centre(bar.date);
-        const barWidth = Math.max(2, slot * 0.7);
+        const barWidth = Math.max(MIN_BAR_PX, slot * 0.7);
         const line = shown[index] ? row++ % 2 : 0;
         return (
           <g key={bar.date} data-date={bar.date}>

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { surveyOrderSchema, tvuCoefficients, type SurveyOrder } from "../../shared/qa/tvu";
+import { biasInUnit, verticalBiasWords, type VerticalBias } from "../../shared/qa/vertical-bias";
 import { unitLabel, type LengthUnit } from "../../shared/units";
 import { PERIOD_VOLUME_KEYS, type PeriodVolumes } from "../../shared/volumes/period";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
@@ -13,6 +14,7 @@ import { computePeriodFigures, type PeriodFigures } from "~/lib/engine/period-fi
 import { monthName, monthPeriod, monthsWithPeriods } from "../../shared/volumes/named-period";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { NotFoundError, ValidationError } from "~/lib/errors";
+import { verticalBiasOf } from "~/models/survey.server";
 
 /**
  * Pay periods: the figures between any two surveys in force (by default the baseline to the
@@ -31,6 +33,8 @@ export interface PeriodSurvey {
   order: SurveyOrder;
   /** Where the band's depths come from: the survey's water-surface elevation minus the bottom, node by node; its median depth; or none (a alone). */
   depths: { from: "water-surface"; waterSurfaceElevation: number } | { from: "median-depth"; medianDepth: number } | { from: "none" };
+  /** The most the survey's vertical reference may be off (95 %), as recorded; null when none is. */
+  bias: VerticalBias | null;
 }
 
 export interface PeriodSettings {
@@ -103,6 +107,7 @@ function bandSurvey(survey: PeriodSurvey, unit: LengthUnit) {
     ...tvuCoefficients(survey.order, unit),
     waterSurfaceElevation: depths.from === "water-surface" ? depths.waterSurfaceElevation : null,
     fallbackDepth: depths.from === "median-depth" ? depths.medianDepth : null,
+    bias: biasInUnit(survey.bias, unit),
   };
 }
 
@@ -113,15 +118,18 @@ function depthWords(survey: PeriodSurvey, length: string): string {
   return "no depths known (a alone)";
 }
 
-/** The band's method in words, with each survey's order and TVU and what a reference bias would add. */
+/** The band's method in words, with each survey's order, TVU and recorded reference bias, and what a bias does to removed. */
 function uncertaintyWords(surveys: readonly PeriodSurvey[], biasVolumePerUnit: number, unit: LengthUnit, length: string, volume: string): string {
   const tenth = (Math.round(biasVolumePerUnit * 0.1 * 10) / 10).toLocaleString("en-US");
+  const anyBias = surveys.some((survey) => survey.bias !== null);
   return (
     "± on removed: 95 % band from the surveys' vertical uncertainty (IHO S-44 ed. 6.0.0, table 1: TVU = √(a² + (b·d)²) for the survey's order at each depth d, " +
     "d = the survey's water-surface elevation − the bottom at each raster node, TVU² averaged over the cell), " +
-    "taken as each sounding's random error and averaged over the soundings of each cell (1/√n) that changed in the period, both ends and all cells added in quadrature. " +
-    `Surveys: ${surveys.map((survey) => { const { a, b } = tvuCoefficients(survey.order, unit); return `#${survey.id} order ${survey.order} (a ${a.toFixed(2)} ${length}, b ${b}), ${depthWords(survey, length)}`; }).join("; ")}. ` +
-    `Not in the band: a systematic bias of the vertical reference (water level, datum) shifts a whole surface and does not average down; each 0.1 ${length} of it would move removed by about ${tenth} ${volume}.`
+    "taken as each sounding's random error and averaged over the soundings of each cell (1/√n) that changed in the period; " +
+    "each survey's recorded reference bias (water level, datum), a systematic bias that shifts the whole surface, enters as the area it carries at the period's start less the area it carries at its end × the bias and does not average down; " +
+    "the random part of both ends and every survey's bias added in quadrature. " +
+    `Surveys: ${surveys.map((survey) => { const { a, b } = tvuCoefficients(survey.order, unit); return `#${survey.id} order ${survey.order} (a ${a.toFixed(2)} ${length}, b ${b}), ${depthWords(survey, length)}, reference bias ${verticalBiasWords(survey.bias)}`; }).join("; ")}. ` +
+    `Each 0.1 ${length} of reference bias at one end moves removed by about ${tenth} ${volume}${anyBias ? "" : "; no survey has a bias recorded, so none is in the band"}.`
   );
 }
 
@@ -149,7 +157,7 @@ function periodMethod(project: ProjectView, settings: PeriodSettings, length: st
  * What every period of the project is computed from now: the engine state under its recompute
  * stamp, the geometry, the surveys in force with their files and uncertainty, and `version`, the
  * digest of everything else a period's figures depend on (zones, settings, allowance, unit, the
- * surveys' orders and water surfaces). Null when the project has no figures.
+ * surveys' orders, water surfaces and reference biases). Null when the project has no figures.
  */
 async function periodContext(project: ProjectView) {
   const stamp = await projectRecomputeStamp(project.id);
@@ -157,11 +165,11 @@ async function periodContext(project: ProjectView) {
   if (!state) return null;
   const geometry = await loadProjectGeometry(project.id);
   const inForce = state.periods.surveys;
-  const rows = await Survey.findAll({ where: { projectId: project.id, id: inForce.map((survey) => survey.id) }, attributes: ["id", "kind", "surveyedOn", "datum", "fileName", "contentSha256", "qa", "waterSurfaceElevation"] });
+  const rows = await Survey.findAll({ where: { projectId: project.id, id: inForce.map((survey) => survey.id) }, attributes: ["id", "kind", "surveyedOn", "datum", "fileName", "contentSha256", "qa", "waterSurfaceElevation", "verticalBiasValue", "verticalBiasUnit", "verticalBiasSource"] });
   const byId = new Map(rows.map((row) => [row.id, row]));
   const surveys: PeriodSurvey[] = inForce.map((survey) => {
     const row = byId.get(survey.id);
-    return { id: survey.id, kind: survey.kind, surveyedOn: survey.surveyedOn, datum: row?.datum ?? "", fileName: row?.fileName ?? "", contentSha256: row?.contentSha256 ?? "", ...surveyUncertainty(row?.qa ?? {}, row?.waterSurfaceElevation ?? null, state.surfaces.waterSurfaceElevation) };
+    return { id: survey.id, kind: survey.kind, surveyedOn: survey.surveyedOn, datum: row?.datum ?? "", fileName: row?.fileName ?? "", contentSha256: row?.contentSha256 ?? "", ...surveyUncertainty(row?.qa ?? {}, row?.waterSurfaceElevation ?? null, state.surfaces.waterSurfaceElevation), bias: row ? verticalBiasOf(row) : null };
   });
   const inputs = {
     zones: geometry.zones, settings: geometry.settings, overDredgeAllowance: project.grid.overDredgeAllowance, lengthUnit: project.lengthUnit,

@@ -1,7 +1,9 @@
 import type { CellStatus } from "../../shared/cell-status";
 import type { FigureTotals } from "../../shared/volumes/figure-totals";
-import { CellResult, Sounding, Survey, SurveySnapshot, User, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
+import { CellResult, Sounding, Survey, SurveySnapshot, User, getSequelize, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
+import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
+import type { VerticalBias } from "../../shared/qa/vertical-bias";
 
 /** Surveys of a project as the pages and the API show them; every query is scoped by the project. */
 export interface SurveyListItem {
@@ -30,6 +32,14 @@ export interface SurveyDetails extends SurveyListItem {
   retractedBy: string | null;
   retractedAt: string | null;
   qa: Record<string, unknown>;
+  /** The most the survey's vertical reference may be off (95 %), as entered; null when none is recorded. */
+  verticalBias: VerticalBias | null;
+}
+
+/** A survey row's recorded vertical-reference bias, or null (the three columns are set together). */
+export function verticalBiasOf(survey: Pick<Survey, "verticalBiasValue" | "verticalBiasUnit" | "verticalBiasSource">): VerticalBias | null {
+  if (survey.verticalBiasValue === null || survey.verticalBiasValue === undefined || !survey.verticalBiasUnit) return null;
+  return { value: survey.verticalBiasValue, unit: survey.verticalBiasUnit, source: survey.verticalBiasSource ?? "" };
 }
 
 const withUsers = [
@@ -66,7 +76,30 @@ function presentDetails(survey: Survey): SurveyDetails {
     retractedBy: survey.retractedBy?.name ?? null,
     retractedAt: survey.retractedAt ? survey.retractedAt.toISOString() : null,
     qa: survey.qa,
+    verticalBias: verticalBiasOf(survey),
   };
+}
+
+/**
+ * Records (or, with null, clears) a survey's vertical-reference bias, audited with what it was.
+ * Stored figures do not change (the bias only widens a pay period's ± band, computed on request);
+ * a period's report signed before keeps the band it was issued with. Null when there is no such survey.
+ */
+export async function setSurveyVerticalBias(project: ProjectView, input: { surveyId: number; userId: number; ip: string | null; bias: VerticalBias | null }): Promise<VerticalBias | null | undefined> {
+  return getSequelize().transaction(async (transaction) => {
+    const survey = await Survey.findOne({ where: { id: input.surveyId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
+    if (!survey) return undefined;
+    const before = verticalBiasOf(survey);
+    survey.verticalBiasValue = input.bias?.value ?? null;
+    survey.verticalBiasUnit = input.bias?.unit ?? null;
+    survey.verticalBiasSource = input.bias?.source ?? null;
+    await survey.save({ transaction });
+    await recordAudit(
+      { action: AUDIT_ACTIONS.surveyBiasSet, projectId: project.id, userId: input.userId, ip: input.ip, detail: { surveyId: survey.id, surveyedOn: survey.surveyedOn, before, after: input.bias } },
+      transaction,
+    );
+    return input.bias;
+  });
 }
 
 export async function listSurveys(project: ProjectView): Promise<SurveyListItem[]> {

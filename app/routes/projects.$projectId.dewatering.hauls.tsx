@@ -140,15 +140,15 @@ export default function DewateringHauls({ loaderData, actionData }: Route.Compon
         {hauls.length === 0 ? <p className="text-sm text-muted">No tickets yet.</p> : (
           <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Haul tickets, scrollable">
             <table className="w-full border-collapse text-sm">
-              <thead><tr className="border-b border-line text-left"><th className="py-1 pr-2">Date</th><th className="pr-2">Ticket</th><th className="pr-2">Truck</th><th className="pr-2">Destination</th><th className="pr-2">Load</th><th className="pr-2">Cake solids</th><th className="pr-2">Dry solids</th><th>Ticket photo</th></tr></thead>
+              <thead><tr className="border-b border-line text-left"><th className="py-1 pr-2">Date</th><th className="pr-2 text-right">Ticket</th><th className="pr-2">Truck</th><th className="pr-2">Destination</th><th className="pr-2 text-right">Load</th><th className="pr-2 text-right">Cake solids</th><th className="pr-2 text-right">Dry solids</th><th>Ticket photo</th></tr></thead>
               <tbody>
                 {hauls.map((haul) => (
                   <tr key={haul.id} className="border-b border-line">
-                    <td className="figures py-1 pr-2 whitespace-nowrap">{haul.date}</td><td className="figures pr-2">{haul.ticketNumber}</td><td className="pr-2 whitespace-nowrap">{haul.truck}</td>
+                    <td className="figures py-1 pr-2 whitespace-nowrap">{haul.date}</td><td className="text-right figures pr-2">{haul.ticketNumber}</td><td className="pr-2 whitespace-nowrap">{haul.truck}</td>
                     <td className="pr-2 whitespace-nowrap">{haul.site.name}</td>
-                    <td className="figures pr-2 whitespace-nowrap">{formatFigure(haul.load.value, 1)} {haul.load.label}</td>
-                    <td className="pr-2 whitespace-nowrap"><span className="figures">{formatFigure(haul.cakeSolidsByWeight * 100, 1)} %</span> <span className="text-xs text-muted">({haul.cakeSolidsFrom})</span></td>
-                    <td className="figures pr-2 whitespace-nowrap">{formatFigure(haul.drySolids.value, 2)} {haul.drySolids.label}</td>
+                    <td className="text-right figures pr-2 whitespace-nowrap">{formatFigure(haul.load.value, 1)} {haul.load.label}</td>
+                    <td className="text-right pr-2 whitespace-nowrap"><span className="figures">{formatFigure(haul.cakeSolidsByWeight * 100, 1)} %</span> <span className="text-xs text-muted">({haul.cakeSolidsFrom})</span></td>
+                    <td className="text-right figures pr-2 whitespace-nowrap">{formatFigure(haul.drySolids.value, 2)} {haul.drySolids.label}</td>
                     <td className="py-1" data-testid={`ticket-photos-${haul.ticketNumber}`}>
                       {haul.photos.length > 0 ? (
                         <ul className="flex gap-1">

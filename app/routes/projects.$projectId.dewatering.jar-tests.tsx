@@ -132,17 +132,17 @@ function JarTestCard({ test, projectId, canLog, actionData }: { test: JarTestVie
       <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={`Jars of the test of ${test.date}`}>
         <table className="w-full border-collapse text-sm">
           <thead>
-            <tr className="border-b border-line text-left"><th className="py-1 pr-2">Dose</th><th className="pr-2">Stock added</th><th className="pr-2">Settled</th><th className="pr-2">Turbidity</th><th className="pr-2">Clarity</th><th>Removed</th></tr>
+            <tr className="border-b border-line text-left"><th className="py-1 pr-2 text-right">Dose</th><th className="pr-2 text-right">Stock added</th><th className="pr-2 text-right">Settled</th><th className="pr-2 text-right">Turbidity</th><th className="pr-2">Clarity</th><th className="text-right">Removed</th></tr>
           </thead>
           <tbody>
             {test.jars.map((jar, index) => (
               <tr key={index} className={`border-b border-line ${jar.doseMgPerL === test.chosenDoseMgPerL ? "font-semibold" : ""}`}>
-                <td className="figures py-1 pr-2 whitespace-nowrap">{formatFigure(jar.doseMgPerL, 2)} mg/L</td>
-                <td className="figures pr-2 whitespace-nowrap">{formatFigure(jar.stockMl, 2)} mL</td>
-                <td className="figures pr-2 whitespace-nowrap">{formatFigure(jar.settlingMinutes, 0)} min</td>
-                <td className="figures pr-2 whitespace-nowrap">{jar.turbidityNtu === null ? "–" : `${formatFigure(jar.turbidityNtu, 1)} NTU`}</td>
+                <td className="text-right figures py-1 pr-2 whitespace-nowrap">{formatFigure(jar.doseMgPerL, 2)} mg/L</td>
+                <td className="text-right figures pr-2 whitespace-nowrap">{formatFigure(jar.stockMl, 2)} mL</td>
+                <td className="text-right figures pr-2 whitespace-nowrap">{formatFigure(jar.settlingMinutes, 0)} min</td>
+                <td className="text-right figures pr-2 whitespace-nowrap">{jar.turbidityNtu === null ? "–" : `${formatFigure(jar.turbidityNtu, 1)} NTU`}</td>
                 <td className="pr-2 whitespace-nowrap">{jar.clarityLabel}</td>
-                <td className="figures whitespace-nowrap">{jar.turbidityRemoval === null ? "–" : `${formatFigure(jar.turbidityRemoval * 100, 0)} %`}</td>
+                <td className="text-right figures whitespace-nowrap">{jar.turbidityRemoval === null ? "–" : `${formatFigure(jar.turbidityRemoval * 100, 0)} %`}</td>
               </tr>
             ))}
           </tbody>

@@ -72,17 +72,17 @@ export default function SedimentSamples({ loaderData, actionData }: Route.Compon
         {loaderData.samples.length === 0 ? <p className="text-sm text-muted">No lab results yet.</p> : (
           <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Sediment samples, scrollable">
             <table className="w-full border-collapse text-sm">
-              <thead><tr className="border-b border-line text-left"><th className="py-1 pr-2">Date</th><th className="pr-2">Zone · cell</th><th className="pr-2">Solids</th><th className="pr-2">Dry bulk density</th><th className="pr-2">Organic matter</th><th className="pr-2">Total N (mg/kg)</th><th className="pr-2">Total P (mg/kg)</th><th>Lab · report</th></tr></thead>
+              <thead><tr className="border-b border-line text-left"><th className="py-1 pr-2">Date</th><th className="pr-2">Zone · cell</th><th className="pr-2 text-right">Solids</th><th className="pr-2 text-right">Dry bulk density</th><th className="pr-2 text-right">Organic matter</th><th className="pr-2 text-right">Total N (mg/kg)</th><th className="pr-2 text-right">Total P (mg/kg)</th><th>Lab · report</th></tr></thead>
               <tbody>
                 {loaderData.samples.map((sample) => (
                   <tr key={sample.id} className="border-b border-line">
                     <td className="figures py-1 pr-2 whitespace-nowrap">{sample.date}</td>
                     <td className="pr-2">{sample.zone?.name ?? "whole project"}{sample.cell ? ` · ${sample.cell}` : ""}</td>
-                    <td className="figures pr-2">{formatFigure(sample.percentSolids, 1)} %</td>
-                    <td className="figures pr-2 whitespace-nowrap">{formatFigure(sample.dryBulkDensity.value, 2)} {sample.dryBulkDensity.label}</td>
-                    <td className="figures pr-2">{sample.organicMatterPercent === null ? "–" : `${formatFigure(sample.organicMatterPercent, 1)} %`}</td>
-                    <td className="figures pr-2">{formatFigure(sample.totalNitrogenMgKg, 0)}</td>
-                    <td className="figures pr-2">{formatFigure(sample.totalPhosphorusMgKg, 0)}</td>
+                    <td className="text-right figures pr-2">{formatFigure(sample.percentSolids, 1)} %</td>
+                    <td className="text-right figures pr-2 whitespace-nowrap">{formatFigure(sample.dryBulkDensity.value, 2)} {sample.dryBulkDensity.label}</td>
+                    <td className="text-right figures pr-2">{sample.organicMatterPercent === null ? "–" : `${formatFigure(sample.organicMatterPercent, 1)} %`}</td>
+                    <td className="text-right figures pr-2">{formatFigure(sample.totalNitrogenMgKg, 0)}</td>
+                    <td className="text-right figures pr-2">{formatFigure(sample.totalPhosphorusMgKg, 0)}</td>
                     <td>{[sample.lab, sample.reportNumber].filter(Boolean).join(" · ") || "–"}</td>
                   </tr>
                 ))}

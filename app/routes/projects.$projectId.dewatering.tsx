@@ -115,8 +115,8 @@ function ShiftTable({ shifts }: { shifts: Route.ComponentProps["loaderData"]["sh
       <table className="w-full border-collapse text-sm">
         <thead>
           <tr className="border-b border-line text-left">
-            <th className="py-1 pr-2">Date</th><th className="pr-2">Time</th><th className="pr-2">Pump h</th><th className="pr-2">Flow</th>
-            <th className="pr-2">Solids</th><th className="pr-2">Dose</th><th className="pr-2">Stock feed</th><th className="pr-2">Dry solids</th><th className="pr-2">Polymer per dry ton</th><th>Tubes</th>
+            <th className="py-1 pr-2">Date</th><th className="pr-2">Time</th><th className="pr-2 text-right">Pump h</th><th className="pr-2 text-right">Flow</th>
+            <th className="pr-2 text-right">Solids</th><th className="pr-2 text-right">Dose</th><th className="pr-2 text-right">Stock feed</th><th className="pr-2 text-right">Dry solids</th><th className="pr-2 text-right">Polymer per dry ton</th><th>Tubes</th>
           </tr>
         </thead>
         <tbody>
@@ -124,13 +124,13 @@ function ShiftTable({ shifts }: { shifts: Route.ComponentProps["loaderData"]["sh
             <tr key={shift.id} className="border-b border-line align-top">
               <td className="figures py-1 pr-2 whitespace-nowrap">{shift.date}</td>
               <td className="figures pr-2 whitespace-nowrap">{shift.start}–{shift.end}</td>
-              <td className="figures pr-2">{formatFigure(shift.pumpHours, 2)}</td>
-              <td className="figures pr-2 whitespace-nowrap">{formatFigure(shift.slurryFlow.value, 0)} {shift.slurryFlow.label}</td>
-              <td className="figures pr-2 whitespace-nowrap">{shift.solidsByWeight !== null ? `Cw ${formatFigure(shift.solidsByWeight * 100, 1)} %` : shift.slurrySpecificGravity !== null ? `SG ${shift.slurrySpecificGravity}` : "–"}</td>
-              <td className="figures pr-2 whitespace-nowrap" title={shift.polymer ? [shift.polymer.product, shift.polymer.lot].filter(Boolean).join(", ") : undefined}>{shift.polymer ? `${shift.polymer.doseMgPerL} mg/L` : "–"}</td>
-              <td className="figures pr-2 whitespace-nowrap">{shift.computed.stockFeedRate ? `${formatFigure(shift.computed.stockFeedRate.value, 1)} ${shift.computed.stockFeedRate.label}` : "–"}</td>
-              <td className="figures pr-2 whitespace-nowrap">{shift.computed.drySolids ? `${formatFigure(shift.computed.drySolids.value, 1)} ${shift.computed.drySolids.label}` : "–"}</td>
-              <td className="figures pr-2 whitespace-nowrap">{shift.computed.polymerPerDryTon ? `${formatFigure(shift.computed.polymerPerDryTon.value, 2)} ${shift.computed.polymerPerDryTon.label}` : "–"}</td>
+              <td className="figures pr-2 text-right">{formatFigure(shift.pumpHours, 2)}</td>
+              <td className="figures pr-2 text-right whitespace-nowrap">{formatFigure(shift.slurryFlow.value, 0)} {shift.slurryFlow.label}</td>
+              <td className="figures pr-2 text-right whitespace-nowrap">{shift.solidsByWeight !== null ? `Cw ${formatFigure(shift.solidsByWeight * 100, 1)} %` : shift.slurrySpecificGravity !== null ? `SG ${shift.slurrySpecificGravity}` : "–"}</td>
+              <td className="figures pr-2 text-right whitespace-nowrap" title={shift.polymer ? [shift.polymer.product, shift.polymer.lot].filter(Boolean).join(", ") : undefined}>{shift.polymer ? `${shift.polymer.doseMgPerL} mg/L` : "–"}</td>
+              <td className="figures pr-2 text-right whitespace-nowrap">{shift.computed.stockFeedRate ? `${formatFigure(shift.computed.stockFeedRate.value, 1)} ${shift.computed.stockFeedRate.label}` : "–"}</td>
+              <td className="figures pr-2 text-right whitespace-nowrap">{shift.computed.drySolids ? `${formatFigure(shift.computed.drySolids.value, 1)} ${shift.computed.drySolids.label}` : "–"}</td>
+              <td className="figures pr-2 text-right whitespace-nowrap">{shift.computed.polymerPerDryTon ? `${formatFigure(shift.computed.polymerPerDryTon.value, 2)} ${shift.computed.polymerPerDryTon.label}` : "–"}</td>
               <td>{shift.tubes.join(", ") || "–"}</td>
             </tr>
           ))}

@@ -125,8 +125,8 @@ export default function DewateringTubes({ loaderData, actionData }: Route.Compon
             <table className="w-full border-collapse text-sm">
               <thead>
                 <tr className="border-b border-line text-left">
-                  <th className="py-1 pr-2">Tube</th><th className="pr-2">Circumference × length ({register.lengthLabel})</th><th className="pr-2">Theoretical diameter</th>
-                  <th className="pr-2">Capacity ({register.massLabel} dry)</th><th className="pr-2">Delivered</th><th className="pr-2">Fill level</th><th className="pr-2">Fills</th><th>Status</th>
+                  <th className="py-1 pr-2">Tube</th><th className="pr-2">Circumference × length ({register.lengthLabel})</th><th className="pr-2 text-right">Theoretical diameter</th>
+                  <th className="pr-2 text-right">Capacity ({register.massLabel} dry)</th><th className="pr-2 text-right">Delivered</th><th className="pr-2">Fill level</th><th className="pr-2 text-right">Fills</th><th>Status</th>
                 </tr>
               </thead>
               <tbody>
@@ -134,15 +134,15 @@ export default function DewateringTubes({ loaderData, actionData }: Route.Compon
                   <tr key={tube.id} className="border-b border-line align-top" data-testid={`tube-${tube.name}`}>
                     <td className="py-1 pr-2"><span className="font-medium">{tube.name}</span>{tube.position ? <span className="block text-xs text-muted">on the map</span> : null}</td>
                     <td className="figures pr-2 whitespace-nowrap">{formatFigure(tube.circumference, 1)} × {formatFigure(tube.length, 0)}</td>
-                    <td className="figures pr-2 whitespace-nowrap">{formatFigure(tube.theoreticalDiameter, 2)} {register.lengthLabel}</td>
-                    <td className="figures pr-2">{formatFigure(tube.capacity, 1)}</td>
-                    <td className="figures pr-2">{formatFigure(tube.drySolidsDelivered, 1)}</td>
+                    <td className="text-right figures pr-2 whitespace-nowrap">{formatFigure(tube.theoreticalDiameter, 2)} {register.lengthLabel}</td>
+                    <td className="text-right figures pr-2">{formatFigure(tube.capacity, 1)}</td>
+                    <td className="text-right figures pr-2">{formatFigure(tube.drySolidsDelivered, 1)}</td>
                     <td className="pr-2 min-w-28">
                       <span className="figures">{formatFigure(tube.fillLevel * 100, 0)} %</span>
                       <div className="mt-1 h-1.5 w-full rounded bg-paper" role="presentation"><div className={`h-1.5 rounded ${tube.nearCapacity ? "bg-danger" : "bg-lagoon"}`} style={{ width: `${Math.min(100, tube.fillLevel * 100)}%` }} /></div>
                       {tube.nearCapacity ? <p className="mt-1 text-xs font-semibold text-danger" data-testid="near-capacity">Near capacity: rupture risk</p> : null}
                     </td>
-                    <td className="figures pr-2">{tube.fills.length}</td>
+                    <td className="text-right figures pr-2">{tube.fills.length}</td>
                     <td>
                       {loaderData.canLog ? (
                         <Form method="post" className="flex gap-1">

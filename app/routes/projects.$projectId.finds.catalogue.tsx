@@ -44,7 +44,7 @@ export default function FindsCatalogueSheet({ loaderData }: Route.ComponentProps
       <h1 className="text-2xl font-semibold">Finds catalogue</h1>
       <p className="mt-1 text-sm font-semibold text-danger">CONFIDENTIAL: site locations. Not for public release.</p>
       <p className="mt-1 text-sm">{project.name} · positions in {project.crs}, depths in {project.lengthLabel}, times in {project.timeZone}</p>
-      <div className="mt-4 overflow-x-auto">
+      <div className="mt-4 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Finds catalogue, scrollable">
         <table className="w-full border-collapse text-xs" aria-label="Finds catalogue">
           <thead>
             <tr>

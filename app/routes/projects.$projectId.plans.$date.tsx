@@ -172,14 +172,14 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
                 {team.name} lists {team.members.length} people, below the project's minimum team size of {plan.minTeamSize}.
               </p>
             ) : null}
-            <div className="overflow-x-auto">
+            <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label={`Cells for ${team.name}, scrollable`}>
               <table className="w-full border-collapse text-sm">
                 <thead>
                   <tr className="border-b border-line text-left">
                     <th className="py-1 pr-2">Cell</th><th className="pr-2">Zone</th><th className="pr-2">Hose</th>
-                    <th className="pr-2">Working depth ({plan.lengthLabel})</th><th className="pr-2">No-decompression figure</th>
-                    <th className="pr-2">Bottom time</th><th className="pr-2">Remaining thickness ({plan.lengthLabel})</th>
-                    <th className="pr-2">Remaining ({plan.volumeLabel})</th><th>Notes</th>
+                    <th className="pr-2 text-right">Working depth ({plan.lengthLabel})</th><th className="pr-2">No-decompression figure</th>
+                    <th className="pr-2 text-right">Bottom time</th><th className="pr-2 text-right">Remaining thickness ({plan.lengthLabel})</th>
+                    <th className="pr-2 text-right">Remaining ({plan.volumeLabel})</th><th>Notes</th>
                   </tr>
                 </thead>
                 <tbody>
@@ -188,19 +188,19 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
                       <td className="figures py-1 pr-2">{cell.label}</td>
                       <td className="pr-2">{cell.zone ?? "—"}</td>
                       <td className="pr-2">{cell.hose}</td>
-                      <td className="figures pr-2">{cell.workingDepth?.toFixed(1) ?? "—"}</td>
+                      <td className="figures pr-2 text-right">{cell.workingDepth?.toFixed(1) ?? "—"}</td>
                       <td className="pr-2">{ndlText(cell)}</td>
-                      <td className={`pr-2 ${cell.noDecompression?.exceeds ? "font-semibold text-danger" : ""}`}>
+                      <td className={`figures pr-2 text-right ${cell.noDecompression?.exceeds ? "font-semibold text-danger" : ""}`}>
                         {cell.plannedBottomMinutes === null ? "—" : `${cell.plannedBottomMinutes} min${cell.noDecompression?.exceeds ? " — exceeds the figure" : ""}`}
                       </td>
-                      <td className="figures pr-2">{cell.remainingThickness?.toFixed(2) ?? "—"}</td>
-                      <td className="figures pr-2">{cell.remainingVolume?.toFixed(1) ?? "—"}</td>
+                      <td className="figures pr-2 text-right">{cell.remainingThickness?.toFixed(2) ?? "—"}</td>
+                      <td className="figures pr-2 text-right">{cell.remainingVolume?.toFixed(1) ?? "—"}</td>
                       <td>{[cell.notes, cell.confirmedReason ? `Confirmed cell reopened: ${cell.confirmedReason}` : ""].filter(Boolean).join(" · ") || "—"}</td>
                     </tr>
                   ))}
                 </tbody>
                 <tfoot>
-                  <tr><td colSpan={7} className="py-1 pr-2 text-right">Remaining in {team.name}'s cells</td><td className="figures">{remainingVolume.toFixed(1)}</td><td /></tr>
+                  <tr><td colSpan={7} className="py-1 pr-2 text-right">Remaining in {team.name}'s cells</td><td className="figures pr-2 text-right">{remainingVolume.toFixed(1)}</td><td /></tr>
                 </tfoot>
               </table>
             </div>
@@ -250,12 +250,12 @@ function diveFigure(dive: DiveView): { text: string; beyond: boolean } {
 function DiveLog({ teamName, dives, lengthLabel, findsHref }: { teamName: string; dives: DiveView[]; lengthLabel: string; findsHref: string | null }) {
   if (dives.length === 0) return <p className="text-sm text-muted">No dives logged for {teamName} on this date.</p>;
   return (
-    <div className="overflow-x-auto">
+    <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label={`Dives logged for ${teamName}, scrollable`}>
     <table className="w-full border-collapse text-sm" aria-label={`Dives logged for ${teamName}`}>
       <thead>
         <tr className="border-b border-line text-left">
-          <th className="py-1 pr-2">Diver</th><th className="pr-2">Left surface</th><th className="pr-2">Left bottom</th><th className="pr-2">Bottom time</th>
-          <th className="pr-2">Max depth ({lengthLabel})</th><th className="pr-2">No-decompression figure</th><th className="pr-2">Cells</th><th>Notes</th>{findsHref ? <th className="no-print pl-2"><span className="sr-only">Finds</span></th> : null}
+          <th className="py-1 pr-2">Diver</th><th className="pr-2">Left surface</th><th className="pr-2">Left bottom</th><th className="pr-2 text-right">Bottom time</th>
+          <th className="pr-2 text-right">Max depth ({lengthLabel})</th><th className="pr-2">No-decompression figure</th><th className="pr-2">Cells</th><th>Notes</th>{findsHref ? <th className="no-print pl-2"><span className="sr-only">Finds</span></th> : null}
         </tr>
       </thead>
       <tbody>
@@ -264,14 +264,14 @@ function DiveLog({ teamName, dives, lengthLabel, findsHref }: { teamName: string
           return (
             <tr key={dive.id} className="border-b border-line">
               <td className="py-1 pr-2">{dive.diver}{dive.visitor ? <span className="ml-1 rounded border border-caution px-1 text-xs text-caution" data-testid="dive-visitor">visitor</span> : null}</td>
-              <td className="pr-2">{dive.leftSurface ?? "—"}</td>
-              <td className="pr-2">{dive.leftBottom ?? "—"}</td>
-              <td className={`pr-2 ${figure.beyond ? "font-semibold text-danger" : ""}`} data-testid={figure.beyond ? "dive-flag" : undefined}>
+              <td className="figures pr-2">{dive.leftSurface ?? "—"}</td>
+              <td className="figures pr-2">{dive.leftBottom ?? "—"}</td>
+              <td className={`figures pr-2 text-right ${figure.beyond ? "font-semibold text-danger" : ""}`} data-testid={figure.beyond ? "dive-flag" : undefined}>
                 {dive.bottomMinutes} min{figure.beyond ? " — beyond the table's figure (information only: the dive plan, safety manual and diving standard decide)" : ""}
               </td>
-              <td className="pr-2">{dive.maxDepth.toFixed(1)}</td>
+              <td className="figures pr-2 text-right">{dive.maxDepth.toFixed(1)}</td>
               <td className="pr-2">{figure.text}</td>
-              <td className="pr-2">{dive.cells.join(", ")}</td>
+              <td className="figures pr-2">{dive.cells.join(", ")}</td>
               <td>{dive.notes || "—"}</td>
               {findsHref ? (
                 <td className="no-print pl-2">

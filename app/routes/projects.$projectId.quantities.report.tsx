@@ -68,9 +68,11 @@ export function meta({ data: report }: Route.MetaArgs) {
 const printCss = `
 @media print {
   body > header, .no-print { display: none !important; }
-  body { background: #fff; }
+  html, body { background: #fff; }
   @page { size: letter portrait; margin: 18mm; }
   table { page-break-inside: avoid; }
+  /* US letter less its margins is about 680 CSS px: tables at 9 pt (12 px) keep every column on the paper. */
+  main table { font-size: 12px; line-height: 1.35; }
   [role="region"] { overflow: visible !important; }
 }`;
 

@@ -98,7 +98,7 @@ export default function Quantities({ loaderData, actionData }: Route.ComponentPr
       </section>
       <section aria-labelledby="zone-totals" className="rounded border border-line bg-panel p-4">
         <h2 id="zone-totals" className="font-semibold">Totals per zone</h2>
-        <div className="overflow-x-auto">
+        <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Totals per zone, scrollable">
           <table className="mt-2 w-full text-right text-sm">
             <thead><tr className="border-b border-line"><th className="py-1 text-left font-sans">Zone</th><th>Planned</th><th>Removed</th><th>Remaining</th><th>Complete</th></tr></thead>
             <tbody>

@@ -8,7 +8,10 @@ import { requireRole } from "~/lib/auth/access.server";
 import { clientAddress } from "~/lib/http/client-address.server";
 import { setSurveyStatus } from "~/lib/import/commit.server";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
-import { getSurveyDetails, listSoundings, sampleSoundingPositions } from "~/models/survey.server";
+import { getSurveyDetails, listSoundings, sampleSoundingPositions, setSurveyVerticalBias } from "~/models/survey.server";
+import { verticalBiasFromFields, type FieldProblem } from "~/lib/import/form-fields";
+import { VerticalBiasFields } from "~/components/vertical-bias-fields";
+import { verticalBiasWords } from "../../shared/qa/vertical-bias";
 import { plotOf } from "../../shared/soundings/prepare";
 import { lengthUnitSchema, unitLabel } from "../../shared/units";
 import type { Route } from "./+types/projects.$projectId.surveys.$surveyId";
@@ -34,6 +37,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       return unit.success ? { short: unitLabel(unit.data), long: unitLabel(unit.data, "length-long") } : { short: survey.lengthUnit, long: survey.lengthUnit };
     })(),
     canRetract: can(access, "surveys.retract"),
+    // Whoever may import surveys may say how far a survey's vertical reference may be off.
+    canSetBias: can(access, "surveys.import"),
     survey,
     soundings,
     plot: points.length > 0 || (geometry.workLimit?.length ?? 0) > 0 ? plotOf(points, geometry.workLimit) : null,
@@ -46,10 +51,14 @@ const statusSchema = z.discriminatedUnion("intent", [
 ]);
 
 export async function action({ request, params }: Route.ActionArgs) {
+  // A member of the project first; each intent then asks for its own permission.
+  await requireRole(request, params.projectId);
+  const form = Object.fromEntries(await readPageForm(request)) as Record<string, string>;
+  if (form.intent === "bias" || form.intent === "clear-bias") return biasAction(request, params, form);
   const { project, user } = await requireRole(request, params.projectId, "surveys.retract");
   const surveyId = idSchema.safeParse(params.surveyId);
   if (!surveyId.success) throw new Response("There is no such survey in this project.", { status: 404 });
-  const parsed = statusSchema.safeParse(Object.fromEntries(await readPageForm(request)));
+  const parsed = statusSchema.safeParse(form);
   if (!parsed.success) return data({ error: parsed.error.issues[0]?.message ?? "Check the form." }, { status: 400 });
   const survey = await setSurveyStatus({
     projectId: project.id,
@@ -61,6 +70,20 @@ export async function action({ request, params }: Route.ActionArgs) {
   });
   if (!survey) throw new Response("There is no such survey in this project.", { status: 404 });
   return data({ error: null, done: parsed.data.intent === "retract" ? "The survey is retracted and the statistics are recomputed without it." : "The survey is restored and the statistics are recomputed." });
+}
+
+/** Records or clears the survey's vertical-reference bias; a refused value names its field. */
+async function biasAction(request: Request, params: Route.ActionArgs["params"], form: Record<string, string>) {
+  const { project, user } = await requireRole(request, params.projectId, "surveys.import");
+  const surveyId = idSchema.safeParse(params.surveyId);
+  if (!surveyId.success) throw new Response("There is no such survey in this project.", { status: 404 });
+  const problems: FieldProblem[] = [];
+  const bias = form.intent === "clear-bias" ? null : verticalBiasFromFields(form, project.lengthUnit, problems);
+  if (form.intent === "bias" && bias === null && problems.length === 0) problems.push({ field: "verticalBiasValue", message: "Give the bias and where it comes from, or clear it." });
+  if (problems.length > 0) return data({ error: problems.map((problem) => problem.message).join(" "), biasProblems: problems }, { status: 422 });
+  const saved = await setSurveyVerticalBias(project, { surveyId: surveyId.data, userId: user.id, ip: clientAddress(request), bias });
+  if (saved === undefined) throw new Response("There is no such survey in this project.", { status: 404 });
+  return data({ error: null, done: saved ? `Reference bias recorded: ${verticalBiasWords(saved)}. Pay periods that use this survey now carry it in their ±.` : "Reference bias cleared." });
 }
 
 export function meta({ loaderData }: Route.MetaArgs) {
@@ -90,7 +113,19 @@ export default function SurveyPage({ loaderData, actionData }: Route.ComponentPr
         <div><dt className="text-muted">Water surface</dt><dd>{survey.fileHasElevations ? "file has elevations" : `${number(survey.waterSurfaceElevation)} ${loaderData.surveyUnit.short} ${survey.datum}`}</dd></div>
         <div><dt className="text-muted">Coordinates</dt><dd>{survey.crs}, depths in {loaderData.surveyUnit.long}</dd></div>
         <div><dt className="text-muted">Time zone</dt><dd>{survey.timeZone}</dd></div>
+        <div className="sm:col-span-3"><dt className="text-muted">Reference bias (95 %)</dt><dd data-testid="survey-bias">{survey.verticalBias ? <><span className="figures">± {survey.verticalBias.value} {unitLabel(survey.verticalBias.unit)}</span> — {survey.verticalBias.source}</> : "none recorded"}</dd></div>
       </dl>
+
+      {loaderData.canSetBias ? (
+        <Form method="post" className="space-y-3 rounded border border-line bg-panel p-4" aria-labelledby="bias-heading">
+          <h3 id="bias-heading" className="font-medium">Reference bias</h3>
+          <VerticalBiasFields projectUnit={loaderData.lengthUnit} current={survey.verticalBias} />
+          <div className="flex flex-wrap gap-3">
+            <SubmitButton intent="bias" pendingLabel="Saving…">Save the bias</SubmitButton>
+            {survey.verticalBias ? <SubmitButton intent="clear-bias" tone="plain" pendingLabel="Clearing…">Clear it</SubmitButton> : null}
+          </div>
+        </Form>
+      ) : null}
 
       <div className="rounded border border-line bg-panel p-4 text-sm">
         <h3 className="font-medium">QA summary</h3>
@@ -110,11 +145,11 @@ export default function SurveyPage({ loaderData, actionData }: Route.ComponentPr
           <>
             <table className="mt-2 w-full border-collapse text-xs">
               <caption className="sr-only">Soundings, page {soundings.page} of {soundings.pageCount}</caption>
-              <thead><tr className="text-left"><th scope="col" className="px-2">Row</th><th scope="col" className="px-2">Point</th><th scope="col" className="px-2 text-right">Easting</th><th scope="col" className="px-2 text-right">Northing</th><th scope="col" className="px-2 text-right">Depth</th><th scope="col" className="px-2 text-right">Probe</th><th scope="col" className="px-2 text-right">Elevation</th><th scope="col" className="px-2 text-right">Refusal elev.</th><th scope="col" className="px-2">Time</th></tr></thead>
+              <thead><tr className="text-left"><th scope="col" className="px-2 text-right">Row</th><th scope="col" className="px-2">Point</th><th scope="col" className="px-2 text-right">Easting</th><th scope="col" className="px-2 text-right">Northing</th><th scope="col" className="px-2 text-right">Depth</th><th scope="col" className="px-2 text-right">Probe</th><th scope="col" className="px-2 text-right">Elevation</th><th scope="col" className="px-2 text-right">Refusal elev.</th><th scope="col" className="px-2">Time</th></tr></thead>
               <tbody>
                 {soundings.soundings.map((sounding) => (
                   <tr key={sounding.sourceRow} className="border-t border-line">
-                    <td className="px-2">{sounding.sourceRow}</td><td className="px-2">{sounding.pointId ?? "—"}</td>
+                    <td className="figures px-2 text-right">{sounding.sourceRow}</td><td className="figures px-2">{sounding.pointId ?? "—"}</td>
                     <td className="figures px-2 text-right">{number(sounding.easting)}</td><td className="figures px-2 text-right">{number(sounding.northing)}</td>
                     <td className="figures px-2 text-right">{number(sounding.depth)}</td><td className="figures px-2 text-right">{number(sounding.probe)}</td>
                     <td className="figures px-2 text-right">{number(sounding.elevation)}</td><td className="figures px-2 text-right">{number(sounding.refusalElevation)}</td>

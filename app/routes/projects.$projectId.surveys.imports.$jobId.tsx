@@ -186,11 +186,11 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
           </div>
           {/* Width 0 with a minimum of the whole row: the wide table scrolls inside its box and never
               widens the fieldset (a scroll box still lends its content's width to its parent's sizing). */}
-          <div className="mt-4 w-0 min-w-full overflow-x-auto">
+          <div className="mt-4 w-0 min-w-full overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="First rows of the file, scrollable">
             <table className="w-full border-collapse text-xs">
               <caption className="text-left text-sm text-muted">First rows of the file</caption>
               <thead><tr>{preview.shape.headers.map((header) => <th key={header} scope="col" className="whitespace-nowrap border-b border-line px-2 py-1 text-left [overflow-wrap:normal]">{header.length > 48 ? `${header.slice(0, 47)}…` : header}</th>)}</tr></thead>
-              <tbody>{preview.shape.firstRows.map((row, index) => <tr key={index}>{row.map((cell, cellIndex) => <td key={cellIndex} className="whitespace-nowrap border-b border-line px-2 py-1 [overflow-wrap:normal]">{cell.length > 48 ? `${cell.slice(0, 47)}…` : cell}</td>)}</tr>)}</tbody>
+              <tbody>{preview.shape.firstRows.map((row, index) => <tr key={index}>{row.map((cell, cellIndex) => <td key={cellIndex} className={`figures whitespace-nowrap border-b border-line px-2 py-1 [overflow-wrap:normal] ${/^[-+]?\d[\d.,]*$/.test(cell.trim()) ? "text-right" : ""}`}>{cell.length > 48 ? `${cell.slice(0, 47)}…` : cell}</td>)}</tr>)}</tbody>
             </table>
           </div>
         </fieldset>
@@ -227,14 +227,14 @@ export default function ImportJobPage({ loaderData, actionData }: Route.Componen
               <div className="mt-2 max-h-96 overflow-auto">
                 <table className="w-full border-collapse text-sm" data-testid="problems-table">
                   <caption className="sr-only">Row problems</caption>
-                  <thead><tr className="text-left"><th scope="col" className="px-2">Leave out</th><th scope="col" className="px-2">Row</th><th scope="col" className="px-2">Column</th><th scope="col" className="px-2">Value</th><th scope="col" className="px-2">Rule</th><th scope="col" className="px-2">Problem</th></tr></thead>
+                  <thead><tr className="text-left"><th scope="col" className="px-2">Leave out</th><th scope="col" className="px-2 text-right">Row</th><th scope="col" className="px-2">Column</th><th scope="col" className="px-2">Value</th><th scope="col" className="px-2">Rule</th><th scope="col" className="px-2">Problem</th></tr></thead>
                   <tbody>
                     {preview.problems.map((problem, index) => (
                       <tr key={index} className="border-t border-line">
                         <td className="px-2">{firstOfRow.get(problem.row) === index ? <input type="checkbox" name="excludeRow" value={problem.row} defaultChecked={excluded.has(problem.row)} aria-label={`Leave out row ${problem.row}`} /> : null}</td>
-                        <td className="px-2">{problem.row}</td>
+                        <td className="figures px-2 text-right">{problem.row}</td>
                         <td className="px-2">{problem.column || "—"}</td>
-                        <td className="px-2">{problem.value || "—"}</td>
+                        <td className="figures px-2">{problem.value || "—"}</td>
                         <td className="px-2">{problem.rule}</td>
                         <td className="px-2">{problem.message}</td>
                       </tr>

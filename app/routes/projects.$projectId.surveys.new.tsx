@@ -2,6 +2,7 @@ import { unitLabel } from "../../shared/units";
 import { useRef, useState } from "react";
 import { Form, data, redirect, useNavigation } from "react-router";
 import { FormMessage } from "~/components/form-message";
+import { VerticalBiasFields } from "~/components/vertical-bias-fields";
 import { LengthUnitOptions } from "~/components/length-unit-options";
 import { requireRole } from "~/lib/auth/access.server";
 import { DEFAULT_TIME_ZONE, receivePageUpload } from "~/lib/import/page-upload.server";
@@ -143,6 +144,7 @@ export default function UploadSurvey({ loaderData, actionData }: Route.Component
               <input id="datum" name="datum" defaultValue="NAVD88" className={fieldClass} />
             </div>
           </div>
+          <VerticalBiasFields projectUnit={loaderData.lengthUnit} />
         </fieldset>
 
         <fieldset className="grid gap-4 sm:grid-cols-2">

@@ -271,7 +271,7 @@ export default function WaterQuality({ loaderData, actionData }: Route.Component
       <section aria-labelledby="recent-heading">
         <h3 id="recent-heading" className="text-lg font-semibold">Latest readings</h3>
         {loaderData.readings.length === 0 ? <p className="mt-2 text-sm text-muted">None.</p> : (
-          <div className="mt-2 overflow-x-auto">
+          <div className="mt-2 overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Latest readings, scrollable">
             <table className="w-full text-sm">
               <thead><tr className="border-b border-line text-left"><th className="py-1 pr-3">Time</th><th className="pr-3">Station</th><th className="pr-3 text-right">Value</th><th className="pr-3">Verdict</th><th className="pr-3">Sampled by</th><th>Photo</th></tr></thead>
               <tbody>

@@ -43,6 +43,10 @@ export class Survey extends Model<InferAttributes<Survey>, InferCreationAttribut
   declare qa: Record<string, unknown>;
   /** Share (0–1) of the work limit's cells this survey covered, when known. */
   declare coverage: CreationOptional<number | null>;
+  /** The most the survey's vertical reference (water level, datum) may be off, 95 %, as entered: value, its unit and where it comes from; all null when none is recorded. */
+  declare verticalBiasValue: CreationOptional<number | null>;
+  declare verticalBiasUnit: CreationOptional<"us-ft" | "ft" | "m" | null>;
+  declare verticalBiasSource: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare uploadedBy?: NonAttribute<User | null>;
@@ -70,6 +74,9 @@ export function initSurvey(sequelize: Sequelize) {
       retractedAt: { type: DataTypes.DATE, allowNull: true },
       qa: jsonColumn("surveys", "qa", jsonObject),
       coverage: { type: DataTypes.DOUBLE, allowNull: true },
+      verticalBiasValue: { type: DataTypes.DOUBLE, allowNull: true },
+      verticalBiasUnit: { type: DataTypes.ENUM("us-ft", "ft", "m"), allowNull: true },
+      verticalBiasSource: { type: DataTypes.STRING(200), allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

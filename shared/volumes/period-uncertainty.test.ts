@@ -37,7 +37,7 @@ function period(bottoms: Parameters<typeof site>[0], from: number, to: number) {
 }
 
 const counts = (perCell: number[]) => Uint32Array.from(perCell);
-const fromWater = (order: SurveyOrder, soundings: number[], level = 0): BandSurvey => ({ ...tvuCoefficients(order, "m"), waterSurfaceElevation: level, fallbackDepth: null, soundingsPerCell: counts(soundings) });
+const fromWater = (order: SurveyOrder, soundings: number[], level = 0): BandSurvey => ({ ...tvuCoefficients(order, "m"), waterSurfaceElevation: level, fallbackDepth: null, soundingsPerCell: counts(soundings), bias: 0 });
 /** TVU² of IHO S-44 at depth d (m), written out from table 1's formula. */
 const tvuSquared = (order: SurveyOrder, depth: number) => TVU_COEFFICIENTS[order].aM ** 2 + (TVU_COEFFICIENTS[order].b * depth) ** 2;
 
@@ -96,7 +96,7 @@ describe("the removed volume's band from the surveys' vertical uncertainty", () 
 
   it("a survey without a water surface takes its median depth, else a alone", () => {
     const { band } = period([[-1, -1], [-2, -1]], 0, 1);
-    const median = (depth: number | null): BandSurvey => ({ ...tvuCoefficients("special", "m"), waterSurfaceElevation: null, fallbackDepth: depth, soundingsPerCell: counts([4, 4]) });
+    const median = (depth: number | null): BandSurvey => ({ ...tvuCoefficients("special", "m"), waterSurfaceElevation: null, fallbackDepth: depth, soundingsPerCell: counts([4, 4]), bias: 0 });
     // computed from S-44: Special order at d = 5 m, TVU = 0.252797 m (shared/REFERENCES.md); 400 m² × TVU × √(1/4 + 1/4)
     expect(allowedTvuM("special", 5)).toBeCloseTo(0.252797, 6);
     expect(band([median(5), median(5)]).bandCubicLength).toBeCloseTo(400 * 0.252797 * Math.SQRT1_2, 2);
@@ -111,5 +111,61 @@ describe("the removed volume's band from the surveys' vertical uncertainty", () 
     const result = band([fromWater("special", [4, 4]), fromWater("2", [9, 0]), { ...fromWater("exclusive", [0, 0]), a: 100 }]);
     // computed: √(400² · TVU²_special(1)/4 + 400² · TVU²_order2(2)/9)
     expect(result.bandCubicLength).toBeCloseTo(Math.sqrt((400 ** 2 * tvuSquared("special", 1)) / 4 + (400 ** 2 * tvuSquared("2", 2)) / 9), 9);
+  });
+});
+
+describe("a survey's vertical-reference bias in the removed volume's band", () => {
+  // IHO S-44 ed. 6.0.0 (2020), section 2 and table 1: TVU is the uncertainty of the reduced depth
+  // at 95 %; a bias of the vertical reference (water level, datum) is systematic, so it moves the
+  // whole surface together and does not average down over soundings or cells.
+  const noRandom = (soundings: number[], bias: number): BandSurvey => ({ a: 0, b: 0, waterSurfaceElevation: 0, fallbackDepth: null, soundingsPerCell: counts(soundings), bias });
+
+  it("enters as area × bias per end, the two surveys' biases in quadrature (closed form by hand)", () => {
+    // One 20 × 20 m cell (400 m²) lowered 1 m; the start survey's reference may be off 0.05 m, the end's 0.10 m; no random error.
+    const { band } = period([[-1, -1], [-2, -1]], 0, 1);
+    const result = band([noRandom([4, 4], 0.05), noRandom([4, 4], 0.1)]);
+    // computed by hand: √((400 × 0.05)² + (400 × 0.10)²) = √(400 + 1600) = √2000 = 44.7214 m³
+    expect(result.bandCubicLength).toBeCloseTo(44.7214, 4);
+  });
+
+  it("does not shrink with more soundings, unlike the random part", () => {
+    const { band } = period([[-1, -1], [-2, -1]], 0, 1);
+    const biased = (n: number) => band([{ ...fromWater("special", [n, 0]), bias: 0.1 }, { ...fromWater("special", [n, 0]), bias: 0.1 }]);
+    // computed by hand: random part 400² × TVU²/n per end (TVU² = 0.25² + (0.0075·1)² = 0.06255625 at 1 m,
+    // 0.25² + (0.0075·2)² = 0.062725 at 2 m); bias part (400 × 0.1)² per end = 1600 m⁶, whatever n
+    const expected = (n: number) => Math.sqrt((160000 * (0.06255625 + 0.062725)) / n + 2 * 1600);
+    expect(biased(4).bandCubicLength).toBeCloseTo(expected(4), 9);
+    expect(biased(10000).bandCubicLength).toBeCloseTo(expected(10000), 9);
+    // with ten thousand soundings the band is nearly the bias alone: 400 × 0.1 × √2 = 56.5685 m³
+    expect(biased(10000).bandCubicLength).toBeCloseTo(56.5685, 1);
+    // negative control: without the bias, many soundings shrink the band to almost nothing
+    expect(band([fromWater("special", [10000, 0]), fromWater("special", [10000, 0])]).bandCubicLength).toBeLessThan(2);
+  });
+
+  it("adds a survey's cells before squaring: two cells on one survey count 2 × area, not √2 × area", () => {
+    // Both cells lowered 1 m between the baseline and the second survey; only the baseline's reference is biased (0.1 m).
+    const { band } = period([[-1, -1], [-2, -2]], 0, 1);
+    const result = band([noRandom([4, 4], 0.1), noRandom([4, 4], 0)]);
+    // computed by hand: (400 + 400) m² × 0.1 m = 80 m³ (per cell in quadrature it would be √2 × 40 = 56.57 m³)
+    expect(result.bandCubicLength).toBeCloseTo(80, 9);
+  });
+
+  it("a cell resting on another survey at the end counts that survey's bias with its own area", () => {
+    // Three surveys: both cells lowered by the second; the third sounded cell A only (lowered again).
+    // Period baseline → third: A starts on the baseline and ends on the third; B starts on the baseline and ends on the second.
+    const { band } = period([[-1, -1], [-2, -2], [-3, -2]], 0, 2);
+    const result = band([noRandom([4, 4], 0.1), noRandom([4, 4], 0.2), noRandom([4, 0], 0.3)]);
+    // computed by hand: baseline 800 m² × 0.1 = 80; second 400 × 0.2 = 80; third 400 × 0.3 = 120;
+    // √(80² + 80² + 120²) = √(6400 + 6400 + 14400) = √27200 = 164.9242 m³
+    expect(result.bandCubicLength).toBeCloseTo(164.9242, 4);
+  });
+
+  it("a survey whose cells are at both ends of the period cancels (it did not move them)", () => {
+    // Period second → third: cell B rests on the second survey at both ends (the third did not sound it) and did not change;
+    // cell A starts on the second and ends on the third.
+    const { band } = period([[-1, -1], [-2, -2], [-3, -2]], 1, 2);
+    const result = band([noRandom([4, 4], 5), noRandom([4, 4], 0.2), noRandom([4, 0], 0.3)]);
+    // computed by hand: only A changed: √((400 × 0.2)² + (400 × 0.3)²) = √(6400 + 14400) = 144.2221 m³; the baseline's 5 m bias plays no part
+    expect(result.bandCubicLength).toBeCloseTo(144.2221, 4);
   });
 });

@@ -17,9 +17,15 @@ import { rollUpByZone } from "./rollup";
  * cell's volume carries area² × mean(TVU²)/n from each end. Cells and the two ends are independent,
  * so the terms add in quadrature; a cell whose bottom did not change in the period adds nothing.
  *
- * A systematic bias of the vertical reference (a water-level reading, the datum) shifts a whole
- * surface: it enters as the changed area × the bias, does not shrink with more soundings, and is
- * not in this band. `changedArea` is given so that it can be stated beside it.
+ * A systematic bias of a survey's vertical reference (a water-level reading, the datum), recorded
+ * per survey as the most its whole surface may be off (95 %), shifts every cell that survey's
+ * surface carries by the same amount: it enters as area × bias, added over the cells before it is
+ * squared, so it does not shrink with more soundings or more cells. Removed is the bottom at the
+ * start less the bottom at the end, so a survey's bias counts with the area it carries at the start
+ * less the area it carries at the end (a cell on the same survey at both ends has not changed and
+ * adds nothing). The surveys' biases are independent of each other and of the random part, so
+ * their terms add in quadrature with it. `changedArea` is given so that the volume per unit of
+ * bias can be stated beside the band.
  */
 export interface BandSurvey {
   /** IHO S-44 coefficients of the survey's order in the project length unit (`tvuCoefficients`): a, length; b, a ratio. */
@@ -31,6 +37,8 @@ export interface BandSurvey {
   fallbackDepth: number | null;
   /** Soundings of this survey per grid cell (engine order). */
   soundingsPerCell: Uint32Array;
+  /** The most the survey's vertical reference may be off (95 %), project length unit; 0 when none was recorded. */
+  bias: number;
 }
 
 /** The bottom's elevation over each cell's raster nodes with data: their count, mean and (population) variance. */
@@ -86,6 +94,8 @@ export interface RemovedBand {
 interface Accumulator {
   variance: number;
   changedArea: number;
+  /** Per survey in force: the area its bias moves removed by (length²), start ends less end ends. */
+  biasArea: Float64Array;
 }
 
 /**
@@ -102,23 +112,31 @@ export function removedVolumeBand(
   zoneCount: number,
   bottoms: { from: CellElevations; to: CellElevations },
 ) {
-  /** Variance (95 % scale) one end adds to a cell: the newest survey up to `end` that sounded it; the end's own survey once when none did (the surface was carried across a gap). */
-  const endVariance = (end: number, bottom: CellElevations, cell: number, area: number) => {
-    for (let position = end; position >= 0; position--) {
-      const soundings = surveys[position].soundingsPerCell[cell];
-      if (soundings > 0) return (area * area * meanTvuSquared(surveys[position], bottom, cell)) / soundings;
-    }
-    return area * area * meanTvuSquared(surveys[end], bottom, cell);
+  /** The survey a cell's surface rests on at `end`: the newest up to it that sounded the cell; the end's own when none did (the surface was carried across a gap). */
+  const restsOn = (end: number, cell: number) => {
+    for (let position = end; position >= 0; position--) if (surveys[position].soundingsPerCell[cell] > 0) return position;
+    return end;
   };
+  /** Variance (95 % scale) one end adds to a cell from its survey's random error, averaged over the cell's soundings. */
+  const endVariance = (position: number, bottom: CellElevations, cell: number, area: number) =>
+    (area * area * meanTvuSquared(surveys[position], bottom, cell)) / Math.max(1, surveys[position].soundingsPerCell[cell]);
   const rows = rollUpByZone<Accumulator>(
-    zoneOfCell, zoneCount, (cell) => stats.areaInLimit[cell] > 0, () => ({ variance: 0, changedArea: 0 }),
+    zoneOfCell, zoneCount, (cell) => stats.areaInLimit[cell] > 0, () => ({ variance: 0, changedArea: 0, biasArea: new Float64Array(surveys.length) }),
     (totals, cell) => {
       const area = stats.surveyedArea[cell];
       if (!(area > 0) || stats.removedVolumeCubicLength[cell] + stats.depositedVolumeCubicLength[cell] === 0) return;
-      totals.variance += endVariance(from, bottoms.from, cell, area) + endVariance(to, bottoms.to, cell, area);
+      const start = restsOn(from, cell);
+      const end = restsOn(to, cell);
+      totals.variance += endVariance(start, bottoms.from, cell, area) + endVariance(end, bottoms.to, cell, area);
       totals.changedArea += area;
+      totals.biasArea[start] += area;
+      totals.biasArea[end] -= area;
     },
   );
-  const band = (totals: Accumulator): RemovedBand => ({ bandCubicLength: Math.sqrt(totals.variance), changedArea: totals.changedArea });
+  const band = (totals: Accumulator): RemovedBand => {
+    let biasVariance = 0;
+    totals.biasArea.forEach((area, position) => { biasVariance += (area * surveys[position].bias) ** 2; });
+    return { bandCubicLength: Math.sqrt(totals.variance + biasVariance), changedArea: totals.changedArea };
+  };
   return { project: band(rows.project), zones: rows.zones.map(band), unzoned: rows.unzoned && band(rows.unzoned) };
 }

@@ -4,14 +4,18 @@ import AxeBuilder from "@axe-core/playwright";
 import { request as playwrightRequest, type Page } from "@playwright/test";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
+import { unmarkedFigureCells } from "./figure-columns";
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoProjectId, expect, signInRequest, test, type DemoAccount } from "./fixtures";
 
 // The automated accessibility check: every page route of app/routes.ts (the .tsx files; resource
-// routes answer JSON, CSV or GeoJSON), opened at desktop size as a person allowed to see it, with
-// axe-core's rules; a serious or critical violation fails. Each route's address and who opens it
+// routes answer JSON, CSV or GeoJSON), opened at desktop size (1440 × 900) and at phone size
+// (390 × 844) as a person allowed to see it, with axe-core's rules; a serious or critical
+// violation fails. The same walk checks that every number column of a table is set as figures. Each route's address and who opens it
 // is written out below; a page route without a row fails the first test, so a new page joins here.
 
 const SERIOUS = new Set(["serious", "critical"]);
+/** A desktop and a phone: a page can pass at one and fail at the other (contrast of a folded menu, a target too small). */
+const VIEWPORTS = [{ width: 1440, height: 900 }, { width: 390, height: 844 }];
 const PLAN_DATE = "2026-11-12";
 const FIXTURES = join(import.meta.dirname, "..", "fixtures", "import");
 const DEMO_DIR = join(import.meta.dirname, "..", "..", "sample-data", "demo");
@@ -128,12 +132,12 @@ test.describe("no serious or critical accessibility violations", () => {
     ids = { project, survey: surveys.surveys[0].id, find: finds.finds[0].id, shareToken: token, messageId };
   });
 
-  for (const row of PAGES) {
-    test(`${row.route || "/"} as ${row.as}`, async ({ browser, baseURL }) => {
+  for (const viewport of VIEWPORTS) for (const row of PAGES) {
+    test(`${row.route || "/"} as ${row.as} at ${viewport.width} px`, async ({ browser, baseURL }) => {
       test.skip(Boolean(row.skip), row.skip);
       // axe reads every node: a survey's page with its sounding plot takes half a minute on a busy machine.
       test.setTimeout(180_000);
-      const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+      const context = await browser.newContext({ viewport });
       if (row.as !== "signed-out") await signInRequest(context.request, baseURL!, DEMO_ACCOUNTS[row.as], DEMO_PASSWORD);
       const page = await context.newPage();
       let discard: (() => Promise<void>) | null = null;
@@ -164,6 +168,7 @@ test.describe("no serious or critical accessibility violations", () => {
         if (index > 0) expect(level - levels[index - 1], `heading ${index + 1} skips a level (${levels.join(", ")})`).toBeLessThanOrEqual(1);
       });
       expect(await seriousViolations(page)).toEqual([]);
+      expect(await unmarkedFigureCells(page), "number columns not set as figures").toEqual([]);
       if (discard) await discard();
       await context.close();
     });

@@ -1,4 +1,6 @@
 import { request as playwrightRequest, type Locator, type Page } from "@playwright/test";
+import { mkdirSync } from "node:fs";
+import { join } from "node:path";
 import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, uniqueEmail, waitForMail } from "./fixtures";
 
 // One look across the manager's and outreach pages: role labels in mail, the audit log's filter,
@@ -194,6 +196,116 @@ test("chart text is at least 12 px and charts fit their panels, on a desktop and
   const turbidity = page.locator("[data-testid^='turbidity-chart-']");
   if ((await turbidity.count()) > 0) await expect.poll(async () => Math.min(...(await renderedTextSizes(turbidity.locator("xpath=.."))))).toBeGreaterThanOrEqual(11.99);
   await context.close();
+});
+
+test("the site header fits a phone: the admin's and a member's links fold into a menu and nothing wraps", async ({ browser, baseURL }) => {
+  const shots = join(process.cwd(), "test-results", "look");
+  mkdirSync(shots, { recursive: true });
+  for (const account of ["admin", "viewer"] as const) {
+    for (const viewport of [{ width: 390, height: 844 }, { width: 1440, height: 900 }]) {
+      const context = await browser.newContext({ viewport });
+      const page = await context.newPage();
+      await signedIn(page, baseURL!, account);
+      await page.goto("/projects");
+      const header = page.locator("body > header");
+      const menu = page.getByTestId("site-menu");
+      const signOut = page.getByRole("button", { name: "Sign out", exact: true });
+      // One row: the header is no taller than its tallest control plus its padding.
+      expect((await header.boundingBox())!.height, `header height, ${account} at ${viewport.width}`).toBeLessThanOrEqual(72);
+      if (viewport.width < 640) {
+        await expect(signOut).toBeHidden();
+        await menu.locator("summary").click();
+        const panel = menu.getByRole("navigation", { name: "Account" });
+        await expect(panel.getByRole("link", { name: "Projects" })).toBeVisible();
+        await expect(panel.getByRole("link", { name: "Accounts" })).toHaveCount(account === "admin" ? 1 : 0);
+        await expect(panel.getByRole("link", { name: "Your account" })).toBeVisible();
+        await expect(signOut).toBeVisible();
+        // "Sign out" on one line, and the open menu inside the window.
+        const button = (await signOut.boundingBox())!;
+        const lineHeight = await signOut.evaluate((element) => parseFloat(getComputedStyle(element).lineHeight));
+        expect(button.height, "Sign out on one line").toBeLessThan(2 * lineHeight);
+        const box = (await panel.boundingBox())!;
+        expect(box.x).toBeGreaterThanOrEqual(0);
+        expect(box.x + box.width).toBeLessThanOrEqual(viewport.width);
+        await page.screenshot({ path: join(shots, `header-${account}-${viewport.width}-open.png`) });
+        // Escape folds it and gives the focus back to its button.
+        await page.keyboard.press("Escape");
+        await expect(signOut).toBeHidden();
+        await expect(menu.locator("summary")).toBeFocused();
+        // Following a link folds it on the next page.
+        await menu.locator("summary").click();
+        await panel.getByRole("link", { name: "Your account" }).click();
+        await expect(page).toHaveURL(/\/account$/);
+        await expect(signOut).toBeHidden();
+      } else {
+        await expect(menu).toBeHidden();
+        const nav = page.getByRole("navigation", { name: "Account" });
+        await expect(nav.getByRole("link", { name: "Accounts" })).toHaveCount(account === "admin" ? 1 : 0);
+        await expect(signOut).toBeVisible();
+        const lineHeight = await signOut.evaluate((element) => parseFloat(getComputedStyle(element).lineHeight));
+        expect((await signOut.boundingBox())!.height, "Sign out on one line").toBeLessThan(2 * lineHeight);
+      }
+      expect(await page.evaluate(() => document.documentElement.scrollWidth), `page width, ${account} at ${viewport.width}`).toBeLessThanOrEqual(viewport.width);
+      await page.screenshot({ path: join(shots, `header-${account}-${viewport.width}.png`) });
+      await context.close();
+    }
+  }
+});
+
+/** Rendered sizes (CSS px) of the text of every chart on the page. */
+async function chartTextSizes(page: Page): Promise<number[]> {
+  return page.locator("svg[data-testid$='-chart'] text").evaluateAll((texts) => texts.map((text) => {
+    const svg = (text as SVGTextElement).ownerSVGElement!;
+    const box = svg.viewBox.baseVal;
+    const scale = box && box.width > 0 ? svg.getBoundingClientRect().width / box.width : 1;
+    return parseFloat(getComputedStyle(text).fontSize) * scale;
+  }));
+}
+
+/** Every chart on the page lies inside its panel and every label inside its chart (nothing cut off, nothing scrolls sideways). */
+async function chartsOverflowing(page: Page): Promise<string[]> {
+  return page.locator("svg[data-testid$='-chart']").evaluateAll((svgs) => svgs.flatMap((svg) => {
+    const problems: string[] = [];
+    const name = svg.getAttribute("data-testid");
+    const box = svg.getBoundingClientRect();
+    const panel = svg.parentElement!;
+    if (panel.scrollWidth > panel.clientWidth + 1) problems.push(`${name}: its panel scrolls (${panel.scrollWidth} > ${panel.clientWidth} px)`);
+    if (box.right > document.documentElement.clientWidth + 1) problems.push(`${name}: ends at ${box.right} px, past the window`);
+    for (const text of svg.querySelectorAll("text")) {
+      const label = text.getBoundingClientRect();
+      if (label.width === 0) continue;
+      if (label.left < box.left - 1 || label.right > box.right + 1 || label.top < box.top - 1 || label.bottom > box.bottom + 1) problems.push(`${name}: "${text.textContent}" cut off at the chart's edge`);
+    }
+    return problems;
+  }));
+}
+
+test("on a phone the charts fit their panels: production as rows, daily bars without scrolling, names in a key", async ({ browser, baseURL }) => {
+  const shots = join(process.cwd(), "test-results", "look");
+  mkdirSync(shots, { recursive: true });
+  for (const viewport of [{ width: 390, height: 844 }, { width: 1440, height: 900 }]) {
+    const context = await browser.newContext({ viewport });
+    const page = await context.newPage();
+    await signedIn(page, baseURL!, "manager");
+    await page.goto(`/projects/${projectId}`);
+    const production = page.getByTestId("production-chart");
+    await expect(production).toBeVisible();
+    // Drawn at the measured width once the page's scripts run: rows on a phone, columns on a desktop.
+    await expect(production).toHaveAttribute("data-layout", viewport.width < 640 ? "rows" : "columns");
+    await expect.poll(() => chartsOverflowing(page), { message: `overview charts at ${viewport.width} px` }).toEqual([]);
+    expect(Math.min(...(await chartTextSizes(page)))).toBeGreaterThanOrEqual(11.99);
+    // No chart in a sideways-scrolling region any more.
+    await expect(page.getByRole("region", { name: /chart.*scrollable/i })).toHaveCount(0);
+    await production.scrollIntoViewIfNeeded();
+    await production.screenshot({ path: join(shots, `production-${viewport.width}.png`) });
+    await page.getByTestId("cumulative-chart").screenshot({ path: join(shots, `cumulative-${viewport.width}.png`) });
+    await page.goto(`/projects/${projectId}/dewatering`);
+    await expect(page.locator("svg[data-testid$='-chart']").first()).toBeVisible();
+    await expect.poll(() => chartsOverflowing(page), { message: `dewatering charts at ${viewport.width} px` }).toEqual([]);
+    expect(Math.min(...(await chartTextSizes(page)))).toBeGreaterThanOrEqual(11.99);
+    await page.screenshot({ path: join(shots, `dewatering-${viewport.width}.png`), fullPage: true });
+    await context.close();
+  }
 });
 
 test("dates never wrap and report headers stay apart", async ({ browser, baseURL }) => {

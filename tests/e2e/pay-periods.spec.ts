@@ -4,6 +4,8 @@ import { demoProjectId, expect, test } from "./fixtures";
 import { request as playwrightRequest } from "@playwright/test";
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
+import { writeFileSync } from "node:fs";
+import { pdfTextItems } from "../pdf-text";
 
 // The manager chooses a pay period between two of the demo's surveys on the quantities page, sees
 // zone rows that add up to the project in every column, signs the period, and finds it listed.
@@ -107,6 +109,60 @@ test("the printable report fits a phone, its tables scroll in regions the keyboa
     expect(await region.evaluate((element) => getComputedStyle(element).overflowX)).toBe("visible");
   }
   await expect(page.getByRole("button", { name: "Print" })).toBeHidden();
+});
+
+test("printed on US letter, the report's tables fit the page: every column inside the margins, none clipped", async ({ page, signIn }) => {
+  test.setTimeout(120_000);
+  const shots = join(process.cwd(), "test-results", "quantities-report");
+  mkdirSync(shots, { recursive: true });
+  await signIn("manager");
+  await page.goto(`/projects/${projectId}/quantities/report?from=${await surveyId(page, 0)}&to=${await surveyId(page, 2)}`);
+  await expect(page.getByRole("heading", { name: /Pay period/ })).toBeVisible();
+  // What the browser's print command makes: the page's own @page rule (letter, 18 mm margins).
+  const pdf = await page.pdf({ format: "Letter", preferCSSPageSize: true, printBackground: true });
+  writeFileSync(join(shots, "report-letter.pdf"), pdf);
+  const { pages, items } = await pdfTextItems(pdf);
+  // US letter is 8.5 × 11 in = 612 × 792 pt; 18 mm = 51.0 pt (1 in = 25.4 mm = 72 pt).
+  expect(pages[0].width).toBeCloseTo(612, 0);
+  expect(pages[0].height).toBeCloseTo(792, 0);
+  const margin = (18 / 25.4) * 72;
+  // Every run of text lies inside the margins: a table wider than the page would run past the right one.
+  const outside = items.filter((item) => item.x < margin - 1 || item.x + item.width > pages[item.page - 1].width - margin + 1);
+  expect(outside.map((item) => `page ${item.page}: "${item.text}" at ${item.x.toFixed(1)}–${(item.x + item.width).toFixed(1)} pt`)).toEqual([]);
+  // The last column of each table is on the paper (a clipped table loses its right-hand columns).
+  const text = items.map((item) => item.text).join(" ").replace(/\s+/g, " ");
+  for (const header of ["Last survey", "Remaining at end", "Removed ±"]) expect(text, header).toContain(header);
+  // Every zone's row is printed in both tables, and the project's rows.
+  for (const zone of ZONES) expect(items.filter((item) => item.text.includes(zone.name)).length, zone.name).toBeGreaterThanOrEqual(2);
+  // Printed at its own size: the smallest text is 12 CSS px = 9 pt (1 px = 0.75 pt). A page wider
+  // than the paper is not clipped by Chromium but shrunk whole to fit, which this catches (the zone
+  // table at 14 px made the page 767 px wide and every text 0.89 × its size: 7.98 pt).
+  expect(Math.min(...items.map((item) => item.size))).toBeGreaterThanOrEqual(8.99);
+});
+
+test("the surveyor records a survey's reference bias on its page, a bad value is named, and the report states it", async ({ page, signIn }) => {
+  await signIn("surveyor");
+  const second = await surveyId(page, 2);
+  await page.goto(`/projects/${projectId}/surveys/${second}`);
+  await expect(page.getByTestId("survey-bias")).toHaveText("none recorded");
+  const form = page.locator("form", { has: page.getByRole("heading", { name: "Reference bias" }) });
+  await form.getByLabel("Up to ±").fill("-0.05");
+  await form.getByLabel("Where the figure comes from").fill("staff gauge read to 0.05 ft");
+  await form.getByRole("button", { name: "Save the bias" }).click();
+  await expect(page.getByRole("alert").or(page.getByText(/verticalBiasValue is not negative/)).first()).toContainText("verticalBiasValue is not negative");
+  await expect(page.getByTestId("survey-bias")).toHaveText("none recorded");
+  await form.getByLabel("Up to ±").fill("0.05");
+  await form.getByLabel("Unit").selectOption("ft");
+  await form.getByRole("button", { name: "Save the bias" }).click();
+  await expect(page.getByTestId("survey-bias")).toContainText("± 0.05 ft");
+  await expect(page.getByTestId("survey-bias")).toContainText("staff gauge read to 0.05 ft");
+  // The period ending on that survey says the bias is in its ±.
+  await page.goto(`/projects/${projectId}/quantities/report?from=${await surveyId(page, 0)}&to=${second}`);
+  await expect(page.getByText(/reference bias 0\.05 ft \(staff gauge read to 0\.05 ft\)/)).toBeVisible();
+  // Cleared again, so the demo's other periods stay as they were.
+  await page.goto(`/projects/${projectId}/surveys/${second}`);
+  await form.getByRole("button", { name: "Clear it" }).click();
+  await expect(page.getByTestId("survey-bias")).toHaveText("none recorded");
 });
 
 /** The id of the demo's survey at `position` (0 = the baseline), from the quantities API. */

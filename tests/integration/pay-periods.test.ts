@@ -14,6 +14,8 @@ import { presentProject, type ProjectView } from "~/lib/auth/project-view.server
 import { ValidationError } from "~/lib/errors";
 import { listSignedPeriods, loadPayPeriod, signPayPeriod, type PayPeriodView } from "~/models/pay-periods.server";
 import { loadQuantities, quantitiesCsv } from "~/models/quantities.server";
+import { setSurveyVerticalBias } from "~/models/survey.server";
+import { verticalBiasFromFields, type FieldProblem } from "~/lib/import/form-fields";
 import * as quantitiesApi from "~/routes/api.projects.$projectId.quantities";
 import * as payPeriodsApi from "~/routes/api.projects.$projectId.pay-periods";
 import * as quantitiesCsvApi from "~/routes/api.projects.$projectId.quantities[.]csv";
@@ -316,5 +318,56 @@ describe("signed periods", () => {
     const row = listed.signed.find((report) => report.id === id);
     expect(row?.signedName).toBe("Pat Manager");
     expect(row?.snapshot.from.id).toBe(whole.surveys[1].id);
+  });
+});
+
+describe("a survey's recorded reference bias", () => {
+  it("widens the period's band by area × bias, is audited, is kept out of a report signed before, and clears", async () => {
+    const [baseline, first] = whole.surveys;
+    const before = (await loadPayPeriod(project, { from: String(baseline.id), to: String(first.id) }))!;
+    const manager = site.users.manager;
+    const signedId = await signPayPeriod(project, presentUser((await User.findByPk(manager))!), { from: String(baseline.id), to: String(first.id), signedName: "Pat Manager" }, null);
+    await setSurveyVerticalBias(project, { surveyId: first.id, userId: manager, ip: null, bias: { value: 0.1, unit: "ft", source: "staff gauge read to 0.1 ft" } });
+    const after = (await loadPayPeriod(project, { from: String(baseline.id), to: String(first.id) }))!;
+    // Every cell that changed from the baseline to the first progress survey was sounded by it, so its
+    // end rests on that survey: the bias moves removed by the whole changed area (IHO S-44: a
+    // systematic error of the reference does not average down over soundings).
+    // computed: 0.1 ft (international) = 0.1 × 0.3048 m ÷ (1200/3937 m per US survey foot) = 0.09999980 ftUS
+    const biasFtUs = (0.1 * 0.3048 * 3937) / 1200;
+    expect(biasFtUs).toBeCloseTo(0.0999998, 7);
+    const biasVolume = before.figures.total.biasVolumePerUnit * biasFtUs;
+    expect(biasVolume).toBeGreaterThan(0);
+    // computed: band² = random² + (changed area × bias)², the two parts independent (quadrature)
+    expect(after.figures.total.removedBandVolume).toBeCloseTo(Math.hypot(before.figures.total.removedBandVolume, biasVolume), 6);
+    // negative control: the random part alone is narrower
+    expect(after.figures.total.removedBandVolume - before.figures.total.removedBandVolume).toBeGreaterThan(0.01);
+    expect(after.uncertainty).toContain("reference bias 0.1 ft (staff gauge read to 0.1 ft)");
+    const audit = await AuditEvent.findOne({ where: { projectId: project.id, action: "survey-bias-set" }, order: [["id", "DESC"]] });
+    expect(audit?.detail).toMatchObject({ surveyId: first.id, before: null, after: { value: 0.1, unit: "ft", source: "staff gauge read to 0.1 ft" } });
+    // The report signed before keeps the band it was issued with.
+    const kept = (await listSignedPeriods(project)).find((report) => report.id === signedId);
+    expect(kept?.snapshot.total.removedBandVolume).toBeCloseTo(before.figures.total.removedBandVolume, 9);
+    // Cleared, the band is the random part again.
+    await setSurveyVerticalBias(project, { surveyId: first.id, userId: manager, ip: null, bias: null });
+    const cleared = (await loadPayPeriod(project, { from: String(baseline.id), to: String(first.id) }))!;
+    expect(cleared.figures.total.removedBandVolume).toBeCloseTo(before.figures.total.removedBandVolume, 9);
+  });
+
+  it("is refused with the field named: negative, too large, not a number, or without its source", () => {
+    const problemsOf = (fields: Record<string, string>) => {
+      const problems: FieldProblem[] = [];
+      const bias = verticalBiasFromFields(fields, "us-ft", problems);
+      return { bias, fields: problems.map((problem) => problem.field), messages: problems.map((problem) => problem.message).join(" ") };
+    };
+    expect(problemsOf({}).bias).toBeNull();
+    expect(problemsOf({}).fields).toEqual([]);
+    expect(problemsOf({ verticalBiasValue: "-0.1", verticalBiasSource: "gauge" }).fields).toEqual(["verticalBiasValue"]);
+    expect(problemsOf({ verticalBiasValue: "abc", verticalBiasSource: "gauge" }).messages).toContain("verticalBiasValue is not a number");
+    expect(problemsOf({ verticalBiasValue: "0.1" }).fields).toEqual(["verticalBiasSource"]);
+    // 1 m is the bound: 3.3 ft is over it (3.3 × 0.3048 = 1.00584 m), 3.2 ft is not (0.97536 m)
+    expect(problemsOf({ verticalBiasValue: "3.3", verticalBiasUnit: "ft", verticalBiasSource: "gauge" }).messages).toContain("wrong water-surface elevation or datum");
+    expect(problemsOf({ verticalBiasValue: "3.2", verticalBiasUnit: "ft", verticalBiasSource: "gauge" }).bias).toEqual({ value: 3.2, unit: "ft", source: "gauge" });
+    // the unit defaults to the project's
+    expect(problemsOf({ verticalBiasValue: "0,05", verticalBiasSource: "RTK tide" }).bias).toEqual({ value: 0.05, unit: "us-ft", source: "RTK tide" });
   });
 });

@@ -42,12 +42,12 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
           <thead>
             <tr className="border-b border-line text-left align-bottom">
               <th scope="col" className="py-1 pr-3">Zone</th>
-              <th scope="col" className="pr-3">Removed <span className="font-normal text-muted">{project.surveyedRemoved.label}</span></th>
-              <th scope="col" className="pr-3">Dry mass <span className="font-normal text-muted">{bulkLabel}</span></th>
-              <th scope="col" className="pr-3">Pumped<span aria-hidden="true">*</span><span className="sr-only"> (attributed by the dive log)</span> <span className="font-normal text-muted">{bulkLabel}</span></th>
-              <th scope="col" className="pr-3">Hauled<span aria-hidden="true">*</span><span className="sr-only"> (attributed as pumped)</span> <span className="font-normal text-muted">{bulkLabel}</span></th>
-              <th scope="col" className="pr-3">Nitrogen <span className="font-normal text-muted">{massLabel}</span></th>
-              <th scope="col" className="pr-3">Phosphorus <span className="font-normal text-muted">{massLabel}</span></th>
+              <th scope="col" className="pr-3 text-right">Removed <span className="font-normal text-muted">{project.surveyedRemoved.label}</span></th>
+              <th scope="col" className="pr-3 text-right">Dry mass <span className="font-normal text-muted">{bulkLabel}</span></th>
+              <th scope="col" className="pr-3 text-right">Pumped<span aria-hidden="true">*</span><span className="sr-only"> (attributed by the dive log)</span> <span className="font-normal text-muted">{bulkLabel}</span></th>
+              <th scope="col" className="pr-3 text-right">Hauled<span aria-hidden="true">*</span><span className="sr-only"> (attributed as pumped)</span> <span className="font-normal text-muted">{bulkLabel}</span></th>
+              <th scope="col" className="pr-3 text-right">Nitrogen <span className="font-normal text-muted">{massLabel}</span></th>
+              <th scope="col" className="pr-3 text-right">Phosphorus <span className="font-normal text-muted">{massLabel}</span></th>
               <th scope="col">Samples</th>
             </tr>
           </thead>
@@ -55,35 +55,35 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
             {zones.map((zone) => (
               <tr key={zone.zoneId ?? "unzoned"} className="border-b border-line">
                 <td className="py-1 pr-3">{zone.name}</td>
-                <td className="figures pr-3 whitespace-nowrap">{figure(zone.surveyedRemoved)}</td>
-                <td className="figures pr-3 whitespace-nowrap">{figure(zone.dryMassFromSurveys, 1)}</td>
-                <td className="figures pr-3 whitespace-nowrap">
+                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.surveyedRemoved)}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.dryMassFromSurveys, 1)}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap">
                   {figure(zone.dryMassPumped, 1)}
                   {zone.pumpedVersusSurveyedPercent !== null ? <span className="text-muted"> ({signed(zone.pumpedVersusSurveyedPercent)})</span> : null}
                 </td>
-                <td className="figures pr-3 whitespace-nowrap">{figure(zone.dryMassHauled, 1)}</td>
-                <td className="figures pr-3 whitespace-nowrap">{figure(zone.nitrogenRemoved)}</td>
-                <td className="figures pr-3 whitespace-nowrap">{figure(zone.phosphorusRemoved)}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.dryMassHauled, 1)}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.nitrogenRemoved)}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.phosphorusRemoved)}</td>
                 <td className="text-muted whitespace-nowrap">{zone.samplesFrom === "zone" ? `the zone's (${zone.sampleCount})` : zone.samplesFrom === "project" ? "project mean" : "none"}</td>
               </tr>
             ))}
             <tr className="border-b border-line" data-testid="reconciliation-unattributed">
               <td className="py-1 pr-3">Unattributed</td>
-              <td className="text-muted pr-3">–</td><td className="text-muted pr-3">–</td>
-              <td className="figures pr-3 whitespace-nowrap">{figure(unattributed.dryMassPumped, 1)}</td>
-              <td className="figures pr-3 whitespace-nowrap">{figure(unattributed.dryMassHauled, 1)}</td>
-              <td className="text-muted pr-3">–</td><td className="text-muted pr-3">–</td><td className="text-muted whitespace-nowrap">no dive in the shift&apos;s hours</td>
+              <td className="text-muted pr-3 text-right">–</td><td className="text-muted pr-3 text-right">–</td>
+              <td className="figures pr-3 text-right whitespace-nowrap">{figure(unattributed.dryMassPumped, 1)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap">{figure(unattributed.dryMassHauled, 1)}</td>
+              <td className="text-muted pr-3 text-right">–</td><td className="text-muted pr-3 text-right">–</td><td className="text-muted whitespace-nowrap">no dive in the shift&apos;s hours</td>
             </tr>
           </tbody>
           <tfoot>
             <tr className="font-semibold" data-testid="reconciliation-total">
               <td className="py-1 pr-3">Project</td>
-              <td className="figures pr-3 whitespace-nowrap">{figure(project.surveyedRemoved)}</td>
-              <td className="figures pr-3 whitespace-nowrap">{figure(project.dryMassFromSurveys, 1)}</td>
-              <td className="figures pr-3 whitespace-nowrap">{figure(project.dryMassPumped, 1)}</td>
-              <td className="figures pr-3 whitespace-nowrap">{figure(project.dryMassHauled, 1)}</td>
-              <td className="figures pr-3 whitespace-nowrap">{figure(project.nitrogenRemoved)}</td>
-              <td className="figures pr-3 whitespace-nowrap">{figure(project.phosphorusRemoved)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.surveyedRemoved)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.dryMassFromSurveys, 1)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.dryMassPumped, 1)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.dryMassHauled, 1)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.nitrogenRemoved)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.phosphorusRemoved)}</td>
               <td />
             </tr>
           </tfoot>

@@ -22,6 +22,7 @@ export const AUDIT_ACTIONS = {
   surveyImported: "survey-imported",
   surveyRetracted: "survey-retracted",
   surveyRestored: "survey-restored",
+  surveyBiasSet: "survey-bias-set",
   assignmentCreated: "assignment-created",
   planEmailed: "plan-emailed",
   shorelineUploaded: "shoreline-uploaded",

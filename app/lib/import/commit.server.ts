@@ -72,6 +72,9 @@ export function commitSurvey(input: CommitSurveyInput): Promise<CommittedSurvey>
           retractedById: null,
           qa: { ...(input.qa ?? {}), warnings: input.warnings, columns: options.columns ?? {}, surveyOrder: options.surveyOrder },
           coverage: input.qa?.coverage ?? null,
+          verticalBiasValue: options.verticalBias?.value ?? null,
+          verticalBiasUnit: options.verticalBias?.unit ?? null,
+          verticalBiasSource: options.verticalBias?.source ?? null,
         },
         { transaction },
       );
@@ -98,7 +101,7 @@ export function commitSurvey(input: CommitSurveyInput): Promise<CommittedSurvey>
           projectId: input.projectId,
           userId: input.userId,
           ip: input.ip ?? null,
-          detail: { surveyId: survey.id, kind: options.kind, surveyedOn: options.surveyedOn, fileName: input.fileName, rows: input.rowCount, soundings: prepared.sourceRow.length, sha256: input.sha256 },
+          detail: { surveyId: survey.id, kind: options.kind, surveyedOn: options.surveyedOn, fileName: input.fileName, rows: input.rowCount, soundings: prepared.sourceRow.length, sha256: input.sha256, ...(options.verticalBias ? { verticalBias: options.verticalBias } : {}) },
         },
         transaction,
       );

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { verticalBiasSchema, type VerticalBias } from "../../../shared/qa/vertical-bias";
 import { commitChoicesSchema, importOptionsSchema, type CommitChoices, type ImportOptions } from "./import-options";
 
 /**
@@ -31,6 +32,29 @@ function issuesToProblems(error: z.ZodError, problems: FieldProblem[]) {
   }
 }
 
+/** The bias fields' names, on the pages' forms and the API's multipart fields. */
+const BIAS_FIELDS = { value: "verticalBiasValue", unit: "verticalBiasUnit", source: "verticalBiasSource" } as const;
+
+/**
+ * A survey's vertical-reference bias from form fields (verticalBiasValue, verticalBiasUnit,
+ * verticalBiasSource): null when value and source are both empty; otherwise all are checked and a
+ * problem names the field. The unit defaults to the project's.
+ */
+export function verticalBiasFromFields(fields: Record<string, string | undefined>, projectUnit: "us-ft" | "ft" | "m", problems: FieldProblem[]): VerticalBias | null {
+  const valueText = optionalText(fields[BIAS_FIELDS.value]);
+  const source = optionalText(fields[BIAS_FIELDS.source]);
+  if (valueText === undefined && source === undefined) return null;
+  const value = valueText === undefined ? Number.NaN : Number(valueText.replace(",", "."));
+  const parsed = verticalBiasSchema.safeParse({ value: Number.isFinite(value) ? value : undefined, unit: optionalText(fields[BIAS_FIELDS.unit]) ?? projectUnit, source: source ?? "" });
+  if (parsed.success) return parsed.data;
+  for (const issue of parsed.error.issues) {
+    const field = BIAS_FIELDS[issue.path[0] as keyof typeof BIAS_FIELDS] ?? BIAS_FIELDS.value;
+    const message = issue.path[0] === "value" && valueText !== undefined && !Number.isFinite(value) ? "is not a number" : issue.message;
+    problems.push({ field, message: `${field} ${message}` });
+  }
+  return null;
+}
+
 export interface ProjectDefaults {
   crs: string;
   lengthUnit: "us-ft" | "ft" | "m";
@@ -44,6 +68,7 @@ export function importOptionsFromFields(fields: Record<string, string>, defaults
   const wse = wseText === undefined ? null : Number(wseText.replace(",", "."));
   if (wseText !== undefined && !Number.isFinite(wse)) problems.push({ field: "waterSurfaceElevation", message: "waterSurfaceElevation is not a number" });
   const columns = parseJsonField("columns", fields.columns, problems);
+  const verticalBias = verticalBiasFromFields(fields, defaults.lengthUnit, problems);
   const parsed = importOptionsSchema.safeParse({
     kind: optionalText(fields.kind),
     surveyedOn: optionalText(fields.surveyedOn),
@@ -58,6 +83,7 @@ export function importOptionsFromFields(fields: Record<string, string>, defaults
       ? columns
       : Object.fromEntries(Object.entries(columns as Record<string, unknown>).map(([field, header]) => [field, typeof header === "string" && header.trim() === "" ? null : header])),
     surveyOrder: optionalText(fields.surveyOrder),
+    verticalBias,
   });
   if (!parsed.success) issuesToProblems(parsed.error, problems);
   return { options: parsed.success && problems.length === 0 ? parsed.data : null, problems };

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { surveyOrderSchema } from "../../../shared/qa/tvu";
+import { verticalBiasSchema } from "../../../shared/qa/vertical-bias";
 import { soundingFields } from "../../../shared/soundings/parse-csv";
 import { lengthUnitSchema } from "../../../shared/units";
 
@@ -31,6 +32,8 @@ export const importOptionsSchema = z
     columns: columnsSchema.optional(),
     /** IHO S-44 order the crossings and spikes are judged against. */
     surveyOrder: surveyOrderSchema.default("1a"),
+    /** The most the survey's vertical reference may be off (95 %), with its unit and source; null when none is given. */
+    verticalBias: verticalBiasSchema.nullable().optional(),
   })
   .superRefine((options, context) => {
     if (!options.fileHasElevations && options.waterSurfaceElevation === null) {
