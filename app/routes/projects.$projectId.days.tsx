@@ -137,7 +137,7 @@ export default function Days({ loaderData, actionData }: Route.ComponentProps) {
             const body = (
               <>
                 <span className="flex items-baseline justify-between gap-2">
-                  <span><span className="text-xs text-muted sm:hidden">{weekday} </span><span className="figures font-medium">{Number(day.date.slice(8))}</span></span>
+                  <span><span className="text-xs sm:hidden">{weekday} </span><span className="figures font-medium">{Number(day.date.slice(8))}</span></span>
                   {day.dives > 0 ? <span className="text-xs"><span className="figures">{day.dives}</span> {day.dives === 1 ? "dive" : "dives"}</span> : null}
                 </span>
                 <span className="block text-xs">{future ? "to come" : day.state}</span>
