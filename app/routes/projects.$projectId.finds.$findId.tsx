@@ -218,7 +218,7 @@ export default function FindPage({ loaderData, actionData }: Route.ComponentProp
       <section aria-labelledby="custody-heading" className="space-y-3">
         <h3 id="custody-heading" className="text-lg font-semibold">Chain of custody</h3>
         {find.custody.length === 0 ? <p className="text-sm text-muted">No handovers yet: the find is with {find.currentHolder.name}, {find.currentHolder.place}.</p> : (
-          <div className="overflow-x-auto">
+          <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Custody handovers, scrollable">
             <table className="w-full border-collapse text-sm" aria-label="Custody handovers">
               <thead>
                 <tr className="border-b border-line text-left">

@@ -44,7 +44,7 @@ test("the invitation mail names the role by its label, not its internal name", a
   // The open invitation and the audit log say it the same way.
   await expect(page.getByRole("region", { name: "Open invitations" }).getByText("Dewatering operator")).toBeVisible();
   await page.goto(`/projects/${projectId}/audit?action=invite`);
-  await expect(page.getByRole("cell", { name: new RegExp(`email: ${email.replace(/[.+]/g, "\\$&")}, role: Dewatering operator`) })).toBeVisible();
+  await expect(page.getByRole("cell", { name: new RegExp(`email: ${email.replace(/[.+]/g, "\\$&")}; role: Dewatering operator`) })).toBeVisible();
 });
 
 test("the audit log filters by person, action and dates, as a link, with an empty state", async ({ page, baseURL }) => {

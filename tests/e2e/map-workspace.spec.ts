@@ -207,8 +207,9 @@ test("the legend describes what is drawn: the bands with their unit and classes,
   await expect(page.getByTestId("monitoring-detail")).toContainText("Compliance point");
   await page.getByRole("checkbox", { name: "Stations and sightings" }).uncheck();
   await expect(legend.getByRole("region", { name: "Monitoring stations" })).toHaveCount(0);
-  // Only the demo's geotextile tubes on the laydown area are left: described alone.
-  await expect(legend.getByRole("region")).toHaveCount(1);
+  // Only the demo's zones (their colours) and its geotextile tubes on the laydown area are left: described alone.
+  await expect(legend.getByRole("region")).toHaveCount(2);
+  await expect(legend.getByRole("region", { name: "Zones" })).toBeVisible();
   await expect(legend.getByRole("region", { name: "Geotextile tubes" })).toContainText("Near capacity, at 90 % or more (1)");
   // Their layer switch hides them on the map and in the legend, the address remembers it, and it shows them again.
   const tubesVisibility = () => page.evaluate(() => (window as unknown as { firmsandMap: { getLayoutProperty(layer: string, name: string): unknown } }).firmsandMap.getLayoutProperty("tubes", "visibility"));

@@ -55,35 +55,35 @@ export function ReconciliationPanel({ reconciliation, dewateringHref }: { reconc
             {zones.map((zone) => (
               <tr key={zone.zoneId ?? "unzoned"} className="border-b border-line">
                 <td className="py-1 pr-3">{zone.name}</td>
-                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.surveyedRemoved)}</td>
-                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.dryMassFromSurveys, 1)}</td>
-                <td className="figures pr-3 text-right whitespace-nowrap">
+                <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(zone.surveyedRemoved)}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(zone.dryMassFromSurveys, 1)}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">
                   {figure(zone.dryMassPumped, 1)}
                   {zone.pumpedVersusSurveyedPercent !== null ? <span className="text-muted"> ({signed(zone.pumpedVersusSurveyedPercent)})</span> : null}
                 </td>
-                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.dryMassHauled, 1)}</td>
-                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.nitrogenRemoved)}</td>
-                <td className="figures pr-3 text-right whitespace-nowrap">{figure(zone.phosphorusRemoved)}</td>
-                <td className="text-muted whitespace-nowrap">{zone.samplesFrom === "zone" ? `the zone's (${zone.sampleCount})` : zone.samplesFrom === "project" ? "project mean" : "none"}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(zone.dryMassHauled, 1)}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(zone.nitrogenRemoved)}</td>
+                <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(zone.phosphorusRemoved)}</td>
+                <td className="text-muted whitespace-nowrap print:whitespace-normal">{zone.samplesFrom === "zone" ? `the zone's (${zone.sampleCount})` : zone.samplesFrom === "project" ? "project mean" : "none"}</td>
               </tr>
             ))}
             <tr className="border-b border-line" data-testid="reconciliation-unattributed">
               <td className="py-1 pr-3">Unattributed</td>
               <td className="text-muted pr-3 text-right">–</td><td className="text-muted pr-3 text-right">–</td>
-              <td className="figures pr-3 text-right whitespace-nowrap">{figure(unattributed.dryMassPumped, 1)}</td>
-              <td className="figures pr-3 text-right whitespace-nowrap">{figure(unattributed.dryMassHauled, 1)}</td>
-              <td className="text-muted pr-3 text-right">–</td><td className="text-muted pr-3 text-right">–</td><td className="text-muted whitespace-nowrap">no dive in the shift&apos;s hours</td>
+              <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(unattributed.dryMassPumped, 1)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(unattributed.dryMassHauled, 1)}</td>
+              <td className="text-muted pr-3 text-right">–</td><td className="text-muted pr-3 text-right">–</td><td className="text-muted whitespace-nowrap print:whitespace-normal">no dive in the shift&apos;s hours</td>
             </tr>
           </tbody>
           <tfoot>
             <tr className="font-semibold" data-testid="reconciliation-total">
               <td className="py-1 pr-3">Project</td>
-              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.surveyedRemoved)}</td>
-              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.dryMassFromSurveys, 1)}</td>
-              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.dryMassPumped, 1)}</td>
-              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.dryMassHauled, 1)}</td>
-              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.nitrogenRemoved)}</td>
-              <td className="figures pr-3 text-right whitespace-nowrap">{figure(project.phosphorusRemoved)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(project.surveyedRemoved)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(project.dryMassFromSurveys, 1)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(project.dryMassPumped, 1)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(project.dryMassHauled, 1)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(project.nitrogenRemoved)}</td>
+              <td className="figures pr-3 text-right whitespace-nowrap print:whitespace-normal print:pr-1">{figure(project.phosphorusRemoved)}</td>
               <td />
             </tr>
           </tfoot>
