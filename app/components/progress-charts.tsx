@@ -195,7 +195,7 @@ const PRODUCTION_MARGIN_X = 56 + 12;
 const productionTitle = (unit: string) => `Production per working day between survey dates (${unit} per working day)`;
 
 function productionTooltip(interval: ProductionInterval, unit: string): string {
-  const basis = interval.basis === "dives-logged" ? "dives logged" : "weekdays";
+  const basis = interval.basis === "days-logged" ? "days logged" : "weekdays";
   return `${interval.fromDate} → ${interval.toDate}: ${formatNumber(interval.removedVolume)} ${unit} over ${Number(interval.workingDays.toFixed(2))} working days (${basis}) = ${formatNumber(interval.volumePerWorkingDay, 1)} ${unit}/day${interval.thin ? "; thin: too few working days for this rate to compare with the others" : ""}`;
 }
 
@@ -247,7 +247,7 @@ function ProductionColumnsSvg({ intervals, unit, width }: { intervals: Productio
               <text x={centre} y={bottom + line}>{`${interval.fromDate.slice(5)}→`}</text>
               <text x={centre} y={bottom + 2 * line}>{interval.toDate.slice(5)}</text>
               <text x={centre} y={bottom + 3 * line}>{`${Number(interval.workingDays.toFixed(1))} d`}</text>
-              <text x={centre} y={bottom + 4 * line}>{interval.basis === "dives-logged" ? "dives" : "weekdays"}</text>
+              <text x={centre} y={bottom + 4 * line}>{interval.basis === "days-logged" ? "logged" : "weekdays"}</text>
             </g>
           </g>
         );
@@ -293,7 +293,7 @@ function ProductionRowsSvg({ intervals, unit, width }: { intervals: ProductionIn
       {intervals.map((interval, index) => {
         const rate = Math.max(0, interval.volumePerWorkingDay ?? 0);
         const top = margin.top + index * rowHeight;
-        const basis = interval.basis === "dives-logged" ? "dives" : "weekdays";
+        const basis = interval.basis === "days-logged" ? "logged" : "weekdays";
         return (
           <g key={interval.toDate} data-thin={interval.thin ? "" : undefined}>
             <text className="figures" x={margin.left} y={top + CHART_FONT_PX - 2} fontSize={CHART_FONT_PX} fill="#5b6870">

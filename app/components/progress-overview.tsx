@@ -183,8 +183,8 @@ export function ProgressOverview({ progress, links }: { progress: ProgressView; 
             <h2 id="production-heading" className="font-semibold">Production per working day</h2>
             <ProductionChart intervals={progress.production} unit={unit} />
             <p className="mt-1 text-xs text-muted">
-              {progress.workingDayBasis === "dives-logged"
-                ? `Working days: days with a logged dive; weekdays for intervals without one (${progress.production.filter((interval) => interval.basis === "weekdays").length} of ${progress.production.length}).`
+              {progress.workingDayBasis === "days-logged"
+                ? `Working days: days with a logged dive or dewatering shift; weekdays for intervals with neither (${progress.production.filter((interval) => interval.basis === "weekdays").length} of ${progress.production.length}).`
                 : "Working days: weekdays (no dives logged yet)."}
               {progress.production.some((interval) => interval.thin)
                 ? ` Hatched bars rest on fewer than ${THIN_INTERVAL_WORKING_DAYS} working days (${progress.production.filter((interval) => interval.thin).length} of ${progress.production.length}): too few to compare with the others.`

@@ -9,6 +9,7 @@ import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { unitLabel, volumeUnitFor, type VolumeUnit } from "../../shared/units";
 import { CellResult, Survey, SurveySnapshot, Zone } from "~/lib/db.server";
 import { loggedDiveDates } from "./dives.server";
+import { loggedShiftDates } from "./dewatering.server";
 import { lostWorkingTime } from "./stoppages.server";
 import { loadEndAreaCrossCheck, type EndAreaCrossCheck } from "./end-area-check.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -100,7 +101,7 @@ function finish(figures: ProgressFigures): ProgressFigures {
 export async function loadProgress(project: ProjectView, options: { crossCheck?: boolean } = {}): Promise<ProgressView> {
   const volumeUnit = volumeUnitFor(project.lengthUnit);
   const volumeLabel = unitLabel(project.lengthUnit, "volume");
-  const [zones, cells, snapshots, surveys, diveDates, lost] = await Promise.all([
+  const [zones, cells, snapshots, surveys, diveDates, lost, shiftDates] = await Promise.all([
     Zone.findAll({ where: { projectId: project.id }, order: [["sortOrder", "ASC"], ["name", "ASC"]], attributes: ["id", "name", "colour"] }),
     CellResult.findAll({
       where: { projectId: project.id, areaInLimit: { [Op.gt]: 0 } },
@@ -111,6 +112,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     Survey.findAll({ where: { projectId: project.id, status: "active" }, attributes: ["id", "surveyedOn"], raw: true }),
     loggedDiveDates(project.id),
     lostWorkingTime(project),
+    loggedShiftDates(project.id),
   ]);
   const crossCheck = options.crossCheck && cells.length > 0 ? await loadEndAreaCrossCheck(project) : null;
   const surveyDate = new Map(surveys.map((survey) => [survey.id, String(survey.surveyedOn)]));
@@ -136,7 +138,7 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     })),
     rows.map((row) => row.zoneId),
   );
-  const calendar = workingCalendar(diveDates, lost.shares);
+  const calendar = workingCalendar([...diveDates, ...shiftDates], lost.shares);
 
   const zoneProgress: ZoneProgress[] = rows.map((zone, index) => {
     const figures = finish(zone.figures);
@@ -148,9 +150,9 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
     };
     return { zoneId: zone.zoneId, name: zone.name, colour: zone.colour, ...figures, forecast: forecastFinish(series.dates, zoneSeries.removedVolume, figures.remainingVolume, forecastOptions) };
   });
-  const basisWords = calendar.basis === "dives-logged"
-    ? "Working days are the days on which dives were logged between two survey dates; where an interval has no logged dive, its weekdays (Monday to Friday). Each interval says which it rests on."
-    : "No dives are logged yet, so working days are weekdays (Monday to Friday) between two survey dates.";
+  const basisWords = calendar.basis === "days-logged"
+    ? "Working days are the days on which dives or dewatering shifts were logged between two survey dates; where an interval has neither, its weekdays (Monday to Friday). Each interval says which it rests on."
+    : "No dives or dewatering shifts are logged yet, so working days are weekdays (Monday to Friday) between two survey dates.";
   return {
     projectId: project.id,
     volumeUnit,

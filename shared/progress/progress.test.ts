@@ -52,13 +52,16 @@ describe("working days between surveys", () => {
   it("counts days with a logged dive after the first survey up to and including the second", () => {
     // practice: a survey measures the work done after the previous survey; several dives on one day are one day
     const logged = workingCalendar(["2026-09-10", "2026-09-08", "2026-09-12", "2026-09-12", "2026-09-20"]);
-    expect(logged.basis).toBe("dives-logged");
+    expect(logged.basis).toBe("days-logged");
     expect(workingDaysBetween(logged, "2026-09-08", "2026-09-12")).toBe(2);
     expect(workingDaysBetween(logged, "2026-09-12", "2026-09-30")).toBe(1);
     // practice: an interval without any logged dive (before the log was kept) falls back to weekdays
     expect(workingDaysBetween(logged, "2026-10-01", "2026-10-08")).toBe(bruteWeekdays("2026-10-01", "2026-10-08"));
     expect(intervalBasis(logged, "2026-10-01", "2026-10-08")).toBe("weekdays");
-    expect(intervalBasis(logged, "2026-09-08", "2026-09-12")).toBe("dives-logged");
+    expect(intervalBasis(logged, "2026-09-08", "2026-09-12")).toBe("days-logged");
+    // a dewatering shift's day is a day worked too; a day with both counts once
+    const withShifts = workingCalendar(["2026-09-10", "2026-09-12", "2026-09-11", "2026-09-12"]);
+    expect(workingDaysBetween(withShifts, "2026-09-08", "2026-09-12")).toBe(3);
   });
 
   it("adds weekdays so that counting them back gives the same number (invariant)", () => {
@@ -112,7 +115,7 @@ describe("series, production and forecast", () => {
     // 2 days (not its 10 weekdays), says so, and is thin; 11-17 → 11-24 has no logged dive: 5 weekdays, not thin
     const logged = workingCalendar(["2026-11-10", "2026-11-12", "2026-11-10"]);
     const [divesLogged, noDives] = productionIntervals(["2026-11-03", "2026-11-17", "2026-11-24"], [0, 956, 1056], logged);
-    expect([divesLogged.workingDays, divesLogged.basis, divesLogged.thin]).toEqual([2, "dives-logged", true]);
+    expect([divesLogged.workingDays, divesLogged.basis, divesLogged.thin]).toEqual([2, "days-logged", true]);
     expect(divesLogged.volumePerWorkingDay).toBeCloseTo(478, 12);
     expect([noDives.workingDays, noDives.basis, noDives.thin]).toEqual([5, "weekdays", false]);
   });

@@ -3,18 +3,18 @@ import { dayNumber, isWeekday, isoDateOf } from "./calendar-days";
 /**
  * Working days between two survey dates: the days after `fromDate` up to and including `toDate`
  * (the work a survey on `toDate` measures happened after the previous survey). The days on which
- * dives were logged are the record of the days crews actually worked (a plan may be called off);
- * an interval with none logged (before the dive log was kept in Firmsand, or a project without
- * it) counts Monday to Friday instead.
+ * dives or dewatering shifts were logged are the record of the days crews actually worked (a plan
+ * may be called off; a shift pumps what the divers loosen); an interval with none logged (before
+ * the logs were kept in Firmsand, or a project without them) counts Monday to Friday instead.
  */
-export type WorkingDayBasis = "dives-logged" | "weekdays";
+export type WorkingDayBasis = "days-logged" | "weekdays";
 
 /** An interval resting on fewer working days than this is thin: one good or bad day swings its rate. */
 export const THIN_INTERVAL_WORKING_DAYS = 3;
 
 export interface WorkingCalendar {
   basis: WorkingDayBasis;
-  /** Sorted day numbers of days with a logged dive (basis "dives-logged" only). */
+  /** Sorted day numbers of days with a logged dive or shift (basis "days-logged" only). */
   loggedDays: Float64Array;
   /**
    * The share of a day's working hours lost to stop-work events and stand-downs, by day number
@@ -23,12 +23,15 @@ export interface WorkingCalendar {
   lostShares?: ReadonlyMap<number, number>;
 }
 
-/** The calendar to count with: days with a logged dive where there are any, else weekdays; less the hours lost to stoppages. */
-export function workingCalendar(diveLogDates: readonly string[], lostShares?: ReadonlyMap<number, number>): WorkingCalendar {
+/**
+ * The calendar to count with: days with a logged dive or dewatering shift where there are any
+ * (`loggedDates` holds both, a day twice counts once), else weekdays; less the hours lost to stoppages.
+ */
+export function workingCalendar(loggedDates: readonly string[], lostShares?: ReadonlyMap<number, number>): WorkingCalendar {
   const lost = lostShares && lostShares.size > 0 ? { lostShares } : {};
-  if (diveLogDates.length === 0) return { basis: "weekdays", loggedDays: new Float64Array(0), ...lost };
-  const days = Float64Array.from(new Set(diveLogDates.map(dayNumber))).sort();
-  return { basis: "dives-logged", loggedDays: days, ...lost };
+  if (loggedDates.length === 0) return { basis: "weekdays", loggedDays: new Float64Array(0), ...lost };
+  const days = Float64Array.from(new Set(loggedDates.map(dayNumber))).sort();
+  return { basis: "days-logged", loggedDays: days, ...lost };
 }
 
 /** The lost shares of the days counted in (from, to]: each counted day's share once. */
@@ -55,7 +58,7 @@ export function workingDaysBetween(calendar: WorkingCalendar, fromDate: string, 
   const from = dayNumber(fromDate);
   const to = dayNumber(toDate);
   if (to <= from) return 0;
-  if (calendar.basis === "dives-logged") {
+  if (calendar.basis === "days-logged") {
     const logged = upperBound(calendar.loggedDays, to) - upperBound(calendar.loggedDays, from);
     if (logged > 0) {
       const loggedDay = (day: number) => upperBound(calendar.loggedDays, day) - upperBound(calendar.loggedDays, day - 1) > 0;
@@ -74,7 +77,7 @@ export function workingDaysBetween(calendar: WorkingCalendar, fromDate: string, 
 export function intervalBasis(calendar: WorkingCalendar, fromDate: string, toDate: string): WorkingDayBasis {
   if (calendar.basis === "weekdays") return "weekdays";
   const logged = upperBound(calendar.loggedDays, dayNumber(toDate)) - upperBound(calendar.loggedDays, dayNumber(fromDate));
-  return logged > 0 ? "dives-logged" : "weekdays";
+  return logged > 0 ? "days-logged" : "weekdays";
 }
 
 /**

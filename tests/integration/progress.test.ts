@@ -15,7 +15,7 @@ import { parseSoundingsCsv } from "../../shared/soundings/parse-csv";
 import { UNZONED_NAME, rollUpZones } from "../../shared/volumes/rollup";
 import { cellLabel, cellRowCol } from "../../shared/grid/cell-grid";
 import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
-import { Assignment, Dive, DiveTeam, Project, ShareLink, Shoreline, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
+import { Assignment, DewateringShift, Dive, DiveTeam, Project, ShareLink, Shoreline, Survey, SurveySnapshot, User, Zone } from "~/lib/db.server";
 import { loadProgress, type ProgressView } from "~/models/progress.server";
 import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
 import { loadQuantities, quantitiesCsv } from "~/models/quantities.server";
@@ -176,7 +176,7 @@ describe("progress figures equal the engine on the same surveys", () => {
     expect(progress.assumptions.join(" ")).toContain(`${RATE_WINDOW_CALENDAR_DAYS} calendar days before the latest survey date`);
   });
 
-  it("counts days with a logged dive where an interval has them, weekdays where it has none", async () => {
+  it("counts days with a logged dive or dewatering shift where an interval has them, weekdays where it has none", async () => {
     const team = await DiveTeam.create({ projectId: project.id, name: "Test team", hoses: ["Hose A"], members: [] } as never);
     // two dives on 09-10 and one on 09-15: two working days in the first interval (2026-09-08 → 09-29)
     const logged = ["2026-09-10", "2026-09-10", "2026-09-15"];
@@ -187,18 +187,30 @@ describe("progress figures equal the engine on the same surveys", () => {
     await Assignment.create({ projectId: project.id, workDate: "2026-09-22", teamId: team.id, row: 0, col: 0, label: "A1", hose: "Hose A", notes: "", workingDepth: null, plannedBottomMinutes: null, confirmedReason: null, createdById: null } as never);
     try {
       const withDives = await loadProgress(project);
-      expect(withDives.workingDayBasis).toBe("dives-logged");
+      expect(withDives.workingDayBasis).toBe("days-logged");
       const [first, second] = withDives.production;
       // practice: the first interval rests on its two days with a logged dive, so it is thin
-      expect([first.basis, first.workingDays, first.thin]).toEqual(["dives-logged", 2, true]);
+      expect([first.basis, first.workingDays, first.thin]).toEqual(["days-logged", 2, true]);
       expectClose(first.volumePerWorkingDay!, first.removedVolume / 2, 1e-12);
       // the next interval has no logged dive: weekdays
       expect(second.basis).toBe("weekdays");
       expect(second.workingDays).toBe(workingDaysBetween(workingCalendar([]), second.fromDate, second.toDate));
-      expect(withDives.assumptions.join(" ")).toMatch(/dives were logged/);
+      expect(withDives.assumptions.join(" ")).toMatch(/dives or dewatering shifts were logged/);
       // computed: the forecast's rate is per weekday, so logging dives leaves every zone's forecast as it was
       expect(withDives.zones.map((zone) => zone.forecast)).toEqual(progress.zones.map((zone) => zone.forecast));
+      // A dewatering shift is a day worked too: one on 09-11 (no dive) adds a day, one on 09-10 (dives too) does not.
+      for (const shiftDate of ["2026-09-11", "2026-09-10"]) {
+        await DewateringShift.create({
+          projectId: project.id, shiftDate, startAt: "07:00", endAt: "15:00", pumpHours: 7, slurryFlowValue: 200, slurryFlowUnit: "m3/h",
+          totaliserStart: null, totaliserEnd: null, totaliserUnit: null, solidsByWeight: 0.1, slurrySpecificGravity: null, solidsSpecificGravity: 2.5,
+          polymerProduct: "P-1", polymerLot: null, doseMgPerL: 10, stockPercent: 0.5, drySolidsKg: 1000, neatPolymerKg: 1, notes: "", idempotencyKey: null,
+        } as never);
+      }
+      const withShifts = await loadProgress(project);
+      expect([withShifts.production[0].basis, withShifts.production[0].workingDays]).toEqual(["days-logged", 3]); // computed: 09-10, 09-11, 09-15
+      expectClose(withShifts.production[0].volumePerWorkingDay!, withShifts.production[0].removedVolume / 3, 1e-12);
     } finally {
+      await DewateringShift.destroy({ where: { projectId: project.id } });
       await Dive.destroy({ where: { projectId: project.id } });
       await Assignment.destroy({ where: { projectId: project.id } });
       await team.destroy();
