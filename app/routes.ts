@@ -70,6 +70,7 @@ export default [
   route("api/projects/:projectId/stop-work/:eventId/resume", "routes/api.projects.$projectId.stop-work.$eventId.resume.ts"),
   route("api/projects/:projectId/surveys", "routes/api.projects.$projectId.surveys.ts"),
   route("api/projects/:projectId/surveys/:surveyId", "routes/api.projects.$projectId.surveys.$surveyId.ts"),
+  route("api/projects/:projectId/surveys/:surveyId/bias", "routes/api.projects.$projectId.surveys.$surveyId.bias.ts"),
   route("api/projects/:projectId/teams", "routes/api.projects.$projectId.teams.ts"),
   route("api/projects/:projectId/teams/:teamId", "routes/api.projects.$projectId.teams.$teamId.ts"),
   route("api/projects/:projectId/water-quality/readings", "routes/api.projects.$projectId.water-quality.readings.ts"),

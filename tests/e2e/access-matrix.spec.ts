@@ -142,6 +142,7 @@ const MATRIX: Row[] = [
   row("GET", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "200 200 200 200 200 200 200 200 401"),
   row("DELETE", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
   row("PATCH", "api/projects/:projectId/surveys/:surveyId", "/api/projects/{project}/surveys/{survey}", "422 403 403 403 403 403 403 422 401", EMPTY_JSON),
+  row("PUT", "api/projects/:projectId/surveys/:surveyId/bias", "/api/projects/{project}/surveys/{survey}/bias", "422 422 403 403 403 403 403 422 401", EMPTY_JSON),
   // Dive teams: every member reads them; the manager and the dive supervisor set them up ({} and unknown ids: 422 or 404).
   row("GET", "api/projects/:projectId/teams", "/api/projects/{project}/teams", "200 200 200 200 200 200 200 200 401"),
   row("POST", "api/projects/:projectId/teams", "/api/projects/{project}/teams", "422 403 422 403 403 403 403 422 401", EMPTY_JSON),

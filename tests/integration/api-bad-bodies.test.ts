@@ -131,6 +131,7 @@ const ROUTES: MutatingRoute[] = [
   { route: "api/projects/:projectId/surveys", method: "POST", url: () => `${base()}/surveys`, params: projectParams },
   { route: "api/projects/:projectId/surveys/:surveyId", method: "DELETE", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
   { route: "api/projects/:projectId/surveys/:surveyId", method: "PATCH", url: () => `${base()}/surveys/${surveyId}`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
+  { route: "api/projects/:projectId/surveys/:surveyId/bias", method: "PUT", url: () => `${base()}/surveys/${surveyId}/bias`, params: () => ({ ...projectParams(), surveyId: String(surveyId) }) },
   { route: "api/projects/:projectId/teams", method: "POST", url: () => `${base()}/teams`, params: projectParams },
   { route: "api/projects/:projectId/teams/:teamId", method: "PATCH", url: () => `${base()}/teams/${teamId}`, params: () => ({ ...projectParams(), teamId: String(teamId) }) },
   {

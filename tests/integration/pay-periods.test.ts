@@ -18,6 +18,7 @@ import { setSurveyVerticalBias } from "~/models/survey.server";
 import { verticalBiasFromFields, type FieldProblem } from "~/lib/import/form-fields";
 import * as quantitiesApi from "~/routes/api.projects.$projectId.quantities";
 import * as payPeriodsApi from "~/routes/api.projects.$projectId.pay-periods";
+import * as surveyBiasApi from "~/routes/api.projects.$projectId.surveys.$surveyId.bias";
 import * as quantitiesCsvApi from "~/routes/api.projects.$projectId.quantities[.]csv";
 import * as quantitiesPage from "~/routes/projects.$projectId.quantities";
 import * as quantitiesReport from "~/routes/projects.$projectId.quantities.report";
@@ -369,5 +370,30 @@ describe("a survey's recorded reference bias", () => {
     expect(problemsOf({ verticalBiasValue: "3.2", verticalBiasUnit: "ft", verticalBiasSource: "gauge" }).bias).toEqual({ value: 3.2, unit: "ft", source: "gauge" });
     // the unit defaults to the project's
     expect(problemsOf({ verticalBiasValue: "0,05", verticalBiasSource: "RTK tide" }).bias).toEqual({ value: 0.05, unit: "us-ft", source: "RTK tide" });
+  });
+
+  it("is set and cleared over the API after the import (surveyor, manager), refused with the field named, and read back with the survey", async () => {
+    const survey = whole.surveys[1];
+    const put = (token: string, body: unknown, surveyId: number | string = survey.id) =>
+      surveyBiasApi.action({
+        request: new Request(`http://127.0.0.1/api/projects/${project.id}/surveys/${surveyId}/bias`, { method: "PUT", body: JSON.stringify(body), headers: { "Content-Type": "application/json", Authorization: `Bearer ${token}` } }),
+        params: { projectId: String(project.id), surveyId: String(surveyId) }, context: {},
+      } as never) as Promise<Response>;
+    const bias = { value: 0.06, unit: "ft", source: "staff gauge read to 0.05 ft" };
+    expect((await put(site.tokens.viewer, { verticalBias: bias })).status).toBe(403);
+    const refused = await put(site.tokens.surveyor, { verticalBias: { ...bias, value: -1 } });
+    expect(refused.status).toBe(422);
+    expect(((await refused.json()) as { errors: Array<{ field: string }> }).errors.map((error) => error.field)).toEqual(["verticalBias.value"]);
+    expect((await put(site.tokens.surveyor, { verticalBias: bias }, 999_999)).status).toBe(404);
+    const saved = await put(site.tokens.surveyor, { verticalBias: bias });
+    expect(saved.status).toBe(200);
+    expect(await saved.json()).toEqual({ verticalBias: bias });
+    const audit = await AuditEvent.findOne({ where: { projectId: project.id, action: "survey-bias-set" }, order: [["id", "DESC"]] });
+    expect((audit!.detail as { after: unknown }).after).toEqual(bias);
+    const period = (await loadPayPeriod(project, { from: String(whole.surveys[0].id), to: String(survey.id) }))!;
+    expect(period.uncertainty).toContain("reference bias 0.06 ft (staff gauge read to 0.05 ft)");
+    const cleared = await put(site.tokens.manager, { verticalBias: null });
+    expect(await cleared.json()).toEqual({ verticalBias: null });
+    expect((await loadPayPeriod(project, { from: String(whole.surveys[0].id), to: String(survey.id) }))!.uncertainty).not.toContain("reference bias 0.06 ft");
   });
 });
