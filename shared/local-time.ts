@@ -7,6 +7,9 @@
 const DAY_MS = 86_400_000;
 const MINUTE_MS = 60_000;
 
+/** Minutes after midnight of a wall-clock time written HH:MM (or HH:MM:SS; the seconds are not counted). */
+export const minutesOfClock = (clock: string): number => Number(clock.slice(0, 2)) * 60 + Number(clock.slice(3, 5));
+
 const formatters = new Map<string, Intl.DateTimeFormat>();
 
 function formatterFor(timeZone: string): Intl.DateTimeFormat {

@@ -2,7 +2,7 @@ import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { EQUIPMENT_MAX_LINES, compileDay, localDayBounds, type CompiledDay, type DayInterruption, type SurveyTotals } from "../../shared/daily-report/compile";
 import { BATCH_DAYS, dayStatus, type DayState, type ReportEvents } from "../../shared/daily-report/present";
-import { localDayOf } from "../../shared/local-time";
+import { localDayOf, minutesOfClock } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
 import {
   Assignment, CountersignRequest, DailyReport, Membership, Project, ReportSubscriber, User, DewateringShift, DailyReportAmendment, Dive, DiveTeam, Find, Haul, Hold, MonitoringStation, ProjectSettingsVersion, StopWorkEvent, SurveySnapshot, TubeFill, WaterQualityReading, WildlifeStandDown,
@@ -119,7 +119,6 @@ export function hoursInDay(project: ProjectView, date: string): number {
 }
 
 const EMPTY_NOTES: EnteredNotesRecord = { weather: null, equipment: [], inspections: "", safety: "", notes: "" };
-const minutesOfClock = (clock: string) => Number(clock.slice(0, 2)) * 60 + Number(clock.slice(3, 5));
 
 export interface DailyReportView {
   date: string;

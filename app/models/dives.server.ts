@@ -5,7 +5,7 @@ import { NO_DECOMPRESSION_CAUTION, NO_DECOMPRESSION_SOURCE } from "../../shared/
 import { Assignment, CellResult, Dive, DiveCell, DiveTeam, distinctProjectDates, getSequelize } from "~/lib/db.server";
 import type { DiveForAttribution } from "../../shared/dewatering/zone-attribution";
 import { NotFoundError, ValidationError } from "~/lib/errors";
-import { isAfterLocalDay, localDayOf } from "../../shared/local-time";
+import { isAfterLocalDay, localDayOf, minutesOfClock as minutesOf } from "../../shared/local-time";
 import { noDecompressionInfo, workDateSchema, type NoDecompressionInfo } from "./assignments.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
@@ -20,7 +20,6 @@ import { claimIdempotencyKey } from "~/lib/api/idempotency.server";
  */
 
 /** Minutes from 00:00. */
-const minutesOf = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
 
 export type DiveInput = z.infer<typeof diveInputSchema>;
 

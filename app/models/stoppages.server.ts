@@ -3,6 +3,7 @@ import { findProject } from "~/lib/auth/project-view.server";
 import { lostWorkingDayShares } from "../../shared/progress/lost-hours";
 import { getWaterQualitySettings, listStopWork, type StopWorkView } from "./water-quality.server";
 import { listStandDowns, type StandDownView } from "./wildlife.server";
+import { minutesOfClock as minutesOf } from "../../shared/local-time";
 
 /**
  * What stops work on the project right now: open turbidity stop-work events and wildlife
@@ -31,8 +32,6 @@ export function workStoppedMessage(stoppages: Stoppages): string | null {
   if (reasons.length === 0) return null;
   return `Work is stopped: ${reasons.join(" and ")}. No cells can be assigned for today until it is cleared (later days may be planned), and no in-water work meanwhile.`;
 }
-
-const minutesOf = (clock: string) => Number(clock.slice(0, 2)) * 60 + Number(clock.slice(3, 5));
 
 /**
  * The share of each working day lost to turbidity stop-work events and wildlife stand-downs (open

@@ -1,6 +1,6 @@
 import { Op, type Transaction } from "sequelize";
 import { z } from "zod";
-import { localDayOf } from "../../shared/local-time";
+import { localDayOf, minutesOfClock } from "../../shared/local-time";
 import { missedIntervals, type MissedInterval, type SampleGapRule, type SamplingRoutine } from "../../shared/water-quality/missed-samples";
 import { pairBackground } from "../../shared/water-quality/pairing";
 import { DEFAULT_SHUTDOWN_DISTANCE_FT, DEFAULT_STAND_DOWN_SOURCE, DEFAULT_STAND_DOWN_WAIT_MINUTES } from "../../shared/water-quality/stand-down";
@@ -72,7 +72,6 @@ export interface WaterQualitySettingsView {
 
 const clockOf = (minutes: number) => `${String(Math.floor(minutes / 60)).padStart(2, "0")}:${String(minutes % 60).padStart(2, "0")}`;
 const clockSchema = z.string().trim().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "write the time as HH:MM (24-hour clock)");
-const minutesOfClock = (clock: string) => Number(clock.slice(0, 2)) * 60 + Number(clock.slice(3, 5));
 
 const addressList = z.preprocess(
   (value) => (typeof value === "string" ? value.split(/[\n,;]/) : value),
@@ -207,7 +206,6 @@ export async function saveWaterQualitySettings(project: ProjectView, user: UserV
 }
 
 // ---- Rules ----------------------------------------------------------------------------------
-
 
 export const ruleInputSchema = z
   .object({
@@ -436,7 +434,6 @@ async function ruleFor(project: ProjectView, station: MonitoringStation, transac
   if (station.ruleId) return TurbidityRuleRecord.findByPk(station.ruleId, { transaction });
   return TurbidityRuleRecord.findOne({ where: { projectId: project.id }, order: [["id", "DESC"]], transaction });
 }
-
 
 /**
  * Records a reading. A compliance reading is evaluated against its rule with the nearest

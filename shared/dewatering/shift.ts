@@ -4,6 +4,7 @@ import {
 } from "../units";
 import { polymerFeed } from "./polymer-feed";
 import { drySolidsRateKgPerH, slurryFromSolidsByWeight, slurryFromSpecificGravity, type SlurryComposition } from "./slurry";
+import { minutesOfClock } from "../local-time";
 
 /**
  * A dewatering shift's figures, as the shift log shows them at once and the API answers them:
@@ -48,8 +49,6 @@ export interface LoggedShift {
   solidsSpecificGravity?: number | null;
   polymer?: { doseMgPerL: number; stockPercent: number } | null;
 }
-
-const minutesOfClock = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
 
 /**
  * What the figures take from a logged shift: the pump hours are the whole shift when not given, a

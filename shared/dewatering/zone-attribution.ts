@@ -15,6 +15,8 @@
  * Pure: local dates (YYYY-MM-DD) and clock times (HH:MM) in, kilograms per zone out.
  */
 
+import { minutesOfClock } from "../local-time";
+
 export interface ShiftForAttribution {
   date: string;
   start: string;
@@ -43,7 +45,6 @@ export interface ZoneAttribution {
   unattributedHauledKg: number;
 }
 
-const minutesOfClock = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
 
 function add(map: Map<number | null, number>, key: number | null, value: number) {
   map.set(key, (map.get(key) ?? 0) + value);

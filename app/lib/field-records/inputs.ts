@@ -4,6 +4,7 @@ import { TUBE_STATUSES } from "../../../shared/dewatering/tubes";
 import { DEFAULT_JAR_VOLUME_ML, JAR_CLARITIES } from "../../../shared/dewatering/jar-test";
 import { flowUnitSchema, HAND_VOLUME_UNITS, litresFrom, litresTo, measureLabel } from "../../../shared/units";
 import { TURBIDITY_UNITS } from "../../../shared/water-quality/turbidity-rule";
+import { minutesOfClock as minutesOf } from "../../../shared/local-time";
 
 /**
  * What a field record must hold to be stored: the dive log, turbidity readings, finds, their status
@@ -24,7 +25,6 @@ const clock = z
   .regex(/^([01]\d|2[0-3]):[0-5]\d$/, "a time is written HH:MM (24-hour clock)");
 
 /** Minutes from 00:00. */
-const minutesOf = (time: string) => Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5));
 
 export const diveInputSchema = z
   .object({
