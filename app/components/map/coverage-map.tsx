@@ -1,5 +1,5 @@
 import type { FeatureCollection } from "geojson";
-import type { GeoJSONSource, ImageSource, Map as MapLibreMap } from "maplibre-gl";
+import type { GeoJSONSource, ImageSource, Map as MapLibreMap, StyleSpecification } from "maplibre-gl";
 import { useEffect, useRef, useState } from "react";
 import "maplibre-gl/dist/maplibre-gl.css";
 import { buildCellFeatures, buildCellLabelPoints, type CellsData } from "./cell-features";
@@ -62,17 +62,42 @@ interface Props {
 
 type CellFeature = ReturnType<typeof buildCellFeatures>["features"][number];
 
-/** The outlined cells' own source: only their features, so outlines cost nothing for the rest. */
-function setMarkedCells(map: MapLibreMap, source: "cells-selected" | "cells-assigned" | "cells-held", ids: ReadonlySet<number>, byId: ReadonlyMap<number, CellFeature>) {
+type MarkedSource = "cells-selected" | "cells-assigned" | "cells-held";
+
+/**
+ * The outlined cells' own source: only their features, so outlines cost nothing for the rest.
+ * `filled` holds the sources that have features now: an empty source (as the style starts them)
+ * is not emptied again, which would cost a round trip through the map's worker and a frame.
+ */
+function setMarkedCells(map: MapLibreMap, source: MarkedSource, ids: ReadonlySet<number>, byId: ReadonlyMap<number, CellFeature>, filled: Set<MarkedSource>) {
   const features: CellFeature[] = [];
   for (const id of ids) {
     const feature = byId.get(id);
     if (feature) features.push(feature);
   }
+  if (features.length === 0 && !filled.has(source)) return;
+  if (features.length > 0) filled.add(source);
+  else filled.delete(source);
   (map.getSource(source) as GeoJSONSource | undefined)?.setData({ type: "FeatureCollection", features } as never);
 }
 
 const QUICK_LOOK = "cells-quick-look";
+
+type MapLibreModules = [typeof import("maplibre-gl"), { default: string }];
+let mapLibreModules: Promise<MapLibreModules> | null = null;
+/** MapLibre and its worker file's URL, imported once per page. */
+function loadMapLibre() {
+  return (mapLibreModules ??= Promise.all([import("maplibre-gl"), import("maplibre-gl/dist/maplibre-gl-worker.mjs?url")]));
+}
+// Asked for as soon as this module runs in the browser (with the route's modules, before the page
+// is hydrated), so the download and compilation of MapLibre overlap the page's own start.
+if (typeof window !== "undefined") void loadMapLibre().catch(() => undefined);
+
+/** The style's cells source: what the page passed it at creation, so it is not set again. */
+interface InlinedCells {
+  data: CellsData;
+  collection: ReturnType<typeof buildCellFeatures>;
+}
 
 /** The cell labels' minzoom in the style, less a little: their points are made on the way there. */
 const LABELS_FROM_ZOOM = 18;
@@ -136,6 +161,12 @@ export function CoverageMap(props: Props) {
   const quickLookShows = useRef("");
   const shapesDrawn = useRef(false);
   const fitted = useRef(false);
+  const inlined = useRef<InlinedCells | null>(null);
+  const markedFilled = useRef(new Set<MarkedSource>());
+  // The stations and sightings the style was made with (not set again after the load).
+  const monitoringInStyle = useRef<Props["monitoring"] | null>(null);
+  // The zone filter on the cell layers now (the style starts with none, or with the one it was made with).
+  const appliedZoneFilter = useRef<number | null>(null);
   // The cells whose label points are still to be made: made once the map is near enough to show
   // labels, after the shapes are drawn (a bay's 100,000 points cost about 0.2 s and 15 MB to hand over).
   const labelsPending = useRef<ReturnType<typeof buildCellFeatures> | null>(null);
@@ -155,11 +186,48 @@ export function CoverageMap(props: Props) {
     let map: MapLibreMap | null = null;
     let removeWindowListeners = () => undefined as void;
     (async () => {
-      const [maplibre, worker] = await Promise.all([import("maplibre-gl"), import("maplibre-gl/dist/maplibre-gl-worker.mjs?url")]);
-      maplibre.setWorkerUrl(worker.default);
+      const styleUrl = `${window.location.origin}/projects/${props.projectId}/map/style.json`;
+      // The style is read beside MapLibre's import (not after it), and the fonts with both.
+      const styleRead = fetch(styleUrl)
+        .then((response) => (response.ok ? (response.json() as Promise<StyleSpecification>) : null))
+        .catch(() => null);
       // Labels are drawn from the page's Roboto Mono (no glyphs URL): load it before the first label.
-      await Promise.all([document.fonts.load('13px "Roboto Mono"'), document.fonts.load('500 13px "Roboto Mono"')]).catch(() => undefined);
+      const fontsRead = Promise.all([document.fonts.load('13px "Roboto Mono"'), document.fonts.load('500 13px "Roboto Mono"')]).catch(() => undefined);
+      const [[maplibre, worker], style] = await Promise.all([loadMapLibre(), styleRead, fontsRead]);
+      maplibre.setWorkerUrl(worker.default);
       if (cancelled || !container.current) return;
+      if (style) {
+        // What the page shows goes into the style itself: the layers shown, the zone filter and,
+        // once the cells are here, their colours. Each set after the load would make the map's
+        // worker lay its source out again (a layout property, a filter, a data-driven colour).
+        const cellsNow = callbacks.current.data;
+        const { view: viewNow, zoneFilter: zoneNow, layers: layersNow } = callbacks.current;
+        const cellLayers = new Set([...LAYER_GROUPS.cells, "cell-labels"]);
+        const shown = new Map((Object.entries(LAYER_GROUPS) as Array<[LayerKey, string[]]>).flatMap(([key, ids]) => ids.map((id) => [id, layersNow[key]] as const)));
+        for (const layer of style.layers) {
+          if (layer.id === "cells-fill" && layer.type === "fill" && cellsNow) layer.paint = { ...layer.paint, "fill-color": fillColour(viewNow, cellsNow) as never };
+          if (cellLayers.has(layer.id) && zoneNow !== null && !("filter" in layer)) (layer as { filter?: unknown }).filter = ["==", ["get", "z"], zoneNow];
+          if (shown.has(layer.id) && layer.type !== "background") layer.layout = { ...layer.layout, visibility: shown.get(layer.id) ? "visible" : "none" } as never;
+        }
+        appliedZoneFilter.current = zoneNow;
+        // A small grid whose cells are already here: they go into the style too, so the first
+        // frame draws them, instead of a second round through the worker and more frames after
+        // the load. A large grid keeps its quick look first (below).
+        // (Only when the first frame is framed already: otherwise the cells frame it after the load.)
+        const framedNow = Boolean(callbacks.current.initialCamera || callbacks.current.extent);
+        if (framedNow && cellsNow && inLimitCellCount(cellsNow) < QUICK_LOOK_FROM_CELLS && style.sources.cells?.type === "geojson") {
+          const collection = buildCellFeatures(cellsNow, callbacks.current.workLimit);
+          style.sources.cells = { ...style.sources.cells, data: collection as never };
+          inlined.current = { data: cellsNow, collection };
+        }
+        // The stations and sightings the page has now, the same way.
+        const monitoringNow = callbacks.current.monitoring;
+        if (monitoringNow && style.sources.stations?.type === "geojson" && style.sources.sightings?.type === "geojson") {
+          style.sources.stations = { ...style.sources.stations, data: monitoringNow.stations as never };
+          style.sources.sightings = { ...style.sources.sightings, data: monitoringNow.sightings as never };
+          monitoringInStyle.current = monitoringNow;
+        }
+      }
       // The first frame already shows the project: the sent view, or the work limit's extent.
       const { initialCamera, extent } = callbacks.current;
       const camera = initialCamera
@@ -170,7 +238,7 @@ export function CoverageMap(props: Props) {
       fitted.current = Boolean(initialCamera || extent);
       map = new maplibre.Map({
         container: container.current,
-        style: `${window.location.origin}/projects/${props.projectId}/map/style.json`,
+        style: style ?? styleUrl,
         ...camera,
         attributionControl: false,
         boxZoom: false,
@@ -194,7 +262,18 @@ export function CoverageMap(props: Props) {
       mapRef.current = map;
       // For the browser tests and for debugging from the console.
       (window as unknown as { firmsandMap?: MapLibreMap }).firmsandMap = map;
-      map.on("load", () => !cancelled && setReady(true));
+      map.on("load", () => {
+        if (cancelled) return;
+        // Cells that came with the style are on screen now: the map's load is its first complete frame.
+        const inStyle = inlined.current;
+        if (inStyle) {
+          shapesDrawn.current = true;
+          container.current?.setAttribute("data-cells-drawn", String(inStyle.collection.features.length));
+          container.current?.setAttribute("data-cells-drawn-as", "shapes");
+          setCellsShown(true);
+        }
+        setReady(true);
+      });
       // A station or sighting drawn over a cell takes the click; the cell under it is not selected.
       const onPoint = (point: { x: number; y: number }) => map !== null && map.queryRenderedFeatures([point.x, point.y], { layers: MONITORING_CLICK_LAYERS.filter((id) => map!.getLayer(id)) }).length > 0;
       for (const layer of MONITORING_CLICK_LAYERS) {
@@ -309,19 +388,29 @@ export function CoverageMap(props: Props) {
     };
     const drawShapes = () => {
       if (cancelled) return;
-      const collection = buildCellFeatures(data, callbacks.current.workLimit);
-      // Handed over as JSON text behind a blob URL, parsed in the map's worker: posting 100,000
-      // features as objects cost seconds of cloning on both threads.
-      const cellsUrl = URL.createObjectURL(new Blob([JSON.stringify(collection)], { type: "application/json" }));
-      (map.getSource("cells") as GeoJSONSource).setData(cellsUrl).finally(() => URL.revokeObjectURL(cellsUrl));
+      // The cells the style was made with are drawn already; any later read is set here.
+      const inStyle = inlined.current?.data === data ? inlined.current.collection : null;
+      inlined.current = null;
+      const collection = inStyle ?? buildCellFeatures(data, callbacks.current.workLimit);
+      if (!inStyle) {
+        // Handed over as JSON text behind a blob URL, parsed in the map's worker: posting 100,000
+        // features as objects cost seconds of cloning on both threads.
+        const cellsUrl = URL.createObjectURL(new Blob([JSON.stringify(collection)], { type: "application/json" }));
+        (map.getSource("cells") as GeoJSONSource).setData(cellsUrl).finally(() => URL.revokeObjectURL(cellsUrl));
+      }
       labelsPending.current = collection;
       cellsById.current = new Map(collection.features.map((feature) => [feature.id as number, feature]));
-      setMarkedCells(map, "cells-selected", callbacks.current.selected, cellsById.current);
-      setMarkedCells(map, "cells-assigned", callbacks.current.assigned, cellsById.current);
-      setMarkedCells(map, "cells-held", callbacks.current.held, cellsById.current);
+      setMarkedCells(map, "cells-selected", callbacks.current.selected, cellsById.current, markedFilled.current);
+      setMarkedCells(map, "cells-assigned", callbacks.current.assigned, cellsById.current, markedFilled.current);
+      setMarkedCells(map, "cells-held", callbacks.current.held, cellsById.current, markedFilled.current);
       fit((function* () {
         for (const feature of collection.features) yield* feature.geometry.type === "Polygon" ? feature.geometry.coordinates[0] : feature.geometry.coordinates.flatMap((polygon) => polygon[0]);
       })());
+      if (inStyle) {
+        // Drawn with the map's first frame (its load, above).
+        showLabelsIfNear(map);
+        return;
+      }
       map.once("idle", () => {
         shapesDrawn.current = true;
         if (quickLook.current) {
@@ -380,6 +469,9 @@ export function CoverageMap(props: Props) {
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map) return;
+    // A filter set again, even the same, makes the map's worker lay the cells out again.
+    if (appliedZoneFilter.current === zoneFilter) return;
+    appliedZoneFilter.current = zoneFilter;
     const filter = zoneFilter === null ? null : ["==", ["get", "z"], zoneFilter];
     for (const id of LAYER_GROUPS.cells.concat("cell-labels")) map.setFilter(id, filter as never);
   }, [ready, zoneFilter]);
@@ -387,19 +479,19 @@ export function CoverageMap(props: Props) {
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map || !data) return;
-    setMarkedCells(map, "cells-selected", selected, cellsById.current);
+    setMarkedCells(map, "cells-selected", selected, cellsById.current, markedFilled.current);
   }, [ready, data, selected]);
 
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map || !data) return;
-    setMarkedCells(map, "cells-assigned", assigned, cellsById.current);
+    setMarkedCells(map, "cells-assigned", assigned, cellsById.current, markedFilled.current);
   }, [ready, data, assigned]);
 
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map || !data) return;
-    setMarkedCells(map, "cells-held", held, cellsById.current);
+    setMarkedCells(map, "cells-held", held, cellsById.current, markedFilled.current);
   }, [ready, data, held]);
 
   useEffect(() => {
@@ -420,6 +512,12 @@ export function CoverageMap(props: Props) {
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map || !monitoring) return;
+    const inStyle = monitoringInStyle.current;
+    monitoringInStyle.current = null;
+    if (inStyle?.stations === monitoring.stations && inStyle.sightings === monitoring.sightings) {
+      container.current?.setAttribute("data-monitoring-drawn", String(monitoring.stations.features.length + monitoring.sightings.features.length));
+      return;
+    }
     (map.getSource("stations") as GeoJSONSource | undefined)?.setData(monitoring.stations as never);
     (map.getSource("sightings") as GeoJSONSource | undefined)?.setData(monitoring.sightings as never);
     container.current?.setAttribute("data-monitoring-drawn", String(monitoring.stations.features.length + monitoring.sightings.features.length));
