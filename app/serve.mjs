@@ -7,7 +7,8 @@ import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
 import helmet from "helmet";
-import { join, resolve } from "node:path";
+import { readdirSync } from "node:fs";
+import { join, relative, resolve, sep } from "node:path";
 import { pathToFileURL } from "node:url";
 
 export const CLIENT_ADDRESS_HEADER = "x-firmsand-client-address";
@@ -45,14 +46,52 @@ app.disable("x-powered-by");
 app.use(helmet({ contentSecurityPolicy: false, xFrameOptions: false, referrerPolicy: { policy: "same-origin" } }));
 app.use(compression());
 app.use(join(build.publicPath, "assets"), express.static(join(build.assetsBuildDirectory, "assets"), { immutable: true, maxAge: "1y" }));
-app.use(build.publicPath, express.static(build.assetsBuildDirectory));
-app.use(express.static("public", { maxAge: "1h" }));
+// The other files of the build and of public/ are few and fixed once built: they are listed at
+// start, and only a request for one of them goes to the file server. Before, every page and API
+// read asked the disk twice for a file of its name first (a tenth of a read's time under load).
+const buildStatic = express.static(build.assetsBuildDirectory);
+const publicStatic = express.static("public", { maxAge: "1h" });
+const buildFiles = filesUnder(build.assetsBuildDirectory, "assets");
+const publicFiles = filesUnder("public");
+const publicPrefix = build.publicPath.endsWith("/") ? build.publicPath.slice(0, -1) : build.publicPath;
+app.use((request, response, next) => {
+  if (request.method !== "GET" && request.method !== "HEAD") return next();
+  let path;
+  try {
+    path = decodeURIComponent(request.path);
+  } catch {
+    return next();
+  }
+  if (path.startsWith(`${publicPrefix}/`) && buildFiles.has(path.slice(publicPrefix.length))) {
+    // As app.use(publicPath, …) would: the file server sees the path below the public path.
+    const url = request.url;
+    request.url = url.slice(publicPrefix.length) || "/";
+    return buildStatic(request, response, (error) => {
+      request.url = url;
+      next(error);
+    });
+  }
+  if (publicFiles.has(path)) return publicStatic(request, response, next);
+  next();
+});
 app.use((request, _response, next) => {
   request.headers[CLIENT_ADDRESS_HEADER] = request.socket.remoteAddress ?? "unknown";
   request.headers[REQUEST_KIND_HEADER] = request.path.endsWith(".data") ? "data" : "document";
   next();
 });
 app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV }));
+
+/** The URL paths ("/icons/field.svg") of the files under `root`, leaving out the folder `skip`. */
+function filesUnder(root, skip) {
+  const paths = new Set();
+  for (const entry of readdirSync(root, { recursive: true, withFileTypes: true })) {
+    if (!entry.isFile()) continue;
+    const path = relative(root, join(entry.parentPath ?? entry.path, entry.name)).split(sep).join("/");
+    if (skip && path.startsWith(`${skip}/`)) continue;
+    paths.add(`/${path}`);
+  }
+  return paths;
+}
 
 const server = app.listen(port, host, () => {
   process.stdout.write(`Firmsand listening on http://${host}:${port}\n`);

@@ -93,7 +93,10 @@ if (needsDatabase) {
         buildApp(appEnv);
         built = true;
       }
-      const app = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "ignore", "inherit"], env: appEnv });
+      // BENCH_APP_NODE_ARGS: Node options for the served app alone, e.g. "--cpu-prof --cpu-prof-dir=/tmp/p"
+      // to see where a request's time goes under the load (Node refuses --cpu-prof in NODE_OPTIONS).
+      const nodeArgs = (process.env.BENCH_APP_NODE_ARGS ?? "").split(" ").filter(Boolean);
+      const app = spawn(process.execPath, [...nodeArgs, "app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "ignore", "inherit"], env: appEnv });
       const stop = async () => {
         if (app.exitCode !== null) return;
         app.kill("SIGTERM");

@@ -104,3 +104,24 @@ test.describe("hardening: reads under load", () => {
     expect(again.status()).toBe(304);
   });
 });
+
+test.describe("hardening: reads under load, static files", () => {
+  test("the build's and public/ files are served from the list made at start; other paths reach the app", async ({ request }) => {
+    // Files of the build (the service worker, the web manifest) and of public/ (icons).
+    const worker = await request.get("/sw.js");
+    expect(worker.status()).toBe(200);
+    expect(worker.headers()["content-type"]).toContain("javascript");
+    expect((await request.get("/manifest.webmanifest")).status()).toBe(200);
+    const icon = await request.get("/icons/field.svg");
+    expect(icon.status()).toBe(200);
+    expect(icon.headers()["content-type"]).toContain("image/svg+xml");
+    // A name that is no file is the app's own 404 page, and a HEAD of a file is answered too.
+    const missing = await request.get("/icons/no-such-icon.svg");
+    expect(missing.status()).toBe(404);
+    expect(missing.headers()["content-type"]).toContain("text/html");
+    expect((await request.head("/favicon.svg")).status()).toBe(200);
+    // Encoded names are decoded before the lookup; a malformed one is left to the app.
+    expect((await request.get("/icons/field%2Esvg")).status()).toBe(200);
+    expect((await request.get("/icons/%E0%A4%A.svg")).status()).toBeGreaterThanOrEqual(400);
+  });
+});
