@@ -20,8 +20,9 @@
 //   load    50 signed-in connections on the map's cells, the progress figures and the overview page
 //           of the seeded demo (database `firmsand_load`), beside the server's floor (/healthz), with
 //           autocannon against the production build (tests/bench/load.ts; --duration, --connections, --runs)
-// Options: --only engine|engine-files|import|event-loop|map|map-demo|bodies|load (repeatable); anything else goes to the engine bench
-// (for example --only engine --runs 1). Leaves no process behind: what it started, it stops.
+// Options: --only engine|engine-files|import|event-loop|map|map-demo|bodies|load (repeatable); anything else goes to
+// the engine, map and load benches (for example --only engine --runs 1, --only map-demo --profile /tmp/p).
+// Leaves no process behind: what it started, it stops.
 import { spawn } from "node:child_process";
 import { join } from "node:path";
 import { DATA_DIR, bin, buildApp, ensureDebianPackage, readPid, ensureNpmPackages, isPortOpen, log, run, takeCheckoutLock, waitFor } from "./lib.mjs";
@@ -124,7 +125,7 @@ if (needsDatabase) {
       if (selected.includes("map")) {
         log("bench: coverage map in Chromium");
         const chromium = ensureDebianPackage("chromium", "chromium");
-        if ((await runStep(bin("tsx"), ["tests/bench/map.ts"], { ...benchEnv, CHROMIUM_PATH: chromium })) !== 0) failed = true;
+        if ((await runStep(bin("tsx"), ["tests/bench/map.ts", ...passThrough], { ...benchEnv, CHROMIUM_PATH: chromium })) !== 0) failed = true;
       }
       await stop();
     }
@@ -140,7 +141,7 @@ if (needsDatabase) {
       if (selected.includes("map-demo")) {
         log("bench: the demo's coverage map in Chromium");
         const chromium = ensureDebianPackage("chromium", "chromium");
-        if ((await runStep(bin("tsx"), ["tests/bench/map.ts", "--demo"], { ...loadEnv, BENCH_APP_PID: String(app.pid), CHROMIUM_PATH: chromium })) !== 0) failed = true;
+        if ((await runStep(bin("tsx"), ["tests/bench/map.ts", "--demo", ...passThrough], { ...loadEnv, BENCH_APP_PID: String(app.pid), CHROMIUM_PATH: chromium })) !== 0) failed = true;
         if (selected.includes("load")) {
           // A fresh server for the load (the map's visits would otherwise have warmed its caches).
           await stop();

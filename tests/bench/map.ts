@@ -24,7 +24,7 @@
  * Bytes are Chromium's own count (DevTools protocol, Network.loadingFinished encodedDataLength:
  * headers plus the body as received) for every request of a cold load in a fresh browser context.
  */
-import { closeSync, createReadStream, mkdtempSync, openSync, rmSync, statSync, writeSync } from "node:fs";
+import { closeSync, createReadStream, mkdirSync, mkdtempSync, openSync, rmSync, statSync, writeFileSync, writeSync } from "node:fs";
 import { availableParallelism, loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { Readable } from "node:stream";
@@ -54,6 +54,7 @@ const argument = (name: string) => {
 };
 const soundings = Number(argument("--soundings") ?? 150_000);
 const keep = process.argv.includes("--keep");
+const profileDir = argument("--profile");
 const reuse = process.argv.includes("--reuse");
 const runs = Math.max(1, Number(argument("--runs") ?? 3));
 const baseUrl = process.env.BENCH_BASE_URL;
@@ -387,7 +388,19 @@ try {
     await context.addInitScript(watchDrawn);
     const page = await context.newPage();
     const cold = await measureLoad(page, seeding.projectId);
+    // --profile DIR: the page's main thread during the warm load, as a .cpuprofile (DevTools, speedscope).
+    const profiler = profileDir ? await context.newCDPSession(page) : null;
+    if (profiler) {
+      await profiler.send("Profiler.enable");
+      await profiler.send("Profiler.setSamplingInterval", { interval: 200 });
+      await profiler.send("Profiler.start");
+    }
     const warm = await measureLoad(page, seeding.projectId);
+    if (profiler && profileDir) {
+      const { profile } = await profiler.send("Profiler.stop");
+      mkdirSync(profileDir, { recursive: true });
+      writeFileSync(join(profileDir, `map-warm-${run + 1}.cpuprofile`), JSON.stringify(profile));
+    }
     await context.close();
     loads.push({ cold, warm });
     console.log(`run ${run + 1}/${runs}: cold ${cold.seconds.toFixed(2)} s, warm ${warm.seconds.toFixed(2)} s (load average ${loadavg()[0].toFixed(1)} on ${availableParallelism()} CPUs)`);
