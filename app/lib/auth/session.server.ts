@@ -6,6 +6,7 @@ import { clientAddress } from "../http/client-address.server";
 import { getEnv } from "../settings/env.server";
 import { appOrigin, isSecureRequest } from "../http/origin.server";
 import { rememberDevice } from "./known-device.server";
+import { BoundedCache } from "../cache/bounded-cache";
 
 // One cookie session for the whole app. The cookie is HttpOnly and SameSite=Lax always, and
 // Secure except on plain http to a loopback address or outside production (browsers drop
@@ -53,24 +54,21 @@ export function getSession(request: Request): Promise<AppSession> {
 
 // The session token of a Cookie header seen before. Checking the cookie's signature (an HMAC
 // through Web Crypto) cost about a twentieth of a signed-in read's time under load; the same
-// header with the same secret always gives the same token, so a bounded map remembers it. The
+// header with the same secret always gives the same token, so a bounded cache remembers it. The
 // session row is still read on every request, so ending a session takes effect at once.
-const tokensByCookieHeader = new Map<string, string | null>();
-const TOKENS_REMEMBERED = 2_000;
-/** Longer headers are checked each time, so the map stays within about 8 MB. */
+const tokensByCookieHeader = new BoundedCache<string | null>(2_000);
+/** Longer headers are checked each time, so the cache stays within about 8 MB. */
 const COOKIE_HEADER_REMEMBERED_UP_TO = 4_096;
 
-async function sessionToken(request: Request): Promise<string | null> {
+function sessionToken(request: Request): Promise<string | null> {
   const header = request.headers.get("Cookie");
-  if (!header) return null;
+  if (!header) return Promise.resolve(null);
+  const read = async () => {
+    const token = (await getSession(request)).get("sessionToken");
+    return typeof token === "string" && token.length > 0 ? token : null;
+  };
   const key = `${isSecureRequest(request) ? "s" : "p"}|${header}`;
-  if (tokensByCookieHeader.has(key)) return tokensByCookieHeader.get(key)!;
-  const token = (await getSession(request)).get("sessionToken");
-  const value = typeof token === "string" && token.length > 0 ? token : null;
-  if (key.length > COOKIE_HEADER_REMEMBERED_UP_TO) return value;
-  if (tokensByCookieHeader.size >= TOKENS_REMEMBERED) tokensByCookieHeader.delete(tokensByCookieHeader.keys().next().value!);
-  tokensByCookieHeader.set(key, value);
-  return value;
+  return key.length > COOKIE_HEADER_REMEMBERED_UP_TO ? read() : tokensByCookieHeader.getOrCompute(key, read);
 }
 
 export function commitSession(request: Request, session: AppSession): Promise<string> {
