@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { byHandLine, dayState, dayStatus, earlierCountersignatureLine, enteredHeadCountsLine, equipmentRows, equipmentTotalsLine, findsLine, headCountCell, interruptionLine, lostHoursLine, productionRows, reportUnits, surveyLine, visitorRows, weatherLine } from "./present";
+import { byHandLine, dayState, dayStatus, earlierCountersignatureLine, enteredHeadCountsLine, equipmentRows, equipmentTotalsLine, findsLine, headCountCell, interruptionLine, lostHoursNote, productionRows, reportUnits, surveyLine, visitorRows, weatherLine } from "./present";
 
 describe("the report's figures written out", () => {
   it("in a feet project's units: US gallons, short tons, pounds", () => {
@@ -134,10 +134,10 @@ describe("weather downtime, head counts and visitors written out", () => {
       .toBe("Weather downtime (storm) from 20:00 to 24:00: 4 h lost on the day");
   });
 
-  it("says the total, and when lines overlapped, that an hour counts once", () => {
-    const lines = [{ lostHours: 2 }, { lostHours: 2.5 }] as Parameters<typeof lostHoursLine>[0]["interruptions"];
-    expect(lostHoursLine({ interruptions: lines, lostHours: 4.5 })).toBe("Lost in all: 4.5 h");
-    expect(lostHoursLine({ interruptions: lines, lostHours: 3.5 })).toBe("Lost in all: 3.5 h (interruptions overlapped: an hour lost to two causes counts once; 4.5 h line by line)");
+  it("says, when lines overlapped, that an hour counts once in the total", () => {
+    const lines = [{ lostHours: 2 }, { lostHours: 2.5 }] as Parameters<typeof lostHoursNote>[0]["interruptions"];
+    expect(lostHoursNote({ interruptions: lines, lostHours: 4.5 })).toBeNull();
+    expect(lostHoursNote({ interruptions: lines, lostHours: 3.5 })).toBe("interruptions overlapped: an hour lost to two causes counts once; 4.5 h line by line");
   });
 
   it("shows an entered head count with the compiled one beside it", () => {

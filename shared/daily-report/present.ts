@@ -99,11 +99,13 @@ export function interruptionLine(event: CompiledDay["interruptions"][number], ti
   return line;
 }
 
-/** "Lost in all: 3.5 h", and when interruptions overlapped, that an hour lost to two causes counts once. */
-export function lostHoursLine(report: Pick<CompiledDay, "interruptions" | "lostHours">): string {
+/**
+ * Said beside the day's lost hours when interruptions overlapped: an hour lost to two causes counts
+ * once, and the lines add up to more ("… counts once; 4.5 h line by line"); null when none overlapped.
+ */
+export function lostHoursNote(report: Pick<CompiledDay, "interruptions" | "lostHours">): string | null {
   const separately = report.interruptions.reduce((sum, event) => sum + event.lostHours, 0);
-  const overlapped = separately > report.lostHours + 0.005;
-  return `Lost in all: ${formatNumber(report.lostHours, 2)} h${overlapped ? ` (interruptions overlapped: an hour lost to two causes counts once; ${formatNumber(separately, 2)} h line by line)` : ""}`;
+  return separately > report.lostHours + 0.005 ? `interruptions overlapped: an hour lost to two causes counts once; ${formatNumber(separately, 2)} h line by line` : null;
 }
 
 /** A team's head count for the table: "—", "4", or "5 entered" when entered over the compiled figure. */
