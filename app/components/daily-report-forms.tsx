@@ -22,6 +22,8 @@ interface Column {
   label: string;
   placeholder?: string;
   maxLength: number;
+  /** A narrow column (a time): its refusal is said below the line, full width, not wrapped into the column. */
+  narrow?: boolean;
   inputMode?: React.HTMLAttributes<HTMLInputElement>["inputMode"];
 }
 
@@ -49,6 +51,7 @@ function LinesForm({ list, intent, columns, grid, saved, errors, legend, descrip
         <CorrectionsNeeded errors={errors} list={list} />
         {lines.map((line, position) => {
           const name = (field: string) => `${list}.${line.id}.${field}`;
+          const errorId = (field: string) => `${name(field)}-error`;
           return (
             <div key={line.id} className={`grid gap-2 rounded border border-line p-3 md:items-start ${grid}`} data-testid={`${testId}-line`}>
               {columns.map((column, index) => (
@@ -61,7 +64,9 @@ function LinesForm({ list, intent, columns, grid, saved, errors, legend, descrip
                   inputMode={column.inputMode}
                   autoComplete="off"
                   defaultValue={line.values[column.field] ?? ""}
-                  error={errors[name(column.field)]}
+                  {...(column.narrow
+                    ? { "aria-invalid": errors[name(column.field)] ? true : undefined, "aria-describedby": errors[name(column.field)] ? errorId(column.field) : undefined }
+                    : { error: errors[name(column.field)] })}
                 />
               ))}
               <div className="md:pt-6">
@@ -69,12 +74,15 @@ function LinesForm({ list, intent, columns, grid, saved, errors, legend, descrip
                   Remove
                 </button>
               </div>
+              {columns.filter((column) => column.narrow && errors[name(column.field)]).map((column) => (
+                <p key={column.field} id={errorId(column.field)} className="text-sm text-danger md:col-span-full">{errors[name(column.field)]}</p>
+              ))}
             </div>
           );
         })}
         {lines.length < maxLines ? (
           <button type="button" className="rounded border border-line px-3 py-2 text-sm" onClick={() => setLines((current) => [...current, { id: nextId(), values: blank() }])}>
-            Add a line
+            Add a {noun.toLowerCase()}
           </button>
         ) : null}
       </fieldset>
@@ -93,8 +101,8 @@ export function WeatherDowntimeForm({ saved, errors, timeZone }: { saved: readon
       legend="Weather downtime"
       description={<>Each spell the weather stopped the work: start and end in local time ({timeZone}, 24-hour clock; 24:00 for the day's end), and the weather in words. A storm through midnight is entered on each day. The lost hours join the interruptions above; an hour lost to two causes counts once. Stopping for weather follows the project's dive safety plan.</>}
       columns={[
-        { field: "start", label: "start", placeholder: CLOCK_HINT, maxLength: 5, inputMode: "numeric" },
-        { field: "end", label: "End", placeholder: CLOCK_HINT, maxLength: 5, inputMode: "numeric" },
+        { field: "start", label: "start", placeholder: CLOCK_HINT, maxLength: 5, narrow: true, inputMode: "numeric" },
+        { field: "end", label: "End", placeholder: CLOCK_HINT, maxLength: 5, narrow: true, inputMode: "numeric" },
         { field: "reason", label: "Weather", placeholder: "lightning within 10 miles", maxLength: 300,  },
       ]}
       saved={saved.map((spell) => ({ start: spell.start, end: spell.end, reason: spell.reason }))}
@@ -107,12 +115,12 @@ export function WeatherDowntimeForm({ saved, errors, timeZone }: { saved: readon
 export function VisitorsForm({ saved, errors, timeZone }: { saved: readonly VisitorLine[]; errors: Record<string, string>; timeZone: string }) {
   return (
     <LinesForm
-      list="visitors" intent="visitors" grid="md:grid-cols-[6rem_6rem_minmax(0,1.2fr)_minmax(0,1.2fr)_minmax(0,2fr)_auto]" testId="visitors" noun="Visitor" maxLines={VISITORS_MAX_LINES} submitLabel="Save inspections and visitors"
+      list="visitors" intent="visitors" grid="md:grid-cols-[8.5rem_6rem_minmax(0,1.2fr)_minmax(0,1.2fr)_minmax(0,2fr)_auto]" testId="visitors" noun="Visitor" maxLines={VISITORS_MAX_LINES} submitLabel="Save inspections and visitors"
       legend="Inspections and visitors today"
       description={<>A line per inspector or visitor: arrived and left in local time ({timeZone}, 24-hour clock), name, organisation, and the purpose or what the inspection covered. Leave "Left" blank while they are on site.</>}
       columns={[
-        { field: "arrived", label: "arrived", placeholder: CLOCK_HINT, maxLength: 5, inputMode: "numeric" },
-        { field: "left", label: "Left", placeholder: CLOCK_HINT, maxLength: 5, inputMode: "numeric" },
+        { field: "arrived", label: "arrived", placeholder: CLOCK_HINT, maxLength: 5, narrow: true, inputMode: "numeric" },
+        { field: "left", label: "Left", placeholder: CLOCK_HINT, maxLength: 5, narrow: true, inputMode: "numeric" },
         { field: "name", label: "Name", maxLength: 120,  },
         { field: "organisation", label: "Organisation", maxLength: 120,  },
         { field: "purpose", label: "Purpose or notes", maxLength: 500,  },
@@ -130,7 +138,8 @@ export function VisitorsForm({ saved, errors, timeZone }: { saved: readonly Visi
 export function CrewsForm({ teams, teamNames, saved, errors }: { teams: readonly TeamDay[]; teamNames: readonly string[]; saved: readonly CrewHeadCount[]; errors: Record<string, string> }) {
   const rows = [...new Set([...teams.map((team) => team.team), ...teamNames])];
   return (
-    <Form method="post" className="mt-3 space-y-3 print:hidden" data-testid="crews-form">
+    // noValidate: the server's refusal names the line and the rule ("line 1 (Alpha): … whole number … 0 to 99"), where the browser's would not name the crew.
+    <Form method="post" className="mt-3 space-y-3 print:hidden" data-testid="crews-form" noValidate>
       <fieldset className="space-y-2">
         <legend className="text-sm font-medium">Crew on site, per team</legend>
         <p className="text-sm text-muted">The compiled count comes from the team's roster on the day plan, else from the divers in the dive log. Enter the people who were on site (0 to {HEAD_COUNT_MAX}) where it differs, with the reason if you like; leave it blank to keep the compiled count.</p>
@@ -144,7 +153,7 @@ export function CrewsForm({ teams, teamNames, saved, errors }: { teams: readonly
               <input type="hidden" name={name("team")} value={team} />
               <div className="text-sm md:pt-6">
                 <span className="font-medium">{team}</span>
-                <span className="block text-muted">compiled: <span className="figures">{compiled ? compiledHeadCountWords(compiled) : "none compiled"}</span></span>
+                <span className="block text-muted">{compiled?.compiledHeadCount != null ? <>compiled: <span className="figures">{compiledHeadCountWords(compiled)}</span></> : "no compiled count (not on the day plan, no dives logged)"}</span>
               </div>
               <TextField label={`${team}: head count`} name={name("headCount")} type="number" inputMode="numeric" min={0} max={HEAD_COUNT_MAX} step={1} defaultValue={entered ? String(entered.headCount) : ""} error={errors[name("headCount")] ?? errors[name("team")]} />
               <TextField label="Reason (optional)" name={name("reason")} maxLength={500} defaultValue={entered?.reason ?? ""} error={errors[name("reason")]} />

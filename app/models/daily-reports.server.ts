@@ -430,9 +430,13 @@ async function saveEnteredList(project: ProjectView, user: UserView, date: strin
   });
 }
 
-/** The names of the project's teams (retired ones too: an older day's crew may have been one): what a head count may name. */
-export async function projectTeamNames(project: ProjectView): Promise<string[]> {
-  const teams = await DiveTeam.findAll({ where: { projectId: project.id }, attributes: ["name"], order: [["sortOrder", "ASC"], ["name", "ASC"]] });
+/**
+ * The names of the project's teams: what a head count may name (retired ones too, since an older
+ * day's crew may have been one); `inService` keeps to the teams in service (the page's form lists
+ * those beside the day's own teams).
+ */
+export async function projectTeamNames(project: ProjectView, { inService = false } = {}): Promise<string[]> {
+  const teams = await DiveTeam.findAll({ where: { projectId: project.id, ...(inService ? { retiredAt: null } : {}) }, attributes: ["name"], order: [["sortOrder", "ASC"], ["name", "ASC"]] });
   return teams.map((team) => team.name);
 }
 

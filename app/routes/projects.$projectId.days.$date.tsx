@@ -36,8 +36,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const pendingMail = pending ? (await mailStates([pending.mailRef])).get(pending.mailRef)?.status ?? null : null;
   // A day with no equipment yet starts from the names on the latest earlier report (hours left to fill in).
   const equipmentNames = canSign && !view.signed && (view.report.entered.equipment ?? []).length === 0 ? await earlierEquipmentNames(access.project, date) : [];
-  // The teams a head count may be entered for: the project's, beside those of the day's records.
-  const teamNames = canSign && !view.signed ? await projectTeamNames(access.project) : [];
+  // The teams the head-count form offers beside those of the day's records: the project's teams in service.
+  const teamNames = canSign && !view.signed ? await projectTeamNames(access.project, { inService: true }) : [];
   return { ...view, equipmentNames, teamNames, dayHours: hoursInDay(access.project, date), countersignPending: pending ? { email: pending.email, expiresAt: pending.expiresAt, mail: pendingMail } : null, projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, lengthLabel: unitLabel(access.project.lengthUnit), canSign: can(access, "reports.sign"), canConfigureStations: can(access, "water-quality.configure"), signerName: access.user.name };
 }
 
