@@ -11,6 +11,8 @@ import { action as signAction } from "~/routes/api.projects.$projectId.days.$dat
 import { action as countersignRequestAction } from "~/routes/api.projects.$projectId.days.$date.countersign-requests";
 import { action as pageAction, loader as pageLoader } from "~/routes/projects.$projectId.days.$date";
 import { dailyReportBatchPdf, dailyReportPdf, lookUpCountersign } from "~/models/daily-reports.server";
+import { lostWorkingTime } from "~/models/stoppages.server";
+import { dayNumber } from "../../shared/progress/calendar-days";
 import { deleteObject, listObjectKeys } from "~/lib/storage/storage.server";
 import { pdfPages } from "../pdf-text";
 import { ORIGIN, addMember, makeProject, makeUser, requestAs } from "./helpers";
@@ -264,5 +266,18 @@ describe("a signed report", () => {
       expect(lookup.view.report.entered.visitors).toHaveLength(2);
       expect(lookup.view.report.interruptions.filter((event) => event.kind === "weather")).toHaveLength(2);
     }
+  });
+});
+
+describe("the progress figures' lost working time", () => {
+  it("takes the weather downtime entered on the reports out of the working hours, an overlap with a stand-down counted once", async () => {
+    await Project.update({ workDayStart: "07:00", workDayEnd: "19:00" }, { where: { id: projectId } });
+    const lost = await lostWorkingTime(await project(), Date.parse("2026-12-01T00:00:00Z"));
+    // computed: DAY loses 07:00–07:30 (fog) and 14:00–17:00 (lightning 14–16, manatee 15:30–17): 3.5 h of its 12 working hours;
+    // the two storm days lose their whole 07:00–19:00 (12 h each, whatever the day's length): 3.5 + 12 + 12 = 27.5 h.
+    expect(lost.shares.get(dayNumber(DAY))).toBeCloseTo(3.5 / 12, 9);
+    expect(lost.shares.get(dayNumber(SPRING_FORWARD))).toBe(1);
+    expect(lost.shares.get(dayNumber(FALL_BACK))).toBe(1);
+    expect(lost.lostHours).toBeCloseTo(27.5, 9);
   });
 });
