@@ -14,7 +14,7 @@ import { TextField } from "./text-field";
 function CorrectionsNeeded({ errors, list }: { errors: Record<string, string>; list: string }) {
   const count = Object.keys(errors).filter((field) => field.startsWith(`${list}.`)).length;
   if (count === 0) return null;
-  return <p role="alert" className="text-sm text-danger">{count === 1 ? "One line needs a correction" : `${count} corrections are needed`}: see the fields marked below.{errors[`${list}.form`] ? ` ${errors[`${list}.form`]}` : ""}</p>;
+  return <p role="alert" className="text-sm text-danger">{count === 1 ? "One line needs a correction" : `${count} corrections are needed`}: see the fields marked below.</p>;
 }
 
 interface Column {

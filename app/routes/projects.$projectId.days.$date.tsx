@@ -76,10 +76,10 @@ function linesFromForm(form: FormData, list: string, fields: readonly string[], 
   });
 }
 
-/** A list's error said on its own field on the form: `<list>.<position on the form>.<field>`. */
+/** A line's error said on its own field on the form, `<list>.<position on the form>.<field>`; the list's own (too many lines) at the top. */
 const onFormLine = (list: string, lines: ReadonlyArray<{ formIndex: number }>) => (field: string) => {
   const [head, index, name] = field.split(".");
-  return head === list && index !== undefined && name !== undefined ? `${list}.${lines[Number(index)]?.formIndex ?? index}.${name}` : head === list ? `${list}.form` : "form";
+  return head === list && index !== undefined && name !== undefined ? `${list}.${lines[Number(index)]?.formIndex ?? index}.${name}` : "form";
 };
 
 export async function action({ request, params }: Route.ActionArgs) {
