@@ -137,9 +137,10 @@ export function crewsInputSchema(teamNames: readonly string[]) {
       const seen = new Map<string, number>();
       crews.forEach((line, index) => {
         const team = optionalText(line.team);
-        const named = `line ${index + 1}${team ? ` (${team})` : ""}`;
+        const named = `line ${index + 1}${team && team.length <= 120 ? ` (${team})` : ""}`;
         const issue = (field: string, message: string) => context.addIssue({ code: "custom", path: ["crews", index, field], message: `${named}: ${message}` });
         if (typeof line.team !== "string" || team === "") issue("team", "name the team");
+        else if (team.length > 120) issue("team", "a team's name is at most 120 characters");
         else if (!known.has(team.toLowerCase())) issue("team", `this project has no team named ${team}${teamNames.length > 0 ? ` (its teams: ${teamNames.join(", ")})` : ""}`);
         else if (seen.has(team.toLowerCase())) issue("team", `${team} is already on line ${seen.get(team.toLowerCase())! + 1}: one head count per team`);
         else seen.set(team.toLowerCase(), index);
