@@ -1,7 +1,7 @@
 import { Fragment } from "react";
-import type { CompiledDay, EquipmentLine } from "../../shared/daily-report/compile";
+import type { CompiledDay, EnteredNotes, EquipmentLine } from "../../shared/daily-report/compile";
 import { Link } from "react-router";
-import { byHandLine, equipmentRows, equipmentTotalsLine, findsLine, formatNumber as fmt, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine } from "../../shared/daily-report/present";
+import { byHandLine, enteredHeadCountsLine, equipmentRows, equipmentTotalsLine, findsLine, headCountCell, formatNumber as fmt, interruptionLine, lostHoursNote, noComplianceStationLine, productionRows, reportUnits, surveyLine, visitorRows } from "../../shared/daily-report/present";
 import { localClockOf } from "../../shared/local-time";
 import { unitLabel, type LengthUnit } from "../../shared/units";
 
@@ -38,8 +38,36 @@ export function EquipmentHours({ equipment }: { equipment: readonly EquipmentLin
   );
 }
 
-/** `stationSetupHref`: the water-quality setup page, for a reader who may add a station there. */
-export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupHref }: { report: CompiledDay; timeZone: string; lengthUnit: LengthUnit; stationSetupHref?: string }) {
+/**
+ * The day's inspections and visitors with their local times (the PDF writes the same rows), and
+ * the free-text note of a report entered before visitors were lines.
+ */
+export function InspectionsAndVisitors({ entered }: { entered: Pick<EnteredNotes, "visitors" | "inspections"> }) {
+  const rows = visitorRows(entered.visitors);
+  return (
+    <div data-testid="visitors">
+      {rows.length === 0 ? <p className="text-sm text-muted">No inspections or visitors entered.</p> : (
+        <div className="overflow-x-auto focus-visible:outline-2 focus-visible:outline-lagoon" tabIndex={0} role="region" aria-label="Inspections and visitors, scrollable">
+          <table className="w-full text-sm">
+            <thead><tr className="text-left align-bottom text-muted"><th scope="col" className="pr-3">Arrived</th><th scope="col" className="pr-3">Left</th><th scope="col" className="pr-3">Name</th><th scope="col" className="pr-3">Organisation</th><th scope="col">Purpose or notes</th></tr></thead>
+            <tbody>
+              {rows.map(([arrived, left, name, organisation, purpose], index) => (
+                <tr key={index} className="border-t border-line"><td className="figures pr-3">{arrived}</td><td className="figures pr-3">{left}</td><td className="pr-3">{name}</td><td className="pr-3">{organisation}</td><td className="break-words">{purpose}</td></tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+      {entered.inspections ? <p className="mt-1 text-sm" data-testid="inspections-note"><span className="font-medium">Earlier note (entered as text before visitors had their own lines):</span> {entered.inspections}</p> : null}
+    </div>
+  );
+}
+
+/**
+ * `stationSetupHref`: the water-quality setup page, for a reader who may add a station there.
+ * `crewsEditor`, `interruptionsEditor`: the day page's forms, shown in their sections until it is signed.
+ */
+export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupHref, crewsEditor, interruptionsEditor }: { report: CompiledDay; timeZone: string; lengthUnit: LengthUnit; stationSetupHref?: string; crewsEditor?: React.ReactNode; interruptionsEditor?: React.ReactNode }) {
   const units = reportUnits(lengthUnit);
   const lengthLabel = unitLabel(lengthUnit);
   const clock = (iso: string) => localClockOf(Date.parse(iso), timeZone);
@@ -53,12 +81,13 @@ export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupH
               <thead><tr className="text-left align-bottom text-muted"><th scope="col" className="pr-3">Team</th><th scope="col" className="pr-3 text-right">Head count</th><th scope="col" className="pr-3 text-right">Dives</th><th scope="col" className="pr-3 text-right">Bottom time (min)</th><th scope="col" className="pr-3 text-right">Max depth ({lengthLabel})</th><th scope="col">Cells</th></tr></thead>
               <tbody>
                 {report.teams.map((team) => (
-                  <tr key={team.team} className="border-t border-line"><td className="pr-3">{team.team}</td><td className="figures pr-3 text-right">{team.headCount ?? "—"}</td><td className="figures pr-3 text-right">{team.dives}</td><td className="figures pr-3 text-right">{team.bottomMinutes}</td><td className="figures pr-3 text-right">{team.maxDepth ?? "—"}</td><td className="figures break-words">{team.cells.join(" ")}</td></tr>
+                  <tr key={team.team} className="border-t border-line"><td className="pr-3">{team.team}</td><td className="figures pr-3 text-right whitespace-nowrap">{headCountCell(team)}</td><td className="figures pr-3 text-right">{team.dives}</td><td className="figures pr-3 text-right">{team.bottomMinutes}</td><td className="figures pr-3 text-right">{team.maxDepth ?? "—"}</td><td className="figures break-words">{team.cells.join(" ")}</td></tr>
                 ))}
               </tbody>
             </table>
           </div>
         ) : null}
+        {enteredHeadCountsLine(report.teams) ? <p className="mt-2 text-sm" data-testid="entered-head-counts">{enteredHeadCountsLine(report.teams)}</p> : null}
         {report.teams.some((team) => (team.visitors ?? []).length > 0) ? (
           <p className="mt-2 text-sm" data-testid="report-visitors">
             Visitors diving (not on the team's roster): {report.teams.filter((team) => (team.visitors ?? []).length > 0).map((team) => `${team.team}: ${team.visitors!.join(", ")}`).join("; ")}.
@@ -66,6 +95,7 @@ export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupH
         ) : null}
         {report.dives.flags.length > 0 ? <ul className="mt-2 list-disc pl-5 text-sm text-danger">{report.dives.flags.map((flag) => <li key={flag}>{flag}</li>)}</ul> : null}
         {report.dives.flags.length > 0 ? <p className="text-xs text-muted">Flags are information from the published table, never approval; the dive safety plan governs.</p> : null}
+        {crewsEditor}
       </Section>
 
       <Section title="Production">
@@ -105,7 +135,8 @@ export function DailyReportFigures({ report, timeZone, lengthUnit, stationSetupH
             ))}
           </ul>
         )}
-        <p className="mt-1 text-sm">Lost in all: <span className="figures">{fmt(report.lostHours, 2)}</span> h</p>
+        <p className="mt-1 text-sm" data-testid="lost-hours">Lost in all: <span className="figures">{fmt(report.lostHours, 2)}</span> h{lostHoursNote(report) ? ` (${lostHoursNote(report)})` : ""}</p>
+        {interruptionsEditor}
       </Section>
 
       <Section title="Finds">

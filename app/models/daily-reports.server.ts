@@ -1,6 +1,9 @@
 import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
-import { EQUIPMENT_MAX_LINES, compileDay, localDayBounds, type CompiledDay, type DayInterruption, type SurveyTotals } from "../../shared/daily-report/compile";
+import {
+  EQUIPMENT_MAX_LINES, HEAD_COUNT_MAX, VISITORS_MAX_LINES, WEATHER_DOWNTIME_MAX_LINES, compileDay, localDayBounds, type CompiledDay, type DayInterruption, type SurveyTotals,
+} from "../../shared/daily-report/compile";
+import { CLOCK_PATTERN, END_CLOCK_PATTERN, instantOfClock } from "../../shared/daily-report/local-periods";
 import { BATCH_DAYS, dayStatus, type DayState, type ReportEvents } from "../../shared/daily-report/present";
 import { localDayOf, minutesOfClock } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
@@ -37,7 +40,8 @@ export const enteredNotesInputSchema = z.object({
   wind: text(120),
   rain: text(120),
   effect: text(2000),
-  inspections: text(4000),
+  /** The free-text note on inspections from before visitor lines: sent only while the page shows it (kept otherwise). */
+  inspections: z.string().trim().max(4000).optional(),
   safety: text(4000),
   notes: text(4000),
 });
@@ -112,13 +116,139 @@ export function equipmentInputSchema(dayHours = 24) {
 
 const formatHours = (hours: number) => String(Math.round(hours * 100) / 100);
 
+const CREWS_MAX_LINES = 30;
+
+/** A line of an entered list: each field checked in the list's refinement, where the line's number is known. */
+const enteredLine = (fields: readonly string[], shape: string) => z.object(Object.fromEntries(fields.map((field) => [field, z.unknown().optional()])), { message: `each line is ${shape}` });
+const optionalText = (value: unknown) => (typeof value === "string" ? value.trim() : "");
+
+/**
+ * Head counts entered over the compiled ones (the page's form and `PUT …/crews`): a line per crew,
+ * naming one of the project's teams (`teamNames`), a whole number of people from 0 to 99 and,
+ * optionally, why the compiled figure is not the crew on site. The list replaces the entered
+ * counts; a team left out goes back to its compiled count. Refusals name the line and the field.
+ */
+export function crewsInputSchema(teamNames: readonly string[]) {
+  const shape = '{"team", "headCount", "reason"}';
+  const known = new Map(teamNames.map((name) => [name.toLowerCase(), name]));
+  return z
+    .object({ crews: z.array(enteredLine(["team", "headCount", "reason"], shape), { message: `crews is a list of ${shape}` }).max(CREWS_MAX_LINES, `at most ${CREWS_MAX_LINES} crews on one day's report`) })
+    .superRefine(({ crews }, context) => {
+      const seen = new Map<string, number>();
+      crews.forEach((line, index) => {
+        const team = optionalText(line.team);
+        const named = `line ${index + 1}${team && team.length <= 120 ? ` (${team})` : ""}`;
+        const issue = (field: string, message: string) => context.addIssue({ code: "custom", path: ["crews", index, field], message: `${named}: ${message}` });
+        if (typeof line.team !== "string" || team === "") issue("team", "name the team");
+        else if (team.length > 120) issue("team", "a team's name is at most 120 characters");
+        else if (!known.has(team.toLowerCase())) issue("team", `this project has no team named ${team}${teamNames.length > 0 ? ` (its teams: ${teamNames.join(", ")})` : ""}`);
+        else if (seen.has(team.toLowerCase())) issue("team", `${team} is already on line ${seen.get(team.toLowerCase())! + 1}: one head count per team`);
+        else seen.set(team.toLowerCase(), index);
+        if (typeof line.headCount !== "number" || !Number.isInteger(line.headCount) || line.headCount < 0 || line.headCount > HEAD_COUNT_MAX) {
+          issue("headCount", `the head count is a whole number of people from 0 to ${HEAD_COUNT_MAX}`);
+        }
+        if (line.reason !== undefined && line.reason !== null && typeof line.reason !== "string") issue("reason", "the reason is words");
+        else if (optionalText(line.reason).length > 500) issue("reason", "the reason is at most 500 characters");
+      });
+    })
+    .transform(({ crews }) => ({
+      crews: crews.map((line) => ({ team: known.get(optionalText(line.team).toLowerCase())!, headCount: Number(line.headCount), reason: optionalText(line.reason) })),
+    }));
+}
+
+/**
+ * Checks a local wall-clock time of the report's day; returns its instant, or says what is wrong.
+ * `end`: 24:00 (the day's end) is allowed.
+ */
+function clockOnDay(value: unknown, date: string, timeZone: string, end: boolean): { ms: number } | { problem: string } {
+  const clock = typeof value === "string" ? value.trim() : "";
+  if (!(end ? END_CLOCK_PATTERN : CLOCK_PATTERN).test(clock)) return { problem: `is a time written HH:MM on the 24-hour clock${end ? " (24:00 for the end of the day)" : ""}` };
+  const ms = instantOfClock(date, clock, timeZone);
+  if (ms === null) return { problem: `${clock} does not exist on ${date}: the clocks went forward an hour that night` };
+  return { ms };
+}
+
+/**
+ * The day's weather downtime (the page's form and `PUT …/weather-downtime`): spells with a start and
+ * an end in the project's local time on the report's day (the end may be 24:00), and the reason in
+ * words. The end comes after the start (a spell through midnight is entered on each day); spells do
+ * not overlap one another. On the day the clocks go back, a time in the repeated hour is its first
+ * occurrence. Refusals name the line and the field.
+ */
+export function weatherDowntimeInputSchema(date: string, timeZone: string) {
+  const shape = '{"start", "end", "reason"}';
+  return z
+    .object({ weatherDowntime: z.array(enteredLine(["start", "end", "reason"], shape), { message: `weatherDowntime is a list of ${shape}` }).max(WEATHER_DOWNTIME_MAX_LINES, `at most ${WEATHER_DOWNTIME_MAX_LINES} spells of weather downtime on one day's report`) })
+    .superRefine(({ weatherDowntime }, context) => {
+      const spells: Array<{ index: number; startMs: number; endMs: number; text: string }> = [];
+      weatherDowntime.forEach((line, index) => {
+        const issue = (field: string, message: string) => context.addIssue({ code: "custom", path: ["weatherDowntime", index, field], message: `line ${index + 1}: ${message}` });
+        const start = clockOnDay(line.start, date, timeZone, false);
+        const end = clockOnDay(line.end, date, timeZone, true);
+        if ("problem" in start) issue("start", `the start ${start.problem}`);
+        if ("problem" in end) issue("end", `the end ${end.problem}`);
+        const reason = optionalText(line.reason);
+        if (typeof line.reason !== "string" || reason === "") issue("reason", "say what weather stopped the work (e.g. lightning within 10 miles)");
+        else if (reason.length > 300) issue("reason", "the reason is at most 300 characters");
+        if ("ms" in start && "ms" in end) {
+          if (end.ms <= start.ms) issue("end", `the end (${String(line.end).trim()}) comes after the start (${String(line.start).trim()}); downtime through midnight is entered on each day`);
+          else spells.push({ index, startMs: start.ms, endMs: end.ms, text: `${String(line.start).trim()}–${String(line.end).trim()}` });
+        }
+      });
+      // A later line that begins before an earlier-starting one ends overlaps it.
+      spells.sort((a, b) => a.startMs - b.startMs || a.index - b.index);
+      spells.forEach((spell, position) => {
+        const before = spells.slice(0, position).find((other) => other.endMs > spell.startMs);
+        if (!before) return;
+        const [later, earlier] = spell.index > before.index ? [spell, before] : [before, spell];
+        context.addIssue({ code: "custom", path: ["weatherDowntime", later.index, "start"], message: `line ${later.index + 1}: ${later.text} overlaps line ${earlier.index + 1} (${earlier.text}); enter each spell of downtime once` });
+      });
+    })
+    .transform(({ weatherDowntime }) => ({
+      weatherDowntime: weatherDowntime.map((line) => ({ start: String(line.start).trim(), end: String(line.end).trim(), reason: optionalText(line.reason) })),
+    }));
+}
+
+/**
+ * The day's inspections and visitors (the page's form and `PUT …/visitors`): who (name required,
+ * organisation), why (purpose, or what the inspection covered), and when they arrived and left in
+ * the project's local time on the report's day; the leaving time may be left out (the missing list
+ * then asks for it), and comes after the arrival. Refusals name the line and the field.
+ */
+export function visitorsInputSchema(date: string, timeZone: string) {
+  const shape = '{"arrived", "left", "name", "organisation", "purpose"}';
+  return z
+    .object({ visitors: z.array(enteredLine(["arrived", "left", "name", "organisation", "purpose"], shape), { message: `visitors is a list of ${shape}` }).max(VISITORS_MAX_LINES, `at most ${VISITORS_MAX_LINES} inspections and visitors on one day's report`) })
+    .superRefine(({ visitors }, context) => {
+      visitors.forEach((line, index) => {
+        const issue = (field: string, message: string) => context.addIssue({ code: "custom", path: ["visitors", index, field], message: `line ${index + 1}: ${message}` });
+        const name = optionalText(line.name);
+        if (typeof line.name !== "string" || name === "") issue("name", "name the visitor or inspector");
+        else if (name.length > 120) issue("name", "the name is at most 120 characters");
+        for (const [field, most] of [["organisation", 120], ["purpose", 500]] as const) {
+          if (line[field] !== undefined && line[field] !== null && typeof line[field] !== "string") issue(field, `the ${field} is words`);
+          else if (optionalText(line[field]).length > most) issue(field, `the ${field} is at most ${most} characters`);
+        }
+        const arrived = clockOnDay(line.arrived, date, timeZone, false);
+        if ("problem" in arrived) issue("arrived", `the time of arrival ${arrived.problem}`);
+        if (line.left === undefined || line.left === null || optionalText(line.left) === "") return;
+        const left = clockOnDay(line.left, date, timeZone, true);
+        if ("problem" in left) issue("left", `the time of leaving ${left.problem}`);
+        else if ("ms" in arrived && left.ms <= arrived.ms) issue("left", `the time of leaving (${optionalText(line.left)}) comes after the arrival (${optionalText(line.arrived)})`);
+      });
+    })
+    .transform(({ visitors }) => ({
+      visitors: visitors.map((line) => ({ arrived: optionalText(line.arrived), left: optionalText(line.left), name: optionalText(line.name), organisation: optionalText(line.organisation), purpose: optionalText(line.purpose) })),
+    }));
+}
+
 /** The hours in the project's local day: 24, or 23 / 25 across a daylight-saving change. */
 export function hoursInDay(project: ProjectView, date: string): number {
   const { startMs, endMs } = localDayBounds(date, project.timeZone);
   return (endMs - startMs) / 3_600_000;
 }
 
-const EMPTY_NOTES: EnteredNotesRecord = { weather: null, equipment: [], inspections: "", safety: "", notes: "" };
+const EMPTY_NOTES: EnteredNotesRecord = { weather: null, equipment: [], crews: [], weatherDowntime: [], visitors: [], inspections: "", safety: "", notes: "" };
 
 export interface DailyReportView {
   date: string;
@@ -265,8 +395,8 @@ export async function saveEnteredNotes(project: ProjectView, user: UserView, dat
   await getSequelize().transaction(async (transaction) => {
     const [row] = await DailyReport.findOrCreate({ where: { projectId: project.id, localDate: date }, defaults: { projectId: project.id, localDate: date, entered: EMPTY_NOTES }, transaction, lock: transaction.LOCK.UPDATE });
     if (row.signedAt) throw new ConflictError(LOCKED);
-    // The equipment lines are saved on their own (saveEquipment) and kept here.
-    const entered: EnteredNotesRecord = { weather, equipment: row.entered.equipment, inspections: input.inspections, safety: input.safety, notes: input.notes };
+    // The lists (equipment, head counts, weather downtime, visitors) are saved on their own and kept here.
+    const entered: EnteredNotesRecord = { ...row.entered, weather, inspections: input.inspections ?? row.entered.inspections, safety: input.safety, notes: input.notes };
     await row.update({ entered }, { transaction });
     await recordAudit({ action: AUDIT_ACTIONS.dailyReportNotesEntered, projectId: project.id, userId: user.id, ip, detail: { date } }, transaction);
   });
@@ -284,13 +414,49 @@ export async function earlierEquipmentNames(project: ProjectView, date: string):
  * audited like the weather and notes; refused once the report is signed.
  */
 export async function saveEquipment(project: ProjectView, user: UserView, date: string, input: { equipment: EnteredNotesRecord["equipment"] }, ip: string | null = null): Promise<EnteredNotesRecord["equipment"]> {
+  await saveEnteredList(project, user, date, { equipment: input.equipment }, { equipment: input.equipment.map((line) => line.name) }, ip);
+  return input.equipment;
+}
+
+/**
+ * Replaces one entered list of the day's report (equipment, head counts, weather downtime, visitors)
+ * under the report's row lock, audited like the weather and notes; refused once the report is signed.
+ */
+async function saveEnteredList(project: ProjectView, user: UserView, date: string, patch: Partial<EnteredNotesRecord>, detail: Record<string, unknown>, ip: string | null): Promise<void> {
   await getSequelize().transaction(async (transaction) => {
     const [row] = await DailyReport.findOrCreate({ where: { projectId: project.id, localDate: date }, defaults: { projectId: project.id, localDate: date, entered: EMPTY_NOTES }, transaction, lock: transaction.LOCK.UPDATE });
     if (row.signedAt) throw new ConflictError(LOCKED);
-    await row.update({ entered: { ...row.entered, equipment: input.equipment } }, { transaction });
-    await recordAudit({ action: AUDIT_ACTIONS.dailyReportNotesEntered, projectId: project.id, userId: user.id, ip, detail: { date, equipment: input.equipment.map((line) => line.name) } }, transaction);
+    await row.update({ entered: { ...row.entered, ...patch } }, { transaction });
+    await recordAudit({ action: AUDIT_ACTIONS.dailyReportNotesEntered, projectId: project.id, userId: user.id, ip, detail: { date, ...detail } }, transaction);
   });
-  return input.equipment;
+}
+
+/**
+ * The names of the project's teams: what a head count may name (retired ones too, since an older
+ * day's crew may have been one); `inService` keeps to the teams in service (the page's form lists
+ * those beside the day's own teams).
+ */
+export async function projectTeamNames(project: ProjectView, { inService = false } = {}): Promise<string[]> {
+  const teams = await DiveTeam.findAll({ where: { projectId: project.id, ...(inService ? { retiredAt: null } : {}) }, attributes: ["name"], order: [["sortOrder", "ASC"], ["name", "ASC"]] });
+  return teams.map((team) => team.name);
+}
+
+/** Replaces the head counts entered over the compiled ones (checked by `crewsInputSchema`); a team left out goes back to its compiled count. */
+export async function saveCrews(project: ProjectView, user: UserView, date: string, input: { crews: EnteredNotesRecord["crews"] }, ip: string | null = null): Promise<EnteredNotesRecord["crews"]> {
+  await saveEnteredList(project, user, date, { crews: input.crews }, { crews: input.crews.map((crew) => `${crew.team}: ${crew.headCount}`) }, ip);
+  return input.crews;
+}
+
+/** Replaces the day's weather downtime (checked by `weatherDowntimeInputSchema` against the day). */
+export async function saveWeatherDowntime(project: ProjectView, user: UserView, date: string, input: { weatherDowntime: EnteredNotesRecord["weatherDowntime"] }, ip: string | null = null): Promise<EnteredNotesRecord["weatherDowntime"]> {
+  await saveEnteredList(project, user, date, { weatherDowntime: input.weatherDowntime }, { weatherDowntime: input.weatherDowntime.map((spell) => `${spell.start}–${spell.end} ${spell.reason}`) }, ip);
+  return input.weatherDowntime;
+}
+
+/** Replaces the day's inspections and visitors (checked by `visitorsInputSchema` against the day). */
+export async function saveVisitors(project: ProjectView, user: UserView, date: string, input: { visitors: EnteredNotesRecord["visitors"] }, ip: string | null = null): Promise<EnteredNotesRecord["visitors"]> {
+  await saveEnteredList(project, user, date, { visitors: input.visitors }, { visitors: input.visitors.map((visitor) => visitor.name) }, ip);
+  return input.visitors;
 }
 
 /**

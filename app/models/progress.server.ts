@@ -177,8 +177,8 @@ export async function loadProgress(project: ProjectView, options: { crossCheck?:
       "Removed volume is measured against the baseline survey; each survey date's figures include every survey up to that date.",
       "Production per working day is the removed volume between two survey dates divided by the working days between them.",
       lost.lostHours > 0
-        ? `Hours lost to turbidity stop-work and wildlife stand-downs (${Math.round(lost.lostHours * 10) / 10} h in all, within the working hours ${lost.workingHours}) are taken out of those working days, for production and forecasts alike; forecasts assume no further stoppages.`
-        : "No working hours have been lost to turbidity stop-work or wildlife stand-downs; were any lost, they would come out of the working days.",
+        ? `Hours lost to turbidity stop-work, wildlife stand-downs and the weather downtime entered on the daily reports (${Math.round(lost.lostHours * 10) / 10} h in all, within the working hours ${lost.workingHours}; an hour lost to two causes counts once) are taken out of those working days, for production and forecasts alike; forecasts assume no further stoppages.`
+        : "No working hours have been lost to turbidity stop-work, wildlife stand-downs or weather downtime; were any lost, they would come out of the working days.",
       basisWords,
       `An interval resting on fewer than ${THIN_INTERVAL_WORKING_DAYS} working days is thin: its rate is drawn lighter, since one good or bad day swings it.`,
       `A zone's rate is taken over a window of ${RATE_WINDOW_CALENDAR_DAYS} calendar days before the latest survey date: its intervals between surveys that showed a change (of at least 5 % of its planned volume, so edge soundings of a pass over a neighbouring zone do not count) and that end in the window. The mean rate is their removal divided by their weekdays (not the days dives were logged: the finish is counted on weekdays, and a dive log begun part way through an interval would make its rate many times too fast); the range runs from the slowest to the fastest of them.`,

@@ -4,6 +4,8 @@ import { lostWorkingDayShares } from "../../shared/progress/lost-hours";
 import { getWaterQualitySettings, listStopWork, type StopWorkView } from "./water-quality.server";
 import { listStandDowns, type StandDownView } from "./wildlife.server";
 import { minutesOfClock as minutesOf } from "../../shared/local-time";
+import { instantOfClock } from "../../shared/daily-report/local-periods";
+import { DailyReport } from "~/lib/db.server";
 
 /**
  * What stops work on the project right now: open turbidity stop-work events and wildlife
@@ -34,17 +36,32 @@ export function workStoppedMessage(stoppages: Stoppages): string | null {
 }
 
 /**
- * The share of each working day lost to turbidity stop-work events and wildlife stand-downs (open
- * ones to now), within the project's working hours (its setting, else the water-quality work day),
- * for production and forecasts; and the hours that makes in all, for the page to say.
+ * The spells of weather downtime entered on the project's daily reports, as instants (local
+ * wall-clock times on each report's day, in the project's time zone).
+ */
+async function weatherDowntimeSpans(project: ProjectView): Promise<Array<{ startMs: number; endMs: number }>> {
+  const reports = await DailyReport.findAll({ where: { projectId: project.id }, attributes: ["id", "localDate", "entered"] });
+  return reports.flatMap((report) => report.entered.weatherDowntime.flatMap((spell) => {
+    const startMs = instantOfClock(report.localDate, spell.start, project.timeZone);
+    const endMs = instantOfClock(report.localDate, spell.end, project.timeZone);
+    return startMs === null || endMs === null ? [] : [{ startMs, endMs }];
+  }));
+}
+
+/**
+ * The share of each working day lost to turbidity stop-work events, wildlife stand-downs (open
+ * ones to now) and the weather downtime entered on the daily reports, within the project's working
+ * hours (its setting, else the water-quality work day), for production and forecasts; and the hours
+ * that makes in all, for the page to say. An hour lost to two causes counts once.
  */
 export async function lostWorkingTime(project: ProjectView, nowMs = Date.now()): Promise<{ shares: Map<number, number>; lostHours: number; workingHours: string }> {
-  const [stopWork, standDowns, row, settings] = await Promise.all([listStopWork(project, {}, nowMs), listStandDowns(project, {}, nowMs), findProject(project.id), getWaterQualitySettings(project)]);
+  const [stopWork, standDowns, weather, row, settings] = await Promise.all([listStopWork(project, {}, nowMs), listStandDowns(project, {}, nowMs), weatherDowntimeSpans(project), findProject(project.id), getWaterQualitySettings(project)]);
   const start = row?.workDayStart && row.workDayEnd ? row.workDayStart : settings.workdayStart;
   const end = row?.workDayStart && row.workDayEnd ? row.workDayEnd : settings.workdayEnd;
   const stoppages = [
     ...stopWork.map((event) => ({ startMs: Date.parse(event.openedAt), endMs: event.resumedAt ? Date.parse(event.resumedAt) : nowMs })),
     ...standDowns.map((standDown) => ({ startMs: Date.parse(standDown.startedAt), endMs: standDown.until ? Math.min(Date.parse(standDown.until), nowMs) : nowMs })),
+    ...weather.map((spell) => ({ startMs: spell.startMs, endMs: Math.min(spell.endMs, nowMs) })),
   ];
   const hours = { startMinutes: minutesOf(start), endMinutes: minutesOf(end) };
   const shares = lostWorkingDayShares(stoppages, hours, project.timeZone);

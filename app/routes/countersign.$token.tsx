@@ -1,7 +1,7 @@
 import { Form, data } from "react-router";
 import { weatherLine } from "../../shared/daily-report/present";
 import { localClockOf, localDayOf } from "../../shared/local-time";
-import { DailyReportFigures, EquipmentHours, Section } from "~/components/daily-report-figures";
+import { DailyReportFigures, EquipmentHours, InspectionsAndVisitors, Section } from "~/components/daily-report-figures";
 import { FormMessage } from "~/components/form-message";
 import { Page } from "~/components/page";
 import { SubmitButton } from "~/components/submit-button";
@@ -81,9 +81,11 @@ export default function Countersign({ loaderData, actionData }: Route.ComponentP
         ) : null}
         <Section title="Weather and notes">
           <p className="text-sm">{weather ?? "No weather entered."}{report.entered.weather?.effect ? <> — effect on the work: {report.entered.weather.effect}</> : null}</p>
-          {report.entered.inspections ? <p className="mt-1 text-sm"><span className="font-medium">Inspections and visitors:</span> {report.entered.inspections}</p> : null}
           {report.entered.safety ? <p className="mt-1 text-sm"><span className="font-medium">Safety:</span> {report.entered.safety}</p> : null}
           {report.entered.notes ? <p className="mt-1 text-sm"><span className="font-medium">Notes:</span> {report.entered.notes}</p> : null}
+        </Section>
+        <Section title="Inspections and visitors">
+          <InspectionsAndVisitors entered={report.entered} />
         </Section>
         <Section title="Equipment">
           <EquipmentHours equipment={report.entered.equipment} />

@@ -5,7 +5,8 @@ import { EQUIPMENT_MAX_LINES } from "../../shared/daily-report/compile";
 import { countersignOutdatedLine, earlierCountersignatureLine, weatherLine } from "../../shared/daily-report/present";
 import { localClockOf, localDayOf } from "../../shared/local-time";
 import { unitLabel } from "../../shared/units";
-import { DailyReportFigures, EquipmentHours, Section } from "~/components/daily-report-figures";
+import { DailyReportFigures, EquipmentHours, InspectionsAndVisitors, Section } from "~/components/daily-report-figures";
+import { CrewsForm, VisitorsForm, WeatherDowntimeForm } from "~/components/daily-report-forms";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
@@ -18,8 +19,8 @@ import { readPageForm } from "~/lib/http/body.server";
 import { appOrigin } from "~/lib/http/origin.server";
 import { mailStates } from "~/lib/mail/outbox.server";
 import {
-  addAmendment, amendmentInputSchema, countersignRequestInputSchema, dayParam, earlierEquipmentNames, enteredNotesInputSchema, equipmentInputSchema, getDailyReport, hoursInDay, openCountersignRequest, requestCountersign,
-  saveEnteredNotes, saveEquipment, signDailyReport, signInputSchema,
+  addAmendment, amendmentInputSchema, countersignRequestInputSchema, crewsInputSchema, dayParam, earlierEquipmentNames, enteredNotesInputSchema, equipmentInputSchema, getDailyReport, hoursInDay, openCountersignRequest, projectTeamNames,
+  requestCountersign, saveCrews, saveEnteredNotes, saveEquipment, saveVisitors, saveWeatherDowntime, signDailyReport, signInputSchema, visitorsInputSchema, weatherDowntimeInputSchema,
 } from "~/models/daily-reports.server";
 import type { Route } from "./+types/projects.$projectId.days.$date";
 
@@ -35,31 +36,51 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const pendingMail = pending ? (await mailStates([pending.mailRef])).get(pending.mailRef)?.status ?? null : null;
   // A day with no equipment yet starts from the names on the latest earlier report (hours left to fill in).
   const equipmentNames = canSign && !view.signed && (view.report.entered.equipment ?? []).length === 0 ? await earlierEquipmentNames(access.project, date) : [];
-  return { ...view, equipmentNames, dayHours: hoursInDay(access.project, date), countersignPending: pending ? { email: pending.email, expiresAt: pending.expiresAt, mail: pendingMail } : null, projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, lengthLabel: unitLabel(access.project.lengthUnit), canSign: can(access, "reports.sign"), canConfigureStations: can(access, "water-quality.configure"), signerName: access.user.name };
+  // The teams the head-count form offers beside those of the day's records: the project's teams in service.
+  const teamNames = canSign && !view.signed ? await projectTeamNames(access.project, { inService: true }) : [];
+  return { ...view, equipmentNames, teamNames, dayHours: hoursInDay(access.project, date), countersignPending: pending ? { email: pending.email, expiresAt: pending.expiresAt, mail: pendingMail } : null, projectId: access.project.id, timeZone: access.project.timeZone, lengthUnit: access.project.lengthUnit, lengthLabel: unitLabel(access.project.lengthUnit), canSign: can(access, "reports.sign"), canConfigureStations: can(access, "water-quality.configure"), signerName: access.user.name };
 }
 
 const formSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("notes") }).passthrough(),
   z.object({ intent: z.literal("equipment") }).passthrough(),
+  z.object({ intent: z.literal("crews") }).passthrough(),
+  z.object({ intent: z.literal("weather-downtime") }).passthrough(),
+  z.object({ intent: z.literal("visitors") }).passthrough(),
   z.object({ intent: z.literal("sign"), name: z.string() }),
   z.object({ intent: z.literal("amend"), text: z.string() }),
   z.object({ intent: z.literal("countersign-request"), email: z.string() }),
 ]);
 
-/** The equipment lines of the form, `equipment.<n>.<field>` in the order of <n>, wholly blank lines left out; `formIndex` is the line's <n>, for its errors. */
-function equipmentFromForm(form: FormData) {
+/**
+ * The lines of one list on the form, `<list>.<n>.<field>` in the order of <n>; a line whose entered
+ * fields are all blank is left out (`given`: a field the page fills in itself, such as a crew's team,
+ * does not count). `numbers` are read as numbers (a decimal comma taken); `formIndex` is the line's
+ * <n>, for its errors.
+ */
+function linesFromForm(form: FormData, list: string, fields: readonly string[], numbers: readonly string[] = [], given: readonly string[] = []) {
   const text = (name: string) => {
     const value = form.get(name);
     return typeof value === "string" && value.trim() !== "" ? value.trim() : undefined;
   };
-  const hours = (name: string) => (text(name) === undefined ? undefined : Number(text(name)!.replace(",", ".")));
-  const indexes = [...new Set([...form.keys()].flatMap((key) => /^equipment\.(\d{1,4})\./.exec(key)?.[1] ?? []).map(Number))].sort((a, b) => a - b);
+  const pattern = new RegExp(`^${list}\\.(\\d{1,4})\\.`);
+  const indexes = [...new Set([...form.keys()].flatMap((key) => pattern.exec(key)?.[1] ?? []).map(Number))].sort((a, b) => a - b);
   return indexes.flatMap((index) => {
-    const field = (name: string) => `equipment.${index}.${name}`;
-    if (["name", "workingHours", "idleHours", "idleReason"].every((name) => text(field(name)) === undefined)) return [];
-    return [{ name: text(field("name")), workingHours: hours(field("workingHours")), idleHours: hours(field("idleHours")), idleReason: text(field("idleReason")), formIndex: index }];
+    const field = (name: string) => `${list}.${index}.${name}`;
+    if (fields.filter((name) => !given.includes(name)).every((name) => text(field(name)) === undefined)) return [];
+    const line: Record<string, unknown> = Object.fromEntries(fields.map((name) => {
+      const value = text(field(name));
+      return [name, value !== undefined && numbers.includes(name) ? Number(value.replace(",", ".")) : value];
+    }));
+    return [{ line, formIndex: index }];
   });
 }
+
+/** A line's error said on its own field on the form, `<list>.<position on the form>.<field>`; the list's own (too many lines) at the top. */
+const onFormLine = (list: string, lines: ReadonlyArray<{ formIndex: number }>) => (field: string) => {
+  const [head, index, name] = field.split(".");
+  return head === list && index !== undefined && name !== undefined ? `${list}.${lines[Number(index)]?.formIndex ?? index}.${name}` : "form";
+};
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { project, user } = await requireRole(request, params.projectId, "reports.sign");
@@ -77,16 +98,32 @@ export async function action({ request, params }: Route.ActionArgs) {
       return { errors: {}, notice: "Weather and notes saved." };
     }
     if (input.intent === "equipment") {
-      const lines = equipmentFromForm(body);
-      const parsed = equipmentInputSchema(hoursInDay(project, date)).safeParse({ equipment: lines.map(({ formIndex: _, ...line }) => line) });
-      // A line's error is said on its own field: equipment.<position on the form>.<field>.
-      const onForm = (field: string) => {
-        const [head, index, name] = field.split(".");
-        return head === "equipment" && index !== undefined && name !== undefined ? `equipment.${lines[Number(index)]?.formIndex ?? index}.${name}` : "form";
-      };
-      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), onForm));
+      const lines = linesFromForm(body, "equipment", ["name", "workingHours", "idleHours", "idleReason"], ["workingHours", "idleHours"]);
+      const parsed = equipmentInputSchema(hoursInDay(project, date)).safeParse({ equipment: lines.map(({ line }) => line) });
+      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), onFormLine("equipment", lines)));
       await saveEquipment(project, user, date, parsed.data, clientAddress(request));
       return { errors: {}, notice: parsed.data.equipment.length === 0 ? "Equipment hours cleared." : "Equipment hours saved." };
+    }
+    if (input.intent === "crews") {
+      const lines = linesFromForm(body, "crews", ["team", "headCount", "reason"], ["headCount"], ["team"]);
+      const parsed = crewsInputSchema(await projectTeamNames(project)).safeParse({ crews: lines.map(({ line }) => line) });
+      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), onFormLine("crews", lines)));
+      await saveCrews(project, user, date, parsed.data, clientAddress(request));
+      return { errors: {}, notice: parsed.data.crews.length === 0 ? "Head counts back to the compiled ones." : "Head counts saved." };
+    }
+    if (input.intent === "weather-downtime") {
+      const lines = linesFromForm(body, "weatherDowntime", ["start", "end", "reason"]);
+      const parsed = weatherDowntimeInputSchema(date, project.timeZone).safeParse({ weatherDowntime: lines.map(({ line }) => line) });
+      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), onFormLine("weatherDowntime", lines)));
+      await saveWeatherDowntime(project, user, date, parsed.data, clientAddress(request));
+      return { errors: {}, notice: parsed.data.weatherDowntime.length === 0 ? "Weather downtime cleared." : "Weather downtime saved." };
+    }
+    if (input.intent === "visitors") {
+      const lines = linesFromForm(body, "visitors", ["arrived", "left", "name", "organisation", "purpose"]);
+      const parsed = visitorsInputSchema(date, project.timeZone).safeParse({ visitors: lines.map(({ line }) => line) });
+      if (!parsed.success) return refused(fieldErrorsFrom(detailsOf(parsed.error), onFormLine("visitors", lines)));
+      await saveVisitors(project, user, date, parsed.data, clientAddress(request));
+      return { errors: {}, notice: parsed.data.visitors.length === 0 ? "Inspections and visitors cleared." : "Inspections and visitors saved." };
     }
     if (input.intent === "sign") {
       const parsed = signInputSchema.safeParse({ name: input.name });
@@ -146,7 +183,6 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         {weatherLine(weather) ? (
           <p className="text-sm">{weatherLine(weather)}{weather?.effect ? <> — effect on the work: {weather.effect}</> : null}</p>
         ) : <p className="text-sm text-muted">No weather entered.</p>}
-        <p className="mt-1 text-sm"><span className="font-medium">Inspections and visitors:</span> {report.entered.inspections || <span className="text-muted">none entered.</span>}</p>
         <p className="mt-1 text-sm"><span className="font-medium">Safety (toolbox talk, incidents):</span> {report.entered.safety || <span className="text-muted">none entered.</span>}</p>
         {report.entered.notes ? <p className="mt-1 text-sm"><span className="font-medium">Notes:</span> {report.entered.notes}</p> : null}
         <p className="mt-1 text-xs text-muted">Incidents are reported as the project's safety plan directs; this report records them, it does not replace that reporting.</p>
@@ -157,7 +193,8 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
             <TextField label="Wind" name="wind" maxLength={120} defaultValue={weather?.wind ?? ""} error={errors.wind} />
             <TextField label="Rain" name="rain" maxLength={120} defaultValue={weather?.rain ?? ""} error={errors.rain} />
             <TextField className="md:col-span-2" label="Effect on the work" name="effect" maxLength={2000} defaultValue={weather?.effect ?? ""} error={errors.effect} />
-            <TextField className="md:col-span-2" label="Inspections and visitors" name="inspections" maxLength={4000} defaultValue={report.entered.inspections} error={errors.inspections} />
+            {/* The free-text note of a report begun before visitors had lines stays editable (e.g. cleared once moved into lines); new days have none. */}
+            {report.entered.inspections ? <TextField className="md:col-span-2" label="Earlier note on inspections and visitors" name="inspections" maxLength={4000} defaultValue={report.entered.inspections} error={errors.inspections} hint="Entered as text before visitors had their own lines below; move it into lines and clear it, or keep it." /> : null}
             <TextField className="md:col-span-2" label="Safety (toolbox talk, incidents)" name="safety" maxLength={4000} defaultValue={report.entered.safety} error={errors.safety} />
             <TextField className="md:col-span-2" label="Other notes" name="notes" maxLength={4000} defaultValue={report.entered.notes} error={errors.notes} />
             <div><SubmitButton intent="notes" tone="plain" pendingLabel="Saving…">Save weather and notes</SubmitButton></div>
@@ -170,7 +207,17 @@ export default function DailyReportPage({ loaderData, actionData }: Route.Compon
         {canSign && !signed ? <EquipmentForm key={JSON.stringify(report.entered.equipment ?? [])} saved={report.entered.equipment ?? []} names={loaderData.equipmentNames} dayHours={loaderData.dayHours} errors={errors} /> : null}
       </Section>
 
-      <DailyReportFigures report={report} timeZone={timeZone} lengthUnit={loaderData.lengthUnit} stationSetupHref={loaderData.canConfigureStations ? `/projects/${projectId}/water-quality/setup#stations-heading` : undefined} />
+      <Section title="Inspections and visitors">
+        <InspectionsAndVisitors entered={report.entered} />
+        {canSign && !signed ? <VisitorsForm key={JSON.stringify(report.entered.visitors ?? [])} saved={report.entered.visitors ?? []} errors={errors} timeZone={timeZone} /> : null}
+      </Section>
+
+      <DailyReportFigures
+        report={report} timeZone={timeZone} lengthUnit={loaderData.lengthUnit}
+        stationSetupHref={loaderData.canConfigureStations ? `/projects/${projectId}/water-quality/setup#stations-heading` : undefined}
+        crewsEditor={canSign && !signed && (report.teams.length > 0 || loaderData.teamNames.length > 0) ? <CrewsForm key={JSON.stringify(report.entered.crews ?? [])} teams={report.teams} teamNames={loaderData.teamNames} saved={report.entered.crews ?? []} errors={errors} /> : null}
+        interruptionsEditor={canSign && !signed ? <WeatherDowntimeForm key={JSON.stringify(report.entered.weatherDowntime ?? [])} saved={report.entered.weatherDowntime ?? []} errors={errors} timeZone={timeZone} /> : null}
+      />
 
       <Section title="Sign-off">
         {signed ? (

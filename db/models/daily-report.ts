@@ -20,10 +20,25 @@ export const equipmentLineSchema = z.object({
   idleReason: z.string(),
 });
 
-/** What the supervisor enters by hand on a day's report (reports saved before equipment hours read as none). */
+/** A crew's head count entered over the compiled one, with the reason in words (may be empty). */
+export const crewHeadCountSchema = z.object({ team: z.string(), headCount: z.number().int(), reason: z.string() });
+
+/** A spell of weather downtime in local wall-clock time on the report's day (HH:MM, the end may be 24:00). */
+export const weatherDowntimeSchema = z.object({ start: z.string(), end: z.string(), reason: z.string() });
+
+/** An inspection or a visit with its local times (HH:MM; `left` "" when not entered). */
+export const visitorLineSchema = z.object({ arrived: z.string(), left: z.string(), name: z.string(), organisation: z.string(), purpose: z.string() });
+
+/**
+ * What the supervisor enters by hand on a day's report. Reports saved before equipment hours, head
+ * counts, weather downtime or visitor lines read as none of them; their free-text `inspections` stay.
+ */
 export const enteredNotesSchema = z.object({
   weather: weatherSchema.nullable(),
   equipment: z.array(equipmentLineSchema).default([]),
+  crews: z.array(crewHeadCountSchema).default([]),
+  weatherDowntime: z.array(weatherDowntimeSchema).default([]),
+  visitors: z.array(visitorLineSchema).default([]),
   inspections: z.string(),
   safety: z.string(),
   notes: z.string(),

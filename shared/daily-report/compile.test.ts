@@ -166,6 +166,70 @@ describe("compileDay", () => {
     expect(open.interruptions[0]).toMatchObject({ notifyBy: new Date(at("2031-06-11", 10)).toISOString(), agencyNotified: { at: new Date(at("2031-06-11", 9, 20)).toISOString(), to: "District office", how: "telephone" } });
   });
 
+  it("lists weather downtime with the other interruptions; an hour lost to two causes counts once in the day's total", () => {
+    const entered = { weather: { conditions: "thunderstorms", airTemperature: "", wind: "", rain: "", effect: "diving stopped for lightning" }, inspections: "", safety: "", notes: "" };
+    const day = compileDay(records({
+      interruptions: [{ kind: "stop-work", reason: "turbidity at C1", startMs: at("2031-06-10", 13), endMs: at("2031-06-10", 15) }],
+      entered: { ...entered, weatherDowntime: [{ start: "14:00", end: "16:30", reason: "lightning within 10 miles" }, { start: "08:00", end: "08:45", reason: "fog on the open water" }] },
+    }));
+    expect(day.interruptions.map((event) => [event.kind, event.reason, event.lostHours])).toEqual([
+      ["weather", "fog on the open water", 0.75], ["stop-work", "turbidity at C1", 2], ["weather", "lightning within 10 miles", 2.5],
+    ]);
+    // 14:00 EDT is 18:00 UTC.
+    expect(day.interruptions[2]).toMatchObject({ start: "2031-06-10T18:00:00.000Z", end: "2031-06-10T20:30:00.000Z" });
+    // computed by hand: 08:00–08:45 and 13:00–16:30 are lost, 0.75 + 3.5 = 4.25 h (2 + 2.5 + 0.75 = 5.25 line by line).
+    expect(day.lostHours).toBe(4.25);
+    // The downtime needs its effect on the work said; a blank effect is listed as missing.
+    expect(day.missing).not.toContain("weather downtime entered, but not the weather's effect on the work");
+    const silent = compileDay(records({ entered: { ...entered, weather: { ...entered.weather, effect: " " }, weatherDowntime: [{ start: "14:00", end: "16:30", reason: "lightning" }] } }));
+    expect(silent.missing).toContain("weather downtime entered, but not the weather's effect on the work");
+    // Stop-work and stand-down overlapping on their own are counted once too.
+    const both = compileDay(records({ interruptions: [
+      { kind: "stop-work", reason: "C1", startMs: at("2031-06-10", 9), endMs: at("2031-06-10", 12) },
+      { kind: "stand-down", reason: "manatee", startMs: at("2031-06-10", 11), endMs: at("2031-06-10", 13) },
+    ] }));
+    expect(both.lostHours).toBe(4);
+  });
+
+  it("counts weather downtime in hours of time across the daylight-saving changes (23- and 25-hour days)", () => {
+    const allDay = (date: string, start = "00:00", end = "24:00") => compileDay(records({ date, dives: [], nowMs: at("2031-12-01", 0), entered: { weather: null, inspections: "", safety: "", notes: "", weatherDowntime: [{ start, end, reason: "tropical storm" }] } }));
+    // published (15 U.S.C. § 260a): 2031-11-02 is the first Sunday of November, 2031-03-09 the second Sunday of March.
+    expect(allDay("2031-11-02").lostHours).toBe(25);
+    expect(allDay("2031-03-09").lostHours).toBe(23);
+    // 01:00–04:00 on the wall: the clocks skip 02:00–03:00, so 2 h; on the fall day 01:00 (first) to 04:00 is 4 h.
+    expect(allDay("2031-03-09", "01:00", "04:00").lostHours).toBe(2);
+    expect(allDay("2031-11-02", "01:00", "04:00").lostHours).toBe(4);
+  });
+
+  it("gives each team's head count from the day plan, else the dive log, and an entered count over either, the compiled one kept beside it", () => {
+    const crews = [{ team: "Alpha", headCount: 5, reason: "a county tender joined" }, { team: "Shore crew", headCount: 2, reason: "" }];
+    const day = compileDay(records({ plannedTeams: [{ team: "Alpha", headCount: 4 }], entered: { weather: null, inspections: "", safety: "", notes: "", crews } }));
+    expect(day.teams.map((team) => [team.team, team.headCount, team.compiledHeadCount, team.headCountSource, team.enteredHeadCount])).toEqual([
+      ["Alpha", 5, 4, "day plan", { headCount: 5, reason: "a county tender joined" }],
+      // Bravo was not on the plan: K. Moss is the one diver its log names.
+      ["Bravo", 1, 1, "dive log", null],
+      // A crew with no plan and no dives, counted only as entered.
+      ["Shore crew", 2, null, null, { headCount: 2, reason: "" }],
+    ]);
+    expect(day.missing).toContain("head count of team Bravo only from the dive log (1 diver): enter the crew on site");
+    // Entered: the dive log's count is confirmed and the item goes.
+    const confirmed = compileDay(records({ plannedTeams: [], entered: { weather: null, inspections: "", safety: "", notes: "", crews: [{ team: "Bravo", headCount: 3, reason: "" }, { team: "Alpha", headCount: 0, reason: "" }] } }));
+    expect(confirmed.missing.filter((item) => item.startsWith("head count"))).toEqual([]);
+    // Alpha's log names R. Ode and the visitor J. Lin: 2; entered 0 is a figure, not a blank.
+    expect(confirmed.teams.find((team) => team.team === "Alpha")).toMatchObject({ headCount: 0, compiledHeadCount: 2, headCountSource: "dive log" });
+  });
+
+  it("asks for a visitor's time of leaving when it was not entered", () => {
+    const visitors = [
+      { arrived: "09:30", left: "11:00", name: "Morgan Alvarez", organisation: "District water agency", purpose: "silt curtain inspection" },
+      { arrived: "13:15", left: "", name: "Sam Okafor", organisation: "", purpose: "" },
+    ];
+    const day = compileDay(records({ entered: { weather: null, inspections: "", safety: "", notes: "", visitors } }));
+    expect(day.entered.visitors).toEqual(visitors);
+    expect(day.missing).toContain("no time of leaving for Sam Okafor (arrived 13:15)");
+    expect(day.missing.join(" ")).not.toContain("Morgan Alvarez");
+  });
+
   it("takes a 23-hour local day across the spring daylight-saving change", () => {
     const { startMs, endMs } = localDayBounds("2031-03-09", TZ);
     expect((endMs - startMs) / 3_600_000).toBe(23);

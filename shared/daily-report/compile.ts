@@ -1,4 +1,5 @@
 import { instantOfLocal, localClockOf } from "../local-time";
+import { instantOfClock, unionHours } from "./local-periods";
 import { parseCellLabel } from "../grid/cell-grid";
 import { missedIntervals, type SamplingRoutine } from "../water-quality/missed-samples";
 import { litresFrom, type HandVolumeUnit } from "../units";
@@ -49,7 +50,8 @@ export interface DayReading {
 }
 
 export interface DayInterruption {
-  kind: "stop-work" | "stand-down";
+  /** Weather downtime is entered on the report (compiled from `entered.weatherDowntime`); the others are records. */
+  kind: "stop-work" | "stand-down" | "weather";
   /** Station or species. */
   reason: string;
   startMs: number;
@@ -95,10 +97,55 @@ export interface EquipmentLine {
 /** The most pieces of equipment one day's report lists. */
 export const EQUIPMENT_MAX_LINES = 20;
 
+/** A crew's head count entered on the report, overriding the compiled one (from the day plan or the dive log). */
+export interface CrewHeadCount {
+  team: string;
+  /** Whole people on site, 0 to 99. */
+  headCount: number;
+  /** Why the compiled figure is not the crew on site, in words (optional). */
+  reason: string;
+}
+
+/** A spell of weather downtime, in the project's local time on the report's day. */
+export interface WeatherDowntime {
+  /** HH:MM local. */
+  start: string;
+  /** HH:MM local, or 24:00 (the day's end); after the start. */
+  end: string;
+  /** In words: "lightning within 10 miles", "wind over 20 kn on the open water". */
+  reason: string;
+}
+
+/** An inspection or a visit: who came, from where, why, and when they arrived and left (local HH:MM). */
+export interface VisitorLine {
+  arrived: string;
+  /** "" when the time of leaving was not entered (the missing list asks for it). */
+  left: string;
+  name: string;
+  organisation: string;
+  /** The purpose of the visit, or what the inspection covered. */
+  purpose: string;
+}
+
+/** The most lines of each entered list on one day's report. */
+export const WEATHER_DOWNTIME_MAX_LINES = 12;
+export const VISITORS_MAX_LINES = 30;
+export const HEAD_COUNT_MAX = 99;
+
 export interface EnteredNotes {
   weather: Weather | null;
   /** Equipment working and idle; absent on reports saved or signed before equipment hours were kept. */
   equipment?: EquipmentLine[];
+  /** Head counts entered over the compiled ones; absent on reports saved or signed before they could be. */
+  crews?: CrewHeadCount[];
+  /** Weather downtime spells; absent on reports saved or signed before they were kept. */
+  weatherDowntime?: WeatherDowntime[];
+  /** Inspections and visitors with their times; absent on reports saved or signed before they were kept. */
+  visitors?: VisitorLine[];
+  /**
+   * Inspections and visitors as free text, as entered before they were lines with times: kept and
+   * shown as an earlier note, no longer entered.
+   */
   inspections: string;
   safety: string;
   notes: string;
@@ -148,7 +195,16 @@ export interface DaySurvey {
 
 export interface TeamDay {
   team: string;
+  /** The head count the report gives: the entered one when there is one, else the compiled one. */
   headCount: number | null;
+  /**
+   * The compiled figure and where it comes from: the team's roster on the day plan, else the divers
+   * the dive log names for the team (visitors included). Absent on reports signed before head counts could be entered.
+   */
+  compiledHeadCount?: number | null;
+  headCountSource?: "day plan" | "dive log" | null;
+  /** The head count entered over the compiled one, with its reason; null when none was. */
+  enteredHeadCount?: { headCount: number; reason: string } | null;
   dives: number;
   bottomMinutes: number;
   maxDepth: number | null;
@@ -266,13 +322,22 @@ export function compileDay(records: DayRecords): CompiledDay {
   const { startMs, endMs } = localDayBounds(date, timeZone);
   const clock = (ms: number) => localClockOf(ms, timeZone);
 
-  const teamNames = [...new Set([...records.plannedTeams.map((team) => team.team), ...records.dives.map((dive) => dive.team)])].sort();
+  const enteredCrews = records.entered.crews ?? [];
+  const teamNames = [...new Set([...records.plannedTeams.map((team) => team.team), ...records.dives.map((dive) => dive.team), ...enteredCrews.map((crew) => crew.team)])].sort();
   const teams: TeamDay[] = teamNames.map((team) => {
     const own = records.dives.filter((dive) => dive.team === team);
     const flags = own.filter((dive) => dive.beyondNoDecompression).map((dive) => `${dive.diver}${dive.visitor ? " (visitor)" : ""}: bottom time ${dive.bottomMinutes} min at ${dive.maxDepth}${records.lengthLabel ? ` ${records.lengthLabel}` : ""} beyond the no-decompression figure`);
+    // The day plan's roster first; a team that dove without a plan counts the divers its log names.
+    const planned = records.plannedTeams.find((candidate) => candidate.team === team)?.headCount;
+    const divers = new Set(own.map((dive) => dive.diver)).size;
+    const compiledHeadCount = planned ?? (divers > 0 ? divers : null);
+    const entered = enteredCrews.find((crew) => crew.team === team);
     return {
       team,
-      headCount: records.plannedTeams.find((planned) => planned.team === team)?.headCount ?? null,
+      headCount: entered ? entered.headCount : compiledHeadCount,
+      compiledHeadCount,
+      headCountSource: planned !== undefined ? ("day plan" as const) : divers > 0 ? ("dive log" as const) : null,
+      enteredHeadCount: entered ? { headCount: entered.headCount, reason: entered.reason } : null,
       dives: own.length,
       bottomMinutes: own.reduce((sum, dive) => sum + dive.bottomMinutes, 0),
       maxDepth: own.length ? Math.max(...own.map((dive) => dive.maxDepth)) : null,
@@ -306,14 +371,21 @@ export function compileDay(records: DayRecords): CompiledDay {
   const noComplianceStation = records.complianceStations.length === 0;
   const missed = worked && records.sampling && !noComplianceStation ? missedIntervals([date], complianceTimes, records.sampling, timeZone) : [];
 
-  const interruptions = records.interruptions
+  // Weather downtime is entered in local wall-clock times on the day (checked when entered).
+  const weatherDowntime: DayInterruption[] = (records.entered.weatherDowntime ?? []).flatMap((spell) => {
+    const from = instantOfClock(date, spell.start, timeZone);
+    const to = instantOfClock(date, spell.end, timeZone);
+    return from === null || to === null ? [] : [{ kind: "weather" as const, reason: spell.reason, startMs: from, endMs: to }];
+  });
+  const clipped = [...records.interruptions, ...weatherDowntime]
     .map((event) => {
       const from = Math.max(event.startMs, startMs);
       const to = Math.min(event.endMs ?? Math.min(records.nowMs, endMs), endMs);
-      return { event, lostMs: Math.max(0, to - from) };
+      return { event, from, to, lostMs: Math.max(0, to - from) };
     })
     .filter(({ event }) => event.startMs < endMs && (event.endMs === null || event.endMs > startMs))
-    .sort((a, b) => a.event.startMs - b.event.startMs)
+    .sort((a, b) => a.event.startMs - b.event.startMs);
+  const interruptions = clipped
     .map(({ event, lostMs }) => ({
       kind: event.kind,
       reason: event.reason,
@@ -342,6 +414,8 @@ export function compileDay(records: DayRecords): CompiledDay {
   if (records.dives.length === 0) missing.push("no dives logged");
   // A work day's equipment hours are a header item like the weather: blank is listed, not guessed at.
   if (worked && (records.entered.equipment ?? []).length === 0) missing.push("no equipment hours entered");
+  // Weather tied to its effect on the work: downtime with no word on the effect is a blank.
+  if (weatherDowntime.length > 0 && !records.entered.weather?.effect.trim()) missing.push("weather downtime entered, but not the weather's effect on the work");
   if (worked && noComplianceStation) missing.push(NO_COMPLIANCE_STATION_MISSING);
   if (worked) {
     for (const station of records.complianceStations) {
@@ -349,7 +423,12 @@ export function compileDay(records: DayRecords): CompiledDay {
     }
     for (const gap of missed) missing.push(`compliance not sampled ${clock(gap.fromMs)}–${clock(gap.toMs)}`);
   }
-  for (const team of teams) if (team.dives > 0 && team.headCount === null) missing.push(`no head count for team ${team.team}`);
+  for (const team of teams) {
+    // A team that dove always has a compiled count (its divers at least); the dive log names the
+    // divers, not the tenders and the supervisor, so a crew counted only from it is confirmed by hand.
+    if (team.headCountSource === "dive log" && !team.enteredHeadCount) missing.push(`head count of team ${team.team} only from the dive log (${team.compiledHeadCount} ${team.compiledHeadCount === 1 ? "diver" : "divers"}): enter the crew on site`);
+  }
+  for (const visitor of records.entered.visitors ?? []) if (!visitor.left) missing.push(`no time of leaving for ${visitor.name} (arrived ${visitor.arrived})`);
 
   const haulTickets = records.hauls.map((haul) => haul.ticketNumber).sort();
   return {
@@ -384,7 +463,8 @@ export function compileDay(records: DayRecords): CompiledDay {
       complianceStations: [...records.complianceStations].sort(),
     },
     interruptions,
-    lostHours: round(interruptions.reduce((sum, event) => sum + event.lostHours, 0), 2),
+    // An hour lost to two causes at once is lost once (as in shared/progress/lost-hours.ts).
+    lostHours: round(unionHours(clipped.map(({ from, to }) => ({ startMs: from, endMs: to }))), 2),
     finds: { byCategory, catalogueNumbers: records.finds.map((find) => find.catalogueNumber).sort(), ...(byHand ? { byHand } : {}) },
     holds: {
       placed: records.holds.filter((hold) => inDay(hold.placedAtMs)).map((hold) => hold.catalogueNumber).sort(),

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { byHandLine, dayState, dayStatus, earlierCountersignatureLine, equipmentRows, equipmentTotalsLine, findsLine, interruptionLine, productionRows, reportUnits, surveyLine, weatherLine } from "./present";
+import { byHandLine, dayState, dayStatus, earlierCountersignatureLine, enteredHeadCountsLine, equipmentRows, equipmentTotalsLine, findsLine, headCountCell, interruptionLine, lostHoursNote, productionRows, reportUnits, surveyLine, visitorRows, weatherLine } from "./present";
 
 describe("the report's figures written out", () => {
   it("in a feet project's units: US gallons, short tons, pounds", () => {
@@ -120,5 +120,38 @@ describe("a stop-work's agency notice", () => {
       .toBe("Stop-work (turbidity at C1) from 14:05 to 15:40: 1.58 h lost on the day; agency not notified (due by 15:05)");
     // Signed before the notice was kept: the line as it was.
     expect(interruptionLine(base, TZ)).toBe("Stop-work (turbidity at C1) from 14:05 to 15:40: 1.58 h lost on the day");
+  });
+});
+
+describe("weather downtime, head counts and visitors written out", () => {
+  const TZ = "America/New_York";
+
+  it("names weather downtime with its local times; a spell to midnight ends at 24:00", () => {
+    // 17:10Z is 13:10 EDT; 04:00Z the next day is local midnight.
+    expect(interruptionLine({ kind: "weather", reason: "lightning within 10 miles", start: "2026-06-10T17:10:00.000Z", end: "2026-06-10T19:40:00.000Z", lostHours: 2.5 }, TZ))
+      .toBe("Weather downtime (lightning within 10 miles) from 13:10 to 15:40: 2.5 h lost on the day");
+    expect(interruptionLine({ kind: "weather", reason: "storm", start: "2026-06-11T00:00:00.000Z", end: "2026-06-11T04:00:00.000Z", lostHours: 4 }, TZ))
+      .toBe("Weather downtime (storm) from 20:00 to 24:00: 4 h lost on the day");
+  });
+
+  it("says, when lines overlapped, that an hour counts once in the total", () => {
+    const lines = [{ lostHours: 2 }, { lostHours: 2.5 }] as Parameters<typeof lostHoursNote>[0]["interruptions"];
+    expect(lostHoursNote({ interruptions: lines, lostHours: 4.5 })).toBeNull();
+    expect(lostHoursNote({ interruptions: lines, lostHours: 3.5 })).toBe("interruptions overlapped: an hour lost to two causes counts once; 4.5 h line by line");
+  });
+
+  it("shows an entered head count with the compiled one beside it", () => {
+    const team = { team: "Alpha", headCount: 5, compiledHeadCount: 4, headCountSource: "dive log" as const, enteredHeadCount: { headCount: 5, reason: "two tenders" }, dives: 2, bottomMinutes: 80, maxDepth: 9, cells: [], flags: [] };
+    expect(headCountCell(team)).toBe("5 entered");
+    expect(headCountCell({ ...team, enteredHeadCount: null, headCount: 4 })).toBe("4");
+    expect(headCountCell({ ...team, enteredHeadCount: null, headCount: null })).toBe("—");
+    expect(enteredHeadCountsLine([team, { ...team, team: "Shore crew", compiledHeadCount: null, headCountSource: null, enteredHeadCount: { headCount: 2, reason: "" } }]))
+      .toBe("Head counts entered: Alpha 4 from the dive log, entered 5 (two tenders); Shore crew none compiled, entered 2.");
+    expect(enteredHeadCountsLine([{ ...team, enteredHeadCount: null }])).toBeNull();
+  });
+
+  it("gives the visitors' rows with a dash for what was not entered", () => {
+    expect(visitorRows([{ arrived: "09:30", left: "", name: "Sam Okafor", organisation: "", purpose: "dredge tour" }])).toEqual([["09:30", "—", "Sam Okafor", "—", "dredge tour"]]);
+    expect(visitorRows(undefined)).toEqual([]);
   });
 });

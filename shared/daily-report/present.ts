@@ -1,7 +1,7 @@
 import { FIND_CATEGORY_LABELS, type FindCategory } from "../finds/finds";
 import { localClockOf } from "../local-time";
 import { LITRES_PER_US_GALLON, handVolumeUnitFor, kilogramsTo, litresTo, massUnitsFor, measureLabel, type LengthUnit } from "../units";
-import { COMPLIANCE_STATION_SETTING, type CompiledDay, type EquipmentLine, type Weather } from "./compile";
+import { COMPLIANCE_STATION_SETTING, type CompiledDay, type EquipmentLine, type TeamDay, type VisitorLine, type Weather } from "./compile";
 
 /**
  * How a compiled day's figures are written out, once for the page and the PDF: the report keeps
@@ -83,16 +83,55 @@ export function byHandLine(byHand: CompiledDay["finds"]["byHand"], lengthUnit: L
   return `Removed by hand in basket loads: ${parts.join(", ")} (${byHand.lines} catalogue line${byHand.lines === 1 ? "" : "s"})`;
 }
 
+const INTERRUPTION_KINDS: Record<CompiledDay["interruptions"][number]["kind"], string> = { "stop-work": "Stop-work", "stand-down": "Wildlife stand-down", weather: "Weather downtime" };
+
 /** An interruption in words, with its local times, the hours it cost on the day and, for a stop-work, the agency's notice. */
 export function interruptionLine(event: CompiledDay["interruptions"][number], timeZone: string): string {
   const clock = (iso: string) => localClockOf(Date.parse(iso), timeZone);
-  const line = `${event.kind === "stop-work" ? "Stop-work" : "Wildlife stand-down"} (${event.reason}) from ${clock(event.start)} to ${event.end ? clock(event.end) : "still open"}: ${formatNumber(event.lostHours, 2)} h lost on the day`;
+  // A weather spell ending at midnight ends the day: 24:00, not the next day's 00:00.
+  const end = event.end === null ? "still open" : event.kind === "weather" && clock(event.end) === "00:00" ? "24:00" : clock(event.end);
+  const line = `${INTERRUPTION_KINDS[event.kind]} (${event.reason}) from ${clock(event.start)} to ${end}: ${formatNumber(event.lostHours, 2)} h lost on the day`;
   if (event.agencyNotified) {
     const notice = [event.agencyNotified.to && `to ${event.agencyNotified.to}`, event.agencyNotified.how && `by ${event.agencyNotified.how}`].filter(Boolean).join(", ");
     return `${line}; agency notified at ${clock(event.agencyNotified.at)}${notice ? ` (${notice})` : ""}`;
   }
   if (event.agencyNotified === null) return `${line}; agency not notified${event.notifyBy ? ` (due by ${clock(event.notifyBy)})` : ""}`;
   return line;
+}
+
+/**
+ * Said beside the day's lost hours when interruptions overlapped: an hour lost to two causes counts
+ * once, and the lines add up to more ("… counts once; 4.5 h line by line"); null when none overlapped.
+ */
+export function lostHoursNote(report: Pick<CompiledDay, "interruptions" | "lostHours">): string | null {
+  const separately = report.interruptions.reduce((sum, event) => sum + event.lostHours, 0);
+  return separately > report.lostHours + 0.005 ? `interruptions overlapped: an hour lost to two causes counts once; ${formatNumber(separately, 2)} h line by line` : null;
+}
+
+/** A team's head count for the table: "—", "4", or "5 entered" when entered over the compiled figure. */
+export function headCountCell(team: TeamDay): string {
+  if (team.headCount === null) return "—";
+  return team.enteredHeadCount ? `${team.headCount} entered` : String(team.headCount);
+}
+
+/** What the compiled head count rests on, in words: "4 from the day plan", "3 from the dive log", "none compiled". */
+export function compiledHeadCountWords(team: Pick<TeamDay, "compiledHeadCount" | "headCountSource">): string {
+  return team.compiledHeadCount == null || !team.headCountSource ? "none compiled" : `${team.compiledHeadCount} from the ${team.headCountSource}`;
+}
+
+/**
+ * The head counts entered over the compiled ones, the compiled figure beside each: "Head counts
+ * entered: Alpha 4 from the day plan, entered 5 (a county tender joined)"; null when none was entered.
+ */
+export function enteredHeadCountsLine(teams: readonly TeamDay[]): string | null {
+  const entered = teams.filter((team) => team.enteredHeadCount);
+  if (entered.length === 0) return null;
+  return `Head counts entered: ${entered.map((team) => `${team.team} ${compiledHeadCountWords(team)}, entered ${team.enteredHeadCount!.headCount}${team.enteredHeadCount!.reason ? ` (${team.enteredHeadCount!.reason})` : ""}`).join("; ")}.`;
+}
+
+/** The inspections and visitors as table rows: arrived, left ("—" not entered), name, organisation, purpose. */
+export function visitorRows(visitors: readonly VisitorLine[] | undefined): Array<[string, string, string, string, string]> {
+  return (visitors ?? []).map((visitor) => [visitor.arrived, visitor.left || "—", visitor.name, visitor.organisation || "—", visitor.purpose || "—"]);
 }
 
 /** The survey of the day against the one before it, in words, or null when no survey fell on the day. */

@@ -1,4 +1,5 @@
 import { instantOfLocal, localDayOf } from "../local-time";
+import { mergeSpans } from "../daily-report/local-periods";
 import { dayNumber } from "./calendar-days";
 
 /**
@@ -27,13 +28,7 @@ export function lostWorkingDayShares(stoppages: readonly Stoppage[], hours: Work
   const dayMinutes = hours.endMinutes - hours.startMinutes;
   if (!(dayMinutes > 0)) return lost;
   // Merge first: the same minute is lost once whatever stopped it.
-  const merged: Stoppage[] = [];
-  for (const stoppage of [...stoppages].filter((item) => item.endMs > item.startMs).sort((a, b) => a.startMs - b.startMs)) {
-    const last = merged[merged.length - 1];
-    if (last && stoppage.startMs <= last.endMs) last.endMs = Math.max(last.endMs, stoppage.endMs);
-    else merged.push({ ...stoppage });
-  }
-  for (const stoppage of merged) {
+  for (const stoppage of mergeSpans(stoppages)) {
     const firstDay = localDayOf(stoppage.startMs, timeZone);
     const lastDay = localDayOf(stoppage.endMs, timeZone);
     for (let day = dayNumber(firstDay); day <= dayNumber(lastDay); day++) {

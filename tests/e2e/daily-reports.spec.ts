@@ -59,14 +59,53 @@ test("daily report: missing items, weather, signature, countersignature by e-mai
   await expect(page.getByTestId("equipment-hours")).toContainText("waiting on the turbidity stop");
   await expect(page.getByTestId("equipment-hours")).toContainText("2 pieces: 14.5 h working, 1.5 h idle");
 
+  // A head count entered over the compiled one: a whole number 0–99, said on the crew's own field; the compiled figure stays beside it.
+  const crew = page.getByTestId("crew-line").first();
+  const team = (await crew.locator("span.font-medium").textContent())!;
+  await crew.getByLabel(`${team}: head count`).fill("120");
+  await page.getByRole("button", { name: "Save head counts" }).click();
+  await expect(crew.getByText(new RegExp(`^line 1 \\(${team}\\): the head count is a whole number of people from 0 to 99$`))).toBeVisible();
+  await crew.getByLabel(`${team}: head count`).fill("6");
+  await crew.getByLabel("Reason (optional)").fill("two tenders and the supervisor on the barge");
+  await page.getByRole("button", { name: "Save head counts" }).click();
+  await expect(page.getByText("Head counts saved.")).toBeVisible();
+  await expect(page.getByTestId("entered-head-counts")).toContainText(new RegExp(`${team} (\\d+ from the (day plan|dive log)|none compiled), entered 6 \\(two tenders and the supervisor on the barge\\)`));
+
+  // Weather downtime: the end after the start, said on the line's own field; then listed with the interruptions.
+  const spell = page.getByTestId("weather-downtime-line").first();
+  await spell.getByLabel("Spell 1: start").fill("14:00");
+  await spell.getByLabel("End").fill("13:00");
+  await spell.getByLabel("Weather").fill("lightning within 10 miles");
+  await page.getByRole("button", { name: "Save weather downtime" }).click();
+  await expect(spell.getByText("line 1: the end (13:00) comes after the start (14:00); downtime through midnight is entered on each day")).toBeVisible();
+  await spell.getByLabel("End").fill("15:30");
+  await page.getByRole("button", { name: "Save weather downtime" }).click();
+  await expect(page.getByText("Weather downtime saved.")).toBeVisible();
+  await expect(page.getByText("Weather downtime (lightning within 10 miles) from 14:00 to 15:30: 1.5 h lost on the day")).toBeVisible();
+
+  // Inspections and visitors with their times.
+  const visitor = page.getByTestId("visitors-line").first();
+  await visitor.getByLabel("Visitor 1: arrived").fill("09:30");
+  await visitor.getByLabel("Left").fill("11:05");
+  await visitor.getByLabel("Name").fill("Priya Natarajan");
+  await visitor.getByLabel("Organisation").fill("District water agency");
+  await visitor.getByLabel("Purpose or notes").fill("silt curtain inspection");
+  await page.getByRole("button", { name: "Save inspections and visitors" }).click();
+  await expect(page.getByText("Inspections and visitors saved.")).toBeVisible();
+  await expect(page.getByTestId("visitors")).toContainText("Priya Natarajan");
+  await expect(page.getByTestId("visitors").getByRole("row", { name: /09:30 11:05 Priya Natarajan District water agency silt curtain inspection/ })).toBeVisible();
+
   await page.getByLabel("Your name (typed, as your signature)").fill("Dana Reyes");
   await page.getByRole("button", { name: "Sign the report" }).click();
   await expect(page.getByTestId("signed")).toContainText("Dana Reyes");
-  // Locked: the notes form is gone, and a direct post is refused.
+  // Locked: the forms are gone, and a direct post is refused.
   await expect(page.getByTestId("notes-form")).toHaveCount(0);
+  for (const form of ["crews-form", "weather-downtime-form", "visitors-form"]) await expect(page.getByTestId(form)).toHaveCount(0);
   const origin = new URL(page.url()).origin;
   const refused = await page.request.post(`/projects/${projectId}/days/${yesterday}`, { form: { intent: "notes", conditions: "Sunny" }, headers: { Origin: origin } });
   expect(refused.status()).toBe(409);
+  const refusedLines = await page.request.put(`/api/projects/${projectId}/days/${yesterday}/visitors`, { data: { visitors: [] }, headers: { Origin: origin } });
+  expect(refusedLines.status()).toBe(409);
 
 
   // The inspector's countersignature, through the one-time link e-mailed to them.
@@ -86,6 +125,8 @@ test("daily report: missing items, weather, signature, countersignature by e-mai
   // The same figures as the supervisor's page, read-only: no form but the countersignature.
   await expect(inspectorPage.getByTestId("dive-summary")).toHaveText(figures);
   await expect(inspectorPage.getByLabel("Conditions")).toHaveCount(0);
+  await expect(inspectorPage.getByTestId("visitors")).toContainText("Priya Natarajan");
+  await expect(inspectorPage.getByText("Weather downtime (lightning within 10 miles) from 14:00 to 15:30")).toBeVisible();
   await inspectorPage.getByLabel("Your name (typed, as your countersignature)").fill("Morgan Alvarez");
   await inspectorPage.getByRole("button", { name: "Countersign the report" }).click();
   await expect(inspectorPage.getByTestId("countersign-done")).toContainText("is countersigned");
@@ -118,6 +159,10 @@ test("daily report: missing items, weather, signature, countersignature by e-mai
   expect(text).toContain("Air temperature read at 07:00, not noon.");
   expect(text).toContain("Overcast, light chop");
   expect(text).toMatch(/Suction pump 1\s*6\.5\s*1\.5\s*waiting on the turbidity stop/);
+  expect(text).toContain("Weather downtime (lightning within 10 miles) from 14:00 to 15:30: 1.5 h lost on the day");
+  expect(text).toMatch(/09:30\s*11:05\s*Priya Natarajan\s*District water agency\s*silt curtain inspection/);
+  expect(text).toContain(`${team} `);
+  expect(text).toMatch(/entered 6 \(two tenders and the supervisor on the barge\)/);
   expect(text).toContain("Amended after this countersignature");
 
   await page.goto(`/projects/${projectId}/days?month=${yesterday.slice(0, 7)}`);

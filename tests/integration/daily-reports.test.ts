@@ -143,7 +143,8 @@ describe("the day's compiled figures", () => {
     expect(body.missing).toContain("no weather entered");
     // The 23:30 exceedance stops work (still open): its last half hour of the day is lost.
     expect(body.interruptions).toEqual([expect.objectContaining({ kind: "stand-down", reason: "manatee", lostHours: 2 }), expect.objectContaining({ kind: "stop-work", end: null, lostHours: 0.5 })]);
-    expect(body.lostHours).toBe(2.5);
+    // The stop-work's half hour falls inside the stand-down (22:00 to 01:00): an hour lost to two causes counts once, 2 h (not 2 + 0.5).
+    expect(body.lostHours).toBe(2);
     // The stop-work's agency notice: not given yet, with when it is due (from the stop-work's own record).
     expect(body.interruptions[1]).toMatchObject({ agencyNotified: null, notifyBy: expect.stringMatching(/^2026-06-1\dT/) });
     expect(body.finds).toEqual({ byCategory: { cultural: 1, faunal: 1 }, catalogueNumbers: ["FS-2031-001", "FS-2031-002"] });
@@ -160,6 +161,8 @@ describe("the day's compiled figures", () => {
     expect(body.finds.catalogueNumbers).toEqual(["FS-2031-003"]);
     // The stand-down's last hour, and the whole 24-hour day of the stop-work not yet resumed.
     expect(body.interruptions.map((event: { kind: string; lostHours: number }) => [event.kind, event.lostHours])).toEqual([["stand-down", 1], ["stop-work", 24]]);
+    // Both at once for the stand-down's hour: the 24-hour day loses 24 h, never 25.
+    expect(body.lostHours).toBe(24);
   });
 
   it("on the day of a survey, shows the removed volume and the cells newly at firm sand since the survey before it", async () => {

@@ -5,8 +5,8 @@ import { pdfPages, pdfTextItems, type PdfTextItem } from "../../../tests/pdf-tex
 import { renderDailyReportPdf, type PdfDay } from "./daily-report-pdf.server";
 
 // The PDF's layout as a reader sees it, read back with PDF.js (what browsers use): on a full day
-// (long team name, a dozen cells, notes over several lines, three stations, a flag, interruptions,
-// finds, both signatures and an amendment) no text overlaps other text or runs past the margin,
+// (long team name, a dozen cells, notes over several lines, three stations, a flag, interruptions with
+// weather downtime, head counts entered, inspections and visitors, finds, both signatures and an amendment) no text overlaps other text or runs past the margin,
 // words and figures of one line share its baseline (Helvetica and the Roboto Mono have different
 // ascents: set top-aligned, the figures sat a third of a line low and the next words wrapped), and the
 // sign-off stays with its heading. practice: a printed report is read and signed on paper.
@@ -49,6 +49,13 @@ function fullDay(overrides: Partial<DayRecords> = {}): PdfDay {
         { name: "Booster pump", workingHours: 7.5, idleHours: 0, idleReason: "" },
         { name: "Work boat", workingHours: 0, idleHours: 10, idleReason: "outboard under repair" },
       ],
+      crews: [{ team: "Alpha", headCount: 6, reason: "two tenders and the dive supervisor on the barge" }, { team: "Charlie", headCount: 3, reason: "" }],
+      weatherDowntime: [{ start: "15:00", end: "16:15", reason: "lightning within 10 miles" }, { start: "07:00", end: "07:40", reason: "fog on the open water" }],
+      visitors: [
+        { arrived: "09:30", left: "11:05", name: "Morgan Alvarez", organisation: "District water agency", purpose: "silt curtain and dewatering pad inspection; no findings" },
+        { arrived: "10:15", left: "10:50", name: "Priya Natarajan", organisation: "Lake Mirren Friends (funder)", purpose: "site visit with photos for the newsletter" },
+        { arrived: "13:40", left: "", name: "Sam Okafor", organisation: "County roads", purpose: "access road condition after the showers" },
+      ],
       inspections: "09:30 agency inspector walked the silt curtain and the dewatering pad.",
       safety: "Toolbox talk: hose entanglement and line signals. No incidents.",
       notes: "Cell B4 still soft at the east edge; plan another pass tomorrow. ".repeat(4) + "contact:someone.with.a.very.long.address.that.cannot.break@agency-example-of-some-length.example.org",
@@ -88,10 +95,21 @@ describe("the daily report PDF's layout", () => {
     expect(joined(lineOf(items, "Daily report"))).toBe(`Daily report · ${DAY}`);
     // computed: 42 + 95 + 55 + 20 = 212 minutes; deepest 38
     expect(joined(lineOf(items, "dives"))).toBe("4 dives · 212 bottom minutes · deepest 38 ftUS");
-    expect(joined(lineOf(items, "Lost in all"))).toBe("Lost in all: 2.33 h");
+    // computed: stand-down 10:00–10:45, stop-work 14:05–15:40, weather 07:00–07:40 and 15:00–16:15 (over the stop-work's last 40 min):
+    // covered 0:40 + 0:45 + 14:05–16:15 (2:10) = 3.58 h; line by line 0.67 + 0.75 + 1.58 + 1.25 = 4.25 h.
+    expect(joined(lineOf(items, "Lost in all"))).toBe("Lost in all: 3.58 h (interruptions overlapped: an hour lost to two causes counts once; 4.25 h line by line)");
+    expect(joined(lineOf(items, "Weather downtime (lightning"))).toBe("Weather downtime (lightning within 10 miles) from 15:00 to 16:15: 1.25 h lost on the day");
     expect(joined(lineOf(items, "Exceedance"))).toBe("Exceedance at C1, 14:00: 61.2 NTU");
     // A table row's words and figures share its first line's baseline.
-    expect(joined(lineOf(items, "Alpha"))).toBe("Alpha 5 2 137 38 B3 B4 B5 B6 C3 C4");
+    expect(joined(lineOf(items, "Alpha"))).toBe("Alpha 6 entered 2 137 38 B3 B4 B5 B6 C3 C4");
+    // The compiled figure beside the entered one (the line wraps after its first line).
+    expect(joined(lineOf(items, "Head counts entered"))).toMatch(/^Head counts entered: Alpha 5 from the day plan, entered 6 \(two tenders and the dive supervisor on the barge\); Charlie 1 from the/);
+    expect(joined(lineOf(items, "dive log, entered 3"))).toBe("dive log, entered 3.");
+    // The visitors are a table: arrived, left, name, organisation, purpose.
+    // (A long organisation wraps in its cell: the row's first line holds the rest of the row.)
+    expect(joined(lineOf(items, "Priya Natarajan"))).toBe("10:15 10:50 Priya Natarajan Lake Mirren Friends site visit with photos for the newsletter");
+    expect(joined(lineOf(items, "(funder)"))).toBe("(funder)");
+    expect(joined(lineOf(items, "Sam Okafor"))).toBe("13:40 — Sam Okafor County roads access road condition after the showers");
     expect(joined(lineOf(items, "Slurry pumped"))).toMatch(/^Slurry pumped 134,992 gal Dry solids pumped 7\.72 short tons$/);
     // The equipment is a table: name, hours working, hours idle, idle reason (a long reason wraps in its cell).
     expect(joined(lineOf(items, "Booster pump"))).toBe("Booster pump 7.5 0 —");
@@ -136,7 +154,7 @@ describe("the daily report PDF's layout", () => {
     expect(lines).toHaveLength(2);
     for (const line of lines) expect(line.page).toBe(heading.page);
     const text = (await pdfPages(bytes)).join(" ");
-    expect(text).toContain("Inspections and visitors: none entered.");
+    expect(text).toContain("Inspections and visitors None entered.");
     expect(text).toContain("Safety (toolbox talk, incidents): none entered.");
     expect(text).toContain("Equipment None entered.");
   });

@@ -2,7 +2,10 @@ import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import PDFDocument from "pdfkit";
 import type { CompiledDay } from "../../../shared/daily-report/compile";
-import { byHandLine, countersignOutdatedLine, earlierCountersignatureLine, equipmentRows, equipmentTotalsLine, findsLine, formatNumber, interruptionLine, noComplianceStationLine, productionRows, reportUnits, surveyLine, weatherLine } from "../../../shared/daily-report/present";
+import {
+  byHandLine, countersignOutdatedLine, earlierCountersignatureLine, enteredHeadCountsLine, equipmentRows, equipmentTotalsLine, findsLine, formatNumber, headCountCell, interruptionLine, lostHoursNote, noComplianceStationLine,
+  productionRows, reportUnits, surveyLine, visitorRows, weatherLine,
+} from "../../../shared/daily-report/present";
 import { localClockOf, localDayOf } from "../../../shared/local-time";
 import { unitLabel, type LengthUnit } from "../../../shared/units";
 
@@ -294,8 +297,7 @@ function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
   writer.heading("Weather and notes");
   const weather = weatherLine(report.entered.weather);
   writer.line([weather ?? "No weather entered.", ...(report.entered.weather?.effect ? [` — effect on the work: ${report.entered.weather.effect}`] : [])]);
-  // Inspections and safety are written even when empty: "none entered" is not a blank a reader must guess at.
-  writer.line([`Inspections and visitors: ${report.entered.inspections || "none entered."}`], report.entered.inspections ? {} : { color: MUTED });
+  // Safety is written even when empty: "none entered" is not a blank a reader must guess at.
   writer.line([`Safety (toolbox talk, incidents): ${report.entered.safety || "none entered."}`], report.entered.safety ? {} : { color: MUTED });
   if (report.entered.notes) writer.line([`Notes: ${report.entered.notes}`]);
   writer.note("Incidents are reported as the project's safety plan directs; this report records them, it does not replace that reporting.");
@@ -309,18 +311,28 @@ function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
     writer.line([equipmentTotalsLine(equipment)!], { size: 8, color: MUTED });
   }
 
+  // Inspections and visitors with their local times, written even when empty; a report begun before
+  // visitors had lines keeps its free-text note.
+  writer.heading("Inspections and visitors");
+  const visitors = visitorRows(report.entered.visitors);
+  if (visitors.length === 0) writer.line(["None entered."], { color: MUTED });
+  else writer.table(["Arrived", "Left", "Name", "Organisation", "Purpose or notes"], visitors, [1.1, 1.1, 2.6, 2.6, 4.6], [true, true, false, false, false]);
+  if (report.entered.inspections) writer.line([`Earlier note (entered as text): ${report.entered.inspections}`]);
+
   writer.heading("Dive work");
   writer.line([{ figure: String(report.dives.count) }, " dives · ", { figure: String(report.dives.bottomMinutes) }, " bottom minutes · deepest ", { figure: report.dives.maxDepth === null ? "—" : `${report.dives.maxDepth} ${length}` }]);
   if (report.teams.length > 0) {
     writer.table(
       ["Team", "Head count", "Dives", "Bottom time (min)", `Max depth (${length})`, "Cells"],
-      report.teams.map((team) => [team.team, team.headCount === null ? "—" : String(team.headCount), String(team.dives), String(team.bottomMinutes), team.maxDepth === null ? "—" : String(team.maxDepth), team.cells.join(" ")]),
+      report.teams.map((team) => [team.team, headCountCell(team), String(team.dives), String(team.bottomMinutes), team.maxDepth === null ? "—" : String(team.maxDepth), team.cells.join(" ")]),
       [3, 1.5, 1.2, 2, 2, 4],
       [false, true, true, true, true, true],
     );
   }
-  const visitors = report.teams.filter((team) => (team.visitors ?? []).length > 0);
-  if (visitors.length > 0) writer.line([`Visitors diving (not on the team's roster): ${visitors.map((team) => `${team.team}: ${team.visitors!.join(", ")}`).join("; ")}.`]);
+  const headCounts = enteredHeadCountsLine(report.teams);
+  if (headCounts) writer.line([headCounts]);
+  const visitingDivers = report.teams.filter((team) => (team.visitors ?? []).length > 0);
+  if (visitingDivers.length > 0) writer.line([`Visitors diving (not on the team's roster): ${visitingDivers.map((team) => `${team.team}: ${team.visitors!.join(", ")}`).join("; ")}.`]);
   for (const flag of report.dives.flags) writer.line([{ danger: `• ${flag}` }]);
   if (report.dives.flags.length > 0) writer.note("Flags are information from the published table, never approval; the dive safety plan governs.");
 
@@ -351,7 +363,8 @@ function writeDay(writer: ReportWriter, project: PdfProject, day: PdfDay) {
   writer.heading("Interruptions");
   if (report.interruptions.length === 0) writer.line(["None recorded."], { color: MUTED });
   for (const event of report.interruptions) writer.line([interruptionLine(event, project.timeZone)]);
-  writer.line(["Lost in all: ", { figure: formatNumber(report.lostHours, 2) }, " h"]);
+  const overlapped = lostHoursNote(report);
+  writer.line(["Lost in all: ", { figure: formatNumber(report.lostHours, 2) }, " h", ...(overlapped ? [` (${overlapped})`] : [])]);
 
   writer.heading("Finds");
   writer.line([findsLine(report.finds.byCategory) ?? "No finds."]);
