@@ -11,13 +11,13 @@ import { createHash } from "node:crypto";
 import { BoundedCache } from "~/lib/cache/bounded-cache";
 import { getEngineState, projectRecomputeStamp, serverEnginePool } from "~/lib/engine/engine-state.server";
 import { computePeriodFigures, periodFiguresInput, type PeriodFigures } from "~/lib/engine/period-figures";
-
-/** A period's cells as rows (its figures keep them as columns). */
-export { periodCellRows } from "~/lib/engine/period-figures";
 import { monthName, monthPeriod, monthsWithPeriods } from "../../shared/volumes/named-period";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { NotFoundError, ValidationError } from "~/lib/errors";
 import { verticalBiasOf } from "~/models/survey.server";
+
+/** A period's cells as rows (its figures keep them as columns). */
+export { periodCellRows } from "~/lib/engine/period-figures";
 
 /**
  * Pay periods: the figures between any two surveys in force (by default the baseline to the
@@ -185,9 +185,10 @@ type PeriodContext = NonNullable<Awaited<ReturnType<typeof periodContext>>>;
 
 // A period's figures per project, recompute stamp, surveys in force, the two ends and the version
 // of the other inputs: one pass over every raster node (a second or more for a large bay), made in
-// the engine pool from a copy of the rasters it reads, then read by the page, the report, the
-// exports and the signed periods' comparison until something they rest on changes. Each holds a
-// row per cell (megabytes at bay scale): a few at a time.
+// the engine pool from the state's rasters (held in shared memory, so nothing is copied), then
+// read by the page, the report, the exports and the signed periods' comparison until something
+// they rest on changes. Each holds a column per figure over the cells (megabytes at bay scale): a
+// few at a time.
 const PERIODS_HELD = 8;
 const periodCache = new BoundedCache<PeriodFigures>(PERIODS_HELD);
 
