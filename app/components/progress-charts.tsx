@@ -1,6 +1,7 @@
 import { useId } from "react";
 import { linearScale, niceTicks, spreadLabels } from "../../shared/progress/chart-scale";
 import { dayNumber } from "../../shared/progress/calendar-days";
+import { binDays, chooseBinSize, type BinSize, type DayBin } from "../../shared/progress/daily-bins";
 import type { ProductionInterval } from "../../shared/progress/production";
 import { formatNumber } from "./progress-figures";
 import { useMeasuredWidth } from "./use-measured-width";
@@ -319,58 +320,106 @@ export interface DailyBar {
   value: number | null;
   /** The tooltip, in words with units. */
   label: string;
+  /** For a ratio (polymer per dry ton): its parts, which a week or a month adds before dividing. */
+  ratio?: { numerator: number; denominator: number } | null;
 }
 
-/** The narrowest a day's bar is drawn: a long record in a phone's panel still shows every day. */
+/** The narrowest slot a bar is given: past it, days are gathered into weeks, then months, so bars never overlap. */
+export const MIN_BAR_SLOT_PX = 2;
+/** The narrowest a bar is drawn (within its slot). */
 const MIN_BAR_PX = 1;
+const PER_WORDS: Record<BinSize, string> = { day: "day", week: "week (Monday to Sunday)", month: "calendar month" };
+
+interface DailyBarsProps {
+  bars: DailyBar[];
+  unit: string;
+  /** What the chart shows per day, week or month: the accessible name. */
+  title: (per: BinSize) => string;
+  /** The caption over the chart, per day, week or month. */
+  caption: (per: BinSize) => string;
+  /** "total": a week's or month's value is the sum of its days'; "ratio": its parts added, then divided. */
+  kind: "total" | "ratio";
+  testId: string;
+  emptyText: string;
+  digits: number;
+}
+
+/** Room for the plot's bars: the panel less the value axis and half of the last label. */
+function dailyMargin(size: BinSize) {
+  const labelChars = size === "month" ? 7 : 5;
+  return { top: 28, right: Math.ceil(labelChars / 2) * MONO_CHAR_PX + 4, bottom: 2 * CHART_FONT_PX + 16, left: 56, labelChars };
+}
 
 /**
  * One bar per calendar day from the first to the last date given, so days without a record show
- * as gaps rather than closing up; a day with a record and no value is marked with a dash.
+ * as gaps rather than closing up; a day with a record and no value is marked with a dash. When a
+ * day's slot would be narrower than MIN_BAR_SLOT_PX (a long record on a phone), one bar per week,
+ * or per month, gathered as `kind` says (shared/progress/daily-bins.ts), and the caption and the
+ * chart's description say so.
  */
-export function DailyBarsChart(props: { bars: DailyBar[]; unit: string; title: string; testId: string; emptyText: string; digits: number }) {
+export function DailyBarsChart(props: DailyBarsProps) {
   const [ref, width] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
+  const noteId = useId();
   if (props.bars.length === 0) return <p className="text-sm text-muted">{props.emptyText}</p>;
+  const dayMargin = dailyMargin("day");
+  const size = chooseBinSize(props.bars[0].date, props.bars[props.bars.length - 1].date, width - dayMargin.left - dayMargin.right, MIN_BAR_SLOT_PX);
+  const bins = binDays(props.bars, size);
+  const span = dayNumber(props.bars[props.bars.length - 1].date) - dayNumber(props.bars[0].date) + 1;
+  const note = size === "day" ? null
+    : `${span} days are too many for a bar each at this width: one bar per ${PER_WORDS[size]}, ${props.kind === "total" ? "the sum of its days" : "its days' parts added before dividing (not their ratios averaged)"}.`;
   return (
-    <div ref={ref} className="w-full min-w-0 overflow-hidden">
-      <DailyBarsSvg {...props} width={width} />
-    </div>
+    <figure className="min-w-0 space-y-1" data-testid={`${props.testId}-figure`}>
+      <figcaption className="text-sm font-medium">{props.caption(size)}</figcaption>
+      <div ref={ref} className="w-full min-w-0 overflow-hidden">
+        <DailyBarsSvg {...props} bins={bins} size={size} width={width} noteId={note ? noteId : undefined} />
+      </div>
+      {note ? <p id={noteId} className="text-xs text-muted" data-testid={`${props.testId}-binning`}>{note}</p> : null}
+    </figure>
   );
 }
 
-function DailyBarsSvg({ bars, unit, title, testId, digits, width }: { bars: DailyBar[]; unit: string; title: string; testId: string; digits: number; width: number }) {
+function binTooltip(bin: DayBin, byDate: Map<string, DailyBar>, unit: string, digits: number): string {
+  if (bin.size === "day") return byDate.get(bin.from)?.label ?? bin.from;
+  const days = (count: number) => (count === 1 ? "1 day" : `${count} days`);
+  if (bin.value === null) return `${bin.from} to ${bin.to}: ${days(bin.recordDays)} logged, nothing to draw`;
+  return `${bin.from} to ${bin.to}: ${formatNumber(bin.value, digits)} ${unit} from ${days(bin.valueDays)}${bin.recordDays > bin.valueDays ? ` (of ${days(bin.recordDays)} logged)` : ""}`;
+}
+
+/** The bars' SVG at `width` (exported for the layout's unit test; pages use DailyBarsChart). */
+export function DailyBarsSvg({ bars, bins, size, unit, title, testId, digits, width, noteId }: DailyBarsProps & { bins: DayBin[]; size: BinSize; width: number; noteId?: string }) {
   const titleId = useId();
-  // The right margin holds half of the last date's label ("11-17").
-  const margin = { top: 28, right: 3 * MONO_CHAR_PX + 4, bottom: 2 * CHART_FONT_PX + 16, left: 56 };
-  const first = dayNumber(bars[0].date);
-  const span = dayNumber(bars[bars.length - 1].date) - first + 1;
+  // The right margin holds half of the last bin's label ("11-17", or "2026-11" by month).
+  const { labelChars, ...margin } = dailyMargin(size);
   const height = clamp(Math.round(width * 0.45), 200, 280);
   const frame: Frame = { width, height, margin };
-  const ticks = niceTicks(Math.max(0, ...bars.map((bar) => bar.value ?? 0)));
+  const ticks = niceTicks(Math.max(0, ...bins.map((bin) => bin.value ?? 0)));
   const bottom = height - margin.bottom;
   const y = linearScale([0, ticks[ticks.length - 1]], [bottom, margin.top]);
-  const slot = (width - margin.left - margin.right) / span;
-  const centre = (date: string) => margin.left + (dayNumber(date) - first + 0.5) * slot;
+  const slot = (width - margin.left - margin.right) / bins.length;
+  const centre = (index: number) => margin.left + (index + 0.5) * slot;
+  const barWidth = Math.min(slot - 0.5, Math.max(MIN_BAR_PX, slot * 0.7));
   const valueLabels = slot >= 6 * MONO_CHAR_PX;
-  const shown = thinLabels(bars.map((bar) => centre(bar.date)), 5 * MONO_CHAR_PX + 8);
+  const recorded = bins.map((bin, index) => ({ bin, index })).filter(({ bin }) => bin.recordDays > 0);
+  const shown = thinLabels(recorded.map(({ index }) => centre(index)), labelChars * MONO_CHAR_PX + 8);
+  const byDate = new Map(bars.map((bar) => [bar.date, bar]));
   let row = 0;
   return (
-    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby={titleId} className="block" data-testid={testId}>
-      <title id={titleId}>{title}</title>
+    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby={titleId} aria-describedby={noteId} className="block" data-testid={testId} data-per={size}>
+      <title id={titleId}>{title(size)}</title>
       <ValueAxis frame={frame} ticks={ticks} y={y} unit={unit} />
-      {bars.map((bar, index) => {
-        const x = centre(bar.date);
-        const barWidth = Math.max(MIN_BAR_PX, slot * 0.7);
-        const line = shown[index] ? row++ % 2 : 0;
+      {recorded.map(({ bin, index }, position) => {
+        const x = centre(index);
+        const line = shown[position] ? row++ % 2 : 0;
+        const tooltip = binTooltip(bin, byDate, unit, digits);
         return (
-          <g key={bar.date} data-date={bar.date}>
-            {bar.value === null ? (
-              <text x={x} y={bottom - 4} textAnchor="middle" fontSize={CHART_FONT_PX} fill="#5b6870">–<title>{bar.label}</title></text>
+          <g key={bin.from} data-date={bin.from}>
+            {bin.value === null ? (
+              <text x={x} y={bottom - 4} textAnchor="middle" fontSize={CHART_FONT_PX} fill="#5b6870">–<title>{tooltip}</title></text>
             ) : (
-              <rect x={x - barWidth / 2} width={barWidth} y={y(Math.max(0, bar.value))} height={y(0) - y(Math.max(0, bar.value))} fill="#14606e"><title>{bar.label}</title></rect>
+              <rect x={x - barWidth / 2} width={barWidth} y={y(Math.max(0, bin.value))} height={y(0) - y(Math.max(0, bin.value))} fill="#14606e"><title>{tooltip}</title></rect>
             )}
-            {valueLabels && bar.value !== null ? <text className="figures" x={x} y={y(Math.max(0, bar.value)) - 4} textAnchor="middle" fontSize={CHART_FONT_PX} fill="#1d2528">{formatNumber(bar.value, digits)}</text> : null}
-            {shown[index] ? <text className="figures" x={x} y={bottom + 16 + line * (CHART_FONT_PX + 2)} textAnchor="middle" fontSize={CHART_FONT_PX} fill="#5b6870">{bar.date.slice(5)}</text> : null}
+            {valueLabels && bin.value !== null ? <text className="figures" x={x} y={y(Math.max(0, bin.value)) - 4} textAnchor="middle" fontSize={CHART_FONT_PX} fill="#1d2528">{formatNumber(bin.value, digits)}</text> : null}
+            {shown[position] ? <text className="figures" x={x} y={bottom + 16 + line * (CHART_FONT_PX + 2)} textAnchor="middle" fontSize={CHART_FONT_PX} fill="#5b6870">{size === "month" ? bin.from.slice(0, 7) : bin.from.slice(5)}</text> : null}
           </g>
         );
       })}

@@ -1,9 +1,12 @@
+import { useMeasuredWidth } from "./use-measured-width";
+
 /**
  * A small plan view of soundings and the work limit (project coordinates, north up), drawn as
  * SVG: enough to see where a file lies, which points fall outside the limit and which stand out
  * as spikes. The frame is the one the data gives (the work limit with a margin): a point beyond it
  * is drawn on the frame's edge as a small arrow, and each edge counts the points beyond it, so one
- * far-off point can never shrink the work limit to a dot.
+ * far-off point can never shrink the work limit to a dot. Drawn at its panel's measured width
+ * (640 px before scripts run), so its labels keep their size on a phone.
  */
 export interface SoundingPlotData {
   bounds: { minX: number; minY: number; maxX: number; maxY: number };
@@ -20,7 +23,8 @@ export interface SoundingPlotData {
 const OUTSIDE = "#a3242a";
 const SPIKE = "#b45309";
 
-export function SoundingPlot({ data, title, width = 640 }: { data: SoundingPlotData; title: string; width?: number }) {
+export function SoundingPlot({ data, title }: { data: SoundingPlotData; title: string }) {
+  const [ref, width] = useMeasuredWidth<HTMLDivElement>(640);
   const { bounds } = data;
   const spanX = Math.max(bounds.maxX - bounds.minX, 1);
   const spanY = Math.max(bounds.maxY - bounds.minY, 1);
@@ -61,28 +65,30 @@ export function SoundingPlot({ data, title, width = 640 }: { data: SoundingPlotD
   ];
   return (
     <figure className="min-w-0 rounded border border-line bg-panel p-2">
-      <svg role="img" aria-label={title} viewBox={`0 0 ${width} ${height.toFixed(0)}`} className="h-auto w-full max-w-full">
-        <title>{title}</title>
-        <rect x={frame.x0} y={frame.y0} width={frame.x1 - frame.x0} height={frame.y1 - frame.y0} fill="none" stroke="#c9d3d6" strokeDasharray="4 3" />
-        {path ? <path d={path} fill="#e8f1f2" stroke="#14606e" strokeWidth={1.5} fillRule="evenodd" /> : null}
-        {data.points.map((point, index) => {
-          const { x, y, inside } = place(point);
-          return inside
-            ? <circle key={index} cx={x.toFixed(1)} cy={y.toFixed(1)} r={1} fill="#1d2528" />
-            : <rect key={index} x={(x - 2).toFixed(1)} y={(y - 2).toFixed(1)} width={4} height={4} fill="#1d2528" />;
-        })}
-        {outside.map((item, index) => {
-          const { x, y } = place(item.at);
-          return <circle key={`o${index}`} data-mark="outside" cx={x.toFixed(1)} cy={y.toFixed(1)} r={5} fill="none" stroke={OUTSIDE} strokeWidth={2}><title>{item.row ? `Row ${item.row}: outside the work limit` : "Outside the work limit"}</title></circle>;
-        })}
-        {spikes.map((item, index) => {
-          const { x, y } = place(item.at);
-          return <path key={`s${index}`} data-mark="spike" d={`M${x.toFixed(1)},${(y - 6).toFixed(1)}L${(x + 5).toFixed(1)},${(y + 4).toFixed(1)}L${(x - 5).toFixed(1)},${(y + 4).toFixed(1)}Z`} fill="none" stroke={SPIKE} strokeWidth={2}><title>{`Row ${item.row}: spike`}</title></path>;
-        })}
-        {edgeLabels.filter((label) => label.count > 0).map((label) => (
-          <text key={label.key} data-edge={label.key} x={label.x} y={label.y} textAnchor={label.anchor} fontSize={13} fill={OUTSIDE} fontWeight={600}>{label.text}</text>
-        ))}
-      </svg>
+      <div ref={ref} className="w-full min-w-0 overflow-hidden">
+        <svg role="img" aria-label={title} width={width} height={Math.round(height)} viewBox={`0 0 ${width} ${height.toFixed(0)}`} className="block max-w-full" data-testid="sounding-plot-chart">
+          <title>{title}</title>
+          <rect x={frame.x0} y={frame.y0} width={frame.x1 - frame.x0} height={frame.y1 - frame.y0} fill="none" stroke="#c9d3d6" strokeDasharray="4 3" />
+          {path ? <path d={path} fill="#e8f1f2" stroke="#14606e" strokeWidth={1.5} fillRule="evenodd" /> : null}
+          {data.points.map((point, index) => {
+            const { x, y, inside } = place(point);
+            return inside
+              ? <circle key={index} cx={x.toFixed(1)} cy={y.toFixed(1)} r={1} fill="#1d2528" />
+              : <rect key={index} x={(x - 2).toFixed(1)} y={(y - 2).toFixed(1)} width={4} height={4} fill="#1d2528" />;
+          })}
+          {outside.map((item, index) => {
+            const { x, y } = place(item.at);
+            return <circle key={`o${index}`} data-mark="outside" cx={x.toFixed(1)} cy={y.toFixed(1)} r={5} fill="none" stroke={OUTSIDE} strokeWidth={2}><title>{item.row ? `Row ${item.row}: outside the work limit` : "Outside the work limit"}</title></circle>;
+          })}
+          {spikes.map((item, index) => {
+            const { x, y } = place(item.at);
+            return <path key={`s${index}`} data-mark="spike" d={`M${x.toFixed(1)},${(y - 6).toFixed(1)}L${(x + 5).toFixed(1)},${(y + 4).toFixed(1)}L${(x - 5).toFixed(1)},${(y + 4).toFixed(1)}Z`} fill="none" stroke={SPIKE} strokeWidth={2}><title>{`Row ${item.row}: spike`}</title></path>;
+          })}
+          {edgeLabels.filter((label) => label.count > 0).map((label) => (
+            <text key={label.key} data-edge={label.key} x={label.x} y={label.y} textAnchor={label.anchor} fontSize={13} fill={OUTSIDE} fontWeight={600}>{label.text}</text>
+          ))}
+        </svg>
+      </div>
       <figcaption className="mt-1 text-sm text-muted">
         {title}: {data.points.length.toLocaleString("en-US")} soundings drawn; work limit shaded.
         <span className="mt-1 flex flex-wrap gap-x-4 gap-y-1">

@@ -1,5 +1,5 @@
 import { linearScale, niceTicks } from "../../shared/progress/chart-scale";
-import { CHART_FONT_PX } from "./progress-charts";
+import { CHART_FONT_PX, MONO_CHAR_PX } from "./progress-charts";
 import { useMeasuredWidth } from "./use-measured-width";
 
 /**
@@ -8,7 +8,8 @@ import { useMeasuredWidth } from "./use-measured-width";
  * (measured; 640 px before scripts run) so its text is 12 px at any width.
  */
 
-const MARGIN = { top: 24, right: 16, bottom: 34, left: 52 };
+// The right margin holds half of the last day's label ("11-17") at 12 px.
+const MARGIN = { top: 24, right: 3 * MONO_CHAR_PX + 4, bottom: 34, left: 52 };
 
 export interface ChartReading {
   takenAt: string;
@@ -31,7 +32,7 @@ type TurbidityChartProps = {
 
 export function TurbidityChart(props: TurbidityChartProps) {
   const [ref, width] = useMeasuredWidth<HTMLDivElement>(640);
-  return <div ref={ref} className="w-full min-w-0 max-w-3xl overflow-hidden"><TurbiditySvg {...props} width={width} /></div>;
+  return <div ref={ref} className="w-full min-w-0 overflow-hidden"><TurbiditySvg {...props} width={width} /></div>;
 }
 
 function TurbiditySvg({ station, readings, missed, fromMs, toMs, unit = "NTU", dayLabel, width: WIDTH }: TurbidityChartProps & { width: number }) {

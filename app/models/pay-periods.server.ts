@@ -9,12 +9,15 @@ import type { UserView } from "~/lib/auth/users.server";
 import { PayPeriodReport, Survey, getSequelize, type PayPeriodSnapshot } from "~/lib/db.server";
 import { createHash } from "node:crypto";
 import { BoundedCache } from "~/lib/cache/bounded-cache";
-import { getEngineState, projectRecomputeStamp } from "~/lib/engine/engine-state.server";
-import { computePeriodFigures, type PeriodFigures } from "~/lib/engine/period-figures";
+import { getEngineState, projectRecomputeStamp, serverEnginePool } from "~/lib/engine/engine-state.server";
+import { computePeriodFigures, periodFiguresInput, type PeriodFigures } from "~/lib/engine/period-figures";
 import { monthName, monthPeriod, monthsWithPeriods } from "../../shared/volumes/named-period";
 import { loadProjectGeometry } from "~/lib/engine/project-geometry.server";
 import { NotFoundError, ValidationError } from "~/lib/errors";
 import { verticalBiasOf } from "~/models/survey.server";
+
+/** A period's cells as rows (its figures keep them as columns). */
+export { periodCellRows } from "~/lib/engine/period-figures";
 
 /**
  * Pay periods: the figures between any two surveys in force (by default the baseline to the
@@ -181,10 +184,11 @@ async function periodContext(project: ProjectView) {
 type PeriodContext = NonNullable<Awaited<ReturnType<typeof periodContext>>>;
 
 // A period's figures per project, recompute stamp, surveys in force, the two ends and the version
-// of the other inputs: one pass over every raster node (a second or more for a large bay, on the
-// request thread, since the rasters live there), then read by the page, the report, the exports
-// and the signed periods' comparison until something they rest on changes. Each holds a row per
-// cell (megabytes at bay scale): a few at a time.
+// of the other inputs: one pass over every raster node (a second or more for a large bay), made in
+// the engine pool from the state's rasters (held in shared memory, so nothing is copied), then
+// read by the page, the report, the exports and the signed periods' comparison until something
+// they rest on changes. Each holds a column per figure over the cells (megabytes at bay scale): a
+// few at a time.
 const PERIODS_HELD = 8;
 const periodCache = new BoundedCache<PeriodFigures>(PERIODS_HELD);
 
@@ -192,14 +196,16 @@ function periodKey(project: ProjectView, context: PeriodContext, from: number, t
   return `${project.id}:${context.stamp}:${context.surveys.map((survey) => survey.id).join(",")}:${context.surveys[from].id}-${context.surveys[to].id}:${context.version}`;
 }
 
-/** The period's figures, computed once per version of what they rest on. */
+/** The period's figures, computed once per version of what they rest on, in the engine pool (on this thread only with ENGINE_THREADS=0). */
 function periodFigures(project: ProjectView, context: PeriodContext, from: number, to: number): Promise<PeriodFigures> {
   const current = `${project.id}:${context.stamp}:`;
   // A period of an older stamp is never read again: let it go now rather than when it ages out.
   periodCache.dropWhere((key) => key.startsWith(`${project.id}:`) && !key.startsWith(current));
-  return periodCache.getOrCompute(periodKey(project, context, from, to), async () =>
-    computePeriodFigures({ surfaces: context.state.surfaces, periods: context.state.periods, from, to, ...context.inputs }),
-  );
+  return periodCache.getOrCompute(periodKey(project, context, from, to), async () => {
+    const input = periodFiguresInput(context.state, from, to, context.inputs);
+    const pool = serverEnginePool();
+    return pool ? pool.computePeriodFigures(input) : computePeriodFigures(input);
+  });
 }
 
 /**

@@ -11,7 +11,7 @@ import { loadProgress, type ProgressFigures, type ProgressView } from "./progres
 import type { StoredCellFigures } from "./cells-presenter";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import { presentStoredCellFigures } from "./cells-presenter";
-import { loadPayPeriod, surfaceMethodWords, type PayPeriodView, type PeriodQuery, type PeriodSurvey } from "./pay-periods.server";
+import { loadPayPeriod, periodCellRows, surfaceMethodWords, type PayPeriodView, type PeriodQuery, type PeriodSurvey } from "./pay-periods.server";
 import { PERIOD_VOLUME_KEYS } from "../../shared/volumes/period";
 
 /**
@@ -171,7 +171,7 @@ export function quantitiesCsv(view: QuantitiesView, generatedAt: Date): string {
     `mean remaining thickness (${project.lengthLabel})`, "surveyed coverage (0-1)", `area in work limit (${project.lengthLabel}²)`, "latest survey",
     ...(period ? [`period removed (${volume})`, `period paid (${volume})`, `period over-dredge (${volume})`, `period deposited (${volume})`, `remaining at period end (${volume})`] : []),
   ]));
-  const periodCells = new Map(period?.figures.cells.map((cell) => [cell.label, cell]));
+  const periodCells = new Map(period && periodCellRows(period.figures).map((cell) => [cell.label, cell]));
   for (const cell of view.cells) {
     const inPeriod = periodCells.get(cell.label);
     lines.push(
@@ -197,7 +197,7 @@ export async function quantitiesGeoJson(view: QuantitiesView): Promise<GeoJSON.F
   });
   const crs = createCrs(resolveCrsDefinition(view.project.crs).definition);
   const period = view.period;
-  const periodCells = new Map(period?.figures.cells.map((cell) => [cell.label, cell]));
+  const periodCells = new Map(period && periodCellRows(period.figures).map((cell) => [cell.label, cell]));
   return {
     type: "FeatureCollection",
     // A foreign member (RFC 7946 §6.1): what the period columns of every feature rest on.

@@ -2,7 +2,7 @@ import { requireApiAccess } from "~/lib/api/access.server";
 import { readApiQuery } from "~/lib/api/body.server";
 import { apiRoute } from "~/lib/api/route.server";
 import { NotFoundError } from "~/lib/errors";
-import { loadPayPeriod, periodQuerySchema } from "~/models/pay-periods.server";
+import { loadPayPeriod, periodCellRows, periodQuerySchema } from "~/models/pay-periods.server";
 import type { Route } from "./+types/api.projects.$projectId.quantities";
 
 const route = apiRoute<Route.LoaderArgs>({
@@ -13,7 +13,7 @@ const route = apiRoute<Route.LoaderArgs>({
     const period = await loadPayPeriod(project, readApiQuery(request, periodQuerySchema));
     if (!period) throw new NotFoundError("The project has no figures yet (no baseline survey or no work limit), so there is no pay period.");
     const { figures, ...rest } = period;
-    return Response.json({ ...rest, total: figures.total, zones: figures.zones, cells: figures.cells }, { headers: { "Cache-Control": "private, no-store" } });
+    return Response.json({ ...rest, total: figures.total, zones: figures.zones, cells: periodCellRows(figures) }, { headers: { "Cache-Control": "private, no-store" } });
   },
 });
 export const loader = route.loader;

@@ -10,6 +10,9 @@
 //           `firmsand_bench` database
 //   event-loop  the longest event-loop stall while a 1,000,000-sounding recompute and the map's
 //           surfaces run on the request thread and in the engine pool (tests/bench/engine-event-loop.ts)
+//   period  the longest event-loop stall while a pay period's figures are computed from a synthetic
+//           bay's engine state, on the request thread and in the engine pool, and that both give the
+//           same figures (tests/bench/period-event-loop.ts; no database)
 //   map     navigation to the cells drawn for a 100,000-cell bay in headless Chromium, and the
 //           bytes sent (tests/bench/map.ts), against the production build served on BENCH_PORT
 //           (default 3200)
@@ -20,8 +23,8 @@
 //   load    50 signed-in connections on the map's cells, the progress figures and the overview page
 //           of the seeded demo (database `firmsand_load`), beside the server's floor (/healthz), with
 //           autocannon against the production build (tests/bench/load.ts; --duration, --connections, --runs)
-// Options: --only engine|engine-files|import|event-loop|map|map-demo|bodies|load (repeatable); anything else goes to
-// the engine, map and load benches (for example --only engine --runs 1, --only map-demo --profile /tmp/p).
+// Options: --only engine|engine-files|import|event-loop|period|map|map-demo|bodies|load (repeatable); anything else goes
+// to the engine, map and load benches (for example --only engine --runs 1, --only map-demo --profile /tmp/p).
 // Leaves no process behind: what it started, it stops.
 import { spawn } from "node:child_process";
 import { join } from "node:path";
@@ -30,7 +33,7 @@ import { ensureMariaDb, stopMariaDb } from "./db.mjs";
 import { ensureS3Server, stopS3Server } from "./services.mjs";
 
 const args = process.argv.slice(2);
-const parts = ["engine", "engine-files", "import", "event-loop", "map", "map-demo", "bodies", "load"];
+const parts = ["engine", "engine-files", "import", "event-loop", "period", "map", "map-demo", "bodies", "load"];
 const chosen = [];
 const passThrough = [];
 for (let index = 0; index < args.length; index++) {
@@ -59,7 +62,13 @@ if (selected.includes("engine-files")) {
   if ((await runStep(bin("tsx"), ["tests/bench/engine-files.ts", ...passThrough], process.env)) !== 0) failed = true;
 }
 
-const needsDatabase = selected.some((part) => part !== "engine" && part !== "engine-files");
+if (selected.includes("period")) {
+  log("bench: event loop while a pay period is computed");
+  const periodEnv = { ...process.env, NODE_OPTIONS: [process.env.NODE_OPTIONS, "--expose-gc"].filter(Boolean).join(" ") };
+  if ((await runStep(bin("tsx"), ["tests/bench/period-event-loop.ts"], periodEnv)) !== 0) failed = true;
+}
+
+const needsDatabase = selected.some((part) => part !== "engine" && part !== "engine-files" && part !== "period");
 if (needsDatabase) {
   await takeCheckoutLock("test-run", "npm test or npm run bench");
   const cleanups = [];

@@ -21,6 +21,11 @@ describe("dewatering days", () => {
     // computed: 20 kg over 10 t is 2 kg/t, and 1 kg/t is exactly 2 lb per short ton, so 4 lb/ton;
     // the undosed shift's 5,000 kg must not dilute it to 2.67
     expect(days[1].polymerPerDryTon).toBeCloseTo(4, 9);
+    // computed: its parts, which a week adds before dividing: 20 kg = 44.09 lb over the dosed 10,000 kg only
+    expect(days[1].polymerParts!.polymer).toBeCloseTo(20 / KILOGRAMS_PER_POUND, 9);
+    expect(days[1].polymerParts!.drySolids).toBeCloseTo(10_000 / (2000 * KILOGRAMS_PER_POUND), 9);
+    expect(days[1].polymerParts!.polymer / days[1].polymerParts!.drySolids).toBeCloseTo(days[1].polymerPerDryTon!, 12);
+    expect(days[0].polymerParts).toBeNull();
   });
 
   it("answers tonnes and kilograms on a metre project", () => {

@@ -32,6 +32,8 @@ export interface DewateringDay {
    * polymer and their solids: the day's polymer over the same shifts' solids, never a mean of ratios.
    */
   polymerPerDryTon: number | null;
+  /** Its parts: the neat polymer (project mass unit) and the dry solids (bulk unit) of those shifts; null when no shift logged both. */
+  polymerParts: { polymer: number; drySolids: number } | null;
 }
 
 /** One row per date with a shift, oldest first. */
@@ -58,6 +60,7 @@ export function dewateringDays(shifts: ReadonlyArray<ShiftSolids>, lengthUnit: L
       shifts: day.shifts,
       drySolids: day.hasSolids ? kilogramsTo(day.solidsKg, units.bulkMass) : null,
       polymerPerDryTon: day.dosedSolidsKg > 0 ? kilogramsTo(day.polymerKg, units.mass) / kilogramsTo(day.dosedSolidsKg, units.bulkMass) : null,
+      polymerParts: day.dosedSolidsKg > 0 ? { polymer: kilogramsTo(day.polymerKg, units.mass), drySolids: kilogramsTo(day.dosedSolidsKg, units.bulkMass) } : null,
     }));
 }
 

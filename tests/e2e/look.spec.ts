@@ -1,6 +1,7 @@
 import { request as playwrightRequest, type Locator, type Page } from "@playwright/test";
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
+import { labelIndex, type CellsData } from "../../app/components/map/cell-features";
 import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, uniqueEmail, waitForMail } from "./fixtures";
 
 // One look across the manager's and outreach pages: role labels in mail, the audit log's filter,
@@ -252,9 +253,12 @@ test("the site header fits a phone: the admin's and a member's links fold into a
   }
 });
 
+/** Every chart's SVG: named "<what>-chart", or "turbidity-chart-<station>" (one per station). */
+const CHART_SVGS = "svg[data-testid$='-chart'], svg[data-testid^='turbidity-chart-']";
+
 /** Rendered sizes (CSS px) of the text of every chart on the page. */
 async function chartTextSizes(page: Page): Promise<number[]> {
-  return page.locator("svg[data-testid$='-chart'] text").evaluateAll((texts) => texts.map((text) => {
+  return page.locator(CHART_SVGS).locator("text").evaluateAll((texts) => texts.map((text) => {
     const svg = (text as SVGTextElement).ownerSVGElement!;
     const box = svg.viewBox.baseVal;
     const scale = box && box.width > 0 ? svg.getBoundingClientRect().width / box.width : 1;
@@ -264,7 +268,7 @@ async function chartTextSizes(page: Page): Promise<number[]> {
 
 /** Every chart on the page lies inside its panel and every label inside its chart (nothing cut off, nothing scrolls sideways). */
 async function chartsOverflowing(page: Page): Promise<string[]> {
-  return page.locator("svg[data-testid$='-chart']").evaluateAll((svgs) => svgs.flatMap((svg) => {
+  return page.locator(CHART_SVGS).evaluateAll((svgs) => svgs.flatMap((svg) => {
     const problems: string[] = [];
     const name = svg.getAttribute("data-testid");
     const box = svg.getBoundingClientRect();
@@ -304,6 +308,86 @@ test("on a phone the charts fit their panels: production as rows, daily bars wit
     await expect.poll(() => chartsOverflowing(page), { message: `dewatering charts at ${viewport.width} px` }).toEqual([]);
     expect(Math.min(...(await chartTextSizes(page)))).toBeGreaterThanOrEqual(11.99);
     await page.screenshot({ path: join(shots, `dewatering-${viewport.width}.png`), fullPage: true });
+    await context.close();
+  }
+});
+
+/** Charts narrower or wider than their panel's content box (drawn at a stale or fixed width), by more than 2 px. */
+async function chartsNotSizedToPanels(page: Page): Promise<string[]> {
+  return page.locator(CHART_SVGS).evaluateAll((svgs) => svgs.flatMap((svg) => {
+    const panel = svg.parentElement!;
+    const style = getComputedStyle(panel);
+    const room = panel.clientWidth - parseFloat(style.paddingLeft) - parseFloat(style.paddingRight);
+    const width = svg.getBoundingClientRect().width;
+    return Math.abs(width - room) > 2 ? [`${svg.getAttribute("data-testid")}: ${width.toFixed(0)} px in a panel of ${room.toFixed(0)} px`] : [];
+  }));
+}
+
+/** Every chart on the page legible (text ≥ 12 px), inside its panel, sized to it, nothing cut off; a screenshot of each. */
+async function expectChartsFit(page: Page, where: string, shots: string, name: string, options: { text?: boolean } = {}) {
+  await expect.poll(() => chartsOverflowing(page), { message: `${where}: charts cut off or scrolling` }).toEqual([]);
+  await expect.poll(() => chartsNotSizedToPanels(page), { message: `${where}: charts sized to their panels` }).toEqual([]);
+  const sizes = await chartTextSizes(page);
+  // A sounding plot with every point inside its frame has no text at all.
+  if (options.text !== false) expect(sizes.length, `${where}: chart text`).toBeGreaterThan(0);
+  expect(Math.min(Infinity, ...sizes), `${where}: smallest chart text`).toBeGreaterThanOrEqual(11.99);
+  const charts = page.locator(CHART_SVGS);
+  for (let index = 0; index < (await charts.count()); index++) {
+    await charts.nth(index).scrollIntoViewIfNeeded();
+    await charts.nth(index).screenshot({ path: join(shots, `${name}-${index}.png`) });
+  }
+}
+
+test("the turbidity charts, the sounding plots (import check, survey page) and the map's cell history are legible and fit their panels, on a desktop and a phone", async ({ browser, baseURL }) => {
+  test.setTimeout(120_000);
+  const shots = join(process.cwd(), "test-results", "look");
+  mkdirSync(shots, { recursive: true });
+  for (const viewport of [{ width: 1440, height: 900 }, { width: 390, height: 844 }]) {
+    const context = await browser.newContext({ viewport });
+    const page = await context.newPage();
+    // Water quality: one turbidity chart per station with readings.
+    await signedIn(page, baseURL!, "resource-monitor");
+    await page.goto(`/projects/${projectId}/water-quality/compliance`);
+    await expect(page.locator("svg[data-testid^='turbidity-chart-']").first()).toBeVisible();
+    await expectChartsFit(page, `turbidity at ${viewport.width} px`, shots, `turbidity-${viewport.width}`);
+
+    // The map: the cell inspector's history, in the side panel (a bottom sheet on a phone).
+    const cellsResponse = page.waitForResponse((response) => response.url().endsWith(`/api/projects/${projectId}/cells`));
+    await page.goto(`/projects/${projectId}/map`);
+    const labels = [...labelIndex((await (await cellsResponse).json()) as CellsData).keys()];
+    const label = labels[Math.floor(labels.length / 2)];
+    await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-cells-drawn", /\d+/, { timeout: 20_000 });
+    await page.getByLabel("Search cell label").fill(label);
+    await page.getByRole("button", { name: "Find" }).click();
+    if (viewport.width < 640) await page.getByRole("button", { name: "Show panel" }).click();
+    await expect(page.getByRole("region", { name: `Cell ${label}` }).getByTestId("cell-history-chart")).toBeVisible();
+    await expectChartsFit(page, `cell history at ${viewport.width} px`, shots, `cell-history-${viewport.width}`);
+
+    // The import check: a file with one sounding far off, drawn on the frame's edge with its count; then discarded.
+    await signedIn(page, baseURL!, "surveyor");
+    await page.goto(`/projects/${projectId}/surveys`);
+    await page.getByRole("link", { name: "Upload a survey" }).click();
+    await page.getByLabel("Sounding file (CSV, up to 200 MB)").setInputFiles(join(import.meta.dirname, "..", "fixtures", "import", "one-far-off-point.csv"));
+    await page.getByLabel("Survey kind").selectOption("baseline");
+    await page.getByLabel("Survey date").fill("2026-09-08");
+    await page.getByLabel(/Water-surface elevation/).fill("32.4");
+    await page.getByRole("button", { name: "Upload and check" }).click();
+    await expect(page.getByTestId("sounding-plot-chart").locator('[data-edge="east"]')).toHaveText("1 beyond ▶");
+    await expectChartsFit(page, `sounding plot at ${viewport.width} px`, shots, `sounding-plot-${viewport.width}`);
+    await page.getByRole("button", { name: "Discard this upload" }).click();
+    await expect(page.getByRole("heading", { name: "Surveys" })).toBeVisible();
+    // A stored survey's page draws the same plot.
+    const surveys = (await (await page.context().request.get(`/api/projects/${projectId}/surveys`)).json()) as { surveys: Array<{ id: number }> };
+    await page.goto(`/projects/${projectId}/surveys/${surveys.surveys[0].id}`);
+    await expect(page.getByTestId("sounding-plot-chart")).toBeVisible();
+    await expectChartsFit(page, `survey's sounding plot at ${viewport.width} px`, shots, `survey-plot-${viewport.width}`, { text: false });
+
+    // The dewatering page's daily bars: none overlapping the next.
+    await signedIn(page, baseURL!, "manager");
+    await page.goto(`/projects/${projectId}/dewatering`);
+    const rects = await page.getByTestId("dry-solids-chart").locator("rect").evaluateAll((bars) => bars.map((bar) => bar.getBoundingClientRect()).map((box) => ({ left: box.left, right: box.right })));
+    expect(rects.length).toBeGreaterThan(0);
+    for (let index = 1; index < rects.length; index++) expect(rects[index].left, `bar ${index} at ${viewport.width} px`).toBeGreaterThanOrEqual(rects[index - 1].right);
     await context.close();
   }
 });

@@ -2,12 +2,16 @@ import { mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import Papa from "papaparse";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { isDeepStrictEqual } from "node:util";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
 import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { PERIOD_VOLUME_KEYS } from "../../shared/volumes/period";
 import { SURVEYS, ZONES } from "../../sample-data/scenario";
-import { AuditEvent, PayPeriodReport, Project, SurveySnapshot, User } from "~/lib/db.server";
+import { AuditEvent, PayPeriodReport, Project, SurveySnapshot, User, getSequelize } from "~/lib/db.server";
+import { getEngineState, serverEnginePool } from "~/lib/engine/engine-state.server";
+import { computePeriodFigures, periodCellRows, type PeriodFigures, type PeriodFiguresInput } from "~/lib/engine/period-figures";
+import { recomputeProjectStatistics } from "~/lib/engine/recompute.server";
 import { presentUser } from "~/lib/auth/users.server";
 import { projectPatchSchema, updateProjectSettings } from "~/models/project-setup.server";
 import { presentProject, type ProjectView } from "~/lib/auth/project-view.server";
@@ -131,6 +135,71 @@ describe("periods between any two surveys", () => {
       expect(allowed.method).toContain("over-dredge allowance of 0.5 ftUS");
     } finally {
       await Project.update({ overDredgeAllowance: 0 }, { where: { id: project.id } });
+    }
+  });
+});
+
+describe("a period is computed in the engine pool", () => {
+  /** The pool's period jobs from now on: what each was given and what it gave back. */
+  function watchPeriodJobs() {
+    const pool = serverEnginePool();
+    expect(pool, "the tests run with the engine pool (ENGINE_THREADS ≥ 1)").not.toBeNull();
+    return vi.spyOn(pool!, "computePeriodFigures");
+  }
+
+  it("and its figures are exactly those computed on the request thread, every cell, zone and the project", async () => {
+    const jobs = watchPeriodJobs();
+    try {
+      const ids = whole.surveys.map((survey) => String(survey.id));
+      // Periods no earlier test read, so each is computed now.
+      const periods = [[1, 3], [0, 2], [2, 4], [0, 3]].map(([from, to]) => ({ from: ids[from], to: ids[to] }));
+      const read: PayPeriodView[] = [];
+      for (const query of periods) read.push((await loadPayPeriod(project, query))!);
+      expect(jobs).toHaveBeenCalledTimes(periods.length);
+      const state = (await getEngineState(project.id))!;
+      for (let index = 0; index < periods.length; index++) {
+        const input = jobs.mock.calls[index][0] as PeriodFiguresInput;
+        const inPool = (await jobs.mock.results[index].value) as PeriodFigures;
+        expect(read[index].figures).toBe(inPool);
+        // The rasters cross to the thread in shared memory, not copied on the request thread.
+        expect(input.rasters.muckTop.buffer).toBeInstanceOf(SharedArrayBuffer);
+        expect(input.grids.nodeCell.buffer).toBeInstanceOf(SharedArrayBuffer);
+        // invariant: the same pure computation on this thread gives the same figures bit for bit,
+        // also from every later survey's bottom rather than only those up to the period's end.
+        const onThread = computePeriodFigures(input);
+        const fromWholeState = computePeriodFigures({ ...input, rasters: { ...input.rasters, progress: state.periods.progress } });
+        expect(inPool.total, `period ${periods[index].from} → ${periods[index].to}`).toEqual(onThread.total);
+        expect(inPool.zones).toEqual(onThread.zones);
+        expect(isDeepStrictEqual(inPool, onThread), "every cell's figures").toBe(true);
+        expect(isDeepStrictEqual(inPool, fromWholeState), "every cell's figures from the whole state").toBe(true);
+        expect(periodCellRows(inPool)).toHaveLength(inPool.total.cells);
+      }
+    } finally {
+      jobs.mockRestore();
+    }
+  });
+
+  it("and the first read right after a recompute answers with the recomputed state's figures, computed once for readers at once", async () => {
+    const ids = whole.surveys.map((survey) => String(survey.id));
+    const before = (await loadPayPeriod(project, { from: ids[1], to: ids[4] }))!;
+    // The recompute stamp is the time the cells were computed: let it move on from the import's.
+    await new Promise((resolve) => setTimeout(resolve, 1100));
+    await getSequelize().transaction((transaction) => recomputeProjectStatistics(project.id, transaction));
+    const jobs = watchPeriodJobs();
+    try {
+      // Two readers at once, as the page and an export would.
+      const [first, second] = await Promise.all([loadPayPeriod(project), loadPayPeriod(project, { from: ids[1], to: ids[4] })]);
+      const again = await loadPayPeriod(project);
+      expect(jobs).toHaveBeenCalledTimes(2);
+      expect(again!.figures).toBe(first!.figures); // kept after the first read
+      // invariant: the default period is today's figures, as the recompute stored them
+      const latest = await SurveySnapshot.findOne({ where: { projectId: project.id }, order: [["surveyedOn", "DESC"]] });
+      for (const key of ["removedVolume", "depositedVolume", "remainingVolume"] as const) expect(first!.figures.total[key], key).toBeCloseTo(latest!.totals[key], 9);
+      // invariant: the same surveys and settings recomputed give the same periods as before it, bit for bit
+      expect(isDeepStrictEqual(first!.figures, whole.figures), "the whole period").toBe(true);
+      expect(isDeepStrictEqual(second!.figures, before.figures), "a period between two later surveys").toBe(true);
+    } finally {
+      jobs.mockRestore();
     }
   });
 });

@@ -20,28 +20,25 @@ export function SolidsCharts({ charts }: { charts: SolidsChartsData }) {
   ].filter((line) => line.values.some((value) => value !== null));
   return (
     <div className="grid gap-5 lg:grid-cols-2">
-      <figure className="min-w-0 space-y-1">
-        <figcaption className="text-sm font-medium">Dry solids pumped per day ({bulk})</figcaption>
-        <DailyBarsChart
-          testId="dry-solids-chart" title={`Dry solids pumped per day, from the shift logs (${bulk})`} unit={bulk} digits={1}
-          emptyText="No shifts logged yet."
-          bars={days.map((day) => ({
-            date: day.date, value: day.drySolids,
-            label: day.drySolids === null ? `${day.date}: ${shifts(day.shifts)}, no solids content logged` : `${day.date}: ${formatNumber(day.drySolids, 1)} ${bulk} from ${shifts(day.shifts)}`,
-          }))}
-        />
-      </figure>
-      <figure className="min-w-0 space-y-1">
-        <figcaption className="text-sm font-medium">Polymer per dry ton ({perTon})</figcaption>
-        <DailyBarsChart
-          testId="polymer-per-ton-chart" title={`Neat polymer per dry ton by day, from the shifts that logged both (${perTon})`} unit={perTon} digits={2}
-          emptyText="No shifts logged yet."
-          bars={days.map((day) => ({
-            date: day.date, value: day.polymerPerDryTon,
-            label: day.polymerPerDryTon === null ? `${day.date}: no shift logged both a polymer and its solids` : `${day.date}: ${formatNumber(day.polymerPerDryTon, 2)} ${perTon}`,
-          }))}
-        />
-      </figure>
+      <DailyBarsChart
+        testId="dry-solids-chart" kind="total" unit={bulk} digits={1} emptyText="No shifts logged yet."
+        caption={(per) => `Dry solids pumped per ${per} (${bulk})`}
+        title={(per) => `Dry solids pumped per ${per}, from the shift logs (${bulk})`}
+        bars={days.map((day) => ({
+          date: day.date, value: day.drySolids,
+          label: day.drySolids === null ? `${day.date}: ${shifts(day.shifts)}, no solids content logged` : `${day.date}: ${formatNumber(day.drySolids, 1)} ${bulk} from ${shifts(day.shifts)}`,
+        }))}
+      />
+      <DailyBarsChart
+        testId="polymer-per-ton-chart" kind="ratio" unit={perTon} digits={2} emptyText="No shifts logged yet."
+        caption={(per) => `Polymer per dry ton${per === "day" ? "" : `, by ${per}`} (${perTon})`}
+        title={(per) => `Neat polymer per dry ton by ${per}, from the shifts that logged both (${perTon})`}
+        bars={days.map((day) => ({
+          date: day.date, value: day.polymerPerDryTon,
+          ratio: day.polymerParts && { numerator: day.polymerParts.polymer, denominator: day.polymerParts.drySolids },
+          label: day.polymerPerDryTon === null ? `${day.date}: no shift logged both a polymer and its solids` : `${day.date}: ${formatNumber(day.polymerPerDryTon, 2)} ${perTon}`,
+        }))}
+      />
       <figure className="min-w-0 space-y-1 lg:col-span-2">
         <figcaption className="text-sm font-medium">Cumulative dry solids: surveyed, pumped and hauled ({bulk})</figcaption>
         <DatedLinesChart

@@ -23,6 +23,7 @@ import type { Tin } from "../../../shared/surface/triangulate";
 import type { SurveyKind } from "../../../shared/surveys-in-force";
 import type { ComputationSurvey } from "./engine-surveys";
 import type { Bands, BandsInput } from "./project-bands";
+import type { PeriodFigures, PeriodFiguresInput } from "./period-figures";
 import type { SurveyWork, SurveyWorkDone, SurveyWorkSettings } from "./survey-work";
 import { gatherSurveyWork, planProjectWork, type ProjectState, type ProjectStateInput, type SampledProjectInput } from "./project-state";
 
@@ -72,11 +73,18 @@ export interface BandsJob {
   input: BandsInput;
 }
 
-export type EngineJob = TinJob | SurveyWorkJob | StateJob | BandsJob;
-type NewJob = Omit<TinJob, "id"> | Omit<SurveyWorkJob, "id"> | Omit<StateJob, "id"> | Omit<BandsJob, "id">;
+/** A pay period's figures from the state's rasters (period-figures.ts): one pass over every raster node. */
+export interface PeriodJob {
+  kind: "period";
+  id: number;
+  input: PeriodFiguresInput;
+}
+
+export type EngineJob = TinJob | SurveyWorkJob | StateJob | BandsJob | PeriodJob;
+type NewJob = Omit<TinJob, "id"> | Omit<SurveyWorkJob, "id"> | Omit<StateJob, "id"> | Omit<BandsJob, "id"> | Omit<PeriodJob, "id">;
 
 export type EngineReply =
-  | { id: number; done: { tins: Tin[] } | { survey: SurveyWorkDone } | { state: ProjectState } | { bands: Bands } }
+  | { id: number; done: { tins: Tin[] } | { survey: SurveyWorkDone } | { state: ProjectState } | { bands: Bands } | { period: PeriodFigures } }
   | { id: number; progress: { stage: string; fraction: number } }
   | { id: number; error: string };
 
@@ -296,6 +304,15 @@ export class EngineWorkerPool {
   /** Contour bands (`computeProjectBands`) in a thread; the raster is copied, the bands come back. */
   async computeProjectBands(input: BandsInput): Promise<Bands> {
     return (await this.submit<{ bands: Bands }>({ kind: "bands", input }, [])).bands;
+  }
+
+  /**
+   * A pay period's figures (`computePeriodFigures`) in a thread. The rasters stay in the request
+   * thread's engine state, so they are copied to the thread (a memory copy, far shorter than the
+   * pass); the figures come back.
+   */
+  async computePeriodFigures(input: PeriodFiguresInput): Promise<PeriodFigures> {
+    return (await this.submit<{ period: PeriodFigures }>({ kind: "period", input }, [])).period;
   }
 
   private tinJobs(surveys: EngineSurveys): Array<Omit<TinJob, "id" | "maxEdge">> {

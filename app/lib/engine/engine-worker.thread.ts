@@ -4,17 +4,20 @@ import { parentPort } from "node:worker_threads";
 import { prepareVertices, triangulateVertices } from "../../../shared/surface/triangulate";
 import { doSurveyWork } from "./survey-work";
 import type { EngineJob, EngineReply, SurveyWorkJob, TinJob } from "./engine-worker.server";
+import type { ProjectState } from "./project-state";
 // The state job loads its modules (the figures, the end-area check) on first use: a thread that
 // only triangulates and samples stays lean (measured: 2 bay threads 481 → 460 MB).
 const projectState = () => import("./project-state");
 const projectBands = () => import("./project-bands");
+const periodFigures = () => import("./period-figures");
 
 /**
- * Worker-thread side of the engine pool. Four kinds of job: one survey's work (triangulated and
+ * Worker-thread side of the engine pool. Five kinds of job: one survey's work (triangulated and
  * sampled onto the project's raster, and/or counted per cell: survey-work.ts), one survey's TINs
  * (the command line without a work limit), a project's state from its sampled surveys
- * (project-state.ts), and the contour bands of one of its surfaces (project-bands.ts). Result
- * buffers are transferred, not copied.
+ * (project-state.ts), the contour bands of one of its surfaces (project-bands.ts), and a pay
+ * period's figures from the state's rasters (period-figures.ts). Result buffers are transferred,
+ * not copied.
  *
  * This file is the entry of its own bundle in the production build (vite.config.ts): it imports
  * only pure modules, and only types from the pool.
@@ -34,6 +37,27 @@ function buffersOf(value: unknown, found = new Set<ArrayBuffer>(), seen = new Se
     for (const child of Array.isArray(value) ? value : Object.values(value)) buffersOf(child, found, seen);
   }
   return [...found];
+}
+
+/** A copy of `array` on a SharedArrayBuffer: the request thread hands it to a later job without copying it again. */
+function shared<T extends Float32Array | Float64Array | Int32Array>(array: T): T {
+  const copy = new (array.constructor as new (buffer: SharedArrayBuffer) => T)(new SharedArrayBuffer(array.byteLength));
+  copy.set(array);
+  return copy;
+}
+
+/**
+ * The rasters a pay period reads (period-figures.ts: the baseline's bottom, firm sand, the later
+ * surveys' bottoms and each node's cell) moved to shared memory before the state goes back: the
+ * state stays in the request thread, and each period job then passes them to a thread for nothing
+ * rather than copying tens of megabytes on the request thread. Everything else is transferred.
+ */
+function shareWhatPeriodsRead(state: ProjectState) {
+  const { result } = state.surfaces;
+  result.rasters.muckTop = { ...result.rasters.muckTop, values: shared(result.rasters.muckTop.values) };
+  result.rasters.firm = { ...result.rasters.firm, values: shared(result.rasters.firm.values) };
+  result.nodeCell = shared(result.nodeCell);
+  state.periods.progress = state.periods.progress.map(shared);
 }
 
 function reply(message: EngineReply, transfer: ArrayBuffer[] = []) {
@@ -73,12 +97,19 @@ parentPort?.on("message", async (message: EngineJob | { collectGarbage: true }) 
     if (message.kind === "state") {
       const { computeStateFromRasters } = await projectState();
       const done = { state: computeStateFromRasters(message.input, (stage, fraction) => reply({ id, progress: { stage, fraction } })) };
+      shareWhatPeriodsRead(done.state);
       reply({ id, done }, buffersOf(done));
       return;
     }
     if (message.kind === "bands") {
       const { computeProjectBands } = await projectBands();
       reply({ id, done: { bands: computeProjectBands(message.input) } });
+      return;
+    }
+    if (message.kind === "period") {
+      const { computePeriodFigures } = await periodFigures();
+      const done = { period: computePeriodFigures(message.input) };
+      reply({ id, done }, buffersOf(done));
       return;
     }
     const large = (message.kind === "survey" ? message.work.easting : message.easting).length >= largeJobSoundings;
