@@ -52,6 +52,8 @@ export const GRID = {
   toleranceFt: 0.25,
   firmShare: 0.95,
   minCoverage: 0.8,
+  /** IHO S-44 order the demo's surveys are judged against: 1a, for a survey of a shallow spring run where features matter. */
+  surveyOrder: "1a",
 } as const;
 
 /** Work limit: GeoJSON Polygon (lon/lat, exterior ring counter-clockwise per RFC 7946). */
