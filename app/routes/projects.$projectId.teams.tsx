@@ -181,7 +181,7 @@ function Equipment({ entries, what }: { entries: TeamEquipment[]; what: string }
   return (
     <ul className="text-sm">
       {entries.map((entry) => (
-        <li key={entry.name}>{entry.name} <span className={entry.diameter === null ? "text-muted" : "figures"}>{entry.diameter === null ? "— diameter not given" : `— ${formatDiameter(entry.diameter, entry.diameterUnit)}`}</span></li>
+        <li key={entry.name}>{entry.name} {entry.diameter === null ? <span className="text-muted">— diameter not given</span> : <>— <span className="figures">{formatDiameter(entry.diameter, entry.diameterUnit)}</span></>}</li>
       ))}
     </ul>
   );
