@@ -72,7 +72,7 @@ function guideFor(key: SetupStepKey, projectId: number): StepGuide {
       };
     case "teams":
       return {
-        what: "The dive teams that will be assigned cells: their members, hoses and station.",
+        what: "The dive teams that will be assigned cells: their members, hoses and pumps with their diameters, and station.",
         links: [{ label: "Open Dive teams", to: `${base}/teams` }],
         caution: "Team sizes and roles follow the dive safety plan and the applicable commercial diving standard.",
       };
