@@ -52,6 +52,8 @@ export const GRID = {
   toleranceFt: 0.25,
   firmShare: 0.95,
   minCoverage: 0.8,
+  /** IHO S-44 order the demo's surveys are judged against: 1a, for a survey of a shallow spring run where features matter. */
+  surveyOrder: "1a",
 } as const;
 
 /** Work limit: GeoJSON Polygon (lon/lat, exterior ring counter-clockwise per RFC 7946). */
@@ -266,6 +268,8 @@ export interface DemoDiveTeam {
   /** Where the team works from. */
   station: string;
   hoses: { name: string; diameterIn: number; lengthFt: number }[];
+  /** The suction pumps the team runs, sized by their suction opening. */
+  pumps: { name: string; diameterIn: number }[];
   /** Zone the team starts in. */
   homeZone: ZoneName;
 }
@@ -278,12 +282,14 @@ export const DIVE_TEAMS: DemoDiveTeam[] = [
       { name: "Hose A", diameterIn: 6, lengthFt: 300 },
       { name: "Hose B", diameterIn: 6, lengthFt: 300 },
     ],
+    pumps: [{ name: "Pump P1", diameterIn: 8 }],
     homeZone: "Vent basin",
   },
   {
     name: "Team Gar",
     station: "Barge 2 (spring run)",
     hoses: [{ name: "Hose C", diameterIn: 6, lengthFt: 400 }],
+    pumps: [{ name: "Pump P2", diameterIn: 6 }],
     homeZone: "Upper run",
   },
 ];

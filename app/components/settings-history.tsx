@@ -1,4 +1,5 @@
 import { unitLabel, type LengthUnit } from "../../shared/units";
+import { SURVEY_ORDER_NAMES } from "../../shared/qa/tvu";
 import type { SettingsVersionView } from "~/models/project-setup.server";
 
 const when = (iso: string) => new Date(iso).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" });
@@ -16,7 +17,7 @@ export function SettingsHistory({ versions, lengthUnit }: { versions: SettingsVe
     <>
       <p className="text-sm text-muted">A new version is kept each time the work limit, grid, zones or tolerances change. The figures, the quantities and the daily report say which version they were computed with.</p>
       <div className="mt-3 overflow-x-auto" role="region" aria-label="Settings versions" tabIndex={0}>
-        <table className="w-full min-w-[52rem] text-left text-sm" data-testid="settings-history">
+        <table className="w-full min-w-[60rem] text-left text-sm" data-testid="settings-history">
           <thead>
             <tr className="border-b border-line">
               <th scope="col" className="py-1 pr-3 font-medium">Version</th>
@@ -26,6 +27,7 @@ export function SettingsHistory({ versions, lengthUnit }: { versions: SettingsVe
               <th scope="col" className="py-1 pr-3 font-medium">Cell size ({unit})</th>
               <th scope="col" className="py-1 pr-3 font-medium">Firm-sand tolerance ({unit})</th>
               <th scope="col" className="py-1 pr-3 font-medium">Share within / coverage</th>
+              <th scope="col" className="py-1 pr-3 font-medium">Survey order</th>
               <th scope="col" className="py-1 font-medium">Zones</th>
             </tr>
           </thead>
@@ -39,6 +41,8 @@ export function SettingsHistory({ versions, lengthUnit }: { versions: SettingsVe
                 <td className="figures py-1 pr-3 text-right">{figure(version.grid.cellSize)}</td>
                 <td className="figures py-1 pr-3 text-right">{figure(version.tolerances.firmSand)}</td>
                 <td className="figures py-1 pr-3 whitespace-nowrap">{figure(version.tolerances.firmShare)} / {figure(version.tolerances.minCoverage)}</td>
+                {/* Versions kept before the project had its own order say nothing of it. */}
+                <td className="py-1 pr-3 whitespace-nowrap">{version.tolerances.surveyOrder ? SURVEY_ORDER_NAMES[version.tolerances.surveyOrder] : "not kept"}</td>
                 <td className="py-1">{version.zones.length === 0 ? "none" : version.zones.join(", ")}</td>
               </tr>
             ))}

@@ -5,6 +5,7 @@ import { exceedsNoDecompressionLimit, noDecompressionLimit, NO_DECOMPRESSION_CAU
 import { CELL_STATUSES } from "../../shared/cell-status";
 import { convertLength } from "../../shared/units";
 import { isEmergencyInfoEmpty, missingEmergencyItems, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
+import { describeNamed, equipmentLine } from "../../shared/dive-plan/equipment";
 import { localDayOf } from "../../shared/local-time";
 import { Assignment, DiveTeam, getSequelize, MonitoringStation, Project, StopWorkEvent, WildlifeStandDown, type DiveTeamMember } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError } from "~/lib/errors";
@@ -159,8 +160,9 @@ export async function createAssignments(project: ProjectView, user: UserView, in
   if (!team) throw new NotFoundError({ field: "team", message: `There is no dive team "${input.team}" on this project.` });
   if (team.retiredAt) throw new ConflictError({ field: "team", message: `${team.name} is retired and takes no new cells; bring it back on the teams page first, or choose a team in service.` }, { code: "team-retired" });
   const teamView = presentTeam(team, project);
-  if (teamView.hoses.length > 0 && !teamView.hoses.includes(input.hose)) {
-    throw new ValidationError({ field: "hose", message: `${team.name} has no hose or station "${input.hose}" (it has ${teamView.hoses.join(", ")}).` }, { code: "unknown-hose" });
+  const hoseNames = teamView.hoses.map((hose) => hose.name);
+  if (hoseNames.length > 0 && !hoseNames.includes(input.hose)) {
+    throw new ValidationError({ field: "hose", message: `${team.name} has no hose or station "${input.hose}" (it has ${hoseNames.join(", ")}).` }, { code: "unknown-hose" });
   }
   const payload = await getCellsPayload(project);
   const lookup = cellLookup(payload);
@@ -352,11 +354,12 @@ export function planSheetText(project: ProjectView, plan: DayPlanView, teamIndex
     "",
     `CAUTION: ${plan.caution}`,
     ...emergencyLines(emergency),
+    equipmentLine(team.hoses, team.pumps),
     team.belowMinimum ? `FLAG: ${team.name} lists ${team.members.length} people; the project's minimum team size is ${plan.minTeamSize}.` : "",
     "",
     `Cell | zone | hose | working depth (${plan.lengthLabel}) | no-decompression figure | remaining thickness (${plan.lengthLabel}) | remaining (${plan.volumeLabel}) | notes`,
     ...cells.map((cell) =>
-      [cell.label, cell.zone ?? "-", cell.hose, cell.workingDepth ?? "-", formatNoDecompression(cell.noDecompression), cell.remainingThickness ?? "-", cell.remainingVolume ?? "-", cell.notes || "-"].join(" | "),
+      [cell.label, cell.zone ?? "-", describeNamed(team.hoses, cell.hose), cell.workingDepth ?? "-", formatNoDecompression(cell.noDecompression), cell.remainingThickness ?? "-", cell.remainingVolume ?? "-", cell.notes || "-"].join(" | "),
     ),
     "",
     `No-decompression figures: ${plan.source}.`,

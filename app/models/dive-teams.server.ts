@@ -5,9 +5,11 @@ import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
 import { Assignment, Dive, DiveTeam, Find, getSequelize, Membership, User, type DiveTeamMember } from "~/lib/db.server";
 import { ConflictError, NotFoundError, ValidationError, type ErrorDetail } from "~/lib/errors";
+import { DIAMETER_UNITS, describeEquipment, diameterProblem, diameterUnitFor, equipmentIn, type DiameterUnit, type TeamEquipment } from "../../shared/dive-plan/equipment";
 
 /**
- * A project's dive teams: name, crew (project members or named crew), hoses and station. The one
+ * A project's dive teams: name, crew (project members or named crew), hoses and pumps (each with its
+ * diameter, in inches or millimetres as the project's length unit goes) and station. The one
  * service the teams API, the teams page and the demo seeder go through. A team with dives,
  * assignments or finds on record is never deleted: it is retired, so every log still names it,
  * and it can be brought back. Every change is audited with the team before and after.
@@ -26,12 +28,32 @@ const crewEntry = z.union([
   }),
 ]);
 
-const hoseName = z.string({ error: "A hose is named by text" }).trim().min(1, "A hose or pump needs a name").max(120, "A hose name has at most 120 characters");
+/**
+ * A hose or pump as sent: `{name, diameter?, diameterUnit?}`, or its name alone (the teams API's
+ * first form, still taken). A diameter left out keeps the one the team has for that name (none for
+ * a new one); null clears it. The unit, when given, must be the project's (checked by the service,
+ * which also checks the plausible range), so a team read from the API can be sent back as it is.
+ */
+function equipmentEntry(what: "hose" | "pump") {
+  return z.preprocess(
+    (value) => (typeof value === "string" ? { name: value } : value),
+    z.object(
+      {
+        name: z.string({ error: `A ${what} needs a name` }).trim().min(1, `A ${what} needs a name`).max(120, `A ${what} name has at most 120 characters`),
+        diameter: z.number({ error: "A diameter is a number (inches or millimetres, as the project's length unit goes)" }).finite("A diameter is a number").positive("A diameter must be more than 0").nullable().optional(),
+        diameterUnit: z.enum(DIAMETER_UNITS, { error: `A diameter's unit is ${DIAMETER_UNITS.join(" or ")}` }).optional(),
+      },
+      { error: `A ${what} is its name, or {name, diameter}` },
+    ),
+  );
+}
+export type EquipmentInput = z.infer<ReturnType<typeof equipmentEntry>>;
 
 export const teamInputSchema = z.object({
   name: teamName,
   members: z.array(crewEntry).max(30, "A team lists at most 30 people").optional(),
-  hoses: z.array(hoseName).max(20, "A team runs at most 20 hoses or pumps").optional(),
+  hoses: z.array(equipmentEntry("hose")).max(20, "A team runs at most 20 hoses").optional(),
+  pumps: z.array(equipmentEntry("pump")).max(10, "A team runs at most 10 pumps").optional(),
   station: z.string({ error: "The station is text" }).trim().max(200, "A station has at most 200 characters").optional(),
 });
 export type TeamInput = z.infer<typeof teamInputSchema>;
@@ -42,14 +64,16 @@ export const teamPatchSchema = teamInputSchema
     /** true retires the team (as DELETE does for a team with records); false brings it back. */
     retired: z.boolean({ error: "retired is true or false" }).optional(),
   })
-  .refine((patch) => Object.values(patch).some((value) => value !== undefined), "Send at least one of name, members, hoses, station, retired");
+  .refine((patch) => Object.values(patch).some((value) => value !== undefined), "Send at least one of name, members, hoses, pumps, station, retired");
 export type TeamPatch = z.infer<typeof teamPatchSchema>;
 
 export interface DiveTeamView {
   id: number;
   name: string;
   station: string;
-  hoses: string[];
+  /** Each with its diameter in the project's unit family (`diameterUnit`: in or mm); null when not given. */
+  hoses: TeamEquipment[];
+  pumps: TeamEquipment[];
   members: DiveTeamMember[];
   /** Fewer people than the project's minimum team size: the plan flags it. */
   belowMinimum: boolean;
@@ -57,13 +81,15 @@ export interface DiveTeamView {
   retiredAt: string | null;
 }
 
-export function presentTeam(team: DiveTeam, project: Pick<ProjectView, "minTeamSize">): DiveTeamView {
+export function presentTeam(team: DiveTeam, project: Pick<ProjectView, "minTeamSize" | "lengthUnit">): DiveTeamView {
   const { members } = team;
+  const unit = diameterUnitFor(project.lengthUnit);
   return {
     id: team.id,
     name: team.name,
     station: team.station,
-    hoses: team.hoses,
+    hoses: team.hoses.map((entry) => equipmentIn(entry, unit)),
+    pumps: team.pumps.map((entry) => equipmentIn(entry, unit)),
     members,
     belowMinimum: members.length < project.minTeamSize,
     retiredAt: team.retiredAt ? team.retiredAt.toISOString() : null,
@@ -132,17 +158,39 @@ async function resolveCrew(project: ProjectView, entries: NonNullable<TeamInput[
   return crew;
 }
 
-function checkHoses(hoses: string[], problems: ErrorDetail[]): string[] {
+/**
+ * The hoses or pumps as stored: names unique (either case), diameters in the project's unit family
+ * and within the plausible range (shared/dive-plan/equipment.ts). An entry without a diameter keeps
+ * the one `kept` has under its name. Problems name `hoses.<n>` or `pumps.<n>` and the field.
+ */
+function checkEquipment(field: "hoses" | "pumps", entries: EquipmentInput[], unit: DiameterUnit, kept: TeamEquipment[], problems: ErrorDetail[]): TeamEquipment[] {
+  const what = field === "hoses" ? "hose" : "pump";
   const seen = new Set<string>();
-  return hoses.filter((hose, index) => {
-    const key = hose.toLowerCase();
+  const checked: TeamEquipment[] = [];
+  entries.forEach((entry, index) => {
+    const key = entry.name.toLowerCase();
     if (seen.has(key)) {
-      problems.push({ field: `hoses.${index}`, value: hose, message: `The hose "${hose}" is listed twice.` });
-      return false;
+      problems.push({ field: `${field}.${index}`, value: entry.name, message: `The ${what} "${entry.name}" is listed twice.` });
+      return;
     }
     seen.add(key);
-    return true;
+    if (entry.diameterUnit !== undefined && entry.diameterUnit !== unit) {
+      problems.push({ field: `${field}.${index}.diameterUnit`, value: entry.diameterUnit, message: `The ${what} "${entry.name}": this project gives diameters in ${unit === "in" ? "inches (in)" : "millimetres (mm)"}, as its length unit goes.` });
+      return;
+    }
+    if (entry.diameter === undefined) {
+      const known = kept.find((candidate) => candidate.name.toLowerCase() === key);
+      checked.push(known ? { ...equipmentIn(known, unit), name: entry.name } : { name: entry.name, diameter: null, diameterUnit: unit });
+      return;
+    }
+    const problem = entry.diameter === null ? null : diameterProblem(entry.diameter, unit);
+    if (problem) {
+      problems.push({ field: `${field}.${index}.diameter`, value: String(entry.diameter), message: `The ${what} "${entry.name}": its diameter ${problem}` });
+      return;
+    }
+    checked.push({ name: entry.name, diameter: entry.diameter, diameterUnit: unit });
   });
+  return checked;
 }
 
 /** A ConflictError naming `name` when another team of the project (in service or retired) has it. */
@@ -169,18 +217,23 @@ async function recordsOf(teamId: number, transaction: Transaction) {
   return { dives, assignments, finds };
 }
 
-const audited = (team: DiveTeamView) => ({ name: team.name, station: team.station, hoses: team.hoses, members: team.members.map((member) => member.name), retired: team.retiredAt !== null });
+const audited = (team: DiveTeamView) => ({
+  name: team.name, station: team.station, hoses: team.hoses.map(describeEquipment), pumps: team.pumps.map(describeEquipment),
+  members: team.members.map((member) => member.name), retired: team.retiredAt !== null,
+});
 
 /** Adds a team; ValidationError naming each bad field, ConflictError for a name taken. */
 export async function createDiveTeam(project: ProjectView, actor: UserView, input: TeamInput, options: { ip?: string | null; transaction?: Transaction } = {}): Promise<DiveTeamView> {
   const create = async (transaction: Transaction) => {
     const problems: ErrorDetail[] = [];
     const members = await resolveCrew(project, input.members ?? [], problems, transaction);
-    const hoses = checkHoses(input.hoses ?? [], problems);
+    const unit = diameterUnitFor(project.lengthUnit);
+    const hoses = checkEquipment("hoses", input.hoses ?? [], unit, [], problems);
+    const pumps = checkEquipment("pumps", input.pumps ?? [], unit, [], problems);
     if (problems.length > 0) throw new ValidationError(problems);
     await assertNameFree(project, input.name, null, transaction);
     const last = (await DiveTeam.max("sortOrder", { where: { projectId: project.id }, transaction })) as number | null;
-    const team = await DiveTeam.create({ projectId: project.id, name: input.name, station: input.station ?? "", hoses, members, sortOrder: (last ?? 0) + 1 }, { transaction });
+    const team = await DiveTeam.create({ projectId: project.id, name: input.name, station: input.station ?? "", hoses, pumps, members, sortOrder: (last ?? 0) + 1 }, { transaction });
     const view = presentTeam(team, project);
     await recordAudit({ action: AUDIT_ACTIONS.teamCreated, projectId: project.id, userId: actor.id, ip: options.ip ?? null, detail: { after: audited(view) } }, transaction);
     return view;
@@ -195,13 +248,16 @@ export function updateDiveTeam(project: ProjectView, actor: UserView, teamId: nu
     const before = presentTeam(team, project);
     const problems: ErrorDetail[] = [];
     const members = patch.members ? await resolveCrew(project, patch.members, problems, transaction) : null;
-    const hoses = patch.hoses ? checkHoses(patch.hoses, problems) : null;
+    const unit = diameterUnitFor(project.lengthUnit);
+    const hoses = patch.hoses ? checkEquipment("hoses", patch.hoses, unit, team.hoses, problems) : null;
+    const pumps = patch.pumps ? checkEquipment("pumps", patch.pumps, unit, team.pumps, problems) : null;
     if (problems.length > 0) throw new ValidationError(problems);
     if (patch.name !== undefined && normalisedName(patch.name) !== normalisedName(team.name)) await assertNameFree(project, patch.name, team.id, transaction);
     if (patch.name !== undefined) team.name = patch.name;
     if (patch.station !== undefined) team.station = patch.station;
     if (members) team.members = members;
     if (hoses) team.hoses = hoses;
+    if (pumps) team.pumps = pumps;
     if (patch.retired !== undefined) team.retiredAt = patch.retired ? (team.retiredAt ?? new Date()) : null;
     await team.save({ transaction });
     const after = presentTeam(team, project);

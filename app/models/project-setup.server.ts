@@ -7,6 +7,7 @@ import { describeArea, firstVertexOutside } from "../../shared/grid/area-of-use"
 import type { LonLatBounds } from "../../shared/soundings/row-checks";
 import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
 import { defaultsFor, unitLabel } from "../../shared/units";
+import { SURVEY_ORDERS, type SurveyOrder } from "../../shared/qa/tvu";
 import { zoneOutsideLimit, zoneOverlapArea } from "../../shared/grid/zone-fit";
 import { ZONE_COLOURS, defaultZoneColour, isZoneColour, zoneColourName } from "../../shared/zone-colours";
 import { emergencyInfoSchema, isEmergencyInfoEmpty, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
@@ -49,6 +50,8 @@ const tolerancesSchema = z.object({
   firmShare: share("The firm share").optional(),
   minCoverage: share("The minimum coverage").optional(),
   overDredgeAllowance: z.number({ error: "The over-dredge allowance must be a number" }).finite().min(0, "The over-dredge allowance cannot be negative").optional(),
+  /** The IHO S-44 order new imports are judged against by default; not a figures setting (each survey keeps its own). */
+  surveyOrder: z.enum(SURVEY_ORDERS, { error: `The survey order is one of the IHO S-44 orders: ${SURVEY_ORDERS.join(", ")}` }).optional(),
 });
 /** A zone; `id` (a zone of this project) keeps the zone, and what refers to it, through a rename or a new outline. */
 const zoneSchema = z.object({
@@ -138,8 +141,11 @@ export interface ProjectSettings {
   /** Plan area of the work limit, square project units. */
   workLimitArea: number | null;
   grid: { cellSize: number; rotationDegrees: number; originX: number; originY: number; rasterResolution: number; maxEdge: number };
-  /** `overDredgeAllowance`: how far below firm sand removal is still paid (project length unit). */
-  tolerances: { firmSand: number; firmShare: number; minCoverage: number; overDredgeAllowance: number };
+  /**
+   * `overDredgeAllowance`: how far below firm sand removal is still paid (project length unit).
+   * `surveyOrder`: the IHO S-44 order the import form offers for a new survey (each survey keeps the order it was imported with).
+   */
+  tolerances: { firmSand: number; firmShare: number; minCoverage: number; overDredgeAllowance: number; surveyOrder: SurveyOrder };
   /** `colour`: one of the palette's (shared/zone-colours.ts). */
   zones: Array<{ id: number; name: string; sortOrder: number; colour: string; geometry: unknown }>;
   /** Cells of the grid over the work limit's extent. */
@@ -449,6 +455,8 @@ export async function createProject(actor: UserView, input: NewProjectInput, opt
         firmShare: input.tolerances?.firmShare ?? 0.95,
         minCoverage: input.tolerances?.minCoverage ?? 0.8,
         overDredgeAllowance: input.tolerances?.overDredgeAllowance ?? 0,
+        // What the import form offered before the project had its own (IHO S-44 order 1a).
+        surveyOrder: input.tolerances?.surveyOrder ?? "1a",
         workLimitGeoJson: JSON.stringify(limit.lonLat),
         // A diver, a tender and a standby diver (practice; the dive plan refuses smaller teams).
         minTeamSize: input.minTeamSize ?? 3,
@@ -493,7 +501,7 @@ async function settingsOf(project: Project, transaction?: Transaction): Promise<
     workLimit: project.workLimitGeoJson ? JSON.parse(project.workLimitGeoJson) : null,
     workLimitArea: limit?.area ?? null,
     grid: { cellSize: grid.cellSize, rotationDegrees: grid.rotationDegrees, originX: grid.originX, originY: grid.originY, rasterResolution: grid.rasterResolution, maxEdge: grid.maxEdge },
-    tolerances: { firmSand: grid.tolerance, firmShare: grid.firmShare, minCoverage: grid.minCoverage, overDredgeAllowance: grid.overDredgeAllowance },
+    tolerances: { firmSand: grid.tolerance, firmShare: grid.firmShare, minCoverage: grid.minCoverage, overDredgeAllowance: grid.overDredgeAllowance, surveyOrder: project.surveyOrder },
     zones: zones.map((zone) => ({ id: zone.id, name: zone.name, sortOrder: zone.sortOrder, colour: zone.colour, geometry: JSON.parse(zone.polygonGeoJson) })),
     cellCount: limit ? cellCount(createCellGrid(limit.projected, grid)) : null,
     surveyCount: await Survey.count({ where: { projectId: project.id }, transaction }),
@@ -548,7 +556,8 @@ export async function prospectiveCellCount(project: ProjectView, grid: NonNullab
  * Applies `patch` to the project's settings. A change to the work limit, zones, grid or tolerances
  * is kept as a new settings version (who, when, the values); on a project with surveys it also
  * queues a recompute of every survey's figures, which runs in the background once this transaction
- * commits (`recompute`: its job's id; the stored figures are the earlier ones until it is done).
+ * commits (`recompute`: its job's id; the stored figures are the earlier ones until it is done);
+ * the over-dredge allowance and the survey order are kept in the version but recompute nothing.
  * The CRS and length unit may change only before the first survey. The audit log gets the settings
  * before and after. `overlaps` names the zones that share area, when zones were given (allowed: a
  * shared cell counts in the earlier zone).
@@ -605,6 +614,9 @@ export function updateProjectSettings(
       if (patch.tolerances?.minCoverage !== undefined) row.minCoverage = patch.tolerances.minCoverage;
       // Not a figures change: the stored figures do not split paid from over-dredge; pay periods read it when asked.
       if (patch.tolerances?.overDredgeAllowance !== undefined) row.overDredgeAllowance = patch.tolerances.overDredgeAllowance;
+      // Not a figures change either: a survey's QA and its share of a pay period's band use the order it
+      // was imported with, kept on the survey; this is the order the next imports are offered.
+      if (patch.tolerances?.surveyOrder !== undefined) row.surveyOrder = patch.tolerances.surveyOrder;
       if (limit) row.workLimitGeoJson = JSON.stringify(limit.lonLat);
       // Finds settings touch no figures; a new radius applies to holds placed from now on.
       if (patch.finds?.cataloguePrefix !== undefined) row.findCataloguePrefix = patch.finds.cataloguePrefix;
@@ -620,7 +632,7 @@ export function updateProjectSettings(
       const after = await settingsOf(row, transaction);
       const changed = changedParts(versionedOf(before), versionedOf(after));
       const version = changed.length > 0 ? await keepSettingsVersion(project.id, versionedOf(after), changed, actor.id, transaction) : null;
-      // Only the over-dredge allowance changed: pay periods read it when asked, no figure moves.
+      // Only the over-dredge allowance or the survey order changed: no stored figure rests on them.
       const recomputed = surveys > 0 && version !== null && (figuresChange || changed.includes("zones"));
       const job = recomputed ? await queueRecompute(project.id, actor.id, version.id, transaction) : null;
       await recordAudit(

@@ -41,7 +41,7 @@ const route = apiRoute<Route.LoaderArgs>({
     if (refused) throw new ValidationError({ field: "file", message: refused });
     try {
       if (!file) throw new ValidationError({ field: "file", message: "no file was sent in the `file` field" });
-      const { options, problems } = importOptionsFromFields(fields, { crs: project.crs, lengthUnit: project.lengthUnit, timeZone: DEFAULT_TIME_ZONE });
+      const { options, problems } = importOptionsFromFields(fields, { crs: project.crs, lengthUnit: project.lengthUnit, timeZone: DEFAULT_TIME_ZONE, surveyOrder: project.surveyOrder });
       const { choices, problems: choiceProblems } = commitChoicesFromFields({ outside: "keep", ...fields });
       if (!options || !choices) throw new ValidationError([...problems, ...choiceProblems]);
       const outcome = await importSurveyFile({ projectId: project.id, userId: user.id, ip: clientAddress(request), staged: file, options, choices });

@@ -33,6 +33,7 @@ import { currentStoppages, workStoppedMessage } from "~/models/stoppages.server"
 import { listTubes } from "~/models/dewatering.server";
 import { listZones } from "~/models/project.server";
 import { mapMonitoring } from "~/models/map-monitoring.server";
+import { describeEquipment } from "../../shared/dive-plan/equipment";
 import type { Route } from "./+types/projects.$projectId.map";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -70,7 +71,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     tubes: { count: drawnTubes.length, nearCapacity: drawnTubes.filter((tube) => tube.nearCapacity).length, nearCapacityShare: register.nearCapacityShare },
     // The view sent in the address (centre, zoom, layers, zone, cells): the page opens on it.
     initialView: parseMapView(new URL(request.url).searchParams),
-    teams: teams.map((team) => ({ id: team.id, name: team.name, hoses: team.hoses, size: team.members.length, belowMinimum: team.belowMinimum })),
+    teams: teams.map((team) => ({ id: team.id, name: team.name, hoses: team.hoses.map((hose) => ({ name: hose.name, label: describeEquipment(hose) })), size: team.members.length, belowMinimum: team.belowMinimum })),
   };
 }
 

@@ -10,6 +10,7 @@ import { emailDayPlan, getDayPlan, workDateSchema } from "~/models/assignments.s
 import { diveInputSchema, listDivesOn, recordDive, type DiveView } from "~/models/dives.server";
 import { getDaySheetExtras } from "~/models/day-plans.server";
 import { DaySheetMap, EmergencyBlock, SignOffLines, signingDivers } from "~/components/day-sheet";
+import { describeNamed, equipmentLine } from "../../shared/dive-plan/equipment";
 import type { Route } from "./+types/projects.$projectId.plans.$date";
 import { readPageForm } from "~/lib/http/body.server";
 
@@ -167,6 +168,7 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
           <section key={team.id} aria-label={team.name} className="space-y-1">
             <h3 className="font-semibold">{team.name}{team.station ? ` · ${team.station}` : ""}</h3>
             <p className="text-sm">{team.members.map((member) => (member.duty ? `${member.name} (${member.duty})` : member.name)).join(", ") || "No members listed."}</p>
+            <p className="text-sm" data-testid="plan-team-equipment">{equipmentLine(team.hoses, team.pumps)}</p>
             {team.belowMinimum ? (
               <p className="text-sm font-semibold text-danger" data-testid="plan-team-flag">
                 {team.name} lists {team.members.length} people, below the project's minimum team size of {plan.minTeamSize}.
@@ -187,7 +189,7 @@ export default function ProjectPlan({ loaderData, actionData }: Route.ComponentP
                     <tr key={cell.label} className="border-b border-line">
                       <td className="figures py-1 pr-2">{cell.label}</td>
                       <td className="pr-2">{cell.zone ?? "—"}</td>
-                      <td className="pr-2">{cell.hose}</td>
+                      <td className="pr-2">{describeNamed(team.hoses, cell.hose)}</td>
                       <td className="figures pr-2 text-right">{cell.workingDepth?.toFixed(1) ?? "—"}</td>
                       <td className="pr-2">{ndlText(cell)}</td>
                       <td className={`figures pr-2 text-right ${cell.noDecompression?.exceeds ? "font-semibold text-danger" : ""}`}>

@@ -48,7 +48,7 @@ export default function DayPlans({ loaderData }: Route.ComponentProps) {
           <p className="text-sm text-muted">
             Every day with cells assigned, newest first. Today is <span className="figures">{today}</span> in {timeZone}; dives are logged on a plan from its day on.
           </p>
-          <p className="text-sm"><Link to={`/projects/${projectId}/teams`} className="text-lagoon underline">Dive teams</Link>: crews, hoses and stations.</p>
+          <p className="text-sm"><Link to={`/projects/${projectId}/teams`} className="text-lagoon underline">Dive teams</Link>: crews, hoses, pumps and stations.</p>
         </div>
         <Form method="get" action={base} className="flex items-end gap-2 text-sm" aria-label="Open a day's plan">
           <label className="flex flex-col">Open the plan for

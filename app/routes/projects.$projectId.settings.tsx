@@ -10,6 +10,8 @@ import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
 import { WorkLimitOutline, type LonLatPolygons } from "~/components/work-limit-outline";
 import { LengthUnitOptions } from "~/components/length-unit-options";
+import { SurveyOrderOptions } from "~/components/survey-order-options";
+import { SURVEY_ORDER_SOURCE, SURVEY_ORDERS } from "../../shared/qa/tvu";
 import { requireRole } from "~/lib/auth/access.server";
 import { can } from "~/lib/auth/permissions";
 import { DomainError, validationErrorFrom } from "~/lib/errors";
@@ -61,7 +63,7 @@ const actionSchema = z.discriminatedUnion("intent", [
     maxEdge: optionalNumber,
     confirmLargeGrid: z.literal("yes").optional(),
   }),
-  z.object({ intent: z.literal("tolerances"), firmSand: number, firmShare: number, minCoverage: number, overDredgeAllowance: number }),
+  z.object({ intent: z.literal("tolerances"), firmSand: number, firmShare: number, minCoverage: number, overDredgeAllowance: number, surveyOrder: z.enum(SURVEY_ORDERS, { error: `Choose one of the IHO S-44 orders: ${SURVEY_ORDERS.join(", ")}` }) }),
   z.object({
     intent: z.literal("dive-work"),
     minTeamSize: z.coerce.number({ error: "Enter a whole number" }).int("Enter a whole number"),
@@ -140,7 +142,7 @@ export async function action({ request, params }: Route.ActionArgs) {
         break;
       }
       case "tolerances":
-        patch = { tolerances: { firmSand: input.firmSand, firmShare: input.firmShare, minCoverage: input.minCoverage, overDredgeAllowance: input.overDredgeAllowance } };
+        patch = { tolerances: { firmSand: input.firmSand, firmShare: input.firmShare, minCoverage: input.minCoverage, overDredgeAllowance: input.overDredgeAllowance, surveyOrder: input.surveyOrder } };
         break;
       case "dive-work":
         // Both times blank clears the working hours; one without the other is named by the service.
@@ -392,7 +394,22 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
             label={`Over-dredge allowance (${unit})`} name="overDredgeAllowance" type="number" step="any" min="0" defaultValue={settings.tolerances.overDredgeAllowance} required error={toleranceErrors.overDredgeAllowance}
             hint="Pay periods count removal down to firm sand plus this allowance, as the contract states it; below that is over-dredge. 0: down to firm sand."
           />
-          <p className="text-sm text-muted sm:col-span-3">{surveysNote.trim()}</p>
+          <div className="sm:col-span-2">
+            <label htmlFor="survey-order" className="block text-sm font-medium">Survey order (IHO S-44)</label>
+            <select
+              id="survey-order" name="surveyOrder" defaultValue={settings.tolerances.surveyOrder} className={inputClass}
+              aria-invalid={toleranceErrors.surveyOrder ? true : undefined} aria-describedby={`survey-order-hint${toleranceErrors.surveyOrder ? " survey-order-error" : ""}`}
+            >
+              <SurveyOrderOptions />
+            </select>
+            <p id="survey-order-hint" className="mt-1 text-sm text-muted">
+              The order the survey upload offers for each new survey: its QA (spikes, crossing lines) and its part of a pay period's ± band are judged against the allowed vertical uncertainty √(a² + (b·depth)²) ({SURVEY_ORDER_SOURCE}).
+              Surveys already imported keep the order they were imported with, so changing it recomputes nothing; the upload form can still name another order for one survey.
+              Take it from the survey specification of the contract.
+            </p>
+            {toleranceErrors.surveyOrder ? <p id="survey-order-error" className="mt-1 text-sm text-danger">{toleranceErrors.surveyOrder}</p> : null}
+          </div>
+          <p className="text-sm text-muted sm:col-span-3">{surveysNote.trim()}{settings.surveyCount > 0 ? " The over-dredge allowance and the survey order alone recompute nothing." : ""}</p>
           <div className="sm:col-span-3"><SubmitButton intent="tolerances" pendingLabel="Saving…">Save tolerances</SubmitButton></div>
         </Form>
       </Section>

@@ -62,7 +62,7 @@ function guideFor(key: SetupStepKey, projectId: number): StepGuide {
       };
     case "settings":
       return {
-        what: "Check the firm-sand tolerance and coverage against the contract, then set the working hours and the emergency information printed on every day sheet.",
+        what: "Check the firm-sand tolerance, coverage and survey order (IHO S-44) against the contract and its survey specification, then set the working hours and the emergency information printed on every day sheet.",
         links: [
           { label: "Open Targets and tolerances", to: settings("tolerances-heading") },
           { label: "Open Dive work", to: settings("dive-work-heading") },
@@ -72,7 +72,7 @@ function guideFor(key: SetupStepKey, projectId: number): StepGuide {
       };
     case "teams":
       return {
-        what: "The dive teams that will be assigned cells: their members, hoses and station.",
+        what: "The dive teams that will be assigned cells: their members, hoses and pumps with their diameters, and station.",
         links: [{ label: "Open Dive teams", to: `${base}/teams` }],
         caution: "Team sizes and roles follow the dive safety plan and the applicable commercial diving standard.",
       };

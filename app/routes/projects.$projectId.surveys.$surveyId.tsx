@@ -95,7 +95,7 @@ const number = (value: number | null, digits = 2) => (value === null || value ==
 export default function SurveyPage({ loaderData, actionData }: Route.ComponentProps) {
   const { survey, soundings, plot, canRetract, projectId } = loaderData;
   const result = actionData as { error?: string | null; done?: string } | undefined;
-  const qa = survey.qa as { cellsWithSoundings?: number; cellsInLimit?: number; medianPerCell?: number | null; sparseCells?: number; spikes?: { count: number }; crossings?: { comparisons: number; withinAllowanceShare: number | null }; order?: string; warnings?: string[] };
+  const qa = survey.qa as { cellsWithSoundings?: number; cellsInLimit?: number; medianPerCell?: number | null; sparseCells?: number; spikes?: { count: number }; crossings?: { comparisons: number; withinAllowanceShare: number | null }; order?: string; surveyOrder?: string; warnings?: string[] };
   const base = `/projects/${projectId}/surveys`;
   return (
     <section aria-labelledby="survey-heading" className="space-y-6">
@@ -130,6 +130,7 @@ export default function SurveyPage({ loaderData, actionData }: Route.ComponentPr
       <div className="rounded border border-line bg-panel p-4 text-sm">
         <h3 className="font-medium">QA summary</h3>
         <ul className="mt-1 list-disc pl-5">
+          {(qa.surveyOrder ?? qa.order) ? <li>Judged against IHO S-44 order {qa.surveyOrder ?? qa.order}, the order this survey was imported with; a later change of the project's order does not change it.</li> : null}
           <li>Cells with soundings: {qa.cellsWithSoundings ?? "—"} of {qa.cellsInLimit ?? "—"}; median {qa.medianPerCell ?? "—"} per cell; {qa.sparseCells ?? 0} sparse cells.</li>
           <li>Spikes: {qa.spikes?.count ?? 0}.</li>
           <li>Crossing lines: {qa.crossings?.comparisons ?? 0} comparisons{qa.crossings?.withinAllowanceShare != null ? `, ${(qa.crossings.withinAllowanceShare * 100).toFixed(0)} % within the IHO S-44 order ${qa.order} allowance` : ""}.</li>

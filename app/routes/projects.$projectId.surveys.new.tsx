@@ -4,13 +4,14 @@ import { Form, data, redirect, useNavigation } from "react-router";
 import { FormMessage } from "~/components/form-message";
 import { VerticalBiasFields } from "~/components/vertical-bias-fields";
 import { LengthUnitOptions } from "~/components/length-unit-options";
+import { SurveyOrderOptions } from "~/components/survey-order-options";
 import { requireRole } from "~/lib/auth/access.server";
 import { DEFAULT_TIME_ZONE, receivePageUpload } from "~/lib/import/page-upload.server";
 import type { Route } from "./+types/projects.$projectId.surveys.new";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { project } = await requireRole(request, params.projectId, "surveys.import");
-  return { projectId: project.id, crs: project.crs, lengthUnit: project.lengthUnit, timeZone: DEFAULT_TIME_ZONE };
+  return { projectId: project.id, crs: project.crs, lengthUnit: project.lengthUnit, timeZone: DEFAULT_TIME_ZONE, surveyOrder: project.surveyOrder };
 }
 
 // Without JavaScript the form posts here; with it, the page's script posts to ./upload instead.
@@ -117,13 +118,10 @@ export default function UploadSurvey({ loaderData, actionData }: Route.Component
           </div>
           <div>
             <label htmlFor="surveyOrder" className="block text-sm font-medium">Survey order (IHO S-44) for QA</label>
-            <select id="surveyOrder" name="surveyOrder" className={fieldClass} defaultValue="1a">
-              <option value="exclusive">Exclusive order</option>
-              <option value="special">Special order</option>
-              <option value="1a">Order 1a</option>
-              <option value="1b">Order 1b</option>
-              <option value="2">Order 2</option>
+            <select id="surveyOrder" name="surveyOrder" className={fieldClass} defaultValue={loaderData.surveyOrder} aria-describedby="surveyOrder-hint">
+              <SurveyOrderOptions />
             </select>
+            <p id="surveyOrder-hint" className="mt-1 text-sm text-muted">The project's order is chosen; this survey keeps the order it is imported with.</p>
           </div>
         </fieldset>
 

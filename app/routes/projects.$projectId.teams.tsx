@@ -12,6 +12,7 @@ import { readPageForm } from "~/lib/http/body.server";
 import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
 import { createDiveTeam, listDiveTeams, removeDiveTeam, retiredBecause, teamInputSchema, updateDiveTeam, type DiveTeamView } from "~/models/dive-teams.server";
 import { listMembers } from "~/models/membership.server";
+import { diameterUnitFor, formatDiameter, DIAMETER_RANGE, type DiameterUnit, type TeamEquipment } from "../../shared/dive-plan/equipment";
 import type { Route } from "./+types/projects.$projectId.teams";
 
 // The project's dive teams: every member reads them; the manager and the dive supervisor add,
@@ -25,6 +26,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     projectId: access.project.id,
     teams,
     minTeamSize: access.project.minTeamSize,
+    diameterUnit: diameterUnitFor(access.project.lengthUnit),
     canManage,
     canConfigure: can(access, "project.configure"),
     // Names the crew field suggests (members are linked by name).
@@ -35,7 +37,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 const teamFields = {
   name: z.string(),
   station: z.string().default(""),
-  hoses: z.string().default(""),
+  hoses: z.string().max(10_000).default(""),
+  pumps: z.string().max(10_000).default(""),
   crew: z.string().max(10_000).default(""),
 };
 const teamId = z.coerce.number({ error: "Choose a team" }).int().positive();
@@ -54,15 +57,30 @@ function crewLines(text: string) {
   });
 }
 
-const hoseLines = (text: string) => text.split(/\r?\n|,/).map((hose) => hose.trim()).filter(Boolean);
+/**
+ * The hoses or pumps box: one a line, "name, diameter" (the diameter optional, in the project's unit;
+ * a unit written after it is allowed). A diameter that is not a number is passed on as written, so
+ * the service's check names its line.
+ */
+function equipmentLines(text: string) {
+  return text.split(/\r?\n/).map((line) => line.trim()).filter(Boolean).map((line) => {
+    const comma = line.lastIndexOf(",");
+    if (comma < 0) return { name: line, diameter: null };
+    const name = line.slice(0, comma).trim();
+    const written = line.slice(comma + 1).trim().replace(/\s*(in|inch|inches|mm|")$/i, "");
+    if (written === "") return { name, diameter: null };
+    const value = Number(written.replace(",", "."));
+    return { name, diameter: Number.isFinite(value) ? value : written };
+  });
+}
 
 type ActionResult = { intent: string; teamId: number | null; errors: FieldErrors; notice: string | null };
 
-/** A refusal's details on the form's inputs: `members.3` is the crew box's fourth line, `hoses.1` the second hose. */
+/** A refusal's details on the form's inputs: `members.3` is the crew box's fourth line, `hoses.1.diameter` the second hose's diameter. */
 function formErrors(details: readonly ErrorDetail[]): FieldErrors {
   const worded = details.map((detail) => {
     const [field, index] = (detail.field ?? "").split(".");
-    if ((field === "members" || field === "hoses") && index !== undefined) return { ...detail, message: `Line ${Number(index) + 1}: ${detail.message}` };
+    if ((field === "members" || field === "hoses" || field === "pumps") && index !== undefined) return { ...detail, message: `Line ${Number(index) + 1}: ${detail.message}` };
     return detail;
   });
   return fieldErrorsFrom(worded, (field) => {
@@ -82,7 +100,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     switch (input.intent) {
       case "create":
       case "update": {
-        const checked = teamInputSchema.safeParse({ name: input.name, station: input.station, hoses: hoseLines(input.hoses), members: crewLines(input.crew) });
+        const checked = teamInputSchema.safeParse({ name: input.name, station: input.station, hoses: equipmentLines(input.hoses), pumps: equipmentLines(input.pumps), members: crewLines(input.crew) });
         if (!checked.success) {
           return data<ActionResult>({ intent: input.intent, teamId: forTeam, errors: formErrors(checked.error.issues.map((issue) => ({ field: issue.path.join("."), message: issue.message }))), notice: null }, { status: 400 });
         }
@@ -110,7 +128,27 @@ export function meta({}: Route.MetaArgs) {
 
 const boxClass = "mt-1 block w-full rounded border border-line bg-panel px-3 py-2 font-mono text-sm focus:outline-2 focus:outline-offset-1 focus:outline-lagoon aria-invalid:border-danger";
 
-function TeamForm({ team, errors, memberNames, intent }: { team: DiveTeamView | null; errors: FieldErrors; memberNames: string[]; intent: "create" | "update" }) {
+/** A hoses or pumps box as the form fills it: "Hose A, 6" a line, the name alone when no diameter is given. */
+const equipmentText = (entries: TeamEquipment[]) => entries.map((entry) => (entry.diameter === null ? entry.name : `${entry.name}, ${entry.diameter}`)).join("\n");
+
+function EquipmentBox({ id, name, label, example, unit, defaultValue, error }: { id: string; name: "hoses" | "pumps"; label: string; example: string; unit: DiameterUnit; defaultValue: string; error?: string }) {
+  const { min, max } = DIAMETER_RANGE[unit];
+  return (
+    <div>
+      <label htmlFor={id} className="block text-sm font-medium">{label}</label>
+      <textarea
+        id={id} name={name} rows={3} defaultValue={defaultValue} className={boxClass}
+        aria-invalid={error ? true : undefined} aria-describedby={`${id}-hint${error ? ` ${id}-error` : ""}`}
+      />
+      <p id={`${id}-hint`} className="mt-1 text-sm text-muted">
+        One a line: name, diameter in {unit === "in" ? "inches" : "millimetres"} ({min}–{max} {unit}), e.g. <span className="figures">{example}</span>. Leave the diameter off when it is not known.
+      </p>
+      {error ? <p id={`${id}-error`} className="mt-1 text-sm text-danger">{error}</p> : null}
+    </div>
+  );
+}
+
+function TeamForm({ team, errors, memberNames, intent, unit }: { team: DiveTeamView | null; errors: FieldErrors; memberNames: string[]; intent: "create" | "update"; unit: DiameterUnit }) {
   const key = team ? `team-${team.id}` : "new-team";
   const crewText = team ? team.members.map((member) => [member.name, member.duty, member.userId ? "" : member.email].filter((part, index) => part || index === 0).join(", ")).join("\n") : "";
   return (
@@ -129,16 +167,23 @@ function TeamForm({ team, errors, memberNames, intent }: { team: DiveTeamView | 
         </p>
         {errors.crew ? <p id={`${key}-crew-error`} className="mt-1 text-sm text-danger">{errors.crew}</p> : null}
       </div>
-      <div>
-        <label htmlFor={`${key}-hoses`} className="block text-sm font-medium">Hoses and pumps, one a line</label>
-        <textarea
-          id={`${key}-hoses`} name="hoses" rows={4} defaultValue={team?.hoses.join("\n") ?? ""} className={boxClass}
-          aria-invalid={errors.hoses ? true : undefined} aria-describedby={errors.hoses ? `${key}-hoses-error` : undefined}
-        />
-        {errors.hoses ? <p id={`${key}-hoses-error`} className="mt-1 text-sm text-danger">{errors.hoses}</p> : null}
+      <div className="space-y-3">
+        <EquipmentBox id={`${key}-hoses`} name="hoses" label="Hoses" example={unit === "in" ? "Hose A, 6" : "Hose A, 150"} unit={unit} defaultValue={team ? equipmentText(team.hoses) : ""} error={errors.hoses} />
+        <EquipmentBox id={`${key}-pumps`} name="pumps" label="Pumps" example={unit === "in" ? "Pump 1, 6" : "Pump 1, 150"} unit={unit} defaultValue={team ? equipmentText(team.pumps) : ""} error={errors.pumps} />
       </div>
       <div className="sm:col-span-2"><SubmitButton intent={intent} pendingLabel="Saving…">{team ? `Save ${team.name}` : "Add team"}</SubmitButton></div>
     </Form>
+  );
+}
+
+function Equipment({ entries, what }: { entries: TeamEquipment[]; what: string }) {
+  if (entries.length === 0) return <p className="text-sm text-muted">No {what} listed.</p>;
+  return (
+    <ul className="text-sm">
+      {entries.map((entry) => (
+        <li key={entry.name}>{entry.name} {entry.diameter === null ? <span className="text-muted">— diameter not given</span> : <>— <span className="figures">{formatDiameter(entry.diameter, entry.diameterUnit)}</span></>}</li>
+      ))}
+    </ul>
   );
 }
 
@@ -167,6 +212,7 @@ export default function TeamsPage({ loaderData, actionData }: Route.ComponentPro
       <p className="text-sm text-muted">
         The minimum team size is <span className="figures">{minTeamSize}</span>{loaderData.canConfigure ? <> (set on the <Link className="underline" to={`/projects/${loaderData.projectId}/settings#dive-work-heading`}>settings page</Link>)</> : null}.
         Team size, duties and standby cover follow the project's dive safety plan and the applicable commercial diving standard; this list does not approve a team.
+        Hose and pump diameters are kept for planning and the day sheet: guarding of suction intakes, lock-out of pumps before a diver approaches an intake, and hose handling follow the same safety plan.
       </p>
       <ActionMessages error={actionData && ["remove", "return", "invalid"].includes(actionData.intent) ? actionData.errors.form ?? actionData.errors.teamId : undefined} notice={actionData?.notice} />
 
@@ -181,13 +227,16 @@ export default function TeamsPage({ loaderData, actionData }: Route.ComponentPro
             {team.belowMinimum ? <p className="mt-1 text-sm font-semibold text-danger">Lists {team.members.length} {team.members.length === 1 ? "person" : "people"}, below the minimum team size of {minTeamSize}.</p> : null}
             <div className="mt-2 grid gap-3 sm:grid-cols-2">
               <div><h4 className="text-sm font-medium">Crew</h4><Crew team={team} /></div>
-              <div><h4 className="text-sm font-medium">Hoses and pumps</h4><p className="text-sm">{team.hoses.join(", ") || "None listed"}</p></div>
+              <div className="grid gap-3 sm:grid-cols-2">
+                <div><h4 className="text-sm font-medium">Hoses</h4><Equipment entries={team.hoses} what="hoses" /></div>
+                <div><h4 className="text-sm font-medium">Pumps</h4><Equipment entries={team.pumps} what="pumps" /></div>
+              </div>
             </div>
             {canManage ? (
               <div className="mt-3 flex flex-wrap items-start gap-3">
                 <details className="min-w-0 flex-1" open={actionData?.intent === "update" && actionData.teamId === team.id && Object.keys(actionData.errors).length > 0}>
                   <summary className="cursor-pointer text-sm font-medium text-lagoon-dark">Change {team.name}</summary>
-                  <div className="mt-3"><TeamForm team={team} errors={errorsFor("update", team.id)} memberNames={memberNames} intent="update" /></div>
+                  <div className="mt-3"><TeamForm team={team} errors={errorsFor("update", team.id)} memberNames={memberNames} intent="update" unit={loaderData.diameterUnit} /></div>
                 </details>
                 <ConfirmedActionForm
                   question={`Remove ${team.name}? A team that dives, assignments or finds name is retired instead, and its records keep naming it.`}
@@ -202,7 +251,7 @@ export default function TeamsPage({ loaderData, actionData }: Route.ComponentPro
       {canManage ? (
         <section aria-labelledby="new-team-heading" className="rounded border border-line bg-panel p-4">
           <h3 id="new-team-heading" className="text-lg font-semibold">New dive team</h3>
-          <div className="mt-3"><TeamForm team={null} errors={errorsFor("create", null)} memberNames={memberNames} intent="create" /></div>
+          <div className="mt-3"><TeamForm team={null} errors={errorsFor("create", null)} memberNames={memberNames} intent="create" unit={loaderData.diameterUnit} /></div>
         </section>
       ) : null}
 

@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import { z } from "zod";
+import { teamEquipmentSchema, type TeamEquipment } from "../../shared/dive-plan/equipment";
 import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
 
@@ -12,14 +13,16 @@ export interface DiveTeamMember {
   userId?: number;
 }
 
-/** A project's dive team: its people (who get the plan sheet by e-mail) and the hoses it runs. */
+/** A project's dive team: its people (who get the plan sheet by e-mail) and the hoses and pumps it runs. */
 export class DiveTeam extends Model<InferAttributes<DiveTeam>, InferCreationAttributes<DiveTeam>> {
   declare id: CreationOptional<number>;
   declare projectId: ForeignKey<Project["id"]>;
   declare name: string;
   declare station: CreationOptional<string>;
-  /** Hose or station names the team works. */
-  declare hoses: string[];
+  /** The hoses the team works (an assignment names one), each with its diameter (migration 0042). */
+  declare hoses: TeamEquipment[];
+  /** The pumps the team runs, each with its diameter. */
+  declare pumps: CreationOptional<TeamEquipment[]>;
   declare members: DiveTeamMember[];
   declare sortOrder: CreationOptional<number>;
   /** When the team was retired (it has records, so it was not deleted); null: in service. */
@@ -34,7 +37,8 @@ export function initDiveTeam(sequelize: Sequelize) {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       name: { type: DataTypes.STRING(120), allowNull: false },
       station: { type: DataTypes.STRING(200), allowNull: false, defaultValue: "" },
-      hoses: jsonColumn("dive_teams", "hoses", z.array(z.string())),
+      hoses: jsonColumn("dive_teams", "hoses", z.array(teamEquipmentSchema)),
+      pumps: jsonColumn("dive_teams", "pumps", z.array(teamEquipmentSchema), { defaultValue: [] }),
       members: jsonColumn("dive_teams", "members", z.array(z.object({ name: z.string(), email: z.string(), duty: z.string(), userId: z.number().int().optional() }))),
       sortOrder: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
       retiredAt: { type: DataTypes.DATE, allowNull: true },

@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
 import { z } from "zod";
+import { surveyOrderSchema } from "../../shared/qa/tvu";
 import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
 import type { User } from "./user";
@@ -7,7 +8,8 @@ import type { User } from "./user";
 /** The settings the figures rest on, as one version keeps them (lengths in the project's unit, geometries lon/lat GeoJSON). */
 export const versionedSettingsSchema = z.object({
   grid: z.object({ cellSize: z.number(), rotationDegrees: z.number(), originX: z.number(), originY: z.number(), rasterResolution: z.number(), maxEdge: z.number() }),
-  tolerances: z.object({ firmSand: z.number(), firmShare: z.number(), minCoverage: z.number(), overDredgeAllowance: z.number() }),
+  /** `surveyOrder` (IHO S-44): kept from migration 0041 on; versions from before have none. */
+  tolerances: z.object({ firmSand: z.number(), firmShare: z.number(), minCoverage: z.number(), overDredgeAllowance: z.number(), surveyOrder: surveyOrderSchema.optional() }),
   workLimit: z.unknown(),
   zones: z.array(z.object({ id: z.number(), name: z.string(), sortOrder: z.number(), geometry: z.unknown() })),
 });

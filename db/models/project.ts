@@ -1,6 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import { DEFAULT_HOLD_RADIUS_M, DEFAULT_HOLD_RADIUS_SOURCE } from "../../shared/finds/finds";
 import { emergencyInfoSchema, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
+import { SURVEY_ORDERS, type SurveyOrder } from "../../shared/qa/tvu";
 import { jsonColumn } from "./json-column";
 
 export const LENGTH_UNITS = ["us-ft", "ft", "m"] as const;
@@ -40,6 +41,8 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   declare firmShare: number;
   /** Share (0..1) of a cell's area that must be surveyed for a status. */
   declare minCoverage: number;
+  /** The IHO S-44 order the import form offers by default for a survey's QA; each survey keeps the order it was imported with. */
+  declare surveyOrder: CreationOptional<SurveyOrder>;
   /** How far below firm sand removal is still paid (0: paid down to firm sand); below it is over-dredge. */
   declare overDredgeAllowance: CreationOptional<number>;
   /** The permitted work limit as a GeoJSON Polygon or MultiPolygon in lon/lat (RFC 7946). */
@@ -92,6 +95,7 @@ export function initProject(sequelize: Sequelize) {
       tolerance: measure(),
       firmShare: measure(),
       minCoverage: measure(),
+      surveyOrder: { type: DataTypes.ENUM(...SURVEY_ORDERS), allowNull: false, defaultValue: "1a" },
       overDredgeAllowance: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
       workLimitGeoJson: { type: DataTypes.TEXT("medium"), allowNull: true },
       minTeamSize: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 2 },

@@ -83,7 +83,10 @@ try {
     run(bin("tsx"), ["db/seed.ts", "demo"], { env: e2eEnv });
     log("building the app for the browser tests");
     buildApp(e2eEnv);
-    appServer = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "inherit", "inherit"], env: e2eEnv });
+    // Test settings only this server honours in production (app/lib/settings/env.server.ts): a
+    // recompute shows as running for 3 s before it computes, so the running panel is always there to check.
+    const serverEnv = { ...e2eEnv, FIRMSAND_TEST_SERVER: "1", RECOMPUTE_HOLD_MS: process.env.RECOMPUTE_HOLD_MS ?? "3000" };
+    appServer = spawn(process.execPath, ["app/serve.mjs", "build/server/index.js"], { stdio: ["ignore", "inherit", "inherit"], env: serverEnv });
     await waitFor(() => isPortOpen(port), { timeoutMs: 30_000, what: `the app on port ${port}` });
     const code = await runStep(bin("playwright"), ["test", "-c", "tests/e2e/playwright.config.ts", ...(onlyE2e ? passThrough : [])], e2eEnv);
     if (code !== 0) failed = true;

@@ -32,7 +32,12 @@ export async function seedDemoDiveTeams(): Promise<"seeded" | "skipped"> {
   const { presentUser } = await import("../../app/lib/auth/users.server");
   const view = presentProject(project);
   for (const team of DIVE_TEAMS) {
-    const input = teamInputSchema.parse({ name: team.name, station: team.station, hoses: team.hoses.map((hose) => hose.name), members: CREWS[team.name] ?? [] });
+    // The demo project works in US survey feet, so its diameters are in inches.
+    const input = teamInputSchema.parse({
+      name: team.name, station: team.station, members: CREWS[team.name] ?? [],
+      hoses: team.hoses.map((hose) => ({ name: hose.name, diameter: hose.diameterIn })),
+      pumps: team.pumps.map((pump) => ({ name: pump.name, diameter: pump.diameterIn })),
+    });
     await createDiveTeam(view, presentUser(supervisor), input);
   }
   return "seeded";

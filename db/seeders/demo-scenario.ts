@@ -50,7 +50,7 @@ export function demoProjectInput(managerEmail: string) {
       rasterResolution: GRID.rasterResolutionFt,
       maxEdge: GRID.maxTriangleEdgeFt,
     },
-    tolerances: { firmSand: GRID.toleranceFt, firmShare: GRID.firmShare, minCoverage: GRID.minCoverage },
+    tolerances: { firmSand: GRID.toleranceFt, firmShare: GRID.firmShare, minCoverage: GRID.minCoverage, surveyOrder: GRID.surveyOrder },
     zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })),
     minTeamSize: DEMO_PROJECT.minTeamSize,
     emergency: DEMO_EMERGENCY,

@@ -5,7 +5,7 @@ import { rm } from "node:fs/promises";
 import { dirname, join } from "node:path";
 import { Readable } from "node:stream";
 import { fileURLToPath } from "node:url";
-import { PROJECT, SURVEYS } from "../../sample-data/scenario";
+import { GRID, PROJECT, SURVEYS } from "../../sample-data/scenario";
 import type { ImportOptions } from "../../app/lib/import/import-options";
 import { Project, User } from "../models";
 
@@ -29,7 +29,7 @@ export function demoImportOptions(survey: (typeof SURVEYS)[number], extra: Parti
     datum: PROJECT.verticalDatum,
     crs: PROJECT.crs,
     lengthUnit: PROJECT.lengthUnit,
-    surveyOrder: "1a",
+    surveyOrder: GRID.surveyOrder,
     ...extra,
   };
 }

@@ -6,7 +6,9 @@ import { convertLength, type LengthUnit } from "../units";
  * vertical uncertainty allowed at the 95 % confidence level: TVU = √(a² + (b·d)²), d the depth in
  * metres. a is the part that does not vary with depth, b·d the part that does.
  */
-export const surveyOrderSchema = z.enum(["exclusive", "special", "1a", "1b", "2"]);
+/** The orders, strictest first (a list of its own: a zod enum's `options` put "2" first, as an object's integer keys come first). */
+export const SURVEY_ORDERS = ["exclusive", "special", "1a", "1b", "2"] as const;
+export const surveyOrderSchema = z.enum(SURVEY_ORDERS);
 export type SurveyOrder = z.infer<typeof surveyOrderSchema>;
 
 export const TVU_COEFFICIENTS: Record<SurveyOrder, { aM: number; b: number }> = {
@@ -16,6 +18,18 @@ export const TVU_COEFFICIENTS: Record<SurveyOrder, { aM: number; b: number }> = 
   "1b": { aM: 0.5, b: 0.013 },
   "2": { aM: 1.0, b: 0.023 },
 };
+
+/** Each order's name as the forms show it (IHO S-44 ed. 6.0.0 names them so). */
+export const SURVEY_ORDER_NAMES: Record<SurveyOrder, string> = {
+  exclusive: "Exclusive order",
+  special: "Special order",
+  "1a": "Order 1a",
+  "1b": "Order 1b",
+  "2": "Order 2",
+};
+
+/** Where the orders and their coefficients come from, for the forms and the settings history. */
+export const SURVEY_ORDER_SOURCE = "IHO S-44 Standards for Hydrographic Surveys, ed. 6.0.0 (2020), table 1";
 
 /** Allowed TVU in metres at a depth in metres (IHO S-44 ed. 6.0.0, table 1). */
 export function allowedTvuM(order: SurveyOrder, depthM: number): number {

@@ -59,6 +59,9 @@ test("the printed day sheet carries the map of the day's cells, the emergency in
   const labels = await team.locator("table").first().locator("tbody tr td:first-child").allInnerTexts();
   expect(labels).toHaveLength(2);
   for (const label of labels) await expect(map.locator(`[data-cell="${label}"] text`)).toHaveText(label);
+  // The team's hoses and pumps with their diameters (the demo seed's, in inches), and each cell's hose with its own.
+  await expect(team.getByTestId("plan-team-equipment")).toHaveText("Hoses: Hose A (6 in), Hose B (6 in). Pumps: Pump P1 (8 in).");
+  for (const hose of await team.locator("table").first().locator("tbody tr td:nth-child(3)").allInnerTexts()) expect(hose).toMatch(/^Hose [AB] \(6 in\)$/);
   await expect(map.locator("figcaption")).toContainText("Team Limpkin");
   // The emergency information as set, every item.
   const emergency = page.getByTestId("emergency-block");

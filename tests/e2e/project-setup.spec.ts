@@ -114,4 +114,24 @@ test("after a baseline, the manager's new tolerance and then a new cell size are
   await expect(status.getByTestId("recompute-summary")).toContainText(/a new grid: [\d,]+ → [\d,]+ cells/);
   await expect(history.getByRole("row").nth(1)).toContainText("grid");
   await expect(grid.getByLabel(/Cell size/)).toHaveValue(String(GRID.cellSizeFt * 2));
+
+  // The survey order (IHO S-44): a tolerance kept in the history, but nothing is recomputed; the upload then offers it.
+  await expect(tolerances.getByLabel("Survey order (IHO S-44)")).toHaveValue("1a");
+  await expect(tolerances).toContainText("Surveys already imported keep the order they were imported with");
+  await tolerances.getByLabel("Survey order (IHO S-44)").selectOption("2");
+  await tolerances.getByRole("button", { name: "Save tolerances" }).click();
+  await expect(tolerances.getByRole("status")).toContainText("Saved.");
+  await expect(tolerances.getByRole("status")).not.toContainText("recomputed");
+  await expect(history.getByRole("row").nth(1)).toContainText("tolerances");
+  await expect(history.getByRole("row").nth(1)).toContainText("Order 2");
+  await expect(history.getByRole("row").nth(2)).toContainText("Order 1a");
+  await expect(status).toContainText("from settings version 2 to 3");
+  await expect(tolerances.getByLabel("Survey order (IHO S-44)")).toHaveValue("2");
+  for (const [width, height] of [[1440, 900], [390, 844]]) {
+    await page.setViewportSize({ width, height });
+    await tolerances.scrollIntoViewIfNeeded();
+    await tolerances.screenshot({ path: test.info().outputPath(`tolerances-${width}.png`) });
+  }
+  await page.goto(`/projects/${projectId}/surveys/new`);
+  await expect(page.getByLabel("Survey order (IHO S-44) for QA")).toHaveValue("2");
 });

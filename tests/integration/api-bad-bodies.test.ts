@@ -321,7 +321,7 @@ beforeAll(async () => {
     rawTurbidityNtu: null, jars: [{ doseMgPerL: 4, settlingMinutes: 10, turbidityNtu: null, clarity: "clear" }], chosenDoseMgPerL: 4, notes: "", idempotencyKey: null, recordedById: null,
   })).id;
   subscriberId = (await ReportSubscriber.create({ projectId: site.project.id, email: "bad-bodies-agency@example.org", userId: null, addedById: null })).id;
-  teamId = (await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] })).id;
+  teamId = (await DiveTeam.create({ projectId: site.project.id, name: "Team Heron", station: "Barge 1", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [{ name: "A", email: "bad-bodies-a@example.org", duty: "diver" }] })).id;
   const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
   const stored = await postSurvey(site.project.id, site.tokens.manager, { path: join(DEMO_DIR, baseline.fileName) }, {
     kind: baseline.kind, surveyedOn: baseline.surveyedOn, waterSurfaceElevation: String(baseline.waterSurfaceElevationFt), timeZone: PROJECT.timeZone, datum: PROJECT.verticalDatum,

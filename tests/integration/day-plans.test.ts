@@ -36,7 +36,7 @@ beforeAll(async () => {
   project = await makeProject("day-plans");
   today = localDayOf(Date.now(), project.timeZone);
   for (const [index, name] of ["Team Heron", "Team Otter"].entries()) {
-    teams[name] = (await DiveTeam.create({ projectId: project.id, name, station: "", hoses: ["Hose A"], members: [], sortOrder: index + 1 })).id;
+    teams[name] = (await DiveTeam.create({ projectId: project.id, name, station: "", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [], sortOrder: index + 1 })).id;
   }
 });
 
@@ -78,7 +78,7 @@ describe("listDayPlans", () => {
 describe("the e-mailed plan sheet", () => {
   const plan = (): DayPlanView => ({
     date: "2026-11-10", lengthLabel: "ftUS", volumeLabel: "yd³", minTeamSize: 2, caution: "Information only.", source: "the table",
-    teams: [{ team: { id: 1, name: "Team Heron", station: "", hoses: ["Hose A"], members: [], belowMinimum: false, retiredAt: null }, cells: [], remainingVolume: 0 }],
+    teams: [{ team: { id: 1, name: "Team Heron", station: "", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], pumps: [], members: [], belowMinimum: false, retiredAt: null }, cells: [], remainingVolume: 0 }],
   });
 
   it("carries the emergency information, naming what is missing", () => {
@@ -92,5 +92,17 @@ describe("the e-mailed plan sheet", () => {
 
   it("says plainly when none is set", () => {
     expect(planSheetText(project, plan(), 0, "http://127.0.0.1/plan", null)).toContain("EMERGENCY: No emergency information set — add it under Settings before diving.");
+  });
+
+  it("lists the team's hoses and pumps with their diameters, and each cell's hose with its own", () => {
+    const withCell = plan();
+    withCell.teams[0]!.team.pumps = [{ name: "Pump P1", diameter: 8, diameterUnit: "in" }];
+    withCell.teams[0]!.cells = [{
+      label: "C4", zone: "Vent basin", hose: "Hose A", notes: "", workingDepth: 12.5, plannedBottomMinutes: null, noDecompression: null,
+      remainingThickness: null, remainingVolume: null, status: null, confirmedReason: null,
+    }];
+    const text = planSheetText(project, withCell, 0, "http://127.0.0.1/plan", null);
+    expect(text).toContain("Hoses: Hose A (6 in). Pumps: Pump P1 (8 in).");
+    expect(text).toContain("C4 | Vent basin | Hose A (6 in) | 12.5 |");
   });
 });

@@ -338,7 +338,7 @@ describe("sediment samples and the reconciliation", () => {
     const zoned = await CellResult.findAll({ where: { projectId: site.project.id }, attributes: ["row", "col", "label", "zoneId"], order: [["row", "ASC"], ["col", "ASC"]], raw: true });
     const [first, second] = [...new Map(zoned.filter((cell) => cell.zoneId !== null).map((cell) => [cell.zoneId, cell])).values()];
     expect(second).toBeDefined();
-    const team = await DiveTeam.create({ projectId: site.project.id, name: "Attribution team", hoses: ["Hose A"], members: [] });
+    const team = await DiveTeam.create({ projectId: site.project.id, name: "Attribution team", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [] });
     const dive = await Dive.create({ projectId: site.project.id, diveDate: "2026-10-21", teamId: team.id, diverName: "Test diver", leftSurfaceAt: "08:00", leftBottomAt: "10:00", bottomMinutes: 120, maxDepth: 8, notes: "", recordedById: null });
     for (const cell of [first, second]) await DiveCell.create({ diveId: dive.id, projectId: site.project.id, row: cell.row, col: cell.col, label: cell.label });
 

@@ -40,8 +40,8 @@ beforeAll(async () => {
   });
   projectId = project.id;
   for (const [index, zone] of ZONES.entries()) await Zone.create({ projectId, name: zone.name, sortOrder: index, polygonGeoJson: JSON.stringify(zone.polygon) });
-  await DiveTeam.create({ projectId, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "Odile Farrant", email: "heron-a@example.org", duty: "diver" }, { name: "Pell Anstruther", email: "heron-p@example.org", duty: "standby diver" }, { name: "B", email: "heron-b@example.org", duty: "tender" }] });
-  await DiveTeam.create({ projectId, name: "Team Otter", station: "Barge 2", hoses: ["Hose B"], members: [{ name: "C", email: "otter-c@example.org", duty: "diver" }, { name: "D", email: "otter-d@example.org", duty: "tender" }] });
+  await DiveTeam.create({ projectId, name: "Team Heron", station: "Barge 1", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [{ name: "Odile Farrant", email: "heron-a@example.org", duty: "diver" }, { name: "Pell Anstruther", email: "heron-p@example.org", duty: "standby diver" }, { name: "B", email: "heron-b@example.org", duty: "tender" }] });
+  await DiveTeam.create({ projectId, name: "Team Otter", station: "Barge 2", hoses: [{ name: "Hose B", diameter: 6, diameterUnit: "in" }], members: [{ name: "C", email: "otter-c@example.org", duty: "diver" }, { name: "D", email: "otter-d@example.org", duty: "tender" }] });
   for (const role of ["manager", "dive-supervisor", "surveyor", "viewer"] as Role[]) {
     const user = await makeUser(`dives-${role}`);
     await addMember(user.id, projectId, role);

@@ -82,8 +82,8 @@ beforeAll(async () => {
   });
   projectId = project.id;
   for (const [index, zone] of ZONES.entries()) await Zone.create({ projectId, name: zone.name, sortOrder: index, polygonGeoJson: JSON.stringify(zone.polygon) });
-  heronId = (await DiveTeam.create({ projectId, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "Ana Reyes", email: "basket-a@example.org", duty: "diver" }, { name: "Bo Lind", email: "basket-b@example.org", duty: "tender" }] })).id;
-  egretId = (await DiveTeam.create({ projectId, name: "Team Egret", station: "Barge 2", hoses: ["Hose B"], members: [{ name: "Cy Moss", email: "basket-c@example.org", duty: "diver" }, { name: "Di Park", email: "basket-d@example.org", duty: "tender" }] })).id;
+  heronId = (await DiveTeam.create({ projectId, name: "Team Heron", station: "Barge 1", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [{ name: "Ana Reyes", email: "basket-a@example.org", duty: "diver" }, { name: "Bo Lind", email: "basket-b@example.org", duty: "tender" }] })).id;
+  egretId = (await DiveTeam.create({ projectId, name: "Team Egret", station: "Barge 2", hoses: [{ name: "Hose B", diameter: 6, diameterUnit: "in" }], members: [{ name: "Cy Moss", email: "basket-c@example.org", duty: "diver" }, { name: "Di Park", email: "basket-d@example.org", duty: "tender" }] })).id;
   for (const role of ["manager", "resource-monitor", "dive-supervisor", "viewer"] as Role[]) {
     const user = await makeUser(`basket-${role}`);
     await addMember(user.id, projectId, role);

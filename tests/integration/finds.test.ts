@@ -73,7 +73,7 @@ beforeAll(async () => {
   projectId = project.id;
   otherProjectId = (await make("other")).id;
   for (const [index, zone] of ZONES.entries()) await Zone.create({ projectId, name: zone.name, sortOrder: index, polygonGeoJson: JSON.stringify(zone.polygon) });
-  await DiveTeam.create({ projectId, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "finds-heron-a@example.org", duty: "diver" }, { name: "B", email: "finds-heron-b@example.org", duty: "tender" }] });
+  await DiveTeam.create({ projectId, name: "Team Heron", station: "Barge 1", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [{ name: "A", email: "finds-heron-a@example.org", duty: "diver" }, { name: "B", email: "finds-heron-b@example.org", duty: "tender" }] });
   for (const role of ["manager", "resource-monitor", "dive-supervisor", "viewer", "outreach"] as Role[]) {
     const user = await makeUser(`finds-${role}`);
     await addMember(user.id, projectId, role);

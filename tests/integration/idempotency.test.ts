@@ -121,7 +121,7 @@ beforeAll(async () => {
   });
   projectId = project.id;
   await Zone.create({ projectId, name: "Zone A", sortOrder: 0, polygonGeoJson: JSON.stringify(WORK_LIMIT) });
-  await DiveTeam.create({ projectId, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "Ana Reyes", email: "idem-a@example.org", duty: "diver" }, { name: "Bo Lind", email: "idem-b@example.org", duty: "tender" }] });
+  await DiveTeam.create({ projectId, name: "Team Heron", station: "Barge 1", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [{ name: "Ana Reyes", email: "idem-a@example.org", duty: "diver" }, { name: "Bo Lind", email: "idem-b@example.org", duty: "tender" }] });
   for (const who of ["first", "second"] as Who[]) {
     const user = await makeUser(`idem-${who}`);
     await addMember(user.id, projectId, "manager");

@@ -28,8 +28,8 @@ beforeAll(async () => {
   });
   projectId = project.id;
   for (const [index, zone] of ZONES.entries()) await Zone.create({ projectId, name: zone.name, sortOrder: index, polygonGeoJson: JSON.stringify(zone.polygon) });
-  await DiveTeam.create({ projectId, name: "Team North", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "north-a@example.org", duty: "diver" }, { name: "B", email: "north-b@example.org", duty: "tender" }, { name: "C", email: "north-c@example.org", duty: "standby diver" }] });
-  await DiveTeam.create({ projectId, name: "Team South", station: "Barge 2", hoses: ["Hose C"], members: [{ name: "D", email: "south-d@example.org", duty: "diver" }] });
+  await DiveTeam.create({ projectId, name: "Team North", station: "Barge 1", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [{ name: "A", email: "north-a@example.org", duty: "diver" }, { name: "B", email: "north-b@example.org", duty: "tender" }, { name: "C", email: "north-c@example.org", duty: "standby diver" }] });
+  await DiveTeam.create({ projectId, name: "Team South", station: "Barge 2", hoses: [{ name: "Hose C", diameter: 6, diameterUnit: "in" }], members: [{ name: "D", email: "south-d@example.org", duty: "diver" }] });
   for (const role of ["manager", "dive-supervisor", "surveyor", "viewer"] as Role[]) {
     const user = await makeUser(`map-${role}`);
     await addMember(user.id, projectId, role);

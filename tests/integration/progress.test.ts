@@ -177,7 +177,7 @@ describe("progress figures equal the engine on the same surveys", () => {
   });
 
   it("counts days with a logged dive or dewatering shift where an interval has them, weekdays where it has none", async () => {
-    const team = await DiveTeam.create({ projectId: project.id, name: "Test team", hoses: ["Hose A"], members: [] } as never);
+    const team = await DiveTeam.create({ projectId: project.id, name: "Test team", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [] } as never);
     // two dives on 09-10 and one on 09-15: two working days in the first interval (2026-09-08 → 09-29)
     const logged = ["2026-09-10", "2026-09-10", "2026-09-15"];
     for (const [index, diveDate] of logged.entries()) {

@@ -1,6 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeSequelize } from "../../db/connection.server";
+import { QueryTypes } from "sequelize";
+import { closeSequelize, getSequelize } from "../../db/connection.server";
+import { createUmzug } from "../../db/umzug";
 import { Assignment, AuditEvent, DiveTeam, Project } from "~/lib/db.server";
+import { listDiveTeams } from "~/models/dive-teams.server";
+import { presentProject } from "~/lib/auth/project-view.server";
 import { action as teamsAction, loader as teamsLoader } from "~/routes/api.projects.$projectId.teams";
 import { action as teamAction } from "~/routes/api.projects.$projectId.teams.$teamId";
 import { addMember, makeProject, makeUser, requestAs } from "./helpers";
@@ -57,7 +61,11 @@ describe("POST /api/projects/<id>/teams", () => {
       { name: "Wren Ashdown", email: "", duty: "" },
       { name: "Tamsin Orr", email: "", duty: "tender" },
     ]);
-    expect(body.team).toMatchObject({ hoses: ["Hose 1", "Hose 2"], station: "North landing", belowMinimum: false, retiredAt: null });
+    // The first form of hoses, names alone, is still taken: no diameter is known yet.
+    expect(body.team).toMatchObject({
+      hoses: [{ name: "Hose 1", diameter: null, diameterUnit: "in" }, { name: "Hose 2", diameter: null, diameterUnit: "in" }], pumps: [],
+      station: "North landing", belowMinimum: false, retiredAt: null,
+    });
     expect(await AuditEvent.count({ where: { projectId, action: "team-created" } })).toBe(1);
     // A member named by name links to the account, as by id.
     const byName = await create(managerId, { name: "Team Kite", members: [memberName.toUpperCase()] });
@@ -93,7 +101,7 @@ describe("PATCH and DELETE /api/projects/<id>/teams/<teamId>", () => {
     const team = await DiveTeam.findOne({ where: { projectId, name: "Team Kite" } });
     const changed = await patch(supervisorId, team!.id, { name: "Team Harrier", hoses: ["Hose 3"] });
     expect(changed.status).toBe(200);
-    expect((await changed.json()).team).toMatchObject({ name: "Team Harrier", hoses: ["Hose 3"] });
+    expect((await changed.json()).team).toMatchObject({ name: "Team Harrier", hoses: [{ name: "Hose 3", diameter: null, diameterUnit: "in" }] });
     expect((await patch(supervisorId, team!.id, { name: "Team Osprey" })).status).toBe(409);
     expect((await patch(supervisorId, team!.id, {})).status).toBe(422);
     expect((await patch(viewerId, team!.id, { station: "x" })).status).toBe(403);
@@ -129,4 +137,90 @@ describe("PATCH and DELETE /api/projects/<id>/teams/<teamId>", () => {
     expect((await back.json()).team.retiredAt).toBeNull();
     expect(await AuditEvent.count({ where: { projectId, action: ["team-retired", "team-returned", "team-deleted"] } })).toBe(3);
   });
+});
+
+// Hoses and pumps, each with its diameter in the project's unit family (inches here, US survey
+// feet). practice: the plausible range, 1–24 in and 25–610 mm, is Firmsand's (shared/dive-plan/equipment.ts).
+describe("hoses and pumps with their diameters", () => {
+  const hose = (name: string, diameter: number | null) => ({ name, diameter, diameterUnit: "in" });
+  let teamId: number;
+
+  it("are kept with their diameters in inches on a feet project, and shown so", async () => {
+    const response = await create(managerId, { name: "Team Grebe", hoses: [{ name: "Hose G1", diameter: 6 }, { name: "Hose G2", diameter: 4.5, diameterUnit: "in" }], pumps: [{ name: "Pump G", diameter: 8 }, "Pump spare"] });
+    expect(response.status).toBe(201);
+    const body = await response.json();
+    teamId = body.id;
+    expect(body.team.hoses).toEqual([hose("Hose G1", 6), hose("Hose G2", 4.5)]);
+    expect(body.team.pumps).toEqual([hose("Pump G", 8), hose("Pump spare", null)]);
+    const audit = await AuditEvent.findOne({ where: { projectId, action: "team-created" }, order: [["id", "DESC"]] });
+    expect(audit?.detail).toMatchObject({ after: { hoses: ["Hose G1 (6 in)", "Hose G2 (4.5 in)"], pumps: ["Pump G (8 in)", "Pump spare"] } });
+  });
+
+  it("refuse a diameter that is not positive, not a number, out of range or in the other unit, naming hoses.<n>.diameter", async () => {
+    const bad = await create(managerId, {
+      name: "Team Rail",
+      hoses: [{ name: "H0", diameter: -2 }, { name: "H1", diameter: "six" }, { name: "H2", diameter: 152 }, { name: "H3", diameter: 6, diameterUnit: "mm" }, { name: "H4", diameter: 0.5 }],
+      pumps: [{ name: "P0", diameter: 6 }, { name: "p0", diameter: 6 }],
+    });
+    expect(bad.status).toBe(422);
+    const errors = await errorsOf(bad);
+    expect(errors.map((error) => error.field).sort()).toEqual(["hoses.0.diameter", "hoses.1.diameter"]);
+    // Past the schema, the service's checks: range (with the other unit's hint), unit, duplicates.
+    const ranged = await create(managerId, { name: "Team Rail", hoses: [{ name: "H2", diameter: 152 }, { name: "H3", diameter: 6, diameterUnit: "mm" }, { name: "H4", diameter: 0.5 }], pumps: [{ name: "P0", diameter: 6 }, { name: "p0", diameter: 6 }] });
+    expect(ranged.status).toBe(422);
+    const problems = await errorsOf(ranged);
+    expect(problems.map((error) => error.field)).toEqual(["hoses.0.diameter", "hoses.1.diameterUnit", "hoses.2.diameter", "pumps.1"]);
+    expect(problems[0]!.message).toBe('The hose "H2": its diameter must be from 1 to 24 in (this project gives diameters in inches). Was it given in millimetres? 152 mm is 5.98 in.');
+    expect(problems[1]!.message).toContain("this project gives diameters in inches (in)");
+    expect(problems[3]!.message).toBe('The pump "p0" is listed twice.');
+    expect(await DiveTeam.count({ where: { projectId, name: "Team Rail" } })).toBe(0);
+  });
+
+  it("keep their diameters when a client of the first form sends names alone, and round-trip as read", async () => {
+    const names = await patch(supervisorId, teamId, { hoses: ["Hose G1", "Hose G3"], pumps: ["pump g"] });
+    expect(names.status).toBe(200);
+    const team = (await names.json()).team;
+    expect(team.hoses).toEqual([hose("Hose G1", 6), hose("Hose G3", null)]);
+    expect(team.pumps).toEqual([hose("pump g", 8)]);
+    // What GET gives can be sent back unchanged; null clears a diameter.
+    const again = await patch(supervisorId, teamId, { hoses: team.hoses, pumps: [{ ...team.pumps[0], diameter: null }] });
+    expect((await again.json()).team).toMatchObject({ hoses: team.hoses, pumps: [hose("pump g", null)] });
+  });
+
+  it("are shown in millimetres on a metre project, converted from what was stored (published: 1 in = 25.4 mm)", async () => {
+    const stored = await DiveTeam.findByPk(teamId);
+    const row = (await Project.findByPk(projectId))!;
+    const metric = presentProject(Object.assign(row, { lengthUnit: "m" }) as never);
+    const [shown] = (await listDiveTeams(metric)).filter((team) => team.id === teamId);
+    // computed: 6 in × 25.4 = 152.4 mm, shown whole
+    expect(shown!.hoses[0]).toEqual({ name: "Hose G1", diameter: 152, diameterUnit: "mm" });
+    expect(stored!.hoses[0]).toEqual(hose("Hose G1", 6));
+  });
+});
+
+describe("migration 0042", () => {
+  it("turns a team's names into hoses and pumps without diameters, in the project's unit, and back", async () => {
+    const umzug = createUmzug(getSequelize());
+    const metric = await makeProject("teams-api-metric");
+    await Project.update({ lengthUnit: "m" }, { where: { id: metric.id } });
+    await umzug.down({ to: "0042-team-hoses-and-pumps" });
+    let teamId = 0;
+    try {
+      const [id] = await getSequelize().query(
+        "INSERT INTO dive_teams (projectId, name, station, hoses, members, sortOrder, createdAt, updatedAt) VALUES (?, 'Team Old', '', ?, '[]', 1, NOW(), NOW())",
+        { replacements: [metric.id, JSON.stringify(["Hose A", "Pump 2", "Hose B"])], type: QueryTypes.INSERT },
+      );
+      teamId = id as number;
+      await umzug.up();
+      const team = (await DiveTeam.findByPk(teamId))!;
+      expect(team.hoses).toEqual([{ name: "Hose A", diameter: null, diameterUnit: "mm" }, { name: "Hose B", diameter: null, diameterUnit: "mm" }]);
+      expect(team.pumps).toEqual([{ name: "Pump 2", diameter: null, diameterUnit: "mm" }]);
+      // Down keeps the names (hoses, then pumps).
+      await umzug.down({ to: "0042-team-hoses-and-pumps" });
+      const [old] = await getSequelize().query<{ hoses: unknown }>("SELECT hoses FROM dive_teams WHERE id = ?", { replacements: [teamId], type: QueryTypes.SELECT });
+      expect(typeof old!.hoses === "string" ? JSON.parse(old!.hoses) : old!.hoses).toEqual(["Hose A", "Hose B", "Pump 2"]);
+    } finally {
+      await umzug.up();
+    }
+  }, 60_000);
 });

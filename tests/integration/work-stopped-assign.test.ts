@@ -44,7 +44,7 @@ beforeAll(async () => {
     tolerance: 0.25, firmShare: 0.95, minCoverage: 0.8, workLimitGeoJson: JSON.stringify(WORK_LIMIT), minTeamSize: 1,
   });
   project = presentProject(row);
-  await DiveTeam.create({ projectId: project.id, name: "Team Heron", station: "Barge 1", hoses: ["Hose A"], members: [{ name: "A", email: "stopped-heron-a@example.org", duty: "diver" }] });
+  await DiveTeam.create({ projectId: project.id, name: "Team Heron", station: "Barge 1", hoses: [{ name: "Hose A", diameter: 6, diameterUnit: "in" }], members: [{ name: "A", email: "stopped-heron-a@example.org", duty: "diver" }] });
   for (const role of ["manager", "dive-supervisor", "dewatering"] as Role[]) {
     const user = await makeUser(`stopped-${role}`);
     await addMember(user.id, project.id, role);

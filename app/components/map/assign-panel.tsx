@@ -4,7 +4,8 @@ import { Link } from "react-router";
 export interface TeamOption {
   id: number;
   name: string;
-  hoses: string[];
+  /** The team's hoses: `name` is what an assignment records, `label` adds its diameter. */
+  hoses: Array<{ name: string; label: string }>;
   size: number;
   belowMinimum: boolean;
 }
@@ -33,7 +34,7 @@ export function AssignPanel({ projectId, selectedLabels, confirmedLabels, teams,
   const [date, setDate] = useState(tomorrow);
   const [teamId, setTeamId] = useState<number>(teams[0]?.id ?? 0);
   const team = teams.find((candidate) => candidate.id === teamId) ?? teams[0];
-  const [hose, setHose] = useState(team?.hoses[0] ?? "");
+  const [hose, setHose] = useState(team?.hoses[0]?.name ?? "");
   const [notes, setNotes] = useState("");
   const [bottomTime, setBottomTime] = useState("");
   const [reason, setReason] = useState("");
@@ -83,14 +84,14 @@ export function AssignPanel({ projectId, selectedLabels, confirmedLabels, teams,
       <p role="note" className="rounded border border-caution bg-[#fff7e8] p-2 text-caution">{CAUTION}</p>
       <label className="block">Work date <input type="date" required value={date} onChange={(event) => setDate(event.target.value)} className="ml-2 rounded border border-line px-2 py-1" /></label>
       <label className="block">Dive team
-        <select value={team?.id} onChange={(event) => { const next = teams.find((candidate) => candidate.id === Number(event.target.value)); setTeamId(Number(event.target.value)); setHose(next?.hoses[0] ?? ""); }} className="ml-2 rounded border border-line px-2 py-1">
+        <select value={team?.id} onChange={(event) => { const next = teams.find((candidate) => candidate.id === Number(event.target.value)); setTeamId(Number(event.target.value)); setHose(next?.hoses[0]?.name ?? ""); }} className="ml-2 rounded border border-line px-2 py-1">
           {teams.map((candidate) => <option key={candidate.id} value={candidate.id}>{candidate.name} ({candidate.size} people)</option>)}
         </select>
       </label>
       {team?.belowMinimum ? <p className="text-danger" data-testid="team-size-flag">{team.name} lists {team.size} people, below the project's minimum team size of {minTeamSize}.</p> : null}
       <label className="block">Hose / station
         <select value={hose} onChange={(event) => setHose(event.target.value)} className="ml-2 rounded border border-line px-2 py-1">
-          {team?.hoses.map((name) => <option key={name}>{name}</option>)}
+          {team?.hoses.map((entry) => <option key={entry.name} value={entry.name}>{entry.label}</option>)}
         </select>
       </label>
       <label className="block">Planned bottom time per dive (min) <input type="number" min={1} max={600} value={bottomTime} onChange={(event) => setBottomTime(event.target.value)} className="ml-2 w-20 rounded border border-line px-2 py-1" /></label>

@@ -1,3 +1,4 @@
+import type { SurveyOrder } from "../../../shared/qa/tvu";
 import { Project, type LengthUnit } from "~/lib/db.server";
 import { projectGrid, type ProjectGrid } from "~/lib/engine/project-geometry.server";
 
@@ -15,6 +16,8 @@ export interface ProjectView {
   lengthUnit: LengthUnit;
   grid: ProjectGrid;
   minTeamSize: number;
+  /** The IHO S-44 order the import offers for a new survey (the project's tolerance). */
+  surveyOrder: SurveyOrder;
   hasWorkLimit: boolean;
   /** IANA name: local days (a reading's day, today) are counted in it. */
   timeZone: string;
@@ -32,6 +35,7 @@ export function presentProject(project: Project): ProjectView {
     lengthUnit: project.lengthUnit,
     grid: projectGrid(project),
     minTeamSize: project.minTeamSize,
+    surveyOrder: project.surveyOrder,
     hasWorkLimit: Boolean(project.workLimitGeoJson),
     timeZone: project.timeZone,
     archivedAt: project.archivedAt ? project.archivedAt.toISOString() : null,

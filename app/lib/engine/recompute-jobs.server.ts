@@ -3,6 +3,7 @@ import { compareFigures, describeFiguresChange, type FiguresSide } from "../../.
 import { unitLabel, type LengthUnit } from "../../../shared/units";
 import { CellResult, ProjectSettingsVersion, Project, RecomputeJob, SurveySnapshot, getSequelize } from "../db.server";
 import { withProjectLock } from "../import/project-lock.server";
+import { getTestHooksEnv } from "../settings/env.server";
 import { currentSettingsVersion, recomputeProjectStatistics } from "./recompute.server";
 import type { ProjectFigures } from "./project-figures";
 
@@ -27,6 +28,8 @@ export const RECOMPUTE_ROUND_MS = 20_000;
 export const RECOMPUTE_MAX_ATTEMPTS = 3;
 export const RECOMPUTE_GIVEN_UP_MESSAGE = `The server stopped during this recompute ${RECOMPUTE_MAX_ATTEMPTS} times, so it is not started again by itself. Nothing of it was stored (a recompute is one transaction): the figures are still those computed before the change. Recompute again; if it stops once more, tell whoever runs the server.`;
 export const RECOMPUTE_RESUMED_STAGE = "waiting to start again";
+/** The stage of a job held by the test setting RECOMPUTE_HOLD_MS (app/lib/settings/env.server.ts). */
+export const RECOMPUTE_HELD_STAGE = "held before computing (test setting)";
 
 /** A job waiting for the project's lock, for the settings version that asked for it; started once the caller's transaction commits. */
 export async function queueRecompute(projectId: number, userId: number | null, settingsVersionId: number, transaction: Transaction): Promise<RecomputeJob> {
@@ -98,6 +101,12 @@ export async function runRecomputeJob(jobId: number, projectId?: number): Promis
         { where: { id: jobId, projectId, state: "queued" } },
       );
       if (claimed !== 1) return null;
+      // A test setting (never in production): the job shows as running for a while before it computes.
+      const holdMs = getTestHooksEnv().recomputeHoldMs;
+      if (holdMs > 0) {
+        await RecomputeJob.update({ stage: RECOMPUTE_HELD_STAGE }, { where: { id: jobId, state: "running" } });
+        await new Promise((resolve) => setTimeout(resolve, holdMs));
+      }
       return getSequelize().transaction(async (transaction) => {
         await Project.findByPk(projectId, { transaction, lock: transaction.LOCK.UPDATE });
         const before = await storedSide(projectId, transaction);

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { verticalBiasSchema, type VerticalBias } from "../../../shared/qa/vertical-bias";
+import type { SurveyOrder } from "../../../shared/qa/tvu";
 import { commitChoicesSchema, importOptionsSchema, type CommitChoices, type ImportOptions } from "./import-options";
 
 /**
@@ -59,6 +60,8 @@ export interface ProjectDefaults {
   crs: string;
   lengthUnit: "us-ft" | "ft" | "m";
   timeZone: string;
+  /** The project's IHO S-44 order: a survey sent without one is judged against it. */
+  surveyOrder: SurveyOrder;
 }
 
 export function importOptionsFromFields(fields: Record<string, string>, defaults: ProjectDefaults): { options: ImportOptions | null; problems: FieldProblem[] } {
@@ -82,7 +85,7 @@ export function importOptionsFromFields(fields: Record<string, string>, defaults
     columns: columns === undefined || columns === null || typeof columns !== "object"
       ? columns
       : Object.fromEntries(Object.entries(columns as Record<string, unknown>).map(([field, header]) => [field, typeof header === "string" && header.trim() === "" ? null : header])),
-    surveyOrder: optionalText(fields.surveyOrder),
+    surveyOrder: optionalText(fields.surveyOrder) ?? defaults.surveyOrder,
     verticalBias,
   });
   if (!parsed.success) issuesToProblems(parsed.error, problems);

@@ -30,8 +30,8 @@ export const importOptionsSchema = z
     /** The length unit of the file's depths and elevations; the project's by default. */
     lengthUnit: lengthUnitSchema,
     columns: columnsSchema.optional(),
-    /** IHO S-44 order the crossings and spikes are judged against. */
-    surveyOrder: surveyOrderSchema.default("1a"),
+    /** IHO S-44 order the crossings and spikes are judged against (the project's, unless the upload names another). */
+    surveyOrder: surveyOrderSchema,
     /** The most the survey's vertical reference may be off (95 %), with its unit and source; null when none is given. */
     verticalBias: verticalBiasSchema.nullable().optional(),
   })

@@ -23,7 +23,7 @@ export async function receivePageUpload(request: Request, project: ProjectView, 
   const refused = await refuseUnreadableFile(staged);
   if (refused) return { ok: false, status: 422, errors: [{ field: "file", message: refused }] };
   if (!file) return { ok: false, status: 400, errors: [{ field: "file", message: "Choose a CSV file to upload." }] };
-  const { options, problems } = importOptionsFromFields(fields, { crs: project.crs, lengthUnit: project.lengthUnit, timeZone: project.timeZone || DEFAULT_TIME_ZONE });
+  const { options, problems } = importOptionsFromFields(fields, { crs: project.crs, lengthUnit: project.lengthUnit, timeZone: project.timeZone || DEFAULT_TIME_ZONE, surveyOrder: project.surveyOrder });
   if (!options) {
     await discardStagedFile(file.path);
     return { ok: false, status: 400, errors: problems };

@@ -107,6 +107,41 @@ export function getStorageEnv(): StorageEnv {
   return parsedStorage;
 }
 
+/**
+ * Settings for tests only. `RECOMPUTE_HOLD_MS` holds every recompute job this long once it is
+ * claimed (running, its stage saying so) before it computes, so a browser test can read the
+ * running state however fast the machine is. It is honoured outside production (Vitest, `npm run
+ * dev`), and in production only on the server `npm test` starts for the browser tests, which sets
+ * `FIRMSAND_TEST_SERVER=1`; anywhere else it is ignored with a warning. Parsed at the first recompute.
+ */
+const testHooksEnvSchema = z.object({
+  NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+  FIRMSAND_TEST_SERVER: flag,
+  RECOMPUTE_HOLD_MS: z.coerce
+    .number({ message: "RECOMPUTE_HOLD_MS must be a number of milliseconds" })
+    .int("RECOMPUTE_HOLD_MS must be a whole number of milliseconds")
+    .min(0, "RECOMPUTE_HOLD_MS cannot be negative")
+    .max(60_000, "RECOMPUTE_HOLD_MS must be at most 60000 (1 minute)")
+    .default(0),
+});
+export interface TestHooksEnv {
+  /** How long a claimed recompute waits before it computes (0: not at all). */
+  recomputeHoldMs: number;
+}
+let parsedTestHooks: TestHooksEnv | undefined;
+
+/** The test-only settings as they apply here (0 wherever they are not honoured). */
+export function getTestHooksEnv(): TestHooksEnv {
+  if (parsedTestHooks) return parsedTestHooks;
+  const value = parseEnvironment(testHooksEnvSchema);
+  const honoured = value.NODE_ENV !== "production" || value.FIRMSAND_TEST_SERVER;
+  if (!honoured && value.RECOMPUTE_HOLD_MS > 0) {
+    process.stderr.write("Firmsand: RECOMPUTE_HOLD_MS is a test setting and is ignored in production (only the browser tests' server, FIRMSAND_TEST_SERVER=1, honours it)\n");
+  }
+  parsedTestHooks = { recomputeHoldMs: honoured ? value.RECOMPUTE_HOLD_MS : 0 };
+  return parsedTestHooks;
+}
+
 /** The app's settings; the database's are db/settings.ts (read by the connection). */
 export type Env = z.infer<typeof envSchema> & { SESSION_SECRET: string; APP_ORIGIN: string };
 
