@@ -307,9 +307,9 @@ export class EngineWorkerPool {
   }
 
   /**
-   * A pay period's figures (`computePeriodFigures`) in a thread. The rasters stay in the request
-   * thread's engine state, so they are copied to the thread (a memory copy, far shorter than the
-   * pass); the figures come back.
+   * A pay period's figures (`computePeriodFigures`) in a thread. The rasters a period reads are in
+   * shared memory since the state job made them (engine-worker.thread.ts, shareWhatPeriodsRead),
+   * so handing them to the thread copies nothing; the figures come back as typed columns.
    */
   async computePeriodFigures(input: PeriodFiguresInput): Promise<PeriodFigures> {
     return (await this.submit<{ period: PeriodFigures }>({ kind: "period", input }, [])).period;
