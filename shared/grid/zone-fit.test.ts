@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import type { Position, ProjectedMultiPolygon } from "./work-limit";
-import { zoneOutsideLimit, zoneOverlapArea } from "./zone-fit";
+import { clipToLimit, zoneOutsideLimit, zoneOverlapArea } from "./zone-fit";
+import { workLimitArea } from "./work-limit";
 
 // Rectangles and an L-shaped limit whose areas are closed forms (computed by hand below); each
 // case is run again shifted by state-plane-sized offsets, where the answer must not change.
@@ -50,5 +51,17 @@ describe("zoneOverlapArea", () => {
     expect(zoneOverlapArea(rectangle(0, 0, 50, 100), rectangle(45, 0, 100, 100))).toBeCloseTo(500, 6);
     expect(zoneOverlapArea(rectangle(0, 0, 50, 100), rectangle(50, 0, 100, 100))).toBeCloseTo(0, 9);
     expect(zoneOverlapArea(move(rectangle(0, 0, 50, 100), 612_345.5, 1_234_567.25), move(rectangle(45, 0, 100, 100), 612_345.5, 1_234_567.25))).toBeCloseTo(500, 4);
+  });
+});
+
+describe("clipToLimit", () => {
+  it("keeps the part of a zone inside the limit, at state plane coordinates too (computed: closed-form rectangle areas)", () => {
+    for (const [dx, dy] of [[0, 0], [612_345.5, 1_234_567.25]]) {
+      // A 60 × 100 block over the L: 60 × 50 below the notch and 10 × 50 beside it (x 40–50) above.
+      const inside = clipToLimit(move(rectangle(40, 0, 100, 100), dx, dy), move(lShape, dx, dy));
+      expect(workLimitArea(inside)).toBeCloseTo(60 * 50 + 10 * 50, 3);
+      expect(zoneOutsideLimit(inside, move(lShape, dx, dy), TOLERANCE)).toBeNull();
+    }
+    expect(clipToLimit(rectangle(200, 200, 300, 300), square100)).toEqual([]);
   });
 });

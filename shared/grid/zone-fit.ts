@@ -83,3 +83,12 @@ export function zoneOverlapArea(first: ProjectedMultiPolygon, second: ProjectedM
   const shared = intersect(featureCollection([multiPolygon(shifted(first, origin)), multiPolygon(shifted(second, origin))]));
   return areaOf(shared?.geometry);
 }
+
+/** The part of `zone` inside `limit` (an empty list when none), in the same coordinates. */
+export function clipToLimit(zone: ProjectedMultiPolygon, limit: ProjectedMultiPolygon): ProjectedMultiPolygon {
+  const origin = limit[0]?.[0]?.[0] ?? [0, 0];
+  const inside = intersect(featureCollection([multiPolygon(shifted(zone, origin)), multiPolygon(shifted(limit, origin))]));
+  if (!inside) return [];
+  const polygons = inside.geometry.type === "Polygon" ? [inside.geometry.coordinates] : inside.geometry.coordinates;
+  return polygons.map((rings) => rings.map((ring) => ring.map(([x, y]) => [x + origin[0], y + origin[1]] as Position)));
+}
