@@ -1,6 +1,7 @@
-import { useRef } from "react";
+import { useRef, useState } from "react";
 import { Form, Link, data, useSearchParams } from "react-router";
 import { ZoneEditor, type EditableZone } from "~/components/zone-editor";
+import { ZoneFileUpload } from "~/components/zone-file-upload";
 import { SETUP_STEP_KEYS } from "../../shared/setup-steps";
 import { CrsCombobox } from "~/components/crs-combobox";
 import { z } from "zod";
@@ -23,6 +24,8 @@ import { RecomputeStatus } from "~/components/recompute-status";
 import { SettingsHistory } from "~/components/settings-history";
 import { WORK_LIMIT_ACCEPT, WORK_LIMIT_MAX_BYTES, type WorkLimitFormat } from "../../shared/grid/work-limit-geojson";
 import { readWorkLimitFile } from "~/lib/geo/work-limit-files.server";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
+import { GridPreview, type TypedGrid } from "~/components/grid-preview";
 import type { Route } from "./+types/projects.$projectId.settings";
 
 // The manager's settings page: one form per section, each saved on its own through the project
@@ -32,7 +35,8 @@ import type { Route } from "./+types/projects.$projectId.settings";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId, "project.configure");
   const [settings, recompute, history] = await Promise.all([getProjectSettings(access.project), getLatestRecompute(access.project), listSettingsVersions(access.project, 20)]);
-  return { settings, recompute, history, canArchive: can(access, "project.archive") };
+  // The CRS's definition, for the grid preview to lay the typed grid out in the browser.
+  return { settings, recompute, history, canArchive: can(access, "project.archive"), crsDefinition: resolveCrsDefinition(settings.crs).definition };
 }
 
 const blankToUndefined = (value: unknown) => (value === "" || value === null ? undefined : value);
@@ -342,6 +346,13 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
 
   const archived = settings.archivedAt !== null;
   const lengthUnitRef = useRef<HTMLSelectElement>(null);
+  // The grid as typed, for the preview (before it is saved).
+  const typedFromSaved = (): TypedGrid => ({ cellSize: String(settings.grid.cellSize), rotationDegrees: String(settings.grid.rotationDegrees), originX: String(settings.grid.originX), originY: String(settings.grid.originY), rasterResolution: String(settings.grid.rasterResolution) });
+  const [typedGrid, setTypedGrid] = useState<TypedGrid>(typedFromSaved);
+  const onGridInput = (form: HTMLFormElement) => {
+    const value = (name: string) => String(new FormData(form).get(name) ?? "");
+    setTypedGrid({ cellSize: value("cellSize"), rotationDegrees: value("rotationDegrees"), originX: value("originX"), originY: value("originY"), rasterResolution: value("rasterResolution") });
+  };
   // Opened from "Set up this project": a way back to the step it came from.
   const [searchParams] = useSearchParams();
   const setupStep = SETUP_STEP_KEYS.find((key) => key === searchParams.get("setup")) ?? null;
@@ -427,7 +438,16 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
       <Section id="grid-heading" title="Grid">
         <ActionMessages notice={noticeFor("grid")} />
         <p className="text-sm" data-testid="cell-count">{settings.cellCount === null ? "No grid until a work limit is set." : <>The grid has <span className="figures">{settings.cellCount.toLocaleString("en-US")}</span> cells.</>}</p>
-        <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-3">
+        {settings.workLimit ? (
+          <div className="mt-3">
+            <GridPreview
+              projectId={settings.id} lengthUnit={settings.lengthUnit} crsDefinition={loaderData.crsDefinition}
+              workLimit={settings.workLimit as unknown as LonLatPolygons} typed={typedGrid} saved={settings.grid}
+              title="The grid as typed"
+            />
+          </div>
+        ) : null}
+        <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-3" onChange={(event) => onGridInput(event.currentTarget)} onReset={() => setTypedGrid(typedFromSaved())}>
           <TextField label={`Cell size (${unit})`} name="cellSize" type="number" step="any" min="0" defaultValue={settings.grid.cellSize} required error={gridErrors.cellSize} />
           <TextField label="Rotation (degrees counter-clockwise from east)" name="rotationDegrees" type="number" step="any" defaultValue={settings.grid.rotationDegrees} error={gridErrors.rotationDegrees} />
           <TextField label={`Raster resolution (${unit})`} name="rasterResolution" type="number" step="any" min="0" defaultValue={settings.grid.rasterResolution} error={gridErrors.rasterResolution} />
@@ -451,6 +471,14 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           zones={settings.zones as unknown as EditableZone[]}
           result={zoneResult}
         />
+        <div className="mt-4">
+          <ZoneFileUpload
+            projectId={settings.id} lengthUnit={settings.lengthUnit} disabled={archived} surveyCount={settings.surveyCount}
+            workLimit={settings.workLimit as unknown as LonLatPolygons | null}
+            existing={settings.zones.map((zone) => zone.name)}
+            result={actionData && (actionData.intent === "zones-file-preview" || actionData.intent === "zones-file-save") ? actionData : null}
+          />
+        </div>
       </Section>
 
       <Section id="tolerances-heading" title="Targets and tolerances">

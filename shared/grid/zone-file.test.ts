@@ -25,7 +25,7 @@ describe("zoneCandidatesOf: one zone per feature or polygon", () => {
       features: [{ type: "Feature", properties: { name: "Buoy" }, geometry: { type: "Point", coordinates: [0, 0] } }, { type: "Feature", properties: {}, geometry: square(0) }],
     });
     expect(candidates.map((candidate) => candidate.source)).toEqual(["feature 2"]);
-    expect(problems).toEqual(['feature 1 ("Buoy") is a Point, not a polygon: a zone is a closed outline.']);
+    expect(problems).toEqual(['Feature 1 ("Buoy") is a Point, not a polygon: a zone is a closed outline.']);
   });
 
   it("splits bare geometry (a DXF's or CSV's outlines) into one zone per polygon, unnamed", () => {

@@ -45,7 +45,7 @@ export function zoneCandidatesOf(geoJson: unknown): { candidates: ZoneFileCandid
       const source = `feature ${index + 1}`;
       const geometry = isRecord(feature) ? feature.geometry : undefined;
       if (!isPolygonal(geometry)) {
-        problems.push(`${source}${isRecord(feature) && nameOf(feature.properties) ? ` ("${nameOf(feature.properties)}")` : ""} is ${isRecord(geometry) ? `a ${String(geometry.type)}` : "without geometry"}, not a polygon: a zone is a closed outline.`);
+        problems.push(`Feature ${index + 1}${isRecord(feature) && nameOf(feature.properties) ? ` ("${nameOf(feature.properties)}")` : ""} is ${isRecord(geometry) ? `a ${String(geometry.type)}` : "without geometry"}, not a polygon: a zone is a closed outline.`);
         return;
       }
       candidates.push({ source, name: nameOf(isRecord(feature) ? feature.properties : undefined), geometry });

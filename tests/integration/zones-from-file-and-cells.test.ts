@@ -62,7 +62,7 @@ describe("zones from a file", () => {
     expect(preview.data.errors).toEqual({});
     const read = preview.data.zonesFile!;
     expect(read.format).toBe("GeoJSON");
-    expect(read.problems).toEqual(['feature 3 ("Buoy") is a Point, not a polygon: a zone is a closed outline.']);
+    expect(read.problems).toEqual(['Feature 3 ("Buoy") is a Point, not a polygon: a zone is a closed outline.']);
     expect(read.zones.map((zone) => [zone.source, zone.name, zone.problems.length])).toEqual([["feature 1", "Vent basin", 0], ["feature 2", null, 0], ["feature 4", "Twisted", 1]]);
     expect(read.zones[2].problems[0]).toMatch(/^Feature 4 \("Twisted"\) polygon 1, ring 1 \(the outline\) crosses itself near vertex \d+\.$/);
     expect(read.zones[0].area).toBeGreaterThan(0);
