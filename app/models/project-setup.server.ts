@@ -238,7 +238,7 @@ function checkZoneOutline(field: string, label: string, geometry: unknown, crs: 
         : "an edge cuts across the limit's boundary";
       problems.push({
         field,
-        message: `${label} must lie inside the work limit: about ${Math.round(outside.areaOutside).toLocaleString("en-US")} ${unitLabel(frame.lengthUnit, "area")} of it lies outside (${where}). Move its outline inside the limit.`,
+        message: `${label} must lie inside the work limit: ${Number.isFinite(outside.areaOutside) ? `about ${Math.round(outside.areaOutside).toLocaleString("en-US")} ${unitLabel(frame.lengthUnit, "area")} of it lies outside` : "part of it lies outside"} (${where}). Move its outline inside the limit.`,
       });
       return null;
     }
@@ -628,7 +628,14 @@ export async function createZoneFromCells(
   if (unknown.length > 0) {
     throw new ValidationError({ field: "cells", message: `${unknown.slice(0, 10).join(", ")}${unknown.length > 10 ? ` and ${unknown.length - 10} more` : ""} ${unknown.length === 1 ? "is not a cell" : "are not cells"} of this project's grid (labels such as C7).` });
   }
-  const outline = clipToLimit(cellsOutline(grid, cells), limit);
+  // Squares wholly inside stay squares; along the limit they are cut to it.
+  const union = cellsOutline(grid, cells);
+  let outline: ProjectedMultiPolygon;
+  try {
+    outline = zoneOutsideLimit(union, limit, 0) === null ? union : clipToLimit(union, limit);
+  } catch {
+    throw new ValidationError({ field: "cells", message: "The selected cells could not be cut to the work limit; leave out the cells along its edge and try again." });
+  }
   if (outline.length === 0) throw new ValidationError({ field: "cells", message: "The selected cells lie outside the work limit." });
   const centresOutside = cells.filter((cell) => !isInsideWorkLimit(outline, ...cellCentroid(grid, cell.row, cell.col))).map((cell) => cellLabel(cell.row, cell.col));
   const geometry = { type: "MultiPolygon", coordinates: outline.map((rings) => rings.map((ring) => ring.map(([x, y]) => crs.toLonLat(x, y)))) };

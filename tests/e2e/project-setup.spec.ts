@@ -131,8 +131,8 @@ test("zones from a file of polygons (previewed on the map, named, added) and a z
   await page.keyboard.press("ArrowRight");
   await page.keyboard.press("Shift+ArrowRight");
   await page.keyboard.press("Shift+ArrowRight");
-  await expect.poll(async () => (await page.getByTestId("selected-cells").innerText()).split(", ").length).toBe(3);
   const fromCells = page.getByRole("form", { name: "Make a zone of the selected cells" });
+  await expect.poll(async () => (await fromCells.getByTestId("zone-cells").innerText()).split(", ").length).toBe(3);
   await fromCells.getByLabel("Name of the new zone").fill("Centre strip");
   await fromCells.getByRole("button", { name: "Make a zone of 3 cells" }).click();
   await expect(page.getByTestId("zone-from-cells-answer")).toContainText('Zone "Centre strip" made of 3 cells.');

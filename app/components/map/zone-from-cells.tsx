@@ -36,6 +36,7 @@ export function ZoneFromCells({ projectId, selectedLabels, onMade }: { projectId
       <h3 className="text-base font-semibold">Make a zone of the selected cells</h3>
       <p className="text-muted">The zone is the selected cells' squares, inside the work limit; it goes last in the zones' order, so cells another zone holds stay in that zone.</p>
       <input type="hidden" name="cells" value={selectedLabels.join(",")} />
+      <p className="figures break-words text-muted" data-testid="zone-cells">{count > 0 ? selectedLabels.join(", ") : "Select cells: click, shift-click, or shift-drag a box."}</p>
       <label htmlFor={nameId} className="block font-medium">Name of the new zone</label>
       <input
         id={nameId} name="name" required maxLength={120} value={name} onChange={(event) => setName(event.target.value)}
