@@ -69,7 +69,7 @@ function guideFor(key: SetupStepKey, projectId: number): StepGuide {
       };
     case "zones":
       return {
-        what: "Zones group the cells for progress, quantities and the public map. Draw them on the map or send them through the API; cells in no zone are listed as Unzoned so the rows still add up.",
+        what: "Zones group the cells for progress, quantities and the public map. Draw them on the map, upload a file of outlines, make one of cells selected on the coverage map, or send them through the API; cells in no zone are listed as Unzoned so the rows still add up.",
         links: [{ label: "Open Zones in Settings", to: settings("zones-heading") }],
       };
     case "settings":
