@@ -213,7 +213,7 @@ export function GridPreview({ projectId, lengthUnit, crsDefinition, workLimit, t
                 More than {figure(LARGE_GRID_CELLS)} cells: the map and every recompute slow down with the count, so saving asks you to confirm it.
               </p>
             ) : null}
-            {laid.inLimit === null ? <p className="text-muted">Too many cells to lay out here; the count above is the grid's.</p> : null}
+            {laid.inLimit === null ? <p className="text-muted" data-testid="grid-preview-too-fine">Too many cells or raster nodes to lay out in the browser: the count above is the grid's frame, and the cells are not drawn.</p> : null}
             {drawn && drawn.inView !== null ? (
               <p data-testid="grid-preview-capped">
                 Shown as an image: <span className="figures">{figure(drawn.inView)}</span> cells in view, more than the <span className="figures">{figure(PREVIEW_MAX_DRAWN_CELLS)}</span> drawn as shapes at once. Zoom in to see cells and their labels.

@@ -36,6 +36,16 @@ describe("layPreviewGrid: the grid as typed, before it is saved", () => {
     expect(sampled.inLimitCount!).toBeGreaterThan(0.95 * full.inLimitCount!);
   });
 
+  it("samples no sparser than a node a cell, so every cell wholly inside the limit is counted", () => {
+    // A budget that would ask for every 9th node (4.5 units apart) while cells are 2 units wide.
+    const settings = { cellSize: 2, rotationDegrees: 0, originX: 0, originY: 0, rasterResolution: 0.5 };
+    const full = layPreviewGrid(LIMIT, settings);
+    const sampled = layPreviewGrid(LIMIT, settings, 6_000);
+    expect(sampled.rasterSpacing).toBe(1.5); // computed: the widest odd step within 2 / 0.5 = 4 nodes is 3
+    for (let cell = 0; cell < full.cells; cell++) if (sampled.inLimit![cell]) expect(full.inLimit![cell]).toBe(1);
+    expect(sampled.inLimitCount!).toBeGreaterThan(0.97 * full.inLimitCount!);
+  });
+
   it("a grid too large to lay out in the browser gives its count only", () => {
     const preview = layPreviewGrid(LIMIT, { cellSize: 0.1, rotationDegrees: 0, originX: 0, originY: 0, rasterResolution: 0.1 });
     expect(preview.cells).toBe(4000 * 3000); // computed: 400 / 0.1 × 300 / 0.1

@@ -9,10 +9,11 @@ import { nodeCells, rasterGridFor, workLimitMask } from "./work-limit-mask";
  * the preview shows the cells the figures will be kept for.
  *
  * A fine raster over a large limit is many nodes; past `nodeBudget` the preview samples every
- * k-th node (k odd), whose centres are nodes of the full raster, so a cell it counts is one the
- * engine counts too (it may miss a sliver cell the full raster would catch; `exact` says so).
- * A grid of more than `PREVIEW_MAX_GRID_CELLS` is not laid out at all (`inLimit` null): only
- * its count is given.
+ * k-th node (k odd, and k nodes no wider than a cell), whose centres are nodes of the full raster,
+ * so a cell it counts is one the engine counts too, and every cell wholly inside still holds a
+ * node (it may miss a sliver cell along the limit the full raster would catch; `exact` says so).
+ * A grid of more than `PREVIEW_MAX_GRID_CELLS`, or one that would still need more than
+ * `PREVIEW_MAX_RASTER_NODES` nodes, is not laid out (`inLimit` null): only its count is given.
  */
 export interface PreviewGridSettings {
   cellSize: number;
@@ -39,6 +40,8 @@ export interface PreviewGrid {
 export const PREVIEW_RASTER_NODES = 4_000_000;
 /** Largest grid (columns × rows) laid out in the browser. */
 export const PREVIEW_MAX_GRID_CELLS = 4_000_000;
+/** Most raster nodes sampled when the budget would leave cells without a node. */
+export const PREVIEW_MAX_RASTER_NODES = 8_000_000;
 
 export function layPreviewGrid(limit: ProjectedMultiPolygon, settings: PreviewGridSettings, nodeBudget = PREVIEW_RASTER_NODES): PreviewGrid {
   const grid = createCellGrid(limit, settings);
@@ -48,6 +51,11 @@ export function layPreviewGrid(limit: ProjectedMultiPolygon, settings: PreviewGr
   const nodes = full.cols * full.rows;
   let step = Math.max(1, Math.ceil(Math.sqrt(nodes / nodeBudget)));
   if (step % 2 === 0) step++;
+  // Never sparser than a node a cell: the widest odd step within the cell size.
+  let widest = Math.max(1, Math.floor(settings.cellSize / settings.rasterResolution + 1e-9));
+  if (widest % 2 === 0) widest--;
+  step = Math.min(step, widest);
+  if (nodes / (step * step) > PREVIEW_MAX_RASTER_NODES) return { grid, cells, inLimit: null, inLimitCount: null, rasterSpacing: settings.rasterResolution * step, exact: false };
   const raster = step === 1 ? full : rasterGridFor(limit, grid, settings.rasterResolution * step);
   const nodeCell = nodeCells(grid, raster, workLimitMask(limit, raster));
   const inLimit = new Uint8Array(cells);
