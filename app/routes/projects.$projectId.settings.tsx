@@ -234,11 +234,11 @@ export async function action({ request, params }: Route.ActionArgs) {
       }
       case "zone-from-cells": {
         const cells = input.cells.split(",").map((label) => label.trim()).filter(Boolean);
-        const { settings, recompute, overlaps, centresOutside } = await createZoneFromCells(project, user, { name: input.name, colour: input.colour, cells }, { ip });
+        const { settings, recompute, overlaps, centresOutside, cells: made } = await createZoneFromCells(project, user, { name: input.name, colour: input.colour, cells }, { ip });
         const outside = centresOutside.length > 0
           ? ` ${centresOutside.join(", ")} ${centresOutside.length === 1 ? "has its" : "have their"} centre outside the work limit: a zone holds a cell by its centre, so ${centresOutside.length === 1 ? "it stays" : "they stay"} where ${centresOutside.length === 1 ? "it was" : "they were"} (Unzoned or another zone).`
           : "";
-        return answered({ intent: input.intent, errors: {}, notice: `Zone "${input.name.trim()}" made of ${cells.length} ${cells.length === 1 ? "cell" : "cells"}.${outside}${zoneChangeWords(settings.lengthUnit, overlaps, recompute)}` });
+        return answered({ intent: input.intent, errors: {}, notice: `Zone "${input.name.trim()}" made of ${made} ${made === 1 ? "cell" : "cells"}.${outside}${zoneChangeWords(settings.lengthUnit, overlaps, recompute)}` });
       }
       case "zone-save":
       case "zone-delete":
