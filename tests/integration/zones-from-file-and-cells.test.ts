@@ -1,14 +1,21 @@
+import { mkdtempSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeSequelize } from "../../db/connection.server";
-import { WORK_LIMIT, ZONES } from "../../sample-data/scenario";
-import { AuditEvent, Project, ProjectSettingsVersion, Zone } from "~/lib/db.server";
+import { SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
+import { AuditEvent, CellResult, Project, ProjectSettingsVersion, Zone } from "~/lib/db.server";
+import { createApiToken } from "~/lib/auth/api-token.server";
+import { findProject, presentProject } from "~/lib/auth/project-view.server";
+import { loadProgress } from "~/models/progress.server";
 import { projectGrid } from "~/lib/engine/project-geometry.server";
-import { createProject } from "~/models/project-setup.server";
+import { createProject, createZoneFromCells } from "~/models/project-setup.server";
 import * as settingsPage from "~/routes/projects.$projectId.settings";
-import { cellCentroid, cellIndex, cellLabel, cellRowCol, createCellGrid } from "../../shared/grid/cell-grid";
+import { cellCentroid, cellIndex, cellLabel, cellRowCol, createCellGrid, parseCellLabel } from "../../shared/grid/cell-grid";
 import { isInsideWorkLimit, type Position, type ProjectedMultiPolygon } from "../../shared/grid/work-limit";
 import { zoneCells } from "../../shared/volumes/rollup";
-import { projectCrs } from "./import-helpers";
+import { importDemoSurveys, projectCrs } from "./import-helpers";
+import { finishedRecompute } from "./recompute-helpers";
 import { makeUser, requestAs } from "./helpers";
 
 // Zones from a file of polygons and from cells selected on the map: both through the settings
@@ -16,6 +23,7 @@ import { makeUser, requestAs } from "./helpers";
 // entry as a zone drawn on the map), so every cell inside the work limit stays in exactly one
 // zone or Unzoned.
 
+process.env.UPLOAD_DIR = mkdtempSync(join(tmpdir(), "firmsand-zones-from-cells-"));
 afterAll(closeSequelize);
 
 let manager: Awaited<ReturnType<typeof makeUser>>;
@@ -191,4 +199,54 @@ describe("a zone made of cells selected on the map", () => {
     expect(taken.data.errors.name).toBe('Zone "upper run" is named twice.');
     expect(await zoneRows()).toEqual(before);
   });
+});
+
+describe("a zone made of cells on a project with a survey", () => {
+  let surveyed: number;
+  let surveyor: Awaited<ReturnType<typeof makeUser>>;
+
+  beforeAll(async () => {
+    surveyor = await makeUser("zone-cells-manager", { isSiteAdmin: true });
+    surveyed = (await createProject(surveyor, {
+      name: `Zones from cells, surveyed ${Date.now().toString(36)}`, crs: "EPSG:2237", lengthUnit: "us-ft", timeZone: "America/New_York",
+      workLimit: WORK_LIMIT, grid: { cellSize: 20 }, zones: [{ name: "Upper run", geometry: upper }],
+    })).id;
+    await importDemoSurveys(surveyed, surveyor.id, SURVEYS.filter((survey) => survey.key === "baseline"));
+  }, 120_000);
+
+  it("recomputes like any zone edit: the engine puts exactly the chosen cells in the new zone, every cell in one zone or Unzoned, and the zone rows add up to the project", async () => {
+    const view = presentProject((await findProject(surveyed))!);
+    const cells = await CellResult.findAll({ where: { projectId: surveyed }, attributes: ["label", "zoneId", "areaInLimit"] });
+    const upperId = (await Zone.findOne({ where: { projectId: surveyed, name: "Upper run" } }))!.id;
+    // Four cells no zone holds yet, whole squares inside the limit (they keep their centre inside).
+    const { cellGrid, limit } = await (async () => {
+      const project = (await Project.findByPk(surveyed))!;
+      const crs = projectCrs();
+      const projected: ProjectedMultiPolygon = [WORK_LIMIT.coordinates.map((ring) => ring.map(([lon, lat]) => crs.fromLonLat(lon, lat) as Position))];
+      return { cellGrid: createCellGrid(projected, projectGrid(project)), limit: projected };
+    })();
+    const whole = (label: string) => {
+      const { row, col } = parseCellLabel(label)!;
+      return [[0, 0], [1, 0], [1, 1], [0, 1]].every(([du, dv]) => isInsideWorkLimit(limit, ...cellCentroid(cellGrid, row - 0.5 + dv, col - 0.5 + du)));
+    };
+    const chosen = cells.filter((cell) => cell.zoneId === null && whole(cell.label)).slice(0, 4).map((cell) => cell.label);
+    expect(chosen).toHaveLength(4);
+    const made = await createZoneFromCells(view, surveyor, { name: "Four cells", cells: chosen });
+    expect(made.recompute).not.toBeNull();
+    await finishedRecompute((await createApiToken(surveyor, "tests")).token, surveyed, made.recompute!.jobId);
+    const fourId = (await Zone.findOne({ where: { projectId: surveyed, name: "Four cells" } }))!.id;
+    const after = await CellResult.findAll({ where: { projectId: surveyed }, attributes: ["label", "zoneId", "areaInLimit"] });
+    expect(after.filter((cell) => cell.zoneId === fourId).map((cell) => cell.label).sort()).toEqual([...chosen].sort());
+    // The rest kept their zone: the upper run's cells, and Unzoned for the others.
+    const before = new Map(cells.map((cell) => [cell.label, cell.zoneId]));
+    for (const cell of after) if (!chosen.includes(cell.label)) expect(cell.zoneId, cell.label).toBe(before.get(cell.label));
+    expect(after.some((cell) => cell.zoneId === upperId)).toBe(true);
+    // invariant: the zone rows (Unzoned among them) add up to the project, to the cent of a cubic yard.
+    const progress = await loadProgress(view);
+    const sum = (key: "cells" | "plannedVolume" | "remainingVolume") => progress.zones.reduce((total, zone) => total + (zone[key] as number), 0);
+    expect(sum("cells")).toBe(progress.total.cells);
+    expect(Math.abs(sum("plannedVolume") - (progress.total.plannedVolume as number))).toBeLessThan(0.005);
+    expect(Math.abs(sum("remainingVolume") - (progress.total.remainingVolume as number))).toBeLessThan(0.005);
+    expect(progress.zones.map((zone) => zone.name)).toEqual(["Upper run", "Four cells", "Unzoned"]);
+  }, 120_000);
 });
