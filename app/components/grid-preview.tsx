@@ -29,8 +29,8 @@ export interface SavedGrid {
 
 /** At most this many cell shapes (and labels) are drawn at once; past it the page says so. */
 export const PREVIEW_MAX_DRAWN_CELLS = 3_000;
-/** A cell label (a few mono characters at 10 px) needs the cell this wide on screen to be read. */
-const LABEL_PIXELS = 40;
+/** A cell label (four or five mono characters at 10 px) needs the cell this wide on screen to be read. */
+const LABEL_PIXELS = 32;
 /** Cell outlines are drawn from this many pixels a cell; below it they would fill the cell. */
 const OUTLINE_PIXELS = 5;
 const LARGE_GRID_CELLS = 200_000;
@@ -128,7 +128,8 @@ export function GridPreview({ projectId, lengthUnit, crsDefinition, workLimit, t
     if (!ready || !map || !preview || "error" in preview) return;
     const { grid, data } = preview;
     const cellMetres = grid.grid.cellSize * METRES_PER_UNIT[lengthUnit];
-    const labelZoom = zoomForCellPixels(cellMetres, latitude, LABEL_PIXELS);
+    // Cells too small to label before the closest zoom are labelled there, where the labels fit (MapLibre drops those that would overlap).
+    const labelZoom = Math.min(zoomForCellPixels(cellMetres, latitude, LABEL_PIXELS), map.getMaxZoom());
     // The style's cell layers, as the map page has them, shown for a grid not yet saved.
     map.setPaintProperty("cells-fill", "fill-color", PREVIEW_FILL);
     map.setPaintProperty("cells-fill", "fill-opacity", 0.45);
