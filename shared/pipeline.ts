@@ -1,7 +1,9 @@
 import { z } from "zod";
 import { createCellGrid, type CellGrid } from "./grid/cell-grid";
 import { workLimitBounds, type ProjectedMultiPolygon } from "./grid/work-limit";
-import { cellAreasInWorkLimit, nodeCells, workLimitMask } from "./grid/work-limit-mask";
+import { cellAreasInWorkLimit, nodeCells, rasterGridFor, workLimitMask } from "./grid/work-limit-mask";
+
+export { rasterGridFor };
 import { createRasterValues, rasterizeTinInto, type Raster, type RasterGrid, type RasterPrecision, type RasterValues } from "./surface/raster";
 import { finiteAlike, hullRing, triangulate, triangulateLayers, type Tin } from "./surface/triangulate";
 import { computeCellStats, type CellStats, type CellStatusRules } from "./volumes/cell-stats";
@@ -117,24 +119,6 @@ export function triangulateSurveys(surveys: EngineSurveys, maxEdge: number, onPr
 export function firmSharesBaselinePositions(surveys: EngineSurveys): boolean {
   const { baseline, firm } = surveys;
   return firm.easting === baseline.easting && firm.northing === baseline.northing && finiteAlike(baseline.elevation, firm.elevation);
-}
-
-/** The raster grid over the limit, aligned with the cell grid when it is not rotated so pixels do not straddle cell lines. */
-export function rasterGridFor(workLimit: ProjectedMultiPolygon, cellGrid: CellGrid, resolution: number): RasterGrid {
-  const bounds = workLimitBounds(workLimit);
-  const anchorX = cellGrid.rotationDegrees === 0 ? cellGrid.originX : bounds.minX;
-  const anchorY = cellGrid.rotationDegrees === 0 ? cellGrid.originY : bounds.minY;
-  const firstCol = Math.floor((bounds.minX - anchorX) / resolution + 1e-9);
-  const firstRow = Math.floor((bounds.minY - anchorY) / resolution + 1e-9);
-  const lastCol = Math.ceil((bounds.maxX - anchorX) / resolution - 1e-9);
-  const lastRow = Math.ceil((bounds.maxY - anchorY) / resolution - 1e-9);
-  return {
-    originX: anchorX + firstCol * resolution,
-    originY: anchorY + firstRow * resolution,
-    spacing: resolution,
-    cols: Math.max(1, lastCol - firstCol),
-    rows: Math.max(1, lastRow - firstRow),
-  };
 }
 
 /** One TIN onto the shared raster, clipped to the work limit. */

@@ -1,14 +1,16 @@
 import { Op, type Transaction } from "sequelize";
 import { z } from "zod";
 import { createCrs, type Crs } from "../../shared/crs";
-import { cellCount, createCellGrid, defaultGridOrigin } from "../../shared/grid/cell-grid";
+import { cellCentroid, cellCount, cellIndex, cellLabel, createCellGrid, defaultGridOrigin, parseCellLabel } from "../../shared/grid/cell-grid";
+import { cellsOutline } from "../../shared/grid/cell-union";
+import type { ZoneFileCandidate } from "../../shared/grid/zone-file";
 import { parseWorkLimitGeoJson } from "../../shared/grid/work-limit-geojson";
 import { describeArea, firstVertexOutside } from "../../shared/grid/area-of-use";
 import type { LonLatBounds } from "../../shared/soundings/row-checks";
-import type { ProjectedMultiPolygon } from "../../shared/grid/work-limit";
+import { isInsideWorkLimit, type ProjectedMultiPolygon } from "../../shared/grid/work-limit";
 import { defaultsFor, unitLabel } from "../../shared/units";
 import { SURVEY_ORDERS, type SurveyOrder } from "../../shared/qa/tvu";
-import { zoneOutsideLimit, zoneOverlapArea } from "../../shared/grid/zone-fit";
+import { clipToLimit, zoneOutsideLimit, zoneOverlapArea } from "../../shared/grid/zone-fit";
 import { ZONE_COLOURS, defaultZoneColour, isZoneColour, zoneColourName } from "../../shared/zone-colours";
 import { emergencyInfoSchema, isEmergencyInfoEmpty, type EmergencyInfo } from "../../shared/dive-plan/emergency-info";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
@@ -22,7 +24,7 @@ import { findRecomputeJob, latestRecomputeJob, presentRecomputeJob, queueRecompu
 import { lengthUnitOfCrs, resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import { isTimeZone } from "~/lib/import/import-options";
 import { withProjectLock } from "~/lib/import/project-lock.server";
-import { ConflictError, ForbiddenError, NotFoundError, ValidationError, type ErrorDetail } from "~/lib/errors";
+import { ConflictError, ForbiddenError, NotFoundError, ValidationError, validationErrorFrom, type ErrorDetail } from "~/lib/errors";
 
 /**
  * Setting a project up and changing its settings: the one service the API, the settings page,
@@ -228,10 +230,31 @@ interface ZoneFrame {
   lengthUnit: LengthUnit;
 }
 
+/**
+ * One zone's outline read and checked (shape, area of use, inside the work limit); each problem
+ * goes to `field`, worded with `label` (e.g. `Zone "North cove"`, `Feature 3 ("North cove")`).
+ */
+function checkZoneOutline(field: string, label: string, geometry: unknown, crs: CheckedCrs, frame: ZoneFrame, problems: ErrorDetail[]) {
+  const parsed = checkGeometry(field, label, geometry, crs, problems);
+  if (parsed && frame.limit) {
+    const outside = zoneOutsideLimit(parsed.projected, frame.limit, ZONE_OUTSIDE_CELL_SHARE * frame.cellSize * frame.cellSize);
+    if (outside) {
+      const where = outside.vertex
+        ? `polygon ${outside.vertex.polygon}, ring ${outside.vertex.ring}, vertex ${outside.vertex.vertex} lies outside it`
+        : "an edge cuts across the limit's boundary";
+      problems.push({
+        field,
+        message: `${label} must lie inside the work limit: ${Number.isFinite(outside.areaOutside) ? `about ${Math.round(outside.areaOutside).toLocaleString("en-US")} ${unitLabel(frame.lengthUnit, "area")} of it lies outside` : "part of it lies outside"} (${where}). Move its outline inside the limit.`,
+      });
+      return null;
+    }
+  }
+  return parsed;
+}
+
 function checkZones(zones: Array<{ id?: number; name: string; colour?: string; geometry: unknown }>, crs: CheckedCrs, frame: ZoneFrame, problems: ErrorDetail[]) {
   const seen = new Set<string>();
   const ids = new Set<number>();
-  const areaUnit = unitLabel(frame.lengthUnit, "area");
   return zones.map((zone, index) => {
     const key = zone.name.toLowerCase();
     if (seen.has(key)) problems.push({ field: `zones.${index}.name`, message: `Zone "${zone.name}" is named twice.` });
@@ -240,20 +263,7 @@ function checkZones(zones: Array<{ id?: number; name: string; colour?: string; g
       if (ids.has(zone.id)) problems.push({ field: `zones.${index}.id`, message: `Zone "${zone.name}": zone id ${zone.id} is given twice.` });
       ids.add(zone.id);
     }
-    const parsed = checkGeometry(`zones.${index}.geometry`, `Zone "${zone.name}"`, zone.geometry, crs, problems);
-    if (parsed && frame.limit) {
-      const outside = zoneOutsideLimit(parsed.projected, frame.limit, ZONE_OUTSIDE_CELL_SHARE * frame.cellSize * frame.cellSize);
-      if (outside) {
-        const where = outside.vertex
-          ? `polygon ${outside.vertex.polygon}, ring ${outside.vertex.ring}, vertex ${outside.vertex.vertex} lies outside it`
-          : "an edge cuts across the limit's boundary";
-        problems.push({
-          field: `zones.${index}.geometry`,
-          message: `Zone "${zone.name}" must lie inside the work limit: about ${Math.round(outside.areaOutside).toLocaleString("en-US")} ${areaUnit} of it lies outside (${where}). Move its outline inside the limit.`,
-        });
-        return null;
-      }
-    }
+    const parsed = checkZoneOutline(`zones.${index}.geometry`, `Zone "${zone.name}"`, zone.geometry, crs, frame, problems);
     return parsed && { id: zone.id, name: zone.name, sortOrder: index + 1, colour: zone.colour, lonLat: parsed.lonLat, projected: parsed.projected };
   });
 }
@@ -548,6 +558,100 @@ export async function prospectiveCellCount(project: ProjectView, grid: NonNullab
   const cellSize = grid.cellSize ?? stored.cellSize;
   if (!(cellSize > 0)) return null;
   return cellCount(createCellGrid(limit, { cellSize, rotationDegrees: grid.rotationDegrees ?? stored.rotationDegrees, originX: grid.originX ?? stored.originX, originY: grid.originY ?? stored.originY }));
+}
+
+/** A zone read from a file, checked as a zone of this project would be, before anything is stored. */
+export interface ZoneFilePreview {
+  /** Where it is in the file ("feature 3", "polygon 2"). */
+  source: string;
+  /** From the file's name or zone property; null when the file gives none (the page asks). */
+  name: string | null;
+  /** Lon/lat, as stored; null when refused. */
+  lonLat: { type: "Polygon" | "MultiPolygon"; coordinates: unknown } | null;
+  /** Plan area, square project units; null when refused. */
+  area: number | null;
+  /** Each problem, naming the feature and the rule. */
+  problems: string[];
+}
+
+/**
+ * The zones a file would give (one per feature or polygon, shared/grid/zone-file.ts), each
+ * checked by the one zone check against the stored work limit and cell size: shape, area of use,
+ * inside the limit. Nothing is stored; a ValidationError when the file holds no zone at all.
+ */
+export async function previewZoneFile(project: ProjectView, candidates: ZoneFileCandidate[]): Promise<ZoneFilePreview[]> {
+  const row = await Project.findByPk(project.id);
+  if (!row) throw new NotFoundError("There is no such project.");
+  const problems: ErrorDetail[] = [];
+  const checked = checkCrs(row.crs, row.lengthUnit, problems);
+  if (!checked) throw new ValidationError(problems);
+  const frame: ZoneFrame = { limit: projectedLimit(checked.crs, row.workLimitGeoJson), cellSize: row.cellSize, lengthUnit: row.lengthUnit };
+  if (!frame.limit) throw new ValidationError({ field: "zonesFile", message: "Zones lie inside the work limit: set the work limit first." });
+  return candidates.map((candidate) => {
+    const own: ErrorDetail[] = [];
+    const label = `${candidate.source[0].toUpperCase()}${candidate.source.slice(1)}${candidate.name ? ` ("${candidate.name}")` : ""}`;
+    const parsed = checkZoneOutline("zonesFile", label, candidate.geometry, checked, frame, own);
+    return { source: candidate.source, name: candidate.name, lonLat: parsed ? parsed.lonLat : null, area: parsed ? parsed.area : null, problems: own.map((problem) => problem.message) };
+  });
+}
+
+/**
+ * Zones from a file saved through the same change as any zone edit (checks, settings version,
+ * recompute, audit): `replace` makes them the project's zones (a zone of the same name keeps its
+ * id and what refers to it), `add` puts them after the zones there are.
+ */
+export async function saveZonesFromFile(
+  project: ProjectView, actor: UserView, input: { mode: "add" | "replace"; zones: Array<{ name: string; geometry: unknown }> }, options: { ip?: string | null } = {},
+) {
+  const current = input.mode === "add" ? (await getProjectSettings(project)).zones.map((zone) => ({ id: zone.id, name: zone.name, colour: zone.colour, geometry: zone.geometry })) : [];
+  const patch = projectPatchSchema.safeParse({ zones: [...current, ...input.zones] });
+  if (!patch.success) throw validationErrorFrom(patch.error);
+  return updateProjectSettings(project, actor, patch.data, options);
+}
+
+/**
+ * A zone made of grid cells (the selection on the map): the union of the cells' squares, clipped
+ * to the work limit (a zone lies inside it), added after the project's zones through the same
+ * change as any zone edit. A cell whose centre lies outside the work limit is drawn in but
+ * cannot be held by the zone (a zone holds a cell by its centre): `centresOutside` names them.
+ */
+export async function createZoneFromCells(
+  project: ProjectView, actor: UserView, input: { name: string; colour?: string; cells: string[] }, options: { ip?: string | null } = {},
+) {
+  const row = await Project.findByPk(project.id);
+  if (!row) throw new NotFoundError("There is no such project.");
+  const crs = createCrs(resolveCrsDefinition(row.crs).definition);
+  const limit = projectedLimit(crs, row.workLimitGeoJson);
+  if (!limit) throw new ValidationError({ field: "cells", message: "The project has no work limit, so it has no cells yet." });
+  const grid = createCellGrid(limit, projectGrid(row));
+  const labels = [...new Set(input.cells.map((label) => label.trim().toUpperCase()).filter((label) => label !== ""))];
+  if (labels.length === 0) throw new ValidationError({ field: "cells", message: "Select the zone's cells on the map first." });
+  const cells: Array<{ row: number; col: number }> = [];
+  const unknown: string[] = [];
+  for (const label of labels) {
+    const cell = parseCellLabel(label);
+    if (!cell || cellIndex(grid, cell.row, cell.col) < 0) unknown.push(label);
+    else cells.push(cell);
+  }
+  if (unknown.length > 0) {
+    throw new ValidationError({ field: "cells", message: `${unknown.slice(0, 10).join(", ")}${unknown.length > 10 ? ` and ${unknown.length - 10} more` : ""} ${unknown.length === 1 ? "is not a cell" : "are not cells"} of this project's grid (labels such as C7).` });
+  }
+  // Squares wholly inside stay squares; along the limit they are cut to it.
+  const union = cellsOutline(grid, cells);
+  let outline: ProjectedMultiPolygon;
+  try {
+    outline = zoneOutsideLimit(union, limit, 0) === null ? union : clipToLimit(union, limit);
+  } catch {
+    throw new ValidationError({ field: "cells", message: "The selected cells could not be cut to the work limit; leave out the cells along its edge and try again." });
+  }
+  if (outline.length === 0) throw new ValidationError({ field: "cells", message: "The selected cells lie outside the work limit." });
+  const centresOutside = cells.filter((cell) => !isInsideWorkLimit(outline, ...cellCentroid(grid, cell.row, cell.col))).map((cell) => cellLabel(cell.row, cell.col));
+  const geometry = { type: "MultiPolygon", coordinates: outline.map((rings) => rings.map((ring) => ring.map(([x, y]) => crs.toLonLat(x, y)))) };
+  const { zones } = await getProjectSettings(project);
+  const patch = projectPatchSchema.safeParse({ zones: [...zones.map((zone) => ({ id: zone.id, name: zone.name, colour: zone.colour, geometry: zone.geometry })), { name: input.name, colour: input.colour, geometry }] });
+  if (!patch.success) throw validationErrorFrom(patch.error);
+  const result = await updateProjectSettings(project, actor, patch.data, options);
+  return { ...result, cells: cells.length, centresOutside };
 }
 
 // ——— Changing.

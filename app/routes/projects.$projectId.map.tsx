@@ -4,6 +4,7 @@ import { data, Link, useLocation } from "react-router";
 import { createCrs } from "../../shared/crs";
 import { CELL_STATUSES } from "../../shared/cell-status";
 import { AssignPanel } from "~/components/map/assign-panel";
+import { ZoneFromCells } from "~/components/map/zone-from-cells";
 import { CellInspector } from "~/components/map/cell-inspector";
 import { cellCentreLonLat, labelIndex, type CellsData } from "~/components/map/cell-features";
 import { cellIndexAtLonLat } from "~/components/map/cell-image";
@@ -60,6 +61,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     hasSurveys: surveys.length > 0,
     canImport: can(access, "surveys.import"),
     canConfigure: can(access, "map.configure"),
+    // Zones are the project's settings: a zone made of selected cells is for those who configure it.
+    canMakeZones: can(access, "project.configure"),
     shoreline,
     shorelineMaxBytes: SHORELINE_MAX_BYTES,
     // Lon/lat, as stored: the browser clips the cells along it.
@@ -417,6 +420,12 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
     setFlyTo({ lonLat: cellCentreLonLat(data, index), serial: Date.now() });
   }
 
+  // A zone made here: the zones are read again (the map's outlines, the legend, the cells' zones).
+  const zonesStamp = loaderData.zones.map((zone) => `${zone.id}:${zone.name}`).join("|");
+  const onZoneMade = useCallback(() => {
+    loadCells().catch(() => undefined);
+  }, [loadCells]);
+
   const confirmedCode = CELL_STATUSES.indexOf("confirmed");
   const confirmedLabels = data ? [...selected].filter((index) => data.status[index] === confirmedCode).map((index) => labelOf.get(index)!).sort() : [];
   const focusLabel = focus === null ? null : labelOf.get(focus) ?? null;
@@ -534,6 +543,7 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
             onPointer={setPointer}
             onBearing={setBearing}
             shorelineStamp={loaderData.shoreline?.uploadedAt ?? "none"}
+            zonesStamp={zonesStamp}
             workLimit={loaderData.workLimit}
             extent={extent}
             initialCamera={initialCamera.current}
@@ -589,6 +599,9 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
             <p className="text-sm text-muted">Your role can read the map; dive supervisors and managers assign cells.</p>
           )}
         </div>
+        {loaderData.canMakeZones ? (
+          <ZoneFromCells projectId={projectId} selectedLabels={selectedLabels} onMade={onZoneMade} />
+        ) : null}
         <div ref={monitoringRef}>
           <MonitoringPanel
             monitoring={monitoring}

@@ -1,10 +1,11 @@
-import { useRef } from "react";
+import { useRef, useState } from "react";
 import { Form, Link, data, useSearchParams } from "react-router";
 import { ZoneEditor, type EditableZone } from "~/components/zone-editor";
+import { ZoneFileUpload } from "~/components/zone-file-upload";
 import { SETUP_STEP_KEYS } from "../../shared/setup-steps";
 import { CrsCombobox } from "~/components/crs-combobox";
 import { z } from "zod";
-import { lengthUnitSchema, unitLabel } from "../../shared/units";
+import { lengthUnitSchema, unitLabel, type LengthUnit } from "../../shared/units";
 import { ActionMessages } from "~/components/form-message";
 import { SubmitButton } from "~/components/submit-button";
 import { TextField } from "~/components/text-field";
@@ -19,11 +20,14 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
 import { readFileForm } from "~/lib/http/body.server";
 import { fieldErrorsFrom, parseForm, type FieldErrors } from "~/lib/http/form";
-import { getLatestRecompute, getProjectSettings, LARGE_GRID_CELLS, listSettingsVersions, previewWorkLimit, projectPatchSchema, prospectiveCellCount, recomputeProjectFigures, updateProjectSettings, type ProjectPatch } from "~/models/project-setup.server";
+import { createZoneFromCells, getLatestRecompute, getProjectSettings, LARGE_GRID_CELLS, listSettingsVersions, previewWorkLimit, previewZoneFile, projectPatchSchema, prospectiveCellCount, recomputeProjectFigures, saveZonesFromFile, updateProjectSettings, type ProjectPatch, type ZoneFilePreview } from "~/models/project-setup.server";
+import { zoneCandidatesOf } from "../../shared/grid/zone-file";
 import { RecomputeStatus } from "~/components/recompute-status";
 import { SettingsHistory } from "~/components/settings-history";
 import { WORK_LIMIT_ACCEPT, WORK_LIMIT_MAX_BYTES, type WorkLimitFormat } from "../../shared/grid/work-limit-geojson";
 import { readWorkLimitFile } from "~/lib/geo/work-limit-files.server";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
+import { GridPreview, type TypedGrid } from "~/components/grid-preview";
 import type { Route } from "./+types/projects.$projectId.settings";
 
 // The manager's settings page: one form per section, each saved on its own through the project
@@ -33,7 +37,8 @@ import type { Route } from "./+types/projects.$projectId.settings";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId, "project.configure");
   const [settings, recompute, history] = await Promise.all([getProjectSettings(access.project), getLatestRecompute(access.project), listSettingsVersions(access.project, 20)]);
-  return { settings, recompute, history, canArchive: can(access, "project.archive") };
+  // The CRS's definition, for the grid preview to lay the typed grid out in the browser.
+  return { settings, recompute, history, canArchive: can(access, "project.archive"), crsDefinition: resolveCrsDefinition(settings.crs).definition };
 }
 
 const blankToUndefined = (value: unknown) => (value === "" || value === null ? undefined : value);
@@ -83,6 +88,12 @@ const actionSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("zone-delete"), zoneId: z.coerce.number().int().positive() }),
   // A zone one place earlier or later in the order (where zones overlap, the shared cells count in the earlier one).
   z.object({ intent: z.literal("zone-move"), zoneId: z.coerce.number().int().positive(), direction: z.enum(["up", "down"], { error: "Move a zone up or down" }) }),
+  // A file of zones read and checked, shown on the map before it is saved.
+  z.object({ intent: z.literal("zones-file-preview"), file: z.instanceof(File, { error: "Choose the zones' file" }) }),
+  // The previewed zones saved, named, added to the zones there are or replacing them.
+  z.object({ intent: z.literal("zones-file-save"), mode: z.enum(["add", "replace"], { error: "Choose whether the file's zones are added or replace the zones" }), zones: z.string().min(1, "Preview the file first") }),
+  // A zone made of the cells selected on the map (labels separated by commas).
+  z.object({ intent: z.literal("zone-from-cells"), name: z.string(), cells: z.string(), colour: z.preprocess(blankToUndefined, z.string().optional()) }),
   // Every survey's figures again with the settings in force (after a recompute failed or was given up).
   z.object({ intent: z.literal("recompute") }),
   z.object({ intent: z.literal("finds"), cataloguePrefix: z.string(), holdRadiusM: number, holdRadiusSource: z.string() }),
@@ -109,7 +120,25 @@ interface WorkLimitPreview {
   cellCount: number;
 }
 
-type ActionResult = { intent: string; errors: FieldErrors; notice: string | null; preview?: WorkLimitPreview; largeGrid?: number };
+/** A file of zones as read: each zone with its outline (lon/lat) or its problems. */
+export interface ZonesFilePreview {
+  fileName: string;
+  format: WorkLimitFormat;
+  note: string | null;
+  /** Problems of the file as a whole (features that are not polygons). */
+  problems: string[];
+  zones: ZoneFilePreview[];
+}
+
+type ActionResult = { intent: string; errors: FieldErrors; notice: string | null; preview?: WorkLimitPreview; largeGrid?: number; zonesFile?: ZonesFilePreview; problems?: string[] };
+
+const savedZonesSchema = z.array(z.object({ source: z.string(), name: z.string(), geometry: z.unknown() })).min(1).max(100);
+
+/** What a zone change said: overlaps (the earlier zone keeps the shared cells) and the recompute. */
+function zoneChangeWords(lengthUnit: LengthUnit, overlaps: Array<{ first: string; second: string; area: number }>, recompute: unknown): string {
+  const shared = overlaps.map((overlap) => ` "${overlap.second}" overlaps "${overlap.first}" by about ${Math.round(overlap.area).toLocaleString("en-US")} ${unitLabel(lengthUnit, "area")}: the cells they share count in "${overlap.first}", the earlier zone.`).join("");
+  return `${shared}${recompute ? " Every survey's figures are being recomputed: the progress is shown at the top of the page." : ""}`;
+}
 
 const answered = (result: ActionResult, status = 200) => data<ActionResult>(result, { status });
 const failed = (intent: string, errors: FieldErrors, extra: Partial<ActionResult> = {}) => answered({ intent, errors, notice: null, ...extra }, 400);
@@ -167,6 +196,52 @@ export async function action({ request, params }: Route.ActionArgs) {
       case "work-limit-save":
         patch = { workLimit: JSON.parse(input.geoJson) };
         break;
+      case "zones-file-preview": {
+        let file;
+        try {
+          file = await readWorkLimitFile(input.file.name, new Uint8Array(await input.file.arrayBuffer()));
+        } catch (error) {
+          // The reader names the file; here it is the zones' file.
+          if (error instanceof DomainError) return failed(input.intent, { zonesFile: error.details.map((detail) => detail.message).join(" ") || error.message });
+          throw error;
+        }
+        const { candidates, problems } = zoneCandidatesOf(file.geoJson);
+        if (candidates.length === 0) return failed(input.intent, { zonesFile: `${input.file.name}: ${problems.join(" ")}` });
+        const zones = await previewZoneFile(project, candidates);
+        return answered({ intent: input.intent, errors: {}, notice: null, zonesFile: { fileName: input.file.name, format: file.format, note: file.note, problems, zones } });
+      }
+      case "zones-file-save": {
+        let zones;
+        try {
+          zones = savedZonesSchema.parse(JSON.parse(input.zones));
+        } catch {
+          return failed(input.intent, { zonesFile: "The previewed zones did not arrive whole; preview the file again." });
+        }
+        const before = input.mode === "add" ? (await getProjectSettings(project)).zones.length : 0;
+        try {
+          const { settings, recompute, overlaps } = await saveZonesFromFile(project, user, { mode: input.mode, zones: zones.map(({ name, geometry }) => ({ name, geometry })) }, { ip });
+          const what = input.mode === "add" ? `${zones.length} ${zones.length === 1 ? "zone" : "zones"} added from the file.` : `The zones replaced by the file's ${zones.length}.`;
+          return answered({ intent: input.intent, errors: {}, notice: `${what}${zoneChangeWords(settings.lengthUnit, overlaps, recompute)}` });
+        } catch (error) {
+          if (!(error instanceof DomainError)) throw error;
+          // Each problem named by the file's feature (a zone already there by its own name).
+          const problems = error.details.map((detail) => {
+            const at = /^zones\.(\d+)\./.exec(detail.field ?? "");
+            const index = at ? Number(at[1]) - before : -1;
+            const source = index >= 0 && index < zones.length ? zones[index].source : null;
+            return source ? `${source[0].toUpperCase()}${source.slice(1)}: ${detail.message}` : detail.message;
+          });
+          return failed(input.intent, { zonesFile: "Nothing was saved: the zones below need fixing." }, { problems });
+        }
+      }
+      case "zone-from-cells": {
+        const cells = input.cells.split(",").map((label) => label.trim()).filter(Boolean);
+        const { settings, recompute, overlaps, centresOutside, cells: made } = await createZoneFromCells(project, user, { name: input.name, colour: input.colour, cells }, { ip });
+        const outside = centresOutside.length > 0
+          ? ` ${centresOutside.join(", ")} ${centresOutside.length === 1 ? "has its" : "have their"} centre outside the work limit: a zone holds a cell by its centre, so ${centresOutside.length === 1 ? "it stays" : "they stay"} where ${centresOutside.length === 1 ? "it was" : "they were"} (Unzoned or another zone).`
+          : "";
+        return answered({ intent: input.intent, errors: {}, notice: `Zone "${input.name.trim()}" made of ${made} ${made === 1 ? "cell" : "cells"}.${outside}${zoneChangeWords(settings.lengthUnit, overlaps, recompute)}` });
+      }
       case "zone-save":
       case "zone-delete":
       case "zone-move":
@@ -273,6 +348,13 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
 
   const archived = settings.archivedAt !== null;
   const lengthUnitRef = useRef<HTMLSelectElement>(null);
+  // The grid as typed, for the preview (before it is saved).
+  const typedFromSaved = (): TypedGrid => ({ cellSize: String(settings.grid.cellSize), rotationDegrees: String(settings.grid.rotationDegrees), originX: String(settings.grid.originX), originY: String(settings.grid.originY), rasterResolution: String(settings.grid.rasterResolution) });
+  const [typedGrid, setTypedGrid] = useState<TypedGrid>(typedFromSaved);
+  const onGridInput = (form: HTMLFormElement) => {
+    const value = (name: string) => String(new FormData(form).get(name) ?? "");
+    setTypedGrid({ cellSize: value("cellSize"), rotationDegrees: value("rotationDegrees"), originX: value("originX"), originY: value("originY"), rasterResolution: value("rasterResolution") });
+  };
   // Opened from "Set up this project": a way back to the step it came from.
   const [searchParams] = useSearchParams();
   const setupStep = SETUP_STEP_KEYS.find((key) => key === searchParams.get("setup")) ?? null;
@@ -358,7 +440,16 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
       <Section id="grid-heading" title="Grid">
         <ActionMessages notice={noticeFor("grid")} />
         <p className="text-sm" data-testid="cell-count">{settings.cellCount === null ? "No grid until a work limit is set." : <>The grid has <span className="figures">{settings.cellCount.toLocaleString("en-US")}</span> cells.</>}</p>
-        <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-3">
+        {settings.workLimit ? (
+          <div className="mt-3">
+            <GridPreview
+              projectId={settings.id} lengthUnit={settings.lengthUnit} crsDefinition={loaderData.crsDefinition}
+              workLimit={settings.workLimit as unknown as LonLatPolygons} typed={typedGrid} saved={settings.grid}
+              title="The grid as typed"
+            />
+          </div>
+        ) : null}
+        <Form method="post" className="mt-3 grid gap-3 sm:grid-cols-3" onChange={(event) => onGridInput(event.currentTarget)} onReset={() => setTypedGrid(typedFromSaved())}>
           <TextField label={`Cell size (${unit})`} name="cellSize" type="number" step="any" min="0" defaultValue={settings.grid.cellSize} required error={gridErrors.cellSize} />
           <TextField label="Rotation (degrees counter-clockwise from east)" name="rotationDegrees" type="number" step="any" defaultValue={settings.grid.rotationDegrees} error={gridErrors.rotationDegrees} />
           <TextField label={`Raster resolution (${unit})`} name="rasterResolution" type="number" step="any" min="0" defaultValue={settings.grid.rasterResolution} error={gridErrors.rasterResolution} />
@@ -382,6 +473,14 @@ export default function ProjectSettingsPage({ loaderData, actionData }: Route.Co
           zones={settings.zones as unknown as EditableZone[]}
           result={zoneResult}
         />
+        <div className="mt-4">
+          <ZoneFileUpload
+            projectId={settings.id} lengthUnit={settings.lengthUnit} disabled={archived} surveyCount={settings.surveyCount}
+            workLimit={settings.workLimit as unknown as LonLatPolygons | null}
+            existing={settings.zones.map((zone) => zone.name)}
+            result={actionData && (actionData.intent === "zones-file-preview" || actionData.intent === "zones-file-save") ? actionData : null}
+          />
+        </div>
       </Section>
 
       <Section id="tolerances-heading" title="Targets and tolerances">

@@ -2,6 +2,10 @@ import { Link } from "react-router";
 import { z } from "zod";
 import { requireRole } from "~/lib/auth/access.server";
 import { loadSetupProgress } from "~/models/setup-guide.server";
+import { getProjectSettings } from "~/models/project-setup.server";
+import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
+import { GridPreview } from "~/components/grid-preview";
+import type { LonLatPolygons } from "~/components/work-limit-outline";
 import { SETUP_STEP_KEYS, neighbouringSteps, type SetupStep, type SetupStepKey } from "../../shared/setup-steps";
 import type { Route } from "./+types/projects.$projectId.setup";
 
@@ -17,7 +21,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const progress = await loadSetupProgress(project);
   // Resumed where the work is: the first step not done (the last one once all are).
   const current = step ?? progress.firstOpen ?? SETUP_STEP_KEYS[SETUP_STEP_KEYS.length - 1];
-  return { projectId: project.id, progress, current };
+  // The grid step shows the saved grid's cells on the map (the settings page previews changes).
+  let grid = null;
+  if (current === "grid") {
+    const settings = await getProjectSettings(project);
+    if (settings.workLimit) {
+      grid = { lengthUnit: settings.lengthUnit, workLimit: settings.workLimit as LonLatPolygons, saved: settings.grid, crsDefinition: resolveCrsDefinition(settings.crs).definition };
+    }
+  }
+  return { projectId: project.id, progress, current, grid };
 }
 
 export function meta({}: Route.MetaArgs) {
@@ -57,7 +69,7 @@ function guideFor(key: SetupStepKey, projectId: number): StepGuide {
       };
     case "zones":
       return {
-        what: "Zones group the cells for progress, quantities and the public map. Draw them on the map or send them through the API; cells in no zone are listed as Unzoned so the rows still add up.",
+        what: "Zones group the cells for progress, quantities and the public map. Draw them on the map, upload a file of outlines, make one of cells selected on the coverage map, or send them through the API; cells in no zone are listed as Unzoned so the rows still add up.",
         links: [{ label: "Open Zones in Settings", to: settings("zones-heading") }],
       };
     case "settings":
@@ -154,6 +166,15 @@ export default function ProjectSetupPage({ loaderData }: Route.ComponentProps) {
           <p className="mt-2 text-sm" data-testid="step-state">{step.state}</p>
           <p className="mt-2 text-sm">{guide.what}</p>
           {guide.caution ? <p className="mt-2 rounded border border-line bg-paper px-3 py-2 text-sm">{guide.caution}</p> : null}
+          {step.key === "grid" && loaderData.grid ? (
+            <div className="mt-4">
+              <GridPreview
+                projectId={projectId} lengthUnit={loaderData.grid.lengthUnit} crsDefinition={loaderData.grid.crsDefinition} workLimit={loaderData.grid.workLimit}
+                saved={loaderData.grid.saved} title="The saved grid"
+                typed={{ cellSize: String(loaderData.grid.saved.cellSize), rotationDegrees: String(loaderData.grid.saved.rotationDegrees), originX: String(loaderData.grid.saved.originX), originY: String(loaderData.grid.saved.originY), rasterResolution: String(loaderData.grid.saved.rasterResolution) }}
+              />
+            </div>
+          ) : null}
           <ul className="mt-4 flex flex-wrap gap-2">
             {guide.links.map((link) => (
               <li key={link.to}>

@@ -1,6 +1,6 @@
 import type { RasterGrid } from "../surface/raster";
 import { toGridFrame, type CellGrid } from "./cell-grid";
-import type { ProjectedMultiPolygon } from "./work-limit";
+import { workLimitBounds, type ProjectedMultiPolygon } from "./work-limit";
 
 /**
  * Which raster nodes lie inside the work limit (1) and which outside (0). A scanline fill: for
@@ -106,4 +106,22 @@ export function cellAreasInWorkLimit(cellGrid: CellGrid, grid: RasterGrid, assig
     if (cell >= 0) areas[cell] += pixelArea;
   }
   return areas;
+}
+
+/** The raster grid over the limit, aligned with the cell grid when it is not rotated so pixels do not straddle cell lines. */
+export function rasterGridFor(workLimit: ProjectedMultiPolygon, cellGrid: CellGrid, resolution: number): RasterGrid {
+  const bounds = workLimitBounds(workLimit);
+  const anchorX = cellGrid.rotationDegrees === 0 ? cellGrid.originX : bounds.minX;
+  const anchorY = cellGrid.rotationDegrees === 0 ? cellGrid.originY : bounds.minY;
+  const firstCol = Math.floor((bounds.minX - anchorX) / resolution + 1e-9);
+  const firstRow = Math.floor((bounds.minY - anchorY) / resolution + 1e-9);
+  const lastCol = Math.ceil((bounds.maxX - anchorX) / resolution - 1e-9);
+  const lastRow = Math.ceil((bounds.maxY - anchorY) / resolution - 1e-9);
+  return {
+    originX: anchorX + firstCol * resolution,
+    originY: anchorY + firstRow * resolution,
+    spacing: resolution,
+    cols: Math.max(1, lastCol - firstCol),
+    rows: Math.max(1, lastRow - firstRow),
+  };
 }

@@ -1,6 +1,12 @@
 import { describe, expect, it } from "vitest";
 import type { Position, ProjectedMultiPolygon } from "./work-limit";
-import { zoneOutsideLimit, zoneOverlapArea } from "./zone-fit";
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
+import { createCrs } from "../crs";
+import { createCellGrid } from "./cell-grid";
+import { cellsOutline } from "./cell-union";
+import { clipToLimit, liesInsideByOutline, zoneOutsideLimit, zoneOverlapArea } from "./zone-fit";
+import { isInsideWorkLimit, workLimitArea } from "./work-limit";
 
 // Rectangles and an L-shaped limit whose areas are closed forms (computed by hand below); each
 // case is run again shifted by state-plane-sized offsets, where the answer must not change.
@@ -50,5 +56,58 @@ describe("zoneOverlapArea", () => {
     expect(zoneOverlapArea(rectangle(0, 0, 50, 100), rectangle(45, 0, 100, 100))).toBeCloseTo(500, 6);
     expect(zoneOverlapArea(rectangle(0, 0, 50, 100), rectangle(50, 0, 100, 100))).toBeCloseTo(0, 9);
     expect(zoneOverlapArea(move(rectangle(0, 0, 50, 100), 612_345.5, 1_234_567.25), move(rectangle(45, 0, 100, 100), 612_345.5, 1_234_567.25))).toBeCloseTo(500, 4);
+  });
+});
+
+describe("clipToLimit", () => {
+  it("keeps the part of a zone inside the limit, at state plane coordinates too (computed: closed-form rectangle areas)", () => {
+    for (const [dx, dy] of [[0, 0], [612_345.5, 1_234_567.25]]) {
+      // A 60 × 100 block over the L: 60 × 50 below the notch and 10 × 50 beside it (x 40–50) above.
+      const inside = clipToLimit(move(rectangle(40, 0, 100, 100), dx, dy), move(lShape, dx, dy));
+      expect(workLimitArea(inside)).toBeCloseTo(60 * 50 + 10 * 50, 3);
+      expect(zoneOutsideLimit(inside, move(lShape, dx, dy), TOLERANCE)).toBeNull();
+    }
+    expect(clipToLimit(rectangle(200, 200, 300, 300), square100)).toEqual([]);
+  });
+});
+
+describe("a zone clipped to the work limit and read back from lon/lat (its edges run along the limit's within rounding)", () => {
+  // The invented lake of tests/fixtures/project-setup in EPSG:2237 (Florida West, US survey feet).
+  const EPSG_2237 = "+proj=tmerc +lat_0=24.3333333333333 +lon_0=-82 +k=0.999941177 +x_0=200000.0001016 +y_0=0 +ellps=GRS80 +towgs84=0,0,0,0,0,0,0 +units=us-ft +no_defs +type=crs";
+  const crs = createCrs(EPSG_2237);
+  const lake = JSON.parse(readFileSync(join(import.meta.dirname, "..", "..", "tests", "fixtures", "project-setup", "yellowmarsh-lake.geojson"), "utf8")).features[0].geometry.coordinates as Position[][];
+  const limit: ProjectedMultiPolygon = [lake.map((ring) => ring.map(([lon, lat]) => crs.fromLonLat(lon, lat) as Position))];
+  const grid = createCellGrid(limit, { cellSize: 20, originX: 556_060, originY: 1_554_040 });
+  const roundTrip = (zone: ProjectedMultiPolygon): ProjectedMultiPolygon => zone.map((rings) => rings.map((ring) => ring.map(([x, y]) => crs.fromLonLat(...crs.toLonLat(x, y)) as Position)));
+
+  it("every strip of three cells along the shore, clipped, is inside (the clipper alone misjudged about one in thirty)", () => {
+    let strips = 0;
+    for (let row = grid.firstRow; row < grid.firstRow + grid.rows; row++) {
+      for (let col = grid.firstCol; col < grid.firstCol + grid.cols; col++) {
+        const union = cellsOutline(grid, [0, 1, 2].map((step) => ({ row, col: col + step })));
+        // Strips wholly inside or wholly outside are not clipped along the shore: left out.
+        const corners = union[0][0].filter(([x, y]) => isInsideWorkLimit(limit, x, y)).length;
+        if (corners === 0 || corners === union[0][0].length) continue;
+        const clipped = clipToLimit(union, limit);
+        if (clipped.length === 0) continue;
+        strips++;
+        expect(zoneOutsideLimit(roundTrip(clipped), limit, TOLERANCE)).toBeNull();
+      }
+    }
+    expect(strips).toBeGreaterThan(100);
+  });
+
+  it("a strip moved 30 ft off the shore is still refused, naming a vertex outside", () => {
+    const [x0, y0] = limit[0][0][0];
+    const off: ProjectedMultiPolygon = [[[[x0 + 5, y0 - 10], [x0 + 30, y0 - 10], [x0 + 30, y0 + 10], [x0 + 5, y0 + 10], [x0 + 5, y0 - 10]]]];
+    const outside = zoneOutsideLimit(roundTrip(off), limit, TOLERANCE);
+    expect(outside?.vertex).not.toBeNull();
+  });
+
+  it("the outline check refuses a zone over an island of the limit", () => {
+    const withIsland: ProjectedMultiPolygon = [[square100[0][0], [[40, 40], [60, 40], [60, 60], [40, 60], [40, 40]]]];
+    expect(liesInsideByOutline(rectangle(30, 30, 70, 70), withIsland, 0.2)).toBe(false);
+    expect(liesInsideByOutline(rectangle(10, 10, 30, 30), withIsland, 0.2)).toBe(true);
+    expect(zoneOutsideLimit(rectangle(30, 30, 70, 70), withIsland, TOLERANCE)?.areaOutside).toBeCloseTo(400, 6); // computed: the 20 × 20 island
   });
 });

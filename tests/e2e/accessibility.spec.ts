@@ -236,3 +236,29 @@ test("the settings page's recompute panel, running and done, has no serious or c
   // And the whole page with it, as the walk checks every page.
   expect(await seriousViolations(page)).toEqual([]);
 });
+
+// The grid preview (the settings page and the setup guide's grid step) and the zones read from a
+// file appear only after a step the walk does not take: checked here at both widths, on the demo
+// project (nothing is saved: the zones file is only previewed).
+test("the grid preview and the zones read from a file have no serious or critical violations", async ({ page, signIn, baseURL }) => {
+  test.setTimeout(180_000);
+  const context = await playwrightRequest.newContext({ baseURL });
+  const projectId = await demoProjectId(context, baseURL!);
+  await context.dispose();
+  await signIn("manager");
+  for (const viewport of VIEWPORTS) {
+    await page.setViewportSize(viewport);
+    await page.goto(`/projects/${projectId}/setup?step=grid`);
+    await expect(page.getByTestId("grid-preview-map")).toHaveAttribute("data-ready", "", { timeout: 30_000 });
+    await expect(page.getByTestId("grid-preview-count")).toContainText("The saved grid:");
+    expect(await seriousViolations(page), `setup grid step at ${viewport.width} px`).toEqual([]);
+    await page.goto(`/projects/${projectId}/settings`);
+    const zones = page.getByRole("region", { name: "Zones" });
+    await zones.getByLabel(/File of zone outlines/).setInputFiles(join(import.meta.dirname, "..", "fixtures", "project-setup", "yellowmarsh-zones.geojson"));
+    await zones.getByRole("button", { name: "Preview the zones" }).click();
+    // The lake of the fixture lies far from the demo spring: both zones are refused, each named.
+    await expect(zones.getByTestId("zones-file-preview")).toContainText("2 of them refused");
+    await expect(page.getByTestId("grid-preview-map")).toHaveAttribute("data-ready", "", { timeout: 30_000 });
+    expect(await seriousViolations(page), `settings with the zones file read at ${viewport.width} px`).toEqual([]);
+  }
+});

@@ -22,29 +22,45 @@ export interface CellProperties {
  * corners are converted to lon/lat once (shared corners, one proj4 call per corner), then each
  * in-limit cell becomes a quadrilateral. Feature ids are the grid indices, for feature-state.
  * Given the work limit (lon/lat), cells along it are clipped to the part inside (clip-cells.ts).
+ * Given `only` (grid indices), just those cells are built, and only the corners of the rows and
+ * columns they span are converted (the settings page's preview of a large grid draws a view's worth).
  */
-export function buildCellFeatures(data: CellsData, workLimit?: LonLatWorkLimit | null): FeatureCollection<Polygon | MultiPolygon, CellProperties> {
+export function buildCellFeatures(data: CellsData, workLimit?: LonLatWorkLimit | null, only?: ArrayLike<number>): FeatureCollection<Polygon | MultiPolygon, CellProperties> {
   const grid = data.grid;
   if (!grid) return { type: "FeatureCollection", features: [] };
   const crs = createCrs(data.crs.definition);
-  const cornerCols = grid.cols + 1;
-  const cornerRows = grid.rows + 1;
+  // The block of corners to convert: the whole grid, or the rows and columns `only` spans.
+  let rowFrom = 0, colFrom = 0, rowTo = grid.rows - 1, colTo = grid.cols - 1;
+  if (only) {
+    rowFrom = colFrom = Infinity;
+    rowTo = colTo = -Infinity;
+    for (let position = 0; position < only.length; position++) {
+      const row = Math.floor(only[position] / grid.cols), col = only[position] % grid.cols;
+      rowFrom = Math.min(rowFrom, row); rowTo = Math.max(rowTo, row);
+      colFrom = Math.min(colFrom, col); colTo = Math.max(colTo, col);
+    }
+    if (only.length === 0) return { type: "FeatureCollection", features: [] };
+  }
+  const cornerCols = colTo - colFrom + 2;
+  const cornerRows = rowTo - rowFrom + 2;
   const projected = new Float64Array(cornerCols * cornerRows * 2);
   for (let cornerRow = 0; cornerRow < cornerRows; cornerRow++) {
     for (let cornerCol = 0; cornerCol < cornerCols; cornerCol++) {
-      const [x, y] = fromGridFrame(grid, (grid.firstCol + cornerCol) * grid.cellSize, (grid.firstRow + cornerRow) * grid.cellSize);
+      const [x, y] = fromGridFrame(grid, (grid.firstCol + colFrom + cornerCol) * grid.cellSize, (grid.firstRow + rowFrom + cornerRow) * grid.cellSize);
       const offset = (cornerRow * cornerCols + cornerCol) * 2;
       projected[offset] = x;
       projected[offset + 1] = y;
     }
   }
   const lonLat = crs.toLonLatArray(projected);
-  const corner = (cornerRow: number, cornerCol: number): [number, number] => {
-    const offset = (cornerRow * cornerCols + cornerCol) * 2;
+  const corner = (localRow: number, localCol: number): [number, number] => {
+    const offset = ((localRow - rowFrom) * cornerCols + (localCol - colFrom)) * 2;
     return [lonLat[offset], lonLat[offset + 1]];
   };
   const features: FeatureCollection<Polygon | MultiPolygon, CellProperties>["features"] = [];
-  for (let index = 0; index < data.status.length; index++) {
+  const count = only ? only.length : data.status.length;
+  for (let position = 0; position < count; position++) {
+    const index = only ? only[position] : position;
     if (data.status[index] < 0) continue;
     const localRow = Math.floor(index / grid.cols);
     const localCol = index % grid.cols;

@@ -123,3 +123,16 @@ describe("clipping the cells along the work limit", () => {
     expect(squares.features.every((cell) => cell.geometry.type === "Polygon" && cell.geometry.coordinates[0].length === 5)).toBe(true);
   });
 });
+
+describe("buildCellFeatures for a few cells (the settings page's preview of a view)", () => {
+  it("builds just the cells asked for, each as the whole grid's build makes it, clipped alike (invariant)", () => {
+    const { data, workLimit } = setUp({ rotation: 23, island: true });
+    const all = buildCellFeatures(data, workLimit);
+    const inLimit = all.features.map((feature) => feature.id as number);
+    const some = [inLimit[3], inLimit[40], inLimit[inLimit.length - 1], inLimit[17]];
+    const built = buildCellFeatures(data, workLimit, some);
+    expect(built.features.map((feature) => feature.id)).toEqual(some);
+    for (const feature of built.features) expect(feature).toEqual(all.features.find((other) => other.id === feature.id));
+    expect(buildCellFeatures(data, workLimit, []).features).toEqual([]);
+  });
+});

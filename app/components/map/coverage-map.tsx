@@ -42,6 +42,8 @@ interface Props {
   onBearing: (bearing: number) => void;
   /** Changes when the manager uploads, replaces or removes the shoreline: the map re-reads it. */
   shorelineStamp?: string;
+  /** Changes when the zones change (a zone made of selected cells): the map re-reads their outlines. */
+  zonesStamp?: string;
   /** The work limit (lon/lat): cells along it are drawn clipped to it. */
   workLimit?: LonLatWorkLimit | null;
   /** The project's extent (west-south, east-north): framed at once, before the cells arrive. */
@@ -351,25 +353,28 @@ export function CoverageMap(props: Props) {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [props.projectId]);
 
-  const { data, view, layers, zoneFilter, selected, assigned, held, bands, flyTo, shorelineStamp } = props;
+  const { data, view, layers, zoneFilter, selected, assigned, held, bands, flyTo, shorelineStamp, zonesStamp } = props;
 
-  // The style is read once; a new shoreline only swaps that source's data.
-  const drawnShoreline = useRef(shorelineStamp);
+  // The style is read once; a new shoreline or new zones only swap those sources' data.
+  const drawnStamps = useRef({ shoreline: shorelineStamp, zones: zonesStamp });
   useEffect(() => {
     const map = mapRef.current;
-    if (!ready || !map || drawnShoreline.current === shorelineStamp) return;
-    drawnShoreline.current = shorelineStamp;
+    if (!ready || !map) return;
+    const stale = (["shoreline", "zones"] as const).filter((source) => drawnStamps.current[source] !== (source === "shoreline" ? shorelineStamp : zonesStamp));
+    if (stale.length === 0) return;
+    drawnStamps.current = { shoreline: shorelineStamp, zones: zonesStamp };
     let cancelled = false;
     fetch(`/projects/${props.projectId}/map/style.json`, { cache: "no-store" })
       .then((response) => response.json())
-      .then((style: { sources: { shoreline: { data: FeatureCollection } } }) => {
-        if (!cancelled) (map.getSource("shoreline") as GeoJSONSource | undefined)?.setData(style.sources.shoreline.data);
+      .then((style: { sources: Record<"shoreline" | "zones", { data: FeatureCollection }> }) => {
+        if (cancelled) return;
+        for (const source of stale) (map.getSource(source) as GeoJSONSource | undefined)?.setData(style.sources[source].data);
       })
       .catch(() => undefined);
     return () => {
       cancelled = true;
     };
-  }, [ready, shorelineStamp, props.projectId]);
+  }, [ready, shorelineStamp, zonesStamp, props.projectId]);
 
   useEffect(() => {
     const map = mapRef.current;
