@@ -65,8 +65,12 @@ function s3Paths(instance) {
   };
 }
 
-/** Starts the fake S3 server for `instance` unless ours is already running; `env` holds the app's S3_* settings. */
-export async function ensureS3Server(instance) {
+/**
+ * Starts the fake S3 server for `instance` unless ours is already running; `env` holds the app's
+ * S3_* settings. With `emptyStore` a server started here starts with no objects (the tests' database
+ * starts empty too, so an object kept from an earlier run would stand where a new record's goes).
+ */
+export async function ensureS3Server(instance, { emptyStore = false } = {}) {
   const port = S3_PORTS[instance];
   const { directory, pidFile, logFile } = s3Paths(instance);
   const bucket = process.env.S3_BUCKET ?? "firmsand";
@@ -78,6 +82,7 @@ export async function ensureS3Server(instance) {
   if (await isPortOpen(port)) {
     throw new Error(`port ${port} is taken by another program; set S3_PORT (or S3_TEST_PORT) to a free port`);
   }
+  if (emptyStore) rmSync(directory, { recursive: true, force: true });
   const pid = spawnDetached(process.execPath, [join("db", "scripts", "s3-server.mjs"), String(port), directory, bucket], { logFile });
   writeFileSync(pidFile, String(pid));
   await waitFor(async () => {

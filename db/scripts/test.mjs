@@ -47,7 +47,7 @@ try {
   if (database.startedHere) cleanups.push(() => stopMariaDb("test"));
   const mail = await ensureMailServer("test", { emptyMailbox: true });
   if (mail.startedHere) cleanups.push(() => stopMailServer("test"));
-  const store = await ensureS3Server("test");
+  const store = await ensureS3Server("test", { emptyStore: true });
   if (store.startedHere) cleanups.push(() => stopS3Server("test"));
 
   const baseEnv = {
