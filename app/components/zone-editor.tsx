@@ -2,6 +2,7 @@ import type { GeoJSONSource, Map as MapLibreMap } from "maplibre-gl";
 import { useEffect, useId, useRef, useState } from "react";
 import { Form } from "react-router";
 import "maplibre-gl/dist/maplibre-gl.css";
+import { loadMapFonts, loadMapLibre } from "./map/load-maplibre";
 import { ConfirmedActionForm } from "./confirmed-action-form";
 import { ActionMessages } from "./form-message";
 import { addsVertex, draftFeatures, draftPolygon, MIN_ZONE_VERTICES, type LonLat } from "./map/zone-draft";
@@ -105,9 +106,7 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
     let cancelled = false;
     let map: MapLibreMap | null = null;
     (async () => {
-      const [maplibre, worker] = await Promise.all([import("maplibre-gl"), import("maplibre-gl/dist/maplibre-gl-worker.mjs?url")]);
-      maplibre.setWorkerUrl(worker.default);
-      await document.fonts.load('13px "Roboto Mono"').catch(() => undefined);
+      const [maplibre] = await Promise.all([loadMapLibre(), loadMapFonts()]);
       if (cancelled || !container.current) return;
       map = new maplibre.Map({
         container: container.current,

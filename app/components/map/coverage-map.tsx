@@ -8,6 +8,7 @@ import type { LonLatWorkLimit } from "./clip-cells";
 import { PLANNED_PATTERN, bandColour, cellColour, fillColour, plannedPatternPixels, type BandBounds, type MapView } from "./paint";
 import type { LayerKey } from "./view-url";
 import { MONITORING_CLICK_LAYERS, MONITORING_LAYERS, type MonitoringKey } from "./monitoring";
+import { loadMapFonts, loadMapLibre } from "./load-maplibre";
 
 export type { LayerKey };
 export const LAYER_GROUPS: Record<LayerKey, string[]> = {
@@ -85,12 +86,6 @@ function setMarkedCells(map: MapLibreMap, source: MarkedSource, ids: ReadonlySet
 
 const QUICK_LOOK = "cells-quick-look";
 
-type MapLibreModules = [typeof import("maplibre-gl"), { default: string }];
-let mapLibreModules: Promise<MapLibreModules> | null = null;
-/** MapLibre and its worker file's URL, imported once per page. */
-function loadMapLibre() {
-  return (mapLibreModules ??= Promise.all([import("maplibre-gl"), import("maplibre-gl/dist/maplibre-gl-worker.mjs?url")]));
-}
 // Asked for as soon as this module runs in the browser (with the route's modules, before the page
 // is hydrated), so the download and compilation of MapLibre overlap the page's own start.
 if (typeof window !== "undefined") void loadMapLibre().catch(() => undefined);
@@ -194,9 +189,7 @@ export function CoverageMap(props: Props) {
         .then((response) => (response.ok ? (response.json() as Promise<StyleSpecification>) : null))
         .catch(() => null);
       // Labels are drawn from the page's Roboto Mono (no glyphs URL): load it before the first label.
-      const fontsRead = Promise.all([document.fonts.load('13px "Roboto Mono"'), document.fonts.load('500 13px "Roboto Mono"')]).catch(() => undefined);
-      const [[maplibre, worker], style] = await Promise.all([loadMapLibre(), styleRead, fontsRead]);
-      maplibre.setWorkerUrl(worker.default);
+      const [maplibre, style] = await Promise.all([loadMapLibre(), styleRead, loadMapFonts()]);
       if (cancelled || !container.current) return;
       if (style) {
         // What the page shows goes into the style itself: the layers shown, the zone filter and,

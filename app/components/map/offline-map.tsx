@@ -1,6 +1,7 @@
 import type { Map as MapLibreMap } from "maplibre-gl";
 import { useEffect, useRef, useState } from "react";
 import "maplibre-gl/dist/maplibre-gl.css";
+import { loadMapFonts, loadMapLibre } from "./load-maplibre";
 
 export type LonLatBounds = [[number, number], [number, number]];
 
@@ -19,9 +20,7 @@ export function useOfflineMap(projectId: number, extent: LonLatBounds | null, op
     let cancelled = false;
     let created: MapLibreMap | null = null;
     (async () => {
-      const [maplibre, worker] = await Promise.all([import("maplibre-gl"), import("maplibre-gl/dist/maplibre-gl-worker.mjs?url")]);
-      maplibre.setWorkerUrl(worker.default);
-      await document.fonts.load('13px "Roboto Mono"').catch(() => undefined);
+      const [maplibre] = await Promise.all([loadMapLibre(), loadMapFonts()]);
       if (cancelled || !container.current) return;
       created = new maplibre.Map({
         container: container.current,
