@@ -9,7 +9,7 @@ import { clientAddress } from "~/lib/http/client-address.server";
 import { isExpiredJob } from "~/lib/import/abandoned-uploads.server";
 import { commitChoicesFromFields } from "~/lib/import/form-fields";
 import { findImportJob, jobChoices, jobOptions, jobPreview, presentJobProgress } from "~/lib/import/import-job-view.server";
-import { discardImportJob, ImportJobClosed, previewImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
+import { discardImportJob, ImportJobClosed, previewImportJob, beginImportJobCommit } from "~/lib/import/import-service.server";
 import { soundingFields } from "../../shared/soundings/parse-csv";
 import { delimiterName } from "../../shared/soundings/sniff";
 import { unitLabel } from "../../shared/units";
@@ -75,8 +75,9 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!choices) return data({ error: problems.map((problem) => problem.message).join(" ") }, { status: 400 });
   const options = { ...jobOptions(job), columns: mappingFromForm(form) };
   if (intent === "commit") {
-    // The commit runs on in the server whether or not this page stays open.
-    void startImportJobCommit(job, options, choices, clientAddress(request));
+    // The commit runs on in the server whether or not this page stays open; the page is read again
+    // once the job is claimed, so it shows the progress.
+    await beginImportJobCommit(job, options, choices, clientAddress(request));
     throw redirect(`/projects/${project.id}/surveys/imports/${job.id}`);
   }
   try {

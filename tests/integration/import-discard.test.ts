@@ -6,7 +6,7 @@ import { closeSequelize } from "../../db/connection.server";
 import { SURVEYS } from "../../sample-data/scenario";
 import { ImportJob } from "~/lib/db.server";
 import { commitChoicesSchema, importOptionsSchema } from "~/lib/import/import-options";
-import { createImportJob, discardImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
+import { beginImportJobCommit, createImportJob, discardImportJob, startImportJobCommit } from "~/lib/import/import-service.server";
 import { writeStagedFile } from "~/lib/import/stage-upload.server";
 import { demoImportOptions } from "../../db/seeders/demo-surveys";
 import { requestAs } from "./helpers";
@@ -74,6 +74,19 @@ describe("discarding an upload", () => {
     expect(existsSync(job.filePath)).toBe(false);
     expect(await ImportJob.findByPk(job.id)).toBeNull();
   });
+
+  it("the page's Import answers once the job is claimed, so the page read after it shows the progress", async () => {
+    // The page used to redirect before the claim: read in between, it showed the check again with
+    // no progress and never moved on (seen once in CI).
+    const job = await stagedJob("ready");
+    expect(await beginImportJobCommit(job, options, choices, null)).toBe(true);
+    expect(["committing", "done"]).toContain((await ImportJob.findByPk(job.id))!.state);
+    // A second start finds the job taken and says so at once.
+    expect(await beginImportJobCommit(job, options, choices, null)).toBe(false);
+    // The import goes on in the background and ends stored.
+    for (let waited = 0; (await ImportJob.findByPk(job.id))!.state === "committing" && waited < 60_000; waited += 100) await new Promise((done) => setTimeout(done, 100));
+    expect((await ImportJob.findByPk(job.id))!.state).toBe("done");
+  }, 90_000);
 
   it("a commit that starts after the discard finds no job and stores nothing", async () => {
     const job = await stagedJob("ready");

@@ -157,7 +157,7 @@ export async function previewImportJob(job: ImportJob, options: ImportOptions, c
  * Starts the commit and returns at once: the import finishes on the server whether or not the
  * page stays open; the page polls the job for stage and fraction and picks the result up.
  */
-export function startImportJobCommit(job: ImportJob, options: ImportOptions, choices: CommitChoices, ip: string | null): Promise<void> {
+export function startImportJobCommit(job: ImportJob, options: ImportOptions, choices: CommitChoices, ip: string | null, onClaimed?: (claimed: boolean) => void): Promise<void> {
   let lastWrite = 0;
   const progress = (stage: string, fraction: number) => {
     const now = Date.now();
@@ -166,7 +166,9 @@ export function startImportJobCommit(job: ImportJob, options: ImportOptions, cho
     void ImportJob.update({ stage: stage.slice(0, 40), fraction: overallFraction(stage, fraction) }, { where: { id: job.id } }).catch(() => undefined);
   };
   const run = async () => {
-    if (!(await claimOpenJob(job, { state: "committing", stage: "reading the file", fraction: 0, error: null }))) return;
+    const claimed = await claimOpenJob(job, { state: "committing", stage: "reading the file", fraction: 0, error: null });
+    onClaimed?.(claimed);
+    if (!claimed) return;
     const stopHeartbeat = startCommitHeartbeat(job.id);
     try {
       const outcome = await importSurveyFile({ projectId: job.projectId, userId: job.userId, ip, staged: stagedOf(job), options, choices, onProgress: progress });
@@ -185,4 +187,23 @@ export function startImportJobCommit(job: ImportJob, options: ImportOptions, cho
     }
   };
   return run();
+}
+
+/**
+ * Starts the commit (startImportJobCommit) and resolves once the job is claimed as committing, or
+ * was not open: a page read after it shows the import's progress. Before, the page could be read
+ * between the redirect and the claim and show the check again with no progress, for good.
+ */
+export function beginImportJobCommit(job: ImportJob, options: ImportOptions, choices: CommitChoices, ip: string | null): Promise<boolean> {
+  return new Promise((resolve, reject) => {
+    let claimed = false;
+    const onClaimed = (value: boolean) => {
+      claimed = true;
+      resolve(value);
+    };
+    // A failure before the claim (the database gone) is the request's; after it, the job records it.
+    startImportJobCommit(job, options, choices, ip, onClaimed).then(() => resolve(false), (error: unknown) => {
+      if (!claimed) reject(error);
+    });
+  });
 }
