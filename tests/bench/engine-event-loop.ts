@@ -10,7 +10,6 @@
  * Needs a migrated database (the DB_* environment, as for the app):
  *   DB_PORT=3308 DB_NAME=firmsand_bench NODE_OPTIONS=--expose-gc npx tsx tests/bench/engine-event-loop.ts [--rows N]
  */
-import { monitorEventLoopDelay } from "node:perf_hooks";
 import { Survey, getSequelize } from "../../app/lib/db.server";
 import { computeState, serverEnginePool } from "../../app/lib/engine/engine-state.server";
 import type { ComputationSurvey } from "../../app/lib/engine/engine-surveys";
@@ -23,6 +22,7 @@ import { remainingThicknessThresholds } from "../../shared/bands";
 import { recomputeProjectStatistics } from "../../app/lib/engine/recompute.server";
 import { closeSequelize } from "../../db/connection.server";
 import { baselinePoints, createBenchProject } from "./import-fixture";
+import { collectsBetweenCases, measureEventLoopStall } from "./event-loop-stall";
 
 const rowsIndex = process.argv.indexOf("--rows");
 const rows = rowsIndex > 0 ? Number(process.argv[rowsIndex + 1]) : 1_000_000;
@@ -58,28 +58,6 @@ async function createProject() {
   return { project, survey };
 }
 
-const pause = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
-// With --expose-gc (NODE_OPTIONS=--expose-gc) each case starts from a collected heap, so one
-// case's garbage is not collected during the next.
-const collect = (globalThis as { gc?: () => void }).gc;
-
-/**
- * The longest event-loop stall and the wall time while `work` runs. The histogram's timer must
- * fire after the work for a stall to be recorded, hence the pause on either side.
- */
-async function measure(work: () => Promise<unknown>) {
-  collect?.();
-  await pause(100);
-  const histogram = monitorEventLoopDelay({ resolution: 10 });
-  histogram.enable();
-  await pause(20);
-  const started = performance.now();
-  await work();
-  const seconds = (performance.now() - started) / 1000;
-  await pause(50);
-  histogram.disable();
-  return { seconds, maxDelayMs: histogram.max / 1e6, p99DelayMs: histogram.percentile(99) / 1e6 };
-}
 
 const { project, survey } = await createProject();
 const line = (label: string, figures: { seconds: number; maxDelayMs: number; p99DelayMs: number }) =>
@@ -89,7 +67,7 @@ try {
   if (pool === null) throw new Error("ENGINE_THREADS=0: this benchmark compares the pool with the request thread; unset it");
   const geometry = await loadProjectGeometry(project.id);
   const extra = baselineSoundings(survey.id);
-  console.log(`engine event-loop benchmark: ${extra.easting.length.toLocaleString("en-US")} soundings, ${pool.size} engine thread(s)${collect ? "" : " (without --expose-gc: one case's garbage may be collected during the next)"}`);
+  console.log(`engine event-loop benchmark: ${extra.easting.length.toLocaleString("en-US")} soundings, ${pool.size} engine thread(s)${collectsBetweenCases ? "" : " (without --expose-gc: one case's garbage may be collected during the next)"}`);
   const mapInput = (survey: ComputationSurvey): ProjectStateInput => ({
     surveys: [survey], workLimit: geometry.workLimit!, zones: geometry.zones, settings: geometry.settings, lengthUnit: geometry.lengthUnit, waterSurfaceElevation: waterSurface, withFigures: false,
   });
@@ -101,11 +79,11 @@ try {
   await asTheMapDoes(mapInput(warmUp), pool);
   const places: Array<[string, EngineWorkerPool | null]> = [["on the request thread (ENGINE_THREADS=0)", null], ["in the engine pool", pool]];
   for (const [where, chosen] of places) {
-    line(`(a) import commit recompute, ${where}`, await measure(() => getSequelize().transaction((transaction) => recomputeProjectStatistics(project.id, transaction, { extra, pool: chosen }))));
+    line(`(a) import commit recompute, ${where}`, await measureEventLoopStall(() => getSequelize().transaction((transaction) => recomputeProjectStatistics(project.id, transaction, { extra, pool: chosen }))));
   }
   for (const [where, chosen] of places) {
     const input = mapInput(baselineSoundings(survey.id));
-    line(`(b) map surfaces, ${where}`, await measure(() => asTheMapDoes(input, chosen)));
+    line(`(b) map surfaces, ${where}`, await measureEventLoopStall(() => asTheMapDoes(input, chosen)));
   }
   const state = await asTheMapDoes(mapInput(baselineSoundings(survey.id)), pool);
   const bands: BandsInput = {
@@ -113,7 +91,7 @@ try {
     crsDefinition: resolveCrsDefinition(geometry.crsCode).definition, minArea: geometry.settings.cellSize ** 2 / 4,
   };
   for (const [where, chosen] of places) {
-    line(`(c) map bands, ${where}`, await measure(async () => (chosen ? chosen.computeProjectBands(bands) : computeProjectBands(bands))));
+    line(`(c) map bands, ${where}`, await measureEventLoopStall(async () => (chosen ? chosen.computeProjectBands(bands) : computeProjectBands(bands))));
   }
 } finally {
   await Survey.destroy({ where: { projectId: project.id } });

@@ -9,7 +9,6 @@
  * No database:
  *   NODE_OPTIONS=--expose-gc npx tsx tests/bench/period-event-loop.ts [--basin bay|spring] [--soundings N] [--runs N]
  */
-import { monitorEventLoopDelay } from "node:perf_hooks";
 import { isDeepStrictEqual } from "node:util";
 import { EngineWorkerPool } from "../../app/lib/engine/engine-worker.server";
 import { computePeriodFigures, periodFiguresInput, type PeriodFiguresInput } from "../../app/lib/engine/period-figures";
@@ -17,6 +16,7 @@ import type { ProjectStateInput } from "../../app/lib/engine/project-state";
 import type { EngineSettings } from "../../shared/pipeline";
 import { tvuCoefficients } from "../../shared/qa/tvu";
 import { ellipseLimit, syntheticSurveys, type Basin } from "./synthetic";
+import { collectsBetweenCases, measureEventLoopStall } from "./event-loop-stall";
 
 const option = (name: string, fallback: string) => (process.argv.includes(name) ? process.argv[process.argv.indexOf(name) + 1] : fallback);
 const which = option("--basin", "bay");
@@ -42,23 +42,6 @@ const scenario = basins[which];
 if (!scenario) throw new Error(`--basin wants bay or spring, not ${which}`);
 const soundings = Number(option("--soundings", String(scenario.soundings)));
 
-const pause = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
-const collect = (globalThis as { gc?: () => void }).gc;
-
-/** The longest event-loop stall and the wall time while `work` runs (as in engine-event-loop.ts). */
-async function measure(work: () => Promise<unknown>) {
-  collect?.();
-  await pause(100);
-  const histogram = monitorEventLoopDelay({ resolution: 10 });
-  histogram.enable();
-  await pause(20);
-  const started = performance.now();
-  await work();
-  const seconds = (performance.now() - started) / 1000;
-  await pause(50);
-  histogram.disable();
-  return { seconds, maxDelayMs: histogram.max / 1e6 };
-}
 
 const { basin, settings, unit } = scenario;
 const surveys = syntheticSurveys(basin, soundings, 20310402);
@@ -84,7 +67,7 @@ try {
   // IHO S-44 order 1a in the project's unit (tvuCoefficients), depths from the water surface.
   const survey = { ...tvuCoefficients("1a", unit), waterSurfaceElevation: 0, fallbackDepth: null, bias: 0 };
   const period: PeriodFiguresInput = periodFiguresInput(state, 0, 1, { zones, settings, overDredgeAllowance: 0, lengthUnit: unit, uncertainty: [survey, survey] });
-  console.log(`pay-period event-loop benchmark: ${basin.name}, ${soundings.toLocaleString("en-US")} soundings a survey, ${nodes.toLocaleString("en-US")} raster nodes, ${cells.toLocaleString("en-US")} grid cells, ${pool.size} engine thread(s)${collect ? "" : " (without --expose-gc)"}`);
+  console.log(`pay-period event-loop benchmark: ${basin.name}, ${soundings.toLocaleString("en-US")} soundings a survey, ${nodes.toLocaleString("en-US")} raster nodes, ${cells.toLocaleString("en-US")} grid cells, ${pool.size} engine thread(s)${collectsBetweenCases ? "" : " (without --expose-gc)"}`);
   await pool.computePeriodFigures(period); // a first job loads the thread's module: not what a running server pays
   const onThread = computePeriodFigures(period);
   const inPool = await pool.computePeriodFigures(period);
@@ -92,8 +75,8 @@ try {
   const line = (label: string, figures: { seconds: number; maxDelayMs: number }) =>
     console.log(`  ${label.padEnd(36)} ${figures.seconds.toFixed(2).padStart(6)} s   event loop max delay ${figures.maxDelayMs.toFixed(0).padStart(5)} ms`);
   for (let run = 1; run <= runs; run++) {
-    line(`period on the request thread, run ${run}`, await measure(async () => computePeriodFigures(period)));
-    line(`period in the engine pool, run ${run}`, await measure(() => pool.computePeriodFigures(period)));
+    line(`period on the request thread, run ${run}`, await measureEventLoopStall(async () => computePeriodFigures(period)));
+    line(`period in the engine pool, run ${run}`, await measureEventLoopStall(() => pool.computePeriodFigures(period)));
   }
 } finally {
   await pool.close();
