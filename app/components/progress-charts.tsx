@@ -4,7 +4,7 @@ import { dayNumber } from "../../shared/progress/calendar-days";
 import { binDays, chooseBinSize, type BinSize, type DayBin } from "../../shared/progress/daily-bins";
 import type { ProductionInterval } from "../../shared/progress/production";
 import { formatNumber } from "./progress-figures";
-import { useMeasuredWidth } from "./use-measured-width";
+import { useMeasuredWidth, widthLinkedHeight } from "./use-measured-width";
 
 /**
  * SVG charts of progress, drawn at the width of their panel (measured in the browser; 640 px
@@ -368,9 +368,9 @@ export function DailyBarsChart(props: DailyBarsProps) {
   const note = size === "day" ? null
     : `${span} days are too many for a bar each at this width: one bar per ${PER_WORDS[size]}, ${props.kind === "total" ? "the sum of its days" : "its days' parts added before dividing (not their ratios averaged)"}.`;
   return (
-    <figure className="min-w-0 space-y-1" data-testid={`${props.testId}-figure`}>
+    <figure className="min-w-0 space-y-1 [container-type:inline-size]" data-testid={`${props.testId}-figure`}>
       <figcaption className="text-sm font-medium">{props.caption(size)}</figcaption>
-      <div ref={ref} className="w-full min-w-0 overflow-hidden">
+      <div ref={ref} className="w-full min-w-0 overflow-hidden" style={{ height: widthLinkedHeight({ perWidth: 0.45, min: 200, max: 280 }) }}>
         <DailyBarsSvg {...props} bins={bins} size={size} width={width} noteId={note ? noteId : undefined} />
       </div>
       {note ? <p id={noteId} className="text-xs text-muted" data-testid={`${props.testId}-binning`}>{note}</p> : null}

@@ -1,4 +1,4 @@
-import { useMeasuredWidth } from "./use-measured-width";
+import { useMeasuredWidth, widthLinkedHeight } from "./use-measured-width";
 
 /**
  * A small plan view of soundings and the work limit (project coordinates, north up), drawn as
@@ -64,8 +64,8 @@ export function SoundingPlot({ data, title }: { data: SoundingPlotData; title: s
     { key: "south", count: beyond.south, x: (frame.x0 + frame.x1) / 2, y: frame.y1 - 6, anchor: "middle", text: `▼ ${beyond.south} beyond` },
   ];
   return (
-    <figure className="min-w-0 rounded border border-line bg-panel p-2">
-      <div ref={ref} className="w-full min-w-0 overflow-hidden">
+    <figure className="min-w-0 rounded border border-line bg-panel p-2 [container-type:inline-size]">
+      <div ref={ref} className="w-full min-w-0 overflow-hidden" style={{ height: widthLinkedHeight({ perWidth: spanY / spanX, offset: 2 * margin * (1 - spanY / spanX), min: 160, max: 900 }) }}>
         <svg role="img" aria-label={title} width={width} height={Math.round(height)} viewBox={`0 0 ${width} ${height.toFixed(0)}`} className="block max-w-full" data-testid="sounding-plot-chart">
           <title>{title}</title>
           <rect x={frame.x0} y={frame.y0} width={frame.x1 - frame.x0} height={frame.y1 - frame.y0} fill="none" stroke="#c9d3d6" strokeDasharray="4 3" />

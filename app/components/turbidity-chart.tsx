@@ -1,6 +1,6 @@
 import { linearScale, niceTicks } from "../../shared/progress/chart-scale";
 import { CHART_FONT_PX, MONO_CHAR_PX } from "./progress-charts";
-import { useMeasuredWidth } from "./use-measured-width";
+import { useMeasuredWidth, widthLinkedHeight } from "./use-measured-width";
 
 /**
  * An SVG chart of one station's turbidity readings: the limit each was held to, the paired
@@ -32,7 +32,11 @@ type TurbidityChartProps = {
 
 export function TurbidityChart(props: TurbidityChartProps) {
   const [ref, width] = useMeasuredWidth<HTMLDivElement>(640);
-  return <div ref={ref} className="w-full min-w-0 overflow-hidden"><TurbiditySvg {...props} width={width} /></div>;
+  return (
+    <div className="min-w-0 [container-type:inline-size]">
+      <div ref={ref} className="w-full min-w-0 overflow-hidden" style={{ height: widthLinkedHeight({ perWidth: 0.4, min: 200, max: 280 }) }}><TurbiditySvg {...props} width={width} /></div>
+    </div>
+  );
 }
 
 function TurbiditySvg({ station, readings, missed, fromMs, toMs, unit = "NTU", dayLabel, width: WIDTH }: TurbidityChartProps & { width: number }) {

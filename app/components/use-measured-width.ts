@@ -25,3 +25,15 @@ export function useMeasuredWidth<T extends HTMLElement>(fallback: number): [Reac
   }, []);
   return [ref, width ?? fallback, width !== null];
 }
+
+/**
+ * The CSS height of a chart box whose chart is `perWidth` × its width + `offset` px tall, held
+ * between `min` and `max` px: the same height the chart takes once its width is measured, given
+ * by the browser before the page's scripts run. So the box does not grow or shrink at hydration
+ * and nothing below it moves under a pointer (a tap on a button just below a chart landed on the
+ * page instead). Needs an ancestor with `container-type: inline-size` of the box's width.
+ */
+export function widthLinkedHeight({ perWidth, offset = 0, min, max }: { perWidth: number; offset?: number; min: number; max: number }): string {
+  const ratio = Number.isFinite(perWidth) ? perWidth : 1;
+  return `clamp(${min}px, calc(100cqw * ${ratio.toPrecision(8)} + ${offset.toFixed(2)}px), ${max}px)`;
+}

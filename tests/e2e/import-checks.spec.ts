@@ -86,6 +86,28 @@ test("a semicolon file is read and its delimiter named; a time of \"yesterday\" 
   await discard(page);
 });
 
+test("the check page stands still when its scripts start: the buttons under the plot are where they were first drawn", async ({ page, signIn, browser, baseURL }) => {
+  // A chart sized by its measured width used to grow at hydration and push the buttons down, so a
+  // click aimed at "Discard this upload" as the page loaded landed on the form instead.
+  await signIn("surveyor");
+  await upload(page, "time-yesterday.csv", { kind: "baseline", date: "2026-09-08", wse: "32.4" });
+  const chart = page.getByTestId("sounding-plot-chart");
+  await expect(chart).toBeVisible();
+  await expect.poll(() => chart.getAttribute("width")).not.toBe("640");
+  const withScripts = await page.getByRole("button", { name: "Discard this upload" }).boundingBox();
+  const context = await browser.newContext({ javaScriptEnabled: false, baseURL, viewport: page.viewportSize(), storageState: await page.context().storageState() });
+  try {
+    const plain = await context.newPage();
+    await plain.goto(page.url());
+    await expect(plain.getByTestId("sounding-plot-chart")).toHaveAttribute("width", "640");
+    const firstDrawn = await plain.getByRole("button", { name: "Discard this upload" }).boundingBox();
+    expect(Math.abs(firstDrawn!.y - withScripts!.y), `drawn at y ${firstDrawn!.y}, at y ${withScripts!.y} once the scripts ran`).toBeLessThanOrEqual(1);
+  } finally {
+    await context.close();
+  }
+  await discard(page);
+});
+
 for (const size of SIZES) {
   test(`a water-surface elevation of 0 is held with the median shift; spikes and a far-off point are drawn (${size.width} × ${size.height})`, async ({ page, signIn }) => {
     test.setTimeout(60_000);
