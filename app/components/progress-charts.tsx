@@ -87,27 +87,39 @@ interface DatedLinesProps {
 
 /** Lines over dates, each named at its end; a `total` line is drawn heavier. */
 export function DatedLinesChart(props: DatedLinesProps) {
-  const [ref, width] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
+  const [ref, width, measured] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
+  const keyId = useId();
   if (props.dates.length === 0) return <p className="text-sm text-muted">{props.emptyText}</p>;
   // Names beside the lines' ends while they fit in a third of the panel; otherwise (a phone, long
   // zone names) a key under the chart, so no name is cut off at the panel's edge.
   const endLabelsPx = Math.max(...props.series.map((line) => line.name.length)) * 7 + 14;
   const endLabels = endLabelsPx <= width * 0.34;
+  const key = (
+    <ul className="mt-1 flex flex-wrap gap-x-4 gap-y-1 text-xs" data-testid={`${props.testId}-key`} data-chart-key={keyId}>
+      {props.series.map((line, lineIndex) => (
+        <li key={line.name} className="flex items-center gap-1.5">
+          <svg aria-hidden="true" width="24" height="8" className="shrink-0"><line x1={0} x2={24} y1={4} y2={4} stroke={lineColour(line, lineIndex)} strokeWidth={line.total ? 3 : 2} strokeDasharray={lineDash(line, lineIndex)} /></svg>
+          {line.name}
+        </li>
+      ))}
+    </ul>
+  );
+  // Before the width is measured (the server's page, before scripts run) the browser decides by
+  // the panel's width whether the key shows, by the same rule, so the page does not move when the
+  // scripts start.
   return (
-    <div ref={ref} className="w-full min-w-0 overflow-hidden">
-      <DatedLinesSvg {...props} width={width} endLabels={endLabels} />
-      {endLabels ? null : (
-        <ul className="mt-1 flex flex-wrap gap-x-4 gap-y-1 text-xs" data-testid={`${props.testId}-key`}>
-          {props.series.map((line, lineIndex) => (
-            <li key={line.name} className="flex items-center gap-1.5">
-              <svg aria-hidden="true" width="24" height="8" className="shrink-0"><line x1={0} x2={24} y1={4} y2={4} stroke={lineColour(line, lineIndex)} strokeWidth={line.total ? 3 : 2} strokeDasharray={lineDash(line, lineIndex)} /></svg>
-              {line.name}
-            </li>
-          ))}
-        </ul>
-      )}
+    <div className="min-w-0 [container-type:inline-size]">
+      <div ref={ref} className="w-full min-w-0 overflow-hidden">
+        <div style={{ height: widthLinkedHeight({ perWidth: 0.55, min: 220, max: 320 }) }}><DatedLinesSvg {...props} width={width} endLabels={endLabels} /></div>
+        {measured ? (endLabels ? null : key) : <>{containerRule(`(width >= ${Math.ceil(endLabelsPx / 0.34)}px)`, `[data-chart-key="${keyId}"]`)}{key}</>}
+      </div>
     </div>
   );
+}
+
+/** A style element hiding `selector` while its container's width matches `condition` (before a chart is measured). */
+function containerRule(condition: string, selector: string) {
+  return <style>{`@container ${condition} { ${selector} { display: none; } }`}</style>;
 }
 
 const lineColour = (line: RemovedSeries, lineIndex: number) => (line.total ? "#1d2528" : line.colour ?? LINE_COLOURS[lineIndex % LINE_COLOURS.length]);
@@ -176,14 +188,34 @@ function DatedLinesSvg({ dates, series, unit, title, testId, width, endLabels }:
  * to compare) is drawn hatched and pale with "thin" over it, not as a bar of the same weight.
  */
 export function ProductionChart(props: { intervals: ProductionInterval[]; unit: string }) {
-  const [ref, width] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
+  const [ref, width, measured] = useMeasuredWidth<HTMLDivElement>(FALLBACK_WIDTH);
+  const layoutId = useId();
   if (props.intervals.length === 0) return <p className="text-sm text-muted">Production needs two survey dates.</p>;
   // Columns while each keeps room for its labels; in a narrower panel (a phone) one row per
   // interval, so the chart always fits its panel and never scrolls sideways.
-  const columns = width - PRODUCTION_MARGIN_X >= props.intervals.length * PRODUCTION_SLOT_PX;
+  const columnsFrom = PRODUCTION_MARGIN_X + props.intervals.length * PRODUCTION_SLOT_PX;
+  const columns = width >= columnsFrom;
+  const columnsBox = (svg: React.ReactNode) => <div style={{ height: widthLinkedHeight({ perWidth: 0.55, min: 240, max: 320 }) }}>{svg}</div>;
+  if (measured) {
+    return (
+      <div className="min-w-0 [container-type:inline-size]">
+        <div ref={ref} className="w-full min-w-0 overflow-hidden">
+          {columns ? columnsBox(<ProductionColumnsSvg {...props} width={width} />) : <ProductionRowsSvg {...props} width={width} />}
+        </div>
+      </div>
+    );
+  }
+  // Before the width is measured both layouts are sent and the browser shows the one the panel's
+  // width calls for (the same rule), so the page does not move when the scripts start.
   return (
-    <div ref={ref} className="w-full min-w-0 overflow-hidden">
-      {columns ? <ProductionColumnsSvg {...props} width={width} /> : <ProductionRowsSvg {...props} width={width} />}
+    <div className="min-w-0 [container-type:inline-size]">
+      <div ref={ref} className="w-full min-w-0 overflow-hidden">
+        {containerRule(`(width < ${columnsFrom}px)`, `[data-production-columns="${layoutId}"]`)}
+        {containerRule(`(width >= ${columnsFrom}px)`, `[data-production-rows="${layoutId}"]`)}
+        {/* Test ids only once the layout is chosen: until then there are two. */}
+        <div data-production-columns={layoutId}>{columnsBox(<ProductionColumnsSvg {...props} width={width} tagged={false} />)}</div>
+        <div data-production-rows={layoutId}><ProductionRowsSvg {...props} width={width} tagged={false} /></div>
+      </div>
     </div>
   );
 }
@@ -217,7 +249,7 @@ function barPaint(interval: ProductionInterval) {
   return interval.thin ? { fill: "url(#thin-interval-hatch)", stroke: "#14606e", strokeDasharray: "3 2" } : { fill: "#14606e" };
 }
 
-function ProductionColumnsSvg({ intervals, unit, width }: { intervals: ProductionInterval[]; unit: string; width: number }) {
+function ProductionColumnsSvg({ intervals, unit, width, tagged = true }: { intervals: ProductionInterval[]; unit: string; width: number; tagged?: boolean }) {
   const line = CHART_FONT_PX + 2;
   const margin = { top: 28, right: 12, bottom: 4 * line + 8, left: 56 };
   const height = clamp(Math.round(width * 0.55), 240, 320);
@@ -228,7 +260,7 @@ function ProductionColumnsSvg({ intervals, unit, width }: { intervals: Productio
   const y = linearScale([0, ticks[ticks.length - 1]], [bottom, margin.top]);
   const slot = (width - margin.left - margin.right) / intervals.length;
   return (
-    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="production-title" className="block" data-testid="production-chart" data-layout="columns">
+    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="production-title" className="block" data-testid={tagged ? "production-chart" : undefined} data-layout="columns">
       <title id="production-title">{productionTitle(unit)}</title>
       <ThinIntervalHatch />
       <ValueAxis frame={frame} ticks={ticks} y={y} unit={`${unit}/day`} />
@@ -262,7 +294,7 @@ function ProductionColumnsSvg({ intervals, unit, width }: { intervals: Productio
  * above a horizontal bar, the rate at the bar's end, and the value axis along the bottom with as
  * many round ticks as fit their labels.
  */
-function ProductionRowsSvg({ intervals, unit, width }: { intervals: ProductionInterval[]; unit: string; width: number }) {
+function ProductionRowsSvg({ intervals, unit, width, tagged = true }: { intervals: ProductionInterval[]; unit: string; width: number; tagged?: boolean }) {
   const line = CHART_FONT_PX + 2;
   const barHeight = 14;
   const rowHeight = line + barHeight + 10;
@@ -279,7 +311,7 @@ function ProductionRowsSvg({ intervals, unit, width }: { intervals: ProductionIn
   const x = linearScale([0, ticks[ticks.length - 1]], [margin.left, right]);
   const axisY = height - margin.bottom;
   return (
-    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="production-title" className="block" data-testid="production-chart" data-layout="rows">
+    <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="production-title" className="block" data-testid={tagged ? "production-chart" : undefined} data-layout="rows">
       <title id="production-title">{productionTitle(unit)}</title>
       <ThinIntervalHatch />
       <g className="figures" fontSize={CHART_FONT_PX} fill="#5b6870">
