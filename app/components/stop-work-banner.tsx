@@ -41,9 +41,10 @@ export function resumeRule(stopWorkCount: number, standDownCount: number): strin
  * The red banner every project page shows while work is stopped: open turbidity stop-work events
  * with the agency notification deadline counting down, and wildlife stand-downs in force.
  */
-export function StopWorkBanner({ projectId, stopWork, standDowns, nowMs, timeZone }: { projectId: number; stopWork: StopWorkItem[]; standDowns: StandDownItem[]; nowMs: number; timeZone: string }) {
-  // Starts from the server's clock so the first render matches; then ticks every 30 s.
-  const [now, setNow] = useState(nowMs);
+export function StopWorkBanner({ projectId, stopWork, standDowns, nowMs, timeZone }: { projectId: number; stopWork: StopWorkItem[]; standDowns: StandDownItem[]; nowMs: number | null; timeZone: string }) {
+  // Starts from the server's clock so the first render matches; then ticks every 30 s (the server
+  // sends no clock when nothing is in force, and then nothing here is drawn).
+  const [now, setNow] = useState(nowMs ?? 0);
   useEffect(() => {
     setNow(Date.now());
     const timer = setInterval(() => setNow(Date.now()), 30_000);

@@ -15,14 +15,17 @@ import { DailyReport } from "~/lib/db.server";
 export interface Stoppages {
   stopWork: StopWorkView[];
   standDowns: StandDownView[];
-  /** The server's clock when read, so the page's countdown starts from the same instant. */
-  nowMs: number;
+  /**
+   * The server's clock when read, so the page's countdown starts from the same instant; null when
+   * nothing is in force (no countdown, and a page that shows no stoppage does not change with the clock).
+   */
+  nowMs: number | null;
   timeZone: string;
 }
 
 export async function currentStoppages(project: ProjectView, nowMs = Date.now()): Promise<Stoppages> {
   const [stopWork, standDowns] = await Promise.all([listStopWork(project, { openOnly: true }, nowMs), listStandDowns(project, { activeOnly: true }, nowMs)]);
-  return { stopWork, standDowns, nowMs, timeZone: project.timeZone };
+  return { stopWork, standDowns, nowMs: stopWork.length + standDowns.length > 0 ? nowMs : null, timeZone: project.timeZone };
 }
 
 /** One sentence for the assign panel; null when nothing stops work. */

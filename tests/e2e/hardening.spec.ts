@@ -1,5 +1,7 @@
 import { request as httpRequest } from "node:http";
-import { test, expect, demoProjectId } from "./fixtures";
+import { request as playwrightRequest } from "@playwright/test";
+import { PROJECT, WORK_LIMIT, ZONES, GRID } from "../../sample-data/scenario";
+import { test, expect, demoProjectId, DEMO_ACCOUNTS, signInRequest } from "./fixtures";
 
 // Issue 12 ("Hardening"), the items seen from outside the production server.
 
@@ -123,5 +125,55 @@ test.describe("hardening: reads under load, static files", () => {
     // Encoded names are decoded before the lookup; a malformed one is left to the app.
     expect((await request.get("/icons/field%2Esvg")).status()).toBe(200);
     expect((await request.get("/icons/%E0%A4%A.svg")).status()).toBeGreaterThanOrEqual(400);
+  });
+});
+
+test.describe("hardening 12: a crowd reloading the overview", () => {
+  test("the overview is drawn again only when what it shows changed: kept, then sent again as drawn, then drawn anew after a change", async ({ baseURL }) => {
+    test.setTimeout(60_000);
+    const origin = new URL(baseURL!).origin;
+    // A project of this test's own (the demo's pages change as other tests write).
+    const admin = await playwrightRequest.newContext({ baseURL });
+    await signInRequest(admin, baseURL!, DEMO_ACCOUNTS.admin);
+    const created = await admin.post("/api/projects", {
+      headers: { Origin: origin },
+      data: {
+        name: `Drawn once ${Date.now().toString(36)}`, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, timeZone: PROJECT.timeZone,
+        workLimit: WORK_LIMIT, grid: { cellSize: GRID.cellSizeFt }, zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })), manager: DEMO_ACCOUNTS.manager,
+      },
+    });
+    expect(created.status(), await created.text()).toBe(201);
+    const projectId = ((await created.json()) as { id: number }).id;
+    await admin.dispose();
+    const manager = await playwrightRequest.newContext({ baseURL });
+    await signInRequest(manager, baseURL!, DEMO_ACCOUNTS.manager);
+    const overview = async () => {
+      const answer = await manager.get(`/projects/${projectId}`);
+      expect(answer.status()).toBe(200);
+      return { timing: answer.headers()["server-timing"] ?? null, html: await answer.text() };
+    };
+
+    // Drawn for this reader, then kept: the kept answer was not drawn and says nothing of drawing.
+    const first = await overview();
+    expect(first.timing).toMatch(/^draw;dur=\d+(\.\d+)?$/);
+    const kept = await overview();
+    expect(kept.timing).toBeNull();
+    expect(kept.html).toBe(first.html);
+
+    // Once the kept page has lived its few seconds (READ_CACHE_SECONDS), the loaders run again; their
+    // data is what the page was drawn from, so the same page is sent without drawing it.
+    let again = kept;
+    await expect.poll(async () => (again = await overview()).timing, { timeout: 15_000, intervals: [500] }).not.toBeNull();
+    expect(again.timing).toBe('draw;desc="unchanged: drawn before from the same data"');
+    expect(again.html).toBe(first.html);
+
+    // A change the overview shows: drawn anew, at once.
+    const description = `Drawn anew after this change ${Date.now().toString(36)}`;
+    const patched = await manager.patch(`/api/projects/${projectId}`, { headers: { Origin: origin }, data: { description } });
+    expect(patched.status(), await patched.text()).toBe(200);
+    const changed = await overview();
+    expect(changed.timing).toMatch(/^draw;dur=/);
+    expect(changed.html).toContain(description);
+    await manager.dispose();
   });
 });

@@ -1,6 +1,8 @@
 import { createHash } from "node:crypto";
 import { getOptionalUser } from "../auth/access.server";
 import { precompress, precompressedResponse, type PrecompressedBody } from "../http/precompressed.server";
+import type { RouterContextProvider } from "react-router";
+import { readerPageKey } from "./page-drawing.server";
 import { keepCached, peekCached, versionedKey } from "./read-cache.server";
 
 /** The header app/serve.mjs sets on every request: "document" or "data". */
@@ -35,7 +37,7 @@ const TRANSFER_HEADERS = new Set(["content-length", "content-encoding", "date", 
  * Route middleware (framework mode) for a signed-in page that depends only on the database, the
  * reader and the URL: the rendered answer is kept per reader, session and URL while nothing is written.
  */
-export async function keepRenderedForReader({ request }: { request: Request }, next: () => Promise<Response>): Promise<Response> {
+export async function keepRenderedForReader({ request, context }: { request: Request; context?: Readonly<RouterContextProvider> }, next: () => Promise<Response>): Promise<Response> {
   if (request.method !== "GET") return next();
   // Set by the production server (app/serve.mjs) over anything a client sent: a page's document
   // and its data share a URL here. Without it (the development server) nothing is kept.
@@ -45,14 +47,19 @@ export async function keepRenderedForReader({ request }: { request: Request }, n
   if (!user) return next();
   const cookie = createHash("sha256").update(request.headers.get("Cookie") ?? "").digest("base64url");
   const url = new URL(request.url);
-  const key = versionedKey(`page:${kind}:${user.id}:${cookie}:${url.pathname}${url.search}`);
+  const readerKey = `page:${kind}:${user.id}:${cookie}:${url.pathname}${url.search}`;
+  const key = versionedKey(readerKey);
   if (key === null) return next();
+  // When the kept page has expired, a document whose data has not changed is not drawn again
+  // (app/lib/cache/page-drawing.server.ts); a page's data (a navigation in the app) is not drawn.
+  if (kind === "document") context?.set(readerPageKey, readerKey);
   const kept = await peekCached<KeptDocument>(key)?.catch(() => undefined);
   if (kept) return precompressedResponse(request, kept.body, Object.fromEntries(kept.headers));
   const response = await next();
   if (response.status !== 200 || response.headers.has("Set-Cookie") || !response.body) return response;
   const body = await precompress(await response.text());
   const headers = [...response.headers].filter(([name]) => !TRANSFER_HEADERS.has(name.toLowerCase()));
-  keepCached<KeptDocument>(key, { status: response.status, headers, body });
+  // The drawing's Server-Timing is this answer's alone: a kept answer was not drawn.
+  keepCached<KeptDocument>(key, { status: response.status, headers: headers.filter(([name]) => name.toLowerCase() !== "server-timing"), body });
   return precompressedResponse(request, body, Object.fromEntries(headers));
 }
