@@ -2,10 +2,10 @@ import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import AxeBuilder from "@axe-core/playwright";
 import { request as playwrightRequest, type Page } from "@playwright/test";
-import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
+import { GRID, PROJECT, SURVEYS } from "../../sample-data/scenario";
 import { configuredRoutes } from "../configured-routes";
 import { unmarkedFigureCells } from "./figure-columns";
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, demoProjectId, expect, signInRequest, test, type DemoAccount } from "./fixtures";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, createSpringProject, demoProjectId, expect, signInRequest, test, type DemoAccount } from "./fixtures";
 
 // The automated accessibility check: every page route of app/routes.ts (the .tsx files; resource
 // routes answer JSON, CSV or GeoJSON), opened at desktop size (1440 × 900) and at phone size
@@ -186,15 +186,7 @@ test("the settings page's recompute panel, running and done, has no serious or c
   const origin = new URL(baseURL!).origin;
   const admin = await playwrightRequest.newContext({ baseURL });
   await signInRequest(admin, baseURL!, DEMO_ACCOUNTS.admin);
-  const created = await admin.post("/api/projects", {
-    headers: { Origin: origin },
-    data: {
-      name: `Recompute panel spring ${Date.now().toString(36)}`, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, timeZone: PROJECT.timeZone,
-      workLimit: WORK_LIMIT, grid: { cellSize: GRID.cellSizeFt }, zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })), manager: DEMO_ACCOUNTS.manager,
-    },
-  });
-  expect(created.status(), await created.text()).toBe(201);
-  const projectId = ((await created.json()) as { id: number }).id;
+  const projectId = await createSpringProject(admin, baseURL!, `Recompute panel spring ${Date.now().toString(36)}`);
   const baseline = SURVEYS.find((survey) => survey.key === "baseline")!;
   const imported = await admin.post(`/api/projects/${projectId}/surveys`, {
     headers: { Origin: origin },

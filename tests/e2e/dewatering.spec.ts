@@ -2,9 +2,8 @@ import { mkdirSync } from "node:fs";
 import { join } from "node:path";
 import { request as playwrightRequest } from "@playwright/test";
 import sharp from "sharp";
-import { GRID, PROJECT, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { dayNumber, isoDateOf } from "../../shared/progress/calendar-days";
-import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test } from "./fixtures";
+import { DEMO_ACCOUNTS, createSpringProject, demoProjectId, expect, signInRequest, test } from "./fixtures";
 
 // The Dewatering section on the seeded demo: the operator logs a shift on a phone and sees the
 // feed rate at once, registers a tube and fills it, enters a haul ticket; the manager reads the
@@ -172,12 +171,7 @@ test("a 400-day shift record is drawn by week on a phone and a desktop: bars apa
   // A project of its own (the demo's record is short), set up by the site admin with the demo spring's outline.
   const admin = await playwrightRequest.newContext({ baseURL });
   await signInRequest(admin, baseURL!, DEMO_ACCOUNTS.admin);
-  const created = await admin.post("/api/projects", {
-    headers: { Origin: origin },
-    data: { name: `Long dewatering record ${run}`, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, timeZone: PROJECT.timeZone, workLimit: WORK_LIMIT, grid: { cellSize: GRID.cellSizeFt }, zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })), manager: DEMO_ACCOUNTS.manager },
-  });
-  expect(created.status(), await created.text()).toBe(201);
-  const longProject = ((await created.json()) as { id: number }).id;
+  const longProject = await createSpringProject(admin, baseURL!, `Long dewatering record ${run}`);
   await admin.dispose();
   // One shift on most of 400 days (every fifth day none), its flow and solids varying with the day.
   const manager = await playwrightRequest.newContext({ baseURL });

@@ -1,4 +1,4 @@
-import { PROJECT } from "../../sample-data/scenario";
+import { GRID, PROJECT, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
 import { readFileSync, readdirSync } from "node:fs";
 import { join } from "node:path";
 import { test as base, expect, request as playwrightRequest, type APIRequestContext, type Page } from "@playwright/test";
@@ -137,4 +137,20 @@ export async function createMember(baseURL: string, email: string, password: str
   const accepted = await invitee.post(new URL(link).pathname, { form: { name: "Test Member", password }, headers: { Origin: origin }, maxRedirects: 0 });
   expect(accepted.status(), "invitation accepted").toBe(302);
   await invitee.dispose();
+}
+
+/**
+ * A project of a test's own, with the demo spring's outline, grid and zones, created through the API
+ * by a context signed in as the site admin; the demo manager manages it. Answers its id.
+ */
+export async function createSpringProject(admin: APIRequestContext, baseURL: string, name: string): Promise<number> {
+  const created = await admin.post("/api/projects", {
+    headers: { Origin: new URL(baseURL).origin },
+    data: {
+      name, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, timeZone: PROJECT.timeZone,
+      workLimit: WORK_LIMIT, grid: { cellSize: GRID.cellSizeFt }, zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })), manager: DEMO_ACCOUNTS.manager,
+    },
+  });
+  expect(created.status(), await created.text()).toBe(201);
+  return ((await created.json()) as { id: number }).id;
 }

@@ -1,7 +1,6 @@
 import { request as httpRequest } from "node:http";
 import { request as playwrightRequest } from "@playwright/test";
-import { PROJECT, WORK_LIMIT, ZONES, GRID } from "../../sample-data/scenario";
-import { test, expect, demoProjectId, DEMO_ACCOUNTS, signInRequest } from "./fixtures";
+import { test, expect, demoProjectId, DEMO_ACCOUNTS, signInRequest, createSpringProject } from "./fixtures";
 
 // Issue 12 ("Hardening"), the items seen from outside the production server.
 
@@ -135,15 +134,7 @@ test.describe("hardening 12: a crowd reloading the overview", () => {
     // A project of this test's own (the demo's pages change as other tests write).
     const admin = await playwrightRequest.newContext({ baseURL });
     await signInRequest(admin, baseURL!, DEMO_ACCOUNTS.admin);
-    const created = await admin.post("/api/projects", {
-      headers: { Origin: origin },
-      data: {
-        name: `Drawn once ${Date.now().toString(36)}`, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, timeZone: PROJECT.timeZone,
-        workLimit: WORK_LIMIT, grid: { cellSize: GRID.cellSizeFt }, zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })), manager: DEMO_ACCOUNTS.manager,
-      },
-    });
-    expect(created.status(), await created.text()).toBe(201);
-    const projectId = ((await created.json()) as { id: number }).id;
+    const projectId = await createSpringProject(admin, baseURL!, `Drawn once ${Date.now().toString(36)}`);
     await admin.dispose();
     const manager = await playwrightRequest.newContext({ baseURL });
     await signInRequest(manager, baseURL!, DEMO_ACCOUNTS.manager);

@@ -1,8 +1,8 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { request as playwrightRequest } from "@playwright/test";
-import { GRID, PROJECT, SURVEYS, WORK_LIMIT, ZONES } from "../../sample-data/scenario";
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, expect, signInRequest, signInWithPassword, test } from "./fixtures";
+import { GRID, PROJECT, SURVEYS } from "../../sample-data/scenario";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, createSpringProject, expect, signInRequest, signInWithPassword, test } from "./fixtures";
 
 const DEMO_DIR = join(import.meta.dirname, "..", "..", "sample-data", "demo");
 
@@ -149,15 +149,7 @@ test("after a baseline, the manager's new tolerance and then a new cell size are
   // The site admin sets a project up through the API with the demo spring's outline and zones; its manager imports the demo baseline.
   const admin = await playwrightRequest.newContext({ baseURL });
   await signInRequest(admin, baseURL!, DEMO_ACCOUNTS.admin);
-  const created = await admin.post("/api/projects", {
-    headers: { Origin: origin },
-    data: {
-      name: `Recompute spring ${Date.now().toString(36)}`, crs: PROJECT.crs, lengthUnit: PROJECT.lengthUnit, timeZone: PROJECT.timeZone,
-      workLimit: WORK_LIMIT, grid: { cellSize: GRID.cellSizeFt }, zones: ZONES.map((zone) => ({ name: zone.name, geometry: zone.polygon })), manager: DEMO_ACCOUNTS.manager,
-    },
-  });
-  expect(created.status(), await created.text()).toBe(201);
-  const projectId = ((await created.json()) as { id: number }).id;
+  const projectId = await createSpringProject(admin, baseURL!, `Recompute spring ${Date.now().toString(36)}`);
   await admin.dispose();
   const manager = await playwrightRequest.newContext({ baseURL });
   await signInRequest(manager, baseURL!, DEMO_ACCOUNTS.manager);
