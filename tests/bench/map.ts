@@ -15,12 +15,18 @@
  * Each of --runs (3) runs makes a cold load in a fresh browser context, then a warm one on the same
  * page; the figures are the median run's, and the load average is printed beside each run (the
  * machine may be shared, and software WebGL makes the drawing CPU-bound).
+ * --profile DIR writes the page's main thread during each warm load as a .cpuprofile; --trace DIR a
+ * Chromium trace of each cold load (every thread: the page, the map's worker, the GPU process); --waterfall
+ * prints every request of the loads with when it was asked for, began and ended.
  * What it seeds (under names of its own run) is removed at the end unless --keep is given; --reuse
  * measures a bay kept that way instead of seeding one.
  *
- * "Drawn" is the map element's data-cells-drawn attribute (set once MapLibre is idle after the
- * cells' setData); the time is read in the page (performance.now(), whose origin is the start of
- * the navigation), and the bench checks that the cells layer really has rendered features then.
+ * "Drawn" is the map element's data-cells-drawn attribute (set in MapLibre's first complete frame,
+ * or once it is idle after the cells' setData), and the bench checks that the cells layer really has
+ * rendered features then. The figure is when that frame is on screen: the first task after it, which
+ * runs once the frame has been committed to the compositor (in software GL, once the map's canvas
+ * has been read back, waiting for every draw still queued). Times are read in the page
+ * (performance.now(), whose origin is the start of the navigation).
  * Bytes are Chromium's own count (DevTools protocol, Network.loadingFinished encodedDataLength:
  * headers plus the body as received) for every request of a cold load in a fresh browser context.
  */
@@ -55,6 +61,7 @@ const argument = (name: string) => {
 const soundings = Number(argument("--soundings") ?? 150_000);
 const keep = process.argv.includes("--keep");
 const profileDir = argument("--profile");
+const traceDir = argument("--trace");
 const reuse = process.argv.includes("--reuse");
 const runs = Math.max(1, Number(argument("--runs") ?? 3));
 const baseUrl = process.env.BENCH_BASE_URL;
@@ -258,7 +265,7 @@ async function recordNetwork(page: Page): Promise<{ requests: Map<string, Reques
 // look's image loaded); and when the cell shapes are drawn, if that came later.
 function watchDrawn() {
   type Drawn = { at: number; count: string; as: string; rendered: number };
-  const record = window as unknown as { benchDrawn?: Drawn; benchShapes?: number };
+  const record = window as unknown as { benchDrawn?: Drawn; benchShapes?: number; benchOnScreen?: number };
   type BenchMap = { queryRenderedFeatures: (options: { layers: string[] }) => unknown[]; getLayer: (id: string) => unknown; isSourceLoaded: (id: string) => boolean };
   const observer = new MutationObserver((mutations) => {
     for (const mutation of mutations) {
@@ -272,6 +279,10 @@ function watchDrawn() {
         const quickLookShown = as === "quick look" && map && map.getLayer("cells-quick-look") && map.isSourceLoaded("cells-quick-look");
         const rendered = !map ? -1 : as === "quick look" ? (quickLookShown ? Number(count) : 0) : map.queryRenderedFeatures({ layers: ["cells-fill"] }).length;
         record.benchDrawn = { at, count, as, rendered };
+        // On screen: a task after this one runs once the frame it ends has been committed to the
+        // compositor, which in software GL first reads the map's canvas back (and so waits for
+        // every draw the GPU process still had queued).
+        setTimeout(() => (record.benchOnScreen = performance.now()), 0);
       }
       if (as === "shapes") {
         record.benchShapes = at;
@@ -286,13 +297,26 @@ function watchDrawn() {
   (window as unknown as { benchMarks?: Record<string, number> }).benchMarks = marks;
   const timer = setInterval(() => {
     type Listener = (event: { sourceId?: string; sourceDataType?: string }) => void;
-    const map = (window as unknown as { firmsandMap?: { on: (type: string, listener: Listener) => void } }).firmsandMap;
+    const map = (window as unknown as { firmsandMap?: { on: (type: string, listener: Listener) => void; getStyle: () => { sources: object }; isSourceLoaded: (id: string) => boolean } }).firmsandMap;
     if (!map) return;
     clearInterval(timer);
     marks["map created"] = performance.now();
     let metadata = 0;
     let frames = 0;
-    map.on("load", () => (marks["map style loaded"] = performance.now()));
+    let loaded = false;
+    map.on("load", () => {
+      marks["map style loaded"] = performance.now();
+      loaded = true;
+    });
+    // Each frame before the load, with the sources still loading then (in software GL a frame costs
+    // tens of milliseconds, and a frame drawn before all are in is drawn again).
+    let sourceIds: string[] | null = null;
+    map.on("render", () => {
+      if (loaded) return;
+      sourceIds ??= Object.keys(map.getStyle().sources);
+      const loading = sourceIds.filter((id) => !map.isSourceLoaded(id));
+      marks[`frame ${Object.keys(marks).filter((mark) => mark.startsWith("frame ")).length + 1} before the load (loading: ${loading.join(", ") || "none"})`] = performance.now();
+    });
     map.on("sourcedata", (event) => {
       if (event.sourceId === "cells" && event.sourceDataType === "metadata" && ++metadata === 2) marks["cells parsed in the map's worker"] = performance.now();
     });
@@ -311,23 +335,28 @@ interface LoadFigures {
   rendered: number;
   requests: RequestFigures[];
   marks: Record<string, number>;
+  waterfall: Array<{ path: string; start: number; firstByte: number; end: number }>;
 }
 
 async function measureLoad(page: Page, projectId: number): Promise<LoadFigures> {
   const { requests, session } = await recordNetwork(page);
   const started = performance.now();
   await page.goto(`/projects/${projectId}/map`, { waitUntil: "commit" });
-  await page.waitForFunction(() => Boolean((window as unknown as { benchDrawn?: unknown }).benchDrawn), undefined, { timeout: 60_000, polling: 50 });
+  await page.waitForFunction(() => Boolean((window as unknown as { benchOnScreen?: number }).benchOnScreen), undefined, { timeout: 60_000, polling: 50 });
   const wallSeconds = (performance.now() - started) / 1000;
   // The load ends when the shapes are drawn too (clickable, clipped): the bytes and stages are whole.
   await page.waitForFunction(() => Boolean((window as unknown as { benchShapes?: number }).benchShapes), undefined, { timeout: 120_000, polling: 50 });
   const drawn = await page.evaluate(() => (window as unknown as { benchDrawn: { at: number; count: string; as: string; rendered: number } }).benchDrawn);
   const shapesAt = await page.evaluate(() => (window as unknown as { benchShapes: number }).benchShapes);
+  const onScreenAt = await page.evaluate(() => (window as unknown as { benchOnScreen: number }).benchOnScreen);
   // Stages of the load, from the page's resource timings (ms since the navigation started).
   const marks = await page.evaluate(() => {
     const out: Record<string, number> = {};
     const navigation = performance.getEntriesByType("navigation")[0] as PerformanceNavigationTiming | undefined;
     if (navigation) {
+      out["document requested"] = navigation.requestStart;
+      out["document's first byte"] = navigation.responseStart;
+      for (const timing of navigation.serverTiming) if (timing.duration > 0) out[`  (server: ${timing.name} ${timing.duration.toFixed(0)} ms)`] = navigation.responseStart;
       out["document received"] = navigation.responseEnd;
       out["DOMContentLoaded"] = navigation.domContentLoadedEventEnd;
     }
@@ -337,23 +366,38 @@ async function measureLoad(page: Page, projectId: number): Promise<LoadFigures> 
       if (/\/map\/style\.json$/.test(path)) out["style received"] = entry.responseEnd;
       if (/maplibre-gl-worker/.test(path)) out["map worker script received"] = entry.responseEnd;
     }
+    // The map's own user timing marks (coverage-map.tsx): what it waited for before it was made.
+    for (const entry of performance.getEntriesByType("mark")) if (entry.name.startsWith("map: ")) out[entry.name] = entry.startTime;
     return { ...out, ...(window as unknown as { benchMarks: Record<string, number> }).benchMarks };
   });
+  // --waterfall: every request of the load, when it was asked for and when its answer ended.
+  const waterfall = !process.argv.includes("--waterfall")
+    ? []
+    : await page.evaluate(() =>
+        (performance.getEntriesByType("resource") as PerformanceResourceTiming[]).map((entry) => ({
+          path: new URL(entry.name).pathname,
+          start: entry.startTime,
+          firstByte: entry.responseStart,
+          end: entry.responseEnd,
+        })),
+      );
   if (drawn.as !== "shapes") marks["cell shapes drawn (clipped, clickable as shapes)"] = shapesAt;
+  marks[`cells drawn as ${drawn.as} in the map's frame`] = drawn.at;
   // Let the requests still under way finish (the assignments, say) so the byte count is whole.
   const settle = performance.now();
   while ([...requests.values()].some((request) => !request.done) && performance.now() - settle < 5_000) await page.waitForTimeout(50);
   await session.detach();
-  return { seconds: drawn.at / 1000, wallSeconds, drawnCount: Number(drawn.count), drawnAs: drawn.as, rendered: drawn.rendered, requests: [...requests.values()], marks };
+  return { seconds: onScreenAt / 1000, wallSeconds, drawnCount: Number(drawn.count), drawnAs: drawn.as, rendered: drawn.rendered, requests: [...requests.values()], marks, waterfall };
 }
 
 function printLoad(name: string, load: LoadFigures) {
   const total = load.requests.reduce((sum, request) => sum + request.encoded, 0);
   const decoded = load.requests.reduce((sum, request) => sum + request.decoded, 0);
-  console.log(`${name}: ${load.seconds.toFixed(2)} s from navigation to ${load.drawnCount.toLocaleString("en-US")} cells drawn (${load.wallSeconds.toFixed(2)} s as seen by the driver); ${load.requests.length} requests, ${total.toLocaleString("en-US")} bytes on the wire (${(total / 1e6).toFixed(2)} MB; ${(decoded / 1e6).toFixed(2)} MB decoded)`);
+  console.log(`${name}: ${load.seconds.toFixed(2)} s from navigation to ${load.drawnCount.toLocaleString("en-US")} cells drawn and on screen (${load.wallSeconds.toFixed(2)} s as seen by the driver); ${load.requests.length} requests, ${total.toLocaleString("en-US")} bytes on the wire (${(total / 1e6).toFixed(2)} MB; ${(decoded / 1e6).toFixed(2)} MB decoded)`);
   const frames = load.marks["frames drawn after the cells were parsed"];
   for (const [mark, at] of Object.entries(load.marks).filter(([mark]) => !mark.startsWith("frames")).sort((a, b) => a[1] - b[1])) console.log(`  ${(at / 1000).toFixed(2).padStart(6)} s  ${mark}`);
-  console.log(`  ${load.seconds.toFixed(2).padStart(6)} s  cells drawn as ${load.drawnAs} (${load.drawnAs === "shapes" ? `${load.rendered.toLocaleString("en-US")} cell features rendered in view` : `image of ${load.rendered.toLocaleString("en-US")} cells loaded`}${frames && load.drawnAs === "shapes" ? `; ${frames} frames since parsed` : ""})`);
+  for (const entry of load.waterfall) console.log(`    request ${(entry.start / 1000).toFixed(3)} → first byte ${(entry.firstByte / 1000).toFixed(3)} → end ${(entry.end / 1000).toFixed(3)} s  ${entry.path}`);
+  console.log(`  ${load.seconds.toFixed(2).padStart(6)} s  that frame on screen: ${load.drawnAs} (${load.drawnAs === "shapes" ? `${load.rendered.toLocaleString("en-US")} cell features rendered in view` : `image of ${load.rendered.toLocaleString("en-US")} cells loaded`}${frames && load.drawnAs === "shapes" ? `; ${frames} frames since parsed` : ""})`);
 }
 
 function printLargest(load: LoadFigures, count = 12) {
@@ -387,7 +431,14 @@ try {
     const context = await signedInContext(browser, seeding.email);
     await context.addInitScript(watchDrawn);
     const page = await context.newPage();
+    // --trace DIR: a Chromium trace of the cold load (every process and thread: the page, the map's
+    // worker, the GPU process), for chrome://tracing or Perfetto.
+    if (traceDir) {
+      mkdirSync(traceDir, { recursive: true });
+      await browser.startTracing(page, { path: join(traceDir, `map-cold-${run + 1}.json`), categories: ["devtools.timeline", "disabled-by-default-devtools.timeline", "v8", "v8.execute", "toplevel", "gpu", "blink.user_timing", "loading", "netlog", "disabled-by-default-gpu.service", "gpu.angle", "disabled-by-default-gpu.decoder"] });
+    }
     const cold = await measureLoad(page, seeding.projectId);
+    if (traceDir) await browser.stopTracing();
     // --profile DIR: the page's main thread during the warm load, as a .cpuprofile (DevTools, speedscope).
     const profiler = profileDir ? await context.newCDPSession(page) : null;
     if (profiler) {

@@ -75,6 +75,35 @@ test("the map draws the demo's cells in their status colours, with labels, from 
   expect(checked.length).toBeGreaterThan(0);
 });
 
+test("cells that come after the map's style are still drawn in its first complete frame, handed to the map's worker once", async ({ page, signIn }) => {
+  await signIn("viewer");
+  // The map's cells source: each time its data reaches the map's worker, a "metadata" event.
+  await page.addInitScript(() => {
+    type Listener = (event: { sourceId?: string; sourceDataType?: string }) => void;
+    const record = window as unknown as { cellsHandedOver?: number; firmsandMap?: { on(type: string, listener: Listener): void } };
+    record.cellsHandedOver = 0;
+    const timer = setInterval(() => {
+      if (!record.firmsandMap) return;
+      clearInterval(timer);
+      record.firmsandMap.on("sourcedata", (event) => {
+        if (event.sourceId === "cells" && event.sourceDataType === "metadata") record.cellsHandedOver! += 1;
+      });
+    }, 2);
+  });
+  // The cells' read answers 0.6 s late: MapLibre, the style and the fonts are in long before.
+  await page.route(`**/api/projects/${projectId}/cells`, async (route) => {
+    await new Promise((done) => setTimeout(done, 600));
+    await route.continue();
+  });
+  await page.goto(`/projects/${projectId}/map`);
+  await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-cells-drawn", /\d+/, { timeout: 20_000 });
+  const rendered = await page.evaluate(() => (window as unknown as { firmsandMap: { queryRenderedFeatures(o: object): unknown[] } }).firmsandMap.queryRenderedFeatures({ layers: ["cells-fill"] }).length);
+  expect(rendered).toBeGreaterThan(0);
+  await mapSettled(page);
+  // Made with the cells in its style: once. A map made without them gets them by a second hand-over.
+  expect(await page.evaluate(() => (window as unknown as { cellsHandedOver: number }).cellsHandedOver)).toBe(1);
+});
+
 test("each zone is outlined and named in its own colour, and the legend lists the zones with their colours", async ({ page, signIn, baseURL }) => {
   const context = await playwrightRequest.newContext({ baseURL });
   await signInRequest(context, baseURL!, DEMO_ACCOUNTS.manager);

@@ -99,6 +99,9 @@ interface InlinedCells {
 /** The cell labels' minzoom in the style, less a little: their points are made on the way there. */
 const LABELS_FROM_ZOOM = 18;
 
+/** How long the map, once MapLibre and its style are in, waits for the cells' first read before it is made without them. */
+const CELLS_WAIT_MS = 1500;
+
 /** Room kept free around the framed project: the north arrow at top left and, on a wide map, the legend at bottom right. */
 function framePadding(element: HTMLElement) {
   return element.clientWidth >= 700 ? { top: 40, bottom: 40, left: 70, right: 270 } : { top: 40, bottom: 40, left: 30, right: 30 };
@@ -176,6 +179,11 @@ export function CoverageMap(props: Props) {
   };
   const callbacks = useRef(props);
   callbacks.current = props;
+  // Called once the cells' first read has ended (with cells or an error), while the map waits for it.
+  const cellsSettled = useRef<(() => void) | null>(null);
+  useEffect(() => {
+    if (props.data || props.loadError) cellsSettled.current?.();
+  });
   const box = useRef<HTMLDivElement>(null);
 
   useEffect(() => {
@@ -189,7 +197,26 @@ export function CoverageMap(props: Props) {
         .then((response) => (response.ok ? (response.json() as Promise<StyleSpecification>) : null))
         .catch(() => null);
       // Labels are drawn from the page's Roboto Mono (no glyphs URL): load it before the first label.
-      const [maplibre, style] = await Promise.all([loadMapLibre(), styleRead, loadMapFonts()]);
+      // User timing marks (the browser's developer tools, the map bench): what the map waited for.
+      const marked = <T,>(name: string, promise: Promise<T>) => promise.finally(() => performance.mark(`map: ${name}`));
+      performance.mark("map: effect started");
+      const [maplibre, style] = await Promise.all([marked("MapLibre in", loadMapLibre()), marked("style in", styleRead), marked("fonts in", loadMapFonts())]);
+      // The cells' first read (the page's, started beside this one) is awaited a little, so a small
+      // grid goes into the style and the first complete frame has it: arriving just after the map
+      // was made, it would cost a second round through the map's worker and more frames. A read
+      // slower than that (a large grid on a slow line) does not hold the shoreline and zones back.
+      if (!callbacks.current.data && !callbacks.current.loadError) {
+        await new Promise<void>((resolve) => {
+          const timer = setTimeout(settle, CELLS_WAIT_MS);
+          function settle() {
+            clearTimeout(timer);
+            cellsSettled.current = null;
+            resolve();
+          }
+          cellsSettled.current = settle;
+        });
+        performance.mark("map: cells in (waited for)");
+      }
       if (cancelled || !container.current) return;
       if (style) {
         // What the page shows goes into the style itself: the layers shown, the zone filter and,
