@@ -77,18 +77,24 @@ test("the map draws the demo's cells in their status colours, with labels, from 
 
 test("cells that come after the map's style are still drawn in its first complete frame, handed to the map's worker once", async ({ page, signIn }) => {
   await signIn("viewer");
-  // The map's cells source: each time its data reaches the map's worker, a "metadata" event.
+  // The map's cells source: each time its data reaches the map's worker, a "metadata" event. The
+  // listener is added as the page hands out its map (right after it is made, before any such event).
   await page.addInitScript(() => {
     type Listener = (event: { sourceId?: string; sourceDataType?: string }) => void;
-    const record = window as unknown as { cellsHandedOver?: number; firmsandMap?: { on(type: string, listener: Listener): void } };
+    type WatchedMap = { on(type: string, listener: Listener): void };
+    const record = window as unknown as { cellsHandedOver: number };
     record.cellsHandedOver = 0;
-    const timer = setInterval(() => {
-      if (!record.firmsandMap) return;
-      clearInterval(timer);
-      record.firmsandMap.on("sourcedata", (event) => {
-        if (event.sourceId === "cells" && event.sourceDataType === "metadata") record.cellsHandedOver! += 1;
-      });
-    }, 2);
+    let map: WatchedMap | undefined;
+    Object.defineProperty(window, "firmsandMap", {
+      configurable: true,
+      get: () => map,
+      set: (value: WatchedMap) => {
+        map = value;
+        value.on("sourcedata", (event) => {
+          if (event.sourceId === "cells" && event.sourceDataType === "metadata") record.cellsHandedOver += 1;
+        });
+      },
+    });
   });
   // The cells' read answers 0.6 s late: MapLibre, the style and the fonts are in long before.
   await page.route(`**/api/projects/${projectId}/cells`, async (route) => {
