@@ -1,7 +1,7 @@
 import { Shoreline, Zone } from "~/lib/db.server";
 import { LAND_COLOUR, STATUS_COLOURS, WATER_COLOUR, WORK_LIMIT_COLOUR } from "../../shared/palette";
 import { CELL_SOURCES } from "~/components/map/cell-sources";
-import { MARK_STYLES, PLANNED_PATTERN, TUBE_COLOURS } from "~/components/map/paint";
+import { MARK_STYLES, PLANNED_PATTERN, TUBE_COLOURS, sharedProgramColour } from "~/components/map/paint";
 import { findProject } from "~/lib/auth/project-view.server";
 import { createCrs } from "../../shared/crs";
 import { tubeEnds } from "../../shared/dewatering/tubes";
@@ -62,9 +62,11 @@ export async function buildMapStyle(project: ProjectView) {
     },
     layers: [
       { id: "background", type: "background", paint: { "background-color": LAND_COLOUR } },
-      { id: "shoreline-water", type: "fill", source: "shoreline", paint: { "fill-color": WATER_COLOUR } },
+      // The water and held fills: no antialiasing (a line is drawn over each edge) and a colour that
+      // shares the cells' program (sharedProgramColour); each program compiled costs the first frame.
+      { id: "shoreline-water", type: "fill", source: "shoreline", paint: { "fill-color": sharedProgramColour(WATER_COLOUR), "fill-antialias": false } },
       { id: "shoreline-edge", type: "line", source: "shoreline", paint: { "line-color": "#7d9ba5", "line-width": 1 } },
-      { id: "work-limit-water", type: "fill", source: "work-limit", paint: { "fill-color": WATER_COLOUR } },
+      { id: "work-limit-water", type: "fill", source: "work-limit", paint: { "fill-color": sharedProgramColour(WATER_COLOUR), "fill-antialias": false } },
       {
         id: "cells-fill", type: "fill", source: "cells",
         // Without antialiasing: adjoining squares need no smoothed edges, and it costs the most per frame.
@@ -78,13 +80,15 @@ export async function buildMapStyle(project: ProjectView) {
       { id: "zones-casing", type: "line", source: "zones", paint: { "line-color": "#ffffff", "line-width": 4.5, "line-opacity": 0.85 } },
       { id: "work-limit-outline", type: "line", source: "work-limit", paint: { "line-color": WORK_LIMIT_COLOUR, "line-width": 3.5 } },
       { id: "zones-outline", type: "line", source: "zones", paint: { "line-color": ["get", "colour"], "line-width": 2, "line-dasharray": [3, 1.5] } },
-      { id: "tubes", type: "line", source: "tubes", layout: { "line-cap": "round" }, paint: { "line-color": ["case", ["get", "nearCapacity"], TUBE_COLOURS.nearCapacity, TUBE_COLOURS.normal], "line-width": 7 } },
+      // Two layers of one colour each (not one coloured per tube): they share the program of the other lines.
+      { id: "tubes", type: "line", source: "tubes", filter: ["!", ["get", "nearCapacity"]], layout: { "line-cap": "round" }, paint: { "line-color": TUBE_COLOURS.normal, "line-width": 7 } },
+      { id: "tubes-near-capacity", type: "line", source: "tubes", filter: ["get", "nearCapacity"], layout: { "line-cap": "round" }, paint: { "line-color": TUBE_COLOURS.nearCapacity, "line-width": 7 } },
       {
         id: "tube-labels", type: "symbol", source: "tubes",
         layout: { "text-field": ["get", "name"], "text-font": textFont, "text-size": 12, "symbol-placement": "line-center", "text-allow-overlap": true, "text-ignore-placement": true },
-        paint: { "text-color": "#2b2416", "text-halo-color": "#ffffff", "text-halo-width": 2 },
+        paint: { "text-color": sharedProgramColour("#2b2416"), "text-halo-color": "#ffffff", "text-halo-width": 2 },
       },
-      { id: "cells-held-fill", type: "fill", source: "cells-held", paint: { "fill-color": MARK_STYLES.held.fill } },
+      { id: "cells-held-fill", type: "fill", source: "cells-held", paint: { "fill-color": sharedProgramColour(MARK_STYLES.held.fill), "fill-antialias": false } },
       { id: "cells-held", type: "line", source: "cells-held", paint: { "line-color": MARK_STYLES.held.line, "line-width": 2 } },
       // Planned cells: a hatch over the cell's own colour (the page adds the pattern image) and a
       // solid outline, so they stand out on every status colour and the status still reads.
@@ -118,12 +122,12 @@ export async function buildMapStyle(project: ProjectView) {
       {
         id: "stations-labels", type: "symbol", source: "stations",
         layout: { "text-field": ["get", "name"], "text-font": textFont, "text-size": 12, "text-anchor": "left", "text-offset": [1, 0], "text-optional": true },
-        paint: { "text-color": "#1d2528", "text-halo-color": "#ffffff", "text-halo-width": 2 },
+        paint: { "text-color": sharedProgramColour("#1d2528"), "text-halo-color": "#ffffff", "text-halo-width": 2 },
       },
       {
         id: "sightings-labels", type: "symbol", source: "sightings",
         layout: { "text-field": ["get", "label"], "text-font": textFont, "text-size": 12, "text-anchor": "left", "text-offset": [1, 0], "text-optional": true, "text-max-width": 24 },
-        paint: { "text-color": "#5a2a00", "text-halo-color": "#ffffff", "text-halo-width": 2 },
+        paint: { "text-color": sharedProgramColour("#5a2a00"), "text-halo-color": "#ffffff", "text-halo-width": 2 },
       },
     ],
   };

@@ -10,6 +10,7 @@ import { cellCentreLonLat, labelIndex, type CellsData } from "~/components/map/c
 import { cellIndexAtLonLat } from "~/components/map/cell-image";
 import { workLimitExtent, type LonLatWorkLimit } from "~/components/map/clip-cells";
 import { CoverageMap } from "~/components/map/coverage-map";
+import { mapCellsUrl, startMapPageReads, takeEarlyRead } from "~/components/map/early-reads";
 import { MapLegend, type LegendSection } from "~/components/map/legend";
 import { MapKeysHelp } from "~/components/map/map-keys";
 import { MapPanel } from "~/components/map/map-panel";
@@ -36,6 +37,9 @@ import { listZones } from "~/models/project.server";
 import { mapMonitoring } from "~/models/map-monitoring.server";
 import { describeEquipment } from "../../shared/dive-plan/equipment";
 import type { Route } from "./+types/projects.$projectId.map";
+
+// On a first visit to this page, its style and cells are read while the page hydrates.
+startMapPageReads();
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireRole(request, params.projectId);
@@ -189,7 +193,9 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
   const cellsVersion = useRef<string | null>(null);
   const loadCells = useCallback(async () => {
     const headers: HeadersInit = cellsVersion.current ? { "If-None-Match": cellsVersion.current } : {};
-    const response = await fetch(`/api/projects/${projectId}/cells`, { headers, cache: "no-store" });
+    // The first read may have been started before the page was hydrated (early-reads.ts).
+    const early = cellsVersion.current ? null : takeEarlyRead(mapCellsUrl(projectId));
+    const response = await (early ?? fetch(mapCellsUrl(projectId), { headers, cache: "no-store" }));
     if (response.status === 304) return false;
     if (!response.ok) throw new Error(`the server answered ${response.status}`);
     const next = (await response.json()) as CellsData;

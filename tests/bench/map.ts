@@ -308,8 +308,9 @@ function watchDrawn() {
       marks["map style loaded"] = performance.now();
       loaded = true;
     });
-    // Each frame before the load, with the sources still loading then (in software GL a frame costs
-    // tens of milliseconds, and a frame drawn before all are in is drawn again).
+    // Each of MapLibre's frames before the load, with the sources still loading then. The map holds
+    // their drawing back (app/components/map/hold-frames.ts): the app's mark "first complete frame
+    // (N held before it)" says how many were not drawn.
     let sourceIds: string[] | null = null;
     map.on("render", () => {
       if (loaded) return;

@@ -127,6 +127,44 @@ test.describe("hardening: reads under load, static files", () => {
   });
 });
 
+test.describe("hardening: reads under load, compressed scripts", () => {
+  test("the built scripts go out as the build compressed them: Brotli or gzip as the browser accepts, the same bytes as the file", async ({ request, baseURL }) => {
+    const page = await (await request.get("/login")).text();
+    const scripts = [...new Set(page.match(/\/assets\/[^"]+\.js/g) ?? [])];
+    expect(scripts.length).toBeGreaterThan(1);
+    // Node's own client: it sends Accept-Encoding as given and hands back the bytes as sent.
+    const get = (path: string, acceptEncoding: string) =>
+      new Promise<{ encoding: string | undefined; vary: string | undefined; type: string | undefined; cache: string | undefined; body: Buffer }>((resolve, reject) => {
+        httpRequest(new URL(path, baseURL), { headers: { "Accept-Encoding": acceptEncoding } }, (response) => {
+          const chunks: Buffer[] = [];
+          response.on("data", (chunk: Buffer) => chunks.push(chunk));
+          response.on("end", () => resolve({ encoding: response.headers["content-encoding"], vary: response.headers.vary, type: response.headers["content-type"], cache: response.headers["cache-control"], body: Buffer.concat(chunks) }));
+        }).on("error", reject).end();
+      });
+    const { brotliDecompressSync, gunzipSync } = await import("node:zlib");
+    // The largest script of the page: compressed, whatever its size.
+    const sizes = await Promise.all(scripts.map(async (path) => ({ path, plain: await get(path, "identity") })));
+    const { path, plain } = sizes.sort((a, b) => b.plain.body.length - a.plain.body.length)[0];
+    expect(plain.encoding).toBeUndefined();
+    expect(plain.body.length).toBeGreaterThan(10_000);
+    const br = await get(path, "gzip, deflate, br");
+    expect(br.encoding).toBe("br");
+    expect(br.body.length).toBeLessThan(plain.body.length / 2);
+    expect(brotliDecompressSync(br.body).equals(plain.body)).toBe(true);
+    const gz = await get(path, "gzip");
+    expect(gz.encoding).toBe("gzip");
+    expect(gunzipSync(gz.body).equals(plain.body)).toBe(true);
+    for (const answer of [plain, br, gz]) {
+      expect(answer.type).toContain("javascript");
+      expect(answer.vary).toContain("Accept-Encoding");
+      expect(answer.cache).toContain("immutable");
+    }
+    // Pages are still compressed as they are made.
+    const login = await get("/login", "gzip");
+    expect(login.encoding).toBe("gzip");
+  });
+});
+
 test.describe("hardening 12: a crowd reloading the overview", () => {
   test("the overview is drawn again only when what it shows changed: kept, then sent again as drawn, then drawn anew after a change", async ({ baseURL }) => {
     test.setTimeout(60_000);

@@ -110,6 +110,58 @@ test("cells that come after the map's style are still drawn in its first complet
   expect(await page.evaluate(() => (window as unknown as { cellsHandedOver: number }).cellsHandedOver)).toBe(1);
 });
 
+test("a first visit reads the style and cells while the page hydrates, and the map draws nothing until its first complete frame", async ({ page, signIn }) => {
+  await signIn("viewer");
+  // At each of MapLibre's frames before the load, and at the load's own, one pixel of the map's
+  // canvas (its drawing buffer is kept): a held frame leaves it as it was, empty.
+  await page.addInitScript(() => {
+    type WatchedMap = { on(type: string, listener: () => void): void; getCanvas(): HTMLCanvasElement };
+    const record = window as unknown as { framePixels: Array<{ loaded: boolean; alpha: number }> };
+    record.framePixels = [];
+    let map: WatchedMap | undefined;
+    Object.defineProperty(window, "firmsandMap", {
+      configurable: true,
+      get: () => map,
+      set: (value: WatchedMap) => {
+        map = value;
+        let loaded = false;
+        const canvas = value.getCanvas();
+        const gl = (canvas.getContext("webgl2") ?? canvas.getContext("webgl")) as WebGLRenderingContext;
+        const sample = () => {
+          const pixel = new Uint8Array(4);
+          gl.readPixels(Math.floor(canvas.width / 2), Math.floor(canvas.height / 2), 1, 1, gl.RGBA, gl.UNSIGNED_BYTE, pixel);
+          record.framePixels.push({ loaded, alpha: pixel[3] });
+        };
+        value.on("render", () => { if (!loaded) sample(); });
+        value.on("load", () => { loaded = true; sample(); });
+      },
+    });
+  });
+  const reads: string[] = [];
+  page.on("request", (request) => {
+    const path = new URL(request.url()).pathname;
+    if (path === `/projects/${projectId}/map/style.json` || path === `/api/projects/${projectId}/cells`) reads.push(path);
+  });
+  await page.goto(`/projects/${projectId}/map`);
+  await expect(page.getByTestId("coverage-map")).toHaveAttribute("data-cells-drawn", /\d+/, { timeout: 20_000 });
+  await mapSettled(page);
+  // Each read once, both started before the map's code ran (it runs once the page is hydrated).
+  expect(reads.sort()).toEqual([`/api/projects/${projectId}/cells`, `/projects/${projectId}/map/style.json`]);
+  const started = await page.evaluate((id) => {
+    const at = (name: string) => performance.getEntriesByName(name)[0]?.startTime ?? Number.NaN;
+    return { style: at(`${location.origin}/projects/${id}/map/style.json`), cells: at(`${location.origin}/api/projects/${id}/cells`), effect: at("map: effect started") };
+  }, projectId);
+  expect(started.style).toBeLessThan(started.effect);
+  expect(started.cells).toBeLessThan(started.effect);
+  // Partial frames came (the sources arrive one by one) and none was drawn; the complete one was.
+  const pixels = await page.evaluate(() => (window as unknown as { framePixels: Array<{ loaded: boolean; alpha: number }> }).framePixels);
+  const before = pixels.filter((pixel) => !pixel.loaded);
+  expect(before.length).toBeGreaterThan(1);
+  // The frame the load fires in is the complete one: every frame before it is left empty.
+  expect(before.slice(0, -1).map((pixel) => pixel.alpha)).toEqual(before.slice(0, -1).map(() => 0));
+  expect(pixels.find((pixel) => pixel.loaded)?.alpha).toBe(255);
+});
+
 test("each zone is outlined and named in its own colour, and the legend lists the zones with their colours", async ({ page, signIn, baseURL }) => {
   const context = await playwrightRequest.newContext({ baseURL });
   await signInRequest(context, baseURL!, DEMO_ACCOUNTS.manager);

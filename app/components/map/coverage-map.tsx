@@ -8,6 +8,8 @@ import type { LonLatWorkLimit } from "./clip-cells";
 import { PLANNED_PATTERN, bandColour, cellColour, fillColour, plannedPatternPixels, type BandBounds, type MapView } from "./paint";
 import type { LayerKey } from "./view-url";
 import { MONITORING_CLICK_LAYERS, MONITORING_LAYERS, type MonitoringKey } from "./monitoring";
+import { mapStyleUrl, takeEarlyRead } from "./early-reads";
+import { holdFramesUntilComplete } from "./hold-frames";
 import { loadMapFonts, loadMapLibre } from "./load-maplibre";
 
 export type { LayerKey };
@@ -20,7 +22,7 @@ export const LAYER_GROUPS: Record<LayerKey, string[]> = {
   labels: ["zone-labels", "cell-labels"],
   monitoring: MONITORING_LAYERS,
   // The geotextile tubes on the laydown area and their names (map-style.server.ts).
-  tubes: ["tubes", "tube-labels"],
+  tubes: ["tubes", "tubes-near-capacity", "tube-labels"],
 };
 
 interface Props {
@@ -101,6 +103,9 @@ const LABELS_FROM_ZOOM = 18;
 
 /** How long the map, once MapLibre and its style are in, waits for the cells' first read before it is made without them. */
 const CELLS_WAIT_MS = 1500;
+
+/** How long a new map holds its partial frames back for its first complete one, at most. */
+const FRAMES_HELD_AT_MOST_MS = 1000;
 
 /** Room kept free around the framed project: the north arrow at top left and, on a wide map, the legend at bottom right. */
 function framePadding(element: HTMLElement) {
@@ -191,9 +196,10 @@ export function CoverageMap(props: Props) {
     let map: MapLibreMap | null = null;
     let removeWindowListeners = () => undefined as void;
     (async () => {
-      const styleUrl = `${window.location.origin}/projects/${props.projectId}/map/style.json`;
-      // The style is read beside MapLibre's import (not after it), and the fonts with both.
-      const styleRead = fetch(styleUrl)
+      const styleUrl = mapStyleUrl(window.location.origin, props.projectId);
+      // The style is read beside MapLibre's import (not after it), and the fonts with both; on a
+      // first visit its read was started before the page was hydrated (early-reads.ts).
+      const styleRead = (takeEarlyRead(styleUrl) ?? fetch(styleUrl))
         .then((response) => (response.ok ? (response.json() as Promise<StyleSpecification>) : null))
         .catch(() => null);
       // Labels are drawn from the page's Roboto Mono (no glyphs URL): load it before the first label.
@@ -268,6 +274,8 @@ export function CoverageMap(props: Props) {
         keyboard: false,
         canvasContextAttributes: { preserveDrawingBuffer: true },
       });
+      // One complete first frame instead of one per source as its tiles arrive (hold-frames.ts).
+      const framesHeld = holdFramesUntilComplete(map, FRAMES_HELD_AT_MOST_MS);
       // A click on the map focuses the cell map around it, whose keys move between cells.
       map.getCanvas().removeAttribute("tabindex");
       map.on("styleimagemissing", (event) => {
@@ -286,6 +294,7 @@ export function CoverageMap(props: Props) {
       (window as unknown as { firmsandMap?: MapLibreMap }).firmsandMap = map;
       map.on("load", () => {
         if (cancelled) return;
+        performance.mark(`map: first complete frame (${framesHeld()} held before it)`);
         // Cells that came with the style are on screen now: the map's load is its first complete frame.
         const inStyle = inlined.current;
         if (inStyle) {
@@ -365,6 +374,8 @@ export function CoverageMap(props: Props) {
     })();
     return () => {
       cancelled = true;
+      // A map taken down while it waits for the cells stops waiting (and, cancelled, makes nothing).
+      cellsSettled.current?.();
       removeWindowListeners();
       map?.remove();
       mapRef.current = null;

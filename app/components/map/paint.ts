@@ -155,3 +155,15 @@ export const MARK_SWATCHES = {
 
 /** Geotextile tubes on the laydown area (the style's "tubes" layer and the legend): cake brown, the work limit's red near capacity. */
 export const TUBE_COLOURS = { normal: "#6b5a3a", nearCapacity: "#a3242a" } as const;
+
+/**
+ * A colour that is the same for every feature, written as if read from each feature (a property no
+ * feature has, then the colour). MapLibre compiles one GPU program per layer kind and per paint
+ * colour given once for the layer or per feature. Where the map also has a layer of the same kind
+ * coloured per feature (the cells, the zones' names), this lets the two share a program: in a
+ * browser drawing without a GPU each program costs tens of milliseconds at the first frame. For
+ * layers of few features only: a per-feature colour takes room in every vertex.
+ */
+export function sharedProgramColour(colour: string) {
+  return ["coalesce", ["get", "firmsand:colour"], colour] as const;
+}
