@@ -89,8 +89,10 @@ function setMarkedCells(map: MapLibreMap, source: MarkedSource, ids: ReadonlySet
 const QUICK_LOOK = "cells-quick-look";
 
 // Asked for as soon as this module runs in the browser (with the route's modules, before the page
-// is hydrated), so the download and compilation of MapLibre overlap the page's own start.
-if (typeof window !== "undefined") void loadMapLibre().catch(() => undefined);
+// is hydrated), so the download and compilation of MapLibre overlap the page's own start; its
+// worker is started once it is in (prewarm), so the worker's own script is loaded and compiled
+// while the page hydrates, not after the map is made.
+if (typeof window !== "undefined") void loadMapLibre().then((maplibre) => maplibre.prewarm()).catch(() => undefined);
 
 /** The style's cells source: what the page passed it at creation, so it is not set again. */
 interface InlinedCells {
