@@ -1,8 +1,15 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import { z } from "zod";
-import { teamEquipmentSchema, type TeamEquipment } from "../../shared/dive-plan/equipment";
+import { DIAMETER_UNITS, type TeamEquipment } from "../../shared/dive-plan/equipment";
 import { jsonColumn } from "./json-column";
 import type { Project } from "./project";
+
+/** A stored hose or pump (shared/dive-plan/equipment.ts), checked as it is read. */
+const teamEquipmentSchema: z.ZodType<TeamEquipment> = z.object({
+  name: z.string(),
+  diameter: z.number().nullable(),
+  diameterUnit: z.enum(DIAMETER_UNITS),
+});
 
 export interface DiveTeamMember {
   name: string;

@@ -1,4 +1,3 @@
-import { z } from "zod";
 import type { LengthUnit } from "../units";
 
 /**
@@ -35,13 +34,16 @@ export const DIAMETER_RANGE: Record<DiameterUnit, { min: number; max: number }> 
   mm: { min: 25, max: 610 },
 };
 
-/** One hose or pump as a team keeps it; `diameter` null when nobody has given it (teams from before diameters). */
-export const teamEquipmentSchema = z.object({
-  name: z.string(),
-  diameter: z.number().nullable(),
-  diameterUnit: z.enum(DIAMETER_UNITS),
-});
-export type TeamEquipment = z.infer<typeof teamEquipmentSchema>;
+/**
+ * One hose or pump as a team keeps it; `diameter` null when nobody has given it (teams from before
+ * diameters). The stored JSON is checked against it where it is read (db/models/dive-team.ts); this
+ * module stays free of the schema library, so the pages that describe equipment do not load it.
+ */
+export interface TeamEquipment {
+  name: string;
+  diameter: number | null;
+  diameterUnit: DiameterUnit;
+}
 
 /** The entry with its diameter in `unit` (the project's), rounded to what a trade size is written with. */
 export function equipmentIn(entry: TeamEquipment, unit: DiameterUnit): TeamEquipment {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { DEFAULT_LAYERS, mapViewSearch, parseMapView, type MapViewState } from "./view-url";
+import { DEFAULT_LAYERS, mapViewSearch, type MapViewState } from "./view-url";
+import { parseMapView } from "./view-url.server";
 
 const plain: MapViewState = { centre: null, zoom: null, view: "status", layers: { ...DEFAULT_LAYERS }, bandSurface: "remaining", zoneId: null, cells: [], planDate: null };
 
