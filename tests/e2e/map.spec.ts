@@ -75,26 +75,40 @@ test("the map draws the demo's cells in their status colours, with labels, from 
   expect(checked.length).toBeGreaterThan(0);
 });
 
-test("cells that come after the map's style are still drawn in its first complete frame, handed to the map's worker once", async ({ page, signIn }) => {
-  await signIn("viewer");
-  // The map's cells source: each time its data reaches the map's worker, a "metadata" event. The
-  // listener is added as the page hands out its map (right after it is made, before any such event).
+/**
+ * Hands the page's map to each function in `window.mapWatchers` the moment the page hands it out
+ * (right after it is made, before any of its events): tests push their watchers in an init script
+ * of their own, added after this one.
+ */
+async function watchMapFromItsStart(page: Page) {
   await page.addInitScript(() => {
-    type Listener = (event: { sourceId?: string; sourceDataType?: string }) => void;
-    type WatchedMap = { on(type: string, listener: Listener): void };
-    const record = window as unknown as { cellsHandedOver: number };
-    record.cellsHandedOver = 0;
-    let map: WatchedMap | undefined;
+    const record = window as unknown as { mapWatchers: Array<(map: unknown) => void> };
+    record.mapWatchers = [];
+    let map: unknown;
     Object.defineProperty(window, "firmsandMap", {
       configurable: true,
       get: () => map,
-      set: (value: WatchedMap) => {
+      set: (value: unknown) => {
         map = value;
-        value.on("sourcedata", (event) => {
-          if (event.sourceId === "cells" && event.sourceDataType === "metadata") record.cellsHandedOver += 1;
-        });
+        for (const watch of record.mapWatchers) watch(value);
       },
     });
+  });
+}
+
+test("cells that come after the map's style are still drawn in its first complete frame, handed to the map's worker once", async ({ page, signIn }) => {
+  await signIn("viewer");
+  // The map's cells source: each time its data reaches the map's worker, a "metadata" event.
+  await watchMapFromItsStart(page);
+  await page.addInitScript(() => {
+    type Listener = (event: { sourceId?: string; sourceDataType?: string }) => void;
+    const record = window as unknown as { cellsHandedOver: number; mapWatchers: Array<(map: { on(type: string, listener: Listener): void }) => void> };
+    record.cellsHandedOver = 0;
+    record.mapWatchers.push((map) =>
+      map.on("sourcedata", (event) => {
+        if (event.sourceId === "cells" && event.sourceDataType === "metadata") record.cellsHandedOver += 1;
+      }),
+    );
   });
   // The cells' read answers 0.6 s late: MapLibre, the style and the fonts are in long before.
   await page.route(`**/api/projects/${projectId}/cells`, async (route) => {
@@ -114,27 +128,22 @@ test("a first visit reads the style and cells while the page hydrates, and the m
   await signIn("viewer");
   // At each of MapLibre's frames before the load, and at the load's own, one pixel of the map's
   // canvas (its drawing buffer is kept): a held frame leaves it as it was, empty.
+  await watchMapFromItsStart(page);
   await page.addInitScript(() => {
     type WatchedMap = { on(type: string, listener: () => void): void; getCanvas(): HTMLCanvasElement };
-    const record = window as unknown as { framePixels: Array<{ loaded: boolean; alpha: number }> };
+    const record = window as unknown as { framePixels: Array<{ loaded: boolean; alpha: number }>; mapWatchers: Array<(map: WatchedMap) => void> };
     record.framePixels = [];
-    let map: WatchedMap | undefined;
-    Object.defineProperty(window, "firmsandMap", {
-      configurable: true,
-      get: () => map,
-      set: (value: WatchedMap) => {
-        map = value;
-        let loaded = false;
-        const canvas = value.getCanvas();
-        const gl = (canvas.getContext("webgl2") ?? canvas.getContext("webgl")) as WebGLRenderingContext;
-        const sample = () => {
-          const pixel = new Uint8Array(4);
-          gl.readPixels(Math.floor(canvas.width / 2), Math.floor(canvas.height / 2), 1, 1, gl.RGBA, gl.UNSIGNED_BYTE, pixel);
-          record.framePixels.push({ loaded, alpha: pixel[3] });
-        };
-        value.on("render", () => { if (!loaded) sample(); });
-        value.on("load", () => { loaded = true; sample(); });
-      },
+    record.mapWatchers.push((map) => {
+      let loaded = false;
+      const canvas = map.getCanvas();
+      const gl = (canvas.getContext("webgl2") ?? canvas.getContext("webgl")) as WebGLRenderingContext;
+      const sample = () => {
+        const pixel = new Uint8Array(4);
+        gl.readPixels(Math.floor(canvas.width / 2), Math.floor(canvas.height / 2), 1, 1, gl.RGBA, gl.UNSIGNED_BYTE, pixel);
+        record.framePixels.push({ loaded, alpha: pixel[3] });
+      };
+      map.on("render", () => { if (!loaded) sample(); });
+      map.on("load", () => { loaded = true; sample(); });
     });
   });
   const reads: string[] = [];
