@@ -1,6 +1,6 @@
 import type { CellStatus } from "../../shared/cell-status";
 import type { FigureTotals } from "../../shared/volumes/figure-totals";
-import { CellResult, Sounding, Survey, SurveySnapshot, User, getSequelize, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
+import { CellResult, Project, Sounding, Survey, SurveySnapshot, User, getSequelize, type SurveyKind, type SurveyStatus } from "~/lib/db.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { VerticalBias } from "../../shared/qa/vertical-bias";
@@ -87,6 +87,10 @@ function presentDetails(survey: Survey): SurveyDetails {
  */
 export async function setSurveyVerticalBias(project: ProjectView, input: { surveyId: number; userId: number; ip: string | null; bias: VerticalBias | null }): Promise<VerticalBias | null | undefined> {
   return getSequelize().transaction(async (transaction) => {
+    // The project's row first, then the survey's, as every survey change takes them (an import's
+    // commit, a retraction): taken the other way, its audit record (whose key names the project)
+    // waited for the project while such a change waited for the survey, and one was refused.
+    await Project.findByPk(project.id, { attributes: ["id"], transaction, lock: transaction.LOCK.UPDATE });
     const survey = await Survey.findOne({ where: { id: input.surveyId, projectId: project.id }, transaction, lock: transaction.LOCK.UPDATE });
     if (!survey) return undefined;
     const before = verticalBiasOf(survey);

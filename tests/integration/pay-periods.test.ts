@@ -8,7 +8,7 @@ import { closeSequelize } from "../../db/connection.server";
 import { UNZONED_NAME } from "../../shared/volumes/rollup";
 import { PERIOD_VOLUME_KEYS } from "../../shared/volumes/period";
 import { SURVEYS, ZONES } from "../../sample-data/scenario";
-import { AuditEvent, PayPeriodReport, Project, SurveySnapshot, User, getSequelize } from "~/lib/db.server";
+import { AuditEvent, PayPeriodReport, Project, Survey, SurveySnapshot, User, getSequelize } from "~/lib/db.server";
 import { getEngineState, serverEnginePool } from "~/lib/engine/engine-state.server";
 import { computePeriodFigures, periodCellRows, type PeriodFigures, type PeriodFiguresInput } from "~/lib/engine/period-figures";
 import { recomputeProjectStatistics } from "~/lib/engine/recompute.server";
@@ -392,6 +392,30 @@ describe("signed periods", () => {
 });
 
 describe("a survey's recorded reference bias", () => {
+  it("waits for a change that holds the project's row (an import, a retraction) instead of deadlocking with it", async () => {
+    // Every survey change takes the project's row first, then the survey's (lib/import/commit.server.ts).
+    // A bias taken survey first waited for the project's row at its audit record (the record's
+    // foreign key) while the other change waited for the survey: a deadlock, one of the two refused.
+    const survey = whole.surveys[2];
+    const bias = { value: 0.05, unit: "ft" as const, source: "staff gauge read to 0.05 ft" };
+    const other = await getSequelize().transaction();
+    let setting: Promise<unknown> | null = null;
+    try {
+      await Project.findByPk(project.id, { transaction: other, lock: other.LOCK.UPDATE });
+      setting = setSurveyVerticalBias(project, { surveyId: survey.id, userId: site.users.manager, ip: null, bias });
+      // The bias's transaction is under way and waiting when the other change asks for the survey.
+      await new Promise((done) => setTimeout(done, 300));
+      await Survey.findOne({ where: { id: survey.id }, transaction: other, lock: other.LOCK.UPDATE });
+      await other.commit();
+    } catch (error) {
+      await other.rollback().catch(() => undefined);
+      await setting?.catch(() => undefined);
+      throw error;
+    }
+    await expect(setting).resolves.toEqual(bias);
+    await setSurveyVerticalBias(project, { surveyId: survey.id, userId: site.users.manager, ip: null, bias: null });
+  });
+
   it("widens the period's band by area × bias, is audited, is kept out of a report signed before, and clears", async () => {
     const [baseline, first] = whole.surveys;
     const before = (await loadPayPeriod(project, { from: String(baseline.id), to: String(first.id) }))!;
