@@ -3,6 +3,7 @@ import { useEffect, useId, useRef, useState } from "react";
 import { Form } from "react-router";
 import "maplibre-gl/dist/maplibre-gl.css";
 import { loadMapFonts, loadMapLibre } from "./map/load-maplibre";
+import { mapStyleUrl } from "./map/map-urls";
 import { ConfirmedActionForm } from "./confirmed-action-form";
 import { ActionMessages } from "./form-message";
 import { addsVertex, draftFeatures, draftPolygon, MIN_ZONE_VERTICES, type LonLat } from "./map/zone-draft";
@@ -110,7 +111,7 @@ export function ZoneEditor({ projectId, lengthUnit, workLimit, zones, result, di
       if (cancelled || !container.current) return;
       map = new maplibre.Map({
         container: container.current,
-        style: `${window.location.origin}/projects/${projectId}/map/style.json`,
+        style: mapStyleUrl(window.location.origin, projectId),
         ...(workLimit ? { bounds: extentOf(workLimit), fitBoundsOptions: { padding: 24 } } : { center: [0, 0] as [number, number], zoom: 1 }),
         attributionControl: false,
         canvasContextAttributes: { preserveDrawingBuffer: true },

@@ -10,7 +10,8 @@ import { cellCentreLonLat, labelIndex, type CellsData } from "~/components/map/c
 import { cellIndexAtLonLat } from "~/components/map/cell-image";
 import { workLimitExtent, type LonLatWorkLimit } from "~/components/map/clip-cells";
 import { CoverageMap } from "~/components/map/coverage-map";
-import { mapCellsUrl, startMapPageReads, takeEarlyRead } from "~/components/map/early-reads";
+import { startMapPageReads, takeEarlyRead } from "~/components/map/early-reads";
+import { mapCellsUrl } from "~/components/map/map-urls";
 import { MapLegend, type LegendSection } from "~/components/map/legend";
 import { MapKeysHelp } from "~/components/map/map-keys";
 import { MapPanel } from "~/components/map/map-panel";

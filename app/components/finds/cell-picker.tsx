@@ -2,6 +2,7 @@ import { useEffect, useMemo, useState } from "react";
 import { createCrs } from "../../../shared/crs";
 import { cellCentreLonLat, labelIndex, type CellsData } from "~/components/map/cell-features";
 import { workLimitExtent, type LonLatWorkLimit } from "~/components/map/clip-cells";
+import { mapCellsUrl } from "~/components/map/map-urls";
 import { CoverageMap, type LayerKey } from "~/components/map/coverage-map";
 import { MARK_STYLES, MARK_SWATCHES } from "~/components/map/paint";
 
@@ -33,7 +34,7 @@ export function CellPickerMap({ projectId, lengthUnit, workLimit, cell, suggeste
   const [loadError, setLoadError] = useState<string | null>(null);
   useEffect(() => {
     let cancelled = false;
-    fetch(`/api/projects/${projectId}/cells`, { cache: "no-store" })
+    fetch(mapCellsUrl(projectId), { cache: "no-store" })
       .then(async (response) => {
         if (!response.ok) throw new Error(`the server answered ${response.status}`);
         const next = (await response.json()) as CellsData;

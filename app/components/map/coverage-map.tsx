@@ -8,7 +8,8 @@ import type { LonLatWorkLimit } from "./clip-cells";
 import { PLANNED_PATTERN, bandColour, cellColour, fillColour, plannedPatternPixels, type BandBounds, type MapView } from "./paint";
 import type { LayerKey } from "./view-url";
 import { MONITORING_CLICK_LAYERS, MONITORING_LAYERS, type MonitoringKey } from "./monitoring";
-import { mapStyleUrl, takeEarlyRead } from "./early-reads";
+import { takeEarlyRead } from "./early-reads";
+import { mapStyleUrl } from "./map-urls";
 import { holdFramesUntilComplete } from "./hold-frames";
 import { loadMapFonts, loadMapLibre } from "./load-maplibre";
 
@@ -397,7 +398,7 @@ export function CoverageMap(props: Props) {
     if (stale.length === 0) return;
     drawnStamps.current = { shoreline: shorelineStamp, zones: zonesStamp };
     let cancelled = false;
-    fetch(`/projects/${props.projectId}/map/style.json`, { cache: "no-store" })
+    fetch(mapStyleUrl(window.location.origin, props.projectId), { cache: "no-store" })
       .then((response) => response.json())
       .then((style: { sources: Record<"shoreline" | "zones", { data: FeatureCollection }> }) => {
         if (cancelled) return;

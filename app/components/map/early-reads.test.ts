@@ -3,7 +3,7 @@ import { afterEach, beforeEach, describe, expect, it, vi } from "vitest";
 // The module keeps its reads per page: a fresh copy for each test.
 async function freshModule() {
   vi.resetModules();
-  return import("./early-reads");
+  return { ...(await import("./early-reads")), ...(await import("./map-urls")) };
 }
 
 function onPage(pathname: string) {

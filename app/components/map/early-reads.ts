@@ -1,3 +1,5 @@
+import { mapCellsUrl, mapStyleUrl } from "./map-urls";
+
 /**
  * The map page's first reads (its style and its cells), started as soon as the page's scripts run,
  * before React has hydrated the page: on a first visit hydration takes a few hundred milliseconds,
@@ -12,14 +14,6 @@ const reads = new Map<string, { at: number; response: Promise<Response> }>();
 
 /** The map page's address: `/projects/<id>/map`, nothing after it. */
 const MAP_PAGE = /^\/projects\/(\d+)\/map\/?$/;
-
-export function mapStyleUrl(origin: string, projectId: number | string) {
-  return `${origin}/projects/${projectId}/map/style.json`;
-}
-
-export function mapCellsUrl(projectId: number | string) {
-  return `/api/projects/${projectId}/cells`;
-}
 
 /**
  * Starts the map page's style and cells reads when the document is that page (called as its route

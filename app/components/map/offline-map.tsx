@@ -2,6 +2,7 @@ import type { Map as MapLibreMap } from "maplibre-gl";
 import { useEffect, useRef, useState } from "react";
 import "maplibre-gl/dist/maplibre-gl.css";
 import { loadMapFonts, loadMapLibre } from "./load-maplibre";
+import { mapStyleUrl } from "./map-urls";
 
 export type LonLatBounds = [[number, number], [number, number]];
 
@@ -24,7 +25,7 @@ export function useOfflineMap(projectId: number, extent: LonLatBounds | null, op
       if (cancelled || !container.current) return;
       created = new maplibre.Map({
         container: container.current,
-        style: `${window.location.origin}/projects/${projectId}/map/style.json`,
+        style: mapStyleUrl(window.location.origin, projectId),
         ...(extent ? { bounds: extent, fitBoundsOptions: { padding: 24 } } : { center: [0, 0] as [number, number], zoom: 1 }),
         attributionControl: false,
         canvasContextAttributes: { preserveDrawingBuffer: true },
