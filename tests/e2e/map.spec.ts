@@ -222,6 +222,9 @@ test("the supervisor selects cells, assigns them, opens and prints the plan, and
   const pageErrors: string[] = [];
   page.on("pageerror", (error) => pageErrors.push(error.message));
   page.on("console", (message) => message.type() === "error" && console.log(`browser console: ${message.text()}`));
+  // MapLibre's word when a tile asks for an image of the style (the planned hatch) that is not there yet.
+  const missingImages: string[] = [];
+  page.on("console", (message) => /could not be loaded/.test(message.text()) && missingImages.push(message.text()));
   await signIn("dive-supervisor");
   const data = await openMap(page);
   // Cells away from the work limit: cells along it are drawn clipped, so their centre may lie outside what is drawn.
@@ -251,6 +254,9 @@ test("the supervisor selects cells, assigns them, opens and prints the plan, and
   await page.getByRole("button", { name: "Assign" }).click();
   await expect(page.getByRole("status")).toContainText("Assigned 2 cell(s) to Team Limpkin");
   await expect(page.getByRole("note").first()).toContainText("verify against the current US Navy Diving Manual");
+  // The planned cells' tiles got their hatch with their first request.
+  await mapSettled(page);
+  expect(missingImages, "images the map asked for before they were there").toEqual([]);
 
   const planLink = page.getByRole("link", { name: `Open the day plan for ${date}` });
   await expect(planLink).toHaveAttribute("href", `/projects/${projectId}/plans/${date}`);

@@ -281,8 +281,10 @@ export function CoverageMap(props: Props) {
       const framesHeld = holdFramesUntilComplete(map, FRAMES_HELD_AT_MOST_MS);
       // A click on the map focuses the cell map around it, whose keys move between cells.
       map.getCanvas().removeAttribute("tabindex");
-      map.on("styleimagemissing", (event) => {
-        if (event.id === PLANNED_PATTERN && map && !map.hasImage(PLANNED_PATTERN)) map.addImage(PLANNED_PATTERN, plannedPatternPixels());
+      // The planned cells' hatch, drawn when a tile first needs it, and answered within that tile's
+      // request: MapLibre's missing-image event comes after the request has been answered without it.
+      map.setMissingStyleImageResolver((id) => {
+        if (id === PLANNED_PATTERN && map && !map.hasImage(PLANNED_PATTERN)) map.addImage(PLANNED_PATTERN, plannedPatternPixels());
       });
       map.on("moveend", () => {
         if (!map) return;
