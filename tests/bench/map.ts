@@ -15,7 +15,7 @@
  * Each of --runs (3) runs makes a cold load in a fresh browser context, then a warm one on the same
  * page; the figures are the median run's, and the load average is printed beside each run (the
  * machine may be shared, and software WebGL makes the drawing CPU-bound).
- * --profile DIR writes the page's main thread during each warm load as a .cpuprofile; --trace DIR a
+ * --profile DIR writes the page's main thread during each cold and each warm load as a .cpuprofile; --trace DIR a
  * Chromium trace of each cold load (every thread: the page, the map's worker, the GPU process); --waterfall
  * prints every request of the loads with when it was asked for, began and ended.
  * What it seeds (under names of its own run) is removed at the end unless --keep is given; --reuse
@@ -443,21 +443,23 @@ try {
       mkdirSync(traceDir, { recursive: true });
       await browser.startTracing(page, { path: join(traceDir, `map-cold-${run + 1}.json`), categories: ["devtools.timeline", "disabled-by-default-devtools.timeline", "v8", "v8.execute", "toplevel", "gpu", "blink.user_timing", "loading", "netlog", "disabled-by-default-gpu.service", "gpu.angle", "disabled-by-default-gpu.decoder"] });
     }
-    const cold = await measureLoad(page, seeding.projectId);
-    if (traceDir) await browser.stopTracing();
-    // --profile DIR: the page's main thread during the warm load, as a .cpuprofile (DevTools, speedscope).
+    // --profile DIR: the page's main thread during each load, as a .cpuprofile (DevTools, speedscope).
+    // The cold load's profile adds the profiler's own cost to that load's figure.
     const profiler = profileDir ? await context.newCDPSession(page) : null;
-    if (profiler) {
+    const profiled = async <T,>(name: string, load: () => Promise<T>): Promise<T> => {
+      if (!profiler || !profileDir) return load();
       await profiler.send("Profiler.enable");
       await profiler.send("Profiler.setSamplingInterval", { interval: 200 });
       await profiler.send("Profiler.start");
-    }
-    const warm = await measureLoad(page, seeding.projectId);
-    if (profiler && profileDir) {
+      const figures = await load();
       const { profile } = await profiler.send("Profiler.stop");
       mkdirSync(profileDir, { recursive: true });
-      writeFileSync(join(profileDir, `map-warm-${run + 1}.cpuprofile`), JSON.stringify(profile));
-    }
+      writeFileSync(join(profileDir, `map-${name}-${run + 1}.cpuprofile`), JSON.stringify(profile));
+      return figures;
+    };
+    const cold = await profiled("cold", () => measureLoad(page, seeding.projectId));
+    if (traceDir) await browser.stopTracing();
+    const warm = await profiled("warm", () => measureLoad(page, seeding.projectId));
     await context.close();
     loads.push({ cold, warm });
     console.log(`run ${run + 1}/${runs}: cold ${cold.seconds.toFixed(2)} s, warm ${warm.seconds.toFixed(2)} s (load average ${loadavg()[0].toFixed(1)} on ${availableParallelism()} CPUs)`);
