@@ -292,9 +292,22 @@ function watchDrawn() {
       if (as === "shapes") {
         record.benchShapes = at;
         observer.disconnect();
+        // A large grid: how long the page's main thread was held at a time from the quick look on
+        // screen to the shapes drawn (a pan or a click waits that long).
+        const quickLookAt = record.benchOnScreen;
+        if (record.benchDrawn?.as === "quick look" && quickLookAt !== undefined) {
+          const tasks = [...longTasks, ...tasksObserver.takeRecords()].filter((task) => task.startTime >= quickLookAt && task.startTime < at);
+          const longest = tasks.reduce((most, task) => Math.max(most, task.duration), 0);
+          marks[`longest main-thread task between the quick look and the shapes: ${Math.round(longest)} ms (${tasks.length} over 50 ms, ${Math.round(tasks.reduce((sum, task) => sum + task.duration, 0))} ms in all)`] = at;
+        }
+        tasksObserver.disconnect();
       }
     }
   });
+  // The page's main-thread tasks over 50 ms (the browser's long tasks).
+  const longTasks: PerformanceEntry[] = [];
+  const tasksObserver = new PerformanceObserver((list) => longTasks.push(...list.getEntries()));
+  tasksObserver.observe({ type: "longtask" });
   observer.observe(document, { subtree: true, attributes: true, attributeFilter: ["data-cells-drawn", "data-cells-drawn-as"] });
   // Stages inside the map, for the breakdown: its style loaded, the cells parsed and indexed in its
   // worker (the cells source's metadata after the style's empty one), frames drawn until "drawn".
