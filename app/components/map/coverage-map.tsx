@@ -455,7 +455,7 @@ export function CoverageMap(props: Props) {
       // Handed to MapLibre's worker as objects, after the page has had its turn (building the shapes
       // and handing them over are two tasks, not one). A blob URL of their JSON text, read by the
       // worker, cost more with MapLibre 6: its worker sends data it read from a URL back to the page,
-      // where a bay's 100,000 features were rebuilt on the page's thread (1–2 s) and drawn 2.5 s later.
+      // where a bay's 100,000 features were rebuilt on the page's thread (1–2 s) and drawn about 2 s later.
       await yieldToPage();
       if (cancelled) return;
       (map.getSource("cells") as GeoJSONSource).setData(collection);
