@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { isAfterLocalDay, localDayOf } from "./local-time";
+import { dateTimeFormat, isAfterLocalDay, localDayOf } from "./local-time";
 
 describe("the project's today (computed: America/New_York is UTC−5 in December)", () => {
   // 2026-12-03 03:30 UTC is 2026-12-02 22:30 in New York.
@@ -15,5 +15,22 @@ describe("the project's today (computed: America/New_York is UTC−5 in December
     expect(isAfterLocalDay("2026-12-02", instant, "America/New_York")).toBe(false);
     expect(isAfterLocalDay("2026-11-30", instant, "America/New_York")).toBe(false);
     expect(isAfterLocalDay("2026-12-03", instant, "UTC")).toBe(false);
+  });
+});
+
+describe("dateTimeFormat (one formatter per locale and options)", () => {
+  const options: Intl.DateTimeFormatOptions = { timeZone: "America/New_York", day: "2-digit", month: "short", hour: "2-digit", minute: "2-digit", hour12: false };
+
+  it("keeps one formatter for the same locale and options, and a new one when either differs", () => {
+    const first = dateTimeFormat("en-GB", options);
+    expect(dateTimeFormat("en-GB", { ...options })).toBe(first);
+    expect(dateTimeFormat("en-US", options)).not.toBe(first);
+    expect(dateTimeFormat("en-GB", { ...options, timeZone: "UTC" })).not.toBe(first);
+  });
+
+  it("formats as a formatter made afresh does (computed: 2026-12-03 03:30 UTC is 2 Dec 22:30 in New York)", () => {
+    const instant = new Date(Date.UTC(2026, 11, 3, 3, 30));
+    expect(dateTimeFormat("en-GB", options).format(instant)).toBe(new Intl.DateTimeFormat("en-GB", options).format(instant));
+    expect(dateTimeFormat("en-GB", options).format(instant)).toBe("02 Dec, 22:30");
   });
 });

@@ -1,5 +1,6 @@
 import { useEffect, useState } from "react";
 import { Link } from "react-router";
+import { dateTimeFormat } from "../../shared/local-time";
 
 interface StopWorkItem {
   id: number;
@@ -26,7 +27,7 @@ export function countdown(toMs: number, nowMs: number): string {
 }
 
 export function localTime(iso: string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-US", { timeZone, month: "short", day: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).format(new Date(iso));
+  return dateTimeFormat("en-US", { timeZone, month: "short", day: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).format(new Date(iso));
 }
 
 /** How work resumes, for what is in force: a turbidity stop-work, a wildlife stand-down, or both. */

@@ -1,5 +1,5 @@
 import { cellIndex, cellLabel, toGridFrame, type CellGrid } from "../grid/cell-grid";
-import { instantOfLocal, localClockOf, localDayOf } from "../local-time";
+import { dateTimeFormat, instantOfLocal, localClockOf, localDayOf } from "../local-time";
 import { handVolumeUnitFor, litresFrom, litresTo, measureLabel, type HandVolumeUnit, type LengthUnit } from "../units";
 
 /**
@@ -121,7 +121,7 @@ export function cellsWithinRadius(grid: CellGrid, easting: number, northing: num
 
 /** The calendar year of an instant in an IANA time zone (the catalogue's year is the project's local year). */
 export function localYear(instant: Date, timeZone: string): number {
-  return Number(new Intl.DateTimeFormat("en-US", { timeZone, year: "numeric" }).format(instant));
+  return Number(dateTimeFormat("en-US", { timeZone, year: "numeric" }).format(instant));
 }
 
 /** Minutes the zone is ahead of UTC at an instant. */

@@ -2,6 +2,7 @@ import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { StopWorkBanner } from "~/components/stop-work-banner";
 import type { FieldSnapshot } from "~/models/field-snapshot";
 import { FIND_STATUS_LABELS, type FindStatus } from "../../../shared/finds/finds";
+import { dateTimeFormat } from "../../../shared/local-time";
 import { blankForm, deviceIso, ENTRY_LABELS, findTargetOf, recordTimeOf, summaryOf } from "./entries";
 import { EntryForm, type EntryDraft } from "./entry-form";
 import { bigButton } from "./inputs";
@@ -16,7 +17,7 @@ export function shortTime(iso: string | undefined): string {
   if (!iso) return "";
   const date = new Date(iso);
   const today = new Date().toDateString() === date.toDateString();
-  return new Intl.DateTimeFormat("en-GB", today ? { hour: "2-digit", minute: "2-digit", hourCycle: "h23" } : { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).format(date);
+  return dateTimeFormat("en-GB", today ? { hour: "2-digit", minute: "2-digit", hourCycle: "h23" } : { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).format(date);
 }
 
 function useOnline(): boolean {

@@ -11,6 +11,7 @@ import { MONITORING_CLICK_LAYERS, MONITORING_LAYERS, type MonitoringKey } from "
 import { takeEarlyRead } from "./early-reads";
 import { mapStyleUrl } from "./map-urls";
 import { holdFramesUntilComplete } from "./hold-frames";
+import { skipSkyWhileFlat } from "./sky-pass";
 import { loadMapFonts, loadMapLibre } from "./load-maplibre";
 
 export type { LayerKey };
@@ -285,6 +286,8 @@ export function CoverageMap(props: Props) {
       });
       // One complete first frame instead of one per source as its tiles arrive (hold-frames.ts).
       const framesHeld = holdFramesUntilComplete(map, FRAMES_HELD_AT_MOST_MS);
+      // No sky pass over the whole canvas while the map is seen from above (sky-pass.ts).
+      skipSkyWhileFlat(map);
       // A click on the map focuses the cell map around it, whose keys move between cells.
       map.getCanvas().removeAttribute("tabindex");
       // The planned cells' hatch, drawn when a tile first needs it, and answered within that tile's

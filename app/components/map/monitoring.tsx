@@ -1,5 +1,6 @@
 import type { FeatureCollection, Point } from "geojson";
 import type { StationKind } from "../../../shared/water-quality/wording";
+import { dateTimeFormat } from "../../../shared/local-time";
 import type { LegendSection } from "./legend";
 
 /**
@@ -64,7 +65,7 @@ export function recentSightings(monitoring: MapMonitoring, hours: number): MapSi
 
 /** Local clock time and day, as a crew reads it, in the project's time zone. */
 export function clockOf(iso: string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", { timeZone, day: "2-digit", month: "short", hour: "2-digit", minute: "2-digit", hour12: false }).format(new Date(iso));
+  return dateTimeFormat("en-GB", { timeZone, day: "2-digit", month: "short", hour: "2-digit", minute: "2-digit", hour12: false }).format(new Date(iso));
 }
 
 export function stationFeatures(stations: readonly MapStation[]): FeatureCollection<Point> {
