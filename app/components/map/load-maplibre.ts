@@ -20,7 +20,12 @@ export function loadMapLibre(): Promise<MapLibre> {
   return loading;
 }
 
-/** The shipped Roboto Mono the maps' labels are drawn from (the offline style has no glyphs URL). */
+/**
+ * The shipped Roboto Mono the maps' labels are drawn from (the offline style has no glyphs URL):
+ * the regular weight only, the one MapLibre draws a `text-font` of "Roboto Mono" in. The medium
+ * weight is the page's own (headings, buttons); waiting for it here held a first visit's map back
+ * until that file came, asked for only then, as nothing on screen had used it yet.
+ */
 export function loadMapFonts(): Promise<unknown> {
-  return Promise.all([document.fonts.load('13px "Roboto Mono"'), document.fonts.load('500 13px "Roboto Mono"')]).catch(() => undefined);
+  return document.fonts.load('400 13px "Roboto Mono"').catch(() => undefined);
 }
