@@ -6,7 +6,7 @@ import { resolveCrsDefinition } from "~/lib/geo/epsg.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import { findProject } from "~/lib/auth/project-view.server";
 import type { MapMonitoring } from "~/components/map/monitoring";
-import { SIGHTINGS_READ_HOURS } from "~/components/map/monitoring";
+import { SIGHTINGS_READ_HOURS, clockOf } from "~/components/map/monitoring";
 
 /**
  * What the coverage map shows of water quality and wildlife: the monitoring stations (their kind,
@@ -38,7 +38,7 @@ export async function mapMonitoring(project: ProjectView, nowMs = Date.now()): P
       const reading = latest[index];
       return {
         id: station.id, name: station.name, kind: station.kind, depth: station.depthRule, lonLat: lonLatOf(station.positionX, station.positionY),
-        latest: reading ? { value: reading.value, unit: reading.unit, takenAt: reading.takenAt.toISOString(), exceeds: reading.exceeds } : null,
+        latest: reading ? { value: reading.value, unit: reading.unit, takenAt: reading.takenAt.toISOString(), takenClock: clockOf(reading.takenAt.toISOString(), project.timeZone), exceeds: reading.exceeds } : null,
       };
     }),
     sightings: sightings.map((sighting) => {
@@ -47,7 +47,7 @@ export async function mapMonitoring(project: ProjectView, nowMs = Date.now()): P
         ? standDownActiveAt({ startedAtMs: standDown.startedAt.getTime(), departedAtMs: standDown.departedAt?.getTime() ?? null }, nowMs, standDown.waitMinutes)
         : false;
       return {
-        id: sighting.id, species: sighting.species, seenAt: sighting.seenAt.toISOString(), distance: sighting.distance, gone: sighting.gone,
+        id: sighting.id, species: sighting.species, seenAt: sighting.seenAt.toISOString(), seenClock: clockOf(sighting.seenAt.toISOString(), project.timeZone), distance: sighting.distance, gone: sighting.gone,
         observer: sighting.observer, note: sighting.note, lonLat: lonLatOf(sighting.positionX, sighting.positionY), standDownInForce: inForce,
       };
     }),

@@ -58,7 +58,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     projectId: project.id,
     hasWorkLimit: project.hasWorkLimit,
     lengthUnit: project.lengthUnit,
-    timeZone: project.timeZone,
     crsCode: project.crs,
     minTeamSize: project.minTeamSize,
     canAssign: can(access, "plans.assign"),
@@ -162,10 +161,10 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
   const [sightingHours, setSightingHours] = useState<SightingHours>(24);
   const [chosenPoint, setChosenPoint] = useState<MonitoringKey | null>(null);
   const monitoringRef = useRef<HTMLDivElement>(null);
-  const { monitoring, timeZone } = loaderData;
+  const { monitoring } = loaderData;
   const shownSightings = useMemo(() => recentSightings(monitoring, sightingHours), [monitoring, sightingHours]);
   const stationPoints = useMemo(() => stationFeatures(monitoring.stations), [monitoring]);
-  const sightingPoints = useMemo(() => sightingFeatures(shownSightings, timeZone), [shownSightings, timeZone]);
+  const sightingPoints = useMemo(() => sightingFeatures(shownSightings), [shownSightings]);
   const monitoringShown = useMemo(() => ({ stations: stationPoints, sightings: sightingPoints, chosen: chosenPoint }), [stationPoints, sightingPoints, chosenPoint]);
   /** Shows a station or sighting in the panel and, when it has a position, flies the map to it. */
   const choosePoint = useCallback((key: MonitoringKey, fly: boolean) => {
@@ -619,7 +618,6 @@ export default function ProjectMap({ loaderData, actionData }: Route.ComponentPr
             chosen={chosenPoint}
             onChoose={(key) => choosePoint(key, true)}
             lengthUnit={loaderData.lengthUnit}
-            timeZone={timeZone}
           />
         </div>
         <fieldset className="space-y-2 rounded border border-line p-3 text-sm">

@@ -1,6 +1,8 @@
 import { request as playwrightRequest, type Page } from "@playwright/test";
 import { CELL_STATUSES } from "../../shared/cell-status";
 import { cellCentreLonLat, labelIndex, type CellsData } from "../../app/components/map/cell-features";
+import { clockOf } from "../../app/components/map/monitoring";
+import { PROJECT as DEMO_PROJECT } from "../../sample-data/scenario";
 import { demoProjectId, expect, test } from "./fixtures";
 
 // The map as a workspace: the map fills the window beside a panel (a bottom sheet on a phone),
@@ -205,6 +207,13 @@ test("the legend describes what is drawn: the bands with their unit and classes,
   await expect(page.getByTestId("monitoring-detail")).toContainText("Background");
   await page.getByRole("button", { name: /CP-1 plume/ }).click();
   await expect(page.getByTestId("monitoring-detail")).toContainText("Compliance point");
+  // Its latest reading's time, written by the server in the project's zone, is that instant's local clock.
+  const taken = page.getByTestId("monitoring-detail").locator("time");
+  await expect(async () => {
+    const takenAt = await taken.getAttribute("datetime");
+    expect(takenAt).not.toBeNull();
+    expect(await taken.textContent()).toBe(clockOf(takenAt!, DEMO_PROJECT.timeZone));
+  }).toPass({ timeout: 10_000 });
   await page.getByRole("checkbox", { name: "Stations and sightings" }).uncheck();
   await expect(legend.getByRole("region", { name: "Monitoring stations" })).toHaveCount(0);
   // Only the demo's zones (their colours) and its geotextile tubes on the laydown area are left: described alone.

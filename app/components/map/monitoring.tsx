@@ -21,13 +21,19 @@ export interface MapStation {
   kind: StationKind;
   depth: "surface" | "mid-depth" | "near-bottom" | null;
   lonLat: [number, number] | null;
-  latest: { value: number; unit: string; takenAt: string; exceeds: boolean | null } | null;
+  /** `takenClock`: when, as the crew reads it (clockOf, in the project's time zone), written where the record is read. */
+  latest: { value: number; unit: string; takenAt: string; takenClock: string; exceeds: boolean | null } | null;
 }
 
 export interface MapSighting {
   id: number;
   species: string;
   seenAt: string;
+  /**
+   * When it was seen, as the crew reads it (clockOf, in the project's time zone), written where the
+   * record is read: the page's first formatter with a time zone costs it tens of ms while it starts.
+   */
+  seenClock: string;
   /** Project length unit; null when the animal was out of sight. */
   distance: number | null;
   gone: boolean;
@@ -79,13 +85,13 @@ export function stationFeatures(stations: readonly MapStation[]): FeatureCollect
   };
 }
 
-export function sightingFeatures(sightings: readonly MapSighting[], timeZone: string): FeatureCollection<Point> {
+export function sightingFeatures(sightings: readonly MapSighting[]): FeatureCollection<Point> {
   return {
     type: "FeatureCollection",
     features: sightings.filter((sighting) => sighting.lonLat).map((sighting) => ({
       type: "Feature", id: sighting.id,
       properties: {
-        key: `sighting:${sighting.id}`, label: `${sighting.species} ${clockOf(sighting.seenAt, timeZone)}`,
+        key: `sighting:${sighting.id}`, label: `${sighting.species} ${sighting.seenClock}`,
         colour: sighting.standDownInForce ? SIGHTING_COLOURS.standDown : SIGHTING_COLOURS.seen,
       },
       geometry: { type: "Point", coordinates: sighting.lonLat! },
@@ -119,7 +125,7 @@ export function monitoringLegend(monitoring: MapMonitoring, sightings: readonly 
 }
 
 /** The chosen station or sighting, in words. */
-function MonitoringDetail({ item, lengthUnit, timeZone }: { item: { station: MapStation } | { sighting: MapSighting }; lengthUnit: string; timeZone: string }) {
+function MonitoringDetail({ item, lengthUnit }: { item: { station: MapStation } | { sighting: MapSighting }; lengthUnit: string }) {
   if ("station" in item) {
     const { station } = item;
     return (
@@ -131,7 +137,7 @@ function MonitoringDetail({ item, lengthUnit, timeZone }: { item: { station: Map
         <dd>
           {station.latest ? (
             <>
-              <span className="figures">{station.latest.value} {station.latest.unit}</span> at <time className="figures whitespace-nowrap" dateTime={station.latest.takenAt}>{clockOf(station.latest.takenAt, timeZone)}</time>
+              <span className="figures">{station.latest.value} {station.latest.unit}</span> at <time className="figures whitespace-nowrap" dateTime={station.latest.takenAt}>{station.latest.takenClock}</time>
               {station.latest.exceeds === true ? <strong className="text-danger"> exceeded the limit</strong> : station.latest.exceeds === false ? " within the limit" : ""}
             </>
           ) : "no reading yet"}
@@ -144,7 +150,7 @@ function MonitoringDetail({ item, lengthUnit, timeZone }: { item: { station: Map
   return (
     <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1" data-testid="monitoring-detail">
       <dt className="text-muted">Sighting</dt><dd className="font-semibold">{sighting.species}</dd>
-      <dt className="text-muted">Seen</dt><dd><time className="figures whitespace-nowrap" dateTime={sighting.seenAt}>{clockOf(sighting.seenAt, timeZone)}</time></dd>
+      <dt className="text-muted">Seen</dt><dd><time className="figures whitespace-nowrap" dateTime={sighting.seenAt}>{sighting.seenClock}</time></dd>
       <dt className="text-muted">Distance</dt><dd>{sighting.gone ? "gone (left the area)" : sighting.distance !== null ? <span className="figures">{sighting.distance} {lengthUnit}</span> : "not given"}</dd>
       <dt className="text-muted">Observer</dt><dd>{sighting.observer}</dd>
       <dt className="text-muted">Stand-down</dt><dd>{sighting.standDownInForce ? <strong className="text-danger">in force: no in-water work</strong> : "none in force"}</dd>
@@ -158,7 +164,7 @@ function MonitoringDetail({ item, lengthUnit, timeZone }: { item: { station: Map
  * The panel's list of stations and recent sightings: each a button that shows it (and flies the
  * map to it when it has a position), so every point can be reached and read from the keyboard.
  */
-export function MonitoringPanel({ monitoring, sightings, hours, onHours, chosen, onChoose, lengthUnit, timeZone }: {
+export function MonitoringPanel({ monitoring, sightings, hours, onHours, chosen, onChoose, lengthUnit }: {
   monitoring: MapMonitoring;
   sightings: readonly MapSighting[];
   hours: SightingHours;
@@ -166,7 +172,6 @@ export function MonitoringPanel({ monitoring, sightings, hours, onHours, chosen,
   chosen: MonitoringKey | null;
   onChoose: (key: MonitoringKey) => void;
   lengthUnit: string;
-  timeZone: string;
 }) {
   const chosenItem = chosen?.startsWith("station:")
     ? (() => { const station = monitoring.stations.find((candidate) => `station:${candidate.id}` === chosen); return station ? { station } : null; })()
@@ -182,7 +187,7 @@ export function MonitoringPanel({ monitoring, sightings, hours, onHours, chosen,
   return (
     <section aria-labelledby="monitoring-title" className="space-y-2 rounded border border-line p-3 text-sm" data-testid="monitoring-panel">
       <h3 id="monitoring-title" className="font-semibold">Stations and sightings</h3>
-      {chosenItem ? <MonitoringDetail item={chosenItem} lengthUnit={lengthUnit} timeZone={timeZone} /> : <p className="text-muted">Choose a station or sighting (or click its point, or press W on the map) to read it here.</p>}
+      {chosenItem ? <MonitoringDetail item={chosenItem} lengthUnit={lengthUnit} /> : <p className="text-muted">Choose a station or sighting (or click its point, or press W on the map) to read it here.</p>}
       {monitoring.stations.length === 0 ? <p className="text-muted">No monitoring stations yet: the manager adds them on the water-quality setup page.</p> : (
         <ul aria-label="Monitoring stations" className="space-y-0.5">
           {monitoring.stations.map((station) => button(`station:${station.id}`, STATION_COLOURS[station.kind], <>{station.name} <span className="text-muted">· {STATION_KIND_LABELS[station.kind].toLowerCase()}{station.lonLat ? "" : " · no position"}</span></>))}
@@ -198,7 +203,7 @@ export function MonitoringPanel({ monitoring, sightings, hours, onHours, chosen,
           {sightings.map((sighting) => button(
             `sighting:${sighting.id}`,
             sighting.standDownInForce ? SIGHTING_COLOURS.standDown : SIGHTING_COLOURS.seen,
-            <>{sighting.species} <time className="figures whitespace-nowrap text-muted" dateTime={sighting.seenAt}>{clockOf(sighting.seenAt, timeZone)}</time>{sighting.lonLat ? "" : <span className="text-muted"> · no position</span>}</>,
+            <>{sighting.species} <time className="figures whitespace-nowrap text-muted" dateTime={sighting.seenAt}>{sighting.seenClock}</time>{sighting.lonLat ? "" : <span className="text-muted"> · no position</span>}</>,
           ))}
         </ul>
       )}
