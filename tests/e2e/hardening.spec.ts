@@ -185,7 +185,15 @@ test.describe("hardening 12: a crowd reloading the overview", () => {
     // Drawn for this reader, then kept: the kept answer was not drawn and says nothing of drawing.
     const first = await overview();
     expect(first.timing).toMatch(/^draw;dur=\d+(\.\d+)?$/);
-    const kept = await overview();
+    // Kept within its lifetime window. The windows are fixed (shifted per key, read-cache.server.ts),
+    // so on a loaded machine the read after the draw may already fall in the next one: the loaders
+    // then run again and the same page is sent as unchanged (never drawn anew), and the read after
+    // that is kept. Once in CI the first draw ended just before its window did.
+    let kept = await overview();
+    for (let attempt = 0; attempt < 3 && kept.timing !== null; attempt++) {
+      expect(kept.timing).toBe('draw;desc="unchanged: drawn before from the same data"');
+      kept = await overview();
+    }
     expect(kept.timing).toBeNull();
     expect(kept.html).toBe(first.html);
 
