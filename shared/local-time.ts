@@ -27,8 +27,16 @@ export function dateTimeFormat(locale: string, options: Intl.DateTimeFormatOptio
   return formatter;
 }
 
+/** The wall-clock formatter of each zone, looked up by zone alone: wallClock runs per record, and the key above costs a JSON text. */
+const wallClockFormatters = new Map<string, Intl.DateTimeFormat>();
+
 function formatterFor(timeZone: string): Intl.DateTimeFormat {
-  return dateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23" });
+  let formatter = wallClockFormatters.get(timeZone);
+  if (!formatter) {
+    formatter = dateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23" });
+    wallClockFormatters.set(timeZone, formatter);
+  }
+  return formatter;
 }
 
 /** The wall-clock fields of `instantMs` in `timeZone`. */
