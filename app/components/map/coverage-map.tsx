@@ -12,6 +12,7 @@ import { takeEarlyRead } from "./early-reads";
 import { mapStyleUrl } from "./map-urls";
 import { holdFramesUntilComplete } from "./hold-frames";
 import { skipSkyWhileFlat } from "./sky-pass";
+import { addLabels, splitLabels, type HeldLabel } from "./labels-after-first-frame";
 import { loadMapFonts, loadMapLibre } from "./load-maplibre";
 
 export type { LayerKey };
@@ -204,6 +205,8 @@ export function CoverageMap(props: Props) {
   useEffect(() => {
     let cancelled = false;
     let map: MapLibreMap | null = null;
+    // The label layers, drawn from just after the first complete frame (labels-after-first-frame.ts).
+    let heldLabels: HeldLabel[] = [];
     let removeWindowListeners = () => undefined as void;
     (async () => {
       const styleUrl = mapStyleUrl(window.location.origin, props.projectId);
@@ -248,6 +251,10 @@ export function CoverageMap(props: Props) {
           if (shown.has(layer.id) && layer.type !== "background") layer.layout = { ...layer.layout, visibility: shown.get(layer.id) ? "visible" : "none" } as never;
         }
         appliedZoneFilter.current = zoneNow;
+        // The labels go in just after the first complete frame: the cells are on screen sooner.
+        const { first, labels } = splitLabels(style.layers);
+        style.layers = first;
+        heldLabels = labels;
         // A small grid whose cells are already here: they go into the style too, so the first
         // frame draws them, instead of a second round through the worker and more frames after
         // the load. A large grid keeps its quick look first (below).
@@ -309,6 +316,19 @@ export function CoverageMap(props: Props) {
       map.on("load", () => {
         if (cancelled) return;
         performance.mark(`map: first complete frame (${framesHeld()} held before it)`);
+        // The labels, now that the first complete frame is drawn (before the page's effects that
+        // show, hide and filter them run).
+        const labelled = map;
+        if (heldLabels.length > 0 && labelled) {
+          addLabels(labelled, heldLabels);
+          // The first frame drawn with their tiles laid out again: the labels placed.
+          const drawn = () => {
+            if (!labelled.areTilesLoaded()) return;
+            labelled.off("render", drawn);
+            performance.mark("map: labels drawn");
+          };
+          labelled.on("render", drawn);
+        }
         // Cells that came with the style are on screen now: the map's load is its first complete frame.
         const inStyle = inlined.current;
         if (inStyle) {
