@@ -22,7 +22,10 @@ export const STATUS_LABELS: Record<CellStatus, string> = {
   confirmed: "Confirmed (closeout)",
 };
 
-/** The map's own basemap: land, and the water inside the shoreline and the work limit. */
+/**
+ * The map's own basemap: land, and the water inside the shoreline and the work limit. The land is
+ * the maps' CSS background under the canvas (app.css `--color-land`, the same value).
+ */
 export const LAND_COLOUR = "#eeede6";
 export const WATER_COLOUR = "#cfe2e8";
 /** The work limit's outline on the map and in the printed outlines. */

@@ -1,5 +1,5 @@
 import { Shoreline, Zone } from "~/lib/db.server";
-import { LAND_COLOUR, STATUS_COLOURS, WATER_COLOUR, WORK_LIMIT_COLOUR } from "../../shared/palette";
+import { STATUS_COLOURS, WATER_COLOUR, WORK_LIMIT_COLOUR } from "../../shared/palette";
 import { CELL_SOURCES } from "~/components/map/cell-sources";
 import { MARK_STYLES, PLANNED_PATTERN, TUBE_COLOURS, sharedProgramColour } from "~/components/map/paint";
 import { findProject } from "~/lib/auth/project-view.server";
@@ -61,7 +61,10 @@ export async function buildMapStyle(project: ProjectView) {
       sightings: { type: "geojson", data: emptyCollection },
     },
     layers: [
-      { id: "background", type: "background", paint: { "background-color": LAND_COLOUR } },
+      // No background layer: the land is each map's CSS background under its canvas (app.css,
+      // LAND_COLOUR). A background layer is a GPU program compiled for the first frame and a pass
+      // over every pixel at every frame, which a browser without a GPU pays on the cores that lay
+      // the tiles out (the demo's cells reached the screen 0.05–0.09 s sooner without it).
       // The water and held fills: no antialiasing (a line is drawn over each edge) and a colour that
       // shares the cells' program (sharedProgramColour); each program compiled costs the first frame.
       { id: "shoreline-water", type: "fill", source: "shoreline", paint: { "fill-color": sharedProgramColour(WATER_COLOUR), "fill-antialias": false } },

@@ -126,11 +126,16 @@ test("cells that come after the map's style are still drawn in its first complet
 
 test("a first visit reads the style and cells while the page hydrates, and the map draws nothing until its first complete frame", async ({ page, signIn }) => {
   await signIn("viewer");
-  // At each of MapLibre's frames before the load, and at the load's own, one pixel of the map's
+  // An inner cell's centre: the complete frame covers it (the land under the cells is the page's
+  // background, not drawn by the map, so a pixel of land stays empty).
+  const data = (await (await page.request.get(`/api/projects/${projectId}/cells`)).json()) as CellsData;
+  const inner = data.status.findIndex((_, index) => interior(data, index));
+  expect(inner).toBeGreaterThanOrEqual(0);
+  // At each of MapLibre's frames before the load, and at the load's own, that pixel of the map's
   // canvas (its drawing buffer is kept): a held frame leaves it as it was, empty.
   await watchMapFromItsStart(page);
-  await page.addInitScript(() => {
-    type WatchedMap = { on(type: string, listener: () => void): void; getCanvas(): HTMLCanvasElement };
+  await page.addInitScript((lonLat: [number, number]) => {
+    type WatchedMap = { on(type: string, listener: () => void): void; getCanvas(): HTMLCanvasElement; project(lngLat: [number, number]): { x: number; y: number } };
     const record = window as unknown as { framePixels: Array<{ loaded: boolean; alpha: number }>; mapWatchers: Array<(map: WatchedMap) => void> };
     record.framePixels = [];
     record.mapWatchers.push((map) => {
@@ -139,13 +144,16 @@ test("a first visit reads the style and cells while the page hydrates, and the m
       const gl = (canvas.getContext("webgl2") ?? canvas.getContext("webgl")) as WebGLRenderingContext;
       const sample = () => {
         const pixel = new Uint8Array(4);
-        gl.readPixels(Math.floor(canvas.width / 2), Math.floor(canvas.height / 2), 1, 1, gl.RGBA, gl.UNSIGNED_BYTE, pixel);
+        const point = map.project(lonLat);
+        const ratio = canvas.width / canvas.clientWidth;
+        // WebGL counts rows from the bottom.
+        gl.readPixels(Math.round(point.x * ratio), canvas.height - 1 - Math.round(point.y * ratio), 1, 1, gl.RGBA, gl.UNSIGNED_BYTE, pixel);
         record.framePixels.push({ loaded, alpha: pixel[3] });
       };
       map.on("render", () => { if (!loaded) sample(); });
       map.on("load", () => { loaded = true; sample(); });
     });
-  });
+  }, cellCentreLonLat(data, inner));
   const reads: string[] = [];
   page.on("request", (request) => {
     const path = new URL(request.url()).pathname;
