@@ -321,13 +321,13 @@ export function CoverageMap(props: Props) {
         const labelled = map;
         if (heldLabels.length > 0 && labelled) {
           addLabels(labelled, heldLabels);
-          // The first frame drawn with their tiles laid out again: the labels placed.
-          const drawn = () => {
+          // The first frame drawn with their tiles laid out again: the labels placed (they fade in from there).
+          const placed = () => {
             if (!labelled.areTilesLoaded()) return;
-            labelled.off("render", drawn);
-            performance.mark("map: labels drawn");
+            labelled.off("render", placed);
+            performance.mark("map: labels placed");
           };
-          labelled.on("render", drawn);
+          labelled.on("render", placed);
         }
         // Cells that came with the style are on screen now: the map's load is its first complete frame.
         const inStyle = inlined.current;
