@@ -59,10 +59,11 @@ describe("the manager's shoreline (map settings)", () => {
     expect(result).toMatchObject({ intent: "upload", ok: true, message: expect.stringContaining("spring-run.geojson (1 polygon, 5 vertices) uploaded") });
     const after = await style();
     expect(after.sources.shoreline.data.features?.[0].geometry).toEqual(shorelineAround());
-    // The shoreline's water sits on the land background and under the work limit, the cells and the outlines.
+    // The shoreline's water is the first layer drawn, straight on the land (the map's CSS background
+    // under its canvas, app.css), and under the work limit, the cells and the outlines.
     const order = after.layers.map((layer) => layer.id);
     const water = after.layers.find((layer) => layer.source === "shoreline" && layer.type === "fill")!;
-    expect(order.indexOf(water.id)).toBe(1);
+    expect(order.indexOf(water.id)).toBe(0);
     expect(order.indexOf(water.id)).toBeLessThan(order.indexOf("cells-fill"));
     const audit = await AuditEvent.findOne({ where: { projectId, action: "shoreline-uploaded" } });
     expect(audit?.userId).toBe(users.get("manager"));
