@@ -36,9 +36,10 @@ export async function mapMonitoring(project: ProjectView, nowMs = Date.now()): P
     nowMs,
     stations: stations.map((station, index) => {
       const reading = latest[index];
+      const takenAt = reading?.takenAt.toISOString();
       return {
         id: station.id, name: station.name, kind: station.kind, depth: station.depthRule, lonLat: lonLatOf(station.positionX, station.positionY),
-        latest: reading ? { value: reading.value, unit: reading.unit, takenAt: reading.takenAt.toISOString(), takenClock: clockOf(reading.takenAt.toISOString(), project.timeZone), exceeds: reading.exceeds } : null,
+        latest: reading && takenAt ? { value: reading.value, unit: reading.unit, takenAt, takenClock: clockOf(takenAt, project.timeZone), exceeds: reading.exceeds } : null,
       };
     }),
     sightings: sightings.map((sighting) => {
@@ -46,8 +47,9 @@ export async function mapMonitoring(project: ProjectView, nowMs = Date.now()): P
       const inForce = standDown
         ? standDownActiveAt({ startedAtMs: standDown.startedAt.getTime(), departedAtMs: standDown.departedAt?.getTime() ?? null }, nowMs, standDown.waitMinutes)
         : false;
+      const seenAt = sighting.seenAt.toISOString();
       return {
-        id: sighting.id, species: sighting.species, seenAt: sighting.seenAt.toISOString(), seenClock: clockOf(sighting.seenAt.toISOString(), project.timeZone), distance: sighting.distance, gone: sighting.gone,
+        id: sighting.id, species: sighting.species, seenAt, seenClock: clockOf(seenAt, project.timeZone), distance: sighting.distance, gone: sighting.gone,
         observer: sighting.observer, note: sighting.note, lonLat: lonLatOf(sighting.positionX, sighting.positionY), standDownInForce: inForce,
       };
     }),

@@ -248,7 +248,7 @@ export function CoverageMap(props: Props) {
         for (const layer of style.layers) {
           if (layer.id === "cells-fill" && layer.type === "fill" && cellsNow) layer.paint = { ...layer.paint, "fill-color": fillColour(viewNow, cellsNow) as never };
           if (cellLayers.has(layer.id) && zoneNow !== null && !("filter" in layer)) (layer as { filter?: unknown }).filter = ["==", ["get", "z"], zoneNow];
-          if (shown.has(layer.id) && layer.type !== "background") layer.layout = { ...layer.layout, visibility: shown.get(layer.id) ? "visible" : "none" } as never;
+          if (shown.has(layer.id)) layer.layout = { ...layer.layout, visibility: shown.get(layer.id) ? "visible" : "none" } as never;
         }
         appliedZoneFilter.current = zoneNow;
         // The labels go in just after the first complete frame: the cells are on screen sooner.
