@@ -34,6 +34,9 @@ async function openFieldPage(page: Page) {
   await expect(page).toHaveURL(/\/projects$/);
   await page.goto(`/projects/${projectId}/field`);
   await expect(page.getByRole("heading", { level: 1, name: /field entry/ })).toBeVisible();
+  // The queue's count is read from the device once the page's scripts run: the buttons work from then on
+  // (a click on the server's HTML before that did nothing, and a CI run under load timed out on it).
+  await expect(page.getByRole("heading", { level: 2, name: /^\d+ waiting to send/ })).toBeVisible();
 }
 
 async function enterDive(page: Page, note: string, cells = DIVE_CELL) {
