@@ -133,3 +133,47 @@ describe("a field marked as not in the file", () => {
     expect(next.preview.mapping.probe).toBe("probe");
   });
 });
+
+describe("the staged file read as bytes", () => {
+  // The server reads an upload with the parser's byte reader; a file without a header row takes the
+  // generated names ("column 1", …) first. The same rows with and without a header must come out the
+  // same, with the file's own row numbers (the first data row of a headerless file is row 1).
+  let site: Awaited<ReturnType<typeof makeDemoSiteProject>>;
+  const lines = readFileSync(join(DEMO_DIR, progress1.fileName), "utf8").trim().split("\n").slice(0, 21);
+  const rows = lines.slice(1);
+  rows[4] = rows[4].replace(/,[0-9.]+,(?=[^,]*$)/, ",deep,"); // row 5 of the data: a depth that is not a number
+  // A headerless export has numbers only in its first row (else that row reads as a header): easting, northing, depth.
+  const numbers = rows.map((row) => row.split(",").slice(1, 4).join(","));
+  const byName = { easting: "column 1", northing: "column 2", depth: "column 3" };
+
+  beforeAll(async () => {
+    site = await makeDemoSiteProject("bytes");
+  });
+
+  it("a headerless file with a byte-order mark and CRLF line ends gives the rows of the same file with a header", async () => {
+    const withHeader = await analyse(site.project.id, { name: "with-header.csv", text: `${["easting,northing,depth", ...numbers].join("\n")}\n` }, optionsFor(progress1), { outside: "keep" });
+    const headerless = await analyse(site.project.id, { name: "headerless.csv", text: `\ufeff${numbers.join("\r\n")}\r\n` }, optionsFor(progress1, { columns: byName }), { outside: "keep" });
+    expect(headerless.preview.shape.hasHeader).toBe(false);
+    expect(withHeader.preview.problems.map((problem) => [problem.row, problem.column])).toEqual([[6, "depth"]]);
+    expect(headerless.preview.problems.map((problem) => [problem.row, problem.column])).toEqual([[5, "column 3"]]);
+    const a = withHeader.prepared!;
+    const b = headerless.prepared!;
+    expect(Array.from(b.sourceRow)).toEqual(Array.from(a.sourceRow, (row) => row - 1));
+    expect(Array.from(b.sourceRow).slice(0, 5)).toEqual([1, 2, 3, 4, 6]);
+    expect(b.sourceRow.length).toBe(19);
+    expect(Array.from(b.easting)).toEqual(Array.from(a.easting));
+    expect(Array.from(b.northing)).toEqual(Array.from(a.northing));
+    expect(Array.from(b.depth)).toEqual(Array.from(a.depth));
+    expect(b.easting[0]).toBe(Number(numbers[0].split(",")[0]));
+  });
+
+  it("a quoted cell (the rest of the file read as text) keeps every row and its number", async () => {
+    const quoted = [...rows];
+    quoted[9] = quoted[9].replace(/^P1-(\d+),/, '"P1-$1, re-shot",');
+    const { preview, prepared } = await analyse(site.project.id, { name: "quoted.csv", text: `${[lines[0], ...quoted].join("\n")}\n` }, optionsFor(progress1), { outside: "keep" });
+    expect(preview.problems.map((problem) => problem.row)).toEqual([6]);
+    expect(prepared!.sourceRow.length).toBe(19);
+    expect(prepared!.pointId?.[8]).toMatch(/^P1-\d+, re-shot$/);
+    expect(prepared!.sourceRow[8]).toBe(11);
+  });
+});
