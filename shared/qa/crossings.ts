@@ -80,39 +80,45 @@ export function crossingDifferences(
   if (depths.length !== xs.length || lineIds.length !== xs.length) throw new Error("Each sounding needs a depth and a line");
   const grid = buildPointGrid(xs, ys, options.radius);
   const isCheck = options.isCheckLine;
-  const first: number[] = [];
-  const second: number[] = [];
-  for (let i = 0; i < xs.length; i++) {
+  // Each sounding's nearest sounding of another line (−1 when none): one typed array, and one
+  // visitor for the whole loop (a closure per sounding, lists grown by pushes and a set of pair
+  // keys were most of a 1,000,000-row import's garbage).
+  const nearestOf = new Int32Array(xs.length).fill(-1);
+  let i = 0;
+  let nearest = -1;
+  let nearestDistance = Infinity;
+  const visit = (j: number, distanceSquared: number) => {
+    if (lineIds[j] === lineIds[i] || Number.isNaN(depths[j])) return;
+    if (isCheck ? isCheck(lineIds[j]) : false) return;
+    if (distanceSquared < nearestDistance || (distanceSquared === nearestDistance && j < nearest)) {
+      nearest = j;
+      nearestDistance = distanceSquared;
+    }
+  };
+  for (i = 0; i < xs.length; i++) {
     if (Number.isNaN(depths[i])) continue;
     if (isCheck && !isCheck(lineIds[i])) continue; // pairs are taken from the check line's side
-    let nearest = -1;
-    let nearestDistance = Infinity;
-    forEachWithin(grid, xs[i], ys[i], options.radius, (j, distanceSquared) => {
-      if (lineIds[j] === lineIds[i] || Number.isNaN(depths[j])) return;
-      if (isCheck ? isCheck(lineIds[j]) : false) return;
-      if (distanceSquared < nearestDistance || (distanceSquared === nearestDistance && j < nearest)) {
-        nearest = j;
-        nearestDistance = distanceSquared;
-      }
-    });
-    if (nearest < 0) continue;
-    first.push(i);
-    second.push(nearest);
+    nearest = -1;
+    nearestDistance = Infinity;
+    forEachWithin(grid, xs[i], ys[i], options.radius, visit);
+    nearestOf[i] = nearest;
   }
-  // Drop mirrored duplicates (i, j) and (j, i).
-  const seen = new Set<number>();
-  const keptFirst: number[] = [];
-  const keptSecond: number[] = [];
-  for (let k = 0; k < first.length; k++) {
-    const low = Math.min(first[k], second[k]);
-    const high = Math.max(first[k], second[k]);
-    const key = low * xs.length + high;
-    if (seen.has(key)) continue;
-    seen.add(key);
-    keptFirst.push(first[k]);
-    keptSecond.push(second[k]);
+  // Each pair once: (i, j) and its mirror (j, i) when j's nearest is i, kept where it comes first.
+  // A sounding has one nearest, so the mirror is the only way a pair can come twice.
+  let count = 0;
+  for (let a = 0; a < xs.length; a++) {
+    const b = nearestOf[a];
+    if (b >= 0 && !(b < a && nearestOf[b] === a)) count++;
   }
-  const count = keptFirst.length;
+  const keptFirst = new Uint32Array(count);
+  const keptSecond = new Uint32Array(count);
+  for (let a = 0, k = 0; a < xs.length; a++) {
+    const b = nearestOf[a];
+    if (b < 0 || (b < a && nearestOf[b] === a)) continue;
+    keptFirst[k] = a;
+    keptSecond[k] = b;
+    k++;
+  }
   const differences = new Float64Array(count);
   const allowances = new Float64Array(count);
   let within = 0;
@@ -130,8 +136,8 @@ export function crossingDifferences(
     sumSquares += difference * difference;
   }
   return {
-    first: Uint32Array.from(keptFirst),
-    second: Uint32Array.from(keptSecond),
+    first: keptFirst,
+    second: keptSecond,
     differences,
     allowances,
     withinAllowanceShare: count === 0 ? Number.NaN : within / count,

@@ -183,6 +183,42 @@ describe("crossing lines", () => {
     expect(Math.abs(result.differences[0])).toBeCloseTo(convertLength(0.103, "m", "us-ft"), 6);
   });
 
+  it("pairs agree with a brute-force search: each sounding's nearest on another line, each pair once, in order", () => {
+    // computed invariant: the indexed search must give what checking every pair gives
+    const random = seeded(11);
+    const n = 1500;
+    const xs = new Float64Array(n).map(() => random() * 40);
+    const ys = new Float64Array(n).map(() => random() * 40);
+    // Rounded positions make ties and exact mirrors common; a few depths are missing.
+    for (let i = 0; i < n; i++) { xs[i] = Math.round(xs[i] * 4) / 4; ys[i] = Math.round(ys[i] * 4) / 4; }
+    const depths = new Float64Array(n).map((_, i) => (i % 97 === 0 ? Number.NaN : 3 + random()));
+    const lines = new Uint32Array(n).map(() => Math.floor(random() * 6));
+    const radius = 0.8;
+    const nearest = new Int32Array(n).fill(-1);
+    for (let i = 0; i < n; i++) {
+      if (Number.isNaN(depths[i])) continue;
+      let best = Infinity;
+      for (let j = 0; j < n; j++) {
+        if (lines[j] === lines[i] || Number.isNaN(depths[j])) continue;
+        const d = (xs[j] - xs[i]) ** 2 + (ys[j] - ys[i]) ** 2;
+        if (d <= radius * radius && (d < best || (d === best && j < nearest[i]))) { best = d; nearest[i] = j; }
+      }
+    }
+    const pairs: Array<[number, number]> = [];
+    const seen = new Set<string>();
+    for (let i = 0; i < n; i++) {
+      if (nearest[i] < 0) continue;
+      const key = `${Math.min(i, nearest[i])}-${Math.max(i, nearest[i])}`;
+      if (!seen.has(key)) { seen.add(key); pairs.push([i, nearest[i]]); }
+    }
+    const result = crossingDifferences(xs, ys, depths, lines, { radius, order: "1a", unit: "m" });
+    expect(pairs.length).toBeGreaterThan(300);
+    expect(pairs.length).toBeLessThan(nearest.filter((j) => j >= 0).length); // mirrors were dropped
+    expect(Array.from(result.first)).toEqual(pairs.map(([a]) => a));
+    expect(Array.from(result.second)).toEqual(pairs.map(([, b]) => b));
+    expect(Array.from(result.differences)).toEqual(pairs.map(([a, b]) => depths[a] - depths[b]));
+  });
+
   it("finds the lines from the heading when the file has no line column", () => {
     // a lawnmower pattern: east along y = 0, a sharp turn, west along y = 10, then a jump; the
     // short turn leg (15,0)→(15,10) ends at a sounding of its own line
