@@ -40,8 +40,20 @@ form.set("surveyedOn", "2026-12-01");
 form.set("waterSurfaceElevation", "30");
 form.set("crs", "EPSG:2237");
 form.set("file", await openAsBlob(file, { type: "text/csv" }), "bench-baseline.csv");
+// BENCH_TRACE=1: the server's resident memory every half second while the upload is answered.
+const trace = process.env.BENCH_TRACE === "1";
+let started = performance.now();
+let lastTrace = 0;
+const sampler = trace
+  ? setInterval(() => {
+      if (performance.now() - lastTrace < 500) return;
+      lastTrace = performance.now();
+      const now = serverMemory(environment.BENCH_APP_PID);
+      console.log(`  trace ${((lastTrace - started) / 1000).toFixed(1)} s server rss ${mb(now.rss)} MB, peak so far ${mb(now.peak)} MB`);
+    }, 100)
+  : null;
 try {
-  const started = performance.now();
+  started = performance.now();
   const response = await fetch(`${environment.BENCH_BASE_URL}/api/projects/${project.id}/surveys`, {
     method: "POST",
     headers: { Authorization: `Bearer ${token}`, Origin: environment.BENCH_BASE_URL },
@@ -57,6 +69,7 @@ try {
       `ratio to the goal (60 s, 600 MB): time ${(seconds / 60).toFixed(2)}, memory ${(after.peak / 1024 / 1024 / 600).toFixed(2)}`,
   );
 } finally {
+  if (sampler) clearInterval(sampler);
   await Survey.destroy({ where: { projectId: project.id } });
   await Membership.destroy({ where: { projectId: project.id } });
   await project.destroy();
