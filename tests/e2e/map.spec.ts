@@ -4,6 +4,7 @@ import { STATUS_COLOURS, hexToRgb } from "../../shared/palette";
 import { cellCentreLonLat, labelIndex, type CellsData } from "../../app/components/map/cell-features";
 import { fromGridFrame } from "../../shared/grid/cell-grid";
 import { createCrs } from "../../shared/crs";
+import { demoShoreline } from "./demo-shoreline";
 import { DEMO_ACCOUNTS, demoProjectId, expect, signInRequest, test, waitForMail } from "./fixtures";
 
 let projectId: number;
@@ -365,12 +366,10 @@ test("the manager uploads a shoreline, the offline style draws it, and removing 
   await signIn("manager");
   await openMap(page);
   const styleUrl = `/projects/${projectId}/map/style.json`;
-  const style = (await (await page.request.get(styleUrl)).json()) as StyleJson;
-  // A shoreline 100 m or so around the demo's work limit (its bounding box, grown).
-  const limit = style.sources["work-limit"].data.geometry!.coordinates.flat(3) as number[];
-  const lons = limit.filter((_, index) => index % 2 === 0), lats = limit.filter((_, index) => index % 2 === 1);
-  const [west, east, south, north] = [Math.min(...lons) - 0.001, Math.max(...lons) + 0.001, Math.min(...lats) - 0.001, Math.max(...lats) + 0.001];
-  const shoreline = { type: "Polygon", coordinates: [[[west, south], [east, south], [east, north], [west, north], [west, south]]] };
+  // A shoreline 100 m or so around the demo's work limit (its bounding box, grown), the one the
+  // public page's test allows while this test runs beside it.
+  const shoreline = demoShoreline();
+  const [[[west, south], [east], [, north]]] = shoreline.coordinates;
   const settings = page.getByRole("region", { name: "Map settings" });
   await expect(settings.getByTestId("shoreline-current")).toContainText("None");
   await settings.getByLabel("GeoJSON file").setInputFiles({ name: "demo-shore.geojson", mimeType: "application/geo+json", buffer: Buffer.from(JSON.stringify(shoreline)) });
