@@ -8,6 +8,8 @@ import { can, type Access } from "~/lib/auth/permissions";
 import { AUDIT_ACTIONS, recordAudit } from "~/lib/audit/audit.server";
 import type { ProjectView } from "~/lib/auth/project-view.server";
 import type { UserView } from "~/lib/auth/users.server";
+import { cachedReadFor } from "~/lib/cache/read-cache.server";
+import { oncePerRequest } from "~/lib/http/request-scope.server";
 
 /**
  * Stop-work holds around cultural finds and human remains (placed by logFind in finds.server.ts):
@@ -157,6 +159,12 @@ export async function openHoldsOn(projectId: number, cells: Array<{ row: number;
   const byHold = new Map<number, string[]>();
   for (const row of rows) byHold.set(row.holdId, [...(byHold.get(row.holdId) ?? []), row.label]);
   return [...byHold].map(([holdId, labels]) => ({ holdId, cells: labels }));
+}
+
+/** `heldCellLabels` for a page's loaders, under one key of the read cache, once per request (the layout's count and the map's cells share it). */
+export function heldCellLabelsFor(request: Request, projectId: number): Promise<string[]> {
+  const key = `held-cells:${projectId}`;
+  return oncePerRequest(request, key, () => cachedReadFor(request, key, () => heldCellLabels(projectId)));
 }
 
 /** Labels of every cell under an open hold (the map's "held" cells; no details). */

@@ -6,6 +6,8 @@ import { listStandDowns, type StandDownView } from "./wildlife.server";
 import { minutesOfClock as minutesOf } from "../../shared/local-time";
 import { instantOfClock } from "../../shared/daily-report/local-periods";
 import { DailyReport } from "~/lib/db.server";
+import { cachedReadFor } from "~/lib/cache/read-cache.server";
+import { oncePerRequest } from "~/lib/http/request-scope.server";
 
 /**
  * What stops work on the project right now: open turbidity stop-work events and wildlife
@@ -26,6 +28,15 @@ export interface Stoppages {
 export async function currentStoppages(project: ProjectView, nowMs = Date.now()): Promise<Stoppages> {
   const [stopWork, standDowns] = await Promise.all([listStopWork(project, { openOnly: true }, nowMs), listStandDowns(project, { activeOnly: true }, nowMs)]);
   return { stopWork, standDowns, nowMs: stopWork.length + standDowns.length > 0 ? nowMs : null, timeZone: project.timeZone };
+}
+
+/**
+ * `currentStoppages` for a page's loaders, under one key of the read cache and once per request
+ * (even with the cache off): the project layout's banner and the map's assign panel share one read.
+ */
+export function currentStoppagesFor(request: Request, project: ProjectView): Promise<Stoppages> {
+  const key = `stoppages:${project.id}`;
+  return oncePerRequest(request, key, () => cachedReadFor(request, key, () => currentStoppages(project)));
 }
 
 /** One sentence for the assign panel; null when nothing stops work. */

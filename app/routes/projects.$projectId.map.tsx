@@ -28,12 +28,12 @@ import { fileTooLargeMessage } from "~/lib/http/upload-size.server";
 import { readFileForm } from "~/lib/http/body.server";
 import { DomainError } from "~/lib/errors";
 import { listDiveTeams } from "~/models/assignments.server";
-import { heldCellLabels } from "~/models/holds.server";
+import { heldCellLabelsFor } from "~/models/holds.server";
 import { listSurveys } from "~/models/survey.server";
 import { findProject } from "~/lib/auth/project-view.server";
 import { SHORELINE_MAX_BYTES } from "~/models/shoreline-geojson";
 import { getShoreline, removeShoreline, saveShoreline } from "~/models/shoreline.server";
-import { currentStoppages, workStoppedMessage } from "~/models/stoppages.server";
+import { currentStoppagesFor, workStoppedMessage } from "~/models/stoppages.server";
 import { listTubes } from "~/models/dewatering.server";
 import { listZones } from "~/models/project.server";
 import { mapMonitoring } from "~/models/map-monitoring.server";
@@ -49,7 +49,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   // Held cells for those who read finds (outreach sees nothing of finds): "held", no details.
   const canReadFinds = can(access, "finds.read");
   const [teams, shoreline, row, surveys, stoppages, heldCells, register, monitoring, zones] = await Promise.all([
-    listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project), currentStoppages(project), canReadFinds ? heldCellLabels(project.id) : Promise.resolve([]),
+    listDiveTeams(project), getShoreline(project), findProject(project.id), listSurveys(project), currentStoppagesFor(request, project), canReadFinds ? heldCellLabelsFor(request, project.id) : Promise.resolve([]),
     listTubes(project), mapMonitoring(project), listZones(project),
   ]);
   // The tubes the style draws (placed on the laydown area, not yet hauled), for the legend.

@@ -4,8 +4,8 @@ import { can, roleAllows, type Action } from "~/lib/auth/permissions";
 import { requireRole } from "~/lib/auth/access.server";
 import { roleLabel } from "~/lib/auth/roles";
 import { StopWorkBanner } from "~/components/stop-work-banner";
-import { currentStoppages } from "~/models/stoppages.server";
-import { heldCellLabels } from "~/models/holds.server";
+import { currentStoppagesFor } from "~/models/stoppages.server";
+import { heldCellLabelsFor } from "~/models/holds.server";
 import { archiveStateOf } from "~/models/project-archive.server";
 import type { Route } from "./+types/projects.$projectId";
 
@@ -29,10 +29,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     // The field page (outside this layout) for members who enter field records.
     canEnterField: ["dives.log", "water-quality.record", "finds.log", "wildlife.record"].some((action) => can(access, action as Action)),
     // Open stop-work events and stand-downs show on every project page.
-    stoppages: await cachedReadFor(request, `stoppages:${project.id}`, () => currentStoppages(project)),
+    stoppages: await currentStoppagesFor(request, project),
     canReadFinds,
     // Open stop-work events show on every project page (cells only: never the find).
-    heldCellCount: canReadFinds ? (await cachedReadFor(request, `held-cells:${project.id}`, () => heldCellLabels(project.id))).length : 0,
+    heldCellCount: canReadFinds ? (await heldCellLabelsFor(request, project.id)).length : 0,
   };
 }
 
