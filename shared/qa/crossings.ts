@@ -105,18 +105,15 @@ export function crossingDifferences(
   }
   // Each pair once: (i, j) and its mirror (j, i) when j's nearest is i, kept where it comes first.
   // A sounding has one nearest, so the mirror is the only way a pair can come twice.
+  const kept = (a: number) => nearestOf[a] >= 0 && !(nearestOf[a] < a && nearestOf[nearestOf[a]] === a);
   let count = 0;
-  for (let a = 0; a < xs.length; a++) {
-    const b = nearestOf[a];
-    if (b >= 0 && !(b < a && nearestOf[b] === a)) count++;
-  }
+  for (let a = 0; a < xs.length; a++) if (kept(a)) count++;
   const keptFirst = new Uint32Array(count);
   const keptSecond = new Uint32Array(count);
   for (let a = 0, k = 0; a < xs.length; a++) {
-    const b = nearestOf[a];
-    if (b < 0 || (b < a && nearestOf[b] === a)) continue;
+    if (!kept(a)) continue;
     keptFirst[k] = a;
-    keptSecond[k] = b;
+    keptSecond[k] = nearestOf[a];
     k++;
   }
   const differences = new Float64Array(count);

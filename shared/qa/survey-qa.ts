@@ -5,6 +5,7 @@ import { soundingDensity } from "./density";
 import { findSpikes } from "./spikes";
 import { allowedTvu, type SurveyOrder } from "./tvu";
 import type { LengthUnit } from "../units";
+import { finiteValues } from "../typed/finite";
 
 /**
  * The QA figures shown before a commit and kept with the survey: soundings per cell over the work
@@ -47,15 +48,9 @@ export const MINIMUM_SOUNDINGS_PER_CELL = 4;
 export const SPIKE_NEIGHBOURS = 12;
 
 function medianOf(values: ArrayLike<number>): number | null {
-  let count = 0;
-  for (let index = 0; index < values.length; index++) if (Number.isFinite(values[index])) count++;
-  if (count === 0) return null;
   // A typed copy, sorted in place (numerically): no list of a million numbers grown by pushes.
-  const finite = new Float64Array(count);
-  let taken = 0;
-  for (let index = 0; index < values.length; index++) if (Number.isFinite(values[index])) finite[taken++] = values[index];
-  finite.sort();
-  return finite[Math.floor(count / 2)];
+  const finite = finiteValues(values).sort();
+  return finite.length === 0 ? null : finite[Math.floor(finite.length / 2)];
 }
 
 const nullable = (value: number) => (Number.isFinite(value) ? value : null);

@@ -1,5 +1,6 @@
 import type { Bounds } from "../grid/work-limit";
 import { FEET_PER_METRE } from "../units";
+import { countFinite, finiteValues } from "../typed/finite";
 
 /**
  * Finds the usual coordinate mistakes before anything is stored: a longitude/latitude file
@@ -28,22 +29,12 @@ export interface CoordinateMistake {
 }
 
 function median(values: Float64Array): number {
-  let finite = 0;
-  for (let index = 0; index < values.length; index++) if (Number.isFinite(values[index])) finite++;
+  const finite = countFinite(values);
   if (finite === 0) return Number.NaN;
   // A sample of 2,001 values is plenty for a median used to spot a mistake: every step-th finite
   // value, taken straight from the column (a copy of a 1,000,000-row column as a list, twice
   // filtered, was the import's largest allocation).
-  const step = Math.max(1, Math.floor(finite / 2001));
-  const sample = new Float64Array(Math.ceil(finite / step));
-  let seen = 0;
-  let taken = 0;
-  for (let index = 0; index < values.length; index++) {
-    if (!Number.isFinite(values[index])) continue;
-    if (seen % step === 0) sample[taken++] = values[index];
-    seen++;
-  }
-  sample.sort();
+  const sample = finiteValues(values, Math.max(1, Math.floor(finite / 2001)), finite).sort();
   return sample[Math.floor(sample.length / 2)];
 }
 
